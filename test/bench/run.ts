@@ -1,0 +1,42 @@
+/**
+ * Benchmarks: `npm run bench [filter]`. Each file test/bench/*.bench.ts exports
+ * `cases: BenchCase[]`; this runner times each case (median of repeated runs) and prints a table.
+ * No timing is asserted anywhere: these are figures to report, not tests.
+ */
+import { readdirSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+
+export interface BenchCase {
+  name: string;
+  /** One run of the thing measured (may be async). */
+  run: () => unknown | Promise<unknown>;
+  /** How many timed runs (default 50); a warm-up run always comes first. */
+  repeats?: number;
+}
+
+const here = dirname(fileURLToPath(import.meta.url));
+const filter = process.argv[2] ?? '';
+const files = readdirSync(here).filter((f) => f.endsWith('.bench.ts')).sort();
+const rows: string[] = [];
+for (const f of files) {
+  const mod = (await import(pathToFileURL(join(here, f)).href)) as { cases: BenchCase[] };
+  for (const c of mod.cases) {
+    if (filter && !c.name.includes(filter) && !f.includes(filter)) continue;
+    await c.run();
+    const times: number[] = [];
+    const n = c.repeats ?? 50;
+    for (let i = 0; i < n; i++) {
+      const t0 = performance.now();
+      await c.run();
+      times.push(performance.now() - t0);
+    }
+    times.sort((a, b) => a - b);
+    const med = times[Math.floor(n / 2)]!;
+    const p90 = times[Math.min(n - 1, Math.floor(n * 0.9))]!;
+    const line = `${c.name.padEnd(60)} median ${med.toFixed(3).padStart(10)} ms   p90 ${p90.toFixed(3).padStart(10)} ms   (n=${n})`;
+    rows.push(line);
+    console.log(line);
+  }
+}
+if (rows.length === 0) console.log('no benchmark matched');
