@@ -1,0 +1,41 @@
+import type { CommandDef } from './types.js';
+import { addOutputOptions, loadSurveyArg, outputOptions } from './common.js';
+import { emit } from '../io.js';
+import { csvLine } from '../../render/format.js';
+
+export const checkCommand: CommandDef = {
+  name: 'check',
+  description: 'validate a survey file and print it normalised (plain numbers in stated units)',
+  configure(cmd) {
+    cmd.argument('<survey>', 'survey file (YAML)');
+    addOutputOptions(cmd);
+  },
+  async action(cmd, args, io) {
+    const file = args[0] as string;
+    const opts = outputOptions(cmd.opts());
+    const survey = await loadSurveyArg(io, file);
+    const { describeSurvey } = await import('../../survey/load.js');
+    const view = describeSurvey(survey) as Record<string, unknown>;
+    const flat = flatten(view);
+    emit(
+      io,
+      opts,
+      {
+        json: () => view,
+        table: () => `${file}: valid survey file\n` + Object.entries(flat).map(([k, v]) => `  ${k} = ${v}`).join('\n') + '\n',
+        csv: () => csvLine(['key', 'value']) + Object.entries(flat).map(([k, v]) => csvLine([k, v])).join(''),
+      },
+      [file],
+    );
+    return 0;
+  },
+};
+
+function flatten(obj: unknown, prefix = '', out: Record<string, string> = {}): Record<string, string> {
+  if (obj !== null && typeof obj === 'object' && !Array.isArray(obj)) {
+    for (const [k, v] of Object.entries(obj)) flatten(v, prefix ? `${prefix}.${k}` : k, out);
+  } else {
+    out[prefix] = typeof obj === 'string' ? obj : JSON.stringify(obj);
+  }
+  return out;
+}

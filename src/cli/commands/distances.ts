@@ -1,0 +1,25 @@
+import type { CommandDef } from './types.js';
+import { addOutputOptions, outputOptions, parseNumberList } from './common.js';
+import { addCosmologyOptions, cosmologyFromOptions } from './cosmology-options.js';
+import { emit } from '../io.js';
+
+export const distancesCommand: CommandDef = {
+  name: 'distances',
+  description: 'distances, volumes and times at the given redshifts (flat Lambda-CDM)',
+  configure(cmd) {
+    cmd.requiredOption('--z <list>', 'comma-separated redshifts, e.g. 0.5,1,2');
+    addCosmologyOptions(cmd);
+    addOutputOptions(cmd);
+  },
+  async action(cmd, _args, io) {
+    const opts = cmd.opts();
+    const out = outputOptions(opts);
+    const zs = parseNumberList(String(opts.z), '--z', { min: 0 });
+    const cosmology = await cosmologyFromOptions(opts, io);
+    const { distanceTable } = await import('../../cosmology/table.js');
+    const result = distanceTable(cosmology, zs);
+    const { distancesText, distancesCsv } = await import('../../render/distances-table.js');
+    emit(io, out, { json: () => result, table: () => distancesText(result), csv: () => distancesCsv(result) }, typeof opts.survey === 'string' ? [opts.survey] : []);
+    return 0;
+  },
+};

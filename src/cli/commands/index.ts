@@ -1,0 +1,7 @@
+/** Every command of the program, in the order `--help` lists them. Add a new command here. */
+import type { CommandDef } from './types.js';
+import { predictCommand } from './predict.js';
+import { checkCommand } from './check.js';
+import { distancesCommand } from './distances.js';
+
+export const COMMANDS: CommandDef[] = [predictCommand, checkCommand, distancesCommand];

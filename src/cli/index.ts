@@ -1,0 +1,2 @@
+export { run, main, VERSION } from './main.js';
+export type { CliIO } from './io.js';

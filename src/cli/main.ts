@@ -1,0 +1,64 @@
+/**
+ * The command-line program: `run(argv, io)` returns an exit code (0 success, 1 internal failure,
+ * 2 bad input). Each command lives in src/cli/commands/<name>.ts and loads its heavy modules only
+ * when it runs, so that start-up pays only for the command used.
+ */
+import { Command, CommanderError } from 'commander';
+import { SurveyError } from '../errors.js';
+import type { CliIO } from './io.js';
+import { COMMANDS } from './commands/index.js';
+
+export const VERSION = '0.1.0';
+
+export async function run(argv: readonly string[], io: CliIO): Promise<number> {
+  const program = new Command();
+  program
+    .name('skytally')
+    .description('Expected galaxy counts, their uncertainties and forecasts for a planned survey.')
+    .version(VERSION)
+    .exitOverride()
+    .configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(s) })
+    .showHelpAfterError(false);
+  let exitCode = 0;
+  for (const def of COMMANDS) {
+    const cmd = program.command(def.name).description(def.description).exitOverride();
+    def.configure(cmd);
+    cmd.action(async (...args: unknown[]) => {
+      exitCode = await def.action(cmd, args, io);
+    });
+  }
+  try {
+    await program.parseAsync(['node', 'skytally', ...argv]);
+    return exitCode;
+  } catch (err) {
+    return handleError(err, io);
+  }
+}
+
+export function handleError(err: unknown, io: CliIO): number {
+  if (err instanceof SurveyError) {
+    io.stderr(`skytally: ${err.message}\n`);
+    return 2;
+  }
+  if (err instanceof CommanderError) {
+    if (err.code === 'commander.helpDisplayed' || err.code === 'commander.version' || err.code === 'commander.help') return 0;
+    // commander has already printed its one-line message
+    return err.exitCode === 0 ? 0 : 2;
+  }
+  const msg = err instanceof Error ? err.message : String(err);
+  io.stderr(`skytally: internal failure: ${msg}\n`);
+  if (process.env.SKYTALLY_DEBUG && err instanceof Error) io.stderr(`${err.stack}\n`);
+  return 1;
+}
+
+/** Entry point for bin/skytally.js. */
+export async function main(): Promise<void> {
+  const io: CliIO = {
+    stdout: (s) => process.stdout.write(s),
+    stderr: (s) => process.stderr.write(s),
+    cwd: process.cwd(),
+    stderrIsTTY: Boolean(process.stderr.isTTY),
+  };
+  const code = await run(process.argv.slice(2), io);
+  process.exitCode = code;
+}

@@ -1,0 +1,43 @@
+/** The rows of the `distances` command (outputs.md, "distances"). */
+import type { Cosmology } from '../survey/types.js';
+import { FlatLambdaCDM } from './flat-lcdm.js';
+import { cosmologyJsonOf, type CosmologyJsonShape } from './json.js';
+
+export interface DistanceRow {
+  z: number;
+  comoving_distance_mpc: number;
+  luminosity_distance_mpc: number;
+  angular_diameter_distance_mpc: number;
+  /** Undefined (omitted) at z = 0, where it is -infinity. */
+  distance_modulus?: number;
+  differential_comoving_volume_mpc3_sr: number;
+  comoving_volume_gpc3: number;
+  lookback_time_gyr: number;
+  age_gyr: number;
+}
+
+export interface DistanceTable {
+  cosmology: CosmologyJsonShape;
+  rows: DistanceRow[];
+}
+
+export function distanceTable(cosmology: Cosmology, zs: readonly number[]): DistanceTable {
+  const c = new FlatLambdaCDM(cosmology);
+  return {
+    cosmology: cosmologyJsonOf(cosmology),
+    rows: zs.map((z) => {
+      const row: DistanceRow = {
+        z,
+        comoving_distance_mpc: c.comovingDistanceMpc(z),
+        luminosity_distance_mpc: c.luminosityDistanceMpc(z),
+        angular_diameter_distance_mpc: c.angularDiameterDistanceMpc(z),
+        differential_comoving_volume_mpc3_sr: c.differentialComovingVolumeMpc3Sr(z),
+        comoving_volume_gpc3: c.comovingVolumeMpc3(z) / 1e9,
+        lookback_time_gyr: c.lookbackTimeGyr(z),
+        age_gyr: c.ageGyr(z),
+      };
+      if (z > 0) row.distance_modulus = c.distanceModulus(z);
+      return row;
+    }),
+  };
+}

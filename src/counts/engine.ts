@@ -1,0 +1,289 @@
+/**
+ * The count engine. For one population and one redshift slice [z1, z2]:
+ *
+ *   N = area_sr * integral_{z1}^{z2} dV_C/dz/dOmega(z) n(z) dz,
+ *   n(z) = integral over the population variable above the limit of phi(x, z) c(x, z) dx
+ *
+ * (survey-file.md, "Counting"). Without completeness n(z) is a sum of upper incomplete gamma
+ * functions; with completeness the inner integral is done by Gauss-Legendre panels in ln u.
+ * The outer integral is Gauss-Legendre in z (with z = z1 + dz t^4 near z = 0, where a flux limit
+ * makes the integrand behave like z^(2 alpha + 4)).
+ *
+ * Histograms: per slice, bins of the observed value (apparent magnitude, log10 measured line flux,
+ * log10 quantity or absolute magnitude) on multiples of the bin width; the brightest bin also holds
+ * the (negligible, e^-40 relative) tail brighter than its edge, so the counts of a slice sum to its count.
+ */
+import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import type { Population, Survey } from '../survey/types.js';
+import { gaussLegendreRule } from '../numerics/quadrature.js';
+import { upperGamma } from '../numerics/gamma.js';
+import { makeObserver, type HistogramVariable, type Observer } from '../selection/observe.js';
+import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
+import { populationAt, type ParameterOffsets } from '../population/model.js';
+import { inputError } from '../errors.js';
+
+/** u = L/L* beyond which the population is negligible (exp(-40) ~ 4e-18). */
+const U_BRIGHT_SPAN = 40;
+const LN10 = Math.LN10;
+
+export interface Histogram {
+  variable: HistogramVariable;
+  edges: number[];
+  counts: number[];
+}
+
+export interface SliceCount {
+  zMin: number;
+  zMax: number;
+  volumeMpc3: number;
+  count: number;
+  limitAtCenter: number;
+  histogram: Histogram;
+}
+
+export interface EngineOptions {
+  offsets?: ParameterOffsets;
+  /** Skip the histograms (faster; used by forecasts and plans). */
+  noHistogram?: boolean;
+}
+
+/** Redshift quadrature for [z1, z2]: nodes and weights (weights include dz). */
+export function redshiftNodes(z1: number, z2: number): { z: number[]; w: number[] } {
+  const dz = z2 - z1;
+  const n = Math.min(96, Math.max(12, Math.ceil((12 * dz) / 0.2)));
+  const rule = gaussLegendreRule(n);
+  const z: number[] = [];
+  const w: number[] = [];
+  const nearZero = z1 < 1e-3;
+  for (let i = 0; i < n; i++) {
+    const t = 0.5 * (rule.nodes[i]! + 1); // (0, 1)
+    const wt = 0.5 * rule.weights[i]!;
+    if (nearZero) {
+      // z = z1 + dz t^4, dz/dt = 4 dz t^3: tames z^(2 alpha + 4) at z -> 0.
+      z.push(z1 + dz * t ** 4);
+      w.push(wt * 4 * dz * t ** 3);
+    } else {
+      z.push(z1 + dz * t);
+      w.push(wt * dz);
+    }
+  }
+  return { z, w };
+}
+
+interface NodeState {
+  z: number;
+  /** area_sr * dV/dz/dOmega * quadrature weight: Mpc^3 per unit n. */
+  volumeWeight: number;
+  a: number;
+  log10ULimit: number;
+  components: { phiStar: number; alpha: number }[];
+}
+
+/**
+ * Count one population over the given slice edges. Slices outside the population's window count
+ * zero; slices that straddle its edge are cut to it.
+ */
+export function countPopulation(
+  survey: Survey,
+  population: Population,
+  cosmo: FlatLambdaCDM,
+  edges: readonly number[],
+  options: EngineOptions = {},
+): SliceCount[] {
+  const observer = makeObserver(survey.detection, population, cosmo);
+  const completeness = survey.detection.completeness
+    ? completenessFunction(survey.detection.completeness, survey.detection.kind, population.variable)
+    : undefined;
+  const breaks = survey.detection.completeness ? completenessBreaks(survey.detection.completeness, survey.detection.kind) : undefined;
+  const width = survey.histogramWidth;
+  const out: SliceCount[] = [];
+  for (let s = 0; s + 1 < edges.length; s++) {
+    const zMin = edges[s]!;
+    const zMax = edges[s + 1]!;
+    const volumeMpc3 = survey.areaSr * cosmo.comovingVolumeBetweenMpc3Sr(zMin, zMax);
+    const zMid = 0.5 * (zMin + zMax);
+    const lo = Math.max(zMin, population.window.min);
+    const hi = Math.min(zMax, population.window.max);
+    // The limit at the slice's middle redshift (clamped into the population's window).
+    const zCenter = Math.min(Math.max(zMid, population.window.min), population.window.max);
+    const center = observer.at(zCenter, populationAt(population, zCenter, options.offsets).characteristic);
+    const limitAtCenter = center.limitInVariable;
+    if (!(hi > lo)) {
+      const e0 = roundEdge(Math.floor(center.obsLimit / width) * width);
+      out.push({ zMin, zMax, volumeMpc3, count: 0, limitAtCenter, histogram: { variable: observer.variable, edges: [e0, roundEdge(e0 + width)], counts: [0] } });
+      continue;
+    }
+    const nodes = buildNodes(survey, population, cosmo, observer, lo, hi, options.offsets);
+    let result: { count: number; histogram: Histogram };
+    if (options.noHistogram && !completeness) {
+      let count = 0;
+      for (const nd of nodes) {
+        if (!Number.isFinite(nd.log10ULimit)) continue;
+        const u = 10 ** nd.log10ULimit;
+        let n = 0;
+        for (const c of nd.components) n += c.phiStar * upperGamma(c.alpha + 1, u);
+        count += nd.volumeWeight * n;
+      }
+      result = { count, histogram: { variable: observer.variable, edges: [], counts: [] } };
+    } else {
+      result = histogramCount(nodes, observer, width, completeness, breaks);
+    }
+    if (!Number.isFinite(result.count)) {
+      throw inputError('not_finite', survey.file, 'population', `the count in the slice ${zMin}-${zMax} is not a finite number`, 'check the Schechter parameters and the limit');
+    }
+    out.push({ zMin, zMax, volumeMpc3, count: result.count, limitAtCenter, histogram: result.histogram });
+  }
+  return out;
+}
+
+function buildNodes(
+  survey: Survey,
+  population: Population,
+  cosmo: FlatLambdaCDM,
+  observer: Observer,
+  lo: number,
+  hi: number,
+  offsets?: ParameterOffsets,
+): NodeState[] {
+  const { z, w } = redshiftNodes(lo, hi);
+  const nodes: NodeState[] = [];
+  for (let i = 0; i < z.length; i++) {
+    const zi = z[i]!;
+    const p = populationAt(population, zi, offsets);
+    const obs = observer.at(zi, p.characteristic);
+    nodes.push({
+      z: zi,
+      volumeWeight: survey.areaSr * cosmo.differentialComovingVolumeMpc3Sr(zi) * w[i]!,
+      a: obs.a,
+      log10ULimit: obs.log10ULimit,
+      components: p.components,
+    });
+  }
+  return nodes;
+}
+
+/** Histogram and total for one slice from its redshift nodes. */
+function histogramCount(
+  nodes: NodeState[],
+  observer: Observer,
+  width: number,
+  completeness: CompletenessFn | undefined,
+  breaks: { points: number[]; scale: number } | undefined,
+): { count: number; histogram: Histogram } {
+  const slope = observer.slope;
+  // Range of obs over the slice: from the limit to the bright end (u = uLim + 40 or 40).
+  let obsMin = Infinity;
+  let obsMax = -Infinity;
+  for (const nd of nodes) {
+    if (!Number.isFinite(nd.log10ULimit)) continue;
+    const uLim = 10 ** nd.log10ULimit;
+    const uBright = uLim > 1 ? uLim + U_BRIGHT_SPAN : U_BRIGHT_SPAN;
+    const o1 = nd.a + slope * nd.log10ULimit;
+    const o2 = nd.a + slope * Math.log10(uBright);
+    obsMin = Math.min(obsMin, o1, o2);
+    obsMax = Math.max(obsMax, o1, o2);
+  }
+  if (!Number.isFinite(obsMin)) {
+    return { count: 0, histogram: { variable: observer.variable, edges: [0, width], counts: [0] } };
+  }
+  const k0 = Math.floor(obsMin / width + 1e-9);
+  const k1 = Math.max(k0 + 1, Math.ceil(obsMax / width - 1e-9));
+  const nBins = k1 - k0;
+  const edges: number[] = [];
+  for (let k = 0; k <= nBins; k++) edges.push(roundEdge((k0 + k) * width));
+  const counts = new Array<number>(nBins).fill(0);
+  // Index of the brightest bin: the last for slope > 0 (bright = large obs), the first for slope < 0.
+  const brightBin = slope > 0 ? nBins - 1 : 0;
+  const gammas = new Array<number>(nBins + 1);
+  for (const nd of nodes) {
+    if (!Number.isFinite(nd.log10ULimit)) continue;
+    const l10uLim = nd.log10ULimit;
+    if (!completeness) {
+      for (const c of nd.components) {
+        const s = c.alpha + 1;
+        // Gamma(s, u) at every edge (u clipped below at the limit); the bright side is open.
+        for (let k = 0; k <= nBins; k++) {
+          const l10u = (edges[k]! - nd.a) / slope;
+          gammas[k] = l10u <= l10uLim ? NaN : upperGamma(s, 10 ** l10u);
+        }
+        const gLim = upperGamma(s, 10 ** l10uLim);
+        for (let b = 0; b < nBins; b++) {
+          // Edge indices on the faint and bright side of bin b.
+          const faint = slope > 0 ? b : b + 1;
+          const bright = slope > 0 ? b + 1 : b;
+          const gFaintRaw = gammas[faint]!;
+          const gBrightRaw = gammas[bright]!;
+          if (Number.isNaN(gBrightRaw) && b !== brightBin) continue; // whole bin below the limit
+          const gFaint = Number.isNaN(gFaintRaw) ? gLim : gFaintRaw;
+          const gBright = b === brightBin ? 0 : Number.isNaN(gBrightRaw) ? gLim : gBrightRaw;
+          const d = gFaint - gBright;
+          if (d > 0) counts[b]! += nd.volumeWeight * c.phiStar * d;
+        }
+      }
+    } else {
+      for (let b = 0; b < nBins; b++) {
+        const faintObs = slope > 0 ? edges[b]! : edges[b + 1]!;
+        const brightObs = slope > 0 ? edges[b + 1]! : edges[b]!;
+        let l10uLo = Math.max((faintObs - nd.a) / slope, l10uLim);
+        let l10uHi = (brightObs - nd.a) / slope;
+        if (b === brightBin) {
+          const uLim = 10 ** l10uLim;
+          l10uHi = Math.max(l10uHi, Math.log10(uLim > 1 ? uLim + U_BRIGHT_SPAN : U_BRIGHT_SPAN));
+        }
+        if (!(l10uHi > l10uLo)) continue;
+        counts[b]! += nd.volumeWeight * completeInBin(nd, observer, l10uLo, l10uHi, completeness, breaks!);
+      }
+    }
+  }
+  let count = 0;
+  for (const c of counts) count += c;
+  return { count, histogram: { variable: observer.variable, edges, counts } };
+}
+
+const PANEL_RULE = 8;
+
+/** integral over log10 u in [lo, hi] of phi(u) c(obs(u)) du, by Gauss-Legendre panels in ln u. */
+function completeInBin(
+  nd: NodeState,
+  observer: Observer,
+  l10lo: number,
+  l10hi: number,
+  completeness: CompletenessFn,
+  breaks: { points: number[]; scale: number },
+): number {
+  const slope = observer.slope;
+  // Panel boundaries: the bin ends, completeness break points inside, and a step no wider than
+  // the logistic width (in log10 u) or 0.05 dex.
+  const cuts = [l10lo, l10hi];
+  for (const p of breaks.points) {
+    const l = (p - nd.a) / slope;
+    if (l > l10lo && l < l10hi) cuts.push(l);
+  }
+  cuts.sort((x, y) => x - y);
+  const maxStep = Math.min(0.05, Number.isFinite(breaks.scale) ? breaks.scale / Math.abs(slope) : 0.05);
+  const rule = gaussLegendreRule(PANEL_RULE);
+  let total = 0;
+  for (let i = 0; i + 1 < cuts.length; i++) {
+    const a = cuts[i]!;
+    const b = cuts[i + 1]!;
+    const nSub = Math.max(1, Math.ceil((b - a) / maxStep));
+    const h = (b - a) / nSub;
+    for (let j = 0; j < nSub; j++) {
+      const pa = a + j * h;
+      for (let q = 0; q < PANEL_RULE; q++) {
+        const l10u = pa + 0.5 * h * (rule.nodes[q]! + 1);
+        const u = 10 ** l10u;
+        let phi = 0;
+        for (const c of nd.components) phi += c.phiStar * u ** (c.alpha + 1);
+        // du = u ln10 dlog10u
+        total += 0.5 * h * rule.weights[q]! * LN10 * phi * Math.exp(-u) * completeness(nd.a + slope * l10u);
+      }
+    }
+  }
+  return total;
+}
+
+/** Round an edge to the bin grid so that 26.750000000000004 prints as 26.75. */
+function roundEdge(x: number): number {
+  return Number(x.toPrecision(12));
+}

@@ -1,0 +1,28 @@
+/**
+ * skytally as a library: load a survey, predict counts, and use the cosmology and Schechter
+ * functions directly. Everything here is typed; units are in the names.
+ *
+ *   import { loadSurveyFile, predict } from 'skytally';
+ *   const p = predict(loadSurveyFile('samples/line-search.yaml'));
+ *   console.log(p.totals.count);
+ */
+export type { Survey, Cosmology, Detection, Population, ZParam, Completeness, Filter } from './survey/types.js';
+export { SurveyError, type ErrorCode } from './errors.js';
+export { loadSurveyFile, loadSurveyText, parseSurveyObject, describeSurvey } from './survey/load.js';
+export { predict, type Prediction, type PredictionSlice, type PredictionTotals, type PopulationPrediction } from './counts/predict.js';
+export { countPopulation, type SliceCount, type Histogram } from './counts/engine.js';
+export { FlatLambdaCDM } from './cosmology/flat-lcdm.js';
+export { resolveCosmology, PRESETS, type CosmologyPreset, type CosmologyInput } from './cosmology/presets.js';
+export { distanceTable, type DistanceRow, type DistanceTable } from './cosmology/table.js';
+export * as constants from './cosmology/constants.js';
+export {
+  schechterLuminosity,
+  schechterMagnitude,
+  schechterPerDex,
+  numberDensityAbove,
+  luminosityDensityAbove,
+  totalLuminosityDensity,
+  type SchechterComponent,
+} from './population/schechter.js';
+export { upperGamma } from './numerics/gamma.js';
+export { run, type CliIO } from './cli/index.js';

@@ -1,0 +1,102 @@
+/** Human table and CSV for a Prediction (predict command). */
+import Table from 'cli-table3';
+import type { Prediction } from '../counts/predict.js';
+import { csvLine, sig, zText } from './format.js';
+
+const LIMIT_HEADINGS: Record<string, string> = {
+  log10_luminosity: 'limit log10 L [erg/s]',
+  log10_quantity: 'limit log10 quantity',
+  absolute_magnitude: 'limit M [AB]',
+};
+
+export function cosmologyLine(c: Prediction['cosmology']): string {
+  const base = `flat Lambda-CDM, H0 = ${sig(c.h0)} km/s/Mpc, Omega_m = ${sig(c.omega_m)}, Omega_Lambda = ${sig(c.omega_lambda, 6)}, T_cmb = ${sig(c.t_cmb)} K`;
+  return c.preset ? `${base} (preset ${c.preset}: ${c.preset_source})` : base;
+}
+
+export function detectionLine(p: Prediction): string {
+  const d = p.detection;
+  if (d.kind === 'line_flux') {
+    const f = d.filter as { center_angstrom: number; fwhm_angstrom: number; profile: string } | undefined;
+    const filter = f ? `, ${f.profile} filter at ${sig(f.center_angstrom)} A (FWHM ${sig(f.fwhm_angstrom)} A)` : '';
+    return `line flux limit ${sig(d.limit_cgs as number)} erg/s/cm^2${filter}`;
+  }
+  if (d.kind === 'magnitude') {
+    return `AB magnitude limit ${sig(d.limit_ab_mag as number)} in a band at ${sig(d.band_angstrom as number)} A (spectral slope beta = ${sig(d.beta as number)})`;
+  }
+  return `threshold ${typeof d.limit === 'number' ? sig(d.limit) : JSON.stringify(d.limit)} in the population's variable`;
+}
+
+export function predictionHeader(p: Prediction): string[] {
+  const lines = [
+    p.title,
+    `Survey: ${sig(p.area_deg2)} deg^2, z = ${zText(p.redshift.min)} to ${zText(p.redshift.max)}, ${detectionLine(p)}${p.detection.completeness ? ', with completeness' : ''}`,
+    `Cosmology: ${cosmologyLine(p.cosmology)}`,
+  ];
+  for (const m of p.models) lines.push(`Assumed model: ${m.summary}`);
+  return lines;
+}
+
+export const FORECAST_CAVEAT = 'These numbers are only as good as the luminosity function assumed above.';
+
+export function predictionTable(p: Prediction): string {
+  const multi = p.populations.length > 1;
+  const head = [
+    'slice z',
+    'volume [Mpc^3]',
+    LIMIT_HEADINGS[p.limit_variable] ?? 'limit',
+    ...(multi ? p.populations.map((q) => `${q.name}`) : []),
+    'count',
+    'per deg^2',
+    'cumulative',
+  ];
+  const table = new Table({ head, style: { head: [], border: [] } });
+  p.slices.forEach((s, i) => {
+    table.push([
+      `${zText(s.z_min)} - ${zText(s.z_max)}`,
+      sig(s.volume_mpc3, 3),
+      sig(s.limit_at_center, 4),
+      ...(multi ? p.populations.map((q) => sig(q.slices[i]!.count, 4)) : []),
+      sig(s.count, 4),
+      sig(s.per_deg2, 4),
+      sig(s.cumulative_count, 4),
+    ]);
+  });
+  table.push([
+    'total',
+    sig(p.totals.volume_mpc3, 3),
+    '',
+    ...(multi ? p.populations.map((q) => sig(q.totals.count, 4)) : []),
+    sig(p.totals.count, 4),
+    sig(p.totals.per_deg2, 4),
+    '',
+  ]);
+  return [...predictionHeader(p), table.toString(), FORECAST_CAVEAT, ''].join('\n');
+}
+
+export function predictionCsv(p: Prediction): string {
+  const multi = p.populations.length > 1;
+  let out = csvLine([
+    'z_min',
+    'z_max',
+    'volume_mpc3',
+    `limit_at_center_${p.limit_variable}`,
+    ...(multi ? p.populations.map((q) => `count_${q.name}`) : []),
+    'count',
+    'per_deg2',
+    'cumulative_count',
+  ]);
+  p.slices.forEach((s, i) => {
+    out += csvLine([
+      s.z_min,
+      s.z_max,
+      s.volume_mpc3,
+      s.limit_at_center,
+      ...(multi ? p.populations.map((q) => q.slices[i]!.count) : []),
+      s.count,
+      s.per_deg2,
+      s.cumulative_count,
+    ]);
+  });
+  return out;
+}

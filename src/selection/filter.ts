@@ -1,0 +1,30 @@
+/**
+ * Filter transmission relative to the peak, as a function of observed wavelength.
+ * tophat: 1 inside center +- fwhm/2, 0 outside.
+ * gaussian: exp(-(lambda-center)^2 / (2 sigma^2)), sigma = fwhm / (2 sqrt(2 ln 2)) (common practice),
+ *           cut to 0 outside center +- 1.5 fwhm (survey-file.md).
+ */
+import type { Filter } from '../survey/types.js';
+
+export const GAUSSIAN_HALF_RANGE_FWHM = 1.5;
+const FWHM_TO_SIGMA = 1 / (2 * Math.sqrt(2 * Math.LN2));
+
+export function transmission(filter: Filter, observedAngstrom: number): number {
+  const d = observedAngstrom - filter.centerAngstrom;
+  if (filter.profile === 'tophat') return Math.abs(d) <= filter.fwhmAngstrom / 2 ? 1 : 0;
+  if (Math.abs(d) > GAUSSIAN_HALF_RANGE_FWHM * filter.fwhmAngstrom) return 0;
+  const sigma = filter.fwhmAngstrom * FWHM_TO_SIGMA;
+  return Math.exp(-(d * d) / (2 * sigma * sigma));
+}
+
+/** Observed-wavelength range [lo, hi] (Angstrom) over which a line can be counted. */
+export function filterRangeAngstrom(filter: Filter): [number, number] {
+  const half = filter.profile === 'tophat' ? filter.fwhmAngstrom / 2 : GAUSSIAN_HALF_RANGE_FWHM * filter.fwhmAngstrom;
+  return [filter.centerAngstrom - half, filter.centerAngstrom + half];
+}
+
+/** Redshift range over which a line of rest wavelength `lineAngstrom` falls in the filter. */
+export function filterRedshiftWindow(filter: Filter, lineAngstrom: number): { min: number; max: number } {
+  const [lo, hi] = filterRangeAngstrom(filter);
+  return { min: lo / lineAngstrom - 1, max: hi / lineAngstrom - 1 };
+}

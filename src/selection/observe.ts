@@ -1,0 +1,140 @@
+/**
+ * How a population member of scaled luminosity u = L/L* (or u = 10^(0.4 (M*-M))) is observed at
+ * redshift z, for each detection kind. In every kind the observed value is affine in log10 u:
+ *
+ *   obs = a(z) + slope * log10 u
+ *
+ * line_flux  (slope +1):   obs = log10 measured line flux [erg s^-1 cm^-2]
+ *                          = log10 u + log10(L* T(line (1+z)) / (4 pi D_L^2))
+ * magnitude  (slope -2.5): obs = apparent AB magnitude = M* - 2.5 log10 u + K(z), where
+ *                          K(z) = 5 log10(D_L / 10 pc) - 2.5 log10(1+z)
+ *                                 - 2.5 (beta+2) log10(band / ((1+z) rest_wavelength))
+ *                          so that the absolute-magnitude limit is M_lim(z) = limit - K(z) (survey-file.md).
+ * threshold  (slope +1 for a luminosity variable: obs = log10 quantity; -2.5 for a magnitude
+ *             variable: obs = absolute magnitude).
+ *
+ * The hard limit is obs >= obsLimit (slope > 0) or obs <= obsLimit (slope < 0), i.e.
+ * log10 u >= (obsLimit - a) / slope in both cases.
+ */
+import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import type { Detection, Population } from '../survey/types.js';
+import { MPC_CM } from '../cosmology/constants.js';
+import { transmission } from './filter.js';
+
+export type HistogramVariable = 'apparent_magnitude' | 'log10_line_flux' | 'log10_quantity' | 'absolute_magnitude';
+
+export interface Observation {
+  /** Offset a(z) in obs = a + slope log10 u. */
+  a: number;
+  slope: number;
+  /** The faintest obs counted at this z. */
+  obsLimit: number;
+  /** log10 of the limit in u = L/L*. -Infinity never occurs: a zero transmission gives +Infinity (nothing detected). */
+  log10ULimit: number;
+  /** The limit in the population's variable: log10 L (luminosity) or M (magnitude). */
+  limitInVariable: number;
+  /** Filter transmission relative to the peak (1 without a filter). */
+  transmission: number;
+}
+
+export interface Observer {
+  slope: number;
+  variable: HistogramVariable;
+  /** Observation at z, given the characteristic luminosity (erg/s or quantity unit) or magnitude at z. */
+  at(z: number, characteristic: number): Observation;
+}
+
+const FOUR_PI = 4 * Math.PI;
+const TEN_PC_MPC = 1e-5;
+
+export function makeObserver(detection: Detection, population: Population, cosmo: FlatLambdaCDM): Observer {
+  switch (detection.kind) {
+    case 'line_flux': {
+      const line = population.lineAngstrom ?? detection.lineAngstrom;
+      if (line === undefined) throw new Error('line_flux detection needs a rest wavelength');
+      const filter = detection.filter;
+      const log10Limit = Math.log10(detection.limitCgs);
+      return {
+        slope: 1,
+        variable: 'log10_line_flux',
+        at(z, lStar) {
+          const dlCm = cosmo.luminosityDistanceMpc(z) * MPC_CM;
+          const t = filter ? transmission(filter, line * (1 + z)) : 1;
+          const log10Area = Math.log10(FOUR_PI * dlCm * dlCm);
+          const a = Math.log10(lStar) + Math.log10(t) - log10Area;
+          const log10U = t > 0 ? log10Limit - a : Infinity;
+          return {
+            a,
+            slope: 1,
+            obsLimit: log10Limit,
+            log10ULimit: log10U,
+            limitInVariable: t > 0 ? log10Limit - Math.log10(t) + log10Area : Infinity,
+            transmission: t,
+          };
+        },
+      };
+    }
+    case 'magnitude': {
+      const { limitMag, bandAngstrom, beta } = detection;
+      const rest = population.restWavelengthAngstrom;
+      return {
+        slope: -2.5,
+        variable: 'apparent_magnitude',
+        at(z, mStar) {
+          const k = apparentMinusAbsolute(cosmo, z, bandAngstrom, rest, beta);
+          const a = mStar + k;
+          const mLim = limitMag - k;
+          return {
+            a,
+            slope: -2.5,
+            obsLimit: limitMag,
+            log10ULimit: (a - limitMag) / 2.5,
+            limitInVariable: mLim,
+            transmission: 1,
+          };
+        },
+      };
+    }
+    case 'threshold': {
+      const limit = detection.limit;
+      if (population.variable === 'luminosity') {
+        return {
+          slope: 1,
+          variable: 'log10_quantity',
+          at(z, qStar) {
+            const a = Math.log10(qStar);
+            const lim = limit.at(z);
+            return { a, slope: 1, obsLimit: lim, log10ULimit: lim - a, limitInVariable: lim, transmission: 1 };
+          },
+        };
+      }
+      return {
+        slope: -2.5,
+        variable: 'absolute_magnitude',
+        at(z, mStar) {
+          const lim = limit.at(z);
+          return { a: mStar, slope: -2.5, obsLimit: lim, log10ULimit: (mStar - lim) / 2.5, limitInVariable: lim, transmission: 1 };
+        },
+      };
+    }
+  }
+}
+
+/**
+ * K(z) = m - M for the power-law spectrum f_lambda ~ lambda^beta (survey-file.md):
+ * 5 log10(D_L / 10 pc) - 2.5 log10(1+z) - 2.5 (beta+2) log10(band / ((1+z) rest)).
+ */
+export function apparentMinusAbsolute(
+  cosmo: FlatLambdaCDM,
+  z: number,
+  bandAngstrom: number,
+  restAngstrom: number,
+  beta: number,
+): number {
+  const dl = cosmo.luminosityDistanceMpc(z);
+  return (
+    5 * Math.log10(dl / TEN_PC_MPC) -
+    2.5 * Math.log10(1 + z) -
+    2.5 * (beta + 2) * Math.log10(bandAngstrom / ((1 + z) * restAngstrom))
+  );
+}

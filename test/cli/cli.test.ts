@@ -1,0 +1,134 @@
+/**
+ * The command-line program through run(argv, io), plus a few real subprocess runs of the built
+ * bin (bin/skytally.js). Expected values are the library's own results (the numbers themselves
+ * are checked against references in test/counts and test/cosmology); here we check plumbing:
+ * formats, --out, exit codes and error sentences.
+ */
+import { describe, expect, test } from 'vitest';
+import { execFileSync, spawnSync } from 'node:child_process';
+import { existsSync, mkdtempSync, readFileSync, writeFileSync, readdirSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { runCli } from './helpers.js';
+import { loadSurveyFile } from '../../src/survey/load.js';
+import { predict } from '../../src/counts/predict.js';
+
+const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml') && !f.startsWith('plan'));
+
+describe('predict', () => {
+  test.each(SAMPLES)('%s runs in every format', async (f) => {
+    const json = await runCli(['predict', `samples/${f}`, '--format', 'json']);
+    expect(json.stderr).toBe('');
+    expect(json.code).toBe(0);
+    const p = JSON.parse(json.stdout);
+    expect(p.format).toBe(1);
+    expect(p.totals.count).toBeGreaterThan(0);
+    expect(json.stdout).not.toMatch(/NaN|Infinity|null/);
+    const table = await runCli(['predict', `samples/${f}`]);
+    expect(table.code).toBe(0);
+    expect(table.stdout).toContain('Assumed model');
+    expect(table.stdout).toContain('only as good as the luminosity function assumed');
+    const csv = await runCli(['predict', `samples/${f}`, '--format', 'csv']);
+    expect(csv.code).toBe(0);
+    expect(csv.stdout.trim().split('\n').length).toBe(p.slices.length + 1);
+  });
+
+  test('JSON equals the library result', async () => {
+    const f = `samples/${SAMPLES[0]}`;
+    const out = await runCli(['predict', f, '--format', 'json']);
+    const lib = predict(loadSurveyFile(f));
+    expect(JSON.parse(out.stdout)).toEqual(JSON.parse(JSON.stringify(lib)));
+  });
+
+  test('--out writes the file and nothing to stdout; refuses to overwrite the input', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'skytally-'));
+    const out = join(dir, 'p.json');
+    const r = await runCli(['predict', `samples/${SAMPLES[0]}`, '--format', 'json', '--out', out]);
+    expect(r.code).toBe(0);
+    expect(r.stdout).toBe('');
+    expect(JSON.parse(readFileSync(out, 'utf8')).format).toBe(1);
+    const input = join(dir, 's.yaml');
+    writeFileSync(input, readFileSync(`samples/${SAMPLES[0]}`));
+    const bad = await runCli(['predict', input, '--out', input]);
+    expect(bad.code).toBe(2);
+    expect(readFileSync(input, 'utf8')).toBe(readFileSync(`samples/${SAMPLES[0]}`, 'utf8'));
+  });
+
+  test('bad input: exit 2, one sentence naming the file and key, no output written', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'skytally-'));
+    const input = join(dir, 'bad.yaml');
+    writeFileSync(input, readFileSync(`samples/${SAMPLES[0]}`, 'utf8').replace(/^area:.*$/m, 'area: -3'));
+    const out = join(dir, 'never.json');
+    const r = await runCli(['predict', input, '--out', out]);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toContain('bad.yaml');
+    expect(r.stderr).toContain('area');
+    expect(r.stderr.trim().split('\n').length).toBe(1);
+    expect(r.stderr).not.toMatch(/\n\s+at /);
+    expect(existsSync(out)).toBe(false);
+  });
+
+  test('unknown option and unknown command exit 2', async () => {
+    expect((await runCli(['predict', `samples/${SAMPLES[0]}`, '--colour', 'red'])).code).toBe(2);
+    expect((await runCli(['forecastt'])).code).toBe(2);
+    expect((await runCli(['predict', `samples/${SAMPLES[0]}`, '--format', 'xml'])).code).toBe(2);
+  });
+});
+
+describe('distances', () => {
+  test('JSON rows with every key of outputs.md', async () => {
+    const r = await runCli(['distances', '--z', '0.5,1,2', '--h0', '70', '--omega-m', '0.3', '--format', 'json']);
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.stdout);
+    expect(Object.keys(j.cosmology)).toEqual(expect.arrayContaining(['h0', 'omega_m', 'omega_lambda', 'omega_r', 't_cmb']));
+    expect(j.rows).toHaveLength(3);
+    for (const row of j.rows) {
+      for (const k of ['z', 'comoving_distance_mpc', 'luminosity_distance_mpc', 'angular_diameter_distance_mpc', 'distance_modulus', 'differential_comoving_volume_mpc3_sr', 'comoving_volume_gpc3', 'lookback_time_gyr', 'age_gyr']) {
+        expect(row[k], k).toBeTypeOf('number');
+      }
+    }
+    // D_L = (1+z)^2 D_A exactly (Hogg 1999: D_L = (1+z) D_M, D_A = D_M/(1+z)), here at z = 1
+    expect(j.rows[1].luminosity_distance_mpc / (4 * j.rows[1].angular_diameter_distance_mpc)).toBeCloseTo(1, 12);
+  });
+
+  test('bad redshift list exits 2', async () => {
+    const r = await runCli(['distances', '--z', '0.5,abc']);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toContain('--z');
+  });
+
+  test('--survey takes the cosmology of a survey file', async () => {
+    const r = await runCli(['distances', '--z', '1', '--survey', 'samples/deep-continuum.yaml', '--format', 'json']);
+    expect(r.code).toBe(0);
+    expect(JSON.parse(r.stdout).cosmology.h0).toBe(67.66);
+  });
+});
+
+describe('check', () => {
+  test('prints the normalised survey', async () => {
+    const r = await runCli(['check', `samples/${SAMPLES[0]}`, '--format', 'json']);
+    expect(r.code).toBe(0);
+    expect(JSON.parse(r.stdout)).toBeTypeOf('object');
+  });
+});
+
+describe('the built program as a subprocess', () => {
+  const bin = 'bin/skytally.js';
+  test('predict --format json', () => {
+    if (!existsSync('dist/cli/skytally.js')) execFileSync('npm', ['run', 'build'], { stdio: 'ignore' });
+    const out = execFileSync(process.execPath, [bin, 'predict', `samples/${SAMPLES[0]}`, '--format', 'json'], { encoding: 'utf8' });
+    expect(JSON.parse(out).totals.count).toBeGreaterThan(0);
+  });
+  test('bad input exits with status 2 and one line on stderr', () => {
+    const r = spawnSync(process.execPath, [bin, 'predict', 'samples/does-not-exist.yaml'], { encoding: 'utf8' });
+    expect(r.status).toBe(2);
+    expect(r.stdout).toBe('');
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+  });
+  test('--help lists the commands', () => {
+    const r = spawnSync(process.execPath, [bin, '--help'], { encoding: 'utf8' });
+    expect(r.status).toBe(0);
+    expect(r.stdout).toContain('predict');
+    expect(r.stdout).toContain('distances');
+  });
+});
