@@ -108,6 +108,9 @@ function upperGammaSmallOrder(s0: number, x: number, lnx: number): number {
  */
 export function upperGamma(s: number, x: number): number {
   if (!(x >= 0) || Number.isNaN(s)) return NaN;
+  // |s| < 1e-18 changes Gamma(s, x) by a relative 1e-18 * O(ln x) only: use s = 0 (E1), which
+  // also keeps subnormal s (where s ln x underflows) accurate.
+  if (Math.abs(s) < 1e-18) s = 0;
   if (s > 0) {
     if (x === 0) return gammaStd(s);
     return gammainc(x, s, false, true);
@@ -143,6 +146,7 @@ export function upperGamma(s: number, x: number): number {
  */
 export function logUpperGamma(s: number, x: number): number {
   if (!(x > 0) || Number.isNaN(s)) return NaN;
+  if (Math.abs(s) < 1e-18) s = 0;
   if (x > X_SWITCH && x > s + 1) {
     return s * Math.log(x) - x + Math.log(upperGammaFractionH(s, x));
   }
