@@ -137,7 +137,7 @@ export function monotoneCubic(xs: ArrayLike<number>, ys: ArrayLike<number>): Int
 
 /**
  * Natural cubic spline (second derivative zero at both ends), C2.
- * @example naturalCubicSpline([0, 1, 2, 3], [0, 1, 8, 27])(1.5) // close to 3.375
+ * @example naturalCubicSpline([0, 1, 2, 3], [0, 1, 8, 27])(1.5) // 3.15 (the natural end condition is not x^3's)
  */
 export function naturalCubicSpline(xs: ArrayLike<number>, ys: ArrayLike<number>): Interpolant {
   checkGrid(xs, ys);

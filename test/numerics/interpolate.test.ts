@@ -37,6 +37,10 @@ describe('linear interpolation', () => {
 });
 
 describe('natural cubic spline', () => {
+  test('x^3 at 0, 1, 2, 3: second derivatives M1 = 4.8, M2 = 16.8 solved by hand, so s(1.5) = 3.15', () => {
+    // 4 M1 + M2 = 36, M1 + 4 M2 = 72 (de Boor 1978, ch. 4 tridiagonal system with h = 1)
+    expect(naturalCubicSpline([0, 1, 2, 3], [0, 1, 8, 27])(1.5)).toBeCloseTo(3.15, 13);
+  });
   test('reproduces a straight line exactly (its second derivative is zero at the ends)', () => {
     const xs = [0, 0.3, 1, 1.7, 4];
     const s = naturalCubicSpline(xs, xs.map((x) => 2 - x));
