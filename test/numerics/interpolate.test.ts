@@ -1,0 +1,109 @@
+/** Interpolation: exactness on functions each scheme reproduces, convergence order, monotonicity. */
+import fc from 'fast-check';
+import { describe, expect, test } from 'vitest';
+import {
+  findInterval,
+  interpLinear,
+  linearInterpolant,
+  monotoneCubic,
+  naturalCubicSpline,
+} from '../../src/numerics/interpolate.js';
+
+const grid = (a: number, b: number, n: number): number[] =>
+  Array.from({ length: n }, (_, i) => a + ((b - a) * i) / (n - 1));
+
+describe('linear interpolation', () => {
+  test('reproduces a straight line exactly and holds the end values outside', () => {
+    const xs = [0, 0.5, 2, 3];
+    const ys = xs.map((x) => 3 * x - 1);
+    for (const x of [0.1, 0.5, 1.3, 2.9]) expect(interpLinear(xs, ys, x)).toBeCloseTo(3 * x - 1, 14);
+    expect(interpLinear(xs, ys, -5)).toBe(-1);
+    expect(interpLinear(xs, ys, 10)).toBe(8);
+    expect(linearInterpolant(xs, ys)(1.3)).toBeCloseTo(2.9, 14);
+  });
+  test('findInterval brackets x', () => {
+    const xs = [0, 1, 2, 3, 4];
+    expect(findInterval(xs, 2.5)).toBe(2);
+    expect(findInterval(xs, 0)).toBe(0);
+    expect(findInterval(xs, 4)).toBe(3);
+    expect(findInterval(xs, -1)).toBe(0);
+  });
+  test('rejects an unsorted grid, mismatched lengths and non-finite values', () => {
+    expect(() => linearInterpolant([0, 2, 1], [0, 1, 2])).toThrow(/increase strictly/);
+    expect(() => linearInterpolant([0, 1], [0])).toThrow(/2 x values but 1/);
+    expect(() => monotoneCubic([0, 1], [0, NaN])).toThrow(/not finite/);
+    expect(() => naturalCubicSpline([0], [0])).toThrow(/two points/);
+  });
+});
+
+describe('natural cubic spline', () => {
+  test('x^3 at 0, 1, 2, 3: second derivatives M1 = 4.8, M2 = 16.8 solved by hand, so s(1.5) = 3.15', () => {
+    // 4 M1 + M2 = 36, M1 + 4 M2 = 72 (de Boor 1978, ch. 4 tridiagonal system with h = 1)
+    expect(naturalCubicSpline([0, 1, 2, 3], [0, 1, 8, 27])(1.5)).toBeCloseTo(3.15, 13);
+  });
+  test('reproduces a straight line exactly (its second derivative is zero at the ends)', () => {
+    const xs = [0, 0.3, 1, 1.7, 4];
+    const s = naturalCubicSpline(xs, xs.map((x) => 2 - x));
+    for (const x of [0.1, 0.9, 2.2, 3.9]) expect(s(x)).toBeCloseTo(2 - x, 13);
+  });
+  test('interpolates sin on [0, pi] (zero curvature at both ends) to 1e-8 with h = pi/200: fourth order', () => {
+    const xs = grid(0, Math.PI, 201);
+    const s = naturalCubicSpline(xs, xs.map(Math.sin));
+    let worst = 0;
+    for (let i = 0; i < 1000; i++) {
+      const x = (Math.PI * (i + 0.5)) / 1000;
+      worst = Math.max(worst, Math.abs(s(x) - Math.sin(x)));
+    }
+    expect(worst).toBeLessThan(1e-8);
+  });
+});
+
+describe('monotone cubic (Fritsch-Carlson)', () => {
+  test('passes through the data and converges at third order on e^x (error < 1e-6 for h = 0.01)', () => {
+    const xs = grid(0, 1, 101);
+    const m = monotoneCubic(xs, xs.map(Math.exp));
+    for (const x of xs) expect(m(x)).toBeCloseTo(Math.exp(x), 14);
+    let worst = 0;
+    for (let i = 0; i < 1000; i++) {
+      const x = (i + 0.5) / 1000;
+      worst = Math.max(worst, Math.abs(m(x) - Math.exp(x)));
+    }
+    expect(worst).toBeLessThan(1e-6);
+  });
+  test('no overshoot on a step (flat, jump, flat)', () => {
+    const m = monotoneCubic([0, 1, 2, 3, 4], [0, 0, 1, 1, 1]);
+    for (let i = 0; i <= 400; i++) {
+      const v = m(i / 100);
+      expect(v).toBeGreaterThanOrEqual(0);
+      expect(v).toBeLessThanOrEqual(1);
+    }
+  });
+  test('property: monotone data give a monotone interpolant', () => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.tuple(fc.double({ min: 0.01, max: 5, noNaN: true }), fc.double({ min: 0, max: 5, noNaN: true })), {
+          minLength: 3,
+          maxLength: 12,
+        }),
+        (steps) => {
+          const xs: number[] = [0];
+          const ys: number[] = [0];
+          for (const [dx, dy] of steps) {
+            xs.push(xs[xs.length - 1]! + dx);
+            ys.push(ys[ys.length - 1]! + dy);
+          }
+          const m = monotoneCubic(xs, ys);
+          const last = xs[xs.length - 1]!;
+          let prev = -Infinity;
+          for (let i = 0; i <= 300; i++) {
+            const v = m((last * i) / 300);
+            if (v < prev - 1e-12 * (1 + Math.abs(prev))) return false;
+            prev = v;
+          }
+          return true;
+        },
+      ),
+      { numRuns: 300 },
+    );
+  });
+});
