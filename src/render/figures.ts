@@ -104,18 +104,27 @@ function withTitle(surveyTitle: string | undefined, what: string): string {
   return t ? `${t}: ${what}` : what;
 }
 
-/** Widest a title line may draw [px]; longer lines end in an ellipsis (the SVG stays narrow). */
-export const TITLE_LIMIT_PX = 640;
+/**
+ * Widest a title line may draw [px, as vega estimates it in Node, about 1.4 times the width a
+ * browser draws]; longer lines end in an ellipsis so that a long survey title cannot make a
+ * figure so wide that it shrinks on the page. Single plots and small multiples differ.
+ */
+export const TITLE_LIMIT_PX = { single: 900, multiples: 1300 } as const;
 
 /**
  * Title block: the survey title on the first line, what the figure shows on the second, notes
  * (how to read it) as subtitle lines. The full, unclipped title goes to usermeta.title.
  */
-function titleBlock(surveyTitle: string | undefined, what: string, notes: string[]): { title: Spec; usermeta: Spec } {
+function titleBlock(
+  surveyTitle: string | undefined,
+  what: string,
+  notes: string[],
+  limit: number = TITLE_LIMIT_PX.single,
+): { title: Spec; usermeta: Spec } {
   const t = (surveyTitle ?? '').trim();
   const lines = t ? [t, what] : [what];
   return {
-    title: { text: lines, subtitle: notes, limit: TITLE_LIMIT_PX, subtitlePadding: 4 },
+    title: { text: lines, subtitle: notes, limit, subtitlePadding: 4 },
     usermeta: { title: withTitle(surveyTitle, what) },
   };
 }
@@ -288,7 +297,7 @@ export function histogramsSpec(p: PredictionJson, model?: ModelDescription): Spe
         : 'Detected sources per bin, per slice';
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    ...titleBlock(p.title, what, ['expected count in each bin; the bins of a slice add up to its count']),
+    ...titleBlock(p.title, what, ['expected count in each bin; the bins of a slice add up to its count'], TITLE_LIMIT_PX.multiples),
     concat: panels,
     columns: Math.min(4, panels.length),
     resolve: { scale: { x: 'shared', y: 'independent' } },
@@ -411,7 +420,7 @@ export function luminosityFunctionSpec(p: PredictionJson, model?: ModelDescripti
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
     ...titleBlock(p.title, `Assumed luminosity function${name} at each slice's middle redshift`, [
       `shaded: detected part; dashed line: limit; orange line: knee (${kneeName})`,
-    ]),
+    ], TITLE_LIMIT_PX.multiples),
     concat: specs,
     columns: Math.min(4, specs.length),
     resolve: { scale: { x: 'shared', y: 'shared' } },

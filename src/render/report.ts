@@ -378,6 +378,7 @@ table.numbers thead th { border-bottom: 2px solid #1b2a4a; vertical-align: botto
 table.numbers tfoot td { border-top: 2px solid #1b2a4a; font-weight: bold; }
 table.numbers tr.best td { background: #fbe3c6; font-weight: bold; }
 table.numbers tr.near td { background: #eaf2fb; }
+#forecast-table td:first-child, #correlation-table th[scope='row'] { text-align: left; }
 .unit { font-weight: normal; color: #555; font-size: 0.9em; }
 .key { font-family: "DejaVu Sans Mono", "Liberation Mono", monospace; font-size: 0.92em; }
 code { font-family: "DejaVu Sans Mono", "Liberation Mono", monospace; background: #f1f3f6; padding: 0 3px; }

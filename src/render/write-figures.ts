@@ -22,13 +22,21 @@ export interface WriteFiguresResult {
   pngSkipped?: string;
 }
 
-type ResvgModule = typeof import('@resvg/resvg-js');
+/** The part of @resvg/resvg-js used here (declared locally: the package is optional). */
+interface ResvgModule {
+  Resvg: new (
+    svg: string,
+    options?: { fitTo?: { mode: 'zoom'; value: number }; background?: string; font?: { loadSystemFonts?: boolean; defaultFontFamily?: string } },
+  ) => { render(): { asPng(): Uint8Array } };
+}
+const RASTERISER = '@resvg/resvg-js';
 let resvg: Promise<ResvgModule | Error> | undefined;
 
 /** Load the rasteriser once; an Error (not a throw) when it is not installed or will not load. */
 export function loadRasteriser(): Promise<ResvgModule | Error> {
-  resvg ??= import('@resvg/resvg-js').then(
-    (m) => m as ResvgModule,
+  resvg ??= (import(RASTERISER) as Promise<ResvgModule & { default?: ResvgModule }>).then(
+    // a CommonJS package: named export when Node detects it, else on the default export
+    (m) => (typeof m.Resvg === 'function' ? m : m.default!) as ResvgModule,
     (e: unknown) => new Error(`PNG not written: the rasteriser @resvg/resvg-js did not load (${e instanceof Error ? e.message : String(e)})`),
   );
   return resvg;
