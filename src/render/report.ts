@@ -134,12 +134,12 @@ function formatFixed(x: number, decimals = 2): string {
   return typeof x === 'number' && Number.isFinite(x) ? x.toFixed(decimals).replace(/^-(0\.0*)$/, '$1') : '—';
 }
 
-/** Always in powers of ten, for columns spanning decades (volumes): 1.1 × 10<sup>6</sup>. */
+/** Always in powers of ten with `sig` digits kept, for columns spanning decades (volumes): 1.10 × 10<sup>6</sup>. */
 export function formatScientific(x: number, sig = 3): string {
   if (typeof x !== 'number' || !Number.isFinite(x)) return '—';
   if (x === 0) return '0';
   const [m, e] = x.toExponential(sig - 1).split('e');
-  return `${Number(m)} × 10<sup>${Number(e)}</sup>`;
+  return `${m} × 10<sup>${Number(e)}</sup>`;
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -381,6 +381,7 @@ table.numbers tr.near td { background: #eaf2fb; }
 #forecast-table td:first-child, #correlation-table th[scope='row'] { text-align: left; }
 .unit { font-weight: normal; color: #555; font-size: 0.9em; }
 .key { font-family: "DejaVu Sans Mono", "Liberation Mono", monospace; font-size: 0.92em; }
+sup { line-height: 0; font-size: 0.75em; }
 code { font-family: "DejaVu Sans Mono", "Liberation Mono", monospace; background: #f1f3f6; padding: 0 3px; }
 pre.survey { background: #f6f7f9; border: 1px solid #dde3ea; padding: 12px 14px; overflow-x: auto;
   font-family: "DejaVu Sans Mono", "Liberation Mono", monospace; font-size: 13px; line-height: 1.4; white-space: pre; }
