@@ -8,7 +8,7 @@
  */
 export type { Survey, Cosmology, Detection, Population, ZParam, Completeness, Filter } from './survey/types.js';
 export { SurveyError, type ErrorCode } from './errors.js';
-export { loadSurveyFile, loadSurveyText, parseSurveyObject, describeSurvey } from './survey/load.js';
+export { loadSurveyFile, loadSurveyText, parseSurveyObject, describeSurvey } from './survey/index.js';
 export { predict, type Prediction, type PredictionSlice, type PredictionTotals, type PopulationPrediction } from './counts/predict.js';
 export { countPopulation, type SliceCount, type Histogram } from './counts/engine.js';
 export { FlatLambdaCDM } from './cosmology/flat-lcdm.js';

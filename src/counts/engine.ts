@@ -47,10 +47,12 @@ export interface EngineOptions {
   noHistogram?: boolean;
 }
 
-/** Redshift quadrature for [z1, z2]: nodes and weights (weights include dz). */
-export function redshiftNodes(z1: number, z2: number): { z: number[]; w: number[] } {
+/**
+ * Redshift quadrature for [z1, z2]: nodes and weights (weights include dz). `n` defaults to a
+ * number that grows with the slice width; `chooseRedshiftNodes` picks it by convergence.
+ */
+export function redshiftNodes(z1: number, z2: number, n = defaultNodeCount(z1, z2)): { z: number[]; w: number[] } {
   const dz = z2 - z1;
-  const n = Math.min(96, Math.max(12, Math.ceil((12 * dz) / 0.2)));
   const rule = gaussLegendreRule(n);
   const z: number[] = [];
   const w: number[] = [];
@@ -68,6 +70,37 @@ export function redshiftNodes(z1: number, z2: number): { z: number[]; w: number[
     }
   }
   return { z, w };
+}
+
+function defaultNodeCount(z1: number, z2: number): number {
+  return Math.min(96, Math.max(8, Math.ceil((12 * (z2 - z1)) / 0.2)));
+}
+
+/**
+ * The smallest Gauss-Legendre order (8, 16, 32, 64, 128 or 256, at least the default for the
+ * width) whose integral of `f` agrees with the next order to `rel`. The hard-limit count
+ * integrand is cheap, and its variation in z (volume, distance, filter transmission) is what the
+ * full computation sees too.
+ */
+export function chooseRedshiftNodes(z1: number, z2: number, f: (z: number) => number, rel = 1e-8): { z: number[]; w: number[] } {
+  let n = defaultNodeCount(z1, z2);
+  let prev = redshiftNodes(z1, z2, n);
+  let prevSum = sumOver(prev, f);
+  while (n < 256) {
+    const next = redshiftNodes(z1, z2, 2 * n);
+    const nextSum = sumOver(next, f);
+    if (Math.abs(nextSum - prevSum) <= rel * Math.abs(nextSum)) return prev;
+    n *= 2;
+    prev = next;
+    prevSum = nextSum;
+  }
+  return prev;
+}
+
+function sumOver(nodes: { z: number[]; w: number[] }, f: (z: number) => number): number {
+  let s = 0;
+  for (let i = 0; i < nodes.z.length; i++) s += nodes.w[i]! * f(nodes.z[i]!);
+  return s;
 }
 
 interface NodeState {
@@ -145,7 +178,16 @@ function buildNodes(
   hi: number,
   offsets?: ParameterOffsets,
 ): NodeState[] {
-  const { z, w } = redshiftNodes(lo, hi);
+  const hardCount = (zi: number): number => {
+    const p = populationAt(population, zi, offsets);
+    const obs = observer.at(zi, p.characteristic);
+    if (!Number.isFinite(obs.log10ULimit)) return 0;
+    const u = 10 ** obs.log10ULimit;
+    let n = 0;
+    for (const c of p.components) n += c.phiStar * upperGamma(c.alpha + 1, u);
+    return cosmo.differentialComovingVolumeMpc3Sr(zi) * n;
+  };
+  const { z, w } = chooseRedshiftNodes(lo, hi, hardCount);
   const nodes: NodeState[] = [];
   for (let i = 0; i < z.length; i++) {
     const zi = z[i]!;
@@ -168,7 +210,7 @@ function histogramCount(
   observer: Observer,
   width: number,
   completeness: CompletenessFn | undefined,
-  breaks: { points: number[]; scale: number } | undefined,
+  breaks: { points: number[]; scale: number; varying: [number, number] } | undefined,
 ): { count: number; histogram: Histogram } {
   const slope = observer.slope;
   // Range of obs over the slice: from the limit to the bright end (u = uLim + 40 or 40).
@@ -221,12 +263,33 @@ function histogramCount(
         }
       }
     } else {
+      const [vLo, vHi] = breaks!.varying;
       for (let b = 0; b < nBins; b++) {
         const faintObs = slope > 0 ? edges[b]! : edges[b + 1]!;
         const brightObs = slope > 0 ? edges[b + 1]! : edges[b]!;
-        let l10uLo = Math.max((faintObs - nd.a) / slope, l10uLim);
+        const l10uLo = Math.max((faintObs - nd.a) / slope, l10uLim);
         let l10uHi = (brightObs - nd.a) / slope;
-        if (b === brightBin) {
+        const open = b === brightBin;
+        if (!(l10uHi > l10uLo) && !open) continue;
+        const lowObs = Math.min(faintObs, brightObs);
+        const highObs = Math.max(faintObs, brightObs);
+        if (open || highObs <= vLo || lowObs >= vHi) {
+          // Completeness is constant over this bin (or, for the open brightest bin, beyond its
+          // edge): the closed form times that constant.
+          const cBin = completeness(0.5 * (faintObs + brightObs));
+          if (!open || highObs <= vLo || lowObs >= vHi) {
+            let n = 0;
+            const uLo = 10 ** l10uLo;
+            const uHi = open ? Infinity : 10 ** l10uHi;
+            for (const c of nd.components) {
+              const s = c.alpha + 1;
+              n += c.phiStar * (upperGamma(s, uLo) - (uHi === Infinity ? 0 : upperGamma(s, uHi)));
+            }
+            if (n > 0) counts[b]! += nd.volumeWeight * cBin * n;
+            continue;
+          }
+        }
+        if (open) {
           const uLim = 10 ** l10uLim;
           l10uHi = Math.max(l10uHi, Math.log10(uLim > 1 ? uLim + U_BRIGHT_SPAN : U_BRIGHT_SPAN));
         }
@@ -260,7 +323,7 @@ function completeInBin(
     if (l > l10lo && l < l10hi) cuts.push(l);
   }
   cuts.sort((x, y) => x - y);
-  const maxStep = Math.min(0.05, Number.isFinite(breaks.scale) ? breaks.scale / Math.abs(slope) : 0.05);
+  const maxStep = Math.min(0.1, Number.isFinite(breaks.scale) ? breaks.scale / Math.abs(slope) : 0.1);
   const rule = gaussLegendreRule(PANEL_RULE);
   let total = 0;
   for (let i = 0; i + 1 < cuts.length; i++) {

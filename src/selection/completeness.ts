@@ -43,11 +43,22 @@ export function completenessFunction(
 }
 
 /**
- * Points in obs where the completeness changes fast or has kinks, for quadrature panel splits:
- * table nodes, or the logistic's half point with a scale.
+ * Where the completeness varies, for quadrature: break points (table nodes or the logistic's half
+ * point), a panel scale (the logistic width; Infinity for tables) and the obs range outside which
+ * completeness is constant (the table's end values, or the logistic within 2.1e-9 of 1 or 4.3e-18 of 0).
  */
-export function completenessBreaks(c: Completeness, kind: DetectionKind): { points: number[]; scale: number } {
+export function completenessBreaks(
+  c: Completeness,
+  kind: DetectionKind,
+): { points: number[]; scale: number; varying: [number, number] } {
   const sign = completenessOrientation(kind);
-  if (c.model === 'logistic') return { points: [sign * c.half], scale: c.width };
-  return { points: c.x.map((x) => sign * x), scale: Infinity };
+  const toObs = (x: number) => sign * x;
+  if (c.model === 'logistic') {
+    // Brighter than half - 20 width, 1 - c < 2.1e-9; fainter than half + 40 width, c < 4.3e-18.
+    const a = toObs(c.half - 20 * c.width);
+    const b = toObs(c.half + 40 * c.width);
+    return { points: [toObs(c.half)], scale: c.width, varying: [Math.min(a, b), Math.max(a, b)] };
+  }
+  const ends = [toObs(c.x[0]!), toObs(c.x[c.x.length - 1]!)];
+  return { points: c.x.map(toObs), scale: Infinity, varying: [Math.min(...ends), Math.max(...ends)] };
 }

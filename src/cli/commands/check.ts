@@ -14,7 +14,7 @@ export const checkCommand: CommandDef = {
     const file = args[0] as string;
     const opts = outputOptions(cmd.opts());
     const survey = await loadSurveyArg(io, file);
-    const { describeSurvey } = await import('../../survey/load.js');
+    const { describeSurvey } = await import('../../survey/index.js');
     const view = describeSurvey(survey) as Record<string, unknown>;
     const flat = flatten(view);
     emit(

@@ -16,7 +16,7 @@ export function outputOptions(opts: Record<string, unknown>): OutputOptions {
 }
 
 export async function loadSurveyArg(io: CliIO, file: string) {
-  const { loadSurveyFile } = await import('../../survey/load.js');
+  const { loadSurveyFile } = await import('../../survey/index.js');
   return loadSurveyFile(resolve(io.cwd, file));
 }
 

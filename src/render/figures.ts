@@ -1,0 +1,766 @@
+/**
+ * Figures: vega-lite specifications built from result objects, drawn to SVG in Node.
+ *
+ * Each `*Spec` function is pure and synchronous (result object in, vega-lite spec out, or null
+ * when the piece it draws is absent). Each `*Figure` function renders its spec to SVG and
+ * returns {name, title, spec, svg}. vega and vega-lite are loaded on first render only
+ * (dynamic import), so commands that draw nothing never load them.
+ *
+ * Drawing never touches the network or the disk: data are inline values, and the vega loader
+ * handed to the view refuses every URL, file and image it is asked for.
+ */
+import type {
+  Figure,
+  ForecastJson,
+  LuminosityFunctionCurve,
+  ModelDescription,
+  PlanJson,
+  PredictionJson,
+  SliceJson,
+} from './types.js';
+
+type Spec = Record<string, unknown>;
+
+/**
+ * Colours, chosen for this project (not taken from a published palette): one blue/orange pair,
+ * which stays distinct for red-green colour deficiency, plus a near-black ink and a pale blue,
+ * spaced in CIE L* lightness (17, 42, 65, 87) so that every pair also differs in greyscale print.
+ * test/render/figures.test.ts recomputes L* (CIE 15 / sRGB IEC 61966-2-1 formulas) and checks
+ * the spacing.
+ */
+export const PALETTE = {
+  /** Text, error bars, limits, fiducial point. */
+  ink: '#1b2a4a',
+  /** Main data: bars, curves, 1-sigma region, plan curve. */
+  blue: '#2b65a8',
+  /** Highlights: knee, best design, mock fits. */
+  orange: '#de8a2a',
+  /** Fills: detected part, near-best band. */
+  pale: '#c7dbf0',
+} as const;
+
+/** Fonts named in the SVG; none is fetched (these are installed or fall back to sans-serif). */
+export const FONT = 'DejaVu Sans, Liberation Sans, Arial, Helvetica, sans-serif';
+
+/** Shared look: sizes that stay readable when printed at column width. */
+const CONFIG: Spec = {
+  font: FONT,
+  background: 'white',
+  padding: 10,
+  view: { stroke: '#9aa3b0' },
+  title: {
+    fontSize: 15,
+    fontWeight: 'bold',
+    subtitleFontSize: 12,
+    subtitleColor: '#333333',
+    anchor: 'start',
+    color: PALETTE.ink,
+    offset: 10,
+  },
+  axis: {
+    labelFontSize: 12,
+    titleFontSize: 13,
+    titleFontWeight: 'normal',
+    labelColor: '#222222',
+    titleColor: '#111111',
+    gridColor: '#e4e7ec',
+    domainColor: '#555555',
+    tickColor: '#555555',
+  },
+  header: { labelFontSize: 12, titleFontSize: 13 },
+  legend: { labelFontSize: 12, titleFontSize: 12 },
+  concat: { spacing: 18 },
+};
+
+/**
+ * Delta chi-square of the joint 2-parameter regions drawn as "1 sigma" and "2 sigma": the
+ * chi-square (2 degrees of freedom) quantiles at the normal 1- and 2-sigma probabilities,
+ * Delta chi2 = -2 ln(1 - p) with p = erf(k / sqrt 2). Closed form for 2 degrees of freedom;
+ * the values 2.30 and 6.17 are tabulated by Coe (2009), arXiv:0906.4123, table 1.
+ */
+export const DELTA_CHI2_2D = {
+  one: -2 * Math.log(1 - 0.6826894921370859),
+  two: -2 * Math.log(1 - 0.9544997361036416),
+} as const;
+
+// ---------------------------------------------------------------------------------------------
+// Small helpers
+
+const finite = (...xs: unknown[]): boolean => xs.every((x) => typeof x === 'number' && Number.isFinite(x));
+
+/** "0.80–1.00": a redshift range with the digits its edges need (up to 4 decimals). */
+export function formatRange(a: number, b: number): string {
+  const digits = Math.max(decimals(a), decimals(b), 2);
+  return `${a.toFixed(digits)}–${b.toFixed(digits)}`;
+}
+
+function decimals(x: number): number {
+  for (let d = 0; d <= 4; d++) if (Math.abs(Number(x.toFixed(d)) - x) < 1e-9) return d;
+  return 4;
+}
+
+function withTitle(surveyTitle: string | undefined, what: string): string {
+  const t = (surveyTitle ?? '').trim();
+  return t ? `${t}: ${what}` : what;
+}
+
+/**
+ * Widest a title line may draw [px, as vega estimates it in Node, about 1.4 times the width a
+ * browser draws]; longer lines end in an ellipsis so that a long survey title cannot make a
+ * figure so wide that it shrinks on the page. Single plots and small multiples differ.
+ */
+export const TITLE_LIMIT_PX = { single: 900, multiples: 1300 } as const;
+
+/**
+ * Title block: the survey title on the first line, what the figure shows on the second, notes
+ * (how to read it) as subtitle lines. The full, unclipped title goes to usermeta.title.
+ */
+function titleBlock(
+  surveyTitle: string | undefined,
+  what: string,
+  notes: string[],
+  limit: number = TITLE_LIMIT_PX.single,
+): { title: Spec; usermeta: Spec } {
+  const t = (surveyTitle ?? '').trim();
+  const lines = t ? [t, what] : [what];
+  return {
+    title: { text: lines, subtitle: notes, limit, subtitlePadding: 4 },
+    usermeta: { title: withTitle(surveyTitle, what) },
+  };
+}
+
+function models(m: ModelDescription | ModelDescription[] | undefined): ModelDescription[] {
+  if (!m) return [];
+  return Array.isArray(m) ? m : [m];
+}
+
+/** True when the population variable is absolute magnitude (brighter = smaller). */
+function isMagnitude(model: ModelDescription | undefined, curve?: LuminosityFunctionCurve): boolean {
+  if (model?.variable === 'magnitude') return true;
+  if (model?.variable === 'luminosity') return false;
+  const label = curve?.x_label ?? '';
+  return /magnitude|\bmag\b|^M\b/i.test(label);
+}
+
+const histogramLabels: Record<string, string> = {
+  apparent_magnitude: 'apparent AB magnitude [mag]',
+  log10_line_flux: 'log₁₀ line flux [erg s⁻¹ cm⁻²]',
+};
+
+function histogramAxisLabel(variable: string, model: ModelDescription | undefined): string {
+  const known = histogramLabels[variable];
+  if (known) return known;
+  if (variable === 'log10_quantity') {
+    const q = typeof model?.quantity === 'string' && model.quantity.trim() ? model.quantity.trim() : 'quantity';
+    return `log₁₀ ${q}`;
+  }
+  return variable;
+}
+
+// ---------------------------------------------------------------------------------------------
+// 1. Counts per redshift slice
+
+export interface CountRow {
+  slice: number;
+  z_min: number;
+  z_max: number;
+  z_mid: number;
+  count: number;
+  per_deg2: number;
+  /** count * (1 - total_fraction), present with an uncertainty. */
+  low?: number;
+  high?: number;
+}
+
+export function countRows(p: PredictionJson): CountRow[] {
+  return p.slices
+    .map((s, i) => {
+      const row: CountRow = {
+        slice: i + 1,
+        z_min: s.z_min,
+        z_max: s.z_max,
+        z_mid: (s.z_min + s.z_max) / 2,
+        count: s.count,
+        per_deg2: s.per_deg2,
+      };
+      const f = s.uncertainty?.total_fraction;
+      if (finite(f)) {
+        row.low = Math.max(0, s.count * (1 - (f as number)));
+        row.high = s.count * (1 + (f as number));
+      }
+      return row;
+    })
+    .filter((r) => finite(r.z_min, r.z_max, r.count));
+}
+
+export function countsSpec(p: PredictionJson): Spec | null {
+  const rows = countRows(p);
+  if (rows.length === 0) return null;
+  const withErrors = rows.some((r) => r.low !== undefined);
+  const layers: Spec[] = [
+    {
+      mark: { type: 'bar', fill: PALETTE.blue, stroke: 'white', strokeWidth: 1 },
+      encoding: {
+        x: { field: 'z_min', type: 'quantitative', title: 'redshift z', scale: { zero: false, nice: false } },
+        x2: { field: 'z_max' },
+        y: { field: 'count', type: 'quantitative', title: 'expected count per slice' },
+        y2: { datum: 0 },
+        tooltip: [
+          { field: 'slice', type: 'ordinal' },
+          { field: 'z_min', type: 'quantitative' },
+          { field: 'z_max', type: 'quantitative' },
+          { field: 'count', type: 'quantitative', format: '.6~g' },
+        ],
+      },
+    },
+  ];
+  if (withErrors) {
+    layers.push({
+      transform: [{ filter: 'isValid(datum.low)' }],
+      mark: { type: 'errorbar', ticks: { color: PALETTE.ink, size: 8 }, rule: { color: PALETTE.ink, strokeWidth: 1.5 } },
+      encoding: {
+        x: { field: 'z_mid', type: 'quantitative' },
+        y: { field: 'low', type: 'quantitative', title: 'expected count per slice' },
+        y2: { field: 'high' },
+      },
+    });
+  }
+  const notes = withErrors
+    ? [`${rows.length} slices; bars: expected count`, 'error bars: 1σ, Poisson and cosmic variance combined']
+    : [`${rows.length} slices; bars: expected count`];
+  return {
+    $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
+    ...titleBlock(p.title, 'Expected count per redshift slice', notes),
+    width: 560,
+    height: 300,
+    data: { values: rows },
+    layer: layers,
+    config: CONFIG,
+  };
+}
+
+// ---------------------------------------------------------------------------------------------
+// 2. Histogram of each slice, as small multiples
+
+export interface HistogramRow {
+  lo: number;
+  hi: number;
+  count: number;
+}
+
+export function histogramRows(s: SliceJson): HistogramRow[] {
+  const h = s.histogram;
+  if (!h || !Array.isArray(h.edges) || !Array.isArray(h.counts)) return [];
+  const rows: HistogramRow[] = [];
+  for (let i = 0; i < h.counts.length && i + 1 < h.edges.length; i++) {
+    const lo = h.edges[i]!;
+    const hi = h.edges[i + 1]!;
+    const count = h.counts[i]!;
+    if (finite(lo, hi, count)) rows.push({ lo, hi, count });
+  }
+  return rows;
+}
+
+export function histogramsSpec(p: PredictionJson, model?: ModelDescription): Spec | null {
+  const m = model ?? models(p.model)[0];
+  const panels: Spec[] = [];
+  let variable = '';
+  for (const s of p.slices) {
+    const rows = histogramRows(s);
+    if (rows.length === 0) continue;
+    variable ||= s.histogram!.variable;
+    panels.push({
+      title: { text: `z ${formatRange(s.z_min, s.z_max)}`, fontSize: 12, fontWeight: 'normal', subtitle: '' },
+      width: 170,
+      height: 110,
+      data: { values: rows },
+      mark: { type: 'bar', fill: PALETTE.blue, stroke: 'white', strokeWidth: 0.5 },
+      encoding: {
+        x: {
+          field: 'lo',
+          type: 'quantitative',
+          title: histogramAxisLabel(s.histogram!.variable, m),
+          scale: { zero: false, nice: false },
+        },
+        x2: { field: 'hi' },
+        y: { field: 'count', type: 'quantitative', title: 'count per bin', axis: { tickCount: 4 } },
+        y2: { datum: 0 },
+      },
+    });
+  }
+  if (panels.length === 0) return null;
+  const what =
+    variable === 'apparent_magnitude'
+      ? 'Apparent magnitudes of the detected sources, per slice'
+      : variable === 'log10_line_flux'
+        ? 'Line fluxes of the detected sources, per slice'
+        : 'Detected sources per bin, per slice';
+  return {
+    $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
+    ...titleBlock(p.title, what, ['expected count in each bin; the bins of a slice add up to its count'], TITLE_LIMIT_PX.multiples),
+    concat: panels,
+    columns: Math.min(4, panels.length),
+    resolve: { scale: { x: 'shared', y: 'independent' } },
+    config: CONFIG,
+  };
+}
+
+// ---------------------------------------------------------------------------------------------
+// 3. The assumed luminosity function at each slice's middle redshift
+
+/** Decades of number density shown below the highest value. */
+export const LF_DECADES = 6;
+
+/**
+ * The part of a curve on the detected side of `limit` (x >= limit in log10 L, x <= limit in
+ * magnitude), starting exactly at the limit: the point there is interpolated linearly in
+ * log10 phi between its neighbours. Rows must be sorted by x (either direction).
+ */
+export function detectedPart(
+  rows: { x: number; phi: number }[],
+  limit: number,
+  magnitude: boolean,
+): { x: number; phi: number }[] {
+  const inside = (x: number) => (magnitude ? x <= limit : x >= limit);
+  const out: { x: number; phi: number }[] = [];
+  for (let i = 0; i < rows.length; i++) {
+    const r = rows[i]!;
+    const prev = rows[i - 1];
+    if (prev && inside(r.x) !== inside(prev.x) && r.x !== limit && prev.x !== limit) {
+      const t = (limit - prev.x) / (r.x - prev.x);
+      const lp = Math.log10(prev.phi) + t * (Math.log10(r.phi) - Math.log10(prev.phi));
+      out.push({ x: limit, phi: 10 ** lp });
+    }
+    if (inside(r.x)) out.push(r);
+  }
+  return out;
+}
+
+export function luminosityFunctionSpec(p: PredictionJson, model?: ModelDescription): Spec | null {
+  const m = model ?? models(p.model)[0];
+  interface Panel {
+    s: SliceJson;
+    c: LuminosityFunctionCurve;
+    rows: { x: number; phi: number }[];
+  }
+  const panels: Panel[] = [];
+  for (const s of p.slices) {
+    const c = s.luminosity_function;
+    if (!c || !Array.isArray(c.x) || !Array.isArray(c.phi)) continue;
+    const rows: { x: number; phi: number }[] = [];
+    for (let i = 0; i < Math.min(c.x.length, c.phi.length); i++) {
+      const x = c.x[i]!;
+      const phi = c.phi[i]!;
+      if (finite(x, phi) && phi > 0) rows.push({ x, phi });
+    }
+    if (rows.length >= 2) panels.push({ s, c, rows });
+  }
+  // Keep LF_DECADES decades below the highest density: the exponential cut-off otherwise
+  // stretches the log axis over many empty decades.
+  const top = Math.max(...panels.flatMap((q) => q.rows.map((r) => r.phi)));
+  for (const q of panels) q.rows = q.rows.filter((r) => r.phi >= top * 10 ** -LF_DECADES);
+  const drawn = panels.filter((q) => q.rows.length >= 2);
+  if (drawn.length === 0) return null;
+  const magnitude = isMagnitude(m, drawn[0]!.c);
+  const floor = Math.min(...drawn.flatMap((q) => q.rows.map((r) => r.phi)));
+  const xLabel = drawn[0]!.c.x_label ?? (magnitude ? 'absolute AB magnitude M [mag]' : 'log₁₀ L [erg s⁻¹]');
+  const yLabel = magnitude ? 'φ [Mpc⁻³ mag⁻¹]' : 'φ [Mpc⁻³ dex⁻¹]';
+  const kneeName = magnitude ? 'M*' : 'L*';
+
+  const specs: Spec[] = drawn.map(({ s, c, rows }) => {
+    const detected = finite(c.limit) ? detectedPart(rows, c.limit!, magnitude).map((r) => ({ ...r, floor })) : [];
+    const layer: Spec[] = [];
+    if (detected.length >= 2) {
+      layer.push({
+        data: { values: detected },
+        mark: { type: 'area', color: PALETTE.pale, opacity: 1 },
+        encoding: {
+          x: { field: 'x', type: 'quantitative' },
+          y: { field: 'phi', type: 'quantitative' },
+          y2: { field: 'floor' },
+        },
+      });
+    }
+    layer.push({
+      data: { values: rows },
+      mark: { type: 'line', color: PALETTE.blue, strokeWidth: 2 },
+      encoding: {
+        x: { field: 'x', type: 'quantitative', title: xLabel, scale: { zero: false, nice: false } },
+        y: { field: 'phi', type: 'quantitative', title: yLabel, scale: { type: 'log' }, axis: { format: '.0e', tickCount: 4 } },
+      },
+    });
+    if (finite(c.limit)) {
+      layer.push({
+        data: { values: [{ x: c.limit, what: 'limit' }] },
+        mark: { type: 'rule', color: PALETTE.ink, strokeDash: [5, 3], strokeWidth: 1.5 },
+        encoding: { x: { field: 'x', type: 'quantitative' } },
+      });
+    }
+    if (finite(c.knee)) {
+      layer.push({
+        data: { values: [{ x: c.knee, label: kneeName }] },
+        layer: [
+          { mark: { type: 'rule', color: PALETTE.orange, strokeWidth: 2.5 }, encoding: { x: { field: 'x', type: 'quantitative' } } },
+          {
+            mark: { type: 'text', color: '#7a4300', fontWeight: 'bold', fontSize: 12, align: 'left', dx: 4, dy: 2, baseline: 'top', y: 0 },
+            encoding: { x: { field: 'x', type: 'quantitative' }, text: { field: 'label' } },
+          },
+        ],
+      });
+    }
+    return {
+      title: { text: `z ${formatRange(s.z_min, s.z_max)} (at z = ${((s.z_min + s.z_max) / 2).toFixed(3)})`, fontSize: 12, fontWeight: 'normal', subtitle: '' },
+      width: 200,
+      height: 140,
+      layer,
+    };
+  });
+  const name = typeof m?.name === 'string' && m.name ? ` (${m.name})` : '';
+  return {
+    $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
+    ...titleBlock(p.title, `Assumed luminosity function${name} at each slice's middle redshift`, [
+      `shaded: detected part; dashed line: limit; orange line: knee (${kneeName})`,
+    ], TITLE_LIMIT_PX.multiples),
+    concat: specs,
+    columns: Math.min(4, specs.length),
+    resolve: { scale: { x: 'shared', y: 'shared' } },
+    config: CONFIG,
+  };
+}
+
+// ---------------------------------------------------------------------------------------------
+// 4. Forecast: Fisher ellipses with mock fits
+
+/** 2x2 covariance [[a, b], [b, c]]. */
+export type Cov2 = [[number, number], [number, number]];
+
+/**
+ * Points on the ellipse (p - c)^T C^-1 (p - c) = deltaChi2, via the Cholesky factor of C
+ * (p = c + sqrt(deltaChi2) L [cos t, sin t]). Closed (last point = first). Returns [] unless C is
+ * positive definite.
+ */
+export function ellipsePoints(
+  cx: number,
+  cy: number,
+  cov: Cov2,
+  deltaChi2: number,
+  n = 120,
+): { x: number; y: number }[] {
+  const a = cov[0][0];
+  const b = cov[0][1];
+  const c = cov[1][1];
+  if (!finite(a, b, c, cx, cy, deltaChi2) || a <= 0) return [];
+  const l11 = Math.sqrt(a);
+  const l21 = b / l11;
+  const d = c - l21 * l21;
+  if (!(d > 0)) return [];
+  const l22 = Math.sqrt(d);
+  const r = Math.sqrt(deltaChi2);
+  const pts: { x: number; y: number }[] = [];
+  for (let i = 0; i <= n; i++) {
+    const t = (2 * Math.PI * (i % n)) / n;
+    const u = r * Math.cos(t);
+    const v = r * Math.sin(t);
+    pts.push({ x: cx + l11 * u, y: cy + l21 * u + l22 * v });
+  }
+  return pts;
+}
+
+/** The two parameters drawn and how to read them from a forecast. */
+export interface EllipseAxes {
+  x: { name: string; label: string };
+  y: { name: string; label: string; log10: boolean };
+  center: [number, number];
+  cov: Cov2;
+}
+
+/**
+ * alpha against log10 L* (or M*): centre and marginal 2x2 covariance, built from the marginal
+ * sigmas and their correlation. A forecast in linear L* is moved to log10 L* to first order
+ * (sigma_log = sigma / (L ln 10)). Null when either parameter is missing or the numbers do not
+ * make a covariance.
+ */
+export function ellipseAxes(f: ForecastJson): EllipseAxes | null {
+  const names = f.parameters ?? [];
+  const ix = names.indexOf('alpha');
+  const yName = ['log10_l_star', 'm_star', 'l_star'].find((n) => names.includes(n));
+  if (ix < 0 || !yName) return null;
+  const iy = names.indexOf(yName);
+  const sx = f.fisher?.sigma?.alpha;
+  let sy = f.fisher?.sigma?.[yName];
+  const rho = f.fisher?.correlation?.[ix]?.[iy];
+  const cxv = f.center?.alpha;
+  let cyv = f.center?.[yName];
+  if (!finite(sx, sy, rho, cxv, cyv)) return null;
+  const log10 = yName === 'l_star';
+  if (log10) {
+    if (!((cyv as number) > 0)) return null;
+    sy = (sy as number) / ((cyv as number) * Math.LN10);
+    cyv = Math.log10(cyv as number);
+  }
+  const sxn = sx as number;
+  const syn = sy as number;
+  const r = rho as number;
+  if (!(sxn > 0 && syn > 0 && Math.abs(r) < 1)) return null;
+  return {
+    x: { name: 'alpha', label: 'faint-end slope α' },
+    y: {
+      name: yName,
+      label: yName === 'm_star' ? 'M* [AB mag]' : 'log₁₀ L* [erg s⁻¹]',
+      log10,
+    },
+    center: [cxv as number, cyv as number],
+    cov: [
+      [sxn * sxn, r * sxn * syn],
+      [r * sxn * syn, syn * syn],
+    ],
+  };
+}
+
+export function forecastSpec(f: ForecastJson, surveyTitle?: string): Spec | null {
+  const axes = ellipseAxes(f);
+  if (!axes) return null;
+  const [cx, cy] = axes.center;
+  const contours = [
+    { label: '1σ (68.3%)', dchi2: DELTA_CHI2_2D.one, dash: [] as number[], width: 2.5 },
+    { label: '2σ (95.4%)', dchi2: DELTA_CHI2_2D.two, dash: [7, 4], width: 2 },
+  ];
+  const lines = contours.flatMap((k) =>
+    ellipsePoints(cx, cy, axes.cov, k.dchi2).map((pt, i) => ({ ...pt, order: i, region: k.label })),
+  );
+  if (lines.length === 0) return null;
+
+  // Mock fits, columns in the order of mocks.parameters or parameters.
+  const cols = f.mocks?.parameters ?? f.parameters;
+  const jx = cols.indexOf(axes.x.name);
+  const jy = cols.indexOf(axes.y.name);
+  const mocks: { x: number; y: number }[] = [];
+  if (Array.isArray(f.mocks?.fits) && jx >= 0 && jy >= 0) {
+    for (const row of f.mocks!.fits!) {
+      const x = row?.[jx];
+      let y = row?.[jy];
+      if (axes.y.log10 && typeof y === 'number') y = y > 0 ? Math.log10(y) : NaN;
+      if (finite(x, y)) mocks.push({ x: x as number, y: y as number });
+    }
+  }
+  const layer: Spec[] = [];
+  if (mocks.length > 0) {
+    layer.push({
+      data: { values: mocks },
+      mark: { type: 'point', shape: 'circle', filled: true, size: 14, color: PALETTE.orange, opacity: 0.55 },
+      encoding: { x: { field: 'x', type: 'quantitative' }, y: { field: 'y', type: 'quantitative' } },
+    });
+  }
+  layer.push({
+    data: { values: lines },
+    mark: { type: 'line', color: PALETTE.blue, strokeWidth: 2.2 },
+    encoding: {
+      x: { field: 'x', type: 'quantitative', title: axes.x.label, scale: { zero: false } },
+      y: { field: 'y', type: 'quantitative', title: axes.y.label, scale: { zero: false } },
+      order: { field: 'order', type: 'quantitative' },
+      detail: { field: 'region', type: 'nominal' },
+      strokeDash: {
+        field: 'region',
+        type: 'nominal',
+        title: 'Fisher region',
+        scale: { domain: contours.map((k) => k.label), range: contours.map((k) => k.dash) },
+        legend: { orient: 'right', symbolStrokeColor: PALETTE.blue, symbolStrokeWidth: 2 },
+      },
+    },
+  });
+  layer.push({
+    data: { values: [{ x: cx, y: cy }] },
+    mark: { type: 'point', shape: 'cross', filled: true, size: 90, color: PALETTE.ink },
+    encoding: { x: { field: 'x', type: 'quantitative' }, y: { field: 'y', type: 'quantitative' } },
+  });
+  const notes = [
+    'lines: joint regions of the two parameters from the Fisher matrix (Δχ² = 2.30, 6.18)',
+    mocks.length > 0 ? `dots: ${mocks.length} mock fits; cross: assumed values` : 'cross: assumed values',
+  ];
+  return {
+    $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
+    ...titleBlock(surveyTitle, `Forecast constraints on α and ${axes.y.name === 'm_star' ? 'M*' : 'L*'}`, notes),
+    width: 440,
+    height: 360,
+    layer,
+    config: CONFIG,
+  };
+}
+
+// ---------------------------------------------------------------------------------------------
+// 5. Plan: goal against exposure per pointing
+
+function goalLabel(goal: string): string {
+  if (goal === 'count') return 'expected count';
+  return goal.replace(/_/g, ' ');
+}
+
+export function planSpec(plan: PlanJson, surveyTitle?: string): Spec | null {
+  const rows = (plan.designs ?? [])
+    .filter((d) => finite(d.exposure_hours_per_pointing, d.goal_value) && d.exposure_hours_per_pointing > 0)
+    .map((d) => ({ ...d }))
+    .sort((a, b) => a.exposure_hours_per_pointing - b.exposure_hours_per_pointing);
+  if (rows.length === 0) return null;
+  const yTitle = `goal: ${goalLabel(plan.goal ?? 'goal value')}`;
+  const layer: Spec[] = [];
+  const nb = plan.near_best;
+  if (nb && finite(nb.from, nb.to) && nb.from > 0 && nb.to > 0) {
+    layer.push({
+      data: { values: [{ from: Math.min(nb.from, nb.to), to: Math.max(nb.from, nb.to) }] },
+      mark: { type: 'rect', color: PALETTE.pale, opacity: 0.9 },
+      encoding: { x: { field: 'from', type: 'quantitative' }, x2: { field: 'to' } },
+    });
+  }
+  layer.push({
+    data: { values: rows },
+    mark: { type: 'line', color: PALETTE.blue, strokeWidth: 2, point: { color: PALETTE.blue, size: 36, filled: true } },
+    encoding: {
+      x: {
+        field: 'exposure_hours_per_pointing',
+        type: 'quantitative',
+        title: 'exposure per pointing [hours]',
+        scale: { type: 'log', nice: false, padding: 16 },
+        axis: { format: '~g' },
+      },
+      y: { field: 'goal_value', type: 'quantitative', title: yTitle, scale: { zero: false, padding: 24 } },
+      tooltip: [
+        { field: 'exposure_hours_per_pointing', type: 'quantitative' },
+        { field: 'pointings', type: 'quantitative' },
+        { field: 'goal_value', type: 'quantitative', format: '.6~g' },
+      ],
+    },
+  });
+  const best = plan.best;
+  if (best && finite(best.exposure_hours_per_pointing, best.goal_value) && best.exposure_hours_per_pointing > 0) {
+    const label = `best: ${fmtShort(best.exposure_hours_per_pointing)} h × ${fmtShort(best.pointings)} pointings`;
+    layer.push({
+      data: { values: [{ ...best, label }] },
+      layer: [
+        {
+          mark: { type: 'point', shape: 'diamond', filled: true, size: 220, color: PALETTE.orange, stroke: PALETTE.ink, strokeWidth: 1.5, opacity: 1 },
+          encoding: {
+            x: { field: 'exposure_hours_per_pointing', type: 'quantitative' },
+            y: { field: 'goal_value', type: 'quantitative' },
+          },
+        },
+        {
+          mark: { type: 'text', color: PALETTE.ink, fontSize: 12, fontWeight: 'bold', align: 'left', baseline: 'bottom', dx: 10, dy: -8 },
+          encoding: {
+            x: { field: 'exposure_hours_per_pointing', type: 'quantitative' },
+            y: { field: 'goal_value', type: 'quantitative' },
+            text: { field: 'label' },
+          },
+        },
+      ],
+    });
+  }
+  const parts = [`budget ${fmtShort(plan.budget_hours)} hours`, 'dots: designs compared'];
+  if (best) parts.push('diamond: best');
+  if (nb) parts.push('shaded: near-best range');
+  return {
+    $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
+    ...titleBlock(surveyTitle, `${capitalise(goalLabel(plan.goal ?? 'goal'))} against exposure per pointing`, [parts.join('; ')]),
+    width: 520,
+    height: 300,
+    layer,
+    config: CONFIG,
+  };
+}
+
+function capitalise(s: string): string {
+  return s.charAt(0).toUpperCase() + s.slice(1);
+}
+
+function fmtShort(x: unknown): string {
+  if (typeof x !== 'number' || !Number.isFinite(x)) return '?';
+  return Number(x.toPrecision(3)).toString();
+}
+
+// ---------------------------------------------------------------------------------------------
+// Rendering
+
+type VegaModule = typeof import('vega');
+type VegaLiteModule = typeof import('vega-lite');
+let libs: Promise<[VegaModule, VegaLiteModule]> | undefined;
+
+function loadLibs(): Promise<[VegaModule, VegaLiteModule]> {
+  libs ??= Promise.all([import('vega'), import('vega-lite')]);
+  return libs;
+}
+
+/**
+ * A vega loader that refuses every request: figures draw only the values they are handed.
+ * vega logs a failed load and carries on, so each refusal is also recorded in `refused` and
+ * renderSvg fails afterwards.
+ */
+function refusingLoader(vega: VegaModule, refused: string[]): ReturnType<VegaModule['loader']> {
+  const refuse = (what: string) => async (uri: string) => {
+    const msg = `figures fetch nothing: refused to ${what} ${JSON.stringify(String(uri))}`;
+    refused.push(msg);
+    throw new Error(msg);
+  };
+  const base = vega.loader();
+  return Object.assign(base, {
+    load: refuse('load'),
+    sanitize: refuse('link to'),
+    http: refuse('request'),
+    file: refuse('read'),
+  });
+}
+
+/** Compile a vega-lite spec and draw it to an SVG string (no browser, no network). */
+export async function renderSvg(spec: Spec): Promise<string> {
+  const [vega, vl] = await loadLibs();
+  const compiled = vl.compile(spec as unknown as Parameters<VegaLiteModule['compile']>[0]).spec;
+  const refused: string[] = [];
+  const view = new vega.View(vega.parse(compiled), {
+    renderer: 'none',
+    loader: refusingLoader(vega, refused),
+    logLevel: vega.None,
+  });
+  try {
+    const svg = await view.toSVG();
+    if (refused.length > 0) throw new Error(refused[0]);
+    return svg;
+  } finally {
+    view.finalize();
+  }
+}
+
+async function figure(name: string, spec: Spec | null): Promise<Figure | null> {
+  if (!spec) return null;
+  const title = String((spec.usermeta as { title?: string } | undefined)?.title ?? name);
+  return { name, title, spec, svg: await renderSvg(spec) };
+}
+
+export const countsFigure = (p: PredictionJson) => figure('counts', countsSpec(p));
+export const histogramsFigure = (p: PredictionJson, model?: ModelDescription) =>
+  figure('histograms', histogramsSpec(p, model));
+export const luminosityFunctionFigure = (p: PredictionJson, model?: ModelDescription) =>
+  figure('luminosity-function', luminosityFunctionSpec(p, model));
+export const forecastFigure = (f: ForecastJson, surveyTitle?: string) => figure('forecast', forecastSpec(f, surveyTitle));
+export const planFigure = (plan: PlanJson, surveyTitle?: string) => figure('plan', planSpec(plan, surveyTitle));
+
+export interface FigureInput {
+  prediction?: PredictionJson;
+  forecast?: ForecastJson;
+  plan?: PlanJson;
+  /** The population drawn; defaults to prediction.model. */
+  model?: ModelDescription;
+  /** Title for the forecast and plan figures; defaults to prediction.title. */
+  surveyTitle?: string;
+}
+
+/** Every figure the given results allow, in a fixed order; absent pieces give no figure. */
+export async function buildFigures(input: FigureInput): Promise<Figure[]> {
+  const title = input.surveyTitle ?? input.prediction?.title;
+  const p = input.prediction;
+  const all = await Promise.all([
+    p ? countsFigure(p) : null,
+    p ? histogramsFigure(p, input.model) : null,
+    p ? luminosityFunctionFigure(p, input.model) : null,
+    input.forecast ? forecastFigure(input.forecast, title) : null,
+    input.plan ? planFigure(input.plan, title) : null,
+  ]);
+  return all.filter((f): f is Figure => f !== null);
+}

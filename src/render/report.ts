@@ -1,0 +1,469 @@
+/**
+ * The HTML report: ONE self-contained document (inline CSS and SVG; no script, no web font,
+ * no URL of any kind), readable offline and printable. Everything the user wrote (the survey
+ * text, titles, keys, expressions) is escaped; the figures' SVG is checked before it is
+ * embedded. A Content-Security-Policy in the document forbids scripts and fetches as a second
+ * line of defence.
+ *
+ * This module does not import vega: figures arrive already drawn (see figures.ts).
+ */
+import type {
+  Figure,
+  ForecastJson,
+  ModelDescription,
+  ModelValue,
+  PlanDesign,
+  PlanJson,
+  PredictionJson,
+  SliceJson,
+} from './types.js';
+
+export interface ReportInput {
+  /** The survey file exactly as written. */
+  surveyText: string;
+  surveyTitle: string;
+  /** Name of the survey file, shown beside its text (optional). */
+  surveyFile?: string;
+  prediction: PredictionJson;
+  forecast?: ForecastJson;
+  plan?: PlanJson;
+  /** The assumed population(s); defaults to prediction.model. */
+  model?: ModelDescription | ModelDescription[];
+  figures: Figure[];
+}
+
+// ---------------------------------------------------------------------------------------------
+// Escaping and checks
+
+const HTML_ESCAPES: Record<string, string> = {
+  '&': '&amp;',
+  '<': '&lt;',
+  '>': '&gt;',
+  '"': '&quot;',
+  "'": '&#39;',
+};
+
+/** Escape text for HTML element content and quoted attribute values. */
+export function escapeHtml(value: unknown): string {
+  return String(value).replace(/[&<>"']/g, (c) => HTML_ESCAPES[c]!);
+}
+
+/** Elements vega's SVG renderer writes; anything else is refused. */
+const SVG_ELEMENTS = new Set([
+  'svg', 'g', 'path', 'rect', 'line', 'text', 'tspan', 'circle', 'ellipse', 'polyline', 'polygon',
+  'defs', 'clippath', 'lineargradient', 'radialgradient', 'stop', 'title', 'desc',
+]);
+/** Attributes whose value may hold a paint or reference: only url(#local-id) is allowed there. */
+const PAINT_ATTRIBUTES = /^(fill|stroke|clip-path|mask|filter|style|marker-start|marker-mid|marker-end|cursor)$/i;
+
+/**
+ * Throw unless `svg` is one plain <svg> element with nothing active in it: only drawing
+ * elements (no script, foreign object, image, link, use, style), no event-handler or link
+ * attribute, no url() other than a reference inside the figure, no comment or declaration,
+ * and nothing after its closing tag. vega escapes the text it draws; this checks that it did.
+ */
+export function assertSafeSvg(svg: string, name = 'figure'): void {
+  const s = svg.trim();
+  const fail = (why: string): never => {
+    throw new Error(`figure "${name}" cannot be embedded: ${why}`);
+  };
+  if (!s.startsWith('<svg')) fail('it does not start with <svg');
+  if (!s.endsWith('</svg>')) fail('it does not end with </svg>');
+  if (s.indexOf('</svg') !== s.length - 6) fail('it closes <svg> more than once');
+  for (const m of s.matchAll(/<([^>]*)>/g)) {
+    const tag = m[1]!;
+    const el = /^\/?\s*([A-Za-z][\w:-]*)/.exec(tag);
+    if (!el) fail(`it holds a comment, declaration or stray "<"`);
+    const elName = el![1]!.toLowerCase();
+    if (!SVG_ELEMENTS.has(elName)) fail(`it holds a <${elName}> element`);
+    // attribute names (values blanked), then the values of paint attributes
+    const attrs = [...tag.slice(el![0].length).matchAll(/([^\s=/]+)\s*(?:=\s*("[^"]*"|'[^']*'|[^\s>]+))?/g)];
+    for (const a of attrs) {
+      const attr = a[1]!.toLowerCase();
+      const value = (a[2] ?? '').replace(/^["']|["']$/g, '');
+      if (attr.startsWith('on')) fail(`it holds an event-handler attribute (${attr})`);
+      if (/(^|:)(href|src)$/.test(attr)) fail(`it holds a link attribute (${attr})`);
+      if (PAINT_ATTRIBUTES.test(attr) && (/url\s*\(\s*(?!['"]?#)/i.test(value) || /javascript:|expression\s*\(/i.test(value))) {
+        fail(`it holds a URL in ${attr}`);
+      }
+    }
+  }
+}
+
+/**
+ * The SVG as embedded in HTML: the root's namespace declarations are dropped (the HTML parser
+ * puts <svg> in the SVG namespace by itself), so the report holds no URL at all.
+ */
+export function svgForHtml(svg: string): string {
+  return svg.trim().replace(/^<svg\b[^>]*>/, (root) => root.replace(/\s+xmlns(:\w+)?="[^"]*"/g, ''));
+}
+
+// ---------------------------------------------------------------------------------------------
+// Numbers
+
+/**
+ * A number for a table, as HTML: `sig` significant digits; thousands separated by commas at
+ * 1000 or more (below 1e7); powers of ten written out (1.23 × 10<sup>8</sup>) from 1e7 up and
+ * below 1e-3. Not finite: an em dash (callers never pass one; outputs hold no NaN).
+ */
+export function formatNumber(x: number, sig = 4): string {
+  if (typeof x !== 'number' || !Number.isFinite(x)) return '—';
+  if (x === 0) return '0';
+  const ax = Math.abs(x);
+  if (ax >= 1e7 || ax < 1e-3) {
+    const [m, e] = x.toExponential(sig - 1).split('e');
+    const mant = String(Number(m));
+    return `${mant} × 10<sup>${Number(e)}</sup>`;
+  }
+  if (ax >= 1000) return Math.round(x).toLocaleString('en-US');
+  return String(Number(x.toPrecision(sig)));
+}
+
+/** Fixed decimals for redshifts: as many as the edges need, 2 to 4. */
+function formatZ(z: number): string {
+  for (let d = 2; d <= 4; d++) if (Math.abs(Number(z.toFixed(d)) - z) < 1e-9) return z.toFixed(d);
+  return z.toFixed(4);
+}
+
+function percent(f: number | undefined): string {
+  return typeof f === 'number' && Number.isFinite(f) ? `${(100 * f).toFixed(1)}%` : '';
+}
+
+/** Fixed decimals (limits: log10 L, log10 flux or AB magnitudes, to 0.01). */
+function formatFixed(x: number, decimals = 2): string {
+  return typeof x === 'number' && Number.isFinite(x) ? x.toFixed(decimals).replace(/^-(0\.0*)$/, '$1') : '—';
+}
+
+/** Always in powers of ten with `sig` digits kept, for columns spanning decades (volumes): 1.10 × 10<sup>6</sup>. */
+export function formatScientific(x: number, sig = 3): string {
+  if (typeof x !== 'number' || !Number.isFinite(x)) return '—';
+  if (x === 0) return '0';
+  const [m, e] = x.toExponential(sig - 1).split('e');
+  return `${m} × 10<sup>${Number(e)}</sup>`;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Model
+
+const PARAM_LABELS: Record<string, string> = {
+  phi_star: 'φ* [Mpc⁻³]',
+  log10_phi_star: 'log₁₀ φ* [Mpc⁻³]',
+  phi_star_dex: 'φ* per dex [Mpc⁻³ dex⁻¹]',
+  log10_phi_star_dex: 'log₁₀ φ* per dex [Mpc⁻³ dex⁻¹]',
+  l_star: 'L* [erg s⁻¹]',
+  log10_l_star: 'log₁₀ L* [erg s⁻¹]',
+  m_star: 'M* [AB mag]',
+  alpha: 'α (faint-end slope)',
+  rest_wavelength: 'rest wavelength [Å]',
+  bias: 'bias',
+};
+
+function modelValueHtml(v: ModelValue): string {
+  if (typeof v === 'number') return formatNumber(v, 6);
+  if (typeof v === 'string') return `<code>${escapeHtml(v)}</code>`;
+  if (v && typeof v === 'object' && Array.isArray((v as { table?: unknown }).table)) {
+    const rows = (v as { table: unknown[] }).table;
+    const cells = rows
+      .map((r) =>
+        Array.isArray(r) && r.length >= 2
+          ? `z = ${escapeHtml(typeof r[0] === 'number' ? formatNumber(r[0], 6) : r[0])}: ${typeof r[1] === 'number' ? formatNumber(r[1], 6) : escapeHtml(r[1])}`
+          : escapeHtml(JSON.stringify(r)),
+      )
+      .join('; ');
+    return `table in z, interpolated linearly: ${cells}`;
+  }
+  if (v === null || v === undefined) return '';
+  return `<code>${escapeHtml(JSON.stringify(v))}</code>`;
+}
+
+function modelHtml(models: ModelDescription[]): string {
+  const blocks = models.map((m) => {
+    const head = [m.name, m.shape ? `${m.shape} function` : '', m.variable ? `in ${m.variable}` : '']
+      .filter((s) => typeof s === 'string' && s.length > 0)
+      .map(escapeHtml)
+      .join(', ');
+    const rows = Object.entries(m)
+      .filter(([k, v]) => !['name', 'shape', 'variable'].includes(k) && v !== undefined && v !== null)
+      .map(([k, v]) => {
+        const label = PARAM_LABELS[k];
+        const keyHtml = label ? `${escapeHtml(label)} <span class="key">${escapeHtml(k)}</span>` : `<span class="key">${escapeHtml(k)}</span>`;
+        return `<tr><th scope="row">${keyHtml}</th><td>${modelValueHtml(v)}</td></tr>`;
+      })
+      .join('\n');
+    return `<div class="population"><p class="population-name">${head || 'population'}</p><table class="params">${rows}</table></div>`;
+  });
+  return blocks.join('\n');
+}
+
+function modelVariable(models: ModelDescription[]): string | undefined {
+  const v = models[0]?.variable;
+  return typeof v === 'string' ? v : undefined;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Tables
+
+function predictTable(p: PredictionJson, variable: string | undefined): string {
+  const withU = p.slices.some((s) => typeof s.uncertainty?.total_fraction === 'number');
+  const withParts = p.slices.some((s) => typeof s.uncertainty?.poisson_fraction === 'number' || typeof s.uncertainty?.cosmic_variance_fraction === 'number');
+  const limitHead =
+    variable === 'magnitude' ? 'limit at centre<br><span class="unit">M [AB mag]</span>' : variable === 'luminosity' ? 'limit at centre<br><span class="unit">log₁₀ L [erg s⁻¹]</span>' : 'limit at centre';
+  const heads = [
+    'slice',
+    'window<br><span class="unit">z</span>',
+    'volume<br><span class="unit">Mpc³</span>',
+    limitHead,
+    'count',
+    'per deg²',
+    'cumulative count',
+  ];
+  if (withU) heads.push('± 1σ<br><span class="unit">count</span>');
+  if (withParts) heads.push('Poisson', 'cosmic variance');
+  let cum = 0;
+  const body = p.slices
+    .map((s: SliceJson, i) => {
+      cum += s.count;
+      const u = s.uncertainty;
+      const cells = [
+        String(i + 1),
+        `${formatZ(s.z_min)}–${formatZ(s.z_max)}`,
+        formatScientific(s.volume_mpc3),
+        formatFixed(s.limit_at_center),
+        formatNumber(s.count),
+        formatNumber(s.per_deg2),
+        formatNumber(cum),
+      ];
+      if (withU) cells.push(typeof u?.total_fraction === 'number' ? `± ${formatNumber(s.count * u.total_fraction, 3)}` : '');
+      if (withParts) cells.push(percent(u?.poisson_fraction), percent(u?.cosmic_variance_fraction));
+      return `<tr>${cells.map((c) => `<td>${c}</td>`).join('')}</tr>`;
+    })
+    .join('\n');
+  const t = p.totals;
+  const tu = t.uncertainty;
+  const total = [
+    'all',
+    p.redshift ? `${formatZ(p.redshift.min)}–${formatZ(p.redshift.max)}` : '',
+    formatScientific(t.volume_mpc3),
+    '',
+    formatNumber(t.count),
+    formatNumber(t.per_deg2),
+    formatNumber(t.count),
+  ];
+  if (withU) total.push(typeof tu?.total_fraction === 'number' ? `± ${formatNumber(t.count * tu.total_fraction, 3)}` : '');
+  if (withParts) total.push(percent(tu?.poisson_fraction), percent(tu?.cosmic_variance_fraction));
+  return `<table class="numbers" id="predict-table">
+<thead><tr>${heads.map((h) => `<th scope="col">${h}</th>`).join('')}</tr></thead>
+<tbody>
+${body}
+</tbody>
+<tfoot><tr>${total.map((c) => `<td>${c}</td>`).join('')}</tr></tfoot>
+</table>`;
+}
+
+function forecastTables(f: ForecastJson): string {
+  const names = f.parameters ?? [];
+  const cols = f.mocks?.parameters ?? names;
+  const fits = Array.isArray(f.mocks?.fits) ? f.mocks!.fits! : [];
+  const mockStats = (name: string): [string, string] => {
+    const j = cols.indexOf(name);
+    if (j < 0 || fits.length < 2) return ['', ''];
+    const xs = fits.map((r) => r?.[j]).filter((x): x is number => typeof x === 'number' && Number.isFinite(x));
+    if (xs.length < 2) return ['', ''];
+    const mean = xs.reduce((a, b) => a + b, 0) / xs.length;
+    const sd = Math.sqrt(xs.reduce((a, b) => a + (b - mean) ** 2, 0) / (xs.length - 1));
+    return [formatNumber(mean, 5), formatNumber(sd, 3)];
+  };
+  const withMocks = fits.length >= 2;
+  const heads = ['parameter', 'assumed value', 'σ from the Fisher matrix'];
+  if (withMocks) heads.push(`mean of ${fits.length} mock fits`, 'spread of mock fits (σ)');
+  const rows = names
+    .map((n) => {
+      const cells = [
+        `<span class="key">${escapeHtml(n)}</span>`,
+        typeof f.center?.[n] === 'number' ? formatNumber(f.center[n]!, 6) : '',
+        typeof f.fisher?.sigma?.[n] === 'number' ? formatNumber(f.fisher.sigma[n]!, 3) : '',
+      ];
+      if (withMocks) cells.push(...mockStats(n));
+      return `<tr>${cells.map((c) => `<td>${c}</td>`).join('')}</tr>`;
+    })
+    .join('\n');
+  let corr = '';
+  const c = f.fisher?.correlation;
+  if (Array.isArray(c) && c.length === names.length) {
+    corr = `<h3>Correlation of the parameters (Fisher matrix)</h3>
+<table class="numbers" id="correlation-table">
+<thead><tr><th></th>${names.map((n) => `<th scope="col" class="key">${escapeHtml(n)}</th>`).join('')}</tr></thead>
+<tbody>
+${names
+  .map(
+    (n, i) =>
+      `<tr><th scope="row" class="key">${escapeHtml(n)}</th>${names
+        .map((_, j) => `<td>${typeof c[i]?.[j] === 'number' ? c[i]![j]!.toFixed(3) : ''}</td>`)
+        .join('')}</tr>`,
+  )
+  .join('\n')}
+</tbody></table>`;
+  }
+  return `<table class="numbers" id="forecast-table">
+<thead><tr>${heads.map((h) => `<th scope="col">${h}</th>`).join('')}</tr></thead>
+<tbody>
+${rows}
+</tbody></table>
+${corr}`;
+}
+
+function planTable(plan: PlanJson): string {
+  const same = (a: PlanDesign, b: PlanDesign | undefined) =>
+    !!b && a.exposure_hours_per_pointing === b.exposure_hours_per_pointing && a.pointings === b.pointings;
+  const nb = plan.near_best;
+  const lo = nb ? Math.min(nb.from, nb.to) : NaN;
+  const hi = nb ? Math.max(nb.from, nb.to) : NaN;
+  const designs = [...(plan.designs ?? [])].sort((a, b) => a.exposure_hours_per_pointing - b.exposure_hours_per_pointing);
+  const rows = designs
+    .map((d) => {
+      const best = same(d, plan.best);
+      const near = nb && d.exposure_hours_per_pointing >= lo && d.exposure_hours_per_pointing <= hi;
+      const cls = best ? ' class="best"' : near ? ' class="near"' : '';
+      const note = best ? 'best' : near ? 'near best' : '';
+      const cells = [
+        formatNumber(d.exposure_hours_per_pointing),
+        formatNumber(d.pointings),
+        formatNumber(d.area_deg2),
+        formatFixed(d.limit),
+        formatNumber(d.count),
+        formatNumber(d.goal_value),
+        note,
+      ];
+      return `<tr${cls}>${cells.map((c) => `<td>${c}</td>`).join('')}</tr>`;
+    })
+    .join('\n');
+  const heads = [
+    'exposure per pointing<br><span class="unit">hours</span>',
+    'pointings',
+    'area<br><span class="unit">deg²</span>',
+    'limit',
+    'count',
+    `goal value<br><span class="unit">${escapeHtml(plan.goal ?? '')}</span>`,
+    '',
+  ];
+  const range = nb ? ` Designs from ${formatNumber(lo)} to ${formatNumber(hi)} hours per pointing come close to the best.` : '';
+  return `<p>Goal: <span class="key">${escapeHtml(plan.goal ?? '')}</span>; time available: ${formatNumber(plan.budget_hours)} hours.${range}</p>
+<table class="numbers" id="plan-table">
+<thead><tr>${heads.map((h) => `<th scope="col">${h}</th>`).join('')}</tr></thead>
+<tbody>
+${rows}
+</tbody></table>`;
+}
+
+// ---------------------------------------------------------------------------------------------
+// The document
+
+const CSS = `
+:root { color-scheme: light; }
+body { font-family: "DejaVu Sans", "Liberation Sans", Arial, Helvetica, sans-serif; color: #1b1f24;
+  background: #fff; margin: 0 auto; max-width: 1180px; padding: 24px 28px 48px; line-height: 1.45; font-size: 15px; }
+h1 { font-size: 1.6em; margin: 0 0 4px; color: #1b2a4a; overflow-wrap: anywhere; }
+h2 { font-size: 1.25em; margin: 32px 0 10px; border-bottom: 2px solid #c7dbf0; padding-bottom: 4px; color: #1b2a4a; }
+h3 { font-size: 1.05em; margin: 20px 0 8px; }
+.summary { color: #333; margin: 0 0 16px; }
+.assumption { border: 2px solid #de8a2a; background: #fdf4e8; padding: 12px 16px; margin: 16px 0 8px; border-radius: 4px; }
+.assumption .warning { font-weight: bold; margin: 0 0 8px; }
+.population-name { font-weight: bold; margin: 6px 0 4px; }
+table { border-collapse: collapse; margin: 6px 0 10px; }
+table.params th { text-align: left; font-weight: normal; padding: 2px 14px 2px 0; vertical-align: top; }
+table.params td { padding: 2px 0; }
+table.numbers { font-variant-numeric: tabular-nums; font-size: 0.93em; }
+table.numbers th, table.numbers td { padding: 4px 10px; border-bottom: 1px solid #dde3ea; text-align: right; }
+table.numbers thead th { border-bottom: 2px solid #1b2a4a; vertical-align: bottom; }
+table.numbers tfoot td { border-top: 2px solid #1b2a4a; font-weight: bold; }
+table.numbers tr.best td { background: #fbe3c6; font-weight: bold; }
+table.numbers tr.near td { background: #eaf2fb; }
+#forecast-table td:first-child, #correlation-table th[scope='row'] { text-align: left; }
+.unit { font-weight: normal; color: #555; font-size: 0.9em; }
+.key { font-family: "DejaVu Sans Mono", "Liberation Mono", monospace; font-size: 0.92em; }
+sup { line-height: 0; font-size: 0.75em; }
+code { font-family: "DejaVu Sans Mono", "Liberation Mono", monospace; background: #f1f3f6; padding: 0 3px; }
+pre.survey { background: #f6f7f9; border: 1px solid #dde3ea; padding: 12px 14px; overflow-x: auto;
+  font-family: "DejaVu Sans Mono", "Liberation Mono", monospace; font-size: 13px; line-height: 1.4; white-space: pre; }
+figure { margin: 18px 0 26px; break-inside: avoid; page-break-inside: avoid; }
+figure svg { max-width: 100%; height: auto; display: block; }
+figcaption { font-size: 0.9em; color: #444; margin-top: 4px; }
+.note { color: #555; font-size: 0.9em; }
+@media print { body { max-width: none; padding: 0; font-size: 11pt; } h2 { break-after: avoid; } }
+`;
+
+/** Build the report. Pure: same input, same document. */
+export function renderReport(input: ReportInput): string {
+  const p = input.prediction;
+  const models = ((): ModelDescription[] => {
+    const m = input.model ?? p.model;
+    return !m ? [] : Array.isArray(m) ? m : [m];
+  })();
+  for (const f of input.figures) assertSafeSvg(f.svg, f.name);
+
+  const title = escapeHtml(input.surveyTitle);
+  const c = p.cosmology;
+  const cosmo = c
+    ? `flat ΛCDM with H₀ = ${formatNumber(c.h0)} km s⁻¹ Mpc⁻¹, Ωₘ = ${formatNumber(c.omega_m)}` +
+      (typeof c.t_cmb === 'number' && c.t_cmb > 0 ? `, T_CMB = ${formatNumber(c.t_cmb)} K` : '')
+    : '';
+  const window = p.redshift ? `redshift ${formatZ(p.redshift.min)}–${formatZ(p.redshift.max)}` : '';
+  const summary = [`area ${formatNumber(p.area_deg2)} deg²`, window, `${p.slices.length} slices`, cosmo]
+    .filter((s) => s)
+    .join('; ');
+  const totalU = p.totals.uncertainty?.total_fraction;
+  const headline =
+    `Expected count: <strong>${formatNumber(p.totals.count)}</strong>` +
+    (typeof totalU === 'number' ? ` ± ${formatNumber(p.totals.count * totalU, 3)} (1σ)` : '') +
+    `, or ${formatNumber(p.totals.per_deg2)} per deg².`;
+
+  const modelSection = `<section class="assumption" id="model">
+<p class="warning">Every number in this report follows from the assumed population below. A forecast is only as good as the luminosity function assumed: change it and the counts, errors and best design change with it.</p>
+${models.length > 0 ? modelHtml(models) : '<p>The results given did not describe the population.</p>'}
+</section>`;
+
+  const prefix = `${input.surveyTitle.trim()}: `;
+  const figures = input.figures
+    .map((f, i) => {
+      const what = f.title.startsWith(prefix) ? f.title.slice(prefix.length) : f.title;
+      return `<figure id="figure-${escapeHtml(f.name)}" class="figure">
+${svgForHtml(f.svg)}
+<figcaption>Figure ${i + 1}. ${escapeHtml(what)}</figcaption>
+</figure>`;
+    })
+    .join('\n');
+
+  const fileLabel = input.surveyFile ? ` <span class="key">${escapeHtml(input.surveyFile)}</span>` : '';
+  return `<!DOCTYPE html>
+<html lang="en">
+<head>
+<meta charset="utf-8">
+<meta http-equiv="Content-Security-Policy" content="default-src 'none'; style-src 'unsafe-inline'; img-src data:; base-uri 'none'; form-action 'none'">
+<meta name="viewport" content="width=device-width, initial-scale=1">
+<meta name="generator" content="skytally">
+<title>${title}</title>
+<style>${CSS}</style>
+</head>
+<body>
+<header>
+<h1 id="survey-title">${title}</h1>
+<p class="summary">${summary}</p>
+<p class="summary">${headline}</p>
+</header>
+${modelSection}
+<section id="survey">
+<h2>The survey file${fileLabel}</h2>
+<pre class="survey">${escapeHtml(input.surveyText)}</pre>
+</section>
+<section id="predict">
+<h2>Expected counts per redshift slice</h2>
+${predictTable(p, modelVariable(models))}
+<p class="note">Counts are expected numbers of detected sources, not rounded. The limit is given at each slice's middle redshift.</p>
+</section>
+${input.forecast ? `<section id="forecast">\n<h2>Forecast</h2>\n${forecastTables(input.forecast)}\n</section>` : ''}
+${input.plan ? `<section id="plan">\n<h2>Plan</h2>\n${planTable(input.plan)}\n</section>` : ''}
+${input.figures.length > 0 ? `<section id="figures">\n<h2>Figures</h2>\n${figures}\n</section>` : ''}
+</body>
+</html>
+`;
+}

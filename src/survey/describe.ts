@@ -1,0 +1,98 @@
+/**
+ * A JSON-ready, normalised view of a Survey for the `check` command: plain numbers, units in the
+ * key names, parameters that vary with z shown with their source and their values at the ends
+ * of the population's window.
+ */
+import type { Completeness, Survey, ZParam } from './types.js';
+
+/** A constant as its normalised value; otherwise what the file wrote and the normalised values at the window's ends. */
+export type ParamView =
+  | number
+  | { as_written: number | { table: [number, number][] } | string; at_window_min: number; at_window_max: number };
+
+/** A parameter as written in the file, with its normalised value at the window's ends when it varies. */
+export function describeParam(p: ZParam, window: { min: number; max: number }): ParamView {
+  if (p.constant) return p.at(window.min);
+  return { as_written: p.source, at_window_min: p.at(window.min), at_window_max: p.at(window.max) };
+}
+
+function describeCompleteness(c: Completeness | undefined): object | undefined {
+  if (!c) return undefined;
+  if (c.model === 'logistic') return { model: 'logistic', half: c.half, width: c.width };
+  return { model: 'table', x: c.x, fraction: c.fraction };
+}
+
+/** Remove undefined members so the view prints cleanly as JSON. */
+function clean<T extends object>(o: T): T {
+  return Object.fromEntries(Object.entries(o).filter(([, v]) => v !== undefined)) as T;
+}
+
+export function describeSurvey(survey: Survey): Record<string, unknown> {
+  const c = survey.cosmology;
+  const d = survey.detection;
+  const win = survey.redshift;
+  let detection: object;
+  if (d.kind === 'line_flux') {
+    detection = clean({
+      kind: d.kind,
+      limit_cgs: d.limitCgs,
+      line_angstrom: d.lineAngstrom,
+      filter: d.filter
+        ? { center_angstrom: d.filter.centerAngstrom, fwhm_angstrom: d.filter.fwhmAngstrom, profile: d.filter.profile }
+        : undefined,
+      completeness: describeCompleteness(d.completeness),
+    });
+  } else if (d.kind === 'magnitude') {
+    detection = clean({
+      kind: d.kind,
+      limit_mag: d.limitMag,
+      band_angstrom: d.bandAngstrom,
+      beta: d.beta,
+      completeness: describeCompleteness(d.completeness),
+    });
+  } else {
+    detection = clean({ kind: d.kind, limit: describeParam(d.limit, win), completeness: describeCompleteness(d.completeness) });
+  }
+  return clean({
+    format: survey.format,
+    file: survey.file,
+    title: survey.title,
+    cosmology: clean({
+      preset: c.preset,
+      preset_source: c.presetSource,
+      h0: c.h0,
+      omega_m: c.omegaM,
+      omega_lambda: c.omegaLambda,
+      omega_r: c.omegaR,
+      t_cmb: c.tCmb,
+      omega_b: c.omegaB,
+      sigma8: c.sigma8,
+      n_s: c.nS,
+    }),
+    area_deg2: survey.areaDeg2,
+    area_sr: survey.areaSr,
+    window: { min: win.min, max: win.max },
+    field: { aspect: survey.field.aspect, count: survey.field.count },
+    exposure_hours: survey.exposureHours,
+    detection,
+    populations: survey.populations.map((p) =>
+      clean({
+        name: p.name,
+        shape: p.shape,
+        variable: p.variable,
+        quantity: p.quantity,
+        window: { min: p.window.min, max: p.window.max },
+        phi_star_mpc3: describeParam(p.phiStar, p.window),
+        l_star: p.lStar ? describeParam(p.lStar, p.window) : undefined,
+        m_star: p.mStar ? describeParam(p.mStar, p.window) : undefined,
+        alpha: describeParam(p.alpha, p.window),
+        line_angstrom: p.lineAngstrom,
+        rest_wavelength_angstrom: p.restWavelengthAngstrom,
+        bias: p.bias === 'auto' ? 'auto' : describeParam(p.bias, p.window),
+        occupation: p.occupation,
+      }),
+    ),
+    slices: { count: survey.sliceEdges.length - 1, edges: survey.sliceEdges },
+    histogram_width: survey.histogramWidth,
+  });
+}

@@ -1,0 +1,181 @@
+/**
+ * Safe expressions in redshift z (survey-file.md): numbers, the symbol z, + - * / ^ (and unary
+ * minus and plus), parentheses, and the functions log10, ln (natural log), exp, sqrt, abs, min, max.
+ *
+ * The text is parsed by mathjs into a node tree; the whole tree is checked against that list and
+ * compiled into a plain JavaScript closure before anything is evaluated. mathjs never evaluates
+ * the expression: the closure does the arithmetic with `Math`.
+ *
+ * Implicit multiplication ("2z", "2 z", "(1+z)(2+z)") is rejected: it is easy to misread
+ * ("10^-0.4z" parses as (10^-0.4)*z), so a `*` must be written.
+ */
+import { inputError } from '../errors.js';
+import { getMath } from './mathjs.js';
+
+export type Closure = (z: number) => number;
+
+export interface CompiledExpression {
+  /** The expression text as given. */
+  text: string;
+  /** Evaluate at redshift z (plain JavaScript arithmetic; may return NaN, checked by the caller). */
+  fn: Closure;
+  /** True when the expression does not contain z. */
+  constant: boolean;
+}
+
+/** Longest expression accepted, in characters. */
+export const MAX_EXPRESSION_LENGTH = 1000;
+
+const UNARY: Record<string, (a: number) => number> = {
+  log10: Math.log10,
+  ln: Math.log,
+  exp: Math.exp,
+  sqrt: Math.sqrt,
+  abs: Math.abs,
+};
+const VARIADIC: Record<string, (...a: number[]) => number> = { min: Math.min, max: Math.max };
+const ALLOWED_FUNCTIONS = [...Object.keys(UNARY), ...Object.keys(VARIADIC)].join(', ');
+
+/** The parts of a mathjs node we read (kept structural to stay independent of mathjs classes). */
+interface MathNode {
+  type: string;
+  value?: unknown;
+  name?: string;
+  fn?: string | MathNode;
+  op?: string;
+  implicit?: boolean;
+  args?: MathNode[];
+  content?: MathNode;
+  toString(): string;
+}
+
+interface Compiled {
+  fn: Closure;
+  usesZ: boolean;
+}
+
+const NODE_WORDS: Record<string, string> = {
+  AssignmentNode: 'an assignment',
+  FunctionAssignmentNode: 'a function definition',
+  AccessorNode: 'property or index access',
+  IndexNode: 'an index',
+  ArrayNode: 'a matrix or list',
+  ObjectNode: 'an object',
+  ConditionalNode: 'a conditional',
+  RangeNode: 'a range',
+  RelationalNode: 'a comparison',
+  BlockNode: 'several statements',
+};
+
+function short(s: string): string {
+  const t = s.replace(/\s+/g, ' ').trim();
+  return t.length > 40 ? t.slice(0, 37) + '...' : t;
+}
+
+/**
+ * Parse, check and compile `text`. Throws SurveyError bad_expression naming `keyPath` and the
+ * offending token for anything outside the allowed set; nothing is evaluated before that check.
+ */
+export function compileExpression(text: string, file: string, keyPath: string): CompiledExpression {
+  const fix = `use only numbers, z, + - * / ^, parentheses and ${ALLOWED_FUNCTIONS}`;
+  const reject = (what: string): never => {
+    throw inputError('bad_expression', file, keyPath, `the expression "${short(text)}" ${what}`, fix);
+  };
+  if (text.length > MAX_EXPRESSION_LENGTH) reject(`is longer than ${MAX_EXPRESSION_LENGTH} characters`);
+  if (text.trim() === '') reject('is empty');
+  let root: MathNode;
+  try {
+    root = getMath().parse(text) as unknown as MathNode;
+  } catch (e) {
+    const msg = e instanceof RangeError ? 'nests too deeply' : (e as Error).message.replace(/\.$/, '').replace(/\s+/g, ' ');
+    return reject(`cannot be read (${msg})`);
+  }
+
+  const walk = (node: MathNode): Compiled => {
+    switch (node.type) {
+      case 'ConstantNode': {
+        const v = node.value;
+        if (typeof v !== 'number') return reject(`contains ${JSON.stringify(v) ?? String(v)}, which is not a number`);
+        return { fn: () => v, usesZ: false };
+      }
+      case 'SymbolNode': {
+        if (node.name === 'z') return { fn: (z) => z, usesZ: true };
+        return reject(`contains "${node.name}"; the only variable is z`);
+      }
+      case 'ParenthesisNode':
+        return walk(node.content as MathNode);
+      case 'OperatorNode': {
+        const args = node.args ?? [];
+        if (node.implicit) {
+          return reject(`writes "${short(node.toString())}" without a "*" between the factors`);
+        }
+        const c = args.map(walk);
+        const usesZ = c.some((x) => x.usesZ);
+        const [a, b] = c;
+        let fn: Closure;
+        if (c.length === 1 && a) {
+          const fa = a.fn;
+          if (node.fn === 'unaryMinus') fn = (z) => -fa(z);
+          else if (node.fn === 'unaryPlus') fn = fa;
+          else return reject(`contains the operator "${node.op}"`);
+        } else if (c.length === 2 && a && b) {
+          const fa = a.fn;
+          const fb = b.fn;
+          switch (node.fn) {
+            case 'add': fn = (z) => fa(z) + fb(z); break;
+            case 'subtract': fn = (z) => fa(z) - fb(z); break;
+            case 'multiply': fn = (z) => fa(z) * fb(z); break;
+            case 'divide': fn = (z) => fa(z) / fb(z); break;
+            case 'pow': fn = (z) => fa(z) ** fb(z); break;
+            default: return reject(`contains the operator "${node.op}"`);
+          }
+        } else {
+          return reject(`contains the operator "${node.op}"`);
+        }
+        return fold({ fn, usesZ });
+      }
+      case 'FunctionNode': {
+        const f = node.fn as MathNode;
+        if (f.type !== 'SymbolNode' || typeof f.name !== 'string') {
+          return reject(`calls "${short(f.toString())}", which is not a known function`);
+        }
+        const name = f.name;
+        const args = node.args ?? [];
+        const unary = Object.prototype.hasOwnProperty.call(UNARY, name) ? UNARY[name] : undefined;
+        const variadic = Object.prototype.hasOwnProperty.call(VARIADIC, name) ? VARIADIC[name] : undefined;
+        if (!unary && !variadic) return reject(`calls "${name}", which is not an allowed function`);
+        const c = args.map(walk);
+        const usesZ = c.some((x) => x.usesZ);
+        if (unary) {
+          if (c.length !== 1) return reject(`calls ${name} with ${c.length} arguments instead of 1`);
+          const fa = c[0]!.fn;
+          return fold({ fn: (z) => unary(fa(z)), usesZ });
+        }
+        if (c.length < 1) return reject(`calls ${name} without arguments`);
+        const fs = c.map((x) => x.fn);
+        const v = variadic!;
+        if (fs.length === 2) {
+          const [fa, fb] = fs as [Closure, Closure];
+          return fold({ fn: (z) => v(fa(z), fb(z)), usesZ });
+        }
+        return fold({ fn: (z) => v(...fs.map((g) => g(z))), usesZ });
+      }
+      default: {
+        const word = NODE_WORDS[node.type] ?? `"${node.type}"`;
+        return reject(`contains ${word} ("${short(node.toString())}")`);
+      }
+    }
+  };
+
+  // First pass: check every node (nothing is evaluated). Second pass: compile with constant folding.
+  let folding = false;
+  const fold = (c: Compiled): Compiled => {
+    if (!folding || c.usesZ) return c;
+    const v = c.fn(0);
+    return { fn: () => v, usesZ: false };
+  };
+  walk(root);
+  folding = true;
+  const compiled = walk(root);
+  return { text, fn: compiled.fn, constant: !compiled.usesZ };
+}

@@ -1,0 +1,547 @@
+/**
+ * From parsed survey data (plain JavaScript values, as YAML gives them) to the normalised
+ * `Survey` of plain numbers in documented units (src/survey/types.ts).
+ *
+ * Order: plain-data check, JSON Schema (specs/survey.schema.json), then the rules that tie keys
+ * together (survey-file.md), each failing with one SurveyError (code, file, key path, fix).
+ */
+import { inputError } from '../errors.js';
+import { PRESETS, resolveCosmology } from '../cosmology/presets.js';
+import type {
+  Completeness,
+  Cosmology,
+  Detection,
+  DetectionKind,
+  Filter,
+  FilterProfile,
+  Population,
+  PopulationVariable,
+  Survey,
+  ZParam,
+} from './types.js';
+import { schemaError, suggest } from './schema.js';
+import { FULL_SKY_DEG2, SR_PER_DEG2, isPlainNumberString, parseQuantity } from './units.js';
+import { checkParam, fmt, makeZParam, mapParam, type ZTable } from './zparam.js';
+
+type Q = number | string;
+type ZRaw = number | string | ZTable;
+
+interface RawPopulation {
+  name?: string;
+  shape?: 'schechter';
+  variable: PopulationVariable;
+  quantity?: string;
+  phi_star?: ZRaw;
+  log10_phi_star?: ZRaw;
+  phi_star_dex?: ZRaw;
+  log10_phi_star_dex?: ZRaw;
+  l_star?: ZRaw;
+  log10_l_star?: ZRaw;
+  m_star?: ZRaw;
+  alpha: ZRaw;
+  line?: Q;
+  rest_wavelength?: Q;
+  bias?: ZRaw;
+  occupation?: number;
+}
+
+interface RawSurvey {
+  format?: 1;
+  title?: string;
+  cosmology: {
+    preset?: string;
+    h0?: number;
+    omega_m?: number;
+    t_cmb?: number;
+    omega_b?: number;
+    sigma8?: number;
+    n_s?: number;
+  };
+  area: Q;
+  redshift?: { min: number; max: number };
+  field?: { aspect?: number; count?: number };
+  detection: {
+    kind: DetectionKind;
+    limit: number | string | ZTable;
+    line?: Q;
+    band?: Q;
+    beta?: number;
+    filter?: { center: Q; fwhm: Q; profile?: FilterProfile };
+    completeness?: { model?: 'logistic' | 'table'; half?: Q; width?: number; table?: [number, number][] };
+  };
+  population?: RawPopulation;
+  populations?: RawPopulation[];
+  slices?: { count?: number; width?: number; edges?: number[] };
+  histogram?: { width?: number };
+  exposure?: Q;
+  plan?: Record<string, unknown>;
+}
+
+/** Most slices a survey may ask for. */
+export const MAX_SLICES = 10_000;
+/** A remainder of the window shorter than this is not made into a slice of its own. */
+export const SLICE_REMAINDER = 1e-9;
+/** Default population name. */
+export const DEFAULT_POPULATION_NAME = 'population';
+
+const DETECTION_KEYS: Record<DetectionKind, string[]> = {
+  line_flux: ['kind', 'limit', 'line', 'filter', 'completeness'],
+  magnitude: ['kind', 'limit', 'band', 'beta', 'completeness'],
+  threshold: ['kind', 'limit', 'completeness'],
+};
+
+type Window = { min: number; max: number };
+
+function isPlainObject(v: unknown): v is Record<string, unknown> {
+  if (typeof v !== 'object' || v === null || Array.isArray(v)) return false;
+  const proto = Object.getPrototypeOf(v) as unknown;
+  return proto === Object.prototype || proto === null;
+}
+
+/** Reject anything YAML can produce that is not plain data, and numbers that are not finite. */
+function checkPlain(v: unknown, file: string, path: string): void {
+  if (v === null || typeof v === 'string' || typeof v === 'boolean') return;
+  if (typeof v === 'number') {
+    if (!Number.isFinite(v)) {
+      throw inputError('not_finite', file, path, `is ${Number.isNaN(v) ? 'not a number (.nan)' : 'infinite'}`, 'write an ordinary finite number');
+    }
+    return;
+  }
+  if (Array.isArray(v)) {
+    v.forEach((x, i) => checkPlain(x, file, `${path}[${i}]`));
+    return;
+  }
+  if (isPlainObject(v)) {
+    for (const [k, x] of Object.entries(v)) checkPlain(x, file, path ? `${path}.${k}` : k);
+    return;
+  }
+  throw inputError('wrong_type', file, path, 'holds a value that is not plain text, a number, a list or a mapping', 'write the value as plain YAML');
+}
+
+function outOfRange(file: string, path: string, what: string, fix: string): never {
+  throw inputError('out_of_range', file, path, what, fix);
+}
+
+function resolveCosmologyChecked(raw: RawSurvey['cosmology'], file: string): Cosmology {
+  const names = Object.keys(PRESETS);
+  if (raw.preset !== undefined && !(raw.preset in PRESETS)) {
+    const near = suggest(raw.preset, names);
+    outOfRange(
+      file,
+      'cosmology.preset',
+      `"${raw.preset}" is not a known preset${near ? ` (did you mean ${near}?)` : ''}`,
+      `use one of ${names.join(', ')}, or give h0 and omega_m`,
+    );
+  }
+  for (const k of ['h0', 'omega_m'] as const) {
+    if (raw.preset === undefined && raw[k] === undefined) {
+      throw inputError('missing_key', file, `cosmology.${k}`, 'is missing', `give ${k} or name a preset (${names.join(', ')})`);
+    }
+  }
+  const c = resolveCosmology({
+    preset: raw.preset,
+    h0: raw.h0,
+    omegaM: raw.omega_m,
+    tCmb: raw.t_cmb,
+    omegaB: raw.omega_b,
+    sigma8: raw.sigma8,
+    nS: raw.n_s,
+  });
+  if (!(c.h0 > 0 && c.h0 < 500)) outOfRange(file, 'cosmology.h0', `is ${fmt(c.h0)} km/s/Mpc`, 'give a value between 0 and 500 (e.g. 70)');
+  if (!(c.omegaM > 0 && c.omegaM <= 1)) outOfRange(file, 'cosmology.omega_m', `is ${fmt(c.omegaM)}`, 'give a value in (0, 1] (e.g. 0.3)');
+  if (!(c.tCmb >= 0)) outOfRange(file, 'cosmology.t_cmb', `is ${fmt(c.tCmb)} K`, 'give 0 (no radiation) or a positive temperature (e.g. 2.7255)');
+  if (!(c.omegaB > 0 && c.omegaB <= c.omegaM)) {
+    outOfRange(file, 'cosmology.omega_b', `is ${fmt(c.omegaB)}`, `give a value above 0 and at most omega_m (${fmt(c.omegaM)})`);
+  }
+  if (!(c.sigma8 > 0)) outOfRange(file, 'cosmology.sigma8', `is ${fmt(c.sigma8)}`, 'give a positive value (e.g. 0.81)');
+  if (!(c.nS > 0)) outOfRange(file, 'cosmology.n_s', `is ${fmt(c.nS)}`, 'give a positive value (e.g. 0.965)');
+  return c;
+}
+
+/** A key that holds a plain number in its unit only (no unit string accepted beyond a bare number). */
+function plainNumber(v: Q, file: string, path: string, what: string): number {
+  if (typeof v === 'number') return v;
+  if (isPlainNumberString(v)) return Number(v);
+  throw inputError('bad_unit', file, path, `"${v}" is not a plain number`, `give ${what} as a number without a unit`);
+}
+
+function positiveQuantity(v: Q, kind: 'area' | 'wavelength' | 'flux' | 'time', file: string, path: string, unit: string): number {
+  const x = parseQuantity(v, kind, file, path);
+  if (!(x > 0)) outOfRange(file, path, `is ${fmt(x)} ${unit}`, 'give a positive value');
+  return x;
+}
+
+function intersect(a: Window, b: Window): Window {
+  return { min: Math.max(a.min, b.min), max: Math.min(a.max, b.max) };
+}
+
+/** Redshift window of a line seen through a filter: tophat center +- fwhm/2, gaussian center +- 1.5 fwhm. */
+export function filterWindow(filter: Filter, lineAngstrom: number): Window {
+  const half = filter.profile === 'gaussian' ? 1.5 * filter.fwhmAngstrom : 0.5 * filter.fwhmAngstrom;
+  return {
+    min: Math.max(0, (filter.centerAngstrom - half) / lineAngstrom - 1),
+    max: (filter.centerAngstrom + half) / lineAngstrom - 1,
+  };
+}
+
+/** Slice edges over `w` from {count} | {width} | {edges}; the first and last edges are w's ends. */
+export function sliceEdges(raw: RawSurvey['slices'], w: Window, file: string): number[] {
+  const s = raw ?? { count: 10 };
+  if (s.count !== undefined) {
+    const n = s.count;
+    if (!(n >= 1 && n <= MAX_SLICES)) {
+      throw inputError('bad_slices', file, 'slices.count', `is ${n}`, `give a whole number from 1 to ${MAX_SLICES}`);
+    }
+    const edges: number[] = [w.min];
+    for (let i = 1; i < n; i++) edges.push(w.min + ((w.max - w.min) * i) / n);
+    edges.push(w.max);
+    return edges;
+  }
+  if (s.width !== undefined) {
+    const dz = s.width;
+    if (!(dz > 0)) throw inputError('bad_slices', file, 'slices.width', `is ${fmt(dz)}`, 'give a positive redshift width (e.g. 0.1)');
+    const count = (w.max - w.min) / dz;
+    if (count > MAX_SLICES) {
+      throw inputError('bad_slices', file, 'slices.width', `makes ${Math.ceil(count)} slices, more than ${MAX_SLICES}`, 'give a wider slice');
+    }
+    const edges: number[] = [w.min];
+    for (let k = 1; ; k++) {
+      const e = w.min + k * dz;
+      if (!(e < w.max - SLICE_REMAINDER)) break;
+      edges.push(e);
+    }
+    edges.push(w.max);
+    return edges;
+  }
+  const edges = [...(s.edges ?? [])];
+  for (let i = 1; i < edges.length; i++) {
+    if (!(edges[i]! > edges[i - 1]!)) {
+      throw inputError('bad_slices', file, `slices.edges[${i}]`, `${fmt(edges[i]!)} does not follow ${fmt(edges[i - 1]!)} upward`, 'list the edges in increasing order without repeats');
+    }
+  }
+  const tol = SLICE_REMAINDER;
+  edges.forEach((e, i) => {
+    if (e < w.min - tol || e > w.max + tol) {
+      throw inputError(
+        'bad_slices',
+        file,
+        `slices.edges[${i}]`,
+        `${fmt(e)} lies outside the redshift window ${fmt(w.min)} to ${fmt(w.max)}`,
+        'give edges inside the window',
+      );
+    }
+  });
+  edges[0] = Math.max(edges[0]!, w.min);
+  edges[edges.length - 1] = Math.min(edges[edges.length - 1]!, w.max);
+  return edges;
+}
+
+function parseCompleteness(
+  raw: NonNullable<RawSurvey['detection']['completeness']>,
+  kind: DetectionKind,
+  file: string,
+): Completeness {
+  const p = 'detection.completeness';
+  const model = raw.model ?? (raw.table !== undefined ? 'table' : 'logistic');
+  if (model === 'logistic') {
+    if (raw.table !== undefined) {
+      throw inputError('conflict', file, `${p}.table`, 'a table is given with model logistic', 'remove the table, or remove half, width and model');
+    }
+    if (raw.half === undefined) throw inputError('missing_key', file, `${p}.half`, 'is missing', 'give where the completeness is 0.5');
+    if (raw.width === undefined) throw inputError('missing_key', file, `${p}.width`, 'is missing', 'give the width of the logistic fall-off');
+    if (!(raw.width > 0)) outOfRange(file, `${p}.width`, `is ${fmt(raw.width)}`, 'give a positive width');
+    const half =
+      kind === 'line_flux'
+        ? -Math.log10(positiveQuantity(raw.half, 'flux', file, `${p}.half`, 'erg/s/cm^2'))
+        : plainNumber(raw.half, file, `${p}.half`, kind === 'magnitude' ? 'an AB magnitude' : 'a value of the population variable');
+    return { model: 'logistic', half, width: raw.width };
+  }
+  for (const k of ['half', 'width'] as const) {
+    if (raw[k] !== undefined) {
+      throw inputError('conflict', file, `${p}.${k}`, `${k} belongs to the logistic model but a table is used`, `remove ${k}`);
+    }
+  }
+  const rows = raw.table;
+  if (rows === undefined) throw inputError('missing_key', file, `${p}.table`, 'is missing', 'give rows [x, fraction]');
+  let x = rows.map((r) => r[0]);
+  let fraction = rows.map((r) => r[1]);
+  for (let i = 0; i < rows.length; i++) {
+    const f = fraction[i]!;
+    if (!(f >= 0 && f <= 1)) outOfRange(file, `${p}.table[${i}]`, `the fraction ${fmt(f)} is outside 0 to 1`, 'give fractions from 0 to 1');
+    if (kind === 'line_flux' && !(x[i]! > 0)) {
+      outOfRange(file, `${p}.table[${i}]`, `the flux ${fmt(x[i]!)} is not positive`, 'give line fluxes in erg/s/cm^2 above 0');
+    }
+    if (i > 0 && !(x[i]! > x[i - 1]!)) {
+      throw inputError('bad_table', file, `${p}.table[${i}]`, `${fmt(x[i]!)} does not follow ${fmt(x[i - 1]!)} upward`, 'list the rows in increasing x without repeats');
+    }
+  }
+  if (kind === 'line_flux') {
+    // Stored in x = -log10(flux), ascending: reverse the (ascending-flux) rows.
+    x = x.map((f) => -Math.log10(f)).reverse();
+    fraction = fraction.reverse();
+  }
+  return { model: 'table', x, fraction };
+}
+
+const NORMALISATIONS = ['phi_star', 'log10_phi_star', 'phi_star_dex', 'log10_phi_star_dex'] as const;
+
+/** Build the population's parameters; windows and values are checked by the caller. */
+function parsePopulationParams(
+  raw: RawPopulation,
+  path: string,
+  file: string,
+): { phiStar: ZParam; phiKey: string; lStar?: ZParam; lKey?: string; mStar?: ZParam; alpha: ZParam } {
+  const given = NORMALISATIONS.filter((k) => raw[k] !== undefined);
+  if (given.length === 0) {
+    throw inputError('missing_key', file, `${path}.phi_star`, 'is missing', `give one of ${NORMALISATIONS.join(', ')}`);
+  }
+  if (given.length > 1) {
+    throw inputError('conflict', file, `${path}.${given[1]}`, `${given.join(' and ')} are both given`, 'keep only one normalisation');
+  }
+  const phiKey = given[0]!;
+  const base = makeZParam(raw[phiKey]!, file, `${path}.${phiKey}`);
+  const phiStar =
+    phiKey === 'phi_star'
+      ? base
+      : phiKey === 'log10_phi_star'
+        ? mapParam(base, (v) => 10 ** v)
+        : phiKey === 'phi_star_dex'
+          ? mapParam(base, (v) => v / Math.LN10)
+          : mapParam(base, (v) => 10 ** v / Math.LN10);
+  const alpha = makeZParam(raw.alpha, file, `${path}.alpha`);
+  if (raw.variable === 'luminosity') {
+    if (raw.m_star !== undefined) {
+      throw inputError('kind_mismatch', file, `${path}.m_star`, 'm_star belongs to the magnitude variable but variable is luminosity', 'give l_star or log10_l_star instead');
+    }
+    if (raw.l_star !== undefined && raw.log10_l_star !== undefined) {
+      throw inputError('conflict', file, `${path}.log10_l_star`, 'l_star and log10_l_star are both given', 'keep only one');
+    }
+    if (raw.l_star === undefined && raw.log10_l_star === undefined) {
+      throw inputError('missing_key', file, `${path}.l_star`, 'is missing', 'give l_star or log10_l_star');
+    }
+    const lKey = raw.l_star !== undefined ? 'l_star' : 'log10_l_star';
+    const l = makeZParam((raw.l_star ?? raw.log10_l_star)!, file, `${path}.${lKey}`);
+    return { phiStar, phiKey, lStar: lKey === 'l_star' ? l : mapParam(l, (v) => 10 ** v), lKey, alpha };
+  }
+  for (const k of ['l_star', 'log10_l_star'] as const) {
+    if (raw[k] !== undefined) {
+      throw inputError('kind_mismatch', file, `${path}.${k}`, `${k} belongs to the luminosity variable but variable is magnitude`, 'give m_star instead');
+    }
+  }
+  if (raw.m_star === undefined) throw inputError('missing_key', file, `${path}.m_star`, 'is missing', 'give m_star, the characteristic absolute AB magnitude');
+  return { phiStar, phiKey, mStar: makeZParam(raw.m_star, file, `${path}.m_star`), alpha };
+}
+
+/** Validate and normalise already-parsed survey data. Throws exactly one SurveyError on bad input. */
+export function normaliseSurvey(obj: unknown, file: string): Survey {
+  if (!isPlainObject(obj)) {
+    throw inputError('wrong_type', file, '', 'does not hold a mapping of survey keys', 'start from one of the sample surveys');
+  }
+  checkPlain(obj, file, '');
+  const invalid = schemaError(obj, file);
+  if (invalid) throw invalid;
+  const raw = obj as unknown as RawSurvey;
+
+  const cosmology = resolveCosmologyChecked(raw.cosmology, file);
+
+  // Area.
+  const areaDeg2 = parseQuantity(raw.area, 'area', file, 'area');
+  if (!(areaDeg2 > 0)) outOfRange(file, 'area', `is ${fmt(areaDeg2)} deg^2`, 'give a positive area');
+  if (areaDeg2 > FULL_SKY_DEG2 * (1 + 1e-12)) {
+    outOfRange(file, 'area', `is ${fmt(areaDeg2)} deg^2, more than the whole sky (${fmt(FULL_SKY_DEG2)} deg^2)`, 'give at most the full sky');
+  }
+
+  // Field.
+  const field = { aspect: raw.field?.aspect ?? 1, count: raw.field?.count ?? 1 };
+  if (!(field.aspect > 0)) outOfRange(file, 'field.aspect', `is ${fmt(field.aspect)}`, 'give a positive aspect ratio (1 for a square field)');
+  if (!(field.count >= 1)) outOfRange(file, 'field.count', `is ${field.count}`, 'give at least 1 field');
+
+  let exposureHours: number | undefined;
+  if (raw.exposure !== undefined) exposureHours = positiveQuantity(raw.exposure, 'time', file, 'exposure', 'h');
+
+  // Detection keys that do not belong to the kind.
+  const det = raw.detection;
+  const kind = det.kind;
+  for (const k of Object.keys(det)) {
+    if (!DETECTION_KEYS[kind].includes(k)) {
+      throw inputError('kind_mismatch', file, `detection.${k}`, `${k} does not apply to the ${kind} kind`, `remove it, or change detection.kind`);
+    }
+  }
+
+  // Populations: list, variables, lines.
+  const rawPops: { raw: RawPopulation; path: string }[] = raw.population
+    ? [{ raw: raw.population, path: 'population' }]
+    : (raw.populations ?? []).map((p, i) => ({ raw: p, path: `populations[${i}]` }));
+  const detLine = det.line !== undefined ? positiveQuantity(det.line, 'wavelength', file, 'detection.line', 'Angstrom') : undefined;
+  const names = new Set<string>();
+  const lines: (number | undefined)[] = [];
+  rawPops.forEach(({ raw: p, path }, i) => {
+    if (kind === 'line_flux' && p.variable !== 'luminosity') {
+      throw inputError('kind_mismatch', file, `${path}.variable`, 'a line_flux detection counts line luminosities but variable is magnitude', 'set variable: luminosity, or use detection kind magnitude');
+    }
+    if (kind === 'magnitude' && p.variable !== 'magnitude') {
+      throw inputError('kind_mismatch', file, `${path}.variable`, 'a magnitude detection counts absolute magnitudes but variable is luminosity', 'set variable: magnitude, or use detection kind line_flux or threshold');
+    }
+    if (p.line !== undefined && kind !== 'line_flux') {
+      throw inputError('kind_mismatch', file, `${path}.line`, `line applies to the line_flux kind only, not ${kind}`, 'remove it');
+    }
+    const name = p.name ?? (rawPops.length === 1 ? DEFAULT_POPULATION_NAME : `${DEFAULT_POPULATION_NAME} ${i + 1}`);
+    if (names.has(name)) throw inputError('conflict', file, `${path}.name`, `the name "${name}" is used by another population`, 'give each population its own name');
+    names.add(name);
+    let line: number | undefined;
+    if (kind === 'line_flux') {
+      line = p.line !== undefined ? positiveQuantity(p.line, 'wavelength', file, `${path}.line`, 'Angstrom') : detLine;
+      if (line === undefined) {
+        throw inputError('missing_key', file, 'detection.line', 'is missing', `give the rest wavelength of the line (Angstrom or with a unit) as detection.line or ${path}.line`);
+      }
+    }
+    lines.push(line);
+  });
+
+  // Redshift window.
+  let given: Window | undefined;
+  if (raw.redshift) {
+    given = { min: raw.redshift.min, max: raw.redshift.max };
+    if (!(given.min >= 0)) throw inputError('bad_window', file, 'redshift.min', `is ${fmt(given.min)}`, 'give a redshift of 0 or more');
+    if (!(given.max > given.min)) {
+      throw inputError('bad_window', file, 'redshift.max', `is ${fmt(given.max)}, not above min (${fmt(given.min)})`, 'give max larger than min');
+    }
+  }
+  let filter: Filter | undefined;
+  if (det.filter) {
+    filter = {
+      centerAngstrom: positiveQuantity(det.filter.center, 'wavelength', file, 'detection.filter.center', 'Angstrom'),
+      fwhmAngstrom: positiveQuantity(det.filter.fwhm, 'wavelength', file, 'detection.filter.fwhm', 'Angstrom'),
+      profile: det.filter.profile ?? 'tophat',
+    };
+  }
+  if (!given && !filter) {
+    throw inputError('missing_key', file, 'redshift', 'is missing', 'give redshift: {min, max}, or a detection.filter that sets the window');
+  }
+  const windows: Window[] = rawPops.map((_, i) => {
+    if (!filter) return given!;
+    const w = filterWindow(filter, lines[i]!);
+    const cut = given ? intersect(w, given) : w;
+    if (!(cut.max > cut.min)) {
+      const seen = w.max > w.min ? `z = ${fmt(w.min)} to ${fmt(w.max)}` : 'no redshift of 0 or more';
+      throw inputError(
+        'bad_window',
+        file,
+        'detection.filter',
+        `the filter sees the line at ${fmt(lines[i]!)} Angstrom at ${seen}${given ? `, which does not overlap redshift ${fmt(given.min)} to ${fmt(given.max)}` : ''}`,
+        'check the filter center and fwhm, the line and the redshift window',
+      );
+    }
+    return cut;
+  });
+  let window: Window = {
+    min: Math.min(...windows.map((w) => w.min)),
+    max: Math.max(...windows.map((w) => w.max)),
+  };
+
+  // Slices.
+  const sliceEdgesZ = sliceEdges(raw.slices, window, file);
+  if (raw.slices?.edges) {
+    // The slices cover [first edge, last edge]: that span becomes the survey window.
+    window = { min: sliceEdgesZ[0]!, max: sliceEdgesZ[sliceEdgesZ.length - 1]! };
+    windows.forEach((w, i) => {
+      const cut = intersect(w, window);
+      if (!(cut.max > cut.min)) {
+        throw inputError('bad_slices', file, 'slices.edges', `the edges leave none of the window of ${rawPops[i]!.path}`, 'give edges that span its redshift window');
+      }
+      windows[i] = cut;
+    });
+  }
+
+  // Detection.
+  let detection: Detection;
+  const completeness = det.completeness ? parseCompleteness(det.completeness, kind, file) : undefined;
+  if (kind === 'line_flux') {
+    if (typeof det.limit === 'object') {
+      throw inputError('wrong_type', file, 'detection.limit', 'is a table but a line_flux limit is one flux', 'give the flux limit in erg/s/cm^2 or with a unit');
+    }
+    const limitCgs = positiveQuantity(det.limit, 'flux', file, 'detection.limit', 'erg/s/cm^2');
+    detection = { kind, limitCgs };
+    if (detLine !== undefined) detection.lineAngstrom = detLine;
+    if (filter) detection.filter = filter;
+  } else if (kind === 'magnitude') {
+    if (typeof det.limit === 'object') {
+      throw inputError('wrong_type', file, 'detection.limit', 'is a table but a magnitude limit is one AB magnitude', 'give the limiting apparent AB magnitude as a number');
+    }
+    const limitMag = plainNumber(det.limit, file, 'detection.limit', 'the limiting apparent AB magnitude');
+    if (det.band === undefined) {
+      throw inputError('missing_key', file, 'detection.band', 'is missing', 'give the effective wavelength of the band (Angstrom or with a unit)');
+    }
+    const bandAngstrom = positiveQuantity(det.band, 'wavelength', file, 'detection.band', 'Angstrom');
+    detection = { kind, limitMag, bandAngstrom, beta: det.beta ?? -2 };
+  } else {
+    const limit = makeZParam(det.limit, file, 'detection.limit');
+    checkParam(limit, window, file, 'detection.limit', { what: 'the limit' });
+    detection = { kind, limit };
+  }
+  if (completeness) detection.completeness = completeness;
+
+  // Populations.
+  const populations: Population[] = rawPops.map(({ raw: p, path }, i) => {
+    const w = windows[i]!;
+    const params = parsePopulationParams(p, path, file);
+    checkParam(params.phiStar, w, file, `${path}.${params.phiKey}`, { what: params.phiKey, positive: true });
+    if (params.lStar) checkParam(params.lStar, w, file, `${path}.${params.lKey}`, { what: 'l_star', positive: true });
+    if (params.mStar) checkParam(params.mStar, w, file, `${path}.m_star`, { what: 'm_star' });
+    checkParam(params.alpha, w, file, `${path}.alpha`, { what: 'alpha' });
+    let bias: 'auto' | ZParam = 'auto';
+    if (p.bias !== undefined && p.bias !== 'auto') {
+      bias = makeZParam(p.bias, file, `${path}.bias`);
+      checkParam(bias, w, file, `${path}.bias`, { what: 'the bias', positive: true });
+    }
+    const occupation = p.occupation ?? 1;
+    if (!(occupation > 0 && occupation <= 1)) outOfRange(file, `${path}.occupation`, `is ${fmt(occupation)}`, 'give a fraction above 0 and at most 1');
+    const restWavelengthAngstrom =
+      p.rest_wavelength !== undefined ? positiveQuantity(p.rest_wavelength, 'wavelength', file, `${path}.rest_wavelength`, 'Angstrom') : 1500;
+    const pop: Population = {
+      name: p.name ?? (rawPops.length === 1 ? DEFAULT_POPULATION_NAME : `${DEFAULT_POPULATION_NAME} ${i + 1}`),
+      shape: 'schechter',
+      variable: p.variable,
+      phiStar: params.phiStar,
+      alpha: params.alpha,
+      restWavelengthAngstrom,
+      bias,
+      occupation,
+      window: { min: w.min, max: w.max },
+    };
+    if (p.quantity !== undefined) pop.quantity = p.quantity;
+    if (params.lStar) pop.lStar = params.lStar;
+    if (params.mStar) pop.mStar = params.mStar;
+    if (lines[i] !== undefined) pop.lineAngstrom = lines[i];
+    return pop;
+  });
+
+  // Histogram.
+  const defaultWidth = kind === 'magnitude' || (kind === 'threshold' && rawPops.every((p) => p.raw.variable === 'magnitude')) ? 0.25 : 0.1;
+  const histogramWidth = raw.histogram?.width ?? defaultWidth;
+  if (!(histogramWidth > 0)) outOfRange(file, 'histogram.width', `is ${fmt(histogramWidth)}`, 'give a positive bin width');
+
+  const survey: Survey = {
+    format: 1,
+    file,
+    title: raw.title ?? defaultTitle(file),
+    cosmology,
+    areaDeg2,
+    areaSr: areaDeg2 * SR_PER_DEG2,
+    redshift: window,
+    field,
+    detection,
+    populations,
+    sliceEdges: sliceEdgesZ,
+    histogramWidth,
+    raw: obj,
+  };
+  if (exposureHours !== undefined) survey.exposureHours = exposureHours;
+  return survey;
+}
+
+function defaultTitle(file: string): string {
+  const base = file.split(/[\\/]/).pop() ?? '';
+  const stem = base.replace(/\.(ya?ml|json)$/i, '');
+  return stem || 'Untitled survey';
+}

@@ -1,0 +1,163 @@
+/**
+ * Validation of a parsed survey file against specs/survey.schema.json (JSON Schema 2020-12,
+ * precompiled into survey-validator.generated.ts),
+ * and the translation of the validator's findings into one SurveyError:
+ * unknown keys (with the nearest valid key), conflicts (two keys of which one is allowed),
+ * wrong types, bad tables, and missing keys, in that order of preference.
+ */
+import type { ErrorObject } from 'ajv';
+import { closest, distance } from 'fastest-levenshtein';
+import { inputError, type SurveyError } from '../errors.js';
+import generatedValidate from './survey-validator.generated.js';
+
+/** Location of the schema, relative to this module (src/survey or dist/survey). */
+export const SURVEY_SCHEMA_URL = new URL('../../specs/survey.schema.json', import.meta.url);
+
+interface Validator {
+  (data: unknown): boolean;
+  errors?: ErrorObject[] | null;
+}
+
+/**
+ * The schema precompiled by ajv (scripts/generate-survey-validator.ts): importing ajv and
+ * compiling the schema at run time would cost several hundred ms at every start.
+ */
+const validate = generatedValidate as unknown as Validator;
+
+/** "/populations/0/phi_star/table/1" -> "populations[0].phi_star.table[1]". */
+export function keyPathOf(instancePath: string): string {
+  let out = '';
+  for (const raw of instancePath.split('/').slice(1)) {
+    const seg = raw.replace(/~1/g, '/').replace(/~0/g, '~');
+    if (/^\d+$/.test(seg)) out += `[${seg}]`;
+    else out += out ? `.${seg}` : seg;
+  }
+  return out;
+}
+
+function join(parent: string, key: string): string {
+  return parent ? `${parent}.${key}` : key;
+}
+
+/** Nearest candidate by edit distance, when it is near enough to be a likely typo. */
+export function suggest(word: string, candidates: string[]): string | undefined {
+  if (candidates.length === 0) return undefined;
+  const best = closest(word, candidates);
+  const d = distance(word.toLowerCase(), best.toLowerCase());
+  return d <= Math.max(2, Math.floor(best.length / 3)) ? best : undefined;
+}
+
+const TYPE_WORDS: Record<string, string> = {
+  number: 'a number',
+  integer: 'a whole number',
+  string: 'a string',
+  object: 'a mapping of keys',
+  array: 'a list',
+  boolean: 'true or false',
+};
+
+function describeValue(v: unknown): string {
+  if (v === null) return 'empty';
+  if (Array.isArray(v)) return 'a list';
+  if (typeof v === 'object') return 'a mapping';
+  if (typeof v === 'string') return `the text "${v.length > 30 ? v.slice(0, 27) + '...' : v}"`;
+  return `${typeof v === 'number' ? '' : typeof v + ' '}${String(v)}`;
+}
+
+function depth(e: ErrorObject): number {
+  return e.instancePath === '' ? 0 : e.instancePath.split('/').length - 1;
+}
+
+/** Validate `obj`; return undefined when it matches the schema, else the one error to report. */
+export function schemaError(obj: unknown, file: string): SurveyError | undefined {
+  if (validate(obj)) return undefined;
+  const errors = validate.errors ?? [];
+
+  // 1. Unknown keys.
+  const extra = errors.find((e) => e.keyword === 'additionalProperties');
+  if (extra) {
+    const key = String((extra.params as { additionalProperty: string }).additionalProperty);
+    const parent = keyPathOf(extra.instancePath);
+    const props = Object.keys(((extra.parentSchema ?? {}) as { properties?: object }).properties ?? {});
+    const near = suggest(key, props);
+    return near
+      ? inputError('unknown_key', file, join(parent, key), `unknown key "${key}" (did you mean ${near}?)`, 'rename or remove it')
+      : inputError('unknown_key', file, join(parent, key), `unknown key "${key}"`, `remove it; the keys allowed here are ${props.join(', ')}`);
+  }
+
+  // 2. Two keys where only one is allowed (oneOf over `required` branches that several pass).
+  const conflict = errors.find(
+    (e) => e.keyword === 'oneOf' && Array.isArray((e.params as { passingSchemas: unknown }).passingSchemas),
+  );
+  if (conflict) {
+    const branches = (conflict.schema ?? []) as { required?: string[] }[];
+    const passing = (conflict.params as { passingSchemas: number[] }).passingSchemas;
+    const keys = passing.map((i) => branches[i]?.required?.[0] ?? '?');
+    const all = branches.map((b) => b.required?.[0] ?? '?');
+    const parent = keyPathOf(conflict.instancePath);
+    return inputError(
+      'conflict',
+      file,
+      join(parent, keys[1] ?? keys[0] ?? ''),
+      `${keys.join(' and ')} are both given but only one of ${all.join(', ')} is allowed`,
+      `keep one of them`,
+    );
+  }
+
+  // 3. Wrong values (types, enums, list lengths), the most specific place first.
+  const valueErrors = errors
+    .filter((e) => !['required', 'anyOf', 'oneOf', 'if', '$ref'].includes(e.keyword))
+    .sort((a, b) => depth(b) - depth(a));
+  const first = valueErrors[0];
+  if (first) {
+    const path = keyPathOf(first.instancePath);
+    const data = first.data;
+    switch (first.keyword) {
+      case 'type': {
+        const group = errors.find((e) => e.keyword === 'anyOf' && e.instancePath === first.instancePath);
+        const title = (group?.parentSchema as { title?: string } | undefined)?.title;
+        const expected = title ?? TYPE_WORDS[String((first.params as { type: string }).type)] ?? 'another type';
+        return inputError('wrong_type', file, path, `is ${describeValue(data)} but must be ${expected}`, 'change the value to that form');
+      }
+      case 'enum':
+      case 'const': {
+        const allowed = (first.keyword === 'enum' ? (first.schema as unknown[]) : [first.schema]).map(String);
+        const near = typeof data === 'string' ? suggest(data, allowed) : undefined;
+        return inputError(
+          'out_of_range',
+          file,
+          path,
+          `is ${describeValue(data)} but must be ${allowed.length === 1 ? '' : 'one of '}${allowed.join(' | ')}${near ? ` (did you mean ${near}?)` : ''}`,
+          'use one of those values',
+        );
+      }
+      case 'minItems':
+      case 'maxItems': {
+        const n = Number((first.params as { limit: number }).limit);
+        const code = /(^|\.)table(\[|$)/.test(path) ? 'bad_table' : /^slices/.test(path) ? 'bad_slices' : 'wrong_type';
+        const isRow = /\]$/.test(path) && /table\[\d+\]$/.test(path);
+        const what = isRow
+          ? `is a row of ${Array.isArray(data) ? data.length : '?'} values but each row must hold exactly 2`
+          : `has ${Array.isArray(data) ? data.length : '?'} ${Array.isArray(data) && data.length === 1 ? 'entry' : 'entries'} but needs ${first.keyword === 'minItems' ? 'at least' : 'at most'} ${n}`;
+        return inputError(code, file, path, what, isRow ? 'write each row as [x, value]' : 'add the missing entries');
+      }
+      default:
+        return inputError('wrong_type', file, path, `${first.message ?? 'is not valid'}`, 'see specs/survey.schema.json for the allowed form');
+    }
+  }
+
+  // 4. Missing keys.
+  const missing = errors.find((e) => e.keyword === 'required');
+  if (missing) {
+    const key = String((missing.params as { missingProperty: string }).missingProperty);
+    const parent = keyPathOf(missing.instancePath);
+    const group = errors.find((e) => e.keyword === 'oneOf' && e.instancePath === missing.instancePath);
+    const options = group ? ((group.schema ?? []) as { required?: string[] }[]).map((b) => b.required?.[0]) : [];
+    if (group && options.includes(key)) {
+      return inputError('missing_key', file, join(parent, key), `is missing`, `give one of ${options.join(', ')}`);
+    }
+    return inputError('missing_key', file, join(parent, key), `is missing`, `add ${key} (see the survey-file format)`);
+  }
+  const e = errors[0]!;
+  return inputError('wrong_type', file, keyPathOf(e.instancePath), e.message ?? 'is not valid', 'see specs/survey.schema.json');
+}

@@ -1,0 +1,134 @@
+/**
+ * Parameters that may vary with redshift (survey-file.md, "The population"): a number, a table
+ * {table: [[z, value], ...]} (linear interpolation in z, end values held outside), or an
+ * expression in z (src/survey/expressions.ts).
+ */
+import { inputError } from '../errors.js';
+import type { ZParam } from './types.js';
+import { compileExpression } from './expressions.js';
+
+export type ZTable = { table: [number, number][] };
+
+export function isZTable(v: unknown): v is ZTable {
+  return typeof v === 'object' && v !== null && !Array.isArray(v) && 'table' in v;
+}
+
+export function constantParam(v: number): ZParam {
+  return { source: v, constant: true, at: () => v };
+}
+
+/** Linear interpolation through (zs, vs), zs strictly increasing; end values held outside. */
+export function interpolator(zs: readonly number[], vs: readonly number[]): (z: number) => number {
+  const n = zs.length;
+  const z0 = zs[0]!;
+  const zn = zs[n - 1]!;
+  const v0 = vs[0]!;
+  const vn = vs[n - 1]!;
+  return (z: number) => {
+    if (z <= z0) return v0;
+    if (z >= zn) return vn;
+    let lo = 0;
+    let hi = n - 1;
+    while (hi - lo > 1) {
+      const mid = (lo + hi) >> 1;
+      if (zs[mid]! <= z) lo = mid;
+      else hi = mid;
+    }
+    const za = zs[lo]!;
+    const va = vs[lo]!;
+    return va + ((z - za) / (zs[hi]! - za)) * (vs[hi]! - va);
+  };
+}
+
+/**
+ * Build a ZParam from what the file holds (already shape-checked by the schema).
+ * Throws bad_table (z not strictly increasing) or bad_expression.
+ */
+export function makeZParam(value: number | string | ZTable, file: string, keyPath: string): ZParam {
+  if (typeof value === 'number') return constantParam(value);
+  if (typeof value === 'string') {
+    const e = compileExpression(value, file, keyPath);
+    return { source: value, constant: e.constant, at: e.fn };
+  }
+  const rows = value.table;
+  const zs = rows.map((r) => r[0]);
+  const vs = rows.map((r) => r[1]);
+  for (let i = 1; i < zs.length; i++) {
+    if (!(zs[i]! > zs[i - 1]!)) {
+      throw inputError(
+        'bad_table',
+        file,
+        `${keyPath}.table[${i}]`,
+        `the redshifts of the table are not strictly increasing (z = ${zs[i]} follows z = ${zs[i - 1]})`,
+        'list the rows in increasing z without repeats',
+      );
+    }
+  }
+  const source = { table: rows.map((r) => [r[0], r[1]] as [number, number]) };
+  return { source, constant: vs.every((v) => v === vs[0]), at: interpolator(zs, vs) };
+}
+
+/** A ZParam whose value is f(inner value); keeps the file's source for display. */
+export function mapParam(p: ZParam, f: (v: number) => number): ZParam {
+  const inner = p.at;
+  if (p.constant) {
+    const v = f(inner(0));
+    return { source: p.source, constant: true, at: () => v };
+  }
+  return { source: p.source, constant: false, at: (z) => f(inner(z)) };
+}
+
+/** Points at which a parameter is checked over a window: 64 evenly spaced (ends included) plus the table's nodes inside. */
+export function samplePoints(window: { min: number; max: number }, p?: ZParam): number[] {
+  const n = 64;
+  const pts: number[] = [];
+  for (let i = 0; i < n; i++) pts.push(i === n - 1 ? window.max : window.min + ((window.max - window.min) * i) / (n - 1));
+  if (p && isZTable(p.source)) {
+    for (const [z] of p.source.table) if (z > window.min && z < window.max) pts.push(z);
+  }
+  return pts;
+}
+
+/**
+ * Check a parameter over a window: finite everywhere (bad_expression for an expression,
+ * not_finite otherwise) and, when `positive`, > 0 (out_of_range).
+ */
+export function checkParam(
+  p: ZParam,
+  window: { min: number; max: number },
+  file: string,
+  keyPath: string,
+  opts: { positive?: boolean; what: string },
+): void {
+  for (const z of samplePoints(window, p)) {
+    const v = p.at(z);
+    if (!Number.isFinite(v)) {
+      const bad = Number.isNaN(v) ? 'has no real value' : 'is infinite';
+      if (typeof p.source === 'string') {
+        throw inputError(
+          'bad_expression',
+          file,
+          keyPath,
+          `the expression "${p.source}" ${bad} at z = ${fmt(z)}`,
+          `change it so that it is finite for every z from ${fmt(window.min)} to ${fmt(window.max)}`,
+        );
+      }
+      throw inputError('not_finite', file, keyPath, `${opts.what} ${bad} at z = ${fmt(z)}`, 'give values that stay finite over the redshift window');
+    }
+    if (opts.positive && !(v > 0)) {
+      throw inputError(
+        'out_of_range',
+        file,
+        keyPath,
+        `${opts.what} is ${fmt(v)} at z = ${fmt(z)} but must be positive`,
+        `give a value above 0 for every z from ${fmt(window.min)} to ${fmt(window.max)}`,
+      );
+    }
+  }
+}
+
+/** Short number for messages. */
+export function fmt(v: number): string {
+  if (!Number.isFinite(v)) return String(v);
+  return String(Number(v.toPrecision(6)));
+}

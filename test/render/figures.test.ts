@@ -1,0 +1,356 @@
+import { readFileSync } from 'node:fs';
+import { describe, expect, test } from 'vitest';
+import {
+  DELTA_CHI2_2D,
+  PALETTE,
+  buildFigures,
+  countRows,
+  countsFigure,
+  countsSpec,
+  detectedPart,
+  ellipseAxes,
+  ellipsePoints,
+  forecastFigure,
+  forecastSpec,
+  histogramsFigure,
+  histogramsSpec,
+  luminosityFunctionFigure,
+  luminosityFunctionSpec,
+  planFigure,
+  planSpec,
+  renderSvg,
+  type Cov2,
+} from '../../src/render/figures.js';
+import type { PredictionJson } from '../../src/render/types.js';
+import { demoForecast, demoPlan, demoPrediction } from './demo.js';
+
+type Any = Record<string, any>;
+
+/** Bars drawn by vega in an SVG: aria label and rectangle (x, y, width, height) from the path. */
+function bars(svg: string): { label: string; x: number; y: number; w: number; h: number }[] {
+  const re = /<path aria-label="([^"]*)" role="graphics-symbol" aria-roledescription="bar" d="M([-\d.e]+),([-\d.e]+)h([-\d.e]+)v([-\d.e]+)h[-\d.e]+Z"/g;
+  return [...svg.matchAll(re)].map((m) => ({ label: m[1]!, x: +m[2]!, y: +m[3]!, w: +m[4]!, h: +m[5]! }));
+}
+
+/** "values from 0 to 4,500" in an axis aria label -> [0, 4500]. */
+function axisDomain(svg: string, axis: 'X' | 'Y', nth = 0): [number, number] {
+  const re = new RegExp(`aria-label="${axis}-axis titled '[^']*' for a (?:linear|log) scale with values from ([-\\d.,e]+) to ([-\\d.,e]+)"`, 'g');
+  const m = [...svg.matchAll(re)][nth];
+  if (!m) throw new Error(`no ${axis} axis`);
+  return [Number(m[1]!.replace(/,/g, '')), Number(m[2]!.replace(/,/g, ''))];
+}
+
+const demo = demoPrediction();
+
+describe('counts figure: the drawn numbers are the prediction numbers (demo object)', () => {
+  test('spec data values equal each slice z_min, z_max, count and the 1-sigma bounds', () => {
+    const spec = countsSpec(demo)! as Any;
+    const values = spec.data.values as Any[];
+    expect(values).toHaveLength(demo.slices.length);
+    demo.slices.forEach((s, i) => {
+      expect(values[i]).toMatchObject({ z_min: s.z_min, z_max: s.z_max, count: s.count, per_deg2: s.per_deg2 });
+      expect(values[i]!.low).toBe(s.count * (1 - s.uncertainty!.total_fraction));
+      expect(values[i]!.high).toBe(s.count * (1 + s.uncertainty!.total_fraction));
+    });
+  });
+
+  test('SVG bar heights and positions give back every count and slice edge (to 1e-6)', async () => {
+    const fig = (await countsFigure(demo))!;
+    const drawn = bars(fig.svg);
+    expect(drawn).toHaveLength(demo.slices.length);
+    const [y0, y1] = axisDomain(fig.svg, 'Y');
+    const [x0, x1] = axisDomain(fig.svg, 'X');
+    expect(y0).toBe(0);
+    const height = 300; // countsSpec height
+    const width = 560;
+    drawn.forEach((b, i) => {
+      const s = demo.slices[i]!;
+      expect((b.h / height) * y1).toBeCloseTo(s.count, 6);
+      expect(x0 + (b.x / width) * (x1 - x0)).toBeCloseTo(s.z_min, 9);
+      expect(x0 + ((b.x + b.w) / width) * (x1 - x0)).toBeCloseTo(s.z_max, 9);
+      // the bar's aria label carries the count as vega formats it (6 significant digits)
+      expect(b.label).toContain(`count: ${Number(s.count.toPrecision(6))}`);
+    });
+  });
+
+  test('error bars are drawn only when an uncertainty is present', async () => {
+    const plain = demoPrediction({ uncertainty: false });
+    expect((countsSpec(plain) as Any).layer).toHaveLength(1);
+    expect(countRows(plain).every((r) => r.low === undefined)).toBe(true);
+    const withU = (await countsFigure(demo))!;
+    const without = (await countsFigure(plain))!;
+    expect(withU.svg).toContain('aria-roledescription="errorbar"');
+    expect(without.svg).not.toContain('errorbar');
+  });
+
+  test('title carries the survey title', async () => {
+    const fig = (await countsFigure(demo))!;
+    expect(fig.title.startsWith(demo.title)).toBe(true);
+    expect(fig.svg).toContain(demo.title);
+  });
+});
+
+describe('histogram figure: small multiples hold each slice histogram', () => {
+  test('spec panels hold every bin edge and count of every slice', () => {
+    const spec = histogramsSpec(demo)! as Any;
+    expect(spec.concat).toHaveLength(demo.slices.length);
+    demo.slices.forEach((s, i) => {
+      const rows = spec.concat[i].data.values as Any[];
+      expect(rows.map((r) => r.count)).toEqual(s.histogram!.counts);
+      expect(rows.map((r) => r.lo)).toEqual(s.histogram!.edges.slice(0, -1));
+      expect(rows.map((r) => r.hi)).toEqual(s.histogram!.edges.slice(1));
+      expect(spec.concat[i].encoding.x.title).toBe('log₁₀ line flux [erg s⁻¹ cm⁻²]');
+    });
+  });
+
+  test('SVG has one bar per bin, heights proportional to the counts within each panel', async () => {
+    const fig = (await histogramsFigure(demo))!;
+    const drawn = bars(fig.svg);
+    const nBins = demo.slices[0]!.histogram!.counts.length;
+    expect(drawn).toHaveLength(demo.slices.length * nBins);
+    demo.slices.forEach((s, i) => {
+      const panel = drawn.slice(i * nBins, (i + 1) * nBins);
+      const [, yMax] = axisDomain(fig.svg, 'Y', i);
+      panel.forEach((b, k) => expect((b.h / 110) * yMax).toBeCloseTo(s.histogram!.counts[k]!, 6));
+    });
+  });
+
+  test('an absolute-magnitude model and a threshold histogram get their own axis labels', () => {
+    const p = demoPrediction({ slices: 2 });
+    for (const s of p.slices) s.histogram!.variable = 'apparent_magnitude';
+    expect((histogramsSpec(p) as Any).concat[0].encoding.x.title).toBe('apparent AB magnitude [mag]');
+    for (const s of p.slices) s.histogram!.variable = 'log10_quantity';
+    expect((histogramsSpec(p, { quantity: 'stellar mass [Msun]' }) as Any).concat[0].encoding.x.title).toBe(
+      'log₁₀ stellar mass [Msun]',
+    );
+  });
+});
+
+describe('luminosity-function figure', () => {
+  test('each panel draws its slice curve, limit and knee', () => {
+    const spec = luminosityFunctionSpec(demo)! as Any;
+    expect(spec.concat).toHaveLength(demo.slices.length);
+    demo.slices.forEach((s, i) => {
+      const layers = spec.concat[i].layer as Any[];
+      const line = layers.find((l) => l.mark.type === 'line')!;
+      const c = s.luminosity_function!;
+      // every drawn point is a point of the input curve
+      for (const r of line.data.values) {
+        const j = c.x.indexOf(r.x);
+        expect(j).toBeGreaterThanOrEqual(0);
+        expect(r.phi).toBe(c.phi[j]);
+      }
+      const rule = layers.find((l) => l.mark.type === 'rule')!;
+      expect(rule.data.values[0].x).toBe(c.limit);
+      const knee = layers.find((l) => Array.isArray(l.layer))!;
+      expect(knee.data.values[0]).toEqual({ x: c.knee, label: 'L*' });
+      const area = layers.find((l) => l.mark.type === 'area')!;
+      expect(Math.min(...area.data.values.map((r: Any) => r.x))).toBeCloseTo(c.limit!, 12);
+    });
+  });
+
+  test('detected part: brighter side of the limit, starting at the limit (interpolated in log10 phi)', () => {
+    const rows = [
+      { x: 41, phi: 1e-2 },
+      { x: 42, phi: 1e-4 },
+      { x: 43, phi: 1e-6 },
+    ];
+    // closed form: halfway between 41 and 42 in log10 phi is 10^-3
+    expect(detectedPart(rows, 41.5, false)).toEqual([{ x: 41.5, phi: expect.closeTo(1e-3, 15) }, rows[1], rows[2]]);
+    // magnitudes: brighter is smaller, so the detected side is x <= limit
+    const mags = [
+      { x: -23, phi: 1e-6 },
+      { x: -21, phi: 1e-3 },
+      { x: -19, phi: 1e-2 },
+    ];
+    const part = detectedPart(mags, -20, true);
+    expect(part.map((r) => r.x)).toEqual([-23, -21, -20]);
+  });
+
+  test('a magnitude population marks M* and labels phi per magnitude', () => {
+    const p = demoPrediction({ slices: 2 });
+    for (const s of p.slices) {
+      const c = s.luminosity_function!;
+      c.x = c.x.map((lx) => -2.5 * lx + 85);
+      c.limit = -2.5 * c.limit! + 85;
+      c.knee = -2.5 * c.knee! + 85;
+      delete c.x_label;
+    }
+    const spec = luminosityFunctionSpec(p, { variable: 'magnitude' })! as Any;
+    const layers = spec.concat[0].layer as Any[];
+    expect(layers.find((l) => Array.isArray(l.layer))!.data.values[0].label).toBe('M*');
+    const line = layers.find((l) => l.mark.type === 'line')!;
+    expect(line.encoding.y.title).toBe('φ [Mpc⁻³ mag⁻¹]');
+    expect(line.encoding.x.title).toBe('absolute AB magnitude M [mag]');
+    const area = layers.find((l) => l.mark.type === 'area')!;
+    expect(Math.max(...area.data.values.map((r: Any) => r.x))).toBeCloseTo(p.slices[0]!.luminosity_function!.limit!, 12);
+  });
+});
+
+describe('forecast figure: Fisher ellipses', () => {
+  const ref = JSON.parse(readFileSync(new URL('../reference/chi2-2dof.json', import.meta.url), 'utf8')) as {
+    rows: { k_sigma: number; delta_chi2: number }[];
+  };
+  test('Delta chi2 of the 1- and 2-sigma joint regions equal scipy 1.10.1 chi2.ppf (rel 1e-12)', () => {
+    // reference: test/reference/chi2-2dof.json (generator test/reference/generate/chi2_2dof.py)
+    expect(DELTA_CHI2_2D.one).toBeCloseTo(ref.rows[0]!.delta_chi2, 12);
+    expect(DELTA_CHI2_2D.two).toBeCloseTo(ref.rows[1]!.delta_chi2, 11);
+  });
+
+  const cov: Cov2 = [
+    [0.09 ** 2, -0.7 * 0.09 * 0.04],
+    [-0.7 * 0.09 * 0.04, 0.04 ** 2],
+  ];
+  test('every ellipse point lies on (p-c)^T C^-1 (p-c) = Delta chi2 (closed form, 1e-10)', () => {
+    const pts = ellipsePoints(-1.5, 42.4, cov, DELTA_CHI2_2D.one, 90);
+    const [[a, b], [, c]] = cov;
+    const det = a * c - b * b;
+    for (const { x, y } of pts) {
+      const dx = x + 1.5;
+      const dy = y - 42.4;
+      const q = (c * dx * dx - 2 * b * dx * dy + a * dy * dy) / det;
+      expect(q).toBeCloseTo(DELTA_CHI2_2D.one, 10);
+    }
+    expect(pts[0]).toEqual(pts[pts.length - 1]); // closed
+  });
+
+  test('the Delta chi2 = 1 ellipse spans exactly +-sigma in each parameter (projection of the marginal, closed form)', () => {
+    const pts = ellipsePoints(0, 0, cov, 1, 20000);
+    const xs = pts.map((p) => p.x);
+    const ys = pts.map((p) => p.y);
+    expect(Math.max(...xs)).toBeCloseTo(0.09, 6);
+    expect(Math.min(...ys)).toBeCloseTo(-0.04, 6);
+  });
+
+  test('no ellipse for a covariance that is not positive definite', () => {
+    expect(ellipsePoints(0, 0, [[1, 1], [1, 1]], 1)).toEqual([]);
+    expect(ellipsePoints(0, 0, [[-1, 0], [0, 1]], 1)).toEqual([]);
+  });
+
+  test('axes come from sigma and correlation; linear L* moves to log10 L* (first order)', () => {
+    const f = demoForecast({ mocks: 0 });
+    const axes = ellipseAxes(f)!;
+    expect(axes.center).toEqual([-1.5, 42.4]);
+    expect(axes.cov[0][1]).toBeCloseTo(-0.7 * 0.09 * 0.04, 15);
+    const lin = {
+      parameters: ['alpha', 'l_star'],
+      fisher: { sigma: { alpha: 0.1, l_star: 2e41 }, correlation: [[1, 0.3], [0.3, 1]] },
+      center: { alpha: -1.4, l_star: 1e42 },
+    };
+    const la = ellipseAxes(lin)!;
+    expect(la.center[1]).toBe(42);
+    // d log10 L = dL / (L ln 10): 0.2 / ln 10
+    expect(Math.sqrt(la.cov[1][1])).toBeCloseTo(0.2 / Math.LN10, 14);
+  });
+
+  test('spec holds both ellipses and every mock fit', () => {
+    const f = demoForecast({ mocks: 50 });
+    const spec = forecastSpec(f, 'Demo')! as Any;
+    const mocks = spec.layer[0].data.values as Any[];
+    expect(mocks).toHaveLength(50);
+    mocks.forEach((m, i) => expect([m.x, m.y]).toEqual([f.mocks!.fits![i]![2], f.mocks!.fits![i]![1]]));
+    const regions = new Set((spec.layer[1].data.values as Any[]).map((r) => r.region));
+    expect([...regions]).toEqual(['1σ (68.3%)', '2σ (95.4%)']);
+  });
+
+  test('without mocks the figure still draws; without alpha or L* there is no figure', async () => {
+    const fig = (await forecastFigure(demoForecast({ mocks: 0 }), 'Demo'))!;
+    expect(fig.svg).toContain('1σ (68.3%)');
+    expect(forecastSpec({ parameters: ['log10_phi_star'], fisher: { sigma: {}, correlation: [[1]] }, center: {} })).toBeNull();
+  });
+});
+
+describe('plan figure', () => {
+  test('spec holds every design in exposure order, the best one and the near-best band', async () => {
+    const plan = demoPlan();
+    const spec = planSpec(plan, 'Demo')! as Any;
+    const band = spec.layer[0].data.values[0];
+    expect(band).toEqual({ from: 0.5, to: 2 });
+    const line = spec.layer[1];
+    expect(line.encoding.x.scale.type).toBe('log');
+    expect(line.data.values.map((d: Any) => d.goal_value)).toEqual(plan.designs.map((d) => d.goal_value));
+    expect(spec.layer[2].data.values[0].exposure_hours_per_pointing).toBe(plan.best!.exposure_hours_per_pointing);
+    const fig = (await planFigure(plan, 'Demo'))!;
+    expect(fig.svg).toContain(`best: 1 h × ${plan.best!.pointings} pointings`);
+  });
+
+  test('without best or near-best: just the curve', () => {
+    const plan = demoPlan();
+    delete plan.best;
+    delete plan.near_best;
+    expect((planSpec(plan) as Any).layer).toHaveLength(1);
+  });
+});
+
+describe('graceful absence', () => {
+  test('a prediction without histograms or curves gives only the counts figure', async () => {
+    const p: PredictionJson = demoPrediction({ histograms: false, curves: false, uncertainty: false });
+    const figs = await buildFigures({ prediction: p });
+    expect(figs.map((f) => f.name)).toEqual(['counts']);
+    expect(await histogramsFigure(p)).toBeNull();
+    expect(await luminosityFunctionFigure(p)).toBeNull();
+  });
+
+  test('all five figures for a full demo, each SVG non-empty and titled with the survey title', async () => {
+    const figs = await buildFigures({ prediction: demo, forecast: demoForecast(), plan: demoPlan() });
+    expect(figs.map((f) => f.name)).toEqual(['counts', 'histograms', 'luminosity-function', 'forecast', 'plan']);
+    for (const f of figs) {
+      expect(f.svg.startsWith('<svg')).toBe(true);
+      expect(f.title).toContain(demo.title);
+    }
+  });
+
+  test('non-finite numbers never reach the figure data', () => {
+    const p = demoPrediction({ slices: 3 });
+    p.slices[1]!.count = Number.NaN;
+    expect(countRows(p).map((r) => r.slice)).toEqual([1, 3]);
+  });
+});
+
+describe('no network, no disk', () => {
+  test('a spec asking for data from a URL is refused by the loader (nothing fetched)', async () => {
+    const spec = {
+      data: { url: 'http://127.0.0.1:9/never.json' },
+      mark: 'point',
+      encoding: { x: { field: 'a', type: 'quantitative' } },
+    };
+    await expect(renderSvg(spec)).rejects.toThrow(/figures fetch nothing/);
+  });
+
+  test('an image mark with a URL is refused too', async () => {
+    const spec = {
+      data: { values: [{ u: 'http://127.0.0.1:9/x.png' }] },
+      mark: 'image',
+      encoding: { url: { field: 'u' } },
+    };
+    await expect(renderSvg(spec)).rejects.toThrow(/figures fetch nothing/);
+  });
+});
+
+describe('escaping in SVG text (vega escapes what it draws)', () => {
+  test('a title with script and tag-breaking text appears only escaped', async () => {
+    const nasty = '<script>alert(1)</script> "><img src=x onerror=alert(1)> </svg>';
+    const fig = (await countsFigure(demoPrediction({ slices: 2, title: nasty })))!;
+    expect(fig.svg).not.toContain('<script');
+    expect(fig.svg).not.toContain('<img');
+    expect(fig.svg.indexOf('</svg')).toBe(fig.svg.length - 6);
+    expect(fig.svg).toContain('&lt;script&gt;alert(1)&lt;/script&gt;');
+  });
+});
+
+describe('palette', () => {
+  /** CIE L* of an sRGB colour (IEC 61966-2-1 transfer curve, CIE 15 lightness formula, D65). */
+  function lightness(hex: string): number {
+    const lin = (c: number) => (c <= 0.04045 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4);
+    const [r, g, b] = [1, 3, 5].map((i) => lin(parseInt(hex.slice(i, i + 2), 16) / 255)) as [number, number, number];
+    const y = 0.2126 * r + 0.7152 * g + 0.0722 * b;
+    const f = y > 216 / 24389 ? Math.cbrt(y) : ((24389 / 27) * y + 16) / 116;
+    return 116 * f - 16;
+  }
+  test('every pair of colours differs by at least 15 in CIE L* (readable in greyscale)', () => {
+    // check of the formula: sRGB mid grey #777777 has L* = 50.0 (common practice value, +-0.1)
+    expect(lightness('#777777')).toBeCloseTo(50.03, 1);
+    const ls = Object.values(PALETTE).map(lightness);
+    for (let i = 0; i < ls.length; i++) for (let j = i + 1; j < ls.length; j++) expect(Math.abs(ls[i]! - ls[j]!)).toBeGreaterThan(15);
+  });
+});

@@ -1,0 +1,199 @@
+import { readFileSync } from 'node:fs';
+import { describe, expect, test } from 'vitest';
+import fc from 'fast-check';
+import { buildFigures, countsFigure } from '../../src/render/figures.js';
+import { assertSafeSvg, escapeHtml, formatNumber, renderReport, svgForHtml } from '../../src/render/report.js';
+import type { Figure } from '../../src/render/types.js';
+import { demoForecast, demoPlan, demoPrediction } from './demo.js';
+
+const NASTY_1 = '<script>alert(1)</script>';
+const NASTY_2 = '"><img src=x onerror=alert(1)>';
+
+const SURVEY_TEXT = `format: 1
+title: "${NASTY_1} ${NASTY_2.replace(/"/g, '\\"')}"
+area: 2.5
+redshift: {min: 0.8, max: 1.6}
+# a comment with </pre> and <b>bold</b> & an ampersand
+`;
+
+/** Undo escapeHtml (the five entities it writes), to check round trips. */
+function unescape(s: string): string {
+  return s.replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&#39;/g, "'").replace(/&amp;/g, '&');
+}
+
+describe('escapeHtml', () => {
+  test('the five characters special in HTML text and attributes are replaced (HTML Living Standard, 13.1.2.6)', () => {
+    expect(escapeHtml(`<a href="x" title='y'>&</a>`)).toBe('&lt;a href=&quot;x&quot; title=&#39;y&#39;&gt;&amp;&lt;/a&gt;');
+    expect(escapeHtml(NASTY_1)).toBe('&lt;script&gt;alert(1)&lt;/script&gt;');
+    expect(escapeHtml(NASTY_2)).toBe('&quot;&gt;&lt;img src=x onerror=alert(1)&gt;');
+    expect(escapeHtml(42)).toBe('42');
+  });
+
+  test('property: output never holds < > " \' or a bare &, and unescapes to the input', () => {
+    fc.assert(
+      fc.property(fc.string({ unit: 'binary' }), (s) => {
+        const e = escapeHtml(s);
+        expect(/[<>"']/.test(e)).toBe(false);
+        expect(/&(?!(amp|lt|gt|quot|#39);)/.test(e)).toBe(false);
+        expect(unescape(e)).toBe(s);
+      }),
+    );
+  });
+});
+
+describe('formatNumber', () => {
+  test.each([
+    [0, '0'],
+    [3908.23, '3,908'],
+    [123.456, '123.5'],
+    [0.0123456, '0.01235'],
+    [2.5e-4, '2.5 × 10<sup>-4</sup>'],
+    [1.23456e8, '1.235 × 10<sup>8</sup>'],
+    [-1.5, '-1.5'],
+  ])('%s -> %s', (x, s) => expect(formatNumber(x)).toBe(s));
+});
+
+describe('assertSafeSvg', () => {
+  test.each([
+    ['<svg><script>alert(1)</script></svg>', /script/],
+    ['<svg><g onload="alert(1)"></g></svg>', /event-handler/],
+    ['<svg><image href="http://x/y.png"/></svg>', /image/],
+    ['<svg></svg><script>alert(1)</script><svg></svg>', /more than once/],
+    ['<svg><foreignObject><div/></foreignObject></svg>', /foreignobject/i],
+    ['<svg><rect style="fill:url(http://x/y)"/></svg>', /URL/],
+    ['<div></div>', /start with <svg/],
+  ])('refuses %s', (svg, why) => expect(() => assertSafeSvg(svg)).toThrow(why));
+
+  test('accepts what vega draws, also for a hostile title', async () => {
+    const fig = (await countsFigure(demoPrediction({ slices: 3, title: `${NASTY_1} ${NASTY_2} </svg>` })))!;
+    expect(() => assertSafeSvg(fig.svg)).not.toThrow();
+  });
+});
+
+describe('renderReport', () => {
+  const prediction = demoPrediction({ title: `Field ${NASTY_1} ${NASTY_2}` });
+  const forecast = demoForecast({ mocks: 40 });
+  const plan = demoPlan();
+  let figures: Figure[] = [];
+  const html = async () => {
+    if (figures.length === 0) figures = await buildFigures({ prediction, forecast, plan });
+    return renderReport({
+      surveyText: SURVEY_TEXT,
+      surveyTitle: prediction.title,
+      surveyFile: 'demo<1>.yaml',
+      prediction,
+      forecast,
+      plan,
+      figures,
+    });
+  };
+
+  test('user text appears only escaped: titles, survey text, file name, model keys and expressions', async () => {
+    const doc = await html();
+    expect(doc).not.toContain(NASTY_1);
+    expect(doc).not.toContain('<img');
+    expect(doc).toContain(escapeHtml(SURVEY_TEXT));
+    expect(doc).toContain('<title>Field &lt;script&gt;alert(1)&lt;/script&gt; &quot;&gt;&lt;img src=x onerror=alert(1)&gt;</title>');
+    expect(doc).toContain('demo&lt;1&gt;.yaml');
+    expect(doc).toContain('<code>42.4 + 0.3*(z - 0.8)</code>');
+    // the only <script or <img would be ours: there are none
+    expect(doc.match(/<script/gi)).toBeNull();
+  });
+
+  test('hostile model keys and values are escaped too', () => {
+    const doc = renderReport({
+      surveyText: '',
+      surveyTitle: 't',
+      prediction: demoPrediction({ slices: 2 }),
+      model: { name: NASTY_1, [NASTY_2]: NASTY_1, alpha: { table: [[0.5, NASTY_2 as unknown as number]] } },
+      figures: [],
+    });
+    expect(doc).not.toContain(NASTY_1);
+    expect(doc).not.toContain(NASTY_2);
+  });
+
+  test('self-contained: no URL, no script, no external reference of any kind', async () => {
+    const doc = await html();
+    expect(doc).not.toMatch(/:\/\//); // no http://, https://, file://
+    // attribute names of every real tag (quoted values blanked: escaped user text may say "src=")
+    const attrs = [...doc.matchAll(/<[A-Za-z][^>]*>/g)].flatMap((m) =>
+      [...m[0].replace(/"[^"]*"|'[^']*'/g, '""').matchAll(/\s([^\s=>]+)\s*=/g)].map((a) => a[1]!.toLowerCase()),
+    );
+    expect(attrs.length).toBeGreaterThan(100);
+    expect(attrs.filter((a) => /^(src|href|xlink:href|action|srcset|formaction|poster|data)$|^on/.test(a))).toEqual([]);
+    expect(doc).not.toMatch(/@import|@font-face|url\(\s*(?!#)/i);
+    expect(doc).toContain("default-src 'none'");
+  });
+
+  test('the predict table holds every slice count, its cumulative sum and +-1 sigma', async () => {
+    const doc = await html();
+    const table = doc.slice(doc.indexOf('id="predict-table"'), doc.indexOf('</table>', doc.indexOf('id="predict-table"')));
+    const rows = [...table.matchAll(/<tr><td>(\d+)<\/td>(.*?)<\/tr>/g)];
+    expect(rows).toHaveLength(prediction.slices.length);
+    let cum = 0;
+    rows.forEach((r, i) => {
+      const s = prediction.slices[i]!;
+      cum += s.count;
+      const cells = [...r[2]!.matchAll(/<td>(.*?)<\/td>/g)].map((m) => m[1]);
+      expect(cells[3]).toBe(formatNumber(s.count));
+      expect(cells[5]).toBe(formatNumber(cum));
+      expect(cells[6]).toBe(`± ${formatNumber(s.count * s.uncertainty!.total_fraction, 3)}`);
+      expect(cells[0]).toBe(`${s.z_min.toFixed(2)}–${s.z_max.toFixed(2)}`);
+    });
+    // the last cumulative equals the total (the slices sum to the total)
+    expect(formatNumber(cum)).toBe(formatNumber(prediction.totals.count));
+  });
+
+  test('the model is stated prominently, with the warning sentence', async () => {
+    const doc = await html();
+    const model = doc.indexOf('id="model"');
+    expect(model).toBeGreaterThan(0);
+    expect(model).toBeLessThan(doc.indexOf('id="predict"'));
+    expect(doc).toContain('A forecast is only as good as the luminosity function assumed');
+    expect(doc).toContain('table in z, interpolated linearly: z = 0.8: -1.5; z = 1.6: -1.6');
+  });
+
+  test('forecast and plan tables appear when given, and only then', async () => {
+    const doc = await html();
+    expect(doc).toContain('id="forecast-table"');
+    expect(doc).toContain('id="correlation-table"');
+    expect(doc).toContain('mean of 40 mock fits');
+    expect(doc).toContain('id="plan-table"');
+    expect(doc).toMatch(/<tr class="best">/);
+    const bare = renderReport({ surveyText: 'x', surveyTitle: 't', prediction: demoPrediction({ slices: 2 }), figures: [] });
+    expect(bare).not.toContain('id="forecast"');
+    expect(bare).not.toContain('id="plan"');
+    expect(bare).not.toContain('id="figures"');
+  });
+
+  test('every figure is embedded once, as inline SVG without namespace URLs', async () => {
+    const doc = await html();
+    for (const f of figures) {
+      expect(doc.split(`id="figure-${f.name}"`)).toHaveLength(2);
+      expect(doc).toContain(svgForHtml(f.svg));
+    }
+    expect(doc.match(/<svg\b/g)).toHaveLength(figures.length);
+  });
+
+  test('a figure that is not plain SVG is refused', () => {
+    expect(() =>
+      renderReport({
+        surveyText: '',
+        surveyTitle: 't',
+        prediction: demoPrediction({ slices: 1 }),
+        figures: [{ name: 'bad', title: 'bad', spec: {}, svg: '<svg><script>x()</script></svg>' }],
+      }),
+    ).toThrow(/cannot be embedded/);
+  });
+});
+
+describe('module boundaries', () => {
+  test('report.ts and write-figures.ts do not import vega (commands that draw nothing never load it)', () => {
+    for (const f of ['report.ts', 'write-figures.ts', 'types.ts']) {
+      const src = readFileSync(new URL(`../../src/render/${f}`, import.meta.url), 'utf8');
+      expect(src).not.toMatch(/from\s+['"]vega(-lite)?['"]|import\(\s*['"]vega/);
+    }
+    const fig = readFileSync(new URL('../../src/render/figures.ts', import.meta.url), 'utf8');
+    expect(fig).not.toMatch(/^import[^;]*from\s+['"]vega(-lite)?['"]/m); // only dynamic imports
+  });
+});

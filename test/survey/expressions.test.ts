@@ -1,0 +1,104 @@
+import { describe, expect, test } from 'vitest';
+import { SurveyError } from '../../src/errors.js';
+import { compileExpression } from '../../src/survey/expressions.js';
+
+const F = 'expr.yaml';
+const ZS = [0, 0.1, 0.5, 1, 1.7, 3, 6.5];
+
+describe('allowed expressions evaluate as plain JavaScript Math does (relative tolerance 1e-14)', () => {
+  const cases: [string, (z: number) => number][] = [
+    ['-1.45 - 0.08*z', (z) => -1.45 - 0.08 * z],
+    ['10^(-2.9 + 0.3*z)', (z) => 10 ** (-2.9 + 0.3 * z)],
+    ['-z^2', (z) => -(z ** 2)],
+    ['2^3^(z/4)', (z) => 2 ** (3 ** (z / 4))],
+    ['1 + +z', (z) => 1 + z],
+    ['(1 + z)/(2 + z) * 3', (z) => ((1 + z) / (2 + z)) * 3],
+    ['log10(1 + z)', (z) => Math.log10(1 + z)],
+    ['ln(1 + z)', (z) => Math.log(1 + z)],
+    ['exp(-z/2)', (z) => Math.exp(-z / 2)],
+    ['sqrt(1 + z)', (z) => Math.sqrt(1 + z)],
+    ['abs(z - 1)', (z) => Math.abs(z - 1)],
+    ['min(z, 2)', (z) => Math.min(z, 2)],
+    ['max(1, z, 3*z - 4)', (z) => Math.max(1, z, 3 * z - 4)],
+    ['1e-3 * (1 + z)^2.7 / (1 + ((1 + z)/2.9)^5.6)', (z) => (1e-3 * (1 + z) ** 2.7) / (1 + ((1 + z) / 2.9) ** 5.6)],
+    ['42', () => 42],
+    ['2*3 + 4', () => 10],
+  ];
+  test.each(cases)('%s', (text, f) => {
+    const e = compileExpression(text, F, 'k');
+    for (const z of ZS) {
+      const want = f(z);
+      const got = e.fn(z);
+      expect(Math.abs(got - want)).toBeLessThanOrEqual(1e-14 * Math.abs(want));
+    }
+    expect(e.constant).toBe(!/z/.test(text));
+  });
+});
+
+describe('anything else is rejected before it is evaluated', () => {
+  const bad = [
+    "import('fs')",
+    'a = 3',
+    'f(x) = x',
+    'z.constructor',
+    "evaluate('1')",
+    '[1,2]',
+    '"s"',
+    'x + 1',
+    'pi * z',
+    'e^z',
+    'z!',
+    '3 % 2',
+    'z mod 2',
+    'z == 1',
+    'z > 1 ? 1 : 2',
+    '1:3',
+    '{a: 1}',
+    'z[1]',
+    "z'",
+    '2z',
+    '2 z',
+    '(1 + z)(2 + z)',
+    '10^-0.4z',
+    'log(z)',
+    'log10(z, 2)',
+    'sqrt()',
+    'min()',
+    'cos(z)',
+    'z; 1',
+    '2 cm',
+    '',
+    '1 +',
+    '('.repeat(5000) + 'z' + ')'.repeat(5000),
+    'z + '.repeat(400) + 'z',
+  ];
+  test.each(bad)('%s', (text) => {
+    let err: unknown;
+    try {
+      compileExpression(text, F, 'population.alpha');
+    } catch (e) {
+      err = e;
+    }
+    expect(err).toBeInstanceOf(SurveyError);
+    const e = err as SurveyError;
+    expect([e.code, e.keyPath]).toEqual(['bad_expression', 'population.alpha']);
+    expect(e.message).not.toMatch(/\n/);
+    expect(e.message.endsWith('.')).toBe(true);
+  });
+
+  test('the offending token is named', () => {
+    const msg = (t: string) => {
+      try {
+        compileExpression(t, F, 'k');
+      } catch (e) {
+        return (e as Error).message;
+      }
+      return '';
+    };
+    expect(msg("import('fs')")).toContain('"import"');
+    expect(msg('x + 1')).toContain('"x"');
+    expect(msg('cos(z)')).toContain('"cos"');
+    expect(msg('2z')).toContain('"2 z"');
+  });
+
+});

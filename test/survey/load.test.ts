@@ -1,0 +1,355 @@
+import { mkdtempSync, mkdirSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, test } from 'vitest';
+import { parse } from 'yaml';
+import { SurveyError } from '../../src/errors.js';
+import { describeSurvey, loadSurveyFile, loadSurveyText, parseSurveyObject } from '../../src/survey/index.js';
+import { LINE_YAML, MAGNITUDE_YAML, THRESHOLD_YAML, clone, setPath, toYaml } from './fixtures.js';
+
+const FILE = 'demo/survey.yaml';
+
+function errorOf(f: () => unknown): SurveyError {
+  try {
+    f();
+  } catch (e) {
+    if (e instanceof SurveyError) return e;
+    throw e;
+  }
+  throw new Error('expected a SurveyError, got a survey');
+}
+
+function expectOneSentence(e: SurveyError, file = FILE): void {
+  expect(e.message.startsWith(`${file}:`), e.message).toBe(true);
+  expect(e.message).not.toMatch(/\n/);
+  expect(e.message.endsWith('.'), e.message).toBe(true);
+  expect(e.message).not.toMatch(/\b(undefined|NaN)\b/);
+}
+
+describe('valid surveys (closed-form expectations)', () => {
+  test('line search through a tophat filter: window from center +- fwhm/2 (survey-file.md)', () => {
+    const s = loadSurveyText(LINE_YAML, FILE);
+    // 900 arcmin^2 = 0.25 deg^2 (1 deg = 60 arcmin, by definition).
+    expect(s.areaDeg2).toBeCloseTo(0.25, 14);
+    expect(s.areaSr).toBeCloseTo(0.25 * (Math.PI / 180) ** 2, 18);
+    // 1.19 um = 11900 Angstrom; tophat: z from (11900 - 50)/6563 - 1 to (11900 + 50)/6563 - 1.
+    expect(s.redshift.min).toBeCloseTo(11850 / 6563 - 1, 13);
+    expect(s.redshift.max).toBeCloseTo(11950 / 6563 - 1, 13);
+    expect(s.sliceEdges).toHaveLength(5);
+    expect(s.sliceEdges[0]).toBe(s.redshift.min);
+    expect(s.sliceEdges[4]).toBe(s.redshift.max);
+    const p = s.populations[0]!;
+    expect(p.name).toBe('population');
+    expect(p.lineAngstrom).toBe(6563);
+    // log10_l_star = 41.9 + 0.2 z -> l_star = 10^(41.9 + 0.2 z).
+    expect(p.lStar!.at(0.8)).toBeCloseTo(10 ** (41.9 + 0.16), -28);
+    expect(p.lStar!.at(0.8) / 10 ** (41.9 + 0.16)).toBeCloseTo(1, 12);
+    expect(p.phiStar.at(1)).toBe(1.2e-3);
+    expect(s.histogramWidth).toBe(0.1); // survey-file.md: default 0.1 dex for line_flux
+    expect(s.detection).toMatchObject({ kind: 'line_flux', limitCgs: 5e-17, filter: { profile: 'tophat', centerAngstrom: 11900, fwhmAngstrom: 100 } });
+    expect(s.cosmology).toMatchObject({ h0: 70, omegaM: 0.3, omegaLambda: 0.7, omegaR: 0, tCmb: 0 });
+    expect(s.title).toBe('Narrow-band line search in an invented field');
+  });
+
+  test('gaussian filter: window from center +- 1.5 fwhm, intersected with redshift (survey-file.md)', () => {
+    const obj = parse(LINE_YAML) as Record<string, unknown>;
+    setPath(obj, 'detection.filter.profile', 'gaussian');
+    setPath(obj, 'redshift', { min: 0.8, max: 2 });
+    const s = parseSurveyObject(obj, FILE);
+    expect(s.redshift.min).toBe(0.8); // 0.8 > (11900 - 150)/6563 - 1 = 0.7903
+    expect(s.redshift.max).toBeCloseTo((11900 + 150) / 6563 - 1, 13);
+  });
+
+  test('magnitude survey: preset, table and expression parameters, width slices, units', () => {
+    const s = loadSurveyText(MAGNITUDE_YAML, FILE);
+    expect(s.cosmology.preset).toBe('planck2018');
+    expect(s.detection).toMatchObject({ kind: 'magnitude', limitMag: 27.5, bandAngstrom: 15000, beta: -2 });
+    expect(s.detection.completeness).toEqual({ model: 'logistic', half: 27.2, width: 0.15 });
+    const p = s.populations[0]!;
+    expect(p.restWavelengthAngstrom).toBe(1500); // 150 nm
+    // log10 table interpolated in the log: at z = 4, log10 phi* = -3.1.
+    expect(p.phiStar.at(4) / 10 ** -3.1).toBeCloseTo(1, 12);
+    expect(p.phiStar.at(2) / 10 ** -2.8).toBeCloseTo(1, 12); // end values held
+    expect(p.mStar!.at(4)).toBeCloseTo(-20.8, 12);
+    // width 0.3 over [3, 5]: 3, 3.3, ..., 4.8, 5 (the last slice 0.2 wide).
+    expect(s.sliceEdges).toHaveLength(8);
+    expect(s.sliceEdges[6]).toBeCloseTo(4.8, 12);
+    expect(s.sliceEdges[7]).toBe(5);
+    expect(s.histogramWidth).toBe(0.5);
+    expect(s.exposureHours).toBe(40);
+  });
+
+  test('threshold survey: two populations, per-dex normalisations divided by ln 10, edges set the window', () => {
+    const s = loadSurveyText(THRESHOLD_YAML, FILE);
+    expect(s.populations.map((p) => p.name)).toEqual(['quiescent', 'star-forming']);
+    const [q, sf] = s.populations as [NonNullable<(typeof s.populations)[0]>, NonNullable<(typeof s.populations)[0]>];
+    expect(q.phiStar.at(1)).toBeCloseTo(2.0e-3 / Math.LN10, 15);
+    expect(sf.phiStar.at(1) / (10 ** -2.9 / Math.LN10)).toBeCloseTo(1, 12);
+    expect(q.lStar!.at(1) / 10 ** 10.9).toBeCloseTo(1, 12);
+    expect(q.bias !== 'auto' && q.bias.at(1)).toBe(1.8);
+    expect(sf.bias).toBe('auto');
+    expect(q.occupation).toBe(0.7);
+    expect(sf.occupation).toBe(1);
+    // Edges [0.6, 0.8, 1.0, 1.4] lie inside [0.5, 1.5]; the slices then cover [0.6, 1.4].
+    expect(s.sliceEdges).toEqual([0.6, 0.8, 1.0, 1.4]);
+    expect(s.redshift).toEqual({ min: 0.6, max: 1.4 });
+    expect(q.window).toEqual({ min: 0.6, max: 1.4 });
+    expect(s.field).toEqual({ aspect: 2, count: 4 });
+    // 1 sr = (180/pi)^2 deg^2 (definition of the radian).
+    expect(s.areaDeg2 / (0.001 * (180 / Math.PI) ** 2)).toBeCloseTo(1, 13);
+    expect(s.histogramWidth).toBe(0.1);
+    expect(s.detection.kind === 'threshold' && s.detection.limit.at(1)).toBeCloseTo(9.75, 12);
+    expect(s.title).toBe('survey'); // no title: the file name without its extension
+    expect(s.cosmology.omegaR).toBeGreaterThan(0);
+    expect((s.raw as { plan: unknown }).plan).toEqual({ budget_hours: 100 });
+  });
+
+  test('line_flux completeness given in flux is stored in -log10(flux), table re-sorted ascending', () => {
+    const obj = parse(LINE_YAML) as Record<string, unknown>;
+    setPath(obj, 'detection.completeness', { table: [[2e-17, 0.1], [5e-17, 0.6], [1e-16, 0.95]] });
+    const s = parseSurveyObject(obj, FILE);
+    const c = s.detection.completeness!;
+    expect(c.model).toBe('table');
+    if (c.model === 'table') {
+      expect(c.x.map((x) => Number(x.toFixed(12)))).toEqual([16, -Math.log10(5e-17), -Math.log10(2e-17)].map((x) => Number(x.toFixed(12))));
+      expect(c.fraction).toEqual([0.95, 0.6, 0.1]);
+    }
+    setPath(obj, 'detection.completeness', { model: 'logistic', half: '1e-19 W/m^2', width: 0.1 });
+    const s2 = parseSurveyObject(obj, FILE);
+    // 1e-19 W/m^2 = 1e-16 erg/s/cm^2 -> x = 16.
+    expect(s2.detection.completeness).toEqual({ model: 'logistic', half: 16, width: 0.1 });
+  });
+
+  test('two lines through one filter: each population has its own window, the survey covers both', () => {
+    const obj = parse(LINE_YAML) as Record<string, unknown>;
+    const pop = obj.population as Record<string, unknown>;
+    delete obj.population;
+    obj.populations = [{ ...pop, name: 'red line' }, { ...pop, line: '500.7 nm' }];
+    const s = parseSurveyObject(obj, FILE);
+    const [a, b] = s.populations;
+    // tophat windows (survey-file.md): (11900 -+ 50)/line - 1.
+    expect(a!.window.min).toBeCloseTo(11850 / 6563 - 1, 13);
+    expect(b!.window.min).toBeCloseTo(11850 / 5007 - 1, 13);
+    expect(b!.name).toBe('population 2');
+    expect(s.redshift.min).toBe(a!.window.min);
+    expect(s.redshift.max).toBe(b!.window.max);
+  });
+
+  test('describeSurvey gives plain finite JSON with units in the names', () => {
+    for (const y of [LINE_YAML, MAGNITUDE_YAML, THRESHOLD_YAML]) {
+      const d = describeSurvey(loadSurveyText(y, FILE));
+      const text = JSON.stringify(d);
+      expect(JSON.parse(text)).toEqual(d);
+      expect(text).not.toMatch(/null|NaN|Infinity/);
+      expect(d).toHaveProperty('area_deg2');
+      expect(d).toHaveProperty('window');
+    }
+    const d = describeSurvey(loadSurveyText(LINE_YAML, FILE)) as { detection: Record<string, unknown> };
+    expect(d.detection).toMatchObject({ limit_cgs: 5e-17, line_angstrom: 6563 });
+  });
+
+  test('loadSurveyFile reads a file and names it in the survey', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'skytally-load-'));
+    const path = join(dir, 'line.yaml');
+    writeFileSync(path, LINE_YAML);
+    const s = loadSurveyFile(path);
+    expect(s.file).toBe(path);
+    expect(s.raw).toEqual(parse(LINE_YAML));
+  });
+});
+
+type Case = [name: string, base: string, edit: Record<string, unknown>, code: string, keyPath: string];
+
+const L = LINE_YAML;
+const M = MAGNITUDE_YAML;
+const T = THRESHOLD_YAML;
+const DEL = undefined;
+
+const cases: Case[] = [
+  // schema: unknown keys, missing keys, types, conflicts
+  ['unknown top-level key', L, { aera: 2 }, 'unknown_key', 'aera'],
+  ['misspelt population key', L, { 'population.aplha': -1 }, 'unknown_key', 'population.aplha'],
+  ['misspelt table key', L, { 'population.phi_star': { tabel: [[0, 1], [1, 2]] } }, 'unknown_key', 'population.phi_star.tabel'],
+  ['missing detection', L, { detection: DEL }, 'missing_key', 'detection'],
+  ['missing cosmology', L, { cosmology: DEL }, 'missing_key', 'cosmology'],
+  ['missing population', L, { population: DEL }, 'missing_key', 'population'],
+  ['population and populations', L, { populations: [{ variable: 'luminosity', phi_star: 1e-3, l_star: 1e42, alpha: -1 }] }, 'conflict', 'populations'],
+  ['two normalisations', L, { 'population.log10_phi_star': -3 }, 'conflict', 'population.log10_phi_star'],
+  ['no normalisation', L, { 'population.phi_star': DEL }, 'missing_key', 'population.phi_star'],
+  ['missing alpha', L, { 'population.alpha': DEL }, 'missing_key', 'population.alpha'],
+  ['area a list', L, { area: [1, 2] }, 'wrong_type', 'area'],
+  ['h0 as text', L, { 'cosmology.h0': true }, 'wrong_type', 'cosmology.h0'],
+  ['phi_star a boolean', L, { 'population.phi_star': false }, 'wrong_type', 'population.phi_star'],
+  ['unknown kind', L, { 'detection.kind': 'lineflux' }, 'out_of_range', 'detection.kind'],
+  ['unknown profile', L, { 'detection.filter.profile': 'box' }, 'out_of_range', 'detection.filter.profile'],
+  ['format 2', L, { format: 2 }, 'out_of_range', 'format'],
+  ['fractional slice count', L, { slices: { count: 2.5 } }, 'wrong_type', 'slices.count'],
+  ['two slice forms', L, { slices: { count: 3, width: 0.1 } }, 'conflict', 'slices.width'],
+  ['table row of three', L, { 'population.alpha': { table: [[0, 1], [1, 2, 3]] } }, 'bad_table', 'population.alpha.table[1]'],
+  ['table of one row', L, { 'population.alpha': { table: [[0, 1]] } }, 'bad_table', 'population.alpha.table'],
+  ['table z not increasing', L, { 'population.alpha': { table: [[1, -1], [1, -1.2]] } }, 'bad_table', 'population.alpha.table[1]'],
+  ['one slice edge', T, { slices: { edges: [0.7] } }, 'bad_slices', 'slices.edges'],
+  ['infinite area', L, { area: Infinity }, 'not_finite', 'area'],
+  // units
+  ['area in degrees, not square degrees', L, { area: '2.5 deg' }, 'bad_unit', 'area'],
+  ['area in an unknown unit', L, { area: '2.5 furlongs' }, 'bad_unit', 'area'],
+  ['area with no number', L, { area: 'arcmin^2' }, 'bad_unit', 'area'],
+  ['area as bare words', L, { area: 'big' }, 'bad_unit', 'area'],
+  ['line in amperes (A is not Angstrom)', L, { 'detection.line': '6563 A' }, 'bad_unit', 'detection.line'],
+  ['flux limit in watts', L, { 'detection.limit': '5e-20 W' }, 'bad_unit', 'detection.limit'],
+  ['exposure in metres', L, { exposure: '3 m' }, 'bad_unit', 'exposure'],
+  ['magnitude limit with a unit', M, { 'detection.limit': '27 mag' }, 'bad_unit', 'detection.limit'],
+  ['filter center in seconds', L, { 'detection.filter.center': '3 s' }, 'bad_unit', 'detection.filter.center'],
+  // ranges and windows
+  ['zero area', L, { area: 0 }, 'out_of_range', 'area'],
+  ['more than the whole sky', L, { area: 41253 }, 'out_of_range', 'area'],
+  ['more than 4 pi sr', L, { area: '12.6 sr' }, 'out_of_range', 'area'],
+  ['negative redshift', M, { redshift: { min: -0.1, max: 1 } }, 'bad_window', 'redshift.min'],
+  ['empty redshift window', M, { redshift: { min: 2, max: 2 } }, 'bad_window', 'redshift.max'],
+  ['filter misses the redshift window', L, { redshift: { min: 2, max: 3 } }, 'bad_window', 'detection.filter'],
+  ['filter bluer than the line', L, { 'detection.filter.center': 5000 }, 'bad_window', 'detection.filter'],
+  ['zero filter width', L, { 'detection.filter.fwhm': 0 }, 'out_of_range', 'detection.filter.fwhm'],
+  ['no redshift and no filter', L, { 'detection.filter': DEL }, 'missing_key', 'redshift'],
+  ['zero slices', M, { slices: { count: 0 } }, 'bad_slices', 'slices.count'],
+  ['negative slice width', M, { slices: { width: -0.1 } }, 'bad_slices', 'slices.width'],
+  ['slice width making too many slices', M, { slices: { width: 1e-7 } }, 'bad_slices', 'slices.width'],
+  ['edge outside the window', T, { slices: { edges: [0.4, 1.0] } }, 'bad_slices', 'slices.edges[0]'],
+  ['edges not increasing', T, { slices: { edges: [0.6, 1.0, 0.9] } }, 'bad_slices', 'slices.edges[2]'],
+  ['zero histogram width', L, { histogram: { width: 0 } }, 'out_of_range', 'histogram.width'],
+  ['negative flux limit', L, { 'detection.limit': -5e-17 }, 'out_of_range', 'detection.limit'],
+  ['table as a flux limit', L, { 'detection.limit': { table: [[0, 1], [1, 2]] } }, 'wrong_type', 'detection.limit'],
+  ['negative exposure', L, { exposure: -3 }, 'out_of_range', 'exposure'],
+  ['zero field aspect', L, { field: { aspect: 0 } }, 'out_of_range', 'field.aspect'],
+  ['zero fields', L, { field: { count: 0 } }, 'out_of_range', 'field.count'],
+  // kinds
+  ['magnitude kind with a luminosity population', M, { 'population.variable': 'luminosity' }, 'kind_mismatch', 'population.variable'],
+  ['line_flux kind with a magnitude population', L, { 'population.variable': 'magnitude' }, 'kind_mismatch', 'population.variable'],
+  ['band on a line_flux detection', L, { 'detection.band': 5000 }, 'kind_mismatch', 'detection.band'],
+  ['filter on a magnitude detection', M, { 'detection.filter': { center: 5000, fwhm: 50 } }, 'kind_mismatch', 'detection.filter'],
+  ['population line with the magnitude kind', M, { 'population.line': 1216 }, 'kind_mismatch', 'population.line'],
+  ['m_star for a luminosity variable', L, { 'population.m_star': -20 }, 'kind_mismatch', 'population.m_star'],
+  ['l_star for a magnitude variable', M, { 'population.l_star': 1e42 }, 'kind_mismatch', 'population.l_star'],
+  ['l_star and log10_l_star', L, { 'population.l_star': 1e42 }, 'conflict', 'population.log10_l_star'],
+  ['no l_star', L, { 'population.log10_l_star': DEL }, 'missing_key', 'population.l_star'],
+  ['no m_star', M, { 'population.m_star': DEL }, 'missing_key', 'population.m_star'],
+  ['no line', L, { 'detection.line': DEL }, 'missing_key', 'detection.line'],
+  ['no band', M, { 'detection.band': DEL }, 'missing_key', 'detection.band'],
+  // completeness
+  ['zero completeness width', M, { 'detection.completeness.width': 0 }, 'out_of_range', 'detection.completeness.width'],
+  ['missing half', M, { 'detection.completeness.half': DEL }, 'missing_key', 'detection.completeness.half'],
+  ['table and half', M, { 'detection.completeness': { half: 27, table: [[26, 1], [28, 0]] } }, 'conflict', 'detection.completeness.half'],
+  ['logistic with a table', M, { 'detection.completeness': { model: 'logistic', half: 27, width: 0.2, table: [[26, 1], [28, 0]] } }, 'conflict', 'detection.completeness.table'],
+  ['fraction above 1', M, { 'detection.completeness': { table: [[26, 1], [28, 1.5]] } }, 'out_of_range', 'detection.completeness.table[1]'],
+  ['completeness x not increasing', M, { 'detection.completeness': { table: [[28, 1], [26, 0]] } }, 'bad_table', 'detection.completeness.table[1]'],
+  ['negative flux in a completeness table', L, { 'detection.completeness': { table: [[-1e-17, 0], [1e-16, 1]] } }, 'out_of_range', 'detection.completeness.table[0]'],
+  // parameter values
+  ['negative phi_star', L, { 'population.phi_star': -1e-3 }, 'out_of_range', 'population.phi_star'],
+  ['phi_star expression negative inside the window', M, { 'population.log10_phi_star': DEL, 'population.phi_star': '1e-3 * (4 - z)' }, 'out_of_range', 'population.phi_star'],
+  ['phi_star table negative inside the window', M, { 'population.log10_phi_star': DEL, 'population.phi_star': { table: [[3, 1e-3], [4, -1e-4], [5, 1e-3]] } }, 'out_of_range', 'population.phi_star'],
+  ['NaN from sqrt over the window', M, { 'population.alpha': 'sqrt(4 - z) - 2' }, 'bad_expression', 'population.alpha'],
+  ['log10 of a negative number', M, { 'population.alpha': 'log10(3.5 - z)' }, 'bad_expression', 'population.alpha'],
+  ['expression with a call', L, { 'population.alpha': "import('fs')" }, 'bad_expression', 'population.alpha'],
+  ['expression with implicit multiplication', L, { 'population.alpha': '-1.4 - 0.1z' }, 'bad_expression', 'population.alpha'],
+  ['l_star overflowing to infinity', L, { 'population.log10_l_star': 400 }, 'not_finite', 'population.log10_l_star'],
+  ['negative bias', L, { 'population.bias': -1 }, 'out_of_range', 'population.bias'],
+  ['zero occupation', L, { 'population.occupation': 0 }, 'out_of_range', 'population.occupation'],
+  ['occupation above 1', L, { 'population.occupation': 1.5 }, 'out_of_range', 'population.occupation'],
+  ['duplicate population names', T, { 'populations[1].name': 'quiescent' }, 'conflict', 'populations[1].name'],
+  ['negative rest wavelength', M, { 'population.rest_wavelength': -1500 }, 'out_of_range', 'population.rest_wavelength'],
+  // cosmology
+  ['unknown preset', M, { 'cosmology.preset': 'planck2019' }, 'out_of_range', 'cosmology.preset'],
+  ['no h0 and no preset', L, { 'cosmology.h0': DEL }, 'missing_key', 'cosmology.h0'],
+  ['no omega_m and no preset', L, { 'cosmology.omega_m': DEL }, 'missing_key', 'cosmology.omega_m'],
+  ['h0 of 600', L, { 'cosmology.h0': 600 }, 'out_of_range', 'cosmology.h0'],
+  ['zero h0', L, { 'cosmology.h0': 0 }, 'out_of_range', 'cosmology.h0'],
+  ['omega_m above 1', L, { 'cosmology.omega_m': 1.2 }, 'out_of_range', 'cosmology.omega_m'],
+  ['negative t_cmb', L, { 'cosmology.t_cmb': -1 }, 'out_of_range', 'cosmology.t_cmb'],
+  ['omega_b above omega_m', L, { 'cosmology.omega_b': 0.5 }, 'out_of_range', 'cosmology.omega_b'],
+];
+
+describe('bad input: one SurveyError with a stable code and key path', () => {
+  test.each(cases)('%s', (_name, base, edit, code, keyPath) => {
+    const obj = clone(parse(base) as Record<string, unknown>);
+    for (const [k, v] of Object.entries(edit)) setPath(obj, k, v);
+    // Through the object entry point, and (where YAML can express the value) through the text one.
+    const e = errorOf(() => parseSurveyObject(obj, FILE));
+    expect({ code: e.code, keyPath: e.keyPath }).toEqual({ code, keyPath });
+    expect(e.file).toBe(FILE);
+    expectOneSentence(e);
+    const e2 = errorOf(() => loadSurveyText(toYaml(obj), FILE));
+    expect({ code: e2.code, keyPath: e2.keyPath }).toEqual({ code, keyPath });
+  });
+
+  test('an unknown key suggests the nearest valid key', () => {
+    const obj = parse(LINE_YAML) as Record<string, unknown>;
+    setPath(obj, 'population.aplha', -1);
+    expect(errorOf(() => parseSurveyObject(obj, FILE)).message).toContain('did you mean alpha?');
+    const obj2 = parse(LINE_YAML) as Record<string, unknown>;
+    setPath(obj2, 'detection.kind', 'lineflux');
+    expect(errorOf(() => parseSurveyObject(obj2, FILE)).message).toContain('did you mean line_flux?');
+  });
+
+  test('a unit of the wrong dimension names the expected unit', () => {
+    const obj = parse(LINE_YAML) as Record<string, unknown>;
+    setPath(obj, 'area', '2.5 deg');
+    expect(errorOf(() => parseSurveyObject(obj, FILE)).message).toContain('deg^2');
+  });
+});
+
+describe('bad YAML and bad files', () => {
+  const yamlCases: [string, string, string, string][] = [
+    ['syntax error', 'format: 1\narea: [1, 2\ncosmology: {h0: 70}\n', 'yaml_syntax', ''],
+    ['duplicate key', LINE_YAML.replace('kind: line_flux', 'kind: line_flux\n  kind: magnitude'), 'yaml_syntax', 'detection.kind'],
+    ['two documents', LINE_YAML + '---\n' + LINE_YAML, 'yaml_syntax', ''],
+    ['unsupported tag', LINE_YAML.replace('area: "900 arcmin^2"', 'area: !secret 900'), 'yaml_syntax', ''],
+    ['a list, not a mapping', '- 1\n- 2\n', 'wrong_type', ''],
+    ['an empty file', '', 'wrong_type', ''],
+    ['infinity', LINE_YAML.replace('area: "900 arcmin^2"', 'area: .inf'), 'not_finite', 'area'],
+    ['binary data', LINE_YAML.replace('area: "900 arcmin^2"', 'area: !!binary aGVsbG8='), 'wrong_type', 'area'],
+  ];
+  test.each(yamlCases)('%s', (_name, text, code, keyPath) => {
+    const e = errorOf(() => loadSurveyText(text, FILE));
+    expect({ code: e.code, keyPath: e.keyPath }).toEqual({ code, keyPath });
+    expectOneSentence(e);
+  });
+
+  test('a syntax error gives its line and column', () => {
+    const e = errorOf(() => loadSurveyText('format: 1\narea: [1, 2\ncosmology: {h0: 70}\n', FILE));
+    expect(e.message).toMatch(/line \d+, column \d+/);
+  });
+
+  test('missing file, directory and a 2 MiB file', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'skytally-load-'));
+    const missing = join(dir, 'nope.yaml');
+    let e = errorOf(() => loadSurveyFile(missing));
+    expect([e.code, e.keyPath]).toEqual(['file_unreadable', '']);
+    expectOneSentence(e, missing);
+    const sub = join(dir, 'sub.yaml');
+    mkdirSync(sub);
+    e = errorOf(() => loadSurveyFile(sub));
+    expect(e.code).toBe('file_unreadable');
+    const big = join(dir, 'big.yaml');
+    writeFileSync(big, LINE_YAML + '#' + 'x'.repeat(2 * 1024 * 1024) + '\n');
+    e = errorOf(() => loadSurveyFile(big));
+    expect([e.code, e.keyPath]).toEqual(['file_too_large', '']);
+    expectOneSentence(e, big);
+    e = errorOf(() => loadSurveyText(LINE_YAML + '#' + 'x'.repeat(2 * 1024 * 1024) + '\n', FILE));
+    expect(e.code).toBe('file_too_large');
+  });
+
+  test('an alias bomb (each level nine times the last) is stopped at the alias limit', () => {
+    let text = 'a0: &a0 ["lol", "lol", "lol", "lol", "lol", "lol", "lol", "lol", "lol"]\n';
+    for (let i = 1; i <= 9; i++) {
+      text += `a${i}: &a${i} [${Array(9).fill(`*a${i - 1}`).join(', ')}]\n`;
+    }
+    // Fully expanded this would hold 9^10 (about 3.5e9) strings.
+    const e = errorOf(() => loadSurveyText(text, FILE));
+    expect([e.code, e.keyPath]).toEqual(['yaml_aliases', '']);
+    expectOneSentence(e);
+  });
+
+  test('a few aliases are fine', () => {
+    const text = LINE_YAML.replace('alpha: -1.4', 'alpha: &a -1.4').replace('slices: {count: 4}', 'slices: {count: 4}\nhistogram: {width: 0.1}');
+    expect(loadSurveyText(text, FILE).populations[0]!.alpha.at(1)).toBe(-1.4);
+  });
+});

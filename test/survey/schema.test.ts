@@ -1,0 +1,50 @@
+import { readFileSync } from 'node:fs';
+import { describe, expect, test } from 'vitest';
+import { generateValidatorSource, GENERATED_PATH } from '../../scripts/generate-survey-validator.js';
+import { SURVEY_SCHEMA_URL } from '../../src/survey/schema.js';
+
+type Schema = { [k: string]: unknown; properties?: Record<string, Schema>; $ref?: string; items?: Schema };
+const schema = JSON.parse(readFileSync(SURVEY_SCHEMA_URL, 'utf8')) as Schema;
+const defs = schema.$defs as Record<string, Schema>;
+const resolve = (s: Schema): Schema => (s.$ref ? defs[s.$ref.replace('#/$defs/', '')]! : s);
+
+describe('specs/survey.schema.json', () => {
+  test('the committed precompiled validator matches the schema (regenerate: npx tsx scripts/generate-survey-validator.ts)', () => {
+    expect(readFileSync(GENERATED_PATH, 'utf8')).toBe(generateValidatorSource());
+  });
+
+  test('holds every key of the survey-file contract (survey-file.md, vocabulary.md)', () => {
+    const keysOf = (s: Schema) => Object.keys(resolve(s).properties ?? {}).sort();
+    const p = schema.properties!;
+    expect(keysOf(schema)).toEqual(
+      ['area', 'cosmology', 'detection', 'exposure', 'field', 'format', 'histogram', 'plan', 'population', 'populations', 'redshift', 'slices', 'title'].sort(),
+    );
+    expect(keysOf(p.cosmology!)).toEqual(['h0', 'n_s', 'omega_b', 'omega_m', 'preset', 'sigma8', 't_cmb']);
+    expect(keysOf(p.redshift!)).toEqual(['max', 'min']);
+    expect(keysOf(p.field!)).toEqual(['aspect', 'count']);
+    const det = resolve(p.detection!);
+    expect(keysOf(det)).toEqual(['band', 'beta', 'completeness', 'filter', 'kind', 'limit', 'line']);
+    expect(det.properties!.kind!.enum).toEqual(['line_flux', 'magnitude', 'threshold']);
+    expect(keysOf(det.properties!.filter!)).toEqual(['center', 'fwhm', 'profile']);
+    expect(det.properties!.filter!.properties!.profile!.enum).toEqual(['tophat', 'gaussian']);
+    expect(keysOf(det.properties!.completeness!)).toEqual(['half', 'model', 'table', 'width']);
+    expect(keysOf(p.population!)).toEqual(
+      ['alpha', 'bias', 'l_star', 'line', 'log10_l_star', 'log10_phi_star', 'log10_phi_star_dex', 'm_star', 'name', 'occupation', 'phi_star', 'phi_star_dex', 'quantity', 'rest_wavelength', 'shape', 'variable'].sort(),
+    );
+    expect(keysOf(p.populations!.items as Schema)).toEqual(keysOf(p.population!));
+    expect(keysOf(p.slices!)).toEqual(['count', 'edges', 'width']);
+    expect(keysOf(p.histogram!)).toEqual(['width']);
+  });
+
+  test('every object but plan forbids unknown keys', () => {
+    const open: string[] = [];
+    const walk = (s: unknown, path: string) => {
+      if (!s || typeof s !== 'object') return;
+      const o = s as Schema;
+      if (o.type === 'object' && o.additionalProperties !== false && path !== '/properties/plan') open.push(path);
+      for (const [k, v] of Object.entries(o)) walk(v, `${path}/${k}`);
+    };
+    walk(schema, '');
+    expect(open).toEqual([]);
+  });
+});

@@ -1,0 +1,76 @@
+import { describe, expect, test } from 'vitest';
+import { SurveyError } from '../../src/errors.js';
+import { FULL_SKY_DEG2, SR_PER_DEG2, parseQuantity, type QuantityKind } from '../../src/survey/units.js';
+
+const F = 'units.yaml';
+const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);
+
+describe('unit conversions against published definitions (relative tolerance 1e-14 unless stated)', () => {
+  // [input, kind, expected plain number, source of the expected value]
+  const cases: [string | number, QuantityKind, number, string][] = [
+    [2.5, 'area', 2.5, 'plain number: deg^2 (survey-file.md)'],
+    ['2.5', 'area', 2.5, 'bare number string: deg^2'],
+    ['3600 arcmin^2', 'area', 1, '1 deg = 60 arcmin, so 1 deg^2 = 3600 arcmin^2 (exact, by definition)'],
+    ['900 arcmin^2', 'area', 0.25, '1 deg^2 = 3600 arcmin^2'],
+    ['12960000 arcsec^2', 'area', 1, '1 deg = 3600 arcsec, so 1 deg^2 = 1.296e7 arcsec^2'],
+    ['1 sr', 'area', (180 / Math.PI) ** 2, '1 sr = 1 rad^2 = (180/pi)^2 deg^2 (SI brochure, 9th ed., Table 4)'],
+    ['0.01 sr', 'area', 0.01 * (180 / Math.PI) ** 2, '1 sr = (180/pi)^2 deg^2'],
+    [6563, 'wavelength', 6563, 'plain number: Angstrom'],
+    ['1 um', 'wavelength', 1e4, '1 um = 1e-6 m, 1 Angstrom = 1e-10 m (SI prefixes; IAU style manual)'],
+    ['2.1 um', 'wavelength', 21000, '1 um = 1e4 Angstrom'],
+    ['2.1 micron', 'wavelength', 21000, 'micron = micrometre'],
+    ['2.1 microns', 'wavelength', 21000, 'micron = micrometre'],
+    ['2.1 µm', 'wavelength', 21000, 'micro sign spelling'],
+    ['656.3 nm', 'wavelength', 6563, '1 nm = 10 Angstrom'],
+    ['6563 Angstrom', 'wavelength', 6563, 'Angstrom spelled out'],
+    ['6563 angstroms', 'wavelength', 6563, 'Angstrom, lower case plural'],
+    ['6563 Å', 'wavelength', 6563, 'Angstrom sign'],
+    ['1e-6 m', 'wavelength', 1e4, '1 m = 1e10 Angstrom'],
+    [5e-17, 'flux', 5e-17, 'plain number: erg/s/cm^2'],
+    ['5e-17 erg/s/cm^2', 'flux', 5e-17, 'same unit'],
+    ['1 W/m^2', 'flux', 1e3, '1 W = 1e7 erg/s, 1 m^2 = 1e4 cm^2 (SI/cgs definitions)'],
+    ['5e-20 W/m^2', 'flux', 5e-17, '1 W/m^2 = 1e3 erg/s/cm^2'],
+    ['5e-17 erg s^-1 cm^-2', 'flux', 5e-17, 'negative-power notation'],
+    [3, 'time', 3, 'plain number: hours'],
+    ['3 h', 'time', 3, 'h = hour'],
+    ['90 min', 'time', 1.5, '1 h = 60 min'],
+    ['5400 s', 'time', 1.5, '1 h = 3600 s'],
+  ];
+  test.each(cases)('%s (%s) -> %d: %s', (input, kind, expected) => {
+    expect(rel(parseQuantity(input, kind, F, 'k'), expected)).toBeLessThan(1e-14);
+  });
+
+  test('full sky is 4 pi sr = 41252.96 deg^2 (common practice: 4 pi (180/pi)^2, to 0.01 deg^2)', () => {
+    expect(FULL_SKY_DEG2).toBeCloseTo(41252.96, 2);
+    expect(rel(FULL_SKY_DEG2 * SR_PER_DEG2, 4 * Math.PI)).toBeLessThan(1e-15);
+  });
+});
+
+describe('units that are wrong, missing or unknown are errors naming the key', () => {
+  const bad: [string, QuantityKind][] = [
+    ['2.5 deg', 'area'],
+    ['2.5 m', 'area'],
+    ['2.5 furlongs', 'area'],
+    ['arcmin^2', 'area'],
+    ['', 'area'],
+    ['6563 A', 'wavelength'],
+    ['6563 s', 'wavelength'],
+    ['5e-17 W', 'flux'],
+    ['5e-17 erg/s', 'flux'],
+    ['3 m', 'time'],
+    ['three hours', 'time'],
+    ['2 + 3 h', 'time'],
+  ];
+  test.each(bad)('%j as %s', (input, kind) => {
+    let err: unknown;
+    try {
+      parseQuantity(input, kind, F, 'some.key');
+    } catch (e) {
+      err = e;
+    }
+    expect(err).toBeInstanceOf(SurveyError);
+    const e = err as SurveyError;
+    expect([e.code, e.keyPath, e.file]).toEqual(['bad_unit', 'some.key', F]);
+    expect(e.message).toMatch(/^units\.yaml: some\.key: .*\.$/);
+  });
+});

@@ -1,0 +1,107 @@
+import { describe, expect, it } from 'vitest';
+import gamma from '@stdlib/math-base-special-gamma';
+import {
+  createHaloModel,
+  DELTA_C,
+  SHETH_TORMEN,
+  shethTormenBias,
+  shethTormenMultiplicity,
+} from '../../src/uncertainty/haloes.js';
+import { createLinearPower } from '../../src/uncertainty/power-spectrum.js';
+import { adaptiveIntegrate } from '../../src/uncertainty/quadrature.js';
+import { planck2018, relErr } from './helpers.js';
+
+const power = createLinearPower(planck2018);
+const haloes = createHaloModel(power);
+
+describe('Sheth & Tormen 1999 (MNRAS 308, 119): published properties', () => {
+  it('the multiplicity integrates to one over nu: ∫ f(nu) dnu = 1 (1e-3)', () => {
+    const total = adaptiveIntegrate(shethTormenMultiplicity, 0, 1, 1e-12) + adaptiveIntegrate(shethTormenMultiplicity, 1, 40, 1e-12);
+    expect(Math.abs(total - 1)).toBeLessThan(1e-3);
+  });
+
+  it('the normalisation A = 0.3222 is 1 / (1 + 2^-p Gamma(1/2 - p) / sqrt(pi)) (ST99 eq. 10 normalisation; 1e-4)', () => {
+    const { p, A } = SHETH_TORMEN;
+    expect(relErr(A, 1 / (1 + (2 ** -p * gamma(0.5 - p)) / Math.sqrt(Math.PI)))).toBeLessThan(1e-4);
+  });
+
+  it('the mass-weighted bias is one: ∫ b(nu) f(nu) dnu = 1 (ST99 sect. 4, peak-background split; 1e-3)', () => {
+    const g = (nu: number): number => shethTormenBias(nu) * shethTormenMultiplicity(nu);
+    const total = adaptiveIntegrate(g, 0, 1, 1e-12) + adaptiveIntegrate(g, 1, 40, 1e-12);
+    expect(Math.abs(total - 1)).toBeLessThan(1e-3);
+  });
+
+  it('bias exceeds 1 above nu ≈ 1 and grows with nu (nu = delta_c / sigma convention)', () => {
+    expect(shethTormenBias(0.5)).toBeLessThan(1);
+    expect(shethTormenBias(2)).toBeGreaterThan(1);
+    for (let nu = 0.2; nu < 6; nu += 0.1) expect(shethTormenBias(nu + 0.1)).toBeGreaterThan(shethTormenBias(nu));
+    // b(nu) at nu^2 = 1/a reduces to 1 + p / delta_c (closed form of the same expression)
+    expect(relErr(shethTormenBias(Math.sqrt(1 / SHETH_TORMEN.a)), 1 + SHETH_TORMEN.p / DELTA_C)).toBeLessThan(1e-12);
+  });
+});
+
+describe('mass function and bias in a cosmology (internal consistency)', () => {
+  it('the tabulated sigma(M) matches the direct integral (1e-5) and its slope the finite difference (1e-4)', () => {
+    for (const m of [1e6, 1e9, 1e12, 1e15]) {
+      expect(relErr(haloes.sigma(m, 1), power.sigmaM(m, 1))).toBeLessThan(1e-5);
+      const e = 1e-3;
+      const fd = (Math.log(power.sigmaM(m * Math.exp(e), 0)) - Math.log(power.sigmaM(m * Math.exp(-e), 0))) / (2 * e);
+      // dn/dlnM = (rho/M) f(nu) nu |dln sigma/dln M|, so the slope is recovered from the mass function
+      const nu = haloes.peakHeight(m, 0);
+      const slope = (haloes.massFunctionPerLnM(m, 0) * m) / (power.rhoM0MsunMpc3 * shethTormenMultiplicity(nu) * nu);
+      expect(relErr(slope, -fd)).toBeLessThan(1e-4);
+    }
+  });
+
+  it('n(>M) equals the integral of dn/dlnM (adaptive quadrature; 1e-6)', () => {
+    const m0 = 1e11;
+    const direct = adaptiveIntegrate((lnM) => haloes.massFunctionPerLnM(Math.exp(lnM), 1), Math.log(m0), Math.log(1e17), 1e-10);
+    expect(relErr(haloes.haloDensityAboveMpc3(m0, 1), direct)).toBeLessThan(1e-6);
+  });
+
+  it('n(>M) falls with M; effective bias above M is at least the bias at M and grows with M and z', () => {
+    let lastN = Infinity;
+    let lastB = 0;
+    for (let lm = 7; lm <= 15; lm += 0.5) {
+      const m = 10 ** lm;
+      const n = haloes.haloDensityAboveMpc3(m, 2);
+      const b = haloes.effectiveBiasAbove(m, 2);
+      expect(n).toBeLessThan(lastN);
+      expect(b).toBeGreaterThan(lastB);
+      expect(b).toBeGreaterThanOrEqual(haloes.haloBias(m, 2));
+      lastN = n;
+      lastB = b;
+    }
+    expect(haloes.effectiveBiasAbove(1e11, 4)).toBeGreaterThan(haloes.effectiveBiasAbove(1e11, 1));
+  });
+});
+
+describe('abundance matching (Trenti & Stiavelli 2008, ApJ 676, 767)', () => {
+  it.each([
+    [1e-2, 1, 1],
+    [1e-3, 2, 0.5],
+    [1e-4, 6, 0.2],
+    [3e-6, 0.5, 1],
+  ])('density %s Mpc^-3 at z = %s, occupation %s: n(>M_min) = density / occupation (1e-6)', (n, z, occ) => {
+    const r = haloes.matchHaloMass(n, z, occ);
+    expect(r.haloMassMinMsun).toBeGreaterThan(1e6);
+    expect(r.haloMassMinMsun).toBeLessThan(1e16);
+    expect(relErr(haloes.haloDensityAboveMpc3(r.haloMassMinMsun, z), n / occ)).toBeLessThan(1e-6);
+    expect(relErr(r.bias, haloes.effectiveBiasAbove(r.haloMassMinMsun, z))).toBeLessThan(1e-9);
+  });
+
+  it('a lower occupation means more haloes, hence a lower mass and bias', () => {
+    const full = haloes.matchHaloMass(1e-3, 2, 1);
+    const half = haloes.matchHaloMass(1e-3, 2, 0.1);
+    expect(half.haloMassMinMsun).toBeLessThan(full.haloMassMinMsun);
+    expect(half.bias).toBeLessThan(full.bias);
+  });
+
+  it('a density above what haloes above 1e6 Msun provide, or below what haloes above 1e16 Msun provide, is a clear error', () => {
+    expect(() => haloes.matchHaloMass(1e4, 2, 1)).toThrow(/exceeds .* haloes above 1e\+6 Msun/);
+    expect(() => haloes.matchHaloMass(1e-40, 0, 1)).toThrow(/below .* haloes above 1e\+16 Msun/);
+    expect(() => haloes.matchHaloMass(1e-3, 2, 0)).toThrow(RangeError);
+    expect(() => haloes.matchHaloMass(1e-3, 2, 1.5)).toThrow(RangeError);
+    expect(() => haloes.matchHaloMass(0, 2, 1)).toThrow(RangeError);
+  });
+});
