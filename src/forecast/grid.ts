@@ -6,8 +6,8 @@
  *   lambda(z, t) dz dt = area_sr dV_C/dz/dOmega(z) phi*(z) u^(alpha(z)+1) exp(-u) c(obs(z, t)) dz dt
  *
  * with u = L/L*(z) (or 10^(0.4 (M*(z) - M))) at the INPUT parameters, t >= t_lim(z) (the hard limit).
- * z: the count engine's Gauss-Legendre nodes for each slice (`redshiftNodes`), so the grid's slice
- * totals are the engine's counts. t: 8-point Gauss-Legendre panels no wider than 0.3 (and no wider
+ * z: the count engine's Gauss-Legendre nodes for each slice (`chooseRedshiftNodes`), so the grid's slice
+ * totals are the engine's counts. t: 8-point Gauss-Legendre panels no wider than 0.6 (and no wider
  * than the logistic completeness width), split at completeness break points, from t_lim to
  * ln(max(u_lim, 1) + 40) (exp(-40) ~ 4e-18 relative beyond).
  *
@@ -20,7 +20,8 @@
  */
 import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
 import type { Completeness, DetectionKind, Population, PopulationVariable, Survey } from '../survey/types.js';
-import { redshiftNodes } from '../counts/engine.js';
+import { chooseRedshiftNodes } from '../counts/engine.js';
+import { upperGamma } from '../numerics/gamma.js';
 import { gaussLegendreRule } from '../numerics/quadrature.js';
 import { makeObserver } from '../selection/observe.js';
 import { completenessBreaks, completenessFunction } from '../selection/completeness.js';
@@ -29,7 +30,7 @@ import { characteristicShift } from './parameters.js';
 
 const LN10 = Math.LN10;
 const PANEL_POINTS = 8;
-const MAX_PANEL_T = 0.3;
+const MAX_PANEL_T = 0.6;
 const U_BRIGHT_SPAN = 40;
 
 export interface DensityGrid {
@@ -87,7 +88,17 @@ export function buildDensityGrid(survey: Survey, population: Population, cosmo: 
     const lo = Math.max(edges[s]!, population.window.min);
     const hi = Math.min(edges[s + 1]!, population.window.max);
     if (hi > lo) {
-      const { z, w } = redshiftNodes(lo, hi);
+      // The count engine's redshift nodes (the order chosen by convergence of the hard-limit count).
+      const hardCount = (zi: number): number => {
+        const p = populationAt(population, zi);
+        const obs = observer.at(zi, p.characteristic);
+        if (!Number.isFinite(obs.log10ULimit)) return 0;
+        const u = 10 ** obs.log10ULimit;
+        let n = 0;
+        for (const c of p.components) n += c.phiStar * upperGamma(c.alpha + 1, u);
+        return cosmo.differentialComovingVolumeMpc3Sr(zi) * n;
+      };
+      const { z, w } = chooseRedshiftNodes(lo, hi, hardCount);
       for (let i = 0; i < z.length; i++) {
         const zi = z[i]!;
         const p = populationAt(population, zi);
@@ -148,15 +159,21 @@ export function buildDensityGrid(survey: Survey, population: Population, cosmo: 
     nodeTLim: Float64Array.from(nodeTLim),
     nodeTMax: Float64Array.from(nodeTMax),
     nodePointStart: Int32Array.from(nodePointStart),
-    pointT: Float64Array.from(pointT),
-    pointExpT: Float64Array.from(pointT, Math.exp),
-    pointLogW: Float64Array.from(pointLogW),
-    pointA1: Float64Array.from(pointA1),
+    pointT: new Float64Array(pointT),
+    pointExpT: expOf(pointT),
+    pointLogW: new Float64Array(pointLogW),
+    pointA1: new Float64Array(pointA1),
     kind: survey.detection.kind,
     variable: population.variable,
   };
   if (comp) grid.completeness = comp;
   return grid;
+}
+
+function expOf(xs: number[]): Float64Array {
+  const out = new Float64Array(xs.length);
+  for (let i = 0; i < xs.length; i++) out[i] = Math.exp(xs[i]!);
+  return out;
 }
 
 export function sliceCount(grid: DensityGrid): number {

@@ -1,0 +1,69 @@
+/**
+ * Forecast benchmarks: the Fisher forecast of each sample (no mocks), the Fisher matrix alone on a
+ * prepared grid, and 1,000 mock surveys of about 5,000 sources each, drawn and fitted, with 2
+ * workers (the sample H-alpha survey scaled in area to 5,000 expected sources).
+ */
+import { readdirSync } from 'node:fs';
+import { loadSurveyFile } from '../../src/survey/load.js';
+import { forecast } from '../../src/forecast/forecast.js';
+import { buildDensityGrid } from '../../src/forecast/grid.js';
+import { fisherParts } from '../../src/forecast/fisher.js';
+import { FlatLambdaCDM } from '../../src/cosmology/flat-lcdm.js';
+import type { Survey } from '../../src/survey/types.js';
+import type { BenchCase } from './run.js';
+
+const samples = readdirSync('samples').filter((f) => f.endsWith('.yaml') && !f.startsWith('plan'));
+let sink = 0;
+
+function scaledTo(s: Survey, n: number, count: number): Survey {
+  const f = n / count;
+  return { ...s, areaDeg2: s.areaDeg2 * f, areaSr: s.areaSr * f };
+}
+
+const fisherCases: BenchCase[] = samples.flatMap((f) => {
+  const s = loadSurveyFile(`samples/${f}`);
+  const cosmo = new FlatLambdaCDM(s.cosmology);
+  const grid = buildDensityGrid(s, s.populations[0]!, cosmo, s.sliceEdges);
+  return [
+    {
+      name: `forecast Fisher (grid + matrix + JSON), ${f}, no cosmic variance`,
+      repeats: 30,
+      run: async () => {
+        const r = await forecast(s, { cosmicVariance: false });
+        sink += r.count;
+      },
+    },
+    {
+      name: `fisherParts on a prepared grid (${grid.pointT.length} points), ${f}`,
+      repeats: 30,
+      run: () => {
+        sink += fisherParts(grid).count;
+      },
+    },
+  ];
+});
+
+const base = loadSurveyFile('samples/halpha-narrowband.yaml');
+const baseCount = fisherParts(buildDensityGrid(base, base.populations[0]!, new FlatLambdaCDM(base.cosmology), base.sliceEdges)).count;
+const five = scaledTo(base, 5000, baseCount);
+
+export const cases: BenchCase[] = [
+  ...fisherCases,
+  {
+    name: '1000 mocks x ~5000 sources, drawn + fitted, 2 workers (halpha scaled)',
+    repeats: 1,
+    run: async () => {
+      const r = await forecast(five, { cosmicVariance: false, mocks: 1000, workers: 2, seed: 5 });
+      sink += r.mocks!.failed_fits;
+    },
+  },
+  {
+    name: '1000 mocks x ~5000 sources, drawn + fitted, 1 worker (halpha scaled)',
+    repeats: 1,
+    run: async () => {
+      const r = await forecast(five, { cosmicVariance: false, mocks: 1000, workers: 1, seed: 5 });
+      sink += r.mocks!.failed_fits;
+    },
+  },
+];
+export const _sink = () => sink;

@@ -1,0 +1,98 @@
+/**
+ * `skytally forecast` through run(argv, io): formats, --out, the JSON schema
+ * (specs/forecast.schema.json, checked with ajv), and bad options (exit 2, one sentence, nothing
+ * written). Plumbing only: the numbers are checked against references in fisher.test.ts and mocks.test.ts.
+ */
+import { describe, expect, test } from 'vitest';
+import { existsSync, mkdtempSync, readFileSync, readdirSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { Ajv2020 } from 'ajv/dist/2020.js';
+import { runCli } from '../cli/helpers.js';
+import { loadSurveyFile } from '../../src/survey/load.js';
+import { forecast } from '../../src/forecast/forecast.js';
+
+const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml') && !f.startsWith('plan'));
+const schema = JSON.parse(readFileSync('specs/forecast.schema.json', 'utf8'));
+const validate = new Ajv2020({ allErrors: true, strict: false }).compile(schema);
+
+describe('forecast command', () => {
+  test.each(SAMPLES)('%s: json (valid against the schema), table and csv', async (f) => {
+    const json = await runCli(['forecast', `samples/${f}`, '--no-cosmic-variance', '--format', 'json', '--mocks', '8', '--target', 'alpha=0.02']);
+    expect(json.stderr).toBe('');
+    expect(json.code).toBe(0);
+    const doc = JSON.parse(json.stdout);
+    expect(validate(doc), JSON.stringify(validate.errors)).toBe(true);
+    expect(json.stdout).not.toMatch(/NaN|Infinity/);
+    expect(doc.cosmic_variance).toBe(false);
+    expect(doc.fisher.sigma).toEqual(doc.fisher_poisson_only.sigma);
+    expect(doc.mocks.count).toBe(8);
+    expect(Object.keys(doc.requirement.target)).toEqual(['alpha']);
+    const table = await runCli(['forecast', `samples/${f}`, '--no-cosmic-variance']);
+    expect(table.code).toBe(0);
+    expect(table.stdout).toContain('Assumed model');
+    expect(table.stdout).toContain('only as good as the luminosity function assumed');
+    const csv = await runCli(['forecast', `samples/${f}`, '--no-cosmic-variance', '--format', 'csv']);
+    expect(csv.code).toBe(0);
+    const lines = csv.stdout.trim().split('\n');
+    expect(lines.length).toBe(4);
+    expect(lines[0]).toMatch(/^parameter,input,sigma_fisher,sigma_poisson_only/);
+  });
+
+  test('JSON equals the library result', async () => {
+    const f = `samples/${SAMPLES[0]}`;
+    const out = await runCli(['forecast', f, '--no-cosmic-variance', '--format', 'json']);
+    const lib = await forecast(loadSurveyFile(f), { cosmicVariance: false });
+    expect(JSON.parse(out.stdout)).toEqual(JSON.parse(JSON.stringify(lib)));
+  });
+
+  test('--out writes the file and nothing to stdout', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'skytally-'));
+    const out = join(dir, 'f.json');
+    const r = await runCli(['forecast', `samples/${SAMPLES[0]}`, '--no-cosmic-variance', '--format', 'json', '--out', out]);
+    expect(r.code).toBe(0);
+    expect(r.stdout).toBe('');
+    expect(validate(JSON.parse(readFileSync(out, 'utf8')))).toBe(true);
+  });
+
+  test.each([
+    ['unknown parameter name', 'beta=0.1', /"beta" is not a parameter/],
+    ['non-positive value', 'alpha=0', /must be a positive number/],
+    ['negative value', 'alpha=-0.1', /must be a positive number/],
+    ['not a number', 'alpha=abc', /must be a positive number/],
+    ['no equals sign', 'alpha', /not of the form name=sigma/],
+    ['given twice', 'alpha=0.1,alpha=0.2', /given twice/],
+  ])('bad --target (%s): exit 2, one sentence, nothing written', async (_what, target, message) => {
+    const dir = mkdtempSync(join(tmpdir(), 'skytally-'));
+    const out = join(dir, 'f.json');
+    const r = await runCli(['forecast', `samples/${SAMPLES[0]}`, '--no-cosmic-variance', '--target', target, '--out', out]);
+    expect(r.code).toBe(2);
+    expect(r.stdout).toBe('');
+    expect(r.stderr).toMatch(message);
+    expect(r.stderr).toMatch(/--target/);
+    expect(r.stderr.trim().split('\n').length).toBe(1);
+    expect(r.stderr.trim()).toMatch(/\.$/);
+    expect(existsSync(out)).toBe(false);
+  });
+
+  test.each([
+    ['--mocks', '0'],
+    ['--mocks', '2.5'],
+    ['--seed', '-1'],
+    ['--workers', '0'],
+    ['--workers', '100000'],
+    ['--population', 'no such population'],
+  ])('bad %s %s: exit 2 with one sentence', async (opt, value) => {
+    const r = await runCli(['forecast', `samples/${SAMPLES[0]}`, '--no-cosmic-variance', opt, value]);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toContain(opt);
+    expect(r.stderr.trim().split('\n').length).toBe(1);
+  });
+
+  test('without --no-cosmic-variance: stops with "cosmic variance not available" until src/uncertainty provides the per-slice fractions', async () => {
+    const r = await runCli(['forecast', `samples/${SAMPLES[0]}`, '--format', 'json']);
+    expect(r.code).toBe(1);
+    expect(r.stdout).toBe('');
+    expect(r.stderr).toMatch(/cosmic variance not available.*--no-cosmic-variance/);
+  });
+});
