@@ -9,6 +9,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { runCli } from '../cli/helpers.js';
+import { run } from '../../src/cli/index.js';
 import { loadSurveyFile } from '../../src/survey/load.js';
 import { forecast } from '../../src/forecast/forecast.js';
 
@@ -87,6 +88,18 @@ describe('forecast command', () => {
     expect(r.code).toBe(2);
     expect(r.stderr).toContain(opt);
     expect(r.stderr.trim().split('\n').length).toBe(1);
+  });
+
+  test('progress bar on stderr only when stderr is a terminal', async () => {
+    let err = '';
+    let out = '';
+    const io = { stdout: (t: string) => (out += t), stderr: (t: string) => (err += t), cwd: process.cwd(), stderrIsTTY: true };
+    const code = await run(['forecast', `samples/${SAMPLES[1]}`, '--no-cosmic-variance', '--mocks', '5', '--format', 'json'], io);
+    expect(code).toBe(0);
+    expect(err).toMatch(/mock surveys \[#+\] 5\/5\n$/);
+    expect(JSON.parse(out).mocks.count).toBe(5);
+    const piped = await runCli(['forecast', `samples/${SAMPLES[1]}`, '--no-cosmic-variance', '--mocks', '5', '--format', 'json']);
+    expect(piped.stderr).toBe('');
   });
 
   test('without --no-cosmic-variance: stops with "cosmic variance not available" until src/uncertainty provides the per-slice fractions', async () => {
