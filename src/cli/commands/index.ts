@@ -3,5 +3,6 @@ import type { CommandDef } from './types.js';
 import { predictCommand } from './predict.js';
 import { checkCommand } from './check.js';
 import { distancesCommand } from './distances.js';
+import { clusteringCommand } from './clustering.js';
 
-export const COMMANDS: CommandDef[] = [predictCommand, checkCommand, distancesCommand];
+export const COMMANDS: CommandDef[] = [predictCommand, checkCommand, distancesCommand, clusteringCommand];
