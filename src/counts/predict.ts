@@ -7,6 +7,7 @@ import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
 import type { Population, Survey } from '../survey/types.js';
 import { countPopulation, type Histogram, type SliceCount } from './engine.js';
 import { cosmologyJsonOf, type CosmologyJsonShape } from '../cosmology/json.js';
+import { combinedUncertainty, countWeightedRedshift, uncertaintyContext, type UncertaintyContext, type UncertaintyJson } from '../uncertainty/prediction.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
 
 export interface PredictionSlice {
@@ -18,12 +19,17 @@ export interface PredictionSlice {
   cumulative_count: number;
   limit_at_center: number;
   histogram: Histogram;
+  /** Absent only for a slice with no expected source. */
+  uncertainty?: UncertaintyJson;
 }
 
 export interface PredictionTotals {
   count: number;
   per_deg2: number;
   volume_mpc3: number;
+  uncertainty?: UncertaintyJson;
+  /** Count-weighted mean redshift, where the total's cosmic variance is evaluated. */
+  mean_redshift?: number;
 }
 
 export interface PopulationPrediction {
@@ -126,7 +132,34 @@ export function sumHistograms(hs: Histogram[], width: number): Histogram {
   return { variable: first.variable, edges, counts };
 }
 
-export function predict(survey: Survey): Prediction {
+export interface PredictOptions {
+  /** Skip Poisson and cosmic-variance uncertainties (faster; used inside forecasts and plans). */
+  noUncertainty?: boolean;
+}
+
+/** Add the uncertainty blocks to the slices and totals of parts made of populations. */
+function addUncertainty(
+  ctx: UncertaintyContext,
+  slices: PredictionSlice[],
+  totals: PredictionTotals,
+  partsOf: (i: number) => { population: Population; count: number; volumeMpc3: number }[],
+  totalParts: { population: Population; count: number; volumeMpc3: number }[],
+): void {
+  slices.forEach((s, i) => {
+    const u = combinedUncertainty(ctx, partsOf(i), s.z_min, s.z_max, 0.5 * (s.z_min + s.z_max));
+    if (u) s.uncertainty = u;
+  });
+  const zbar = countWeightedRedshift(slices);
+  const first = slices[0]!;
+  const last = slices[slices.length - 1]!;
+  const u = combinedUncertainty(ctx, totalParts, first.z_min, last.z_max, zbar);
+  if (u) {
+    totals.uncertainty = u;
+    totals.mean_redshift = zbar;
+  }
+}
+
+export function predict(survey: Survey, options: PredictOptions = {}): Prediction {
   const cosmo = new FlatLambdaCDM(survey.cosmology);
   const edges = survey.sliceEdges;
   const perPop: PopulationPrediction[] = survey.populations.map((p) => {
@@ -151,6 +184,29 @@ export function predict(survey: Survey): Prediction {
       };
     });
   }
+  const totals = perPop.length === 1 ? perPop[0]!.totals : totalsOf(slices, survey.areaDeg2);
+  if (!options.noUncertainty) {
+    const ctx = uncertaintyContext(survey, cosmo);
+    survey.populations.forEach((pop, k) => {
+      const own = perPop[k]!;
+      addUncertainty(
+        ctx,
+        own.slices,
+        own.totals,
+        (i) => [{ population: pop, count: own.slices[i]!.count, volumeMpc3: own.slices[i]!.volume_mpc3 }],
+        [{ population: pop, count: own.totals.count, volumeMpc3: own.totals.volume_mpc3 }],
+      );
+    });
+    if (perPop.length > 1) {
+      addUncertainty(
+        ctx,
+        slices,
+        totals,
+        (i) => survey.populations.map((pop, k) => ({ population: pop, count: perPop[k]!.slices[i]!.count, volumeMpc3: perPop[k]!.slices[i]!.volume_mpc3 })),
+        survey.populations.map((pop, k) => ({ population: pop, count: perPop[k]!.totals.count, volumeMpc3: perPop[k]!.totals.volume_mpc3 })),
+      );
+    }
+  }
   return {
     format: 1,
     title: survey.title,
@@ -160,7 +216,7 @@ export function predict(survey: Survey): Prediction {
     detection: detectionJson(survey),
     models: perPop.map((p) => p.model),
     limit_variable: limitVariable(survey, survey.populations[0]!),
-    totals: totalsOf(slices, survey.areaDeg2),
+    totals,
     slices,
     populations: perPop,
   };

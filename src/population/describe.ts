@@ -33,6 +33,11 @@ function describeParam(p: ZParam, z: number): ParameterDescription {
 }
 
 function fmt(x: number): string {
+  const ax = Math.abs(x);
+  if (ax !== 0 && (ax >= 1e5 || ax < 1e-3)) {
+    const [m, e] = x.toExponential(3).split('e');
+    return `${Number(m)}e${Number(e)}`;
+  }
   return Number(x.toPrecision(4)).toString();
 }
 

@@ -2,6 +2,7 @@
 import Table from 'cli-table3';
 import type { Prediction } from '../counts/predict.js';
 import { csvLine, sig, zText } from './format.js';
+import { dominantTerm } from '../uncertainty/prediction.js';
 
 const LIMIT_HEADINGS: Record<string, string> = {
   log10_luminosity: 'limit log10 L [erg/s]',
@@ -24,7 +25,10 @@ export function detectionLine(p: Prediction): string {
   if (d.kind === 'magnitude') {
     return `AB magnitude limit ${sig(d.limit_ab_mag as number)} in a band at ${sig(d.band_angstrom as number)} A (spectral slope beta = ${sig(d.beta as number)})`;
   }
-  return `threshold ${typeof d.limit === 'number' ? sig(d.limit) : JSON.stringify(d.limit)} in the population's variable`;
+  const q = p.models[0]?.quantity ?? (p.limit_variable === 'absolute_magnitude' ? 'absolute AB magnitude' : 'the quantity');
+  const lim = d.limit as number | string | { table: [number, number][] };
+  const text = typeof lim === 'number' ? sig(lim) : typeof lim === 'string' ? `"${lim}"` : `table ${JSON.stringify(lim.table)}`;
+  return `threshold on ${p.limit_variable === 'absolute_magnitude' ? q : `log10 ${q}`}: ${text}`;
 }
 
 export function predictionHeader(p: Prediction): string[] {
@@ -47,9 +51,11 @@ export function predictionTable(p: Prediction): string {
     LIMIT_HEADINGS[p.limit_variable] ?? 'limit',
     ...(multi ? p.populations.map((q) => `${q.name}`) : []),
     'count',
+    '+/- (1 sigma)',
     'per deg^2',
     'cumulative',
   ];
+  const pm = (count: number, u: { total_fraction: number } | undefined) => (u ? sig(count * u.total_fraction, 3) : '-');
   const table = new Table({ head, style: { head: [], border: [] } });
   p.slices.forEach((s, i) => {
     table.push([
@@ -58,6 +64,7 @@ export function predictionTable(p: Prediction): string {
       sig(s.limit_at_center, 4),
       ...(multi ? p.populations.map((q) => sig(q.slices[i]!.count, 4)) : []),
       sig(s.count, 4),
+      pm(s.count, s.uncertainty),
       sig(s.per_deg2, 4),
       sig(s.cumulative_count, 4),
     ]);
@@ -68,10 +75,20 @@ export function predictionTable(p: Prediction): string {
     '',
     ...(multi ? p.populations.map((q) => sig(q.totals.count, 4)) : []),
     sig(p.totals.count, 4),
+    pm(p.totals.count, p.totals.uncertainty),
     sig(p.totals.per_deg2, 4),
     '',
   ]);
-  return [...predictionHeader(p), table.toString(), FORECAST_CAVEAT, ''].join('\n');
+  const notes: string[] = [];
+  const u = p.totals.uncertainty;
+  if (u) {
+    notes.push(
+      `Uncertainty: +/- is Poisson noise and cosmic variance in quadrature; ${dominantTerm(u)}; ` +
+        `bias ${sig(u.bias, 3)}${u.halo_mass_min_msun ? ` (haloes above ${sig(u.halo_mass_min_msun, 3)} Msun, abundance matching)` : ''}, ` +
+        `sigma_matter ${sig(u.sigma_matter, 3)} at z = ${zText(p.totals.mean_redshift ?? 0)}.`,
+    );
+  }
+  return [...predictionHeader(p), table.toString(), ...notes, FORECAST_CAVEAT, ''].join('\n');
 }
 
 export function predictionCsv(p: Prediction): string {
@@ -83,6 +100,10 @@ export function predictionCsv(p: Prediction): string {
     `limit_at_center_${p.limit_variable}`,
     ...(multi ? p.populations.map((q) => `count_${q.name}`) : []),
     'count',
+    'poisson_fraction',
+    'cosmic_variance_fraction',
+    'total_fraction',
+    'bias',
     'per_deg2',
     'cumulative_count',
   ]);
@@ -94,6 +115,10 @@ export function predictionCsv(p: Prediction): string {
       s.limit_at_center,
       ...(multi ? p.populations.map((q) => q.slices[i]!.count) : []),
       s.count,
+      s.uncertainty?.poisson_fraction ?? '',
+      s.uncertainty?.cosmic_variance_fraction ?? '',
+      s.uncertainty?.total_fraction ?? '',
+      s.uncertainty?.bias ?? '',
       s.per_deg2,
       s.cumulative_count,
     ]);

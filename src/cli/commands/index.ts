@@ -3,6 +3,7 @@ import type { CommandDef } from './types.js';
 import { predictCommand } from './predict.js';
 import { checkCommand } from './check.js';
 import { distancesCommand } from './distances.js';
+import { clusteringCommand } from './clustering.js';
 import { forecastCommand } from './forecast.js';
 
-export const COMMANDS: CommandDef[] = [predictCommand, checkCommand, distancesCommand, forecastCommand];
+export const COMMANDS: CommandDef[] = [predictCommand, checkCommand, distancesCommand, clusteringCommand, forecastCommand];

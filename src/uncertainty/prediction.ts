@@ -1,0 +1,139 @@
+/**
+ * Uncertainty of every count of a prediction: Poisson noise and cosmic variance.
+ *
+ * Per slice (and per population): the slice's volume is approximated by a box of transverse
+ * sides D_M(z_mid) times each field's angular sides and radial side D_C(z2) - D_C(z1); sigma_dm
+ * is the rms linear matter fluctuation in that box (window.ts). The galaxy bias is a number, a
+ * table or expression in z, or "auto": abundance matching as in Trenti & Stiavelli 2008 (haloes of
+ * the Sheth & Tormen 1999 mass function above M_min as numerous as the detected galaxies divided
+ * by the occupation; the bias is the abundance-weighted Sheth-Tormen bias above M_min).
+ * Cosmic-variance fraction = b sigma_dm / sqrt(field count); Poisson fraction = 1/sqrt(N);
+ * total = their sum in quadrature. The survey total uses one box spanning the whole window at the
+ * count-weighted mean redshift. Several populations in one slice: their fluctuations trace the
+ * same matter, so the combined bias is the count-weighted mean of their biases.
+ */
+import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import type { Population, Survey } from '../survey/types.js';
+import { inputError } from '../errors.js';
+import { createLinearPower, type LinearPower } from './power-spectrum.js';
+import { createHaloModel } from './haloes.js';
+import { sliceMatterSigma } from './cosmic-variance.js';
+
+export interface UncertaintyJson {
+  poisson_fraction: number;
+  cosmic_variance_fraction: number;
+  total_fraction: number;
+  bias: number;
+  sigma_matter: number;
+  halo_mass_min_msun?: number;
+}
+
+export interface CountedRange {
+  zMin: number;
+  zMax: number;
+  count: number;
+  volumeMpc3: number;
+}
+
+export interface UncertaintyContext {
+  survey: Survey;
+  cosmo: FlatLambdaCDM;
+  power: LinearPower;
+}
+
+export function uncertaintyContext(survey: Survey, cosmo: FlatLambdaCDM): UncertaintyContext {
+  return { survey, cosmo, power: createLinearPower(survey.cosmology, { form: 'no_wiggle' }) };
+}
+
+/** Bias of one population for a range of redshift holding `count` sources in `volumeMpc3`, at z. */
+export function populationBias(
+  ctx: UncertaintyContext,
+  p: Population,
+  z: number,
+  count: number,
+  volumeMpc3: number,
+): { bias: number; haloMassMinMsun?: number } {
+  if (p.bias !== 'auto') return { bias: p.bias.at(z) };
+  const density = count / volumeMpc3;
+  try {
+    const m = createHaloModel(ctx.power).matchHaloMass(density, z, p.occupation);
+    return { bias: m.bias, haloMassMinMsun: m.haloMassMinMsun };
+  } catch (err) {
+    const what = err instanceof Error ? err.message.replace(/\.$/, '') : String(err);
+    throw inputError(
+      'out_of_range',
+      ctx.survey.file,
+      `population.bias`,
+      `abundance matching failed for ${p.name} at z = ${z.toPrecision(3)} (${what})`,
+      'give population.bias as a number, table or expression instead of "auto"',
+    );
+  }
+}
+
+/** sigma_dm of the box of one field for the redshift range [z1, z2] centred at zc. */
+export function matterSigma(ctx: UncertaintyContext, z1: number, z2: number, zc: number): number {
+  const { survey, cosmo } = ctx;
+  return sliceMatterSigma(ctx.power, {
+    areaSr: survey.areaSr,
+    aspect: survey.field.aspect,
+    fieldCount: survey.field.count,
+    transverseDistanceMpc: cosmo.transverseComovingDistanceMpc(zc),
+    radialDepthMpc: cosmo.comovingDistanceMpc(z2) - cosmo.comovingDistanceMpc(z1),
+    zMid: zc,
+  });
+}
+
+/**
+ * The uncertainty block for a count made of several populations' parts (one part for a single
+ * population), over [zMin, zMax] with representative redshift zc. Undefined when the count is 0
+ * (a fraction of nothing is not defined).
+ */
+export function combinedUncertainty(
+  ctx: UncertaintyContext,
+  parts: { population: Population; count: number; volumeMpc3: number }[],
+  zMin: number,
+  zMax: number,
+  zc: number,
+): UncertaintyJson | undefined {
+  const count = parts.reduce((a, p) => a + p.count, 0);
+  if (!(count > 0)) return undefined;
+  let weighted = 0;
+  let haloMass: number | undefined;
+  for (const part of parts) {
+    if (!(part.count > 0)) continue;
+    const b = populationBias(ctx, part.population, zc, part.count, part.volumeMpc3);
+    weighted += b.bias * part.count;
+    if (parts.length === 1) haloMass = b.haloMassMinMsun;
+  }
+  const bias = weighted / count;
+  const sigma = matterSigma(ctx, zMin, zMax, zc);
+  const poisson = 1 / Math.sqrt(count);
+  const cv = (bias * sigma) / Math.sqrt(ctx.survey.field.count);
+  const out: UncertaintyJson = {
+    poisson_fraction: poisson,
+    cosmic_variance_fraction: cv,
+    total_fraction: Math.hypot(poisson, cv),
+    bias,
+    sigma_matter: sigma,
+  };
+  if (haloMass !== undefined) out.halo_mass_min_msun = haloMass;
+  return out;
+}
+
+/** Count-weighted mean of the slices' middle redshifts. */
+export function countWeightedRedshift(slices: readonly { z_min: number; z_max: number; count: number }[]): number {
+  let n = 0;
+  let zn = 0;
+  for (const s of slices) {
+    n += s.count;
+    zn += s.count * 0.5 * (s.z_min + s.z_max);
+  }
+  return n > 0 ? zn / n : 0.5 * (slices[0]!.z_min + slices[slices.length - 1]!.z_max);
+}
+
+/** Which term dominates, in words, for the table. */
+export function dominantTerm(u: UncertaintyJson): string {
+  const ratio = u.cosmic_variance_fraction / u.poisson_fraction;
+  if (ratio > 1) return `cosmic variance dominates the total's uncertainty (${(100 * u.cosmic_variance_fraction).toFixed(1)} % against ${(100 * u.poisson_fraction).toFixed(1)} % Poisson)`;
+  return `Poisson noise dominates the total's uncertainty (${(100 * u.poisson_fraction).toFixed(1)} % against ${(100 * u.cosmic_variance_fraction).toFixed(1)} % cosmic variance)`;
+}
