@@ -1,23 +1,33 @@
 /**
- * The one place the forecast gets its per-slice cosmic-variance fractions from.
- *
- * The uncertainty layer (src/uncertainty) is to provide `cosmicVarianceFractions(survey, edges)`:
- * per slice, the fractional rms of the count from large-scale structure (b sigma_dm / sqrt(fields)).
- * It is not there yet (src/uncertainty has the slice physics, `sliceUncertainty`, but not the
- * survey-level function with the population's bias), so this adapter calls
- * `cosmicVarianceNotAvailable`, which throws. The forecast only asks for fractions when cosmic
- * variance is on; `--no-cosmic-variance` never reaches here. When the real function lands, replace
- * the body of `cosmicVarianceInput` with a call to it.
+ * The one place the forecast gets its per-slice cosmic-variance fractions from: the uncertainty
+ * layer (src/uncertainty/prediction.ts), exactly as `predict` reports them for one population:
+ * per slice, b sigma_dm / sqrt(field count), with sigma_dm the rms linear matter fluctuation in one
+ * field's box at the slice's middle redshift and b the population's bias (given, or "auto" by
+ * abundance matching to the slice's count). A slice with under 1e-6 expected sources gets 0: its
+ * nuisance cannot change the forecast (b_i b_i^T / (N_i + 1/sigma_i^2) vanishes with N_i for any
+ * sigma_i), and abundance matching is undefined for so rare a population (the requirement search
+ * meets such slices at shallow trial limits).
+ * The fractions depend on the area (field sizes) and on the limit (the matched bias), so the
+ * requirement search asks again for every trial survey.
  */
-import type { Survey } from '../survey/types.js';
+import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import { countPopulation } from '../counts/engine.js';
+import type { Population, Survey } from '../survey/types.js';
+import { combinedUncertainty, uncertaintyContext } from '../uncertainty/prediction.js';
 
-export type CosmicVarianceSource = (survey: Survey, edges: readonly number[]) => number[];
+const NEGLIGIBLE_COUNT = 1e-6;
 
-export function cosmicVarianceNotAvailable(): never {
-  throw new Error(
-    'cosmic variance not available: the per-slice cosmic-variance fractions (src/uncertainty cosmicVarianceFractions) are not in this build yet; run with --no-cosmic-variance for a Poisson-only forecast',
+export type CosmicVarianceSource = (survey: Survey, edges: readonly number[], population: Population) => number[];
+
+/** Per-slice cosmic-variance fractions of `population` in `survey` on `edges`. */
+export const cosmicVarianceInput: CosmicVarianceSource = (survey, edges, population) => {
+  const cosmo = new FlatLambdaCDM(survey.cosmology);
+  const ctx = uncertaintyContext(survey, cosmo);
+  const counts = countPopulation(survey, population, cosmo, edges, { noHistogram: true });
+  return counts.map((s) =>
+    s.count < NEGLIGIBLE_COUNT
+      ? 0
+      : (combinedUncertainty(ctx, [{ population, count: s.count, volumeMpc3: s.volumeMpc3 }], s.zMin, s.zMax, 0.5 * (s.zMin + s.zMax))
+          ?.cosmic_variance_fraction ?? 0),
   );
-}
-
-/** Per-slice cosmic-variance fractions of `survey` on `edges`. */
-export const cosmicVarianceInput: CosmicVarianceSource = (_survey, _edges) => cosmicVarianceNotAvailable();
+};

@@ -158,7 +158,7 @@ export async function forecast(survey: Survey, opts: ForecastOptions = {}): Prom
   if (!poisson) {
     throw inputError('not_finite', survey.file, 'population', `the Fisher matrix of "${population.name}" is singular (${parts.count.toPrecision(3)} sources expected)`, 'choose a fainter limit or a larger area');
   }
-  const fractions = cvSource ? cvSource(survey, edges) : undefined;
+  const fractions = cvSource ? cvSource(survey, edges, population) : undefined;
   let withCv = poisson;
   if (fractions) {
     const s = summariseFisher(marginaliseNormalisations(parts.matrix, parts.slices, fractions));

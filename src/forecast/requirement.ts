@@ -143,7 +143,7 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
   // sigma as a function of area (Poisson information scaled; fractions asked at each area)
   const perArea = scaleParts(ctx.parts, 1 / a0);
   const sigmaAtArea = (areaDeg2: number, withCv = true): number[] =>
-    sigmaFrom(scaleParts(perArea, areaDeg2), cv && withCv ? cv(withArea(survey, areaDeg2), edges) : undefined);
+    sigmaFrom(scaleParts(perArea, areaDeg2), cv && withCv ? cv(withArea(survey, areaDeg2), edges, population) : undefined);
   const depthCache = new Map<string, number[]>();
   const sigmaAtDepth = (delta: number, withCv = true): number[] => {
     const key = `${withCv}:${delta}`;
@@ -151,7 +151,7 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
     if (hit) return hit;
     const s2 = deeperSurvey(survey, population, delta).survey;
     const parts = fisherParts(buildDensityGrid(s2, population, cosmo, edges));
-    const sig = parts.count > 0 ? sigmaFrom(parts, cv && withCv ? cv(s2, edges) : undefined) : names.map(() => Infinity);
+    const sig = parts.count > 0 ? sigmaFrom(parts, cv && withCv ? cv(s2, edges, population) : undefined) : names.map(() => Infinity);
     depthCache.set(key, sig);
     return sig;
   };

@@ -12,6 +12,7 @@ import { runCli } from '../cli/helpers.js';
 import { run } from '../../src/cli/index.js';
 import { loadSurveyFile } from '../../src/survey/load.js';
 import { forecast } from '../../src/forecast/forecast.js';
+import { predict } from '../../src/counts/predict.js';
 
 const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml') && !f.startsWith('plan'));
 const schema = JSON.parse(readFileSync('specs/forecast.schema.json', 'utf8'));
@@ -102,10 +103,19 @@ describe('forecast command', () => {
     expect(piped.stderr).toBe('');
   });
 
-  test('without --no-cosmic-variance: stops with "cosmic variance not available" until src/uncertainty provides the per-slice fractions', async () => {
-    const r = await runCli(['forecast', `samples/${SAMPLES[0]}`, '--format', 'json']);
-    expect(r.code).toBe(1);
-    expect(r.stdout).toBe('');
-    expect(r.stderr).toMatch(/cosmic variance not available.*--no-cosmic-variance/);
+  test.each(SAMPLES)('%s: with cosmic variance (default), the slice fractions are those predict reports (1e-9) and widen the Fisher sigmas', async (f) => {
+    const r = await runCli(['forecast', `samples/${f}`, '--format', 'json']);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const doc = JSON.parse(r.stdout);
+    expect(validate(doc), JSON.stringify(validate.errors)).toBe(true);
+    expect(doc.cosmic_variance).toBe(true);
+    const pred = predict(loadSurveyFile(`samples/${f}`));
+    doc.slices.forEach((s: { cosmic_variance_fraction: number }, i: number) => {
+      const expected = pred.populations[0]!.slices[i]!.uncertainty!.cosmic_variance_fraction;
+      expect(Math.abs(s.cosmic_variance_fraction - expected)).toBeLessThanOrEqual(1e-9 * expected);
+    });
+    for (const n of doc.parameters) expect(doc.fisher.sigma[n]).toBeGreaterThanOrEqual(doc.fisher_poisson_only.sigma[n] * (1 - 1e-12));
+    expect(doc.fisher.sigma.log10_phi_star).toBeGreaterThan(doc.fisher_poisson_only.sigma.log10_phi_star);
   });
 });
