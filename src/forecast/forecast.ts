@@ -219,6 +219,15 @@ export async function forecast(survey: Survey, opts: ForecastOptions = {}): Prom
     if (estimator === 'sty') {
       notes.push('The STY estimator (Sandage, Tammann & Yahil 1979) uses the shape of the distribution at each redshift only; it does not constrain phi*, which is not reported.');
     }
+    for (const [n, sp] of Object.entries(parameters)) {
+      if (Math.abs(sp.bias_in_standard_errors) <= 4) continue;
+      let why = '';
+      if (n === 'log10_phi_star' && fractions) {
+        why =
+          '; with cosmic variance this is expected: the per-slice normalisation nuisances enter multiplicatively, so the fitted normalisation is biased at the order of the squared cosmic-variance fractions, beyond the first order of the Fisher matrix';
+      }
+      notes.push(`${n}: the mean of the fits differs from the input by ${sp.bias.toPrecision(3)} (${sp.bias_in_standard_errors.toFixed(1)} standard errors of the mean)${why}.`);
+    }
     if (failed > 0) notes.push(`${failed} of ${run.count} fits did not converge and are left out of the statistics.`);
     if (run.envelopeMisses > 0) notes.push(`${run.envelopeMisses} draws exceeded the sampling envelope (the mock density is then slightly flattened there).`);
     out.mocks = {

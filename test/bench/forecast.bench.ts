@@ -1,5 +1,6 @@
 /**
- * Forecast benchmarks: the Fisher forecast of each sample (no mocks), the Fisher matrix alone on a
+ * Forecast benchmarks: the Fisher forecast of each sample (no mocks; Poisson only and with cosmic
+ * variance), the Fisher matrix alone on a
  * prepared grid, and 1,000 mock surveys of about 5,000 sources each, drawn and fitted, with 2
  * workers (the sample H-alpha survey scaled in area to 5,000 expected sources).
  */
@@ -30,6 +31,14 @@ const fisherCases: BenchCase[] = samples.flatMap((f) => {
       repeats: 30,
       run: async () => {
         const r = await forecast(s, { cosmicVariance: false });
+        sink += r.count;
+      },
+    },
+    {
+      name: `forecast Fisher with cosmic variance (fractions from src/uncertainty), ${f}`,
+      repeats: 10,
+      run: async () => {
+        const r = await forecast(s, {});
         sink += r.count;
       },
     },
