@@ -114,7 +114,6 @@ export interface FisherSummary {
 /** Covariance, standard deviations and correlations from a Fisher matrix; undefined if singular. */
 export function summariseFisher(matrix: Matrix): FisherSummary | undefined {
   // Scale to unit diagonal before inverting (the parameters differ in scale by orders of magnitude).
-  const n = matrix.length;
   const d = matrix.map((r, i) => Math.sqrt(r[i]!));
   if (d.some((x) => !(x > 0) || !Number.isFinite(x))) return undefined;
   const scaled = matrix.map((r, i) => r.map((v, j) => v / (d[i]! * d[j]!)));
@@ -124,6 +123,5 @@ export function summariseFisher(matrix: Matrix): FisherSummary | undefined {
   const sigma = covariance.map((r, i) => Math.sqrt(r[i]!));
   if (sigma.some((x) => !(x > 0) || !Number.isFinite(x))) return undefined;
   const correlation = covariance.map((r, i) => r.map((v, j) => (i === j ? 1 : v / (sigma[i]! * sigma[j]!))));
-  void n;
   return { covariance, sigma, correlation };
 }

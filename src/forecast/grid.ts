@@ -89,9 +89,19 @@ export function buildDensityGrid(survey: Survey, population: Population, cosmo: 
     const hi = Math.min(edges[s + 1]!, population.window.max);
     if (hi > lo) {
       // The count engine's redshift nodes (the order chosen by convergence of the hard-limit count).
+      // Model and observation at z, cached: the chosen nodes are among those the order search visits.
+      const cache = new Map<number, { p: ReturnType<typeof populationAt>; obs: ReturnType<typeof observer.at> }>();
+      const at = (zi: number) => {
+        let hit = cache.get(zi);
+        if (!hit) {
+          const p = populationAt(population, zi);
+          hit = { p, obs: observer.at(zi, p.characteristic) };
+          cache.set(zi, hit);
+        }
+        return hit;
+      };
       const hardCount = (zi: number): number => {
-        const p = populationAt(population, zi);
-        const obs = observer.at(zi, p.characteristic);
+        const { p, obs } = at(zi);
         if (!Number.isFinite(obs.log10ULimit)) return 0;
         const u = 10 ** obs.log10ULimit;
         let n = 0;
@@ -101,8 +111,7 @@ export function buildDensityGrid(survey: Survey, population: Population, cosmo: 
       const { z, w } = chooseRedshiftNodes(lo, hi, hardCount);
       for (let i = 0; i < z.length; i++) {
         const zi = z[i]!;
-        const p = populationAt(population, zi);
-        const obs = observer.at(zi, p.characteristic);
+        const { p, obs } = at(zi);
         if (!Number.isFinite(obs.log10ULimit)) continue;
         const c0 = p.components[0]!;
         const tLim = LN10 * obs.log10ULimit;
