@@ -1,0 +1,129 @@
+/**
+ * Fisher matrix of the unbinned extended Poisson likelihood (e.g. Cash 1979, ApJ 228, 939 for the
+ * likelihood; the information of a Poisson process with intensity lambda is the integral of
+ * lambda times the outer product of d ln lambda / d theta):
+ *
+ *   F_jk = integral dz integral dt lambda(z, t) (d ln lambda / d theta_j)(d ln lambda / d theta_k)
+ *
+ * with the analytic derivatives of src/forecast/parameters.ts, on the grid of src/forecast/grid.ts.
+ *
+ * Cosmic variance: one multiplicative normalisation nuisance (1 + eps_i) per slice, with a Gaussian
+ * prior of standard deviation sigma_i (the slice's cosmic-variance fraction). The augmented matrix
+ *   F_{eps_i eps_i} = N_i + 1/sigma_i^2,   F_{theta eps_i} = b_i = integral over slice i of lambda d ln lambda / d theta
+ * is marginalised over the nuisances by the Schur complement:
+ *   F_marg = F - sum_i b_i b_i^T / (N_i + 1/sigma_i^2)
+ * (a slice with sigma_i = 0 has no nuisance).
+ */
+import type { DensityGrid } from './grid.js';
+import { sliceCount } from './grid.js';
+import { inverseSpd, zeros, type Matrix } from './linalg.js';
+
+const LN10 = Math.LN10;
+
+export interface SliceInformation {
+  /** Expected count N_i in the slice. */
+  count: number;
+  /** b_i = integral over the slice of lambda d ln lambda / d theta (3 numbers). */
+  b: number[];
+}
+
+export interface FisherParts {
+  /** Poisson-only Fisher matrix (3 x 3) summed over slices. */
+  matrix: Matrix;
+  slices: SliceInformation[];
+  /** Total expected count. */
+  count: number;
+}
+
+/**
+ * Fisher matrix of a Poisson process from quadrature points: weights[q] = lambda_q times the
+ * quadrature weight, derivs[j][q] = d ln lambda / d theta_j at point q.
+ */
+export function fisherFromPoints(weights: ArrayLike<number>, derivs: ArrayLike<number>[]): Matrix {
+  const n = derivs.length;
+  const f = zeros(n);
+  for (let q = 0; q < weights.length; q++) {
+    const w = weights[q]!;
+    for (let j = 0; j < n; j++) {
+      const dj = derivs[j]![q]! * w;
+      for (let k = j; k < n; k++) f[j]![k]! += dj * derivs[k]![q]!;
+    }
+  }
+  for (let j = 0; j < n; j++) for (let k = 0; k < j; k++) f[j]![k] = f[k]![j]!;
+  return f;
+}
+
+/** The Poisson Fisher matrix of a tabulated density at the input parameters, with per-slice parts. */
+export function fisherParts(grid: DensityGrid): FisherParts {
+  const s = grid.shift;
+  const { pointT, pointExpT, pointLogW, pointA1, nodePointStart, sliceNodeStart } = grid;
+  const matrix = zeros(3);
+  const slices: SliceInformation[] = [];
+  let total = 0;
+  for (let sl = 0; sl < sliceCount(grid); sl++) {
+    let n = 0, bc = 0, ba = 0, fcc = 0, fca = 0, faa = 0;
+    const q0 = nodePointStart[sliceNodeStart[sl]!]!;
+    const q1 = nodePointStart[sliceNodeStart[sl + 1]!]!;
+    for (let q = q0; q < q1; q++) {
+      const t = pointT[q]!;
+      const u = pointExpT[q]!;
+      const g = Math.exp(pointLogW[q]! + pointA1[q]! * t - u);
+      const dc = s * (pointA1[q]! - u);
+      n += g;
+      bc += g * dc;
+      ba += g * t;
+      fcc += g * dc * dc;
+      fca += g * dc * t;
+      faa += g * t * t;
+    }
+    const b = [LN10 * n, bc, ba];
+    const m = [
+      [LN10 * LN10 * n, LN10 * bc, LN10 * ba],
+      [LN10 * bc, fcc, fca],
+      [LN10 * ba, fca, faa],
+    ];
+    for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) matrix[j]![k]! += m[j]![k]!;
+    slices.push({ count: n, b });
+    total += n;
+  }
+  return { matrix, slices, count: total };
+}
+
+/** F - sum_i b_i b_i^T / (N_i + 1/sigma_i^2): the nuisance-marginalised information. */
+export function marginaliseNormalisations(matrix: Matrix, slices: readonly SliceInformation[], fractions: readonly number[]): Matrix {
+  if (fractions.length !== slices.length) {
+    throw new Error(`cosmic variance: ${fractions.length} fractions given for ${slices.length} slices`);
+  }
+  const out = matrix.map((r) => [...r]);
+  slices.forEach((sl, i) => {
+    const sigma = fractions[i]!;
+    if (!(sigma >= 0) || !Number.isFinite(sigma)) throw new Error(`cosmic variance: the fraction of slice ${i} is ${sigma}, not a number >= 0`);
+    if (sigma === 0) return;
+    const d = sl.count + 1 / (sigma * sigma);
+    for (let j = 0; j < out.length; j++) for (let k = 0; k < out.length; k++) out[j]![k]! -= (sl.b[j]! * sl.b[k]!) / d;
+  });
+  return out;
+}
+
+export interface FisherSummary {
+  covariance: Matrix;
+  sigma: number[];
+  correlation: Matrix;
+}
+
+/** Covariance, standard deviations and correlations from a Fisher matrix; undefined if singular. */
+export function summariseFisher(matrix: Matrix): FisherSummary | undefined {
+  // Scale to unit diagonal before inverting (the parameters differ in scale by orders of magnitude).
+  const n = matrix.length;
+  const d = matrix.map((r, i) => Math.sqrt(r[i]!));
+  if (d.some((x) => !(x > 0) || !Number.isFinite(x))) return undefined;
+  const scaled = matrix.map((r, i) => r.map((v, j) => v / (d[i]! * d[j]!)));
+  const invScaled = inverseSpd(scaled);
+  if (!invScaled) return undefined;
+  const covariance = invScaled.map((r, i) => r.map((v, j) => v / (d[i]! * d[j]!)));
+  const sigma = covariance.map((r, i) => Math.sqrt(r[i]!));
+  if (sigma.some((x) => !(x > 0) || !Number.isFinite(x))) return undefined;
+  const correlation = covariance.map((r, i) => r.map((v, j) => (i === j ? 1 : v / (sigma[i]! * sigma[j]!))));
+  void n;
+  return { covariance, sigma, correlation };
+}

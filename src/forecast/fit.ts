@@ -1,0 +1,147 @@
+/**
+ * Maximum-likelihood fits of one mock catalogue, in the offsets theta = [d log10 phi*, d char, d alpha].
+ *
+ * Extended unbinned likelihood (e.g. Cash 1979, ApJ 228, 939; Marshall et al. 1983, ApJ 269, 35):
+ *   ln L = -Lambda(theta) + sum_i ln lambda(z_i, x_i; theta)
+ * With constant offsets the data term depends on the catalogue only through n, sum t, sum (alpha+1)
+ * and sum e^t (t = ln u at the input): per source
+ *   ln lambda = const + ln10 d_phi + (a1 + d_alpha)(t + s d_c) - e^t e^(s d_c).
+ * With cosmic variance, each slice's expected count carries a factor v_i = 1 + eps_i with a Gaussian
+ * prior of width sigma_i (the same nuisance the Fisher matrix marginalises):
+ *   ln L = sum_i [-v_i Lambda_i(theta) + n_i ln v_i - (v_i - 1)^2 / (2 sigma_i^2)] + data terms,
+ * and v_i is profiled out in closed form (the positive root of v^2/sigma^2 + v (Lambda - 1/sigma^2) - n = 0);
+ * the gradient and Hessian of the profile likelihood are exact (envelope theorem and implicit derivative).
+ *
+ * Shape-only conditional likelihood (Sandage, Tammann & Yahil 1979, ApJ 232, 352):
+ *   ln L = sum_i ln [ phi(x_i; theta) c / integral phi(x; theta) c dx at z_i ]
+ * It does not depend on phi* (nor on any normalisation), so it constrains only the characteristic
+ * value and alpha.
+ */
+import type { DensityGrid } from './grid.js';
+import { expectedCounts, sliceCount } from './grid.js';
+import type { CatalogueStats } from './sampler.js';
+import { maximise, type Evaluation } from './optimise.js';
+import { zeros } from './linalg.js';
+
+const LN10 = Math.LN10;
+/** A fit whose offsets leave this box is counted as failed. */
+const MAX_OFFSET = 5;
+
+export type Estimator = 'ml' | 'sty';
+
+export interface FitResult {
+  /** Offsets [d log10 phi*, d characteristic, d alpha]; the first is NaN for the sty estimator. */
+  theta: [number, number, number];
+  converged: boolean;
+}
+
+/** Upper triangle index helper for the 10-number per-slice blocks of expectedCounts. */
+function hessBlock(b: Float64Array, o: number): number[][] {
+  return [
+    [b[o + 4]!, b[o + 5]!, b[o + 6]!],
+    [b[o + 5]!, b[o + 7]!, b[o + 8]!],
+    [b[o + 6]!, b[o + 8]!, b[o + 9]!],
+  ];
+}
+
+/** Profile log-likelihood of the extended estimator, with gradient and Hessian. */
+export function extendedLogLikelihood(grid: DensityGrid, stats: CatalogueStats, cvSigma: ArrayLike<number>, theta: readonly number[], buf?: Float64Array): Evaluation {
+  const s = grid.shift;
+  const [dPhi, dC, dA] = theta as [number, number, number];
+  const lam = expectedCounts(grid, theta, buf);
+  const n = stats.total;
+  const eShift = Math.exp(s * dC);
+  let value = n * LN10 * dPhi + dA * stats.sumT + s * dC * stats.sumA1 + n * dA * s * dC - eShift * stats.sumU;
+  const g = [n * LN10, s * stats.sumA1 + n * dA * s - s * eShift * stats.sumU, stats.sumT + n * s * dC];
+  const h = zeros(3);
+  h[1]![1] = -s * s * eShift * stats.sumU;
+  h[1]![2] = h[2]![1] = n * s;
+  for (let sl = 0; sl < sliceCount(grid); sl++) {
+    const o = 10 * sl;
+    const L = lam[o]!;
+    const dL = [lam[o + 1]!, lam[o + 2]!, lam[o + 3]!];
+    const d2L = hessBlock(lam, o);
+    const ni = stats.sliceN[sl]!;
+    const sigma = cvSigma[sl] ?? 0;
+    let v = 1;
+    let corr = 0; // 1 / (n/v^2 + 1/sigma^2), the implicit-derivative factor
+    if (sigma > 0) {
+      const inv2 = 1 / (sigma * sigma);
+      const b = L - inv2;
+      const disc = Math.sqrt(b * b + 4 * ni * inv2);
+      v = b > 0 ? (2 * ni) / (b + disc) : (-b + disc) / (2 * inv2);
+      value += -v * L + (ni > 0 ? ni * Math.log(v) : 0) - 0.5 * (v - 1) * (v - 1) * inv2;
+      if (v > 0) corr = 1 / (ni / (v * v) + inv2);
+    } else {
+      value += -L;
+    }
+    for (let j = 0; j < 3; j++) {
+      g[j]! -= v * dL[j]!;
+      for (let k = 0; k < 3; k++) h[j]![k]! += -v * d2L[j]![k]! + corr * dL[j]! * dL[k]!;
+    }
+  }
+  return { value, gradient: g, hessian: h };
+}
+
+/**
+ * Shape-only (STY) log-likelihood in [d char, d alpha], with gradient and Hessian.
+ * Normalisers D_j(theta) = integral at node j of u^(alpha+1) e^-u c dt (shifted), weighted by the
+ * node's number of sources.
+ */
+export function styLogLikelihood(grid: DensityGrid, stats: CatalogueStats, theta2: readonly number[]): Evaluation {
+  const s = grid.shift;
+  const [dC, dA] = theta2 as [number, number];
+  const n = stats.total;
+  const eShift = Math.exp(s * dC);
+  let value = dA * stats.sumT + s * dC * stats.sumA1 + n * dA * s * dC - eShift * stats.sumU;
+  const g = [s * stats.sumA1 + n * dA * s - s * eShift * stats.sumU, stats.sumT + n * s * dC];
+  const h = [
+    [-s * s * eShift * stats.sumU, n * s],
+    [n * s, 0],
+  ];
+  const { pointT, pointExpT, pointLogW, pointA1, nodePointStart, nodeLogV } = grid;
+  for (let j = 0; j < grid.nodeZ.length; j++) {
+    const nj = stats.nodeN[j]!;
+    if (nj === 0) continue;
+    let D = 0, g1 = 0, g2 = 0, h11 = 0, h12 = 0, h22 = 0;
+    const lv = nodeLogV[j]!;
+    for (let q = nodePointStart[j]!; q < nodePointStart[j + 1]!; q++) {
+      const y = pointT[q]! + s * dC;
+      const a = pointA1[q]! + dA;
+      const u = pointExpT[q]! * eShift;
+      const w = Math.exp(pointLogW[q]! - lv + a * y - u);
+      const dc = s * (a - u);
+      D += w;
+      g1 += w * dc;
+      g2 += w * y;
+      h11 += w * (dc * dc - s * s * u);
+      h12 += w * (dc * y + s);
+      h22 += w * y * y;
+    }
+    const lnD = Math.log(D);
+    const m1 = g1 / D;
+    const m2 = g2 / D;
+    value -= nj * lnD;
+    g[0]! -= nj * m1;
+    g[1]! -= nj * m2;
+    h[0]![0]! -= nj * (h11 / D - m1 * m1);
+    h[0]![1]! -= nj * (h12 / D - m1 * m2);
+    h[1]![0]! -= nj * (h12 / D - m1 * m2);
+    h[1]![1]! -= nj * (h22 / D - m2 * m2);
+  }
+  return { value, gradient: g, hessian: h };
+}
+
+/** Fit one catalogue. The search starts at the input parameters (theta = 0). */
+export function fitCatalogue(grid: DensityGrid, stats: CatalogueStats, cvSigma: ArrayLike<number>, estimator: Estimator): FitResult {
+  if (stats.total < 3) return { theta: [NaN, NaN, NaN], converged: false };
+  if (estimator === 'sty') {
+    const r = maximise((x) => styLogLikelihood(grid, stats, x), [0, 0]);
+    const ok = r.converged && r.x.every((v) => Number.isFinite(v) && Math.abs(v) < MAX_OFFSET);
+    return { theta: [NaN, r.x[0]!, r.x[1]!], converged: ok };
+  }
+  const buf = new Float64Array(10 * sliceCount(grid));
+  const r = maximise((x) => extendedLogLikelihood(grid, stats, cvSigma, x, buf), [0, 0, 0]);
+  const ok = r.converged && r.x.every((v) => Number.isFinite(v) && Math.abs(v) < MAX_OFFSET);
+  return { theta: [r.x[0]!, r.x[1]!, r.x[2]!], converged: ok };
+}

@@ -1,0 +1,211 @@
+/**
+ * The expected density of detected sources of one population, tabulated once on a quadrature grid
+ * in (z, t = ln u) so that the Fisher matrix, the expected counts at shifted parameters and the
+ * mock surveys all integrate the same thing.
+ *
+ *   lambda(z, t) dz dt = area_sr dV_C/dz/dOmega(z) phi*(z) u^(alpha(z)+1) exp(-u) c(obs(z, t)) dz dt
+ *
+ * with u = L/L*(z) (or 10^(0.4 (M*(z) - M))) at the INPUT parameters, t >= t_lim(z) (the hard limit).
+ * z: the count engine's Gauss-Legendre nodes for each slice (`redshiftNodes`), so the grid's slice
+ * totals are the engine's counts. t: 8-point Gauss-Legendre panels no wider than 0.3 (and no wider
+ * than the logistic completeness width), split at completeness break points, from t_lim to
+ * ln(max(u_lim, 1) + 40) (exp(-40) ~ 4e-18 relative beyond).
+ *
+ * The grid is plain data (typed arrays and numbers) so that it can be sent to worker threads.
+ *
+ * At parameter offsets theta = [d log10 phi*, d characteristic, d alpha] the density at a grid point
+ * (fixed observed value) is
+ *   lambda_q(theta) = exp(logW_q + ln10 d_phi + (a1_q + d_alpha) (t_q + s d_c) - e^(t_q) e^(s d_c))
+ * where logW_q = ln(weight_z weight_t V phi* c) and a1 = alpha + 1 at the input, s = d ln u / d_c.
+ */
+import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import type { Completeness, DetectionKind, Population, PopulationVariable, Survey } from '../survey/types.js';
+import { redshiftNodes } from '../counts/engine.js';
+import { gaussLegendreRule } from '../numerics/quadrature.js';
+import { makeObserver } from '../selection/observe.js';
+import { completenessBreaks, completenessFunction } from '../selection/completeness.js';
+import { populationAt } from '../population/model.js';
+import { characteristicShift } from './parameters.js';
+
+const LN10 = Math.LN10;
+const PANEL_POINTS = 8;
+const MAX_PANEL_T = 0.3;
+const U_BRIGHT_SPAN = 40;
+
+export interface DensityGrid {
+  /** d ln u / d characteristic: -ln 10 (log10 L*) or 0.4 ln 10 (M*). */
+  shift: number;
+  /** Slope of obs = a + slope log10 u. */
+  slope: number;
+  edges: number[];
+  /** Node j belongs to slice nodeSlice[j]; nodes of slice s are sliceNodeStart[s] .. sliceNodeStart[s+1]-1. */
+  sliceNodeStart: Int32Array;
+  nodeZ: Float64Array;
+  /** alpha(z) + 1 at the input. */
+  nodeA1: Float64Array;
+  /** a(z) of obs = a + slope log10 u, at the input L* or M*. */
+  nodeObsA: Float64Array;
+  /** ln(area dV/dz weight_z phi*(z)): the node's factor in front of u^(alpha+1) e^-u c dt. */
+  nodeLogV: Float64Array;
+  nodeTLim: Float64Array;
+  nodeTMax: Float64Array;
+  /** Points of node j: nodePointStart[j] .. nodePointStart[j+1]-1. */
+  nodePointStart: Int32Array;
+  pointT: Float64Array;
+  pointExpT: Float64Array;
+  pointLogW: Float64Array;
+  pointA1: Float64Array;
+  /** Completeness model and the orientation data needed to rebuild c(obs) in a worker. */
+  completeness?: Completeness;
+  kind: DetectionKind;
+  variable: PopulationVariable;
+}
+
+/** Tabulate the density of detected sources of `population` on `edges`. */
+export function buildDensityGrid(survey: Survey, population: Population, cosmo: FlatLambdaCDM, edges: readonly number[]): DensityGrid {
+  const observer = makeObserver(survey.detection, population, cosmo);
+  const comp = survey.detection.completeness;
+  const cfn = comp ? completenessFunction(comp, survey.detection.kind, population.variable) : undefined;
+  const breaks = comp ? completenessBreaks(comp, survey.detection.kind) : undefined;
+  const slope = observer.slope;
+  const rule = gaussLegendreRule(PANEL_POINTS);
+  const maxStep = Math.min(MAX_PANEL_T, breaks && Number.isFinite(breaks.scale) ? (breaks.scale * LN10) / Math.abs(slope) : MAX_PANEL_T);
+
+  const sliceNodeStart: number[] = [0];
+  const nodeZ: number[] = [];
+  const nodeA1: number[] = [];
+  const nodeObsA: number[] = [];
+  const nodeLogV: number[] = [];
+  const nodeTLim: number[] = [];
+  const nodeTMax: number[] = [];
+  const nodePointStart: number[] = [0];
+  const pointT: number[] = [];
+  const pointLogW: number[] = [];
+  const pointA1: number[] = [];
+
+  for (let s = 0; s + 1 < edges.length; s++) {
+    const lo = Math.max(edges[s]!, population.window.min);
+    const hi = Math.min(edges[s + 1]!, population.window.max);
+    if (hi > lo) {
+      const { z, w } = redshiftNodes(lo, hi);
+      for (let i = 0; i < z.length; i++) {
+        const zi = z[i]!;
+        const p = populationAt(population, zi);
+        const obs = observer.at(zi, p.characteristic);
+        if (!Number.isFinite(obs.log10ULimit)) continue;
+        const c0 = p.components[0]!;
+        const tLim = LN10 * obs.log10ULimit;
+        const uLim = Math.exp(tLim);
+        const tMax = Math.log((uLim > 1 ? uLim : 1) + U_BRIGHT_SPAN);
+        const logV = Math.log(survey.areaSr * cosmo.differentialComovingVolumeMpc3Sr(zi) * w[i]! * c0.phiStar);
+        const a1 = c0.alpha + 1;
+        // Panel cuts: the ends and completeness break points in between.
+        const cuts = [tLim, tMax];
+        if (breaks) {
+          for (const bp of breaks.points) {
+            const t = (LN10 * (bp - obs.a)) / slope;
+            if (t > tLim && t < tMax) cuts.push(t);
+          }
+          cuts.sort((x, y) => x - y);
+        }
+        for (let k = 0; k + 1 < cuts.length; k++) {
+          const ta = cuts[k]!;
+          const tb = cuts[k + 1]!;
+          const nSub = Math.max(1, Math.ceil((tb - ta) / maxStep));
+          const h = (tb - ta) / nSub;
+          for (let m = 0; m < nSub; m++) {
+            const pa = ta + m * h;
+            for (let q = 0; q < PANEL_POINTS; q++) {
+              const t = pa + 0.5 * h * (rule.nodes[q]! + 1);
+              const c = cfn ? cfn(obs.a + (slope * t) / LN10) : 1;
+              if (!(c > 0)) continue;
+              pointT.push(t);
+              pointLogW.push(logV + Math.log(0.5 * h * rule.weights[q]! * c));
+              pointA1.push(a1);
+            }
+          }
+        }
+        nodeZ.push(zi);
+        nodeA1.push(a1);
+        nodeObsA.push(obs.a);
+        nodeLogV.push(logV);
+        nodeTLim.push(tLim);
+        nodeTMax.push(tMax);
+        nodePointStart.push(pointT.length);
+      }
+    }
+    sliceNodeStart.push(nodeZ.length);
+  }
+  const grid: DensityGrid = {
+    shift: characteristicShift(population),
+    slope,
+    edges: [...edges],
+    sliceNodeStart: Int32Array.from(sliceNodeStart),
+    nodeZ: Float64Array.from(nodeZ),
+    nodeA1: Float64Array.from(nodeA1),
+    nodeObsA: Float64Array.from(nodeObsA),
+    nodeLogV: Float64Array.from(nodeLogV),
+    nodeTLim: Float64Array.from(nodeTLim),
+    nodeTMax: Float64Array.from(nodeTMax),
+    nodePointStart: Int32Array.from(nodePointStart),
+    pointT: Float64Array.from(pointT),
+    pointExpT: Float64Array.from(pointT, Math.exp),
+    pointLogW: Float64Array.from(pointLogW),
+    pointA1: Float64Array.from(pointA1),
+    kind: survey.detection.kind,
+    variable: population.variable,
+  };
+  if (comp) grid.completeness = comp;
+  return grid;
+}
+
+export function sliceCount(grid: DensityGrid): number {
+  return grid.sliceNodeStart.length - 1;
+}
+
+/**
+ * Expected counts per slice at offsets theta, with their gradient and Hessian in theta.
+ * `out` receives, per slice, 10 numbers: Lambda, dLambda[3], then the Hessian's upper triangle
+ * (00, 01, 02, 11, 12, 22).
+ */
+export function expectedCounts(grid: DensityGrid, theta: ArrayLike<number>, out: Float64Array = new Float64Array(10 * sliceCount(grid))): Float64Array {
+  const dPhi = theta[0]!;
+  const dC = theta[1]!;
+  const dA = theta[2]!;
+  const s = grid.shift;
+  const eShift = Math.exp(s * dC);
+  const lnPhi = LN10 * dPhi;
+  const { pointT, pointExpT, pointLogW, pointA1, nodePointStart, sliceNodeStart } = grid;
+  const nS = sliceCount(grid);
+  for (let sl = 0; sl < nS; sl++) {
+    let L = 0, g1 = 0, g2 = 0, h11 = 0, h12 = 0, h22 = 0;
+    const q0 = nodePointStart[sliceNodeStart[sl]!]!;
+    const q1 = nodePointStart[sliceNodeStart[sl + 1]!]!;
+    for (let q = q0; q < q1; q++) {
+      const y = pointT[q]! + s * dC;
+      const a = pointA1[q]! + dA;
+      const u = pointExpT[q]! * eShift;
+      const g = Math.exp(pointLogW[q]! + lnPhi + a * y - u);
+      // d exponent: phi -> ln10, c -> s (a - u), alpha -> y ; second: cc -> -s^2 u, c alpha -> s
+      const dc = s * (a - u);
+      L += g;
+      g1 += g * dc;
+      g2 += g * y;
+      h11 += g * (dc * dc - s * s * u);
+      h12 += g * (dc * y + s);
+      h22 += g * y * y;
+    }
+    const o = 10 * sl;
+    out[o] = L;
+    out[o + 1] = LN10 * L;
+    out[o + 2] = g1;
+    out[o + 3] = g2;
+    out[o + 4] = LN10 * LN10 * L;
+    out[o + 5] = LN10 * g1;
+    out[o + 6] = LN10 * g2;
+    out[o + 7] = h11;
+    out[o + 8] = h12;
+    out[o + 9] = h22;
+  }
+  return out;
+}
