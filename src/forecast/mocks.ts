@@ -11,10 +11,10 @@
  * (it checks `workerData.skytallyMocks` when loaded in a worker thread).
  */
 import { Worker, isMainThread, parentPort, workerData } from 'node:worker_threads';
-import { createRequire } from 'node:module';
-import { readFileSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
-import { fileURLToPath, pathToFileURL } from 'node:url';
+import { fileURLToPath } from 'node:url';
 import mt19937 from '@stdlib/random-base-mt19937';
 import normalRng from '@stdlib/random-base-normal';
 import poissonRng from '@stdlib/random-base-poisson';
@@ -105,7 +105,7 @@ export async function runMocks(setup: MockSetup, count: number, opts: RunOptions
     }
     return { count, theta, ok, sources, envelopeMisses: sampler.envelopeMisses };
   }
-  const entry = workerEntry();
+  const entry = await workerEntry();
   let next = 0;
   let done = 0;
   await new Promise<void>((resolve, reject) => {
@@ -129,7 +129,7 @@ export async function runMocks(setup: MockSetup, count: number, opts: RunOptions
       w.postMessage({ start, end });
     };
     for (let k = 0; k < workers; k++) {
-      const w = new Worker(entry.code, { eval: entry.eval, workerData: { skytallyMocks: true, setup } });
+      const w = new Worker(entry, { workerData: { skytallyMocks: true, setup } });
       pool.push(w);
       w.on('message', (m: { start: number; end: number; theta: Float64Array; ok: Uint8Array; sources: Float64Array; misses: number }) => {
         theta.set(m.theta, 3 * m.start);
@@ -155,20 +155,32 @@ export async function runMocks(setup: MockSetup, count: number, opts: RunOptions
 }
 
 /**
- * This module's own file as the worker entry. When it is a .ts file (tests, benchmarks), the worker
- * first registers tsx's loader (a development dependency) and then imports it.
+ * This module's own file as the worker entry. When it is a .ts file (tests and benchmarks run the
+ * sources), it is first bundled once per process with esbuild (a development dependency) into a
+ * temporary .mjs file, because a worker loading TypeScript through a loader takes seconds to start.
  */
-function workerEntry(): { code: string; eval: boolean } {
-  const url = import.meta.url;
-  const file = fileURLToPath(url);
-  if (file.endsWith('.ts')) {
-    // The ESM entry of tsx's register API, read from its package.json exports.
-    const pkgPath = createRequire(url).resolve('tsx/package.json');
-    const pkg = JSON.parse(readFileSync(pkgPath, 'utf8')) as { exports: Record<string, { import: { default: string } }> };
-    const api = pathToFileURL(join(dirname(pkgPath), pkg.exports['./esm/api']!.import.default)).href;
-    return { code: `import(${JSON.stringify(api)}).then((m) => { m.register(); return import(${JSON.stringify(url)}); });`, eval: true };
-  }
-  return { code: file, eval: false };
+let devBundle: Promise<string> | undefined;
+async function workerEntry(): Promise<string> {
+  const file = fileURLToPath(import.meta.url);
+  if (!file.endsWith('.ts')) return file;
+  devBundle ??= (async () => {
+    const moduleName = 'esbuild'; // not a literal, so that bundling the program leaves it out
+    const { build } = (await import(moduleName)) as typeof import('esbuild');
+    const out = join(mkdtempSync(join(tmpdir(), 'skytally-mocks-')), 'mock-worker.mjs');
+    await build({
+      entryPoints: [file],
+      outfile: out,
+      bundle: true,
+      format: 'esm',
+      platform: 'node',
+      target: 'node20',
+      banner: { js: "import { createRequire as __req } from 'node:module'; const require = __req(import.meta.url);" },
+      logLevel: 'error',
+    });
+    process.once('exit', () => rmSync(dirname(out), { recursive: true, force: true }));
+    return out;
+  })();
+  return devBundle;
 }
 
 if (!isMainThread && parentPort && (workerData as { skytallyMocks?: boolean } | null)?.skytallyMocks) {

@@ -1,0 +1,88 @@
+import { availableParallelism } from 'node:os';
+import { Option } from 'commander';
+import type { CommandDef } from './types.js';
+import { addOutputOptions, loadSurveyArg, outputOptions } from './common.js';
+import { emit, type CliIO } from '../io.js';
+import { inputError } from '../../errors.js';
+
+export const forecastCommand: CommandDef = {
+  name: 'forecast',
+  description: 'how well the survey measures phi*, L* (or M*) and alpha: Fisher matrix, mock surveys, area or depth for a target',
+  configure(cmd) {
+    cmd.argument('<survey>', 'survey file (YAML)');
+    cmd.option('--mocks <N>', 'also draw N mock surveys and fit each by maximum likelihood');
+    cmd.option('--seed <S>', 'seed of the mock surveys (integer 0 to 4294967295; default 1)');
+    cmd.option('--target <list>', 'target sigmas, e.g. alpha=0.1 or alpha=0.1,log10_l_star=0.05: report the area and the limit that reach them');
+    cmd.option('--no-cosmic-variance', 'leave out the cosmic-variance normalisation of each slice (Poisson only)');
+    cmd.option('--workers <K>', 'worker threads for the mocks (default 1)');
+    cmd.option('--population <name>', 'the population to forecast (default: the first)');
+    cmd.addOption(new Option('--estimator <name>', 'mock fits: ml (extended likelihood) or sty (shape only; no phi*)').choices(['ml', 'sty']).default('ml'));
+    addOutputOptions(cmd);
+  },
+  async action(cmd, args, io) {
+    const file = args[0] as string;
+    const raw = cmd.opts();
+    const out = outputOptions(raw);
+    const mocks = raw.mocks === undefined ? 0 : integerOption(String(raw.mocks), '--mocks', 1, 1_000_000);
+    const seed = raw.seed === undefined ? 1 : integerOption(String(raw.seed), '--seed', 0, 4294967295);
+    const maxWorkers = availableParallelism();
+    const workers = raw.workers === undefined ? 1 : integerOption(String(raw.workers), '--workers', 1, maxWorkers);
+    const survey = await loadSurveyArg(io, file);
+    const { forecast, choosePopulation } = await import('../../forecast/forecast.js');
+    const { parameterNames } = await import('../../forecast/parameters.js');
+    const population = choosePopulation(survey, typeof raw.population === 'string' ? raw.population : undefined);
+    const targets = raw.target === undefined ? undefined : parseTargets(String(raw.target), parameterNames(population));
+    const progress = mocks > 0 && io.stderrIsTTY ? progressBar(io) : undefined;
+    const result = await forecast(survey, {
+      population: population.name,
+      cosmicVariance: raw.cosmicVariance !== false,
+      mocks,
+      seed,
+      workers,
+      estimator: raw.estimator === 'sty' ? 'sty' : 'ml',
+      ...(targets ? { targets } : {}),
+      ...(progress ? { onProgress: progress } : {}),
+    });
+    const { forecastTable, forecastCsv } = await import('../../forecast/render.js');
+    emit(io, out, { json: () => result, table: () => forecastTable(result), csv: () => forecastCsv(result) }, [file]);
+    return 0;
+  },
+};
+
+function integerOption(text: string, option: string, min: number, max: number): number {
+  const v = Number(text);
+  if (!Number.isInteger(v) || v < min || v > max) {
+    throw inputError('bad_option', '', option, `"${text}" is not a whole number from ${min} to ${max}`, `give ${option} a whole number in that range`);
+  }
+  return v;
+}
+
+/** "alpha=0.1,log10_l_star=0.05" -> {alpha: 0.1, log10_l_star: 0.05}; names must be the population's parameters. */
+export function parseTargets(text: string, names: readonly string[]): Record<string, number> {
+  const out: Record<string, number> = {};
+  const items = text.split(',').map((s) => s.trim()).filter((s) => s.length > 0);
+  if (items.length === 0) throw inputError('bad_option', '', '--target', 'is empty', `give name=sigma pairs such as --target alpha=0.1 (names: ${names.join(', ')})`);
+  for (const item of items) {
+    const eq = item.indexOf('=');
+    const name = eq < 0 ? item : item.slice(0, eq).trim();
+    if (eq < 0) throw inputError('bad_option', '', '--target', `"${item}" is not of the form name=sigma`, `write it as ${names.includes(name) ? name : 'alpha'}=0.1`);
+    if (!names.includes(name)) throw inputError('bad_option', '', '--target', `"${name}" is not a parameter of this population`, `use one of ${names.join(', ')}`);
+    const vText = item.slice(eq + 1).trim();
+    const v = Number(vText);
+    if (vText === '' || !Number.isFinite(v) || v <= 0) throw inputError('bad_option', '', '--target', `the target sigma of ${name} must be a positive number, not "${vText}"`, `give e.g. ${name}=0.1`);
+    if (name in out) throw inputError('bad_option', '', '--target', `${name} is given twice`, 'give each parameter once');
+    out[name] = v;
+  }
+  return out;
+}
+
+function progressBar(io: CliIO): (done: number, total: number) => void {
+  const width = 30;
+  let last = -1;
+  return (done, total) => {
+    const filled = Math.round((width * done) / total);
+    if (filled === last && done < total) return;
+    last = filled;
+    io.stderr(`\rmock surveys [${'#'.repeat(filled)}${'.'.repeat(width - filled)}] ${done}/${total}${done >= total ? '\n' : ''}`);
+  };
+}

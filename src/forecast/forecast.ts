@@ -1,0 +1,243 @@
+/**
+ * forecast: a Survey in, a Forecast (the JSON of specs/forecast.schema.json) out.
+ *
+ * 1. The density of detected sources of the chosen population is tabulated (grid.ts).
+ * 2. Fisher matrix (fisher.ts), Poisson-only and with the per-slice cosmic-variance nuisances
+ *    marginalised (unless switched off, when "fisher" is the Poisson-only result).
+ * 3. Optionally mock surveys fitted by maximum likelihood (mocks.ts) and the area / limit that
+ *    reaches target sigmas (requirement.ts).
+ */
+import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import type { Population, Survey } from '../survey/types.js';
+import { describeModel, type ModelDescription } from '../population/describe.js';
+import { inputError } from '../errors.js';
+import { buildDensityGrid } from './grid.js';
+import { fisherParts, marginaliseNormalisations, summariseFisher, type FisherSummary } from './fisher.js';
+import { parameterNames, parameterValuesAt, type ParameterName } from './parameters.js';
+import { cosmicVarianceInput, type CosmicVarianceSource } from './cosmic-variance-input.js';
+import { makeMockSetup, runMocks } from './mocks.js';
+import type { Estimator } from './fit.js';
+import { requirement, type Requirement } from './requirement.js';
+
+export const CAVEAT =
+  'A forecast is only as good as the luminosity function assumed: these uncertainties hold if the population follows the model above; a different faint-end slope or knee changes them.';
+
+export interface ForecastOptions {
+  /** Population of interest by name (default: the first). */
+  population?: string;
+  /** Include the cosmic-variance nuisances (default true). */
+  cosmicVariance?: boolean;
+  /** Where per-slice cosmic-variance fractions come from (default: the adapter). */
+  cosmicVarianceSource?: CosmicVarianceSource;
+  /** Number of mock surveys (0 or absent: none). */
+  mocks?: number;
+  seed?: number;
+  workers?: number;
+  estimator?: Estimator;
+  /** Target sigmas by parameter name. */
+  targets?: Record<string, number>;
+  onProgress?: (done: number, total: number) => void;
+}
+
+export interface FisherBlock {
+  sigma: Record<string, number>;
+  correlation: number[][];
+  covariance: number[][];
+}
+
+export interface MockParameterSummary {
+  mean: number;
+  std: number;
+  p16: number;
+  p50: number;
+  p84: number;
+  /** mean - input */
+  bias: number;
+  /** (mean - input) / (std / sqrt(fits)) */
+  bias_in_standard_errors: number;
+}
+
+export interface MocksBlock {
+  count: number;
+  seed: number;
+  estimator: 'extended_likelihood' | 'sty';
+  parameters: Record<string, MockParameterSummary>;
+  /** Parameters the estimator does not constrain (phi* for sty). */
+  not_constrained: string[];
+  failed_fits: number;
+  mean_sources: number;
+  notes: string[];
+}
+
+export interface ForecastSlice {
+  z_min: number;
+  z_max: number;
+  count: number;
+  cosmic_variance_fraction?: number;
+}
+
+export interface Forecast {
+  format: 1;
+  title: string;
+  model: ModelDescription;
+  caveat: string;
+  area_deg2: number;
+  redshift: { min: number; max: number };
+  parameters: ParameterName[];
+  /** Input value of each parameter at the middle of the population's window. */
+  center: Record<string, number>;
+  count: number;
+  cosmic_variance: boolean;
+  slices: ForecastSlice[];
+  fisher: FisherBlock;
+  covariance: number[][];
+  fisher_poisson_only: FisherBlock;
+  mocks?: MocksBlock;
+  requirement?: Requirement;
+}
+
+export function choosePopulation(survey: Survey, name?: string): Population {
+  if (name === undefined) return survey.populations[0]!;
+  const p = survey.populations.find((q) => q.name === name);
+  if (!p) {
+    throw inputError('bad_option', survey.file, '--population', `no population is named "${name}"`, `use one of ${survey.populations.map((q) => `"${q.name}"`).join(', ')}`);
+  }
+  return p;
+}
+
+function block(names: readonly string[], s: FisherSummary): FisherBlock {
+  const sigma: Record<string, number> = {};
+  names.forEach((n, i) => (sigma[n] = s.sigma[i]!));
+  return { sigma, correlation: s.correlation, covariance: s.covariance };
+}
+
+/** Percentile with linear interpolation between order statistics (Hyndman & Fan 1996, type 7). */
+export function percentile(sorted: readonly number[], p: number): number {
+  const h = (sorted.length - 1) * p;
+  const lo = Math.floor(h);
+  const hi = Math.min(sorted.length - 1, lo + 1);
+  return sorted[lo]! + (h - lo) * (sorted[hi]! - sorted[lo]!);
+}
+
+export function summariseSample(values: readonly number[], input: number): MockParameterSummary | undefined {
+  const n = values.length;
+  if (n < 2) return undefined;
+  let mean = 0;
+  for (const v of values) mean += v;
+  mean /= n;
+  let ss = 0;
+  for (const v of values) ss += (v - mean) ** 2;
+  const std = Math.sqrt(ss / (n - 1));
+  const sorted = [...values].sort((a, b) => a - b);
+  const bias = mean - input;
+  return {
+    mean,
+    std,
+    p16: percentile(sorted, 0.16),
+    p50: percentile(sorted, 0.5),
+    p84: percentile(sorted, 0.84),
+    bias,
+    bias_in_standard_errors: std > 0 ? bias / (std / Math.sqrt(n)) : 0,
+  };
+}
+
+export async function forecast(survey: Survey, opts: ForecastOptions = {}): Promise<Forecast> {
+  const population = choosePopulation(survey, opts.population);
+  const cosmo = new FlatLambdaCDM(survey.cosmology);
+  const edges = survey.sliceEdges;
+  const names = parameterNames(population);
+  const useCv = opts.cosmicVariance !== false;
+  const cvSource = useCv ? (opts.cosmicVarianceSource ?? cosmicVarianceInput) : undefined;
+
+  const grid = buildDensityGrid(survey, population, cosmo, edges);
+  const parts = fisherParts(grid);
+  if (!(parts.count > 0)) {
+    throw inputError('not_finite', survey.file, 'detection.limit', `no source of "${population.name}" is expected above the limit, so nothing can be measured`, 'choose a fainter limit or a larger area');
+  }
+  const poisson = summariseFisher(parts.matrix);
+  if (!poisson) {
+    throw inputError('not_finite', survey.file, 'population', `the Fisher matrix of "${population.name}" is singular (${parts.count.toPrecision(3)} sources expected)`, 'choose a fainter limit or a larger area');
+  }
+  const fractions = cvSource ? cvSource(survey, edges) : undefined;
+  let withCv = poisson;
+  if (fractions) {
+    const s = summariseFisher(marginaliseNormalisations(parts.matrix, parts.slices, fractions));
+    if (!s) throw inputError('not_finite', survey.file, 'population', 'the Fisher matrix with cosmic variance is singular', 'check the survey');
+    withCv = s;
+  }
+  const zMid = 0.5 * (population.window.min + population.window.max);
+  const values = parameterValuesAt(population, zMid);
+  const center: Record<string, number> = {};
+  names.forEach((n, i) => (center[n] = values[i]!));
+  const slices: ForecastSlice[] = parts.slices.map((s, i) => {
+    const o: ForecastSlice = { z_min: edges[i]!, z_max: edges[i + 1]!, count: s.count };
+    if (fractions) o.cosmic_variance_fraction = fractions[i]!;
+    return o;
+  });
+  const fisherBlock = block(names, withCv);
+  const out: Forecast = {
+    format: 1,
+    title: survey.title,
+    model: describeModel(survey, population),
+    caveat: CAVEAT,
+    area_deg2: survey.areaDeg2,
+    redshift: { min: survey.redshift.min, max: survey.redshift.max },
+    parameters: names,
+    center,
+    count: parts.count,
+    cosmic_variance: useCv,
+    slices,
+    fisher: fisherBlock,
+    covariance: fisherBlock.covariance,
+    fisher_poisson_only: block(names, poisson),
+  };
+
+  if (opts.mocks && opts.mocks > 0) {
+    const estimator = opts.estimator ?? 'ml';
+    const seed = opts.seed ?? 1;
+    const cvSigma = fractions ?? parts.slices.map(() => 0);
+    const run = await runMocks(makeMockSetup(grid, cvSigma, estimator, seed), opts.mocks, {
+      workers: opts.workers ?? 1,
+      ...(opts.onProgress ? { onProgress: opts.onProgress } : {}),
+    });
+    let failed = 0;
+    let sources = 0;
+    for (let i = 0; i < run.count; i++) {
+      if (!run.ok[i]) failed++;
+      sources += run.sources[i]!;
+    }
+    const parameters: Record<string, MockParameterSummary> = {};
+    const notConstrained: string[] = estimator === 'sty' ? [names[0]!] : [];
+    names.forEach((n, j) => {
+      if (notConstrained.includes(n)) return;
+      const vals: number[] = [];
+      for (let i = 0; i < run.count; i++) if (run.ok[i]) vals.push(values[j]! + run.theta[3 * i + j]!);
+      const s = summariseSample(vals, values[j]!);
+      if (s) parameters[n] = s;
+    });
+    const notes: string[] = [];
+    if (estimator === 'sty') {
+      notes.push('The STY estimator (Sandage, Tammann & Yahil 1979) uses the shape of the distribution at each redshift only; it does not constrain phi*, which is not reported.');
+    }
+    if (failed > 0) notes.push(`${failed} of ${run.count} fits did not converge and are left out of the statistics.`);
+    if (run.envelopeMisses > 0) notes.push(`${run.envelopeMisses} draws exceeded the sampling envelope (the mock density is then slightly flattened there).`);
+    out.mocks = {
+      count: run.count,
+      seed,
+      estimator: estimator === 'sty' ? 'sty' : 'extended_likelihood',
+      parameters,
+      not_constrained: notConstrained,
+      failed_fits: failed,
+      mean_sources: sources / run.count,
+      notes,
+    };
+  }
+
+  if (opts.targets && Object.keys(opts.targets).length > 0) {
+    out.requirement = requirement(
+      { survey, population, cosmo, names, parts, ...(cvSource ? { cosmicVariance: cvSource } : {}) },
+      opts.targets,
+    );
+  }
+  return out;
+}

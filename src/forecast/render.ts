@@ -1,0 +1,71 @@
+/** Human table and CSV for a Forecast (forecast command). */
+import Table from 'cli-table3';
+import { csvLine, sig, zText } from '../render/format.js';
+import type { Forecast } from './forecast.js';
+
+export function forecastTable(f: Forecast): string {
+  const lines: string[] = [
+    f.title,
+    `Survey: ${sig(f.area_deg2)} deg^2, z = ${zText(f.redshift.min)} to ${zText(f.redshift.max)}, ${sig(f.count, 5)} sources expected`,
+    `Assumed model: ${f.model.summary}`,
+    `Parameters: constant offsets at every z to ${f.parameters.join(', ')} (input values at z = ${zText(0.5 * (f.model.window.min + f.model.window.max))})`,
+    f.cosmic_variance
+      ? 'Fisher: unbinned Poisson likelihood, one cosmic-variance normalisation per slice marginalised'
+      : 'Fisher: unbinned Poisson likelihood, cosmic variance switched off',
+  ];
+  const head = ['parameter', 'input', 'sigma (Fisher)', 'sigma (Poisson only)'];
+  const m = f.mocks;
+  if (m) head.push('mock mean', 'mock std', 'p16', 'p50', 'p84', 'bias [s.e.]');
+  const table = new Table({ head, style: { head: [], border: [] } });
+  for (const n of f.parameters) {
+    const row = [n, sig(f.center[n]!, 5), sig(f.fisher.sigma[n]!, 3), sig(f.fisher_poisson_only.sigma[n]!, 3)];
+    if (m) {
+      const s = m.parameters[n];
+      if (s) row.push(sig(s.mean, 5), sig(s.std, 3), sig(s.p16, 5), sig(s.p50, 5), sig(s.p84, 5), sig(s.bias_in_standard_errors, 2));
+      else row.push('not constrained', '', '', '', '', '');
+    }
+    table.push(row);
+  }
+  lines.push(table.toString());
+  lines.push(`Correlations (Fisher): ${f.parameters.map((a, i) => f.parameters.slice(i + 1).map((b, k) => `${a}-${b} ${sig(f.fisher.correlation[i]![i + 1 + k]!, 3)}`).join(', ')).filter((s) => s).join(', ')}`);
+  if (m) {
+    lines.push(`Mocks: ${m.count} surveys (seed ${m.seed}, ${m.estimator === 'sty' ? 'STY shape-only estimator' : 'extended maximum likelihood'}), ${sig(m.mean_sources, 5)} sources on average, ${m.failed_fits} failed fits`);
+    for (const note of m.notes) lines.push(`  ${note}`);
+  }
+  const r = f.requirement;
+  if (r) {
+    const unit = r.limit_variable === 'line_flux_cgs' ? ' erg/s/cm^2' : r.limit_variable === 'log10_quantity' ? ' (log10 quantity)' : ' mag';
+    lines.push('To reach the target:');
+    for (const [n, e] of Object.entries(r.by_parameter)) {
+      const area = e.area_deg2 !== null ? `${sig(e.area_deg2, 3)} deg^2 at this depth` : 'no area at this depth';
+      const limit = e.limit !== null ? `a limit of ${sig(e.limit, 4)}${unit} at this area` : 'no limit at this area';
+      lines.push(`  sigma(${n}) = ${sig(e.target)}: ${area}; ${limit}`);
+      for (const note of e.notes) lines.push(`    ${note}`);
+    }
+  }
+  lines.push(f.caveat, '');
+  return lines.join('\n');
+}
+
+/** One row per parameter. */
+export function forecastCsv(f: Forecast): string {
+  const m = f.mocks;
+  const r = f.requirement;
+  const head = ['parameter', 'input', 'sigma_fisher', 'sigma_poisson_only'];
+  if (m) head.push('mock_mean', 'mock_std', 'mock_p16', 'mock_p50', 'mock_p84', 'mock_bias', 'mock_bias_in_standard_errors');
+  if (r) head.push('target', 'area_deg2_needed', `limit_needed_${r.limit_variable}`);
+  let out = csvLine(head);
+  for (const n of f.parameters) {
+    const row: (string | number)[] = [n, f.center[n]!, f.fisher.sigma[n]!, f.fisher_poisson_only.sigma[n]!];
+    if (m) {
+      const s = m.parameters[n];
+      row.push(...(s ? [s.mean, s.std, s.p16, s.p50, s.p84, s.bias, s.bias_in_standard_errors] : ['', '', '', '', '', '', '']));
+    }
+    if (r) {
+      const e = r.by_parameter[n];
+      row.push(e ? e.target : '', e?.area_deg2 ?? '', e?.limit ?? '');
+    }
+    out += csvLine(row);
+  }
+  return out;
+}

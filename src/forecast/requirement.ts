@@ -1,0 +1,218 @@
+/**
+ * What would reach a target precision: the area needed at the survey's depth, and the limit needed
+ * at the survey's area, for each target sigma (Fisher, with cosmic variance unless switched off).
+ *
+ * Area: the Poisson information is linear in area; with cosmic variance the fractions are asked
+ * again at each trial area (the fields grow with the area, so the fractions change). Root finding
+ * in ln(area) by Brent's method inside [1e-6 deg^2, full sky = 41 252.96 deg^2].
+ * Limit: the detection limit is moved by a constant (dex of line flux, magnitudes, or dex / magnitudes
+ * of the threshold quantity; a completeness curve moves with it, as a deeper exposure moves both),
+ * the density grid rebuilt and the Fisher matrix recomputed. The search bracket is +-3 dex around
+ * the survey's limit (line flux, luminosity threshold) or +-7.5 mag (magnitude kinds).
+ * Either may be unreachable; the statement says why (beyond the full sky, a cosmic-variance floor,
+ * or not within the bracket).
+ */
+import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import type { Completeness, Detection, Population, Survey, ZParam } from '../survey/types.js';
+import { brent, expandBracket } from '../numerics/roots.js';
+import { buildDensityGrid } from './grid.js';
+import { fisherParts, marginaliseNormalisations, summariseFisher, type FisherParts } from './fisher.js';
+import type { CosmicVarianceSource } from './cosmic-variance-input.js';
+import type { ParameterName } from './parameters.js';
+
+export const FULL_SKY_DEG2 = (4 * Math.PI * (180 / Math.PI) ** 2);
+export const MIN_AREA_DEG2 = 1e-6;
+const DEG2_SR = (Math.PI / 180) ** 2;
+
+export interface RequirementEntry {
+  target: number;
+  /** Area (deg^2) that reaches the target at the survey's depth; null when it cannot. */
+  area_deg2: number | null;
+  /** Limit that reaches the target at the survey's area (in limit_variable); null when it cannot. */
+  limit: number | null;
+  /** One sentence for each null (and for noteworthy cases). */
+  notes: string[];
+}
+
+export interface Requirement {
+  target: Record<string, number>;
+  /** The area that reaches every target (the largest of the areas); null if any target cannot be reached by area. */
+  area_deg2: number | null;
+  /** The limit that reaches every target (the deepest); null if any cannot. */
+  limit: number | null;
+  limit_variable: 'line_flux_cgs' | 'apparent_magnitude' | 'log10_quantity' | 'absolute_magnitude';
+  by_parameter: Record<string, RequirementEntry>;
+  search: { area_deg2: [number, number]; limit: [number, number] };
+  notes: string[];
+}
+
+export interface RequirementContext {
+  survey: Survey;
+  population: Population;
+  cosmo: FlatLambdaCDM;
+  names: readonly ParameterName[];
+  /** Parts at the survey's own area and depth. */
+  parts: FisherParts;
+  cosmicVariance?: CosmicVarianceSource;
+}
+
+function sigmaFrom(parts: FisherParts, fractions: number[] | undefined): number[] {
+  const m = fractions ? marginaliseNormalisations(parts.matrix, parts.slices, fractions) : parts.matrix;
+  const s = summariseFisher(m);
+  return s ? s.sigma : parts.matrix.map(() => Infinity);
+}
+
+function scaleParts(p: FisherParts, f: number): FisherParts {
+  return {
+    matrix: p.matrix.map((r) => r.map((v) => v * f)),
+    slices: p.slices.map((s) => ({ count: s.count * f, b: s.b.map((v) => v * f) })),
+    count: p.count * f,
+  };
+}
+
+function withArea(survey: Survey, areaDeg2: number): Survey {
+  return { ...survey, areaDeg2, areaSr: areaDeg2 * DEG2_SR };
+}
+
+/** Depth shift: +delta is deeper (dex of flux or quantity; magnitudes for magnitude kinds). */
+function depthUnit(survey: Survey, p: Population): 'dex' | 'mag' {
+  const d = survey.detection;
+  if (d.kind === 'magnitude') return 'mag';
+  if (d.kind === 'threshold' && p.variable === 'magnitude') return 'mag';
+  return 'dex';
+}
+
+function shiftZParam(z: ZParam, by: number): ZParam {
+  return { source: z.source, constant: z.constant, at: (x) => z.at(x) + by };
+}
+
+function shiftCompleteness(c: Completeness | undefined, dx: number): Completeness | undefined {
+  if (!c) return undefined;
+  if (c.model === 'logistic') return { ...c, half: c.half + dx };
+  return { ...c, x: c.x.map((v) => v + dx) };
+}
+
+/** The survey with its limit moved `delta` deeper, and the limit's new value (in limit_variable). */
+export function deeperSurvey(survey: Survey, p: Population, delta: number): { survey: Survey; limit: number } {
+  const d = survey.detection;
+  let det: Detection;
+  let limit: number;
+  const zMid = 0.5 * (p.window.min + p.window.max);
+  if (d.kind === 'line_flux') {
+    // completeness x = -log10 flux grows by delta when the flux limit falls by delta dex
+    limit = d.limitCgs * 10 ** -delta;
+    det = { ...d, limitCgs: limit };
+    const c = shiftCompleteness(d.completeness, delta);
+    if (c) det.completeness = c;
+  } else if (d.kind === 'magnitude') {
+    limit = d.limitMag + delta;
+    det = { ...d, limitMag: limit };
+    const c = shiftCompleteness(d.completeness, delta);
+    if (c) det.completeness = c;
+  } else {
+    // luminosity variable: log10 quantity falls by delta; magnitude variable: M grows by delta
+    const by = p.variable === 'luminosity' ? -delta : delta;
+    const lim = shiftZParam(d.limit, by);
+    limit = lim.at(zMid);
+    det = { ...d, limit: lim };
+    const c = shiftCompleteness(d.completeness, by);
+    if (c) det.completeness = c;
+  }
+  return { survey: { ...survey, detection: det }, limit };
+}
+
+export function limitVariable(survey: Survey, p: Population): Requirement['limit_variable'] {
+  const d = survey.detection;
+  if (d.kind === 'line_flux') return 'line_flux_cgs';
+  if (d.kind === 'magnitude') return 'apparent_magnitude';
+  return p.variable === 'luminosity' ? 'log10_quantity' : 'absolute_magnitude';
+}
+
+function fmt(x: number): string {
+  return Number(x.toPrecision(3)).toString();
+}
+
+export function requirement(ctx: RequirementContext, targets: Record<string, number>): Requirement {
+  const { survey, population, cosmo, names } = ctx;
+  const cv = ctx.cosmicVariance;
+  const edges = survey.sliceEdges;
+  const unit = depthUnit(survey, population);
+  const span = unit === 'dex' ? 3 : 7.5;
+  const a0 = survey.areaDeg2;
+
+  // sigma as a function of area (Poisson information scaled; fractions asked at each area)
+  const perArea = scaleParts(ctx.parts, 1 / a0);
+  const sigmaAtArea = (areaDeg2: number, withCv = true): number[] =>
+    sigmaFrom(scaleParts(perArea, areaDeg2), cv && withCv ? cv(withArea(survey, areaDeg2), edges) : undefined);
+  const depthCache = new Map<string, number[]>();
+  const sigmaAtDepth = (delta: number, withCv = true): number[] => {
+    const key = `${withCv}:${delta}`;
+    const hit = depthCache.get(key);
+    if (hit) return hit;
+    const s2 = deeperSurvey(survey, population, delta).survey;
+    const parts = fisherParts(buildDensityGrid(s2, population, cosmo, edges));
+    const sig = parts.count > 0 ? sigmaFrom(parts, cv && withCv ? cv(s2, edges) : undefined) : names.map(() => Infinity);
+    depthCache.set(key, sig);
+    return sig;
+  };
+  const finite = (v: number) => (Number.isFinite(v) ? v : 1e300);
+  const limitOf = (delta: number) => deeperSurvey(survey, population, delta).limit;
+  const lv = limitVariable(survey, population);
+  const limitText = (x: number) => (lv === 'line_flux_cgs' ? `${fmt(x)} erg/s/cm^2` : lv === 'log10_quantity' ? `log10 = ${fmt(x)}` : `${fmt(x)} mag`);
+
+  const byParameter: Record<string, RequirementEntry> = {};
+  for (const [name, target] of Object.entries(targets)) {
+    const j = names.indexOf(name as ParameterName);
+    const notes: string[] = [];
+    // --- area
+    let area: number | null = null;
+    const fArea = (lnA: number) => Math.log(finite(sigmaAtArea(Math.exp(lnA))[j]!) / target);
+    const lo = Math.log(MIN_AREA_DEG2);
+    const hi = Math.log(FULL_SKY_DEG2);
+    const sFull = sigmaAtArea(FULL_SKY_DEG2)[j]!;
+    if (!(sFull <= target)) {
+      const poissonFull = sigmaAtArea(FULL_SKY_DEG2, false)[j]!;
+      if (cv && poissonFull <= target) {
+        notes.push(`no area reaches sigma(${name}) = ${fmt(target)} at this depth: cosmic variance sets a floor of ${fmt(sFull)} even over the full sky (Poisson alone would need ${fmt(a0 * (sigmaAtArea(a0, false)[j]! / target) ** 2)} deg^2)`);
+      } else {
+        notes.push(`no area reaches sigma(${name}) = ${fmt(target)} at this depth: even the full sky (${fmt(FULL_SKY_DEG2)} deg^2) gives ${fmt(sFull)}`);
+      }
+    } else if (sigmaAtArea(MIN_AREA_DEG2)[j]! <= target) {
+      notes.push(`sigma(${name}) = ${fmt(target)} is reached by any area down to ${MIN_AREA_DEG2} deg^2`);
+    } else {
+      const start = Math.min(Math.max(Math.log(a0), lo + 0.1), hi - 0.1);
+      const [b0, b1] = expandBracket(fArea, start - 0.05, start + 0.05, { lower: lo, upper: hi, maxIter: 200 });
+      area = Math.exp(brent(fArea, b0, b1, { tol: 1e-10 }));
+    }
+    // --- limit
+    let limit: number | null = null;
+    const fDepth = (delta: number) => Math.log(finite(sigmaAtDepth(delta)[j]!) / target);
+    const sDeep = sigmaAtDepth(span)[j]!;
+    const sShallow = sigmaAtDepth(-span)[j]!;
+    if (!(sDeep <= target)) {
+      const poissonDeep = sigmaAtDepth(span, false)[j]!;
+      const why = cv && poissonDeep <= target ? ` (cosmic variance sets the floor; Poisson alone would give ${fmt(poissonDeep)})` : '';
+      notes.push(`no limit within ${span} ${unit} of the survey's reaches sigma(${name}) = ${fmt(target)} at this area: even ${limitText(limitOf(span))} gives ${fmt(sDeep)}${why}`);
+    } else if (sShallow <= target) {
+      notes.push(`sigma(${name}) = ${fmt(target)} is reached by every limit within ${span} ${unit} of the survey's, down to the shallowest searched, ${limitText(limitOf(-span))}`);
+    } else {
+      const [d0, d1] = expandBracket(fDepth, -0.05, 0.05, { lower: -span, upper: span, maxIter: 200 });
+      limit = limitOf(brent(fDepth, d0, d1, { tol: 1e-9 }));
+    }
+    byParameter[name] = { target, area_deg2: area, limit, notes };
+  }
+  const entries = Object.values(byParameter);
+  const allArea = entries.every((e) => e.area_deg2 !== null);
+  const allLimit = entries.every((e) => e.limit !== null);
+  const deeperIsLarger = lv === 'apparent_magnitude' || lv === 'absolute_magnitude';
+  const limits = entries.map((e) => e.limit as number);
+  return {
+    target: { ...targets },
+    area_deg2: allArea ? Math.max(...entries.map((e) => e.area_deg2 as number)) : null,
+    limit: allLimit ? (deeperIsLarger ? Math.max(...limits) : Math.min(...limits)) : null,
+    limit_variable: lv,
+    by_parameter: byParameter,
+    search: { area_deg2: [MIN_AREA_DEG2, FULL_SKY_DEG2], limit: [limitOf(-span), limitOf(span)] },
+    notes: entries.flatMap((e) => e.notes),
+  };
+}
