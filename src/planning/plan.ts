@@ -203,7 +203,8 @@ export async function plan(survey: Survey, opts: PlanOptions = {}): Promise<Plan
 
   const bestValue = best.goal!;
   const within = nearBest(spec.goal, designs, bestValue);
-  const order = within.map((i) => designs[i]!).sort((a, b) => a.tiers[a.tiers.length - 1]!.hours - b.tiers[b.tiers.length - 1]!.hours);
+  const areaOf = (d: Evaluated) => d.tiers.reduce((a, t) => a + t.areaDeg2, 0);
+  const order = within.map((i) => designs[i]!).sort((a, b) => areaOf(a) - areaOf(b));
   const from = order[0] ?? best;
   const to = order[order.length - 1] ?? best;
   const contiguous = within.length > 0 && within[within.length - 1]! - within[0]! + 1 === within.length;
