@@ -24,7 +24,8 @@ import { uncertaintyContext, populationBias, matterSigma } from '../uncertainty/
 import { naturalCubicSpline, type Interpolant } from '../numerics/interpolate.js';
 import { inputError } from '../errors.js';
 import { depthOfLimit, type DepthModel, type LimitKind } from './depth.js';
-import { interpolateSlice, tabulateDepth, type DepthTables } from './tables.js';
+import { interpolateSlice, knotCount, tabulateDepth, type DepthTables } from './tables.js';
+import { availableParallelism } from 'node:os';
 
 const LN10 = Math.LN10;
 const BIAS_STEP = 0.25;
@@ -42,8 +43,16 @@ export interface TierValue {
   fisher: number[][];
 }
 
+/**
+ * Point evaluations (knots x quadrature points) above which the depth tables use worker threads
+ * by default: starting a worker costs about 0.5-1 s (measured with the built program on 2 cores),
+ * so threads pay only beyond roughly 3e7 evaluations (~3 s in one thread).
+ */
+export const WORKER_WORK_THRESHOLD = 3e7;
+
 export interface DesignModelOptions {
   cosmicVariance?: boolean;
+  /** Worker threads for the depth tables; default 1, or up to 4 when the work exceeds WORKER_WORK_THRESHOLD. */
   workers?: number;
   onProgress?: (done: number, total: number) => void;
 }
@@ -109,7 +118,9 @@ export async function buildDesignModel(
   const ref = surveyAtLimit(survey, depth.limitAt(h1), 1);
   const cosmo = new FlatLambdaCDM(survey.cosmology);
   const grid = buildDensityGrid(ref, population, cosmo, ref.sliceEdges);
-  const tables = await tabulateDepth(grid, maxDelta, { ...(opts.workers ? { workers: opts.workers } : {}), ...(opts.onProgress ? { onProgress: opts.onProgress } : {}) });
+  const work = knotCount(maxDelta) * grid.pointT.length;
+  const workers = opts.workers ?? (work > WORKER_WORK_THRESHOLD ? Math.max(1, Math.min(4, availableParallelism())) : 1);
+  const tables = await tabulateDepth(grid, maxDelta, { workers, ...(opts.onProgress ? { onProgress: opts.onProgress } : {}) });
   const nS = sliceCount(grid);
   const edges = ref.sliceEdges;
   const useCv = opts.cosmicVariance !== false;

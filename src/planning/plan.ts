@@ -2,7 +2,6 @@
  * plan: a plan file (a survey file plus a `plan:` section) in, the designs that spend the time
  * budget and the best of them out (the JSON of specs/plan.schema.json).
  */
-import { availableParallelism } from 'node:os';
 import type { Population, Survey } from '../survey/types.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
 import { inputError } from '../errors.js';
@@ -14,13 +13,12 @@ import { pickPopulation } from './population.js';
 export const PLAN_CAVEAT =
   'A plan is only as good as the luminosity function assumed: the counts and uncertainties hold if the population follows the model given; a different faint-end slope or knee changes which design is best.';
 
-/** Designs per grid at or above which worker threads are used by default. */
-export const WORKER_THRESHOLD = 2000;
 
 export interface PlanOptions {
   population?: string;
   /** Cosmic variance in the sigma goal (default true). */
   cosmicVariance?: boolean;
+  /** Worker threads for the depth tables (default: chosen by the amount of work, see model.ts). */
   workers?: number;
   onProgress?: (stage: string, done: number, total: number) => void;
 }
@@ -114,11 +112,6 @@ function designJson(e: Evaluated, names: string[], goal: PlanSpec['goal']): Desi
   return d;
 }
 
-function defaultWorkers(spec: PlanSpec): number {
-  const size = spec.grid.count * (spec.tiers === 1 ? 1 : 10);
-  return size >= WORKER_THRESHOLD ? Math.max(1, Math.min(4, availableParallelism())) : 1;
-}
-
 export async function plan(survey: Survey, opts: PlanOptions = {}): Promise<PlanJson> {
   const population: Population = pickPopulation(survey, opts.population);
   const spec = readPlanSection(survey, population);
@@ -126,7 +119,7 @@ export async function plan(survey: Survey, opts: PlanOptions = {}): Promise<Plan
   const parameterIndex = spec.goal.kind === 'sigma' ? names.indexOf(spec.goal.parameter) : 0;
   const budget: Budget = { budgetHours: spec.budgetHours, overheadHours: spec.overheadHours, minimumCount: spec.minimumCount };
   const useCv = opts.cosmicVariance !== false;
-  const workers = opts.workers ?? defaultWorkers(spec);
+  const workers = opts.workers;
   const progress = (stage: string) => (opts.onProgress ? (d: number, t: number) => opts.onProgress!(stage, d, t) : undefined);
   const notes: string[] = [];
 
@@ -158,7 +151,7 @@ export async function plan(survey: Survey, opts: PlanOptions = {}): Promise<Plan
     spec,
     [hMin, hMax],
     [Math.min(minP, maxP), maxP],
-    { cosmicVariance: useCv, workers, ...(progress('depth tables') ? { onProgress: progress('depth tables')! } : {}) },
+    { cosmicVariance: useCv, ...(workers ? { workers } : {}), ...(progress('depth tables') ? { onProgress: progress('depth tables')! } : {}) },
   );
   assertCounts(model, survey.file);
 
@@ -193,6 +186,7 @@ export async function plan(survey: Survey, opts: PlanOptions = {}): Promise<Plan
       if (tb && (maximises(spec.goal) ? tb.goal! > singleBest.goal! : tb.goal! < singleBest.goal!)) {
         best = tb;
         gridBest = tb;
+        improved = false;
       } else {
         notes.push(`No split into ${spec.tiers} tiers beats the best single-tier design for this goal, so the best design is a single tier.`);
         designs = [...tiered.designs, singleBest];

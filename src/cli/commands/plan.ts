@@ -11,7 +11,7 @@ export const planCommand: CommandDef = {
     cmd.argument('<plan>', 'plan file: a survey file with a plan section (YAML)');
     cmd.option('--population <name>', 'the population the goal is about (default: the first)');
     cmd.option('--no-cosmic-variance', 'leave cosmic variance out of the sigma goal (Poisson only)');
-    cmd.option('--workers <K>', 'worker threads for the depth tables (default: 1, or up to 4 for grids of 2000 designs or more)');
+    cmd.option('--workers <K>', 'worker threads for the depth tables (default: 1, or up to 4 when the tables are large; results are identical)');
     addOutputOptions(cmd);
   },
   async action(cmd, args, io) {
