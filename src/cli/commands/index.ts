@@ -5,5 +5,7 @@ import { checkCommand } from './check.js';
 import { distancesCommand } from './distances.js';
 import { clusteringCommand } from './clustering.js';
 import { forecastCommand } from './forecast.js';
+import { compareCommand } from './compare.js';
+import { planCommand } from './plan.js';
 
-export const COMMANDS: CommandDef[] = [predictCommand, checkCommand, distancesCommand, clusteringCommand, forecastCommand];
+export const COMMANDS: CommandDef[] = [predictCommand, checkCommand, distancesCommand, clusteringCommand, forecastCommand, compareCommand, planCommand];

@@ -1,0 +1,53 @@
+import { availableParallelism } from 'node:os';
+import type { CommandDef } from './types.js';
+import { addOutputOptions, loadSurveyArg, outputOptions } from './common.js';
+import { emit, type CliIO } from '../io.js';
+import { inputError } from '../../errors.js';
+
+export const planCommand: CommandDef = {
+  name: 'plan',
+  description: 'spend a time budget: the split of exposure per pointing against area (and tiers) that best serves a goal',
+  configure(cmd) {
+    cmd.argument('<plan>', 'plan file: a survey file with a plan section (YAML)');
+    cmd.option('--population <name>', 'the population the goal is about (default: the first)');
+    cmd.option('--no-cosmic-variance', 'leave cosmic variance out of the sigma goal (Poisson only)');
+    cmd.option('--workers <K>', 'worker threads for the depth tables (default: 1, or up to 4 when the tables are large; results are identical)');
+    addOutputOptions(cmd);
+  },
+  async action(cmd, args, io) {
+    const file = args[0] as string;
+    const raw = cmd.opts();
+    const out = outputOptions(raw);
+    let workers: number | undefined;
+    if (raw.workers !== undefined) {
+      const v = Number(raw.workers);
+      const max = availableParallelism();
+      if (!Number.isInteger(v) || v < 1 || v > max) throw inputError('bad_option', '', '--workers', `"${raw.workers}" is not a whole number from 1 to ${max}`, 'give --workers a whole number in that range');
+      workers = v;
+    }
+    const survey = await loadSurveyArg(io, file);
+    const { plan } = await import('../../planning/plan.js');
+    const result = await plan(survey, {
+      ...(typeof raw.population === 'string' ? { population: raw.population } : {}),
+      cosmicVariance: raw.cosmicVariance !== false,
+      ...(workers ? { workers } : {}),
+      ...(io.stderrIsTTY ? { onProgress: progressBar(io) } : {}),
+    });
+    const { planTable, planCsv } = await import('../../planning/render.js');
+    emit(io, out, { json: () => result, table: () => planTable(result), csv: () => planCsv(result) }, [file]);
+    return 0;
+  },
+};
+
+/** A one-line bar on stderr (terminals only), one line per stage. */
+export function progressBar(io: CliIO): (stage: string, done: number, total: number) => void {
+  const width = 30;
+  let last = '';
+  return (stage, done, total) => {
+    const filled = Math.round((width * done) / total);
+    const line = `\r${stage.padEnd(14)} [${'#'.repeat(filled)}${'.'.repeat(width - filled)}] ${done}/${total}`;
+    if (line === last) return;
+    last = line;
+    io.stderr(line + (done >= total ? '\n' : ''));
+  };
+}

@@ -1,0 +1,155 @@
+/**
+ * compare: several survey files side by side. For each survey: its area, window, limit, expected
+ * count (predict), count per deg^2, count fainter than the characteristic luminosity (L* or M*),
+ * the Poisson and cosmic-variance fractions of the total (predict), the Fisher sigma of each
+ * parameter (forecast, with cosmic variance unless switched off) and the time where the file gives
+ * `exposure`. The best value of each row is marked by survey index in `best`.
+ */
+import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import type { Population, Survey } from '../survey/types.js';
+import { predict } from '../counts/predict.js';
+import { forecast } from '../forecast/forecast.js';
+import { buildDensityGrid, sliceCount } from '../forecast/grid.js';
+import { describeModel, type ModelDescription } from '../population/describe.js';
+import { pickPopulation } from './population.js';
+import { faintCount } from './tables.js';
+import { predictionCosmicVariance } from './cosmic-variance.js';
+
+export const COMPARE_CAVEAT =
+  'Counts and sigmas are only as good as the luminosity functions assumed: each column holds if its population follows the model in its file.';
+
+export type LimitVariable = 'apparent_magnitude' | 'line_flux_cgs' | 'log10_quantity' | 'absolute_magnitude';
+
+export interface CompareSurvey {
+  title: string;
+  file: string;
+  population: string;
+  model: ModelDescription;
+  area_deg2: number;
+  redshift: { min: number; max: number };
+  limit: number | string;
+  limit_variable: LimitVariable;
+  count: number;
+  per_deg2: number;
+  faint_count: number;
+  poisson_fraction: number;
+  cosmic_variance_fraction: number;
+  sigma: Record<string, number>;
+  exposure_hours?: number;
+  count_per_hour?: number;
+}
+
+/** Rows that have a best value, and which way is better. */
+export const COMPARE_ROWS: { row: string; better: 'higher' | 'lower' }[] = [
+  { row: 'area_deg2', better: 'higher' },
+  { row: 'limit', better: 'higher' }, // deeper: see depthOf
+  { row: 'count', better: 'higher' },
+  { row: 'per_deg2', better: 'higher' },
+  { row: 'faint_count', better: 'higher' },
+  { row: 'poisson_fraction', better: 'lower' },
+  { row: 'cosmic_variance_fraction', better: 'lower' },
+  { row: 'exposure_hours', better: 'lower' },
+  { row: 'count_per_hour', better: 'higher' },
+];
+
+export interface CompareJson {
+  format: 1;
+  cosmic_variance: boolean;
+  caveat: string;
+  surveys: CompareSurvey[];
+  /** Row name (sigma rows as "sigma.NAME") -> index of the survey with the best value. */
+  best: Record<string, number>;
+  notes: string[];
+}
+
+export interface CompareOptions {
+  population?: string;
+  cosmicVariance?: boolean;
+}
+
+function limitOf(survey: Survey, p: Population): { limit: number | string; variable: LimitVariable } {
+  const d = survey.detection;
+  if (d.kind === 'magnitude') return { limit: d.limitMag, variable: 'apparent_magnitude' };
+  if (d.kind === 'line_flux') return { limit: d.limitCgs, variable: 'line_flux_cgs' };
+  const src = d.limit.source;
+  return { limit: typeof src === 'number' ? src : d.limit.constant ? d.limit.at(0) : JSON.stringify(src), variable: p.variable === 'luminosity' ? 'log10_quantity' : 'absolute_magnitude' };
+}
+
+/** Count of `population` fainter than L* (or M*) in the survey as it stands. */
+export function faintCountOf(survey: Survey, population: Population): number {
+  const grid = buildDensityGrid(survey, population, new FlatLambdaCDM(survey.cosmology), survey.sliceEdges);
+  let n = 0;
+  for (let s = 0; s < sliceCount(grid); s++) n += faintCount(grid, s, 0).count;
+  return n;
+}
+
+/** Deeper is better: a larger magnitude, a smaller flux or quantity. */
+function depthOf(v: LimitVariable, x: number): number {
+  return v === 'apparent_magnitude' || v === 'absolute_magnitude' ? x : -x;
+}
+
+export async function compare(surveys: Survey[], opts: CompareOptions = {}): Promise<CompareJson> {
+  const useCv = opts.cosmicVariance !== false;
+  const out: CompareSurvey[] = [];
+  for (const survey of surveys) {
+    const population = pickPopulation(survey, opts.population);
+    const k = survey.populations.indexOf(population);
+    const pred = predict(survey);
+    const own = pred.populations[k]!;
+    const f = await forecast(survey, {
+      population: population.name,
+      cosmicVariance: useCv,
+      ...(useCv ? { cosmicVarianceSource: predictionCosmicVariance(population) } : {}),
+    });
+    const lim = limitOf(survey, population);
+    const u = own.totals.uncertainty;
+    const row: CompareSurvey = {
+      title: survey.title,
+      file: survey.file,
+      population: population.name,
+      model: describeModel(survey, population),
+      area_deg2: survey.areaDeg2,
+      redshift: { ...survey.redshift },
+      limit: lim.limit,
+      limit_variable: lim.variable,
+      count: own.totals.count,
+      per_deg2: own.totals.per_deg2,
+      faint_count: faintCountOf(survey, population),
+      poisson_fraction: u ? u.poisson_fraction : 0,
+      cosmic_variance_fraction: u ? u.cosmic_variance_fraction : 0,
+      sigma: { ...f.fisher.sigma },
+    };
+    if (survey.exposureHours !== undefined) {
+      row.exposure_hours = survey.exposureHours;
+      row.count_per_hour = row.count / survey.exposureHours;
+    }
+    out.push(row);
+  }
+  const best: Record<string, number> = {};
+  const notes: string[] = [];
+  const pick = (name: string, values: (number | undefined)[], higher: boolean) => {
+    let bi = -1;
+    values.forEach((v, i) => {
+      if (v === undefined || !Number.isFinite(v)) return;
+      if (bi < 0 || (higher ? v > values[bi]! : v < values[bi]!)) bi = i;
+    });
+    const present = values.filter((v) => v !== undefined).length;
+    if (bi >= 0 && present >= 2) best[name] = bi;
+  };
+  for (const { row, better } of COMPARE_ROWS) {
+    if (row === 'limit') {
+      const kinds = new Set(out.map((s) => s.limit_variable));
+      if (kinds.size === 1 && out.every((s) => typeof s.limit === 'number')) {
+        pick('limit', out.map((s) => depthOf(s.limit_variable, s.limit as number)), true);
+      } else if (out.length > 1) notes.push('The limits are of different kinds (or vary with redshift), so no limit is marked best.');
+      continue;
+    }
+    pick(row, out.map((s) => (s as unknown as Record<string, number | undefined>)[row]), better === 'higher');
+  }
+  const sigmaNames = [...new Set(out.flatMap((s) => Object.keys(s.sigma)))];
+  for (const n of sigmaNames) pick(`sigma.${n}`, out.map((s) => s.sigma[n]), false);
+  if (out.some((s) => s.exposure_hours === undefined) && out.some((s) => s.exposure_hours !== undefined)) {
+    notes.push('Some files give no exposure, so their cost is not shown.');
+  }
+  return { format: 1, cosmic_variance: useCv, caveat: COMPARE_CAVEAT, surveys: out, best, notes };
+}

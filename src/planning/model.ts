@@ -1,0 +1,230 @@
+/**
+ * One design's numbers from the depth tables (tables.ts) and the cosmic-variance tables:
+ * a tier of `pointings` pointings of `hours` each gives
+ *   area = pointings x field of view,  limit = depth law (hours),
+ *   count, count fainter than L* (or M*), and the Fisher matrix of the forecast
+ *   (src/forecast/fisher.ts: Poisson information with one normalisation nuisance per slice,
+ *   marginalised; the nuisance prior is the slice's cosmic-variance fraction).
+ *
+ * Cosmic-variance fraction of a slice = bias x sigma_matter / sqrt(field count), as in every
+ * prediction (src/uncertainty/prediction.ts): the bias depends on the depth (abundance matching
+ * of the slice's number density when the bias is "auto"), sigma_matter on the area only. Both are
+ * tabulated (bias on knots 0.25 apart in Delta; ln sigma_matter on knots at most 0.35 apart in
+ * ln area) and interpolated by natural cubic splines with one extra knot beyond each end of the
+ * range used. The pointings of a plan share the survey's `field` (aspect, count): the area grows
+ * as one contiguous field per field count.
+ */
+import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import type { Population, Survey } from '../survey/types.js';
+import { SR_PER_DEG2, FULL_SKY_DEG2 } from '../survey/units.js';
+import { buildDensityGrid, sliceCount, type DensityGrid } from '../forecast/grid.js';
+import { marginaliseNormalisations, summariseFisher, type SliceInformation } from '../forecast/fisher.js';
+import { countPopulation } from '../counts/engine.js';
+import { uncertaintyContext, populationBias, matterSigma } from '../uncertainty/prediction.js';
+import { naturalCubicSpline, type Interpolant } from '../numerics/interpolate.js';
+import { inputError } from '../errors.js';
+import { depthOfLimit, type DepthModel, type LimitKind } from './depth.js';
+import { interpolateSlice, knotCount, tabulateDepth, type DepthTables } from './tables.js';
+import { availableParallelism } from 'node:os';
+
+const LN10 = Math.LN10;
+const BIAS_STEP = 0.25;
+const AREA_STEP = 0.35;
+
+/** One tier: its numbers at a given exposure and number of pointings. */
+export interface TierValue {
+  hours: number;
+  pointings: number;
+  areaDeg2: number;
+  limit: number;
+  count: number;
+  faintCount: number;
+  /** Fisher matrix (3 x 3), with cosmic variance marginalised unless switched off. */
+  fisher: number[][];
+}
+
+/**
+ * Point evaluations (knots x quadrature points) above which the depth tables use worker threads
+ * by default: starting a worker costs about 0.5-1 s (measured with the built program on 2 cores),
+ * so threads pay only beyond roughly 3e7 evaluations (~3 s in one thread).
+ */
+export const WORKER_WORK_THRESHOLD = 3e7;
+
+export interface DesignModelOptions {
+  cosmicVariance?: boolean;
+  /** Worker threads for the depth tables; default 1, or up to 4 when the work exceeds WORKER_WORK_THRESHOLD. */
+  workers?: number;
+  onProgress?: (done: number, total: number) => void;
+}
+
+export interface DesignModel {
+  population: Population;
+  limitKind: LimitKind;
+  fieldOfViewDeg2: number;
+  /** Largest number of pointings (whole sky). */
+  maxPointings: number;
+  depth: DepthModel;
+  tables: DepthTables;
+  grid: DensityGrid;
+  /** Depth range covered, as exposure hours. */
+  hoursRange: [number, number];
+  tier(hours: number, pointings: number): TierValue;
+}
+
+/** The survey with its detection limit set to `limit` and its completeness curve moved with it. */
+export function surveyAtLimit(survey: Survey, limit: number, areaDeg2 = survey.areaDeg2): Survey {
+  const d = survey.detection;
+  const base = { ...survey, areaDeg2, areaSr: areaDeg2 * SR_PER_DEG2 };
+  if (d.kind === 'threshold') throw new Error('surveyAtLimit: a threshold survey has no exposure-time limit');
+  const kind = d.kind;
+  const old = kind === 'magnitude' ? d.limitMag : d.limitCgs;
+  const dx = depthOfLimit(kind, limit) - depthOfLimit(kind, old); // completeness variable moves deeper by dx
+  const det = kind === 'magnitude' ? { ...d, limitMag: limit } : { ...d, limitCgs: limit };
+  if (d.completeness) {
+    const c = d.completeness;
+    det.completeness = c.model === 'logistic' ? { ...c, half: c.half + dx } : { ...c, x: c.x.map((v) => v + dx) };
+  }
+  return { ...base, detection: det };
+}
+
+function splineWithMargin(x0: number, x1: number, step: number, f: (x: number) => number): Interpolant | ((x: number) => number) {
+  if (!(x1 - x0 > 1e-9)) {
+    const v = f(x0);
+    return () => v;
+  }
+  const n = Math.max(3, Math.ceil((x1 - x0) / step) + 1);
+  const h = (x1 - x0) / (n - 1);
+  const xs: number[] = [];
+  for (let i = -1; i <= n; i++) xs.push(x0 + i * h);
+  return naturalCubicSpline(xs, xs.map(f));
+}
+
+export async function buildDesignModel(
+  survey: Survey,
+  population: Population,
+  spec: { limitKind: LimitKind; depth: DepthModel; fieldOfViewDeg2: number },
+  hoursRange: [number, number],
+  pointingsRange: [number, number],
+  opts: DesignModelOptions = {},
+): Promise<DesignModel> {
+  const { depth, limitKind } = spec;
+  const [h0, h1] = hoursRange;
+  const dRef = depth.depthAt(h1);
+  const slope = limitKind === 'magnitude' ? 2.5 : 1;
+  const deltaOf = (hours: number): number => Math.max(0, (LN10 * (dRef - depth.depthAt(hours))) / slope);
+  const maxDelta = deltaOf(h0);
+
+  // Reference survey: the deepest limit, 1 deg^2 (everything below scales with the area).
+  const ref = surveyAtLimit(survey, depth.limitAt(h1), 1);
+  const cosmo = new FlatLambdaCDM(survey.cosmology);
+  const grid = buildDensityGrid(ref, population, cosmo, ref.sliceEdges);
+  const work = knotCount(maxDelta) * grid.pointT.length;
+  const workers = opts.workers ?? (work > WORKER_WORK_THRESHOLD ? Math.max(1, Math.min(4, availableParallelism())) : 1);
+  const tables = await tabulateDepth(grid, maxDelta, { workers, ...(opts.onProgress ? { onProgress: opts.onProgress } : {}) });
+  const nS = sliceCount(grid);
+  const edges = ref.sliceEdges;
+  const useCv = opts.cosmicVariance !== false;
+
+  // Cosmic-variance tables.
+  let biasOf: ((sl: number, delta: number) => number) | undefined;
+  let sigmaOf: ((sl: number, lnArea: number) => number) | undefined;
+  if (useCv) {
+    const ctx = uncertaintyContext(ref, cosmo);
+    const volumes = countPopulation(ref, population, cosmo, edges, { noHistogram: true }).map((s) => s.volumeMpc3);
+    const tmp = new Float64Array(7);
+    const zc = (sl: number) => 0.5 * (edges[sl]! + edges[sl + 1]!);
+    const countAt = (sl: number, delta: number) => {
+      interpolateSlice(tables, sl, delta, tmp);
+      return tmp[0]!;
+    };
+    const biasSplines = Array.from({ length: nS }, (_, sl) => {
+      if (population.bias !== 'auto') {
+        const b = populationBias(ctx, population, zc(sl), 1, 1).bias;
+        return () => b;
+      }
+      const vol = volumes[sl]!;
+      return splineWithMargin(0, maxDelta, BIAS_STEP, (delta) => {
+        const n = countAt(sl, Math.max(0, Math.min(maxDelta, delta)));
+        return n > 0 && vol > 0 ? populationBias(ctx, population, zc(sl), n, vol).bias : 0;
+      });
+    });
+    biasOf = (sl, delta) => biasSplines[sl]!(delta);
+    const lnA0 = Math.log(Math.max(1e-12, pointingsRange[0] * spec.fieldOfViewDeg2));
+    const lnA1 = Math.log(Math.min(FULL_SKY_DEG2, pointingsRange[1] * spec.fieldOfViewDeg2));
+    const sigmaSplines = Array.from({ length: nS }, (_, sl) =>
+      splineWithMargin(lnA0, Math.max(lnA0, lnA1), AREA_STEP, (lnA) => {
+        const a = Math.min(FULL_SKY_DEG2, Math.exp(lnA));
+        const c = { ...ctx, survey: { ...ref, areaDeg2: a, areaSr: a * SR_PER_DEG2 } };
+        return Math.log(matterSigma(c, edges[sl]!, edges[sl + 1]!, zc(sl)));
+      }),
+    );
+    sigmaOf = (sl, lnA) => Math.exp(sigmaSplines[sl]!(lnA));
+  }
+  const fieldNorm = 1 / Math.sqrt(survey.field.count);
+  const shiftLn = grid.shift; // unused directly; the sums already carry it
+  void shiftLn;
+
+  const tmp = new Float64Array(7);
+  const tier = (hours: number, pointings: number): TierValue => {
+    const areaDeg2 = Math.min(FULL_SKY_DEG2, pointings * spec.fieldOfViewDeg2);
+    const delta = deltaOf(hours);
+    const matrix = [
+      [0, 0, 0],
+      [0, 0, 0],
+      [0, 0, 0],
+    ];
+    const slices: SliceInformation[] = [];
+    const fractions: number[] = [];
+    let count = 0;
+    let faint = 0;
+    const lnA = Math.log(areaDeg2);
+    for (let sl = 0; sl < nS; sl++) {
+      interpolateSlice(tables, sl, delta, tmp);
+      const n = tmp[0]! * areaDeg2;
+      const bc = tmp[1]! * areaDeg2;
+      const ba = tmp[2]! * areaDeg2;
+      const m = matrix;
+      m[0]![0]! += LN10 * LN10 * n;
+      m[0]![1]! += LN10 * bc;
+      m[0]![2]! += LN10 * ba;
+      m[1]![1]! += tmp[3]! * areaDeg2;
+      m[1]![2]! += tmp[4]! * areaDeg2;
+      m[2]![2]! += tmp[5]! * areaDeg2;
+      count += n;
+      faint += tmp[6]! * areaDeg2;
+      slices.push({ count: n, b: [LN10 * n, bc, ba] });
+      if (biasOf && sigmaOf && n > 0) fractions.push(Math.max(0, biasOf(sl, delta)) * sigmaOf(sl, lnA) * fieldNorm);
+      else fractions.push(0);
+    }
+    matrix[1]![0] = matrix[0]![1]!;
+    matrix[2]![0] = matrix[0]![2]!;
+    matrix[2]![1] = matrix[1]![2]!;
+    const fisher = useCv ? marginaliseNormalisations(matrix, slices, fractions) : matrix;
+    return { hours, pointings, areaDeg2, limit: depth.limitAt(hours), count, faintCount: Math.max(0, Math.min(faint, count)), fisher };
+  };
+
+  return {
+    population,
+    limitKind,
+    fieldOfViewDeg2: spec.fieldOfViewDeg2,
+    maxPointings: Math.max(1, Math.floor(FULL_SKY_DEG2 / spec.fieldOfViewDeg2 + 1e-9)),
+    depth,
+    tables,
+    grid,
+    hoursRange: [h0, h1],
+    tier,
+  };
+}
+
+/** Standard deviations from a Fisher matrix (forecast's summariseFisher); undefined if singular. */
+export function sigmasOf(fisher: number[][]): number[] | undefined {
+  return summariseFisher(fisher)?.sigma;
+}
+
+/** Check that a design model can count something at all. */
+export function assertCounts(model: DesignModel, file: string): void {
+  const v = model.tier(model.hoursRange[1], 1);
+  if (!(v.count > 0)) {
+    throw inputError('not_finite', file, 'plan', `no source of "${model.population.name}" is expected even at the deepest exposure of the grid`, 'check the population, the window and plan.reference');
+  }
+}

@@ -1,0 +1,244 @@
+/**
+ * The `plan:` section of a plan file (a survey file plus this section), read into plain numbers.
+ * The survey loader keeps the section as an opaque object (survey.raw.plan); this module checks
+ * every key (the same rules as specs/plan-section.schema.json, written out by hand so that each
+ * problem becomes one sentence naming the file, the key path and the fix).
+ *
+ *   plan:
+ *     field_of_view: "0.05 deg^2"        area per pointing (deg^2, or with a unit)
+ *     reference: {limit: 26.5, exposure_hours: 1.0}
+ *     overhead_hours: 0.2                per pointing (default 0)
+ *     depth_law: background              background | source | {table: [[hours, limit], ...]}
+ *     budget_hours: 60
+ *     fixed: {area: ...} or {limit: ...} optional
+ *     goal: count                        count | faint_count | {sigma: PARAMETER}
+ *     minimum_count: 0                   optional
+ *     exposure_grid: {min_hours: 0.05, max_hours: 50, count: 200}
+ *     tiers: 1                           1 to 3
+ */
+import { inputError } from '../errors.js';
+import type { Population, Survey } from '../survey/types.js';
+import { parseQuantity, FULL_SKY_DEG2 } from '../survey/units.js';
+import { suggest } from '../survey/schema.js';
+import { depthOfLimit, makeDepthModel, type DepthLaw, type DepthModel, type LimitKind } from './depth.js';
+
+export type PlanGoal = { kind: 'count' } | { kind: 'faint_count' } | { kind: 'sigma'; parameter: string };
+
+export interface PlanSpec {
+  file: string;
+  limitKind: LimitKind;
+  fieldOfViewDeg2: number;
+  overheadHours: number;
+  budgetHours: number;
+  depth: DepthModel;
+  fixed?: { areaDeg2: number } | { limit: number };
+  goal: PlanGoal;
+  minimumCount: number;
+  grid: { minHours: number; maxHours: number; count: number };
+  tiers: 1 | 2 | 3;
+}
+
+const KEYS = ['field_of_view', 'reference', 'overhead_hours', 'depth_law', 'budget_hours', 'fixed', 'goal', 'minimum_count', 'exposure_grid', 'tiers'];
+export const DEFAULT_GRID = { min_hours: 0.05, max_hours: 50, count: 200 };
+export const MAX_GRID_COUNT = 100_000;
+
+type Obj = Record<string, unknown>;
+
+function isObj(v: unknown): v is Obj {
+  return typeof v === 'object' && v !== null && !Array.isArray(v);
+}
+
+function checkKeys(o: Obj, allowed: string[], file: string, at: string): void {
+  for (const k of Object.keys(o)) {
+    if (allowed.includes(k)) continue;
+    const near = suggest(k, allowed);
+    throw inputError('unknown_key', file, `${at}.${k}`, `unknown key "${k}"${near ? ` (did you mean ${near}?)` : ''}`, near ? 'rename or remove it' : `remove it; the keys allowed here are ${allowed.join(', ')}`);
+  }
+}
+
+function num(v: unknown, file: string, at: string, what: string, { min = -Infinity, exclusiveMin = false, integer = false, max = Infinity } = {}): number {
+  if (typeof v !== 'number' || !Number.isFinite(v)) {
+    throw inputError('wrong_type', file, at, `is ${v === undefined ? 'missing' : JSON.stringify(v)} but must be ${what}`, `give ${what}`);
+  }
+  if (integer && !Number.isInteger(v)) throw inputError('wrong_type', file, at, `is ${v} but must be a whole number`, `give ${what}`);
+  if (exclusiveMin ? v <= min : v < min) throw inputError('out_of_range', file, at, `is ${v} but must be ${exclusiveMin ? 'above' : 'at least'} ${min}`, `give ${what}`);
+  if (v > max) throw inputError('out_of_range', file, at, `is ${v} but must be at most ${max}`, `give ${what}`);
+  return v;
+}
+
+function hours(v: unknown, file: string, at: string, positive: boolean): number {
+  if (typeof v !== 'number' && typeof v !== 'string') {
+    throw inputError('wrong_type', file, at, `is ${v === undefined ? 'missing' : JSON.stringify(v)} but must be a time`, 'give hours as a number, or with a unit such as "90 min"');
+  }
+  const h = parseQuantity(v, 'time', file, at);
+  return num(h, file, at, positive ? 'a time above 0 hours' : 'a time of at least 0 hours', { min: 0, exclusiveMin: positive });
+}
+
+function limitValue(v: unknown, kind: LimitKind, file: string, at: string): number {
+  if (kind === 'magnitude') return num(v, file, at, 'an AB magnitude (a number)');
+  if (typeof v !== 'number' && typeof v !== 'string') {
+    throw inputError('wrong_type', file, at, `is ${v === undefined ? 'missing' : JSON.stringify(v)} but must be a line flux`, 'give erg/s/cm^2 as a number, or with a unit such as "5e-17 erg/s/cm^2"');
+  }
+  const f = parseQuantity(v, 'flux', file, at);
+  return num(f, file, at, 'a line flux above 0', { min: 0, exclusiveMin: true });
+}
+
+/** Names of the Fisher parameters of a population (as the forecast names them). */
+export function sigmaParameterNames(p: Population): string[] {
+  return ['log10_phi_star', p.variable === 'luminosity' ? 'log10_l_star' : 'm_star', 'alpha'];
+}
+
+/** Read and check survey.raw.plan; `population` is the population of interest. */
+export function readPlanSection(survey: Survey, population: Population): PlanSpec {
+  const file = survey.file;
+  const raw = isObj(survey.raw) ? survey.raw.plan : undefined;
+  if (!isObj(raw)) {
+    throw inputError('missing_key', file, 'plan', raw === undefined ? 'is missing, so there is nothing to plan' : 'must be a mapping of keys', 'add a plan section with field_of_view, reference, budget_hours and goal (see the plan-file format)');
+  }
+  checkKeys(raw, KEYS, file, 'plan');
+  const kind = survey.detection.kind;
+  if (kind === 'threshold') {
+    throw inputError('kind_mismatch', file, 'detection.kind', 'is threshold, but a plan turns exposure time into a detection limit', 'plan a magnitude or line_flux survey');
+  }
+  const limitKind: LimitKind = kind;
+
+  if (raw.field_of_view === undefined) throw inputError('missing_key', file, 'plan.field_of_view', 'is missing', 'give the area of one pointing, e.g. "0.05 deg^2"');
+  if (typeof raw.field_of_view !== 'number' && typeof raw.field_of_view !== 'string') {
+    throw inputError('wrong_type', file, 'plan.field_of_view', 'must be an area', 'give deg^2 as a number, or with a unit such as "180 arcmin^2"');
+  }
+  const fov = num(parseQuantity(raw.field_of_view, 'area', file, 'plan.field_of_view'), file, 'plan.field_of_view', 'an area above 0 and at most the full sky', { min: 0, exclusiveMin: true, max: FULL_SKY_DEG2 });
+
+  if (raw.budget_hours === undefined) throw inputError('missing_key', file, 'plan.budget_hours', 'is missing', 'give the total time to spend, in hours');
+  const budget = hours(raw.budget_hours, file, 'plan.budget_hours', true);
+  const overhead = raw.overhead_hours === undefined ? 0 : hours(raw.overhead_hours, file, 'plan.overhead_hours', false);
+
+  // Depth law and reference.
+  const lawRaw = raw.depth_law ?? 'background';
+  let law: DepthLaw;
+  if (lawRaw === 'background' || lawRaw === 'source') {
+    if (!isObj(raw.reference)) {
+      throw inputError(raw.reference === undefined ? 'missing_key' : 'wrong_type', file, 'plan.reference', raw.reference === undefined ? 'is missing' : 'must be a mapping', `give the depth reached at a reference exposure, e.g. reference: {limit: ${kind === 'magnitude' ? '26.5' : '5e-17'}, exposure_hours: 1}`);
+    }
+    checkKeys(raw.reference, ['limit', 'exposure_hours'], file, 'plan.reference');
+    const referenceLimit = limitValue(raw.reference.limit, limitKind, file, 'plan.reference.limit');
+    const referenceHours = hours(raw.reference.exposure_hours, file, 'plan.reference.exposure_hours', true);
+    law = { kind: lawRaw, referenceLimit, referenceHours };
+  } else if (isObj(lawRaw)) {
+    checkKeys(lawRaw, ['table'], file, 'plan.depth_law');
+    const t = lawRaw.table;
+    if (!Array.isArray(t) || t.length < 2) {
+      throw inputError('bad_table', file, 'plan.depth_law.table', 'must be a list of at least two [hours, limit] rows', 'write it as [[hours, limit], ...]');
+    }
+    if (raw.reference !== undefined) {
+      throw inputError('conflict', file, 'plan.reference', 'is given together with a depth_law table', 'keep one of them: the table already says how deep each exposure goes');
+    }
+    const hs: number[] = [];
+    const ls: number[] = [];
+    t.forEach((row, i) => {
+      const at = `plan.depth_law.table[${i}]`;
+      if (!Array.isArray(row) || row.length !== 2) throw inputError('bad_table', file, at, 'must be a row of exactly two values', 'write each row as [hours, limit]');
+      const h = hours(row[0], file, `${at}[0]`, true);
+      const l = limitValue(row[1], limitKind, file, `${at}[1]`);
+      if (i > 0 && !(h > hs[i - 1]!)) throw inputError('bad_table', file, `${at}[0]`, `is ${h} h, not longer than the row before (${hs[i - 1]} h)`, 'list the rows by increasing exposure');
+      if (i > 0 && !(depthOfLimit(limitKind, l) > depthOfLimit(limitKind, ls[i - 1]!))) {
+        throw inputError('bad_table', file, `${at}[1]`, `is not deeper than the row before (${ls[i - 1]})`, 'give limits that deepen as the exposure grows');
+      }
+      hs.push(h);
+      ls.push(l);
+    });
+    law = { kind: 'table', hours: hs, limits: ls };
+  } else {
+    throw inputError('out_of_range', file, 'plan.depth_law', `is ${JSON.stringify(lawRaw)} but must be background, source or {table: [[hours, limit], ...]}`, 'use one of those forms');
+  }
+  const depth = makeDepthModel(limitKind, law);
+
+  // Goal.
+  let goal: PlanGoal;
+  const g = raw.goal;
+  if (g === undefined) throw inputError('missing_key', file, 'plan.goal', 'is missing', 'give count, faint_count or {sigma: PARAMETER}');
+  if (g === 'count' || g === 'faint_count') goal = { kind: g };
+  else if (isObj(g)) {
+    checkKeys(g, ['sigma'], file, 'plan.goal');
+    const names = sigmaParameterNames(population);
+    if (typeof g.sigma !== 'string' || !names.includes(g.sigma)) {
+      const near = typeof g.sigma === 'string' ? suggest(g.sigma, names) : undefined;
+      throw inputError('out_of_range', file, 'plan.goal.sigma', `is ${JSON.stringify(g.sigma)} but must name a parameter of "${population.name}"${near ? ` (did you mean ${near}?)` : ''}`, `use one of ${names.join(', ')}`);
+    }
+    goal = { kind: 'sigma', parameter: g.sigma };
+  } else {
+    const near = typeof g === 'string' ? suggest(g, ['count', 'faint_count']) : undefined;
+    throw inputError('out_of_range', file, 'plan.goal', `is ${JSON.stringify(g)} but must be count, faint_count or {sigma: PARAMETER}${near ? ` (did you mean ${near}?)` : ''}`, 'use one of those forms');
+  }
+
+  const minimumCount = raw.minimum_count === undefined ? 0 : num(raw.minimum_count, file, 'plan.minimum_count', 'a count of at least 0', { min: 0 });
+  const tiers = raw.tiers === undefined ? 1 : (num(raw.tiers, file, 'plan.tiers', 'a whole number from 1 to 3', { min: 1, max: 3, integer: true }) as 1 | 2 | 3);
+
+  // Exposure grid.
+  const gridRaw = raw.exposure_grid ?? {};
+  if (!isObj(gridRaw)) throw inputError('wrong_type', file, 'plan.exposure_grid', 'must be a mapping', 'write it as {min_hours: 0.05, max_hours: 50, count: 200}');
+  checkKeys(gridRaw, ['min_hours', 'max_hours', 'count'], file, 'plan.exposure_grid');
+  const minHours = gridRaw.min_hours === undefined ? DEFAULT_GRID.min_hours : hours(gridRaw.min_hours, file, 'plan.exposure_grid.min_hours', true);
+  const maxHours =
+    gridRaw.max_hours === undefined ? Math.max(minHours * 2, Math.min(DEFAULT_GRID.max_hours, budget - overhead)) : hours(gridRaw.max_hours, file, 'plan.exposure_grid.max_hours', true);
+  if (!(maxHours > minHours)) {
+    throw inputError('out_of_range', file, 'plan.exposure_grid.max_hours', `is ${maxHours} h, not above min_hours (${minHours} h)`, 'give max_hours above min_hours');
+  }
+  const count = gridRaw.count === undefined ? DEFAULT_GRID.count : num(gridRaw.count, file, 'plan.exposure_grid.count', `a whole number from 2 to ${MAX_GRID_COUNT}`, { min: 2, max: MAX_GRID_COUNT, integer: true });
+  if (minHours + overhead > budget) {
+    throw inputError('out_of_range', file, 'plan.exposure_grid.min_hours', `plus the overhead (${minHours + overhead} h) exceeds budget_hours (${budget} h), so not one pointing fits`, 'lower min_hours or overhead_hours, or raise budget_hours');
+  }
+  if (law.kind === 'table') {
+    const lo = law.hours[0]!;
+    const hi = law.hours[law.hours.length - 1]!;
+    if (minHours < lo * (1 - 1e-12)) throw inputError('out_of_range', file, 'plan.exposure_grid.min_hours', `is ${minHours} h, shorter than the depth_law table's first row (${lo} h)`, 'raise min_hours or extend the table');
+    if (maxHours > hi * (1 + 1e-12)) throw inputError('out_of_range', file, 'plan.exposure_grid.max_hours', `is ${maxHours} h, longer than the depth_law table's last row (${hi} h)`, 'lower max_hours or extend the table');
+  }
+
+  // Fixed area or limit.
+  let fixed: PlanSpec['fixed'];
+  if (raw.fixed !== undefined) {
+    if (!isObj(raw.fixed)) throw inputError('wrong_type', file, 'plan.fixed', 'must be a mapping', 'write it as {area: ...} or {limit: ...}');
+    checkKeys(raw.fixed, ['area', 'limit'], file, 'plan.fixed');
+    const hasArea = raw.fixed.area !== undefined;
+    const hasLimit = raw.fixed.limit !== undefined;
+    if (hasArea === hasLimit) {
+      throw inputError(hasArea ? 'conflict' : 'missing_key', file, hasArea ? 'plan.fixed.limit' : 'plan.fixed', hasArea ? 'is given together with plan.fixed.area' : 'holds neither area nor limit', 'fix one of area or limit, not both');
+    }
+    if (tiers > 1) throw inputError('conflict', file, 'plan.fixed', `cannot be combined with tiers: ${tiers}`, 'remove fixed or set tiers: 1');
+    if (hasArea) {
+      const a = raw.fixed.area;
+      if (typeof a !== 'number' && typeof a !== 'string') throw inputError('wrong_type', file, 'plan.fixed.area', 'must be an area', 'give deg^2 as a number, or with a unit');
+      const areaDeg2 = num(parseQuantity(a, 'area', file, 'plan.fixed.area'), file, 'plan.fixed.area', 'an area above 0 and at most the full sky', { min: 0, exclusiveMin: true, max: FULL_SKY_DEG2 });
+      const pointings = Math.ceil(areaDeg2 / fov - 1e-9);
+      if (budget / pointings - overhead <= 0) {
+        throw inputError('out_of_range', file, 'plan.fixed.area', `needs ${pointings} pointings, whose overheads alone (${(pointings * overhead).toPrecision(4)} h) use up budget_hours (${budget} h)`, 'lower the area or raise budget_hours');
+      }
+      fixed = { areaDeg2 };
+    } else {
+      const limit = limitValue(raw.fixed.limit, limitKind, file, 'plan.fixed.limit');
+      const h = depth.hoursFor(limit);
+      if (law.kind === 'table' && (depthOfLimit(limitKind, limit) < depthOfLimit(limitKind, law.limits[0]!) || depthOfLimit(limitKind, limit) > depthOfLimit(limitKind, law.limits[law.limits.length - 1]!))) {
+        throw inputError('out_of_range', file, 'plan.fixed.limit', `is ${limit}, outside the depth_law table`, 'give a limit between the table\'s first and last rows');
+      }
+      if (!(h > 0) || !Number.isFinite(h) || h + overhead > budget) {
+        throw inputError('out_of_range', file, 'plan.fixed.limit', `needs ${h.toPrecision(4)} h per pointing, more than budget_hours (${budget} h) allows for one pointing`, 'choose a brighter limit or raise budget_hours');
+      }
+      fixed = { limit };
+    }
+  }
+
+  const spec: PlanSpec = {
+    file,
+    limitKind,
+    fieldOfViewDeg2: fov,
+    overheadHours: overhead,
+    budgetHours: budget,
+    depth,
+    goal,
+    minimumCount,
+    grid: { minHours, maxHours, count },
+    tiers,
+  };
+  if (fixed) spec.fixed = fixed;
+  return spec;
+}

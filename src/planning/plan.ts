@@ -1,0 +1,257 @@
+/**
+ * plan: a plan file (a survey file plus a `plan:` section) in, the designs that spend the time
+ * budget and the best of them out (the JSON of specs/plan.schema.json).
+ */
+import type { Population, Survey } from '../survey/types.js';
+import { describeModel, type ModelDescription } from '../population/describe.js';
+import { inputError } from '../errors.js';
+import { readPlanSection, sigmaParameterNames, type PlanSpec } from './plan-section.js';
+import { assertCounts, buildDesignModel, sigmasOf, type DesignModel } from './model.js';
+import { combine, logGrid, maximises, nearBest, pointingsFor, searchSingleTier, searchTiers, NEAR_BEST_TOLERANCE, type Budget, type Evaluated } from './search.js';
+import { pickPopulation } from './population.js';
+
+export const PLAN_CAVEAT =
+  'A plan is only as good as the luminosity function assumed: the counts and uncertainties hold if the population follows the model given; a different faint-end slope or knee changes which design is best.';
+
+
+export interface PlanOptions {
+  population?: string;
+  /** Cosmic variance in the sigma goal (default true). */
+  cosmicVariance?: boolean;
+  /** Worker threads for the depth tables (default: chosen by the amount of work, see model.ts). */
+  workers?: number;
+  onProgress?: (stage: string, done: number, total: number) => void;
+}
+
+export interface TierJson {
+  budget_fraction: number;
+  exposure_hours_per_pointing: number;
+  pointings: number;
+  area_deg2: number;
+  limit: number;
+  count: number;
+}
+
+export interface DesignJson {
+  exposure_hours_per_pointing: number;
+  pointings: number;
+  area_deg2: number;
+  limit: number;
+  count: number;
+  faint_count: number;
+  goal_value: number;
+  hours_used: number;
+  meets_minimum_count: boolean;
+  sigma?: Record<string, number>;
+  tiers?: TierJson[];
+}
+
+export interface PlanJson {
+  format: 1;
+  title: string;
+  population: string;
+  model: ModelDescription;
+  caveat: string;
+  goal: 'count' | 'faint_count' | { sigma: string };
+  goal_direction: 'maximise' | 'minimise';
+  budget_hours: number;
+  overhead_hours: number;
+  field_of_view_deg2: number;
+  limit_variable: 'apparent_magnitude' | 'line_flux_cgs';
+  depth_law: { kind: 'background' | 'source'; reference_limit: number; reference_exposure_hours: number } | { kind: 'table'; table: [number, number][] };
+  cosmic_variance: boolean;
+  minimum_count: number;
+  exposure_grid: { min_hours: number; max_hours: number; count: number };
+  tiers: number;
+  fixed?: { area_deg2: number } | { limit: number };
+  budget_fractions?: number[][];
+  designs: DesignJson[];
+  best: DesignJson;
+  /** Grid designs next to the best (two on each side, single-tier plans). */
+  neighbours: DesignJson[];
+  near_best: { tolerance: number; from: DesignJson; to: DesignJson; designs_within: number; contiguous: boolean };
+  refinement: { method: string; grid_best: DesignJson; improved: boolean };
+  notes: string[];
+}
+
+function finite(x: number, what: string): number {
+  if (!Number.isFinite(x)) throw new Error(`internal: ${what} is not finite`);
+  return x;
+}
+
+function designJson(e: Evaluated, names: string[], goal: PlanSpec['goal']): DesignJson {
+  const deepest = e.tiers.reduce((a, t) => (t.hours > a.hours ? t : a), e.tiers[0]!);
+  const d: DesignJson = {
+    exposure_hours_per_pointing: deepest.hours,
+    pointings: e.tiers.reduce((a, t) => a + t.pointings, 0),
+    area_deg2: e.tiers.reduce((a, t) => a + t.areaDeg2, 0),
+    limit: deepest.limit,
+    count: e.count,
+    faint_count: e.faintCount,
+    goal_value: finite(e.goal ?? NaN, 'a goal value'),
+    hours_used: e.hoursUsed,
+    meets_minimum_count: e.feasible,
+  };
+  if (goal.kind === 'sigma') {
+    const s = sigmasOf(e.fisher);
+    if (s) {
+      d.sigma = {};
+      names.forEach((n, i) => (d.sigma![n] = s[i]!));
+    }
+  }
+  if (e.tiers.length > 1) {
+    d.tiers = e.tiers.map((t, i) => ({
+      budget_fraction: e.fractions[i]!,
+      exposure_hours_per_pointing: t.hours,
+      pointings: t.pointings,
+      area_deg2: t.areaDeg2,
+      limit: t.limit,
+      count: t.count,
+    }));
+  }
+  return d;
+}
+
+export async function plan(survey: Survey, opts: PlanOptions = {}): Promise<PlanJson> {
+  const population: Population = pickPopulation(survey, opts.population);
+  const spec = readPlanSection(survey, population);
+  const names = sigmaParameterNames(population);
+  const parameterIndex = spec.goal.kind === 'sigma' ? names.indexOf(spec.goal.parameter) : 0;
+  const budget: Budget = { budgetHours: spec.budgetHours, overheadHours: spec.overheadHours, minimumCount: spec.minimumCount };
+  const useCv = opts.cosmicVariance !== false;
+  const workers = opts.workers;
+  const progress = (stage: string) => (opts.onProgress ? (d: number, t: number) => opts.onProgress!(stage, d, t) : undefined);
+  const notes: string[] = [];
+
+  // The exposures the plan can use, and the pointings they give.
+  let exposures: number[];
+  let fixedDesign: { hours: number; pointings: number } | undefined;
+  if (spec.fixed) {
+    if ('areaDeg2' in spec.fixed) {
+      const p = Math.ceil(spec.fixed.areaDeg2 / spec.fieldOfViewDeg2 - 1e-9);
+      fixedDesign = { hours: spec.budgetHours / p - spec.overheadHours, pointings: p };
+      notes.push(`The area is fixed: ${p} whole pointings cover at least ${spec.fixed.areaDeg2} deg^2, each exposed for the rest of the budget.`);
+    } else {
+      const h = spec.depth.hoursFor(spec.fixed.limit);
+      fixedDesign = { hours: h, pointings: 0 };
+      notes.push(`The limit is fixed: ${h.toPrecision(4)} h per pointing reaches it; the budget buys as many whole pointings as fit.`);
+    }
+    exposures = [fixedDesign.hours];
+  } else {
+    exposures = logGrid(spec.grid.minHours, spec.grid.maxHours, spec.grid.count);
+  }
+  const hMin = exposures[0]!;
+  const hMax = exposures[exposures.length - 1]!;
+  const maxP = Math.max(1, Math.floor(spec.budgetHours / (hMin + spec.overheadHours) + 1e-9));
+  const minP = Math.max(1, Math.floor((spec.budgetHours / spec.tiers) * 0.1 / (hMax + spec.overheadHours)));
+
+  const model: DesignModel = await buildDesignModel(
+    survey,
+    population,
+    spec,
+    [hMin, hMax],
+    [Math.min(minP, maxP), maxP],
+    { cosmicVariance: useCv, ...(workers ? { workers } : {}), ...(progress('depth tables') ? { onProgress: progress('depth tables')! } : {}) },
+  );
+  assertCounts(model, survey.file);
+
+  let designs: Evaluated[];
+  let best: Evaluated;
+  let gridBest: Evaluated;
+  let neighbours: Evaluated[] = [];
+  let improved = false;
+  let method: string;
+  if (fixedDesign) {
+    const p = fixedDesign.pointings > 0 ? Math.min(model.maxPointings, fixedDesign.pointings) : pointingsFor(model, spec.budgetHours, fixedDesign.hours, spec.overheadHours);
+    const e = combine(spec.goal, parameterIndex, budget, [model.tier(fixedDesign.hours, p)], [1]);
+    designs = [e];
+    best = gridBest = e;
+    method = 'none: the fixed area or limit leaves one design';
+  } else {
+    const single = searchSingleTier(model, spec.goal, parameterIndex, budget, exposures, progress('designs'));
+    if (single.gridBestIndex < 0) throw noFeasible(survey, spec, single.designs);
+    gridBest = single.designs[single.gridBestIndex]!;
+    best = single.best;
+    improved = single.refined;
+    designs = single.designs;
+    neighbours = single.designs.slice(Math.max(0, single.gridBestIndex - 2), single.gridBestIndex + 3);
+    method = 'log-spaced grid of exposure per pointing, then golden-section search on the number of pointings (each exposed for the whole remaining budget) between the grid neighbours of the best, whole pointings enforced';
+    if (spec.tiers > 1) {
+      const tiered = searchTiers(model, spec.goal, parameterIndex, budget, exposures, spec.tiers, progress('tiers'));
+      method += `; ${spec.tiers} tiers: every split of the budget in tenths, coordinate descent over each tier's grid exposure`;
+      designs = tiered.designs;
+      neighbours = [];
+      const singleBest = best;
+      const tb = tiered.designs.reduce<Evaluated | undefined>((a, d) => (d.feasible && (!a || (maximises(spec.goal) ? d.goal! > a.goal! : d.goal! < a.goal!)) ? d : a), undefined);
+      if (tb && (maximises(spec.goal) ? tb.goal! > singleBest.goal! : tb.goal! < singleBest.goal!)) {
+        best = tb;
+        gridBest = tb;
+        improved = false;
+      } else {
+        notes.push(`No split into ${spec.tiers} tiers beats the best single-tier design for this goal, so the best design is a single tier.`);
+        designs = [...tiered.designs, singleBest];
+      }
+    }
+  }
+  if (!best.feasible) throw noFeasible(survey, spec, designs);
+
+  const bestValue = best.goal!;
+  const within = nearBest(spec.goal, designs, bestValue);
+  const areaOf = (d: Evaluated) => d.tiers.reduce((a, t) => a + t.areaDeg2, 0);
+  const order = within.map((i) => designs[i]!).sort((a, b) => areaOf(a) - areaOf(b));
+  const from = order[0] ?? best;
+  const to = order[order.length - 1] ?? best;
+  const contiguous = within.length > 0 && within[within.length - 1]! - within[0]! + 1 === within.length;
+  if (designs.length > 1 && within.length > 0) {
+    notes.push(
+      `${within.length} of ${designs.length} designs are within ${NEAR_BEST_TOLERANCE * 100} % of the best goal value${contiguous ? '' : ' (not one contiguous run of the grid)'}: the optimum is ${within.length / designs.length > 0.25 ? 'flat' : 'sharp'}.`,
+    );
+  }
+  if (spec.minimumCount > 0) {
+    const excluded = designs.filter((d) => d.goal !== undefined && !d.feasible).length;
+    if (excluded > 0) notes.push(`${excluded} designs expect fewer than minimum_count (${spec.minimumCount}) sources and cannot be the best.`);
+  }
+  if (designs.some((d) => d.tiers.some((t) => t.areaDeg2 >= model.maxPointings * spec.fieldOfViewDeg2 - 1e-9))) {
+    notes.push('Some designs reach the whole sky; their pointings are capped there.');
+  }
+
+  const law = spec.depth.law;
+  const out: PlanJson = {
+    format: 1,
+    title: survey.title,
+    population: population.name,
+    model: describeModel(survey, population),
+    caveat: PLAN_CAVEAT,
+    goal: spec.goal.kind === 'sigma' ? { sigma: spec.goal.parameter } : spec.goal.kind,
+    goal_direction: maximises(spec.goal) ? 'maximise' : 'minimise',
+    budget_hours: spec.budgetHours,
+    overhead_hours: spec.overheadHours,
+    field_of_view_deg2: spec.fieldOfViewDeg2,
+    limit_variable: spec.limitKind === 'magnitude' ? 'apparent_magnitude' : 'line_flux_cgs',
+    depth_law:
+      law.kind === 'table'
+        ? { kind: 'table', table: law.hours.map((h, i) => [h, law.limits[i]!] as [number, number]) }
+        : { kind: law.kind, reference_limit: law.referenceLimit, reference_exposure_hours: law.referenceHours },
+    cosmic_variance: useCv,
+    minimum_count: spec.minimumCount,
+    exposure_grid: { min_hours: spec.grid.minHours, max_hours: spec.grid.maxHours, count: spec.grid.count },
+    tiers: spec.tiers,
+    designs: designs.filter((d) => d.goal !== undefined).map((d) => designJson(d, names, spec.goal)),
+    best: designJson(best, names, spec.goal),
+    neighbours: neighbours.filter((d) => d.goal !== undefined).map((d) => designJson(d, names, spec.goal)),
+    near_best: { tolerance: NEAR_BEST_TOLERANCE, from: designJson(from, names, spec.goal), to: designJson(to, names, spec.goal), designs_within: within.length, contiguous },
+    refinement: { method, grid_best: designJson(gridBest, names, spec.goal), improved },
+    notes,
+  };
+  if (spec.fixed) out.fixed = 'areaDeg2' in spec.fixed ? { area_deg2: spec.fixed.areaDeg2 } : { limit: spec.fixed.limit };
+  if (spec.tiers > 1) out.budget_fractions = designs.filter((d) => d.tiers.length > 1).map((d) => d.fractions);
+  return out;
+}
+
+function noFeasible(survey: Survey, spec: PlanSpec, designs: Evaluated[]): Error {
+  const most = designs.reduce((a, d) => Math.max(a, d.count), 0);
+  if (spec.minimumCount > 0 && most < spec.minimumCount) {
+    return inputError('out_of_range', survey.file, 'plan.minimum_count', `is ${spec.minimumCount} but no design expects that many sources (the most is ${most.toPrecision(4)})`, 'lower minimum_count or raise budget_hours');
+  }
+  return inputError('not_finite', survey.file, 'plan.goal', 'cannot be computed for any design (too few sources for a Fisher matrix)', 'raise budget_hours or choose the count goal');
+}

@@ -1,0 +1,285 @@
+/**
+ * The search over designs: a log-spaced grid of exposure per pointing, golden-section refinement
+ * of the best grid design on the continuous number of pointings (each pointing then exposed for
+ * the whole remaining budget), whole pointings enforced by evaluating the whole numbers on either
+ * side; tiers by a small search over budget fractions (multiples of 0.1) with coordinate descent
+ * over the grid exposures of each tier.
+ */
+import type { DesignModel, TierValue } from './model.js';
+import type { PlanGoal } from './plan-section.js';
+import { summariseFisher } from '../forecast/fisher.js';
+
+export interface Budget {
+  budgetHours: number;
+  overheadHours: number;
+  minimumCount: number;
+}
+
+export interface Evaluated {
+  tiers: TierValue[];
+  /** Budget fraction of each tier (1 for a single tier). */
+  fractions: number[];
+  count: number;
+  faintCount: number;
+  fisher: number[][];
+  /** Goal value; undefined when it cannot be computed (singular Fisher matrix, no source). */
+  goal: number | undefined;
+  feasible: boolean;
+  hoursUsed: number;
+}
+
+export const NEAR_BEST_TOLERANCE = 0.05;
+const GOLDEN = (Math.sqrt(5) - 1) / 2;
+
+export function maximises(goal: PlanGoal): boolean {
+  return goal.kind !== 'sigma';
+}
+
+/** True when a is a better goal value than b. */
+export function better(goal: PlanGoal, a: number, b: number): boolean {
+  return maximises(goal) ? a > b : a < b;
+}
+
+/** sigma of parameter j from a 3 x 3 Fisher matrix by cofactors (fast path for the tier search). */
+export function sigma3(f: number[][], j: number): number | undefined {
+  const [a, b, c] = f as [number[], number[], number[]];
+  const det =
+    a[0]! * (b[1]! * c[2]! - b[2]! * c[1]!) - a[1]! * (b[0]! * c[2]! - b[2]! * c[0]!) + a[2]! * (b[0]! * c[1]! - b[1]! * c[0]!);
+  const i1 = j === 0 ? 1 : 0;
+  const i2 = j === 2 ? 1 : 2;
+  const cof = f[i1]![i1]! * f[i2]![i2]! - f[i1]![i2]! * f[i2]![i1]!;
+  const v = cof / det;
+  return v > 0 && Number.isFinite(v) ? Math.sqrt(v) : undefined;
+}
+
+export function goalOf(goal: PlanGoal, parameterIndex: number, count: number, faint: number, fisher: number[][], exact: boolean): number | undefined {
+  if (goal.kind === 'count') return count;
+  if (goal.kind === 'faint_count') return faint;
+  if (!(count > 0)) return undefined;
+  if (exact) return summariseFisher(fisher)?.sigma[parameterIndex];
+  return sigma3(fisher, parameterIndex);
+}
+
+export function combine(goal: PlanGoal, parameterIndex: number, budget: Budget, tiers: TierValue[], fractions: number[], exact = true): Evaluated {
+  let count = 0;
+  let faint = 0;
+  let hours = 0;
+  const fisher = [
+    [0, 0, 0],
+    [0, 0, 0],
+    [0, 0, 0],
+  ];
+  for (const t of tiers) {
+    count += t.count;
+    faint += t.faintCount;
+    hours += t.pointings * (t.hours + budget.overheadHours);
+    for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) fisher[j]![k]! += t.fisher[j]![k]!;
+  }
+  const g = goalOf(goal, parameterIndex, count, faint, fisher, exact);
+  const ok = g !== undefined && Number.isFinite(g);
+  return { tiers, fractions, count, faintCount: faint, fisher, goal: ok ? g : undefined, feasible: ok && count >= budget.minimumCount, hoursUsed: hours };
+}
+
+export function logGrid(minHours: number, maxHours: number, count: number): number[] {
+  const out: number[] = [];
+  const l0 = Math.log(minHours);
+  const l1 = Math.log(maxHours);
+  for (let i = 0; i < count; i++) out.push(i === count - 1 ? maxHours : i === 0 ? minHours : Math.exp(l0 + ((l1 - l0) * i) / (count - 1)));
+  return out;
+}
+
+/** Whole pointings that fit `hours` of a budget share, capped at the whole sky. */
+export function pointingsFor(model: DesignModel, shareHours: number, hours: number, overheadHours: number): number {
+  return Math.min(model.maxPointings, Math.floor(shareHours / (hours + overheadHours) + 1e-9));
+}
+
+export interface SingleTierResult {
+  exposures: number[];
+  /** One entry per grid exposure with at least one pointing. */
+  designs: Evaluated[];
+  gridBestIndex: number;
+  best: Evaluated;
+  refined: boolean;
+}
+
+/** Pointings-maximising exposure of `p` pointings using the whole budget. */
+function fullBudgetHours(budget: Budget, p: number): number {
+  return budget.budgetHours / p - budget.overheadHours;
+}
+
+export function searchSingleTier(
+  model: DesignModel,
+  goal: PlanGoal,
+  parameterIndex: number,
+  budget: Budget,
+  exposures: number[],
+  onProgress?: (done: number, total: number) => void,
+): SingleTierResult {
+  const designs: Evaluated[] = [];
+  const chunk = Math.max(1, Math.floor(exposures.length / 50));
+  exposures.forEach((h, i) => {
+    const p = pointingsFor(model, budget.budgetHours, h, budget.overheadHours);
+    if (p >= 1) designs.push(combine(goal, parameterIndex, budget, [model.tier(h, p)], [1]));
+    if (onProgress && (i % chunk === 0 || i === exposures.length - 1)) onProgress(i + 1, exposures.length);
+  });
+  let bi = -1;
+  designs.forEach((d, i) => {
+    if (d.feasible && (bi < 0 || better(goal, d.goal!, designs[bi]!.goal!))) bi = i;
+  });
+  if (bi < 0) return { exposures, designs, gridBestIndex: -1, best: designs[0]!, refined: false };
+  let best = designs[bi]!;
+
+  // Refinement on the continuous number of pointings between the grid neighbours.
+  const [hMin, hMax] = [exposures[0]!, exposures[exposures.length - 1]!];
+  const pOf = (d: Evaluated) => d.tiers[0]!.pointings;
+  const pHi = pOf(designs[Math.max(0, bi - 1)]!);
+  const pLo = pOf(designs[Math.min(designs.length - 1, bi + 1)]!);
+  const evalP = (p: number): Evaluated | undefined => {
+    const h = fullBudgetHours(budget, p);
+    if (!(h >= hMin * (1 - 1e-12)) || !(h <= hMax * (1 + 1e-12))) return undefined;
+    return combine(goal, parameterIndex, budget, [model.tier(Math.min(hMax, Math.max(hMin, h)), p)], [1]);
+  };
+  const score = (p: number): number => {
+    const e = evalP(p);
+    if (!e || !e.feasible) return maximises(goal) ? -Infinity : Infinity;
+    return e.goal!;
+  };
+  let pStar = pOf(best);
+  if (pHi > pLo) {
+    // Golden-section search in ln P (continuous pointings), a unimodal bracket assumed.
+    let a = Math.log(Math.max(1, pLo));
+    let b = Math.log(pHi);
+    let c = b - GOLDEN * (b - a);
+    let d = a + GOLDEN * (b - a);
+    let fc = score(Math.exp(c));
+    let fd = score(Math.exp(d));
+    for (let it = 0; it < 60 && b - a > 1e-9; it++) {
+      if (better(goal, fc, fd) || fc === fd) {
+        b = d;
+        d = c;
+        fd = fc;
+        c = b - GOLDEN * (b - a);
+        fc = score(Math.exp(c));
+      } else {
+        a = c;
+        c = d;
+        fc = fd;
+        d = a + GOLDEN * (b - a);
+        fd = score(Math.exp(d));
+      }
+    }
+    pStar = Math.exp(0.5 * (a + b));
+  }
+  // Whole pointings: the whole numbers around the continuous optimum and the grid best's own.
+  const candidates = new Set<number>();
+  for (const base of [Math.floor(pStar), pOf(best)]) for (let k = -1; k <= 2; k++) if (base + k >= 1 && base + k <= model.maxPointings) candidates.add(base + k);
+  let refined = false;
+  for (const p of [...candidates].sort((x, y) => x - y)) {
+    const e = evalP(p);
+    if (e && e.feasible && better(goal, e.goal!, best.goal!)) {
+      best = e;
+      refined = true;
+    }
+  }
+  return { exposures, designs, gridBestIndex: bi, best, refined };
+}
+
+/** Compositions of 10 tenths into k positive parts. */
+export function budgetSplits(k: number): number[][] {
+  const out: number[][] = [];
+  const rec = (left: number, parts: number[]) => {
+    if (parts.length === k - 1) {
+      if (left >= 1) out.push([...parts, left]);
+      return;
+    }
+    for (let j = 1; j <= left - (k - 1 - parts.length); j++) rec(left - j, [...parts, j]);
+  };
+  rec(10, []);
+  return out.map((p) => p.map((j) => j / 10));
+}
+
+export interface TieredResult {
+  splits: number[][];
+  /** The best design found for each split (absent where no design is feasible). */
+  designs: Evaluated[];
+}
+
+/**
+ * For each budget split (tiers ordered from the shortest exposure to the longest), coordinate
+ * descent over the grid exposure of each tier, starting from exposures spread evenly over the grid.
+ */
+export function searchTiers(
+  model: DesignModel,
+  goal: PlanGoal,
+  parameterIndex: number,
+  budget: Budget,
+  exposures: number[],
+  k: number,
+  onProgress?: (done: number, total: number) => void,
+): TieredResult {
+  const n = exposures.length;
+  const cache = new Map<number, (TierValue | undefined)[]>();
+  const tierAt = (tenths: number): (TierValue | undefined)[] => {
+    let row = cache.get(tenths);
+    if (!row) {
+      row = exposures.map((h) => {
+        const p = pointingsFor(model, (tenths / 10) * budget.budgetHours, h, budget.overheadHours);
+        return p >= 1 ? model.tier(h, p) : undefined;
+      });
+      cache.set(tenths, row);
+    }
+    return row;
+  };
+  const splits = budgetSplits(k);
+  const designs: Evaluated[] = [];
+  splits.forEach((split, si) => {
+    const rows = split.map((f) => tierAt(Math.round(f * 10)));
+    const idx = split.map((_, i) => Math.round(((i + 1) * (n - 1)) / (k + 1)));
+    const valueOf = (ix: number[]): number | undefined => {
+      const ts: TierValue[] = [];
+      for (let i = 0; i < k; i++) {
+        const t = rows[i]![ix[i]!];
+        if (!t) return undefined;
+        ts.push(t);
+      }
+      const e = combine(goal, parameterIndex, budget, ts, split, false);
+      return e.feasible ? e.goal : undefined;
+    };
+    let current = valueOf(idx);
+    for (let round = 0; round < 100; round++) {
+      let changed = false;
+      for (let i = 0; i < k; i++) {
+        const lo = i === 0 ? 0 : idx[i - 1]! + 1;
+        const hi = i === k - 1 ? n - 1 : idx[i + 1]! - 1;
+        for (let e = lo; e <= hi; e++) {
+          if (e === idx[i]) continue;
+          const trial = [...idx];
+          trial[i] = e;
+          const v = valueOf(trial);
+          if (v !== undefined && (current === undefined || better(goal, v, current))) {
+            current = v;
+            idx[i] = e;
+            changed = true;
+          }
+        }
+      }
+      if (!changed) break;
+    }
+    if (current !== undefined) {
+      designs.push(combine(goal, parameterIndex, budget, idx.map((e, i) => rows[i]![e]!), split, true));
+    }
+    onProgress?.(si + 1, splits.length);
+  });
+  return { splits, designs };
+}
+
+/** Indices of the designs within 5 % of the best goal value. */
+export function nearBest(goal: PlanGoal, designs: Evaluated[], bestValue: number): number[] {
+  const out: number[] = [];
+  designs.forEach((d, i) => {
+    if (!d.feasible) return;
+    const ok = maximises(goal) ? d.goal! >= (1 - NEAR_BEST_TOLERANCE) * bestValue : d.goal! <= (1 + NEAR_BEST_TOLERANCE) * bestValue;
+    if (ok) out.push(i);
+  });
+  return out;
+}

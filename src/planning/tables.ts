@@ -1,0 +1,287 @@
+/**
+ * Counts and Fisher information of one population as functions of the survey's depth, tabulated
+ * once per plan so that every design costs microseconds.
+ *
+ * A deeper exposure moves the detection limit and the completeness curve together (the curve
+ * given in the file is taken to belong to the file's limit and keeps its shape). Then, with
+ * s = ln u measured at the DEEPEST limit of the plan (the reference, tabulated once by the
+ * forecast's density grid, src/forecast/grid.ts), a design shallower by Delta (in ln u) has the
+ * density
+ *
+ *   lambda(z, s) = V phi* exp((alpha+1) t - e^t) c_ref(obs(s)),   t = s + Delta,   s >= s_lim(z)
+ *
+ * on the SAME quadrature points: the limit and the completeness curve are fixed in s, only the
+ * Schechter factor moves. Delta = ln 10 (d_ref - d) / |slope|, where d is the depth (magnitude or
+ * -log10 line flux) and slope is 2.5 (magnitudes) or 1 (line flux).
+ *
+ * For each slice the tabulated numbers are the Poisson Fisher sums of src/forecast/fisher.ts
+ * (count N, b_c = sum g dc, b_a = sum g t, F_cc, F_ca, F_aa with dc = shift (alpha+1-u)), their exact
+ * derivatives in Delta, and the count fainter than the characteristic luminosity (u < 1, i.e.
+ * t < 0) with its derivative. Values between knots come from cubic Hermite interpolation on knots
+ * 0.05 apart in Delta (interpolation error ~ h^4 f''''/384, below 1e-6 relative; checked against
+ * direct evaluation in test/planning/tables.test.ts).
+ *
+ * Knots are independent: with workers > 1 they are split among worker threads, and every knot is
+ * computed by the same function, so the tables are identical whatever the number of workers.
+ */
+import { Worker, isMainThread, parentPort, workerData } from 'node:worker_threads';
+import { createRequire } from 'node:module';
+import { readFileSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+import type { DensityGrid } from '../forecast/grid.js';
+import { sliceCount } from '../forecast/grid.js';
+import { gaussLegendreRule } from '../numerics/quadrature.js';
+import { completenessBreaks, completenessFunction } from '../selection/completeness.js';
+
+const LN10 = Math.LN10;
+/** Knot spacing in Delta (ln u). */
+export const KNOT_STEP = 0.05;
+/** Numbers per slice per knot: 6 sums, 6 derivatives, faint count and its derivative. */
+export const PER_SLICE = 14;
+const PANEL_POINTS = 8;
+const MAX_PANEL = 0.3;
+
+export interface DepthTables {
+  slices: number;
+  knots: number;
+  step: number;
+  /** knots x slices x PER_SLICE numbers. */
+  data: Float64Array;
+}
+
+/** The numbers of every slice at one Delta >= 0, written into out[offset ...]. */
+export function knotValues(grid: DensityGrid, delta: number, out: Float64Array, offset: number): void {
+  const s = grid.shift;
+  const eD = Math.exp(delta);
+  const { pointT, pointExpT, pointLogW, pointA1, nodePointStart, sliceNodeStart } = grid;
+  const nS = sliceCount(grid);
+  for (let sl = 0; sl < nS; sl++) {
+    let n = 0, bc = 0, ba = 0, fcc = 0, fca = 0, faa = 0;
+    let dn = 0, dbc = 0, dba = 0, dfcc = 0, dfca = 0, dfaa = 0;
+    const q0 = nodePointStart[sliceNodeStart[sl]!]!;
+    const q1 = nodePointStart[sliceNodeStart[sl + 1]!]!;
+    for (let q = q0; q < q1; q++) {
+      const a1 = pointA1[q]!;
+      const t = pointT[q]! + delta;
+      const u = pointExpT[q]! * eD;
+      const g = Math.exp(pointLogW[q]! + a1 * t - u);
+      const dc = s * (a1 - u);
+      const k = a1 - u; // d ln g / d Delta
+      const su = s * u; // -d dc / d Delta
+      n += g;
+      bc += g * dc;
+      ba += g * t;
+      fcc += g * dc * dc;
+      fca += g * dc * t;
+      faa += g * t * t;
+      dn += g * k;
+      dbc += g * (k * dc - su);
+      dba += g * (k * t + 1);
+      dfcc += g * (k * dc * dc - 2 * su * dc);
+      dfca += g * (k * dc * t - su * t + dc);
+      dfaa += g * (k * t * t + 2 * t);
+    }
+    const o = offset + sl * PER_SLICE;
+    out[o] = n;
+    out[o + 1] = bc;
+    out[o + 2] = ba;
+    out[o + 3] = fcc;
+    out[o + 4] = fca;
+    out[o + 5] = faa;
+    out[o + 6] = dn;
+    out[o + 7] = dbc;
+    out[o + 8] = dba;
+    out[o + 9] = dfcc;
+    out[o + 10] = dfca;
+    out[o + 11] = dfaa;
+    const f = faintCount(grid, sl, delta);
+    out[o + 12] = f.count;
+    out[o + 13] = f.derivative;
+  }
+}
+
+/**
+ * Count of slice `sl` fainter than the characteristic value (u < 1) at Delta, and its derivative
+ * in Delta: per redshift node, integral over s from s_lim to -Delta of exp(a1 (s+Delta) - e^(s+Delta))
+ * c(obs(s)) ds (Gauss-Legendre panels no wider than 0.3, split at completeness break points, as
+ * in the density grid); d/dDelta adds the integral of the integrand times (a1 - u) and subtracts
+ * the integrand at the upper end (u = 1).
+ */
+export function faintCount(grid: DensityGrid, sl: number, delta: number): { count: number; derivative: number } {
+  const rule = gaussLegendreRule(PANEL_POINTS);
+  const comp = grid.completeness;
+  const cfn = comp ? completenessFunction(comp, grid.kind, grid.variable) : undefined;
+  const breaks = comp ? completenessBreaks(comp, grid.kind) : undefined;
+  const slope = grid.slope;
+  const maxStep = Math.min(MAX_PANEL, breaks && Number.isFinite(breaks.scale) ? (breaks.scale * LN10) / Math.abs(slope) : MAX_PANEL);
+  let count = 0;
+  let derivative = 0;
+  const upper = -delta;
+  for (let j = grid.sliceNodeStart[sl]!; j < grid.sliceNodeStart[sl + 1]!; j++) {
+    const sLim = grid.nodeTLim[j]!;
+    if (!(upper > sLim)) continue;
+    const a1 = grid.nodeA1[j]!;
+    const obsA = grid.nodeObsA[j]!;
+    const v = Math.exp(grid.nodeLogV[j]!);
+    const cuts = [sLim, upper];
+    if (breaks) {
+      for (const bp of breaks.points) {
+        const t = (LN10 * (bp - obsA)) / slope;
+        if (t > sLim && t < upper) cuts.push(t);
+      }
+      cuts.sort((x, y) => x - y);
+    }
+    let c = 0;
+    let d = 0;
+    for (let k = 0; k + 1 < cuts.length; k++) {
+      const ta = cuts[k]!;
+      const tb = cuts[k + 1]!;
+      const nSub = Math.max(1, Math.ceil((tb - ta) / maxStep));
+      const h = (tb - ta) / nSub;
+      for (let m = 0; m < nSub; m++) {
+        const pa = ta + m * h;
+        for (let q = 0; q < PANEL_POINTS; q++) {
+          const sv = pa + 0.5 * h * (rule.nodes[q]! + 1);
+          const cv = cfn ? cfn(obsA + (slope * sv) / LN10) : 1;
+          if (!(cv > 0)) continue;
+          const t = sv + delta;
+          const u = Math.exp(t);
+          const w = 0.5 * h * rule.weights[q]! * cv * Math.exp(a1 * t - u);
+          c += w;
+          d += w * (a1 - u);
+        }
+      }
+    }
+    const cEnd = cfn ? cfn(obsA + (slope * upper) / LN10) : 1;
+    d -= Math.exp(-1) * cEnd;
+    count += v * c;
+    derivative += v * d;
+  }
+  return { count, derivative };
+}
+
+/** Knots 0, step, 2 step, ... covering [0, maxDelta]. */
+export function knotCount(maxDelta: number): number {
+  return Math.max(2, Math.ceil(maxDelta / KNOT_STEP - 1e-9) + 1);
+}
+
+function computeRange(grid: DensityGrid, start: number, end: number): Float64Array {
+  const nS = sliceCount(grid);
+  const out = new Float64Array((end - start) * nS * PER_SLICE);
+  for (let k = start; k < end; k++) knotValues(grid, k * KNOT_STEP, out, (k - start) * nS * PER_SLICE);
+  return out;
+}
+
+/** Tabulate every knot up to maxDelta, in this thread or in `workers` worker threads. */
+export async function tabulateDepth(
+  grid: DensityGrid,
+  maxDelta: number,
+  opts: { workers?: number; onProgress?: (done: number, total: number) => void } = {},
+): Promise<DepthTables> {
+  const knots = knotCount(maxDelta);
+  const nS = sliceCount(grid);
+  const data = new Float64Array(knots * nS * PER_SLICE);
+  const workers = Math.max(1, Math.min(opts.workers ?? 1, Math.ceil(knots / 8)));
+  const block = Math.max(1, Math.min(16, Math.ceil(knots / (workers * 4))));
+  if (workers === 1) {
+    for (let k = 0; k < knots; k += block) {
+      const end = Math.min(knots, k + block);
+      data.set(computeRange(grid, k, end), k * nS * PER_SLICE);
+      opts.onProgress?.(end, knots);
+    }
+    return { slices: nS, knots, step: KNOT_STEP, data };
+  }
+  const entry = workerEntry();
+  let next = 0;
+  let done = 0;
+  await new Promise<void>((resolve, reject) => {
+    let alive = workers;
+    let failed = false;
+    const pool: Worker[] = [];
+    const fail = (err: unknown) => {
+      if (failed) return;
+      failed = true;
+      for (const w of pool) void w.terminate();
+      reject(err instanceof Error ? err : new Error(String(err)));
+    };
+    const give = (w: Worker) => {
+      if (next >= knots) {
+        void w.terminate();
+        return;
+      }
+      const start = next;
+      const end = Math.min(knots, start + block);
+      next = end;
+      w.postMessage({ start, end });
+    };
+    for (let i = 0; i < workers; i++) {
+      const w = new Worker(entry.code, { eval: entry.eval, workerData: { skytallyPlanTables: true, grid } });
+      pool.push(w);
+      w.on('message', (m: { start: number; values: Float64Array }) => {
+        data.set(m.values, m.start * nS * PER_SLICE);
+        done += m.values.length / (nS * PER_SLICE);
+        opts.onProgress?.(done, knots);
+        give(w);
+      });
+      w.on('error', fail);
+      w.on('exit', () => {
+        alive--;
+        if (alive === 0 && !failed) {
+          if (done === knots) resolve();
+          else fail(new Error(`plan workers stopped after ${done} of ${knots} depth knots`));
+        }
+      });
+      give(w);
+    }
+  });
+  return { slices: nS, knots, step: KNOT_STEP, data };
+}
+
+/**
+ * Interpolated numbers of slice `sl` at Delta (clamped to the table), into out[0..6]:
+ * N, b_c, b_a, F_cc, F_ca, F_aa, faint count.
+ */
+export function interpolateSlice(t: DepthTables, sl: number, delta: number, out: Float64Array): void {
+  const h = t.step;
+  let i = Math.floor(delta / h);
+  if (i < 0) i = 0;
+  if (i > t.knots - 2) i = t.knots - 2;
+  let x = (delta - i * h) / h;
+  if (x < 0) x = 0;
+  if (x > 1) x = 1;
+  const x2 = x * x;
+  const x3 = x2 * x;
+  const h00 = 2 * x3 - 3 * x2 + 1;
+  const h10 = (x3 - 2 * x2 + x) * h;
+  const h01 = -2 * x3 + 3 * x2;
+  const h11 = (x3 - x2) * h;
+  const stride = t.slices * PER_SLICE;
+  const a = i * stride + sl * PER_SLICE;
+  const b = a + stride;
+  const d = t.data;
+  for (let k = 0; k < 6; k++) out[k] = h00 * d[a + k]! + h10 * d[a + 6 + k]! + h01 * d[b + k]! + h11 * d[b + 6 + k]!;
+  out[6] = h00 * d[a + 12]! + h10 * d[a + 13]! + h01 * d[b + 12]! + h11 * d[b + 13]!;
+}
+
+/** This module as a worker entry (tsx's loader first when running from .ts sources). */
+function workerEntry(): { code: string; eval: boolean } {
+  const url = import.meta.url;
+  const file = fileURLToPath(url);
+  if (file.endsWith('.ts')) {
+    const pkgPath = createRequire(url).resolve('tsx/package.json');
+    const pkg = JSON.parse(readFileSync(pkgPath, 'utf8')) as { exports: Record<string, { import: { default: string } }> };
+    const api = pathToFileURL(join(dirname(pkgPath), pkg.exports['./esm/api']!.import.default)).href;
+    return { code: `import(${JSON.stringify(api)}).then((m) => { m.register(); return import(${JSON.stringify(url)}); });`, eval: true };
+  }
+  return { code: file, eval: false };
+}
+
+if (!isMainThread && parentPort && (workerData as { skytallyPlanTables?: boolean } | null)?.skytallyPlanTables) {
+  const grid = (workerData as { grid: DensityGrid }).grid;
+  const port = parentPort;
+  port.on('message', (m: { start: number; end: number }) => {
+    const values = computeRange(grid, m.start, m.end);
+    port.postMessage({ start: m.start, values }, [values.buffer as ArrayBuffer]);
+  });
+}

@@ -1,0 +1,133 @@
+/**
+ * compare and plan end to end:
+ * - compare on two files equals two predicts and two forecasts, row by row (exact: the same
+ *   functions; the forecast given predict's cosmic-variance fractions);
+ * - plan JSON matches specs/plan.schema.json, its best design is the forecast of that design's
+ *   survey (2e-3 relative, interpolated tables), and workers give results identical to one thread;
+ * - bad plan sections: exit status 2, one sentence naming the file and the key, nothing on stdout.
+ */
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, test } from 'vitest';
+import { Ajv2020 } from 'ajv/dist/2020.js';
+import { predict } from '../../src/counts/predict.js';
+import { forecast } from '../../src/forecast/forecast.js';
+import { compare } from '../../src/planning/compare.js';
+import { plan } from '../../src/planning/plan.js';
+import { surveyAtLimit } from '../../src/planning/model.js';
+import { predictionCosmicVariance } from '../../src/planning/cosmic-variance.js';
+import { makeDepthModel } from '../../src/planning/depth.js';
+import { runCli } from '../cli/helpers.js';
+import { halphaPlan, sample, sampleText } from './helpers.js';
+
+const ajv = new Ajv2020({ strict: false });
+const planSchema = ajv.compile(JSON.parse(readFileSync('specs/plan.schema.json', 'utf8')));
+const compareSchema = ajv.compile(JSON.parse(readFileSync('specs/compare.schema.json', 'utf8')));
+
+describe('compare = predict + forecast, row by row', () => {
+  test('two files (line flux and magnitude, one with exposure)', async () => {
+    const a = sample('halpha-narrowband.yaml', (t) => t + '\nexposure: "12 h"\n');
+    const b = sample('deep-continuum.yaml', (t) => t + '\nexposure: 40\n');
+    const c = await compare([a, b]);
+    expect(compareSchema(c), JSON.stringify(compareSchema.errors)).toBe(true);
+    for (const [i, s] of [a, b].entries()) {
+      const row = c.surveys[i]!;
+      const p = predict(s);
+      const f = await forecast(s, { cosmicVarianceSource: predictionCosmicVariance(s.populations[0]!) });
+      expect(row.area_deg2).toBe(p.area_deg2);
+      expect(row.redshift).toEqual(p.redshift);
+      expect(row.count).toBe(p.totals.count);
+      expect(row.per_deg2).toBe(p.totals.per_deg2);
+      expect(row.poisson_fraction).toBe(p.totals.uncertainty!.poisson_fraction);
+      expect(row.cosmic_variance_fraction).toBe(p.totals.uncertainty!.cosmic_variance_fraction);
+      expect(row.sigma).toEqual(f.fisher.sigma);
+      expect(row.faint_count).toBeGreaterThan(0);
+      expect(row.faint_count).toBeLessThan(row.count);
+      expect(row.exposure_hours).toBe(i === 0 ? 12 : 40);
+    }
+    // The best of each row is the survey with the best value.
+    expect(c.best.count).toBe(c.surveys[0]!.count > c.surveys[1]!.count ? 0 : 1);
+    expect(c.best.exposure_hours).toBe(0);
+    expect(c.best['sigma.alpha']).toBe(c.surveys[0]!.sigma.alpha! < c.surveys[1]!.sigma.alpha! ? 0 : 1);
+  }, 60_000);
+  test('the mark survives piping: a "*" after the best value and a footnote', async () => {
+    const r = await runCli(['compare', 'samples/halpha-narrowband.yaml', 'samples/plan-halpha-layers.yaml']);
+    expect(r.code).toBe(0);
+    expect(r.stdout).toMatch(/ \*/);
+    expect(r.stdout).toContain('* best value in the row');
+    const csv = await runCli(['compare', 'samples/halpha-narrowband.yaml', 'samples/plan-halpha-layers.yaml', '--format', 'csv']);
+    expect(csv.stdout.split('\n')[0]).toMatch(/,best$/);
+  }, 60_000);
+});
+
+describe('plan', () => {
+  test('JSON matches the schema; the best design is the forecast of its survey (2e-3)', async () => {
+    const s = sample('plan-halpha-layers.yaml', (t) => t.replace('tiers: 2', 'tiers: 1'));
+    const p = await plan(s);
+    expect(planSchema(p), JSON.stringify(planSchema.errors)).toBe(true);
+    const b = p.best;
+    expect(b.hours_used).toBeLessThanOrEqual(80 * (1 + 1e-12));
+    const d = surveyAtLimit(s, b.limit, b.area_deg2);
+    const f = await forecast(d, { cosmicVarianceSource: predictionCosmicVariance(d.populations[0]!) });
+    expect(Math.abs(b.goal_value / f.fisher.sigma.log10_l_star! - 1)).toBeLessThan(2e-3);
+    expect(Math.abs(b.count / f.count - 1)).toBeLessThan(1e-6);
+    const depth = makeDepthModel('line_flux', { kind: 'background', referenceLimit: 6e-17, referenceHours: 1 });
+    expect(b.limit).toBeCloseTo(depth.limitAt(b.exposure_hours_per_pointing), 25);
+    // near-best range holds the best and is within 5 %
+    expect(p.near_best.from.goal_value).toBeLessThanOrEqual(b.goal_value * 1.05);
+    expect(p.near_best.to.goal_value).toBeLessThanOrEqual(b.goal_value * 1.05);
+  }, 60_000);
+  test('two worker threads give results identical to one thread', async () => {
+    const s = sample('plan-uv-deep-wide.yaml', (t) => t.replace('count: 200', 'count: 60'));
+    const one = await plan(s, { workers: 1 });
+    const two = await plan(s, { workers: 2 });
+    expect(JSON.stringify(two)).toBe(JSON.stringify(one));
+  }, 120_000);
+  test('fixed area: one design using the whole budget on the pointings that cover it', async () => {
+    const s = halphaPlan('  field_of_view: 0.2\n  reference: {limit: 6e-17, exposure_hours: 1}\n  budget_hours: 30\n  overhead_hours: 0.1\n  fixed: {area: 3.9}\n  goal: count\n');
+    const p = await plan(s);
+    expect(p.designs).toHaveLength(1);
+    expect(p.best.pointings).toBe(20);
+    expect(p.best.exposure_hours_per_pointing).toBeCloseTo(30 / 20 - 0.1, 12);
+  }, 60_000);
+});
+
+describe('bad plan sections: exit 2, one sentence naming the file and the key', () => {
+  const dir = mkdtempSync(join(tmpdir(), 'skytally-plan-'));
+  const base = sampleText('plan-halpha-layers.yaml');
+  const head = base.slice(0, base.indexOf('\nplan:'));
+  const cases: [string, string, string][] = [
+    ['missing plan section', '', 'plan'],
+    ['unknown key', 'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n  reference: {limit: 6e-17, exposure_hours: 1}\n  tierz: 2\n', 'plan.tierz'],
+    ['field of view without a unit of area', 'plan:\n  field_of_view: "0.2 h"\n  budget_hours: 10\n  goal: count\n  reference: {limit: 6e-17, exposure_hours: 1}\n', 'plan.field_of_view'],
+    ['unknown goal', 'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: counts\n  reference: {limit: 6e-17, exposure_hours: 1}\n', 'plan.goal'],
+    ['sigma of a parameter the population does not have', 'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: {sigma: m_star}\n  reference: {limit: 6e-17, exposure_hours: 1}\n', 'plan.goal.sigma'],
+    ['background law without a reference', 'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n', 'plan.reference'],
+    ['too many tiers', 'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n  reference: {limit: 6e-17, exposure_hours: 1}\n  tiers: 4\n', 'plan.tiers'],
+    ['a table that does not deepen', 'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n  depth_law: {table: [[1, 6e-17], [4, 8e-17]]}\n', 'plan.depth_law.table[1][1]'],
+    ['grid beyond the table', 'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n  depth_law: {table: [[1, 6e-17], [4, 3e-17]]}\n  exposure_grid: {min_hours: 1, max_hours: 9, count: 10}\n', 'plan.exposure_grid.max_hours'],
+    ['not one pointing fits', 'plan:\n  field_of_view: 0.2\n  budget_hours: 1\n  overhead_hours: 2\n  goal: count\n  reference: {limit: 6e-17, exposure_hours: 1}\n', 'plan.exposure_grid.min_hours'],
+    ['fixed area and limit together', 'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n  reference: {limit: 6e-17, exposure_hours: 1}\n  fixed: {area: 1, limit: 5e-17}\n', 'plan.fixed.limit'],
+    ['minimum count no design reaches', 'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n  reference: {limit: 6e-17, exposure_hours: 1}\n  minimum_count: 1e9\n  exposure_grid: {min_hours: 0.5, max_hours: 5, count: 10}\n', 'plan.minimum_count'],
+  ];
+  test.each(cases)('%s', async (_name, section, key) => {
+    const file = join(dir, `${key.replace(/[^a-z_]/gi, '_')}.yaml`);
+    writeFileSync(file, `${head}\n${section}`);
+    const r = await runCli(['plan', file, '--format', 'json']);
+    expect(r.code).toBe(2);
+    expect(r.stdout).toBe('');
+    const lines = r.stderr.trim().split('\n');
+    expect(lines).toHaveLength(1);
+    expect(lines[0]).toContain(file);
+    expect(lines[0]).toContain(`${key}:`);
+    expect(lines[0]!.trim().endsWith('.')).toBe(true);
+  }, 60_000);
+  test('a threshold survey cannot be planned', async () => {
+    const file = join(dir, 'threshold.yaml');
+    writeFileSync(file, sampleText('mass-limited.yaml') + '\nplan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n');
+    const r = await runCli(['plan', file]);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toContain('detection.kind');
+  });
+});
