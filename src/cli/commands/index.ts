@@ -4,5 +4,6 @@ import { predictCommand } from './predict.js';
 import { checkCommand } from './check.js';
 import { distancesCommand } from './distances.js';
 import { clusteringCommand } from './clustering.js';
+import { reportCommand } from './report.js';
 
-export const COMMANDS: CommandDef[] = [predictCommand, checkCommand, distancesCommand, clusteringCommand];
+export const COMMANDS: CommandDef[] = [predictCommand, checkCommand, distancesCommand, clusteringCommand, reportCommand];
