@@ -76,7 +76,7 @@ export function luminosityFunctionCurve(
   const limitDex = magnitude ? 0.4 * (knee - limit) : limit - knee;
   const faintDex = Math.max(-MAX_DEX_BELOW_KNEE, Math.min(-DEX_BELOW_KNEE, limitDex - DEX_PAST_LIMIT));
   const brightDex = DEX_ABOVE_KNEE;
-  const step = options.step ?? (magnitude ? 0.05 : 0.02);
+  const step = options.step ?? (magnitude ? 0.125 : 0.05);
   if (!(step > 0)) throw new Error('luminosity function: the grid step must be positive');
   // x from the low end to the high end of the range, ascending.
   const lo = magnitude ? knee - 2.5 * brightDex : knee + faintDex;
