@@ -81,7 +81,8 @@ export function luminosityFunctionCurve(
   // x from the low end to the high end of the range, ascending.
   const lo = magnitude ? knee - 2.5 * brightDex : knee + faintDex;
   const hi = magnitude ? knee - 2.5 * faintDex : knee + brightDex;
-  const n = Math.max(2, Math.ceil((hi - lo) / step) + 1);
+  // (the 1e-9 keeps a range that is a whole number of steps from ending in a repeated point)
+  const n = Math.max(2, Math.ceil((hi - lo) / step - 1e-9) + 1);
   const x: number[] = [];
   const phi: number[] = [];
   for (let i = 0; i < n; i++) {
