@@ -10,7 +10,7 @@
  * ("10^-0.4z" parses as (10^-0.4)*z), so a `*` must be written.
  */
 import { inputError } from '../errors.js';
-import { getMath } from './mathjs.js';
+import { getParser } from './mathjs.js';
 
 export type Closure = (z: number) => number;
 
@@ -85,7 +85,7 @@ export function compileExpression(text: string, file: string, keyPath: string): 
   if (text.trim() === '') reject('is empty');
   let root: MathNode;
   try {
-    root = getMath().parse(text) as unknown as MathNode;
+    root = getParser().parse(text) as unknown as MathNode;
   } catch (e) {
     const msg = e instanceof RangeError ? 'nests too deeply' : (e as Error).message.replace(/\.$/, '').replace(/\s+/g, ' ');
     return reject(`cannot be read (${msg})`);

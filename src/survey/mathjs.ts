@@ -1,33 +1,33 @@
 /**
- * A small private mathjs instance (units and the expression parser only), loaded on first use.
+ * Two small private mathjs instances, each built on first use: one with only the expression
+ * parser (for parameters in z; cheap to build) and one with the unit system (for quantities such
+ * as "900 arcmin^2"; building mathjs's unit tables costs a few hundred milliseconds, so it happens
+ * only when a survey file holds a unit string).
  *
- * Why not `import { create, unitDependencies } from 'mathjs'`: the package's ESM entry pulls in
- * several hundred modules, and importing it costs about 1.3 s on our machines no matter which
- * factories are used afterwards. The package also ships a single-file build
- * (`mathjs/lib/browser/math.js`, listed in its `exports` map) that loads in about 0.1 s. We
- * require that file synchronously, only when a survey file holds a unit string or an
- * expression, and build our own instance from it so that nothing else can change its units.
+ * The imports name only the factories we use, so that the bundles made by scripts/build.mjs carry
+ * just those parts of mathjs (about 300 kB instead of the whole package).
  */
-import { createRequire } from 'node:module';
+import { create, parseDependencies, unitDependencies, createUnitDependencies } from 'mathjs';
 import type * as MathJsModule from 'mathjs';
 
 export type MathJs = MathJsModule.MathJsInstance;
 
-let instance: MathJs | undefined;
+let parser: MathJs | undefined;
+let units: MathJs | undefined;
 
-export function getMath(): MathJs {
-  if (instance) return instance;
-  const require = createRequire(import.meta.url);
-  const m = require('mathjs/lib/browser/math.js') as typeof MathJsModule;
-  const mj = m.create({
-    unitDependencies: m.unitDependencies!,
-    createUnitDependencies: m.createUnitDependencies!,
-    parseDependencies: m.parseDependencies!,
-  });
-  // Units mathjs does not know by these names. sr: the SI steradian, 1 sr = 1 rad^2 (SI brochure,
-  // 9th ed., Table 4). micron: the micrometre.
+/** An instance with the expression parser only. */
+export function getParser(): MathJs {
+  parser ??= create({ parseDependencies: parseDependencies! }) as MathJs;
+  return parser;
+}
+
+/** An instance with units; adds `sr` and `micron`, which mathjs does not know by these names. */
+export function getUnits(): MathJs {
+  if (units) return units;
+  const mj = create({ unitDependencies: unitDependencies!, createUnitDependencies: createUnitDependencies! }) as MathJs;
+  // sr: the SI steradian, 1 sr = 1 rad^2 (SI brochure, 9th ed., Table 4). micron: the micrometre.
   mj.createUnit('sr', '1 rad^2');
   mj.createUnit('micron', '1 um');
-  instance = mj;
+  units = mj;
   return mj;
 }

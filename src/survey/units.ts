@@ -8,7 +8,7 @@
  */
 import { inputError } from '../errors.js';
 import type * as MathJsModule from 'mathjs';
-import { getMath } from './mathjs.js';
+import { getUnits } from './mathjs.js';
 
 export type QuantityKind = 'area' | 'wavelength' | 'flux' | 'time';
 
@@ -69,7 +69,7 @@ export function parseQuantity(value: number | string, kind: QuantityKind, file: 
   if (!LEADING_NUMBER.test(text)) {
     throw inputError('bad_unit', file, keyPath, `"${value}" does not start with a number`, fix);
   }
-  const math = getMath();
+  const math = getUnits();
   let u: MathJsModule.Unit;
   try {
     u = math.unit(normaliseUnitNames(text));

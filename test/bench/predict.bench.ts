@@ -16,9 +16,16 @@ const lineNoCompleteness10 = sample('halpha-narrowband.yaml', (t) =>
 const deep = sample('deep-continuum.yaml');
 const mass = sample('mass-limited.yaml', (t) => t.replace(/slices: .*$/m, 'slices: {count: 10}'));
 
+const bare = { noUncertainty: true };
+
 export const cases: BenchCase[] = [
-  { name: 'predict: line_flux, gaussian filter, logistic completeness, 10 slices', run: () => predict(line10) },
-  { name: 'predict: line_flux, gaussian filter, no completeness, 10 slices', run: () => predict(lineNoCompleteness10) },
-  { name: 'predict: magnitude, evolving model, table completeness, 8 slices', run: () => predict(deep) },
-  { name: 'predict: threshold (stellar mass), 10 slices', run: () => predict(mass) },
+  // Counts and histograms only (issue 2: under 2 ms for 10 slices).
+  { name: 'predict counts: line_flux, gaussian filter, logistic completeness, 10 slices', run: () => predict(line10, bare) },
+  { name: 'predict counts: line_flux, gaussian filter, no completeness, 10 slices', run: () => predict(lineNoCompleteness10, bare) },
+  { name: 'predict counts: magnitude, evolving model, table completeness, 8 slices', run: () => predict(deep, bare) },
+  { name: 'predict counts: threshold (stellar mass), 10 slices', run: () => predict(mass, bare) },
+  // With Poisson and cosmic-variance uncertainties (issue 3: under 50 ms for 10 slices).
+  { name: 'predict with uncertainty: line_flux, logistic completeness, 10 slices', run: () => predict(line10), repeats: 20 },
+  { name: 'predict with uncertainty: magnitude, table completeness, 8 slices', run: () => predict(deep), repeats: 20 },
+  { name: 'predict with uncertainty: threshold, 10 slices', run: () => predict(mass), repeats: 20 },
 ];

@@ -1,0 +1,13 @@
+/** Whole-process timings of the built program (issue 2: predict --format json under 0.4 s). Run `npm run build` first. */
+import { execFileSync } from 'node:child_process';
+import type { BenchCase } from './run.js';
+
+const node = process.execPath;
+const run = (args: string[]) => () => execFileSync(node, ['bin/skytally.js', ...args], { stdio: ['ignore', 'ignore', 'inherit'] });
+
+export const cases: BenchCase[] = [
+  { name: 'process: node alone (baseline)', run: () => execFileSync(node, ['-e', '0']), repeats: 10 },
+  { name: 'process: skytally distances --z 0.5,1,2 --format json', run: run(['distances', '--z', '0.5,1,2', '--format', 'json']), repeats: 10 },
+  { name: 'process: skytally predict mass-limited.yaml --format json', run: run(['predict', 'samples/mass-limited.yaml', '--format', 'json']), repeats: 10 },
+  { name: 'process: skytally predict halpha-narrowband.yaml --format json', run: run(['predict', 'samples/halpha-narrowband.yaml', '--format', 'json']), repeats: 10 },
+];
