@@ -289,9 +289,18 @@ function forecastTables(f: ForecastJson): string {
     const sd = Math.sqrt(xs.reduce((a, b) => a + (b - mean) ** 2, 0) / (xs.length - 1));
     return [formatNumber(mean, 5), formatNumber(sd, 3)];
   };
-  const withMocks = fits.length >= 2;
+  // Without the fits themselves, the summary the forecast gives (mean and spread per parameter).
+  const summary = f.mocks?.summary as Record<string, { mean?: number; std?: number }> | undefined;
+  const summaryCount = typeof f.mocks?.count === 'number' ? (f.mocks.count as number) : undefined;
+  const fromSummary = fits.length < 2 && !!summary && Object.keys(summary).length > 0;
+  const summaryStats = (name: string): [string, string] => {
+    const v = summary?.[name];
+    return [typeof v?.mean === 'number' ? formatNumber(v.mean, 5) : '', typeof v?.std === 'number' ? formatNumber(v.std, 3) : ''];
+  };
+  const withMocks = fits.length >= 2 || fromSummary;
+  const nMocks = fits.length >= 2 ? fits.length : (summaryCount ?? 0);
   const heads = ['parameter', 'assumed value', 'σ from the Fisher matrix'];
-  if (withMocks) heads.push(`mean of ${fits.length} mock fits`, 'spread of mock fits (σ)');
+  if (withMocks) heads.push(`mean of ${nMocks} mock fits`, 'spread of mock fits (σ)');
   const rows = names
     .map((n) => {
       const cells = [
@@ -299,7 +308,7 @@ function forecastTables(f: ForecastJson): string {
         typeof f.center?.[n] === 'number' ? formatNumber(f.center[n]!, 6) : '',
         typeof f.fisher?.sigma?.[n] === 'number' ? formatNumber(f.fisher.sigma[n]!, 3) : '',
       ];
-      if (withMocks) cells.push(...mockStats(n));
+      if (withMocks) cells.push(...(fromSummary ? summaryStats(n) : mockStats(n)));
       return `<tr>${cells.map((c) => `<td>${c}</td>`).join('')}</tr>`;
     })
     .join('\n');

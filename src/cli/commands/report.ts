@@ -13,12 +13,29 @@ export interface ReportOptions {
 }
 
 /**
- * The forecast and plan sections. Each returns the result object the figure and report layer
- * reads, or undefined when the section does not apply to this survey.
+ * The forecast and plan sections: hooks that take the survey and return the result object the
+ * figure and report layer reads (adapt a forecast or plan result with forecastForFigures /
+ * planForFigures from src/render/adapt.ts), or undefined when the section does not apply.
+ * `plan` is called only when the survey file has a `plan:` section.
  */
 export interface ReportSections {
   forecast?(survey: Survey): Promise<ForecastJson | undefined>;
   plan?(survey: Survey): Promise<PlanJson | undefined>;
+}
+
+/**
+ * The sections the `report` command computes. The forecast (issue 4) and plan (issue 5) layers
+ * join here when they land on main: forecast always (with --mocks N), plan when the file has a
+ * `plan:` section. Until then the report holds the prediction only; no number is made up.
+ */
+export function reportSections(_opts: ReportOptions): ReportSections {
+  return {};
+}
+
+/** True when the survey file as written has a `plan:` section. */
+export function hasPlanSection(survey: Survey): boolean {
+  const raw = survey.raw as { plan?: unknown } | null | undefined;
+  return raw !== null && typeof raw === 'object' && raw.plan !== undefined && raw.plan !== null;
 }
 
 /** Build the whole report document for a survey file (as written) and its loaded survey. */
@@ -33,7 +50,7 @@ export async function buildReport(
   const { renderReport } = await import('../../render/report.js');
   const prediction = predict(survey);
   const forecast = sections.forecast ? await sections.forecast(survey) : undefined;
-  const plan = sections.plan ? await sections.plan(survey) : undefined;
+  const plan = sections.plan && hasPlanSection(survey) ? await sections.plan(survey) : undefined;
   const extra: { forecast?: ForecastJson; plan?: PlanJson } = {};
   if (forecast) extra.forecast = forecast;
   if (plan) extra.plan = plan;
@@ -65,7 +82,7 @@ export const reportCommand: CommandDef = {
   },
 };
 
-export async function runReport(io: CliIO, file: string, opts: ReportOptions, sections: ReportSections = {}): Promise<number> {
+export async function runReport(io: CliIO, file: string, opts: ReportOptions, sections: ReportSections = reportSections(opts)): Promise<number> {
   const input = resolve(io.cwd, file);
   const target = opts.out === undefined ? undefined : resolve(io.cwd, opts.out);
   if (target === input) {
