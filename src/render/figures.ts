@@ -261,34 +261,36 @@ export function histogramRows(s: SliceJson): HistogramRow[] {
   return rows;
 }
 
+/** Header of a small-multiple panel: the slice's redshift range. */
+function panelLabel(s: SliceJson): string {
+  return `z ${formatRange(s.z_min, s.z_max)}`;
+}
+
+/**
+ * The facet over slices shared by the small multiples: one panel per slice, in slice order,
+ * labelled with its redshift range. One faceted view (one dataset, one template) instead of a
+ * concatenation of per-slice views: vega builds and draws it several times faster.
+ */
+function sliceFacet(): Spec {
+  return {
+    field: 'panel',
+    type: 'ordinal',
+    sort: { field: 'slice', op: 'min' },
+    header: { title: null, labelAnchor: 'start', labelFontSize: 12, labelColor: PALETTE.ink, labelPadding: 6 },
+  };
+}
+
+/** One row per histogram bin, for every slice: {slice (1-based), panel, lo, hi, count}. */
+export function histogramPanelRows(p: PredictionJson): (HistogramRow & { slice: number; panel: string })[] {
+  return p.slices.flatMap((s, i) => histogramRows(s).map((r) => ({ slice: i + 1, panel: panelLabel(s), ...r })));
+}
+
 export function histogramsSpec(p: PredictionJson, model?: ModelDescription): Spec | null {
   const m = model ?? models(p.model)[0];
-  const panels: Spec[] = [];
-  let variable = '';
-  for (const s of p.slices) {
-    const rows = histogramRows(s);
-    if (rows.length === 0) continue;
-    variable ||= s.histogram!.variable;
-    panels.push({
-      title: { text: `z ${formatRange(s.z_min, s.z_max)}`, fontSize: 12, fontWeight: 'normal', subtitle: '' },
-      width: 170,
-      height: 110,
-      data: { values: rows },
-      mark: { type: 'bar', fill: PALETTE.blue, stroke: 'white', strokeWidth: 0.5 },
-      encoding: {
-        x: {
-          field: 'lo',
-          type: 'quantitative',
-          title: histogramAxisLabel(s.histogram!.variable, m),
-          scale: { zero: false, nice: false },
-        },
-        x2: { field: 'hi' },
-        y: { field: 'count', type: 'quantitative', title: 'count per bin', axis: { tickCount: 4 } },
-        y2: { datum: 0 },
-      },
-    });
-  }
-  if (panels.length === 0) return null;
+  const rows = histogramPanelRows(p);
+  if (rows.length === 0) return null;
+  const variable = p.slices[rows[0]!.slice - 1]!.histogram!.variable;
+  const panels = new Set(rows.map((r) => r.slice)).size;
   const what =
     variable === 'apparent_magnitude'
       ? 'Apparent magnitudes of the detected sources, per slice'
@@ -298,9 +300,26 @@ export function histogramsSpec(p: PredictionJson, model?: ModelDescription): Spe
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
     ...titleBlock(p.title, what, ['expected count in each bin; the bins of a slice add up to its count'], TITLE_LIMIT_PX.multiples),
-    concat: panels,
-    columns: Math.min(4, panels.length),
-    resolve: { scale: { x: 'shared', y: 'independent' } },
+    data: { values: rows },
+    facet: sliceFacet(),
+    columns: Math.min(4, panels),
+    spec: {
+      width: 170,
+      height: 110,
+      mark: { type: 'bar', fill: PALETTE.blue, stroke: 'white', strokeWidth: 0.5 },
+      encoding: {
+        x: {
+          field: 'lo',
+          type: 'quantitative',
+          title: histogramAxisLabel(variable, m),
+          scale: { zero: false, nice: false },
+        },
+        x2: { field: 'hi' },
+        y: { field: 'count', type: 'quantitative', title: 'count per bin', axis: { tickCount: 4 } },
+        y2: { datum: 0 },
+      },
+    },
+    resolve: { scale: { x: 'shared', y: 'independent' }, axis: { x: 'independent', y: 'independent' } },
     config: CONFIG,
   };
 }
@@ -336,25 +355,45 @@ export function detectedPart(
   return out;
 }
 
-export function luminosityFunctionSpec(p: PredictionJson, model?: ModelDescription): Spec | null {
+/** A row of the luminosity-function figure; `kind` says which layer draws it. */
+export interface LuminosityFunctionRow {
+  slice: number;
+  panel: string;
+  kind: 'curve' | 'detected' | 'limit' | 'knee';
+  x: number;
+  phi?: number;
+  /** Lower edge of the shaded detected part (the lowest density drawn). */
+  floor?: number;
+  label?: string;
+}
+
+/**
+ * Rows of every panel: the curve (points with phi > 0 within LF_DECADES of the highest density),
+ * its detected part, the limit and the knee. Null when no slice has a curve to draw.
+ */
+export function luminosityFunctionRows(
+  p: PredictionJson,
+  model?: ModelDescription,
+): { rows: LuminosityFunctionRow[]; magnitude: boolean; xLabel: string; panels: number } | null {
   const m = model ?? models(p.model)[0];
   interface Panel {
+    i: number;
     s: SliceJson;
     c: LuminosityFunctionCurve;
     rows: { x: number; phi: number }[];
   }
   const panels: Panel[] = [];
-  for (const s of p.slices) {
+  p.slices.forEach((s, i) => {
     const c = s.luminosity_function;
-    if (!c || !Array.isArray(c.x) || !Array.isArray(c.phi)) continue;
+    if (!c || !Array.isArray(c.x) || !Array.isArray(c.phi)) return;
     const rows: { x: number; phi: number }[] = [];
-    for (let i = 0; i < Math.min(c.x.length, c.phi.length); i++) {
-      const x = c.x[i]!;
-      const phi = c.phi[i]!;
+    for (let k = 0; k < Math.min(c.x.length, c.phi.length); k++) {
+      const x = c.x[k]!;
+      const phi = c.phi[k]!;
       if (finite(x, phi) && phi > 0) rows.push({ x, phi });
     }
-    if (rows.length >= 2) panels.push({ s, c, rows });
-  }
+    if (rows.length >= 2) panels.push({ i, s, c, rows });
+  });
   // Keep LF_DECADES decades below the highest density: the exponential cut-off otherwise
   // stretches the log axis over many empty decades.
   const top = Math.max(...panels.flatMap((q) => q.rows.map((r) => r.phi)));
@@ -364,66 +403,73 @@ export function luminosityFunctionSpec(p: PredictionJson, model?: ModelDescripti
   const magnitude = isMagnitude(m, drawn[0]!.c);
   const floor = Math.min(...drawn.flatMap((q) => q.rows.map((r) => r.phi)));
   const xLabel = drawn[0]!.c.x_label ?? (magnitude ? 'absolute AB magnitude M [mag]' : 'log₁₀ L [erg s⁻¹]');
-  const yLabel = magnitude ? 'φ [Mpc⁻³ mag⁻¹]' : 'φ [Mpc⁻³ dex⁻¹]';
   const kneeName = magnitude ? 'M*' : 'L*';
-
-  const specs: Spec[] = drawn.map(({ s, c, rows }) => {
-    const detected = finite(c.limit) ? detectedPart(rows, c.limit!, magnitude).map((r) => ({ ...r, floor })) : [];
-    const layer: Spec[] = [];
-    if (detected.length >= 2) {
-      layer.push({
-        data: { values: detected },
-        mark: { type: 'area', color: PALETTE.pale, opacity: 1 },
-        encoding: {
-          x: { field: 'x', type: 'quantitative' },
-          y: { field: 'phi', type: 'quantitative' },
-          y2: { field: 'floor' },
-        },
-      });
-    }
-    layer.push({
-      data: { values: rows },
-      mark: { type: 'line', color: PALETTE.blue, strokeWidth: 2 },
-      encoding: {
-        x: { field: 'x', type: 'quantitative', title: xLabel, scale: { zero: false, nice: false } },
-        y: { field: 'phi', type: 'quantitative', title: yLabel, scale: { type: 'log' }, axis: { format: '.0e', tickCount: 4 } },
-      },
-    });
+  const out: LuminosityFunctionRow[] = [];
+  for (const { i, s, c, rows } of drawn) {
+    const base = { slice: i + 1, panel: `${panelLabel(s)} (at z = ${((s.z_min + s.z_max) / 2).toFixed(3)})` };
+    for (const r of rows) out.push({ ...base, kind: 'curve', x: r.x, phi: r.phi });
     if (finite(c.limit)) {
-      layer.push({
-        data: { values: [{ x: c.limit, what: 'limit' }] },
-        mark: { type: 'rule', color: PALETTE.ink, strokeDash: [5, 3], strokeWidth: 1.5 },
-        encoding: { x: { field: 'x', type: 'quantitative' } },
-      });
+      const detected = detectedPart(rows, c.limit!, magnitude);
+      if (detected.length >= 2) for (const r of detected) out.push({ ...base, kind: 'detected', x: r.x, phi: r.phi, floor });
+      out.push({ ...base, kind: 'limit', x: c.limit! });
     }
-    if (finite(c.knee)) {
-      layer.push({
-        data: { values: [{ x: c.knee, label: kneeName }] },
-        layer: [
-          { mark: { type: 'rule', color: PALETTE.orange, strokeWidth: 2.5 }, encoding: { x: { field: 'x', type: 'quantitative' } } },
-          {
-            mark: { type: 'text', color: '#7a4300', fontWeight: 'bold', fontSize: 12, align: 'left', dx: 4, dy: 2, baseline: 'top', y: 0 },
-            encoding: { x: { field: 'x', type: 'quantitative' }, text: { field: 'label' } },
-          },
-        ],
-      });
-    }
-    return {
-      title: { text: `z ${formatRange(s.z_min, s.z_max)} (at z = ${((s.z_min + s.z_max) / 2).toFixed(3)})`, fontSize: 12, fontWeight: 'normal', subtitle: '' },
-      width: 200,
-      height: 140,
-      layer,
-    };
-  });
+    if (finite(c.knee)) out.push({ ...base, kind: 'knee', x: c.knee!, label: kneeName });
+  }
+  return { rows: out, magnitude, xLabel, panels: drawn.length };
+}
+
+export function luminosityFunctionSpec(p: PredictionJson, model?: ModelDescription): Spec | null {
+  const m = model ?? models(p.model)[0];
+  const r = luminosityFunctionRows(p, m);
+  if (!r) return null;
+  const yLabel = r.magnitude ? 'φ [Mpc⁻³ mag⁻¹]' : 'φ [Mpc⁻³ dex⁻¹]';
+  const kneeName = r.magnitude ? 'M*' : 'L*';
+  const only = (kind: LuminosityFunctionRow['kind']) => [{ filter: `datum.kind === '${kind}'` }];
+  const x = { field: 'x', type: 'quantitative' };
   const name = typeof m?.name === 'string' && m.name ? ` (${m.name})` : '';
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
     ...titleBlock(p.title, `Assumed luminosity function${name} at each slice's middle redshift`, [
       `shaded: detected part; dashed line: limit; orange line: knee (${kneeName})`,
     ], TITLE_LIMIT_PX.multiples),
-    concat: specs,
-    columns: Math.min(4, specs.length),
-    resolve: { scale: { x: 'shared', y: 'shared' } },
+    data: { values: r.rows },
+    facet: sliceFacet(),
+    columns: Math.min(4, r.panels),
+    spec: {
+      width: 200,
+      height: 140,
+      layer: [
+        {
+          transform: only('detected'),
+          mark: { type: 'area', color: PALETTE.pale, opacity: 1 },
+          encoding: { x, y: { field: 'phi', type: 'quantitative' }, y2: { field: 'floor' } },
+        },
+        {
+          transform: only('curve'),
+          mark: { type: 'line', color: PALETTE.blue, strokeWidth: 2 },
+          encoding: {
+            x: { ...x, title: r.xLabel, scale: { zero: false, nice: false } },
+            y: { field: 'phi', type: 'quantitative', title: yLabel, scale: { type: 'log' }, axis: { format: '.0e', tickCount: 4 } },
+          },
+        },
+        {
+          transform: only('limit'),
+          mark: { type: 'rule', color: PALETTE.ink, strokeDash: [5, 3], strokeWidth: 1.5 },
+          encoding: { x },
+        },
+        {
+          transform: only('knee'),
+          mark: { type: 'rule', color: PALETTE.orange, strokeWidth: 2.5 },
+          encoding: { x },
+        },
+        {
+          transform: only('knee'),
+          mark: { type: 'text', color: '#7a4300', fontWeight: 'bold', fontSize: 12, align: 'left', dx: 4, dy: 2, baseline: 'top', y: 0 },
+          encoding: { x, text: { field: 'label' } },
+        },
+      ],
+    },
+    resolve: { scale: { x: 'shared', y: 'shared' }, axis: { x: 'independent', y: 'independent' } },
     config: CONFIG,
   };
 }

@@ -156,7 +156,22 @@ const PARAM_LABELS: Record<string, string> = {
   alpha: 'α (faint-end slope)',
   rest_wavelength: 'rest wavelength [Å]',
   bias: 'bias',
+  values_used: 'values used',
 };
+
+/** Labels for a population counted in a free quantity (threshold detection): no erg/s. */
+function paramLabel(key: string, quantity: string | undefined): string | undefined {
+  if (quantity) {
+    if (key === 'l_star') return `characteristic ${quantity}`;
+    if (key === 'log10_l_star') return `log₁₀ characteristic ${quantity}`;
+  }
+  return PARAM_LABELS[key];
+}
+
+function quantityOf(m: ModelDescription | undefined): string | undefined {
+  const q = m?.quantity;
+  return typeof q === 'string' && q.trim() ? q.trim() : undefined;
+}
 
 function modelValueHtml(v: ModelValue): string {
   if (typeof v === 'number') return formatNumber(v, 6);
@@ -185,9 +200,9 @@ function modelHtml(models: ModelDescription[]): string {
     const rows = Object.entries(m)
       .filter(([k, v]) => !['name', 'shape', 'variable'].includes(k) && v !== undefined && v !== null)
       .map(([k, v]) => {
-        const label = PARAM_LABELS[k];
+        const label = paramLabel(k, quantityOf(m));
         const keyHtml = label ? `${escapeHtml(label)} <span class="key">${escapeHtml(k)}</span>` : `<span class="key">${escapeHtml(k)}</span>`;
-        return `<tr><th scope="row">${keyHtml}</th><td>${modelValueHtml(v)}</td></tr>`;
+        return `<tr><th scope="row">${keyHtml}</th><td>${k === 'values_used' && typeof v === 'string' ? escapeHtml(v) : modelValueHtml(v)}</td></tr>`;
       })
       .join('\n');
     return `<div class="population"><p class="population-name">${head || 'population'}</p><table class="params">${rows}</table></div>`;
@@ -203,11 +218,12 @@ function modelVariable(models: ModelDescription[]): string | undefined {
 // ---------------------------------------------------------------------------------------------
 // Tables
 
-function predictTable(p: PredictionJson, variable: string | undefined): string {
+function predictTable(p: PredictionJson, variable: string | undefined, quantity?: string): string {
   const withU = p.slices.some((s) => typeof s.uncertainty?.total_fraction === 'number');
   const withParts = p.slices.some((s) => typeof s.uncertainty?.poisson_fraction === 'number' || typeof s.uncertainty?.cosmic_variance_fraction === 'number');
-  const limitHead =
-    variable === 'magnitude' ? 'limit at centre<br><span class="unit">M [AB mag]</span>' : variable === 'luminosity' ? 'limit at centre<br><span class="unit">log₁₀ L [erg s⁻¹]</span>' : 'limit at centre';
+  const limitHead = quantity
+    ? `limit at centre<br><span class="unit">log₁₀ ${escapeHtml(quantity)}</span>`
+    : variable === 'magnitude' ? 'limit at centre<br><span class="unit">M [AB mag]</span>' : variable === 'luminosity' ? 'limit at centre<br><span class="unit">log₁₀ L [erg s⁻¹]</span>' : 'limit at centre';
   const heads = [
     'slice',
     'window<br><span class="unit">z</span>',
@@ -273,9 +289,18 @@ function forecastTables(f: ForecastJson): string {
     const sd = Math.sqrt(xs.reduce((a, b) => a + (b - mean) ** 2, 0) / (xs.length - 1));
     return [formatNumber(mean, 5), formatNumber(sd, 3)];
   };
-  const withMocks = fits.length >= 2;
+  // Without the fits themselves, the summary the forecast gives (mean and spread per parameter).
+  const summary = f.mocks?.summary as Record<string, { mean?: number; std?: number }> | undefined;
+  const summaryCount = typeof f.mocks?.count === 'number' ? (f.mocks.count as number) : undefined;
+  const fromSummary = fits.length < 2 && !!summary && Object.keys(summary).length > 0;
+  const summaryStats = (name: string): [string, string] => {
+    const v = summary?.[name];
+    return [typeof v?.mean === 'number' ? formatNumber(v.mean, 5) : '', typeof v?.std === 'number' ? formatNumber(v.std, 3) : ''];
+  };
+  const withMocks = fits.length >= 2 || fromSummary;
+  const nMocks = fits.length >= 2 ? fits.length : (summaryCount ?? 0);
   const heads = ['parameter', 'assumed value', 'σ from the Fisher matrix'];
-  if (withMocks) heads.push(`mean of ${fits.length} mock fits`, 'spread of mock fits (σ)');
+  if (withMocks) heads.push(`mean of ${nMocks} mock fits`, 'spread of mock fits (σ)');
   const rows = names
     .map((n) => {
       const cells = [
@@ -283,7 +308,7 @@ function forecastTables(f: ForecastJson): string {
         typeof f.center?.[n] === 'number' ? formatNumber(f.center[n]!, 6) : '',
         typeof f.fisher?.sigma?.[n] === 'number' ? formatNumber(f.fisher.sigma[n]!, 3) : '',
       ];
-      if (withMocks) cells.push(...mockStats(n));
+      if (withMocks) cells.push(...(fromSummary ? summaryStats(n) : mockStats(n)));
       return `<tr>${cells.map((c) => `<td>${c}</td>`).join('')}</tr>`;
     })
     .join('\n');
@@ -457,7 +482,7 @@ ${modelSection}
 </section>
 <section id="predict">
 <h2>Expected counts per redshift slice</h2>
-${predictTable(p, modelVariable(models))}
+${predictTable(p, modelVariable(models), quantityOf(models[0]))}
 <p class="note">Counts are expected numbers of detected sources, not rounded. The limit is given at each slice's middle redshift.</p>
 </section>
 ${input.forecast ? `<section id="forecast">\n<h2>Forecast</h2>\n${forecastTables(input.forecast)}\n</section>` : ''}

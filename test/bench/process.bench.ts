@@ -1,8 +1,15 @@
-/** Whole-process timings of the built program (issue 2: predict --format json under 0.4 s). Run `npm run build` first. */
+/**
+ * Whole-process timings of the built program (issue 2: predict --format json under 0.4 s;
+ * issue 6: report with its figures under 1 s). Run `npm run build` first.
+ */
 import { execFileSync } from 'node:child_process';
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import type { BenchCase } from './run.js';
 
 const node = process.execPath;
+const out = join(mkdtempSync(join(tmpdir(), 'skytally-bench-')), 'report.html');
 const run = (args: string[]) => () => execFileSync(node, ['bin/skytally.js', ...args], { stdio: ['ignore', 'ignore', 'inherit'] });
 
 export const cases: BenchCase[] = [
@@ -10,4 +17,6 @@ export const cases: BenchCase[] = [
   { name: 'process: skytally distances --z 0.5,1,2 --format json', run: run(['distances', '--z', '0.5,1,2', '--format', 'json']), repeats: 10 },
   { name: 'process: skytally predict mass-limited.yaml --format json', run: run(['predict', 'samples/mass-limited.yaml', '--format', 'json']), repeats: 10 },
   { name: 'process: skytally predict halpha-narrowband.yaml --format json', run: run(['predict', 'samples/halpha-narrowband.yaml', '--format', 'json']), repeats: 10 },
+  { name: 'process: skytally report halpha-narrowband.yaml --out FILE', run: run(['report', 'samples/halpha-narrowband.yaml', '--out', out]), repeats: 5 },
+  { name: 'process: skytally report deep-continuum.yaml --out FILE', run: run(['report', 'samples/deep-continuum.yaml', '--out', out]), repeats: 5 },
 ];

@@ -93,14 +93,17 @@ describe('counts figure: the drawn numbers are the prediction numbers (demo obje
 describe('histogram figure: small multiples hold each slice histogram', () => {
   test('spec panels hold every bin edge and count of every slice', () => {
     const spec = histogramsSpec(demo)! as Any;
-    expect(spec.concat).toHaveLength(demo.slices.length);
+    const values = spec.data.values as Any[];
+    expect(new Set(values.map((r) => r.slice)).size).toBe(demo.slices.length);
+    expect(spec.facet.field).toBe('panel');
     demo.slices.forEach((s, i) => {
-      const rows = spec.concat[i].data.values as Any[];
+      const rows = values.filter((r) => r.slice === i + 1);
       expect(rows.map((r) => r.count)).toEqual(s.histogram!.counts);
       expect(rows.map((r) => r.lo)).toEqual(s.histogram!.edges.slice(0, -1));
       expect(rows.map((r) => r.hi)).toEqual(s.histogram!.edges.slice(1));
-      expect(spec.concat[i].encoding.x.title).toBe('log₁₀ line flux [erg s⁻¹ cm⁻²]');
+      expect(new Set(rows.map((r) => r.panel))).toEqual(new Set([`z ${s.z_min.toFixed(2)}–${s.z_max.toFixed(2)}`]));
     });
+    expect(spec.spec.encoding.x.title).toBe('log₁₀ line flux [erg s⁻¹ cm⁻²]');
   });
 
   test('SVG has one bar per bin, heights proportional to the counts within each panel', async () => {
@@ -118,9 +121,9 @@ describe('histogram figure: small multiples hold each slice histogram', () => {
   test('an absolute-magnitude model and a threshold histogram get their own axis labels', () => {
     const p = demoPrediction({ slices: 2 });
     for (const s of p.slices) s.histogram!.variable = 'apparent_magnitude';
-    expect((histogramsSpec(p) as Any).concat[0].encoding.x.title).toBe('apparent AB magnitude [mag]');
+    expect((histogramsSpec(p) as Any).spec.encoding.x.title).toBe('apparent AB magnitude [mag]');
     for (const s of p.slices) s.histogram!.variable = 'log10_quantity';
-    expect((histogramsSpec(p, { quantity: 'stellar mass [Msun]' }) as Any).concat[0].encoding.x.title).toBe(
+    expect((histogramsSpec(p, { quantity: 'stellar mass [Msun]' }) as Any).spec.encoding.x.title).toBe(
       'log₁₀ stellar mass [Msun]',
     );
   });
@@ -129,23 +132,26 @@ describe('histogram figure: small multiples hold each slice histogram', () => {
 describe('luminosity-function figure', () => {
   test('each panel draws its slice curve, limit and knee', () => {
     const spec = luminosityFunctionSpec(demo)! as Any;
-    expect(spec.concat).toHaveLength(demo.slices.length);
+    const values = spec.data.values as Any[];
+    expect(new Set(values.map((r) => r.slice)).size).toBe(demo.slices.length);
+    const layers = spec.spec.layer as Any[];
+    const kindOf = (l: Any) => /datum\.kind === '(\w+)'/.exec(l.transform[0].filter)![1];
+    expect(layers.map((l) => `${l.mark.type}:${kindOf(l)}`)).toEqual(['area:detected', 'line:curve', 'rule:limit', 'rule:knee', 'text:knee']);
     demo.slices.forEach((s, i) => {
-      const layers = spec.concat[i].layer as Any[];
-      const line = layers.find((l) => l.mark.type === 'line')!;
       const c = s.luminosity_function!;
+      const rows = values.filter((r) => r.slice === i + 1);
       // every drawn point is a point of the input curve
-      for (const r of line.data.values) {
+      const curve = rows.filter((r) => r.kind === 'curve');
+      expect(curve.length).toBeGreaterThan(10);
+      for (const r of curve) {
         const j = c.x.indexOf(r.x);
         expect(j).toBeGreaterThanOrEqual(0);
         expect(r.phi).toBe(c.phi[j]);
       }
-      const rule = layers.find((l) => l.mark.type === 'rule')!;
-      expect(rule.data.values[0].x).toBe(c.limit);
-      const knee = layers.find((l) => Array.isArray(l.layer))!;
-      expect(knee.data.values[0]).toEqual({ x: c.knee, label: 'L*' });
-      const area = layers.find((l) => l.mark.type === 'area')!;
-      expect(Math.min(...area.data.values.map((r: Any) => r.x))).toBeCloseTo(c.limit!, 12);
+      expect(rows.filter((r) => r.kind === 'limit').map((r) => r.x)).toEqual([c.limit]);
+      expect(rows.filter((r) => r.kind === 'knee').map((r) => [r.x, r.label])).toEqual([[c.knee, 'L*']]);
+      const detected = rows.filter((r) => r.kind === 'detected');
+      expect(Math.min(...detected.map((r) => r.x))).toBeCloseTo(c.limit!, 12);
     });
   });
 
@@ -177,13 +183,13 @@ describe('luminosity-function figure', () => {
       delete c.x_label;
     }
     const spec = luminosityFunctionSpec(p, { variable: 'magnitude' })! as Any;
-    const layers = spec.concat[0].layer as Any[];
-    expect(layers.find((l) => Array.isArray(l.layer))!.data.values[0].label).toBe('M*');
-    const line = layers.find((l) => l.mark.type === 'line')!;
+    const values = (spec.data.values as Any[]).filter((r) => r.slice === 1);
+    expect(values.find((r) => r.kind === 'knee')!.label).toBe('M*');
+    const line = (spec.spec.layer as Any[]).find((l) => l.mark.type === 'line')!;
     expect(line.encoding.y.title).toBe('φ [Mpc⁻³ mag⁻¹]');
     expect(line.encoding.x.title).toBe('absolute AB magnitude M [mag]');
-    const area = layers.find((l) => l.mark.type === 'area')!;
-    expect(Math.max(...area.data.values.map((r: Any) => r.x))).toBeCloseTo(p.slices[0]!.luminosity_function!.limit!, 12);
+    const detected = values.filter((r) => r.kind === 'detected');
+    expect(Math.max(...detected.map((r) => r.x))).toBeCloseTo(p.slices[0]!.luminosity_function!.limit!, 12);
   });
 });
 

@@ -7,5 +7,15 @@ import { clusteringCommand } from './clustering.js';
 import { forecastCommand } from './forecast.js';
 import { compareCommand } from './compare.js';
 import { planCommand } from './plan.js';
+import { reportCommand } from './report.js';
 
-export const COMMANDS: CommandDef[] = [predictCommand, checkCommand, distancesCommand, clusteringCommand, forecastCommand, compareCommand, planCommand];
+export const COMMANDS: CommandDef[] = [
+  predictCommand,
+  checkCommand,
+  distancesCommand,
+  clusteringCommand,
+  forecastCommand,
+  compareCommand,
+  planCommand,
+  reportCommand,
+];

@@ -1,0 +1,164 @@
+/**
+ * Glue between the computed results and the figure layer, for the commands that draw
+ * (`report`, and `--figures DIR` on predict, forecast and plan). Loaded only by those commands:
+ * it imports the figure layer, and through it (on first render) vega and vega-lite.
+ *
+ * It turns a Prediction (src/counts/predict.ts) into the shape the figures read
+ * (src/render/types.ts PredictionJson): the assumed model as the user wrote it, and the
+ * luminosity function of each slice at its middle redshift (src/population/curves.ts).
+ */
+import { resolve } from 'node:path';
+import { statSync } from 'node:fs';
+import type { Prediction, PredictionSlice } from '../counts/predict.js';
+import type { Survey, Population } from '../survey/types.js';
+import type { Figure, ForecastJson, ModelDescription, PlanJson, PredictionJson, SliceJson } from '../render/types.js';
+import { curveAxisLabel, luminosityFunctionCurve } from '../population/curves.js';
+import { buildFigures, luminosityFunctionFigure } from '../render/figures.js';
+import { inputError } from '../errors.js';
+import type { CliIO } from './io.js';
+
+/** The population entries of the file as written (`population:` or `populations:`), in order. */
+function rawPopulations(survey: Survey): Record<string, unknown>[] {
+  const raw = survey.raw as { population?: unknown; populations?: unknown } | null | undefined;
+  const list = Array.isArray(raw?.populations) ? raw!.populations : raw?.population !== undefined ? [raw.population] : [];
+  return list.map((p) => (p && typeof p === 'object' && !Array.isArray(p) ? (p as Record<string, unknown>) : {}));
+}
+
+/**
+ * The assumed model of each population for people: name, shape and variable as used, every
+ * parameter key as the user wrote it (so log10_l_star stays log10_l_star), and one line with the
+ * values at the middle of the window.
+ */
+export function modelsForPeople(survey: Survey, prediction: Prediction): ModelDescription[] {
+  const raws = rawPopulations(survey);
+  return prediction.models.map((m, k) => {
+    const raw = raws[k] ?? {};
+    const out: ModelDescription = { name: m.name, shape: m.shape, variable: m.variable };
+    if (m.quantity) out.quantity = m.quantity;
+    for (const [key, value] of Object.entries(raw)) {
+      if (key === 'name' || key === 'shape' || key === 'variable' || key === 'quantity') continue;
+      out[key] = value;
+    }
+    out.values_used = m.summary.replace(/^[^:]*:\s*/, '');
+    return out;
+  });
+}
+
+/** One slice in the figure layer's shape, with the luminosity function of `population` drawn at its middle. */
+function sliceJson(s: PredictionSlice, curveOf?: (s: PredictionSlice) => SliceJson['luminosity_function']): SliceJson {
+  const out: SliceJson = {
+    z_min: s.z_min,
+    z_max: s.z_max,
+    volume_mpc3: s.volume_mpc3,
+    count: s.count,
+    per_deg2: s.per_deg2,
+    limit_at_center: s.limit_at_center,
+    histogram: s.histogram,
+  };
+  if (s.uncertainty) out.uncertainty = s.uncertainty;
+  if (curveOf) out.luminosity_function = curveOf(s);
+  return out;
+}
+
+function curveFor(survey: Survey, p: Population) {
+  const label = curveAxisLabel(p, survey.detection.kind === 'threshold');
+  return (s: PredictionSlice) => luminosityFunctionCurve(p, 0.5 * (s.z_min + s.z_max), s.limit_at_center, { xLabel: label });
+}
+
+/**
+ * The prediction as the figures and the report read it. With one population the slices carry
+ * its luminosity function; with several, `perPopulation` holds one such view per population
+ * (its own slices, limits and curves) and the combined view carries none.
+ */
+export function predictionViews(survey: Survey, prediction: Prediction): { combined: PredictionJson; perPopulation: PredictionJson[] } {
+  const models = modelsForPeople(survey, prediction);
+  const base = {
+    format: prediction.format,
+    title: prediction.title,
+    cosmology: prediction.cosmology,
+    area_deg2: prediction.area_deg2,
+    redshift: prediction.redshift,
+  };
+  const single = survey.populations.length === 1;
+  const combined: PredictionJson = {
+    ...base,
+    totals: prediction.totals,
+    slices: prediction.slices.map((s) => sliceJson(s, single ? curveFor(survey, survey.populations[0]!) : undefined)),
+    model: single ? models[0]! : models,
+  };
+  const perPopulation = single
+    ? [combined]
+    : prediction.populations.map((pp, k) => ({
+        ...base,
+        totals: pp.totals,
+        slices: pp.slices.map((s) => sliceJson(s, curveFor(survey, survey.populations[k]!))),
+        model: models[k]!,
+      }));
+  return { combined, perPopulation };
+}
+
+/**
+ * Every figure of a prediction (counts, histograms, luminosity function; one luminosity-function
+ * figure per population when there are several), then the forecast and plan figures when given.
+ */
+export async function drawFigures(
+  survey: Survey,
+  prediction: Prediction,
+  extra: { forecast?: ForecastJson; plan?: PlanJson } = {},
+): Promise<Figure[]> {
+  const { combined, perPopulation } = predictionViews(survey, prediction);
+  const main = await buildFigures({
+    prediction: combined,
+    model: perPopulation.length === 1 ? (combined.model as ModelDescription) : undefined,
+    ...extra,
+    surveyTitle: prediction.title,
+  });
+  if (perPopulation.length === 1) return main;
+  const lf = await Promise.all(
+    perPopulation.map(async (v, k) => {
+      const f = await luminosityFunctionFigure(v, v.model as ModelDescription);
+      return f ? { ...f, name: `${f.name}-${k + 1}` } : null;
+    }),
+  );
+  // keep the fixed order: counts, histograms, luminosity function(s), forecast, plan
+  const at = main.findIndex((f) => f.name === 'forecast' || f.name === 'plan');
+  const head = at < 0 ? main : main.slice(0, at);
+  const tail = at < 0 ? [] : main.slice(at);
+  return [...head, ...lf.filter((f): f is Figure => f !== null), ...tail];
+}
+
+/**
+ * Check a --figures directory before anything is computed: it may be missing (it is created) or
+ * an existing directory; anything else is bad input.
+ */
+export function checkFiguresDir(io: CliIO, dir: string): string {
+  const path = resolve(io.cwd, dir);
+  let st;
+  try {
+    st = statSync(path);
+  } catch (e) {
+    if ((e as { code?: string }).code === 'ENOENT') return path;
+    throw inputError('bad_option', '', '--figures', `the directory ${dir} cannot be used (${(e as { code?: string }).code ?? String(e)})`, 'give a directory you can write to');
+  }
+  if (!st.isDirectory()) {
+    throw inputError('bad_option', '', '--figures', `${dir} exists and is not a directory`, 'give a directory, or a path that does not exist yet');
+  }
+  return path;
+}
+
+/** Write figures to DIR as SVG (and PNG when the rasteriser loads); returns the paths written. */
+export async function saveFigures(io: CliIO, dir: string, figures: Figure[]): Promise<string[]> {
+  const { writeFigures } = await import('../render/write-figures.js');
+  let result;
+  try {
+    result = await writeFigures(dir, figures);
+  } catch (e) {
+    const code = (e as { code?: string }).code;
+    if (code === 'ENOTDIR' || code === 'EEXIST' || code === 'EACCES' || code === 'EROFS' || code === 'EPERM') {
+      throw inputError('bad_option', '', '--figures', `the figures cannot be written to ${dir} (${code})`, 'give a directory you can write to');
+    }
+    throw e;
+  }
+  if (result.pngSkipped) io.stderr(`skytally: ${result.pngSkipped}; SVG written.\n`);
+  return result.files;
+}

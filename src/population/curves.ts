@@ -1,0 +1,99 @@
+/**
+ * The assumed luminosity function at one redshift, tabulated for plotting.
+ *
+ * For a luminosity variable the curve is the number density per dex,
+ *   phi(log10 L) = ln10 sum_c phi*_c (L/L*)^(alpha_c+1) exp(-L/L*)   [Mpc^-3 dex^-1],
+ * and for a magnitude variable the density per magnitude,
+ *   phi(M) = 0.4 ln10 sum_c phi*_c 10^(0.4 (alpha_c+1) (M*-M)) exp(-10^(0.4 (M*-M)))   [Mpc^-3 mag^-1]
+ * (schechterPerDex and schechterMagnitude in schechter.ts; Schechter 1976, ApJ 203, 297), with
+ * the parameters the count engine uses at that redshift (populationAt in model.ts).
+ *
+ * The grid runs from well above the knee (where the exponential has cut the density by many
+ * decades) down past the limit, so that the detected part and the knee can both be drawn.
+ */
+import type { Population } from '../survey/types.js';
+import { populationAt } from './model.js';
+import { schechterMagnitude, schechterPerDex } from './schechter.js';
+
+/** One curve, in the shape the figure layer draws (src/render/types.ts LuminosityFunctionCurve). */
+export interface LuminosityFunctionCurve {
+  /** log10 L (erg/s, or log10 of the quantity) or absolute AB magnitude M; ascending. */
+  x: number[];
+  /** Number density per unit of x: Mpc^-3 dex^-1 (luminosity) or Mpc^-3 mag^-1 (magnitude). */
+  phi: number[];
+  /** The limit at this redshift, in x. */
+  limit: number;
+  /** log10 L* or M* at this redshift. */
+  knee: number;
+  /** Axis label with units. */
+  x_label: string;
+}
+
+export interface CurveOptions {
+  /** Grid step in x: dex for luminosity, mag for magnitude (default 0.02 dex, 0.05 mag). */
+  step?: number;
+  /** Axis label; default from the variable (and the quantity, when given). */
+  xLabel?: string;
+}
+
+/** Dex above the knee the curve reaches (u = L/L* = 10^1.2 ~ 16: exp(-u) ~ 1e-7). */
+export const DEX_ABOVE_KNEE = 1.2;
+/** Dex below the knee the curve reaches at least. */
+export const DEX_BELOW_KNEE = 3;
+/** Dex the curve runs past the limit on its faint side. */
+export const DEX_PAST_LIMIT = 0.5;
+/** The faint end never runs further than this below the knee (a limit far fainter is off the plot). */
+export const MAX_DEX_BELOW_KNEE = 8;
+
+/** Default axis label for a population's variable. */
+export function curveAxisLabel(p: Population, threshold: boolean): string {
+  if (p.variable === 'magnitude') return 'absolute AB magnitude M [mag]';
+  if (threshold) {
+    const q = p.quantity?.trim();
+    return q ? `log₁₀ ${q}` : 'log₁₀ quantity';
+  }
+  return 'log₁₀ L [erg s⁻¹]';
+}
+
+/**
+ * The luminosity function of `p` at redshift `z`, with the limit `limit` (log10 L, or M) marked.
+ * Throws when the population's parameters are not finite there (the loader checks the window,
+ * so this happens only for z outside it).
+ */
+export function luminosityFunctionCurve(
+  p: Population,
+  z: number,
+  limit: number,
+  options: CurveOptions = {},
+): LuminosityFunctionCurve {
+  const at = populationAt(p, z);
+  const magnitude = p.variable === 'magnitude';
+  const knee = magnitude ? at.characteristic : Math.log10(at.characteristic);
+  if (!Number.isFinite(knee) || !Number.isFinite(limit)) {
+    throw new Error(`luminosity function at z = ${z}: the knee or the limit is not a finite number`);
+  }
+  // Work in dex of luminosity: d = log10(L/L*); for magnitudes d = 0.4 (M* - M).
+  const limitDex = magnitude ? 0.4 * (knee - limit) : limit - knee;
+  const faintDex = Math.max(-MAX_DEX_BELOW_KNEE, Math.min(-DEX_BELOW_KNEE, limitDex - DEX_PAST_LIMIT));
+  const brightDex = DEX_ABOVE_KNEE;
+  const step = options.step ?? (magnitude ? 0.125 : 0.05);
+  if (!(step > 0)) throw new Error('luminosity function: the grid step must be positive');
+  // x from the low end to the high end of the range, ascending.
+  const lo = magnitude ? knee - 2.5 * brightDex : knee + faintDex;
+  const hi = magnitude ? knee - 2.5 * faintDex : knee + brightDex;
+  // (the 1e-9 keeps a range that is a whole number of steps from ending in a repeated point)
+  const n = Math.max(2, Math.ceil((hi - lo) / step - 1e-9) + 1);
+  const x: number[] = [];
+  const phi: number[] = [];
+  for (let i = 0; i < n; i++) {
+    const xi = i === n - 1 ? hi : lo + i * step;
+    let v = 0;
+    for (const c of at.components) {
+      v += magnitude ? schechterMagnitude(xi, c.phiStar, knee, c.alpha) : schechterPerDex(xi, c.phiStar, knee, c.alpha);
+    }
+    if (!Number.isFinite(v)) throw new Error(`luminosity function at z = ${z}: phi is not finite at x = ${xi}`);
+    x.push(xi);
+    phi.push(v);
+  }
+  return { x, phi, limit, knee, x_label: options.xLabel ?? curveAxisLabel(p, false) };
+}

@@ -1,0 +1,126 @@
+/**
+ * The luminosity function tabulated for the figures (src/population/curves.ts).
+ * Expected values are the Schechter (1976, ApJ 203, 297) form written out by hand in closed form
+ * at chosen points (per dex: ln10 phi* u^(alpha+1) e^-u with u = L/L*; per magnitude:
+ * 0.4 ln10 phi* u^(alpha+1) e^-u with u = 10^(0.4 (M* - M))), plus the library's
+ * schechterPerDex / schechterMagnitude on the whole grid. Tolerance: relative 1e-12.
+ */
+import { describe, expect, test } from 'vitest';
+import { loadSurveyText } from '../../src/survey/index.js';
+import { luminosityFunctionCurve, DEX_ABOVE_KNEE, DEX_BELOW_KNEE } from '../../src/population/curves.js';
+import { schechterMagnitude, schechterPerDex } from '../../src/population/schechter.js';
+
+const REL = 1e-12;
+const rel = (a: number, b: number) => Math.abs(a / b - 1);
+
+/** phi at x, read off the grid (the point must be on it to 1e-9). */
+function at(curve: { x: number[]; phi: number[] }, x: number): number {
+  const i = curve.x.findIndex((v) => Math.abs(v - x) < 1e-9);
+  if (i < 0) throw new Error(`x = ${x} is not on the grid`);
+  return curve.phi[i]!;
+}
+
+const luminositySurvey = loadSurveyText(
+  `format: 1
+title: curve test, luminosity
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1
+redshift: {min: 0.5, max: 1.5}
+detection: {kind: line_flux, limit: 1e-16, line: 6563}
+population:
+  variable: luminosity
+  phi_star: "1e-3 * (1 + z)"
+  log10_l_star: "42 + 0.5*z"
+  alpha: -1.4
+`,
+  'curve-lum.yaml',
+);
+
+const magnitudeSurvey = loadSurveyText(
+  `format: 1
+title: curve test, magnitude
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1
+redshift: {min: 3, max: 5}
+detection: {kind: magnitude, limit: 28, band: "1.5 um"}
+population:
+  variable: magnitude
+  rest_wavelength: 1500
+  phi_star: 2e-3
+  m_star: "-21 + 0.2*(z - 4)"
+  alpha: "-1.7 - 0.1*(z - 4)"
+`,
+  'curve-mag.yaml',
+);
+
+describe('per dex, luminosity variable (closed form)', () => {
+  const z = 1;
+  const phiStar = 2e-3; // 1e-3 (1 + z)
+  const knee = 42.5; // 42 + 0.5 z
+  const alpha = -1.4;
+  const curve = luminosityFunctionCurve(luminositySurvey.populations[0]!, z, 41.3, { step: 0.05 });
+
+  test('knee and limit are handed through', () => {
+    expect(curve.knee).toBeCloseTo(knee, 12);
+    expect(curve.limit).toBe(41.3);
+    expect(curve.x_label).toBe('log₁₀ L [erg s⁻¹]');
+  });
+
+  test('at the knee phi = ln10 phi* / e (u = 1), rel 1e-12', () => {
+    expect(rel(at(curve, knee), (Math.LN10 * phiStar) / Math.E)).toBeLessThan(REL);
+  });
+
+  test.each([-2, -1, 0.5, 1])('at log10 L = knee %+f: ln10 phi* u^(alpha+1) exp(-u), rel 1e-12', (d) => {
+    const u = 10 ** d;
+    const expected = Math.LN10 * phiStar * u ** (alpha + 1) * Math.exp(-u);
+    expect(rel(at(curve, knee + d), expected)).toBeLessThan(REL);
+  });
+
+  test('every grid point equals schechterPerDex, ascending x, no non-finite value', () => {
+    curve.x.forEach((x, i) => {
+      expect(rel(curve.phi[i]!, schechterPerDex(x, phiStar, knee, alpha))).toBeLessThan(REL);
+      if (i > 0) expect(x).toBeGreaterThan(curve.x[i - 1]!);
+    });
+    expect(curve.phi.every(Number.isFinite)).toBe(true);
+  });
+
+  test('the grid covers the knee and runs down past the limit', () => {
+    expect(curve.x[0]).toBeLessThanOrEqual(Math.min(knee - DEX_BELOW_KNEE, curve.limit - 0.5) + 1e-9);
+    expect(curve.x[curve.x.length - 1]).toBeCloseTo(knee + DEX_ABOVE_KNEE, 9);
+  });
+
+  test('a limit 5 dex below the knee pulls the faint end past it', () => {
+    const deep = luminosityFunctionCurve(luminositySurvey.populations[0]!, z, knee - 5);
+    expect(deep.x[0]).toBeLessThan(knee - 5);
+  });
+});
+
+describe('per magnitude, magnitude variable (closed form)', () => {
+  const z = 5;
+  const phiStar = 2e-3;
+  const mStar = -20.8; // -21 + 0.2 (z - 4)
+  const alpha = -1.8; // -1.7 - 0.1 (z - 4)
+  const curve = luminosityFunctionCurve(magnitudeSurvey.populations[0]!, z, -18.3);
+
+  test('knee is M* at z', () => {
+    expect(curve.knee).toBeCloseTo(mStar, 12);
+    expect(curve.x_label).toBe('absolute AB magnitude M [mag]');
+  });
+
+  test('at M = M*: 0.4 ln10 phi* / e, rel 1e-12', () => {
+    // grid points are M* - 3 + k * 0.125 (default step): M* is on the grid
+    expect(rel(at(curve, mStar), (0.4 * Math.LN10 * phiStar) / Math.E)).toBeLessThan(REL);
+  });
+
+  test.each([-2.5, -1, 2.5, 5])('at M = M* %+f: 0.4 ln10 phi* u^(alpha+1) exp(-u), u = 10^(0.4 (M* - M)), rel 1e-12', (dm) => {
+    const u = 10 ** (0.4 * -dm);
+    const expected = 0.4 * Math.LN10 * phiStar * u ** (alpha + 1) * Math.exp(-u);
+    expect(rel(at(curve, mStar + dm), expected)).toBeLessThan(REL);
+  });
+
+  test('every grid point equals schechterMagnitude; the faint end is past the limit', () => {
+    curve.x.forEach((x, i) => expect(rel(curve.phi[i]!, schechterMagnitude(x, phiStar, mStar, alpha))).toBeLessThan(REL));
+    expect(curve.x[curve.x.length - 1]!).toBeGreaterThan(curve.limit);
+    expect(curve.x[0]!).toBeCloseTo(mStar - 2.5 * DEX_ABOVE_KNEE, 9);
+  });
+});

@@ -1,0 +1,163 @@
+/**
+ * The report of every sample, made by the real `report` command (run(argv, io)), opened in a
+ * real headless browser (Debian's chromium driven by playwright-core, the flags of issue 6):
+ * no console or page error, every figure drawn with a non-zero size, no request beyond the
+ * document, a screenshot in test-output/. A survey whose title holds HTML and script, also made
+ * through the command, is shown as text and never run. Skipped, with a message, only when
+ * /usr/bin/chromium is absent (.ci/run installs it through .ci/chromium.sh).
+ */
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { afterAll, beforeAll, describe, expect, test } from 'vitest';
+import { chromium, type BrowserContext } from 'playwright-core';
+import { runCli } from '../cli/helpers.js';
+
+const CHROMIUM = '/usr/bin/chromium';
+const haveChromium = existsSync(CHROMIUM);
+if (!haveChromium) console.warn(`browser test skipped: ${CHROMIUM} is absent (.ci/run installs it with .ci/chromium.sh)`);
+
+const OUT = resolve('test-output');
+const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml')).map((f) => f.replace(/\.yaml$/, ''));
+const HOSTILE_TITLE = `Field <script>window.__pwned = 1</script> "><img src=x onerror="window.__pwned=2"> </svg><script>window.__pwned=3</script>`;
+
+interface Opened {
+  requests: string[];
+  consoleErrors: string[];
+  pageErrors: string[];
+  figureBoxes: { name: string; width: number; height: number; marks: number }[];
+  figureNames: string[];
+  pwned: unknown;
+  scripts: number;
+  images: number;
+  title: string | null;
+  docTitle: string;
+  surveyText: string | null;
+  warningVisible: boolean;
+  screenshotBytes: number;
+}
+
+describe.skipIf(!haveChromium)('reports made by the command, in headless chromium', () => {
+  let context: BrowserContext;
+  let userData: string;
+  const opened = new Map<string, Opened>();
+  let hostileText = '';
+
+  async function open(name: string, htmlPath: string): Promise<Opened> {
+    const page = await context.newPage();
+    const url = pathToFileURL(htmlPath).href;
+    const o: Opened = {
+      requests: [],
+      consoleErrors: [],
+      pageErrors: [],
+      figureBoxes: [],
+      figureNames: [],
+      pwned: undefined,
+      scripts: 0,
+      images: 0,
+      title: null,
+      docTitle: '',
+      surveyText: null,
+      warningVisible: false,
+      screenshotBytes: 0,
+    };
+    page.on('request', (r) => {
+      if (r.url() !== url && !r.url().startsWith('data:')) o.requests.push(r.url());
+    });
+    page.on('console', (m) => {
+      if (m.type() === 'error') o.consoleErrors.push(m.text());
+    });
+    page.on('pageerror', (e) => o.pageErrors.push(String(e)));
+    await page.goto(url, { waitUntil: 'load' });
+    const figures = page.locator('figure.figure');
+    for (let i = 0; i < (await figures.count()); i++) {
+      const f = figures.nth(i);
+      const id = (await f.getAttribute('id'))!.replace(/^figure-/, '');
+      const svg = f.locator(':scope > svg');
+      const box = await svg.boundingBox();
+      const marks = await svg.evaluate((el) => (el.namespaceURI === 'http://www.w3.org/2000/svg' ? el.querySelectorAll('path, line, text').length : -1));
+      o.figureNames.push(id);
+      o.figureBoxes.push({ name: id, width: box?.width ?? 0, height: box?.height ?? 0, marks });
+    }
+    o.pwned = await page.evaluate(() => (globalThis as unknown as { __pwned?: number }).__pwned);
+    o.scripts = await page.locator('script').count();
+    o.images = await page.locator('img').count();
+    o.title = await page.locator('#survey-title').textContent();
+    o.docTitle = await page.title();
+    o.surveyText = await page.locator('pre.survey').textContent();
+    o.warningVisible = await page.locator('#model .warning').isVisible();
+    o.screenshotBytes = (await page.screenshot({ path: join(OUT, `report-${name}.png`), fullPage: true })).length;
+    await page.close();
+    return o;
+  }
+
+  beforeAll(async () => {
+    mkdirSync(OUT, { recursive: true });
+    const jobs: [string, string][] = [];
+    for (const s of SAMPLES) {
+      const out = join(OUT, `report-${s}.html`);
+      const r = await runCli(['report', `samples/${s}.yaml`, '--out', out]);
+      if (r.code !== 0) throw new Error(`report ${s}: ${r.stderr}`);
+      jobs.push([s, out]);
+    }
+    const dir = mkdtempSync(join(tmpdir(), 'skytally-hostile-'));
+    const input = join(dir, 'hostile.yaml');
+    hostileText = readFileSync('samples/halpha-narrowband.yaml', 'utf8').replace(/^title:.*$/m, `title: '${HOSTILE_TITLE}'`);
+    writeFileSync(input, hostileText);
+    const hostileOut = join(OUT, 'report-hostile-title.html');
+    const r = await runCli(['report', input, '--out', hostileOut]);
+    if (r.code !== 0) throw new Error(`report hostile: ${r.stderr}`);
+    jobs.push(['hostile-title', hostileOut]);
+
+    userData = mkdtempSync(join(tmpdir(), 'skytally-chromium-'));
+    context = await chromium.launchPersistentContext(userData, {
+      executablePath: CHROMIUM,
+      headless: true,
+      args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--no-first-run', '--disable-sync'],
+      viewport: { width: 1280, height: 900 },
+    });
+    for (const [name, path] of jobs) opened.set(name, await open(name, path));
+  });
+
+  afterAll(async () => {
+    await context?.close();
+    if (userData) rmSync(userData, { recursive: true, force: true });
+  });
+
+  describe.each([...SAMPLES, 'hostile-title'])('%s', (name) => {
+    test('no console error, no page error, no network request', () => {
+      const o = opened.get(name)!;
+      expect(o.consoleErrors).toEqual([]);
+      expect(o.pageErrors).toEqual([]);
+      expect(o.requests).toEqual([]);
+    });
+
+    test('every figure is present (counts, histograms, luminosity function) with a non-zero size', () => {
+      const o = opened.get(name)!;
+      expect(o.figureNames.slice(0, 3)).toEqual(['counts', 'histograms', 'luminosity-function']);
+      for (const b of o.figureBoxes) {
+        expect(b.width, b.name).toBeGreaterThan(100);
+        expect(b.height, b.name).toBeGreaterThan(100);
+        expect(b.marks, b.name).toBeGreaterThan(10);
+      }
+    });
+
+    test('the assumed-model warning is visible; a screenshot was written', () => {
+      const o = opened.get(name)!;
+      expect(o.warningVisible).toBe(true);
+      expect(o.screenshotBytes).toBeGreaterThan(10_000);
+      expect(existsSync(join(OUT, `report-${name}.png`))).toBe(true);
+    });
+  });
+
+  test('a hostile title is shown as text and never run', () => {
+    const o = opened.get('hostile-title')!;
+    expect(o.pwned).toBeUndefined();
+    expect(o.scripts).toBe(0);
+    expect(o.images).toBe(0);
+    expect(o.title).toBe(HOSTILE_TITLE);
+    expect(o.docTitle).toBe(HOSTILE_TITLE);
+    expect(o.surveyText).toBe(hostileText);
+  });
+});
