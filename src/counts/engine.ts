@@ -19,7 +19,8 @@ import { gaussLegendreRule } from '../numerics/quadrature.js';
 import { upperGamma } from '../numerics/gamma.js';
 import { makeObserver, type HistogramVariable, type Observer } from '../selection/observe.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
-import { populationAt, type ParameterOffsets } from '../population/model.js';
+import { luminosityScale, populationAt, type ParameterOffsets } from '../population/model.js';
+import { componentsTotalLuminosity } from '../population/schechter.js';
 import { inputError } from '../errors.js';
 
 /** u = L/L* beyond which the population is negligible (exp(-40) ~ 4e-18). */
@@ -39,6 +40,12 @@ export interface SliceCount {
   count: number;
   limitAtCenter: number;
   histogram: Histogram;
+  /**
+   * Luminosity in the slice (area * integral dV j(z)), in the luminosity-density unit times Mpc^3
+   * (src/population/model.ts luminosityScale): of the detected sources (completeness-weighted) and,
+   * when every component has alpha > -2 at every node, of all sources. Absent with noHistogram.
+   */
+  luminosity?: { detected: number; total?: number };
 }
 
 export interface EngineOptions {
@@ -110,6 +117,8 @@ interface NodeState {
   a: number;
   log10ULimit: number;
   components: { phiStar: number; alpha: number }[];
+  /** What u = 1 stands for in luminosity-density units (L*, or L*_nu for a magnitude variable). */
+  lumScale: number;
 }
 
 /**
@@ -143,7 +152,9 @@ export function countPopulation(
     const limitAtCenter = center.limitInVariable;
     if (!(hi > lo)) {
       const e0 = roundEdge(Math.floor(center.obsLimit / width) * width);
-      out.push({ zMin, zMax, volumeMpc3, count: 0, limitAtCenter, histogram: { variable: observer.variable, edges: [e0, roundEdge(e0 + width)], counts: [0] } });
+      const empty: SliceCount = { zMin, zMax, volumeMpc3, count: 0, limitAtCenter, histogram: { variable: observer.variable, edges: [e0, roundEdge(e0 + width)], counts: [0] } };
+      if (!options.noHistogram) empty.luminosity = { detected: 0, total: 0 };
+      out.push(empty);
       continue;
     }
     const nodes = buildNodes(survey, population, cosmo, observer, lo, hi, options.offsets);
@@ -164,9 +175,85 @@ export function countPopulation(
     if (!Number.isFinite(result.count)) {
       throw inputError('not_finite', survey.file, 'population', `the count in the slice ${zMin}-${zMax} is not a finite number`, 'check the Schechter parameters and the limit');
     }
-    out.push({ zMin, zMax, volumeMpc3, count: result.count, limitAtCenter, histogram: result.histogram });
+    const slice: SliceCount = { zMin, zMax, volumeMpc3, count: result.count, limitAtCenter, histogram: result.histogram };
+    if (!options.noHistogram) {
+      const lum = sliceLuminosity(nodes, observer, completeness, breaks);
+      if (!Number.isFinite(lum.detected) || (lum.total !== undefined && !Number.isFinite(lum.total))) {
+        throw inputError('not_finite', survey.file, 'population', `the luminosity density in the slice ${zMin}-${zMax} is not a finite number`, 'check the Schechter parameters and the limit');
+      }
+      slice.luminosity = lum;
+    }
+    out.push(slice);
   }
   return out;
+}
+
+/**
+ * Luminosity of the detected sources and of all sources in a slice: sum over nodes of
+ * volumeWeight * lumScale * sum_c phi*_c * integral_{uLim}^inf u^(alpha_c+1) e^-u c(obs(u)) du
+ * (closed form phi* Gamma(alpha+2, uLim) where the completeness is constant, Gauss-Legendre panels
+ * where it varies), and the total phi* Gamma(alpha+2) (only when every alpha_c > -2).
+ */
+function sliceLuminosity(
+  nodes: NodeState[],
+  observer: Observer,
+  completeness: CompletenessFn | undefined,
+  breaks: { points: number[]; scale: number; varying: [number, number] } | undefined,
+): { detected: number; total?: number } {
+  let detected = 0;
+  let total: number | undefined = 0;
+  for (const nd of nodes) {
+    const jTot = componentsTotalLuminosity(nd.components);
+    if (jTot === undefined) total = undefined;
+    else if (total !== undefined) total += nd.volumeWeight * nd.lumScale * jTot;
+    if (!Number.isFinite(nd.log10ULimit)) continue;
+    detected += nd.volumeWeight * nd.lumScale * detectedLuminosityAtNode(nd, observer, completeness, breaks);
+  }
+  return total === undefined ? { detected } : { detected, total };
+}
+
+/** integral_{uLim}^inf sum_c phi*_c u^(alpha_c+1) e^-u c(obs(u)) du, in units of L* Mpc^-3. */
+export function detectedLuminosityAtNode(
+  nd: Pick<NodeState, 'a' | 'log10ULimit' | 'components'>,
+  observer: Pick<Observer, 'slope'>,
+  completeness: CompletenessFn | undefined,
+  breaks: { points: number[]; scale: number; varying: [number, number] } | undefined,
+): number {
+  const l10uLim = nd.log10ULimit;
+  const closed = (p: number, q: number): number => {
+    let j = 0;
+    for (const c of nd.components) {
+      const s = c.alpha + 2;
+      j += c.phiStar * (upperGamma(s, 10 ** p) - (q === Infinity ? 0 : upperGamma(s, 10 ** q)));
+    }
+    return j;
+  };
+  if (!completeness || !breaks) return closed(l10uLim, Infinity);
+  const slope = observer.slope;
+  const [vLo, vHi] = breaks.varying;
+  const b1 = (vLo - nd.a) / slope;
+  const b2 = (vHi - nd.a) / slope;
+  const lo = Math.min(b1, b2);
+  const hi = Math.max(b1, b2);
+  const cuts = [l10uLim];
+  if (lo > l10uLim) cuts.push(lo);
+  if (hi > l10uLim) cuts.push(hi);
+  cuts.push(Infinity);
+  let j = 0;
+  for (let i = 0; i + 1 < cuts.length; i++) {
+    const p = cuts[i]!;
+    const q = cuts[i + 1]!;
+    if (!(q > p)) continue;
+    const varying = p >= lo && q <= hi;
+    if (!varying) {
+      const probe = q === Infinity ? p + 1 : 0.5 * (p + q);
+      const c = completeness(nd.a + slope * probe);
+      if (c > 0) j += c * closed(p, q);
+    } else {
+      j += completeIntegral(nd, observer, p, q, completeness, breaks, 1);
+    }
+  }
+  return j;
 }
 
 function buildNodes(
@@ -199,6 +286,7 @@ function buildNodes(
       a: obs.a,
       log10ULimit: obs.log10ULimit,
       components: p.components,
+      lumScale: luminosityScale(population.variable, p.characteristic),
     });
   }
   return nodes;
@@ -294,7 +382,7 @@ function histogramCount(
           l10uHi = Math.max(l10uHi, Math.log10(uLim > 1 ? uLim + U_BRIGHT_SPAN : U_BRIGHT_SPAN));
         }
         if (!(l10uHi > l10uLo)) continue;
-        counts[b]! += nd.volumeWeight * completeInBin(nd, observer, l10uLo, l10uHi, completeness, breaks!);
+        counts[b]! += nd.volumeWeight * completeIntegral(nd, observer, l10uLo, l10uHi, completeness, breaks!, 0);
       }
     }
   }
@@ -305,14 +393,18 @@ function histogramCount(
 
 const PANEL_RULE = 8;
 
-/** integral over log10 u in [lo, hi] of phi(u) c(obs(u)) du, by Gauss-Legendre panels in ln u. */
-function completeInBin(
-  nd: NodeState,
-  observer: Observer,
+/**
+ * integral over log10 u in [lo, hi] of phi(u) u^power c(obs(u)) du, by Gauss-Legendre panels in
+ * ln u: power 0 gives the number density, power 1 the luminosity density (units of L* Mpc^-3).
+ */
+function completeIntegral(
+  nd: Pick<NodeState, 'a' | 'components'>,
+  observer: Pick<Observer, 'slope'>,
   l10lo: number,
   l10hi: number,
   completeness: CompletenessFn,
   breaks: { points: number[]; scale: number },
+  power: 0 | 1,
 ): number {
   const slope = observer.slope;
   // Panel boundaries: the bin ends, completeness break points inside, and a step no wider than
@@ -337,7 +429,7 @@ function completeInBin(
         const l10u = pa + 0.5 * h * (rule.nodes[q]! + 1);
         const u = 10 ** l10u;
         let phi = 0;
-        for (const c of nd.components) phi += c.phiStar * u ** (c.alpha + 1);
+        for (const c of nd.components) phi += c.phiStar * u ** (c.alpha + 1 + power);
         // du = u ln10 dlog10u
         total += 0.5 * h * rule.weights[q]! * LN10 * phi * Math.exp(-u) * completeness(nd.a + slope * l10u);
       }

@@ -16,6 +16,7 @@ export const predictCommand: CommandDef = {
     const { predict } = await import('../../counts/predict.js');
     const { predictionTable, predictionCsv } = await import('../../render/predict-table.js');
     const p = predict(survey);
+    for (const w of p.warnings) io.stderr(`skytally: warning: ${w}\n`);
     emit(io, opts, { json: () => p, table: () => predictionTable(p), csv: () => predictionCsv(p) }, [file]);
     return 0;
   },
