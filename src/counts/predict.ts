@@ -272,11 +272,13 @@ export function predictionWarnings(survey: Survey): string[] {
       }
     }
   }
-  const top = survey.redshift;
   for (const p of survey.populations) {
-    if (p.window.max <= top.min || p.window.min >= top.max) {
+    // Only explicit edges can leave a population's own slices outside its window.
+    const lo = p.sliceEdges[0]!;
+    const hi = p.sliceEdges[p.sliceEdges.length - 1]!;
+    if (p.window.max <= lo || p.window.min >= hi) {
       out.push(
-        `${p.name}: its window z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)} lies outside the slices (z = ${fmtNum(top.min)} to ${fmtNum(top.max)}); it counts 0 in its own slices, and observed_shares still covers its whole window`,
+        `${p.name}: its window z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)} lies outside the slice edges (z = ${fmtNum(lo)} to ${fmtNum(hi)}); it counts 0 in its own slices, and observed_shares still covers its whole window`,
       );
     }
   }
