@@ -274,7 +274,16 @@ function buildNodes(
     for (const c of p.components) n += c.phiStar * upperGamma(c.alpha + 1, u);
     return cosmo.differentialComovingVolumeMpc3Sr(zi) * n;
   };
-  const { z, w } = chooseRedshiftNodes(lo, hi, hardCount);
+  // Piecewise in z between the redshifts where the integrand has a kink (a threshold limit's
+  // table nodes, and where the limit crosses a histogram bin edge), each piece by convergence.
+  const cuts = [lo, ...limitBreaks(survey, lo, hi), hi];
+  const z: number[] = [];
+  const w: number[] = [];
+  for (let k = 0; k + 1 < cuts.length; k++) {
+    const piece = chooseRedshiftNodes(cuts[k]!, cuts[k + 1]!, hardCount);
+    z.push(...piece.z);
+    w.push(...piece.w);
+  }
   const nodes: NodeState[] = [];
   for (let i = 0; i < z.length; i++) {
     const zi = z[i]!;
@@ -290,6 +299,53 @@ function buildNodes(
     });
   }
   return nodes;
+}
+
+/**
+ * Redshifts strictly inside (lo, hi) where a threshold limit that varies with z has a kink (the
+ * nodes of a table) or crosses a multiple of the histogram bin width (where a bin's count has
+ * one). Empty for the other kinds, whose limit is fixed in the observed variable.
+ */
+export function limitBreaks(survey: Survey, lo: number, hi: number): number[] {
+  const d = survey.detection;
+  if (d.kind !== 'threshold' || d.limit.constant) return [];
+  const out: number[] = [];
+  const src = d.limit.source;
+  if (typeof src === 'object') for (const [zt] of src.table) if (zt > lo && zt < hi) out.push(zt);
+  const width = survey.histogramWidth;
+  const f = (z: number) => d.limit.at(z);
+  const N = 64;
+  let za = lo;
+  let fa = f(za);
+  for (let i = 1; i <= N; i++) {
+    const zb = lo + ((hi - lo) * i) / N;
+    const fb = f(zb);
+    const ka = Math.floor(fa / width);
+    const kb = Math.floor(fb / width);
+    if (ka !== kb && Number.isFinite(fa) && Number.isFinite(fb)) {
+      // every bin edge between the two samples, found by bisection
+      for (let k = Math.min(ka, kb) + 1; k <= Math.max(ka, kb); k++) {
+        const target = k * width;
+        let a = za;
+        let b = zb;
+        const sa = Math.sign(fa - target);
+        for (let it = 0; it < 60; it++) {
+          const m = 0.5 * (a + b);
+          if (Math.sign(f(m) - target) === sa) a = m;
+          else b = m;
+        }
+        const zc = 0.5 * (a + b);
+        if (zc > lo && zc < hi) out.push(zc);
+      }
+    }
+    za = zb;
+    fa = fb;
+  }
+  out.sort((x, y) => x - y);
+  // drop breaks closer than 1e-9 to each other or to the ends
+  const kept: number[] = [];
+  for (const x of out) if (x - lo > 1e-9 && hi - x > 1e-9 && (kept.length === 0 || x - kept[kept.length - 1]! > 1e-9)) kept.push(x);
+  return kept;
 }
 
 /** Histogram and total for one slice from its redshift nodes. */

@@ -66,9 +66,12 @@ export function madau1995Transmission(observedAngstrom: number, z: number): numb
 /**
  * Transmission averaged over a tabulated band for a source with f_lambda ~ lambda^beta, counted
  * in photons: <T> = integral T_igm S lambda^(beta+1) dlambda / integral S lambda^(beta+1) dlambda,
- * S the band's curve. Integrated by 8-point subdivision of every table interval, with the
- * wavelengths where the IGM transmission jumps (lambda_j (1+z), 912 (1+z)) added as nodes.
+ * S the band's curve. Midpoint rule on steps of at most 10 Angstrom (at least 8 per table
+ * interval), with the wavelengths where the IGM transmission jumps (lambda_j (1+z), 912 (1+z))
+ * added as nodes.
  */
+const SUB_MIN = 8;
+const SUB_STEP_ANGSTROM = 10;
 export function bandAveragedMadau1995(band: TransmissionTable, z: number, beta: number): number {
   const w = band.wavelengthAngstrom;
   const nodes = [...w];
@@ -77,13 +80,13 @@ export function bandAveragedMadau1995(band: TransmissionTable, z: number, beta: 
   const lo = w[0]!;
   const hi = w[w.length - 1]!;
   const grid = [...new Set(nodes.filter((x) => x >= lo && x <= hi))].sort((a, b) => a - b);
-  const SUB = 8;
   let num = 0;
   let den = 0;
   for (let k = 0; k + 1 < grid.length; k++) {
     const a = grid[k]!;
-    const h = (grid[k + 1]! - a) / SUB;
-    for (let s = 0; s < SUB; s++) {
+    const sub = Math.max(SUB_MIN, Math.ceil((grid[k + 1]! - a) / SUB_STEP_ANGSTROM));
+    const h = (grid[k + 1]! - a) / sub;
+    for (let s = 0; s < sub; s++) {
       // midpoint rule on each sub-step: never evaluates exactly at a jump
       const l = a + (s + 0.5) * h;
       const wgt = tableTransmission(band, l) * l ** (beta + 1) * h;
