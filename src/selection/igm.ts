@@ -66,12 +66,12 @@ export function madau1995Transmission(observedAngstrom: number, z: number): numb
 /**
  * Transmission averaged over a tabulated band for a source with f_lambda ~ lambda^beta, counted
  * in photons: <T> = integral T_igm S lambda^(beta+1) dlambda / integral S lambda^(beta+1) dlambda,
- * S the band's curve. Midpoint rule on steps of at most 10 Angstrom (at least 8 per table
+ * S the band's curve. Midpoint rule on steps of at most 2.5 Angstrom (at least 8 per table
  * interval), with the wavelengths where the IGM transmission jumps (lambda_j (1+z), 912 (1+z))
  * added as nodes.
  */
 const SUB_MIN = 8;
-const SUB_STEP_ANGSTROM = 10;
+const SUB_STEP_ANGSTROM = 2.5;
 export function bandAveragedMadau1995(band: TransmissionTable, z: number, beta: number): number {
   const w = band.wavelengthAngstrom;
   const nodes = [...w];
