@@ -89,14 +89,21 @@ function defaultNodeCount(z1: number, z2: number): number {
  * integrand is cheap, and its variation in z (volume, distance, filter transmission) is what the
  * full computation sees too.
  */
-export function chooseRedshiftNodes(z1: number, z2: number, f: (z: number) => number, rel = 1e-8): { z: number[]; w: number[] } {
-  let n = defaultNodeCount(z1, z2);
+export function chooseRedshiftNodes(
+  z1: number,
+  z2: number,
+  f: (z: number) => number,
+  rel = 1e-8,
+  nStart = defaultNodeCount(z1, z2),
+  abs = 0,
+): { z: number[]; w: number[] } {
+  let n = nStart;
   let prev = redshiftNodes(z1, z2, n);
   let prevSum = sumOver(prev, f);
   while (n < 256) {
     const next = redshiftNodes(z1, z2, 2 * n);
     const nextSum = sumOver(next, f);
-    if (Math.abs(nextSum - prevSum) <= rel * Math.abs(nextSum)) return prev;
+    if (Math.abs(nextSum - prevSum) <= Math.max(rel * Math.abs(nextSum), abs)) return prev;
     n *= 2;
     prev = next;
     prevSum = nextSum;
@@ -276,11 +283,21 @@ function buildNodes(
   };
   // Piecewise in z between the redshifts where the integrand has a kink (a threshold limit's
   // table nodes, and where the limit crosses a histogram bin edge), each piece by convergence.
-  const cuts = [lo, ...limitBreaks(survey, lo, hi), hi];
+  const inner = [...limitBreaks(survey, lo, hi), ...filterBreaks(survey, population, lo, hi)].sort((x, y) => x - y);
+  const cuts = [lo, ...inner, hi];
   const z: number[] = [];
   const w: number[] = [];
+  // With several pieces, each converges to 1e-8 of its own integral or 1e-9 of the whole slice's
+  // (a piece where the transmission falls to 0 holds almost nothing and need not converge alone).
+  let abs = 0;
+  if (inner.length > 0) {
+    let estimate = 0;
+    for (let k = 0; k + 1 < cuts.length; k++) estimate += sumOver(redshiftNodes(cuts[k]!, cuts[k + 1]!, 8), hardCount);
+    abs = 1e-9 * Math.abs(estimate);
+  }
   for (let k = 0; k + 1 < cuts.length; k++) {
-    const piece = chooseRedshiftNodes(cuts[k]!, cuts[k + 1]!, hardCount);
+    // Between breaks the integrand is smooth: start from 2 nodes when there are many pieces.
+    const piece = chooseRedshiftNodes(cuts[k]!, cuts[k + 1]!, hardCount, 1e-8, inner.length > 0 ? 2 : undefined, abs);
     z.push(...piece.z);
     w.push(...piece.w);
   }
@@ -346,6 +363,23 @@ export function limitBreaks(survey: Survey, lo: number, hi: number): number[] {
   const kept: number[] = [];
   for (const x of out) if (x - lo > 1e-9 && hi - x > 1e-9 && (kept.length === 0 || x - kept[kept.length - 1]! > 1e-9)) kept.push(x);
   return kept;
+}
+
+/**
+ * Redshifts strictly inside (lo, hi) where a tabulated filter's rows fall on the population's line
+ * (lambda_k / line - 1): the transmission, linear between rows, has a kink there.
+ */
+export function filterBreaks(survey: Survey, population: Population, lo: number, hi: number): number[] {
+  const d = survey.detection;
+  if (d.kind !== 'line_flux' || !d.filter?.table) return [];
+  const line = population.lineAngstrom ?? d.lineAngstrom;
+  if (line === undefined) return [];
+  const out: number[] = [];
+  for (const wl of d.filter.table.wavelengthAngstrom) {
+    const zk = wl / line - 1;
+    if (zk - lo > 1e-9 && hi - zk > 1e-9) out.push(zk);
+  }
+  return out;
 }
 
 /** Histogram and total for one slice from its redshift nodes. */

@@ -323,7 +323,8 @@ export function predict(survey: Survey): Prediction {
     cumulative += count;
     let lum: Lum | undefined = { detected: 0, total: 0 };
     for (const s of parts) lum = addLum(lum, s.luminosity);
-    const sc: SliceCount = { ...first, count, histogram: sumHistograms(parts.map((s) => s.histogram), width) };
+    const histogram = parts.length === 1 ? first.histogram : sumHistograms(parts.map((s) => s.histogram), width);
+    const sc: SliceCount = { ...first, count, histogram };
     if (lum && sameUnit) sc.luminosity = lum;
     else delete sc.luminosity;
     topCounts.push(sc);
@@ -357,17 +358,18 @@ export function predict(survey: Survey): Prediction {
   });
   const totals = totalsOf(topCounts, survey.areaDeg2, sameUnit ? units[0] : undefined);
   if (sfrPops.length > 0 && totals.luminosity_density) {
-    // Volume-weighted over the slices, like the luminosity density.
-    let det = 0;
-    let tot: number | undefined = 0;
-    for (const s of slices) {
-      const v = s.sfr_density_msun_yr_mpc3;
-      if (!v) continue;
-      det += v.detected * s.volume_mpc3;
-      tot = tot === undefined || v.total === undefined ? undefined : tot + v.total * s.volume_mpc3;
-    }
-    const sfr: SfrDensity = { detected: det / totals.volume_mpc3 };
-    if (tot !== undefined) sfr.total = tot / totals.volume_mpc3;
+    // sum over populations of factor x (their luminosity inside the slices / the slices' volume)
+    const sfr: SfrDensity = { detected: 0, total: 0 };
+    survey.populations.forEach((p, k) => {
+      if (!p.sfrConversion) return;
+      let lum: Lum | undefined = { detected: 0, total: 0 };
+      for (const s of runs[k]!.onTop) lum = addLum(lum, s.luminosity);
+      const sp = sfrOf(densityOf(lum, totals.volume_mpc3, units[k]!), p.sfrConversion.factor);
+      if (!sp) return;
+      sfr.detected += sp.detected;
+      if (sfr.total !== undefined) sfr.total = sp.total === undefined ? undefined : sfr.total + sp.total;
+    });
+    if (sfr.total === undefined) delete sfr.total;
     totals.sfr_density_msun_yr_mpc3 = sfr;
   }
 
