@@ -6,10 +6,19 @@
  *   const p = predict(loadSurveyFile('samples/line-search.yaml'));
  *   console.log(p.totals.count);
  */
-export type { Survey, Cosmology, Detection, Population, ZParam, Completeness, Filter } from './survey/types.js';
+export type { Survey, Cosmology, Detection, Population, ZParam, Completeness, Filter, TransmissionTable, SfrConversion } from './survey/types.js';
 export { SurveyError, type ErrorCode } from './errors.js';
-export { loadSurveyFile, loadSurveyText, parseSurveyObject, describeSurvey } from './survey/index.js';
-export { predict, type Prediction, type PredictionSlice, type PredictionTotals, type PopulationPrediction } from './counts/predict.js';
+export { loadSurveyFile, loadSurveyText, parseSurveyObject, describeSurvey, populationByName } from './survey/index.js';
+export {
+  predict,
+  type Prediction,
+  type PredictionSlice,
+  type PredictionTotals,
+  type PopulationPrediction,
+  type ObservedShares,
+  type LuminosityDensity,
+  type SfrDensity,
+} from './counts/predict.js';
 export { countPopulation, type SliceCount, type Histogram } from './counts/engine.js';
 export { FlatLambdaCDM } from './cosmology/flat-lcdm.js';
 export { resolveCosmology, PRESETS, type CosmologyPreset, type CosmologyInput } from './cosmology/presets.js';
@@ -22,7 +31,13 @@ export {
   numberDensityAbove,
   luminosityDensityAbove,
   totalLuminosityDensity,
+  doubleSchechterLuminosity,
+  doubleSchechterMagnitude,
+  componentsNumberAbove,
+  componentsLuminosityAbove,
+  componentsTotalLuminosity,
   type SchechterComponent,
 } from './population/schechter.js';
 export { upperGamma } from './numerics/gamma.js';
+export { madau1995Transmission, bandAveragedMadau1995 } from './selection/igm.js';
 export { run, type CliIO } from './cli/index.js';

@@ -19,7 +19,8 @@ import { gaussLegendreRule } from '../numerics/quadrature.js';
 import { upperGamma } from '../numerics/gamma.js';
 import { makeObserver, type HistogramVariable, type Observer } from '../selection/observe.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
-import { populationAt, type ParameterOffsets } from '../population/model.js';
+import { luminosityScale, populationAt, type ParameterOffsets } from '../population/model.js';
+import { componentsTotalLuminosity } from '../population/schechter.js';
 import { inputError } from '../errors.js';
 
 /** u = L/L* beyond which the population is negligible (exp(-40) ~ 4e-18). */
@@ -39,6 +40,12 @@ export interface SliceCount {
   count: number;
   limitAtCenter: number;
   histogram: Histogram;
+  /**
+   * Luminosity in the slice (area * integral dV j(z)), in the luminosity-density unit times Mpc^3
+   * (src/population/model.ts luminosityScale): of the detected sources (completeness-weighted) and,
+   * when every component has alpha > -2 at every node, of all sources. Absent with noHistogram.
+   */
+  luminosity?: { detected: number; total?: number };
 }
 
 export interface EngineOptions {
@@ -82,14 +89,21 @@ function defaultNodeCount(z1: number, z2: number): number {
  * integrand is cheap, and its variation in z (volume, distance, filter transmission) is what the
  * full computation sees too.
  */
-export function chooseRedshiftNodes(z1: number, z2: number, f: (z: number) => number, rel = 1e-8): { z: number[]; w: number[] } {
-  let n = defaultNodeCount(z1, z2);
+export function chooseRedshiftNodes(
+  z1: number,
+  z2: number,
+  f: (z: number) => number,
+  rel = 1e-8,
+  nStart = defaultNodeCount(z1, z2),
+  abs = 0,
+): { z: number[]; w: number[] } {
+  let n = nStart;
   let prev = redshiftNodes(z1, z2, n);
   let prevSum = sumOver(prev, f);
   while (n < 256) {
     const next = redshiftNodes(z1, z2, 2 * n);
     const nextSum = sumOver(next, f);
-    if (Math.abs(nextSum - prevSum) <= rel * Math.abs(nextSum)) return prev;
+    if (Math.abs(nextSum - prevSum) <= Math.max(rel * Math.abs(nextSum), abs)) return prev;
     n *= 2;
     prev = next;
     prevSum = nextSum;
@@ -110,6 +124,8 @@ interface NodeState {
   a: number;
   log10ULimit: number;
   components: { phiStar: number; alpha: number }[];
+  /** What u = 1 stands for in luminosity-density units (L*, or L*_nu for a magnitude variable). */
+  lumScale: number;
 }
 
 /**
@@ -143,7 +159,9 @@ export function countPopulation(
     const limitAtCenter = center.limitInVariable;
     if (!(hi > lo)) {
       const e0 = roundEdge(Math.floor(center.obsLimit / width) * width);
-      out.push({ zMin, zMax, volumeMpc3, count: 0, limitAtCenter, histogram: { variable: observer.variable, edges: [e0, roundEdge(e0 + width)], counts: [0] } });
+      const empty: SliceCount = { zMin, zMax, volumeMpc3, count: 0, limitAtCenter, histogram: { variable: observer.variable, edges: [e0, roundEdge(e0 + width)], counts: [0] } };
+      if (!options.noHistogram) empty.luminosity = { detected: 0, total: 0 };
+      out.push(empty);
       continue;
     }
     const nodes = buildNodes(survey, population, cosmo, observer, lo, hi, options.offsets);
@@ -164,9 +182,85 @@ export function countPopulation(
     if (!Number.isFinite(result.count)) {
       throw inputError('not_finite', survey.file, 'population', `the count in the slice ${zMin}-${zMax} is not a finite number`, 'check the Schechter parameters and the limit');
     }
-    out.push({ zMin, zMax, volumeMpc3, count: result.count, limitAtCenter, histogram: result.histogram });
+    const slice: SliceCount = { zMin, zMax, volumeMpc3, count: result.count, limitAtCenter, histogram: result.histogram };
+    if (!options.noHistogram) {
+      const lum = sliceLuminosity(nodes, observer, completeness, breaks);
+      if (!Number.isFinite(lum.detected) || (lum.total !== undefined && !Number.isFinite(lum.total))) {
+        throw inputError('not_finite', survey.file, 'population', `the luminosity density in the slice ${zMin}-${zMax} is not a finite number`, 'check the Schechter parameters and the limit');
+      }
+      slice.luminosity = lum;
+    }
+    out.push(slice);
   }
   return out;
+}
+
+/**
+ * Luminosity of the detected sources and of all sources in a slice: sum over nodes of
+ * volumeWeight * lumScale * sum_c phi*_c * integral_{uLim}^inf u^(alpha_c+1) e^-u c(obs(u)) du
+ * (closed form phi* Gamma(alpha+2, uLim) where the completeness is constant, Gauss-Legendre panels
+ * where it varies), and the total phi* Gamma(alpha+2) (only when every alpha_c > -2).
+ */
+function sliceLuminosity(
+  nodes: NodeState[],
+  observer: Observer,
+  completeness: CompletenessFn | undefined,
+  breaks: { points: number[]; scale: number; varying: [number, number] } | undefined,
+): { detected: number; total?: number } {
+  let detected = 0;
+  let total: number | undefined = 0;
+  for (const nd of nodes) {
+    const jTot = componentsTotalLuminosity(nd.components);
+    if (jTot === undefined) total = undefined;
+    else if (total !== undefined) total += nd.volumeWeight * nd.lumScale * jTot;
+    if (!Number.isFinite(nd.log10ULimit)) continue;
+    detected += nd.volumeWeight * nd.lumScale * detectedLuminosityAtNode(nd, observer, completeness, breaks);
+  }
+  return total === undefined ? { detected } : { detected, total };
+}
+
+/** integral_{uLim}^inf sum_c phi*_c u^(alpha_c+1) e^-u c(obs(u)) du, in units of L* Mpc^-3. */
+export function detectedLuminosityAtNode(
+  nd: Pick<NodeState, 'a' | 'log10ULimit' | 'components'>,
+  observer: Pick<Observer, 'slope'>,
+  completeness: CompletenessFn | undefined,
+  breaks: { points: number[]; scale: number; varying: [number, number] } | undefined,
+): number {
+  const l10uLim = nd.log10ULimit;
+  const closed = (p: number, q: number): number => {
+    let j = 0;
+    for (const c of nd.components) {
+      const s = c.alpha + 2;
+      j += c.phiStar * (upperGamma(s, 10 ** p) - (q === Infinity ? 0 : upperGamma(s, 10 ** q)));
+    }
+    return j;
+  };
+  if (!completeness || !breaks) return closed(l10uLim, Infinity);
+  const slope = observer.slope;
+  const [vLo, vHi] = breaks.varying;
+  const b1 = (vLo - nd.a) / slope;
+  const b2 = (vHi - nd.a) / slope;
+  const lo = Math.min(b1, b2);
+  const hi = Math.max(b1, b2);
+  const cuts = [l10uLim];
+  if (lo > l10uLim) cuts.push(lo);
+  if (hi > l10uLim) cuts.push(hi);
+  cuts.push(Infinity);
+  let j = 0;
+  for (let i = 0; i + 1 < cuts.length; i++) {
+    const p = cuts[i]!;
+    const q = cuts[i + 1]!;
+    if (!(q > p)) continue;
+    const varying = p >= lo && q <= hi;
+    if (!varying) {
+      const probe = q === Infinity ? p + 1 : 0.5 * (p + q);
+      const c = completeness(nd.a + slope * probe);
+      if (c > 0) j += c * closed(p, q);
+    } else {
+      j += completeIntegral(nd, observer, p, q, completeness, breaks, 1);
+    }
+  }
+  return j;
 }
 
 function buildNodes(
@@ -187,7 +281,26 @@ function buildNodes(
     for (const c of p.components) n += c.phiStar * upperGamma(c.alpha + 1, u);
     return cosmo.differentialComovingVolumeMpc3Sr(zi) * n;
   };
-  const { z, w } = chooseRedshiftNodes(lo, hi, hardCount);
+  // Piecewise in z between the redshifts where the integrand has a kink (a threshold limit's
+  // table nodes, and where the limit crosses a histogram bin edge), each piece by convergence.
+  const inner = [...limitBreaks(survey, lo, hi), ...filterBreaks(survey, population, lo, hi)].sort((x, y) => x - y);
+  const cuts = [lo, ...inner, hi];
+  const z: number[] = [];
+  const w: number[] = [];
+  // With several pieces, each converges to 1e-8 of its own integral or 1e-9 of the whole slice's
+  // (a piece where the transmission falls to 0 holds almost nothing and need not converge alone).
+  let abs = 0;
+  if (inner.length > 0) {
+    let estimate = 0;
+    for (let k = 0; k + 1 < cuts.length; k++) estimate += sumOver(redshiftNodes(cuts[k]!, cuts[k + 1]!, 8), hardCount);
+    abs = 1e-9 * Math.abs(estimate);
+  }
+  for (let k = 0; k + 1 < cuts.length; k++) {
+    // Between breaks the integrand is smooth: start from 2 nodes when there are many pieces.
+    const piece = chooseRedshiftNodes(cuts[k]!, cuts[k + 1]!, hardCount, 1e-8, inner.length > 0 ? 2 : undefined, abs);
+    z.push(...piece.z);
+    w.push(...piece.w);
+  }
   const nodes: NodeState[] = [];
   for (let i = 0; i < z.length; i++) {
     const zi = z[i]!;
@@ -199,9 +312,74 @@ function buildNodes(
       a: obs.a,
       log10ULimit: obs.log10ULimit,
       components: p.components,
+      lumScale: luminosityScale(population.variable, p.characteristic),
     });
   }
   return nodes;
+}
+
+/**
+ * Redshifts strictly inside (lo, hi) where a threshold limit that varies with z has a kink (the
+ * nodes of a table) or crosses a multiple of the histogram bin width (where a bin's count has
+ * one). Empty for the other kinds, whose limit is fixed in the observed variable.
+ */
+export function limitBreaks(survey: Survey, lo: number, hi: number): number[] {
+  const d = survey.detection;
+  if (d.kind !== 'threshold' || d.limit.constant) return [];
+  const out: number[] = [];
+  const src = d.limit.source;
+  if (typeof src === 'object') for (const [zt] of src.table) if (zt > lo && zt < hi) out.push(zt);
+  const width = survey.histogramWidth;
+  const f = (z: number) => d.limit.at(z);
+  const N = 64;
+  let za = lo;
+  let fa = f(za);
+  for (let i = 1; i <= N; i++) {
+    const zb = lo + ((hi - lo) * i) / N;
+    const fb = f(zb);
+    const ka = Math.floor(fa / width);
+    const kb = Math.floor(fb / width);
+    if (ka !== kb && Number.isFinite(fa) && Number.isFinite(fb)) {
+      // every bin edge between the two samples, found by bisection
+      for (let k = Math.min(ka, kb) + 1; k <= Math.max(ka, kb); k++) {
+        const target = k * width;
+        let a = za;
+        let b = zb;
+        const sa = Math.sign(fa - target);
+        for (let it = 0; it < 60; it++) {
+          const m = 0.5 * (a + b);
+          if (Math.sign(f(m) - target) === sa) a = m;
+          else b = m;
+        }
+        const zc = 0.5 * (a + b);
+        if (zc > lo && zc < hi) out.push(zc);
+      }
+    }
+    za = zb;
+    fa = fb;
+  }
+  out.sort((x, y) => x - y);
+  // drop breaks closer than 1e-9 to each other or to the ends
+  const kept: number[] = [];
+  for (const x of out) if (x - lo > 1e-9 && hi - x > 1e-9 && (kept.length === 0 || x - kept[kept.length - 1]! > 1e-9)) kept.push(x);
+  return kept;
+}
+
+/**
+ * Redshifts strictly inside (lo, hi) where a tabulated filter's rows fall on the population's line
+ * (lambda_k / line - 1): the transmission, linear between rows, has a kink there.
+ */
+export function filterBreaks(survey: Survey, population: Population, lo: number, hi: number): number[] {
+  const d = survey.detection;
+  if (d.kind !== 'line_flux' || !d.filter?.table) return [];
+  const line = population.lineAngstrom ?? d.lineAngstrom;
+  if (line === undefined) return [];
+  const out: number[] = [];
+  for (const wl of d.filter.table.wavelengthAngstrom) {
+    const zk = wl / line - 1;
+    if (zk - lo > 1e-9 && hi - zk > 1e-9) out.push(zk);
+  }
+  return out;
 }
 
 /** Histogram and total for one slice from its redshift nodes. */
@@ -294,7 +472,7 @@ function histogramCount(
           l10uHi = Math.max(l10uHi, Math.log10(uLim > 1 ? uLim + U_BRIGHT_SPAN : U_BRIGHT_SPAN));
         }
         if (!(l10uHi > l10uLo)) continue;
-        counts[b]! += nd.volumeWeight * completeInBin(nd, observer, l10uLo, l10uHi, completeness, breaks!);
+        counts[b]! += nd.volumeWeight * completeIntegral(nd, observer, l10uLo, l10uHi, completeness, breaks!, 0);
       }
     }
   }
@@ -305,14 +483,18 @@ function histogramCount(
 
 const PANEL_RULE = 8;
 
-/** integral over log10 u in [lo, hi] of phi(u) c(obs(u)) du, by Gauss-Legendre panels in ln u. */
-function completeInBin(
-  nd: NodeState,
-  observer: Observer,
+/**
+ * integral over log10 u in [lo, hi] of phi(u) u^power c(obs(u)) du, by Gauss-Legendre panels in
+ * ln u: power 0 gives the number density, power 1 the luminosity density (units of L* Mpc^-3).
+ */
+function completeIntegral(
+  nd: Pick<NodeState, 'a' | 'components'>,
+  observer: Pick<Observer, 'slope'>,
   l10lo: number,
   l10hi: number,
   completeness: CompletenessFn,
   breaks: { points: number[]; scale: number },
+  power: 0 | 1,
 ): number {
   const slope = observer.slope;
   // Panel boundaries: the bin ends, completeness break points inside, and a step no wider than
@@ -337,7 +519,7 @@ function completeInBin(
         const l10u = pa + 0.5 * h * (rule.nodes[q]! + 1);
         const u = 10 ** l10u;
         let phi = 0;
-        for (const c of nd.components) phi += c.phiStar * u ** (c.alpha + 1);
+        for (const c of nd.components) phi += c.phiStar * u ** (c.alpha + 1 + power);
         // du = u ln10 dlog10u
         total += 0.5 * h * rule.weights[q]! * LN10 * phi * Math.exp(-u) * completeness(nd.a + slope * l10u);
       }

@@ -10,6 +10,7 @@
 import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
 import type { Population, Survey } from '../survey/types.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
+import { populationByName } from '../survey/select.js';
 import { inputError } from '../errors.js';
 import { buildDensityGrid } from './grid.js';
 import { fisherParts, marginaliseNormalisations, summariseFisher, type FisherSummary } from './fisher.js';
@@ -96,11 +97,20 @@ export interface Forecast {
   requirement?: Requirement;
 }
 
+/**
+ * The population of interest (by name, default the first). Forecasts vary the three parameters
+ * of a single Schechter function, so a double Schechter population is refused.
+ */
 export function choosePopulation(survey: Survey, name?: string): Population {
-  if (name === undefined) return survey.populations[0]!;
-  const p = survey.populations.find((q) => q.name === name);
-  if (!p) {
-    throw inputError('bad_option', survey.file, '--population', `no population is named "${name}"`, `use one of ${survey.populations.map((q) => `"${q.name}"`).join(', ')}`);
+  const p = populationByName(survey, name);
+  if (p.shape !== 'schechter') {
+    throw inputError(
+      'kind_mismatch',
+      survey.file,
+      'population.shape',
+      `forecasts and plans vary phi*, L* (or M*) and alpha of a single Schechter function, but "${p.name}" is ${p.shape}`,
+      'choose a single-Schechter population with --population, or describe this one with shape: schechter',
+    );
   }
   return p;
 }

@@ -14,7 +14,7 @@ export interface ParameterDescription {
 
 export interface ModelDescription {
   name: string;
-  shape: 'schechter';
+  shape: 'schechter' | 'double_schechter';
   variable: 'luminosity' | 'magnitude';
   quantity?: string;
   window: { min: number; max: number };
@@ -22,6 +22,10 @@ export interface ModelDescription {
   l_star?: ParameterDescription;
   m_star?: ParameterDescription;
   alpha: ParameterDescription;
+  /** double_schechter: both components (phi_star_mpc3 and alpha above are component 1). */
+  components?: { phi_star_mpc3: ParameterDescription; alpha: ParameterDescription }[];
+  /** sfr_conversion: the calibration and its factor (Msun/yr per erg/s, or per erg/s/Hz). */
+  sfr_conversion?: { name: string; factor: number; source: string };
   line_angstrom?: number;
   rest_wavelength_angstrom?: number;
   /** One line a person can read: "Schechter in luminosity: phi* = ..., L* = ..., alpha = ... (at z = ...)". */
@@ -53,17 +57,35 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
     summary: '',
   };
   if (p.quantity) d.quantity = p.quantity;
+  if (p.components.length > 1) {
+    d.components = p.components.map((c) => ({ phi_star_mpc3: describeParam(c.phiStar, zMid), alpha: describeParam(c.alpha, zMid) }));
+  }
+  if (p.sfrConversion) {
+    const eq: Record<string, string> = {
+      halpha: 'Kennicutt 1998 (ARA&A 36, 189), H-alpha',
+      oii: 'Kennicutt 1998 (ARA&A 36, 189), [OII]',
+      uv: 'Kennicutt 1998 (ARA&A 36, 189), UV continuum',
+      factor: 'given in the survey file',
+    };
+    d.sfr_conversion = { name: p.sfrConversion.name, factor: p.sfrConversion.factor, source: eq[p.sfrConversion.name]! };
+  }
   if (p.lStar) d.l_star = describeParam(p.lStar, zMid);
   if (p.mStar) d.m_star = describeParam(p.mStar, zMid);
   if (survey.detection.kind === 'line_flux') d.line_angstrom = p.lineAngstrom ?? survey.detection.lineAngstrom;
   if (survey.detection.kind === 'magnitude') d.rest_wavelength_angstrom = p.restWavelengthAngstrom;
-  const evolving = !p.phiStar.constant || !p.alpha.constant || !(p.lStar ?? p.mStar)!.constant;
+  const evolving = p.components.some((c) => !c.phiStar.constant || !c.alpha.constant) || !(p.lStar ?? p.mStar)!.constant;
   const knee =
     p.variable === 'luminosity'
       ? `L* = ${fmt(p.lStar!.at(zMid))}${survey.detection.kind === 'threshold' ? (p.quantity ? ` (${p.quantity})` : '') : ' erg/s'}`
       : `M* = ${fmt(p.mStar!.at(zMid))} AB`;
-  d.summary =
-    `${p.name}: Schechter function in ${p.variable}, phi* = ${fmt(p.phiStar.at(zMid))} Mpc^-3, ${knee}, ` +
-    `alpha = ${fmt(p.alpha.at(zMid))}${evolving ? ` (evolving; values at z = ${fmt(zMid)})` : ''}`;
+  const tail = evolving ? ` (evolving; values at z = ${fmt(zMid)})` : '';
+  if (p.components.length > 1) {
+    const parts = p.components.map((c, i) => `phi${i + 1}* = ${fmt(c.phiStar.at(zMid))} Mpc^-3, alpha${i + 1} = ${fmt(c.alpha.at(zMid))}`);
+    d.summary = `${p.name}: double Schechter function in ${p.variable}, ${knee}; ${parts.join('; ')}${tail}`;
+  } else {
+    d.summary =
+      `${p.name}: Schechter function in ${p.variable}, phi* = ${fmt(p.phiStar.at(zMid))} Mpc^-3, ${knee}, ` +
+      `alpha = ${fmt(p.alpha.at(zMid))}${tail}`;
+  }
   return d;
 }

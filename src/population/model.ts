@@ -5,6 +5,7 @@
  */
 import type { Population } from '../survey/types.js';
 import type { SchechterComponent } from './schechter.js';
+import { AB_ZERO_POINT, PC_CM } from '../cosmology/constants.js';
 
 /** Constant offsets applied at every z (used by forecasts; evolving parameters keep their shape). */
 export interface ParameterOffsets {
@@ -33,7 +34,20 @@ export function populationAt(p: Population, z: number, offsets?: ParameterOffset
     characteristic = p.mStar!.at(z) + (offsets?.characteristic ?? 0);
   }
   return {
-    components: [{ phiStar: p.phiStar.at(z) * phiScale, alpha: p.alpha.at(z) + dAlpha }],
+    components: p.components.map((c) => ({ phiStar: c.phiStar.at(z) * phiScale, alpha: c.alpha.at(z) + dAlpha })),
     characteristic,
   };
+}
+
+/** 4 pi (10 pc)^2 in cm^2: L_nu = 4 pi (10 pc)^2 10^(-0.4 (M + 48.60)) (Oke & Gunn 1983 AB zero point). */
+const FOUR_PI_10PC_CM2 = 4 * Math.PI * (10 * PC_CM) ** 2;
+
+/**
+ * The luminosity that u = 1 stands for, in the unit luminosity densities are given in: L* itself
+ * for a luminosity variable (erg/s, or the quantity's unit for threshold surveys); for a magnitude
+ * variable L*_nu = 4 pi (10 pc)^2 10^(-0.4 (M* + 48.60)) erg s^-1 Hz^-1 at the rest wavelength
+ * (the AB zero point of Oke & Gunn 1983).
+ */
+export function luminosityScale(variable: Population['variable'], characteristic: number): number {
+  return variable === 'luminosity' ? characteristic : FOUR_PI_10PC_CM2 * 10 ** (-0.4 * (characteristic + AB_ZERO_POINT));
 }

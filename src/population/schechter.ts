@@ -64,3 +64,47 @@ export function totalLuminosityDensity(phiStar: number, lStar: number, alpha: nu
   if (alpha <= -2) throw new Error('the total luminosity density diverges for alpha <= -2');
   return phiStar * lStar * gammaFn(alpha + 2);
 }
+
+/**
+ * Double Schechter function in luminosity, Mpc^-3 per unit L:
+ *   phi(L) dL = exp(-L/L*) [phi1* (L/L*)^alpha1 + phi2* (L/L*)^alpha2] dL/L*
+ * (two components sharing L*; the sum of two single Schechter functions).
+ */
+export function doubleSchechterLuminosity(
+  l: number,
+  lStar: number,
+  c1: SchechterComponent,
+  c2: SchechterComponent,
+): number {
+  const u = l / lStar;
+  return (Math.exp(-u) / lStar) * (c1.phiStar * u ** c1.alpha + c2.phiStar * u ** c2.alpha);
+}
+
+/**
+ * Double Schechter function in absolute magnitude, Mpc^-3 mag^-1, u = 10^(0.4 (M*-M)):
+ *   phi(M) dM = 0.4 ln10 exp(-u) [phi1* u^(alpha1+1) + phi2* u^(alpha2+1)] dM.
+ */
+export function doubleSchechterMagnitude(m: number, mStar: number, c1: SchechterComponent, c2: SchechterComponent): number {
+  const u = 10 ** (0.4 * (mStar - m));
+  return 0.4 * Math.LN10 * Math.exp(-u) * (c1.phiStar * u ** (c1.alpha + 1) + c2.phiStar * u ** (c2.alpha + 1));
+}
+
+/** Luminosity density above u for a sum of components, in units of L* Mpc^-3: sum phi*_c Gamma(alpha_c + 2, u). */
+export function componentsLuminosityAbove(u: number, components: readonly SchechterComponent[]): number {
+  let j = 0;
+  for (const c of components) j += c.phiStar * upperGamma(c.alpha + 2, u);
+  return j;
+}
+
+/**
+ * Total luminosity density of a sum of components, in units of L* Mpc^-3: sum phi*_c Gamma(alpha_c + 2);
+ * undefined when any alpha_c <= -2 (the integral diverges at the faint end).
+ */
+export function componentsTotalLuminosity(components: readonly SchechterComponent[]): number | undefined {
+  let j = 0;
+  for (const c of components) {
+    if (!(c.alpha > -2)) return undefined;
+    j += c.phiStar * gammaFn(c.alpha + 2);
+  }
+  return j;
+}

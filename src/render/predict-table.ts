@@ -57,12 +57,12 @@ export function predictionTable(p: Prediction): string {
   ];
   const pm = (count: number, u: { total_fraction: number } | undefined) => (u ? sig(count * u.total_fraction, 3) : '-');
   const table = new Table({ head, style: { head: [], border: [] } });
-  p.slices.forEach((s, i) => {
+  p.slices.forEach((s) => {
     table.push([
       `${zText(s.z_min)} - ${zText(s.z_max)}`,
       sig(s.volume_mpc3, 3),
       sig(s.limit_at_center, 4),
-      ...(multi ? p.populations.map((q) => sig(q.slices[i]!.count, 4)) : []),
+      ...(multi ? p.populations.map((q) => sig(s.population_counts?.[q.name] ?? 0, 4)) : []),
       sig(s.count, 4),
       pm(s.count, s.uncertainty),
       sig(s.per_deg2, 4),
@@ -73,7 +73,7 @@ export function predictionTable(p: Prediction): string {
     'total',
     sig(p.totals.volume_mpc3, 3),
     '',
-    ...(multi ? p.populations.map((q) => sig(q.totals.count, 4)) : []),
+    ...(multi ? p.populations.map((q) => sig(p.slices.reduce((a, s) => a + (s.population_counts?.[q.name] ?? 0), 0), 4)) : []),
     sig(p.totals.count, 4),
     pm(p.totals.count, p.totals.uncertainty),
     sig(p.totals.per_deg2, 4),
@@ -88,7 +88,46 @@ export function predictionTable(p: Prediction): string {
         `sigma_matter ${sig(u.sigma_matter, 3)} at z = ${zText(p.totals.mean_redshift ?? 0)}.`,
     );
   }
-  return [...predictionHeader(p), table.toString(), ...notes, FORECAST_CAVEAT, ''].join('\n');
+  return [...predictionHeader(p), table.toString(), ...notes, ...populationSummary(p), ...densitySummary(p), FORECAST_CAVEAT, ''].join('\n');
+}
+
+function pct(x: number): string {
+  return `${sig(100 * x, 3)}%`;
+}
+
+/** Several populations: their own totals, and each one's share of all detections (the interloper summary). */
+export function populationSummary(p: Prediction): string[] {
+  if (p.populations.length < 2) return [];
+  const all = p.all_populations.count;
+  const lines = [
+    `All populations over their own windows: ${sig(all, 4)} detections (${sig(p.all_populations.per_deg2, 4)} per deg^2); the table counts those inside its slices.`,
+  ];
+  const parts = p.populations.map(
+    (q) => `${q.name} ${sig(q.totals.count, 4)} (${all > 0 ? pct(q.totals.count / all) : '0%'}, z = ${zText(q.window.min)}-${zText(q.window.max)})`,
+  );
+  lines.push(`Share of all detections: ${parts.join('; ')}.`);
+  return lines;
+}
+
+function densityText(ld: NonNullable<Prediction['totals']['luminosity_density']>): string {
+  return ld.total !== undefined
+    ? `detected ${sig(ld.detected, 4)} of ${sig(ld.total, 4)} ${ld.unit} (${pct(ld.fraction ?? 0)})`
+    : `detected ${sig(ld.detected, 4)} ${ld.unit}; ${ld.note ?? 'no total'}`;
+}
+
+/** Luminosity and star-formation-rate densities over each population's window. */
+export function densitySummary(p: Prediction): string[] {
+  const lines: string[] = [];
+  for (const q of p.populations) {
+    const ld = q.totals.luminosity_density;
+    if (!ld) continue;
+    const who = p.populations.length > 1 ? `${q.name}: ` : '';
+    let line = `${who}luminosity density ${densityText(ld)}`;
+    const sfr = q.totals.sfr_density_msun_yr_mpc3;
+    if (sfr) line += `; star-formation-rate density ${sig(sfr.detected, 4)}${sfr.total !== undefined ? ` of ${sig(sfr.total, 4)}` : ''} Msun/yr/Mpc^3`;
+    lines.push(line);
+  }
+  return lines;
 }
 
 export function predictionCsv(p: Prediction): string {
@@ -107,13 +146,13 @@ export function predictionCsv(p: Prediction): string {
     'per_deg2',
     'cumulative_count',
   ]);
-  p.slices.forEach((s, i) => {
+  p.slices.forEach((s) => {
     out += csvLine([
       s.z_min,
       s.z_max,
       s.volume_mpc3,
       s.limit_at_center,
-      ...(multi ? p.populations.map((q) => q.slices[i]!.count) : []),
+      ...(multi ? p.populations.map((q) => s.population_counts?.[q.name] ?? 0) : []),
       s.count,
       s.uncertainty?.poisson_fraction ?? '',
       s.uncertainty?.cosmic_variance_fraction ?? '',

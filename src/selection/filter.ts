@@ -3,13 +3,34 @@
  * tophat: 1 inside center +- fwhm/2, 0 outside.
  * gaussian: exp(-(lambda-center)^2 / (2 sigma^2)), sigma = fwhm / (2 sqrt(2 ln 2)) (common practice),
  *           cut to 0 outside center +- 1.5 fwhm (survey-file.md).
+ * table: the tabulated curve (src/survey/transmission-file.ts), relative to its peak, linear
+ *        between rows, 0 outside the table; the window is where it is above 0.
  */
-import type { Filter } from '../survey/types.js';
+import type { Filter, TransmissionTable } from '../survey/types.js';
+import { tableRange } from '../survey/transmission-file.js';
 
 export const GAUSSIAN_HALF_RANGE_FWHM = 1.5;
 const FWHM_TO_SIGMA = 1 / (2 * Math.sqrt(2 * Math.LN2));
 
+/** Linear interpolation in a transmission table; 0 outside it. */
+export function tableTransmission(t: TransmissionTable, observedAngstrom: number): number {
+  const w = t.wavelengthAngstrom;
+  const n = w.length;
+  if (!(observedAngstrom >= w[0]! && observedAngstrom <= w[n - 1]!)) return 0;
+  let lo = 0;
+  let hi = n - 1;
+  while (hi - lo > 1) {
+    const mid = (lo + hi) >> 1;
+    if (w[mid]! <= observedAngstrom) lo = mid;
+    else hi = mid;
+  }
+  const a = t.transmission[lo]!;
+  const b = t.transmission[hi]!;
+  return a + ((observedAngstrom - w[lo]!) / (w[hi]! - w[lo]!)) * (b - a);
+}
+
 export function transmission(filter: Filter, observedAngstrom: number): number {
+  if (filter.profile === 'table') return tableTransmission(filter.table!, observedAngstrom);
   const d = observedAngstrom - filter.centerAngstrom;
   if (filter.profile === 'tophat') return Math.abs(d) <= filter.fwhmAngstrom / 2 ? 1 : 0;
   if (Math.abs(d) > GAUSSIAN_HALF_RANGE_FWHM * filter.fwhmAngstrom) return 0;
@@ -19,6 +40,7 @@ export function transmission(filter: Filter, observedAngstrom: number): number {
 
 /** Observed-wavelength range [lo, hi] (Angstrom) over which a line can be counted. */
 export function filterRangeAngstrom(filter: Filter): [number, number] {
+  if (filter.profile === 'table') return tableRange(filter.table!);
   const half = filter.profile === 'tophat' ? filter.fwhmAngstrom / 2 : GAUSSIAN_HALF_RANGE_FWHM * filter.fwhmAngstrom;
   return [filter.centerAngstrom - half, filter.centerAngstrom + half];
 }

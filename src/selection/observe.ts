@@ -9,7 +9,11 @@
  * magnitude  (slope -2.5): obs = apparent AB magnitude = M* - 2.5 log10 u + K(z), where
  *                          K(z) = 5 log10(D_L / 10 pc) - 2.5 log10(1+z)
  *                                 - 2.5 (beta+2) log10(band / ((1+z) rest_wavelength))
+ *                                 - 2.5 log10 T_IGM(z)
  *                          so that the absolute-magnitude limit is M_lim(z) = limit - K(z) (survey-file.md).
+ *                          T_IGM = 1 unless detection.igm is madau1995 (src/selection/igm.ts): then the
+ *                          Madau 1995 mean transmission at the band's effective wavelength, or averaged
+ *                          over detection.band_file when given.
  * threshold  (slope +1 for a luminosity variable: obs = log10 quantity; -2.5 for a magnitude
  *             variable: obs = absolute magnitude).
  *
@@ -20,6 +24,7 @@ import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
 import type { Detection, Population } from '../survey/types.js';
 import { MPC_CM } from '../cosmology/constants.js';
 import { transmission } from './filter.js';
+import { bandAveragedMadau1995, madau1995Transmission } from './igm.js';
 
 export type HistogramVariable = 'apparent_magnitude' | 'log10_line_flux' | 'log10_quantity' | 'absolute_magnitude';
 
@@ -77,11 +82,12 @@ export function makeObserver(detection: Detection, population: Population, cosmo
     case 'magnitude': {
       const { limitMag, bandAngstrom, beta } = detection;
       const rest = population.restWavelengthAngstrom;
+      const igm = igmMagnitude(detection);
       return {
         slope: -2.5,
         variable: 'apparent_magnitude',
         at(z, mStar) {
-          const k = apparentMinusAbsolute(cosmo, z, bandAngstrom, rest, beta);
+          const k = apparentMinusAbsolute(cosmo, z, bandAngstrom, rest, beta) + igm(z);
           const a = mStar + k;
           const mLim = limitMag - k;
           return {
@@ -118,6 +124,17 @@ export function makeObserver(detection: Detection, population: Population, cosmo
       };
     }
   }
+}
+
+/** The IGM term of K(z): -2.5 log10 T_IGM(z), 0 without attenuation. */
+export function igmMagnitude(detection: Extract<Detection, { kind: 'magnitude' }>): (z: number) => number {
+  if (detection.igm !== 'madau1995') return () => 0;
+  const table = detection.bandTable;
+  const band = detection.bandAngstrom;
+  const beta = detection.beta;
+  return table
+    ? (z) => -2.5 * Math.log10(bandAveragedMadau1995(table, z, beta))
+    : (z) => -2.5 * Math.log10(madau1995Transmission(band, z));
 }
 
 /**

@@ -38,7 +38,7 @@ export function describeSurvey(survey: Survey): Record<string, unknown> {
       limit_cgs: d.limitCgs,
       line_angstrom: d.lineAngstrom,
       filter: d.filter
-        ? { center_angstrom: d.filter.centerAngstrom, fwhm_angstrom: d.filter.fwhmAngstrom, profile: d.filter.profile }
+        ? clean({ center_angstrom: d.filter.centerAngstrom, fwhm_angstrom: d.filter.fwhmAngstrom, profile: d.filter.profile, file: d.filter.table?.file })
         : undefined,
       completeness: describeCompleteness(d.completeness),
     });
@@ -47,7 +47,9 @@ export function describeSurvey(survey: Survey): Record<string, unknown> {
       kind: d.kind,
       limit_mag: d.limitMag,
       band_angstrom: d.bandAngstrom,
+      band_file: d.bandTable?.file,
       beta: d.beta,
+      igm: d.igm,
       completeness: describeCompleteness(d.completeness),
     });
   } else {
@@ -86,6 +88,12 @@ export function describeSurvey(survey: Survey): Record<string, unknown> {
         l_star: p.lStar ? describeParam(p.lStar, p.window) : undefined,
         m_star: p.mStar ? describeParam(p.mStar, p.window) : undefined,
         alpha: describeParam(p.alpha, p.window),
+        components:
+          p.components.length > 1
+            ? p.components.map((c) => ({ phi_star_mpc3: describeParam(c.phiStar, p.window), alpha: describeParam(c.alpha, p.window) }))
+            : undefined,
+        sfr_conversion: p.sfrConversion ? { name: p.sfrConversion.name, factor: p.sfrConversion.factor } : undefined,
+        slice_edges: p.sliceEdges,
         line_angstrom: p.lineAngstrom,
         rest_wavelength_angstrom: p.restWavelengthAngstrom,
         bias: p.bias === 'auto' ? 'auto' : describeParam(p.bias, p.window),

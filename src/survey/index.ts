@@ -2,6 +2,8 @@
 export { loadSurveyFile, loadSurveyText, parseSurveyObject } from './load.js';
 export { describeSurvey, describeParam } from './describe.js';
 export { compileExpression } from './expressions.js';
+export { populationByName } from './select.js';
+export { readTransmissionFile } from './transmission-file.js';
 export { parseQuantity, FULL_SKY_DEG2, SR_PER_DEG2 } from './units.js';
 export { SURVEY_SCHEMA_URL } from './schema.js';
 export type * from './types.js';

@@ -4,6 +4,7 @@
  * file, the key path and one sentence saying what to change.
  */
 import { readFileSync, statSync } from 'node:fs';
+import { dirname } from 'node:path';
 import { inputError } from '../errors.js';
 import type { Survey } from './types.js';
 import { MAX_FILE_BYTES, parseYaml } from './yaml.js';
@@ -31,20 +32,19 @@ export function loadSurveyFile(path: string): Survey {
     if (e instanceof Error && e.name === 'SurveyError') throw e;
     throw inputError('file_unreadable', path, '', reason(e), 'check the path and its permissions');
   }
-  return loadSurveyText(text, path);
+  return loadSurveyText(text, path, dirname(path));
 }
 
 /**
  * Parse and check survey YAML. `file` names the source in messages. `baseDir` is the directory
- * relative paths in the file would be resolved against; no format-1 key holds a path yet, so it
- * is accepted for callers' convenience and not used.
+ * relative paths in the file (detection.filter.file, detection.band_file) are resolved against;
+ * default: the directory of `file`.
  */
 export function loadSurveyText(text: string, file: string, baseDir?: string): Survey {
-  void baseDir;
-  return normaliseSurvey(parseYaml(text, file), file);
+  return normaliseSurvey(parseYaml(text, file), file, baseDir);
 }
 
 /** Check and normalise an already-parsed survey object (as YAML or JSON would give it). */
-export function parseSurveyObject(obj: unknown, file: string): Survey {
-  return normaliseSurvey(obj, file);
+export function parseSurveyObject(obj: unknown, file: string, baseDir?: string): Survey {
+  return normaliseSurvey(obj, file, baseDir);
 }

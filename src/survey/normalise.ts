@@ -14,7 +14,9 @@ import type {
   DetectionKind,
   Filter,
   FilterProfile,
+  IgmModel,
   Population,
+  SfrConversion,
   PopulationVariable,
   Survey,
   ZParam,
@@ -22,13 +24,16 @@ import type {
 import { schemaError, suggest } from './schema.js';
 import { FULL_SKY_DEG2, SR_PER_DEG2, isPlainNumberString, parseQuantity } from './units.js';
 import { checkParam, fmt, makeZParam, mapParam, type ZTable } from './zparam.js';
+import { readTransmissionFile, tableFwhm, tableMeanWavelength } from './transmission-file.js';
+import { filterRangeAngstrom } from '../selection/filter.js';
+import { dirname } from 'node:path';
 
 type Q = number | string;
 type ZRaw = number | string | ZTable;
 
 interface RawPopulation {
   name?: string;
-  shape?: 'schechter';
+  shape?: 'schechter' | 'double_schechter';
   variable: PopulationVariable;
   quantity?: string;
   phi_star?: ZRaw;
@@ -38,7 +43,11 @@ interface RawPopulation {
   l_star?: ZRaw;
   log10_l_star?: ZRaw;
   m_star?: ZRaw;
-  alpha: ZRaw;
+  alpha?: ZRaw;
+  alpha_1?: ZRaw;
+  alpha_2?: ZRaw;
+  [normalisation: `${string}phi_star${string}`]: ZRaw | undefined;
+  sfr_conversion?: 'halpha' | 'oii' | 'uv' | number;
   line?: Q;
   rest_wavelength?: Q;
   bias?: ZRaw;
@@ -66,7 +75,9 @@ interface RawSurvey {
     line?: Q;
     band?: Q;
     beta?: number;
-    filter?: { center: Q; fwhm: Q; profile?: FilterProfile };
+    igm?: IgmModel;
+    band_file?: string;
+    filter?: { center?: Q; fwhm?: Q; profile?: FilterProfile; file?: string };
     completeness?: { model?: 'logistic' | 'table'; half?: Q; width?: number; table?: [number, number][] };
   };
   population?: RawPopulation;
@@ -86,7 +97,7 @@ export const DEFAULT_POPULATION_NAME = 'population';
 
 const DETECTION_KEYS: Record<DetectionKind, string[]> = {
   line_flux: ['kind', 'limit', 'line', 'filter', 'completeness'],
-  magnitude: ['kind', 'limit', 'band', 'beta', 'completeness'],
+  magnitude: ['kind', 'limit', 'band', 'band_file', 'beta', 'igm', 'completeness'],
   threshold: ['kind', 'limit', 'completeness'],
 };
 
@@ -175,13 +186,13 @@ function intersect(a: Window, b: Window): Window {
   return { min: Math.max(a.min, b.min), max: Math.min(a.max, b.max) };
 }
 
-/** Redshift window of a line seen through a filter: tophat center +- fwhm/2, gaussian center +- 1.5 fwhm. */
+/**
+ * Redshift window of a line seen through a filter: tophat center +- fwhm/2, gaussian center +- 1.5 fwhm,
+ * table where the curve is above 0.
+ */
 export function filterWindow(filter: Filter, lineAngstrom: number): Window {
-  const half = filter.profile === 'gaussian' ? 1.5 * filter.fwhmAngstrom : 0.5 * filter.fwhmAngstrom;
-  return {
-    min: Math.max(0, (filter.centerAngstrom - half) / lineAngstrom - 1),
-    max: (filter.centerAngstrom + half) / lineAngstrom - 1,
-  };
+  const [lo, hi] = filterRangeAngstrom(filter);
+  return { min: Math.max(0, lo / lineAngstrom - 1), max: hi / lineAngstrom - 1 };
 }
 
 /** Slice edges over `w` from {count} | {width} | {edges}; the first and last edges are w's ends. */
@@ -283,32 +294,70 @@ function parseCompleteness(
   return { model: 'table', x, fraction };
 }
 
-const NORMALISATIONS = ['phi_star', 'log10_phi_star', 'phi_star_dex', 'log10_phi_star_dex'] as const;
+/** The four ways to give a normalisation; suffix '' (single shape), '_1' or '_2' (double shape). */
+function normalisationKeys(suffix: string): string[] {
+  return [`phi_star${suffix}`, `log10_phi_star${suffix}`, `phi_star${suffix}_dex`, `log10_phi_star${suffix}_dex`];
+}
+const SINGLE_KEYS = [...normalisationKeys(''), 'alpha'];
+const DOUBLE_KEYS = [...normalisationKeys('_1'), ...normalisationKeys('_2'), 'alpha_1', 'alpha_2'];
+
+/**
+ * Keys of the other shape are a kind_mismatch, said before the schema would call the shape's own
+ * keys missing.
+ */
+function checkShapeKeys(obj: Record<string, unknown>, file: string): void {
+  const pops: [unknown, string][] = [];
+  if (isPlainObject(obj.population)) pops.push([obj.population, 'population']);
+  if (Array.isArray(obj.populations)) obj.populations.forEach((p, i) => pops.push([p, `populations[${i}]`]));
+  for (const [p, path] of pops) {
+    if (!isPlainObject(p)) continue;
+    const double = p.shape === 'double_schechter';
+    const wrong = (double ? SINGLE_KEYS : DOUBLE_KEYS).find((k) => p[k] !== undefined);
+    if (wrong === undefined) continue;
+    throw double
+      ? inputError('kind_mismatch', file, `${path}.${wrong}`, `${wrong} belongs to the single Schechter shape but shape is double_schechter`, 'give phi_star_1, alpha_1, phi_star_2 and alpha_2 instead (or their log10_ and _dex forms)')
+      : inputError('kind_mismatch', file, `${path}.${wrong}`, `${wrong} belongs to the double Schechter shape`, 'set shape: double_schechter, or give phi_star and alpha');
+  }
+}
+
+/** One normalisation: the key given (exactly one of the four forms) and its value in Mpc^-3. */
+function parseNormalisation(raw: RawPopulation, suffix: string, path: string, file: string): { phiStar: ZParam; phiKey: string } {
+  const keys = normalisationKeys(suffix);
+  const given = keys.filter((k) => raw[k as `phi_star`] !== undefined);
+  if (given.length === 0) {
+    throw inputError('missing_key', file, `${path}.${keys[0]}`, 'is missing', `give one of ${keys.join(', ')}`);
+  }
+  if (given.length > 1) {
+    throw inputError('conflict', file, `${path}.${given[1]}`, `${given.join(' and ')} are both given`, 'keep only one normalisation');
+  }
+  const phiKey = given[0]!;
+  const base = makeZParam(raw[phiKey as 'phi_star']!, file, `${path}.${phiKey}`);
+  const isLog = phiKey.startsWith('log10_');
+  const isDex = phiKey.endsWith('_dex');
+  const phiStar = !isLog && !isDex ? base : mapParam(base, (v) => (isLog ? 10 ** v : v) / (isDex ? Math.LN10 : 1));
+  return { phiStar, phiKey };
+}
+
+interface ParsedComponent {
+  phiStar: ZParam;
+  phiKey: string;
+  alpha: ZParam;
+  alphaKey: string;
+}
 
 /** Build the population's parameters; windows and values are checked by the caller. */
 function parsePopulationParams(
   raw: RawPopulation,
   path: string,
   file: string,
-): { phiStar: ZParam; phiKey: string; lStar?: ZParam; lKey?: string; mStar?: ZParam; alpha: ZParam } {
-  const given = NORMALISATIONS.filter((k) => raw[k] !== undefined);
-  if (given.length === 0) {
-    throw inputError('missing_key', file, `${path}.phi_star`, 'is missing', `give one of ${NORMALISATIONS.join(', ')}`);
-  }
-  if (given.length > 1) {
-    throw inputError('conflict', file, `${path}.${given[1]}`, `${given.join(' and ')} are both given`, 'keep only one normalisation');
-  }
-  const phiKey = given[0]!;
-  const base = makeZParam(raw[phiKey]!, file, `${path}.${phiKey}`);
-  const phiStar =
-    phiKey === 'phi_star'
-      ? base
-      : phiKey === 'log10_phi_star'
-        ? mapParam(base, (v) => 10 ** v)
-        : phiKey === 'phi_star_dex'
-          ? mapParam(base, (v) => v / Math.LN10)
-          : mapParam(base, (v) => 10 ** v / Math.LN10);
-  const alpha = makeZParam(raw.alpha, file, `${path}.alpha`);
+): { components: ParsedComponent[]; lStar?: ZParam; lKey?: string; mStar?: ZParam } {
+  const suffixes = raw.shape === 'double_schechter' ? ['_1', '_2'] : [''];
+  const components = suffixes.map((sfx) => {
+    const alphaKey = `alpha${sfx}` as 'alpha' | 'alpha_1' | 'alpha_2';
+    const a = raw[alphaKey];
+    if (a === undefined) throw inputError('missing_key', file, `${path}.${alphaKey}`, 'is missing', 'give the faint-end slope');
+    return { ...parseNormalisation(raw, sfx, path, file), alpha: makeZParam(a, file, `${path}.${alphaKey}`), alphaKey };
+  });
   if (raw.variable === 'luminosity') {
     if (raw.m_star !== undefined) {
       throw inputError('kind_mismatch', file, `${path}.m_star`, 'm_star belongs to the magnitude variable but variable is luminosity', 'give l_star or log10_l_star instead');
@@ -321,7 +370,7 @@ function parsePopulationParams(
     }
     const lKey = raw.l_star !== undefined ? 'l_star' : 'log10_l_star';
     const l = makeZParam((raw.l_star ?? raw.log10_l_star)!, file, `${path}.${lKey}`);
-    return { phiStar, phiKey, lStar: lKey === 'l_star' ? l : mapParam(l, (v) => 10 ** v), lKey, alpha };
+    return { components, lStar: lKey === 'l_star' ? l : mapParam(l, (v) => 10 ** v), lKey };
   }
   for (const k of ['l_star', 'log10_l_star'] as const) {
     if (raw[k] !== undefined) {
@@ -329,15 +378,17 @@ function parsePopulationParams(
     }
   }
   if (raw.m_star === undefined) throw inputError('missing_key', file, `${path}.m_star`, 'is missing', 'give m_star, the characteristic absolute AB magnitude');
-  return { phiStar, phiKey, mStar: makeZParam(raw.m_star, file, `${path}.m_star`), alpha };
+  return { components, mStar: makeZParam(raw.m_star, file, `${path}.m_star`) };
 }
 
 /** Validate and normalise already-parsed survey data. Throws exactly one SurveyError on bad input. */
-export function normaliseSurvey(obj: unknown, file: string): Survey {
+export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): Survey {
+  const base = baseDir ?? dirname(file);
   if (!isPlainObject(obj)) {
     throw inputError('wrong_type', file, '', 'does not hold a mapping of survey keys', 'start from one of the sample surveys');
   }
   checkPlain(obj, file, '');
+  checkShapeKeys(obj, file);
   const invalid = schemaError(obj, file);
   if (invalid) throw invalid;
   const raw = obj as unknown as RawSurvey;
@@ -409,11 +460,29 @@ export function normaliseSurvey(obj: unknown, file: string): Survey {
   }
   let filter: Filter | undefined;
   if (det.filter) {
-    filter = {
-      centerAngstrom: positiveQuantity(det.filter.center, 'wavelength', file, 'detection.filter.center', 'Angstrom'),
-      fwhmAngstrom: positiveQuantity(det.filter.fwhm, 'wavelength', file, 'detection.filter.fwhm', 'Angstrom'),
-      profile: det.filter.profile ?? 'tophat',
-    };
+    const f = det.filter;
+    if (f.profile === 'table' || f.file !== undefined) {
+      if (f.profile !== undefined && f.profile !== 'table') {
+        throw inputError('conflict', file, 'detection.filter.file', `a transmission file is given with profile ${f.profile}`, 'set profile: table, or remove file');
+      }
+      for (const k of ['center', 'fwhm'] as const) {
+        if (f[k] !== undefined) {
+          throw inputError('conflict', file, `detection.filter.${k}`, `${k} is given with a tabulated profile, which sets its own`, `remove ${k}`);
+        }
+      }
+      if (f.file === undefined) throw inputError('missing_key', file, 'detection.filter.file', 'is missing', 'give the CSV of wavelength, transmission (path relative to the survey file)');
+      const table = readTransmissionFile(f.file, file, 'detection.filter.file', base);
+      filter = { centerAngstrom: tableMeanWavelength(table), fwhmAngstrom: tableFwhm(table), profile: 'table', table };
+    } else {
+      for (const k of ['center', 'fwhm'] as const) {
+        if (f[k] === undefined) throw inputError('missing_key', file, `detection.filter.${k}`, 'is missing', `give the filter's ${k} (Angstrom or with a unit), or profile: table with a file`);
+      }
+      filter = {
+        centerAngstrom: positiveQuantity(f.center!, 'wavelength', file, 'detection.filter.center', 'Angstrom'),
+        fwhmAngstrom: positiveQuantity(f.fwhm!, 'wavelength', file, 'detection.filter.fwhm', 'Angstrom'),
+        profile: f.profile ?? 'tophat',
+      };
+    }
   }
   if (!given && !filter) {
     throw inputError('missing_key', file, 'redshift', 'is missing', 'give redshift: {min, max}, or a detection.filter that sets the window');
@@ -434,23 +503,24 @@ export function normaliseSurvey(obj: unknown, file: string): Survey {
     }
     return cut;
   });
-  let window: Window = {
+  // Every population window together: explicit edges may lie anywhere inside it.
+  const hull: Window = {
     min: Math.min(...windows.map((w) => w.min)),
     max: Math.max(...windows.map((w) => w.max)),
   };
 
-  // Slices.
-  const sliceEdgesZ = sliceEdges(raw.slices, window, file);
+  // Slices: the survey's follow the first population's window (or the explicit edges); each
+  // population's own result applies the same rule to its own window (or uses the same edges).
+  let window: Window = windows[0]!;
+  let sliceEdgesZ: number[];
+  let ownEdges: number[][];
   if (raw.slices?.edges) {
-    // The slices cover [first edge, last edge]: that span becomes the survey window.
+    sliceEdgesZ = sliceEdges(raw.slices, hull, file);
     window = { min: sliceEdgesZ[0]!, max: sliceEdgesZ[sliceEdgesZ.length - 1]! };
-    windows.forEach((w, i) => {
-      const cut = intersect(w, window);
-      if (!(cut.max > cut.min)) {
-        throw inputError('bad_slices', file, 'slices.edges', `the edges leave none of the window of ${rawPops[i]!.path}`, 'give edges that span its redshift window');
-      }
-      windows[i] = cut;
-    });
+    ownEdges = windows.map(() => sliceEdgesZ);
+  } else {
+    sliceEdgesZ = sliceEdges(raw.slices, window, file);
+    ownEdges = windows.map((w, i) => (i === 0 ? sliceEdgesZ : sliceEdges(raw.slices, w, file)));
   }
 
   // Detection.
@@ -469,14 +539,17 @@ export function normaliseSurvey(obj: unknown, file: string): Survey {
       throw inputError('wrong_type', file, 'detection.limit', 'is a table but a magnitude limit is one AB magnitude', 'give the limiting apparent AB magnitude as a number');
     }
     const limitMag = plainNumber(det.limit, file, 'detection.limit', 'the limiting apparent AB magnitude');
-    if (det.band === undefined) {
-      throw inputError('missing_key', file, 'detection.band', 'is missing', 'give the effective wavelength of the band (Angstrom or with a unit)');
+    const bandTable = det.band_file !== undefined ? readTransmissionFile(det.band_file, file, 'detection.band_file', base) : undefined;
+    if (det.band === undefined && !bandTable) {
+      throw inputError('missing_key', file, 'detection.band', 'is missing', 'give the effective wavelength of the band (Angstrom or with a unit), or a band_file');
     }
-    const bandAngstrom = positiveQuantity(det.band, 'wavelength', file, 'detection.band', 'Angstrom');
-    detection = { kind, limitMag, bandAngstrom, beta: det.beta ?? -2 };
+    const bandAngstrom =
+      det.band !== undefined ? positiveQuantity(det.band, 'wavelength', file, 'detection.band', 'Angstrom') : tableMeanWavelength(bandTable!);
+    detection = { kind, limitMag, bandAngstrom, beta: det.beta ?? -2, igm: det.igm ?? 'none' };
+    if (bandTable) detection.bandTable = bandTable;
   } else {
     const limit = makeZParam(det.limit, file, 'detection.limit');
-    checkParam(limit, window, file, 'detection.limit', { what: 'the limit' });
+    checkParam(limit, hull, file, 'detection.limit', { what: 'the limit' });
     detection = { kind, limit };
   }
   if (completeness) detection.completeness = completeness;
@@ -485,10 +558,13 @@ export function normaliseSurvey(obj: unknown, file: string): Survey {
   const populations: Population[] = rawPops.map(({ raw: p, path }, i) => {
     const w = windows[i]!;
     const params = parsePopulationParams(p, path, file);
-    checkParam(params.phiStar, w, file, `${path}.${params.phiKey}`, { what: params.phiKey, positive: true });
+    for (const c of params.components) {
+      checkParam(c.phiStar, w, file, `${path}.${c.phiKey}`, { what: c.phiKey, positive: true });
+      checkParam(c.alpha, w, file, `${path}.${c.alphaKey}`, { what: c.alphaKey });
+    }
     if (params.lStar) checkParam(params.lStar, w, file, `${path}.${params.lKey}`, { what: 'l_star', positive: true });
     if (params.mStar) checkParam(params.mStar, w, file, `${path}.m_star`, { what: 'm_star' });
-    checkParam(params.alpha, w, file, `${path}.alpha`, { what: 'alpha' });
+    const sfrConversion = parseSfrConversion(p, path, file);
     let bias: 'auto' | ZParam = 'auto';
     if (p.bias !== undefined && p.bias !== 'auto') {
       bias = makeZParam(p.bias, file, `${path}.bias`);
@@ -500,15 +576,18 @@ export function normaliseSurvey(obj: unknown, file: string): Survey {
       p.rest_wavelength !== undefined ? positiveQuantity(p.rest_wavelength, 'wavelength', file, `${path}.rest_wavelength`, 'Angstrom') : 1500;
     const pop: Population = {
       name: p.name ?? (rawPops.length === 1 ? DEFAULT_POPULATION_NAME : `${DEFAULT_POPULATION_NAME} ${i + 1}`),
-      shape: 'schechter',
+      shape: p.shape ?? 'schechter',
       variable: p.variable,
-      phiStar: params.phiStar,
-      alpha: params.alpha,
+      phiStar: params.components[0]!.phiStar,
+      alpha: params.components[0]!.alpha,
+      components: params.components.map((c) => ({ phiStar: c.phiStar, alpha: c.alpha })),
       restWavelengthAngstrom,
       bias,
       occupation,
       window: { min: w.min, max: w.max },
+      sliceEdges: ownEdges[i]!,
     };
+    if (sfrConversion) pop.sfrConversion = sfrConversion;
     if (p.quantity !== undefined) pop.quantity = p.quantity;
     if (params.lStar) pop.lStar = params.lStar;
     if (params.mStar) pop.mStar = params.mStar;
@@ -538,6 +617,29 @@ export function normaliseSurvey(obj: unknown, file: string): Survey {
   };
   if (exposureHours !== undefined) survey.exposureHours = exposureHours;
   return survey;
+}
+
+/**
+ * Kennicutt 1998 (ARA&A 36, 189) calibrations, Msun/yr per erg/s (lines) or per erg/s/Hz (UV continuum):
+ * eq. (1) UV 1.4e-28, eq. (2) H-alpha 7.9e-42, eq. (3) [OII] 1.4e-41 (equation numbers from memory).
+ */
+export const KENNICUTT1998 = { uv: 1.4e-28, halpha: 7.9e-42, oii: 1.4e-41 } as const;
+
+function parseSfrConversion(p: RawPopulation, path: string, file: string): SfrConversion | undefined {
+  const v = p.sfr_conversion;
+  if (v === undefined) return undefined;
+  const key = `${path}.sfr_conversion`;
+  if (typeof v === 'number') {
+    if (!(v > 0)) outOfRange(file, key, `is ${fmt(v)}`, 'give a positive factor in Msun/yr per erg/s (per erg/s/Hz for a magnitude variable)');
+    return { name: 'factor', factor: v };
+  }
+  if (v === 'uv' && p.variable !== 'magnitude') {
+    throw inputError('kind_mismatch', file, key, 'uv converts a continuum luminosity per Hz, which needs variable magnitude', 'use halpha or oii for a line luminosity, or give a factor');
+  }
+  if ((v === 'halpha' || v === 'oii') && p.variable !== 'luminosity') {
+    throw inputError('kind_mismatch', file, key, `${v} converts a line luminosity, which needs variable luminosity`, 'use uv for absolute magnitudes, or give a factor');
+  }
+  return { name: v, factor: KENNICUTT1998[v] };
 }
 
 function defaultTitle(file: string): string {

@@ -29,13 +29,32 @@ export interface Cosmology {
   nS: number;
 }
 
-export type FilterProfile = 'tophat' | 'gaussian';
+export type FilterProfile = 'tophat' | 'gaussian' | 'table';
+
+/**
+ * A tabulated transmission curve read from a CSV file (src/survey/transmission-file.ts):
+ * wavelengths in Angstrom, strictly increasing; transmission relative to its peak (max 1),
+ * linear between rows and 0 outside the table.
+ */
+export interface TransmissionTable {
+  /** The file as written in the survey (relative to the survey file). */
+  file: string;
+  wavelengthAngstrom: number[];
+  transmission: number[];
+}
 
 export interface Filter {
+  /** tophat/gaussian: as given. table: the transmission-weighted mean wavelength. */
   centerAngstrom: number;
+  /** tophat/gaussian: as given. table: the distance between the outermost half-peak crossings. */
   fwhmAngstrom: number;
   profile: FilterProfile;
+  /** The curve, for profile table. */
+  table?: TransmissionTable;
 }
+
+/** Intergalactic attenuation applied to magnitude surveys. */
+export type IgmModel = 'none' | 'madau1995';
 
 export type Completeness =
   | { model: 'logistic'; half: number; width: number } // half, width in the completeness variable x
@@ -58,8 +77,10 @@ export type Detection =
   | {
       kind: 'magnitude';
       limitMag: number; // apparent AB magnitude
-      bandAngstrom: number; // effective wavelength of the band
+      bandAngstrom: number; // effective wavelength of the band (from band_file when band is not given)
       beta: number; // f_lambda ~ lambda^beta
+      igm: IgmModel; // default 'none'
+      bandTable?: TransmissionTable; // detection.band_file: the band's transmission curve
       completeness?: Completeness;
     }
   | {
@@ -72,18 +93,39 @@ export type DetectionKind = Detection['kind'];
 
 export type PopulationVariable = 'luminosity' | 'magnitude';
 
+/** One Schechter component's parameters (a double Schechter function has two sharing L* or M*). */
+export interface ComponentParams {
+  /** Normalisation of the standard form, Mpc^-3 (per_dex inputs already divided by ln 10). */
+  phiStar: ZParam;
+  alpha: ZParam;
+}
+
+/**
+ * Star-formation-rate conversion of the population's luminosity (Kennicutt 1998, ARA&A 36, 189):
+ * halpha 7.9e-42, oii 1.4e-41 (Msun/yr per erg/s), uv 1.4e-28 (Msun/yr per erg/s/Hz), or a factor.
+ */
+export interface SfrConversion {
+  name: 'halpha' | 'oii' | 'uv' | 'factor';
+  /** Msun/yr per unit of the luminosity-density unit (erg/s, or erg/s/Hz for a magnitude variable). */
+  factor: number;
+}
+
 export interface SchechterPopulation {
   name: string;
-  shape: 'schechter';
+  /** schechter: one component; double_schechter: two components sharing L* (or M*). */
+  shape: 'schechter' | 'double_schechter';
   variable: PopulationVariable;
   /** Free-text label of the quantity (threshold kind), e.g. "stellar mass [Msun]". */
   quantity?: string;
-  /** Normalisation of the standard form, Mpc^-3 (per_dex inputs already divided by ln 10). */
+  /** The first component's normalisation (the only one for shape schechter), Mpc^-3. */
   phiStar: ZParam;
+  /** Every component, in order (one for schechter, two for double_schechter). */
+  components: ComponentParams[];
   /** Characteristic luminosity (erg/s, or the quantity's unit for threshold); luminosity variable. */
   lStar?: ZParam;
   /** Characteristic absolute AB magnitude; magnitude variable. */
   mStar?: ZParam;
+  /** The first component's faint-end slope (the only one for shape schechter). */
   alpha: ZParam;
   /** Rest wavelength of the emission line (line_flux kind), Angstrom. */
   lineAngstrom?: number;
@@ -93,8 +135,18 @@ export interface SchechterPopulation {
   bias: 'auto' | ZParam;
   /** Fraction (0, 1] of haloes above the matched mass hosting a detected galaxy. */
   occupation: number;
-  /** The redshift window in which this population is counted (survey window, cut by the filter). */
+  /**
+   * The population's whole redshift window: the redshift key cut by where the filter sees its
+   * line. Not cut by explicit slice edges (the slices then count only the part inside them).
+   */
   window: { min: number; max: number };
+  /**
+   * Edges of this population's own result: the file's slices rule ({count}/{width}) applied to
+   * its own window, or the survey's edges when the file gives edges.
+   */
+  sliceEdges: number[];
+  /** sfr_conversion, when given. */
+  sfrConversion?: SfrConversion;
 }
 
 export type Population = SchechterPopulation;
@@ -107,7 +159,7 @@ export interface Survey {
   cosmology: Cosmology;
   areaDeg2: number;
   areaSr: number;
-  /** The window the slices cover. */
+  /** The window the slices cover: the first population's window, or the span of explicit edges. */
   redshift: { min: number; max: number };
   field: { aspect: number; count: number };
   detection: Detection;

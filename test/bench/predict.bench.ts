@@ -1,6 +1,7 @@
 /** predict as a library call (issue 2: target under 2 ms median for a 10-slice survey). */
 import type { BenchCase } from './run.js';
-import { loadSurveyText } from '../../src/survey/load.js';
+import { loadSurveyFile, loadSurveyText } from '../../src/survey/load.js';
+import { fileURLToPath } from 'node:url';
 import { predict } from '../../src/counts/predict.js';
 import { readFileSync } from 'node:fs';
 
@@ -15,6 +16,8 @@ const lineNoCompleteness10 = sample('halpha-narrowband.yaml', (t) =>
 );
 const deep = sample('deep-continuum.yaml');
 const mass = sample('mass-limited.yaml', (t) => t.replace(/slices: .*$/m, 'slices: {count: 10}'));
+const interlopers = loadSurveyFile(fileURLToPath(new URL('../../samples/narrowband-interlopers.yaml', import.meta.url)));
+const double = sample('double-schechter-mass.yaml');
 
 const bare = { noUncertainty: true };
 
@@ -28,4 +31,6 @@ export const cases: BenchCase[] = [
   { name: 'predict with uncertainty: line_flux, logistic completeness, 10 slices', run: () => predict(line10), repeats: 20 },
   { name: 'predict with uncertainty: magnitude, table completeness, 8 slices', run: () => predict(deep), repeats: 20 },
   { name: 'predict with uncertainty: threshold, 10 slices', run: () => predict(mass), repeats: 20 },
+  { name: 'predict with uncertainty: three lines through a tabulated filter, 3 slices each', run: () => predict(interlopers), repeats: 20 },
+  { name: 'predict counts: threshold, double Schechter, limit table, 4 slices', run: () => predict(double, bare) },
 ];

@@ -53,7 +53,7 @@ export function surveyFromSpec(s: SurveySpec): Survey {
   if (s.kind === 'line_flux') {
     detection = { kind: 'line_flux', limitCgs: d.limit_cgs!, lineAngstrom: d.line_angstrom! };
   } else if (s.kind === 'magnitude') {
-    detection = { kind: 'magnitude', limitMag: d.limit_mag!, bandAngstrom: d.band_angstrom!, beta: d.beta! };
+    detection = { kind: 'magnitude', limitMag: d.limit_mag!, bandAngstrom: d.band_angstrom!, beta: d.beta!, igm: 'none' };
   } else {
     detection = { kind: 'threshold', limit: constant(d.limit!) };
   }
@@ -78,6 +78,7 @@ export function surveyFromSpec(s: SurveySpec): Survey {
         shape: 'schechter',
         variable: p.variable,
         phiStar: constant(10 ** p.log10_phi_star),
+        components: [{ phiStar: constant(10 ** p.log10_phi_star), alpha: linear(p.alpha[0], p.alpha[1]) }],
         ...(p.log10_l_star !== undefined ? { lStar: constant(10 ** p.log10_l_star) } : {}),
         ...(p.m_star !== undefined ? { mStar: constant(p.m_star) } : {}),
         alpha: linear(p.alpha[0], p.alpha[1]),
@@ -86,6 +87,7 @@ export function surveyFromSpec(s: SurveySpec): Survey {
         bias: 'auto',
         occupation: 1,
         window: { min: zMin, max: zMax },
+        sliceEdges: [...s.edges],
       },
     ],
     sliceEdges: [...s.edges],

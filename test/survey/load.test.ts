@@ -93,7 +93,11 @@ describe('valid surveys (closed-form expectations)', () => {
     // Edges [0.6, 0.8, 1.0, 1.4] lie inside [0.5, 1.5]; the slices then cover [0.6, 1.4].
     expect(s.sliceEdges).toEqual([0.6, 0.8, 1.0, 1.4]);
     expect(s.redshift).toEqual({ min: 0.6, max: 1.4 });
-    expect(q.window).toEqual({ min: 0.6, max: 1.4 });
+    // A population's window is its whole window (issue 7): explicit edges do not cut it; its own
+    // result uses the same edges.
+    expect(q.window).toEqual({ min: 0.5, max: 1.5 });
+    expect(q.sliceEdges).toEqual([0.6, 0.8, 1.0, 1.4]);
+    expect(sf.sliceEdges).toEqual([0.6, 0.8, 1.0, 1.4]);
     expect(s.field).toEqual({ aspect: 2, count: 4 });
     // 1 sr = (180/pi)^2 deg^2 (definition of the radian).
     expect(s.areaDeg2 / (0.001 * (180 / Math.PI) ** 2)).toBeCloseTo(1, 13);
@@ -120,7 +124,7 @@ describe('valid surveys (closed-form expectations)', () => {
     expect(s2.detection.completeness).toEqual({ model: 'logistic', half: 16, width: 0.1 });
   });
 
-  test('two lines through one filter: each population has its own window, the survey covers both', () => {
+  test('two lines through one filter: each population has its own window, the survey follows the first', () => {
     const obj = parse(LINE_YAML) as Record<string, unknown>;
     const pop = obj.population as Record<string, unknown>;
     delete obj.population;
@@ -131,8 +135,13 @@ describe('valid surveys (closed-form expectations)', () => {
     expect(a!.window.min).toBeCloseTo(11850 / 6563 - 1, 13);
     expect(b!.window.min).toBeCloseTo(11850 / 5007 - 1, 13);
     expect(b!.name).toBe('population 2');
-    expect(s.redshift.min).toBe(a!.window.min);
-    expect(s.redshift.max).toBe(b!.window.max);
+    // Issue 7: the survey's slices follow the first population's window; each population's own
+    // slices apply the same rule ({count: N} here or the default) to its own window.
+    expect(s.redshift).toEqual(a!.window);
+    expect(a!.sliceEdges).toEqual(s.sliceEdges);
+    expect(b!.sliceEdges[0]).toBe(b!.window.min);
+    expect(b!.sliceEdges[b!.sliceEdges.length - 1]).toBe(b!.window.max);
+    expect(b!.sliceEdges.length).toBe(s.sliceEdges.length);
   });
 
   test('describeSurvey gives plain finite JSON with units in the names', () => {

@@ -23,13 +23,20 @@ describe('specs/survey.schema.json', () => {
     expect(keysOf(p.redshift!)).toEqual(['max', 'min']);
     expect(keysOf(p.field!)).toEqual(['aspect', 'count']);
     const det = resolve(p.detection!);
-    expect(keysOf(det)).toEqual(['band', 'beta', 'completeness', 'filter', 'kind', 'limit', 'line']);
+    expect(keysOf(det)).toEqual(['band', 'band_file', 'beta', 'completeness', 'filter', 'igm', 'kind', 'limit', 'line']);
+    expect(det.properties!.igm!.enum).toEqual(['none', 'madau1995']);
     expect(det.properties!.kind!.enum).toEqual(['line_flux', 'magnitude', 'threshold']);
-    expect(keysOf(det.properties!.filter!)).toEqual(['center', 'fwhm', 'profile']);
-    expect(det.properties!.filter!.properties!.profile!.enum).toEqual(['tophat', 'gaussian']);
+    expect(keysOf(det.properties!.filter!)).toEqual(['center', 'file', 'fwhm', 'profile']);
+    expect(det.properties!.filter!.properties!.profile!.enum).toEqual(['tophat', 'gaussian', 'table']);
     expect(keysOf(det.properties!.completeness!)).toEqual(['half', 'model', 'table', 'width']);
     expect(keysOf(p.population!)).toEqual(
-      ['alpha', 'bias', 'l_star', 'line', 'log10_l_star', 'log10_phi_star', 'log10_phi_star_dex', 'm_star', 'name', 'occupation', 'phi_star', 'phi_star_dex', 'quantity', 'rest_wavelength', 'shape', 'variable'].sort(),
+      [
+        'alpha', 'bias', 'l_star', 'line', 'log10_l_star', 'log10_phi_star', 'log10_phi_star_dex', 'm_star', 'name', 'occupation',
+        'phi_star', 'phi_star_dex', 'quantity', 'rest_wavelength', 'shape', 'variable',
+        // issue 7: double Schechter components and the star-formation-rate conversion
+        'alpha_1', 'alpha_2', 'phi_star_1', 'log10_phi_star_1', 'phi_star_1_dex', 'log10_phi_star_1_dex',
+        'phi_star_2', 'log10_phi_star_2', 'phi_star_2_dex', 'log10_phi_star_2_dex', 'sfr_conversion',
+      ].sort(),
     );
     expect(keysOf(p.populations!.items as Schema)).toEqual(keysOf(p.population!));
     expect(keysOf(p.slices!)).toEqual(['count', 'edges', 'width']);

@@ -21,6 +21,7 @@ export const predictCommand: CommandDef = {
     const { predict } = await import('../../counts/predict.js');
     const { predictionTable, predictionCsv } = await import('../../render/predict-table.js');
     const p = predict(survey);
+    for (const w of p.warnings) io.stderr(`skytally: warning: ${w}\n`);
     const figures = draw && figuresDir ? await draw.drawFigures(survey, p) : undefined;
     emit(io, opts, { json: () => p, table: () => predictionTable(p), csv: () => predictionCsv(p) }, [file]);
     if (draw && figuresDir && figures) await draw.saveFigures(io, figuresDir, figures);

@@ -89,6 +89,39 @@ population:
 slices: {edges: [0.2, 0.5, 0.8, 1.1, 1.5]}
 histogram: {width: 0.2}
 """,
+"two_lines_one_filter": """
+title: Invented narrow-band search with an [OIII] interloper (two populations)
+cosmology: {h0: 70, omega_m: 0.3}
+area: 0.8
+detection:
+  kind: line_flux
+  limit: 4e-17
+  filter: {center: 9200, fwhm: 110}
+populations:
+  - {name: halpha, variable: luminosity, line: 6563, log10_phi_star: -2.8, log10_l_star: 41.9, alpha: -1.4}
+  - {name: oiii, variable: luminosity, line: 5007, log10_phi_star: -2.9, log10_l_star: 42.0, alpha: -1.6}
+slices: {count: 3}
+histogram: {width: 0.1}
+""",
+"double_schechter_mass": """
+title: Invented mass-limited sample with a double Schechter mass function
+cosmology: {h0: 70, omega_m: 0.3}
+area: 2.0
+redshift: {min: 0.2, max: 1.0}
+detection:
+  kind: threshold
+  limit: {table: [[0.2, 8.6], [0.6, 9.2], [1.0, 9.7]]}
+population:
+  shape: double_schechter
+  variable: luminosity
+  log10_l_star: 10.7
+  log10_phi_star_1_dex: "-2.45 - 0.2*z"
+  alpha_1: -0.45
+  log10_phi_star_2_dex: -3.1
+  alpha_2: -1.5
+slices: {width: 0.2}
+histogram: {width: 0.25}
+""",
 "threshold_magnitude_completeness": """
 title: Invented absolute-magnitude-limited sample with a logistic completeness
 cosmology: {h0: 70, omega_m: 0.3}
@@ -144,15 +177,22 @@ def build(doc):
     area_sr = unit_number(area, 'deg2', u.sr) if isinstance(area, str) else area * DEG2_SR
     return cosmo, area_sr
 
+def normalisation(p, sfx):
+    if 'phi_star' + sfx in p: return param(p['phi_star' + sfx])
+    if 'log10_phi_star' + sfx in p: f = param(p['log10_phi_star' + sfx]); return lambda z, f=f: 10 ** f(z)
+    if 'phi_star' + sfx + '_dex' in p: f = param(p['phi_star' + sfx + '_dex']); return lambda z, f=f: f(z) / LN10
+    f = param(p['log10_phi_star' + sfx + '_dex']); return lambda z, f=f: 10 ** f(z) / LN10
+
 def pop_params(p):
-    if 'phi_star' in p: phi = param(p['phi_star'])
-    elif 'log10_phi_star' in p: f = param(p['log10_phi_star']); phi = lambda z, f=f: 10 ** f(z)
-    elif 'phi_star_dex' in p: f = param(p['phi_star_dex']); phi = lambda z, f=f: f(z) / LN10
-    else: f = param(p['log10_phi_star_dex']); phi = lambda z, f=f: 10 ** f(z) / LN10
+    """[(phi*(z), alpha(z)), ...] (one component, or two for shape double_schechter) and L*/M*(z)."""
+    if p.get('shape') == 'double_schechter':
+        comps = [(normalisation(p, '_1'), param(p['alpha_1'])), (normalisation(p, '_2'), param(p['alpha_2']))]
+    else:
+        comps = [(normalisation(p, ''), param(p['alpha']))]
     if 'l_star' in p: star = param(p['l_star'])
     elif 'log10_l_star' in p: g = param(p['log10_l_star']); star = lambda z, g=g: 10 ** g(z)
     else: star = param(p['m_star'])
-    return phi, star, param(p['alpha'])
+    return comps, star
 
 def upper_gamma(s, x):
     return float(mpmath.gammainc(s, a=x))
@@ -175,14 +215,18 @@ def completeness_fn(comp, kind, variable):
         return lambda obs: float(np.interp(-obs, xs, fs))
     return lambda obs: float(np.interp(obs, t[:, 0], t[:, 1]))
 
-def survey_model(doc):
+def survey_models(doc):
+    pops = doc['populations'] if 'populations' in doc else [doc['population']]
+    return [survey_model(doc, p) for p in pops]
+
+def survey_model(doc, pop):
     cosmo, area_sr = build(doc)
     det = doc['detection']; kind = det['kind']
-    pop = doc['population']; variable = pop.get('variable', 'luminosity')
-    phi, star, alpha = pop_params(pop)
+    variable = pop.get('variable', 'luminosity')
+    comps, star = pop_params(pop)
     comp = completeness_fn(det.get('completeness'), kind, variable)
     if kind == 'line_flux':
-        line = float(det['line']); flim = float(det['limit'])
+        line = float(pop.get('line', det.get('line'))); flim = float(det['limit'])
         filt = det.get('filter')
         center, fwhm = float(filt['center']), float(filt['fwhm'])
         gauss = filt.get('profile') == 'gaussian'
@@ -211,7 +255,7 @@ def survey_model(doc):
             obs_of = lambda z: (math.log10(star(z)), 1.0, lim(z))
         else:
             obs_of = lambda z: (star(z), -2.5, lim(z))
-    return dict(cosmo=cosmo, area_sr=area_sr, phi=phi, alpha=alpha, comp=comp, obs_of=obs_of, window=(zlo, zhi))
+    return dict(cosmo=cosmo, area_sr=area_sr, comps=comps, comp=comp, obs_of=obs_of, window=(zlo, zhi))
 
 def n_between(m, z, obs_lo, obs_hi):
     """Number density at z of sources whose observed value lies in [obs_lo, obs_hi] and passes the hard limit."""
@@ -222,18 +266,24 @@ def n_between(m, z, obs_lo, obs_hi):
     if obs_hi <= obs_lo: return 0.0
     # log10 u range
     l1, l2 = sorted(((obs_lo - a) / slope, (obs_hi - a) / slope))
-    s = m['alpha'](z) + 1
-    phi = m['phi'](z)
+    comps = [(phi(z), alpha(z) + 1) for phi, alpha in m['comps']]
     if m['comp'] is None:
-        g1 = upper_gamma(s, 10 ** l1)
-        g2 = 0.0 if l2 > 6 else upper_gamma(s, 10 ** l2)
-        return phi * (g1 - g2)
-    f = lambda lnu: phi * math.exp((s) * lnu - math.exp(lnu)) * m['comp'](a + slope * lnu / LN10)
+        n = 0.0
+        for phi, s in comps:
+            g1 = upper_gamma(s, 10 ** l1)
+            g2 = 0.0 if l2 > 6 else upper_gamma(s, 10 ** l2)
+            n += phi * (g1 - g2)
+        return n
+    f = lambda lnu: sum(phi * math.exp(s * lnu - math.exp(lnu)) for phi, s in comps) * m['comp'](a + slope * lnu / LN10)
     hi = min(l2, math.log10(200.0)) * LN10
     lo = l1 * LN10
     if hi <= lo: return 0.0
     pts = np.linspace(lo, hi, 41)
     return sum(integrate.quad(f, pts[i], pts[i + 1], epsabs=0, epsrel=1e-11, limit=200)[0] for i in range(40))
+
+def count_all(models, z1, z2, obs_lo=-1e9, obs_hi=1e9):
+    """Sum over populations of their counts inside [z1, z2] (each clipped to its own window)."""
+    return sum(count(m, z1, z2, obs_lo, obs_hi) for m in models)
 
 def count(m, z1, z2, obs_lo=-1e9, obs_hi=1e9):
     z1, z2 = max(z1, m['window'][0]), min(z2, m['window'][1])
@@ -263,15 +313,23 @@ out = {
 }
 for name, text in CASES.items():
     doc = num(yaml.safe_load(text))
-    m = survey_model(doc)
+    models = survey_models(doc)
+    m = models[0]  # the top-level slices follow the first population's window
     edges = slice_edges(doc, m)
-    slices = [{"z_min": float(a), "z_max": float(b), "count": count(m, a, b)} for a, b in zip(edges[:-1], edges[1:])]
+    slices = [{"z_min": float(a), "z_max": float(b), "count": count_all(models, a, b)} for a, b in zip(edges[:-1], edges[1:])]
     # a few histogram bins of the first slice: the bins nearest the limit
     w = doc.get('histogram', {}).get('width')
     a0, slope, olim = m['obs_of'](0.5 * (edges[0] + edges[1]))
     k = math.floor(olim / w + 1e-9)
     ks = [k - 1, k - 2, k - 3] if slope > 0 else [k, k - 1, k - 2, k - 4]
-    bins = [{"lo": round(kk * w, 10), "hi": round((kk + 1) * w, 10), "count": count(m, edges[0], edges[1], kk * w, (kk + 1) * w)} for kk in ks]
-    out["cases"].append({"name": name, "yaml": text, "slices": slices, "total": sum(s["count"] for s in slices), "first_slice_bins": bins})
+    bins = [{"lo": round(kk * w, 10), "hi": round((kk + 1) * w, 10), "count": count_all(models, edges[0], edges[1], kk * w, (kk + 1) * w)} for kk in ks]
+    case = {"name": name, "yaml": text, "slices": slices, "total": sum(s["count"] for s in slices), "first_slice_bins": bins}
+    if len(models) > 1:
+        # each population's own result: the same slices rule over its own window
+        case["populations"] = []
+        for mp in models:
+            e = slice_edges(doc, mp)
+            case["populations"].append({"window": list(mp['window']), "slices": [{"z_min": float(a), "z_max": float(b), "count": count(mp, a, b)} for a, b in zip(e[:-1], e[1:])]})
+    out["cases"].append(case)
     print(name, [round(s["count"], 4) for s in slices], file=sys.stderr)
 json.dump(out, sys.stdout, indent=1)

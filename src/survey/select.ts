@@ -1,0 +1,20 @@
+/** Choosing one population of a survey by name (forecast and plan take the population of interest). */
+import { inputError } from '../errors.js';
+import type { Population, Survey } from './types.js';
+
+/**
+ * The population called `name`, or the first one when `name` is undefined. An unknown name is a
+ * SurveyError (bad_option) that lists the valid names. `option` names the command-line option
+ * (or key) the name came from, for the message.
+ */
+export function populationByName(survey: Survey, name?: string, option = '--population'): Population {
+  const first = survey.populations[0];
+  if (name === undefined) {
+    if (!first) throw inputError('bad_option', survey.file, option, 'the survey has no population', 'add a population to the survey file');
+    return first;
+  }
+  const found = survey.populations.find((p) => p.name === name);
+  if (found) return found;
+  const names = survey.populations.map((p) => `"${p.name}"`).join(', ');
+  throw inputError('bad_option', survey.file, option, `there is no population named "${name}"`, `use one of ${names}`);
+}

@@ -1,0 +1,126 @@
+/**
+ * Tabulated transmission curves (detection.filter.file, detection.band_file).
+ *
+ * Format: a text file of rows "wavelength, transmission" (comma, semicolon, tab or spaces between
+ * the two numbers). Lines starting with # and blank lines are skipped. One header line is allowed
+ * before the first row; its first column names the wavelength unit:
+ *   wavelength | wavelength_angstrom -> Angstrom (also the unit when there is no header)
+ *   wavelength_nm                    -> nanometres
+ *   wavelength_um                    -> micrometres
+ * Wavelengths must increase strictly; transmissions must be 0 or more with a positive peak. The
+ * curve is stored relative to its peak, linear between rows and 0 outside the table. The path is
+ * relative to the survey file's directory. Every problem is one SurveyError naming the survey file,
+ * the key and the transmission file.
+ */
+import { readFileSync, statSync } from 'node:fs';
+import { isAbsolute, resolve } from 'node:path';
+import { inputError } from '../errors.js';
+import type { TransmissionTable } from './types.js';
+import { MAX_FILE_BYTES } from './yaml.js';
+
+const UNIT_SCALE: Record<string, number> = { '': 1, _angstrom: 1, _nm: 10, _um: 1e4 };
+
+/** Read and check a transmission file; `keyPath` is the survey key that names it. */
+export function readTransmissionFile(path: string, surveyFile: string, keyPath: string, baseDir: string): TransmissionTable {
+  const full = isAbsolute(path) ? path : resolve(baseDir, path);
+  const bad = (what: string, fix: string): never => {
+    throw inputError('bad_table', surveyFile, keyPath, `the transmission file "${path}" ${what}`, fix);
+  };
+  let text: string;
+  try {
+    const st = statSync(full);
+    if (st.isDirectory()) throw Object.assign(new Error('directory'), { code: 'EISDIR' });
+    if (st.size > MAX_FILE_BYTES) bad(`is ${st.size} bytes, more than the 1 MiB allowed`, 'give a shorter table');
+    text = readFileSync(full, 'utf8');
+  } catch (e) {
+    if (e instanceof Error && e.name === 'SurveyError') throw e;
+    const code = (e as { code?: string }).code;
+    const why = code === 'ENOENT' ? 'does not exist' : code === 'EISDIR' ? 'is a directory' : `cannot be read (${code ?? (e as Error).message})`;
+    throw inputError('file_unreadable', surveyFile, keyPath, `the transmission file "${path}" ${why} (looked for ${full})`, 'give a path relative to the survey file');
+  }
+  let scale = 1;
+  let seenRow = false;
+  let headerSeen = false;
+  const wl: number[] = [];
+  const tr: number[] = [];
+  const lines = text.split(/\r?\n/);
+  lines.forEach((rawLine, i) => {
+    const line = rawLine.trim();
+    if (line === '' || line.startsWith('#')) return;
+    const cells = line.split(/\s*[,;\t]\s*|\s+/).filter((c) => c.length > 0);
+    const nums = cells.map((c) => (/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(c) ? Number(c) : NaN));
+    if (!seenRow && !headerSeen && nums.some((x) => Number.isNaN(x))) {
+      headerSeen = true;
+      const first = (cells[0] ?? '').toLowerCase();
+      const m = /^wavelength(_angstrom|_nm|_um)?$/.exec(first);
+      if (!m) bad(`has the header "${line}" whose first column is not wavelength, wavelength_angstrom, wavelength_nm or wavelength_um`, 'name the first column by its unit');
+      scale = UNIT_SCALE[m![1] ?? '']!;
+      return;
+    }
+    if (cells.length !== 2 || nums.some((x) => !Number.isFinite(x))) {
+      bad(`line ${i + 1} ("${line.length > 40 ? line.slice(0, 37) + '...' : line}") is not two numbers`, 'write each row as wavelength, transmission');
+    }
+    seenRow = true;
+    const w = nums[0]! * scale;
+    const t = nums[1]!;
+    if (!(w > 0)) bad(`line ${i + 1} has the wavelength ${nums[0]}, not above 0`, 'give positive wavelengths');
+    if (!(t >= 0)) bad(`line ${i + 1} has the transmission ${t}, below 0`, 'give transmissions of 0 or more');
+    if (wl.length > 0 && !(w > wl[wl.length - 1]!)) bad(`line ${i + 1}: the wavelength ${nums[0]} does not follow the one before upward`, 'list the rows in increasing wavelength without repeats');
+    wl.push(w);
+    tr.push(t);
+  });
+  if (wl.length < 2) bad(`holds ${wl.length} row${wl.length === 1 ? '' : 's'}`, 'give at least two rows of wavelength, transmission');
+  const peak = Math.max(...tr);
+  if (!(peak > 0)) bad('has no transmission above 0', 'check the second column');
+  return { file: path, wavelengthAngstrom: wl, transmission: tr.map((t) => t / peak) };
+}
+
+/** [lo, hi]: the wavelength range where the curve is above 0 (linear between rows, 0 outside). */
+export function tableRange(t: TransmissionTable): [number, number] {
+  const w = t.wavelengthAngstrom;
+  const tr = t.transmission;
+  let i = tr.findIndex((x) => x > 0);
+  let j = tr.length - 1 - [...tr].reverse().findIndex((x) => x > 0);
+  if (i > 0) i -= 1;
+  if (j < tr.length - 1) j += 1;
+  return [w[i]!, w[j]!];
+}
+
+/** Transmission-weighted mean wavelength, integral lambda T / integral T (trapezoids, exact for linear T). */
+export function tableMeanWavelength(t: TransmissionTable): number {
+  const w = t.wavelengthAngstrom;
+  const tr = t.transmission;
+  let num = 0;
+  let den = 0;
+  for (let k = 0; k + 1 < w.length; k++) {
+    const h = w[k + 1]! - w[k]!;
+    const a = tr[k]!;
+    const b = tr[k + 1]!;
+    den += (h * (a + b)) / 2;
+    // integral of lambda T over a linear piece: h/6 (2 w0 a + w0 b + w1 a + 2 w1 b)
+    num += (h / 6) * (2 * w[k]! * a + w[k]! * b + w[k + 1]! * a + 2 * w[k + 1]! * b);
+  }
+  return num / den;
+}
+
+/** Distance between the outermost wavelengths where the curve crosses half its peak. */
+export function tableFwhm(t: TransmissionTable): number {
+  const w = t.wavelengthAngstrom;
+  const tr = t.transmission;
+  const cross = (k: number): number => {
+    const a = tr[k]!;
+    const b = tr[k + 1]!;
+    return w[k]! + ((0.5 - a) / (b - a)) * (w[k + 1]! - w[k]!);
+  };
+  let lo = w[0]!;
+  for (let k = 0; k + 1 < w.length; k++) {
+    if (tr[k]! >= 0.5) { lo = w[k]!; break; }
+    if (tr[k + 1]! >= 0.5) { lo = cross(k); break; }
+  }
+  let hi = w[w.length - 1]!;
+  for (let k = w.length - 1; k > 0; k--) {
+    if (tr[k]! >= 0.5) { hi = w[k]!; break; }
+    if (tr[k - 1]! >= 0.5) { hi = cross(k - 1); break; }
+  }
+  return hi - lo;
+}
