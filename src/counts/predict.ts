@@ -405,8 +405,10 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
     if (sfr.total === undefined) delete sfr.total;
     totals.sfr_density_msun_yr_mpc3 = sfr;
   }
+  const uncertaintyWarnings: string[] = [];
   if (!options.noUncertainty) {
     const ctx = uncertaintyContext(survey, cosmo);
+    ctx.warnings = uncertaintyWarnings;
     // Each population over its own window and slices.
     survey.populations.forEach((pop, k) => {
       const own = perPop[k]!;
@@ -473,6 +475,6 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
     all_populations: { count: allCount, per_deg2: allCount / survey.areaDeg2 },
     populations: perPop,
     observed_shares,
-    warnings: predictionWarnings(survey),
+    warnings: [...predictionWarnings(survey), ...uncertaintyWarnings],
   };
 }

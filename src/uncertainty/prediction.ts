@@ -16,7 +16,7 @@ import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
 import type { Population, Survey } from '../survey/types.js';
 import { inputError } from '../errors.js';
 import { createLinearPower, type LinearPower } from './power-spectrum.js';
-import { createHaloModel } from './haloes.js';
+import { createHaloModel, MATCH_MASS_MAX_MSUN, MATCH_MASS_MIN_MSUN } from './haloes.js';
 import { sliceMatterSigma } from './cosmic-variance.js';
 
 export interface UncertaintyJson {
@@ -39,10 +39,12 @@ export interface UncertaintyContext {
   survey: Survey;
   cosmo: FlatLambdaCDM;
   power: LinearPower;
+  /** Sentences for the output's warnings (e.g. abundance matching held at a mass bound). */
+  warnings: string[];
 }
 
 export function uncertaintyContext(survey: Survey, cosmo: FlatLambdaCDM): UncertaintyContext {
-  return { survey, cosmo, power: createLinearPower(survey.cosmology, { form: 'no_wiggle' }) };
+  return { survey, cosmo, power: createLinearPower(survey.cosmology, { form: 'no_wiggle' }), warnings: [] };
 }
 
 /** Bias of one population for a range of redshift holding `count` sources in `volumeMpc3`, at z. */
@@ -55,15 +57,28 @@ export function populationBias(
 ): { bias: number; haloMassMinMsun?: number } {
   if (p.bias !== 'auto') return { bias: p.bias.at(z) };
   const density = count / volumeMpc3;
+  const haloes = createHaloModel(ctx.power);
+  // Outside what haloes between the matching bounds provide, hold the mass at the bound (and say
+  // so) rather than refuse the whole prediction: the counts do not depend on it.
+  const target = density / p.occupation;
+  const atBound = (mass: number, what: string) => {
+    const message =
+      `${p.name}: the detected density at z = ${z.toPrecision(3)} (${target.toPrecision(3)} Mpc^-3 after occupation) is ${what} ` +
+      `haloes above ${mass.toExponential(0)} Msun provide, so the bias is that of haloes above this mass; give population.bias to set it`;
+    if (!ctx.warnings.includes(message)) ctx.warnings.push(message);
+    return { bias: haloes.effectiveBiasAbove(mass, z), haloMassMinMsun: mass };
+  };
+  if (target >= haloes.haloDensityAboveMpc3(MATCH_MASS_MIN_MSUN, z)) return atBound(MATCH_MASS_MIN_MSUN, 'more than all');
+  if (target <= haloes.haloDensityAboveMpc3(MATCH_MASS_MAX_MSUN, z)) return atBound(MATCH_MASS_MAX_MSUN, 'less than the');
   try {
-    const m = createHaloModel(ctx.power).matchHaloMass(density, z, p.occupation);
+    const m = haloes.matchHaloMass(density, z, p.occupation);
     return { bias: m.bias, haloMassMinMsun: m.haloMassMinMsun };
   } catch (err) {
     const what = err instanceof Error ? err.message.replace(/\.$/, '') : String(err);
     throw inputError(
       'out_of_range',
       ctx.survey.file,
-      `population.bias`,
+      'population.bias',
       `abundance matching failed for ${p.name} at z = ${z.toPrecision(3)} (${what})`,
       'give population.bias as a number, table or expression instead of "auto"',
     );

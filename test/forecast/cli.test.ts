@@ -14,7 +14,10 @@ import { loadSurveyFile } from '../../src/survey/load.js';
 import { forecast } from '../../src/forecast/forecast.js';
 import { predict } from '../../src/counts/predict.js';
 
-const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml') && !f.startsWith('plan'));
+// Forecasts vary a single Schechter function: double Schechter samples are refused (tested below).
+const ALL = readdirSync('samples').filter((f) => f.endsWith('.yaml') && !f.startsWith('plan'));
+const isDouble = (f: string) => readFileSync(`samples/${f}`, 'utf8').includes('double_schechter');
+const SAMPLES = ALL.filter((f) => !isDouble(f));
 const schema = JSON.parse(readFileSync('specs/forecast.schema.json', 'utf8'));
 const validate = new Ajv2020({ allErrors: true, strict: false }).compile(schema);
 
@@ -88,6 +91,14 @@ describe('forecast command', () => {
     const r = await runCli(['forecast', `samples/${SAMPLES[0]}`, '--no-cosmic-variance', opt, value]);
     expect(r.code).toBe(2);
     expect(r.stderr).toContain(opt);
+    expect(r.stderr.trim().split('\n').length).toBe(1);
+  });
+
+  test.each(ALL.filter(isDouble))('%s: a double Schechter population is refused with one sentence (exit 2)', async (f) => {
+    const r = await runCli(['forecast', `samples/${f}`, '--format', 'json']);
+    expect(r.code).toBe(2);
+    expect(r.stdout).toBe('');
+    expect(r.stderr).toContain('population.shape');
     expect(r.stderr.trim().split('\n').length).toBe(1);
   });
 
