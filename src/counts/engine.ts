@@ -55,6 +55,28 @@ export interface EngineOptions {
 }
 
 /**
+ * With a flux or magnitude limit, the luminosity limit falls as D_L^2 ~ z^2 towards z = 0, so the
+ * number density above it grows as z^(2 (alpha + 1)) and the count integrand behaves like
+ * z^2 z^(2 (alpha + 1)) = z^(2 alpha + 4): the count from z = 0 diverges when alpha <= -2.5
+ * (common practice; follows from survey-file.md's definitions). Refuse it with one sentence.
+ */
+function assertConvergent(survey: Survey, population: Population, edges: readonly number[]): void {
+  if (survey.detection.kind === 'threshold') return;
+  const z0 = Math.max(edges[0]!, population.window.min);
+  if (z0 > 0) return;
+  const steepest = Math.min(...population.components.map((c) => c.alpha.at(0)));
+  if (steepest <= -2.5) {
+    throw inputError(
+      'divergent',
+      survey.file,
+      'redshift.min',
+      `the expected count of ${population.name} diverges at z = 0, where a ${survey.detection.kind === 'line_flux' ? 'flux' : 'magnitude'} limit reaches ever fainter luminosities and alpha = ${steepest} is at or below -2.5`,
+      'start the redshift window above 0 or assume a flatter faint end',
+    );
+  }
+}
+
+/**
  * Redshift quadrature for [z1, z2]: nodes and weights (weights include dz). `n` defaults to a
  * number that grows with the slice width; `chooseRedshiftNodes` picks it by convergence.
  */
@@ -139,6 +161,7 @@ export function countPopulation(
   edges: readonly number[],
   options: EngineOptions = {},
 ): SliceCount[] {
+  assertConvergent(survey, population, edges);
   const observer = makeObserver(survey.detection, population, cosmo);
   const completeness = survey.detection.completeness
     ? completenessFunction(survey.detection.completeness, survey.detection.kind, population.variable)
