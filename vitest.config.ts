@@ -5,6 +5,9 @@ export default defineConfig({
     include: ['test/**/*.test.ts'],
     exclude: ['test/bench/**', 'node_modules/**'],
     testTimeout: 60_000,
+    // The default reporter for people; a JSON summary that .ci/run turns into one closing line.
+    reporters: ['default', 'json'],
+    outputFile: { json: 'test-output/vitest-summary.json' },
     hookTimeout: 120_000,
   },
 });
