@@ -17,8 +17,8 @@ export interface ForecastResultLike {
     count: number;
     /** Summary of the mock fits per parameter. */
     parameters: Record<string, { mean: number; std: number }>;
-    /** One row per converged mock fit, columns in the order of `parameters` (optional). */
-    fits?: number[][];
+    /** One row per converged mock fit, columns in the order of `parameters` (optional; null: not constrained). */
+    fits?: (number | null)[][];
   };
 }
 
