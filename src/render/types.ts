@@ -98,6 +98,8 @@ export interface ForecastJson {
   };
   /** The fiducial values. */
   center: Record<string, number>;
+  /** What L* measures when it is not a luminosity (threshold surveys), e.g. "stellar mass [Msun]". */
+  quantity?: string;
   mocks?: {
     /**
      * One row per mock catalogue, columns in the order of `parameters` (or `mocks.parameters`);
