@@ -347,7 +347,10 @@ function planTable(plan: PlanJson): string {
   const nb = plan.near_best;
   const lo = nb ? Math.min(nb.from, nb.to) : NaN;
   const hi = nb ? Math.max(nb.from, nb.to) : NaN;
-  const designs = [...(plan.designs ?? [])].sort((a, b) => a.exposure_hours_per_pointing - b.exposure_hours_per_pointing);
+  // The best design may come from refining between grid designs: it is listed with them.
+  const listed = [...(plan.designs ?? [])];
+  if (plan.best && !listed.some((d) => same(d, plan.best))) listed.push(plan.best);
+  const designs = listed.sort((a, b) => a.exposure_hours_per_pointing - b.exposure_hours_per_pointing);
   const rows = designs
     .map((d) => {
       const best = same(d, plan.best);
