@@ -37,6 +37,8 @@ export interface ForecastOptions {
   estimator?: Estimator;
   /** Target sigmas by parameter name. */
   targets?: Record<string, number>;
+  /** Keep every converged mock fit in `mocks.fits` (the report scatters them; default false). */
+  keepFits?: boolean;
   onProgress?: (done: number, total: number) => void;
 }
 
@@ -68,6 +70,11 @@ export interface MocksBlock {
   failed_fits: number;
   mean_sources: number;
   notes: string[];
+  /**
+   * With keepFits: one row per converged mock fit, columns in the order of `parameters`
+   * (fitted values, not offsets); null in a column the estimator does not constrain.
+   */
+  fits?: (number | null)[][];
 }
 
 export interface ForecastSlice {
@@ -250,6 +257,14 @@ export async function forecast(survey: Survey, opts: ForecastOptions = {}): Prom
       mean_sources: sources / run.count,
       notes,
     };
+    if (opts.keepFits) {
+      const fits: (number | null)[][] = [];
+      for (let i = 0; i < run.count; i++) {
+        if (!run.ok[i]) continue;
+        fits.push(names.map((n, j) => (notConstrained.includes(n) ? null : values[j]! + run.theta[3 * i + j]!)));
+      }
+      out.mocks.fits = fits;
+    }
   }
 
   if (opts.targets && Object.keys(opts.targets).length > 0) {

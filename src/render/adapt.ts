@@ -13,12 +13,14 @@ export interface ForecastResultLike {
   /** Input value of each parameter (the centre of the ellipses). */
   center: Record<string, number>;
   fisher: { sigma: Record<string, number>; correlation: number[][] };
+  /** The assumed model; its quantity names what L* measures in a threshold survey. */
+  model?: { quantity?: string };
   mocks?: {
     count: number;
     /** Summary of the mock fits per parameter. */
     parameters: Record<string, { mean: number; std: number }>;
-    /** One row per converged mock fit, columns in the order of `parameters` (optional). */
-    fits?: number[][];
+    /** One row per converged mock fit, columns in the order of `parameters` (optional; null: not constrained). */
+    fits?: (number | null)[][];
   };
 }
 
@@ -29,6 +31,7 @@ export function forecastForFigures(f: ForecastResultLike): ForecastJson {
     fisher: { sigma: { ...f.fisher.sigma }, correlation: f.fisher.correlation.map((r) => [...r]) },
     center: { ...f.center },
   };
+  if (typeof f.model?.quantity === 'string' && f.model.quantity.trim()) out.quantity = f.model.quantity.trim();
   if (f.mocks) {
     const summary: Record<string, { mean: number; std: number }> = {};
     for (const [k, v] of Object.entries(f.mocks.parameters)) summary[k] = { mean: v.mean, std: v.std };

@@ -552,7 +552,12 @@ export function ellipseAxes(f: ForecastJson): EllipseAxes | null {
     x: { name: 'alpha', label: 'faint-end slope α' },
     y: {
       name: yName,
-      label: yName === 'm_star' ? 'M* [AB mag]' : 'log₁₀ L* [erg s⁻¹]',
+      label:
+        yName === 'm_star'
+          ? 'M* [AB mag]'
+          : typeof f.quantity === 'string' && f.quantity
+            ? `log₁₀ characteristic ${f.quantity}`
+            : 'log₁₀ L* [erg s⁻¹]',
       log10,
     },
     center: [cxv as number, cyv as number],

@@ -27,6 +27,10 @@ export interface ReportInput {
   prediction: PredictionJson;
   forecast?: ForecastJson;
   plan?: PlanJson;
+  /** Why the report holds no forecast (one sentence), when it cannot be made for this survey. */
+  forecastOmitted?: string;
+  /** Why the report holds no plan (one sentence), when the file asks for one that cannot be made. */
+  planOmitted?: string;
   /** The assumed population(s); defaults to prediction.model. */
   model?: ModelDescription | ModelDescription[];
   figures: Figure[];
@@ -343,7 +347,10 @@ function planTable(plan: PlanJson): string {
   const nb = plan.near_best;
   const lo = nb ? Math.min(nb.from, nb.to) : NaN;
   const hi = nb ? Math.max(nb.from, nb.to) : NaN;
-  const designs = [...(plan.designs ?? [])].sort((a, b) => a.exposure_hours_per_pointing - b.exposure_hours_per_pointing);
+  // The best design may come from refining between grid designs: it is listed with them.
+  const listed = [...(plan.designs ?? [])];
+  if (plan.best && !listed.some((d) => same(d, plan.best))) listed.push(plan.best);
+  const designs = listed.sort((a, b) => a.exposure_hours_per_pointing - b.exposure_hours_per_pointing);
   const rows = designs
     .map((d) => {
       const best = same(d, plan.best);
@@ -414,8 +421,16 @@ figure { margin: 18px 0 26px; break-inside: avoid; page-break-inside: avoid; }
 figure svg { max-width: 100%; height: auto; display: block; }
 figcaption { font-size: 0.9em; color: #444; margin-top: 4px; }
 .note { color: #555; font-size: 0.9em; }
+.omitted { border-left: 4px solid #de8a2a; background: #fdf4e8; padding: 8px 12px; }
 @media print { body { max-width: none; padding: 0; font-size: 11pt; } h2 { break-after: avoid; } }
 `;
+
+/** A forecast or plan section: its tables, or the sentence saying why there are none, or nothing. */
+function section(id: string, heading: string, body: string | undefined, omitted: string | undefined): string {
+  if (body !== undefined) return `<section id="${id}">\n<h2>${heading}</h2>\n${body}\n</section>`;
+  if (omitted) return `<section id="${id}">\n<h2>${heading}</h2>\n<p class="omitted" id="${id}-omitted">${escapeHtml(omitted)}</p>\n</section>`;
+  return '';
+}
 
 /** Build the report. Pure: same input, same document. */
 export function renderReport(input: ReportInput): string {
@@ -485,8 +500,8 @@ ${modelSection}
 ${predictTable(p, modelVariable(models), quantityOf(models[0]))}
 <p class="note">Counts are expected numbers of detected sources, not rounded. The limit is given at each slice's middle redshift.</p>
 </section>
-${input.forecast ? `<section id="forecast">\n<h2>Forecast</h2>\n${forecastTables(input.forecast)}\n</section>` : ''}
-${input.plan ? `<section id="plan">\n<h2>Plan</h2>\n${planTable(input.plan)}\n</section>` : ''}
+${section('forecast', 'Forecast', input.forecast ? forecastTables(input.forecast) : undefined, input.forecastOmitted)}
+${section('plan', 'Plan', input.plan ? planTable(input.plan) : undefined, input.planOmitted)}
 ${input.figures.length > 0 ? `<section id="figures">\n<h2>Figures</h2>\n${figures}\n</section>` : ''}
 </body>
 </html>

@@ -98,9 +98,14 @@ export interface ForecastJson {
   };
   /** The fiducial values. */
   center: Record<string, number>;
+  /** What L* measures when it is not a luminosity (threshold surveys), e.g. "stellar mass [Msun]". */
+  quantity?: string;
   mocks?: {
-    /** One row per mock catalogue, columns in the order of `parameters` (or `mocks.parameters`). */
-    fits?: number[][];
+    /**
+     * One row per mock catalogue, columns in the order of `parameters` (or `mocks.parameters`);
+     * null where the estimator does not constrain a parameter.
+     */
+    fits?: (number | null)[][];
     parameters?: string[];
     [key: string]: unknown;
   };

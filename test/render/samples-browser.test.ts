@@ -20,6 +20,10 @@ if (!haveChromium) console.warn(`browser test skipped: ${CHROMIUM} is absent (.c
 
 const OUT = resolve('test-output');
 const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml')).map((f) => f.replace(/\.yaml$/, ''));
+/** Samples with a `plan:` section: their reports hold a plan and a forecast. */
+const PLAN_SAMPLES = SAMPLES.filter((s) => /^plan:/m.test(readFileSync(`samples/${s}.yaml`, 'utf8')));
+/** Samples whose (first) population is a double Schechter function: no forecast, a sentence instead. */
+const DOUBLE_SAMPLES = SAMPLES.filter((s) => /shape:\s*double_schechter/.test(readFileSync(`samples/${s}.yaml`, 'utf8')));
 const HOSTILE_TITLE = `Field <script>window.__pwned = 1</script> "><img src=x onerror="window.__pwned=2"> </svg><script>window.__pwned=3</script>`;
 
 interface Opened {
@@ -36,6 +40,10 @@ interface Opened {
   surveyText: string | null;
   warningVisible: boolean;
   screenshotBytes: number;
+  /** Text of the visible "no forecast" / "no plan" sentences, by section id. */
+  omitted: Record<string, string>;
+  /** Ids of the forecast and plan tables present. */
+  tables: string[];
 }
 
 describe.skipIf(!haveChromium)('reports made by the command, in headless chromium', () => {
@@ -61,6 +69,8 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
       surveyText: null,
       warningVisible: false,
       screenshotBytes: 0,
+      omitted: {},
+      tables: [],
     };
     page.on('request', (r) => {
       if (r.url() !== url && !r.url().startsWith('data:')) o.requests.push(r.url());
@@ -87,6 +97,11 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
     o.docTitle = await page.title();
     o.surveyText = await page.locator('pre.survey').textContent();
     o.warningVisible = await page.locator('#model .warning').isVisible();
+    for (const id of ['forecast', 'plan']) {
+      const sentence = page.locator(`#${id}-omitted`);
+      if ((await sentence.count()) > 0 && (await sentence.isVisible())) o.omitted[id] = (await sentence.textContent()) ?? '';
+      if ((await page.locator(`#${id}-table`).count()) > 0 && (await page.locator(`#${id}-table`).isVisible())) o.tables.push(`${id}-table`);
+    }
     o.screenshotBytes = (await page.screenshot({ path: join(OUT, `report-${name}.png`), fullPage: true })).length;
     await page.close();
     return o;
@@ -138,6 +153,8 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
       // Several populations: one luminosity-function figure each (luminosity-function-1, -2, ...).
       expect(o.figureNames.slice(0, 2)).toEqual(['counts', 'histograms']);
       expect(o.figureNames[2]).toMatch(/^luminosity-function(-1)?$/);
+      // every single-Schechter sample's report holds its forecast (the Fisher ellipses)
+      if (!DOUBLE_SAMPLES.includes(name)) expect(o.figureNames).toContain('forecast');
       for (const b of o.figureBoxes) {
         expect(b.width, b.name).toBeGreaterThan(100);
         expect(b.height, b.name).toBeGreaterThan(100);
@@ -150,6 +167,38 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
       expect(o.warningVisible).toBe(true);
       expect(o.screenshotBytes).toBeGreaterThan(10_000);
       expect(existsSync(join(OUT, `report-${name}.png`))).toBe(true);
+    });
+  });
+
+  test('the plan samples exist (two) and one double Schechter sample', () => {
+    expect(PLAN_SAMPLES.length).toBeGreaterThanOrEqual(2);
+    expect(DOUBLE_SAMPLES.length).toBeGreaterThanOrEqual(1);
+  });
+
+  describe.each(PLAN_SAMPLES)('%s (a plan file)', (name) => {
+    test('its report holds the forecast and plan figures, with a non-zero size, and their tables', () => {
+      const o = opened.get(name)!;
+      expect(o.figureNames).toContain('forecast');
+      expect(o.figureNames).toContain('plan');
+      for (const fig of ['forecast', 'plan']) {
+        const b = o.figureBoxes.find((x) => x.name === fig)!;
+        expect(b.width, fig).toBeGreaterThan(100);
+        expect(b.height, fig).toBeGreaterThan(100);
+        expect(b.marks, fig).toBeGreaterThan(10);
+      }
+      expect(o.tables).toEqual(['forecast-table', 'plan-table']);
+      expect(o.omitted).toEqual({});
+      expect(o.consoleErrors).toEqual([]);
+      expect(o.pageErrors).toEqual([]);
+      expect(o.requests).toEqual([]);
+    });
+  });
+
+  describe.each(DOUBLE_SAMPLES)('%s (double Schechter)', (name) => {
+    test('no forecast figure; a visible sentence says why', () => {
+      const o = opened.get(name)!;
+      expect(o.figureNames).not.toContain('forecast');
+      expect(o.omitted.forecast).toMatch(/^No forecast: .*double Schechter/);
     });
   });
 

@@ -16,6 +16,8 @@ export const forecastCommand: CommandDef = {
     cmd.option('--no-cosmic-variance', 'leave out the cosmic-variance normalisation of each slice (Poisson only)');
     cmd.option('--workers <K>', 'worker threads for the mocks (default 1)');
     cmd.option('--population <name>', 'the population to forecast (default: the first)');
+    cmd.option('--keep-fits', 'with --mocks: list every converged mock fit in the JSON (mocks.fits)');
+    cmd.option('--figures <dir>', 'also draw the forecast figure as DIR/forecast.svg (and .png when the rasteriser loads)');
     cmd.addOption(new Option('--estimator <name>', 'mock fits: ml (extended likelihood) or sty (shape only; no phi*)').choices(['ml', 'sty']).default('ml'));
     addOutputOptions(cmd);
   },
@@ -23,16 +25,18 @@ export const forecastCommand: CommandDef = {
     const file = args[0] as string;
     const raw = cmd.opts();
     const out = outputOptions(raw);
-    const mocks = raw.mocks === undefined ? 0 : integerOption(String(raw.mocks), '--mocks', 1, 1_000_000);
-    const seed = raw.seed === undefined ? 1 : integerOption(String(raw.seed), '--seed', 0, 4294967295);
+    const { mocks, seed } = mockOptions(raw);
     const maxWorkers = availableParallelism();
     const workers = raw.workers === undefined ? 1 : integerOption(String(raw.workers), '--workers', 1, maxWorkers);
+    const draw = typeof raw.figures === 'string' ? await import('../draw.js') : undefined;
+    const figuresDir = draw ? draw.checkFiguresDir(io, raw.figures as string) : undefined;
+    const keepFits = raw.keepFits === true;
     const survey = await loadSurveyArg(io, file);
     const { forecast, choosePopulation } = await import('../../forecast/forecast.js');
     const { parameterNames } = await import('../../forecast/parameters.js');
     const population = choosePopulation(survey, typeof raw.population === 'string' ? raw.population : undefined);
     const targets = raw.target === undefined ? undefined : parseTargets(String(raw.target), parameterNames(population));
-    const progress = mocks > 0 && io.stderrIsTTY ? progressBar(io) : undefined;
+    const progress = mocks > 0 && io.stderrIsTTY ? mockProgressBar(io) : undefined;
     const result = await forecast(survey, {
       population: population.name,
       cosmicVariance: raw.cosmicVariance !== false,
@@ -41,13 +45,39 @@ export const forecastCommand: CommandDef = {
       workers,
       estimator: raw.estimator === 'sty' ? 'sty' : 'ml',
       ...(targets ? { targets } : {}),
+      // the figure scatters the mock fits; the JSON lists them only with --keep-fits
+      ...(keepFits || draw ? { keepFits: true } : {}),
       ...(progress ? { onProgress: progress } : {}),
     });
+    const shown = keepFits || !result.mocks?.fits ? result : { ...result, mocks: withoutFits(result.mocks) };
     const { forecastTable, forecastCsv } = await import('../../forecast/render.js');
-    emit(io, out, { json: () => result, table: () => forecastTable(result), csv: () => forecastCsv(result) }, [file]);
+    emit(io, out, { json: () => shown, table: () => forecastTable(shown), csv: () => forecastCsv(shown) }, [file]);
+    if (draw && figuresDir) {
+      const { forecastFigure } = await import('../../render/figures.js');
+      const { forecastForFigures } = await import('../../render/adapt.js');
+      const fig = await forecastFigure(forecastForFigures(result), survey.title);
+      if (fig) await draw.saveFigures(io, figuresDir, [fig]);
+      else io.stderr(`skytally: no forecast figure: the forecast has no alpha against L* (or M*) to draw.\n`);
+    }
     return 0;
   },
 };
+
+/** The mocks block without its per-mock fits. */
+function withoutFits<T extends { fits?: unknown }>(m: T): Omit<T, 'fits'> {
+  const { fits: _fits, ...rest } = m;
+  return rest;
+}
+
+/**
+ * --mocks N (1 to 1,000,000; absent: 0, no mocks) and --seed S (0 to 4294967295; default 1),
+ * checked as `forecast` checks them. Shared with `report`.
+ */
+export function mockOptions(raw: { mocks?: unknown; seed?: unknown }): { mocks: number; seed: number } {
+  const mocks = raw.mocks === undefined ? 0 : integerOption(String(raw.mocks), '--mocks', 1, 1_000_000);
+  const seed = raw.seed === undefined ? 1 : integerOption(String(raw.seed), '--seed', 0, 4294967295);
+  return { mocks, seed };
+}
 
 function integerOption(text: string, option: string, min: number, max: number): number {
   const v = Number(text);
@@ -76,7 +106,8 @@ export function parseTargets(text: string, names: readonly string[]): Record<str
   return out;
 }
 
-function progressBar(io: CliIO): (done: number, total: number) => void {
+/** A one-line bar of the mock surveys on stderr (terminals only). Shared with `report`. */
+export function mockProgressBar(io: CliIO): (done: number, total: number) => void {
   const width = 30;
   let last = -1;
   return (done, total) => {

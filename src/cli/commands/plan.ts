@@ -12,6 +12,7 @@ export const planCommand: CommandDef = {
     cmd.option('--population <name>', 'the population the goal is about (default: the first)');
     cmd.option('--no-cosmic-variance', 'leave cosmic variance out of the sigma goal (Poisson only)');
     cmd.option('--workers <K>', 'worker threads for the depth tables (default: 1, or up to 4 when the tables are large; results are identical)');
+    cmd.option('--figures <dir>', 'also draw the plan figure as DIR/plan.svg (and .png when the rasteriser loads)');
     addOutputOptions(cmd);
   },
   async action(cmd, args, io) {
@@ -25,6 +26,8 @@ export const planCommand: CommandDef = {
       if (!Number.isInteger(v) || v < 1 || v > max) throw inputError('bad_option', '', '--workers', `"${raw.workers}" is not a whole number from 1 to ${max}`, 'give --workers a whole number in that range');
       workers = v;
     }
+    const draw = typeof raw.figures === 'string' ? await import('../draw.js') : undefined;
+    const figuresDir = draw ? draw.checkFiguresDir(io, raw.figures as string) : undefined;
     const survey = await loadSurveyArg(io, file);
     const { plan } = await import('../../planning/plan.js');
     const result = await plan(survey, {
@@ -35,6 +38,12 @@ export const planCommand: CommandDef = {
     });
     const { planTable, planCsv } = await import('../../planning/render.js');
     emit(io, out, { json: () => result, table: () => planTable(result), csv: () => planCsv(result) }, [file]);
+    if (draw && figuresDir) {
+      const { planFigure } = await import('../../render/figures.js');
+      const { planForFigures } = await import('../../render/adapt.js');
+      const fig = await planFigure(planForFigures(result), survey.title);
+      if (fig) await draw.saveFigures(io, figuresDir, [fig]);
+    }
     return 0;
   },
 };

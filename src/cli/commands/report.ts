@@ -3,33 +3,123 @@ import { basename, resolve } from 'node:path';
 import type { CommandDef } from './types.js';
 import { loadSurveyArg } from './common.js';
 import { writeAtomic, type CliIO } from '../io.js';
-import { inputError } from '../../errors.js';
+import { inputError, SurveyError } from '../../errors.js';
+import { mockOptions, mockProgressBar } from './forecast.js';
 import type { Survey } from '../../survey/types.js';
 import type { ForecastJson, PlanJson } from '../../render/types.js';
 
 export interface ReportOptions {
   out?: string;
   figures?: string;
+  /** --mocks N as given on the command line (checked by mockOptions). */
+  mocks?: string;
+  /** --seed S as given on the command line. */
+  seed?: string;
+}
+
+/** A section that does not apply to this survey, and the one sentence that says why. */
+export interface OmittedSection {
+  omitted: string;
+}
+
+export type SectionResult<T> = T | OmittedSection | undefined;
+
+export function isOmitted(x: unknown): x is OmittedSection {
+  return typeof x === 'object' && x !== null && typeof (x as { omitted?: unknown }).omitted === 'string';
 }
 
 /**
  * The forecast and plan sections: hooks that take the survey and return the result object the
- * figure and report layer reads (adapt a forecast or plan result with forecastForFigures /
- * planForFigures from src/render/adapt.ts), or undefined when the section does not apply.
+ * figure and report layer reads (a forecast or plan result adapted with forecastForFigures /
+ * planForFigures from src/render/adapt.ts), `{omitted: sentence}` when the section cannot be
+ * computed for this survey (the report says why instead), or undefined when it does not apply.
  * `plan` is called only when the survey file has a `plan:` section.
  */
 export interface ReportSections {
-  forecast?(survey: Survey): Promise<ForecastJson | undefined>;
-  plan?(survey: Survey): Promise<PlanJson | undefined>;
+  forecast?(survey: Survey): Promise<SectionResult<ForecastJson>>;
+  plan?(survey: Survey): Promise<SectionResult<PlanJson>>;
 }
 
 /**
- * The sections the `report` command computes. The forecast (issue 4) and plan (issue 5) layers
- * join here when they land on main: forecast always (with --mocks N), plan when the file has a
- * `plan:` section. Until then the report holds the prediction only; no number is made up.
+ * Why a section that varies phi*, L* (or M*) and alpha of a single Schechter function cannot be
+ * made for this survey's first population, as one sentence; undefined when it can.
  */
-export function reportSections(_opts: ReportOptions): ReportSections {
-  return {};
+function shapeObstacle(survey: Survey, what: 'forecast' | 'plan'): string | undefined {
+  const p = survey.populations[0]!;
+  if (p.shape === 'schechter') return undefined;
+  const shape = p.shape === 'double_schechter' ? 'a double Schechter function' : `of shape ${p.shape}`;
+  const who = survey.populations.length > 1 ? `the first population, "${p.name}",` : `the population "${p.name}"`;
+  const head =
+    what === 'forecast'
+      ? `No forecast: a forecast varies phi*, L* (or M*) and alpha of a single Schechter function, and ${who} is ${shape}`
+      : `No plan: a plan weighs designs by the counts and Fisher matrix of a single Schechter function, and ${who} is ${shape}`;
+  const other = survey.populations.find((q) => q.shape === 'schechter');
+  return other
+    ? `${head}; \`skytally ${what} FILE --population "${other.name}"\` makes one for a single-Schechter population of the file.`
+    : `${head}.`;
+}
+
+/** A SurveyError met while computing a section that was well formed: its sentence, prefixed. */
+function computeFailure(what: 'forecast' | 'plan', e: unknown): OmittedSection {
+  if (e instanceof SurveyError) return { omitted: `No ${what}: it cannot be computed for this survey (${e.message.replace(/\.$/, '')}).` };
+  throw e;
+}
+
+/**
+ * The sections the `report` command computes: the forecast always (the Fisher matrix; mock
+ * surveys too with --mocks N, fitted and scattered over the ellipses), the plan when the file
+ * has a `plan:` section. A section that cannot be computed for this survey (a double Schechter
+ * population for the forecast; a threshold survey, whose limit no exposure time sets, for the
+ * plan) is replaced by a sentence saying why; a malformed plan section is still bad input.
+ */
+export function reportSections(opts: ReportOptions, io?: CliIO): ReportSections {
+  const { mocks, seed } = mockOptions(opts);
+  return {
+    forecast: async (survey) => {
+      const why = shapeObstacle(survey, 'forecast');
+      if (why) return { omitted: why };
+      const { forecast } = await import('../../forecast/forecast.js');
+      const { forecastForFigures } = await import('../../render/adapt.js');
+      let result;
+      try {
+        result = await forecast(survey, {
+          mocks,
+          seed,
+          keepFits: true,
+          ...(mocks > 0 && io?.stderrIsTTY ? { onProgress: mockProgressBar(io) } : {}),
+        });
+      } catch (e) {
+        return computeFailure('forecast', e);
+      }
+      return forecastForFigures(result);
+    },
+    plan: async (survey) => {
+      const { plan } = await import('../../planning/plan.js');
+      const { readPlanSection } = await import('../../planning/plan-section.js');
+      const { planForFigures } = await import('../../render/adapt.js');
+      // The section as written is checked first: a malformed section is bad input (exit 2).
+      // Only what makes a well-formed plan impossible for this survey becomes a sentence.
+      try {
+        readPlanSection(survey, survey.populations[0]!);
+      } catch (e) {
+        if (e instanceof SurveyError && e.code === 'kind_mismatch' && survey.detection.kind === 'threshold') {
+          return {
+            omitted: 'No plan: a plan turns exposure time into a detection limit, but this survey selects its sources by a threshold in a quantity (detection.kind: threshold), which no exposure time sets.',
+          };
+        }
+        throw e;
+      }
+      const why = shapeObstacle(survey, 'plan');
+      if (why) return { omitted: why };
+      let result;
+      try {
+        result = await plan(survey);
+      } catch (e) {
+        return computeFailure('plan', e);
+      }
+      return planForFigures(result);
+    },
+  };
 }
 
 /** True when the survey file as written has a `plan:` section. */
@@ -52,8 +142,8 @@ export async function buildReport(
   const forecast = sections.forecast ? await sections.forecast(survey) : undefined;
   const plan = sections.plan && hasPlanSection(survey) ? await sections.plan(survey) : undefined;
   const extra: { forecast?: ForecastJson; plan?: PlanJson } = {};
-  if (forecast) extra.forecast = forecast;
-  if (plan) extra.plan = plan;
+  if (forecast && !isOmitted(forecast)) extra.forecast = forecast;
+  if (plan && !isOmitted(plan)) extra.plan = plan;
   const figures = await drawFigures(survey, prediction, extra);
   const { combined } = predictionViews(survey, prediction);
   const html = renderReport({
@@ -62,6 +152,8 @@ export async function buildReport(
     surveyFile: basename(file),
     prediction: combined,
     ...extra,
+    ...(isOmitted(forecast) ? { forecastOmitted: forecast.omitted } : {}),
+    ...(isOmitted(plan) ? { planOmitted: plan.omitted } : {}),
     figures,
   });
   return { html, figures };
@@ -74,6 +166,8 @@ export const reportCommand: CommandDef = {
     cmd.argument('<survey>', 'survey file (YAML)');
     cmd.option('--out <file>', 'write the HTML to this file (atomically) instead of stdout');
     cmd.option('--figures <dir>', 'also write each figure as DIR/<name>.svg (and .png when the rasteriser loads)');
+    cmd.option('--mocks <N>', 'also draw N mock surveys for the forecast, fit each and scatter the fits over the Fisher ellipses');
+    cmd.option('--seed <S>', 'seed of the mock surveys (integer 0 to 4294967295; default 1)');
   },
   async action(cmd, args, io) {
     const file = args[0] as string;
@@ -82,7 +176,7 @@ export const reportCommand: CommandDef = {
   },
 };
 
-export async function runReport(io: CliIO, file: string, opts: ReportOptions, sections: ReportSections = reportSections(opts)): Promise<number> {
+export async function runReport(io: CliIO, file: string, opts: ReportOptions, sections: ReportSections = reportSections(opts, io)): Promise<number> {
   const input = resolve(io.cwd, file);
   const target = opts.out === undefined ? undefined : resolve(io.cwd, opts.out);
   if (target === input) {
