@@ -27,7 +27,7 @@
  */
 import type { DensityGrid } from '../forecast/grid.js';
 import { sliceCount } from '../forecast/grid.js';
-import { gaussLegendreRule } from '../numerics/quadrature.js';
+import { panelNodes, type PanelNodes } from '../numerics/quadrature.js';
 import { completenessBreaks, completenessFunction } from '../selection/completeness.js';
 import { runBlocks, serveBlocks, type BlockFunction } from '../parallel/blocks.js';
 
@@ -38,6 +38,8 @@ export const KNOT_STEP = 0.05;
 export const PER_SLICE = 14;
 const PANEL_POINTS = 8;
 const MAX_PANEL = 0.3;
+/** Nodes of faintCount's panels, reused from call to call (faintCount does not nest). */
+const panels: PanelNodes = { x: new Float64Array(256), w: new Float64Array(256), count: 0 };
 
 export interface DepthTables {
   slices: number;
@@ -106,7 +108,6 @@ export function knotValues(grid: DensityGrid, delta: number, out: Float64Array, 
  * the integrand at the upper end (u = 1).
  */
 export function faintCount(grid: DensityGrid, sl: number, delta: number): { count: number; derivative: number } {
-  const rule = gaussLegendreRule(PANEL_POINTS);
   const comp = grid.completeness;
   const cfn = comp ? completenessFunction(comp, grid.kind, grid.variable) : undefined;
   const breaks = comp ? completenessBreaks(comp, grid.kind) : undefined;
@@ -127,28 +128,19 @@ export function faintCount(grid: DensityGrid, sl: number, delta: number): { coun
         const t = (LN10 * (bp - obsA)) / slope;
         if (t > sLim && t < upper) cuts.push(t);
       }
-      cuts.sort((x, y) => x - y);
     }
     let c = 0;
     let d = 0;
-    for (let k = 0; k + 1 < cuts.length; k++) {
-      const ta = cuts[k]!;
-      const tb = cuts[k + 1]!;
-      const nSub = Math.max(1, Math.ceil((tb - ta) / maxStep));
-      const h = (tb - ta) / nSub;
-      for (let m = 0; m < nSub; m++) {
-        const pa = ta + m * h;
-        for (let q = 0; q < PANEL_POINTS; q++) {
-          const sv = pa + 0.5 * h * (rule.nodes[q]! + 1);
-          const cv = cfn ? cfn(obsA + (slope * sv) / LN10) : 1;
-          if (!(cv > 0)) continue;
-          const t = sv + delta;
-          const u = Math.exp(t);
-          const w = 0.5 * h * rule.weights[q]! * cv * Math.exp(a1 * t - u);
-          c += w;
-          d += w * (a1 - u);
-        }
-      }
+    const { x, w: wq, count: nq } = panelNodes(cuts, maxStep, PANEL_POINTS, panels);
+    for (let i = 0; i < nq; i++) {
+      const sv = x[i]!;
+      const cv = cfn ? cfn(obsA + (slope * sv) / LN10) : 1;
+      if (!(cv > 0)) continue;
+      const t = sv + delta;
+      const u = Math.exp(t);
+      const w = wq[i]! * cv * Math.exp(a1 * t - u);
+      c += w;
+      d += w * (a1 - u);
     }
     const cEnd = cfn ? cfn(obsA + (slope * upper) / LN10) : 1;
     d -= Math.exp(-1) * cEnd;
