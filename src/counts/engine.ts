@@ -15,7 +15,7 @@
  */
 import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
 import type { Population, Survey } from '../survey/types.js';
-import { gaussLegendreRule } from '../numerics/quadrature.js';
+import { gaussLegendreRule, panelNodes, type PanelNodes } from '../numerics/quadrature.js';
 import { upperGamma } from '../numerics/gamma.js';
 import { makeObserver, type HistogramVariable, type Observer } from '../selection/observe.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
@@ -505,10 +505,12 @@ function histogramCount(
 }
 
 const PANEL_RULE = 8;
+/** Nodes of completeIntegral's panels, reused from call to call (completeIntegral does not nest). */
+const panels: PanelNodes = { x: new Float64Array(256), w: new Float64Array(256), count: 0 };
 
 /**
  * integral over log10 u in [lo, hi] of phi(u) u^power c(obs(u)) du, by Gauss-Legendre panels in
- * ln u: power 0 gives the number density, power 1 the luminosity density (units of L* Mpc^-3).
+ * log10 u: power 0 gives the number density, power 1 the luminosity density (units of L* Mpc^-3).
  */
 function completeIntegral(
   nd: Pick<NodeState, 'a' | 'components'>,
@@ -521,32 +523,22 @@ function completeIntegral(
 ): number {
   const slope = observer.slope;
   // Panel boundaries: the bin ends, completeness break points inside, and a step no wider than
-  // the logistic width (in log10 u) or 0.05 dex.
+  // the logistic width (in log10 u) or 0.1 dex.
   const cuts = [l10lo, l10hi];
   for (const p of breaks.points) {
     const l = (p - nd.a) / slope;
     if (l > l10lo && l < l10hi) cuts.push(l);
   }
-  cuts.sort((x, y) => x - y);
   const maxStep = Math.min(0.1, Number.isFinite(breaks.scale) ? breaks.scale / Math.abs(slope) : 0.1);
-  const rule = gaussLegendreRule(PANEL_RULE);
   let total = 0;
-  for (let i = 0; i + 1 < cuts.length; i++) {
-    const a = cuts[i]!;
-    const b = cuts[i + 1]!;
-    const nSub = Math.max(1, Math.ceil((b - a) / maxStep));
-    const h = (b - a) / nSub;
-    for (let j = 0; j < nSub; j++) {
-      const pa = a + j * h;
-      for (let q = 0; q < PANEL_RULE; q++) {
-        const l10u = pa + 0.5 * h * (rule.nodes[q]! + 1);
-        const u = 10 ** l10u;
-        let phi = 0;
-        for (const c of nd.components) phi += c.phiStar * u ** (c.alpha + 1 + power);
-        // du = u ln10 dlog10u
-        total += 0.5 * h * rule.weights[q]! * LN10 * phi * Math.exp(-u) * completeness(nd.a + slope * l10u);
-      }
-    }
+  const { x, w, count } = panelNodes(cuts, maxStep, PANEL_RULE, panels);
+  for (let i = 0; i < count; i++) {
+    const l10u = x[i]!;
+    const u = 10 ** l10u;
+    let phi = 0;
+    for (const c of nd.components) phi += c.phiStar * u ** (c.alpha + 1 + power);
+    // du = u ln10 dlog10u
+    total += w[i]! * LN10 * phi * Math.exp(-u) * completeness(nd.a + slope * l10u);
   }
   return total;
 }

@@ -22,7 +22,7 @@ import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
 import type { Completeness, DetectionKind, Population, PopulationVariable, Survey } from '../survey/types.js';
 import { chooseRedshiftNodes } from '../counts/engine.js';
 import { upperGamma } from '../numerics/gamma.js';
-import { gaussLegendreRule } from '../numerics/quadrature.js';
+import { panelNodes, type PanelNodes } from '../numerics/quadrature.js';
 import { makeObserver } from '../selection/observe.js';
 import { completenessBreaks, completenessFunction } from '../selection/completeness.js';
 import { populationAt } from '../population/model.js';
@@ -69,8 +69,8 @@ export function buildDensityGrid(survey: Survey, population: Population, cosmo: 
   const cfn = comp ? completenessFunction(comp, survey.detection.kind, population.variable) : undefined;
   const breaks = comp ? completenessBreaks(comp, survey.detection.kind) : undefined;
   const slope = observer.slope;
-  const rule = gaussLegendreRule(PANEL_POINTS);
   const maxStep = Math.min(MAX_PANEL_T, breaks && Number.isFinite(breaks.scale) ? (breaks.scale * LN10) / Math.abs(slope) : MAX_PANEL_T);
+  const panels: PanelNodes = { x: new Float64Array(256), w: new Float64Array(256), count: 0 };
 
   const sliceNodeStart: number[] = [0];
   const nodeZ: number[] = [];
@@ -126,24 +126,15 @@ export function buildDensityGrid(survey: Survey, population: Population, cosmo: 
             const t = (LN10 * (bp - obs.a)) / slope;
             if (t > tLim && t < tMax) cuts.push(t);
           }
-          cuts.sort((x, y) => x - y);
         }
-        for (let k = 0; k + 1 < cuts.length; k++) {
-          const ta = cuts[k]!;
-          const tb = cuts[k + 1]!;
-          const nSub = Math.max(1, Math.ceil((tb - ta) / maxStep));
-          const h = (tb - ta) / nSub;
-          for (let m = 0; m < nSub; m++) {
-            const pa = ta + m * h;
-            for (let q = 0; q < PANEL_POINTS; q++) {
-              const t = pa + 0.5 * h * (rule.nodes[q]! + 1);
-              const c = cfn ? cfn(obs.a + (slope * t) / LN10) : 1;
-              if (!(c > 0)) continue;
-              pointT.push(t);
-              pointLogW.push(logV + Math.log(0.5 * h * rule.weights[q]! * c));
-              pointA1.push(a1);
-            }
-          }
+        const pn = panelNodes(cuts, maxStep, PANEL_POINTS, panels);
+        for (let q = 0; q < pn.count; q++) {
+          const t = pn.x[q]!;
+          const c = cfn ? cfn(obs.a + (slope * t) / LN10) : 1;
+          if (!(c > 0)) continue;
+          pointT.push(t);
+          pointLogW.push(logV + Math.log(pn.w[q]! * c));
+          pointA1.push(a1);
         }
         nodeZ.push(zi);
         nodeA1.push(a1);

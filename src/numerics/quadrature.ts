@@ -6,6 +6,8 @@
  *   cached per n. Exact for polynomials of degree <= 2n - 1.
  * - `gaussLegendre(f, a, b, n)`: the fixed rule mapped to [a, b]. Best for analytic integrands on a
  *   fixed interval (the error falls geometrically with n).
+ * - `panelNodes(cuts, maxStep, n, out?)`: composite n-point Gauss-Legendre rule between cut points
+ *   (kinks of the integrand), each piece split into equal panels no wider than maxStep.
  * - `integrate(f, a, b, opts)`: globally adaptive Gauss-Kronrod 10-21 quadrature with the QUADPACK
  *   error estimate (Piessens, de Doncker-Kapenga, Ueberhuber & Kahaner 1983, QUADPACK, routine QK21
  *   and QAG; nodes and weights from QK21). Returns the value and an error estimate.
@@ -85,6 +87,53 @@ export function gaussLegendre(f: (x: number) => number, a: number, b: number, n:
   let s = 0;
   for (let i = 0; i < n; i++) s += weights[i]! * f(c + h * nodes[i]!);
   return s * h;
+}
+
+/** Nodes x[0..count) and weights w[0..count) of a composite rule (see `panelNodes`). */
+export interface PanelNodes {
+  x: Float64Array;
+  w: Float64Array;
+  count: number;
+}
+
+/**
+ * Composite n-point Gauss-Legendre rule between cut points: sum w[i] f(x[i]) over i < count
+ * approximates the integral of f over [min(cuts), max(cuts)]. `cuts` are the points the integrand
+ * may have a kink at (the ends included); they are sorted in place. Each piece between
+ * neighbouring cuts is split into ceil(width / maxStep) (at least 1) equal panels of width h, with
+ * nodes pa + h (x_q + 1) / 2 and weights h w_q / 2 (pa the panel's start), in ascending order.
+ * `out`, when given, is filled and returned (its arrays replaced by larger ones when too short):
+ * hot loops keep one and reuse it instead of allocating per call.
+ * @example const p = panelNodes([0, 1], 0.5, 4); // 8 nodes; sum of p.w[i] p.x[i]^2 = 1/3
+ */
+export function panelNodes(cuts: number[], maxStep: number, n: number, out?: PanelNodes): PanelNodes {
+  const { nodes, weights } = gaussLegendreRule(n);
+  cuts.sort((x, y) => x - y);
+  let size = 0;
+  for (let i = 0; i + 1 < cuts.length; i++) size += n * Math.max(1, Math.ceil((cuts[i + 1]! - cuts[i]!) / maxStep));
+  const p = out ?? { x: new Float64Array(size), w: new Float64Array(size), count: 0 };
+  if (p.x.length < size) {
+    const grown = Math.max(size, 2 * p.x.length);
+    p.x = new Float64Array(grown);
+    p.w = new Float64Array(grown);
+  }
+  const { x, w } = p;
+  let k = 0;
+  for (let i = 0; i + 1 < cuts.length; i++) {
+    const a = cuts[i]!;
+    const b = cuts[i + 1]!;
+    const nSub = Math.max(1, Math.ceil((b - a) / maxStep));
+    const h = (b - a) / nSub;
+    for (let j = 0; j < nSub; j++) {
+      const pa = a + j * h;
+      for (let q = 0; q < n; q++, k++) {
+        x[k] = pa + 0.5 * h * (nodes[q]! + 1);
+        w[k] = 0.5 * h * weights[q]!;
+      }
+    }
+  }
+  p.count = k;
+  return p;
 }
 
 // QUADPACK QK21: abscissae of the 21-point Kronrod rule (xgk[1], xgk[3], ... are the 10-point

@@ -13,7 +13,6 @@ import { buildDensityGrid, sliceCount } from '../forecast/grid.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
 import { pickPopulation } from './population.js';
 import { faintCount } from './tables.js';
-import { predictionCosmicVariance } from './cosmic-variance.js';
 
 export const COMPARE_CAVEAT =
   'Counts and sigmas are only as good as the luminosity functions assumed: each column holds if its population follows the model in its file.';
@@ -96,11 +95,7 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
     const k = survey.populations.indexOf(population);
     const pred = predict(survey);
     const own = pred.populations[k]!;
-    const f = await forecast(survey, {
-      population: population.name,
-      cosmicVariance: useCv,
-      ...(useCv ? { cosmicVarianceSource: predictionCosmicVariance(population) } : {}),
-    });
+    const f = await forecast(survey, { population: population.name, cosmicVariance: useCv });
     const lim = limitOf(survey, population);
     const u = own.totals.uncertainty;
     const row: CompareSurvey = {

@@ -22,17 +22,14 @@
  * direct evaluation in test/planning/tables.test.ts).
  *
  * Knots are independent: with workers > 1 they are split among worker threads, and every knot is
- * computed by the same function, so the tables are identical whatever the number of workers.
+ * computed by the same function, so the tables are identical whatever the number of workers
+ * (this module is the workers' entry: its last line serves the blocks in a worker thread).
  */
-import { Worker, isMainThread, parentPort, workerData } from 'node:worker_threads';
-import { createRequire } from 'node:module';
-import { readFileSync } from 'node:fs';
-import { dirname, join } from 'node:path';
-import { fileURLToPath, pathToFileURL } from 'node:url';
 import type { DensityGrid } from '../forecast/grid.js';
 import { sliceCount } from '../forecast/grid.js';
-import { gaussLegendreRule } from '../numerics/quadrature.js';
+import { panelNodes, type PanelNodes } from '../numerics/quadrature.js';
 import { completenessBreaks, completenessFunction } from '../selection/completeness.js';
+import { runBlocks, serveBlocks, type BlockFunction } from '../parallel/blocks.js';
 
 const LN10 = Math.LN10;
 /** Knot spacing in Delta (ln u). */
@@ -41,6 +38,8 @@ export const KNOT_STEP = 0.05;
 export const PER_SLICE = 14;
 const PANEL_POINTS = 8;
 const MAX_PANEL = 0.3;
+/** Nodes of faintCount's panels, reused from call to call (faintCount does not nest). */
+const panels: PanelNodes = { x: new Float64Array(256), w: new Float64Array(256), count: 0 };
 
 export interface DepthTables {
   slices: number;
@@ -109,7 +108,6 @@ export function knotValues(grid: DensityGrid, delta: number, out: Float64Array, 
  * the integrand at the upper end (u = 1).
  */
 export function faintCount(grid: DensityGrid, sl: number, delta: number): { count: number; derivative: number } {
-  const rule = gaussLegendreRule(PANEL_POINTS);
   const comp = grid.completeness;
   const cfn = comp ? completenessFunction(comp, grid.kind, grid.variable) : undefined;
   const breaks = comp ? completenessBreaks(comp, grid.kind) : undefined;
@@ -130,28 +128,19 @@ export function faintCount(grid: DensityGrid, sl: number, delta: number): { coun
         const t = (LN10 * (bp - obsA)) / slope;
         if (t > sLim && t < upper) cuts.push(t);
       }
-      cuts.sort((x, y) => x - y);
     }
     let c = 0;
     let d = 0;
-    for (let k = 0; k + 1 < cuts.length; k++) {
-      const ta = cuts[k]!;
-      const tb = cuts[k + 1]!;
-      const nSub = Math.max(1, Math.ceil((tb - ta) / maxStep));
-      const h = (tb - ta) / nSub;
-      for (let m = 0; m < nSub; m++) {
-        const pa = ta + m * h;
-        for (let q = 0; q < PANEL_POINTS; q++) {
-          const sv = pa + 0.5 * h * (rule.nodes[q]! + 1);
-          const cv = cfn ? cfn(obsA + (slope * sv) / LN10) : 1;
-          if (!(cv > 0)) continue;
-          const t = sv + delta;
-          const u = Math.exp(t);
-          const w = 0.5 * h * rule.weights[q]! * cv * Math.exp(a1 * t - u);
-          c += w;
-          d += w * (a1 - u);
-        }
-      }
+    const { x, w: wq, count: nq } = panelNodes(cuts, maxStep, PANEL_POINTS, panels);
+    for (let i = 0; i < nq; i++) {
+      const sv = x[i]!;
+      const cv = cfn ? cfn(obsA + (slope * sv) / LN10) : 1;
+      if (!(cv > 0)) continue;
+      const t = sv + delta;
+      const u = Math.exp(t);
+      const w = wq[i]! * cv * Math.exp(a1 * t - u);
+      c += w;
+      d += w * (a1 - u);
     }
     const cEnd = cfn ? cfn(obsA + (slope * upper) / LN10) : 1;
     d -= Math.exp(-1) * cEnd;
@@ -166,14 +155,19 @@ export function knotCount(maxDelta: number): number {
   return Math.max(2, Math.ceil(maxDelta / KNOT_STEP - 1e-9) + 1);
 }
 
-function computeRange(grid: DensityGrid, start: number, end: number): Float64Array {
+const TABLES_TAG = 'plan-depth-tables';
+
+/** The block function of a grid: knots [start, end) into one array, knot after knot. */
+function knotBlocks(grid: DensityGrid): BlockFunction<{ values: Float64Array }> {
   const nS = sliceCount(grid);
-  const out = new Float64Array((end - start) * nS * PER_SLICE);
-  for (let k = start; k < end; k++) knotValues(grid, k * KNOT_STEP, out, (k - start) * nS * PER_SLICE);
-  return out;
+  return (start, end) => {
+    const values = new Float64Array((end - start) * nS * PER_SLICE);
+    for (let k = start; k < end; k++) knotValues(grid, k * KNOT_STEP, values, (k - start) * nS * PER_SLICE);
+    return { values };
+  };
 }
 
-/** Tabulate every knot up to maxDelta, in this thread or in `workers` worker threads. */
+/** Tabulate every knot up to maxDelta, in this thread or in `workers` worker threads (src/parallel/blocks.ts). */
 export async function tabulateDepth(
   grid: DensityGrid,
   maxDelta: number,
@@ -184,56 +178,18 @@ export async function tabulateDepth(
   const data = new Float64Array(knots * nS * PER_SLICE);
   const workers = Math.max(1, Math.min(opts.workers ?? 1, Math.ceil(knots / 8)));
   const block = Math.max(1, Math.min(16, Math.ceil(knots / (workers * 4))));
-  if (workers === 1) {
-    for (let k = 0; k < knots; k += block) {
-      const end = Math.min(knots, k + block);
-      data.set(computeRange(grid, k, end), k * nS * PER_SLICE);
-      opts.onProgress?.(end, knots);
-    }
-    return { slices: nS, knots, step: KNOT_STEP, data };
-  }
-  const entry = workerEntry();
-  let next = 0;
-  let done = 0;
-  await new Promise<void>((resolve, reject) => {
-    let alive = workers;
-    let failed = false;
-    const pool: Worker[] = [];
-    const fail = (err: unknown) => {
-      if (failed) return;
-      failed = true;
-      for (const w of pool) void w.terminate();
-      reject(err instanceof Error ? err : new Error(String(err)));
-    };
-    const give = (w: Worker) => {
-      if (next >= knots) {
-        void w.terminate();
-        return;
-      }
-      const start = next;
-      const end = Math.min(knots, start + block);
-      next = end;
-      w.postMessage({ start, end });
-    };
-    for (let i = 0; i < workers; i++) {
-      const w = new Worker(entry.code, { eval: entry.eval, workerData: { skytallyPlanTables: true, grid } });
-      pool.push(w);
-      w.on('message', (m: { start: number; values: Float64Array }) => {
-        data.set(m.values, m.start * nS * PER_SLICE);
-        done += m.values.length / (nS * PER_SLICE);
-        opts.onProgress?.(done, knots);
-        give(w);
-      });
-      w.on('error', fail);
-      w.on('exit', () => {
-        alive--;
-        if (alive === 0 && !failed) {
-          if (done === knots) resolve();
-          else fail(new Error(`plan workers stopped after ${done} of ${knots} depth knots`));
-        }
-      });
-      give(w);
-    }
+  await runBlocks({
+    total: knots,
+    block,
+    workers,
+    data: grid,
+    prepare: knotBlocks,
+    module: import.meta.url,
+    tag: TABLES_TAG,
+    onBlock: (start, _end, r: { values: Float64Array }) => data.set(r.values, start * nS * PER_SLICE),
+    onProgress: opts.onProgress,
+    name: 'plan',
+    items: 'depth knots',
   });
   return { slices: nS, knots, step: KNOT_STEP, data };
 }
@@ -264,24 +220,4 @@ export function interpolateSlice(t: DepthTables, sl: number, delta: number, out:
   out[6] = h00 * d[a + 12]! + h10 * d[a + 13]! + h01 * d[b + 12]! + h11 * d[b + 13]!;
 }
 
-/** This module as a worker entry (tsx's loader first when running from .ts sources). */
-function workerEntry(): { code: string; eval: boolean } {
-  const url = import.meta.url;
-  const file = fileURLToPath(url);
-  if (file.endsWith('.ts')) {
-    const pkgPath = createRequire(url).resolve('tsx/package.json');
-    const pkg = JSON.parse(readFileSync(pkgPath, 'utf8')) as { exports: Record<string, { import: { default: string } }> };
-    const api = pathToFileURL(join(dirname(pkgPath), pkg.exports['./esm/api']!.import.default)).href;
-    return { code: `import(${JSON.stringify(api)}).then((m) => { m.register(); return import(${JSON.stringify(url)}); });`, eval: true };
-  }
-  return { code: file, eval: false };
-}
-
-if (!isMainThread && parentPort && (workerData as { skytallyPlanTables?: boolean } | null)?.skytallyPlanTables) {
-  const grid = (workerData as { grid: DensityGrid }).grid;
-  const port = parentPort;
-  port.on('message', (m: { start: number; end: number }) => {
-    const values = computeRange(grid, m.start, m.end);
-    port.postMessage({ start: m.start, values }, [values.buffer as ArrayBuffer]);
-  });
-}
+serveBlocks(TABLES_TAG, knotBlocks);

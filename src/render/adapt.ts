@@ -41,15 +41,8 @@ export function forecastForFigures(f: ForecastResultLike): ForecastJson {
   return out;
 }
 
-/** One design of a plan result (the fields drawn and tabulated). */
-export interface PlanDesignLike {
-  exposure_hours_per_pointing: number;
-  pointings: number;
-  area_deg2: number;
-  limit: number;
-  count: number;
-  goal_value: number;
-}
+/** One design of a plan result (the fields drawn and tabulated): the same fields as types.ts PlanDesign. */
+export type PlanDesignLike = PlanDesign;
 
 /** The fields of a plan result the report draws and tabulates. */
 export interface PlanResultLike {

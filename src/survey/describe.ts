@@ -4,6 +4,7 @@
  * of the population's window.
  */
 import type { Completeness, Survey, ZParam } from './types.js';
+import { cosmologyJsonOf } from '../cosmology/json.js';
 
 /** A constant as its normalised value; otherwise what the file wrote and the normalised values at the window's ends. */
 export type ParamView =
@@ -59,18 +60,8 @@ export function describeSurvey(survey: Survey): Record<string, unknown> {
     format: survey.format,
     file: survey.file,
     title: survey.title,
-    cosmology: clean({
-      preset: c.preset,
-      preset_source: c.presetSource,
-      h0: c.h0,
-      omega_m: c.omegaM,
-      omega_lambda: c.omegaLambda,
-      omega_r: c.omegaR,
-      t_cmb: c.tCmb,
-      omega_b: c.omegaB,
-      sigma8: c.sigma8,
-      n_s: c.nS,
-    }),
+    // The outputs' cosmology block (src/cosmology/json.ts), with the preset's name shown first.
+    cosmology: clean({ preset: c.preset, preset_source: c.presetSource, ...cosmologyJsonOf(c) }),
     area_deg2: survey.areaDeg2,
     area_sr: survey.areaSr,
     window: { min: win.min, max: win.max },

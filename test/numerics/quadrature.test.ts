@@ -10,6 +10,7 @@ import {
   integrate,
   integrateToInfinity,
   KRONROD21,
+  panelNodes,
 } from '../../src/numerics/quadrature.js';
 
 const rel = (a: number, b: number): number => Math.abs(a - b) / Math.abs(b);
@@ -106,5 +107,41 @@ describe('integrateToInfinity against closed forms', () => {
       1e-12,
     );
     expect(rel(integrateToInfinity((t) => Math.exp(-t), 2, { rel: 1e-12 }).value, Math.exp(-2))).toBeLessThan(1e-12);
+  });
+});
+
+describe('panelNodes (composite Gauss-Legendre between cut points)', () => {
+  const sum = (p: { x: Float64Array; w: Float64Array; count: number }, f: (x: number) => number) => {
+    let s = 0;
+    for (let i = 0; i < p.count; i++) s += p.w[i]! * f(p.x[i]!);
+    return s;
+  };
+  test('panels per piece = ceil(width / maxStep), nodes ascending inside each piece, weights add up to the width', () => {
+    const cuts = [2, -1, 0.5];
+    const p = panelNodes(cuts, 0.4, 8);
+    expect(cuts).toEqual([-1, 0.5, 2]); // sorted in place
+    expect(p.count).toBe(8 * (Math.ceil(1.5 / 0.4) + Math.ceil(1.5 / 0.4)));
+    for (let i = 1; i < p.count; i++) expect(p.x[i]!).toBeGreaterThan(p.x[i - 1]!);
+    expect(p.x[0]!).toBeGreaterThan(-1);
+    expect(p.x[p.count - 1]!).toBeLessThan(2);
+    expect(Math.abs(sum(p, () => 1) - 3)).toBeLessThan(1e-14);
+  });
+  test('exact for polynomials of degree 2n-1 on each panel: integral of x^7 over [0, 3] = 3^8/8 (4 points, relative 1e-14)', () => {
+    expect(rel(sum(panelNodes([0, 3], 0.7, 4), (x) => x ** 7), 3 ** 8 / 8)).toBeLessThan(1e-14);
+  });
+  test('a kink at a cut is integrated exactly: integral of |x - 0.3| over [0, 1] = 0.29 (closed form, 1e-14)', () => {
+    expect(rel(sum(panelNodes([0, 1, 0.3], 1, 2), (x) => Math.abs(x - 0.3)), 0.29)).toBeLessThan(1e-14);
+  });
+  test('a reused output grows when too short and gives the same nodes as a fresh one', () => {
+    const out = { x: new Float64Array(4), w: new Float64Array(4), count: 0 };
+    const fresh = panelNodes([0, 5], 0.25, 8);
+    const reused = panelNodes([0, 5], 0.25, 8, out);
+    expect(reused).toBe(out);
+    expect(out.count).toBe(fresh.count);
+    expect(Array.from(out.x.subarray(0, out.count))).toEqual(Array.from(fresh.x.subarray(0, fresh.count)));
+    expect(Array.from(out.w.subarray(0, out.count))).toEqual(Array.from(fresh.w.subarray(0, fresh.count)));
+    panelNodes([0, 1], 1, 3, out);
+    expect(out.count).toBe(3);
+    expect(Math.abs(sum(out, (x) => x * x) - 1 / 3)).toBeLessThan(1e-15);
   });
 });

@@ -16,7 +16,6 @@ import { forecast } from '../../src/forecast/forecast.js';
 import { compare } from '../../src/planning/compare.js';
 import { plan } from '../../src/planning/plan.js';
 import { surveyAtLimit } from '../../src/planning/model.js';
-import { predictionCosmicVariance } from '../../src/planning/cosmic-variance.js';
 import { makeDepthModel } from '../../src/planning/depth.js';
 import { runCli } from '../cli/helpers.js';
 import { halphaPlan, sample, sampleText } from './helpers.js';
@@ -34,7 +33,7 @@ describe('compare = predict + forecast, row by row', () => {
     for (const [i, s] of [a, b].entries()) {
       const row = c.surveys[i]!;
       const p = predict(s);
-      const f = await forecast(s, { cosmicVarianceSource: predictionCosmicVariance(s.populations[0]!) });
+      const f = await forecast(s);
       expect(row.area_deg2).toBe(p.area_deg2);
       expect(row.redshift).toEqual(p.redshift);
       expect(row.count).toBe(p.totals.count);
@@ -69,7 +68,7 @@ describe('plan', () => {
     const b = p.best;
     expect(b.hours_used).toBeLessThanOrEqual(80 * (1 + 1e-12));
     const d = surveyAtLimit(s, b.limit, b.area_deg2);
-    const f = await forecast(d, { cosmicVarianceSource: predictionCosmicVariance(d.populations[0]!) });
+    const f = await forecast(d);
     expect(Math.abs(b.goal_value / f.fisher.sigma.log10_l_star! - 1)).toBeLessThan(2e-3);
     expect(Math.abs(b.count / f.count - 1)).toBeLessThan(1e-6);
     const depth = makeDepthModel('line_flux', { kind: 'background', referenceLimit: 6e-17, referenceHours: 1 });

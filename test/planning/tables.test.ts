@@ -18,7 +18,6 @@ import { upperGamma } from '../../src/numerics/gamma.js';
 import { makeDepthModel } from '../../src/planning/depth.js';
 import { buildDesignModel, sigmasOf, surveyAtLimit } from '../../src/planning/model.js';
 import { faintCount } from '../../src/planning/tables.js';
-import { predictionCosmicVariance } from '../../src/planning/cosmic-variance.js';
 import { sample } from './helpers.js';
 
 const halpha = sample('plan-halpha-layers.yaml');
@@ -78,7 +77,7 @@ describe('consistency with the forecast, cosmic variance included', () => {
     const depth = makeDepthModel('line_flux', { kind: 'background', referenceLimit: 6e-17, referenceHours: 1 });
     const model = await buildDesignModel(halpha, halpha.populations[0]!, { limitKind: 'line_flux', depth, fieldOfViewDeg2: 0.2 }, [0.2, 40], [1, 400]);
     const s = surveyAtLimit(halpha, depth.limitAt(h), n * 0.2);
-    const f = await forecast(s, { cosmicVarianceSource: predictionCosmicVariance(s.populations[0]!) });
+    const f = await forecast(s);
     const sig = sigmasOf(model.tier(h, n).fisher)!;
     ['log10_phi_star', 'log10_l_star', 'alpha'].forEach((name, i) => expect(rel(sig[i]!, f.fisher.sigma[name]!), name).toBeLessThan(2e-3));
   });
