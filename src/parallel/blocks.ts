@@ -62,8 +62,9 @@ interface BlockReply<R> {
 /** Run every block of `job`; resolves when all results have been handed to `onBlock`. */
 export async function runBlocks<D, R extends BlockResult>(job: BlockJob<D, R>): Promise<void> {
   const { total, onBlock, onProgress } = job;
-  const block = Math.max(1, Math.floor(job.block));
-  const workers = Math.max(1, Math.min(Math.floor(job.workers), Math.ceil(total / block)));
+  const block = Number.isFinite(job.block) ? Math.max(1, Math.floor(job.block)) : 1;
+  const asked = Number.isFinite(job.workers) ? Math.floor(job.workers) : 1;
+  const workers = Math.max(1, Math.min(asked, Math.ceil(total / block)));
   if (workers === 1) {
     const run = job.prepare(job.data);
     for (let start = 0; start < total; start += block) {
