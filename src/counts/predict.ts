@@ -17,7 +17,14 @@ import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
 import type { Population, Survey } from '../survey/types.js';
 import { countPopulation, type Histogram, type SliceCount } from './engine.js';
 import { cosmologyJsonOf, type CosmologyJsonShape } from '../cosmology/json.js';
-import { combinedUncertainty, countWeightedRedshift, uncertaintyContext, type UncertaintyContext, type UncertaintyJson } from '../uncertainty/prediction.js';
+import {
+  combinedUncertainty,
+  countWeightedRedshift,
+  uncertaintyContext,
+  type UncertaintyContext,
+  type UncertaintyJson,
+  type UncertaintyMemo,
+} from '../uncertainty/prediction.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
 import { bandRedEdgeAngstrom, LYMAN_ALPHA_ANGSTROM } from '../selection/igm.js';
 
@@ -298,6 +305,8 @@ function fmtNum(x: number): string {
 export interface PredictOptions {
   /** Skip Poisson and cosmic-variance uncertainties (faster; used inside forecasts and plans). */
   noUncertainty?: boolean;
+  /** Keep the uncertainty blocks computed here for a later forecast of the same survey (report). */
+  uncertaintyMemo?: UncertaintyMemo;
 }
 
 /** Add the uncertainty blocks to the slices and totals of parts made of populations. */
@@ -409,6 +418,7 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
   if (!options.noUncertainty) {
     const ctx = uncertaintyContext(survey, cosmo);
     ctx.warnings = uncertaintyWarnings;
+    if (options.uncertaintyMemo) ctx.memo = options.uncertaintyMemo;
     // Each population over its own window and slices.
     survey.populations.forEach((pop, k) => {
       const own = perPop[k]!;

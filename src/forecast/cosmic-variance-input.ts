@@ -13,21 +13,33 @@
 import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
 import { countPopulation } from '../counts/engine.js';
 import type { Population, Survey } from '../survey/types.js';
-import { combinedUncertainty, uncertaintyContext } from '../uncertainty/prediction.js';
+import { singleUncertainty, uncertaintyContext, type UncertaintyMemo } from '../uncertainty/prediction.js';
 
 const NEGLIGIBLE_COUNT = 1e-6;
 
 export type CosmicVarianceSource = (survey: Survey, edges: readonly number[], population: Population) => number[];
 
 /** Per-slice cosmic-variance fractions of `population` in `survey` on `edges`. */
-export const cosmicVarianceInput: CosmicVarianceSource = (survey, edges, population) => {
+export const cosmicVarianceInput: CosmicVarianceSource = (survey, edges, population) => fractions(survey, edges, population);
+
+/**
+ * The same fractions, read from `memo` (filled by predict of the same survey, see
+ * UncertaintyMemo) for every slice whose count, volume and redshifts are bit for bit those predict
+ * used, and computed for the others: the numbers are those of cosmicVarianceInput.
+ */
+export function cosmicVarianceInputWith(memo: UncertaintyMemo): CosmicVarianceSource {
+  return (survey, edges, population) => fractions(survey, edges, population, memo);
+}
+
+function fractions(survey: Survey, edges: readonly number[], population: Population, memo?: UncertaintyMemo): number[] {
   const cosmo = new FlatLambdaCDM(survey.cosmology);
   const ctx = uncertaintyContext(survey, cosmo);
+  if (memo) ctx.memo = memo;
   const counts = countPopulation(survey, population, cosmo, edges, { noHistogram: true });
   return counts.map((s) =>
     s.count < NEGLIGIBLE_COUNT
       ? 0
-      : (combinedUncertainty(ctx, [{ population, count: s.count, volumeMpc3: s.volumeMpc3 }], s.zMin, s.zMax, 0.5 * (s.zMin + s.zMax))
+      : (singleUncertainty(ctx, { population, count: s.count, volumeMpc3: s.volumeMpc3 }, s.zMin, s.zMax, 0.5 * (s.zMin + s.zMax))
           ?.cosmic_variance_fraction ?? 0),
   );
-};
+}

@@ -119,8 +119,22 @@ export function formatNumber(x: number, sig = 4): string {
     const mant = String(Number(m));
     return `${mant} × 10<sup>${Number(e)}</sup>`;
   }
-  if (ax >= 1000) return Math.round(x).toLocaleString('en-US');
+  if (ax >= 1000) return groupThousands(Math.round(x));
   return String(Number(x.toPrecision(sig)));
+}
+
+/**
+ * An integer with commas between groups of three digits, as toLocaleString('en-US') writes it
+ * (written out here: the first toLocaleString of a process loads the locale data, tens of ms).
+ */
+export function groupThousands(n: number): string {
+  const digits = String(Math.abs(n));
+  let out = '';
+  for (let i = 0; i < digits.length; i++) {
+    if (i > 0 && (digits.length - i) % 3 === 0) out += ',';
+    out += digits[i];
+  }
+  return n < 0 ? `-${out}` : out;
 }
 
 /** Fixed decimals for redshifts: as many as the edges need, 2 to 4. */

@@ -41,6 +41,38 @@ export interface UncertaintyContext {
   power: LinearPower;
   /** Sentences for the output's warnings (e.g. abundance matching held at a mass bound). */
   warnings: string[];
+  /** Where the blocks computed for one population are kept for reuse (see UncertaintyMemo). */
+  memo?: UncertaintyMemo;
+}
+
+/**
+ * The uncertainty blocks of single populations computed for one survey, by population and by the
+ * exact inputs (count, volume, redshifts): `report` computes them once in predict and the
+ * forecast reads its per-slice cosmic-variance fractions back from here instead of computing
+ * the same numbers again. A block is reused only for bit-for-bit the same inputs, so it is the
+ * block a new computation would give. The warnings a computation adds are not kept: a reader
+ * of the memo that needs them (predict) computes instead.
+ */
+export class UncertaintyMemo {
+  private readonly blocks = new Map<Population, Map<string, UncertaintyJson | undefined>>();
+  constructor(readonly survey: Survey) {}
+
+  private static key(count: number, volumeMpc3: number, zMin: number, zMax: number, zc: number): string {
+    return `${count},${volumeMpc3},${zMin},${zMax},${zc}`;
+  }
+
+  /** The block kept for these inputs: [true, block] when there is one, [false] otherwise. */
+  get(p: Population, count: number, volumeMpc3: number, zMin: number, zMax: number, zc: number): [boolean, UncertaintyJson | undefined] {
+    const m = this.blocks.get(p);
+    const k = UncertaintyMemo.key(count, volumeMpc3, zMin, zMax, zc);
+    return m?.has(k) ? [true, m.get(k)] : [false, undefined];
+  }
+
+  set(p: Population, count: number, volumeMpc3: number, zMin: number, zMax: number, zc: number, block: UncertaintyJson | undefined): void {
+    let m = this.blocks.get(p);
+    if (!m) this.blocks.set(p, (m = new Map()));
+    m.set(UncertaintyMemo.key(count, volumeMpc3, zMin, zMax, zc), block);
+  }
 }
 
 export function uncertaintyContext(survey: Survey, cosmo: FlatLambdaCDM): UncertaintyContext {
@@ -132,7 +164,29 @@ export function combinedUncertainty(
     sigma_matter: sigma,
   };
   if (haloMass !== undefined) out.halo_mass_min_msun = haloMass;
+  if (parts.length === 1 && ctx.memo && ctx.memo.survey === ctx.survey) {
+    const p = parts[0]!;
+    ctx.memo.set(p.population, p.count, p.volumeMpc3, zMin, zMax, zc, { ...out });
+  }
   return out;
+}
+
+/**
+ * combinedUncertainty of one population's count, read from ctx.memo when it holds the block for
+ * exactly these inputs (then no warning is added to ctx.warnings), computed otherwise.
+ */
+export function singleUncertainty(
+  ctx: UncertaintyContext,
+  part: { population: Population; count: number; volumeMpc3: number },
+  zMin: number,
+  zMax: number,
+  zc: number,
+): UncertaintyJson | undefined {
+  if (ctx.memo && ctx.memo.survey === ctx.survey) {
+    const [found, block] = ctx.memo.get(part.population, part.count, part.volumeMpc3, zMin, zMax, zc);
+    if (found) return block && { ...block };
+  }
+  return combinedUncertainty(ctx, [part], zMin, zMax, zc);
 }
 
 /** Count-weighted mean of the slices' middle redshifts. */

@@ -6,7 +6,8 @@ import { writeAtomic, type CliIO } from '../io.js';
 import { inputError, SurveyError } from '../../errors.js';
 import { mockOptions, mockProgressBar } from './forecast.js';
 import type { Survey } from '../../survey/types.js';
-import type { ForecastJson, PlanJson } from '../../render/types.js';
+import type { UncertaintyMemo } from '../../uncertainty/prediction.js';
+import type { Figure, ForecastJson, PlanJson } from '../../render/types.js';
 
 export interface ReportOptions {
   out?: string;
@@ -36,8 +37,14 @@ export function isOmitted(x: unknown): x is OmittedSection {
  * `plan` is called only when the survey file has a `plan:` section.
  */
 export interface ReportSections {
-  forecast?(survey: Survey): Promise<SectionResult<ForecastJson>>;
-  plan?(survey: Survey): Promise<SectionResult<PlanJson>>;
+  forecast?(survey: Survey, shared?: SharedResults): Promise<SectionResult<ForecastJson>>;
+  plan?(survey: Survey, shared?: SharedResults): Promise<SectionResult<PlanJson>>;
+}
+
+/** What the report's prediction computed that a section may reuse instead of computing again. */
+export interface SharedResults {
+  /** The prediction's uncertainty blocks (for the forecast's cosmic-variance fractions). */
+  uncertaintyMemo?: UncertaintyMemo;
 }
 
 /**
@@ -75,10 +82,11 @@ function computeFailure(what: 'forecast' | 'plan', e: unknown): OmittedSection {
 export function reportSections(opts: ReportOptions, io?: CliIO): ReportSections {
   const { mocks, seed } = mockOptions(opts);
   return {
-    forecast: async (survey) => {
+    forecast: async (survey, shared) => {
       const why = shapeObstacle(survey, 'forecast');
       if (why) return { omitted: why };
       const { forecast } = await import('../../forecast/forecast.js');
+      const { cosmicVarianceInputWith } = await import('../../forecast/cosmic-variance-input.js');
       const { forecastForFigures } = await import('../../render/adapt.js');
       let result;
       try {
@@ -86,6 +94,7 @@ export function reportSections(opts: ReportOptions, io?: CliIO): ReportSections 
           mocks,
           seed,
           keepFits: true,
+          ...(shared?.uncertaintyMemo ? { cosmicVarianceSource: cosmicVarianceInputWith(shared.uncertaintyMemo) } : {}),
           ...(mocks > 0 && io?.stderrIsTTY ? { onProgress: mockProgressBar(io) } : {}),
         });
       } catch (e) {
@@ -134,13 +143,15 @@ export async function buildReport(
   surveyText: string,
   survey: Survey,
   sections: ReportSections = {},
-): Promise<{ html: string; figures: import('../../render/types.js').Figure[] }> {
+): Promise<{ html: string; figures: Figure[] }> {
   const { predict } = await import('../../counts/predict.js');
   const { drawFigures, predictionViews } = await import('../draw.js');
   const { renderReport } = await import('../../render/report.js');
-  const prediction = predict(survey);
-  const forecast = sections.forecast ? await sections.forecast(survey) : undefined;
-  const plan = sections.plan && hasPlanSection(survey) ? await sections.plan(survey) : undefined;
+  const { UncertaintyMemo } = await import('../../uncertainty/prediction.js');
+  const shared: SharedResults = { uncertaintyMemo: new UncertaintyMemo(survey) };
+  const prediction = predict(survey, { uncertaintyMemo: shared.uncertaintyMemo! });
+  const forecast = sections.forecast ? await sections.forecast(survey, shared) : undefined;
+  const plan = sections.plan && hasPlanSection(survey) ? await sections.plan(survey, shared) : undefined;
   const extra: { forecast?: ForecastJson; plan?: PlanJson } = {};
   if (forecast && !isOmitted(forecast)) extra.forecast = forecast;
   if (plan && !isOmitted(plan)) extra.plan = plan;
