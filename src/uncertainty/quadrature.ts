@@ -61,27 +61,26 @@ export function uniformSpline(x0: number, dx: number, y: Float64Array): UniformS
   return { x0, dx, y, m };
 }
 
-/** Spline value and first derivative at x (clamped to the knot range for the interval choice). */
-export function splineEval(s: UniformSpline, x: number): number {
+/** The knot interval holding x (clamped to the knot range) and the position t in it. */
+function splineInterval(s: UniformSpline, x: number): { i: number; t: number } {
   const n = s.y.length;
   let i = Math.floor((x - s.x0) / s.dx);
   if (i < 0) i = 0;
   if (i > n - 2) i = n - 2;
-  const xa = s.x0 + i * s.dx;
-  const t = (x - xa) / s.dx;
+  return { i, t: (x - (s.x0 + i * s.dx)) / s.dx };
+}
+
+/** Spline value at x. */
+export function splineEval(s: UniformSpline, x: number): number {
+  const { i, t } = splineInterval(s, x);
   const u = 1 - t;
   const h2 = s.dx * s.dx;
   return u * s.y[i]! + t * s.y[i + 1]! + ((u * u * u - u) * s.m[i]! + (t * t * t - t) * s.m[i + 1]!) * (h2 / 6);
 }
 
+/** Spline first derivative at x. */
 export function splineDerivative(s: UniformSpline, x: number): number {
-  const n = s.y.length;
-  let i = Math.floor((x - s.x0) / s.dx);
-  if (i < 0) i = 0;
-  if (i > n - 2) i = n - 2;
-  const xa = s.x0 + i * s.dx;
-  const t = (x - xa) / s.dx;
+  const { i, t } = splineInterval(s, x);
   const u = 1 - t;
   return (s.y[i + 1]! - s.y[i]!) / s.dx + ((-(3 * u * u - 1)) * s.m[i]! + (3 * t * t - 1) * s.m[i + 1]!) * (s.dx / 6);
 }
-
