@@ -45,7 +45,8 @@ Exact checks (no Monte Carlo error):
   error expected of N draws, |dcount/dxi| sqrt(p(1-p)/N) / phi(z_p).
 - Correlation +1 and -1 between two parameters (the others' sigmas 0): the draw is one normal
   variable xi, d = (sigma_a xi, +-sigma_b xi); percentiles from the 1-D map as above when monotone,
-  otherwise from the exact distribution of the 1-D function (grid + root refinement). A correlation
+  otherwise from the exact distribution of the 1-D function (grid + root refinement), the Monte
+  Carlo error then sqrt(p(1-p)/N) / (density of the count at the percentile). A correlation
   of exactly +-1 is only positive semi-definite; rho = +-(1 - 1e-9) differs from these values by
   far less than any Monte Carlo error.
 
@@ -73,7 +74,7 @@ from scipy import integrate, optimize, special
 warnings.simplefilter('ignore', u.UnitsWarning)
 SEED = 20261212
 DRAWS = 40000
-BOOT = 200
+BOOT = 100
 LN10 = math.log(10.0)
 MPC_CM = (1 * u.Mpc).to(u.cm).value
 DEG2_SR = (math.pi / 180.0) ** 2
@@ -386,10 +387,11 @@ def nonmonotone_quantiles(sv, offsets_of_xi, j):
     # where g is flat, so an error h in xi moves g by O(h^2)
     pieces = []
     for a, b in zip(cuts[:-1], cuts[1:]):
-        pieces.append((grid[a], grid[b], gv[b] >= gv[a]))
+        ga, gb = gfun(grid[a])[0], gfun(grid[b])[0]
+        pieces.append((grid[a], grid[b], gb >= ga, ga, gb))
 
-    def inverse(y, a, b):
-        fa, fb = gfun(a)[0] - y, gfun(b)[0] - y
+    def inverse(y, a, b, ga, gb):
+        fa, fb = ga - y, gb - y
         if fa == 0:
             return a
         if fb == 0 or fa * fb > 0:
@@ -398,17 +400,21 @@ def nonmonotone_quantiles(sv, offsets_of_xi, j):
 
     def cdf(y):
         mass = 0.0
-        for a, b, up in pieces:
-            lo_v, hi_v = (gfun(a)[0], gfun(b)[0]) if up else (gfun(b)[0], gfun(a)[0])
+        for a, b, up, ga, gb in pieces:
+            lo_v, hi_v = (ga, gb) if up else (gb, ga)
             if y >= hi_v:
                 mass += special.ndtr(b) - special.ndtr(a)
             elif y > lo_v:
-                x = inverse(y, a, b)
+                x = inverse(y, a, b, ga, gb)
                 mass += (special.ndtr(x) - special.ndtr(a)) if up else (special.ndtr(b) - special.ndtr(x))
         return mass
-    res = {}
+    res = {'se_1000': {}}
     for p, k in zip(PS, PNAMES):
-        res[k] = float(optimize.brentq(lambda y: cdf(y) - p, gv.min(), gv.max(), xtol=1e-12 * gv.max(), rtol=1e-13))
+        q = float(optimize.brentq(lambda y: cdf(y) - p, gv.min(), gv.max(), xtol=1e-12 * gv.max(), rtol=1e-13))
+        res[k] = q
+        h = 1e-4 * abs(q)
+        dens = (cdf(q + h) - cdf(q - h)) / (2 * h)   # density of the count at its quantile
+        res['se_1000'][k] = math.sqrt(p * (1 - p) / 1000.0) / dens
     res['pieces'] = len(pieces)
     return res
 
