@@ -1,6 +1,7 @@
 /** Human table and CSV for a Forecast (forecast command). */
 import Table from 'cli-table3';
-import { csvLine, sig, zText } from '../render/format.js';
+import { sig, zText } from '../render/format.js';
+import { csvText, type CsvCell } from '../render/csv.js';
 import type { Forecast } from './forecast.js';
 
 export function forecastTable(f: Forecast): string {
@@ -54,9 +55,8 @@ export function forecastCsv(f: Forecast): string {
   const head = ['parameter', 'input', 'sigma_fisher', 'sigma_poisson_only'];
   if (m) head.push('mock_mean', 'mock_std', 'mock_p16', 'mock_p50', 'mock_p84', 'mock_bias', 'mock_bias_in_standard_errors');
   if (r) head.push('target', 'area_deg2_needed', `limit_needed_${r.limit_variable}`);
-  let out = csvLine(head);
-  for (const n of f.parameters) {
-    const row: (string | number)[] = [n, f.center[n]!, f.fisher.sigma[n]!, f.fisher_poisson_only.sigma[n]!];
+  const rows = f.parameters.map((n) => {
+    const row: CsvCell[] = [n, f.center[n]!, f.fisher.sigma[n]!, f.fisher_poisson_only.sigma[n]!];
     if (m) {
       const s = m.parameters[n];
       row.push(...(s ? [s.mean, s.std, s.p16, s.p50, s.p84, s.bias, s.bias_in_standard_errors] : ['', '', '', '', '', '', '']));
@@ -65,7 +65,7 @@ export function forecastCsv(f: Forecast): string {
       const e = r.by_parameter[n];
       row.push(e ? e.target : '', e?.area_deg2 ?? '', e?.limit ?? '');
     }
-    out += csvLine(row);
-  }
-  return out;
+    return row;
+  });
+  return csvText(head, rows);
 }

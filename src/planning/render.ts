@@ -1,6 +1,7 @@
 /** Human tables and CSV for plan and compare. */
 import Table from 'cli-table3';
-import { csvLine, sig, zText } from '../render/format.js';
+import { sig, zText } from '../render/format.js';
+import { csvText, type CsvCell } from '../render/csv.js';
 import type { DesignJson, PlanJson } from './plan.js';
 import type { CompareJson, CompareSurvey } from './compare.js';
 
@@ -65,20 +66,19 @@ export function planTable(p: PlanJson): string {
 }
 
 export function planCsv(p: PlanJson): string {
-  const rows = [
-    csvLine(['design', 'tier', 'budget_fraction', 'exposure_hours_per_pointing', 'pointings', 'area_deg2', 'limit', 'count', 'faint_count', 'goal_value', 'hours_used', 'meets_minimum_count', 'best']),
-  ];
+  const header = ['design', 'tier', 'budget_fraction', 'exposure_hours_per_pointing', 'pointings', 'area_deg2', 'limit', 'count', 'faint_count', 'goal_value', 'hours_used', 'meets_minimum_count', 'best'];
+  const rows: CsvCell[][] = [];
   const same = (a: DesignJson, b: DesignJson) => a.pointings === b.pointings && a.exposure_hours_per_pointing === b.exposure_hours_per_pointing && a.goal_value === b.goal_value;
   p.designs.forEach((d, i) => {
     const mark = same(d, p.best) ? '*' : '';
-    rows.push(csvLine([i, 'all', 1, d.exposure_hours_per_pointing, d.pointings, d.area_deg2, d.limit, d.count, d.faint_count, d.goal_value, d.hours_used, String(d.meets_minimum_count), mark]));
-    d.tiers?.forEach((t, k) => rows.push(csvLine([i, k + 1, t.budget_fraction, t.exposure_hours_per_pointing, t.pointings, t.area_deg2, t.limit, t.count, '', '', '', '', ''])));
+    rows.push([i, 'all', 1, d.exposure_hours_per_pointing, d.pointings, d.area_deg2, d.limit, d.count, d.faint_count, d.goal_value, d.hours_used, String(d.meets_minimum_count), mark]);
+    d.tiers?.forEach((t, k) => rows.push([i, k + 1, t.budget_fraction, t.exposure_hours_per_pointing, t.pointings, t.area_deg2, t.limit, t.count, '', '', '', '', '']));
   });
   if (!p.designs.some((d) => same(d, p.best))) {
     const d = p.best;
-    rows.push(csvLine(['refined', 'all', 1, d.exposure_hours_per_pointing, d.pointings, d.area_deg2, d.limit, d.count, d.faint_count, d.goal_value, d.hours_used, String(d.meets_minimum_count), '*']));
+    rows.push(['refined', 'all', 1, d.exposure_hours_per_pointing, d.pointings, d.area_deg2, d.limit, d.count, d.faint_count, d.goal_value, d.hours_used, String(d.meets_minimum_count), '*']);
   }
-  return rows.join('\n') + '\n';
+  return csvText(header, rows);
 }
 
 interface RowDef {
@@ -123,9 +123,11 @@ export function compareTable(c: CompareJson): string {
 }
 
 export function compareCsv(c: CompareJson): string {
-  const lines = [csvLine(['row', ...c.surveys.map((s) => s.title), 'best'])];
-  for (const r of compareRows(c)) {
-    lines.push(csvLine([r.key, ...c.surveys.map((s) => { const v = r.raw(s); return v === undefined ? '' : v; }), c.best[r.key] === undefined ? '' : c.best[r.key]! + 1]));
-  }
-  return lines.join('\n') + '\n';
+  const rows = compareRows(c).map((r): CsvCell[] => [
+    r.key,
+    ...c.surveys.map((s) => r.raw(s) ?? ''),
+    c.best[r.key] === undefined ? '' : c.best[r.key]! + 1,
+  ]);
+  // Columns are named "[n] title" (as in the table): unique even when two files share a title.
+  return csvText(['row', ...c.surveys.map((s, i) => `[${i + 1}] ${s.title}`), 'best'], rows);
 }

@@ -1,4 +1,4 @@
-/** Number formatting for tables and CSV: significant figures, no trailing noise. */
+/** Number formatting for tables: significant figures, no trailing noise. (CSV: csv.ts.) */
 
 /** A number with `sig` significant figures; exponent form outside [1e-3, 1e6). */
 export function sig(x: number, digits = 4): string {
@@ -24,14 +24,4 @@ export function fixed(x: number, decimals: number): string {
 /** A redshift, with as many decimals as it needs (at most 4). */
 export function zText(z: number): string {
   return Number(z.toFixed(4)).toString();
-}
-
-/** Quote a CSV field when it needs it (RFC 4180). */
-export function csvField(v: string | number): string {
-  const s = typeof v === 'number' ? String(v) : v;
-  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-}
-
-export function csvLine(fields: (string | number)[]): string {
-  return fields.map(csvField).join(',') + '\n';
 }

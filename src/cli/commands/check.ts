@@ -1,7 +1,7 @@
 import type { CommandDef } from './types.js';
 import { addOutputOptions, loadSurveyArg, outputOptions } from './common.js';
 import { emit } from '../io.js';
-import { csvLine } from '../../render/format.js';
+import { csvText } from '../../render/csv.js';
 
 export const checkCommand: CommandDef = {
   name: 'check',
@@ -23,7 +23,7 @@ export const checkCommand: CommandDef = {
       {
         json: () => view,
         table: () => `${file}: valid survey file\n` + Object.entries(flat).map(([k, v]) => `  ${k} = ${v}`).join('\n') + '\n',
-        csv: () => csvLine(['key', 'value']) + Object.entries(flat).map(([k, v]) => csvLine([k, v])).join(''),
+        csv: () => csvText(['key', 'value'], Object.entries(flat)),
       },
       [file],
     );
