@@ -112,9 +112,9 @@ export function compareTable(c: CompareJson): string {
   const head = ['', ...c.surveys.map((s, i) => `[${i + 1}] ${s.title.length > 28 ? s.title.slice(0, 27) + '~' : s.title}`)];
   const t = new Table({ head, style: { head: [], border: [] } });
   for (const r of compareRows(c)) {
-    t.push([r.label, ...c.surveys.map((s, i) => `${r.value(s)}${c.best[r.key] === i ? ' *' : ''}`)]);
+    t.push([r.label, ...c.surveys.map((s, i) => `${r.value(s)}${c.best[r.key]?.includes(i) ? ' *' : ''}`)]);
   }
-  const lines = [t.toString(), '* best value in the row (larger area, deeper limit, more sources, smaller fractions and sigmas, less time).'];
+  const lines = [t.toString(), '* best value in the row, on every value that ties for it (larger area, deeper limit, more sources, smaller fractions and sigmas, less time).'];
   c.surveys.forEach((s, i) => lines.push(`[${i + 1}] ${s.file || s.title}: ${s.model.summary}`));
   lines.push(c.cosmic_variance ? 'Sigmas: Fisher matrix with one cosmic-variance normalisation per slice marginalised.' : 'Sigmas: Fisher matrix, Poisson only.');
   for (const n of c.notes) lines.push(`Note: ${n}`);
@@ -126,7 +126,8 @@ export function compareCsv(c: CompareJson): string {
   const rows = compareRows(c).map((r): CsvCell[] => [
     r.key,
     ...c.surveys.map((s) => r.raw(s) ?? ''),
-    c.best[r.key] === undefined ? '' : c.best[r.key]! + 1,
+    // the columns [n] holding the best value, separated by spaces when several tie
+    (c.best[r.key] ?? []).map((i) => i + 1).join(' '),
   ]);
   // Columns are named "[n] title" (as in the table): unique even when two files share a title.
   return csvText(['row', ...c.surveys.map((s, i) => `[${i + 1}] ${s.title}`), 'best'], rows);

@@ -211,3 +211,47 @@ describe('report and --figures: files and refusals', () => {
     expect(existsSync(join(dir, 'r.html'))).toBe(false);
   });
 });
+
+describe('report --format json: the results of every section in one document (specs/report.schema.json)', () => {
+  const ajvAll = async () => {
+    const { Ajv2020 } = await import('ajv/dist/2020.js');
+    const ajv = new Ajv2020({ allErrors: true, strict: false });
+    for (const f of readdirSync('specs')) if (f.endsWith('.schema.json')) ajv.addSchema(JSON.parse(readFileSync(`specs/${f}`, 'utf8')), f);
+    return ajv.getSchema('report.schema.json')!;
+  };
+
+  test('valid against the schema; prediction and forecast equal to what predict and forecast print (failed before: report refused --format)', async () => {
+    const validate = await ajvAll();
+    const dir = tmp();
+    const r = await runCli(['report', 'samples/halpha-narrowband.yaml', '--format', 'json', '--mocks', '4', '--figures', dir]);
+    expect(r.code, r.stderr).toBe(0);
+    const doc = JSON.parse(r.stdout);
+    expect(validate(doc), JSON.stringify(validate.errors)).toBe(true);
+    expect(doc.survey_file).toBe('halpha-narrowband.yaml');
+    expect(doc.plan).toBeUndefined();
+    const p = JSON.parse((await runCli(['predict', 'samples/halpha-narrowband.yaml', '--format', 'json'])).stdout);
+    expect(doc.prediction).toEqual(p);
+    const f = JSON.parse((await runCli(['forecast', 'samples/halpha-narrowband.yaml', '--format', 'json', '--mocks', '4'])).stdout);
+    expect(doc.forecast).toEqual(f);
+    expect(doc.warnings).toEqual([]);
+    // --figures still draws every figure
+    expect(existsSync(join(dir, 'counts.svg'))).toBe(true);
+    expect(existsSync(join(dir, 'forecast.svg'))).toBe(true);
+  });
+
+  test('a section that cannot be made is {omitted: sentence}', async () => {
+    const validate = await ajvAll();
+    const r = await runCli(['report', 'samples/double-schechter-mass.yaml', '--format', 'json']);
+    expect(r.code).toBe(0);
+    const doc = JSON.parse(r.stdout);
+    expect(validate(doc), JSON.stringify(validate.errors)).toBe(true);
+    expect(doc.forecast.omitted).toMatch(/^No forecast: .*double Schechter/);
+  });
+
+  test('csv is refused: exit 2, nothing on stdout', async () => {
+    const r = await runCli(['report', 'samples/halpha-narrowband.yaml', '--format', 'csv']);
+    expect(r.code).toBe(2);
+    expect(r.stdout).toBe('');
+    expect(r.stderr).toMatch(/--format/);
+  });
+});

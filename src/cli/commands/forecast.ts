@@ -1,7 +1,7 @@
 import { availableParallelism } from 'node:os';
 import { Option } from 'commander';
 import type { CommandDef } from './types.js';
-import { addOutputOptions, loadSurveyArg, outputOptions } from './common.js';
+import { addOutputOptions, loadSurveyArg, outputOptions, printWarnings } from './common.js';
 import { emit, type CliIO } from '../io.js';
 import { inputError } from '../../errors.js';
 
@@ -49,6 +49,7 @@ export const forecastCommand: CommandDef = {
       ...(keepFits || draw ? { keepFits: true } : {}),
       ...(progress ? { onProgress: progress } : {}),
     });
+    printWarnings(io, result.warnings);
     const shown = keepFits || !result.mocks?.fits ? result : { ...result, mocks: withoutFits(result.mocks) };
     const { forecastTable, forecastCsv } = await import('../../forecast/render.js');
     emit(io, out, { json: () => shown, table: () => forecastTable(shown), csv: () => forecastCsv(shown) }, [file]);
