@@ -13,7 +13,7 @@ import { describe, expect, test } from 'vitest';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { predict } from '../../src/counts/predict.js';
 import { forecast } from '../../src/forecast/forecast.js';
-import { compare } from '../../src/planning/compare.js';
+import { bestIndices, compare } from '../../src/planning/compare.js';
 import { plan } from '../../src/planning/plan.js';
 import { surveyAtLimit } from '../../src/planning/model.js';
 import { makeDepthModel } from '../../src/planning/depth.js';
@@ -59,6 +59,29 @@ describe('compare = predict + forecast, row by row', () => {
     const csv = await runCli(['compare', 'samples/halpha-narrowband.yaml', 'samples/plan-halpha-layers.yaml', '--format', 'csv']);
     expect(parseCsvStrict(csv.stdout).header.at(-1)).toBe('best');
   }, 60_000);
+
+  test('a tie marks every tied value (failed before: only the first of two equal areas was marked)', async () => {
+    // both files survey 2.1 deg^2 to 4e-17 erg/s/cm^2 (the plan sample's area and limit before planning)
+    const files = ['samples/halpha-narrowband.yaml', 'samples/plan-halpha-layers.yaml'];
+    const j = await runCli(['compare', ...files, '--format', 'json', '--no-cosmic-variance']);
+    const c = JSON.parse(j.stdout);
+    expect(compareSchema(c), JSON.stringify(compareSchema.errors)).toBe(true);
+    expect(c.surveys[0].area_deg2).toBe(c.surveys[1].area_deg2);
+    expect(c.best.area_deg2).toEqual([0, 1]);
+    expect(c.best.limit).toEqual([0, 1]);
+    const t = await runCli(['compare', ...files, '--no-cosmic-variance']);
+    const areaRow = t.stdout.split('\n').find((l) => l.includes('area (deg^2)'))!;
+    expect(areaRow.match(/ \*/g)).toHaveLength(2);
+    const csv = parseCsvStrict((await runCli(['compare', ...files, '--format', 'csv', '--no-cosmic-variance'])).stdout);
+    expect(csv.records.find((r) => r.row === 'area_deg2')!.best).toBe('1 2');
+  }, 60_000);
+
+  test('bestIndices: ties to 1e-9 relative are all marked, lower or higher better', () => {
+    expect(bestIndices([1, 1 + 1e-12, 0.5], true)).toEqual([0, 1]);
+    expect(bestIndices([1, 1 + 1e-6, 0.5], true)).toEqual([1]);
+    expect(bestIndices([undefined, 2, 2], false)).toEqual([1, 2]);
+    expect(bestIndices([undefined, undefined], false)).toEqual([]);
+  });
 });
 
 describe('plan', () => {
