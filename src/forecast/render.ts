@@ -16,7 +16,8 @@ export function forecastTable(f: Forecast): string {
   ];
   const head = ['parameter', 'input', 'sigma (Fisher)', 'sigma (Poisson only)'];
   const m = f.mocks;
-  if (m) head.push('mock mean', 'mock std', 'p16', 'p50', 'p84', 'bias [s.e.]');
+  // "mock offset": the mean of the mock fits minus the input (not the galaxy bias), in standard errors of that mean
+  if (m) head.push('mock mean', 'mock std', 'p16', 'p50', 'p84', 'mock offset [s.e.]');
   const table = new Table({ head, style: { head: [], border: [] } });
   for (const n of f.parameters) {
     const row = [n, sig(f.center[n]!, 5), sig(f.fisher.sigma[n]!, 3), sig(f.fisher_poisson_only.sigma[n]!, 3)];
@@ -31,6 +32,7 @@ export function forecastTable(f: Forecast): string {
   lines.push(`Correlations (Fisher): ${f.parameters.map((a, i) => f.parameters.slice(i + 1).map((b, k) => `${a}-${b} ${sig(f.fisher.correlation[i]![i + 1 + k]!, 3)}`).join(', ')).filter((s) => s).join(', ')}`);
   if (m) {
     lines.push(`Mocks: ${m.count} surveys (seed ${m.seed}, ${m.estimator === 'sty' ? 'STY shape-only estimator' : 'extended maximum likelihood'}), ${sig(m.mean_sources, 5)} sources on average, ${m.failed_fits} failed fits`);
+    lines.push('  mock offset: the mean of the mock fits minus the input value, in standard errors of that mean (an estimator bias, not the galaxy bias)');
     for (const note of m.notes) lines.push(`  ${note}`);
   }
   const r = f.requirement;
@@ -53,7 +55,7 @@ export function forecastCsv(f: Forecast): string {
   const m = f.mocks;
   const r = f.requirement;
   const head = ['parameter', 'input', 'sigma_fisher', 'sigma_poisson_only'];
-  if (m) head.push('mock_mean', 'mock_std', 'mock_p16', 'mock_p50', 'mock_p84', 'mock_bias', 'mock_bias_in_standard_errors');
+  if (m) head.push('mock_mean', 'mock_std', 'mock_p16', 'mock_p50', 'mock_p84', 'mock_offset', 'mock_offset_in_standard_errors');
   if (r) head.push('target', 'area_deg2_needed', `limit_needed_${r.limit_variable}`);
   const rows = f.parameters.map((n) => {
     const row: CsvCell[] = [n, f.center[n]!, f.fisher.sigma[n]!, f.fisher_poisson_only.sigma[n]!];

@@ -1,6 +1,6 @@
 /** Human tables and CSV for plan and compare. */
 import Table from 'cli-table3';
-import { sig, zText } from '../render/format.js';
+import { goalWords, parameterWords, sig, wrapWords, zText } from '../render/format.js';
 import { csvText, type CsvCell } from '../render/csv.js';
 import type { DesignJson, PlanJson } from './plan.js';
 import type { CompareJson, CompareSurvey } from './compare.js';
@@ -14,7 +14,7 @@ function limitText(v: string, x: number | string): string {
 }
 
 function goalText(p: PlanJson): string {
-  if (typeof p.goal === 'object') return `smallest Fisher sigma of ${p.goal.sigma}${p.cosmic_variance ? ' (with cosmic variance)' : ' (Poisson only)'}`;
+  if (typeof p.goal === 'object') return `smallest ${goalWords(p.goal)} (Fisher matrix${p.cosmic_variance ? ', with cosmic variance' : ', Poisson only'})`;
   return p.goal === 'count' ? 'most sources' : 'most sources fainter than the characteristic luminosity';
 }
 
@@ -42,7 +42,7 @@ export function planTable(p: PlanJson): string {
   ];
   const head = ['', 'budget', 'hours per pointing', 'pointings', 'area deg^2', 'limit', 'count', 'fainter than knee', 'goal value', ''];
   const b = p.best;
-  lines.push(`Best design (* below): ${b.tiers ? `${b.tiers.length} tiers, ` : ''}${b.pointings} pointings (${sig(b.area_deg2, 4)} deg^2)${b.tiers ? '' : ` of ${sig(b.exposure_hours_per_pointing, 4)} h to ${limitText(p.limit_variable, b.limit)}`}, ${sig(b.count, 5)} sources, goal value ${sig(b.goal_value, 4)}${b.sigma ? ` (sigmas: ${Object.entries(b.sigma).map(([k, v]) => `${k} ${sig(v, 3)}`).join(', ')})` : ''}`);
+  lines.push(`Best design (* below): ${b.tiers ? `${b.tiers.length} tiers, ` : ''}${b.pointings} pointings (${sig(b.area_deg2, 4)} deg^2)${b.tiers ? '' : ` of ${sig(b.exposure_hours_per_pointing, 4)} h to ${limitText(p.limit_variable, b.limit)}`}, ${sig(b.count, 5)} sources, goal value ${sig(b.goal_value, 4)}${b.sigma ? ` (sigma of ${Object.entries(b.sigma).map(([k, v]) => `${parameterWords(k)} ${sig(v, 3)}`).join(', ')})` : ''}`);
   const t = new Table({ head, style: { head: [], border: [] } });
   t.push(designRow(p, b, '*'));
   for (const d of p.neighbours) t.push(designRow(p, d, 'grid'));
@@ -100,7 +100,7 @@ function compareRows(c: CompareJson): RowDef[] {
     { key: 'cosmic_variance_fraction', label: 'cosmic-variance fraction', value: (s) => sig(s.cosmic_variance_fraction, 3), raw: (s) => s.cosmic_variance_fraction },
   ];
   const names = [...new Set(c.surveys.flatMap((s) => Object.keys(s.sigma)))];
-  for (const n of names) rows.push({ key: `sigma.${n}`, label: `sigma ${n}`, value: (s) => (s.sigma[n] === undefined ? '-' : sig(s.sigma[n]!, 3)), raw: (s) => s.sigma[n] });
+  for (const n of names) rows.push({ key: `sigma.${n}`, label: `sigma of ${parameterWords(n)}`, value: (s) => (s.sigma[n] === undefined ? '-' : sig(s.sigma[n]!, 3)), raw: (s) => s.sigma[n] });
   if (c.surveys.some((s) => s.exposure_hours !== undefined)) {
     rows.push({ key: 'exposure_hours', label: 'time (hours)', value: (s) => (s.exposure_hours === undefined ? '-' : sig(s.exposure_hours, 4)), raw: (s) => s.exposure_hours });
     rows.push({ key: 'count_per_hour', label: 'count per hour', value: (s) => (s.count_per_hour === undefined ? '-' : sig(s.count_per_hour, 4)), raw: (s) => s.count_per_hour });
@@ -109,7 +109,8 @@ function compareRows(c: CompareJson): RowDef[] {
 }
 
 export function compareTable(c: CompareJson): string {
-  const head = ['', ...c.surveys.map((s, i) => `[${i + 1}] ${s.title.length > 28 ? s.title.slice(0, 27) + '~' : s.title}`)];
+  // Long titles are wrapped over lines in the column head, never cut.
+  const head = ['', ...c.surveys.map((s, i) => wrapWords(`[${i + 1}] ${s.title}`, 32).join('\n'))];
   const t = new Table({ head, style: { head: [], border: [] } });
   for (const r of compareRows(c)) {
     t.push([r.label, ...c.surveys.map((s, i) => `${r.value(s)}${c.best[r.key]?.includes(i) ? ' *' : ''}`)]);

@@ -17,6 +17,7 @@ import type {
   PredictionJson,
   SliceJson,
 } from './types.js';
+import { goalWords, shapeWords } from './format.js';
 
 export interface ReportInput {
   /** The survey file exactly as written. */
@@ -213,7 +214,7 @@ function modelValueHtml(v: ModelValue): string {
 
 function modelHtml(models: ModelDescription[]): string {
   const blocks = models.map((m) => {
-    const head = [m.name, m.shape ? `${m.shape} function` : '', m.variable ? `in ${m.variable}` : '']
+    const head = [m.name, typeof m.shape === 'string' && m.shape ? shapeWords(m.shape) : '', m.variable ? `in ${m.variable}` : '']
       .filter((s) => typeof s === 'string' && s.length > 0)
       .map(escapeHtml)
       .join(', ');
@@ -391,11 +392,11 @@ function planTable(plan: PlanJson): string {
     'area<br><span class="unit">deg²</span>',
     'limit',
     'count',
-    `goal value<br><span class="unit">${escapeHtml(plan.goal ?? '')}</span>`,
+    `goal value<br><span class="unit">${escapeHtml(goalWords(plan.goal ?? ''))}</span>`,
     '',
   ];
   const range = nb ? ` Designs from ${formatNumber(lo)} to ${formatNumber(hi)} hours per pointing come close to the best.` : '';
-  return `<p>Goal: <span class="key">${escapeHtml(plan.goal ?? '')}</span>; time available: ${formatNumber(plan.budget_hours)} hours.${range}</p>
+  return `<p>Goal: ${escapeHtml(goalWords(plan.goal ?? ''))}; time available: ${formatNumber(plan.budget_hours)} hours.${range}</p>
 <table class="numbers" id="plan-table">
 <thead><tr>${heads.map((h) => `<th scope="col">${h}</th>`).join('')}</tr></thead>
 <tbody>

@@ -45,6 +45,16 @@ describe('forecast command', () => {
     expect(parsed.header.slice(0, 4)).toEqual(['parameter', 'input', 'sigma_fisher', 'sigma_poisson_only']);
   });
 
+  test('the mock column is "mock offset", never read as galaxy bias (failed before: "bias [s.e.]")', async () => {
+    const f = `samples/${SAMPLES[0]}`;
+    const table = await runCli(['forecast', f, '--no-cosmic-variance', '--mocks', '4']);
+    expect(table.stdout).toContain('mock offset [s.e.]');
+    expect(table.stdout).not.toContain('bias [s.e.]');
+    const csv = parseCsvStrict((await runCli(['forecast', f, '--no-cosmic-variance', '--mocks', '4', '--format', 'csv'])).stdout);
+    expect(csv.header).toContain('mock_offset_in_standard_errors');
+    expect(csv.header.some((h) => h.includes('bias'))).toBe(false);
+  });
+
   test('JSON equals the library result', async () => {
     const f = `samples/${SAMPLES[0]}`;
     const out = await runCli(['forecast', f, '--no-cosmic-variance', '--format', 'json']);

@@ -76,6 +76,16 @@ describe('compare = predict + forecast, row by row', () => {
     expect(csv.records.find((r) => r.row === 'area_deg2')!.best).toBe('1 2');
   }, 60_000);
 
+  test('goals and sigmas in words, never keys (failed before: "sigma log10_l_star")', async () => {
+    const c = await runCli(['compare', 'samples/halpha-narrowband.yaml', 'samples/deep-continuum.yaml', '--no-cosmic-variance']);
+    expect(c.stdout).toContain('sigma of alpha');
+    expect(c.stdout).toContain('sigma of log10 L*');
+    expect(c.stdout).not.toMatch(/sigma (log10_|m_star|alpha\b)/);
+    const p = await runCli(['plan', 'samples/plan-halpha-layers.yaml']);
+    expect(p.stdout).toContain('Goal: smallest sigma of log10 L*');
+    expect(p.stdout).not.toMatch(/log10_l_star|log10_phi_star/);
+  }, 60_000);
+
   test('bestIndices: ties to 1e-9 relative are all marked, lower or higher better', () => {
     expect(bestIndices([1, 1 + 1e-12, 0.5], true)).toEqual([0, 1]);
     expect(bestIndices([1, 1 + 1e-6, 0.5], true)).toEqual([1]);
