@@ -49,7 +49,7 @@ export function luminosityWarnings(survey: Survey): Warning[] {
         out.push(
           warning(
             'implausible_luminosity',
-            `${p.name}: L* = ${fmt(low.v)} erg/s at z = ${fmt(low.z)} is far below any galaxy's luminosity (under ${MIN_PLAUSIBLE_LUMINOSITY_ERG_S.toExponential(0)} erg/s), so almost nothing is detected` +
+            `${p.name}: L* = ${fmt(low.v)} erg/s at z = ${fmt(low.z)} is far below any galaxy's luminosity (under ${expText(MIN_PLAUSIBLE_LUMINOSITY_ERG_S)} erg/s), so almost nothing is detected` +
               (asLog ? `; it looks like a log10: write log10_l_star: ${fmt(low.v)} (or l_star: ${expText(10 ** low.v)})` : '; give l_star in erg/s or log10_l_star'),
           ),
         );
