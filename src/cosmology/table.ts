@@ -2,6 +2,7 @@
 import type { Cosmology } from '../survey/types.js';
 import { FlatLambdaCDM } from './flat-lcdm.js';
 import { cosmologyJsonOf, type CosmologyJsonShape } from './json.js';
+import type { Warning } from '../warnings.js';
 
 export interface DistanceRow {
   z: number;
@@ -19,6 +20,8 @@ export interface DistanceRow {
 export interface DistanceTable {
   cosmology: CosmologyJsonShape;
   rows: DistanceRow[];
+  /** As in every output (src/warnings.ts); none is raised here yet. */
+  warnings: Warning[];
 }
 
 export function distanceTable(cosmology: Cosmology, zs: readonly number[]): DistanceTable {
@@ -39,5 +42,6 @@ export function distanceTable(cosmology: Cosmology, zs: readonly number[]): Dist
       if (z > 0) row.distance_modulus = c.distanceModulus(z);
       return row;
     }),
+    warnings: [],
   };
 }

@@ -27,6 +27,8 @@ import {
 } from '../uncertainty/prediction.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
 import { bandRedEdgeAngstrom, LYMAN_ALPHA_ANGSTROM } from '../selection/igm.js';
+import { mergeWarnings, warning, type Warning } from '../warnings.js';
+import { surveyWarnings } from '../survey/warnings.js';
 
 /** Luminosity density of a slice or a window (volume-averaged over it). */
 export interface LuminosityDensity {
@@ -114,8 +116,8 @@ export interface Prediction {
   all_populations: { count: number; per_deg2: number };
   populations: PopulationPrediction[];
   observed_shares: ObservedShares;
-  /** Things the reader should know (also printed on stderr by the CLI). */
-  warnings: string[];
+  /** Things the reader should know (also printed on stderr by the CLI); see src/warnings.ts. */
+  warnings: Warning[];
 }
 
 export function cosmologyJson(survey: Survey): CosmologyJson {
@@ -265,37 +267,58 @@ function sameEdges(a: readonly number[], b: readonly number[]): boolean {
   return a.length === b.length && a.every((x, i) => x === b[i]);
 }
 
-/** Warnings about the band and the slices (the magnitude kind's Lyman-alpha check; populations outside the slices). */
-export function predictionWarnings(survey: Survey): string[] {
-  const out: string[] = [];
+/**
+ * Warnings about the band and the slices (the magnitude kind's Lyman-alpha check; populations
+ * outside the slices), for the given populations (default: all).
+ */
+export function predictionWarnings(survey: Survey, populations: readonly Population[] = survey.populations): Warning[] {
+  const out: Warning[] = [];
   const d = survey.detection;
   if (d.kind === 'magnitude') {
     const red = bandRedEdgeAngstrom(d.bandAngstrom, d.bandTable);
-    for (const p of survey.populations) {
+    for (const p of populations) {
       const zb = red / LYMAN_ALPHA_ANGSTROM - 1;
       if (zb < p.window.max) {
         const from = Math.max(zb, p.window.min);
         const what = d.bandTable ? 'the whole band (to its red edge at ' + fmtNum(red) + ' A)' : 'the band (effective wavelength ' + fmtNum(red) + ' A)';
-        out.push(
+        out.push(warning(
+          'band_blueward_of_lyman_alpha',
           `${p.name}: at z > ${fmtNum(from)} (its window is z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)}) ${what} lies blueward of rest-frame Lyman alpha (1216 A); ` +
             (d.igm === 'madau1995'
               ? 'the counts there include the Madau 1995 mean intergalactic transmission, and the power-law spectrum is extrapolated below 1216 A'
               : 'no intergalactic attenuation is applied there (detection.igm is none), so those counts are too high; consider igm: madau1995'),
-        );
+        ));
       }
     }
   }
-  for (const p of survey.populations) {
+  for (const p of populations) {
     // Only explicit edges can leave a population's own slices outside its window.
     const lo = p.sliceEdges[0]!;
     const hi = p.sliceEdges[p.sliceEdges.length - 1]!;
     if (p.window.max <= lo || p.window.min >= hi) {
-      out.push(
+      out.push(warning(
+        'population_outside_slices',
         `${p.name}: its window z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)} lies outside the slice edges (z = ${fmtNum(lo)} to ${fmtNum(hi)}); it counts 0 in its own slices, and observed_shares still covers its whole window`,
-      );
+      ));
     }
   }
   return out;
+}
+
+/**
+ * Fewer than one source expected: in the whole survey (every population over its own window), or
+ * from one population of several.
+ */
+export function detectionWarnings(populations: readonly { name: string; count: number; window: { min: number; max: number } }[]): Warning[] {
+  const all = populations.reduce((a, p) => a + p.count, 0);
+  const hint = 'check detection.limit, the area and the luminosity function (a log10 given under a linear key such as l_star gives none)';
+  if (all < 1) {
+    return [warning('no_detections', `fewer than one source is expected in the whole survey (${fmtNum(all)}): ${hint}`)];
+  }
+  if (populations.length < 2) return [];
+  return populations
+    .filter((p) => p.count < 1)
+    .map((p) => warning('no_detections', `${p.name}: fewer than one source is expected over its window z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)} (${fmtNum(p.count)}); if it should be seen, ${hint}`));
 }
 
 function fmtNum(x: number): string {
@@ -414,7 +437,7 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
     if (sfr.total === undefined) delete sfr.total;
     totals.sfr_density_msun_yr_mpc3 = sfr;
   }
-  const uncertaintyWarnings: string[] = [];
+  const uncertaintyWarnings: Warning[] = [];
   if (!options.noUncertainty) {
     const ctx = uncertaintyContext(survey, cosmo);
     ctx.warnings = uncertaintyWarnings;
@@ -485,6 +508,11 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
     all_populations: { count: allCount, per_deg2: allCount / survey.areaDeg2 },
     populations: perPop,
     observed_shares,
-    warnings: [...predictionWarnings(survey), ...uncertaintyWarnings],
+    warnings: mergeWarnings(
+      surveyWarnings(survey),
+      predictionWarnings(survey),
+      detectionWarnings(perPop.map((p) => ({ name: p.name, count: p.totals.count, window: p.window }))),
+      uncertaintyWarnings,
+    ),
   };
 }

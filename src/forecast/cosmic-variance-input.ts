@@ -14,13 +14,17 @@ import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
 import { countPopulation } from '../counts/engine.js';
 import type { Population, Survey } from '../survey/types.js';
 import { singleUncertainty, uncertaintyContext, type UncertaintyMemo } from '../uncertainty/prediction.js';
+import type { Warning } from '../warnings.js';
 
 const NEGLIGIBLE_COUNT = 1e-6;
 
-export type CosmicVarianceSource = (survey: Survey, edges: readonly number[], population: Population) => number[];
+/**
+ * Per-slice cosmic-variance fractions of `population` in `survey` on `edges`; the warnings their
+ * computation raises (abundance matching held at a mass bound) are added to `warnings` when given.
+ */
+export type CosmicVarianceSource = (survey: Survey, edges: readonly number[], population: Population, warnings?: Warning[]) => number[];
 
-/** Per-slice cosmic-variance fractions of `population` in `survey` on `edges`. */
-export const cosmicVarianceInput: CosmicVarianceSource = (survey, edges, population) => fractions(survey, edges, population);
+export const cosmicVarianceInput: CosmicVarianceSource = (survey, edges, population, warnings) => fractions(survey, edges, population, undefined, warnings);
 
 /**
  * The same fractions, read from `memo` (filled by predict of the same survey, see
@@ -28,13 +32,14 @@ export const cosmicVarianceInput: CosmicVarianceSource = (survey, edges, populat
  * used, and computed for the others: the numbers are those of cosmicVarianceInput.
  */
 export function cosmicVarianceInputWith(memo: UncertaintyMemo): CosmicVarianceSource {
-  return (survey, edges, population) => fractions(survey, edges, population, memo);
+  return (survey, edges, population, warnings) => fractions(survey, edges, population, memo, warnings);
 }
 
-function fractions(survey: Survey, edges: readonly number[], population: Population, memo?: UncertaintyMemo): number[] {
+function fractions(survey: Survey, edges: readonly number[], population: Population, memo?: UncertaintyMemo, warnings?: Warning[]): number[] {
   const cosmo = new FlatLambdaCDM(survey.cosmology);
   const ctx = uncertaintyContext(survey, cosmo);
   if (memo) ctx.memo = memo;
+  if (warnings) ctx.warnings = warnings;
   const counts = countPopulation(survey, population, cosmo, edges, { noHistogram: true });
   return counts.map((s) =>
     s.count < NEGLIGIBLE_COUNT

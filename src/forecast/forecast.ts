@@ -19,6 +19,9 @@ import { cosmicVarianceInput, type CosmicVarianceSource } from './cosmic-varianc
 import { makeMockSetup, runMocks } from './mocks.js';
 import type { Estimator } from './fit.js';
 import { requirement, type Requirement } from './requirement.js';
+import { mergeWarnings, type Warning } from '../warnings.js';
+import { surveyWarnings } from '../survey/warnings.js';
+import { predictionWarnings } from '../counts/predict.js';
 
 export const CAVEAT =
   'A forecast is only as good as the luminosity function assumed: these uncertainties hold if the population follows the model above; a different faint-end slope or knee changes them.';
@@ -102,6 +105,8 @@ export interface Forecast {
   fisher_poisson_only: FisherBlock;
   mocks?: MocksBlock;
   requirement?: Requirement;
+  /** See src/warnings.ts. */
+  warnings: Warning[];
 }
 
 /**
@@ -175,7 +180,8 @@ export async function forecast(survey: Survey, opts: ForecastOptions = {}): Prom
   if (!poisson) {
     throw inputError('not_finite', survey.file, 'population', `the Fisher matrix of "${population.name}" is singular (${parts.count.toPrecision(3)} sources expected)`, 'choose a fainter limit or a larger area');
   }
-  const fractions = cvSource ? cvSource(survey, edges, population) : undefined;
+  const cvWarnings: Warning[] = [];
+  const fractions = cvSource ? cvSource(survey, edges, population, cvWarnings) : undefined;
   let withCv = poisson;
   if (fractions) {
     const s = summariseFisher(marginaliseNormalisations(parts.matrix, parts.slices, fractions));
@@ -207,6 +213,7 @@ export async function forecast(survey: Survey, opts: ForecastOptions = {}): Prom
     fisher: fisherBlock,
     covariance: fisherBlock.covariance,
     fisher_poisson_only: block(names, poisson),
+    warnings: mergeWarnings(surveyWarnings(survey), predictionWarnings(survey, [population]), cvWarnings),
   };
 
   if (opts.mocks && opts.mocks > 0) {

@@ -1,6 +1,7 @@
 /** Human table and CSV for a Forecast (forecast command). */
 import Table from 'cli-table3';
-import { csvLine, sig, zText } from '../render/format.js';
+import { sig, zText } from '../render/format.js';
+import { csvText, type CsvCell } from '../render/csv.js';
 import type { Forecast } from './forecast.js';
 
 export function forecastTable(f: Forecast): string {
@@ -15,7 +16,8 @@ export function forecastTable(f: Forecast): string {
   ];
   const head = ['parameter', 'input', 'sigma (Fisher)', 'sigma (Poisson only)'];
   const m = f.mocks;
-  if (m) head.push('mock mean', 'mock std', 'p16', 'p50', 'p84', 'bias [s.e.]');
+  // "mock offset": the mean of the mock fits minus the input (not the galaxy bias), in standard errors of that mean
+  if (m) head.push('mock mean', 'mock std', 'p16', 'p50', 'p84', 'mock offset [s.e.]');
   const table = new Table({ head, style: { head: [], border: [] } });
   for (const n of f.parameters) {
     const row = [n, sig(f.center[n]!, 5), sig(f.fisher.sigma[n]!, 3), sig(f.fisher_poisson_only.sigma[n]!, 3)];
@@ -30,6 +32,7 @@ export function forecastTable(f: Forecast): string {
   lines.push(`Correlations (Fisher): ${f.parameters.map((a, i) => f.parameters.slice(i + 1).map((b, k) => `${a}-${b} ${sig(f.fisher.correlation[i]![i + 1 + k]!, 3)}`).join(', ')).filter((s) => s).join(', ')}`);
   if (m) {
     lines.push(`Mocks: ${m.count} surveys (seed ${m.seed}, ${m.estimator === 'sty' ? 'STY shape-only estimator' : 'extended maximum likelihood'}), ${sig(m.mean_sources, 5)} sources on average, ${m.failed_fits} failed fits`);
+    lines.push('  mock offset: the mean of the mock fits minus the input value, in standard errors of that mean (an estimator bias, not the galaxy bias)');
     for (const note of m.notes) lines.push(`  ${note}`);
   }
   const r = f.requirement;
@@ -52,11 +55,10 @@ export function forecastCsv(f: Forecast): string {
   const m = f.mocks;
   const r = f.requirement;
   const head = ['parameter', 'input', 'sigma_fisher', 'sigma_poisson_only'];
-  if (m) head.push('mock_mean', 'mock_std', 'mock_p16', 'mock_p50', 'mock_p84', 'mock_bias', 'mock_bias_in_standard_errors');
+  if (m) head.push('mock_mean', 'mock_std', 'mock_p16', 'mock_p50', 'mock_p84', 'mock_offset', 'mock_offset_in_standard_errors');
   if (r) head.push('target', 'area_deg2_needed', `limit_needed_${r.limit_variable}`);
-  let out = csvLine(head);
-  for (const n of f.parameters) {
-    const row: (string | number)[] = [n, f.center[n]!, f.fisher.sigma[n]!, f.fisher_poisson_only.sigma[n]!];
+  const rows = f.parameters.map((n) => {
+    const row: CsvCell[] = [n, f.center[n]!, f.fisher.sigma[n]!, f.fisher_poisson_only.sigma[n]!];
     if (m) {
       const s = m.parameters[n];
       row.push(...(s ? [s.mean, s.std, s.p16, s.p50, s.p84, s.bias, s.bias_in_standard_errors] : ['', '', '', '', '', '', '']));
@@ -65,7 +67,7 @@ export function forecastCsv(f: Forecast): string {
       const e = r.by_parameter[n];
       row.push(e ? e.target : '', e?.area_deg2 ?? '', e?.limit ?? '');
     }
-    out += csvLine(row);
-  }
-  return out;
+    return row;
+  });
+  return csvText(head, rows);
 }

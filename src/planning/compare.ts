@@ -3,7 +3,8 @@
  * count (predict), count per deg^2, count fainter than the characteristic luminosity (L* or M*),
  * the Poisson and cosmic-variance fractions of the total (predict), the Fisher sigma of each
  * parameter (forecast, with cosmic variance unless switched off) and the time where the file gives
- * `exposure`. The best value of each row is marked by survey index in `best`.
+ * `exposure`. The best value of each row is marked by survey index in `best`: every survey whose
+ * value ties with the best (equal to 1e-9 relative, i.e. equal but for rounding) is listed.
  */
 import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
 import type { Population, Survey } from '../survey/types.js';
@@ -13,6 +14,10 @@ import { buildDensityGrid, sliceCount } from '../forecast/grid.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
 import { pickPopulation } from './population.js';
 import { faintCount } from './tables.js';
+import { warning, mergeWarnings, type Warning } from '../warnings.js';
+
+/** Values this close (relative) are a tie: equal but for the rounding of the arithmetic. */
+export const TIE_RELATIVE = 1e-9;
 
 export const COMPARE_CAVEAT =
   'Counts and sigmas are only as good as the luminosity functions assumed: each column holds if its population follows the model in its file.';
@@ -56,9 +61,11 @@ export interface CompareJson {
   cosmic_variance: boolean;
   caveat: string;
   surveys: CompareSurvey[];
-  /** Row name (sigma rows as "sigma.NAME") -> index of the survey with the best value. */
-  best: Record<string, number>;
+  /** Row name (sigma rows as "sigma.NAME") -> indices of the surveys with the best value (several when they tie). */
+  best: Record<string, number[]>;
   notes: string[];
+  /** Each survey's warnings, the message prefixed with "[n] " (its column). See src/warnings.ts. */
+  warnings: Warning[];
 }
 
 export interface CompareOptions {
@@ -90,12 +97,14 @@ function depthOf(v: LimitVariable, x: number): number {
 export async function compare(surveys: Survey[], opts: CompareOptions = {}): Promise<CompareJson> {
   const useCv = opts.cosmicVariance !== false;
   const out: CompareSurvey[] = [];
-  for (const survey of surveys) {
+  const warnings: Warning[][] = [];
+  for (const [i, survey] of surveys.entries()) {
     const population = pickPopulation(survey, opts.population);
     const k = survey.populations.indexOf(population);
     const pred = predict(survey);
     const own = pred.populations[k]!;
     const f = await forecast(survey, { population: population.name, cosmicVariance: useCv });
+    warnings.push(mergeWarnings(pred.warnings, f.warnings).map((w) => warning(w.code, `[${i + 1}] ${w.message}`)));
     const lim = limitOf(survey, population);
     const u = own.totals.uncertainty;
     const row: CompareSurvey = {
@@ -120,16 +129,12 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
     }
     out.push(row);
   }
-  const best: Record<string, number> = {};
+  const best: Record<string, number[]> = {};
   const notes: string[] = [];
   const pick = (name: string, values: (number | undefined)[], higher: boolean) => {
-    let bi = -1;
-    values.forEach((v, i) => {
-      if (v === undefined || !Number.isFinite(v)) return;
-      if (bi < 0 || (higher ? v > values[bi]! : v < values[bi]!)) bi = i;
-    });
+    const marked = bestIndices(values, higher);
     const present = values.filter((v) => v !== undefined).length;
-    if (bi >= 0 && present >= 2) best[name] = bi;
+    if (marked.length > 0 && present >= 2) best[name] = marked;
   };
   for (const { row, better } of COMPARE_ROWS) {
     if (row === 'limit') {
@@ -146,5 +151,21 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
   if (out.some((s) => s.exposure_hours === undefined) && out.some((s) => s.exposure_hours !== undefined)) {
     notes.push('Some files give no exposure, so their cost is not shown.');
   }
-  return { format: 1, cosmic_variance: useCv, caveat: COMPARE_CAVEAT, surveys: out, best, notes };
+  return { format: 1, cosmic_variance: useCv, caveat: COMPARE_CAVEAT, surveys: out, best, notes, warnings: mergeWarnings(...warnings) };
+}
+
+/** Indices of the best of `values` (highest or lowest), every one that ties with it (TIE_RELATIVE). */
+export function bestIndices(values: readonly (number | undefined)[], higher: boolean): number[] {
+  let top: number | undefined;
+  for (const v of values) {
+    if (v === undefined || !Number.isFinite(v)) continue;
+    if (top === undefined || (higher ? v > top : v < top)) top = v;
+  }
+  if (top === undefined) return [];
+  const t = top;
+  const out: number[] = [];
+  values.forEach((v, i) => {
+    if (v !== undefined && Number.isFinite(v) && Math.abs(v - t) <= TIE_RELATIVE * Math.max(Math.abs(v), Math.abs(t))) out.push(i);
+  });
+  return out;
 }

@@ -9,6 +9,9 @@ import { readPlanSection, sigmaParameterNames, type PlanSpec } from './plan-sect
 import { assertCounts, buildDesignModel, sigmasOf, type DesignModel } from './model.js';
 import { combine, logGrid, maximises, nearBest, pointingsFor, searchSingleTier, searchTiers, NEAR_BEST_TOLERANCE, type Budget, type Evaluated } from './search.js';
 import { pickPopulation } from './population.js';
+import { warning, mergeWarnings, type Warning } from '../warnings.js';
+import { surveyWarnings } from '../survey/warnings.js';
+import { predictionWarnings } from '../counts/predict.js';
 
 export const PLAN_CAVEAT =
   'A plan is only as good as the luminosity function assumed: the counts and uncertainties hold if the population follows the model given; a different faint-end slope or knee changes which design is best.';
@@ -72,6 +75,8 @@ export interface PlanJson {
   near_best: { tolerance: number; from: DesignJson; to: DesignJson; designs_within: number; contiguous: boolean };
   refinement: { method: string; grid_best: DesignJson; improved: boolean };
   notes: string[];
+  /** See src/warnings.ts. */
+  warnings: Warning[];
 }
 
 function finite(x: number, what: string): number {
@@ -196,6 +201,7 @@ export async function plan(survey: Survey, opts: PlanOptions = {}): Promise<Plan
   if (!best.feasible) throw noFeasible(survey, spec, designs);
 
   const bestValue = best.goal!;
+  const edge = fixedDesign ? undefined : gridEdgeWarning(best, exposures, spec);
   const within = nearBest(spec.goal, designs, bestValue);
   const areaOf = (d: Evaluated) => d.tiers.reduce((a, t) => a + t.areaDeg2, 0);
   const order = within.map((i) => designs[i]!).sort((a, b) => areaOf(a) - areaOf(b));
@@ -203,8 +209,12 @@ export async function plan(survey: Survey, opts: PlanOptions = {}): Promise<Plan
   const to = order[order.length - 1] ?? best;
   const contiguous = within.length > 0 && within[within.length - 1]! - within[0]! + 1 === within.length;
   if (designs.length > 1 && within.length > 0) {
+    const head = `${within.length} of ${designs.length} designs are within ${NEAR_BEST_TOLERANCE * 100} % of the best goal value${contiguous ? '' : ' (not one contiguous run of the grid)'}`;
+    // At the grid's edge the goal may keep improving beyond it: how flat the optimum is cannot be told.
     notes.push(
-      `${within.length} of ${designs.length} designs are within ${NEAR_BEST_TOLERANCE * 100} % of the best goal value${contiguous ? '' : ' (not one contiguous run of the grid)'}: the optimum is ${within.length / designs.length > 0.25 ? 'flat' : 'sharp'}.`,
+      edge
+        ? `${head}; the best design sits at the edge of the exposure grid, so this grid cannot tell how flat the optimum is.`
+        : `${head}: the optimum is ${within.length / designs.length > 0.25 ? 'flat' : 'sharp'}.`,
     );
   }
   if (spec.minimumCount > 0) {
@@ -242,10 +252,34 @@ export async function plan(survey: Survey, opts: PlanOptions = {}): Promise<Plan
     near_best: { tolerance: NEAR_BEST_TOLERANCE, from: designJson(from, names, spec.goal), to: designJson(to, names, spec.goal), designs_within: within.length, contiguous },
     refinement: { method, grid_best: designJson(gridBest, names, spec.goal), improved },
     notes,
+    warnings: mergeWarnings(surveyWarnings(survey), predictionWarnings(survey, [population]), edge ? [edge] : []),
   };
   if (spec.fixed) out.fixed = 'areaDeg2' in spec.fixed ? { area_deg2: spec.fixed.areaDeg2 } : { limit: spec.fixed.limit };
   if (spec.tiers > 1) out.budget_fractions = designs.filter((d) => d.tiers.length > 1).map((d) => d.fractions);
   return out;
+}
+
+/**
+ * A warning when a layer of the best design uses an exposure in the first or last interval of the
+ * exposure grid (the refinement of a single tier moves only between grid neighbours): the
+ * optimum may lie beyond the grid. Undefined otherwise.
+ */
+export function gridEdgeWarning(best: Evaluated, exposures: readonly number[], spec: PlanSpec): Warning | undefined {
+  if (exposures.length < 3) return undefined;
+  const low = exposures[1]!;
+  const high = exposures[exposures.length - 2]!;
+  const fmt = (x: number) => String(Number(x.toPrecision(3)));
+  for (const t of best.tiers) {
+    const end = t.hours < low ? 'shortest' : t.hours > high ? 'longest' : undefined;
+    if (!end) continue;
+    const layer = best.tiers.length > 1 ? 'a layer of the best design uses' : 'the best design uses';
+    const widen = end === 'shortest' ? `a smaller exposure_grid.min_hours than ${fmt(spec.grid.minHours)}` : `a larger exposure_grid.max_hours than ${fmt(spec.grid.maxHours)}`;
+    return warning(
+      'optimum_at_grid_edge',
+      `${layer} ${fmt(t.hours)} h per pointing, at the ${end} end of the exposure grid (${fmt(spec.grid.minHours)} to ${fmt(spec.grid.maxHours)} h): a better design may lie beyond it; plan again with ${widen}`,
+    );
+  }
+  return undefined;
 }
 
 function noFeasible(survey: Survey, spec: PlanSpec, designs: Evaluated[]): Error {

@@ -1,6 +1,7 @@
 /** Human tables and CSV for plan and compare. */
 import Table from 'cli-table3';
-import { csvLine, sig, zText } from '../render/format.js';
+import { goalWords, parameterWords, sig, wrapWords, zText } from '../render/format.js';
+import { csvText, type CsvCell } from '../render/csv.js';
 import type { DesignJson, PlanJson } from './plan.js';
 import type { CompareJson, CompareSurvey } from './compare.js';
 
@@ -13,7 +14,7 @@ function limitText(v: string, x: number | string): string {
 }
 
 function goalText(p: PlanJson): string {
-  if (typeof p.goal === 'object') return `smallest Fisher sigma of ${p.goal.sigma}${p.cosmic_variance ? ' (with cosmic variance)' : ' (Poisson only)'}`;
+  if (typeof p.goal === 'object') return `smallest ${goalWords(p.goal)} (Fisher matrix${p.cosmic_variance ? ', with cosmic variance' : ', Poisson only'})`;
   return p.goal === 'count' ? 'most sources' : 'most sources fainter than the characteristic luminosity';
 }
 
@@ -41,7 +42,7 @@ export function planTable(p: PlanJson): string {
   ];
   const head = ['', 'budget', 'hours per pointing', 'pointings', 'area deg^2', 'limit', 'count', 'fainter than knee', 'goal value', ''];
   const b = p.best;
-  lines.push(`Best design (* below): ${b.tiers ? `${b.tiers.length} tiers, ` : ''}${b.pointings} pointings (${sig(b.area_deg2, 4)} deg^2)${b.tiers ? '' : ` of ${sig(b.exposure_hours_per_pointing, 4)} h to ${limitText(p.limit_variable, b.limit)}`}, ${sig(b.count, 5)} sources, goal value ${sig(b.goal_value, 4)}${b.sigma ? ` (sigmas: ${Object.entries(b.sigma).map(([k, v]) => `${k} ${sig(v, 3)}`).join(', ')})` : ''}`);
+  lines.push(`Best design (* below): ${b.tiers ? `${b.tiers.length} tiers, ` : ''}${b.pointings} pointings (${sig(b.area_deg2, 4)} deg^2)${b.tiers ? '' : ` of ${sig(b.exposure_hours_per_pointing, 4)} h to ${limitText(p.limit_variable, b.limit)}`}, ${sig(b.count, 5)} sources, goal value ${sig(b.goal_value, 4)}${b.sigma ? ` (sigma of ${Object.entries(b.sigma).map(([k, v]) => `${parameterWords(k)} ${sig(v, 3)}`).join(', ')})` : ''}`);
   const t = new Table({ head, style: { head: [], border: [] } });
   t.push(designRow(p, b, '*'));
   for (const d of p.neighbours) t.push(designRow(p, d, 'grid'));
@@ -65,20 +66,19 @@ export function planTable(p: PlanJson): string {
 }
 
 export function planCsv(p: PlanJson): string {
-  const rows = [
-    csvLine(['design', 'tier', 'budget_fraction', 'exposure_hours_per_pointing', 'pointings', 'area_deg2', 'limit', 'count', 'faint_count', 'goal_value', 'hours_used', 'meets_minimum_count', 'best']),
-  ];
+  const header = ['design', 'tier', 'budget_fraction', 'exposure_hours_per_pointing', 'pointings', 'area_deg2', 'limit', 'count', 'faint_count', 'goal_value', 'hours_used', 'meets_minimum_count', 'best'];
+  const rows: CsvCell[][] = [];
   const same = (a: DesignJson, b: DesignJson) => a.pointings === b.pointings && a.exposure_hours_per_pointing === b.exposure_hours_per_pointing && a.goal_value === b.goal_value;
   p.designs.forEach((d, i) => {
     const mark = same(d, p.best) ? '*' : '';
-    rows.push(csvLine([i, 'all', 1, d.exposure_hours_per_pointing, d.pointings, d.area_deg2, d.limit, d.count, d.faint_count, d.goal_value, d.hours_used, String(d.meets_minimum_count), mark]));
-    d.tiers?.forEach((t, k) => rows.push(csvLine([i, k + 1, t.budget_fraction, t.exposure_hours_per_pointing, t.pointings, t.area_deg2, t.limit, t.count, '', '', '', '', ''])));
+    rows.push([i, 'all', 1, d.exposure_hours_per_pointing, d.pointings, d.area_deg2, d.limit, d.count, d.faint_count, d.goal_value, d.hours_used, String(d.meets_minimum_count), mark]);
+    d.tiers?.forEach((t, k) => rows.push([i, k + 1, t.budget_fraction, t.exposure_hours_per_pointing, t.pointings, t.area_deg2, t.limit, t.count, '', '', '', '', '']));
   });
   if (!p.designs.some((d) => same(d, p.best))) {
     const d = p.best;
-    rows.push(csvLine(['refined', 'all', 1, d.exposure_hours_per_pointing, d.pointings, d.area_deg2, d.limit, d.count, d.faint_count, d.goal_value, d.hours_used, String(d.meets_minimum_count), '*']));
+    rows.push(['refined', 'all', 1, d.exposure_hours_per_pointing, d.pointings, d.area_deg2, d.limit, d.count, d.faint_count, d.goal_value, d.hours_used, String(d.meets_minimum_count), '*']);
   }
-  return rows.join('\n') + '\n';
+  return csvText(header, rows);
 }
 
 interface RowDef {
@@ -100,7 +100,7 @@ function compareRows(c: CompareJson): RowDef[] {
     { key: 'cosmic_variance_fraction', label: 'cosmic-variance fraction', value: (s) => sig(s.cosmic_variance_fraction, 3), raw: (s) => s.cosmic_variance_fraction },
   ];
   const names = [...new Set(c.surveys.flatMap((s) => Object.keys(s.sigma)))];
-  for (const n of names) rows.push({ key: `sigma.${n}`, label: `sigma ${n}`, value: (s) => (s.sigma[n] === undefined ? '-' : sig(s.sigma[n]!, 3)), raw: (s) => s.sigma[n] });
+  for (const n of names) rows.push({ key: `sigma.${n}`, label: `sigma of ${parameterWords(n)}`, value: (s) => (s.sigma[n] === undefined ? '-' : sig(s.sigma[n]!, 3)), raw: (s) => s.sigma[n] });
   if (c.surveys.some((s) => s.exposure_hours !== undefined)) {
     rows.push({ key: 'exposure_hours', label: 'time (hours)', value: (s) => (s.exposure_hours === undefined ? '-' : sig(s.exposure_hours, 4)), raw: (s) => s.exposure_hours });
     rows.push({ key: 'count_per_hour', label: 'count per hour', value: (s) => (s.count_per_hour === undefined ? '-' : sig(s.count_per_hour, 4)), raw: (s) => s.count_per_hour });
@@ -109,12 +109,13 @@ function compareRows(c: CompareJson): RowDef[] {
 }
 
 export function compareTable(c: CompareJson): string {
-  const head = ['', ...c.surveys.map((s, i) => `[${i + 1}] ${s.title.length > 28 ? s.title.slice(0, 27) + '~' : s.title}`)];
+  // Long titles are wrapped over lines in the column head, never cut.
+  const head = ['', ...c.surveys.map((s, i) => wrapWords(`[${i + 1}] ${s.title}`, 32).join('\n'))];
   const t = new Table({ head, style: { head: [], border: [] } });
   for (const r of compareRows(c)) {
-    t.push([r.label, ...c.surveys.map((s, i) => `${r.value(s)}${c.best[r.key] === i ? ' *' : ''}`)]);
+    t.push([r.label, ...c.surveys.map((s, i) => `${r.value(s)}${c.best[r.key]?.includes(i) ? ' *' : ''}`)]);
   }
-  const lines = [t.toString(), '* best value in the row (larger area, deeper limit, more sources, smaller fractions and sigmas, less time).'];
+  const lines = [t.toString(), '* best value in the row, on every value that ties for it (larger area, deeper limit, more sources, smaller fractions and sigmas, less time).'];
   c.surveys.forEach((s, i) => lines.push(`[${i + 1}] ${s.file || s.title}: ${s.model.summary}`));
   lines.push(c.cosmic_variance ? 'Sigmas: Fisher matrix with one cosmic-variance normalisation per slice marginalised.' : 'Sigmas: Fisher matrix, Poisson only.');
   for (const n of c.notes) lines.push(`Note: ${n}`);
@@ -123,9 +124,12 @@ export function compareTable(c: CompareJson): string {
 }
 
 export function compareCsv(c: CompareJson): string {
-  const lines = [csvLine(['row', ...c.surveys.map((s) => s.title), 'best'])];
-  for (const r of compareRows(c)) {
-    lines.push(csvLine([r.key, ...c.surveys.map((s) => { const v = r.raw(s); return v === undefined ? '' : v; }), c.best[r.key] === undefined ? '' : c.best[r.key]! + 1]));
-  }
-  return lines.join('\n') + '\n';
+  const rows = compareRows(c).map((r): CsvCell[] => [
+    r.key,
+    ...c.surveys.map((s) => r.raw(s) ?? ''),
+    // the columns [n] holding the best value, separated by spaces when several tie
+    (c.best[r.key] ?? []).map((i) => i + 1).join(' '),
+  ]);
+  // Columns are named "[n] title" (as in the table): unique even when two files share a title.
+  return csvText(['row', ...c.surveys.map((s, i) => `[${i + 1}] ${s.title}`), 'best'], rows);
 }

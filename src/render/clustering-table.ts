@@ -1,7 +1,8 @@
 import Table from 'cli-table3';
 import type { ClusteringTable } from '../uncertainty/table.js';
 import { cosmologyLine } from './predict-table.js';
-import { csvLine, sig } from './format.js';
+import { sig } from './format.js';
+import { csvText } from './csv.js';
 
 export function clusteringText(t: ClusteringTable): string {
   const first = t.rows[0]!;
@@ -23,9 +24,8 @@ export function clusteringCsv(t: ClusteringTable): string {
   const first = t.rows[0]!;
   const rKeys = Object.keys(first.sigma_r);
   const mKeys = Object.keys(first.halo_bias);
-  let out = csvLine(['z', 'growth', ...rKeys.map((r) => `sigma_r_${r}`), ...mKeys.map((m) => `halo_bias_${m}`), ...mKeys.map((m) => `halo_density_above_mpc3_${m}`)]);
-  for (const row of t.rows) {
-    out += csvLine([row.z, row.growth, ...rKeys.map((k) => row.sigma_r[k]!), ...mKeys.map((k) => row.halo_bias[k]!), ...mKeys.map((k) => row.halo_density_above_mpc3[k]!)]);
-  }
-  return out;
+  return csvText(
+    ['z', 'growth', ...rKeys.map((r) => `sigma_r_${r}`), ...mKeys.map((m) => `halo_bias_${m}`), ...mKeys.map((m) => `halo_density_above_mpc3_${m}`)],
+    t.rows.map((row) => [row.z, row.growth, ...rKeys.map((k) => row.sigma_r[k]!), ...mKeys.map((k) => row.halo_bias[k]!), ...mKeys.map((k) => row.halo_density_above_mpc3[k]!)]),
+  );
 }

@@ -1,7 +1,8 @@
 import Table from 'cli-table3';
 import type { DistanceTable } from '../cosmology/table.js';
 import { cosmologyLine } from './predict-table.js';
-import { csvLine, sig } from './format.js';
+import { sig } from './format.js';
+import { csvText } from './csv.js';
 
 const COLUMNS: [keyof DistanceTable['rows'][number], string][] = [
   ['z', 'z'],
@@ -22,5 +23,8 @@ export function distancesText(t: DistanceTable): string {
 }
 
 export function distancesCsv(t: DistanceTable): string {
-  return csvLine(COLUMNS.map((c) => c[0])) + t.rows.map((r) => csvLine(COLUMNS.map(([k]) => (r[k] === undefined ? '' : (r[k] as number))))).join('');
+  return csvText(
+    COLUMNS.map((c) => c[0]),
+    t.rows.map((r) => COLUMNS.map(([k]) => (r[k] === undefined ? '' : (r[k] as number)))),
+  );
 }

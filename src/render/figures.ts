@@ -18,6 +18,7 @@ import type {
   PredictionJson,
   SliceJson,
 } from './types.js';
+import { goalWords, wrapWords } from './format.js';
 
 type Spec = Record<string, unknown>;
 
@@ -105,28 +106,31 @@ function withTitle(surveyTitle: string | undefined, what: string): string {
 }
 
 /**
- * Widest a title line may draw [px, as vega estimates it in Node, about 1.4 times the width a
- * browser draws]; longer lines end in an ellipsis so that a long survey title cannot make a
- * figure so wide that it shrinks on the page. Single plots and small multiples differ.
+ * Average width of a character of the title [px] (15 px bold DejaVu Sans, the figures' first
+ * font, measured on the drawn PNGs: 65 characters span about 565 px), and of the subtitle (12 px).
  */
-export const TITLE_LIMIT_PX = { single: 900, multiples: 1300 } as const;
+export const TITLE_CHAR_PX = { title: 9, subtitle: 7 } as const;
 
 /**
- * Title block: the survey title on the first line, what the figure shows on the second, notes
- * (how to read it) as subtitle lines. The full, unclipped title goes to usermeta.title.
+ * Title block: the survey title first, what the figure shows next, notes (how to read it) as
+ * subtitle lines. Every line is wrapped at word boundaries to the figure's drawn width
+ * `widthPx`, never cut, so a long survey title neither widens the figure nor loses words. The
+ * whole title, on one line, goes to usermeta.title.
  */
-function titleBlock(
-  surveyTitle: string | undefined,
-  what: string,
-  notes: string[],
-  limit: number = TITLE_LIMIT_PX.single,
-): { title: Spec; usermeta: Spec } {
+function titleBlock(surveyTitle: string | undefined, what: string, notes: string[], widthPx: number): { title: Spec; usermeta: Spec } {
   const t = (surveyTitle ?? '').trim();
-  const lines = t ? [t, what] : [what];
+  const titleChars = Math.max(30, Math.floor(widthPx / TITLE_CHAR_PX.title));
+  const noteChars = Math.max(36, Math.floor(widthPx / TITLE_CHAR_PX.subtitle));
+  const lines = [...(t ? wrapWords(t, titleChars) : []), ...wrapWords(what, titleChars)];
   return {
-    title: { text: lines, subtitle: notes, limit, subtitlePadding: 4 },
+    title: { text: lines, subtitle: notes.flatMap((n) => wrapWords(n, noteChars)), subtitlePadding: 4 },
     usermeta: { title: withTitle(surveyTitle, what) },
   };
+}
+
+/** Width drawn by small multiples of `columns` panels of `panelPx` (axis and spacing included). */
+function multiplesWidth(columns: number, panelPx: number): number {
+  return columns * (panelPx + 80);
 }
 
 function models(m: ModelDescription | ModelDescription[] | undefined): ModelDescription[] {
@@ -193,18 +197,53 @@ export function countRows(p: PredictionJson): CountRow[] {
     .filter((r) => finite(r.z_min, r.z_max, r.count));
 }
 
+/** Counts spanning more than this factor (largest over smallest above 0) are drawn on a log axis. */
+export const COUNTS_LOG_SPAN = 10;
+/** Decades a log count axis shows below the largest count (smaller counts sit on its floor). */
+export const COUNTS_LOG_DECADES = 6;
+
+/**
+ * The count axis: linear from 0, or logarithmic when the counts span more than COUNTS_LOG_SPAN;
+ * then bars rise from `floor`, the power of ten at or below the smallest count and error-bar
+ * end drawn (but at most COUNTS_LOG_DECADES decades below the largest count), and the axis ends
+ * at `top`, the power of ten at or above the highest error-bar end.
+ */
+export function countsAxis(rows: readonly CountRow[]): { log: false } | { log: true; floor: number; top: number; span: number } {
+  const positive = rows.map((r) => r.count).filter((c) => c > 0);
+  if (positive.length < 2) return { log: false };
+  const max = Math.max(...positive);
+  const min = Math.min(...positive);
+  if (!(max / min > COUNTS_LOG_SPAN)) return { log: false };
+  const lows = rows.map((r) => r.low).filter((l): l is number => l !== undefined && l > 0);
+  const lowest = Math.max(Math.min(min, ...lows), max * 10 ** -COUNTS_LOG_DECADES);
+  const highs = rows.map((r) => r.high ?? r.count);
+  return { log: true, floor: 10 ** Math.floor(Math.log10(lowest)), top: 10 ** Math.ceil(Math.log10(Math.max(...highs))), span: max / min };
+}
+
 export function countsSpec(p: PredictionJson): Spec | null {
-  const rows = countRows(p);
-  if (rows.length === 0) return null;
+  const all = countRows(p);
+  if (all.length === 0) return null;
+  const axis = countsAxis(all);
+  // On a log axis a slice without sources has no bar, and an error bar reaching 0 stops at the floor.
+  const rows = axis.log
+    ? all.filter((r) => r.count > 0).map((r) => (r.low !== undefined && r.low < axis.floor ? { ...r, low: axis.floor } : r))
+    : all;
   const withErrors = rows.some((r) => r.low !== undefined);
+  const yScale = axis.log ? { type: 'log', domain: [axis.floor, axis.top], nice: false } : {};
   const layers: Spec[] = [
     {
-      mark: { type: 'bar', fill: PALETTE.blue, stroke: 'white', strokeWidth: 1 },
+      mark: { type: 'bar', fill: PALETTE.blue, stroke: 'white', strokeWidth: 1, clip: true },
       encoding: {
         x: { field: 'z_min', type: 'quantitative', title: 'redshift z', scale: { zero: false, nice: false } },
         x2: { field: 'z_max' },
-        y: { field: 'count', type: 'quantitative', title: 'expected count per slice' },
-        y2: { datum: 0 },
+        y: {
+          field: 'count',
+          type: 'quantitative',
+          title: 'expected count per slice',
+          scale: yScale,
+          ...(axis.log ? { axis: powerOfTenAxis(axis.floor, axis.top) } : {}),
+        },
+        y2: { datum: axis.log ? axis.floor : 0 },
         tooltip: [
           { field: 'slice', type: 'ordinal' },
           { field: 'z_min', type: 'quantitative' },
@@ -220,17 +259,19 @@ export function countsSpec(p: PredictionJson): Spec | null {
       mark: { type: 'errorbar', ticks: { color: PALETTE.ink, size: 8 }, rule: { color: PALETTE.ink, strokeWidth: 1.5 } },
       encoding: {
         x: { field: 'z_mid', type: 'quantitative' },
-        y: { field: 'low', type: 'quantitative', title: 'expected count per slice' },
+        y: { field: 'low', type: 'quantitative', title: 'expected count per slice', scale: yScale },
         y2: { field: 'high' },
       },
     });
   }
-  const notes = withErrors
-    ? [`${rows.length} slices; bars: expected count`, 'error bars: 1σ, Poisson and cosmic variance combined']
-    : [`${rows.length} slices; bars: expected count`];
+  const scaleNote = axis.log ? `; logarithmic axis (the counts span a factor of ${fmtShort(axis.span)})` : '';
+  const empty = all.length - rows.length;
+  const emptyNote = empty > 0 ? `; ${empty} slice${empty > 1 ? 's' : ''} without sources not drawn` : '';
+  const notes = [`${all.length} slices; bars: expected count${scaleNote}${emptyNote}`];
+  if (withErrors) notes.push('error bars: 1σ, Poisson and cosmic variance combined');
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    ...titleBlock(p.title, 'Expected count per redshift slice', notes),
+    ...titleBlock(p.title, 'Expected count per redshift slice', notes, 560 + 90),
     width: 560,
     height: 300,
     data: { values: rows },
@@ -280,9 +321,41 @@ function sliceFacet(): Spec {
   };
 }
 
-/** One row per histogram bin, for every slice: {slice (1-based), panel, lo, hi, count}. */
+/**
+ * Bins at either end of a histogram that together hold at most this fraction of its count are not
+ * drawn: the bright tail runs over many bins of e^-40-small counts, which would stretch the axis
+ * over empty magnitudes.
+ */
+export const HISTOGRAM_TAIL_FRACTION = 1e-3;
+
+/**
+ * The bins drawn: from each end, the bins whose running sum (from that end) stays within
+ * HISTOGRAM_TAIL_FRACTION of the histogram's count are left out.
+ */
+export function drawnBins(rows: readonly HistogramRow[]): HistogramRow[] {
+  const total = rows.reduce((a, r) => a + r.count, 0);
+  const allowed = HISTOGRAM_TAIL_FRACTION * total;
+  let lo = 0;
+  let tail = 0;
+  while (lo < rows.length - 1 && tail + rows[lo]!.count <= allowed) tail += rows[lo++]!.count;
+  let hi = rows.length - 1;
+  tail = 0;
+  while (hi > lo && tail + rows[hi]!.count <= allowed) tail += rows[hi--]!.count;
+  return rows.slice(lo, hi + 1);
+}
+
+/** One row per drawn histogram bin (drawnBins), for every slice: {slice (1-based), panel, lo, hi, count}. */
 export function histogramPanelRows(p: PredictionJson): (HistogramRow & { slice: number; panel: string })[] {
-  return p.slices.flatMap((s, i) => histogramRows(s).map((r) => ({ slice: i + 1, panel: panelLabel(s), ...r })));
+  return p.slices.flatMap((s, i) => drawnBins(histogramRows(s)).map((r) => ({ slice: i + 1, panel: panelLabel(s), ...r })));
+}
+
+/** "0.25 mag" or "0.1 dex": the bin width of the histograms, from their edges. */
+function binWidthText(p: PredictionJson, variable: string): string | undefined {
+  const h = p.slices.find((s) => (s.histogram?.edges.length ?? 0) >= 2)?.histogram;
+  if (!h) return undefined;
+  const w = Number((h.edges[1]! - h.edges[0]!).toPrecision(6));
+  if (!(w > 0)) return undefined;
+  return `${w} ${variable === 'apparent_magnitude' ? 'mag' : variable.startsWith('log10_') ? 'dex' : ''}`.trim();
 }
 
 export function histogramsSpec(p: PredictionJson, model?: ModelDescription): Spec | null {
@@ -297,15 +370,20 @@ export function histogramsSpec(p: PredictionJson, model?: ModelDescription): Spe
       : variable === 'log10_line_flux'
         ? 'Line fluxes of the detected sources, per slice'
         : 'Detected sources per bin, per slice';
+  const width = binWidthText(p, variable);
+  const notes = [
+    'expected count in each bin; each panel spans its own range',
+    `bins at either end holding together under ${HISTOGRAM_TAIL_FRACTION * 100}% of a slice's count are not drawn`,
+  ];
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    ...titleBlock(p.title, what, ['expected count in each bin; the bins of a slice add up to its count'], TITLE_LIMIT_PX.multiples),
+    ...titleBlock(p.title, what, notes, multiplesWidth(Math.min(4, panels), 170)),
     data: { values: rows },
     facet: sliceFacet(),
     columns: Math.min(4, panels),
     spec: {
       width: 170,
-      height: 110,
+      height: 120,
       mark: { type: 'bar', fill: PALETTE.blue, stroke: 'white', strokeWidth: 0.5 },
       encoding: {
         x: {
@@ -313,13 +391,22 @@ export function histogramsSpec(p: PredictionJson, model?: ModelDescription): Spe
           type: 'quantitative',
           title: histogramAxisLabel(variable, m),
           scale: { zero: false, nice: false },
+          axis: { tickCount: 5 },
         },
         x2: { field: 'hi' },
-        y: { field: 'count', type: 'quantitative', title: 'count per bin', axis: { tickCount: 4 } },
+        // the bin width in the count axis's title, as counts per magnitude bin are usually labelled
+        // (two short lines: the title stays within the panel's height and the panels close together)
+        y: {
+          field: 'count',
+          type: 'quantitative',
+          title: width ? `count per ${width} bin` : 'count per bin',
+          axis: { tickCount: 4, ...(width ? { title: ['count per', `${width} bin`] } : {}) },
+        },
         y2: { datum: 0 },
       },
     },
-    resolve: { scale: { x: 'shared', y: 'independent' }, axis: { x: 'independent', y: 'independent' } },
+    // each panel on its own range of the variable: slices at different redshifts see different magnitudes
+    resolve: { scale: { x: 'independent', y: 'independent' }, axis: { x: 'independent', y: 'independent' } },
     config: CONFIG,
   };
 }
@@ -427,11 +514,17 @@ export function luminosityFunctionSpec(p: PredictionJson, model?: ModelDescripti
   const only = (kind: LuminosityFunctionRow['kind']) => [{ filter: `datum.kind === '${kind}'` }];
   const x = { field: 'x', type: 'quantitative' };
   const name = typeof m?.name === 'string' && m.name ? ` (${m.name})` : '';
+  const phis = r.rows.filter((row) => row.kind === 'curve').map((row) => row.phi!);
+  // the log scale is niced to whole decades: label every decade it can show as 10⁻ⁿ
+  const yAxis = powerOfTenAxis(10 ** Math.floor(Math.log10(Math.min(...phis))), 10 ** Math.ceil(Math.log10(Math.max(...phis))), 4);
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    ...titleBlock(p.title, `Assumed luminosity function${name} at each slice's middle redshift`, [
-      `shaded: detected part; dashed line: limit; orange line: knee (${kneeName})`,
-    ], TITLE_LIMIT_PX.multiples),
+    ...titleBlock(
+      p.title,
+      `Assumed luminosity function${name} at each slice's middle redshift`,
+      [`shaded: detected part; dashed line: limit; orange line: knee (${kneeName})`],
+      multiplesWidth(Math.min(4, r.panels), 200),
+    ),
     data: { values: r.rows },
     facet: sliceFacet(),
     columns: Math.min(4, r.panels),
@@ -449,7 +542,7 @@ export function luminosityFunctionSpec(p: PredictionJson, model?: ModelDescripti
           mark: { type: 'line', color: PALETTE.blue, strokeWidth: 2 },
           encoding: {
             x: { ...x, title: r.xLabel, scale: { zero: false, nice: false } },
-            y: { field: 'phi', type: 'quantitative', title: yLabel, scale: { type: 'log' }, axis: { format: '.0e', tickCount: 4 } },
+            y: { field: 'phi', type: 'quantitative', title: yLabel, scale: { type: 'log' }, axis: yAxis },
           },
         },
         {
@@ -630,7 +723,7 @@ export function forecastSpec(f: ForecastJson, surveyTitle?: string): Spec | null
   ];
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    ...titleBlock(surveyTitle, `Forecast constraints on α and ${axes.y.name === 'm_star' ? 'M*' : 'L*'}`, notes),
+    ...titleBlock(surveyTitle, `Forecast constraints on α and ${axes.y.name === 'm_star' ? 'M*' : 'L*'}`, notes, 440 + 200),
     width: 440,
     height: 360,
     layer,
@@ -641,10 +734,13 @@ export function forecastSpec(f: ForecastJson, surveyTitle?: string): Spec | null
 // ---------------------------------------------------------------------------------------------
 // 5. Plan: goal against exposure per pointing
 
+/** The goal in words ("sigma of alpha", "expected count"), never its key. */
 function goalLabel(goal: string): string {
-  if (goal === 'count') return 'expected count';
-  return goal.replace(/_/g, ' ');
+  return goalWords(goal);
 }
+
+/** Width and height of the plan figure's plot [px]. */
+const PLAN_SIZE = { width: 520, height: 300 } as const;
 
 export function planSpec(plan: PlanJson, surveyTitle?: string): Spec | null {
   const rows = (plan.designs ?? [])
@@ -653,6 +749,7 @@ export function planSpec(plan: PlanJson, surveyTitle?: string): Spec | null {
     .sort((a, b) => a.exposure_hours_per_pointing - b.exposure_hours_per_pointing);
   if (rows.length === 0) return null;
   const yTitle = `goal: ${goalLabel(plan.goal ?? 'goal value')}`;
+  const hours = rows.map((d) => d.exposure_hours_per_pointing);
   const layer: Spec[] = [];
   const nb = plan.near_best;
   if (nb && finite(nb.from, nb.to) && nb.from > 0 && nb.to > 0) {
@@ -684,23 +781,28 @@ export function planSpec(plan: PlanJson, surveyTitle?: string): Spec | null {
   const best = plan.best;
   if (best && finite(best.exposure_hours_per_pointing, best.goal_value) && best.exposure_hours_per_pointing > 0) {
     const label = `best: ${fmtShort(best.exposure_hours_per_pointing)} h × ${fmtShort(best.pointings)} pointings`;
+    // The label stands above the plot, over the best design, joined to its diamond by a dotted
+    // rule: no design is drawn there, so it never covers a point. It reads away from the
+    // nearer side of the plot so that it stays inside the figure.
+    const lo = Math.log(Math.min(...hours, best.exposure_hours_per_pointing));
+    const hi = Math.log(Math.max(...hours, best.exposure_hours_per_pointing));
+    const at = hi > lo ? (Math.log(best.exposure_hours_per_pointing) - lo) / (hi - lo) : 0.5;
+    const align = at > 0.6 ? 'right' : at < 0.4 ? 'left' : 'center';
+    const x = { field: 'exposure_hours_per_pointing', type: 'quantitative' };
     layer.push({
       data: { values: [{ ...best, label }] },
       layer: [
         {
-          mark: { type: 'point', shape: 'diamond', filled: true, size: 220, color: PALETTE.orange, stroke: PALETTE.ink, strokeWidth: 1.5, opacity: 1 },
-          encoding: {
-            x: { field: 'exposure_hours_per_pointing', type: 'quantitative' },
-            y: { field: 'goal_value', type: 'quantitative' },
-          },
+          mark: { type: 'rule', color: PALETTE.ink, strokeDash: [2, 3], strokeWidth: 1 },
+          encoding: { x, y: { field: 'goal_value', type: 'quantitative' }, y2: { value: 0 } },
         },
         {
-          mark: { type: 'text', color: PALETTE.ink, fontSize: 12, fontWeight: 'bold', align: 'left', baseline: 'bottom', dx: 10, dy: -8 },
-          encoding: {
-            x: { field: 'exposure_hours_per_pointing', type: 'quantitative' },
-            y: { field: 'goal_value', type: 'quantitative' },
-            text: { field: 'label' },
-          },
+          mark: { type: 'point', shape: 'diamond', filled: true, size: 220, color: PALETTE.orange, stroke: PALETTE.ink, strokeWidth: 1.5, opacity: 1 },
+          encoding: { x, y: { field: 'goal_value', type: 'quantitative' } },
+        },
+        {
+          mark: { type: 'text', color: PALETTE.ink, fontSize: 12, fontWeight: 'bold', align, baseline: 'bottom', dy: -4 },
+          encoding: { x, y: { value: 0 }, text: { field: 'label' } },
         },
       ],
     });
@@ -710,12 +812,47 @@ export function planSpec(plan: PlanJson, surveyTitle?: string): Spec | null {
   if (nb) parts.push('shaded: near-best range');
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    ...titleBlock(surveyTitle, `${capitalise(goalLabel(plan.goal ?? 'goal'))} against exposure per pointing`, [parts.join('; ')]),
-    width: 520,
-    height: 300,
+    ...titleBlock(surveyTitle, `${capitalise(goalLabel(plan.goal ?? 'goal'))} against exposure per pointing`, [parts.join('; ')], PLAN_SIZE.width + 90),
+    width: PLAN_SIZE.width,
+    height: PLAN_SIZE.height,
     layer,
     config: CONFIG,
   };
+}
+
+const SUPERSCRIPT: Record<string, string> = { '-': '⁻', '0': '⁰', '1': '¹', '2': '²', '3': '³', '4': '⁴', '5': '⁵', '6': '⁶', '7': '⁷', '8': '⁸', '9': '⁹' };
+
+/** 10 to the power k as people write it: powerOfTen(-2) = "10⁻²", powerOfTen(3) = "10³". */
+export function powerOfTen(k: number): string {
+  return `10${String(Math.round(k)).replace(/[-0-9]/g, (c) => SUPERSCRIPT[c]!)}`;
+}
+
+/**
+ * A log axis labelled at powers of ten written as 10⁻² (not 1e-2): labelled ticks at every decade
+ * from `lo` to `hi` (every second or third when there are more than `most`); over at most three
+ * decades also unlabelled ticks at 2, 3, ... 9 times each decade, to read values between them.
+ */
+export function powerOfTenAxis(lo: number, hi: number, most = 6): Spec {
+  const k0 = Math.ceil(Math.log10(lo) - 1e-9);
+  const k1 = Math.floor(Math.log10(hi) + 1e-9);
+  const step = Math.max(1, Math.ceil((k1 - k0 + 1) / most));
+  const ks: number[] = [];
+  for (let k = k0; k <= k1; k += step) ks.push(k);
+  if (ks.length === 0) ks.push(Math.round(Math.log10(lo)));
+  const values = ks.map((k) => 10 ** k);
+  if (k1 - k0 <= 3) {
+    for (let k = k0 - 1; k <= k1; k++) {
+      for (let m = 2; m <= 9; m++) {
+        const v = m * 10 ** k;
+        if (v >= lo * (1 - 1e-9) && v <= hi * (1 + 1e-9)) values.push(v);
+      }
+    }
+    values.sort((a, b) => a - b);
+  }
+  // label a tick only when it is a labelled decade (log10 of the value a whole number in ks)
+  const decade = 'log(datum.value) / LN10';
+  const labelExpr = ks.reduceRight((rest, k) => `abs(${decade} - ${k}) < 1e-6 ? '${powerOfTen(k)}' : ${rest}`, "''");
+  return { values, labelExpr, grid: true };
 }
 
 function capitalise(s: string): string {

@@ -1,7 +1,8 @@
 /** Human table and CSV for a Prediction (predict command). */
 import Table from 'cli-table3';
 import type { Prediction } from '../counts/predict.js';
-import { csvLine, sig, zText } from './format.js';
+import { sig, zText } from './format.js';
+import { csvText, type CsvCell } from './csv.js';
 import { dominantTerm } from '../uncertainty/prediction.js';
 
 const LIMIT_HEADINGS: Record<string, string> = {
@@ -132,7 +133,7 @@ export function densitySummary(p: Prediction): string[] {
 
 export function predictionCsv(p: Prediction): string {
   const multi = p.populations.length > 1;
-  let out = csvLine([
+  const header = [
     'z_min',
     'z_max',
     'volume_mpc3',
@@ -145,9 +146,8 @@ export function predictionCsv(p: Prediction): string {
     'bias',
     'per_deg2',
     'cumulative_count',
-  ]);
-  p.slices.forEach((s) => {
-    out += csvLine([
+  ];
+  const rows = p.slices.map((s): CsvCell[] => [
       s.z_min,
       s.z_max,
       s.volume_mpc3,
@@ -161,6 +161,5 @@ export function predictionCsv(p: Prediction): string {
       s.per_deg2,
       s.cumulative_count,
     ]);
-  });
-  return out;
+  return csvText(header, rows);
 }

@@ -17,6 +17,7 @@ import type {
   PredictionJson,
   SliceJson,
 } from './types.js';
+import { goalWords, shapeWords } from './format.js';
 
 export interface ReportInput {
   /** The survey file exactly as written. */
@@ -33,6 +34,8 @@ export interface ReportInput {
   planOmitted?: string;
   /** The assumed population(s); defaults to prediction.model. */
   model?: ModelDescription | ModelDescription[];
+  /** What the reader should know (src/warnings.ts): shown near the top when there are any. */
+  warnings?: readonly { code: string; message: string }[];
   figures: Figure[];
 }
 
@@ -211,7 +214,7 @@ function modelValueHtml(v: ModelValue): string {
 
 function modelHtml(models: ModelDescription[]): string {
   const blocks = models.map((m) => {
-    const head = [m.name, m.shape ? `${m.shape} function` : '', m.variable ? `in ${m.variable}` : '']
+    const head = [m.name, typeof m.shape === 'string' && m.shape ? shapeWords(m.shape) : '', m.variable ? `in ${m.variable}` : '']
       .filter((s) => typeof s === 'string' && s.length > 0)
       .map(escapeHtml)
       .join(', ');
@@ -389,11 +392,11 @@ function planTable(plan: PlanJson): string {
     'area<br><span class="unit">deg²</span>',
     'limit',
     'count',
-    `goal value<br><span class="unit">${escapeHtml(plan.goal ?? '')}</span>`,
+    `goal value<br><span class="unit">${escapeHtml(goalWords(plan.goal ?? ''))}</span>`,
     '',
   ];
   const range = nb ? ` Designs from ${formatNumber(lo)} to ${formatNumber(hi)} hours per pointing come close to the best.` : '';
-  return `<p>Goal: <span class="key">${escapeHtml(plan.goal ?? '')}</span>; time available: ${formatNumber(plan.budget_hours)} hours.${range}</p>
+  return `<p>Goal: ${escapeHtml(goalWords(plan.goal ?? ''))}; time available: ${formatNumber(plan.budget_hours)} hours.${range}</p>
 <table class="numbers" id="plan-table">
 <thead><tr>${heads.map((h) => `<th scope="col">${h}</th>`).join('')}</tr></thead>
 <tbody>
@@ -436,6 +439,9 @@ figure svg { max-width: 100%; height: auto; display: block; }
 figcaption { font-size: 0.9em; color: #444; margin-top: 4px; }
 .note { color: #555; font-size: 0.9em; }
 .omitted { border-left: 4px solid #de8a2a; background: #fdf4e8; padding: 8px 12px; }
+.warnings { border-left: 4px solid #b3261e; background: #fbeceb; padding: 8px 12px; margin: 12px 0; }
+.warnings h2 { margin: 0 0 6px; border: none; font-size: 1.1em; color: #7a1711; }
+.warnings ul { margin: 0; padding-left: 20px; }
 @media print { body { max-width: none; padding: 0; font-size: 11pt; } h2 { break-after: avoid; } }
 `;
 
@@ -487,6 +493,17 @@ ${svgForHtml(f.svg)}
     })
     .join('\n');
 
+  const warnings = input.warnings ?? [];
+  const warningSection =
+    warnings.length === 0
+      ? ''
+      : `<section class="warnings" id="warnings">
+<h2>${warnings.length === 1 ? 'Warning' : `Warnings (${warnings.length})`}</h2>
+<ul>
+${warnings.map((w) => `<li data-code="${escapeHtml(w.code)}">${escapeHtml(w.message)}</li>`).join('\n')}
+</ul>
+</section>\n`;
+
   const fileLabel = input.surveyFile ? ` <span class="key">${escapeHtml(input.surveyFile)}</span>` : '';
   return `<!DOCTYPE html>
 <html lang="en">
@@ -504,7 +521,7 @@ ${svgForHtml(f.svg)}
 <p class="summary">${summary}</p>
 <p class="summary">${headline}</p>
 </header>
-${modelSection}
+${warningSection}${modelSection}
 <section id="survey">
 <h2>The survey file${fileLabel}</h2>
 <pre class="survey">${escapeHtml(input.surveyText)}</pre>

@@ -18,6 +18,7 @@ import { inputError } from '../errors.js';
 import { createLinearPower, type LinearPower } from './power-spectrum.js';
 import { createHaloModel, MATCH_MASS_MAX_MSUN, MATCH_MASS_MIN_MSUN } from './haloes.js';
 import { sliceMatterSigma } from './cosmic-variance.js';
+import { addWarning, warning, type Warning } from '../warnings.js';
 
 export interface UncertaintyJson {
   poisson_fraction: number;
@@ -39,8 +40,8 @@ export interface UncertaintyContext {
   survey: Survey;
   cosmo: FlatLambdaCDM;
   power: LinearPower;
-  /** Sentences for the output's warnings (e.g. abundance matching held at a mass bound). */
-  warnings: string[];
+  /** Where the output's warnings go (e.g. abundance matching held at a mass bound). */
+  warnings: Warning[];
   /** Where the blocks computed for one population are kept for reuse (see UncertaintyMemo). */
   memo?: UncertaintyMemo;
 }
@@ -97,7 +98,7 @@ export function populationBias(
     const message =
       `${p.name}: the detected density at z = ${z.toPrecision(3)} (${target.toPrecision(3)} Mpc^-3 after occupation) is ${what} ` +
       `haloes above ${mass.toExponential(0)} Msun provide, so the bias is that of haloes above this mass; give population.bias to set it`;
-    if (!ctx.warnings.includes(message)) ctx.warnings.push(message);
+    addWarning(ctx.warnings, warning('bias_at_mass_bound', message));
     return { bias: haloes.effectiveBiasAbove(mass, z), haloMassMinMsun: mass };
   };
   if (target >= haloes.haloDensityAboveMpc3(MATCH_MASS_MIN_MSUN, z)) return atBound(MATCH_MASS_MIN_MSUN, 'more than all');

@@ -3,6 +3,7 @@ import type { Cosmology } from '../survey/types.js';
 import { cosmologyJsonOf, type CosmologyJsonShape } from '../cosmology/json.js';
 import { createLinearPower, type TransferForm } from './power-spectrum.js';
 import { createHaloModel } from './haloes.js';
+import type { Warning } from '../warnings.js';
 
 export interface ClusteringRow {
   z: number;
@@ -17,6 +18,8 @@ export interface ClusteringTable {
   transfer: TransferForm;
   units: { radius: string; mass: string; density: string };
   rows: ClusteringRow[];
+  /** As in every output (src/warnings.ts); none is raised here yet. */
+  warnings: Warning[];
 }
 
 export function clusteringTable(
@@ -41,5 +44,6 @@ export function clusteringTable(
       }
       return row;
     }),
+    warnings: [],
   };
 }

@@ -140,9 +140,9 @@ describe('forecast --figures: the Fisher ellipses drawn from the JSON forecast p
     expect(Math.abs((Math.max(...xs) + Math.min(...xs)) / 2 - cross.at![0])).toBeLessThan(0.01 * (Math.max(...xs) - Math.min(...xs)));
   });
 
-  test('--keep-fits lists the converged mock fits (schema-valid); without it the JSON has none', async () => {
+  test('--list-mock-fits lists the converged mock fits (schema-valid); without it the JSON has none', async () => {
     const validate = new Ajv2020({ allErrors: true, strict: false }).compile(JSON.parse(readFileSync('specs/forecast.schema.json', 'utf8')));
-    const kept = await runCli(['forecast', 'samples/halpha-narrowband.yaml', '--format', 'json', '--mocks', '6', '--seed', '5', '--keep-fits']);
+    const kept = await runCli(['forecast', 'samples/halpha-narrowband.yaml', '--format', 'json', '--mocks', '6', '--seed', '5', '--list-mock-fits']);
     expect(kept.code).toBe(0);
     const k = JSON.parse(kept.stdout) as Any;
     expect(validate(k), JSON.stringify(validate.errors)).toBe(true);
@@ -152,6 +152,8 @@ describe('forecast --figures: the Fisher ellipses drawn from the JSON forecast p
       const mean = k.mocks.fits.reduce((a: number, r: number[]) => a + r[j]!, 0) / k.mocks.fits.length;
       expect(close(mean, k.mocks.parameters[n].mean, 1e-12), n).toBe(true);
     });
+    // the old name, read as the FITS file format, is gone (exit 2, commander's one-line message)
+    expect((await runCli(['forecast', 'samples/halpha-narrowband.yaml', '--mocks', '6', '--keep-fits'])).code).toBe(2);
     const plain = await runCli(['forecast', 'samples/halpha-narrowband.yaml', '--format', 'json', '--mocks', '6', '--seed', '5']);
     const p = JSON.parse(plain.stdout) as Any;
     expect(p.mocks.fits).toBeUndefined();
@@ -246,14 +248,14 @@ describe.each(PLAN_SAMPLES)('report of %s: plan and forecast', (sample) => {
 });
 
 describe('report --mocks N --seed S', () => {
-  test('the forecast figure scatters every converged fit, equal to those forecast --keep-fits lists', async () => {
+  test('the forecast figure scatters every converged fit, equal to those forecast --list-mock-fits lists', async () => {
     const dir = tmp();
     const out = join(dir, 'r.html');
     const r = await runCli(['report', 'samples/halpha-narrowband.yaml', '--mocks', '20', '--seed', '3', '--out', out]);
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
     const html = readFileSync(out, 'utf8');
-    const f = JSON.parse((await runCli(['forecast', 'samples/halpha-narrowband.yaml', '--mocks', '20', '--seed', '3', '--keep-fits', '--format', 'json'])).stdout) as Any;
+    const f = JSON.parse((await runCli(['forecast', 'samples/halpha-narrowband.yaml', '--mocks', '20', '--seed', '3', '--list-mock-fits', '--format', 'json'])).stdout) as Any;
     const fits = f.mocks.fits as number[][];
     expect(fits).toHaveLength(20 - f.mocks.failed_fits);
     expect(fits.length).toBeGreaterThan(15);

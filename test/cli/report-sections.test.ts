@@ -121,10 +121,11 @@ describe('report hooks', () => {
     const out = join(dir, 'r.html');
     let planCalls = 0;
     const code = await runReport(io(), 'samples/halpha-narrowband.yaml', { out }, {
-      forecast: async () => forecastForFigures(forecastResult),
+      // the hooks return the results as the commands compute them; the report adapts them
+      forecast: async () => forecastResult,
       plan: async () => {
         planCalls++;
-        return planForFigures(planResult);
+        return planResult;
       },
     });
     expect(code).toBe(0);
@@ -143,7 +144,7 @@ describe('report hooks', () => {
     expect(hasPlanSection(loadSurveyText(text, 'p.yaml'))).toBe(true);
     const input = join(dir, 'p.yaml');
     writeFileSync(input, text);
-    const code = await runReport(io(), input, { out: join(dir, 'r.html') }, { plan: async () => planForFigures(planResult) });
+    const code = await runReport(io(), input, { out: join(dir, 'r.html') }, { plan: async () => planResult });
     expect(code).toBe(0);
     const html = readFileSync(join(dir, 'r.html'), 'utf8');
     expect(html).toContain('id="plan-table"');

@@ -84,16 +84,37 @@ describe.each(SAMPLES)('%s: figures draw the numbers of predict --format json', 
     }
   });
 
-  test('histograms: the bars, panel by panel, are every slice histogram bin (edges and counts)', () => {
+  test('histograms: the bars, panel by panel, are the slice histogram bins (edges and counts) but the negligible ends', () => {
+    // The figure leaves out, at either end, the bins holding together at most 1e-3 of the slice's
+    // count (the stated rule, re-applied here to predict's JSON); everything between is drawn.
+    const kept = (counts: number[]) => {
+      const total = counts.reduce((a, c) => a + c, 0);
+      let lo = 0;
+      let tail = 0;
+      while (lo < counts.length - 1 && tail + counts[lo]! <= 1e-3 * total) tail += counts[lo++]!;
+      let hi = counts.length - 1;
+      tail = 0;
+      while (hi > lo && tail + counts[hi]! <= 1e-3 * total) tail += counts[hi--]!;
+      return [lo, hi] as const;
+    };
+    const expected = p.slices.flatMap((s) => {
+      const [lo, hi] = kept(s.histogram.counts);
+      const left = s.histogram.counts.filter((_, k) => k < lo || k > hi).reduce((a, c) => a + c, 0);
+      expect(left).toBeLessThanOrEqual(2e-3 * s.count);
+      return s.histogram.counts.slice(lo, hi + 1).map((c, k) => ({ lo: s.histogram.edges[lo + k]!, hi: s.histogram.edges[lo + k + 1]!, c }));
+    });
+    const width = Number((p.slices[0]!.histogram.edges[1]! - p.slices[0]!.histogram.edges[0]!).toPrecision(6));
     for (const svg of [readFileSync(join(figDir, 'histograms.svg'), 'utf8'), figureInHtml(html, 'histograms')]) {
       const bars = marks(svg, 'bar');
-      const expected = p.slices.flatMap((s) => s.histogram.counts.map((c, k) => ({ lo: s.histogram.edges[k]!, hi: s.histogram.edges[k + 1]!, c })));
       expect(bars).toHaveLength(expected.length);
       bars.forEach((b, k) => {
         const xKey = Object.keys(b)[0]!; // the x axis title, e.g. "apparent AB magnitude [mag]"
         expect(close(num(b[xKey]!), expected[k]!.lo)).toBe(true);
         expect(close(num(b.hi!), expected[k]!.hi)).toBe(true);
-        expect(close(num(b['count per bin']!), expected[k]!.c), `bin ${k}`).toBe(true);
+        // the count axis names the bin width: "count per 0.25 mag bin"
+        const yKey = Object.keys(b).find((key) => key.startsWith('count per '))!;
+        expect(yKey).toMatch(new RegExp(`^count per ${width} (mag|dex) bin$`));
+        expect(close(num(b[yKey]!), expected[k]!.c), `bin ${k}`).toBe(true);
       });
     }
   });
@@ -119,6 +140,17 @@ describe.each(SAMPLES)('%s: figures draw the numbers of predict --format json', 
     const unescaped = pre.replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&#39;/g, "'").replace(/&amp;/g, '&');
     expect(unescaped).toBe(text);
     expect(html).not.toMatch(/NaN|Infinity/);
+  });
+
+  test('"Schechter" is capitalised and plan goals are in words (failed before: "schechter function", "sigma_alpha")', () => {
+    // outside the survey file as written (which may say shape: schechter), every Schechter is capitalised
+    const shown = html.replace(/<pre class="survey">[\s\S]*?<\/pre>/, '');
+    expect(shown).not.toMatch(/\bschechter function|double_schechter function/);
+    expect(shown).toMatch(/Schechter function/);
+    if (html.includes('id="plan-table"')) {
+      expect(shown).toMatch(/Goal: sigma of /);
+      expect(shown).not.toMatch(/sigma_(alpha|log10)/);
+    }
   });
 });
 
@@ -209,5 +241,49 @@ describe('report and --figures: files and refusals', () => {
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/area/);
     expect(existsSync(join(dir, 'r.html'))).toBe(false);
+  });
+});
+
+describe('report --format json: the results of every section in one document (specs/report.schema.json)', () => {
+  const ajvAll = async () => {
+    const { Ajv2020 } = await import('ajv/dist/2020.js');
+    const ajv = new Ajv2020({ allErrors: true, strict: false });
+    for (const f of readdirSync('specs')) if (f.endsWith('.schema.json')) ajv.addSchema(JSON.parse(readFileSync(`specs/${f}`, 'utf8')), f);
+    return ajv.getSchema('report.schema.json')!;
+  };
+
+  test('valid against the schema; prediction and forecast equal to what predict and forecast print (failed before: report refused --format)', async () => {
+    const validate = await ajvAll();
+    const dir = tmp();
+    const r = await runCli(['report', 'samples/halpha-narrowband.yaml', '--format', 'json', '--mocks', '4', '--figures', dir]);
+    expect(r.code, r.stderr).toBe(0);
+    const doc = JSON.parse(r.stdout);
+    expect(validate(doc), JSON.stringify(validate.errors)).toBe(true);
+    expect(doc.survey_file).toBe('halpha-narrowband.yaml');
+    expect(doc.plan).toBeUndefined();
+    const p = JSON.parse((await runCli(['predict', 'samples/halpha-narrowband.yaml', '--format', 'json'])).stdout);
+    expect(doc.prediction).toEqual(p);
+    const f = JSON.parse((await runCli(['forecast', 'samples/halpha-narrowband.yaml', '--format', 'json', '--mocks', '4'])).stdout);
+    expect(doc.forecast).toEqual(f);
+    expect(doc.warnings).toEqual([]);
+    // --figures still draws every figure
+    expect(existsSync(join(dir, 'counts.svg'))).toBe(true);
+    expect(existsSync(join(dir, 'forecast.svg'))).toBe(true);
+  });
+
+  test('a section that cannot be made is {omitted: sentence}', async () => {
+    const validate = await ajvAll();
+    const r = await runCli(['report', 'samples/double-schechter-mass.yaml', '--format', 'json']);
+    expect(r.code).toBe(0);
+    const doc = JSON.parse(r.stdout);
+    expect(validate(doc), JSON.stringify(validate.errors)).toBe(true);
+    expect(doc.forecast.omitted).toMatch(/^No forecast: .*double Schechter/);
+  });
+
+  test('csv is refused: exit 2, nothing on stdout', async () => {
+    const r = await runCli(['report', 'samples/halpha-narrowband.yaml', '--format', 'csv']);
+    expect(r.code).toBe(2);
+    expect(r.stdout).toBe('');
+    expect(r.stderr).toMatch(/--format/);
   });
 });

@@ -13,6 +13,7 @@ import { run } from '../../src/cli/index.js';
 import { loadSurveyFile } from '../../src/survey/load.js';
 import { forecast } from '../../src/forecast/forecast.js';
 import { predict } from '../../src/counts/predict.js';
+import { parseCsvStrict } from '../render/csv-helpers.js';
 
 // Forecasts vary a single Schechter function: double Schechter samples are refused (tested below).
 const ALL = readdirSync('samples').filter((f) => f.endsWith('.yaml') && !f.startsWith('plan'));
@@ -39,9 +40,19 @@ describe('forecast command', () => {
     expect(table.stdout).toContain('only as good as the luminosity function assumed');
     const csv = await runCli(['forecast', `samples/${f}`, '--no-cosmic-variance', '--format', 'csv']);
     expect(csv.code).toBe(0);
-    const lines = csv.stdout.trim().split('\n');
-    expect(lines.length).toBe(4);
-    expect(lines[0]).toMatch(/^parameter,input,sigma_fisher,sigma_poisson_only/);
+    const parsed = parseCsvStrict(csv.stdout);
+    expect(parsed.rows.length).toBe(3);
+    expect(parsed.header.slice(0, 4)).toEqual(['parameter', 'input', 'sigma_fisher', 'sigma_poisson_only']);
+  });
+
+  test('the mock column is "mock offset", never read as galaxy bias (failed before: "bias [s.e.]")', async () => {
+    const f = `samples/${SAMPLES[0]}`;
+    const table = await runCli(['forecast', f, '--no-cosmic-variance', '--mocks', '4']);
+    expect(table.stdout).toContain('mock offset [s.e.]');
+    expect(table.stdout).not.toContain('bias [s.e.]');
+    const csv = parseCsvStrict((await runCli(['forecast', f, '--no-cosmic-variance', '--mocks', '4', '--format', 'csv'])).stdout);
+    expect(csv.header).toContain('mock_offset_in_standard_errors');
+    expect(csv.header.some((h) => h.includes('bias'))).toBe(false);
   });
 
   test('JSON equals the library result', async () => {

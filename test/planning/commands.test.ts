@@ -13,12 +13,13 @@ import { describe, expect, test } from 'vitest';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { predict } from '../../src/counts/predict.js';
 import { forecast } from '../../src/forecast/forecast.js';
-import { compare } from '../../src/planning/compare.js';
+import { bestIndices, compare } from '../../src/planning/compare.js';
 import { plan } from '../../src/planning/plan.js';
 import { surveyAtLimit } from '../../src/planning/model.js';
 import { makeDepthModel } from '../../src/planning/depth.js';
 import { runCli } from '../cli/helpers.js';
 import { halphaPlan, sample, sampleText } from './helpers.js';
+import { parseCsvStrict } from '../render/csv-helpers.js';
 
 const ajv = new Ajv2020({ strict: false });
 const planSchema = ajv.compile(JSON.parse(readFileSync('specs/plan.schema.json', 'utf8')));
@@ -46,9 +47,9 @@ describe('compare = predict + forecast, row by row', () => {
       expect(row.exposure_hours).toBe(i === 0 ? 12 : 40);
     }
     // The best of each row is the survey with the best value.
-    expect(c.best.count).toBe(c.surveys[0]!.count > c.surveys[1]!.count ? 0 : 1);
-    expect(c.best.exposure_hours).toBe(0);
-    expect(c.best['sigma.alpha']).toBe(c.surveys[0]!.sigma.alpha! < c.surveys[1]!.sigma.alpha! ? 0 : 1);
+    expect(c.best.count).toEqual([c.surveys[0]!.count > c.surveys[1]!.count ? 0 : 1]);
+    expect(c.best.exposure_hours).toEqual([0]);
+    expect(c.best['sigma.alpha']).toEqual([c.surveys[0]!.sigma.alpha! < c.surveys[1]!.sigma.alpha! ? 0 : 1]);
   }, 60_000);
   test('the mark survives piping: a "*" after the best value and a footnote', async () => {
     const r = await runCli(['compare', 'samples/halpha-narrowband.yaml', 'samples/plan-halpha-layers.yaml']);
@@ -56,8 +57,44 @@ describe('compare = predict + forecast, row by row', () => {
     expect(r.stdout).toMatch(/ \*/);
     expect(r.stdout).toContain('* best value in the row');
     const csv = await runCli(['compare', 'samples/halpha-narrowband.yaml', 'samples/plan-halpha-layers.yaml', '--format', 'csv']);
-    expect(csv.stdout.split('\n')[0]).toMatch(/,best$/);
+    expect(parseCsvStrict(csv.stdout).header.at(-1)).toBe('best');
   }, 60_000);
+
+  test('a tie marks every tied value (failed before: only the first of two equal areas was marked)', async () => {
+    // both files survey 2.1 deg^2 to 4e-17 erg/s/cm^2 (the plan sample's area and limit before planning)
+    const files = ['samples/halpha-narrowband.yaml', 'samples/plan-halpha-layers.yaml'];
+    const j = await runCli(['compare', ...files, '--format', 'json', '--no-cosmic-variance']);
+    const c = JSON.parse(j.stdout);
+    expect(compareSchema(c), JSON.stringify(compareSchema.errors)).toBe(true);
+    expect(c.surveys[0].area_deg2).toBe(c.surveys[1].area_deg2);
+    expect(c.best.area_deg2).toEqual([0, 1]);
+    expect(c.best.limit).toEqual([0, 1]);
+    const t = await runCli(['compare', ...files, '--no-cosmic-variance']);
+    const areaRow = t.stdout.split('\n').find((l) => l.includes('area (deg^2)'))!;
+    expect(areaRow.match(/ \*/g)).toHaveLength(2);
+    const csv = parseCsvStrict((await runCli(['compare', ...files, '--format', 'csv', '--no-cosmic-variance'])).stdout);
+    expect(csv.records.find((r) => r.row === 'area_deg2')!.best).toBe('1 2');
+  }, 60_000);
+
+  test('goals and sigmas in words, never keys (failed before: "sigma log10_l_star")', async () => {
+    const c = await runCli(['compare', 'samples/halpha-narrowband.yaml', 'samples/deep-continuum.yaml', '--no-cosmic-variance']);
+    expect(c.stdout).toContain('sigma of alpha');
+    expect(c.stdout).toContain('sigma of log10 L*');
+    expect(c.stdout).not.toMatch(/sigma (log10_|m_star|alpha\b)/);
+    const dir = mkdtempSync(join(tmpdir(), 'skytally-words-'));
+    const file = join(dir, 'plan.yaml');
+    writeFileSync(file, sampleText('plan-halpha-layers.yaml').replace('count: 120}', 'count: 20}').replace('tiers: 2', 'tiers: 1'));
+    const p = await runCli(['plan', file]);
+    expect(p.stdout).toContain('Goal: smallest sigma of log10 L*');
+    expect(p.stdout).not.toMatch(/log10_l_star|log10_phi_star/);
+  }, 60_000);
+
+  test('bestIndices: ties to 1e-9 relative are all marked, lower or higher better', () => {
+    expect(bestIndices([1, 1 + 1e-12, 0.5], true)).toEqual([0, 1]);
+    expect(bestIndices([1, 1 + 1e-6, 0.5], true)).toEqual([1]);
+    expect(bestIndices([undefined, 2, 2], false)).toEqual([1, 2]);
+    expect(bestIndices([undefined, undefined], false)).toEqual([]);
+  });
 });
 
 describe('plan', () => {

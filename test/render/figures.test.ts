@@ -18,7 +18,9 @@ import {
   luminosityFunctionSpec,
   planFigure,
   planSpec,
+  powerOfTen,
   renderSvg,
+  drawnBins,
   type Cov2,
 } from '../../src/render/figures.js';
 import type { PredictionJson } from '../../src/render/types.js';
@@ -114,7 +116,8 @@ describe('histogram figure: small multiples hold each slice histogram', () => {
     demo.slices.forEach((s, i) => {
       const panel = drawn.slice(i * nBins, (i + 1) * nBins);
       const [, yMax] = axisDomain(fig.svg, 'Y', i);
-      panel.forEach((b, k) => expect((b.h / 110) * yMax).toBeCloseTo(s.histogram!.counts[k]!, 6));
+      const height = (histogramsSpec(demo) as Any).spec.height as number;
+      panel.forEach((b, k) => expect((b.h / height) * yMax).toBeCloseTo(s.histogram!.counts[k]!, 6));
     });
   });
 
@@ -358,5 +361,97 @@ describe('palette', () => {
     expect(lightness('#777777')).toBeCloseTo(50.03, 1);
     const ls = Object.values(PALETTE).map(lightness);
     for (let i = 0; i < ls.length; i++) for (let j = i + 1; j < ls.length; j++) expect(Math.abs(ls[i]! - ls[j]!)).toBeGreaterThan(15);
+  });
+});
+
+describe('figures for a proposal', () => {
+  test('powers of ten are written as 10⁻² (superscript digits), not 1e-2', () => {
+    expect(powerOfTen(-2)).toBe('10⁻²');
+    expect(powerOfTen(0)).toBe('10⁰');
+    expect(powerOfTen(13)).toBe('10¹³');
+  });
+
+  test('counts spanning more than a factor of 10 sit on a log axis labelled 10ⁿ; bar tops at log10 of each count (failed before: always linear)', async () => {
+    const p = demoPrediction({ slices: 4 });
+    [3, 40, 900, 12].forEach((c, i) => {
+      const s = p.slices[i]!;
+      s.count = c;
+      s.per_deg2 = c / 2.5;
+      s.uncertainty!.total_fraction = 0.1;
+    });
+    const spec = countsSpec(p)! as Any;
+    expect(spec.layer[0].encoding.y.scale.type).toBe('log');
+    const fig = (await countsFigure(p))!;
+    for (const label of ['10⁰', '10¹', '10²', '10³']) expect(fig.svg).toContain(`>${label}<`);
+    expect(fig.svg).not.toMatch(/>1e[-+]?\d/);
+    // bar tops: height is 300 px over log10 of the axis domain [1, 1000] (floor and top decades)
+    const drawn = bars(fig.svg);
+    expect(drawn).toHaveLength(4);
+    drawn.forEach((b, i) => expect(Math.log10(1) + (b.h / 300) * 3).toBeCloseTo(Math.log10(p.slices[i]!.count), 6));
+    // within a factor of 10 the axis stays linear from 0
+    expect((countsSpec(demo) as Any).layer[0].encoding.y.scale.type).toBeUndefined();
+  });
+
+  test('histogram panels each span their own range, without the negligible end bins; the bin width names the count axis (failed before: one shared range)', async () => {
+    const p = demoPrediction({ slices: 2 });
+    // slice 2: ten bins of nothing (or e^-30-small counts) below its 8 bins, which start at -16.5
+    const h2 = p.slices[1]!.histogram!;
+    h2.edges = Array.from({ length: 19 }, (_, k) => +(-17.5 + 0.1 * k).toFixed(1));
+    h2.counts = [1e-12, 1e-9, ...new Array<number>(8).fill(0), ...h2.counts];
+    const spec = histogramsSpec(p)! as Any;
+    expect(spec.resolve.scale.x).toBe('independent');
+    expect(spec.spec.encoding.y.title).toBe('count per 0.1 dex bin');
+    const rows = spec.data.values as Any[];
+    const second = rows.filter((r) => r.slice === 2);
+    expect(second[0]!.lo).toBeCloseTo(-16.5, 9);
+    expect(second.map((r) => r.count)).toEqual(p.slices[1]!.histogram!.counts.slice(10));
+    expect(drawnBins([{ lo: 0, hi: 1, count: 5 }])).toHaveLength(1);
+    const fig = (await histogramsFigure(p))!;
+    // panel 1 starts at its own first bin, -16.8; panel 2 at -16.5, not at the negligible -17.5
+    const starts = [...fig.svg.matchAll(/aria-label="X-axis titled '[^']*' for a linear scale with values from ([^ ]+) to/g)].map((m) => Number(m[1]!.replace(/\u2212/g, '-')));
+    expect(starts).toHaveLength(2);
+    expect(starts[0]).toBeCloseTo(-16.8, 9);
+    expect(starts[1]).toBeCloseTo(-16.5, 9);
+  });
+
+  test('luminosity-function ticks are powers of ten written 10⁻ⁿ (failed before: 1e-2)', async () => {
+    const fig = (await luminosityFunctionFigure(demo))!;
+    expect(fig.svg).toMatch(/>10⁻[⁰¹²³⁴⁵⁶⁷⁸⁹]+</);
+    expect(fig.svg).not.toMatch(/>\de[-+]\d</);
+  });
+
+  test('a long title is wrapped over lines, never cut (failed before: ellipsis)', async () => {
+    const long = `${'An invented survey with a long and winding name '.repeat(5).trim()} ending here`;
+    // at most as many characters as the figure is wide (about 9 px each): 80 for a single plot, 120 for small multiples
+    for (const [spec, name, most] of [
+      [countsSpec({ ...demo, title: long }), 'counts', 80],
+      [histogramsSpec({ ...demo, title: long }), 'histograms', 120],
+      [planSpec(demoPlan(), long), 'plan', 80],
+    ] as const) {
+      const title = (spec as Any).title;
+      expect(title.limit, name).toBeUndefined();
+      const lines = title.text as string[];
+      expect(lines.length, name).toBeGreaterThan(2);
+      expect(lines.slice(0, -1).join(' '), name).toBe(long);
+      for (const l of lines) expect(l.length, name).toBeLessThanOrEqual(most);
+    }
+    const fig = (await countsFigure({ ...demo, title: long }))!;
+    expect(fig.svg).not.toContain('…');
+    expect(fig.svg).toContain('ending here');
+  });
+
+  test('plan: the goal in words, and the best design labelled above the plot, clear of every point (failed before: the label sat among the points)', async () => {
+    const plan = { ...demoPlan(), goal: 'sigma_alpha' };
+    const spec = planSpec(plan)! as Any;
+    expect(spec.layer[1].encoding.y.title).toBe('goal: sigma of alpha');
+    expect(spec.title.text.at(-1)).toBe('Sigma of alpha against exposure per pointing');
+    const svg = (await planFigure(plan))!.svg;
+    const label = /aria-roledescription="text mark"[^>]*transform="translate\(([-\d.e]+),([-\d.e]+)\)"/.exec(svg)!;
+    const labelY = Number(label[2]);
+    const pointYs = [...svg.matchAll(/aria-roledescription="point" transform="translate\(([-\d.e]+),([-\d.e]+)\)"/g)].map((m) => Number(m[2]));
+    expect(pointYs.length).toBeGreaterThan(plan.designs.length);
+    // text drawn upward from its baseline (baseline bottom) above y = 0; every point at y >= 0
+    expect(labelY).toBeLessThan(0);
+    expect(Math.min(...pointYs)).toBeGreaterThanOrEqual(0);
   });
 });

@@ -83,9 +83,11 @@ describe('IGM in the magnitude observer and predict', () => {
     expect(p.slices[0]!.count).toBe(p0.slices[0]!.count);
     expect(p.slices[3]!.count).toBeLessThan(0.5 * p0.slices[3]!.count);
     expect(p.warnings).toHaveLength(1);
-    expect(p.warnings[0]).toMatch(/z > 5\.99/);
-    expect(p.warnings[0]).toMatch(/Madau 1995/);
-    expect(p0.warnings[0]).toMatch(/no intergalactic attenuation/);
+    expect(p.warnings[0]!.code).toBe('band_blueward_of_lyman_alpha');
+    expect(p.warnings[0]!.message).toMatch(/z > 5\.99/);
+    expect(p.warnings[0]!.message).toMatch(/Madau 1995/);
+    expect(p0.warnings[0]!.code).toBe('band_blueward_of_lyman_alpha');
+    expect(p0.warnings[0]!.message).toMatch(/no intergalactic attenuation/);
     const lowz = predict(loadSurveyText(HIGHZ.replace('{min: 5.0, max: 7.0}', '{min: 3.0, max: 5.5}'), 'igm.yaml'));
     expect(lowz.warnings).toEqual([]);
   });

@@ -1,7 +1,7 @@
 import type { CommandDef } from './types.js';
-import { addOutputOptions, loadSurveyArg, outputOptions } from './common.js';
+import { addOutputOptions, loadSurveyArg, outputOptions, printWarnings } from './common.js';
 import { emit } from '../io.js';
-import { csvLine } from '../../render/format.js';
+import { csvText } from '../../render/csv.js';
 
 export const checkCommand: CommandDef = {
   name: 'check',
@@ -15,15 +15,21 @@ export const checkCommand: CommandDef = {
     const opts = outputOptions(cmd.opts());
     const survey = await loadSurveyArg(io, file);
     const { describeSurvey } = await import('../../survey/index.js');
+    const { surveyWarnings } = await import('../../survey/warnings.js');
+    const { predictionWarnings } = await import('../../counts/predict.js');
+    const { mergeWarnings } = await import('../../warnings.js');
+    // What can be said without counting: implausible values, the band against Lyman alpha, windows outside the slices.
+    const warnings = mergeWarnings(surveyWarnings(survey), predictionWarnings(survey));
+    printWarnings(io, warnings);
     const view = describeSurvey(survey) as Record<string, unknown>;
     const flat = flatten(view);
     emit(
       io,
       opts,
       {
-        json: () => view,
+        json: () => ({ ...view, warnings }),
         table: () => `${file}: valid survey file\n` + Object.entries(flat).map(([k, v]) => `  ${k} = ${v}`).join('\n') + '\n',
-        csv: () => csvLine(['key', 'value']) + Object.entries(flat).map(([k, v]) => csvLine([k, v])).join(''),
+        csv: () => csvText(['key', 'value'], Object.entries(flat)),
       },
       [file],
     );

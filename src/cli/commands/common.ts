@@ -3,6 +3,12 @@ import { resolve } from 'node:path';
 import { Option, type Command } from 'commander';
 import { FORMATS, parseFormat, type CliIO, type OutputOptions } from '../io.js';
 import { inputError } from '../../errors.js';
+import { warningLines, type Warning } from '../../warnings.js';
+
+/** Each warning as one line on stderr (`skytally: warning: ...`); the JSON output carries them too. */
+export function printWarnings(io: CliIO, warnings: readonly Warning[]): void {
+  if (warnings.length > 0) io.stderr(warningLines(warnings));
+}
 
 export function addOutputOptions(cmd: Command): void {
   cmd.addOption(new Option('--format <format>', 'output format').choices([...FORMATS]).default('table'));

@@ -1,5 +1,5 @@
 import type { CommandDef } from './types.js';
-import { addOutputOptions, loadSurveyArg, outputOptions } from './common.js';
+import { addOutputOptions, loadSurveyArg, outputOptions, printWarnings } from './common.js';
 import { emit } from '../io.js';
 
 export const compareCommand: CommandDef = {
@@ -22,6 +22,7 @@ export const compareCommand: CommandDef = {
       ...(typeof raw.population === 'string' ? { population: raw.population } : {}),
       cosmicVariance: raw.cosmicVariance !== false,
     });
+    printWarnings(io, result.warnings);
     const { compareTable, compareCsv } = await import('../../planning/render.js');
     emit(io, out, { json: () => result, table: () => compareTable(result), csv: () => compareCsv(result) }, files);
     return 0;

@@ -1,7 +1,7 @@
 import { availableParallelism } from 'node:os';
 import { Option } from 'commander';
 import type { CommandDef } from './types.js';
-import { addOutputOptions, loadSurveyArg, outputOptions } from './common.js';
+import { addOutputOptions, loadSurveyArg, outputOptions, printWarnings } from './common.js';
 import { emit, type CliIO } from '../io.js';
 import { inputError } from '../../errors.js';
 
@@ -16,7 +16,7 @@ export const forecastCommand: CommandDef = {
     cmd.option('--no-cosmic-variance', 'leave out the cosmic-variance normalisation of each slice (Poisson only)');
     cmd.option('--workers <K>', 'worker threads for the mocks (default 1)');
     cmd.option('--population <name>', 'the population to forecast (default: the first)');
-    cmd.option('--keep-fits', 'with --mocks: list every converged mock fit in the JSON (mocks.fits)');
+    cmd.option('--list-mock-fits', 'with --mocks: list the fitted parameters of every converged mock survey in the JSON (mocks.fits)');
     cmd.option('--figures <dir>', 'also draw the forecast figure as DIR/forecast.svg (and .png when the rasteriser loads)');
     cmd.addOption(new Option('--estimator <name>', 'mock fits: ml (extended likelihood) or sty (shape only; no phi*)').choices(['ml', 'sty']).default('ml'));
     addOutputOptions(cmd);
@@ -30,7 +30,7 @@ export const forecastCommand: CommandDef = {
     const workers = raw.workers === undefined ? 1 : integerOption(String(raw.workers), '--workers', 1, maxWorkers);
     const draw = typeof raw.figures === 'string' ? await import('../draw.js') : undefined;
     const figuresDir = draw ? draw.checkFiguresDir(io, raw.figures as string) : undefined;
-    const keepFits = raw.keepFits === true;
+    const keepFits = raw.listMockFits === true;
     const survey = await loadSurveyArg(io, file);
     const { forecast, choosePopulation } = await import('../../forecast/forecast.js');
     const { parameterNames } = await import('../../forecast/parameters.js');
@@ -45,10 +45,11 @@ export const forecastCommand: CommandDef = {
       workers,
       estimator: raw.estimator === 'sty' ? 'sty' : 'ml',
       ...(targets ? { targets } : {}),
-      // the figure scatters the mock fits; the JSON lists them only with --keep-fits
+      // the figure scatters the mock fits; the JSON lists them only with --list-mock-fits
       ...(keepFits || draw ? { keepFits: true } : {}),
       ...(progress ? { onProgress: progress } : {}),
     });
+    printWarnings(io, result.warnings);
     const shown = keepFits || !result.mocks?.fits ? result : { ...result, mocks: withoutFits(result.mocks) };
     const { forecastTable, forecastCsv } = await import('../../forecast/render.js');
     emit(io, out, { json: () => shown, table: () => forecastTable(shown), csv: () => forecastCsv(shown) }, [file]);

@@ -1,6 +1,6 @@
 import { availableParallelism } from 'node:os';
 import type { CommandDef } from './types.js';
-import { addOutputOptions, loadSurveyArg, outputOptions } from './common.js';
+import { addOutputOptions, loadSurveyArg, outputOptions, printWarnings } from './common.js';
 import { emit, type CliIO } from '../io.js';
 import { inputError } from '../../errors.js';
 
@@ -36,6 +36,7 @@ export const planCommand: CommandDef = {
       ...(workers ? { workers } : {}),
       ...(io.stderrIsTTY ? { onProgress: progressBar(io) } : {}),
     });
+    printWarnings(io, result.warnings);
     const { planTable, planCsv } = await import('../../planning/render.js');
     emit(io, out, { json: () => result, table: () => planTable(result), csv: () => planCsv(result) }, [file]);
     if (draw && figuresDir) {

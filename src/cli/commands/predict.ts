@@ -1,5 +1,5 @@
 import type { CommandDef } from './types.js';
-import { addOutputOptions, loadSurveyArg, outputOptions } from './common.js';
+import { addOutputOptions, loadSurveyArg, outputOptions, printWarnings } from './common.js';
 import { emit } from '../io.js';
 
 export const predictCommand: CommandDef = {
@@ -21,7 +21,7 @@ export const predictCommand: CommandDef = {
     const { predict } = await import('../../counts/predict.js');
     const { predictionTable, predictionCsv } = await import('../../render/predict-table.js');
     const p = predict(survey);
-    for (const w of p.warnings) io.stderr(`skytally: warning: ${w}\n`);
+    printWarnings(io, p.warnings);
     const figures = draw && figuresDir ? await draw.drawFigures(survey, p) : undefined;
     emit(io, opts, { json: () => p, table: () => predictionTable(p), csv: () => predictionCsv(p) }, [file]);
     if (draw && figuresDir && figures) await draw.saveFigures(io, figuresDir, figures);

@@ -1,17 +1,27 @@
 import { readFileSync } from 'node:fs';
 import { basename, resolve } from 'node:path';
+import { Option } from 'commander';
 import type { CommandDef } from './types.js';
-import { loadSurveyArg } from './common.js';
-import { writeAtomic, type CliIO } from '../io.js';
+import { loadSurveyArg, printWarnings } from './common.js';
+import { toJsonText, writeAtomic, type CliIO } from '../io.js';
 import { inputError, SurveyError } from '../../errors.js';
 import { mockOptions, mockProgressBar } from './forecast.js';
 import type { Survey } from '../../survey/types.js';
 import type { UncertaintyMemo } from '../../uncertainty/prediction.js';
+import type { Prediction } from '../../counts/predict.js';
 import type { Figure, ForecastJson, PlanJson } from '../../render/types.js';
+import type { ForecastResultLike, PlanResultLike } from '../../render/adapt.js';
+import { mergeWarnings, type Warning } from '../../warnings.js';
+
+/** The report as HTML (the default) or as JSON: the same sections' results, for scripts. */
+export type ReportFormat = 'html' | 'json';
+export const REPORT_FORMATS: readonly ReportFormat[] = ['html', 'json'];
 
 export interface ReportOptions {
   out?: string;
   figures?: string;
+  /** html (default) or json. */
+  format?: ReportFormat;
   /** --mocks N as given on the command line (checked by mockOptions). */
   mocks?: string;
   /** --seed S as given on the command line. */
@@ -29,16 +39,27 @@ export function isOmitted(x: unknown): x is OmittedSection {
   return typeof x === 'object' && x !== null && typeof (x as { omitted?: unknown }).omitted === 'string';
 }
 
+/** What a section result may carry besides the fields the report draws and tabulates. */
+interface WithWarnings {
+  warnings?: readonly Warning[];
+}
+
+/** A forecast result (src/forecast/forecast.ts `Forecast`), as far as the report reads it. */
+export type ForecastSection = ForecastResultLike & WithWarnings & Record<string, unknown>;
+/** A plan result (src/planning/plan.ts `PlanJson`), as far as the report reads it. */
+export type PlanSection = PlanResultLike & WithWarnings & Record<string, unknown>;
+
 /**
- * The forecast and plan sections: hooks that take the survey and return the result object the
- * figure and report layer reads (a forecast or plan result adapted with forecastForFigures /
- * planForFigures from src/render/adapt.ts), `{omitted: sentence}` when the section cannot be
- * computed for this survey (the report says why instead), or undefined when it does not apply.
- * `plan` is called only when the survey file has a `plan:` section.
+ * The forecast and plan sections: hooks that take the survey and return the result of the
+ * forecast or plan (as the `forecast` and `plan` commands compute it; the report adapts it for
+ * its figures and tables with src/render/adapt.ts and writes it whole in its JSON form),
+ * `{omitted: sentence}` when the section cannot be computed for this survey (the report says why
+ * instead), or undefined when it does not apply. `plan` is called only when the survey file has
+ * a `plan:` section.
  */
 export interface ReportSections {
-  forecast?(survey: Survey, shared?: SharedResults): Promise<SectionResult<ForecastJson>>;
-  plan?(survey: Survey, shared?: SharedResults): Promise<SectionResult<PlanJson>>;
+  forecast?(survey: Survey, shared?: SharedResults): Promise<SectionResult<ForecastSection>>;
+  plan?(survey: Survey, shared?: SharedResults): Promise<SectionResult<PlanSection>>;
 }
 
 /** What the report's prediction computed that a section may reuse instead of computing again. */
@@ -87,7 +108,6 @@ export function reportSections(opts: ReportOptions, io?: CliIO): ReportSections 
       if (why) return { omitted: why };
       const { forecast } = await import('../../forecast/forecast.js');
       const { cosmicVarianceInputWith } = await import('../../forecast/cosmic-variance-input.js');
-      const { forecastForFigures } = await import('../../render/adapt.js');
       let result;
       try {
         result = await forecast(survey, {
@@ -100,12 +120,11 @@ export function reportSections(opts: ReportOptions, io?: CliIO): ReportSections 
       } catch (e) {
         return computeFailure('forecast', e);
       }
-      return forecastForFigures(result);
+      return result as unknown as ForecastSection;
     },
     plan: async (survey) => {
       const { plan } = await import('../../planning/plan.js');
       const { readPlanSection } = await import('../../planning/plan-section.js');
-      const { planForFigures } = await import('../../render/adapt.js');
       // The section as written is checked first: a malformed section is bad input (exit 2).
       // Only what makes a well-formed plan impossible for this survey becomes a sentence.
       try {
@@ -126,7 +145,7 @@ export function reportSections(opts: ReportOptions, io?: CliIO): ReportSections 
       } catch (e) {
         return computeFailure('plan', e);
       }
-      return planForFigures(result);
+      return result as unknown as PlanSection;
     },
   };
 }
@@ -137,45 +156,117 @@ export function hasPlanSection(survey: Survey): boolean {
   return raw !== null && typeof raw === 'object' && raw.plan !== undefined && raw.plan !== null;
 }
 
+/** What the report computes: the prediction, and the forecast and plan sections. */
+export interface ReportResults {
+  file: string;
+  survey: Survey;
+  prediction: Prediction;
+  forecast: SectionResult<ForecastSection>;
+  plan: SectionResult<PlanSection>;
+  /** Every section's warnings, each once. */
+  warnings: Warning[];
+}
+
+/** The JSON form of the report (specs/report.schema.json). */
+export interface ReportJson {
+  format: 1;
+  title: string;
+  survey_file: string;
+  prediction: Prediction;
+  forecast: ForecastSection | OmittedSection;
+  plan?: PlanSection | OmittedSection;
+  warnings: Warning[];
+}
+
+/** Compute every section of the report (nothing is drawn). */
+export async function computeReport(file: string, survey: Survey, sections: ReportSections = {}): Promise<ReportResults> {
+  const { predict } = await import('../../counts/predict.js');
+  const { UncertaintyMemo } = await import('../../uncertainty/prediction.js');
+  const shared: SharedResults = { uncertaintyMemo: new UncertaintyMemo(survey) };
+  const prediction = predict(survey, { uncertaintyMemo: shared.uncertaintyMemo! });
+  const forecast = sections.forecast ? await sections.forecast(survey, shared) : undefined;
+  const plan = sections.plan && hasPlanSection(survey) ? await sections.plan(survey, shared) : undefined;
+  const sectionWarnings = (x: SectionResult<WithWarnings>) => (x && !isOmitted(x) ? x.warnings : undefined);
+  const warnings = mergeWarnings(prediction.warnings, sectionWarnings(forecast), sectionWarnings(plan));
+  return { file, survey, prediction, forecast, plan, warnings };
+}
+
+/** The results as one JSON document; the forecast's per-mock fits (kept for the figure) are left out. */
+export function reportJson(r: ReportResults): ReportJson {
+  const forecast: ForecastSection | OmittedSection = r.forecast ?? { omitted: 'No forecast: none was asked for.' };
+  let shownForecast = forecast;
+  if (!isOmitted(forecast) && forecast.mocks && 'fits' in forecast.mocks) {
+    const { fits: _fits, ...mocks } = forecast.mocks;
+    shownForecast = { ...forecast, mocks };
+  }
+  const out: ReportJson = {
+    format: 1,
+    title: r.survey.title,
+    survey_file: basename(r.file),
+    prediction: r.prediction,
+    forecast: shownForecast,
+    warnings: r.warnings,
+  };
+  if (r.plan) out.plan = r.plan;
+  return out;
+}
+
+/** Draw every figure of the results. */
+export async function reportFigures(r: ReportResults): Promise<Figure[]> {
+  const { drawFigures } = await import('../draw.js');
+  return drawFigures(r.survey, r.prediction, await figureInputs(r));
+}
+
+async function figureInputs(r: ReportResults): Promise<{ forecast?: ForecastJson; plan?: PlanJson }> {
+  const { forecastForFigures, planForFigures } = await import('../../render/adapt.js');
+  const extra: { forecast?: ForecastJson; plan?: PlanJson } = {};
+  if (r.forecast && !isOmitted(r.forecast)) extra.forecast = forecastForFigures(r.forecast);
+  if (r.plan && !isOmitted(r.plan)) extra.plan = planForFigures(r.plan);
+  return extra;
+}
+
+/** The HTML document of the results (figures already drawn). */
+export async function reportHtml(r: ReportResults, surveyText: string, figures: Figure[]): Promise<string> {
+  const { predictionViews } = await import('../draw.js');
+  const { renderReport } = await import('../../render/report.js');
+  const { combined } = predictionViews(r.survey, r.prediction);
+  const extra = await figureInputs(r);
+  return renderReport({
+    surveyText,
+    surveyTitle: r.survey.title,
+    surveyFile: basename(r.file),
+    prediction: combined,
+    ...extra,
+    ...(isOmitted(r.forecast) ? { forecastOmitted: r.forecast.omitted } : {}),
+    ...(isOmitted(r.plan) ? { planOmitted: r.plan.omitted } : {}),
+    warnings: r.warnings,
+    figures,
+  });
+}
+
 /** Build the whole report document for a survey file (as written) and its loaded survey. */
 export async function buildReport(
   file: string,
   surveyText: string,
   survey: Survey,
   sections: ReportSections = {},
-): Promise<{ html: string; figures: Figure[] }> {
-  const { predict } = await import('../../counts/predict.js');
-  const { drawFigures, predictionViews } = await import('../draw.js');
-  const { renderReport } = await import('../../render/report.js');
-  const { UncertaintyMemo } = await import('../../uncertainty/prediction.js');
-  const shared: SharedResults = { uncertaintyMemo: new UncertaintyMemo(survey) };
-  const prediction = predict(survey, { uncertaintyMemo: shared.uncertaintyMemo! });
-  const forecast = sections.forecast ? await sections.forecast(survey, shared) : undefined;
-  const plan = sections.plan && hasPlanSection(survey) ? await sections.plan(survey, shared) : undefined;
-  const extra: { forecast?: ForecastJson; plan?: PlanJson } = {};
-  if (forecast && !isOmitted(forecast)) extra.forecast = forecast;
-  if (plan && !isOmitted(plan)) extra.plan = plan;
-  const figures = await drawFigures(survey, prediction, extra);
-  const { combined } = predictionViews(survey, prediction);
-  const html = renderReport({
-    surveyText,
-    surveyTitle: survey.title,
-    surveyFile: basename(file),
-    prediction: combined,
-    ...extra,
-    ...(isOmitted(forecast) ? { forecastOmitted: forecast.omitted } : {}),
-    ...(isOmitted(plan) ? { planOmitted: plan.omitted } : {}),
-    figures,
-  });
-  return { html, figures };
+): Promise<{ html: string; figures: Figure[]; results: ReportResults }> {
+  const results = await computeReport(file, survey, sections);
+  const figures = await reportFigures(results);
+  return { html: await reportHtml(results, surveyText, figures), figures, results };
 }
 
 export const reportCommand: CommandDef = {
   name: 'report',
-  description: 'one self-contained HTML report: the survey, the assumed model, the tables and the figures',
+  description: 'one self-contained HTML report: the survey, the assumed model, the tables and the figures (or, with --format json, the results of every section)',
   configure(cmd) {
     cmd.argument('<survey>', 'survey file (YAML)');
-    cmd.option('--out <file>', 'write the HTML to this file (atomically) instead of stdout');
+    cmd.addOption(
+      new Option('--format <format>', 'html: the report document; json: the prediction, forecast and plan results in one document (specs/report.schema.json)')
+        .choices([...REPORT_FORMATS])
+        .default('html'),
+    );
+    cmd.option('--out <file>', 'write the report to this file (atomically) instead of stdout');
     cmd.option('--figures <dir>', 'also write each figure as DIR/<name>.svg (and .png when the rasteriser loads)');
     cmd.option('--mocks <N>', 'also draw N mock surveys for the forecast, fit each and scatter the fits over the Fisher ellipses');
     cmd.option('--seed <S>', 'seed of the mock surveys (integer 0 to 4294967295; default 1)');
@@ -196,11 +287,21 @@ export async function runReport(io: CliIO, file: string, opts: ReportOptions, se
   const { checkFiguresDir, saveFigures } = await import('../draw.js');
   const figuresDir = opts.figures === undefined ? undefined : checkFiguresDir(io, opts.figures);
   const survey = await loadSurveyArg(io, file);
-  // The file as written (the loader has just read it; it is at most 1 MiB).
-  const surveyText = readFileSync(input, 'utf8');
-  const { html, figures } = await buildReport(file, surveyText, survey, sections);
+  const format: ReportFormat = opts.format ?? 'html';
+  const results = await computeReport(file, survey, sections);
+  printWarnings(io, results.warnings);
+  // Figures are drawn for the HTML, and for --figures whatever the format.
+  const figures = format === 'html' || figuresDir ? await reportFigures(results) : [];
+  let text: string;
+  if (format === 'json') {
+    text = toJsonText(reportJson(results));
+  } else {
+    // The file as written (the loader has just read it; it is at most 1 MiB).
+    const surveyText = readFileSync(input, 'utf8');
+    text = await reportHtml(results, surveyText, figures);
+  }
   if (figuresDir) await saveFigures(io, figuresDir, figures);
-  if (target) writeAtomic(target, html);
-  else io.stdout(html);
+  if (target) writeAtomic(target, text);
+  else io.stdout(text);
   return 0;
 }

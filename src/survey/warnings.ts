@@ -1,0 +1,77 @@
+/**
+ * Warnings about a survey file as written that need no counting: values that pass every check
+ * but are almost certainly mistakes. Each command that reads a survey file carries them in its
+ * output (src/warnings.ts).
+ */
+import type { Population, Survey } from './types.js';
+import { warning, type Warning } from '../warnings.js';
+
+/**
+ * Below this a line or continuum luminosity [erg/s] is implausible for a galaxy: the faintest
+ * galaxies whose line luminosity functions are measured reach about 1e38 erg/s (common practice;
+ * the Sun is 3.8e33 erg/s in all), and a number like 42 or 43 is a log10 given as a linear value.
+ */
+export const MIN_PLAUSIBLE_LUMINOSITY_ERG_S = 1e30;
+/**
+ * Characteristic absolute magnitudes of galaxy luminosity functions lie between about -24 and
+ * -17 (common practice); outside -30 to -10, M* is almost certainly an apparent magnitude or a
+ * sign slip.
+ */
+export const PLAUSIBLE_M_STAR = { brightest: -30, faintest: -10 } as const;
+
+function fmt(x: number): string {
+  return String(Number(x.toPrecision(4)));
+}
+
+/** 1.995e42 */
+function expText(x: number): string {
+  return Number(x.toPrecision(4)).toExponential().replace('+', '');
+}
+
+/** The window's ends and middle: where a parameter in z is looked at. */
+function probeRedshifts(p: Population): number[] {
+  const { min, max } = p.window;
+  return min === max ? [min] : [min, 0.5 * (min + max), max];
+}
+
+/** A luminosity or magnitude of each population that is implausible for its kind. */
+export function luminosityWarnings(survey: Survey): Warning[] {
+  const out: Warning[] = [];
+  for (const p of survey.populations) {
+    const zs = probeRedshifts(p);
+    // For the threshold kind a luminosity-like variable is a free quantity (a mass, a rate, ...)
+    // with no unit the program knows, so only luminosities in erg/s are judged.
+    if (p.variable === 'luminosity' && p.lStar && survey.detection.kind !== 'threshold') {
+      const values = zs.map((z) => ({ z, v: p.lStar!.at(z) }));
+      const low = values.find((x) => x.v < MIN_PLAUSIBLE_LUMINOSITY_ERG_S);
+      if (low) {
+        const asLog = low.v > 30 && low.v < 50;
+        out.push(
+          warning(
+            'implausible_luminosity',
+            `${p.name}: L* = ${fmt(low.v)} erg/s at z = ${fmt(low.z)} is far below any galaxy's luminosity (under ${expText(MIN_PLAUSIBLE_LUMINOSITY_ERG_S)} erg/s), so almost nothing is detected` +
+              (asLog ? `; it looks like a log10: write log10_l_star: ${fmt(low.v)} (or l_star: ${expText(10 ** low.v)})` : '; give l_star in erg/s or log10_l_star'),
+          ),
+        );
+      }
+    }
+    if (p.variable === 'magnitude' && p.mStar) {
+      const odd = zs.map((z) => ({ z, v: p.mStar!.at(z) })).find((x) => x.v > PLAUSIBLE_M_STAR.faintest || x.v < PLAUSIBLE_M_STAR.brightest);
+      if (odd) {
+        out.push(
+          warning(
+            'implausible_luminosity',
+            `${p.name}: M* = ${fmt(odd.v)} at z = ${fmt(odd.z)} is not a plausible absolute magnitude for galaxies (expected between ${PLAUSIBLE_M_STAR.brightest} and ${PLAUSIBLE_M_STAR.faintest})` +
+              (odd.v > 0 ? '; it looks like an apparent magnitude: give m_star as an absolute AB magnitude' : '; check m_star'),
+          ),
+        );
+      }
+    }
+  }
+  return out;
+}
+
+/** Every warning about the survey file itself (before any count). */
+export function surveyWarnings(survey: Survey): Warning[] {
+  return luminosityWarnings(survey);
+}

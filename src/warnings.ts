@@ -1,0 +1,53 @@
+/**
+ * Warnings: what the reader of an output should know although nothing stopped the work (bad
+ * input stops it: src/errors.ts). Every warning has a stable `code` (tests and scripts match
+ * codes, never wording) and a one-line `message` naming what it is about and what to do.
+ *
+ * Every JSON output carries them as `"warnings": [{"code", "message"}]` (the `warning`
+ * definition of each schema in specs/ lists the codes below; a test keeps them equal), and the
+ * command line prints each on stderr as one line, `skytally: warning: <message>`.
+ *
+ * To add a warning: add its code and a one-line meaning to WARNING_CODES, build it with
+ * `warning(code, message)` where it is detected, add the code to the `warning` definition of every
+ * output schema, and add a test that makes a file trigger it (and checks no bundled sample does).
+ */
+
+export const WARNING_CODES = {
+  no_detections: 'fewer than one source is expected in the survey, or from one of its populations',
+  implausible_luminosity: "a population's characteristic luminosity or magnitude is implausible for its kind (e.g. a log10 given as a linear value)",
+  optimum_at_grid_edge: "the plan's best design sits at the shortest or longest exposure of its grid: the optimum may lie beyond the grid",
+  bias_at_mass_bound: 'abundance matching held the halo mass at a bound of the Sheth-Tormen haloes it searches (the bias is that of the bound)',
+  band_blueward_of_lyman_alpha: 'the band lies blueward of rest-frame Lyman alpha for part of a window (counts depend on the intergalactic attenuation assumed)',
+  population_outside_slices: "a population's window lies outside the explicit slice edges, so it counts 0 in the slices",
+} as const;
+
+export type WarningCode = keyof typeof WARNING_CODES;
+
+export interface Warning {
+  code: WarningCode;
+  /** One line, no line break. */
+  message: string;
+}
+
+/** A warning; its message is kept to one line (line breaks and runs of spaces become one space). */
+export function warning(code: WarningCode, message: string): Warning {
+  if (!(code in WARNING_CODES)) throw new Error(`internal: unknown warning code "${code}"`);
+  return { code, message: message.replace(/\s+/g, ' ').trim() };
+}
+
+/** Add `w` to `list` unless the same code and message are already there. */
+export function addWarning(list: Warning[], w: Warning): void {
+  if (!list.some((x) => x.code === w.code && x.message === w.message)) list.push(w);
+}
+
+/** The warnings of several lists, in order, each once. */
+export function mergeWarnings(...lists: readonly (readonly Warning[] | undefined)[]): Warning[] {
+  const out: Warning[] = [];
+  for (const l of lists) for (const w of l ?? []) addWarning(out, w);
+  return out;
+}
+
+/** The lines the command line prints on stderr, one per warning. */
+export function warningLines(ws: readonly Warning[]): string {
+  return ws.map((w) => `skytally: warning: ${w.message}\n`).join('');
+}

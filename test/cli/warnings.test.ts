@@ -1,0 +1,162 @@
+/**
+ * Warnings (src/warnings.ts): one mechanism for every command. Each warning has a stable code
+ * and a one-line message, is printed on stderr as `skytally: warning: <message>` and appears in
+ * the command's JSON as {code, message}; every output schema in specs/ carries the same
+ * `warning` definition listing every code. Each warning fires on a file made to trigger it; the
+ * bundled samples raise none (checked for predict in test/counts/populations.test.ts, for
+ * forecast in test/forecast/cli.test.ts and for the plan samples' reports in
+ * report-forecast-plan.test.ts).
+ */
+import { describe, expect, test } from 'vitest';
+import { mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { Ajv2020 } from 'ajv/dist/2020.js';
+import { runCli } from './helpers.js';
+import { WARNING_CODES } from '../../src/warnings.js';
+import { sampleText } from '../planning/helpers.js';
+
+type Any = Record<string, any>;
+
+const dir = mkdtempSync(join(tmpdir(), 'skytally-warnings-'));
+function file(name: string, text: string): string {
+  const path = join(dir, name);
+  writeFileSync(path, text);
+  return path;
+}
+
+/** The output schemas (every schema in specs/ but the two that describe input). */
+const OUTPUT_SCHEMAS = readdirSync('specs').filter((f) => f.endsWith('.schema.json') && f !== 'survey.schema.json' && f !== 'plan-section.schema.json');
+const ajv = new Ajv2020({ allErrors: true, strict: false });
+for (const f of readdirSync('specs')) if (f.endsWith('.schema.json')) ajv.addSchema(JSON.parse(readFileSync(`specs/${f}`, 'utf8')), f);
+const validate = (schema: string, doc: unknown) => {
+  const v = ajv.getSchema(schema)!;
+  const ok = v(doc);
+  return ok ? 'valid' : JSON.stringify(v.errors);
+};
+
+/** The H-alpha sample with `l_star: 43` in place of `log10_l_star: 42.3`: a log10 given linearly. */
+const LINEAR_LOG = file('linear-log.yaml', readFileSync('samples/halpha-narrowband.yaml', 'utf8').replace(/^(\s*)log10_l_star: 42\.3.*$/m, '$1l_star: 43'));
+/** A UV search at z = 5.5-6.5 in a band at 8000 A: blueward of Lyman alpha there, no IGM key. */
+const BLUEWARD = file(
+  'blueward.yaml',
+  `title: Invented blueward band
+cosmology: {h0: 70, omega_m: 0.3}
+area: 0.1
+redshift: {min: 5.5, max: 6.5}
+detection: {kind: magnitude, limit: 27, band: 8000}
+population: {variable: magnitude, phi_star: 5e-4, m_star: -20.8, alpha: -1.8}
+`,
+);
+
+describe('every output schema carries the same warning definition', () => {
+  test.each(OUTPUT_SCHEMAS)('%s', (f) => {
+    const s = JSON.parse(readFileSync(`specs/${f}`, 'utf8')) as Any;
+    expect(s.required).toContain('warnings');
+    expect(s.properties.warnings.items).toEqual({ $ref: '#/$defs/warning' });
+    expect(s.$defs.warning.properties.code.enum).toEqual(Object.keys(WARNING_CODES));
+    const first = JSON.parse(readFileSync(`specs/${OUTPUT_SCHEMAS[0]}`, 'utf8')) as Any;
+    expect(s.$defs.warning).toEqual(first.$defs.warning);
+  });
+});
+
+describe('warnings on files made to trigger them', () => {
+  test('l_star: 43 (a log10 given linearly): no silent all-zero table; implausible_luminosity and no_detections, on stderr and in the JSON (failed before: exit 0, no warning)', async () => {
+    const r = await runCli(['predict', LINEAR_LOG, '--format', 'json']);
+    expect(r.code).toBe(0);
+    const p = JSON.parse(r.stdout) as Any;
+    expect(validate('prediction.schema.json', p)).toBe('valid');
+    expect(p.totals.count).toBeLessThan(1);
+    expect(p.warnings.map((w: Any) => w.code)).toEqual(['implausible_luminosity', 'no_detections']);
+    expect(p.warnings[0].message).toMatch(/log10_l_star: 43/);
+    const lines = r.stderr.trimEnd().split('\n');
+    expect(lines).toHaveLength(2);
+    for (const [i, line] of lines.entries()) expect(line).toBe(`skytally: warning: ${p.warnings[i].message}`);
+    // the table says the same on stderr; check says the implausible value before anything is counted
+    expect((await runCli(['predict', LINEAR_LOG])).stderr).toBe(r.stderr);
+    const c = await runCli(['check', LINEAR_LOG, '--format', 'json']);
+    expect(c.code).toBe(0);
+    expect((JSON.parse(c.stdout) as Any).warnings.map((w: Any) => w.code)).toEqual(['implausible_luminosity']);
+    expect(c.stderr).toMatch(/^skytally: warning: .*L\* = 43 erg\/s/);
+    // a forecast of nothing stays bad input (exit 2), as before
+    expect((await runCli(['forecast', LINEAR_LOG])).code).toBe(2);
+  });
+
+  test('M* given as an apparent magnitude: implausible_luminosity', async () => {
+    const text = readFileSync('samples/deep-continuum.yaml', 'utf8');
+    expect(text).toMatch(/m_star: /);
+    const f = file('apparent.yaml', text.replace(/^(\s*)m_star: .*$/m, '$1m_star: 24.5'));
+    const r = await runCli(['check', f, '--format', 'json']);
+    expect(r.code).toBe(0);
+    expect((JSON.parse(r.stdout) as Any).warnings).toEqual([{ code: 'implausible_luminosity', message: expect.stringMatching(/M\* = 24\.5 .*apparent magnitude/) }]);
+  });
+
+  test('a plan whose best design sits at the edge of its exposure grid: optimum_at_grid_edge, and the optimum is not called sharp (failed before)', async () => {
+    const base = sampleText('plan-uv-deep-wide.yaml');
+    // the best of this sample lies near 2.3 h per pointing; a grid ending at 0.8 h cuts it off
+    const f = file('edge.yaml', base.replace(/exposure_grid: \{[^}]*\}/, 'exposure_grid: {min_hours: 0.1, max_hours: 0.8, count: 40}'));
+    const r = await runCli(['plan', f, '--format', 'json']);
+    expect(r.code).toBe(0);
+    const p = JSON.parse(r.stdout) as Any;
+    expect(validate('plan.schema.json', p)).toBe('valid');
+    expect(p.warnings.map((w: Any) => w.code)).toEqual(['optimum_at_grid_edge']);
+    expect(p.warnings[0].message).toMatch(/longest end of the exposure grid .*max_hours/);
+    expect(p.notes.join(' ')).not.toMatch(/optimum is (sharp|flat)/);
+    expect(p.notes.join(' ')).toMatch(/edge of the exposure grid/);
+    expect(r.stderr).toBe(`skytally: warning: ${p.warnings[0].message}\n`);
+    // the table run warns alike
+    expect((await runCli(['plan', f])).stderr).toBe(r.stderr);
+  });
+
+  test('the band blueward of Lyman alpha: the same warning in predict, forecast, compare (prefixed by its column), check and report JSON', async () => {
+    const p = JSON.parse((await runCli(['predict', BLUEWARD, '--format', 'json'])).stdout) as Any;
+    expect(p.warnings.map((w: Any) => w.code)).toEqual(['band_blueward_of_lyman_alpha']);
+    const w = p.warnings[0];
+    const f = await runCli(['forecast', BLUEWARD, '--format', 'json', '--no-cosmic-variance']);
+    expect(f.code).toBe(0);
+    const fj = JSON.parse(f.stdout) as Any;
+    expect(validate('forecast.schema.json', fj)).toBe('valid');
+    expect(fj.warnings).toEqual([w]);
+    expect(f.stderr).toBe(`skytally: warning: ${w.message}\n`);
+    const c = JSON.parse((await runCli(['compare', 'samples/halpha-narrowband.yaml', BLUEWARD, '--format', 'json', '--no-cosmic-variance'])).stdout) as Any;
+    expect(validate('compare.schema.json', c)).toBe('valid');
+    expect(c.warnings).toEqual([{ code: w.code, message: `[2] ${w.message}` }]);
+    expect((JSON.parse((await runCli(['check', BLUEWARD, '--format', 'json'])).stdout) as Any).warnings).toEqual([w]);
+    const rep = await runCli(['report', BLUEWARD, '--format', 'json']);
+    expect(rep.code).toBe(0);
+    const rj = JSON.parse(rep.stdout) as Any;
+    expect(validate('report.schema.json', rj)).toBe('valid');
+    expect(rj.warnings).toEqual([w]);
+    expect(rj.prediction.warnings).toEqual([w]);
+    expect(rep.stderr).toBe(`skytally: warning: ${w.message}\n`);
+  }, 60_000);
+
+  test('the HTML report lists the warnings near its top', async () => {
+    const r = await runCli(['report', LINEAR_LOG]);
+    expect(r.code).toBe(0);
+    expect(r.stdout).toContain('<section class="warnings" id="warnings">');
+    expect(r.stdout).toContain('data-code="implausible_luminosity"');
+    expect(r.stdout.indexOf('id="warnings"')).toBeLessThan(r.stdout.indexOf('id="model"'));
+  });
+
+  test('abundance matching held at a mass bound: bias_at_mass_bound (routed through the same mechanism)', async () => {
+    // an invented population far denser than all haloes above 1e6 Msun provide
+    const text = readFileSync('samples/mass-limited.yaml', 'utf8').replace(/^(\s*)log10_phi_star_dex: .*$/m, '$1log10_phi_star_dex: 3');
+    expect(text).toMatch(/log10_phi_star_dex: 3$/m);
+    const f = file('dense.yaml', text);
+    const r = await runCli(['predict', f, '--format', 'json']);
+    expect(r.code).toBe(0);
+    const p = JSON.parse(r.stdout) as Any;
+    expect(p.warnings.some((w: Any) => w.code === 'bias_at_mass_bound')).toBe(true);
+    expect(r.stderr).toMatch(/^skytally: warning: .*haloes above 1e\+6 Msun/m);
+  });
+
+  test('distances and clustering carry an empty list', async () => {
+    const d = JSON.parse((await runCli(['distances', '--z', '1', '--format', 'json'])).stdout) as Any;
+    expect(d.warnings).toEqual([]);
+    expect(validate('distances.schema.json', d)).toBe('valid');
+    const k = JSON.parse((await runCli(['clustering', '--z', '1', '--format', 'json'])).stdout) as Any;
+    expect(k.warnings).toEqual([]);
+    expect(validate('clustering.schema.json', k)).toBe('valid');
+  });
+});
