@@ -12,6 +12,7 @@ import { forecast } from '../forecast/forecast.js';
 import { buildDensityGrid, sliceCount } from '../forecast/grid.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
 import { pickPopulation } from './population.js';
+import { surveyForPopulation } from '../survey/select.js';
 import { faintCount } from './tables.js';
 
 export const COMPARE_CAVEAT =
@@ -90,11 +91,11 @@ function depthOf(v: LimitVariable, x: number): number {
 export async function compare(surveys: Survey[], opts: CompareOptions = {}): Promise<CompareJson> {
   const useCv = opts.cosmicVariance !== false;
   const out: CompareSurvey[] = [];
-  for (const survey of surveys) {
-    const population = pickPopulation(survey, opts.population);
-    const k = survey.populations.indexOf(population);
-    const pred = predict(survey);
-    const own = pred.populations[k]!;
+  for (const file of surveys) {
+    const population = pickPopulation(file, opts.population);
+    // The population's own window and slices, as a file holding it alone.
+    const survey = surveyForPopulation(file, population);
+    const own = predict(survey).populations[0]!;
     const f = await forecast(survey, { population: population.name, cosmicVariance: useCv });
     const lim = limitOf(survey, population);
     const u = own.totals.uncertainty;

@@ -9,6 +9,7 @@ import { readPlanSection, sigmaParameterNames, type PlanSpec } from './plan-sect
 import { assertCounts, buildDesignModel, sigmasOf, type DesignModel } from './model.js';
 import { combine, logGrid, maximises, nearBest, pointingsFor, searchSingleTier, searchTiers, NEAR_BEST_TOLERANCE, type Budget, type Evaluated } from './search.js';
 import { pickPopulation } from './population.js';
+import { surveyForPopulation } from '../survey/select.js';
 
 export const PLAN_CAVEAT =
   'A plan is only as good as the luminosity function assumed: the counts and uncertainties hold if the population follows the model given; a different faint-end slope or knee changes which design is best.';
@@ -112,8 +113,10 @@ function designJson(e: Evaluated, names: string[], goal: PlanSpec['goal']): Desi
   return d;
 }
 
-export async function plan(survey: Survey, opts: PlanOptions = {}): Promise<PlanJson> {
-  const population: Population = pickPopulation(survey, opts.population);
+export async function plan(file: Survey, opts: PlanOptions = {}): Promise<PlanJson> {
+  const population: Population = pickPopulation(file, opts.population);
+  // The population's own window and slices, as a file holding it alone.
+  const survey = surveyForPopulation(file, population);
   const spec = readPlanSection(survey, population);
   const names = sigmaParameterNames(population);
   const parameterIndex = spec.goal.kind === 'sigma' ? names.indexOf(spec.goal.parameter) : 0;

@@ -57,6 +57,16 @@ export class UncertaintyMemo {
   private readonly blocks = new Map<Population, Map<string, UncertaintyJson | undefined>>();
   constructor(readonly survey: Survey) {}
 
+  /**
+   * True when blocks computed for `other` may be read here: the same survey, or a view of it
+   * (surveyForPopulation, a changed detection limit) with the same cosmology, area and fields, on
+   * which a block's value depends besides the keyed inputs and the population.
+   */
+  serves(other: Survey): boolean {
+    const s = this.survey;
+    return other === s || (other.cosmology === s.cosmology && other.areaSr === s.areaSr && other.field === s.field);
+  }
+
   private static key(count: number, volumeMpc3: number, zMin: number, zMax: number, zc: number): string {
     return `${count},${volumeMpc3},${zMin},${zMax},${zc}`;
   }
@@ -164,7 +174,7 @@ export function combinedUncertainty(
     sigma_matter: sigma,
   };
   if (haloMass !== undefined) out.halo_mass_min_msun = haloMass;
-  if (parts.length === 1 && ctx.memo && ctx.memo.survey === ctx.survey) {
+  if (parts.length === 1 && ctx.memo && ctx.memo.serves(ctx.survey)) {
     const p = parts[0]!;
     ctx.memo.set(p.population, p.count, p.volumeMpc3, zMin, zMax, zc, { ...out });
   }
@@ -182,7 +192,7 @@ export function singleUncertainty(
   zMax: number,
   zc: number,
 ): UncertaintyJson | undefined {
-  if (ctx.memo && ctx.memo.survey === ctx.survey) {
+  if (ctx.memo && ctx.memo.serves(ctx.survey)) {
     const [found, block] = ctx.memo.get(part.population, part.count, part.volumeMpc3, zMin, zMax, zc);
     if (found) return block && { ...block };
   }
