@@ -83,7 +83,7 @@ export function predictionViews(survey: Survey, prediction: Prediction): { combi
   const combined: PredictionJson = {
     ...base,
     totals: prediction.totals,
-    slices: prediction.slices.map((s) => sliceJson(s, single ? curveFor(survey, survey.populations[0]!) : undefined)),
+    slices: (prediction.slices ?? []).map((s) => sliceJson(s, single ? curveFor(survey, survey.populations[0]!) : undefined)),
     model: single ? models[0]! : models,
   };
   const perPopulation = single

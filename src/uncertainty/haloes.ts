@@ -83,6 +83,15 @@ export interface HaloModel {
    * 1e6 and 1e16 Msun.
    */
   matchHaloMass(densityMpc3: number, z: number, occupation: number): HaloMatch;
+  /**
+   * Abundance matching at one redshift for many densities: n(>M) and the bias-weighted integral
+   * tabulated once on 0.25-wide panels in ln M from 1e6 Msun up (8-point Gauss-Legendre each, as
+   * haloDensityAboveMpc3), then each match solves inside one panel. The returned function gives the
+   * match for a halo density (galaxy density / occupation), or the bound it is held at
+   * (`held`: 'min' when the density exceeds that of all haloes above 1e6 Msun, 'max' when it is
+   * below that of haloes above 1e16 Msun). Agrees with matchHaloMass to ~1e-9.
+   */
+  matcherAt(z: number): (haloDensityMpc3: number) => HaloMatch & { held?: 'min' | 'max' };
 }
 
 function checkMass(m: number, who: string): void {
@@ -139,6 +148,21 @@ export function createHaloModel(power: LinearPower): HaloModel {
       if (pn * h <= 1e-13 * n || (n === 0 && pn === 0)) break;
     }
     return { n, nb };
+  };
+
+  /** ∫_a^b dn/dlnM (1, b) dln M by one 8-point Gauss-Legendre panel (b - a <= PANEL). */
+  const panel = (a: number, b: number, d: number): { n: number; nb: number } => {
+    const { x, w } = gaussLegendre(8);
+    const c = 0.5 * (a + b);
+    const h = 0.5 * (b - a);
+    let n = 0;
+    let nb = 0;
+    for (let i = 0; i < 8; i++) {
+      const r = perLnM(c + h * x[i]!, d);
+      n += w[i]! * r.n;
+      nb += w[i]! * r.n * shethTormenBias(r.nu);
+    }
+    return { n: n * h, nb: nb * h };
   };
 
   const model: HaloModel = {
@@ -211,6 +235,51 @@ export function createHaloModel(power: LinearPower): HaloModel {
       const lnM = brentRoot(g, lnLo, lnHi, 1e-9);
       const r = above(lnM, d);
       return { haloMassMinMsun: Math.exp(lnM), bias: r.nb / r.n };
+    },
+    matcherAt(z) {
+      checkZ(z, 'matcherAt');
+      const d = power.growth(z);
+      const lnLo = Math.log(MATCH_MASS_MIN_MSUN);
+      const lnHi = Math.log(MATCH_MASS_MAX_MSUN);
+      // Panel edges from 1e6 Msun to the table's top; cumulative sums from the top down.
+      const edges: number[] = [];
+      for (let e = lnLo; e < LN_M_TABLE_MAX; e += PANEL) edges.push(e);
+      edges.push(LN_M_TABLE_MAX);
+      const m = edges.length - 1;
+      const cumN = new Float64Array(m + 1);
+      const cumB = new Float64Array(m + 1);
+      for (let i = m - 1; i >= 0; i--) {
+        const r = panel(edges[i]!, edges[i + 1]!, d);
+        cumN[i] = cumN[i + 1]! + r.n;
+        cumB[i] = cumB[i + 1]! + r.nb;
+      }
+      /** n(>M) and nb(>M) at ln M inside panel i. */
+      const at = (lnM: number, i: number): { n: number; nb: number } => {
+        const r = lnM < edges[i + 1]! ? panel(lnM, edges[i + 1]!, d) : { n: 0, nb: 0 };
+        return { n: cumN[i + 1]! + r.n, nb: cumB[i + 1]! + r.nb };
+      };
+      const panelOf = (lnM: number) => Math.min(m - 1, Math.max(0, Math.floor((lnM - lnLo) / PANEL)));
+      const top = at(lnHi, panelOf(lnHi));
+      return (target) => {
+        if (!(target > 0) || !Number.isFinite(target)) throw new RangeError(`matcherAt: halo density must be a positive finite number per Mpc^3, got ${target}`);
+        if (target >= cumN[0]!) return { haloMassMinMsun: MATCH_MASS_MIN_MSUN, bias: cumB[0]! / cumN[0]!, held: 'min' };
+        if (target <= top.n) return { haloMassMinMsun: MATCH_MASS_MAX_MSUN, bias: top.nb / top.n, held: 'max' };
+        // the panel whose cumulative range holds the target: cumN[i] >= target > cumN[i + 1]
+        let lo = 0;
+        let hi = m;
+        while (hi - lo > 1) {
+          const mid = (lo + hi) >> 1;
+          if (cumN[mid]! >= target) lo = mid;
+          else hi = mid;
+        }
+        const i = lo;
+        const lnTarget = Math.log(target);
+        const a = edges[i]!;
+        const b = Math.min(edges[i + 1]!, lnHi);
+        const lnM = brentRoot((x) => Math.log(at(x, i).n) - lnTarget, a, b, 1e-9);
+        const r = at(lnM, i);
+        return { haloMassMinMsun: Math.exp(lnM), bias: r.nb / r.n };
+      };
     },
   };
   modelCache.set(power, model);
