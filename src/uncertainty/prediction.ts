@@ -8,9 +8,11 @@
  * the Sheth & Tormen 1999 mass function above M_min as numerous as the detected galaxies divided
  * by the occupation; the bias is the abundance-weighted Sheth-Tormen bias above M_min).
  * Cosmic-variance fraction = b sigma_dm / sqrt(field count); Poisson fraction = 1/sqrt(N);
- * total = their sum in quadrature. The survey total uses one box spanning the whole window at the
- * count-weighted mean redshift. Several populations in one slice: their fluctuations trace the
+ * total = their sum in quadrature. Several populations in one slice: their fluctuations trace the
  * same matter, so the combined bias is the count-weighted mean of their biases.
+ *
+ * Totals (totalUncertainty): weighted by where the detected sources lie in redshift (the slices'
+ * node profiles), not by the window's volume: the count-weighted bias and an n(z)-weighted box.
  */
 import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
 import type { Population, Survey, ZParam } from '../survey/types.js';
@@ -204,17 +206,6 @@ export function singleUncertainty(
     if (found) return block && { ...block };
   }
   return combinedUncertainty(ctx, [part], zMin, zMax, zc);
-}
-
-/** Count-weighted mean of the slices' middle redshifts. */
-export function countWeightedRedshift(slices: readonly { z_min: number; z_max: number; count: number }[]): number {
-  let n = 0;
-  let zn = 0;
-  for (const s of slices) {
-    n += s.count;
-    zn += s.count * 0.5 * (s.z_min + s.z_max);
-  }
-  return n > 0 ? zn / n : 0.5 * (slices[0]!.z_min + slices[slices.length - 1]!.z_max);
 }
 
 /** Which term dominates, in words, for the table. */
