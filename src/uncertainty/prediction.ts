@@ -18,7 +18,7 @@ import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
 import type { Population, Survey, ZParam } from '../survey/types.js';
 import { inputError } from '../errors.js';
 import { createLinearPower, type LinearPower } from './power-spectrum.js';
-import { createHaloModel, MATCH_MASS_MAX_MSUN, MATCH_MASS_MIN_MSUN } from './haloes.js';
+import { createHaloModel, MATCH_MASS_MAX_MSUN, MATCH_MASS_MIN_MSUN, type HaloModel } from './haloes.js';
 import { sliceMatterSigma } from './cosmic-variance.js';
 import { brentRoot } from './quadrature.js';
 import type { RedshiftProfile } from '../counts/engine.js';
@@ -261,14 +261,14 @@ function perMpcAt(los: LineOfSight, z: number): number {
 }
 
 /** Redshift width of the groups of nodes whose bias is matched together (at most; see totalUncertainty). */
-const BIAS_GROUP_DZ = 0.02;
+const BIAS_GROUP_DZ = 0.05;
 
 /**
  * The bias of haloes matched to a detected density at z (the tabulated matcher), held at the
  * matching bounds with the same warning as populationBias.
  */
 function matchedBias(ctx: UncertaintyContext, p: Population, z: number, density: number): number {
-  const m = createHaloModel(ctx.power).matcherAt(z)(density / p.occupation);
+  const m = matcherAt(ctx, z).match(density / p.occupation);
   if (m.held) {
     const what = m.held === 'min' ? 'more than all' : 'less than the';
     const message =
@@ -281,13 +281,24 @@ function matchedBias(ctx: UncertaintyContext, p: Population, z: number, density:
 
 /** The mass M whose haloes above it have the effective bias `bias` at z, if one lies between the matching bounds. */
 function haloMassOfBias(ctx: UncertaintyContext, bias: number, z: number): number | undefined {
-  const haloes = createHaloModel(ctx.power);
-  const lo = Math.log(MATCH_MASS_MIN_MSUN);
-  const hi = Math.log(MATCH_MASS_MAX_MSUN);
-  const f = (lnM: number) => haloes.effectiveBiasAbove(Math.exp(lnM), z) - bias;
-  if (!(f(lo) < 0 && f(hi) > 0)) return undefined;
-  return Math.exp(brentRoot(f, lo, hi, 1e-9));
+  return matcherAt(ctx, z).massForBias(bias);
 }
+
+/**
+ * The tabulated matcher at z, kept per linear power spectrum and redshift (a prediction asks at the
+ * same redshifts for every population and for the top-level total).
+ */
+function matcherAt(ctx: UncertaintyContext, z: number): ReturnType<HaloModel['matcherAt']> {
+  let byZ = matchers.get(ctx.power);
+  if (!byZ) matchers.set(ctx.power, (byZ = new Map()));
+  let m = byZ.get(z);
+  if (!m) {
+    if (byZ.size > 4096) byZ.clear();
+    byZ.set(z, (m = createHaloModel(ctx.power).matcherAt(z)));
+  }
+  return m;
+}
+const matchers = new WeakMap<LinearPower, Map<number, ReturnType<HaloModel['matcherAt']>>>();
 
 /**
  * The uncertainty block of a total: the count of every part (one population's slices, or several
@@ -295,7 +306,7 @@ function haloMassOfBias(ctx: UncertaintyContext, bias: number, z: number): numbe
  * in redshift (the parts' redshift profiles), not by the window's volume.
  *
  * Bias: a given bias is taken at every node; for "auto", each part's nodes are grouped into
- * redshift ranges no wider than 0.02 (at least 8 per part) and each group's bias is that of
+ * redshift ranges no wider than 0.05 (at least 8 per part) and each group's bias is that of
  * haloes matched to its count-weighted density sum_k N_k n_k / N at its count-weighted redshift
  * (n_k the density of detected sources at node k): a steep n(z) or a gaussian filter's wings
  * do not dilute it. The total's bias is the count-weighted b = sum_k N_k b_k / N.

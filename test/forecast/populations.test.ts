@@ -62,16 +62,20 @@ function expectClose(a: unknown, b: unknown, tol: number, path = ''): void {
 
 describe('forecast --population NAME = the forecast of a file holding NAME alone (1e-9)', () => {
   const multi = loadSurveyFile(together());
-  test.each(names.map((n, k) => [n, k] as const))('%s', async (name, k) => {
+  test.each(names.map((n, k) => [n, k] as const))('%s, Poisson only', async (name, k) => {
     const single = loadSurveyFile(alone(k));
-    for (const cosmicVariance of [false, true]) {
-      // the requirement search (targets, the slow part) is checked for the last line, without cosmic variance
-      const targets = cosmicVariance || k < names.length - 1 ? {} : { targets: { alpha: 0.05 } };
-      const got = await forecast(multi, { population: name, cosmicVariance, ...targets });
-      const want = await forecast(single, { cosmicVariance, ...targets });
-      expect(got.count).toBeGreaterThan(10);
-      expectClose(got, want, 1e-9);
-    }
+    // the requirement search (targets, the slow part) is checked for the last line
+    const targets = k < names.length - 1 ? {} : { targets: { alpha: 0.05 } };
+    const got = await forecast(multi, { population: name, cosmicVariance: false, ...targets });
+    const want = await forecast(single, { cosmicVariance: false, ...targets });
+    expect(got.count).toBeGreaterThan(10);
+    expectClose(got, want, 1e-9);
+  });
+
+  test('with cosmic variance too (an interloper)', async () => {
+    const got = await forecast(multi, { population: names[1]! });
+    const want = await forecast(loadSurveyFile(alone(1)));
+    expectClose(got, want, 1e-9);
   });
 
   test('the command runs for an interloper (exit 0) and reports its own window', async () => {
@@ -84,16 +88,14 @@ describe('forecast --population NAME = the forecast of a file holding NAME alone
 });
 
 describe('compare and plan pick a population the same way (1e-9)', () => {
-  test('compare --population: the row equals the single-population file\'s', async () => {
+  test('compare --population: the row equals the single-population file\'s (an interloper)', async () => {
     const multi = loadSurveyFile(together());
-    for (const [k, name] of names.entries()) {
-      const single = loadSurveyFile(alone(k));
-      const got = await compare([multi, single], { population: name });
-      const want = await compare([single, single]);
-      const { file: _a, ...row } = got.surveys[0]!;
-      const { file: _b, ...ref } = want.surveys[0]!;
-      expectClose(row, ref, 1e-9);
-    }
+    const single = loadSurveyFile(alone(2));
+    const got = await compare([multi, single], { population: names[2]! });
+    const want = await compare([single, single]);
+    const { file: _a, ...row } = got.surveys[0]!;
+    const { file: _b, ...ref } = want.surveys[0]!;
+    expectClose(row, ref, 1e-9);
   });
 
   test('plan --population: the same designs as the single-population file', async () => {
