@@ -44,6 +44,18 @@ describe('predict uncertainty', () => {
     }
   });
 
+  test.each(['samples/narrowband-interlopers.yaml', 'samples/double-schechter-mass.yaml'])(
+    '%s: valid against the schema; observed breakdown without slices, redshift breakdown with them',
+    (f) => {
+      const p = predict(loadSurveyFile(f));
+      expect(validate(p), JSON.stringify(validate.errors)).toBe(true);
+      expect(p.breakdown === 'redshift').toBe(p.slices !== undefined);
+      // the schema refuses slices beside breakdown observed, and their absence beside redshift
+      const wrong = p.breakdown === 'observed' ? { ...p, slices: p.populations[0]!.slices } : { ...p, slices: undefined };
+      expect(validate(JSON.parse(JSON.stringify(wrong)))).toBe(false);
+    },
+  );
+
   test('a given bias is used as given; independent fields divide the variance by their number', () => {
     const one = predict(survey({}, { bias: 2.5 }));
     expect(one.slices![0]!.uncertainty!.bias).toBe(2.5);
