@@ -15,7 +15,10 @@ export {
   type PredictionSlice,
   type PredictionTotals,
   type PopulationPrediction,
-  type ObservedShares,
+  type ObservedBins,
+  type ObservedBin,
+  type RedshiftBreakdown,
+  type ObservedBreakdown,
   type LuminosityDensity,
   type SfrDensity,
 } from './counts/predict.js';

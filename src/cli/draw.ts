@@ -13,7 +13,7 @@ import type { Prediction, PredictionSlice } from '../counts/predict.js';
 import type { Survey, Population } from '../survey/types.js';
 import type { Figure, ForecastJson, ModelDescription, PlanJson, PredictionJson, SliceJson } from '../render/types.js';
 import { curveAxisLabel, luminosityFunctionCurve } from '../population/curves.js';
-import { buildFigures, luminosityFunctionFigure } from '../render/figures.js';
+import { buildFigures, countsFigure, luminosityFunctionFigure, observedSharesFigure } from '../render/figures.js';
 import { inputError } from '../errors.js';
 import type { CliIO } from './io.js';
 
@@ -83,9 +83,14 @@ export function predictionViews(survey: Survey, prediction: Prediction): { combi
   const combined: PredictionJson = {
     ...base,
     totals: prediction.totals,
-    slices: prediction.slices.map((s) => sliceJson(s, single ? curveFor(survey, survey.populations[0]!) : undefined)),
+    slices: (prediction.slices ?? []).map((s) => sliceJson(s, single ? curveFor(survey, survey.populations[0]!) : undefined)),
     model: single ? models[0]! : models,
+    breakdown: prediction.breakdown,
   };
+  if (!single) {
+    combined.populations = prediction.populations.map((pp) => ({ name: pp.name, window: pp.window, totals: pp.totals, slices: pp.slices.map((s) => sliceJson(s)) }));
+    combined.observed_bins = prediction.observed_bins;
+  }
   const perPopulation = single
     ? [combined]
     : prediction.populations.map((pp, k) => ({
@@ -98,8 +103,11 @@ export function predictionViews(survey: Survey, prediction: Prediction): { combi
 }
 
 /**
- * Every figure of a prediction (counts, histograms, luminosity function; one luminosity-function
- * figure per population when there are several), then the forecast and plan figures when given.
+ * Every figure of a prediction, then the forecast and plan figures when given. One population:
+ * counts, histograms and luminosity function. Several: the same for the top-level redshift slices
+ * when every population is counted over the same redshifts, or one counts figure per population
+ * when their windows differ (counts-1, counts-2, ...); one luminosity-function figure per
+ * population; and the share of each population per bin of observed flux or magnitude (shares).
  */
 export async function drawFigures(
   survey: Survey,
@@ -114,17 +122,19 @@ export async function drawFigures(
     surveyTitle: prediction.title,
   });
   if (perPopulation.length === 1) return main;
-  const lf = await Promise.all(
-    perPopulation.map(async (v, k) => {
-      const f = await luminosityFunctionFigure(v, v.model as ModelDescription);
-      return f ? { ...f, name: `${f.name}-${k + 1}` } : null;
-    }),
-  );
-  // keep the fixed order: counts, histograms, luminosity function(s), forecast, plan
+  const numbered = (f: Figure | null, k: number) => (f ? { ...f, name: `${f.name}-${k + 1}` } : null);
+  // Windows that differ: each population's own counts per slice, its name in the title.
+  const counts =
+    prediction.breakdown === 'observed'
+      ? await Promise.all(perPopulation.map(async (v, k) => numbered(await countsFigure({ ...v, title: `${prediction.populations[k]!.name}: ${v.title}` }), k)))
+      : [];
+  const lf = await Promise.all(perPopulation.map(async (v, k) => numbered(await luminosityFunctionFigure(v, v.model as ModelDescription), k)));
+  const shares = await observedSharesFigure(prediction.observed_bins, prediction.title);
+  // keep the fixed order: counts, histograms, luminosity function(s), shares, forecast, plan
   const at = main.findIndex((f) => f.name === 'forecast' || f.name === 'plan');
   const head = at < 0 ? main : main.slice(0, at);
   const tail = at < 0 ? [] : main.slice(at);
-  return [...head, ...lf.filter((f): f is Figure => f !== null), ...tail];
+  return [...counts, ...head, ...lf, shares, ...tail].filter((f): f is Figure => f !== null);
 }
 
 /**

@@ -46,12 +46,28 @@ export interface SliceCount {
    * when every component has alpha > -2 at every node, of all sources. Absent with noHistogram.
    */
   luminosity?: { detected: number; total?: number };
+  /** With the profile option: where in redshift the slice's detected sources lie (its quadrature nodes). */
+  profile?: RedshiftProfile;
+}
+
+/**
+ * The detected sources of a slice node by node: the redshift quadrature nodes (ascending), the
+ * expected count each carries (they sum to the slice's count) and the comoving volume each
+ * carries (area times dV/dz times the node's weight), so that count / volume is the density of
+ * detected sources at that redshift. Empty for a slice outside the population's window.
+ */
+export interface RedshiftProfile {
+  z: number[];
+  count: number[];
+  volumeMpc3: number[];
 }
 
 export interface EngineOptions {
   offsets?: ParameterOffsets;
   /** Skip the histograms (faster; used by forecasts and plans). */
   noHistogram?: boolean;
+  /** Also return each slice's redshift profile (the total's cosmic variance weights by it). */
+  profile?: boolean;
 }
 
 /**
@@ -184,28 +200,32 @@ export function countPopulation(
       const e0 = roundEdge(Math.floor(center.obsLimit / width) * width);
       const empty: SliceCount = { zMin, zMax, volumeMpc3, count: 0, limitAtCenter, histogram: { variable: observer.variable, edges: [e0, roundEdge(e0 + width)], counts: [0] } };
       if (!options.noHistogram) empty.luminosity = { detected: 0, total: 0 };
+      if (options.profile) empty.profile = { z: [], count: [], volumeMpc3: [] };
       out.push(empty);
       continue;
     }
     const nodes = buildNodes(survey, population, cosmo, observer, lo, hi, options.offsets);
     let result: { count: number; histogram: Histogram };
+    const perNode = options.profile ? new Array<number>(nodes.length).fill(0) : undefined;
     if (options.noHistogram && !completeness) {
       let count = 0;
-      for (const nd of nodes) {
-        if (!Number.isFinite(nd.log10ULimit)) continue;
+      nodes.forEach((nd, k) => {
+        if (!Number.isFinite(nd.log10ULimit)) return;
         const u = 10 ** nd.log10ULimit;
         let n = 0;
         for (const c of nd.components) n += c.phiStar * upperGamma(c.alpha + 1, u);
         count += nd.volumeWeight * n;
-      }
+        if (perNode) perNode[k] = nd.volumeWeight * n;
+      });
       result = { count, histogram: { variable: observer.variable, edges: [], counts: [] } };
     } else {
-      result = histogramCount(nodes, observer, width, completeness, breaks);
+      result = histogramCount(nodes, observer, width, completeness, breaks, perNode);
     }
     if (!Number.isFinite(result.count)) {
       throw inputError('not_finite', survey.file, 'population', `the count in the slice ${zMin}-${zMax} is not a finite number`, 'check the Schechter parameters and the limit');
     }
     const slice: SliceCount = { zMin, zMax, volumeMpc3, count: result.count, limitAtCenter, histogram: result.histogram };
+    if (perNode) slice.profile = { z: nodes.map((nd) => nd.z), count: perNode, volumeMpc3: nodes.map((nd) => nd.volumeWeight) };
     if (!options.noHistogram) {
       const lum = sliceLuminosity(nodes, observer, completeness, breaks);
       if (!Number.isFinite(lum.detected) || (lum.total !== undefined && !Number.isFinite(lum.total))) {
@@ -405,13 +425,14 @@ export function filterBreaks(survey: Survey, population: Population, lo: number,
   return out;
 }
 
-/** Histogram and total for one slice from its redshift nodes. */
+/** Histogram and total for one slice from its redshift nodes (and, given perNode, each node's count). */
 function histogramCount(
   nodes: NodeState[],
   observer: Observer,
   width: number,
   completeness: CompletenessFn | undefined,
   breaks: { points: number[]; scale: number; varying: [number, number] } | undefined,
+  perNode?: number[],
 ): { count: number; histogram: Histogram } {
   const slope = observer.slope;
   // Range of obs over the slice: from the limit to the bright end (u = uLim + 40 or 40).
@@ -438,9 +459,11 @@ function histogramCount(
   // Index of the brightest bin: the last for slope > 0 (bright = large obs), the first for slope < 0.
   const brightBin = slope > 0 ? nBins - 1 : 0;
   const gammas = new Array<number>(nBins + 1);
-  for (const nd of nodes) {
+  for (let at = 0; at < nodes.length; at++) {
+    const nd = nodes[at]!;
     if (!Number.isFinite(nd.log10ULimit)) continue;
     const l10uLim = nd.log10ULimit;
+    let nodeCount = 0; // what this node adds to the bins
     if (!completeness) {
       for (const c of nd.components) {
         const s = c.alpha + 1;
@@ -460,7 +483,11 @@ function histogramCount(
           const gFaint = Number.isNaN(gFaintRaw) ? gLim : gFaintRaw;
           const gBright = b === brightBin ? 0 : Number.isNaN(gBrightRaw) ? gLim : gBrightRaw;
           const d = gFaint - gBright;
-          if (d > 0) counts[b]! += nd.volumeWeight * c.phiStar * d;
+          if (d > 0) {
+            const v = nd.volumeWeight * c.phiStar * d;
+            counts[b]! += v;
+            nodeCount += v;
+          }
         }
       }
     } else {
@@ -486,7 +513,11 @@ function histogramCount(
               const s = c.alpha + 1;
               n += c.phiStar * (upperGamma(s, uLo) - (uHi === Infinity ? 0 : upperGamma(s, uHi)));
             }
-            if (n > 0) counts[b]! += nd.volumeWeight * cBin * n;
+            if (n > 0) {
+              const v = nd.volumeWeight * cBin * n;
+              counts[b]! += v;
+              nodeCount += v;
+            }
             continue;
           }
         }
@@ -495,9 +526,12 @@ function histogramCount(
           l10uHi = Math.max(l10uHi, Math.log10(uLim > 1 ? uLim + U_BRIGHT_SPAN : U_BRIGHT_SPAN));
         }
         if (!(l10uHi > l10uLo)) continue;
-        counts[b]! += nd.volumeWeight * completeIntegral(nd, observer, l10uLo, l10uHi, completeness, breaks!, 0);
+        const v = nd.volumeWeight * completeIntegral(nd, observer, l10uLo, l10uHi, completeness, breaks!, 0);
+        counts[b]! += v;
+        nodeCount += v;
       }
     }
+    if (perNode) perNode[at] = nodeCount;
   }
   let count = 0;
   for (const c of counts) count += c;

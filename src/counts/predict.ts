@@ -1,13 +1,18 @@
 /**
- * predict: a Survey in, a Prediction (the JSON of outputs.md, "predict") out.
+ * predict: a Survey in, a Prediction (the JSON of specs/prediction.schema.json) out.
  *
- * Several populations (issue 7): each population's own result ("populations") is the
- * single-population result over its own window and slice edges (Population.sliceEdges). The
- * top-level slices follow the first population's window (or the file's edges) and hold the sum
- * over populations of their counts inside each slice, so a population at other redshifts adds only
- * where its window overlaps; "all_populations" is the plain sum of the populations' own totals.
- * "observed_shares" gives each population's count and share per bin of the observed value over
- * its whole window: the interloper fraction a follow-up would face.
+ * Every population is counted over its own window on its own slice edges (Population.sliceEdges):
+ * its own result under "populations". The top level holds everything the survey detects:
+ * "totals" is the sum over the populations, each over its own window. Its breakdown depends on the
+ * windows ("breakdown"):
+ *  - "redshift": every population is counted over the same redshifts on the same edges (one
+ *    population; several galaxy types in one window): "slices" are redshift slices holding the sum
+ *    over populations (and each one's count), and they sum to the total;
+ *  - "observed": the windows differ (lines seen at other redshifts through one filter): there are
+ *    no top-level redshift slices; the breakdown is "observed_bins".
+ * "observed_bins" (always present) gives per bin of the observed value (flux or magnitude) the
+ * count of every population over its window and its share of the bin: the interloper fraction a
+ * spectroscopic follow-up faces. Its bins sum to the total.
  *
  * Densities: per slice, the volume-averaged luminosity density of the detected sources and of all
  * sources (j = phi* L* Gamma(alpha+2), common practice; omitted where alpha <= -2), and, with
@@ -19,8 +24,9 @@ import { countPopulation, type Histogram, type SliceCount } from './engine.js';
 import { cosmologyJsonOf, type CosmologyJsonShape } from '../cosmology/json.js';
 import {
   combinedUncertainty,
-  countWeightedRedshift,
+  totalUncertainty,
   uncertaintyContext,
+  type TotalPart,
   type UncertaintyContext,
   type UncertaintyJson,
   type UncertaintyMemo,
@@ -62,7 +68,7 @@ export interface PredictionSlice {
   uncertainty?: UncertaintyJson;
   luminosity_density?: LuminosityDensity;
   sfr_density_msun_yr_mpc3?: SfrDensity;
-  /** Top-level slices: each population's count inside the slice. */
+  /** Top-level slices of several populations: each population's count inside the slice. */
   population_counts?: Record<string, number>;
 }
 
@@ -71,7 +77,7 @@ export interface PredictionTotals {
   per_deg2: number;
   volume_mpc3: number;
   uncertainty?: UncertaintyJson;
-  /** Count-weighted mean redshift, where the total's cosmic variance is evaluated. */
+  /** Count-weighted mean redshift of the detected sources (the total's boxes are placed by it). */
   mean_redshift?: number;
   luminosity_density?: LuminosityDensity;
   sfr_density_msun_yr_mpc3?: SfrDensity;
@@ -86,39 +92,63 @@ export interface PopulationPrediction {
   slices: PredictionSlice[];
 }
 
-/** Per observed-value bin over each population's whole window: counts and shares of the total. */
-export interface ObservedShares {
+/** One bin of the observed value: the detections of every population in it. */
+export interface ObservedBin {
+  min: number;
+  max: number;
+  count: number;
+  per_deg2: number;
+  /** Each population's count in the bin and its share of the bin's count (0 in an empty bin). */
+  populations: Record<string, { count: number; share: number }>;
+}
+
+/** Per bin of the observed value, over every population's own window; the bins sum to the total. */
+export interface ObservedBins {
+  /** The histogram variable: apparent_magnitude, log10_line_flux, log10_quantity or absolute_magnitude. */
   variable: string;
-  edges: number[];
-  counts: Record<string, number[]>;
-  /** counts / total per bin, in [0, 1]; 0 where the total is 0. */
-  shares: Record<string, number[]>;
+  width: number;
+  bins: ObservedBin[];
 }
 
 export type CosmologyJson = CosmologyJsonShape;
 
-export interface Prediction {
+interface PredictionBase {
   format: 1;
   title: string;
   cosmology: CosmologyJson;
   area_deg2: number;
-  /** The window the top-level slices cover (the first population's, or the span of explicit edges). */
+  /**
+   * The redshifts counted: the common window (breakdown "redshift"), or from the lowest to the
+   * highest population window (breakdown "observed"; each population's own under populations).
+   */
   redshift: { min: number; max: number };
   detection: Record<string, unknown>;
   /** The assumed model of every population, as written and as evaluated at the window's middle. */
   models: ModelDescription[];
   /** Which variable the limits are in: "log10_luminosity" | "log10_quantity" | "absolute_magnitude". */
   limit_variable: string;
-  /** Sum over populations of their counts inside the top-level slices. */
+  /** Everything detected: the sum over populations, each over its own window. */
   totals: PredictionTotals;
-  slices: PredictionSlice[];
-  /** The plain sum of the populations' own totals (each over its own window and slices). */
-  all_populations: { count: number; per_deg2: number };
   populations: PopulationPrediction[];
-  observed_shares: ObservedShares;
+  observed_bins: ObservedBins;
   /** Things the reader should know (also printed on stderr by the CLI); see src/warnings.ts. */
   warnings: Warning[];
 }
+
+/** Every population counted over the same redshifts: the top level is broken down by redshift slice. */
+export interface RedshiftBreakdown {
+  breakdown: 'redshift';
+  /** Redshift slices holding the sum over populations; they sum to the totals. */
+  slices: PredictionSlice[];
+}
+
+/** The populations' windows differ: the top level is broken down by observed value (observed_bins). */
+export interface ObservedBreakdown {
+  breakdown: 'observed';
+  slices?: undefined;
+}
+
+export type Prediction = PredictionBase & (RedshiftBreakdown | ObservedBreakdown);
 
 export function cosmologyJson(survey: Survey): CosmologyJson {
   return cosmologyJsonOf(survey.cosmology);
@@ -296,10 +326,12 @@ export function predictionWarnings(survey: Survey, populations: readonly Populat
     const lo = p.sliceEdges[0]!;
     const hi = p.sliceEdges[p.sliceEdges.length - 1]!;
     if (p.window.max <= lo || p.window.min >= hi) {
-      out.push(warning(
-        'population_outside_slices',
-        `${p.name}: its window z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)} lies outside the slice edges (z = ${fmtNum(lo)} to ${fmtNum(hi)}); it counts 0 in its own slices, and observed_shares still covers its whole window`,
-      ));
+      out.push(
+        warning(
+          'population_outside_slices',
+          `${p.name}: its window z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)} lies outside the slice edges (z = ${fmtNum(lo)} to ${fmtNum(hi)}), so it counts 0; give slice edges that reach it, or a slices count or width`,
+        ),
+      );
     }
   }
   return out;
@@ -332,38 +364,66 @@ export interface PredictOptions {
   uncertaintyMemo?: UncertaintyMemo;
 }
 
-/** Add the uncertainty blocks to the slices and totals of parts made of populations. */
-function addUncertainty(
-  ctx: UncertaintyContext,
-  slices: PredictionSlice[],
-  totals: PredictionTotals,
-  partsOf: (i: number) => { population: Population; count: number; volumeMpc3: number }[],
-  totalParts: { population: Population; count: number; volumeMpc3: number }[],
-): void {
-  slices.forEach((s, i) => {
-    const u = combinedUncertainty(ctx, partsOf(i), s.z_min, s.z_max, 0.5 * (s.z_min + s.z_max));
-    if (u) s.uncertainty = u;
+/** The redshifts a population is counted over: its window cut by its slice edges (empty: max <= min). */
+export function countedRange(p: Population): { min: number; max: number } {
+  return { min: Math.max(p.window.min, p.sliceEdges[0]!), max: Math.min(p.window.max, p.sliceEdges[p.sliceEdges.length - 1]!) };
+}
+
+/**
+ * True when every population is counted over the same redshifts on the same slice edges, so that
+ * redshift slices can hold them all (the top-level breakdown "redshift").
+ */
+export function windowsCoincide(survey: Survey): boolean {
+  const [first, ...rest] = survey.populations;
+  const r0 = countedRange(first!);
+  return rest.every((p) => {
+    const r = countedRange(p);
+    return sameEdges(p.sliceEdges, first!.sliceEdges) && r.min === r0.min && r.max === r0.max;
   });
-  const zbar = countWeightedRedshift(slices);
-  const first = slices[0]!;
-  const last = slices[slices.length - 1]!;
-  const u = combinedUncertainty(ctx, totalParts, first.z_min, last.z_max, zbar);
-  if (u) {
-    totals.uncertainty = u;
-    totals.mean_redshift = zbar;
+}
+
+/** Comoving volume of the union of redshift ranges over the survey's area. */
+function unionVolume(survey: Survey, cosmo: FlatLambdaCDM, ranges: { min: number; max: number }[]): number {
+  const sorted = ranges.filter((r) => r.max > r.min).sort((a, b) => a.min - b.min);
+  let volume = 0;
+  let lo = -Infinity;
+  let hi = -Infinity;
+  for (const r of sorted) {
+    if (r.min > hi) {
+      if (hi > lo) volume += cosmo.comovingVolumeBetweenMpc3Sr(lo, hi);
+      lo = r.min;
+      hi = r.max;
+    } else hi = Math.max(hi, r.max);
   }
+  if (hi > lo) volume += cosmo.comovingVolumeBetweenMpc3Sr(lo, hi);
+  return survey.areaSr * volume;
+}
+
+/** The observed bins: every population's histogram over its own slices, on one grid, with shares. */
+function observedBins(survey: Survey, runs: { name: string; own: SliceCount[] }[]): ObservedBins {
+  const width = survey.histogramWidth;
+  const hists = runs.map((r) => sumHistograms(r.own.map((s) => s.histogram), width));
+  const aligned = alignHistograms(hists, width);
+  const bins: ObservedBin[] = aligned.edges.slice(0, -1).map((lo, b) => {
+    const count = aligned.counts.reduce((a, row) => a + row[b]!, 0);
+    const populations: ObservedBin['populations'] = {};
+    runs.forEach((r, k) => {
+      const c = aligned.counts[k]![b]!;
+      populations[r.name] = { count: c, share: count > 0 ? Math.min(1, Math.max(0, c / count)) : 0 };
+    });
+    return { min: lo, max: aligned.edges[b + 1]!, count, per_deg2: count / survey.areaDeg2, populations };
+  });
+  return { variable: hists[0]!.variable, width, bins };
 }
 
 export function predict(survey: Survey, options: PredictOptions = {}): Prediction {
   const cosmo = new FlatLambdaCDM(survey.cosmology);
-  const edges = survey.sliceEdges;
   const width = survey.histogramWidth;
   const units = survey.populations.map((p) => luminosityDensityUnit(survey, p));
+  const withUncertainty = !options.noUncertainty;
+  // Each population over its own window and slices: its own result.
   const runs = survey.populations.map((p, i) => {
-    const own = countPopulation(survey, p, cosmo, p.sliceEdges);
-    const onTop = sameEdges(p.sliceEdges, edges) ? own : countPopulation(survey, p, cosmo, edges);
-    const covers = p.sliceEdges[0] === p.window.min && p.sliceEdges[p.sliceEdges.length - 1] === p.window.max;
-    const whole = covers ? own : countPopulation(survey, p, cosmo, [p.window.min, p.window.max]);
+    const own = countPopulation(survey, p, cosmo, p.sliceEdges, withUncertainty ? { profile: true } : {});
     const sfr = p.sfrConversion?.factor;
     const pred: PopulationPrediction = {
       name: p.name,
@@ -372,142 +432,112 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
       totals: totalsOf(own, survey.areaDeg2, units[i], sfr),
       slices: toSlices(own, survey.areaDeg2, units[i]!, sfr),
     };
-    return { pred, onTop, whole };
+    return { name: p.name, own, pred };
   });
   const perPop = runs.map((r) => r.pred);
-
-  // Top-level slices: the sum over populations of their counts inside each slice.
+  const coincide = windowsCoincide(survey);
+  const single = survey.populations.length === 1;
   const sameUnit = units.every((u) => u === units[0]);
-  const sfrPops = survey.populations.filter((p) => p.sfrConversion);
-  let cumulative = 0;
-  const topCounts: SliceCount[] = [];
-  const slices: PredictionSlice[] = edges.slice(0, -1).map((_, i) => {
-    const parts = runs.map((r) => r.onTop[i]!);
-    const first = parts[0]!;
-    const count = parts.reduce((a, s) => a + s.count, 0);
-    cumulative += count;
-    let lum: Lum | undefined = { detected: 0, total: 0 };
-    for (const s of parts) lum = addLum(lum, s.luminosity);
-    const histogram = parts.length === 1 ? first.histogram : sumHistograms(parts.map((s) => s.histogram), width);
-    const sc: SliceCount = { ...first, count, histogram };
-    if (lum && sameUnit) sc.luminosity = lum;
-    else delete sc.luminosity;
-    topCounts.push(sc);
-    const slice: PredictionSlice = {
-      z_min: first.zMin,
-      z_max: first.zMax,
-      volume_mpc3: first.volumeMpc3,
+
+  // Top level, breakdown "redshift": the sum over populations of their slices (the same edges).
+  let slices: PredictionSlice[] | undefined;
+  let totals: PredictionTotals;
+  if (single) {
+    slices = perPop[0]!.slices;
+    totals = perPop[0]!.totals;
+  } else if (coincide) {
+    let cumulative = 0;
+    const topCounts: SliceCount[] = [];
+    slices = runs[0]!.own.map((first, i) => {
+      const parts = runs.map((r) => r.own[i]!);
+      const count = parts.reduce((a, sc) => a + sc.count, 0);
+      cumulative += count;
+      let lum: Lum | undefined = { detected: 0, total: 0 };
+      for (const sc of parts) lum = addLum(lum, sc.luminosity);
+      const histogram = sumHistograms(parts.map((sc) => sc.histogram), width);
+      const sc: SliceCount = { zMin: first.zMin, zMax: first.zMax, volumeMpc3: first.volumeMpc3, count, limitAtCenter: first.limitAtCenter, histogram };
+      if (lum && sameUnit) sc.luminosity = lum;
+      topCounts.push(sc);
+      const slice: PredictionSlice = {
+        z_min: first.zMin,
+        z_max: first.zMax,
+        volume_mpc3: first.volumeMpc3,
+        count,
+        per_deg2: count / survey.areaDeg2,
+        cumulative_count: cumulative,
+        limit_at_center: first.limitAtCenter,
+        histogram,
+        population_counts: Object.fromEntries(runs.map((r, k) => [r.name, parts[k]!.count])),
+      };
+      const ld = sameUnit ? densityOf(sc.luminosity, first.volumeMpc3, units[0]!) : undefined;
+      if (ld) slice.luminosity_density = ld;
+      const sfr = sfrSum(survey, parts.map((x) => x.luminosity), first.volumeMpc3, units);
+      if (sfr && sameUnit) slice.sfr_density_msun_yr_mpc3 = sfr;
+      return slice;
+    });
+    totals = totalsOf(topCounts, survey.areaDeg2, sameUnit ? units[0] : undefined);
+    if (totals.luminosity_density) {
+      const sfr = sfrSum(
+        survey,
+        runs.map((r) => r.own.reduce<Lum | undefined>((a, sc) => addLum(a, sc.luminosity), { detected: 0, total: 0 })),
+        totals.volume_mpc3,
+        units,
+      );
+      if (sfr) totals.sfr_density_msun_yr_mpc3 = sfr;
+    }
+  } else {
+    // Breakdown "observed": the total over every window; densities stay with each population.
+    const count = perPop.reduce((a, q) => a + q.totals.count, 0);
+    totals = {
       count,
       per_deg2: count / survey.areaDeg2,
-      cumulative_count: cumulative,
-      limit_at_center: first.limitAtCenter,
-      histogram: sc.histogram,
-      population_counts: Object.fromEntries(survey.populations.map((p, k) => [p.name, parts[k]!.count])),
+      volume_mpc3: unionVolume(survey, cosmo, survey.populations.map(countedRange)),
     };
-    const ld = sameUnit ? densityOf(sc.luminosity, first.volumeMpc3, units[0]!) : undefined;
-    if (ld) slice.luminosity_density = ld;
-    if (sfrPops.length > 0 && sameUnit) {
-      const s: SfrDensity = { detected: 0, total: 0 };
-      survey.populations.forEach((p, k) => {
-        if (!p.sfrConversion) return;
-        const part = densityOf(parts[k]!.luminosity, first.volumeMpc3, units[k]!);
-        const sp = sfrOf(part, p.sfrConversion.factor);
-        if (!sp) return;
-        s.detected += sp.detected;
-        if (s.total !== undefined) s.total = sp.total === undefined ? undefined : s.total + sp.total;
-      });
-      if (s.total === undefined) delete s.total;
-      slice.sfr_density_msun_yr_mpc3 = s;
-    }
-    return slice;
-  });
-  const totals = totalsOf(topCounts, survey.areaDeg2, sameUnit ? units[0] : undefined);
-  if (sfrPops.length > 0 && totals.luminosity_density) {
-    // sum over populations of factor x (their luminosity inside the slices / the slices' volume)
-    const sfr: SfrDensity = { detected: 0, total: 0 };
-    survey.populations.forEach((p, k) => {
-      if (!p.sfrConversion) return;
-      let lum: Lum | undefined = { detected: 0, total: 0 };
-      for (const s of runs[k]!.onTop) lum = addLum(lum, s.luminosity);
-      const sp = sfrOf(densityOf(lum, totals.volume_mpc3, units[k]!), p.sfrConversion.factor);
-      if (!sp) return;
-      sfr.detected += sp.detected;
-      if (sfr.total !== undefined) sfr.total = sp.total === undefined ? undefined : sfr.total + sp.total;
-    });
-    if (sfr.total === undefined) delete sfr.total;
-    totals.sfr_density_msun_yr_mpc3 = sfr;
   }
+
   const uncertaintyWarnings: Warning[] = [];
-  if (!options.noUncertainty) {
+  if (withUncertainty) {
     const ctx = uncertaintyContext(survey, cosmo);
     ctx.warnings = uncertaintyWarnings;
     if (options.uncertaintyMemo) ctx.memo = options.uncertaintyMemo;
+    const partsOf = (k: number): TotalPart[] =>
+      runs[k]!.own.map((sc) => ({ population: survey.populations[k]!, count: sc.count, zMin: sc.zMin, zMax: sc.zMax, profile: sc.profile! }));
     // Each population over its own window and slices.
     survey.populations.forEach((pop, k) => {
       const own = perPop[k]!;
-      addUncertainty(
-        ctx,
-        own.slices,
-        own.totals,
-        (i) => [{ population: pop, count: own.slices[i]!.count, volumeMpc3: own.slices[i]!.volume_mpc3 }],
-        [{ population: pop, count: own.totals.count, volumeMpc3: own.totals.volume_mpc3 }],
-      );
-    });
-    const single = perPop.length === 1 && sameEdges(survey.populations[0]!.sliceEdges, edges);
-    if (single) {
-      // The top-level slices are the population's own: share its blocks.
-      slices.forEach((sl, i) => {
-        const u = perPop[0]!.slices[i]!.uncertainty;
+      own.slices.forEach((sl) => {
+        const u = combinedUncertainty(ctx, [{ population: pop, count: sl.count, volumeMpc3: sl.volume_mpc3 }], sl.z_min, sl.z_max, 0.5 * (sl.z_min + sl.z_max));
         if (u) sl.uncertainty = u;
       });
-      const tu = perPop[0]!.totals.uncertainty;
-      if (tu) {
-        totals.uncertainty = tu;
-        totals.mean_redshift = perPop[0]!.totals.mean_redshift!;
-      }
-    } else {
-      addUncertainty(
-        ctx,
-        slices,
-        totals,
-        (i) => survey.populations.map((pop, k) => ({ population: pop, count: runs[k]!.onTop[i]!.count, volumeMpc3: runs[k]!.onTop[i]!.volumeMpc3 })),
-        survey.populations.map((pop, k) => ({
-          population: pop,
-          count: runs[k]!.onTop.reduce((x, sc) => x + sc.count, 0),
-          volumeMpc3: totals.volume_mpc3,
-        })),
-      );
+      setTotalUncertainty(own.totals, totalUncertainty(ctx, partsOf(k)));
+    });
+    if (!single) {
+      // Top-level slices (several populations in one slice: their count-weighted bias).
+      slices?.forEach((sl, i) => {
+        const parts = survey.populations.map((pop, k) => ({ population: pop, count: runs[k]!.own[i]!.count, volumeMpc3: sl.volume_mpc3 }));
+        const u = combinedUncertainty(ctx, parts, sl.z_min, sl.z_max, 0.5 * (sl.z_min + sl.z_max));
+        if (u) sl.uncertainty = u;
+      });
+      setTotalUncertainty(totals, totalUncertainty(ctx, survey.populations.flatMap((_, k) => partsOf(k))));
     }
   }
-
-  // The interloper view: each population's histogram over its whole window.
-  const wholeHists = runs.map((r) => sumHistograms(r.whole.map((s) => s.histogram), width));
-  const aligned = alignHistograms(wholeHists, width);
-  const binTotals = aligned.edges.slice(0, -1).map((_, b) => aligned.counts.reduce((a, row) => a + row[b]!, 0));
-  const observed_shares: ObservedShares = {
-    variable: wholeHists[0]!.variable,
-    edges: aligned.edges,
-    counts: Object.fromEntries(survey.populations.map((p, k) => [p.name, aligned.counts[k]!])),
-    shares: Object.fromEntries(
-      survey.populations.map((p, k) => [p.name, aligned.counts[k]!.map((c, b) => (binTotals[b]! > 0 ? Math.min(1, Math.max(0, c / binTotals[b]!)) : 0))]),
-    ),
-  };
-  const allCount = perPop.reduce((a, p) => a + p.totals.count, 0);
-
-  return {
-    format: 1,
+  const ranges = survey.populations.map(countedRange);
+  const r0 = runs[0]!.own;
+  const head = {
+    format: 1 as const,
     title: survey.title,
     cosmology: cosmologyJson(survey),
     area_deg2: survey.areaDeg2,
-    redshift: { min: survey.redshift.min, max: survey.redshift.max },
+    redshift: coincide
+      ? { min: r0[0]!.zMin, max: r0[r0.length - 1]!.zMax }
+      : { min: Math.min(...ranges.map((r) => r.min)), max: Math.max(...ranges.map((r) => r.max)) },
     detection: detectionJson(survey),
-    models: perPop.map((p) => p.model),
+    models: perPop.map((q) => q.model),
     limit_variable: limitVariable(survey, survey.populations[0]!),
-    totals,
-    slices,
-    all_populations: { count: allCount, per_deg2: allCount / survey.areaDeg2 },
+  };
+  const tail = {
     populations: perPop,
-    observed_shares,
+    observed_bins: observedBins(survey, runs),
     warnings: mergeWarnings(
       surveyWarnings(survey),
       predictionWarnings(survey),
@@ -515,4 +545,28 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
       uncertaintyWarnings,
     ),
   };
+  return coincide
+    ? { ...head, breakdown: 'redshift', totals, slices: slices!, ...tail }
+    : { ...head, breakdown: 'observed', totals, ...tail };
+}
+
+function setTotalUncertainty(t: PredictionTotals, u: { block: UncertaintyJson; meanRedshift: number } | undefined): void {
+  if (!u) return;
+  t.uncertainty = u.block;
+  t.mean_redshift = u.meanRedshift;
+}
+
+/** Sum over populations with sfr_conversion of factor x (their luminosity / volume); undefined when none has one. */
+function sfrSum(survey: Survey, lums: (Lum | undefined)[], volume: number, units: string[]): SfrDensity | undefined {
+  if (!survey.populations.some((p) => p.sfrConversion)) return undefined;
+  const out: SfrDensity = { detected: 0, total: 0 };
+  survey.populations.forEach((p, k) => {
+    if (!p.sfrConversion) return;
+    const sp = sfrOf(densityOf(lums[k], volume, units[k]!), p.sfrConversion.factor);
+    if (!sp) return;
+    out.detected += sp.detected;
+    if (out.total !== undefined) out.total = sp.total === undefined ? undefined : out.total + sp.total;
+  });
+  if (out.total === undefined) delete out.total;
+  return out;
 }

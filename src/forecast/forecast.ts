@@ -10,7 +10,7 @@
 import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
 import type { Population, Survey } from '../survey/types.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
-import { populationByName } from '../survey/select.js';
+import { populationByName, surveyForPopulation } from '../survey/select.js';
 import { inputError } from '../errors.js';
 import { buildDensityGrid } from './grid.js';
 import { fisherParts, marginaliseNormalisations, summariseFisher, type FisherSummary } from './fisher.js';
@@ -163,8 +163,10 @@ export function summariseSample(values: readonly number[], input: number): MockP
   };
 }
 
-export async function forecast(survey: Survey, opts: ForecastOptions = {}): Promise<Forecast> {
-  const population = choosePopulation(survey, opts.population);
+export async function forecast(file: Survey, opts: ForecastOptions = {}): Promise<Forecast> {
+  const population = choosePopulation(file, opts.population);
+  // The population's own window and slices: the forecast a file holding it alone would give.
+  const survey = surveyForPopulation(file, population);
   const cosmo = new FlatLambdaCDM(survey.cosmology);
   const edges = survey.sliceEdges;
   const names = parameterNames(population);

@@ -13,6 +13,7 @@ import { forecast } from '../forecast/forecast.js';
 import { buildDensityGrid, sliceCount } from '../forecast/grid.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
 import { pickPopulation } from './population.js';
+import { surveyForPopulation } from '../survey/select.js';
 import { faintCount } from './tables.js';
 import { warning, mergeWarnings, type Warning } from '../warnings.js';
 
@@ -98,11 +99,12 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
   const useCv = opts.cosmicVariance !== false;
   const out: CompareSurvey[] = [];
   const warnings: Warning[][] = [];
-  for (const [i, survey] of surveys.entries()) {
-    const population = pickPopulation(survey, opts.population);
-    const k = survey.populations.indexOf(population);
+  for (const [i, file] of surveys.entries()) {
+    const population = pickPopulation(file, opts.population);
+    // The population's own window and slices, as a file holding it alone.
+    const survey = surveyForPopulation(file, population);
     const pred = predict(survey);
-    const own = pred.populations[k]!;
+    const own = pred.populations[0]!;
     const f = await forecast(survey, { population: population.name, cosmicVariance: useCv });
     warnings.push(mergeWarnings(pred.warnings, f.warnings).map((w) => warning(w.code, `[${i + 1}] ${w.message}`)));
     const lim = limitOf(survey, population);

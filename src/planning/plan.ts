@@ -12,6 +12,7 @@ import { pickPopulation } from './population.js';
 import { warning, mergeWarnings, type Warning } from '../warnings.js';
 import { surveyWarnings } from '../survey/warnings.js';
 import { predictionWarnings } from '../counts/predict.js';
+import { surveyForPopulation } from '../survey/select.js';
 
 export const PLAN_CAVEAT =
   'A plan is only as good as the luminosity function assumed: the counts and uncertainties hold if the population follows the model given; a different faint-end slope or knee changes which design is best.';
@@ -117,8 +118,10 @@ function designJson(e: Evaluated, names: string[], goal: PlanSpec['goal']): Desi
   return d;
 }
 
-export async function plan(survey: Survey, opts: PlanOptions = {}): Promise<PlanJson> {
-  const population: Population = pickPopulation(survey, opts.population);
+export async function plan(file: Survey, opts: PlanOptions = {}): Promise<PlanJson> {
+  const population: Population = pickPopulation(file, opts.population);
+  // The population's own window and slices, as a file holding it alone.
+  const survey = surveyForPopulation(file, population);
   const spec = readPlanSection(survey, population);
   const names = sigmaParameterNames(population);
   const parameterIndex = spec.goal.kind === 'sigma' ? names.indexOf(spec.goal.parameter) : 0;

@@ -14,6 +14,7 @@ import type {
   ForecastJson,
   LuminosityFunctionCurve,
   ModelDescription,
+  ObservedBinsJson,
   PlanJson,
   PredictionJson,
   SliceJson,
@@ -863,6 +864,139 @@ function fmtShort(x: unknown): string {
   if (typeof x !== 'number' || !Number.isFinite(x)) return '?';
   return Number(x.toPrecision(3)).toString();
 }
+
+// ---------------------------------------------------------------------------------------------
+// 6. Share of each population per bin of observed flux or magnitude (several populations)
+
+/** Line colours of the populations, in order (the palette first, then two of the same family). */
+const SHARE_COLOURS = [PALETTE.blue, PALETTE.orange, PALETTE.ink, '#7fa7d6', '#9c5b14', '#5f6b7a'];
+/** Dash patterns, so that the lines stay apart in greyscale print. */
+const SHARE_DASHES = [[1, 0], [7, 3], [2, 2], [10, 3, 2, 3], [4, 4], [1, 3]];
+/** Bins at either end holding less than this fraction of all detections are not drawn. */
+export const SHARE_FLOOR = 1e-4;
+
+export interface ObservedShareRow {
+  population: string;
+  /** The population's place in the file (legend and stacking order). */
+  order: number;
+  min: number;
+  max: number;
+  mid: number;
+  count: number;
+  share: number;
+  /** The bar's bottom and top in the stack of the bin (populations in file order). */
+  below: number;
+  above: number;
+}
+
+/**
+ * One row per population and bin of the observed value, without the nearly empty bins at either
+ * end (under SHARE_FLOOR of all detections). Empty when there are fewer than two populations.
+ */
+export function observedShareRows(o: ObservedBinsJson): ObservedShareRow[] {
+  const bins = (o.bins ?? []).filter((b) => finite(b.min, b.max, b.count));
+  const names = bins.length > 0 ? Object.keys(bins[0]!.populations ?? {}) : [];
+  if (names.length < 2) return [];
+  const total = bins.reduce((a, b) => a + b.count, 0);
+  let a = 0;
+  let z = bins.length;
+  while (a < z && !(bins[a]!.count >= SHARE_FLOOR * total)) a++;
+  while (z > a && !(bins[z - 1]!.count >= SHARE_FLOOR * total)) z--;
+  const rows: ObservedShareRow[] = [];
+  for (const b of bins.slice(a, z)) {
+    let below = 0;
+    names.forEach((name, order) => {
+      const q = b.populations[name];
+      if (!q || !finite(q.count, q.share)) return;
+      rows.push({ population: name, order, min: b.min, max: b.max, mid: 0.5 * (b.min + b.max), count: q.count, share: q.share, below, above: below + q.count });
+      below += q.count;
+    });
+  }
+  return rows;
+}
+
+/**
+ * Two panels over the observed value: the expected detections per bin, stacked by population,
+ * and each population's share of the bin (the interloper fraction a follow-up faces). Null with
+ * fewer than two populations.
+ */
+/** Width of the shares figure's panels, px. */
+const SHARES_WIDTH_PX = 560;
+
+export function observedSharesSpec(o: ObservedBinsJson, surveyTitle?: string): Spec | null {
+  const rows = observedShareRows(o);
+  if (rows.length === 0) return null;
+  const names = [...new Set(rows.map((r) => r.population))];
+  const colour = {
+    field: 'population',
+    type: 'nominal',
+    sort: names,
+    scale: { domain: names, range: names.map((_, i) => SHARE_COLOURS[i % SHARE_COLOURS.length]) },
+    legend: { title: null, orient: 'top', direction: 'horizontal', symbolType: 'stroke', symbolStrokeWidth: 3, symbolSize: 400 },
+  };
+  const xTitle = histogramAxisLabel(o.variable, undefined);
+  const what =
+    o.variable === 'apparent_magnitude'
+      ? 'Share of each population per bin of apparent magnitude'
+      : o.variable === 'log10_line_flux'
+        ? 'Share of each population per bin of line flux'
+        : 'Share of each population per bin of the observed value';
+  return {
+    $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
+    ...titleBlock(surveyTitle, what, [
+      'top: expected detections per bin, stacked by population',
+      'bottom: each population\'s share of the bin (the interloper fraction)',
+      'every population over its own redshift window',
+    ], SHARES_WIDTH_PX),
+    data: { values: rows },
+    vconcat: [
+      {
+        width: SHARES_WIDTH_PX,
+        height: 200,
+        mark: { type: 'bar', stroke: 'white', strokeWidth: 0.5 },
+        encoding: {
+          x: { field: 'min', type: 'quantitative', title: xTitle, scale: { zero: false, nice: false } },
+          x2: { field: 'max' },
+          y: { field: 'above', type: 'quantitative', title: 'expected detections per bin' },
+          y2: { field: 'below' },
+          color: colour,
+          tooltip: [
+            { field: 'population', type: 'nominal' },
+            { field: 'min', type: 'quantitative' },
+            { field: 'max', type: 'quantitative' },
+            { field: 'count', type: 'quantitative', format: '.4~g' },
+          ],
+        },
+      },
+      {
+        width: SHARES_WIDTH_PX,
+        height: 200,
+        mark: { type: 'line', strokeWidth: 2, point: { size: 28, filled: true } },
+        encoding: {
+          x: { field: 'mid', type: 'quantitative', title: xTitle, scale: { zero: false, nice: false } },
+          y: { field: 'share', type: 'quantitative', title: 'share of the bin', scale: { domain: [0, 1] }, axis: { format: '.0%' } },
+          color: colour,
+          strokeDash: {
+            field: 'population',
+            type: 'nominal',
+            sort: names,
+            scale: { domain: names, range: names.map((_, i) => SHARE_DASHES[i % SHARE_DASHES.length]) },
+            legend: colour.legend,
+          },
+          tooltip: [
+            { field: 'population', type: 'nominal' },
+            { field: 'mid', type: 'quantitative', title: 'bin middle' },
+            { field: 'share', type: 'quantitative', format: '.1%' },
+          ],
+        },
+      },
+    ],
+    resolve: { scale: { x: 'shared' } },
+    config: CONFIG,
+  };
+}
+
+export const observedSharesFigure = (o: ObservedBinsJson, surveyTitle?: string) => figure('shares', observedSharesSpec(o, surveyTitle));
 
 // ---------------------------------------------------------------------------------------------
 // Rendering

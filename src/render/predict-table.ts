@@ -1,6 +1,6 @@
 /** Human table and CSV for a Prediction (predict command). */
 import Table from 'cli-table3';
-import type { Prediction } from '../counts/predict.js';
+import type { Prediction, PredictionSlice, PredictionTotals } from '../counts/predict.js';
 import { sig, zText } from './format.js';
 import { csvText, type CsvCell } from './csv.js';
 import { dominantTerm } from '../uncertainty/prediction.js';
@@ -35,7 +35,7 @@ export function detectionLine(p: Prediction): string {
 export function predictionHeader(p: Prediction): string[] {
   const lines = [
     p.title,
-    `Survey: ${sig(p.area_deg2)} deg^2, z = ${zText(p.redshift.min)} to ${zText(p.redshift.max)}, ${detectionLine(p)}${p.detection.completeness ? ', with completeness' : ''}`,
+    `Survey: ${sig(p.area_deg2)} deg^2, z = ${zText(p.redshift.min)} to ${zText(p.redshift.max)}${p.breakdown === 'observed' ? ' (each population over its own window)' : ''}, ${detectionLine(p)}${p.detection.completeness ? ', with completeness' : ''}`,
     `Cosmology: ${cosmologyLine(p.cosmology)}`,
   ];
   for (const m of p.models) lines.push(`Assumed model: ${m.summary}`);
@@ -44,70 +44,139 @@ export function predictionHeader(p: Prediction): string[] {
 
 export const FORECAST_CAVEAT = 'These numbers are only as good as the luminosity function assumed above.';
 
-export function predictionTable(p: Prediction): string {
-  const multi = p.populations.length > 1;
-  const head = [
-    'slice z',
-    'volume [Mpc^3]',
-    LIMIT_HEADINGS[p.limit_variable] ?? 'limit',
-    ...(multi ? p.populations.map((q) => `${q.name}`) : []),
-    'count',
-    '+/- (1 sigma)',
-    'per deg^2',
-    'cumulative',
-  ];
-  const pm = (count: number, u: { total_fraction: number } | undefined) => (u ? sig(count * u.total_fraction, 3) : '-');
+/** Observed-value headings of the interloper table (and CSV column stems). */
+const OBSERVED_HEADINGS: Record<string, string> = {
+  log10_line_flux: 'log10 line flux [erg/s/cm^2]',
+  apparent_magnitude: 'apparent AB magnitude',
+  log10_quantity: 'log10 quantity',
+  absolute_magnitude: 'absolute AB magnitude',
+};
+
+const pm = (count: number, u: { total_fraction: number } | undefined) => (u ? sig(count * u.total_fraction, 3) : '-');
+
+/** Redshift slices (the top level's, or one population's own) with a total row. */
+function slicesTable(
+  p: Prediction,
+  slices: PredictionSlice[],
+  totals: PredictionTotals,
+  columns: { name: string; slice: (s: PredictionSlice) => number; total: number }[],
+): string {
+  const head = ['slice z', 'volume [Mpc^3]', LIMIT_HEADINGS[p.limit_variable] ?? 'limit', ...columns.map((c) => c.name), 'count', '+/- (1 sigma)', 'per deg^2', 'cumulative'];
   const table = new Table({ head, style: { head: [], border: [] } });
-  p.slices.forEach((s) => {
+  for (const s of slices) {
     table.push([
       `${zText(s.z_min)} - ${zText(s.z_max)}`,
       sig(s.volume_mpc3, 3),
       sig(s.limit_at_center, 4),
-      ...(multi ? p.populations.map((q) => sig(s.population_counts?.[q.name] ?? 0, 4)) : []),
+      ...columns.map((c) => sig(c.slice(s), 4)),
       sig(s.count, 4),
       pm(s.count, s.uncertainty),
       sig(s.per_deg2, 4),
       sig(s.cumulative_count, 4),
     ]);
-  });
-  table.push([
-    'total',
-    sig(p.totals.volume_mpc3, 3),
-    '',
-    ...(multi ? p.populations.map((q) => sig(p.slices.reduce((a, s) => a + (s.population_counts?.[q.name] ?? 0), 0), 4)) : []),
-    sig(p.totals.count, 4),
-    pm(p.totals.count, p.totals.uncertainty),
-    sig(p.totals.per_deg2, 4),
-    '',
-  ]);
-  const notes: string[] = [];
-  const u = p.totals.uncertainty;
-  if (u) {
-    notes.push(
-      `Uncertainty: +/- is Poisson noise and cosmic variance in quadrature; ${dominantTerm(u)}; ` +
-        `bias ${sig(u.bias, 3)}${u.halo_mass_min_msun ? ` (haloes above ${sig(u.halo_mass_min_msun, 3)} Msun, abundance matching)` : ''}, ` +
-        `sigma_matter ${sig(u.sigma_matter, 3)} at z = ${zText(p.totals.mean_redshift ?? 0)}.`,
-    );
   }
-  return [...predictionHeader(p), table.toString(), ...notes, ...populationSummary(p), ...densitySummary(p), FORECAST_CAVEAT, ''].join('\n');
+  table.push(['total', sig(totals.volume_mpc3, 3), '', ...columns.map((c) => sig(c.total, 4)), sig(totals.count, 4), pm(totals.count, totals.uncertainty), sig(totals.per_deg2, 4), '']);
+  return table.toString();
+}
+
+/** The sentence on the total's uncertainty: the terms, the effective bias and where it applies. */
+export function uncertaintyNote(totals: PredictionTotals, what = "the total's"): string | undefined {
+  const u = totals.uncertainty;
+  if (!u) return undefined;
+  const halo = u.halo_mass_min_msun ? `; haloes above ${sig(u.halo_mass_min_msun, 3)} Msun have it` : '';
+  const depth = u.effective_depth_mpc ? `, effective depth ${sig(u.effective_depth_mpc, 3)} Mpc` : '';
+  return (
+    `Uncertainty: +/- is Poisson noise and cosmic variance in quadrature; ${dominantTerm(u).replace("the total's", what)}; ` +
+    `bias ${sig(u.bias, 3)} (count-weighted over the detected sources${halo}), sigma_matter ${sig(u.sigma_matter, 3)}` +
+    `${depth}, detected sources at a mean z = ${zText(totals.mean_redshift ?? 0)}.`
+  );
+}
+
+export function predictionTable(p: Prediction): string {
+  const multi = p.populations.length > 1;
+  const out = [...predictionHeader(p)];
+  if (p.breakdown === 'redshift') {
+    const columns = multi
+      ? p.populations.map((q) => ({ name: q.name, slice: (s: PredictionSlice) => s.population_counts?.[q.name] ?? 0, total: q.totals.count }))
+      : [];
+    out.push(slicesTable(p, p.slices, p.totals, columns));
+    const note = uncertaintyNote(p.totals);
+    if (note) out.push(note);
+  } else {
+    out.push('Every population over its own window (the survey detects them all):');
+    out.push(populationsTable(p));
+    const note = uncertaintyNote(p.totals);
+    if (note) out.push(note);
+    out.push(
+      `Detections per bin of ${OBSERVED_HEADINGS[p.observed_bins.variable] ?? p.observed_bins.variable}, every population over its own window ` +
+        `(share: the interloper fraction; bins with under ${100 * OBSERVED_TABLE_FLOOR}% of the detections at either end are left out here, not in the JSON or CSV):`,
+    );
+    out.push(observedTable(p));
+    for (const q of p.populations) {
+      out.push(`${q.name}, its own redshift slices:`);
+      out.push(slicesTable(p, q.slices, q.totals, []));
+    }
+  }
+  return [...out, ...populationSummary(p), ...densitySummary(p), FORECAST_CAVEAT, ''].join('\n');
+}
+
+/** One row per population (its window, count, +/-, per deg^2 and share of all detections) and the total. */
+function populationsTable(p: Prediction): string {
+  const all = p.totals.count;
+  const table = new Table({ head: ['population', 'window z', 'volume [Mpc^3]', 'count', '+/- (1 sigma)', 'per deg^2', 'share'], style: { head: [], border: [] } });
+  for (const q of p.populations) {
+    table.push([q.name, `${zText(q.window.min)} - ${zText(q.window.max)}`, sig(q.totals.volume_mpc3, 3), sig(q.totals.count, 4), pm(q.totals.count, q.totals.uncertainty), sig(q.totals.per_deg2, 4), all > 0 ? pct(q.totals.count / all) : '0%']);
+  }
+  table.push(['total', '', sig(p.totals.volume_mpc3, 3), sig(all, 4), pm(all, p.totals.uncertainty), sig(p.totals.per_deg2, 4), all > 0 ? '100%' : '0%']);
+  return table.toString();
+}
+
+/** A bin holding less than this fraction of all detections is left out of the table at either end. */
+const OBSERVED_TABLE_FLOOR = 1e-4;
+
+/** The observed bins without the nearly empty ones at either end (the JSON and CSV keep every bin). */
+export function observedTableBins(p: Prediction): Prediction['observed_bins']['bins'] {
+  const bins = p.observed_bins.bins;
+  const floor = OBSERVED_TABLE_FLOOR * p.totals.count;
+  let a = 0;
+  let b = bins.length;
+  while (a < b && !(bins[a]!.count >= floor)) a++;
+  while (b > a && !(bins[b - 1]!.count >= floor)) b--;
+  return bins.slice(a, b);
+}
+
+/** The observed bins: each population's count and share, and the bin's count. */
+function observedTable(p: Prediction): string {
+  const o = p.observed_bins;
+  const names = p.populations.map((q) => q.name);
+  const table = new Table({
+    head: [OBSERVED_HEADINGS[o.variable] ?? o.variable, ...names, 'count', 'per deg^2', ...names.map((n) => `${n} share`)],
+    style: { head: [], border: [] },
+  });
+  for (const b of observedTableBins(p)) {
+    table.push([
+      `${sig(b.min, 4)} - ${sig(b.max, 4)}`,
+      ...names.map((n) => sig(b.populations[n]!.count, 4)),
+      sig(b.count, 4),
+      sig(b.per_deg2, 4),
+      ...names.map((n) => (b.count > 0 ? pct(b.populations[n]!.share) : '-')),
+    ]);
+  }
+  return table.toString();
 }
 
 function pct(x: number): string {
   return `${sig(100 * x, 3)}%`;
 }
 
-/** Several populations: their own totals, and each one's share of all detections (the interloper summary). */
+/** Several populations: each one's share of all detections, over its own window. */
 export function populationSummary(p: Prediction): string[] {
   if (p.populations.length < 2) return [];
-  const all = p.all_populations.count;
-  const lines = [
-    `All populations over their own windows: ${sig(all, 4)} detections (${sig(p.all_populations.per_deg2, 4)} per deg^2); the table counts those inside its slices.`,
-  ];
+  const all = p.totals.count;
   const parts = p.populations.map(
     (q) => `${q.name} ${sig(q.totals.count, 4)} (${all > 0 ? pct(q.totals.count / all) : '0%'}, z = ${zText(q.window.min)}-${zText(q.window.max)})`,
   );
-  lines.push(`Share of all detections: ${parts.join('; ')}.`);
-  return lines;
+  return [`Share of all ${sig(all, 4)} detections (${sig(p.totals.per_deg2, 4)} per deg^2): ${parts.join('; ')}.`];
 }
 
 function densityText(ld: NonNullable<Prediction['totals']['luminosity_density']>): string {
@@ -131,14 +200,34 @@ export function densitySummary(p: Prediction): string[] {
   return lines;
 }
 
+/**
+ * CSV of the top-level breakdown: one row per redshift slice (breakdown "redshift"; with several
+ * populations a count column for each), or one row per bin of the observed value (breakdown
+ * "observed": each population's count and share, the bin's count and per deg^2). The JSON holds
+ * everything else (each population's own slices).
+ */
 export function predictionCsv(p: Prediction): string {
   const multi = p.populations.length > 1;
+  const names = p.populations.map((q) => q.name);
+  if (p.breakdown === 'observed') {
+    const o = p.observed_bins;
+    const header = [`${o.variable}_min`, `${o.variable}_max`, ...names.map((n) => `count_${n}`), 'count', 'per_deg2', ...names.map((n) => `share_${n}`)];
+    const rows = o.bins.map((b): CsvCell[] => [
+      b.min,
+      b.max,
+      ...names.map((n) => b.populations[n]!.count),
+      b.count,
+      b.per_deg2,
+      ...names.map((n) => b.populations[n]!.share),
+    ]);
+    return csvText(header, rows);
+  }
   const header = [
     'z_min',
     'z_max',
     'volume_mpc3',
     `limit_at_center_${p.limit_variable}`,
-    ...(multi ? p.populations.map((q) => `count_${q.name}`) : []),
+    ...(multi ? names.map((n) => `count_${n}`) : []),
     'count',
     'poisson_fraction',
     'cosmic_variance_fraction',
@@ -147,12 +236,12 @@ export function predictionCsv(p: Prediction): string {
     'per_deg2',
     'cumulative_count',
   ];
-  const rows = p.slices.map((s): CsvCell[] => [
+  const rows = (p.slices ?? []).map((s): CsvCell[] => [
       s.z_min,
       s.z_max,
       s.volume_mpc3,
       s.limit_at_center,
-      ...(multi ? p.populations.map((q) => s.population_counts?.[q.name] ?? 0) : []),
+      ...(multi ? names.map((n) => s.population_counts?.[n] ?? 0) : []),
       s.count,
       s.uncertainty?.poisson_fraction ?? '',
       s.uncertainty?.cosmic_variance_fraction ?? '',

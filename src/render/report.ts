@@ -239,7 +239,7 @@ function modelVariable(models: ModelDescription[]): string | undefined {
 // ---------------------------------------------------------------------------------------------
 // Tables
 
-function predictTable(p: PredictionJson, variable: string | undefined, quantity?: string): string {
+function predictTable(p: PredictionJson, variable: string | undefined, quantity?: string, id = 'predict-table'): string {
   const withU = p.slices.some((s) => typeof s.uncertainty?.total_fraction === 'number');
   const withParts = p.slices.some((s) => typeof s.uncertainty?.poisson_fraction === 'number' || typeof s.uncertainty?.cosmic_variance_fraction === 'number');
   const limitHead = quantity
@@ -288,13 +288,85 @@ function predictTable(p: PredictionJson, variable: string | undefined, quantity?
   ];
   if (withU) total.push(typeof tu?.total_fraction === 'number' ? `± ${formatNumber(t.count * tu.total_fraction, 3)}` : '');
   if (withParts) total.push(percent(tu?.poisson_fraction), percent(tu?.cosmic_variance_fraction));
-  return `<table class="numbers" id="predict-table">
+  return `<table class="numbers" id="${id}">
 <thead><tr>${heads.map((h) => `<th scope="col">${h}</th>`).join('')}</tr></thead>
 <tbody>
 ${body}
 </tbody>
 <tfoot><tr>${total.map((c) => `<td>${c}</td>`).join('')}</tr></tfoot>
 </table>`;
+}
+
+/** A bin holding less than this fraction of all detections is left out at either end (as in the text table). */
+const OBSERVED_FLOOR = 1e-4;
+
+/**
+ * The populations' windows differ (breakdown "observed"): one row per population over its own
+ * window and the total; the detections per bin of the observed value with each population's share
+ * (the interloper fraction); then each population's own redshift slices.
+ */
+function populationsTables(p: PredictionJson, variable: string | undefined, quantity?: string): string {
+  const pops = p.populations ?? [];
+  const all = p.totals.count;
+  const share = (n: number) => (all > 0 ? percent(n / all) : '');
+  const pm = (n: number, u: { total_fraction: number } | undefined) => (typeof u?.total_fraction === 'number' ? `± ${formatNumber(n * u.total_fraction, 3)}` : '');
+  const rows = pops
+    .map((q) => {
+      const cells = [
+        escapeHtml(q.name),
+        `${formatZ(q.window.min)}–${formatZ(q.window.max)}`,
+        formatScientific(q.totals.volume_mpc3),
+        formatNumber(q.totals.count),
+        pm(q.totals.count, q.totals.uncertainty),
+        formatNumber(q.totals.per_deg2),
+        share(q.totals.count),
+      ];
+      return `<tr>${cells.map((c) => `<td>${c}</td>`).join('')}</tr>`;
+    })
+    .join('\n');
+  const total = ['all', '', formatScientific(p.totals.volume_mpc3), formatNumber(all), pm(all, p.totals.uncertainty), formatNumber(p.totals.per_deg2), all > 0 ? '100.0%' : ''];
+  const heads = ['population', 'window<br><span class="unit">z</span>', 'volume<br><span class="unit">Mpc³</span>', 'count', '± 1σ<br><span class="unit">count</span>', 'per deg²', 'share'];
+  let out = `<table class="numbers" id="populations-table">
+<thead><tr>${heads.map((h) => `<th scope="col">${h}</th>`).join('')}</tr></thead>
+<tbody>
+${rows}
+</tbody>
+<tfoot><tr>${total.map((c) => `<td>${c}</td>`).join('')}</tr></tfoot>
+</table>`;
+  const o = p.observed_bins;
+  if (o && o.bins.length > 0) {
+    const names = pops.map((q) => q.name);
+    let a = 0;
+    let z = o.bins.length;
+    while (a < z && !(o.bins[a]!.count >= OBSERVED_FLOOR * all)) a++;
+    while (z > a && !(o.bins[z - 1]!.count >= OBSERVED_FLOOR * all)) z--;
+    const label = o.variable === 'log10_line_flux' ? 'log₁₀ line flux<br><span class="unit">erg s⁻¹ cm⁻²</span>' : o.variable === 'apparent_magnitude' ? 'apparent magnitude<br><span class="unit">AB mag</span>' : escapeHtml(o.variable);
+    const binRows = o.bins
+      .slice(a, z)
+      .map((b) => {
+        const cells = [
+          `${formatFixed(b.min, 2)} to ${formatFixed(b.max, 2)}`,
+          ...names.map((n) => formatNumber(b.populations[n]?.count ?? 0)),
+          formatNumber(b.count),
+          ...names.map((n) => (b.count > 0 ? percent(b.populations[n]?.share) : '')),
+        ];
+        return `<tr>${cells.map((c) => `<td>${c}</td>`).join('')}</tr>`;
+      })
+      .join('\n');
+    const binHeads = [label, ...names.map((n) => escapeHtml(n)), 'all', ...names.map((n) => `share of ${escapeHtml(n)}`)];
+    out += `
+<h3>Detections per bin of the observed value: the interloper fraction</h3>
+<table class="numbers" id="observed-table">
+<thead><tr>${binHeads.map((h) => `<th scope="col">${h}</th>`).join('')}</tr></thead>
+<tbody>
+${binRows}
+</tbody></table>
+<p class="note">Every population over its own redshift window; bins holding less than ${100 * OBSERVED_FLOOR}% of the detections at either end are left out.</p>`;
+  }
+  pops.forEach((q, k) => {
+    out += `\n<h3>${escapeHtml(q.name)}: its own redshift slices</h3>\n${predictTable({ ...p, redshift: q.window, totals: q.totals, slices: q.slices }, variable, quantity, `predict-table-${k + 1}`)}`;
+  });
+  return out;
 }
 
 function forecastTables(f: ForecastJson): string {
@@ -468,7 +540,9 @@ export function renderReport(input: ReportInput): string {
       (typeof c.t_cmb === 'number' && c.t_cmb > 0 ? `, T_CMB = ${formatNumber(c.t_cmb)} K` : '')
     : '';
   const window = p.redshift ? `redshift ${formatZ(p.redshift.min)}–${formatZ(p.redshift.max)}` : '';
-  const summary = [`area ${formatNumber(p.area_deg2)} deg²`, window, `${p.slices.length} slices`, cosmo]
+  const observed = p.breakdown === 'observed';
+  const layout = observed ? `${(p.populations ?? []).length} populations, each in its own redshift window` : `${p.slices.length} slices`;
+  const summary = [`area ${formatNumber(p.area_deg2)} deg²`, window, layout, cosmo]
     .filter((s) => s)
     .join('; ');
   const totalU = p.totals.uncertainty?.total_fraction;
@@ -527,8 +601,8 @@ ${warningSection}${modelSection}
 <pre class="survey">${escapeHtml(input.surveyText)}</pre>
 </section>
 <section id="predict">
-<h2>Expected counts per redshift slice</h2>
-${predictTable(p, modelVariable(models), quantityOf(models[0]))}
+<h2>${observed ? 'Expected counts of every population' : 'Expected counts per redshift slice'}</h2>
+${observed ? populationsTables(p, modelVariable(models), quantityOf(models[0])) : predictTable(p, modelVariable(models), quantityOf(models[0]))}
 <p class="note">Counts are expected numbers of detected sources, not rounded. The limit is given at each slice's middle redshift.</p>
 </section>
 ${section('forecast', 'Forecast', input.forecast ? forecastTables(input.forecast) : undefined, input.forecastOmitted)}

@@ -83,8 +83,15 @@ export interface PredictionJson {
   area_deg2: number;
   redshift?: { min: number; max: number };
   totals: { count: number; per_deg2: number; volume_mpc3: number; uncertainty?: UncertaintyJson };
+  /** Redshift slices (empty when the populations' windows differ: breakdown "observed"). */
   slices: SliceJson[];
   model?: ModelDescription | ModelDescription[];
+  /** Which breakdown of the totals the slices hold: "redshift", or "observed" (see observed_bins). */
+  breakdown?: 'redshift' | 'observed';
+  /** Several populations: each one's own result over its own window. */
+  populations?: { name: string; window: { min: number; max: number }; totals: PredictionJson['totals']; slices: SliceJson[] }[];
+  /** Per bin of the observed value, every population's count and share. */
+  observed_bins?: ObservedBinsJson;
 }
 
 export interface ForecastJson {
@@ -141,4 +148,12 @@ export interface Figure {
   spec: Record<string, unknown>;
   /** The rendered SVG document. */
   svg: string;
+}
+
+/** Per bin of the observed value, every population's count and share (predict's observed_bins). */
+export interface ObservedBinsJson {
+  /** apparent_magnitude | log10_line_flux | log10_quantity | absolute_magnitude. */
+  variable: string;
+  width: number;
+  bins: { min: number; max: number; count: number; populations: Record<string, { count: number; share: number }> }[];
 }

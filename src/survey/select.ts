@@ -18,3 +18,22 @@ export function populationByName(survey: Survey, name?: string, option = '--popu
   const names = survey.populations.map((p) => `"${p.name}"`).join(', ');
   throw inputError('bad_option', survey.file, option, `there is no population named "${name}"`, `use one of ${names}`);
 }
+
+/**
+ * The survey as a file holding `population` alone would load: the same sky, cosmology, detection
+ * and histogram width, with that population's own window and slice edges. Forecast, compare and
+ * plan work on this view, so that a population of a several-population file gets exactly the
+ * numbers of a file that describes it alone (same filter, same limit). The population object is
+ * shared, not copied. A survey of one population is returned as it is.
+ */
+export function surveyForPopulation(survey: Survey, population: Population): Survey {
+  if (survey.populations.length === 1 && survey.populations[0] === population) return survey;
+  if (!survey.populations.includes(population)) throw new Error(`internal: "${population.name}" is not a population of this survey`);
+  const edges = population.sliceEdges;
+  return {
+    ...survey,
+    redshift: { min: edges[0]!, max: edges[edges.length - 1]! },
+    populations: [population],
+    sliceEdges: edges,
+  };
+}

@@ -83,6 +83,20 @@ export interface HaloModel {
    * 1e6 and 1e16 Msun.
    */
   matchHaloMass(densityMpc3: number, z: number, occupation: number): HaloMatch;
+  /**
+   * Abundance matching at one redshift for many densities: n(>M) and the bias-weighted integral
+   * tabulated once on 0.25-wide panels in ln M from 1e6 Msun up (8-point Gauss-Legendre each, as
+   * haloDensityAboveMpc3), then each match solves inside one panel. The returned function gives the
+   * match for a halo density (galaxy density / occupation), or the bound it is held at
+   * (`held`: 'min' when the density exceeds that of all haloes above 1e6 Msun, 'max' when it is
+   * below that of haloes above 1e16 Msun). Agrees with matchHaloMass to ~1e-9. `massForBias` is
+   * the inverse of effectiveBiasAbove on the same table: the mass whose haloes above it have the
+   * given effective bias, undefined outside what masses from 1e6 to 1e16 Msun give.
+   */
+  matcherAt(z: number): {
+    match(haloDensityMpc3: number): HaloMatch & { held?: 'min' | 'max' };
+    massForBias(bias: number): number | undefined;
+  };
 }
 
 function checkMass(m: number, who: string): void {
@@ -139,6 +153,50 @@ export function createHaloModel(power: LinearPower): HaloModel {
       if (pn * h <= 1e-13 * n || (n === 0 && pn === 0)) break;
     }
     return { n, nb };
+  };
+
+  /** ∫_a^b dn/dlnM (1, b) dln M by one 8-point Gauss-Legendre panel (b - a <= PANEL). */
+  const panel = (a: number, b: number, d: number): { n: number; nb: number } => {
+    const { x, w } = gaussLegendre(8);
+    const c = 0.5 * (a + b);
+    const h = 0.5 * (b - a);
+    let n = 0;
+    let nb = 0;
+    for (let i = 0; i < 8; i++) {
+      const r = perLnM(c + h * x[i]!, d);
+      n += w[i]! * r.n;
+      nb += w[i]! * r.n * shethTormenBias(r.nu);
+    }
+    return { n: n * h, nb: nb * h };
+  };
+
+  /**
+   * The panels of matcherAt (0.25 wide in ln M from 1e6 Msun to the table's top) and, at their
+   * 8-point Gauss-Legendre nodes, sigma(M, 0) and the weight (rho / M) |d ln sigma / d ln M| times
+   * the panel's quadrature weight: dn/dlnM = weight f(nu) nu, nu = delta_c / (sigma d).
+   */
+  let grid: { edges: number[]; nodes: { sigma0: Float64Array; weight: Float64Array } } | undefined;
+  const matchGrid = () => {
+    if (grid) return grid;
+    const edges: number[] = [];
+    for (let e = Math.log(MATCH_MASS_MIN_MSUN); e < LN_M_TABLE_MAX; e += PANEL) edges.push(e);
+    edges.push(LN_M_TABLE_MAX);
+    const m = edges.length - 1;
+    const sigma0 = new Float64Array(8 * m);
+    const weight = new Float64Array(8 * m);
+    const { x, w } = gaussLegendre(8);
+    const s = spline();
+    for (let i = 0; i < m; i++) {
+      const c = 0.5 * (edges[i]! + edges[i + 1]!);
+      const h = 0.5 * (edges[i + 1]! - edges[i]!);
+      for (let k = 0; k < 8; k++) {
+        const lnM = c + h * x[k]!;
+        sigma0[8 * i + k] = Math.exp(splineEval(s, lnM));
+        weight[8 * i + k] = w[k]! * h * (rho / Math.exp(lnM)) * -splineDerivative(s, lnM);
+      }
+    }
+    grid = { edges, nodes: { sigma0, weight } };
+    return grid;
   };
 
   const model: HaloModel = {
@@ -211,6 +269,71 @@ export function createHaloModel(power: LinearPower): HaloModel {
       const lnM = brentRoot(g, lnLo, lnHi, 1e-9);
       const r = above(lnM, d);
       return { haloMassMinMsun: Math.exp(lnM), bias: r.nb / r.n };
+    },
+    matcherAt(z) {
+      checkZ(z, 'matcherAt');
+      const d = power.growth(z);
+      const lnLo = Math.log(MATCH_MASS_MIN_MSUN);
+      const lnHi = Math.log(MATCH_MASS_MAX_MSUN);
+      const { edges, nodes } = matchGrid();
+      const m = edges.length - 1;
+      // Cumulative sums from the top down; at the grid's nodes only the peak height depends on z.
+      const cumN = new Float64Array(m + 1);
+      const cumB = new Float64Array(m + 1);
+      for (let i = m - 1; i >= 0; i--) {
+        let pn = 0;
+        let pb = 0;
+        for (let k = 8 * i; k < 8 * i + 8; k++) {
+          const nu = DELTA_C / (nodes.sigma0[k]! * d);
+          const n = nodes.weight[k]! * shethTormenMultiplicity(nu) * nu;
+          pn += n;
+          pb += n * shethTormenBias(nu);
+        }
+        cumN[i] = cumN[i + 1]! + pn;
+        cumB[i] = cumB[i + 1]! + pb;
+      }
+      /** n(>M) and nb(>M) at ln M inside panel i. */
+      const at = (lnM: number, i: number): { n: number; nb: number } => {
+        const r = lnM < edges[i + 1]! ? panel(lnM, edges[i + 1]!, d) : { n: 0, nb: 0 };
+        return { n: cumN[i + 1]! + r.n, nb: cumB[i + 1]! + r.nb };
+      };
+      const panelOf = (lnM: number) => Math.min(m - 1, Math.max(0, Math.floor((lnM - lnLo) / PANEL)));
+      const top = at(lnHi, panelOf(lnHi));
+      const match = (target: number): HaloMatch & { held?: 'min' | 'max' } => {
+        if (!(target > 0) || !Number.isFinite(target)) throw new RangeError(`matcherAt: halo density must be a positive finite number per Mpc^3, got ${target}`);
+        if (target >= cumN[0]!) return { haloMassMinMsun: MATCH_MASS_MIN_MSUN, bias: cumB[0]! / cumN[0]!, held: 'min' };
+        if (target <= top.n) return { haloMassMinMsun: MATCH_MASS_MAX_MSUN, bias: top.nb / top.n, held: 'max' };
+        // the panel whose cumulative range holds the target: cumN[i] >= target > cumN[i + 1]
+        let lo = 0;
+        let hi = m;
+        while (hi - lo > 1) {
+          const mid = (lo + hi) >> 1;
+          if (cumN[mid]! >= target) lo = mid;
+          else hi = mid;
+        }
+        const i = lo;
+        const lnTarget = Math.log(target);
+        const a = edges[i]!;
+        const b = Math.min(edges[i + 1]!, lnHi);
+        const lnM = brentRoot((x) => Math.log(at(x, i).n) - lnTarget, a, b, 1e-9);
+        const r = at(lnM, i);
+        return { haloMassMinMsun: Math.exp(lnM), bias: r.nb / r.n };
+      };
+      const massForBias = (bias: number): number | undefined => {
+        // the effective bias above M grows with M: at panel edges it is cumB / cumN
+        const hiEdge = panelOf(lnHi);
+        const edgeBias = (i: number) => cumB[i]! / cumN[i]!;
+        if (!(bias >= edgeBias(0)) || !(bias <= top.nb / top.n)) return undefined;
+        let i = 0;
+        while (i < hiEdge && edgeBias(i + 1) < bias) i++;
+        const b = Math.min(edges[i + 1]!, lnHi);
+        const f = (x: number) => {
+          const r = at(x, i);
+          return r.nb / r.n - bias;
+        };
+        return Math.exp(brentRoot(f, edges[i]!, b, 1e-9));
+      };
+      return { match, massForBias };
     },
   };
   modelCache.set(power, model);

@@ -51,7 +51,14 @@ describe.each(SAMPLES)('%s: figures draw the numbers of predict --format json', 
   const dir = tmp();
   const figDir = join(dir, 'figures');
   const out = join(dir, 'report.html');
-  let p: { title: string; slices: Slice[]; populations: { slices: Slice[] }[] };
+  let p: {
+    title: string;
+    breakdown: 'redshift' | 'observed';
+    slices?: Slice[];
+    populations: { name: string; slices: Slice[] }[];
+    totals: { count: number };
+    observed_bins: { bins: { min: number; max: number; count: number; populations: Record<string, { count: number; share: number }> }[] };
+  };
   let html = '';
 
   test('report --out and --figures succeed; predict JSON read', async () => {
@@ -65,17 +72,21 @@ describe.each(SAMPLES)('%s: figures draw the numbers of predict --format json', 
     p = JSON.parse(j.stdout);
   });
 
+  /** The counts figures: the top-level slices, or each population's own when their windows differ. */
+  const countsFigures = (): [string, Slice[]][] =>
+    p.breakdown === 'observed' ? p.populations.map((q, k) => [`counts-${k + 1}`, q.slices]) : [['counts', p.slices!]];
+
   test('counts: each bar is a slice (z_min, z_max, count); error bars are count (1 -/+ total_fraction)', () => {
-    for (const svg of [readFileSync(join(figDir, 'counts.svg'), 'utf8'), figureInHtml(html, 'counts')]) {
+    for (const [name, slices] of countsFigures()) for (const svg of [readFileSync(join(figDir, `${name}.svg`), 'utf8'), figureInHtml(html, name)]) {
       const bars = marks(svg, 'bar');
-      expect(bars).toHaveLength(p.slices.length);
-      p.slices.forEach((s, i) => {
+      expect(bars).toHaveLength(slices.length);
+      slices.forEach((s, i) => {
         expect(close(num(bars[i]!.z_min!), s.z_min)).toBe(true);
         expect(close(num(bars[i]!.z_max!), s.z_max)).toBe(true);
         expect(close(num(bars[i]!['expected count per slice']!), s.count), `slice ${i + 1} count`).toBe(true);
       });
       const errs = marks(svg, 'errorbar');
-      const withU = p.slices.filter((s) => s.uncertainty);
+      const withU = slices.filter((s) => s.uncertainty);
       expect(errs).toHaveLength(withU.length);
       withU.forEach((s, i) => {
         expect(close(num(errs[i]!.low!), Math.max(0, s.count * (1 - s.uncertainty!.total_fraction)))).toBe(true);
@@ -97,13 +108,18 @@ describe.each(SAMPLES)('%s: figures draw the numbers of predict --format json', 
       while (hi > lo && tail + counts[hi]! <= 1e-3 * total) tail += counts[hi--]!;
       return [lo, hi] as const;
     };
-    const expected = p.slices.flatMap((s) => {
+    if (p.breakdown === 'observed') {
+      // no top-level redshift slices: the shares figure shows the observed values instead
+      expect(existsSync(join(figDir, 'histograms.svg'))).toBe(false);
+      return;
+    }
+    const expected = p.slices!.flatMap((s) => {
       const [lo, hi] = kept(s.histogram.counts);
       const left = s.histogram.counts.filter((_, k) => k < lo || k > hi).reduce((a, c) => a + c, 0);
       expect(left).toBeLessThanOrEqual(2e-3 * s.count);
       return s.histogram.counts.slice(lo, hi + 1).map((c, k) => ({ lo: s.histogram.edges[lo + k]!, hi: s.histogram.edges[lo + k + 1]!, c }));
     });
-    const width = Number((p.slices[0]!.histogram.edges[1]! - p.slices[0]!.histogram.edges[0]!).toPrecision(6));
+    const width = Number((p.slices![0]!.histogram.edges[1]! - p.slices![0]!.histogram.edges[0]!).toPrecision(6));
     for (const svg of [readFileSync(join(figDir, 'histograms.svg'), 'utf8'), figureInHtml(html, 'histograms')]) {
       const bars = marks(svg, 'bar');
       expect(bars).toHaveLength(expected.length);
@@ -124,12 +140,47 @@ describe.each(SAMPLES)('%s: figures draw the numbers of predict --format json', 
     // the first is the first population over its own slices.
     const single = existsSync(join(figDir, 'luminosity-function.svg'));
     const svg = readFileSync(join(figDir, single ? 'luminosity-function.svg' : 'luminosity-function-1.svg'), 'utf8');
-    const slices = single ? p.slices : p.populations[0]!.slices;
+    const slices = single ? p.slices! : p.populations[0]!.slices;
     expect(marks(svg, 'line mark').length).toBe(slices.length);
     // rules in order: per panel the limit then the knee
     const rules = marks(svg, 'rule mark').map((r) => num(r.x!));
     expect(rules).toHaveLength(2 * slices.length);
     slices.forEach((s, i) => expect(close(rules[2 * i]!, s.limit_at_center), `slice ${i + 1} limit`).toBe(true));
+  });
+
+  test('shares (several populations): stacked bars and share points are observed_bins, bin by bin', () => {
+    if (p.populations.length < 2) {
+      expect(existsSync(join(figDir, 'shares.svg'))).toBe(false);
+      return;
+    }
+    // the figure leaves out the bins at either end holding under 1e-4 of all detections
+    const kept = p.observed_bins.bins.filter((b, i, all) => {
+      const floor = 1e-4 * all.reduce((a, x) => a + x.count, 0);
+      return all.slice(0, i + 1).some((x) => x.count >= floor) && all.slice(i).some((x) => x.count >= floor);
+    });
+    const names = p.populations.map((q) => q.name);
+    for (const svg of [readFileSync(join(figDir, 'shares.svg'), 'utf8'), figureInHtml(html, 'shares')]) {
+      const bars = marks(svg, 'bar');
+      const points = marks(svg, 'point');
+      expect(bars).toHaveLength(kept.length * names.length);
+      expect(points).toHaveLength(kept.length * names.length);
+      // marks found by population and bin (vega may draw them in another order)
+      const at = (list: Record<string, string>[], n: string, key: string, x: number) => {
+        const found = list.filter((m) => m.population === n && close(num(m[key]!), x));
+        expect(found, `${n} at ${x}`).toHaveLength(1);
+        return found[0]!;
+      };
+      for (const b of kept) {
+        let below = 0;
+        for (const n of names) {
+          const bar = at(bars, n, 'min', b.min);
+          expect(close(num(bar.below!), below)).toBe(true);
+          expect(close(num(bar['expected detections per bin']!), below + b.populations[n]!.count), `bin ${b.min} ${n}`).toBe(true);
+          below += b.populations[n]!.count;
+          at(points, n, 'bin middle', 0.5 * (b.min + b.max));
+        }
+      }
+    }
   });
 
   test('the report states the assumed model and its warning, and shows the file as written', () => {

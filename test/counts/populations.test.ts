@@ -58,9 +58,9 @@ describe('two populations in one file = two files with one population each (exac
   test.each([0, 1])('population %i: same slices, counts, histograms, densities', (i) => {
     const alone = predict(loadSurveyText(single(NB, i), 'nb.yaml'));
     const mine = both.populations[i]!;
-    expect(mine.slices.map((s) => [s.z_min, s.z_max])).toEqual(alone.slices.map((s) => [s.z_min, s.z_max]));
-    expect(mine.slices.map((s) => s.count)).toEqual(alone.slices.map((s) => s.count));
-    expect(mine.slices.map((s) => s.histogram)).toEqual(alone.slices.map((s) => s.histogram));
+    expect(mine.slices.map((s) => [s.z_min, s.z_max])).toEqual(alone.slices!.map((s) => [s.z_min, s.z_max]));
+    expect(mine.slices.map((s) => s.count)).toEqual(alone.slices!.map((s) => s.count));
+    expect(mine.slices.map((s) => s.histogram)).toEqual(alone.slices!.map((s) => s.histogram));
     expect(mine.totals).toEqual(alone.totals);
   });
 
@@ -71,59 +71,82 @@ describe('two populations in one file = two files with one population each (exac
     expect(ha!.slices.map((s) => s.z_min)).toEqual([0.38, 0.4]);
     expect(o3!.slices.map((s) => s.z_min)).toEqual([0.38, 0.4]);
     const alone = predict(loadSurveyText(single(text, 0), 'nb.yaml'));
-    expect(ha!.slices.map((s) => s.count)).toEqual(alone.slices.map((s) => s.count));
-    // [OIII] lies at z ~ 0.84, outside the edges: it counts 0 there, a warning says so, and the
-    // interloper view still covers its whole window.
+    expect(ha!.slices.map((s) => s.count)).toEqual(alone.slices!.map((s) => s.count));
+    // [OIII] lies at z ~ 0.84, outside the edges: it counts 0 there and a warning says so; the
+    // top level (its windows differ) is broken down by observed flux, which holds only H-alpha.
     expect(o3!.totals.count).toBe(0);
     expect(p.warnings.some((w) => w.code === 'population_outside_slices' && w.message.startsWith('oiii:'))).toBe(true);
-    expect(p.observed_shares.counts.oiii!.reduce((a, x) => a + x, 0)).toBeGreaterThan(0);
+    expect(p.breakdown).toBe('observed');
+    expect(p.observed_bins.bins.reduce((a, b) => a + b.populations.oiii!.count, 0)).toBe(0);
+    expect(rel(p.totals.count, ha!.totals.count)).toBeLessThan(1e-12);
   });
 
   test('explicit edges spanning both windows: each line counts where its window lies', () => {
     const text = NB.replace('slices: {count: 3}', 'slices: {edges: [0.39, 0.40, 0.41, 0.83, 0.85]}');
     const p = predict(loadSurveyText(text, 'nb.yaml'));
-    expect(p.slices[1]!.population_counts!.halpha).toBeGreaterThan(0);
-    expect(p.slices[1]!.population_counts!.oiii).toBe(0);
-    expect(p.slices[3]!.population_counts!.oiii).toBeGreaterThan(0);
-    expect(p.slices[3]!.population_counts!.halpha).toBe(0);
-    // with the same edges for everyone, the top-level total is the plain sum of population totals
-    expect(rel(p.totals.count, p.all_populations.count)).toBeLessThan(1e-12);
+    const [ha, o3] = p.populations;
+    expect(ha!.slices[1]!.count).toBeGreaterThan(0);
+    expect(o3!.slices[1]!.count).toBe(0);
+    expect(o3!.slices[3]!.count).toBeGreaterThan(0);
+    expect(ha!.slices[3]!.count).toBe(0);
+    // the total is the plain sum of the population totals
+    expect(rel(p.totals.count, ha!.totals.count + o3!.totals.count)).toBeLessThan(1e-12);
   });
 });
 
-describe('top level, all_populations and observed_shares (bookkeeping identities)', () => {
+describe('top-level totals: everything detected, each population over its own window (bookkeeping identities)', () => {
   const p = predict(loadSurveyText(NB, 'nb.yaml'));
-  test('slices follow the first population; interlopers at other redshifts add nothing there', () => {
-    expect(p.redshift).toEqual(p.populations[0]!.window);
-    p.slices.forEach((s, i) => {
-      expect(s.population_counts).toEqual({ halpha: p.populations[0]!.slices[i]!.count, oiii: 0 });
-      expect(s.count).toBe(p.populations[0]!.slices[i]!.count);
-    });
-  });
-  test('all_populations is the plain sum of population totals; the top-level total is no larger', () => {
+  test('lines at other redshifts: totals are the sum of the populations; no top-level redshift slices', () => {
+    expect(p.breakdown).toBe('observed');
+    expect(p.slices).toBeUndefined();
     const sum = p.populations.reduce((a, q) => a + q.totals.count, 0);
-    expect(p.all_populations.count).toBe(sum);
-    expect(p.all_populations.per_deg2).toBeCloseTo(sum / p.area_deg2, 10);
-    expect(p.totals.count).toBeLessThan(sum);
+    expect(rel(p.totals.count, sum)).toBeLessThan(1e-12);
+    expect(p.totals.per_deg2).toBeCloseTo(sum / p.area_deg2, 10);
+    expect(p.redshift.min).toBe(p.populations[0]!.window.min);
+    expect(p.redshift.max).toBe(p.populations[1]!.window.max);
+    // the volume is that of the two windows together (they do not overlap)
+    expect(rel(p.totals.volume_mpc3, p.populations[0]!.totals.volume_mpc3 + p.populations[1]!.totals.volume_mpc3)).toBeLessThan(1e-9);
   });
-  test('observed_shares: counts sum to each population total; shares sum to 1 where the total > 0', () => {
-    const o = p.observed_shares;
+  test('observed_bins: each population sums to its total, the bins to the total; shares sum to 1 where a bin holds sources', () => {
+    const o = p.observed_bins;
     expect(o.variable).toBe('log10_line_flux');
-    for (const q of p.populations) {
-      const c = o.counts[q.name]!;
-      expect(c).toHaveLength(o.edges.length - 1);
-      expect(rel(c.reduce((a, x) => a + x, 0), q.totals.count)).toBeLessThan(1e-12);
-    }
-    for (let b = 0; b + 1 < o.edges.length; b++) {
-      const total = o.counts.halpha![b]! + o.counts.oiii![b]!;
-      const s = o.shares.halpha![b]! + o.shares.oiii![b]!;
-      for (const name of ['halpha', 'oiii']) {
-        expect(o.shares[name]![b]).toBeGreaterThanOrEqual(0);
-        expect(o.shares[name]![b]).toBeLessThanOrEqual(1);
+    expect(o.width).toBe(0.1);
+    for (const q of p.populations) expect(rel(o.bins.reduce((a, b) => a + b.populations[q.name]!.count, 0), q.totals.count)).toBeLessThan(1e-12);
+    expect(rel(o.bins.reduce((a, b) => a + b.count, 0), p.totals.count)).toBeLessThan(1e-12);
+    for (const b of o.bins) {
+      expect(b.max - b.min).toBeCloseTo(0.1, 9);
+      expect(b.per_deg2).toBeCloseTo(b.count / p.area_deg2, 12);
+      const shares = Object.values(b.populations).map((x) => x.share);
+      for (const f of shares) {
+        expect(f).toBeGreaterThanOrEqual(0);
+        expect(f).toBeLessThanOrEqual(1);
       }
-      if (total > 0) expect(s).toBeCloseTo(1, 12);
-      else expect(s).toBe(0);
+      if (b.count > 0) expect(shares.reduce((a, f) => a + f, 0)).toBeCloseTo(1, 12);
+      else expect(shares.every((f) => f === 0)).toBe(true);
     }
+  });
+  test('two galaxy types in one window: redshift slices holding both, summing to the total', () => {
+    const text = `
+cosmology: {h0: 70, omega_m: 0.3}
+area: 0.5
+redshift: {min: 0.5, max: 1.5}
+detection: {kind: magnitude, limit: 24, band: 8000}
+populations:
+  - {name: star-forming, variable: magnitude, phi_star: 2e-3, m_star: -21.0, alpha: -1.3}
+  - {name: quiescent, variable: magnitude, phi_star: 1e-3, m_star: -21.3, alpha: -0.6}
+slices: {count: 4}
+`;
+    const q = predict(loadSurveyText(text, 'two.yaml'));
+    expect(q.breakdown).toBe('redshift');
+    const slices = q.slices!;
+    expect(slices).toHaveLength(4);
+    slices.forEach((s, i) => {
+      expect(s.population_counts).toEqual({ 'star-forming': q.populations[0]!.slices[i]!.count, quiescent: q.populations[1]!.slices[i]!.count });
+      expect(rel(s.count, q.populations[0]!.slices[i]!.count + q.populations[1]!.slices[i]!.count)).toBeLessThan(1e-12);
+      expect(rel(s.histogram.counts.reduce((a, c) => a + c, 0), s.count)).toBeLessThan(1e-9);
+    });
+    expect(rel(slices.reduce((a, s) => a + s.count, 0), q.totals.count)).toBeLessThan(1e-12);
+    expect(rel(q.totals.count, q.populations[0]!.totals.count + q.populations[1]!.totals.count)).toBeLessThan(1e-12);
   });
   test('populationByName: by name, first by default, bad_option naming the valid names', () => {
     const s = loadSurveyText(NB, 'nb.yaml');
@@ -154,7 +177,7 @@ describe('luminosity density (closed forms)', () => {
     const p = predict(loadSurveyText(MASS(10.3, alpha), 'm.yaml'));
     const lStar = 10 ** 10.8;
     const u = 10 ** (10.3 - 10.8);
-    for (const ld of [...p.slices.map((s) => s.luminosity_density!), p.totals.luminosity_density!]) {
+    for (const ld of [...p.slices!.map((s) => s.luminosity_density!), p.totals.luminosity_density!]) {
       expect(rel(ld.detected, 2e-3 * lStar * upperGamma(alpha + 2, u))).toBeLessThan(1e-12);
       expect(rel(ld.total!, 2e-3 * lStar * gammaFn(alpha + 2))).toBeLessThan(1e-12);
       expect(ld.unit).toBe('stellar mass [Msun] Mpc^-3');
@@ -257,7 +280,7 @@ slices: {count: 3}
     const tab = predict(loadSurveyFile(writeSurvey(dir, 'tophat.yaml', base('{profile: table, file: tophat.csv}'))));
     const ana = predict(loadSurveyText(base('{center: 9200, fwhm: 110}'), 'x.yaml'));
     expect(rel(tab.totals.count, ana.totals.count)).toBeLessThan(1e-4);
-    tab.slices.forEach((s, i) => expect(rel(s.count, ana.slices[i]!.count)).toBeLessThan(1e-4));
+    tab.slices!.forEach((s, i) => expect(rel(s.count, ana.slices![i]!.count)).toBeLessThan(1e-4));
   });
   test('a tabulated gaussian (0.5 A steps, nanometre header) reproduces the analytic gaussian (1e-4)', () => {
     const sigma = 110 / (2 * Math.sqrt(2 * Math.LN2));
@@ -267,7 +290,7 @@ slices: {count: 3}
     const tab = predict(loadSurveyFile(writeSurvey(dir, 'gauss.yaml', base('{profile: table, file: gauss.csv}'))));
     const ana = predict(loadSurveyText(base('{center: 9200, fwhm: 110, profile: gaussian}'), 'x.yaml'));
     expect(rel(tab.totals.count, ana.totals.count)).toBeLessThan(1e-4);
-    tab.slices.forEach((s, i) => expect(rel(s.count, ana.slices[i]!.count)).toBeLessThan(1e-4));
+    tab.slices!.forEach((s, i) => expect(rel(s.count, ana.slices![i]!.count)).toBeLessThan(1e-4));
   });
   test.each([
     ['missing file', null, 'file_unreadable'],

@@ -57,7 +57,7 @@ describe('count engine invariants (fast-check)', () => {
         const t2 = Math.min(1, a.t + step);
         const p1 = predict(parseSurveyObject(surveyObject(a.kind, a.area, limitFor(a.kind, a.t), a.alpha, a.zmin, a.dz, a.slices), 'p.yaml'));
         const p2 = predict(parseSurveyObject(surveyObject(a.kind, a.area, limitFor(a.kind, t2), a.alpha, a.zmin, a.dz, a.slices), 'p.yaml'));
-        p1.slices.forEach((s, i) => expect(p2.slices[i]!.count).toBeGreaterThanOrEqual(s.count * (1 - 1e-12)));
+        p1.slices!.forEach((s, i) => expect(p2.slices![i]!.count).toBeGreaterThanOrEqual(s.count * (1 - 1e-12)));
       }),
       { numRuns: 40 },
     );
@@ -67,9 +67,9 @@ describe('count engine invariants (fast-check)', () => {
     fc.assert(
       fc.property(args, (a) => {
         const p = predict(parseSurveyObject(surveyObject(a.kind, a.area, limitFor(a.kind, a.t), a.alpha, a.zmin, a.dz, a.slices), 'p.yaml'));
-        const sum = p.slices.reduce((x, s) => x + s.count, 0);
+        const sum = p.slices!.reduce((x, s) => x + s.count, 0);
         expect(Math.abs(sum - p.totals.count)).toBeLessThanOrEqual(1e-12 * Math.max(1, p.totals.count));
-        for (const s of p.slices) {
+        for (const s of p.slices!) {
           const h = s.histogram.counts.reduce((x, c) => x + c, 0);
           expect(Math.abs(h - s.count)).toBeLessThanOrEqual(1e-9 * Math.max(1e-300, s.count));
           expect(s.histogram.edges.length).toBe(s.histogram.counts.length + 1);

@@ -150,9 +150,16 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
 
     test('every figure is present (counts, histograms, luminosity function) with a non-zero size', () => {
       const o = opened.get(name)!;
-      // Several populations: one luminosity-function figure each (luminosity-function-1, -2, ...).
-      expect(o.figureNames.slice(0, 2)).toEqual(['counts', 'histograms']);
-      expect(o.figureNames[2]).toMatch(/^luminosity-function(-1)?$/);
+      // Several populations: one luminosity-function figure each (luminosity-function-1, -2, ...)
+      // and the shares per observed bin; lines at other redshifts (the interloper sample): one
+      // counts figure per population and no top-level histograms.
+      if (name === 'narrowband-interlopers') {
+        expect(o.figureNames.slice(0, 4)).toEqual(['counts-1', 'counts-2', 'counts-3', 'luminosity-function-1']);
+        expect(o.figureNames).toContain('shares');
+      } else {
+        expect(o.figureNames.slice(0, 2)).toEqual(['counts', 'histograms']);
+        expect(o.figureNames[2]).toMatch(/^luminosity-function(-1)?$/);
+      }
       // every single-Schechter sample's report holds its forecast (the Fisher ellipses)
       if (!DOUBLE_SAMPLES.includes(name)) expect(o.figureNames).toContain('forecast');
       for (const b of o.figureBoxes) {

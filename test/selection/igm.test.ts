@@ -80,8 +80,8 @@ describe('IGM in the magnitude observer and predict', () => {
     const p0 = predict(loadSurveyText(HIGHZ.replace(', igm: madau1995', ''), 'igm.yaml'));
     expect(p.totals.count).toBeLessThan(p0.totals.count);
     // z = 5-5.5: the band (8500 A) is redward of Lyman alpha (1216 x 6.5 = 7904 A): no change.
-    expect(p.slices[0]!.count).toBe(p0.slices[0]!.count);
-    expect(p.slices[3]!.count).toBeLessThan(0.5 * p0.slices[3]!.count);
+    expect(p.slices![0]!.count).toBe(p0.slices![0]!.count);
+    expect(p.slices![3]!.count).toBeLessThan(0.5 * p0.slices![3]!.count);
     expect(p.warnings).toHaveLength(1);
     expect(p.warnings[0]!.code).toBe('band_blueward_of_lyman_alpha');
     expect(p.warnings[0]!.message).toMatch(/z > 5\.99/);

@@ -105,3 +105,23 @@ describe('abundance matching (Trenti & Stiavelli 2008, ApJ 676, 767)', () => {
     expect(() => haloes.matchHaloMass(0, 2, 1)).toThrow(RangeError);
   });
 });
+
+describe('the tabulated matcher (matcherAt) against the direct one (internal consistency)', () => {
+  it('matches the same halo mass and bias as matchHaloMass (1e-8), holds at the bounds, and inverts the effective bias (1e-8)', () => {
+    for (const z of [0, 0.8, 3, 6]) {
+      const m = haloes.matcherAt(z);
+      for (const density of [1e-1, 1e-3, 1e-5, 1e-7]) {
+        const direct = haloes.matchHaloMass(density, z, 1);
+        const table = m.match(density);
+        expect(table.held).toBeUndefined();
+        expect(relErr(table.haloMassMinMsun, direct.haloMassMinMsun)).toBeLessThan(1e-8);
+        expect(relErr(table.bias, direct.bias)).toBeLessThan(1e-8);
+        // the mass whose haloes above it have this bias is the matched mass
+        expect(relErr(m.massForBias(direct.bias)!, direct.haloMassMinMsun)).toBeLessThan(1e-8);
+      }
+      expect(m.match(1e6).held).toBe('min');
+      expect(m.match(0.5 * haloes.haloDensityAboveMpc3(1e16, z)).held).toBe('max');
+      expect(m.massForBias(0.01)).toBeUndefined();
+    }
+  });
+});

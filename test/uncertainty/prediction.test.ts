@@ -36,7 +36,7 @@ describe('predict uncertainty', () => {
   test.each(SAMPLES)('%s: every slice and the total carry a valid uncertainty block (schema)', (f) => {
     const p = predict(loadSurveyFile(f));
     expect(validate(p), JSON.stringify(validate.errors)).toBe(true);
-    for (const s of [...p.slices, p.totals]) {
+    for (const s of [...p.slices!, p.totals]) {
       const u = s.uncertainty!;
       expect(u.poisson_fraction).toBe(1 / Math.sqrt(s.count));
       expect(u.total_fraction).toBeCloseTo(Math.hypot(u.poisson_fraction, u.cosmic_variance_fraction), 14);
@@ -44,15 +44,27 @@ describe('predict uncertainty', () => {
     }
   });
 
+  test.each(['samples/narrowband-interlopers.yaml', 'samples/double-schechter-mass.yaml'])(
+    '%s: valid against the schema; observed breakdown without slices, redshift breakdown with them',
+    (f) => {
+      const p = predict(loadSurveyFile(f));
+      expect(validate(p), JSON.stringify(validate.errors)).toBe(true);
+      expect(p.breakdown === 'redshift').toBe(p.slices !== undefined);
+      // the schema refuses slices beside breakdown observed, and their absence beside redshift
+      const wrong = p.breakdown === 'observed' ? { ...p, slices: p.populations[0]!.slices } : { ...p, slices: undefined };
+      expect(validate(JSON.parse(JSON.stringify(wrong)))).toBe(false);
+    },
+  );
+
   test('a given bias is used as given; independent fields divide the variance by their number', () => {
     const one = predict(survey({}, { bias: 2.5 }));
-    expect(one.slices[0]!.uncertainty!.bias).toBe(2.5);
-    expect(one.slices[0]!.uncertainty!.halo_mass_min_msun).toBeUndefined();
+    expect(one.slices![0]!.uncertainty!.bias).toBe(2.5);
+    expect(one.slices![0]!.uncertainty!.halo_mass_min_msun).toBeUndefined();
     // Same total area in 4 fields: each box has half the sides; the fraction is b sigma(small box)/2.
     const four = predict(survey({ field: { aspect: 1, count: 4 } }, { bias: 2.5 }));
-    const u4 = four.slices[0]!.uncertainty!;
+    const u4 = four.slices![0]!.uncertainty!;
     expect(u4.cosmic_variance_fraction).toBeCloseTo((2.5 * u4.sigma_matter) / 2, 14);
-    expect(u4.sigma_matter).toBeGreaterThan(one.slices[0]!.uncertainty!.sigma_matter);
+    expect(u4.sigma_matter).toBeGreaterThan(one.slices![0]!.uncertainty!.sigma_matter);
   });
 
   test('auto bias: abundance-matched halo mass rises and bias grows with a brighter limit (Sheth-Tormen; common practice)', () => {

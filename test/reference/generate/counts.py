@@ -228,14 +228,19 @@ def survey_model(doc, pop):
     if kind == 'line_flux':
         line = float(pop.get('line', det.get('line'))); flim = float(det['limit'])
         filt = det.get('filter')
-        center, fwhm = float(filt['center']), float(filt['fwhm'])
-        gauss = filt.get('profile') == 'gaussian'
-        half = 1.5 * fwhm if gauss else fwhm / 2
-        zlo, zhi = (center - half) / line - 1, (center + half) / line - 1
-        sigma = fwhm / (2 * math.sqrt(2 * math.log(2)))
-        def trans(z):
-            d = line * (1 + z) - center
-            return math.exp(-d * d / (2 * sigma * sigma)) if gauss else 1.0
+        if filt is None:
+            # no filter: the redshift key is the window, transmission 1
+            zlo, zhi = doc['redshift']['min'], doc['redshift']['max']
+            trans = lambda z: 1.0
+        else:
+            center, fwhm = float(filt['center']), float(filt['fwhm'])
+            gauss = filt.get('profile') == 'gaussian'
+            half = 1.5 * fwhm if gauss else fwhm / 2
+            zlo, zhi = (center - half) / line - 1, (center + half) / line - 1
+            sigma = fwhm / (2 * math.sqrt(2 * math.log(2)))
+            def trans(z):
+                d = line * (1 + z) - center
+                return math.exp(-d * d / (2 * sigma * sigma)) if gauss else 1.0
         def obs_of(z):
             # obs = log10 measured flux = log10(L T / (4 pi D_L^2)); returns (a, slope) with obs = a + slope log10(L/L*)
             dl = cosmo.luminosity_distance(z).to(u.Mpc).value * MPC_CM
@@ -302,34 +307,39 @@ def slice_edges(doc, m):
     while e[-1] + w < zhi - 1e-9: e.append(e[-1] + w)
     e.append(zhi); return e
 
-out = {
-    "header": {
-        "command": "/usr/bin/python3 test/reference/generate/counts.py > test/reference/counts.json",
-        "libraries": {"astropy": astropy.__version__, "scipy": scipy.__version__, "mpmath": mpmath.__version__, "numpy": np.__version__},
-        "date": datetime.date.today().isoformat(),
-        "what": "expected counts per slice (and a few histogram bins) for invented surveys, integrated independently",
-    },
-    "cases": [],
-}
-for name, text in CASES.items():
-    doc = num(yaml.safe_load(text))
-    models = survey_models(doc)
-    m = models[0]  # the top-level slices follow the first population's window
-    edges = slice_edges(doc, m)
-    slices = [{"z_min": float(a), "z_max": float(b), "count": count_all(models, a, b)} for a, b in zip(edges[:-1], edges[1:])]
-    # a few histogram bins of the first slice: the bins nearest the limit
-    w = doc.get('histogram', {}).get('width')
-    a0, slope, olim = m['obs_of'](0.5 * (edges[0] + edges[1]))
-    k = math.floor(olim / w + 1e-9)
-    ks = [k - 1, k - 2, k - 3] if slope > 0 else [k, k - 1, k - 2, k - 4]
-    bins = [{"lo": round(kk * w, 10), "hi": round((kk + 1) * w, 10), "count": count_all(models, edges[0], edges[1], kk * w, (kk + 1) * w)} for kk in ks]
-    case = {"name": name, "yaml": text, "slices": slices, "total": sum(s["count"] for s in slices), "first_slice_bins": bins}
-    if len(models) > 1:
-        # each population's own result: the same slices rule over its own window
-        case["populations"] = []
-        for mp in models:
-            e = slice_edges(doc, mp)
-            case["populations"].append({"window": list(mp['window']), "slices": [{"z_min": float(a), "z_max": float(b), "count": count(mp, a, b)} for a, b in zip(e[:-1], e[1:])]})
-    out["cases"].append(case)
-    print(name, [round(s["count"], 4) for s in slices], file=sys.stderr)
-json.dump(out, sys.stdout, indent=1)
+def main():
+    out = {
+        "header": {
+            "command": "/usr/bin/python3 test/reference/generate/counts.py > test/reference/counts.json",
+            "libraries": {"astropy": astropy.__version__, "scipy": scipy.__version__, "mpmath": mpmath.__version__, "numpy": np.__version__},
+            "date": datetime.date.today().isoformat(),
+            "what": "expected counts per slice (and a few histogram bins) for invented surveys, integrated independently",
+        },
+        "cases": [],
+    }
+    for name, text in CASES.items():
+        doc = num(yaml.safe_load(text))
+        models = survey_models(doc)
+        m = models[0]  # the top-level slices follow the first population's window
+        edges = slice_edges(doc, m)
+        slices = [{"z_min": float(a), "z_max": float(b), "count": count_all(models, a, b)} for a, b in zip(edges[:-1], edges[1:])]
+        # a few histogram bins of the first slice: the bins nearest the limit
+        w = doc.get('histogram', {}).get('width')
+        a0, slope, olim = m['obs_of'](0.5 * (edges[0] + edges[1]))
+        k = math.floor(olim / w + 1e-9)
+        ks = [k - 1, k - 2, k - 3] if slope > 0 else [k, k - 1, k - 2, k - 4]
+        bins = [{"lo": round(kk * w, 10), "hi": round((kk + 1) * w, 10), "count": count_all(models, edges[0], edges[1], kk * w, (kk + 1) * w)} for kk in ks]
+        case = {"name": name, "yaml": text, "slices": slices, "total": sum(s["count"] for s in slices), "first_slice_bins": bins}
+        if len(models) > 1:
+            # each population's own result: the same slices rule over its own window
+            case["populations"] = []
+            for mp in models:
+                e = slice_edges(doc, mp)
+                case["populations"].append({"window": list(mp['window']), "slices": [{"z_min": float(a), "z_max": float(b), "count": count(mp, a, b)} for a, b in zip(e[:-1], e[1:])]})
+        out["cases"].append(case)
+        print(name, [round(s["count"], 4) for s in slices], file=sys.stderr)
+    json.dump(out, sys.stdout, indent=1)
+
+
+if __name__ == "__main__":
+    main()
