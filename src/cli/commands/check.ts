@@ -1,6 +1,6 @@
 import type { CommandDef } from './types.js';
 import { addOutputOptions, loadSurveyArg, outputOptions } from './common.js';
-import { emit } from '../io.js';
+import { Outputs, renderText } from '../io.js';
 import { csvLine } from '../../render/format.js';
 
 export const checkCommand: CommandDef = {
@@ -13,20 +13,21 @@ export const checkCommand: CommandDef = {
   async action(cmd, args, io) {
     const file = args[0] as string;
     const opts = outputOptions(cmd.opts());
+    const outputs = new Outputs(io, { out: opts.out });
+    outputs.refuseInputs([file]);
     const survey = await loadSurveyArg(io, file);
+    outputs.refuseInputs(survey.inputs ?? []);
     const { describeSurvey } = await import('../../survey/index.js');
     const view = describeSurvey(survey) as Record<string, unknown>;
     const flat = flatten(view);
-    emit(
-      io,
-      opts,
-      {
+    outputs.setMain(
+      renderText(opts, {
         json: () => view,
         table: () => `${file}: valid survey file\n` + Object.entries(flat).map(([k, v]) => `  ${k} = ${v}`).join('\n') + '\n',
         csv: () => csvLine(['key', 'value']) + Object.entries(flat).map(([k, v]) => csvLine([k, v])).join(''),
-      },
-      [file],
+      }),
     );
+    outputs.commit();
     return 0;
   },
 };

@@ -1,9 +1,7 @@
-import { readFileSync } from 'node:fs';
 import { basename, resolve } from 'node:path';
 import type { CommandDef } from './types.js';
-import { loadSurveyArg } from './common.js';
-import { writeAtomic, type CliIO } from '../io.js';
-import { inputError, SurveyError } from '../../errors.js';
+import { Outputs, type CliIO } from '../io.js';
+import { SurveyError } from '../../errors.js';
 import { mockOptions, mockProgressBar } from './forecast.js';
 import type { Survey } from '../../survey/types.js';
 import type { UncertaintyMemo } from '../../uncertainty/prediction.js';
@@ -175,7 +173,7 @@ export const reportCommand: CommandDef = {
   description: 'one self-contained HTML report: the survey, the assumed model, the tables and the figures',
   configure(cmd) {
     cmd.argument('<survey>', 'survey file (YAML)');
-    cmd.option('--out <file>', 'write the HTML to this file (atomically) instead of stdout');
+    cmd.option('--out <file>', 'write the HTML to this file (atomically; - for standard output) instead of stdout');
     cmd.option('--figures <dir>', 'also write each figure as DIR/<name>.svg (and .png when the rasteriser loads)');
     cmd.option('--mocks <N>', 'also draw N mock surveys for the forecast, fit each and scatter the fits over the Fisher ellipses');
     cmd.option('--seed <S>', 'seed of the mock surveys (integer 0 to 4294967295; default 1)');
@@ -189,18 +187,16 @@ export const reportCommand: CommandDef = {
 
 export async function runReport(io: CliIO, file: string, opts: ReportOptions, sections: ReportSections = reportSections(opts, io)): Promise<number> {
   const input = resolve(io.cwd, file);
-  const target = opts.out === undefined ? undefined : resolve(io.cwd, opts.out);
-  if (target === input) {
-    throw inputError('output_exists', '', '--out', `the output file ${opts.out} is the survey file`, 'choose another --out path');
-  }
-  const { checkFiguresDir, saveFigures } = await import('../draw.js');
-  const figuresDir = opts.figures === undefined ? undefined : checkFiguresDir(io, opts.figures);
-  const survey = await loadSurveyArg(io, file);
-  // The file as written (the loader has just read it; it is at most 1 MiB).
-  const surveyText = readFileSync(input, 'utf8');
+  const outputs = new Outputs(io, { out: opts.out, figures: opts.figures });
+  outputs.refuseInputs([file]);
+  const { figureFiles } = await import('../draw.js');
+  const { loadSurveyFileWithText } = await import('../../survey/load.js');
+  // The survey and the file as written (read once, through the loader's checks).
+  const { survey, text: surveyText } = loadSurveyFileWithText(input);
+  outputs.refuseInputs(survey.inputs ?? []);
   const { html, figures } = await buildReport(file, surveyText, survey, sections);
-  if (figuresDir) await saveFigures(io, figuresDir, figures);
-  if (target) writeAtomic(target, html);
-  else io.stdout(html);
+  outputs.setMain(html);
+  if (opts.figures !== undefined) outputs.setFigures(await figureFiles(io, figures));
+  outputs.commit();
   return 0;
 }
