@@ -50,12 +50,16 @@ export async function cosmologyFromOptions(opts: Record<string, unknown>, io: Cl
     input.h0 ??= 70;
     input.omegaM ??= 0.3;
   }
-  return checkedCosmology(resolveCosmology(input));
+  // distances and times need only h0, omega_m and t_cmb; the power spectrum needs the rest
+  return checkedCosmology(resolveCosmology(input), extra.length === 0);
 }
 
-/** Refuse (exit 2, naming the flag) a cosmology outside the physical ranges of a survey file. */
-export function checkedCosmology(c: Cosmology): Cosmology {
-  const problem = cosmologyProblem(c);
+/**
+ * Refuse (exit 2, naming the flag) a cosmology outside the physical ranges of a survey file
+ * (with `distancesOnly`, only h0, omega_m and t_cmb are checked).
+ */
+export function checkedCosmology(c: Cosmology, distancesOnly = false): Cosmology {
+  const problem = cosmologyProblem(c, distancesOnly);
   if (problem) throw inputError('bad_option', '', COSMOLOGY_KEYS[problem.parameter].flag, problem.what, problem.fix);
   return c;
 }
