@@ -13,6 +13,7 @@ import type { Figure, ForecastJson, ModelDescription, PlanJson, PredictionJson, 
 import { curveAxisLabel, luminosityFunctionCurve } from '../population/curves.js';
 import { buildFigures, luminosityFunctionFigure } from '../render/figures.js';
 import type { CliIO, FigureFile } from './io.js';
+import { printable } from '../errors.js';
 
 /** The population entries of the file as written (`population:` or `populations:`), in order. */
 function rawPopulations(survey: Survey): Record<string, unknown>[] {
@@ -132,7 +133,7 @@ export async function drawFigures(
 export async function figureFiles(io: CliIO, figures: Figure[]): Promise<FigureFile[]> {
   const { loadRasteriser, safeFigureName, svgToPng } = await import('../render/write-figures.js');
   const raster = await loadRasteriser();
-  if (raster instanceof Error) io.stderr(`skytally: ${raster.message}; SVG written.\n`);
+  if (raster instanceof Error) io.stderr(`skytally: ${printable(raster.message)}; SVG only.\n`);
   const files: FigureFile[] = [];
   for (const f of figures) {
     const base = safeFigureName(f.name);

@@ -151,6 +151,16 @@ describe('no output replaces an input (compared by device and inode, links resol
     expect(readFileSync(csv, 'utf8')).toBe(before);
   });
 
+  test('distances and clustering --survey: --out naming a table that survey reads', async () => {
+    const s = copySamples();
+    const csv = join(s, 'filters', 'nb-9200-invented.csv');
+    const before = readFileSync(csv, 'utf8');
+    for (const command of ['distances', 'clustering']) {
+      refused(await runCli([command, '--z', '1', '--survey', join(s, 'narrowband-interlopers.yaml'), '--out', csv]));
+      expect(readFileSync(csv, 'utf8')).toBe(before);
+    }
+  });
+
   test('--out naming the filter table through a symbolic link to its folder', async () => {
     const s = copySamples();
     symlinkSync(join(s, 'filters'), join(s, 'linked'));

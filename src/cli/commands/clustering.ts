@@ -39,7 +39,7 @@ export const clusteringCommand: CommandDef = {
     }
     const outputs = new Outputs(io, { out: out.out });
     if (typeof opts.survey === 'string') outputs.refuseInputs([opts.survey]);
-    const cosmology = checkedCosmology(await cosmologyFromOptions(opts, io, ['omegaB', 'sigma8', 'nS']));
+    const cosmology = checkedCosmology(await cosmologyFromOptions(opts, io, ['omegaB', 'sigma8', 'nS'], outputs));
     const { clusteringTable } = await import('../../uncertainty/table.js');
     const result = clusteringTable(cosmology, zs, radii, masses, opts.transfer);
     const { clusteringText, clusteringCsv } = await import('../../render/clustering-table.js');

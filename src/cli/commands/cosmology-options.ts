@@ -1,6 +1,6 @@
 /** Cosmology flags shared by `distances` and `clustering`: --h0 --omega-m --t-cmb --preset, or --survey FILE. */
 import type { Command } from 'commander';
-import type { Cosmology } from '../../survey/types.js';
+import type { Cosmology, InputFile } from '../../survey/types.js';
 import type { CliIO } from '../io.js';
 import { decimalNumber, loadSurveyArg } from './common.js';
 import { excerpt, inputError } from '../../errors.js';
@@ -23,14 +23,22 @@ type FlagKey = 'h0' | 'omegaM' | 'tCmb' | 'omegaB' | 'sigma8' | 'nS';
  * the ranges are those of a survey file (src/cosmology/presets.ts COSMOLOGY_RANGES), checked by
  * `checkedCosmology`.
  */
-export async function cosmologyFromOptions(opts: Record<string, unknown>, io: CliIO, extra: FlagKey[] = []): Promise<Cosmology> {
+export async function cosmologyFromOptions(
+  opts: Record<string, unknown>,
+  io: CliIO,
+  extra: FlagKey[] = [],
+  outputs?: { refuseInputs(inputs: readonly InputFile[]): void },
+): Promise<Cosmology> {
   const flags: FlagKey[] = ['h0', 'omegaM', 'tCmb', ...extra];
   const given = [...flags, 'preset'].filter((k) => opts[k] !== undefined);
   if (typeof opts.survey === 'string') {
     if (given.length > 0) {
       throw inputError('conflict', '', '--survey', 'cannot be combined with cosmology flags', 'give either --survey or the flags');
     }
-    return (await loadSurveyArg(io, opts.survey)).cosmology;
+    const survey = await loadSurveyArg(io, opts.survey);
+    // every file the survey read (its filter tables too) is an input no output may replace
+    outputs?.refuseInputs(survey.inputs ?? []);
+    return survey.cosmology;
   }
   const preset = typeof opts.preset === 'string' ? opts.preset : undefined;
   if (preset !== undefined && presetNamed(preset) === undefined) {

@@ -20,7 +20,7 @@ export const distancesCommand: CommandDef = {
     const zs = parseNumberList(String(opts.z), '--z', { min: 0, max: MAX_DISTANCE_Z });
     const outputs = new Outputs(io, { out: out.out });
     if (typeof opts.survey === 'string') outputs.refuseInputs([opts.survey]);
-    const cosmology = await cosmologyFromOptions(opts, io);
+    const cosmology = await cosmologyFromOptions(opts, io, [], outputs);
     const { distanceTable } = await import('../../cosmology/table.js');
     const result = distanceTable(cosmology, zs);
     const { distancesText, distancesCsv } = await import('../../render/distances-table.js');
