@@ -19,8 +19,8 @@ import { MAX_TABLE_BYTES, readInputText } from './read-input.js';
 
 const UNIT_SCALE: Record<string, number> = { '': 1, _angstrom: 1, _nm: 10, _um: 1e4 };
 
-/** Most rows a transmission table may hold. */
-export const MAX_TABLE_ROWS = 5000;
+/** Most rows a transmission table may hold (each row inside a window is a kink the count integrates piece by piece). */
+export const MAX_TABLE_ROWS = 2000;
 
 /**
  * Read and check a transmission file; `keyPath` is the survey key that names it. `record`, when

@@ -246,11 +246,14 @@ describe('every input file: a regular file, within its size limit, read by one r
     expect([e.code, e.keyPath]).toEqual([code, 'detection.filter.file']);
   });
 
-  test('a transmission table of more than 5,000 rows is refused', () => {
+  test('a transmission table of more than 2,000 rows is refused', () => {
     const path = join(dir, 'long.csv');
     writeFileSync(path, 'wavelength,transmission\n' + Array.from({ length: 20_000 }, (_, i) => `${11000 + i * 0.1},1`).join('\n'));
     const e = refusal(LINE_YAML, { 'detection.filter': { profile: 'table', file: path } });
     expect([e.code, e.keyPath]).toEqual(['bad_table', 'detection.filter.file']);
+    // 2,000 rows are read
+    writeFileSync(path, 'wavelength,transmission\n' + Array.from({ length: 2000 }, (_, i) => `${11800 + i * 0.1},1`).join('\n'));
+    expect(loads(LINE_YAML, { 'detection.filter': { profile: 'table', file: path } }).detection).toMatchObject({ filter: { profile: 'table' } });
   });
 
   test('a survey file of 300 KiB is refused (256 KiB cap)', () => {
