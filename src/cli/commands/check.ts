@@ -2,6 +2,7 @@ import type { CommandDef } from './types.js';
 import { addOutputOptions, loadSurveyArg, outputOptions } from './common.js';
 import { Outputs, renderText } from '../io.js';
 import { csvLine } from '../../render/format.js';
+import { printable } from '../../errors.js';
 
 export const checkCommand: CommandDef = {
   name: 'check',
@@ -23,7 +24,7 @@ export const checkCommand: CommandDef = {
     outputs.setMain(
       renderText(opts, {
         json: () => view,
-        table: () => `${file}: valid survey file\n` + Object.entries(flat).map(([k, v]) => `  ${k} = ${v}`).join('\n') + '\n',
+        table: () => `${printable(file)}: valid survey file\n` + Object.entries(flat).map(([k, v]) => `  ${k} = ${v}`).join('\n') + '\n',
         csv: () => csvLine(['key', 'value']) + Object.entries(flat).map(([k, v]) => csvLine([k, v])).join(''),
       }),
     );
