@@ -23,7 +23,11 @@ export type ErrorCode =
   | 'divergent'
   | 'bad_option'
   | 'not_finite'
-  | 'output_exists';
+  | 'output_exists'
+  | 'not_a_file'
+  | 'not_text'
+  | 'too_large'
+  | 'output_unwritable';
 
 export class SurveyError extends Error {
   readonly code: ErrorCode;
@@ -54,7 +58,33 @@ export function inputError(
 ): SurveyError {
   const where = [file, keyPath].filter((s) => s.length > 0).join(': ');
   const sentence = `${where ? where + ': ' : ''}${what}${fix ? `; ${fix}` : ''}.`;
-  return new SurveyError(code, file, keyPath, sentence);
+  return new SurveyError(code, file, keyPath, printable(sentence));
+}
+
+/**
+ * Text safe to print on a terminal as one line: control characters (C0, DEL, C1), line and
+ * paragraph separators and the bidirectional overrides are written as escapes (\n, \t, \x1b,
+ * \u202e), so nothing read from a file or a path can move the cursor, colour the terminal or
+ * start a new line.
+ */
+export function printable(text: string): string {
+  return text.replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029\u200e\u200f\u202a-\u202e\u2066-\u2069]/g, (c) => {
+    if (c === '\n') return '\\n';
+    if (c === '\r') return '\\r';
+    if (c === '\t') return '\\t';
+    const n = c.charCodeAt(0);
+    return n < 0x100 ? `\\x${n.toString(16).padStart(2, '0')}` : `\\u${n.toString(16).padStart(4, '0')}`;
+  });
+}
+
+/**
+ * A short excerpt of something read (a line of a table, a value of a file) to quote in a message:
+ * at most `max` characters, escaped with `printable`.
+ */
+export function excerpt(text: string, max = 40): string {
+  const chars = Array.from(text);
+  const cut = chars.length > max ? chars.slice(0, max - 3).join('') + '...' : text;
+  return printable(cut);
 }
 
 /** Throw a SurveyError (code not_finite) unless every number in `values` is finite. */

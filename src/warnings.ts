@@ -11,6 +11,7 @@
  * `warning(code, message)` where it is detected, add the code to the `warning` definition of every
  * output schema, and add a test that makes a file trigger it (and checks no bundled sample does).
  */
+import { printable } from './errors.js';
 
 export const WARNING_CODES = {
   no_detections: 'fewer than one source is expected in the survey, or from one of its populations',
@@ -49,5 +50,5 @@ export function mergeWarnings(...lists: readonly (readonly Warning[] | undefined
 
 /** The lines the command line prints on stderr, one per warning. */
 export function warningLines(ws: readonly Warning[]): string {
-  return ws.map((w) => `skytally: warning: ${w.message}\n`).join('');
+  return ws.map((w) => `skytally: warning: ${printable(w.message)}\n`).join('');
 }

@@ -7,15 +7,13 @@
  * (src/render/types.ts PredictionJson): the assumed model as the user wrote it, and the
  * luminosity function of each slice at its middle redshift (src/population/curves.ts).
  */
-import { resolve } from 'node:path';
-import { statSync } from 'node:fs';
 import type { Prediction, PredictionSlice } from '../counts/predict.js';
 import type { Survey, Population } from '../survey/types.js';
 import type { Figure, ForecastJson, ModelDescription, PlanJson, PredictionJson, SliceJson } from '../render/types.js';
 import { curveAxisLabel, luminosityFunctionCurve } from '../population/curves.js';
 import { buildFigures, countsFigure, luminosityFunctionFigure, observedSharesFigure } from '../render/figures.js';
-import { inputError } from '../errors.js';
-import type { CliIO } from './io.js';
+import type { CliIO, FigureFile } from './io.js';
+import { printable } from '../errors.js';
 
 /** The population entries of the file as written (`population:` or `populations:`), in order. */
 function rawPopulations(survey: Survey): Record<string, unknown>[] {
@@ -138,37 +136,19 @@ export async function drawFigures(
 }
 
 /**
- * Check a --figures directory before anything is computed: it may be missing (it is created) or
- * an existing directory; anything else is bad input.
+ * Every figure as the files --figures writes: <name>.svg, and <name>.png when the rasteriser
+ * (@resvg/resvg-js) loads (a note on stderr when it does not). Rendered in memory: nothing is
+ * written until every output of the command is ready (src/cli/io.ts Outputs).
  */
-export function checkFiguresDir(io: CliIO, dir: string): string {
-  const path = resolve(io.cwd, dir);
-  let st;
-  try {
-    st = statSync(path);
-  } catch (e) {
-    if ((e as { code?: string }).code === 'ENOENT') return path;
-    throw inputError('bad_option', '', '--figures', `the directory ${dir} cannot be used (${(e as { code?: string }).code ?? String(e)})`, 'give a directory you can write to');
+export async function figureFiles(io: CliIO, figures: Figure[]): Promise<FigureFile[]> {
+  const { loadRasteriser, safeFigureName, svgToPng } = await import('../render/write-figures.js');
+  const raster = await loadRasteriser();
+  if (raster instanceof Error) io.stderr(`skytally: ${printable(raster.message)}; SVG only.\n`);
+  const files: FigureFile[] = [];
+  for (const f of figures) {
+    const base = safeFigureName(f.name);
+    files.push({ name: `${base}.svg`, data: f.svg });
+    if (!(raster instanceof Error)) files.push({ name: `${base}.png`, data: await svgToPng(f.svg, 2) });
   }
-  if (!st.isDirectory()) {
-    throw inputError('bad_option', '', '--figures', `${dir} exists and is not a directory`, 'give a directory, or a path that does not exist yet');
-  }
-  return path;
-}
-
-/** Write figures to DIR as SVG (and PNG when the rasteriser loads); returns the paths written. */
-export async function saveFigures(io: CliIO, dir: string, figures: Figure[]): Promise<string[]> {
-  const { writeFigures } = await import('../render/write-figures.js');
-  let result;
-  try {
-    result = await writeFigures(dir, figures);
-  } catch (e) {
-    const code = (e as { code?: string }).code;
-    if (code === 'ENOTDIR' || code === 'EEXIST' || code === 'EACCES' || code === 'EROFS' || code === 'EPERM') {
-      throw inputError('bad_option', '', '--figures', `the figures cannot be written to ${dir} (${code})`, 'give a directory you can write to');
-    }
-    throw e;
-  }
-  if (result.pngSkipped) io.stderr(`skytally: ${result.pngSkipped}; SVG written.\n`);
-  return result.files;
+  return files;
 }

@@ -4,8 +4,8 @@
  * when it runs, so that start-up pays only for the command used.
  */
 import { Command, CommanderError } from 'commander';
-import { SurveyError } from '../errors.js';
-import type { CliIO } from './io.js';
+import { printable, SurveyError } from '../errors.js';
+import { removePendingFiles, type CliIO } from './io.js';
 import { COMMANDS } from './commands/index.js';
 
 export const VERSION = '0.1.0';
@@ -17,7 +17,7 @@ export async function run(argv: readonly string[], io: CliIO): Promise<number> {
     .description('Expected galaxy counts, their uncertainties and forecasts for a planned survey.')
     .version(VERSION)
     .exitOverride()
-    .configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(s) })
+    .configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(lines(s)) })
     .showHelpAfterError(false);
   let exitCode = 0;
   for (const def of COMMANDS) {
@@ -46,13 +46,34 @@ export function handleError(err: unknown, io: CliIO): number {
     return err.exitCode === 0 ? 0 : 2;
   }
   const msg = err instanceof Error ? err.message : String(err);
-  io.stderr(`skytally: internal failure: ${msg}\n`);
+  io.stderr(`skytally: internal failure: ${printable(msg)}\n`);
   if (process.env.SKYTALLY_DEBUG && err instanceof Error) io.stderr(`${err.stack}\n`);
   return 1;
 }
 
+/** Text whose lines are each made safe for a terminal (printable), the line breaks kept. */
+function lines(s: string): string {
+  return s.split('\n').map(printable).join('\n');
+}
+
+/**
+ * A reader that stops early (`skytally ... | head -1`) closes the pipe: the program then ends at
+ * once, quietly and with status 0, as command-line tools do, leaving no temporary file behind.
+ */
+function endQuietlyOnClosedPipe(): void {
+  process.stdout.on('error', (e: NodeJS.ErrnoException) => {
+    if (e.code !== 'EPIPE') throw e;
+    removePendingFiles();
+    process.exit(0);
+  });
+  process.stderr.on('error', (e: NodeJS.ErrnoException) => {
+    if (e.code !== 'EPIPE') throw e;
+  });
+}
+
 /** Entry point for bin/skytally.js. */
 export async function main(): Promise<void> {
+  endQuietlyOnClosedPipe();
   const io: CliIO = {
     stdout: (s) => process.stdout.write(s),
     stderr: (s) => process.stderr.write(s),

@@ -9,7 +9,7 @@ export interface DistanceRow {
   comoving_distance_mpc: number;
   luminosity_distance_mpc: number;
   angular_diameter_distance_mpc: number;
-  /** Undefined (omitted) at z = 0, where it is -infinity. */
+  /** Undefined (omitted) where D_L is 0 (z = 0, or a z so small that D_L underflows): -infinity there. */
   distance_modulus?: number;
   differential_comoving_volume_mpc3_sr: number;
   comoving_volume_gpc3: number;
@@ -39,7 +39,8 @@ export function distanceTable(cosmology: Cosmology, zs: readonly number[]): Dist
         lookback_time_gyr: c.lookbackTimeGyr(z),
         age_gyr: c.ageGyr(z),
       };
-      if (z > 0) row.distance_modulus = c.distanceModulus(z);
+      // at z = 0 (and at redshifts so small that D_L underflows to 0) the modulus is -infinity
+      if (row.luminosity_distance_mpc > 0) row.distance_modulus = c.distanceModulus(z);
       return row;
     }),
     warnings: [],

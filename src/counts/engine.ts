@@ -22,6 +22,7 @@ import { completenessBreaks, completenessFunction, type CompletenessFn } from '.
 import { luminosityScale, populationAt, type ParameterOffsets } from '../population/model.js';
 import { componentsTotalLuminosity } from '../population/schechter.js';
 import { inputError } from '../errors.js';
+import { CAPS } from '../survey/limits.js';
 
 /** u = L/L* beyond which the population is negligible (exp(-40) ~ 4e-18). */
 const U_BRIGHT_SPAN = 40;
@@ -219,7 +220,7 @@ export function countPopulation(
       });
       result = { count, histogram: { variable: observer.variable, edges: [], counts: [] } };
     } else {
-      result = histogramCount(nodes, observer, width, completeness, breaks, perNode);
+      result = histogramCount(nodes, observer, width, completeness, breaks, survey.file, perNode);
     }
     if (!Number.isFinite(result.count)) {
       throw inputError('not_finite', survey.file, 'population', `the count in the slice ${zMin}-${zMax} is not a finite number`, 'check the Schechter parameters and the limit');
@@ -432,6 +433,7 @@ function histogramCount(
   width: number,
   completeness: CompletenessFn | undefined,
   breaks: { points: number[]; scale: number; varying: [number, number] } | undefined,
+  file = '',
   perNode?: number[],
 ): { count: number; histogram: Histogram } {
   const slope = observer.slope;
@@ -453,6 +455,15 @@ function histogramCount(
   const k0 = Math.floor(obsMin / width + 1e-9);
   const k1 = Math.max(k0 + 1, Math.ceil(obsMax / width - 1e-9));
   const nBins = k1 - k0;
+  if (!(nBins <= CAPS.histogramBins)) {
+    throw inputError(
+      'too_large',
+      file,
+      'histogram.width',
+      `the detected sources span ${roundEdge(obsMax - obsMin)} in ${observer.variable === 'apparent_magnitude' || observer.variable === 'absolute_magnitude' ? 'magnitude' : 'dex'}, ${nBins} bins of ${width}, more than the ${CAPS.histogramBins} a slice may have`,
+      'give a wider histogram.width, or a limit closer to the knee of the luminosity function',
+    );
+  }
   const edges: number[] = [];
   for (let k = 0; k <= nBins; k++) edges.push(roundEdge((k0 + k) * width));
   const counts = new Array<number>(nBins).fill(0);

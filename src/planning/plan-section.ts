@@ -16,10 +16,11 @@
  *     exposure_grid: {min_hours: 0.05, max_hours: 50, count: 200}
  *     tiers: 1                           1 to 3
  */
-import { inputError } from '../errors.js';
+import { excerpt, inputError } from '../errors.js';
 import type { Population, Survey } from '../survey/types.js';
 import { parseQuantity, FULL_SKY_DEG2 } from '../survey/units.js';
 import { suggest } from '../survey/schema.js';
+import { CAPS, RANGES, describeRange, inRange } from '../survey/limits.js';
 import { depthOfLimit, makeDepthModel, type DepthLaw, type DepthModel, type LimitKind } from './depth.js';
 
 export type PlanGoal = { kind: 'count' } | { kind: 'faint_count' } | { kind: 'sigma'; parameter: string };
@@ -40,7 +41,14 @@ export interface PlanSpec {
 
 const KEYS = ['field_of_view', 'reference', 'overhead_hours', 'depth_law', 'budget_hours', 'fixed', 'goal', 'minimum_count', 'exposure_grid', 'tiers'];
 export const DEFAULT_GRID = { min_hours: 0.05, max_hours: 50, count: 200 };
-export const MAX_GRID_COUNT = 100_000;
+/** Most exposures on the grid of a one-tier plan (a second or so per thousand). */
+export const MAX_GRID_COUNT = 20_000;
+/** Most exposures on the grid of a plan of 2 or 3 tiers (each tier's row of designs is kept for every budget split). */
+export const MAX_TIER_GRID_COUNT = 2_000;
+/** Longest time any plan value may give, hours (over 11 years of continuous observing). */
+export const MAX_PLAN_HOURS = 100_000;
+/** Most rows of a depth_law table. */
+export const MAX_DEPTH_ROWS = CAPS.tableRows;
 
 type Obj = Record<string, unknown>;
 
@@ -58,7 +66,7 @@ function checkKeys(o: Obj, allowed: string[], file: string, at: string): void {
 
 function num(v: unknown, file: string, at: string, what: string, { min = -Infinity, exclusiveMin = false, integer = false, max = Infinity } = {}): number {
   if (typeof v !== 'number' || !Number.isFinite(v)) {
-    throw inputError('wrong_type', file, at, `is ${v === undefined ? 'missing' : JSON.stringify(v)} but must be ${what}`, `give ${what}`);
+    throw inputError('wrong_type', file, at, `is ${v === undefined ? 'missing' : shown(v)} but must be ${what}`, `give ${what}`);
   }
   if (integer && !Number.isInteger(v)) throw inputError('wrong_type', file, at, `is ${v} but must be a whole number`, `give ${what}`);
   if (exclusiveMin ? v <= min : v < min) throw inputError('out_of_range', file, at, `is ${v} but must be ${exclusiveMin ? 'above' : 'at least'} ${min}`, `give ${what}`);
@@ -68,19 +76,31 @@ function num(v: unknown, file: string, at: string, what: string, { min = -Infini
 
 function hours(v: unknown, file: string, at: string, positive: boolean): number {
   if (typeof v !== 'number' && typeof v !== 'string') {
-    throw inputError('wrong_type', file, at, `is ${v === undefined ? 'missing' : JSON.stringify(v)} but must be a time`, 'give hours as a number, or with a unit such as "90 min"');
+    throw inputError('wrong_type', file, at, `is ${v === undefined ? 'missing' : shown(v)} but must be a time`, 'give hours as a number, or with a unit such as "90 min"');
   }
   const h = parseQuantity(v, 'time', file, at);
-  return num(h, file, at, positive ? 'a time above 0 hours' : 'a time of at least 0 hours', { min: 0, exclusiveMin: positive });
+  return num(h, file, at, positive ? `a time above 0 and at most ${MAX_PLAN_HOURS} hours` : `a time from 0 to ${MAX_PLAN_HOURS} hours`, { min: 0, exclusiveMin: positive, max: MAX_PLAN_HOURS });
 }
 
 function limitValue(v: unknown, kind: LimitKind, file: string, at: string): number {
-  if (kind === 'magnitude') return num(v, file, at, 'an AB magnitude (a number)');
-  if (typeof v !== 'number' && typeof v !== 'string') {
-    throw inputError('wrong_type', file, at, `is ${v === undefined ? 'missing' : JSON.stringify(v)} but must be a line flux`, 'give erg/s/cm^2 as a number, or with a unit such as "5e-17 erg/s/cm^2"');
+  const range = kind === 'magnitude' ? RANGES.apparentMagnitude : RANGES.lineFlux;
+  let x: number;
+  if (kind === 'magnitude') x = num(v, file, at, 'an AB magnitude (a number)');
+  else {
+    if (typeof v !== 'number' && typeof v !== 'string') {
+      throw inputError('wrong_type', file, at, `is ${v === undefined ? 'missing' : shown(v)} but must be a line flux`, 'give erg/s/cm^2 as a number, or with a unit such as "5e-17 erg/s/cm^2"');
+    }
+    x = num(parseQuantity(v, 'flux', file, at), file, at, 'a line flux above 0', { min: 0, exclusiveMin: true });
   }
-  const f = parseQuantity(v, 'flux', file, at);
-  return num(f, file, at, 'a line flux above 0', { min: 0, exclusiveMin: true });
+  if (!inRange(x, range)) {
+    throw inputError('out_of_range', file, at, `is ${x}${range.unit ? ` ${range.unit}` : ''}, outside its physical range (${describeRange(range)})`, 'give a limit in that range');
+  }
+  return x;
+}
+
+/** A value read from the file, for a message: JSON, cut short and escaped. */
+function shown(v: unknown): string {
+  return excerpt(JSON.stringify(v) ?? String(v));
 }
 
 /** Names of the Fisher parameters of a population (as the forecast names them). */
@@ -129,6 +149,9 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
     if (!Array.isArray(t) || t.length < 2) {
       throw inputError('bad_table', file, 'plan.depth_law.table', 'must be a list of at least two [hours, limit] rows', 'write it as [[hours, limit], ...]');
     }
+    if (t.length > MAX_DEPTH_ROWS) {
+      throw inputError('too_large', file, 'plan.depth_law.table', `has ${t.length} rows, more than the ${MAX_DEPTH_ROWS} a table may have`, 'resample it to fewer rows');
+    }
     if (raw.reference !== undefined) {
       throw inputError('conflict', file, 'plan.reference', 'is given together with a depth_law table', 'keep one of them: the table already says how deep each exposure goes');
     }
@@ -148,7 +171,7 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
     });
     law = { kind: 'table', hours: hs, limits: ls };
   } else {
-    throw inputError('out_of_range', file, 'plan.depth_law', `is ${JSON.stringify(lawRaw)} but must be background, source or {table: [[hours, limit], ...]}`, 'use one of those forms');
+    throw inputError('out_of_range', file, 'plan.depth_law', `is ${shown(lawRaw)} but must be background, source or {table: [[hours, limit], ...]}`, 'use one of those forms');
   }
   const depth = makeDepthModel(limitKind, law);
 
@@ -162,15 +185,15 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
     const names = sigmaParameterNames(population);
     if (typeof g.sigma !== 'string' || !names.includes(g.sigma)) {
       const near = typeof g.sigma === 'string' ? suggest(g.sigma, names) : undefined;
-      throw inputError('out_of_range', file, 'plan.goal.sigma', `is ${JSON.stringify(g.sigma)} but must name a parameter of "${population.name}"${near ? ` (did you mean ${near}?)` : ''}`, `use one of ${names.join(', ')}`);
+      throw inputError('out_of_range', file, 'plan.goal.sigma', `is ${shown(g.sigma)} but must name a parameter of "${population.name}"${near ? ` (did you mean ${near}?)` : ''}`, `use one of ${names.join(', ')}`);
     }
     goal = { kind: 'sigma', parameter: g.sigma };
   } else {
     const near = typeof g === 'string' ? suggest(g, ['count', 'faint_count']) : undefined;
-    throw inputError('out_of_range', file, 'plan.goal', `is ${JSON.stringify(g)} but must be count, faint_count or {sigma: PARAMETER}${near ? ` (did you mean ${near}?)` : ''}`, 'use one of those forms');
+    throw inputError('out_of_range', file, 'plan.goal', `is ${shown(g)} but must be count, faint_count or {sigma: PARAMETER}${near ? ` (did you mean ${near}?)` : ''}`, 'use one of those forms');
   }
 
-  const minimumCount = raw.minimum_count === undefined ? 0 : num(raw.minimum_count, file, 'plan.minimum_count', 'a count of at least 0', { min: 0 });
+  const minimumCount = raw.minimum_count === undefined ? 0 : num(raw.minimum_count, file, 'plan.minimum_count', 'a count from 0 to 1e12', { min: 0, max: 1e12 });
   const tiers = raw.tiers === undefined ? 1 : (num(raw.tiers, file, 'plan.tiers', 'a whole number from 1 to 3', { min: 1, max: 3, integer: true }) as 1 | 2 | 3);
 
   // Exposure grid.
@@ -183,7 +206,11 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
   if (!(maxHours > minHours)) {
     throw inputError('out_of_range', file, 'plan.exposure_grid.max_hours', `is ${maxHours} h, not above min_hours (${minHours} h)`, 'give max_hours above min_hours');
   }
-  const count = gridRaw.count === undefined ? DEFAULT_GRID.count : num(gridRaw.count, file, 'plan.exposure_grid.count', `a whole number from 2 to ${MAX_GRID_COUNT}`, { min: 2, max: MAX_GRID_COUNT, integer: true });
+  const maxCount = tiers > 1 ? MAX_TIER_GRID_COUNT : MAX_GRID_COUNT;
+  const count =
+    gridRaw.count === undefined
+      ? Math.min(DEFAULT_GRID.count, maxCount)
+      : num(gridRaw.count, file, 'plan.exposure_grid.count', `a whole number from 2 to ${maxCount}${tiers > 1 ? ` (with ${tiers} tiers)` : ''}`, { min: 2, max: maxCount, integer: true });
   if (minHours + overhead > budget) {
     throw inputError('out_of_range', file, 'plan.exposure_grid.min_hours', `plus the overhead (${minHours + overhead} h) exceeds budget_hours (${budget} h), so not one pointing fits`, 'lower min_hours or overhead_hours, or raise budget_hours');
   }

@@ -4,7 +4,7 @@
  * drawn with the fonts installed on the machine; nothing is fetched. Each file is written to a
  * temporary name first and renamed into place, so a reader never sees half a figure.
  */
-import { mkdir, rename, writeFile } from 'node:fs/promises';
+import { mkdir, rename, rm, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { Figure } from './types.js';
 
@@ -62,8 +62,14 @@ export function safeFigureName(name: string): string {
 
 async function writeAtomic(path: string, data: string | Uint8Array): Promise<void> {
   const tmp = `${path}.tmp-${process.pid}-${Date.now()}`;
-  await writeFile(tmp, data);
-  await rename(tmp, path);
+  try {
+    await writeFile(tmp, data);
+    await rename(tmp, path);
+  } catch (e) {
+    // never leave the temporary file behind
+    await rm(tmp, { force: true });
+    throw e;
+  }
 }
 
 export async function writeFigures(

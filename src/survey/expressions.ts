@@ -67,6 +67,47 @@ const NODE_WORDS: Record<string, string> = {
   BlockNode: 'several statements',
 };
 
+/**
+ * The grammar's tokens: decimal numbers (digits, optional point, optional exponent), names
+ * (letters, digits, underscores), the operators + - * / ^, parentheses, commas and blanks.
+ * Anything else is refused before the parser sees it: mathjs would otherwise read "5%" as a
+ * percentage, "# ..." as a comment, "0x10", "0b101" and "0o17" as hexadecimal, binary and octal
+ * numbers, and quotes, brackets and dots as strings, matrices and property access.
+ */
+const TOKEN = /\s+|(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?|[A-Za-z_][A-Za-z0-9_]*|[-+*/^(),]/y;
+
+/**
+ * Why `text` is not made of the grammar's tokens, or undefined when it is. With `onlySilent`,
+ * only the characters and numbers mathjs would read without complaint are reported.
+ */
+function lexicalProblem(text: string, onlySilent = false): string | undefined {
+  let at = 0;
+  let prev = '';
+  while (at < text.length) {
+    TOKEN.lastIndex = at;
+    const m = TOKEN.exec(text);
+    if (!m) {
+      const c = text[at]!;
+      if (onlySilent && c !== '%' && c !== '#') {
+        at += 1;
+        prev = c;
+        continue;
+      }
+      const word = c === '%' ? ' (percentages and the remainder are not allowed)' : c === '#' ? ' (comments are not allowed)' : '';
+      return `contains the character "${c}"${word}`;
+    }
+    const tok = m[0];
+    // "0x10", "0b101", "0o17": hexadecimal, binary and octal numbers are not decimal numbers.
+    if (prev === '0' && /^[xXbBoO]/.test(tok)) {
+      return `contains "${short(prev + tok)}", which is not a decimal number (write numbers in decimal)`;
+    }
+    if (!/^\s/.test(tok)) prev = tok;
+    else prev = ' ';
+    at = TOKEN.lastIndex;
+  }
+  return undefined;
+}
+
 function short(s: string): string {
   const t = s.replace(/\s+/g, ' ').trim();
   return t.length > 40 ? t.slice(0, 37) + '...' : t;
@@ -83,6 +124,10 @@ export function compileExpression(text: string, file: string, keyPath: string): 
   };
   if (text.length > MAX_EXPRESSION_LENGTH) reject(`is longer than ${MAX_EXPRESSION_LENGTH} characters`);
   if (text.trim() === '') reject('is empty');
+  // What mathjs would accept silently ("5%", "# ...", "0x10") is refused before it parses;
+  // everything else outside the grammar is named by the tree check below, token by token.
+  const silent = lexicalProblem(text, true);
+  if (silent) reject(silent);
   let root: MathNode;
   try {
     root = getParser().parse(text) as unknown as MathNode;
@@ -175,6 +220,8 @@ export function compileExpression(text: string, file: string, keyPath: string): 
     return { fn: () => v, usesZ: false };
   };
   walk(root);
+  const rest = lexicalProblem(text);
+  if (rest) reject(rest);
   folding = true;
   const compiled = walk(root);
   return { text, fn: compiled.fn, constant: !compiled.usesZ };

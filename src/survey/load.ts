@@ -3,36 +3,36 @@
  * (src/survey/types.ts), or exactly one SurveyError (src/errors.ts) with a stable code, the
  * file, the key path and one sentence saying what to change.
  */
-import { readFileSync, statSync } from 'node:fs';
 import { dirname } from 'node:path';
-import { inputError } from '../errors.js';
-import type { Survey } from './types.js';
-import { MAX_FILE_BYTES, parseYaml } from './yaml.js';
+import type { InputFile, Survey } from './types.js';
+import { parseYaml } from './yaml.js';
 import { normaliseSurvey } from './normalise.js';
+import { MAX_SURVEY_BYTES, readInputText } from './read-input.js';
 
-function reason(e: unknown): string {
-  const code = (e as { code?: string }).code;
-  if (code === 'ENOENT') return 'there is no such file';
-  if (code === 'EACCES' || code === 'EPERM') return 'permission to read it is denied';
-  if (code === 'EISDIR') return 'it is a directory';
-  return `it cannot be read (${code ?? (e as Error).message})`;
+/** Read a survey file as text (a regular UTF-8 file of at most 256 KiB), with its identity. */
+export function readSurveyText(path: string): { text: string; input: InputFile } {
+  const r = readInputText(path, {
+    maxBytes: MAX_SURVEY_BYTES,
+    maxLabel: '256 KiB a survey file may have',
+    file: path,
+    keyPath: '',
+    subject: 'the file',
+    fix: 'check the path and its permissions',
+  });
+  return { text: r.text, input: { path: r.path, dev: r.dev, ino: r.ino } };
 }
 
-/** Read, parse and check a survey file (at most 1 MiB). */
+/** Read, parse and check a survey file; also returns the text as written. */
+export function loadSurveyFileWithText(path: string): { survey: Survey; text: string } {
+  const { text, input } = readSurveyText(path);
+  const survey = loadSurveyText(text, path, dirname(path));
+  survey.inputs = [input, ...(survey.inputs ?? [])];
+  return { survey, text };
+}
+
+/** Read, parse and check a survey file (at most 256 KiB). */
 export function loadSurveyFile(path: string): Survey {
-  let text: string;
-  try {
-    const st = statSync(path);
-    if (st.isDirectory()) throw Object.assign(new Error('directory'), { code: 'EISDIR' });
-    if (st.size > MAX_FILE_BYTES) {
-      throw inputError('file_too_large', path, '', `the file is ${st.size} bytes, more than the 1 MiB a survey file may have`, 'check that this is the right file');
-    }
-    text = readFileSync(path, 'utf8');
-  } catch (e) {
-    if (e instanceof Error && e.name === 'SurveyError') throw e;
-    throw inputError('file_unreadable', path, '', reason(e), 'check the path and its permissions');
-  }
-  return loadSurveyText(text, path, dirname(path));
+  return loadSurveyFileWithText(path).survey;
 }
 
 /**

@@ -5,8 +5,8 @@
  * Order: plain-data check, JSON Schema (specs/survey.schema.json), then the rules that tie keys
  * together (survey-file.md), each failing with one SurveyError (code, file, key path, fix).
  */
-import { inputError } from '../errors.js';
-import { PRESETS, resolveCosmology } from '../cosmology/presets.js';
+import { excerpt, inputError } from '../errors.js';
+import { COSMOLOGY_KEYS, PRESETS, cosmologyProblem, presetNamed, resolveCosmology } from '../cosmology/presets.js';
 import type {
   Completeness,
   Cosmology,
@@ -15,6 +15,7 @@ import type {
   Filter,
   FilterProfile,
   IgmModel,
+  InputFile,
   Population,
   SfrConversion,
   PopulationVariable,
@@ -23,10 +24,11 @@ import type {
 } from './types.js';
 import { schemaError, suggest } from './schema.js';
 import { FULL_SKY_DEG2, SR_PER_DEG2, isPlainNumberString, parseQuantity } from './units.js';
-import { checkParam, fmt, makeZParam, mapParam, type ZTable } from './zparam.js';
+import { checkParam, fmt, makeZParam, mapParam, samplePoints, type ZTable } from './zparam.js';
 import { readTransmissionFile, tableFwhm, tableMeanWavelength } from './transmission-file.js';
 import { filterRangeAngstrom } from '../selection/filter.js';
 import { dirname } from 'node:path';
+import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH, RANGES, describeRange, inRange, type Range } from './limits.js';
 
 type Q = number | string;
 type ZRaw = number | string | ZTable;
@@ -89,9 +91,11 @@ interface RawSurvey {
 }
 
 /** Most slices a survey may ask for. */
-export const MAX_SLICES = 10_000;
-/** A remainder of the window shorter than this is not made into a slice of its own. */
-export const SLICE_REMAINDER = 1e-9;
+export const MAX_SLICES = CAPS.slices;
+/** A remainder of the window shorter than this (the narrowest slice) is not made into a slice of its own. */
+export const SLICE_REMAINDER = MIN_SLICE_WIDTH;
+/** Smallest survey area, deg^2 (a few arcsec on a side: smaller fields hold no galaxy worth counting). */
+export const MIN_AREA_DEG2 = 1e-6;
 /** Default population name. */
 export const DEFAULT_POPULATION_NAME = 'population';
 
@@ -111,6 +115,9 @@ function isPlainObject(v: unknown): v is Record<string, unknown> {
 
 /** Reject anything YAML can produce that is not plain data, and numbers that are not finite. */
 function checkPlain(v: unknown, file: string, path: string): void {
+  if (typeof v === 'string' && v.length > CAPS.textLength) {
+    throw inputError('too_large', file, path, `is a text of ${v.length} characters, more than the ${CAPS.textLength} allowed`, 'shorten it');
+  }
   if (v === null || typeof v === 'string' || typeof v === 'boolean') return;
   if (typeof v === 'number') {
     if (!Number.isFinite(v)) {
@@ -133,14 +140,22 @@ function outOfRange(file: string, path: string, what: string, fix: string): neve
   throw inputError('out_of_range', file, path, what, fix);
 }
 
+/** Refuse a value outside its physical range (src/survey/limits.ts), naming the key. */
+function checkRange(v: number, range: Range, file: string, path: string, what = ''): number {
+  if (!inRange(v, range)) {
+    outOfRange(file, path, `${what ? what + ' ' : ''}is ${fmt(v)}${range.unit ? ` ${range.unit}` : ''}, outside its physical range (${describeRange(range)})`, 'give a value in that range');
+  }
+  return v;
+}
+
 function resolveCosmologyChecked(raw: RawSurvey['cosmology'], file: string): Cosmology {
   const names = Object.keys(PRESETS);
-  if (raw.preset !== undefined && !(raw.preset in PRESETS)) {
+  if (raw.preset !== undefined && presetNamed(raw.preset) === undefined) {
     const near = suggest(raw.preset, names);
     outOfRange(
       file,
       'cosmology.preset',
-      `"${raw.preset}" is not a known preset${near ? ` (did you mean ${near}?)` : ''}`,
+      `"${excerpt(raw.preset)}" is not a known preset${near ? ` (did you mean ${near}?)` : ''}`,
       `use one of ${names.join(', ')}, or give h0 and omega_m`,
     );
   }
@@ -158,14 +173,8 @@ function resolveCosmologyChecked(raw: RawSurvey['cosmology'], file: string): Cos
     sigma8: raw.sigma8,
     nS: raw.n_s,
   });
-  if (!(c.h0 > 0 && c.h0 < 500)) outOfRange(file, 'cosmology.h0', `is ${fmt(c.h0)} km/s/Mpc`, 'give a value between 0 and 500 (e.g. 70)');
-  if (!(c.omegaM > 0 && c.omegaM <= 1)) outOfRange(file, 'cosmology.omega_m', `is ${fmt(c.omegaM)}`, 'give a value in (0, 1] (e.g. 0.3)');
-  if (!(c.tCmb >= 0)) outOfRange(file, 'cosmology.t_cmb', `is ${fmt(c.tCmb)} K`, 'give 0 (no radiation) or a positive temperature (e.g. 2.7255)');
-  if (!(c.omegaB > 0 && c.omegaB <= c.omegaM)) {
-    outOfRange(file, 'cosmology.omega_b', `is ${fmt(c.omegaB)}`, `give a value above 0 and at most omega_m (${fmt(c.omegaM)})`);
-  }
-  if (!(c.sigma8 > 0)) outOfRange(file, 'cosmology.sigma8', `is ${fmt(c.sigma8)}`, 'give a positive value (e.g. 0.81)');
-  if (!(c.nS > 0)) outOfRange(file, 'cosmology.n_s', `is ${fmt(c.nS)}`, 'give a positive value (e.g. 0.965)');
+  const problem = cosmologyProblem(c);
+  if (problem) outOfRange(file, `cosmology.${COSMOLOGY_KEYS[problem.parameter].key}`, problem.what, problem.fix);
   return c;
 }
 
@@ -173,13 +182,18 @@ function resolveCosmologyChecked(raw: RawSurvey['cosmology'], file: string): Cos
 function plainNumber(v: Q, file: string, path: string, what: string): number {
   if (typeof v === 'number') return v;
   if (isPlainNumberString(v)) return Number(v);
-  throw inputError('bad_unit', file, path, `"${v}" is not a plain number`, `give ${what} as a number without a unit`);
+  throw inputError('bad_unit', file, path, `"${excerpt(v)}" is not a plain number`, `give ${what} as a number without a unit`);
 }
 
 function positiveQuantity(v: Q, kind: 'area' | 'wavelength' | 'flux' | 'time', file: string, path: string, unit: string): number {
   const x = parseQuantity(v, kind, file, path);
   if (!(x > 0)) outOfRange(file, path, `is ${fmt(x)} ${unit}`, 'give a positive value');
   return x;
+}
+
+/** A wavelength (Angstrom, or with a unit) inside its physical range. */
+function wavelength(v: Q, file: string, path: string): number {
+  return checkRange(positiveQuantity(v, 'wavelength', file, path, 'Angstrom'), RANGES.wavelength, file, path);
 }
 
 function intersect(a: Window, b: Window): Window {
@@ -203,6 +217,9 @@ export function sliceEdges(raw: RawSurvey['slices'], w: Window, file: string): n
     if (!(n >= 1 && n <= MAX_SLICES)) {
       throw inputError('bad_slices', file, 'slices.count', `is ${n}`, `give a whole number from 1 to ${MAX_SLICES}`);
     }
+    if ((w.max - w.min) / n < MIN_SLICE_WIDTH) {
+      throw inputError('bad_slices', file, 'slices.count', `makes slices ${fmt((w.max - w.min) / n)} wide in redshift, narrower than ${MIN_SLICE_WIDTH}`, 'ask for fewer slices');
+    }
     const edges: number[] = [w.min];
     for (let i = 1; i < n; i++) edges.push(w.min + ((w.max - w.min) * i) / n);
     edges.push(w.max);
@@ -210,7 +227,7 @@ export function sliceEdges(raw: RawSurvey['slices'], w: Window, file: string): n
   }
   if (s.width !== undefined) {
     const dz = s.width;
-    if (!(dz > 0)) throw inputError('bad_slices', file, 'slices.width', `is ${fmt(dz)}`, 'give a positive redshift width (e.g. 0.1)');
+    if (!(dz >= MIN_SLICE_WIDTH)) throw inputError('bad_slices', file, 'slices.width', `is ${fmt(dz)}`, `give a redshift width of at least ${MIN_SLICE_WIDTH} (e.g. 0.1)`);
     const count = (w.max - w.min) / dz;
     if (count > MAX_SLICES) {
       throw inputError('bad_slices', file, 'slices.width', `makes ${Math.ceil(count)} slices, more than ${MAX_SLICES}`, 'give a wider slice');
@@ -225,12 +242,18 @@ export function sliceEdges(raw: RawSurvey['slices'], w: Window, file: string): n
     return edges;
   }
   const edges = [...(s.edges ?? [])];
+  if (edges.length > MAX_SLICES + 1) {
+    throw inputError('bad_slices', file, 'slices.edges', `lists ${edges.length} edges, more than the ${MAX_SLICES + 1} of ${MAX_SLICES} slices`, 'give fewer edges');
+  }
   for (let i = 1; i < edges.length; i++) {
     if (!(edges[i]! > edges[i - 1]!)) {
       throw inputError('bad_slices', file, `slices.edges[${i}]`, `${fmt(edges[i]!)} does not follow ${fmt(edges[i - 1]!)} upward`, 'list the edges in increasing order without repeats');
     }
+    if (edges[i]! - edges[i - 1]! < MIN_SLICE_WIDTH) {
+      throw inputError('bad_slices', file, `slices.edges[${i}]`, `${fmt(edges[i]!)} lies less than ${MIN_SLICE_WIDTH} above ${fmt(edges[i - 1]!)}`, `make each slice at least ${MIN_SLICE_WIDTH} wide in redshift`);
+    }
   }
-  const tol = SLICE_REMAINDER;
+  const tol = 1e-9;
   edges.forEach((e, i) => {
     if (e < w.min - tol || e > w.max + tol) {
       throw inputError(
@@ -247,9 +270,17 @@ export function sliceEdges(raw: RawSurvey['slices'], w: Window, file: string): n
   return edges;
 }
 
+/** The range of the observed (limit) variable of a detection kind. */
+function observedRange(kind: DetectionKind, variable: PopulationVariable): Range {
+  if (kind === 'line_flux') return RANGES.lineFlux;
+  if (kind === 'magnitude') return RANGES.apparentMagnitude;
+  return variable === 'magnitude' ? RANGES.absoluteMagnitude : RANGES.log10Quantity;
+}
+
 function parseCompleteness(
   raw: NonNullable<RawSurvey['detection']['completeness']>,
   kind: DetectionKind,
+  variable: PopulationVariable,
   file: string,
 ): Completeness {
   const p = 'detection.completeness';
@@ -261,10 +292,16 @@ function parseCompleteness(
     if (raw.half === undefined) throw inputError('missing_key', file, `${p}.half`, 'is missing', 'give where the completeness is 0.5');
     if (raw.width === undefined) throw inputError('missing_key', file, `${p}.width`, 'is missing', 'give the width of the logistic fall-off');
     if (!(raw.width > 0)) outOfRange(file, `${p}.width`, `is ${fmt(raw.width)}`, 'give a positive width');
+    checkRange(raw.width, RANGES.completenessWidth, file, `${p}.width`);
     const half =
       kind === 'line_flux'
-        ? -Math.log10(positiveQuantity(raw.half, 'flux', file, `${p}.half`, 'erg/s/cm^2'))
-        : plainNumber(raw.half, file, `${p}.half`, kind === 'magnitude' ? 'an AB magnitude' : 'a value of the population variable');
+        ? -Math.log10(checkRange(positiveQuantity(raw.half, 'flux', file, `${p}.half`, 'erg/s/cm^2'), RANGES.lineFlux, file, `${p}.half`))
+        : checkRange(
+            plainNumber(raw.half, file, `${p}.half`, kind === 'magnitude' ? 'an AB magnitude' : 'a value of the population variable'),
+            observedRange(kind, variable),
+            file,
+            `${p}.half`,
+          );
     return { model: 'logistic', half, width: raw.width };
   }
   for (const k of ['half', 'width'] as const) {
@@ -274,6 +311,9 @@ function parseCompleteness(
   }
   const rows = raw.table;
   if (rows === undefined) throw inputError('missing_key', file, `${p}.table`, 'is missing', 'give rows [x, fraction]');
+  if (rows.length > CAPS.tableRows) {
+    throw inputError('too_large', file, `${p}.table`, `has ${rows.length} rows, more than the ${CAPS.tableRows} a table may have`, 'resample it to fewer rows');
+  }
   let x = rows.map((r) => r[0]);
   let fraction = rows.map((r) => r[1]);
   for (let i = 0; i < rows.length; i++) {
@@ -282,6 +322,7 @@ function parseCompleteness(
     if (kind === 'line_flux' && !(x[i]! > 0)) {
       outOfRange(file, `${p}.table[${i}]`, `the flux ${fmt(x[i]!)} is not positive`, 'give line fluxes in erg/s/cm^2 above 0');
     }
+    checkRange(x[i]!, observedRange(kind, variable), file, `${p}.table[${i}]`, 'x');
     if (i > 0 && !(x[i]! > x[i - 1]!)) {
       throw inputError('bad_table', file, `${p}.table[${i}]`, `${fmt(x[i]!)} does not follow ${fmt(x[i - 1]!)} upward`, 'list the rows in increasing x without repeats');
     }
@@ -392,12 +433,15 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   const invalid = schemaError(obj, file);
   if (invalid) throw invalid;
   const raw = obj as unknown as RawSurvey;
+  /** Files read on the way (transmission tables), with their identity. */
+  const inputs: InputFile[] = [];
 
   const cosmology = resolveCosmologyChecked(raw.cosmology, file);
 
   // Area.
   const areaDeg2 = parseQuantity(raw.area, 'area', file, 'area');
   if (!(areaDeg2 > 0)) outOfRange(file, 'area', `is ${fmt(areaDeg2)} deg^2`, 'give a positive area');
+  if (areaDeg2 < MIN_AREA_DEG2) outOfRange(file, 'area', `is ${fmt(areaDeg2)} deg^2, less than the ${MIN_AREA_DEG2} deg^2 (${fmt(MIN_AREA_DEG2 * 3600)} arcmin^2) of the smallest field`, 'give a larger area');
   if (areaDeg2 > FULL_SKY_DEG2 * (1 + 1e-12)) {
     outOfRange(file, 'area', `is ${fmt(areaDeg2)} deg^2, more than the whole sky (${fmt(FULL_SKY_DEG2)} deg^2)`, 'give at most the full sky');
   }
@@ -406,9 +450,13 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   const field = { aspect: raw.field?.aspect ?? 1, count: raw.field?.count ?? 1 };
   if (!(field.aspect > 0)) outOfRange(file, 'field.aspect', `is ${fmt(field.aspect)}`, 'give a positive aspect ratio (1 for a square field)');
   if (!(field.count >= 1)) outOfRange(file, 'field.count', `is ${field.count}`, 'give at least 1 field');
+  checkRange(field.aspect, RANGES.fieldAspect, file, 'field.aspect');
+  checkRange(field.count, RANGES.fieldCount, file, 'field.count');
 
   let exposureHours: number | undefined;
-  if (raw.exposure !== undefined) exposureHours = positiveQuantity(raw.exposure, 'time', file, 'exposure', 'h');
+  if (raw.exposure !== undefined) {
+    exposureHours = checkRange(positiveQuantity(raw.exposure, 'time', file, 'exposure', 'h'), RANGES.exposureHours, file, 'exposure');
+  }
 
   // Detection keys that do not belong to the kind.
   const det = raw.detection;
@@ -423,7 +471,10 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   const rawPops: { raw: RawPopulation; path: string }[] = raw.population
     ? [{ raw: raw.population, path: 'population' }]
     : (raw.populations ?? []).map((p, i) => ({ raw: p, path: `populations[${i}]` }));
-  const detLine = det.line !== undefined ? positiveQuantity(det.line, 'wavelength', file, 'detection.line', 'Angstrom') : undefined;
+  if (rawPops.length > CAPS.populations) {
+    throw inputError('too_large', file, 'populations', `lists ${rawPops.length} populations, more than the ${CAPS.populations} a survey may have`, 'split the survey into several files');
+  }
+  const detLine = det.line !== undefined ? wavelength(det.line, file, 'detection.line') : undefined;
   const names = new Set<string>();
   const lines: (number | undefined)[] = [];
   rawPops.forEach(({ raw: p, path }, i) => {
@@ -437,11 +488,11 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
       throw inputError('kind_mismatch', file, `${path}.line`, `line applies to the line_flux kind only, not ${kind}`, 'remove it');
     }
     const name = p.name ?? (rawPops.length === 1 ? DEFAULT_POPULATION_NAME : `${DEFAULT_POPULATION_NAME} ${i + 1}`);
-    if (names.has(name)) throw inputError('conflict', file, `${path}.name`, `the name "${name}" is used by another population`, 'give each population its own name');
+    if (names.has(name)) throw inputError('conflict', file, `${path}.name`, `the name "${excerpt(name)}" is used by another population`, 'give each population its own name');
     names.add(name);
     let line: number | undefined;
     if (kind === 'line_flux') {
-      line = p.line !== undefined ? positiveQuantity(p.line, 'wavelength', file, `${path}.line`, 'Angstrom') : detLine;
+      line = p.line !== undefined ? wavelength(p.line, file, `${path}.line`) : detLine;
       if (line === undefined) {
         throw inputError('missing_key', file, 'detection.line', 'is missing', `give the rest wavelength of the line (Angstrom or with a unit) as detection.line or ${path}.line`);
       }
@@ -457,6 +508,12 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
     if (!(given.max > given.min)) {
       throw inputError('bad_window', file, 'redshift.max', `is ${fmt(given.max)}, not above min (${fmt(given.min)})`, 'give max larger than min');
     }
+    if (given.max > MAX_REDSHIFT) {
+      throw inputError('bad_window', file, 'redshift.max', `is ${fmt(given.max)}, beyond z = ${MAX_REDSHIFT}, before galaxies formed`, `give a window within z = 0 to ${MAX_REDSHIFT}`);
+    }
+    if (given.max - given.min < MIN_SLICE_WIDTH) {
+      throw inputError('bad_window', file, 'redshift.max', `makes a window ${fmt(given.max - given.min)} wide in redshift, narrower than ${MIN_SLICE_WIDTH}`, `give a window at least ${MIN_SLICE_WIDTH} wide`);
+    }
   }
   let filter: Filter | undefined;
   if (det.filter) {
@@ -471,15 +528,15 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
         }
       }
       if (f.file === undefined) throw inputError('missing_key', file, 'detection.filter.file', 'is missing', 'give the CSV of wavelength, transmission (path relative to the survey file)');
-      const table = readTransmissionFile(f.file, file, 'detection.filter.file', base);
+      const table = readTransmissionFile(f.file, file, 'detection.filter.file', base, (input) => inputs.push(input));
       filter = { centerAngstrom: tableMeanWavelength(table), fwhmAngstrom: tableFwhm(table), profile: 'table', table };
     } else {
       for (const k of ['center', 'fwhm'] as const) {
         if (f[k] === undefined) throw inputError('missing_key', file, `detection.filter.${k}`, 'is missing', `give the filter's ${k} (Angstrom or with a unit), or profile: table with a file`);
       }
       filter = {
-        centerAngstrom: positiveQuantity(f.center!, 'wavelength', file, 'detection.filter.center', 'Angstrom'),
-        fwhmAngstrom: positiveQuantity(f.fwhm!, 'wavelength', file, 'detection.filter.fwhm', 'Angstrom'),
+        centerAngstrom: wavelength(f.center!, file, 'detection.filter.center'),
+        fwhmAngstrom: wavelength(f.fwhm!, file, 'detection.filter.fwhm'),
         profile: f.profile ?? 'tophat',
       };
     }
@@ -491,6 +548,18 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
     if (!filter) return given!;
     const w = filterWindow(filter, lines[i]!);
     const cut = given ? intersect(w, given) : w;
+    if (cut.max > MAX_REDSHIFT && cut.max > cut.min) {
+      throw inputError(
+        'bad_window',
+        file,
+        'detection.filter',
+        `the filter sees the line at ${fmt(lines[i]!)} Angstrom up to z = ${fmt(cut.max)}, beyond z = ${MAX_REDSHIFT}, before galaxies formed`,
+        'check the filter center and fwhm and the line, or give a redshift window to cut it',
+      );
+    }
+    if (cut.max > cut.min && cut.max - cut.min < MIN_SLICE_WIDTH) {
+      throw inputError('bad_window', file, 'detection.filter', `the filter sees the line at ${fmt(lines[i]!)} Angstrom over a redshift range only ${fmt(cut.max - cut.min)} wide, narrower than ${MIN_SLICE_WIDTH}`, 'check the filter fwhm and the redshift window');
+    }
     if (!(cut.max > cut.min)) {
       const seen = w.max > w.min ? `z = ${fmt(w.min)} to ${fmt(w.max)}` : 'no redshift of 0 or more';
       throw inputError(
@@ -522,15 +591,26 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
     sliceEdgesZ = sliceEdges(raw.slices, window, file);
     ownEdges = windows.map((w, i) => (i === 0 ? sliceEdgesZ : sliceEdges(raw.slices, w, file)));
   }
+  const sliceResults = ownEdges.reduce((n, e) => n + (e.length - 1), 0) + (rawPops.length > 1 ? rawPops.length * (sliceEdgesZ.length - 1) : 0);
+  if (sliceResults > CAPS.sliceResults) {
+    throw inputError(
+      'bad_slices',
+      file,
+      'slices',
+      `asks for ${sliceResults} counts (each population over every slice), more than the ${CAPS.sliceResults} one survey may ask for`,
+      'give fewer slices or fewer populations',
+    );
+  }
 
   // Detection.
   let detection: Detection;
-  const completeness = det.completeness ? parseCompleteness(det.completeness, kind, file) : undefined;
+  const thresholdVariable: PopulationVariable = rawPops.every((p) => p.raw.variable === 'magnitude') ? 'magnitude' : 'luminosity';
+  const completeness = det.completeness ? parseCompleteness(det.completeness, kind, thresholdVariable, file) : undefined;
   if (kind === 'line_flux') {
     if (typeof det.limit === 'object') {
       throw inputError('wrong_type', file, 'detection.limit', 'is a table but a line_flux limit is one flux', 'give the flux limit in erg/s/cm^2 or with a unit');
     }
-    const limitCgs = positiveQuantity(det.limit, 'flux', file, 'detection.limit', 'erg/s/cm^2');
+    const limitCgs = checkRange(positiveQuantity(det.limit, 'flux', file, 'detection.limit', 'erg/s/cm^2'), RANGES.lineFlux, file, 'detection.limit');
     detection = { kind, limitCgs };
     if (detLine !== undefined) detection.lineAngstrom = detLine;
     if (filter) detection.filter = filter;
@@ -538,18 +618,18 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
     if (typeof det.limit === 'object') {
       throw inputError('wrong_type', file, 'detection.limit', 'is a table but a magnitude limit is one AB magnitude', 'give the limiting apparent AB magnitude as a number');
     }
-    const limitMag = plainNumber(det.limit, file, 'detection.limit', 'the limiting apparent AB magnitude');
-    const bandTable = det.band_file !== undefined ? readTransmissionFile(det.band_file, file, 'detection.band_file', base) : undefined;
+    const limitMag = checkRange(plainNumber(det.limit, file, 'detection.limit', 'the limiting apparent AB magnitude'), RANGES.apparentMagnitude, file, 'detection.limit');
+    const bandTable = det.band_file !== undefined ? readTransmissionFile(det.band_file, file, 'detection.band_file', base, (input) => inputs.push(input)) : undefined;
     if (det.band === undefined && !bandTable) {
       throw inputError('missing_key', file, 'detection.band', 'is missing', 'give the effective wavelength of the band (Angstrom or with a unit), or a band_file');
     }
-    const bandAngstrom =
-      det.band !== undefined ? positiveQuantity(det.band, 'wavelength', file, 'detection.band', 'Angstrom') : tableMeanWavelength(bandTable!);
-    detection = { kind, limitMag, bandAngstrom, beta: det.beta ?? -2, igm: det.igm ?? 'none' };
+    const bandAngstrom = det.band !== undefined ? wavelength(det.band, file, 'detection.band') : tableMeanWavelength(bandTable!);
+    const beta = checkRange(det.beta ?? -2, RANGES.beta, file, 'detection.beta');
+    detection = { kind, limitMag, bandAngstrom, beta, igm: det.igm ?? 'none' };
     if (bandTable) detection.bandTable = bandTable;
   } else {
     const limit = makeZParam(det.limit, file, 'detection.limit');
-    checkParam(limit, hull, file, 'detection.limit', { what: 'the limit' });
+    checkParam(limit, hull, file, 'detection.limit', { what: 'the limit', range: observedRange(kind, thresholdVariable) });
     detection = { kind, limit };
   }
   if (completeness) detection.completeness = completeness;
@@ -559,21 +639,20 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
     const w = windows[i]!;
     const params = parsePopulationParams(p, path, file);
     for (const c of params.components) {
-      checkParam(c.phiStar, w, file, `${path}.${c.phiKey}`, { what: c.phiKey, positive: true });
-      checkParam(c.alpha, w, file, `${path}.${c.alphaKey}`, { what: c.alphaKey });
+      checkParam(c.phiStar, w, file, `${path}.${c.phiKey}`, { what: c.phiKey === 'phi_star' ? 'phi_star' : `phi_star (from ${c.phiKey})`, positive: true, range: RANGES.phiStar, unitLabel: 'Mpc^-3' });
+      checkParam(c.alpha, w, file, `${path}.${c.alphaKey}`, { what: c.alphaKey, range: RANGES.alpha });
     }
-    if (params.lStar) checkParam(params.lStar, w, file, `${path}.${params.lKey}`, { what: 'l_star', positive: true });
-    if (params.mStar) checkParam(params.mStar, w, file, `${path}.m_star`, { what: 'm_star' });
+    if (params.lStar) checkParam(params.lStar, w, file, `${path}.${params.lKey}`, { what: 'l_star', positive: true, range: RANGES.lStar });
+    if (params.mStar) checkParam(params.mStar, w, file, `${path}.m_star`, { what: 'm_star', range: RANGES.mStar, unitLabel: 'AB mag' });
     const sfrConversion = parseSfrConversion(p, path, file);
     let bias: 'auto' | ZParam = 'auto';
     if (p.bias !== undefined && p.bias !== 'auto') {
       bias = makeZParam(p.bias, file, `${path}.bias`);
-      checkParam(bias, w, file, `${path}.bias`, { what: 'the bias', positive: true });
+      checkParam(bias, w, file, `${path}.bias`, { what: 'the bias', positive: true, range: RANGES.bias });
     }
     const occupation = p.occupation ?? 1;
     if (!(occupation > 0 && occupation <= 1)) outOfRange(file, `${path}.occupation`, `is ${fmt(occupation)}`, 'give a fraction above 0 and at most 1');
-    const restWavelengthAngstrom =
-      p.rest_wavelength !== undefined ? positiveQuantity(p.rest_wavelength, 'wavelength', file, `${path}.rest_wavelength`, 'Angstrom') : 1500;
+    const restWavelengthAngstrom = p.rest_wavelength !== undefined ? wavelength(p.rest_wavelength, file, `${path}.rest_wavelength`) : 1500;
     const pop: Population = {
       name: p.name ?? (rawPops.length === 1 ? DEFAULT_POPULATION_NAME : `${DEFAULT_POPULATION_NAME} ${i + 1}`),
       shape: p.shape ?? 'schechter',
@@ -599,6 +678,8 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   const defaultWidth = kind === 'magnitude' || (kind === 'threshold' && rawPops.every((p) => p.raw.variable === 'magnitude')) ? 0.25 : 0.1;
   const histogramWidth = raw.histogram?.width ?? defaultWidth;
   if (!(histogramWidth > 0)) outOfRange(file, 'histogram.width', `is ${fmt(histogramWidth)}`, 'give a positive bin width');
+  checkRange(histogramWidth, RANGES.histogramWidth, file, 'histogram.width');
+  if (detection.kind === 'threshold' && !detection.limit.constant) checkLimitSpan(detection.limit, hull, histogramWidth, file);
 
   const survey: Survey = {
     format: 1,
@@ -614,6 +695,7 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
     sliceEdges: sliceEdgesZ,
     histogramWidth,
     raw: obj,
+    inputs,
   };
   if (exposureHours !== undefined) survey.exposureHours = exposureHours;
   return survey;
@@ -631,6 +713,7 @@ function parseSfrConversion(p: RawPopulation, path: string, file: string): SfrCo
   const key = `${path}.sfr_conversion`;
   if (typeof v === 'number') {
     if (!(v > 0)) outOfRange(file, key, `is ${fmt(v)}`, 'give a positive factor in Msun/yr per erg/s (per erg/s/Hz for a magnitude variable)');
+    checkRange(v, RANGES.sfrFactor, file, key);
     return { name: 'factor', factor: v };
   }
   if (v === 'uv' && p.variable !== 'magnitude') {
@@ -640,6 +723,30 @@ function parseSfrConversion(p: RawPopulation, path: string, file: string): SfrCo
     throw inputError('kind_mismatch', file, key, `${v} converts a line luminosity, which needs variable luminosity`, 'use uv for absolute magnitudes, or give a factor');
   }
   return { name: v, factor: KENNICUTT1998[v] };
+}
+
+/**
+ * A threshold limit that varies with z is counted piecewise between the redshifts where it
+ * crosses a histogram bin edge: refuse a limit that crosses more edges than a slice may have bins.
+ */
+function checkLimitSpan(limit: ZParam, w: Window, width: number, file: string): void {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const z of samplePoints(w, limit)) {
+    const v = limit.at(z);
+    lo = Math.min(lo, v);
+    hi = Math.max(hi, v);
+  }
+  const crossings = (hi - lo) / width;
+  if (crossings > CAPS.histogramBins) {
+    throw inputError(
+      'too_large',
+      file,
+      'detection.limit',
+      `changes by ${fmt(hi - lo)} over the redshift window, ${Math.ceil(crossings)} histogram bins of ${fmt(width)}, more than the ${CAPS.histogramBins} a slice may have`,
+      'check the limit, or give a wider histogram.width',
+    );
+  }
 }
 
 function defaultTitle(file: string): string {

@@ -12,32 +12,46 @@
  * relative to the survey file's directory. Every problem is one SurveyError naming the survey file,
  * the key and the transmission file.
  */
-import { readFileSync, statSync } from 'node:fs';
 import { isAbsolute, resolve } from 'node:path';
-import { inputError } from '../errors.js';
-import type { TransmissionTable } from './types.js';
-import { MAX_FILE_BYTES } from './yaml.js';
+import { excerpt, inputError } from '../errors.js';
+import type { InputFile, TransmissionTable } from './types.js';
+import { MAX_TABLE_BYTES, readInputText } from './read-input.js';
 
 const UNIT_SCALE: Record<string, number> = { '': 1, _angstrom: 1, _nm: 10, _um: 1e4 };
 
-/** Read and check a transmission file; `keyPath` is the survey key that names it. */
-export function readTransmissionFile(path: string, surveyFile: string, keyPath: string, baseDir: string): TransmissionTable {
+/** Most rows a transmission table may hold (each row inside a window is a kink the count integrates piece by piece). */
+export const MAX_TABLE_ROWS = 2000;
+
+/**
+ * Read and check a transmission file; `keyPath` is the survey key that names it. `record`, when
+ * given, receives the identity of the file read (so that no output may replace it).
+ *
+ * Nothing of the file is quoted until it has shown itself to be a table (a recognised header or
+ * a row of two numbers), and then only a short escaped excerpt: a file that is not a table (a
+ * password file named by mistake or on purpose) never has its contents printed.
+ */
+export function readTransmissionFile(
+  path: string,
+  surveyFile: string,
+  keyPath: string,
+  baseDir: string,
+  record?: (input: InputFile) => void,
+): TransmissionTable {
   const full = isAbsolute(path) ? path : resolve(baseDir, path);
+  const shown = excerpt(path, 80);
   const bad = (what: string, fix: string): never => {
-    throw inputError('bad_table', surveyFile, keyPath, `the transmission file "${path}" ${what}`, fix);
+    throw inputError('bad_table', surveyFile, keyPath, `the transmission file "${shown}" ${what}`, fix);
   };
-  let text: string;
-  try {
-    const st = statSync(full);
-    if (st.isDirectory()) throw Object.assign(new Error('directory'), { code: 'EISDIR' });
-    if (st.size > MAX_FILE_BYTES) bad(`is ${st.size} bytes, more than the 1 MiB allowed`, 'give a shorter table');
-    text = readFileSync(full, 'utf8');
-  } catch (e) {
-    if (e instanceof Error && e.name === 'SurveyError') throw e;
-    const code = (e as { code?: string }).code;
-    const why = code === 'ENOENT' ? 'does not exist' : code === 'EISDIR' ? 'is a directory' : `cannot be read (${code ?? (e as Error).message})`;
-    throw inputError('file_unreadable', surveyFile, keyPath, `the transmission file "${path}" ${why} (looked for ${full})`, 'give a path relative to the survey file');
-  }
+  const read = readInputText(full, {
+    maxBytes: MAX_TABLE_BYTES,
+    maxLabel: '1 MiB a table may have',
+    file: surveyFile,
+    keyPath,
+    subject: `the transmission file "${shown}"${full === path ? '' : ` (looked for ${excerpt(full, 120)})`}`,
+    fix: 'give a path relative to the survey file',
+  });
+  record?.({ path: read.path, dev: read.dev, ino: read.ino });
+  const text = read.text;
   let scale = 1;
   let seenRow = false;
   let headerSeen = false;
@@ -53,14 +67,23 @@ export function readTransmissionFile(path: string, surveyFile: string, keyPath: 
       headerSeen = true;
       const first = (cells[0] ?? '').toLowerCase();
       const m = /^wavelength(_angstrom|_nm|_um)?$/.exec(first);
-      if (!m) bad(`has the header "${line}" whose first column is not wavelength, wavelength_angstrom, wavelength_nm or wavelength_um`, 'name the first column by its unit');
+      if (!m) {
+        bad(
+          `does not start with a table: its first line (line ${i + 1}) is neither a header whose first column is wavelength, wavelength_angstrom, wavelength_nm or wavelength_um nor a row of two numbers`,
+          'give a CSV of wavelength, transmission rows',
+        );
+      }
       scale = UNIT_SCALE[m![1] ?? '']!;
       return;
     }
     if (cells.length !== 2 || nums.some((x) => !Number.isFinite(x))) {
-      bad(`line ${i + 1} ("${line.length > 40 ? line.slice(0, 37) + '...' : line}") is not two numbers`, 'write each row as wavelength, transmission');
+      if (!seenRow && !headerSeen) {
+        bad(`does not start with a table: its first line (line ${i + 1}) is not a row of two numbers`, 'give a CSV of wavelength, transmission rows');
+      }
+      bad(`line ${i + 1} ("${excerpt(line)}") is not two numbers`, 'write each row as wavelength, transmission');
     }
     seenRow = true;
+    if (wl.length >= MAX_TABLE_ROWS) bad(`holds more than ${MAX_TABLE_ROWS} rows`, `resample the curve to at most ${MAX_TABLE_ROWS} rows`);
     const w = nums[0]! * scale;
     const t = nums[1]!;
     if (!(w > 0)) bad(`line ${i + 1} has the wavelength ${nums[0]}, not above 0`, 'give positive wavelengths');

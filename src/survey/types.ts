@@ -172,4 +172,16 @@ export interface Survey {
   exposureHours?: number;
   /** The parsed file as written (for reports). */
   raw: unknown;
+  /**
+   * Every file read to build the survey (the survey file first, then transmission files), with
+   * its identity: outputs are compared with these so that no output replaces an input.
+   */
+  inputs?: InputFile[];
+}
+
+/** A file that was read, identified by device and inode (links resolved). */
+export interface InputFile {
+  path: string;
+  dev: number;
+  ino: number;
 }

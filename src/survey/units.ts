@@ -6,7 +6,7 @@
  *
  * Conversions are done by mathjs (loaded only when a string with a unit actually appears).
  */
-import { inputError } from '../errors.js';
+import { excerpt, inputError } from '../errors.js';
 import type * as MathJsModule from 'mathjs';
 import { getUnits } from './mathjs.js';
 
@@ -33,6 +33,9 @@ export const QUANTITY_KINDS: Record<QuantityKind, KindInfo> = {
   },
   time: { unit: 'h', label: 'hours', what: 'a time', examples: '3, "3 h" or "90 min"' },
 };
+
+/** Longest quantity string read ("2.1 deg^2" is 9 characters). */
+export const MAX_QUANTITY_LENGTH = 100;
 
 const PLAIN_NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 const LEADING_NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?\s*\S/;
@@ -64,14 +67,22 @@ export function parseQuantity(value: number | string, kind: QuantityKind, file: 
   const info = QUANTITY_KINDS[kind];
   if (typeof value === 'number') return value;
   const text = value.trim();
-  if (PLAIN_NUMBER.test(text)) return Number(text);
   const fix = `write ${info.what} in ${info.label} as a number, or with a unit, e.g. ${info.examples}`;
+  if (PLAIN_NUMBER.test(text)) {
+    const v = Number(text);
+    if (!Number.isFinite(v)) throw inputError('not_finite', file, keyPath, `"${excerpt(text)}" is not a finite number`, fix);
+    return v;
+  }
+  if (text.length > MAX_QUANTITY_LENGTH) {
+    throw inputError('bad_unit', file, keyPath, `"${excerpt(text)}" is longer than the ${MAX_QUANTITY_LENGTH} characters a quantity may have`, fix);
+  }
+  const shown = excerpt(text, 60);
   if (!LEADING_NUMBER.test(text)) {
-    throw inputError('bad_unit', file, keyPath, `"${value}" does not start with a number`, fix);
+    throw inputError('bad_unit', file, keyPath, `"${shown}" does not start with a number`, fix);
   }
   const quick = commonQuantity(normaliseUnitNames(text), kind);
   if (quick !== undefined) {
-    if (!Number.isFinite(quick)) throw inputError('not_finite', file, keyPath, `"${value}" is not a finite quantity`, fix);
+    if (!Number.isFinite(quick)) throw inputError('not_finite', file, keyPath, `"${shown}" is not a finite quantity`, fix);
     return quick;
   }
   const math = getUnits();
@@ -79,19 +90,19 @@ export function parseQuantity(value: number | string, kind: QuantityKind, file: 
   try {
     u = math.unit(normaliseUnitNames(text));
   } catch {
-    throw inputError('bad_unit', file, keyPath, `"${value}" is not a number with a unit this tool knows`, fix);
+    throw inputError('bad_unit', file, keyPath, `"${shown}" is not a number with a unit this tool knows`, fix);
   }
   if ((u as unknown as { value: unknown }).value === null) {
-    throw inputError('bad_unit', file, keyPath, `"${value}" has no number`, fix);
+    throw inputError('bad_unit', file, keyPath, `"${shown}" has no number`, fix);
   }
   if (!u.equalBase(math.unit(info.unit))) {
-    throw inputError('bad_unit', file, keyPath, `"${value}" is not ${info.what} (expected a unit like ${info.label})`, fix);
+    throw inputError('bad_unit', file, keyPath, `"${shown}" is not ${info.what} (expected a unit like ${info.label})`, fix);
   }
   // Rounded to 15 significant digits: removes the last-bit noise of going through SI base units
   // (e.g. "1.19 um" -> 11900, not 11899.999999999998); far below any physical precision.
   const v = Number(u.toNumber(info.unit).toPrecision(15));
   if (!Number.isFinite(v)) {
-    throw inputError('not_finite', file, keyPath, `"${value}" is not a finite quantity`, fix);
+    throw inputError('not_finite', file, keyPath, `"${shown}" is not a finite quantity`, fix);
   }
   return v;
 }

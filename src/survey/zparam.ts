@@ -6,6 +6,7 @@
 import { inputError } from '../errors.js';
 import type { ZParam } from './types.js';
 import { compileExpression } from './expressions.js';
+import { CAPS, describeRange, inRange, type Range } from './limits.js';
 
 export type ZTable = { table: [number, number][] };
 
@@ -51,6 +52,9 @@ export function makeZParam(value: number | string | ZTable, file: string, keyPat
     return { source: value, constant: e.constant, at: e.fn };
   }
   const rows = value.table;
+  if (rows.length > CAPS.tableRows) {
+    throw inputError('too_large', file, `${keyPath}.table`, `has ${rows.length} rows, more than the ${CAPS.tableRows} a table may have`, 'resample it to fewer rows');
+  }
   const zs = rows.map((r) => r[0]);
   const vs = rows.map((r) => r[1]);
   for (let i = 1; i < zs.length; i++) {
@@ -98,7 +102,7 @@ export function checkParam(
   window: { min: number; max: number },
   file: string,
   keyPath: string,
-  opts: { positive?: boolean; what: string },
+  opts: { positive?: boolean; what: string; range?: Range; unitLabel?: string },
 ): void {
   for (const z of samplePoints(window, p)) {
     const v = p.at(z);
@@ -122,6 +126,15 @@ export function checkParam(
         keyPath,
         `${opts.what} is ${fmt(v)} at z = ${fmt(z)} but must be positive`,
         `give a value above 0 for every z from ${fmt(window.min)} to ${fmt(window.max)}`,
+      );
+    }
+    if (opts.range && !inRange(v, opts.range)) {
+      throw inputError(
+        'out_of_range',
+        file,
+        keyPath,
+        `${opts.what} is ${fmt(v)}${opts.unitLabel ? ` ${opts.unitLabel}` : ''} at z = ${fmt(z)}, outside its physical range (${describeRange(opts.range)})`,
+        `give a value in that range for every z from ${fmt(window.min)} to ${fmt(window.max)}`,
       );
     }
   }

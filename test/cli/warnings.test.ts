@@ -82,13 +82,18 @@ describe('warnings on files made to trigger them', () => {
     expect((await runCli(['forecast', LINEAR_LOG])).code).toBe(2);
   });
 
-  test('M* given as an apparent magnitude: implausible_luminosity', async () => {
+  test('M* given as an apparent magnitude: implausible_luminosity (within the loader\'s range), refused beyond it', async () => {
     const text = readFileSync('samples/deep-continuum.yaml', 'utf8');
     expect(text).toMatch(/m_star: /);
-    const f = file('apparent.yaml', text.replace(/^(\s*)m_star: .*$/m, '$1m_star: 24.5'));
+    // the loader accepts m_star up to 10 (a physical range); -30 to -10 is plausible for galaxies
+    const f = file('apparent.yaml', text.replace(/^(\s*)m_star: .*$/m, '$1m_star: 8.5'));
     const r = await runCli(['check', f, '--format', 'json']);
     expect(r.code).toBe(0);
-    expect((JSON.parse(r.stdout) as Any).warnings).toEqual([{ code: 'implausible_luminosity', message: expect.stringMatching(/M\* = 24\.5 .*apparent magnitude/) }]);
+    expect((JSON.parse(r.stdout) as Any).warnings).toEqual([{ code: 'implausible_luminosity', message: expect.stringMatching(/M\* = 8\.5 .*apparent magnitude/) }]);
+    const g = file('apparent-far.yaml', text.replace(/^(\s*)m_star: .*$/m, '$1m_star: 24.5'));
+    const refused = await runCli(['check', g, '--format', 'json']);
+    expect(refused.code).toBe(2);
+    expect(refused.stderr).toMatch(/m_star/);
   });
 
   test('a plan whose best design sits at the edge of its exposure grid: optimum_at_grid_edge, and the optimum is not called sharp (failed before)', async () => {

@@ -20,11 +20,13 @@ const windowArb = fc.tuple(finite(0, 6), finite(1e-3, 4)).map(([min, d]) => ({ m
 const slicesArb = (w: { min: number; max: number }) =>
   fc.oneof(
     fc.integer({ min: 1, max: 200 }).map((count) => ({ count })),
-    finite(Math.max(1e-3, (w.max - w.min) / 5000), 2).map((width) => ({ width })),
+    // at most the loader's 1000 slices
+    finite(Math.max(1e-3, (w.max - w.min) / 900), 2).map((width) => ({ width })),
     fc
       .uniqueArray(finite(w.min, w.max), { minLength: 2, maxLength: 12 })
       .map((a) => [...a].sort((x, y) => x - y))
-      .filter((a) => a.every((v, i) => i === 0 || v > a[i - 1]!))
+      // slices at least 1e-6 wide in redshift (the loader's narrowest slice)
+      .filter((a) => a.every((v, i) => i === 0 || v - a[i - 1]! >= 1e-6))
       .map((edges) => ({ edges })),
   );
 
@@ -42,7 +44,8 @@ const surveyArb = windowArb.chain((w) =>
     slices: slicesArb(w),
     window: fc.constant(w),
     h0: finite(50, 90),
-    omegaM: finite(0.1, 1),
+    // below 1 so that radiation (t_cmb 2.7255 K: omega_r ~ 1e-4) still fits in a flat universe
+    omegaM: finite(0.1, 0.99),
     tCmb: fc.constantFrom(0, 2.7255),
     limit: finite(-19, -15),
     mag: finite(20, 30),

@@ -1,7 +1,8 @@
 import type { CommandDef } from './types.js';
 import { addOutputOptions, loadSurveyArg, outputOptions, printWarnings } from './common.js';
-import { emit } from '../io.js';
+import { Outputs, renderText } from '../io.js';
 import { csvText } from '../../render/csv.js';
+import { printable } from '../../errors.js';
 
 export const checkCommand: CommandDef = {
   name: 'check',
@@ -13,7 +14,10 @@ export const checkCommand: CommandDef = {
   async action(cmd, args, io) {
     const file = args[0] as string;
     const opts = outputOptions(cmd.opts());
+    const outputs = new Outputs(io, { out: opts.out });
+    outputs.refuseInputs([file]);
     const survey = await loadSurveyArg(io, file);
+    outputs.refuseInputs(survey.inputs ?? []);
     const { describeSurvey } = await import('../../survey/index.js');
     const { surveyWarnings } = await import('../../survey/warnings.js');
     const { predictionWarnings } = await import('../../counts/predict.js');
@@ -23,16 +27,14 @@ export const checkCommand: CommandDef = {
     printWarnings(io, warnings);
     const view = describeSurvey(survey) as Record<string, unknown>;
     const flat = flatten(view);
-    emit(
-      io,
-      opts,
-      {
+    outputs.setMain(
+      renderText(opts, {
         json: () => ({ ...view, warnings }),
-        table: () => `${file}: valid survey file\n` + Object.entries(flat).map(([k, v]) => `  ${k} = ${v}`).join('\n') + '\n',
+        table: () => `${printable(file)}: valid survey file\n` + Object.entries(flat).map(([k, v]) => `  ${k} = ${v}`).join('\n') + '\n',
         csv: () => csvText(['key', 'value'], Object.entries(flat)),
-      },
-      [file],
+      }),
     );
+    outputs.commit();
     return 0;
   },
 };

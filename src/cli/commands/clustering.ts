@@ -1,21 +1,14 @@
 import type { CommandDef } from './types.js';
-import { addOutputOptions, outputOptions, parseNumber } from './common.js';
-import { addCosmologyOptions, cosmologyFromOptions } from './cosmology-options.js';
-import { emit } from '../io.js';
+import { addOutputOptions, outputOptions, parseKeyedList } from './common.js';
+import { addCosmologyOptions, cosmologyFromOptions, checkedCosmology } from './cosmology-options.js';
+import { Outputs, renderText } from '../io.js';
 import { inputError } from '../../errors.js';
 
-/** A comma-separated list kept with the text of each item (JSON keys repeat what was typed). */
-function parseKeyedList(text: string, option: string, positive: boolean): { key: string; value: number }[] {
-  const items = text.split(',').map((s) => s.trim()).filter((s) => s.length > 0);
-  if (items.length === 0) throw inputError('bad_option', '', option, 'needs at least one number', `give a comma-separated list, e.g. ${option} 8,20`);
-  return items.map((key) => {
-    const value = Number(key);
-    if (!Number.isFinite(value) || (positive ? value <= 0 : value < 0)) {
-      throw inputError('bad_option', '', option, `"${key}" is not a ${positive ? 'positive' : 'non-negative'} number`, 'give a comma-separated list of numbers');
-    }
-    return { key, value };
-  });
-}
+/**
+ * The ranges `clustering` tabulates (common practice; every value inside gives finite results):
+ * redshifts 0 to 100, radii 0.001 to 10,000 Mpc, halo masses 1e3 to 1e18 Msun.
+ */
+export const CLUSTERING_RANGES = { z: { min: 0, max: 100 }, radiusMpc: { min: 1e-3, max: 1e4 }, massMsun: { min: 1e3, max: 1e18 } } as const;
 
 export const clusteringCommand: CommandDef = {
   name: 'clustering',
@@ -35,23 +28,23 @@ export const clusteringCommand: CommandDef = {
   async action(cmd, _args, io) {
     const opts = cmd.opts();
     const out = outputOptions(opts);
-    const zs = parseKeyedList(String(opts.z), '--z', false);
-    const radii = parseKeyedList(String(opts.radiusMpc), '--radius-mpc', true);
-    const masses = parseKeyedList(String(opts.massMsun), '--mass-msun', true);
+    const zs = parseKeyedList(String(opts.z), '--z', CLUSTERING_RANGES.z);
+    const radii = parseKeyedList(String(opts.radiusMpc), '--radius-mpc', CLUSTERING_RANGES.radiusMpc);
+    const masses = parseKeyedList(String(opts.massMsun), '--mass-msun', CLUSTERING_RANGES.massMsun);
     if (opts.transfer !== 'no_wiggle' && opts.transfer !== 'full') {
       throw inputError('bad_option', '', '--transfer', `unknown form "${opts.transfer}"`, 'use no_wiggle or full');
     }
     if (typeof opts.survey === 'string' && (opts.omegaB !== undefined || opts.sigma8 !== undefined || opts.nS !== undefined)) {
       throw inputError('conflict', '', '--survey', 'cannot be combined with cosmology flags', 'give either --survey or the flags');
     }
-    const cosmology = await cosmologyFromOptions(opts, io);
-    if (opts.omegaB !== undefined) cosmology.omegaB = parseNumber(String(opts.omegaB), '--omega-b', { min: 0, max: cosmology.omegaM, exclusiveMin: true });
-    if (opts.sigma8 !== undefined) cosmology.sigma8 = parseNumber(String(opts.sigma8), '--sigma8', { min: 0, max: 5, exclusiveMin: true });
-    if (opts.nS !== undefined) cosmology.nS = parseNumber(String(opts.nS), '--n-s', { min: 0.5, max: 1.5 });
+    const outputs = new Outputs(io, { out: out.out });
+    if (typeof opts.survey === 'string') outputs.refuseInputs([opts.survey]);
+    const cosmology = checkedCosmology(await cosmologyFromOptions(opts, io, ['omegaB', 'sigma8', 'nS'], outputs));
     const { clusteringTable } = await import('../../uncertainty/table.js');
     const result = clusteringTable(cosmology, zs, radii, masses, opts.transfer);
     const { clusteringText, clusteringCsv } = await import('../../render/clustering-table.js');
-    emit(io, out, { json: () => result, table: () => clusteringText(result), csv: () => clusteringCsv(result) }, typeof opts.survey === 'string' ? [opts.survey] : []);
+    outputs.setMain(renderText(out, { json: () => result, table: () => clusteringText(result), csv: () => clusteringCsv(result) }));
+    outputs.commit();
     return 0;
   },
 };

@@ -2,7 +2,7 @@
 import { resolve } from 'node:path';
 import { Option, type Command } from 'commander';
 import { FORMATS, parseFormat, type CliIO, type OutputOptions } from '../io.js';
-import { inputError } from '../../errors.js';
+import { excerpt, inputError } from '../../errors.js';
 import { warningLines, type Warning } from '../../warnings.js';
 
 /** Each warning as one line on stderr (`skytally: warning: ...`); the JSON output carries them too. */
@@ -12,7 +12,7 @@ export function printWarnings(io: CliIO, warnings: readonly Warning[]): void {
 
 export function addOutputOptions(cmd: Command): void {
   cmd.addOption(new Option('--format <format>', 'output format').choices([...FORMATS]).default('table'));
-  cmd.option('--out <file>', 'write the output to this file (atomically) instead of stdout');
+  cmd.option('--out <file>', 'write the output to this file (atomically; - for standard output) instead of stdout');
 }
 
 export function outputOptions(opts: Record<string, unknown>): OutputOptions {
@@ -26,22 +26,68 @@ export async function loadSurveyArg(io: CliIO, file: string) {
   return loadSurveyFile(resolve(io.cwd, file));
 }
 
-/** Parse "0.5,1,2" into numbers; every item must be a finite number. */
-export function parseNumberList(text: string, option: string, { min = -Infinity }: { min?: number } = {}): number[] {
-  const items = text.split(',').map((s) => s.trim()).filter((s) => s.length > 0);
-  if (items.length === 0) throw inputError('bad_option', '', option, 'needs at least one number', `give a comma-separated list such as ${option} 0.5,1,2`);
-  return items.map((s) => {
-    const v = Number(s);
-    if (!Number.isFinite(v)) throw inputError('bad_option', '', option, `"${s}" is not a number`, `give a comma-separated list of numbers`);
-    if (v < min) throw inputError('bad_option', '', option, `${s} is below ${min}`, `give values of at least ${min}`);
-    return v;
+/**
+ * A number as an option may write it: decimal digits with an optional sign, point and exponent
+ * ("2", "-0.5", "1e12"). Nothing else: not "" (which Number() reads as 0), not hexadecimal,
+ * binary or octal ("0x10"), not "Infinity", not spaces.
+ */
+const DECIMAL = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+
+/** The number a decimal string stands for, or undefined when it is not one (or not finite). */
+export function decimalNumber(text: string): number | undefined {
+  if (!DECIMAL.test(text)) return undefined;
+  const v = Number(text);
+  return Number.isFinite(v) ? v : undefined;
+}
+
+/** Parse "0.5,1,2" into numbers; every item must be a decimal number in [min, max]. */
+export function parseNumberList(text: string, option: string, { min = -Infinity, max = Infinity }: { min?: number; max?: number } = {}): number[] {
+  return parseKeyedList(text, option, { min, max }).map((x) => x.value);
+}
+
+/** A comma-separated list of decimal numbers in [min, max] (or above min), each kept with its text. */
+export function parseKeyedList(
+  text: string,
+  option: string,
+  { min = -Infinity, max = Infinity, exclusiveMin = false }: { min?: number; max?: number; exclusiveMin?: boolean } = {},
+): { key: string; value: number }[] {
+  const items = text.split(',').map((s) => s.trim());
+  if (items.length === 1 && items[0] === '') {
+    throw inputError('bad_option', '', option, 'needs at least one number', `give a comma-separated list such as ${option} 0.5,1,2`);
+  }
+  if (items.length > MAX_LIST_ITEMS) throw inputError('bad_option', '', option, `lists ${items.length} values, more than ${MAX_LIST_ITEMS}`, 'give fewer values');
+  return items.map((key) => {
+    const value = decimalNumber(key);
+    if (value === undefined) throw inputError('bad_option', '', option, `"${excerpt(key)}" is not a decimal number`, 'give a comma-separated list of numbers such as 0.5,1,2');
+    if ((exclusiveMin ? value <= min : value < min) || value > max) {
+      throw inputError('bad_option', '', option, `${key} is outside the allowed range`, `give values ${exclusiveMin ? 'above' : 'from'} ${min}${Number.isFinite(max) ? ` ${exclusiveMin ? 'and at most' : 'to'} ${max}` : ''}`);
+    }
+    return { key, value };
   });
 }
 
+/** Most values one list option may hold (e.g. --z). */
+export const MAX_LIST_ITEMS = 1000;
+
 export function parseNumber(text: string, option: string, { min = -Infinity, max = Infinity, exclusiveMin = false } = {}): number {
-  const v = Number(text);
-  if (!Number.isFinite(v) || (exclusiveMin ? v <= min : v < min) || v > max) {
-    throw inputError('bad_option', '', option, `"${text}" is not a number in the allowed range`, `give a number ${exclusiveMin ? 'above' : 'of at least'} ${min}${Number.isFinite(max) ? ` and at most ${max}` : ''}`);
+  const v = decimalNumber(text);
+  if (v === undefined || (exclusiveMin ? v <= min : v < min) || v > max) {
+    throw inputError(
+      'bad_option',
+      '',
+      option,
+      `"${excerpt(text)}" is not a ${v === undefined ? 'decimal number' : 'number in the allowed range'}`,
+      `give a number ${exclusiveMin ? 'above' : 'of at least'} ${min}${Number.isFinite(max) ? ` and at most ${max}` : ''}`,
+    );
+  }
+  return v;
+}
+
+/** A whole number from min to max, written in decimal digits. */
+export function parseInteger(text: string, option: string, min: number, max: number): number {
+  const v = decimalNumber(text);
+  if (v === undefined || !Number.isInteger(v) || v < min || v > max) {
+    throw inputError('bad_option', '', option, `"${excerpt(text)}" is not a whole number from ${min} to ${max}`, `give ${option} a whole number in that range`);
   }
   return v;
 }

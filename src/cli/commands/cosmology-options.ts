@@ -1,9 +1,10 @@
 /** Cosmology flags shared by `distances` and `clustering`: --h0 --omega-m --t-cmb --preset, or --survey FILE. */
 import type { Command } from 'commander';
-import type { Cosmology } from '../../survey/types.js';
+import type { Cosmology, InputFile } from '../../survey/types.js';
 import type { CliIO } from '../io.js';
-import { loadSurveyArg, parseNumber } from './common.js';
-import { inputError } from '../../errors.js';
+import { decimalNumber, loadSurveyArg } from './common.js';
+import { excerpt, inputError } from '../../errors.js';
+import { COSMOLOGY_KEYS, cosmologyProblem, PRESETS, presetNamed, resolveCosmology, type CosmologyInput } from '../../cosmology/presets.js';
 
 export function addCosmologyOptions(cmd: Command): void {
   cmd
@@ -14,28 +15,59 @@ export function addCosmologyOptions(cmd: Command): void {
     .option('--survey <file>', 'take the cosmology from this survey file');
 }
 
-export async function cosmologyFromOptions(opts: Record<string, unknown>, io: CliIO): Promise<Cosmology> {
-  const given = ['h0', 'omegaM', 'tCmb', 'preset'].filter((k) => opts[k] !== undefined);
+type FlagKey = 'h0' | 'omegaM' | 'tCmb' | 'omegaB' | 'sigma8' | 'nS';
+
+/**
+ * The cosmology of the flags (or of --survey FILE). `extra` names the further flags a command
+ * declares (--omega-b, --sigma8, --n-s for `clustering`). Every value must be a decimal number;
+ * the ranges are those of a survey file (src/cosmology/presets.ts COSMOLOGY_RANGES), checked by
+ * `checkedCosmology`.
+ */
+export async function cosmologyFromOptions(
+  opts: Record<string, unknown>,
+  io: CliIO,
+  extra: FlagKey[] = [],
+  outputs?: { refuseInputs(inputs: readonly InputFile[]): void },
+): Promise<Cosmology> {
+  const flags: FlagKey[] = ['h0', 'omegaM', 'tCmb', ...extra];
+  const given = [...flags, 'preset'].filter((k) => opts[k] !== undefined);
   if (typeof opts.survey === 'string') {
     if (given.length > 0) {
       throw inputError('conflict', '', '--survey', 'cannot be combined with cosmology flags', 'give either --survey or the flags');
     }
-    return (await loadSurveyArg(io, opts.survey)).cosmology;
+    const survey = await loadSurveyArg(io, opts.survey);
+    // every file the survey read (its filter tables too) is an input no output may replace
+    outputs?.refuseInputs(survey.inputs ?? []);
+    return survey.cosmology;
   }
-  const { resolveCosmology, PRESETS } = await import('../../cosmology/presets.js');
   const preset = typeof opts.preset === 'string' ? opts.preset : undefined;
-  if (preset !== undefined && !(preset in PRESETS)) {
-    throw inputError('bad_option', '', '--preset', `unknown preset "${preset}"`, `use one of ${Object.keys(PRESETS).join(', ')}`);
+  if (preset !== undefined && presetNamed(preset) === undefined) {
+    throw inputError('bad_option', '', '--preset', `unknown preset "${excerpt(preset)}"`, `use one of ${Object.keys(PRESETS).join(', ')}`);
   }
-  const num = (k: string, flag: string, range: { min?: number; max?: number; exclusiveMin?: boolean }) =>
-    opts[k] === undefined ? undefined : parseNumber(String(opts[k]), flag, range);
-  const h0 = num('h0', '--h0', { min: 0, max: 500, exclusiveMin: true }) ?? (preset ? undefined : 70);
-  const omegaM = num('omegaM', '--omega-m', { min: 0, max: 1, exclusiveMin: true }) ?? (preset ? undefined : 0.3);
-  const tCmb = num('tCmb', '--t-cmb', { min: 0, max: 100 });
-  const input: Parameters<typeof resolveCosmology>[0] = {};
+  const input: CosmologyInput = {};
   if (preset !== undefined) input.preset = preset;
-  if (h0 !== undefined) input.h0 = h0;
-  if (omegaM !== undefined) input.omegaM = omegaM;
-  if (tCmb !== undefined) input.tCmb = tCmb;
-  return resolveCosmology(input);
+  for (const k of flags) {
+    if (opts[k] === undefined) continue;
+    const text = String(opts[k]);
+    const v = decimalNumber(text);
+    const flag = COSMOLOGY_KEYS[k].flag;
+    if (v === undefined) throw inputError('bad_option', '', flag, `"${excerpt(text)}" is not a decimal number`, `give ${flag} a number such as ${k === 'h0' ? 70 : k === 'tCmb' ? 2.7255 : 0.3}`);
+    input[k] = v;
+  }
+  if (preset === undefined) {
+    input.h0 ??= 70;
+    input.omegaM ??= 0.3;
+  }
+  // distances and times need only h0, omega_m and t_cmb; the power spectrum needs the rest
+  return checkedCosmology(resolveCosmology(input), extra.length === 0);
+}
+
+/**
+ * Refuse (exit 2, naming the flag) a cosmology outside the physical ranges of a survey file
+ * (with `distancesOnly`, only h0, omega_m and t_cmb are checked).
+ */
+export function checkedCosmology(c: Cosmology, distancesOnly = false): Cosmology {
+  const problem = cosmologyProblem(c, distancesOnly);
+  if (problem) throw inputError('bad_option', '', COSMOLOGY_KEYS[problem.parameter].flag, problem.what, problem.fix);
+  return c;
 }

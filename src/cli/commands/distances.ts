@@ -1,7 +1,10 @@
 import type { CommandDef } from './types.js';
 import { addOutputOptions, outputOptions, parseNumberList } from './common.js';
 import { addCosmologyOptions, cosmologyFromOptions } from './cosmology-options.js';
-import { emit } from '../io.js';
+import { Outputs, renderText } from '../io.js';
+
+/** Highest redshift `distances` tabulates (far beyond the last scattering surface at z ~ 1100). */
+export const MAX_DISTANCE_Z = 10_000;
 
 export const distancesCommand: CommandDef = {
   name: 'distances',
@@ -14,12 +17,15 @@ export const distancesCommand: CommandDef = {
   async action(cmd, _args, io) {
     const opts = cmd.opts();
     const out = outputOptions(opts);
-    const zs = parseNumberList(String(opts.z), '--z', { min: 0 });
-    const cosmology = await cosmologyFromOptions(opts, io);
+    const zs = parseNumberList(String(opts.z), '--z', { min: 0, max: MAX_DISTANCE_Z });
+    const outputs = new Outputs(io, { out: out.out });
+    if (typeof opts.survey === 'string') outputs.refuseInputs([opts.survey]);
+    const cosmology = await cosmologyFromOptions(opts, io, [], outputs);
     const { distanceTable } = await import('../../cosmology/table.js');
     const result = distanceTable(cosmology, zs);
     const { distancesText, distancesCsv } = await import('../../render/distances-table.js');
-    emit(io, out, { json: () => result, table: () => distancesText(result), csv: () => distancesCsv(result) }, typeof opts.survey === 'string' ? [opts.survey] : []);
+    outputs.setMain(renderText(out, { json: () => result, table: () => distancesText(result), csv: () => distancesCsv(result) }));
+    outputs.commit();
     return 0;
   },
 };

@@ -1,8 +1,8 @@
 import { availableParallelism } from 'node:os';
 import { Option } from 'commander';
 import type { CommandDef } from './types.js';
-import { addOutputOptions, loadSurveyArg, outputOptions, printWarnings } from './common.js';
-import { emit, type CliIO } from '../io.js';
+import { addOutputOptions, decimalNumber, loadSurveyArg, outputOptions, parseInteger, printWarnings } from './common.js';
+import { Outputs, renderText, type CliIO } from '../io.js';
 import { inputError } from '../../errors.js';
 
 export const forecastCommand: CommandDef = {
@@ -27,11 +27,13 @@ export const forecastCommand: CommandDef = {
     const out = outputOptions(raw);
     const { mocks, seed } = mockOptions(raw);
     const maxWorkers = availableParallelism();
-    const workers = raw.workers === undefined ? 1 : integerOption(String(raw.workers), '--workers', 1, maxWorkers);
+    const workers = raw.workers === undefined ? 1 : parseInteger(String(raw.workers), '--workers', 1, maxWorkers);
+    const outputs = new Outputs(io, { out: out.out, figures: typeof raw.figures === 'string' ? raw.figures : undefined });
+    outputs.refuseInputs([file]);
     const draw = typeof raw.figures === 'string' ? await import('../draw.js') : undefined;
-    const figuresDir = draw ? draw.checkFiguresDir(io, raw.figures as string) : undefined;
     const keepFits = raw.listMockFits === true;
     const survey = await loadSurveyArg(io, file);
+    outputs.refuseInputs(survey.inputs ?? []);
     const { forecast, choosePopulation } = await import('../../forecast/forecast.js');
     const { parameterNames } = await import('../../forecast/parameters.js');
     const population = choosePopulation(survey, typeof raw.population === 'string' ? raw.population : undefined);
@@ -52,14 +54,15 @@ export const forecastCommand: CommandDef = {
     printWarnings(io, result.warnings);
     const shown = keepFits || !result.mocks?.fits ? result : { ...result, mocks: withoutFits(result.mocks) };
     const { forecastTable, forecastCsv } = await import('../../forecast/render.js');
-    emit(io, out, { json: () => shown, table: () => forecastTable(shown), csv: () => forecastCsv(shown) }, [file]);
-    if (draw && figuresDir) {
+    outputs.setMain(renderText(out, { json: () => shown, table: () => forecastTable(shown), csv: () => forecastCsv(shown) }));
+    if (draw) {
       const { forecastFigure } = await import('../../render/figures.js');
       const { forecastForFigures } = await import('../../render/adapt.js');
       const fig = await forecastFigure(forecastForFigures(result), survey.title);
-      if (fig) await draw.saveFigures(io, figuresDir, [fig]);
+      if (fig) outputs.setFigures(await draw.figureFiles(io, [fig]));
       else io.stderr(`skytally: no forecast figure: the forecast has no alpha against L* (or M*) to draw.\n`);
     }
+    outputs.commit();
     return 0;
   },
 };
@@ -70,22 +73,17 @@ function withoutFits<T extends { fits?: unknown }>(m: T): Omit<T, 'fits'> {
   return rest;
 }
 
+/** Most mock surveys one run may draw (about 20 ms each on one core for a deep field). */
+export const MAX_MOCKS = 10_000;
+
 /**
- * --mocks N (1 to 1,000,000; absent: 0, no mocks) and --seed S (0 to 4294967295; default 1),
+ * --mocks N (1 to MAX_MOCKS; absent: 0, no mocks) and --seed S (0 to 4294967295; default 1),
  * checked as `forecast` checks them. Shared with `report`.
  */
 export function mockOptions(raw: { mocks?: unknown; seed?: unknown }): { mocks: number; seed: number } {
-  const mocks = raw.mocks === undefined ? 0 : integerOption(String(raw.mocks), '--mocks', 1, 1_000_000);
-  const seed = raw.seed === undefined ? 1 : integerOption(String(raw.seed), '--seed', 0, 4294967295);
+  const mocks = raw.mocks === undefined ? 0 : parseInteger(String(raw.mocks), '--mocks', 1, MAX_MOCKS);
+  const seed = raw.seed === undefined ? 1 : parseInteger(String(raw.seed), '--seed', 0, 4294967295);
   return { mocks, seed };
-}
-
-function integerOption(text: string, option: string, min: number, max: number): number {
-  const v = Number(text);
-  if (!Number.isInteger(v) || v < min || v > max) {
-    throw inputError('bad_option', '', option, `"${text}" is not a whole number from ${min} to ${max}`, `give ${option} a whole number in that range`);
-  }
-  return v;
 }
 
 /** "alpha=0.1,log10_l_star=0.05" -> {alpha: 0.1, log10_l_star: 0.05}; names must be the population's parameters. */
@@ -99,8 +97,8 @@ export function parseTargets(text: string, names: readonly string[]): Record<str
     if (eq < 0) throw inputError('bad_option', '', '--target', `"${item}" is not of the form name=sigma`, `write it as ${names.includes(name) ? name : 'alpha'}=0.1`);
     if (!names.includes(name)) throw inputError('bad_option', '', '--target', `"${name}" is not a parameter of this population`, `use one of ${names.join(', ')}`);
     const vText = item.slice(eq + 1).trim();
-    const v = Number(vText);
-    if (vText === '' || !Number.isFinite(v) || v <= 0) throw inputError('bad_option', '', '--target', `the target sigma of ${name} must be a positive number, not "${vText}"`, `give e.g. ${name}=0.1`);
+    const v = decimalNumber(vText) ?? NaN;
+    if (!(v > 0)) throw inputError('bad_option', '', '--target', `the target sigma of ${name} must be a positive number, not "${vText}"`, `give e.g. ${name}=0.1`);
     if (name in out) throw inputError('bad_option', '', '--target', `${name} is given twice`, 'give each parameter once');
     out[name] = v;
   }

@@ -1,7 +1,7 @@
 import { availableParallelism } from 'node:os';
 import type { CommandDef } from './types.js';
-import { addOutputOptions, loadSurveyArg, outputOptions, printWarnings } from './common.js';
-import { emit, type CliIO } from '../io.js';
+import { addOutputOptions, loadSurveyArg, outputOptions, parseInteger, printWarnings } from './common.js';
+import { Outputs, renderText, type CliIO } from '../io.js';
 import { inputError } from '../../errors.js';
 
 export const planCommand: CommandDef = {
@@ -19,16 +19,12 @@ export const planCommand: CommandDef = {
     const file = args[0] as string;
     const raw = cmd.opts();
     const out = outputOptions(raw);
-    let workers: number | undefined;
-    if (raw.workers !== undefined) {
-      const v = Number(raw.workers);
-      const max = availableParallelism();
-      if (!Number.isInteger(v) || v < 1 || v > max) throw inputError('bad_option', '', '--workers', `"${raw.workers}" is not a whole number from 1 to ${max}`, 'give --workers a whole number in that range');
-      workers = v;
-    }
+    const workers = raw.workers === undefined ? undefined : parseInteger(String(raw.workers), '--workers', 1, availableParallelism());
+    const outputs = new Outputs(io, { out: out.out, figures: typeof raw.figures === 'string' ? raw.figures : undefined });
+    outputs.refuseInputs([file]);
     const draw = typeof raw.figures === 'string' ? await import('../draw.js') : undefined;
-    const figuresDir = draw ? draw.checkFiguresDir(io, raw.figures as string) : undefined;
     const survey = await loadSurveyArg(io, file);
+    outputs.refuseInputs(survey.inputs ?? []);
     const { plan } = await import('../../planning/plan.js');
     const result = await plan(survey, {
       ...(typeof raw.population === 'string' ? { population: raw.population } : {}),
@@ -38,13 +34,14 @@ export const planCommand: CommandDef = {
     });
     printWarnings(io, result.warnings);
     const { planTable, planCsv } = await import('../../planning/render.js');
-    emit(io, out, { json: () => result, table: () => planTable(result), csv: () => planCsv(result) }, [file]);
-    if (draw && figuresDir) {
+    outputs.setMain(renderText(out, { json: () => result, table: () => planTable(result), csv: () => planCsv(result) }));
+    if (draw) {
       const { planFigure } = await import('../../render/figures.js');
       const { planForFigures } = await import('../../render/adapt.js');
       const fig = await planFigure(planForFigures(result), survey.title);
-      if (fig) await draw.saveFigures(io, figuresDir, [fig]);
+      if (fig) outputs.setFigures(await draw.figureFiles(io, [fig]));
     }
+    outputs.commit();
     return 0;
   },
 };

@@ -1,6 +1,6 @@
 import type { CommandDef } from './types.js';
 import { addOutputOptions, loadSurveyArg, outputOptions, printWarnings } from './common.js';
-import { emit } from '../io.js';
+import { Outputs, renderText } from '../io.js';
 
 export const predictCommand: CommandDef = {
   name: 'predict',
@@ -14,17 +14,19 @@ export const predictCommand: CommandDef = {
     const file = args[0] as string;
     const raw = cmd.opts();
     const opts = outputOptions(raw);
+    const outputs = new Outputs(io, { out: opts.out, figures: typeof raw.figures === 'string' ? raw.figures : undefined });
+    outputs.refuseInputs([file]);
     // Only a command asked to draw loads the figure layer (and, through it, vega).
     const draw = typeof raw.figures === 'string' ? await import('../draw.js') : undefined;
-    const figuresDir = draw ? draw.checkFiguresDir(io, raw.figures as string) : undefined;
     const survey = await loadSurveyArg(io, file);
+    outputs.refuseInputs(survey.inputs ?? []);
     const { predict } = await import('../../counts/predict.js');
     const { predictionTable, predictionCsv } = await import('../../render/predict-table.js');
     const p = predict(survey);
     printWarnings(io, p.warnings);
-    const figures = draw && figuresDir ? await draw.drawFigures(survey, p) : undefined;
-    emit(io, opts, { json: () => p, table: () => predictionTable(p), csv: () => predictionCsv(p) }, [file]);
-    if (draw && figuresDir && figures) await draw.saveFigures(io, figuresDir, figures);
+    outputs.setMain(renderText(opts, { json: () => p, table: () => predictionTable(p), csv: () => predictionCsv(p) }));
+    if (draw) outputs.setFigures(await draw.figureFiles(io, await draw.drawFigures(survey, p)));
+    outputs.commit();
     return 0;
   },
 };

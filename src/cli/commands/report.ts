@@ -1,10 +1,9 @@
-import { readFileSync } from 'node:fs';
 import { basename, resolve } from 'node:path';
 import { Option } from 'commander';
 import type { CommandDef } from './types.js';
-import { loadSurveyArg, printWarnings } from './common.js';
-import { toJsonText, writeAtomic, type CliIO } from '../io.js';
-import { inputError, SurveyError } from '../../errors.js';
+import { printWarnings } from './common.js';
+import { Outputs, toJsonText, type CliIO } from '../io.js';
+import { SurveyError } from '../../errors.js';
 import { mockOptions, mockProgressBar } from './forecast.js';
 import type { Survey } from '../../survey/types.js';
 import type { UncertaintyMemo } from '../../uncertainty/prediction.js';
@@ -266,7 +265,7 @@ export const reportCommand: CommandDef = {
         .choices([...REPORT_FORMATS])
         .default('html'),
     );
-    cmd.option('--out <file>', 'write the report to this file (atomically) instead of stdout');
+    cmd.option('--out <file>', 'write the report to this file (atomically; - for standard output) instead of stdout');
     cmd.option('--figures <dir>', 'also write each figure as DIR/<name>.svg (and .png when the rasteriser loads)');
     cmd.option('--mocks <N>', 'also draw N mock surveys for the forecast, fit each and scatter the fits over the Fisher ellipses');
     cmd.option('--seed <S>', 'seed of the mock surveys (integer 0 to 4294967295; default 1)');
@@ -280,28 +279,20 @@ export const reportCommand: CommandDef = {
 
 export async function runReport(io: CliIO, file: string, opts: ReportOptions, sections: ReportSections = reportSections(opts, io)): Promise<number> {
   const input = resolve(io.cwd, file);
-  const target = opts.out === undefined ? undefined : resolve(io.cwd, opts.out);
-  if (target === input) {
-    throw inputError('output_exists', '', '--out', `the output file ${opts.out} is the survey file`, 'choose another --out path');
-  }
-  const { checkFiguresDir, saveFigures } = await import('../draw.js');
-  const figuresDir = opts.figures === undefined ? undefined : checkFiguresDir(io, opts.figures);
-  const survey = await loadSurveyArg(io, file);
+  const outputs = new Outputs(io, { out: opts.out, figures: opts.figures });
+  outputs.refuseInputs([file]);
+  const { figureFiles } = await import('../draw.js');
+  const { loadSurveyFileWithText } = await import('../../survey/load.js');
+  // The survey and the file as written (read once, through the loader's checks).
+  const { survey, text: surveyText } = loadSurveyFileWithText(input);
+  outputs.refuseInputs(survey.inputs ?? []);
   const format: ReportFormat = opts.format ?? 'html';
   const results = await computeReport(file, survey, sections);
   printWarnings(io, results.warnings);
   // Figures are drawn for the HTML, and for --figures whatever the format.
-  const figures = format === 'html' || figuresDir ? await reportFigures(results) : [];
-  let text: string;
-  if (format === 'json') {
-    text = toJsonText(reportJson(results));
-  } else {
-    // The file as written (the loader has just read it; it is at most 1 MiB).
-    const surveyText = readFileSync(input, 'utf8');
-    text = await reportHtml(results, surveyText, figures);
-  }
-  if (figuresDir) await saveFigures(io, figuresDir, figures);
-  if (target) writeAtomic(target, text);
-  else io.stdout(text);
+  const figures = format === 'html' || opts.figures !== undefined ? await reportFigures(results) : [];
+  outputs.setMain(format === 'json' ? toJsonText(reportJson(results)) : await reportHtml(results, surveyText, figures));
+  if (opts.figures !== undefined) outputs.setFigures(await figureFiles(io, figures));
+  outputs.commit();
   return 0;
 }

@@ -1,0 +1,128 @@
+/**
+ * The one place skytally reads an input file: the survey YAML, the transmission tables it names,
+ * and any tabular or YAML input added later. Every read:
+ *
+ * - opens without blocking (a FIFO never stalls the program) and checks the open file itself
+ *   (no race between a check and the read): it must be a regular file, not a folder, a pipe, a
+ *   device or a socket (`/dev/zero` is refused at once instead of being read for ever);
+ * - reads at most the stated number of bytes (a file that grows while it is read is still cut off);
+ * - refuses binary data (a NUL byte) and text that is not UTF-8;
+ * - returns the file's identity (device and inode, links resolved), so that no output may replace
+ *   an input (src/cli/io.ts compares outputs with inputs by identity).
+ *
+ * Every problem is one SurveyError naming the file (and the survey key that named it).
+ */
+import { closeSync, constants, fstatSync, openSync, readSync, type Stats } from 'node:fs';
+import { inputError, type ErrorCode } from '../errors.js';
+import type { InputFile } from './types.js';
+
+export type { InputFile };
+
+export interface InputText extends InputFile {
+  text: string;
+}
+
+export interface ReadInputOptions {
+  /** Largest size accepted, bytes. */
+  maxBytes: number;
+  /** What the limit is called in the message, e.g. "256 KiB". */
+  maxLabel: string;
+  /** The file named at the start of a message (the survey file when it names this one). */
+  file: string;
+  /** The survey key that names this file ('' for the survey file itself). */
+  keyPath: string;
+  /** The grammatical subject of the sentence: "the file", "the transmission file \"x.csv\"". */
+  subject: string;
+  /** What to do when the file cannot be found or read. */
+  fix: string;
+}
+
+/** Largest survey file read, bytes (256 KiB: a survey file is a few lines). */
+export const MAX_SURVEY_BYTES = 256 * 1024;
+/** Largest table file read (transmission curves), bytes (1 MiB). */
+export const MAX_TABLE_BYTES = 1024 * 1024;
+
+function openReason(code: string | undefined): string {
+  switch (code) {
+    case 'ENOENT':
+      return 'does not exist';
+    case 'EACCES':
+    case 'EPERM':
+      return 'cannot be read: permission is denied';
+    case 'EISDIR':
+      return 'is a folder, not a file';
+    case 'ELOOP':
+      return 'is a loop of symbolic links';
+    case 'ENOTDIR':
+      return 'lies under a path that is not a folder';
+    case 'ENAMETOOLONG':
+      return 'has a name too long for the system';
+    default:
+      return `cannot be opened (system error ${code ?? 'unknown'})`;
+  }
+}
+
+function kindOf(st: Stats): string {
+  if (st.isDirectory()) return 'a folder';
+  if (st.isFIFO()) return 'a pipe (FIFO)';
+  if (st.isCharacterDevice() || st.isBlockDevice()) return 'a device';
+  if (st.isSocket()) return 'a socket';
+  return 'not a regular file';
+}
+
+/** Read a whole input file as UTF-8 text, with the checks above. */
+export function readInputText(path: string, opts: ReadInputOptions): InputText {
+  const fail = (code: ErrorCode, why: string, fix = opts.fix): never => {
+    throw inputError(code, opts.file, opts.keyPath, `${opts.subject} ${why}`, fix);
+  };
+  let fd: number;
+  try {
+    fd = openSync(path, constants.O_RDONLY | constants.O_NONBLOCK | constants.O_NOCTTY);
+  } catch (e) {
+    return fail('file_unreadable', openReason((e as { code?: string }).code));
+  }
+  try {
+    const st = fstatSync(fd);
+    if (!st.isFile()) {
+      const kind = kindOf(st);
+      return fail(st.isDirectory() ? 'file_unreadable' : 'not_a_file', `is ${kind}, not a regular file`, 'give the path of a file');
+    }
+    if (st.size > opts.maxBytes) {
+      return fail('file_too_large', `is ${st.size} bytes, more than the ${opts.maxLabel} allowed`, 'check that this is the right file');
+    }
+    // Read at most maxBytes + 1 bytes whatever the size said (files under /proc say 0; a file
+    // may grow while it is read).
+    const buf = Buffer.alloc(Math.min(opts.maxBytes + 1, Math.max(st.size + 1, 64 * 1024)));
+    let chunks: Buffer[] = [];
+    let total = 0;
+    let block = buf;
+    for (;;) {
+      let n: number;
+      try {
+        n = readSync(fd, block, 0, block.length, null);
+      } catch (e) {
+        const code = (e as { code?: string }).code;
+        return fail('file_unreadable', code === 'EISDIR' ? 'is a folder, not a file' : `cannot be read (system error ${code ?? 'unknown'})`);
+      }
+      if (n === 0) break;
+      chunks.push(Buffer.from(block.subarray(0, n)));
+      total += n;
+      if (total > opts.maxBytes) {
+        return fail('file_too_large', `holds more than the ${opts.maxLabel} allowed`, 'check that this is the right file');
+      }
+      block = Buffer.alloc(Math.min(64 * 1024, opts.maxBytes + 1 - total));
+    }
+    const bytes = Buffer.concat(chunks, total);
+    chunks = [];
+    if (bytes.includes(0)) return fail('not_text', 'holds binary data (a NUL byte), not text', 'give a text file');
+    let text: string;
+    try {
+      text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
+    } catch {
+      return fail('not_text', 'is not UTF-8 text', 'save it as UTF-8 text');
+    }
+    return { path, text: text.replace(/^\uFEFF/, ''), dev: st.dev, ino: st.ino };
+  } finally {
+    closeSync(fd);
+  }
+}

@@ -1,0 +1,185 @@
+/**
+ * Command-line input that used to be taken loosely or reported as an internal failure: every
+ * case is exit 2 with one sentence naming the option or key (or a correct, finite output).
+ * Ranges and caps are the ones stated in README.md ("Limits") and src/survey/limits.ts.
+ */
+import fc from 'fast-check';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, test } from 'vitest';
+import { runCli, type Captured } from './helpers.js';
+
+function refused(r: Captured, name: string): void {
+  expect(r.code, r.stderr).toBe(2);
+  expect(r.stdout).toBe('');
+  const lines = r.stderr.trim().split('\n');
+  expect(lines, r.stderr).toHaveLength(1);
+  expect(lines[0]).toMatch(/^skytally: .+\.$/);
+  expect(lines[0]).toContain(name);
+  expect(r.stderr).not.toContain('internal failure');
+}
+
+function finiteEverywhere(v: unknown): boolean {
+  if (typeof v === 'number') return Number.isFinite(v);
+  if (Array.isArray(v)) return v.every(finiteEverywhere);
+  if (v !== null && typeof v === 'object') return Object.values(v).every(finiteEverywhere);
+  return true;
+}
+
+const dir = mkdtempSync(join(tmpdir(), 'skytally-options-'));
+function surveyWith(from: string, to: string, sample = 'samples/halpha-narrowband.yaml'): string {
+  const text = readFileSync(sample, 'utf8');
+  expect(text).toContain(from);
+  const path = join(dir, `s${Math.random().toString(36).slice(2)}.yaml`);
+  writeFileSync(path, text.replace(from, to));
+  return path;
+}
+
+describe('numeric options are decimal numbers, strictly', () => {
+  test.each([
+    [['forecast', 'samples/halpha-narrowband.yaml', '--seed', ''], '--seed'],
+    [['forecast', 'samples/halpha-narrowband.yaml', '--seed', ' 1'], '--seed'],
+    [['forecast', 'samples/halpha-narrowband.yaml', '--mocks', '0x10'], '--mocks'],
+    [['forecast', 'samples/halpha-narrowband.yaml', '--mocks', '0b11'], '--mocks'],
+    [['forecast', 'samples/halpha-narrowband.yaml', '--mocks', '10001'], '--mocks'],
+    [['forecast', 'samples/halpha-narrowband.yaml', '--workers', '0x1'], '--workers'],
+    [['forecast', 'samples/halpha-narrowband.yaml', '--target', 'alpha=0x1'], '--target'],
+    [['report', 'samples/halpha-narrowband.yaml', '--mocks', '1000000'], '--mocks'],
+    [['plan', 'samples/plan-uv-deep-wide.yaml', '--workers', ''], '--workers'],
+    [['distances', '--z', '0x10'], '--z'],
+    [['distances', '--z', '1,,2'], '--z'],
+    [['distances', '--z', 'Infinity'], '--z'],
+    [['distances', '--z', '1', '--h0', '0x46'], '--h0'],
+    [['distances', '--z', '1', '--omega-m', ''], '--omega-m'],
+    [['clustering', '--z', '1', '--sigma8', '0b1'], '--sigma8'],
+  ])('%j', async (argv, name) => {
+    refused(await runCli(argv), name);
+  });
+});
+
+describe('compare needs at least two files', () => {
+  test('none: one sentence, exit 2', async () => {
+    refused(await runCli(['compare']), 'compare');
+  });
+  test('one: one sentence, exit 2', async () => {
+    refused(await runCli(['compare', 'samples/halpha-narrowband.yaml']), 'compare');
+  });
+});
+
+describe('input once reported as an internal failure', () => {
+  test.each([
+    ['omega_b equal to omega_m', 'omega_m: 0.3', 'omega_m: 0.3\n  omega_b: 0.3', 'cosmology.omega_b'],
+    ['t_cmb 1e6 K', 'omega_m: 0.3', 'omega_m: 0.3\n  t_cmb: 1e6', 'cosmology.t_cmb'],
+    ['preset __proto__', '  h0: 70\n  omega_m: 0.3', '  preset: __proto__', 'cosmology.preset'],
+    ['preset constructor', '  h0: 70\n  omega_m: 0.3', '  preset: constructor', 'cosmology.preset'],
+    ['preset toString', '  h0: 70\n  omega_m: 0.3', '  preset: toString', 'cosmology.preset'],
+    ['completeness width 1e9', 'width: 0.08', 'width: 1e9', 'detection.completeness.width'],
+    ['completeness width 1e-300', 'width: 0.08', 'width: 1e-300', 'detection.completeness.width'],
+    ['slice edges 1.2 and 1.2000000000000002', 'slices: {count: 5}', 'redshift: {min: 0.7, max: 1.3}\nslices: {edges: [1.2, 1.2000000000000002]}', 'slices.edges[1]'],
+    ['a window 1 to 1.000000000000001', 'slices: {count: 5}', 'redshift: {min: 1, max: 1.000000000000001}\nslices: {count: 5}', 'redshift.max'],
+    ['a histogram of width 1e-9', 'histogram: {width: 0.1}', 'histogram: {width: 1e-9}', 'histogram.width'],
+    ['alpha -1.8e26', 'alpha: -1.45', 'alpha: -1.8e26', 'population.alpha'],
+  ])('predict: %s', async (_name, from, to, key) => {
+    const file = surveyWith(from, to);
+    refused(await runCli(['predict', file, '--format', 'json']), key);
+  });
+
+  test('a self-referring alias (a: &a [*a])', async () => {
+    const file = join(dir, 'alias.yaml');
+    writeFileSync(file, 'a: &a [*a]\n');
+    refused(await runCli(['predict', file]), 'alias');
+  });
+
+  test.each([
+    ['plan.reference.limit 1e300', 'reference: {limit: 28.0, exposure_hours: 1.0}', 'reference: {limit: 1e300, exposure_hours: 1.0}', 'plan.reference.limit'],
+    ['plan.exposure_grid.max_hours 1e300', /exposure_grid: \{[^}]*\}/, 'exposure_grid: {min_hours: 0.05, max_hours: 1e300, count: 100}', 'plan.exposure_grid.max_hours'],
+    ['a 3-tier grid of 100,000 exposures', /exposure_grid: \{[^}]*\}/, 'exposure_grid: {min_hours: 0.05, max_hours: 50, count: 100000}\n  tiers: 3', 'plan.exposure_grid.count'],
+    ['a 1-tier grid of 1e6 exposures', /exposure_grid: \{[^}]*\}/, 'exposure_grid: {min_hours: 0.05, max_hours: 50, count: 1000000}', 'plan.exposure_grid.count'],
+    ['budget_hours 1e300', /budget_hours: [0-9.]+/, 'budget_hours: 1e300', 'plan.budget_hours'],
+  ])('plan: %s', async (_name, from, to, key) => {
+    const text = readFileSync('samples/plan-uv-deep-wide.yaml', 'utf8');
+    const untiered = text.replace(/\n\s*tiers: \d+/, '');
+    const edited = untiered.replace(from, to);
+    expect(edited).not.toBe(untiered);
+    const file = join(dir, `plan-${key}.yaml`);
+    writeFileSync(file, edited);
+    refused(await runCli(['plan', file, '--format', 'json']), key);
+  });
+
+  test.each([
+    [['distances', '--z', '1e308'], '--z'],
+    [['distances', '--z', '1', '--preset', '__proto__'], '--preset'],
+    [['distances', '--z', '1', '--preset', 'constructor'], '--preset'],
+    [['distances', '--z', '1', '--preset', 'toString'], '--preset'],
+    [['distances', '--z', '1', '--t-cmb', '100'], '--t-cmb'],
+    [['clustering', '--z', '0', '--radius-mpc', '1e-300'], '--radius-mpc'],
+    [['clustering', '--z', '0', '--mass-msun', '1e300'], '--mass-msun'],
+    [['clustering', '--z', '1e6'], '--z'],
+    [['clustering', '--z', '0', '--omega-b', '0.3'], '--omega-b'],
+  ])('%j', async (argv, name) => {
+    refused(await runCli(argv), name);
+  });
+
+  test('distances: every redshift and cosmology inside the ranges gives finite values (property)', async () => {
+    await fc.assert(
+      fc.asyncProperty(
+        fc.array(fc.double({ min: 0, max: 10_000, noNaN: true }), { minLength: 1, maxLength: 5 }),
+        fc.double({ min: 20, max: 200, noNaN: true }),
+        fc.double({ min: 0.01, max: 0.99, noNaN: true }),
+        fc.constantFrom('0', '2.7255', '10'),
+        async (zs, h0, omegaM, tCmb) => {
+          const r = await runCli(['distances', '--z', zs.map((z) => z.toExponential()).join(','), '--h0', h0.toExponential(), '--omega-m', omegaM.toExponential(), '--t-cmb', tCmb, '--format', 'json']);
+          if (r.code === 2) {
+            // only radiation beyond the critical density (a low h0 with t_cmb 10 K) may be refused
+            expect(r.stderr).toContain('--t-cmb');
+            expect(tCmb).toBe('10');
+            return;
+          }
+          expect(r.code, r.stderr).toBe(0);
+          expect(finiteEverywhere(JSON.parse(r.stdout))).toBe(true);
+        },
+      ),
+      { numRuns: 60, seed: 5 },
+    );
+  });
+
+  test('clustering: every redshift, radius and mass inside the ranges gives finite values (property)', async () => {
+    await fc.assert(
+      fc.asyncProperty(
+        fc.double({ min: 0, max: 100, noNaN: true }),
+        fc.double({ min: -3, max: 4, noNaN: true }),
+        fc.double({ min: 3, max: 18, noNaN: true }),
+        async (z, logR, logM) => {
+          const r = await runCli(['clustering', '--z', z.toExponential(), '--radius-mpc', (10 ** logR).toExponential(), '--mass-msun', (10 ** logM).toExponential(), '--format', 'json']);
+          expect(r.code, r.stderr).toBe(0);
+          expect(finiteEverywhere(JSON.parse(r.stdout))).toBe(true);
+        },
+      ),
+      { numRuns: 40, seed: 9 },
+    );
+  });
+});
+
+describe('nothing read is echoed unescaped', () => {
+  test('a path with control characters and a line break comes out as one escaped line', async () => {
+    const r = await runCli(['predict', join(dir, 'no\u001b[31mred\nsecond.yaml')]);
+    expect(r.code).toBe(2);
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    expect(r.stderr).not.toContain('\u001b');
+    expect(r.stderr).toContain('\\x1b[31m');
+  });
+
+  test('a population name with control characters: warnings are escaped too', async () => {
+    const file = join(dir, 'warned.yaml');
+    // a band at 0.6 um lies blueward of Lyman alpha above z = 3.9: a warning naming the population
+    const text = readFileSync('samples/deep-continuum.yaml', 'utf8').replace('name: UV-selected galaxies', 'name: "UV\\e[2J\\nselected"').replace('band: "1.5 um"', 'band: "0.6 um"');
+    writeFileSync(file, text);
+    const r = await runCli(['predict', file]);
+    expect(r.code, r.stderr).toBe(0);
+    expect(r.stderr).toContain('warning');
+    // the escape is shown escaped; the line break becomes a space (a warning is one line)
+    expect(r.stderr).toContain('UV\\x1b[2J selected');
+    expect(r.stderr).not.toContain('\u001b');
+  });
+});
