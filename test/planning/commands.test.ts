@@ -6,8 +6,7 @@
  *   survey (2e-3 relative, interpolated tables), and workers give results identical to one thread;
  * - bad plan sections: exit status 2, one sentence naming the file and the key, nothing on stdout.
  */
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { Ajv2020 } from 'ajv/dist/2020.js';
@@ -19,6 +18,7 @@ import { surveyAtLimit } from '../../src/planning/model.js';
 import { makeDepthModel } from '../../src/planning/depth.js';
 import { runCli } from '../cli/helpers.js';
 import { halphaPlan, sample, sampleText } from './helpers.js';
+import { tempDir } from '../support/temp.js';
 
 const ajv = new Ajv2020({ strict: false });
 const planSchema = ajv.compile(JSON.parse(readFileSync('specs/plan.schema.json', 'utf8')));
@@ -93,7 +93,7 @@ describe('plan', () => {
 });
 
 describe('bad plan sections: exit 2, one sentence naming the file and the key', () => {
-  const dir = mkdtempSync(join(tmpdir(), 'skytally-plan-'));
+  const dir = tempDir('skytally-plan-');
   const base = sampleText('plan-halpha-layers.yaml');
   const head = base.slice(0, base.indexOf('\nplan:'));
   const cases: [string, string, string][] = [
