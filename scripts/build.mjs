@@ -4,29 +4,21 @@
 // files instead of hundreds (mathjs's ESM entry alone costs over a second unbundled) and carries
 // only the parts of mathjs we use. The code is not minified (stack traces and a reader of dist/
 // see our names) and every file has a source map back to src/.
-//
-//   node scripts/build.mjs                    declarations and bundles into dist/
-//   node scripts/build.mjs --bundle-only DIR  the bundles alone into DIR (a test builds the package so)
 import { execFileSync } from 'node:child_process';
 import { rmSync } from 'node:fs';
 import { build } from 'esbuild';
 
-const args = process.argv.slice(2);
-const bundleOnly = args[0] === '--bundle-only';
-const outdir = bundleOnly ? args[1] : 'dist';
-if (!outdir) throw new Error('usage: node scripts/build.mjs [--bundle-only DIR]');
-
-rmSync(outdir, { recursive: true, force: true });
-if (!bundleOnly) {
-  execFileSync(
-    process.execPath,
-    ['node_modules/typescript/bin/tsc', '-p', 'tsconfig.build.json', '--emitDeclarationOnly'],
-    { stdio: 'inherit' },
-  );
-}
+rmSync('dist', { recursive: true, force: true });
+execFileSync(
+  process.execPath,
+  ['node_modules/typescript/bin/tsc', '-p', 'tsconfig.build.json', '--emitDeclarationOnly'],
+  {
+    stdio: 'inherit',
+  },
+);
 await build({
   entryPoints: { index: 'src/index.ts', 'cli/skytally': 'src/cli/main.ts', worker: 'src/worker.ts' },
-  outdir,
+  outdir: 'dist',
   bundle: true,
   splitting: true,
   format: 'esm',

@@ -5,12 +5,14 @@
 // 3. a consumer file that uses the library's types compiles with TypeScript 5.9 (the project's
 //    own compiler) and TypeScript 7, strict, checking the package's declarations
 //    (skipLibCheck off) with no type packages of its own ("types": []);
-// 4. the file compiled by TypeScript 5.9 runs on Node (the package imports as an ES module), the
-//    installed program runs a forecast's mocks in worker threads (dist/worker.js found through
-//    the package's "#worker" import) and `require('skytally')` is refused (ES modules only).
+// 4. the file compiled by TypeScript 5.9 runs on Node (the package imports as an ES module); the
+//    installed build is not minified, has source maps and never loads esbuild; the installed
+//    program runs both worker jobs (forecast mocks, plan depth tables) in two worker threads
+//    (dist/worker.js found through the package's "#worker" import) with the results of one
+//    thread; and `require('skytally')` is refused (ES modules only).
 // The temporary directory is removed at the end, whatever happened.
 import { execFileSync, spawnSync } from 'node:child_process';
-import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 
@@ -140,15 +142,47 @@ console.log(JSON.stringify({ count, slices: slices.length, refused }));
     typeof result.refused === 'string' && result.refused.length > 0,
     `bad input is refused with an error code (${result.refused})`,
   );
-  writeFileSync(join(consumer, 'survey.yaml'), surveyText);
-  const bin = join(consumer, 'node_modules', 'skytally', 'bin', 'skytally.js');
-  const args = ['forecast', 'survey.yaml', '--no-cosmic-variance', '--mocks', '8', '--seed', '3', '--format', 'json'];
-  const two = sh(process.execPath, [bin, ...args, '--workers', '2'], consumer);
-  const one = sh(process.execPath, [bin, ...args, '--workers', '1'], consumer);
+  // The built files as installed: not minified, with source maps, never loading esbuild.
+  const dist = join(consumer, 'node_modules', 'skytally', 'dist');
+  const built = readdirSync(dist, { recursive: true, encoding: 'utf8' }).filter((f) => f.endsWith('.js'));
+  let code = '';
+  for (const f of built) {
+    const text = readFileSync(join(dist, f), 'utf8');
+    if (!/\/\/# sourceMappingURL=\S+\.js\.map\s*$/.test(text) || !existsSync(join(dist, `${f}.map`))) {
+      throw new Error(`package check failed: dist/${f} has no source map`);
+    }
+    if (/\bimport\s*\(\s*["']esbuild["']\s*\)|from\s*["']esbuild["']/.test(text)) {
+      throw new Error(`package check failed: dist/${f} loads esbuild`);
+    }
+    code += text;
+  }
+  check(built.length > 3, `${built.length} built files, each with its source map, none loading esbuild`);
   check(
-    JSON.parse(two).mocks.count === 8 && two === one,
-    'the installed program runs its mocks in two worker threads, as in one',
+    /function runBlocks\(/.test(code) && /function serveJobs\(/.test(code),
+    'the built code is not minified (our names kept)',
   );
+
+  // Both worker jobs in the installed program: two workers give exactly what one thread gives.
+  const bin = join(consumer, 'node_modules', 'skytally', 'bin', 'skytally.js');
+  const twoAndOne = (args) => [2, 1].map((k) => sh(process.execPath, [bin, ...args, '--workers', String(k)], consumer));
+  writeFileSync(join(consumer, 'survey.yaml'), surveyText);
+  const [mocks2, mocks1] = twoAndOne([
+    'forecast',
+    'survey.yaml',
+    '--no-cosmic-variance',
+    '--mocks',
+    '8',
+    '--format',
+    'json',
+  ]);
+  check(JSON.parse(mocks2).mocks.count === 8 && mocks2 === mocks1, 'forecast mocks in two worker threads = in one');
+  // The H-alpha plan sample made small: one tier, 12 exposures.
+  const planText = readFileSync(join(root, 'samples', 'plan-halpha-layers.yaml'), 'utf8')
+    .replace(/exposure_grid: \{[^}]*\}/, 'exposure_grid: {min_hours: 0.5, max_hours: 8, count: 12}')
+    .replace('tiers: 2', 'tiers: 1');
+  writeFileSync(join(consumer, 'plan.yaml'), planText);
+  const [plan2, plan1] = twoAndOne(['plan', 'plan.yaml', '--format', 'json']);
+  check(JSON.parse(plan2).designs.length > 0 && plan2 === plan1, 'plan depth tables in two worker threads = in one');
   const cjs = spawnSync(process.execPath, ['-e', "require('skytally')"], { cwd: consumer, encoding: 'utf8' });
   check(
     cjs.status !== 0 && /ERR_PACKAGE_PATH_NOT_EXPORTED|ERR_REQUIRE_ESM/.test(cjs.stderr),

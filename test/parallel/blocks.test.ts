@@ -6,7 +6,7 @@
  * progress rises to the total, and a block that throws makes the whole run fail with that block's
  * error, in this thread and in a worker; so does a job the entry does not name or cannot load.
  * The package's own worker entry is checked by the plan and forecast tests with two workers, and
- * built as the package ships it in built-worker.test.ts.
+ * as the package ships it by scripts/check-package.mjs.
  */
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
