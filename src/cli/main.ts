@@ -7,8 +7,10 @@ import { Command, CommanderError } from 'commander';
 import { printable, SurveyError } from '../errors.js';
 import { removePendingFiles, type CliIO } from './io.js';
 import { COMMANDS } from './commands/index.js';
+import packageJson from '../../package.json' with { type: 'json' };
 
-export const VERSION = '0.1.0';
+/** The package's version, from package.json (the bundle carries the value, not the file). */
+export const VERSION: string = packageJson.version;
 
 export async function run(argv: readonly string[], io: CliIO): Promise<number> {
   const program = new Command();

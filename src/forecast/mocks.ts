@@ -7,8 +7,8 @@
  * Per slice: g ~ N(0, 1) (only with cosmic variance), mean = N_i max(0, 1 + sigma_i g),
  * n_i ~ Poisson(mean); then the sources (src/forecast/sampler.ts) and the fit (src/forecast/fit.ts).
  *
- * With workers > 1, worker threads run blocks of mocks (src/parallel/blocks.ts); this same module
- * is the workers' entry (its last line serves the blocks when loaded in a worker thread).
+ * With workers > 1, worker threads run blocks of mocks (src/parallel/blocks.ts): the worker entry
+ * (src/worker.ts) names `mockBlocks` as the job 'forecast-mocks'.
  */
 import mt19937 from '@stdlib/random-base-mt19937';
 import normalRng from '@stdlib/random-base-normal';
@@ -16,7 +16,8 @@ import poissonRng from '@stdlib/random-base-poisson';
 import type { DensityGrid } from './grid.js';
 import { buildSamplingTables, CatalogueSampler, type SamplingTables } from './sampler.js';
 import { fitCatalogue, type Estimator } from './fit.js';
-import { runBlocks, serveBlocks, type BlockFunction } from '../parallel/blocks.js';
+import { runBlocks, type BlockFunction } from '../parallel/blocks.js';
+import type { WorkerJob } from '../worker.js';
 
 export interface MockSetup {
   grid: DensityGrid;
@@ -83,10 +84,10 @@ export interface RunOptions {
 /** One block of mocks as a worker returns it (misses: envelope misses of this block alone). */
 type MockBlock = { theta: Float64Array; ok: Uint8Array; sources: Float64Array; misses: number };
 
-const MOCK_TAG = 'forecast-mocks';
+const MOCK_JOB: WorkerJob = 'forecast-mocks';
 
 /** The block function of a setup: one sampler per thread, reused over its blocks. */
-function mockBlocks(setup: MockSetup): BlockFunction<MockBlock> {
+export function mockBlocks(setup: MockSetup): BlockFunction<MockBlock> {
   const sampler = new CatalogueSampler(setup.grid, setup.tables);
   return (start, end) => {
     const before = sampler.envelopeMisses;
@@ -109,8 +110,7 @@ export async function runMocks(setup: MockSetup, count: number, opts: RunOptions
     workers,
     data: setup,
     prepare: mockBlocks,
-    module: import.meta.url,
-    tag: MOCK_TAG,
+    job: MOCK_JOB,
     onBlock: (start, _end, r: MockBlock) => {
       theta.set(r.theta, 3 * start);
       ok.set(r.ok, start);
@@ -123,5 +123,3 @@ export async function runMocks(setup: MockSetup, count: number, opts: RunOptions
   });
   return { count, theta, ok, sources, envelopeMisses: misses };
 }
-
-serveBlocks(MOCK_TAG, mockBlocks);

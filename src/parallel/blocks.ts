@@ -3,20 +3,24 @@
  *
  * A job is a function `prepare(data)` that returns the block function `(start, end) => result`.
  * With one worker (or fewer) the blocks run here, in order, yielding to the event loop between
- * blocks. With more, each worker thread loads the CALLER's module (`module`, its import.meta.url),
- * whose top level must call `serveBlocks(tag, prepare)`: the worker receives `data` once (a
- * structured clone, so plain data and typed arrays only), builds its own block function, and is
- * handed the next block whenever it returns one. A result is an object of typed arrays (their
- * buffers are transferred, not copied) and numbers. The first failure terminates every worker.
+ * blocks. With more, each worker thread runs the package's worker entry (src/worker.ts, built to
+ * dist/worker.js), which serves the jobs it names with `serveJobs`: the worker looks up the job
+ * by its name (`BlockJob.job`), receives `data` once (a structured clone, so plain data and typed
+ * arrays only), builds its own block function, and is handed the next block whenever it returns
+ * one. A result is an object of typed arrays (their buffers are transferred, not copied) and
+ * numbers. The first failure terminates every worker.
  *
  * Which thread runs a block, and in which order blocks finish, must not change a result: each
  * block's numbers have to depend on its indices and `data` only. The caller places each block's
  * result by its `start` (`onBlock`), so the assembled output is the same whatever `workers` is.
+ *
+ * Where the worker entry is: the package's private import `#worker` (package.json "imports"),
+ * so it is found from whichever bundled file runs this code. Running the TypeScript sources
+ * (tests, benchmarks), a worker cannot load .ts files quickly, so the environment variable
+ * SKYTALLY_WORKER_ENTRY names a JavaScript bundle of src/worker.ts instead (the test set-up,
+ * test/support/global-setup.ts, makes one per run).
  */
 import { Worker, isMainThread, parentPort, workerData } from 'node:worker_threads';
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 /** What a block returns: typed arrays (transferred between threads) and numbers. */
@@ -33,12 +37,12 @@ export interface BlockJob<D, R extends BlockResult> {
   workers: number;
   /** Sent once to each worker; also given to `prepare` in this thread. */
   data: D;
-  /** Builds the block function from `data` (once in this thread, or once per worker). */
+  /** Builds the block function from `data` in this thread (workers <= 1). */
   prepare: (data: D) => BlockFunction<R>;
-  /** The caller's module URL (import.meta.url); its top level calls `serveBlocks(tag, prepare)`. */
-  module: string;
-  /** Tells the worker which `serveBlocks` call answers (one module may serve several jobs). */
-  tag: string;
+  /** The job's name in the worker entry's table (`serveJobs`); its loader gives the same `prepare`. */
+  job: string;
+  /** The worker entry (a file path or file: URL); by default the package's (see above). */
+  entry?: string | URL | undefined;
   /** Each block's result, in the order blocks finish. */
   onBlock: (start: number, end: number, result: R) => void;
   /** Indices done so far, after each block. */
@@ -49,7 +53,7 @@ export interface BlockJob<D, R extends BlockResult> {
 }
 
 interface WorkerSetup<D> {
-  skytallyBlocks: string;
+  skytallyJob: string;
   data: D;
 }
 
@@ -75,8 +79,8 @@ export async function runBlocks<D, R extends BlockResult>(job: BlockJob<D, R>): 
     }
     return;
   }
-  const entry = await workerEntry(job.module);
-  const setup: WorkerSetup<D> = { skytallyBlocks: job.tag, data: job.data };
+  const entry = job.entry ?? workerEntry();
+  const setup: WorkerSetup<D> = { skytallyJob: job.job, data: job.data };
   let next = 0;
   let done = 0;
   await new Promise<void>((resolve, reject) => {
@@ -127,21 +131,38 @@ export async function runBlocks<D, R extends BlockResult>(job: BlockJob<D, R>): 
   });
 }
 
+/** How a worker entry finds a job: its name, and a loader of its `prepare` function. */
+export type JobTable = Readonly<Record<string, () => Promise<(data: never) => BlockFunction<BlockResult>>>>;
+
 /**
- * The worker side: call at the top level of the module named in `BlockJob.module`. In the main
- * thread, or in a worker started for another tag, it does nothing.
+ * The worker side: the top level of a worker entry calls it once with the jobs it serves. It
+ * loads the job named in the worker's data, builds the block function and answers every block
+ * it is sent. Outside a worker thread started by `runBlocks` it does nothing.
  */
-export function serveBlocks<D, R extends BlockResult>(tag: string, prepare: (data: D) => BlockFunction<R>): void {
+export function serveJobs(jobs: JobTable): void {
   if (isMainThread || !parentPort) return;
-  const setup = workerData as WorkerSetup<D> | null;
-  if (!setup || setup.skytallyBlocks !== tag) return;
-  const run = prepare(setup.data);
+  const setup = workerData as WorkerSetup<unknown> | null;
+  if (!setup || typeof setup.skytallyJob !== 'string') return;
   const port = parentPort;
-  port.on('message', (m: { start: number; end: number }) => {
-    const result = run(m.start, m.end);
-    const reply: BlockReply<R> = { start: m.start, end: m.end, result };
-    port.postMessage(reply, buffersOf(result));
-  });
+  const load = Object.hasOwn(jobs, setup.skytallyJob) ? jobs[setup.skytallyJob] : undefined;
+  if (!load) throw new Error(`the worker entry has no job named "${setup.skytallyJob}"`);
+  // Blocks sent before the job has loaded wait in the port's queue: it starts with the listener.
+  void load()
+    .then((prepare) => {
+      // runBlocks sent the data that this job's `prepare` takes.
+      const run = prepare(setup.data as never);
+      port.on('message', (m: { start: number; end: number }) => {
+        const result = run(m.start, m.end);
+        const reply: BlockReply<BlockResult> = { start: m.start, end: m.end, result };
+        port.postMessage(reply, buffersOf(result));
+      });
+    })
+    .catch((err: unknown) => {
+      // Rethrown outside the promise, so that the worker fails and runBlocks hears of it.
+      setImmediate(() => {
+        throw err;
+      });
+    });
 }
 
 function buffersOf(result: BlockResult): ArrayBuffer[] {
@@ -152,36 +173,20 @@ function buffersOf(result: BlockResult): ArrayBuffer[] {
   return [...out];
 }
 
+/** The environment variable naming a bundled worker entry (for runs of the TypeScript sources). */
+export const WORKER_ENTRY_VARIABLE = 'SKYTALLY_WORKER_ENTRY';
+
 /**
- * The worker's entry for a module URL. A .js file (the built program) is loaded as it is. A .ts
- * file (tests and benchmarks run the sources) is first bundled once per process with esbuild (a
- * development dependency) into a temporary .mjs file, because a worker loading TypeScript through
- * a loader takes seconds to start.
+ * The package's worker entry: SKYTALLY_WORKER_ENTRY when set, else the built dist/worker.js found
+ * through the package's "imports" map. The TypeScript sources have no built entry of their own.
  */
-const devBundles = new Map<string, Promise<string>>();
-async function workerEntry(moduleUrl: string): Promise<string> {
-  const file = fileURLToPath(moduleUrl);
-  if (!file.endsWith('.ts')) return file;
-  let bundle = devBundles.get(file);
-  if (!bundle) {
-    bundle = (async () => {
-      const moduleName = 'esbuild'; // not a literal, so that bundling the program leaves it out
-      const { build } = (await import(moduleName)) as typeof import('esbuild');
-      const out = join(mkdtempSync(join(tmpdir(), 'skytally-workers-')), 'worker.mjs');
-      process.once('exit', () => rmSync(dirname(out), { recursive: true, force: true }));
-      await build({
-        entryPoints: [file],
-        outfile: out,
-        bundle: true,
-        format: 'esm',
-        platform: 'node',
-        target: 'node20',
-        banner: { js: "import { createRequire as __req } from 'node:module'; const require = __req(import.meta.url);" },
-        logLevel: 'error',
-      });
-      return out;
-    })();
-    devBundles.set(file, bundle);
+export function workerEntry(): string {
+  const given = process.env[WORKER_ENTRY_VARIABLE];
+  if (given) return given;
+  if (import.meta.url.endsWith('.ts')) {
+    throw new Error(
+      `worker threads need a JavaScript worker entry: build the package, or set ${WORKER_ENTRY_VARIABLE} to a bundle of src/worker.ts`,
+    );
   }
-  return bundle;
+  return fileURLToPath(import.meta.resolve('#worker'));
 }

@@ -23,13 +23,14 @@
  *
  * Knots are independent: with workers > 1 they are split among worker threads, and every knot is
  * computed by the same function, so the tables are identical whatever the number of workers
- * (this module is the workers' entry: its last line serves the blocks in a worker thread).
+ * (the worker entry, src/worker.ts, names `knotBlocks` as the job 'plan-depth-tables').
  */
 import type { DensityGrid } from '../forecast/grid.js';
 import { sliceCount } from '../forecast/grid.js';
 import { panelNodes, type PanelNodes } from '../numerics/quadrature.js';
 import { completenessBreaks, completenessFunction } from '../selection/completeness.js';
-import { runBlocks, serveBlocks, type BlockFunction } from '../parallel/blocks.js';
+import { runBlocks, type BlockFunction } from '../parallel/blocks.js';
+import type { WorkerJob } from '../worker.js';
 
 const LN10 = Math.LN10;
 /** Knot spacing in Delta (ln u). */
@@ -155,10 +156,10 @@ export function knotCount(maxDelta: number): number {
   return Math.max(2, Math.ceil(maxDelta / KNOT_STEP - 1e-9) + 1);
 }
 
-const TABLES_TAG = 'plan-depth-tables';
+const TABLES_JOB: WorkerJob = 'plan-depth-tables';
 
 /** The block function of a grid: knots [start, end) into one array, knot after knot. */
-function knotBlocks(grid: DensityGrid): BlockFunction<{ values: Float64Array }> {
+export function knotBlocks(grid: DensityGrid): BlockFunction<{ values: Float64Array }> {
   const nS = sliceCount(grid);
   return (start, end) => {
     const values = new Float64Array((end - start) * nS * PER_SLICE);
@@ -184,8 +185,7 @@ export async function tabulateDepth(
     workers,
     data: grid,
     prepare: knotBlocks,
-    module: import.meta.url,
-    tag: TABLES_TAG,
+    job: TABLES_JOB,
     onBlock: (start, _end, r: { values: Float64Array }) => data.set(r.values, start * nS * PER_SLICE),
     onProgress: opts.onProgress,
     name: 'plan',
@@ -219,5 +219,3 @@ export function interpolateSlice(t: DepthTables, sl: number, delta: number, out:
   for (let k = 0; k < 6; k++) out[k] = h00 * d[a + k]! + h10 * d[a + 6 + k]! + h01 * d[b + k]! + h11 * d[b + 6 + k]!;
   out[6] = h00 * d[a + 12]! + h10 * d[a + 13]! + h01 * d[b + 12]! + h11 * d[b + 13]!;
 }
-
-serveBlocks(TABLES_TAG, knotBlocks);

@@ -5,5 +5,4 @@ export { compileExpression } from './expressions.js';
 export { populationByName } from './select.js';
 export { readTransmissionFile } from './transmission-file.js';
 export { parseQuantity, FULL_SKY_DEG2, SR_PER_DEG2 } from './units.js';
-export { SURVEY_SCHEMA_URL } from './schema.js';
 export type * from './types.js';

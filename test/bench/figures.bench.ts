@@ -4,15 +4,13 @@ import { buildFigures, countsFigure } from '../../src/render/figures.js';
 import { renderReport } from '../../src/render/report.js';
 import { writeFigures } from '../../src/render/write-figures.js';
 import { demoForecast, demoPlan, demoPrediction } from '../render/demo.js';
-import { mkdtempSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { tempDir } from '../support/temp.js';
 
 const prediction = demoPrediction({ slices: 10 });
 const forecast = demoForecast({ mocks: 200 });
 const plan = demoPlan();
 const figures = await buildFigures({ prediction, forecast, plan });
-const dir = mkdtempSync(join(tmpdir(), 'skytally-bench-'));
+const dir = tempDir('skytally-bench-');
 
 export const cases: BenchCase[] = [
   { name: 'figures: all 5 for a 10-slice demo (200 mocks)', run: () => buildFigures({ prediction, forecast, plan }), repeats: 15 },

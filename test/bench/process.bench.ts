@@ -1,15 +1,14 @@
 /**
- * Whole-process timings of the built program (issue 2: predict --format json under 0.4 s;
- * issue 6: report with its figures under 1 s). Run `npm run build` first.
+ * Whole-process timings of the built program (aims: predict --format json under 0.4 s; a report
+ * with its figures under 1 s). Run `npm run build` first.
  */
 import { execFileSync } from 'node:child_process';
-import { mkdtempSync } from 'node:fs';
-import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { BenchCase } from './run.js';
+import { tempDir } from '../support/temp.js';
 
 const node = process.execPath;
-const out = join(mkdtempSync(join(tmpdir(), 'skytally-bench-')), 'report.html');
+const out = join(tempDir('skytally-bench-'), 'report.html');
 const run = (args: string[]) => () => execFileSync(node, ['bin/skytally.js', ...args], { stdio: ['ignore', 'ignore', 'inherit'] });
 
 export const cases: BenchCase[] = [

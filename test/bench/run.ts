@@ -6,11 +6,12 @@
 import { readdirSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
+import setupTestRun from '../support/global-setup.js';
 
 export interface BenchCase {
   name: string;
-  /** One run of the thing measured (may be async). */
-  run: () => unknown | Promise<unknown>;
+  /** One run of the thing measured (a promise it returns is awaited). */
+  run: () => unknown;
   /** How many timed runs (default 50); a warm-up run always comes first. */
   repeats?: number;
 }
@@ -19,24 +20,30 @@ const here = dirname(fileURLToPath(import.meta.url));
 const filter = process.argv[2] ?? '';
 const files = readdirSync(here).filter((f) => f.endsWith('.bench.ts')).sort();
 const rows: string[] = [];
-for (const f of files) {
-  const mod = (await import(pathToFileURL(join(here, f)).href)) as { cases: BenchCase[] };
-  for (const c of mod.cases) {
-    if (filter && !c.name.includes(filter) && !f.includes(filter)) continue;
-    await c.run();
-    const times: number[] = [];
-    const n = c.repeats ?? 50;
-    for (let i = 0; i < n; i++) {
-      const t0 = performance.now();
+// The tests' set-up: one temporary directory for the run (removed at the end) and the worker entry.
+const teardown = await setupTestRun();
+try {
+  for (const f of files) {
+    const mod = (await import(pathToFileURL(join(here, f)).href)) as { cases: BenchCase[] };
+    for (const c of mod.cases) {
+      if (filter && !c.name.includes(filter) && !f.includes(filter)) continue;
       await c.run();
-      times.push(performance.now() - t0);
+      const times: number[] = [];
+      const n = c.repeats ?? 50;
+      for (let i = 0; i < n; i++) {
+        const t0 = performance.now();
+        await c.run();
+        times.push(performance.now() - t0);
+      }
+      times.sort((a, b) => a - b);
+      const med = times[Math.floor(n / 2)]!;
+      const p90 = times[Math.min(n - 1, Math.floor(n * 0.9))]!;
+      const line = `${c.name.padEnd(60)} median ${med.toFixed(3).padStart(10)} ms   p90 ${p90.toFixed(3).padStart(10)} ms   (n=${n})`;
+      rows.push(line);
+      console.log(line);
     }
-    times.sort((a, b) => a - b);
-    const med = times[Math.floor(n / 2)]!;
-    const p90 = times[Math.min(n - 1, Math.floor(n * 0.9))]!;
-    const line = `${c.name.padEnd(60)} median ${med.toFixed(3).padStart(10)} ms   p90 ${p90.toFixed(3).padStart(10)} ms   (n=${n})`;
-    rows.push(line);
-    console.log(line);
   }
+} finally {
+  teardown();
 }
 if (rows.length === 0) console.log('no benchmark matched');

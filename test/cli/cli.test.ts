@@ -6,13 +6,13 @@
  */
 import { describe, expect, test } from 'vitest';
 import { execFileSync, spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, writeFileSync, readdirSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { existsSync, readFileSync, writeFileSync, readdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { runCli } from './helpers.js';
 import { loadSurveyFile } from '../../src/survey/load.js';
 import { predict } from '../../src/counts/predict.js';
 import { parseCsvStrict } from '../render/csv-helpers.js';
+import { tempDir } from '../support/temp.js';
 
 const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml') && !f.startsWith('plan'));
 
@@ -44,7 +44,7 @@ describe('predict', () => {
   });
 
   test('--out writes the file and nothing to stdout; refuses to overwrite the input', async () => {
-    const dir = mkdtempSync(join(tmpdir(), 'skytally-'));
+    const dir = tempDir('skytally-');
     const out = join(dir, 'p.json');
     const r = await runCli(['predict', `samples/${SAMPLES[0]}`, '--format', 'json', '--out', out]);
     expect(r.code).toBe(0);
@@ -58,7 +58,7 @@ describe('predict', () => {
   });
 
   test('bad input: exit 2, one sentence naming the file and key, no output written', async () => {
-    const dir = mkdtempSync(join(tmpdir(), 'skytally-'));
+    const dir = tempDir('skytally-');
     const input = join(dir, 'bad.yaml');
     writeFileSync(input, readFileSync(`samples/${SAMPLES[0]}`, 'utf8').replace(/^area:.*$/m, 'area: -3'));
     const out = join(dir, 'never.json');

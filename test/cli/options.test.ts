@@ -3,6 +3,7 @@
  * case is exit 2 with one sentence naming the option or key (or a correct, finite output).
  * Ranges and caps are the ones stated in README.md ("Limits") and src/survey/limits.ts.
  */
+import { tempDir } from '../support/temp.js';
 import fc from 'fast-check';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -27,7 +28,7 @@ function finiteEverywhere(v: unknown): boolean {
   return true;
 }
 
-const dir = mkdtempSync(join(tmpdir(), 'skytally-options-'));
+const dir = tempDir('skytally-options-');
 function surveyWith(from: string, to: string, sample = 'samples/halpha-narrowband.yaml'): string {
   const text = readFileSync(sample, 'utf8');
   expect(text).toContain(from);

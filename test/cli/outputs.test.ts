@@ -5,6 +5,7 @@
  * written unless every output is ready; no temporary file left behind); a closed pipe ends the
  * program quietly with status 0.
  */
+import { tempDir } from '../support/temp.js';
 import { spawn, spawnSync, execFileSync } from 'node:child_process';
 import {
   cpSync,
@@ -27,7 +28,7 @@ import { runCli, type Captured } from './helpers.js';
 const SAMPLE = 'samples/halpha-narrowband.yaml';
 
 function tmp(): string {
-  return mkdtempSync(join(tmpdir(), 'skytally-out-'));
+  return tempDir('skytally-out-');
 }
 
 /** Exit 2 with one sentence on stderr, nothing on stdout, and no raw system error text. */

@@ -7,15 +7,15 @@
  * ellipses the drawn path in pixels mapped back through the axis domain.
  */
 import { describe, expect, test } from 'vitest';
-import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { runCli } from './helpers.js';
+import { tempDir } from '../support/temp.js';
 
 type Any = Record<string, any>;
 
-const tmp = () => mkdtempSync(join(tmpdir(), 'skytally-report-fp-'));
+const tmp = () => tempDir('skytally-report-fp-');
 const num = (s: string) => Number(s.replace(/\u2212/g, '-').replace(/,/g, ''));
 const close = (a: number, b: number, rel = 1e-10) => Math.abs(a - b) <= rel * Math.max(Math.abs(a), Math.abs(b), 1e-300);
 const PLAN_SAMPLES = ['plan-uv-deep-wide.yaml', 'plan-halpha-layers.yaml'];

@@ -6,14 +6,14 @@
  * they test plumbing only, not any physics.
  */
 import { describe, expect, test } from 'vitest';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { runReport, hasPlanSection } from '../../src/cli/commands/report.js';
 import type { CliIO } from '../../src/cli/io.js';
 import { forecastForFigures, planForFigures, goalName } from '../../src/render/adapt.js';
 import { forecastSpec, planSpec } from '../../src/render/figures.js';
 import { loadSurveyFile, loadSurveyText } from '../../src/survey/index.js';
+import { tempDir } from '../support/temp.js';
 
 type Any = Record<string, any>;
 
@@ -117,7 +117,7 @@ describe('report hooks', () => {
   };
 
   test('a forecast hook adds its table and figure; the plan hook is not called without a plan section', async () => {
-    const dir = mkdtempSync(join(tmpdir(), 'skytally-hooks-'));
+    const dir = tempDir('skytally-hooks-');
     const out = join(dir, 'r.html');
     let planCalls = 0;
     const code = await runReport(io(), 'samples/halpha-narrowband.yaml', { out }, {
@@ -139,7 +139,7 @@ describe('report hooks', () => {
   });
 
   test('with a plan section the plan hook runs and its table and figure appear', async () => {
-    const dir = mkdtempSync(join(tmpdir(), 'skytally-hooks-'));
+    const dir = tempDir('skytally-hooks-');
     const text = `${readFileSync('samples/halpha-narrowband.yaml', 'utf8')}plan: {budget_hours: 40}\n`;
     expect(hasPlanSection(loadSurveyText(text, 'p.yaml'))).toBe(true);
     const input = join(dir, 'p.yaml');

@@ -7,13 +7,13 @@
  * 1e-10 (the labels keep 12 significant digits).
  */
 import { describe, expect, test } from 'vitest';
-import { existsSync, mkdtempSync, readFileSync, readdirSync, writeFileSync, statSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { existsSync, readFileSync, readdirSync, writeFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { runCli } from './helpers.js';
+import { tempDir } from '../support/temp.js';
 
 const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml'));
-const tmp = () => mkdtempSync(join(tmpdir(), 'skytally-report-'));
+const tmp = () => tempDir('skytally-report-');
 const num = (s: string) => Number(s.replace(/\u2212/g, '-').replace(/,/g, ''));
 const close = (a: number, b: number) => Math.abs(a - b) <= 1e-10 * Math.max(Math.abs(a), Math.abs(b), 1e-300);
 

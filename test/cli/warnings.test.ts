@@ -7,6 +7,7 @@
  * forecast in test/forecast/cli.test.ts and for the plan samples' reports in
  * report-forecast-plan.test.ts).
  */
+import { tempDir } from '../support/temp.js';
 import { describe, expect, test } from 'vitest';
 import { mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -18,7 +19,7 @@ import { sampleText } from '../planning/helpers.js';
 
 type Any = Record<string, any>;
 
-const dir = mkdtempSync(join(tmpdir(), 'skytally-warnings-'));
+const dir = tempDir('skytally-warnings-');
 function file(name: string, text: string): string {
   const path = join(dir, name);
   writeFileSync(path, text);

@@ -4,13 +4,13 @@
  * survey-file.md). Exit 2, code "divergent", nothing written; alpha just above -2.5 still counts.
  */
 import { describe, expect, test } from 'vitest';
-import { mkdtempSync, writeFileSync, existsSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { writeFileSync, existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { parseSurveyObject } from '../../src/survey/index.js';
 import { predict } from '../../src/counts/predict.js';
 import { SurveyError } from '../../src/errors.js';
 import { runCli } from '../cli/helpers.js';
+import { tempDir } from '../support/temp.js';
 
 const survey = (alpha: number, zmin = 0, kind: 'line_flux' | 'magnitude' = 'line_flux') =>
   parseSurveyObject(
@@ -48,7 +48,7 @@ describe('divergent counts', () => {
     expect(p.totals.count).toBeGreaterThan(0);
   });
   test('through the command: exit 2, one sentence, no output file', async () => {
-    const dir = mkdtempSync(join(tmpdir(), 'skytally-div-'));
+    const dir = tempDir('skytally-div-');
     const f = join(dir, 'div.yaml');
     writeFileSync(
       f,

@@ -14,8 +14,7 @@
  * - tabulated filters: a table that samples the top-hat or gaussian profile reproduces its counts
  *   (1e-4 relative, the issue's tolerance).
  */
-import { mkdtempSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { loadSurveyFile, loadSurveyText, parseSurveyObject } from '../../src/survey/load.js';
@@ -26,6 +25,7 @@ import { gammaFn, upperGamma } from '../../src/numerics/gamma.js';
 import { SurveyError } from '../../src/errors.js';
 import { parse } from 'yaml';
 import { runCli } from '../cli/helpers.js';
+import { tempDir } from '../support/temp.js';
 
 const NB = `
 title: two lines through one filter
@@ -267,7 +267,7 @@ slices: {count: 1}
 });
 
 describe('tabulated filter curves', () => {
-  const dir = mkdtempSync(join(tmpdir(), 'skytally-filter-'));
+  const dir = tempDir('skytally-filter-');
   const base = (filter: string) => `
 cosmology: {h0: 70, omega_m: 0.3}
 area: 1
@@ -339,7 +339,7 @@ describe('every sample runs through predict, and the CLI prints warnings on stde
     expect(p.warnings).toEqual([]);
   });
   test('a warning reaches stderr', async () => {
-    const dir = mkdtempSync(join(tmpdir(), 'skytally-warn-'));
+    const dir = tempDir('skytally-warn-');
     const file = writeSurvey(dir, 'w.yaml', `
 cosmology: {h0: 70, omega_m: 0.3}
 area: 0.1

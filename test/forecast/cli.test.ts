@@ -4,8 +4,7 @@
  * written). Plumbing only: the numbers are checked against references in fisher.test.ts and mocks.test.ts.
  */
 import { describe, expect, test } from 'vitest';
-import { existsSync, mkdtempSync, readFileSync, readdirSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { existsSync, readFileSync, readdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { runCli } from '../cli/helpers.js';
@@ -14,6 +13,7 @@ import { loadSurveyFile } from '../../src/survey/load.js';
 import { forecast } from '../../src/forecast/forecast.js';
 import { predict } from '../../src/counts/predict.js';
 import { parseCsvStrict } from '../render/csv-helpers.js';
+import { tempDir } from '../support/temp.js';
 
 // Forecasts vary a single Schechter function: double Schechter samples are refused (tested below).
 const ALL = readdirSync('samples').filter((f) => f.endsWith('.yaml') && !f.startsWith('plan'));
@@ -63,7 +63,7 @@ describe('forecast command', () => {
   });
 
   test('--out writes the file and nothing to stdout', async () => {
-    const dir = mkdtempSync(join(tmpdir(), 'skytally-'));
+    const dir = tempDir('skytally-');
     const out = join(dir, 'f.json');
     const r = await runCli(['forecast', `samples/${SAMPLES[0]}`, '--no-cosmic-variance', '--format', 'json', '--out', out]);
     expect(r.code).toBe(0);
@@ -79,7 +79,7 @@ describe('forecast command', () => {
     ['no equals sign', 'alpha', /not of the form name=sigma/],
     ['given twice', 'alpha=0.1,alpha=0.2', /given twice/],
   ])('bad --target (%s): exit 2, one sentence, nothing written', async (_what, target, message) => {
-    const dir = mkdtempSync(join(tmpdir(), 'skytally-'));
+    const dir = tempDir('skytally-');
     const out = join(dir, 'f.json');
     const r = await runCli(['forecast', `samples/${SAMPLES[0]}`, '--no-cosmic-variance', '--target', target, '--out', out]);
     expect(r.code).toBe(2);

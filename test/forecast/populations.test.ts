@@ -7,6 +7,7 @@
  * identity is exact by construction, checked to 1e-9 relative (the issue's tolerance) for every
  * number of the forecast, with and without cosmic variance.
  */
+import { tempDir } from '../support/temp.js';
 import { copyFileSync, mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -19,7 +20,7 @@ import { plan } from '../../src/planning/plan.js';
 import { runCli } from '../cli/helpers.js';
 
 const SAMPLE = 'samples/narrowband-interlopers.yaml';
-const dir = mkdtempSync(join(tmpdir(), 'skytally-pops-'));
+const dir = tempDir('skytally-pops-');
 mkdirSync(join(dir, 'filters'));
 copyFileSync('samples/filters/nb-9200-invented.csv', join(dir, 'filters', 'nb-9200-invented.csv'));
 const doc = parse(readFileSync(SAMPLE, 'utf8')) as Record<string, unknown>;

@@ -1,10 +1,10 @@
 /**
  * A block job for test/parallel/blocks.test.ts: values[i - start] = i^2 + data.offset, and a count
- * of the block's indices and the thread that ran it; the block holding index data.failAt throws. This module is also the
- * workers' entry (its last line).
+ * of the block's indices and the thread that ran it; the block holding index data.failAt throws.
+ * Its worker entry is fixture-worker.ts (bundled by the test, as src/worker.ts is for the sources).
  */
 import { threadId } from 'node:worker_threads';
-import { runBlocks, serveBlocks, type BlockFunction } from '../../src/parallel/blocks.js';
+import { runBlocks, type BlockFunction } from '../../src/parallel/blocks.js';
 
 export interface FixtureData {
   offset: number;
@@ -13,9 +13,9 @@ export interface FixtureData {
 
 type Squares = { values: Float64Array; flags: Uint8Array; indices: number; thread: number };
 
-const TAG = 'test-squares';
+export const SQUARES_JOB = 'test-squares';
 
-function squares(data: FixtureData): BlockFunction<Squares> {
+export function squares(data: FixtureData): BlockFunction<Squares> {
   return (start, end) => {
     if (data.failAt >= start && data.failAt < end) throw new Error(`index ${data.failAt} refused`);
     const values = new Float64Array(end - start);
@@ -28,30 +28,41 @@ function squares(data: FixtureData): BlockFunction<Squares> {
   };
 }
 
-export async function runSquares(total: number, block: number, workers: number, data: FixtureData, onProgress?: (done: number, total: number) => void) {
+export interface SquaresRun {
+  total: number;
+  block: number;
+  workers: number;
+  data: FixtureData;
+  /** The worker entry (a bundle of fixture-worker.ts). */
+  entry: string;
+  /** The job's name sent to the workers (SQUARES_JOB unless a test asks for another). */
+  job?: string;
+  onProgress?: (done: number, total: number) => void;
+}
+
+export async function runSquares(run: SquaresRun) {
+  const { total } = run;
   const values = new Float64Array(total);
   const flags = new Uint8Array(total);
   let indices = 0;
   const threads = new Set<number>();
   await runBlocks({
     total,
-    block,
-    workers,
-    data,
+    block: run.block,
+    workers: run.workers,
+    data: run.data,
     prepare: squares,
-    module: import.meta.url,
-    tag: TAG,
+    job: run.job ?? SQUARES_JOB,
+    entry: run.entry,
     onBlock: (start, _end, r: Squares) => {
       values.set(r.values, start);
       flags.set(r.flags, start);
       indices += r.indices;
       threads.add(r.thread);
     },
-    onProgress,
+    onProgress: run.onProgress,
     name: 'test',
     items: 'squares',
   });
   return { values, flags, indices, threads };
 }
-
-serveBlocks(TAG, squares);

@@ -6,8 +6,7 @@
  *   survey (2e-3 relative, interpolated tables), and workers give results identical to one thread;
  * - bad plan sections: exit status 2, one sentence naming the file and the key, nothing on stdout.
  */
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { Ajv2020 } from 'ajv/dist/2020.js';
@@ -20,6 +19,7 @@ import { makeDepthModel } from '../../src/planning/depth.js';
 import { runCli } from '../cli/helpers.js';
 import { halphaPlan, sample, sampleText } from './helpers.js';
 import { parseCsvStrict } from '../render/csv-helpers.js';
+import { tempDir } from '../support/temp.js';
 
 const ajv = new Ajv2020({ strict: false });
 const planSchema = ajv.compile(JSON.parse(readFileSync('specs/plan.schema.json', 'utf8')));
@@ -81,7 +81,7 @@ describe('compare = predict + forecast, row by row', () => {
     expect(c.stdout).toContain('sigma of alpha');
     expect(c.stdout).toContain('sigma of log10 L*');
     expect(c.stdout).not.toMatch(/sigma (log10_|m_star|alpha\b)/);
-    const dir = mkdtempSync(join(tmpdir(), 'skytally-words-'));
+    const dir = tempDir('skytally-words-');
     const file = join(dir, 'plan.yaml');
     writeFileSync(file, sampleText('plan-halpha-layers.yaml').replace('count: 120}', 'count: 20}').replace('tiers: 2', 'tiers: 1'));
     const p = await runCli(['plan', file]);
@@ -130,7 +130,7 @@ describe('plan', () => {
 });
 
 describe('bad plan sections: exit 2, one sentence naming the file and the key', () => {
-  const dir = mkdtempSync(join(tmpdir(), 'skytally-plan-'));
+  const dir = tempDir('skytally-plan-');
   const base = sampleText('plan-halpha-layers.yaml');
   const head = base.slice(0, base.indexOf('\nplan:'));
   const cases: [string, string, string][] = [

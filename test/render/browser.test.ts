@@ -5,8 +5,7 @@
  * test-output/report.png. Skipped, with a message, only when /usr/bin/chromium is absent
  * (.ci/chromium.sh installs it on CI).
  */
-import { existsSync, mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { existsSync, mkdirSync, rmSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
@@ -15,6 +14,7 @@ import { buildFigures } from '../../src/render/figures.js';
 import { renderReport } from '../../src/render/report.js';
 import type { Figure } from '../../src/render/types.js';
 import { demoForecast, demoPlan, demoPrediction } from './demo.js';
+import { tempDir } from '../support/temp.js';
 
 const CHROMIUM = '/usr/bin/chromium';
 const haveChromium = existsSync(CHROMIUM);
@@ -65,7 +65,7 @@ describe.skipIf(!haveChromium)('report in headless chromium', () => {
     writeFileSync(file, html);
     docUrl = pathToFileURL(file).href;
 
-    userData = mkdtempSync(join(tmpdir(), 'skytally-chromium-'));
+    userData = tempDir('skytally-chromium-');
     context = await chromium.launchPersistentContext(userData, {
       executablePath: CHROMIUM,
       headless: true,

@@ -4,6 +4,7 @@
  * the header's number of fields, no blank line anywhere, and the numbers equal to the JSON's
  * (the CSV writes numbers in full, so the comparison is exact).
  */
+import { tempDir } from '../support/temp.js';
 import { describe, expect, test } from 'vitest';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -70,7 +71,7 @@ describe('CSV of every command, read strictly', () => {
 
   test('plan: one record per design (and per tier), no blank line (failed before, as compare)', async () => {
     // the layered sample on a coarser grid (quicker; still two tiers, so tier records too)
-    const dir = mkdtempSync(join(tmpdir(), 'skytally-csv-'));
+    const dir = tempDir('skytally-csv-');
     const file = join(dir, 'plan.yaml');
     writeFileSync(file, readFileSync('samples/plan-halpha-layers.yaml', 'utf8').replace('count: 120}', 'count: 30}'));
     const { csv, json, text } = await both(['plan', file]);

@@ -6,13 +6,13 @@
  * through the command, is shown as text and never run. Skipped, with a message, only when
  * /usr/bin/chromium is absent (.ci/run installs it through .ci/chromium.sh).
  */
-import { existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { existsSync, mkdirSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { chromium, type BrowserContext } from 'playwright-core';
 import { runCli } from '../cli/helpers.js';
+import { tempDir } from '../support/temp.js';
 
 const CHROMIUM = '/usr/bin/chromium';
 const haveChromium = existsSync(CHROMIUM);
@@ -116,7 +116,7 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
       if (r.code !== 0) throw new Error(`report ${s}: ${r.stderr}`);
       jobs.push([s, out]);
     }
-    const dir = mkdtempSync(join(tmpdir(), 'skytally-hostile-'));
+    const dir = tempDir('skytally-hostile-');
     const input = join(dir, 'hostile.yaml');
     hostileText = readFileSync('samples/halpha-narrowband.yaml', 'utf8').replace(/^title:.*$/m, `title: '${HOSTILE_TITLE}'`);
     writeFileSync(input, hostileText);
@@ -125,7 +125,7 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
     if (r.code !== 0) throw new Error(`report hostile: ${r.stderr}`);
     jobs.push(['hostile-title', hostileOut]);
 
-    userData = mkdtempSync(join(tmpdir(), 'skytally-chromium-'));
+    userData = tempDir('skytally-chromium-');
     context = await chromium.launchPersistentContext(userData, {
       executablePath: CHROMIUM,
       headless: true,

@@ -1,12 +1,12 @@
-import { mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readdirSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, describe, expect, test } from 'vitest';
 import { buildFigures } from '../../src/render/figures.js';
 import { loadRasteriser, safeFigureName, writeFigures } from '../../src/render/write-figures.js';
 import { demoPlan, demoPrediction } from './demo.js';
+import { tempDir } from '../support/temp.js';
 
-const root = mkdtempSync(join(tmpdir(), 'skytally-figures-'));
+const root = tempDir('skytally-figures-');
 afterAll(() => rmSync(root, { recursive: true, force: true }));
 
 /** Width and height from a PNG's IHDR chunk (PNG specification, ISO/IEC 15948, section 11.2.2). */

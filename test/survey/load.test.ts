@@ -1,11 +1,11 @@
-import { mkdtempSync, mkdirSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { parse } from 'yaml';
 import { SurveyError } from '../../src/errors.js';
 import { describeSurvey, loadSurveyFile, loadSurveyText, parseSurveyObject } from '../../src/survey/index.js';
 import { LINE_YAML, MAGNITUDE_YAML, THRESHOLD_YAML, clone, setPath, toYaml } from './fixtures.js';
+import { tempDir } from '../support/temp.js';
 
 const FILE = 'demo/survey.yaml';
 
@@ -158,7 +158,7 @@ describe('valid surveys (closed-form expectations)', () => {
   });
 
   test('loadSurveyFile reads a file and names it in the survey', () => {
-    const dir = mkdtempSync(join(tmpdir(), 'skytally-load-'));
+    const dir = tempDir('skytally-load-');
     const path = join(dir, 'line.yaml');
     writeFileSync(path, LINE_YAML);
     const s = loadSurveyFile(path);
@@ -328,7 +328,7 @@ describe('bad YAML and bad files', () => {
   });
 
   test('missing file, directory and a 2 MiB file', () => {
-    const dir = mkdtempSync(join(tmpdir(), 'skytally-load-'));
+    const dir = tempDir('skytally-load-');
     const missing = join(dir, 'nope.yaml');
     let e = errorOf(() => loadSurveyFile(missing));
     expect([e.code, e.keyPath]).toEqual(['file_unreadable', '']);

@@ -6,6 +6,7 @@
  * wording). Expected values are the limits stated in src/survey/limits.ts, src/cosmology/presets.ts
  * (COSMOLOGY_RANGES) and README.md ("Limits").
  */
+import { tempDir } from '../support/temp.js';
 import fc from 'fast-check';
 import { execFileSync } from 'node:child_process';
 import { mkdirSync, mkdtempSync, symlinkSync, writeFileSync } from 'node:fs';
@@ -210,7 +211,7 @@ describe('every size has a stated cap', () => {
 });
 
 describe('every input file: a regular file, within its size limit, read by one reader', () => {
-  const dir = mkdtempSync(join(tmpdir(), 'skytally-inputs-'));
+  const dir = tempDir('skytally-inputs-');
   const fifo = join(dir, 'pipe.yaml');
   execFileSync('mkfifo', [fifo]);
 
@@ -280,7 +281,7 @@ describe('every input file: a regular file, within its size limit, read by one r
 });
 
 describe('messages quote at most a short, escaped excerpt, and nothing of a file that is not a table', () => {
-  const dir = mkdtempSync(join(tmpdir(), 'skytally-echo-'));
+  const dir = tempDir('skytally-echo-');
 
   test('a filter file that is not a table (a password-like file): not one byte of it in the message', () => {
     const secret = join(dir, 'shadow');
