@@ -6,7 +6,7 @@
  *   const p = predict(loadSurveyFile('samples/line-search.yaml'));
  *   console.log(p.totals.count);
  */
-export type { Survey, Cosmology, Detection, Population, ZParam, Completeness, Filter, TransmissionTable, SfrConversion } from './survey/types.js';
+export type { Survey, Cosmology, Detection, Population, ZParam, Completeness, Filter, TransmissionTable, SfrConversion } from './model/survey.js';
 export { SurveyError, type ErrorCode } from './errors.js';
 export { loadSurveyFile, loadSurveyText, parseSurveyObject, describeSurvey, populationByName } from './survey/index.js';
 export {

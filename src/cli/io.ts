@@ -38,7 +38,7 @@ import {
 import { basename, dirname, join, resolve } from 'node:path';
 import { randomBytes } from 'node:crypto';
 import { excerpt, inputError, SurveyError } from '../errors.js';
-import type { InputFile } from '../survey/types.js';
+import type { InputFile } from '../model/survey.js';
 
 export interface CliIO {
   stdout(text: string): void;

@@ -1,7 +1,7 @@
 /** The rows of the `distances` command (outputs.md, "distances"). */
-import type { Cosmology } from '../survey/types.js';
+import type { Cosmology } from '../model/survey.js';
 import { FlatLambdaCDM } from './flat-lcdm.js';
-import { cosmologyJsonOf, type CosmologyJsonShape } from './json.js';
+import { cosmologyJsonOf, type CosmologyJsonShape } from '../model/cosmology-json.js';
 import type { Warning } from '../warnings.js';
 
 export interface DistanceRow {

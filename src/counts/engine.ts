@@ -14,7 +14,7 @@
  * the (negligible, e^-40 relative) tail brighter than its edge, so the counts of a slice sum to its count.
  */
 import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
-import type { Population, Survey } from '../survey/types.js';
+import type { Population, Survey } from '../model/survey.js';
 import { gaussLegendreRule, panelNodes, type PanelNodes } from '../numerics/quadrature.js';
 import { upperGamma } from '../numerics/gamma.js';
 import { makeObserver, type HistogramVariable, type Observer } from '../selection/observe.js';
@@ -22,7 +22,7 @@ import { completenessBreaks, completenessFunction, type CompletenessFn } from '.
 import { luminosityScale, populationAt, type ParameterOffsets } from '../population/model.js';
 import { componentsTotalLuminosity } from '../population/schechter.js';
 import { inputError } from '../errors.js';
-import { CAPS } from '../survey/limits.js';
+import { CAPS } from '../model/limits.js';
 
 /** u = L/L* beyond which the population is negligible (exp(-40) ~ 4e-18). */
 const U_BRIGHT_SPAN = 40;

@@ -19,9 +19,9 @@
  * sfr_conversion, the star-formation-rate density (the conversion factor times the luminosity density).
  */
 import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
-import type { Population, Survey } from '../survey/types.js';
+import type { Population, Survey } from '../model/survey.js';
 import { countPopulation, type Histogram, type SliceCount } from './engine.js';
-import { cosmologyJsonOf, type CosmologyJsonShape } from '../cosmology/json.js';
+import { cosmologyJsonOf, type CosmologyJsonShape } from '../model/cosmology-json.js';
 import {
   combinedUncertainty,
   totalUncertainty,
@@ -34,7 +34,7 @@ import {
 import { describeModel, type ModelDescription } from '../population/describe.js';
 import { bandRedEdgeAngstrom, LYMAN_ALPHA_ANGSTROM } from '../selection/igm.js';
 import { mergeWarnings, warning, type Warning } from '../warnings.js';
-import { surveyWarnings } from '../survey/warnings.js';
+import { surveyWarnings } from '../population/warnings.js';
 
 /** Luminosity density of a slice or a window (volume-averaged over it). */
 export interface LuminosityDensity {

@@ -12,7 +12,7 @@
  */
 import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
 import { countPopulation } from '../counts/engine.js';
-import type { Population, Survey } from '../survey/types.js';
+import type { Population, Survey } from '../model/survey.js';
 import { singleUncertainty, uncertaintyContext, type UncertaintyMemo } from '../uncertainty/prediction.js';
 import type { Warning } from '../warnings.js';
 

@@ -8,9 +8,9 @@
  *    reaches target sigmas (requirement.ts).
  */
 import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
-import type { Population, Survey } from '../survey/types.js';
+import type { Population, Survey } from '../model/survey.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
-import { populationByName, surveyForPopulation } from '../survey/select.js';
+import { populationByName, surveyForPopulation } from '../model/select.js';
 import { inputError } from '../errors.js';
 import { buildDensityGrid } from './grid.js';
 import { fisherParts, marginaliseNormalisations, summariseFisher, type FisherSummary } from './fisher.js';
@@ -20,7 +20,7 @@ import { makeMockSetup, runMocks } from './mocks.js';
 import type { Estimator } from './fit.js';
 import { requirement, type Requirement } from './requirement.js';
 import { mergeWarnings, type Warning } from '../warnings.js';
-import { surveyWarnings } from '../survey/warnings.js';
+import { surveyWarnings } from '../population/warnings.js';
 import { predictionWarnings } from '../counts/predict.js';
 
 export const CAVEAT =

@@ -8,4 +8,4 @@ export { maximise, type Evaluation, type MaximiseResult } from './optimise.js';
 export { requirement, deeperSurvey, FULL_SKY_DEG2, type Requirement } from './requirement.js';
 export { parameterNames, type ParameterName } from './parameters.js';
 export { cosmicVarianceInput, type CosmicVarianceSource } from './cosmic-variance-input.js';
-export { forecastTable, forecastCsv } from './render.js';
+export { forecastTable, forecastCsv } from '../render/forecast-table.js';

@@ -13,7 +13,7 @@
  * or not within the bracket).
  */
 import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
-import type { Completeness, Detection, Population, Survey, ZParam } from '../survey/types.js';
+import type { Completeness, Detection, Population, Survey, ZParam } from '../model/survey.js';
 import { brent, expandBracket } from '../numerics/roots.js';
 import { buildDensityGrid } from './grid.js';
 import { fisherParts, marginaliseNormalisations, summariseFisher, type FisherParts } from './fisher.js';

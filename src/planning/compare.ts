@@ -7,13 +7,13 @@
  * value ties with the best (equal to 1e-9 relative, i.e. equal but for rounding) is listed.
  */
 import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
-import type { Population, Survey } from '../survey/types.js';
+import type { Population, Survey } from '../model/survey.js';
 import { predict } from '../counts/predict.js';
 import { forecast } from '../forecast/forecast.js';
 import { buildDensityGrid, sliceCount } from '../forecast/grid.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
 import { pickPopulation } from './population.js';
-import { surveyForPopulation } from '../survey/select.js';
+import { surveyForPopulation } from '../model/select.js';
 import { faintCount } from './tables.js';
 import { warning, mergeWarnings, type Warning } from '../warnings.js';
 

@@ -2,17 +2,17 @@
  * plan: a plan file (a survey file plus a `plan:` section) in, the designs that spend the time
  * budget and the best of them out (the JSON of specs/plan.schema.json).
  */
-import type { Population, Survey } from '../survey/types.js';
+import type { Population, Survey } from '../model/survey.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
 import { inputError } from '../errors.js';
-import { readPlanSection, sigmaParameterNames, type PlanSpec } from './plan-section.js';
+import { readPlanSection, sigmaParameterNames, type PlanSpec } from '../survey/plan-section.js';
 import { assertCounts, buildDesignModel, sigmasOf, type DesignModel } from './model.js';
 import { combine, logGrid, maximises, nearBest, pointingsFor, searchSingleTier, searchTiers, NEAR_BEST_TOLERANCE, type Budget, type Evaluated } from './search.js';
 import { pickPopulation } from './population.js';
 import { warning, mergeWarnings, type Warning } from '../warnings.js';
-import { surveyWarnings } from '../survey/warnings.js';
+import { surveyWarnings } from '../population/warnings.js';
 import { predictionWarnings } from '../counts/predict.js';
-import { surveyForPopulation } from '../survey/select.js';
+import { surveyForPopulation } from '../model/select.js';
 
 export const PLAN_CAVEAT =
   'A plan is only as good as the luminosity function assumed: the counts and uncertainties hold if the population follows the model given; a different faint-end slope or knee changes which design is best.';

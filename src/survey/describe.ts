@@ -3,8 +3,8 @@
  * key names, parameters that vary with z shown with their source and their values at the ends
  * of the population's window.
  */
-import type { Completeness, Survey, ZParam } from './types.js';
-import { cosmologyJsonOf } from '../cosmology/json.js';
+import type { Completeness, Survey, ZParam } from '../model/survey.js';
+import { cosmologyJsonOf } from '../model/cosmology-json.js';
 
 /** A constant as its normalised value; otherwise what the file wrote and the normalised values at the window's ends. */
 export type ParamView =

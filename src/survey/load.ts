@@ -4,7 +4,7 @@
  * file, the key path and one sentence saying what to change.
  */
 import { dirname } from 'node:path';
-import type { InputFile, Survey } from './types.js';
+import type { InputFile, Survey } from '../model/survey.js';
 import { parseYaml } from './yaml.js';
 import { normaliseSurvey } from './normalise.js';
 import { MAX_SURVEY_BYTES, readInputText } from './read-input.js';

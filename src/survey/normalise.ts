@@ -21,14 +21,14 @@ import type {
   PopulationVariable,
   Survey,
   ZParam,
-} from './types.js';
+} from '../model/survey.js';
 import { schemaError, suggest } from './schema.js';
 import { FULL_SKY_DEG2, SR_PER_DEG2, isPlainNumberString, parseQuantity } from './units.js';
 import { checkParam, fmt, makeZParam, mapParam, samplePoints, type ZTable } from './zparam.js';
 import { readTransmissionFile, tableFwhm, tableMeanWavelength } from './transmission-file.js';
 import { filterRangeAngstrom } from '../selection/filter.js';
 import { dirname } from 'node:path';
-import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH, RANGES, describeRange, inRange, type Range } from './limits.js';
+import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH, RANGES, describeRange, inRange, type Range } from '../model/limits.js';
 
 type Q = number | string;
 type ZRaw = number | string | ZTable;

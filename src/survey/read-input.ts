@@ -14,7 +14,7 @@
  */
 import { closeSync, constants, fstatSync, openSync, readSync, type Stats } from 'node:fs';
 import { inputError, type ErrorCode } from '../errors.js';
-import type { InputFile } from './types.js';
+import type { InputFile } from '../model/survey.js';
 
 export type { InputFile };
 

@@ -14,7 +14,7 @@
  */
 import { isAbsolute, resolve } from 'node:path';
 import { excerpt, inputError } from '../errors.js';
-import type { InputFile, TransmissionTable } from './types.js';
+import type { InputFile, TransmissionTable } from '../model/survey.js';
 import { MAX_TABLE_BYTES, readInputText } from './read-input.js';
 
 const UNIT_SCALE: Record<string, number> = { '': 1, _angstrom: 1, _nm: 10, _um: 1e4 };

@@ -4,9 +4,9 @@
  * expression in z (src/survey/expressions.ts).
  */
 import { inputError } from '../errors.js';
-import type { ZParam } from './types.js';
+import type { ZParam } from '../model/survey.js';
 import { compileExpression } from './expressions.js';
-import { CAPS, describeRange, inRange, type Range } from './limits.js';
+import { CAPS, describeRange, inRange, type Range } from '../model/limits.js';
 
 export type ZTable = { table: [number, number][] };
 

@@ -1,6 +1,6 @@
 /** The rows of the `clustering` command: each ingredient of cosmic variance on its own. */
-import type { Cosmology } from '../survey/types.js';
-import { cosmologyJsonOf, type CosmologyJsonShape } from '../cosmology/json.js';
+import type { Cosmology } from '../model/survey.js';
+import { cosmologyJsonOf, type CosmologyJsonShape } from '../model/cosmology-json.js';
 import { createLinearPower, type TransferForm } from './power-spectrum.js';
 import { createHaloModel } from './haloes.js';
 import type { Warning } from '../warnings.js';

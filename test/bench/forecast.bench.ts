@@ -10,7 +10,7 @@ import { forecast } from '../../src/forecast/forecast.js';
 import { buildDensityGrid } from '../../src/forecast/grid.js';
 import { fisherParts } from '../../src/forecast/fisher.js';
 import { FlatLambdaCDM } from '../../src/cosmology/flat-lcdm.js';
-import type { Survey } from '../../src/survey/types.js';
+import type { Survey } from '../../src/model/survey.js';
 import type { BenchCase } from './run.js';
 
 const samples = readdirSync('samples').filter((f) => f.endsWith('.yaml') && !f.startsWith('plan'));

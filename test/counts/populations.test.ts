@@ -18,7 +18,7 @@ import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { loadSurveyFile, loadSurveyText, parseSurveyObject } from '../../src/survey/load.js';
-import { populationByName } from '../../src/survey/select.js';
+import { populationByName } from '../../src/model/select.js';
 import { predict } from '../../src/counts/predict.js';
 import { KENNICUTT1998 } from '../../src/survey/normalise.js';
 import { gammaFn, upperGamma } from '../../src/numerics/gamma.js';

@@ -3,7 +3,7 @@
  * description that test/reference/generate/fisher.py also reads, so that both sides count the
  * same survey.
  */
-import type { Completeness, Detection, Survey, ZParam } from '../../src/survey/types.js';
+import type { Completeness, Detection, Survey, ZParam } from '../../src/model/survey.js';
 
 export interface SurveySpec {
   name: string;

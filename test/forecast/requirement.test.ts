@@ -10,7 +10,7 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, test } from 'vitest';
 import { forecast } from '../../src/forecast/forecast.js';
 import { deeperSurvey } from '../../src/forecast/requirement.js';
-import type { Survey } from '../../src/survey/types.js';
+import type { Survey } from '../../src/model/survey.js';
 import { surveyFromSpec, type SurveySpec } from './helpers.js';
 
 const ref = JSON.parse(readFileSync(new URL('../reference/fisher.json', import.meta.url), 'utf8')) as { cases: { survey: SurveySpec }[] };

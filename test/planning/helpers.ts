@@ -1,7 +1,7 @@
 /** Plan surveys built from the bundled samples (invented scenarios) for the planning tests. */
 import { readFileSync } from 'node:fs';
 import { loadSurveyText } from '../../src/survey/load.js';
-import type { Survey } from '../../src/survey/types.js';
+import type { Survey } from '../../src/model/survey.js';
 
 export function sampleText(name: string): string {
   return readFileSync(new URL(`../../samples/${name}`, import.meta.url), 'utf8');

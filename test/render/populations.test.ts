@@ -12,7 +12,7 @@ import { loadSurveyFile, loadSurveyText } from '../../src/survey/load.js';
 import { predict } from '../../src/counts/predict.js';
 import { predictionCsv, predictionTable } from '../../src/render/predict-table.js';
 import { observedShareRows, observedSharesSpec, renderSvg, SHARE_FLOOR } from '../../src/render/figures.js';
-import { drawFigures, predictionViews } from '../../src/cli/draw.js';
+import { drawFigures, predictionViews } from '../../src/render/draw.js';
 import { renderReport } from '../../src/render/report.js';
 
 const survey = loadSurveyFile('samples/narrowband-interlopers.yaml');

@@ -19,7 +19,7 @@ import { compileExpression, loadSurveyFile, loadSurveyText, parseSurveyObject } 
 import { COSMOLOGY_RANGES, MAX_BARYON_FRACTION, resolveCosmology } from '../../src/cosmology/presets.js';
 import { FlatLambdaCDM } from '../../src/cosmology/flat-lcdm.js';
 import { createLinearPower } from '../../src/uncertainty/power-spectrum.js';
-import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH } from '../../src/survey/limits.js';
+import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH } from '../../src/model/limits.js';
 import { readInputText } from '../../src/survey/read-input.js';
 import { LINE_YAML, MAGNITUDE_YAML, THRESHOLD_YAML, setPath } from './fixtures.js';
 

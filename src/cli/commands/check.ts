@@ -19,7 +19,7 @@ export const checkCommand: CommandDef = {
     const survey = await loadSurveyArg(io, file);
     outputs.refuseInputs(survey.inputs ?? []);
     const { describeSurvey } = await import('../../survey/index.js');
-    const { surveyWarnings } = await import('../../survey/warnings.js');
+    const { surveyWarnings } = await import('../../population/warnings.js');
     const { predictionWarnings } = await import('../../counts/predict.js');
     const { mergeWarnings } = await import('../../warnings.js');
     // What can be said without counting: implausible values, the band against Lyman alpha, windows outside the slices.

@@ -30,7 +30,7 @@ export const forecastCommand: CommandDef = {
     const workers = raw.workers === undefined ? 1 : parseInteger(String(raw.workers), '--workers', 1, maxWorkers);
     const outputs = new Outputs(io, { out: out.out, figures: typeof raw.figures === 'string' ? raw.figures : undefined });
     outputs.refuseInputs([file]);
-    const draw = typeof raw.figures === 'string' ? await import('../draw.js') : undefined;
+    const draw = typeof raw.figures === 'string' ? await import('../../render/draw.js') : undefined;
     const keepFits = raw.listMockFits === true;
     const survey = await loadSurveyArg(io, file);
     outputs.refuseInputs(survey.inputs ?? []);
@@ -53,7 +53,7 @@ export const forecastCommand: CommandDef = {
     });
     printWarnings(io, result.warnings);
     const shown = keepFits || !result.mocks?.fits ? result : { ...result, mocks: withoutFits(result.mocks) };
-    const { forecastTable, forecastCsv } = await import('../../forecast/render.js');
+    const { forecastTable, forecastCsv } = await import('../../render/forecast-table.js');
     outputs.setMain(renderText(out, { json: () => shown, table: () => forecastTable(shown), csv: () => forecastCsv(shown) }));
     if (draw) {
       const { forecastFigure } = await import('../../render/figures.js');

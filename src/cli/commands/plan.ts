@@ -22,7 +22,7 @@ export const planCommand: CommandDef = {
     const workers = raw.workers === undefined ? undefined : parseInteger(String(raw.workers), '--workers', 1, availableParallelism());
     const outputs = new Outputs(io, { out: out.out, figures: typeof raw.figures === 'string' ? raw.figures : undefined });
     outputs.refuseInputs([file]);
-    const draw = typeof raw.figures === 'string' ? await import('../draw.js') : undefined;
+    const draw = typeof raw.figures === 'string' ? await import('../../render/draw.js') : undefined;
     const survey = await loadSurveyArg(io, file);
     outputs.refuseInputs(survey.inputs ?? []);
     const { plan } = await import('../../planning/plan.js');
@@ -33,7 +33,7 @@ export const planCommand: CommandDef = {
       ...(io.stderrIsTTY ? { onProgress: progressBar(io) } : {}),
     });
     printWarnings(io, result.warnings);
-    const { planTable, planCsv } = await import('../../planning/render.js');
+    const { planTable, planCsv } = await import('../../render/plan-table.js');
     outputs.setMain(renderText(out, { json: () => result, table: () => planTable(result), csv: () => planCsv(result) }));
     if (draw) {
       const { planFigure } = await import('../../render/figures.js');

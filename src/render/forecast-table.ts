@@ -1,8 +1,8 @@
 /** Human table and CSV for a Forecast (forecast command). */
 import Table from 'cli-table3';
-import { sig, zText } from '../render/format.js';
-import { csvText, type CsvCell } from '../render/csv.js';
-import type { Forecast } from './forecast.js';
+import { sig, zText } from './format.js';
+import { csvText, type CsvCell } from './csv.js';
+import type { Forecast } from '../forecast/forecast.js';
 
 export function forecastTable(f: Forecast): string {
   const lines: string[] = [

@@ -1,9 +1,9 @@
 /** Human tables and CSV for plan and compare. */
 import Table from 'cli-table3';
-import { goalWords, parameterWords, sig, wrapWords, zText } from '../render/format.js';
-import { csvText, type CsvCell } from '../render/csv.js';
-import type { DesignJson, PlanJson } from './plan.js';
-import type { CompareJson, CompareSurvey } from './compare.js';
+import { goalWords, parameterWords, sig, wrapWords, zText } from './format.js';
+import { csvText, type CsvCell } from './csv.js';
+import type { DesignJson, PlanJson } from '../planning/plan.js';
+import type { CompareJson, CompareSurvey } from '../planning/compare.js';
 
 function limitText(v: string, x: number | string): string {
   if (typeof x === 'string') return x;

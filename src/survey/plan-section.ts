@@ -17,11 +17,11 @@
  *     tiers: 1                           1 to 3
  */
 import { excerpt, inputError } from '../errors.js';
-import type { Population, Survey } from '../survey/types.js';
-import { parseQuantity, FULL_SKY_DEG2 } from '../survey/units.js';
-import { suggest } from '../survey/schema.js';
-import { CAPS, RANGES, describeRange, inRange } from '../survey/limits.js';
-import { depthOfLimit, makeDepthModel, type DepthLaw, type DepthModel, type LimitKind } from './depth.js';
+import type { Population, Survey } from '../model/survey.js';
+import { parseQuantity, FULL_SKY_DEG2 } from './units.js';
+import { suggest } from './schema.js';
+import { CAPS, RANGES, describeRange, inRange } from '../model/limits.js';
+import { depthOfLimit, makeDepthModel, type DepthLaw, type DepthModel, type LimitKind } from '../planning/depth.js';
 
 export type PlanGoal = { kind: 'count' } | { kind: 'faint_count' } | { kind: 'sigma'; parameter: string };
 

@@ -8,11 +8,11 @@
  * luminosity function of each slice at its middle redshift (src/population/curves.ts).
  */
 import type { Prediction, PredictionSlice } from '../counts/predict.js';
-import type { Survey, Population } from '../survey/types.js';
-import type { Figure, ForecastJson, ModelDescription, PlanJson, PredictionJson, SliceJson } from '../render/types.js';
+import type { Survey, Population } from '../model/survey.js';
+import type { Figure, ForecastJson, ModelDescription, PlanJson, PredictionJson, SliceJson } from './types.js';
 import { curveAxisLabel, luminosityFunctionCurve } from '../population/curves.js';
-import { buildFigures, countsFigure, luminosityFunctionFigure, observedSharesFigure } from '../render/figures.js';
-import type { CliIO, FigureFile } from './io.js';
+import { buildFigures, countsFigure, luminosityFunctionFigure, observedSharesFigure } from './figures.js';
+import type { CliIO, FigureFile } from '../cli/io.js';
 import { printable } from '../errors.js';
 
 /** The population entries of the file as written (`population:` or `populations:`), in order. */
@@ -141,7 +141,7 @@ export async function drawFigures(
  * written until every output of the command is ready (src/cli/io.ts Outputs).
  */
 export async function figureFiles(io: CliIO, figures: Figure[]): Promise<FigureFile[]> {
-  const { loadRasteriser, safeFigureName, svgToPng } = await import('../render/write-figures.js');
+  const { loadRasteriser, safeFigureName, svgToPng } = await import('./write-figures.js');
   const raster = await loadRasteriser();
   if (raster instanceof Error) io.stderr(`skytally: ${printable(raster.message)}; SVG only.\n`);
   const files: FigureFile[] = [];

@@ -1,16 +1,16 @@
 import { basename, resolve } from 'node:path';
 import { Option } from 'commander';
-import type { CommandDef } from './types.js';
-import { printWarnings } from './common.js';
-import { Outputs, toJsonText, type CliIO } from '../io.js';
-import { SurveyError } from '../../errors.js';
-import { mockOptions, mockProgressBar } from './forecast.js';
-import type { Survey } from '../../survey/types.js';
-import type { UncertaintyMemo } from '../../uncertainty/prediction.js';
-import type { Prediction } from '../../counts/predict.js';
-import type { Figure, ForecastJson, PlanJson } from '../../render/types.js';
-import type { ForecastResultLike, PlanResultLike } from '../../render/adapt.js';
-import { mergeWarnings, type Warning } from '../../warnings.js';
+import type { CommandDef } from '../cli/commands/types.js';
+import { printWarnings } from '../cli/commands/common.js';
+import { Outputs, toJsonText, type CliIO } from '../cli/io.js';
+import { SurveyError } from '../errors.js';
+import { mockOptions, mockProgressBar } from '../cli/commands/forecast.js';
+import type { Survey } from '../model/survey.js';
+import type { UncertaintyMemo } from '../uncertainty/prediction.js';
+import type { Prediction } from '../counts/predict.js';
+import type { Figure, ForecastJson, PlanJson } from '../render/types.js';
+import type { ForecastResultLike, PlanResultLike } from '../render/adapt.js';
+import { mergeWarnings, type Warning } from '../warnings.js';
 
 /** The report as HTML (the default) or as JSON: the same sections' results, for scripts. */
 export type ReportFormat = 'html' | 'json';
@@ -105,8 +105,8 @@ export function reportSections(opts: ReportOptions, io?: CliIO): ReportSections 
     forecast: async (survey, shared) => {
       const why = shapeObstacle(survey, 'forecast');
       if (why) return { omitted: why };
-      const { forecast } = await import('../../forecast/forecast.js');
-      const { cosmicVarianceInputWith } = await import('../../forecast/cosmic-variance-input.js');
+      const { forecast } = await import('../forecast/forecast.js');
+      const { cosmicVarianceInputWith } = await import('../forecast/cosmic-variance-input.js');
       let result;
       try {
         result = await forecast(survey, {
@@ -122,8 +122,8 @@ export function reportSections(opts: ReportOptions, io?: CliIO): ReportSections 
       return result as unknown as ForecastSection;
     },
     plan: async (survey) => {
-      const { plan } = await import('../../planning/plan.js');
-      const { readPlanSection } = await import('../../planning/plan-section.js');
+      const { plan } = await import('../planning/plan.js');
+      const { readPlanSection } = await import('../survey/plan-section.js');
       // The section as written is checked first: a malformed section is bad input (exit 2).
       // Only what makes a well-formed plan impossible for this survey becomes a sentence.
       try {
@@ -179,8 +179,8 @@ export interface ReportJson {
 
 /** Compute every section of the report (nothing is drawn). */
 export async function computeReport(file: string, survey: Survey, sections: ReportSections = {}): Promise<ReportResults> {
-  const { predict } = await import('../../counts/predict.js');
-  const { UncertaintyMemo } = await import('../../uncertainty/prediction.js');
+  const { predict } = await import('../counts/predict.js');
+  const { UncertaintyMemo } = await import('../uncertainty/prediction.js');
   const shared: SharedResults = { uncertaintyMemo: new UncertaintyMemo(survey) };
   const prediction = predict(survey, { uncertaintyMemo: shared.uncertaintyMemo! });
   const forecast = sections.forecast ? await sections.forecast(survey, shared) : undefined;
@@ -212,12 +212,12 @@ export function reportJson(r: ReportResults): ReportJson {
 
 /** Draw every figure of the results. */
 export async function reportFigures(r: ReportResults): Promise<Figure[]> {
-  const { drawFigures } = await import('../draw.js');
+  const { drawFigures } = await import('../render/draw.js');
   return drawFigures(r.survey, r.prediction, await figureInputs(r));
 }
 
 async function figureInputs(r: ReportResults): Promise<{ forecast?: ForecastJson; plan?: PlanJson }> {
-  const { forecastForFigures, planForFigures } = await import('../../render/adapt.js');
+  const { forecastForFigures, planForFigures } = await import('../render/adapt.js');
   const extra: { forecast?: ForecastJson; plan?: PlanJson } = {};
   if (r.forecast && !isOmitted(r.forecast)) extra.forecast = forecastForFigures(r.forecast);
   if (r.plan && !isOmitted(r.plan)) extra.plan = planForFigures(r.plan);
@@ -226,8 +226,8 @@ async function figureInputs(r: ReportResults): Promise<{ forecast?: ForecastJson
 
 /** The HTML document of the results (figures already drawn). */
 export async function reportHtml(r: ReportResults, surveyText: string, figures: Figure[]): Promise<string> {
-  const { predictionViews } = await import('../draw.js');
-  const { renderReport } = await import('../../render/report.js');
+  const { predictionViews } = await import('../render/draw.js');
+  const { renderReport } = await import('../render/report.js');
   const { combined } = predictionViews(r.survey, r.prediction);
   const extra = await figureInputs(r);
   return renderReport({
@@ -281,8 +281,8 @@ export async function runReport(io: CliIO, file: string, opts: ReportOptions, se
   const input = resolve(io.cwd, file);
   const outputs = new Outputs(io, { out: opts.out, figures: opts.figures });
   outputs.refuseInputs([file]);
-  const { figureFiles } = await import('../draw.js');
-  const { loadSurveyFileWithText } = await import('../../survey/load.js');
+  const { figureFiles } = await import('../render/draw.js');
+  const { loadSurveyFileWithText } = await import('../survey/load.js');
   // The survey and the file as written (read once, through the loader's checks).
   const { survey, text: surveyText } = loadSurveyFileWithText(input);
   outputs.refuseInputs(survey.inputs ?? []);

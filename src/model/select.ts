@@ -1,6 +1,6 @@
 /** Choosing one population of a survey by name (forecast and plan take the population of interest). */
 import { inputError } from '../errors.js';
-import type { Population, Survey } from './types.js';
+import type { Population, Survey } from './survey.js';
 
 /**
  * The population called `name`, or the first one when `name` is undefined. An unknown name is a
