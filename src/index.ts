@@ -6,7 +6,11 @@
  *   const p = predict(loadSurveyFile('samples/line-search.yaml'));
  *   console.log(p.totals.count);
  */
-export type { Survey, Cosmology, Detection, Population, ZParam, Completeness, Filter, TransmissionTable, SfrConversion } from './model/survey.js';
+export type { Survey } from './model/survey.js';
+export type { Cosmology } from './model/cosmology.js';
+export type { Detection, Completeness, Filter, TransmissionTable } from './model/detection.js';
+export type { Population, SfrConversion } from './model/population.js';
+export type { ZParam } from './model/zparam.js';
 export { SurveyError, type ErrorCode } from './errors.js';
 export { loadSurveyFile, loadSurveyText, parseSurveyObject, describeSurvey, populationByName } from './survey/index.js';
 export {

@@ -42,7 +42,7 @@
  * against mpmath quadrature for z from 0.001 to 20 (checked to 3e-13 at z up to 1e4 by hand).
  * Speed: about 0.1 us per distance without radiation and 0.15 us with it (test/bench).
  */
-import type { Cosmology } from '../model/survey.js';
+import type { Cosmology } from '../model/cosmology.js';
 import { GYR_S, MPC_M, SPEED_OF_LIGHT_KM_S, omegaRadiation } from './constants.js';
 import { gaussLegendreRule, integrate } from '../numerics/quadrature.js';
 

@@ -3,7 +3,7 @@
  * Values here were written down from memory of the cited tables; the test
  * test/cosmology/presets.test.ts states that too.
  */
-import type { Cosmology } from '../model/survey.js';
+import type { Cosmology } from '../model/cosmology.js';
 import { omegaRadiation, T_CMB_DEFAULT_K } from './constants.js';
 
 export interface CosmologyPreset {

@@ -1,5 +1,5 @@
 /** The rows of the `distances` command (outputs.md, "distances"). */
-import type { Cosmology } from '../model/survey.js';
+import type { Cosmology } from '../model/cosmology.js';
 import { FlatLambdaCDM } from './flat-lcdm.js';
 import { cosmologyJsonOf, type CosmologyJsonShape } from '../model/cosmology-json.js';
 import type { Warning } from '../warnings.js';

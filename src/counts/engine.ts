@@ -14,7 +14,8 @@
  * the (negligible, e^-40 relative) tail brighter than its edge, so the counts of a slice sum to its count.
  */
 import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
-import type { Population, Survey } from '../model/survey.js';
+import type { Population } from '../model/population.js';
+import type { Survey } from '../model/survey.js';
 import { gaussLegendreRule, panelNodes, type PanelNodes } from '../numerics/quadrature.js';
 import { upperGamma } from '../numerics/gamma.js';
 import { makeObserver, type HistogramVariable, type Observer } from '../selection/observe.js';

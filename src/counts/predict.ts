@@ -19,7 +19,8 @@
  * sfr_conversion, the star-formation-rate density (the conversion factor times the luminosity density).
  */
 import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
-import type { Population, Survey } from '../model/survey.js';
+import type { Population } from '../model/population.js';
+import type { Survey } from '../model/survey.js';
 import { countPopulation, type Histogram, type SliceCount } from './engine.js';
 import { cosmologyJsonOf, type CosmologyJsonShape } from '../model/cosmology-json.js';
 import {

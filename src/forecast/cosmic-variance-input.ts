@@ -12,7 +12,8 @@
  */
 import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
 import { countPopulation } from '../counts/engine.js';
-import type { Population, Survey } from '../model/survey.js';
+import type { Population } from '../model/population.js';
+import type { Survey } from '../model/survey.js';
 import { singleUncertainty, uncertaintyContext, type UncertaintyMemo } from '../uncertainty/prediction.js';
 import type { Warning } from '../warnings.js';
 

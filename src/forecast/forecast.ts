@@ -8,7 +8,8 @@
  *    reaches target sigmas (requirement.ts).
  */
 import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
-import type { Population, Survey } from '../model/survey.js';
+import type { Population } from '../model/population.js';
+import type { Survey } from '../model/survey.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
 import { populationByName, surveyForPopulation } from '../model/select.js';
 import { inputError } from '../errors.js';

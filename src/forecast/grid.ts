@@ -19,7 +19,9 @@
  * where logW_q = ln(weight_z weight_t V phi* c) and a1 = alpha + 1 at the input, s = d ln u / d_c.
  */
 import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
-import type { Completeness, DetectionKind, Population, PopulationVariable, Survey } from '../model/survey.js';
+import type { Completeness, DetectionKind } from '../model/detection.js';
+import type { Population, PopulationVariable } from '../model/population.js';
+import type { Survey } from '../model/survey.js';
 import { chooseRedshiftNodes } from '../counts/engine.js';
 import { upperGamma } from '../numerics/gamma.js';
 import { panelNodes, type PanelNodes } from '../numerics/quadrature.js';

@@ -20,7 +20,7 @@
  * shift of ln u per unit of the characteristic parameter. Completeness depends on the observed value
  * only, so it drops out of every derivative.
  */
-import type { Population } from '../model/survey.js';
+import type { Population } from '../model/population.js';
 import type { ParameterOffsets } from '../population/model.js';
 
 export type ParameterName = 'log10_phi_star' | 'log10_l_star' | 'm_star' | 'alpha';

@@ -13,7 +13,10 @@
  * or not within the bracket).
  */
 import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
-import type { Completeness, Detection, Population, Survey, ZParam } from '../model/survey.js';
+import type { Completeness, Detection } from '../model/detection.js';
+import type { Population } from '../model/population.js';
+import type { Survey } from '../model/survey.js';
+import type { ZParam } from '../model/zparam.js';
 import { brent, expandBracket } from '../numerics/roots.js';
 import { buildDensityGrid } from './grid.js';
 import { fisherParts, marginaliseNormalisations, summariseFisher, type FisherParts } from './fisher.js';

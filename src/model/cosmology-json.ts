@@ -1,5 +1,5 @@
 /** The cosmology block of every JSON output (outputs.md). */
-import type { Cosmology } from './survey.js';
+import type { Cosmology } from './cosmology.js';
 
 export interface CosmologyJsonShape {
   h0: number;

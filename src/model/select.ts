@@ -1,6 +1,7 @@
 /** Choosing one population of a survey by name (forecast and plan take the population of interest). */
 import { inputError } from '../errors.js';
-import type { Population, Survey } from './survey.js';
+import type { Population } from './population.js';
+import type { Survey } from './survey.js';
 
 /**
  * The population called `name`, or the first one when `name` is undefined. An unknown name is a

@@ -7,7 +7,8 @@
  * value ties with the best (equal to 1e-9 relative, i.e. equal but for rounding) is listed.
  */
 import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
-import type { Population, Survey } from '../model/survey.js';
+import type { Population } from '../model/population.js';
+import type { Survey } from '../model/survey.js';
 import { predict } from '../counts/predict.js';
 import { forecast } from '../forecast/forecast.js';
 import { buildDensityGrid, sliceCount } from '../forecast/grid.js';

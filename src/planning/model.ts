@@ -15,7 +15,8 @@
  * as one contiguous field per field count.
  */
 import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
-import type { Population, Survey } from '../model/survey.js';
+import type { Population } from '../model/population.js';
+import type { Survey } from '../model/survey.js';
 import { SR_PER_DEG2, FULL_SKY_DEG2 } from '../survey/units.js';
 import { buildDensityGrid, sliceCount, type DensityGrid } from '../forecast/grid.js';
 import { marginaliseNormalisations, summariseFisher, type SliceInformation } from '../forecast/fisher.js';

@@ -2,7 +2,8 @@
  * plan: a plan file (a survey file plus a `plan:` section) in, the designs that spend the time
  * budget and the best of them out (the JSON of specs/plan.schema.json).
  */
-import type { Population, Survey } from '../model/survey.js';
+import type { Population } from '../model/population.js';
+import type { Survey } from '../model/survey.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
 import { inputError } from '../errors.js';
 import { readPlanSection, sigmaParameterNames, type PlanSpec } from '../survey/plan-section.js';

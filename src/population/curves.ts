@@ -11,7 +11,7 @@
  * The grid runs from well above the knee (where the exponential has cut the density by many
  * decades) down past the limit, so that the detected part and the knee can both be drawn.
  */
-import type { Population } from '../model/survey.js';
+import type { Population } from '../model/population.js';
 import { populationAt } from './model.js';
 import { schechterMagnitude, schechterPerDex } from './schechter.js';
 

@@ -3,7 +3,9 @@
  * Schechter parameter (number, table or expression) and its value at the window's middle.
  * Every output carries this, because a forecast is only as good as the model assumed.
  */
-import type { Population, Survey, ZParam } from '../model/survey.js';
+import type { Population } from '../model/population.js';
+import type { Survey } from '../model/survey.js';
+import type { ZParam } from '../model/zparam.js';
 
 export interface ParameterDescription {
   /** As written: a number, {table: [[z, v], ...]} or an expression in z. */

@@ -3,7 +3,7 @@
  * components {phiStar, alpha} sharing one characteristic value (L* for a luminosity variable,
  * M* for a magnitude variable).
  */
-import type { Population } from '../model/survey.js';
+import type { Population } from '../model/population.js';
 import type { SchechterComponent } from './schechter.js';
 import { AB_ZERO_POINT, PC_CM } from '../cosmology/constants.js';
 

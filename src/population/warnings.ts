@@ -3,7 +3,8 @@
  * but are almost certainly mistakes. Each command that reads a survey file carries them in its
  * output (src/warnings.ts).
  */
-import type { Population, Survey } from '../model/survey.js';
+import type { Population } from '../model/population.js';
+import type { Survey } from '../model/survey.js';
 import { warning, type Warning } from '../warnings.js';
 
 /**

@@ -8,7 +8,8 @@
  * luminosity function of each slice at its middle redshift (src/population/curves.ts).
  */
 import type { Prediction, PredictionSlice } from '../counts/predict.js';
-import type { Survey, Population } from '../model/survey.js';
+import type { Survey } from '../model/survey.js';
+import type { Population } from '../model/population.js';
 import type { Figure, ForecastJson, ModelDescription, PlanJson, PredictionJson, SliceJson } from './types.js';
 import { curveAxisLabel, luminosityFunctionCurve } from '../population/curves.js';
 import { buildFigures, countsFigure, luminosityFunctionFigure, observedSharesFigure } from './figures.js';

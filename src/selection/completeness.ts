@@ -10,7 +10,8 @@
  * to -x (completeness rises with the quantity, as any real survey's does): c = 1/(1+exp((half-x)/width)).
  * Tables are interpolated linearly in x as given, end fractions held.
  */
-import type { Completeness, DetectionKind, PopulationVariable } from '../model/survey.js';
+import type { Completeness, DetectionKind } from '../model/detection.js';
+import type { PopulationVariable } from '../model/population.js';
 import { interpLinear } from '../numerics/interpolate.js';
 
 export type CompletenessFn = (obs: number) => number;

@@ -6,7 +6,7 @@
  * table: the tabulated curve (src/survey/transmission-file.ts), relative to its peak, linear
  *        between rows, 0 outside the table; the window is where it is above 0.
  */
-import type { Filter, TransmissionTable } from '../model/survey.js';
+import type { Filter, TransmissionTable } from '../model/detection.js';
 import { tableRange } from '../survey/transmission-file.js';
 
 export const GAUSSIAN_HALF_RANGE_FWHM = 1.5;

@@ -20,7 +20,7 @@
  * The transmission is floored at 1e-30 (75 mag of dimming): a source behind that counts nothing,
  * and every magnitude stays finite.
  */
-import type { TransmissionTable } from '../model/survey.js';
+import type { TransmissionTable } from '../model/detection.js';
 import { tableRange } from '../survey/transmission-file.js';
 import { tableTransmission } from './filter.js';
 

@@ -21,7 +21,8 @@
  * log10 u >= (obsLimit - a) / slope in both cases.
  */
 import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
-import type { Detection, Population } from '../model/survey.js';
+import type { Detection } from '../model/detection.js';
+import type { Population } from '../model/population.js';
 import { MPC_CM } from '../cosmology/constants.js';
 import { transmission } from './filter.js';
 import { bandAveragedMadau1995, madau1995Transmission } from './igm.js';

@@ -3,7 +3,9 @@
  * key names, parameters that vary with z shown with their source and their values at the ends
  * of the population's window.
  */
-import type { Completeness, Survey, ZParam } from '../model/survey.js';
+import type { Completeness } from '../model/detection.js';
+import type { Survey } from '../model/survey.js';
+import type { ZParam } from '../model/zparam.js';
 import { cosmologyJsonOf } from '../model/cosmology-json.js';
 
 /** A constant as its normalised value; otherwise what the file wrote and the normalised values at the window's ends. */

@@ -7,21 +7,11 @@
  */
 import { excerpt, inputError } from '../errors.js';
 import { COSMOLOGY_KEYS, PRESETS, cosmologyProblem, presetNamed, resolveCosmology } from '../cosmology/presets.js';
-import type {
-  Completeness,
-  Cosmology,
-  Detection,
-  DetectionKind,
-  Filter,
-  FilterProfile,
-  IgmModel,
-  InputFile,
-  Population,
-  SfrConversion,
-  PopulationVariable,
-  Survey,
-  ZParam,
-} from '../model/survey.js';
+import type { Completeness, Detection, DetectionKind, Filter, FilterProfile, IgmModel } from '../model/detection.js';
+import type { Cosmology } from '../model/cosmology.js';
+import type { InputFile, Survey } from '../model/survey.js';
+import type { Population, SfrConversion, PopulationVariable } from '../model/population.js';
+import type { ZParam } from '../model/zparam.js';
 import { schemaError, suggest } from './schema.js';
 import { FULL_SKY_DEG2, SR_PER_DEG2, isPlainNumberString, parseQuantity } from './units.js';
 import { checkParam, fmt, makeZParam, mapParam, samplePoints, type ZTable } from './zparam.js';

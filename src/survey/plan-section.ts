@@ -17,7 +17,8 @@
  *     tiers: 1                           1 to 3
  */
 import { excerpt, inputError } from '../errors.js';
-import type { Population, Survey } from '../model/survey.js';
+import type { Population } from '../model/population.js';
+import type { Survey } from '../model/survey.js';
 import { parseQuantity, FULL_SKY_DEG2 } from './units.js';
 import { suggest } from './schema.js';
 import { CAPS, RANGES, describeRange, inRange } from '../model/limits.js';

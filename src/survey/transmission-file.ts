@@ -14,7 +14,8 @@
  */
 import { isAbsolute, resolve } from 'node:path';
 import { excerpt, inputError } from '../errors.js';
-import type { InputFile, TransmissionTable } from '../model/survey.js';
+import type { InputFile } from '../model/survey.js';
+import type { TransmissionTable } from '../model/detection.js';
 import { MAX_TABLE_BYTES, readInputText } from './read-input.js';
 
 const UNIT_SCALE: Record<string, number> = { '': 1, _angstrom: 1, _nm: 10, _um: 1e4 };

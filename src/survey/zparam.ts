@@ -4,7 +4,7 @@
  * expression in z (src/survey/expressions.ts).
  */
 import { inputError } from '../errors.js';
-import type { ZParam } from '../model/survey.js';
+import type { ZParam } from '../model/zparam.js';
 import { compileExpression } from './expressions.js';
 import { CAPS, describeRange, inRange, type Range } from '../model/limits.js';
 

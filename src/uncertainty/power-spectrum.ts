@@ -24,7 +24,7 @@
  * A cubic table of ln P(k, 0) in ln k (step 0.01, 1e-8 .. 1e6 per Mpc; interpolation error
  * < 1e-7 for the no-wiggle form, < 1e-5 for the full form) serves the fast paths.
  */
-import type { Cosmology } from '../model/survey.js';
+import type { Cosmology } from '../model/cosmology.js';
 import {
   GRAVITATIONAL_CONSTANT,
   MPC_M,

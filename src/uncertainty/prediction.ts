@@ -15,7 +15,9 @@
  * node profiles), not by the window's volume: the count-weighted bias and an n(z)-weighted box.
  */
 import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
-import type { Population, Survey, ZParam } from '../model/survey.js';
+import type { Population } from '../model/population.js';
+import type { Survey } from '../model/survey.js';
+import type { ZParam } from '../model/zparam.js';
 import { inputError } from '../errors.js';
 import { createLinearPower, type LinearPower } from './power-spectrum.js';
 import { createHaloModel, MATCH_MASS_MAX_MSUN, MATCH_MASS_MIN_MSUN, type HaloModel } from './haloes.js';

@@ -1,5 +1,5 @@
 /** The rows of the `clustering` command: each ingredient of cosmic variance on its own. */
-import type { Cosmology } from '../model/survey.js';
+import type { Cosmology } from '../model/cosmology.js';
 import { cosmologyJsonOf, type CosmologyJsonShape } from '../model/cosmology-json.js';
 import { createLinearPower, type TransferForm } from './power-spectrum.js';
 import { createHaloModel } from './haloes.js';

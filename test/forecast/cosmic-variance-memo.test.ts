@@ -11,7 +11,7 @@ import { predict } from '../../src/counts/predict.js';
 import { forecast } from '../../src/forecast/forecast.js';
 import { cosmicVarianceInput, cosmicVarianceInputWith } from '../../src/forecast/cosmic-variance-input.js';
 import { UncertaintyMemo, type UncertaintyJson } from '../../src/uncertainty/prediction.js';
-import type { Population } from '../../src/model/survey.js';
+import type { Population } from '../../src/model/population.js';
 
 const samples = ['halpha-narrowband.yaml', 'deep-continuum.yaml', 'mass-limited.yaml', 'plan-halpha-layers.yaml', 'plan-uv-deep-wide.yaml'];
 

@@ -3,7 +3,9 @@
  * description that test/reference/generate/fisher.py also reads, so that both sides count the
  * same survey.
  */
-import type { Completeness, Detection, Survey, ZParam } from '../../src/model/survey.js';
+import type { Completeness, Detection } from '../../src/model/detection.js';
+import type { Survey } from '../../src/model/survey.js';
+import type { ZParam } from '../../src/model/zparam.js';
 
 export interface SurveySpec {
   name: string;

@@ -9,7 +9,7 @@ import { resolveCosmology } from '../../src/cosmology/presets.js';
 import { apparentMinusAbsolute, makeObserver } from '../../src/selection/observe.js';
 import { transmission, filterRedshiftWindow } from '../../src/selection/filter.js';
 import { MPC_CM, PC_CM, SPEED_OF_LIGHT_M_S } from '../../src/cosmology/constants.js';
-import type { Population } from '../../src/model/survey.js';
+import type { Population } from '../../src/model/population.js';
 
 const cosmo = new FlatLambdaCDM(resolveCosmology({ h0: 70, omegaM: 0.3 }));
 

@@ -2,7 +2,7 @@
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { resolveCosmology } from '../../src/cosmology/presets.js';
-import type { Cosmology } from '../../src/model/survey.js';
+import type { Cosmology } from '../../src/model/cosmology.js';
 
 export interface PowerFixtureCosmology {
   name: string;

@@ -1,6 +1,7 @@
 /** Cosmology flags shared by `distances` and `clustering`: --h0 --omega-m --t-cmb --preset, or --survey FILE. */
 import type { Command } from 'commander';
-import type { Cosmology, InputFile } from '../../model/survey.js';
+import type { Cosmology } from '../../model/cosmology.js';
+import type { InputFile } from '../../model/survey.js';
 import type { CliIO } from '../io.js';
 import { decimalNumber, loadSurveyArg } from './common.js';
 import { excerpt, inputError } from '../../errors.js';

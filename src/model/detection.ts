@@ -1,0 +1,64 @@
+/** How a survey detects its sources: the detection kinds, filters and bands, completeness. */
+import type { ZParam } from './zparam.js';
+
+export type FilterProfile = 'tophat' | 'gaussian' | 'table';
+
+/**
+ * A tabulated transmission curve read from a CSV file (src/survey/transmission-file.ts):
+ * wavelengths in Angstrom, strictly increasing; transmission relative to its peak (max 1),
+ * linear between rows and 0 outside the table.
+ */
+export interface TransmissionTable {
+  /** The file as written in the survey (relative to the survey file). */
+  file: string;
+  wavelengthAngstrom: number[];
+  transmission: number[];
+}
+
+export interface Filter {
+  /** tophat/gaussian: as given. table: the transmission-weighted mean wavelength. */
+  centerAngstrom: number;
+  /** tophat/gaussian: as given. table: the distance between the outermost half-peak crossings. */
+  fwhmAngstrom: number;
+  profile: FilterProfile;
+  /** The curve, for profile table. */
+  table?: TransmissionTable;
+}
+
+/** Intergalactic attenuation applied to magnitude surveys. */
+export type IgmModel = 'none' | 'madau1995';
+
+export type Completeness =
+  | { model: 'logistic'; half: number; width: number } // half, width in the completeness variable x
+  | { model: 'table'; x: number[]; fraction: number[] }; // x ascending in the completeness variable
+
+/**
+ * The completeness variable x (survey-file.md): observed AB magnitude (magnitude kind),
+ * -log10(measured line flux / erg s^-1 cm^-2) (line_flux kind; a half given as a flux is stored
+ * as -log10 of it, and table x as -log10 flux, sorted ascending), log10 quantity or absolute
+ * magnitude (threshold kind). Completeness falls as x grows in every kind.
+ */
+export type Detection =
+  | {
+      kind: 'line_flux';
+      limitCgs: number; // erg s^-1 cm^-2, faintest line flux counted (at peak transmission)
+      lineAngstrom?: number; // default rest wavelength when a population gives none
+      filter?: Filter;
+      completeness?: Completeness;
+    }
+  | {
+      kind: 'magnitude';
+      limitMag: number; // apparent AB magnitude
+      bandAngstrom: number; // effective wavelength of the band (from band_file when band is not given)
+      beta: number; // f_lambda ~ lambda^beta
+      igm: IgmModel; // default 'none'
+      bandTable?: TransmissionTable; // detection.band_file: the band's transmission curve
+      completeness?: Completeness;
+    }
+  | {
+      kind: 'threshold';
+      limit: ZParam; // log10 quantity (luminosity variable) or absolute magnitude (magnitude variable)
+      completeness?: Completeness;
+    };
+
+export type DetectionKind = Detection['kind'];

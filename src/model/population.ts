@@ -1,0 +1,62 @@
+/** The assumed population: Schechter parameters that may vary with z, bias, window and slices. */
+import type { ZParam } from './zparam.js';
+
+export type PopulationVariable = 'luminosity' | 'magnitude';
+
+/** One Schechter component's parameters (a double Schechter function has two sharing L* or M*). */
+export interface ComponentParams {
+  /** Normalisation of the standard form, Mpc^-3 (per_dex inputs already divided by ln 10). */
+  phiStar: ZParam;
+  alpha: ZParam;
+}
+
+/**
+ * Star-formation-rate conversion of the population's luminosity (Kennicutt 1998, ARA&A 36, 189):
+ * halpha 7.9e-42, oii 1.4e-41 (Msun/yr per erg/s), uv 1.4e-28 (Msun/yr per erg/s/Hz), or a factor.
+ */
+export interface SfrConversion {
+  name: 'halpha' | 'oii' | 'uv' | 'factor';
+  /** Msun/yr per unit of the luminosity-density unit (erg/s, or erg/s/Hz for a magnitude variable). */
+  factor: number;
+}
+
+export interface SchechterPopulation {
+  name: string;
+  /** schechter: one component; double_schechter: two components sharing L* (or M*). */
+  shape: 'schechter' | 'double_schechter';
+  variable: PopulationVariable;
+  /** Free-text label of the quantity (threshold kind), e.g. "stellar mass [Msun]". */
+  quantity?: string;
+  /** The first component's normalisation (the only one for shape schechter), Mpc^-3. */
+  phiStar: ZParam;
+  /** Every component, in order (one for schechter, two for double_schechter). */
+  components: ComponentParams[];
+  /** Characteristic luminosity (erg/s, or the quantity's unit for threshold); luminosity variable. */
+  lStar?: ZParam;
+  /** Characteristic absolute AB magnitude; magnitude variable. */
+  mStar?: ZParam;
+  /** The first component's faint-end slope (the only one for shape schechter). */
+  alpha: ZParam;
+  /** Rest wavelength of the emission line (line_flux kind), Angstrom. */
+  lineAngstrom?: number;
+  /** Rest wavelength at which absolute magnitudes are defined (magnitude kind), Angstrom. */
+  restWavelengthAngstrom: number;
+  /** "auto" or a value (number, table, expression) of the galaxy bias. */
+  bias: 'auto' | ZParam;
+  /** Fraction (0, 1] of haloes above the matched mass hosting a detected galaxy. */
+  occupation: number;
+  /**
+   * The population's whole redshift window: the redshift key cut by where the filter sees its
+   * line. Not cut by explicit slice edges (the slices then count only the part inside them).
+   */
+  window: { min: number; max: number };
+  /**
+   * Edges of this population's own result: the file's slices rule ({count}/{width}) applied to
+   * its own window, or the survey's edges when the file gives edges.
+   */
+  sliceEdges: number[];
+  /** sfr_conversion, when given. */
+  sfrConversion?: SfrConversion;
+}
+
+export type Population = SchechterPopulation;

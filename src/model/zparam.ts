@@ -1,0 +1,11 @@
+/** Parameters that may vary with redshift, as every computation reads them. */
+
+/** A parameter that may vary with redshift: a number, a table in z, or a safe expression in z. */
+export interface ZParam {
+  /** What the file said, for display: a number, {table: [[z, v], ...]} or the expression text. */
+  readonly source: number | { table: [number, number][] } | string;
+  /** True when the value does not depend on z. */
+  readonly constant: boolean;
+  /** Value at redshift z (finite for every z in the survey window; checked at load time). */
+  at(z: number): number;
+}
