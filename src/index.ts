@@ -12,7 +12,8 @@ export type { Detection, Completeness, Filter, TransmissionTable } from './model
 export type { Population, SfrConversion } from './model/population.js';
 export type { ZParam } from './model/zparam.js';
 export { SurveyError, type ErrorCode } from './errors.js';
-export { loadSurveyFile, loadSurveyText, parseSurveyObject, describeSurvey, populationByName } from './survey/index.js';
+export { loadSurveyFile, loadSurveyText, parseSurveyObject, describeSurvey } from './survey/index.js';
+export { populationByName } from './model/select.js';
 export {
   predict,
   type Prediction,

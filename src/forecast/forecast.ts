@@ -11,7 +11,7 @@ import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
-import { populationByName, surveyForPopulation } from '../model/select.js';
+import { choosePopulation, surveyForPopulation } from '../model/select.js';
 import { inputError } from '../errors.js';
 import { buildDensityGrid } from './grid.js';
 import { fisherParts, marginaliseNormalisations, summariseFisher, type FisherSummary } from './fisher.js';
@@ -108,24 +108,6 @@ export interface Forecast {
   requirement?: Requirement;
   /** See src/warnings.ts. */
   warnings: Warning[];
-}
-
-/**
- * The population of interest (by name, default the first). Forecasts vary the three parameters
- * of a single Schechter function, so a double Schechter population is refused.
- */
-export function choosePopulation(survey: Survey, name?: string): Population {
-  const p = populationByName(survey, name);
-  if (p.shape !== 'schechter') {
-    throw inputError(
-      'kind_mismatch',
-      survey.file,
-      'population.shape',
-      `forecasts and plans vary phi*, L* (or M*) and alpha of a single Schechter function, but "${p.name}" is ${p.shape}`,
-      'choose a single-Schechter population with --population, or describe this one with shape: schechter',
-    );
-  }
-  return p;
 }
 
 function block(names: readonly string[], s: FisherSummary): FisherBlock {

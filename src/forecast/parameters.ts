@@ -23,16 +23,12 @@
 import type { Population } from '../model/population.js';
 import type { ParameterOffsets } from '../population/model.js';
 
-export type ParameterName = 'log10_phi_star' | 'log10_l_star' | 'm_star' | 'alpha';
+export { parameterNames, type ParameterName } from '../model/population.js';
 
 /** Index of each parameter in vectors and matrices: [normalisation, characteristic, alpha]. */
 export const PHI = 0;
 export const CHAR = 1;
 export const ALPHA = 2;
-
-export function parameterNames(p: Population): [ParameterName, ParameterName, ParameterName] {
-  return ['log10_phi_star', p.variable === 'luminosity' ? 'log10_l_star' : 'm_star', 'alpha'];
-}
 
 /** d ln u / d(characteristic offset): -ln 10 for log10 L*, +0.4 ln 10 for M*. */
 export function characteristicShift(p: Population): number {

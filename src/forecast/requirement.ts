@@ -17,15 +17,13 @@ import type { Completeness, Detection } from '../model/detection.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import type { ZParam } from '../model/zparam.js';
+import { FULL_SKY_DEG2, MIN_AREA_DEG2, SR_PER_DEG2 } from '../model/sky.js';
 import { brent, expandBracket } from '../numerics/roots.js';
 import { buildDensityGrid } from './grid.js';
 import { fisherParts, marginaliseNormalisations, summariseFisher, type FisherParts } from './fisher.js';
 import type { CosmicVarianceSource } from './cosmic-variance-input.js';
 import type { ParameterName } from './parameters.js';
 
-export const FULL_SKY_DEG2 = (4 * Math.PI * (180 / Math.PI) ** 2);
-export const MIN_AREA_DEG2 = 1e-6;
-const DEG2_SR = (Math.PI / 180) ** 2;
 
 export interface RequirementEntry {
   target: number;
@@ -74,7 +72,7 @@ function scaleParts(p: FisherParts, f: number): FisherParts {
 }
 
 function withArea(survey: Survey, areaDeg2: number): Survey {
-  return { ...survey, areaDeg2, areaSr: areaDeg2 * DEG2_SR };
+  return { ...survey, areaDeg2, areaSr: areaDeg2 * SR_PER_DEG2 };
 }
 
 /** Depth shift: +delta is deeper (dex of flux or quantity; magnitudes for magnitude kinds). */

@@ -1,31 +1,18 @@
-import { basename, resolve } from 'node:path';
-import { Option } from 'commander';
-import type { CommandDef } from '../cli/commands/types.js';
-import { printWarnings } from '../cli/commands/common.js';
-import { Outputs, toJsonText, type CliIO } from '../cli/io.js';
+/**
+ * The report, assembled from the library alone: predict, then the forecast section and (for a
+ * file with a `plan:` section) the plan section, each as its command computes it or replaced by
+ * one sentence saying why it cannot be made; then the JSON document (specs/report.schema.json)
+ * or the figures and the HTML document (src/render/report.ts). The `report` command
+ * (src/cli/commands/report.ts) only parses its options and writes the result.
+ */
+import { basename } from 'node:path';
 import { SurveyError } from '../errors.js';
-import { mockOptions, mockProgressBar } from '../cli/commands/forecast.js';
 import type { Survey } from '../model/survey.js';
 import type { UncertaintyMemo } from '../uncertainty/prediction.js';
 import type { Prediction } from '../counts/predict.js';
 import type { Figure, ForecastJson, PlanJson } from '../render/types.js';
 import type { ForecastResultLike, PlanResultLike } from '../render/adapt.js';
 import { mergeWarnings, type Warning } from '../warnings.js';
-
-/** The report as HTML (the default) or as JSON: the same sections' results, for scripts. */
-export type ReportFormat = 'html' | 'json';
-export const REPORT_FORMATS: readonly ReportFormat[] = ['html', 'json'];
-
-export interface ReportOptions {
-  out?: string;
-  figures?: string;
-  /** html (default) or json. */
-  format?: ReportFormat;
-  /** --mocks N as given on the command line (checked by mockOptions). */
-  mocks?: string;
-  /** --seed S as given on the command line. */
-  seed?: string;
-}
 
 /** A section that does not apply to this survey, and the one sentence that says why. */
 export interface OmittedSection {
@@ -92,6 +79,16 @@ function computeFailure(what: 'forecast' | 'plan', e: unknown): OmittedSection {
   throw e;
 }
 
+/** What the forecast section of a report draws (plain numbers, as `forecast` takes them). */
+export interface SectionOptions {
+  /** Mock surveys for the forecast (default 0: the Fisher matrix only). */
+  mocks?: number;
+  /** Seed of the mock surveys (default 1). */
+  seed?: number;
+  /** Called as the mock surveys are drawn. */
+  onProgress?: (done: number, total: number) => void;
+}
+
 /**
  * The sections the `report` command computes: the forecast always (the Fisher matrix; mock
  * surveys too with --mocks N, fitted and scattered over the ellipses), the plan when the file
@@ -99,8 +96,9 @@ function computeFailure(what: 'forecast' | 'plan', e: unknown): OmittedSection {
  * population for the forecast; a threshold survey, whose limit no exposure time sets, for the
  * plan) is replaced by a sentence saying why; a malformed plan section is still bad input.
  */
-export function reportSections(opts: ReportOptions, io?: CliIO): ReportSections {
-  const { mocks, seed } = mockOptions(opts);
+export function reportSections(opts: SectionOptions = {}): ReportSections {
+  const mocks = opts.mocks ?? 0;
+  const seed = opts.seed ?? 1;
   return {
     forecast: async (survey, shared) => {
       const why = shapeObstacle(survey, 'forecast');
@@ -114,7 +112,7 @@ export function reportSections(opts: ReportOptions, io?: CliIO): ReportSections 
           seed,
           keepFits: true,
           ...(shared?.uncertaintyMemo ? { cosmicVarianceSource: cosmicVarianceInputWith(shared.uncertaintyMemo) } : {}),
-          ...(mocks > 0 && io?.stderrIsTTY ? { onProgress: mockProgressBar(io) } : {}),
+          ...(mocks > 0 && opts.onProgress ? { onProgress: opts.onProgress } : {}),
         });
       } catch (e) {
         return computeFailure('forecast', e);
@@ -122,12 +120,13 @@ export function reportSections(opts: ReportOptions, io?: CliIO): ReportSections 
       return result as unknown as ForecastSection;
     },
     plan: async (survey) => {
-      const { plan } = await import('../planning/plan.js');
+      const { planDesigns } = await import('../planning/plan.js');
       const { readPlanSection } = await import('../survey/plan-section.js');
       // The section as written is checked first: a malformed section is bad input (exit 2).
       // Only what makes a well-formed plan impossible for this survey becomes a sentence.
+      let spec;
       try {
-        readPlanSection(survey, survey.populations[0]!);
+        spec = readPlanSection(survey, survey.populations[0]!);
       } catch (e) {
         if (e instanceof SurveyError && e.code === 'kind_mismatch' && survey.detection.kind === 'threshold') {
           return {
@@ -140,7 +139,7 @@ export function reportSections(opts: ReportOptions, io?: CliIO): ReportSections 
       if (why) return { omitted: why };
       let result;
       try {
-        result = await plan(survey);
+        result = await planDesigns(survey, survey.populations[0]!, spec);
       } catch (e) {
         return computeFailure('plan', e);
       }
@@ -253,46 +252,4 @@ export async function buildReport(
   const results = await computeReport(file, survey, sections);
   const figures = await reportFigures(results);
   return { html: await reportHtml(results, surveyText, figures), figures, results };
-}
-
-export const reportCommand: CommandDef = {
-  name: 'report',
-  description: 'one self-contained HTML report: the survey, the assumed model, the tables and the figures (or, with --format json, the results of every section)',
-  configure(cmd) {
-    cmd.argument('<survey>', 'survey file (YAML)');
-    cmd.addOption(
-      new Option('--format <format>', 'html: the report document; json: the prediction, forecast and plan results in one document (specs/report.schema.json)')
-        .choices([...REPORT_FORMATS])
-        .default('html'),
-    );
-    cmd.option('--out <file>', 'write the report to this file (atomically; - for standard output) instead of stdout');
-    cmd.option('--figures <dir>', 'also write each figure as DIR/<name>.svg (and .png when the rasteriser loads)');
-    cmd.option('--mocks <N>', 'also draw N mock surveys for the forecast, fit each and scatter the fits over the Fisher ellipses');
-    cmd.option('--seed <S>', 'seed of the mock surveys (integer 0 to 4294967295; default 1)');
-  },
-  async action(cmd, args, io) {
-    const file = args[0] as string;
-    const opts = cmd.opts() as ReportOptions;
-    return runReport(io, file, opts);
-  },
-};
-
-export async function runReport(io: CliIO, file: string, opts: ReportOptions, sections: ReportSections = reportSections(opts, io)): Promise<number> {
-  const input = resolve(io.cwd, file);
-  const outputs = new Outputs(io, { out: opts.out, figures: opts.figures });
-  outputs.refuseInputs([file]);
-  const { figureFiles } = await import('../render/draw.js');
-  const { loadSurveyFileWithText } = await import('../survey/load.js');
-  // The survey and the file as written (read once, through the loader's checks).
-  const { survey, text: surveyText } = loadSurveyFileWithText(input);
-  outputs.refuseInputs(survey.inputs ?? []);
-  const format: ReportFormat = opts.format ?? 'html';
-  const results = await computeReport(file, survey, sections);
-  printWarnings(io, results.warnings);
-  // Figures are drawn for the HTML, and for --figures whatever the format.
-  const figures = format === 'html' || opts.figures !== undefined ? await reportFigures(results) : [];
-  outputs.setMain(format === 'json' ? toJsonText(reportJson(results)) : await reportHtml(results, surveyText, figures));
-  if (opts.figures !== undefined) outputs.setFigures(await figureFiles(io, figures));
-  outputs.commit();
-  return 0;
 }

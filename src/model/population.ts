@@ -60,3 +60,11 @@ export interface SchechterPopulation {
 }
 
 export type Population = SchechterPopulation;
+
+/** The three parameters a forecast or plan varies: constant offsets to log10 phi*, log10 L* (or M*) and alpha. */
+export type ParameterName = 'log10_phi_star' | 'log10_l_star' | 'm_star' | 'alpha';
+
+/** The parameters of a population's single Schechter function, in the order of every vector and matrix. */
+export function parameterNames(p: Population): [ParameterName, ParameterName, ParameterName] {
+  return ['log10_phi_star', p.variable === 'luminosity' ? 'log10_l_star' : 'm_star', 'alpha'];
+}

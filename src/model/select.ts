@@ -38,3 +38,21 @@ export function surveyForPopulation(survey: Survey, population: Population): Sur
     sliceEdges: edges,
   };
 }
+
+/**
+ * The population of interest (by name, default the first). Forecasts vary the three parameters
+ * of a single Schechter function, so a double Schechter population is refused.
+ */
+export function choosePopulation(survey: Survey, name?: string): Population {
+  const p = populationByName(survey, name);
+  if (p.shape !== 'schechter') {
+    throw inputError(
+      'kind_mismatch',
+      survey.file,
+      'population.shape',
+      `forecasts and plans vary phi*, L* (or M*) and alpha of a single Schechter function, but "${p.name}" is ${p.shape}`,
+      'choose a single-Schechter population with --population, or describe this one with shape: schechter',
+    );
+  }
+  return p;
+}

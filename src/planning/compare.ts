@@ -13,8 +13,7 @@ import { predict } from '../counts/predict.js';
 import { forecast } from '../forecast/forecast.js';
 import { buildDensityGrid, sliceCount } from '../forecast/grid.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
-import { pickPopulation } from './population.js';
-import { surveyForPopulation } from '../model/select.js';
+import { choosePopulation, surveyForPopulation } from '../model/select.js';
 import { faintCount } from './tables.js';
 import { warning, mergeWarnings, type Warning } from '../warnings.js';
 
@@ -101,7 +100,7 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
   const out: CompareSurvey[] = [];
   const warnings: Warning[][] = [];
   for (const [i, file] of surveys.entries()) {
-    const population = pickPopulation(file, opts.population);
+    const population = choosePopulation(file, opts.population);
     // The population's own window and slices, as a file holding it alone.
     const survey = surveyForPopulation(file, population);
     const pred = predict(survey);

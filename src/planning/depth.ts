@@ -16,11 +16,9 @@
  * laws, with k = 1.25 | 2.5 (magnitude) or 0.5 | 1 (line flux, dex).
  */
 
-export type LimitKind = 'magnitude' | 'line_flux';
+import { depthOfLimit, type DepthLaw, type LimitKind } from '../model/plan.js';
 
-export type DepthLaw =
-  | { kind: 'background' | 'source'; referenceLimit: number; referenceHours: number }
-  | { kind: 'table'; hours: number[]; limits: number[] };
+export { depthOfLimit, type DepthLaw, type LimitKind };
 
 export interface DepthModel {
   limitKind: LimitKind;
@@ -31,11 +29,6 @@ export interface DepthModel {
   depthAt(hours: number): number;
   /** Exposure (hours) that reaches `limit` (inverse of limitAt). */
   hoursFor(limit: number): number;
-}
-
-/** Limit -> depth d (grows as the survey deepens). */
-export function depthOfLimit(kind: LimitKind, limit: number): number {
-  return kind === 'magnitude' ? limit : -Math.log10(limit);
 }
 
 /** Depth d -> limit. */

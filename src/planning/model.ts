@@ -17,7 +17,7 @@
 import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
-import { SR_PER_DEG2, FULL_SKY_DEG2 } from '../survey/units.js';
+import { SR_PER_DEG2, FULL_SKY_DEG2 } from '../model/sky.js';
 import { buildDensityGrid, sliceCount, type DensityGrid } from '../forecast/grid.js';
 import { marginaliseNormalisations, summariseFisher, type SliceInformation } from '../forecast/fisher.js';
 import { countPopulation } from '../counts/engine.js';

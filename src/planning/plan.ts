@@ -1,15 +1,18 @@
 /**
- * plan: a plan file (a survey file plus a `plan:` section) in, the designs that spend the time
- * budget and the best of them out (the JSON of specs/plan.schema.json).
+ * plan: a survey, the population of interest and its plan (the `plan:` section of a plan file,
+ * read by the loader: src/survey/plan-section.ts) in, the designs that spend the time budget and
+ * the best of them out (the JSON of specs/plan.schema.json). The library's `plan(survey)`
+ * (src/library/plan.ts) reads the section and calls `planDesigns`.
  */
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
 import { inputError } from '../errors.js';
-import { readPlanSection, sigmaParameterNames, type PlanSpec } from '../survey/plan-section.js';
+import type { PlanSpec } from '../model/plan.js';
+import { parameterNames } from '../model/population.js';
+import { makeDepthModel } from './depth.js';
 import { assertCounts, buildDesignModel, sigmasOf, type DesignModel } from './model.js';
 import { combine, logGrid, maximises, nearBest, pointingsFor, searchSingleTier, searchTiers, NEAR_BEST_TOLERANCE, type Budget, type Evaluated } from './search.js';
-import { pickPopulation } from './population.js';
 import { warning, mergeWarnings, type Warning } from '../warnings.js';
 import { surveyWarnings } from '../population/warnings.js';
 import { predictionWarnings } from '../counts/predict.js';
@@ -119,12 +122,15 @@ function designJson(e: Evaluated, names: string[], goal: PlanSpec['goal']): Desi
   return d;
 }
 
-export async function plan(file: Survey, opts: PlanOptions = {}): Promise<PlanJson> {
-  const population: Population = pickPopulation(file, opts.population);
+/**
+ * The designs of `spec` for `population` of the survey `file` (a single Schechter population:
+ * see choosePopulation in src/forecast/forecast.ts).
+ */
+export async function planDesigns(file: Survey, population: Population, spec: PlanSpec, opts: PlanOptions = {}): Promise<PlanJson> {
   // The population's own window and slices, as a file holding it alone.
   const survey = surveyForPopulation(file, population);
-  const spec = readPlanSection(survey, population);
-  const names = sigmaParameterNames(population);
+  const depth = makeDepthModel(spec.limitKind, spec.depthLaw);
+  const names: string[] = parameterNames(population);
   const parameterIndex = spec.goal.kind === 'sigma' ? names.indexOf(spec.goal.parameter) : 0;
   const budget: Budget = { budgetHours: spec.budgetHours, overheadHours: spec.overheadHours, minimumCount: spec.minimumCount };
   const useCv = opts.cosmicVariance !== false;
@@ -141,7 +147,10 @@ export async function plan(file: Survey, opts: PlanOptions = {}): Promise<PlanJs
       fixedDesign = { hours: spec.budgetHours / p - spec.overheadHours, pointings: p };
       notes.push(`The area is fixed: ${p} whole pointings cover at least ${spec.fixed.areaDeg2} deg^2, each exposed for the rest of the budget.`);
     } else {
-      const h = spec.depth.hoursFor(spec.fixed.limit);
+      const h = depth.hoursFor(spec.fixed.limit);
+      if (!(h > 0) || !Number.isFinite(h) || h + spec.overheadHours > spec.budgetHours) {
+        throw inputError('out_of_range', survey.file, 'plan.fixed.limit', `needs ${h.toPrecision(4)} h per pointing, more than budget_hours (${spec.budgetHours} h) allows for one pointing`, 'choose a brighter limit or raise budget_hours');
+      }
       fixedDesign = { hours: h, pointings: 0 };
       notes.push(`The limit is fixed: ${h.toPrecision(4)} h per pointing reaches it; the budget buys as many whole pointings as fit.`);
     }
@@ -157,7 +166,7 @@ export async function plan(file: Survey, opts: PlanOptions = {}): Promise<PlanJs
   const model: DesignModel = await buildDesignModel(
     survey,
     population,
-    spec,
+    { ...spec, depth },
     [hMin, hMax],
     [Math.min(minP, maxP), maxP],
     { cosmicVariance: useCv, ...(workers ? { workers } : {}), ...(progress('depth tables') ? { onProgress: progress('depth tables')! } : {}) },
@@ -229,7 +238,7 @@ export async function plan(file: Survey, opts: PlanOptions = {}): Promise<PlanJs
     notes.push('Some designs reach the whole sky; their pointings are capped there.');
   }
 
-  const law = spec.depth.law;
+  const law = spec.depthLaw;
   const out: PlanJson = {
     format: 1,
     title: survey.title,

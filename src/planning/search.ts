@@ -6,7 +6,7 @@
  * over the grid exposures of each tier.
  */
 import type { DesignModel, TierValue } from './model.js';
-import type { PlanGoal } from '../survey/plan-section.js';
+import type { PlanGoal } from '../model/plan.js';
 import { summariseFisher } from '../forecast/fisher.js';
 
 export interface Budget {

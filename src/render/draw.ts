@@ -13,8 +13,6 @@ import type { Population } from '../model/population.js';
 import type { Figure, ForecastJson, ModelDescription, PlanJson, PredictionJson, SliceJson } from './types.js';
 import { curveAxisLabel, luminosityFunctionCurve } from '../population/curves.js';
 import { buildFigures, countsFigure, luminosityFunctionFigure, observedSharesFigure } from './figures.js';
-import type { CliIO, FigureFile } from '../cli/io.js';
-import { printable } from '../errors.js';
 
 /** The population entries of the file as written (`population:` or `populations:`), in order. */
 function rawPopulations(survey: Survey): Record<string, unknown>[] {
@@ -134,22 +132,4 @@ export async function drawFigures(
   const head = at < 0 ? main : main.slice(0, at);
   const tail = at < 0 ? [] : main.slice(at);
   return [...counts, ...head, ...lf, shares, ...tail].filter((f): f is Figure => f !== null);
-}
-
-/**
- * Every figure as the files --figures writes: <name>.svg, and <name>.png when the rasteriser
- * (@resvg/resvg-js) loads (a note on stderr when it does not). Rendered in memory: nothing is
- * written until every output of the command is ready (src/cli/io.ts Outputs).
- */
-export async function figureFiles(io: CliIO, figures: Figure[]): Promise<FigureFile[]> {
-  const { loadRasteriser, safeFigureName, svgToPng } = await import('./write-figures.js');
-  const raster = await loadRasteriser();
-  if (raster instanceof Error) io.stderr(`skytally: ${printable(raster.message)}; SVG only.\n`);
-  const files: FigureFile[] = [];
-  for (const f of figures) {
-    const base = safeFigureName(f.name);
-    files.push({ name: `${base}.svg`, data: f.svg });
-    if (!(raster instanceof Error)) files.push({ name: `${base}.png`, data: await svgToPng(f.svg, 2) });
-  }
-  return files;
 }

@@ -1,13 +1,15 @@
 /**
+ * Transmission curves of filters and bands: the filter profiles, and the maths of tabulated
+ * curves (linear between rows, 0 outside; read from their CSV by src/survey/transmission-file.ts).
+ *
  * Filter transmission relative to the peak, as a function of observed wavelength.
  * tophat: 1 inside center +- fwhm/2, 0 outside.
  * gaussian: exp(-(lambda-center)^2 / (2 sigma^2)), sigma = fwhm / (2 sqrt(2 ln 2)) (common practice),
  *           cut to 0 outside center +- 1.5 fwhm (survey-file.md).
- * table: the tabulated curve (src/survey/transmission-file.ts), relative to its peak, linear
+ * table: the tabulated curve, relative to its peak, linear
  *        between rows, 0 outside the table; the window is where it is above 0.
  */
 import type { Filter, TransmissionTable } from '../model/detection.js';
-import { tableRange } from '../survey/transmission-file.js';
 
 export const GAUSSIAN_HALF_RANGE_FWHM = 1.5;
 const FWHM_TO_SIGMA = 1 / (2 * Math.sqrt(2 * Math.LN2));
@@ -49,4 +51,54 @@ export function filterRangeAngstrom(filter: Filter): [number, number] {
 export function filterRedshiftWindow(filter: Filter, lineAngstrom: number): { min: number; max: number } {
   const [lo, hi] = filterRangeAngstrom(filter);
   return { min: lo / lineAngstrom - 1, max: hi / lineAngstrom - 1 };
+}
+
+/** [lo, hi]: the wavelength range where the curve is above 0 (linear between rows, 0 outside). */
+export function tableRange(t: TransmissionTable): [number, number] {
+  const w = t.wavelengthAngstrom;
+  const tr = t.transmission;
+  let i = tr.findIndex((x) => x > 0);
+  let j = tr.length - 1 - [...tr].reverse().findIndex((x) => x > 0);
+  if (i > 0) i -= 1;
+  if (j < tr.length - 1) j += 1;
+  return [w[i]!, w[j]!];
+}
+
+/** Transmission-weighted mean wavelength, integral lambda T / integral T (trapezoids, exact for linear T). */
+export function tableMeanWavelength(t: TransmissionTable): number {
+  const w = t.wavelengthAngstrom;
+  const tr = t.transmission;
+  let num = 0;
+  let den = 0;
+  for (let k = 0; k + 1 < w.length; k++) {
+    const h = w[k + 1]! - w[k]!;
+    const a = tr[k]!;
+    const b = tr[k + 1]!;
+    den += (h * (a + b)) / 2;
+    // integral of lambda T over a linear piece: h/6 (2 w0 a + w0 b + w1 a + 2 w1 b)
+    num += (h / 6) * (2 * w[k]! * a + w[k]! * b + w[k + 1]! * a + 2 * w[k + 1]! * b);
+  }
+  return num / den;
+}
+
+/** Distance between the outermost wavelengths where the curve crosses half its peak. */
+export function tableFwhm(t: TransmissionTable): number {
+  const w = t.wavelengthAngstrom;
+  const tr = t.transmission;
+  const cross = (k: number): number => {
+    const a = tr[k]!;
+    const b = tr[k + 1]!;
+    return w[k]! + ((0.5 - a) / (b - a)) * (w[k + 1]! - w[k]!);
+  };
+  let lo = w[0]!;
+  for (let k = 0; k + 1 < w.length; k++) {
+    if (tr[k]! >= 0.5) { lo = w[k]!; break; }
+    if (tr[k + 1]! >= 0.5) { lo = cross(k); break; }
+  }
+  let hi = w[w.length - 1]!;
+  for (let k = w.length - 1; k > 0; k--) {
+    if (tr[k]! >= 0.5) { hi = w[k]!; break; }
+    if (tr[k - 1]! >= 0.5) { hi = cross(k - 1); break; }
+  }
+  return hi - lo;
 }

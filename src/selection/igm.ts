@@ -21,8 +21,7 @@
  * and every magnitude stays finite.
  */
 import type { TransmissionTable } from '../model/detection.js';
-import { tableRange } from '../survey/transmission-file.js';
-import { tableTransmission } from './filter.js';
+import { tableRange, tableTransmission } from './filter.js';
 
 export const LYMAN_ALPHA_ANGSTROM = 1216;
 export const LYMAN_LIMIT_ANGSTROM = 912;

@@ -1,8 +1,5 @@
-/** The survey loader's public surface. */
-export { loadSurveyFile, loadSurveyText, parseSurveyObject } from './load.js';
-export { describeSurvey, describeParam } from './describe.js';
+/** The survey loader: survey files in, checked `Survey` values (src/model/) out. */
+export { loadSurveyFile, loadSurveyFileWithText, loadSurveyText, parseSurveyObject } from './load.js';
+export { describeSurvey } from './describe.js';
 export { compileExpression } from './expressions.js';
-export { populationByName } from '../model/select.js';
-export { readTransmissionFile } from './transmission-file.js';
-export { parseQuantity, FULL_SKY_DEG2, SR_PER_DEG2 } from './units.js';
-export type * from '../model/survey.js';
+export { readPlanSection } from './plan-section.js';

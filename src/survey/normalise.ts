@@ -13,10 +13,11 @@ import type { InputFile, Survey } from '../model/survey.js';
 import type { Population, SfrConversion, PopulationVariable } from '../model/population.js';
 import type { ZParam } from '../model/zparam.js';
 import { schemaError, suggest } from './schema.js';
-import { FULL_SKY_DEG2, SR_PER_DEG2, isPlainNumberString, parseQuantity } from './units.js';
+import { isPlainNumberString, parseQuantity } from './units.js';
+import { FULL_SKY_DEG2, MIN_AREA_DEG2, SR_PER_DEG2 } from '../model/sky.js';
 import { checkParam, fmt, makeZParam, mapParam, samplePoints, type ZTable } from './zparam.js';
-import { readTransmissionFile, tableFwhm, tableMeanWavelength } from './transmission-file.js';
-import { filterRangeAngstrom } from '../selection/filter.js';
+import { readTransmissionFile } from './transmission-file.js';
+import { filterRedshiftWindow, tableFwhm, tableMeanWavelength } from '../selection/filter.js';
 import { dirname } from 'node:path';
 import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH, RANGES, describeRange, inRange, type Range } from '../model/limits.js';
 
@@ -84,8 +85,6 @@ interface RawSurvey {
 export const MAX_SLICES = CAPS.slices;
 /** A remainder of the window shorter than this (the narrowest slice) is not made into a slice of its own. */
 export const SLICE_REMAINDER = MIN_SLICE_WIDTH;
-/** Smallest survey area, deg^2 (a few arcsec on a side: smaller fields hold no galaxy worth counting). */
-export const MIN_AREA_DEG2 = 1e-6;
 /** Default population name. */
 export const DEFAULT_POPULATION_NAME = 'population';
 
@@ -195,8 +194,8 @@ function intersect(a: Window, b: Window): Window {
  * table where the curve is above 0.
  */
 export function filterWindow(filter: Filter, lineAngstrom: number): Window {
-  const [lo, hi] = filterRangeAngstrom(filter);
-  return { min: Math.max(0, lo / lineAngstrom - 1), max: hi / lineAngstrom - 1 };
+  const w = filterRedshiftWindow(filter, lineAngstrom);
+  return { min: Math.max(0, w.min), max: w.max };
 }
 
 /** Slice edges over `w` from {count} | {width} | {edges}; the first and last edges are w's ends. */

@@ -19,26 +19,12 @@
 import { excerpt, inputError } from '../errors.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
-import { parseQuantity, FULL_SKY_DEG2 } from './units.js';
+import { parseQuantity } from './units.js';
+import { FULL_SKY_DEG2 } from '../model/sky.js';
 import { suggest } from './schema.js';
 import { CAPS, RANGES, describeRange, inRange } from '../model/limits.js';
-import { depthOfLimit, makeDepthModel, type DepthLaw, type DepthModel, type LimitKind } from '../planning/depth.js';
-
-export type PlanGoal = { kind: 'count' } | { kind: 'faint_count' } | { kind: 'sigma'; parameter: string };
-
-export interface PlanSpec {
-  file: string;
-  limitKind: LimitKind;
-  fieldOfViewDeg2: number;
-  overheadHours: number;
-  budgetHours: number;
-  depth: DepthModel;
-  fixed?: { areaDeg2: number } | { limit: number };
-  goal: PlanGoal;
-  minimumCount: number;
-  grid: { minHours: number; maxHours: number; count: number };
-  tiers: 1 | 2 | 3;
-}
+import { depthOfLimit, type DepthLaw, type LimitKind, type PlanGoal, type PlanSpec } from '../model/plan.js';
+import { parameterNames } from '../model/population.js';
 
 const KEYS = ['field_of_view', 'reference', 'overhead_hours', 'depth_law', 'budget_hours', 'fixed', 'goal', 'minimum_count', 'exposure_grid', 'tiers'];
 export const DEFAULT_GRID = { min_hours: 0.05, max_hours: 50, count: 200 };
@@ -102,11 +88,6 @@ function limitValue(v: unknown, kind: LimitKind, file: string, at: string): numb
 /** A value read from the file, for a message: JSON, cut short and escaped. */
 function shown(v: unknown): string {
   return excerpt(JSON.stringify(v) ?? String(v));
-}
-
-/** Names of the Fisher parameters of a population (as the forecast names them). */
-export function sigmaParameterNames(p: Population): string[] {
-  return ['log10_phi_star', p.variable === 'luminosity' ? 'log10_l_star' : 'm_star', 'alpha'];
 }
 
 /** Read and check survey.raw.plan; `population` is the population of interest. */
@@ -174,7 +155,6 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
   } else {
     throw inputError('out_of_range', file, 'plan.depth_law', `is ${shown(lawRaw)} but must be background, source or {table: [[hours, limit], ...]}`, 'use one of those forms');
   }
-  const depth = makeDepthModel(limitKind, law);
 
   // Goal.
   let goal: PlanGoal;
@@ -183,7 +163,7 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
   if (g === 'count' || g === 'faint_count') goal = { kind: g };
   else if (isObj(g)) {
     checkKeys(g, ['sigma'], file, 'plan.goal');
-    const names = sigmaParameterNames(population);
+    const names: string[] = parameterNames(population);
     if (typeof g.sigma !== 'string' || !names.includes(g.sigma)) {
       const near = typeof g.sigma === 'string' ? suggest(g.sigma, names) : undefined;
       throw inputError('out_of_range', file, 'plan.goal.sigma', `is ${shown(g.sigma)} but must name a parameter of "${population.name}"${near ? ` (did you mean ${near}?)` : ''}`, `use one of ${names.join(', ')}`);
@@ -244,13 +224,10 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
       fixed = { areaDeg2 };
     } else {
       const limit = limitValue(raw.fixed.limit, limitKind, file, 'plan.fixed.limit');
-      const h = depth.hoursFor(limit);
       if (law.kind === 'table' && (depthOfLimit(limitKind, limit) < depthOfLimit(limitKind, law.limits[0]!) || depthOfLimit(limitKind, limit) > depthOfLimit(limitKind, law.limits[law.limits.length - 1]!))) {
         throw inputError('out_of_range', file, 'plan.fixed.limit', `is ${limit}, outside the depth_law table`, 'give a limit between the table\'s first and last rows');
       }
-      if (!(h > 0) || !Number.isFinite(h) || h + overhead > budget) {
-        throw inputError('out_of_range', file, 'plan.fixed.limit', `needs ${h.toPrecision(4)} h per pointing, more than budget_hours (${budget} h) allows for one pointing`, 'choose a brighter limit or raise budget_hours');
-      }
+      // Whether one pointing of the exposure that reaches it fits the budget is checked by the plan (src/planning/plan.ts).
       fixed = { limit };
     }
   }
@@ -261,7 +238,7 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
     fieldOfViewDeg2: fov,
     overheadHours: overhead,
     budgetHours: budget,
-    depth,
+    depthLaw: law,
     goal,
     minimumCount,
     grid: { minHours, maxHours, count },

@@ -208,9 +208,3 @@ export function commonQuantity(text: string, kind: QuantityKind): number | undef
   for (const [u, p] of target) v = v / Math.pow(u.value * u.prefix, p);
   return Number(v.toPrecision(15));
 }
-
-/** Square degrees in the whole sky: 4 pi sr times (180/pi)^2 deg^2/sr. */
-export const FULL_SKY_DEG2 = 4 * Math.PI * (180 / Math.PI) ** 2;
-
-/** Steradians per square degree, (pi/180)^2. */
-export const SR_PER_DEG2 = (Math.PI / 180) ** 2;

@@ -6,7 +6,7 @@
 import type { BenchCase } from './run.js';
 import { readFileSync } from 'node:fs';
 import { loadSurveyText } from '../../src/survey/load.js';
-import { plan } from '../../src/planning/plan.js';
+import { plan } from '../../src/library/plan.js';
 import { compare } from '../../src/planning/compare.js';
 
 function sample(name: string, edit?: (t: string) => string) {

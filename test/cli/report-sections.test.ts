@@ -8,7 +8,8 @@
 import { describe, expect, test } from 'vitest';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { runReport, hasPlanSection } from '../../src/library/report.js';
+import { hasPlanSection } from '../../src/library/report.js';
+import { runReport } from '../../src/cli/commands/report.js';
 import type { CliIO } from '../../src/cli/io.js';
 import { forecastForFigures, planForFigures, goalName } from '../../src/render/adapt.js';
 import { forecastSpec, planSpec } from '../../src/render/figures.js';

@@ -16,7 +16,7 @@ import { parse, stringify } from 'yaml';
 import { loadSurveyFile } from '../../src/survey/load.js';
 import { forecast } from '../../src/forecast/forecast.js';
 import { compare } from '../../src/planning/compare.js';
-import { plan } from '../../src/planning/plan.js';
+import { plan } from '../../src/library/plan.js';
 import { runCli } from '../cli/helpers.js';
 
 const SAMPLE = 'samples/narrowband-interlopers.yaml';

@@ -13,7 +13,7 @@ import { Ajv2020 } from 'ajv/dist/2020.js';
 import { predict } from '../../src/counts/predict.js';
 import { forecast } from '../../src/forecast/forecast.js';
 import { bestIndices, compare } from '../../src/planning/compare.js';
-import { plan } from '../../src/planning/plan.js';
+import { plan } from '../../src/library/plan.js';
 import { surveyAtLimit } from '../../src/planning/model.js';
 import { makeDepthModel } from '../../src/planning/depth.js';
 import { runCli } from '../cli/helpers.js';

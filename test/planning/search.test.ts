@@ -13,7 +13,7 @@ import fc from 'fast-check';
 import { makeDepthModel } from '../../src/planning/depth.js';
 import { buildDesignModel, type DesignModel } from '../../src/planning/model.js';
 import { budgetSplits, combine, logGrid, searchSingleTier, searchTiers, type Budget } from '../../src/planning/search.js';
-import type { PlanGoal } from '../../src/survey/plan-section.js';
+import type { PlanGoal } from '../../src/model/plan.js';
 import { sample } from './helpers.js';
 
 const survey = sample('plan-halpha-layers.yaml');

@@ -1,6 +1,7 @@
 import { describe, expect, test } from 'vitest';
 import { SurveyError } from '../../src/errors.js';
-import { FULL_SKY_DEG2, SR_PER_DEG2, parseQuantity, type QuantityKind } from '../../src/survey/units.js';
+import { parseQuantity, type QuantityKind } from '../../src/survey/units.js';
+import { FULL_SKY_DEG2, SR_PER_DEG2 } from '../../src/model/sky.js';
 
 const F = 'units.yaml';
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);

@@ -30,11 +30,12 @@ export const forecastCommand: CommandDef = {
     const workers = raw.workers === undefined ? 1 : parseInteger(String(raw.workers), '--workers', 1, maxWorkers);
     const outputs = new Outputs(io, { out: out.out, figures: typeof raw.figures === 'string' ? raw.figures : undefined });
     outputs.refuseInputs([file]);
-    const draw = typeof raw.figures === 'string' ? await import('../../render/draw.js') : undefined;
+    const draw = typeof raw.figures === 'string' ? await import('../figures.js') : undefined;
     const keepFits = raw.listMockFits === true;
     const survey = await loadSurveyArg(io, file);
     outputs.refuseInputs(survey.inputs ?? []);
-    const { forecast, choosePopulation } = await import('../../forecast/forecast.js');
+    const { forecast } = await import('../../forecast/forecast.js');
+    const { choosePopulation } = await import('../../model/select.js');
     const { parameterNames } = await import('../../forecast/parameters.js');
     const population = choosePopulation(survey, typeof raw.population === 'string' ? raw.population : undefined);
     const targets = raw.target === undefined ? undefined : parseTargets(String(raw.target), parameterNames(population));

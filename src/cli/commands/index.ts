@@ -7,7 +7,7 @@ import { clusteringCommand } from './clustering.js';
 import { forecastCommand } from './forecast.js';
 import { compareCommand } from './compare.js';
 import { planCommand } from './plan.js';
-import { reportCommand } from '../../library/report.js';
+import { reportCommand } from './report.js';
 
 export const COMMANDS: CommandDef[] = [
   predictCommand,

@@ -22,10 +22,10 @@ export const planCommand: CommandDef = {
     const workers = raw.workers === undefined ? undefined : parseInteger(String(raw.workers), '--workers', 1, availableParallelism());
     const outputs = new Outputs(io, { out: out.out, figures: typeof raw.figures === 'string' ? raw.figures : undefined });
     outputs.refuseInputs([file]);
-    const draw = typeof raw.figures === 'string' ? await import('../../render/draw.js') : undefined;
+    const draw = typeof raw.figures === 'string' ? await import('../figures.js') : undefined;
     const survey = await loadSurveyArg(io, file);
     outputs.refuseInputs(survey.inputs ?? []);
-    const { plan } = await import('../../planning/plan.js');
+    const { plan } = await import('../../library/plan.js');
     const result = await plan(survey, {
       ...(typeof raw.population === 'string' ? { population: raw.population } : {}),
       cosmicVariance: raw.cosmicVariance !== false,

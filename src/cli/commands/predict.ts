@@ -17,7 +17,7 @@ export const predictCommand: CommandDef = {
     const outputs = new Outputs(io, { out: opts.out, figures: typeof raw.figures === 'string' ? raw.figures : undefined });
     outputs.refuseInputs([file]);
     // Only a command asked to draw loads the figure layer (and, through it, vega).
-    const draw = typeof raw.figures === 'string' ? await import('../../render/draw.js') : undefined;
+    const draw = typeof raw.figures === 'string' ? { ...(await import('../figures.js')), ...(await import('../../render/draw.js')) } : undefined;
     const survey = await loadSurveyArg(io, file);
     outputs.refuseInputs(survey.inputs ?? []);
     const { predict } = await import('../../counts/predict.js');

@@ -1,0 +1,14 @@
+/**
+ * plan: a plan file (a survey file plus a `plan:` section) in, the designs that spend its time
+ * budget and the best of them out (specs/plan.schema.json). The loader reads the section for the
+ * population of interest (src/survey/plan-section.ts); the search is src/planning/plan.ts.
+ */
+import type { Survey } from '../model/survey.js';
+import { choosePopulation } from '../model/select.js';
+import { readPlanSection } from '../survey/plan-section.js';
+import { planDesigns, type PlanJson, type PlanOptions } from '../planning/plan.js';
+
+export async function plan(survey: Survey, opts: PlanOptions = {}): Promise<PlanJson> {
+  const population = choosePopulation(survey, opts.population);
+  return planDesigns(survey, population, readPlanSection(survey, population), opts);
+}

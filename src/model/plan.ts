@@ -1,0 +1,33 @@
+/**
+ * A plan: how a time budget may be spent between area and depth, as the `plan:` section of a plan
+ * file gives it (read and checked by src/survey/plan-section.ts; searched by src/planning/).
+ */
+
+/** The limit a plan deepens: an apparent AB magnitude or a line flux in erg s^-1 cm^-2. */
+export type LimitKind = 'magnitude' | 'line_flux';
+
+/** How deep an exposure of t hours per pointing goes (src/planning/depth.ts). */
+export type DepthLaw =
+  | { kind: 'background' | 'source'; referenceLimit: number; referenceHours: number }
+  | { kind: 'table'; hours: number[]; limits: number[] };
+
+export type PlanGoal = { kind: 'count' } | { kind: 'faint_count' } | { kind: 'sigma'; parameter: string };
+
+export interface PlanSpec {
+  file: string;
+  limitKind: LimitKind;
+  fieldOfViewDeg2: number;
+  overheadHours: number;
+  budgetHours: number;
+  depthLaw: DepthLaw;
+  fixed?: { areaDeg2: number } | { limit: number };
+  goal: PlanGoal;
+  minimumCount: number;
+  grid: { minHours: number; maxHours: number; count: number };
+  tiers: 1 | 2 | 3;
+}
+
+/** Limit -> depth d, a variable that grows as the survey deepens: the magnitude, or -log10 of the flux. */
+export function depthOfLimit(kind: LimitKind, limit: number): number {
+  return kind === 'magnitude' ? limit : -Math.log10(limit);
+}
