@@ -28,7 +28,7 @@ export {
   type SfrDensity,
 } from './counts/predict.js';
 export { countPopulation, type SliceCount, type Histogram } from './counts/engine.js';
-export { FlatLambdaCDM } from './cosmology/flat-lcdm.js';
+export { FlatCosmology } from './cosmology/flat-cosmology.js';
 export { resolveCosmology, PRESETS, type CosmologyPreset, type CosmologyInput } from './cosmology/presets.js';
 export { distanceTable, type DistanceRow, type DistanceTable } from './cosmology/table.js';
 export * as constants from './cosmology/constants.js';

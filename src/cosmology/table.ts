@@ -1,6 +1,6 @@
 /** The rows of the `distances` command (outputs.md, "distances"). */
 import type { Cosmology } from '../model/cosmology.js';
-import { FlatLambdaCDM } from './flat-lcdm.js';
+import { FlatCosmology } from './flat-cosmology.js';
 import { cosmologyJsonOf, type CosmologyJsonShape } from '../model/cosmology-json.js';
 import type { Warning } from '../warnings.js';
 
@@ -11,7 +11,7 @@ export interface DistanceRow {
   angular_diameter_distance_mpc: number;
   /** Undefined (omitted) where D_L is 0 (z = 0, or a z so small that D_L underflows): -infinity there. */
   distance_modulus?: number;
-  differential_comoving_volume_mpc3_sr: number;
+  volume_element_mpc3_sr: number;
   comoving_volume_gpc3: number;
   lookback_time_gyr: number;
   age_gyr: number;
@@ -25,7 +25,7 @@ export interface DistanceTable {
 }
 
 export function distanceTable(cosmology: Cosmology, zs: readonly number[]): DistanceTable {
-  const c = new FlatLambdaCDM(cosmology);
+  const c = new FlatCosmology(cosmology);
   return {
     cosmology: cosmologyJsonOf(cosmology),
     rows: zs.map((z) => {
@@ -34,7 +34,7 @@ export function distanceTable(cosmology: Cosmology, zs: readonly number[]): Dist
         comoving_distance_mpc: c.comovingDistanceMpc(z),
         luminosity_distance_mpc: c.luminosityDistanceMpc(z),
         angular_diameter_distance_mpc: c.angularDiameterDistanceMpc(z),
-        differential_comoving_volume_mpc3_sr: c.differentialComovingVolumeMpc3Sr(z),
+        volume_element_mpc3_sr: c.volumeElementMpc3Sr(z),
         comoving_volume_gpc3: c.comovingVolumeMpc3(z) / 1e9,
         lookback_time_gyr: c.lookbackTimeGyr(z),
         age_gyr: c.ageGyr(z),

@@ -13,7 +13,7 @@
  * log10 quantity or absolute magnitude) on multiples of the bin width; the brightest bin also holds
  * the (negligible, e^-40 relative) tail brighter than its edge, so the counts of a slice sum to its count.
  */
-import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { gaussLegendreRule, panelNodes, type PanelNodes } from '../numerics/quadrature.js';
@@ -175,7 +175,7 @@ interface NodeState {
 export function countPopulation(
   survey: Survey,
   population: Population,
-  cosmo: FlatLambdaCDM,
+  cosmo: FlatCosmology,
   edges: readonly number[],
   options: EngineOptions = {},
 ): SliceCount[] {
@@ -311,7 +311,7 @@ export function detectedLuminosityAtNode(
 function buildNodes(
   survey: Survey,
   population: Population,
-  cosmo: FlatLambdaCDM,
+  cosmo: FlatCosmology,
   observer: Observer,
   lo: number,
   hi: number,
@@ -324,7 +324,7 @@ function buildNodes(
     const u = 10 ** obs.log10ULimit;
     let n = 0;
     for (const c of p.components) n += c.phiStar * upperGamma(c.alpha + 1, u);
-    return cosmo.differentialComovingVolumeMpc3Sr(zi) * n;
+    return cosmo.volumeElementMpc3Sr(zi) * n;
   };
   // Piecewise in z between the redshifts where the integrand has a kink (a threshold limit's
   // table nodes, and where the limit crosses a histogram bin edge), each piece by convergence.
@@ -353,7 +353,7 @@ function buildNodes(
     const obs = observer.at(zi, p.characteristic);
     nodes.push({
       z: zi,
-      volumeWeight: survey.areaSr * cosmo.differentialComovingVolumeMpc3Sr(zi) * w[i]!,
+      volumeWeight: survey.areaSr * cosmo.volumeElementMpc3Sr(zi) * w[i]!,
       a: obs.a,
       log10ULimit: obs.log10ULimit,
       components: p.components,

@@ -18,7 +18,7 @@
  * sources (j = phi* L* Gamma(alpha+2), common practice; omitted where alpha <= -2), and, with
  * sfr_conversion, the star-formation-rate density (the conversion factor times the luminosity density).
  */
-import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { countPopulation, type Histogram, type SliceCount } from './engine.js';
@@ -384,7 +384,7 @@ export function windowsCoincide(survey: Survey): boolean {
 }
 
 /** Comoving volume of the union of redshift ranges over the survey's area. */
-function unionVolume(survey: Survey, cosmo: FlatLambdaCDM, ranges: { min: number; max: number }[]): number {
+function unionVolume(survey: Survey, cosmo: FlatCosmology, ranges: { min: number; max: number }[]): number {
   const sorted = ranges.filter((r) => r.max > r.min).sort((a, b) => a.min - b.min);
   let volume = 0;
   let lo = -Infinity;
@@ -418,7 +418,7 @@ function observedBins(survey: Survey, runs: { name: string; own: SliceCount[] }[
 }
 
 export function predict(survey: Survey, options: PredictOptions = {}): Prediction {
-  const cosmo = new FlatLambdaCDM(survey.cosmology);
+  const cosmo = new FlatCosmology(survey.cosmology);
   const width = survey.histogramWidth;
   const units = survey.populations.map((p) => luminosityDensityUnit(survey, p));
   const withUncertainty = !options.noUncertainty;

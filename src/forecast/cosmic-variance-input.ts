@@ -10,7 +10,7 @@
  * The fractions depend on the area (field sizes) and on the limit (the matched bias), so the
  * requirement search asks again for every trial survey.
  */
-import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import { countPopulation } from '../counts/engine.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
@@ -37,7 +37,7 @@ export function cosmicVarianceInputWith(memo: UncertaintyMemo): CosmicVarianceSo
 }
 
 function fractions(survey: Survey, edges: readonly number[], population: Population, memo?: UncertaintyMemo, warnings?: Warning[]): number[] {
-  const cosmo = new FlatLambdaCDM(survey.cosmology);
+  const cosmo = new FlatCosmology(survey.cosmology);
   const ctx = uncertaintyContext(survey, cosmo);
   if (memo) ctx.memo = memo;
   if (warnings) ctx.warnings = warnings;

@@ -7,7 +7,7 @@
  * 3. Optionally mock surveys fitted by maximum likelihood (mocks.ts) and the area / limit that
  *    reaches target sigmas (requirement.ts).
  */
-import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { describeModel, type ModelDescription } from '../population/describe.js';
@@ -150,7 +150,7 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
   const population = choosePopulation(file, opts.population);
   // The population's own window and slices: the forecast a file holding it alone would give.
   const survey = surveyForPopulation(file, population);
-  const cosmo = new FlatLambdaCDM(survey.cosmology);
+  const cosmo = new FlatCosmology(survey.cosmology);
   const edges = survey.sliceEdges;
   const names = parameterNames(population);
   const useCv = opts.cosmicVariance !== false;

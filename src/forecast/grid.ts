@@ -18,7 +18,7 @@
  *   lambda_q(theta) = exp(logW_q + ln10 d_phi + (a1_q + d_alpha) (t_q + s d_c) - e^(t_q) e^(s d_c))
  * where logW_q = ln(weight_z weight_t V phi* c) and a1 = alpha + 1 at the input, s = d ln u / d_c.
  */
-import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Completeness, DetectionKind } from '../model/detection.js';
 import type { Population, PopulationVariable } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
@@ -65,7 +65,7 @@ export interface DensityGrid {
 }
 
 /** Tabulate the density of detected sources of `population` on `edges`. */
-export function buildDensityGrid(survey: Survey, population: Population, cosmo: FlatLambdaCDM, edges: readonly number[]): DensityGrid {
+export function buildDensityGrid(survey: Survey, population: Population, cosmo: FlatCosmology, edges: readonly number[]): DensityGrid {
   const observer = makeObserver(survey.detection, population, cosmo);
   const comp = survey.detection.completeness;
   const cfn = comp ? completenessFunction(comp, survey.detection.kind, population.variable) : undefined;
@@ -108,7 +108,7 @@ export function buildDensityGrid(survey: Survey, population: Population, cosmo: 
         const u = 10 ** obs.log10ULimit;
         let n = 0;
         for (const c of p.components) n += c.phiStar * upperGamma(c.alpha + 1, u);
-        return cosmo.differentialComovingVolumeMpc3Sr(zi) * n;
+        return cosmo.volumeElementMpc3Sr(zi) * n;
       };
       const { z, w } = chooseRedshiftNodes(lo, hi, hardCount);
       for (let i = 0; i < z.length; i++) {
@@ -119,7 +119,7 @@ export function buildDensityGrid(survey: Survey, population: Population, cosmo: 
         const tLim = LN10 * obs.log10ULimit;
         const uLim = Math.exp(tLim);
         const tMax = Math.log((uLim > 1 ? uLim : 1) + U_BRIGHT_SPAN);
-        const logV = Math.log(survey.areaSr * cosmo.differentialComovingVolumeMpc3Sr(zi) * w[i]! * c0.phiStar);
+        const logV = Math.log(survey.areaSr * cosmo.volumeElementMpc3Sr(zi) * w[i]! * c0.phiStar);
         const a1 = c0.alpha + 1;
         // Panel cuts: the ends and completeness break points in between.
         const cuts = [tLim, tMax];

@@ -12,7 +12,7 @@
  * Either may be unreachable; the statement says why (beyond the full sky, a cosmic-variance floor,
  * or not within the bracket).
  */
-import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Completeness, Detection } from '../model/detection.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
@@ -50,7 +50,7 @@ export interface Requirement {
 export interface RequirementContext {
   survey: Survey;
   population: Population;
-  cosmo: FlatLambdaCDM;
+  cosmo: FlatCosmology;
   names: readonly ParameterName[];
   /** Parts at the survey's own area and depth. */
   parts: FisherParts;

@@ -6,7 +6,7 @@
  * `exposure`. The best value of each row is marked by survey index in `best`: every survey whose
  * value ties with the best (equal to 1e-9 relative, i.e. equal but for rounding) is listed.
  */
-import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { predict } from '../counts/predict.js';
@@ -84,7 +84,7 @@ function limitOf(survey: Survey, p: Population): { limit: number | string; varia
 
 /** Count of `population` fainter than L* (or M*) in the survey as it stands. */
 export function faintCountOf(survey: Survey, population: Population): number {
-  const grid = buildDensityGrid(survey, population, new FlatLambdaCDM(survey.cosmology), survey.sliceEdges);
+  const grid = buildDensityGrid(survey, population, new FlatCosmology(survey.cosmology), survey.sliceEdges);
   let n = 0;
   for (let s = 0; s < sliceCount(grid); s++) n += faintCount(grid, s, 0).count;
   return n;

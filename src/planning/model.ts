@@ -14,7 +14,7 @@
  * range used. The pointings of a plan share the survey's `field` (aspect, count): the area grows
  * as one contiguous field per field count.
  */
-import { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { SR_PER_DEG2, FULL_SKY_DEG2 } from '../model/sky.js';
@@ -117,7 +117,7 @@ export async function buildDesignModel(
 
   // Reference survey: the deepest limit, 1 deg^2 (everything below scales with the area).
   const ref = surveyAtLimit(survey, depth.limitAt(h1), 1);
-  const cosmo = new FlatLambdaCDM(survey.cosmology);
+  const cosmo = new FlatCosmology(survey.cosmology);
   const grid = buildDensityGrid(ref, population, cosmo, ref.sliceEdges);
   const work = knotCount(maxDelta) * grid.pointT.length;
   const workers = opts.workers ?? (work > WORKER_WORK_THRESHOLD ? Math.max(1, Math.min(4, availableParallelism())) : 1);

@@ -10,7 +10,7 @@ const COLUMNS: [keyof DistanceTable['rows'][number], string][] = [
   ['luminosity_distance_mpc', 'D_L [Mpc]'],
   ['angular_diameter_distance_mpc', 'D_A [Mpc]'],
   ['distance_modulus', 'distance modulus [mag]'],
-  ['differential_comoving_volume_mpc3_sr', 'dV/dz/dOmega [Mpc^3/sr]'],
+  ['volume_element_mpc3_sr', 'dV/dz/dOmega [Mpc^3/sr]'],
   ['comoving_volume_gpc3', 'V(<z) all sky [Gpc^3]'],
   ['lookback_time_gyr', 'lookback [Gyr]'],
   ['age_gyr', 'age [Gyr]'],

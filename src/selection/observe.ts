@@ -20,7 +20,7 @@
  * The hard limit is obs >= obsLimit (slope > 0) or obs <= obsLimit (slope < 0), i.e.
  * log10 u >= (obsLimit - a) / slope in both cases.
  */
-import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Detection } from '../model/detection.js';
 import type { Population } from '../model/population.js';
 import { MPC_CM } from '../cosmology/constants.js';
@@ -53,7 +53,7 @@ export interface Observer {
 const FOUR_PI = 4 * Math.PI;
 const TEN_PC_MPC = 1e-5;
 
-export function makeObserver(detection: Detection, population: Population, cosmo: FlatLambdaCDM): Observer {
+export function makeObserver(detection: Detection, population: Population, cosmo: FlatCosmology): Observer {
   switch (detection.kind) {
     case 'line_flux': {
       const line = population.lineAngstrom ?? detection.lineAngstrom;
@@ -143,7 +143,7 @@ export function igmMagnitude(detection: Extract<Detection, { kind: 'magnitude' }
  * 5 log10(D_L / 10 pc) - 2.5 log10(1+z) - 2.5 (beta+2) log10(band / ((1+z) rest)).
  */
 export function apparentMinusAbsolute(
-  cosmo: FlatLambdaCDM,
+  cosmo: FlatCosmology,
   z: number,
   bandAngstrom: number,
   restAngstrom: number,

@@ -1,6 +1,6 @@
 /**
  * Public entry points of the survey loader: YAML text in, a typed `Survey` of plain numbers out
- * (src/survey/types.ts), or exactly one SurveyError (src/errors.ts) with a stable code, the
+ * (src/model/), or exactly one SurveyError (src/errors.ts) with a stable code, the
  * file, the key path and one sentence saying what to change.
  */
 import { dirname } from 'node:path';

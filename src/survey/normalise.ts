@@ -1,6 +1,6 @@
 /**
  * From parsed survey data (plain JavaScript values, as YAML gives them) to the normalised
- * `Survey` of plain numbers in documented units (src/survey/types.ts).
+ * `Survey` of plain numbers in documented units (src/model/).
  *
  * Order: plain-data check, JSON Schema (specs/survey.schema.json), then the rules that tie keys
  * together (survey-file.md), each failing with one SurveyError (code, file, key path, fix).

@@ -14,7 +14,7 @@
  * Totals (totalUncertainty): weighted by where the detected sources lie in redshift (the slices'
  * node profiles), not by the window's volume: the count-weighted bias and an n(z)-weighted box.
  */
-import type { FlatLambdaCDM } from '../cosmology/flat-lcdm.js';
+import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import type { ZParam } from '../model/zparam.js';
@@ -49,7 +49,7 @@ export interface CountedRange {
 
 export interface UncertaintyContext {
   survey: Survey;
-  cosmo: FlatLambdaCDM;
+  cosmo: FlatCosmology;
   power: LinearPower;
   /** Where the output's warnings go (e.g. abundance matching held at a mass bound). */
   warnings: Warning[];
@@ -97,7 +97,7 @@ export class UncertaintyMemo {
   }
 }
 
-export function uncertaintyContext(survey: Survey, cosmo: FlatLambdaCDM): UncertaintyContext {
+export function uncertaintyContext(survey: Survey, cosmo: FlatCosmology): UncertaintyContext {
   return { survey, cosmo, power: createLinearPower(survey.cosmology, { form: 'no_wiggle' }), warnings: [] };
 }
 

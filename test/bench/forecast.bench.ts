@@ -9,7 +9,7 @@ import { loadSurveyFile } from '../../src/survey/load.js';
 import { forecast } from '../../src/forecast/forecast.js';
 import { buildDensityGrid } from '../../src/forecast/grid.js';
 import { fisherParts } from '../../src/forecast/fisher.js';
-import { FlatLambdaCDM } from '../../src/cosmology/flat-lcdm.js';
+import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import type { Survey } from '../../src/model/survey.js';
 import type { BenchCase } from './run.js';
 
@@ -25,7 +25,7 @@ const fisherCases: BenchCase[] = samples.flatMap((f) => {
   const s = loadSurveyFile(`samples/${f}`);
   // Forecasts vary one Schechter function: a sample whose first population is double is refused.
   if (s.populations[0]!.shape === 'double_schechter') return [];
-  const cosmo = new FlatLambdaCDM(s.cosmology);
+  const cosmo = new FlatCosmology(s.cosmology);
   const grid = buildDensityGrid(s, s.populations[0]!, cosmo, s.sliceEdges);
   return [
     {
@@ -55,7 +55,7 @@ const fisherCases: BenchCase[] = samples.flatMap((f) => {
 });
 
 const base = loadSurveyFile('samples/halpha-narrowband.yaml');
-const baseCount = fisherParts(buildDensityGrid(base, base.populations[0]!, new FlatLambdaCDM(base.cosmology), base.sliceEdges)).count;
+const baseCount = fisherParts(buildDensityGrid(base, base.populations[0]!, new FlatCosmology(base.cosmology), base.sliceEdges)).count;
 const five = scaledTo(base, 5000, baseCount);
 
 export const cases: BenchCase[] = [

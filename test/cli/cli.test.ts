@@ -86,7 +86,7 @@ describe('distances', () => {
     expect(Object.keys(j.cosmology)).toEqual(expect.arrayContaining(['h0', 'omega_m', 'omega_lambda', 'omega_r', 't_cmb']));
     expect(j.rows).toHaveLength(3);
     for (const row of j.rows) {
-      for (const k of ['z', 'comoving_distance_mpc', 'luminosity_distance_mpc', 'angular_diameter_distance_mpc', 'distance_modulus', 'differential_comoving_volume_mpc3_sr', 'comoving_volume_gpc3', 'lookback_time_gyr', 'age_gyr']) {
+      for (const k of ['z', 'comoving_distance_mpc', 'luminosity_distance_mpc', 'angular_diameter_distance_mpc', 'distance_modulus', 'volume_element_mpc3_sr', 'comoving_volume_gpc3', 'lookback_time_gyr', 'age_gyr']) {
         expect(row[k], k).toBeTypeOf('number');
       }
     }

@@ -11,7 +11,7 @@
 import { readFileSync } from 'node:fs';
 import fc from 'fast-check';
 import { describe, expect, test } from 'vitest';
-import { FlatLambdaCDM, carlsonRF } from '../../src/cosmology/flat-lcdm.js';
+import { FlatCosmology, carlsonRF } from '../../src/cosmology/flat-cosmology.js';
 import { integrate } from '../../src/numerics/quadrature.js';
 
 interface Row {
@@ -20,7 +20,7 @@ interface Row {
   luminosity_distance_mpc: number;
   angular_diameter_distance_mpc: number;
   distance_modulus: number;
-  differential_comoving_volume_mpc3_sr: number;
+  volume_element_mpc3_sr: number;
   comoving_volume_gpc3: number;
   lookback_time_gyr: number;
   age_gyr: number;
@@ -43,13 +43,13 @@ const fixture = JSON.parse(readFileSync(new URL('../reference/distances.json', i
 const rel = (a: number, b: number): number => Math.abs(a - b) / Math.abs(b);
 const TOL = 1e-10;
 
-type Getter = (c: FlatLambdaCDM, z: number) => number;
+type Getter = (c: FlatCosmology, z: number) => number;
 const QUANTITIES: [keyof Row, Getter][] = [
   ['comoving_distance_mpc', (c, z) => c.comovingDistanceMpc(z)],
   ['luminosity_distance_mpc', (c, z) => c.luminosityDistanceMpc(z)],
   ['angular_diameter_distance_mpc', (c, z) => c.angularDiameterDistanceMpc(z)],
   ['distance_modulus', (c, z) => c.distanceModulus(z)],
-  ['differential_comoving_volume_mpc3_sr', (c, z) => c.differentialComovingVolumeMpc3Sr(z)],
+  ['volume_element_mpc3_sr', (c, z) => c.volumeElementMpc3Sr(z)],
   ['comoving_volume_gpc3', (c, z) => c.comovingVolumeMpc3(z) / 1e9],
   ['lookback_time_gyr', (c, z) => c.lookbackTimeGyr(z)],
   ['age_gyr', (c, z) => c.ageGyr(z)],
@@ -63,7 +63,7 @@ describe('against astropy 5.2.1 and mpmath 1.2.1 (relative 1e-10, z = 0.001 to 2
     expect(fixture.header.libraries.astropy).toBe('5.2.1');
   });
   describe.each(fixture.cosmologies)('$label', (fc_) => {
-    const c = FlatLambdaCDM.fromParams({ h0: fc_.h0, omegaM: fc_.omega_m, tCmb: fc_.t_cmb });
+    const c = FlatCosmology.fromParams({ h0: fc_.h0, omegaM: fc_.omega_m, tCmb: fc_.t_cmb });
     test('Hubble distance, Hubble time, omega_r and omega_lambda match astropy (relative 1e-12)', () => {
       expect(rel(c.hubbleDistanceMpc, fc_.astropy.hubble_distance_mpc)).toBeLessThan(1e-12);
       expect(rel(c.hubbleTimeGyr, fc_.astropy.hubble_time_gyr)).toBeLessThan(1e-12);
@@ -83,13 +83,13 @@ describe('against astropy 5.2.1 and mpmath 1.2.1 (relative 1e-10, z = 0.001 to 2
 describe('closed forms (Hogg 1999)', () => {
   const zs = [0.001, 0.01, 0.1, 0.5, 1, 2, 5, 10, 20];
   test('Einstein-de Sitter (Om = 1, no radiation): D_C = 2 D_H (1 - 1/sqrt(1+z)), relative 1e-14', () => {
-    const c = FlatLambdaCDM.fromParams({ h0: 70, omegaM: 1 });
+    const c = FlatCosmology.fromParams({ h0: 70, omegaM: 1 });
     for (const z of zs) {
       expect(rel(c.comovingDistanceMpc(z), 2 * c.hubbleDistanceMpc * (1 - 1 / Math.sqrt(1 + z)))).toBeLessThan(1e-13);
     }
   });
   test('the elliptic-integral path approaches Einstein-de Sitter as Om -> 1 (Om = 1 - 1e-9), relative 1e-8', () => {
-    const c = FlatLambdaCDM.fromParams({ h0: 70, omegaM: 1 - 1e-9 });
+    const c = FlatCosmology.fromParams({ h0: 70, omegaM: 1 - 1e-9 });
     for (const z of zs) {
       expect(rel(c.comovingDistanceMpc(z), 2 * c.hubbleDistanceMpc * (1 - 1 / Math.sqrt(1 + z)))).toBeLessThan(1e-8);
       expect(rel(c.ageGyr(z), (2 / 3) * c.hubbleTimeGyr * Math.pow(1 + z, -1.5))).toBeLessThan(1e-8);
@@ -98,7 +98,7 @@ describe('closed forms (Hogg 1999)', () => {
   test('de Sitter limit (tiny Om = 1e-12, since Om must be > 0): D_C = D_H z and t_L = t_H ln(1+z), relative 2e-9', () => {
     // The Om = 1e-12 matter term changes D_C by a relative Om((1+z)^4 - 1)/(8z) <= 1.3e-9 at z <= 20
     // and t_L by less than 1.1e-9; the tolerance 2e-9 covers that.
-    const c = FlatLambdaCDM.fromParams({ h0: 70, omegaM: 1e-12 });
+    const c = FlatCosmology.fromParams({ h0: 70, omegaM: 1e-12 });
     for (const z of zs) {
       expect(rel(c.comovingDistanceMpc(z), c.hubbleDistanceMpc * z), `z=${z}`).toBeLessThan(2e-9);
       expect(rel(c.lookbackTimeGyr(z), c.hubbleTimeGyr * Math.log1p(z)), `z=${z}`).toBeLessThan(2e-9);
@@ -114,15 +114,15 @@ describe('closed forms (Hogg 1999)', () => {
 
 describe('consistency between functions', () => {
   const models = [
-    FlatLambdaCDM.fromParams({ h0: 70, omegaM: 0.3 }),
-    FlatLambdaCDM.fromParams({ h0: 67.66, omegaM: 0.3111, tCmb: 2.7255 }),
-    FlatLambdaCDM.fromParams({ h0: 100, omegaM: 1 }),
+    FlatCosmology.fromParams({ h0: 70, omegaM: 0.3 }),
+    FlatCosmology.fromParams({ h0: 67.66, omegaM: 0.3111, tCmb: 2.7255 }),
+    FlatCosmology.fromParams({ h0: 100, omegaM: 1 }),
   ];
   test.each(models.map((m) => ({ m, label: `Om=${m.omegaM} Or=${m.omegaR.toExponential(2)}` })))(
     '$label: 4 pi int_0^z dV/dz/dOmega dz = V(z), relative 1e-8 (Hogg 1999 eqs. 28-29)',
     ({ m }) => {
       for (const z of [0.05, 0.7, 3, 12]) {
-        const v = integrate((t) => m.differentialComovingVolumeMpc3Sr(t), 0, z, { rel: 1e-13 }).value * 4 * Math.PI;
+        const v = integrate((t) => m.volumeElementMpc3Sr(t), 0, z, { rel: 1e-13 }).value * 4 * Math.PI;
         expect(rel(v, m.comovingVolumeMpc3(z))).toBeLessThan(1e-8);
       }
     },
@@ -144,7 +144,7 @@ describe('consistency between functions', () => {
       for (const z of [0.2, 1.5, 8]) {
         const dz = 1e-4;
         const shell = m.comovingVolumeBetweenMpc3Sr(z - dz / 2, z + dz / 2);
-        expect(rel(shell, m.differentialComovingVolumeMpc3Sr(z) * dz)).toBeLessThan(1e-7);
+        expect(rel(shell, m.volumeElementMpc3Sr(z) * dz)).toBeLessThan(1e-7);
         expect(rel(m.comovingDistanceBetweenMpc(0.3, z), m.comovingDistanceMpc(z) - m.comovingDistanceMpc(0.3))).toBeLessThan(
           1e-12,
         );
@@ -160,9 +160,9 @@ describe('consistency between functions', () => {
         expect(rel(m.lookbackTimeGyr(z) + m.ageGyr(z), age0)).toBeLessThan(1e-12);
         const h = 1e-4 * (1 + z);
         const deriv = (m.comovingDistanceMpc(z + h) - m.comovingDistanceMpc(z - h)) / (2 * h);
-        expect(rel(deriv, m.hubbleDistanceMpc / m.efunc(z))).toBeLessThan(1e-7);
+        expect(rel(deriv, m.hubbleDistanceMpc / m.hubbleRatio(z))).toBeLessThan(1e-7);
       }
-      expect(m.efunc(0)).toBeCloseTo(1, 15);
+      expect(m.hubbleRatio(0)).toBeCloseTo(1, 15);
       expect(m.transverseComovingDistanceMpc(1.2)).toBe(m.comovingDistanceMpc(1.2));
     },
   );
@@ -177,7 +177,7 @@ describe('properties (fast-check)', () => {
   test('distances and volume grow with z; age falls; the lookback time grows', () => {
     fc.assert(
       fc.property(arbModel, fc.double({ min: 0, max: 30, noNaN: true }), fc.double({ min: 1e-6, max: 5, noNaN: true }), (p, z, dz) => {
-        const c = FlatLambdaCDM.fromParams(p);
+        const c = FlatCosmology.fromParams(p);
         const z2 = z + dz;
         return (
           c.comovingDistanceMpc(z2) > c.comovingDistanceMpc(z) &&
@@ -201,20 +201,20 @@ describe('input validation (plain Error messages; the loader wraps them)', () =>
     [{ h0: NaN, omegaM: 0.3 }, /h0 must be a positive number/],
     [{ h0: 70, omegaM: 0.3, tCmb: -1 }, /t_cmb must be a number >= 0/],
   ])('%o is rejected', (p, msg) => {
-    expect(() => FlatLambdaCDM.fromParams(p)).toThrow(msg);
+    expect(() => FlatCosmology.fromParams(p)).toThrow(msg);
   });
   test('a non-flat set is rejected', () => {
-    expect(() => new FlatLambdaCDM({ h0: 70, omegaM: 0.3, omegaLambda: 0.6, omegaR: 0, tCmb: 0 })).toThrow(/flat/);
+    expect(() => new FlatCosmology({ h0: 70, omegaM: 0.3, omegaLambda: 0.6, omegaR: 0, tCmb: 0 })).toThrow(/flat/);
   });
   test('negative or non-finite redshift is rejected; z = 0 gives zero distance and no distance modulus', () => {
-    const c = FlatLambdaCDM.fromParams({ h0: 70, omegaM: 0.3 });
+    const c = FlatCosmology.fromParams({ h0: 70, omegaM: 0.3 });
     expect(() => c.comovingDistanceMpc(-0.1)).toThrow(/redshift must be a finite number >= 0/);
     expect(() => c.comovingDistanceMpc(Infinity)).toThrow(/redshift/);
     expect(c.comovingDistanceMpc(0)).toBe(0);
     expect(() => c.distanceModulus(0)).toThrow(/redshift > 0/);
   });
   test('accepts the Cosmology type of src/survey/types.ts', () => {
-    const c = new FlatLambdaCDM({ h0: 70, omegaM: 0.3, omegaLambda: 0.7, omegaR: 0, tCmb: 0 });
-    expect(c.comovingDistanceMpc(1)).toBeCloseTo(FlatLambdaCDM.fromParams({ h0: 70, omegaM: 0.3 }).comovingDistanceMpc(1), 9);
+    const c = new FlatCosmology({ h0: 70, omegaM: 0.3, omegaLambda: 0.7, omegaR: 0, tCmb: 0 });
+    expect(c.comovingDistanceMpc(1)).toBeCloseTo(FlatCosmology.fromParams({ h0: 70, omegaM: 0.3 }).comovingDistanceMpc(1), 9);
   });
 });

@@ -7,7 +7,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, test } from 'vitest';
 import { omegaPhotons, omegaRadiation } from '../../src/cosmology/constants.js';
-import { FlatLambdaCDM } from '../../src/cosmology/flat-lcdm.js';
+import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import { PRESETS, resolveCosmology } from '../../src/cosmology/presets.js';
 
 const fixture = JSON.parse(readFileSync(new URL('../reference/distances.json', import.meta.url), 'utf8')) as {
@@ -38,9 +38,9 @@ describe('resolveCosmology', () => {
     expect(d.omegaLambda).toBe(0.7);
     expect(omegaRadiation(70, 0)).toBe(0);
   });
-  test('the resolved cosmology builds a FlatLambdaCDM', () => {
+  test('the resolved cosmology builds a FlatCosmology', () => {
     const c = resolveCosmology({ preset: 'planck2018' });
-    const m = new FlatLambdaCDM(c);
+    const m = new FlatCosmology(c);
     expect(m.omegaR).toBe(c.omegaR);
     expect(m.comovingDistanceMpc(1)).toBeGreaterThan(3000);
   });

@@ -7,7 +7,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, test } from 'vitest';
-import { FlatLambdaCDM } from '../../src/cosmology/flat-lcdm.js';
+import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import { countPopulation } from '../../src/counts/engine.js';
 import { buildDensityGrid } from '../../src/forecast/grid.js';
 import { fisherFromPoints, fisherParts, marginaliseNormalisations, summariseFisher } from '../../src/forecast/fisher.js';
@@ -26,7 +26,7 @@ const ref = JSON.parse(readFileSync(new URL('../reference/fisher.json', import.m
 
 function partsOf(spec: SurveySpec) {
   const survey = surveyFromSpec(spec);
-  const cosmo = new FlatLambdaCDM(survey.cosmology);
+  const cosmo = new FlatCosmology(survey.cosmology);
   const grid = buildDensityGrid(survey, survey.populations[0]!, cosmo, survey.sliceEdges);
   return { survey, cosmo, grid, parts: fisherParts(grid) };
 }

@@ -16,7 +16,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, test } from 'vitest';
 import mt19937 from '@stdlib/random-base-mt19937';
-import { FlatLambdaCDM } from '../../src/cosmology/flat-lcdm.js';
+import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import { buildDensityGrid } from '../../src/forecast/grid.js';
 import { fisherParts } from '../../src/forecast/fisher.js';
 import { buildSamplingTables, CatalogueSampler } from '../../src/forecast/sampler.js';
@@ -29,14 +29,14 @@ const spec = (name: string) => ref.cases.find((c) => c.survey.name === name)!.su
 /** The invented survey scaled in area to about `n` expected sources. */
 function withCount(s: SurveySpec, n: number): SurveySpec {
   const sv = surveyFromSpec(s);
-  const grid = buildDensityGrid(sv, sv.populations[0]!, new FlatLambdaCDM(sv.cosmology), sv.sliceEdges);
+  const grid = buildDensityGrid(sv, sv.populations[0]!, new FlatCosmology(sv.cosmology), sv.sliceEdges);
   return { ...s, area_deg2: (s.area_deg2 * n) / fisherParts(grid).count };
 }
 
 describe('sampler draws from the tabulated density', () => {
   test.each(ref.cases.map((c) => [c.survey.name, c.survey] as const))('%s: mean ln u and mean u within 4 standard errors; no envelope miss', (_n, s) => {
     const survey = surveyFromSpec(s);
-    const grid = buildDensityGrid(survey, survey.populations[0]!, new FlatLambdaCDM(survey.cosmology), survey.sliceEdges);
+    const grid = buildDensityGrid(survey, survey.populations[0]!, new FlatCosmology(survey.cosmology), survey.sliceEdges);
     const tables = buildSamplingTables(grid);
     // expectations from the quadrature
     let w = 0, wt = 0, wt2 = 0, wu = 0, wu2 = 0;

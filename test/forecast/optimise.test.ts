@@ -11,7 +11,7 @@ import { maximise, type Evaluation } from '../../src/forecast/optimise.js';
 import { extendedLogLikelihood, styLogLikelihood } from '../../src/forecast/fit.js';
 import { buildDensityGrid } from '../../src/forecast/grid.js';
 import { buildSamplingTables, CatalogueSampler } from '../../src/forecast/sampler.js';
-import { FlatLambdaCDM } from '../../src/cosmology/flat-lcdm.js';
+import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import mt19937 from '@stdlib/random-base-mt19937';
 import { readFileSync } from 'node:fs';
 import { surveyFromSpec, type SurveySpec } from './helpers.js';
@@ -62,7 +62,7 @@ const ref = JSON.parse(readFileSync(new URL('../reference/fisher.json', import.m
 describe('likelihood derivatives against central differences (consistency, 1e-5 relative)', () => {
   test.each(ref.cases.map((c) => [c.survey.name, c.survey] as const))('%s', (_n, spec) => {
     const survey = surveyFromSpec({ ...spec, area_deg2: spec.area_deg2 * 0.05 });
-    const grid = buildDensityGrid(survey, survey.populations[0]!, new FlatLambdaCDM(survey.cosmology), survey.sliceEdges);
+    const grid = buildDensityGrid(survey, survey.populations[0]!, new FlatCosmology(survey.cosmology), survey.sliceEdges);
     const sampler = new CatalogueSampler(grid, buildSamplingTables(grid));
     const rng = mt19937.factory({ seed: 42 }) as unknown as { normalized: () => number };
     const stats = sampler.draw(Array.from(buildSamplingTables(grid).sliceExpected, (x) => Math.round(x)), rng.normalized);

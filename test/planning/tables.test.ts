@@ -10,7 +10,7 @@
  *   the design's survey with predict's cosmic-variance fractions (interpolated tables: 2e-3 relative).
  */
 import { describe, expect, test } from 'vitest';
-import { FlatLambdaCDM } from '../../src/cosmology/flat-lcdm.js';
+import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import { buildDensityGrid, sliceCount } from '../../src/forecast/grid.js';
 import { fisherParts } from '../../src/forecast/fisher.js';
 import { forecast } from '../../src/forecast/forecast.js';
@@ -37,7 +37,7 @@ describe.each([
     const model = await modelP;
     const v = model.tier(h, 7);
     const s = surveyAtLimit(survey, depth.limitAt(h), 7 * fov);
-    const parts = fisherParts(buildDensityGrid(s, s.populations[0]!, new FlatLambdaCDM(s.cosmology), s.sliceEdges));
+    const parts = fisherParts(buildDensityGrid(s, s.populations[0]!, new FlatCosmology(s.cosmology), s.sliceEdges));
     expect(rel(v.count, parts.count)).toBeLessThan(1e-6);
     for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) expect(rel(v.fisher[j]![k]!, parts.matrix[j]![k]!), `F[${j}][${k}]`).toBeLessThan(1e-6);
     expect(v.areaDeg2).toBeCloseTo(7 * fov, 12);
@@ -47,7 +47,7 @@ describe.each([
 describe('closed form: count fainter than L* without completeness (upper incomplete gamma)', () => {
   const plain = sample('plan-halpha-layers.yaml', (t) => t.replace(/^\s+completeness:.*$/m, ''));
   const p = plain.populations[0]!;
-  const grid = buildDensityGrid(plain, p, new FlatLambdaCDM(plain.cosmology), plain.sliceEdges);
+  const grid = buildDensityGrid(plain, p, new FlatCosmology(plain.cosmology), plain.sliceEdges);
   test.each([0, 0.3, 1.1, 2.5])('shift %s in ln u: every slice to 1e-6 relative', (delta) => {
     for (let sl = 0; sl < sliceCount(grid); sl++) {
       let expected = 0;

@@ -18,7 +18,7 @@ import {
   madau1995Transmission,
 } from '../../src/selection/igm.js';
 import { makeObserver } from '../../src/selection/observe.js';
-import { FlatLambdaCDM } from '../../src/cosmology/flat-lcdm.js';
+import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import { loadSurveyText } from '../../src/survey/load.js';
 import { predict } from '../../src/counts/predict.js';
 
@@ -67,7 +67,7 @@ describe('IGM in the magnitude observer and predict', () => {
   test('apparent magnitudes grow by -2.5 log10 T at the band (closed form, 1e-12 mag)', () => {
     const s = loadSurveyText(HIGHZ, 'igm.yaml');
     const s0 = loadSurveyText(HIGHZ.replace(', igm: madau1995', ''), 'igm.yaml');
-    const cosmo = new FlatLambdaCDM(s.cosmology);
+    const cosmo = new FlatCosmology(s.cosmology);
     const o = makeObserver(s.detection, s.populations[0]!, cosmo);
     const o0 = makeObserver(s0.detection, s0.populations[0]!, cosmo);
     for (const z of [5.2, 6.0, 6.8]) {

@@ -4,14 +4,14 @@
  * line_flux limit L_lim = 4 pi D_L^2 F (survey-file.md) recomputed by hand. Tolerance 1e-10 mag / relative.
  */
 import { describe, expect, test } from 'vitest';
-import { FlatLambdaCDM } from '../../src/cosmology/flat-lcdm.js';
+import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import { resolveCosmology } from '../../src/cosmology/presets.js';
 import { apparentMinusAbsolute, makeObserver } from '../../src/selection/observe.js';
 import { transmission, filterRedshiftWindow } from '../../src/selection/filter.js';
 import { MPC_CM, PC_CM, SPEED_OF_LIGHT_M_S } from '../../src/cosmology/constants.js';
 import type { Population } from '../../src/model/population.js';
 
-const cosmo = new FlatLambdaCDM(resolveCosmology({ h0: 70, omegaM: 0.3 }));
+const cosmo = new FlatCosmology(resolveCosmology({ h0: 70, omegaM: 0.3 }));
 
 /** Apparent AB magnitude through fluxes: a source of absolute AB magnitude M at rest wavelength
  * lamRest, spectrum f_lambda ~ lambda^beta (so L_nu ~ nu^(-beta-2)), observed in a band at lamBand. */

@@ -46,8 +46,8 @@ import type { Cosmology } from '../model/cosmology.js';
 import { GYR_S, MPC_M, SPEED_OF_LIGHT_KM_S, omegaRadiation } from './constants.js';
 import { gaussLegendreRule, integrate } from '../numerics/quadrature.js';
 
-/** Parameters for {@link FlatLambdaCDM.fromParams}. */
-export interface FlatLambdaCDMParams {
+/** Parameters for {@link FlatCosmology.fromParams}. */
+export interface FlatCosmologyParams {
   /** Hubble constant [km s^-1 Mpc^-1], > 0. */
   h0: number;
   /** Matter density today, in (0, 1]. */
@@ -118,13 +118,13 @@ function checkZ(z: number): void {
 
 /**
  * Flat Lambda-CDM cosmology (matter, radiation from the CMB temperature, cosmological constant).
- * Build from a resolved {@link Cosmology} (src/survey/types.ts) or with {@link FlatLambdaCDM.fromParams}.
+ * Build from a resolved {@link Cosmology} (src/model/cosmology.ts) or with {@link FlatCosmology.fromParams}.
  * All methods take plain numbers and return plain numbers in the unit their name carries.
  * @example
- *   const c = FlatLambdaCDM.fromParams({ h0: 70, omegaM: 0.3 });
+ *   const c = FlatCosmology.fromParams({ h0: 70, omegaM: 0.3 });
  *   c.comovingDistanceMpc(1) // 3303.82880588747 (astropy 5.2.1: 3303.8288058874705)
  */
-export class FlatLambdaCDM {
+export class FlatCosmology {
   readonly h0: number;
   readonly omegaM: number;
   readonly omegaR: number;
@@ -189,16 +189,16 @@ export class FlatLambdaCDM {
    * Flat cosmology from h0, omegaM and the CMB temperature: omegaR = omegaRadiation(h0, tCmb)
    * (photons + 3.046 massless neutrinos), omegaLambda = 1 - omegaM - omegaR.
    */
-  static fromParams(p: FlatLambdaCDMParams): FlatLambdaCDM {
+  static fromParams(p: FlatCosmologyParams): FlatCosmology {
     const tCmb = p.tCmb ?? 0;
     if (!(Number.isFinite(tCmb) && tCmb >= 0)) throw new Error(`t_cmb must be a number >= 0 (K), got ${tCmb}`);
     if (!(Number.isFinite(p.h0) && p.h0 > 0)) throw new Error(`h0 must be a positive number (km/s/Mpc), got ${p.h0}`);
     const omegaR = omegaRadiation(p.h0, tCmb);
-    return new FlatLambdaCDM({ h0: p.h0, omegaM: p.omegaM, omegaR, omegaLambda: 1 - p.omegaM - omegaR, tCmb });
+    return new FlatCosmology({ h0: p.h0, omegaM: p.omegaM, omegaR, omegaLambda: 1 - p.omegaM - omegaR, tCmb });
   }
 
   /** E(z) = H(z)/H0 = sqrt(Om (1+z)^3 + Or (1+z)^4 + OL) (Hogg 1999 eq. 14, flat). Dimensionless. */
-  efunc(z: number): number {
+  hubbleRatio(z: number): number {
     const zp1 = 1 + z;
     const zp3 = zp1 * zp1 * zp1;
     return Math.sqrt(this.omegaM * zp3 + this.omegaR * zp3 * zp1 + this.omegaLambda);
@@ -295,10 +295,10 @@ export class FlatLambdaCDM {
     return 5 * Math.log10(dl) + 25;
   }
 
-  /** Differential comoving volume dV_C / dz / dOmega = D_H D_M^2 / E(z) [Mpc^3 sr^-1] (Hogg 1999 eq. 28). */
-  differentialComovingVolumeMpc3Sr(z: number): number {
+  /** The comoving volume element dV_C / dz / dOmega = D_H D_M^2 / E(z) [Mpc^3 sr^-1] (Hogg 1999 eq. 28). */
+  volumeElementMpc3Sr(z: number): number {
     const dm = this.comovingDistanceMpc(z);
-    return (this.hubbleDistanceMpc * dm * dm) / this.efunc(z);
+    return (this.hubbleDistanceMpc * dm * dm) / this.hubbleRatio(z);
   }
 
   /** All-sky comoving volume out to z, (4 pi / 3) D_M^3 [Mpc^3] (Hogg 1999 eq. 29, flat). */
