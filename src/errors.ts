@@ -23,6 +23,8 @@ export type ErrorCode =
   | 'divergent'
   | 'bad_option'
   | 'not_finite'
+  | 'no_sources'
+  | 'singular_fisher'
   | 'output_exists'
   | 'not_a_file'
   | 'not_text'

@@ -29,7 +29,8 @@ export {
 } from './counts/predict.js';
 export { countPopulation, type SliceCount, type Histogram } from './counts/engine.js';
 export { FlatCosmology } from './cosmology/flat-cosmology.js';
-export { resolveCosmology, PRESETS, type CosmologyPreset, type CosmologyInput } from './cosmology/presets.js';
+export { PRESETS, type CosmologyPreset } from './cosmology/presets.js';
+export { resolveCosmology, resolveBackground, type CosmologyInput } from './cosmology/parameters.js';
 export { distanceTable, type DistanceRow, type DistanceTable } from './cosmology/table.js';
 export * as constants from './cosmology/constants.js';
 export {

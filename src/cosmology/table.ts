@@ -1,7 +1,7 @@
 /** The rows of the `distances` command (outputs.md, "distances"). */
-import type { Cosmology } from '../model/cosmology.js';
+import type { BackgroundCosmology } from '../model/cosmology.js';
 import { FlatCosmology } from './flat-cosmology.js';
-import { cosmologyJsonOf, type CosmologyJsonShape } from '../model/cosmology-json.js';
+import { cosmologyJsonOf, type BackgroundJsonShape } from '../model/cosmology-json.js';
 import type { Warning } from '../warnings.js';
 
 export interface DistanceRow {
@@ -18,13 +18,13 @@ export interface DistanceRow {
 }
 
 export interface DistanceTable {
-  cosmology: CosmologyJsonShape;
+  cosmology: BackgroundJsonShape;
   rows: DistanceRow[];
   /** As in every output (src/warnings.ts); none is raised here yet. */
   warnings: Warning[];
 }
 
-export function distanceTable(cosmology: Cosmology, zs: readonly number[]): DistanceTable {
+export function distanceTable(cosmology: BackgroundCosmology, zs: readonly number[]): DistanceTable {
   const c = new FlatCosmology(cosmology);
   return {
     cosmology: cosmologyJsonOf(cosmology),

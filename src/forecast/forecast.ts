@@ -159,18 +159,18 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
   const grid = buildDensityGrid(survey, population, cosmo, edges);
   const parts = fisherParts(grid);
   if (!(parts.count > 0)) {
-    throw inputError('not_finite', survey.file, 'detection.limit', `no source of "${population.name}" is expected above the limit, so nothing can be measured`, 'choose a fainter limit or a larger area');
+    throw inputError('no_sources', survey.file, 'detection.limit', `no source of "${population.name}" is expected above the limit, so nothing can be measured`, 'choose a fainter limit or a larger area');
   }
   const poisson = summariseFisher(parts.matrix);
   if (!poisson) {
-    throw inputError('not_finite', survey.file, 'population', `the Fisher matrix of "${population.name}" is singular (${parts.count.toPrecision(3)} sources expected)`, 'choose a fainter limit or a larger area');
+    throw inputError('singular_fisher', survey.file, 'population', `the Fisher matrix of "${population.name}" is singular (${parts.count.toPrecision(3)} sources expected)`, 'choose a fainter limit or a larger area');
   }
   const cvWarnings: Warning[] = [];
   const fractions = cvSource ? cvSource(survey, edges, population, cvWarnings) : undefined;
   let withCv = poisson;
   if (fractions) {
     const s = summariseFisher(marginaliseNormalisations(parts.matrix, parts.slices, fractions));
-    if (!s) throw inputError('not_finite', survey.file, 'population', 'the Fisher matrix with cosmic variance is singular', 'check the survey');
+    if (!s) throw inputError('singular_fisher', survey.file, 'population', 'the Fisher matrix with cosmic variance is singular', 'check the survey');
     withCv = s;
   }
   const zMid = 0.5 * (population.window.min + population.window.max);

@@ -226,6 +226,6 @@ export function sigmasOf(fisher: number[][]): number[] | undefined {
 export function assertCounts(model: DesignModel, file: string): void {
   const v = model.tier(model.hoursRange[1], 1);
   if (!(v.count > 0)) {
-    throw inputError('not_finite', file, 'plan', `no source of "${model.population.name}" is expected even at the deepest exposure of the grid`, 'check the population, the window and plan.reference');
+    throw inputError('no_sources', file, 'plan', `no source of "${model.population.name}" is expected even at the deepest exposure of the grid`, 'check the population, the window and plan.reference');
   }
 }

@@ -300,5 +300,5 @@ function noFeasible(survey: Survey, spec: PlanSpec, designs: Evaluated[]): Error
   if (spec.minimumCount > 0 && most < spec.minimumCount) {
     return inputError('out_of_range', survey.file, 'plan.minimum_count', `is ${spec.minimumCount} but no design expects that many sources (the most is ${most.toPrecision(4)})`, 'lower minimum_count or raise budget_hours');
   }
-  return inputError('not_finite', survey.file, 'plan.goal', 'cannot be computed for any design (too few sources for a Fisher matrix)', 'raise budget_hours or choose the count goal');
+  return inputError('singular_fisher', survey.file, 'plan.goal', 'cannot be computed for any design (too few sources for a Fisher matrix)', 'raise budget_hours or choose the count goal');
 }

@@ -1,5 +1,6 @@
 /** Human table and CSV for a Prediction (predict command). */
 import Table from 'cli-table3';
+import type { BackgroundJsonShape } from '../model/cosmology-json.js';
 import type { Prediction, PredictionSlice, PredictionTotals } from '../counts/predict.js';
 import { sig, zText } from './format.js';
 import { csvText, type CsvCell } from './csv.js';
@@ -11,7 +12,7 @@ const LIMIT_HEADINGS: Record<string, string> = {
   absolute_magnitude: 'limit M [AB]',
 };
 
-export function cosmologyLine(c: Prediction['cosmology']): string {
+export function cosmologyLine(c: BackgroundJsonShape): string {
   const base = `flat Lambda-CDM, H0 = ${sig(c.h0)} km/s/Mpc, Omega_m = ${sig(c.omega_m)}, Omega_Lambda = ${sig(c.omega_lambda, 6)}, T_cmb = ${sig(c.t_cmb)} K`;
   return c.preset ? `${base} (preset ${c.preset}: ${c.preset_source})` : base;
 }

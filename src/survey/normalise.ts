@@ -6,7 +6,7 @@
  * together (survey-file.md), each failing with one SurveyError (code, file, key path, fix).
  */
 import { excerpt, inputError } from '../errors.js';
-import { COSMOLOGY_KEYS, PRESETS, cosmologyProblem, presetNamed, resolveCosmology } from '../cosmology/presets.js';
+import { resolveCosmology } from '../cosmology/parameters.js';
 import type { Completeness, Detection, DetectionKind, Filter, FilterProfile, IgmModel } from '../model/detection.js';
 import type { Cosmology } from '../model/cosmology.js';
 import type { InputFile, Survey } from '../model/survey.js';
@@ -135,36 +135,6 @@ function checkRange(v: number, range: Range, file: string, path: string, what = 
     outOfRange(file, path, `${what ? what + ' ' : ''}is ${fmt(v)}${range.unit ? ` ${range.unit}` : ''}, outside its physical range (${describeRange(range)})`, 'give a value in that range');
   }
   return v;
-}
-
-function resolveCosmologyChecked(raw: RawSurvey['cosmology'], file: string): Cosmology {
-  const names = Object.keys(PRESETS);
-  if (raw.preset !== undefined && presetNamed(raw.preset) === undefined) {
-    const near = suggest(raw.preset, names);
-    outOfRange(
-      file,
-      'cosmology.preset',
-      `"${excerpt(raw.preset)}" is not a known preset${near ? ` (did you mean ${near}?)` : ''}`,
-      `use one of ${names.join(', ')}, or give h0 and omega_m`,
-    );
-  }
-  for (const k of ['h0', 'omega_m'] as const) {
-    if (raw.preset === undefined && raw[k] === undefined) {
-      throw inputError('missing_key', file, `cosmology.${k}`, 'is missing', `give ${k} or name a preset (${names.join(', ')})`);
-    }
-  }
-  const c = resolveCosmology({
-    preset: raw.preset,
-    h0: raw.h0,
-    omegaM: raw.omega_m,
-    tCmb: raw.t_cmb,
-    omegaB: raw.omega_b,
-    sigma8: raw.sigma8,
-    nS: raw.n_s,
-  });
-  const problem = cosmologyProblem(c);
-  if (problem) outOfRange(file, `cosmology.${COSMOLOGY_KEYS[problem.parameter].key}`, problem.what, problem.fix);
-  return c;
 }
 
 /** A key that holds a plain number in its unit only (no unit string accepted beyond a bare number). */
@@ -425,7 +395,11 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   /** Files read on the way (transmission tables), with their identity. */
   const inputs: InputFile[] = [];
 
-  const cosmology = resolveCosmologyChecked(raw.cosmology, file);
+  const c = raw.cosmology;
+  const cosmology = resolveCosmology(
+    { preset: c.preset, h0: c.h0, omegaM: c.omega_m, tCmb: c.t_cmb, omegaB: c.omega_b, sigma8: c.sigma8, nS: c.n_s },
+    { kind: 'file', file },
+  );
 
   // Area.
   const areaDeg2 = parseQuantity(raw.area, 'area', file, 'area');

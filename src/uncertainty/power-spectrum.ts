@@ -240,19 +240,12 @@ export function sigmaSquaredTopHat(powerOfK: (k: number) => number, rMpc: number
 }
 
 /**
- * Build the linear power spectrum of one cosmology. Throws a RangeError for parameters outside
- * the fit's domain (omegaM in (0, 1], 0 < omegaB < omegaM, h0 > 0, sigma8 > 0, finite n_s).
+ * Build the linear power spectrum of one cosmology, as the cosmology factory made it
+ * (src/cosmology/parameters.ts: every parameter inside the fit's domain).
  */
 export function createLinearPower(cosmology: Cosmology, options: LinearPowerOptions = {}): LinearPower {
   const form: TransferForm = options.form ?? 'no_wiggle';
   const c = cosmology;
-  if (!(c.h0 > 0) || !Number.isFinite(c.h0)) throw new RangeError(`createLinearPower: h0 must be positive, got ${c.h0}`);
-  if (!(c.omegaM > 0 && c.omegaM <= 1)) throw new RangeError(`createLinearPower: omegaM must be in (0, 1], got ${c.omegaM}`);
-  if (!(c.omegaB > 0 && c.omegaB < c.omegaM))
-    throw new RangeError(`createLinearPower: omegaB must be positive and below omegaM, got ${c.omegaB}`);
-  if (!(c.sigma8 > 0) || !Number.isFinite(c.sigma8)) throw new RangeError(`createLinearPower: sigma8 must be positive, got ${c.sigma8}`);
-  if (!Number.isFinite(c.nS)) throw new RangeError(`createLinearPower: n_s must be finite, got ${c.nS}`);
-  if (!(c.tCmb >= 0) || !Number.isFinite(c.tCmb)) throw new RangeError(`createLinearPower: tCmb must be >= 0, got ${c.tCmb}`);
   if (form !== 'no_wiggle' && form !== 'full') throw new RangeError(`createLinearPower: unknown form ${String(form)}`);
 
   const p = eisensteinHuParameters(c);

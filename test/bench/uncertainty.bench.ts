@@ -1,5 +1,5 @@
 /** Benchmarks of the cosmic-variance physics (src/uncertainty). */
-import { resolveCosmology } from '../../src/cosmology/presets.js';
+import { resolveCosmology } from '../../src/cosmology/parameters.js';
 import { createHaloModel } from '../../src/uncertainty/haloes.js';
 import { createLinearPower } from '../../src/uncertainty/power-spectrum.js';
 import { boxSigma } from '../../src/uncertainty/window.js';

@@ -5,7 +5,7 @@
  */
 import { describe, expect, test } from 'vitest';
 import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
-import { resolveCosmology } from '../../src/cosmology/presets.js';
+import { resolveCosmology } from '../../src/cosmology/parameters.js';
 import { apparentMinusAbsolute, makeObserver } from '../../src/selection/observe.js';
 import { transmission, filterRedshiftWindow } from '../../src/selection/filter.js';
 import { MPC_CM, PC_CM, SPEED_OF_LIGHT_M_S } from '../../src/cosmology/constants.js';

@@ -16,7 +16,7 @@ import { describe, expect, test } from 'vitest';
 import { parse } from 'yaml';
 import { SurveyError } from '../../src/errors.js';
 import { compileExpression, loadSurveyFile, loadSurveyText, parseSurveyObject } from '../../src/survey/index.js';
-import { COSMOLOGY_RANGES, MAX_BARYON_FRACTION, resolveCosmology } from '../../src/cosmology/presets.js';
+import { COSMOLOGY_RANGES, MAX_BARYON_FRACTION, resolveCosmology } from '../../src/cosmology/parameters.js';
 import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import { createLinearPower } from '../../src/uncertainty/power-spectrum.js';
 import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH } from '../../src/model/limits.js';
@@ -94,8 +94,14 @@ describe('cosmology: every parameter checked once, at load, against its physical
     const d = (r: { min: number; max: number }) => fc.double({ min: r.min, max: r.max, noNaN: true });
     fc.assert(
       fc.property(d(R.h0), d(R.omegaM), fc.double({ min: 1e-6, max: MAX_BARYON_FRACTION, noNaN: true }), d(R.sigma8), d(R.nS), fc.constantFrom(0, 1, 2.7255, 10), (h0, omegaM, fb, sigma8, nS, tCmb) => {
-        const c = resolveCosmology({ h0, omegaM, omegaB: fb * omegaM, sigma8, nS, tCmb });
-        if (!(c.omegaLambda >= 0)) return; // refused at load: radiation beyond the critical density
+        let c;
+        try {
+          c = resolveCosmology({ h0, omegaM, omegaB: fb * omegaM, sigma8, nS, tCmb });
+        } catch (e) {
+          // the one combination refused inside the ranges: radiation beyond the critical density
+          expect(e).toMatchObject({ code: 'out_of_range', keyPath: 'cosmology.t_cmb' });
+          return;
+        }
         const cosmo = new FlatCosmology(c);
         for (const z of [0.01, 1, MAX_REDSHIFT]) {
           expect(Number.isFinite(cosmo.luminosityDistanceMpc(z))).toBe(true);

@@ -1,7 +1,7 @@
 /** Shared test cosmologies for test/uncertainty (the same three as test/reference/generate/power.py). */
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import { resolveCosmology } from '../../src/cosmology/presets.js';
+import { resolveCosmology } from '../../src/cosmology/parameters.js';
 import type { Cosmology } from '../../src/model/cosmology.js';
 
 export interface PowerFixtureCosmology {

@@ -1,6 +1,6 @@
 import type { CommandDef } from './types.js';
 import { addOutputOptions, outputOptions, parseKeyedList } from './common.js';
-import { addCosmologyOptions, cosmologyFromOptions, checkedCosmology } from './cosmology-options.js';
+import { addCosmologyOptions, cosmologyFromOptions } from './cosmology-options.js';
 import { Outputs, renderText } from '../io.js';
 import { inputError } from '../../errors.js';
 
@@ -39,7 +39,7 @@ export const clusteringCommand: CommandDef = {
     }
     const outputs = new Outputs(io, { out: out.out });
     if (typeof opts.survey === 'string') outputs.refuseInputs([opts.survey]);
-    const cosmology = checkedCosmology(await cosmologyFromOptions(opts, io, ['omegaB', 'sigma8', 'nS'], outputs));
+    const cosmology = await cosmologyFromOptions(opts, io, outputs);
     const { clusteringTable } = await import('../../uncertainty/table.js');
     const result = clusteringTable(cosmology, zs, radii, masses, opts.transfer);
     const { clusteringText, clusteringCsv } = await import('../../render/clustering-table.js');

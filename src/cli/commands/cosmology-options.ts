@@ -1,11 +1,11 @@
 /** Cosmology flags shared by `distances` and `clustering`: --h0 --omega-m --t-cmb --preset, or --survey FILE. */
 import type { Command } from 'commander';
-import type { Cosmology } from '../../model/cosmology.js';
+import type { BackgroundCosmology, Cosmology } from '../../model/cosmology.js';
 import type { InputFile } from '../../model/survey.js';
 import type { CliIO } from '../io.js';
 import { decimalNumber, loadSurveyArg } from './common.js';
 import { excerpt, inputError } from '../../errors.js';
-import { COSMOLOGY_KEYS, cosmologyProblem, PRESETS, presetNamed, resolveCosmology, type CosmologyInput } from '../../cosmology/presets.js';
+import { COSMOLOGY_KEYS, resolveBackground, resolveCosmology, type CosmologyInput } from '../../cosmology/parameters.js';
 
 export function addCosmologyOptions(cmd: Command): void {
   cmd
@@ -19,17 +19,16 @@ export function addCosmologyOptions(cmd: Command): void {
 type FlagKey = 'h0' | 'omegaM' | 'tCmb' | 'omegaB' | 'sigma8' | 'nS';
 
 /**
- * The cosmology of the flags (or of --survey FILE). `extra` names the further flags a command
- * declares (--omega-b, --sigma8, --n-s for `clustering`). Every value must be a decimal number;
- * the ranges are those of a survey file (src/cosmology/presets.ts COSMOLOGY_RANGES), checked by
- * `checkedCosmology`.
+ * The parameters the flags give (or the survey of --survey FILE). `extra` names the further flags
+ * a command declares (--omega-b, --sigma8, --n-s for `clustering`). Every value must be a decimal
+ * number; without a preset, h0 and omega_m default to 70 and 0.3.
  */
-export async function cosmologyFromOptions(
+async function cosmologyInput(
   opts: Record<string, unknown>,
   io: CliIO,
-  extra: FlagKey[] = [],
+  extra: FlagKey[],
   outputs?: { refuseInputs(inputs: readonly InputFile[]): void },
-): Promise<Cosmology> {
+): Promise<{ survey: Cosmology } | { flags: CosmologyInput }> {
   const flags: FlagKey[] = ['h0', 'omegaM', 'tCmb', ...extra];
   const given = [...flags, 'preset'].filter((k) => opts[k] !== undefined);
   if (typeof opts.survey === 'string') {
@@ -39,14 +38,10 @@ export async function cosmologyFromOptions(
     const survey = await loadSurveyArg(io, opts.survey);
     // every file the survey read (its filter tables too) is an input no output may replace
     outputs?.refuseInputs(survey.inputs ?? []);
-    return survey.cosmology;
-  }
-  const preset = typeof opts.preset === 'string' ? opts.preset : undefined;
-  if (preset !== undefined && presetNamed(preset) === undefined) {
-    throw inputError('bad_option', '', '--preset', `unknown preset "${excerpt(preset)}"`, `use one of ${Object.keys(PRESETS).join(', ')}`);
+    return { survey: survey.cosmology };
   }
   const input: CosmologyInput = {};
-  if (preset !== undefined) input.preset = preset;
+  if (typeof opts.preset === 'string') input.preset = opts.preset;
   for (const k of flags) {
     if (opts[k] === undefined) continue;
     const text = String(opts[k]);
@@ -55,20 +50,29 @@ export async function cosmologyFromOptions(
     if (v === undefined) throw inputError('bad_option', '', flag, `"${excerpt(text)}" is not a decimal number`, `give ${flag} a number such as ${k === 'h0' ? 70 : k === 'tCmb' ? 2.7255 : 0.3}`);
     input[k] = v;
   }
-  if (preset === undefined) {
+  if (input.preset === undefined) {
     input.h0 ??= 70;
     input.omegaM ??= 0.3;
   }
-  // distances and times need only h0, omega_m and t_cmb; the power spectrum needs the rest
-  return checkedCosmology(resolveCosmology(input), extra.length === 0);
+  return { flags: input };
 }
 
-/**
- * Refuse (exit 2, naming the flag) a cosmology outside the physical ranges of a survey file
- * (with `distancesOnly`, only h0, omega_m and t_cmb are checked).
- */
-export function checkedCosmology(c: Cosmology, distancesOnly = false): Cosmology {
-  const problem = cosmologyProblem(c, distancesOnly);
-  if (problem) throw inputError('bad_option', '', COSMOLOGY_KEYS[problem.parameter].flag, problem.what, problem.fix);
-  return c;
+/** The background cosmology of the flags (h0, omega_m, t_cmb, --preset) or of --survey FILE, for `distances`. */
+export async function backgroundFromOptions(
+  opts: Record<string, unknown>,
+  io: CliIO,
+  outputs?: { refuseInputs(inputs: readonly InputFile[]): void },
+): Promise<BackgroundCosmology> {
+  const given = await cosmologyInput(opts, io, [], outputs);
+  return 'survey' in given ? given.survey : resolveBackground(given.flags, { kind: 'flags' });
+}
+
+/** The whole cosmology of the flags (with --omega-b, --sigma8, --n-s) or of --survey FILE, for `clustering`. */
+export async function cosmologyFromOptions(
+  opts: Record<string, unknown>,
+  io: CliIO,
+  outputs?: { refuseInputs(inputs: readonly InputFile[]): void },
+): Promise<Cosmology> {
+  const given = await cosmologyInput(opts, io, ['omegaB', 'sigma8', 'nS'], outputs);
+  return 'survey' in given ? given.survey : resolveCosmology(given.flags, { kind: 'flags' });
 }

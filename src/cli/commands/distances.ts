@@ -1,6 +1,6 @@
 import type { CommandDef } from './types.js';
 import { addOutputOptions, outputOptions, parseNumberList } from './common.js';
-import { addCosmologyOptions, cosmologyFromOptions } from './cosmology-options.js';
+import { addCosmologyOptions, backgroundFromOptions } from './cosmology-options.js';
 import { Outputs, renderText } from '../io.js';
 
 /** Highest redshift `distances` tabulates (far beyond the last scattering surface at z ~ 1100). */
@@ -20,7 +20,7 @@ export const distancesCommand: CommandDef = {
     const zs = parseNumberList(String(opts.z), '--z', { min: 0, max: MAX_DISTANCE_Z });
     const outputs = new Outputs(io, { out: out.out });
     if (typeof opts.survey === 'string') outputs.refuseInputs([opts.survey]);
-    const cosmology = await cosmologyFromOptions(opts, io, [], outputs);
+    const cosmology = await backgroundFromOptions(opts, io, outputs);
     const { distanceTable } = await import('../../cosmology/table.js');
     const result = distanceTable(cosmology, zs);
     const { distancesText, distancesCsv } = await import('../../render/distances-table.js');
