@@ -1,28 +1,8 @@
-/** The rows of the `distances` command (outputs.md, "distances"). */
+/** The rows of the `distances` command (specs/distances.schema.json). */
 import type { BackgroundCosmology } from '../model/cosmology.js';
 import { FlatCosmology } from './flat-cosmology.js';
-import { cosmologyJsonOf, type BackgroundJsonShape } from '../model/cosmology-json.js';
-import type { Warning } from '../warnings.js';
-
-export interface DistanceRow {
-  z: number;
-  comoving_distance_mpc: number;
-  luminosity_distance_mpc: number;
-  angular_diameter_distance_mpc: number;
-  /** Undefined (omitted) where D_L is 0 (z = 0, or a z so small that D_L underflows): -infinity there. */
-  distance_modulus?: number;
-  volume_element_mpc3_sr: number;
-  comoving_volume_gpc3: number;
-  lookback_time_gyr: number;
-  age_gyr: number;
-}
-
-export interface DistanceTable {
-  cosmology: BackgroundJsonShape;
-  rows: DistanceRow[];
-  /** As in every output (src/warnings.ts); none is raised here yet. */
-  warnings: Warning[];
-}
+import { cosmologyJsonOf } from '../model/cosmology-json.js';
+import type { DistanceRow, DistanceTable } from '../model/outputs/distances.js';
 
 export function distanceTable(cosmology: BackgroundCosmology, zs: readonly number[]): DistanceTable {
   const c = new FlatCosmology(cosmology);

@@ -22,7 +22,20 @@ import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { countPopulation, type Histogram, type SliceCount } from './engine.js';
-import { cosmologyJsonOf, type CosmologyJsonShape } from '../model/cosmology-json.js';
+import { cosmologyJsonOf } from '../model/cosmology-json.js';
+import type {
+  LineFluxDetectionBlock,
+  LuminosityDensity,
+  MagnitudeDetectionBlock,
+  ObservedBin,
+  ObservedBins,
+  PopulationPrediction,
+  Prediction,
+  PredictionBase,
+  PredictionSlice,
+  PredictionTotals,
+  SfrDensity,
+} from '../model/outputs/prediction.js';
 import {
   combinedUncertainty,
   totalUncertainty,
@@ -32,154 +45,35 @@ import {
   type UncertaintyJson,
   type UncertaintyMemo,
 } from '../uncertainty/prediction.js';
-import { describeModel, type ModelDescription } from '../population/describe.js';
+import { describeModel } from '../population/describe.js';
 import { bandRedEdgeAngstrom, LYMAN_ALPHA_ANGSTROM } from '../selection/igm.js';
 import { mergeWarnings, warning, type Warning } from '../warnings.js';
 import { surveyWarnings } from '../population/warnings.js';
 
-/** Luminosity density of a slice or a window (volume-averaged over it). */
-export interface LuminosityDensity {
-  /** erg s^-1 Mpc^-3 (line luminosity), erg s^-1 Hz^-1 Mpc^-3 (magnitude variable, at the rest wavelength), or "<quantity> Mpc^-3". */
-  unit: string;
-  /** Of the detected sources (completeness-weighted). */
-  detected: number;
-  /** Of all sources, j = phi* L* Gamma(alpha+2) summed over components; absent when some alpha <= -2. */
-  total?: number;
-  /** detected / total, when total is given and above 0. */
-  fraction?: number;
-  /** Why total and fraction are absent. */
-  note?: string;
-}
-
-export interface SfrDensity {
-  detected: number;
-  total?: number;
-}
-
-export interface PredictionSlice {
-  z_min: number;
-  z_max: number;
-  volume_mpc3: number;
-  count: number;
-  per_deg2: number;
-  cumulative_count: number;
-  limit_at_center: number;
-  histogram: Histogram;
-  /** Absent only for a slice with no expected source. */
-  uncertainty?: UncertaintyJson;
-  luminosity_density?: LuminosityDensity;
-  sfr_density_msun_yr_mpc3?: SfrDensity;
-  /** Top-level slices of several populations: each population's count inside the slice. */
-  population_counts?: Record<string, number>;
-}
-
-export interface PredictionTotals {
-  count: number;
-  per_deg2: number;
-  volume_mpc3: number;
-  uncertainty?: UncertaintyJson;
-  /** Count-weighted mean redshift of the detected sources (the total's boxes are placed by it). */
-  mean_redshift?: number;
-  luminosity_density?: LuminosityDensity;
-  sfr_density_msun_yr_mpc3?: SfrDensity;
-}
-
-export interface PopulationPrediction {
-  name: string;
-  model: ModelDescription;
-  /** The population's whole window; its slices cover it unless the file gives edges. */
-  window: { min: number; max: number };
-  totals: PredictionTotals;
-  slices: PredictionSlice[];
-}
-
-/** One bin of the observed value: the detections of every population in it. */
-export interface ObservedBin {
-  min: number;
-  max: number;
-  count: number;
-  per_deg2: number;
-  /** Each population's count in the bin and its share of the bin's count (0 in an empty bin). */
-  populations: Record<string, { count: number; share: number }>;
-}
-
-/** Per bin of the observed value, over every population's own window; the bins sum to the total. */
-export interface ObservedBins {
-  /** The histogram variable: apparent_magnitude, log10_line_flux, log10_quantity or absolute_magnitude. */
-  variable: string;
-  width: number;
-  bins: ObservedBin[];
-}
-
-export type CosmologyJson = CosmologyJsonShape;
-
-interface PredictionBase {
-  format: 1;
-  title: string;
-  cosmology: CosmologyJson;
-  area_deg2: number;
-  /**
-   * The redshifts counted: the common window (breakdown "redshift"), or from the lowest to the
-   * highest population window (breakdown "observed"; each population's own under populations).
-   */
-  redshift: { min: number; max: number };
-  detection: Record<string, unknown>;
-  /** The assumed model of every population, as written and as evaluated at the window's middle. */
-  models: ModelDescription[];
-  /** Which variable the limits are in: "log10_luminosity" | "log10_quantity" | "absolute_magnitude". */
-  limit_variable: string;
-  /** Everything detected: the sum over populations, each over its own window. */
-  totals: PredictionTotals;
-  populations: PopulationPrediction[];
-  observed_bins: ObservedBins;
-  /** Things the reader should know (also printed on stderr by the CLI); see src/warnings.ts. */
-  warnings: Warning[];
-}
-
-/** Every population counted over the same redshifts: the top level is broken down by redshift slice. */
-export interface RedshiftBreakdown {
-  breakdown: 'redshift';
-  /** Redshift slices holding the sum over populations; they sum to the totals. */
-  slices: PredictionSlice[];
-}
-
-/** The populations' windows differ: the top level is broken down by observed value (observed_bins). */
-export interface ObservedBreakdown {
-  breakdown: 'observed';
-  slices?: undefined;
-}
-
-export type Prediction = PredictionBase & (RedshiftBreakdown | ObservedBreakdown);
-
-export function cosmologyJson(survey: Survey): CosmologyJson {
-  return cosmologyJsonOf(survey.cosmology);
-}
-
-export function detectionJson(survey: Survey): Record<string, unknown> {
+/** The detection block of the prediction: the survey's detection in the outputs' names and units. */
+export function detectionJson(survey: Survey): PredictionBase['detection'] {
   const d = survey.detection;
-  const base: Record<string, unknown> = { kind: d.kind };
+  let out: PredictionBase['detection'];
   if (d.kind === 'line_flux') {
-    base.limit_cgs = d.limitCgs;
-    if (d.lineAngstrom !== undefined) base.line_angstrom = d.lineAngstrom;
+    const b: LineFluxDetectionBlock = { kind: 'line_flux', limit_cgs: d.limitCgs };
+    if (d.lineAngstrom !== undefined) b.line_angstrom = d.lineAngstrom;
     if (d.filter) {
-      const f: Record<string, unknown> = { center_angstrom: d.filter.centerAngstrom, fwhm_angstrom: d.filter.fwhmAngstrom, profile: d.filter.profile };
-      if (d.filter.table) f.file = d.filter.table.file;
-      base.filter = f;
+      b.filter = { center_angstrom: d.filter.centerAngstrom, fwhm_angstrom: d.filter.fwhmAngstrom, profile: d.filter.profile };
+      if (d.filter.table) b.filter.file = d.filter.table.file;
     }
+    out = b;
   } else if (d.kind === 'magnitude') {
-    base.limit_ab_mag = d.limitMag;
-    base.band_angstrom = d.bandAngstrom;
-    if (d.bandTable) base.band_file = d.bandTable.file;
-    base.beta = d.beta;
-    base.igm = d.igm;
+    const b: MagnitudeDetectionBlock = { kind: 'magnitude', limit_ab_mag: d.limitMag, band_angstrom: d.bandAngstrom, beta: d.beta, igm: d.igm };
+    if (d.bandTable) b.band_file = d.bandTable.file;
+    out = b;
   } else {
-    base.limit = d.limit.source;
+    out = { kind: 'threshold', limit: d.limit.source };
   }
-  if (d.completeness) base.completeness = d.completeness;
-  return base;
+  if (d.completeness) out.completeness = d.completeness;
+  return out;
 }
 
-function limitVariable(survey: Survey, p: Population): string {
+function limitVariable(survey: Survey, p: Population): PredictionBase['limit_variable'] {
   if (p.variable === 'magnitude') return 'absolute_magnitude';
   return survey.detection.kind === 'threshold' ? 'log10_quantity' : 'log10_luminosity';
 }
@@ -527,7 +421,7 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
   const head = {
     format: 1 as const,
     title: survey.title,
-    cosmology: cosmologyJson(survey),
+    cosmology: cosmologyJsonOf(survey.cosmology),
     area_deg2: survey.areaDeg2,
     redshift: coincide
       ? { min: r0[0]!.zMin, max: r0[r0.length - 1]!.zMax }

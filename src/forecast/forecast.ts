@@ -10,7 +10,8 @@
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
-import { describeModel, type ModelDescription } from '../population/describe.js';
+import { describeModel } from '../population/describe.js';
+import type { FisherBlock, Forecast, ForecastSlice, MockParameterSummary } from '../model/outputs/forecast.js';
 import { choosePopulation, surveyForPopulation } from '../model/select.js';
 import { inputError } from '../errors.js';
 import { buildDensityGrid } from './grid.js';
@@ -19,7 +20,7 @@ import { parameterNames, parameterValuesAt, type ParameterName } from './paramet
 import { cosmicVarianceInput, type CosmicVarianceSource } from './cosmic-variance-input.js';
 import { makeMockSetup, runMocks } from './mocks.js';
 import type { Estimator } from './fit.js';
-import { requirement, type Requirement } from './requirement.js';
+import { requirement } from './requirement.js';
 import { mergeWarnings, type Warning } from '../warnings.js';
 import { surveyWarnings } from '../population/warnings.js';
 import { predictionWarnings } from '../counts/predict.js';
@@ -44,70 +45,6 @@ export interface ForecastOptions {
   /** Keep every converged mock fit in `mocks.fits` (the report scatters them; default false). */
   keepFits?: boolean;
   onProgress?: (done: number, total: number) => void;
-}
-
-export interface FisherBlock {
-  sigma: Record<string, number>;
-  correlation: number[][];
-  covariance: number[][];
-}
-
-export interface MockParameterSummary {
-  mean: number;
-  std: number;
-  p16: number;
-  p50: number;
-  p84: number;
-  /** mean - input */
-  bias: number;
-  /** (mean - input) / (std / sqrt(fits)) */
-  bias_in_standard_errors: number;
-}
-
-export interface MocksBlock {
-  count: number;
-  seed: number;
-  estimator: 'extended_likelihood' | 'sty';
-  parameters: Record<string, MockParameterSummary>;
-  /** Parameters the estimator does not constrain (phi* for sty). */
-  not_constrained: string[];
-  failed_fits: number;
-  mean_sources: number;
-  notes: string[];
-  /**
-   * With keepFits: one row per converged mock fit, columns in the order of `parameters`
-   * (fitted values, not offsets); null in a column the estimator does not constrain.
-   */
-  fits?: (number | null)[][];
-}
-
-export interface ForecastSlice {
-  z_min: number;
-  z_max: number;
-  count: number;
-  cosmic_variance_fraction?: number;
-}
-
-export interface Forecast {
-  format: 1;
-  title: string;
-  model: ModelDescription;
-  caveat: string;
-  area_deg2: number;
-  redshift: { min: number; max: number };
-  parameters: ParameterName[];
-  /** Input value of each parameter at the middle of the population's window. */
-  center: Record<string, number>;
-  count: number;
-  cosmic_variance: boolean;
-  slices: ForecastSlice[];
-  fisher: FisherBlock;
-  covariance: number[][];
-  fisher_poisson_only: FisherBlock;
-  mocks?: MocksBlock;
-  requirement?: Requirement;
-  /** See src/warnings.ts. */
-  warnings: Warning[];
 }
 
 function block(names: readonly string[], s: FisherSummary): FisherBlock {

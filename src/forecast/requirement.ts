@@ -23,29 +23,8 @@ import { buildDensityGrid } from './grid.js';
 import { fisherParts, marginaliseNormalisations, summariseFisher, type FisherParts } from './fisher.js';
 import type { CosmicVarianceSource } from './cosmic-variance-input.js';
 import type { ParameterName } from './parameters.js';
+import type { Requirement, RequirementEntry } from '../model/outputs/forecast.js';
 
-
-export interface RequirementEntry {
-  target: number;
-  /** Area (deg^2) that reaches the target at the survey's depth; null when it cannot. */
-  area_deg2: number | null;
-  /** Limit that reaches the target at the survey's area (in limit_variable); null when it cannot. */
-  limit: number | null;
-  /** One sentence for each null (and for noteworthy cases). */
-  notes: string[];
-}
-
-export interface Requirement {
-  target: Record<string, number>;
-  /** The area that reaches every target (the largest of the areas); null if any target cannot be reached by area. */
-  area_deg2: number | null;
-  /** The limit that reaches every target (the deepest); null if any cannot. */
-  limit: number | null;
-  limit_variable: 'line_flux_cgs' | 'apparent_magnitude' | 'log10_quantity' | 'absolute_magnitude';
-  by_parameter: Record<string, RequirementEntry>;
-  search: { area_deg2: [number, number]; limit: [number, number] };
-  notes: string[];
-}
 
 export interface RequirementContext {
   survey: Survey;

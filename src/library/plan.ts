@@ -6,9 +6,10 @@
 import type { Survey } from '../model/survey.js';
 import { choosePopulation } from '../model/select.js';
 import { readPlanSection } from '../survey/plan-section.js';
-import { planDesigns, type PlanJson, type PlanOptions } from '../planning/plan.js';
+import { planDesigns, type PlanOptions } from '../planning/plan.js';
+import type { Plan } from '../model/outputs/plan.js';
 
-export async function plan(survey: Survey, opts: PlanOptions = {}): Promise<PlanJson> {
+export async function plan(survey: Survey, opts: PlanOptions = {}): Promise<Plan> {
   const population = choosePopulation(survey, opts.population);
   return planDesigns(survey, population, readPlanSection(survey, population), opts);
 }

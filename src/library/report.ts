@@ -9,15 +9,14 @@ import { basename } from 'node:path';
 import { SurveyError } from '../errors.js';
 import type { Survey } from '../model/survey.js';
 import type { UncertaintyMemo } from '../uncertainty/prediction.js';
-import type { Prediction } from '../counts/predict.js';
-import type { Figure, ForecastJson, PlanJson } from '../render/types.js';
-import type { ForecastResultLike, PlanResultLike } from '../render/adapt.js';
+import type { Prediction } from '../model/outputs/prediction.js';
+import type { Forecast } from '../model/outputs/forecast.js';
+import type { Plan } from '../model/outputs/plan.js';
+import type { OmittedSection, ReportJson } from '../model/outputs/report.js';
+import type { Figure } from '../render/types.js';
 import { mergeWarnings, type Warning } from '../warnings.js';
 
-/** A section that does not apply to this survey, and the one sentence that says why. */
-export interface OmittedSection {
-  omitted: string;
-}
+export type { OmittedSection };
 
 export type SectionResult<T> = T | OmittedSection | undefined;
 
@@ -25,27 +24,17 @@ export function isOmitted(x: unknown): x is OmittedSection {
   return typeof x === 'object' && x !== null && typeof (x as { omitted?: unknown }).omitted === 'string';
 }
 
-/** What a section result may carry besides the fields the report draws and tabulates. */
-interface WithWarnings {
-  warnings?: readonly Warning[];
-}
-
-/** A forecast result (src/forecast/forecast.ts `Forecast`), as far as the report reads it. */
-export type ForecastSection = ForecastResultLike & WithWarnings & Record<string, unknown>;
-/** A plan result (src/planning/plan.ts `PlanJson`), as far as the report reads it. */
-export type PlanSection = PlanResultLike & WithWarnings & Record<string, unknown>;
-
 /**
  * The forecast and plan sections: hooks that take the survey and return the result of the
- * forecast or plan (as the `forecast` and `plan` commands compute it; the report adapts it for
- * its figures and tables with src/render/adapt.ts and writes it whole in its JSON form),
+ * forecast or plan (as the `forecast` and `plan` commands compute it; the report draws and
+ * tabulates it, and writes it whole in its JSON form),
  * `{omitted: sentence}` when the section cannot be computed for this survey (the report says why
  * instead), or undefined when it does not apply. `plan` is called only when the survey file has
  * a `plan:` section.
  */
 export interface ReportSections {
-  forecast?(survey: Survey, shared?: SharedResults): Promise<SectionResult<ForecastSection>>;
-  plan?(survey: Survey, shared?: SharedResults): Promise<SectionResult<PlanSection>>;
+  forecast?(survey: Survey, shared?: SharedResults): Promise<SectionResult<Forecast>>;
+  plan?(survey: Survey, shared?: SharedResults): Promise<SectionResult<Plan>>;
 }
 
 /** What the report's prediction computed that a section may reuse instead of computing again. */
@@ -117,7 +106,7 @@ export function reportSections(opts: SectionOptions = {}): ReportSections {
       } catch (e) {
         return computeFailure('forecast', e);
       }
-      return result as unknown as ForecastSection;
+      return result;
     },
     plan: async (survey) => {
       const { planDesigns } = await import('../planning/plan.js');
@@ -143,7 +132,7 @@ export function reportSections(opts: SectionOptions = {}): ReportSections {
       } catch (e) {
         return computeFailure('plan', e);
       }
-      return result as unknown as PlanSection;
+      return result;
     },
   };
 }
@@ -159,20 +148,9 @@ export interface ReportResults {
   file: string;
   survey: Survey;
   prediction: Prediction;
-  forecast: SectionResult<ForecastSection>;
-  plan: SectionResult<PlanSection>;
+  forecast: SectionResult<Forecast>;
+  plan: SectionResult<Plan>;
   /** Every section's warnings, each once. */
-  warnings: Warning[];
-}
-
-/** The JSON form of the report (specs/report.schema.json). */
-export interface ReportJson {
-  format: 1;
-  title: string;
-  survey_file: string;
-  prediction: Prediction;
-  forecast: ForecastSection | OmittedSection;
-  plan?: PlanSection | OmittedSection;
   warnings: Warning[];
 }
 
@@ -184,16 +162,16 @@ export async function computeReport(file: string, survey: Survey, sections: Repo
   const prediction = predict(survey, { uncertaintyMemo: shared.uncertaintyMemo! });
   const forecast = sections.forecast ? await sections.forecast(survey, shared) : undefined;
   const plan = sections.plan && hasPlanSection(survey) ? await sections.plan(survey, shared) : undefined;
-  const sectionWarnings = (x: SectionResult<WithWarnings>) => (x && !isOmitted(x) ? x.warnings : undefined);
+  const sectionWarnings = (x: SectionResult<Forecast | Plan>) => (x && !isOmitted(x) ? x.warnings : undefined);
   const warnings = mergeWarnings(prediction.warnings, sectionWarnings(forecast), sectionWarnings(plan));
   return { file, survey, prediction, forecast, plan, warnings };
 }
 
-/** The results as one JSON document; the forecast's per-mock fits (kept for the figure) are left out. */
+/** The results as one JSON document (specs/report.schema.json); the forecast's per-mock fits (kept for the figure) are left out. */
 export function reportJson(r: ReportResults): ReportJson {
-  const forecast: ForecastSection | OmittedSection = r.forecast ?? { omitted: 'No forecast: none was asked for.' };
+  const forecast: Forecast | OmittedSection = r.forecast ?? { omitted: 'No forecast: none was asked for.' };
   let shownForecast = forecast;
-  if (!isOmitted(forecast) && forecast.mocks && 'fits' in forecast.mocks) {
+  if (!isOmitted(forecast) && forecast.mocks?.fits) {
     const { fits: _fits, ...mocks } = forecast.mocks;
     shownForecast = { ...forecast, mocks };
   }
@@ -209,18 +187,18 @@ export function reportJson(r: ReportResults): ReportJson {
   return out;
 }
 
+/** The forecast and plan results the figures and tables draw (none for an omitted section). */
+function drawnSections(r: ReportResults): { forecast?: Forecast; plan?: Plan } {
+  const extra: { forecast?: Forecast; plan?: Plan } = {};
+  if (r.forecast && !isOmitted(r.forecast)) extra.forecast = r.forecast;
+  if (r.plan && !isOmitted(r.plan)) extra.plan = r.plan;
+  return extra;
+}
+
 /** Draw every figure of the results. */
 export async function reportFigures(r: ReportResults): Promise<Figure[]> {
   const { drawFigures } = await import('../render/draw.js');
-  return drawFigures(r.survey, r.prediction, await figureInputs(r));
-}
-
-async function figureInputs(r: ReportResults): Promise<{ forecast?: ForecastJson; plan?: PlanJson }> {
-  const { forecastForFigures, planForFigures } = await import('../render/adapt.js');
-  const extra: { forecast?: ForecastJson; plan?: PlanJson } = {};
-  if (r.forecast && !isOmitted(r.forecast)) extra.forecast = forecastForFigures(r.forecast);
-  if (r.plan && !isOmitted(r.plan)) extra.plan = planForFigures(r.plan);
-  return extra;
+  return drawFigures(r.survey, r.prediction, drawnSections(r));
 }
 
 /** The HTML document of the results (figures already drawn). */
@@ -228,13 +206,12 @@ export async function reportHtml(r: ReportResults, surveyText: string, figures: 
   const { predictionViews } = await import('../render/draw.js');
   const { renderReport } = await import('../render/report.js');
   const { combined } = predictionViews(r.survey, r.prediction);
-  const extra = await figureInputs(r);
   return renderReport({
     surveyText,
     surveyTitle: r.survey.title,
     surveyFile: basename(r.file),
     prediction: combined,
-    ...extra,
+    ...drawnSections(r),
     ...(isOmitted(r.forecast) ? { forecastOmitted: r.forecast.omitted } : {}),
     ...(isOmitted(r.plan) ? { planOmitted: r.plan.omitted } : {}),
     warnings: r.warnings,
@@ -242,14 +219,18 @@ export async function reportHtml(r: ReportResults, surveyText: string, figures: 
   });
 }
 
-/** Build the whole report document for a survey file (as written) and its loaded survey. */
-export async function buildReport(
-  file: string,
-  surveyText: string,
-  survey: Survey,
-  sections: ReportSections = {},
-): Promise<{ html: string; figures: Figure[]; results: ReportResults }> {
-  const results = await computeReport(file, survey, sections);
+export interface BuildReportOptions extends SectionOptions {
+  /** The survey file as written, shown in the report (default: the file the survey was loaded from, as read by the loader). */
+  surveyText?: string;
+}
+
+/**
+ * The whole report of a survey as one self-contained HTML document: predict, the forecast (with
+ * `mocks` mock surveys), the plan of a plan file, every figure and the file as written.
+ */
+export async function buildReport(survey: Survey, options: BuildReportOptions = {}): Promise<{ html: string; figures: Figure[]; results: ReportResults }> {
+  const results = await computeReport(survey.file, survey, reportSections(options));
   const figures = await reportFigures(results);
+  const surveyText = options.surveyText ?? (survey.file ? (await import('../survey/load.js')).readSurveyText(survey.file).text : '');
   return { html: await reportHtml(results, surveyText, figures), figures, results };
 }

@@ -12,7 +12,8 @@ import type { Survey } from '../model/survey.js';
 import { predict } from '../counts/predict.js';
 import { forecast } from '../forecast/forecast.js';
 import { buildDensityGrid, sliceCount } from '../forecast/grid.js';
-import { describeModel, type ModelDescription } from '../population/describe.js';
+import { describeModel } from '../population/describe.js';
+import type { ComparedSurvey, Comparison } from '../model/outputs/compare.js';
 import { choosePopulation, surveyForPopulation } from '../model/select.js';
 import { faintCount } from './tables.js';
 import { warning, mergeWarnings, type Warning } from '../warnings.js';
@@ -23,26 +24,7 @@ export const TIE_RELATIVE = 1e-9;
 export const COMPARE_CAVEAT =
   'Counts and sigmas are only as good as the luminosity functions assumed: each column holds if its population follows the model in its file.';
 
-export type LimitVariable = 'apparent_magnitude' | 'line_flux_cgs' | 'log10_quantity' | 'absolute_magnitude';
-
-export interface CompareSurvey {
-  title: string;
-  file: string;
-  population: string;
-  model: ModelDescription;
-  area_deg2: number;
-  redshift: { min: number; max: number };
-  limit: number | string;
-  limit_variable: LimitVariable;
-  count: number;
-  per_deg2: number;
-  faint_count: number;
-  poisson_fraction: number;
-  cosmic_variance_fraction: number;
-  sigma: Record<string, number>;
-  exposure_hours?: number;
-  count_per_hour?: number;
-}
+export type LimitVariable = ComparedSurvey['limit_variable'];
 
 /** Rows that have a best value, and which way is better. */
 export const COMPARE_ROWS: { row: string; better: 'higher' | 'lower' }[] = [
@@ -56,18 +38,6 @@ export const COMPARE_ROWS: { row: string; better: 'higher' | 'lower' }[] = [
   { row: 'exposure_hours', better: 'lower' },
   { row: 'count_per_hour', better: 'higher' },
 ];
-
-export interface CompareJson {
-  format: 1;
-  cosmic_variance: boolean;
-  caveat: string;
-  surveys: CompareSurvey[];
-  /** Row name (sigma rows as "sigma.NAME") -> indices of the surveys with the best value (several when they tie). */
-  best: Record<string, number[]>;
-  notes: string[];
-  /** Each survey's warnings, the message prefixed with "[n] " (its column). See src/warnings.ts. */
-  warnings: Warning[];
-}
 
 export interface CompareOptions {
   population?: string;
@@ -95,9 +65,9 @@ function depthOf(v: LimitVariable, x: number): number {
   return v === 'apparent_magnitude' || v === 'absolute_magnitude' ? x : -x;
 }
 
-export async function compare(surveys: Survey[], opts: CompareOptions = {}): Promise<CompareJson> {
+export async function compare(surveys: Survey[], opts: CompareOptions = {}): Promise<Comparison> {
   const useCv = opts.cosmicVariance !== false;
-  const out: CompareSurvey[] = [];
+  const out: ComparedSurvey[] = [];
   const warnings: Warning[][] = [];
   for (const [i, file] of surveys.entries()) {
     const population = choosePopulation(file, opts.population);
@@ -109,7 +79,7 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
     warnings.push(mergeWarnings(pred.warnings, f.warnings).map((w) => warning(w.code, `[${i + 1}] ${w.message}`)));
     const lim = limitOf(survey, population);
     const u = own.totals.uncertainty;
-    const row: CompareSurvey = {
+    const row: ComparedSurvey = {
       title: survey.title,
       file: survey.file,
       population: population.name,

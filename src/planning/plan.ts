@@ -6,7 +6,8 @@
  */
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
-import { describeModel, type ModelDescription } from '../population/describe.js';
+import { describeModel } from '../population/describe.js';
+import type { Plan, PlanDesign } from '../model/outputs/plan.js';
 import { inputError } from '../errors.js';
 import type { PlanSpec } from '../model/plan.js';
 import { parameterNames } from '../model/population.js';
@@ -31,67 +32,14 @@ export interface PlanOptions {
   onProgress?: (stage: string, done: number, total: number) => void;
 }
 
-export interface TierJson {
-  budget_fraction: number;
-  exposure_hours_per_pointing: number;
-  pointings: number;
-  area_deg2: number;
-  limit: number;
-  count: number;
-}
-
-export interface DesignJson {
-  exposure_hours_per_pointing: number;
-  pointings: number;
-  area_deg2: number;
-  limit: number;
-  count: number;
-  faint_count: number;
-  goal_value: number;
-  hours_used: number;
-  meets_minimum_count: boolean;
-  sigma?: Record<string, number>;
-  tiers?: TierJson[];
-}
-
-export interface PlanJson {
-  format: 1;
-  title: string;
-  population: string;
-  model: ModelDescription;
-  caveat: string;
-  goal: 'count' | 'faint_count' | { sigma: string };
-  goal_direction: 'maximise' | 'minimise';
-  budget_hours: number;
-  overhead_hours: number;
-  field_of_view_deg2: number;
-  limit_variable: 'apparent_magnitude' | 'line_flux_cgs';
-  depth_law: { kind: 'background' | 'source'; reference_limit: number; reference_exposure_hours: number } | { kind: 'table'; table: [number, number][] };
-  cosmic_variance: boolean;
-  minimum_count: number;
-  exposure_grid: { min_hours: number; max_hours: number; count: number };
-  tiers: number;
-  fixed?: { area_deg2: number } | { limit: number };
-  budget_fractions?: number[][];
-  designs: DesignJson[];
-  best: DesignJson;
-  /** Grid designs next to the best (two on each side, single-tier plans). */
-  neighbours: DesignJson[];
-  near_best: { tolerance: number; from: DesignJson; to: DesignJson; designs_within: number; contiguous: boolean };
-  refinement: { method: string; grid_best: DesignJson; improved: boolean };
-  notes: string[];
-  /** See src/warnings.ts. */
-  warnings: Warning[];
-}
-
 function finite(x: number, what: string): number {
   if (!Number.isFinite(x)) throw new Error(`internal: ${what} is not finite`);
   return x;
 }
 
-function designJson(e: Evaluated, names: string[], goal: PlanSpec['goal']): DesignJson {
+function designJson(e: Evaluated, names: string[], goal: PlanSpec['goal']): PlanDesign {
   const deepest = e.tiers.reduce((a, t) => (t.hours > a.hours ? t : a), e.tiers[0]!);
-  const d: DesignJson = {
+  const d: PlanDesign = {
     exposure_hours_per_pointing: deepest.hours,
     pointings: e.tiers.reduce((a, t) => a + t.pointings, 0),
     area_deg2: e.tiers.reduce((a, t) => a + t.areaDeg2, 0),
@@ -126,7 +74,7 @@ function designJson(e: Evaluated, names: string[], goal: PlanSpec['goal']): Desi
  * The designs of `spec` for `population` of the survey `file` (a single Schechter population:
  * see choosePopulation in src/forecast/forecast.ts).
  */
-export async function planDesigns(file: Survey, population: Population, spec: PlanSpec, opts: PlanOptions = {}): Promise<PlanJson> {
+export async function planDesigns(file: Survey, population: Population, spec: PlanSpec, opts: PlanOptions = {}): Promise<Plan> {
   // The population's own window and slices, as a file holding it alone.
   const survey = surveyForPopulation(file, population);
   const depth = makeDepthModel(spec.limitKind, spec.depthLaw);
@@ -239,7 +187,7 @@ export async function planDesigns(file: Survey, population: Population, spec: Pl
   }
 
   const law = spec.depthLaw;
-  const out: PlanJson = {
+  const out: Plan = {
     format: 1,
     title: survey.title,
     population: population.name,

@@ -6,35 +6,10 @@
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import type { ZParam } from '../model/zparam.js';
+import type { ModelDescription, ParameterDescription } from '../model/outputs/shared.js';
 
-export interface ParameterDescription {
-  /** As written: a number, {table: [[z, v], ...]} or an expression in z. */
-  given: number | { table: [number, number][] } | string;
-  /** Value at the middle of the population's window. */
-  at_window_middle: number;
-}
-
-export interface ModelDescription {
-  name: string;
-  shape: 'schechter' | 'double_schechter';
-  variable: 'luminosity' | 'magnitude';
-  quantity?: string;
-  window: { min: number; max: number };
-  phi_star_mpc3: ParameterDescription;
-  l_star?: ParameterDescription;
-  m_star?: ParameterDescription;
-  alpha: ParameterDescription;
-  /** double_schechter: both components (phi_star_mpc3 and alpha above are component 1). */
-  components?: { phi_star_mpc3: ParameterDescription; alpha: ParameterDescription }[];
-  /** sfr_conversion: the calibration and its factor (Msun/yr per erg/s, or per erg/s/Hz). */
-  sfr_conversion?: { name: string; factor: number; source: string };
-  line_angstrom?: number;
-  rest_wavelength_angstrom?: number;
-  /** One line a person can read: "Schechter in luminosity: phi* = ..., L* = ..., alpha = ... (at z = ...)". */
-  summary: string;
-}
-
-function describeParam(p: ZParam, z: number): ParameterDescription {
+/** A parameter as written and at redshift z (the window's middle). */
+function parameterAt(p: ZParam, z: number): ParameterDescription {
   return { given: p.source, at_window_middle: p.at(z) };
 }
 
@@ -54,13 +29,13 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
     shape: p.shape,
     variable: p.variable,
     window: { ...p.window },
-    phi_star_mpc3: describeParam(p.phiStar, zMid),
-    alpha: describeParam(p.alpha, zMid),
+    phi_star_mpc3: parameterAt(p.phiStar, zMid),
+    alpha: parameterAt(p.alpha, zMid),
     summary: '',
   };
   if (p.quantity) d.quantity = p.quantity;
   if (p.components.length > 1) {
-    d.components = p.components.map((c) => ({ phi_star_mpc3: describeParam(c.phiStar, zMid), alpha: describeParam(c.alpha, zMid) }));
+    d.components = p.components.map((c) => ({ phi_star_mpc3: parameterAt(c.phiStar, zMid), alpha: parameterAt(c.alpha, zMid) }));
   }
   if (p.sfrConversion) {
     const eq: Record<string, string> = {
@@ -71,8 +46,8 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
     };
     d.sfr_conversion = { name: p.sfrConversion.name, factor: p.sfrConversion.factor, source: eq[p.sfrConversion.name]! };
   }
-  if (p.lStar) d.l_star = describeParam(p.lStar, zMid);
-  if (p.mStar) d.m_star = describeParam(p.mStar, zMid);
+  if (p.lStar) d.l_star = parameterAt(p.lStar, zMid);
+  if (p.mStar) d.m_star = parameterAt(p.mStar, zMid);
   if (survey.detection.kind === 'line_flux') d.line_angstrom = p.lineAngstrom ?? survey.detection.lineAngstrom;
   if (survey.detection.kind === 'magnitude') d.rest_wavelength_angstrom = p.restWavelengthAngstrom;
   const evolving = p.components.some((c) => !c.phiStar.constant || !c.alpha.constant) || !(p.lStar ?? p.mStar)!.constant;

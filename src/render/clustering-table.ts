@@ -1,5 +1,5 @@
 import Table from 'cli-table3';
-import type { ClusteringTable } from '../uncertainty/table.js';
+import type { ClusteringTable } from '../model/outputs/clustering.js';
 import { cosmologyLine } from './predict-table.js';
 import { sig } from './format.js';
 import { csvText } from './csv.js';
@@ -14,7 +14,7 @@ export function clusteringText(t: ClusteringTable): string {
     table.push([sig(row.z, 4), sig(row.growth, 5), ...rKeys.map((k) => sig(row.sigma_r[k]!, 4)), ...mKeys.map((k) => sig(row.halo_bias[k]!, 4)), ...mKeys.map((k) => sig(row.halo_density_above_mpc3[k]!, 4))]);
   }
   return (
-    `Cosmology: ${cosmologyLine(t.cosmology)}, Omega_b = ${sig(t.cosmology.omega_b, 4)}, sigma8 = ${sig(t.cosmology.sigma8, 4)}, n_s = ${sig(t.cosmology.n_s, 4)}\n` +
+    `Cosmology: ${cosmologyLine(t.cosmology)}, Omega_b = ${sig(t.cosmology.omega_b ?? NaN, 4)}, sigma8 = ${sig(t.cosmology.sigma8 ?? NaN, 4)}, n_s = ${sig(t.cosmology.n_s ?? NaN, 4)}\n` +
     `Linear power: Eisenstein & Hu 1998 (${t.transfer === 'full' ? 'with baryon oscillations' : 'no-wiggle'}) transfer function; haloes: Sheth & Tormen 1999. Radii in Mpc, masses in Msun (no h^-1).\n` +
     `${table.toString()}\n`
   );

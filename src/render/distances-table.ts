@@ -1,10 +1,10 @@
 import Table from 'cli-table3';
-import type { DistanceTable } from '../cosmology/table.js';
+import type { DistanceRow, DistanceTable } from '../model/outputs/distances.js';
 import { cosmologyLine } from './predict-table.js';
 import { sig } from './format.js';
 import { csvText } from './csv.js';
 
-const COLUMNS: [keyof DistanceTable['rows'][number], string][] = [
+const COLUMNS: [keyof DistanceRow & string, string][] = [
   ['z', 'z'],
   ['comoving_distance_mpc', 'D_C [Mpc]'],
   ['luminosity_distance_mpc', 'D_L [Mpc]'],

@@ -1,16 +1,16 @@
 /**
- * Glue between the computed results and the figure layer, for the commands that draw
- * (`report`, and `--figures DIR` on predict, forecast and plan). Loaded only by those commands:
- * it imports the figure layer, and through it (on first render) vega and vega-lite.
+ * From results to figures: every figure of a prediction (with the forecast and plan figures when
+ * given), as the report and `--figures DIR` draw them. It imports the figure layer, and through it
+ * (on first render) vega and vega-lite.
  *
- * It turns a Prediction (src/counts/predict.ts) into the shape the figures read
- * (src/render/types.ts PredictionJson): the assumed model as the user wrote it, and the
- * luminosity function of each slice at its middle redshift (src/population/curves.ts).
+ * A Prediction (src/model/outputs/prediction.ts) is drawn through a view (src/render/types.ts
+ * PredictionView) that adds the assumed model as the user wrote it and the luminosity function of
+ * each slice at its middle redshift (src/population/curves.ts).
  */
-import type { Prediction, PredictionSlice } from '../counts/predict.js';
+import type { Prediction, PredictionSlice } from '../model/outputs/prediction.js';
 import type { Survey } from '../model/survey.js';
 import type { Population } from '../model/population.js';
-import type { Figure, ForecastJson, ModelDescription, PlanJson, PredictionJson, SliceJson } from './types.js';
+import type { Figure, ForecastView, ModelAsWritten, PlanView, PredictionView, SliceView } from './types.js';
 import { curveAxisLabel, luminosityFunctionCurve } from '../population/curves.js';
 import { buildFigures, countsFigure, luminosityFunctionFigure, observedSharesFigure } from './figures.js';
 
@@ -26,11 +26,11 @@ function rawPopulations(survey: Survey): Record<string, unknown>[] {
  * parameter key as the user wrote it (so log10_l_star stays log10_l_star), and one line with the
  * values at the middle of the window.
  */
-export function modelsForPeople(survey: Survey, prediction: Prediction): ModelDescription[] {
+export function modelsForPeople(survey: Survey, prediction: Prediction): ModelAsWritten[] {
   const raws = rawPopulations(survey);
   return prediction.models.map((m, k) => {
     const raw = raws[k] ?? {};
-    const out: ModelDescription = { name: m.name, shape: m.shape, variable: m.variable };
+    const out: ModelAsWritten = { name: m.name, shape: m.shape, variable: m.variable };
     if (m.quantity) out.quantity = m.quantity;
     for (const [key, value] of Object.entries(raw)) {
       if (key === 'name' || key === 'shape' || key === 'variable' || key === 'quantity') continue;
@@ -42,8 +42,8 @@ export function modelsForPeople(survey: Survey, prediction: Prediction): ModelDe
 }
 
 /** One slice in the figure layer's shape, with the luminosity function of `population` drawn at its middle. */
-function sliceJson(s: PredictionSlice, curveOf?: (s: PredictionSlice) => SliceJson['luminosity_function']): SliceJson {
-  const out: SliceJson = {
+function sliceView(s: PredictionSlice, curveOf?: (s: PredictionSlice) => SliceView['luminosity_function']): SliceView {
+  const out: SliceView = {
     z_min: s.z_min,
     z_max: s.z_max,
     volume_mpc3: s.volume_mpc3,
@@ -67,7 +67,7 @@ function curveFor(survey: Survey, p: Population) {
  * its luminosity function; with several, `perPopulation` holds one such view per population
  * (its own slices, limits and curves) and the combined view carries none.
  */
-export function predictionViews(survey: Survey, prediction: Prediction): { combined: PredictionJson; perPopulation: PredictionJson[] } {
+export function predictionViews(survey: Survey, prediction: Prediction): { combined: PredictionView; perPopulation: PredictionView[] } {
   const models = modelsForPeople(survey, prediction);
   const base = {
     format: prediction.format,
@@ -77,15 +77,15 @@ export function predictionViews(survey: Survey, prediction: Prediction): { combi
     redshift: prediction.redshift,
   };
   const single = survey.populations.length === 1;
-  const combined: PredictionJson = {
+  const combined: PredictionView = {
     ...base,
     totals: prediction.totals,
-    slices: (prediction.slices ?? []).map((s) => sliceJson(s, single ? curveFor(survey, survey.populations[0]!) : undefined)),
+    slices: (prediction.breakdown === 'redshift' ? prediction.slices : []).map((s) => sliceView(s, single ? curveFor(survey, survey.populations[0]!) : undefined)),
     model: single ? models[0]! : models,
     breakdown: prediction.breakdown,
   };
   if (!single) {
-    combined.populations = prediction.populations.map((pp) => ({ name: pp.name, window: pp.window, totals: pp.totals, slices: pp.slices.map((s) => sliceJson(s)) }));
+    combined.populations = prediction.populations.map((pp) => ({ name: pp.name, window: pp.window, totals: pp.totals, slices: pp.slices.map((s) => sliceView(s)) }));
     combined.observed_bins = prediction.observed_bins;
   }
   const perPopulation = single
@@ -93,7 +93,7 @@ export function predictionViews(survey: Survey, prediction: Prediction): { combi
     : prediction.populations.map((pp, k) => ({
         ...base,
         totals: pp.totals,
-        slices: pp.slices.map((s) => sliceJson(s, curveFor(survey, survey.populations[k]!))),
+        slices: pp.slices.map((s) => sliceView(s, curveFor(survey, survey.populations[k]!))),
         model: models[k]!,
       }));
   return { combined, perPopulation };
@@ -109,12 +109,12 @@ export function predictionViews(survey: Survey, prediction: Prediction): { combi
 export async function drawFigures(
   survey: Survey,
   prediction: Prediction,
-  extra: { forecast?: ForecastJson; plan?: PlanJson } = {},
+  extra: { forecast?: ForecastView; plan?: PlanView } = {},
 ): Promise<Figure[]> {
   const { combined, perPopulation } = predictionViews(survey, prediction);
   const main = await buildFigures({
     prediction: combined,
-    model: perPopulation.length === 1 ? (combined.model as ModelDescription) : undefined,
+    model: perPopulation.length === 1 ? (combined.model as ModelAsWritten) : undefined,
     ...extra,
     surveyTitle: prediction.title,
   });
@@ -125,7 +125,7 @@ export async function drawFigures(
     prediction.breakdown === 'observed'
       ? await Promise.all(perPopulation.map(async (v, k) => numbered(await countsFigure({ ...v, title: `${prediction.populations[k]!.name}: ${v.title}` }), k)))
       : [];
-  const lf = await Promise.all(perPopulation.map(async (v, k) => numbered(await luminosityFunctionFigure(v, v.model as ModelDescription), k)));
+  const lf = await Promise.all(perPopulation.map(async (v, k) => numbered(await luminosityFunctionFigure(v, v.model as ModelAsWritten), k)));
   const shares = await observedSharesFigure(prediction.observed_bins, prediction.title);
   // keep the fixed order: counts, histograms, luminosity function(s), shares, forecast, plan
   const at = main.findIndex((f) => f.name === 'forecast' || f.name === 'plan');

@@ -9,16 +9,8 @@
  * Drawing never touches the network or the disk: data are inline values, and the vega loader
  * handed to the view refuses every URL, file and image it is asked for.
  */
-import type {
-  Figure,
-  ForecastJson,
-  LuminosityFunctionCurve,
-  ModelDescription,
-  ObservedBinsJson,
-  PlanJson,
-  PredictionJson,
-  SliceJson,
-} from './types.js';
+import type { Figure, ForecastView, LuminosityFunctionCurve, ModelAsWritten, PlanView, PredictionView, SliceView } from './types.js';
+import type { ObservedBins } from '../model/outputs/prediction.js';
 import { goalWords, wrapWords } from './format.js';
 
 type Spec = Record<string, unknown>;
@@ -134,13 +126,13 @@ function multiplesWidth(columns: number, panelPx: number): number {
   return columns * (panelPx + 80);
 }
 
-function models(m: ModelDescription | ModelDescription[] | undefined): ModelDescription[] {
+function models(m: ModelAsWritten | ModelAsWritten[] | undefined): ModelAsWritten[] {
   if (!m) return [];
   return Array.isArray(m) ? m : [m];
 }
 
 /** True when the population variable is absolute magnitude (brighter = smaller). */
-function isMagnitude(model: ModelDescription | undefined, curve?: LuminosityFunctionCurve): boolean {
+function isMagnitude(model: ModelAsWritten | undefined, curve?: LuminosityFunctionCurve): boolean {
   if (model?.variable === 'magnitude') return true;
   if (model?.variable === 'luminosity') return false;
   const label = curve?.x_label ?? '';
@@ -152,7 +144,7 @@ const histogramLabels: Record<string, string> = {
   log10_line_flux: 'log₁₀ line flux [erg s⁻¹ cm⁻²]',
 };
 
-function histogramAxisLabel(variable: string, model: ModelDescription | undefined): string {
+function histogramAxisLabel(variable: string, model: ModelAsWritten | undefined): string {
   const known = histogramLabels[variable];
   if (known) return known;
   if (variable === 'log10_quantity') {
@@ -177,7 +169,7 @@ export interface CountRow {
   high?: number;
 }
 
-export function countRows(p: PredictionJson): CountRow[] {
+export function countRows(p: PredictionView): CountRow[] {
   return p.slices
     .map((s, i) => {
       const row: CountRow = {
@@ -221,7 +213,7 @@ export function countsAxis(rows: readonly CountRow[]): { log: false } | { log: t
   return { log: true, floor: 10 ** Math.floor(Math.log10(lowest)), top: 10 ** Math.ceil(Math.log10(Math.max(...highs))), span: max / min };
 }
 
-export function countsSpec(p: PredictionJson): Spec | null {
+export function countsSpec(p: PredictionView): Spec | null {
   const all = countRows(p);
   if (all.length === 0) return null;
   const axis = countsAxis(all);
@@ -290,7 +282,7 @@ export interface HistogramRow {
   count: number;
 }
 
-export function histogramRows(s: SliceJson): HistogramRow[] {
+export function histogramRows(s: SliceView): HistogramRow[] {
   const h = s.histogram;
   if (!h || !Array.isArray(h.edges) || !Array.isArray(h.counts)) return [];
   const rows: HistogramRow[] = [];
@@ -304,7 +296,7 @@ export function histogramRows(s: SliceJson): HistogramRow[] {
 }
 
 /** Header of a small-multiple panel: the slice's redshift range. */
-function panelLabel(s: SliceJson): string {
+function panelLabel(s: SliceView): string {
   return `z ${formatRange(s.z_min, s.z_max)}`;
 }
 
@@ -346,12 +338,12 @@ export function drawnBins(rows: readonly HistogramRow[]): HistogramRow[] {
 }
 
 /** One row per drawn histogram bin (drawnBins), for every slice: {slice (1-based), panel, lo, hi, count}. */
-export function histogramPanelRows(p: PredictionJson): (HistogramRow & { slice: number; panel: string })[] {
+export function histogramPanelRows(p: PredictionView): (HistogramRow & { slice: number; panel: string })[] {
   return p.slices.flatMap((s, i) => drawnBins(histogramRows(s)).map((r) => ({ slice: i + 1, panel: panelLabel(s), ...r })));
 }
 
 /** "0.25 mag" or "0.1 dex": the bin width of the histograms, from their edges. */
-function binWidthText(p: PredictionJson, variable: string): string | undefined {
+function binWidthText(p: PredictionView, variable: string): string | undefined {
   const h = p.slices.find((s) => (s.histogram?.edges.length ?? 0) >= 2)?.histogram;
   if (!h) return undefined;
   const w = Number((h.edges[1]! - h.edges[0]!).toPrecision(6));
@@ -359,7 +351,7 @@ function binWidthText(p: PredictionJson, variable: string): string | undefined {
   return `${w} ${variable === 'apparent_magnitude' ? 'mag' : variable.startsWith('log10_') ? 'dex' : ''}`.trim();
 }
 
-export function histogramsSpec(p: PredictionJson, model?: ModelDescription): Spec | null {
+export function histogramsSpec(p: PredictionView, model?: ModelAsWritten): Spec | null {
   const m = model ?? models(p.model)[0];
   const rows = histogramPanelRows(p);
   if (rows.length === 0) return null;
@@ -460,13 +452,13 @@ export interface LuminosityFunctionRow {
  * its detected part, the limit and the knee. Null when no slice has a curve to draw.
  */
 export function luminosityFunctionRows(
-  p: PredictionJson,
-  model?: ModelDescription,
+  p: PredictionView,
+  model?: ModelAsWritten,
 ): { rows: LuminosityFunctionRow[]; magnitude: boolean; xLabel: string; panels: number } | null {
   const m = model ?? models(p.model)[0];
   interface Panel {
     i: number;
-    s: SliceJson;
+    s: SliceView;
     c: LuminosityFunctionCurve;
     rows: { x: number; phi: number }[];
   }
@@ -490,7 +482,7 @@ export function luminosityFunctionRows(
   if (drawn.length === 0) return null;
   const magnitude = isMagnitude(m, drawn[0]!.c);
   const floor = Math.min(...drawn.flatMap((q) => q.rows.map((r) => r.phi)));
-  const xLabel = drawn[0]!.c.x_label ?? (magnitude ? 'absolute AB magnitude M [mag]' : 'log₁₀ L [erg s⁻¹]');
+  const xLabel = drawn[0]!.c.x_label || (magnitude ? 'absolute AB magnitude M [mag]' : 'log₁₀ L [erg s⁻¹]');
   const kneeName = magnitude ? 'M*' : 'L*';
   const out: LuminosityFunctionRow[] = [];
   for (const { i, s, c, rows } of drawn) {
@@ -506,7 +498,7 @@ export function luminosityFunctionRows(
   return { rows: out, magnitude, xLabel, panels: drawn.length };
 }
 
-export function luminosityFunctionSpec(p: PredictionJson, model?: ModelDescription): Spec | null {
+export function luminosityFunctionSpec(p: PredictionView, model?: ModelAsWritten): Spec | null {
   const m = model ?? models(p.model)[0];
   const r = luminosityFunctionRows(p, m);
   if (!r) return null;
@@ -609,52 +601,40 @@ export function ellipsePoints(
 /** The two parameters drawn and how to read them from a forecast. */
 export interface EllipseAxes {
   x: { name: string; label: string };
-  y: { name: string; label: string; log10: boolean };
+  y: { name: string; label: string };
   center: [number, number];
   cov: Cov2;
 }
 
 /**
  * alpha against log10 L* (or M*): centre and marginal 2x2 covariance, built from the marginal
- * sigmas and their correlation. A forecast in linear L* is moved to log10 L* to first order
- * (sigma_log = sigma / (L ln 10)). Null when either parameter is missing or the numbers do not
- * make a covariance.
+ * sigmas and their correlation. Null when either parameter is missing or the numbers do not make
+ * a covariance.
  */
-export function ellipseAxes(f: ForecastJson): EllipseAxes | null {
-  const names = f.parameters ?? [];
+export function ellipseAxes(f: ForecastView): EllipseAxes | null {
+  const names: readonly string[] = f.parameters;
   const ix = names.indexOf('alpha');
-  const yName = ['log10_l_star', 'm_star', 'l_star'].find((n) => names.includes(n));
+  const yName = (['log10_l_star', 'm_star'] as const).find((n) => names.includes(n));
   if (ix < 0 || !yName) return null;
   const iy = names.indexOf(yName);
-  const sx = f.fisher?.sigma?.alpha;
-  let sy = f.fisher?.sigma?.[yName];
-  const rho = f.fisher?.correlation?.[ix]?.[iy];
-  const cxv = f.center?.alpha;
-  let cyv = f.center?.[yName];
-  if (!finite(sx, sy, rho, cxv, cyv)) return null;
-  const log10 = yName === 'l_star';
-  if (log10) {
-    if (!((cyv as number) > 0)) return null;
-    sy = (sy as number) / ((cyv as number) * Math.LN10);
-    cyv = Math.log10(cyv as number);
-  }
-  const sxn = sx as number;
-  const syn = sy as number;
-  const r = rho as number;
+  const sx = f.fisher.sigma.alpha;
+  const sy = f.fisher.sigma[yName];
+  const rho = f.fisher.correlation[ix]?.[iy];
+  const cx = f.center.alpha;
+  const cy = f.center[yName];
+  if (!finite(sx, sy, rho, cx, cy)) return null;
+  const sxn = sx!;
+  const syn = sy!;
+  const r = rho!;
   if (!(sxn > 0 && syn > 0 && Math.abs(r) < 1)) return null;
+  const quantity = f.model?.quantity?.trim();
   return {
     x: { name: 'alpha', label: 'faint-end slope α' },
     y: {
       name: yName,
-      label:
-        yName === 'm_star'
-          ? 'M* [AB mag]'
-          : typeof f.quantity === 'string' && f.quantity
-            ? `log₁₀ characteristic ${f.quantity}`
-            : 'log₁₀ L* [erg s⁻¹]',
-      log10,
+      label: yName === 'm_star' ? 'M* [AB mag]' : quantity ? `log₁₀ characteristic ${quantity}` : 'log₁₀ L* [erg s⁻¹]',
     },
-    center: [cxv as number, cyv as number],
+    center: [cx!, cy!],
     cov: [
       [sxn * sxn, r * sxn * syn],
       [r * sxn * syn, syn * syn],
@@ -662,7 +642,7 @@ export function ellipseAxes(f: ForecastJson): EllipseAxes | null {
   };
 }
 
-export function forecastSpec(f: ForecastJson, surveyTitle?: string): Spec | null {
+export function forecastSpec(f: ForecastView, surveyTitle?: string): Spec | null {
   const axes = ellipseAxes(f);
   if (!axes) return null;
   const [cx, cy] = axes.center;
@@ -675,8 +655,8 @@ export function forecastSpec(f: ForecastJson, surveyTitle?: string): Spec | null
   );
   if (lines.length === 0) return null;
 
-  // Mock fits, columns in the order of mocks.parameters or parameters.
-  const cols = f.mocks?.parameters ?? f.parameters;
+  // Mock fits, columns in the order of parameters.
+  const cols: readonly string[] = f.parameters;
   const jx = cols.indexOf(axes.x.name);
   const jy = cols.indexOf(axes.y.name);
   const mocks: { x: number; y: number }[] = [];
@@ -684,7 +664,6 @@ export function forecastSpec(f: ForecastJson, surveyTitle?: string): Spec | null
     for (const row of f.mocks!.fits!) {
       const x = row?.[jx];
       let y = row?.[jy];
-      if (axes.y.log10 && typeof y === 'number') y = y > 0 ? Math.log10(y) : NaN;
       if (finite(x, y)) mocks.push({ x: x as number, y: y as number });
     }
   }
@@ -736,23 +715,23 @@ export function forecastSpec(f: ForecastJson, surveyTitle?: string): Spec | null
 // 5. Plan: goal against exposure per pointing
 
 /** The goal in words ("sigma of alpha", "expected count"), never its key. */
-function goalLabel(goal: string): string {
+function goalLabel(goal: PlanView['goal']): string {
   return goalWords(goal);
 }
 
 /** Width and height of the plan figure's plot [px]. */
 const PLAN_SIZE = { width: 520, height: 300 } as const;
 
-export function planSpec(plan: PlanJson, surveyTitle?: string): Spec | null {
+export function planSpec(plan: PlanView, surveyTitle?: string): Spec | null {
   const rows = (plan.designs ?? [])
     .filter((d) => finite(d.exposure_hours_per_pointing, d.goal_value) && d.exposure_hours_per_pointing > 0)
     .map((d) => ({ ...d }))
     .sort((a, b) => a.exposure_hours_per_pointing - b.exposure_hours_per_pointing);
   if (rows.length === 0) return null;
-  const yTitle = `goal: ${goalLabel(plan.goal ?? 'goal value')}`;
+  const yTitle = `goal: ${goalLabel(plan.goal)}`;
   const hours = rows.map((d) => d.exposure_hours_per_pointing);
   const layer: Spec[] = [];
-  const nb = plan.near_best;
+  const nb = plan.near_best && { from: plan.near_best.from.exposure_hours_per_pointing, to: plan.near_best.to.exposure_hours_per_pointing };
   if (nb && finite(nb.from, nb.to) && nb.from > 0 && nb.to > 0) {
     layer.push({
       data: { values: [{ from: Math.min(nb.from, nb.to), to: Math.max(nb.from, nb.to) }] },
@@ -813,7 +792,7 @@ export function planSpec(plan: PlanJson, surveyTitle?: string): Spec | null {
   if (nb) parts.push('shaded: near-best range');
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    ...titleBlock(surveyTitle, `${capitalise(goalLabel(plan.goal ?? 'goal'))} against exposure per pointing`, [parts.join('; ')], PLAN_SIZE.width + 90),
+    ...titleBlock(surveyTitle, `${capitalise(goalLabel(plan.goal))} against exposure per pointing`, [parts.join('; ')], PLAN_SIZE.width + 90),
     width: PLAN_SIZE.width,
     height: PLAN_SIZE.height,
     layer,
@@ -893,7 +872,7 @@ export interface ObservedShareRow {
  * One row per population and bin of the observed value, without the nearly empty bins at either
  * end (under SHARE_FLOOR of all detections). Empty when there are fewer than two populations.
  */
-export function observedShareRows(o: ObservedBinsJson): ObservedShareRow[] {
+export function observedShareRows(o: ObservedBins): ObservedShareRow[] {
   const bins = (o.bins ?? []).filter((b) => finite(b.min, b.max, b.count));
   const names = bins.length > 0 ? Object.keys(bins[0]!.populations ?? {}) : [];
   if (names.length < 2) return [];
@@ -923,7 +902,7 @@ export function observedShareRows(o: ObservedBinsJson): ObservedShareRow[] {
 /** Width of the shares figure's panels, px. */
 const SHARES_WIDTH_PX = 560;
 
-export function observedSharesSpec(o: ObservedBinsJson, surveyTitle?: string): Spec | null {
+export function observedSharesSpec(o: ObservedBins, surveyTitle?: string): Spec | null {
   const rows = observedShareRows(o);
   if (rows.length === 0) return null;
   const names = [...new Set(rows.map((r) => r.population))];
@@ -996,7 +975,7 @@ export function observedSharesSpec(o: ObservedBinsJson, surveyTitle?: string): S
   };
 }
 
-export const observedSharesFigure = (o: ObservedBinsJson, surveyTitle?: string) => figure('shares', observedSharesSpec(o, surveyTitle));
+export const observedSharesFigure = (o: ObservedBins, surveyTitle?: string) => figure('shares', observedSharesSpec(o, surveyTitle));
 
 // ---------------------------------------------------------------------------------------------
 // Rendering
@@ -1055,20 +1034,20 @@ async function figure(name: string, spec: Spec | null): Promise<Figure | null> {
   return { name, title, spec, svg: await renderSvg(spec) };
 }
 
-export const countsFigure = (p: PredictionJson) => figure('counts', countsSpec(p));
-export const histogramsFigure = (p: PredictionJson, model?: ModelDescription) =>
+export const countsFigure = (p: PredictionView) => figure('counts', countsSpec(p));
+export const histogramsFigure = (p: PredictionView, model?: ModelAsWritten) =>
   figure('histograms', histogramsSpec(p, model));
-export const luminosityFunctionFigure = (p: PredictionJson, model?: ModelDescription) =>
+export const luminosityFunctionFigure = (p: PredictionView, model?: ModelAsWritten) =>
   figure('luminosity-function', luminosityFunctionSpec(p, model));
-export const forecastFigure = (f: ForecastJson, surveyTitle?: string) => figure('forecast', forecastSpec(f, surveyTitle));
-export const planFigure = (plan: PlanJson, surveyTitle?: string) => figure('plan', planSpec(plan, surveyTitle));
+export const forecastFigure = (f: ForecastView, surveyTitle?: string) => figure('forecast', forecastSpec(f, surveyTitle));
+export const planFigure = (plan: PlanView, surveyTitle?: string) => figure('plan', planSpec(plan, surveyTitle));
 
 export interface FigureInput {
-  prediction?: PredictionJson;
-  forecast?: ForecastJson;
-  plan?: PlanJson;
+  prediction?: PredictionView;
+  forecast?: ForecastView;
+  plan?: PlanView;
   /** The population drawn; defaults to prediction.model. */
-  model?: ModelDescription;
+  model?: ModelAsWritten;
   /** Title for the forecast and plan figures; defaults to prediction.title. */
   surveyTitle?: string;
 }

@@ -2,7 +2,7 @@
 import Table from 'cli-table3';
 import { sig, zText } from './format.js';
 import { csvText, type CsvCell } from './csv.js';
-import type { Forecast } from '../forecast/forecast.js';
+import type { Forecast } from '../model/outputs/forecast.js';
 
 export function forecastTable(f: Forecast): string {
   const lines: string[] = [

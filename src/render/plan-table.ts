@@ -2,8 +2,8 @@
 import Table from 'cli-table3';
 import { goalWords, parameterWords, sig, wrapWords, zText } from './format.js';
 import { csvText, type CsvCell } from './csv.js';
-import type { DesignJson, PlanJson } from '../planning/plan.js';
-import type { CompareJson, CompareSurvey } from '../planning/compare.js';
+import type { Plan, PlanDesign } from '../model/outputs/plan.js';
+import type { ComparedSurvey, Comparison } from '../model/outputs/compare.js';
 
 function limitText(v: string, x: number | string): string {
   if (typeof x === 'string') return x;
@@ -13,12 +13,12 @@ function limitText(v: string, x: number | string): string {
   return `log10 = ${sig(x, 4)}`;
 }
 
-function goalText(p: PlanJson): string {
+function goalText(p: Plan): string {
   if (typeof p.goal === 'object') return `smallest ${goalWords(p.goal)} (Fisher matrix${p.cosmic_variance ? ', with cosmic variance' : ', Poisson only'})`;
   return p.goal === 'count' ? 'most sources' : 'most sources fainter than the characteristic luminosity';
 }
 
-function designRow(p: PlanJson, d: DesignJson, mark = ''): string[] {
+function designRow(p: Plan, d: PlanDesign, mark = ''): string[] {
   return [
     mark,
     d.tiers ? d.tiers.map((t) => `${Math.round(t.budget_fraction * 100)} %`).join(' + ') : '100 %',
@@ -33,7 +33,7 @@ function designRow(p: PlanJson, d: DesignJson, mark = ''): string[] {
   ];
 }
 
-export function planTable(p: PlanJson): string {
+export function planTable(p: Plan): string {
   const lines: string[] = [
     p.title,
     `Goal: ${goalText(p)}; budget ${sig(p.budget_hours)} h, ${sig(p.overhead_hours)} h overhead per pointing, ${sig(p.field_of_view_deg2, 4)} deg^2 per pointing`,
@@ -65,10 +65,10 @@ export function planTable(p: PlanJson): string {
   return lines.join('\n') + '\n';
 }
 
-export function planCsv(p: PlanJson): string {
+export function planCsv(p: Plan): string {
   const header = ['design', 'tier', 'budget_fraction', 'exposure_hours_per_pointing', 'pointings', 'area_deg2', 'limit', 'count', 'faint_count', 'goal_value', 'hours_used', 'meets_minimum_count', 'best'];
   const rows: CsvCell[][] = [];
-  const same = (a: DesignJson, b: DesignJson) => a.pointings === b.pointings && a.exposure_hours_per_pointing === b.exposure_hours_per_pointing && a.goal_value === b.goal_value;
+  const same = (a: PlanDesign, b: PlanDesign) => a.pointings === b.pointings && a.exposure_hours_per_pointing === b.exposure_hours_per_pointing && a.goal_value === b.goal_value;
   p.designs.forEach((d, i) => {
     const mark = same(d, p.best) ? '*' : '';
     rows.push([i, 'all', 1, d.exposure_hours_per_pointing, d.pointings, d.area_deg2, d.limit, d.count, d.faint_count, d.goal_value, d.hours_used, String(d.meets_minimum_count), mark]);
@@ -84,11 +84,11 @@ export function planCsv(p: PlanJson): string {
 interface RowDef {
   key: string;
   label: string;
-  value: (s: CompareSurvey) => string;
-  raw: (s: CompareSurvey) => number | string | undefined;
+  value: (s: ComparedSurvey) => string;
+  raw: (s: ComparedSurvey) => number | string | undefined;
 }
 
-function compareRows(c: CompareJson): RowDef[] {
+function compareRows(c: Comparison): RowDef[] {
   const rows: RowDef[] = [
     { key: 'area_deg2', label: 'area (deg^2)', value: (s) => sig(s.area_deg2, 4), raw: (s) => s.area_deg2 },
     { key: 'window', label: 'window', value: (s) => `z = ${zText(s.redshift.min)} to ${zText(s.redshift.max)}`, raw: (s) => `${s.redshift.min}-${s.redshift.max}` },
@@ -108,7 +108,7 @@ function compareRows(c: CompareJson): RowDef[] {
   return rows;
 }
 
-export function compareTable(c: CompareJson): string {
+export function compareTable(c: Comparison): string {
   // Long titles are wrapped over lines in the column head, never cut.
   const head = ['', ...c.surveys.map((s, i) => wrapWords(`[${i + 1}] ${s.title}`, 32).join('\n'))];
   const t = new Table({ head, style: { head: [], border: [] } });
@@ -123,7 +123,7 @@ export function compareTable(c: CompareJson): string {
   return lines.join('\n') + '\n';
 }
 
-export function compareCsv(c: CompareJson): string {
+export function compareCsv(c: Comparison): string {
   const rows = compareRows(c).map((r): CsvCell[] => [
     r.key,
     ...c.surveys.map((s) => r.raw(s) ?? ''),

@@ -1,7 +1,7 @@
 /** Human table and CSV for a Prediction (predict command). */
 import Table from 'cli-table3';
-import type { BackgroundJsonShape } from '../model/cosmology-json.js';
-import type { Prediction, PredictionSlice, PredictionTotals } from '../counts/predict.js';
+import type { Prediction, PredictionSlice, PredictionTotals } from '../model/outputs/prediction.js';
+import type { CosmologyBlock } from '../model/outputs/shared.js';
 import { sig, zText } from './format.js';
 import { csvText, type CsvCell } from './csv.js';
 import { dominantTerm } from '../uncertainty/prediction.js';
@@ -12,7 +12,7 @@ const LIMIT_HEADINGS: Record<string, string> = {
   absolute_magnitude: 'limit M [AB]',
 };
 
-export function cosmologyLine(c: BackgroundJsonShape): string {
+export function cosmologyLine(c: CosmologyBlock): string {
   const base = `flat Lambda-CDM, H0 = ${sig(c.h0)} km/s/Mpc, Omega_m = ${sig(c.omega_m)}, Omega_Lambda = ${sig(c.omega_lambda, 6)}, T_cmb = ${sig(c.t_cmb)} K`;
   return c.preset ? `${base} (preset ${c.preset}: ${c.preset_source})` : base;
 }
@@ -20,15 +20,15 @@ export function cosmologyLine(c: BackgroundJsonShape): string {
 export function detectionLine(p: Prediction): string {
   const d = p.detection;
   if (d.kind === 'line_flux') {
-    const f = d.filter as { center_angstrom: number; fwhm_angstrom: number; profile: string } | undefined;
+    const f = d.filter;
     const filter = f ? `, ${f.profile} filter at ${sig(f.center_angstrom)} A (FWHM ${sig(f.fwhm_angstrom)} A)` : '';
-    return `line flux limit ${sig(d.limit_cgs as number)} erg/s/cm^2${filter}`;
+    return `line flux limit ${sig(d.limit_cgs)} erg/s/cm^2${filter}`;
   }
   if (d.kind === 'magnitude') {
-    return `AB magnitude limit ${sig(d.limit_ab_mag as number)} in a band at ${sig(d.band_angstrom as number)} A (spectral slope beta = ${sig(d.beta as number)})`;
+    return `AB magnitude limit ${sig(d.limit_ab_mag)} in a band at ${sig(d.band_angstrom)} A (spectral slope beta = ${sig(d.beta)})`;
   }
   const q = p.models[0]?.quantity ?? (p.limit_variable === 'absolute_magnitude' ? 'absolute AB magnitude' : 'the quantity');
-  const lim = d.limit as number | string | { table: [number, number][] };
+  const lim = d.limit;
   const text = typeof lim === 'number' ? sig(lim) : typeof lim === 'string' ? `"${lim}"` : `table ${JSON.stringify(lim.table)}`;
   return `threshold on ${p.limit_variable === 'absolute_magnitude' ? q : `log10 ${q}`}: ${text}`;
 }
@@ -237,7 +237,7 @@ export function predictionCsv(p: Prediction): string {
     'per_deg2',
     'cumulative_count',
   ];
-  const rows = (p.slices ?? []).map((s): CsvCell[] => [
+  const rows = p.slices.map((s): CsvCell[] => [
       s.z_min,
       s.z_max,
       s.volume_mpc3,

@@ -7,16 +7,7 @@
  *
  * This module does not import vega: figures arrive already drawn (see figures.ts).
  */
-import type {
-  Figure,
-  ForecastJson,
-  ModelDescription,
-  ModelValue,
-  PlanDesign,
-  PlanJson,
-  PredictionJson,
-  SliceJson,
-} from './types.js';
+import type { Figure, ForecastView, ModelAsWritten, PlanDesignView, PlanView, PredictionView, SliceView } from './types.js';
 import { goalWords, shapeWords } from './format.js';
 
 export interface ReportInput {
@@ -25,15 +16,15 @@ export interface ReportInput {
   surveyTitle: string;
   /** Name of the survey file, shown beside its text (optional). */
   surveyFile?: string;
-  prediction: PredictionJson;
-  forecast?: ForecastJson;
-  plan?: PlanJson;
+  prediction: PredictionView;
+  forecast?: ForecastView;
+  plan?: PlanView;
   /** Why the report holds no forecast (one sentence), when it cannot be made for this survey. */
   forecastOmitted?: string;
   /** Why the report holds no plan (one sentence), when the file asks for one that cannot be made. */
   planOmitted?: string;
   /** The assumed population(s); defaults to prediction.model. */
-  model?: ModelDescription | ModelDescription[];
+  model?: ModelAsWritten | ModelAsWritten[];
   /** What the reader should know (src/warnings.ts): shown near the top when there are any. */
   warnings?: readonly { code: string; message: string }[];
   figures: Figure[];
@@ -189,12 +180,12 @@ function paramLabel(key: string, quantity: string | undefined): string | undefin
   return PARAM_LABELS[key];
 }
 
-function quantityOf(m: ModelDescription | undefined): string | undefined {
+function quantityOf(m: ModelAsWritten | undefined): string | undefined {
   const q = m?.quantity;
   return typeof q === 'string' && q.trim() ? q.trim() : undefined;
 }
 
-function modelValueHtml(v: ModelValue): string {
+function modelValueHtml(v: unknown): string {
   if (typeof v === 'number') return formatNumber(v, 6);
   if (typeof v === 'string') return `<code>${escapeHtml(v)}</code>`;
   if (v && typeof v === 'object' && Array.isArray((v as { table?: unknown }).table)) {
@@ -212,7 +203,7 @@ function modelValueHtml(v: ModelValue): string {
   return `<code>${escapeHtml(JSON.stringify(v))}</code>`;
 }
 
-function modelHtml(models: ModelDescription[]): string {
+function modelHtml(models: ModelAsWritten[]): string {
   const blocks = models.map((m) => {
     const head = [m.name, typeof m.shape === 'string' && m.shape ? shapeWords(m.shape) : '', m.variable ? `in ${m.variable}` : '']
       .filter((s) => typeof s === 'string' && s.length > 0)
@@ -231,7 +222,7 @@ function modelHtml(models: ModelDescription[]): string {
   return blocks.join('\n');
 }
 
-function modelVariable(models: ModelDescription[]): string | undefined {
+function modelVariable(models: ModelAsWritten[]): string | undefined {
   const v = models[0]?.variable;
   return typeof v === 'string' ? v : undefined;
 }
@@ -239,7 +230,7 @@ function modelVariable(models: ModelDescription[]): string | undefined {
 // ---------------------------------------------------------------------------------------------
 // Tables
 
-function predictTable(p: PredictionJson, variable: string | undefined, quantity?: string, id = 'predict-table'): string {
+function predictTable(p: PredictionView, variable: string | undefined, quantity?: string, id = 'predict-table'): string {
   const withU = p.slices.some((s) => typeof s.uncertainty?.total_fraction === 'number');
   const withParts = p.slices.some((s) => typeof s.uncertainty?.poisson_fraction === 'number' || typeof s.uncertainty?.cosmic_variance_fraction === 'number');
   const limitHead = quantity
@@ -258,7 +249,7 @@ function predictTable(p: PredictionJson, variable: string | undefined, quantity?
   if (withParts) heads.push('Poisson', 'cosmic variance');
   let cum = 0;
   const body = p.slices
-    .map((s: SliceJson, i) => {
+    .map((s: SliceView, i) => {
       cum += s.count;
       const u = s.uncertainty;
       const cells = [
@@ -305,7 +296,7 @@ const OBSERVED_FLOOR = 1e-4;
  * window and the total; the detections per bin of the observed value with each population's share
  * (the interloper fraction); then each population's own redshift slices.
  */
-function populationsTables(p: PredictionJson, variable: string | undefined, quantity?: string): string {
+function populationsTables(p: PredictionView, variable: string | undefined, quantity?: string): string {
   const pops = p.populations ?? [];
   const all = p.totals.count;
   const share = (n: number) => (all > 0 ? percent(n / all) : '');
@@ -369,10 +360,10 @@ ${binRows}
   return out;
 }
 
-function forecastTables(f: ForecastJson): string {
-  const names = f.parameters ?? [];
-  const cols = f.mocks?.parameters ?? names;
-  const fits = Array.isArray(f.mocks?.fits) ? f.mocks!.fits! : [];
+function forecastTables(f: ForecastView): string {
+  const names: readonly string[] = f.parameters;
+  const cols = names;
+  const fits = f.mocks?.fits ?? [];
   const mockStats = (name: string): [string, string] => {
     const j = cols.indexOf(name);
     if (j < 0 || fits.length < 2) return ['', ''];
@@ -383,8 +374,8 @@ function forecastTables(f: ForecastJson): string {
     return [formatNumber(mean, 5), formatNumber(sd, 3)];
   };
   // Without the fits themselves, the summary the forecast gives (mean and spread per parameter).
-  const summary = f.mocks?.summary as Record<string, { mean?: number; std?: number }> | undefined;
-  const summaryCount = typeof f.mocks?.count === 'number' ? (f.mocks.count as number) : undefined;
+  const summary: Record<string, { mean?: number; std?: number } | undefined> | undefined = f.mocks?.parameters;
+  const summaryCount = f.mocks?.count;
   const fromSummary = fits.length < 2 && !!summary && Object.keys(summary).length > 0;
   const summaryStats = (name: string): [string, string] => {
     const v = summary?.[name];
@@ -398,15 +389,15 @@ function forecastTables(f: ForecastJson): string {
     .map((n) => {
       const cells = [
         `<span class="key">${escapeHtml(n)}</span>`,
-        typeof f.center?.[n] === 'number' ? formatNumber(f.center[n]!, 6) : '',
-        typeof f.fisher?.sigma?.[n] === 'number' ? formatNumber(f.fisher.sigma[n]!, 3) : '',
+        typeof f.center[n] === 'number' ? formatNumber(f.center[n], 6) : '',
+        typeof f.fisher.sigma[n] === 'number' ? formatNumber(f.fisher.sigma[n], 3) : '',
       ];
       if (withMocks) cells.push(...(fromSummary ? summaryStats(n) : mockStats(n)));
       return `<tr>${cells.map((c) => `<td>${c}</td>`).join('')}</tr>`;
     })
     .join('\n');
   let corr = '';
-  const c = f.fisher?.correlation;
+  const c = f.fisher.correlation;
   if (Array.isArray(c) && c.length === names.length) {
     corr = `<h3>Correlation of the parameters (Fisher matrix)</h3>
 <table class="numbers" id="correlation-table">
@@ -430,10 +421,10 @@ ${rows}
 ${corr}`;
 }
 
-function planTable(plan: PlanJson): string {
-  const same = (a: PlanDesign, b: PlanDesign | undefined) =>
+function planTable(plan: PlanView): string {
+  const same = (a: PlanDesignView, b: PlanDesignView | undefined) =>
     !!b && a.exposure_hours_per_pointing === b.exposure_hours_per_pointing && a.pointings === b.pointings;
-  const nb = plan.near_best;
+  const nb = plan.near_best && { from: plan.near_best.from.exposure_hours_per_pointing, to: plan.near_best.to.exposure_hours_per_pointing };
   const lo = nb ? Math.min(nb.from, nb.to) : NaN;
   const hi = nb ? Math.max(nb.from, nb.to) : NaN;
   // The best design may come from refining between grid designs: it is listed with them.
@@ -464,11 +455,11 @@ function planTable(plan: PlanJson): string {
     'area<br><span class="unit">deg²</span>',
     'limit',
     'count',
-    `goal value<br><span class="unit">${escapeHtml(goalWords(plan.goal ?? ''))}</span>`,
+    `goal value<br><span class="unit">${escapeHtml(goalWords(plan.goal))}</span>`,
     '',
   ];
   const range = nb ? ` Designs from ${formatNumber(lo)} to ${formatNumber(hi)} hours per pointing come close to the best.` : '';
-  return `<p>Goal: ${escapeHtml(goalWords(plan.goal ?? ''))}; time available: ${formatNumber(plan.budget_hours)} hours.${range}</p>
+  return `<p>Goal: ${escapeHtml(goalWords(plan.goal))}; time available: ${formatNumber(plan.budget_hours)} hours.${range}</p>
 <table class="numbers" id="plan-table">
 <thead><tr>${heads.map((h) => `<th scope="col">${h}</th>`).join('')}</tr></thead>
 <tbody>
@@ -527,7 +518,7 @@ function section(id: string, heading: string, body: string | undefined, omitted:
 /** Build the report. Pure: same input, same document. */
 export function renderReport(input: ReportInput): string {
   const p = input.prediction;
-  const models = ((): ModelDescription[] => {
+  const models = ((): ModelAsWritten[] => {
     const m = input.model ?? p.model;
     return !m ? [] : Array.isArray(m) ? m : [m];
   })();

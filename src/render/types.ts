@@ -1,142 +1,76 @@
 /**
- * What the figure and report layer reads. These mirror the JSON documents of
- * /work/shared/design/outputs.md (snake_case keys, units in the names) and hold only the fields
- * drawn or tabulated here. Everything added after format 1 is optional: a figure or table whose
- * piece is absent is left out, never drawn from made-up numbers.
+ * What the figures and the HTML report read. Each is the producers' own output type
+ * (src/model/outputs/, generated from specs/) narrowed to the fields drawn or tabulated, so that a
+ * result of `predict`, `forecast` or `plan` is passed as it is; a piece that is absent is left out
+ * of the figure or table, never drawn from made-up numbers.
+ *
+ * A prediction is drawn through a view (src/render/draw.ts `predictionViews`) that adds what the
+ * output does not hold: the luminosity function of each slice at its middle redshift, and the
+ * assumed model as the user wrote it.
  */
+import type { LuminosityFunctionCurve } from '../population/curves.js';
+import type { Forecast, FisherBlock, MocksBlock } from '../model/outputs/forecast.js';
+import type { Plan, PlanDesign } from '../model/outputs/plan.js';
+import type { ObservedBins, PopulationPrediction, Prediction, PredictionSlice, PredictionTotals } from '../model/outputs/prediction.js';
+import type { CosmologyBlock, ModelDescription, RedshiftRange } from '../model/outputs/shared.js';
 
-/** Fractional 1-sigma uncertainty of a count (per slice or for the total). */
-export interface UncertaintyJson {
-  /** sqrt(N) / N. */
-  poisson_fraction?: number;
-  /** Cosmic variance as a fraction of the count. */
-  cosmic_variance_fraction?: number;
-  /** Both added in quadrature; the error bars use this. */
-  total_fraction: number;
-  /** Linear bias assumed for the population. */
-  bias?: number;
-  /** rms matter fluctuation in the slice's volume. */
-  sigma_matter?: number;
-}
+export type { LuminosityFunctionCurve };
 
-export type HistogramVariable = 'apparent_magnitude' | 'log10_line_flux' | 'log10_quantity';
+/** One slice as drawn: the prediction's slice, with the luminosity function at its middle. */
+export type SliceView = Pick<PredictionSlice, 'z_min' | 'z_max' | 'volume_mpc3' | 'count' | 'per_deg2' | 'limit_at_center' | 'uncertainty'> &
+  Partial<Pick<PredictionSlice, 'histogram'>> & {
+    luminosity_function?: LuminosityFunctionCurve;
+  };
 
-export interface HistogramJson {
-  variable: HistogramVariable | string;
-  /** Bin edges, ascending; one more than `counts`. */
-  edges: number[];
-  counts: number[];
-}
-
-/** The assumed luminosity function at a slice's middle redshift, ready to plot. */
-export interface LuminosityFunctionCurve {
-  /** Population variable: log10 L [erg/s] (or log10 quantity) or absolute AB magnitude M. */
-  x: number[];
-  /** Number density per unit of x [Mpc^-3 per dex, or per mag]. */
-  phi: number[];
-  /** The limit at the slice's middle redshift, in x. */
-  limit?: number;
-  /** log10 L* or M* at that redshift. */
-  knee?: number;
-  /** Axis label with units, e.g. "log10 L [erg/s]". */
-  x_label?: string;
-}
-
-export interface SliceJson {
-  z_min: number;
-  z_max: number;
-  volume_mpc3: number;
-  count: number;
-  per_deg2: number;
-  /** log10 L for luminosity, M for magnitude (outputs.md). */
-  limit_at_center: number;
-  histogram?: HistogramJson;
-  uncertainty?: UncertaintyJson;
-  luminosity_function?: LuminosityFunctionCurve;
-}
-
-/** A model parameter as written: a number, a table in z, or an expression string in z. */
-export type ModelValue = number | string | { table: [number, number][] } | null | undefined | unknown;
-
-/** The assumed population, described for people ({name, shape, variable, phi_star, ...}). */
-export interface ModelDescription {
+/**
+ * The assumed population as the user wrote it, for people: name, shape and variable as used, each
+ * parameter key as written in the file (so log10_l_star stays log10_l_star) with its value as
+ * written, and `values_used`: the values at the middle of the window (ModelDescription's summary).
+ */
+export interface ModelAsWritten {
   name?: string;
   shape?: string;
   /** "luminosity" | "magnitude". */
   variable?: string;
   quantity?: string;
-  [key: string]: ModelValue;
-}
-
-export interface CosmologyJson {
-  h0: number;
-  omega_m: number;
-  omega_lambda?: number;
-  omega_r?: number;
-  t_cmb?: number;
-}
-
-export interface PredictionJson {
-  format?: number;
-  title: string;
-  cosmology?: CosmologyJson;
-  area_deg2: number;
-  redshift?: { min: number; max: number };
-  totals: { count: number; per_deg2: number; volume_mpc3: number; uncertainty?: UncertaintyJson };
-  /** Redshift slices (empty when the populations' windows differ: breakdown "observed"). */
-  slices: SliceJson[];
-  model?: ModelDescription | ModelDescription[];
-  /** Which breakdown of the totals the slices hold: "redshift", or "observed" (see observed_bins). */
-  breakdown?: 'redshift' | 'observed';
-  /** Several populations: each one's own result over its own window. */
-  populations?: { name: string; window: { min: number; max: number }; totals: PredictionJson['totals']; slices: SliceJson[] }[];
-  /** Per bin of the observed value, every population's count and share. */
-  observed_bins?: ObservedBinsJson;
-}
-
-export interface ForecastJson {
-  /** Parameter names, e.g. ["log10_phi_star", "log10_l_star", "alpha"]. */
-  parameters: string[];
-  fisher: {
-    /** Marginal 1-sigma error of each parameter. */
-    sigma: Record<string, number>;
-    /** Correlation matrix in the order of `parameters`. */
-    correlation: number[][];
-  };
-  /** The fiducial values. */
-  center: Record<string, number>;
-  /** What L* measures when it is not a luminosity (threshold surveys), e.g. "stellar mass [Msun]". */
-  quantity?: string;
-  mocks?: {
-    /**
-     * One row per mock catalogue, columns in the order of `parameters` (or `mocks.parameters`);
-     * null where the estimator does not constrain a parameter.
-     */
-    fits?: (number | null)[][];
-    parameters?: string[];
-    [key: string]: unknown;
-  };
   [key: string]: unknown;
 }
 
-export interface PlanDesign {
-  exposure_hours_per_pointing: number;
-  pointings: number;
+/** A prediction as the figures and the report draw it. */
+export interface PredictionView {
+  title: string;
+  cosmology?: CosmologyBlock;
   area_deg2: number;
-  limit: number;
-  count: number;
-  goal_value: number;
+  redshift?: RedshiftRange;
+  totals: PredictionTotals;
+  /** Redshift slices (none when the populations' windows differ: breakdown "observed"). */
+  slices: SliceView[];
+  model?: ModelAsWritten | ModelAsWritten[];
+  breakdown?: Prediction['breakdown'];
+  /** Several populations: each one's own result over its own window. */
+  populations?: (Pick<PopulationPrediction, 'name' | 'window' | 'totals'> & { slices: SliceView[] })[];
+  observed_bins?: ObservedBins;
 }
 
-export interface PlanJson {
-  /** What is optimised, e.g. "count" or "sigma_alpha". */
-  goal: string;
-  budget_hours: number;
-  designs: PlanDesign[];
-  best?: PlanDesign;
-  /** Exposure per pointing [hours] over which the goal stays near its best. */
-  near_best?: { from: number; to: number };
-}
+/** The fields of a forecast (the `forecast` result) the figure and the report read. */
+export type ForecastView = Pick<Forecast, 'parameters' | 'center'> & {
+  fisher: Pick<FisherBlock, 'sigma' | 'correlation'>;
+  /** What L* measures in a threshold survey (model.quantity). */
+  model?: Pick<ModelDescription, 'quantity'>;
+  /** Mock fits (`fits`, columns in the order of `parameters`) and their summary per parameter. */
+  mocks?: Partial<Pick<MocksBlock, 'count' | 'parameters' | 'fits'>>;
+};
+
+/** One design of a plan as drawn and tabulated. */
+export type PlanDesignView = Pick<PlanDesign, 'exposure_hours_per_pointing' | 'pointings' | 'area_deg2' | 'limit' | 'count' | 'goal_value'>;
+
+/** The fields of a plan (the `plan` result) the figure and the report read. */
+export type PlanView = Pick<Plan, 'goal' | 'budget_hours'> & {
+  designs: readonly PlanDesignView[];
+  best?: PlanDesignView;
+  /** The designs at either end of the near-best range. */
+  near_best?: { from: PlanDesignView; to: PlanDesignView };
+};
 
 /** One drawn figure. */
 export interface Figure {
@@ -148,12 +82,4 @@ export interface Figure {
   spec: Record<string, unknown>;
   /** The rendered SVG document. */
   svg: string;
-}
-
-/** Per bin of the observed value, every population's count and share (predict's observed_bins). */
-export interface ObservedBinsJson {
-  /** apparent_magnitude | log10_line_flux | log10_quantity | absolute_magnitude. */
-  variable: string;
-  width: number;
-  bins: { min: number; max: number; count: number; populations: Record<string, { count: number; share: number }> }[];
 }

@@ -7,19 +7,16 @@ import type { Completeness } from '../model/detection.js';
 import type { Survey } from '../model/survey.js';
 import type { ZParam } from '../model/zparam.js';
 import { cosmologyJsonOf } from '../model/cosmology-json.js';
-
-/** A constant as its normalised value; otherwise what the file wrote and the normalised values at the window's ends. */
-export type ParamView =
-  | number
-  | { as_written: number | { table: [number, number][] } | string; at_window_min: number; at_window_max: number };
+import type { ParameterView, SurveyCheck } from '../model/outputs/check.js';
+import type { CompletenessBlock } from '../model/outputs/shared.js';
 
 /** A parameter as written in the file, with its normalised value at the window's ends when it varies. */
-export function describeParam(p: ZParam, window: { min: number; max: number }): ParamView {
+export function parameterView(p: ZParam, window: { min: number; max: number }): ParameterView {
   if (p.constant) return p.at(window.min);
   return { as_written: p.source, at_window_min: p.at(window.min), at_window_max: p.at(window.max) };
 }
 
-function describeCompleteness(c: Completeness | undefined): object | undefined {
+function describeCompleteness(c: Completeness | undefined): CompletenessBlock | undefined {
   if (!c) return undefined;
   if (c.model === 'logistic') return { model: 'logistic', half: c.half, width: c.width };
   return { model: 'table', x: c.x, fraction: c.fraction };
@@ -30,11 +27,12 @@ function clean<T extends object>(o: T): T {
   return Object.fromEntries(Object.entries(o).filter(([, v]) => v !== undefined)) as T;
 }
 
-export function describeSurvey(survey: Survey): Record<string, unknown> {
+/** The survey as `check` prints it (specs/check.schema.json, less the warnings the command adds). */
+export function describeSurvey(survey: Survey): Omit<SurveyCheck, 'warnings'> {
   const c = survey.cosmology;
   const d = survey.detection;
   const win = survey.redshift;
-  let detection: object;
+  let detection: SurveyCheck['detection'];
   if (d.kind === 'line_flux') {
     detection = clean({
       kind: d.kind,
@@ -56,7 +54,7 @@ export function describeSurvey(survey: Survey): Record<string, unknown> {
       completeness: describeCompleteness(d.completeness),
     });
   } else {
-    detection = clean({ kind: d.kind, limit: describeParam(d.limit, win), completeness: describeCompleteness(d.completeness) });
+    detection = clean({ kind: d.kind, limit: parameterView(d.limit, win), completeness: describeCompleteness(d.completeness) });
   }
   return clean({
     format: survey.format,
@@ -77,19 +75,19 @@ export function describeSurvey(survey: Survey): Record<string, unknown> {
         variable: p.variable,
         quantity: p.quantity,
         window: { min: p.window.min, max: p.window.max },
-        phi_star_mpc3: describeParam(p.phiStar, p.window),
-        l_star: p.lStar ? describeParam(p.lStar, p.window) : undefined,
-        m_star: p.mStar ? describeParam(p.mStar, p.window) : undefined,
-        alpha: describeParam(p.alpha, p.window),
+        phi_star_mpc3: parameterView(p.phiStar, p.window),
+        l_star: p.lStar ? parameterView(p.lStar, p.window) : undefined,
+        m_star: p.mStar ? parameterView(p.mStar, p.window) : undefined,
+        alpha: parameterView(p.alpha, p.window),
         components:
           p.components.length > 1
-            ? p.components.map((c) => ({ phi_star_mpc3: describeParam(c.phiStar, p.window), alpha: describeParam(c.alpha, p.window) }))
+            ? p.components.map((c) => ({ phi_star_mpc3: parameterView(c.phiStar, p.window), alpha: parameterView(c.alpha, p.window) }))
             : undefined,
         sfr_conversion: p.sfrConversion ? { name: p.sfrConversion.name, factor: p.sfrConversion.factor } : undefined,
         slice_edges: p.sliceEdges,
         line_angstrom: p.lineAngstrom,
         rest_wavelength_angstrom: p.restWavelengthAngstrom,
-        bias: p.bias === 'auto' ? 'auto' : describeParam(p.bias, p.window),
+        bias: p.bias === 'auto' ? 'auto' : parameterView(p.bias, p.window),
         occupation: p.occupation,
       }),
     ),

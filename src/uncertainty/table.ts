@@ -1,26 +1,9 @@
 /** The rows of the `clustering` command: each ingredient of cosmic variance on its own. */
 import type { Cosmology } from '../model/cosmology.js';
-import { cosmologyJsonOf, type CosmologyJsonShape } from '../model/cosmology-json.js';
+import { cosmologyJsonOf } from '../model/cosmology-json.js';
+import type { ClusteringRow, ClusteringTable } from '../model/outputs/clustering.js';
 import { createLinearPower, type TransferForm } from './power-spectrum.js';
 import { createHaloModel } from './haloes.js';
-import type { Warning } from '../warnings.js';
-
-export interface ClusteringRow {
-  z: number;
-  growth: number;
-  sigma_r: Record<string, number>;
-  halo_bias: Record<string, number>;
-  halo_density_above_mpc3: Record<string, number>;
-}
-
-export interface ClusteringTable {
-  cosmology: CosmologyJsonShape;
-  transfer: TransferForm;
-  units: { radius: string; mass: string; density: string };
-  rows: ClusteringRow[];
-  /** As in every output (src/warnings.ts); none is raised here yet. */
-  warnings: Warning[];
-}
 
 export function clusteringTable(
   cosmology: Cosmology,

@@ -51,7 +51,7 @@ const SHARED = ['errors', 'warnings'];
  * transmission curves, which gives a tabulated filter its centre, width and range).
  */
 const LOADER_REACH = ['survey', 'model', ...SHARED];
-const LOADER_REACH_FILES = ['cosmology/parameters.ts', 'cosmology/constants.ts', 'selection/filter.ts'];
+const LOADER_REACH_FILES = ['cosmology/parameters.ts', 'cosmology/presets.ts', 'cosmology/constants.ts', 'selection/filter.ts'];
 
 const graph = importGraph();
 const edges = [...graph].flatMap(([from, tos]) => tos.map((to) => ({ from, to })));

@@ -53,8 +53,10 @@ population: {variable: magnitude, phi_star: 5e-4, m_star: -20.8, alpha: -1.8}
 describe('every output schema carries the same warning definition', () => {
   test.each(OUTPUT_SCHEMAS)('%s', (f) => {
     const s = JSON.parse(readFileSync(`specs/${f}`, 'utf8')) as Any;
-    expect(s.required).toContain('warnings');
-    expect(s.properties.warnings.items).toEqual({ $ref: '#/$defs/warning' });
+    // the prediction's fields common to both breakdowns are under its prediction_base definition
+    const top = s.properties ? s : s.$defs.prediction_base;
+    expect(top.required).toContain('warnings');
+    expect(top.properties.warnings.items).toEqual({ $ref: '#/$defs/warning' });
     expect(s.$defs.warning.properties.code.enum).toEqual(Object.keys(WARNING_CODES));
     const first = JSON.parse(readFileSync(`specs/${OUTPUT_SCHEMAS[0]}`, 'utf8')) as Any;
     expect(s.$defs.warning).toEqual(first.$defs.warning);

@@ -1,9 +1,9 @@
 /**
- * Invented demo results for the figure and report tests. They are shaped like the JSON of
- * outputs.md but their numbers are made up (a smooth pretend population), not computed by the
+ * Invented demo results for the figure and report tests. They have the shapes the figures and the
+ * report read (src/render/types.ts, narrowed from the outputs' types) but their numbers are made up (a smooth pretend population), not computed by the
  * count engine and not a reference for anything.
  */
-import type { ForecastJson, PlanJson, PredictionJson, SliceJson } from '../../src/render/types.js';
+import type { ForecastView, PlanView, PredictionView, SliceView } from '../../src/render/types.js';
 
 /** Deterministic pseudo-random numbers (LCG) so demo mocks are the same every run. */
 function lcg(seed: number): () => number {
@@ -16,12 +16,12 @@ function lcg(seed: number): () => number {
 
 export function demoPrediction(
   opts: { slices?: number; title?: string; uncertainty?: boolean; curves?: boolean; histograms?: boolean } = {},
-): PredictionJson {
+): PredictionView {
   const n = opts.slices ?? 10;
   const zMin = 0.8;
   const zMax = 1.6;
   const dz = (zMax - zMin) / n;
-  const slices: SliceJson[] = [];
+  const slices: SliceView[] = [];
   const logLStar = 42.4;
   const alpha = -1.5;
   for (let i = 0; i < n; i++) {
@@ -35,7 +35,7 @@ export function demoPrediction(
     const weights = Array.from({ length: 8 }, (_, k) => Math.pow(0.72, k));
     const wsum = weights.reduce((a, b) => a + b, 0);
     const counts = weights.map((w) => (count * w) / wsum);
-    const s: SliceJson = {
+    const s: SliceView = {
       z_min: z0,
       z_max: z1,
       volume_mpc3: 1.1e6 + 2.5e5 * i,
@@ -68,7 +68,6 @@ export function demoPrediction(
   }
   const total = slices.reduce((a, s) => a + s.count, 0);
   return {
-    format: 1,
     title: opts.title ?? 'Line-emitter search in a demo field',
     cosmology: { h0: 70, omega_m: 0.3, omega_lambda: 0.7, omega_r: 0, t_cmb: 0 },
     area_deg2: 2.5,
@@ -77,7 +76,7 @@ export function demoPrediction(
       count: total,
       per_deg2: total / 2.5,
       volume_mpc3: slices.reduce((a, s) => a + s.volume_mpc3, 0),
-      uncertainty: { poisson_fraction: 1 / Math.sqrt(total), cosmic_variance_fraction: 0.04, total_fraction: Math.hypot(1 / Math.sqrt(total), 0.04) },
+      uncertainty: { poisson_fraction: 1 / Math.sqrt(total), cosmic_variance_fraction: 0.04, total_fraction: Math.hypot(1 / Math.sqrt(total), 0.04), bias: 1.5, sigma_matter: 0.027 },
     },
     slices,
     model: {
@@ -91,8 +90,8 @@ export function demoPrediction(
   };
 }
 
-export function demoForecast(opts: { mocks?: number } = {}): ForecastJson {
-  const parameters = ['log10_phi_star', 'log10_l_star', 'alpha'];
+export function demoForecast(opts: { mocks?: number } = {}): ForecastView {
+  const parameters: ForecastView['parameters'] = ['log10_phi_star', 'log10_l_star', 'alpha'];
   const sigma = { log10_phi_star: 0.05, log10_l_star: 0.04, alpha: 0.09 };
   const correlation = [
     [1, -0.6, 0.5],
@@ -100,7 +99,7 @@ export function demoForecast(opts: { mocks?: number } = {}): ForecastJson {
     [0.5, -0.7, 1],
   ];
   const center = { log10_phi_star: -3.22, log10_l_star: 42.4, alpha: -1.5 };
-  const f: ForecastJson = { parameters, fisher: { sigma, correlation }, center };
+  const f: ForecastView = { parameters, fisher: { sigma, correlation }, center };
   const n = opts.mocks ?? 200;
   if (n > 0) {
     const rnd = lcg(12345);
@@ -119,7 +118,7 @@ export function demoForecast(opts: { mocks?: number } = {}): ForecastJson {
   return f;
 }
 
-export function demoPlan(): PlanJson {
+export function demoPlan(): PlanView {
   const exposures = [0.25, 0.5, 1, 2, 4, 8, 16];
   const budget = 40;
   const designs = exposures.map((t) => {
@@ -131,5 +130,6 @@ export function demoPlan(): PlanJson {
     return { exposure_hours_per_pointing: t, pointings, area_deg2: area, limit, count, goal_value: count };
   });
   const best = designs.reduce((a, b) => (b.goal_value > a.goal_value ? b : a));
-  return { goal: 'count', budget_hours: budget, designs, best, near_best: { from: 0.5, to: 2 } };
+  const at = (t: number) => designs.find((d) => d.exposure_hours_per_pointing === t)!;
+  return { goal: 'count', budget_hours: budget, designs, best, near_best: { from: at(0.5), to: at(2) } };
 }

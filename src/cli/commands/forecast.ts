@@ -58,8 +58,7 @@ export const forecastCommand: CommandDef = {
     outputs.setMain(renderText(out, { json: () => shown, table: () => forecastTable(shown), csv: () => forecastCsv(shown) }));
     if (draw) {
       const { forecastFigure } = await import('../../render/figures.js');
-      const { forecastForFigures } = await import('../../render/adapt.js');
-      const fig = await forecastFigure(forecastForFigures(result), survey.title);
+      const fig = await forecastFigure(result, survey.title);
       if (fig) outputs.setFigures(await draw.figureFiles(io, [fig]));
       else io.stderr(`skytally: no forecast figure: the forecast has no alpha against L* (or M*) to draw.\n`);
     }

@@ -37,8 +37,7 @@ export const planCommand: CommandDef = {
     outputs.setMain(renderText(out, { json: () => result, table: () => planTable(result), csv: () => planCsv(result) }));
     if (draw) {
       const { planFigure } = await import('../../render/figures.js');
-      const { planForFigures } = await import('../../render/adapt.js');
-      const fig = await planFigure(planForFigures(result), survey.title);
+      const fig = await planFigure(result, survey.title);
       if (fig) outputs.setFigures(await draw.figureFiles(io, [fig]));
     }
     outputs.commit();

@@ -1,0 +1,99 @@
+/* Generated from specs/check.schema.json by scripts/generate-output-types.ts: do not edit (run `npx tsx scripts/generate-output-types.ts`). */
+import type { Warning } from '../../warnings.js';
+import type { CompletenessBlock, CosmologyBlock, RedshiftRange, ZTable } from './shared.js';
+
+/**
+ * A parameter: its normalised value when constant; otherwise what the file wrote and the normalised values at the window's ends.
+ */
+export type ParameterView =
+  | number
+  | {
+      as_written: number | string | ZTable;
+      at_window_min: number;
+      at_window_max: number;
+    };
+
+/**
+ * A survey file as the loader normalised it (skytally check FILE --format json): plain numbers in stated units (the unit in each key's name), parameters that vary with z shown as written with their values at the ends of the population's window.
+ */
+export interface SurveyCheck {
+  format: 1;
+  file: string;
+  title: string;
+  cosmology: CosmologyBlock;
+  area_deg2: number;
+  area_sr: number;
+  window: RedshiftRange;
+  field: {
+    aspect: number;
+    count: number;
+  };
+  exposure_hours?: number;
+  detection:
+    | {
+        kind: 'line_flux';
+        limit_cgs: number;
+        line_angstrom?: number;
+        filter?: {
+          center_angstrom: number;
+          fwhm_angstrom: number;
+          profile: 'tophat' | 'gaussian' | 'table';
+          /**
+           * the transmission file (profile table)
+           */
+          file?: string;
+        };
+        completeness?: CompletenessBlock;
+      }
+    | {
+        kind: 'magnitude';
+        limit_mag: number;
+        band_angstrom: number;
+        band_file?: string;
+        beta: number;
+        igm: 'none' | 'madau1995';
+        completeness?: CompletenessBlock;
+      }
+    | {
+        kind: 'threshold';
+        limit: ParameterView;
+        completeness?: CompletenessBlock;
+      };
+  /**
+   * @minItems 1
+   */
+  populations: PopulationView[];
+  slices: {
+    count: number;
+    edges: number[];
+  };
+  histogram_width: number;
+  /**
+   * What the reader should know although nothing stopped the work (also printed on stderr, one line each); empty when there is nothing to say.
+   */
+  warnings: Warning[];
+}
+export interface PopulationView {
+  name: string;
+  shape: 'schechter' | 'double_schechter';
+  variable: 'luminosity' | 'magnitude';
+  quantity?: string;
+  window: RedshiftRange;
+  phi_star_mpc3: ParameterView;
+  l_star?: ParameterView;
+  m_star?: ParameterView;
+  alpha: ParameterView;
+  components?: {
+    phi_star_mpc3: ParameterView;
+    alpha: ParameterView;
+  }[];
+  sfr_conversion?: {
+    name: 'halpha' | 'oii' | 'uv' | 'factor';
+    factor: number;
+  };
+  slice_edges: number[];
+  line_angstrom?: number;
+  rest_wavelength_angstrom: number;
+  bias: 'auto' | ParameterView;
+  occupation: number;
+}

@@ -1,0 +1,139 @@
+/* Generated from specs/forecast.schema.json by scripts/generate-output-types.ts: do not edit (run `npx tsx scripts/generate-output-types.ts`). */
+import type { Warning } from '../../warnings.js';
+import type { ModelDescription, RedshiftRange } from './shared.js';
+
+export type Matrix = number[][];
+
+/**
+ * JSON printed by `skytally forecast FILE --format json`. Parameters are constant offsets applied at every z to log10 phi*, log10 L* (luminosity variable) or M* (magnitude variable), and alpha. No number is NaN or Infinity.
+ */
+export interface Forecast {
+  format: 1;
+  title: string;
+  model: ModelDescription;
+  /**
+   * A forecast is only as good as the luminosity function assumed.
+   */
+  caveat: string;
+  area_deg2: number;
+  redshift: RedshiftRange;
+  /**
+   * Parameter names in the order of every matrix.
+   *
+   * @minItems 3
+   * @maxItems 3
+   */
+  parameters: ('log10_phi_star' | 'log10_l_star' | 'm_star' | 'alpha')[];
+  center: ByParameter;
+  /**
+   * Expected number of detected sources of the population.
+   */
+  count: number;
+  /**
+   * false with --no-cosmic-variance: then fisher is the Poisson-only result.
+   */
+  cosmic_variance: boolean;
+  slices: ForecastSlice[];
+  fisher: FisherBlock;
+  covariance: Matrix;
+  fisher_poisson_only: FisherBlock;
+  mocks?: MocksBlock;
+  requirement?: Requirement;
+  /**
+   * What the reader should know although nothing stopped the work (also printed on stderr, one line each); empty when there is nothing to say.
+   */
+  warnings: Warning[];
+}
+export interface ByParameter {
+  [k: string]: number;
+}
+export interface ForecastSlice {
+  z_min: number;
+  z_max: number;
+  count: number;
+  /**
+   * The slice's cosmic-variance fraction: the width of its normalisation nuisance.
+   */
+  cosmic_variance_fraction?: number;
+}
+export interface FisherBlock {
+  sigma: ByParameter;
+  correlation: Matrix;
+  covariance: Matrix;
+}
+export interface MocksBlock {
+  count: number;
+  seed: number;
+  estimator: 'extended_likelihood' | 'sty';
+  parameters: {
+    [k: string]: MockParameterSummary;
+  };
+  /**
+   * Parameters the estimator cannot measure (log10_phi_star for sty).
+   */
+  not_constrained: string[];
+  failed_fits: number;
+  mean_sources: number;
+  notes: string[];
+  /**
+   * With --list-mock-fits: one row per converged mock fit, the fitted values in the order of "parameters"; null for a parameter the estimator does not constrain.
+   */
+  fits?: (number | null)[][];
+}
+export interface MockParameterSummary {
+  mean: number;
+  std: number;
+  p16: number;
+  p50: number;
+  p84: number;
+  /**
+   * mean - input
+   */
+  bias: number;
+  /**
+   * (mean - input) / (std / sqrt(successful fits))
+   */
+  bias_in_standard_errors: number;
+}
+export interface Requirement {
+  target: ByParameter;
+  /**
+   * Area reaching every target at the survey's depth (the largest needed); null if some target cannot be reached by area.
+   */
+  area_deg2: number | null;
+  /**
+   * Limit reaching every target at the survey's area (the deepest needed), in limit_variable; null if some target cannot be reached.
+   */
+  limit: number | null;
+  /**
+   * log10_quantity and absolute_magnitude (threshold kind) give the limit at the window's middle; a redshift-dependent limit is moved by a constant.
+   */
+  limit_variable: 'line_flux_cgs' | 'apparent_magnitude' | 'log10_quantity' | 'absolute_magnitude';
+  by_parameter: {
+    [k: string]: RequirementEntry;
+  };
+  search: {
+    /**
+     * @minItems 2
+     * @maxItems 2
+     */
+    area_deg2: number[];
+    /**
+     * Shallowest and deepest limit searched.
+     *
+     * @minItems 2
+     * @maxItems 2
+     */
+    limit: number[];
+  };
+  notes: string[];
+}
+export interface RequirementEntry {
+  target: number;
+  area_deg2: number | null;
+  limit: number | null;
+  /**
+   * Why a null: beyond the full sky, a cosmic-variance floor, or outside the searched limits.
+   */
+  notes: string[];
+}

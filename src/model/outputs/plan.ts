@@ -1,0 +1,115 @@
+/* Generated from specs/plan.schema.json by scripts/generate-output-types.ts: do not edit (run `npx tsx scripts/generate-output-types.ts`). */
+import type { Warning } from '../../warnings.js';
+import type { ModelDescription } from './shared.js';
+
+/**
+ * Designs that spend a time budget (skytally plan). Hours per pointing, areas in deg^2, limits in limit_variable (apparent AB magnitude or line flux in erg/s/cm^2). For a tiered design the top-level exposure and limit are those of its deepest tier; pointings, area and count are totals.
+ */
+export interface Plan {
+  format: 1;
+  title: string;
+  population: string;
+  model: ModelDescription;
+  caveat: string;
+  goal:
+    | ('count' | 'faint_count')
+    | {
+        sigma: string;
+      };
+  goal_direction: 'maximise' | 'minimise';
+  budget_hours: number;
+  overhead_hours: number;
+  field_of_view_deg2: number;
+  limit_variable: 'apparent_magnitude' | 'line_flux_cgs';
+  depth_law:
+    | {
+        kind: 'background' | 'source';
+        reference_limit: number;
+        reference_exposure_hours: number;
+      }
+    | {
+        kind: 'table';
+        /**
+         * [[hours, limit], ...]
+         */
+        table: number[][];
+      };
+  cosmic_variance: boolean;
+  minimum_count: number;
+  exposure_grid: {
+    min_hours: number;
+    max_hours: number;
+    count: number;
+  };
+  tiers: number;
+  /**
+   * The area or the limit the plan file fixes.
+   */
+  fixed?:
+    | {
+        area_deg2: number;
+      }
+    | {
+        limit: number;
+      };
+  budget_fractions?: number[][];
+  /**
+   * @minItems 1
+   */
+  designs: PlanDesign[];
+  best: PlanDesign;
+  neighbours: PlanDesign[];
+  /**
+   * The designs whose goal value is within `tolerance` (0.05) of the best: from the smallest area to the largest.
+   */
+  near_best: {
+    tolerance: number;
+    from: PlanDesign;
+    to: PlanDesign;
+    designs_within: number;
+    contiguous: boolean;
+  };
+  refinement: {
+    method: string;
+    grid_best: PlanDesign;
+    improved: boolean;
+  };
+  notes: string[];
+  /**
+   * What the reader should know although nothing stopped the work (also printed on stderr, one line each); empty when there is nothing to say.
+   */
+  warnings: Warning[];
+}
+export interface PlanDesign {
+  exposure_hours_per_pointing: number;
+  pointings: number;
+  area_deg2: number;
+  limit: number;
+  count: number;
+  /**
+   * Expected count fainter than L* (or M*).
+   */
+  faint_count: number;
+  goal_value: number;
+  hours_used: number;
+  meets_minimum_count: boolean;
+  /**
+   * Fisher sigma of every parameter (sigma goal only).
+   */
+  sigma?: {
+    [k: string]: number;
+  };
+  /**
+   * @minItems 2
+   * @maxItems 3
+   */
+  tiers?: PlanTier[];
+}
+export interface PlanTier {
+  budget_fraction: number;
+  exposure_hours_per_pointing: number;
+  pointings: number;
+  area_deg2: number;
+  limit: number;
+  count: number;
+}

@@ -1,0 +1,95 @@
+/* Generated from the definitions several schemas of specs/ hold by scripts/generate-output-types.ts: do not edit (run `npx tsx scripts/generate-output-types.ts`). */
+/**
+ * The completeness as the loader stored it: x in the completeness variable (observed AB magnitude; -log10 line flux; log10 quantity or absolute magnitude); it falls as x grows.
+ */
+export type CompletenessBlock =
+  | {
+      model: 'logistic';
+      half: number;
+      width: number;
+    }
+  | {
+      model: 'table';
+      x: number[];
+      fraction: number[];
+    };
+
+/**
+ * The assumed flat Lambda-CDM cosmology (the same block in every output). omega_b, sigma8 and n_s are absent only where the output depends on the expansion alone (distances from flags).
+ */
+export interface CosmologyBlock {
+  /**
+   * km/s/Mpc
+   */
+  h0: number;
+  omega_m: number;
+  omega_lambda: number;
+  omega_r: number;
+  /**
+   * K; 0 means no radiation
+   */
+  t_cmb: number;
+  omega_b?: number;
+  sigma8?: number;
+  n_s?: number;
+  preset?: string;
+  preset_source?: string;
+}
+/**
+ * The assumed model of a population (src/population/describe.ts): each Schechter parameter as written and at the window's middle, and a one-line summary. A forecast is only as good as the luminosity function assumed.
+ */
+export interface ModelDescription {
+  name: string;
+  shape: 'schechter' | 'double_schechter';
+  variable: 'luminosity' | 'magnitude';
+  /**
+   * what L* measures in a threshold survey, e.g. stellar mass [Msun]
+   */
+  quantity?: string;
+  window: RedshiftRange;
+  phi_star_mpc3: ParameterDescription;
+  l_star?: ParameterDescription;
+  m_star?: ParameterDescription;
+  alpha: ParameterDescription;
+  /**
+   * double_schechter: both components (phi_star_mpc3 and alpha above are the first)
+   */
+  components?: {
+    phi_star_mpc3: ParameterDescription;
+    alpha: ParameterDescription;
+  }[];
+  sfr_conversion?: {
+    name: 'halpha' | 'oii' | 'uv' | 'factor';
+    /**
+     * Msun/yr per erg/s (per erg/s/Hz for a magnitude variable)
+     */
+    factor: number;
+    source: string;
+  };
+  line_angstrom?: number;
+  rest_wavelength_angstrom?: number;
+  /**
+   * one line a person can read
+   */
+  summary: string;
+}
+export interface RedshiftRange {
+  min: number;
+  max: number;
+}
+/**
+ * One parameter of the assumed model: as written in the file and its value at the middle of the population's window.
+ */
+export interface ParameterDescription {
+  /**
+   * as written: a number, a table in z or an expression in z (normalisations in Mpc^-3 after the log10_ and _dex forms are converted)
+   */
+  given: number | string | ZTable;
+  at_window_middle: number;
+}
+export interface ZTable {
+  /**
+   * [[z, value], ...], interpolated linearly
+   */
+  table: number[][];
+}
