@@ -22,6 +22,7 @@
 import { excerpt, inputError, type ErrorCode } from '../errors.js';
 import type { BackgroundCosmology, Cosmology } from '../model/cosmology.js';
 import { omegaRadiation } from './constants.js';
+import { precise } from '../render/format.js';
 import { PRESETS, presetNamed } from './presets.js';
 
 /** Defaults for keys a survey file (or the flags) leave out. */
@@ -70,9 +71,7 @@ export type CosmologySource = { kind: 'file'; file: string } | { kind: 'flags' }
 
 const LIBRARY: CosmologySource = { kind: 'file', file: '' };
 
-function short(v: number): string {
-  return Number.isFinite(v) ? String(Number(v.toPrecision(6))) : String(v);
-}
+const short = (v: number): string => precise(v, 6);
 
 function refuse(source: CosmologySource, parameter: CosmologyParameter, code: ErrorCode, what: string, fix: string): never {
   if (source.kind === 'flags') throw inputError('bad_option', '', COSMOLOGY_KEYS[parameter].flag, what, fix);

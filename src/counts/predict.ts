@@ -48,6 +48,7 @@ import {
 import { describeModel } from '../population/describe.js';
 import { bandRedEdgeAngstrom, LYMAN_ALPHA_ANGSTROM } from '../selection/igm.js';
 import { mergeWarnings, warning, type Warning } from '../warnings.js';
+import { precise } from '../render/format.js';
 import { surveyWarnings } from '../population/warnings.js';
 
 /** The detection block of the prediction: the survey's detection in the outputs' names and units. */
@@ -248,9 +249,7 @@ export function detectionWarnings(populations: readonly { name: string; count: n
     .map((p) => warning('no_detections', `${p.name}: fewer than one source is expected over its window z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)} (${fmtNum(p.count)}); if it should be seen, ${hint}`));
 }
 
-function fmtNum(x: number): string {
-  return String(Number(x.toPrecision(4)));
-}
+const fmtNum = (x: number): string => precise(x, 4);
 
 export interface PredictOptions {
   /** Skip Poisson and cosmic-variance uncertainties (faster; used inside forecasts and plans). */

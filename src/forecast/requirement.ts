@@ -18,6 +18,7 @@ import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import type { ZParam } from '../model/zparam.js';
 import { FULL_SKY_DEG2, MIN_AREA_DEG2, SR_PER_DEG2 } from '../model/sky.js';
+import { precise } from '../render/format.js';
 import { brent, expandBracket } from '../numerics/roots.js';
 import { buildDensityGrid } from './grid.js';
 import { fisherParts, marginaliseNormalisations, summariseFisher, type FisherParts } from './fisher.js';
@@ -108,9 +109,7 @@ export function limitVariable(survey: Survey, p: Population): Requirement['limit
   return p.variable === 'luminosity' ? 'log10_quantity' : 'absolute_magnitude';
 }
 
-function fmt(x: number): string {
-  return Number(x.toPrecision(3)).toString();
-}
+const fmt = (x: number): string => precise(x, 3);
 
 export function requirement(ctx: RequirementContext, targets: Record<string, number>): Requirement {
   const { survey, population, cosmo, names } = ctx;

@@ -41,8 +41,8 @@ export interface BlockJob<D, R extends BlockResult> {
   prepare: (data: D) => BlockFunction<R>;
   /** The job's name in the worker entry's table (`serveJobs`); its loader gives the same `prepare`. */
   job: string;
-  /** The worker entry (a file path or file: URL); by default the package's (see above). */
-  entry?: string | URL | undefined;
+  /** The worker entry (a file path); by default the package's (see above). */
+  entry?: string | undefined;
   /** Each block's result, in the order blocks finish. */
   onBlock: (start: number, end: number, result: R) => void;
   /** Indices done so far, after each block. */

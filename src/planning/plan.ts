@@ -12,6 +12,7 @@ import { inputError } from '../errors.js';
 import type { PlanSpec } from '../model/plan.js';
 import { parameterNames } from '../model/population.js';
 import { makeDepthModel } from './depth.js';
+import { precise } from '../render/format.js';
 import { assertCounts, buildDesignModel, sigmasOf, type DesignModel } from './model.js';
 import { combine, logGrid, maximises, nearBest, pointingsFor, searchSingleTier, searchTiers, NEAR_BEST_TOLERANCE, type Budget, type Evaluated } from './search.js';
 import { warning, mergeWarnings, type Warning } from '../warnings.js';
@@ -229,7 +230,7 @@ export function gridEdgeWarning(best: Evaluated, exposures: readonly number[], s
   if (exposures.length < 3) return undefined;
   const low = exposures[1]!;
   const high = exposures[exposures.length - 2]!;
-  const fmt = (x: number) => String(Number(x.toPrecision(3)));
+  const fmt = (x: number) => precise(x, 3);
   for (const t of best.tiers) {
     const end = t.hours < low ? 'shortest' : t.hours > high ? 'longest' : undefined;
     if (!end) continue;

@@ -7,20 +7,14 @@ import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import type { ZParam } from '../model/zparam.js';
 import type { ModelDescription, ParameterDescription } from '../model/outputs/shared.js';
+import { compact } from '../render/format.js';
 
 /** A parameter as written and at redshift z (the window's middle). */
 function parameterAt(p: ZParam, z: number): ParameterDescription {
   return { given: p.source, at_window_middle: p.at(z) };
 }
 
-function fmt(x: number): string {
-  const ax = Math.abs(x);
-  if (ax !== 0 && (ax >= 1e5 || ax < 1e-3)) {
-    const [m, e] = x.toExponential(3).split('e');
-    return `${Number(m)}e${Number(e)}`;
-  }
-  return Number(x.toPrecision(4)).toString();
-}
+const fmt = (x: number): string => compact(x, 4);
 
 export function describeModel(survey: Survey, p: Population): ModelDescription {
   const zMid = 0.5 * (p.window.min + p.window.max);

@@ -6,6 +6,7 @@
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { warning, type Warning } from '../warnings.js';
+import { exponential, precise } from '../render/format.js';
 
 /**
  * Below this a line or continuum luminosity [erg/s] is implausible for a galaxy: the faintest
@@ -20,14 +21,8 @@ export const MIN_PLAUSIBLE_LUMINOSITY_ERG_S = 1e30;
  */
 export const PLAUSIBLE_M_STAR = { brightest: -30, faintest: -10 } as const;
 
-function fmt(x: number): string {
-  return String(Number(x.toPrecision(4)));
-}
-
-/** 1.995e42 */
-function expText(x: number): string {
-  return Number(x.toPrecision(4)).toExponential().replace('+', '');
-}
+const fmt = (x: number): string => precise(x, 4);
+const expText = (x: number): string => exponential(x, 4);
 
 /** The window's ends and middle: where a parameter in z is looked at. */
 function probeRedshifts(p: Population): number[] {

@@ -11,7 +11,9 @@
  */
 import type { Figure, ForecastView, LuminosityFunctionCurve, ModelAsWritten, PlanView, PredictionView, SliceView } from './types.js';
 import type { ObservedBins } from '../model/outputs/prediction.js';
-import { goalWords, wrapWords } from './format.js';
+import { formatRange, goalWords, precise, wrapWords } from './format.js';
+
+export { formatRange };
 
 type Spec = Record<string, unknown>;
 
@@ -81,17 +83,6 @@ export const DELTA_CHI2_2D = {
 // Small helpers
 
 const finite = (...xs: unknown[]): boolean => xs.every((x) => typeof x === 'number' && Number.isFinite(x));
-
-/** "0.80–1.00": a redshift range with the digits its edges need (up to 4 decimals). */
-export function formatRange(a: number, b: number): string {
-  const digits = Math.max(decimals(a), decimals(b), 2);
-  return `${a.toFixed(digits)}–${b.toFixed(digits)}`;
-}
-
-function decimals(x: number): number {
-  for (let d = 0; d <= 4; d++) if (Math.abs(Number(x.toFixed(d)) - x) < 1e-9) return d;
-  return 4;
-}
 
 function withTitle(surveyTitle: string | undefined, what: string): string {
   const t = (surveyTitle ?? '').trim();
@@ -840,8 +831,7 @@ function capitalise(s: string): string {
 }
 
 function fmtShort(x: unknown): string {
-  if (typeof x !== 'number' || !Number.isFinite(x)) return '?';
-  return Number(x.toPrecision(3)).toString();
+  return typeof x === 'number' && Number.isFinite(x) ? precise(x, 3) : '?';
 }
 
 // ---------------------------------------------------------------------------------------------

@@ -1,4 +1,8 @@
-/** Number formatting for tables: significant figures, no trailing noise. (CSV: csv.ts.) */
+/**
+ * The one module that writes numbers and words for people: tables, the HTML report, figure
+ * labels, and the numbers inside messages and warnings (CSV and JSON write numbers in full:
+ * csv.ts, src/cli/io.ts). It imports nothing, so every layer may use it.
+ */
 
 /** A number with `sig` significant figures; exponent form outside [1e-3, 1e6). */
 export function sig(x: number, digits = 4): string {
@@ -14,6 +18,95 @@ export function sig(x: number, digits = 4): string {
 
 function trimZeros(s: string): string {
   return s.includes('.') && !s.includes('e') ? s.replace(/0+$/, '').replace(/\.$/, '') : s;
+}
+
+/**
+ * `digits` significant figures, as short as JavaScript writes them (0.30000 -> "0.3", 1.5e-17
+ * stays "1.5e-17"): the numbers inside messages and warnings. Not finite: as JavaScript writes it.
+ */
+export function precise(x: number, digits = 4): string {
+  return Number.isFinite(x) ? String(Number(x.toPrecision(digits))) : String(x);
+}
+
+/** Like `precise`, but in exponent form (1.995e42) beyond [1e-3, 1e5): parameter values in a model summary. */
+export function compact(x: number, digits = 4): string {
+  const ax = Math.abs(x);
+  if (ax !== 0 && (ax >= 1e5 || ax < 1e-3)) {
+    const [m, e] = x.toExponential(digits - 1).split('e');
+    return `${Number(m)}e${Number(e)}`;
+  }
+  return precise(x, digits);
+}
+
+/** Always in exponent form, `digits` significant figures: 1.995e42. */
+export function exponential(x: number, digits = 4): string {
+  return Number(x.toPrecision(digits)).toExponential().replace('+', '');
+}
+
+/** "0.80–1.00": a redshift range with the digits its edges need (2 to 4 decimals). */
+export function formatRange(a: number, b: number): string {
+  const digits = Math.max(decimalsNeeded(a), decimalsNeeded(b), 2);
+  return `${a.toFixed(digits)}–${b.toFixed(digits)}`;
+}
+
+/** Decimals (0 to 4) that write x to 1e-9. */
+function decimalsNeeded(x: number): number {
+  for (let d = 0; d <= 4; d++) if (Math.abs(Number(x.toFixed(d)) - x) < 1e-9) return d;
+  return 4;
+}
+
+/**
+ * A number for a table, as HTML: `sig` significant digits; thousands separated by commas at
+ * 1000 or more (below 1e7); powers of ten written out (1.23 × 10<sup>8</sup>) from 1e7 up and
+ * below 1e-3. Not finite: an em dash (callers never pass one; outputs hold no NaN).
+ */
+export function formatNumber(x: number, sig = 4): string {
+  if (typeof x !== 'number' || !Number.isFinite(x)) return '—';
+  if (x === 0) return '0';
+  const ax = Math.abs(x);
+  if (ax >= 1e7 || ax < 1e-3) {
+    const [m, e] = x.toExponential(sig - 1).split('e');
+    const mant = String(Number(m));
+    return `${mant} × 10<sup>${Number(e)}</sup>`;
+  }
+  if (ax >= 1000) return groupThousands(Math.round(x));
+  return String(Number(x.toPrecision(sig)));
+}
+
+/**
+ * An integer with commas between groups of three digits, as toLocaleString('en-US') writes it
+ * (written out here: the first toLocaleString of a process loads the locale data, tens of ms).
+ */
+export function groupThousands(n: number): string {
+  const digits = String(Math.abs(n));
+  let out = '';
+  for (let i = 0; i < digits.length; i++) {
+    if (i > 0 && (digits.length - i) % 3 === 0) out += ',';
+    out += digits[i];
+  }
+  return n < 0 ? `-${out}` : out;
+}
+
+/** Fixed decimals for redshifts: as many as the edges need, 2 to 4. */
+export function formatZ(z: number): string {
+  return z.toFixed(Math.max(2, decimalsNeeded(z)));
+}
+
+export function percent(f: number | undefined): string {
+  return typeof f === 'number' && Number.isFinite(f) ? `${(100 * f).toFixed(1)}%` : '';
+}
+
+/** Fixed decimals (limits: log10 L, log10 flux or AB magnitudes, to 0.01). */
+export function formatFixed(x: number, decimals = 2): string {
+  return typeof x === 'number' && Number.isFinite(x) ? x.toFixed(decimals).replace(/^-(0\.0*)$/, '$1') : '—';
+}
+
+/** Always in powers of ten with `sig` digits kept, for columns spanning decades (volumes): 1.10 × 10<sup>6</sup>. */
+export function formatScientific(x: number, sig = 3): string {
+  if (typeof x !== 'number' || !Number.isFinite(x)) return '—';
+  if (x === 0) return '0';
+  const [m, e] = x.toExponential(sig - 1).split('e');
+  return `${m} × 10<sup>${Number(e)}</sup>`;
 }
 
 /** Fixed decimals (e.g. magnitudes, redshifts). */

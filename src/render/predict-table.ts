@@ -166,6 +166,7 @@ function observedTable(p: Prediction): string {
   return table.toString();
 }
 
+/** A share in per cent, 3 significant figures. */
 function pct(x: number): string {
   return `${sig(100 * x, 3)}%`;
 }

@@ -8,7 +8,7 @@
  * This module does not import vega: figures arrive already drawn (see figures.ts).
  */
 import type { Figure, ForecastView, ModelAsWritten, PlanDesignView, PlanView, PredictionView, SliceView } from './types.js';
-import { goalWords, shapeWords } from './format.js';
+import { formatFixed, formatNumber, formatScientific, formatZ, goalWords, percent, shapeWords } from './format.js';
 
 export interface ReportInput {
   /** The survey file exactly as written. */
@@ -98,61 +98,6 @@ export function svgForHtml(svg: string): string {
 
 // ---------------------------------------------------------------------------------------------
 // Numbers
-
-/**
- * A number for a table, as HTML: `sig` significant digits; thousands separated by commas at
- * 1000 or more (below 1e7); powers of ten written out (1.23 × 10<sup>8</sup>) from 1e7 up and
- * below 1e-3. Not finite: an em dash (callers never pass one; outputs hold no NaN).
- */
-export function formatNumber(x: number, sig = 4): string {
-  if (typeof x !== 'number' || !Number.isFinite(x)) return '—';
-  if (x === 0) return '0';
-  const ax = Math.abs(x);
-  if (ax >= 1e7 || ax < 1e-3) {
-    const [m, e] = x.toExponential(sig - 1).split('e');
-    const mant = String(Number(m));
-    return `${mant} × 10<sup>${Number(e)}</sup>`;
-  }
-  if (ax >= 1000) return groupThousands(Math.round(x));
-  return String(Number(x.toPrecision(sig)));
-}
-
-/**
- * An integer with commas between groups of three digits, as toLocaleString('en-US') writes it
- * (written out here: the first toLocaleString of a process loads the locale data, tens of ms).
- */
-export function groupThousands(n: number): string {
-  const digits = String(Math.abs(n));
-  let out = '';
-  for (let i = 0; i < digits.length; i++) {
-    if (i > 0 && (digits.length - i) % 3 === 0) out += ',';
-    out += digits[i];
-  }
-  return n < 0 ? `-${out}` : out;
-}
-
-/** Fixed decimals for redshifts: as many as the edges need, 2 to 4. */
-function formatZ(z: number): string {
-  for (let d = 2; d <= 4; d++) if (Math.abs(Number(z.toFixed(d)) - z) < 1e-9) return z.toFixed(d);
-  return z.toFixed(4);
-}
-
-function percent(f: number | undefined): string {
-  return typeof f === 'number' && Number.isFinite(f) ? `${(100 * f).toFixed(1)}%` : '';
-}
-
-/** Fixed decimals (limits: log10 L, log10 flux or AB magnitudes, to 0.01). */
-function formatFixed(x: number, decimals = 2): string {
-  return typeof x === 'number' && Number.isFinite(x) ? x.toFixed(decimals).replace(/^-(0\.0*)$/, '$1') : '—';
-}
-
-/** Always in powers of ten with `sig` digits kept, for columns spanning decades (volumes): 1.10 × 10<sup>6</sup>. */
-export function formatScientific(x: number, sig = 3): string {
-  if (typeof x !== 'number' || !Number.isFinite(x)) return '—';
-  if (x === 0) return '0';
-  const [m, e] = x.toExponential(sig - 1).split('e');
-  return `${m} × 10<sup>${Number(e)}</sup>`;
-}
 
 // ---------------------------------------------------------------------------------------------
 // Model

@@ -4,6 +4,7 @@
  * expression in z (src/survey/expressions.ts).
  */
 import { inputError } from '../errors.js';
+import { precise } from '../render/format.js';
 import type { ZParam } from '../model/zparam.js';
 import { compileExpression } from './expressions.js';
 import { CAPS, describeRange, inRange, type Range } from '../model/limits.js';
@@ -142,6 +143,5 @@ export function checkParam(
 
 /** Short number for messages. */
 export function fmt(v: number): string {
-  if (!Number.isFinite(v)) return String(v);
-  return String(Number(v.toPrecision(6)));
+  return precise(v, 6);
 }

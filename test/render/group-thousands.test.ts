@@ -4,7 +4,7 @@
  */
 import { describe, expect, test } from 'vitest';
 import fc from 'fast-check';
-import { formatNumber, groupThousands } from '../../src/render/report.js';
+import { formatNumber, groupThousands } from '../../src/render/format.js';
 
 describe('groupThousands equals toLocaleString("en-US") (exact)', () => {
   test('every integer magnitude the tables use (|n| < 1e7) and beyond', () => {

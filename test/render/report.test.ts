@@ -2,7 +2,8 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, test } from 'vitest';
 import fc from 'fast-check';
 import { buildFigures, countsFigure } from '../../src/render/figures.js';
-import { assertSafeSvg, escapeHtml, formatNumber, renderReport, svgForHtml } from '../../src/render/report.js';
+import { assertSafeSvg, escapeHtml, renderReport, svgForHtml } from '../../src/render/report.js';
+import { formatNumber } from '../../src/render/format.js';
 import type { Figure } from '../../src/render/types.js';
 import { demoForecast, demoPlan, demoPrediction } from './demo.js';
 
