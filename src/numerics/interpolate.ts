@@ -9,7 +9,9 @@
  * - `naturalCubicSpline(xs, ys)`: C2 cubic spline with zero second derivative at both ends
  *   (de Boor 1978, "A Practical Guide to Splines", ch. 4; tridiagonal solve). Fourth-order accurate
  *   in the interior. End values held outside the grid.
- * All three throw Error when the grid is not strictly increasing, the lengths differ, fewer than
+ * - `uniformSpline(x0, dx, y)`: the same spline on a uniform grid, with `splineEval` and
+ *   `splineDerivative` (clamped to the grid's ends); no checks (the halo tables' hot loop).
+ * The first three throw Error when the grid is not strictly increasing, the lengths differ, fewer than
  * two points are given, or a value is not finite.
  */
 
@@ -136,6 +138,32 @@ export function monotoneCubic(xs: ArrayLike<number>, ys: ArrayLike<number>): Int
 }
 
 /**
+ * The second derivatives M_i of the natural cubic spline through (xs_i, ys_i) (M_0 = M_{n-1} = 0):
+ * the tridiagonal system (h_{i-1}/6) M_{i-1} + ((h_{i-1} + h_i)/3) M_i + (h_i/6) M_{i+1} =
+ * (y_{i+1} - y_i)/h_i - (y_i - y_{i-1})/h_{i-1}, solved by the Thomas algorithm.
+ */
+function naturalSecondDerivatives(X: ArrayLike<number>, Y: ArrayLike<number>): Float64Array {
+  const n = X.length;
+  const M = new Float64Array(n);
+  if (n < 3) return M;
+  const c = new Float64Array(n);
+  const r = new Float64Array(n);
+  for (let i = 1; i < n - 1; i++) {
+    const h0 = X[i]! - X[i - 1]!;
+    const h1 = X[i + 1]! - X[i]!;
+    const a = h0 / 6;
+    const b = (h0 + h1) / 3;
+    const cc = h1 / 6;
+    const rhs = (Y[i + 1]! - Y[i]!) / h1 - (Y[i]! - Y[i - 1]!) / h0;
+    const denom = b - a * c[i - 1]!;
+    c[i] = cc / denom;
+    r[i] = (rhs - a * r[i - 1]!) / denom;
+  }
+  for (let i = n - 2; i >= 1; i--) M[i] = r[i]! - c[i]! * M[i + 1]!;
+  return M;
+}
+
+/**
  * Natural cubic spline (second derivative zero at both ends), C2.
  * @example naturalCubicSpline([0, 1, 2, 3], [0, 1, 8, 27])(1.5) // 3.15 (the natural end condition is not x^3's)
  */
@@ -144,24 +172,7 @@ export function naturalCubicSpline(xs: ArrayLike<number>, ys: ArrayLike<number>)
   const X = Float64Array.from(xs);
   const Y = Float64Array.from(ys);
   const n = X.length;
-  // Solve for second derivatives M (M_0 = M_{n-1} = 0) with the Thomas algorithm.
-  const M = new Float64Array(n);
-  if (n > 2) {
-    const c = new Float64Array(n);
-    const r = new Float64Array(n);
-    for (let i = 1; i < n - 1; i++) {
-      const h0 = X[i]! - X[i - 1]!;
-      const h1 = X[i + 1]! - X[i]!;
-      const a = h0 / 6;
-      const b = (h0 + h1) / 3;
-      const cc = h1 / 6;
-      const rhs = (Y[i + 1]! - Y[i]!) / h1 - (Y[i]! - Y[i - 1]!) / h0;
-      const denom = b - a * c[i - 1]!;
-      c[i] = cc / denom;
-      r[i] = (rhs - a * r[i - 1]!) / denom;
-    }
-    for (let i = n - 2; i >= 1; i--) M[i] = r[i]! - c[i]! * M[i + 1]!;
-  }
+  const M = naturalSecondDerivatives(X, Y);
   const fn = (x: number): number => {
     if (x <= X[0]!) return Y[0]!;
     if (x >= X[n - 1]!) return Y[n - 1]!;
@@ -172,4 +183,43 @@ export function naturalCubicSpline(xs: ArrayLike<number>, ys: ArrayLike<number>)
     return A * Y[i]! + B * Y[i + 1]! + (((A * A * A - A) * M[i]! + (B * B * B - B) * M[i + 1]!) * h * h) / 6;
   };
   return Object.assign(fn, { xs: X, ys: Y });
+}
+
+/** Natural cubic spline through (x_i, y_i), x ascending and uniformly spaced. */
+export interface UniformSpline {
+  readonly x0: number;
+  readonly dx: number;
+  readonly y: Float64Array;
+  /** Second derivatives at the knots. */
+  readonly m: Float64Array;
+}
+
+/** The natural spline of `naturalCubicSpline` on the grid x0 + i dx, kept with its second derivatives (for `splineDerivative`). */
+export function uniformSpline(x0: number, dx: number, y: Float64Array): UniformSpline {
+  const xs = Float64Array.from(y, (_, i) => x0 + i * dx);
+  return { x0, dx, y, m: naturalSecondDerivatives(xs, y) };
+}
+
+/** The knot interval holding x (clamped to the knot range) and the position t in it. */
+function splineInterval(s: UniformSpline, x: number): { i: number; t: number } {
+  const n = s.y.length;
+  let i = Math.floor((x - s.x0) / s.dx);
+  if (i < 0) i = 0;
+  if (i > n - 2) i = n - 2;
+  return { i, t: (x - (s.x0 + i * s.dx)) / s.dx };
+}
+
+/** Spline value at x. */
+export function splineEval(s: UniformSpline, x: number): number {
+  const { i, t } = splineInterval(s, x);
+  const u = 1 - t;
+  const h2 = s.dx * s.dx;
+  return u * s.y[i]! + t * s.y[i + 1]! + ((u * u * u - u) * s.m[i]! + (t * t * t - t) * s.m[i + 1]!) * (h2 / 6);
+}
+
+/** Spline first derivative at x. */
+export function splineDerivative(s: UniformSpline, x: number): number {
+  const { i, t } = splineInterval(s, x);
+  const u = 1 - t;
+  return (s.y[i + 1]! - s.y[i]!) / s.dx + ((-(3 * u * u - 1)) * s.m[i]! + (3 * t * t - 1) * s.m[i + 1]!) * (s.dx / 6);
 }
