@@ -310,14 +310,17 @@ function observedBins(survey: Survey, runs: { name: string; own: SliceCount[] }[
   return { variable: hists[0]!.variable, width, bins };
 }
 
-export function predict(survey: Survey, options: PredictOptions = {}): Prediction {
-  const cosmo = new FlatCosmology(survey.cosmology);
-  const width = survey.histogramWidth;
-  const units = survey.populations.map((p) => luminosityDensityUnit(survey, p));
-  const withUncertainty = !options.noUncertainty;
-  // Each population over its own window and slices: its own result.
-  const runs = survey.populations.map((p, i) => {
-    const own = countPopulation(survey, p, cosmo, p.sliceEdges, withUncertainty ? { profile: true } : {});
+/** One population counted over its own window and slices: the engine's counts and its own result. */
+interface PopulationRun {
+  name: string;
+  own: SliceCount[];
+  pred: PopulationPrediction;
+}
+
+/** Every population over its own window and slice edges (with the engine's redshift profiles when uncertainties follow). */
+function countPopulations(survey: Survey, cosmo: FlatCosmology, units: string[], profiles: boolean): PopulationRun[] {
+  return survey.populations.map((p, i) => {
+    const own = countPopulation(survey, p, cosmo, p.sliceEdges, profiles ? { profile: true } : {});
     const sfr = p.sfrConversion?.factor;
     const pred: PopulationPrediction = {
       name: p.name,
@@ -328,95 +331,111 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
     };
     return { name: p.name, own, pred };
   });
-  const perPop = runs.map((r) => r.pred);
-  const coincide = windowsCoincide(survey);
-  const single = survey.populations.length === 1;
-  const sameUnit = units.every((u) => u === units[0]);
+}
 
-  // Top level, breakdown "redshift": the sum over populations of their slices (the same edges).
-  let slices: PredictionSlice[] | undefined;
-  let totals: PredictionTotals;
-  if (single) {
-    slices = perPop[0]!.slices;
-    totals = perPop[0]!.totals;
-  } else if (coincide) {
-    let cumulative = 0;
-    const topCounts: SliceCount[] = [];
-    slices = runs[0]!.own.map((first, i) => {
-      const parts = runs.map((r) => r.own[i]!);
-      const count = parts.reduce((a, sc) => a + sc.count, 0);
-      cumulative += count;
-      let lum: Lum | undefined = { detected: 0, total: 0 };
-      for (const sc of parts) lum = addLum(lum, sc.luminosity);
-      const histogram = sumHistograms(parts.map((sc) => sc.histogram), width);
-      const sc: SliceCount = { zMin: first.zMin, zMax: first.zMax, volumeMpc3: first.volumeMpc3, count, limitAtCenter: first.limitAtCenter, histogram };
-      if (lum && sameUnit) sc.luminosity = lum;
-      topCounts.push(sc);
-      const slice: PredictionSlice = {
-        z_min: first.zMin,
-        z_max: first.zMax,
-        volume_mpc3: first.volumeMpc3,
-        count,
-        per_deg2: count / survey.areaDeg2,
-        cumulative_count: cumulative,
-        limit_at_center: first.limitAtCenter,
-        histogram,
-        population_counts: Object.fromEntries(runs.map((r, k) => [r.name, parts[k]!.count])),
-      };
-      const ld = sameUnit ? densityOf(sc.luminosity, first.volumeMpc3, units[0]!) : undefined;
-      if (ld) slice.luminosity_density = ld;
-      const sfr = sfrSum(survey, parts.map((x) => x.luminosity), first.volumeMpc3, units);
-      if (sfr && sameUnit) slice.sfr_density_msun_yr_mpc3 = sfr;
-      return slice;
-    });
-    totals = totalsOf(topCounts, survey.areaDeg2, sameUnit ? units[0] : undefined);
-    if (totals.luminosity_density) {
-      const sfr = sfrSum(
-        survey,
-        runs.map((r) => r.own.reduce<Lum | undefined>((a, sc) => addLum(a, sc.luminosity), { detected: 0, total: 0 })),
-        totals.volume_mpc3,
-        units,
-      );
-      if (sfr) totals.sfr_density_msun_yr_mpc3 = sfr;
-    }
-  } else {
-    // Breakdown "observed": the total over every window; densities stay with each population.
-    const count = perPop.reduce((a, q) => a + q.totals.count, 0);
-    totals = {
+/**
+ * The top-level slices of several populations counted on the same edges (breakdown "redshift"):
+ * each slice the sum over populations, with each one's count; densities only when every
+ * population's are in one unit.
+ */
+function summedSlices(survey: Survey, runs: PopulationRun[], units: string[]): { slices: PredictionSlice[]; totals: PredictionTotals } {
+  const sameUnit = units.every((u) => u === units[0]);
+  let cumulative = 0;
+  const topCounts: SliceCount[] = [];
+  const slices = runs[0]!.own.map((first, i) => {
+    const parts = runs.map((r) => r.own[i]!);
+    const count = parts.reduce((a, sc) => a + sc.count, 0);
+    cumulative += count;
+    let lum: Lum | undefined = { detected: 0, total: 0 };
+    for (const sc of parts) lum = addLum(lum, sc.luminosity);
+    const histogram = sumHistograms(parts.map((sc) => sc.histogram), survey.histogramWidth);
+    const sc: SliceCount = { zMin: first.zMin, zMax: first.zMax, volumeMpc3: first.volumeMpc3, count, limitAtCenter: first.limitAtCenter, histogram };
+    if (lum && sameUnit) sc.luminosity = lum;
+    topCounts.push(sc);
+    const slice: PredictionSlice = {
+      z_min: first.zMin,
+      z_max: first.zMax,
+      volume_mpc3: first.volumeMpc3,
       count,
       per_deg2: count / survey.areaDeg2,
-      volume_mpc3: unionVolume(survey, cosmo, survey.populations.map(countedRange)),
+      cumulative_count: cumulative,
+      limit_at_center: first.limitAtCenter,
+      histogram,
+      population_counts: Object.fromEntries(runs.map((r, k) => [r.name, parts[k]!.count])),
     };
+    const ld = sameUnit ? densityOf(sc.luminosity, first.volumeMpc3, units[0]!) : undefined;
+    if (ld) slice.luminosity_density = ld;
+    const sfr = sameUnit ? sfrSum(survey, parts.map((x) => x.luminosity), first.volumeMpc3, units) : undefined;
+    if (sfr) slice.sfr_density_msun_yr_mpc3 = sfr;
+    return slice;
+  });
+  const totals = totalsOf(topCounts, survey.areaDeg2, sameUnit ? units[0] : undefined);
+  if (totals.luminosity_density) {
+    const lums = runs.map((r) => r.own.reduce<Lum | undefined>((a, sc) => addLum(a, sc.luminosity), { detected: 0, total: 0 }));
+    const sfr = sfrSum(survey, lums, totals.volume_mpc3, units);
+    if (sfr) totals.sfr_density_msun_yr_mpc3 = sfr;
   }
+  return { slices, totals };
+}
 
-  const uncertaintyWarnings: Warning[] = [];
-  if (withUncertainty) {
-    const ctx = uncertaintyContext(survey, cosmo);
-    ctx.warnings = uncertaintyWarnings;
-    if (options.uncertaintyMemo) ctx.memo = options.uncertaintyMemo;
-    const partsOf = (k: number): TotalPart[] =>
-      runs[k]!.own.map((sc) => ({ population: survey.populations[k]!, count: sc.count, zMin: sc.zMin, zMax: sc.zMax, profile: sc.profile! }));
-    // Each population over its own window and slices.
-    survey.populations.forEach((pop, k) => {
-      const own = perPop[k]!;
-      own.slices.forEach((sl) => {
-        const u = combinedUncertainty(ctx, [{ population: pop, count: sl.count, volumeMpc3: sl.volume_mpc3 }], sl.z_min, sl.z_max, 0.5 * (sl.z_min + sl.z_max));
-        if (u) sl.uncertainty = u;
-      });
-      setTotalUncertainty(own.totals, totalUncertainty(ctx, partsOf(k)));
+/** Poisson and cosmic-variance uncertainties of every population's slices and totals, and of the top level's. */
+function addUncertainties(
+  survey: Survey,
+  cosmo: FlatCosmology,
+  runs: PopulationRun[],
+  top: { slices: PredictionSlice[] | undefined; totals: PredictionTotals },
+  options: PredictOptions,
+): Warning[] {
+  const warnings: Warning[] = [];
+  const ctx = uncertaintyContext(survey, cosmo);
+  ctx.warnings = warnings;
+  if (options.uncertaintyMemo) ctx.memo = options.uncertaintyMemo;
+  const partsOf = (k: number): TotalPart[] =>
+    runs[k]!.own.map((sc) => ({ population: survey.populations[k]!, count: sc.count, zMin: sc.zMin, zMax: sc.zMax, profile: sc.profile! }));
+  // Each population over its own window and slices.
+  survey.populations.forEach((pop, k) => {
+    const own = runs[k]!.pred;
+    own.slices.forEach((sl) => {
+      const u = combinedUncertainty(ctx, [{ population: pop, count: sl.count, volumeMpc3: sl.volume_mpc3 }], sl.z_min, sl.z_max, 0.5 * (sl.z_min + sl.z_max));
+      if (u) sl.uncertainty = u;
     });
-    if (!single) {
-      // Top-level slices (several populations in one slice: their count-weighted bias).
-      slices?.forEach((sl, i) => {
-        const parts = survey.populations.map((pop, k) => ({ population: pop, count: runs[k]!.own[i]!.count, volumeMpc3: sl.volume_mpc3 }));
-        const u = combinedUncertainty(ctx, parts, sl.z_min, sl.z_max, 0.5 * (sl.z_min + sl.z_max));
-        if (u) sl.uncertainty = u;
-      });
-      setTotalUncertainty(totals, totalUncertainty(ctx, survey.populations.flatMap((_, k) => partsOf(k))));
-    }
+    setTotalUncertainty(own.totals, totalUncertainty(ctx, partsOf(k)));
+  });
+  if (survey.populations.length > 1) {
+    // Top-level slices (several populations in one slice: their count-weighted bias).
+    top.slices?.forEach((sl, i) => {
+      const parts = survey.populations.map((pop, k) => ({ population: pop, count: runs[k]!.own[i]!.count, volumeMpc3: sl.volume_mpc3 }));
+      const u = combinedUncertainty(ctx, parts, sl.z_min, sl.z_max, 0.5 * (sl.z_min + sl.z_max));
+      if (u) sl.uncertainty = u;
+    });
+    setTotalUncertainty(top.totals, totalUncertainty(ctx, survey.populations.flatMap((_, k) => partsOf(k))));
   }
+  return warnings;
+}
+
+export function predict(survey: Survey, options: PredictOptions = {}): Prediction {
+  const cosmo = new FlatCosmology(survey.cosmology);
+  const units = survey.populations.map((p) => luminosityDensityUnit(survey, p));
+  const withUncertainty = !options.noUncertainty;
+  const runs = countPopulations(survey, cosmo, units, withUncertainty);
+  const perPop = runs.map((r) => r.pred);
+  const coincide = windowsCoincide(survey);
+
+  // The top level: one population's own result; the sum of populations counted on the same
+  // edges (breakdown "redshift"); or, windows that differ, the total over every window alone
+  // (breakdown "observed": densities stay with each population).
+  let top: { slices: PredictionSlice[] | undefined; totals: PredictionTotals };
+  if (survey.populations.length === 1) top = { slices: perPop[0]!.slices, totals: perPop[0]!.totals };
+  else if (coincide) top = summedSlices(survey, runs, units);
+  else {
+    const count = perPop.reduce((a, q) => a + q.totals.count, 0);
+    top = { slices: undefined, totals: { count, per_deg2: count / survey.areaDeg2, volume_mpc3: unionVolume(survey, cosmo, survey.populations.map(countedRange)) } };
+  }
+  const uncertaintyWarnings = withUncertainty ? addUncertainties(survey, cosmo, runs, top, options) : [];
+
   const ranges = survey.populations.map(countedRange);
   const r0 = runs[0]!.own;
+  // (the keys in the order the JSON has always listed them)
   const head = {
     format: 1 as const,
     title: survey.title,
@@ -440,8 +459,8 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
     ),
   };
   return coincide
-    ? { ...head, breakdown: 'redshift', totals, slices: slices!, ...tail }
-    : { ...head, breakdown: 'observed', totals, ...tail };
+    ? { ...head, breakdown: 'redshift', totals: top.totals, slices: top.slices!, ...tail }
+    : { ...head, breakdown: 'observed', totals: top.totals, ...tail };
 }
 
 function setTotalUncertainty(t: PredictionTotals, u: { block: UncertaintyJson; meanRedshift: number } | undefined): void {
