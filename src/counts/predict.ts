@@ -41,7 +41,6 @@ import {
   totalUncertainty,
   uncertaintyContext,
   type TotalPart,
-  type UncertaintyContext,
   type UncertaintyJson,
   type UncertaintyMemo,
 } from '../uncertainty/prediction.js';

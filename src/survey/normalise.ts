@@ -8,11 +8,10 @@
 import { excerpt, inputError } from '../errors.js';
 import { resolveCosmology } from '../cosmology/parameters.js';
 import type { Completeness, Detection, DetectionKind, Filter, FilterProfile, IgmModel } from '../model/detection.js';
-import type { Cosmology } from '../model/cosmology.js';
 import type { InputFile, Survey } from '../model/survey.js';
 import type { Population, SfrConversion, PopulationVariable } from '../model/population.js';
 import type { ZParam } from '../model/zparam.js';
-import { schemaError, suggest } from './schema.js';
+import { schemaError } from './schema.js';
 import { isPlainNumberString, parseQuantity } from './units.js';
 import { FULL_SKY_DEG2, MIN_AREA_DEG2, SR_PER_DEG2 } from '../model/sky.js';
 import { checkParam, fmt, makeZParam, mapParam, samplePoints, type ZTable } from './zparam.js';
@@ -381,9 +380,8 @@ function parsePopulationParams(
   return { components, mStar: makeZParam(raw.m_star, file, `${path}.m_star`) };
 }
 
-/** Validate and normalise already-parsed survey data. Throws exactly one SurveyError on bad input. */
-export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): Survey {
-  const base = baseDir ?? dirname(file);
+/** The survey's mapping once it has passed the plain-data check and the schema. */
+function checkedRaw(obj: unknown, file: string): RawSurvey {
   if (!isPlainObject(obj)) {
     throw inputError('wrong_type', file, '', 'does not hold a mapping of survey keys', 'start from one of the sample surveys');
   }
@@ -391,53 +389,65 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   checkShapeKeys(obj, file);
   const invalid = schemaError(obj, file);
   if (invalid) throw invalid;
-  const raw = obj as unknown as RawSurvey;
-  /** Files read on the way (transmission tables), with their identity. */
-  const inputs: InputFile[] = [];
+  return obj as unknown as RawSurvey;
+}
 
-  const c = raw.cosmology;
-  const cosmology = resolveCosmology(
-    { preset: c.preset, h0: c.h0, omegaM: c.omega_m, tCmb: c.t_cmb, omegaB: c.omega_b, sigma8: c.sigma8, nS: c.n_s },
-    { kind: 'file', file },
-  );
-
-  // Area.
+/** The area in deg^2: positive, at least the smallest field, at most the whole sky. */
+function readArea(raw: RawSurvey, file: string): number {
   const areaDeg2 = parseQuantity(raw.area, 'area', file, 'area');
   if (!(areaDeg2 > 0)) outOfRange(file, 'area', `is ${fmt(areaDeg2)} deg^2`, 'give a positive area');
   if (areaDeg2 < MIN_AREA_DEG2) outOfRange(file, 'area', `is ${fmt(areaDeg2)} deg^2, less than the ${MIN_AREA_DEG2} deg^2 (${fmt(MIN_AREA_DEG2 * 3600)} arcmin^2) of the smallest field`, 'give a larger area');
   if (areaDeg2 > FULL_SKY_DEG2 * (1 + 1e-12)) {
     outOfRange(file, 'area', `is ${fmt(areaDeg2)} deg^2, more than the whole sky (${fmt(FULL_SKY_DEG2)} deg^2)`, 'give at most the full sky');
   }
+  return areaDeg2;
+}
 
-  // Field.
+/** How the area is split into fields (their aspect ratio and number). */
+function readField(raw: RawSurvey, file: string): Survey['field'] {
   const field = { aspect: raw.field?.aspect ?? 1, count: raw.field?.count ?? 1 };
   if (!(field.aspect > 0)) outOfRange(file, 'field.aspect', `is ${fmt(field.aspect)}`, 'give a positive aspect ratio (1 for a square field)');
   if (!(field.count >= 1)) outOfRange(file, 'field.count', `is ${field.count}`, 'give at least 1 field');
   checkRange(field.aspect, RANGES.fieldAspect, file, 'field.aspect');
   checkRange(field.count, RANGES.fieldCount, file, 'field.count');
+  return field;
+}
 
-  let exposureHours: number | undefined;
-  if (raw.exposure !== undefined) {
-    exposureHours = checkRange(positiveQuantity(raw.exposure, 'time', file, 'exposure', 'h'), RANGES.exposureHours, file, 'exposure');
-  }
+/** The exposure time of the whole survey, hours, when given. */
+function readExposure(raw: RawSurvey, file: string): number | undefined {
+  if (raw.exposure === undefined) return undefined;
+  return checkRange(positiveQuantity(raw.exposure, 'time', file, 'exposure', 'h'), RANGES.exposureHours, file, 'exposure');
+}
 
-  // Detection keys that do not belong to the kind.
-  const det = raw.detection;
+/** Detection keys that do not belong to the kind. */
+function checkDetectionKeys(det: RawSurvey['detection'], file: string): void {
   const kind = det.kind;
   for (const k of Object.keys(det)) {
     if (!DETECTION_KEYS[kind].includes(k)) {
       throw inputError('kind_mismatch', file, `detection.${k}`, `${k} does not apply to the ${kind} kind`, `remove it, or change detection.kind`);
     }
   }
+}
 
-  // Populations: list, variables, lines.
-  const rawPops: { raw: RawPopulation; path: string }[] = raw.population
+type RawPopulations = { raw: RawPopulation; path: string }[];
+
+/** The populations as listed (`population:` or `populations:`), at most CAPS.populations. */
+function populationList(raw: RawSurvey, file: string): RawPopulations {
+  const rawPops: RawPopulations = raw.population
     ? [{ raw: raw.population, path: 'population' }]
     : (raw.populations ?? []).map((p, i) => ({ raw: p, path: `populations[${i}]` }));
   if (rawPops.length > CAPS.populations) {
     throw inputError('too_large', file, 'populations', `lists ${rawPops.length} populations, more than the ${CAPS.populations} a survey may have`, 'split the survey into several files');
   }
-  const detLine = det.line !== undefined ? wavelength(det.line, file, 'detection.line') : undefined;
+  return rawPops;
+}
+
+/**
+ * Each population's variable against the detection kind, its name (unique), and its line's rest
+ * wavelength (line_flux kind: its own line, or detection.line).
+ */
+function populationLines(rawPops: RawPopulations, det: RawSurvey['detection'], detLine: number | undefined, file: string): (number | undefined)[] {
+  const kind = det.kind;
   const names = new Set<string>();
   const lines: (number | undefined)[] = [];
   rawPops.forEach(({ raw: p, path }, i) => {
@@ -462,8 +472,11 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
     }
     lines.push(line);
   });
+  return lines;
+}
 
-  // Redshift window.
+/** The redshift key, when given: within 0 to MAX_REDSHIFT and at least MIN_SLICE_WIDTH wide. */
+function readRedshift(raw: RawSurvey, file: string): Window | undefined {
   let given: Window | undefined;
   if (raw.redshift) {
     given = { min: raw.redshift.min, max: raw.redshift.max };
@@ -478,6 +491,11 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
       throw inputError('bad_window', file, 'redshift.max', `makes a window ${fmt(given.max - given.min)} wide in redshift, narrower than ${MIN_SLICE_WIDTH}`, `give a window at least ${MIN_SLICE_WIDTH} wide`);
     }
   }
+  return given;
+}
+
+/** The filter of a line_flux survey, when given: a profile with its centre and width, or a transmission table (read and recorded in `inputs`). */
+function readFilter(det: RawSurvey['detection'], file: string, base: string, inputs: InputFile[]): Filter | undefined {
   let filter: Filter | undefined;
   if (det.filter) {
     const f = det.filter;
@@ -504,6 +522,11 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
       };
     }
   }
+  return filter;
+}
+
+/** Each population's whole window: the redshift key cut by where the filter sees its line. */
+function populationWindows(rawPops: RawPopulations, lines: (number | undefined)[], given: Window | undefined, filter: Filter | undefined, file: string): Window[] {
   if (!given && !filter) {
     throw inputError('missing_key', file, 'redshift', 'is missing', 'give redshift: {min, max}, or a detection.filter that sets the window');
   }
@@ -535,13 +558,17 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
     }
     return cut;
   });
-  // Every population window together: explicit edges may lie anywhere inside it.
-  const hull: Window = {
-    min: Math.min(...windows.map((w) => w.min)),
-    max: Math.max(...windows.map((w) => w.max)),
-  };
+  return windows;
+}
 
-  // Slices: the survey's follow the first population's window (or the explicit edges); each
+/**
+ * The survey's slice edges (the first population's window, or the explicit edges) and each
+ * population's own (the same rule over its own window, or the same edges).
+ */
+function readSlices(raw: RawSurvey, windows: Window[], file: string): { window: Window; edges: number[]; own: number[][] } {
+  // Every population window together: explicit edges may lie anywhere inside it.
+  const hull = hullOf(windows);
+  // The survey's slices follow the first population's window (or the explicit edges); each
   // population's own result applies the same rule to its own window (or uses the same edges).
   let window: Window = windows[0]!;
   let sliceEdgesZ: number[];
@@ -554,7 +581,7 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
     sliceEdgesZ = sliceEdges(raw.slices, window, file);
     ownEdges = windows.map((w, i) => (i === 0 ? sliceEdgesZ : sliceEdges(raw.slices, w, file)));
   }
-  const sliceResults = ownEdges.reduce((n, e) => n + (e.length - 1), 0) + (rawPops.length > 1 ? rawPops.length * (sliceEdgesZ.length - 1) : 0);
+  const sliceResults = ownEdges.reduce((n, e) => n + (e.length - 1), 0) + (windows.length > 1 ? windows.length * (sliceEdgesZ.length - 1) : 0);
   if (sliceResults > CAPS.sliceResults) {
     throw inputError(
       'bad_slices',
@@ -564,8 +591,17 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
       'give fewer slices or fewer populations',
     );
   }
+  return { window, edges: sliceEdgesZ, own: ownEdges };
+}
 
-  // Detection.
+/** The smallest window holding every window. */
+function hullOf(windows: Window[]): Window {
+  return { min: Math.min(...windows.map((w) => w.min)), max: Math.max(...windows.map((w) => w.max)) };
+}
+
+/** The detection: the limit in its kind's unit, the band or filter, the completeness. */
+function readDetection(det: RawSurvey['detection'], rawPops: RawPopulations, detLine: number | undefined, filter: Filter | undefined, hull: Window, file: string, base: string, inputs: InputFile[]): Detection {
+  const kind = det.kind;
   let detection: Detection;
   const thresholdVariable: PopulationVariable = rawPops.every((p) => p.raw.variable === 'magnitude') ? 'magnitude' : 'luminosity';
   const completeness = det.completeness ? parseCompleteness(det.completeness, kind, thresholdVariable, file) : undefined;
@@ -596,53 +632,91 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
     detection = { kind, limit };
   }
   if (completeness) detection.completeness = completeness;
+  return detection;
+}
 
-  // Populations.
-  const populations: Population[] = rawPops.map(({ raw: p, path }, i) => {
-    const w = windows[i]!;
-    const params = parsePopulationParams(p, path, file);
-    for (const c of params.components) {
-      checkParam(c.phiStar, w, file, `${path}.${c.phiKey}`, { what: c.phiKey === 'phi_star' ? 'phi_star' : `phi_star (from ${c.phiKey})`, positive: true, range: RANGES.phiStar, unitLabel: 'Mpc^-3' });
-      checkParam(c.alpha, w, file, `${path}.${c.alphaKey}`, { what: c.alphaKey, range: RANGES.alpha });
-    }
-    if (params.lStar) checkParam(params.lStar, w, file, `${path}.${params.lKey}`, { what: 'l_star', positive: true, range: RANGES.lStar });
-    if (params.mStar) checkParam(params.mStar, w, file, `${path}.m_star`, { what: 'm_star', range: RANGES.mStar, unitLabel: 'AB mag' });
-    const sfrConversion = parseSfrConversion(p, path, file);
-    let bias: 'auto' | ZParam = 'auto';
-    if (p.bias !== undefined && p.bias !== 'auto') {
-      bias = makeZParam(p.bias, file, `${path}.bias`);
-      checkParam(bias, w, file, `${path}.bias`, { what: 'the bias', positive: true, range: RANGES.bias });
-    }
-    const occupation = p.occupation ?? 1;
-    if (!(occupation > 0 && occupation <= 1)) outOfRange(file, `${path}.occupation`, `is ${fmt(occupation)}`, 'give a fraction above 0 and at most 1');
-    const restWavelengthAngstrom = p.rest_wavelength !== undefined ? wavelength(p.rest_wavelength, file, `${path}.rest_wavelength`) : 1500;
-    const pop: Population = {
-      name: p.name ?? (rawPops.length === 1 ? DEFAULT_POPULATION_NAME : `${DEFAULT_POPULATION_NAME} ${i + 1}`),
-      shape: p.shape ?? 'schechter',
-      variable: p.variable,
-      phiStar: params.components[0]!.phiStar,
-      alpha: params.components[0]!.alpha,
-      components: params.components.map((c) => ({ phiStar: c.phiStar, alpha: c.alpha })),
-      restWavelengthAngstrom,
-      bias,
-      occupation,
-      window: { min: w.min, max: w.max },
-      sliceEdges: ownEdges[i]!,
-    };
-    if (sfrConversion) pop.sfrConversion = sfrConversion;
-    if (p.quantity !== undefined) pop.quantity = p.quantity;
-    if (params.lStar) pop.lStar = params.lStar;
-    if (params.mStar) pop.mStar = params.mStar;
-    if (lines[i] !== undefined) pop.lineAngstrom = lines[i];
-    return pop;
-  });
+/** One population: its parameters checked over its window, bias, occupation, rest wavelength, window and slice edges. */
+function buildPopulation(p: RawPopulation, path: string, i: number, count: number, w: Window, edges: number[], line: number | undefined, file: string): Population {
+  const params = parsePopulationParams(p, path, file);
+  for (const c of params.components) {
+    checkParam(c.phiStar, w, file, `${path}.${c.phiKey}`, { what: c.phiKey === 'phi_star' ? 'phi_star' : `phi_star (from ${c.phiKey})`, positive: true, range: RANGES.phiStar, unitLabel: 'Mpc^-3' });
+    checkParam(c.alpha, w, file, `${path}.${c.alphaKey}`, { what: c.alphaKey, range: RANGES.alpha });
+  }
+  if (params.lStar) checkParam(params.lStar, w, file, `${path}.${params.lKey}`, { what: 'l_star', positive: true, range: RANGES.lStar });
+  if (params.mStar) checkParam(params.mStar, w, file, `${path}.m_star`, { what: 'm_star', range: RANGES.mStar, unitLabel: 'AB mag' });
+  const sfrConversion = parseSfrConversion(p, path, file);
+  let bias: 'auto' | ZParam = 'auto';
+  if (p.bias !== undefined && p.bias !== 'auto') {
+    bias = makeZParam(p.bias, file, `${path}.bias`);
+    checkParam(bias, w, file, `${path}.bias`, { what: 'the bias', positive: true, range: RANGES.bias });
+  }
+  const occupation = p.occupation ?? 1;
+  if (!(occupation > 0 && occupation <= 1)) outOfRange(file, `${path}.occupation`, `is ${fmt(occupation)}`, 'give a fraction above 0 and at most 1');
+  const restWavelengthAngstrom = p.rest_wavelength !== undefined ? wavelength(p.rest_wavelength, file, `${path}.rest_wavelength`) : 1500;
+  const pop: Population = {
+    name: populationName(p, i, count),
+    shape: p.shape ?? 'schechter',
+    variable: p.variable,
+    phiStar: params.components[0]!.phiStar,
+    alpha: params.components[0]!.alpha,
+    components: params.components.map((c) => ({ phiStar: c.phiStar, alpha: c.alpha })),
+    restWavelengthAngstrom,
+    bias,
+    occupation,
+    window: { min: w.min, max: w.max },
+    sliceEdges: edges,
+  };
+  if (sfrConversion) pop.sfrConversion = sfrConversion;
+  if (p.quantity !== undefined) pop.quantity = p.quantity;
+  if (params.lStar) pop.lStar = params.lStar;
+  if (params.mStar) pop.mStar = params.mStar;
+  if (line !== undefined) pop.lineAngstrom = line;
+  return pop;
+}
 
-  // Histogram.
+/** A population's name: as given, or "population" (one) or "population N" (several). */
+function populationName(p: RawPopulation, i: number, count: number): string {
+  return p.name ?? (count === 1 ? DEFAULT_POPULATION_NAME : `${DEFAULT_POPULATION_NAME} ${i + 1}`);
+}
+
+/** The histogram bin width: 0.25 mag for magnitudes, 0.1 dex otherwise, unless given. */
+function readHistogramWidth(raw: RawSurvey, rawPops: RawPopulations, detection: Detection, hull: Window, file: string): number {
+  const kind = detection.kind;
   const defaultWidth = kind === 'magnitude' || (kind === 'threshold' && rawPops.every((p) => p.raw.variable === 'magnitude')) ? 0.25 : 0.1;
   const histogramWidth = raw.histogram?.width ?? defaultWidth;
   if (!(histogramWidth > 0)) outOfRange(file, 'histogram.width', `is ${fmt(histogramWidth)}`, 'give a positive bin width');
   checkRange(histogramWidth, RANGES.histogramWidth, file, 'histogram.width');
   if (detection.kind === 'threshold' && !detection.limit.constant) checkLimitSpan(detection.limit, hull, histogramWidth, file);
+  return histogramWidth;
+}
+
+/** Validate and normalise already-parsed survey data. Throws exactly one SurveyError on bad input. */
+export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): Survey {
+  const base = baseDir ?? dirname(file);
+  const raw = checkedRaw(obj, file);
+  /** Files read on the way (transmission tables), with their identity. */
+  const inputs: InputFile[] = [];
+  const c = raw.cosmology;
+  const cosmology = resolveCosmology(
+    { preset: c.preset, h0: c.h0, omegaM: c.omega_m, tCmb: c.t_cmb, omegaB: c.omega_b, sigma8: c.sigma8, nS: c.n_s },
+    { kind: 'file', file },
+  );
+  const areaDeg2 = readArea(raw, file);
+  const field = readField(raw, file);
+  const exposureHours = readExposure(raw, file);
+  const det = raw.detection;
+  checkDetectionKeys(det, file);
+  const rawPops = populationList(raw, file);
+  const detLine = det.line !== undefined ? wavelength(det.line, file, 'detection.line') : undefined;
+  const lines = populationLines(rawPops, det, detLine, file);
+  const given = readRedshift(raw, file);
+  const filter = readFilter(det, file, base, inputs);
+  const windows = populationWindows(rawPops, lines, given, filter, file);
+  const hull = hullOf(windows);
+  const slices = readSlices(raw, windows, file);
+  const detection = readDetection(det, rawPops, detLine, filter, hull, file, base, inputs);
+  const populations = rawPops.map(({ raw: p, path }, i) => buildPopulation(p, path, i, rawPops.length, windows[i]!, slices.own[i]!, lines[i], file));
+  const histogramWidth = readHistogramWidth(raw, rawPops, detection, hull, file);
 
   const survey: Survey = {
     format: 1,
@@ -651,11 +725,11 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
     cosmology,
     areaDeg2,
     areaSr: areaDeg2 * SR_PER_DEG2,
-    redshift: window,
+    redshift: slices.window,
     field,
     detection,
     populations,
-    sliceEdges: sliceEdgesZ,
+    sliceEdges: slices.edges,
     histogramWidth,
     raw: obj,
     inputs,
