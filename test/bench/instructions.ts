@@ -28,7 +28,7 @@ const opt = (name: string): string | undefined => {
 };
 const root = resolve(opt('--root') ?? fileURLToPath(new URL('../../', import.meta.url)));
 const runs = Number(opt('--runs') ?? 20);
-const warm = 10;
+const warm = 20;
 const filter = args[0] ?? '';
 
 /** Driver cases: a survey (sample plus edits) and predict options; `area` varies the area per call. */
