@@ -5,7 +5,8 @@
  *   n(z) = integral over the population variable above the limit of phi(x, z) c(x, z) dx
  *
  * (survey-file.md, "Counting"). Without completeness n(z) is a sum of upper incomplete gamma
- * functions; with completeness the inner integral is done by Gauss-Legendre panels in ln u.
+ * functions; where the completeness varies the inner integral is done by Gauss-Legendre panels in
+ * the observed value (src/counts/completeness-quadrature.ts), with rules shared by every node.
  * The outer integral is Gauss-Legendre in z (with z = z1 + dz t^4 near z = 0, where a flux limit
  * makes the integrand behave like z^(2 alpha + 4)).
  *

@@ -22,7 +22,8 @@
  * local Delta^2, is < 1e-7 relative);
  * accuracy ~1e-7 relative, checked against scipy.integrate.quad (test/reference/power.json).
  * A cubic table of ln P(k, 0) in ln k (step 0.01, 1e-8 .. 1e6 per Mpc; interpolation error
- * < 1e-7 for the no-wiggle form, < 1e-5 for the full form) serves the fast paths.
+ * < 1e-7 for the no-wiggle form, < 1e-5 for the full form) serves the fast paths. A spectrum is
+ * built once per cosmology and form (see createLinearPower).
  */
 import type { Cosmology } from '../survey/types.js';
 import {

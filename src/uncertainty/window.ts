@@ -20,8 +20,10 @@
  *     transverse scale seen along a long radial axis, are resolved); the tail weights are rescaled
  *     so that the rule integrates sinc^2 exactly, which removes the leading error -f/(4 (N pi)^3)
  *     of the averaging.
- * The axes are ordered so that the longest side is innermost. Cost: (nodes per axis)^3
- * evaluations of P from the interpolation table; accuracy ~1e-4 against the brute-force reference
+ * The axes are ordered so that the longest side is innermost. Cost: (nodes per axis)^2 times the
+ * number of ln K table points, evaluations of P from the interpolation table (the double sum
+ * halved when the two shorter sides are equal); a box already computed with the default rules is
+ * read back (sigma at z = 0 by spectrum and sides), and the per-axis rules are kept by side; accuracy ~1e-4 against the brute-force reference
  * below for cubes, pencils (5 x 5 x 1000 Mpc) and slabs (see test/uncertainty/window.test.ts).
  *
  * Reference method (boxSigmaReference): nested adaptive Gauss-Kronrod (7, 15) on every lobe up to
