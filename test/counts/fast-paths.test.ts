@@ -14,6 +14,7 @@ import { predict } from '../../src/counts/predict.js';
 import { resolveCosmology } from '../../src/cosmology/presets.js';
 import { createLinearPower } from '../../src/uncertainty/power-spectrum.js';
 import { createHaloModel } from '../../src/uncertainty/haloes.js';
+import { boxSigma } from '../../src/uncertainty/window.js';
 import { gaussLegendre } from '../../src/numerics/quadrature.js';
 import { HALO_MASSES, HALO_REDSHIFTS, MATCH_DENSITIES, haloAndBoxRecords, recordedCases } from '../fixtures/record-predictions.js';
 
@@ -141,5 +142,25 @@ describe('halo abundances from the per-redshift tables (fixture, and a fine Gaus
       }),
     );
     expect(out).toEqual([]);
+  });
+});
+
+describe('what is kept from call to call gives what a fresh computation gives', () => {
+  test('a box variance read back equals one computed with explicitly default rules (not kept), at any z', () => {
+    const power = createLinearPower(resolveCosmology({ preset: 'planck2018' }));
+    for (const sides of [[40, 40, 7], [12, 30, 400]] as [number, number, number][]) {
+      const first = boxSigma(power, 0.7, sides);
+      expect(boxSigma(power, 0.7, [...sides].reverse())).toBe(first);
+      const fresh = boxSigma(power, 2.4, sides, { lobes: 4 });
+      expect(Math.abs(boxSigma(power, 2.4, sides) - fresh)).toBeLessThanOrEqual(1e-15 * fresh);
+    }
+  });
+  test('the same survey predicted again, and after other surveys, gives the same JSON', () => {
+    const c = recordedCases().find((x) => x.name === 'halpha 10 slices')!;
+    const load = () => loadSurveyText(c.text, c.file, dirname(c.file));
+    const first = JSON.stringify(predict(load()));
+    const other = recordedCases().find((x) => x.name === 'halpha, narrow logistic, oblong field')!;
+    predict(loadSurveyText(other.text, other.file, dirname(other.file)));
+    expect(JSON.stringify(predict(load()))).toBe(first);
   });
 });
