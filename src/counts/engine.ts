@@ -305,7 +305,8 @@ export function detectedLuminosityAtNode(
 
 /**
  * detectedLuminosityAtNode where the completeness varies, with the varying piece integrated in
- * obs by `rules` (split at the histogram's bin edges, so that it reuses the bins' integrals).
+ * obs by `rules` (split at the bin edges k width, edges[k - k0] where the slice has them, so that
+ * it reuses the bins' integrals).
  */
 function detectedLuminosityByRules(
   nd: NodeState,
@@ -314,6 +315,8 @@ function detectedLuminosityByRules(
   breaks: { points: number[]; scale: number; varying: [number, number] },
   rules: CompletenessQuadrature,
   width: number,
+  k0: number,
+  edges: readonly number[],
 ): number {
   const l10uLim = nd.log10ULimit;
   const closed = (p: number, q: number): number => {
@@ -354,10 +357,10 @@ function detectedLuminosityByRules(
     const oQ = obsHi;
     const e1 = Math.min(oP, oQ);
     const e2 = Math.max(oP, oQ);
-    let k = Math.floor(e1 / width + 1e-9) + 1;
     let from = e1;
-    for (;; k++) {
-      const edge = roundEdge(k * width);
+    for (let k = Math.floor(e1 / width + 1e-9) + 1; ; k++) {
+      // the slice's bin edge (the same number as in the histogram) or the grid's beyond it
+      const edge = k >= k0 && k - k0 < edges.length ? edges[k - k0]! : roundEdge(k * width);
       if (!(edge < e2)) break;
       if (edge > from) {
         j += rules.integrate(from, edge, 1);
@@ -591,7 +594,7 @@ function histogramCount(
         const oB = open ? nd.a + slope * l10uHi : brightObs;
         counts[b]! += nd.volumeWeight * rules!.integrate(oA, oB, 0);
       }
-      if (withLuminosity) detectedLuminosity += nd.volumeWeight * nd.lumScale * detectedLuminosityByRules(nd, observer, completeness!, breaks!, rules!, width);
+      if (withLuminosity) detectedLuminosity += nd.volumeWeight * nd.lumScale * detectedLuminosityByRules(nd, observer, completeness!, breaks!, rules!, width, k0, edges);
     }
   }
   let count = 0;
