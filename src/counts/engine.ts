@@ -5,7 +5,8 @@
  *   n(z) = integral over the population variable above the limit of phi(x, z) c(x, z) dx
  *
  * (survey-file.md, "Counting"). Without completeness n(z) is a sum of upper incomplete gamma
- * functions; with completeness the inner integral is done by Gauss-Legendre panels in ln u.
+ * functions; where the completeness varies the inner integral is done by Gauss-Legendre panels in
+ * the observed value (src/counts/completeness-quadrature.ts), with rules shared by every node.
  * The outer integral is Gauss-Legendre in z (with z = z1 + dz t^4 near z = 0, where a flux limit
  * makes the integrand behave like z^(2 alpha + 4)).
  *
@@ -20,10 +21,18 @@ import { gaussLegendreRule, panelNodes, type PanelNodes } from '../numerics/quad
 import { upperGamma } from '../numerics/gamma.js';
 import { makeObserver, type HistogramVariable, type Observer } from '../selection/observe.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
+import { completenessQuadrature, type CompletenessQuadrature } from './completeness-quadrature.js';
 import { luminosityScale, populationAt, type ParameterOffsets } from '../population/model.js';
 import { componentsTotalLuminosity } from '../population/schechter.js';
 import { inputError } from '../errors.js';
 import { CAPS } from '../model/limits.js';
+
+/**
+ * Work done where the completeness varies, summed over every call since the last reset: the
+ * completeness evaluations and the evaluations of the Schechter factor (one exponential per
+ * component each) of the quadrature in obs. For benchmarks (test/bench/predict.bench.ts).
+ */
+export const completenessWork = { completenessEvaluations: 0, densityEvaluations: 0 };
 
 /** u = L/L* beyond which the population is negligible (exp(-40) ~ 4e-18). */
 const U_BRIGHT_SPAN = 40;
@@ -163,6 +172,8 @@ interface NodeState {
   volumeWeight: number;
   a: number;
   log10ULimit: number;
+  /** The limit in obs (the same at every node for flux and magnitude limits). */
+  obsLimit: number;
   components: { phiStar: number; alpha: number }[];
   /** What u = 1 stands for in luminosity-density units (L*, or L*_nu for a magnitude variable). */
   lumScale: number;
@@ -185,6 +196,10 @@ export function countPopulation(
     ? completenessFunction(survey.detection.completeness, survey.detection.kind, population.variable)
     : undefined;
   const breaks = survey.detection.completeness ? completenessBreaks(survey.detection.completeness, survey.detection.kind) : undefined;
+  const quadrature =
+    completeness && breaks
+      ? completenessQuadrature(survey.detection.completeness!, `${survey.detection.kind} ${population.variable}`, observer.slope, completeness, breaks)
+      : undefined;
   const width = survey.histogramWidth;
   const out: SliceCount[] = [];
   for (let s = 0; s + 1 < edges.length; s++) {
@@ -207,7 +222,7 @@ export function countPopulation(
       continue;
     }
     const nodes = buildNodes(survey, population, cosmo, observer, lo, hi, options.offsets);
-    let result: { count: number; histogram: Histogram };
+    let result: { count: number; histogram: Histogram; detectedLuminosity?: number };
     const perNode = options.profile ? new Array<number>(nodes.length).fill(0) : undefined;
     if (options.noHistogram && !completeness) {
       let count = 0;
@@ -221,7 +236,7 @@ export function countPopulation(
       });
       result = { count, histogram: { variable: observer.variable, edges: [], counts: [] } };
     } else {
-      result = histogramCount(nodes, observer, width, completeness, breaks, survey.file, perNode);
+      result = histogramCount(nodes, observer, width, completeness, breaks, !options.noHistogram, quadrature, survey.file, perNode);
     }
     if (!Number.isFinite(result.count)) {
       throw inputError('not_finite', survey.file, 'population', `the count in the slice ${zMin}-${zMax} is not a finite number`, 'check the Schechter parameters and the limit');
@@ -229,7 +244,7 @@ export function countPopulation(
     const slice: SliceCount = { zMin, zMax, volumeMpc3, count: result.count, limitAtCenter, histogram: result.histogram };
     if (perNode) slice.profile = { z: nodes.map((nd) => nd.z), count: perNode, volumeMpc3: nodes.map((nd) => nd.volumeWeight) };
     if (!options.noHistogram) {
-      const lum = sliceLuminosity(nodes, observer, completeness, breaks);
+      const lum = sliceLuminosity(nodes, observer, completeness, breaks, result.detectedLuminosity);
       if (!Number.isFinite(lum.detected) || (lum.total !== undefined && !Number.isFinite(lum.total))) {
         throw inputError('not_finite', survey.file, 'population', `the luminosity density in the slice ${zMin}-${zMax} is not a finite number`, 'check the Schechter parameters and the limit');
       }
@@ -251,6 +266,7 @@ function sliceLuminosity(
   observer: Observer,
   completeness: CompletenessFn | undefined,
   breaks: { points: number[]; scale: number; varying: [number, number] } | undefined,
+  detectedWithCompleteness?: number,
 ): { detected: number; total?: number } {
   let detected = 0;
   let total: number | undefined = 0;
@@ -258,9 +274,10 @@ function sliceLuminosity(
     const jTot = componentsTotalLuminosity(nd.components);
     if (jTot === undefined) total = undefined;
     else if (total !== undefined) total += nd.volumeWeight * nd.lumScale * jTot;
-    if (!Number.isFinite(nd.log10ULimit)) continue;
+    if (!Number.isFinite(nd.log10ULimit) || detectedWithCompleteness !== undefined) continue;
     detected += nd.volumeWeight * nd.lumScale * detectedLuminosityAtNode(nd, observer, completeness, breaks);
   }
+  if (detectedWithCompleteness !== undefined) detected = detectedWithCompleteness;
   return total === undefined ? { detected } : { detected, total };
 }
 
@@ -304,6 +321,75 @@ export function detectedLuminosityAtNode(
     } else {
       j += completeIntegral(nd, observer, p, q, completeness, breaks, 1);
     }
+  }
+  return j;
+}
+
+/**
+ * detectedLuminosityAtNode where the completeness varies, with the varying piece integrated in
+ * obs by `rules` (split at the bin edges k width, edges[k - k0] where the slice has them, so that
+ * it reuses the bins' integrals).
+ */
+function detectedLuminosityByRules(
+  nd: NodeState,
+  observer: Pick<Observer, 'slope'>,
+  completeness: CompletenessFn,
+  breaks: { points: number[]; scale: number; varying: [number, number] },
+  rules: CompletenessQuadrature,
+  width: number,
+  k0: number,
+  edges: readonly number[],
+): number {
+  const l10uLim = nd.log10ULimit;
+  const closed = (p: number, q: number): number => {
+    let j = 0;
+    for (const c of nd.components) {
+      const s = c.alpha + 2;
+      j += c.phiStar * (upperGamma(s, 10 ** p) - (q === Infinity ? 0 : upperGamma(s, 10 ** q)));
+    }
+    return j;
+  };
+  const slope = observer.slope;
+  const [vLo, vHi] = breaks.varying;
+  const b1 = (vLo - nd.a) / slope;
+  const b2 = (vHi - nd.a) / slope;
+  const lo = Math.min(b1, b2);
+  const hi = Math.max(b1, b2);
+  // obs at lo and hi (the varying range's ends, exactly)
+  const obsLo = slope > 0 ? vLo : vHi;
+  const obsHi = slope > 0 ? vHi : vLo;
+  const cuts = [l10uLim];
+  if (lo > l10uLim) cuts.push(lo);
+  if (hi > l10uLim) cuts.push(hi);
+  cuts.push(Infinity);
+  let j = 0;
+  for (let i = 0; i + 1 < cuts.length; i++) {
+    const p = cuts[i]!;
+    const q = cuts[i + 1]!;
+    if (!(q > p)) continue;
+    const varying = p >= lo && q <= hi;
+    if (!varying) {
+      const probe = q === Infinity ? p + 1 : 0.5 * (p + q);
+      const c = completeness(nd.a + slope * probe);
+      if (c > 0) j += c * closed(p, q);
+      continue;
+    }
+    // The varying piece in obs, from oP (the limit or the range's end) to oQ, split at bin edges.
+    const oP = p === l10uLim ? nd.obsLimit : obsLo;
+    const oQ = obsHi;
+    const e1 = Math.min(oP, oQ);
+    const e2 = Math.max(oP, oQ);
+    let from = e1;
+    for (let k = Math.floor(e1 / width + 1e-9) + 1; ; k++) {
+      // the slice's bin edge (the same number as in the histogram) or the grid's beyond it
+      const edge = k >= k0 && k - k0 < edges.length ? edges[k - k0]! : roundEdge(k * width);
+      if (!(edge < e2)) break;
+      if (edge > from) {
+        j += rules.integrate(from, edge, 1);
+        from = edge;
+      }
+    }
+    j += rules.integrate(from, e2, 1);
   }
   return j;
 }
@@ -356,6 +442,7 @@ function buildNodes(
       volumeWeight: survey.areaSr * cosmo.volumeElementMpc3Sr(zi) * w[i]!,
       a: obs.a,
       log10ULimit: obs.log10ULimit,
+      obsLimit: obs.obsLimit,
       components: p.components,
       lumScale: luminosityScale(population.variable, p.characteristic),
     });
@@ -434,10 +521,16 @@ function histogramCount(
   width: number,
   completeness: CompletenessFn | undefined,
   breaks: { points: number[]; scale: number; varying: [number, number] } | undefined,
+  withLuminosity = false,
+  quadrature?: CompletenessQuadrature,
   file = '',
   perNode?: number[],
-): { count: number; histogram: Histogram } {
+): { count: number; histogram: Histogram; detectedLuminosity?: number } {
   const slope = observer.slope;
+  const rules = completeness ? quadrature : undefined;
+  rules?.setSlice(nodes.filter((nd) => Number.isFinite(nd.log10ULimit)));
+  const work0 = rules ? [rules.completenessEvaluations, rules.densityEvaluations] : [0, 0];
+  let detectedLuminosity = 0;
   // Range of obs over the slice: from the limit to the bright end (u = uLim + 40 or 40).
   let obsMin = Infinity;
   let obsMax = -Infinity;
@@ -504,6 +597,7 @@ function histogramCount(
       }
     } else {
       const [vLo, vHi] = breaks!.varying;
+      rules!.setNode(nd);
       for (let b = 0; b < nBins; b++) {
         const faintObs = slope > 0 ? edges[b]! : edges[b + 1]!;
         const brightObs = slope > 0 ? edges[b + 1]! : edges[b]!;
@@ -516,7 +610,7 @@ function histogramCount(
         if (open || highObs <= vLo || lowObs >= vHi) {
           // Completeness is constant over this bin (or, for the open brightest bin, beyond its
           // edge): the closed form times that constant.
-          const cBin = completeness(0.5 * (faintObs + brightObs));
+          const cBin = completeness!(0.5 * (faintObs + brightObs));
           if (!open || highObs <= vLo || lowObs >= vHi) {
             let n = 0;
             const uLo = 10 ** l10uLo;
@@ -538,16 +632,26 @@ function histogramCount(
           l10uHi = Math.max(l10uHi, Math.log10(uLim > 1 ? uLim + U_BRIGHT_SPAN : U_BRIGHT_SPAN));
         }
         if (!(l10uHi > l10uLo)) continue;
-        const v = nd.volumeWeight * completeIntegral(nd, observer, l10uLo, l10uHi, completeness, breaks!, 0);
+        // The bin in obs: its faint edge (or the limit) to its bright edge.
+        const oA = l10uLo === l10uLim ? nd.obsLimit : faintObs;
+        const oB = open ? nd.a + slope * l10uHi : brightObs;
+        const v = nd.volumeWeight * rules!.integrate(oA, oB, 0);
         counts[b]! += v;
         nodeCount += v;
       }
+      if (withLuminosity) detectedLuminosity += nd.volumeWeight * nd.lumScale * detectedLuminosityByRules(nd, observer, completeness!, breaks!, rules!, width, k0, edges);
     }
     if (perNode) perNode[at] = nodeCount;
   }
   let count = 0;
   for (const c of counts) count += c;
-  return { count, histogram: { variable: observer.variable, edges, counts } };
+  const out: { count: number; histogram: Histogram; detectedLuminosity?: number } = { count, histogram: { variable: observer.variable, edges, counts } };
+  if (rules && withLuminosity) out.detectedLuminosity = detectedLuminosity;
+  if (rules) {
+    completenessWork.completenessEvaluations += rules.completenessEvaluations - work0[0]!;
+    completenessWork.densityEvaluations += rules.densityEvaluations - work0[1]!;
+  }
+  return out;
 }
 
 const PANEL_RULE = 8;

@@ -60,7 +60,7 @@ export function describeSurvey(survey: Survey): Omit<SurveyCheck, 'warnings'> {
     format: survey.format,
     file: survey.file,
     title: survey.title,
-    // The outputs' cosmology block (src/cosmology/json.ts), with the preset's name shown first.
+    // The outputs' cosmology block (src/model/cosmology-json.ts), with the preset's name shown first.
     cosmology: clean({ preset: c.preset, preset_source: c.presetSource, ...cosmologyJsonOf(c) }),
     area_deg2: survey.areaDeg2,
     area_sr: survey.areaSr,

@@ -128,7 +128,7 @@ function outOfRange(file: string, path: string, what: string, fix: string): neve
   throw inputError('out_of_range', file, path, what, fix);
 }
 
-/** Refuse a value outside its physical range (src/survey/limits.ts), naming the key. */
+/** Refuse a value outside its physical range (src/model/limits.ts), naming the key. */
 function checkRange(v: number, range: Range, file: string, path: string, what = ''): number {
   if (!inRange(v, range)) {
     outOfRange(file, path, `${what ? what + ' ' : ''}is ${fmt(v)}${range.unit ? ` ${range.unit}` : ''}, outside its physical range (${describeRange(range)})`, 'give a value in that range');

@@ -22,9 +22,23 @@
  *
  * Numerics: ln sigma(M, z=0) is tabulated on a uniform grid in ln M (1e3 .. 1e19 Msun, step 0.5)
  * and interpolated with a natural cubic spline, whose derivative gives d ln sigma / d ln M
- * (relative error < 1e-5 against finite differences of the direct integral). n(>M) and the
- * bias-weighted integral use 8-point Gauss-Legendre panels of width 0.25 in ln M, stopping once a
- * panel adds less than 1e-13 of the running total.
+ * (relative error < 1e-5 against finite differences of the direct integral); this table is made
+ * once per cosmology (createLinearPower returns the same spectrum for the same parameters).
+ *
+ * n(>M) and the bias-weighted integral, for masses from 1e3 to 1e16 Msun: per growth factor D(z)
+ * (kept for the last 64 redshifts of a cosmology), the cumulative integrals from each knot of the
+ * spline up to the top of the table, summed from the top down (so that the small abundances of
+ * massive haloes keep their relative accuracy) and made lazily down to the lowest mass asked for.
+ * Between two knots the integrand is analytic, and it is integrated by 8-point Gauss-Legendre
+ * panels no wider than 1.5 / lambda, lambda = 1 + a nu^2 |d ln sigma / d ln M| being its
+ * logarithmic steepness (relative error below 1e-13 per knot interval against adaptive
+ * quadrature). The top is where an interval above 1e16 Msun adds less than 1e-17 of what lies
+ * above 1e16 Msun. n(>M) at any M is the cumulative at the next knot plus the piece up to it.
+ * Abundance matching brackets the mass between two knots from the cumulative table and solves
+ * within the interval by Newton's method on ln n(>M) (the derivative is -dn/dln M / n), each step
+ * integrating only the piece from the iterate to the knot; it stops below 1e-12 in ln M.
+ * Masses outside 1e3 .. 1e16 Msun use 8-point Gauss-Legendre panels of width 0.25 in ln M from M
+ * upwards, stopping once a panel adds less than 1e-13 of the running total.
  */
 import type { LinearPower } from './power-spectrum.js';
 import { brentRoot, gaussLegendre, splineDerivative, splineEval, uniformSpline, type UniformSpline } from './quadrature.js';
@@ -108,6 +122,23 @@ function checkZ(z: number, who: string): void {
 
 const modelCache = new WeakMap<LinearPower, HaloModel>();
 
+/** Highest mass of the cumulative tables, Msun (the matching bound). */
+const LN_M_CUMULATIVE_MAX = Math.log(MATCH_MASS_MAX_MSUN);
+/** Growth factors whose cumulative tables a model keeps. */
+const CUMULATIVE_CACHE_SIZE = 64;
+/** Gauss-Legendre points per panel of the cumulative tables. */
+const CUMULATIVE_RULE = 8;
+
+/** Cumulative abundance integrals of one growth factor, from knot j to the top (index top). */
+interface Cumulative {
+  /** n[j] = ∫_{x_j}^{x_top} dn/dln M dln M, valid for j >= lowest. */
+  readonly n: Float64Array;
+  /** nb[j] = the same integral weighted by the halo bias. */
+  readonly nb: Float64Array;
+  lowest: number;
+  top: number;
+}
+
 /** Build (or reuse) the halo model of one linear power spectrum. */
 export function createHaloModel(power: LinearPower): HaloModel {
   const cached = modelCache.get(power);
@@ -122,17 +153,49 @@ export function createHaloModel(power: LinearPower): HaloModel {
     return table;
   };
   const rho = power.rhoM0MsunMpc3;
+  const { A, a, p } = SHETH_TORMEN;
+  const fNorm = A * Math.sqrt((2 * a) / Math.PI);
+
+  // One evaluation of the integrand at ln M for growth d: dn/dln M (returned), and in the
+  // variables below the peak height, the halo bias and the steepness -d ln(dn/dln M)/d ln M.
+  let evalNu = 0;
+  let evalBias = 0;
+  let evalSteepness = 0;
+  const integrand = (lnM: number, d: number): number => {
+    const s = spline();
+    const last = s.y.length - 2;
+    let i = Math.floor((lnM - s.x0) / s.dx);
+    if (i < 0) i = 0;
+    if (i > last) i = last;
+    const t = (lnM - (s.x0 + i * s.dx)) / s.dx;
+    const u = 1 - t;
+    const yi = s.y[i]!;
+    const yj = s.y[i + 1]!;
+    const mi = s.m[i]!;
+    const mj = s.m[i + 1]!;
+    const lnSigma = u * yi + t * yj + ((u * u * u - u) * mi + (t * t * t - t) * mj) * ((s.dx * s.dx) / 6);
+    const slope = -((yj - yi) / s.dx + (-(3 * u * u - 1) * mi + (3 * t * t - 1) * mj) * (s.dx / 6)); // -d ln sigma / d ln M
+    const nu = DELTA_C / (Math.exp(lnSigma) * d);
+    evalNu = nu;
+    if (!(nu > 0)) {
+      evalBias = 1;
+      evalSteepness = 1;
+      return 0;
+    }
+    const anu2 = a * nu * nu;
+    const q = anu2 ** -p;
+    evalBias = 1 + (anu2 - 1) / DELTA_C + (2 * p * q) / (DELTA_C * (q + 1));
+    evalSteepness = 1 + anu2 * slope;
+    return (rho / Math.exp(lnM)) * fNorm * (1 + q) * Math.exp(-0.5 * anu2) * nu * slope;
+  };
 
   /** dn/dln M and the peak height at ln M for growth d. */
   const perLnM = (lnM: number, d: number): { n: number; nu: number } => {
-    const s = spline();
-    const sigma = Math.exp(splineEval(s, lnM)) * d;
-    const slope = -splineDerivative(s, lnM); // -d ln sigma / d ln M > 0
-    const nu = DELTA_C / sigma;
-    return { n: (rho / Math.exp(lnM)) * shethTormenMultiplicity(nu) * nu * slope, nu };
+    const n = integrand(lnM, d);
+    return { n, nu: evalNu };
   };
 
-  /** ∫_{ln M}^∞ dn/dlnM (1, b) dln M. */
+  /** ∫_{ln M}^∞ dn/dlnM (1, b) dln M by panels of width 0.25 from ln M up (masses off the tables). */
   const above = (lnM0: number, d: number): { n: number; nb: number } => {
     const { x, w } = gaussLegendre(8);
     let n = 0;
@@ -144,9 +207,9 @@ export function createHaloModel(power: LinearPower): HaloModel {
       let pn = 0;
       let pb = 0;
       for (let i = 0; i < 8; i++) {
-        const r = perLnM(c + h * x[i]!, d);
-        pn += w[i]! * r.n;
-        pb += w[i]! * r.n * shethTormenBias(r.nu);
+        const r = integrand(c + h * x[i]!, d);
+        pn += w[i]! * r;
+        pb += w[i]! * r * shethTormenBias(evalNu);
       }
       n += pn * h;
       nb += pb * h;
@@ -199,6 +262,142 @@ export function createHaloModel(power: LinearPower): HaloModel {
     return grid;
   };
 
+  // Piece integrals within one knot interval: [lo, hi] in panels no wider than 1.5 / steepness
+  // (the steepness grows with M, so it is taken at hi).
+  let pieceN = 0;
+  let pieceNb = 0;
+  const piece = (lo: number, hi: number, d: number): void => {
+    pieceN = 0;
+    pieceNb = 0;
+    if (!(hi > lo)) return;
+    const gHi = integrand(hi, d);
+    const panels = Math.max(1, Math.ceil(((hi - lo) * Math.max(1, evalSteepness)) / 1.5));
+    if (!(gHi >= 0)) throw new Error(`halo abundance: the mass function is not finite at ${Math.exp(hi).toExponential(3)} Msun`);
+    const { x, w } = gaussLegendre(CUMULATIVE_RULE);
+    const h = (hi - lo) / panels;
+    for (let k = 0; k < panels; k++) {
+      const c = lo + (k + 0.5) * h;
+      let pn = 0;
+      let pb = 0;
+      for (let i = 0; i < CUMULATIVE_RULE; i++) {
+        const g = integrand(c + 0.5 * h * x[i]!, d);
+        pn += w[i]! * g;
+        pb += w[i]! * g * evalBias;
+      }
+      pieceN += 0.5 * h * pn;
+      pieceNb += 0.5 * h * pb;
+    }
+  };
+
+  const knotCount = Math.round((LN_M_TABLE_MAX - LN_M_TABLE_MIN) / LN_M_TABLE_STEP) + 1;
+  /** Cut points of the cumulative tables: the spline's knots, the last one moved to the table's top. */
+  const cut = (j: number): number => (j >= knotCount - 1 ? LN_M_TABLE_MAX : LN_M_TABLE_MIN + j * LN_M_TABLE_STEP);
+  const jMatchMax = Math.floor((LN_M_CUMULATIVE_MAX - LN_M_TABLE_MIN) / LN_M_TABLE_STEP);
+  const cumulatives = new Map<number, Cumulative>();
+
+  /** The cumulative table of growth d, made down to knot `down` at least. */
+  const cumulative = (d: number, down: number): Cumulative => {
+    let c = cumulatives.get(d);
+    if (!c) {
+      const n = new Float64Array(knotCount);
+      const nb = new Float64Array(knotCount);
+      // From the interval holding 1e16 Msun upwards until an interval adds < 1e-17 of the sum.
+      const pieces: [number, number][] = [];
+      let sum = 0;
+      let top = jMatchMax;
+      while (top < knotCount - 1) {
+        piece(cut(top), cut(top + 1), d);
+        pieces.push([pieceN, pieceNb]);
+        sum += pieceN;
+        top++;
+        if (pieceN <= 1e-17 * sum) break;
+      }
+      for (let j = top - 1; j >= jMatchMax; j--) {
+        const [pn, pb] = pieces[j - jMatchMax]!;
+        n[j] = n[j + 1]! + pn;
+        nb[j] = nb[j + 1]! + pb;
+      }
+      c = { n, nb, lowest: jMatchMax, top };
+      cumulatives.set(d, c);
+      if (cumulatives.size > CUMULATIVE_CACHE_SIZE) cumulatives.delete(cumulatives.keys().next().value!);
+    }
+    while (c.lowest > down) {
+      const j = c.lowest - 1;
+      piece(cut(j), cut(j + 1), d);
+      c.n[j] = c.n[j + 1]! + pieceN;
+      c.nb[j] = c.nb[j + 1]! + pieceNb;
+      c.lowest = j;
+    }
+    return c;
+  };
+
+  /** Knot interval holding ln M (for masses on the tables). */
+  const knotBelow = (lnM: number): number => Math.min(jMatchMax, Math.floor((lnM - LN_M_TABLE_MIN) / LN_M_TABLE_STEP));
+  const onTables = (lnM: number): boolean => lnM >= LN_M_TABLE_MIN && lnM <= LN_M_CUMULATIVE_MAX;
+
+  /** ∫_{ln M}^∞ dn/dlnM (1, b) dln M: from the tables where they reach, by panels otherwise. */
+  const aboveFast = (lnM: number, d: number): { n: number; nb: number } => {
+    if (!onTables(lnM)) return above(lnM, d);
+    const j = knotBelow(lnM);
+    const c = cumulative(d, j);
+    if (j + 1 >= c.top) {
+      piece(lnM, cut(c.top), d);
+      return { n: pieceN, nb: pieceNb };
+    }
+    piece(lnM, cut(j + 1), d);
+    return { n: c.n[j + 1]! + pieceN, nb: c.nb[j + 1]! + pieceNb };
+  };
+
+  /** ln M in [1e6, 1e16] Msun where n(>M) = target (known to lie between the two bounds' abundances). */
+  const solveMass = (target: number, d: number, lnLo: number, lnHi: number): { lnM: number; n: number; nb: number } => {
+    // Bracket between knots: the highest knot j with n[j] >= target (the tables fall with j).
+    let j = knotBelow(lnHi);
+    let c = cumulative(d, j);
+    const jLo = knotBelow(lnLo);
+    while (j > jLo && c.n[j]! < target) {
+      j--;
+      c = cumulative(d, j);
+    }
+    const lo = Math.max(cut(j), lnLo);
+    const hi = Math.min(cut(j + 1), lnHi, cut(c.top));
+    const tail = j + 1 < c.top ? c.n[j + 1]! : 0;
+    const tailB = j + 1 < c.top ? c.nb[j + 1]! : 0;
+    const hiEdge = j + 1 < c.top ? cut(j + 1) : cut(c.top);
+    const at = (lnM: number): { n: number; nb: number } => {
+      piece(lnM, hiEdge, d);
+      return { n: tail + pieceN, nb: tailB + pieceNb };
+    };
+    // Newton on ln n(>M) - ln target, safeguarded by bisection inside [lo, hi].
+    let bLo = lo;
+    let bHi = hi;
+    let x = 0.5 * (lo + hi);
+    const nLo = at(lo).n;
+    const nHi = hi < hiEdge ? at(hi).n : tail;
+    if (nLo > 0 && nHi > 0) {
+      // first guess: ln n linear between the bracket's ends
+      const f = (Math.log(target) - Math.log(nLo)) / (Math.log(nHi) - Math.log(nLo));
+      if (f > 0 && f < 1) x = lo + f * (hi - lo);
+    }
+    const lnTarget = Math.log(target);
+    for (let iter = 0; iter < 60; iter++) {
+      const r = at(x);
+      const g = integrand(x, d);
+      if (r.n > target) bLo = x;
+      else if (r.n < target) bHi = x;
+      const step = r.n > 0 && g > 0 ? ((Math.log(r.n) - lnTarget) * r.n) / g : NaN;
+      if (Math.abs(step) <= 1e-12) {
+        const s = at(x + step);
+        return { lnM: x + step, n: s.n, nb: s.nb };
+      }
+      let next = x + step;
+      if (!(next > bLo && next < bHi)) next = 0.5 * (bLo + bHi);
+      if (bHi - bLo <= 1e-12) return { lnM: x, n: r.n, nb: r.nb };
+      x = next;
+    }
+    const s = at(x);
+    return { lnM: x, n: s.n, nb: s.nb };
+  };
+
   const model: HaloModel = {
     power,
     sigma(massMsun, z) {
@@ -217,7 +416,7 @@ export function createHaloModel(power: LinearPower): HaloModel {
     haloDensityAboveMpc3(massMsun, z) {
       checkMass(massMsun, 'haloDensityAboveMpc3');
       checkZ(z, 'haloDensityAboveMpc3');
-      return above(Math.log(massMsun), power.growth(z)).n;
+      return aboveFast(Math.log(massMsun), power.growth(z)).n;
     },
     haloBias(massMsun, z) {
       return shethTormenBias(model.peakHeight(massMsun, z));
@@ -225,7 +424,7 @@ export function createHaloModel(power: LinearPower): HaloModel {
     effectiveBiasAbove(massMsun, z) {
       checkMass(massMsun, 'effectiveBiasAbove');
       checkZ(z, 'effectiveBiasAbove');
-      const r = above(Math.log(massMsun), power.growth(z));
+      const r = aboveFast(Math.log(massMsun), power.growth(z));
       if (!(r.n > 0)) {
         throw new Error(
           `effectiveBiasAbove: no haloes above ${massMsun.toExponential(3)} Msun at z = ${z} in this cosmology; choose a lower mass`,
@@ -245,7 +444,7 @@ export function createHaloModel(power: LinearPower): HaloModel {
       const d = power.growth(z);
       const lnLo = Math.log(MATCH_MASS_MIN_MSUN);
       const lnHi = Math.log(MATCH_MASS_MAX_MSUN);
-      const nLo = above(lnLo, d).n;
+      const nLo = aboveFast(lnLo, d).n;
       if (target > nLo) {
         throw new Error(
           `halo abundance matching at z = ${z}: the required halo density ${target.toExponential(3)} Mpc^-3 ` +
@@ -253,7 +452,7 @@ export function createHaloModel(power: LinearPower): HaloModel {
             `${MATCH_MASS_MIN_MSUN.toExponential(0)} Msun; lower the galaxy density or raise the occupation, or give the bias directly`,
         );
       }
-      const nHi = above(lnHi, d).n;
+      const nHi = aboveFast(lnHi, d).n;
       if (target < nHi) {
         throw new Error(
           `halo abundance matching at z = ${z}: the required halo density ${target.toExponential(3)} Mpc^-3 ` +
@@ -261,14 +460,8 @@ export function createHaloModel(power: LinearPower): HaloModel {
             `the population is too rare to match, give the bias directly`,
         );
       }
-      const lnTarget = Math.log(target);
-      const g = (lnM: number): number => {
-        const n = above(lnM, d).n;
-        return (n > 0 ? Math.log(n) : -1e300) - lnTarget;
-      };
-      const lnM = brentRoot(g, lnLo, lnHi, 1e-9);
-      const r = above(lnM, d);
-      return { haloMassMinMsun: Math.exp(lnM), bias: r.nb / r.n };
+      const r = solveMass(target, d, lnLo, lnHi);
+      return { haloMassMinMsun: Math.exp(r.lnM), bias: r.nb / r.n };
     },
     matcherAt(z) {
       checkZ(z, 'matcherAt');

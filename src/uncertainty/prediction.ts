@@ -265,6 +265,8 @@ function perMpcAt(los: LineOfSight, z: number): number {
 
 /** Redshift width of the groups of nodes whose bias is matched together (at most; see totalUncertainty). */
 const BIAS_GROUP_DZ = 0.05;
+/** Share of a part's count below which a bias group is not matched to haloes. */
+const NEGLIGIBLE_SHARE = 1e-12;
 
 /**
  * The bias of haloes matched to a detected density at z (the tabulated matcher), held at the
@@ -375,7 +377,19 @@ export function totalUncertainty(ctx: UncertaintyContext, parts: readonly TotalP
         g.zn += c * z[k]!;
         g.dens += (c * c) / dv[k]!;
       }
-      const biases = sums.map((g) => (g.n > 0 ? matchedBias(ctx, pop, g.zn / g.n, g.dens / g.n) : 0));
+      // A group holding a negligible share of the part's count (a filter's far wings) is not
+      // matched (its density can lie far below any halo's and would only raise a warning): it takes
+      // the bias of the nearest group that is, which its weight makes irrelevant.
+      const partCount = sums.reduce((a, g) => a + g.n, 0);
+      const matched = sums.map((g) => (g.n > NEGLIGIBLE_SHARE * partCount ? matchedBias(ctx, pop, g.zn / g.n, g.dens / g.n) : undefined));
+      const biases = matched.map((b, i) => {
+        if (b !== undefined) return b;
+        for (let d = 1; d < nGroups; d++) {
+          const near = matched[i - d] ?? matched[i + d];
+          if (near !== undefined) return near;
+        }
+        return 0;
+      });
       for (let k = 0; k < z.length; k++) nodeBias[k] = biases[groupOf(z[k]!)]!;
       groupsOf.get(pop)!.push({ zMin: part.zMin, zMax: part.zMax, biasAt: (zk) => biases[groupOf(zk)]! });
     }

@@ -20,8 +20,10 @@
  *     transverse scale seen along a long radial axis, are resolved); the tail weights are rescaled
  *     so that the rule integrates sinc^2 exactly, which removes the leading error -f/(4 (N pi)^3)
  *     of the averaging.
- * The axes are ordered so that the longest side is innermost. Cost: (nodes per axis)^3
- * evaluations of P from the interpolation table; accuracy ~1e-4 against the brute-force reference
+ * The axes are ordered so that the longest side is innermost. Cost: (nodes per axis)^2 times the
+ * number of ln K table points, evaluations of P from the interpolation table (the double sum
+ * halved when the two shorter sides are equal); a box already computed with the default rules is
+ * read back (sigma at z = 0 by spectrum and sides), and the per-axis rules are kept by side; accuracy ~1e-4 against the brute-force reference
  * below for cubes, pencils (5 x 5 x 1000 Mpc) and slabs (see test/uncertainty/window.test.ts).
  *
  * Reference method (boxSigmaReference): nested adaptive Gauss-Kronrod (7, 15) on every lobe up to
@@ -174,9 +176,18 @@ export function boxSigma(
 ): number {
   const [l1, l2, l3] = checkSides(sides, 'boxSigma');
   const d = power.growth(z);
-  const r1 = sincSquaredRule(l1, options);
-  const r2 = sincSquaredRule(l2, options);
-  const r3 = sincSquaredRule(l3, options);
+  const plain = Object.keys(options).length === 0;
+  let byPower: Map<string, number> | undefined;
+  const key = `${l1} ${l2} ${l3}`;
+  if (plain) {
+    byPower = boxCache.get(power);
+    if (!byPower) boxCache.set(power, (byPower = new Map()));
+    const s0 = byPower.get(key);
+    if (s0 !== undefined) return s0 * d;
+  }
+  const r1 = plain ? cachedRule(l1) : sincSquaredRule(l1, options);
+  const r2 = plain ? cachedRule(l2) : sincSquaredRule(l2, options);
+  const r3 = plain ? cachedRule(l3) : sincSquaredRule(l3, options);
   const n1 = r1.u.length;
   const n2 = r2.u.length;
   const n3 = r3.u.length;
@@ -230,14 +241,43 @@ export function boxSigma(
     );
   };
   let total = 0;
-  for (let a = 0; a < n1; a++) {
-    const qa = q1[a]!;
-    let sb = 0;
-    for (let b = 0; b < n2; b++) sb += r2.w[b]! * Math.exp(lnIAt(0.5 * Math.log(qa + q2[b]!)));
-    total += r1.w[a]! * sb;
+  if (l1 === l2) {
+    // Two equal sides: the double sum is symmetric in (a, b); each pair off the diagonal twice.
+    for (let a = 0; a < n1; a++) {
+      const qa = q1[a]!;
+      let sb = 0.5 * r1.w[a]! * Math.exp(lnIAt(0.5 * Math.log(qa + qa)));
+      for (let b = a + 1; b < n1; b++) sb += r1.w[b]! * Math.exp(lnIAt(0.5 * Math.log(qa + q1[b]!)));
+      total += 2 * r1.w[a]! * sb;
+    }
+  } else {
+    for (let a = 0; a < n1; a++) {
+      const qa = q1[a]!;
+      let sb = 0;
+      for (let b = 0; b < n2; b++) sb += r2.w[b]! * Math.exp(lnIAt(0.5 * Math.log(qa + q2[b]!)));
+      total += r1.w[a]! * sb;
+    }
   }
-  const sigma2 = ((8 / (Math.PI ** 3 * l1 * l2 * l3)) * total) * d * d;
-  return Math.sqrt(sigma2);
+  const sigma0 = Math.sqrt((8 / (Math.PI ** 3 * l1 * l2 * l3)) * total);
+  if (byPower) {
+    if (byPower.size >= BOX_CACHE_SIZE) byPower.delete(byPower.keys().next().value!);
+    byPower.set(key, sigma0);
+  }
+  return sigma0 * d;
+}
+
+/** sigma at z = 0 of boxes already computed with the default rules, by spectrum and sorted sides. */
+const boxCache = new WeakMap<LinearPower, Map<string, number>>();
+const BOX_CACHE_SIZE = 512;
+/** Per-axis rules with the default options, by side length. */
+const ruleCache = new Map<number, SincRule>();
+
+function cachedRule(lengthMpc: number): SincRule {
+  let r = ruleCache.get(lengthMpc);
+  if (!r) {
+    if (ruleCache.size >= BOX_CACHE_SIZE) ruleCache.delete(ruleCache.keys().next().value!);
+    ruleCache.set(lengthMpc, (r = sincSquaredRule(lengthMpc)));
+  }
+  return r;
 }
 
 /**

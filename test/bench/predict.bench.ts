@@ -1,8 +1,18 @@
-/** predict as a library call (issue 2: target under 2 ms median for a 10-slice survey). */
+/**
+ * predict as a library call. Targets: counts and histograms of a 10-slice survey under 2 ms; with
+ * completeness and cosmic variance under 5 ms warm. "warm" repeats the same survey (the spectrum,
+ * halo tables, box variances and completeness rules are all made already); "area changed" changes
+ * the area on every call, so that every box variance is computed anew, as when a slider moves.
+ * The completeness work of one call is printed first (the code before the quadrature in obs made
+ * 40,960 completeness and as many Schechter-factor evaluations, each with four exponentials or
+ * powers, for the first survey and 34,216 for the second, on every call); test/bench/instructions.ts
+ * counts machine instructions, which do not depend on the machine's load.
+ */
 import type { BenchCase } from './run.js';
 import { loadSurveyFile, loadSurveyText } from '../../src/survey/load.js';
 import { fileURLToPath } from 'node:url';
 import { predict } from '../../src/counts/predict.js';
+import { completenessWork } from '../../src/counts/engine.js';
 import { readFileSync } from 'node:fs';
 
 function sample(name: string, edit?: (t: string) => string) {
@@ -21,7 +31,32 @@ const double = sample('double-schechter-mass.yaml');
 
 const bare = { noUncertainty: true };
 
+let areaStep = 0;
+/** The survey with its area changed by a new factor on each call. */
+function otherArea(s: typeof line10) {
+  const f = 1 + 1e-3 * (++areaStep % 1000);
+  return { ...s, areaSr: s.areaSr * f, areaDeg2: s.areaDeg2 * f };
+}
+
+for (const [name, s] of [['line_flux 10 slices, logistic', line10], ['magnitude 8 slices, table', deep]] as const) {
+  const counts = (run: () => unknown) => {
+    completenessWork.completenessEvaluations = 0;
+    completenessWork.densityEvaluations = 0;
+    run();
+    return `${completenessWork.completenessEvaluations} completeness, ${completenessWork.densityEvaluations} Schechter-factor`;
+  };
+  const first = counts(() => predict(s, bare));
+  const warm = counts(() => predict(s, bare));
+  console.log(`evaluations per predict, ${name}: first call ${first}; warm ${warm}`);
+}
+
 export const cases: BenchCase[] = [
+  // The 10-slice library call of the explorer's budget (under 5 ms warm with everything).
+  { name: 'predict 10 slices: histograms + completeness + cosmic variance, warm', run: () => predict(line10), repeats: 50 },
+  { name: 'predict 10 slices: histograms + completeness + cosmic variance, area changed', run: () => predict(otherArea(line10)), repeats: 50 },
+  { name: 'predict 10 slices: histograms + completeness, no uncertainty', run: () => predict(line10, bare) },
+  { name: 'predict 10 slices: histograms + cosmic variance, no completeness', run: () => predict(lineNoCompleteness10), repeats: 50 },
+  { name: 'predict 10 slices: histograms only', run: () => predict(lineNoCompleteness10, bare) },
   // Counts and histograms only (issue 2: under 2 ms for 10 slices).
   { name: 'predict counts: line_flux, gaussian filter, logistic completeness, 10 slices', run: () => predict(line10, bare) },
   { name: 'predict counts: line_flux, gaussian filter, no completeness, 10 slices', run: () => predict(lineNoCompleteness10, bare) },

@@ -1,7 +1,7 @@
 /**
  * Command-line input that used to be taken loosely or reported as an internal failure: every
  * case is exit 2 with one sentence naming the option or key (or a correct, finite output).
- * Ranges and caps are the ones stated in README.md ("Limits") and src/survey/limits.ts.
+ * Ranges and caps are the ones stated in README.md ("Limits") and src/model/limits.ts.
  */
 import { tempDir } from '../support/temp.js';
 import fc from 'fast-check';

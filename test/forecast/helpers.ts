@@ -47,7 +47,7 @@ export function surveyFromSpec(s: SurveySpec): Survey {
   const d = s.detection;
   let completeness: Completeness | undefined;
   if (d.completeness) {
-    // The Survey stores a line-flux half as -log10 of the flux (src/survey/types.ts).
+    // The Survey stores a line-flux half as -log10 of the flux (src/model/detection.ts).
     const half = d.completeness.half_cgs !== undefined ? -Math.log10(d.completeness.half_cgs) : d.completeness.half!;
     completeness = { model: 'logistic', half, width: d.completeness.width };
   }

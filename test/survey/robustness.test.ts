@@ -3,7 +3,7 @@
  * caps on every size, one reader for every input file (regular files only, with a size limit),
  * the YAML limits, messages that quote at most a short escaped excerpt, and the strict expression
  * grammar. Each case must be one SurveyError (tests assert the code and the key path, not the
- * wording). Expected values are the limits stated in src/survey/limits.ts, src/cosmology/presets.ts
+ * wording). Expected values are the limits stated in src/model/limits.ts, src/cosmology/parameters.ts
  * (COSMOLOGY_RANGES) and README.md ("Limits").
  */
 import { tempDir } from '../support/temp.js';
