@@ -16,7 +16,7 @@ export const SOLAR_MASS_KG = 1.988_409_870_698_051e30; // IAU 2015 B3 nominal GM
 /** Julian year in seconds (365.25 d); astropy's Gyr is 1e9 of these. */
 export const JULIAN_YEAR_S = 365.25 * 86_400;
 export const GYR_S = 1e9 * JULIAN_YEAR_S;
-/** Effective number of neutrino species used with radiation (survey-file.md). */
+/** Effective number of neutrino species used with radiation (docs/survey-file.md, "Cosmology"). */
 export const N_EFF = 3.046;
 /** CMB temperature used by the transfer function when the cosmology has none (Fixsen 2009). */
 export const T_CMB_DEFAULT_K = 2.7255;

@@ -4,7 +4,7 @@
  *   N = area_sr * integral_{z1}^{z2} dV_C/dz/dOmega(z) n(z) dz,
  *   n(z) = integral over the population variable above the limit of phi(x, z) c(x, z) dx
  *
- * (survey-file.md, "Counting"). Without completeness n(z) is a sum of upper incomplete gamma
+ * (docs/survey-file.md, "Detection kinds and their limits"). Without completeness n(z) is a sum of upper incomplete gamma
  * functions; where the completeness varies the inner integral is done by Gauss-Legendre panels in
  * the observed value (src/counts/completeness-quadrature.ts), with rules shared by every node.
  * The outer integral is Gauss-Legendre in z (with z = z1 + dz t^4 near z = 0, where a flux limit
@@ -85,7 +85,7 @@ export interface EngineOptions {
  * With a flux or magnitude limit, the luminosity limit falls as D_L^2 ~ z^2 towards z = 0, so the
  * number density above it grows as z^(2 (alpha + 1)) and the count integrand behaves like
  * z^2 z^(2 (alpha + 1)) = z^(2 alpha + 4): the count from z = 0 diverges when alpha <= -2.5
- * (common practice; follows from survey-file.md's definitions). Refuse it with one sentence.
+ * (common practice; follows from the definitions in docs/survey-file.md, "A count that diverges"). Refuse it with one sentence.
  */
 function assertConvergent(survey: Survey, population: Population, edges: readonly number[]): void {
   if (survey.detection.kind === 'threshold') return;

@@ -33,7 +33,7 @@ export type Completeness =
   | { model: 'table'; x: number[]; fraction: number[] }; // x ascending in the completeness variable
 
 /**
- * The completeness variable x (survey-file.md): observed AB magnitude (magnitude kind),
+ * The completeness variable x (docs/survey-file.md, "Completeness"): observed AB magnitude (magnitude kind),
  * -log10(measured line flux / erg s^-1 cm^-2) (line_flux kind; a half given as a flux is stored
  * as -log10 of it, and table x as -log10 flux, sorted ascending), log10 quantity or absolute
  * magnitude (threshold kind). Completeness falls as x grows in every kind.

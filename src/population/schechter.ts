@@ -1,7 +1,7 @@
 /**
  * The Schechter function (Schechter 1976, ApJ 203, 297) and its integrals.
  *
- * Standard form with the same phi* in every variable (survey-file.md):
+ * Standard form with the same phi* in every variable (docs/survey-file.md, "The Schechter function in skytally"):
  *   luminosity: phi(L) dL = phi* (L/L*)^alpha exp(-L/L*) dL/L*
  *   magnitude:  phi(M) dM = 0.4 ln10 phi* 10^(0.4 (alpha+1) (M*-M)) exp(-10^(0.4 (M*-M))) dM
  *   per dex:    phi(log10 L) dlog10 L = ln10 phi* (L/L*)^(alpha+1) exp(-L/L*) dlog10 L

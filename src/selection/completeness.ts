@@ -3,7 +3,7 @@
  * the observed value `obs` (the histogram variable: apparent AB magnitude, log10 measured line
  * flux, log10 quantity or absolute magnitude).
  *
- * survey-file.md defines the logistic c = 1 / (1 + exp((x - half) / width)) in a variable x that
+ * docs/survey-file.md ("Completeness") defines the logistic c = 1 / (1 + exp((x - half) / width)) in a variable x that
  * grows towards faint sources: x = apparent magnitude (magnitude kind), x = -log10 flux (line_flux),
  * x = absolute magnitude (threshold, magnitude variable). For the threshold kind with a luminosity
  * (or mass) variable, x = log10 quantity grows towards BRIGHT sources, so the logistic is applied

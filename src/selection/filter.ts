@@ -5,7 +5,7 @@
  * Filter transmission relative to the peak, as a function of observed wavelength.
  * tophat: 1 inside center +- fwhm/2, 0 outside.
  * gaussian: exp(-(lambda-center)^2 / (2 sigma^2)), sigma = fwhm / (2 sqrt(2 ln 2)) (common practice),
- *           cut to 0 outside center +- 1.5 fwhm (survey-file.md).
+ *           cut to 0 outside center +- 1.5 fwhm (docs/survey-file.md, "Filters").
  * table: the tabulated curve, relative to its peak, linear
  *        between rows, 0 outside the table; the window is where it is above 0.
  */

@@ -10,7 +10,7 @@
  *                          K(z) = 5 log10(D_L / 10 pc) - 2.5 log10(1+z)
  *                                 - 2.5 (beta+2) log10(band / ((1+z) rest_wavelength))
  *                                 - 2.5 log10 T_IGM(z)
- *                          so that the absolute-magnitude limit is M_lim(z) = limit - K(z) (survey-file.md).
+ *                          so that the absolute-magnitude limit is M_lim(z) = limit - K(z) (docs/survey-file.md).
  *                          T_IGM = 1 unless detection.igm is madau1995 (src/selection/igm.ts): then the
  *                          Madau 1995 mean transmission at the band's effective wavelength, or averaged
  *                          over detection.band_file when given.
@@ -139,7 +139,7 @@ export function igmMagnitude(detection: Extract<Detection, { kind: 'magnitude' }
 }
 
 /**
- * K(z) = m - M for the power-law spectrum f_lambda ~ lambda^beta (survey-file.md):
+ * K(z) = m - M for the power-law spectrum f_lambda ~ lambda^beta (docs/survey-file.md, "magnitude"):
  * 5 log10(D_L / 10 pc) - 2.5 log10(1+z) - 2.5 (beta+2) log10(band / ((1+z) rest)).
  */
 export function apparentMinusAbsolute(

@@ -1,5 +1,5 @@
 /**
- * Safe expressions in redshift z (survey-file.md): numbers, the symbol z, + - * / ^ (and unary
+ * Safe expressions in redshift z (docs/survey-file.md, "Parameters that vary with redshift"): numbers, the symbol z, + - * / ^ (and unary
  * minus and plus), parentheses, and the functions log10, ln (natural log), exp, sqrt, abs, min, max.
  *
  * The text is parsed by mathjs into a node tree; the whole tree is checked against that list and

@@ -3,7 +3,7 @@
  * `Survey` of plain numbers in documented units (src/model/).
  *
  * Order: plain-data check, JSON Schema (specs/survey.schema.json), then the rules that tie keys
- * together (survey-file.md), each failing with one SurveyError (code, file, key path, fix).
+ * together (docs/survey-file.md), each failing with one SurveyError (code, file, key path, fix).
  */
 import { excerpt, inputError } from '../errors.js';
 import { resolveCosmology } from '../cosmology/parameters.js';

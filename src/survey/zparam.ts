@@ -1,5 +1,5 @@
 /**
- * Parameters that may vary with redshift (survey-file.md, "The population"): a number, a table
+ * Parameters that may vary with redshift (docs/survey-file.md, "Parameters that vary with redshift"): a number, a table
  * {table: [[z, value], ...]} (linear interpolation in z, end values held outside), or an
  * expression in z (src/survey/expressions.ts).
  */

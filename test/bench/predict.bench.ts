@@ -57,12 +57,12 @@ export const cases: BenchCase[] = [
   { name: 'predict 10 slices: histograms + completeness, no uncertainty', run: () => predict(line10, bare) },
   { name: 'predict 10 slices: histograms + cosmic variance, no completeness', run: () => predict(lineNoCompleteness10), repeats: 50 },
   { name: 'predict 10 slices: histograms only', run: () => predict(lineNoCompleteness10, bare) },
-  // Counts and histograms only (issue 2: under 2 ms for 10 slices).
+  // Counts and histograms only (a target of under 2 ms for 10 slices).
   { name: 'predict counts: line_flux, gaussian filter, logistic completeness, 10 slices', run: () => predict(line10, bare) },
   { name: 'predict counts: line_flux, gaussian filter, no completeness, 10 slices', run: () => predict(lineNoCompleteness10, bare) },
   { name: 'predict counts: magnitude, evolving model, table completeness, 8 slices', run: () => predict(deep, bare) },
   { name: 'predict counts: threshold (stellar mass), 10 slices', run: () => predict(mass, bare) },
-  // With Poisson and cosmic-variance uncertainties (issue 3: under 50 ms for 10 slices).
+  // With Poisson and cosmic-variance uncertainties (a target of under 50 ms for 10 slices).
   { name: 'predict with uncertainty: line_flux, logistic completeness, 10 slices', run: () => predict(line10), repeats: 20 },
   { name: 'predict with uncertainty: magnitude, table completeness, 8 slices', run: () => predict(deep), repeats: 20 },
   { name: 'predict with uncertainty: threshold, 10 slices', run: () => predict(mass), repeats: 20 },

@@ -79,7 +79,7 @@ describe('predict', () => {
 });
 
 describe('distances', () => {
-  test('JSON rows with every key of outputs.md', async () => {
+  test('JSON rows with every key of docs/outputs.md', async () => {
     const r = await runCli(['distances', '--z', '0.5,1,2', '--h0', '70', '--omega-m', '0.3', '--format', 'json']);
     expect(r.code).toBe(0);
     const j = JSON.parse(r.stdout);

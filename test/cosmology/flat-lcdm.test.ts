@@ -3,7 +3,7 @@
  * Grouped by where the expected value comes from:
  *  1. astropy 5.2.1 FlatLambdaCDM(H0, Om0, Tcmb0, Neff=3.046, m_nu=0) and mpmath 1.2.1 quadrature
  *     (fixture test/reference/distances.json from test/reference/generate/distances.py);
- *     tolerance relative 1e-10 (the brief asks for 1e-6; worst seen about 2e-12).
+ *     tolerance relative 1e-10 (worst seen about 2e-12).
  *  2. closed forms (Hogg 1999, astro-ph/9905116): Einstein-de Sitter and de Sitter.
  *  3. consistency between functions (volume integral, D_L = (1+z)^2 D_A, additivity).
  *  4. properties (fast-check) and input validation.

@@ -1,7 +1,7 @@
 /**
- * A count that diverges is bad input (issue 2): with a flux limit from z = 0 the integrand behaves
+ * A count that diverges is bad input: with a flux limit from z = 0 the integrand behaves
  * like z^(2 alpha + 4), which diverges for alpha <= -2.5 (common practice; from the definitions in
- * survey-file.md). Exit 2, code "divergent", nothing written; alpha just above -2.5 still counts.
+ * docs/survey-file.md). Exit 2, code "divergent", nothing written; alpha just above -2.5 still counts.
  */
 import { describe, expect, test } from 'vitest';
 import { writeFileSync, existsSync } from 'node:fs';

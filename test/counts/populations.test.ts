@@ -1,5 +1,5 @@
 /**
- * Several populations, densities, tabulated filters (issue 7).
+ * Several populations, densities, tabulated filters.
  *
  * Origins of the expected values:
  * - "one file with two populations = two files with one each": exact (same code path, same slices);

@@ -5,7 +5,7 @@
  * - a finer grid holding every point of a coarser one never finds a worse grid optimum;
  * - the refined optimum equals brute force over every whole number of pointings (each exposed for
  *   the whole budget), exactly (same evaluations), and is never worse than the grid optimum;
- * - a tiered design's Fisher matrix is the sum of its tiers' (issue 5), so it is never worse than
+ * - a tiered design's Fisher matrix is the sum of its tiers', so it is never worse than
  *   its best single tier for the sigma goal.
  */
 import { beforeAll, describe, expect, test } from 'vitest';

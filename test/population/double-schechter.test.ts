@@ -1,5 +1,5 @@
 /**
- * The double Schechter shape (issue 7):
+ * The double Schechter shape:
  *   phi(L) dL = exp(-L/L*) [phi1* (L/L*)^alpha1 + phi2* (L/L*)^alpha2] dL/L*
  * - equals the sum of two single Schechter functions sharing L* (exact identity; 1e-14 relative);
  * - reduces to one Schechter function when phi2* = 0 (exact);

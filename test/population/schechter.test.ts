@@ -1,6 +1,6 @@
 /**
  * Schechter function identities. References: Schechter 1976 (the form); the luminosity density
- * j = phi* L* Gamma(alpha+2) (common practice; textbook result); the three forms of survey-file.md
+ * j = phi* L* Gamma(alpha+2) (common practice; textbook result); the three forms of docs/survey-file.md
  * describe one distribution (change of variables, exact).
  */
 import { describe, expect, test } from 'vitest';

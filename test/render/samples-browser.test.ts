@@ -1,6 +1,6 @@
 /**
  * The report of every sample, made by the real `report` command (run(argv, io)), opened in a
- * real headless browser (Debian's chromium driven by playwright-core, the flags of issue 6):
+ * real headless browser (Debian's chromium driven by playwright-core, with the flags the report is checked under):
  * no console or page error, every figure drawn with a non-zero size, no request beyond the
  * document, a screenshot in test-output/. A survey whose title holds HTML and script, also made
  * through the command, is shown as text and never run. Skipped, with a message, only when

@@ -1,7 +1,7 @@
 /**
- * The magnitude kind's K(z) (survey-file.md) against a computation through fluxes with the AB
+ * The magnitude kind's K(z) (docs/survey-file.md) against a computation through fluxes with the AB
  * zero point of Oke & Gunn 1983 (m_AB = -2.5 log10 f_nu[erg s^-1 cm^-2 Hz^-1] - 48.60), and the
- * line_flux limit L_lim = 4 pi D_L^2 F (survey-file.md) recomputed by hand. Tolerance 1e-10 mag / relative.
+ * line_flux limit L_lim = 4 pi D_L^2 F (docs/survey-file.md) recomputed by hand. Tolerance 1e-10 mag / relative.
  */
 import { describe, expect, test } from 'vitest';
 import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
@@ -42,7 +42,7 @@ describe('magnitude kind: apparent minus absolute (AB zero point, Oke & Gunn 198
   });
 });
 
-describe('line_flux kind: limit in luminosity = 4 pi D_L^2 F / T (survey-file.md)', () => {
+describe('line_flux kind: limit in luminosity = 4 pi D_L^2 F / T (docs/survey-file.md)', () => {
   const pop = { lineAngstrom: 6563 } as unknown as Population;
   test('no filter', () => {
     const obs = makeObserver({ kind: 'line_flux', limitCgs: 5e-17 }, pop, cosmo).at(0.8, 1e42);
@@ -50,7 +50,7 @@ describe('line_flux kind: limit in luminosity = 4 pi D_L^2 F / T (survey-file.md
     expect(obs.limitInVariable).toBeCloseTo(Math.log10(4 * Math.PI * dl * dl * 5e-17), 12);
     expect(obs.log10ULimit).toBeCloseTo(Math.log10((4 * Math.PI * dl * dl * 5e-17) / 1e42), 12);
   });
-  test('gaussian filter: FWHM convention and 1.5 FWHM cut (common practice; survey-file.md)', () => {
+  test('gaussian filter: FWHM convention and 1.5 FWHM cut (common practice; docs/survey-file.md)', () => {
     const f = { centerAngstrom: 10000, fwhmAngstrom: 100, profile: 'gaussian' as const };
     expect(transmission(f, 10000)).toBe(1);
     expect(transmission(f, 10050)).toBeCloseTo(0.5, 12); // half maximum at center + FWHM/2

@@ -27,7 +27,7 @@ function expectOneSentence(e: SurveyError, file = FILE): void {
 }
 
 describe('valid surveys (closed-form expectations)', () => {
-  test('line search through a tophat filter: window from center +- fwhm/2 (survey-file.md)', () => {
+  test('line search through a tophat filter: window from center +- fwhm/2 (docs/survey-file.md)', () => {
     const s = loadSurveyText(LINE_YAML, FILE);
     // 900 arcmin^2 = 0.25 deg^2 (1 deg = 60 arcmin, by definition).
     expect(s.areaDeg2).toBeCloseTo(0.25, 14);
@@ -45,13 +45,13 @@ describe('valid surveys (closed-form expectations)', () => {
     expect(p.lStar!.at(0.8)).toBeCloseTo(10 ** (41.9 + 0.16), -28);
     expect(p.lStar!.at(0.8) / 10 ** (41.9 + 0.16)).toBeCloseTo(1, 12);
     expect(p.phiStar.at(1)).toBe(1.2e-3);
-    expect(s.histogramWidth).toBe(0.1); // survey-file.md: default 0.1 dex for line_flux
+    expect(s.histogramWidth).toBe(0.1); // docs/survey-file.md: default 0.1 dex for line_flux
     expect(s.detection).toMatchObject({ kind: 'line_flux', limitCgs: 5e-17, filter: { profile: 'tophat', centerAngstrom: 11900, fwhmAngstrom: 100 } });
     expect(s.cosmology).toMatchObject({ h0: 70, omegaM: 0.3, omegaLambda: 0.7, omegaR: 0, tCmb: 0 });
     expect(s.title).toBe('Narrow-band line search in an invented field');
   });
 
-  test('gaussian filter: window from center +- 1.5 fwhm, intersected with redshift (survey-file.md)', () => {
+  test('gaussian filter: window from center +- 1.5 fwhm, intersected with redshift (docs/survey-file.md)', () => {
     const obj = parse(LINE_YAML) as Record<string, unknown>;
     setPath(obj, 'detection.filter.profile', 'gaussian');
     setPath(obj, 'redshift', { min: 0.8, max: 2 });
@@ -93,7 +93,7 @@ describe('valid surveys (closed-form expectations)', () => {
     // Edges [0.6, 0.8, 1.0, 1.4] lie inside [0.5, 1.5]; the slices then cover [0.6, 1.4].
     expect(s.sliceEdges).toEqual([0.6, 0.8, 1.0, 1.4]);
     expect(s.redshift).toEqual({ min: 0.6, max: 1.4 });
-    // A population's window is its whole window (issue 7): explicit edges do not cut it; its own
+    // A population's window is its whole window: explicit edges do not cut it; its own
     // result uses the same edges.
     expect(q.window).toEqual({ min: 0.5, max: 1.5 });
     expect(q.sliceEdges).toEqual([0.6, 0.8, 1.0, 1.4]);
@@ -131,7 +131,7 @@ describe('valid surveys (closed-form expectations)', () => {
     obj.populations = [{ ...pop, name: 'red line' }, { ...pop, line: '500.7 nm' }];
     const s = parseSurveyObject(obj, FILE);
     const [a, b] = s.populations;
-    // tophat windows (survey-file.md): (11900 -+ 50)/line - 1.
+    // tophat windows (docs/survey-file.md): (11900 -+ 50)/line - 1.
     expect(a!.window.min).toBeCloseTo(11850 / 6563 - 1, 13);
     expect(b!.window.min).toBeCloseTo(11850 / 5007 - 1, 13);
     expect(b!.name).toBe('population 2');

@@ -13,7 +13,7 @@ describe('specs/survey.schema.json', () => {
     expect(readFileSync(GENERATED_PATH, 'utf8')).toBe(generateValidatorSource());
   });
 
-  test('holds every key of the survey-file contract (survey-file.md, vocabulary.md)', () => {
+  test('holds every key of the survey-file contract (docs/survey-file.md, docs/names.md)', () => {
     const keysOf = (s: Schema) => Object.keys(resolve(s).properties ?? {}).sort();
     const p = schema.properties!;
     expect(keysOf(schema)).toEqual(
@@ -33,7 +33,7 @@ describe('specs/survey.schema.json', () => {
       [
         'alpha', 'bias', 'l_star', 'line', 'log10_l_star', 'log10_phi_star', 'log10_phi_star_dex', 'm_star', 'name', 'occupation',
         'phi_star', 'phi_star_dex', 'quantity', 'rest_wavelength', 'shape', 'variable',
-        // issue 7: double Schechter components and the star-formation-rate conversion
+        // double Schechter components and the star-formation-rate conversion
         'alpha_1', 'alpha_2', 'phi_star_1', 'log10_phi_star_1', 'phi_star_1_dex', 'log10_phi_star_1_dex',
         'phi_star_2', 'log10_phi_star_2', 'phi_star_2_dex', 'log10_phi_star_2_dex', 'sfr_conversion',
       ].sort(),

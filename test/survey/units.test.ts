@@ -9,7 +9,7 @@ const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);
 describe('unit conversions against published definitions (relative tolerance 1e-14 unless stated)', () => {
   // [input, kind, expected plain number, source of the expected value]
   const cases: [string | number, QuantityKind, number, string][] = [
-    [2.5, 'area', 2.5, 'plain number: deg^2 (survey-file.md)'],
+    [2.5, 'area', 2.5, 'plain number: deg^2 (docs/survey-file.md)'],
     ['2.5', 'area', 2.5, 'bare number string: deg^2'],
     ['3600 arcmin^2', 'area', 1, '1 deg = 60 arcmin, so 1 deg^2 = 3600 arcmin^2 (exact, by definition)'],
     ['900 arcmin^2', 'area', 0.25, '1 deg^2 = 3600 arcmin^2'],

@@ -30,7 +30,7 @@ describe('linear growth: reference library', () => {
 
 describe('linear growth: published approximation', () => {
   // Carroll, Press & Turner 1992, ARA&A 30, 499, eq. 29; the fit is good to ~1 % for flat models,
-  // so a 1.5 % tolerance is used (the brief's choice). At omega_m = 0.1 the fit is ~2 % off, so the
+  // so a 1.5 % tolerance is used (our choice). At omega_m = 0.1 the fit is ~2 % off, so the
   // cases start at 0.2.
   const cases: [number, number][] = [];
   for (const om of [0.2, 0.25, 0.3, 0.5, 0.8]) for (const z of [0.25, 0.5, 1, 2, 5]) cases.push([om, z]);

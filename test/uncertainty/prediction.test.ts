@@ -1,5 +1,5 @@
 /**
- * Uncertainty blocks of predict (issue 3). References: Poisson fraction 1/sqrt(N) exactly and the
+ * Uncertainty blocks of predict. References: Poisson fraction 1/sqrt(N) exactly and the
  * quadrature sum (common practice); cosmic variance = b sigma_dm / sqrt(fields) (the method's
  * definition, Trenti & Stiavelli 2008 / Somerville et al. 2004); sigma(8/h Mpc, z=0) = sigma8 by the
  * normalisation's definition; D(z) = 1/(1+z) for omega_m = 1 (exact, Einstein-de Sitter).

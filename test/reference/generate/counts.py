@@ -1,5 +1,5 @@
 #!/usr/bin/python3
-"""Independent expected counts for invented surveys, from survey-file.md's definitions.
+"""Independent expected counts for invented surveys, from docs/survey-file.md's definitions.
 
 Distances and volumes: astropy.cosmology.FlatLambdaCDM(H0, Om0, Tcmb0, Neff=3.046, m_nu=0).
 Hard-limit number densities: mpmath.gammainc (upper incomplete gamma, any real s).

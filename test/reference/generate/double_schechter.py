@@ -1,7 +1,7 @@
 #!/usr/bin/python3
 """Reference integrals of the double Schechter function, computed independently with mpmath.
 
-phi(L) dL = exp(-L/L*) [phi1* (L/L*)^alpha1 + phi2* (L/L*)^alpha2] dL/L*   (issue 7)
+phi(L) dL = exp(-L/L*) [phi1* (L/L*)^alpha1 + phi2* (L/L*)^alpha2] dL/L*  
 
 For each case: the number density above L_lim, n = integral_{L_lim}^inf phi(L) dL, and the
 luminosity density above L_lim, j = integral_{L_lim}^inf L phi(L) dL, by direct quadrature of the

@@ -6,7 +6,7 @@ lambda = area_sr dV_C/dz/dOmega(z) phi(x; z, theta) c(x, z) above the limit, wit
 theta = (log10 phi*, log10 L* or M*, alpha) as constant offsets at every z.
 
 - Distances and volumes: astropy.cosmology.FlatLambdaCDM(H0, Om0, Tcmb0=0).
-- phi(x) in the observed population variable, written from survey-file.md's standard forms:
+- phi(x) in the observed population variable, written from docs/survey-file.md's standard forms:
   per dex of L: ln10 phi* (L/L*)^(alpha+1) exp(-L/L*); per magnitude:
   0.4 ln10 phi* 10^(0.4 (alpha+1) (M*-M)) exp(-10^(0.4 (M*-M))).
 - d ln lambda / d theta by central finite differences (step 1e-5; no analytic derivative is used).
