@@ -14,7 +14,7 @@
  * and is written once; a reference to another output's schema (the report's) is that output's type.
  */
 import { readFileSync, writeFileSync } from 'node:fs';
-import { compile, type JSONSchema, type Options } from 'json-schema-to-typescript';
+import { compile, type Options } from 'json-schema-to-typescript';
 
 const SPECS = new URL('../specs/', import.meta.url);
 export const OUTPUT_DIR = new URL('../src/model/outputs/', import.meta.url);
@@ -167,7 +167,7 @@ export async function generateOutputTypes(): Promise<Map<string, string>> {
     const body = rewrite({ ...s, $defs: named(defs) }, used, false) as Json;
     delete body.$id;
     body.title = type;
-    const ts = await compile(body as JSONSchema, type, { ...OPTIONS, bannerComment: '', cwd: SPECS.pathname });
+    const ts = await compile(body, type, { ...OPTIONS, bannerComment: '', cwd: SPECS.pathname });
     const imports: string[] = [];
     if (used.delete('Warning')) imports.push(`import type { Warning } from '../../warnings.js';`);
     for (const [, other] of Object.entries(OTHER_OUTPUTS)) {
@@ -178,7 +178,7 @@ export async function generateOutputTypes(): Promise<Map<string, string>> {
   }
   const used = new Set<string>();
   const sharedSchema = rewrite({ title: 'SharedBlocks', type: 'object', properties: {}, $defs: named(shared) }, used, true) as Json;
-  let sharedTs = await compile(sharedSchema as JSONSchema, 'SharedBlocks', { ...OPTIONS, bannerComment: '' });
+  let sharedTs = await compile(sharedSchema, 'SharedBlocks', { ...OPTIONS, bannerComment: '' });
   // the empty holder object is only the carrier of the definitions
   sharedTs = sharedTs.replace(/export interface SharedBlocks \{\}\n\n?/, '');
   files.set('shared.ts', `${BANNER('the definitions several schemas of specs/ hold')}\n${tidy(sharedTs)}`);

@@ -55,7 +55,8 @@ export type { Figure } from './render/types.js';
 export { buildReport, type BuildReportOptions } from './library/report.js';
 export { predictionTable, predictionCsv } from './render/predict-table.js';
 export { forecastTable, forecastCsv } from './render/forecast-table.js';
-export { planTable, planCsv, compareTable, compareCsv } from './render/plan-table.js';
+export { planTable, planCsv } from './render/plan-table.js';
+export { compareTable, compareCsv } from './render/compare-table.js';
 
 // Cosmology and the Schechter function on their own.
 export { FlatCosmology, type FlatCosmologyParams } from './cosmology/flat-cosmology.js';

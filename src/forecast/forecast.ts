@@ -8,7 +8,6 @@
  *    reaches target sigmas (requirement.ts).
  */
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
-import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { describeModel } from '../population/describe.js';
 import type { FisherBlock, Forecast, ForecastSlice, MockParameterSummary } from '../model/outputs/forecast.js';
@@ -16,7 +15,7 @@ import { choosePopulation, surveyForPopulation } from '../model/select.js';
 import { inputError } from '../errors.js';
 import { buildDensityGrid } from './grid.js';
 import { fisherParts, marginaliseNormalisations, summariseFisher, type FisherSummary } from './fisher.js';
-import { parameterNames, parameterValuesAt, type ParameterName } from './parameters.js';
+import { parameterNames, parameterValuesAt } from './parameters.js';
 import { cosmicVarianceInput, type CosmicVarianceSource } from './cosmic-variance-input.js';
 import { makeMockSetup, runMocks } from './mocks.js';
 import type { Estimator } from './fit.js';

@@ -50,7 +50,7 @@ export interface SharedResults {
 function shapeObstacle(survey: Survey, what: 'forecast' | 'plan'): string | undefined {
   const p = survey.populations[0]!;
   if (p.shape === 'schechter') return undefined;
-  const shape = p.shape === 'double_schechter' ? 'a double Schechter function' : `of shape ${p.shape}`;
+  const shape = 'a double Schechter function';
   const who = survey.populations.length > 1 ? `the first population, "${p.name}",` : `the population "${p.name}"`;
   const head =
     what === 'forecast'

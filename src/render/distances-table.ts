@@ -4,7 +4,7 @@ import { cosmologyLine } from './predict-table.js';
 import { sig } from './format.js';
 import { csvText } from './csv.js';
 
-const COLUMNS: [keyof DistanceRow & string, string][] = [
+const COLUMNS: [keyof DistanceRow, string][] = [
   ['z', 'z'],
   ['comoving_distance_mpc', 'D_C [Mpc]'],
   ['luminosity_distance_mpc', 'D_L [Mpc]'],

@@ -17,7 +17,7 @@ import { buildFigures, countsFigure, luminosityFunctionFigure, observedSharesFig
 /** The population entries of the file as written (`population:` or `populations:`), in order. */
 function rawPopulations(survey: Survey): Record<string, unknown>[] {
   const raw = survey.raw as { population?: unknown; populations?: unknown } | null | undefined;
-  const list = Array.isArray(raw?.populations) ? raw!.populations : raw?.population !== undefined ? [raw.population] : [];
+  const list = Array.isArray(raw?.populations) ? raw.populations : raw?.population !== undefined ? [raw.population] : [];
   return list.map((p) => (p && typeof p === 'object' && !Array.isArray(p) ? (p as Record<string, unknown>) : {}));
 }
 

@@ -480,11 +480,11 @@ export function luminosityFunctionRows(
     const base = { slice: i + 1, panel: `${panelLabel(s)} (at z = ${((s.z_min + s.z_max) / 2).toFixed(3)})` };
     for (const r of rows) out.push({ ...base, kind: 'curve', x: r.x, phi: r.phi });
     if (finite(c.limit)) {
-      const detected = detectedPart(rows, c.limit!, magnitude);
+      const detected = detectedPart(rows, c.limit, magnitude);
       if (detected.length >= 2) for (const r of detected) out.push({ ...base, kind: 'detected', x: r.x, phi: r.phi, floor });
-      out.push({ ...base, kind: 'limit', x: c.limit! });
+      out.push({ ...base, kind: 'limit', x: c.limit });
     }
-    if (finite(c.knee)) out.push({ ...base, kind: 'knee', x: c.knee!, label: kneeName });
+    if (finite(c.knee)) out.push({ ...base, kind: 'knee', x: c.knee, label: kneeName });
   }
   return { rows: out, magnitude, xLabel, panels: drawn.length };
 }
@@ -651,11 +651,11 @@ export function forecastSpec(f: ForecastView, surveyTitle?: string): Spec | null
   const jx = cols.indexOf(axes.x.name);
   const jy = cols.indexOf(axes.y.name);
   const mocks: { x: number; y: number }[] = [];
-  if (Array.isArray(f.mocks?.fits) && jx >= 0 && jy >= 0) {
-    for (const row of f.mocks!.fits!) {
-      const x = row?.[jx];
-      let y = row?.[jy];
-      if (finite(x, y)) mocks.push({ x: x as number, y: y as number });
+  if (f.mocks?.fits && jx >= 0 && jy >= 0) {
+    for (const row of f.mocks.fits) {
+      const x = row[jx];
+      const y = row[jy];
+      if (typeof x === 'number' && typeof y === 'number' && finite(x, y)) mocks.push({ x, y });
     }
   }
   const layer: Spec[] = [];

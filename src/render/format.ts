@@ -177,3 +177,12 @@ export function wrapWords(text: string, width: number): string[] {
   if (line) lines.push(line);
   return lines;
 }
+
+/** A limit in its variable for people: 25.50 AB, M = -20.00, 4e-17 erg/s/cm^2, log10 = 9.6 (or the text of one that varies with z). */
+export function limitText(v: string, x: number | string): string {
+  if (typeof x === 'string') return x;
+  if (v === 'apparent_magnitude') return `${x.toFixed(2)} AB`;
+  if (v === 'absolute_magnitude') return `M = ${x.toFixed(2)}`;
+  if (v === 'line_flux_cgs') return `${sig(x, 3)} erg/s/cm^2`;
+  return `log10 = ${sig(x, 4)}`;
+}

@@ -45,7 +45,7 @@ export const compareCommand: CommandDef = {
       cosmicVariance: raw.cosmicVariance !== false,
     });
     printWarnings(io, result.warnings);
-    const { compareTable, compareCsv } = await import('../../render/plan-table.js');
+    const { compareTable, compareCsv } = await import('../../render/compare-table.js');
     outputs.setMain(renderText(out, { json: () => result, table: () => compareTable(result), csv: () => compareCsv(result) }));
     outputs.commit();
     return 0;
