@@ -11,6 +11,8 @@
  *   in the interior. End values held outside the grid.
  * - `uniformSpline(x0, dx, y)`: the same spline on a uniform grid, with `splineEval` and
  *   `splineDerivative` (clamped to the grid's ends); no checks (the halo tables' hot loop).
+ * - `lagrangeCubics(y)` and `lagrangeCubicAt`: the 4-point Lagrange cubics of a uniform table (the
+ *   power spectrum's ln P and the box window's ln I tables).
  * The first three throw Error when the grid is not strictly increasing, the lengths differ, fewer than
  * two points are given, or a value is not finite.
  */
@@ -222,4 +224,31 @@ export function splineDerivative(s: UniformSpline, x: number): number {
   const { i, t } = splineInterval(s, x);
   const u = 1 - t;
   return (s.y[i + 1]! - s.y[i]!) / s.dx + ((-(3 * u * u - 1)) * s.m[i]! + (3 * t * t - 1) * s.m[i + 1]!) * (s.dx / 6);
+}
+
+/**
+ * The 4-point Lagrange cubics of a table y_0 .. y_{n-1} on a uniform grid: for each node i from 1
+ * to n-3, the cubic through y_{i-1} .. y_{i+2} written as c0 + u (c1 + u (c2 + u c3)) in u = t - i
+ * (t the position in grid steps), at coef[4 i .. 4 i + 3]. Evaluate with `lagrangeCubicAt`.
+ */
+export function lagrangeCubics(y: ArrayLike<number>): Float64Array {
+  const n = y.length;
+  const coef = new Float64Array(4 * n);
+  for (let i = 1; i <= n - 3; i++) {
+    const y0 = y[i - 1]!;
+    const y1 = y[i]!;
+    const y2 = y[i + 1]!;
+    const y3 = y[i + 2]!;
+    coef[4 * i] = y1;
+    coef[4 * i + 1] = -y0 / 3 - y1 / 2 + y2 - y3 / 6;
+    coef[4 * i + 2] = y0 / 2 - y1 + y2 / 2;
+    coef[4 * i + 3] = -y0 / 6 + y1 / 2 - y2 / 2 + y3 / 6;
+  }
+  return coef;
+}
+
+/** The cubic of node i (1 <= i <= n-3) of `lagrangeCubics` at u = t - i. */
+export function lagrangeCubicAt(coef: Float64Array, i: number, u: number): number {
+  const j = 4 * i;
+  return coef[j]! + u * (coef[j + 1]! + u * (coef[j + 2]! + u * coef[j + 3]!));
 }

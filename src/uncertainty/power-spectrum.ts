@@ -33,6 +33,7 @@ import {
   T_CMB_DEFAULT_K,
 } from '../cosmology/constants.js';
 import { createGrowth } from './growth.js';
+import { lagrangeCubicAt, lagrangeCubics } from '../numerics/interpolate.js';
 import { gaussLegendre } from './quadrature.js';
 
 export type TransferForm = 'no_wiggle' | 'full';
@@ -286,19 +287,8 @@ function buildLinearPower(cosmology: Cosmology, options: LinearPowerOptions): Li
   }
   const slopeHi = (lnShape[nTab - 1]! - lnShape[nTab - 2]!) / LNK_STEP;
   const slopeLo = (lnShape[1]! - lnShape[0]!) / LNK_STEP;
-  // The 4-point Lagrange cubic through nodes i-1 .. i+2, written as a polynomial in u = t - i
-  // (c0 + u (c1 + u (c2 + u c3)), the same cubic with fewer operations per evaluation).
-  const coef = new Float64Array(4 * nTab);
-  for (let i = 1; i <= nTab - 3; i++) {
-    const y0 = lnShape[i - 1]!;
-    const y1 = lnShape[i]!;
-    const y2 = lnShape[i + 1]!;
-    const y3 = lnShape[i + 2]!;
-    coef[4 * i] = y1;
-    coef[4 * i + 1] = -y0 / 3 - y1 / 2 + y2 - y3 / 6;
-    coef[4 * i + 2] = y0 / 2 - y1 + y2 / 2;
-    coef[4 * i + 3] = -y0 / 6 + y1 / 2 - y2 / 2 + y3 / 6;
-  }
+  // The 4-point Lagrange cubic through nodes i-1 .. i+2, as a polynomial in u = t - i.
+  const coef = lagrangeCubics(lnShape);
   /** ln of the unnormalised shape at ln k (4-point Lagrange interpolation; linear extrapolation). */
   const lnShapeAt = (lnk: number): number => {
     const t = (lnk - LNK_MIN) / LNK_STEP;
@@ -307,9 +297,7 @@ function buildLinearPower(cosmology: Cosmology, options: LinearPowerOptions): Li
     let i = Math.floor(t);
     if (i < 1) i = 1;
     if (i > nTab - 3) i = nTab - 3;
-    const u = t - i;
-    const j = 4 * i;
-    return coef[j]! + u * (coef[j + 1]! + u * (coef[j + 2]! + u * coef[j + 3]!));
+    return lagrangeCubicAt(coef, i, t - i);
   };
 
   const r8 = 8 / p.h;

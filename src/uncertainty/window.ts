@@ -31,6 +31,7 @@
  * (seconds), for tests only.
  */
 import type { LinearPower } from './power-spectrum.js';
+import { lagrangeCubicAt, lagrangeCubics } from '../numerics/interpolate.js';
 import { adaptiveIntegrate, gaussLegendre } from './quadrature.js';
 
 export interface SincRuleOptions {
@@ -220,6 +221,7 @@ export function boxSigma(
     for (let c = 0; c < n3; c++) s += w3[c]! * p0(k2 + q3[c]!);
     lnI[g] = s > 0 ? Math.log(s) : Number.NEGATIVE_INFINITY;
   }
+  const lnICubics = lagrangeCubics(lnI);
   const lnIAt = (lnK: number): number => {
     const t = (lnK - lnKMin) / step;
     let i = Math.floor(t);
@@ -230,15 +232,7 @@ export function boxSigma(
       // a spectrum that underflows to 0 (only synthetic test spectra do): linear in I, no overshoot
       return Math.log((1 - u) * Math.exp(lnI[i]!) + u * Math.exp(lnI[i + 1]!));
     }
-    const um1 = u - 1;
-    const um2 = u - 2;
-    const up1 = u + 1;
-    return (
-      (-u * um1 * um2 * lnI[i - 1]!) / 6 +
-      (up1 * um1 * um2 * lnI[i]!) / 2 -
-      (up1 * u * um2 * lnI[i + 1]!) / 2 +
-      (up1 * u * um1 * lnI[i + 2]!) / 6
-    );
+    return lagrangeCubicAt(lnICubics, i, u);
   };
   let total = 0;
   if (l1 === l2) {
