@@ -109,7 +109,8 @@ declare const console: { log(line: string): void };
 const survey: Survey = loadSurveyText(text, 'survey.yaml');
 const prediction: Prediction = predict(survey);
 const count: number = prediction.totals.count;
-const slices: number[] = prediction.slices.map((s) => s.count);
+// Slices are present when the breakdown is by redshift (one population, or windows that coincide).
+const slices: number[] = (prediction.slices ?? []).map((s) => s.count);
 let refused = '';
 try {
   loadSurveyText('format: 1\\narea: -1\\n', 'bad.yaml');
