@@ -64,6 +64,10 @@ const NAMES: Record<string, string> = {
   distance_row: 'DistanceRow',
   clustering_row: 'ClusteringRow',
   population_view: 'PopulationView',
+  model_spread: 'ModelSpread',
+  density_spread: 'DensitySpread',
+  histogram_spread: 'HistogramSpread',
+  percentiles: 'Percentiles',
   // shared
   cosmology: 'CosmologyBlock',
   model: 'ModelDescription',

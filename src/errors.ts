@@ -25,6 +25,7 @@ export type ErrorCode =
   | 'not_finite'
   | 'no_sources'
   | 'singular_fisher'
+  | 'not_positive_definite'
   | 'output_exists'
   | 'not_a_file'
   | 'not_text'

@@ -59,6 +59,8 @@ export interface SliceCount {
   luminosity?: { detected: number; total?: number };
   /** With the profile option: where in redshift the slice's detected sources lie (its quadrature nodes). */
   profile?: RedshiftProfile;
+  /** With the nodes option: the slice's redshift nodes as counted (src/counts/model-draws.ts redoes them under offsets). */
+  nodes?: NodeState[];
 }
 
 /**
@@ -79,6 +81,8 @@ export interface EngineOptions {
   noHistogram?: boolean;
   /** Also return each slice's redshift profile (the total's cosmic variance weights by it). */
   profile?: boolean;
+  /** Also return each slice's redshift nodes (the model's draws reuse them). */
+  nodes?: boolean;
 }
 
 /**
@@ -166,7 +170,7 @@ function sumOver(nodes: { z: number[]; w: number[] }, f: (z: number) => number):
   return s;
 }
 
-interface NodeState {
+export interface NodeState {
   z: number;
   /** area_sr * dV/dz/dOmega * quadrature weight: Mpc^3 per unit n. */
   volumeWeight: number;
@@ -218,6 +222,7 @@ export function countPopulation(
       const empty: SliceCount = { zMin, zMax, volumeMpc3, count: 0, limitAtCenter, histogram: { variable: observer.variable, edges: [e0, roundEdge(e0 + width)], counts: [0] } };
       if (!options.noHistogram) empty.luminosity = { detected: 0, total: 0 };
       if (options.profile) empty.profile = { z: [], count: [], volumeMpc3: [] };
+      if (options.nodes) empty.nodes = [];
       out.push(empty);
       continue;
     }
@@ -243,6 +248,7 @@ export function countPopulation(
     }
     const slice: SliceCount = { zMin, zMax, volumeMpc3, count: result.count, limitAtCenter, histogram: result.histogram };
     if (perNode) slice.profile = { z: nodes.map((nd) => nd.z), count: perNode, volumeMpc3: nodes.map((nd) => nd.volumeWeight) };
+    if (options.nodes) slice.nodes = nodes;
     if (!options.noHistogram) {
       const lum = sliceLuminosity(nodes, observer, completeness, breaks, result.detectedLuminosity);
       if (!Number.isFinite(lum.detected) || (lum.total !== undefined && !Number.isFinite(lum.total))) {
@@ -515,7 +521,7 @@ export function filterBreaks(survey: Survey, population: Population, lo: number,
 }
 
 /** Histogram and total for one slice from its redshift nodes (and, given perNode, each node's count). */
-function histogramCount(
+export function histogramCount(
   nodes: NodeState[],
   observer: Observer,
   width: number,

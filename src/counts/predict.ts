@@ -22,6 +22,8 @@ import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { countPopulation, type Histogram, type SliceCount } from './engine.js';
+import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED } from './model-draws.js';
+import { addPopulationSpreads, addTopSpreads } from './model-spread.js';
 import { cosmologyJsonOf } from '../model/cosmology-json.js';
 import type {
   LineFluxDetectionBlock,
@@ -255,6 +257,8 @@ export interface PredictOptions {
   noUncertainty?: boolean;
   /** Keep the uncertainty blocks computed here for a later forecast of the same survey (report). */
   uncertaintyMemo?: UncertaintyMemo;
+  /** Draws of the populations' model_uncertainty (default 1000) and their seed (default 1); `draws: 0` skips them. */
+  model?: { draws?: number; seed?: number };
 }
 
 /** The redshifts a population is counted over: its window cut by its slice edges (empty: max <= min). */
@@ -317,9 +321,9 @@ interface PopulationRun {
 }
 
 /** Every population over its own window and slice edges (with the engine's redshift profiles when uncertainties follow). */
-function countPopulations(survey: Survey, cosmo: FlatCosmology, units: string[], profiles: boolean): PopulationRun[] {
+function countPopulations(survey: Survey, cosmo: FlatCosmology, units: string[], profiles: boolean, withModel: boolean): PopulationRun[] {
   return survey.populations.map((p, i) => {
-    const own = countPopulation(survey, p, cosmo, p.sliceEdges, profiles ? { profile: true } : {});
+    const own = countPopulation(survey, p, cosmo, p.sliceEdges, { profile: profiles, nodes: withModel && p.modelUncertainty !== undefined });
     const sfr = p.sfrConversion?.factor;
     const pred: PopulationPrediction = {
       name: p.name,
@@ -416,7 +420,9 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
   const cosmo = new FlatCosmology(survey.cosmology);
   const units = survey.populations.map((p) => luminosityDensityUnit(survey, p));
   const withUncertainty = !options.noUncertainty;
-  const runs = countPopulations(survey, cosmo, units, withUncertainty);
+  const modelDraws = options.model?.draws ?? DEFAULT_MODEL_DRAWS;
+  const withModel = withUncertainty && modelDraws > 0 && survey.populations.some((p) => p.modelUncertainty);
+  const runs = countPopulations(survey, cosmo, units, withUncertainty, withModel);
   const perPop = runs.map((r) => r.pred);
   const coincide = windowsCoincide(survey);
 
@@ -431,6 +437,11 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
     top = { slices: undefined, totals: { count, per_deg2: count / survey.areaDeg2, volume_mpc3: unionVolume(survey, cosmo, survey.populations.map(countedRange)) } };
   }
   const uncertaintyWarnings = withUncertainty ? addUncertainties(survey, cosmo, runs, top, options) : [];
+  if (withModel) {
+    const draws = addPopulationSpreads(survey, cosmo, runs, { draws: modelDraws, seed: options.model?.seed ?? DEFAULT_MODEL_SEED });
+    if (survey.populations.length > 1) addTopSpreads(runs, draws, top);
+    for (const r of runs) for (const sc of r.own) delete sc.nodes;
+  }
 
   const ranges = survey.populations.map(countedRange);
   const r0 = runs[0]!.own;

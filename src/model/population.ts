@@ -1,5 +1,6 @@
 /** The assumed population: Schechter parameters that may vary with z, bias, window and slices. */
 import type { ZParam } from './zparam.js';
+import type { ModelUncertainty } from './model-uncertainty.js';
 
 export type PopulationVariable = 'luminosity' | 'magnitude';
 
@@ -57,6 +58,8 @@ export interface SchechterPopulation {
   sliceEdges: number[];
   /** sfr_conversion, when given. */
   sfrConversion?: SfrConversion;
+  /** The luminosity function's own 1-sigma uncertainty (model_uncertainty), when given. */
+  modelUncertainty?: ModelUncertainty;
 }
 
 export type Population = SchechterPopulation;

@@ -1,6 +1,6 @@
 /** Human table and CSV for a Prediction (predict command). */
 import Table from 'cli-table3';
-import type { Prediction, PredictionSlice, PredictionTotals } from '../model/outputs/prediction.js';
+import type { ModelSpread, Prediction, PredictionSlice, PredictionTotals } from '../model/outputs/prediction.js';
 import type { CosmologyBlock } from '../model/outputs/shared.js';
 import { sig, zText } from './format.js';
 import { csvText, type CsvCell } from './csv.js';
@@ -54,6 +54,38 @@ const OBSERVED_HEADINGS: Record<string, string> = {
 };
 
 const pm = (count: number, u: { total_fraction: number } | undefined) => (u ? sig(count * u.total_fraction, 3) : '-');
+/** The model's 68 % range of a count (p16 - p84 over its draws). */
+const modelRange = (m: ModelSpread | undefined) => (m ? `${sig(m.p16, 3)} - ${sig(m.p84, 3)}` : '-');
+const MODEL_HEADING = 'model p16 - p84';
+
+/**
+ * The three sources of a count's uncertainty as fractions of the count (Poisson, cosmic variance,
+ * the model's (p84 - p16) / (2 p50)) and the one that dominates; undefined without the model block.
+ */
+export function uncertaintySources(
+  u: { poisson_fraction: number; cosmic_variance_fraction: number } | undefined,
+  m: ModelSpread | undefined,
+): { poisson: number; cosmicVariance: number; model: number; dominant: 'Poisson noise' | 'cosmic variance' | 'the model' } | undefined {
+  if (!u || !m) return undefined;
+  const parts = [
+    ['Poisson noise', u.poisson_fraction],
+    ['cosmic variance', u.cosmic_variance_fraction],
+    ['the model', m.fraction],
+  ] as const;
+  const dominant = parts.reduce((a, b) => (b[1] > a[1] ? b : a))[0];
+  return { poisson: u.poisson_fraction, cosmicVariance: u.cosmic_variance_fraction, model: m.fraction, dominant };
+}
+
+/** One sentence on the three sources of a count's uncertainty, naming the one that dominates. */
+export function sourcesSentence(what: string, count: number, u: Parameters<typeof uncertaintySources>[0], m: ModelSpread | undefined): string | undefined {
+  const s = uncertaintySources(u, m);
+  if (!s || !m) return undefined;
+  const pc = (x: number) => `${(100 * x).toFixed(1)} %`;
+  return (
+    `${what} ${sig(count, 4)}: Poisson noise ${pc(s.poisson)}, cosmic variance ${pc(s.cosmicVariance)}, the model ${pc(s.model)} ` +
+    `(${sig(m.p16, 3)} to ${sig(m.p84, 3)} over ${m.draws} draws of its uncertainty); ${s.dominant} dominates.`
+  );
+}
 
 /** Redshift slices (the top level's, or one population's own) with a total row. */
 function slicesTable(
@@ -62,7 +94,8 @@ function slicesTable(
   totals: PredictionTotals,
   columns: { name: string; slice: (s: PredictionSlice) => number; total: number }[],
 ): string {
-  const head = ['slice z', 'volume [Mpc^3]', LIMIT_HEADINGS[p.limit_variable] ?? 'limit', ...columns.map((c) => c.name), 'count', '+/- (1 sigma)', 'per deg^2', 'cumulative'];
+  const model = totals.model !== undefined;
+  const head = ['slice z', 'volume [Mpc^3]', LIMIT_HEADINGS[p.limit_variable] ?? 'limit', ...columns.map((c) => c.name), 'count', '+/- (1 sigma)', ...(model ? [MODEL_HEADING] : []), 'per deg^2', 'cumulative'];
   const table = new Table({ head, style: { head: [], border: [] } });
   for (const s of slices) {
     table.push([
@@ -72,11 +105,12 @@ function slicesTable(
       ...columns.map((c) => sig(c.slice(s), 4)),
       sig(s.count, 4),
       pm(s.count, s.uncertainty),
+      ...(model ? [modelRange(s.model)] : []),
       sig(s.per_deg2, 4),
       sig(s.cumulative_count, 4),
     ]);
   }
-  table.push(['total', sig(totals.volume_mpc3, 3), '', ...columns.map((c) => sig(c.total, 4)), sig(totals.count, 4), pm(totals.count, totals.uncertainty), sig(totals.per_deg2, 4), '']);
+  table.push(['total', sig(totals.volume_mpc3, 3), '', ...columns.map((c) => sig(c.total, 4)), sig(totals.count, 4), pm(totals.count, totals.uncertainty), ...(model ? [modelRange(totals.model)] : []), sig(totals.per_deg2, 4), '']);
   return table.toString();
 }
 
@@ -103,11 +137,15 @@ export function predictionTable(p: Prediction): string {
     out.push(slicesTable(p, p.slices, p.totals, columns));
     const note = uncertaintyNote(p.totals);
     if (note) out.push(note);
+    const sources = sourcesSentence('Sources of uncertainty of the total', p.totals.count, p.totals.uncertainty, p.totals.model);
+    if (sources) out.push(sources);
   } else {
     out.push('Every population over its own window (the survey detects them all):');
     out.push(populationsTable(p));
     const note = uncertaintyNote(p.totals);
     if (note) out.push(note);
+    const sources = sourcesSentence('Sources of uncertainty of the total', p.totals.count, p.totals.uncertainty, p.totals.model);
+    if (sources) out.push(sources);
     out.push(
       `Detections per bin of ${OBSERVED_HEADINGS[p.observed_bins.variable] ?? p.observed_bins.variable}, every population over its own window ` +
         `(share: the interloper fraction; bins with under ${100 * OBSERVED_TABLE_FLOOR}% of the detections at either end are left out here, not in the JSON or CSV):`,
@@ -124,11 +162,12 @@ export function predictionTable(p: Prediction): string {
 /** One row per population (its window, count, +/-, per deg^2 and share of all detections) and the total. */
 function populationsTable(p: Prediction): string {
   const all = p.totals.count;
-  const table = new Table({ head: ['population', 'window z', 'volume [Mpc^3]', 'count', '+/- (1 sigma)', 'per deg^2', 'share'], style: { head: [], border: [] } });
+  const model = p.totals.model !== undefined;
+  const table = new Table({ head: ['population', 'window z', 'volume [Mpc^3]', 'count', '+/- (1 sigma)', ...(model ? [MODEL_HEADING] : []), 'per deg^2', 'share'], style: { head: [], border: [] } });
   for (const q of p.populations) {
-    table.push([q.name, `${zText(q.window.min)} - ${zText(q.window.max)}`, sig(q.totals.volume_mpc3, 3), sig(q.totals.count, 4), pm(q.totals.count, q.totals.uncertainty), sig(q.totals.per_deg2, 4), all > 0 ? pct(q.totals.count / all) : '0%']);
+    table.push([q.name, `${zText(q.window.min)} - ${zText(q.window.max)}`, sig(q.totals.volume_mpc3, 3), sig(q.totals.count, 4), pm(q.totals.count, q.totals.uncertainty), ...(model ? [modelRange(q.totals.model)] : []), sig(q.totals.per_deg2, 4), all > 0 ? pct(q.totals.count / all) : '0%']);
   }
-  table.push(['total', '', sig(p.totals.volume_mpc3, 3), sig(all, 4), pm(all, p.totals.uncertainty), sig(p.totals.per_deg2, 4), all > 0 ? '100%' : '0%']);
+  table.push(['total', '', sig(p.totals.volume_mpc3, 3), sig(all, 4), pm(all, p.totals.uncertainty), ...(model ? [modelRange(p.totals.model)] : []), sig(p.totals.per_deg2, 4), all > 0 ? '100%' : '0%']);
   return table.toString();
 }
 
@@ -224,6 +263,7 @@ export function predictionCsv(p: Prediction): string {
     ]);
     return csvText(header, rows);
   }
+  const model = p.totals.model !== undefined;
   const header = [
     'z_min',
     'z_max',
@@ -235,6 +275,7 @@ export function predictionCsv(p: Prediction): string {
     'cosmic_variance_fraction',
     'total_fraction',
     'bias',
+    ...(model ? ['model_p16', 'model_p50', 'model_p84', 'model_fraction'] : []),
     'per_deg2',
     'cumulative_count',
   ];
@@ -249,6 +290,7 @@ export function predictionCsv(p: Prediction): string {
       s.uncertainty?.cosmic_variance_fraction ?? '',
       s.uncertainty?.total_fraction ?? '',
       s.uncertainty?.bias ?? '',
+      ...(model ? [s.model?.p16 ?? '', s.model?.p50 ?? '', s.model?.p84 ?? '', s.model?.fraction ?? ''] : []),
       s.per_deg2,
       s.cumulative_count,
     ]);

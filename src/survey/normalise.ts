@@ -16,6 +16,8 @@ import { isPlainNumberString, parseQuantity } from './units.js';
 import { FULL_SKY_DEG2, MIN_AREA_DEG2, SR_PER_DEG2 } from '../model/sky.js';
 import { checkParam, fmt, makeZParam, mapParam, samplePoints, type ZTable } from './zparam.js';
 import { readTransmissionFile } from './transmission-file.js';
+import { parseModelUncertainty } from './model-uncertainty.js';
+import type { ModelParameter } from '../model/model-uncertainty.js';
 import { filterRedshiftWindow, tableFwhm, tableMeanWavelength } from '../selection/filter.js';
 import { dirname } from 'node:path';
 import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH, RANGES, describeRange, inRange, type Range } from '../model/limits.js';
@@ -44,6 +46,7 @@ interface RawPopulation {
   rest_wavelength?: Q;
   bias?: ZRaw;
   occupation?: number;
+  model_uncertainty?: unknown;
 }
 
 interface RawSurvey {
@@ -636,7 +639,17 @@ function readDetection(det: RawSurvey['detection'], rawPops: RawPopulations, det
 }
 
 /** One population: its parameters checked over its window, bias, occupation, rest wavelength, window and slice edges. */
-function buildPopulation(p: RawPopulation, path: string, i: number, count: number, w: Window, edges: number[], line: number | undefined, file: string): Population {
+function buildPopulation(
+  p: RawPopulation,
+  path: string,
+  i: number,
+  count: number,
+  w: Window,
+  edges: number[],
+  line: number | undefined,
+  file: string,
+  files: { base: string; inputs: InputFile[] },
+): Population {
   const params = parsePopulationParams(p, path, file);
   for (const c of params.components) {
     checkParam(c.phiStar, w, file, `${path}.${c.phiKey}`, { what: c.phiKey === 'phi_star' ? 'phi_star' : `phi_star (from ${c.phiKey})`, positive: true, range: RANGES.phiStar, unitLabel: 'Mpc^-3' });
@@ -671,6 +684,26 @@ function buildPopulation(p: RawPopulation, path: string, i: number, count: numbe
   if (params.lStar) pop.lStar = params.lStar;
   if (params.mStar) pop.mStar = params.mStar;
   if (line !== undefined) pop.lineAngstrom = line;
+  if (p.model_uncertainty !== undefined) {
+    // Draws are values at the window's middle, in the form the file writes the parameter.
+    const zMid = 0.5 * (w.min + w.max);
+    const assumed = (name: ModelParameter): number => {
+      if (name === 'm_star') return params.mStar!.at(zMid);
+      if (name === 'log10_l_star') return Math.log10(params.lStar!.at(zMid));
+      const c = params.components[name.endsWith('_2') ? 1 : 0]!;
+      if (name.startsWith('alpha')) return c.alpha.at(zMid);
+      return Math.log10(c.phiStar.at(zMid)) + (c.phiKey.endsWith('_dex') ? Math.log10(Math.LN10) : 0);
+    };
+    pop.modelUncertainty = parseModelUncertainty(p.model_uncertainty, {
+      file,
+      path: `${path}.model_uncertainty`,
+      shape: pop.shape,
+      variable: pop.variable,
+      assumed,
+      baseDir: files.base,
+      inputs: files.inputs,
+    });
+  }
   return pop;
 }
 
@@ -715,7 +748,7 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   const hull = hullOf(windows);
   const slices = readSlices(raw, windows, file);
   const detection = readDetection(det, rawPops, detLine, filter, hull, file, base, inputs);
-  const populations = rawPops.map(({ raw: p, path }, i) => buildPopulation(p, path, i, rawPops.length, windows[i]!, slices.own[i]!, lines[i], file));
+  const populations = rawPops.map(({ raw: p, path }, i) => buildPopulation(p, path, i, rawPops.length, windows[i]!, slices.own[i]!, lines[i], file, { base, inputs }));
   const histogramWidth = readHistogramWidth(raw, rawPops, detection, hull, file);
 
   const survey: Survey = {

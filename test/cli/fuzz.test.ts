@@ -179,7 +179,7 @@ describe('mutated sample surveys through the loader and predict', () => {
           text = lines.join('\n');
         }
         writeFileSync(file, text);
-        const r = await runCli(['predict', file, '--format', c.format]);
+        const r = await runCli(['predict', file, '--format', c.format, '--draws', '20']);
         expect([0, 2], `exit ${r.code} for\n${text}\n${r.stderr}`).toContain(r.code);
         expect(r.stderr).not.toContain('internal failure');
         expect(r.stderr).not.toMatch(/\n\s+at /);

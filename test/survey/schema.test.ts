@@ -36,7 +36,12 @@ describe('specs/survey.schema.json', () => {
         // double Schechter components and the star-formation-rate conversion
         'alpha_1', 'alpha_2', 'phi_star_1', 'log10_phi_star_1', 'phi_star_1_dex', 'log10_phi_star_1_dex',
         'phi_star_2', 'log10_phi_star_2', 'phi_star_2_dex', 'log10_phi_star_2_dex', 'sfr_conversion',
+        // the luminosity function's own uncertainty
+        'model_uncertainty',
       ].sort(),
+    );
+    expect(keysOf(resolve(p.population!).properties!.model_uncertainty!)).toEqual(
+      ['alpha', 'alpha_1', 'alpha_2', 'correlation', 'draws_file', 'log10_l_star', 'log10_phi_star', 'log10_phi_star_1', 'log10_phi_star_2', 'm_star'],
     );
     expect(keysOf(p.populations!.items as Schema)).toEqual(keysOf(p.population!));
     expect(keysOf(p.slices!)).toEqual(['count', 'edges', 'width']);

@@ -1,5 +1,6 @@
 import type { CommandDef } from './types.js';
-import { addOutputOptions, loadSurveyArg, outputOptions, printWarnings } from './common.js';
+import { addOutputOptions, loadSurveyArg, outputOptions, parseInteger, printWarnings } from './common.js';
+import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED, MAX_MODEL_DRAWS } from '../../counts/model-draws.js';
 import { Outputs, renderText } from '../io.js';
 
 export const predictCommand: CommandDef = {
@@ -9,11 +10,14 @@ export const predictCommand: CommandDef = {
     cmd.argument('<survey>', 'survey file (YAML)');
     addOutputOptions(cmd);
     cmd.option('--figures <dir>', 'also write each figure as DIR/<name>.svg (and .png when the rasteriser loads)');
+    cmd.option('--draws <N>', `draws of the populations' model_uncertainty (1 to ${MAX_MODEL_DRAWS}; default ${DEFAULT_MODEL_DRAWS})`);
+    cmd.option('--seed <S>', 'seed of those draws (integer 0 to 4294967295; default 1)');
   },
   async action(cmd, args, io) {
     const file = args[0] as string;
     const raw = cmd.opts();
     const opts = outputOptions(raw);
+    const model = modelDrawOptions(raw);
     const outputs = new Outputs(io, { out: opts.out, figures: typeof raw.figures === 'string' ? raw.figures : undefined });
     outputs.refuseInputs([file]);
     // Only a command asked to draw loads the figure layer (and, through it, vega).
@@ -22,7 +26,7 @@ export const predictCommand: CommandDef = {
     outputs.refuseInputs(survey.inputs ?? []);
     const { predict } = await import('../../counts/predict.js');
     const { predictionTable, predictionCsv } = await import('../../render/predict-table.js');
-    const p = predict(survey);
+    const p = predict(survey, { model });
     printWarnings(io, p.warnings);
     outputs.setMain(renderText(opts, { json: () => p, table: () => predictionTable(p), csv: () => predictionCsv(p) }));
     if (draw) outputs.setFigures(await draw.figureFiles(io, await draw.drawFigures(survey, p)));
@@ -30,3 +34,10 @@ export const predictCommand: CommandDef = {
     return 0;
   },
 };
+
+/** --draws N (1 to MAX_MODEL_DRAWS; default 1000) and --seed S (0 to 4294967295; default 1) of the model's draws. */
+export function modelDrawOptions(raw: { draws?: unknown; seed?: unknown }): { draws: number; seed: number } {
+  const draws = raw.draws === undefined ? DEFAULT_MODEL_DRAWS : parseInteger(String(raw.draws), '--draws', 1, MAX_MODEL_DRAWS);
+  const seed = raw.seed === undefined ? DEFAULT_MODEL_SEED : parseInteger(String(raw.seed), '--seed', 0, 4294967295);
+  return { draws, seed };
+}

@@ -111,6 +111,7 @@ export interface PredictionTotals {
   mean_redshift?: number;
   luminosity_density?: LuminosityDensity;
   sfr_density_msun_yr_mpc3?: SfrDensity;
+  model?: ModelSpread;
 }
 /**
  * Fractional 1-sigma uncertainty of a count: Poisson noise and cosmic variance.
@@ -169,6 +170,40 @@ export interface LuminosityDensity {
    * why total and fraction are absent
    */
   note?: string;
+  model?: DensitySpread;
+}
+/**
+ * A density under the luminosity function's own uncertainty: percentiles over the model's draws.
+ */
+export interface DensitySpread {
+  draws: number;
+  detected: Percentiles;
+  total?: Percentiles;
+}
+/**
+ * Percentiles over the model's draws.
+ */
+export interface Percentiles {
+  /**
+   * 2.5th percentile over the draws
+   */
+  p2_5: number;
+  /**
+   * 16th percentile
+   */
+  p16: number;
+  /**
+   * median
+   */
+  p50: number;
+  /**
+   * 84th percentile
+   */
+  p84: number;
+  /**
+   * 97.5th percentile
+   */
+  p97_5: number;
 }
 /**
  * Star-formation-rate density, Msun/yr/Mpc^3 (sfr_conversion times the luminosity density).
@@ -176,6 +211,40 @@ export interface LuminosityDensity {
 export interface SfrDensity {
   detected: number;
   total?: number;
+  model?: DensitySpread;
+}
+/**
+ * The count under the luminosity function's own uncertainty (model_uncertainty): percentiles over the model's draws (linear between order statistics, Hyndman & Fan type 7), each draw a constant offset of the Schechter parameters at every redshift. Present when a population has model_uncertainty.
+ */
+export interface ModelSpread {
+  /**
+   * how many draws (--draws, or the rows of a draws file)
+   */
+  draws: number;
+  /**
+   * 2.5th percentile over the draws
+   */
+  p2_5: number;
+  /**
+   * 16th percentile
+   */
+  p16: number;
+  /**
+   * median
+   */
+  p50: number;
+  /**
+   * 84th percentile
+   */
+  p84: number;
+  /**
+   * 97.5th percentile
+   */
+  p97_5: number;
+  /**
+   * (p84 - p16) / (2 p50), 0 when p50 is 0: the model's fractional 1-sigma, beside poisson_fraction and cosmic_variance_fraction
+   */
+  fraction: number;
 }
 export interface PopulationPrediction {
   name: string;
@@ -208,6 +277,7 @@ export interface PredictionSlice {
   luminosity_density?: LuminosityDensity;
   sfr_density_msun_yr_mpc3?: SfrDensity;
   histogram: Histogram;
+  model?: ModelSpread;
 }
 export interface Histogram {
   variable: 'apparent_magnitude' | 'log10_line_flux' | 'log10_quantity' | 'absolute_magnitude';
@@ -219,6 +289,15 @@ export interface Histogram {
    * one fewer than edges; they sum to the slice's count (the brightest bin also holds the negligible tail beyond its edge)
    */
   counts: number[];
+  model?: HistogramSpread;
+}
+/**
+ * Each bin's count under the luminosity function's own uncertainty: the 16th and 84th percentiles over the first draws (at most 100), on the plain histogram's bins.
+ */
+export interface HistogramSpread {
+  draws: number;
+  p16: number[];
+  p84: number[];
 }
 /**
  * Per bin of the observed value (every population over its own window): each population's count and its share of the bin, the interloper fraction a spectroscopic follow-up faces. The bins' counts sum to totals.count.

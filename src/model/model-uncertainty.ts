@@ -1,0 +1,87 @@
+/**
+ * The assumed luminosity function's own 1-sigma uncertainty (a population's `model_uncertainty`,
+ * docs/survey-file.md): constant offsets to the Schechter parameters, applied at every redshift so
+ * that evolving parameters keep their evolution, drawn from a multivariate normal (sigmas and
+ * correlations) or read from a file of draws (one draw a row).
+ */
+
+/** The parameters a model uncertainty may name (double Schechter: _1 and _2, sharing L* or M*). */
+export type ModelParameter =
+  | 'log10_phi_star'
+  | 'log10_l_star'
+  | 'm_star'
+  | 'alpha'
+  | 'log10_phi_star_1'
+  | 'log10_phi_star_2'
+  | 'alpha_1'
+  | 'alpha_2';
+
+export interface GaussianModelUncertainty {
+  kind: 'gaussian';
+  /** The parameters in the order the file lists them (the order of every vector below). */
+  parameters: ModelParameter[];
+  /** 1-sigma of each parameter (dex for log10 phi* and log10 L*, mag for M*). */
+  sigmas: number[];
+  /** The correlation matrix (pairs left out 0), positive definite. */
+  correlation: number[][];
+  /** Lower Cholesky factor of the covariance sigma_i sigma_j rho_ij: an offset is L xi, xi standard normal. */
+  cholesky: number[][];
+}
+
+export interface DrawsModelUncertainty {
+  kind: 'draws';
+  /** The draws file as named in the survey file. */
+  file: string;
+  /** The file's columns. */
+  parameters: ModelParameter[];
+  /** One row per draw: the row's values minus the assumed values at the window's middle. */
+  offsets: number[][];
+}
+
+export type ModelUncertainty = GaussianModelUncertainty | DrawsModelUncertainty;
+
+/** The names a population's model uncertainty may use, in the order a forecast lists them. */
+export function modelParameterNames(shape: 'schechter' | 'double_schechter', variable: 'luminosity' | 'magnitude'): ModelParameter[] {
+  const star: ModelParameter = variable === 'luminosity' ? 'log10_l_star' : 'm_star';
+  return shape === 'double_schechter'
+    ? ['log10_phi_star_1', 'log10_phi_star_2', 'alpha_1', 'alpha_2', star]
+    : ['log10_phi_star', star, 'alpha'];
+}
+
+/** One draw as offsets: per component (log10 phi*, alpha), and the characteristic value (log10 L* or M*). */
+export interface ModelOffsets {
+  log10PhiStar: number[];
+  alpha: number[];
+  characteristic: number;
+}
+
+/** The offsets of a vector of parameter values in `parameters`' order, for a population of `components` components. */
+export function modelOffsets(parameters: readonly ModelParameter[], values: ArrayLike<number>, components: number): ModelOffsets {
+  const out: ModelOffsets = { log10PhiStar: new Array<number>(components).fill(0), alpha: new Array<number>(components).fill(0), characteristic: 0 };
+  parameters.forEach((p, i) => {
+    const v = values[i]!;
+    switch (p) {
+      case 'log10_phi_star':
+        out.log10PhiStar.fill(v);
+        break;
+      case 'alpha':
+        out.alpha.fill(v);
+        break;
+      case 'log10_phi_star_1':
+        out.log10PhiStar[0] = v;
+        break;
+      case 'log10_phi_star_2':
+        out.log10PhiStar[1] = v;
+        break;
+      case 'alpha_1':
+        out.alpha[0] = v;
+        break;
+      case 'alpha_2':
+        out.alpha[1] = v;
+        break;
+      default:
+        out.characteristic = v;
+    }
+  });
+  return out;
+}

@@ -1,0 +1,180 @@
+/**
+ * predict under a population's model_uncertainty against the independent Monte Carlo and the exact
+ * results of test/reference/generate/model_uncertainty.py (test/reference/model_uncertainty.json;
+ * numpy draws, scipy/mpmath counts). Tolerances: a Monte Carlo percentile is allowed 4 standard
+ * errors, sqrt(se_reference^2 + se_1000^2 x 1000 / N) as the fixture's header says (se from the
+ * order statistics); exact references (draws files, one parameter alone, correlation +-1) the
+ * engine's own accuracy (1e-8 relative) or, for our N draws, 4 x se_1000 x sqrt(1000 / N).
+ */
+import { describe, expect, test } from 'vitest';
+import fc from 'fast-check';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { parse } from 'yaml';
+import { parseSurveyObject, loadSurveyFile } from '../../src/survey/index.js';
+import { predict } from '../../src/counts/predict.js';
+import type { ModelSpread } from '../../src/model/outputs/prediction.js';
+import { drawModelOffsets, percentilesOf, populationDraws } from '../../src/counts/model-draws.js';
+import { countPopulation } from '../../src/counts/engine.js';
+import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
+
+const DIR = 'test/reference/surveys-model';
+const REF = JSON.parse(readFileSync('test/reference/model_uncertainty.json', 'utf8')) as Reference;
+const KEYS = ['p2_5', 'p16', 'p50', 'p84', 'p97_5'] as const;
+type Key = (typeof KEYS)[number];
+type Pct = Record<Key, number> & { fraction: number; standard_error?: Record<Key, number>; se_1000?: Record<Key, number> };
+interface Case {
+  file: string;
+  yaml: string;
+  plain: { slices: number[]; total: number };
+  model: { slices: Pct[]; total: Pct; draws: number | string };
+  one_parameter?: { parameter: string; sigma: number; slices: Pct[]; total: Pct & { mean: number; variance: number } }[];
+}
+interface Reference {
+  surveys: Case[];
+  correlation_limits: { file: string; rows: { parameters: string[]; sigmas: number[]; correlation: number; slices: Pct[]; total: Pct }[] }[];
+}
+
+const caseOf = (file: string) => REF.surveys.find((c) => c.file === file)!;
+
+/** The reference file's survey with its model_uncertainty block replaced. */
+function withUncertainty(file: string, block: Record<string, unknown>) {
+  const obj = parse(caseOf(file).yaml) as { population: Record<string, unknown> };
+  obj.population.model_uncertainty = block;
+  return parseSurveyObject(obj, join(DIR, file));
+}
+
+function expectWithin(got: ModelSpread, ref: Pct, draws: number, label: string) {
+  for (const k of KEYS) {
+    const se = Math.hypot(ref.standard_error?.[k] ?? 0, (ref.se_1000?.[k] ?? 0) * Math.sqrt(1000 / draws));
+    expect(Math.abs(got[k] - ref[k]), `${label} ${k}: ${got[k]} vs ${ref[k]} (se ${se})`).toBeLessThanOrEqual(4 * se);
+  }
+}
+
+describe('percentiles against the independent Monte Carlo (40,000 numpy draws)', () => {
+  test.each(['line-correlated.yaml', 'uv-magnitude.yaml', 'double-schechter-mass.yaml'])('%s, 1000 draws', (file) => {
+    const c = caseOf(file);
+    const p = predict(loadSurveyFile(join(DIR, file)));
+    if (p.breakdown !== 'redshift') throw new Error('one population');
+    // the plain prediction first (the reference's Gauss-Legendre counts, checked by it against quad to 1e-10)
+    p.slices.forEach((s, j) => expect(Math.abs(s.count / c.plain.slices[j]! - 1)).toBeLessThan(1e-8));
+    expect(p.totals.model!.draws).toBe(1000);
+    p.slices.forEach((s, j) => expectWithin(s.model!, c.model.slices[j]!, 1000, `${file} slice ${j}`));
+    expectWithin(p.totals.model!, c.model.total, 1000, `${file} total`);
+    const t = p.totals.model!;
+    expect(t.fraction).toBeCloseTo((t.p84 - t.p16) / (2 * t.p50), 14);
+  });
+});
+
+describe('exact cases', () => {
+  test('a draws file: every row once, type-7 percentiles as numpy (exact reference, 1e-8)', () => {
+    const c = caseOf('narrowband-draws-file.yaml');
+    const p = predict(loadSurveyFile(join(DIR, c.file)), { model: { draws: 5 } });
+    if (p.breakdown !== 'redshift') throw new Error('one population');
+    expect(p.totals.model!.draws).toBe(800); // the rows, whatever --draws says
+    [...p.slices.map((s) => s.model!), p.totals.model!].forEach((m, j) => {
+      const r = j < p.slices.length ? c.model.slices[j]! : c.model.total;
+      for (const k of KEYS) expect(Math.abs(m[k] / r[k] - 1), `${j} ${k}`).toBeLessThan(1e-8);
+    });
+  });
+
+  test('a draws file of one row at the assumed values reproduces the plain prediction (1e-12)', () => {
+    const p = predict(loadSurveyFile(join(DIR, 'narrowband-draws-assumed.yaml')));
+    if (p.breakdown !== 'redshift') throw new Error('one population');
+    for (const s of [...p.slices, p.totals]) {
+      expect(s.model!.draws).toBe(1);
+      for (const k of KEYS) expect(Math.abs(s.model![k] / s.count - 1)).toBeLessThan(1e-12);
+    }
+  });
+
+  test('zero sigmas: every percentile is the plain prediction exactly, fraction 0', () => {
+    const c = caseOf('line-zero-sigmas.yaml');
+    const p = predict(loadSurveyFile(join(DIR, c.file)), { model: { draws: 50 } });
+    if (p.breakdown !== 'redshift') throw new Error('one population');
+    for (const s of [...p.slices, p.totals]) {
+      for (const k of KEYS) expect(s.model![k]).toBe(s.count);
+      expect(s.model!.fraction).toBe(0);
+      for (const [i, v] of s === p.totals ? [] : (s as (typeof p.slices)[number]).histogram.model!.p16.entries()) {
+        expect(v).toBe((s as (typeof p.slices)[number]).histogram.counts[i]);
+      }
+    }
+    expect(p.totals.luminosity_density!.model!.detected.p50).toBe(p.totals.luminosity_density!.detected);
+  });
+
+  const DRAWS = 4000;
+  const oneParameter = caseOf('line-correlated.yaml').one_parameter!.concat(caseOf('uv-magnitude.yaml').one_parameter!.map((r) => ({ ...r, file: 'uv-magnitude.yaml' })) as never[]);
+  test.each(oneParameter.map((r) => [(r as { file?: string }).file ?? 'line-correlated.yaml', r] as const))(
+    'one parameter alone (%s): exact percentiles and the Gauss-Hermite mean',
+    (file, r) => {
+      const survey = withUncertainty(file, { [r.parameter]: r.sigma });
+      const p = predict(survey, { model: { draws: DRAWS, seed: 7 } });
+      const t = p.totals.model!;
+      // the mean of the same draws against 40-node Gauss-Hermite quadrature: 4 standard errors sqrt(variance / N)
+      const pop = survey.populations[0]!;
+      const own = countPopulation(survey, pop, new FlatCosmology(survey.cosmology), pop.sliceEdges, { nodes: true });
+      const d = populationDraws(survey, pop, new FlatCosmology(survey.cosmology), own, drawModelOffsets(pop.modelUncertainty!, 1, DRAWS, 7, 0), { luminosity: false, histogramDraws: 0 });
+      let mean = 0;
+      for (let i = 0; i < DRAWS; i++) for (const c of d.counts) mean += c[i]! / DRAWS;
+      expect(Math.abs(mean - r.total.mean)).toBeLessThanOrEqual(4 * Math.sqrt(r.total.variance / DRAWS));
+      for (const k of KEYS) {
+        const se = r.total.se_1000![k] * Math.sqrt(1000 / DRAWS);
+        expect(Math.abs(t[k] - r.total[k]), `${r.parameter} ${k}`).toBeLessThanOrEqual(4 * se);
+      }
+    },
+  );
+
+  test.each(REF.correlation_limits.flatMap((c) => c.rows.map((r) => [c.file, r.correlation, r] as const)))('correlation limit %s %d', (file, rho, r) => {
+    // rho = +-(1 - 1e-9): positive definite, within far less than any Monte Carlo error of +-1
+    const block = { [r.parameters[0]!]: r.sigmas[0], [r.parameters[1]!]: r.sigmas[1], correlation: { [`${r.parameters[0]}-${r.parameters[1]}`]: rho * (1 - 1e-9) } };
+    const p = predict(withUncertainty(file, block), { model: { draws: DRAWS, seed: 3 } });
+    const t = p.totals.model!;
+    for (const k of KEYS) {
+      const se = r.total.se_1000![k] * Math.sqrt(1000 / DRAWS);
+      expect(Math.abs(t[k] - r.total[k]), `${k}`).toBeLessThanOrEqual(4 * se);
+    }
+  });
+});
+
+describe('determinism and properties', () => {
+  const file = join(DIR, 'line-correlated.yaml');
+  test('the same seed gives bit-identical output; another seed other draws', () => {
+    const a = JSON.stringify(predict(loadSurveyFile(file), { model: { draws: 200, seed: 11 } }));
+    const b = JSON.stringify(predict(loadSurveyFile(file), { model: { draws: 200, seed: 11 } }));
+    const c = JSON.stringify(predict(loadSurveyFile(file), { model: { draws: 200, seed: 12 } }));
+    expect(a).toBe(b);
+    expect(c).not.toBe(a);
+  });
+
+  test('type-7 percentiles as numpy.percentile (worked by hand)', () => {
+    // numpy.percentile([1, 2, 3, 4], [25, 50, 84]) = [1.75, 2.5, 3.52]
+    expect(percentilesOf([4, 1, 3, 2], [0.25, 0.5, 0.84])).toEqual([1.75, 2.5, expect.closeTo(3.52, 14)]);
+  });
+
+  test('percentiles ordered, finite, and linear in the area (fast-check)', () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: 0, max: 0.3, noNaN: true }),
+        fc.double({ min: 0, max: 0.2, noNaN: true }),
+        fc.double({ min: 0, max: 0.3, noNaN: true }),
+        fc.double({ min: -0.9, max: 0.9, noNaN: true }),
+        fc.double({ min: 0.01, max: 50, noNaN: true }),
+        (sp, sl, sa, rho, area) => {
+          const block = { log10_phi_star: sp, log10_l_star: sl, alpha: sa, correlation: { 'log10_phi_star-alpha': rho } };
+          const obj = parse(caseOf('line-correlated.yaml').yaml) as Record<string, Record<string, unknown>>;
+          obj.population!.model_uncertainty = block;
+          const one = predict(parseSurveyObject({ ...obj, area: 1 }, file), { model: { draws: 40, seed: 5 } });
+          const big = predict(parseSurveyObject({ ...obj, area }, file), { model: { draws: 40, seed: 5 } });
+          for (const [m, n] of [[one.totals.model!, big.totals.model!]]) {
+            const v = KEYS.map((k) => m[k]);
+            v.forEach((x, i) => {
+              expect(Number.isFinite(x)).toBe(true);
+              if (i > 0) expect(x).toBeGreaterThanOrEqual(v[i - 1]!);
+            });
+            for (const k of KEYS) expect(Math.abs(n[k] / (area * m[k]) - 1)).toBeLessThan(1e-9);
+          }
+        },
+      ),
+      { numRuns: 8, seed: 4 },
+    );
+  });
+});
