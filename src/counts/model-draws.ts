@@ -83,7 +83,11 @@ export interface PopulationDraws {
   histograms?: { draws: number; bins: Float64Array[] }[];
 }
 
+/** log10 of the u beyond which the Schechter factor e^-u (below e^-800) is left out. */
+const L10_U_NEGLIGIBLE = Math.log10(800);
+
 interface Setting {
+  width: number;
   observer: Observer;
   completeness?: CompletenessFn;
   breaks?: { points: number[]; scale: number; varying: [number, number] };
@@ -93,11 +97,12 @@ interface Setting {
 function settingOf(survey: Survey, population: Population, cosmo: FlatCosmology): Setting {
   const observer = makeObserver(survey.detection, population, cosmo);
   const spec = survey.detection.completeness;
-  if (!spec) return { observer };
+  const width = survey.histogramWidth;
+  if (!spec) return { observer, width };
   const completeness = completenessFunction(spec, survey.detection.kind, population.variable);
   const breaks = completenessBreaks(spec, survey.detection.kind);
   const rules = completenessQuadrature(spec, `${survey.detection.kind} ${population.variable}`, observer.slope, completeness, breaks);
-  return { observer, completeness, breaks, rules };
+  return { observer, width, completeness, breaks, rules };
 }
 
 function isZero(o: ModelOffsets): boolean {
@@ -155,7 +160,20 @@ function nodeIntegral(nd: NodeState, s: Setting, power: 0 | 1): number {
       const c = s.completeness(nd.a + slope * probe);
       if (c > 0) j += c * closed(p, q);
     } else {
-      j += s.rules!.integrate(p === l10uLim ? nd.obsLimit : obsLo, obsHi, power);
+      // beyond u = 800 the Schechter factor is below e^-800: nothing to integrate there
+      const qq = Math.min(q, L10_U_NEGLIGIBLE);
+      if (!(qq > p)) continue;
+      const oA = p === l10uLim ? nd.obsLimit : obsLo;
+      const oB = qq < q ? nd.a + slope * qq : obsHi;
+      // in pieces on the grid of the histogram's width, as the engine integrates (rules sized per piece)
+      const e1 = Math.min(oA, oB);
+      const e2 = Math.max(oA, oB);
+      let from = e1;
+      for (let k = Math.floor(e1 / s.width) + 1; k * s.width < e2; k++) {
+        j += s.rules!.integrate(from, k * s.width, power);
+        from = k * s.width;
+      }
+      j += s.rules!.integrate(from, e2, power);
     }
   }
   return j;

@@ -381,7 +381,8 @@ export function totalUncertainty(ctx: UncertaintyContext, parts: readonly TotalP
       // matched (its density can lie far below any halo's and would only raise a warning): it takes
       // the bias of the nearest group that is, which its weight makes irrelevant.
       const partCount = sums.reduce((a, g) => a + g.n, 0);
-      const matched = sums.map((g) => (g.n > NEGLIGIBLE_SHARE * partCount ? matchedBias(ctx, pop, g.zn / g.n, g.dens / g.n) : undefined));
+      // (a density that underflows to 0 counts as negligible too)
+      const matched = sums.map((g) => (g.n > NEGLIGIBLE_SHARE * partCount && g.dens > 0 ? matchedBias(ctx, pop, g.zn / g.n, g.dens / g.n) : undefined));
       const biases = matched.map((b, i) => {
         if (b !== undefined) return b;
         for (let d = 1; d < nGroups; d++) {
