@@ -118,6 +118,7 @@ function shifted(nd: NodeState, o: ModelOffsets, slope: number, lumFactor: numbe
     log10ULimit: nd.log10ULimit - o.characteristic / slope,
     obsLimit: nd.obsLimit,
     components: nd.components.map((c, k) => ({ phiStar: o.log10PhiStar[k] ? c.phiStar * 10 ** o.log10PhiStar[k]! : c.phiStar, alpha: c.alpha + o.alpha[k]! })),
+    allComponents: nd.allComponents.map((c, k) => ({ phiStar: o.log10PhiStar[k] ? c.phiStar * 10 ** o.log10PhiStar[k]! : c.phiStar, alpha: c.alpha + o.alpha[k]! })),
     lumScale: nd.lumScale * lumFactor,
   };
 }
@@ -186,14 +187,16 @@ interface SliceNodes {
   l10u: Float64Array;
   a: Float64Array;
   lumScale: Float64Array;
-  /** Per component: phi* and alpha at each node. */
+  /** Per component: phi* (times the selection weight: what is detected; and as the luminosity function gives it) and alpha at each node. */
   phi: Float64Array[];
+  allPhi: Float64Array[];
   alpha: Float64Array[];
   scratch: NodeState[];
 }
 
 function flatten(nodes: readonly NodeState[]): SliceNodes {
-  const kept = nodes.filter((nd) => Number.isFinite(nd.log10ULimit));
+  // every node (one that detects nothing still holds sources for the total luminosity)
+  const kept = nodes;
   const m = kept.length;
   const comps = kept[0]?.components.length ?? 0;
   return {
@@ -203,8 +206,9 @@ function flatten(nodes: readonly NodeState[]): SliceNodes {
     a: Float64Array.from(kept, (nd) => nd.a),
     lumScale: Float64Array.from(kept, (nd) => nd.lumScale),
     phi: Array.from({ length: comps }, (_, c) => Float64Array.from(kept, (nd) => nd.components[c]!.phiStar)),
+    allPhi: Array.from({ length: comps }, (_, c) => Float64Array.from(kept, (nd) => nd.allComponents[c]!.phiStar)),
     alpha: Array.from({ length: comps }, (_, c) => Float64Array.from(kept, (nd) => nd.components[c]!.alpha)),
-    scratch: kept.map((nd) => ({ ...nd, components: nd.components.map((c) => ({ ...c })) })),
+    scratch: kept.map((nd) => ({ ...nd, components: nd.components.map((c) => ({ ...c })), allComponents: nd.allComponents.map((c) => ({ ...c })) })),
   };
 }
 
@@ -239,12 +243,12 @@ function sliceUnderDraw(
         const sOrder = alphaK[i]! + dAlpha + 1;
         const lu = f.l10u[i]! + shift;
         const u = 10 ** lu;
-        const g = upperGamma(sOrder, u);
+        const g = Number.isFinite(lu) ? upperGamma(sOrder, u) : 0;
         const w = f.vw[i]! * phiK[i]! * phiScale;
         count += w * g;
         if (!withLum) continue;
         const lw = w * f.lumScale[i]! * lumFactor;
-        detected += lw * (sOrder * g + Math.exp(sOrder * lu * Math.LN10 - u));
+        if (g > 0) detected += lw * (sOrder * g + Math.exp(sOrder * lu * Math.LN10 - u));
         if (total !== undefined) {
           if (!(sOrder > -1)) total = undefined;
           else {
@@ -252,7 +256,7 @@ function sliceUnderDraw(
               lastAlpha = sOrder + 1;
               lastGamma = gammaFn(lastAlpha);
             }
-            total += lw * lastGamma;
+            total += f.allPhi[k]![i]! * phiScale * f.vw[i]! * f.lumScale[i]! * lumFactor * lastGamma;
           }
         }
       }
@@ -268,15 +272,21 @@ function sliceUnderDraw(
         const c = nd.components[k]!;
         c.phiStar = o.log10PhiStar[k] ? f.phi[k]![i]! * 10 ** o.log10PhiStar[k]! : f.phi[k]![i]!;
         c.alpha = f.alpha[k]![i]! + o.alpha[k]!;
+        const all = nd.allComponents[k]!;
+        all.phiStar = o.log10PhiStar[k] ? f.allPhi[k]![i]! * 10 ** o.log10PhiStar[k]! : f.allPhi[k]![i]!;
+        all.alpha = c.alpha;
       }
     }
-    s.rules!.setSlice(nodes);
+    s.rules!.setSlice(nodes.filter((nd) => Number.isFinite(nd.log10ULimit)));
     for (const nd of nodes) {
-      s.rules!.setNode(nd);
-      count += nd.volumeWeight * nodeIntegral(nd, s, 0);
+      const sees = Number.isFinite(nd.log10ULimit);
+      if (sees) {
+        s.rules!.setNode(nd);
+        count += nd.volumeWeight * nodeIntegral(nd, s, 0);
+      }
       if (!withLum) continue;
-      detected += nd.volumeWeight * nd.lumScale * nodeIntegral(nd, s, 1);
-      const jt = componentsTotalLuminosity(nd.components);
+      if (sees) detected += nd.volumeWeight * nd.lumScale * nodeIntegral(nd, s, 1);
+      const jt = componentsTotalLuminosity(nd.allComponents);
       total = jt === undefined || total === undefined ? undefined : total + nd.volumeWeight * nd.lumScale * jt;
     }
   }

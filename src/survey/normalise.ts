@@ -18,6 +18,7 @@ import { checkParam, fmt, makeZParam, mapParam, samplePoints, type ZTable } from
 import { readTransmissionFile } from './transmission-file.js';
 import { parseModelUncertainty } from './model-uncertainty.js';
 import type { ModelParameter } from '../model/model-uncertainty.js';
+import { readDetectionSelection, readPopulationSelection, type RawDetectionSelection, type RawPopulationSelection } from './selection-keys.js';
 import { filterRedshiftWindow, tableFwhm, tableMeanWavelength } from '../selection/filter.js';
 import { dirname } from 'node:path';
 import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH, RANGES, describeRange, inRange, type Range } from '../model/limits.js';
@@ -25,7 +26,7 @@ import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH, RANGES, describeRange, inRange, ty
 type Q = number | string;
 type ZRaw = number | string | ZTable;
 
-interface RawPopulation {
+interface RawPopulation extends RawPopulationSelection {
   name?: string;
   shape?: 'schechter' | 'double_schechter';
   variable: PopulationVariable;
@@ -64,7 +65,7 @@ interface RawSurvey {
   area: Q;
   redshift?: { min: number; max: number };
   field?: { aspect?: number; count?: number };
-  detection: {
+  detection: RawDetectionSelection & {
     kind: DetectionKind;
     limit: number | string | ZTable;
     line?: Q;
@@ -91,9 +92,9 @@ export const SLICE_REMAINDER = MIN_SLICE_WIDTH;
 export const DEFAULT_POPULATION_NAME = 'population';
 
 const DETECTION_KEYS: Record<DetectionKind, string[]> = {
-  line_flux: ['kind', 'limit', 'line', 'filter', 'completeness'],
-  magnitude: ['kind', 'limit', 'band', 'band_file', 'beta', 'igm', 'completeness'],
-  threshold: ['kind', 'limit', 'completeness'],
+  line_flux: ['kind', 'limit', 'line', 'filter', 'completeness', 'redshift_selection', 'equivalent_width_cut'],
+  magnitude: ['kind', 'limit', 'band', 'band_file', 'beta', 'igm', 'completeness', 'redshift_selection'],
+  threshold: ['kind', 'limit', 'completeness', 'redshift_selection'],
 };
 
 type Window = { min: number; max: number };
@@ -628,6 +629,7 @@ function readDetection(det: RawSurvey['detection'], rawPops: RawPopulations, det
     const bandAngstrom = det.band !== undefined ? wavelength(det.band, file, 'detection.band') : tableMeanWavelength(bandTable!);
     const beta = checkRange(det.beta ?? -2, RANGES.beta, file, 'detection.beta');
     detection = { kind, limitMag, bandAngstrom, beta, igm: det.igm ?? 'none' };
+    if (det.igm !== undefined) detection.igmStated = true;
     if (bandTable) detection.bandTable = bandTable;
   } else {
     const limit = makeZParam(det.limit, file, 'detection.limit');
@@ -635,6 +637,7 @@ function readDetection(det: RawSurvey['detection'], rawPops: RawPopulations, det
     detection = { kind, limit };
   }
   if (completeness) detection.completeness = completeness;
+  Object.assign(detection, readDetectionSelection(det, hull, file));
   return detection;
 }
 
@@ -684,6 +687,8 @@ function buildPopulation(
   if (params.lStar) pop.lStar = params.lStar;
   if (params.mStar) pop.mStar = params.mStar;
   if (line !== undefined) pop.lineAngstrom = line;
+  if (p.rest_wavelength === undefined) pop.restWavelengthDefault = true;
+  pop.normalisationKey = params.components[0]!.phiKey;
   if (p.model_uncertainty !== undefined) {
     // Draws are values at the window's middle, in the form the file writes the parameter.
     const zMid = 0.5 * (w.min + w.max);
@@ -749,6 +754,9 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   const slices = readSlices(raw, windows, file);
   const detection = readDetection(det, rawPops, detLine, filter, hull, file, base, inputs);
   const populations = rawPops.map(({ raw: p, path }, i) => buildPopulation(p, path, i, rawPops.length, windows[i]!, slices.own[i]!, lines[i], file, { base, inputs }));
+  populations.forEach((pop, i) =>
+    Object.assign(pop, readPopulationSelection(rawPops[i]!.raw, rawPops[i]!.path, detection.kind, detection.equivalentWidthCut !== undefined, windows[i]!, file)),
+  );
   const histogramWidth = readHistogramWidth(raw, rawPops, detection, hull, file);
 
   const survey: Survey = {
