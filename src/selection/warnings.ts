@@ -42,7 +42,10 @@ export function selectionWarnings(survey: Survey): Warning[] {
           warning(
             'rest_wavelength_default_far_from_band',
             `${p.name}: rest_wavelength is left at its default ${fmt(rest)} A, but the band (${fmt(d.bandAngstrom)} A) sees ${fmt(worst.l)} A at rest at z = ${fmt(worst.z)}, ` +
-              `more than ${Math.round(REST_WAVELENGTH_TOLERANCE * 100)} % away, so the colour term extrapolates far (counts can be many times off); ` +
+              `more than ${Math.round(REST_WAVELENGTH_TOLERANCE * 100)} % away, ` +
+              (d.beta === -2
+                ? 'so M* is taken where the band does not look (with beta = -2 the colour term vanishes; with any other spectrum counts can be many times off); '
+                : 'so the colour term extrapolates far (counts can be many times off); ') +
               `give rest_wavelength where the luminosity function's magnitudes are defined`,
           ),
         );
