@@ -1,5 +1,7 @@
 /** The assumed population: Schechter parameters that may vary with z, bias, window and slices. */
 import type { ZParam } from './zparam.js';
+import type { Filter } from './detection.js';
+import type { MagnitudeSystemGiven } from './photometry.js';
 
 export type PopulationVariable = 'luminosity' | 'magnitude';
 
@@ -39,8 +41,12 @@ export interface SchechterPopulation {
   alpha: ZParam;
   /** Rest wavelength of the emission line (line_flux kind), Angstrom. */
   lineAngstrom?: number;
-  /** Rest wavelength at which absolute magnitudes are defined (magnitude kind), Angstrom. */
+  /** Rest wavelength at which absolute magnitudes are defined (magnitude kind), Angstrom; with restBand its center. */
   restWavelengthAngstrom: number;
+  /** rest_band: absolute magnitudes are AB in this rest-frame band (needs detection.sed). */
+  restBand?: Filter;
+  /** system vega: how m_star was given (mStar itself holds AB, converted once). */
+  magnitudeSystem?: MagnitudeSystemGiven;
   /** "auto" or a value (number, table, expression) of the galaxy bias. */
   bias: 'auto' | ZParam;
   /** Fraction (0, 1] of haloes above the matched mass hosting a detected galaxy. */
