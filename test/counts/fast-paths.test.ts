@@ -32,8 +32,15 @@ const REL = 1e-9;
  */
 const REL_HALO_MASS = 3e-9;
 
-/** Fields of the model statement added since the fixture: the k-correction used and the magnitude system (docs/outputs.md). */
-const STATEMENT_FIELDS_ADDED = new Set(['k_correction', 'magnitude_system']);
+/** Fields added to the outputs after the fixture was recorded (not numbers of the earlier code): the model's selection statement, k-correction and magnitude system. */
+const ADDED_SINCE = new Set(['selection', 'k_correction', 'magnitude_system']);
+/** Warning codes added after the fixture was recorded (src/selection/warnings.ts): left out of the comparison. */
+const CODES_ADDED_SINCE = new Set(['rest_wavelength_default_far_from_band', 'window_beyond_valid_redshift', 'igm_not_stated', 'phi_star_per_dex']);
+/**
+ * Samples that now give the standard normalisation (log10_phi_star) where they gave the per-dex form
+ * (the same phi* to 1e-15, so every number is compared as before); only the text of phi* as given differs.
+ */
+const REWRITTEN_NORMALISATION = ['samples/mass-limited.yaml', 'samples/double-schechter-mass.yaml'];
 
 /** Every place where `got` differs from `want` (numbers beyond REL relative, anything else at all). */
 function differences(got: unknown, want: unknown, path: string, out: string[]): void {
@@ -50,9 +57,8 @@ function differences(got: unknown, want: unknown, path: string, out: string[]): 
     return;
   }
   if (want && typeof want === 'object' && got && typeof got === 'object') {
-    // Statement fields the model block gained after the fixture was recorded (no numbers of the count).
     const gk = Object.keys(got)
-      .filter((k) => k in want || !STATEMENT_FIELDS_ADDED.has(k))
+      .filter((k) => !(ADDED_SINCE.has(k) && !(k in want)))
       .sort();
     const wk = Object.keys(want).sort();
     if (gk.join() !== wk.join()) out.push(`${path}: keys ${gk.join()} against ${wk.join()}`);
@@ -68,10 +74,12 @@ describe(`fast paths equal the earlier code (fixture from ${fixture.header.commi
     expect(Object.keys(fixture.predictions).sort()).toEqual(cases.map((c) => c.name).sort());
   });
   test.each(cases.map((c) => [c.name, c] as const))('predict %s: counts, histograms, densities, uncertainties', (name, c) => {
-    const got = JSON.parse(JSON.stringify(predict(loadSurveyText(c.text, c.file, dirname(c.file)))));
+    const got = JSON.parse(JSON.stringify(predict(loadSurveyText(c.text, c.file, dirname(c.file))))) as { warnings: { code: string }[] };
+    got.warnings = got.warnings.filter((w) => !CODES_ADDED_SINCE.has(w.code));
     const out: string[] = [];
     differences(got, fixture.predictions[name], name, out);
-    expect(out.slice(0, 20)).toEqual([]);
+    const rewritten = REWRITTEN_NORMALISATION.some((f) => c.file.endsWith(f));
+    expect(out.filter((d) => !(rewritten && /\.phi_star_mpc3\.given: /.test(d))).slice(0, 20)).toEqual([]);
   });
   test('box variance on a grid of boxes and redshifts, both transfer-function forms', () => {
     const got = haloAndBoxRecords();
