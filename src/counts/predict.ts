@@ -22,6 +22,8 @@ import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { countPopulation, type Histogram, type SliceCount } from './engine.js';
+import { countPhotoZ, sumMigrations, type PhotoZCount, type PhotoZMigration } from './photo-z.js';
+import { PHOTO_Z_REACH_SIGMA } from '../model/photo-z.js';
 import { cosmologyJsonOf } from '../model/cosmology-json.js';
 import type {
   LineFluxDetectionBlock,
@@ -29,6 +31,7 @@ import type {
   MagnitudeDetectionBlock,
   ObservedBin,
   ObservedBins,
+  PhotoZMigration as PhotoZMigrationJson,
   PopulationPrediction,
   Prediction,
   PredictionBase,
@@ -65,9 +68,11 @@ export function detectionJson(survey: Survey): PredictionBase['detection'] {
   } else if (d.kind === 'magnitude') {
     const b: MagnitudeDetectionBlock = { kind: 'magnitude', limit_ab_mag: d.limitMag, band_angstrom: d.bandAngstrom, beta: d.beta, igm: d.igm };
     if (d.bandTable) b.band_file = d.bandTable.file;
+    if (d.photoZ) b.photo_z = { sigma: d.photoZ.sigma, outlier_fraction: d.photoZ.outlierFraction };
     out = b;
   } else {
     out = { kind: 'threshold', limit: d.limit.source };
+    if (d.photoZ) out.photo_z = { sigma: d.photoZ.sigma, outlier_fraction: d.photoZ.outlierFraction };
   }
   if (d.completeness) out.completeness = d.completeness;
   return out;
@@ -114,9 +119,9 @@ function addLum(a: Lum | undefined, b: Lum | undefined): Lum | undefined {
   return out;
 }
 
-function toSlices(counts: SliceCount[], areaDeg2: number, unit: string, sfrFactor?: number): PredictionSlice[] {
+function toSlices(counts: SliceCount[], areaDeg2: number, unit: string, sfrFactor?: number, trueCounts?: number[]): PredictionSlice[] {
   let cumulative = 0;
-  return counts.map((s) => {
+  return counts.map((s, i) => {
     cumulative += s.count;
     const slice: PredictionSlice = {
       z_min: s.zMin,
@@ -128,6 +133,7 @@ function toSlices(counts: SliceCount[], areaDeg2: number, unit: string, sfrFacto
       limit_at_center: s.limitAtCenter,
       histogram: s.histogram,
     };
+    if (trueCounts) slice.count_true_redshift = trueCounts[i]!;
     const ld = densityOf(s.luminosity, s.volumeMpc3, unit);
     if (ld) slice.luminosity_density = ld;
     const sfr = sfrOf(ld, sfrFactor);
@@ -314,21 +320,46 @@ interface PopulationRun {
   name: string;
   own: SliceCount[];
   pred: PopulationPrediction;
+  /** With photometric redshifts: the counts by true redshift and the migration. */
+  photoZ?: PhotoZCount;
+}
+
+/** The photo_z block of the outputs (specs/prediction.schema.json, photo_z_migration). */
+function migrationJson(m: PhotoZMigration): PhotoZMigrationJson {
+  const last = m.measuredCounts.length - 1;
+  return {
+    sigma: m.sigma,
+    outlier_fraction: m.outlierFraction,
+    reach_sigma: PHOTO_Z_REACH_SIGMA,
+    true_range: { min: m.trueRange.min, max: m.trueRange.max },
+    true_bins: m.trueBins.map((b) => ({ z_min: b.min, z_max: b.max })),
+    measured_bins: m.measuredBins.map((b) => ({ z_min: b.min, z_max: b.max })),
+    migration_matrix: m.matrix.map((row) => [...row]),
+    true_counts: [...m.trueCounts],
+    measured_counts: [...m.measuredCounts],
+    lost_count: m.measuredCounts[0]! + m.measuredCounts[last]!,
+  };
 }
 
 /** Every population over its own window and slice edges (with the engine's redshift profiles when uncertainties follow). */
 function countPopulations(survey: Survey, cosmo: FlatCosmology, units: string[], profiles: boolean): PopulationRun[] {
+  const d = survey.detection;
+  const withPhotoZ = d.kind !== 'line_flux' && d.photoZ !== undefined;
   return survey.populations.map((p, i) => {
-    const own = countPopulation(survey, p, cosmo, p.sliceEdges, profiles ? { profile: true } : {});
+    const photoZ = withPhotoZ ? countPhotoZ(survey, p, cosmo, p.sliceEdges, { profile: profiles }) : undefined;
+    const own = photoZ ? photoZ.slices : countPopulation(survey, p, cosmo, p.sliceEdges, profiles ? { profile: true } : {});
     const sfr = p.sfrConversion?.factor;
     const pred: PopulationPrediction = {
       name: p.name,
       model: describeModel(survey, p),
       window: { min: p.window.min, max: p.window.max },
       totals: totalsOf(own, survey.areaDeg2, units[i], sfr),
-      slices: toSlices(own, survey.areaDeg2, units[i]!, sfr),
+      slices: toSlices(own, survey.areaDeg2, units[i]!, sfr, photoZ?.trueCounts),
     };
-    return { name: p.name, own, pred };
+    if (photoZ) pred.photo_z = migrationJson(photoZ.migration);
+    const run: PopulationRun = { name: p.name, own, pred };
+    if (photoZ) run.photoZ = photoZ;
+    return run;
   });
 }
 
@@ -362,6 +393,7 @@ function summedSlices(survey: Survey, runs: PopulationRun[], units: string[]): {
       histogram,
       population_counts: Object.fromEntries(runs.map((r, k) => [r.name, parts[k]!.count])),
     };
+    if (runs.every((r) => r.photoZ)) slice.count_true_redshift = runs.reduce((a, r) => a + r.photoZ!.trueCounts[i]!, 0);
     const ld = sameUnit ? densityOf(sc.luminosity, first.volumeMpc3, units[0]!) : undefined;
     if (ld) slice.luminosity_density = ld;
     const sfr = sameUnit ? sfrSum(survey, parts.map((x) => x.luminosity), first.volumeMpc3, units) : undefined;
@@ -447,7 +479,9 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
     models: perPop.map((q) => q.model),
     limit_variable: limitVariable(survey, survey.populations[0]!),
   };
+  const migrations = runs.flatMap((r) => (r.photoZ && coincide ? [r.photoZ.migration] : []));
   const tail = {
+    ...(migrations.length > 0 ? { photo_z: migrationJson(sumMigrations(migrations)) } : {}),
     populations: perPop,
     observed_bins: observedBins(survey, runs),
     warnings: mergeWarnings(

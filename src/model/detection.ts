@@ -1,5 +1,6 @@
 /** How a survey detects its sources: the detection kinds, filters and bands, completeness. */
 import type { ZParam } from './zparam.js';
+import type { PhotoZ } from './photo-z.js';
 
 export type FilterProfile = 'tophat' | 'gaussian' | 'table';
 
@@ -54,11 +55,13 @@ export type Detection =
       igm: IgmModel; // default 'none'
       bandTable?: TransmissionTable; // detection.band_file: the band's transmission curve
       completeness?: Completeness;
+      photoZ?: PhotoZ; // detection.photo_z: slices are in measured (photometric) redshift
     }
   | {
       kind: 'threshold';
       limit: ZParam; // log10 quantity (luminosity variable) or absolute magnitude (magnitude variable)
       completeness?: Completeness;
+      photoZ?: PhotoZ; // detection.photo_z: slices are in measured (photometric) redshift
     };
 
 export type DetectionKind = Detection['kind'];

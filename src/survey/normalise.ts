@@ -16,6 +16,7 @@ import { isPlainNumberString, parseQuantity } from './units.js';
 import { FULL_SKY_DEG2, MIN_AREA_DEG2, SR_PER_DEG2 } from '../model/sky.js';
 import { checkParam, fmt, makeZParam, mapParam, samplePoints, type ZTable } from './zparam.js';
 import { readTransmissionFile } from './transmission-file.js';
+import { photoZTrueRange, readPhotoZ, type RawPhotoZ } from './photo-z.js';
 import { filterRedshiftWindow, tableFwhm, tableMeanWavelength } from '../selection/filter.js';
 import { dirname } from 'node:path';
 import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH, RANGES, describeRange, inRange, type Range } from '../model/limits.js';
@@ -71,6 +72,7 @@ interface RawSurvey {
     band_file?: string;
     filter?: { center?: Q; fwhm?: Q; profile?: FilterProfile; file?: string };
     completeness?: { model?: 'logistic' | 'table'; half?: Q; width?: number; table?: [number, number][] };
+    photo_z?: RawPhotoZ;
   };
   population?: RawPopulation;
   populations?: RawPopulation[];
@@ -89,8 +91,8 @@ export const DEFAULT_POPULATION_NAME = 'population';
 
 const DETECTION_KEYS: Record<DetectionKind, string[]> = {
   line_flux: ['kind', 'limit', 'line', 'filter', 'completeness'],
-  magnitude: ['kind', 'limit', 'band', 'band_file', 'beta', 'igm', 'completeness'],
-  threshold: ['kind', 'limit', 'completeness'],
+  magnitude: ['kind', 'limit', 'band', 'band_file', 'beta', 'igm', 'completeness', 'photo_z'],
+  threshold: ['kind', 'limit', 'completeness', 'photo_z'],
 };
 
 type Window = { min: number; max: number };
@@ -715,7 +717,14 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   const hull = hullOf(windows);
   const slices = readSlices(raw, windows, file);
   const detection = readDetection(det, rawPops, detLine, filter, hull, file, base, inputs);
-  const populations = rawPops.map(({ raw: p, path }, i) => buildPopulation(p, path, i, rawPops.length, windows[i]!, slices.own[i]!, lines[i], file));
+  // Photometric redshifts: the parameters must make sense over the whole true range integrated.
+  const photoZ = det.photo_z && detection.kind !== 'line_flux' ? readPhotoZ(det.photo_z, hull, slices.edges, file) : undefined;
+  if (photoZ && detection.kind !== 'line_flux') detection.photoZ = photoZ;
+  const populations = rawPops.map(({ raw: p, path }, i) => {
+    const pop = buildPopulation(p, path, i, rawPops.length, photoZ ? photoZTrueRange(windows[i]!, photoZ) : windows[i]!, slices.own[i]!, lines[i], file);
+    if (photoZ) pop.window = { min: windows[i]!.min, max: windows[i]!.max };
+    return pop;
+  });
   const histogramWidth = readHistogramWidth(raw, rawPops, detection, hull, file);
 
   const survey: Survey = {
