@@ -13,8 +13,9 @@
  * src/model/photo-z.ts (6 sigma beyond the window: a source further away reaches it with
  * probability below 1e-9); every source in that range is an outlier with probability f.
  *
- * The integral runs on the count engine's nodes over pieces of the true range no wider than half
- * of s (and split at every slice edge), where P is smooth: the engine's weight option
+ * The integral runs on the count engine's nodes over pieces of the true range split at every
+ * slice edge and, within 8 s of one, no wider than s / 2, so that P is smooth over each piece
+ * (further away it is constant to 1e-15): the engine's weight option
  * multiplies each node by P of the slice. Counting the same pieces without the weight gives the
  * counts by true redshift, so each row of the migration matrix (true bin by measured bin; bins
  * [below the window, slices..., above the window]) sums to its true count to rounding, and the
@@ -29,8 +30,10 @@ import { makeObserver } from '../selection/observe.js';
 import { populationAt, type ParameterOffsets } from '../population/model.js';
 import { countPopulation, type Histogram, type RedshiftProfile, type SliceCount } from './engine.js';
 
-/** Widest piece of the true range, in units of sigma (1 + z) at its low end. */
+/** Widest piece of the true range near a measured edge, in units of sigma (1 + z) at its low end. */
 const PIECE_SIGMAS = 0.5;
+/** How far from a measured edge pieces are kept that narrow, in sigma (1 + z): 1 - Phi(8) = 6e-16. */
+const PIECE_ZONE = 8;
 
 /** The migration of one population (or of several summed): what the prediction's photo_z block holds. */
 export interface PhotoZMigration {
@@ -76,28 +79,33 @@ export function measuredProbability(pz: PhotoZ, window: { min: number; max: numb
   return (1 - pz.outlierFraction) * g + (pz.outlierFraction * overlap) / (window.max - window.min);
 }
 
-/** The pieces of [lo, hi]: split at the cuts, then no wider than PIECE_SIGMAS sigma (1 + z). */
-function pieces(lo: number, hi: number, cuts: readonly number[], sigma: number): number[] {
-  const inner = [...new Set(cuts.filter((c) => c > lo && c < hi))].sort((x, y) => x - y);
-  const marks = [lo, ...inner, hi];
-  const out = [lo];
-  for (let k = 0; k + 1 < marks.length; k++) {
-    const a = marks[k]!;
-    const b = marks[k + 1]!;
-    if (sigma > 0) {
-      let z = a;
-      for (;;) {
-        const step = PIECE_SIGMAS * sigma * (1 + z);
-        const left = b - z;
-        if (left <= step * 1.000001) break;
-        // equal steps over what is left when the next one would leave a sliver
-        z += left < 2 * step ? left / 2 : step;
-        out.push(z);
-      }
+/**
+ * The pieces of [lo, hi]: split at the cuts and, within PIECE_ZONE standard deviations of each
+ * measured edge (where P varies), no wider than PIECE_SIGMAS sigma (1 + z). Beyond that P is
+ * constant to 1e-15 and the engine's own nodes take the piece whole.
+ */
+function pieces(lo: number, hi: number, cuts: readonly number[], edges: readonly number[], sigma: number): number[] {
+  // the cuts are kept exactly (they bound the true bins); the zone points give way to them
+  const points: { z: number; cut: boolean }[] = [lo, hi, ...cuts.filter((c) => c > lo && c < hi)].map((z) => ({ z, cut: true }));
+  if (sigma > 0) {
+    const r = PIECE_ZONE * sigma;
+    for (const e of edges) {
+      const from = Math.max(lo, (e - r) / (1 + r));
+      const to = Math.min(hi, (e + r) / (1 - r));
+      for (let z = from; z < to; z += PIECE_SIGMAS * sigma * (1 + z)) points.push({ z, cut: false });
     }
-    out.push(b);
   }
-  return out;
+  points.sort((x, y) => x.z - y.z || Number(y.cut) - Number(x.cut));
+  const out: { z: number; cut: boolean }[] = [];
+  for (const p of points) {
+    const last = out[out.length - 1];
+    // no piece narrower than a tenth of a step (or 1e-12)
+    const minGap = Math.max(1e-12, 0.1 * PIECE_SIGMAS * sigma * (1 + p.z));
+    if (!last || p.z - last.z > minGap) out.push(p);
+    else if (p.cut && !last.cut) out[out.length - 1] = p;
+    else if (p.cut && p.z !== last.z) out.push(p); // two cuts closer than the gap: keep both
+  }
+  return out.map((p) => p.z);
 }
 
 function sumHistograms(hs: Histogram[], width: number, variable: Histogram['variable']): Histogram {
@@ -157,7 +165,7 @@ export function countPhotoZ(survey: Survey, population: Population, cosmo: FlatC
 
   // The population over the whole true range; the pieces in true redshift.
   const wide: Population = { ...population, window: { min: Math.min(range.min, window.min), max: Math.max(range.max, window.max) } };
-  const fine = pieces(wide.window.min, wide.window.max, [...edges, window.min, window.max], pz.sigma);
+  const fine = pieces(wide.window.min, wide.window.max, [...edges, window.min, window.max], edges, pz.sigma);
   const binOf = (zMid: number): number => {
     if (zMid < e0) return 0;
     if (zMid > eN) return nSlices + 1;

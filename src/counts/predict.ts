@@ -333,7 +333,7 @@ function migrationJson(m: PhotoZMigration): PhotoZMigrationJson {
     reach_sigma: PHOTO_Z_REACH_SIGMA,
     true_range: { min: m.trueRange.min, max: m.trueRange.max },
     true_bins: m.trueBins.map((b) => ({ z_min: b.min, z_max: b.max })),
-    measured_bins: m.measuredBins.map((b) => ({ z_min: b.min, z_max: b.max })),
+    measured_bins: m.measuredBins.map((b) => ({ ...(b.min !== null ? { z_min: b.min } : {}), ...(b.max !== null ? { z_max: b.max } : {}) })),
     migration_matrix: m.matrix.map((row) => [...row]),
     true_counts: [...m.trueCounts],
     measured_counts: [...m.measuredCounts],

@@ -236,7 +236,7 @@ export interface Histogram {
   counts: number[];
 }
 /**
- * Where the sources measured in each slice truly lie (detection.photo_z). Bins: [below the window, the slices..., above the window], in true redshift (true_bins, from the true range's ends) and in measured redshift (measured_bins; the first and last hold the sources measured outside the window, which are lost).
+ * Where the sources measured in each slice truly lie (detection.photo_z). Bins: [below the window, the slices..., above the window], in true redshift (true_bins, from the true range's ends) and in measured redshift (measured_bins, the first without z_min and the last without z_max; they hold the sources measured outside the window, which are lost).
  */
 export interface PhotoZMigration {
   sigma: number;
@@ -259,15 +259,18 @@ export interface PhotoZMigration {
    */
   lost_count: number;
 }
+/**
+ * A redshift bin; a missing end is unbounded (the measured bins below and above the window)
+ */
 export interface PhotoZBin {
   /**
-   * null: unbounded below
+   * absent: unbounded below
    */
-  z_min: number | null;
+  z_min?: number;
   /**
-   * null: unbounded above
+   * absent: unbounded above
    */
-  z_max: number | null;
+  z_max?: number;
 }
 /**
  * Per bin of the observed value (every population over its own window): each population's count and its share of the bin, the interloper fraction a spectroscopic follow-up faces. The bins' counts sum to totals.count.
