@@ -9,7 +9,20 @@ export type LimitKind = 'magnitude' | 'line_flux';
 /** How deep an exposure of t hours per pointing goes (src/planning/depth.ts). */
 export type DepthLaw =
   | { kind: 'background' | 'source'; referenceLimit: number; referenceHours: number }
-  | { kind: 'table'; hours: number[]; limits: number[] };
+  | { kind: 'table'; hours: number[]; limits: number[] }
+  | {
+      /** The noise budget (src/planning/depth.ts): variance source : sky : read = 1 : skyToSource : readToSource at the reference. */
+      kind: 'noise';
+      referenceLimit: number;
+      referenceHours: number;
+      skyToSource: number;
+      readToSource: number;
+      /** Longest single frame, hours: an exposure t is max(1, ceil(t / frameHours)) frames, each adding read noise. */
+      frameHours: number;
+    };
+
+/** Most frames the noise law's longest exposure may hold (checked when the plan is read). */
+export const MAX_NOISE_FRAMES = 100_000;
 
 export type PlanGoal = { kind: 'count' } | { kind: 'faint_count' } | { kind: 'sigma'; parameter: string };
 

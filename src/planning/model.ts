@@ -24,7 +24,7 @@ import { countPopulation } from '../counts/engine.js';
 import { uncertaintyContext, populationBias, matterSigma } from '../uncertainty/prediction.js';
 import { naturalCubicSpline, type Interpolant } from '../numerics/interpolate.js';
 import { inputError } from '../errors.js';
-import { depthOfLimit, type DepthModel, type LimitKind } from './depth.js';
+import { depthOfLimit, limitOfDepth, type DepthModel, type LimitKind } from './depth.js';
 import { interpolateSlice, knotCount, tabulateDepth, type DepthTables } from './tables.js';
 import { availableParallelism } from 'node:os';
 
@@ -110,13 +110,14 @@ export async function buildDesignModel(
 ): Promise<DesignModel> {
   const { depth, limitKind } = spec;
   const [h0, h1] = hoursRange;
-  const dRef = depth.depthAt(h1);
+  const range = depth.depthRange(h0, h1);
+  const dRef = range.deepest;
   const slope = limitKind === 'magnitude' ? 2.5 : 1;
   const deltaOf = (hours: number): number => Math.max(0, (LN10 * (dRef - depth.depthAt(hours))) / slope);
-  const maxDelta = deltaOf(h0);
+  const maxDelta = Math.max(0, (LN10 * (dRef - range.shallowest)) / slope);
 
   // Reference survey: the deepest limit, 1 deg^2 (everything below scales with the area).
-  const ref = surveyAtLimit(survey, depth.limitAt(h1), 1);
+  const ref = surveyAtLimit(survey, limitOfDepth(limitKind, dRef), 1);
   const cosmo = new FlatCosmology(survey.cosmology);
   const grid = buildDensityGrid(ref, population, cosmo, ref.sliceEdges);
   const work = knotCount(maxDelta) * grid.pointT.length;

@@ -11,7 +11,7 @@ import type { Plan, PlanDesign } from '../model/outputs/plan.js';
 import { inputError } from '../errors.js';
 import type { PlanSpec } from '../model/plan.js';
 import { parameterNames } from '../model/population.js';
-import { makeDepthModel } from './depth.js';
+import { frameCount, makeDepthModel } from './depth.js';
 import { precise } from '../render/format.js';
 import { assertCounts, buildDesignModel, sigmasOf, type DesignModel } from './model.js';
 import { combine, logGrid, maximises, nearBest, pointingsFor, searchSingleTier, searchTiers, NEAR_BEST_TOLERANCE, type Budget, type Evaluated } from './search.js';
@@ -204,7 +204,17 @@ export async function planDesigns(file: Survey, population: Population, spec: Pl
     depth_law:
       law.kind === 'table'
         ? { kind: 'table', table: law.hours.map((h, i) => [h, law.limits[i]!] as [number, number]) }
-        : { kind: law.kind, reference_limit: law.referenceLimit, reference_exposure_hours: law.referenceHours },
+        : law.kind === 'noise'
+          ? {
+              kind: 'noise',
+              reference_limit: law.referenceLimit,
+              reference_exposure_hours: law.referenceHours,
+              sky_to_source: law.skyToSource,
+              read_to_source: law.readToSource,
+              frame_hours: law.frameHours,
+              reference_frames: frameCount(law.referenceHours, law.frameHours),
+            }
+          : { kind: law.kind, reference_limit: law.referenceLimit, reference_exposure_hours: law.referenceHours },
     cosmic_variance: useCv,
     minimum_count: spec.minimumCount,
     exposure_grid: { min_hours: spec.grid.minHours, max_hours: spec.grid.maxHours, count: spec.grid.count },

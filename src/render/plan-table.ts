@@ -24,11 +24,19 @@ function designRow(p: Plan, d: PlanDesign, mark = ''): string[] {
   ];
 }
 
+function depthLawText(p: Plan): string {
+  const law = p.depth_law;
+  if (law.kind === 'table') return `table of ${law.table.length} rows (interpolated in log hours)`;
+  const from = `${limitText(p.limit_variable, law.reference_limit)} in ${sig(law.reference_exposure_hours)} h`;
+  if (law.kind !== 'noise') return `${law.kind}-limited from ${from}`;
+  return `noise budget from ${from} (variance source : sky : read = 1 : ${sig(law.sky_to_source, 3)} : ${sig(law.read_to_source, 3)}, ${law.reference_frames} frames of at most ${sig(law.frame_hours, 3)} h)`;
+}
+
 export function planTable(p: Plan): string {
   const lines: string[] = [
     p.title,
     `Goal: ${goalText(p)}; budget ${sig(p.budget_hours)} h, ${sig(p.overhead_hours)} h overhead per pointing, ${sig(p.field_of_view_deg2, 4)} deg^2 per pointing`,
-    `Depth law: ${p.depth_law.kind === 'table' ? `table of ${p.depth_law.table.length} rows (interpolated in log hours)` : `${p.depth_law.kind}-limited from ${limitText(p.limit_variable, p.depth_law.reference_limit)} in ${sig(p.depth_law.reference_exposure_hours)} h`}`,
+    `Depth law: ${depthLawText(p)}`,
     `Assumed model: ${p.model.summary}`,
   ];
   const head = ['', 'budget', 'hours per pointing', 'pointings', 'area deg^2', 'limit', 'count', 'fainter than knee', 'goal value', ''];

@@ -2,7 +2,7 @@
  * Safe expressions in redshift z (docs/survey-file.md, "Parameters that vary with redshift"): numbers, the symbol z, + - * / ^ (and unary
  * minus and plus), parentheses, and the functions log10, ln (natural log), exp, sqrt, abs, min, max.
  *
- * The text is parsed by mathjs into a node tree; the whole tree is checked against that list and
+ * The text is parsed into a mathjs node tree (the common forms by quick-expression.ts, the rest by mathjs); the whole tree is checked against that list and
  * compiled into a plain JavaScript closure before anything is evaluated. mathjs never evaluates
  * the expression: the closure does the arithmetic with `Math`.
  *
@@ -11,6 +11,7 @@
  */
 import { inputError } from '../errors.js';
 import { getParser } from './mathjs.js';
+import { quickParse } from './quick-expression.js';
 
 export type Closure = (z: number) => number;
 
@@ -130,7 +131,8 @@ export function compileExpression(text: string, file: string, keyPath: string): 
   if (silent) reject(silent);
   let root: MathNode;
   try {
-    root = getParser().parse(text) as unknown as MathNode;
+    // The common forms without building mathjs's parser; the rest (and every error) through mathjs.
+    root = quickParse(text) ?? (getParser().parse(text) as unknown as MathNode);
   } catch (e) {
     const msg = e instanceof RangeError ? 'nests too deeply' : (e as Error).message.replace(/\.$/, '').replace(/\s+/g, ' ');
     return reject(`cannot be read (${msg})`);

@@ -9,6 +9,7 @@
  *     reference: {limit: 26.5, exposure_hours: 1.0}
  *     overhead_hours: 0.2                per pointing (default 0)
  *     depth_law: background              background | source | {table: [[hours, limit], ...]}
+ *                                        | {noise: {sky_to_source, read_to_source, frame_hours}}
  *     budget_hours: 60
  *     fixed: {area: ...} or {limit: ...} optional
  *     goal: count                        count | faint_count | {sigma: PARAMETER}
@@ -23,7 +24,7 @@ import { parseQuantity } from './units.js';
 import { FULL_SKY_DEG2 } from '../model/sky.js';
 import { suggest } from './schema.js';
 import { CAPS, RANGES, describeRange, inRange } from '../model/limits.js';
-import { depthOfLimit, type DepthLaw, type LimitKind, type PlanGoal, type PlanSpec } from '../model/plan.js';
+import { MAX_NOISE_FRAMES, depthOfLimit, type DepthLaw, type LimitKind, type PlanGoal, type PlanSpec } from '../model/plan.js';
 import { parameterNames } from '../model/population.js';
 
 const KEYS = ['field_of_view', 'reference', 'overhead_hours', 'depth_law', 'budget_hours', 'fixed', 'goal', 'minimum_count', 'exposure_grid', 'tiers'];
@@ -34,6 +35,8 @@ export const MAX_GRID_COUNT = 20_000;
 export const MAX_TIER_GRID_COUNT = 2_000;
 /** Longest time any plan value may give, hours (over 11 years of continuous observing). */
 export const MAX_PLAN_HOURS = 100_000;
+/** Largest sky or read variance relative to the source's the noise law accepts. */
+export const MAX_VARIANCE_RATIO = 1e6;
 /** Most rows of a depth_law table. */
 export const MAX_DEPTH_ROWS = CAPS.tableRows;
 
@@ -90,6 +93,22 @@ function shown(v: unknown): string {
   return excerpt(JSON.stringify(v) ?? String(v));
 }
 
+/** plan.depth_law.noise: {sky_to_source, read_to_source (default 0), frame_hours (required with read noise)}. */
+function readNoise(v: unknown, file: string): { skyToSource: number; readToSource: number; frameHours: number } {
+  const at = 'plan.depth_law.noise';
+  if (!isObj(v)) throw inputError('wrong_type', file, at, `is ${shown(v)} but must be a mapping`, 'write it as {sky_to_source: 4, read_to_source: 0.3, frame_hours: 0.5}');
+  checkKeys(v, ['sky_to_source', 'read_to_source', 'frame_hours'], file, at);
+  if (v.sky_to_source === undefined) throw inputError('missing_key', file, `${at}.sky_to_source`, 'is missing', 'give the sky variance relative to the source\'s at the reference limit, e.g. 4');
+  const ratio = `a variance ratio from 0 to ${MAX_VARIANCE_RATIO}`;
+  const skyToSource = num(v.sky_to_source, file, `${at}.sky_to_source`, ratio, { min: 0, max: MAX_VARIANCE_RATIO });
+  const readToSource = v.read_to_source === undefined ? 0 : num(v.read_to_source, file, `${at}.read_to_source`, ratio, { min: 0, max: MAX_VARIANCE_RATIO });
+  if (v.frame_hours === undefined && readToSource > 0) {
+    throw inputError('missing_key', file, `${at}.frame_hours`, 'is missing, but read noise grows with the number of frames', 'give the longest single frame in hours, e.g. frame_hours: 0.5');
+  }
+  const frameHours = v.frame_hours === undefined ? MAX_PLAN_HOURS : hours(v.frame_hours, file, `${at}.frame_hours`, true);
+  return { skyToSource, readToSource, frameHours };
+}
+
 /** Read and check survey.raw.plan; `population` is the population of interest. */
 export function readPlanSection(survey: Survey, population: Population): PlanSpec {
   const file = survey.file;
@@ -116,17 +135,23 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
 
   // Depth law and reference.
   const lawRaw = raw.depth_law ?? 'background';
-  let law: DepthLaw;
-  if (lawRaw === 'background' || lawRaw === 'source') {
+  const readReference = (): { referenceLimit: number; referenceHours: number } => {
     if (!isObj(raw.reference)) {
       throw inputError(raw.reference === undefined ? 'missing_key' : 'wrong_type', file, 'plan.reference', raw.reference === undefined ? 'is missing' : 'must be a mapping', `give the depth reached at a reference exposure, e.g. reference: {limit: ${kind === 'magnitude' ? '26.5' : '5e-17'}, exposure_hours: 1}`);
     }
     checkKeys(raw.reference, ['limit', 'exposure_hours'], file, 'plan.reference');
     const referenceLimit = limitValue(raw.reference.limit, limitKind, file, 'plan.reference.limit');
     const referenceHours = hours(raw.reference.exposure_hours, file, 'plan.reference.exposure_hours', true);
-    law = { kind: lawRaw, referenceLimit, referenceHours };
+    return { referenceLimit, referenceHours };
+  };
+  let law: DepthLaw;
+  if (lawRaw === 'background' || lawRaw === 'source') {
+    law = { kind: lawRaw, ...readReference() };
+  } else if (isObj(lawRaw) && lawRaw.noise !== undefined) {
+    checkKeys(lawRaw, ['noise'], file, 'plan.depth_law');
+    law = { kind: 'noise', ...readReference(), ...readNoise(lawRaw.noise, file) };
   } else if (isObj(lawRaw)) {
-    checkKeys(lawRaw, ['table'], file, 'plan.depth_law');
+    checkKeys(lawRaw, ['table', 'noise'], file, 'plan.depth_law');
     const t = lawRaw.table;
     if (!Array.isArray(t) || t.length < 2) {
       throw inputError('bad_table', file, 'plan.depth_law.table', 'must be a list of at least two [hours, limit] rows', 'write it as [[hours, limit], ...]');
@@ -153,7 +178,7 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
     });
     law = { kind: 'table', hours: hs, limits: ls };
   } else {
-    throw inputError('out_of_range', file, 'plan.depth_law', `is ${shown(lawRaw)} but must be background, source or {table: [[hours, limit], ...]}`, 'use one of those forms');
+    throw inputError('out_of_range', file, 'plan.depth_law', `is ${shown(lawRaw)} but must be background, source, {noise: {...}} or {table: [[hours, limit], ...]}`, 'use one of those forms');
   }
 
   // Goal.
@@ -200,6 +225,10 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
     const hi = law.hours[law.hours.length - 1]!;
     if (minHours < lo * (1 - 1e-12)) throw inputError('out_of_range', file, 'plan.exposure_grid.min_hours', `is ${minHours} h, shorter than the depth_law table's first row (${lo} h)`, 'raise min_hours or extend the table');
     if (maxHours > hi * (1 + 1e-12)) throw inputError('out_of_range', file, 'plan.exposure_grid.max_hours', `is ${maxHours} h, longer than the depth_law table's last row (${hi} h)`, 'lower max_hours or extend the table');
+  }
+
+  if (law.kind === 'noise' && maxHours / law.frameHours > MAX_NOISE_FRAMES) {
+    throw inputError('out_of_range', file, 'plan.depth_law.noise.frame_hours', `is ${law.frameHours} h, so the longest exposure tried (${maxHours} h) would be more than ${MAX_NOISE_FRAMES} frames`, `give frame_hours of at least ${maxHours / MAX_NOISE_FRAMES} h, or lower exposure_grid.max_hours`);
   }
 
   // Fixed area or limit.

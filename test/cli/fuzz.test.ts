@@ -58,7 +58,7 @@ const HOSTILE_STRINGS = [
   '10^(400*z)',
   'log10(z - 5)',
   'sqrt(-1 - z)',
-  '-1.4 - 0.1*z',
+  '-1.35 - 0.1*z',
   '3 arcmin^2',
   '2 um',
   '-1 erg/s/cm^2',

@@ -80,14 +80,14 @@ describe('the figures draw the results as their commands return them (no adapter
 
   test('forecast: mock fits, when the result holds them, become the scattered points', () => {
     const fits = [
-      [-2.6, 42.25, -1.4],
+      [-2.6, 42.25, -1.38],
       [-2.62, 42.33, -1.5],
     ];
     const dots = (forecastSpec({ ...forecastResult, mocks: { ...forecastResult.mocks, fits } })! as Any).layer.find(
       (l: Any) => l.mark.type === 'point' && l.mark.shape === 'circle',
     );
     expect(dots.data.values).toEqual([
-      { x: -1.4, y: 42.25 },
+      { x: -1.38, y: 42.25 },
       { x: -1.5, y: 42.33 },
     ]);
   });

@@ -23,8 +23,8 @@ const survey = (alpha: number, zmin = 0, kind: 'line_flux' | 'magnitude' = 'line
       detection: kind === 'line_flux' ? { kind, limit: 1e-16, line: 6563 } : { kind, limit: 20, band: 6000 },
       population:
         kind === 'line_flux'
-          ? { variable: 'luminosity', phi_star: 1e-3, l_star: 1e42, alpha, bias: 1 }
-          : { variable: 'magnitude', phi_star: 1e-3, m_star: -21, alpha, bias: 1 },
+          ? { variable: 'luminosity', phi_star: 2.2e-3, l_star: 1e42, alpha, bias: 1 }
+          : { variable: 'magnitude', phi_star: 2.2e-3, m_star: -21, alpha, bias: 1 },
       slices: { count: 2 },
     },
     'div.yaml',
@@ -52,7 +52,7 @@ describe('divergent counts', () => {
     const f = join(dir, 'div.yaml');
     writeFileSync(
       f,
-      'format: 1\ntitle: d\ncosmology: {h0: 70, omega_m: 0.3}\narea: 1\nredshift: {min: 0, max: 0.5}\ndetection: {kind: line_flux, limit: 1e-16, line: 6563}\npopulation: {variable: luminosity, phi_star: 1e-3, l_star: 1e42, alpha: -2.7}\n',
+      'format: 1\ntitle: d\ncosmology: {h0: 70, omega_m: 0.3}\narea: 1\nredshift: {min: 0, max: 0.5}\ndetection: {kind: line_flux, limit: 1e-16, line: 6563}\npopulation: {variable: luminosity, phi_star: 2.2e-3, l_star: 1e42, alpha: -2.7}\n',
     );
     const out = join(dir, 'p.json');
     const r = await runCli(['predict', f, '--out', out]);

@@ -14,12 +14,12 @@ type Kind = 'line_flux' | 'magnitude' | 'threshold';
 function surveyObject(kind: Kind, area: number, limit: number, alpha: number, zmin: number, dz: number, slices: number) {
   const base = { format: 1, title: 'property test', cosmology: { h0: 70, omega_m: 0.3 }, area, redshift: { min: zmin, max: zmin + dz }, slices: { count: slices } };
   if (kind === 'line_flux') {
-    return { ...base, detection: { kind, limit: 10 ** -limit, line: 6563 }, population: { variable: 'luminosity', phi_star: 1e-3, l_star: 1e42, alpha } };
+    return { ...base, detection: { kind, limit: 10 ** -limit, line: 6563 }, population: { variable: 'luminosity', phi_star: 2.2e-3, l_star: 1e42, alpha } };
   }
   if (kind === 'magnitude') {
-    return { ...base, detection: { kind, limit, band: 8000, beta: -2 }, population: { variable: 'magnitude', phi_star: 1e-3, m_star: -21, alpha } };
+    return { ...base, detection: { kind, limit, band: 8000, beta: -2 }, population: { variable: 'magnitude', phi_star: 2.2e-3, m_star: -21, alpha } };
   }
-  return { ...base, detection: { kind, limit }, population: { variable: 'luminosity', quantity: 'stellar mass [Msun]', phi_star: 1e-3, log10_l_star: 10.8, alpha } };
+  return { ...base, detection: { kind, limit }, population: { variable: 'luminosity', quantity: 'stellar mass [Msun]', phi_star: 2.2e-3, log10_l_star: 10.8, alpha } };
 }
 
 const kindArb = fc.constantFrom<Kind>('line_flux', 'magnitude', 'threshold');

@@ -29,9 +29,9 @@ redshift: {min: 0.5, max: 1.5}
 detection: {kind: line_flux, limit: 1e-16, line: 6563}
 population:
   variable: luminosity
-  phi_star: "1e-3 * (1 + z)"
+  phi_star: "1.1e-3 * (1 + z)"
   log10_l_star: "42 + 0.5*z"
-  alpha: -1.4
+  alpha: -1.35
 `,
   'curve-lum.yaml',
 );
@@ -55,9 +55,9 @@ population:
 
 describe('per dex, luminosity variable (closed form)', () => {
   const z = 1;
-  const phiStar = 2e-3; // 1e-3 (1 + z)
+  const phiStar = 2.2e-3; // 1.1e-3 (1 + z)
   const knee = 42.5; // 42 + 0.5 z
-  const alpha = -1.4;
+  const alpha = -1.35;
   const curve = luminosityFunctionCurve(luminositySurvey.populations[0]!, z, 41.3, { step: 0.05 });
 
   test('knee and limit are handed through', () => {

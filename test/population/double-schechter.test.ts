@@ -108,7 +108,7 @@ describe('double Schechter in the survey file (parameter conventions as for phi_
   });
 
   test.each([
-    ['phi_star with the double shape', 'phi_star: 1e-3\n', 'kind_mismatch', 'population.phi_star'],
+    ['phi_star with the double shape', 'phi_star: 2.2e-3\n', 'kind_mismatch', 'population.phi_star'],
     ['double-shape keys without shape: double_schechter', null, 'kind_mismatch', 'population.phi_star_1_dex'],
   ])('%s is a SurveyError naming the key', (_n, extra, code, key) => {
     const text = extra === null ? DOUBLE.replace('  shape: double_schechter\n', '') : DOUBLE + `  ${extra}`;

@@ -160,16 +160,16 @@ describe('luminosity-function figure', () => {
 
   test('detected part: brighter side of the limit, starting at the limit (interpolated in log10 phi)', () => {
     const rows = [
-      { x: 41, phi: 1e-2 },
+      { x: 41, phi: 4e-2 },
       { x: 42, phi: 1e-4 },
       { x: 43, phi: 1e-6 },
     ];
-    // closed form: halfway between 41 and 42 in log10 phi is 10^-3
-    expect(detectedPart(rows, 41.5, false)).toEqual([{ x: 41.5, phi: expect.closeTo(1e-3, 15) }, rows[1], rows[2]]);
+    // closed form: halfway between 41 and 42 in log10 phi is sqrt(4e-2 x 1e-4) = 2e-3
+    expect(detectedPart(rows, 41.5, false)).toEqual([{ x: 41.5, phi: expect.closeTo(2e-3, 15) }, rows[1], rows[2]]);
     // magnitudes: brighter is smaller, so the detected side is x <= limit
     const mags = [
       { x: -23, phi: 1e-6 },
-      { x: -21, phi: 1e-3 },
+      { x: -21, phi: 2.5e-3 },
       { x: -19, phi: 1e-2 },
     ];
     const part = detectedPart(mags, -20, true);

@@ -142,7 +142,7 @@ redshift: {min: 0.5, max: 1.5}
 detection: {kind: magnitude, limit: 24, band: 8000}
 populations:
   - {name: star-forming, variable: magnitude, phi_star: 2e-3, m_star: -21.0, alpha: -1.3}
-  - {name: quiescent, variable: magnitude, phi_star: 1e-3, m_star: -21.3, alpha: -0.6}
+  - {name: quiescent, variable: magnitude, phi_star: 1.2e-3, m_star: -21.3, alpha: -0.6}
 slices: {count: 4}
 `;
   const q = predict(loadSurveyText(text, 'two.yaml'));

@@ -19,7 +19,7 @@ population:
   variable: luminosity
   phi_star: 1.2e-3
   log10_l_star: "41.9 + 0.2*z"
-  alpha: -1.4
+  alpha: -1.35
 slices: {count: 4}
 `;
 

@@ -165,11 +165,11 @@ describe('every size has a stated cap', () => {
     [`${CAPS.slices + 1} slices by count`, MAGNITUDE_YAML, { slices: { count: CAPS.slices + 1 } }, 'bad_slices', 'slices.count'],
     ['slices narrower than 1e-6 by count', MAGNITUDE_YAML, { redshift: { min: 1, max: 1.0001 }, slices: { count: 1000 } }, 'bad_slices', 'slices.count'],
     ['slice edges 1.2 and 1.2000000000000002', MAGNITUDE_YAML, { redshift: { min: 1, max: 2 }, slices: { edges: [1.2, 1.2000000000000002] } }, 'bad_slices', 'slices.edges[1]'],
-    ['a table of 1,001 rows', LINE_YAML, { 'population.alpha': { table: Array.from({ length: 1001 }, (_, i) => [i / 500, -1.4]) } }, 'too_large', 'population.alpha.table'],
+    ['a table of 1,001 rows', LINE_YAML, { 'population.alpha': { table: Array.from({ length: 1001 }, (_, i) => [i / 500, -1.35]) } }, 'too_large', 'population.alpha.table'],
     ['a completeness table of 1,001 rows', MAGNITUDE_YAML, { 'detection.completeness': { table: Array.from({ length: 1001 }, (_, i) => [20 + i / 100, 0.5]) } }, 'too_large', 'detection.completeness.table'],
     ['a text of 5,000 characters', LINE_YAML, { title: 'x'.repeat(5000) }, 'too_large', 'title'],
-    ['21 populations', LINE_YAML, { population: undefined, populations: Array.from({ length: 21 }, (_, i) => ({ name: `p${i}`, variable: 'luminosity', phi_star: 1e-3, log10_l_star: 42, alpha: -1.4 })) }, 'too_large', 'populations'],
-    ['5 populations over 500 slices (2,500 counts)', LINE_YAML, { population: undefined, slices: { count: 500 }, populations: Array.from({ length: 5 }, (_, i) => ({ name: `p${i}`, variable: 'luminosity', phi_star: 1e-3, log10_l_star: 42, alpha: -1.4 })) }, 'bad_slices', 'slices'],
+    ['21 populations', LINE_YAML, { population: undefined, populations: Array.from({ length: 21 }, (_, i) => ({ name: `p${i}`, variable: 'luminosity', phi_star: 2.2e-3, log10_l_star: 42, alpha: -1.35 })) }, 'too_large', 'populations'],
+    ['5 populations over 500 slices (2,500 counts)', LINE_YAML, { population: undefined, slices: { count: 500 }, populations: Array.from({ length: 5 }, (_, i) => ({ name: `p${i}`, variable: 'luminosity', phi_star: 2.2e-3, log10_l_star: 42, alpha: -1.35 })) }, 'bad_slices', 'slices'],
     ['a threshold limit crossing more histogram bins than a slice may have', THRESHOLD_YAML, { 'detection.limit': { table: [[0.3, 9], [1.5, 59]] }, 'histogram.width': 0.01 }, 'too_large', 'detection.limit'],
     ['a quantity string of 200 characters', LINE_YAML, { area: `1 ${'deg '.repeat(50)}` }, 'bad_unit', 'area'],
   ])('%s', (_name, yaml, edits, code, keyPath) => {
@@ -319,7 +319,7 @@ describe('messages quote at most a short, escaped excerpt, and nothing of a file
 });
 
 describe('expressions follow the stated grammar, strictly', () => {
-  test.each(['5%', '-1.4 + 5%', '-1.4 # a comment', '0x10', '0b101', '0o17', '-1.4 + 0X1F*z', '#'])('%s is refused', (text) => {
+  test.each(['5%', '-1.35 + 5%', '-1.35 # a comment', '0x10', '0b101', '0o17', '-1.35 + 0X1F*z', '#'])('%s is refused', (text) => {
     const e = errorOf(() => compileExpression(text, FILE, 'population.alpha'));
     expect([e.code, e.keyPath]).toEqual(['bad_expression', 'population.alpha']);
     oneSentence(e);

@@ -99,10 +99,10 @@ redshift: {min: 1.0, max: 2.0}
 detection: {kind: magnitude, limit: 25, band: 9000}
 slices: {count: 3}
 `;
-    const whole = predict(loadSurveyText(`${base}population: {name: all, variable: magnitude, phi_star: 2e-3, m_star: -21, alpha: -1.4, bias: "1.5 + 0.5*z"}\n`, 'w.yaml'));
+    const whole = predict(loadSurveyText(`${base}population: {name: all, variable: magnitude, phi_star: 4.4e-3, m_star: -21, alpha: -1.35, bias: "1.5 + 0.5*z"}\n`, 'w.yaml'));
     const halves = predict(
       loadSurveyText(
-        `${base}populations:\n  - {name: a, variable: magnitude, phi_star: 1e-3, m_star: -21, alpha: -1.4, bias: "1.5 + 0.5*z"}\n  - {name: b, variable: magnitude, phi_star: 1e-3, m_star: -21, alpha: -1.4, bias: "1.5 + 0.5*z"}\n`,
+        `${base}populations:\n  - {name: a, variable: magnitude, phi_star: 2.2e-3, m_star: -21, alpha: -1.35, bias: "1.5 + 0.5*z"}\n  - {name: b, variable: magnitude, phi_star: 2.2e-3, m_star: -21, alpha: -1.35, bias: "1.5 + 0.5*z"}\n`,
         'h.yaml',
       ),
     );

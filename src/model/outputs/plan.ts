@@ -28,6 +28,15 @@ export interface Plan {
         reference_exposure_hours: number;
       }
     | {
+        kind: 'noise';
+        reference_limit: number;
+        reference_exposure_hours: number;
+        sky_to_source: number;
+        read_to_source: number;
+        frame_hours: number;
+        reference_frames: number;
+      }
+    | {
         kind: 'table';
         /**
          * [[hours, limit], ...]

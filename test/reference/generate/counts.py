@@ -29,7 +29,7 @@ detection:
   limit: 5e-17
   line: 6563
   filter: {center: 11800, fwhm: 120}
-population: {variable: luminosity, phi_star: 1.0e-3, log10_l_star: 42.4, alpha: -1.5}
+population: {variable: luminosity, phi_star: 2.2e-3, log10_l_star: 42.4, alpha: -1.5}
 slices: {count: 4}
 histogram: {width: 0.1}
 """,
@@ -98,7 +98,7 @@ detection:
   limit: 4e-17
   filter: {center: 9200, fwhm: 110}
 populations:
-  - {name: halpha, variable: luminosity, line: 6563, log10_phi_star: -2.8, log10_l_star: 41.9, alpha: -1.4}
+  - {name: halpha, variable: luminosity, line: 6563, log10_phi_star: -2.8, log10_l_star: 41.9, alpha: -1.35}
   - {name: oiii, variable: luminosity, line: 5007, log10_phi_star: -2.9, log10_l_star: 42.0, alpha: -1.6}
 slices: {count: 3}
 histogram: {width: 0.1}

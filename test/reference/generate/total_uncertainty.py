@@ -85,7 +85,7 @@ area: 2
 field: {aspect: 2, count: 3}
 redshift: {min: 0.3, max: 1.8}
 detection: {kind: line_flux, limit: 2e-16, line: 6563}
-population: {variable: luminosity, log10_phi_star: -2.8, log10_l_star: 42.3, alpha: -1.4}
+population: {variable: luminosity, log10_phi_star: -2.8, log10_l_star: 42.3, alpha: -1.35}
 slices: {count: 6}
 """,
     # continuum-selected galaxies at high redshift: growth and bias change across the window
@@ -108,7 +108,7 @@ detection:
   limit: 4e-17
   filter: {center: 9200, fwhm: 110, profile: gaussian}
 populations:
-  - {name: halpha, variable: luminosity, line: 6563, log10_phi_star: -2.8, log10_l_star: 41.9, alpha: -1.4}
+  - {name: halpha, variable: luminosity, line: 6563, log10_phi_star: -2.8, log10_l_star: 41.9, alpha: -1.35}
   - {name: oiii, variable: luminosity, line: 5007, log10_phi_star: -2.9, log10_l_star: 42.0, alpha: -1.6, bias: 1.3}
 slices: {count: 3}
 """,

@@ -1,0 +1,112 @@
+/**
+ * Whole-process start-up of the built program: every command on every bundled sample, as a ratio
+ * to bare `node -e 0`. Each process is timed by wait4; the table gives the median of the
+ * runs of CPU time (user + sys, which a loaded machine barely changes) and of wall time, and the
+ * largest resident set. Not a test: figures to report. Run `npm run build` first.
+ *
+ *   npx tsx test/bench/startup.ts [--root DIR] [--runs N] [filter]
+ *
+ * `--root DIR`: a built checkout of another commit (before/after figures); default this one.
+ * Commands whose output is JSON write it to a temporary file; `report` writes HTML.
+ */
+import { execFileSync, spawnSync } from 'node:child_process';
+import { readdirSync, readFileSync, rmSync } from 'node:fs';
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+
+const args = process.argv.slice(2);
+let root = process.cwd();
+let runs = 5;
+let filter = '';
+for (let i = 0; i < args.length; i++) {
+  if (args[i] === '--root') root = resolve(args[++i]!);
+  else if (args[i] === '--runs') runs = Number(args[++i]);
+  else filter = args[i]!;
+}
+
+interface Sample {
+  cpu: number;
+  wall: number;
+  rssKb: number;
+}
+
+const dir = mkdtempSync(join(tmpdir(), 'skytally-startup-'));
+const node = process.execPath;
+
+/**
+ * One process: user+sys and peak RSS from wait4 (microsecond resolution, unlike /usr/bin/time's
+ * hundredths), wall from a monotonic clock. python3 starts it and is not itself measured.
+ */
+const WAIT4 = [
+  'import os, subprocess, sys, time',
+  't = time.perf_counter()',
+  'p = subprocess.Popen(sys.argv[1:], stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)',
+  'err = p.stderr.read()',
+  '_, status, ru = os.wait4(p.pid, 0)',
+  'w = time.perf_counter() - t',
+  'sys.stderr.write(err.decode(errors="replace")[:300])',
+  'print(os.waitstatus_to_exitcode(status), ru.ru_utime + ru.ru_stime, w, ru.ru_maxrss)',
+].join('\n');
+
+function measure(argv: string[]): Sample {
+  const r = spawnSync('/usr/bin/python3', ['-c', WAIT4, node, ...argv], { cwd: root, encoding: 'utf8' });
+  const [code, cpu, wall, rss] = r.stdout.trim().split(/\s+/).map(Number);
+  if (code !== 0) throw new Error(`${argv.join(' ')} failed (${code}): ${r.stderr}`);
+  return { cpu: cpu!, wall: wall!, rssKb: rss! };
+}
+
+function median(xs: number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.floor(s.length / 2)]!;
+}
+
+function summary(argv: string[]): { cpu: number; wall: number; rssKb: number } {
+  measure(argv); // warm the file cache
+  const xs = Array.from({ length: runs }, () => measure(argv));
+  return { cpu: median(xs.map((x) => x.cpu)), wall: median(xs.map((x) => x.wall)), rssKb: Math.max(...xs.map((x) => x.rssKb)) };
+}
+
+const samples = readdirSync(join(root, 'samples'))
+  .filter((f) => f.endsWith('.yaml'))
+  .sort();
+const json = join(dir, 'out.json');
+const html = join(dir, 'out.html');
+const cases: { name: string; argv: string[] }[] = [];
+for (const s of samples) {
+  const file = `samples/${s}`;
+  const isPlan = /^plan:/m.test(readFileSync(join(root, file), 'utf8'));
+  cases.push({ name: `predict ${s}`, argv: ['bin/skytally.js', 'predict', file, '--format', 'json', '--out', json] });
+  cases.push({ name: `check ${s}`, argv: ['bin/skytally.js', 'check', file, '--format', 'json', '--out', json] });
+  cases.push({ name: `forecast ${s}`, argv: ['bin/skytally.js', 'forecast', file, '--format', 'json', '--out', json] });
+  if (isPlan) cases.push({ name: `plan ${s}`, argv: ['bin/skytally.js', 'plan', file, '--format', 'json', '--out', json] });
+  cases.push({ name: `report ${s}`, argv: ['bin/skytally.js', 'report', file, '--out', html] });
+}
+
+const rev = (() => {
+  try {
+    return execFileSync('git', ['rev-parse', '--short', 'HEAD'], { cwd: root, encoding: 'utf8' }).trim();
+  } catch {
+    return '?';
+  }
+})();
+const base = summary(['-e', '0']);
+console.log(`root ${root} (${rev}), ${runs} runs, median; node -e 0: cpu ${(base.cpu * 1000).toFixed(0)} ms, wall ${(base.wall * 1000).toFixed(0)} ms`);
+console.log(`${'case'.padEnd(44)} ${'cpu ms'.padStart(7)} ${'x node'.padStart(7)} ${'wall ms'.padStart(8)} ${'x node'.padStart(7)} ${'max RSS MB'.padStart(10)}`);
+try {
+  for (const c of cases) {
+    if (filter && !c.name.includes(filter)) continue;
+    let row: string;
+    try {
+      const m = summary(c.argv);
+      row =
+        `${c.name.padEnd(44)} ${(m.cpu * 1000).toFixed(0).padStart(7)} ${(m.cpu / base.cpu).toFixed(2).padStart(7)} ` +
+        `${(m.wall * 1000).toFixed(0).padStart(8)} ${(m.wall / base.wall).toFixed(2).padStart(7)} ${(m.rssKb / 1024).toFixed(0).padStart(10)}`;
+    } catch (e) {
+      row = `${c.name.padEnd(44)} failed: ${(e as Error).message.split('\n')[0]}`;
+    }
+    console.log(row);
+  }
+} finally {
+  rmSync(dir, { recursive: true, force: true });
+}
