@@ -1,5 +1,6 @@
 /** The assumed population: Schechter parameters that may vary with z, bias, window and slices. */
 import type { ZParam } from './zparam.js';
+import type { PopulationSelection } from './selection.js';
 
 export type PopulationVariable = 'luminosity' | 'magnitude';
 
@@ -20,7 +21,7 @@ export interface SfrConversion {
   factor: number;
 }
 
-export interface SchechterPopulation {
+export interface SchechterPopulation extends PopulationSelection {
   name: string;
   /** schechter: one component; double_schechter: two components sharing L* (or M*). */
   shape: 'schechter' | 'double_schechter';
@@ -41,6 +42,10 @@ export interface SchechterPopulation {
   lineAngstrom?: number;
   /** Rest wavelength at which absolute magnitudes are defined (magnitude kind), Angstrom. */
   restWavelengthAngstrom: number;
+  /** True when rest_wavelength was left at its default (a warning checks it against the band). */
+  restWavelengthDefault?: boolean;
+  /** The normalisation key the file used (phi_star, log10_phi_star, phi_star_dex, ...; _1 for double). */
+  normalisationKey?: string;
   /** "auto" or a value (number, table, expression) of the galaxy bias. */
   bias: 'auto' | ZParam;
   /** Fraction (0, 1] of haloes above the matched mass hosting a detected galaxy. */

@@ -8,6 +8,7 @@ import type { Survey } from '../model/survey.js';
 import type { ZParam } from '../model/zparam.js';
 import type { ModelDescription, ParameterDescription } from '../model/outputs/shared.js';
 import { compact } from '../render/format.js';
+import { describeSelection } from '../selection/describe.js';
 
 /** A parameter as written and at redshift z (the window's middle). */
 function parameterAt(p: ZParam, z: number): ParameterDescription {
@@ -26,6 +27,7 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
     phi_star_mpc3: parameterAt(p.phiStar, zMid),
     alpha: parameterAt(p.alpha, zMid),
     summary: '',
+    selection: describeSelection(survey.detection, p),
   };
   if (p.quantity) d.quantity = p.quantity;
   if (p.components.length > 1) {

@@ -6,6 +6,9 @@
  *
  * line_flux  (slope +1):   obs = log10 measured line flux [erg s^-1 cm^-2]
  *                          = log10 u + log10(L* T(line (1+z)) / (4 pi D_L^2))
+ * Blending (1 + b) and dust (A(z) mag) of src/selection/effects.ts add log10(1 + b) - 0.4 A(z) to a(z)
+ * of a line flux and A(z) to K(z) below; the limit in the population's variable is then intrinsic.
+ *
  * magnitude  (slope -2.5): obs = apparent AB magnitude = M* - 2.5 log10 u + K(z), where
  *                          K(z) = 5 log10(D_L / 10 pc) - 2.5 log10(1+z)
  *                                 - 2.5 (beta+2) log10(band / ((1+z) rest_wavelength))
@@ -26,6 +29,7 @@ import type { Population } from '../model/population.js';
 import { MPC_CM } from '../cosmology/constants.js';
 import { transmission } from './filter.js';
 import { bandAveragedMadau1995, madau1995Transmission } from './igm.js';
+import { selectionEffects } from './effects.js';
 
 export type HistogramVariable = 'apparent_magnitude' | 'log10_line_flux' | 'log10_quantity' | 'absolute_magnitude';
 
@@ -54,6 +58,8 @@ const FOUR_PI = 4 * Math.PI;
 const TEN_PC_MPC = 1e-5;
 
 export function makeObserver(detection: Detection, population: Population, cosmo: FlatCosmology): Observer {
+  // Blending and attenuation move obs (src/selection/effects.ts); 0 without them.
+  const shift = selectionEffects(detection, population).obsShift;
   switch (detection.kind) {
     case 'line_flux': {
       const line = population.lineAngstrom ?? detection.lineAngstrom;
@@ -67,14 +73,15 @@ export function makeObserver(detection: Detection, population: Population, cosmo
           const dlCm = cosmo.luminosityDistanceMpc(z) * MPC_CM;
           const t = filter ? transmission(filter, line * (1 + z)) : 1;
           const log10Area = Math.log10(FOUR_PI * dlCm * dlCm);
-          const a = Math.log10(lStar) + Math.log10(t) - log10Area;
+          const dObs = shift(z);
+          const a = Math.log10(lStar) + Math.log10(t) - log10Area + dObs;
           const log10U = t > 0 ? log10Limit - a : Infinity;
           return {
             a,
             slope: 1,
             obsLimit: log10Limit,
             log10ULimit: log10U,
-            limitInVariable: t > 0 ? log10Limit - Math.log10(t) + log10Area : Infinity,
+            limitInVariable: t > 0 ? log10Limit - Math.log10(t) + log10Area - dObs : Infinity,
             transmission: t,
           };
         },
@@ -88,7 +95,7 @@ export function makeObserver(detection: Detection, population: Population, cosmo
         slope: -2.5,
         variable: 'apparent_magnitude',
         at(z, mStar) {
-          const k = apparentMinusAbsolute(cosmo, z, bandAngstrom, rest, beta) + igm(z);
+          const k = apparentMinusAbsolute(cosmo, z, bandAngstrom, rest, beta) + igm(z) + shift(z);
           const a = mStar + k;
           const mLim = limitMag - k;
           return {

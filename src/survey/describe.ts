@@ -10,6 +10,7 @@ import type { ZParam } from '../model/zparam.js';
 import { cosmologyJsonOf } from '../model/cosmology-json.js';
 import type { ParameterView, SurveyCheck } from '../model/outputs/check.js';
 import type { CompletenessBlock } from '../model/outputs/shared.js';
+import { describeSelection } from '../selection/describe.js';
 
 /** A parameter as written in the file, with its normalised value at the window's ends when it varies. */
 export function parameterView(p: ZParam, window: { min: number; max: number }): ParameterView {
@@ -97,6 +98,7 @@ export function describeSurvey(survey: Survey): Omit<SurveyCheck, 'warnings'> {
         rest_wavelength_angstrom: p.restWavelengthAngstrom,
         bias: p.bias === 'auto' ? 'auto' : parameterView(p.bias, p.window),
         occupation: p.occupation,
+        selection: describeSelection(d, p),
       }),
     ),
     slices: { count: survey.sliceEdges.length - 1, edges: survey.sliceEdges },

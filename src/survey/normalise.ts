@@ -17,6 +17,7 @@ import { FULL_SKY_DEG2, MIN_AREA_DEG2, SR_PER_DEG2 } from '../model/sky.js';
 import { checkParam, fmt, makeZParam, mapParam, samplePoints, type ZTable } from './zparam.js';
 import { readTransmissionFile } from './transmission-file.js';
 import { photoZTrueRange, readPhotoZ, type RawPhotoZ } from './photo-z.js';
+import { readDetectionSelection, readPopulationSelection, type RawDetectionSelection, type RawPopulationSelection } from './selection-keys.js';
 import { filterRedshiftWindow, tableFwhm, tableMeanWavelength } from '../selection/filter.js';
 import { dirname } from 'node:path';
 import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH, RANGES, describeRange, inRange, type Range } from '../model/limits.js';
@@ -24,7 +25,7 @@ import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH, RANGES, describeRange, inRange, ty
 type Q = number | string;
 type ZRaw = number | string | ZTable;
 
-interface RawPopulation {
+interface RawPopulation extends RawPopulationSelection {
   name?: string;
   shape?: 'schechter' | 'double_schechter';
   variable: PopulationVariable;
@@ -62,7 +63,7 @@ interface RawSurvey {
   area: Q;
   redshift?: { min: number; max: number };
   field?: { aspect?: number; count?: number };
-  detection: {
+  detection: RawDetectionSelection & {
     kind: DetectionKind;
     limit: number | string | ZTable;
     line?: Q;
@@ -90,9 +91,9 @@ export const SLICE_REMAINDER = MIN_SLICE_WIDTH;
 export const DEFAULT_POPULATION_NAME = 'population';
 
 const DETECTION_KEYS: Record<DetectionKind, string[]> = {
-  line_flux: ['kind', 'limit', 'line', 'filter', 'completeness'],
-  magnitude: ['kind', 'limit', 'band', 'band_file', 'beta', 'igm', 'completeness', 'photo_z'],
-  threshold: ['kind', 'limit', 'completeness', 'photo_z'],
+  line_flux: ['kind', 'limit', 'line', 'filter', 'completeness', 'redshift_selection', 'equivalent_width_cut'],
+  magnitude: ['kind', 'limit', 'band', 'band_file', 'beta', 'igm', 'completeness', 'redshift_selection', 'photo_z'],
+  threshold: ['kind', 'limit', 'completeness', 'redshift_selection', 'photo_z'],
 };
 
 type Window = { min: number; max: number };
@@ -627,6 +628,7 @@ function readDetection(det: RawSurvey['detection'], rawPops: RawPopulations, det
     const bandAngstrom = det.band !== undefined ? wavelength(det.band, file, 'detection.band') : tableMeanWavelength(bandTable!);
     const beta = checkRange(det.beta ?? -2, RANGES.beta, file, 'detection.beta');
     detection = { kind, limitMag, bandAngstrom, beta, igm: det.igm ?? 'none' };
+    if (det.igm !== undefined) detection.igmStated = true;
     if (bandTable) detection.bandTable = bandTable;
   } else {
     const limit = makeZParam(det.limit, file, 'detection.limit');
@@ -634,6 +636,7 @@ function readDetection(det: RawSurvey['detection'], rawPops: RawPopulations, det
     detection = { kind, limit };
   }
   if (completeness) detection.completeness = completeness;
+  Object.assign(detection, readDetectionSelection(det, hull, file));
   return detection;
 }
 
@@ -673,6 +676,8 @@ function buildPopulation(p: RawPopulation, path: string, i: number, count: numbe
   if (params.lStar) pop.lStar = params.lStar;
   if (params.mStar) pop.mStar = params.mStar;
   if (line !== undefined) pop.lineAngstrom = line;
+  if (p.rest_wavelength === undefined) pop.restWavelengthDefault = true;
+  pop.normalisationKey = params.components[0]!.phiKey;
   return pop;
 }
 
@@ -716,16 +721,21 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   const windows = populationWindows(rawPops, lines, given, filter, file);
   const hull = hullOf(windows);
   const slices = readSlices(raw, windows, file);
-  const detection = readDetection(det, rawPops, detLine, filter, hull, file, base, inputs);
-  // Photometric redshifts: the parameters must make sense over the whole true range integrated.
-  const photoZ = det.photo_z && detection.kind !== 'line_flux' ? readPhotoZ(det.photo_z, hull, slices.edges, file) : undefined;
+  // Photometric redshifts: every value in z must make sense over the whole true range integrated.
+  const photoZ = det.photo_z && det.kind !== 'line_flux' ? readPhotoZ(det.photo_z, hull, slices.edges, file) : undefined;
+  const checkHull = photoZ ? photoZTrueRange(hull, photoZ) : hull;
+  const detection = readDetection(det, rawPops, detLine, filter, checkHull, file, base, inputs);
   if (photoZ && detection.kind !== 'line_flux') detection.photoZ = photoZ;
+  const checkWindow = (i: number): Window => (photoZ ? photoZTrueRange(windows[i]!, photoZ) : windows[i]!);
   const populations = rawPops.map(({ raw: p, path }, i) => {
-    const pop = buildPopulation(p, path, i, rawPops.length, photoZ ? photoZTrueRange(windows[i]!, photoZ) : windows[i]!, slices.own[i]!, lines[i], file);
+    const pop = buildPopulation(p, path, i, rawPops.length, checkWindow(i), slices.own[i]!, lines[i], file);
     if (photoZ) pop.window = { min: windows[i]!.min, max: windows[i]!.max };
     return pop;
   });
-  const histogramWidth = readHistogramWidth(raw, rawPops, detection, hull, file);
+  populations.forEach((pop, i) =>
+    Object.assign(pop, readPopulationSelection(rawPops[i]!.raw, rawPops[i]!.path, detection.kind, detection.equivalentWidthCut !== undefined, checkWindow(i), file)),
+  );
+  const histogramWidth = readHistogramWidth(raw, rawPops, detection, checkHull, file);
 
   const survey: Survey = {
     format: 1,

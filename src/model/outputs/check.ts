@@ -1,6 +1,6 @@
 /* Generated from specs/check.schema.json by scripts/generate-output-types.ts: do not edit (run `npx tsx scripts/generate-output-types.ts`). */
 import type { Warning } from '../../warnings.js';
-import type { CompletenessBlock, CosmologyBlock, RedshiftRange, ZTable } from './shared.js';
+import type { CompletenessBlock, CosmologyBlock, RedshiftRange, SelectionBlock, ZTable } from './shared.js';
 
 /**
  * A parameter: its normalised value when constant; otherwise what the file wrote and the normalised values at the window's ends.
@@ -112,4 +112,5 @@ export interface PopulationView {
   rest_wavelength_angstrom: number;
   bias: 'auto' | ParameterView;
   occupation: number;
+  selection: SelectionBlock;
 }

@@ -72,6 +72,7 @@ export interface ModelDescription {
    * one line a person can read
    */
   summary: string;
+  selection: SelectionBlock;
 }
 export interface RedshiftRange {
   min: number;
@@ -92,4 +93,42 @@ export interface ZTable {
    * [[z, value], ...], interpolated linearly
    */
   table: number[][];
+}
+/**
+ * The selection effects applied to this population (docs/survey-file.md, "Selection effects"): which were used, whether attenuation was applied, and each one's value.
+ */
+export interface SelectionBlock {
+  /**
+   * the effects the file states for this population (empty: none; the prediction is then the plain one)
+   */
+  effects: ('redshift_selection' | 'blend_ratio' | 'attenuation' | 'equivalent_width_cut')[];
+  /**
+   * true when the population's attenuation dims the observed flux (its luminosity function is then taken as intrinsic, dust-corrected); false when the file gives none
+   */
+  attenuation_applied: boolean;
+  redshift_selection?: {
+    /**
+     * where the fraction was given (a population's own wins)
+     */
+    from: 'population' | 'detection';
+    fraction: ParameterDescription;
+  };
+  /**
+   * flux of the blended neighbouring lines relative to the line
+   */
+  blend_ratio?: number;
+  attenuation_mag?: ParameterDescription;
+  equivalent_width_cut?: {
+    frame: 'rest' | 'observed';
+    width_angstrom: number;
+    /**
+     * the population's rest-frame equivalent-width distribution, in words
+     */
+    distribution: string;
+    /**
+     * fraction kept at the window's middle (taken as independent of luminosity)
+     */
+    kept_at_window_middle: number;
+  };
+  valid_redshift?: RedshiftRange;
 }
