@@ -1,6 +1,7 @@
 /** How a survey detects its sources: the detection kinds, filters and bands, completeness. */
 import type { ZParam } from './zparam.js';
 import type { PhotoZ } from './photo-z.js';
+import type { MagnitudeSystemGiven, SedPhotometry } from './photometry.js';
 import type { DetectionSelection } from './selection.js';
 
 export type FilterProfile = 'tophat' | 'gaussian' | 'table';
@@ -51,12 +52,14 @@ export type Detection = DetectionSelection &
     }
   | {
       kind: 'magnitude';
-      limitMag: number; // apparent AB magnitude
+      limitMag: number; // apparent AB magnitude (a Vega limit converted once; completeness too)
       bandAngstrom: number; // effective wavelength of the band (from band_file when band is not given)
       beta: number; // f_lambda ~ lambda^beta
       igm: IgmModel; // default 'none'
       igmStated?: boolean; // true when the file gives detection.igm (a warning asks for it near Lyman alpha)
       bandTable?: TransmissionTable; // detection.band_file: the band's transmission curve
+      sed?: SedPhotometry; // detection.sed: k-corrections by synthetic photometry instead of beta
+      magnitudeSystem?: MagnitudeSystemGiven; // detection.system vega: how the limit was given
       completeness?: Completeness;
       photoZ?: PhotoZ; // detection.photo_z: slices are in measured (photometric) redshift
     }

@@ -17,6 +17,8 @@
  *                          T_IGM = 1 unless detection.igm is madau1995 (src/selection/igm.ts): then the
  *                          Madau 1995 mean transmission at the band's effective wavelength, or averaged
  *                          over detection.band_file when given.
+ *                          With detection.sed, K(z) = 5 log10(D_L / 10 pc) + K_QR(z), K_QR by synthetic
+ *                          photometry of the spectrum (src/selection/kcorrection.ts, the IGM inside it).
  * threshold  (slope +1 for a luminosity variable: obs = log10 quantity; -2.5 for a magnitude
  *             variable: obs = absolute magnitude).
  *
@@ -29,6 +31,8 @@ import type { Population } from '../model/population.js';
 import { MPC_CM } from '../cosmology/constants.js';
 import { transmission } from './filter.js';
 import { bandAveragedMadau1995, madau1995Transmission } from './igm.js';
+import { sedKCorrection } from './kcorrection.js';
+import type { RestFrame } from '../model/photometry.js';
 import { selectionEffects } from './effects.js';
 
 export type HistogramVariable = 'apparent_magnitude' | 'log10_line_flux' | 'log10_quantity' | 'absolute_magnitude';
@@ -90,12 +94,22 @@ export function makeObserver(detection: Detection, population: Population, cosmo
     case 'magnitude': {
       const { limitMag, bandAngstrom, beta } = detection;
       const rest = population.restWavelengthAngstrom;
-      const igm = igmMagnitude(detection);
+      const sed = detection.sed;
+      let kOf: (z: number) => number;
+      if (sed) {
+        // Synthetic photometry (src/selection/kcorrection.ts); the IGM, if any, inside its integral.
+        const frame: RestFrame = population.restBand ? { kind: 'band', band: population.restBand } : { kind: 'wavelength', angstrom: rest };
+        const kSed = sedKCorrection(sed, frame, detection.igm, population.window.min, population.window.max);
+        kOf = (z) => 5 * Math.log10(cosmo.luminosityDistanceMpc(z) / TEN_PC_MPC) + kSed(z);
+      } else {
+        const igm = igmMagnitude(detection);
+        kOf = (z) => apparentMinusAbsolute(cosmo, z, bandAngstrom, rest, beta) + igm(z);
+      }
       return {
         slope: -2.5,
         variable: 'apparent_magnitude',
         at(z, mStar) {
-          const k = apparentMinusAbsolute(cosmo, z, bandAngstrom, rest, beta) + igm(z) + shift(z);
+          const k = kOf(z) + shift(z);
           const a = mStar + k;
           const mLim = limitMag - k;
           return {

@@ -17,6 +17,7 @@ import { FULL_SKY_DEG2, MIN_AREA_DEG2, SR_PER_DEG2 } from '../model/sky.js';
 import { checkParam, fmt, makeZParam, mapParam, samplePoints, type ZTable } from './zparam.js';
 import { readTransmissionFile } from './transmission-file.js';
 import { photoZTrueRange, readPhotoZ, type RawPhotoZ } from './photo-z.js';
+import { readDetectionPhotometry, readPopulationPhotometry, type RawBand } from './photometry.js';
 import { readDetectionSelection, readPopulationSelection, type RawDetectionSelection, type RawPopulationSelection } from './selection-keys.js';
 import { filterRedshiftWindow, tableFwhm, tableMeanWavelength } from '../selection/filter.js';
 import { dirname } from 'node:path';
@@ -44,6 +45,9 @@ interface RawPopulation extends RawPopulationSelection {
   sfr_conversion?: 'halpha' | 'oii' | 'uv' | number;
   line?: Q;
   rest_wavelength?: Q;
+  rest_band?: RawBand;
+  system?: 'ab' | 'vega';
+  vega_to_ab?: number;
   bias?: ZRaw;
   occupation?: number;
 }
@@ -67,10 +71,13 @@ interface RawSurvey {
     kind: DetectionKind;
     limit: number | string | ZTable;
     line?: Q;
-    band?: Q;
+    band?: Q | RawBand;
     beta?: number;
     igm?: IgmModel;
     band_file?: string;
+    sed?: { file?: string };
+    system?: 'ab' | 'vega';
+    vega_to_ab?: number;
     filter?: { center?: Q; fwhm?: Q; profile?: FilterProfile; file?: string };
     completeness?: { model?: 'logistic' | 'table'; half?: Q; width?: number; table?: [number, number][] };
     photo_z?: RawPhotoZ;
@@ -92,7 +99,7 @@ export const DEFAULT_POPULATION_NAME = 'population';
 
 const DETECTION_KEYS: Record<DetectionKind, string[]> = {
   line_flux: ['kind', 'limit', 'line', 'filter', 'completeness', 'redshift_selection', 'equivalent_width_cut'],
-  magnitude: ['kind', 'limit', 'band', 'band_file', 'beta', 'igm', 'completeness', 'redshift_selection', 'photo_z'],
+  magnitude: ['kind', 'limit', 'band', 'band_file', 'beta', 'igm', 'sed', 'system', 'vega_to_ab', 'completeness', 'redshift_selection', 'photo_z'],
   threshold: ['kind', 'limit', 'completeness', 'redshift_selection', 'photo_z'],
 };
 
@@ -608,6 +615,7 @@ function readDetection(det: RawSurvey['detection'], rawPops: RawPopulations, det
   let detection: Detection;
   const thresholdVariable: PopulationVariable = rawPops.every((p) => p.raw.variable === 'magnitude') ? 'magnitude' : 'luminosity';
   const completeness = det.completeness ? parseCompleteness(det.completeness, kind, thresholdVariable, file) : undefined;
+  let completenessAb = completeness;
   if (kind === 'line_flux') {
     if (typeof det.limit === 'object') {
       throw inputError('wrong_type', file, 'detection.limit', 'is a table but a line_flux limit is one flux', 'give the flux limit in erg/s/cm^2 or with a unit');
@@ -620,22 +628,24 @@ function readDetection(det: RawSurvey['detection'], rawPops: RawPopulations, det
     if (typeof det.limit === 'object') {
       throw inputError('wrong_type', file, 'detection.limit', 'is a table but a magnitude limit is one AB magnitude', 'give the limiting apparent AB magnitude as a number');
     }
-    const limitMag = checkRange(plainNumber(det.limit, file, 'detection.limit', 'the limiting apparent AB magnitude'), RANGES.apparentMagnitude, file, 'detection.limit');
-    const bandTable = det.band_file !== undefined ? readTransmissionFile(det.band_file, file, 'detection.band_file', base, (input) => inputs.push(input)) : undefined;
-    if (det.band === undefined && !bandTable) {
-      throw inputError('missing_key', file, 'detection.band', 'is missing', 'give the effective wavelength of the band (Angstrom or with a unit), or a band_file');
-    }
-    const bandAngstrom = det.band !== undefined ? wavelength(det.band, file, 'detection.band') : tableMeanWavelength(bandTable!);
+    const given = checkRange(plainNumber(det.limit, file, 'detection.limit', 'the limiting apparent magnitude'), RANGES.apparentMagnitude, file, 'detection.limit');
+    const phot = readDetectionPhotometry(det, file, base, inputs);
     const beta = checkRange(det.beta ?? -2, RANGES.beta, file, 'detection.beta');
-    detection = { kind, limitMag, bandAngstrom, beta, igm: det.igm ?? 'none' };
+    // Vega magnitudes become AB once, here: the limit and the completeness (src/survey/photometry.ts).
+    detection = { kind, limitMag: given + phot.toAb, bandAngstrom: phot.bandAngstrom, beta, igm: det.igm ?? 'none' };
     if (det.igm !== undefined) detection.igmStated = true;
-    if (bandTable) detection.bandTable = bandTable;
+    if (phot.bandTable) detection.bandTable = phot.bandTable;
+    if (phot.sed) detection.sed = phot.sed;
+    if (phot.magnitudeSystem) detection.magnitudeSystem = phot.magnitudeSystem;
+    if (completeness && phot.toAb !== 0) {
+      completenessAb = completeness.model === 'logistic' ? { ...completeness, half: completeness.half + phot.toAb } : { ...completeness, x: completeness.x.map((x) => x + phot.toAb) };
+    }
   } else {
     const limit = makeZParam(det.limit, file, 'detection.limit');
     checkParam(limit, hull, file, 'detection.limit', { what: 'the limit', range: observedRange(kind, thresholdVariable) });
     detection = { kind, limit };
   }
-  if (completeness) detection.completeness = completeness;
+  if (completenessAb) detection.completeness = completenessAb;
   Object.assign(detection, readDetectionSelection(det, hull, file));
   return detection;
 }
@@ -730,6 +740,17 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   const populations = rawPops.map(({ raw: p, path }, i) => {
     const pop = buildPopulation(p, path, i, rawPops.length, checkWindow(i), slices.own[i]!, lines[i], file);
     if (photoZ) pop.window = { min: windows[i]!.min, max: windows[i]!.max };
+    const sed = detection.kind === 'magnitude' ? detection.sed : undefined;
+    const phot = readPopulationPhotometry(p, path, detection.kind, sed, checkWindow(i), file, base, inputs);
+    pop.restWavelengthAngstrom = phot.restWavelengthAngstrom;
+    if (phot.restBand) {
+      pop.restBand = phot.restBand;
+      delete pop.restWavelengthDefault;
+    }
+    if (phot.magnitudeSystem) {
+      pop.magnitudeSystem = phot.magnitudeSystem;
+      if (pop.mStar) pop.mStar = mapParam(pop.mStar, (m) => m + phot.toAb);
+    }
     return pop;
   });
   populations.forEach((pop, i) =>

@@ -32,8 +32,8 @@ const REL = 1e-9;
  */
 const REL_HALO_MASS = 3e-9;
 
-/** Fields added to the outputs after the fixture was recorded (not numbers of the earlier code): the model's selection statement. */
-const ADDED_SINCE = new Set(['selection']);
+/** Fields added to the outputs after the fixture was recorded (not numbers of the earlier code): the model's selection statement, k-correction and magnitude system. */
+const ADDED_SINCE = new Set(['selection', 'k_correction', 'magnitude_system']);
 /** Warning codes added after the fixture was recorded (src/selection/warnings.ts): left out of the comparison. */
 const CODES_ADDED_SINCE = new Set(['rest_wavelength_default_far_from_band', 'window_beyond_valid_redshift', 'igm_not_stated', 'phi_star_per_dex']);
 /**

@@ -51,6 +51,26 @@ export interface SurveyCheck {
         band_angstrom: number;
         band_file?: string;
         beta: number;
+        /**
+         * the system the file gave the limit and completeness in; limit_mag and the completeness are AB
+         */
+        system?: 'ab' | 'vega';
+        /**
+         * system vega: m_AB - m_Vega in the band
+         */
+        vega_to_ab?: number;
+        /**
+         * the rest-frame spectrum of detection.sed (beta then plays no part)
+         */
+        sed_file?: string;
+        /**
+         * with sed: the band of the synthetic photometry
+         */
+        band?: {
+          profile: 'tophat' | 'gaussian' | 'table';
+          center_angstrom: number;
+          fwhm_angstrom: number;
+        };
         igm: 'none' | 'madau1995';
         /**
          * detection.photo_z: slices are in measured redshift; true redshifts are integrated 6 sigma (1 + z) beyond the window (true_range)
@@ -110,6 +130,34 @@ export interface PopulationView {
   slice_edges: number[];
   line_angstrom?: number;
   rest_wavelength_angstrom: number;
+  /**
+   * magnitude kind: absolute magnitudes are AB in this rest-frame band (rest_wavelength_angstrom is then its center)
+   */
+  rest_band?: {
+    profile: 'tophat' | 'gaussian' | 'table';
+    center_angstrom: number;
+    fwhm_angstrom: number;
+    /**
+     * the band file (profile table)
+     */
+    file?: string;
+  };
+  /**
+   * magnitude variable: every magnitude is stated in AB; m_star as the file gave it (ab, or vega converted once: AB = Vega + vega_to_ab)
+   */
+  magnitude_system?: {
+    stated: 'ab';
+    m_star_given: 'ab' | 'vega';
+    vega_to_ab?: number;
+  };
+  /**
+   * magnitude kind: how apparent magnitudes follow from absolute ones: the power-law colour term (beta), or synthetic photometry of a rest-frame spectrum through the band (Hogg et al. 2002)
+   */
+  k_correction?: {
+    method: 'power_law' | 'spectrum';
+    beta?: number;
+    spectrum_file?: string;
+  };
   bias: 'auto' | ParameterView;
   occupation: number;
   selection: SelectionBlock;

@@ -69,6 +69,34 @@ export interface ModelDescription {
   line_angstrom?: number;
   rest_wavelength_angstrom?: number;
   /**
+   * magnitude kind: absolute magnitudes are AB in this rest-frame band (rest_wavelength_angstrom is then its center)
+   */
+  rest_band?: {
+    profile: 'tophat' | 'gaussian' | 'table';
+    center_angstrom: number;
+    fwhm_angstrom: number;
+    /**
+     * the band file (profile table)
+     */
+    file?: string;
+  };
+  /**
+   * magnitude variable: every magnitude is stated in AB; m_star as the file gave it (ab, or vega converted once: AB = Vega + vega_to_ab)
+   */
+  magnitude_system?: {
+    stated: 'ab';
+    m_star_given: 'ab' | 'vega';
+    vega_to_ab?: number;
+  };
+  /**
+   * magnitude kind: how apparent magnitudes follow from absolute ones: the power-law colour term (beta), or synthetic photometry of a rest-frame spectrum through the band (Hogg et al. 2002)
+   */
+  k_correction?: {
+    method: 'power_law' | 'spectrum';
+    beta?: number;
+    spectrum_file?: string;
+  };
+  /**
    * one line a person can read
    */
   summary: string;
