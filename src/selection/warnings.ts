@@ -42,8 +42,10 @@ export function selectionWarnings(survey: Survey): Warning[] {
           warning(
             'rest_wavelength_default_far_from_band',
             `${p.name}: rest_wavelength is left at its default ${fmt(rest)} A, but the band (${fmt(d.bandAngstrom)} A) sees ${fmt(worst.l)} A at rest at z = ${fmt(worst.z)}, ` +
-              `more than ${Math.round(REST_WAVELENGTH_TOLERANCE * 100)} % away, so the colour term extrapolates far (counts can be many times off); ` +
-              `give rest_wavelength where the luminosity function's magnitudes are defined`,
+              `more than ${Math.round(REST_WAVELENGTH_TOLERANCE * 100)} % away, ` +
+              (d.sed
+                ? `so M* is read as a ${fmt(rest)} A magnitude and the spectrum carries it far (counts can be many times off); give rest_wavelength or rest_band where the luminosity function's magnitudes are defined`
+                : `so the colour term extrapolates far (counts can be many times off); give rest_wavelength where the luminosity function's magnitudes are defined`),
           ),
         );
       }
