@@ -114,6 +114,8 @@ function shifted(nd: NodeState, o: ModelOffsets, slope: number, lumFactor: numbe
   return {
     z: nd.z,
     volumeWeight: nd.volumeWeight,
+    volumeMpc3: nd.volumeMpc3,
+    selected: nd.selected,
     a: nd.a + o.characteristic,
     log10ULimit: nd.log10ULimit - o.characteristic / slope,
     obsLimit: nd.obsLimit,

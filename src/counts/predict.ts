@@ -24,6 +24,8 @@ import type { Survey } from '../model/survey.js';
 import { countPopulation, type Histogram, type SliceCount } from './engine.js';
 import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED } from './model-draws.js';
 import { addPopulationSpreads, addTopSpreads } from './model-spread.js';
+import { countPhotoZ, sumMigrations, type PhotoZCount, type PhotoZMigration } from './photo-z.js';
+import { PHOTO_Z_REACH_SIGMA } from '../model/photo-z.js';
 import { cosmologyJsonOf } from '../model/cosmology-json.js';
 import type {
   LineFluxDetectionBlock,
@@ -31,6 +33,7 @@ import type {
   MagnitudeDetectionBlock,
   ObservedBin,
   ObservedBins,
+  PhotoZMigration as PhotoZMigrationJson,
   PopulationPrediction,
   Prediction,
   PredictionBase,
@@ -75,9 +78,11 @@ export function detectionJson(survey: Survey): PredictionBase['detection'] {
       b.sed_file = d.sed.spectrum.file;
       b.band = { profile: d.sed.band.profile, center_angstrom: d.sed.band.centerAngstrom, fwhm_angstrom: d.sed.band.fwhmAngstrom };
     }
+    if (d.photoZ) b.photo_z = { sigma: d.photoZ.sigma, outlier_fraction: d.photoZ.outlierFraction };
     out = b;
   } else {
     out = { kind: 'threshold', limit: d.limit.source };
+    if (d.photoZ) out.photo_z = { sigma: d.photoZ.sigma, outlier_fraction: d.photoZ.outlierFraction };
   }
   if (d.completeness) out.completeness = d.completeness;
   return out;
@@ -124,9 +129,9 @@ function addLum(a: Lum | undefined, b: Lum | undefined): Lum | undefined {
   return out;
 }
 
-function toSlices(counts: SliceCount[], areaDeg2: number, unit: string, sfrFactor?: number): PredictionSlice[] {
+function toSlices(counts: SliceCount[], areaDeg2: number, unit: string, sfrFactor?: number, trueCounts?: number[]): PredictionSlice[] {
   let cumulative = 0;
-  return counts.map((s) => {
+  return counts.map((s, i) => {
     cumulative += s.count;
     const slice: PredictionSlice = {
       z_min: s.zMin,
@@ -138,6 +143,7 @@ function toSlices(counts: SliceCount[], areaDeg2: number, unit: string, sfrFacto
       limit_at_center: s.limitAtCenter,
       histogram: s.histogram,
     };
+    if (trueCounts) slice.count_true_redshift = trueCounts[i]!;
     const ld = densityOf(s.luminosity, s.volumeMpc3, unit);
     if (ld) slice.luminosity_density = ld;
     const sfr = sfrOf(ld, sfrFactor);
@@ -210,18 +216,24 @@ export function predictionWarnings(survey: Survey, populations: readonly Populat
   const out: Warning[] = [];
   const d = survey.detection;
   if (d.kind === 'magnitude') {
-    const red = bandRedEdgeAngstrom(d.bandAngstrom, d.bandTable);
+    // A spectrum's band: a top-hat's red end, a gaussian's center + fwhm (1/16 of its peak), a table's last row above 0.
+    const sedBand = d.sed?.band;
+    const red = sedBand && sedBand.profile !== 'table' ? sedBand.centerAngstrom + (sedBand.profile === 'tophat' ? 0.5 : 1) * sedBand.fwhmAngstrom : bandRedEdgeAngstrom(d.bandAngstrom, d.bandTable);
     for (const p of populations) {
       const zb = red / LYMAN_ALPHA_ANGSTROM - 1;
       if (zb < p.window.max) {
         const from = Math.max(zb, p.window.min);
-        const what = d.bandTable ? 'the whole band (to its red edge at ' + fmtNum(red) + ' A)' : 'the band (effective wavelength ' + fmtNum(red) + ' A)';
+        const what = d.bandTable || sedBand ? 'the whole band (to its red edge at ' + fmtNum(red) + ' A)' : 'the band (effective wavelength ' + fmtNum(red) + ' A)';
         out.push(warning(
           'band_blueward_of_lyman_alpha',
           `${p.name}: at z > ${fmtNum(from)} (its window is z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)}) ${what} lies blueward of rest-frame Lyman alpha (1216 A); ` +
             (d.igm === 'madau1995'
-              ? 'the counts there include the Madau 1995 mean intergalactic transmission, and the power-law spectrum is extrapolated below 1216 A'
-              : 'no intergalactic attenuation is applied there (detection.igm is none), so those counts are too high; consider igm: madau1995'),
+              ? d.sed
+                ? 'the counts there include the Madau 1995 mean intergalactic transmission, applied to the spectrum inside the band'
+                : 'the counts there include the Madau 1995 mean intergalactic transmission, and the power-law spectrum is extrapolated below 1216 A'
+              : d.sed
+                ? 'no intergalactic attenuation is applied there (detection.igm is none; the spectrum\'s own features are all that dims it), so those counts are too high; consider igm: madau1995'
+                : 'no intergalactic attenuation is applied there (detection.igm is none), so those counts are too high; consider igm: madau1995'),
         ));
       }
     }
@@ -326,21 +338,46 @@ interface PopulationRun {
   name: string;
   own: SliceCount[];
   pred: PopulationPrediction;
+  /** With photometric redshifts: the counts by true redshift and the migration. */
+  photoZ?: PhotoZCount;
+}
+
+/** The photo_z block of the outputs (specs/prediction.schema.json, photo_z_migration). */
+function migrationJson(m: PhotoZMigration): PhotoZMigrationJson {
+  const last = m.measuredCounts.length - 1;
+  return {
+    sigma: m.sigma,
+    outlier_fraction: m.outlierFraction,
+    reach_sigma: PHOTO_Z_REACH_SIGMA,
+    true_range: { min: m.trueRange.min, max: m.trueRange.max },
+    true_bins: m.trueBins.map((b) => ({ z_min: b.min, z_max: b.max })),
+    measured_bins: m.measuredBins.map((b) => ({ ...(b.min !== null ? { z_min: b.min } : {}), ...(b.max !== null ? { z_max: b.max } : {}) })),
+    migration_matrix: m.matrix.map((row) => [...row]),
+    true_counts: [...m.trueCounts],
+    measured_counts: [...m.measuredCounts],
+    lost_count: m.measuredCounts[0]! + m.measuredCounts[last]!,
+  };
 }
 
 /** Every population over its own window and slice edges (with the engine's redshift profiles when uncertainties follow). */
 function countPopulations(survey: Survey, cosmo: FlatCosmology, units: string[], profiles: boolean, withModel: boolean): PopulationRun[] {
+  const d = survey.detection;
+  const withPhotoZ = d.kind !== 'line_flux' && d.photoZ !== undefined;
   return survey.populations.map((p, i) => {
-    const own = countPopulation(survey, p, cosmo, p.sliceEdges, { profile: profiles, nodes: withModel && p.modelUncertainty !== undefined });
+    const photoZ = withPhotoZ ? countPhotoZ(survey, p, cosmo, p.sliceEdges, { profile: profiles }) : undefined;
+    const own = photoZ ? photoZ.slices : countPopulation(survey, p, cosmo, p.sliceEdges, { profile: profiles, nodes: withModel && p.modelUncertainty !== undefined });
     const sfr = p.sfrConversion?.factor;
     const pred: PopulationPrediction = {
       name: p.name,
       model: describeModel(survey, p),
       window: { min: p.window.min, max: p.window.max },
       totals: totalsOf(own, survey.areaDeg2, units[i], sfr),
-      slices: toSlices(own, survey.areaDeg2, units[i]!, sfr),
+      slices: toSlices(own, survey.areaDeg2, units[i]!, sfr, photoZ?.trueCounts),
     };
-    return { name: p.name, own, pred };
+    if (photoZ) pred.photo_z = migrationJson(photoZ.migration);
+    const run: PopulationRun = { name: p.name, own, pred };
+    if (photoZ) run.photoZ = photoZ;
+    return run;
   });
 }
 
@@ -374,6 +411,7 @@ function summedSlices(survey: Survey, runs: PopulationRun[], units: string[]): {
       histogram,
       population_counts: Object.fromEntries(runs.map((r, k) => [r.name, parts[k]!.count])),
     };
+    if (runs.every((r) => r.photoZ)) slice.count_true_redshift = runs.reduce((a, r) => a + r.photoZ!.trueCounts[i]!, 0);
     const ld = sameUnit ? densityOf(sc.luminosity, first.volumeMpc3, units[0]!) : undefined;
     if (ld) slice.luminosity_density = ld;
     const sfr = sameUnit ? sfrSum(survey, parts.map((x) => x.luminosity), first.volumeMpc3, units) : undefined;
@@ -466,7 +504,9 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
     models: perPop.map((q) => q.model),
     limit_variable: limitVariable(survey, survey.populations[0]!),
   };
+  const migrations = runs.flatMap((r) => (r.photoZ && coincide ? [r.photoZ.migration] : []));
   const tail = {
+    ...(migrations.length > 0 ? { photo_z: migrationJson(sumMigrations(migrations)) } : {}),
     populations: perPop,
     observed_bins: observedBins(survey, runs),
     warnings: mergeWarnings(

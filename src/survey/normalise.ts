@@ -18,6 +18,7 @@ import { checkParam, fmt, makeZParam, mapParam, samplePoints, type ZTable } from
 import { readTransmissionFile } from './transmission-file.js';
 import { parseModelUncertainty } from './model-uncertainty.js';
 import type { ModelParameter } from '../model/model-uncertainty.js';
+import { photoZTrueRange, readPhotoZ, type RawPhotoZ } from './photo-z.js';
 import { readDetectionPhotometry, readPopulationPhotometry, type RawBand } from './photometry.js';
 import { readDetectionSelection, readPopulationSelection, type RawDetectionSelection, type RawPopulationSelection } from './selection-keys.js';
 import { filterRedshiftWindow, tableFwhm, tableMeanWavelength } from '../selection/filter.js';
@@ -82,6 +83,7 @@ interface RawSurvey {
     vega_to_ab?: number;
     filter?: { center?: Q; fwhm?: Q; profile?: FilterProfile; file?: string };
     completeness?: { model?: 'logistic' | 'table'; half?: Q; width?: number; table?: [number, number][] };
+    photo_z?: RawPhotoZ;
   };
   population?: RawPopulation;
   populations?: RawPopulation[];
@@ -100,8 +102,8 @@ export const DEFAULT_POPULATION_NAME = 'population';
 
 const DETECTION_KEYS: Record<DetectionKind, string[]> = {
   line_flux: ['kind', 'limit', 'line', 'filter', 'completeness', 'redshift_selection', 'equivalent_width_cut'],
-  magnitude: ['kind', 'limit', 'band', 'band_file', 'beta', 'igm', 'sed', 'system', 'vega_to_ab', 'completeness', 'redshift_selection'],
-  threshold: ['kind', 'limit', 'completeness', 'redshift_selection'],
+  magnitude: ['kind', 'limit', 'band', 'band_file', 'beta', 'igm', 'sed', 'system', 'vega_to_ab', 'completeness', 'redshift_selection', 'photo_z'],
+  threshold: ['kind', 'limit', 'completeness', 'redshift_selection', 'photo_z'],
 };
 
 type Window = { min: number; max: number };
@@ -762,11 +764,21 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   const windows = populationWindows(rawPops, lines, given, filter, file);
   const hull = hullOf(windows);
   const slices = readSlices(raw, windows, file);
-  const detection = readDetection(det, rawPops, detLine, filter, hull, file, base, inputs);
+  // Photometric redshifts: every value in z must make sense over the whole true range integrated.
+  const photoZ = det.photo_z && det.kind !== 'line_flux' ? readPhotoZ(det.photo_z, hull, slices.edges, file) : undefined;
+  const checkHull = photoZ ? photoZTrueRange(hull, photoZ) : hull;
+  const detection = readDetection(det, rawPops, detLine, filter, checkHull, file, base, inputs);
+  if (photoZ && detection.kind !== 'line_flux') detection.photoZ = photoZ;
+  const checkWindow = (i: number): Window => (photoZ ? photoZTrueRange(windows[i]!, photoZ) : windows[i]!);
   const populations = rawPops.map(({ raw: p, path }, i) => {
-    const pop = buildPopulation(p, path, i, rawPops.length, windows[i]!, slices.own[i]!, lines[i], file, { base, inputs });
+    const pop = buildPopulation(p, path, i, rawPops.length, checkWindow(i), slices.own[i]!, lines[i], file, { base, inputs });
+    if (photoZ && pop.modelUncertainty) {
+      // the model's draws redo the count on the plain prediction's redshift nodes, which photometric redshifts redistribute
+      throw inputError('conflict', file, `${path}.model_uncertainty`, 'cannot yet be combined with detection.photo_z', 'leave one of them out');
+    }
+    if (photoZ) pop.window = { min: windows[i]!.min, max: windows[i]!.max };
     const sed = detection.kind === 'magnitude' ? detection.sed : undefined;
-    const phot = readPopulationPhotometry(p, path, detection.kind, sed, windows[i]!, file, base, inputs);
+    const phot = readPopulationPhotometry(p, path, detection.kind, sed, checkWindow(i), file, base, inputs);
     pop.restWavelengthAngstrom = phot.restWavelengthAngstrom;
     if (phot.restBand) {
       pop.restBand = phot.restBand;
@@ -779,9 +791,9 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
     return pop;
   });
   populations.forEach((pop, i) =>
-    Object.assign(pop, readPopulationSelection(rawPops[i]!.raw, rawPops[i]!.path, detection.kind, detection.equivalentWidthCut !== undefined, windows[i]!, file)),
+    Object.assign(pop, readPopulationSelection(rawPops[i]!.raw, rawPops[i]!.path, detection.kind, detection.equivalentWidthCut !== undefined, checkWindow(i), file)),
   );
-  const histogramWidth = readHistogramWidth(raw, rawPops, detection, hull, file);
+  const histogramWidth = readHistogramWidth(raw, rawPops, detection, checkHull, file);
 
   const survey: Survey = {
     format: 1,
