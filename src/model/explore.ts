@@ -1,3 +1,5 @@
+import type { DepthLaw, LimitKind } from './plan.js';
+
 /** What the explore page shows for one survey text (src/library/explore/engine.ts makes it, src/render/explore/ draws it). */
 
 /** One live number of the page: `data-output` = name, `data-value` = value at full precision. */
@@ -71,4 +73,19 @@ export interface ControlSpec {
   scale: 'linear' | 'log';
   /** Where the range comes from: the population's model_uncertainty, or the page's default span. */
   range: 'model_uncertainty' | 'default';
+  /**
+   * A plan file's exposure per pointing (key `plan.exposure_per_pointing`, not a key of the file):
+   * it sets `area` (the whole pointings the budget buys) and `detection.limit` (the depth law).
+   */
+  plan?: ExposureControl;
+}
+
+/** What the exposure-per-pointing control needs to turn hours into an area and a limit. */
+export interface ExposureControl {
+  fieldOfViewDeg2: number;
+  overheadHours: number;
+  budgetHours: number;
+  maxPointings: number;
+  limitKind: LimitKind;
+  law: DepthLaw;
 }

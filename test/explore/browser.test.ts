@@ -183,6 +183,25 @@ describe.skipIf(!haveChromium)('explore page in headless chromium', () => {
       expectSameOutputs(await outputsOf(page), await writtenBack(`keyboard-${sample}`), 'after the keyboard');
     });
 
+    test.runIf(sample === 'narrowband-interlopers.yaml')('a plan file: the exposure per pointing sets the area and the limit; the page equals the commands on what it writes', async () => {
+      const plan = join(dir, 'plan.html');
+      const r = await runCli(['explore', 'samples/plan-halpha-layers.yaml', '--out', plan]);
+      expect(r.code, r.stderr).toBe(0);
+      const p = await context.newPage();
+      await p.goto(pathToFileURL(plan).href, { waitUntil: 'load' });
+      await p.waitForFunction(() => document.body.dataset.ready === 'true');
+      await p.click('#survey-panel summary');
+      await setControl(p, 'plan.exposure_per_pointing', 4);
+      // 80 h / (4 h + 0.1 h overhead) = 19 pointings of 0.2 deg^2; background-limited depth halves 6e-17 at 4 h (see page.test.ts)
+      expect(Number(await p.$eval('input[data-key="area"]', (e) => (e as unknown as Field).value))).toBeCloseTo(3.8, 12);
+      expect(Number(await p.$eval('input[data-key="detection.limit"]', (e) => (e as unknown as Field).value)) / 3e-17).toBeCloseTo(1, 12);
+      const text = (await p.textContent('#survey-yaml'))!;
+      const file = join(dir, 'plan-written.yaml');
+      writeFileSync(file, text);
+      expectSameOutputs(await outputsOf(p), await expectedOutputs(file), 'plan exposure');
+      await p.close();
+    });
+
     test('live outputs are announced (aria-live) and there was no console error and no request', async () => {
       expect(await page.getAttribute('#outputs', 'aria-live')).toBe('polite');
       expect(errors).toEqual([]);

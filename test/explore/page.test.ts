@@ -16,7 +16,7 @@ import { useExploreScript } from '../support/explore-script.js';
 import { expectedOutputs, expectSameOutputs } from './expected.js';
 import { loadSurveyText, parseSurveyObject } from '../../src/survey/load.js';
 import { parseYaml } from '../../src/survey/yaml.js';
-import { exploreControls, settingsObject, settingsText } from '../../src/library/explore/settings.js';
+import { EXPOSURE_KEY, exploreControls, exposureDesign, settingsObject, settingsText } from '../../src/library/explore/settings.js';
 import { predict } from '../../src/counts/predict.js';
 
 const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml'));
@@ -109,6 +109,24 @@ describe('controls', () => {
     delete raw.population.log10_phi_star;
     const p = exploreControls(raw, survey).find((x) => x.key === 'population.phi_star')!;
     expect(p.min / p.value).toBeCloseTo(10 ** -0.24, 12);
+  });
+
+  test('a plan file: the exposure per pointing buys whole pointings and reaches the depth law\'s limit', () => {
+    const plan = readFileSync('samples/plan-halpha-layers.yaml', 'utf8');
+    const c = exploreControls(parseYaml(plan, 'p'), loadSurveyText(plan, 'samples/plan-halpha-layers.yaml')).find((x) => x.key === EXPOSURE_KEY)!;
+    expect(c.plan).toBeDefined();
+    // the grid of the file: 0.03 to 40 h
+    expect(c.min).toBe(0.03);
+    expect(c.max).toBe(40);
+    // 80 h budget, 0.1 h overhead, 0.2 deg^2 per pointing: 4 h buys floor(80 / 4.1) = 19 pointings;
+    // background-limited depth: flux limit proportional to t^-1/2 (common practice), so 4 h
+    // reaches half the reference's 6e-17 at 1 h
+    const d = exposureDesign(c.plan!, 4);
+    expect(d.pointings).toBe(19);
+    expect(d.area).toBeCloseTo(19 * 0.2, 12);
+    expect(d.limit / 3e-17).toBeCloseTo(1, 12);
+    // the file's own limit (4e-17) is reached after (6/4)^2 = 2.25 h
+    expect(c.value).toBeCloseTo(2.25, 10);
   });
 
   test('a bad survey file: exit 2, one sentence naming the file, nothing written', async () => {

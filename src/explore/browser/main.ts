@@ -5,7 +5,7 @@
  * arrive while an update runs are folded into one more update with the latest values.
  */
 import type { ControlSpec } from '../../model/explore.js';
-import { settingsObject, settingsText } from '../../library/explore/settings.js';
+import { exposureDesign, settingsObject, settingsText } from '../../library/explore/settings.js';
 import { parseYaml } from '../../survey/yaml.js';
 import { exploreCompute } from '../../library/explore/engine.js';
 import { figuresHtml, fisherHtml, outputsHtml, slicesHtml, warningsHtml } from '../../render/explore/view.js';
@@ -106,25 +106,48 @@ function start(): void {
     }
   }
 
+  const fieldOf = (key: string) => document.querySelector(`input[data-key="${CSS.escape(key)}"]`) as InputElement | null;
+  const sliderOf = (key: string) => document.querySelector(`input[data-slider-for="${CSS.escape(key)}"]`) as InputElement | null;
+  /** Shows `v` in a control's field and slider (without firing anything). */
+  const show = (c: ControlSpec, v: number, field = fieldOf(c.key), slider = sliderOf(c.key)): void => {
+    if (field) field.value = String(v);
+    if (slider) slider.value = String(c.scale === 'log' ? Math.log10(v) : v);
+  };
+  /** A control set to `v`: a key of the file, or the exposure per pointing, which sets the area and the limit. */
+  const set = (c: ControlSpec, v: number): void => {
+    if (!c.plan) {
+      values.set(c.key, v);
+      return;
+    }
+    const design = exposureDesign(c.plan, v);
+    for (const [key, value] of [
+      ['area', design.area],
+      ['detection.limit', design.limit],
+    ] as const) {
+      values.set(key, value);
+      const other = data.controls.find((x) => x.key === key);
+      if (other) show(other, value);
+    }
+  };
   for (const c of data.controls) {
-    const field = document.querySelector(`input[data-key="${CSS.escape(c.key)}"]`) as InputElement | null;
-    const slider = document.querySelector(`input[data-slider-for="${CSS.escape(c.key)}"]`) as InputElement | null;
+    const field = fieldOf(c.key);
+    const slider = sliderOf(c.key);
     if (!field || !slider) continue;
     field.addEventListener('input', () => {
       const v = field.value.trim() === '' ? NaN : Number(field.value);
-      if (!Number.isFinite(v)) {
-        status.textContent = `${c.label}: type a number.`;
+      if (!Number.isFinite(v) || (c.plan && !(v > 0))) {
+        status.textContent = `${c.label}: type a ${c.plan ? 'positive ' : ''}number.`;
         return;
       }
-      values.set(c.key, v);
-      slider.value = String(c.scale === 'log' ? Math.log10(v) : v);
+      show(c, v, null, slider);
+      set(c, v);
       void update();
     });
     slider.addEventListener('input', () => {
       const s = Number(slider.value);
       const v = Number((c.scale === 'log' ? 10 ** s : s).toPrecision(6));
-      field.value = String(v);
-      values.set(c.key, v);
+      show(c, v, field, null);
+      set(c, v);
       void update();
     });
   }

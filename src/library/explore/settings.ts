@@ -7,7 +7,9 @@
 import { parseDocument } from 'yaml';
 import type { Survey } from '../../model/survey.js';
 import { FULL_SKY_DEG2 } from '../../model/sky.js';
-import type { ControlSpec } from '../../model/explore.js';
+import type { ControlSpec, ExposureControl } from '../../model/explore.js';
+import { readPlanSection } from '../../survey/plan-section.js';
+import { makeDepthModel } from '../../planning/depth.js';
 
 export type { ControlSpec };
 
@@ -106,6 +108,8 @@ export function exploreControls(raw: unknown, survey: Survey): ControlSpec[] {
       controls[controls.length - 1]!.step = 1;
     }
   }
+  const exposure = exposureControl(file, survey);
+  if (exposure) controls.push(exposure);
   const entries: [unknown, (string | number)[]][] = isRecord(file.population)
     ? [[file.population, ['population']]]
     : Array.isArray(file.populations)
@@ -131,6 +135,49 @@ export function exploreControls(raw: unknown, survey: Survey): ControlSpec[] {
   return controls;
 }
 
+/** The key of the exposure-per-pointing control (a page control, not a key of the file). */
+export const EXPOSURE_KEY = 'plan.exposure_per_pointing';
+
+/**
+ * A plan file's exposure per pointing, from the grid's shortest exposure to its longest that
+ * leaves one pointing in the budget; none when the plan fixes the area or the depth, or the file's
+ * plan section is not one `plan` accepts.
+ */
+function exposureControl(file: Raw, survey: Survey): ControlSpec | undefined {
+  if (!isRecord(file.plan) || survey.detection.kind === 'threshold') return undefined;
+  let spec;
+  try {
+    spec = readPlanSection(survey, survey.populations[0]!);
+  } catch {
+    return undefined;
+  }
+  if (spec.fixed) return undefined;
+  const plan: ExposureControl = {
+    fieldOfViewDeg2: spec.fieldOfViewDeg2,
+    overheadHours: spec.overheadHours,
+    budgetHours: spec.budgetHours,
+    maxPointings: Math.max(1, Math.floor(FULL_SKY_DEG2 / spec.fieldOfViewDeg2 + 1e-9)),
+    limitKind: spec.limitKind,
+    law: spec.depthLaw,
+  };
+  const min = spec.grid.minHours;
+  const max = Math.min(spec.grid.maxHours, spec.budgetHours - spec.overheadHours);
+  if (!(max > min)) return undefined;
+  const d = survey.detection;
+  const limit = d.kind === 'magnitude' ? d.limitMag : d.kind === 'line_flux' ? d.limitCgs : NaN;
+  const value = Math.min(max, Math.max(min, makeDepthModel(plan.limitKind, plan.law).hoursFor(limit)));
+  return { key: EXPOSURE_KEY, path: [], label: 'Exposure per pointing (sets the area and the limit)', unit: 'hours', value, min, max, step: stepFor(value), scale: 'log', range: 'default', plan };
+}
+
+/**
+ * The design an exposure per pointing gives: as many whole pointings as the budget buys (at
+ * most the whole sky), and the limit the depth law reaches (docs/survey-file.md, "The plan section").
+ */
+export function exposureDesign(plan: ExposureControl, hours: number): { area: number; limit: number; pointings: number } {
+  const pointings = Math.max(1, Math.min(plan.maxPointings, Math.floor(plan.budgetHours / (hours + plan.overheadHours) + 1e-9)));
+  return { pointings, area: pointings * plan.fieldOfViewDeg2, limit: makeDepthModel(plan.limitKind, plan.law).limitAt(hours) };
+}
+
 /**
  * The parsed survey file with the given settings: a copy of `raw` (the file as the loader's YAML
  * reader gives it) with those values replaced. The loader reads it exactly as it reads
@@ -142,7 +189,7 @@ export function settingsObject(raw: unknown, controls: readonly ControlSpec[], v
   const copy = structuredClone(raw) as Raw;
   for (const c of controls) {
     const v = values.get(c.key);
-    if (v === undefined || !Number.isFinite(v)) continue;
+    if (v === undefined || !Number.isFinite(v) || c.plan) continue;
     let node: unknown = copy;
     for (const step of c.path.slice(0, -1)) node = (node as Record<string | number, unknown>)[step];
     (node as Record<string | number, unknown>)[c.path[c.path.length - 1]!] = v;
@@ -162,7 +209,7 @@ export function settingsText(original: string, controls: readonly ControlSpec[],
   const doc = parseDocument(original.replace(/^\uFEFF/, ''), YAML_OPTIONS);
   for (const c of controls) {
     const v = values.get(c.key);
-    if (v !== undefined && Number.isFinite(v)) doc.setIn(c.path, v);
+    if (v !== undefined && Number.isFinite(v) && !c.plan) doc.setIn(c.path, v);
   }
   return doc.toString({ lineWidth: 0 });
 }
