@@ -7,6 +7,7 @@
 import { execFileSync } from 'node:child_process';
 import { rmSync } from 'node:fs';
 import { build } from 'esbuild';
+import { bundleExplorePage } from './explore-bundle.mjs';
 
 rmSync('dist', { recursive: true, force: true });
 execFileSync(
@@ -36,3 +37,6 @@ await build({
   },
   logLevel: 'warning',
 });
+// The explore page's script (src/explore/browser/main.ts with the engine), for browsers: inlined
+// into every page `skytally explore` writes (scripts/explore-bundle.mjs).
+await bundleExplorePage('dist/explore-page.js');

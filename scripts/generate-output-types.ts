@@ -71,10 +71,11 @@ const NAMES: Record<string, string> = {
   ztable: 'ZTable',
   range: 'RedshiftRange',
   completeness: 'CompletenessBlock',
+  selection: 'SelectionBlock',
 };
 
 /** Definitions several outputs hold: written once, in shared.ts. */
-const SHARED = ['cosmology', 'model', 'parameter', 'ztable', 'range', 'completeness'];
+const SHARED = ['cosmology', 'model', 'parameter', 'ztable', 'range', 'completeness', 'selection'];
 
 /** References to other outputs' schemas (the report's sections) and the types they stand for. */
 const OTHER_OUTPUTS: Record<string, { type: string; module: string }> = {

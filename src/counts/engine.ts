@@ -20,6 +20,7 @@ import type { Survey } from '../model/survey.js';
 import { gaussLegendreRule, panelNodes, type PanelNodes } from '../numerics/quadrature.js';
 import { upperGamma } from '../numerics/gamma.js';
 import { makeObserver, type HistogramVariable, type Observer } from '../selection/observe.js';
+import { selectionEffects } from '../selection/effects.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
 import { completenessQuadrature, type CompletenessQuadrature } from './completeness-quadrature.js';
 import { luminosityScale, populationAt, type ParameterOffsets } from '../population/model.js';
@@ -160,6 +161,27 @@ export function chooseRedshiftNodes(
   return prev;
 }
 
+/**
+ * Gauss-Legendre nodes over [cuts[0], cuts[last]], each piece between consecutive cuts chosen by
+ * convergence of `f` (one piece: exactly chooseRedshiftNodes). With several pieces, each converges
+ * to 1e-8 of its own integral or 1e-9 of the whole (a piece holding almost nothing need not converge
+ * alone), starting from 2 nodes.
+ */
+export function piecewiseRedshiftNodes(cuts: readonly number[], f: (z: number) => number): { z: number[]; w: number[] } {
+  if (cuts.length === 2) return chooseRedshiftNodes(cuts[0]!, cuts[1]!, f);
+  let estimate = 0;
+  for (let k = 0; k + 1 < cuts.length; k++) estimate += sumOver(redshiftNodes(cuts[k]!, cuts[k + 1]!, 8), f);
+  const abs = 1e-9 * Math.abs(estimate);
+  const z: number[] = [];
+  const w: number[] = [];
+  for (let k = 0; k + 1 < cuts.length; k++) {
+    const piece = chooseRedshiftNodes(cuts[k]!, cuts[k + 1]!, f, 1e-8, 2, abs);
+    z.push(...piece.z);
+    w.push(...piece.w);
+  }
+  return { z, w };
+}
+
 function sumOver(nodes: { z: number[]; w: number[] }, f: (z: number) => number): number {
   let s = 0;
   for (let i = 0; i < nodes.z.length; i++) s += nodes.w[i]! * f(nodes.z[i]!);
@@ -174,7 +196,10 @@ interface NodeState {
   log10ULimit: number;
   /** The limit in obs (the same at every node for flux and magnitude limits). */
   obsLimit: number;
+  /** The components at z with phi* times the selection weight S(z) E(z) (src/selection/effects.ts): what is detected. */
   components: { phiStar: number; alpha: number }[];
+  /** The components as the luminosity function gives them (all sources, before any selection). */
+  allComponents: { phiStar: number; alpha: number }[];
   /** What u = 1 stands for in luminosity-density units (L*, or L*_nu for a magnitude variable). */
   lumScale: number;
 }
@@ -271,7 +296,7 @@ function sliceLuminosity(
   let detected = 0;
   let total: number | undefined = 0;
   for (const nd of nodes) {
-    const jTot = componentsTotalLuminosity(nd.components);
+    const jTot = componentsTotalLuminosity(nd.allComponents);
     if (jTot === undefined) total = undefined;
     else if (total !== undefined) total += nd.volumeWeight * nd.lumScale * jTot;
     if (!Number.isFinite(nd.log10ULimit) || detectedWithCompleteness !== undefined) continue;
@@ -403,6 +428,7 @@ function buildNodes(
   hi: number,
   offsets?: ParameterOffsets,
 ): NodeState[] {
+  const effects = selectionEffects(survey.detection, population);
   const hardCount = (zi: number): number => {
     const p = populationAt(population, zi, offsets);
     const obs = observer.at(zi, p.characteristic);
@@ -410,40 +436,28 @@ function buildNodes(
     const u = 10 ** obs.log10ULimit;
     let n = 0;
     for (const c of p.components) n += c.phiStar * upperGamma(c.alpha + 1, u);
-    return cosmo.volumeElementMpc3Sr(zi) * n;
+    return cosmo.volumeElementMpc3Sr(zi) * n * effects.weight(zi);
   };
   // Piecewise in z between the redshifts where the integrand has a kink (a threshold limit's
-  // table nodes, and where the limit crosses a histogram bin edge), each piece by convergence.
-  const inner = [...limitBreaks(survey, lo, hi), ...filterBreaks(survey, population, lo, hi)].sort((x, y) => x - y);
-  const cuts = [lo, ...inner, hi];
-  const z: number[] = [];
-  const w: number[] = [];
-  // With several pieces, each converges to 1e-8 of its own integral or 1e-9 of the whole slice's
-  // (a piece where the transmission falls to 0 holds almost nothing and need not converge alone).
-  let abs = 0;
-  if (inner.length > 0) {
-    let estimate = 0;
-    for (let k = 0; k + 1 < cuts.length; k++) estimate += sumOver(redshiftNodes(cuts[k]!, cuts[k + 1]!, 8), hardCount);
-    abs = 1e-9 * Math.abs(estimate);
-  }
-  for (let k = 0; k + 1 < cuts.length; k++) {
-    // Between breaks the integrand is smooth: start from 2 nodes when there are many pieces.
-    const piece = chooseRedshiftNodes(cuts[k]!, cuts[k + 1]!, hardCount, 1e-8, inner.length > 0 ? 2 : undefined, abs);
-    z.push(...piece.z);
-    w.push(...piece.w);
-  }
+  // table nodes, where the limit crosses a histogram bin edge, a tabulated filter's rows, the
+  // nodes of a selection or attenuation table), each piece by convergence.
+  const inner = [...limitBreaks(survey, lo, hi), ...filterBreaks(survey, population, lo, hi), ...effects.breaks(lo, hi)].sort((x, y) => x - y);
+  const { z, w } = piecewiseRedshiftNodes([lo, ...inner, hi], hardCount);
   const nodes: NodeState[] = [];
   for (let i = 0; i < z.length; i++) {
     const zi = z[i]!;
     const p = populationAt(population, zi, offsets);
     const obs = observer.at(zi, p.characteristic);
+    const weight = effects.weight(zi);
     nodes.push({
       z: zi,
       volumeWeight: survey.areaSr * cosmo.volumeElementMpc3Sr(zi) * w[i]!,
       a: obs.a,
-      log10ULimit: obs.log10ULimit,
+      // nothing kept at this z: no detection (as a zero transmission)
+      log10ULimit: weight > 0 ? obs.log10ULimit : Infinity,
       obsLimit: obs.obsLimit,
-      components: p.components,
+      components: weight === 1 ? p.components : p.components.map((c) => ({ phiStar: c.phiStar * weight, alpha: c.alpha })),
+      allComponents: p.components,
       lumScale: luminosityScale(population.variable, p.characteristic),
     });
   }

@@ -65,6 +65,14 @@ export function detectionJson(survey: Survey): PredictionBase['detection'] {
   } else if (d.kind === 'magnitude') {
     const b: MagnitudeDetectionBlock = { kind: 'magnitude', limit_ab_mag: d.limitMag, band_angstrom: d.bandAngstrom, beta: d.beta, igm: d.igm };
     if (d.bandTable) b.band_file = d.bandTable.file;
+    if (d.magnitudeSystem) {
+      b.system = d.magnitudeSystem.system;
+      b.vega_to_ab = d.magnitudeSystem.vegaToAb;
+    }
+    if (d.sed) {
+      b.sed_file = d.sed.spectrum.file;
+      b.band = { profile: d.sed.band.profile, center_angstrom: d.sed.band.centerAngstrom, fwhm_angstrom: d.sed.band.fwhmAngstrom };
+    }
     out = b;
   } else {
     out = { kind: 'threshold', limit: d.limit.source };

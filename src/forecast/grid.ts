@@ -5,7 +5,9 @@
  *
  *   lambda(z, t) dz dt = area_sr dV_C/dz/dOmega(z) phi*(z) u^(alpha(z)+1) exp(-u) c(obs(z, t)) dz dt
  *
- * with u = L/L*(z) (or 10^(0.4 (M*(z) - M))) at the INPUT parameters, t >= t_lim(z) (the hard limit).
+ * with u = L/L*(z) (or 10^(0.4 (M*(z) - M))) at the INPUT parameters, t >= t_lim(z) (the hard limit),
+ * times the selection weight S(z) E(z) (redshift selection and equivalent-width cut, src/selection/effects.ts),
+ * which enters like a completeness that depends on z only.
  * z: the count engine's Gauss-Legendre nodes for each slice (`chooseRedshiftNodes`), so the grid's slice
  * totals are the engine's counts. t: 8-point Gauss-Legendre panels no wider than 0.6 (and no wider
  * than the logistic completeness width), split at completeness break points, from t_lim to
@@ -22,10 +24,11 @@ import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Completeness, DetectionKind } from '../model/detection.js';
 import type { Population, PopulationVariable } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
-import { chooseRedshiftNodes } from '../counts/engine.js';
+import { piecewiseRedshiftNodes } from '../counts/engine.js';
 import { upperGamma } from '../numerics/gamma.js';
 import { panelNodes, type PanelNodes } from '../numerics/quadrature.js';
 import { makeObserver } from '../selection/observe.js';
+import { selectionEffects } from '../selection/effects.js';
 import { completenessBreaks, completenessFunction } from '../selection/completeness.js';
 import { populationAt } from '../population/model.js';
 import { characteristicShift } from './parameters.js';
@@ -67,6 +70,8 @@ export interface DensityGrid {
 /** Tabulate the density of detected sources of `population` on `edges`. */
 export function buildDensityGrid(survey: Survey, population: Population, cosmo: FlatCosmology, edges: readonly number[]): DensityGrid {
   const observer = makeObserver(survey.detection, population, cosmo);
+  // The redshift selection and the equivalent-width cut multiply the density like a completeness.
+  const effects = selectionEffects(survey.detection, population);
   const comp = survey.detection.completeness;
   const cfn = comp ? completenessFunction(comp, survey.detection.kind, population.variable) : undefined;
   const breaks = comp ? completenessBreaks(comp, survey.detection.kind) : undefined;
@@ -108,18 +113,19 @@ export function buildDensityGrid(survey: Survey, population: Population, cosmo: 
         const u = 10 ** obs.log10ULimit;
         let n = 0;
         for (const c of p.components) n += c.phiStar * upperGamma(c.alpha + 1, u);
-        return cosmo.volumeElementMpc3Sr(zi) * n;
+        return cosmo.volumeElementMpc3Sr(zi) * n * effects.weight(zi);
       };
-      const { z, w } = chooseRedshiftNodes(lo, hi, hardCount);
+      const { z, w } = piecewiseRedshiftNodes([lo, ...effects.breaks(lo, hi), hi], hardCount);
       for (let i = 0; i < z.length; i++) {
         const zi = z[i]!;
         const { p, obs } = at(zi);
-        if (!Number.isFinite(obs.log10ULimit)) continue;
+        const kept = effects.weight(zi);
+        if (!Number.isFinite(obs.log10ULimit) || !(kept > 0)) continue;
         const c0 = p.components[0]!;
         const tLim = LN10 * obs.log10ULimit;
         const uLim = Math.exp(tLim);
         const tMax = Math.log((uLim > 1 ? uLim : 1) + U_BRIGHT_SPAN);
-        const logV = Math.log(survey.areaSr * cosmo.volumeElementMpc3Sr(zi) * w[i]! * c0.phiStar);
+        const logV = Math.log(survey.areaSr * cosmo.volumeElementMpc3Sr(zi) * w[i]! * c0.phiStar * kept);
         const a1 = c0.alpha + 1;
         // Panel cuts: the ends and completeness break points in between.
         const cuts = [tLim, tMax];

@@ -1,5 +1,7 @@
 /** How a survey detects its sources: the detection kinds, filters and bands, completeness. */
 import type { ZParam } from './zparam.js';
+import type { MagnitudeSystemGiven, SedPhotometry } from './photometry.js';
+import type { DetectionSelection } from './selection.js';
 
 export type FilterProfile = 'tophat' | 'gaussian' | 'table';
 
@@ -38,7 +40,8 @@ export type Completeness =
  * as -log10 of it, and table x as -log10 flux, sorted ascending), log10 quantity or absolute
  * magnitude (threshold kind). Completeness falls as x grows in every kind.
  */
-export type Detection =
+export type Detection = DetectionSelection &
+  (
   | {
       kind: 'line_flux';
       limitCgs: number; // erg s^-1 cm^-2, faintest line flux counted (at peak transmission)
@@ -48,17 +51,21 @@ export type Detection =
     }
   | {
       kind: 'magnitude';
-      limitMag: number; // apparent AB magnitude
+      limitMag: number; // apparent AB magnitude (a Vega limit converted once; completeness too)
       bandAngstrom: number; // effective wavelength of the band (from band_file when band is not given)
       beta: number; // f_lambda ~ lambda^beta
       igm: IgmModel; // default 'none'
+      igmStated?: boolean; // true when the file gives detection.igm (a warning asks for it near Lyman alpha)
       bandTable?: TransmissionTable; // detection.band_file: the band's transmission curve
+      sed?: SedPhotometry; // detection.sed: k-corrections by synthetic photometry instead of beta
+      magnitudeSystem?: MagnitudeSystemGiven; // detection.system vega: how the limit was given
       completeness?: Completeness;
     }
   | {
       kind: 'threshold';
       limit: ZParam; // log10 quantity (luminosity variable) or absolute magnitude (magnitude variable)
       completeness?: Completeness;
-    };
+    }
+  );
 
 export type DetectionKind = Detection['kind'];

@@ -73,6 +73,16 @@ export const RANGES = {
   exposureHours: { min: 1e-6, max: 1e6, unit: 'h' },
   /** A star-formation-rate factor, Msun/yr per erg/s (or per erg/s/Hz). */
   sfrFactor: { min: 1e-60, max: 1e10, unit: '' },
+  /** A fraction kept by a selection (redshift_selection, equivalent-width fractions). */
+  fraction: { min: 0, max: 1, unit: '' },
+  /** Flux of blended neighbouring lines relative to the line. */
+  blendRatio: { min: 0, max: 10, unit: '' },
+  /** Dust attenuation. */
+  attenuation: { min: 0, max: 20, unit: 'mag' },
+  /** A rest-frame or observed equivalent width (a cut may be 0). */
+  equivalentWidth: { min: 0, max: 1e5, unit: 'Angstrom' },
+  /** Width of a lognormal equivalent-width distribution. */
+  sigmaDex: { min: 1e-3, max: 5, unit: 'dex' },
 } as const satisfies Record<string, Range>;
 
 /** "from -4 to 4", "from 1e-30 to 1e-5 erg/s/cm^2". */

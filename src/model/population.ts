@@ -1,5 +1,8 @@
 /** The assumed population: Schechter parameters that may vary with z, bias, window and slices. */
 import type { ZParam } from './zparam.js';
+import type { Filter } from './detection.js';
+import type { MagnitudeSystemGiven } from './photometry.js';
+import type { PopulationSelection } from './selection.js';
 
 export type PopulationVariable = 'luminosity' | 'magnitude';
 
@@ -20,7 +23,7 @@ export interface SfrConversion {
   factor: number;
 }
 
-export interface SchechterPopulation {
+export interface SchechterPopulation extends PopulationSelection {
   name: string;
   /** schechter: one component; double_schechter: two components sharing L* (or M*). */
   shape: 'schechter' | 'double_schechter';
@@ -39,8 +42,16 @@ export interface SchechterPopulation {
   alpha: ZParam;
   /** Rest wavelength of the emission line (line_flux kind), Angstrom. */
   lineAngstrom?: number;
-  /** Rest wavelength at which absolute magnitudes are defined (magnitude kind), Angstrom. */
+  /** Rest wavelength at which absolute magnitudes are defined (magnitude kind), Angstrom; with restBand its center. */
   restWavelengthAngstrom: number;
+  /** rest_band: absolute magnitudes are AB in this rest-frame band (needs detection.sed). */
+  restBand?: Filter;
+  /** system vega: how m_star was given (mStar itself holds AB, converted once). */
+  magnitudeSystem?: MagnitudeSystemGiven;
+  /** True when rest_wavelength was left at its default (a warning checks it against the band). */
+  restWavelengthDefault?: boolean;
+  /** The normalisation key the file used (phi_star, log10_phi_star, phi_star_dex, ...; _1 for double). */
+  normalisationKey?: string;
   /** "auto" or a value (number, table, expression) of the galaxy bias. */
   bias: 'auto' | ZParam;
   /** Fraction (0, 1] of haloes above the matched mass hosting a detected galaxy. */

@@ -8,6 +8,7 @@ import type { Survey } from '../model/survey.js';
 import type { ZParam } from '../model/zparam.js';
 import type { ModelDescription, ParameterDescription } from '../model/outputs/shared.js';
 import { compact } from '../render/format.js';
+import { describeSelection } from '../selection/describe.js';
 
 /** A parameter as written and at redshift z (the window's middle). */
 function parameterAt(p: ZParam, z: number): ParameterDescription {
@@ -15,6 +16,14 @@ function parameterAt(p: ZParam, z: number): ParameterDescription {
 }
 
 const fmt = (x: number): string => compact(x, 4);
+
+/** Where the absolute magnitudes are defined, for the summary: a rest band, or (with a spectrum) the rest wavelength. */
+function restFrameWords(survey: Survey, p: Population): string {
+  if (survey.detection.kind !== 'magnitude') return '';
+  const b = p.restBand;
+  if (b) return b.table ? ` in the rest band ${b.table.file}` : ` in a rest-frame ${b.profile} band at ${fmt(b.centerAngstrom)} A (fwhm ${fmt(b.fwhmAngstrom)} A)`;
+  return survey.detection.sed ? ` at rest ${fmt(p.restWavelengthAngstrom)} A, k-corrected with the spectrum ${survey.detection.sed.spectrum.file}` : '';
+}
 
 export function describeModel(survey: Survey, p: Population): ModelDescription {
   const zMid = 0.5 * (p.window.min + p.window.max);
@@ -26,6 +35,7 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
     phi_star_mpc3: parameterAt(p.phiStar, zMid),
     alpha: parameterAt(p.alpha, zMid),
     summary: '',
+    selection: describeSelection(survey.detection, p),
   };
   if (p.quantity) d.quantity = p.quantity;
   if (p.components.length > 1) {
@@ -43,12 +53,24 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
   if (p.lStar) d.l_star = parameterAt(p.lStar, zMid);
   if (p.mStar) d.m_star = parameterAt(p.mStar, zMid);
   if (survey.detection.kind === 'line_flux') d.line_angstrom = p.lineAngstrom ?? survey.detection.lineAngstrom;
-  if (survey.detection.kind === 'magnitude') d.rest_wavelength_angstrom = p.restWavelengthAngstrom;
+  const det = survey.detection;
+  if (det.kind === 'magnitude') {
+    d.rest_wavelength_angstrom = p.restWavelengthAngstrom;
+    if (p.restBand) {
+      d.rest_band = { profile: p.restBand.profile, center_angstrom: p.restBand.centerAngstrom, fwhm_angstrom: p.restBand.fwhmAngstrom };
+      if (p.restBand.table) d.rest_band.file = p.restBand.table.file;
+    }
+    d.k_correction = det.sed ? { method: 'spectrum', spectrum_file: det.sed.spectrum.file } : { method: 'power_law', beta: det.beta };
+  }
+  if (p.variable === 'magnitude') {
+    d.magnitude_system = { stated: 'ab', m_star_given: p.magnitudeSystem?.system ?? 'ab' };
+    if (p.magnitudeSystem) d.magnitude_system.vega_to_ab = p.magnitudeSystem.vegaToAb;
+  }
   const evolving = p.components.some((c) => !c.phiStar.constant || !c.alpha.constant) || !(p.lStar ?? p.mStar)!.constant;
   const knee =
     p.variable === 'luminosity'
       ? `L* = ${fmt(p.lStar!.at(zMid))}${survey.detection.kind === 'threshold' ? (p.quantity ? ` (${p.quantity})` : '') : ' erg/s'}`
-      : `M* = ${fmt(p.mStar!.at(zMid))} AB`;
+      : `M* = ${fmt(p.mStar!.at(zMid))} AB${p.magnitudeSystem ? ` (given in Vega, AB = Vega ${p.magnitudeSystem.vegaToAb < 0 ? '-' : '+'} ${fmt(Math.abs(p.magnitudeSystem.vegaToAb))})` : ''}${restFrameWords(survey, p)}`;
   const tail = evolving ? ` (evolving; values at z = ${fmt(zMid)})` : '';
   if (p.components.length > 1) {
     const parts = p.components.map((c, i) => `phi${i + 1}* = ${fmt(c.phiStar.at(zMid))} Mpc^-3, alpha${i + 1} = ${fmt(c.alpha.at(zMid))}`);

@@ -7,6 +7,7 @@ import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { warning, type Warning } from '../warnings.js';
 import { exponential, precise } from '../render/format.js';
+import { selectionWarnings } from '../selection/warnings.js';
 
 /**
  * Below this a line or continuum luminosity [erg/s] is implausible for a galaxy: the faintest
@@ -69,5 +70,5 @@ export function luminosityWarnings(survey: Survey): Warning[] {
 
 /** Every warning about the survey file itself (before any count). */
 export function surveyWarnings(survey: Survey): Warning[] {
-  return luminosityWarnings(survey);
+  return [...luminosityWarnings(survey), ...selectionWarnings(survey)];
 }

@@ -10,6 +10,8 @@
  *        between rows, 0 outside the table; the window is where it is above 0.
  */
 import type { Filter, TransmissionTable } from '../model/detection.js';
+import type { RestFrame, SedPhotometry } from '../model/photometry.js';
+import { inputError } from '../errors.js';
 
 export const GAUSSIAN_HALF_RANGE_FWHM = 1.5;
 const FWHM_TO_SIGMA = 1 / (2 * Math.sqrt(2 * Math.LN2));
@@ -101,4 +103,64 @@ export function tableFwhm(t: TransmissionTable): number {
     if (tr[k - 1]! >= 0.5) { hi = cross(k - 1); break; }
   }
   return hi - lo;
+}
+
+/*
+ * Bands for synthetic photometry (detection.sed, src/selection/kcorrection.ts): unlike a line's
+ * filter, a gaussian band is untruncated, integrated over center +- 3 fwhm (outside lies less than
+ * 2e-12 of its throughput); a top-hat is 1 on center +- fwhm/2; a table is linear, 0 outside.
+ */
+/** A gaussian band is integrated over center +- this many fwhm. */
+export const GAUSSIAN_BAND_REACH_FWHM = 3;
+
+/** The band's response R(lambda) for synthetic photometry (the gaussian untruncated). */
+export function bandResponse(band: Filter, l: number): number {
+  if (band.profile === 'table') return tableTransmission(band.table!, l);
+  const d = l - band.centerAngstrom;
+  if (band.profile === 'tophat') return Math.abs(d) <= band.fwhmAngstrom / 2 ? 1 : 0;
+  const s = band.fwhmAngstrom * FWHM_TO_SIGMA;
+  return Math.exp(-(d * d) / (2 * s * s));
+}
+
+/** [lo, hi] over which a band is integrated. */
+export function bandSupport(band: Filter): [number, number] {
+  if (band.profile === 'table') return tableRange(band.table!);
+  const half = band.profile === 'tophat' ? band.fwhmAngstrom / 2 : GAUSSIAN_BAND_REACH_FWHM * band.fwhmAngstrom;
+  return [band.centerAngstrom - half, band.centerAngstrom + half];
+}
+
+/** The rest-frame wavelengths [lo, hi] a K-correction at z needs of the spectrum. */
+export function restRangeNeeded(sed: SedPhotometry, rest: RestFrame, z: number): [number, number] {
+  const [lo, hi] = bandSupport(sed.band);
+  let a = lo / (1 + z);
+  let b = hi / (1 + z);
+  if (rest.kind === 'wavelength') {
+    a = Math.min(a, rest.angstrom);
+    b = Math.max(b, rest.angstrom);
+  } else {
+    const [qa, qb] = bandSupport(rest.band);
+    a = Math.min(a, qa);
+    b = Math.max(b, qb);
+  }
+  return [a, b];
+}
+
+/** Refuse (exit 2, naming detection.sed) a redshift range whose K-correction needs wavelengths the spectrum lacks. */
+export function checkSpectrumCoverage(sed: SedPhotometry, rest: RestFrame, zMin: number, zMax: number): void {
+  const sp = sed.spectrum;
+  const min = sp.wavelengthAngstrom[0]!;
+  const max = sp.wavelengthAngstrom[sp.wavelengthAngstrom.length - 1]!;
+  const [a] = restRangeNeeded(sed, rest, zMax);
+  const [, b] = restRangeNeeded(sed, rest, zMin);
+  const tol = 1e-12;
+  if (a < min * (1 - tol) || b > max * (1 + tol)) {
+    const r = (x: number): string => String(Number(x.toPrecision(6)));
+    throw inputError(
+      'out_of_range',
+      sed.surveyFile,
+      'detection.sed',
+      `the spectrum "${sp.file}" covers rest-frame ${r(min)} to ${r(max)} Angstrom, but the band and the rest frame at z = ${r(zMin)} to ${r(zMax)} need ${r(a)} to ${r(b)} Angstrom`,
+      'give a spectrum covering those wavelengths, or a narrower redshift range',
+    );
+  }
 }

@@ -6,6 +6,9 @@
  *
  * line_flux  (slope +1):   obs = log10 measured line flux [erg s^-1 cm^-2]
  *                          = log10 u + log10(L* T(line (1+z)) / (4 pi D_L^2))
+ * Blending (1 + b) and dust (A(z) mag) of src/selection/effects.ts add log10(1 + b) - 0.4 A(z) to a(z)
+ * of a line flux and A(z) to K(z) below; the limit in the population's variable is then intrinsic.
+ *
  * magnitude  (slope -2.5): obs = apparent AB magnitude = M* - 2.5 log10 u + K(z), where
  *                          K(z) = 5 log10(D_L / 10 pc) - 2.5 log10(1+z)
  *                                 - 2.5 (beta+2) log10(band / ((1+z) rest_wavelength))
@@ -14,6 +17,8 @@
  *                          T_IGM = 1 unless detection.igm is madau1995 (src/selection/igm.ts): then the
  *                          Madau 1995 mean transmission at the band's effective wavelength, or averaged
  *                          over detection.band_file when given.
+ *                          With detection.sed, K(z) = 5 log10(D_L / 10 pc) + K_QR(z), K_QR by synthetic
+ *                          photometry of the spectrum (src/selection/kcorrection.ts, the IGM inside it).
  * threshold  (slope +1 for a luminosity variable: obs = log10 quantity; -2.5 for a magnitude
  *             variable: obs = absolute magnitude).
  *
@@ -26,6 +31,9 @@ import type { Population } from '../model/population.js';
 import { MPC_CM } from '../cosmology/constants.js';
 import { transmission } from './filter.js';
 import { bandAveragedMadau1995, madau1995Transmission } from './igm.js';
+import { sedKCorrection } from './kcorrection.js';
+import type { RestFrame } from '../model/photometry.js';
+import { selectionEffects } from './effects.js';
 
 export type HistogramVariable = 'apparent_magnitude' | 'log10_line_flux' | 'log10_quantity' | 'absolute_magnitude';
 
@@ -54,6 +62,8 @@ const FOUR_PI = 4 * Math.PI;
 const TEN_PC_MPC = 1e-5;
 
 export function makeObserver(detection: Detection, population: Population, cosmo: FlatCosmology): Observer {
+  // Blending and attenuation move obs (src/selection/effects.ts); 0 without them.
+  const shift = selectionEffects(detection, population).obsShift;
   switch (detection.kind) {
     case 'line_flux': {
       const line = population.lineAngstrom ?? detection.lineAngstrom;
@@ -67,14 +77,15 @@ export function makeObserver(detection: Detection, population: Population, cosmo
           const dlCm = cosmo.luminosityDistanceMpc(z) * MPC_CM;
           const t = filter ? transmission(filter, line * (1 + z)) : 1;
           const log10Area = Math.log10(FOUR_PI * dlCm * dlCm);
-          const a = Math.log10(lStar) + Math.log10(t) - log10Area;
+          const dObs = shift(z);
+          const a = Math.log10(lStar) + Math.log10(t) - log10Area + dObs;
           const log10U = t > 0 ? log10Limit - a : Infinity;
           return {
             a,
             slope: 1,
             obsLimit: log10Limit,
             log10ULimit: log10U,
-            limitInVariable: t > 0 ? log10Limit - Math.log10(t) + log10Area : Infinity,
+            limitInVariable: t > 0 ? log10Limit - Math.log10(t) + log10Area - dObs : Infinity,
             transmission: t,
           };
         },
@@ -83,12 +94,22 @@ export function makeObserver(detection: Detection, population: Population, cosmo
     case 'magnitude': {
       const { limitMag, bandAngstrom, beta } = detection;
       const rest = population.restWavelengthAngstrom;
-      const igm = igmMagnitude(detection);
+      const sed = detection.sed;
+      let kOf: (z: number) => number;
+      if (sed) {
+        // Synthetic photometry (src/selection/kcorrection.ts); the IGM, if any, inside its integral.
+        const frame: RestFrame = population.restBand ? { kind: 'band', band: population.restBand } : { kind: 'wavelength', angstrom: rest };
+        const kSed = sedKCorrection(sed, frame, detection.igm, population.window.min, population.window.max);
+        kOf = (z) => 5 * Math.log10(cosmo.luminosityDistanceMpc(z) / TEN_PC_MPC) + kSed(z);
+      } else {
+        const igm = igmMagnitude(detection);
+        kOf = (z) => apparentMinusAbsolute(cosmo, z, bandAngstrom, rest, beta) + igm(z);
+      }
       return {
         slope: -2.5,
         variable: 'apparent_magnitude',
         at(z, mStar) {
-          const k = apparentMinusAbsolute(cosmo, z, bandAngstrom, rest, beta) + igm(z);
+          const k = kOf(z) + shift(z);
           const a = mStar + k;
           const mLim = limitMag - k;
           return {

@@ -9,6 +9,7 @@ import type { ZParam } from '../model/zparam.js';
 import { cosmologyJsonOf } from '../model/cosmology-json.js';
 import type { ParameterView, SurveyCheck } from '../model/outputs/check.js';
 import type { CompletenessBlock } from '../model/outputs/shared.js';
+import { describeSelection } from '../selection/describe.js';
 
 /** A parameter as written in the file, with its normalised value at the window's ends when it varies. */
 export function parameterView(p: ZParam, window: { min: number; max: number }): ParameterView {
@@ -49,6 +50,10 @@ export function describeSurvey(survey: Survey): Omit<SurveyCheck, 'warnings'> {
       limit_mag: d.limitMag,
       band_angstrom: d.bandAngstrom,
       band_file: d.bandTable?.file,
+      system: d.magnitudeSystem?.system,
+      vega_to_ab: d.magnitudeSystem?.vegaToAb,
+      sed_file: d.sed?.spectrum.file,
+      band: d.sed ? { profile: d.sed.band.profile, center_angstrom: d.sed.band.centerAngstrom, fwhm_angstrom: d.sed.band.fwhmAngstrom } : undefined,
       beta: d.beta,
       igm: d.igm,
       completeness: describeCompleteness(d.completeness),
@@ -87,8 +92,15 @@ export function describeSurvey(survey: Survey): Omit<SurveyCheck, 'warnings'> {
         slice_edges: p.sliceEdges,
         line_angstrom: p.lineAngstrom,
         rest_wavelength_angstrom: p.restWavelengthAngstrom,
+        rest_band: p.restBand
+          ? clean({ profile: p.restBand.profile, center_angstrom: p.restBand.centerAngstrom, fwhm_angstrom: p.restBand.fwhmAngstrom, file: p.restBand.table?.file })
+          : undefined,
+        magnitude_system:
+          p.variable === 'magnitude' ? clean({ stated: 'ab' as const, m_star_given: p.magnitudeSystem?.system ?? ('ab' as const), vega_to_ab: p.magnitudeSystem?.vegaToAb }) : undefined,
+        k_correction: d.kind === 'magnitude' ? (d.sed ? { method: 'spectrum' as const, spectrum_file: d.sed.spectrum.file } : { method: 'power_law' as const, beta: d.beta }) : undefined,
         bias: p.bias === 'auto' ? 'auto' : parameterView(p.bias, p.window),
         occupation: p.occupation,
+        selection: describeSelection(d, p),
       }),
     ),
     slices: { count: survey.sliceEdges.length - 1, edges: survey.sliceEdges },

@@ -16,6 +16,8 @@ import { isPlainNumberString, parseQuantity } from './units.js';
 import { FULL_SKY_DEG2, MIN_AREA_DEG2, SR_PER_DEG2 } from '../model/sky.js';
 import { checkParam, fmt, makeZParam, mapParam, samplePoints, type ZTable } from './zparam.js';
 import { readTransmissionFile } from './transmission-file.js';
+import { readDetectionPhotometry, readPopulationPhotometry, type RawBand } from './photometry.js';
+import { readDetectionSelection, readPopulationSelection, type RawDetectionSelection, type RawPopulationSelection } from './selection-keys.js';
 import { filterRedshiftWindow, tableFwhm, tableMeanWavelength } from '../selection/filter.js';
 import { dirname } from 'node:path';
 import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH, RANGES, describeRange, inRange, type Range } from '../model/limits.js';
@@ -23,7 +25,7 @@ import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH, RANGES, describeRange, inRange, ty
 type Q = number | string;
 type ZRaw = number | string | ZTable;
 
-interface RawPopulation {
+interface RawPopulation extends RawPopulationSelection {
   name?: string;
   shape?: 'schechter' | 'double_schechter';
   variable: PopulationVariable;
@@ -42,6 +44,9 @@ interface RawPopulation {
   sfr_conversion?: 'halpha' | 'oii' | 'uv' | number;
   line?: Q;
   rest_wavelength?: Q;
+  rest_band?: RawBand;
+  system?: 'ab' | 'vega';
+  vega_to_ab?: number;
   bias?: ZRaw;
   occupation?: number;
 }
@@ -61,14 +66,17 @@ interface RawSurvey {
   area: Q;
   redshift?: { min: number; max: number };
   field?: { aspect?: number; count?: number };
-  detection: {
+  detection: RawDetectionSelection & {
     kind: DetectionKind;
     limit: number | string | ZTable;
     line?: Q;
-    band?: Q;
+    band?: Q | RawBand;
     beta?: number;
     igm?: IgmModel;
     band_file?: string;
+    sed?: { file?: string };
+    system?: 'ab' | 'vega';
+    vega_to_ab?: number;
     filter?: { center?: Q; fwhm?: Q; profile?: FilterProfile; file?: string };
     completeness?: { model?: 'logistic' | 'table'; half?: Q; width?: number; table?: [number, number][] };
   };
@@ -88,9 +96,9 @@ export const SLICE_REMAINDER = MIN_SLICE_WIDTH;
 export const DEFAULT_POPULATION_NAME = 'population';
 
 const DETECTION_KEYS: Record<DetectionKind, string[]> = {
-  line_flux: ['kind', 'limit', 'line', 'filter', 'completeness'],
-  magnitude: ['kind', 'limit', 'band', 'band_file', 'beta', 'igm', 'completeness'],
-  threshold: ['kind', 'limit', 'completeness'],
+  line_flux: ['kind', 'limit', 'line', 'filter', 'completeness', 'redshift_selection', 'equivalent_width_cut'],
+  magnitude: ['kind', 'limit', 'band', 'band_file', 'beta', 'igm', 'sed', 'system', 'vega_to_ab', 'completeness', 'redshift_selection'],
+  threshold: ['kind', 'limit', 'completeness', 'redshift_selection'],
 };
 
 type Window = { min: number; max: number };
@@ -605,6 +613,7 @@ function readDetection(det: RawSurvey['detection'], rawPops: RawPopulations, det
   let detection: Detection;
   const thresholdVariable: PopulationVariable = rawPops.every((p) => p.raw.variable === 'magnitude') ? 'magnitude' : 'luminosity';
   const completeness = det.completeness ? parseCompleteness(det.completeness, kind, thresholdVariable, file) : undefined;
+  let completenessAb = completeness;
   if (kind === 'line_flux') {
     if (typeof det.limit === 'object') {
       throw inputError('wrong_type', file, 'detection.limit', 'is a table but a line_flux limit is one flux', 'give the flux limit in erg/s/cm^2 or with a unit');
@@ -617,21 +626,25 @@ function readDetection(det: RawSurvey['detection'], rawPops: RawPopulations, det
     if (typeof det.limit === 'object') {
       throw inputError('wrong_type', file, 'detection.limit', 'is a table but a magnitude limit is one AB magnitude', 'give the limiting apparent AB magnitude as a number');
     }
-    const limitMag = checkRange(plainNumber(det.limit, file, 'detection.limit', 'the limiting apparent AB magnitude'), RANGES.apparentMagnitude, file, 'detection.limit');
-    const bandTable = det.band_file !== undefined ? readTransmissionFile(det.band_file, file, 'detection.band_file', base, (input) => inputs.push(input)) : undefined;
-    if (det.band === undefined && !bandTable) {
-      throw inputError('missing_key', file, 'detection.band', 'is missing', 'give the effective wavelength of the band (Angstrom or with a unit), or a band_file');
-    }
-    const bandAngstrom = det.band !== undefined ? wavelength(det.band, file, 'detection.band') : tableMeanWavelength(bandTable!);
+    const given = checkRange(plainNumber(det.limit, file, 'detection.limit', 'the limiting apparent magnitude'), RANGES.apparentMagnitude, file, 'detection.limit');
+    const phot = readDetectionPhotometry(det, file, base, inputs);
     const beta = checkRange(det.beta ?? -2, RANGES.beta, file, 'detection.beta');
-    detection = { kind, limitMag, bandAngstrom, beta, igm: det.igm ?? 'none' };
-    if (bandTable) detection.bandTable = bandTable;
+    // Vega magnitudes become AB once, here: the limit and the completeness (src/survey/photometry.ts).
+    detection = { kind, limitMag: given + phot.toAb, bandAngstrom: phot.bandAngstrom, beta, igm: det.igm ?? 'none' };
+    if (det.igm !== undefined) detection.igmStated = true;
+    if (phot.bandTable) detection.bandTable = phot.bandTable;
+    if (phot.sed) detection.sed = phot.sed;
+    if (phot.magnitudeSystem) detection.magnitudeSystem = phot.magnitudeSystem;
+    if (completeness && phot.toAb !== 0) {
+      completenessAb = completeness.model === 'logistic' ? { ...completeness, half: completeness.half + phot.toAb } : { ...completeness, x: completeness.x.map((x) => x + phot.toAb) };
+    }
   } else {
     const limit = makeZParam(det.limit, file, 'detection.limit');
     checkParam(limit, hull, file, 'detection.limit', { what: 'the limit', range: observedRange(kind, thresholdVariable) });
     detection = { kind, limit };
   }
-  if (completeness) detection.completeness = completeness;
+  if (completenessAb) detection.completeness = completenessAb;
+  Object.assign(detection, readDetectionSelection(det, hull, file));
   return detection;
 }
 
@@ -671,6 +684,8 @@ function buildPopulation(p: RawPopulation, path: string, i: number, count: numbe
   if (params.lStar) pop.lStar = params.lStar;
   if (params.mStar) pop.mStar = params.mStar;
   if (line !== undefined) pop.lineAngstrom = line;
+  if (p.rest_wavelength === undefined) pop.restWavelengthDefault = true;
+  pop.normalisationKey = params.components[0]!.phiKey;
   return pop;
 }
 
@@ -715,7 +730,24 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   const hull = hullOf(windows);
   const slices = readSlices(raw, windows, file);
   const detection = readDetection(det, rawPops, detLine, filter, hull, file, base, inputs);
-  const populations = rawPops.map(({ raw: p, path }, i) => buildPopulation(p, path, i, rawPops.length, windows[i]!, slices.own[i]!, lines[i], file));
+  const populations = rawPops.map(({ raw: p, path }, i) => {
+    const pop = buildPopulation(p, path, i, rawPops.length, windows[i]!, slices.own[i]!, lines[i], file);
+    const sed = detection.kind === 'magnitude' ? detection.sed : undefined;
+    const phot = readPopulationPhotometry(p, path, detection.kind, sed, windows[i]!, file, base, inputs);
+    pop.restWavelengthAngstrom = phot.restWavelengthAngstrom;
+    if (phot.restBand) {
+      pop.restBand = phot.restBand;
+      delete pop.restWavelengthDefault;
+    }
+    if (phot.magnitudeSystem) {
+      pop.magnitudeSystem = phot.magnitudeSystem;
+      if (pop.mStar) pop.mStar = mapParam(pop.mStar, (m) => m + phot.toAb);
+    }
+    return pop;
+  });
+  populations.forEach((pop, i) =>
+    Object.assign(pop, readPopulationSelection(rawPops[i]!.raw, rawPops[i]!.path, detection.kind, detection.equivalentWidthCut !== undefined, windows[i]!, file)),
+  );
   const histogramWidth = readHistogramWidth(raw, rawPops, detection, hull, file);
 
   const survey: Survey = {

@@ -38,17 +38,42 @@ export function readTransmissionFile(
   baseDir: string,
   record?: (input: InputFile) => void,
 ): TransmissionTable {
+  const t = readWavelengthTable(path, surveyFile, keyPath, baseDir, { subject: 'transmission file', column: 'transmission' }, record);
+  const peak = Math.max(...t.values);
+  if (!(peak > 0)) t.bad('has no transmission above 0', 'check the second column');
+  return { file: path, wavelengthAngstrom: t.wavelengthAngstrom, transmission: t.values.map((v) => v / peak) };
+}
+
+/** A table of wavelength (Angstrom) against a value of 0 or more, as read; `bad` throws about it. */
+export interface WavelengthTable {
+  wavelengthAngstrom: number[];
+  values: number[];
+  bad(what: string, fix: string): never;
+}
+
+/**
+ * The common reader of wavelength tables (transmission curves here, spectra in spectrum-file.ts):
+ * the format above, the second column being `column` (0 or more).
+ */
+export function readWavelengthTable(
+  path: string,
+  surveyFile: string,
+  keyPath: string,
+  baseDir: string,
+  kind: { subject: string; column: string },
+  record?: (input: InputFile) => void,
+): WavelengthTable {
   const full = isAbsolute(path) ? path : resolve(baseDir, path);
   const shown = excerpt(path, 80);
   const bad = (what: string, fix: string): never => {
-    throw inputError('bad_table', surveyFile, keyPath, `the transmission file "${shown}" ${what}`, fix);
+    throw inputError('bad_table', surveyFile, keyPath, `the ${kind.subject} "${shown}" ${what}`, fix);
   };
   const read = readInputText(full, {
     maxBytes: MAX_TABLE_BYTES,
     maxLabel: '1 MiB a table may have',
     file: surveyFile,
     keyPath,
-    subject: `the transmission file "${shown}"${full === path ? '' : ` (looked for ${excerpt(full, 120)})`}`,
+    subject: `the ${kind.subject} "${shown}"${full === path ? '' : ` (looked for ${excerpt(full, 120)})`}`,
     fix: 'give a path relative to the survey file',
   });
   record?.({ path: read.path, dev: read.dev, ino: read.ino });
@@ -71,7 +96,7 @@ export function readTransmissionFile(
       if (!m) {
         bad(
           `does not start with a table: its first line (line ${i + 1}) is neither a header whose first column is wavelength, wavelength_angstrom, wavelength_nm or wavelength_um nor a row of two numbers`,
-          'give a CSV of wavelength, transmission rows',
+          `give a CSV of wavelength, ${kind.column} rows`,
         );
       }
       scale = UNIT_SCALE[m![1] ?? '']!;
@@ -79,22 +104,20 @@ export function readTransmissionFile(
     }
     if (cells.length !== 2 || nums.some((x) => !Number.isFinite(x))) {
       if (!seenRow && !headerSeen) {
-        bad(`does not start with a table: its first line (line ${i + 1}) is not a row of two numbers`, 'give a CSV of wavelength, transmission rows');
+        bad(`does not start with a table: its first line (line ${i + 1}) is not a row of two numbers`, `give a CSV of wavelength, ${kind.column} rows`);
       }
-      bad(`line ${i + 1} ("${excerpt(line)}") is not two numbers`, 'write each row as wavelength, transmission');
+      bad(`line ${i + 1} ("${excerpt(line)}") is not two numbers`, `write each row as wavelength, ${kind.column}`);
     }
     seenRow = true;
     if (wl.length >= MAX_TABLE_ROWS) bad(`holds more than ${MAX_TABLE_ROWS} rows`, `resample the curve to at most ${MAX_TABLE_ROWS} rows`);
     const w = nums[0]! * scale;
     const t = nums[1]!;
     if (!(w > 0)) bad(`line ${i + 1} has the wavelength ${nums[0]}, not above 0`, 'give positive wavelengths');
-    if (!(t >= 0)) bad(`line ${i + 1} has the transmission ${t}, below 0`, 'give transmissions of 0 or more');
+    if (!(t >= 0)) bad(`line ${i + 1} has the ${kind.column} ${t}, below 0`, `give values of ${kind.column} of 0 or more`);
     if (wl.length > 0 && !(w > wl[wl.length - 1]!)) bad(`line ${i + 1}: the wavelength ${nums[0]} does not follow the one before upward`, 'list the rows in increasing wavelength without repeats');
     wl.push(w);
     tr.push(t);
   });
-  if (wl.length < 2) bad(`holds ${wl.length} row${wl.length === 1 ? '' : 's'}`, 'give at least two rows of wavelength, transmission');
-  const peak = Math.max(...tr);
-  if (!(peak > 0)) bad('has no transmission above 0', 'check the second column');
-  return { file: path, wavelengthAngstrom: wl, transmission: tr.map((t) => t / peak) };
+  if (wl.length < 2) bad(`holds ${wl.length} row${wl.length === 1 ? '' : 's'}`, `give at least two rows of wavelength, ${kind.column}`);
+  return { wavelengthAngstrom: wl, values: tr, bad };
 }

@@ -48,12 +48,13 @@ const SHARED = ['errors', 'warnings'];
  * What the loader may reach, directly or through what it imports: itself, the model, the shared
  * errors and warnings, and the two constructors of model values that the physics owns (the
  * cosmology factory, which checks every cosmological parameter once, and the maths of
- * transmission curves, which gives a tabulated filter its centre, width and range).
+ * transmission curves, which gives a tabulated filter its centre, width and range), and the
+ * selection effects' statement that `check` shows (selection/describe.ts with effects.ts).
  */
 const LOADER_REACH = ['survey', 'model', ...SHARED];
 /** The one module that writes numbers for people: it imports nothing, so every layer may use it (messages, summaries). */
 const FORMAT = 'render/format.ts';
-const LOADER_REACH_FILES = ['cosmology/parameters.ts', 'cosmology/presets.ts', 'cosmology/constants.ts', 'selection/filter.ts', FORMAT];
+const LOADER_REACH_FILES = ['cosmology/parameters.ts', 'cosmology/presets.ts', 'cosmology/constants.ts', 'selection/filter.ts', 'selection/effects.ts', 'selection/describe.ts', FORMAT];
 
 const graph = importGraph();
 const edges = [...graph].flatMap(([from, tos]) => tos.map((to) => ({ from, to })));

@@ -121,7 +121,7 @@ describe('the built program as a subprocess', () => {
     if (!existsSync('dist/cli/skytally.js')) execFileSync('npm', ['run', 'build'], { stdio: 'ignore' });
     const out = execFileSync(process.execPath, [bin, 'predict', `samples/${SAMPLES[0]}`, '--format', 'json'], { encoding: 'utf8' });
     expect(JSON.parse(out).totals.count).toBeGreaterThan(0);
-  });
+  }, 300_000); // builds dist/ first when it is absent (a fresh clone): a minute or more on a loaded machine
   test('bad input exits with status 2 and one line on stderr', () => {
     const r = spawnSync(process.execPath, [bin, 'predict', 'samples/does-not-exist.yaml'], { encoding: 'utf8' });
     expect(r.status).toBe(2);

@@ -149,8 +149,8 @@ describe('warnings on files made to trigger them', () => {
 
   test('abundance matching held at a mass bound: bias_at_mass_bound (routed through the same mechanism)', async () => {
     // an invented population far denser than all haloes above 1e6 Msun provide
-    const text = readFileSync('samples/mass-limited.yaml', 'utf8').replace(/^(\s*)log10_phi_star_dex: .*$/m, '$1log10_phi_star_dex: 3');
-    expect(text).toMatch(/log10_phi_star_dex: 3$/m);
+    const text = readFileSync('samples/mass-limited.yaml', 'utf8').replace(/^(\s*)log10_phi_star: .*$/m, '$1log10_phi_star: 2.6');
+    expect(text).toMatch(/log10_phi_star: 2.6$/m);
     const f = file('dense.yaml', text);
     const r = await runCli(['predict', f, '--format', 'json']);
     expect(r.code).toBe(0);

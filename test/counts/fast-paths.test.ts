@@ -32,6 +32,16 @@ const REL = 1e-9;
  */
 const REL_HALO_MASS = 3e-9;
 
+/** Fields added to the outputs after the fixture was recorded (not numbers of the earlier code): the model's selection statement, k-correction and magnitude system. */
+const ADDED_SINCE = new Set(['selection', 'k_correction', 'magnitude_system']);
+/** Warning codes added after the fixture was recorded (src/selection/warnings.ts): left out of the comparison. */
+const CODES_ADDED_SINCE = new Set(['rest_wavelength_default_far_from_band', 'window_beyond_valid_redshift', 'igm_not_stated', 'phi_star_per_dex']);
+/**
+ * Samples that now give the standard normalisation (log10_phi_star) where they gave the per-dex form
+ * (the same phi* to 1e-15, so every number is compared as before); only the text of phi* as given differs.
+ */
+const REWRITTEN_NORMALISATION = ['samples/mass-limited.yaml', 'samples/double-schechter-mass.yaml'];
+
 /** Every place where `got` differs from `want` (numbers beyond REL relative, anything else at all). */
 function differences(got: unknown, want: unknown, path: string, out: string[]): void {
   if (typeof want === 'string' && typeof got === 'number' && String(got) === want) return; // NaN recorded as a string
@@ -47,7 +57,9 @@ function differences(got: unknown, want: unknown, path: string, out: string[]): 
     return;
   }
   if (want && typeof want === 'object' && got && typeof got === 'object') {
-    const gk = Object.keys(got).sort();
+    const gk = Object.keys(got)
+      .filter((k) => !(ADDED_SINCE.has(k) && !(k in want)))
+      .sort();
     const wk = Object.keys(want).sort();
     if (gk.join() !== wk.join()) out.push(`${path}: keys ${gk.join()} against ${wk.join()}`);
     for (const k of wk) differences((got as Record<string, unknown>)[k], (want as Record<string, unknown>)[k], `${path}.${k}`, out);
@@ -62,10 +74,12 @@ describe(`fast paths equal the earlier code (fixture from ${fixture.header.commi
     expect(Object.keys(fixture.predictions).sort()).toEqual(cases.map((c) => c.name).sort());
   });
   test.each(cases.map((c) => [c.name, c] as const))('predict %s: counts, histograms, densities, uncertainties', (name, c) => {
-    const got = JSON.parse(JSON.stringify(predict(loadSurveyText(c.text, c.file, dirname(c.file)))));
+    const got = JSON.parse(JSON.stringify(predict(loadSurveyText(c.text, c.file, dirname(c.file))))) as { warnings: { code: string }[] };
+    got.warnings = got.warnings.filter((w) => !CODES_ADDED_SINCE.has(w.code));
     const out: string[] = [];
     differences(got, fixture.predictions[name], name, out);
-    expect(out.slice(0, 20)).toEqual([]);
+    const rewritten = REWRITTEN_NORMALISATION.some((f) => c.file.endsWith(f));
+    expect(out.filter((d) => !(rewritten && /\.phi_star_mpc3\.given: /.test(d))).slice(0, 20)).toEqual([]);
   });
   test('box variance on a grid of boxes and redshifts, both transfer-function forms', () => {
     const got = haloAndBoxRecords();

@@ -89,6 +89,7 @@ describe('IGM in the magnitude observer and predict', () => {
     expect(p0.warnings[0]!.code).toBe('band_blueward_of_lyman_alpha');
     expect(p0.warnings[0]!.message).toMatch(/no intergalactic attenuation/);
     const lowz = predict(loadSurveyText(HIGHZ.replace('{min: 5.0, max: 7.0}', '{min: 3.0, max: 5.5}'), 'igm.yaml'));
-    expect(lowz.warnings).toEqual([]);
+    // (its window starts at z = 3, where the band sees 2125 A at rest, far from the default 1500 A)
+    expect(lowz.warnings.map((w) => w.code)).toEqual(['rest_wavelength_default_far_from_band']);
   });
 });

@@ -23,7 +23,7 @@ describe('specs/survey.schema.json', () => {
     expect(keysOf(p.redshift!)).toEqual(['max', 'min']);
     expect(keysOf(p.field!)).toEqual(['aspect', 'count']);
     const det = resolve(p.detection!);
-    expect(keysOf(det)).toEqual(['band', 'band_file', 'beta', 'completeness', 'filter', 'igm', 'kind', 'limit', 'line']);
+    expect(keysOf(det)).toEqual(['band', 'band_file', 'beta', 'completeness', 'equivalent_width_cut', 'filter', 'igm', 'kind', 'limit', 'line', 'redshift_selection', 'sed', 'system', 'vega_to_ab']);
     expect(det.properties!.igm!.enum).toEqual(['none', 'madau1995']);
     expect(det.properties!.kind!.enum).toEqual(['line_flux', 'magnitude', 'threshold']);
     expect(keysOf(det.properties!.filter!)).toEqual(['center', 'file', 'fwhm', 'profile']);
@@ -36,6 +36,10 @@ describe('specs/survey.schema.json', () => {
         // double Schechter components and the star-formation-rate conversion
         'alpha_1', 'alpha_2', 'phi_star_1', 'log10_phi_star_1', 'phi_star_1_dex', 'log10_phi_star_1_dex',
         'phi_star_2', 'log10_phi_star_2', 'phi_star_2_dex', 'log10_phi_star_2_dex', 'sfr_conversion',
+        // photometry: the rest band and the magnitude system of m_star
+        'rest_band', 'system', 'vega_to_ab',
+        // selection effects
+        'attenuation', 'blend_ratio', 'equivalent_widths', 'redshift_selection', 'valid_redshift',
       ].sort(),
     );
     expect(keysOf(p.populations!.items as Schema)).toEqual(keysOf(p.population!));

@@ -8,6 +8,7 @@ import { forecastCommand } from './forecast.js';
 import { compareCommand } from './compare.js';
 import { planCommand } from './plan.js';
 import { reportCommand } from './report.js';
+import { exploreCommand } from './explore.js';
 
 export const COMMANDS: CommandDef[] = [
   predictCommand,
@@ -18,4 +19,5 @@ export const COMMANDS: CommandDef[] = [
   compareCommand,
   planCommand,
   reportCommand,
+  exploreCommand,
 ];

@@ -1,6 +1,6 @@
 /* Generated from specs/check.schema.json by scripts/generate-output-types.ts: do not edit (run `npx tsx scripts/generate-output-types.ts`). */
 import type { Warning } from '../../warnings.js';
-import type { CompletenessBlock, CosmologyBlock, RedshiftRange, ZTable } from './shared.js';
+import type { CompletenessBlock, CosmologyBlock, RedshiftRange, SelectionBlock, ZTable } from './shared.js';
 
 /**
  * A parameter: its normalised value when constant; otherwise what the file wrote and the normalised values at the window's ends.
@@ -51,6 +51,26 @@ export interface SurveyCheck {
         band_angstrom: number;
         band_file?: string;
         beta: number;
+        /**
+         * the system the file gave the limit and completeness in; limit_mag and the completeness are AB
+         */
+        system?: 'ab' | 'vega';
+        /**
+         * system vega: m_AB - m_Vega in the band
+         */
+        vega_to_ab?: number;
+        /**
+         * the rest-frame spectrum of detection.sed (beta then plays no part)
+         */
+        sed_file?: string;
+        /**
+         * with sed: the band of the synthetic photometry
+         */
+        band?: {
+          profile: 'tophat' | 'gaussian' | 'table';
+          center_angstrom: number;
+          fwhm_angstrom: number;
+        };
         igm: 'none' | 'madau1995';
         completeness?: CompletenessBlock;
       }
@@ -94,6 +114,35 @@ export interface PopulationView {
   slice_edges: number[];
   line_angstrom?: number;
   rest_wavelength_angstrom: number;
+  /**
+   * magnitude kind: absolute magnitudes are AB in this rest-frame band (rest_wavelength_angstrom is then its center)
+   */
+  rest_band?: {
+    profile: 'tophat' | 'gaussian' | 'table';
+    center_angstrom: number;
+    fwhm_angstrom: number;
+    /**
+     * the band file (profile table)
+     */
+    file?: string;
+  };
+  /**
+   * magnitude variable: every magnitude is stated in AB; m_star as the file gave it (ab, or vega converted once: AB = Vega + vega_to_ab)
+   */
+  magnitude_system?: {
+    stated: 'ab';
+    m_star_given: 'ab' | 'vega';
+    vega_to_ab?: number;
+  };
+  /**
+   * magnitude kind: how apparent magnitudes follow from absolute ones: the power-law colour term (beta), or synthetic photometry of a rest-frame spectrum through the band (Hogg et al. 2002)
+   */
+  k_correction?: {
+    method: 'power_law' | 'spectrum';
+    beta?: number;
+    spectrum_file?: string;
+  };
   bias: 'auto' | ParameterView;
   occupation: number;
+  selection: SelectionBlock;
 }

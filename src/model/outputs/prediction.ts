@@ -89,6 +89,26 @@ export interface MagnitudeDetectionBlock {
    * f_lambda ~ lambda^beta
    */
   beta: number;
+  /**
+   * the system the file gave the limit and completeness in; limit_ab_mag and the completeness are AB
+   */
+  system?: 'ab' | 'vega';
+  /**
+   * system vega: m_AB - m_Vega in the band
+   */
+  vega_to_ab?: number;
+  /**
+   * the rest-frame spectrum of detection.sed (beta then plays no part)
+   */
+  sed_file?: string;
+  /**
+   * with sed: the band of the synthetic photometry
+   */
+  band?: {
+    profile: 'tophat' | 'gaussian' | 'table';
+    center_angstrom: number;
+    fwhm_angstrom: number;
+  };
   igm: 'none' | 'madau1995';
   completeness?: CompletenessBlock;
 }

@@ -69,9 +69,38 @@ export interface ModelDescription {
   line_angstrom?: number;
   rest_wavelength_angstrom?: number;
   /**
+   * magnitude kind: absolute magnitudes are AB in this rest-frame band (rest_wavelength_angstrom is then its center)
+   */
+  rest_band?: {
+    profile: 'tophat' | 'gaussian' | 'table';
+    center_angstrom: number;
+    fwhm_angstrom: number;
+    /**
+     * the band file (profile table)
+     */
+    file?: string;
+  };
+  /**
+   * magnitude variable: every magnitude is stated in AB; m_star as the file gave it (ab, or vega converted once: AB = Vega + vega_to_ab)
+   */
+  magnitude_system?: {
+    stated: 'ab';
+    m_star_given: 'ab' | 'vega';
+    vega_to_ab?: number;
+  };
+  /**
+   * magnitude kind: how apparent magnitudes follow from absolute ones: the power-law colour term (beta), or synthetic photometry of a rest-frame spectrum through the band (Hogg et al. 2002)
+   */
+  k_correction?: {
+    method: 'power_law' | 'spectrum';
+    beta?: number;
+    spectrum_file?: string;
+  };
+  /**
    * one line a person can read
    */
   summary: string;
+  selection: SelectionBlock;
 }
 export interface RedshiftRange {
   min: number;
@@ -92,4 +121,42 @@ export interface ZTable {
    * [[z, value], ...], interpolated linearly
    */
   table: number[][];
+}
+/**
+ * The selection effects applied to this population (docs/survey-file.md, "Selection effects"): which were used, whether attenuation was applied, and each one's value.
+ */
+export interface SelectionBlock {
+  /**
+   * the effects the file states for this population (empty: none; the prediction is then the plain one)
+   */
+  effects: ('redshift_selection' | 'blend_ratio' | 'attenuation' | 'equivalent_width_cut')[];
+  /**
+   * true when the population's attenuation dims the observed flux (its luminosity function is then taken as intrinsic, dust-corrected); false when the file gives none
+   */
+  attenuation_applied: boolean;
+  redshift_selection?: {
+    /**
+     * where the fraction was given (a population's own wins)
+     */
+    from: 'population' | 'detection';
+    fraction: ParameterDescription;
+  };
+  /**
+   * flux of the blended neighbouring lines relative to the line
+   */
+  blend_ratio?: number;
+  attenuation_mag?: ParameterDescription;
+  equivalent_width_cut?: {
+    frame: 'rest' | 'observed';
+    width_angstrom: number;
+    /**
+     * the population's rest-frame equivalent-width distribution, in words
+     */
+    distribution: string;
+    /**
+     * fraction kept at the window's middle (taken as independent of luminosity)
+     */
+    kept_at_window_middle: number;
+  };
+  valid_redshift?: RedshiftRange;
 }

@@ -1,0 +1,171 @@
+/**
+ * The explore page's script (bundled into the page by scripts/explore-bundle.mjs): reads the data
+ * the command embedded, wires every control, and on each change writes the settings into the
+ * survey file's text, runs the engine on that text and redraws the live parts. Changes that
+ * arrive while an update runs are folded into one more update with the latest values.
+ */
+import type { ControlSpec } from '../../model/explore.js';
+import { exposureDesign, settingsObject, settingsText } from '../../library/explore/settings.js';
+import { parseYaml } from '../../survey/yaml.js';
+import { exploreCompute } from '../../library/explore/engine.js';
+import { figuresHtml, fisherHtml, outputsHtml, slicesHtml, warningsHtml } from '../../render/explore/view.js';
+import { embeddedFiles } from './read-input.js';
+
+/*
+ * The little of the DOM this script uses, declared here rather than through TypeScript's "dom"
+ * library, which would put browser globals into the types of every Node module of the program.
+ */
+interface PageElement {
+  textContent: string | null;
+  innerHTML: string;
+  readonly dataset: Record<string, string | undefined>;
+  addEventListener(type: 'input' | 'click' | 'toggle', listener: () => void): void;
+}
+interface InputElement extends PageElement {
+  value: string;
+}
+interface DetailsElement extends PageElement {
+  open: boolean;
+}
+interface AnchorElement extends PageElement {
+  href: string;
+  hidden: boolean;
+  readonly download: string;
+  click(): void;
+}
+declare const document: {
+  getElementById(id: string): PageElement | null;
+  querySelector(selector: string): PageElement | null;
+  readonly body: PageElement;
+};
+declare const CSS: { escape(s: string): string };
+
+/** What the command embeds in the page (src/library/explore/page.ts). */
+export interface ExplorePageData {
+  file: string;
+  baseDir: string;
+  text: string;
+  files: Record<string, string>;
+  controls: ControlSpec[];
+}
+
+function byId<T extends PageElement>(id: string): T {
+  const el = document.getElementById(id);
+  if (!el) throw new Error(`the page has no element #${id}`);
+  return el as T;
+}
+
+function start(): void {
+  const data = JSON.parse(byId('explore-data').textContent ?? '{}') as ExplorePageData;
+  for (const [path, text] of Object.entries(data.files)) embeddedFiles.set(path, text);
+  const values = new Map<string, number>();
+  const status = byId('status');
+  const raw = parseYaml(data.text, data.file);
+  /** The survey file with the current settings, written only when it is read (the button, the panel). */
+  let text: string | undefined = data.text;
+  const currentText = (): string => (text ??= settingsText(data.text, data.controls, values));
+  const yaml = byId('survey-yaml');
+  const panel = byId<DetailsElement>('survey-panel');
+  const showText = (): void => {
+    if (panel.open) yaml.textContent = currentText();
+  };
+  panel.addEventListener('toggle', showText);
+  let running = false;
+  let pending = false;
+  let updates = 0;
+
+  async function update(): Promise<void> {
+    if (running) {
+      pending = true;
+      return;
+    }
+    running = true;
+    document.body.dataset.busy = 'true';
+    try {
+      do {
+        pending = false;
+        const t0 = performance.now();
+        text = undefined;
+        const r = await exploreCompute({ text: '', object: settingsObject(raw, data.controls, values) }, data.file, data.baseDir);
+        byId('outputs').innerHTML = outputsHtml(r);
+        byId('warnings').innerHTML = warningsHtml(r);
+        byId('slices').innerHTML = slicesHtml(r);
+        byId('fisher').innerHTML = fisherHtml(r);
+        byId('figures').innerHTML = figuresHtml(r);
+        showText();
+        status.textContent = r.error ? 'These settings are not a valid survey: see the message under Results.' : '';
+        document.body.dataset.updateMs = String(performance.now() - t0);
+      } while (pending);
+    } catch (e) {
+      status.textContent = `The update failed: ${e instanceof Error ? e.message : String(e)}`;
+    } finally {
+      running = false;
+      updates++;
+      document.body.dataset.updates = String(updates);
+      document.body.dataset.busy = 'false';
+    }
+  }
+
+  const fieldOf = (key: string) => document.querySelector(`input[data-key="${CSS.escape(key)}"]`) as InputElement | null;
+  const sliderOf = (key: string) => document.querySelector(`input[data-slider-for="${CSS.escape(key)}"]`) as InputElement | null;
+  /** Shows `v` in a control's field and slider (without firing anything). */
+  const show = (c: ControlSpec, v: number, field = fieldOf(c.key), slider = sliderOf(c.key)): void => {
+    if (field) field.value = String(v);
+    if (slider) slider.value = String(c.scale === 'log' ? Math.log10(v) : v);
+  };
+  /** A control set to `v`: a key of the file, or the exposure per pointing, which sets the area and the limit. */
+  const set = (c: ControlSpec, v: number): void => {
+    if (!c.plan) {
+      values.set(c.key, v);
+      return;
+    }
+    const design = exposureDesign(c.plan, v);
+    for (const [key, value] of [
+      ['area', design.area],
+      ['detection.limit', design.limit],
+    ] as const) {
+      values.set(key, value);
+      const other = data.controls.find((x) => x.key === key);
+      if (other) show(other, value);
+    }
+  };
+  for (const c of data.controls) {
+    const field = fieldOf(c.key);
+    const slider = sliderOf(c.key);
+    if (!field || !slider) continue;
+    field.addEventListener('input', () => {
+      const v = field.value.trim() === '' ? NaN : Number(field.value);
+      if (!Number.isFinite(v) || (c.plan && !(v > 0))) {
+        status.textContent = `${c.label}: type a ${c.plan ? 'positive ' : ''}number.`;
+        return;
+      }
+      show(c, v, null, slider);
+      set(c, v);
+      void update();
+    });
+    slider.addEventListener('input', () => {
+      const s = Number(slider.value);
+      const v = Number((c.scale === 'log' ? 10 ** s : s).toPrecision(6));
+      show(c, v, field, null);
+      set(c, v);
+      void update();
+    });
+  }
+
+  const link = byId<AnchorElement>('download');
+  let url: string | undefined;
+  byId('write-survey').addEventListener('click', () => {
+    if (url) URL.revokeObjectURL(url);
+    const written = currentText();
+    yaml.textContent = written;
+    url = URL.createObjectURL(new Blob([written], { type: 'application/yaml' }));
+    link.href = url;
+    link.hidden = false;
+    link.click();
+    status.textContent = `The survey file with these settings is written as ${link.download}.`;
+  });
+  document.body.dataset.busy = 'false';
+  document.body.dataset.ready = 'true';
+}
+
+start();

@@ -1,0 +1,215 @@
+/**
+ * The explore page's settings: which survey-file keys the page lets an observer move (docs/outputs.md,
+ * "explore"), each with its value in the unit docs/survey-file.md gives the key, a range and a step;
+ * and the settings written back into the survey file's own YAML (comments and layout kept), so that
+ * the page and `skytally predict` read the same text.
+ */
+import { parseDocument } from 'yaml';
+import type { Survey } from '../../model/survey.js';
+import { FULL_SKY_DEG2 } from '../../model/sky.js';
+import type { ControlSpec, ExposureControl } from '../../model/explore.js';
+import { readPlanSection } from '../../survey/plan-section.js';
+import { makeDepthModel } from '../../planning/depth.js';
+
+export type { ControlSpec };
+
+type Raw = Record<string, unknown>;
+
+const isRecord = (v: unknown): v is Raw => typeof v === 'object' && v !== null && !Array.isArray(v);
+/** A value the page may replace by a plain number: a number, or a quantity string such as "2.1 deg^2". */
+const isScalarValue = (v: unknown): boolean => typeof v === 'number' || (typeof v === 'string' && /^\s*[+-]?(\d|\.\d)/.test(v));
+
+/** The key path as messages and data-key attributes write it. */
+export function keyPathText(path: readonly (string | number)[]): string {
+  return path.map((p, i) => (typeof p === 'number' ? `[${p}]` : i === 0 ? p : `.${p}`)).join('');
+}
+
+/** A decimal step about a hundredth of the value's size: 2.1 -> 0.01, 4e-17 -> 1e-19. */
+function stepFor(value: number): number {
+  const v = Math.abs(value);
+  if (!(v > 0)) return 0.01;
+  return Number((10 ** (Math.floor(Math.log10(v)) - 2)).toPrecision(1));
+}
+
+function logControl(path: (string | number)[], label: string, unit: string, value: number, lo: number, hi: number): ControlSpec {
+  return { key: keyPathText(path), path, label, unit, value, min: Math.max(lo, value / 10), max: Math.min(hi, value * 10), step: stepFor(value), scale: 'log', range: 'default' };
+}
+
+function linearControl(path: (string | number)[], label: string, unit: string, value: number, span: number, lo: number, hi: number, step = 0.01): ControlSpec {
+  return { key: keyPathText(path), path, label, unit, value, min: Math.max(lo, value - span), max: Math.min(hi, value + span), step, scale: 'linear', range: 'default' };
+}
+
+/** Population parameters the page varies, with their unit, span and range (docs/survey-file.md, "Limits"). */
+const PARAMETERS: { key: string; label: string; unit: string; log?: boolean; span: number; lo: number; hi: number }[] = [
+  { key: 'log10_phi_star', label: 'log10 phi*', unit: 'log10 Mpc^-3', span: 1, lo: -30, hi: 3 },
+  { key: 'log10_phi_star_dex', label: 'log10 phi* (per dex)', unit: 'log10 Mpc^-3 dex^-1', span: 1, lo: -30, hi: 3 },
+  { key: 'phi_star', label: 'phi*', unit: 'Mpc^-3', log: true, span: 0, lo: 1e-30, hi: 1000 },
+  { key: 'phi_star_dex', label: 'phi* (per dex)', unit: 'Mpc^-3 dex^-1', log: true, span: 0, lo: 1e-30, hi: 1000 },
+  { key: 'log10_l_star', label: 'log10 L*', unit: 'log10 erg/s', span: 1, lo: -30, hi: 60 },
+  { key: 'l_star', label: 'L*', unit: 'erg/s', log: true, span: 0, lo: 1e-30, hi: 1e60 },
+  { key: 'm_star', label: 'M*', unit: 'AB mag', span: 1.5, lo: -40, hi: 10 },
+  { key: 'alpha', label: 'alpha', unit: '', span: 0.5, lo: -4, hi: 4 },
+];
+
+/**
+ * The range a population's model_uncertainty gives a parameter: 3 sigma either side of the value
+ * (docs/survey-file.md, "model_uncertainty": sigmas of log10_phi_star and log10_l_star in dex also
+ * when phi* or L* is written linearly, of m_star in mag, of alpha plain).
+ */
+function uncertaintyRange(pop: Raw, key: string, value: number): [number, number] | undefined {
+  const mu = pop.model_uncertainty;
+  if (!isRecord(mu)) return undefined;
+  const name = key.startsWith('log10_phi_star') || key.startsWith('phi_star') ? 'log10_phi_star' : key === 'l_star' ? 'log10_l_star' : key;
+  const sigma = mu[name];
+  if (typeof sigma !== 'number' || !(sigma > 0)) return undefined;
+  if (key === 'phi_star' || key === 'phi_star_dex' || key === 'l_star') return [value * 10 ** (-3 * sigma), value * 10 ** (3 * sigma)];
+  return [value - 3 * sigma, value + 3 * sigma];
+}
+
+/**
+ * The controls of the page for a survey file: its parsed YAML (`raw`) and the survey the loader
+ * made of it (values converted to each key's unit). Only keys the file gives as a number or a
+ * quantity are controls: a parameter written as a table or an expression in z stays as written.
+ */
+export function exploreControls(raw: unknown, survey: Survey): ControlSpec[] {
+  const file = isRecord(raw) ? raw : {};
+  const controls: ControlSpec[] = [];
+  if (isScalarValue(file.area)) controls.push(logControl(['area'], 'Area', 'deg^2', survey.areaDeg2, 1e-6, FULL_SKY_DEG2));
+  const det = isRecord(file.detection) ? file.detection : {};
+  const d = survey.detection;
+  if (isScalarValue(det.limit)) {
+    if (d.kind === 'line_flux') controls.push(logControl(['detection', 'limit'], 'Line-flux limit', 'erg/s/cm^2', d.limitCgs, 1e-30, 1e-5));
+    else if (d.kind === 'magnitude') controls.push(linearControl(['detection', 'limit'], 'Magnitude limit', 'AB mag', d.limitMag, 2, 0, 40));
+    else if (typeof det.limit === 'number') controls.push(linearControl(['detection', 'limit'], 'Threshold', '', det.limit, 2, -40, 60));
+  }
+  const z = file.redshift;
+  // Slice edges written out fix the counted range: the window then stays as written.
+  const edges = isRecord(file.slices) && file.slices.edges !== undefined;
+  if (edges) {
+    // nothing: see above
+  } else if (isRecord(z) && typeof z.min === 'number' && typeof z.max === 'number') {
+    const w = z.max - z.min;
+    controls.push(linearControl(['redshift', 'min'], 'Redshift from', '', z.min, w / 2, 0, 30, 0.001));
+    controls.push(linearControl(['redshift', 'max'], 'Redshift to', '', z.max, w / 2, 0, 30, 0.001));
+    const [lo, hi] = controls.slice(-2);
+    lo!.min = Math.max(0, z.min - w);
+    lo!.max = z.min + w / 2 - 1e-3;
+    hi!.min = z.max - w / 2 + 1e-3;
+    hi!.max = Math.min(30, z.max + w);
+  } else {
+    const f = isRecord(det.filter) ? det.filter : undefined;
+    const filter = d.kind === 'line_flux' ? d.filter : undefined;
+    if (f && filter && filter.profile !== 'table' && isScalarValue(f.center) && isScalarValue(f.fwhm)) {
+      const c = filter.centerAngstrom;
+      controls.push(linearControl(['detection', 'filter', 'center'], 'Filter centre', 'Angstrom', c, 0.05 * c, 1, 1e10, 1));
+      controls.push(logControl(['detection', 'filter', 'fwhm'], 'Filter width (FWHM)', 'Angstrom', filter.fwhmAngstrom, 1, 1e10));
+      controls[controls.length - 1]!.min = Math.max(1, filter.fwhmAngstrom / 4);
+      controls[controls.length - 1]!.max = filter.fwhmAngstrom * 4;
+      controls[controls.length - 1]!.step = 1;
+    }
+  }
+  const exposure = exposureControl(file, survey);
+  if (exposure) controls.push(exposure);
+  const entries: [unknown, (string | number)[]][] = isRecord(file.population)
+    ? [[file.population, ['population']]]
+    : Array.isArray(file.populations)
+      ? file.populations.map((p, i) => [p, ['populations', i]])
+      : [];
+  for (const [pop, base] of entries) {
+    if (!isRecord(pop) || pop.shape === 'double_schechter') continue;
+    const name = typeof pop.name === 'string' && entries.length > 1 ? ` (${pop.name})` : '';
+    for (const p of PARAMETERS) {
+      const v = pop[p.key];
+      if (typeof v !== 'number') continue;
+      const path = [...base, p.key];
+      const c = p.log ? logControl(path, p.label + name, p.unit, v, p.lo, p.hi) : linearControl(path, p.label + name, p.unit, v, p.span, p.lo, p.hi);
+      const r = uncertaintyRange(pop, p.key, v);
+      if (r) {
+        c.min = Math.max(p.lo, r[0]);
+        c.max = Math.min(p.hi, r[1]);
+        c.range = 'model_uncertainty';
+      }
+      controls.push(c);
+    }
+  }
+  return controls;
+}
+
+/** The key of the exposure-per-pointing control (a page control, not a key of the file). */
+export const EXPOSURE_KEY = 'plan.exposure_per_pointing';
+
+/**
+ * A plan file's exposure per pointing, from the grid's shortest exposure to its longest that
+ * leaves one pointing in the budget; none when the plan fixes the area or the depth, or the file's
+ * plan section is not one `plan` accepts.
+ */
+function exposureControl(file: Raw, survey: Survey): ControlSpec | undefined {
+  if (!isRecord(file.plan) || survey.detection.kind === 'threshold') return undefined;
+  let spec;
+  try {
+    spec = readPlanSection(survey, survey.populations[0]!);
+  } catch {
+    return undefined;
+  }
+  if (spec.fixed) return undefined;
+  const plan: ExposureControl = {
+    fieldOfViewDeg2: spec.fieldOfViewDeg2,
+    overheadHours: spec.overheadHours,
+    budgetHours: spec.budgetHours,
+    maxPointings: Math.max(1, Math.floor(FULL_SKY_DEG2 / spec.fieldOfViewDeg2 + 1e-9)),
+    limitKind: spec.limitKind,
+    law: spec.depthLaw,
+  };
+  const min = spec.grid.minHours;
+  const max = Math.min(spec.grid.maxHours, spec.budgetHours - spec.overheadHours);
+  if (!(max > min)) return undefined;
+  const d = survey.detection;
+  const limit = d.kind === 'magnitude' ? d.limitMag : d.kind === 'line_flux' ? d.limitCgs : NaN;
+  const value = Math.min(max, Math.max(min, makeDepthModel(plan.limitKind, plan.law).hoursFor(limit)));
+  return { key: EXPOSURE_KEY, path: [], label: 'Exposure per pointing (sets the area and the limit)', unit: 'hours', value, min, max, step: stepFor(value), scale: 'log', range: 'default', plan };
+}
+
+/**
+ * The design an exposure per pointing gives: as many whole pointings as the budget buys (at
+ * most the whole sky), and the limit the depth law reaches (docs/survey-file.md, "The plan section").
+ */
+export function exposureDesign(plan: ExposureControl, hours: number): { area: number; limit: number; pointings: number } {
+  const pointings = Math.max(1, Math.min(plan.maxPointings, Math.floor(plan.budgetHours / (hours + plan.overheadHours) + 1e-9)));
+  return { pointings, area: pointings * plan.fieldOfViewDeg2, limit: makeDepthModel(plan.limitKind, plan.law).limitAt(hours) };
+}
+
+/**
+ * The parsed survey file with the given settings: a copy of `raw` (the file as the loader's YAML
+ * reader gives it) with those values replaced. The loader reads it exactly as it reads
+ * `settingsText` of the same settings (a number is written as JavaScript writes it, the shortest
+ * text that reads back as the same number), without writing and parsing YAML on every change.
+ */
+export function settingsObject(raw: unknown, controls: readonly ControlSpec[], values: ReadonlyMap<string, number>): unknown {
+  if (values.size === 0) return raw;
+  const copy = structuredClone(raw) as Raw;
+  for (const c of controls) {
+    const v = values.get(c.key);
+    if (v === undefined || !Number.isFinite(v) || c.plan) continue;
+    let node: unknown = copy;
+    for (const step of c.path.slice(0, -1)) node = (node as Record<string | number, unknown>)[step];
+    (node as Record<string | number, unknown>)[c.path[c.path.length - 1]!] = v;
+  }
+  return copy;
+}
+
+/** The YAML parse options of the loader (src/survey/yaml.ts). */
+const YAML_OPTIONS = { uniqueKeys: false, merge: false } as const;
+
+/**
+ * The survey file as written with the given settings (key -> plain number in the key's unit):
+ * the original text with only those values replaced, comments and layout kept.
+ */
+export function settingsText(original: string, controls: readonly ControlSpec[], values: ReadonlyMap<string, number>): string {
+  if (values.size === 0) return original;
+  const doc = parseDocument(original.replace(/^\uFEFF/, ''), YAML_OPTIONS);
+  for (const c of controls) {
+    const v = values.get(c.key);
+    if (v !== undefined && Number.isFinite(v) && !c.plan) doc.setIn(c.path, v);
+  }
+  return doc.toString({ lineWidth: 0 });
+}

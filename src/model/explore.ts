@@ -1,0 +1,91 @@
+import type { DepthLaw, LimitKind } from './plan.js';
+
+/** What the explore page shows for one survey text (src/library/explore/engine.ts makes it, src/render/explore/ draws it). */
+
+/** One live number of the page: `data-output` = name, `data-value` = value at full precision. */
+export interface ExploreOutput {
+  name: string;
+  label: string;
+  value: number;
+  /** fraction: shown as a percentage; count: an expected number; plain: as it is. */
+  kind: 'count' | 'fraction' | 'plain';
+}
+
+/** One row of the slice table (output names `slice-<row>-count`, ...; rows counted from 1). */
+export interface ExploreSliceRow {
+  population?: string;
+  zMin: number;
+  zMax: number;
+  count: number;
+  poisson?: number;
+  cosmicVariance?: number;
+  total?: number;
+  /** The model uncertainty's fraction, when the population states one. */
+  model?: number;
+}
+
+export interface CountsFigureData {
+  title: string;
+  slices: { zMin: number; zMax: number; count: number; fraction: number }[];
+}
+
+export interface LfFigureData {
+  title: string;
+  xLabel: string;
+  magnitude: boolean;
+  curves: { z: number; x: number[]; phi: number[]; limit: number }[];
+}
+
+export interface ExploreResult {
+  /** The survey file's text the numbers are of. */
+  text: string;
+  /** Why the settings are not a survey the loader accepts (then nothing else is filled). */
+  error?: string;
+  title: string;
+  outputs: ExploreOutput[];
+  rows: ExploreSliceRow[];
+  counts: CountsFigureData[];
+  lf: LfFigureData[];
+  /** The Fisher sigmas of the first population (with cosmic variance, as `forecast` prints them). */
+  fisher?: { population: string; names: string[]; sigma: number[]; sigmaPoisson: number[] };
+  /** Why there is no Fisher matrix (a double Schechter population, no sources, a singular matrix). */
+  fisherNote?: string;
+  warnings: string[];
+}
+
+/** One control of the page. */
+export interface ControlSpec {
+  /** The survey-file key path, as messages write it: `area`, `detection.limit`, `populations[1].alpha`. */
+  key: string;
+  /** The same path as YAML keys and list indices. */
+  path: (string | number)[];
+  /** What the control is, for people. */
+  label: string;
+  /** The unit of `value` (the key's unit in docs/survey-file.md), '' for a plain number. */
+  unit: string;
+  /** The value the file gives (converted to `unit`). */
+  value: number;
+  min: number;
+  max: number;
+  /** Step of the number field (and of the arrow keys). */
+  step: number;
+  /** log: the slider moves in log10 of the value. */
+  scale: 'linear' | 'log';
+  /** Where the range comes from: the population's model_uncertainty, or the page's default span. */
+  range: 'model_uncertainty' | 'default';
+  /**
+   * A plan file's exposure per pointing (key `plan.exposure_per_pointing`, not a key of the file):
+   * it sets `area` (the whole pointings the budget buys) and `detection.limit` (the depth law).
+   */
+  plan?: ExposureControl;
+}
+
+/** What the exposure-per-pointing control needs to turn hours into an area and a limit. */
+export interface ExposureControl {
+  fieldOfViewDeg2: number;
+  overheadHours: number;
+  budgetHours: number;
+  maxPointings: number;
+  limitKind: LimitKind;
+  law: DepthLaw;
+}

@@ -1,0 +1,58 @@
+/**
+ * The live parts of the explore page as HTML text, for one result of the engine: the summary
+ * numbers, the slice table, the Fisher sigmas, the figures and the warnings. Every number a test
+ * or a script may read carries `data-output` (its name, docs/outputs.md "explore") and
+ * `data-value` (the number as JavaScript writes it: every digit that tells it apart).
+ */
+import type { ExploreOutput, ExploreResult, ExploreSliceRow } from '../../model/explore.js';
+import { formatRange, percent, sig } from '../format.js';
+import { countsSvg, escapeHtml, lfSvg } from './figures.js';
+
+function shown(o: Pick<ExploreOutput, 'kind' | 'value'>): string {
+  return o.kind === 'fraction' ? percent(o.value) : sig(o.value, 4);
+}
+
+function cell(name: string, value: number | undefined, kind: ExploreOutput['kind']): string {
+  if (value === undefined) return '<td></td>';
+  return `<td data-output="${name}" data-value="${String(value)}">${escapeHtml(shown({ kind, value }))}</td>`;
+}
+
+/** The summary: one labelled number per output. */
+export function outputsHtml(r: ExploreResult): string {
+  if (r.error) return `<p class="error" role="alert">${escapeHtml(r.error)}</p>`;
+  return `<dl>${r.outputs
+    .map((o) => `<div><dt>${escapeHtml(o.label)}</dt><dd data-output="${o.name}" data-value="${String(o.value)}">${escapeHtml(shown(o))}</dd></div>`)
+    .join('')}</dl>`;
+}
+
+/** The slice table: count and fractional uncertainties per slice (rows counted from 1). */
+export function slicesHtml(r: ExploreResult): string {
+  if (r.error) return '';
+  const byPopulation = r.rows.some((x) => x.population !== undefined);
+  const model = r.rows.some((x) => x.model !== undefined);
+  const head = `<tr>${byPopulation ? '<th scope="col">population</th>' : ''}<th scope="col">z</th><th scope="col">count</th><th scope="col">Poisson</th><th scope="col">cosmic variance</th><th scope="col">total</th>${model ? '<th scope="col">model</th>' : ''}</tr>`;
+  const rows = r.rows.map((x: ExploreSliceRow, i) => {
+    const k = i + 1;
+    return `<tr>${byPopulation ? `<td>${escapeHtml(x.population ?? '')}</td>` : ''}<th scope="row">${formatRange(x.zMin, x.zMax)}</th>${cell(`slice-${k}-count`, x.count, 'count')}${cell(`slice-${k}-poisson`, x.poisson, 'fraction')}${cell(`slice-${k}-cosmic-variance`, x.cosmicVariance, 'fraction')}${cell(`slice-${k}-uncertainty`, x.total, 'fraction')}${model ? cell(`slice-${k}-model`, x.model, 'fraction') : ''}</tr>`;
+  });
+  return `<table><caption>Expected counts per slice with 1-sigma fractional uncertainties</caption><thead>${head}</thead><tbody>${rows.join('')}</tbody></table>`;
+}
+
+/** The Fisher sigmas of the first population, with and without the cosmic-variance nuisances. */
+export function fisherHtml(r: ExploreResult): string {
+  if (r.error) return '';
+  if (!r.fisher) return `<p>${escapeHtml(r.fisherNote ?? 'No Fisher matrix.')}</p>`;
+  const f = r.fisher;
+  const rows = f.names.map((n, i) => `<tr><th scope="row">${escapeHtml(n)}</th><td>${sig(f.sigma[i]!, 4)}</td>${cell(`sigma-poisson-${n}`, f.sigmaPoisson[i], 'plain')}</tr>`);
+  return `<table><caption>Fisher 1-sigma uncertainties of ${escapeHtml(f.population)} (marginalised)</caption><thead><tr><th scope="col">parameter</th><th scope="col">with cosmic variance</th><th scope="col">Poisson only</th></tr></thead><tbody>${rows.join('')}</tbody></table>`;
+}
+
+/** The figures: counts per slice, then the luminosity functions. */
+export function figuresHtml(r: ExploreResult): string {
+  if (r.error) return '';
+  return [...r.counts.map(countsSvg), ...r.lf.map(lfSvg)].map((svg) => `<figure>${svg}</figure>`).join('');
+}
+
+export function warningsHtml(r: ExploreResult): string {
+  return r.warnings.length === 0 ? '' : `<ul>${r.warnings.map((w) => `<li>${escapeHtml(w)}</li>`).join('')}</ul>`;
+}

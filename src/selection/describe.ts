@@ -1,0 +1,46 @@
+/**
+ * The selection block of every output's model statement and of `check` (specs/*.schema.json,
+ * $defs.selection): which selection effects a population uses, whether attenuation was applied,
+ * and each effect as written and at the window's middle.
+ */
+import type { Detection } from '../model/detection.js';
+import type { Population } from '../model/population.js';
+import type { EquivalentWidthDistribution } from '../model/selection.js';
+import type { SelectionBlock } from '../model/outputs/shared.js';
+import { selectionEffects } from './effects.js';
+
+function words(d: EquivalentWidthDistribution): string {
+  if (d.model === 'exponential') return `exponential, scale ${d.scaleAngstrom} Angstrom`;
+  if (d.model === 'lognormal') return `lognormal, median ${d.medianAngstrom} Angstrom, sigma ${d.sigmaDex} dex`;
+  return `table of the fraction above ${d.widthAngstrom.length} widths from ${d.widthAngstrom[0]} to ${d.widthAngstrom[d.widthAngstrom.length - 1]} Angstrom`;
+}
+
+export function describeSelection(detection: Detection, p: Population): SelectionBlock {
+  const zMid = 0.5 * (p.window.min + p.window.max);
+  const block: SelectionBlock = { effects: [], attenuation_applied: p.attenuation !== undefined };
+  const sel = p.redshiftSelection ?? detection.redshiftSelection;
+  if (sel) {
+    block.effects.push('redshift_selection');
+    block.redshift_selection = { from: p.redshiftSelection ? 'population' : 'detection', fraction: { given: sel.source, at_window_middle: sel.at(zMid) } };
+  }
+  if (p.blendRatio !== undefined) {
+    block.effects.push('blend_ratio');
+    block.blend_ratio = p.blendRatio;
+  }
+  if (p.attenuation) {
+    block.effects.push('attenuation');
+    block.attenuation_mag = { given: p.attenuation.source, at_window_middle: p.attenuation.at(zMid) };
+  }
+  const cut = detection.equivalentWidthCut;
+  if (cut && p.equivalentWidths) {
+    block.effects.push('equivalent_width_cut');
+    block.equivalent_width_cut = {
+      frame: cut.frame,
+      width_angstrom: cut.angstrom,
+      distribution: words(p.equivalentWidths),
+      kept_at_window_middle: selectionEffects(detection, p).equivalentWidthKept(zMid),
+    };
+  }
+  if (p.validRedshift) block.valid_redshift = { ...p.validRedshift };
+  return block;
+}

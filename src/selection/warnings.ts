@@ -1,0 +1,87 @@
+/**
+ * Warnings about how a survey selects its sources that need no counting: inputs that pass every
+ * check but are common traps (docs/outputs.md, "Warnings").
+ *
+ *  - rest_wavelength_default_far_from_band: a magnitude survey leaves rest_wavelength at its
+ *    1500 Angstrom default while the band seen at rest, band / (1 + z), lies more than 30 % from it
+ *    somewhere in the window: the power-law colour term then extrapolates far (an optical r band at
+ *    z < 0.6 sees 4000-6000 Angstrom at rest, and a UV luminosity function there overpredicts);
+ *  - window_beyond_valid_redshift: the window reaches beyond where the luminosity function was
+ *    measured (valid_redshift);
+ *  - igm_not_stated: the band lies within 1.3 times Lyman alpha (1 + z) somewhere in the window and
+ *    the file does not say `igm` (none or madau1995), so whether the forest was meant to dim the
+ *    counts is unstated (not said again where band_blueward_of_lyman_alpha already fires);
+ *  - phi_star_per_dex: a per-dex normalisation was given; papers label the ln 10 convention
+ *    inconsistently, so the conversion used is said once.
+ */
+import type { Survey } from '../model/survey.js';
+import { warning, type Warning } from '../warnings.js';
+import { precise } from '../render/format.js';
+import { bandRedEdgeAngstrom, LYMAN_ALPHA_ANGSTROM } from './igm.js';
+
+/** How far (relative) the rest-frame band may lie from a defaulted rest wavelength. */
+export const REST_WAVELENGTH_TOLERANCE = 0.3;
+/** A band within this factor of Lyman alpha (1 + z) asks for an explicit igm. */
+export const IGM_NEAR_FACTOR = 1.3;
+
+const fmt = (x: number): string => precise(x, 4);
+
+export function selectionWarnings(survey: Survey): Warning[] {
+  const out: Warning[] = [];
+  const d = survey.detection;
+  for (const p of survey.populations) {
+    const { min, max } = p.window;
+    if (d.kind === 'magnitude' && p.restWavelengthDefault) {
+      const rest = p.restWavelengthAngstrom;
+      // band / (1 + z) falls with z: its extremes are at the window's ends
+      const atMin = d.bandAngstrom / (1 + min);
+      const atMax = d.bandAngstrom / (1 + max);
+      const worst = Math.abs(atMin / rest - 1) >= Math.abs(atMax / rest - 1) ? { z: min, l: atMin } : { z: max, l: atMax };
+      if (Math.abs(worst.l / rest - 1) > REST_WAVELENGTH_TOLERANCE) {
+        out.push(
+          warning(
+            'rest_wavelength_default_far_from_band',
+            `${p.name}: rest_wavelength is left at its default ${fmt(rest)} A, but the band (${fmt(d.bandAngstrom)} A) sees ${fmt(worst.l)} A at rest at z = ${fmt(worst.z)}, ` +
+              `more than ${Math.round(REST_WAVELENGTH_TOLERANCE * 100)} % away, so the colour term extrapolates far (counts can be many times off); ` +
+              `give rest_wavelength where the luminosity function's magnitudes are defined`,
+          ),
+        );
+      }
+    }
+    const v = p.validRedshift;
+    if (v && (min < v.min || max > v.max)) {
+      out.push(
+        warning(
+          'window_beyond_valid_redshift',
+          `${p.name}: the window z = ${fmt(min)} to ${fmt(max)} reaches beyond z = ${fmt(v.min)} to ${fmt(v.max)}, where its luminosity function was measured (valid_redshift); ` +
+            'the counts there extrapolate it',
+        ),
+      );
+    }
+    if (d.kind === 'magnitude' && !d.igmStated) {
+      const zNear = d.bandAngstrom / (IGM_NEAR_FACTOR * LYMAN_ALPHA_ANGSTROM) - 1;
+      // where the band is blueward of Lyman alpha, band_blueward_of_lyman_alpha already says it
+      const blueward = bandRedEdgeAngstrom(d.bandAngstrom, d.bandTable) / LYMAN_ALPHA_ANGSTROM - 1 < max;
+      if (zNear < max && !blueward) {
+        out.push(
+          warning(
+            'igm_not_stated',
+            `${p.name}: at z > ${fmt(Math.max(zNear, min))} the band (${fmt(d.bandAngstrom)} A) lies within ${IGM_NEAR_FACTOR} times Lyman alpha (1 + z) and the file does not say igm; ` +
+              'state detection.igm: madau1995 to dim the counts by the intergalactic forest, or igm: none to keep them as they are',
+          ),
+        );
+      }
+    }
+    const key = p.normalisationKey;
+    if (key?.endsWith('_dex')) {
+      out.push(
+        warning(
+          'phi_star_per_dex',
+          `${p.name}: ${key} is read as the prefactor of the per-dex form, phi(log10 L) = ln 10 phi* (L/L*)^(alpha+1) exp(-L/L*), and divided by ln 10; ` +
+            'papers label this convention inconsistently: check that the source quotes this prefactor (else give phi_star or log10_phi_star)',
+        ),
+      );
+    }
+  }
+  return out;
+}

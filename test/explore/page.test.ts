@@ -1,0 +1,143 @@
+/**
+ * `skytally explore` without a browser: the page builds for every bundled sample, holds its
+ * script and style sheet under the hashes its Content-Security-Policy names and refers to nothing
+ * outside itself; its first numbers equal `predict` and `forecast` on the file (1e-9 relative;
+ * expected values: the commands' own JSON); the settings written back as YAML and as a parsed
+ * object give the same survey; the ranges of the controls. The page in a browser:
+ * test/explore/browser.test.ts.
+ */
+import { createHash } from 'node:crypto';
+import { existsSync, readdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { beforeAll, describe, expect, test } from 'vitest';
+import { runCli } from '../cli/helpers.js';
+import { tempDir } from '../support/temp.js';
+import { useExploreScript } from '../support/explore-script.js';
+import { expectedOutputs, expectSameOutputs } from './expected.js';
+import { loadSurveyText, parseSurveyObject } from '../../src/survey/load.js';
+import { parseYaml } from '../../src/survey/yaml.js';
+import { EXPOSURE_KEY, exploreControls, exposureDesign, settingsObject, settingsText } from '../../src/library/explore/settings.js';
+import { predict } from '../../src/counts/predict.js';
+
+const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml'));
+const dir = tempDir('skytally-explore-page-');
+
+beforeAll(async () => {
+  await useExploreScript();
+});
+
+const sha = (s: string) => `'sha256-${createHash('sha256').update(s, 'utf8').digest('base64')}'`;
+
+describe.each(SAMPLES)('%s', (sample) => {
+  test('the page builds, is self-contained under its CSP and opens on the numbers of predict and forecast', async () => {
+    const out = join(dir, sample.replace('.yaml', '.html'));
+    const r = await runCli(['explore', `samples/${sample}`, '--out', out]);
+    expect(r.code, r.stderr).toBe(0);
+    const html = readFileSync(out, 'utf8');
+    const csp = /<meta http-equiv="Content-Security-Policy" content="([^"]+)">/.exec(html)![1]!;
+    const scripts = [...html.matchAll(/<script>([\s\S]*?)<\/script>/g)].map((m) => m[1]!);
+    const styles = [...html.matchAll(/<style>([\s\S]*?)<\/style>/g)].map((m) => m[1]!);
+    expect(scripts.length).toBe(1);
+    expect(styles.length).toBe(1);
+    expect(csp).toContain(`script-src ${sha(scripts[0]!)};`);
+    expect(csp).toContain(`style-src ${sha(styles[0]!)};`);
+    expect(csp).toContain("default-src 'none'");
+    // nothing loaded from elsewhere: no src or href attribute, no style attribute (the CSP forbids them)
+    expect(html.replace(/<script>[\s\S]*?<\/script>/g, '')).not.toMatch(/\s(src|href|style)=/);
+    const body = html.replace(/<script>[\s\S]*?<\/script>/g, '');
+    expect(body).toContain('data-key="area"');
+    // a limit written as a number or a quantity is a control (the mass-limited samples give a table in z)
+    const det = (parseYaml(readFileSync(`samples/${sample}`, 'utf8'), sample) as { detection: { limit: unknown } }).detection;
+    if (typeof det.limit !== 'object') expect(body).toContain('data-key="detection.limit"');
+    const shown = new Map<string, number>();
+    for (const m of body.matchAll(/data-output="([^"]+)" data-value="([^"]+)"/g)) shown.set(m[1]!, Number(m[2]));
+    expectSameOutputs(shown, await expectedOutputs(`samples/${sample}`), sample);
+  });
+
+  test('settings written as YAML and as a parsed object give the same prediction; values read back exactly', () => {
+    const path = `samples/${sample}`;
+    const text = readFileSync(path, 'utf8');
+    const raw = parseYaml(text, path);
+    const controls = exploreControls(raw, loadSurveyText(text, path));
+    expect(controls.length).toBeGreaterThanOrEqual(2);
+    const values = new Map<string, number>();
+    for (const c of controls) {
+      expect(c.min).toBeLessThan(c.max);
+      expect(c.value).toBeGreaterThanOrEqual(c.min);
+      expect(c.value).toBeLessThanOrEqual(c.max);
+      // a value no decimal writes short: the text must carry every digit
+      values.set(c.key, c.min + (c.max - c.min) * (0.4 + Math.PI / 100));
+    }
+    const written = settingsText(text, controls, values);
+    const fromText = loadSurveyText(written, path);
+    const fromObject = parseSurveyObject(settingsObject(raw, controls, values), path);
+    expect(JSON.stringify(predict(fromObject))).toBe(JSON.stringify(predict(fromText)));
+    expect(fromText.areaDeg2).toBe(values.get('area'));
+    const d = fromText.detection;
+    const limit = d.kind === 'line_flux' ? d.limitCgs : d.kind === 'magnitude' ? d.limitMag : undefined;
+    if (limit !== undefined) expect(limit).toBe(values.get('detection.limit'));
+    // comments and the keys not set stay as written
+    for (const line of text.split('\n').filter((l) => l.trimStart().startsWith('#'))) expect(written).toContain(line.trim());
+  });
+});
+
+describe('controls', () => {
+  const text = readFileSync('samples/halpha-narrowband.yaml', 'utf8');
+  const survey = loadSurveyText(text, 'halpha-narrowband.yaml');
+
+  test('keys in the unit of docs/survey-file.md: area deg^2, line-flux limit erg/s/cm^2, filter in Angstrom, model parameters', () => {
+    const c = new Map(exploreControls(parseYaml(text, 'x'), survey).map((x) => [x.key, x]));
+    expect(c.get('area')!.value).toBe(2.1);
+    expect(c.get('detection.limit')!.value).toBe(4e-17);
+    // 1.19 um = 11,900 Angstrom (SI prefixes; 1 um = 1e4 Angstrom)
+    expect(c.get('detection.filter.center')!.value).toBeCloseTo(11900, 9);
+    expect(c.get('detection.filter.fwhm')!.value).toBeCloseTo(130, 9);
+    expect([...c.keys()]).toEqual(expect.arrayContaining(['population.log10_phi_star', 'population.log10_l_star', 'population.alpha']));
+    expect(c.get('population.alpha')!.range).toBe('default');
+  });
+
+  test('a model_uncertainty block sets the parameter ranges to 3 sigma (phi* and L* in dex also when written linearly)', () => {
+    const raw = parseYaml(text, 'x') as { population: Record<string, unknown> };
+    raw.population.model_uncertainty = { log10_phi_star: 0.08, log10_l_star: 0.05, alpha: 0.1 };
+    const c = new Map(exploreControls(raw, survey).map((x) => [x.key, x]));
+    const a = c.get('population.alpha')!;
+    expect(a.range).toBe('model_uncertainty');
+    expect(a.min).toBeCloseTo(-1.45 - 0.3, 12);
+    expect(a.max).toBeCloseTo(-1.45 + 0.3, 12);
+    expect(c.get('population.log10_l_star')!.min).toBeCloseTo(42.3 - 0.15, 12);
+    raw.population.phi_star = 10 ** -2.6;
+    delete raw.population.log10_phi_star;
+    const p = exploreControls(raw, survey).find((x) => x.key === 'population.phi_star')!;
+    expect(p.min / p.value).toBeCloseTo(10 ** -0.24, 12);
+  });
+
+  test('a plan file: the exposure per pointing buys whole pointings and reaches the depth law\'s limit', () => {
+    const plan = readFileSync('samples/plan-halpha-layers.yaml', 'utf8');
+    const c = exploreControls(parseYaml(plan, 'p'), loadSurveyText(plan, 'samples/plan-halpha-layers.yaml')).find((x) => x.key === EXPOSURE_KEY)!;
+    expect(c.plan).toBeDefined();
+    // the grid of the file: 0.03 to 40 h
+    expect(c.min).toBe(0.03);
+    expect(c.max).toBe(40);
+    // 80 h budget, 0.1 h overhead, 0.2 deg^2 per pointing: 4 h buys floor(80 / 4.1) = 19 pointings;
+    // background-limited depth: flux limit proportional to t^-1/2 (common practice), so 4 h
+    // reaches half the reference's 6e-17 at 1 h
+    const d = exposureDesign(c.plan!, 4);
+    expect(d.pointings).toBe(19);
+    expect(d.area).toBeCloseTo(19 * 0.2, 12);
+    expect(d.limit / 3e-17).toBeCloseTo(1, 12);
+    // the file's own limit (4e-17) is reached after (6/4)^2 = 2.25 h
+    expect(c.value).toBeCloseTo(2.25, 10);
+  });
+
+  test('a bad survey file: exit 2, one sentence naming the file, nothing written', async () => {
+    const out = join(dir, 'bad.html');
+    const bad = join(dir, 'bad.yaml');
+    const { writeFileSync } = await import('node:fs');
+    writeFileSync(bad, text.replace('area: "2.1 deg^2"', 'area: -3'));
+    const r = await runCli(['explore', bad, '--out', out]);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toContain('bad.yaml');
+    expect(r.stderr.trim().split('\n').length).toBe(1);
+    expect(existsSync(out)).toBe(false);
+  });
+});

@@ -1,0 +1,131 @@
+/**
+ * The selection keys in the loader (src/survey/selection-keys.ts), their statement in every model
+ * block and in check, and the warnings about common traps (src/selection/warnings.ts): each fires
+ * on a file made to trigger it, and no bundled sample raises any.
+ */
+import { describe, expect, test } from 'vitest';
+import { readdirSync, readFileSync } from 'node:fs';
+import { parse } from 'yaml';
+import { loadSurveyFile, parseSurveyObject } from '../../src/survey/load.js';
+import { describeSurvey } from '../../src/survey/describe.js';
+import { SurveyError } from '../../src/errors.js';
+import { surveyWarnings } from '../../src/population/warnings.js';
+import { predict } from '../../src/counts/predict.js';
+import { clone, LINE_YAML, MAGNITUDE_YAML, setPath } from '../survey/fixtures.js';
+
+const FILE = 'selection-test.yaml';
+const line = parse(LINE_YAML) as Record<string, unknown>;
+const magnitude = parse(MAGNITUDE_YAML) as Record<string, unknown>;
+
+function withKeys(base: Record<string, unknown>, keys: Record<string, unknown>): Record<string, unknown> {
+  const obj = clone(base);
+  for (const [k, v] of Object.entries(keys)) setPath(obj, k, v);
+  return obj;
+}
+
+function errorOf(f: () => unknown): SurveyError {
+  try {
+    f();
+  } catch (e) {
+    if (e instanceof SurveyError) return e;
+    throw e;
+  }
+  throw new Error('no error');
+}
+
+const codes = (obj: Record<string, unknown>) => surveyWarnings(parseSurveyObject(obj, FILE)).map((w) => w.code);
+
+describe('the loader reads the selection keys', () => {
+  test('every key, with units, tables and expressions', () => {
+    const s = parseSurveyObject(
+      withKeys(line, {
+        'detection.redshift_selection': { table: [[0.8, 0.5], [0.9, 0.7]] },
+        'detection.equivalent_width_cut': { observed: '3 nm' },
+        'population.blend_ratio': 0.3,
+        'population.attenuation': '0.8 + 0.1*z',
+        'population.equivalent_widths': { model: 'lognormal', median: '50 Angstrom', sigma_dex: 0.25 },
+        'population.valid_redshift': { min: 0.5, max: 1.2 },
+      }),
+      FILE,
+    );
+    expect(s.detection.equivalentWidthCut).toEqual({ frame: 'observed', angstrom: 30 });
+    expect(s.detection.redshiftSelection!.at(0.85)).toBeCloseTo(0.6, 14);
+    const p = s.populations[0]!;
+    expect(p.blendRatio).toBe(0.3);
+    expect(p.attenuation!.at(1)).toBeCloseTo(0.9, 14);
+    expect(p.equivalentWidths).toEqual({ model: 'lognormal', medianAngstrom: 50, sigmaDex: 0.25 });
+    expect(p.validRedshift).toEqual({ min: 0.5, max: 1.2 });
+    // check states them, and so does every model block
+    const view = describeSurvey(s);
+    expect(view.populations[0]!.selection.effects).toEqual(['redshift_selection', 'blend_ratio', 'attenuation', 'equivalent_width_cut']);
+    expect(view.populations[0]!.selection.attenuation_applied).toBe(true);
+    const pred = predict(s, { noUncertainty: true });
+    expect(pred.models[0]!.selection.redshift_selection!.from).toBe('detection');
+    expect(pred.models[0]!.selection.equivalent_width_cut!.frame).toBe('observed');
+  });
+
+  test('without any, the statement says none and no attenuation', () => {
+    const s = parseSurveyObject(clone(line), FILE);
+    expect(describeSurvey(s).populations[0]!.selection).toEqual({ effects: [], attenuation_applied: false });
+    expect(predict(s, { noUncertainty: true }).models[0]!.selection).toEqual({ effects: [], attenuation_applied: false });
+  });
+
+  test.each([
+    ['a fraction above 1', { 'detection.redshift_selection': 1.2 }, 'out_of_range', 'detection.redshift_selection'],
+    ['an expression going negative', { 'population.redshift_selection': '0.5 - z' }, 'out_of_range', 'population.redshift_selection'],
+    ['blend_ratio on a magnitude survey', { 'population.blend_ratio': 0.3 }, 'kind_mismatch', 'population.blend_ratio', magnitude],
+    ['a negative blend_ratio', { 'population.blend_ratio': -0.1 }, 'out_of_range', 'population.blend_ratio'],
+    ['a negative attenuation', { 'population.attenuation': -1 }, 'out_of_range', 'population.attenuation'],
+    ['an equivalent-width cut without a distribution', { 'detection.equivalent_width_cut': { rest: 20 } }, 'missing_key', 'population.equivalent_widths'],
+    ['an equivalent-width cut on a magnitude survey', { 'detection.equivalent_width_cut': { rest: 20 } }, 'kind_mismatch', 'detection.equivalent_width_cut', magnitude],
+    ['a lognormal without sigma_dex', { 'population.equivalent_widths': { model: 'lognormal', median: 40 } }, 'missing_key', 'population.equivalent_widths.sigma_dex'],
+    ['a table of fractions that grows', { 'population.equivalent_widths': { model: 'table', table: [[0, 0.5], [10, 0.6]] } }, 'bad_table', 'population.equivalent_widths.table[1]'],
+    ['valid_redshift with max below min', { 'population.valid_redshift': { min: 2, max: 1 } }, 'out_of_range', 'population.valid_redshift.max'],
+  ] as [string, Record<string, unknown>, string, string, Record<string, unknown>?][])('%s is refused', (_what, keys, code, key, base) => {
+    const e = errorOf(() => parseSurveyObject(withKeys(base ?? line, keys), FILE));
+    expect(e.code).toBe(code);
+    expect(e.keyPath).toBe(key);
+    expect(e.message.split('\n')).toHaveLength(1);
+  });
+});
+
+describe('warnings about selection traps', () => {
+  test('rest_wavelength_default_far_from_band: an r-band survey at z < 0.6 with the default 1500 A', () => {
+    const r = withKeys(magnitude, { redshift: { min: 0.05, max: 0.6 }, 'detection.band': '6200 Angstrom', 'population.rest_wavelength': undefined });
+    expect(codes(r)).toContain('rest_wavelength_default_far_from_band');
+    // the same band with rest_wavelength stated, or a UV survey whose band sees about 1500 A: none
+    expect(codes(withKeys(r, { 'population.rest_wavelength': 5000 }))).not.toContain('rest_wavelength_default_far_from_band');
+    const uv = withKeys(magnitude, { 'detection.band': '7500 Angstrom', redshift: { min: 3.8, max: 4.2 }, 'population.rest_wavelength': undefined });
+    expect(codes(uv)).not.toContain('rest_wavelength_default_far_from_band');
+  });
+
+  test('window_beyond_valid_redshift', () => {
+    expect(codes(withKeys(magnitude, { 'population.valid_redshift': { min: 3, max: 4.5 } }))).toContain('window_beyond_valid_redshift');
+    expect(codes(withKeys(magnitude, { 'population.valid_redshift': { min: 2.5, max: 5.5 } }))).not.toContain('window_beyond_valid_redshift');
+  });
+
+  test('igm_not_stated: a band within 1.3 Lyman alpha (1 + z) and no igm key; stating either value silences it', () => {
+    // 1.5 um / (1.3 x 1216 A) - 1 = 8.5: the window 3-5 is far; an 8000 A band reaches it at z > 4.06
+    expect(codes(clone(magnitude))).not.toContain('igm_not_stated');
+    const near = withKeys(magnitude, { 'detection.band': '8000 Angstrom' });
+    expect(codes(near)).toContain('igm_not_stated');
+    expect(codes(withKeys(near, { 'detection.igm': 'none' }))).not.toContain('igm_not_stated');
+    expect(codes(withKeys(near, { 'detection.igm': 'madau1995' }))).not.toContain('igm_not_stated');
+  });
+
+  test('phi_star_per_dex: once per population given a per-dex normalisation', () => {
+    const dex = withKeys(line, { 'population.phi_star': undefined, 'population.log10_phi_star_dex': -2.6 });
+    expect(codes(dex)).toEqual(['phi_star_per_dex']);
+    expect(codes(clone(line))).not.toContain('phi_star_per_dex');
+  });
+
+  test('no bundled sample raises any of them', () => {
+    for (const f of readdirSync('samples').filter((x) => x.endsWith('.yaml'))) {
+      expect(surveyWarnings(loadSurveyFile(`samples/${f}`)), f).toEqual([]);
+    }
+  });
+
+  test('the sample files are what the test reads', () => {
+    expect(readFileSync('samples/mass-limited.yaml', 'utf8')).not.toMatch(/_dex:/);
+  });
+});
