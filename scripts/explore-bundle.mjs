@@ -21,7 +21,11 @@ const pagePlugin = {
   },
 };
 
-/** Bundles the page script; returns its text (and writes it to `outfile` when given). */
+/**
+ * Bundles the page script; returns its text (and writes it to `outfile` when given, with a source
+ * map beside it, as every file of dist/ has). Not minified, as the rest of dist/: the page's
+ * stack traces name our functions.
+ */
 export async function bundleExplorePage(outfile) {
   const r = await build({
     entryPoints: [join(browser, 'main.ts')],
@@ -30,7 +34,8 @@ export async function bundleExplorePage(outfile) {
     format: 'iife',
     platform: 'browser',
     target: 'es2022',
-    minify: true,
+    minify: false,
+    sourcemap: outfile ? 'linked' : false,
     legalComments: 'eof',
     charset: 'utf8',
     inject: [join(browser, 'shims/buffer.ts')],
@@ -43,10 +48,11 @@ export async function bundleExplorePage(outfile) {
     logLevel: 'warning',
     ...(outfile ? { outfile } : { outdir: 'unused' }),
   });
-  const text = r.outputFiles[0].text;
+  const js = r.outputFiles.find((f) => f.path.endsWith('.js'));
   if (outfile) {
-    const { writeFileSync } = await import('node:fs');
-    writeFileSync(outfile, text);
+    const { mkdirSync, writeFileSync } = await import('node:fs');
+    mkdirSync(dirname(resolve(outfile)), { recursive: true });
+    for (const f of r.outputFiles) writeFileSync(f.path, f.contents);
   }
-  return text;
+  return js.text;
 }

@@ -19,14 +19,17 @@ export const EXPLORE_SCRIPT_VARIABLE = 'SKYTALLY_EXPLORE_SCRIPT';
 /** Where the page believes the survey file lies: the files it names are embedded under it. */
 export const PAGE_BASE_DIR = '/survey';
 
-/** The bundled page script: SKYTALLY_EXPLORE_SCRIPT when set, else the package's dist/explore-page.js. */
+/**
+ * The bundled page script: SKYTALLY_EXPLORE_SCRIPT when set, else the package's
+ * dist/explore-page.js; without its source-map comment (the page has no file beside it).
+ */
 export function explorePageScript(): string {
   const given = process.env[EXPLORE_SCRIPT_VARIABLE];
-  if (given) return readFileSync(given, 'utf8');
-  if (import.meta.url.endsWith('.ts')) {
+  if (!given && import.meta.url.endsWith('.ts')) {
     throw new Error(`the explore page needs its bundled script: build the package, or set ${EXPLORE_SCRIPT_VARIABLE} to a bundle made by scripts/explore-bundle.mjs`);
   }
-  return readFileSync(fileURLToPath(import.meta.resolve('#explore-page')), 'utf8');
+  const text = readFileSync(given || fileURLToPath(import.meta.resolve('#explore-page')), 'utf8');
+  return text.replace(/\n\/\/# sourceMappingURL=\S+\s*$/, '\n');
 }
 
 /**
