@@ -16,7 +16,8 @@ import mt19937 from '@stdlib/random-base-mt19937';
 import { buildSamplingTables, CatalogueSampler } from '../../src/forecast/sampler.js';
 import { buildRejectionTables, RejectionSampler } from '../forecast/rejection-sampler.js';
 
-const samples = readdirSync('samples').filter((f) => f.endsWith('.yaml') && !f.startsWith('plan'));
+// (forecasts refuse photometric-redshift scatter: photoz-* samples have it)
+const samples = readdirSync('samples').filter((f) => f.endsWith('.yaml') && !f.startsWith('plan') && !f.startsWith('photoz'));
 let sink = 0;
 
 function scaledTo(s: Survey, n: number, count: number): Survey {
