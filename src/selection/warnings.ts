@@ -45,11 +45,11 @@ export function selectionWarnings(survey: Survey): Warning[] {
             `${p.name}: rest_wavelength is left at its default ${fmt(rest)} A, but the band (${fmt(d.bandAngstrom)} A) sees ${fmt(worst.l)} A at rest at z = ${fmt(worst.z)}, ` +
               `more than ${Math.round(REST_WAVELENGTH_TOLERANCE * 100)} % away, ` +
               (d.sed
-                ? 'so the k-correction compares the spectrum far from where the band looks (counts can be many times off); '
-                : d.beta === -2
-                  ? 'so M* is taken where the band does not look (with beta = -2 the colour term vanishes; with any other spectrum counts can be many times off); '
-                  : 'so the colour term extrapolates far (counts can be many times off); ') +
-              `give rest_wavelength where the luminosity function's magnitudes are defined`,
+                ? `so M* is read as a ${fmt(rest)} A magnitude and the spectrum carries it far (counts can be many times off); give rest_wavelength or rest_band where the luminosity function's magnitudes are defined`
+                : (d.beta === -2
+                    ? 'so M* is taken where the band does not look (with beta = -2 the colour term vanishes; with any other spectrum counts can be many times off); '
+                    : 'so the colour term extrapolates far (counts can be many times off); ') +
+                  `give rest_wavelength where the luminosity function's magnitudes are defined`),
           ),
         );
       }
