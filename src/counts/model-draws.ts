@@ -1,7 +1,7 @@
 /**
  * The counts under the assumed model's own uncertainty (a population's model_uncertainty,
  * docs/survey-file.md): N draws of constant offsets to the Schechter parameters, each counted on
- * the redshift nodes the plain prediction already built (src/counts/engine.ts, option `nodes`).
+ * the redshift nodes the plain prediction already built (src/counts/engine.ts, option `drawNodes`).
  *
  * At a node the observed value is obs = a(z) + slope log10 u, and a(z) holds the characteristic
  * value with coefficient 1 (log10 L* for a luminosity variable, M* for a magnitude one;
@@ -112,10 +112,7 @@ function isZero(o: ModelOffsets): boolean {
 /** A node under a draw's offsets. */
 function shifted(nd: NodeState, o: ModelOffsets, slope: number, lumFactor: number): NodeState {
   return {
-    z: nd.z,
-    volumeWeight: nd.volumeWeight,
-    volumeMpc3: nd.volumeMpc3,
-    selected: nd.selected,
+    ...nd,
     a: nd.a + o.characteristic,
     log10ULimit: nd.log10ULimit - o.characteristic / slope,
     obsLimit: nd.obsLimit,
@@ -299,7 +296,7 @@ function sliceUnderDraw(
 
 /**
  * Every slice of one population under each draw's offsets. `slices` are the plain prediction's
- * (counted with the engine's `nodes` option); `luminosity` also gives the luminosity per draw;
+ * (counted with the engine's `drawNodes` option); `luminosity` also gives the luminosity per draw;
  * `histogramDraws` (0: none) the histograms of the first draws. A draw without offsets is the
  * plain prediction itself.
  */
@@ -319,7 +316,7 @@ export function populationDraws(
   const lumFactors = offsets.map((o) => (population.variable === 'luminosity' ? 10 ** o.characteristic : 10 ** (-0.4 * o.characteristic)));
   const res = { count: 0, detected: 0, total: 0 as number | undefined };
   slices.forEach((sl, j) => {
-    const f = flatten(sl.nodes ?? []);
+    const f = flatten(sl.drawNodes ?? []);
     for (let i = 0; i < n; i++) {
       const o = offsets[i]!;
       if (isZero(o) || f.count === 0) {
@@ -351,7 +348,7 @@ function histogramDraws(survey: Survey, s: Setting, slices: readonly SliceCount[
     const plain = sl.histogram;
     const nb = plain.counts.length;
     const bins = Array.from({ length: nb }, () => new Float64Array(offsets.length));
-    const nodes = sl.nodes ?? [];
+    const nodes = sl.drawNodes ?? [];
     if (nb === 0 || nodes.length === 0) return { draws: offsets.length, bins };
     const k0 = Math.round(plain.edges[0]! / width);
     offsets.forEach((o, i) => {

@@ -365,7 +365,7 @@ function countPopulations(survey: Survey, cosmo: FlatCosmology, units: string[],
   const withPhotoZ = d.kind !== 'line_flux' && d.photoZ !== undefined;
   return survey.populations.map((p, i) => {
     const photoZ = withPhotoZ ? countPhotoZ(survey, p, cosmo, p.sliceEdges, { profile: profiles }) : undefined;
-    const own = photoZ ? photoZ.slices : countPopulation(survey, p, cosmo, p.sliceEdges, { profile: profiles, nodes: withModel && p.modelUncertainty !== undefined });
+    const own = photoZ ? photoZ.slices : countPopulation(survey, p, cosmo, p.sliceEdges, { profile: profiles, drawNodes: withModel && p.modelUncertainty !== undefined });
     const sfr = p.sfrConversion?.factor;
     const pred: PopulationPrediction = {
       name: p.name,
@@ -486,7 +486,7 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
   if (withModel) {
     const draws = addPopulationSpreads(survey, cosmo, runs, { draws: modelDraws, seed: options.model?.seed ?? DEFAULT_MODEL_SEED });
     if (survey.populations.length > 1) addTopSpreads(runs, draws, top);
-    for (const r of runs) for (const sc of r.own) delete sc.nodes;
+    for (const r of runs) for (const sc of r.own) delete sc.drawNodes;
   }
 
   const ranges = survey.populations.map(countedRange);

@@ -111,7 +111,7 @@ describe('exact cases', () => {
       const t = p.totals.model!;
       // the mean of the same draws against 40-node Gauss-Hermite quadrature: 4 standard errors sqrt(variance / N)
       const pop = survey.populations[0]!;
-      const own = countPopulation(survey, pop, new FlatCosmology(survey.cosmology), pop.sliceEdges, { nodes: true });
+      const own = countPopulation(survey, pop, new FlatCosmology(survey.cosmology), pop.sliceEdges, { drawNodes: true });
       const d = populationDraws(survey, pop, new FlatCosmology(survey.cosmology), own, drawModelOffsets(pop.modelUncertainty!, 1, DRAWS, 7, 0), { luminosity: false, histogramDraws: 0 });
       let mean = 0;
       for (let i = 0; i < DRAWS; i++) for (const c of d.counts) mean += c[i]! / DRAWS;
@@ -198,7 +198,7 @@ describe('a draw counts as the engine does at the same offsets (hard limits, com
       const survey = parseSurveyObject(v, file);
       const pop = survey.populations[0]!;
       const cosmo = new FlatCosmology(survey.cosmology);
-      const own = countPopulation(survey, pop, cosmo, pop.sliceEdges, { nodes: true });
+      const own = countPopulation(survey, pop, cosmo, pop.sliceEdges, { drawNodes: true });
       const k = pop.components.length;
       const o = { log10PhiStar: new Array<number>(k).fill(0.07), alpha: new Array<number>(k).fill(-0.06), characteristic: pop.variable === 'luminosity' ? 0.05 : -0.12 };
       const d = populationDraws(survey, pop, cosmo, own, [o], { luminosity: true, histogramDraws: 1 });
