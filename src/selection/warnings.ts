@@ -31,7 +31,8 @@ export function selectionWarnings(survey: Survey): Warning[] {
   const d = survey.detection;
   for (const p of survey.populations) {
     const { min, max } = p.window;
-    if (d.kind === 'magnitude' && p.restWavelengthDefault) {
+    // (a rest_band states where M* is defined, so the default rest wavelength is then not used)
+    if (d.kind === 'magnitude' && p.restWavelengthDefault && !p.restBand) {
       const rest = p.restWavelengthAngstrom;
       // band / (1 + z) falls with z: its extremes are at the window's ends
       const atMin = d.bandAngstrom / (1 + min);
@@ -42,8 +43,13 @@ export function selectionWarnings(survey: Survey): Warning[] {
           warning(
             'rest_wavelength_default_far_from_band',
             `${p.name}: rest_wavelength is left at its default ${fmt(rest)} A, but the band (${fmt(d.bandAngstrom)} A) sees ${fmt(worst.l)} A at rest at z = ${fmt(worst.z)}, ` +
-              `more than ${Math.round(REST_WAVELENGTH_TOLERANCE * 100)} % away, so the colour term extrapolates far (counts can be many times off); ` +
-              `give rest_wavelength where the luminosity function's magnitudes are defined`,
+              `more than ${Math.round(REST_WAVELENGTH_TOLERANCE * 100)} % away, ` +
+              (d.sed
+                ? `so M* is read as a ${fmt(rest)} A magnitude and the spectrum carries it far (counts can be many times off); give rest_wavelength or rest_band where the luminosity function's magnitudes are defined`
+                : (d.beta === -2
+                    ? 'so M* is taken where the band does not look (with beta = -2 the colour term vanishes; with any other spectrum counts can be many times off); '
+                    : 'so the colour term extrapolates far (counts can be many times off); ') +
+                  `give rest_wavelength where the luminosity function's magnitudes are defined`),
           ),
         );
       }

@@ -142,3 +142,25 @@ describe('equivalent-width distributions', () => {
     expect(fractionAbove({ model: 'table', widthAngstrom: [0, 30], fractionAbove: [0.9, 0.2] }, 15)).toBeCloseTo(0.55, 15);
   });
 });
+
+describe('the selection reaches the cosmic variance and the forecast', () => {
+  const text = readFileSync('samples/dropout-field.yaml', 'utf8');
+  const withTable = loadSurveyText(text, 'dropout-field.yaml');
+  const without = loadSurveyText(text.replace(/^  redshift_selection:.*\n/m, ''), 'dropout-field.yaml');
+
+  test('the total box is as deep as the selected sources: a selection peaked in the window shortens it', () => {
+    const a = predict(withTable).totals.uncertainty!;
+    const b = predict(without).totals.uncertainty!;
+    expect(a.effective_depth_mpc).toBeLessThan(0.9 * b.effective_depth_mpc!);
+  });
+
+  test('the forecast counts what predict counts (the selection enters its likelihood like completeness), to 1e-9', async () => {
+    const { forecast } = await import('../../src/forecast/forecast.js');
+    const f = await forecast(withTable, { cosmicVariance: false });
+    const p = predict(withTable, { noUncertainty: true });
+    expect(rel(f.count, p.totals.count)).toBeLessThan(1e-9);
+    const f0 = await forecast(without, { cosmicVariance: false });
+    // fewer sources, so wider constraints on every parameter
+    for (const k of Object.keys(f.fisher.sigma)) expect(f.fisher.sigma[k]!).toBeGreaterThan(f0.fisher.sigma[k]!);
+  });
+});

@@ -19,7 +19,8 @@ import { fileURLToPath } from 'node:url';
 import { describe, expect, test } from 'vitest';
 import type { Filter } from '../../src/model/detection.js';
 import type { RestFrame, SedPhotometry } from '../../src/model/photometry.js';
-import { adaptiveCubicTable, kCorrectionFunction, sedKCorrection, tabulatedSpectrum, type SpectrumShape } from '../../src/selection/kcorrection.js';
+import { adaptiveCubicTable, bandIntegrals, kCorrectionFunction, sedKCorrection, tabulatedSpectrum, type SpectrumShape } from '../../src/selection/kcorrection.js';
+import { bandAveragedMadau1995 } from '../../src/selection/igm.js';
 import { readSpectrumFile } from '../../src/survey/spectrum-file.js';
 import { readTransmissionFile } from '../../src/survey/transmission-file.js';
 import { SurveyError } from '../../src/errors.js';
@@ -137,5 +138,28 @@ describe('the tabulated K(z) the counts use', () => {
     expect(() => sedKCorrection(s, { kind: 'wavelength', angstrom: 1500 }, 'none', 3, 8)).toThrow(SurveyError);
     const inside = sedKCorrection(s, { kind: 'wavelength', angstrom: 1500 }, 'none', 3, 4);
     expect(() => inside(9)).toThrow(/detection\.sed/);
+  });
+});
+
+describe('the intergalactic transmission inside the band integral (igm: madau1995)', () => {
+  test('a power law through a band file: the same band average as the power-law path (1e-3 mag, its midpoint rule)', () => {
+    // bandAveragedMadau1995 weights the band by lambda^(beta+1), as l f_lambda R does for f_lambda ~ lambda^beta.
+    const beta = -1.7;
+    const pl: SpectrumShape = { at: (l) => (l / 1500) ** beta, nodes: [], min: 0, max: Infinity };
+    for (const z of [4.4, 5, 5.5]) {
+      const withIgm = bandIntegrals(pl, redBand, z, 'madau1995').num;
+      const without = bandIntegrals(pl, redBand, z, 'none').num;
+      const dk = -2.5 * Math.log10(withIgm / without);
+      expect(dk).toBeGreaterThan(0.05);
+      expect(Math.abs(dk + 2.5 * Math.log10(bandAveragedMadau1995(redBand.table!, z, beta)))).toBeLessThan(1e-3);
+    }
+  });
+  test('redward of Lyman alpha at every wavelength of the band the IGM changes nothing (exactly)', () => {
+    const b: Filter = { profile: 'tophat', centerAngstrom: 12500, fwhmAngstrom: 2500 };
+    const r: RestFrame = { kind: 'wavelength', angstrom: 1500 };
+    const k0 = kCorrectionFunction(spectra.invented, b, r, 'none');
+    const k1 = kCorrectionFunction(spectra.invented, b, r, 'madau1995');
+    expect(k1(4)).toBe(k0(4)); // 11250 / 5 > 1216
+    expect(k1(9)).toBeGreaterThan(k0(9) + 0.1);
   });
 });

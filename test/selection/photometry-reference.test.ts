@@ -152,3 +152,16 @@ describe('refusals name the key and the fix (exit 2)', () => {
     expect(e.message).toContain(key);
   });
 });
+
+describe('warnings about Lyman alpha with a spectrum', () => {
+  test('a band reaching blueward of Lyman alpha (1+z) warns, naming the spectrum, with igm none', () => {
+    const yaml = find('dropout-sed-selection.yaml').yaml.replace('redshift: {min: 3.2, max: 4.6}', 'redshift: {min: 3.2, max: 8}');
+    const p = predict(loadSurveyText(yaml, `${dir}/edited.yaml`));
+    const w = p.warnings.find((x) => x.code === 'band_blueward_of_lyman_alpha');
+    expect(w?.message).toContain('red edge at 10500 A');
+    expect(w?.message).toContain('spectrum');
+    const madau = predict(loadSurveyText(yaml.replace('  igm: none\n', '  igm: madau1995\n'), `${dir}/edited.yaml`));
+    expect(madau.warnings.find((x) => x.code === 'band_blueward_of_lyman_alpha')?.message).toContain('applied to the spectrum inside the band');
+    expect(madau.totals.count).toBeLessThan(p.totals.count);
+  });
+});

@@ -95,6 +95,9 @@ describe('warnings about selection traps', () => {
     expect(codes(r)).toContain('rest_wavelength_default_far_from_band');
     // the same band with rest_wavelength stated, or a UV survey whose band sees about 1500 A: none
     expect(codes(withKeys(r, { 'population.rest_wavelength': 5000 }))).not.toContain('rest_wavelength_default_far_from_band');
+    // a rest-frame band states where M* is defined: no warning either
+    const banded = withKeys(r, { 'detection.sed': { file: 'spectra/invented-starburst.csv' }, 'detection.band': { center: '6200 Angstrom', fwhm: '1400 Angstrom' }, 'population.rest_band': { center: '6200 Angstrom', fwhm: '1400 Angstrom' } });
+    expect(surveyWarnings(parseSurveyObject(banded, FILE, 'test/reference/surveys-selection')).map((w) => w.code)).not.toContain('rest_wavelength_default_far_from_band');
     const uv = withKeys(magnitude, { 'detection.band': '7500 Angstrom', redshift: { min: 3.8, max: 4.2 }, 'population.rest_wavelength': undefined });
     expect(codes(uv)).not.toContain('rest_wavelength_default_far_from_band');
   });
