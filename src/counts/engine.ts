@@ -72,6 +72,11 @@ export interface RedshiftProfile {
   z: number[];
   count: number[];
   volumeMpc3: number[];
+  /**
+   * With the engine's weight option: its value at each node, the fraction of the sources at that
+   * redshift the slice holds (count / (selected volume) is then the density of all of them).
+   */
+  selected?: number[];
 }
 
 export interface EngineOptions {
@@ -80,6 +85,13 @@ export interface EngineOptions {
   noHistogram?: boolean;
   /** Also return each slice's redshift profile (the total's cosmic variance weights by it). */
   profile?: boolean;
+  /**
+   * A factor of the integrand at each redshift (photometric redshifts: the probability that a
+   * source at true z is measured in a given slice). It multiplies counts, histograms and
+   * luminosities; the profile then also gives it per node (`selected`). The nodes are chosen for
+   * the integrand without it: give slices over which it is smooth.
+   */
+  weight?: (z: number) => number;
 }
 
 /**
@@ -190,8 +202,12 @@ function sumOver(nodes: { z: number[]; w: number[] }, f: (z: number) => number):
 
 interface NodeState {
   z: number;
-  /** area_sr * dV/dz/dOmega * quadrature weight: Mpc^3 per unit n. */
+  /** area_sr * dV/dz/dOmega * quadrature weight (times the weight option): Mpc^3 per unit n. */
   volumeWeight: number;
+  /** area_sr * dV/dz/dOmega * quadrature weight: the node's comoving volume, Mpc^3. */
+  volumeMpc3: number;
+  /** The weight option at the node (1 without it). */
+  selected: number;
   a: number;
   log10ULimit: number;
   /** The limit in obs (the same at every node for flux and magnitude limits). */
@@ -246,7 +262,7 @@ export function countPopulation(
       out.push(empty);
       continue;
     }
-    const nodes = buildNodes(survey, population, cosmo, observer, lo, hi, options.offsets);
+    const nodes = buildNodes(survey, population, cosmo, observer, lo, hi, options.offsets, options.weight);
     let result: { count: number; histogram: Histogram; detectedLuminosity?: number };
     const perNode = options.profile ? new Array<number>(nodes.length).fill(0) : undefined;
     if (options.noHistogram && !completeness) {
@@ -267,7 +283,10 @@ export function countPopulation(
       throw inputError('not_finite', survey.file, 'population', `the count in the slice ${zMin}-${zMax} is not a finite number`, 'check the Schechter parameters and the limit');
     }
     const slice: SliceCount = { zMin, zMax, volumeMpc3, count: result.count, limitAtCenter, histogram: result.histogram };
-    if (perNode) slice.profile = { z: nodes.map((nd) => nd.z), count: perNode, volumeMpc3: nodes.map((nd) => nd.volumeWeight) };
+    if (perNode) {
+      slice.profile = { z: nodes.map((nd) => nd.z), count: perNode, volumeMpc3: nodes.map((nd) => nd.volumeMpc3) };
+      if (options.weight) slice.profile.selected = nodes.map((nd) => nd.selected);
+    }
     if (!options.noHistogram) {
       const lum = sliceLuminosity(nodes, observer, completeness, breaks, result.detectedLuminosity);
       if (!Number.isFinite(lum.detected) || (lum.total !== undefined && !Number.isFinite(lum.total))) {
@@ -427,6 +446,7 @@ function buildNodes(
   lo: number,
   hi: number,
   offsets?: ParameterOffsets,
+  weight?: (z: number) => number,
 ): NodeState[] {
   const effects = selectionEffects(survey.detection, population);
   const hardCount = (zi: number): number => {
@@ -448,15 +468,19 @@ function buildNodes(
     const zi = z[i]!;
     const p = populationAt(population, zi, offsets);
     const obs = observer.at(zi, p.characteristic);
-    const weight = effects.weight(zi);
+    const volumeMpc3 = survey.areaSr * cosmo.volumeElementMpc3Sr(zi) * w[i]!;
+    const selected = weight ? weight(zi) : 1;
+    const kept = effects.weight(zi);
     nodes.push({
       z: zi,
-      volumeWeight: survey.areaSr * cosmo.volumeElementMpc3Sr(zi) * w[i]!,
+      volumeWeight: volumeMpc3 * selected,
+      volumeMpc3,
+      selected,
       a: obs.a,
       // nothing kept at this z: no detection (as a zero transmission)
-      log10ULimit: weight > 0 ? obs.log10ULimit : Infinity,
+      log10ULimit: kept > 0 ? obs.log10ULimit : Infinity,
       obsLimit: obs.obsLimit,
-      components: weight === 1 ? p.components : p.components.map((c) => ({ phiStar: c.phiStar * weight, alpha: c.alpha })),
+      components: kept === 1 ? p.components : p.components.map((c) => ({ phiStar: c.phiStar * kept, alpha: c.alpha })),
       allComponents: p.components,
       lumScale: luminosityScale(population.variable, p.characteristic),
     });

@@ -22,6 +22,8 @@ import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { countPopulation, type Histogram, type SliceCount } from './engine.js';
+import { countPhotoZ, sumMigrations, type PhotoZCount, type PhotoZMigration } from './photo-z.js';
+import { PHOTO_Z_REACH_SIGMA } from '../model/photo-z.js';
 import { cosmologyJsonOf } from '../model/cosmology-json.js';
 import type {
   LineFluxDetectionBlock,
@@ -29,6 +31,7 @@ import type {
   MagnitudeDetectionBlock,
   ObservedBin,
   ObservedBins,
+  PhotoZMigration as PhotoZMigrationJson,
   PopulationPrediction,
   Prediction,
   PredictionBase,
@@ -73,9 +76,11 @@ export function detectionJson(survey: Survey): PredictionBase['detection'] {
       b.sed_file = d.sed.spectrum.file;
       b.band = { profile: d.sed.band.profile, center_angstrom: d.sed.band.centerAngstrom, fwhm_angstrom: d.sed.band.fwhmAngstrom };
     }
+    if (d.photoZ) b.photo_z = { sigma: d.photoZ.sigma, outlier_fraction: d.photoZ.outlierFraction };
     out = b;
   } else {
     out = { kind: 'threshold', limit: d.limit.source };
+    if (d.photoZ) out.photo_z = { sigma: d.photoZ.sigma, outlier_fraction: d.photoZ.outlierFraction };
   }
   if (d.completeness) out.completeness = d.completeness;
   return out;
@@ -122,9 +127,9 @@ function addLum(a: Lum | undefined, b: Lum | undefined): Lum | undefined {
   return out;
 }
 
-function toSlices(counts: SliceCount[], areaDeg2: number, unit: string, sfrFactor?: number): PredictionSlice[] {
+function toSlices(counts: SliceCount[], areaDeg2: number, unit: string, sfrFactor?: number, trueCounts?: number[]): PredictionSlice[] {
   let cumulative = 0;
-  return counts.map((s) => {
+  return counts.map((s, i) => {
     cumulative += s.count;
     const slice: PredictionSlice = {
       z_min: s.zMin,
@@ -136,6 +141,7 @@ function toSlices(counts: SliceCount[], areaDeg2: number, unit: string, sfrFacto
       limit_at_center: s.limitAtCenter,
       histogram: s.histogram,
     };
+    if (trueCounts) slice.count_true_redshift = trueCounts[i]!;
     const ld = densityOf(s.luminosity, s.volumeMpc3, unit);
     if (ld) slice.luminosity_density = ld;
     const sfr = sfrOf(ld, sfrFactor);
@@ -328,21 +334,46 @@ interface PopulationRun {
   name: string;
   own: SliceCount[];
   pred: PopulationPrediction;
+  /** With photometric redshifts: the counts by true redshift and the migration. */
+  photoZ?: PhotoZCount;
+}
+
+/** The photo_z block of the outputs (specs/prediction.schema.json, photo_z_migration). */
+function migrationJson(m: PhotoZMigration): PhotoZMigrationJson {
+  const last = m.measuredCounts.length - 1;
+  return {
+    sigma: m.sigma,
+    outlier_fraction: m.outlierFraction,
+    reach_sigma: PHOTO_Z_REACH_SIGMA,
+    true_range: { min: m.trueRange.min, max: m.trueRange.max },
+    true_bins: m.trueBins.map((b) => ({ z_min: b.min, z_max: b.max })),
+    measured_bins: m.measuredBins.map((b) => ({ ...(b.min !== null ? { z_min: b.min } : {}), ...(b.max !== null ? { z_max: b.max } : {}) })),
+    migration_matrix: m.matrix.map((row) => [...row]),
+    true_counts: [...m.trueCounts],
+    measured_counts: [...m.measuredCounts],
+    lost_count: m.measuredCounts[0]! + m.measuredCounts[last]!,
+  };
 }
 
 /** Every population over its own window and slice edges (with the engine's redshift profiles when uncertainties follow). */
 function countPopulations(survey: Survey, cosmo: FlatCosmology, units: string[], profiles: boolean): PopulationRun[] {
+  const d = survey.detection;
+  const withPhotoZ = d.kind !== 'line_flux' && d.photoZ !== undefined;
   return survey.populations.map((p, i) => {
-    const own = countPopulation(survey, p, cosmo, p.sliceEdges, profiles ? { profile: true } : {});
+    const photoZ = withPhotoZ ? countPhotoZ(survey, p, cosmo, p.sliceEdges, { profile: profiles }) : undefined;
+    const own = photoZ ? photoZ.slices : countPopulation(survey, p, cosmo, p.sliceEdges, profiles ? { profile: true } : {});
     const sfr = p.sfrConversion?.factor;
     const pred: PopulationPrediction = {
       name: p.name,
       model: describeModel(survey, p),
       window: { min: p.window.min, max: p.window.max },
       totals: totalsOf(own, survey.areaDeg2, units[i], sfr),
-      slices: toSlices(own, survey.areaDeg2, units[i]!, sfr),
+      slices: toSlices(own, survey.areaDeg2, units[i]!, sfr, photoZ?.trueCounts),
     };
-    return { name: p.name, own, pred };
+    if (photoZ) pred.photo_z = migrationJson(photoZ.migration);
+    const run: PopulationRun = { name: p.name, own, pred };
+    if (photoZ) run.photoZ = photoZ;
+    return run;
   });
 }
 
@@ -376,6 +407,7 @@ function summedSlices(survey: Survey, runs: PopulationRun[], units: string[]): {
       histogram,
       population_counts: Object.fromEntries(runs.map((r, k) => [r.name, parts[k]!.count])),
     };
+    if (runs.every((r) => r.photoZ)) slice.count_true_redshift = runs.reduce((a, r) => a + r.photoZ!.trueCounts[i]!, 0);
     const ld = sameUnit ? densityOf(sc.luminosity, first.volumeMpc3, units[0]!) : undefined;
     if (ld) slice.luminosity_density = ld;
     const sfr = sameUnit ? sfrSum(survey, parts.map((x) => x.luminosity), first.volumeMpc3, units) : undefined;
@@ -461,7 +493,9 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
     models: perPop.map((q) => q.model),
     limit_variable: limitVariable(survey, survey.populations[0]!),
   };
+  const migrations = runs.flatMap((r) => (r.photoZ && coincide ? [r.photoZ.migration] : []));
   const tail = {
+    ...(migrations.length > 0 ? { photo_z: migrationJson(sumMigrations(migrations)) } : {}),
     populations: perPop,
     observed_bins: observedBins(survey, runs),
     warnings: mergeWarnings(

@@ -1,5 +1,6 @@
 /** How a survey detects its sources: the detection kinds, filters and bands, completeness. */
 import type { ZParam } from './zparam.js';
+import type { PhotoZ } from './photo-z.js';
 import type { MagnitudeSystemGiven, SedPhotometry } from './photometry.js';
 import type { DetectionSelection } from './selection.js';
 
@@ -60,11 +61,13 @@ export type Detection = DetectionSelection &
       sed?: SedPhotometry; // detection.sed: k-corrections by synthetic photometry instead of beta
       magnitudeSystem?: MagnitudeSystemGiven; // detection.system vega: how the limit was given
       completeness?: Completeness;
+      photoZ?: PhotoZ; // detection.photo_z: slices are in measured (photometric) redshift
     }
   | {
       kind: 'threshold';
       limit: ZParam; // log10 quantity (luminosity variable) or absolute magnitude (magnitude variable)
       completeness?: Completeness;
+      photoZ?: PhotoZ; // detection.photo_z: slices are in measured (photometric) redshift
     }
   );
 

@@ -2,6 +2,7 @@
 import { inputError } from '../errors.js';
 import type { Population } from './population.js';
 import type { Survey } from './survey.js';
+import { photoZIsExact } from './photo-z.js';
 
 /**
  * The population called `name`, or the first one when `name` is undefined. An unknown name is a
@@ -44,6 +45,7 @@ export function surveyForPopulation(survey: Survey, population: Population): Sur
  * of a single Schechter function, so a double Schechter population is refused.
  */
 export function choosePopulation(survey: Survey, name?: string): Population {
+  refuseScatteredRedshifts(survey);
   const p = populationByName(survey, name);
   if (p.shape !== 'schechter') {
     throw inputError(
@@ -55,4 +57,21 @@ export function choosePopulation(survey: Survey, name?: string): Population {
     );
   }
   return p;
+}
+
+/**
+ * Forecasts, comparisons and plans count sources by true redshift: they refuse photometric
+ * redshifts that move sources between slices (sigma above 0 or outliers; docs/survey-file.md,
+ * "Photometric redshifts"). Sigma 0 without outliers changes nothing and is accepted.
+ */
+export function refuseScatteredRedshifts(survey: Survey): void {
+  const d = survey.detection;
+  if (d.kind === 'line_flux' || photoZIsExact(d.photoZ)) return;
+  throw inputError(
+    'conflict',
+    survey.file,
+    'detection.photo_z',
+    `forecasts, comparisons and plans count sources by true redshift, but photo_z moves them between slices (sigma ${d.photoZ!.sigma}, outlier_fraction ${d.photoZ!.outlierFraction})`,
+    'run predict for the counts by measured redshift, or set sigma: 0 and outlier_fraction: 0 (or remove photo_z) for a forecast, comparison or plan',
+  );
 }

@@ -18,7 +18,7 @@ import { combine, logGrid, maximises, nearBest, pointingsFor, searchSingleTier, 
 import { warning, mergeWarnings, type Warning } from '../warnings.js';
 import { surveyWarnings } from '../population/warnings.js';
 import { predictionWarnings } from '../counts/predict.js';
-import { surveyForPopulation } from '../model/select.js';
+import { refuseScatteredRedshifts, surveyForPopulation } from '../model/select.js';
 
 export const PLAN_CAVEAT =
   'A plan is only as good as the luminosity function assumed: the counts and uncertainties hold if the population follows the model given; a different faint-end slope or knee changes which design is best.';
@@ -76,6 +76,7 @@ function designJson(e: Evaluated, names: string[], goal: PlanSpec['goal']): Plan
  * see choosePopulation in src/forecast/forecast.ts).
  */
 export async function planDesigns(file: Survey, population: Population, spec: PlanSpec, opts: PlanOptions = {}): Promise<Plan> {
+  refuseScatteredRedshifts(file);
   // The population's own window and slices, as a file holding it alone.
   const survey = surveyForPopulation(file, population);
   const depth = makeDepthModel(spec.limitKind, spec.depthLaw);

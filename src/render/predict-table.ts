@@ -40,7 +40,32 @@ export function predictionHeader(p: Prediction): string[] {
     `Cosmology: ${cosmologyLine(p.cosmology)}`,
   ];
   for (const m of p.models) lines.push(`Assumed model: ${m.summary}`);
+  const pz = photoZLine(p);
+  if (pz) lines.push(pz);
   return lines;
+}
+
+/** With photometric redshifts: what the slices are, how far true redshifts reach, what is lost. */
+export function photoZLine(p: Prediction): string | undefined {
+  const m = p.photo_z;
+  if (!m) return undefined;
+  // From the matrix: sources truly in the window measured outside it, and sources from outside measured in it.
+  const n = m.true_counts.length - 1;
+  let inside = 0;
+  let out = 0;
+  let scatteredIn = 0;
+  for (let i = 1; i < n; i++) {
+    inside += m.true_counts[i]!;
+    out += m.migration_matrix[i]![0]! + m.migration_matrix[i]![n]!;
+    scatteredIn += m.migration_matrix[0]![i]! + m.migration_matrix[n]![i]!;
+  }
+  const lost = inside > 0 ? ` (${pct(out / inside)})` : '';
+  return (
+    `Photometric redshifts: sigma = ${sig(m.sigma)} (1 + z), outlier fraction ${sig(m.outlier_fraction)}; the slices are slices in MEASURED redshift ` +
+    `(count; "true-z count": sources whose true redshift lies in the slice); true redshifts integrated over z = ${zText(m.true_range.min)} to ${zText(m.true_range.max)} ` +
+    `(${m.reach_sigma} sigma beyond the window); of the sources truly in the window ${sig(out, 4)}${lost} are measured outside it and lost, ` +
+    `and ${sig(scatteredIn, 4)} from outside it are measured in it.`
+  );
 }
 
 export const FORECAST_CAVEAT = 'These numbers are only as good as the luminosity function assumed above.';
@@ -100,6 +125,10 @@ export function predictionTable(p: Prediction): string {
     const columns = multi
       ? p.populations.map((q) => ({ name: q.name, slice: (s: PredictionSlice) => s.population_counts?.[q.name] ?? 0, total: q.totals.count }))
       : [];
+    if (p.photo_z) {
+      const trueTotal = p.slices.reduce((a, s) => a + (s.count_true_redshift ?? 0), 0);
+      columns.push({ name: 'true-z count', slice: (s: PredictionSlice) => s.count_true_redshift ?? 0, total: trueTotal });
+    }
     out.push(slicesTable(p, p.slices, p.totals, columns));
     const note = uncertaintyNote(p.totals);
     if (note) out.push(note);
@@ -230,6 +259,7 @@ export function predictionCsv(p: Prediction): string {
     'volume_mpc3',
     `limit_at_center_${p.limit_variable}`,
     ...(multi ? names.map((n) => `count_${n}`) : []),
+    ...(p.photo_z ? ['count_true_redshift'] : []),
     'count',
     'poisson_fraction',
     'cosmic_variance_fraction',
@@ -244,6 +274,7 @@ export function predictionCsv(p: Prediction): string {
       s.volume_mpc3,
       s.limit_at_center,
       ...(multi ? names.map((n) => s.population_counts?.[n] ?? 0) : []),
+      ...(p.photo_z ? [s.count_true_redshift ?? 0] : []),
       s.count,
       s.uncertainty?.poisson_fraction ?? '',
       s.uncertainty?.cosmic_variance_fraction ?? '',

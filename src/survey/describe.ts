@@ -4,6 +4,7 @@
  * of the population's window.
  */
 import type { Completeness } from '../model/detection.js';
+import { photoZTrueRange, type PhotoZ } from '../model/photo-z.js';
 import type { Survey } from '../model/survey.js';
 import type { ZParam } from '../model/zparam.js';
 import { cosmologyJsonOf } from '../model/cosmology-json.js';
@@ -21,6 +22,12 @@ function describeCompleteness(c: Completeness | undefined): CompletenessBlock | 
   if (!c) return undefined;
   if (c.model === 'logistic') return { model: 'logistic', half: c.half, width: c.width };
   return { model: 'table', x: c.x, fraction: c.fraction };
+}
+
+/** detection.photo_z with the true redshifts it integrates (src/model/photo-z.ts). */
+function photoZView(pz: PhotoZ | undefined, survey: Survey): { sigma: number; outlier_fraction: number; true_range: { min: number; max: number } } | undefined {
+  if (!pz) return undefined;
+  return { sigma: pz.sigma, outlier_fraction: pz.outlierFraction, true_range: photoZTrueRange(survey.populations[0]!.window, pz) };
 }
 
 /** Remove undefined members so the view prints cleanly as JSON. */
@@ -56,10 +63,11 @@ export function describeSurvey(survey: Survey): Omit<SurveyCheck, 'warnings'> {
       band: d.sed ? { profile: d.sed.band.profile, center_angstrom: d.sed.band.centerAngstrom, fwhm_angstrom: d.sed.band.fwhmAngstrom } : undefined,
       beta: d.beta,
       igm: d.igm,
+      photo_z: photoZView(d.photoZ, survey),
       completeness: describeCompleteness(d.completeness),
     });
   } else {
-    detection = clean({ kind: d.kind, limit: parameterView(d.limit, win), completeness: describeCompleteness(d.completeness) });
+    detection = clean({ kind: d.kind, limit: parameterView(d.limit, win), photo_z: photoZView(d.photoZ, survey), completeness: describeCompleteness(d.completeness) });
   }
   return clean({
     format: survey.format,

@@ -16,6 +16,7 @@ import { isPlainNumberString, parseQuantity } from './units.js';
 import { FULL_SKY_DEG2, MIN_AREA_DEG2, SR_PER_DEG2 } from '../model/sky.js';
 import { checkParam, fmt, makeZParam, mapParam, samplePoints, type ZTable } from './zparam.js';
 import { readTransmissionFile } from './transmission-file.js';
+import { photoZTrueRange, readPhotoZ, type RawPhotoZ } from './photo-z.js';
 import { readDetectionPhotometry, readPopulationPhotometry, type RawBand } from './photometry.js';
 import { readDetectionSelection, readPopulationSelection, type RawDetectionSelection, type RawPopulationSelection } from './selection-keys.js';
 import { filterRedshiftWindow, tableFwhm, tableMeanWavelength } from '../selection/filter.js';
@@ -79,6 +80,7 @@ interface RawSurvey {
     vega_to_ab?: number;
     filter?: { center?: Q; fwhm?: Q; profile?: FilterProfile; file?: string };
     completeness?: { model?: 'logistic' | 'table'; half?: Q; width?: number; table?: [number, number][] };
+    photo_z?: RawPhotoZ;
   };
   population?: RawPopulation;
   populations?: RawPopulation[];
@@ -97,8 +99,8 @@ export const DEFAULT_POPULATION_NAME = 'population';
 
 const DETECTION_KEYS: Record<DetectionKind, string[]> = {
   line_flux: ['kind', 'limit', 'line', 'filter', 'completeness', 'redshift_selection', 'equivalent_width_cut'],
-  magnitude: ['kind', 'limit', 'band', 'band_file', 'beta', 'igm', 'sed', 'system', 'vega_to_ab', 'completeness', 'redshift_selection'],
-  threshold: ['kind', 'limit', 'completeness', 'redshift_selection'],
+  magnitude: ['kind', 'limit', 'band', 'band_file', 'beta', 'igm', 'sed', 'system', 'vega_to_ab', 'completeness', 'redshift_selection', 'photo_z'],
+  threshold: ['kind', 'limit', 'completeness', 'redshift_selection', 'photo_z'],
 };
 
 type Window = { min: number; max: number };
@@ -729,11 +731,17 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   const windows = populationWindows(rawPops, lines, given, filter, file);
   const hull = hullOf(windows);
   const slices = readSlices(raw, windows, file);
-  const detection = readDetection(det, rawPops, detLine, filter, hull, file, base, inputs);
+  // Photometric redshifts: every value in z must make sense over the whole true range integrated.
+  const photoZ = det.photo_z && det.kind !== 'line_flux' ? readPhotoZ(det.photo_z, hull, slices.edges, file) : undefined;
+  const checkHull = photoZ ? photoZTrueRange(hull, photoZ) : hull;
+  const detection = readDetection(det, rawPops, detLine, filter, checkHull, file, base, inputs);
+  if (photoZ && detection.kind !== 'line_flux') detection.photoZ = photoZ;
+  const checkWindow = (i: number): Window => (photoZ ? photoZTrueRange(windows[i]!, photoZ) : windows[i]!);
   const populations = rawPops.map(({ raw: p, path }, i) => {
-    const pop = buildPopulation(p, path, i, rawPops.length, windows[i]!, slices.own[i]!, lines[i], file);
+    const pop = buildPopulation(p, path, i, rawPops.length, checkWindow(i), slices.own[i]!, lines[i], file);
+    if (photoZ) pop.window = { min: windows[i]!.min, max: windows[i]!.max };
     const sed = detection.kind === 'magnitude' ? detection.sed : undefined;
-    const phot = readPopulationPhotometry(p, path, detection.kind, sed, windows[i]!, file, base, inputs);
+    const phot = readPopulationPhotometry(p, path, detection.kind, sed, checkWindow(i), file, base, inputs);
     pop.restWavelengthAngstrom = phot.restWavelengthAngstrom;
     if (phot.restBand) {
       pop.restBand = phot.restBand;
@@ -746,9 +754,9 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
     return pop;
   });
   populations.forEach((pop, i) =>
-    Object.assign(pop, readPopulationSelection(rawPops[i]!.raw, rawPops[i]!.path, detection.kind, detection.equivalentWidthCut !== undefined, windows[i]!, file)),
+    Object.assign(pop, readPopulationSelection(rawPops[i]!.raw, rawPops[i]!.path, detection.kind, detection.equivalentWidthCut !== undefined, checkWindow(i), file)),
   );
-  const histogramWidth = readHistogramWidth(raw, rawPops, detection, hull, file);
+  const histogramWidth = readHistogramWidth(raw, rawPops, detection, checkHull, file);
 
   const survey: Survey = {
     format: 1,

@@ -359,7 +359,7 @@ export function totalUncertainty(ctx: UncertaintyContext, parts: readonly TotalP
     }
     los.zMin = Math.min(los.zMin, part.zMin);
     los.zMax = Math.max(los.zMax, part.zMax);
-    const { z, count: dn, volumeMpc3: dv } = part.profile;
+    const { z, count: dn, volumeMpc3: dv, selected } = part.profile;
     // "auto": one bias per group of nodes no wider than BIAS_GROUP_DZ (at least 8 per part), matched
     // to the group's count-weighted density at its count-weighted redshift.
     const nGroups = pop.bias === 'auto' ? Math.max(8, Math.ceil((part.zMax - part.zMin) / BIAS_GROUP_DZ)) : 1;
@@ -375,7 +375,8 @@ export function totalUncertainty(ctx: UncertaintyContext, parts: readonly TotalP
         const g = sums[groupOf(z[k]!)]!;
         g.n += c;
         g.zn += c * z[k]!;
-        g.dens += (c * c) / dv[k]!;
+        // the density of all detected sources at z (a profile with `selected` holds a share of them)
+        g.dens += (c * c) / (dv[k]! * (selected ? selected[k]! : 1));
       }
       // A group holding a negligible share of the part's count (a filter's far wings) is not
       // matched (its density can lie far below any halo's and would only raise a warning): it takes

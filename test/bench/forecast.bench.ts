@@ -13,7 +13,8 @@ import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import type { Survey } from '../../src/model/survey.js';
 import type { BenchCase } from './run.js';
 
-const samples = readdirSync('samples').filter((f) => f.endsWith('.yaml') && !f.startsWith('plan'));
+// (forecasts refuse photometric-redshift scatter: photoz-* samples have it)
+const samples = readdirSync('samples').filter((f) => f.endsWith('.yaml') && !f.startsWith('plan') && !f.startsWith('photoz'));
 let sink = 0;
 
 function scaledTo(s: Survey, n: number, count: number): Survey {

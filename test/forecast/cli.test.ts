@@ -18,7 +18,9 @@ import { tempDir } from '../support/temp.js';
 // Forecasts vary a single Schechter function: double Schechter samples are refused (tested below).
 const ALL = readdirSync('samples').filter((f) => f.endsWith('.yaml') && !f.startsWith('plan'));
 const isDouble = (f: string) => readFileSync(`samples/${f}`, 'utf8').includes('double_schechter');
-const SAMPLES = ALL.filter((f) => !isDouble(f));
+// Forecasts count by true redshift: samples with photometric-redshift scatter are refused (tested below).
+const isPhotoZ = (f: string) => /photo_z: \{sigma: 0\.0*[1-9]/.test(readFileSync(`samples/${f}`, 'utf8'));
+const SAMPLES = ALL.filter((f) => !isDouble(f) && !isPhotoZ(f));
 const schema = JSON.parse(readFileSync('specs/forecast.schema.json', 'utf8'));
 const validate = new Ajv2020({ allErrors: true, strict: false }).compile(schema);
 
@@ -110,6 +112,14 @@ describe('forecast command', () => {
     expect(r.code).toBe(2);
     expect(r.stdout).toBe('');
     expect(r.stderr).toContain('population.shape');
+    expect(r.stderr.trim().split('\n').length).toBe(1);
+  });
+
+  test.each(ALL.filter(isPhotoZ))('%s: photometric-redshift scatter is refused with one sentence (exit 2)', async (f) => {
+    const r = await runCli(['forecast', `samples/${f}`, '--format', 'json']);
+    expect(r.code).toBe(2);
+    expect(r.stdout).toBe('');
+    expect(r.stderr).toContain('detection.photo_z');
     expect(r.stderr.trim().split('\n').length).toBe(1);
   });
 

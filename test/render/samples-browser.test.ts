@@ -24,6 +24,8 @@ const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml')).map((f
 const PLAN_SAMPLES = SAMPLES.filter((s) => /^plan:/m.test(readFileSync(`samples/${s}.yaml`, 'utf8')));
 /** Samples whose (first) population is a double Schechter function: no forecast, a sentence instead. */
 const DOUBLE_SAMPLES = SAMPLES.filter((s) => /shape:\s*double_schechter/.test(readFileSync(`samples/${s}.yaml`, 'utf8')));
+/** Samples with photometric-redshift scatter: forecasts count by true redshift, so no forecast, a sentence instead. */
+const PHOTO_Z_SAMPLES = SAMPLES.filter((s) => /photo_z: \{sigma: 0\.0*[1-9]/.test(readFileSync(`samples/${s}.yaml`, 'utf8')));
 const HOSTILE_TITLE = `Field <script>window.__pwned = 1</script> "><img src=x onerror="window.__pwned=2"> </svg><script>window.__pwned=3</script>`;
 
 interface Opened {
@@ -161,7 +163,7 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
         expect(o.figureNames[2]).toMatch(/^luminosity-function(-1)?$/);
       }
       // every single-Schechter sample's report holds its forecast (the Fisher ellipses)
-      if (!DOUBLE_SAMPLES.includes(name)) expect(o.figureNames).toContain('forecast');
+      if (!DOUBLE_SAMPLES.includes(name) && !PHOTO_Z_SAMPLES.includes(name)) expect(o.figureNames).toContain('forecast');
       for (const b of o.figureBoxes) {
         expect(b.width, b.name).toBeGreaterThan(100);
         expect(b.height, b.name).toBeGreaterThan(100);
@@ -206,6 +208,14 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
       const o = opened.get(name)!;
       expect(o.figureNames).not.toContain('forecast');
       expect(o.omitted.forecast).toMatch(/^No forecast: .*double Schechter/);
+    });
+  });
+
+  describe.each(PHOTO_Z_SAMPLES)('%s (photometric redshifts)', (name) => {
+    test('no forecast figure; a visible sentence says why', () => {
+      const o = opened.get(name)!;
+      expect(o.figureNames).not.toContain('forecast');
+      expect(o.omitted.forecast).toMatch(/^No forecast: .*photo_z/);
     });
   });
 

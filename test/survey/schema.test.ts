@@ -23,7 +23,8 @@ describe('specs/survey.schema.json', () => {
     expect(keysOf(p.redshift!)).toEqual(['max', 'min']);
     expect(keysOf(p.field!)).toEqual(['aspect', 'count']);
     const det = resolve(p.detection!);
-    expect(keysOf(det)).toEqual(['band', 'band_file', 'beta', 'completeness', 'equivalent_width_cut', 'filter', 'igm', 'kind', 'limit', 'line', 'redshift_selection', 'sed', 'system', 'vega_to_ab']);
+    expect(keysOf(det)).toEqual(['band', 'band_file', 'beta', 'completeness', 'equivalent_width_cut', 'filter', 'igm', 'kind', 'limit', 'line', 'photo_z', 'redshift_selection', 'sed', 'system', 'vega_to_ab']);
+    expect(keysOf(det.properties!.photo_z!)).toEqual(['outlier_fraction', 'sigma']);
     expect(det.properties!.igm!.enum).toEqual(['none', 'madau1995']);
     expect(det.properties!.kind!.enum).toEqual(['line_flux', 'magnitude', 'threshold']);
     expect(keysOf(det.properties!.filter!)).toEqual(['center', 'file', 'fwhm', 'profile']);

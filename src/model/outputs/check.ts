@@ -72,11 +72,27 @@ export interface SurveyCheck {
           fwhm_angstrom: number;
         };
         igm: 'none' | 'madau1995';
+        /**
+         * detection.photo_z: slices are in measured redshift; true redshifts are integrated 6 sigma (1 + z) beyond the window (true_range)
+         */
+        photo_z?: {
+          sigma: number;
+          outlier_fraction: number;
+          true_range: RedshiftRange;
+        };
         completeness?: CompletenessBlock;
       }
     | {
         kind: 'threshold';
         limit: ParameterView;
+        /**
+         * detection.photo_z: slices are in measured redshift; true redshifts are integrated 6 sigma (1 + z) beyond the window (true_range)
+         */
+        photo_z?: {
+          sigma: number;
+          outlier_fraction: number;
+          true_range: RedshiftRange;
+        };
         completeness?: CompletenessBlock;
       };
   /**

@@ -58,6 +58,7 @@ export interface PredictionBase {
    */
   warnings: Warning[];
   observed_bins: ObservedBins;
+  photo_z?: PhotoZMigration;
 }
 export interface LineFluxDetectionBlock {
   kind: 'line_flux';
@@ -110,7 +111,15 @@ export interface MagnitudeDetectionBlock {
     fwhm_angstrom: number;
   };
   igm: 'none' | 'madau1995';
+  photo_z?: PhotoZDetection;
   completeness?: CompletenessBlock;
+}
+/**
+ * detection.photo_z: a source at true z is measured at z + N(0, sigma (1 + z)), or with probability outlier_fraction anywhere in the redshift window with equal probability; slices are in measured redshift.
+ */
+export interface PhotoZDetection {
+  sigma: number;
+  outlier_fraction: number;
 }
 export interface ThresholdDetectionBlock {
   kind: 'threshold';
@@ -118,6 +127,7 @@ export interface ThresholdDetectionBlock {
    * as written: log10 quantity or absolute magnitude, a table in z or an expression in z
    */
   limit: number | string | ZTable;
+  photo_z?: PhotoZDetection;
   completeness?: CompletenessBlock;
 }
 export interface PredictionTotals {
@@ -203,6 +213,7 @@ export interface PopulationPrediction {
   window: RedshiftRange;
   totals: PredictionTotals;
   slices: PredictionSlice[];
+  photo_z?: PhotoZMigration;
 }
 export interface PredictionSlice {
   z_min: number;
@@ -225,6 +236,10 @@ export interface PredictionSlice {
   population_counts?: {
     [k: string]: number;
   };
+  /**
+   * with detection.photo_z: the expected sources whose true redshift lies in the slice (count is by measured redshift)
+   */
+  count_true_redshift?: number;
   luminosity_density?: LuminosityDensity;
   sfr_density_msun_yr_mpc3?: SfrDensity;
   histogram: Histogram;
@@ -239,6 +254,43 @@ export interface Histogram {
    * one fewer than edges; they sum to the slice's count (the brightest bin also holds the negligible tail beyond its edge)
    */
   counts: number[];
+}
+/**
+ * Where the sources measured in each slice truly lie (detection.photo_z). Bins: [below the window, the slices..., above the window], in true redshift (true_bins, from the true range's ends) and in measured redshift (measured_bins, the first without z_min and the last without z_max; they hold the sources measured outside the window, which are lost).
+ */
+export interface PhotoZMigration {
+  sigma: number;
+  outlier_fraction: number;
+  /**
+   * how far beyond the window true redshifts are integrated, in sigma (1 + z): 6
+   */
+  reach_sigma: number;
+  true_range: RedshiftRange;
+  true_bins: PhotoZBin[];
+  measured_bins: PhotoZBin[];
+  /**
+   * migration_matrix[i][j]: expected sources in true bin i measured in bin j; row sums are true_counts, column sums measured_counts, and both sum to the same total
+   */
+  migration_matrix: number[][];
+  true_counts: number[];
+  measured_counts: number[];
+  /**
+   * sources measured outside the window (the first and last measured bins), not counted in any slice
+   */
+  lost_count: number;
+}
+/**
+ * A redshift bin; a missing end is unbounded (the measured bins below and above the window)
+ */
+export interface PhotoZBin {
+  /**
+   * absent: unbounded below
+   */
+  z_min?: number;
+  /**
+   * absent: unbounded above
+   */
+  z_max?: number;
 }
 /**
  * Per bin of the observed value (every population over its own window): each population's count and its share of the bin, the interloper fraction a spectroscopic follow-up faces. The bins' counts sum to totals.count.
