@@ -3,13 +3,14 @@
  *
  * Statistical tests (fixed seeds, so they are deterministic; the false-alarm rates below are what a
  * random seed would give):
- * - Mock standard deviations agree with Fisher sigmas within 15 % (Cramer-Rao: the maximum-likelihood
+ * - Mock standard deviations agree with Fisher sigmas within 21 % (Cramer-Rao: the maximum-likelihood
  *   estimator's covariance tends to the inverse Fisher matrix for many sources; common practice).
- *   With M = 400 mocks the relative standard error of a standard deviation is 1/sqrt(2(M-1)) = 3.5 %,
- *   so 15 % is 4.24 standard errors: false-alarm rate 2.2e-5 per comparison (two-sided normal), 2.7e-4
- *   for the 12 comparisons below.
+ *   With M = 200 mocks the relative standard error of a standard deviation is 1/sqrt(2(M-1)) = 5.01 %,
+ *   so 21 % is 4.19 standard errors: false-alarm rate 2.8e-5 per comparison (two-sided normal), 3.3e-4
+ *   for the 12 comparisons below. (400 mocks gave 15 % at the same rate, for twice the time.)
  * - No significant bias: |mean - input| < 4 standard errors of the mean (false-alarm rate 6.3e-5 per
- *   comparison, 7.6e-4 for the 12). The maximum-likelihood bias is of order 1/N, about 0.1 sigma here.
+ *   comparison, 7.6e-4 for the 12). The maximum-likelihood bias is of order 1/N, about 0.1 sigma here
+ *   (1.4 standard errors of the mean of 200 mocks).
  * - The sampler draws from the tabulated density: the sample means of ln u and u over 2e5 draws agree
  *   with their quadrature expectations within 4 standard errors (6.3e-5 each).
  */
@@ -67,7 +68,7 @@ describe('sampler draws from the tabulated density', () => {
 
 const FRACTIONS = (s: SurveySpec) => () => s.cosmic_variance!;
 
-describe('mock standard deviations agree with Fisher sigmas (15 %) and fits are unbiased (4 s.e.m.): 400 mocks of about 5000 sources', () => {
+describe('mock standard deviations agree with Fisher sigmas (21 %) and fits are unbiased (4 s.e.m.): 200 mocks of about 5000 sources', () => {
   const cases: [string, SurveySpec, boolean][] = [
     ['line_flux, hard limit, Poisson only', withCount(spec('line_flux_hard_limit'), 5000), false],
     ['line_flux, logistic completeness, Poisson only', withCount(spec('line_flux_logistic_completeness'), 5000), false],
@@ -77,7 +78,7 @@ describe('mock standard deviations agree with Fisher sigmas (15 %) and fits are 
   test.each(cases)('%s', async (_n, s, cv) => {
     const survey = surveyFromSpec(s);
     const f = await forecast(survey, {
-      mocks: 400,
+      mocks: 200,
       seed: 11,
       workers: 2,
       cosmicVariance: cv,
@@ -89,8 +90,8 @@ describe('mock standard deviations agree with Fisher sigmas (15 %) and fits are 
     for (const name of f.parameters) {
       const p = m.parameters[name]!;
       const ratio = p.std / f.fisher.sigma[name]!;
-      expect(ratio, `${name}: mock std / Fisher sigma = ${ratio}`).toBeGreaterThan(0.85);
-      expect(ratio, `${name}: mock std / Fisher sigma = ${ratio}`).toBeLessThan(1.15);
+      expect(ratio, `${name}: mock std / Fisher sigma = ${ratio}`).toBeGreaterThan(0.79);
+      expect(ratio, `${name}: mock std / Fisher sigma = ${ratio}`).toBeLessThan(1.21);
       expect(Math.abs(p.bias_in_standard_errors), `${name}: bias ${p.bias}`).toBeLessThan(4);
       expect(p.p16).toBeLessThan(p.p50);
       expect(p.p50).toBeLessThan(p.p84);
