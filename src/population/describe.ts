@@ -80,5 +80,17 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
       `${p.name}: Schechter function in ${p.variable}, phi* = ${fmt(p.phiStar.at(zMid))} Mpc^-3, ${knee}, ` +
       `alpha = ${fmt(p.alpha.at(zMid))}${tail}`;
   }
+  const sel = selectionWords(d.selection);
+  if (sel) d.summary += `; ${sel}`;
   return d;
+}
+
+/** The selection effects in words for the summary line ('' without any, so plain summaries are unchanged). */
+function selectionWords(s: ModelDescription['selection']): string {
+  const parts: string[] = [];
+  if (s.redshift_selection) parts.push(`redshift selection ${fmt(s.redshift_selection.fraction.at_window_middle)} kept (from the ${s.redshift_selection.from})`);
+  if (s.blend_ratio !== undefined) parts.push(`blended lines add ${fmt(s.blend_ratio)} of the line flux`);
+  if (s.attenuation_mag) parts.push(`attenuation ${fmt(s.attenuation_mag.at_window_middle)} mag applied (the luminosity function is intrinsic)`);
+  if (s.equivalent_width_cut) parts.push(`${s.equivalent_width_cut.frame}-frame equivalent width >= ${fmt(s.equivalent_width_cut.width_angstrom)} A keeps ${fmt(s.equivalent_width_cut.kept_at_window_middle)}`);
+  return parts.length ? `${parts.join(', ')} (at the window's middle)` : '';
 }

@@ -100,10 +100,9 @@ function mergedEdges(base: number[], extra: number[], lo: number, hi: number): n
 
 /**
  * The two integrals of a band at redshift z (observed frame): int l f(l / (1+z)) T(l) R(l) dl and
- * int R(l) / l dl, T the IGM transmission (1 without). `coverage` is called with the rest-frame
- * range the first needs.
+ * int R(l) / l dl, T the IGM transmission (1 without); the second only `withDen` (else NaN).
  */
-export function bandIntegrals(spec: SpectrumShape, band: Filter, z: number, igm: IgmModel = 'none'): { num: number; den: number } {
+export function bandIntegrals(spec: SpectrumShape, band: Filter, z: number, igm: IgmModel = 'none', withDen = true): { num: number; den: number } {
   const [lo, hi] = bandSupport(band);
   const s = 1 + z;
   const extra: number[] = [];
@@ -116,7 +115,7 @@ export function bandIntegrals(spec: SpectrumShape, band: Filter, z: number, igm:
       : (l) => l * spec.at(l / s) * bandResponse(band, l),
     edges,
   );
-  const den = sumPanels((l) => bandResponse(band, l) / l, edges);
+  const den = withDen ? sumPanels((l) => bandResponse(band, l) / l, edges) : NaN;
   return { num, den };
 }
 
@@ -134,7 +133,7 @@ export function kCorrectionFunction(spec: SpectrumShape, band: Filter, rest: Res
     restTerm = (q.num * denR) / q.den;
   }
   return (z) => {
-    const { num } = bandIntegrals(spec, band, z, igm);
+    const { num } = bandIntegrals(spec, band, z, igm, false);
     return -2.5 * Math.log10(Math.max(num / ((1 + z) * restTerm), MIN_RATIO));
   };
 }
@@ -152,20 +151,21 @@ export function adaptiveCubicTable(f: (z: number) => number, a: number, b: numbe
       (-y0 * (t - 1) * (t - 2) * (t - 3)) / 6 + (y1 * t * (t - 2) * (t - 3)) / 2 - (y2 * t * (t - 1) * (t - 3)) / 2 + (y3 * t * (t - 1) * (t - 2)) / 6
     );
   };
-  const build = (x0: number, x1: number, f0: number, f1: number): void => {
+  // f1of3, f2of3: f at x0 + h/3 and x0 + 2h/3 when already known (a half's are its parent's h/6, h/3 or 2h/3, 5h/6).
+  const build = (x0: number, x1: number, f0: number, f1: number, f1of3?: number, f2of3?: number): void => {
     const h = x1 - x0;
-    const v = [f0, f(x0 + h / 3), f(x0 + (2 * h) / 3), f1];
+    const v = [f0, f1of3 ?? f(x0 + h / 3), f2of3 ?? f(x0 + (2 * h) / 3), f1];
     const fm = f(x0 + h / 2);
-    const ok =
-      h < MIN_WIDTH ||
-      (Math.abs(cubicAt(v, 0.5) - fm) <= tol && Math.abs(cubicAt(v, 1 / 6) - f(x0 + h / 6)) <= tol && Math.abs(cubicAt(v, 5 / 6) - f(x0 + (5 * h) / 6)) <= tol);
+    const f1of6 = f(x0 + h / 6);
+    const f5of6 = f(x0 + (5 * h) / 6);
+    const ok = h < MIN_WIDTH || (Math.abs(cubicAt(v, 0.5) - fm) <= tol && Math.abs(cubicAt(v, 1 / 6) - f1of6) <= tol && Math.abs(cubicAt(v, 5 / 6) - f5of6) <= tol);
     if (ok) {
       starts.push(x0);
       values.push(v);
       return;
     }
-    build(x0, x0 + h / 2, f0, fm);
-    build(x0 + h / 2, x1, fm, f1);
+    build(x0, x0 + h / 2, f0, fm, f1of6, v[1]);
+    build(x0 + h / 2, x1, fm, f1, v[2], f5of6);
   };
   const pieces = Math.max(1, Math.ceil((b - a) / maxPiece));
   let prev = f(a);

@@ -11,7 +11,11 @@ import { describeSurvey } from '../../src/survey/describe.js';
 import { SurveyError } from '../../src/errors.js';
 import { surveyWarnings } from '../../src/population/warnings.js';
 import { predict } from '../../src/counts/predict.js';
-import { clone, LINE_YAML, MAGNITUDE_YAML, setPath } from '../survey/fixtures.js';
+import { clone, LINE_YAML, MAGNITUDE_YAML, setPath, toYaml } from '../survey/fixtures.js';
+import { runCli } from '../cli/helpers.js';
+import { tempDir } from '../support/temp.js';
+import { writeFileSync } from 'node:fs';
+import { join } from 'node:path';
 
 const FILE = 'selection-test.yaml';
 const line = parse(LINE_YAML) as Record<string, unknown>;
@@ -120,6 +124,21 @@ describe('warnings about selection traps', () => {
     const dex = withKeys(line, { 'population.phi_star': undefined, 'population.log10_phi_star_dex': -2.6 });
     expect(codes(dex)).toEqual(['phi_star_per_dex']);
     expect(codes(clone(line))).not.toContain('phi_star_per_dex');
+  });
+
+  test('through the program: one line on stderr and the code in the JSON of check and predict', async () => {
+    const path = join(tempDir('skytally-selection-'), 'near-lya.yaml');
+    writeFileSync(path, toYaml(withKeys(magnitude, { 'detection.band': '8000 Angstrom' })));
+    for (const cmd of ['check', 'predict']) {
+      const r = await runCli([cmd, path, '--format', 'json']);
+      expect(r.code).toBe(0);
+      const out = JSON.parse(r.stdout) as { warnings: { code: string }[]; populations: { selection?: unknown; model?: { selection: unknown } }[] };
+      expect(out.warnings.map((w) => w.code)).toContain('igm_not_stated');
+      expect(r.stderr).toMatch(/^skytally: warning: .*does not say igm/m);
+      // and the statement that no attenuation was applied
+      const sel = cmd === 'check' ? out.populations[0]!.selection : out.populations[0]!.model!.selection;
+      expect(sel).toEqual({ effects: [], attenuation_applied: false });
+    }
   });
 
   test('no bundled sample raises any of them', () => {
