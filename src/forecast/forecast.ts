@@ -174,7 +174,6 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
       notes.push(`${n}: the mean of the fits differs from the input by ${sp.bias.toPrecision(3)} (${sp.bias_in_standard_errors.toFixed(1)} standard errors of the mean)${why}.`);
     }
     if (failed > 0) notes.push(`${failed} of ${run.count} fits did not converge and are left out of the statistics.`);
-    if (run.envelopeMisses > 0) notes.push(`${run.envelopeMisses} draws exceeded the sampling envelope (the mock density is then slightly flattened there).`);
     out.mocks = {
       count: run.count,
       seed,

@@ -36,7 +36,6 @@ export interface MockRun {
   ok: Uint8Array;
   /** Sources per mock. */
   sources: Float64Array;
-  envelopeMisses: number;
 }
 
 export function makeMockSetup(grid: DensityGrid, cvSigma: number[], estimator: Estimator, seed: number): MockSetup {
@@ -73,7 +72,7 @@ export function runMockRange(setup: MockSetup, start: number, end: number, sampl
     ok[k] = fit.converged ? 1 : 0;
     sources[k] = stats.total;
   }
-  return { theta, ok, sources, envelopeMisses: sampler.envelopeMisses };
+  return { theta, ok, sources };
 }
 
 export interface RunOptions {
@@ -81,19 +80,15 @@ export interface RunOptions {
   onProgress?: (done: number, total: number) => void;
 }
 
-/** One block of mocks as a worker returns it (misses: envelope misses of this block alone). */
-type MockBlock = { theta: Float64Array; ok: Uint8Array; sources: Float64Array; misses: number };
+/** One block of mocks as a worker returns it. */
+type MockBlock = { theta: Float64Array; ok: Uint8Array; sources: Float64Array };
 
 const MOCK_JOB: WorkerJob = 'forecast-mocks';
 
 /** The block function of a setup: one sampler per thread, reused over its blocks. */
 export function mockBlocks(setup: MockSetup): BlockFunction<MockBlock> {
   const sampler = new CatalogueSampler(setup.grid, setup.tables);
-  return (start, end) => {
-    const before = sampler.envelopeMisses;
-    const r = runMockRange(setup, start, end, sampler);
-    return { theta: r.theta, ok: r.ok, sources: r.sources, misses: sampler.envelopeMisses - before };
-  };
+  return (start, end) => runMockRange(setup, start, end, sampler);
 }
 
 /** Run `count` mocks, in this thread (workers <= 1) or in worker threads (src/parallel/blocks.ts). */
@@ -102,7 +97,6 @@ export async function runMocks(setup: MockSetup, count: number, opts: RunOptions
   const theta = new Float64Array(3 * count);
   const ok = new Uint8Array(count);
   const sources = new Float64Array(count);
-  let misses = 0;
   const block = Math.max(1, Math.min(50, Math.ceil(count / (workers * 8))));
   await runBlocks({
     total: count,
@@ -115,11 +109,10 @@ export async function runMocks(setup: MockSetup, count: number, opts: RunOptions
       theta.set(r.theta, 3 * start);
       ok.set(r.ok, start);
       sources.set(r.sources, start);
-      misses += r.misses;
     },
     onProgress: opts.onProgress,
     name: 'mock',
     items: 'mocks',
   });
-  return { count, theta, ok, sources, envelopeMisses: misses };
+  return { count, theta, ok, sources };
 }

@@ -33,6 +33,7 @@ import { transmission } from './filter.js';
 import { bandAveragedMadau1995, madau1995Transmission } from './igm.js';
 import { sedKCorrection } from './kcorrection.js';
 import type { RestFrame } from '../model/photometry.js';
+import { photoZTrueRange } from '../model/photo-z.js';
 import { selectionEffects } from './effects.js';
 
 export type HistogramVariable = 'apparent_magnitude' | 'log10_line_flux' | 'log10_quantity' | 'absolute_magnitude';
@@ -99,7 +100,9 @@ export function makeObserver(detection: Detection, population: Population, cosmo
       if (sed) {
         // Synthetic photometry (src/selection/kcorrection.ts); the IGM, if any, inside its integral.
         const frame: RestFrame = population.restBand ? { kind: 'band', band: population.restBand } : { kind: 'wavelength', angstrom: rest };
-        const kSed = sedKCorrection(sed, frame, detection.igm, population.window.min, population.window.max);
+        // Tabulated over the redshifts counted: the window, or with photo_z the true range reaching it.
+        const zs = detection.photoZ ? photoZTrueRange(population.window, detection.photoZ) : population.window;
+        const kSed = sedKCorrection(sed, frame, detection.igm, zs.min, zs.max);
         kOf = (z) => 5 * Math.log10(cosmo.luminosityDistanceMpc(z) / TEN_PC_MPC) + kSed(z);
       } else {
         const igm = igmMagnitude(detection);

@@ -13,7 +13,9 @@
  * good to 1e-8 mag, the engine's quadrature to about 1e-9); K(z) and the apparent magnitude of M* at
  * the slices' middles 2e-8 mag (the table's tolerance); zero offsets equal the plain survey exactly.
  */
-import { readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, test } from 'vitest';
 import { loadSurveyFile, loadSurveyText } from '../../src/survey/load.js';
@@ -163,5 +165,45 @@ describe('warnings about Lyman alpha with a spectrum', () => {
     const madau = predict(loadSurveyText(yaml.replace('  igm: none\n', '  igm: madau1995\n'), `${dir}/edited.yaml`));
     expect(madau.warnings.find((x) => x.code === 'band_blueward_of_lyman_alpha')?.message).toContain('applied to the spectrum inside the band');
     expect(madau.totals.count).toBeLessThan(p.totals.count);
+  });
+});
+
+describe('photometric redshifts with a spectrum', () => {
+  // The invented spectrum cut to rest-frame 3000-10000 A: enough for a top-hat band at 7250-8750 A over
+  // z = 0.6-1.4, not for the true redshifts up to (1.4 + 0.24) / 0.76 = 2.16 that photo_z sigma 0.04 integrates.
+  const tmp = mkdtempSync(join(tmpdir(), 'skytally-sed-'));
+  const rows = readFileSync(`${dir}/spectra/invented-starburst.csv`, 'utf8')
+    .split('\n')
+    .filter((l) => /^\d/.test(l) && Number(l.split(',')[0]) >= 3000 && Number(l.split(',')[0]) <= 10000);
+  writeFileSync(join(tmp, 'cut.csv'), `wavelength_angstrom,f_lambda\n${rows.join('\n')}\n`);
+  const base = find('photoz-broadband.yaml')
+    .yaml.replace('  band: "8000 Angstrom"\n  beta: -1.5\n', '  band: {center: 8000, fwhm: 1500}\n  sed: {file: SPECTRUM}\n');
+  const write = (yaml: string, name: string): string => {
+    const f = join(tmp, name);
+    writeFileSync(f, yaml);
+    return f;
+  };
+  test('a true range beyond the spectrum is refused naming detection.sed; the window alone is not', () => {
+    expect(base).toContain('photo_z');
+    const cut = base.replace('SPECTRUM', 'cut.csv');
+    let err: unknown;
+    try {
+      loadSurveyFile(write(cut, 'photoz-cut.yaml'));
+    } catch (e) {
+      err = e;
+    }
+    expect(err).toBeInstanceOf(SurveyError);
+    expect((err as SurveyError).keyPath).toBe('detection.sed');
+    expect(() => loadSurveyFile(write(cut.replace(/\n {2}photo_z: .*\n/, '\n'), 'exact-cut.yaml'))).not.toThrow();
+  });
+  test('sigma 0 and no outliers reproduce the survey without photo_z exactly', () => {
+    const full = base.replace('SPECTRUM', `${dir}/spectra/invented-starburst.csv`);
+    const exact = predict(loadSurveyFile(write(full.replace(/\n {2}photo_z: .*\n/, '\n  photo_z: {sigma: 0, outlier_fraction: 0}\n'), 'zero.yaml')));
+    const none = predict(loadSurveyFile(write(full.replace(/\n {2}photo_z: .*\n/, '\n'), 'none.yaml')));
+    expect(exact.totals.count).toBeGreaterThan(0);
+    expect(exact.totals.count).toBe(none.totals.count);
+    const scattered = predict(loadSurveyFile(write(full, 'scattered.yaml')));
+    expect(Number.isFinite(scattered.totals.count)).toBe(true);
+    expect(rel(scattered.totals.count, none.totals.count)).toBeLessThan(0.2);
   });
 });
