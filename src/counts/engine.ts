@@ -60,6 +60,8 @@ export interface SliceCount {
   luminosity?: { detected: number; total?: number };
   /** With the profile option: where in redshift the slice's detected sources lie (its quadrature nodes). */
   profile?: RedshiftProfile;
+  /** With the nodeDetail option: what each node adds. */
+  nodes?: NodeDetail;
 }
 
 /**
@@ -73,8 +75,9 @@ export interface RedshiftProfile {
   count: number[];
   volumeMpc3: number[];
   /**
-   * With the engine's weight option: its value at each node, the fraction of the sources at that
-   * redshift the slice holds (count / (selected volume) is then the density of all of them).
+   * The fraction of the sources at each node's redshift that the slice holds (photometric
+   * redshifts: the probability of being measured in it); count / (selected volume) is then the
+   * density of all of them. Absent: 1.
    */
   selected?: number[];
 }
@@ -86,12 +89,24 @@ export interface EngineOptions {
   /** Also return each slice's redshift profile (the total's cosmic variance weights by it). */
   profile?: boolean;
   /**
-   * A factor of the integrand at each redshift (photometric redshifts: the probability that a
-   * source at true z is measured in a given slice). It multiplies counts, histograms and
-   * luminosities; the profile then also gives it per node (`selected`). The nodes are chosen for
-   * the integrand without it: give slices over which it is smooth.
+   * Also return what each redshift node adds to the slice (`nodes`): photometric redshifts weight
+   * the nodes of true redshift by the probability of being measured in each slice (src/counts/photo-z.ts).
    */
-  weight?: (z: number) => number;
+  nodeDetail?: boolean;
+}
+
+/** What each redshift node of a slice adds to its results (EngineOptions.nodeDetail). */
+export interface NodeDetail {
+  z: number[];
+  /** The node's comoving volume (area times dV/dz times its weight), Mpc^3. */
+  volumeMpc3: number[];
+  /** Its count (the sum of its row of bins). */
+  count: number[];
+  /** bins[k][b]: what node k adds to bin b of the slice's histogram. */
+  bins: number[][];
+  /** Its detected luminosity and (undefined when it diverges) its total luminosity, as SliceCount.luminosity. */
+  detected: number[];
+  total?: number[];
 }
 
 /**
@@ -202,12 +217,8 @@ function sumOver(nodes: { z: number[]; w: number[] }, f: (z: number) => number):
 
 interface NodeState {
   z: number;
-  /** area_sr * dV/dz/dOmega * quadrature weight (times the weight option): Mpc^3 per unit n. */
+  /** area_sr * dV/dz/dOmega * quadrature weight: Mpc^3 per unit n. */
   volumeWeight: number;
-  /** area_sr * dV/dz/dOmega * quadrature weight: the node's comoving volume, Mpc^3. */
-  volumeMpc3: number;
-  /** The weight option at the node (1 without it). */
-  selected: number;
   a: number;
   log10ULimit: number;
   /** The limit in obs (the same at every node for flux and magnitude limits). */
@@ -262,10 +273,13 @@ export function countPopulation(
       out.push(empty);
       continue;
     }
-    const nodes = buildNodes(survey, population, cosmo, observer, lo, hi, options.offsets, options.weight);
+    const nodes = buildNodes(survey, population, cosmo, observer, lo, hi, options.offsets);
     let result: { count: number; histogram: Histogram; detectedLuminosity?: number };
     const perNode = options.profile ? new Array<number>(nodes.length).fill(0) : undefined;
-    if (options.noHistogram && !completeness) {
+    const detail: NodeDetail | undefined = options.nodeDetail
+      ? { z: nodes.map((nd) => nd.z), volumeMpc3: nodes.map((nd) => nd.volumeWeight), count: [], bins: [], detected: nodes.map(() => 0) }
+      : undefined;
+    if (options.noHistogram && !completeness && !detail) {
       let count = 0;
       nodes.forEach((nd, k) => {
         if (!Number.isFinite(nd.log10ULimit)) return;
@@ -277,18 +291,19 @@ export function countPopulation(
       });
       result = { count, histogram: { variable: observer.variable, edges: [], counts: [] } };
     } else {
-      result = histogramCount(nodes, observer, width, completeness, breaks, !options.noHistogram, quadrature, survey.file, perNode);
+      result = histogramCount(nodes, observer, width, completeness, breaks, !options.noHistogram || !!detail, quadrature, survey.file, perNode, detail);
     }
     if (!Number.isFinite(result.count)) {
       throw inputError('not_finite', survey.file, 'population', `the count in the slice ${zMin}-${zMax} is not a finite number`, 'check the Schechter parameters and the limit');
     }
     const slice: SliceCount = { zMin, zMax, volumeMpc3, count: result.count, limitAtCenter, histogram: result.histogram };
-    if (perNode) {
-      slice.profile = { z: nodes.map((nd) => nd.z), count: perNode, volumeMpc3: nodes.map((nd) => nd.volumeMpc3) };
-      if (options.weight) slice.profile.selected = nodes.map((nd) => nd.selected);
+    if (perNode) slice.profile = { z: nodes.map((nd) => nd.z), count: perNode, volumeMpc3: nodes.map((nd) => nd.volumeWeight) };
+    if (detail) {
+      detail.count = detail.bins.map((row) => row.reduce((a, v) => a + v, 0));
+      slice.nodes = detail;
     }
-    if (!options.noHistogram) {
-      const lum = sliceLuminosity(nodes, observer, completeness, breaks, result.detectedLuminosity);
+    if (!options.noHistogram || detail) {
+      const lum = sliceLuminosity(nodes, observer, completeness, breaks, result.detectedLuminosity, detail);
       if (!Number.isFinite(lum.detected) || (lum.total !== undefined && !Number.isFinite(lum.total))) {
         throw inputError('not_finite', survey.file, 'population', `the luminosity density in the slice ${zMin}-${zMax} is not a finite number`, 'check the Schechter parameters and the limit');
       }
@@ -311,16 +326,25 @@ function sliceLuminosity(
   completeness: CompletenessFn | undefined,
   breaks: { points: number[]; scale: number; varying: [number, number] } | undefined,
   detectedWithCompleteness?: number,
+  detail?: NodeDetail,
 ): { detected: number; total?: number } {
   let detected = 0;
   let total: number | undefined = 0;
-  for (const nd of nodes) {
+  if (detail) detail.total = [];
+  nodes.forEach((nd, k) => {
     const jTot = componentsTotalLuminosity(nd.allComponents);
-    if (jTot === undefined) total = undefined;
-    else if (total !== undefined) total += nd.volumeWeight * nd.lumScale * jTot;
-    if (!Number.isFinite(nd.log10ULimit) || detectedWithCompleteness !== undefined) continue;
-    detected += nd.volumeWeight * nd.lumScale * detectedLuminosityAtNode(nd, observer, completeness, breaks);
-  }
+    if (jTot === undefined) {
+      total = undefined;
+      if (detail) delete detail.total;
+    } else if (total !== undefined) {
+      total += nd.volumeWeight * nd.lumScale * jTot;
+      detail?.total?.push(nd.volumeWeight * nd.lumScale * jTot);
+    }
+    if (!Number.isFinite(nd.log10ULimit) || detectedWithCompleteness !== undefined) return;
+    const d = nd.volumeWeight * nd.lumScale * detectedLuminosityAtNode(nd, observer, completeness, breaks);
+    detected += d;
+    if (detail) detail.detected[k] = d;
+  });
   if (detectedWithCompleteness !== undefined) detected = detectedWithCompleteness;
   return total === undefined ? { detected } : { detected, total };
 }
@@ -446,7 +470,6 @@ function buildNodes(
   lo: number,
   hi: number,
   offsets?: ParameterOffsets,
-  weight?: (z: number) => number,
 ): NodeState[] {
   const effects = selectionEffects(survey.detection, population);
   const hardCount = (zi: number): number => {
@@ -468,14 +491,10 @@ function buildNodes(
     const zi = z[i]!;
     const p = populationAt(population, zi, offsets);
     const obs = observer.at(zi, p.characteristic);
-    const volumeMpc3 = survey.areaSr * cosmo.volumeElementMpc3Sr(zi) * w[i]!;
-    const selected = weight ? weight(zi) : 1;
     const kept = effects.weight(zi);
     nodes.push({
       z: zi,
-      volumeWeight: volumeMpc3 * selected,
-      volumeMpc3,
-      selected,
+      volumeWeight: survey.areaSr * cosmo.volumeElementMpc3Sr(zi) * w[i]!,
       a: obs.a,
       // nothing kept at this z: no detection (as a zero transmission)
       log10ULimit: kept > 0 ? obs.log10ULimit : Infinity,
@@ -563,6 +582,7 @@ function histogramCount(
   quadrature?: CompletenessQuadrature,
   file = '',
   perNode?: number[],
+  detail?: NodeDetail,
 ): { count: number; histogram: Histogram; detectedLuminosity?: number } {
   const slope = observer.slope;
   const rules = completeness ? quadrature : undefined;
@@ -582,6 +602,7 @@ function histogramCount(
     obsMax = Math.max(obsMax, o1, o2);
   }
   if (!Number.isFinite(obsMin)) {
+    if (detail) detail.bins = nodes.map(() => [0]);
     return { count: 0, histogram: { variable: observer.variable, edges: [0, width], counts: [0] } };
   }
   const k0 = Math.floor(obsMin / width + 1e-9);
@@ -602,9 +623,11 @@ function histogramCount(
   // Index of the brightest bin: the last for slope > 0 (bright = large obs), the first for slope < 0.
   const brightBin = slope > 0 ? nBins - 1 : 0;
   const gammas = new Array<number>(nBins + 1);
+  if (detail) detail.bins = nodes.map(() => new Array<number>(nBins).fill(0));
   for (let at = 0; at < nodes.length; at++) {
     const nd = nodes[at]!;
     if (!Number.isFinite(nd.log10ULimit)) continue;
+    const row = detail?.bins[at];
     const l10uLim = nd.log10ULimit;
     let nodeCount = 0; // what this node adds to the bins
     if (!completeness) {
@@ -630,6 +653,7 @@ function histogramCount(
             const v = nd.volumeWeight * c.phiStar * d;
             counts[b]! += v;
             nodeCount += v;
+            if (row) row[b]! += v;
           }
         }
       }
@@ -661,6 +685,7 @@ function histogramCount(
               const v = nd.volumeWeight * cBin * n;
               counts[b]! += v;
               nodeCount += v;
+              if (row) row[b]! += v;
             }
             continue;
           }
@@ -676,8 +701,13 @@ function histogramCount(
         const v = nd.volumeWeight * rules!.integrate(oA, oB, 0);
         counts[b]! += v;
         nodeCount += v;
+        if (row) row[b]! += v;
       }
-      if (withLuminosity) detectedLuminosity += nd.volumeWeight * nd.lumScale * detectedLuminosityByRules(nd, observer, completeness!, breaks!, rules!, width, k0, edges);
+      if (withLuminosity) {
+        const d = nd.volumeWeight * nd.lumScale * detectedLuminosityByRules(nd, observer, completeness!, breaks!, rules!, width, k0, edges);
+        detectedLuminosity += d;
+        if (detail) detail.detected[at] = d;
+      }
     }
     if (perNode) perNode[at] = nodeCount;
   }

@@ -15,11 +15,12 @@
  *
  * The integral runs on the count engine's nodes over pieces of the true range split at every
  * slice edge and, within 8 s of one, no wider than s / 2, so that P is smooth over each piece
- * (further away it is constant to 1e-15): the engine's weight option
- * multiplies each node by P of the slice. Counting the same pieces without the weight gives the
- * counts by true redshift, so each row of the migration matrix (true bin by measured bin; bins
- * [below the window, slices..., above the window]) sums to its true count to rounding, and the
- * grand total is conserved. Sigma 0 without outliers is the plain prediction itself.
+ * (further away it is constant to 1e-15). The engine counts the pieces once, node by node
+ * (its nodeDetail option: each node's count, histogram row and luminosities); each measured slice
+ * weights the nodes by P of the slice, and their plain sum is the count by true redshift. So
+ * each row of the migration matrix (true bin by measured bin; bins [below the window,
+ * slices..., above the window]) sums to its true count to rounding, since the P of the bins sum
+ * to 1, and the grand total is conserved. Sigma 0 without outliers is the plain prediction itself.
  */
 import erfc from '@stdlib/math-base-special-erfc';
 import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
@@ -175,26 +176,25 @@ export function countPhotoZ(survey: Survey, population: Population, cosmo: FlatC
   };
   const pieceBin = fine.slice(0, -1).map((a, k) => binOf(0.5 * (a + fine[k + 1]!)));
 
-  const truePieces = countPopulation(survey, wide, cosmo, fine, { ...engine, noHistogram: true });
+  // One run over the pieces, node by node; each measured bin weights the nodes by P(bin | z).
+  const run = countPopulation(survey, wide, cosmo, fine, { ...engine, nodeDetail: true });
   const trueCounts = new Array<number>(nSlices + 2).fill(0);
-  truePieces.forEach((p, k) => (trueCounts[pieceBin[k]!]! += p.count));
-
   const matrix = trueBins.map(() => new Array<number>(nSlices + 2).fill(0));
+  run.forEach((p, k) => {
+    for (const c of p.nodes!.count) trueCounts[pieceBin[k]!]! += c;
+  });
   const slices: SliceCount[] = [];
   measuredBins.forEach((mb, j) => {
     const a = mb.min ?? -Infinity;
     const b = mb.max ?? Infinity;
-    const weight = (z: number): number => measuredProbability(pz, window, a, b, z);
-    const inSlice = j >= 1 && j <= nSlices;
-    const run = countPopulation(survey, wide, cosmo, fine, {
-      ...engine,
-      weight,
-      noHistogram: !inSlice || options.noHistogram,
-      profile: inSlice && options.profile,
+    const weights = run.map((p) => p.nodes!.z.map((z) => measuredProbability(pz, window, a, b, z)));
+    run.forEach((p, k) => {
+      const w = weights[k]!;
+      let sum = 0;
+      p.nodes!.count.forEach((c, i) => (sum += w[i]! * c));
+      matrix[pieceBin[k]!]![j]! += sum;
     });
-    run.forEach((p, k) => (matrix[pieceBin[k]!]![j]! += p.count));
-    if (!inSlice) return;
-    slices.push(measuredSlice(survey, population, cosmo, a, b, run, options));
+    if (j >= 1 && j <= nSlices) slices.push(measuredSlice(survey, population, cosmo, a, b, run, weights, options));
   });
   const measuredCounts = measuredBins.map((_, j) => matrix.reduce((s, row) => s + row[j]!, 0));
   return {
@@ -204,40 +204,54 @@ export function countPhotoZ(survey: Survey, population: Population, cosmo: FlatC
   };
 }
 
-/** One measured slice from the weighted run over the pieces of the true range. */
-function measuredSlice(survey: Survey, population: Population, cosmo: FlatCosmology, zMin: number, zMax: number, run: SliceCount[], options: PhotoZOptions): SliceCount {
+/** One measured slice: the pieces' nodes weighted by the probability of being measured in it. */
+function measuredSlice(
+  survey: Survey,
+  population: Population,
+  cosmo: FlatCosmology,
+  zMin: number,
+  zMax: number,
+  run: SliceCount[],
+  weights: number[][],
+  options: PhotoZOptions,
+): SliceCount {
   const observer = makeObserver(survey.detection, population, cosmo);
   const zCenter = Math.min(Math.max(0.5 * (zMin + zMax), population.window.min), population.window.max);
   const limitAtCenter = observer.at(zCenter, populationAt(population, zCenter, options.offsets).characteristic).limitInVariable;
-  const count = run.reduce((s, p) => s + p.count, 0);
+  const width = survey.histogramWidth;
+  let count = 0;
+  let detected = 0;
+  let total: number | undefined = 0;
+  const profile: Required<RedshiftProfile> = { z: [], count: [], volumeMpc3: [], selected: [] };
+  // the pieces' histograms on one grid of multiples of the width
+  const pieceHistograms: Histogram[] = run.map((p, k) => {
+    const nd = p.nodes!;
+    const w = weights[k]!;
+    const counts = new Array<number>(p.histogram.counts.length).fill(0);
+    nd.count.forEach((c, i) => {
+      const wi = w[i]!;
+      count += wi * c;
+      detected += wi * nd.detected[i]!;
+      if (total !== undefined) total = nd.total ? total + wi * nd.total[i]! : undefined;
+      const row = nd.bins[i]!;
+      for (let b = 0; b < row.length; b++) counts[b]! += wi * row[b]!;
+      profile.z.push(nd.z[i]!);
+      profile.count.push(wi * c);
+      profile.volumeMpc3.push(nd.volumeMpc3[i]!);
+      profile.selected.push(wi);
+    });
+    return { variable: p.histogram.variable, edges: p.histogram.edges, counts };
+  });
   const out: SliceCount = {
     zMin,
     zMax,
     volumeMpc3: survey.areaSr * cosmo.comovingVolumeBetweenMpc3Sr(zMin, zMax),
     count,
     limitAtCenter,
-    histogram: options.noHistogram ? { variable: observer.variable, edges: [], counts: [] } : sumHistograms(run.map((p) => p.histogram), survey.histogramWidth, observer.variable),
+    histogram: options.noHistogram ? { variable: observer.variable, edges: [], counts: [] } : sumHistograms(pieceHistograms, width, observer.variable),
   };
-  if (!options.noHistogram) {
-    let detected = 0;
-    let total: number | undefined = 0;
-    for (const p of run) {
-      detected += p.luminosity?.detected ?? 0;
-      total = total === undefined || p.luminosity?.total === undefined ? undefined : total + p.luminosity.total;
-    }
-    out.luminosity = total === undefined ? { detected } : { detected, total };
-  }
-  if (options.profile) {
-    const profile: Required<RedshiftProfile> = { z: [], count: [], volumeMpc3: [], selected: [] };
-    for (const p of run) {
-      const q = p.profile!;
-      profile.z.push(...q.z);
-      profile.count.push(...q.count);
-      profile.volumeMpc3.push(...q.volumeMpc3);
-      profile.selected.push(...(q.selected ?? q.z.map(() => 1)));
-    }
-    out.profile = profile;
-  }
+  if (!options.noHistogram) out.luminosity = total === undefined ? { detected } : { detected, total };
+  if (options.profile) out.profile = profile;
   return out;
 }
 

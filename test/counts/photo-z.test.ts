@@ -15,6 +15,7 @@ import { predict } from '../../src/counts/predict.js';
 import { measuredProbability } from '../../src/counts/photo-z.js';
 import { choosePopulation } from '../../src/model/select.js';
 import { SurveyError } from '../../src/errors.js';
+import { runCli } from '../cli/helpers.js';
 import type { Prediction, PhotoZMigration, PredictionSlice } from '../../src/model/outputs/prediction.js';
 
 interface RefCase {
@@ -293,5 +294,38 @@ population: {variable: luminosity, log10_phi_star: -2.7, log10_l_star: 42.1, alp
     }
     const exact = loadSurveyText(BASE.replace('photo_z: {sigma: 0.05, outlier_fraction: 0.02}', 'photo_z: {sigma: 0, outlier_fraction: 0}'), 'b.yaml');
     expect(choosePopulation(exact).name).toBe('population');
+  });
+});
+
+describe('through the command line (samples/photoz-optical-field.yaml)', () => {
+  const SAMPLE = 'samples/photoz-optical-field.yaml';
+  test('predict: the table says the slices are in measured redshift; the CSV has count_true_redshift', async () => {
+    const table = await runCli(['predict', SAMPLE]);
+    expect(table.code).toBe(0);
+    expect(table.stdout).toContain('slices in MEASURED redshift');
+    expect(table.stdout).toContain('true-z count');
+    const csv = await runCli(['predict', SAMPLE, '--format', 'csv']);
+    expect(csv.code).toBe(0);
+    const [header, first] = csv.stdout.split('\n');
+    const cols = header!.split(',');
+    expect(cols).toContain('count_true_redshift');
+    const json = JSON.parse((await runCli(['predict', SAMPLE, '--format', 'json'])).stdout) as Prediction;
+    const row = first!.split(',');
+    expect(Number(row[cols.indexOf('count_true_redshift')])).toBeCloseTo(slicesOf(json)[0]!.count_true_redshift!, 6);
+    expect(json.warnings).toEqual([]);
+    expectConserved(json.photo_z!);
+  });
+
+  test('compare refuses scatter (exit 2, one sentence); the report omits its forecast with the reason', async () => {
+    const cmp = await runCli(['compare', SAMPLE, 'samples/deep-continuum.yaml']);
+    expect(cmp.code).toBe(2);
+    expect(cmp.stdout).toBe('');
+    expect(cmp.stderr).toContain('detection.photo_z');
+    expect(cmp.stderr.trim().split('\n')).toHaveLength(1);
+    const rep = await runCli(['report', SAMPLE, '--format', 'json']);
+    expect(rep.code).toBe(0);
+    const doc = JSON.parse(rep.stdout) as { forecast: { omitted?: string }; prediction: Prediction };
+    expect(doc.forecast.omitted).toMatch(/^No forecast: .*photo_z/);
+    expect(doc.prediction.photo_z).toBeDefined();
   });
 });
