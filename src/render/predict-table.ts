@@ -25,7 +25,13 @@ export function detectionLine(p: Prediction): string {
     return `line flux limit ${sig(d.limit_cgs)} erg/s/cm^2${filter}`;
   }
   if (d.kind === 'magnitude') {
-    return `AB magnitude limit ${sig(d.limit_ab_mag)} in a band at ${sig(d.band_angstrom)} A (spectral slope beta = ${sig(d.beta)})`;
+    const given = d.system === 'vega' ? ` (given in Vega, AB = Vega ${d.vega_to_ab! < 0 ? '-' : '+'} ${sig(Math.abs(d.vega_to_ab!))})` : '';
+    if (d.sed_file) {
+      const b = d.band;
+      const band = b && b.profile !== 'table' ? `a ${b.profile} band at ${sig(b.center_angstrom)} A (fwhm ${sig(b.fwhm_angstrom)} A)` : `the band ${d.band_file ?? ''}`.trimEnd();
+      return `AB magnitude limit ${sig(d.limit_ab_mag)}${given} in ${band}, k-corrected with the spectrum ${d.sed_file}`;
+    }
+    return `AB magnitude limit ${sig(d.limit_ab_mag)}${given} in a band at ${sig(d.band_angstrom)} A (spectral slope beta = ${sig(d.beta)})`;
   }
   const q = p.models[0]?.quantity ?? (p.limit_variable === 'absolute_magnitude' ? 'absolute AB magnitude' : 'the quantity');
   const lim = d.limit;

@@ -129,6 +129,13 @@ describe('controls', () => {
     expect(c.value).toBeCloseTo(2.25, 10);
   });
 
+  test('the library builds the same page as the command', async () => {
+    const { explorePage } = await import('../../src/index.js');
+    const out = join(dir, 'lib-cmd.html');
+    expect((await runCli(['explore', 'samples/halpha-narrowband.yaml', '--out', out])).code).toBe(0);
+    expect(await explorePage('samples/halpha-narrowband.yaml')).toBe(readFileSync(out, 'utf8'));
+  });
+
   test('a bad survey file: exit 2, one sentence naming the file, nothing written', async () => {
     const out = join(dir, 'bad.html');
     const bad = join(dir, 'bad.yaml');

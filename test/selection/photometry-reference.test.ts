@@ -25,6 +25,7 @@ import { makeObserver } from '../../src/selection/observe.js';
 import { SurveyError } from '../../src/errors.js';
 import { describeSurvey } from '../../src/survey/describe.js';
 import type { Prediction } from '../../src/model/outputs/prediction.js';
+import { detectionLine } from '../../src/render/predict-table.js';
 
 interface Slice {
   z_min: number;
@@ -103,6 +104,7 @@ describe('vega-restband-sed.yaml: the magnitude systems', () => {
     expect(m.m_star!.given).toBe(-21.3);
     expect(m.m_star!.at_window_middle).toBeCloseTo(-21.42, 12);
     expect(m.summary).toContain('given in Vega');
+    expect(detectionLine(p)).toBe('AB magnitude limit 20.68 (given in Vega, AB = Vega + 0.18) in the band bands/invented-red-band.csv, k-corrected with the spectrum spectra/invented-starburst.csv');
     const check = describeSurvey(survey);
     expect(check.detection).toMatchObject({ system: 'vega', sed_file: 'spectra/invented-starburst.csv' });
   });

@@ -10,6 +10,7 @@ import { basename, dirname, isAbsolute, posix, relative } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Survey } from '../../model/survey.js';
 import { parseYaml } from '../../survey/yaml.js';
+import { loadSurveyFileWithText } from '../../survey/load.js';
 import { explorePageHtml } from '../../render/explore/page.js';
 import { exploreControls } from './settings.js';
 import { exploreCompute } from './engine.js';
@@ -56,4 +57,10 @@ export async function buildExplorePage(path: string, text: string, survey: Surve
     data: { file, baseDir: PAGE_BASE_DIR, text, files, controls },
     script,
   });
+}
+
+/** The explore page of a survey file (read once, through the loader's checks), as HTML text. */
+export async function explorePage(path: string): Promise<string> {
+  const { survey, text } = loadSurveyFileWithText(path);
+  return buildExplorePage(path, text, survey);
 }
