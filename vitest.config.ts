@@ -16,6 +16,8 @@ export default defineConfig({
     // The default reporter for people; a JSON summary that .ci/run turns into one closing line.
     reporters: ['default', 'json'],
     outputFile: { json: 'test-output/vitest-summary.json' },
-    hookTimeout: 120_000,
+    // Set-up hooks that make every sample's report and open each in a browser: minutes when the
+    // machine is shared and loaded.
+    hookTimeout: 600_000,
   },
 });

@@ -218,42 +218,69 @@ export function searchTiers(
   onProgress?: (done: number, total: number) => void,
 ): TieredResult {
   const n = exposures.length;
-  const cache = new Map<number, (TierValue | undefined)[]>();
-  const tierAt = (tenths: number): (TierValue | undefined)[] => {
+  // One row per budget share (in tenths): for each grid exposure, the tier's count, faint count and
+  // Fisher matrix (row-major) in one typed array, ROW numbers apart; NaN count where the share buys
+  // no pointing. A plan of 20,000 exposures and 3 tiers keeps 8 rows of 20,000 x 11 numbers
+  // (14 MB) instead of 160,000 objects.
+  const ROW = 11;
+  const cache = new Map<number, Float64Array>();
+  const tierAt = (tenths: number): Float64Array => {
     let row = cache.get(tenths);
     if (!row) {
-      row = exposures.map((h) => {
+      row = new Float64Array(n * ROW);
+      for (let e = 0; e < n; e++) {
+        const h = exposures[e]!;
         const p = pointingsFor(model, (tenths / 10) * budget.budgetHours, h, budget.overheadHours);
-        return p >= 1 ? model.tier(h, p) : undefined;
-      });
+        if (p < 1) {
+          row[e * ROW] = NaN;
+          continue;
+        }
+        const t = model.tier(h, p);
+        row[e * ROW] = t.count;
+        row[e * ROW + 1] = t.faintCount;
+        for (let j = 0; j < 3; j++) for (let c = 0; c < 3; c++) row[e * ROW + 2 + 3 * j + c] = t.fisher[j]![c]!;
+      }
       cache.set(tenths, row);
     }
     return row;
   };
   const splits = budgetSplits(k);
   const designs: Evaluated[] = [];
+  const fisher = [
+    [0, 0, 0],
+    [0, 0, 0],
+    [0, 0, 0],
+  ];
   splits.forEach((split, si) => {
     const rows = split.map((f) => tierAt(Math.round(f * 10)));
     const idx = split.map((_, i) => Math.round(((i + 1) * (n - 1)) / (k + 1)));
+    // combine(goal, parameterIndex, budget, tiers, split, false) of the tiers at ix, summed in the
+    // same order, without building them
     const valueOf = (ix: number[]): number | undefined => {
-      const ts: TierValue[] = [];
+      let count = 0;
+      let faint = 0;
+      for (let j = 0; j < 3; j++) for (let c = 0; c < 3; c++) fisher[j]![c] = 0;
       for (let i = 0; i < k; i++) {
-        const t = rows[i]![ix[i]!];
-        if (!t) return undefined;
-        ts.push(t);
+        const row = rows[i]!;
+        const at = ix[i]! * ROW;
+        if (Number.isNaN(row[at]!)) return undefined;
+        count += row[at]!;
+        faint += row[at + 1]!;
+        for (let j = 0; j < 3; j++) for (let c = 0; c < 3; c++) fisher[j]![c]! += row[at + 2 + 3 * j + c]!;
       }
-      const e = combine(goal, parameterIndex, budget, ts, split, false);
-      return e.feasible ? e.goal : undefined;
+      const g = goalOf(goal, parameterIndex, count, faint, fisher, false);
+      return g !== undefined && Number.isFinite(g) && count >= budget.minimumCount ? g : undefined;
     };
     let current = valueOf(idx);
+    const trial = [...idx];
     for (let round = 0; round < 100; round++) {
       let changed = false;
       for (let i = 0; i < k; i++) {
         const lo = i === 0 ? 0 : idx[i - 1]! + 1;
         const hi = i === k - 1 ? n - 1 : idx[i + 1]! - 1;
+        for (let t = 0; t < k; t++) trial[t] = idx[t]!;
         for (let e = lo; e <= hi; e++) {
           if (e === idx[i]) continue;
-          const trial = [...idx];
           trial[i] = e;
           const v = valueOf(trial);
           if (v !== undefined && (current === undefined || better(goal, v, current))) {
@@ -266,7 +293,11 @@ export function searchTiers(
       if (!changed) break;
     }
     if (current !== undefined) {
-      designs.push(combine(goal, parameterIndex, budget, idx.map((e, i) => rows[i]![e]!), split, true));
+      const tiers = idx.map((e, i) => {
+        const h = exposures[e]!;
+        return model.tier(h, pointingsFor(model, split[i]! * budget.budgetHours, h, budget.overheadHours));
+      });
+      designs.push(combine(goal, parameterIndex, budget, tiers, split, true));
     }
     onProgress?.(si + 1, splits.length);
   });

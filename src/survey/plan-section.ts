@@ -31,8 +31,8 @@ const KEYS = ['field_of_view', 'reference', 'overhead_hours', 'depth_law', 'budg
 export const DEFAULT_GRID = { min_hours: 0.05, max_hours: 50, count: 200 };
 /** Most exposures on the grid of a one-tier plan (a second or so per thousand). */
 export const MAX_GRID_COUNT = 20_000;
-/** Most exposures on the grid of a plan of 2 or 3 tiers (each tier's row of designs is kept for every budget split). */
-export const MAX_TIER_GRID_COUNT = 2_000;
+/** Most exposures on the grid of a plan of 2 or 3 tiers (each budget share's row of tiers is kept as numbers: 20,000 exposures and 3 tiers peak near 180 MB). */
+export const MAX_TIER_GRID_COUNT = 20_000;
 /** Longest time any plan value may give, hours (over 11 years of continuous observing). */
 export const MAX_PLAN_HOURS = 100_000;
 /** Largest sky or read variance relative to the source's the noise law accepts. */
