@@ -14,7 +14,7 @@
  * probability below 1e-9); every source in that range is an outlier with probability f.
  *
  * The integral runs on the count engine's nodes over pieces of the true range split at every
- * slice edge and, within 8 s of one, no wider than s / 2, so that P is smooth over each piece
+ * slice edge and, within 8 s of one, no wider than s, so that P is smooth over each piece
  * (further away it is constant to 1e-15). The engine counts the pieces once, node by node
  * (its nodeDetail option: each node's count, histogram row and luminosities); each measured slice
  * weights the nodes by P of the slice, and their plain sum is the count by true redshift. So
@@ -32,7 +32,7 @@ import { populationAt, type ParameterOffsets } from '../population/model.js';
 import { countPopulation, type Histogram, type RedshiftProfile, type SliceCount } from './engine.js';
 
 /** Widest piece of the true range near a measured edge, in units of sigma (1 + z) at its low end. */
-const PIECE_SIGMAS = 0.5;
+const PIECE_SIGMAS = 1;
 /** How far from a measured edge pieces are kept that narrow, in sigma (1 + z): 1 - Phi(8) = 6e-16. */
 const PIECE_ZONE = 8;
 
