@@ -55,8 +55,6 @@ export function fractionAbove(d: EquivalentWidthDistribution, w: number): number
 }
 
 export interface SelectionEffects {
-  /** True when any effect is stated (even at a neutral value). */
-  any: boolean;
   /** S(z): the redshift selection (1 without one). */
   selection(z: number): number;
   /** E(z): the fraction kept by the equivalent-width cut (1 without one). */
@@ -122,7 +120,6 @@ export function selectionEffects(detection: Detection, population: Population): 
     return kept.filter((z, i) => i === 0 || z - kept[i - 1]! > 1e-9);
   };
   return {
-    any: sel !== undefined || att !== undefined || population.blendRatio !== undefined || (cut !== undefined && ew !== undefined),
     selection,
     equivalentWidthKept,
     weight: (z) => selection(z) * equivalentWidthKept(z),
