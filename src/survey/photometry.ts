@@ -139,7 +139,7 @@ export function readDetectionPhotometry(det: RawPhotometryDetection, file: strin
       det.band === undefined ? 'missing_key' : 'wrong_type',
       file,
       'detection.band',
-      det.band === undefined ? 'is missing' : `is the wavelength "${excerpt(String(det.band))}", but synthetic photometry needs the band's shape`,
+      det.band === undefined ? 'is missing' : `is the wavelength "${excerpt(typeof det.band === 'object' ? '' : String(det.band))}", but synthetic photometry needs the band's shape`,
       'give band: {center, fwhm, profile: tophat | gaussian}, or a band_file',
     );
   }

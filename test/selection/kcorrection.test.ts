@@ -112,11 +112,12 @@ describe('identities of Hogg et al. 2002 eq. 8', () => {
 
 describe('the tabulated K(z) the counts use', () => {
   const sed = (b: Filter): SedPhotometry => ({ spectrum: invented, band: b, surveyFile: 'test.yaml' });
-  test.each([
-    ['gaussian band, rest 1500 A', { profile: 'gaussian', centerAngstrom: 8000, fwhmAngstrom: 1500 } as Filter, { kind: 'wavelength', angstrom: 1500 } as RestFrame, 3.2, 4.6],
-    ['red-band file, rest top-hat', redBand, { kind: 'band', band: { profile: 'tophat', centerAngstrom: 6200, fwhmAngstrom: 1400 } } as RestFrame, 0.05, 0.45],
-    ['top-hat band, rest 2300 A', { profile: 'tophat', centerAngstrom: 12500, fwhmAngstrom: 2500 } as Filter, { kind: 'wavelength', angstrom: 2300 } as RestFrame, 0, 3],
-  ])('%s: within 2e-8 mag of the exact value', (_n, b, r, z0, z1) => {
+  const tableCases: [string, Filter, RestFrame, number, number][] = [
+    ['gaussian band, rest 1500 A', { profile: 'gaussian', centerAngstrom: 8000, fwhmAngstrom: 1500 }, { kind: 'wavelength', angstrom: 1500 }, 3.2, 4.6],
+    ['red-band file, rest top-hat', redBand, { kind: 'band', band: { profile: 'tophat', centerAngstrom: 6200, fwhmAngstrom: 1400 } }, 0.05, 0.45],
+    ['top-hat band, rest 2300 A', { profile: 'tophat', centerAngstrom: 12500, fwhmAngstrom: 2500 }, { kind: 'wavelength', angstrom: 2300 }, 0, 3],
+  ];
+  test.each(tableCases)('%s: within 2e-8 mag of the exact value', (_n, b, r, z0, z1) => {
     const s = sed(b);
     const table = sedKCorrection(s, r, 'none', z0, z1);
     expect(sedKCorrection(s, r, 'none', z0, z1)).toBe(table);

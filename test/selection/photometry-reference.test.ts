@@ -62,7 +62,7 @@ describe.each(['vega-restband-sed.yaml', 'dropout-sed-selection.yaml'])('%s agai
     expect(rel(p.totals.count, c.total)).toBeLessThan(1e-6);
   });
   test('histogram bins of the first slice, in apparent AB magnitude (1e-6 relative)', () => {
-    const h = slicesOf(p)[0]!.histogram!;
+    const h = slicesOf(p)[0]!.histogram;
     expect(c.first_slice_bins!.length).toBeGreaterThan(0);
     for (const b of c.first_slice_bins!) {
       const k = h.edges.findIndex((e) => Math.abs(e - b.lo) < 1e-9);
