@@ -164,7 +164,9 @@ function nodeIntegral(nd: NodeState, s: Setting, power: 0 | 1): number {
       const qq = Math.min(q, L10_U_NEGLIGIBLE);
       if (!(qq > p)) continue;
       const oA = p === l10uLim ? nd.obsLimit : obsLo;
-      const oB = qq < q ? nd.a + slope * qq : obsHi;
+      // (the cut moved out to the histogram grid, so that every draw meets the same few ranges and reuses their rules)
+      const cut = nd.a + slope * qq;
+      const oB = qq < q ? (slope > 0 ? Math.ceil(cut / s.width) : Math.floor(cut / s.width)) * s.width : obsHi;
       // in pieces on the grid of the histogram's width, as the engine integrates (rules sized per piece)
       const e1 = Math.min(oA, oB);
       const e2 = Math.max(oA, oB);
