@@ -71,6 +71,7 @@ export function inputError(
  * start a new line.
  */
 export function printable(text: string): string {
+  // eslint-disable-next-line no-control-regex -- the control characters are what is escaped here
   return text.replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029\u200e\u200f\u202a-\u202e\u2066-\u2069]/g, (c) => {
     if (c === '\n') return '\\n';
     if (c === '\r') return '\\r';

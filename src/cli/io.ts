@@ -68,7 +68,7 @@ export function toJsonText(value: unknown): string {
   return (
     JSON.stringify(
       value,
-      (key, v) => {
+      (key: string, v: unknown) => {
         if (typeof v === 'number' && !Number.isFinite(v)) {
           throw new Error(`internal: the output value "${key}" is not a finite number`);
         }

@@ -61,7 +61,7 @@ export function completenessQuadrature(
   breaks: { points: number[]; scale: number },
 ): CompletenessQuadrature {
   let byKey = kept.get(spec);
-  if (!byKey) kept.set(spec, (byKey = new Map()));
+  if (!byKey) kept.set(spec, (byKey = new Map<string, CompletenessQuadrature>()));
   let q = byKey.get(key);
   if (!q) byKey.set(key, (q = new CompletenessQuadrature(slope, completeness, breaks)));
   return q;
@@ -159,7 +159,7 @@ export class CompletenessQuadrature {
     let level = 0;
     while (2 ** level < need) level++;
     let byHi = this.rules.get(lo);
-    if (!byHi) this.rules.set(lo, (byHi = new Map()));
+    if (!byHi) this.rules.set(lo, (byHi = new Map<number, (Rule | undefined)[]>()));
     let byLevel = byHi.get(hi);
     if (!byLevel) byHi.set(hi, (byLevel = []));
     let r = byLevel[level];

@@ -678,7 +678,7 @@ export function histogramCount(
         if (open || highObs <= vLo || lowObs >= vHi) {
           // Completeness is constant over this bin (or, for the open brightest bin, beyond its
           // edge): the closed form times that constant.
-          const cBin = completeness!(0.5 * (faintObs + brightObs));
+          const cBin = completeness(0.5 * (faintObs + brightObs));
           if (!open || highObs <= vLo || lowObs >= vHi) {
             let n = 0;
             const uLo = 10 ** l10uLo;
@@ -710,7 +710,7 @@ export function histogramCount(
         if (row) row[b]! += v;
       }
       if (withLuminosity) {
-        const d = nd.volumeWeight * nd.lumScale * detectedLuminosityByRules(nd, observer, completeness!, breaks!, rules!, width, k0, edges);
+        const d = nd.volumeWeight * nd.lumScale * detectedLuminosityByRules(nd, observer, completeness, breaks!, rules!, width, k0, edges);
         detectedLuminosity += d;
         if (detail) detail.detected[at] = d;
       }

@@ -152,7 +152,7 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
       sources += run.sources[i]!;
     }
     const parameters: Record<string, MockParameterSummary> = {};
-    const notConstrained: string[] = estimator === 'sty' ? [names[0]!] : [];
+    const notConstrained: string[] = estimator === 'sty' ? [names[0]] : [];
     names.forEach((n, j) => {
       if (notConstrained.includes(n)) return;
       const vals: number[] = [];

@@ -155,7 +155,7 @@ function buildAlias(cum: Float64Array, c0: number, n: number, keep: Float64Array
     keep[c0 + s] = scaled[s]!;
     alias[c0 + s] = l;
     scaled[l] = scaled[l]! + scaled[s]! - 1;
-    if (scaled[l]! < 1) {
+    if (scaled[l] < 1) {
       large.pop();
       small.push(l);
     }

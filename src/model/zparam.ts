@@ -7,5 +7,5 @@ export interface ZParam {
   /** True when the value does not depend on z. */
   readonly constant: boolean;
   /** Value at redshift z (finite for every z in the survey window; checked at load time). */
-  at(z: number): number;
+  at(this: void, z: number): number;
 }

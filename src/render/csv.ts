@@ -15,7 +15,7 @@ export function csvText(header: readonly string[], rows: readonly (readonly CsvC
       throw new Error(`internal: CSV row ${i + 1} has ${row.length} fields, the header ${header.length}`);
     }
   });
-  return stringify([header as CsvCell[], ...(rows as CsvCell[][])], {
+  return stringify([header, ...(rows as CsvCell[][])], {
     record_delimiter: 'unix',
     cast: {
       number: (x: number) => {

@@ -18,13 +18,13 @@ const COLUMNS: [keyof DistanceRow, string][] = [
 
 export function distancesText(t: DistanceTable): string {
   const table = new Table({ head: COLUMNS.map((c) => c[1]), style: { head: [], border: [] } });
-  for (const r of t.rows) table.push(COLUMNS.map(([k]) => (r[k] === undefined ? '-' : sig(r[k] as number, 6))));
+  for (const r of t.rows) table.push(COLUMNS.map(([k]) => (r[k] === undefined ? '-' : sig(r[k], 6))));
   return `Cosmology: ${cosmologyLine(t.cosmology)}\n${table.toString()}\n`;
 }
 
 export function distancesCsv(t: DistanceTable): string {
   return csvText(
     COLUMNS.map((c) => c[0]),
-    t.rows.map((r) => COLUMNS.map(([k]) => (r[k] === undefined ? '' : (r[k] as number)))),
+    t.rows.map((r) => COLUMNS.map(([k]) => (r[k] === undefined ? '' : r[k]))),
   );
 }

@@ -985,10 +985,10 @@ function loadLibs(): Promise<[VegaModule, VegaLiteModule]> {
  * renderSvg fails afterwards.
  */
 function refusingLoader(vega: VegaModule, refused: string[]): ReturnType<VegaModule['loader']> {
-  const refuse = (what: string) => async (uri: string) => {
+  const refuse = (what: string) => (uri: string): Promise<never> => {
     const msg = `figures fetch nothing: refused to ${what} ${JSON.stringify(String(uri))}`;
     refused.push(msg);
-    throw new Error(msg);
+    return Promise.reject(new Error(msg));
   };
   const base = vega.loader();
   return Object.assign(base, {

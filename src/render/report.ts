@@ -352,7 +352,7 @@ ${names
   .map(
     (n, i) =>
       `<tr><th scope="row" class="key">${escapeHtml(n)}</th>${names
-        .map((_, j) => `<td>${typeof c[i]?.[j] === 'number' ? c[i]![j]!.toFixed(3) : ''}</td>`)
+        .map((_, j) => `<td>${typeof c[i]?.[j] === 'number' ? c[i][j].toFixed(3) : ''}</td>`)
         .join('')}</tr>`,
   )
   .join('\n')}

@@ -36,7 +36,7 @@ let resvg: Promise<ResvgModule | Error> | undefined;
 export function loadRasteriser(): Promise<ResvgModule | Error> {
   resvg ??= (import(RASTERISER) as Promise<ResvgModule & { default?: ResvgModule }>).then(
     // a CommonJS package: named export when Node detects it, else on the default export
-    (m) => (typeof m.Resvg === 'function' ? m : m.default!) as ResvgModule,
+    (m) => (typeof m.Resvg === 'function' ? m : m.default!),
     (e: unknown) => new Error(`PNG not written: the rasteriser @resvg/resvg-js did not load (${e instanceof Error ? e.message : String(e)})`),
   );
   return resvg;

@@ -69,7 +69,7 @@ export interface SelectionEffects {
    * What the effects add to a(z) of obs = a + slope log10 u: log10(1 + b) - 0.4 A(z) for a line
    * flux, A(z) for an apparent magnitude, 0 for a threshold.
    */
-  obsShift(z: number): number;
+  obsShift(this: void, z: number): number;
   /** Redshifts strictly inside (lo, hi) where an effect has a kink (table nodes). */
   breaks(lo: number, hi: number): number[];
 }

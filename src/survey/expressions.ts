@@ -132,7 +132,7 @@ export function compileExpression(text: string, file: string, keyPath: string): 
   let root: MathNode;
   try {
     // The common forms without building mathjs's parser; the rest (and every error) through mathjs.
-    root = quickParse(text) ?? (getParser().parse(text) as unknown as MathNode);
+    root = quickParse(text) ?? (getParser().parse(text));
   } catch (e) {
     const msg = e instanceof RangeError ? 'nests too deeply' : (e as Error).message.replace(/\.$/, '').replace(/\s+/g, ' ');
     return reject(`cannot be read (${msg})`);

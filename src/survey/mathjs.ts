@@ -17,14 +17,14 @@ let units: MathJs | undefined;
 
 /** An instance with the expression parser only. */
 export function getParser(): MathJs {
-  parser ??= create({ parseDependencies: parseDependencies! }) as MathJs;
+  parser ??= create({ parseDependencies: parseDependencies! });
   return parser;
 }
 
 /** An instance with units; adds `sr` and `micron`, which mathjs does not know by these names. */
 export function getUnits(): MathJs {
   if (units) return units;
-  const mj = create({ unitDependencies: unitDependencies!, createUnitDependencies: createUnitDependencies! }) as MathJs;
+  const mj = create({ unitDependencies: unitDependencies!, createUnitDependencies: createUnitDependencies! });
   // sr: the SI steradian, 1 sr = 1 rad^2 (SI brochure, 9th ed., Table 4). micron: the micrometre.
   mj.createUnit('sr', '1 rad^2');
   mj.createUnit('micron', '1 um');

@@ -61,7 +61,9 @@ function describeValue(v: unknown): string {
   if (Array.isArray(v)) return 'a list';
   if (typeof v === 'object') return 'a mapping';
   if (typeof v === 'string') return `the text "${v.length > 30 ? v.slice(0, 27) + '...' : v}"`;
-  return `${typeof v === 'number' ? '' : typeof v + ' '}${String(v)}`;
+  if (typeof v === 'number') return String(v);
+  if (typeof v === 'boolean' || typeof v === 'bigint' || v === undefined) return `${typeof v} ${String(v)}`;
+  return typeof v; // a symbol or a function: neither comes out of a parsed file
 }
 
 function depth(e: ErrorObject): number {

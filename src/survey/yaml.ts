@@ -55,7 +55,7 @@ function checkTree(doc: Document, lines: LineCounter, file: string): void {
     }
     if (!isMap(node) && !isSeq(node)) continue;
     if (depth >= MAX_YAML_DEPTH) {
-      throw inputError('too_large', file, path, `nests mappings and lists more than ${MAX_YAML_DEPTH} levels deep${where(node as Node)}`, 'a survey file needs only a few levels; check the indentation and brackets');
+      throw inputError('too_large', file, path, `nests mappings and lists more than ${MAX_YAML_DEPTH} levels deep${where(node)}`, 'a survey file needs only a few levels; check the indentation and brackets');
     }
     count += node.items.length;
     if (count > MAX_YAML_NODES) {

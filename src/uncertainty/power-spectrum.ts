@@ -62,7 +62,7 @@ export interface LinearPower {
    * Fast P(k, z = 0) in Mpc^3 from the squared wavenumber k^2 (Mpc^-2), by cubic interpolation
    * of the ln P table; relative accuracy ~1e-7 (no-wiggle). For hot loops (window integrals).
    */
-  powerZ0FromK2(k2: number): number;
+  powerZ0FromK2(this: void, k2: number): number;
   /** rms linear fluctuation in a sphere of comoving radius rMpc (top-hat window), at z. */
   sigmaR(rMpc: number, z: number): number;
   /** Comoving top-hat radius (Mpc) enclosing mass M (Msun) at the mean matter density. */

@@ -23,7 +23,6 @@ import { createLinearPower, type LinearPower } from './power-spectrum.js';
 import { createHaloModel, MATCH_MASS_MAX_MSUN, MATCH_MASS_MIN_MSUN, type HaloModel } from './haloes.js';
 import { sliceMatterSigma } from './cosmic-variance.js';
 import { addWarning, warning, type Warning } from '../warnings.js';
-import { brentRoot } from './quadrature.js';
 import type { RedshiftProfile } from '../counts/engine.js';
 
 export interface UncertaintyJson {
@@ -92,7 +91,7 @@ export class UncertaintyMemo {
 
   set(p: Population, count: number, volumeMpc3: number, zMin: number, zMax: number, zc: number, block: UncertaintyJson | undefined): void {
     let m = this.blocks.get(p);
-    if (!m) this.blocks.set(p, (m = new Map()));
+    if (!m) this.blocks.set(p, (m = new Map<string, UncertaintyJson | undefined>()));
     m.set(UncertaintyMemo.key(count, volumeMpc3, zMin, zMax, zc), block);
   }
 }
@@ -295,7 +294,7 @@ function haloMassOfBias(ctx: UncertaintyContext, bias: number, z: number): numbe
  */
 function matcherAt(ctx: UncertaintyContext, z: number): ReturnType<HaloModel['matcherAt']> {
   let byZ = matchers.get(ctx.power);
-  if (!byZ) matchers.set(ctx.power, (byZ = new Map()));
+  if (!byZ) matchers.set(ctx.power, (byZ = new Map<number, ReturnType<HaloModel['matcherAt']>>()));
   let m = byZ.get(z);
   if (!m) {
     if (byZ.size > 4096) byZ.clear();
@@ -350,7 +349,7 @@ export function totalUncertainty(ctx: UncertaintyContext, parts: readonly TotalP
       groupsOf.set(pop, groups);
       const biasAt =
         pop.bias !== 'auto'
-          ? (pop.bias.at.bind(pop.bias) as (z: number) => number)
+          ? pop.bias.at
           : (z: number) => {
               for (const g of groups) if (z >= g.zMin && z <= g.zMax) return g.biasAt(z);
               return 0;

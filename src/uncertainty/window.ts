@@ -182,7 +182,7 @@ export function boxSigma(
   const key = `${l1} ${l2} ${l3}`;
   if (plain) {
     byPower = boxCache.get(power);
-    if (!byPower) boxCache.set(power, (byPower = new Map()));
+    if (!byPower) boxCache.set(power, (byPower = new Map<string, number>()));
     const s0 = byPower.get(key);
     if (s0 !== undefined) return s0 * d;
   }

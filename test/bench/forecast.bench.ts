@@ -25,7 +25,7 @@ function scaledTo(s: Survey, n: number, count: number): Survey {
   return { ...s, areaDeg2: s.areaDeg2 * f, areaSr: s.areaSr * f };
 }
 
-const fisherCases: BenchCase[] = samples.flatMap((f) => {
+const fisherCases: BenchCase[] = samples.flatMap((f): BenchCase[] => {
   const s = loadSurveyFile(`samples/${f}`);
   // Forecasts vary one Schechter function: a sample whose first population is double is refused.
   if (s.populations[0]!.shape === 'double_schechter') return [];

@@ -31,8 +31,17 @@ type Path = (string | number)[];
 
 /** Every place in the tree (the root excepted), depth first. */
 function paths(v: unknown, at: Path = [], out: Path[] = []): Path[] {
-  if (Array.isArray(v)) v.forEach((x, i) => (out.push([...at, i]), paths(x, [...at, i], out)));
-  else if (v !== null && typeof v === 'object') for (const [k, x] of Object.entries(v)) (out.push([...at, k]), paths(x, [...at, k], out));
+  if (Array.isArray(v)) {
+    v.forEach((x, i) => {
+      out.push([...at, i]);
+      paths(x, [...at, i], out);
+    });
+  } else if (v !== null && typeof v === 'object') {
+    for (const [k, x] of Object.entries(v)) {
+      out.push([...at, k]);
+      paths(x, [...at, k], out);
+    }
+  }
   return out;
 }
 

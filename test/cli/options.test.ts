@@ -5,8 +5,7 @@
  */
 import { tempDir } from '../support/temp.js';
 import fc from 'fast-check';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { runCli, type Captured } from './helpers.js';

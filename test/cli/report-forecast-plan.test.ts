@@ -12,8 +12,9 @@ import { join } from 'node:path';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { runCli } from './helpers.js';
 import { tempDir } from '../support/temp.js';
+import type { Json } from '../support/json.js';
 
-type Any = Record<string, any>;
+type Any = Json;
 
 const tmp = () => tempDir('skytally-report-fp-');
 const num = (s: string) => Number(s.replace(/\u2212/g, '-').replace(/,/g, ''));

@@ -16,8 +16,9 @@ import type { Plan } from '../../src/model/outputs/plan.js';
 import { forecastSpec, planSpec } from '../../src/render/figures.js';
 import { loadSurveyFile, loadSurveyText } from '../../src/survey/index.js';
 import { tempDir } from '../support/temp.js';
+import type { Json } from '../support/json.js';
 
-type Any = Record<string, any>;
+type Any = Json;
 
 const forecastResult = {
   format: 1,
@@ -72,7 +73,7 @@ const planResult = {
 
 describe('the figures draw the results as their commands return them (no adapter between)', () => {
   test('forecast: the ellipse about the centre (alpha against log10 L*); no fits invented', () => {
-    const spec = forecastSpec(forecastResult)! as Any;
+    const spec = forecastSpec(forecastResult) as Any;
     const cross = spec.layer.find((l: Any) => l.mark.shape === 'cross');
     expect(cross.data.values).toEqual([{ x: -1.45, y: 42.3 }]);
     expect(spec.layer.find((l: Any) => l.mark.type === 'point' && l.mark.shape === 'circle')).toBeUndefined();
@@ -83,7 +84,7 @@ describe('the figures draw the results as their commands return them (no adapter
       [-2.6, 42.25, -1.38],
       [-2.62, 42.33, -1.5],
     ];
-    const dots = (forecastSpec({ ...forecastResult, mocks: { ...forecastResult.mocks, fits } })! as Any).layer.find(
+    const dots = (forecastSpec({ ...forecastResult, mocks: { ...forecastResult.mocks, fits } }) as Any).layer.find(
       (l: Any) => l.mark.type === 'point' && l.mark.shape === 'circle',
     );
     expect(dots.data.values).toEqual([
@@ -93,7 +94,7 @@ describe('the figures draw the results as their commands return them (no adapter
   });
 
   test('plan: the goal in words and the near-best range in hours per pointing', () => {
-    const spec = planSpec(planResult)! as Any;
+    const spec = planSpec(planResult) as Any;
     expect(spec.layer[0].data.values).toEqual([{ from: 1, to: 2 }]);
     expect(spec.layer[1].encoding.y.title).toBe('goal: sigma of alpha');
   });
@@ -113,10 +114,10 @@ describe('report hooks', () => {
     let planCalls = 0;
     const code = await runReport(io(), 'samples/halpha-narrowband.yaml', { out }, {
       // the hooks return the results as the commands compute them (only the fields the report reads are filled in here)
-      forecast: async () => forecastResult as unknown as Forecast,
-      plan: async () => {
+      forecast: () => Promise.resolve(forecastResult as unknown as Forecast),
+      plan: () => {
         planCalls++;
-        return planResult as unknown as Plan;
+        return Promise.resolve(planResult as unknown as Plan);
       },
     });
     expect(code).toBe(0);
@@ -135,7 +136,7 @@ describe('report hooks', () => {
     expect(hasPlanSection(loadSurveyText(text, 'p.yaml'))).toBe(true);
     const input = join(dir, 'p.yaml');
     writeFileSync(input, text);
-    const code = await runReport(io(), input, { out: join(dir, 'r.html') }, { plan: async () => planResult as unknown as Plan });
+    const code = await runReport(io(), input, { out: join(dir, 'r.html') }, { plan: () => Promise.resolve(planResult as unknown as Plan) });
     expect(code).toBe(0);
     const html = readFileSync(join(dir, 'r.html'), 'utf8');
     expect(html).toContain('id="plan-table"');

@@ -8,16 +8,16 @@
  * report-forecast-plan.test.ts).
  */
 import { tempDir } from '../support/temp.js';
+import type { Json } from '../support/json.js';
 import { describe, expect, test } from 'vitest';
-import { mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { runCli } from './helpers.js';
 import { WARNING_CODES } from '../../src/warnings.js';
 import { sampleText } from '../planning/helpers.js';
 
-type Any = Record<string, any>;
+type Any = Json;
 
 const dir = tempDir('skytally-warnings-');
 function file(name: string, text: string): string {

@@ -253,7 +253,7 @@ population: {variable: magnitude, phi_star: 2.2e-3, m_star: -21, alpha: -1.6, sf
 slices: {count: 1}
 `;
     const p = predict(loadSurveyText(text, 'uv.yaml'));
-    const pcCm = 3.0856775814913673e18; // IAU 2015 B2 parsec in cm
+    const pcCm = 3.0856775814913674e18; // IAU 2015 B2 parsec in cm (3.0856775814913673e16 m; the same double)
     const lnuStar = 4 * Math.PI * (10 * pcCm) ** 2 * 10 ** (-0.4 * (-21 + 48.6));
     const u = 10 ** (0.4 * (-21 - -19));
     const ld = p.totals.luminosity_density!;

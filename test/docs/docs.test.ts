@@ -113,7 +113,7 @@ function topLevelFields(s: { properties?: object; $defs?: Record<string, unknown
     (x.allOf ?? []).forEach(visit);
     (x.oneOf ?? []).forEach(visit);
   };
-  visit(s as Node);
+  visit(s);
   return [...out];
 }
 

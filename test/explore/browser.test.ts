@@ -157,7 +157,7 @@ describe.skipIf(!haveChromium)('explore page in headless chromium', () => {
 
     test('the button writes the same survey file the numbers are of', async () => {
       const [download] = await Promise.all([page.waitForEvent('download'), page.click('#write-survey')]);
-      const saved = readFileSync((await download.path())!, 'utf8');
+      const saved = readFileSync((await download.path()), 'utf8');
       expect(saved).toBe(await page.textContent('#survey-yaml'));
       expect(await page.textContent('#status')).toContain('written');
     });

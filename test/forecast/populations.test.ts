@@ -8,8 +8,7 @@
  * number of the forecast, with and without cosmic variance.
  */
 import { tempDir } from '../support/temp.js';
-import { copyFileSync, mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { copyFileSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { parse, stringify } from 'yaml';

@@ -30,14 +30,14 @@ import { surveyFromSpec, type SurveySpec } from './helpers.js';
 const ref = JSON.parse(readFileSync(new URL('../reference/fisher.json', import.meta.url), 'utf8')) as { cases: { survey: SurveySpec }[] };
 const samplesDir = new URL('../../samples/', import.meta.url).pathname;
 
-async function grids(): Promise<[string, DensityGrid][]> {
+function grids(): [string, DensityGrid][] {
   const out: [string, DensityGrid][] = [];
   for (const c of ref.cases) {
     const sv = surveyFromSpec(c.survey);
     out.push([`reference ${c.survey.name}`, buildDensityGrid(sv, sv.populations[0]!, new FlatCosmology(sv.cosmology), sv.sliceEdges)]);
   }
   for (const f of readdirSync(samplesDir).filter((x) => x.endsWith('.yaml')).sort()) {
-    const file = await loadSurveyFile(join(samplesDir, f));
+    const file = loadSurveyFile(join(samplesDir, f));
     // every sample a forecast accepts (one Schechter function, sources counted by true redshift)
     let population;
     try {
@@ -52,7 +52,7 @@ async function grids(): Promise<[string, DensityGrid][]> {
   return out;
 }
 
-const all = await grids();
+const all = grids();
 
 /** The node of largest expected count in each slice. */
 function mainNodes(grid: DensityGrid): number[] {

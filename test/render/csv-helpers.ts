@@ -16,7 +16,7 @@ export interface StrictCsv {
 export function parseCsvStrict(text: string): StrictCsv {
   if (!text.endsWith('\n')) throw new Error('CSV output does not end with a newline');
   if (/\r/.test(text)) throw new Error('CSV output holds a carriage return (records end with \\n)');
-  const all = parse(text, {
+  const all: string[][] = parse(text, {
     bom: false,
     cast: false,
     delimiter: ',',
@@ -29,7 +29,7 @@ export function parseCsvStrict(text: string): StrictCsv {
     skip_records_with_empty_values: false,
     skip_records_with_error: false,
     trim: false,
-  }) as string[][];
+  });
   if (all.length === 0) throw new Error('CSV output is empty');
   const header = all[0]!;
   if (new Set(header).size !== header.length) throw new Error(`CSV header repeats a column: ${header.join(',')}`);

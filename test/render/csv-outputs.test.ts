@@ -6,14 +6,14 @@
  */
 import { tempDir } from '../support/temp.js';
 import { describe, expect, test } from 'vitest';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { runCli } from '../cli/helpers.js';
 import { csvNumber, parseCsvStrict } from './csv-helpers.js';
 import { csvText } from '../../src/render/csv.js';
+import type { Json } from '../support/json.js';
 
-async function both(argv: string[]): Promise<{ csv: ReturnType<typeof parseCsvStrict>; json: any; text: string }> {
+async function both(argv: string[]): Promise<{ csv: ReturnType<typeof parseCsvStrict>; json: Json; text: string }> {
   const c = await runCli([...argv, '--format', 'csv']);
   expect(c.code, c.stderr).toBe(0);
   const j = await runCli([...argv, '--format', 'json']);

@@ -25,8 +25,9 @@ import {
 } from '../../src/render/figures.js';
 import type { PredictionView } from '../../src/render/types.js';
 import { demoForecast, demoPlan, demoPrediction } from './demo.js';
+import type { Json } from '../support/json.js';
 
-type Any = Record<string, any>;
+type Any = Json;
 
 /** Bars drawn by vega in an SVG: aria label and rectangle (x, y, width, height) from the path. */
 function bars(svg: string): { label: string; x: number; y: number; w: number; h: number }[] {
@@ -46,7 +47,7 @@ const demo = demoPrediction();
 
 describe('counts figure: the drawn numbers are the prediction numbers (demo object)', () => {
   test('spec data values equal each slice z_min, z_max, count and the 1-sigma bounds', () => {
-    const spec = countsSpec(demo)! as Any;
+    const spec = countsSpec(demo) as Any;
     const values = spec.data.values as Any[];
     expect(values).toHaveLength(demo.slices.length);
     demo.slices.forEach((s, i) => {
@@ -94,7 +95,7 @@ describe('counts figure: the drawn numbers are the prediction numbers (demo obje
 
 describe('histogram figure: small multiples hold each slice histogram', () => {
   test('spec panels hold every bin edge and count of every slice', () => {
-    const spec = histogramsSpec(demo)! as Any;
+    const spec = histogramsSpec(demo) as Any;
     const values = spec.data.values as Any[];
     expect(new Set(values.map((r) => r.slice)).size).toBe(demo.slices.length);
     expect(spec.facet.field).toBe('panel');
@@ -134,7 +135,7 @@ describe('histogram figure: small multiples hold each slice histogram', () => {
 
 describe('luminosity-function figure', () => {
   test('each panel draws its slice curve, limit and knee', () => {
-    const spec = luminosityFunctionSpec(demo)! as Any;
+    const spec = luminosityFunctionSpec(demo) as Any;
     const values = spec.data.values as Any[];
     expect(new Set(values.map((r) => r.slice)).size).toBe(demo.slices.length);
     const layers = spec.spec.layer as Any[];
@@ -154,7 +155,7 @@ describe('luminosity-function figure', () => {
       expect(rows.filter((r) => r.kind === 'limit').map((r) => r.x)).toEqual([c.limit]);
       expect(rows.filter((r) => r.kind === 'knee').map((r) => [r.x, r.label])).toEqual([[c.knee, 'L*']]);
       const detected = rows.filter((r) => r.kind === 'detected');
-      expect(Math.min(...detected.map((r) => r.x))).toBeCloseTo(c.limit!, 12);
+      expect(Math.min(...detected.map((r) => r.x))).toBeCloseTo(c.limit, 12);
     });
   });
 
@@ -181,18 +182,18 @@ describe('luminosity-function figure', () => {
     for (const s of p.slices) {
       const c = s.luminosity_function!;
       c.x = c.x.map((lx) => -2.5 * lx + 85);
-      c.limit = -2.5 * c.limit! + 85;
-      c.knee = -2.5 * c.knee! + 85;
+      c.limit = -2.5 * c.limit + 85;
+      c.knee = -2.5 * c.knee + 85;
       c.x_label = '';
     }
-    const spec = luminosityFunctionSpec(p, { variable: 'magnitude' })! as Any;
+    const spec = luminosityFunctionSpec(p, { variable: 'magnitude' }) as Any;
     const values = (spec.data.values as Any[]).filter((r) => r.slice === 1);
     expect(values.find((r) => r.kind === 'knee')!.label).toBe('M*');
     const line = (spec.spec.layer as Any[]).find((l) => l.mark.type === 'line')!;
     expect(line.encoding.y.title).toBe('φ [Mpc⁻³ mag⁻¹]');
     expect(line.encoding.x.title).toBe('absolute AB magnitude M [mag]');
     const detected = values.filter((r) => r.kind === 'detected');
-    expect(Math.max(...detected.map((r) => r.x))).toBeCloseTo(p.slices[0]!.luminosity_function!.limit!, 12);
+    expect(Math.max(...detected.map((r) => r.x))).toBeCloseTo(p.slices[0]!.luminosity_function!.limit, 12);
   });
 });
 
@@ -245,7 +246,7 @@ describe('forecast figure: Fisher ellipses', () => {
 
   test('spec holds both ellipses and every mock fit', () => {
     const f = demoForecast({ mocks: 50 });
-    const spec = forecastSpec(f, 'Demo')! as Any;
+    const spec = forecastSpec(f, 'Demo') as Any;
     const mocks = spec.layer[0].data.values as Any[];
     expect(mocks).toHaveLength(50);
     mocks.forEach((m, i) => expect([m.x, m.y]).toEqual([f.mocks!.fits![i]![2], f.mocks!.fits![i]![1]]));
@@ -263,7 +264,7 @@ describe('forecast figure: Fisher ellipses', () => {
 describe('plan figure', () => {
   test('spec holds every design in exposure order, the best one and the near-best band', async () => {
     const plan = demoPlan();
-    const spec = planSpec(plan, 'Demo')! as Any;
+    const spec = planSpec(plan, 'Demo') as Any;
     const band = spec.layer[0].data.values[0];
     expect(band).toEqual({ from: 0.5, to: 2 });
     const line = spec.layer[1];
@@ -370,7 +371,7 @@ describe('figures for a proposal', () => {
       s.per_deg2 = c / 2.5;
       s.uncertainty!.total_fraction = 0.1;
     });
-    const spec = countsSpec(p)! as Any;
+    const spec = countsSpec(p) as Any;
     expect(spec.layer[0].encoding.y.scale.type).toBe('log');
     const fig = (await countsFigure(p))!;
     for (const label of ['10⁰', '10¹', '10²', '10³']) expect(fig.svg).toContain(`>${label}<`);
@@ -389,7 +390,7 @@ describe('figures for a proposal', () => {
     const h2 = p.slices[1]!.histogram!;
     h2.edges = Array.from({ length: 19 }, (_, k) => +(-17.5 + 0.1 * k).toFixed(1));
     h2.counts = [1e-12, 1e-9, ...new Array<number>(8).fill(0), ...h2.counts];
-    const spec = histogramsSpec(p)! as Any;
+    const spec = histogramsSpec(p) as Any;
     expect(spec.resolve.scale.x).toBe('independent');
     expect(spec.spec.encoding.y.title).toBe('count per 0.1 dex bin');
     const rows = spec.data.values as Any[];
@@ -433,7 +434,7 @@ describe('figures for a proposal', () => {
 
   test('plan: the goal in words, and the best design labelled above the plot, clear of every point (failed before: the label sat among the points)', async () => {
     const plan = { ...demoPlan(), goal: { sigma: 'alpha' } };
-    const spec = planSpec(plan)! as Any;
+    const spec = planSpec(plan) as Any;
     expect(spec.layer[1].encoding.y.title).toBe('goal: sigma of alpha');
     expect(spec.title.text.at(-1)).toBe('Sigma of alpha against exposure per pointing');
     const svg = (await planFigure(plan))!.svg;

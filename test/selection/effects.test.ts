@@ -146,7 +146,7 @@ describe('equivalent-width distributions', () => {
 describe('the selection reaches the cosmic variance and the forecast', () => {
   const text = readFileSync('samples/dropout-field.yaml', 'utf8');
   const withTable = loadSurveyText(text, 'dropout-field.yaml');
-  const without = loadSurveyText(text.replace(/^  redshift_selection:.*\n/m, ''), 'dropout-field.yaml');
+  const without = loadSurveyText(text.replace(/^ {2}redshift_selection:.*\n/m, ''), 'dropout-field.yaml');
 
   test('the total box is as deep as the selected sources: a selection peaked in the window shortens it', () => {
     const a = predict(withTable).totals.uncertainty!;

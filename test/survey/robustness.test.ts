@@ -9,8 +9,7 @@
 import { tempDir } from '../support/temp.js';
 import fc from 'fast-check';
 import { execFileSync } from 'node:child_process';
-import { mkdirSync, mkdtempSync, symlinkSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { symlinkSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { parse } from 'yaml';
@@ -36,6 +35,7 @@ function errorOf(f: () => unknown): SurveyError {
 }
 
 function oneSentence(e: SurveyError): void {
+  // eslint-disable-next-line no-control-regex -- the escape character is what must not reach the terminal
   expect(e.message).not.toMatch(/[\n\r\u001b]/);
   expect(e.message.endsWith('.'), e.message).toBe(true);
   expect(e.message).not.toMatch(/\b(undefined|NaN)\b/);
@@ -311,9 +311,11 @@ describe('messages quote at most a short, escaped excerpt, and nothing of a file
 
   test('control characters and line breaks in paths and values are escaped', () => {
     const e = errorOf(() => loadSurveyFile(join(dir, 'no\u001b[2Jsuch\nfile.yaml')));
+    // eslint-disable-next-line no-control-regex -- the escape character is what must not reach the terminal
     expect(e.message).not.toMatch(/[\n\u001b]/);
     expect(e.message).toContain('\\x1b[2J');
     const p = refusal(LINE_YAML, { cosmology: { preset: 'pl\u001b]0;title\u0007anck\u202e' } });
+    // eslint-disable-next-line no-control-regex -- escape and bell are what must not reach the terminal
     expect(p.message).not.toMatch(/[\u001b\u0007\u202e]/);
   });
 });

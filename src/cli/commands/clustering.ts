@@ -1,5 +1,5 @@
 import type { CommandDef } from './types.js';
-import { addOutputOptions, outputOptions, parseKeyedList } from './common.js';
+import { addOutputOptions, optionText, outputOptions, parseKeyedList } from './common.js';
 import { addCosmologyOptions, cosmologyFromOptions } from './cosmology-options.js';
 import { Outputs, renderText } from '../io.js';
 import { inputError } from '../../errors.js';
@@ -31,8 +31,9 @@ export const clusteringCommand: CommandDef = {
     const zs = parseKeyedList(String(opts.z), '--z', CLUSTERING_RANGES.z);
     const radii = parseKeyedList(String(opts.radiusMpc), '--radius-mpc', CLUSTERING_RANGES.radiusMpc);
     const masses = parseKeyedList(String(opts.massMsun), '--mass-msun', CLUSTERING_RANGES.massMsun);
-    if (opts.transfer !== 'no_wiggle' && opts.transfer !== 'full') {
-      throw inputError('bad_option', '', '--transfer', `unknown form "${opts.transfer}"`, 'use no_wiggle or full');
+    const transfer = opts.transfer as unknown;
+    if (transfer !== 'no_wiggle' && transfer !== 'full') {
+      throw inputError('bad_option', '', '--transfer', `unknown form "${optionText(transfer)}"`, 'use no_wiggle or full');
     }
     if (typeof opts.survey === 'string' && (opts.omegaB !== undefined || opts.sigma8 !== undefined || opts.nS !== undefined)) {
       throw inputError('conflict', '', '--survey', 'cannot be combined with cosmology flags', 'give either --survey or the flags');
@@ -41,7 +42,7 @@ export const clusteringCommand: CommandDef = {
     if (typeof opts.survey === 'string') outputs.refuseInputs([opts.survey]);
     const cosmology = await cosmologyFromOptions(opts, io, outputs);
     const { clusteringTable } = await import('../../uncertainty/table.js');
-    const result = clusteringTable(cosmology, zs, radii, masses, opts.transfer);
+    const result = clusteringTable(cosmology, zs, radii, masses, transfer);
     const { clusteringText, clusteringCsv } = await import('../../render/clustering-table.js');
     outputs.setMain(renderText(out, { json: () => result, table: () => clusteringText(result), csv: () => clusteringCsv(result) }));
     outputs.commit();

@@ -15,8 +15,15 @@ export function addOutputOptions(cmd: Command): void {
   cmd.option('--out <file>', 'write the output to this file (atomically; - for standard output) instead of stdout');
 }
 
+/** The text of an option's value: commander gives a string (a boolean for a bare flag). */
+export function optionText(v: unknown): string {
+  if (typeof v === 'string') return v;
+  if (typeof v === 'boolean' || typeof v === 'number' || v === undefined || v === null) return String(v);
+  return Array.isArray(v) ? v.map(optionText).join(',') : JSON.stringify(v);
+}
+
 export function outputOptions(opts: Record<string, unknown>): OutputOptions {
-  const o: OutputOptions = { format: parseFormat(String(opts.format ?? 'table')) };
+  const o: OutputOptions = { format: parseFormat(optionText(opts.format ?? 'table')) };
   if (typeof opts.out === 'string') o.out = opts.out;
   return o;
 }

@@ -3,7 +3,7 @@ import type { Command } from 'commander';
 import type { BackgroundCosmology, Cosmology } from '../../model/cosmology.js';
 import type { InputFile } from '../../model/survey.js';
 import type { CliIO } from '../io.js';
-import { decimalNumber, loadSurveyArg } from './common.js';
+import { decimalNumber, loadSurveyArg, optionText } from './common.js';
 import { excerpt, inputError } from '../../errors.js';
 import { COSMOLOGY_KEYS, resolveBackground, resolveCosmology, type CosmologyInput } from '../../cosmology/parameters.js';
 
@@ -44,7 +44,7 @@ async function cosmologyInput(
   if (typeof opts.preset === 'string') input.preset = opts.preset;
   for (const k of flags) {
     if (opts[k] === undefined) continue;
-    const text = String(opts[k]);
+    const text = optionText(opts[k]);
     const v = decimalNumber(text);
     const flag = COSMOLOGY_KEYS[k].flag;
     if (v === undefined) throw inputError('bad_option', '', flag, `"${excerpt(text)}" is not a decimal number`, `give ${flag} a number such as ${k === 'h0' ? 70 : k === 'tCmb' ? 2.7255 : 0.3}`);

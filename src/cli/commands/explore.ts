@@ -13,7 +13,7 @@ export const exploreCommand: CommandDef = {
   },
   async action(cmd, args, io) {
     const file = args[0] as string;
-    const opts = cmd.opts() as { out?: string };
+    const opts = cmd.opts<{ out?: string }>();
     const outputs = new Outputs(io, { out: opts.out });
     outputs.refuseInputs([file]);
     const { loadSurveyFileWithText } = await import('../../survey/load.js');

@@ -1,7 +1,7 @@
 import { availableParallelism } from 'node:os';
 import { Option } from 'commander';
 import type { CommandDef } from './types.js';
-import { addOutputOptions, decimalNumber, loadSurveyArg, outputOptions, parseInteger, printWarnings } from './common.js';
+import { addOutputOptions, decimalNumber, loadSurveyArg, optionText, outputOptions, parseInteger, printWarnings } from './common.js';
 import { Outputs, renderText, type CliIO } from '../io.js';
 import { inputError } from '../../errors.js';
 
@@ -81,8 +81,8 @@ export const MAX_MOCKS = 10_000;
  * checked as `forecast` checks them. Shared with `report`.
  */
 export function mockOptions(raw: { mocks?: unknown; seed?: unknown }): { mocks: number; seed: number } {
-  const mocks = raw.mocks === undefined ? 0 : parseInteger(String(raw.mocks), '--mocks', 1, MAX_MOCKS);
-  const seed = raw.seed === undefined ? 1 : parseInteger(String(raw.seed), '--seed', 0, 4294967295);
+  const mocks = raw.mocks === undefined ? 0 : parseInteger(optionText(raw.mocks), '--mocks', 1, MAX_MOCKS);
+  const seed = raw.seed === undefined ? 1 : parseInteger(optionText(raw.seed), '--seed', 0, 4294967295);
   return { mocks, seed };
 }
 

@@ -2,7 +2,6 @@ import { availableParallelism } from 'node:os';
 import type { CommandDef } from './types.js';
 import { addOutputOptions, loadSurveyArg, outputOptions, parseInteger, printWarnings } from './common.js';
 import { Outputs, renderText, type CliIO } from '../io.js';
-import { inputError } from '../../errors.js';
 
 export const planCommand: CommandDef = {
   name: 'plan',

@@ -1,5 +1,5 @@
 import type { CommandDef } from './types.js';
-import { addOutputOptions, loadSurveyArg, outputOptions, parseInteger, printWarnings } from './common.js';
+import { addOutputOptions, loadSurveyArg, optionText, outputOptions, parseInteger, printWarnings } from './common.js';
 import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED, MAX_MODEL_DRAWS } from '../../counts/model-draws.js';
 import { Outputs, renderText } from '../io.js';
 
@@ -37,7 +37,7 @@ export const predictCommand: CommandDef = {
 
 /** --draws N (1 to MAX_MODEL_DRAWS; default 1000) and --seed S (0 to 4294967295; default 1) of the model's draws. */
 export function modelDrawOptions(raw: { draws?: unknown; seed?: unknown }): { draws: number; seed: number } {
-  const draws = raw.draws === undefined ? DEFAULT_MODEL_DRAWS : parseInteger(String(raw.draws), '--draws', 1, MAX_MODEL_DRAWS);
-  const seed = raw.seed === undefined ? DEFAULT_MODEL_SEED : parseInteger(String(raw.seed), '--seed', 0, 4294967295);
+  const draws = raw.draws === undefined ? DEFAULT_MODEL_DRAWS : parseInteger(optionText(raw.draws), '--draws', 1, MAX_MODEL_DRAWS);
+  const seed = raw.seed === undefined ? DEFAULT_MODEL_SEED : parseInteger(optionText(raw.seed), '--seed', 0, 4294967295);
   return { draws, seed };
 }

@@ -39,7 +39,7 @@ export const reportCommand: CommandDef = {
   },
   async action(cmd, args, io) {
     const file = args[0] as string;
-    const opts = cmd.opts() as ReportOptions;
+    const opts = cmd.opts<ReportOptions>();
     return runReport(io, file, opts);
   },
 };
