@@ -35,6 +35,7 @@ export const COMPARE_ROWS: { row: string; better: 'higher' | 'lower' }[] = [
   { row: 'faint_count', better: 'higher' },
   { row: 'poisson_fraction', better: 'lower' },
   { row: 'cosmic_variance_fraction', better: 'lower' },
+  { row: 'model_fraction', better: 'lower' },
   { row: 'exposure_hours', better: 'lower' },
   { row: 'count_per_hour', better: 'higher' },
 ];
@@ -95,6 +96,7 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
       cosmic_variance_fraction: u ? u.cosmic_variance_fraction : 0,
       sigma: { ...f.fisher.sigma },
     };
+    if (own.totals.model) row.model_fraction = own.totals.model.fraction;
     if (survey.exposureHours !== undefined) {
       row.exposure_hours = survey.exposureHours;
       row.count_per_hour = row.count / survey.exposureHours;

@@ -22,6 +22,9 @@ function compareRows(c: Comparison): RowDef[] {
     { key: 'poisson_fraction', label: 'Poisson fraction', value: (s) => sig(s.poisson_fraction, 3), raw: (s) => s.poisson_fraction },
     { key: 'cosmic_variance_fraction', label: 'cosmic-variance fraction', value: (s) => sig(s.cosmic_variance_fraction, 3), raw: (s) => s.cosmic_variance_fraction },
   ];
+  if (c.surveys.some((s) => s.model_fraction !== undefined)) {
+    rows.push({ key: 'model_fraction', label: 'model fraction', value: (s) => (s.model_fraction === undefined ? '-' : sig(s.model_fraction, 3)), raw: (s) => s.model_fraction });
+  }
   const names = [...new Set(c.surveys.flatMap((s) => Object.keys(s.sigma)))];
   for (const n of names) rows.push({ key: `sigma.${n}`, label: `sigma of ${parameterWords(n)}`, value: (s) => (s.sigma[n] === undefined ? '-' : sig(s.sigma[n], 3)), raw: (s) => s.sigma[n] });
   if (c.surveys.some((s) => s.exposure_hours !== undefined)) {

@@ -42,6 +42,10 @@ export interface ComparedSurvey {
   faint_count: number;
   poisson_fraction: number;
   cosmic_variance_fraction: number;
+  /**
+   * With model_uncertainty: the model's fractional 1 sigma of the count, (p84 - p16) / (2 p50) over predict's draws.
+   */
+  model_fraction?: number;
   sigma: {
     [k: string]: number;
   };
