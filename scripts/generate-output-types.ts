@@ -100,7 +100,8 @@ const OPTIONS: Partial<Options> = {
 
 type Json = Record<string, unknown>;
 
-const pascal = (key: string): string => NAMES[key] ?? key.replace(/(^|_)([a-z])/g, (_m, _s, c: string) => c.toUpperCase());
+const pascal = (key: string): string =>
+  NAMES[key] ?? key.replace(/(^|_)([a-z])/g, (_m, _s, c: string) => c.toUpperCase());
 
 function readSchema(name: string): Json {
   return JSON.parse(readFileSync(new URL(`${name}.schema.json`, SPECS), 'utf8')) as Json;
@@ -134,7 +135,8 @@ function rewrite(node: unknown, used: Set<string>, keepShared: boolean): unknown
     return { $ref: ref };
   }
   const out: Json = {};
-  for (const [k, v] of Object.entries(o)) out[k] = k === 'description' || k === 'title' ? v : rewrite(v, used, keepShared);
+  for (const [k, v] of Object.entries(o))
+    out[k] = k === 'description' || k === 'title' ? v : rewrite(v, used, keepShared);
   return out;
 }
 
@@ -145,8 +147,14 @@ function named(defs: Json): Json {
 /** Without the generator's note on where each definition was referenced from (it names the synthetic holder). */
 function tidy(ts: string): string {
   return ts
-    .replace(/\n \*\n \* This interface was referenced by `[^`]+`'s JSON-Schema\n \* via the `definition` "[^"]+"\./g, '')
-    .replace(/\/\*\*\n \* This interface was referenced by `[^`]+`'s JSON-Schema\n \* via the `definition` "[^"]+"\.\n \*\/\n/g, '');
+    .replace(
+      /\n \*\n \* This interface was referenced by `[^`]+`'s JSON-Schema\n \* via the `definition` "[^"]+"\./g,
+      '',
+    )
+    .replace(
+      /\/\*\*\n \* This interface was referenced by `[^`]+`'s JSON-Schema\n \* via the `definition` "[^"]+"\.\n \*\/\n/g,
+      '',
+    );
 }
 
 const BANNER = (source: string): string =>
@@ -162,7 +170,9 @@ export async function generateOutputTypes(): Promise<Map<string, string>> {
     for (const k of SHARED) {
       if (!(k in defs)) continue;
       if (k in shared && JSON.stringify(shared[k]) !== JSON.stringify(defs[k])) {
-        throw new Error(`specs/${schema}.schema.json: the definition "${k}" differs from the other schemas'; keep them identical`);
+        throw new Error(
+          `specs/${schema}.schema.json: the definition "${k}" differs from the other schemas'; keep them identical`,
+        );
       }
       shared[k] = defs[k];
       delete defs[k];
@@ -179,10 +189,17 @@ export async function generateOutputTypes(): Promise<Map<string, string>> {
       if (used.delete(other.type)) imports.push(`import type { ${other.type} } from '${other.module}';`);
     }
     if (used.size > 0) imports.push(`import type { ${[...used].sort().join(', ')} } from './shared.js';`);
-    files.set(`${schema}.ts`, `${BANNER(`specs/${schema}.schema.json`)}\n${imports.join('\n')}${imports.length ? '\n\n' : ''}${tidy(ts)}`);
+    files.set(
+      `${schema}.ts`,
+      `${BANNER(`specs/${schema}.schema.json`)}\n${imports.join('\n')}${imports.length ? '\n\n' : ''}${tidy(ts)}`,
+    );
   }
   const used = new Set<string>();
-  const sharedSchema = rewrite({ title: 'SharedBlocks', type: 'object', properties: {}, $defs: named(shared) }, used, true) as Json;
+  const sharedSchema = rewrite(
+    { title: 'SharedBlocks', type: 'object', properties: {}, $defs: named(shared) },
+    used,
+    true,
+  ) as Json;
   let sharedTs = await compile(sharedSchema, 'SharedBlocks', { ...OPTIONS, bannerComment: '' });
   // the empty holder object is only the carrier of the definitions
   sharedTs = sharedTs.replace(/export interface SharedBlocks \{\}\n\n?/, '');

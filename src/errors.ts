@@ -52,13 +52,7 @@ export class SurveyError extends Error {
  * Build the one clear sentence: "<file>: <key>: <what is wrong>; <what to do>."
  * `what` and `fix` are plain phrases without a trailing full stop.
  */
-export function inputError(
-  code: ErrorCode,
-  file: string,
-  keyPath: string,
-  what: string,
-  fix?: string,
-): SurveyError {
+export function inputError(code: ErrorCode, file: string, keyPath: string, what: string, fix?: string): SurveyError {
   const where = [file, keyPath].filter((s) => s.length > 0).join(': ');
   const sentence = `${where ? where + ': ' : ''}${what}${fix ? `; ${fix}` : ''}.`;
   return new SurveyError(code, file, keyPath, printable(sentence));
@@ -95,7 +89,13 @@ export function excerpt(text: string, max = 40): string {
 export function assertFinite(file: string, keyPath: string, what: string, ...values: number[]): void {
   for (const v of values) {
     if (!Number.isFinite(v)) {
-      throw inputError('not_finite', file, keyPath, `${what} is not a finite number`, 'check the model parameters and limits');
+      throw inputError(
+        'not_finite',
+        file,
+        keyPath,
+        `${what} is not a finite number`,
+        'check the model parameters and limits',
+      );
     }
   }
 }

@@ -64,7 +64,12 @@ export { compareTable, compareCsv } from './render/compare-table.js';
 
 // Cosmology and the Schechter function on their own.
 export { FlatCosmology, type FlatCosmologyParams } from './cosmology/flat-cosmology.js';
-export { resolveCosmology, resolveBackground, COSMOLOGY_DEFAULTS, type CosmologyInput } from './cosmology/parameters.js';
+export {
+  resolveCosmology,
+  resolveBackground,
+  COSMOLOGY_DEFAULTS,
+  type CosmologyInput,
+} from './cosmology/parameters.js';
 export { PRESETS, type CosmologyPreset } from './cosmology/presets.js';
 export * as constants from './cosmology/constants.js';
 export {

@@ -15,15 +15,24 @@ import { printable } from './errors.js';
 
 export const WARNING_CODES = {
   no_detections: 'fewer than one source is expected in the survey, or from one of its populations',
-  implausible_luminosity: "a population's characteristic luminosity or magnitude is implausible for its kind (e.g. a log10 given as a linear value)",
-  optimum_at_grid_edge: "the plan's best design sits at the shortest or longest exposure of its grid: the optimum may lie beyond the grid",
-  bias_at_mass_bound: 'abundance matching held the halo mass at a bound of the Sheth-Tormen haloes it searches (the bias is that of the bound)',
-  band_blueward_of_lyman_alpha: 'the band lies blueward of rest-frame Lyman alpha for part of a window (counts depend on the intergalactic attenuation assumed)',
-  population_outside_slices: "a population's window lies outside the explicit slice edges, so it counts 0 in the slices",
-  rest_wavelength_default_far_from_band: 'a magnitude survey leaves rest_wavelength at its 1500 Angstrom default while the band seen at rest lies more than 30 % from it somewhere in the window',
-  window_beyond_valid_redshift: "a population's window reaches beyond valid_redshift, where its luminosity function was measured",
-  igm_not_stated: 'the band lies within 1.3 times Lyman alpha (1 + z) somewhere in the window and the file does not state detection.igm',
-  phi_star_per_dex: 'a per-dex normalisation (phi_star_dex forms) was given: says the ln 10 convention used, which papers label inconsistently',
+  implausible_luminosity:
+    "a population's characteristic luminosity or magnitude is implausible for its kind (e.g. a log10 given as a linear value)",
+  optimum_at_grid_edge:
+    "the plan's best design sits at the shortest or longest exposure of its grid: the optimum may lie beyond the grid",
+  bias_at_mass_bound:
+    'abundance matching held the halo mass at a bound of the Sheth-Tormen haloes it searches (the bias is that of the bound)',
+  band_blueward_of_lyman_alpha:
+    'the band lies blueward of rest-frame Lyman alpha for part of a window (counts depend on the intergalactic attenuation assumed)',
+  population_outside_slices:
+    "a population's window lies outside the explicit slice edges, so it counts 0 in the slices",
+  rest_wavelength_default_far_from_band:
+    'a magnitude survey leaves rest_wavelength at its 1500 Angstrom default while the band seen at rest lies more than 30 % from it somewhere in the window',
+  window_beyond_valid_redshift:
+    "a population's window reaches beyond valid_redshift, where its luminosity function was measured",
+  igm_not_stated:
+    'the band lies within 1.3 times Lyman alpha (1 + z) somewhere in the window and the file does not state detection.igm',
+  phi_star_per_dex:
+    'a per-dex normalisation (phi_star_dex forms) was given: says the ln 10 convention used, which papers label inconsistently',
 } as const;
 
 export type WarningCode = keyof typeof WARNING_CODES;

@@ -81,7 +81,13 @@ export function toJsonText(value: unknown): string {
 
 export function parseFormat(value: string): OutputFormat {
   if ((FORMATS as readonly string[]).includes(value)) return value as OutputFormat;
-  throw inputError('bad_option', '', '--format', `unknown format "${excerpt(value)}"`, `use one of ${FORMATS.join(', ')}`);
+  throw inputError(
+    'bad_option',
+    '',
+    '--format',
+    `unknown format "${excerpt(value)}"`,
+    `use one of ${FORMATS.join(', ')}`,
+  );
 }
 
 export function renderText(opts: OutputOptions, result: Renderable): string {
@@ -92,7 +98,12 @@ export function renderText(opts: OutputOptions, result: Renderable): string {
  * Render in the chosen format and write it to stdout or to --out (see the top of this file). An
  * --out that is one of `inputs` (paths or identities of files read) is refused.
  */
-export function emit(io: CliIO, opts: OutputOptions, result: Renderable, inputs: readonly (string | InputFile)[] = []): void {
+export function emit(
+  io: CliIO,
+  opts: OutputOptions,
+  result: Renderable,
+  inputs: readonly (string | InputFile)[] = [],
+): void {
   const outputs = new Outputs(io, { out: opts.out });
   outputs.refuseInputs(inputs);
   outputs.setMain(renderText(opts, result));
@@ -164,8 +175,17 @@ function codeOf(e: unknown): string | undefined {
 /** One sentence for a failed write (never the raw system message). */
 function writeFailure(e: unknown, shown: string, option: string): SurveyError {
   if (e instanceof SurveyError) return e;
-  const fix = option === '--figures' ? 'give a folder you can write to' : 'give a path you can write to (or - for standard output)';
-  return inputError(option === '--figures' ? 'bad_option' : 'output_unwritable', '', option, `${shown} cannot be written: ${systemReason(codeOf(e))}`, fix);
+  const fix =
+    option === '--figures'
+      ? 'give a folder you can write to'
+      : 'give a path you can write to (or - for standard output)';
+  return inputError(
+    option === '--figures' ? 'bad_option' : 'output_unwritable',
+    '',
+    option,
+    `${shown} cannot be written: ${systemReason(codeOf(e))}`,
+    fix,
+  );
 }
 
 /** Where an output named `given` (resolved to `abs`) goes; refuses what cannot be written. */
@@ -175,7 +195,8 @@ function destinationOf(abs: string, given: string, option: string): Destination 
   try {
     link = lstatSync(abs);
   } catch (e) {
-    if (codeOf(e) !== 'ENOENT') refuse(option, `${shown} cannot be used: ${systemReason(codeOf(e))}`, 'give another path');
+    if (codeOf(e) !== 'ENOENT')
+      refuse(option, `${shown} cannot be used: ${systemReason(codeOf(e))}`, 'give another path');
     // A new file: its folder must exist.
     const parent = dirname(abs);
     let pst: Stats;
@@ -184,13 +205,19 @@ function destinationOf(abs: string, given: string, option: string): Destination 
     } catch (e2) {
       return refuse(
         option,
-        codeOf(e2) === 'ENOENT' ? `the folder ${excerpt(dirname(given) || '.', 120)} does not exist` : `the folder of ${shown} cannot be used: ${systemReason(codeOf(e2))}`,
-        codeOf(e2) === 'ENOENT' ? 'check the path (skytally creates no folders for --out), or create the folder first' : 'give another path',
+        codeOf(e2) === 'ENOENT'
+          ? `the folder ${excerpt(dirname(given) || '.', 120)} does not exist`
+          : `the folder of ${shown} cannot be used: ${systemReason(codeOf(e2))}`,
+        codeOf(e2) === 'ENOENT'
+          ? 'check the path (skytally creates no folders for --out), or create the folder first'
+          : 'give another path',
       );
     }
     if (!pst.isDirectory()) refuse(option, `${excerpt(dirname(given), 120)} is not a folder`, 'check the path');
     const real = join(realpathSync(parent), basename(abs));
-    return isSystemPath(real) || isSystemPath(abs) ? { kind: 'stream', path: abs, shown, option } : { kind: 'replace', path: real, shown, option };
+    return isSystemPath(real) || isSystemPath(abs)
+      ? { kind: 'stream', path: abs, shown, option }
+      : { kind: 'replace', path: real, shown, option };
   }
   let st: Stats;
   try {
@@ -198,13 +225,20 @@ function destinationOf(abs: string, given: string, option: string): Destination 
   } catch (e) {
     return refuse(
       option,
-      codeOf(e) === 'ENOENT' && link.isSymbolicLink() ? `${shown} is a symbolic link to a file that does not exist` : `${shown} cannot be used: ${systemReason(codeOf(e))}`,
+      codeOf(e) === 'ENOENT' && link.isSymbolicLink()
+        ? `${shown} is a symbolic link to a file that does not exist`
+        : `${shown} cannot be used: ${systemReason(codeOf(e))}`,
       'give another path',
     );
   }
   if (st.isDirectory()) refuse(option, `${shown} is a folder`, 'give a file name inside it');
   if (st.isFIFO() || st.isCharacterDevice()) return { kind: 'stream', path: abs, shown, option };
-  if (!st.isFile()) refuse(option, `${shown} is ${st.isSocket() ? 'a socket' : 'a block device'}, not a file`, 'give the path of a file');
+  if (!st.isFile())
+    refuse(
+      option,
+      `${shown} is ${st.isSocket() ? 'a socket' : 'a block device'}, not a file`,
+      'give the path of a file',
+    );
   const real = realpathSync(abs);
   if (isSystemPath(real) || isSystemPath(abs)) return { kind: 'stream', path: abs, shown, option };
   return { kind: 'replace', path: real, shown, option, mode: st.mode & 0o7777 };
@@ -435,7 +469,13 @@ export class Outputs {
       if (dest.kind === 'stdout') continue;
       const prior = seen.get(dest.path);
       if (prior !== undefined) {
-        throw inputError('output_exists', '', dest.option, `${dest.shown} would be written twice (also as ${prior})`, 'give --out a path outside the --figures folder');
+        throw inputError(
+          'output_exists',
+          '',
+          dest.option,
+          `${dest.shown} would be written twice (also as ${prior})`,
+          'give --out a path outside the --figures folder',
+        );
       }
       seen.set(dest.path, dest.shown);
     }
@@ -479,14 +519,23 @@ function figuresDirOf(io: CliIO, given: string): FiguresDir {
     } catch (e) {
       const parent = dirname(at);
       if (codeOf(e) !== 'ENOENT' || parent === at) {
-        return refuse('--figures', `the folder ${shown} cannot be used: ${systemReason(codeOf(e))}`, 'give a folder you can write to');
+        return refuse(
+          '--figures',
+          `the folder ${shown} cannot be used: ${systemReason(codeOf(e))}`,
+          'give a folder you can write to',
+        );
       }
       missing.unshift(at);
       at = parent;
       continue;
     }
     if (!st.isDirectory()) {
-      if (at === abs) refuse('--figures', `${shown} exists and is not a directory`, 'give a directory, or a path that does not exist yet');
+      if (at === abs)
+        refuse(
+          '--figures',
+          `${shown} exists and is not a directory`,
+          'give a directory, or a path that does not exist yet',
+        );
       refuse('--figures', `${excerpt(at, 120)} (on the way to ${shown}) is not a directory`, 'check the path');
     }
     const realTop = realpathSync(at);

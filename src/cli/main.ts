@@ -43,7 +43,8 @@ export function handleError(err: unknown, io: CliIO): number {
     return 2;
   }
   if (err instanceof CommanderError) {
-    if (err.code === 'commander.helpDisplayed' || err.code === 'commander.version' || err.code === 'commander.help') return 0;
+    if (err.code === 'commander.helpDisplayed' || err.code === 'commander.version' || err.code === 'commander.help')
+      return 0;
     // commander has already printed its one-line message
     return err.exitCode === 0 ? 0 : 2;
   }

@@ -73,7 +73,13 @@ const LIBRARY: CosmologySource = { kind: 'file', file: '' };
 
 const short = (v: number): string => precise(v, 6);
 
-function refuse(source: CosmologySource, parameter: CosmologyParameter, code: ErrorCode, what: string, fix: string): never {
+function refuse(
+  source: CosmologySource,
+  parameter: CosmologyParameter,
+  code: ErrorCode,
+  what: string,
+  fix: string,
+): never {
   if (source.kind === 'flags') throw inputError('bad_option', '', COSMOLOGY_KEYS[parameter].flag, what, fix);
   throw inputError(code, source.file, `cosmology.${COSMOLOGY_KEYS[parameter].key}`, what, fix);
 }
@@ -89,19 +95,55 @@ export function resolveBackground(input: CosmologyInput, source: CosmologySource
   const names = Object.keys(PRESETS);
   const preset = input.preset !== undefined ? presetNamed(input.preset) : undefined;
   if (input.preset !== undefined && preset === undefined) {
-    refuse(source, 'preset', 'out_of_range', `"${excerpt(input.preset)}" is not a known preset`, `use one of ${names.join(', ')}, or give h0 and omega_m`);
+    refuse(
+      source,
+      'preset',
+      'out_of_range',
+      `"${excerpt(input.preset)}" is not a known preset`,
+      `use one of ${names.join(', ')}, or give h0 and omega_m`,
+    );
   }
   const h0 = input.h0 ?? preset?.h0;
   const omegaM = input.omegaM ?? preset?.omegaM;
-  for (const [k, v] of [['h0', h0], ['omegaM', omegaM]] as const) {
-    if (v === undefined) refuse(source, k, 'missing_key', 'is missing', `give ${COSMOLOGY_KEYS[k].key} or name a preset (${names.join(', ')})`);
+  for (const [k, v] of [
+    ['h0', h0],
+    ['omegaM', omegaM],
+  ] as const) {
+    if (v === undefined)
+      refuse(
+        source,
+        k,
+        'missing_key',
+        'is missing',
+        `give ${COSMOLOGY_KEYS[k].key} or name a preset (${names.join(', ')})`,
+      );
   }
   const tCmb = input.tCmb ?? preset?.tCmb ?? COSMOLOGY_DEFAULTS.tCmb;
   const R = COSMOLOGY_RANGES;
-  if (!inRange(h0!, R.h0)) refuse(source, 'h0', 'out_of_range', `is ${short(h0!)} km/s/Mpc`, `give a value from ${R.h0.min} to ${R.h0.max} (e.g. 70)`);
-  if (!inRange(omegaM!, R.omegaM)) refuse(source, 'omegaM', 'out_of_range', `is ${short(omegaM!)}`, `give a value from ${R.omegaM.min} to ${R.omegaM.max} (e.g. 0.3)`);
+  if (!inRange(h0!, R.h0))
+    refuse(
+      source,
+      'h0',
+      'out_of_range',
+      `is ${short(h0!)} km/s/Mpc`,
+      `give a value from ${R.h0.min} to ${R.h0.max} (e.g. 70)`,
+    );
+  if (!inRange(omegaM!, R.omegaM))
+    refuse(
+      source,
+      'omegaM',
+      'out_of_range',
+      `is ${short(omegaM!)}`,
+      `give a value from ${R.omegaM.min} to ${R.omegaM.max} (e.g. 0.3)`,
+    );
   if (!(tCmb === 0 || inRange(tCmb, R.tCmb))) {
-    refuse(source, 'tCmb', 'out_of_range', `is ${short(tCmb)} K`, `give 0 (no radiation) or a temperature from ${R.tCmb.min} to ${R.tCmb.max} K (measured: 2.7255)`);
+    refuse(
+      source,
+      'tCmb',
+      'out_of_range',
+      `is ${short(tCmb)} K`,
+      `give 0 (no radiation) or a temperature from ${R.tCmb.min} to ${R.tCmb.max} K (measured: 2.7255)`,
+    );
   }
   const omegaR = omegaRadiation(h0!, tCmb);
   const omegaLambda = 1 - omegaM! - omegaR;
@@ -136,10 +178,30 @@ export function resolveCosmology(input: CosmologyInput, source: CosmologySource 
   const R = COSMOLOGY_RANGES;
   const omegaM = background.omegaM;
   if (!(omegaB > 0 && omegaB <= MAX_BARYON_FRACTION * omegaM)) {
-    refuse(source, 'omegaB', 'out_of_range', `is ${short(omegaB)}, not above 0 and at most half of omega_m (${short(omegaM)})`, 'give the baryon density, a fraction of omega_m (e.g. 0.049 for omega_m = 0.3)');
+    refuse(
+      source,
+      'omegaB',
+      'out_of_range',
+      `is ${short(omegaB)}, not above 0 and at most half of omega_m (${short(omegaM)})`,
+      'give the baryon density, a fraction of omega_m (e.g. 0.049 for omega_m = 0.3)',
+    );
   }
-  if (!inRange(sigma8, R.sigma8)) refuse(source, 'sigma8', 'out_of_range', `is ${short(sigma8)}`, `give a value from ${R.sigma8.min} to ${R.sigma8.max} (e.g. 0.81)`);
-  if (!inRange(nS, R.nS)) refuse(source, 'nS', 'out_of_range', `is ${short(nS)}`, `give a value from ${R.nS.min} to ${R.nS.max} (e.g. 0.965)`);
+  if (!inRange(sigma8, R.sigma8))
+    refuse(
+      source,
+      'sigma8',
+      'out_of_range',
+      `is ${short(sigma8)}`,
+      `give a value from ${R.sigma8.min} to ${R.sigma8.max} (e.g. 0.81)`,
+    );
+  if (!inRange(nS, R.nS))
+    refuse(
+      source,
+      'nS',
+      'out_of_range',
+      `is ${short(nS)}`,
+      `give a value from ${R.nS.min} to ${R.nS.max} (e.g. 0.965)`,
+    );
   // The key order of the outputs' cosmology block follows this object's.
   const c: Cosmology = {
     h0: background.h0,

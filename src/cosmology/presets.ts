@@ -35,7 +35,7 @@ export const PRESETS: Record<string, CosmologyPreset> = {
     h0: 67.74,
     omegaM: 0.3089,
     tCmb: T_CMB_DEFAULT_K,
-    omegaB: 0.02230 / 0.6774 ** 2,
+    omegaB: 0.0223 / 0.6774 ** 2,
     sigma8: 0.8159,
     nS: 0.9667,
   },

@@ -198,7 +198,10 @@ export function chooseRedshiftNodes(
  * to 1e-8 of its own integral or 1e-9 of the whole (a piece holding almost nothing need not converge
  * alone), starting from 2 nodes.
  */
-export function piecewiseRedshiftNodes(cuts: readonly number[], f: (z: number) => number): { z: number[]; w: number[] } {
+export function piecewiseRedshiftNodes(
+  cuts: readonly number[],
+  f: (z: number) => number,
+): { z: number[]; w: number[] } {
   if (cuts.length === 2) return chooseRedshiftNodes(cuts[0]!, cuts[1]!, f);
   let estimate = 0;
   for (let k = 0; k + 1 < cuts.length; k++) estimate += sumOver(redshiftNodes(cuts[k]!, cuts[k + 1]!, 8), f);
@@ -251,10 +254,18 @@ export function countPopulation(
   const completeness = survey.detection.completeness
     ? completenessFunction(survey.detection.completeness, survey.detection.kind, population.variable)
     : undefined;
-  const breaks = survey.detection.completeness ? completenessBreaks(survey.detection.completeness, survey.detection.kind) : undefined;
+  const breaks = survey.detection.completeness
+    ? completenessBreaks(survey.detection.completeness, survey.detection.kind)
+    : undefined;
   const quadrature =
     completeness && breaks
-      ? completenessQuadrature(survey.detection.completeness!, `${survey.detection.kind} ${population.variable}`, observer.slope, completeness, breaks)
+      ? completenessQuadrature(
+          survey.detection.completeness!,
+          `${survey.detection.kind} ${population.variable}`,
+          observer.slope,
+          completeness,
+          breaks,
+        )
       : undefined;
   const width = survey.histogramWidth;
   const out: SliceCount[] = [];
@@ -271,7 +282,14 @@ export function countPopulation(
     const limitAtCenter = center.limitInVariable;
     if (!(hi > lo)) {
       const e0 = roundEdge(Math.floor(center.obsLimit / width) * width);
-      const empty: SliceCount = { zMin, zMax, volumeMpc3, count: 0, limitAtCenter, histogram: { variable: observer.variable, edges: [e0, roundEdge(e0 + width)], counts: [0] } };
+      const empty: SliceCount = {
+        zMin,
+        zMax,
+        volumeMpc3,
+        count: 0,
+        limitAtCenter,
+        histogram: { variable: observer.variable, edges: [e0, roundEdge(e0 + width)], counts: [0] },
+      };
       if (!options.noHistogram) empty.luminosity = { detected: 0, total: 0 };
       if (options.profile) empty.profile = { z: [], count: [], volumeMpc3: [] };
       if (options.drawNodes) empty.drawNodes = [];
@@ -282,7 +300,13 @@ export function countPopulation(
     let result: { count: number; histogram: Histogram; detectedLuminosity?: number };
     const perNode = options.profile ? new Array<number>(nodes.length).fill(0) : undefined;
     const detail: NodeDetail | undefined = options.nodeDetail
-      ? { z: nodes.map((nd) => nd.z), volumeMpc3: nodes.map((nd) => nd.volumeWeight), count: [], bins: [], detected: nodes.map(() => 0) }
+      ? {
+          z: nodes.map((nd) => nd.z),
+          volumeMpc3: nodes.map((nd) => nd.volumeWeight),
+          count: [],
+          bins: [],
+          detected: nodes.map(() => 0),
+        }
       : undefined;
     if (options.noHistogram && !completeness && !detail) {
       let count = 0;
@@ -296,13 +320,38 @@ export function countPopulation(
       });
       result = { count, histogram: { variable: observer.variable, edges: [], counts: [] } };
     } else {
-      result = histogramCount(nodes, observer, width, completeness, breaks, !options.noHistogram || !!detail, quadrature, survey.file, perNode, detail);
+      result = histogramCount(
+        nodes,
+        observer,
+        width,
+        completeness,
+        breaks,
+        !options.noHistogram || !!detail,
+        quadrature,
+        survey.file,
+        perNode,
+        detail,
+      );
     }
     if (!Number.isFinite(result.count)) {
-      throw inputError('not_finite', survey.file, 'population', `the count in the slice ${zMin}-${zMax} is not a finite number`, 'check the Schechter parameters and the limit');
+      throw inputError(
+        'not_finite',
+        survey.file,
+        'population',
+        `the count in the slice ${zMin}-${zMax} is not a finite number`,
+        'check the Schechter parameters and the limit',
+      );
     }
-    const slice: SliceCount = { zMin, zMax, volumeMpc3, count: result.count, limitAtCenter, histogram: result.histogram };
-    if (perNode) slice.profile = { z: nodes.map((nd) => nd.z), count: perNode, volumeMpc3: nodes.map((nd) => nd.volumeWeight) };
+    const slice: SliceCount = {
+      zMin,
+      zMax,
+      volumeMpc3,
+      count: result.count,
+      limitAtCenter,
+      histogram: result.histogram,
+    };
+    if (perNode)
+      slice.profile = { z: nodes.map((nd) => nd.z), count: perNode, volumeMpc3: nodes.map((nd) => nd.volumeWeight) };
     if (detail) {
       detail.count = detail.bins.map((row) => row.reduce((a, v) => a + v, 0));
       slice.nodes = detail;
@@ -311,7 +360,13 @@ export function countPopulation(
     if (!options.noHistogram || detail) {
       const lum = sliceLuminosity(nodes, observer, completeness, breaks, result.detectedLuminosity, detail);
       if (!Number.isFinite(lum.detected) || (lum.total !== undefined && !Number.isFinite(lum.total))) {
-        throw inputError('not_finite', survey.file, 'population', `the luminosity density in the slice ${zMin}-${zMax} is not a finite number`, 'check the Schechter parameters and the limit');
+        throw inputError(
+          'not_finite',
+          survey.file,
+          'population',
+          `the luminosity density in the slice ${zMin}-${zMax} is not a finite number`,
+          'check the Schechter parameters and the limit',
+        );
       }
       slice.luminosity = lum;
     }
@@ -490,7 +545,11 @@ function buildNodes(
   // Piecewise in z between the redshifts where the integrand has a kink (a threshold limit's
   // table nodes, where the limit crosses a histogram bin edge, a tabulated filter's rows, the
   // nodes of a selection or attenuation table), each piece by convergence.
-  const inner = [...limitBreaks(survey, lo, hi), ...filterBreaks(survey, population, lo, hi), ...effects.breaks(lo, hi)].sort((x, y) => x - y);
+  const inner = [
+    ...limitBreaks(survey, lo, hi),
+    ...filterBreaks(survey, population, lo, hi),
+    ...effects.breaks(lo, hi),
+  ].sort((x, y) => x - y);
   const { z, w } = piecewiseRedshiftNodes([lo, ...inner, hi], hardCount);
   const nodes: NodeState[] = [];
   for (let i = 0; i < z.length; i++) {
@@ -556,7 +615,8 @@ export function limitBreaks(survey: Survey, lo: number, hi: number): number[] {
   out.sort((x, y) => x - y);
   // drop breaks closer than 1e-9 to each other or to the ends
   const kept: number[] = [];
-  for (const x of out) if (x - lo > 1e-9 && hi - x > 1e-9 && (kept.length === 0 || x - kept[kept.length - 1]! > 1e-9)) kept.push(x);
+  for (const x of out)
+    if (x - lo > 1e-9 && hi - x > 1e-9 && (kept.length === 0 || x - kept[kept.length - 1]! > 1e-9)) kept.push(x);
   return kept;
 }
 
@@ -710,7 +770,10 @@ export function histogramCount(
         if (row) row[b]! += v;
       }
       if (withLuminosity) {
-        const d = nd.volumeWeight * nd.lumScale * detectedLuminosityByRules(nd, observer, completeness, breaks!, rules!, width, k0, edges);
+        const d =
+          nd.volumeWeight *
+          nd.lumScale *
+          detectedLuminosityByRules(nd, observer, completeness, breaks!, rules!, width, k0, edges);
         detectedLuminosity += d;
         if (detail) detail.detected[at] = d;
       }
@@ -719,7 +782,10 @@ export function histogramCount(
   }
   let count = 0;
   for (const c of counts) count += c;
-  const out: { count: number; histogram: Histogram; detectedLuminosity?: number } = { count, histogram: { variable: observer.variable, edges, counts } };
+  const out: { count: number; histogram: Histogram; detectedLuminosity?: number } = {
+    count,
+    histogram: { variable: observer.variable, edges, counts },
+  };
   if (rules && withLuminosity) out.detectedLuminosity = detectedLuminosity;
   if (rules) {
     completenessWork.completenessEvaluations += rules.completenessEvaluations - work0[0]!;

@@ -50,10 +50,18 @@ export const HISTOGRAM_DRAWS = 100;
 export const PERCENTILES = [0.025, 0.16, 0.5, 0.84, 0.975] as const;
 
 /** The offsets of every draw of one population (index `stream` among the survey's populations). */
-export function drawModelOffsets(mu: ModelUncertainty, components: number, draws: number, seed: number, stream: number): ModelOffsets[] {
+export function drawModelOffsets(
+  mu: ModelUncertainty,
+  components: number,
+  draws: number,
+  seed: number,
+  stream: number,
+): ModelOffsets[] {
   if (mu.kind === 'draws') return mu.offsets.map((row) => modelOffsets(mu.parameters, row, components));
   // The factory's generator carries .normalized (uniform on [0, 1), 53 bits) at run time.
-  const rng = mt19937.factory({ seed: new Uint32Array([seed >>> 0, stream >>> 0]) }) as unknown as { normalized: () => number };
+  const rng = mt19937.factory({ seed: new Uint32Array([seed >>> 0, stream >>> 0]) }) as unknown as {
+    normalized: () => number;
+  };
   const gauss = normalRng.factory(0, 1, { prng: rng.normalized });
   const k = mu.parameters.length;
   const xi = new Float64Array(k);
@@ -101,7 +109,13 @@ function settingOf(survey: Survey, population: Population, cosmo: FlatCosmology)
   if (!spec) return { observer, width };
   const completeness = completenessFunction(spec, survey.detection.kind, population.variable);
   const breaks = completenessBreaks(spec, survey.detection.kind);
-  const rules = completenessQuadrature(spec, `${survey.detection.kind} ${population.variable}`, observer.slope, completeness, breaks);
+  const rules = completenessQuadrature(
+    spec,
+    `${survey.detection.kind} ${population.variable}`,
+    observer.slope,
+    completeness,
+    breaks,
+  );
   return { observer, width, completeness, breaks, rules };
 }
 
@@ -116,8 +130,14 @@ function shifted(nd: NodeState, o: ModelOffsets, slope: number, lumFactor: numbe
     a: nd.a + o.characteristic,
     log10ULimit: nd.log10ULimit - o.characteristic / slope,
     obsLimit: nd.obsLimit,
-    components: nd.components.map((c, k) => ({ phiStar: o.log10PhiStar[k] ? c.phiStar * 10 ** o.log10PhiStar[k]! : c.phiStar, alpha: c.alpha + o.alpha[k]! })),
-    allComponents: nd.allComponents.map((c, k) => ({ phiStar: o.log10PhiStar[k] ? c.phiStar * 10 ** o.log10PhiStar[k]! : c.phiStar, alpha: c.alpha + o.alpha[k]! })),
+    components: nd.components.map((c, k) => ({
+      phiStar: o.log10PhiStar[k] ? c.phiStar * 10 ** o.log10PhiStar[k] : c.phiStar,
+      alpha: c.alpha + o.alpha[k]!,
+    })),
+    allComponents: nd.allComponents.map((c, k) => ({
+      phiStar: o.log10PhiStar[k] ? c.phiStar * 10 ** o.log10PhiStar[k] : c.phiStar,
+      alpha: c.alpha + o.alpha[k]!,
+    })),
     lumScale: nd.lumScale * lumFactor,
   };
 }
@@ -209,7 +229,11 @@ function flatten(nodes: readonly NodeState[]): SliceNodes {
     phi: Array.from({ length: comps }, (_, c) => Float64Array.from(kept, (nd) => nd.components[c]!.phiStar)),
     allPhi: Array.from({ length: comps }, (_, c) => Float64Array.from(kept, (nd) => nd.allComponents[c]!.phiStar)),
     alpha: Array.from({ length: comps }, (_, c) => Float64Array.from(kept, (nd) => nd.components[c]!.alpha)),
-    scratch: kept.map((nd) => ({ ...nd, components: nd.components.map((c) => ({ ...c })), allComponents: nd.allComponents.map((c) => ({ ...c })) })),
+    scratch: kept.map((nd) => ({
+      ...nd,
+      components: nd.components.map((c) => ({ ...c })),
+      allComponents: nd.allComponents.map((c) => ({ ...c })),
+    })),
   };
 }
 
@@ -315,7 +339,9 @@ export function populationDraws(
   const counts = slices.map(() => new Float64Array(n));
   const detected = options.luminosity ? slices.map(() => new Float64Array(n)) : undefined;
   let total: Float64Array[] | undefined = options.luminosity ? slices.map(() => new Float64Array(n)) : undefined;
-  const lumFactors = offsets.map((o) => (population.variable === 'luminosity' ? 10 ** o.characteristic : 10 ** (-0.4 * o.characteristic)));
+  const lumFactors = offsets.map((o) =>
+    population.variable === 'luminosity' ? 10 ** o.characteristic : 10 ** (-0.4 * o.characteristic),
+  );
   const res = { count: 0, detected: 0, total: 0 as number | undefined };
   slices.forEach((sl, j) => {
     const f = flatten(sl.drawNodes ?? []);
@@ -338,12 +364,19 @@ export function populationDraws(
   });
   const out: PopulationDraws = { draws: n, counts };
   if (detected) out.luminosity = total ? { detected, total } : { detected };
-  if (options.histogramDraws > 0) out.histograms = histogramDraws(survey, s, slices, offsets.slice(0, options.histogramDraws), lumFactors);
+  if (options.histogramDraws > 0)
+    out.histograms = histogramDraws(survey, s, slices, offsets.slice(0, options.histogramDraws), lumFactors);
   return out;
 }
 
 /** Each slice's histogram under the first draws, on the plain histogram's bins (a draw's bins beyond them are left out). */
-function histogramDraws(survey: Survey, s: Setting, slices: readonly SliceCount[], offsets: readonly ModelOffsets[], lumFactors: number[]): { draws: number; bins: Float64Array[] }[] {
+function histogramDraws(
+  survey: Survey,
+  s: Setting,
+  slices: readonly SliceCount[],
+  offsets: readonly ModelOffsets[],
+  lumFactors: number[],
+): { draws: number; bins: Float64Array[] }[] {
   const width = survey.histogramWidth;
   const slope = s.observer.slope;
   return slices.map((sl) => {
@@ -359,7 +392,16 @@ function histogramDraws(survey: Survey, s: Setting, slices: readonly SliceCount[
         return;
       }
       const moved = nodes.map((nd) => shifted(nd, o, slope, lumFactors[i]!));
-      const h = histogramCount(moved, s.observer, width, s.completeness, s.breaks, false, s.rules, survey.file).histogram;
+      const h = histogramCount(
+        moved,
+        s.observer,
+        width,
+        s.completeness,
+        s.breaks,
+        false,
+        s.rules,
+        survey.file,
+      ).histogram;
       const off = Math.round(h.edges[0]! / width) - k0;
       h.counts.forEach((c, b) => {
         const at = off + b;

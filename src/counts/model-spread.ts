@@ -17,7 +17,13 @@ import type {
   SfrDensity,
 } from '../model/outputs/prediction.js';
 import type { SliceCount } from './engine.js';
-import { drawModelOffsets, HISTOGRAM_DRAWS, percentilesOf, populationDraws, type PopulationDraws } from './model-draws.js';
+import {
+  drawModelOffsets,
+  HISTOGRAM_DRAWS,
+  percentilesOf,
+  populationDraws,
+  type PopulationDraws,
+} from './model-draws.js';
 
 export interface ModelDrawSettings {
   draws: number;
@@ -31,20 +37,37 @@ export function modelSpread(values: ArrayLike<number>): ModelSpread {
 }
 
 function percentiles(values: ArrayLike<number>, scale: number): DensitySpread['detected'] {
-  const [p2_5, p16, p50, p84, p97_5] = percentilesOf(values).map((v) => v * scale) as [number, number, number, number, number];
+  const [p2_5, p16, p50, p84, p97_5] = percentilesOf(values).map((v) => v * scale) as [
+    number,
+    number,
+    number,
+    number,
+    number,
+  ];
   return { p2_5, p16, p50, p84, p97_5 };
 }
 
-function densitySpread(detected: ArrayLike<number>, total: ArrayLike<number> | undefined, scale: number): DensitySpread {
+function densitySpread(
+  detected: ArrayLike<number>,
+  total: ArrayLike<number> | undefined,
+  scale: number,
+): DensitySpread {
   const d: DensitySpread = { draws: detected.length, detected: percentiles(detected, scale) };
   if (total) d.total = percentiles(total, scale);
   return d;
 }
 
-function addDensities(ld: LuminosityDensity | undefined, sfr: SfrDensity | undefined, lum: { detected: Float64Array; total?: Float64Array } | undefined, volume: number, factor: number | undefined): void {
+function addDensities(
+  ld: LuminosityDensity | undefined,
+  sfr: SfrDensity | undefined,
+  lum: { detected: Float64Array; total?: Float64Array } | undefined,
+  volume: number,
+  factor: number | undefined,
+): void {
   if (!ld || !lum || !(volume > 0)) return;
   ld.model = densitySpread(lum.detected, ld.total !== undefined ? lum.total : undefined, 1 / volume);
-  if (sfr && factor !== undefined) sfr.model = densitySpread(lum.detected, sfr.total !== undefined ? lum.total : undefined, factor / volume);
+  if (sfr && factor !== undefined)
+    sfr.model = densitySpread(lum.detected, sfr.total !== undefined ? lum.total : undefined, factor / volume);
 }
 
 /** Sum of arrays (each used cyclically up to n). */
@@ -71,7 +94,10 @@ export function addPopulationSpreads(
     const run = runs[k]!;
     const offsets = drawModelOffsets(mu, pop.components.length, settings.draws, settings.seed, k);
     const withLum = run.own.some((s) => s.luminosity !== undefined);
-    const d = populationDraws(survey, pop, cosmo, run.own, offsets, { luminosity: withLum, histogramDraws: Math.min(HISTOGRAM_DRAWS, offsets.length) });
+    const d = populationDraws(survey, pop, cosmo, run.own, offsets, {
+      luminosity: withLum,
+      histogramDraws: Math.min(HISTOGRAM_DRAWS, offsets.length),
+    });
     const factor = pop.sfrConversion?.factor;
     run.pred.slices.forEach((sl, j) => {
       sl.model = modelSpread(d.counts[j]!);
@@ -87,7 +113,13 @@ export function addPopulationSpreads(
     t.model = modelSpread(sumDraws(d.counts, d.draws));
     if (d.luminosity) {
       const lt = d.luminosity.total;
-      addDensities(t.luminosity_density, t.sfr_density_msun_yr_mpc3, { detected: sumDraws(d.luminosity.detected, d.draws), total: lt ? sumDraws(lt, d.draws) : undefined }, t.volume_mpc3, factor);
+      addDensities(
+        t.luminosity_density,
+        t.sfr_density_msun_yr_mpc3,
+        { detected: sumDraws(d.luminosity.detected, d.draws), total: lt ? sumDraws(lt, d.draws) : undefined },
+        t.volume_mpc3,
+        factor,
+      );
     }
     return d;
   });
@@ -107,8 +139,18 @@ export function addTopSpreads(
   if (n === 0) return;
   const sliceDraws = (k: number, j: number): ArrayLike<number> => draws[k]?.counts[j] ?? [runs[k]!.own[j]!.count];
   top.slices?.forEach((sl, j) => {
-    sl.model = modelSpread(sumDraws(runs.map((_, k) => sliceDraws(k, j)), n));
+    sl.model = modelSpread(
+      sumDraws(
+        runs.map((_, k) => sliceDraws(k, j)),
+        n,
+      ),
+    );
   });
-  const totals = runs.map((r, k) => sumDraws(r.own.map((_, j) => sliceDraws(k, j)), draws[k]?.draws ?? 1));
+  const totals = runs.map((r, k) =>
+    sumDraws(
+      r.own.map((_, j) => sliceDraws(k, j)),
+      draws[k]?.draws ?? 1,
+    ),
+  );
   top.totals.model = modelSpread(sumDraws(totals, n));
 }

@@ -69,7 +69,13 @@ function normalBetween(x: number, y: number): number {
 }
 
 /** P(measured in [a, b] | true z) for the window [zmin, zmax]. */
-export function measuredProbability(pz: PhotoZ, window: { min: number; max: number }, a: number, b: number, z: number): number {
+export function measuredProbability(
+  pz: PhotoZ,
+  window: { min: number; max: number },
+  a: number,
+  b: number,
+  z: number,
+): number {
   let g: number;
   if (pz.sigma > 0) {
     const s = pz.sigma * (1 + z);
@@ -87,7 +93,10 @@ export function measuredProbability(pz: PhotoZ, window: { min: number; max: numb
  */
 function pieces(lo: number, hi: number, cuts: readonly number[], edges: readonly number[], sigma: number): number[] {
   // the cuts are kept exactly (they bound the true bins); the zone points give way to them
-  const points: { z: number; cut: boolean }[] = [lo, hi, ...cuts.filter((c) => c > lo && c < hi)].map((z) => ({ z, cut: true }));
+  const points: { z: number; cut: boolean }[] = [lo, hi, ...cuts.filter((c) => c > lo && c < hi)].map((z) => ({
+    z,
+    cut: true,
+  }));
   if (sigma > 0) {
     const r = PIECE_ZONE * sigma;
     for (const e of edges) {
@@ -119,7 +128,11 @@ function sumHistograms(hs: Histogram[], width: number, variable: Histogram['vari
   }
   if (!Number.isFinite(kMin)) {
     const h = hs.find((x) => x.edges.length > 1);
-    return { variable, edges: h ? [...h.edges] : [0, width], counts: new Array<number>(h ? h.edges.length - 1 : 1).fill(0) };
+    return {
+      variable,
+      edges: h ? [...h.edges] : [0, width],
+      counts: new Array<number>(h ? h.edges.length - 1 : 1).fill(0),
+    };
   }
   const edges: number[] = [];
   for (let k = kMin; k <= kMax; k++) edges.push(Number((k * width).toPrecision(12)));
@@ -142,7 +155,13 @@ export interface PhotoZOptions {
  * Count a population of a survey with photometric redshifts over the slice edges (measured
  * redshift). The survey's detection must have photoZ.
  */
-export function countPhotoZ(survey: Survey, population: Population, cosmo: FlatCosmology, edges: readonly number[], options: PhotoZOptions = {}): PhotoZCount {
+export function countPhotoZ(
+  survey: Survey,
+  population: Population,
+  cosmo: FlatCosmology,
+  edges: readonly number[],
+  options: PhotoZOptions = {},
+): PhotoZCount {
   const d = survey.detection;
   const pz = d.kind === 'line_flux' ? undefined : d.photoZ;
   if (!pz) throw new Error('countPhotoZ needs a detection with photo_z');
@@ -151,21 +170,49 @@ export function countPhotoZ(survey: Survey, population: Population, cosmo: FlatC
   const e0 = edges[0]!;
   const eN = edges[edges.length - 1]!;
   const nSlices = edges.length - 1;
-  const trueBins = [{ min: Math.min(range.min, e0), max: e0 }, ...edges.slice(0, -1).map((a, i) => ({ min: a, max: edges[i + 1]! })), { min: eN, max: Math.max(range.max, eN) }];
-  const measuredBins: PhotoZMigration['measuredBins'] = [{ min: null, max: e0 }, ...trueBins.slice(1, -1), { min: eN, max: null }];
+  const trueBins = [
+    { min: Math.min(range.min, e0), max: e0 },
+    ...edges.slice(0, -1).map((a, i) => ({ min: a, max: edges[i + 1]! })),
+    { min: eN, max: Math.max(range.max, eN) },
+  ];
+  const measuredBins: PhotoZMigration['measuredBins'] = [
+    { min: null, max: e0 },
+    ...trueBins.slice(1, -1),
+    { min: eN, max: null },
+  ];
   const engine = { offsets: options.offsets };
 
   if (photoZIsExact(pz)) {
     // measured = true: the plain prediction, a diagonal matrix
-    const slices = countPopulation(survey, population, cosmo, edges, { ...engine, noHistogram: options.noHistogram, profile: options.profile });
+    const slices = countPopulation(survey, population, cosmo, edges, {
+      ...engine,
+      noHistogram: options.noHistogram,
+      profile: options.profile,
+    });
     const counts = slices.map((s) => s.count);
     const trueCounts = [0, ...counts, 0];
     const matrix = trueCounts.map((c, i) => trueCounts.map((_, j) => (i === j ? c : 0)));
-    return { slices, trueCounts: counts, migration: { sigma: pz.sigma, outlierFraction: pz.outlierFraction, trueRange: range, trueBins, measuredBins, matrix, trueCounts, measuredCounts: [...trueCounts] } };
+    return {
+      slices,
+      trueCounts: counts,
+      migration: {
+        sigma: pz.sigma,
+        outlierFraction: pz.outlierFraction,
+        trueRange: range,
+        trueBins,
+        measuredBins,
+        matrix,
+        trueCounts,
+        measuredCounts: [...trueCounts],
+      },
+    };
   }
 
   // The population over the whole true range; the pieces in true redshift.
-  const wide: Population = { ...population, window: { min: Math.min(range.min, window.min), max: Math.max(range.max, window.max) } };
+  const wide: Population = {
+    ...population,
+    window: { min: Math.min(range.min, window.min), max: Math.max(range.max, window.max) },
+  };
   const fine = pieces(wide.window.min, wide.window.max, [...edges, window.min, window.max], edges, pz.sigma);
   const binOf = (zMid: number): number => {
     if (zMid < e0) return 0;
@@ -200,7 +247,16 @@ export function countPhotoZ(survey: Survey, population: Population, cosmo: FlatC
   return {
     slices,
     trueCounts: trueCounts.slice(1, -1),
-    migration: { sigma: pz.sigma, outlierFraction: pz.outlierFraction, trueRange: range, trueBins, measuredBins, matrix, trueCounts, measuredCounts },
+    migration: {
+      sigma: pz.sigma,
+      outlierFraction: pz.outlierFraction,
+      trueRange: range,
+      trueBins,
+      measuredBins,
+      matrix,
+      trueCounts,
+      measuredCounts,
+    },
   };
 }
 
@@ -217,7 +273,10 @@ function measuredSlice(
 ): SliceCount {
   const observer = makeObserver(survey.detection, population, cosmo);
   const zCenter = Math.min(Math.max(0.5 * (zMin + zMax), population.window.min), population.window.max);
-  const limitAtCenter = observer.at(zCenter, populationAt(population, zCenter, options.offsets).characteristic).limitInVariable;
+  const limitAtCenter = observer.at(
+    zCenter,
+    populationAt(population, zCenter, options.offsets).characteristic,
+  ).limitInVariable;
   const width = survey.histogramWidth;
   let count = 0;
   let detected = 0;
@@ -248,7 +307,9 @@ function measuredSlice(
     volumeMpc3: survey.areaSr * cosmo.comovingVolumeBetweenMpc3Sr(zMin, zMax),
     count,
     limitAtCenter,
-    histogram: options.noHistogram ? { variable: observer.variable, edges: [], counts: [] } : sumHistograms(pieceHistograms, width, observer.variable),
+    histogram: options.noHistogram
+      ? { variable: observer.variable, edges: [], counts: [] }
+      : sumHistograms(pieceHistograms, width, observer.variable),
   };
   if (!options.noHistogram) out.luminosity = total === undefined ? { detected } : { detected, total };
   if (options.profile) out.profile = profile;
@@ -258,7 +319,8 @@ function measuredSlice(
 /** The migration of several populations counted on the same edges over the same window: the sum. */
 export function sumMigrations(ms: readonly PhotoZMigration[]): PhotoZMigration {
   const first = ms[0]!;
-  const add = (rows: (m: PhotoZMigration) => number[]): number[] => rows(first).map((_, i) => ms.reduce((s, m) => s + rows(m)[i]!, 0));
+  const add = (rows: (m: PhotoZMigration) => number[]): number[] =>
+    rows(first).map((_, i) => ms.reduce((s, m) => s + rows(m)[i]!, 0));
   return {
     ...first,
     matrix: first.matrix.map((row, i) => row.map((_, j) => ms.reduce((s, m) => s + m.matrix[i]![j]!, 0))),

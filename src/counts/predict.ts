@@ -63,12 +63,22 @@ export function detectionJson(survey: Survey): PredictionBase['detection'] {
     const b: LineFluxDetectionBlock = { kind: 'line_flux', limit_cgs: d.limitCgs };
     if (d.lineAngstrom !== undefined) b.line_angstrom = d.lineAngstrom;
     if (d.filter) {
-      b.filter = { center_angstrom: d.filter.centerAngstrom, fwhm_angstrom: d.filter.fwhmAngstrom, profile: d.filter.profile };
+      b.filter = {
+        center_angstrom: d.filter.centerAngstrom,
+        fwhm_angstrom: d.filter.fwhmAngstrom,
+        profile: d.filter.profile,
+      };
       if (d.filter.table) b.filter.file = d.filter.table.file;
     }
     out = b;
   } else if (d.kind === 'magnitude') {
-    const b: MagnitudeDetectionBlock = { kind: 'magnitude', limit_ab_mag: d.limitMag, band_angstrom: d.bandAngstrom, beta: d.beta, igm: d.igm };
+    const b: MagnitudeDetectionBlock = {
+      kind: 'magnitude',
+      limit_ab_mag: d.limitMag,
+      band_angstrom: d.bandAngstrom,
+      beta: d.beta,
+      igm: d.igm,
+    };
     if (d.bandTable) b.band_file = d.bandTable.file;
     if (d.magnitudeSystem) {
       b.system = d.magnitudeSystem.system;
@@ -76,7 +86,11 @@ export function detectionJson(survey: Survey): PredictionBase['detection'] {
     }
     if (d.sed) {
       b.sed_file = d.sed.spectrum.file;
-      b.band = { profile: d.sed.band.profile, center_angstrom: d.sed.band.centerAngstrom, fwhm_angstrom: d.sed.band.fwhmAngstrom };
+      b.band = {
+        profile: d.sed.band.profile,
+        center_angstrom: d.sed.band.centerAngstrom,
+        fwhm_angstrom: d.sed.band.fwhmAngstrom,
+      };
     }
     if (d.photoZ) b.photo_z = { sigma: d.photoZ.sigma, outlier_fraction: d.photoZ.outlierFraction };
     out = b;
@@ -102,7 +116,11 @@ export function luminosityDensityUnit(survey: Survey, p: Population): string {
   return 'erg s^-1 Mpc^-3';
 }
 
-function densityOf(lum: { detected: number; total?: number } | undefined, volume: number, unit: string): LuminosityDensity | undefined {
+function densityOf(
+  lum: { detected: number; total?: number } | undefined,
+  volume: number,
+  unit: string,
+): LuminosityDensity | undefined {
   if (!lum || !(volume > 0)) return undefined;
   const d: LuminosityDensity = { unit, detected: lum.detected / volume };
   if (lum.total === undefined) d.note = DIVERGES;
@@ -129,7 +147,13 @@ function addLum(a: Lum | undefined, b: Lum | undefined): Lum | undefined {
   return out;
 }
 
-function toSlices(counts: SliceCount[], areaDeg2: number, unit: string, sfrFactor?: number, trueCounts?: number[]): PredictionSlice[] {
+function toSlices(
+  counts: SliceCount[],
+  areaDeg2: number,
+  unit: string,
+  sfrFactor?: number,
+  trueCounts?: number[],
+): PredictionSlice[] {
   let cumulative = 0;
   return counts.map((s, i) => {
     cumulative += s.count;
@@ -152,7 +176,12 @@ function toSlices(counts: SliceCount[], areaDeg2: number, unit: string, sfrFacto
   });
 }
 
-function totalsOf(counts: SliceCount[], areaDeg2: number, unit: string | undefined, sfrFactor?: number): PredictionTotals {
+function totalsOf(
+  counts: SliceCount[],
+  areaDeg2: number,
+  unit: string | undefined,
+  sfrFactor?: number,
+): PredictionTotals {
   let count = 0;
   let volume = 0;
   let lum: Lum | undefined = { detected: 0, total: 0 };
@@ -218,23 +247,31 @@ export function predictionWarnings(survey: Survey, populations: readonly Populat
   if (d.kind === 'magnitude') {
     // A spectrum's band: a top-hat's red end, a gaussian's center + fwhm (1/16 of its peak), a table's last row above 0.
     const sedBand = d.sed?.band;
-    const red = sedBand && sedBand.profile !== 'table' ? sedBand.centerAngstrom + (sedBand.profile === 'tophat' ? 0.5 : 1) * sedBand.fwhmAngstrom : bandRedEdgeAngstrom(d.bandAngstrom, d.bandTable);
+    const red =
+      sedBand && sedBand.profile !== 'table'
+        ? sedBand.centerAngstrom + (sedBand.profile === 'tophat' ? 0.5 : 1) * sedBand.fwhmAngstrom
+        : bandRedEdgeAngstrom(d.bandAngstrom, d.bandTable);
     for (const p of populations) {
       const zb = red / LYMAN_ALPHA_ANGSTROM - 1;
       if (zb < p.window.max) {
         const from = Math.max(zb, p.window.min);
-        const what = d.bandTable || sedBand ? 'the whole band (to its red edge at ' + fmtNum(red) + ' A)' : 'the band (effective wavelength ' + fmtNum(red) + ' A)';
-        out.push(warning(
-          'band_blueward_of_lyman_alpha',
-          `${p.name}: at z > ${fmtNum(from)} (its window is z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)}) ${what} lies blueward of rest-frame Lyman alpha (1216 A); ` +
-            (d.igm === 'madau1995'
-              ? d.sed
-                ? 'the counts there include the Madau 1995 mean intergalactic transmission, applied to the spectrum inside the band'
-                : 'the counts there include the Madau 1995 mean intergalactic transmission, and the power-law spectrum is extrapolated below 1216 A'
-              : d.sed
-                ? 'no intergalactic attenuation is applied there (detection.igm is none; the spectrum\'s own features are all that dims it), so those counts are too high; consider igm: madau1995'
-                : 'no intergalactic attenuation is applied there (detection.igm is none), so those counts are too high; consider igm: madau1995'),
-        ));
+        const what =
+          d.bandTable || sedBand
+            ? 'the whole band (to its red edge at ' + fmtNum(red) + ' A)'
+            : 'the band (effective wavelength ' + fmtNum(red) + ' A)';
+        out.push(
+          warning(
+            'band_blueward_of_lyman_alpha',
+            `${p.name}: at z > ${fmtNum(from)} (its window is z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)}) ${what} lies blueward of rest-frame Lyman alpha (1216 A); ` +
+              (d.igm === 'madau1995'
+                ? d.sed
+                  ? 'the counts there include the Madau 1995 mean intergalactic transmission, applied to the spectrum inside the band'
+                  : 'the counts there include the Madau 1995 mean intergalactic transmission, and the power-law spectrum is extrapolated below 1216 A'
+                : d.sed
+                  ? "no intergalactic attenuation is applied there (detection.igm is none; the spectrum's own features are all that dims it), so those counts are too high; consider igm: madau1995"
+                  : 'no intergalactic attenuation is applied there (detection.igm is none), so those counts are too high; consider igm: madau1995'),
+          ),
+        );
       }
     }
   }
@@ -258,16 +295,26 @@ export function predictionWarnings(survey: Survey, populations: readonly Populat
  * Fewer than one source expected: in the whole survey (every population over its own window), or
  * from one population of several.
  */
-export function detectionWarnings(populations: readonly { name: string; count: number; window: { min: number; max: number } }[]): Warning[] {
+export function detectionWarnings(
+  populations: readonly { name: string; count: number; window: { min: number; max: number } }[],
+): Warning[] {
   const all = populations.reduce((a, p) => a + p.count, 0);
-  const hint = 'check detection.limit, the area and the luminosity function (a log10 given under a linear key such as l_star gives none)';
+  const hint =
+    'check detection.limit, the area and the luminosity function (a log10 given under a linear key such as l_star gives none)';
   if (all < 1) {
-    return [warning('no_detections', `fewer than one source is expected in the whole survey (${fmtNum(all)}): ${hint}`)];
+    return [
+      warning('no_detections', `fewer than one source is expected in the whole survey (${fmtNum(all)}): ${hint}`),
+    ];
   }
   if (populations.length < 2) return [];
   return populations
     .filter((p) => p.count < 1)
-    .map((p) => warning('no_detections', `${p.name}: fewer than one source is expected over its window z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)} (${fmtNum(p.count)}); if it should be seen, ${hint}`));
+    .map((p) =>
+      warning(
+        'no_detections',
+        `${p.name}: fewer than one source is expected over its window z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)} (${fmtNum(p.count)}); if it should be seen, ${hint}`,
+      ),
+    );
 }
 
 const fmtNum = (x: number): string => precise(x, 4);
@@ -283,7 +330,10 @@ export interface PredictOptions {
 
 /** The redshifts a population is counted over: its window cut by its slice edges (empty: max <= min). */
 export function countedRange(p: Population): { min: number; max: number } {
-  return { min: Math.max(p.window.min, p.sliceEdges[0]!), max: Math.min(p.window.max, p.sliceEdges[p.sliceEdges.length - 1]!) };
+  return {
+    min: Math.max(p.window.min, p.sliceEdges[0]!),
+    max: Math.min(p.window.max, p.sliceEdges[p.sliceEdges.length - 1]!),
+  };
 }
 
 /**
@@ -319,7 +369,12 @@ function unionVolume(survey: Survey, cosmo: FlatCosmology, ranges: { min: number
 /** The observed bins: every population's histogram over its own slices, on one grid, with shares. */
 function observedBins(survey: Survey, runs: { name: string; own: SliceCount[] }[]): ObservedBins {
   const width = survey.histogramWidth;
-  const hists = runs.map((r) => sumHistograms(r.own.map((s) => s.histogram), width));
+  const hists = runs.map((r) =>
+    sumHistograms(
+      r.own.map((s) => s.histogram),
+      width,
+    ),
+  );
   const aligned = alignHistograms(hists, width);
   const bins: ObservedBin[] = aligned.edges.slice(0, -1).map((lo, b) => {
     const count = aligned.counts.reduce((a, row) => a + row[b]!, 0);
@@ -351,7 +406,10 @@ function migrationJson(m: PhotoZMigration): PhotoZMigrationJson {
     reach_sigma: PHOTO_Z_REACH_SIGMA,
     true_range: { min: m.trueRange.min, max: m.trueRange.max },
     true_bins: m.trueBins.map((b) => ({ z_min: b.min, z_max: b.max })),
-    measured_bins: m.measuredBins.map((b) => ({ ...(b.min !== null ? { z_min: b.min } : {}), ...(b.max !== null ? { z_max: b.max } : {}) })),
+    measured_bins: m.measuredBins.map((b) => ({
+      ...(b.min !== null ? { z_min: b.min } : {}),
+      ...(b.max !== null ? { z_max: b.max } : {}),
+    })),
     migration_matrix: m.matrix.map((row) => [...row]),
     true_counts: [...m.trueCounts],
     measured_counts: [...m.measuredCounts],
@@ -360,12 +418,23 @@ function migrationJson(m: PhotoZMigration): PhotoZMigrationJson {
 }
 
 /** Every population over its own window and slice edges (with the engine's redshift profiles when uncertainties follow). */
-function countPopulations(survey: Survey, cosmo: FlatCosmology, units: string[], profiles: boolean, withModel: boolean): PopulationRun[] {
+function countPopulations(
+  survey: Survey,
+  cosmo: FlatCosmology,
+  units: string[],
+  profiles: boolean,
+  withModel: boolean,
+): PopulationRun[] {
   const d = survey.detection;
   const withPhotoZ = d.kind !== 'line_flux' && d.photoZ !== undefined;
   return survey.populations.map((p, i) => {
     const photoZ = withPhotoZ ? countPhotoZ(survey, p, cosmo, p.sliceEdges, { profile: profiles }) : undefined;
-    const own = photoZ ? photoZ.slices : countPopulation(survey, p, cosmo, p.sliceEdges, { profile: profiles, drawNodes: withModel && p.modelUncertainty !== undefined });
+    const own = photoZ
+      ? photoZ.slices
+      : countPopulation(survey, p, cosmo, p.sliceEdges, {
+          profile: profiles,
+          drawNodes: withModel && p.modelUncertainty !== undefined,
+        });
     const sfr = p.sfrConversion?.factor;
     const pred: PopulationPrediction = {
       name: p.name,
@@ -386,7 +455,11 @@ function countPopulations(survey: Survey, cosmo: FlatCosmology, units: string[],
  * each slice the sum over populations, with each one's count; densities only when every
  * population's are in one unit.
  */
-function summedSlices(survey: Survey, runs: PopulationRun[], units: string[]): { slices: PredictionSlice[]; totals: PredictionTotals } {
+function summedSlices(
+  survey: Survey,
+  runs: PopulationRun[],
+  units: string[],
+): { slices: PredictionSlice[]; totals: PredictionTotals } {
   const sameUnit = units.every((u) => u === units[0]);
   let cumulative = 0;
   const topCounts: SliceCount[] = [];
@@ -396,8 +469,18 @@ function summedSlices(survey: Survey, runs: PopulationRun[], units: string[]): {
     cumulative += count;
     let lum: Lum | undefined = { detected: 0, total: 0 };
     for (const sc of parts) lum = addLum(lum, sc.luminosity);
-    const histogram = sumHistograms(parts.map((sc) => sc.histogram), survey.histogramWidth);
-    const sc: SliceCount = { zMin: first.zMin, zMax: first.zMax, volumeMpc3: first.volumeMpc3, count, limitAtCenter: first.limitAtCenter, histogram };
+    const histogram = sumHistograms(
+      parts.map((sc) => sc.histogram),
+      survey.histogramWidth,
+    );
+    const sc: SliceCount = {
+      zMin: first.zMin,
+      zMax: first.zMax,
+      volumeMpc3: first.volumeMpc3,
+      count,
+      limitAtCenter: first.limitAtCenter,
+      histogram,
+    };
     if (lum && sameUnit) sc.luminosity = lum;
     topCounts.push(sc);
     const slice: PredictionSlice = {
@@ -414,13 +497,22 @@ function summedSlices(survey: Survey, runs: PopulationRun[], units: string[]): {
     if (runs.every((r) => r.photoZ)) slice.count_true_redshift = runs.reduce((a, r) => a + r.photoZ!.trueCounts[i]!, 0);
     const ld = sameUnit ? densityOf(sc.luminosity, first.volumeMpc3, units[0]!) : undefined;
     if (ld) slice.luminosity_density = ld;
-    const sfr = sameUnit ? sfrSum(survey, parts.map((x) => x.luminosity), first.volumeMpc3, units) : undefined;
+    const sfr = sameUnit
+      ? sfrSum(
+          survey,
+          parts.map((x) => x.luminosity),
+          first.volumeMpc3,
+          units,
+        )
+      : undefined;
     if (sfr) slice.sfr_density_msun_yr_mpc3 = sfr;
     return slice;
   });
   const totals = totalsOf(topCounts, survey.areaDeg2, sameUnit ? units[0] : undefined);
   if (totals.luminosity_density) {
-    const lums = runs.map((r) => r.own.reduce<Lum | undefined>((a, sc) => addLum(a, sc.luminosity), { detected: 0, total: 0 }));
+    const lums = runs.map((r) =>
+      r.own.reduce<Lum | undefined>((a, sc) => addLum(a, sc.luminosity), { detected: 0, total: 0 }),
+    );
     const sfr = sfrSum(survey, lums, totals.volume_mpc3, units);
     if (sfr) totals.sfr_density_msun_yr_mpc3 = sfr;
   }
@@ -440,12 +532,24 @@ function addUncertainties(
   ctx.warnings = warnings;
   if (options.uncertaintyMemo) ctx.memo = options.uncertaintyMemo;
   const partsOf = (k: number): TotalPart[] =>
-    runs[k]!.own.map((sc) => ({ population: survey.populations[k]!, count: sc.count, zMin: sc.zMin, zMax: sc.zMax, profile: sc.profile! }));
+    runs[k]!.own.map((sc) => ({
+      population: survey.populations[k]!,
+      count: sc.count,
+      zMin: sc.zMin,
+      zMax: sc.zMax,
+      profile: sc.profile!,
+    }));
   // Each population over its own window and slices.
   survey.populations.forEach((pop, k) => {
     const own = runs[k]!.pred;
     own.slices.forEach((sl) => {
-      const u = combinedUncertainty(ctx, [{ population: pop, count: sl.count, volumeMpc3: sl.volume_mpc3 }], sl.z_min, sl.z_max, 0.5 * (sl.z_min + sl.z_max));
+      const u = combinedUncertainty(
+        ctx,
+        [{ population: pop, count: sl.count, volumeMpc3: sl.volume_mpc3 }],
+        sl.z_min,
+        sl.z_max,
+        0.5 * (sl.z_min + sl.z_max),
+      );
       if (u) sl.uncertainty = u;
     });
     setTotalUncertainty(own.totals, totalUncertainty(ctx, partsOf(k)));
@@ -453,11 +557,21 @@ function addUncertainties(
   if (survey.populations.length > 1) {
     // Top-level slices (several populations in one slice: their count-weighted bias).
     top.slices?.forEach((sl, i) => {
-      const parts = survey.populations.map((pop, k) => ({ population: pop, count: runs[k]!.own[i]!.count, volumeMpc3: sl.volume_mpc3 }));
+      const parts = survey.populations.map((pop, k) => ({
+        population: pop,
+        count: runs[k]!.own[i]!.count,
+        volumeMpc3: sl.volume_mpc3,
+      }));
       const u = combinedUncertainty(ctx, parts, sl.z_min, sl.z_max, 0.5 * (sl.z_min + sl.z_max));
       if (u) sl.uncertainty = u;
     });
-    setTotalUncertainty(top.totals, totalUncertainty(ctx, survey.populations.flatMap((_, k) => partsOf(k))));
+    setTotalUncertainty(
+      top.totals,
+      totalUncertainty(
+        ctx,
+        survey.populations.flatMap((_, k) => partsOf(k)),
+      ),
+    );
   }
   return warnings;
 }
@@ -480,11 +594,21 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
   else if (coincide) top = summedSlices(survey, runs, units);
   else {
     const count = perPop.reduce((a, q) => a + q.totals.count, 0);
-    top = { slices: undefined, totals: { count, per_deg2: count / survey.areaDeg2, volume_mpc3: unionVolume(survey, cosmo, survey.populations.map(countedRange)) } };
+    top = {
+      slices: undefined,
+      totals: {
+        count,
+        per_deg2: count / survey.areaDeg2,
+        volume_mpc3: unionVolume(survey, cosmo, survey.populations.map(countedRange)),
+      },
+    };
   }
   const uncertaintyWarnings = withUncertainty ? addUncertainties(survey, cosmo, runs, top, options) : [];
   if (withModel) {
-    const draws = addPopulationSpreads(survey, cosmo, runs, { draws: modelDraws, seed: options.model?.seed ?? DEFAULT_MODEL_SEED });
+    const draws = addPopulationSpreads(survey, cosmo, runs, {
+      draws: modelDraws,
+      seed: options.model?.seed ?? DEFAULT_MODEL_SEED,
+    });
     if (survey.populations.length > 1) addTopSpreads(runs, draws, top);
     for (const r of runs) for (const sc of r.own) delete sc.drawNodes;
   }
@@ -521,7 +645,10 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
     : { ...head, breakdown: 'observed', totals: top.totals, ...tail };
 }
 
-function setTotalUncertainty(t: PredictionTotals, u: { block: UncertaintyJson; meanRedshift: number } | undefined): void {
+function setTotalUncertainty(
+  t: PredictionTotals,
+  u: { block: UncertaintyJson; meanRedshift: number } | undefined,
+): void {
   if (!u) return;
   t.uncertainty = u.block;
   t.mean_redshift = u.meanRedshift;

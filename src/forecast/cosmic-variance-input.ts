@@ -23,9 +23,15 @@ const NEGLIGIBLE_COUNT = 1e-6;
  * Per-slice cosmic-variance fractions of `population` in `survey` on `edges`; the warnings their
  * computation raises (abundance matching held at a mass bound) are added to `warnings` when given.
  */
-export type CosmicVarianceSource = (survey: Survey, edges: readonly number[], population: Population, warnings?: Warning[]) => number[];
+export type CosmicVarianceSource = (
+  survey: Survey,
+  edges: readonly number[],
+  population: Population,
+  warnings?: Warning[],
+) => number[];
 
-export const cosmicVarianceInput: CosmicVarianceSource = (survey, edges, population, warnings) => fractions(survey, edges, population, undefined, warnings);
+export const cosmicVarianceInput: CosmicVarianceSource = (survey, edges, population, warnings) =>
+  fractions(survey, edges, population, undefined, warnings);
 
 /**
  * The same fractions, read from `memo` (filled by predict of the same survey, see
@@ -36,7 +42,13 @@ export function cosmicVarianceInputWith(memo: UncertaintyMemo): CosmicVarianceSo
   return (survey, edges, population, warnings) => fractions(survey, edges, population, memo, warnings);
 }
 
-function fractions(survey: Survey, edges: readonly number[], population: Population, memo?: UncertaintyMemo, warnings?: Warning[]): number[] {
+function fractions(
+  survey: Survey,
+  edges: readonly number[],
+  population: Population,
+  memo?: UncertaintyMemo,
+  warnings?: Warning[],
+): number[] {
   const cosmo = new FlatCosmology(survey.cosmology);
   const ctx = uncertaintyContext(survey, cosmo);
   if (memo) ctx.memo = memo;
@@ -45,7 +57,12 @@ function fractions(survey: Survey, edges: readonly number[], population: Populat
   return counts.map((s) =>
     s.count < NEGLIGIBLE_COUNT
       ? 0
-      : (singleUncertainty(ctx, { population, count: s.count, volumeMpc3: s.volumeMpc3 }, s.zMin, s.zMax, 0.5 * (s.zMin + s.zMax))
-          ?.cosmic_variance_fraction ?? 0),
+      : (singleUncertainty(
+          ctx,
+          { population, count: s.count, volumeMpc3: s.volumeMpc3 },
+          s.zMin,
+          s.zMax,
+          0.5 * (s.zMin + s.zMax),
+        )?.cosmic_variance_fraction ?? 0),
   );
 }

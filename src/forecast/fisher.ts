@@ -61,7 +61,12 @@ export function fisherParts(grid: DensityGrid): FisherParts {
   const slices: SliceInformation[] = [];
   let total = 0;
   for (let sl = 0; sl < sliceCount(grid); sl++) {
-    let n = 0, bc = 0, ba = 0, fcc = 0, fca = 0, faa = 0;
+    let n = 0,
+      bc = 0,
+      ba = 0,
+      fcc = 0,
+      fca = 0,
+      faa = 0;
     const q0 = nodePointStart[sliceNodeStart[sl]!]!;
     const q1 = nodePointStart[sliceNodeStart[sl + 1]!]!;
     for (let q = q0; q < q1; q++) {
@@ -90,14 +95,19 @@ export function fisherParts(grid: DensityGrid): FisherParts {
 }
 
 /** F - sum_i b_i b_i^T / (N_i + 1/sigma_i^2): the nuisance-marginalised information. */
-export function marginaliseNormalisations(matrix: Matrix, slices: readonly SliceInformation[], fractions: readonly number[]): Matrix {
+export function marginaliseNormalisations(
+  matrix: Matrix,
+  slices: readonly SliceInformation[],
+  fractions: readonly number[],
+): Matrix {
   if (fractions.length !== slices.length) {
     throw new Error(`cosmic variance: ${fractions.length} fractions given for ${slices.length} slices`);
   }
   const out = matrix.map((r) => [...r]);
   slices.forEach((sl, i) => {
     const sigma = fractions[i]!;
-    if (!(sigma >= 0) || !Number.isFinite(sigma)) throw new Error(`cosmic variance: the fraction of slice ${i} is ${sigma}, not a number >= 0`);
+    if (!(sigma >= 0) || !Number.isFinite(sigma))
+      throw new Error(`cosmic variance: the fraction of slice ${i} is ${sigma}, not a number >= 0`);
     if (sigma === 0) return;
     const d = sl.count + 1 / (sigma * sigma);
     for (let j = 0; j < out.length; j++) for (let k = 0; k < out.length; k++) out[j]![k]! -= (sl.b[j]! * sl.b[k]!) / d;

@@ -45,7 +45,13 @@ function hessBlock(b: Float64Array, o: number): number[][] {
 }
 
 /** Profile log-likelihood of the extended estimator, with gradient and Hessian. */
-export function extendedLogLikelihood(grid: DensityGrid, stats: CatalogueStats, cvSigma: ArrayLike<number>, theta: readonly number[], buf?: Float64Array): Evaluation {
+export function extendedLogLikelihood(
+  grid: DensityGrid,
+  stats: CatalogueStats,
+  cvSigma: ArrayLike<number>,
+  theta: readonly number[],
+  buf?: Float64Array,
+): Evaluation {
   const s = grid.shift;
   const [dPhi, dC, dA] = theta as [number, number, number];
   const lam = expectedCounts(grid, theta, buf);
@@ -103,7 +109,12 @@ export function styLogLikelihood(grid: DensityGrid, stats: CatalogueStats, theta
   for (let j = 0; j < grid.nodeZ.length; j++) {
     const nj = stats.nodeN[j]!;
     if (nj === 0) continue;
-    let D = 0, g1 = 0, g2 = 0, h11 = 0, h12 = 0, h22 = 0;
+    let D = 0,
+      g1 = 0,
+      g2 = 0,
+      h11 = 0,
+      h12 = 0,
+      h22 = 0;
     const lv = nodeLogV[j]!;
     for (let q = nodePointStart[j]!; q < nodePointStart[j + 1]!; q++) {
       const y = pointT[q]! + s * dC;
@@ -133,7 +144,12 @@ export function styLogLikelihood(grid: DensityGrid, stats: CatalogueStats, theta
 }
 
 /** Fit one catalogue. The search starts at the input parameters (theta = 0). */
-export function fitCatalogue(grid: DensityGrid, stats: CatalogueStats, cvSigma: ArrayLike<number>, estimator: Estimator): FitResult {
+export function fitCatalogue(
+  grid: DensityGrid,
+  stats: CatalogueStats,
+  cvSigma: ArrayLike<number>,
+  estimator: Estimator,
+): FitResult {
   if (stats.total < 3) return { theta: [NaN, NaN, NaN], converged: false };
   if (estimator === 'sty') {
     const r = maximise((x) => styLogLikelihood(grid, stats, x), [0, 0]);

@@ -95,18 +95,37 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
   const grid = buildDensityGrid(survey, population, cosmo, edges);
   const parts = fisherParts(grid);
   if (!(parts.count > 0)) {
-    throw inputError('no_sources', survey.file, 'detection.limit', `no source of "${population.name}" is expected above the limit, so nothing can be measured`, 'choose a fainter limit or a larger area');
+    throw inputError(
+      'no_sources',
+      survey.file,
+      'detection.limit',
+      `no source of "${population.name}" is expected above the limit, so nothing can be measured`,
+      'choose a fainter limit or a larger area',
+    );
   }
   const poisson = summariseFisher(parts.matrix);
   if (!poisson) {
-    throw inputError('singular_fisher', survey.file, 'population', `the Fisher matrix of "${population.name}" is singular (${parts.count.toPrecision(3)} sources expected)`, 'choose a fainter limit or a larger area');
+    throw inputError(
+      'singular_fisher',
+      survey.file,
+      'population',
+      `the Fisher matrix of "${population.name}" is singular (${parts.count.toPrecision(3)} sources expected)`,
+      'choose a fainter limit or a larger area',
+    );
   }
   const cvWarnings: Warning[] = [];
   const fractions = cvSource ? cvSource(survey, edges, population, cvWarnings) : undefined;
   let withCv = poisson;
   if (fractions) {
     const s = summariseFisher(marginaliseNormalisations(parts.matrix, parts.slices, fractions));
-    if (!s) throw inputError('singular_fisher', survey.file, 'population', 'the Fisher matrix with cosmic variance is singular', 'check the survey');
+    if (!s)
+      throw inputError(
+        'singular_fisher',
+        survey.file,
+        'population',
+        'the Fisher matrix with cosmic variance is singular',
+        'check the survey',
+      );
     withCv = s;
   }
   const zMid = 0.5 * (population.window.min + population.window.max);
@@ -162,7 +181,9 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
     });
     const notes: string[] = [];
     if (estimator === 'sty') {
-      notes.push('The STY estimator (Sandage, Tammann & Yahil 1979) uses the shape of the distribution at each redshift only; it does not constrain phi*, which is not reported.');
+      notes.push(
+        'The STY estimator (Sandage, Tammann & Yahil 1979) uses the shape of the distribution at each redshift only; it does not constrain phi*, which is not reported.',
+      );
     }
     for (const [n, sp] of Object.entries(parameters)) {
       if (Math.abs(sp.bias_in_standard_errors) <= 4) continue;
@@ -171,7 +192,9 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
         why =
           '; with cosmic variance this is expected: the per-slice normalisation nuisances enter multiplicatively, so the fitted normalisation is biased at the order of the squared cosmic-variance fractions, beyond the first order of the Fisher matrix';
       }
-      notes.push(`${n}: the mean of the fits differs from the input by ${sp.bias.toPrecision(3)} (${sp.bias_in_standard_errors.toFixed(1)} standard errors of the mean)${why}.`);
+      notes.push(
+        `${n}: the mean of the fits differs from the input by ${sp.bias.toPrecision(3)} (${sp.bias_in_standard_errors.toFixed(1)} standard errors of the mean)${why}.`,
+      );
     }
     if (failed > 0) notes.push(`${failed} of ${run.count} fits did not converge and are left out of the statistics.`);
     out.mocks = {

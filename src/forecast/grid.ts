@@ -68,7 +68,12 @@ export interface DensityGrid {
 }
 
 /** Tabulate the density of detected sources of `population` on `edges`. */
-export function buildDensityGrid(survey: Survey, population: Population, cosmo: FlatCosmology, edges: readonly number[]): DensityGrid {
+export function buildDensityGrid(
+  survey: Survey,
+  population: Population,
+  cosmo: FlatCosmology,
+  edges: readonly number[],
+): DensityGrid {
   const observer = makeObserver(survey.detection, population, cosmo);
   // The redshift selection and the equivalent-width cut multiply the density like a completeness.
   const effects = selectionEffects(survey.detection, population);
@@ -76,7 +81,10 @@ export function buildDensityGrid(survey: Survey, population: Population, cosmo: 
   const cfn = comp ? completenessFunction(comp, survey.detection.kind, population.variable) : undefined;
   const breaks = comp ? completenessBreaks(comp, survey.detection.kind) : undefined;
   const slope = observer.slope;
-  const maxStep = Math.min(MAX_PANEL_T, breaks && Number.isFinite(breaks.scale) ? (breaks.scale * LN10) / Math.abs(slope) : MAX_PANEL_T);
+  const maxStep = Math.min(
+    MAX_PANEL_T,
+    breaks && Number.isFinite(breaks.scale) ? (breaks.scale * LN10) / Math.abs(slope) : MAX_PANEL_T,
+  );
   const panels: PanelNodes = { x: new Float64Array(256), w: new Float64Array(256), count: 0 };
 
   const sliceNodeStart: number[] = [0];
@@ -193,7 +201,11 @@ export function sliceCount(grid: DensityGrid): number {
  * `out` receives, per slice, 10 numbers: Lambda, dLambda[3], then the Hessian's upper triangle
  * (00, 01, 02, 11, 12, 22).
  */
-export function expectedCounts(grid: DensityGrid, theta: ArrayLike<number>, out: Float64Array = new Float64Array(10 * sliceCount(grid))): Float64Array {
+export function expectedCounts(
+  grid: DensityGrid,
+  theta: ArrayLike<number>,
+  out: Float64Array = new Float64Array(10 * sliceCount(grid)),
+): Float64Array {
   const dPhi = theta[0]!;
   const dC = theta[1]!;
   const dA = theta[2]!;
@@ -203,7 +215,12 @@ export function expectedCounts(grid: DensityGrid, theta: ArrayLike<number>, out:
   const { pointT, pointExpT, pointLogW, pointA1, nodePointStart, sliceNodeStart } = grid;
   const nS = sliceCount(grid);
   for (let sl = 0; sl < nS; sl++) {
-    let L = 0, g1 = 0, g2 = 0, h11 = 0, h12 = 0, h22 = 0;
+    let L = 0,
+      g1 = 0,
+      g2 = 0,
+      h11 = 0,
+      h12 = 0,
+      h22 = 0;
     const q0 = nodePointStart[sliceNodeStart[sl]!]!;
     const q1 = nodePointStart[sliceNodeStart[sl + 1]!]!;
     for (let q = q0; q < q1; q++) {

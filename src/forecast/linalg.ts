@@ -59,6 +59,7 @@ export function inverseSpd(a: Matrix): Matrix | undefined {
     for (let i = 0; i < n; i++) inv[i]![j] = col[i]!;
   }
   // symmetrise round-off
-  for (let i = 0; i < n; i++) for (let j = i + 1; j < n; j++) inv[i]![j] = inv[j]![i] = 0.5 * (inv[i]![j]! + inv[j]![i]!);
+  for (let i = 0; i < n; i++)
+    for (let j = i + 1; j < n; j++) inv[i]![j] = inv[j]![i] = 0.5 * (inv[i]![j]! + inv[j]![i]!);
   return inv;
 }

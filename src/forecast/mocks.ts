@@ -43,7 +43,12 @@ export function makeMockSetup(grid: DensityGrid, cvSigma: number[], estimator: E
 }
 
 /** Run mocks [start, end) in this thread, writing into the arrays at offset 0. */
-export function runMockRange(setup: MockSetup, start: number, end: number, sampler = new CatalogueSampler(setup.grid, setup.tables)) {
+export function runMockRange(
+  setup: MockSetup,
+  start: number,
+  end: number,
+  sampler = new CatalogueSampler(setup.grid, setup.tables),
+) {
   const n = end - start;
   const theta = new Float64Array(3 * n);
   const ok = new Uint8Array(n);
@@ -53,7 +58,9 @@ export function runMockRange(setup: MockSetup, start: number, end: number, sampl
   for (let i = start; i < end; i++) {
     // The factory's generator carries .normalized (uniform on [0, 1), 53 bits) at run time; its
     // type declaration omits it.
-    const rng = mt19937.factory({ seed: new Uint32Array([setup.seed >>> 0, i >>> 0]) }) as unknown as { normalized: () => number };
+    const rng = mt19937.factory({ seed: new Uint32Array([setup.seed >>> 0, i >>> 0]) }) as unknown as {
+      normalized: () => number;
+    };
     const rand = rng.normalized;
     const gauss = normalRng.factory(0, 1, { prng: rand });
     const poisson = poissonRng.factory({ prng: rand });

@@ -26,7 +26,11 @@ export interface MaximiseResult {
   converged: boolean;
 }
 
-export function maximise(f: (x: readonly number[]) => Evaluation, x0: readonly number[], opts: MaximiseOptions = {}): MaximiseResult {
+export function maximise(
+  f: (x: readonly number[]) => Evaluation,
+  x0: readonly number[],
+  opts: MaximiseOptions = {},
+): MaximiseResult {
   const tol = opts.tol ?? 1e-10;
   const maxIter = opts.maxIter ?? 200;
   const n = x0.length;
@@ -62,7 +66,13 @@ export function maximise(f: (x: readonly number[]) => Evaluation, x0: readonly n
         e = eNew;
         mu = mu / 3 < 1e-12 ? 0 : mu / 3;
         accepted = true;
-        if (stalled) return { x, value: e.value, iterations: iter, converged: cholesky(e.hessian.map((r) => r.map((v) => -v))) !== undefined };
+        if (stalled)
+          return {
+            x,
+            value: e.value,
+            iterations: iter,
+            converged: cholesky(e.hessian.map((r) => r.map((v) => -v))) !== undefined,
+          };
         break;
       }
       mu = mu === 0 ? 1e-3 : mu * 10;

@@ -26,7 +26,6 @@ import type { CosmicVarianceSource } from './cosmic-variance-input.js';
 import type { ParameterName } from './parameters.js';
 import type { Requirement, RequirementEntry } from '../model/outputs/forecast.js';
 
-
 export interface RequirementContext {
   survey: Survey;
   population: Population;
@@ -122,7 +121,10 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
   // sigma as a function of area (Poisson information scaled; fractions asked at each area)
   const perArea = scaleParts(ctx.parts, 1 / a0);
   const sigmaAtArea = (areaDeg2: number, withCv = true): number[] =>
-    sigmaFrom(scaleParts(perArea, areaDeg2), cv && withCv ? cv(withArea(survey, areaDeg2), edges, population) : undefined);
+    sigmaFrom(
+      scaleParts(perArea, areaDeg2),
+      cv && withCv ? cv(withArea(survey, areaDeg2), edges, population) : undefined,
+    );
   const depthCache = new Map<string, number[]>();
   const sigmaAtDepth = (delta: number, withCv = true): number[] => {
     const key = `${withCv}:${delta}`;
@@ -130,14 +132,18 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
     if (hit) return hit;
     const s2 = deeperSurvey(survey, population, delta).survey;
     const parts = fisherParts(buildDensityGrid(s2, population, cosmo, edges));
-    const sig = parts.count > 0 ? sigmaFrom(parts, cv && withCv ? cv(s2, edges, population) : undefined) : names.map(() => Infinity);
+    const sig =
+      parts.count > 0
+        ? sigmaFrom(parts, cv && withCv ? cv(s2, edges, population) : undefined)
+        : names.map(() => Infinity);
     depthCache.set(key, sig);
     return sig;
   };
   const finite = (v: number) => (Number.isFinite(v) ? v : 1e300);
   const limitOf = (delta: number) => deeperSurvey(survey, population, delta).limit;
   const lv = limitVariable(survey, population);
-  const limitText = (x: number) => (lv === 'line_flux_cgs' ? `${fmt(x)} erg/s/cm^2` : lv === 'log10_quantity' ? `log10 = ${fmt(x)}` : `${fmt(x)} mag`);
+  const limitText = (x: number) =>
+    lv === 'line_flux_cgs' ? `${fmt(x)} erg/s/cm^2` : lv === 'log10_quantity' ? `log10 = ${fmt(x)}` : `${fmt(x)} mag`;
 
   const byParameter: Record<string, RequirementEntry> = {};
   for (const [name, target] of Object.entries(targets)) {
@@ -152,9 +158,13 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
     if (!(sFull <= target)) {
       const poissonFull = sigmaAtArea(FULL_SKY_DEG2, false)[j]!;
       if (cv && poissonFull <= target) {
-        notes.push(`no area reaches sigma(${name}) = ${fmt(target)} at this depth: cosmic variance sets a floor of ${fmt(sFull)} even over the full sky (Poisson alone would need ${fmt(a0 * (sigmaAtArea(a0, false)[j]! / target) ** 2)} deg^2)`);
+        notes.push(
+          `no area reaches sigma(${name}) = ${fmt(target)} at this depth: cosmic variance sets a floor of ${fmt(sFull)} even over the full sky (Poisson alone would need ${fmt(a0 * (sigmaAtArea(a0, false)[j]! / target) ** 2)} deg^2)`,
+        );
       } else {
-        notes.push(`no area reaches sigma(${name}) = ${fmt(target)} at this depth: even the full sky (${fmt(FULL_SKY_DEG2)} deg^2) gives ${fmt(sFull)}`);
+        notes.push(
+          `no area reaches sigma(${name}) = ${fmt(target)} at this depth: even the full sky (${fmt(FULL_SKY_DEG2)} deg^2) gives ${fmt(sFull)}`,
+        );
       }
     } else if (sigmaAtArea(MIN_AREA_DEG2)[j]! <= target) {
       notes.push(`sigma(${name}) = ${fmt(target)} is reached by any area down to ${MIN_AREA_DEG2} deg^2`);
@@ -170,10 +180,17 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
     const sShallow = sigmaAtDepth(-span)[j]!;
     if (!(sDeep <= target)) {
       const poissonDeep = sigmaAtDepth(span, false)[j]!;
-      const why = cv && poissonDeep <= target ? ` (cosmic variance sets the floor; Poisson alone would give ${fmt(poissonDeep)})` : '';
-      notes.push(`no limit within ${span} ${unit} of the survey's reaches sigma(${name}) = ${fmt(target)} at this area: even ${limitText(limitOf(span))} gives ${fmt(sDeep)}${why}`);
+      const why =
+        cv && poissonDeep <= target
+          ? ` (cosmic variance sets the floor; Poisson alone would give ${fmt(poissonDeep)})`
+          : '';
+      notes.push(
+        `no limit within ${span} ${unit} of the survey's reaches sigma(${name}) = ${fmt(target)} at this area: even ${limitText(limitOf(span))} gives ${fmt(sDeep)}${why}`,
+      );
     } else if (sShallow <= target) {
-      notes.push(`sigma(${name}) = ${fmt(target)} is reached by every limit within ${span} ${unit} of the survey's, down to the shallowest searched, ${limitText(limitOf(-span))}`);
+      notes.push(
+        `sigma(${name}) = ${fmt(target)} is reached by every limit within ${span} ${unit} of the survey's, down to the shallowest searched, ${limitText(limitOf(-span))}`,
+      );
     } else {
       const [d0, d1] = expandBracket(fDepth, -0.05, 0.05, { lower: -span, upper: span, maxIter: 200 });
       limit = limitOf(brent(fDepth, d0, d1, { tol: 1e-9 }));

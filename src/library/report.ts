@@ -64,7 +64,8 @@ function shapeObstacle(survey: Survey, what: 'forecast' | 'plan'): string | unde
 
 /** A SurveyError met while computing a section that was well formed: its sentence, prefixed. */
 function computeFailure(what: 'forecast' | 'plan', e: unknown): OmittedSection {
-  if (e instanceof SurveyError) return { omitted: `No ${what}: it cannot be computed for this survey (${e.message.replace(/\.$/, '')}).` };
+  if (e instanceof SurveyError)
+    return { omitted: `No ${what}: it cannot be computed for this survey (${e.message.replace(/\.$/, '')}).` };
   throw e;
 }
 
@@ -119,7 +120,8 @@ export function reportSections(opts: SectionOptions = {}): ReportSections {
       } catch (e) {
         if (e instanceof SurveyError && e.code === 'kind_mismatch' && survey.detection.kind === 'threshold') {
           return {
-            omitted: 'No plan: a plan turns exposure time into a detection limit, but this survey selects its sources by a threshold in a quantity (detection.kind: threshold), which no exposure time sets.',
+            omitted:
+              'No plan: a plan turns exposure time into a detection limit, but this survey selects its sources by a threshold in a quantity (detection.kind: threshold), which no exposure time sets.',
           };
         }
         throw e;
@@ -155,7 +157,11 @@ export interface ReportResults {
 }
 
 /** Compute every section of the report (nothing is drawn). */
-export async function computeReport(file: string, survey: Survey, sections: ReportSections = {}): Promise<ReportResults> {
+export async function computeReport(
+  file: string,
+  survey: Survey,
+  sections: ReportSections = {},
+): Promise<ReportResults> {
   const { predict } = await import('../counts/predict.js');
   const { UncertaintyMemo } = await import('../uncertainty/prediction.js');
   const shared: SharedResults = { uncertaintyMemo: new UncertaintyMemo(survey) };
@@ -228,9 +234,13 @@ export interface BuildReportOptions extends SectionOptions {
  * The whole report of a survey as one self-contained HTML document: predict, the forecast (with
  * `mocks` mock surveys), the plan of a plan file, every figure and the file as written.
  */
-export async function buildReport(survey: Survey, options: BuildReportOptions = {}): Promise<{ html: string; figures: Figure[]; results: ReportResults }> {
+export async function buildReport(
+  survey: Survey,
+  options: BuildReportOptions = {},
+): Promise<{ html: string; figures: Figure[]; results: ReportResults }> {
   const results = await computeReport(survey.file, survey, reportSections(options));
   const figures = await reportFigures(results);
-  const surveyText = options.surveyText ?? (survey.file ? (await import('../survey/load.js')).readSurveyText(survey.file).text : '');
+  const surveyText =
+    options.surveyText ?? (survey.file ? (await import('../survey/load.js')).readSurveyText(survey.file).text : '');
   return { html: await reportHtml(results, surveyText, figures), figures, results };
 }

@@ -4,7 +4,13 @@ import type { CosmologyBlock } from './outputs/shared.js';
 
 /** The block of a cosmology: omega_b, sigma8 and n_s only for a whole cosmology (not a background alone). */
 export function cosmologyJsonOf(c: BackgroundCosmology | Cosmology): CosmologyBlock {
-  const j: CosmologyBlock = { h0: c.h0, omega_m: c.omegaM, omega_lambda: c.omegaLambda, omega_r: c.omegaR, t_cmb: c.tCmb };
+  const j: CosmologyBlock = {
+    h0: c.h0,
+    omega_m: c.omegaM,
+    omega_lambda: c.omegaLambda,
+    omega_r: c.omegaR,
+    t_cmb: c.tCmb,
+  };
   if ('omegaB' in c) {
     j.omega_b = c.omegaB;
     j.sigma8 = c.sigma8;

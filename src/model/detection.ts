@@ -43,32 +43,32 @@ export type Completeness =
  */
 export type Detection = DetectionSelection &
   (
-  | {
-      kind: 'line_flux';
-      limitCgs: number; // erg s^-1 cm^-2, faintest line flux counted (at peak transmission)
-      lineAngstrom?: number; // default rest wavelength when a population gives none
-      filter?: Filter;
-      completeness?: Completeness;
-    }
-  | {
-      kind: 'magnitude';
-      limitMag: number; // apparent AB magnitude (a Vega limit converted once; completeness too)
-      bandAngstrom: number; // effective wavelength of the band (from band_file when band is not given)
-      beta: number; // f_lambda ~ lambda^beta
-      igm: IgmModel; // default 'none'
-      igmStated?: boolean; // true when the file gives detection.igm (a warning asks for it near Lyman alpha)
-      bandTable?: TransmissionTable; // detection.band_file: the band's transmission curve
-      sed?: SedPhotometry; // detection.sed: k-corrections by synthetic photometry instead of beta
-      magnitudeSystem?: MagnitudeSystemGiven; // detection.system vega: how the limit was given
-      completeness?: Completeness;
-      photoZ?: PhotoZ; // detection.photo_z: slices are in measured (photometric) redshift
-    }
-  | {
-      kind: 'threshold';
-      limit: ZParam; // log10 quantity (luminosity variable) or absolute magnitude (magnitude variable)
-      completeness?: Completeness;
-      photoZ?: PhotoZ; // detection.photo_z: slices are in measured (photometric) redshift
-    }
+    | {
+        kind: 'line_flux';
+        limitCgs: number; // erg s^-1 cm^-2, faintest line flux counted (at peak transmission)
+        lineAngstrom?: number; // default rest wavelength when a population gives none
+        filter?: Filter;
+        completeness?: Completeness;
+      }
+    | {
+        kind: 'magnitude';
+        limitMag: number; // apparent AB magnitude (a Vega limit converted once; completeness too)
+        bandAngstrom: number; // effective wavelength of the band (from band_file when band is not given)
+        beta: number; // f_lambda ~ lambda^beta
+        igm: IgmModel; // default 'none'
+        igmStated?: boolean; // true when the file gives detection.igm (a warning asks for it near Lyman alpha)
+        bandTable?: TransmissionTable; // detection.band_file: the band's transmission curve
+        sed?: SedPhotometry; // detection.sed: k-corrections by synthetic photometry instead of beta
+        magnitudeSystem?: MagnitudeSystemGiven; // detection.system vega: how the limit was given
+        completeness?: Completeness;
+        photoZ?: PhotoZ; // detection.photo_z: slices are in measured (photometric) redshift
+      }
+    | {
+        kind: 'threshold';
+        limit: ZParam; // log10 quantity (luminosity variable) or absolute magnitude (magnitude variable)
+        completeness?: Completeness;
+        photoZ?: PhotoZ; // detection.photo_z: slices are in measured (photometric) redshift
+      }
   );
 
 export type DetectionKind = Detection['kind'];

@@ -41,7 +41,10 @@ export interface DrawsModelUncertainty {
 export type ModelUncertainty = GaussianModelUncertainty | DrawsModelUncertainty;
 
 /** The names a population's model uncertainty may use, in the order a forecast lists them. */
-export function modelParameterNames(shape: 'schechter' | 'double_schechter', variable: 'luminosity' | 'magnitude'): ModelParameter[] {
+export function modelParameterNames(
+  shape: 'schechter' | 'double_schechter',
+  variable: 'luminosity' | 'magnitude',
+): ModelParameter[] {
   const star: ModelParameter = variable === 'luminosity' ? 'log10_l_star' : 'm_star';
   return shape === 'double_schechter'
     ? ['log10_phi_star_1', 'log10_phi_star_2', 'alpha_1', 'alpha_2', star]
@@ -56,8 +59,16 @@ export interface ModelOffsets {
 }
 
 /** The offsets of a vector of parameter values in `parameters`' order, for a population of `components` components. */
-export function modelOffsets(parameters: readonly ModelParameter[], values: ArrayLike<number>, components: number): ModelOffsets {
-  const out: ModelOffsets = { log10PhiStar: new Array<number>(components).fill(0), alpha: new Array<number>(components).fill(0), characteristic: 0 };
+export function modelOffsets(
+  parameters: readonly ModelParameter[],
+  values: ArrayLike<number>,
+  components: number,
+): ModelOffsets {
+  const out: ModelOffsets = {
+    log10PhiStar: new Array<number>(components).fill(0),
+    alpha: new Array<number>(components).fill(0),
+    characteristic: 0,
+  };
   parameters.forEach((p, i) => {
     const v = values[i]!;
     switch (p) {

@@ -12,7 +12,14 @@ import { photoZIsExact } from './photo-z.js';
 export function populationByName(survey: Survey, name?: string, option = '--population'): Population {
   const first = survey.populations[0];
   if (name === undefined) {
-    if (!first) throw inputError('bad_option', survey.file, option, 'the survey has no population', 'add a population to the survey file');
+    if (!first)
+      throw inputError(
+        'bad_option',
+        survey.file,
+        option,
+        'the survey has no population',
+        'add a population to the survey file',
+      );
     return first;
   }
   const found = survey.populations.find((p) => p.name === name);
@@ -30,7 +37,8 @@ export function populationByName(survey: Survey, name?: string, option = '--popu
  */
 export function surveyForPopulation(survey: Survey, population: Population): Survey {
   if (survey.populations.length === 1 && survey.populations[0] === population) return survey;
-  if (!survey.populations.includes(population)) throw new Error(`internal: "${population.name}" is not a population of this survey`);
+  if (!survey.populations.includes(population))
+    throw new Error(`internal: "${population.name}" is not a population of this survey`);
   const edges = population.sliceEdges;
   return {
     ...survey,

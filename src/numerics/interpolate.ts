@@ -223,7 +223,7 @@ export function splineEval(s: UniformSpline, x: number): number {
 export function splineDerivative(s: UniformSpline, x: number): number {
   const { i, t } = splineInterval(s, x);
   const u = 1 - t;
-  return (s.y[i + 1]! - s.y[i]!) / s.dx + ((-(3 * u * u - 1)) * s.m[i]! + (3 * t * t - 1) * s.m[i + 1]!) * (s.dx / 6);
+  return (s.y[i + 1]! - s.y[i]!) / s.dx + (-(3 * u * u - 1) * s.m[i]! + (3 * t * t - 1) * s.m[i + 1]!) * (s.dx / 6);
 }
 
 /**

@@ -50,7 +50,10 @@ function limitOf(survey: Survey, p: Population): { limit: number | string; varia
   if (d.kind === 'magnitude') return { limit: d.limitMag, variable: 'apparent_magnitude' };
   if (d.kind === 'line_flux') return { limit: d.limitCgs, variable: 'line_flux_cgs' };
   const src = d.limit.source;
-  return { limit: typeof src === 'number' ? src : d.limit.constant ? d.limit.at(0) : JSON.stringify(src), variable: p.variable === 'luminosity' ? 'log10_quantity' : 'absolute_magnitude' };
+  return {
+    limit: typeof src === 'number' ? src : d.limit.constant ? d.limit.at(0) : JSON.stringify(src),
+    variable: p.variable === 'luminosity' ? 'log10_quantity' : 'absolute_magnitude',
+  };
 }
 
 /** Count of `population` fainter than L* (or M*) in the survey as it stands. */
@@ -114,18 +117,40 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
     if (row === 'limit') {
       const kinds = new Set(out.map((s) => s.limit_variable));
       if (kinds.size === 1 && out.every((s) => typeof s.limit === 'number')) {
-        pick('limit', out.map((s) => depthOf(s.limit_variable, s.limit as number)), true);
-      } else if (out.length > 1) notes.push('The limits are of different kinds (or vary with redshift), so no limit is marked best.');
+        pick(
+          'limit',
+          out.map((s) => depthOf(s.limit_variable, s.limit as number)),
+          true,
+        );
+      } else if (out.length > 1)
+        notes.push('The limits are of different kinds (or vary with redshift), so no limit is marked best.');
       continue;
     }
-    pick(row, out.map((s) => (s as unknown as Record<string, number | undefined>)[row]), better === 'higher');
+    pick(
+      row,
+      out.map((s) => (s as unknown as Record<string, number | undefined>)[row]),
+      better === 'higher',
+    );
   }
   const sigmaNames = [...new Set(out.flatMap((s) => Object.keys(s.sigma)))];
-  for (const n of sigmaNames) pick(`sigma.${n}`, out.map((s) => s.sigma[n]), false);
+  for (const n of sigmaNames)
+    pick(
+      `sigma.${n}`,
+      out.map((s) => s.sigma[n]),
+      false,
+    );
   if (out.some((s) => s.exposure_hours === undefined) && out.some((s) => s.exposure_hours !== undefined)) {
     notes.push('Some files give no exposure, so their cost is not shown.');
   }
-  return { format: 1, cosmic_variance: useCv, caveat: COMPARE_CAVEAT, surveys: out, best, notes, warnings: mergeWarnings(...warnings) };
+  return {
+    format: 1,
+    cosmic_variance: useCv,
+    caveat: COMPARE_CAVEAT,
+    surveys: out,
+    best,
+    notes,
+    warnings: mergeWarnings(...warnings),
+  };
 }
 
 /** Indices of the best of `values` (highest or lowest), every one that ties with it (TIE_RELATIVE). */
@@ -139,7 +164,8 @@ export function bestIndices(values: readonly (number | undefined)[], higher: boo
   const t = top;
   const out: number[] = [];
   values.forEach((v, i) => {
-    if (v !== undefined && Number.isFinite(v) && Math.abs(v - t) <= TIE_RELATIVE * Math.max(Math.abs(v), Math.abs(t))) out.push(i);
+    if (v !== undefined && Number.isFinite(v) && Math.abs(v - t) <= TIE_RELATIVE * Math.max(Math.abs(v), Math.abs(t)))
+      out.push(i);
   });
   return out;
 }

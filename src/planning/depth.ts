@@ -42,7 +42,6 @@ export interface DepthModel {
   depthRange(h0: number, h1: number): { shallowest: number; deepest: number };
 }
 
-
 /** Whole frames of an exposure of `hours` (at least one; a hair's tolerance so that 1.0 / 0.5 is 2 frames). */
 export function frameCount(hours: number, frameHours: number): number {
   return Math.max(1, Math.ceil(hours / frameHours - 1e-9));
@@ -101,7 +100,14 @@ export function makeDepthModel(limitKind: LimitKind, law: DepthLaw): DepthModel 
       const f = (d - ld[i]!) / (ld[i + 1]! - ld[i]!);
       return 10 ** (lx[i]! + f * (lx[i + 1]! - lx[i]!));
     };
-    return { limitKind, law, depthAt, limitAt: (h) => limitOfDepth(limitKind, depthAt(h)), hoursFor, depthRange: (h0, h1) => ({ shallowest: depthAt(h0), deepest: depthAt(h1) }) };
+    return {
+      limitKind,
+      law,
+      depthAt,
+      limitAt: (h) => limitOfDepth(limitKind, depthAt(h)),
+      hoursFor,
+      depthRange: (h0, h1) => ({ shallowest: depthAt(h0), deepest: depthAt(h1) }),
+    };
   }
   if (law.kind === 'noise') return noiseDepthModel(limitKind, law);
   const k = depthPerDecade(limitKind, law.kind);
@@ -123,7 +129,8 @@ function noiseDepthModel(limitKind: LimitKind, law: Extract<DepthLaw, { kind: 'n
   // Depth per dex of flux: 2.5 mag, or 1 for -log10 flux.
   const c = limitKind === 'magnitude' ? 2.5 : 1;
   const d0 = depthOfLimit(limitKind, law.referenceLimit);
-  const depthWith = (hours: number, frames: number): number => d0 - c * Math.log10(noiseFluxRatio(hours / t0, frames / n0, rs, rr));
+  const depthWith = (hours: number, frames: number): number =>
+    d0 - c * Math.log10(noiseFluxRatio(hours / t0, frames / n0, rs, rr));
   const depthAt = (hours: number): number => depthWith(hours, frameCount(hours, tf));
   const hoursFor = (limit: number): number => {
     const x = 10 ** (-(depthOfLimit(limitKind, limit) - d0) / c);

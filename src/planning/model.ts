@@ -88,7 +88,12 @@ export function surveyAtLimit(survey: Survey, limit: number, areaDeg2 = survey.a
   return { ...base, detection: det };
 }
 
-function splineWithMargin(x0: number, x1: number, step: number, f: (x: number) => number): Interpolant | ((x: number) => number) {
+function splineWithMargin(
+  x0: number,
+  x1: number,
+  step: number,
+  f: (x: number) => number,
+): Interpolant | ((x: number) => number) {
   if (!(x1 - x0 > 1e-9)) {
     const v = f(x0);
     return () => v;
@@ -122,7 +127,10 @@ export async function buildDesignModel(
   const grid = buildDensityGrid(ref, population, cosmo, ref.sliceEdges);
   const work = knotCount(maxDelta) * grid.pointT.length;
   const workers = opts.workers ?? (work > WORKER_WORK_THRESHOLD ? Math.max(1, Math.min(4, availableParallelism())) : 1);
-  const tables = await tabulateDepth(grid, maxDelta, { workers, ...(opts.onProgress ? { onProgress: opts.onProgress } : {}) });
+  const tables = await tabulateDepth(grid, maxDelta, {
+    workers,
+    ...(opts.onProgress ? { onProgress: opts.onProgress } : {}),
+  });
   const nS = sliceCount(grid);
   const edges = ref.sliceEdges;
   const useCv = opts.cosmicVariance !== false;
@@ -202,7 +210,15 @@ export async function buildDesignModel(
     matrix[2]![0] = matrix[0]![2]!;
     matrix[2]![1] = matrix[1]![2]!;
     const fisher = useCv ? marginaliseNormalisations(matrix, slices, fractions) : matrix;
-    return { hours, pointings, areaDeg2, limit: depth.limitAt(hours), count, faintCount: Math.max(0, Math.min(faint, count)), fisher };
+    return {
+      hours,
+      pointings,
+      areaDeg2,
+      limit: depth.limitAt(hours),
+      count,
+      faintCount: Math.max(0, Math.min(faint, count)),
+      fisher,
+    };
   };
 
   return {
@@ -227,6 +243,12 @@ export function sigmasOf(fisher: number[][]): number[] | undefined {
 export function assertCounts(model: DesignModel, file: string): void {
   const v = model.tier(model.hoursRange[1], 1);
   if (!(v.count > 0)) {
-    throw inputError('no_sources', file, 'plan', `no source of "${model.population.name}" is expected even at the deepest exposure of the grid`, 'check the population, the window and plan.reference');
+    throw inputError(
+      'no_sources',
+      file,
+      'plan',
+      `no source of "${model.population.name}" is expected even at the deepest exposure of the grid`,
+      'check the population, the window and plan.reference',
+    );
   }
 }

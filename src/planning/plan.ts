@@ -14,7 +14,18 @@ import { parameterNames } from '../model/population.js';
 import { frameCount, makeDepthModel } from './depth.js';
 import { precise } from '../render/format.js';
 import { assertCounts, buildDesignModel, sigmasOf, type DesignModel } from './model.js';
-import { combine, logGrid, maximises, nearBest, pointingsFor, searchSingleTier, searchTiers, NEAR_BEST_TOLERANCE, type Budget, type Evaluated } from './search.js';
+import {
+  combine,
+  logGrid,
+  maximises,
+  nearBest,
+  pointingsFor,
+  searchSingleTier,
+  searchTiers,
+  NEAR_BEST_TOLERANCE,
+  type Budget,
+  type Evaluated,
+} from './search.js';
 import { warning, mergeWarnings, type Warning } from '../warnings.js';
 import { surveyWarnings } from '../population/warnings.js';
 import { predictionWarnings } from '../counts/predict.js';
@@ -22,7 +33,6 @@ import { refuseScatteredRedshifts, surveyForPopulation } from '../model/select.j
 
 export const PLAN_CAVEAT =
   'A plan is only as good as the luminosity function assumed: the counts and uncertainties hold if the population follows the model given; a different faint-end slope or knee changes which design is best.';
-
 
 export interface PlanOptions {
   population?: string;
@@ -75,17 +85,27 @@ function designJson(e: Evaluated, names: string[], goal: PlanSpec['goal']): Plan
  * The designs of `spec` for `population` of the survey `file` (a single Schechter population:
  * see choosePopulation in src/forecast/forecast.ts).
  */
-export async function planDesigns(file: Survey, population: Population, spec: PlanSpec, opts: PlanOptions = {}): Promise<Plan> {
+export async function planDesigns(
+  file: Survey,
+  population: Population,
+  spec: PlanSpec,
+  opts: PlanOptions = {},
+): Promise<Plan> {
   refuseScatteredRedshifts(file);
   // The population's own window and slices, as a file holding it alone.
   const survey = surveyForPopulation(file, population);
   const depth = makeDepthModel(spec.limitKind, spec.depthLaw);
   const names: string[] = parameterNames(population);
   const parameterIndex = spec.goal.kind === 'sigma' ? names.indexOf(spec.goal.parameter) : 0;
-  const budget: Budget = { budgetHours: spec.budgetHours, overheadHours: spec.overheadHours, minimumCount: spec.minimumCount };
+  const budget: Budget = {
+    budgetHours: spec.budgetHours,
+    overheadHours: spec.overheadHours,
+    minimumCount: spec.minimumCount,
+  };
   const useCv = opts.cosmicVariance !== false;
   const workers = opts.workers;
-  const progress = (stage: string) => (opts.onProgress ? (d: number, t: number) => opts.onProgress!(stage, d, t) : undefined);
+  const progress = (stage: string) =>
+    opts.onProgress ? (d: number, t: number) => opts.onProgress!(stage, d, t) : undefined;
   const notes: string[] = [];
 
   // The exposures the plan can use, and the pointings they give.
@@ -95,14 +115,24 @@ export async function planDesigns(file: Survey, population: Population, spec: Pl
     if ('areaDeg2' in spec.fixed) {
       const p = Math.ceil(spec.fixed.areaDeg2 / spec.fieldOfViewDeg2 - 1e-9);
       fixedDesign = { hours: spec.budgetHours / p - spec.overheadHours, pointings: p };
-      notes.push(`The area is fixed: ${p} whole pointings cover at least ${spec.fixed.areaDeg2} deg^2, each exposed for the rest of the budget.`);
+      notes.push(
+        `The area is fixed: ${p} whole pointings cover at least ${spec.fixed.areaDeg2} deg^2, each exposed for the rest of the budget.`,
+      );
     } else {
       const h = depth.hoursFor(spec.fixed.limit);
       if (!(h > 0) || !Number.isFinite(h) || h + spec.overheadHours > spec.budgetHours) {
-        throw inputError('out_of_range', survey.file, 'plan.fixed.limit', `needs ${h.toPrecision(4)} h per pointing, more than budget_hours (${spec.budgetHours} h) allows for one pointing`, 'choose a brighter limit or raise budget_hours');
+        throw inputError(
+          'out_of_range',
+          survey.file,
+          'plan.fixed.limit',
+          `needs ${h.toPrecision(4)} h per pointing, more than budget_hours (${spec.budgetHours} h) allows for one pointing`,
+          'choose a brighter limit or raise budget_hours',
+        );
       }
       fixedDesign = { hours: h, pointings: 0 };
-      notes.push(`The limit is fixed: ${h.toPrecision(4)} h per pointing reaches it; the budget buys as many whole pointings as fit.`);
+      notes.push(
+        `The limit is fixed: ${h.toPrecision(4)} h per pointing reaches it; the budget buys as many whole pointings as fit.`,
+      );
     }
     exposures = [fixedDesign.hours];
   } else {
@@ -111,7 +141,7 @@ export async function planDesigns(file: Survey, population: Population, spec: Pl
   const hMin = exposures[0]!;
   const hMax = exposures[exposures.length - 1]!;
   const maxP = Math.max(1, Math.floor(spec.budgetHours / (hMin + spec.overheadHours) + 1e-9));
-  const minP = Math.max(1, Math.floor((spec.budgetHours / spec.tiers) * 0.1 / (hMax + spec.overheadHours)));
+  const minP = Math.max(1, Math.floor(((spec.budgetHours / spec.tiers) * 0.1) / (hMax + spec.overheadHours)));
 
   const model: DesignModel = await buildDesignModel(
     survey,
@@ -119,7 +149,11 @@ export async function planDesigns(file: Survey, population: Population, spec: Pl
     { ...spec, depth },
     [hMin, hMax],
     [Math.min(minP, maxP), maxP],
-    { cosmicVariance: useCv, ...(workers ? { workers } : {}), ...(progress('depth tables') ? { onProgress: progress('depth tables')! } : {}) },
+    {
+      cosmicVariance: useCv,
+      ...(workers ? { workers } : {}),
+      ...(progress('depth tables') ? { onProgress: progress('depth tables')! } : {}),
+    },
   );
   assertCounts(model, survey.file);
 
@@ -130,7 +164,10 @@ export async function planDesigns(file: Survey, population: Population, spec: Pl
   let improved = false;
   let method: string;
   if (fixedDesign) {
-    const p = fixedDesign.pointings > 0 ? Math.min(model.maxPointings, fixedDesign.pointings) : pointingsFor(model, spec.budgetHours, fixedDesign.hours, spec.overheadHours);
+    const p =
+      fixedDesign.pointings > 0
+        ? Math.min(model.maxPointings, fixedDesign.pointings)
+        : pointingsFor(model, spec.budgetHours, fixedDesign.hours, spec.overheadHours);
     const e = combine(spec.goal, parameterIndex, budget, [model.tier(fixedDesign.hours, p)], [1]);
     designs = [e];
     best = gridBest = e;
@@ -143,20 +180,26 @@ export async function planDesigns(file: Survey, population: Population, spec: Pl
     improved = single.refined;
     designs = single.designs;
     neighbours = single.designs.slice(Math.max(0, single.gridBestIndex - 2), single.gridBestIndex + 3);
-    method = 'log-spaced grid of exposure per pointing, then golden-section search on the number of pointings (each exposed for the whole remaining budget) between the grid neighbours of the best, whole pointings enforced';
+    method =
+      'log-spaced grid of exposure per pointing, then golden-section search on the number of pointings (each exposed for the whole remaining budget) between the grid neighbours of the best, whole pointings enforced';
     if (spec.tiers > 1) {
       const tiered = searchTiers(model, spec.goal, parameterIndex, budget, exposures, spec.tiers, progress('tiers'));
       method += `; ${spec.tiers} tiers: every split of the budget in tenths, coordinate descent over each tier's grid exposure`;
       designs = tiered.designs;
       neighbours = [];
       const singleBest = best;
-      const tb = tiered.designs.reduce<Evaluated | undefined>((a, d) => (d.feasible && (!a || (maximises(spec.goal) ? d.goal! > a.goal! : d.goal! < a.goal!)) ? d : a), undefined);
+      const tb = tiered.designs.reduce<Evaluated | undefined>(
+        (a, d) => (d.feasible && (!a || (maximises(spec.goal) ? d.goal! > a.goal! : d.goal! < a.goal!)) ? d : a),
+        undefined,
+      );
       if (tb && (maximises(spec.goal) ? tb.goal! > singleBest.goal! : tb.goal! < singleBest.goal!)) {
         best = tb;
         gridBest = tb;
         improved = false;
       } else {
-        notes.push(`No split into ${spec.tiers} tiers beats the best single-tier design for this goal, so the best design is a single tier.`);
+        notes.push(
+          `No split into ${spec.tiers} tiers beats the best single-tier design for this goal, so the best design is a single tier.`,
+        );
         designs = [...tiered.designs, singleBest];
       }
     }
@@ -182,7 +225,10 @@ export async function planDesigns(file: Survey, population: Population, spec: Pl
   }
   if (spec.minimumCount > 0) {
     const excluded = designs.filter((d) => d.goal !== undefined && !d.feasible).length;
-    if (excluded > 0) notes.push(`${excluded} designs expect fewer than minimum_count (${spec.minimumCount}) sources and cannot be the best.`);
+    if (excluded > 0)
+      notes.push(
+        `${excluded} designs expect fewer than minimum_count (${spec.minimumCount}) sources and cannot be the best.`,
+      );
   }
   if (designs.some((d) => d.tiers.some((t) => t.areaDeg2 >= model.maxPointings * spec.fieldOfViewDeg2 - 1e-9))) {
     notes.push('Some designs reach the whole sky; their pointings are capped there.');
@@ -222,12 +268,19 @@ export async function planDesigns(file: Survey, population: Population, spec: Pl
     designs: designs.filter((d) => d.goal !== undefined).map((d) => designJson(d, names, spec.goal)),
     best: designJson(best, names, spec.goal),
     neighbours: neighbours.filter((d) => d.goal !== undefined).map((d) => designJson(d, names, spec.goal)),
-    near_best: { tolerance: NEAR_BEST_TOLERANCE, from: designJson(from, names, spec.goal), to: designJson(to, names, spec.goal), designs_within: within.length, contiguous },
+    near_best: {
+      tolerance: NEAR_BEST_TOLERANCE,
+      from: designJson(from, names, spec.goal),
+      to: designJson(to, names, spec.goal),
+      designs_within: within.length,
+      contiguous,
+    },
     refinement: { method, grid_best: designJson(gridBest, names, spec.goal), improved },
     notes,
     warnings: mergeWarnings(surveyWarnings(survey), predictionWarnings(survey, [population]), edge ? [edge] : []),
   };
-  if (spec.fixed) out.fixed = 'areaDeg2' in spec.fixed ? { area_deg2: spec.fixed.areaDeg2 } : { limit: spec.fixed.limit };
+  if (spec.fixed)
+    out.fixed = 'areaDeg2' in spec.fixed ? { area_deg2: spec.fixed.areaDeg2 } : { limit: spec.fixed.limit };
   if (spec.tiers > 1) out.budget_fractions = designs.filter((d) => d.tiers.length > 1).map((d) => d.fractions);
   return out;
 }
@@ -246,7 +299,10 @@ export function gridEdgeWarning(best: Evaluated, exposures: readonly number[], s
     const end = t.hours < low ? 'shortest' : t.hours > high ? 'longest' : undefined;
     if (!end) continue;
     const layer = best.tiers.length > 1 ? 'a layer of the best design uses' : 'the best design uses';
-    const widen = end === 'shortest' ? `a smaller exposure_grid.min_hours than ${fmt(spec.grid.minHours)}` : `a larger exposure_grid.max_hours than ${fmt(spec.grid.maxHours)}`;
+    const widen =
+      end === 'shortest'
+        ? `a smaller exposure_grid.min_hours than ${fmt(spec.grid.minHours)}`
+        : `a larger exposure_grid.max_hours than ${fmt(spec.grid.maxHours)}`;
     return warning(
       'optimum_at_grid_edge',
       `${layer} ${fmt(t.hours)} h per pointing, at the ${end} end of the exposure grid (${fmt(spec.grid.minHours)} to ${fmt(spec.grid.maxHours)} h): a better design may lie beyond it; plan again with ${widen}`,
@@ -258,7 +314,19 @@ export function gridEdgeWarning(best: Evaluated, exposures: readonly number[], s
 function noFeasible(survey: Survey, spec: PlanSpec, designs: Evaluated[]): Error {
   const most = designs.reduce((a, d) => Math.max(a, d.count), 0);
   if (spec.minimumCount > 0 && most < spec.minimumCount) {
-    return inputError('out_of_range', survey.file, 'plan.minimum_count', `is ${spec.minimumCount} but no design expects that many sources (the most is ${most.toPrecision(4)})`, 'lower minimum_count or raise budget_hours');
+    return inputError(
+      'out_of_range',
+      survey.file,
+      'plan.minimum_count',
+      `is ${spec.minimumCount} but no design expects that many sources (the most is ${most.toPrecision(4)})`,
+      'lower minimum_count or raise budget_hours',
+    );
   }
-  return inputError('singular_fisher', survey.file, 'plan.goal', 'cannot be computed for any design (too few sources for a Fisher matrix)', 'raise budget_hours or choose the count goal');
+  return inputError(
+    'singular_fisher',
+    survey.file,
+    'plan.goal',
+    'cannot be computed for any design (too few sources for a Fisher matrix)',
+    'raise budget_hours or choose the count goal',
+  );
 }

@@ -44,7 +44,9 @@ export function better(goal: PlanGoal, a: number, b: number): boolean {
 export function sigma3(f: number[][], j: number): number | undefined {
   const [a, b, c] = f as [number[], number[], number[]];
   const det =
-    a[0]! * (b[1]! * c[2]! - b[2]! * c[1]!) - a[1]! * (b[0]! * c[2]! - b[2]! * c[0]!) + a[2]! * (b[0]! * c[1]! - b[1]! * c[0]!);
+    a[0]! * (b[1]! * c[2]! - b[2]! * c[1]!) -
+    a[1]! * (b[0]! * c[2]! - b[2]! * c[0]!) +
+    a[2]! * (b[0]! * c[1]! - b[1]! * c[0]!);
   const i1 = j === 0 ? 1 : 0;
   const i2 = j === 2 ? 1 : 2;
   const cof = f[i1]![i1]! * f[i2]![i2]! - f[i1]![i2]! * f[i2]![i1]!;
@@ -52,7 +54,14 @@ export function sigma3(f: number[][], j: number): number | undefined {
   return v > 0 && Number.isFinite(v) ? Math.sqrt(v) : undefined;
 }
 
-export function goalOf(goal: PlanGoal, parameterIndex: number, count: number, faint: number, fisher: number[][], exact: boolean): number | undefined {
+export function goalOf(
+  goal: PlanGoal,
+  parameterIndex: number,
+  count: number,
+  faint: number,
+  fisher: number[][],
+  exact: boolean,
+): number | undefined {
   if (goal.kind === 'count') return count;
   if (goal.kind === 'faint_count') return faint;
   if (!(count > 0)) return undefined;
@@ -60,7 +69,14 @@ export function goalOf(goal: PlanGoal, parameterIndex: number, count: number, fa
   return sigma3(fisher, parameterIndex);
 }
 
-export function combine(goal: PlanGoal, parameterIndex: number, budget: Budget, tiers: TierValue[], fractions: number[], exact = true): Evaluated {
+export function combine(
+  goal: PlanGoal,
+  parameterIndex: number,
+  budget: Budget,
+  tiers: TierValue[],
+  fractions: number[],
+  exact = true,
+): Evaluated {
   let count = 0;
   let faint = 0;
   let hours = 0;
@@ -77,14 +93,24 @@ export function combine(goal: PlanGoal, parameterIndex: number, budget: Budget, 
   }
   const g = goalOf(goal, parameterIndex, count, faint, fisher, exact);
   const ok = g !== undefined && Number.isFinite(g);
-  return { tiers, fractions, count, faintCount: faint, fisher, goal: ok ? g : undefined, feasible: ok && count >= budget.minimumCount, hoursUsed: hours };
+  return {
+    tiers,
+    fractions,
+    count,
+    faintCount: faint,
+    fisher,
+    goal: ok ? g : undefined,
+    feasible: ok && count >= budget.minimumCount,
+    hoursUsed: hours,
+  };
 }
 
 export function logGrid(minHours: number, maxHours: number, count: number): number[] {
   const out: number[] = [];
   const l0 = Math.log(minHours);
   const l1 = Math.log(maxHours);
-  for (let i = 0; i < count; i++) out.push(i === count - 1 ? maxHours : i === 0 ? minHours : Math.exp(l0 + ((l1 - l0) * i) / (count - 1)));
+  for (let i = 0; i < count; i++)
+    out.push(i === count - 1 ? maxHours : i === 0 ? minHours : Math.exp(l0 + ((l1 - l0) * i) / (count - 1)));
   return out;
 }
 
@@ -172,7 +198,8 @@ export function searchSingleTier(
   }
   // Whole pointings: the whole numbers around the continuous optimum and the grid best's own.
   const candidates = new Set<number>();
-  for (const base of [Math.floor(pStar), pOf(best)]) for (let k = -1; k <= 2; k++) if (base + k >= 1 && base + k <= model.maxPointings) candidates.add(base + k);
+  for (const base of [Math.floor(pStar), pOf(best)])
+    for (let k = -1; k <= 2; k++) if (base + k >= 1 && base + k <= model.maxPointings) candidates.add(base + k);
   let refined = false;
   for (const p of [...candidates].sort((x, y) => x - y)) {
     const e = evalP(p);
@@ -309,7 +336,9 @@ export function nearBest(goal: PlanGoal, designs: Evaluated[], bestValue: number
   const out: number[] = [];
   designs.forEach((d, i) => {
     if (!d.feasible) return;
-    const ok = maximises(goal) ? d.goal! >= (1 - NEAR_BEST_TOLERANCE) * bestValue : d.goal! <= (1 + NEAR_BEST_TOLERANCE) * bestValue;
+    const ok = maximises(goal)
+      ? d.goal! >= (1 - NEAR_BEST_TOLERANCE) * bestValue
+      : d.goal! <= (1 + NEAR_BEST_TOLERANCE) * bestValue;
     if (ok) out.push(i);
   });
   return out;

@@ -57,8 +57,18 @@ export function knotValues(grid: DensityGrid, delta: number, out: Float64Array, 
   const { pointT, pointExpT, pointLogW, pointA1, nodePointStart, sliceNodeStart } = grid;
   const nS = sliceCount(grid);
   for (let sl = 0; sl < nS; sl++) {
-    let n = 0, bc = 0, ba = 0, fcc = 0, fca = 0, faa = 0;
-    let dn = 0, dbc = 0, dba = 0, dfcc = 0, dfca = 0, dfaa = 0;
+    let n = 0,
+      bc = 0,
+      ba = 0,
+      fcc = 0,
+      fca = 0,
+      faa = 0;
+    let dn = 0,
+      dbc = 0,
+      dba = 0,
+      dfcc = 0,
+      dfca = 0,
+      dfaa = 0;
     const q0 = nodePointStart[sliceNodeStart[sl]!]!;
     const q1 = nodePointStart[sliceNodeStart[sl + 1]!]!;
     for (let q = q0; q < q1; q++) {
@@ -113,7 +123,10 @@ export function faintCount(grid: DensityGrid, sl: number, delta: number): { coun
   const cfn = comp ? completenessFunction(comp, grid.kind, grid.variable) : undefined;
   const breaks = comp ? completenessBreaks(comp, grid.kind) : undefined;
   const slope = grid.slope;
-  const maxStep = Math.min(MAX_PANEL, breaks && Number.isFinite(breaks.scale) ? (breaks.scale * LN10) / Math.abs(slope) : MAX_PANEL);
+  const maxStep = Math.min(
+    MAX_PANEL,
+    breaks && Number.isFinite(breaks.scale) ? (breaks.scale * LN10) / Math.abs(slope) : MAX_PANEL,
+  );
   let count = 0;
   let derivative = 0;
   const upper = -delta;

@@ -21,8 +21,13 @@ const fmt = (x: number): string => compact(x, 4);
 function restFrameWords(survey: Survey, p: Population): string {
   if (survey.detection.kind !== 'magnitude') return '';
   const b = p.restBand;
-  if (b) return b.table ? ` in the rest band ${b.table.file}` : ` in a rest-frame ${b.profile} band at ${fmt(b.centerAngstrom)} A (fwhm ${fmt(b.fwhmAngstrom)} A)`;
-  return survey.detection.sed ? ` at rest ${fmt(p.restWavelengthAngstrom)} A, k-corrected with the spectrum ${survey.detection.sed.spectrum.file}` : '';
+  if (b)
+    return b.table
+      ? ` in the rest band ${b.table.file}`
+      : ` in a rest-frame ${b.profile} band at ${fmt(b.centerAngstrom)} A (fwhm ${fmt(b.fwhmAngstrom)} A)`;
+  return survey.detection.sed
+    ? ` at rest ${fmt(p.restWavelengthAngstrom)} A, k-corrected with the spectrum ${survey.detection.sed.spectrum.file}`
+    : '';
 }
 
 export function describeModel(survey: Survey, p: Population): ModelDescription {
@@ -39,7 +44,10 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
   };
   if (p.quantity) d.quantity = p.quantity;
   if (p.components.length > 1) {
-    d.components = p.components.map((c) => ({ phi_star_mpc3: parameterAt(c.phiStar, zMid), alpha: parameterAt(c.alpha, zMid) }));
+    d.components = p.components.map((c) => ({
+      phi_star_mpc3: parameterAt(c.phiStar, zMid),
+      alpha: parameterAt(c.alpha, zMid),
+    }));
   }
   if (p.sfrConversion) {
     const eq: Record<string, string> = {
@@ -48,7 +56,11 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
       uv: 'Kennicutt 1998 (ARA&A 36, 189), UV continuum',
       factor: 'given in the survey file',
     };
-    d.sfr_conversion = { name: p.sfrConversion.name, factor: p.sfrConversion.factor, source: eq[p.sfrConversion.name]! };
+    d.sfr_conversion = {
+      name: p.sfrConversion.name,
+      factor: p.sfrConversion.factor,
+      source: eq[p.sfrConversion.name]!,
+    };
   }
   if (p.lStar) d.l_star = parameterAt(p.lStar, zMid);
   if (p.mStar) d.m_star = parameterAt(p.mStar, zMid);
@@ -57,23 +69,32 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
   if (det.kind === 'magnitude') {
     d.rest_wavelength_angstrom = p.restWavelengthAngstrom;
     if (p.restBand) {
-      d.rest_band = { profile: p.restBand.profile, center_angstrom: p.restBand.centerAngstrom, fwhm_angstrom: p.restBand.fwhmAngstrom };
+      d.rest_band = {
+        profile: p.restBand.profile,
+        center_angstrom: p.restBand.centerAngstrom,
+        fwhm_angstrom: p.restBand.fwhmAngstrom,
+      };
       if (p.restBand.table) d.rest_band.file = p.restBand.table.file;
     }
-    d.k_correction = det.sed ? { method: 'spectrum', spectrum_file: det.sed.spectrum.file } : { method: 'power_law', beta: det.beta };
+    d.k_correction = det.sed
+      ? { method: 'spectrum', spectrum_file: det.sed.spectrum.file }
+      : { method: 'power_law', beta: det.beta };
   }
   if (p.variable === 'magnitude') {
     d.magnitude_system = { stated: 'ab', m_star_given: p.magnitudeSystem?.system ?? 'ab' };
     if (p.magnitudeSystem) d.magnitude_system.vega_to_ab = p.magnitudeSystem.vegaToAb;
   }
-  const evolving = p.components.some((c) => !c.phiStar.constant || !c.alpha.constant) || !(p.lStar ?? p.mStar)!.constant;
+  const evolving =
+    p.components.some((c) => !c.phiStar.constant || !c.alpha.constant) || !(p.lStar ?? p.mStar)!.constant;
   const knee =
     p.variable === 'luminosity'
       ? `L* = ${fmt(p.lStar!.at(zMid))}${survey.detection.kind === 'threshold' ? (p.quantity ? ` (${p.quantity})` : '') : ' erg/s'}`
       : `M* = ${fmt(p.mStar!.at(zMid))} AB${p.magnitudeSystem ? ` (given in Vega, AB = Vega ${p.magnitudeSystem.vegaToAb < 0 ? '-' : '+'} ${fmt(Math.abs(p.magnitudeSystem.vegaToAb))})` : ''}${restFrameWords(survey, p)}`;
   const tail = evolving ? ` (evolving; values at z = ${fmt(zMid)})` : '';
   if (p.components.length > 1) {
-    const parts = p.components.map((c, i) => `phi${i + 1}* = ${fmt(c.phiStar.at(zMid))} Mpc^-3, alpha${i + 1} = ${fmt(c.alpha.at(zMid))}`);
+    const parts = p.components.map(
+      (c, i) => `phi${i + 1}* = ${fmt(c.phiStar.at(zMid))} Mpc^-3, alpha${i + 1} = ${fmt(c.alpha.at(zMid))}`,
+    );
     d.summary = `${p.name}: double Schechter function in ${p.variable}, ${knee}; ${parts.join('; ')}${tail}`;
   } else {
     d.summary =
@@ -88,9 +109,18 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
 /** The selection effects in words for the summary line ('' without any, so plain summaries are unchanged). */
 function selectionWords(s: ModelDescription['selection']): string {
   const parts: string[] = [];
-  if (s.redshift_selection) parts.push(`redshift selection ${fmt(s.redshift_selection.fraction.at_window_middle)} kept (from the ${s.redshift_selection.from})`);
+  if (s.redshift_selection)
+    parts.push(
+      `redshift selection ${fmt(s.redshift_selection.fraction.at_window_middle)} kept (from the ${s.redshift_selection.from})`,
+    );
   if (s.blend_ratio !== undefined) parts.push(`blended lines add ${fmt(s.blend_ratio)} of the line flux`);
-  if (s.attenuation_mag) parts.push(`attenuation ${fmt(s.attenuation_mag.at_window_middle)} mag applied (the luminosity function is intrinsic)`);
-  if (s.equivalent_width_cut) parts.push(`${s.equivalent_width_cut.frame}-frame equivalent width >= ${fmt(s.equivalent_width_cut.width_angstrom)} A keeps ${fmt(s.equivalent_width_cut.kept_at_window_middle)}`);
+  if (s.attenuation_mag)
+    parts.push(
+      `attenuation ${fmt(s.attenuation_mag.at_window_middle)} mag applied (the luminosity function is intrinsic)`,
+    );
+  if (s.equivalent_width_cut)
+    parts.push(
+      `${s.equivalent_width_cut.frame}-frame equivalent width >= ${fmt(s.equivalent_width_cut.width_angstrom)} A keeps ${fmt(s.equivalent_width_cut.kept_at_window_middle)}`,
+    );
   return parts.length ? `${parts.join(', ')} (at the window's middle)` : '';
 }

@@ -49,5 +49,7 @@ const FOUR_PI_10PC_CM2 = 4 * Math.PI * (10 * PC_CM) ** 2;
  * (the AB zero point of Oke & Gunn 1983).
  */
 export function luminosityScale(variable: Population['variable'], characteristic: number): number {
-  return variable === 'luminosity' ? characteristic : FOUR_PI_10PC_CM2 * 10 ** (-0.4 * (characteristic + AB_ZERO_POINT));
+  return variable === 'luminosity'
+    ? characteristic
+    : FOUR_PI_10PC_CM2 * 10 ** (-0.4 * (characteristic + AB_ZERO_POINT));
 }

@@ -84,7 +84,12 @@ export function doubleSchechterLuminosity(
  * Double Schechter function in absolute magnitude, Mpc^-3 mag^-1, u = 10^(0.4 (M*-M)):
  *   phi(M) dM = 0.4 ln10 exp(-u) [phi1* u^(alpha1+1) + phi2* u^(alpha2+1)] dM.
  */
-export function doubleSchechterMagnitude(m: number, mStar: number, c1: SchechterComponent, c2: SchechterComponent): number {
+export function doubleSchechterMagnitude(
+  m: number,
+  mStar: number,
+  c1: SchechterComponent,
+  c2: SchechterComponent,
+): number {
   const u = 10 ** (0.4 * (mStar - m));
   return 0.4 * Math.LN10 * Math.exp(-u) * (c1.phiStar * u ** (c1.alpha + 1) + c2.phiStar * u ** (c2.alpha + 1));
 }

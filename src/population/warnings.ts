@@ -47,19 +47,25 @@ export function luminosityWarnings(survey: Survey): Warning[] {
           warning(
             'implausible_luminosity',
             `${p.name}: L* = ${fmt(low.v)} erg/s at z = ${fmt(low.z)} is far below any galaxy's luminosity (under ${expText(MIN_PLAUSIBLE_LUMINOSITY_ERG_S)} erg/s), so almost nothing is detected` +
-              (asLog ? `; it looks like a log10: write log10_l_star: ${fmt(low.v)} (or l_star: ${expText(10 ** low.v)})` : '; give l_star in erg/s or log10_l_star'),
+              (asLog
+                ? `; it looks like a log10: write log10_l_star: ${fmt(low.v)} (or l_star: ${expText(10 ** low.v)})`
+                : '; give l_star in erg/s or log10_l_star'),
           ),
         );
       }
     }
     if (p.variable === 'magnitude' && p.mStar) {
-      const odd = zs.map((z) => ({ z, v: p.mStar!.at(z) })).find((x) => x.v > PLAUSIBLE_M_STAR.faintest || x.v < PLAUSIBLE_M_STAR.brightest);
+      const odd = zs
+        .map((z) => ({ z, v: p.mStar!.at(z) }))
+        .find((x) => x.v > PLAUSIBLE_M_STAR.faintest || x.v < PLAUSIBLE_M_STAR.brightest);
       if (odd) {
         out.push(
           warning(
             'implausible_luminosity',
             `${p.name}: M* = ${fmt(odd.v)} at z = ${fmt(odd.z)} is not a plausible absolute magnitude for galaxies (expected between ${PLAUSIBLE_M_STAR.brightest} and ${PLAUSIBLE_M_STAR.faintest})` +
-              (odd.v > 0 ? '; it looks like an apparent magnitude: give m_star as an absolute AB magnitude' : '; check m_star'),
+              (odd.v > 0
+                ? '; it looks like an apparent magnitude: give m_star as an absolute AB magnitude'
+                : '; check m_star'),
           ),
         );
       }

@@ -8,10 +8,22 @@ export function clusteringText(t: ClusteringTable): string {
   const first = t.rows[0]!;
   const rKeys = Object.keys(first.sigma_r);
   const mKeys = Object.keys(first.halo_bias);
-  const head = ['z', 'growth D', ...rKeys.map((r) => `sigma(R=${r} Mpc)`), ...mKeys.map((m) => `bias(${m} Msun)`), ...mKeys.map((m) => `n(>${m} Msun) [Mpc^-3]`)];
+  const head = [
+    'z',
+    'growth D',
+    ...rKeys.map((r) => `sigma(R=${r} Mpc)`),
+    ...mKeys.map((m) => `bias(${m} Msun)`),
+    ...mKeys.map((m) => `n(>${m} Msun) [Mpc^-3]`),
+  ];
   const table = new Table({ head, style: { head: [], border: [] } });
   for (const row of t.rows) {
-    table.push([sig(row.z, 4), sig(row.growth, 5), ...rKeys.map((k) => sig(row.sigma_r[k]!, 4)), ...mKeys.map((k) => sig(row.halo_bias[k]!, 4)), ...mKeys.map((k) => sig(row.halo_density_above_mpc3[k]!, 4))]);
+    table.push([
+      sig(row.z, 4),
+      sig(row.growth, 5),
+      ...rKeys.map((k) => sig(row.sigma_r[k]!, 4)),
+      ...mKeys.map((k) => sig(row.halo_bias[k]!, 4)),
+      ...mKeys.map((k) => sig(row.halo_density_above_mpc3[k]!, 4)),
+    ]);
   }
   return (
     `Cosmology: ${cosmologyLine(t.cosmology)}, Omega_b = ${sig(t.cosmology.omega_b ?? NaN, 4)}, sigma8 = ${sig(t.cosmology.sigma8 ?? NaN, 4)}, n_s = ${sig(t.cosmology.n_s ?? NaN, 4)}\n` +
@@ -25,7 +37,19 @@ export function clusteringCsv(t: ClusteringTable): string {
   const rKeys = Object.keys(first.sigma_r);
   const mKeys = Object.keys(first.halo_bias);
   return csvText(
-    ['z', 'growth', ...rKeys.map((r) => `sigma_r_${r}`), ...mKeys.map((m) => `halo_bias_${m}`), ...mKeys.map((m) => `halo_density_above_mpc3_${m}`)],
-    t.rows.map((row) => [row.z, row.growth, ...rKeys.map((k) => row.sigma_r[k]!), ...mKeys.map((k) => row.halo_bias[k]!), ...mKeys.map((k) => row.halo_density_above_mpc3[k]!)]),
+    [
+      'z',
+      'growth',
+      ...rKeys.map((r) => `sigma_r_${r}`),
+      ...mKeys.map((m) => `halo_bias_${m}`),
+      ...mKeys.map((m) => `halo_density_above_mpc3_${m}`),
+    ],
+    t.rows.map((row) => [
+      row.z,
+      row.growth,
+      ...rKeys.map((k) => row.sigma_r[k]!),
+      ...mKeys.map((k) => row.halo_bias[k]!),
+      ...mKeys.map((k) => row.halo_density_above_mpc3[k]!),
+    ]),
   );
 }

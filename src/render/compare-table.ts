@@ -14,22 +14,63 @@ interface RowDef {
 function compareRows(c: Comparison): RowDef[] {
   const rows: RowDef[] = [
     { key: 'area_deg2', label: 'area (deg^2)', value: (s) => sig(s.area_deg2, 4), raw: (s) => s.area_deg2 },
-    { key: 'window', label: 'window', value: (s) => `z = ${zText(s.redshift.min)} to ${zText(s.redshift.max)}`, raw: (s) => `${s.redshift.min}-${s.redshift.max}` },
+    {
+      key: 'window',
+      label: 'window',
+      value: (s) => `z = ${zText(s.redshift.min)} to ${zText(s.redshift.max)}`,
+      raw: (s) => `${s.redshift.min}-${s.redshift.max}`,
+    },
     { key: 'limit', label: 'limit', value: (s) => limitText(s.limit_variable, s.limit), raw: (s) => s.limit },
     { key: 'count', label: 'expected count', value: (s) => sig(s.count, 5), raw: (s) => s.count },
     { key: 'per_deg2', label: 'per deg^2', value: (s) => sig(s.per_deg2, 5), raw: (s) => s.per_deg2 },
-    { key: 'faint_count', label: 'fainter than L* / M*', value: (s) => sig(s.faint_count, 5), raw: (s) => s.faint_count },
-    { key: 'poisson_fraction', label: 'Poisson fraction', value: (s) => sig(s.poisson_fraction, 3), raw: (s) => s.poisson_fraction },
-    { key: 'cosmic_variance_fraction', label: 'cosmic-variance fraction', value: (s) => sig(s.cosmic_variance_fraction, 3), raw: (s) => s.cosmic_variance_fraction },
+    {
+      key: 'faint_count',
+      label: 'fainter than L* / M*',
+      value: (s) => sig(s.faint_count, 5),
+      raw: (s) => s.faint_count,
+    },
+    {
+      key: 'poisson_fraction',
+      label: 'Poisson fraction',
+      value: (s) => sig(s.poisson_fraction, 3),
+      raw: (s) => s.poisson_fraction,
+    },
+    {
+      key: 'cosmic_variance_fraction',
+      label: 'cosmic-variance fraction',
+      value: (s) => sig(s.cosmic_variance_fraction, 3),
+      raw: (s) => s.cosmic_variance_fraction,
+    },
   ];
   if (c.surveys.some((s) => s.model_fraction !== undefined)) {
-    rows.push({ key: 'model_fraction', label: 'model fraction', value: (s) => (s.model_fraction === undefined ? '-' : sig(s.model_fraction, 3)), raw: (s) => s.model_fraction });
+    rows.push({
+      key: 'model_fraction',
+      label: 'model fraction',
+      value: (s) => (s.model_fraction === undefined ? '-' : sig(s.model_fraction, 3)),
+      raw: (s) => s.model_fraction,
+    });
   }
   const names = [...new Set(c.surveys.flatMap((s) => Object.keys(s.sigma)))];
-  for (const n of names) rows.push({ key: `sigma.${n}`, label: `sigma of ${parameterWords(n)}`, value: (s) => (s.sigma[n] === undefined ? '-' : sig(s.sigma[n], 3)), raw: (s) => s.sigma[n] });
+  for (const n of names)
+    rows.push({
+      key: `sigma.${n}`,
+      label: `sigma of ${parameterWords(n)}`,
+      value: (s) => (s.sigma[n] === undefined ? '-' : sig(s.sigma[n], 3)),
+      raw: (s) => s.sigma[n],
+    });
   if (c.surveys.some((s) => s.exposure_hours !== undefined)) {
-    rows.push({ key: 'exposure_hours', label: 'time (hours)', value: (s) => (s.exposure_hours === undefined ? '-' : sig(s.exposure_hours, 4)), raw: (s) => s.exposure_hours });
-    rows.push({ key: 'count_per_hour', label: 'count per hour', value: (s) => (s.count_per_hour === undefined ? '-' : sig(s.count_per_hour, 4)), raw: (s) => s.count_per_hour });
+    rows.push({
+      key: 'exposure_hours',
+      label: 'time (hours)',
+      value: (s) => (s.exposure_hours === undefined ? '-' : sig(s.exposure_hours, 4)),
+      raw: (s) => s.exposure_hours,
+    });
+    rows.push({
+      key: 'count_per_hour',
+      label: 'count per hour',
+      value: (s) => (s.count_per_hour === undefined ? '-' : sig(s.count_per_hour, 4)),
+      raw: (s) => s.count_per_hour,
+    });
   }
   return rows;
 }
@@ -41,9 +82,16 @@ export function compareTable(c: Comparison): string {
   for (const r of compareRows(c)) {
     t.push([r.label, ...c.surveys.map((s, i) => `${r.value(s)}${c.best[r.key]?.includes(i) ? ' *' : ''}`)]);
   }
-  const lines = [t.toString(), '* best value in the row, on every value that ties for it (larger area, deeper limit, more sources, smaller fractions and sigmas, less time).'];
+  const lines = [
+    t.toString(),
+    '* best value in the row, on every value that ties for it (larger area, deeper limit, more sources, smaller fractions and sigmas, less time).',
+  ];
   c.surveys.forEach((s, i) => lines.push(`[${i + 1}] ${s.file || s.title}: ${s.model.summary}`));
-  lines.push(c.cosmic_variance ? 'Sigmas: Fisher matrix with one cosmic-variance normalisation per slice marginalised.' : 'Sigmas: Fisher matrix, Poisson only.');
+  lines.push(
+    c.cosmic_variance
+      ? 'Sigmas: Fisher matrix with one cosmic-variance normalisation per slice marginalised.'
+      : 'Sigmas: Fisher matrix, Poisson only.',
+  );
   for (const n of c.notes) lines.push(`Note: ${n}`);
   lines.push(c.caveat);
   return lines.join('\n') + '\n';

@@ -17,7 +17,11 @@ import { buildFigures, countsFigure, luminosityFunctionFigure, observedSharesFig
 /** The population entries of the file as written (`population:` or `populations:`), in order. */
 function rawPopulations(survey: Survey): Record<string, unknown>[] {
   const raw = survey.raw as { population?: unknown; populations?: unknown } | null | undefined;
-  const list = Array.isArray(raw?.populations) ? raw.populations : raw?.population !== undefined ? [raw.population] : [];
+  const list = Array.isArray(raw?.populations)
+    ? raw.populations
+    : raw?.population !== undefined
+      ? [raw.population]
+      : [];
   return list.map((p) => (p && typeof p === 'object' && !Array.isArray(p) ? (p as Record<string, unknown>) : {}));
 }
 
@@ -59,7 +63,8 @@ function sliceView(s: PredictionSlice, curveOf?: (s: PredictionSlice) => SliceVi
 
 function curveFor(survey: Survey, p: Population) {
   const label = curveAxisLabel(p, survey.detection.kind === 'threshold');
-  return (s: PredictionSlice) => luminosityFunctionCurve(p, 0.5 * (s.z_min + s.z_max), s.limit_at_center, { xLabel: label });
+  return (s: PredictionSlice) =>
+    luminosityFunctionCurve(p, 0.5 * (s.z_min + s.z_max), s.limit_at_center, { xLabel: label });
 }
 
 /**
@@ -67,7 +72,10 @@ function curveFor(survey: Survey, p: Population) {
  * its luminosity function; with several, `perPopulation` holds one such view per population
  * (its own slices, limits and curves) and the combined view carries none.
  */
-export function predictionViews(survey: Survey, prediction: Prediction): { combined: PredictionView; perPopulation: PredictionView[] } {
+export function predictionViews(
+  survey: Survey,
+  prediction: Prediction,
+): { combined: PredictionView; perPopulation: PredictionView[] } {
   const models = modelsForPeople(survey, prediction);
   const base = {
     format: prediction.format,
@@ -80,12 +88,19 @@ export function predictionViews(survey: Survey, prediction: Prediction): { combi
   const combined: PredictionView = {
     ...base,
     totals: prediction.totals,
-    slices: (prediction.breakdown === 'redshift' ? prediction.slices : []).map((s) => sliceView(s, single ? curveFor(survey, survey.populations[0]!) : undefined)),
+    slices: (prediction.breakdown === 'redshift' ? prediction.slices : []).map((s) =>
+      sliceView(s, single ? curveFor(survey, survey.populations[0]!) : undefined),
+    ),
     model: single ? models[0]! : models,
     breakdown: prediction.breakdown,
   };
   if (!single) {
-    combined.populations = prediction.populations.map((pp) => ({ name: pp.name, window: pp.window, totals: pp.totals, slices: pp.slices.map((s) => sliceView(s)) }));
+    combined.populations = prediction.populations.map((pp) => ({
+      name: pp.name,
+      window: pp.window,
+      totals: pp.totals,
+      slices: pp.slices.map((s) => sliceView(s)),
+    }));
     combined.observed_bins = prediction.observed_bins;
   }
   const perPopulation = single
@@ -123,9 +138,15 @@ export async function drawFigures(
   // Windows that differ: each population's own counts per slice, its name in the title.
   const counts =
     prediction.breakdown === 'observed'
-      ? await Promise.all(perPopulation.map(async (v, k) => numbered(await countsFigure({ ...v, title: `${prediction.populations[k]!.name}: ${v.title}` }), k)))
+      ? await Promise.all(
+          perPopulation.map(async (v, k) =>
+            numbered(await countsFigure({ ...v, title: `${prediction.populations[k]!.name}: ${v.title}` }), k),
+          ),
+        )
       : [];
-  const lf = await Promise.all(perPopulation.map(async (v, k) => numbered(await luminosityFunctionFigure(v, v.model as ModelAsWritten), k)));
+  const lf = await Promise.all(
+    perPopulation.map(async (v, k) => numbered(await luminosityFunctionFigure(v, v.model as ModelAsWritten), k)),
+  );
   const shares = await observedSharesFigure(prediction.observed_bins, prediction.title);
   // keep the fixed order: counts, histograms, luminosity function(s), shares, forecast, plan
   const at = main.findIndex((f) => f.name === 'forecast' || f.name === 'plan');

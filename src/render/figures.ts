@@ -9,7 +9,15 @@
  * Drawing never touches the network or the disk: data are inline values, and the vega loader
  * handed to the view refuses every URL, file and image it is asked for.
  */
-import type { Figure, ForecastView, LuminosityFunctionCurve, ModelAsWritten, PlanView, PredictionView, SliceView } from './types.js';
+import type {
+  Figure,
+  ForecastView,
+  LuminosityFunctionCurve,
+  ModelAsWritten,
+  PlanView,
+  PredictionView,
+  SliceView,
+} from './types.js';
 import type { ObservedBins } from '../model/outputs/prediction.js';
 import { formatRange, goalWords, precise, wrapWords } from './format.js';
 
@@ -101,7 +109,12 @@ export const TITLE_CHAR_PX = { title: 9, subtitle: 7 } as const;
  * `widthPx`, never cut, so a long survey title neither widens the figure nor loses words. The
  * whole title, on one line, goes to usermeta.title.
  */
-function titleBlock(surveyTitle: string | undefined, what: string, notes: string[], widthPx: number): { title: Spec; usermeta: Spec } {
+function titleBlock(
+  surveyTitle: string | undefined,
+  what: string,
+  notes: string[],
+  widthPx: number,
+): { title: Spec; usermeta: Spec } {
   const t = (surveyTitle ?? '').trim();
   const titleChars = Math.max(30, Math.floor(widthPx / TITLE_CHAR_PX.title));
   const noteChars = Math.max(36, Math.floor(widthPx / TITLE_CHAR_PX.subtitle));
@@ -192,7 +205,9 @@ export const COUNTS_LOG_DECADES = 6;
  * end drawn (but at most COUNTS_LOG_DECADES decades below the largest count), and the axis ends
  * at `top`, the power of ten at or above the highest error-bar end.
  */
-export function countsAxis(rows: readonly CountRow[]): { log: false } | { log: true; floor: number; top: number; span: number } {
+export function countsAxis(
+  rows: readonly CountRow[],
+): { log: false } | { log: true; floor: number; top: number; span: number } {
   const positive = rows.map((r) => r.count).filter((c) => c > 0);
   if (positive.length < 2) return { log: false };
   const max = Math.max(...positive);
@@ -201,7 +216,12 @@ export function countsAxis(rows: readonly CountRow[]): { log: false } | { log: t
   const lows = rows.map((r) => r.low).filter((l): l is number => l !== undefined && l > 0);
   const lowest = Math.max(Math.min(min, ...lows), max * 10 ** -COUNTS_LOG_DECADES);
   const highs = rows.map((r) => r.high ?? r.count);
-  return { log: true, floor: 10 ** Math.floor(Math.log10(lowest)), top: 10 ** Math.ceil(Math.log10(Math.max(...highs))), span: max / min };
+  return {
+    log: true,
+    floor: 10 ** Math.floor(Math.log10(lowest)),
+    top: 10 ** Math.ceil(Math.log10(Math.max(...highs))),
+    span: max / min,
+  };
 }
 
 export function countsSpec(p: PredictionView): Spec | null {
@@ -210,7 +230,9 @@ export function countsSpec(p: PredictionView): Spec | null {
   const axis = countsAxis(all);
   // On a log axis a slice without sources has no bar, and an error bar reaching 0 stops at the floor.
   const rows = axis.log
-    ? all.filter((r) => r.count > 0).map((r) => (r.low !== undefined && r.low < axis.floor ? { ...r, low: axis.floor } : r))
+    ? all
+        .filter((r) => r.count > 0)
+        .map((r) => (r.low !== undefined && r.low < axis.floor ? { ...r, low: axis.floor } : r))
     : all;
   const withErrors = rows.some((r) => r.low !== undefined);
   const yScale = axis.log ? { type: 'log', domain: [axis.floor, axis.top], nice: false } : {};
@@ -240,7 +262,11 @@ export function countsSpec(p: PredictionView): Spec | null {
   if (withErrors) {
     layers.push({
       transform: [{ filter: 'isValid(datum.low)' }],
-      mark: { type: 'errorbar', ticks: { color: PALETTE.ink, size: 8 }, rule: { color: PALETTE.ink, strokeWidth: 1.5 } },
+      mark: {
+        type: 'errorbar',
+        ticks: { color: PALETTE.ink, size: 8 },
+        rule: { color: PALETTE.ink, strokeWidth: 1.5 },
+      },
       encoding: {
         x: { field: 'z_mid', type: 'quantitative' },
         y: { field: 'low', type: 'quantitative', title: 'expected count per slice', scale: yScale },
@@ -330,7 +356,9 @@ export function drawnBins(rows: readonly HistogramRow[]): HistogramRow[] {
 
 /** One row per drawn histogram bin (drawnBins), for every slice: {slice (1-based), panel, lo, hi, count}. */
 export function histogramPanelRows(p: PredictionView): (HistogramRow & { slice: number; panel: string })[] {
-  return p.slices.flatMap((s, i) => drawnBins(histogramRows(s)).map((r) => ({ slice: i + 1, panel: panelLabel(s), ...r })));
+  return p.slices.flatMap((s, i) =>
+    drawnBins(histogramRows(s)).map((r) => ({ slice: i + 1, panel: panelLabel(s), ...r })),
+  );
 }
 
 /** "0.25 mag" or "0.1 dex": the bin width of the histograms, from their edges. */
@@ -481,7 +509,8 @@ export function luminosityFunctionRows(
     for (const r of rows) out.push({ ...base, kind: 'curve', x: r.x, phi: r.phi });
     if (finite(c.limit)) {
       const detected = detectedPart(rows, c.limit, magnitude);
-      if (detected.length >= 2) for (const r of detected) out.push({ ...base, kind: 'detected', x: r.x, phi: r.phi, floor });
+      if (detected.length >= 2)
+        for (const r of detected) out.push({ ...base, kind: 'detected', x: r.x, phi: r.phi, floor });
       out.push({ ...base, kind: 'limit', x: c.limit });
     }
     if (finite(c.knee)) out.push({ ...base, kind: 'knee', x: c.knee, label: kneeName });
@@ -500,7 +529,11 @@ export function luminosityFunctionSpec(p: PredictionView, model?: ModelAsWritten
   const name = typeof m?.name === 'string' && m.name ? ` (${m.name})` : '';
   const phis = r.rows.filter((row) => row.kind === 'curve').map((row) => row.phi!);
   // the log scale is niced to whole decades: label every decade it can show as 10⁻ⁿ
-  const yAxis = powerOfTenAxis(10 ** Math.floor(Math.log10(Math.min(...phis))), 10 ** Math.ceil(Math.log10(Math.max(...phis))), 4);
+  const yAxis = powerOfTenAxis(
+    10 ** Math.floor(Math.log10(Math.min(...phis))),
+    10 ** Math.ceil(Math.log10(Math.max(...phis))),
+    4,
+  );
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
     ...titleBlock(
@@ -541,7 +574,17 @@ export function luminosityFunctionSpec(p: PredictionView, model?: ModelAsWritten
         },
         {
           transform: only('knee'),
-          mark: { type: 'text', color: '#7a4300', fontWeight: 'bold', fontSize: 12, align: 'left', dx: 4, dy: 2, baseline: 'top', y: 0 },
+          mark: {
+            type: 'text',
+            color: '#7a4300',
+            fontWeight: 'bold',
+            fontSize: 12,
+            align: 'left',
+            dx: 4,
+            dy: 2,
+            baseline: 'top',
+            y: 0,
+          },
           encoding: { x, text: { field: 'label' } },
         },
       ],
@@ -694,7 +737,12 @@ export function forecastSpec(f: ForecastView, surveyTitle?: string): Spec | null
   ];
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    ...titleBlock(surveyTitle, `Forecast constraints on α and ${axes.y.name === 'm_star' ? 'M*' : 'L*'}`, notes, 440 + 200),
+    ...titleBlock(
+      surveyTitle,
+      `Forecast constraints on α and ${axes.y.name === 'm_star' ? 'M*' : 'L*'}`,
+      notes,
+      440 + 200,
+    ),
     width: 440,
     height: 360,
     layer,
@@ -722,7 +770,10 @@ export function planSpec(plan: PlanView, surveyTitle?: string): Spec | null {
   const yTitle = `goal: ${goalLabel(plan.goal)}`;
   const hours = rows.map((d) => d.exposure_hours_per_pointing);
   const layer: Spec[] = [];
-  const nb = plan.near_best && { from: plan.near_best.from.exposure_hours_per_pointing, to: plan.near_best.to.exposure_hours_per_pointing };
+  const nb = plan.near_best && {
+    from: plan.near_best.from.exposure_hours_per_pointing,
+    to: plan.near_best.to.exposure_hours_per_pointing,
+  };
   if (nb && finite(nb.from, nb.to) && nb.from > 0 && nb.to > 0) {
     layer.push({
       data: { values: [{ from: Math.min(nb.from, nb.to), to: Math.max(nb.from, nb.to) }] },
@@ -768,11 +819,28 @@ export function planSpec(plan: PlanView, surveyTitle?: string): Spec | null {
           encoding: { x, y: { field: 'goal_value', type: 'quantitative' }, y2: { value: 0 } },
         },
         {
-          mark: { type: 'point', shape: 'diamond', filled: true, size: 220, color: PALETTE.orange, stroke: PALETTE.ink, strokeWidth: 1.5, opacity: 1 },
+          mark: {
+            type: 'point',
+            shape: 'diamond',
+            filled: true,
+            size: 220,
+            color: PALETTE.orange,
+            stroke: PALETTE.ink,
+            strokeWidth: 1.5,
+            opacity: 1,
+          },
           encoding: { x, y: { field: 'goal_value', type: 'quantitative' } },
         },
         {
-          mark: { type: 'text', color: PALETTE.ink, fontSize: 12, fontWeight: 'bold', align, baseline: 'bottom', dy: -4 },
+          mark: {
+            type: 'text',
+            color: PALETTE.ink,
+            fontSize: 12,
+            fontWeight: 'bold',
+            align,
+            baseline: 'bottom',
+            dy: -4,
+          },
           encoding: { x, y: { value: 0 }, text: { field: 'label' } },
         },
       ],
@@ -783,7 +851,12 @@ export function planSpec(plan: PlanView, surveyTitle?: string): Spec | null {
   if (nb) parts.push('shaded: near-best range');
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    ...titleBlock(surveyTitle, `${capitalise(goalLabel(plan.goal))} against exposure per pointing`, [parts.join('; ')], PLAN_SIZE.width + 90),
+    ...titleBlock(
+      surveyTitle,
+      `${capitalise(goalLabel(plan.goal))} against exposure per pointing`,
+      [parts.join('; ')],
+      PLAN_SIZE.width + 90,
+    ),
     width: PLAN_SIZE.width,
     height: PLAN_SIZE.height,
     layer,
@@ -791,7 +864,19 @@ export function planSpec(plan: PlanView, surveyTitle?: string): Spec | null {
   };
 }
 
-const SUPERSCRIPT: Record<string, string> = { '-': '⁻', '0': '⁰', '1': '¹', '2': '²', '3': '³', '4': '⁴', '5': '⁵', '6': '⁶', '7': '⁷', '8': '⁸', '9': '⁹' };
+const SUPERSCRIPT: Record<string, string> = {
+  '-': '⁻',
+  '0': '⁰',
+  '1': '¹',
+  '2': '²',
+  '3': '³',
+  '4': '⁴',
+  '5': '⁵',
+  '6': '⁶',
+  '7': '⁷',
+  '8': '⁸',
+  '9': '⁹',
+};
 
 /** 10 to the power k as people write it: powerOfTen(-2) = "10⁻²", powerOfTen(3) = "10³". */
 export function powerOfTen(k: number): string {
@@ -840,7 +925,14 @@ function fmtShort(x: unknown): string {
 /** Line colours of the populations, in order (the palette first, then two of the same family). */
 const SHARE_COLOURS = [PALETTE.blue, PALETTE.orange, PALETTE.ink, '#7fa7d6', '#9c5b14', '#5f6b7a'];
 /** Dash patterns, so that the lines stay apart in greyscale print. */
-const SHARE_DASHES = [[1, 0], [7, 3], [2, 2], [10, 3, 2, 3], [4, 4], [1, 3]];
+const SHARE_DASHES = [
+  [1, 0],
+  [7, 3],
+  [2, 2],
+  [10, 3, 2, 3],
+  [4, 4],
+  [1, 3],
+];
 /** Bins at either end holding less than this fraction of all detections are not drawn. */
 export const SHARE_FLOOR = 1e-4;
 
@@ -877,7 +969,17 @@ export function observedShareRows(o: ObservedBins): ObservedShareRow[] {
     names.forEach((name, order) => {
       const q = b.populations[name];
       if (!q || !finite(q.count, q.share)) return;
-      rows.push({ population: name, order, min: b.min, max: b.max, mid: 0.5 * (b.min + b.max), count: q.count, share: q.share, below, above: below + q.count });
+      rows.push({
+        population: name,
+        order,
+        min: b.min,
+        max: b.max,
+        mid: 0.5 * (b.min + b.max),
+        count: q.count,
+        share: q.share,
+        below,
+        above: below + q.count,
+      });
       below += q.count;
     });
   }
@@ -901,7 +1003,14 @@ export function observedSharesSpec(o: ObservedBins, surveyTitle?: string): Spec 
     type: 'nominal',
     sort: names,
     scale: { domain: names, range: names.map((_, i) => SHARE_COLOURS[i % SHARE_COLOURS.length]) },
-    legend: { title: null, orient: 'top', direction: 'horizontal', symbolType: 'stroke', symbolStrokeWidth: 3, symbolSize: 400 },
+    legend: {
+      title: null,
+      orient: 'top',
+      direction: 'horizontal',
+      symbolType: 'stroke',
+      symbolStrokeWidth: 3,
+      symbolSize: 400,
+    },
   };
   const xTitle = histogramAxisLabel(o.variable, undefined);
   const what =
@@ -912,11 +1021,16 @@ export function observedSharesSpec(o: ObservedBins, surveyTitle?: string): Spec 
         : 'Share of each population per bin of the observed value';
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    ...titleBlock(surveyTitle, what, [
-      'top: expected detections per bin, stacked by population',
-      'bottom: each population\'s share of the bin (the interloper fraction)',
-      'every population over its own redshift window',
-    ], SHARES_WIDTH_PX),
+    ...titleBlock(
+      surveyTitle,
+      what,
+      [
+        'top: expected detections per bin, stacked by population',
+        "bottom: each population's share of the bin (the interloper fraction)",
+        'every population over its own redshift window',
+      ],
+      SHARES_WIDTH_PX,
+    ),
     data: { values: rows },
     vconcat: [
       {
@@ -943,7 +1057,13 @@ export function observedSharesSpec(o: ObservedBins, surveyTitle?: string): Spec 
         mark: { type: 'line', strokeWidth: 2, point: { size: 28, filled: true } },
         encoding: {
           x: { field: 'mid', type: 'quantitative', title: xTitle, scale: { zero: false, nice: false } },
-          y: { field: 'share', type: 'quantitative', title: 'share of the bin', scale: { domain: [0, 1] }, axis: { format: '.0%' } },
+          y: {
+            field: 'share',
+            type: 'quantitative',
+            title: 'share of the bin',
+            scale: { domain: [0, 1] },
+            axis: { format: '.0%' },
+          },
           color: colour,
           strokeDash: {
             field: 'population',
@@ -965,7 +1085,8 @@ export function observedSharesSpec(o: ObservedBins, surveyTitle?: string): Spec 
   };
 }
 
-export const observedSharesFigure = (o: ObservedBins, surveyTitle?: string) => figure('shares', observedSharesSpec(o, surveyTitle));
+export const observedSharesFigure = (o: ObservedBins, surveyTitle?: string) =>
+  figure('shares', observedSharesSpec(o, surveyTitle));
 
 // ---------------------------------------------------------------------------------------------
 // Rendering
@@ -985,11 +1106,13 @@ function loadLibs(): Promise<[VegaModule, VegaLiteModule]> {
  * renderSvg fails afterwards.
  */
 function refusingLoader(vega: VegaModule, refused: string[]): ReturnType<VegaModule['loader']> {
-  const refuse = (what: string) => (uri: string): Promise<never> => {
-    const msg = `figures fetch nothing: refused to ${what} ${JSON.stringify(String(uri))}`;
-    refused.push(msg);
-    return Promise.reject(new Error(msg));
-  };
+  const refuse =
+    (what: string) =>
+    (uri: string): Promise<never> => {
+      const msg = `figures fetch nothing: refused to ${what} ${JSON.stringify(String(uri))}`;
+      refused.push(msg);
+      return Promise.reject(new Error(msg));
+    };
   const base = vega.loader();
   return Object.assign(base, {
     load: refuse('load'),
@@ -1029,7 +1152,8 @@ export const histogramsFigure = (p: PredictionView, model?: ModelAsWritten) =>
   figure('histograms', histogramsSpec(p, model));
 export const luminosityFunctionFigure = (p: PredictionView, model?: ModelAsWritten) =>
   figure('luminosity-function', luminosityFunctionSpec(p, model));
-export const forecastFigure = (f: ForecastView, surveyTitle?: string) => figure('forecast', forecastSpec(f, surveyTitle));
+export const forecastFigure = (f: ForecastView, surveyTitle?: string) =>
+  figure('forecast', forecastSpec(f, surveyTitle));
 export const planFigure = (plan: PlanView, surveyTitle?: string) => figure('plan', planSpec(plan, surveyTitle));
 
 export interface FigureInput {

@@ -23,21 +23,48 @@ export function forecastTable(f: Forecast): string {
     const row = [n, sig(f.center[n]!, 5), sig(f.fisher.sigma[n]!, 3), sig(f.fisher_poisson_only.sigma[n]!, 3)];
     if (m) {
       const s = m.parameters[n];
-      if (s) row.push(sig(s.mean, 5), sig(s.std, 3), sig(s.p16, 5), sig(s.p50, 5), sig(s.p84, 5), sig(s.bias_in_standard_errors, 2));
+      if (s)
+        row.push(
+          sig(s.mean, 5),
+          sig(s.std, 3),
+          sig(s.p16, 5),
+          sig(s.p50, 5),
+          sig(s.p84, 5),
+          sig(s.bias_in_standard_errors, 2),
+        );
       else row.push('not constrained', '', '', '', '', '');
     }
     table.push(row);
   }
   lines.push(table.toString());
-  lines.push(`Correlations (Fisher): ${f.parameters.map((a, i) => f.parameters.slice(i + 1).map((b, k) => `${a}-${b} ${sig(f.fisher.correlation[i]![i + 1 + k]!, 3)}`).join(', ')).filter((s) => s).join(', ')}`);
+  lines.push(
+    `Correlations (Fisher): ${f.parameters
+      .map((a, i) =>
+        f.parameters
+          .slice(i + 1)
+          .map((b, k) => `${a}-${b} ${sig(f.fisher.correlation[i]![i + 1 + k]!, 3)}`)
+          .join(', '),
+      )
+      .filter((s) => s)
+      .join(', ')}`,
+  );
   if (m) {
-    lines.push(`Mocks: ${m.count} surveys (seed ${m.seed}, ${m.estimator === 'sty' ? 'STY shape-only estimator' : 'extended maximum likelihood'}), ${sig(m.mean_sources, 5)} sources on average, ${m.failed_fits} failed fits`);
-    lines.push('  mock offset: the mean of the mock fits minus the input value, in standard errors of that mean (an estimator bias, not the galaxy bias)');
+    lines.push(
+      `Mocks: ${m.count} surveys (seed ${m.seed}, ${m.estimator === 'sty' ? 'STY shape-only estimator' : 'extended maximum likelihood'}), ${sig(m.mean_sources, 5)} sources on average, ${m.failed_fits} failed fits`,
+    );
+    lines.push(
+      '  mock offset: the mean of the mock fits minus the input value, in standard errors of that mean (an estimator bias, not the galaxy bias)',
+    );
     for (const note of m.notes) lines.push(`  ${note}`);
   }
   const r = f.requirement;
   if (r) {
-    const unit = r.limit_variable === 'line_flux_cgs' ? ' erg/s/cm^2' : r.limit_variable === 'log10_quantity' ? ' (log10 quantity)' : ' mag';
+    const unit =
+      r.limit_variable === 'line_flux_cgs'
+        ? ' erg/s/cm^2'
+        : r.limit_variable === 'log10_quantity'
+          ? ' (log10 quantity)'
+          : ' mag';
     lines.push('To reach the target:');
     for (const [n, e] of Object.entries(r.by_parameter)) {
       const area = e.area_deg2 !== null ? `${sig(e.area_deg2, 3)} deg^2 at this depth` : 'no area at this depth';
@@ -55,13 +82,24 @@ export function forecastCsv(f: Forecast): string {
   const m = f.mocks;
   const r = f.requirement;
   const head = ['parameter', 'input', 'sigma_fisher', 'sigma_poisson_only'];
-  if (m) head.push('mock_mean', 'mock_std', 'mock_p16', 'mock_p50', 'mock_p84', 'mock_offset', 'mock_offset_in_standard_errors');
+  if (m)
+    head.push(
+      'mock_mean',
+      'mock_std',
+      'mock_p16',
+      'mock_p50',
+      'mock_p84',
+      'mock_offset',
+      'mock_offset_in_standard_errors',
+    );
   if (r) head.push('target', 'area_deg2_needed', `limit_needed_${r.limit_variable}`);
   const rows = f.parameters.map((n) => {
     const row: CsvCell[] = [n, f.center[n]!, f.fisher.sigma[n]!, f.fisher_poisson_only.sigma[n]!];
     if (m) {
       const s = m.parameters[n];
-      row.push(...(s ? [s.mean, s.std, s.p16, s.p50, s.p84, s.bias, s.bias_in_standard_errors] : ['', '', '', '', '', '', '']));
+      row.push(
+        ...(s ? [s.mean, s.std, s.p16, s.p50, s.p84, s.bias, s.bias_in_standard_errors] : ['', '', '', '', '', '', '']),
+      );
     }
     if (r) {
       const e = r.by_parameter[n];

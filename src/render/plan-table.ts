@@ -5,7 +5,8 @@ import { csvText, type CsvCell } from './csv.js';
 import type { Plan, PlanDesign } from '../model/outputs/plan.js';
 
 function goalText(p: Plan): string {
-  if (typeof p.goal === 'object') return `smallest ${goalWords(p.goal)} (Fisher matrix${p.cosmic_variance ? ', with cosmic variance' : ', Poisson only'})`;
+  if (typeof p.goal === 'object')
+    return `smallest ${goalWords(p.goal)} (Fisher matrix${p.cosmic_variance ? ', with cosmic variance' : ', Poisson only'})`;
   return p.goal === 'count' ? 'most sources' : 'most sources fainter than the characteristic luminosity';
 }
 
@@ -13,10 +14,14 @@ function designRow(p: Plan, d: PlanDesign, mark = ''): string[] {
   return [
     mark,
     d.tiers ? d.tiers.map((t) => `${Math.round(t.budget_fraction * 100)} %`).join(' + ') : '100 %',
-    d.tiers ? d.tiers.map((t) => sig(t.exposure_hours_per_pointing, 3)).join(' + ') : sig(d.exposure_hours_per_pointing, 4),
+    d.tiers
+      ? d.tiers.map((t) => sig(t.exposure_hours_per_pointing, 3)).join(' + ')
+      : sig(d.exposure_hours_per_pointing, 4),
     d.tiers ? d.tiers.map((t) => String(t.pointings)).join(' + ') : String(d.pointings),
     sig(d.area_deg2, 4),
-    d.tiers ? d.tiers.map((t) => limitText(p.limit_variable, t.limit)).join(' + ') : limitText(p.limit_variable, d.limit),
+    d.tiers
+      ? d.tiers.map((t) => limitText(p.limit_variable, t.limit)).join(' + ')
+      : limitText(p.limit_variable, d.limit),
     sig(d.count, 5),
     sig(d.faint_count, 5),
     sig(d.goal_value, 4),
@@ -39,9 +44,28 @@ export function planTable(p: Plan): string {
     `Depth law: ${depthLawText(p)}`,
     `Assumed model: ${p.model.summary}`,
   ];
-  const head = ['', 'budget', 'hours per pointing', 'pointings', 'area deg^2', 'limit', 'count', 'fainter than knee', 'goal value', ''];
+  const head = [
+    '',
+    'budget',
+    'hours per pointing',
+    'pointings',
+    'area deg^2',
+    'limit',
+    'count',
+    'fainter than knee',
+    'goal value',
+    '',
+  ];
   const b = p.best;
-  lines.push(`Best design (* below): ${b.tiers ? `${b.tiers.length} tiers, ` : ''}${b.pointings} pointings (${sig(b.area_deg2, 4)} deg^2)${b.tiers ? '' : ` of ${sig(b.exposure_hours_per_pointing, 4)} h to ${limitText(p.limit_variable, b.limit)}`}, ${sig(b.count, 5)} sources, goal value ${sig(b.goal_value, 4)}${b.sigma ? ` (sigma of ${Object.entries(b.sigma).map(([k, v]) => `${parameterWords(k)} ${sig(v, 3)}`).join(', ')})` : ''}`);
+  lines.push(
+    `Best design (* below): ${b.tiers ? `${b.tiers.length} tiers, ` : ''}${b.pointings} pointings (${sig(b.area_deg2, 4)} deg^2)${b.tiers ? '' : ` of ${sig(b.exposure_hours_per_pointing, 4)} h to ${limitText(p.limit_variable, b.limit)}`}, ${sig(b.count, 5)} sources, goal value ${sig(b.goal_value, 4)}${
+      b.sigma
+        ? ` (sigma of ${Object.entries(b.sigma)
+            .map(([k, v]) => `${parameterWords(k)} ${sig(v, 3)}`)
+            .join(', ')})`
+        : ''
+    }`,
+  );
   const t = new Table({ head, style: { head: [], border: [] } });
   t.push(designRow(p, b, '*'));
   for (const d of p.neighbours) t.push(designRow(p, d, 'grid'));
@@ -65,17 +89,78 @@ export function planTable(p: Plan): string {
 }
 
 export function planCsv(p: Plan): string {
-  const header = ['design', 'tier', 'budget_fraction', 'exposure_hours_per_pointing', 'pointings', 'area_deg2', 'limit', 'count', 'faint_count', 'goal_value', 'hours_used', 'meets_minimum_count', 'best'];
+  const header = [
+    'design',
+    'tier',
+    'budget_fraction',
+    'exposure_hours_per_pointing',
+    'pointings',
+    'area_deg2',
+    'limit',
+    'count',
+    'faint_count',
+    'goal_value',
+    'hours_used',
+    'meets_minimum_count',
+    'best',
+  ];
   const rows: CsvCell[][] = [];
-  const same = (a: PlanDesign, b: PlanDesign) => a.pointings === b.pointings && a.exposure_hours_per_pointing === b.exposure_hours_per_pointing && a.goal_value === b.goal_value;
+  const same = (a: PlanDesign, b: PlanDesign) =>
+    a.pointings === b.pointings &&
+    a.exposure_hours_per_pointing === b.exposure_hours_per_pointing &&
+    a.goal_value === b.goal_value;
   p.designs.forEach((d, i) => {
     const mark = same(d, p.best) ? '*' : '';
-    rows.push([i, 'all', 1, d.exposure_hours_per_pointing, d.pointings, d.area_deg2, d.limit, d.count, d.faint_count, d.goal_value, d.hours_used, String(d.meets_minimum_count), mark]);
-    d.tiers?.forEach((t, k) => rows.push([i, k + 1, t.budget_fraction, t.exposure_hours_per_pointing, t.pointings, t.area_deg2, t.limit, t.count, '', '', '', '', '']));
+    rows.push([
+      i,
+      'all',
+      1,
+      d.exposure_hours_per_pointing,
+      d.pointings,
+      d.area_deg2,
+      d.limit,
+      d.count,
+      d.faint_count,
+      d.goal_value,
+      d.hours_used,
+      String(d.meets_minimum_count),
+      mark,
+    ]);
+    d.tiers?.forEach((t, k) =>
+      rows.push([
+        i,
+        k + 1,
+        t.budget_fraction,
+        t.exposure_hours_per_pointing,
+        t.pointings,
+        t.area_deg2,
+        t.limit,
+        t.count,
+        '',
+        '',
+        '',
+        '',
+        '',
+      ]),
+    );
   });
   if (!p.designs.some((d) => same(d, p.best))) {
     const d = p.best;
-    rows.push(['refined', 'all', 1, d.exposure_hours_per_pointing, d.pointings, d.area_deg2, d.limit, d.count, d.faint_count, d.goal_value, d.hours_used, String(d.meets_minimum_count), '*']);
+    rows.push([
+      'refined',
+      'all',
+      1,
+      d.exposure_hours_per_pointing,
+      d.pointings,
+      d.area_deg2,
+      d.limit,
+      d.count,
+      d.faint_count,
+      d.goal_value,
+      d.hours_used,
+      String(d.meets_minimum_count),
+      '*',
+    ]);
   }
   return csvText(header, rows);
 }

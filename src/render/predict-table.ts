@@ -25,17 +25,25 @@ export function detectionLine(p: Prediction): string {
     return `line flux limit ${sig(d.limit_cgs)} erg/s/cm^2${filter}`;
   }
   if (d.kind === 'magnitude') {
-    const given = d.system === 'vega' ? ` (given in Vega, AB = Vega ${d.vega_to_ab! < 0 ? '-' : '+'} ${sig(Math.abs(d.vega_to_ab!))})` : '';
+    const given =
+      d.system === 'vega'
+        ? ` (given in Vega, AB = Vega ${d.vega_to_ab! < 0 ? '-' : '+'} ${sig(Math.abs(d.vega_to_ab!))})`
+        : '';
     if (d.sed_file) {
       const b = d.band;
-      const band = b && b.profile !== 'table' ? `a ${b.profile} band at ${sig(b.center_angstrom)} A (fwhm ${sig(b.fwhm_angstrom)} A)` : `the band ${d.band_file ?? ''}`.trimEnd();
+      const band =
+        b && b.profile !== 'table'
+          ? `a ${b.profile} band at ${sig(b.center_angstrom)} A (fwhm ${sig(b.fwhm_angstrom)} A)`
+          : `the band ${d.band_file ?? ''}`.trimEnd();
       return `AB magnitude limit ${sig(d.limit_ab_mag)}${given} in ${band}, k-corrected with the spectrum ${d.sed_file}`;
     }
     return `AB magnitude limit ${sig(d.limit_ab_mag)}${given} in a band at ${sig(d.band_angstrom)} A (spectral slope beta = ${sig(d.beta)})`;
   }
-  const q = p.models[0]?.quantity ?? (p.limit_variable === 'absolute_magnitude' ? 'absolute AB magnitude' : 'the quantity');
+  const q =
+    p.models[0]?.quantity ?? (p.limit_variable === 'absolute_magnitude' ? 'absolute AB magnitude' : 'the quantity');
   const lim = d.limit;
-  const text = typeof lim === 'number' ? sig(lim) : typeof lim === 'string' ? `"${lim}"` : `table ${JSON.stringify(lim.table)}`;
+  const text =
+    typeof lim === 'number' ? sig(lim) : typeof lim === 'string' ? `"${lim}"` : `table ${JSON.stringify(lim.table)}`;
   return `threshold on ${p.limit_variable === 'absolute_magnitude' ? q : `log10 ${q}`}: ${text}`;
 }
 
@@ -96,7 +104,14 @@ const MODEL_HEADING = 'model p16 - p84';
 export function uncertaintySources(
   u: { poisson_fraction: number; cosmic_variance_fraction: number } | undefined,
   m: ModelSpread | undefined,
-): { poisson: number; cosmicVariance: number; model: number; dominant: 'Poisson noise' | 'cosmic variance' | 'the model' } | undefined {
+):
+  | {
+      poisson: number;
+      cosmicVariance: number;
+      model: number;
+      dominant: 'Poisson noise' | 'cosmic variance' | 'the model';
+    }
+  | undefined {
   if (!u || !m) return undefined;
   const parts = [
     ['Poisson noise', u.poisson_fraction],
@@ -108,7 +123,12 @@ export function uncertaintySources(
 }
 
 /** One sentence on the three sources of a count's uncertainty, naming the one that dominates. */
-export function sourcesSentence(what: string, count: number, u: Parameters<typeof uncertaintySources>[0], m: ModelSpread | undefined): string | undefined {
+export function sourcesSentence(
+  what: string,
+  count: number,
+  u: Parameters<typeof uncertaintySources>[0],
+  m: ModelSpread | undefined,
+): string | undefined {
   const s = uncertaintySources(u, m);
   if (!s || !m) return undefined;
   const pc = (x: number) => `${(100 * x).toFixed(1)} %`;
@@ -126,7 +146,17 @@ function slicesTable(
   columns: { name: string; slice: (s: PredictionSlice) => number; total: number }[],
 ): string {
   const model = totals.model !== undefined;
-  const head = ['slice z', 'volume [Mpc^3]', LIMIT_HEADINGS[p.limit_variable] ?? 'limit', ...columns.map((c) => c.name), 'count', '+/- (1 sigma)', ...(model ? [MODEL_HEADING] : []), 'per deg^2', 'cumulative'];
+  const head = [
+    'slice z',
+    'volume [Mpc^3]',
+    LIMIT_HEADINGS[p.limit_variable] ?? 'limit',
+    ...columns.map((c) => c.name),
+    'count',
+    '+/- (1 sigma)',
+    ...(model ? [MODEL_HEADING] : []),
+    'per deg^2',
+    'cumulative',
+  ];
   const table = new Table({ head, style: { head: [], border: [] } });
   for (const s of slices) {
     table.push([
@@ -141,7 +171,17 @@ function slicesTable(
       sig(s.cumulative_count, 4),
     ]);
   }
-  table.push(['total', sig(totals.volume_mpc3, 3), '', ...columns.map((c) => sig(c.total, 4)), sig(totals.count, 4), pm(totals.count, totals.uncertainty), ...(model ? [modelRange(totals.model)] : []), sig(totals.per_deg2, 4), '']);
+  table.push([
+    'total',
+    sig(totals.volume_mpc3, 3),
+    '',
+    ...columns.map((c) => sig(c.total, 4)),
+    sig(totals.count, 4),
+    pm(totals.count, totals.uncertainty),
+    ...(model ? [modelRange(totals.model)] : []),
+    sig(totals.per_deg2, 4),
+    '',
+  ]);
   return table.toString();
 }
 
@@ -163,23 +203,41 @@ export function predictionTable(p: Prediction): string {
   const out = [...predictionHeader(p)];
   if (p.breakdown === 'redshift') {
     const columns = multi
-      ? p.populations.map((q) => ({ name: q.name, slice: (s: PredictionSlice) => s.population_counts?.[q.name] ?? 0, total: q.totals.count }))
+      ? p.populations.map((q) => ({
+          name: q.name,
+          slice: (s: PredictionSlice) => s.population_counts?.[q.name] ?? 0,
+          total: q.totals.count,
+        }))
       : [];
     if (p.photo_z) {
       const trueTotal = p.slices.reduce((a, s) => a + (s.count_true_redshift ?? 0), 0);
-      columns.push({ name: 'true-z count', slice: (s: PredictionSlice) => s.count_true_redshift ?? 0, total: trueTotal });
+      columns.push({
+        name: 'true-z count',
+        slice: (s: PredictionSlice) => s.count_true_redshift ?? 0,
+        total: trueTotal,
+      });
     }
     out.push(slicesTable(p, p.slices, p.totals, columns));
     const note = uncertaintyNote(p.totals);
     if (note) out.push(note);
-    const sources = sourcesSentence('Sources of uncertainty of the total', p.totals.count, p.totals.uncertainty, p.totals.model);
+    const sources = sourcesSentence(
+      'Sources of uncertainty of the total',
+      p.totals.count,
+      p.totals.uncertainty,
+      p.totals.model,
+    );
     if (sources) out.push(sources);
   } else {
     out.push('Every population over its own window (the survey detects them all):');
     out.push(populationsTable(p));
     const note = uncertaintyNote(p.totals);
     if (note) out.push(note);
-    const sources = sourcesSentence('Sources of uncertainty of the total', p.totals.count, p.totals.uncertainty, p.totals.model);
+    const sources = sourcesSentence(
+      'Sources of uncertainty of the total',
+      p.totals.count,
+      p.totals.uncertainty,
+      p.totals.model,
+    );
     if (sources) out.push(sources);
     out.push(
       `Detections per bin of ${OBSERVED_HEADINGS[p.observed_bins.variable] ?? p.observed_bins.variable}, every population over its own window ` +
@@ -198,11 +256,41 @@ export function predictionTable(p: Prediction): string {
 function populationsTable(p: Prediction): string {
   const all = p.totals.count;
   const model = p.totals.model !== undefined;
-  const table = new Table({ head: ['population', 'window z', 'volume [Mpc^3]', 'count', '+/- (1 sigma)', ...(model ? [MODEL_HEADING] : []), 'per deg^2', 'share'], style: { head: [], border: [] } });
+  const table = new Table({
+    head: [
+      'population',
+      'window z',
+      'volume [Mpc^3]',
+      'count',
+      '+/- (1 sigma)',
+      ...(model ? [MODEL_HEADING] : []),
+      'per deg^2',
+      'share',
+    ],
+    style: { head: [], border: [] },
+  });
   for (const q of p.populations) {
-    table.push([q.name, `${zText(q.window.min)} - ${zText(q.window.max)}`, sig(q.totals.volume_mpc3, 3), sig(q.totals.count, 4), pm(q.totals.count, q.totals.uncertainty), ...(model ? [modelRange(q.totals.model)] : []), sig(q.totals.per_deg2, 4), all > 0 ? pct(q.totals.count / all) : '0%']);
+    table.push([
+      q.name,
+      `${zText(q.window.min)} - ${zText(q.window.max)}`,
+      sig(q.totals.volume_mpc3, 3),
+      sig(q.totals.count, 4),
+      pm(q.totals.count, q.totals.uncertainty),
+      ...(model ? [modelRange(q.totals.model)] : []),
+      sig(q.totals.per_deg2, 4),
+      all > 0 ? pct(q.totals.count / all) : '0%',
+    ]);
   }
-  table.push(['total', '', sig(p.totals.volume_mpc3, 3), sig(all, 4), pm(all, p.totals.uncertainty), ...(model ? [modelRange(p.totals.model)] : []), sig(p.totals.per_deg2, 4), all > 0 ? '100%' : '0%']);
+  table.push([
+    'total',
+    '',
+    sig(p.totals.volume_mpc3, 3),
+    sig(all, 4),
+    pm(all, p.totals.uncertainty),
+    ...(model ? [modelRange(p.totals.model)] : []),
+    sig(p.totals.per_deg2, 4),
+    all > 0 ? '100%' : '0%',
+  ]);
   return table.toString();
 }
 
@@ -225,7 +313,13 @@ function observedTable(p: Prediction): string {
   const o = p.observed_bins;
   const names = p.populations.map((q) => q.name);
   const table = new Table({
-    head: [OBSERVED_HEADINGS[o.variable] ?? o.variable, ...names, 'count', 'per deg^2', ...names.map((n) => `${n} share`)],
+    head: [
+      OBSERVED_HEADINGS[o.variable] ?? o.variable,
+      ...names,
+      'count',
+      'per deg^2',
+      ...names.map((n) => `${n} share`),
+    ],
     style: { head: [], border: [] },
   });
   for (const b of observedTableBins(p)) {
@@ -250,7 +344,8 @@ export function populationSummary(p: Prediction): string[] {
   if (p.populations.length < 2) return [];
   const all = p.totals.count;
   const parts = p.populations.map(
-    (q) => `${q.name} ${sig(q.totals.count, 4)} (${all > 0 ? pct(q.totals.count / all) : '0%'}, z = ${zText(q.window.min)}-${zText(q.window.max)})`,
+    (q) =>
+      `${q.name} ${sig(q.totals.count, 4)} (${all > 0 ? pct(q.totals.count / all) : '0%'}, z = ${zText(q.window.min)}-${zText(q.window.max)})`,
   );
   return [`Share of all ${sig(all, 4)} detections (${sig(p.totals.per_deg2, 4)} per deg^2): ${parts.join('; ')}.`];
 }
@@ -270,7 +365,8 @@ export function densitySummary(p: Prediction): string[] {
     const who = p.populations.length > 1 ? `${q.name}: ` : '';
     let line = `${who}luminosity density ${densityText(ld)}`;
     const sfr = q.totals.sfr_density_msun_yr_mpc3;
-    if (sfr) line += `; star-formation-rate density ${sig(sfr.detected, 4)}${sfr.total !== undefined ? ` of ${sig(sfr.total, 4)}` : ''} Msun/yr/Mpc^3`;
+    if (sfr)
+      line += `; star-formation-rate density ${sig(sfr.detected, 4)}${sfr.total !== undefined ? ` of ${sig(sfr.total, 4)}` : ''} Msun/yr/Mpc^3`;
     lines.push(line);
   }
   return lines;
@@ -287,7 +383,14 @@ export function predictionCsv(p: Prediction): string {
   const names = p.populations.map((q) => q.name);
   if (p.breakdown === 'observed') {
     const o = p.observed_bins;
-    const header = [`${o.variable}_min`, `${o.variable}_max`, ...names.map((n) => `count_${n}`), 'count', 'per_deg2', ...names.map((n) => `share_${n}`)];
+    const header = [
+      `${o.variable}_min`,
+      `${o.variable}_max`,
+      ...names.map((n) => `count_${n}`),
+      'count',
+      'per_deg2',
+      ...names.map((n) => `share_${n}`),
+    ];
     const rows = o.bins.map((b): CsvCell[] => [
       b.min,
       b.max,
@@ -316,20 +419,20 @@ export function predictionCsv(p: Prediction): string {
     'cumulative_count',
   ];
   const rows = p.slices.map((s): CsvCell[] => [
-      s.z_min,
-      s.z_max,
-      s.volume_mpc3,
-      s.limit_at_center,
-      ...(multi ? names.map((n) => s.population_counts?.[n] ?? 0) : []),
-      ...(p.photo_z ? [s.count_true_redshift ?? 0] : []),
-      s.count,
-      s.uncertainty?.poisson_fraction ?? '',
-      s.uncertainty?.cosmic_variance_fraction ?? '',
-      s.uncertainty?.total_fraction ?? '',
-      s.uncertainty?.bias ?? '',
-      ...(model ? [s.model?.p16 ?? '', s.model?.p50 ?? '', s.model?.p84 ?? '', s.model?.fraction ?? ''] : []),
-      s.per_deg2,
-      s.cumulative_count,
-    ]);
+    s.z_min,
+    s.z_max,
+    s.volume_mpc3,
+    s.limit_at_center,
+    ...(multi ? names.map((n) => s.population_counts?.[n] ?? 0) : []),
+    ...(p.photo_z ? [s.count_true_redshift ?? 0] : []),
+    s.count,
+    s.uncertainty?.poisson_fraction ?? '',
+    s.uncertainty?.cosmic_variance_fraction ?? '',
+    s.uncertainty?.total_fraction ?? '',
+    s.uncertainty?.bias ?? '',
+    ...(model ? [s.model?.p16 ?? '', s.model?.p50 ?? '', s.model?.p84 ?? '', s.model?.fraction ?? ''] : []),
+    s.per_deg2,
+    s.cumulative_count,
+  ]);
   return csvText(header, rows);
 }

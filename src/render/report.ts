@@ -7,7 +7,15 @@
  *
  * This module does not import vega: figures arrive already drawn (see figures.ts).
  */
-import type { Figure, ForecastView, ModelAsWritten, PlanDesignView, PlanView, PredictionView, SliceView } from './types.js';
+import type {
+  Figure,
+  ForecastView,
+  ModelAsWritten,
+  PlanDesignView,
+  PlanView,
+  PredictionView,
+  SliceView,
+} from './types.js';
 import { formatFixed, formatNumber, formatScientific, formatZ, goalWords, percent, shapeWords } from './format.js';
 
 export interface ReportInput {
@@ -48,8 +56,24 @@ export function escapeHtml(value: unknown): string {
 
 /** Elements vega's SVG renderer writes; anything else is refused. */
 const SVG_ELEMENTS = new Set([
-  'svg', 'g', 'path', 'rect', 'line', 'text', 'tspan', 'circle', 'ellipse', 'polyline', 'polygon',
-  'defs', 'clippath', 'lineargradient', 'radialgradient', 'stop', 'title', 'desc',
+  'svg',
+  'g',
+  'path',
+  'rect',
+  'line',
+  'text',
+  'tspan',
+  'circle',
+  'ellipse',
+  'polyline',
+  'polygon',
+  'defs',
+  'clippath',
+  'lineargradient',
+  'radialgradient',
+  'stop',
+  'title',
+  'desc',
 ]);
 /** Attributes whose value may hold a paint or reference: only url(#local-id) is allowed there. */
 const PAINT_ATTRIBUTES = /^(fill|stroke|clip-path|mask|filter|style|marker-start|marker-mid|marker-end|cursor)$/i;
@@ -81,7 +105,10 @@ export function assertSafeSvg(svg: string, name = 'figure'): void {
       const value = (a[2] ?? '').replace(/^["']|["']$/g, '');
       if (attr.startsWith('on')) fail(`it holds an event-handler attribute (${attr})`);
       if (/(^|:)(href|src)$/.test(attr)) fail(`it holds a link attribute (${attr})`);
-      if (PAINT_ATTRIBUTES.test(attr) && (/url\s*\(\s*(?!['"]?#)/i.test(value) || /javascript:|expression\s*\(/i.test(value))) {
+      if (
+        PAINT_ATTRIBUTES.test(attr) &&
+        (/url\s*\(\s*(?!['"]?#)/i.test(value) || /javascript:|expression\s*\(/i.test(value))
+      ) {
         fail(`it holds a URL in ${attr}`);
       }
     }
@@ -150,7 +177,11 @@ function modelValueHtml(v: unknown): string {
 
 function modelHtml(models: ModelAsWritten[]): string {
   const blocks = models.map((m) => {
-    const head = [m.name, typeof m.shape === 'string' && m.shape ? shapeWords(m.shape) : '', m.variable ? `in ${m.variable}` : '']
+    const head = [
+      m.name,
+      typeof m.shape === 'string' && m.shape ? shapeWords(m.shape) : '',
+      m.variable ? `in ${m.variable}` : '',
+    ]
       .filter((s) => typeof s === 'string' && s.length > 0)
       .map(escapeHtml)
       .join(', ');
@@ -158,7 +189,9 @@ function modelHtml(models: ModelAsWritten[]): string {
       .filter(([k, v]) => !['name', 'shape', 'variable'].includes(k) && v !== undefined && v !== null)
       .map(([k, v]) => {
         const label = paramLabel(k, quantityOf(m));
-        const keyHtml = label ? `${escapeHtml(label)} <span class="key">${escapeHtml(k)}</span>` : `<span class="key">${escapeHtml(k)}</span>`;
+        const keyHtml = label
+          ? `${escapeHtml(label)} <span class="key">${escapeHtml(k)}</span>`
+          : `<span class="key">${escapeHtml(k)}</span>`;
         return `<tr><th scope="row">${keyHtml}</th><td>${k === 'values_used' && typeof v === 'string' ? escapeHtml(v) : modelValueHtml(v)}</td></tr>`;
       })
       .join('\n');
@@ -175,12 +208,25 @@ function modelVariable(models: ModelAsWritten[]): string | undefined {
 // ---------------------------------------------------------------------------------------------
 // Tables
 
-function predictTable(p: PredictionView, variable: string | undefined, quantity?: string, id = 'predict-table'): string {
+function predictTable(
+  p: PredictionView,
+  variable: string | undefined,
+  quantity?: string,
+  id = 'predict-table',
+): string {
   const withU = p.slices.some((s) => typeof s.uncertainty?.total_fraction === 'number');
-  const withParts = p.slices.some((s) => typeof s.uncertainty?.poisson_fraction === 'number' || typeof s.uncertainty?.cosmic_variance_fraction === 'number');
+  const withParts = p.slices.some(
+    (s) =>
+      typeof s.uncertainty?.poisson_fraction === 'number' ||
+      typeof s.uncertainty?.cosmic_variance_fraction === 'number',
+  );
   const limitHead = quantity
     ? `limit at centre<br><span class="unit">log₁₀ ${escapeHtml(quantity)}</span>`
-    : variable === 'magnitude' ? 'limit at centre<br><span class="unit">M [AB mag]</span>' : variable === 'luminosity' ? 'limit at centre<br><span class="unit">log₁₀ L [erg s⁻¹]</span>' : 'limit at centre';
+    : variable === 'magnitude'
+      ? 'limit at centre<br><span class="unit">M [AB mag]</span>'
+      : variable === 'luminosity'
+        ? 'limit at centre<br><span class="unit">log₁₀ L [erg s⁻¹]</span>'
+        : 'limit at centre';
   const heads = [
     'slice',
     'window<br><span class="unit">z</span>',
@@ -206,7 +252,8 @@ function predictTable(p: PredictionView, variable: string | undefined, quantity?
         formatNumber(s.per_deg2),
         formatNumber(cum),
       ];
-      if (withU) cells.push(typeof u?.total_fraction === 'number' ? `± ${formatNumber(s.count * u.total_fraction, 3)}` : '');
+      if (withU)
+        cells.push(typeof u?.total_fraction === 'number' ? `± ${formatNumber(s.count * u.total_fraction, 3)}` : '');
       if (withParts) cells.push(percent(u?.poisson_fraction), percent(u?.cosmic_variance_fraction));
       return `<tr>${cells.map((c) => `<td>${c}</td>`).join('')}</tr>`;
     })
@@ -222,7 +269,8 @@ function predictTable(p: PredictionView, variable: string | undefined, quantity?
     formatNumber(t.per_deg2),
     formatNumber(t.count),
   ];
-  if (withU) total.push(typeof tu?.total_fraction === 'number' ? `± ${formatNumber(t.count * tu.total_fraction, 3)}` : '');
+  if (withU)
+    total.push(typeof tu?.total_fraction === 'number' ? `± ${formatNumber(t.count * tu.total_fraction, 3)}` : '');
   if (withParts) total.push(percent(tu?.poisson_fraction), percent(tu?.cosmic_variance_fraction));
   return `<table class="numbers" id="${id}">
 <thead><tr>${heads.map((h) => `<th scope="col">${h}</th>`).join('')}</tr></thead>
@@ -245,7 +293,8 @@ function populationsTables(p: PredictionView, variable: string | undefined, quan
   const pops = p.populations ?? [];
   const all = p.totals.count;
   const share = (n: number) => (all > 0 ? percent(n / all) : '');
-  const pm = (n: number, u: { total_fraction: number } | undefined) => (typeof u?.total_fraction === 'number' ? `± ${formatNumber(n * u.total_fraction, 3)}` : '');
+  const pm = (n: number, u: { total_fraction: number } | undefined) =>
+    typeof u?.total_fraction === 'number' ? `± ${formatNumber(n * u.total_fraction, 3)}` : '';
   const rows = pops
     .map((q) => {
       const cells = [
@@ -260,8 +309,24 @@ function populationsTables(p: PredictionView, variable: string | undefined, quan
       return `<tr>${cells.map((c) => `<td>${c}</td>`).join('')}</tr>`;
     })
     .join('\n');
-  const total = ['all', '', formatScientific(p.totals.volume_mpc3), formatNumber(all), pm(all, p.totals.uncertainty), formatNumber(p.totals.per_deg2), all > 0 ? '100.0%' : ''];
-  const heads = ['population', 'window<br><span class="unit">z</span>', 'volume<br><span class="unit">Mpc³</span>', 'count', '± 1σ<br><span class="unit">count</span>', 'per deg²', 'share'];
+  const total = [
+    'all',
+    '',
+    formatScientific(p.totals.volume_mpc3),
+    formatNumber(all),
+    pm(all, p.totals.uncertainty),
+    formatNumber(p.totals.per_deg2),
+    all > 0 ? '100.0%' : '',
+  ];
+  const heads = [
+    'population',
+    'window<br><span class="unit">z</span>',
+    'volume<br><span class="unit">Mpc³</span>',
+    'count',
+    '± 1σ<br><span class="unit">count</span>',
+    'per deg²',
+    'share',
+  ];
   let out = `<table class="numbers" id="populations-table">
 <thead><tr>${heads.map((h) => `<th scope="col">${h}</th>`).join('')}</tr></thead>
 <tbody>
@@ -276,7 +341,12 @@ ${rows}
     let z = o.bins.length;
     while (a < z && !(o.bins[a]!.count >= OBSERVED_FLOOR * all)) a++;
     while (z > a && !(o.bins[z - 1]!.count >= OBSERVED_FLOOR * all)) z--;
-    const label = o.variable === 'log10_line_flux' ? 'log₁₀ line flux<br><span class="unit">erg s⁻¹ cm⁻²</span>' : o.variable === 'apparent_magnitude' ? 'apparent magnitude<br><span class="unit">AB mag</span>' : escapeHtml(o.variable);
+    const label =
+      o.variable === 'log10_line_flux'
+        ? 'log₁₀ line flux<br><span class="unit">erg s⁻¹ cm⁻²</span>'
+        : o.variable === 'apparent_magnitude'
+          ? 'apparent magnitude<br><span class="unit">AB mag</span>'
+          : escapeHtml(o.variable);
     const binRows = o.bins
       .slice(a, z)
       .map((b) => {
@@ -289,7 +359,12 @@ ${rows}
         return `<tr>${cells.map((c) => `<td>${c}</td>`).join('')}</tr>`;
       })
       .join('\n');
-    const binHeads = [label, ...names.map((n) => escapeHtml(n)), 'all', ...names.map((n) => `share of ${escapeHtml(n)}`)];
+    const binHeads = [
+      label,
+      ...names.map((n) => escapeHtml(n)),
+      'all',
+      ...names.map((n) => `share of ${escapeHtml(n)}`),
+    ];
     out += `
 <h3>Detections per bin of the observed value: the interloper fraction</h3>
 <table class="numbers" id="observed-table">
@@ -324,7 +399,10 @@ function forecastTables(f: ForecastView): string {
   const fromSummary = fits.length < 2 && !!summary && Object.keys(summary).length > 0;
   const summaryStats = (name: string): [string, string] => {
     const v = summary?.[name];
-    return [typeof v?.mean === 'number' ? formatNumber(v.mean, 5) : '', typeof v?.std === 'number' ? formatNumber(v.std, 3) : ''];
+    return [
+      typeof v?.mean === 'number' ? formatNumber(v.mean, 5) : '',
+      typeof v?.std === 'number' ? formatNumber(v.std, 3) : '',
+    ];
   };
   const withMocks = fits.length >= 2 || fromSummary;
   const nMocks = fits.length >= 2 ? fits.length : (summaryCount ?? 0);
@@ -369,7 +447,10 @@ ${corr}`;
 function planTable(plan: PlanView): string {
   const same = (a: PlanDesignView, b: PlanDesignView | undefined) =>
     !!b && a.exposure_hours_per_pointing === b.exposure_hours_per_pointing && a.pointings === b.pointings;
-  const nb = plan.near_best && { from: plan.near_best.from.exposure_hours_per_pointing, to: plan.near_best.to.exposure_hours_per_pointing };
+  const nb = plan.near_best && {
+    from: plan.near_best.from.exposure_hours_per_pointing,
+    to: plan.near_best.to.exposure_hours_per_pointing,
+  };
   const lo = nb ? Math.min(nb.from, nb.to) : NaN;
   const hi = nb ? Math.max(nb.from, nb.to) : NaN;
   // The best design may come from refining between grid designs: it is listed with them.
@@ -403,7 +484,9 @@ function planTable(plan: PlanView): string {
     `goal value<br><span class="unit">${escapeHtml(goalWords(plan.goal))}</span>`,
     '',
   ];
-  const range = nb ? ` Designs from ${formatNumber(lo)} to ${formatNumber(hi)} hours per pointing come close to the best.` : '';
+  const range = nb
+    ? ` Designs from ${formatNumber(lo)} to ${formatNumber(hi)} hours per pointing come close to the best.`
+    : '';
   return `<p>Goal: ${escapeHtml(goalWords(plan.goal))}; time available: ${formatNumber(plan.budget_hours)} hours.${range}</p>
 <table class="numbers" id="plan-table">
 <thead><tr>${heads.map((h) => `<th scope="col">${h}</th>`).join('')}</tr></thead>
@@ -456,7 +539,8 @@ figcaption { font-size: 0.9em; color: #444; margin-top: 4px; }
 /** A forecast or plan section: its tables, or the sentence saying why there are none, or nothing. */
 function section(id: string, heading: string, body: string | undefined, omitted: string | undefined): string {
   if (body !== undefined) return `<section id="${id}">\n<h2>${heading}</h2>\n${body}\n</section>`;
-  if (omitted) return `<section id="${id}">\n<h2>${heading}</h2>\n<p class="omitted" id="${id}-omitted">${escapeHtml(omitted)}</p>\n</section>`;
+  if (omitted)
+    return `<section id="${id}">\n<h2>${heading}</h2>\n<p class="omitted" id="${id}-omitted">${escapeHtml(omitted)}</p>\n</section>`;
   return '';
 }
 
@@ -477,10 +561,10 @@ export function renderReport(input: ReportInput): string {
     : '';
   const window = p.redshift ? `redshift ${formatZ(p.redshift.min)}–${formatZ(p.redshift.max)}` : '';
   const observed = p.breakdown === 'observed';
-  const layout = observed ? `${(p.populations ?? []).length} populations, each in its own redshift window` : `${p.slices.length} slices`;
-  const summary = [`area ${formatNumber(p.area_deg2)} deg²`, window, layout, cosmo]
-    .filter((s) => s)
-    .join('; ');
+  const layout = observed
+    ? `${(p.populations ?? []).length} populations, each in its own redshift window`
+    : `${p.slices.length} slices`;
+  const summary = [`area ${formatNumber(p.area_deg2)} deg²`, window, layout, cosmo].filter((s) => s).join('; ');
   const totalU = p.totals.uncertainty?.total_fraction;
   const headline =
     `Expected count: <strong>${formatNumber(p.totals.count)}</strong>` +

@@ -11,13 +11,22 @@
 import type { LuminosityFunctionCurve } from '../population/curves.js';
 import type { Forecast, FisherBlock, MocksBlock } from '../model/outputs/forecast.js';
 import type { Plan, PlanDesign } from '../model/outputs/plan.js';
-import type { ObservedBins, PopulationPrediction, Prediction, PredictionSlice, PredictionTotals } from '../model/outputs/prediction.js';
+import type {
+  ObservedBins,
+  PopulationPrediction,
+  Prediction,
+  PredictionSlice,
+  PredictionTotals,
+} from '../model/outputs/prediction.js';
 import type { CosmologyBlock, ModelDescription, RedshiftRange } from '../model/outputs/shared.js';
 
 export type { LuminosityFunctionCurve };
 
 /** One slice as drawn: the prediction's slice, with the luminosity function at its middle. */
-export type SliceView = Pick<PredictionSlice, 'z_min' | 'z_max' | 'volume_mpc3' | 'count' | 'per_deg2' | 'limit_at_center' | 'uncertainty'> &
+export type SliceView = Pick<
+  PredictionSlice,
+  'z_min' | 'z_max' | 'volume_mpc3' | 'count' | 'per_deg2' | 'limit_at_center' | 'uncertainty'
+> &
   Partial<Pick<PredictionSlice, 'histogram'>> & {
     luminosity_function?: LuminosityFunctionCurve;
   };
@@ -62,7 +71,10 @@ export type ForecastView = Pick<Forecast, 'parameters' | 'center'> & {
 };
 
 /** One design of a plan as drawn and tabulated. */
-export type PlanDesignView = Pick<PlanDesign, 'exposure_hours_per_pointing' | 'pointings' | 'area_deg2' | 'limit' | 'count' | 'goal_value'>;
+export type PlanDesignView = Pick<
+  PlanDesign,
+  'exposure_hours_per_pointing' | 'pointings' | 'area_deg2' | 'limit' | 'count' | 'goal_value'
+>;
 
 /** The fields of a plan (the `plan` result) the figure and the report read. */
 export type PlanView = Pick<Plan, 'goal' | 'budget_hours'> & {

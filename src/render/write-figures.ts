@@ -26,7 +26,11 @@ export interface WriteFiguresResult {
 interface ResvgModule {
   Resvg: new (
     svg: string,
-    options?: { fitTo?: { mode: 'zoom'; value: number }; background?: string; font?: { loadSystemFonts?: boolean; defaultFontFamily?: string } },
+    options?: {
+      fitTo?: { mode: 'zoom'; value: number };
+      background?: string;
+      font?: { loadSystemFonts?: boolean; defaultFontFamily?: string };
+    },
   ) => { render(): { asPng(): Uint8Array } };
 }
 const RASTERISER = '@resvg/resvg-js';
@@ -37,7 +41,10 @@ export function loadRasteriser(): Promise<ResvgModule | Error> {
   resvg ??= (import(RASTERISER) as Promise<ResvgModule & { default?: ResvgModule }>).then(
     // a CommonJS package: named export when Node detects it, else on the default export
     (m) => (typeof m.Resvg === 'function' ? m : m.default!),
-    (e: unknown) => new Error(`PNG not written: the rasteriser @resvg/resvg-js did not load (${e instanceof Error ? e.message : String(e)})`),
+    (e: unknown) =>
+      new Error(
+        `PNG not written: the rasteriser @resvg/resvg-js did not load (${e instanceof Error ? e.message : String(e)})`,
+      ),
   );
   return resvg;
 }

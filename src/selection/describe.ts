@@ -21,7 +21,10 @@ export function describeSelection(detection: Detection, p: Population): Selectio
   const sel = p.redshiftSelection ?? detection.redshiftSelection;
   if (sel) {
     block.effects.push('redshift_selection');
-    block.redshift_selection = { from: p.redshiftSelection ? 'population' : 'detection', fraction: { given: sel.source, at_window_middle: sel.at(zMid) } };
+    block.redshift_selection = {
+      from: p.redshiftSelection ? 'population' : 'detection',
+      fraction: { given: sel.source, at_window_middle: sel.at(zMid) },
+    };
   }
   if (p.blendRatio !== undefined) {
     block.effects.push('blend_ratio');

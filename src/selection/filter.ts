@@ -94,13 +94,25 @@ export function tableFwhm(t: TransmissionTable): number {
   };
   let lo = w[0]!;
   for (let k = 0; k + 1 < w.length; k++) {
-    if (tr[k]! >= 0.5) { lo = w[k]!; break; }
-    if (tr[k + 1]! >= 0.5) { lo = cross(k); break; }
+    if (tr[k]! >= 0.5) {
+      lo = w[k]!;
+      break;
+    }
+    if (tr[k + 1]! >= 0.5) {
+      lo = cross(k);
+      break;
+    }
   }
   let hi = w[w.length - 1]!;
   for (let k = w.length - 1; k > 0; k--) {
-    if (tr[k]! >= 0.5) { hi = w[k]!; break; }
-    if (tr[k - 1]! >= 0.5) { hi = cross(k - 1); break; }
+    if (tr[k]! >= 0.5) {
+      hi = w[k]!;
+      break;
+    }
+    if (tr[k - 1]! >= 0.5) {
+      hi = cross(k - 1);
+      break;
+    }
   }
   return hi - lo;
 }

@@ -102,7 +102,13 @@ function mergedEdges(base: number[], extra: number[], lo: number, hi: number): n
  * The two integrals of a band at redshift z (observed frame): int l f(l / (1+z)) T(l) R(l) dl and
  * int R(l) / l dl, T the IGM transmission (1 without); the second only `withDen` (else NaN).
  */
-export function bandIntegrals(spec: SpectrumShape, band: Filter, z: number, igm: IgmModel = 'none', withDen = true): { num: number; den: number } {
+export function bandIntegrals(
+  spec: SpectrumShape,
+  band: Filter,
+  z: number,
+  igm: IgmModel = 'none',
+  withDen = true,
+): { num: number; den: number } {
   const [lo, hi] = bandSupport(band);
   const s = 1 + z;
   const extra: number[] = [];
@@ -123,7 +129,12 @@ export function bandIntegrals(spec: SpectrumShape, band: Filter, z: number, igm:
  * K(z) = m - M - DM (Hogg et al. 2002 eq. 2) of a spectrum through a band, the absolute magnitude
  * at a rest wavelength or in a rest band; exact synthetic photometry at each call.
  */
-export function kCorrectionFunction(spec: SpectrumShape, band: Filter, rest: RestFrame, igm: IgmModel = 'none'): (z: number) => number {
+export function kCorrectionFunction(
+  spec: SpectrumShape,
+  band: Filter,
+  rest: RestFrame,
+  igm: IgmModel = 'none',
+): (z: number) => number {
   const denR = bandIntegrals(spec, band, 0).den;
   let restTerm: number;
   if (rest.kind === 'wavelength') {
@@ -139,7 +150,13 @@ export function kCorrectionFunction(spec: SpectrumShape, band: Filter, rest: Res
 }
 
 /** Piecewise cubics through four equally spaced values per interval; intervals halved where needed. */
-export function adaptiveCubicTable(f: (z: number) => number, a: number, b: number, tol: number, maxPiece = 0.05): (z: number) => number {
+export function adaptiveCubicTable(
+  f: (z: number) => number,
+  a: number,
+  b: number,
+  tol: number,
+  maxPiece = 0.05,
+): (z: number) => number {
   const starts: number[] = [];
   const values: number[][] = [];
   const MIN_WIDTH = 1e-7;
@@ -148,7 +165,10 @@ export function adaptiveCubicTable(f: (z: number) => number, a: number, b: numbe
     const [y0, y1, y2, y3] = v as [number, number, number, number];
     const t = 3 * u;
     return (
-      (-y0 * (t - 1) * (t - 2) * (t - 3)) / 6 + (y1 * t * (t - 2) * (t - 3)) / 2 - (y2 * t * (t - 1) * (t - 3)) / 2 + (y3 * t * (t - 1) * (t - 2)) / 6
+      (-y0 * (t - 1) * (t - 2) * (t - 3)) / 6 +
+      (y1 * t * (t - 2) * (t - 3)) / 2 -
+      (y2 * t * (t - 1) * (t - 3)) / 2 +
+      (y3 * t * (t - 1) * (t - 2)) / 6
     );
   };
   // f1of3, f2of3: f at x0 + h/3 and x0 + 2h/3 when already known (a half's are its parent's h/6, h/3 or 2h/3, 5h/6).
@@ -158,7 +178,11 @@ export function adaptiveCubicTable(f: (z: number) => number, a: number, b: numbe
     const fm = f(x0 + h / 2);
     const f1of6 = f(x0 + h / 6);
     const f5of6 = f(x0 + (5 * h) / 6);
-    const ok = h < MIN_WIDTH || (Math.abs(cubicAt(v, 0.5) - fm) <= tol && Math.abs(cubicAt(v, 1 / 6) - f1of6) <= tol && Math.abs(cubicAt(v, 5 / 6) - f5of6) <= tol);
+    const ok =
+      h < MIN_WIDTH ||
+      (Math.abs(cubicAt(v, 0.5) - fm) <= tol &&
+        Math.abs(cubicAt(v, 1 / 6) - f1of6) <= tol &&
+        Math.abs(cubicAt(v, 5 / 6) - f5of6) <= tol);
     if (ok) {
       starts.push(x0);
       values.push(v);
@@ -198,7 +222,13 @@ function restKey(rest: RestFrame): string {
  * K(z) of detection.sed for a rest frame, tabulated over [zMin, zMax] (computed exactly outside it,
  * after checking the spectrum covers the redshift asked for). Kept with the spectrum for later calls.
  */
-export function sedKCorrection(sed: SedPhotometry, rest: RestFrame, igm: IgmModel, zMin: number, zMax: number): (z: number) => number {
+export function sedKCorrection(
+  sed: SedPhotometry,
+  rest: RestFrame,
+  igm: IgmModel,
+  zMin: number,
+  zMax: number,
+): (z: number) => number {
   let byKey = cache.get(sed);
   if (!byKey) {
     byKey = new Map();

@@ -99,7 +99,9 @@ export function makeObserver(detection: Detection, population: Population, cosmo
       let kOf: (z: number) => number;
       if (sed) {
         // Synthetic photometry (src/selection/kcorrection.ts); the IGM, if any, inside its integral.
-        const frame: RestFrame = population.restBand ? { kind: 'band', band: population.restBand } : { kind: 'wavelength', angstrom: rest };
+        const frame: RestFrame = population.restBand
+          ? { kind: 'band', band: population.restBand }
+          : { kind: 'wavelength', angstrom: rest };
         // Tabulated over the redshifts counted: the window, or with photo_z the true range reaching it.
         const zs = detection.photoZ ? photoZTrueRange(population.window, detection.photoZ) : population.window;
         const kSed = sedKCorrection(sed, frame, detection.igm, zs.min, zs.max);
@@ -144,7 +146,14 @@ export function makeObserver(detection: Detection, population: Population, cosmo
         variable: 'absolute_magnitude',
         at(z, mStar) {
           const lim = limit.at(z);
-          return { a: mStar, slope: -2.5, obsLimit: lim, log10ULimit: (mStar - lim) / 2.5, limitInVariable: lim, transmission: 1 };
+          return {
+            a: mStar,
+            slope: -2.5,
+            obsLimit: lim,
+            log10ULimit: (mStar - lim) / 2.5,
+            limitInVariable: lim,
+            transmission: 1,
+          };
         },
       };
     }

@@ -37,7 +37,8 @@ export function selectionWarnings(survey: Survey): Warning[] {
       // band / (1 + z) falls with z: its extremes are at the window's ends
       const atMin = d.bandAngstrom / (1 + min);
       const atMax = d.bandAngstrom / (1 + max);
-      const worst = Math.abs(atMin / rest - 1) >= Math.abs(atMax / rest - 1) ? { z: min, l: atMin } : { z: max, l: atMax };
+      const worst =
+        Math.abs(atMin / rest - 1) >= Math.abs(atMax / rest - 1) ? { z: min, l: atMin } : { z: max, l: atMax };
       if (Math.abs(worst.l / rest - 1) > REST_WAVELENGTH_TOLERANCE) {
         out.push(
           warning(

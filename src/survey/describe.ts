@@ -25,9 +25,16 @@ function describeCompleteness(c: Completeness | undefined): CompletenessBlock | 
 }
 
 /** detection.photo_z with the true redshifts it integrates (src/model/photo-z.ts). */
-function photoZView(pz: PhotoZ | undefined, survey: Survey): { sigma: number; outlier_fraction: number; true_range: { min: number; max: number } } | undefined {
+function photoZView(
+  pz: PhotoZ | undefined,
+  survey: Survey,
+): { sigma: number; outlier_fraction: number; true_range: { min: number; max: number } } | undefined {
   if (!pz) return undefined;
-  return { sigma: pz.sigma, outlier_fraction: pz.outlierFraction, true_range: photoZTrueRange(survey.populations[0]!.window, pz) };
+  return {
+    sigma: pz.sigma,
+    outlier_fraction: pz.outlierFraction,
+    true_range: photoZTrueRange(survey.populations[0]!.window, pz),
+  };
 }
 
 /** Remove undefined members so the view prints cleanly as JSON. */
@@ -47,7 +54,12 @@ export function describeSurvey(survey: Survey): Omit<SurveyCheck, 'warnings'> {
       limit_cgs: d.limitCgs,
       line_angstrom: d.lineAngstrom,
       filter: d.filter
-        ? clean({ center_angstrom: d.filter.centerAngstrom, fwhm_angstrom: d.filter.fwhmAngstrom, profile: d.filter.profile, file: d.filter.table?.file })
+        ? clean({
+            center_angstrom: d.filter.centerAngstrom,
+            fwhm_angstrom: d.filter.fwhmAngstrom,
+            profile: d.filter.profile,
+            file: d.filter.table?.file,
+          })
         : undefined,
       completeness: describeCompleteness(d.completeness),
     });
@@ -60,14 +72,25 @@ export function describeSurvey(survey: Survey): Omit<SurveyCheck, 'warnings'> {
       system: d.magnitudeSystem?.system,
       vega_to_ab: d.magnitudeSystem?.vegaToAb,
       sed_file: d.sed?.spectrum.file,
-      band: d.sed ? { profile: d.sed.band.profile, center_angstrom: d.sed.band.centerAngstrom, fwhm_angstrom: d.sed.band.fwhmAngstrom } : undefined,
+      band: d.sed
+        ? {
+            profile: d.sed.band.profile,
+            center_angstrom: d.sed.band.centerAngstrom,
+            fwhm_angstrom: d.sed.band.fwhmAngstrom,
+          }
+        : undefined,
       beta: d.beta,
       igm: d.igm,
       photo_z: photoZView(d.photoZ, survey),
       completeness: describeCompleteness(d.completeness),
     });
   } else {
-    detection = clean({ kind: d.kind, limit: parameterView(d.limit, win), photo_z: photoZView(d.photoZ, survey), completeness: describeCompleteness(d.completeness) });
+    detection = clean({
+      kind: d.kind,
+      limit: parameterView(d.limit, win),
+      photo_z: photoZView(d.photoZ, survey),
+      completeness: describeCompleteness(d.completeness),
+    });
   }
   return clean({
     format: survey.format,
@@ -94,18 +117,37 @@ export function describeSurvey(survey: Survey): Omit<SurveyCheck, 'warnings'> {
         alpha: parameterView(p.alpha, p.window),
         components:
           p.components.length > 1
-            ? p.components.map((c) => ({ phi_star_mpc3: parameterView(c.phiStar, p.window), alpha: parameterView(c.alpha, p.window) }))
+            ? p.components.map((c) => ({
+                phi_star_mpc3: parameterView(c.phiStar, p.window),
+                alpha: parameterView(c.alpha, p.window),
+              }))
             : undefined,
         sfr_conversion: p.sfrConversion ? { name: p.sfrConversion.name, factor: p.sfrConversion.factor } : undefined,
         slice_edges: p.sliceEdges,
         line_angstrom: p.lineAngstrom,
         rest_wavelength_angstrom: p.restWavelengthAngstrom,
         rest_band: p.restBand
-          ? clean({ profile: p.restBand.profile, center_angstrom: p.restBand.centerAngstrom, fwhm_angstrom: p.restBand.fwhmAngstrom, file: p.restBand.table?.file })
+          ? clean({
+              profile: p.restBand.profile,
+              center_angstrom: p.restBand.centerAngstrom,
+              fwhm_angstrom: p.restBand.fwhmAngstrom,
+              file: p.restBand.table?.file,
+            })
           : undefined,
         magnitude_system:
-          p.variable === 'magnitude' ? clean({ stated: 'ab' as const, m_star_given: p.magnitudeSystem?.system ?? ('ab' as const), vega_to_ab: p.magnitudeSystem?.vegaToAb }) : undefined,
-        k_correction: d.kind === 'magnitude' ? (d.sed ? { method: 'spectrum' as const, spectrum_file: d.sed.spectrum.file } : { method: 'power_law' as const, beta: d.beta }) : undefined,
+          p.variable === 'magnitude'
+            ? clean({
+                stated: 'ab' as const,
+                m_star_given: p.magnitudeSystem?.system ?? ('ab' as const),
+                vega_to_ab: p.magnitudeSystem?.vegaToAb,
+              })
+            : undefined,
+        k_correction:
+          d.kind === 'magnitude'
+            ? d.sed
+              ? { method: 'spectrum' as const, spectrum_file: d.sed.spectrum.file }
+              : { method: 'power_law' as const, beta: d.beta }
+            : undefined,
         bias: p.bias === 'auto' ? 'auto' : parameterView(p.bias, p.window),
         occupation: p.occupation,
         selection: describeSelection(d, p),

@@ -94,7 +94,8 @@ function lexicalProblem(text: string, onlySilent = false): string | undefined {
         prev = c;
         continue;
       }
-      const word = c === '%' ? ' (percentages and the remainder are not allowed)' : c === '#' ? ' (comments are not allowed)' : '';
+      const word =
+        c === '%' ? ' (percentages and the remainder are not allowed)' : c === '#' ? ' (comments are not allowed)' : '';
       return `contains the character "${c}"${word}`;
     }
     const tok = m[0];
@@ -132,9 +133,10 @@ export function compileExpression(text: string, file: string, keyPath: string): 
   let root: MathNode;
   try {
     // The common forms without building mathjs's parser; the rest (and every error) through mathjs.
-    root = quickParse(text) ?? (getParser().parse(text));
+    root = quickParse(text) ?? getParser().parse(text);
   } catch (e) {
-    const msg = e instanceof RangeError ? 'nests too deeply' : (e as Error).message.replace(/\.$/, '').replace(/\s+/g, ' ');
+    const msg =
+      e instanceof RangeError ? 'nests too deeply' : (e as Error).message.replace(/\.$/, '').replace(/\s+/g, ' ');
     return reject(`cannot be read (${msg})`);
   }
 
@@ -169,12 +171,23 @@ export function compileExpression(text: string, file: string, keyPath: string): 
           const fa = a.fn;
           const fb = b.fn;
           switch (node.fn) {
-            case 'add': fn = (z) => fa(z) + fb(z); break;
-            case 'subtract': fn = (z) => fa(z) - fb(z); break;
-            case 'multiply': fn = (z) => fa(z) * fb(z); break;
-            case 'divide': fn = (z) => fa(z) / fb(z); break;
-            case 'pow': fn = (z) => fa(z) ** fb(z); break;
-            default: return reject(`contains the operator "${node.op}"`);
+            case 'add':
+              fn = (z) => fa(z) + fb(z);
+              break;
+            case 'subtract':
+              fn = (z) => fa(z) - fb(z);
+              break;
+            case 'multiply':
+              fn = (z) => fa(z) * fb(z);
+              break;
+            case 'divide':
+              fn = (z) => fa(z) / fb(z);
+              break;
+            case 'pow':
+              fn = (z) => fa(z) ** fb(z);
+              break;
+            default:
+              return reject(`contains the operator "${node.op}"`);
           }
         } else {
           return reject(`contains the operator "${node.op}"`);

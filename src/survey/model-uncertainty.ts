@@ -46,54 +46,148 @@ function isPlainObject(v: unknown): v is Record<string, unknown> {
 
 export function parseModelUncertainty(raw: unknown, ctx: ModelUncertaintyContext): ModelUncertainty {
   const { file, path } = ctx;
-  if (!isPlainObject(raw)) throw inputError('wrong_type', file, path, 'is not a mapping', 'give 1-sigma values of the parameters, or draws_file');
+  if (!isPlainObject(raw))
+    throw inputError(
+      'wrong_type',
+      file,
+      path,
+      'is not a mapping',
+      'give 1-sigma values of the parameters, or draws_file',
+    );
   const allowed = modelParameterNames(ctx.shape, ctx.variable);
   const allowedText = `${allowed.join(', ')}, correlation or draws_file`;
   const keys = Object.keys(raw);
-  if (keys.length === 0) throw inputError('missing_key', file, path, 'is empty', `give 1-sigma values of ${allowed.join(', ')}, or draws_file`);
+  if (keys.length === 0)
+    throw inputError(
+      'missing_key',
+      file,
+      path,
+      'is empty',
+      `give 1-sigma values of ${allowed.join(', ')}, or draws_file`,
+    );
   for (const k of keys) {
     if (k === 'correlation' || k === 'draws_file') continue;
     if (!allowed.includes(k as ModelParameter)) {
-      throw inputError('unknown_key', file, `${path}.${k}`, `is not a parameter of this ${ctx.shape === 'double_schechter' ? 'double Schechter ' : ''}population (${ctx.variable} variable)`, `use ${allowedText}`);
+      throw inputError(
+        'unknown_key',
+        file,
+        `${path}.${k}`,
+        `is not a parameter of this ${ctx.shape === 'double_schechter' ? 'double Schechter ' : ''}population (${ctx.variable} variable)`,
+        `use ${allowedText}`,
+      );
     }
   }
   if (raw.draws_file !== undefined) {
     const other = keys.find((k) => k !== 'draws_file');
-    if (other !== undefined) throw inputError('conflict', file, `${path}.${other}`, 'is given beside draws_file', 'give either the sigmas (and correlation) or draws_file');
-    if (typeof raw.draws_file !== 'string' || raw.draws_file.length === 0) throw inputError('wrong_type', file, `${path}.draws_file`, 'is not a file name', 'give the path of a CSV of draws relative to the survey file');
+    if (other !== undefined)
+      throw inputError(
+        'conflict',
+        file,
+        `${path}.${other}`,
+        'is given beside draws_file',
+        'give either the sigmas (and correlation) or draws_file',
+      );
+    if (typeof raw.draws_file !== 'string' || raw.draws_file.length === 0)
+      throw inputError(
+        'wrong_type',
+        file,
+        `${path}.draws_file`,
+        'is not a file name',
+        'give the path of a CSV of draws relative to the survey file',
+      );
     return readDrawsFile(raw.draws_file, ctx, allowed);
   }
   const parameters = keys.filter((k) => k !== 'correlation') as ModelParameter[];
-  if (parameters.length === 0) throw inputError('missing_key', file, path, 'gives a correlation but no sigma', `give 1-sigma values of ${allowed.join(', ')}`);
+  if (parameters.length === 0)
+    throw inputError(
+      'missing_key',
+      file,
+      path,
+      'gives a correlation but no sigma',
+      `give 1-sigma values of ${allowed.join(', ')}`,
+    );
   const sigmas = parameters.map((p) => {
     const v = raw[p];
-    if (typeof v !== 'number' || !Number.isFinite(v)) throw inputError('wrong_type', file, `${path}.${p}`, 'is not a number', 'give the 1-sigma uncertainty as a number');
-    if (v < 0) throw inputError('out_of_range', file, `${path}.${p}`, `is ${fmt(v)}, a negative sigma`, 'give the 1-sigma uncertainty as 0 or more');
+    if (typeof v !== 'number' || !Number.isFinite(v))
+      throw inputError(
+        'wrong_type',
+        file,
+        `${path}.${p}`,
+        'is not a number',
+        'give the 1-sigma uncertainty as a number',
+      );
+    if (v < 0)
+      throw inputError(
+        'out_of_range',
+        file,
+        `${path}.${p}`,
+        `is ${fmt(v)}, a negative sigma`,
+        'give the 1-sigma uncertainty as 0 or more',
+      );
     const unit = p === 'm_star' ? ' mag' : p.startsWith('alpha') ? '' : ' dex';
-    if (v > MAX_SIGMA[p]) throw inputError('out_of_range', file, `${path}.${p}`, `is ${fmt(v)}${unit}, more than the largest 1-sigma accepted (${MAX_SIGMA[p]}${unit})`, 'give a smaller sigma, or use draws_file');
+    if (v > MAX_SIGMA[p])
+      throw inputError(
+        'out_of_range',
+        file,
+        `${path}.${p}`,
+        `is ${fmt(v)}${unit}, more than the largest 1-sigma accepted (${MAX_SIGMA[p]}${unit})`,
+        'give a smaller sigma, or use draws_file',
+      );
     return v;
   });
   const n = parameters.length;
   const rho: number[][] = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? 1 : 0)));
   const corr = raw.correlation;
   if (corr !== undefined) {
-    if (!isPlainObject(corr)) throw inputError('wrong_type', file, `${path}.correlation`, 'is not a mapping', 'give pairs such as {log10_phi_star-alpha: 0.7}');
+    if (!isPlainObject(corr))
+      throw inputError(
+        'wrong_type',
+        file,
+        `${path}.correlation`,
+        'is not a mapping',
+        'give pairs such as {log10_phi_star-alpha: 0.7}',
+      );
     const seen = new Set<string>();
     for (const [pair, value] of Object.entries(corr)) {
       const key = `${path}.correlation.${pair}`;
       const names = pair.split('-');
-      if (names.length !== 2) throw inputError('unknown_key', file, key, 'is not a pair of parameters written a-b', `name two of ${parameters.join(', ')} joined by -`);
+      if (names.length !== 2)
+        throw inputError(
+          'unknown_key',
+          file,
+          key,
+          'is not a pair of parameters written a-b',
+          `name two of ${parameters.join(', ')} joined by -`,
+        );
       const [a, b] = names as [string, string];
       for (const nm of [a, b]) {
-        if (!allowed.includes(nm as ModelParameter)) throw inputError('unknown_key', file, key, `names ${excerpt(nm)}, not a parameter of this population`, `pair two of ${parameters.join(', ')}`);
-        if (!parameters.includes(nm as ModelParameter)) throw inputError('missing_key', file, key, `pairs ${nm}, which has no sigma in this block`, `give ${path}.${nm}, or leave the pair out`);
+        if (!allowed.includes(nm as ModelParameter))
+          throw inputError(
+            'unknown_key',
+            file,
+            key,
+            `names ${excerpt(nm)}, not a parameter of this population`,
+            `pair two of ${parameters.join(', ')}`,
+          );
+        if (!parameters.includes(nm as ModelParameter))
+          throw inputError(
+            'missing_key',
+            file,
+            key,
+            `pairs ${nm}, which has no sigma in this block`,
+            `give ${path}.${nm}, or leave the pair out`,
+          );
       }
-      if (a === b) throw inputError('unknown_key', file, key, 'pairs a parameter with itself', 'pair two different parameters');
+      if (a === b)
+        throw inputError('unknown_key', file, key, 'pairs a parameter with itself', 'pair two different parameters');
       const id = [a, b].sort().join('-');
-      if (seen.has(id)) throw inputError('conflict', file, key, 'is given twice (once each way round)', 'keep one of the two');
+      if (seen.has(id))
+        throw inputError('conflict', file, key, 'is given twice (once each way round)', 'keep one of the two');
       seen.add(id);
-      if (typeof value !== 'number' || !Number.isFinite(value)) throw inputError('wrong_type', file, key, 'is not a number', 'give a correlation between -1 and 1');
-      if (!(value >= -1 && value <= 1)) throw inputError('out_of_range', file, key, `is ${fmt(value)}`, 'give a correlation between -1 and 1');
+      if (typeof value !== 'number' || !Number.isFinite(value))
+        throw inputError('wrong_type', file, key, 'is not a number', 'give a correlation between -1 and 1');
+      if (!(value >= -1 && value <= 1))
+        throw inputError('out_of_range', file, key, `is ${fmt(value)}`, 'give a correlation between -1 and 1');
       const i = parameters.indexOf(a as ModelParameter);
       const j = parameters.indexOf(b as ModelParameter);
       rho[i]![j] = value;
@@ -141,24 +235,44 @@ function readDrawsFile(name: string, ctx: ModelUncertaintyContext, allowed: Mode
     const cells = line.split(/\s*,\s*/);
     if (!header) {
       if (!cells.every((c) => /^[a-z0-9_]+$/.test(c))) {
-        bad(`does not start with a header of parameter names (line ${i + 1})`, `give a first line such as ${allowed.join(',')}`);
+        bad(
+          `does not start with a header of parameter names (line ${i + 1})`,
+          `give a first line such as ${allowed.join(',')}`,
+        );
       }
       for (const c of cells) {
-        if (!allowed.includes(c as ModelParameter)) bad(`names the column ${excerpt(c)}, not a parameter of this population`, `name columns ${allowed.join(', ')}`);
+        if (!allowed.includes(c as ModelParameter))
+          bad(
+            `names the column ${excerpt(c)}, not a parameter of this population`,
+            `name columns ${allowed.join(', ')}`,
+          );
       }
       if (new Set(cells).size !== cells.length) bad('names a column twice', 'name each parameter once');
       header = cells as ModelParameter[];
       assumed = header.map((p) => ctx.assumed(p));
       return;
     }
-    if (cells.length !== header.length) bad(`line ${i + 1} has ${cells.length} values for ${header.length} columns`, 'give one value per column in every row');
+    if (cells.length !== header.length)
+      bad(
+        `line ${i + 1} has ${cells.length} values for ${header.length} columns`,
+        'give one value per column in every row',
+      );
     const nums = cells.map((c) => (/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(c) ? Number(c) : NaN));
-    if (nums.some((x) => !Number.isFinite(x))) bad(`line ${i + 1} ("${excerpt(line)}") is not a row of numbers`, 'write each draw as numbers separated by commas');
-    if (offsets.length >= MAX_DRAWS_ROWS) bad(`holds more than ${MAX_DRAWS_ROWS} draws`, `thin it to at most ${MAX_DRAWS_ROWS} rows`);
+    if (nums.some((x) => !Number.isFinite(x)))
+      bad(
+        `line ${i + 1} ("${excerpt(line)}") is not a row of numbers`,
+        'write each draw as numbers separated by commas',
+      );
+    if (offsets.length >= MAX_DRAWS_ROWS)
+      bad(`holds more than ${MAX_DRAWS_ROWS} draws`, `thin it to at most ${MAX_DRAWS_ROWS} rows`);
     const off = nums.map((v, k) => v - assumed[k]!);
     off.forEach((d, k) => {
       const p = header![k]!;
-      if (!(Math.abs(d) <= 5 * MAX_SIGMA[p])) bad(`line ${i + 1}: ${p} = ${excerpt(cells[k]!)} lies ${fmt(d)} from the assumed ${fmt(assumed[k]!)}`, 'give draws of the same parameters as the population (log10 values, at the window\'s middle redshift)');
+      if (!(Math.abs(d) <= 5 * MAX_SIGMA[p]))
+        bad(
+          `line ${i + 1}: ${p} = ${excerpt(cells[k]!)} lies ${fmt(d)} from the assumed ${fmt(assumed[k]!)}`,
+          "give draws of the same parameters as the population (log10 values, at the window's middle redshift)",
+        );
     });
     offsets.push(off);
   });

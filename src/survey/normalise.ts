@@ -20,7 +20,12 @@ import { parseModelUncertainty } from './model-uncertainty.js';
 import type { ModelParameter } from '../model/model-uncertainty.js';
 import { photoZTrueRange, readPhotoZ, type RawPhotoZ } from './photo-z.js';
 import { readDetectionPhotometry, readPopulationPhotometry, type RawBand } from './photometry.js';
-import { readDetectionSelection, readPopulationSelection, type RawDetectionSelection, type RawPopulationSelection } from './selection-keys.js';
+import {
+  readDetectionSelection,
+  readPopulationSelection,
+  type RawDetectionSelection,
+  type RawPopulationSelection,
+} from './selection-keys.js';
 import { filterRedshiftWindow, tableFwhm, tableMeanWavelength } from '../selection/filter.js';
 import { dirname } from 'node:path';
 import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH, RANGES, describeRange, inRange, type Range } from '../model/limits.js';
@@ -102,7 +107,20 @@ export const DEFAULT_POPULATION_NAME = 'population';
 
 const DETECTION_KEYS: Record<DetectionKind, string[]> = {
   line_flux: ['kind', 'limit', 'line', 'filter', 'completeness', 'redshift_selection', 'equivalent_width_cut'],
-  magnitude: ['kind', 'limit', 'band', 'band_file', 'beta', 'igm', 'sed', 'system', 'vega_to_ab', 'completeness', 'redshift_selection', 'photo_z'],
+  magnitude: [
+    'kind',
+    'limit',
+    'band',
+    'band_file',
+    'beta',
+    'igm',
+    'sed',
+    'system',
+    'vega_to_ab',
+    'completeness',
+    'redshift_selection',
+    'photo_z',
+  ],
   threshold: ['kind', 'limit', 'completeness', 'redshift_selection', 'photo_z'],
 };
 
@@ -117,12 +135,24 @@ function isPlainObject(v: unknown): v is Record<string, unknown> {
 /** Reject anything YAML can produce that is not plain data, and numbers that are not finite. */
 function checkPlain(v: unknown, file: string, path: string): void {
   if (typeof v === 'string' && v.length > CAPS.textLength) {
-    throw inputError('too_large', file, path, `is a text of ${v.length} characters, more than the ${CAPS.textLength} allowed`, 'shorten it');
+    throw inputError(
+      'too_large',
+      file,
+      path,
+      `is a text of ${v.length} characters, more than the ${CAPS.textLength} allowed`,
+      'shorten it',
+    );
   }
   if (v === null || typeof v === 'string' || typeof v === 'boolean') return;
   if (typeof v === 'number') {
     if (!Number.isFinite(v)) {
-      throw inputError('not_finite', file, path, `is ${Number.isNaN(v) ? 'not a number (.nan)' : 'infinite'}`, 'write an ordinary finite number');
+      throw inputError(
+        'not_finite',
+        file,
+        path,
+        `is ${Number.isNaN(v) ? 'not a number (.nan)' : 'infinite'}`,
+        'write an ordinary finite number',
+      );
     }
     return;
   }
@@ -134,7 +164,13 @@ function checkPlain(v: unknown, file: string, path: string): void {
     for (const [k, x] of Object.entries(v)) checkPlain(x, file, path ? `${path}.${k}` : k);
     return;
   }
-  throw inputError('wrong_type', file, path, 'holds a value that is not plain text, a number, a list or a mapping', 'write the value as plain YAML');
+  throw inputError(
+    'wrong_type',
+    file,
+    path,
+    'holds a value that is not plain text, a number, a list or a mapping',
+    'write the value as plain YAML',
+  );
 }
 
 function outOfRange(file: string, path: string, what: string, fix: string): never {
@@ -144,7 +180,12 @@ function outOfRange(file: string, path: string, what: string, fix: string): neve
 /** Refuse a value outside its physical range (src/model/limits.ts), naming the key. */
 function checkRange(v: number, range: Range, file: string, path: string, what = ''): number {
   if (!inRange(v, range)) {
-    outOfRange(file, path, `${what ? what + ' ' : ''}is ${fmt(v)}${range.unit ? ` ${range.unit}` : ''}, outside its physical range (${describeRange(range)})`, 'give a value in that range');
+    outOfRange(
+      file,
+      path,
+      `${what ? what + ' ' : ''}is ${fmt(v)}${range.unit ? ` ${range.unit}` : ''}, outside its physical range (${describeRange(range)})`,
+      'give a value in that range',
+    );
   }
   return v;
 }
@@ -153,10 +194,22 @@ function checkRange(v: number, range: Range, file: string, path: string, what = 
 function plainNumber(v: Q, file: string, path: string, what: string): number {
   if (typeof v === 'number') return v;
   if (isPlainNumberString(v)) return Number(v);
-  throw inputError('bad_unit', file, path, `"${excerpt(v)}" is not a plain number`, `give ${what} as a number without a unit`);
+  throw inputError(
+    'bad_unit',
+    file,
+    path,
+    `"${excerpt(v)}" is not a plain number`,
+    `give ${what} as a number without a unit`,
+  );
 }
 
-function positiveQuantity(v: Q, kind: 'area' | 'wavelength' | 'flux' | 'time', file: string, path: string, unit: string): number {
+function positiveQuantity(
+  v: Q,
+  kind: 'area' | 'wavelength' | 'flux' | 'time',
+  file: string,
+  path: string,
+  unit: string,
+): number {
   const x = parseQuantity(v, kind, file, path);
   if (!(x > 0)) outOfRange(file, path, `is ${fmt(x)} ${unit}`, 'give a positive value');
   return x;
@@ -189,7 +242,13 @@ export function sliceEdges(raw: RawSurvey['slices'], w: Window, file: string): n
       throw inputError('bad_slices', file, 'slices.count', `is ${n}`, `give a whole number from 1 to ${MAX_SLICES}`);
     }
     if ((w.max - w.min) / n < MIN_SLICE_WIDTH) {
-      throw inputError('bad_slices', file, 'slices.count', `makes slices ${fmt((w.max - w.min) / n)} wide in redshift, narrower than ${MIN_SLICE_WIDTH}`, 'ask for fewer slices');
+      throw inputError(
+        'bad_slices',
+        file,
+        'slices.count',
+        `makes slices ${fmt((w.max - w.min) / n)} wide in redshift, narrower than ${MIN_SLICE_WIDTH}`,
+        'ask for fewer slices',
+      );
     }
     const edges: number[] = [w.min];
     for (let i = 1; i < n; i++) edges.push(w.min + ((w.max - w.min) * i) / n);
@@ -198,10 +257,23 @@ export function sliceEdges(raw: RawSurvey['slices'], w: Window, file: string): n
   }
   if (s.width !== undefined) {
     const dz = s.width;
-    if (!(dz >= MIN_SLICE_WIDTH)) throw inputError('bad_slices', file, 'slices.width', `is ${fmt(dz)}`, `give a redshift width of at least ${MIN_SLICE_WIDTH} (e.g. 0.1)`);
+    if (!(dz >= MIN_SLICE_WIDTH))
+      throw inputError(
+        'bad_slices',
+        file,
+        'slices.width',
+        `is ${fmt(dz)}`,
+        `give a redshift width of at least ${MIN_SLICE_WIDTH} (e.g. 0.1)`,
+      );
     const count = (w.max - w.min) / dz;
     if (count > MAX_SLICES) {
-      throw inputError('bad_slices', file, 'slices.width', `makes ${Math.ceil(count)} slices, more than ${MAX_SLICES}`, 'give a wider slice');
+      throw inputError(
+        'bad_slices',
+        file,
+        'slices.width',
+        `makes ${Math.ceil(count)} slices, more than ${MAX_SLICES}`,
+        'give a wider slice',
+      );
     }
     const edges: number[] = [w.min];
     for (let k = 1; ; k++) {
@@ -214,14 +286,32 @@ export function sliceEdges(raw: RawSurvey['slices'], w: Window, file: string): n
   }
   const edges = [...(s.edges ?? [])];
   if (edges.length > MAX_SLICES + 1) {
-    throw inputError('bad_slices', file, 'slices.edges', `lists ${edges.length} edges, more than the ${MAX_SLICES + 1} of ${MAX_SLICES} slices`, 'give fewer edges');
+    throw inputError(
+      'bad_slices',
+      file,
+      'slices.edges',
+      `lists ${edges.length} edges, more than the ${MAX_SLICES + 1} of ${MAX_SLICES} slices`,
+      'give fewer edges',
+    );
   }
   for (let i = 1; i < edges.length; i++) {
     if (!(edges[i]! > edges[i - 1]!)) {
-      throw inputError('bad_slices', file, `slices.edges[${i}]`, `${fmt(edges[i]!)} does not follow ${fmt(edges[i - 1]!)} upward`, 'list the edges in increasing order without repeats');
+      throw inputError(
+        'bad_slices',
+        file,
+        `slices.edges[${i}]`,
+        `${fmt(edges[i]!)} does not follow ${fmt(edges[i - 1]!)} upward`,
+        'list the edges in increasing order without repeats',
+      );
     }
     if (edges[i]! - edges[i - 1]! < MIN_SLICE_WIDTH) {
-      throw inputError('bad_slices', file, `slices.edges[${i}]`, `${fmt(edges[i]!)} lies less than ${MIN_SLICE_WIDTH} above ${fmt(edges[i - 1]!)}`, `make each slice at least ${MIN_SLICE_WIDTH} wide in redshift`);
+      throw inputError(
+        'bad_slices',
+        file,
+        `slices.edges[${i}]`,
+        `${fmt(edges[i]!)} lies less than ${MIN_SLICE_WIDTH} above ${fmt(edges[i - 1]!)}`,
+        `make each slice at least ${MIN_SLICE_WIDTH} wide in redshift`,
+      );
     }
   }
   const tol = 1e-9;
@@ -258,17 +348,37 @@ function parseCompleteness(
   const model = raw.model ?? (raw.table !== undefined ? 'table' : 'logistic');
   if (model === 'logistic') {
     if (raw.table !== undefined) {
-      throw inputError('conflict', file, `${p}.table`, 'a table is given with model logistic', 'remove the table, or remove half, width and model');
+      throw inputError(
+        'conflict',
+        file,
+        `${p}.table`,
+        'a table is given with model logistic',
+        'remove the table, or remove half, width and model',
+      );
     }
-    if (raw.half === undefined) throw inputError('missing_key', file, `${p}.half`, 'is missing', 'give where the completeness is 0.5');
-    if (raw.width === undefined) throw inputError('missing_key', file, `${p}.width`, 'is missing', 'give the width of the logistic fall-off');
+    if (raw.half === undefined)
+      throw inputError('missing_key', file, `${p}.half`, 'is missing', 'give where the completeness is 0.5');
+    if (raw.width === undefined)
+      throw inputError('missing_key', file, `${p}.width`, 'is missing', 'give the width of the logistic fall-off');
     if (!(raw.width > 0)) outOfRange(file, `${p}.width`, `is ${fmt(raw.width)}`, 'give a positive width');
     checkRange(raw.width, RANGES.completenessWidth, file, `${p}.width`);
     const half =
       kind === 'line_flux'
-        ? -Math.log10(checkRange(positiveQuantity(raw.half, 'flux', file, `${p}.half`, 'erg/s/cm^2'), RANGES.lineFlux, file, `${p}.half`))
+        ? -Math.log10(
+            checkRange(
+              positiveQuantity(raw.half, 'flux', file, `${p}.half`, 'erg/s/cm^2'),
+              RANGES.lineFlux,
+              file,
+              `${p}.half`,
+            ),
+          )
         : checkRange(
-            plainNumber(raw.half, file, `${p}.half`, kind === 'magnitude' ? 'an AB magnitude' : 'a value of the population variable'),
+            plainNumber(
+              raw.half,
+              file,
+              `${p}.half`,
+              kind === 'magnitude' ? 'an AB magnitude' : 'a value of the population variable',
+            ),
             observedRange(kind, variable),
             file,
             `${p}.half`,
@@ -277,25 +387,49 @@ function parseCompleteness(
   }
   for (const k of ['half', 'width'] as const) {
     if (raw[k] !== undefined) {
-      throw inputError('conflict', file, `${p}.${k}`, `${k} belongs to the logistic model but a table is used`, `remove ${k}`);
+      throw inputError(
+        'conflict',
+        file,
+        `${p}.${k}`,
+        `${k} belongs to the logistic model but a table is used`,
+        `remove ${k}`,
+      );
     }
   }
   const rows = raw.table;
   if (rows === undefined) throw inputError('missing_key', file, `${p}.table`, 'is missing', 'give rows [x, fraction]');
   if (rows.length > CAPS.tableRows) {
-    throw inputError('too_large', file, `${p}.table`, `has ${rows.length} rows, more than the ${CAPS.tableRows} a table may have`, 'resample it to fewer rows');
+    throw inputError(
+      'too_large',
+      file,
+      `${p}.table`,
+      `has ${rows.length} rows, more than the ${CAPS.tableRows} a table may have`,
+      'resample it to fewer rows',
+    );
   }
   let x = rows.map((r) => r[0]);
   let fraction = rows.map((r) => r[1]);
   for (let i = 0; i < rows.length; i++) {
     const f = fraction[i]!;
-    if (!(f >= 0 && f <= 1)) outOfRange(file, `${p}.table[${i}]`, `the fraction ${fmt(f)} is outside 0 to 1`, 'give fractions from 0 to 1');
+    if (!(f >= 0 && f <= 1))
+      outOfRange(file, `${p}.table[${i}]`, `the fraction ${fmt(f)} is outside 0 to 1`, 'give fractions from 0 to 1');
     if (kind === 'line_flux' && !(x[i]! > 0)) {
-      outOfRange(file, `${p}.table[${i}]`, `the flux ${fmt(x[i]!)} is not positive`, 'give line fluxes in erg/s/cm^2 above 0');
+      outOfRange(
+        file,
+        `${p}.table[${i}]`,
+        `the flux ${fmt(x[i]!)} is not positive`,
+        'give line fluxes in erg/s/cm^2 above 0',
+      );
     }
     checkRange(x[i]!, observedRange(kind, variable), file, `${p}.table[${i}]`, 'x');
     if (i > 0 && !(x[i]! > x[i - 1]!)) {
-      throw inputError('bad_table', file, `${p}.table[${i}]`, `${fmt(x[i]!)} does not follow ${fmt(x[i - 1]!)} upward`, 'list the rows in increasing x without repeats');
+      throw inputError(
+        'bad_table',
+        file,
+        `${p}.table[${i}]`,
+        `${fmt(x[i]!)} does not follow ${fmt(x[i - 1]!)} upward`,
+        'list the rows in increasing x without repeats',
+      );
     }
   }
   if (kind === 'line_flux') {
@@ -327,20 +461,43 @@ function checkShapeKeys(obj: Record<string, unknown>, file: string): void {
     const wrong = (double ? SINGLE_KEYS : DOUBLE_KEYS).find((k) => p[k] !== undefined);
     if (wrong === undefined) continue;
     throw double
-      ? inputError('kind_mismatch', file, `${path}.${wrong}`, `${wrong} belongs to the single Schechter shape but shape is double_schechter`, 'give phi_star_1, alpha_1, phi_star_2 and alpha_2 instead (or their log10_ and _dex forms)')
-      : inputError('kind_mismatch', file, `${path}.${wrong}`, `${wrong} belongs to the double Schechter shape`, 'set shape: double_schechter, or give phi_star and alpha');
+      ? inputError(
+          'kind_mismatch',
+          file,
+          `${path}.${wrong}`,
+          `${wrong} belongs to the single Schechter shape but shape is double_schechter`,
+          'give phi_star_1, alpha_1, phi_star_2 and alpha_2 instead (or their log10_ and _dex forms)',
+        )
+      : inputError(
+          'kind_mismatch',
+          file,
+          `${path}.${wrong}`,
+          `${wrong} belongs to the double Schechter shape`,
+          'set shape: double_schechter, or give phi_star and alpha',
+        );
   }
 }
 
 /** One normalisation: the key given (exactly one of the four forms) and its value in Mpc^-3. */
-function parseNormalisation(raw: RawPopulation, suffix: string, path: string, file: string): { phiStar: ZParam; phiKey: string } {
+function parseNormalisation(
+  raw: RawPopulation,
+  suffix: string,
+  path: string,
+  file: string,
+): { phiStar: ZParam; phiKey: string } {
   const keys = normalisationKeys(suffix);
   const given = keys.filter((k) => raw[k as `phi_star`] !== undefined);
   if (given.length === 0) {
     throw inputError('missing_key', file, `${path}.${keys[0]}`, 'is missing', `give one of ${keys.join(', ')}`);
   }
   if (given.length > 1) {
-    throw inputError('conflict', file, `${path}.${given[1]}`, `${given.join(' and ')} are both given`, 'keep only one normalisation');
+    throw inputError(
+      'conflict',
+      file,
+      `${path}.${given[1]}`,
+      `${given.join(' and ')} are both given`,
+      'keep only one normalisation',
+    );
   }
   const phiKey = given[0]!;
   const base = makeZParam(raw[phiKey as 'phi_star']!, file, `${path}.${phiKey}`);
@@ -367,15 +524,28 @@ function parsePopulationParams(
   const components = suffixes.map((sfx) => {
     const alphaKey = `alpha${sfx}` as 'alpha' | 'alpha_1' | 'alpha_2';
     const a = raw[alphaKey];
-    if (a === undefined) throw inputError('missing_key', file, `${path}.${alphaKey}`, 'is missing', 'give the faint-end slope');
+    if (a === undefined)
+      throw inputError('missing_key', file, `${path}.${alphaKey}`, 'is missing', 'give the faint-end slope');
     return { ...parseNormalisation(raw, sfx, path, file), alpha: makeZParam(a, file, `${path}.${alphaKey}`), alphaKey };
   });
   if (raw.variable === 'luminosity') {
     if (raw.m_star !== undefined) {
-      throw inputError('kind_mismatch', file, `${path}.m_star`, 'm_star belongs to the magnitude variable but variable is luminosity', 'give l_star or log10_l_star instead');
+      throw inputError(
+        'kind_mismatch',
+        file,
+        `${path}.m_star`,
+        'm_star belongs to the magnitude variable but variable is luminosity',
+        'give l_star or log10_l_star instead',
+      );
     }
     if (raw.l_star !== undefined && raw.log10_l_star !== undefined) {
-      throw inputError('conflict', file, `${path}.log10_l_star`, 'l_star and log10_l_star are both given', 'keep only one');
+      throw inputError(
+        'conflict',
+        file,
+        `${path}.log10_l_star`,
+        'l_star and log10_l_star are both given',
+        'keep only one',
+      );
     }
     if (raw.l_star === undefined && raw.log10_l_star === undefined) {
       throw inputError('missing_key', file, `${path}.l_star`, 'is missing', 'give l_star or log10_l_star');
@@ -386,17 +556,36 @@ function parsePopulationParams(
   }
   for (const k of ['l_star', 'log10_l_star'] as const) {
     if (raw[k] !== undefined) {
-      throw inputError('kind_mismatch', file, `${path}.${k}`, `${k} belongs to the luminosity variable but variable is magnitude`, 'give m_star instead');
+      throw inputError(
+        'kind_mismatch',
+        file,
+        `${path}.${k}`,
+        `${k} belongs to the luminosity variable but variable is magnitude`,
+        'give m_star instead',
+      );
     }
   }
-  if (raw.m_star === undefined) throw inputError('missing_key', file, `${path}.m_star`, 'is missing', 'give m_star, the characteristic absolute AB magnitude');
+  if (raw.m_star === undefined)
+    throw inputError(
+      'missing_key',
+      file,
+      `${path}.m_star`,
+      'is missing',
+      'give m_star, the characteristic absolute AB magnitude',
+    );
   return { components, mStar: makeZParam(raw.m_star, file, `${path}.m_star`) };
 }
 
 /** The survey's mapping once it has passed the plain-data check and the schema. */
 function checkedRaw(obj: unknown, file: string): RawSurvey {
   if (!isPlainObject(obj)) {
-    throw inputError('wrong_type', file, '', 'does not hold a mapping of survey keys', 'start from one of the sample surveys');
+    throw inputError(
+      'wrong_type',
+      file,
+      '',
+      'does not hold a mapping of survey keys',
+      'start from one of the sample surveys',
+    );
   }
   checkPlain(obj, file, '');
   checkShapeKeys(obj, file);
@@ -409,9 +598,20 @@ function checkedRaw(obj: unknown, file: string): RawSurvey {
 function readArea(raw: RawSurvey, file: string): number {
   const areaDeg2 = parseQuantity(raw.area, 'area', file, 'area');
   if (!(areaDeg2 > 0)) outOfRange(file, 'area', `is ${fmt(areaDeg2)} deg^2`, 'give a positive area');
-  if (areaDeg2 < MIN_AREA_DEG2) outOfRange(file, 'area', `is ${fmt(areaDeg2)} deg^2, less than the ${MIN_AREA_DEG2} deg^2 (${fmt(MIN_AREA_DEG2 * 3600)} arcmin^2) of the smallest field`, 'give a larger area');
+  if (areaDeg2 < MIN_AREA_DEG2)
+    outOfRange(
+      file,
+      'area',
+      `is ${fmt(areaDeg2)} deg^2, less than the ${MIN_AREA_DEG2} deg^2 (${fmt(MIN_AREA_DEG2 * 3600)} arcmin^2) of the smallest field`,
+      'give a larger area',
+    );
   if (areaDeg2 > FULL_SKY_DEG2 * (1 + 1e-12)) {
-    outOfRange(file, 'area', `is ${fmt(areaDeg2)} deg^2, more than the whole sky (${fmt(FULL_SKY_DEG2)} deg^2)`, 'give at most the full sky');
+    outOfRange(
+      file,
+      'area',
+      `is ${fmt(areaDeg2)} deg^2, more than the whole sky (${fmt(FULL_SKY_DEG2)} deg^2)`,
+      'give at most the full sky',
+    );
   }
   return areaDeg2;
 }
@@ -419,7 +619,8 @@ function readArea(raw: RawSurvey, file: string): number {
 /** How the area is split into fields (their aspect ratio and number). */
 function readField(raw: RawSurvey, file: string): Survey['field'] {
   const field = { aspect: raw.field?.aspect ?? 1, count: raw.field?.count ?? 1 };
-  if (!(field.aspect > 0)) outOfRange(file, 'field.aspect', `is ${fmt(field.aspect)}`, 'give a positive aspect ratio (1 for a square field)');
+  if (!(field.aspect > 0))
+    outOfRange(file, 'field.aspect', `is ${fmt(field.aspect)}`, 'give a positive aspect ratio (1 for a square field)');
   if (!(field.count >= 1)) outOfRange(file, 'field.count', `is ${field.count}`, 'give at least 1 field');
   checkRange(field.aspect, RANGES.fieldAspect, file, 'field.aspect');
   checkRange(field.count, RANGES.fieldCount, file, 'field.count');
@@ -429,7 +630,12 @@ function readField(raw: RawSurvey, file: string): Survey['field'] {
 /** The exposure time of the whole survey, hours, when given. */
 function readExposure(raw: RawSurvey, file: string): number | undefined {
   if (raw.exposure === undefined) return undefined;
-  return checkRange(positiveQuantity(raw.exposure, 'time', file, 'exposure', 'h'), RANGES.exposureHours, file, 'exposure');
+  return checkRange(
+    positiveQuantity(raw.exposure, 'time', file, 'exposure', 'h'),
+    RANGES.exposureHours,
+    file,
+    'exposure',
+  );
 }
 
 /** Detection keys that do not belong to the kind. */
@@ -437,7 +643,13 @@ function checkDetectionKeys(det: RawSurvey['detection'], file: string): void {
   const kind = det.kind;
   for (const k of Object.keys(det)) {
     if (!DETECTION_KEYS[kind].includes(k)) {
-      throw inputError('kind_mismatch', file, `detection.${k}`, `${k} does not apply to the ${kind} kind`, `remove it, or change detection.kind`);
+      throw inputError(
+        'kind_mismatch',
+        file,
+        `detection.${k}`,
+        `${k} does not apply to the ${kind} kind`,
+        `remove it, or change detection.kind`,
+      );
     }
   }
 }
@@ -450,7 +662,13 @@ function populationList(raw: RawSurvey, file: string): RawPopulations {
     ? [{ raw: raw.population, path: 'population' }]
     : (raw.populations ?? []).map((p, i) => ({ raw: p, path: `populations[${i}]` }));
   if (rawPops.length > CAPS.populations) {
-    throw inputError('too_large', file, 'populations', `lists ${rawPops.length} populations, more than the ${CAPS.populations} a survey may have`, 'split the survey into several files');
+    throw inputError(
+      'too_large',
+      file,
+      'populations',
+      `lists ${rawPops.length} populations, more than the ${CAPS.populations} a survey may have`,
+      'split the survey into several files',
+    );
   }
   return rawPops;
 }
@@ -459,28 +677,64 @@ function populationList(raw: RawSurvey, file: string): RawPopulations {
  * Each population's variable against the detection kind, its name (unique), and its line's rest
  * wavelength (line_flux kind: its own line, or detection.line).
  */
-function populationLines(rawPops: RawPopulations, det: RawSurvey['detection'], detLine: number | undefined, file: string): (number | undefined)[] {
+function populationLines(
+  rawPops: RawPopulations,
+  det: RawSurvey['detection'],
+  detLine: number | undefined,
+  file: string,
+): (number | undefined)[] {
   const kind = det.kind;
   const names = new Set<string>();
   const lines: (number | undefined)[] = [];
   rawPops.forEach(({ raw: p, path }, i) => {
     if (kind === 'line_flux' && p.variable !== 'luminosity') {
-      throw inputError('kind_mismatch', file, `${path}.variable`, 'a line_flux detection counts line luminosities but variable is magnitude', 'set variable: luminosity, or use detection kind magnitude');
+      throw inputError(
+        'kind_mismatch',
+        file,
+        `${path}.variable`,
+        'a line_flux detection counts line luminosities but variable is magnitude',
+        'set variable: luminosity, or use detection kind magnitude',
+      );
     }
     if (kind === 'magnitude' && p.variable !== 'magnitude') {
-      throw inputError('kind_mismatch', file, `${path}.variable`, 'a magnitude detection counts absolute magnitudes but variable is luminosity', 'set variable: magnitude, or use detection kind line_flux or threshold');
+      throw inputError(
+        'kind_mismatch',
+        file,
+        `${path}.variable`,
+        'a magnitude detection counts absolute magnitudes but variable is luminosity',
+        'set variable: magnitude, or use detection kind line_flux or threshold',
+      );
     }
     if (p.line !== undefined && kind !== 'line_flux') {
-      throw inputError('kind_mismatch', file, `${path}.line`, `line applies to the line_flux kind only, not ${kind}`, 'remove it');
+      throw inputError(
+        'kind_mismatch',
+        file,
+        `${path}.line`,
+        `line applies to the line_flux kind only, not ${kind}`,
+        'remove it',
+      );
     }
     const name = p.name ?? (rawPops.length === 1 ? DEFAULT_POPULATION_NAME : `${DEFAULT_POPULATION_NAME} ${i + 1}`);
-    if (names.has(name)) throw inputError('conflict', file, `${path}.name`, `the name "${excerpt(name)}" is used by another population`, 'give each population its own name');
+    if (names.has(name))
+      throw inputError(
+        'conflict',
+        file,
+        `${path}.name`,
+        `the name "${excerpt(name)}" is used by another population`,
+        'give each population its own name',
+      );
     names.add(name);
     let line: number | undefined;
     if (kind === 'line_flux') {
       line = p.line !== undefined ? wavelength(p.line, file, `${path}.line`) : detLine;
       if (line === undefined) {
-        throw inputError('missing_key', file, 'detection.line', 'is missing', `give the rest wavelength of the line (Angstrom or with a unit) as detection.line or ${path}.line`);
+        throw inputError(
+          'missing_key',
+          file,
+          'detection.line',
+          'is missing',
+          `give the rest wavelength of the line (Angstrom or with a unit) as detection.line or ${path}.line`,
+        );
       }
     }
     lines.push(line);
@@ -493,15 +747,34 @@ function readRedshift(raw: RawSurvey, file: string): Window | undefined {
   let given: Window | undefined;
   if (raw.redshift) {
     given = { min: raw.redshift.min, max: raw.redshift.max };
-    if (!(given.min >= 0)) throw inputError('bad_window', file, 'redshift.min', `is ${fmt(given.min)}`, 'give a redshift of 0 or more');
+    if (!(given.min >= 0))
+      throw inputError('bad_window', file, 'redshift.min', `is ${fmt(given.min)}`, 'give a redshift of 0 or more');
     if (!(given.max > given.min)) {
-      throw inputError('bad_window', file, 'redshift.max', `is ${fmt(given.max)}, not above min (${fmt(given.min)})`, 'give max larger than min');
+      throw inputError(
+        'bad_window',
+        file,
+        'redshift.max',
+        `is ${fmt(given.max)}, not above min (${fmt(given.min)})`,
+        'give max larger than min',
+      );
     }
     if (given.max > MAX_REDSHIFT) {
-      throw inputError('bad_window', file, 'redshift.max', `is ${fmt(given.max)}, beyond z = ${MAX_REDSHIFT}, before galaxies formed`, `give a window within z = 0 to ${MAX_REDSHIFT}`);
+      throw inputError(
+        'bad_window',
+        file,
+        'redshift.max',
+        `is ${fmt(given.max)}, beyond z = ${MAX_REDSHIFT}, before galaxies formed`,
+        `give a window within z = 0 to ${MAX_REDSHIFT}`,
+      );
     }
     if (given.max - given.min < MIN_SLICE_WIDTH) {
-      throw inputError('bad_window', file, 'redshift.max', `makes a window ${fmt(given.max - given.min)} wide in redshift, narrower than ${MIN_SLICE_WIDTH}`, `give a window at least ${MIN_SLICE_WIDTH} wide`);
+      throw inputError(
+        'bad_window',
+        file,
+        'redshift.max',
+        `makes a window ${fmt(given.max - given.min)} wide in redshift, narrower than ${MIN_SLICE_WIDTH}`,
+        `give a window at least ${MIN_SLICE_WIDTH} wide`,
+      );
     }
   }
   return given;
@@ -514,19 +787,45 @@ function readFilter(det: RawSurvey['detection'], file: string, base: string, inp
     const f = det.filter;
     if (f.profile === 'table' || f.file !== undefined) {
       if (f.profile !== undefined && f.profile !== 'table') {
-        throw inputError('conflict', file, 'detection.filter.file', `a transmission file is given with profile ${f.profile}`, 'set profile: table, or remove file');
+        throw inputError(
+          'conflict',
+          file,
+          'detection.filter.file',
+          `a transmission file is given with profile ${f.profile}`,
+          'set profile: table, or remove file',
+        );
       }
       for (const k of ['center', 'fwhm'] as const) {
         if (f[k] !== undefined) {
-          throw inputError('conflict', file, `detection.filter.${k}`, `${k} is given with a tabulated profile, which sets its own`, `remove ${k}`);
+          throw inputError(
+            'conflict',
+            file,
+            `detection.filter.${k}`,
+            `${k} is given with a tabulated profile, which sets its own`,
+            `remove ${k}`,
+          );
         }
       }
-      if (f.file === undefined) throw inputError('missing_key', file, 'detection.filter.file', 'is missing', 'give the CSV of wavelength, transmission (path relative to the survey file)');
+      if (f.file === undefined)
+        throw inputError(
+          'missing_key',
+          file,
+          'detection.filter.file',
+          'is missing',
+          'give the CSV of wavelength, transmission (path relative to the survey file)',
+        );
       const table = readTransmissionFile(f.file, file, 'detection.filter.file', base, (input) => inputs.push(input));
       filter = { centerAngstrom: tableMeanWavelength(table), fwhmAngstrom: tableFwhm(table), profile: 'table', table };
     } else {
       for (const k of ['center', 'fwhm'] as const) {
-        if (f[k] === undefined) throw inputError('missing_key', file, `detection.filter.${k}`, 'is missing', `give the filter's ${k} (Angstrom or with a unit), or profile: table with a file`);
+        if (f[k] === undefined)
+          throw inputError(
+            'missing_key',
+            file,
+            `detection.filter.${k}`,
+            'is missing',
+            `give the filter's ${k} (Angstrom or with a unit), or profile: table with a file`,
+          );
       }
       filter = {
         centerAngstrom: wavelength(f.center!, file, 'detection.filter.center'),
@@ -539,9 +838,21 @@ function readFilter(det: RawSurvey['detection'], file: string, base: string, inp
 }
 
 /** Each population's whole window: the redshift key cut by where the filter sees its line. */
-function populationWindows(rawPops: RawPopulations, lines: (number | undefined)[], given: Window | undefined, filter: Filter | undefined, file: string): Window[] {
+function populationWindows(
+  rawPops: RawPopulations,
+  lines: (number | undefined)[],
+  given: Window | undefined,
+  filter: Filter | undefined,
+  file: string,
+): Window[] {
   if (!given && !filter) {
-    throw inputError('missing_key', file, 'redshift', 'is missing', 'give redshift: {min, max}, or a detection.filter that sets the window');
+    throw inputError(
+      'missing_key',
+      file,
+      'redshift',
+      'is missing',
+      'give redshift: {min, max}, or a detection.filter that sets the window',
+    );
   }
   const windows: Window[] = rawPops.map((_, i) => {
     if (!filter) return given!;
@@ -557,7 +868,13 @@ function populationWindows(rawPops: RawPopulations, lines: (number | undefined)[
       );
     }
     if (cut.max > cut.min && cut.max - cut.min < MIN_SLICE_WIDTH) {
-      throw inputError('bad_window', file, 'detection.filter', `the filter sees the line at ${fmt(lines[i]!)} Angstrom over a redshift range only ${fmt(cut.max - cut.min)} wide, narrower than ${MIN_SLICE_WIDTH}`, 'check the filter fwhm and the redshift window');
+      throw inputError(
+        'bad_window',
+        file,
+        'detection.filter',
+        `the filter sees the line at ${fmt(lines[i]!)} Angstrom over a redshift range only ${fmt(cut.max - cut.min)} wide, narrower than ${MIN_SLICE_WIDTH}`,
+        'check the filter fwhm and the redshift window',
+      );
     }
     if (!(cut.max > cut.min)) {
       const seen = w.max > w.min ? `z = ${fmt(w.min)} to ${fmt(w.max)}` : 'no redshift of 0 or more';
@@ -578,7 +895,11 @@ function populationWindows(rawPops: RawPopulations, lines: (number | undefined)[
  * The survey's slice edges (the first population's window, or the explicit edges) and each
  * population's own (the same rule over its own window, or the same edges).
  */
-function readSlices(raw: RawSurvey, windows: Window[], file: string): { window: Window; edges: number[]; own: number[][] } {
+function readSlices(
+  raw: RawSurvey,
+  windows: Window[],
+  file: string,
+): { window: Window; edges: number[]; own: number[][] } {
   // Every population window together: explicit edges may lie anywhere inside it.
   const hull = hullOf(windows);
   // The survey's slices follow the first population's window (or the explicit edges); each
@@ -594,7 +915,9 @@ function readSlices(raw: RawSurvey, windows: Window[], file: string): { window: 
     sliceEdgesZ = sliceEdges(raw.slices, window, file);
     ownEdges = windows.map((w, i) => (i === 0 ? sliceEdgesZ : sliceEdges(raw.slices, w, file)));
   }
-  const sliceResults = ownEdges.reduce((n, e) => n + (e.length - 1), 0) + (windows.length > 1 ? windows.length * (sliceEdgesZ.length - 1) : 0);
+  const sliceResults =
+    ownEdges.reduce((n, e) => n + (e.length - 1), 0) +
+    (windows.length > 1 ? windows.length * (sliceEdgesZ.length - 1) : 0);
   if (sliceResults > CAPS.sliceResults) {
     throw inputError(
       'bad_slices',
@@ -613,25 +936,60 @@ function hullOf(windows: Window[]): Window {
 }
 
 /** The detection: the limit in its kind's unit, the band or filter, the completeness. */
-function readDetection(det: RawSurvey['detection'], rawPops: RawPopulations, detLine: number | undefined, filter: Filter | undefined, hull: Window, file: string, base: string, inputs: InputFile[]): Detection {
+function readDetection(
+  det: RawSurvey['detection'],
+  rawPops: RawPopulations,
+  detLine: number | undefined,
+  filter: Filter | undefined,
+  hull: Window,
+  file: string,
+  base: string,
+  inputs: InputFile[],
+): Detection {
   const kind = det.kind;
   let detection: Detection;
-  const thresholdVariable: PopulationVariable = rawPops.every((p) => p.raw.variable === 'magnitude') ? 'magnitude' : 'luminosity';
-  const completeness = det.completeness ? parseCompleteness(det.completeness, kind, thresholdVariable, file) : undefined;
+  const thresholdVariable: PopulationVariable = rawPops.every((p) => p.raw.variable === 'magnitude')
+    ? 'magnitude'
+    : 'luminosity';
+  const completeness = det.completeness
+    ? parseCompleteness(det.completeness, kind, thresholdVariable, file)
+    : undefined;
   let completenessAb = completeness;
   if (kind === 'line_flux') {
     if (typeof det.limit === 'object') {
-      throw inputError('wrong_type', file, 'detection.limit', 'is a table but a line_flux limit is one flux', 'give the flux limit in erg/s/cm^2 or with a unit');
+      throw inputError(
+        'wrong_type',
+        file,
+        'detection.limit',
+        'is a table but a line_flux limit is one flux',
+        'give the flux limit in erg/s/cm^2 or with a unit',
+      );
     }
-    const limitCgs = checkRange(positiveQuantity(det.limit, 'flux', file, 'detection.limit', 'erg/s/cm^2'), RANGES.lineFlux, file, 'detection.limit');
+    const limitCgs = checkRange(
+      positiveQuantity(det.limit, 'flux', file, 'detection.limit', 'erg/s/cm^2'),
+      RANGES.lineFlux,
+      file,
+      'detection.limit',
+    );
     detection = { kind, limitCgs };
     if (detLine !== undefined) detection.lineAngstrom = detLine;
     if (filter) detection.filter = filter;
   } else if (kind === 'magnitude') {
     if (typeof det.limit === 'object') {
-      throw inputError('wrong_type', file, 'detection.limit', 'is a table but a magnitude limit is one AB magnitude', 'give the limiting apparent AB magnitude as a number');
+      throw inputError(
+        'wrong_type',
+        file,
+        'detection.limit',
+        'is a table but a magnitude limit is one AB magnitude',
+        'give the limiting apparent AB magnitude as a number',
+      );
     }
-    const given = checkRange(plainNumber(det.limit, file, 'detection.limit', 'the limiting apparent magnitude'), RANGES.apparentMagnitude, file, 'detection.limit');
+    const given = checkRange(
+      plainNumber(det.limit, file, 'detection.limit', 'the limiting apparent magnitude'),
+      RANGES.apparentMagnitude,
+      file,
+      'detection.limit',
+    );
     const phot = readDetectionPhotometry(det, file, base, inputs);
     const beta = checkRange(det.beta ?? -2, RANGES.beta, file, 'detection.beta');
     // Vega magnitudes become AB once, here: the limit and the completeness (src/survey/photometry.ts).
@@ -641,11 +999,17 @@ function readDetection(det: RawSurvey['detection'], rawPops: RawPopulations, det
     if (phot.sed) detection.sed = phot.sed;
     if (phot.magnitudeSystem) detection.magnitudeSystem = phot.magnitudeSystem;
     if (completeness && phot.toAb !== 0) {
-      completenessAb = completeness.model === 'logistic' ? { ...completeness, half: completeness.half + phot.toAb } : { ...completeness, x: completeness.x.map((x) => x + phot.toAb) };
+      completenessAb =
+        completeness.model === 'logistic'
+          ? { ...completeness, half: completeness.half + phot.toAb }
+          : { ...completeness, x: completeness.x.map((x) => x + phot.toAb) };
     }
   } else {
     const limit = makeZParam(det.limit, file, 'detection.limit');
-    checkParam(limit, hull, file, 'detection.limit', { what: 'the limit', range: observedRange(kind, thresholdVariable) });
+    checkParam(limit, hull, file, 'detection.limit', {
+      what: 'the limit',
+      range: observedRange(kind, thresholdVariable),
+    });
     detection = { kind, limit };
   }
   if (completenessAb) detection.completeness = completenessAb;
@@ -667,11 +1031,22 @@ function buildPopulation(
 ): Population {
   const params = parsePopulationParams(p, path, file);
   for (const c of params.components) {
-    checkParam(c.phiStar, w, file, `${path}.${c.phiKey}`, { what: c.phiKey === 'phi_star' ? 'phi_star' : `phi_star (from ${c.phiKey})`, positive: true, range: RANGES.phiStar, unitLabel: 'Mpc^-3' });
+    checkParam(c.phiStar, w, file, `${path}.${c.phiKey}`, {
+      what: c.phiKey === 'phi_star' ? 'phi_star' : `phi_star (from ${c.phiKey})`,
+      positive: true,
+      range: RANGES.phiStar,
+      unitLabel: 'Mpc^-3',
+    });
     checkParam(c.alpha, w, file, `${path}.${c.alphaKey}`, { what: c.alphaKey, range: RANGES.alpha });
   }
-  if (params.lStar) checkParam(params.lStar, w, file, `${path}.${params.lKey}`, { what: 'l_star', positive: true, range: RANGES.lStar });
-  if (params.mStar) checkParam(params.mStar, w, file, `${path}.m_star`, { what: 'm_star', range: RANGES.mStar, unitLabel: 'AB mag' });
+  if (params.lStar)
+    checkParam(params.lStar, w, file, `${path}.${params.lKey}`, {
+      what: 'l_star',
+      positive: true,
+      range: RANGES.lStar,
+    });
+  if (params.mStar)
+    checkParam(params.mStar, w, file, `${path}.m_star`, { what: 'm_star', range: RANGES.mStar, unitLabel: 'AB mag' });
   const sfrConversion = parseSfrConversion(p, path, file);
   let bias: 'auto' | ZParam = 'auto';
   if (p.bias !== undefined && p.bias !== 'auto') {
@@ -679,8 +1054,10 @@ function buildPopulation(
     checkParam(bias, w, file, `${path}.bias`, { what: 'the bias', positive: true, range: RANGES.bias });
   }
   const occupation = p.occupation ?? 1;
-  if (!(occupation > 0 && occupation <= 1)) outOfRange(file, `${path}.occupation`, `is ${fmt(occupation)}`, 'give a fraction above 0 and at most 1');
-  const restWavelengthAngstrom = p.rest_wavelength !== undefined ? wavelength(p.rest_wavelength, file, `${path}.rest_wavelength`) : 1500;
+  if (!(occupation > 0 && occupation <= 1))
+    outOfRange(file, `${path}.occupation`, `is ${fmt(occupation)}`, 'give a fraction above 0 and at most 1');
+  const restWavelengthAngstrom =
+    p.rest_wavelength !== undefined ? wavelength(p.rest_wavelength, file, `${path}.rest_wavelength`) : 1500;
   const pop: Population = {
     name: populationName(p, i, count),
     shape: p.shape ?? 'schechter',
@@ -730,13 +1107,22 @@ function populationName(p: RawPopulation, i: number, count: number): string {
 }
 
 /** The histogram bin width: 0.25 mag for magnitudes, 0.1 dex otherwise, unless given. */
-function readHistogramWidth(raw: RawSurvey, rawPops: RawPopulations, detection: Detection, hull: Window, file: string): number {
+function readHistogramWidth(
+  raw: RawSurvey,
+  rawPops: RawPopulations,
+  detection: Detection,
+  hull: Window,
+  file: string,
+): number {
   const kind = detection.kind;
-  const defaultWidth = kind === 'magnitude' || (kind === 'threshold' && rawPops.every((p) => p.raw.variable === 'magnitude')) ? 0.25 : 0.1;
+  const defaultWidth =
+    kind === 'magnitude' || (kind === 'threshold' && rawPops.every((p) => p.raw.variable === 'magnitude')) ? 0.25 : 0.1;
   const histogramWidth = raw.histogram?.width ?? defaultWidth;
-  if (!(histogramWidth > 0)) outOfRange(file, 'histogram.width', `is ${fmt(histogramWidth)}`, 'give a positive bin width');
+  if (!(histogramWidth > 0))
+    outOfRange(file, 'histogram.width', `is ${fmt(histogramWidth)}`, 'give a positive bin width');
   checkRange(histogramWidth, RANGES.histogramWidth, file, 'histogram.width');
-  if (detection.kind === 'threshold' && !detection.limit.constant) checkLimitSpan(detection.limit, hull, histogramWidth, file);
+  if (detection.kind === 'threshold' && !detection.limit.constant)
+    checkLimitSpan(detection.limit, hull, histogramWidth, file);
   return histogramWidth;
 }
 
@@ -765,16 +1151,26 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   const hull = hullOf(windows);
   const slices = readSlices(raw, windows, file);
   // Photometric redshifts: every value in z must make sense over the whole true range integrated.
-  const photoZ = det.photo_z && det.kind !== 'line_flux' ? readPhotoZ(det.photo_z, hull, slices.edges, file) : undefined;
+  const photoZ =
+    det.photo_z && det.kind !== 'line_flux' ? readPhotoZ(det.photo_z, hull, slices.edges, file) : undefined;
   const checkHull = photoZ ? photoZTrueRange(hull, photoZ) : hull;
   const detection = readDetection(det, rawPops, detLine, filter, checkHull, file, base, inputs);
   if (photoZ && detection.kind !== 'line_flux') detection.photoZ = photoZ;
   const checkWindow = (i: number): Window => (photoZ ? photoZTrueRange(windows[i]!, photoZ) : windows[i]!);
   const populations = rawPops.map(({ raw: p, path }, i) => {
-    const pop = buildPopulation(p, path, i, rawPops.length, checkWindow(i), slices.own[i]!, lines[i], file, { base, inputs });
+    const pop = buildPopulation(p, path, i, rawPops.length, checkWindow(i), slices.own[i]!, lines[i], file, {
+      base,
+      inputs,
+    });
     if (photoZ && pop.modelUncertainty) {
       // the model's draws redo the count on the plain prediction's redshift nodes, which photometric redshifts redistribute
-      throw inputError('conflict', file, `${path}.model_uncertainty`, 'cannot yet be combined with detection.photo_z', 'leave one of them out');
+      throw inputError(
+        'conflict',
+        file,
+        `${path}.model_uncertainty`,
+        'cannot yet be combined with detection.photo_z',
+        'leave one of them out',
+      );
     }
     if (photoZ) pop.window = { min: windows[i]!.min, max: windows[i]!.max };
     const sed = detection.kind === 'magnitude' ? detection.sed : undefined;
@@ -791,7 +1187,17 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
     return pop;
   });
   populations.forEach((pop, i) =>
-    Object.assign(pop, readPopulationSelection(rawPops[i]!.raw, rawPops[i]!.path, detection.kind, detection.equivalentWidthCut !== undefined, checkWindow(i), file)),
+    Object.assign(
+      pop,
+      readPopulationSelection(
+        rawPops[i]!.raw,
+        rawPops[i]!.path,
+        detection.kind,
+        detection.equivalentWidthCut !== undefined,
+        checkWindow(i),
+        file,
+      ),
+    ),
   );
   const histogramWidth = readHistogramWidth(raw, rawPops, detection, checkHull, file);
 
@@ -826,15 +1232,33 @@ function parseSfrConversion(p: RawPopulation, path: string, file: string): SfrCo
   if (v === undefined) return undefined;
   const key = `${path}.sfr_conversion`;
   if (typeof v === 'number') {
-    if (!(v > 0)) outOfRange(file, key, `is ${fmt(v)}`, 'give a positive factor in Msun/yr per erg/s (per erg/s/Hz for a magnitude variable)');
+    if (!(v > 0))
+      outOfRange(
+        file,
+        key,
+        `is ${fmt(v)}`,
+        'give a positive factor in Msun/yr per erg/s (per erg/s/Hz for a magnitude variable)',
+      );
     checkRange(v, RANGES.sfrFactor, file, key);
     return { name: 'factor', factor: v };
   }
   if (v === 'uv' && p.variable !== 'magnitude') {
-    throw inputError('kind_mismatch', file, key, 'uv converts a continuum luminosity per Hz, which needs variable magnitude', 'use halpha or oii for a line luminosity, or give a factor');
+    throw inputError(
+      'kind_mismatch',
+      file,
+      key,
+      'uv converts a continuum luminosity per Hz, which needs variable magnitude',
+      'use halpha or oii for a line luminosity, or give a factor',
+    );
   }
   if ((v === 'halpha' || v === 'oii') && p.variable !== 'luminosity') {
-    throw inputError('kind_mismatch', file, key, `${v} converts a line luminosity, which needs variable luminosity`, 'use uv for absolute magnitudes, or give a factor');
+    throw inputError(
+      'kind_mismatch',
+      file,
+      key,
+      `${v} converts a line luminosity, which needs variable luminosity`,
+      'use uv for absolute magnitudes, or give a factor',
+    );
   }
   return { name: v, factor: KENNICUTT1998[v] };
 }

@@ -20,15 +20,39 @@ const KEY = 'detection.photo_z';
  * the true range (6 sigma beyond the window) below z = MAX_REDSHIFT; every slice at least
  * sigma (1 + z) / 2 wide at its middle (narrower slices are mostly scatter from their neighbours).
  */
-export function readPhotoZ(raw: RawPhotoZ, window: { min: number; max: number }, edges: readonly number[], file: string): PhotoZ {
-  if (raw.sigma === undefined) throw inputError('missing_key', file, `${KEY}.sigma`, 'is missing', 'give the photometric-redshift scatter sigma in units of (1 + z), e.g. 0.03 (0 for exact redshifts)');
+export function readPhotoZ(
+  raw: RawPhotoZ,
+  window: { min: number; max: number },
+  edges: readonly number[],
+  file: string,
+): PhotoZ {
+  if (raw.sigma === undefined)
+    throw inputError(
+      'missing_key',
+      file,
+      `${KEY}.sigma`,
+      'is missing',
+      'give the photometric-redshift scatter sigma in units of (1 + z), e.g. 0.03 (0 for exact redshifts)',
+    );
   const sigma = raw.sigma;
   if (!(sigma >= 0 && sigma <= PHOTO_Z_MAX_SIGMA)) {
-    throw inputError('out_of_range', file, `${KEY}.sigma`, `is ${fmt(sigma)}, outside 0 to ${PHOTO_Z_MAX_SIGMA}`, `give sigma in units of (1 + z) from 0 to ${PHOTO_Z_MAX_SIGMA}`);
+    throw inputError(
+      'out_of_range',
+      file,
+      `${KEY}.sigma`,
+      `is ${fmt(sigma)}, outside 0 to ${PHOTO_Z_MAX_SIGMA}`,
+      `give sigma in units of (1 + z) from 0 to ${PHOTO_Z_MAX_SIGMA}`,
+    );
   }
   const outlierFraction = raw.outlier_fraction ?? 0;
   if (!(outlierFraction >= 0 && outlierFraction < 1)) {
-    throw inputError('out_of_range', file, `${KEY}.outlier_fraction`, `is ${fmt(outlierFraction)}, outside 0 to below 1`, 'give the fraction of catastrophic outliers, from 0 to below 1 (e.g. 0.02)');
+    throw inputError(
+      'out_of_range',
+      file,
+      `${KEY}.outlier_fraction`,
+      `is ${fmt(outlierFraction)}, outside 0 to below 1`,
+      'give the fraction of catastrophic outliers, from 0 to below 1 (e.g. 0.02)',
+    );
   }
   const pz: PhotoZ = { sigma, outlierFraction };
   const range = photoZTrueRange(window, pz);

@@ -48,7 +48,13 @@ export const MAX_VEGA_TO_AB = 5;
 function wavelength(v: Q, file: string, path: string): number {
   const x = parseQuantity(v, 'wavelength', file, path);
   if (!(x > 0) || !inRange(x, RANGES.wavelength)) {
-    throw inputError('out_of_range', file, path, `is ${fmt(x)} Angstrom, outside its physical range (${describeRange(RANGES.wavelength)})`, 'give a positive wavelength in that range');
+    throw inputError(
+      'out_of_range',
+      file,
+      path,
+      `is ${fmt(x)} Angstrom, outside its physical range (${describeRange(RANGES.wavelength)})`,
+      'give a positive wavelength in that range',
+    );
   }
   return x;
 }
@@ -57,37 +63,80 @@ function wavelength(v: Q, file: string, path: string): number {
 function readBand(raw: RawBand, path: string, file: string, base: string, inputs: InputFile[]): Filter {
   if (raw.file !== undefined) {
     for (const k of ['center', 'fwhm', 'profile'] as const) {
-      if (raw[k] !== undefined) throw inputError('conflict', file, `${path}.${k}`, `${k} is given with a band file, which sets its own shape`, `remove ${k}`);
+      if (raw[k] !== undefined)
+        throw inputError(
+          'conflict',
+          file,
+          `${path}.${k}`,
+          `${k} is given with a band file, which sets its own shape`,
+          `remove ${k}`,
+        );
     }
     const table = readTransmissionFile(raw.file, file, `${path}.file`, base, (input) => inputs.push(input));
     return { profile: 'table', centerAngstrom: tableMeanWavelength(table), fwhmAngstrom: tableFwhm(table), table };
   }
   for (const k of ['center', 'fwhm'] as const) {
-    if (raw[k] === undefined) throw inputError('missing_key', file, `${path}.${k}`, 'is missing', `give the band's ${k} (Angstrom or with a unit), or a file`);
+    if (raw[k] === undefined)
+      throw inputError(
+        'missing_key',
+        file,
+        `${path}.${k}`,
+        'is missing',
+        `give the band's ${k} (Angstrom or with a unit), or a file`,
+      );
   }
   const centerAngstrom = wavelength(raw.center!, file, `${path}.center`);
   const fwhmAngstrom = wavelength(raw.fwhm!, file, `${path}.fwhm`);
   const half = (raw.profile === 'gaussian' ? 3 : 0.5) * fwhmAngstrom;
   if (!(centerAngstrom - half > 0)) {
-    throw inputError('out_of_range', file, `${path}.fwhm`, `reaches below 0 Angstrom (the band is integrated over center +- ${raw.profile === 'gaussian' ? '3 fwhm' : 'fwhm/2'})`, 'give a narrower band');
+    throw inputError(
+      'out_of_range',
+      file,
+      `${path}.fwhm`,
+      `reaches below 0 Angstrom (the band is integrated over center +- ${raw.profile === 'gaussian' ? '3 fwhm' : 'fwhm/2'})`,
+      'give a narrower band',
+    );
   }
   return { profile: raw.profile ?? 'tophat', centerAngstrom, fwhmAngstrom };
 }
 
 /** system / vega_to_ab at `path`: undefined for AB (the default). */
-function readSystem(raw: { system?: 'ab' | 'vega'; vega_to_ab?: number }, path: string, file: string, what: string): MagnitudeSystemGiven | undefined {
+function readSystem(
+  raw: { system?: 'ab' | 'vega'; vega_to_ab?: number },
+  path: string,
+  file: string,
+  what: string,
+): MagnitudeSystemGiven | undefined {
   if (raw.system !== 'vega') {
     if (raw.vega_to_ab !== undefined) {
-      throw inputError('conflict', file, `${path}.vega_to_ab`, `is given but ${path}.system is ${raw.system ?? 'ab (the default)'}`, `set ${path}.system: vega, or remove vega_to_ab`);
+      throw inputError(
+        'conflict',
+        file,
+        `${path}.vega_to_ab`,
+        `is given but ${path}.system is ${raw.system ?? 'ab (the default)'}`,
+        `set ${path}.system: vega, or remove vega_to_ab`,
+      );
     }
     return undefined;
   }
   if (raw.vega_to_ab === undefined) {
-    throw inputError('missing_key', file, `${path}.vega_to_ab`, `is missing, but ${what} is in Vega magnitudes`, 'give m_AB - m_Vega in the band, e.g. vega_to_ab: 0.2');
+    throw inputError(
+      'missing_key',
+      file,
+      `${path}.vega_to_ab`,
+      `is missing, but ${what} is in Vega magnitudes`,
+      'give m_AB - m_Vega in the band, e.g. vega_to_ab: 0.2',
+    );
   }
   const o = raw.vega_to_ab;
   if (!(Math.abs(o) <= MAX_VEGA_TO_AB)) {
-    throw inputError('out_of_range', file, `${path}.vega_to_ab`, `is ${fmt(o)} mag, beyond the ${MAX_VEGA_TO_AB} mag any band's offset stays within`, 'give m_AB - m_Vega in the band, in magnitudes');
+    throw inputError(
+      'out_of_range',
+      file,
+      `${path}.vega_to_ab`,
+      `is ${fmt(o)} mag, beyond the ${MAX_VEGA_TO_AB} mag any band's offset stays within`,
+      'give m_AB - m_Vega in the band, in magnitudes',
+    );
   }
   return { system: 'vega', vegaToAb: o };
 }
@@ -103,48 +152,106 @@ export interface DetectionPhotometry {
 }
 
 /** The band, spectrum and magnitude system of a magnitude detection. */
-export function readDetectionPhotometry(det: RawPhotometryDetection, file: string, base: string, inputs: InputFile[]): DetectionPhotometry {
+export function readDetectionPhotometry(
+  det: RawPhotometryDetection,
+  file: string,
+  base: string,
+  inputs: InputFile[],
+): DetectionPhotometry {
   const magnitudeSystem = readSystem(det, 'detection', file, 'the limit');
   const toAb = magnitudeSystem?.vegaToAb ?? 0;
   const bandObject = typeof det.band === 'object' ? det.band : undefined;
   if (bandObject && det.band_file !== undefined) {
-    throw inputError('conflict', file, 'detection.band_file', 'is given together with a band {center, fwhm}', 'keep one of them');
+    throw inputError(
+      'conflict',
+      file,
+      'detection.band_file',
+      'is given together with a band {center, fwhm}',
+      'keep one of them',
+    );
   }
   if (bandObject?.file !== undefined) {
-    throw inputError('conflict', file, 'detection.band.file', 'a band file is given as detection.band_file', 'move the file to detection.band_file');
+    throw inputError(
+      'conflict',
+      file,
+      'detection.band.file',
+      'a band file is given as detection.band_file',
+      'move the file to detection.band_file',
+    );
   }
-  const bandTable = det.band_file !== undefined ? readTransmissionFile(det.band_file, file, 'detection.band_file', base, (input) => inputs.push(input)) : undefined;
+  const bandTable =
+    det.band_file !== undefined
+      ? readTransmissionFile(det.band_file, file, 'detection.band_file', base, (input) => inputs.push(input))
+      : undefined;
   if (det.sed === undefined) {
     if (bandObject) {
-      throw inputError('wrong_type', file, 'detection.band', 'is a band {center, fwhm}, which only a spectrum (detection.sed) uses', 'give the effective wavelength of the band, or add detection.sed');
+      throw inputError(
+        'wrong_type',
+        file,
+        'detection.band',
+        'is a band {center, fwhm}, which only a spectrum (detection.sed) uses',
+        'give the effective wavelength of the band, or add detection.sed',
+      );
     }
     if (det.band === undefined && !bandTable) {
-      throw inputError('missing_key', file, 'detection.band', 'is missing', 'give the effective wavelength of the band (Angstrom or with a unit), or a band_file');
+      throw inputError(
+        'missing_key',
+        file,
+        'detection.band',
+        'is missing',
+        'give the effective wavelength of the band (Angstrom or with a unit), or a band_file',
+      );
     }
-    const bandAngstrom = det.band !== undefined ? wavelength(det.band as Q, file, 'detection.band') : tableMeanWavelength(bandTable!);
+    const bandAngstrom =
+      det.band !== undefined ? wavelength(det.band as Q, file, 'detection.band') : tableMeanWavelength(bandTable!);
     const out: DetectionPhotometry = { bandAngstrom, toAb };
     if (bandTable) out.bandTable = bandTable;
     if (magnitudeSystem) out.magnitudeSystem = magnitudeSystem;
     return out;
   }
   if (det.beta !== undefined) {
-    throw inputError('conflict', file, 'detection.beta', 'is the power-law colour term, which the spectrum detection.sed replaces', 'remove beta, or remove sed');
+    throw inputError(
+      'conflict',
+      file,
+      'detection.beta',
+      'is the power-law colour term, which the spectrum detection.sed replaces',
+      'remove beta, or remove sed',
+    );
   }
-  if (det.sed.file === undefined) throw inputError('missing_key', file, 'detection.sed.file', 'is missing', 'give the CSV of rest-frame wavelength (Angstrom), f_lambda');
+  if (det.sed.file === undefined)
+    throw inputError(
+      'missing_key',
+      file,
+      'detection.sed.file',
+      'is missing',
+      'give the CSV of rest-frame wavelength (Angstrom), f_lambda',
+    );
   let band: Filter;
-  if (bandTable) band = { profile: 'table', centerAngstrom: tableMeanWavelength(bandTable), fwhmAngstrom: tableFwhm(bandTable), table: bandTable };
+  if (bandTable)
+    band = {
+      profile: 'table',
+      centerAngstrom: tableMeanWavelength(bandTable),
+      fwhmAngstrom: tableFwhm(bandTable),
+      table: bandTable,
+    };
   else if (bandObject) band = readBand(bandObject, 'detection.band', file, base, inputs);
   else {
     throw inputError(
       det.band === undefined ? 'missing_key' : 'wrong_type',
       file,
       'detection.band',
-      det.band === undefined ? 'is missing' : `is the wavelength "${excerpt(typeof det.band === 'object' ? '' : String(det.band))}", but synthetic photometry needs the band's shape`,
+      det.band === undefined
+        ? 'is missing'
+        : `is the wavelength "${excerpt(typeof det.band === 'object' ? '' : String(det.band))}", but synthetic photometry needs the band's shape`,
       'give band: {center, fwhm, profile: tophat | gaussian}, or a band_file',
     );
   }
   const spectrum = readSpectrumFile(det.sed.file, file, 'detection.sed.file', base, (input) => inputs.push(input));
-  const out: DetectionPhotometry = { bandAngstrom: band.centerAngstrom, sed: { spectrum, band, surveyFile: file }, toAb };
+  const out: DetectionPhotometry = {
+    bandAngstrom: band.centerAngstrom,
+    sed: { spectrum, band, surveyFile: file },
+    toAb,
+  };
   if (bandTable) out.bandTable = bandTable;
   if (magnitudeSystem) out.magnitudeSystem = magnitudeSystem;
   return out;
@@ -178,18 +285,39 @@ export function readPopulationPhotometry(
 ): PopulationPhotometry {
   for (const k of ['rest_band', 'system', 'vega_to_ab'] as const) {
     if (p[k] !== undefined && kind !== 'magnitude') {
-      throw inputError('kind_mismatch', file, `${path}.${k}`, `${k} applies to the magnitude kind only, not ${kind}`, 'remove it');
+      throw inputError(
+        'kind_mismatch',
+        file,
+        `${path}.${k}`,
+        `${k} applies to the magnitude kind only, not ${kind}`,
+        'remove it',
+      );
     }
   }
   const magnitudeSystem = readSystem(p, path, file, 'm_star');
-  const out: PopulationPhotometry = { restWavelengthAngstrom: DEFAULT_REST_WAVELENGTH, toAb: magnitudeSystem?.vegaToAb ?? 0 };
+  const out: PopulationPhotometry = {
+    restWavelengthAngstrom: DEFAULT_REST_WAVELENGTH,
+    toAb: magnitudeSystem?.vegaToAb ?? 0,
+  };
   if (magnitudeSystem) out.magnitudeSystem = magnitudeSystem;
   if (p.rest_band !== undefined) {
     if (p.rest_wavelength !== undefined) {
-      throw inputError('conflict', file, `${path}.rest_band`, 'is given together with rest_wavelength', 'keep one: a rest band, or one rest wavelength');
+      throw inputError(
+        'conflict',
+        file,
+        `${path}.rest_band`,
+        'is given together with rest_wavelength',
+        'keep one: a rest band, or one rest wavelength',
+      );
     }
     if (!sed) {
-      throw inputError('conflict', file, `${path}.rest_band`, 'needs a spectrum to integrate over the band, but detection.sed is not given', 'add detection.sed, or give rest_wavelength instead');
+      throw inputError(
+        'conflict',
+        file,
+        `${path}.rest_band`,
+        'needs a spectrum to integrate over the band, but detection.sed is not given',
+        'add detection.sed, or give rest_wavelength instead',
+      );
     }
     out.restBand = readBand(p.rest_band, `${path}.rest_band`, file, base, inputs);
     out.restWavelengthAngstrom = out.restBand.centerAngstrom;
@@ -197,23 +325,36 @@ export function readPopulationPhotometry(
     out.restWavelengthAngstrom = wavelength(p.rest_wavelength, file, `${path}.rest_wavelength`);
   }
   if (sed) {
-    const rest: RestFrame = out.restBand ? { kind: 'band', band: out.restBand } : { kind: 'wavelength', angstrom: out.restWavelengthAngstrom };
+    const rest: RestFrame = out.restBand
+      ? { kind: 'band', band: out.restBand }
+      : { kind: 'wavelength', angstrom: out.restWavelengthAngstrom };
     checkSpectrumCoverage(sed, rest, window.min, window.max);
     const w = sed.spectrum.wavelengthAngstrom;
     const f = sed.spectrum.fLambda;
-    const key = out.restBand ? `${path}.rest_band` : p.rest_wavelength !== undefined ? `${path}.rest_wavelength` : 'detection.sed';
+    const key = out.restBand
+      ? `${path}.rest_band`
+      : p.rest_wavelength !== undefined
+        ? `${path}.rest_wavelength`
+        : 'detection.sed';
     // f_lambda must be above 0 at the rest wavelength (somewhere in the rest band), else no absolute magnitude is defined.
     let lit = false;
     if (out.restBand) {
       const [a, b] = bandSupport(out.restBand);
-      for (let i = 0; i + 1 < w.length && !lit; i++) if (!(w[i + 1]! < a || w[i]! > b)) lit = f[i]! > 0 || f[i + 1]! > 0;
+      for (let i = 0; i + 1 < w.length && !lit; i++)
+        if (!(w[i + 1]! < a || w[i]! > b)) lit = f[i]! > 0 || f[i + 1]! > 0;
     } else {
       const l = out.restWavelengthAngstrom;
       const i = Math.max(0, Math.min(w.length - 2, w.findIndex((x) => x > l) - 1));
       lit = f[i]! + ((l - w[i]!) / (w[i + 1]! - w[i]!)) * (f[i + 1]! - f[i]!) > 0;
     }
     if (!lit) {
-      throw inputError('out_of_range', file, key, `falls where the spectrum "${excerpt(sed.spectrum.file)}" has f_lambda 0, so no absolute magnitude is defined there`, 'give a rest frame where the spectrum has flux');
+      throw inputError(
+        'out_of_range',
+        file,
+        key,
+        `falls where the spectrum "${excerpt(sed.spectrum.file)}" has f_lambda 0, so no absolute magnitude is defined there`,
+        'give a rest frame where the spectrum has flux',
+      );
     }
   }
   return out;

@@ -24,10 +24,28 @@ import { parseQuantity } from './units.js';
 import { FULL_SKY_DEG2 } from '../model/sky.js';
 import { suggest } from './schema.js';
 import { CAPS, RANGES, describeRange, inRange } from '../model/limits.js';
-import { MAX_NOISE_FRAMES, depthOfLimit, type DepthLaw, type LimitKind, type PlanGoal, type PlanSpec } from '../model/plan.js';
+import {
+  MAX_NOISE_FRAMES,
+  depthOfLimit,
+  type DepthLaw,
+  type LimitKind,
+  type PlanGoal,
+  type PlanSpec,
+} from '../model/plan.js';
 import { parameterNames } from '../model/population.js';
 
-const KEYS = ['field_of_view', 'reference', 'overhead_hours', 'depth_law', 'budget_hours', 'fixed', 'goal', 'minimum_count', 'exposure_grid', 'tiers'];
+const KEYS = [
+  'field_of_view',
+  'reference',
+  'overhead_hours',
+  'depth_law',
+  'budget_hours',
+  'fixed',
+  'goal',
+  'minimum_count',
+  'exposure_grid',
+  'tiers',
+];
 export const DEFAULT_GRID = { min_hours: 0.05, max_hours: 50, count: 200 };
 /** Most exposures on the grid of a one-tier plan (a second or so per thousand). */
 export const MAX_GRID_COUNT = 20_000;
@@ -50,26 +68,64 @@ function checkKeys(o: Obj, allowed: string[], file: string, at: string): void {
   for (const k of Object.keys(o)) {
     if (allowed.includes(k)) continue;
     const near = suggest(k, allowed);
-    throw inputError('unknown_key', file, `${at}.${k}`, `unknown key "${k}"${near ? ` (did you mean ${near}?)` : ''}`, near ? 'rename or remove it' : `remove it; the keys allowed here are ${allowed.join(', ')}`);
+    throw inputError(
+      'unknown_key',
+      file,
+      `${at}.${k}`,
+      `unknown key "${k}"${near ? ` (did you mean ${near}?)` : ''}`,
+      near ? 'rename or remove it' : `remove it; the keys allowed here are ${allowed.join(', ')}`,
+    );
   }
 }
 
-function num(v: unknown, file: string, at: string, what: string, { min = -Infinity, exclusiveMin = false, integer = false, max = Infinity } = {}): number {
+function num(
+  v: unknown,
+  file: string,
+  at: string,
+  what: string,
+  { min = -Infinity, exclusiveMin = false, integer = false, max = Infinity } = {},
+): number {
   if (typeof v !== 'number' || !Number.isFinite(v)) {
-    throw inputError('wrong_type', file, at, `is ${v === undefined ? 'missing' : shown(v)} but must be ${what}`, `give ${what}`);
+    throw inputError(
+      'wrong_type',
+      file,
+      at,
+      `is ${v === undefined ? 'missing' : shown(v)} but must be ${what}`,
+      `give ${what}`,
+    );
   }
-  if (integer && !Number.isInteger(v)) throw inputError('wrong_type', file, at, `is ${v} but must be a whole number`, `give ${what}`);
-  if (exclusiveMin ? v <= min : v < min) throw inputError('out_of_range', file, at, `is ${v} but must be ${exclusiveMin ? 'above' : 'at least'} ${min}`, `give ${what}`);
+  if (integer && !Number.isInteger(v))
+    throw inputError('wrong_type', file, at, `is ${v} but must be a whole number`, `give ${what}`);
+  if (exclusiveMin ? v <= min : v < min)
+    throw inputError(
+      'out_of_range',
+      file,
+      at,
+      `is ${v} but must be ${exclusiveMin ? 'above' : 'at least'} ${min}`,
+      `give ${what}`,
+    );
   if (v > max) throw inputError('out_of_range', file, at, `is ${v} but must be at most ${max}`, `give ${what}`);
   return v;
 }
 
 function hours(v: unknown, file: string, at: string, positive: boolean): number {
   if (typeof v !== 'number' && typeof v !== 'string') {
-    throw inputError('wrong_type', file, at, `is ${v === undefined ? 'missing' : shown(v)} but must be a time`, 'give hours as a number, or with a unit such as "90 min"');
+    throw inputError(
+      'wrong_type',
+      file,
+      at,
+      `is ${v === undefined ? 'missing' : shown(v)} but must be a time`,
+      'give hours as a number, or with a unit such as "90 min"',
+    );
   }
   const h = parseQuantity(v, 'time', file, at);
-  return num(h, file, at, positive ? `a time above 0 and at most ${MAX_PLAN_HOURS} hours` : `a time from 0 to ${MAX_PLAN_HOURS} hours`, { min: 0, exclusiveMin: positive, max: MAX_PLAN_HOURS });
+  return num(
+    h,
+    file,
+    at,
+    positive ? `a time above 0 and at most ${MAX_PLAN_HOURS} hours` : `a time from 0 to ${MAX_PLAN_HOURS} hours`,
+    { min: 0, exclusiveMin: positive, max: MAX_PLAN_HOURS },
+  );
 }
 
 function limitValue(v: unknown, kind: LimitKind, file: string, at: string): number {
@@ -78,12 +134,24 @@ function limitValue(v: unknown, kind: LimitKind, file: string, at: string): numb
   if (kind === 'magnitude') x = num(v, file, at, 'an AB magnitude (a number)');
   else {
     if (typeof v !== 'number' && typeof v !== 'string') {
-      throw inputError('wrong_type', file, at, `is ${v === undefined ? 'missing' : shown(v)} but must be a line flux`, 'give erg/s/cm^2 as a number, or with a unit such as "5e-17 erg/s/cm^2"');
+      throw inputError(
+        'wrong_type',
+        file,
+        at,
+        `is ${v === undefined ? 'missing' : shown(v)} but must be a line flux`,
+        'give erg/s/cm^2 as a number, or with a unit such as "5e-17 erg/s/cm^2"',
+      );
     }
     x = num(parseQuantity(v, 'flux', file, at), file, at, 'a line flux above 0', { min: 0, exclusiveMin: true });
   }
   if (!inRange(x, range)) {
-    throw inputError('out_of_range', file, at, `is ${x}${range.unit ? ` ${range.unit}` : ''}, outside its physical range (${describeRange(range)})`, 'give a limit in that range');
+    throw inputError(
+      'out_of_range',
+      file,
+      at,
+      `is ${x}${range.unit ? ` ${range.unit}` : ''}, outside its physical range (${describeRange(range)})`,
+      'give a limit in that range',
+    );
   }
   return x;
 }
@@ -96,16 +164,40 @@ function shown(v: unknown): string {
 /** plan.depth_law.noise: {sky_to_source, read_to_source (default 0), frame_hours (required with read noise)}. */
 function readNoise(v: unknown, file: string): { skyToSource: number; readToSource: number; frameHours: number } {
   const at = 'plan.depth_law.noise';
-  if (!isObj(v)) throw inputError('wrong_type', file, at, `is ${shown(v)} but must be a mapping`, 'write it as {sky_to_source: 4, read_to_source: 0.3, frame_hours: 0.5}');
+  if (!isObj(v))
+    throw inputError(
+      'wrong_type',
+      file,
+      at,
+      `is ${shown(v)} but must be a mapping`,
+      'write it as {sky_to_source: 4, read_to_source: 0.3, frame_hours: 0.5}',
+    );
   checkKeys(v, ['sky_to_source', 'read_to_source', 'frame_hours'], file, at);
-  if (v.sky_to_source === undefined) throw inputError('missing_key', file, `${at}.sky_to_source`, 'is missing', 'give the sky variance relative to the source\'s at the reference limit, e.g. 4');
+  if (v.sky_to_source === undefined)
+    throw inputError(
+      'missing_key',
+      file,
+      `${at}.sky_to_source`,
+      'is missing',
+      "give the sky variance relative to the source's at the reference limit, e.g. 4",
+    );
   const ratio = `a variance ratio from 0 to ${MAX_VARIANCE_RATIO}`;
   const skyToSource = num(v.sky_to_source, file, `${at}.sky_to_source`, ratio, { min: 0, max: MAX_VARIANCE_RATIO });
-  const readToSource = v.read_to_source === undefined ? 0 : num(v.read_to_source, file, `${at}.read_to_source`, ratio, { min: 0, max: MAX_VARIANCE_RATIO });
+  const readToSource =
+    v.read_to_source === undefined
+      ? 0
+      : num(v.read_to_source, file, `${at}.read_to_source`, ratio, { min: 0, max: MAX_VARIANCE_RATIO });
   if (v.frame_hours === undefined && readToSource > 0) {
-    throw inputError('missing_key', file, `${at}.frame_hours`, 'is missing, but read noise grows with the number of frames', 'give the longest single frame in hours, e.g. frame_hours: 0.5');
+    throw inputError(
+      'missing_key',
+      file,
+      `${at}.frame_hours`,
+      'is missing, but read noise grows with the number of frames',
+      'give the longest single frame in hours, e.g. frame_hours: 0.5',
+    );
   }
-  const frameHours = v.frame_hours === undefined ? MAX_PLAN_HOURS : hours(v.frame_hours, file, `${at}.frame_hours`, true);
+  const frameHours =
+    v.frame_hours === undefined ? MAX_PLAN_HOURS : hours(v.frame_hours, file, `${at}.frame_hours`, true);
   return { skyToSource, readToSource, frameHours };
 }
 
@@ -114,22 +206,54 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
   const file = survey.file;
   const raw = isObj(survey.raw) ? survey.raw.plan : undefined;
   if (!isObj(raw)) {
-    throw inputError('missing_key', file, 'plan', raw === undefined ? 'is missing, so there is nothing to plan' : 'must be a mapping of keys', 'add a plan section with field_of_view, reference, budget_hours and goal (see the plan-file format)');
+    throw inputError(
+      'missing_key',
+      file,
+      'plan',
+      raw === undefined ? 'is missing, so there is nothing to plan' : 'must be a mapping of keys',
+      'add a plan section with field_of_view, reference, budget_hours and goal (see the plan-file format)',
+    );
   }
   checkKeys(raw, KEYS, file, 'plan');
   const kind = survey.detection.kind;
   if (kind === 'threshold') {
-    throw inputError('kind_mismatch', file, 'detection.kind', 'is threshold, but a plan turns exposure time into a detection limit', 'plan a magnitude or line_flux survey');
+    throw inputError(
+      'kind_mismatch',
+      file,
+      'detection.kind',
+      'is threshold, but a plan turns exposure time into a detection limit',
+      'plan a magnitude or line_flux survey',
+    );
   }
   const limitKind: LimitKind = kind;
 
-  if (raw.field_of_view === undefined) throw inputError('missing_key', file, 'plan.field_of_view', 'is missing', 'give the area of one pointing, e.g. "0.05 deg^2"');
+  if (raw.field_of_view === undefined)
+    throw inputError(
+      'missing_key',
+      file,
+      'plan.field_of_view',
+      'is missing',
+      'give the area of one pointing, e.g. "0.05 deg^2"',
+    );
   if (typeof raw.field_of_view !== 'number' && typeof raw.field_of_view !== 'string') {
-    throw inputError('wrong_type', file, 'plan.field_of_view', 'must be an area', 'give deg^2 as a number, or with a unit such as "180 arcmin^2"');
+    throw inputError(
+      'wrong_type',
+      file,
+      'plan.field_of_view',
+      'must be an area',
+      'give deg^2 as a number, or with a unit such as "180 arcmin^2"',
+    );
   }
-  const fov = num(parseQuantity(raw.field_of_view, 'area', file, 'plan.field_of_view'), file, 'plan.field_of_view', 'an area above 0 and at most the full sky', { min: 0, exclusiveMin: true, max: FULL_SKY_DEG2 });
+  const fov = num(
+    parseQuantity(raw.field_of_view, 'area', file, 'plan.field_of_view'),
+    file,
+    'plan.field_of_view',
+    'an area above 0 and at most the full sky',
+    { min: 0, exclusiveMin: true, max: FULL_SKY_DEG2 },
+  );
 
-  if (raw.budget_hours === undefined) throw inputError('missing_key', file, 'plan.budget_hours', 'is missing', 'give the total time to spend, in hours');
+  if (raw.budget_hours === undefined)
+    throw inputError('missing_key', file, 'plan.budget_hours', 'is missing', 'give the total time to spend, in hours');
   const budget = hours(raw.budget_hours, file, 'plan.budget_hours', true);
   const overhead = raw.overhead_hours === undefined ? 0 : hours(raw.overhead_hours, file, 'plan.overhead_hours', false);
 
@@ -137,7 +261,13 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
   const lawRaw = raw.depth_law ?? 'background';
   const readReference = (): { referenceLimit: number; referenceHours: number } => {
     if (!isObj(raw.reference)) {
-      throw inputError(raw.reference === undefined ? 'missing_key' : 'wrong_type', file, 'plan.reference', raw.reference === undefined ? 'is missing' : 'must be a mapping', `give the depth reached at a reference exposure, e.g. reference: {limit: ${kind === 'magnitude' ? '26.5' : '5e-17'}, exposure_hours: 1}`);
+      throw inputError(
+        raw.reference === undefined ? 'missing_key' : 'wrong_type',
+        file,
+        'plan.reference',
+        raw.reference === undefined ? 'is missing' : 'must be a mapping',
+        `give the depth reached at a reference exposure, e.g. reference: {limit: ${kind === 'magnitude' ? '26.5' : '5e-17'}, exposure_hours: 1}`,
+      );
     }
     checkKeys(raw.reference, ['limit', 'exposure_hours'], file, 'plan.reference');
     const referenceLimit = limitValue(raw.reference.limit, limitKind, file, 'plan.reference.limit');
@@ -154,107 +284,270 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
     checkKeys(lawRaw, ['table', 'noise'], file, 'plan.depth_law');
     const t = lawRaw.table;
     if (!Array.isArray(t) || t.length < 2) {
-      throw inputError('bad_table', file, 'plan.depth_law.table', 'must be a list of at least two [hours, limit] rows', 'write it as [[hours, limit], ...]');
+      throw inputError(
+        'bad_table',
+        file,
+        'plan.depth_law.table',
+        'must be a list of at least two [hours, limit] rows',
+        'write it as [[hours, limit], ...]',
+      );
     }
     if (t.length > MAX_DEPTH_ROWS) {
-      throw inputError('too_large', file, 'plan.depth_law.table', `has ${t.length} rows, more than the ${MAX_DEPTH_ROWS} a table may have`, 'resample it to fewer rows');
+      throw inputError(
+        'too_large',
+        file,
+        'plan.depth_law.table',
+        `has ${t.length} rows, more than the ${MAX_DEPTH_ROWS} a table may have`,
+        'resample it to fewer rows',
+      );
     }
     if (raw.reference !== undefined) {
-      throw inputError('conflict', file, 'plan.reference', 'is given together with a depth_law table', 'keep one of them: the table already says how deep each exposure goes');
+      throw inputError(
+        'conflict',
+        file,
+        'plan.reference',
+        'is given together with a depth_law table',
+        'keep one of them: the table already says how deep each exposure goes',
+      );
     }
     const hs: number[] = [];
     const ls: number[] = [];
     t.forEach((row, i) => {
       const at = `plan.depth_law.table[${i}]`;
-      if (!Array.isArray(row) || row.length !== 2) throw inputError('bad_table', file, at, 'must be a row of exactly two values', 'write each row as [hours, limit]');
+      if (!Array.isArray(row) || row.length !== 2)
+        throw inputError(
+          'bad_table',
+          file,
+          at,
+          'must be a row of exactly two values',
+          'write each row as [hours, limit]',
+        );
       const h = hours(row[0], file, `${at}[0]`, true);
       const l = limitValue(row[1], limitKind, file, `${at}[1]`);
-      if (i > 0 && !(h > hs[i - 1]!)) throw inputError('bad_table', file, `${at}[0]`, `is ${h} h, not longer than the row before (${hs[i - 1]} h)`, 'list the rows by increasing exposure');
+      if (i > 0 && !(h > hs[i - 1]!))
+        throw inputError(
+          'bad_table',
+          file,
+          `${at}[0]`,
+          `is ${h} h, not longer than the row before (${hs[i - 1]} h)`,
+          'list the rows by increasing exposure',
+        );
       if (i > 0 && !(depthOfLimit(limitKind, l) > depthOfLimit(limitKind, ls[i - 1]!))) {
-        throw inputError('bad_table', file, `${at}[1]`, `is not deeper than the row before (${ls[i - 1]})`, 'give limits that deepen as the exposure grows');
+        throw inputError(
+          'bad_table',
+          file,
+          `${at}[1]`,
+          `is not deeper than the row before (${ls[i - 1]})`,
+          'give limits that deepen as the exposure grows',
+        );
       }
       hs.push(h);
       ls.push(l);
     });
     law = { kind: 'table', hours: hs, limits: ls };
   } else {
-    throw inputError('out_of_range', file, 'plan.depth_law', `is ${shown(lawRaw)} but must be background, source, {noise: {...}} or {table: [[hours, limit], ...]}`, 'use one of those forms');
+    throw inputError(
+      'out_of_range',
+      file,
+      'plan.depth_law',
+      `is ${shown(lawRaw)} but must be background, source, {noise: {...}} or {table: [[hours, limit], ...]}`,
+      'use one of those forms',
+    );
   }
 
   // Goal.
   let goal: PlanGoal;
   const g = raw.goal;
-  if (g === undefined) throw inputError('missing_key', file, 'plan.goal', 'is missing', 'give count, faint_count or {sigma: PARAMETER}');
+  if (g === undefined)
+    throw inputError('missing_key', file, 'plan.goal', 'is missing', 'give count, faint_count or {sigma: PARAMETER}');
   if (g === 'count' || g === 'faint_count') goal = { kind: g };
   else if (isObj(g)) {
     checkKeys(g, ['sigma'], file, 'plan.goal');
     const names: string[] = parameterNames(population);
     if (typeof g.sigma !== 'string' || !names.includes(g.sigma)) {
       const near = typeof g.sigma === 'string' ? suggest(g.sigma, names) : undefined;
-      throw inputError('out_of_range', file, 'plan.goal.sigma', `is ${shown(g.sigma)} but must name a parameter of "${population.name}"${near ? ` (did you mean ${near}?)` : ''}`, `use one of ${names.join(', ')}`);
+      throw inputError(
+        'out_of_range',
+        file,
+        'plan.goal.sigma',
+        `is ${shown(g.sigma)} but must name a parameter of "${population.name}"${near ? ` (did you mean ${near}?)` : ''}`,
+        `use one of ${names.join(', ')}`,
+      );
     }
     goal = { kind: 'sigma', parameter: g.sigma };
   } else {
     const near = typeof g === 'string' ? suggest(g, ['count', 'faint_count']) : undefined;
-    throw inputError('out_of_range', file, 'plan.goal', `is ${shown(g)} but must be count, faint_count or {sigma: PARAMETER}${near ? ` (did you mean ${near}?)` : ''}`, 'use one of those forms');
+    throw inputError(
+      'out_of_range',
+      file,
+      'plan.goal',
+      `is ${shown(g)} but must be count, faint_count or {sigma: PARAMETER}${near ? ` (did you mean ${near}?)` : ''}`,
+      'use one of those forms',
+    );
   }
 
-  const minimumCount = raw.minimum_count === undefined ? 0 : num(raw.minimum_count, file, 'plan.minimum_count', 'a count from 0 to 1e12', { min: 0, max: 1e12 });
-  const tiers = raw.tiers === undefined ? 1 : (num(raw.tiers, file, 'plan.tiers', 'a whole number from 1 to 3', { min: 1, max: 3, integer: true }) as 1 | 2 | 3);
+  const minimumCount =
+    raw.minimum_count === undefined
+      ? 0
+      : num(raw.minimum_count, file, 'plan.minimum_count', 'a count from 0 to 1e12', { min: 0, max: 1e12 });
+  const tiers =
+    raw.tiers === undefined
+      ? 1
+      : (num(raw.tiers, file, 'plan.tiers', 'a whole number from 1 to 3', { min: 1, max: 3, integer: true }) as
+          1 | 2 | 3);
 
   // Exposure grid.
   const gridRaw = raw.exposure_grid ?? {};
-  if (!isObj(gridRaw)) throw inputError('wrong_type', file, 'plan.exposure_grid', 'must be a mapping', 'write it as {min_hours: 0.05, max_hours: 50, count: 200}');
+  if (!isObj(gridRaw))
+    throw inputError(
+      'wrong_type',
+      file,
+      'plan.exposure_grid',
+      'must be a mapping',
+      'write it as {min_hours: 0.05, max_hours: 50, count: 200}',
+    );
   checkKeys(gridRaw, ['min_hours', 'max_hours', 'count'], file, 'plan.exposure_grid');
-  const minHours = gridRaw.min_hours === undefined ? DEFAULT_GRID.min_hours : hours(gridRaw.min_hours, file, 'plan.exposure_grid.min_hours', true);
+  const minHours =
+    gridRaw.min_hours === undefined
+      ? DEFAULT_GRID.min_hours
+      : hours(gridRaw.min_hours, file, 'plan.exposure_grid.min_hours', true);
   const maxHours =
-    gridRaw.max_hours === undefined ? Math.max(minHours * 2, Math.min(DEFAULT_GRID.max_hours, budget - overhead)) : hours(gridRaw.max_hours, file, 'plan.exposure_grid.max_hours', true);
+    gridRaw.max_hours === undefined
+      ? Math.max(minHours * 2, Math.min(DEFAULT_GRID.max_hours, budget - overhead))
+      : hours(gridRaw.max_hours, file, 'plan.exposure_grid.max_hours', true);
   if (!(maxHours > minHours)) {
-    throw inputError('out_of_range', file, 'plan.exposure_grid.max_hours', `is ${maxHours} h, not above min_hours (${minHours} h)`, 'give max_hours above min_hours');
+    throw inputError(
+      'out_of_range',
+      file,
+      'plan.exposure_grid.max_hours',
+      `is ${maxHours} h, not above min_hours (${minHours} h)`,
+      'give max_hours above min_hours',
+    );
   }
   const maxCount = tiers > 1 ? MAX_TIER_GRID_COUNT : MAX_GRID_COUNT;
   const count =
     gridRaw.count === undefined
       ? Math.min(DEFAULT_GRID.count, maxCount)
-      : num(gridRaw.count, file, 'plan.exposure_grid.count', `a whole number from 2 to ${maxCount}${tiers > 1 ? ` (with ${tiers} tiers)` : ''}`, { min: 2, max: maxCount, integer: true });
+      : num(
+          gridRaw.count,
+          file,
+          'plan.exposure_grid.count',
+          `a whole number from 2 to ${maxCount}${tiers > 1 ? ` (with ${tiers} tiers)` : ''}`,
+          { min: 2, max: maxCount, integer: true },
+        );
   if (minHours + overhead > budget) {
-    throw inputError('out_of_range', file, 'plan.exposure_grid.min_hours', `plus the overhead (${minHours + overhead} h) exceeds budget_hours (${budget} h), so not one pointing fits`, 'lower min_hours or overhead_hours, or raise budget_hours');
+    throw inputError(
+      'out_of_range',
+      file,
+      'plan.exposure_grid.min_hours',
+      `plus the overhead (${minHours + overhead} h) exceeds budget_hours (${budget} h), so not one pointing fits`,
+      'lower min_hours or overhead_hours, or raise budget_hours',
+    );
   }
   if (law.kind === 'table') {
     const lo = law.hours[0]!;
     const hi = law.hours[law.hours.length - 1]!;
-    if (minHours < lo * (1 - 1e-12)) throw inputError('out_of_range', file, 'plan.exposure_grid.min_hours', `is ${minHours} h, shorter than the depth_law table's first row (${lo} h)`, 'raise min_hours or extend the table');
-    if (maxHours > hi * (1 + 1e-12)) throw inputError('out_of_range', file, 'plan.exposure_grid.max_hours', `is ${maxHours} h, longer than the depth_law table's last row (${hi} h)`, 'lower max_hours or extend the table');
+    if (minHours < lo * (1 - 1e-12))
+      throw inputError(
+        'out_of_range',
+        file,
+        'plan.exposure_grid.min_hours',
+        `is ${minHours} h, shorter than the depth_law table's first row (${lo} h)`,
+        'raise min_hours or extend the table',
+      );
+    if (maxHours > hi * (1 + 1e-12))
+      throw inputError(
+        'out_of_range',
+        file,
+        'plan.exposure_grid.max_hours',
+        `is ${maxHours} h, longer than the depth_law table's last row (${hi} h)`,
+        'lower max_hours or extend the table',
+      );
   }
 
   if (law.kind === 'noise' && maxHours / law.frameHours > MAX_NOISE_FRAMES) {
-    throw inputError('out_of_range', file, 'plan.depth_law.noise.frame_hours', `is ${law.frameHours} h, so the longest exposure tried (${maxHours} h) would be more than ${MAX_NOISE_FRAMES} frames`, `give frame_hours of at least ${maxHours / MAX_NOISE_FRAMES} h, or lower exposure_grid.max_hours`);
+    throw inputError(
+      'out_of_range',
+      file,
+      'plan.depth_law.noise.frame_hours',
+      `is ${law.frameHours} h, so the longest exposure tried (${maxHours} h) would be more than ${MAX_NOISE_FRAMES} frames`,
+      `give frame_hours of at least ${maxHours / MAX_NOISE_FRAMES} h, or lower exposure_grid.max_hours`,
+    );
   }
 
   // Fixed area or limit.
   let fixed: PlanSpec['fixed'];
   if (raw.fixed !== undefined) {
-    if (!isObj(raw.fixed)) throw inputError('wrong_type', file, 'plan.fixed', 'must be a mapping', 'write it as {area: ...} or {limit: ...}');
+    if (!isObj(raw.fixed))
+      throw inputError(
+        'wrong_type',
+        file,
+        'plan.fixed',
+        'must be a mapping',
+        'write it as {area: ...} or {limit: ...}',
+      );
     checkKeys(raw.fixed, ['area', 'limit'], file, 'plan.fixed');
     const hasArea = raw.fixed.area !== undefined;
     const hasLimit = raw.fixed.limit !== undefined;
     if (hasArea === hasLimit) {
-      throw inputError(hasArea ? 'conflict' : 'missing_key', file, hasArea ? 'plan.fixed.limit' : 'plan.fixed', hasArea ? 'is given together with plan.fixed.area' : 'holds neither area nor limit', 'fix one of area or limit, not both');
+      throw inputError(
+        hasArea ? 'conflict' : 'missing_key',
+        file,
+        hasArea ? 'plan.fixed.limit' : 'plan.fixed',
+        hasArea ? 'is given together with plan.fixed.area' : 'holds neither area nor limit',
+        'fix one of area or limit, not both',
+      );
     }
-    if (tiers > 1) throw inputError('conflict', file, 'plan.fixed', `cannot be combined with tiers: ${tiers}`, 'remove fixed or set tiers: 1');
+    if (tiers > 1)
+      throw inputError(
+        'conflict',
+        file,
+        'plan.fixed',
+        `cannot be combined with tiers: ${tiers}`,
+        'remove fixed or set tiers: 1',
+      );
     if (hasArea) {
       const a = raw.fixed.area;
-      if (typeof a !== 'number' && typeof a !== 'string') throw inputError('wrong_type', file, 'plan.fixed.area', 'must be an area', 'give deg^2 as a number, or with a unit');
-      const areaDeg2 = num(parseQuantity(a, 'area', file, 'plan.fixed.area'), file, 'plan.fixed.area', 'an area above 0 and at most the full sky', { min: 0, exclusiveMin: true, max: FULL_SKY_DEG2 });
+      if (typeof a !== 'number' && typeof a !== 'string')
+        throw inputError(
+          'wrong_type',
+          file,
+          'plan.fixed.area',
+          'must be an area',
+          'give deg^2 as a number, or with a unit',
+        );
+      const areaDeg2 = num(
+        parseQuantity(a, 'area', file, 'plan.fixed.area'),
+        file,
+        'plan.fixed.area',
+        'an area above 0 and at most the full sky',
+        { min: 0, exclusiveMin: true, max: FULL_SKY_DEG2 },
+      );
       const pointings = Math.ceil(areaDeg2 / fov - 1e-9);
       if (budget / pointings - overhead <= 0) {
-        throw inputError('out_of_range', file, 'plan.fixed.area', `needs ${pointings} pointings, whose overheads alone (${(pointings * overhead).toPrecision(4)} h) use up budget_hours (${budget} h)`, 'lower the area or raise budget_hours');
+        throw inputError(
+          'out_of_range',
+          file,
+          'plan.fixed.area',
+          `needs ${pointings} pointings, whose overheads alone (${(pointings * overhead).toPrecision(4)} h) use up budget_hours (${budget} h)`,
+          'lower the area or raise budget_hours',
+        );
       }
       fixed = { areaDeg2 };
     } else {
       const limit = limitValue(raw.fixed.limit, limitKind, file, 'plan.fixed.limit');
-      if (law.kind === 'table' && (depthOfLimit(limitKind, limit) < depthOfLimit(limitKind, law.limits[0]!) || depthOfLimit(limitKind, limit) > depthOfLimit(limitKind, law.limits[law.limits.length - 1]!))) {
-        throw inputError('out_of_range', file, 'plan.fixed.limit', `is ${limit}, outside the depth_law table`, 'give a limit between the table\'s first and last rows');
+      if (
+        law.kind === 'table' &&
+        (depthOfLimit(limitKind, limit) < depthOfLimit(limitKind, law.limits[0]!) ||
+          depthOfLimit(limitKind, limit) > depthOfLimit(limitKind, law.limits[law.limits.length - 1]!))
+      ) {
+        throw inputError(
+          'out_of_range',
+          file,
+          'plan.fixed.limit',
+          `is ${limit}, outside the depth_law table`,
+          "give a limit between the table's first and last rows",
+        );
       }
       // Whether one pointing of the exposure that reaches it fits the budget is checked by the plan (src/planning/plan.ts).
       fixed = { limit };

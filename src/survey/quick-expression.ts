@@ -28,7 +28,8 @@ export interface QuickNode {
 /** Deeper nesting goes to mathjs (which reports a stack overflow as nesting too deeply). */
 const MAX_DEPTH = 64;
 
-const TOKEN = /[ \t]*(?:(\d+(?:\.\d+)?(?:[eE][+-]?\d+)?|\.\d+(?:[eE][+-]?\d+)?)|([A-Za-z_][A-Za-z0-9_]*)|([-+*/^(),]))/y;
+const TOKEN =
+  /[ \t]*(?:(\d+(?:\.\d+)?(?:[eE][+-]?\d+)?|\.\d+(?:[eE][+-]?\d+)?)|([A-Za-z_][A-Za-z0-9_]*)|([-+*/^(),]))/y;
 
 type Tok = { kind: 'num' | 'name' | 'punct'; text: string };
 

@@ -85,10 +85,18 @@ export function readInputText(path: string, opts: ReadInputOptions): InputText {
     const st = fstatSync(fd);
     if (!st.isFile()) {
       const kind = kindOf(st);
-      return fail(st.isDirectory() ? 'file_unreadable' : 'not_a_file', `is ${kind}, not a regular file`, 'give the path of a file');
+      return fail(
+        st.isDirectory() ? 'file_unreadable' : 'not_a_file',
+        `is ${kind}, not a regular file`,
+        'give the path of a file',
+      );
     }
     if (st.size > opts.maxBytes) {
-      return fail('file_too_large', `is ${st.size} bytes, more than the ${opts.maxLabel} allowed`, 'check that this is the right file');
+      return fail(
+        'file_too_large',
+        `is ${st.size} bytes, more than the ${opts.maxLabel} allowed`,
+        'check that this is the right file',
+      );
     }
     // Read at most maxBytes + 1 bytes whatever the size said (files under /proc say 0; a file
     // may grow while it is read).
@@ -102,13 +110,20 @@ export function readInputText(path: string, opts: ReadInputOptions): InputText {
         n = readSync(fd, block, 0, block.length, null);
       } catch (e) {
         const code = (e as { code?: string }).code;
-        return fail('file_unreadable', code === 'EISDIR' ? 'is a folder, not a file' : `cannot be read (system error ${code ?? 'unknown'})`);
+        return fail(
+          'file_unreadable',
+          code === 'EISDIR' ? 'is a folder, not a file' : `cannot be read (system error ${code ?? 'unknown'})`,
+        );
       }
       if (n === 0) break;
       chunks.push(Buffer.from(block.subarray(0, n)));
       total += n;
       if (total > opts.maxBytes) {
-        return fail('file_too_large', `holds more than the ${opts.maxLabel} allowed`, 'check that this is the right file');
+        return fail(
+          'file_too_large',
+          `holds more than the ${opts.maxLabel} allowed`,
+          'check that this is the right file',
+        );
       }
       block = Buffer.alloc(Math.min(64 * 1024, opts.maxBytes + 1 - total));
     }

@@ -83,8 +83,20 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
     const props = Object.keys(((extra.parentSchema ?? {}) as { properties?: object }).properties ?? {});
     const near = suggest(key, props);
     return near
-      ? inputError('unknown_key', file, join(parent, key), `unknown key "${key}" (did you mean ${near}?)`, 'rename or remove it')
-      : inputError('unknown_key', file, join(parent, key), `unknown key "${key}"`, `remove it; the keys allowed here are ${props.join(', ')}`);
+      ? inputError(
+          'unknown_key',
+          file,
+          join(parent, key),
+          `unknown key "${key}" (did you mean ${near}?)`,
+          'rename or remove it',
+        )
+      : inputError(
+          'unknown_key',
+          file,
+          join(parent, key),
+          `unknown key "${key}"`,
+          `remove it; the keys allowed here are ${props.join(', ')}`,
+        );
   }
 
   // 2. Two keys where only one is allowed (oneOf over `required` branches that several pass).
@@ -119,7 +131,13 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
         const group = errors.find((e) => e.keyword === 'anyOf' && e.instancePath === first.instancePath);
         const title = (group?.parentSchema as { title?: string } | undefined)?.title;
         const expected = title ?? TYPE_WORDS[String((first.params as { type: string }).type)] ?? 'another type';
-        return inputError('wrong_type', file, path, `is ${describeValue(data)} but must be ${expected}`, 'change the value to that form');
+        return inputError(
+          'wrong_type',
+          file,
+          path,
+          `is ${describeValue(data)} but must be ${expected}`,
+          'change the value to that form',
+        );
       }
       case 'enum':
       case 'const': {
@@ -144,7 +162,13 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
         return inputError(code, file, path, what, isRow ? 'write each row as [x, value]' : 'add the missing entries');
       }
       default:
-        return inputError('wrong_type', file, path, `${first.message ?? 'is not valid'}`, 'see specs/survey.schema.json for the allowed form');
+        return inputError(
+          'wrong_type',
+          file,
+          path,
+          `${first.message ?? 'is not valid'}`,
+          'see specs/survey.schema.json for the allowed form',
+        );
     }
   }
 
@@ -161,5 +185,11 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
     return inputError('missing_key', file, join(parent, key), `is missing`, `add ${key} (see the survey-file format)`);
   }
   const e = errors[0]!;
-  return inputError('wrong_type', file, keyPathOf(e.instancePath), e.message ?? 'is not valid', 'see specs/survey.schema.json');
+  return inputError(
+    'wrong_type',
+    file,
+    keyPathOf(e.instancePath),
+    e.message ?? 'is not valid',
+    'see specs/survey.schema.json',
+  );
 }

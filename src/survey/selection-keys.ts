@@ -25,13 +25,25 @@ export interface RawPopulationSelection {
   redshift_selection?: ZRaw;
   blend_ratio?: number;
   attenuation?: ZRaw;
-  equivalent_widths?: { model: 'exponential' | 'lognormal' | 'table'; scale?: Q; median?: Q; sigma_dex?: number; table?: [number, number][] };
+  equivalent_widths?: {
+    model: 'exponential' | 'lognormal' | 'table';
+    scale?: Q;
+    median?: Q;
+    sigma_dex?: number;
+    table?: [number, number][];
+  };
   valid_redshift?: { min: number; max: number };
 }
 
 function ranged(v: number, range: Range, file: string, path: string): number {
   if (!inRange(v, range)) {
-    throw inputError('out_of_range', file, path, `is ${fmt(v)}${range.unit ? ` ${range.unit}` : ''}, outside its range (${describeRange(range)})`, 'give a value in that range');
+    throw inputError(
+      'out_of_range',
+      file,
+      path,
+      `is ${fmt(v)}${range.unit ? ` ${range.unit}` : ''}, outside its range (${describeRange(range)})`,
+      'give a value in that range',
+    );
   }
   return v;
 }
@@ -49,22 +61,31 @@ function fraction(v: ZRaw, w: Window, file: string, path: string): ZParam {
 /** detection.redshift_selection (checked over the window of every population) and equivalent_width_cut. */
 export function readDetectionSelection(det: RawDetectionSelection, hull: Window, file: string): DetectionSelection {
   const out: DetectionSelection = {};
-  if (det.redshift_selection !== undefined) out.redshiftSelection = fraction(det.redshift_selection, hull, file, 'detection.redshift_selection');
+  if (det.redshift_selection !== undefined)
+    out.redshiftSelection = fraction(det.redshift_selection, hull, file, 'detection.redshift_selection');
   const cut = det.equivalent_width_cut;
   if (cut !== undefined) {
     const frame = cut.rest !== undefined ? 'rest' : 'observed';
-    out.equivalentWidthCut = { frame, angstrom: width((cut.rest ?? cut.observed)!, file, `detection.equivalent_width_cut.${frame}`) };
+    out.equivalentWidthCut = {
+      frame,
+      angstrom: width((cut.rest ?? cut.observed)!, file, `detection.equivalent_width_cut.${frame}`),
+    };
   }
   return out;
 }
 
-function distribution(d: NonNullable<RawPopulationSelection['equivalent_widths']>, file: string, path: string): EquivalentWidthDistribution {
+function distribution(
+  d: NonNullable<RawPopulationSelection['equivalent_widths']>,
+  file: string,
+  path: string,
+): EquivalentWidthDistribution {
   const need = (key: string, what: string): never => {
     throw inputError('missing_key', file, `${path}.${key}`, `is missing (model ${d.model})`, `give ${what}`);
   };
   const positive = (v: Q, key: string): number => {
     const x = width(v, file, `${path}.${key}`);
-    if (!(x > 0)) throw inputError('out_of_range', file, `${path}.${key}`, `is ${fmt(x)} Angstrom`, 'give a positive width');
+    if (!(x > 0))
+      throw inputError('out_of_range', file, `${path}.${key}`, `is ${fmt(x)} Angstrom`, 'give a positive width');
     return x;
   };
   if (d.model === 'exponential') {
@@ -74,7 +95,11 @@ function distribution(d: NonNullable<RawPopulationSelection['equivalent_widths']
   if (d.model === 'lognormal') {
     if (d.median === undefined) need('median', 'the median rest-frame width (Angstrom or with a unit)');
     if (d.sigma_dex === undefined) need('sigma_dex', 'the spread of log10 W in dex');
-    return { model: 'lognormal', medianAngstrom: positive(d.median!, 'median'), sigmaDex: ranged(d.sigma_dex!, RANGES.sigmaDex, file, `${path}.sigma_dex`) };
+    return {
+      model: 'lognormal',
+      medianAngstrom: positive(d.median!, 'median'),
+      sigmaDex: ranged(d.sigma_dex!, RANGES.sigmaDex, file, `${path}.sigma_dex`),
+    };
   }
   if (d.table === undefined) need('table', 'rows [width in Angstrom, fraction of sources above it]');
   const rows = d.table!;
@@ -82,36 +107,78 @@ function distribution(d: NonNullable<RawPopulationSelection['equivalent_widths']
     ranged(w, RANGES.equivalentWidth, file, `${path}.table[${i}][0]`);
     ranged(f, RANGES.fraction, file, `${path}.table[${i}][1]`);
     if (i > 0 && !(w > rows[i - 1]![0])) {
-      throw inputError('bad_table', file, `${path}.table[${i}]`, `the widths are not strictly increasing (${fmt(w)} follows ${fmt(rows[i - 1]![0])})`, 'list the rows in increasing width without repeats');
+      throw inputError(
+        'bad_table',
+        file,
+        `${path}.table[${i}]`,
+        `the widths are not strictly increasing (${fmt(w)} follows ${fmt(rows[i - 1]![0])})`,
+        'list the rows in increasing width without repeats',
+      );
     }
     if (i > 0 && f > rows[i - 1]![1]) {
-      throw inputError('bad_table', file, `${path}.table[${i}]`, `the fraction above ${fmt(w)} Angstrom (${fmt(f)}) exceeds the fraction above a smaller width`, 'give fractions that do not grow with the width');
+      throw inputError(
+        'bad_table',
+        file,
+        `${path}.table[${i}]`,
+        `the fraction above ${fmt(w)} Angstrom (${fmt(f)}) exceeds the fraction above a smaller width`,
+        'give fractions that do not grow with the width',
+      );
     }
   });
   return { model: 'table', widthAngstrom: rows.map((r) => r[0]), fractionAbove: rows.map((r) => r[1]) };
 }
 
 /** A population's selection keys, checked against the detection kind and over its window. */
-export function readPopulationSelection(p: RawPopulationSelection, path: string, kind: DetectionKind, cut: boolean, w: Window, file: string): PopulationSelection {
+export function readPopulationSelection(
+  p: RawPopulationSelection,
+  path: string,
+  kind: DetectionKind,
+  cut: boolean,
+  w: Window,
+  file: string,
+): PopulationSelection {
   const out: PopulationSelection = {};
-  if (p.redshift_selection !== undefined) out.redshiftSelection = fraction(p.redshift_selection, w, file, `${path}.redshift_selection`);
+  if (p.redshift_selection !== undefined)
+    out.redshiftSelection = fraction(p.redshift_selection, w, file, `${path}.redshift_selection`);
   if (p.blend_ratio !== undefined) {
     if (kind !== 'line_flux') {
-      throw inputError('kind_mismatch', file, `${path}.blend_ratio`, `blend_ratio applies to line searches (line_flux), not ${kind}`, 'remove it');
+      throw inputError(
+        'kind_mismatch',
+        file,
+        `${path}.blend_ratio`,
+        `blend_ratio applies to line searches (line_flux), not ${kind}`,
+        'remove it',
+      );
     }
     out.blendRatio = ranged(p.blend_ratio, RANGES.blendRatio, file, `${path}.blend_ratio`);
   }
   if (p.attenuation !== undefined) {
     if (kind === 'threshold') {
-      throw inputError('kind_mismatch', file, `${path}.attenuation`, 'attenuation dims an observed flux, and a threshold survey observes none', 'remove it, or use detection kind line_flux or magnitude');
+      throw inputError(
+        'kind_mismatch',
+        file,
+        `${path}.attenuation`,
+        'attenuation dims an observed flux, and a threshold survey observes none',
+        'remove it, or use detection kind line_flux or magnitude',
+      );
     }
     const a = makeZParam(p.attenuation, file, `${path}.attenuation`);
-    checkParam(a, w, file, `${path}.attenuation`, { what: 'the attenuation', range: RANGES.attenuation, unitLabel: 'mag' });
+    checkParam(a, w, file, `${path}.attenuation`, {
+      what: 'the attenuation',
+      range: RANGES.attenuation,
+      unitLabel: 'mag',
+    });
     out.attenuation = a;
   }
   if (p.equivalent_widths !== undefined) {
     if (kind !== 'line_flux') {
-      throw inputError('kind_mismatch', file, `${path}.equivalent_widths`, `equivalent_widths applies to line searches (line_flux), not ${kind}`, 'remove it');
+      throw inputError(
+        'kind_mismatch',
+        file,
+        `${path}.equivalent_widths`,
+        `equivalent_widths applies to line searches (line_flux), not ${kind}`,
+        'remove it',
+      );
     }
     out.equivalentWidths = distribution(p.equivalent_widths, file, `${path}.equivalent_widths`);
   } else if (cut) {
@@ -119,7 +186,7 @@ export function readPopulationSelection(p: RawPopulationSelection, path: string,
       'missing_key',
       file,
       `${path}.equivalent_widths`,
-      'is missing, but detection.equivalent_width_cut needs the distribution of the line\'s equivalent widths',
+      "is missing, but detection.equivalent_width_cut needs the distribution of the line's equivalent widths",
       'give e.g. equivalent_widths: {model: exponential, scale: "50 Angstrom"}',
     );
   }
@@ -128,7 +195,13 @@ export function readPopulationSelection(p: RawPopulationSelection, path: string,
     ranged(v.min, { min: 0, max: MAX_REDSHIFT, unit: '' }, file, `${path}.valid_redshift.min`);
     ranged(v.max, { min: 0, max: MAX_REDSHIFT, unit: '' }, file, `${path}.valid_redshift.max`);
     if (!(v.max > v.min)) {
-      throw inputError('out_of_range', file, `${path}.valid_redshift.max`, `is ${fmt(v.max)}, not above min (${fmt(v.min)})`, 'give max above min');
+      throw inputError(
+        'out_of_range',
+        file,
+        `${path}.valid_redshift.max`,
+        `is ${fmt(v.max)}, not above min (${fmt(v.min)})`,
+        'give max above min',
+      );
     }
     out.validRedshift = { min: v.min, max: v.max };
   }

@@ -38,7 +38,14 @@ export function readTransmissionFile(
   baseDir: string,
   record?: (input: InputFile) => void,
 ): TransmissionTable {
-  const t = readWavelengthTable(path, surveyFile, keyPath, baseDir, { subject: 'transmission file', column: 'transmission' }, record);
+  const t = readWavelengthTable(
+    path,
+    surveyFile,
+    keyPath,
+    baseDir,
+    { subject: 'transmission file', column: 'transmission' },
+    record,
+  );
   const peak = Math.max(...t.values);
   if (!(peak > 0)) t.bad('has no transmission above 0', 'check the second column');
   return { file: path, wavelengthAngstrom: t.wavelengthAngstrom, transmission: t.values.map((v) => v / peak) };
@@ -104,20 +111,30 @@ export function readWavelengthTable(
     }
     if (cells.length !== 2 || nums.some((x) => !Number.isFinite(x))) {
       if (!seenRow && !headerSeen) {
-        bad(`does not start with a table: its first line (line ${i + 1}) is not a row of two numbers`, `give a CSV of wavelength, ${kind.column} rows`);
+        bad(
+          `does not start with a table: its first line (line ${i + 1}) is not a row of two numbers`,
+          `give a CSV of wavelength, ${kind.column} rows`,
+        );
       }
       bad(`line ${i + 1} ("${excerpt(line)}") is not two numbers`, `write each row as wavelength, ${kind.column}`);
     }
     seenRow = true;
-    if (wl.length >= MAX_TABLE_ROWS) bad(`holds more than ${MAX_TABLE_ROWS} rows`, `resample the curve to at most ${MAX_TABLE_ROWS} rows`);
+    if (wl.length >= MAX_TABLE_ROWS)
+      bad(`holds more than ${MAX_TABLE_ROWS} rows`, `resample the curve to at most ${MAX_TABLE_ROWS} rows`);
     const w = nums[0]! * scale;
     const t = nums[1]!;
     if (!(w > 0)) bad(`line ${i + 1} has the wavelength ${nums[0]}, not above 0`, 'give positive wavelengths');
-    if (!(t >= 0)) bad(`line ${i + 1} has the ${kind.column} ${t}, below 0`, `give values of ${kind.column} of 0 or more`);
-    if (wl.length > 0 && !(w > wl[wl.length - 1]!)) bad(`line ${i + 1}: the wavelength ${nums[0]} does not follow the one before upward`, 'list the rows in increasing wavelength without repeats');
+    if (!(t >= 0))
+      bad(`line ${i + 1} has the ${kind.column} ${t}, below 0`, `give values of ${kind.column} of 0 or more`);
+    if (wl.length > 0 && !(w > wl[wl.length - 1]!))
+      bad(
+        `line ${i + 1}: the wavelength ${nums[0]} does not follow the one before upward`,
+        'list the rows in increasing wavelength without repeats',
+      );
     wl.push(w);
     tr.push(t);
   });
-  if (wl.length < 2) bad(`holds ${wl.length} row${wl.length === 1 ? '' : 's'}`, `give at least two rows of wavelength, ${kind.column}`);
+  if (wl.length < 2)
+    bad(`holds ${wl.length} row${wl.length === 1 ? '' : 's'}`, `give at least two rows of wavelength, ${kind.column}`);
   return { wavelengthAngstrom: wl, values: tr, bad };
 }

@@ -70,11 +70,18 @@ export function parseQuantity(value: number | string, kind: QuantityKind, file: 
   const fix = `write ${info.what} in ${info.label} as a number, or with a unit, e.g. ${info.examples}`;
   if (PLAIN_NUMBER.test(text)) {
     const v = Number(text);
-    if (!Number.isFinite(v)) throw inputError('not_finite', file, keyPath, `"${excerpt(text)}" is not a finite number`, fix);
+    if (!Number.isFinite(v))
+      throw inputError('not_finite', file, keyPath, `"${excerpt(text)}" is not a finite number`, fix);
     return v;
   }
   if (text.length > MAX_QUANTITY_LENGTH) {
-    throw inputError('bad_unit', file, keyPath, `"${excerpt(text)}" is longer than the ${MAX_QUANTITY_LENGTH} characters a quantity may have`, fix);
+    throw inputError(
+      'bad_unit',
+      file,
+      keyPath,
+      `"${excerpt(text)}" is longer than the ${MAX_QUANTITY_LENGTH} characters a quantity may have`,
+      fix,
+    );
   }
   const shown = excerpt(text, 60);
   if (!LEADING_NUMBER.test(text)) {
@@ -82,7 +89,8 @@ export function parseQuantity(value: number | string, kind: QuantityKind, file: 
   }
   const quick = commonQuantity(normaliseUnitNames(text), kind);
   if (quick !== undefined) {
-    if (!Number.isFinite(quick)) throw inputError('not_finite', file, keyPath, `"${shown}" is not a finite quantity`, fix);
+    if (!Number.isFinite(quick))
+      throw inputError('not_finite', file, keyPath, `"${shown}" is not a finite quantity`, fix);
     return quick;
   }
   const math = getUnits();
@@ -96,7 +104,13 @@ export function parseQuantity(value: number | string, kind: QuantityKind, file: 
     throw inputError('bad_unit', file, keyPath, `"${shown}" has no number`, fix);
   }
   if (!u.equalBase(math.unit(info.unit))) {
-    throw inputError('bad_unit', file, keyPath, `"${shown}" is not ${info.what} (expected a unit like ${info.label})`, fix);
+    throw inputError(
+      'bad_unit',
+      file,
+      keyPath,
+      `"${shown}" is not ${info.what} (expected a unit like ${info.label})`,
+      fix,
+    );
   }
   // Rounded to 15 significant digits: removes the last-bit noise of going through SI base units
   // (e.g. "1.19 um" -> 11900, not 11899.999999999998); far below any physical precision.

@@ -49,17 +49,35 @@ function checkTree(doc: Document, lines: LineCounter, file: string): void {
     if (isAlias(node)) {
       const target = node.resolve(doc);
       if (target && ancestors.includes(target)) {
-        throw inputError('yaml_aliases', file, path, `the alias *${node.source}${where(node)} lies inside the node it refers to, which would make it endless`, 'write the value out instead of the alias');
+        throw inputError(
+          'yaml_aliases',
+          file,
+          path,
+          `the alias *${node.source}${where(node)} lies inside the node it refers to, which would make it endless`,
+          'write the value out instead of the alias',
+        );
       }
       continue;
     }
     if (!isMap(node) && !isSeq(node)) continue;
     if (depth >= MAX_YAML_DEPTH) {
-      throw inputError('too_large', file, path, `nests mappings and lists more than ${MAX_YAML_DEPTH} levels deep${where(node)}`, 'a survey file needs only a few levels; check the indentation and brackets');
+      throw inputError(
+        'too_large',
+        file,
+        path,
+        `nests mappings and lists more than ${MAX_YAML_DEPTH} levels deep${where(node)}`,
+        'a survey file needs only a few levels; check the indentation and brackets',
+      );
     }
     count += node.items.length;
     if (count > MAX_YAML_NODES) {
-      throw inputError('too_large', file, '', `holds more than ${MAX_YAML_NODES} keys and list entries`, 'a survey file is a few lines; check that this is the right file');
+      throw inputError(
+        'too_large',
+        file,
+        '',
+        `holds more than ${MAX_YAML_NODES} keys and list entries`,
+        'a survey file is a few lines; check that this is the right file',
+      );
     }
     const inner = [...ancestors, node];
     if (isMap(node)) {
@@ -67,13 +85,31 @@ function checkTree(doc: Document, lines: LineCounter, file: string): void {
       const children: Item[] = [];
       for (const item of node.items) {
         const key = item.key;
-        if (!isScalar(key) || (typeof key.value !== 'string' && typeof key.value !== 'number' && typeof key.value !== 'boolean' && key.value !== null)) {
-          throw inputError('yaml_syntax', file, path, `a key${where(key as Node)} is not plain text`, 'write each key as a plain word');
+        if (
+          !isScalar(key) ||
+          (typeof key.value !== 'string' &&
+            typeof key.value !== 'number' &&
+            typeof key.value !== 'boolean' &&
+            key.value !== null)
+        ) {
+          throw inputError(
+            'yaml_syntax',
+            file,
+            path,
+            `a key${where(key as Node)} is not plain text`,
+            'write each key as a plain word',
+          );
         }
         const k = String(key.value);
         const here = path ? `${path}.${k}` : k;
         if (seen.has(k)) {
-          throw inputError('yaml_syntax', file, here, `the key is given twice (again${where(key)})`, 'keep one of the two entries');
+          throw inputError(
+            'yaml_syntax',
+            file,
+            here,
+            `the key is given twice (again${where(key)})`,
+            'keep one of the two entries',
+          );
         }
         seen.add(k);
         children.push({ node: item.value, path: here, depth: depth + 1, ancestors: inner });
@@ -91,23 +127,52 @@ function checkTree(doc: Document, lines: LineCounter, file: string): void {
 /** Parse YAML text into plain data. Throws SurveyError yaml_syntax, yaml_aliases, file_too_large, too_large. */
 export function parseYaml(text: string, file: string): unknown {
   if (Buffer.byteLength(text, 'utf8') > MAX_FILE_BYTES) {
-    throw inputError('file_too_large', file, '', `the text is larger than ${MAX_FILE_BYTES} bytes (256 KiB)`, 'a survey file is a few lines; check that this is the right file');
+    throw inputError(
+      'file_too_large',
+      file,
+      '',
+      `the text is larger than ${MAX_FILE_BYTES} bytes (256 KiB)`,
+      'a survey file is a few lines; check that this is the right file',
+    );
   }
   const lines = new LineCounter();
-  const doc = parseDocument(text.replace(/^\uFEFF/, ''), { uniqueKeys: false, prettyErrors: true, merge: false, lineCounter: lines });
+  const doc = parseDocument(text.replace(/^\uFEFF/, ''), {
+    uniqueKeys: false,
+    prettyErrors: true,
+    merge: false,
+    lineCounter: lines,
+  });
   const err = doc.errors[0];
   if (err) {
     const pos = err.linePos?.[0];
     const where = pos ? ` at line ${pos.line}, column ${pos.col}` : '';
     if (err.code === 'MULTIPLE_DOCS') {
-      throw inputError('yaml_syntax', file, '', `holds more than one YAML document (a second one starts${where})`, 'keep one survey per file and remove the "---" separator');
+      throw inputError(
+        'yaml_syntax',
+        file,
+        '',
+        `holds more than one YAML document (a second one starts${where})`,
+        'keep one survey per file and remove the "---" separator',
+      );
     }
-    throw inputError('yaml_syntax', file, '', `YAML syntax error${where}: ${firstLine(err.message)}`, 'correct the YAML there (indent with spaces, put ": " between a key and its value)');
+    throw inputError(
+      'yaml_syntax',
+      file,
+      '',
+      `YAML syntax error${where}: ${firstLine(err.message)}`,
+      'correct the YAML there (indent with spaces, put ": " between a key and its value)',
+    );
   }
   const warn = doc.warnings.find((w) => w.code === 'TAG_RESOLVE_FAILED');
   if (warn) {
     const pos = warn.linePos?.[0];
-    throw inputError('yaml_syntax', file, '', `unsupported YAML tag${pos ? ` at line ${pos.line}, column ${pos.col}` : ''}`, 'remove the "!" tag and write a plain value');
+    throw inputError(
+      'yaml_syntax',
+      file,
+      '',
+      `unsupported YAML tag${pos ? ` at line ${pos.line}, column ${pos.col}` : ''}`,
+      'remove the "!" tag and write a plain value',
+    );
   }
   checkTree(doc, lines, file);
   try {
@@ -116,9 +181,21 @@ export function parseYaml(text: string, file: string): unknown {
     if (e instanceof ReferenceError) {
       const aliasy = /alias/i.test(e.message);
       if (aliasy && /excessive/i.test(e.message)) {
-        throw inputError('yaml_aliases', file, '', `the YAML aliases (*name) expand to too much data (more than ${MAX_ALIAS_COUNT} expansions)`, 'write the values out instead of repeating aliases');
+        throw inputError(
+          'yaml_aliases',
+          file,
+          '',
+          `the YAML aliases (*name) expand to too much data (more than ${MAX_ALIAS_COUNT} expansions)`,
+          'write the values out instead of repeating aliases',
+        );
       }
-      throw inputError('yaml_syntax', file, '', firstLine(e.message), 'define each anchor (&name) before its alias (*name)');
+      throw inputError(
+        'yaml_syntax',
+        file,
+        '',
+        firstLine(e.message),
+        'define each anchor (&name) before its alias (*name)',
+      );
     }
     throw e;
   }

@@ -54,7 +54,13 @@ export function makeZParam(value: number | string | ZTable, file: string, keyPat
   }
   const rows = value.table;
   if (rows.length > CAPS.tableRows) {
-    throw inputError('too_large', file, `${keyPath}.table`, `has ${rows.length} rows, more than the ${CAPS.tableRows} a table may have`, 'resample it to fewer rows');
+    throw inputError(
+      'too_large',
+      file,
+      `${keyPath}.table`,
+      `has ${rows.length} rows, more than the ${CAPS.tableRows} a table may have`,
+      'resample it to fewer rows',
+    );
   }
   const zs = rows.map((r) => r[0]);
   const vs = rows.map((r) => r[1]);
@@ -87,7 +93,8 @@ export function mapParam(p: ZParam, f: (v: number) => number): ZParam {
 export function samplePoints(window: { min: number; max: number }, p?: ZParam): number[] {
   const n = 64;
   const pts: number[] = [];
-  for (let i = 0; i < n; i++) pts.push(i === n - 1 ? window.max : window.min + ((window.max - window.min) * i) / (n - 1));
+  for (let i = 0; i < n; i++)
+    pts.push(i === n - 1 ? window.max : window.min + ((window.max - window.min) * i) / (n - 1));
   if (p && isZTable(p.source)) {
     for (const [z] of p.source.table) if (z > window.min && z < window.max) pts.push(z);
   }
@@ -118,7 +125,13 @@ export function checkParam(
           `change it so that it is finite for every z from ${fmt(window.min)} to ${fmt(window.max)}`,
         );
       }
-      throw inputError('not_finite', file, keyPath, `${opts.what} ${bad} at z = ${fmt(z)}`, 'give values that stay finite over the redshift window');
+      throw inputError(
+        'not_finite',
+        file,
+        keyPath,
+        `${opts.what} ${bad} at z = ${fmt(z)}`,
+        'give values that stay finite over the redshift window',
+      );
     }
     if (opts.positive && !(v > 0)) {
       throw inputError(

@@ -56,7 +56,8 @@ export interface SliceUncertainty {
 }
 
 function positive(v: number, name: string): void {
-  if (!(v > 0) || !Number.isFinite(v)) throw new RangeError(`sliceUncertainty: ${name} must be a positive finite number, got ${v}`);
+  if (!(v > 0) || !Number.isFinite(v))
+    throw new RangeError(`sliceUncertainty: ${name} must be a positive finite number, got ${v}`);
 }
 
 /** Comoving sides [width, height, depth] in Mpc of one field's box. */

@@ -45,7 +45,8 @@ function growingMode(omegaM: number, a: number): number {
  */
 export function linearGrowth(omegaM: number, z: number): number {
   if (!(omegaM > 0 && omegaM <= 1)) throw new RangeError(`linearGrowth: omegaM must be in (0, 1], got ${omegaM}`);
-  if (!(z > -1) || !Number.isFinite(z)) throw new RangeError(`linearGrowth: z must be a finite number above -1, got ${z}`);
+  if (!(z > -1) || !Number.isFinite(z))
+    throw new RangeError(`linearGrowth: z must be a finite number above -1, got ${z}`);
   return growingMode(omegaM, 1 / (1 + z)) / growingMode(omegaM, 1);
 }
 

@@ -41,7 +41,14 @@
  * upwards, stopping once a panel adds less than 1e-13 of the running total.
  */
 import type { LinearPower } from './power-spectrum.js';
-import { brentRoot, gaussLegendre, splineDerivative, splineEval, uniformSpline, type UniformSpline } from './quadrature.js';
+import {
+  brentRoot,
+  gaussLegendre,
+  splineDerivative,
+  splineEval,
+  uniformSpline,
+  type UniformSpline,
+} from './quadrature.js';
 
 export const SHETH_TORMEN = { A: 0.3222, a: 0.707, p: 0.3 } as const;
 /** Critical linear overdensity for spherical collapse (Press & Schechter 1974; common practice). */
@@ -114,7 +121,8 @@ export interface HaloModel {
 }
 
 function checkMass(m: number, who: string): void {
-  if (!(m > 0) || !Number.isFinite(m)) throw new RangeError(`${who}: halo mass must be a positive finite number of Msun, got ${m}`);
+  if (!(m > 0) || !Number.isFinite(m))
+    throw new RangeError(`${who}: halo mass must be a positive finite number of Msun, got ${m}`);
 }
 function checkZ(z: number, who: string): void {
   if (!(z >= 0) || !Number.isFinite(z)) throw new RangeError(`${who}: redshift must be finite and >= 0, got ${z}`);
@@ -272,7 +280,8 @@ export function createHaloModel(power: LinearPower): HaloModel {
     if (!(hi > lo)) return;
     const gHi = integrand(hi, d);
     const panels = Math.max(1, Math.ceil(((hi - lo) * Math.max(1, evalSteepness)) / 1.5));
-    if (!(gHi >= 0)) throw new Error(`halo abundance: the mass function is not finite at ${Math.exp(hi).toExponential(3)} Msun`);
+    if (!(gHi >= 0))
+      throw new Error(`halo abundance: the mass function is not finite at ${Math.exp(hi).toExponential(3)} Msun`);
     const { x, w } = gaussLegendre(CUMULATIVE_RULE);
     const h = (hi - lo) / panels;
     for (let k = 0; k < panels; k++) {
@@ -435,7 +444,9 @@ export function createHaloModel(power: LinearPower): HaloModel {
     matchHaloMass(densityMpc3, z, occupation) {
       checkZ(z, 'matchHaloMass');
       if (!(densityMpc3 > 0) || !Number.isFinite(densityMpc3)) {
-        throw new RangeError(`matchHaloMass: galaxy density must be a positive finite number per Mpc^3, got ${densityMpc3}`);
+        throw new RangeError(
+          `matchHaloMass: galaxy density must be a positive finite number per Mpc^3, got ${densityMpc3}`,
+        );
       }
       if (!(occupation > 0 && occupation <= 1)) {
         throw new RangeError(`matchHaloMass: occupation must be in (0, 1], got ${occupation}`);
@@ -493,7 +504,8 @@ export function createHaloModel(power: LinearPower): HaloModel {
       const panelOf = (lnM: number) => Math.min(m - 1, Math.max(0, Math.floor((lnM - lnLo) / PANEL)));
       const top = at(lnHi, panelOf(lnHi));
       const match = (target: number): HaloMatch & { held?: 'min' | 'max' } => {
-        if (!(target > 0) || !Number.isFinite(target)) throw new RangeError(`matcherAt: halo density must be a positive finite number per Mpc^3, got ${target}`);
+        if (!(target > 0) || !Number.isFinite(target))
+          throw new RangeError(`matcherAt: halo density must be a positive finite number per Mpc^3, got ${target}`);
         if (target >= cumN[0]!) return { haloMassMinMsun: MATCH_MASS_MIN_MSUN, bias: cumB[0]! / cumN[0]!, held: 'min' };
         if (target <= top.n) return { haloMassMinMsun: MATCH_MASS_MAX_MSUN, bias: top.nb / top.n, held: 'max' };
         // the panel whose cumulative range holds the target: cumN[i] >= target > cumN[i + 1]

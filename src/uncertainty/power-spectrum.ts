@@ -26,12 +26,7 @@
  * built once per cosmology and form (see createLinearPower).
  */
 import type { Cosmology } from '../model/cosmology.js';
-import {
-  GRAVITATIONAL_CONSTANT,
-  MPC_M,
-  SOLAR_MASS_KG,
-  T_CMB_DEFAULT_K,
-} from '../cosmology/constants.js';
+import { GRAVITATIONAL_CONSTANT, MPC_M, SOLAR_MASS_KG, T_CMB_DEFAULT_K } from '../cosmology/constants.js';
 import { createGrowth } from './growth.js';
 import { lagrangeCubicAt, lagrangeCubics } from '../numerics/interpolate.js';
 import { gaussLegendre } from './quadrature.js';
@@ -148,9 +143,7 @@ export function eisensteinHuFull(p: EhParameters): (kPerMpc: number) => number {
   const rd = rOf(1 + zd);
   const req = rOf(onePlusZeq);
   const s =
-    (2 / (3 * kEq)) *
-    Math.sqrt(6 / req) *
-    Math.log((Math.sqrt(1 + rd) + Math.sqrt(rd + req)) / (1 + Math.sqrt(req))); // (6), Mpc
+    (2 / (3 * kEq)) * Math.sqrt(6 / req) * Math.log((Math.sqrt(1 + rd) + Math.sqrt(rd + req)) / (1 + Math.sqrt(req))); // (6), Mpc
   const kSilk = 1.6 * wb ** 0.52 * wm ** 0.73 * (1 + (10.4 * wm) ** -0.95); // (7)
   const a1 = (46.9 * wm) ** 0.67 * (1 + (32.1 * wm) ** -0.532);
   const a2 = (12.0 * wm) ** 0.424 * (1 + (45.0 * wm) ** -0.582);
@@ -323,7 +316,8 @@ function buildLinearPower(cosmology: Cosmology, options: LinearPowerOptions): Li
     growth,
     power(kPerMpc: number, z: number): number {
       checkZ(z, 'power');
-      if (!(kPerMpc >= 0) || !Number.isFinite(kPerMpc)) throw new RangeError(`power: k must be finite and >= 0, got ${kPerMpc}`);
+      if (!(kPerMpc >= 0) || !Number.isFinite(kPerMpc))
+        throw new RangeError(`power: k must be finite and >= 0, got ${kPerMpc}`);
       if (kPerMpc === 0) return 0;
       const d = growth(z);
       const t = transfer(kPerMpc);
@@ -334,11 +328,13 @@ function buildLinearPower(cosmology: Cosmology, options: LinearPowerOptions): Li
     },
     sigmaR(rMpc: number, z: number): number {
       checkZ(z, 'sigmaR');
-      if (!(rMpc > 0) || !Number.isFinite(rMpc)) throw new RangeError(`sigmaR: radius must be positive and finite, got ${rMpc}`);
+      if (!(rMpc > 0) || !Number.isFinite(rMpc))
+        throw new RangeError(`sigmaR: radius must be positive and finite, got ${rMpc}`);
       return Math.sqrt(sigmaSquaredTopHat(powerZ0, rMpc)) * growth(z);
     },
     radiusOfMassMpc(massMsun: number): number {
-      if (!(massMsun > 0) || !Number.isFinite(massMsun)) throw new RangeError(`radiusOfMassMpc: mass must be positive and finite, got ${massMsun}`);
+      if (!(massMsun > 0) || !Number.isFinite(massMsun))
+        throw new RangeError(`radiusOfMassMpc: mass must be positive and finite, got ${massMsun}`);
       return Math.cbrt((3 * massMsun) / (4 * Math.PI * rhoM0));
     },
     sigmaM(massMsun: number, z: number): number {

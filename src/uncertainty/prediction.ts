@@ -83,13 +83,28 @@ export class UncertaintyMemo {
   }
 
   /** The block kept for these inputs: [true, block] when there is one, [false] otherwise. */
-  get(p: Population, count: number, volumeMpc3: number, zMin: number, zMax: number, zc: number): [boolean, UncertaintyJson | undefined] {
+  get(
+    p: Population,
+    count: number,
+    volumeMpc3: number,
+    zMin: number,
+    zMax: number,
+    zc: number,
+  ): [boolean, UncertaintyJson | undefined] {
     const m = this.blocks.get(p);
     const k = UncertaintyMemo.key(count, volumeMpc3, zMin, zMax, zc);
     return m?.has(k) ? [true, m.get(k)] : [false, undefined];
   }
 
-  set(p: Population, count: number, volumeMpc3: number, zMin: number, zMax: number, zc: number, block: UncertaintyJson | undefined): void {
+  set(
+    p: Population,
+    count: number,
+    volumeMpc3: number,
+    zMin: number,
+    zMax: number,
+    zc: number,
+    block: UncertaintyJson | undefined,
+  ): void {
     let m = this.blocks.get(p);
     if (!m) this.blocks.set(p, (m = new Map<string, UncertaintyJson | undefined>()));
     m.set(UncertaintyMemo.key(count, volumeMpc3, zMin, zMax, zc), block);
@@ -121,8 +136,10 @@ export function populationBias(
     addWarning(ctx.warnings, warning('bias_at_mass_bound', message));
     return { bias: haloes.effectiveBiasAbove(mass, z), haloMassMinMsun: mass };
   };
-  if (target >= haloes.haloDensityAboveMpc3(MATCH_MASS_MIN_MSUN, z)) return atBound(MATCH_MASS_MIN_MSUN, 'more than all');
-  if (target <= haloes.haloDensityAboveMpc3(MATCH_MASS_MAX_MSUN, z)) return atBound(MATCH_MASS_MAX_MSUN, 'less than the');
+  if (target >= haloes.haloDensityAboveMpc3(MATCH_MASS_MIN_MSUN, z))
+    return atBound(MATCH_MASS_MIN_MSUN, 'more than all');
+  if (target <= haloes.haloDensityAboveMpc3(MATCH_MASS_MAX_MSUN, z))
+    return atBound(MATCH_MASS_MAX_MSUN, 'less than the');
   try {
     const m = haloes.matchHaloMass(density, z, p.occupation);
     return { bias: m.bias, haloMassMinMsun: m.haloMassMinMsun };
@@ -213,10 +230,10 @@ export function singleUncertainty(
 /** Which term dominates, in words, for the table. */
 export function dominantTerm(u: UncertaintyJson): string {
   const ratio = u.cosmic_variance_fraction / u.poisson_fraction;
-  if (ratio > 1) return `cosmic variance dominates the total's uncertainty (${(100 * u.cosmic_variance_fraction).toFixed(1)} % against ${(100 * u.poisson_fraction).toFixed(1)} % Poisson)`;
+  if (ratio > 1)
+    return `cosmic variance dominates the total's uncertainty (${(100 * u.cosmic_variance_fraction).toFixed(1)} % against ${(100 * u.poisson_fraction).toFixed(1)} % Poisson)`;
   return `Poisson noise dominates the total's uncertainty (${(100 * u.poisson_fraction).toFixed(1)} % against ${(100 * u.cosmic_variance_fraction).toFixed(1)} % cosmic variance)`;
 }
-
 
 /** One slice of one population, with where in redshift its detected sources lie. */
 export interface TotalPart {
@@ -332,7 +349,10 @@ const matchers = new WeakMap<LinearPower, Map<number, ReturnType<HaloModel['matc
  * range, and, for one population with bias "auto", the halo mass whose haloes above it have the
  * bias b at the count-weighted redshift. Undefined when the count is 0.
  */
-export function totalUncertainty(ctx: UncertaintyContext, parts: readonly TotalPart[]): { block: UncertaintyJson; meanRedshift: number } | undefined {
+export function totalUncertainty(
+  ctx: UncertaintyContext,
+  parts: readonly TotalPart[],
+): { block: UncertaintyJson; meanRedshift: number } | undefined {
   const { cosmo, survey, power } = ctx;
   const live = parts.filter((p) => p.count > 0 && p.profile.z.length > 0);
   const count = live.reduce((a, p) => a + p.count, 0);
@@ -354,7 +374,10 @@ export function totalUncertainty(ctx: UncertaintyContext, parts: readonly TotalP
               for (const g of groups) if (z >= g.zMin && z <= g.zMax) return g.biasAt(z);
               return 0;
             };
-      lines.set(pop, (los = { population: pop, zMin: Infinity, zMax: -Infinity, z: [], perMpc: [], count: [], bias: [], biasAt }));
+      lines.set(
+        pop,
+        (los = { population: pop, zMin: Infinity, zMax: -Infinity, z: [], perMpc: [], count: [], bias: [], biasAt }),
+      );
     }
     los.zMin = Math.min(los.zMin, part.zMin);
     los.zMax = Math.max(los.zMax, part.zMax);
@@ -382,7 +405,9 @@ export function totalUncertainty(ctx: UncertaintyContext, parts: readonly TotalP
       // the bias of the nearest group that is, which its weight makes irrelevant.
       const partCount = sums.reduce((a, g) => a + g.n, 0);
       // (a density that underflows to 0 counts as negligible too)
-      const matched = sums.map((g) => (g.n > NEGLIGIBLE_SHARE * partCount && g.dens > 0 ? matchedBias(ctx, pop, g.zn / g.n, g.dens / g.n) : undefined));
+      const matched = sums.map((g) =>
+        g.n > NEGLIGIBLE_SHARE * partCount && g.dens > 0 ? matchedBias(ctx, pop, g.zn / g.n, g.dens / g.n) : undefined,
+      );
       const biases = matched.map((b, i) => {
         if (b !== undefined) return b;
         for (let d = 1; d < nGroups; d++) {
@@ -399,7 +424,9 @@ export function totalUncertainty(ctx: UncertaintyContext, parts: readonly TotalP
       los.count.push(dn[k]!);
       los.bias.push(nodeBias[k]!);
       // dN/dchi = (count / volume) * dV/dchi, dV/dchi = area * D_M^2 (flat)
-      los.perMpc.push(dv[k]! > 0 ? (dn[k]! / dv[k]!) * survey.areaSr * cosmo.transverseComovingDistanceMpc(z[k]!) ** 2 : 0);
+      los.perMpc.push(
+        dv[k]! > 0 ? (dn[k]! / dv[k]!) * survey.areaSr * cosmo.transverseComovingDistanceMpc(z[k]!) ** 2 : 0,
+      );
     }
   }
   for (const los of lines.values()) {

@@ -19,7 +19,13 @@ export function clusteringTable(
     transfer: form,
     units: { radius: 'comoving Mpc (not h^-1 Mpc)', mass: 'Msun (not h^-1 Msun)', density: 'comoving Mpc^-3' },
     rows: zs.map(({ value: z }) => {
-      const row: ClusteringRow = { z, growth: power.growth(z), sigma_r: {}, halo_bias: {}, halo_density_above_mpc3: {} };
+      const row: ClusteringRow = {
+        z,
+        growth: power.growth(z),
+        sigma_r: {},
+        halo_bias: {},
+        halo_density_above_mpc3: {},
+      };
       for (const r of radii) row.sigma_r[r.key] = power.sigmaR(r.value, z);
       for (const m of masses) {
         row.halo_bias[m.key] = haloes.haloBias(m.value, z);

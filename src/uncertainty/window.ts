@@ -158,7 +158,8 @@ export function sincSquaredRule(lengthMpc: number, options: SincRuleOptions = {}
 function checkSides(sides: readonly number[], who: string): [number, number, number] {
   if (sides.length !== 3) throw new RangeError(`${who}: a box needs three sides, got ${sides.length}`);
   for (const l of sides) {
-    if (!(l > 0) || !Number.isFinite(l)) throw new RangeError(`${who}: every box side must be a positive finite length in Mpc, got ${l}`);
+    if (!(l > 0) || !Number.isFinite(l))
+      throw new RangeError(`${who}: every box side must be a positive finite length in Mpc, got ${l}`);
   }
   const s = [...sides].sort((a, b) => a - b);
   return [s[0]!, s[1]!, s[2]!];
@@ -323,10 +324,10 @@ export function boxSigmaReference(
     return s;
   };
   const total = axis((ux) => {
-    const kx2 = (2 * ux / lx) ** 2;
+    const kx2 = ((2 * ux) / lx) ** 2;
     return axis((uy) => {
-      const kxy2 = kx2 + (2 * uy / ly) ** 2;
-      return axis((uz) => pExact(Math.sqrt(kxy2 + (2 * uz / lz) ** 2)), relTol * 0.1);
+      const kxy2 = kx2 + ((2 * uy) / ly) ** 2;
+      return axis((uz) => pExact(Math.sqrt(kxy2 + ((2 * uz) / lz) ** 2)), relTol * 0.1);
     }, relTol * 0.3);
   }, relTol);
   const d = power.growth(z);

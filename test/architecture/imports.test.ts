@@ -54,13 +54,23 @@ const SHARED = ['errors', 'warnings'];
 const LOADER_REACH = ['survey', 'model', ...SHARED];
 /** The one module that writes numbers for people: it imports nothing, so every layer may use it (messages, summaries). */
 const FORMAT = 'render/format.ts';
-const LOADER_REACH_FILES = ['cosmology/parameters.ts', 'cosmology/presets.ts', 'cosmology/constants.ts', 'selection/filter.ts', 'selection/effects.ts', 'selection/describe.ts', FORMAT];
+const LOADER_REACH_FILES = [
+  'cosmology/parameters.ts',
+  'cosmology/presets.ts',
+  'cosmology/constants.ts',
+  'selection/filter.ts',
+  'selection/effects.ts',
+  'selection/describe.ts',
+  FORMAT,
+];
 
 const graph = importGraph();
 const edges = [...graph].flatMap(([from, tos]) => tos.map((to) => ({ from, to })));
 
 function arrows(fromLayers: string[], toLayers: string[]): string[] {
-  return edges.filter((e) => fromLayers.includes(layer(e.from)) && toLayers.includes(layer(e.to))).map((e) => `${e.from} -> ${e.to}`);
+  return edges
+    .filter((e) => fromLayers.includes(layer(e.from)) && toLayers.includes(layer(e.to)))
+    .map((e) => `${e.from} -> ${e.to}`);
 }
 
 describe('the import graph', () => {
@@ -70,7 +80,9 @@ describe('the import graph', () => {
   });
 
   test('the physics, the studies and the presentation never import the loader, the library or the command line', () => {
-    expect(arrows([...PHYSICS, ...STUDIES, 'render', 'model', ...SHARED, 'worker'], ['survey', 'library', 'cli'])).toEqual([]);
+    expect(
+      arrows([...PHYSICS, ...STUDIES, 'render', 'model', ...SHARED, 'worker'], ['survey', 'library', 'cli']),
+    ).toEqual([]);
   });
 
   test('the model imports nothing but the model and the shared errors and warnings', () => {
@@ -87,13 +99,17 @@ describe('the import graph', () => {
       seen.add(m);
       stack.push(...(graph.get(m) ?? []));
     }
-    const outside = [...seen].filter((m) => !LOADER_REACH.includes(layer(m)) && !LOADER_REACH_FILES.includes(m) && layer(m) !== 'numerics');
+    const outside = [...seen].filter(
+      (m) => !LOADER_REACH.includes(layer(m)) && !LOADER_REACH_FILES.includes(m) && layer(m) !== 'numerics',
+    );
     expect(outside.sort()).toEqual([]);
   });
 
   test('the physics does not import the studies, and presentation is not imported by the computation', () => {
     expect(arrows(PHYSICS, STUDIES)).toEqual([]);
-    expect(arrows([...PHYSICS, ...STUDIES, 'model'], ['render']).filter((a) => !a.endsWith(` -> ${FORMAT}`))).toEqual([]);
+    expect(arrows([...PHYSICS, ...STUDIES, 'model'], ['render']).filter((a) => !a.endsWith(` -> ${FORMAT}`))).toEqual(
+      [],
+    );
     expect(graph.get(FORMAT)).toEqual([]);
   });
 

@@ -34,15 +34,33 @@ function update(p: ReturnType<typeof page>, key: string) {
   return async () => {
     const f = (++step % 200) / 200;
     const v = c.scale === 'log' ? c.value * 10 ** (0.2 * f - 0.1) : c.value + 0.1 * (f - 0.5) * (c.max - c.min);
-    const r = await exploreCompute({ text: '', object: settingsObject(p.raw, p.controls, new Map([[key, v]])) }, p.name, p.dir);
-    return outputsHtml(r).length + warningsHtml(r).length + slicesHtml(r).length + fisherHtml(r).length + figuresHtml(r).length;
+    const r = await exploreCompute(
+      { text: '', object: settingsObject(p.raw, p.controls, new Map([[key, v]])) },
+      p.name,
+      p.dir,
+    );
+    return (
+      outputsHtml(r).length +
+      warningsHtml(r).length +
+      slicesHtml(r).length +
+      fisherHtml(r).length +
+      figuresHtml(r).length
+    );
   };
 }
 
 export const cases: BenchCase[] = [
   { name: 'explore page update: halpha-narrowband, area', run: update(line, 'area'), repeats: 30 },
-  { name: 'explore page update: halpha-narrowband, detection.limit', run: update(line, 'detection.limit'), repeats: 30 },
-  { name: 'explore page update: halpha-narrowband, population.alpha', run: update(line, 'population.alpha'), repeats: 30 },
+  {
+    name: 'explore page update: halpha-narrowband, detection.limit',
+    run: update(line, 'detection.limit'),
+    repeats: 30,
+  },
+  {
+    name: 'explore page update: halpha-narrowband, population.alpha',
+    run: update(line, 'population.alpha'),
+    repeats: 30,
+  },
   { name: 'explore page update: deep-continuum, area', run: update(deep, 'area'), repeats: 20 },
   { name: 'explore page update: deep-continuum, detection.limit', run: update(deep, 'detection.limit'), repeats: 20 },
   { name: 'explore page update: narrowband-interlopers, area', run: update(interlopers, 'area'), repeats: 20 },

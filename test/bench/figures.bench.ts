@@ -13,11 +13,16 @@ const figures = await buildFigures({ prediction, forecast, plan });
 const dir = tempDir('skytally-bench-');
 
 export const cases: BenchCase[] = [
-  { name: 'figures: all 5 for a 10-slice demo (200 mocks)', run: () => buildFigures({ prediction, forecast, plan }), repeats: 15 },
+  {
+    name: 'figures: all 5 for a 10-slice demo (200 mocks)',
+    run: () => buildFigures({ prediction, forecast, plan }),
+    repeats: 15,
+  },
   { name: 'figures: counts only, 10 slices', run: () => countsFigure(prediction), repeats: 30 },
   {
     name: 'report: renderReport with 5 figures',
-    run: () => renderReport({ surveyText: 'format: 1\n', surveyTitle: prediction.title, prediction, forecast, plan, figures }),
+    run: () =>
+      renderReport({ surveyText: 'format: 1\n', surveyTitle: prediction.title, prediction, forecast, plan, figures }),
     repeats: 30,
   },
   { name: 'write: 5 figures as SVG + PNG (x2)', run: () => writeFigures(dir, figures), repeats: 5 },

@@ -17,7 +17,9 @@ import { buildSamplingTables, CatalogueSampler } from '../../src/forecast/sample
 import { buildRejectionTables, RejectionSampler } from '../forecast/rejection-sampler.js';
 
 // (forecasts refuse photometric-redshift scatter: photoz-* samples have it)
-const samples = readdirSync('samples').filter((f) => f.endsWith('.yaml') && !f.startsWith('plan') && !f.startsWith('photoz'));
+const samples = readdirSync('samples').filter(
+  (f) => f.endsWith('.yaml') && !f.startsWith('plan') && !f.startsWith('photoz'),
+);
 let sink = 0;
 
 function scaledTo(s: Survey, n: number, count: number): Survey {
@@ -59,7 +61,9 @@ const fisherCases: BenchCase[] = samples.flatMap((f): BenchCase[] => {
 });
 
 const base = loadSurveyFile('samples/halpha-narrowband.yaml');
-const baseCount = fisherParts(buildDensityGrid(base, base.populations[0]!, new FlatCosmology(base.cosmology), base.sliceEdges)).count;
+const baseCount = fisherParts(
+  buildDensityGrid(base, base.populations[0]!, new FlatCosmology(base.cosmology), base.sliceEdges),
+).count;
 const five = scaledTo(base, 5000, baseCount);
 
 /** Drawing alone: ~5000 sources over the slices of the scaled H-alpha survey, 20 catalogues per run. */

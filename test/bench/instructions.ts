@@ -33,13 +33,55 @@ const filter = args[0] ?? '';
 
 /** Driver cases: a survey (sample plus edits) and predict options; `area` varies the area per call. */
 const CASES: { name: string; sample: string; edits: [string, string][]; options: string; varyArea?: boolean }[] = [
-  { name: 'halpha 10 slices: histograms + completeness + cosmic variance', sample: 'halpha-narrowband.yaml', edits: [['slices: {count: 5}', 'slices: {count: 10}']], options: '{}' },
-  { name: 'halpha 10 slices: the same, area changed every call', sample: 'halpha-narrowband.yaml', edits: [['slices: {count: 5}', 'slices: {count: 10}']], options: '{}', varyArea: true },
-  { name: 'halpha 10 slices: histograms + completeness, no uncertainty', sample: 'halpha-narrowband.yaml', edits: [['slices: {count: 5}', 'slices: {count: 10}']], options: '{ noUncertainty: true }' },
-  { name: 'halpha 10 slices: histograms + cosmic variance, no completeness', sample: 'halpha-narrowband.yaml', edits: [['slices: {count: 5}', 'slices: {count: 10}'], ['  completeness: {model: logistic, half: 5e-17, width: 0.08}\n', '']], options: '{}' },
-  { name: 'halpha 10 slices: histograms only', sample: 'halpha-narrowband.yaml', edits: [['slices: {count: 5}', 'slices: {count: 10}'], ['  completeness: {model: logistic, half: 5e-17, width: 0.08}\n', '']], options: '{ noUncertainty: true }' },
-  { name: 'deep continuum 8 slices: table completeness + cosmic variance', sample: 'deep-continuum.yaml', edits: [], options: '{}' },
-  { name: 'mass-limited 10 slices: cosmic variance', sample: 'mass-limited.yaml', edits: [['slices: {edges: [0.3, 0.5, 0.7, 0.9, 1.2, 1.5]}', 'slices: {count: 10}']], options: '{}' },
+  {
+    name: 'halpha 10 slices: histograms + completeness + cosmic variance',
+    sample: 'halpha-narrowband.yaml',
+    edits: [['slices: {count: 5}', 'slices: {count: 10}']],
+    options: '{}',
+  },
+  {
+    name: 'halpha 10 slices: the same, area changed every call',
+    sample: 'halpha-narrowband.yaml',
+    edits: [['slices: {count: 5}', 'slices: {count: 10}']],
+    options: '{}',
+    varyArea: true,
+  },
+  {
+    name: 'halpha 10 slices: histograms + completeness, no uncertainty',
+    sample: 'halpha-narrowband.yaml',
+    edits: [['slices: {count: 5}', 'slices: {count: 10}']],
+    options: '{ noUncertainty: true }',
+  },
+  {
+    name: 'halpha 10 slices: histograms + cosmic variance, no completeness',
+    sample: 'halpha-narrowband.yaml',
+    edits: [
+      ['slices: {count: 5}', 'slices: {count: 10}'],
+      ['  completeness: {model: logistic, half: 5e-17, width: 0.08}\n', ''],
+    ],
+    options: '{}',
+  },
+  {
+    name: 'halpha 10 slices: histograms only',
+    sample: 'halpha-narrowband.yaml',
+    edits: [
+      ['slices: {count: 5}', 'slices: {count: 10}'],
+      ['  completeness: {model: logistic, half: 5e-17, width: 0.08}\n', ''],
+    ],
+    options: '{ noUncertainty: true }',
+  },
+  {
+    name: 'deep continuum 8 slices: table completeness + cosmic variance',
+    sample: 'deep-continuum.yaml',
+    edits: [],
+    options: '{}',
+  },
+  {
+    name: 'mass-limited 10 slices: cosmic variance',
+    sample: 'mass-limited.yaml',
+    edits: [['slices: {edges: [0.3, 0.5, 0.7, 0.9, 1.2, 1.5]}', 'slices: {count: 10}']],
+    options: '{}',
+  },
 ];
 
 function driver(c: (typeof CASES)[number]): string {
@@ -61,11 +103,22 @@ if (!(sink > 0)) throw new Error('no count');
 }
 
 function instructions(bundle: string, calls: number): number {
-  const r = spawnSync('valgrind', ['--tool=callgrind', '--callgrind-out-file=/dev/null', process.execPath, '--single-threaded', bundle, String(calls)], {
-    stdio: ['ignore', 'ignore', 'pipe'],
-    encoding: 'utf8',
-    maxBuffer: 1 << 26,
-  });
+  const r = spawnSync(
+    'valgrind',
+    [
+      '--tool=callgrind',
+      '--callgrind-out-file=/dev/null',
+      process.execPath,
+      '--single-threaded',
+      bundle,
+      String(calls),
+    ],
+    {
+      stdio: ['ignore', 'ignore', 'pipe'],
+      encoding: 'utf8',
+      maxBuffer: 1 << 26,
+    },
+  );
   const m = /Collected : (\d+)/.exec(r.stderr ?? '');
   if (r.status !== 0 || !m) throw new Error(`valgrind failed (is it installed?): ${r.error?.message ?? r.stderr}`);
   return Number(m[1]);
@@ -73,13 +126,25 @@ function instructions(bundle: string, calls: number): number {
 
 const dir = mkdtempSync(join(tmpdir(), 'skytally-instructions-'));
 try {
-  console.log(`instructions per warm predict (callgrind), sources from ${root}, ${runs} calls after ${warm} warm-up calls`);
+  console.log(
+    `instructions per warm predict (callgrind), sources from ${root}, ${runs} calls after ${warm} warm-up calls`,
+  );
   for (const c of CASES) {
     if (filter && !c.name.includes(filter)) continue;
     const entry = join(dir, 'driver.ts');
     writeFileSync(entry, driver(c));
     const bundle = join(dir, 'driver.mjs');
-    await build({ entryPoints: [entry], outfile: bundle, bundle: true, format: 'esm', platform: 'node', target: 'node20', logLevel: 'warning', external: ['playwright-core', '@resvg/resvg-js'], banner: { js: "import { createRequire as __r } from 'node:module'; const require = __r(import.meta.url);" } });
+    await build({
+      entryPoints: [entry],
+      outfile: bundle,
+      bundle: true,
+      format: 'esm',
+      platform: 'node',
+      target: 'node20',
+      logLevel: 'warning',
+      external: ['playwright-core', '@resvg/resvg-js'],
+      banner: { js: "import { createRequire as __r } from 'node:module'; const require = __r(import.meta.url);" },
+    });
     const base = instructions(bundle, warm);
     const full = instructions(bundle, warm + runs);
     console.log(`${c.name.padEnd(70)} ${((full - base) / runs / 1e6).toFixed(2).padStart(9)} M instructions per call`);

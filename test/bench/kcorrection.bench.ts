@@ -19,7 +19,9 @@ function parts(i: number) {
   const d = s.detection;
   if (d.kind !== 'magnitude' || !d.sed) throw new Error('a survey with detection.sed expected');
   const p = s.populations[0]!;
-  const rest: RestFrame = p.restBand ? { kind: 'band', band: p.restBand } : { kind: 'wavelength', angstrom: p.restWavelengthAngstrom };
+  const rest: RestFrame = p.restBand
+    ? { kind: 'band', band: p.restBand }
+    : { kind: 'wavelength', angstrom: p.restWavelengthAngstrom };
   return { sed: d.sed, igm: d.igm, rest, window: p.window };
 }
 
@@ -29,9 +31,31 @@ export const cases: BenchCase[] = [
     const label = i === 0 ? 'band file, rest band' : 'gaussian band, rest 1500 A';
     const exact = kCorrectionFunction(tabulatedSpectrum(sed.spectrum), sed.band, rest, igm);
     return [
-      { name: `K(z) exact, ${label}, 100 calls`, run: () => { let a = 0; for (let k = 0; k < 100; k++) a += exact(window.min + ((window.max - window.min) * k) / 100); sink += a; return a; } },
-      { name: `K(z) table over the window, ${label}`, run: () => { const t = sedKCorrection({ ...sed }, rest, igm, window.min, window.max); sink += t(window.min); return sink; } },
+      {
+        name: `K(z) exact, ${label}, 100 calls`,
+        run: () => {
+          let a = 0;
+          for (let k = 0; k < 100; k++) a += exact(window.min + ((window.max - window.min) * k) / 100);
+          sink += a;
+          return a;
+        },
+      },
+      {
+        name: `K(z) table over the window, ${label}`,
+        run: () => {
+          const t = sedKCorrection({ ...sed }, rest, igm, window.min, window.max);
+          sink += t(window.min);
+          return sink;
+        },
+      },
     ];
   }),
-  ...surveys.map((s, i): BenchCase => ({ name: `predict ${i === 0 ? 'vega-restband-sed' : 'dropout-sed-selection'} (K table kept)`, run: () => { const p = predict(s); sink += p.totals.count; return sink; } })),
+  ...surveys.map((s, i): BenchCase => ({
+    name: `predict ${i === 0 ? 'vega-restband-sed' : 'dropout-sed-selection'} (K table kept)`,
+    run: () => {
+      const p = predict(s);
+      sink += p.totals.count;
+      return sink;
+    },
+  })),
 ];

@@ -12,13 +12,23 @@ import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import { countPopulation } from '../../src/counts/engine.js';
 import { drawModelOffsets, populationDraws } from '../../src/counts/model-draws.js';
 
-const BLOCK = '  model_uncertainty: {log10_phi_star: 0.1, log10_l_star: 0.06, alpha: 0.1, correlation: {log10_phi_star-alpha: 0.6}}\n';
+const BLOCK =
+  '  model_uncertainty: {log10_phi_star: 0.1, log10_l_star: 0.06, alpha: 0.1, correlation: {log10_phi_star-alpha: 0.6}}\n';
 const text = readFileSync(new URL('../../test/reference/surveys-model/line-correlated.yaml', import.meta.url), 'utf8')
   .replace('slices: {count: 4}', 'slices: {count: 10}')
-  .replace(/  model_uncertainty:\n(    .*\n)+/, BLOCK);
+  .replace(/ {2}model_uncertainty:\n( {4}.*\n)+/, BLOCK);
 const hard = loadSurveyText(text, 'hard.yaml');
-const table = loadSurveyText(text.replace('  line: 6562.8\n', '  line: 6562.8\n  completeness: {model: table, table: [[1.5e-16, 0.4], [3e-16, 0.8], [1e-15, 0.97]]}\n'), 'table.yaml');
-const logistic = loadSurveyText(text.replace('  line: 6562.8\n', '  line: 6562.8\n  completeness: {model: logistic, half: 2.5e-16, width: 0.15}\n'), 'logistic.yaml');
+const table = loadSurveyText(
+  text.replace(
+    '  line: 6562.8\n',
+    '  line: 6562.8\n  completeness: {model: table, table: [[1.5e-16, 0.4], [3e-16, 0.8], [1e-15, 0.97]]}\n',
+  ),
+  'table.yaml',
+);
+const logistic = loadSurveyText(
+  text.replace('  line: 6562.8\n', '  line: 6562.8\n  completeness: {model: logistic, half: 2.5e-16, width: 0.15}\n'),
+  'logistic.yaml',
+);
 
 function drawsOnly(s: typeof hard, histogramDraws: number) {
   const pop = s.populations[0]!;
@@ -29,11 +39,19 @@ function drawsOnly(s: typeof hard, histogramDraws: number) {
 }
 
 export const cases: BenchCase[] = [];
-for (const [name, s] of [['hard limit', hard], ['table completeness', table], ['logistic completeness', logistic]] as const) {
+for (const [name, s] of [
+  ['hard limit', hard],
+  ['table completeness', table],
+  ['logistic completeness', logistic],
+] as const) {
   cases.push(
     { name: `model draws: 1000 draws, 10 slices, ${name}: counts and densities`, run: drawsOnly(s, 0), repeats: 5 },
     { name: `model draws: 1000 draws, 10 slices, ${name}: with 100 histograms`, run: drawsOnly(s, 100), repeats: 5 },
     { name: `model draws: predict, 10 slices, ${name}, 1000 draws`, run: () => predict(s), repeats: 5 },
-    { name: `model draws: predict, 10 slices, ${name}, no draws`, run: () => predict(s, { model: { draws: 0 } }), repeats: 5 },
+    {
+      name: `model draws: predict, 10 slices, ${name}, no draws`,
+      run: () => predict(s, { model: { draws: 0 } }),
+      repeats: 5,
+    },
   );
 }

@@ -26,7 +26,9 @@ const lineNoCompleteness10 = sample('halpha-narrowband.yaml', (t) =>
 );
 const deep = sample('deep-continuum.yaml');
 const mass = sample('mass-limited.yaml', (t) => t.replace(/slices: .*$/m, 'slices: {count: 10}'));
-const interlopers = loadSurveyFile(fileURLToPath(new URL('../../samples/narrowband-interlopers.yaml', import.meta.url)));
+const interlopers = loadSurveyFile(
+  fileURLToPath(new URL('../../samples/narrowband-interlopers.yaml', import.meta.url)),
+);
 const double = sample('double-schechter-mass.yaml');
 
 const bare = { noUncertainty: true };
@@ -38,7 +40,10 @@ function otherArea(s: typeof line10) {
   return { ...s, areaSr: s.areaSr * f, areaDeg2: s.areaDeg2 * f };
 }
 
-for (const [name, s] of [['line_flux 10 slices, logistic', line10], ['magnitude 8 slices, table', deep]] as const) {
+for (const [name, s] of [
+  ['line_flux 10 slices, logistic', line10],
+  ['magnitude 8 slices, table', deep],
+] as const) {
   const counts = (run: () => unknown) => {
     completenessWork.completenessEvaluations = 0;
     completenessWork.densityEvaluations = 0;
@@ -52,20 +57,46 @@ for (const [name, s] of [['line_flux 10 slices, logistic', line10], ['magnitude 
 
 export const cases: BenchCase[] = [
   // The 10-slice library call of the explorer's budget (under 5 ms warm with everything).
-  { name: 'predict 10 slices: histograms + completeness + cosmic variance, warm', run: () => predict(line10), repeats: 50 },
-  { name: 'predict 10 slices: histograms + completeness + cosmic variance, area changed', run: () => predict(otherArea(line10)), repeats: 50 },
+  {
+    name: 'predict 10 slices: histograms + completeness + cosmic variance, warm',
+    run: () => predict(line10),
+    repeats: 50,
+  },
+  {
+    name: 'predict 10 slices: histograms + completeness + cosmic variance, area changed',
+    run: () => predict(otherArea(line10)),
+    repeats: 50,
+  },
   { name: 'predict 10 slices: histograms + completeness, no uncertainty', run: () => predict(line10, bare) },
-  { name: 'predict 10 slices: histograms + cosmic variance, no completeness', run: () => predict(lineNoCompleteness10), repeats: 50 },
+  {
+    name: 'predict 10 slices: histograms + cosmic variance, no completeness',
+    run: () => predict(lineNoCompleteness10),
+    repeats: 50,
+  },
   { name: 'predict 10 slices: histograms only', run: () => predict(lineNoCompleteness10, bare) },
   // Counts and histograms only (a target of under 2 ms for 10 slices).
-  { name: 'predict counts: line_flux, gaussian filter, logistic completeness, 10 slices', run: () => predict(line10, bare) },
-  { name: 'predict counts: line_flux, gaussian filter, no completeness, 10 slices', run: () => predict(lineNoCompleteness10, bare) },
+  {
+    name: 'predict counts: line_flux, gaussian filter, logistic completeness, 10 slices',
+    run: () => predict(line10, bare),
+  },
+  {
+    name: 'predict counts: line_flux, gaussian filter, no completeness, 10 slices',
+    run: () => predict(lineNoCompleteness10, bare),
+  },
   { name: 'predict counts: magnitude, evolving model, table completeness, 8 slices', run: () => predict(deep, bare) },
   { name: 'predict counts: threshold (stellar mass), 10 slices', run: () => predict(mass, bare) },
   // With Poisson and cosmic-variance uncertainties (a target of under 50 ms for 10 slices).
-  { name: 'predict with uncertainty: line_flux, logistic completeness, 10 slices', run: () => predict(line10), repeats: 20 },
+  {
+    name: 'predict with uncertainty: line_flux, logistic completeness, 10 slices',
+    run: () => predict(line10),
+    repeats: 20,
+  },
   { name: 'predict with uncertainty: magnitude, table completeness, 8 slices', run: () => predict(deep), repeats: 20 },
   { name: 'predict with uncertainty: threshold, 10 slices', run: () => predict(mass), repeats: 20 },
-  { name: 'predict with uncertainty: three lines through a tabulated filter, 3 slices each', run: () => predict(interlopers), repeats: 20 },
+  {
+    name: 'predict with uncertainty: three lines through a tabulated filter, 3 slices each',
+    run: () => predict(interlopers),
+    repeats: 20,
+  },
   { name: 'predict counts: threshold, double Schechter, limit table, 4 slices', run: () => predict(double, bare) },
 ];

@@ -18,7 +18,9 @@ export interface BenchCase {
 
 const here = dirname(fileURLToPath(import.meta.url));
 const filter = process.argv[2] ?? '';
-const files = readdirSync(here).filter((f) => f.endsWith('.bench.ts')).sort();
+const files = readdirSync(here)
+  .filter((f) => f.endsWith('.bench.ts'))
+  .sort();
 const rows: string[] = [];
 // The tests' set-up: one temporary directory for the run (removed at the end) and the worker entry.
 const teardown = await setupTestRun();

@@ -64,7 +64,11 @@ function median(xs: number[]): number {
 function summary(argv: string[]): { cpu: number; wall: number; rssKb: number } {
   measure(argv); // warm the file cache
   const xs = Array.from({ length: runs }, () => measure(argv));
-  return { cpu: median(xs.map((x) => x.cpu)), wall: median(xs.map((x) => x.wall)), rssKb: Math.max(...xs.map((x) => x.rssKb)) };
+  return {
+    cpu: median(xs.map((x) => x.cpu)),
+    wall: median(xs.map((x) => x.wall)),
+    rssKb: Math.max(...xs.map((x) => x.rssKb)),
+  };
 }
 
 const samples = readdirSync(join(root, 'samples'))
@@ -79,7 +83,8 @@ for (const s of samples) {
   cases.push({ name: `predict ${s}`, argv: ['bin/skytally.js', 'predict', file, '--format', 'json', '--out', json] });
   cases.push({ name: `check ${s}`, argv: ['bin/skytally.js', 'check', file, '--format', 'json', '--out', json] });
   cases.push({ name: `forecast ${s}`, argv: ['bin/skytally.js', 'forecast', file, '--format', 'json', '--out', json] });
-  if (isPlan) cases.push({ name: `plan ${s}`, argv: ['bin/skytally.js', 'plan', file, '--format', 'json', '--out', json] });
+  if (isPlan)
+    cases.push({ name: `plan ${s}`, argv: ['bin/skytally.js', 'plan', file, '--format', 'json', '--out', json] });
   cases.push({ name: `report ${s}`, argv: ['bin/skytally.js', 'report', file, '--out', html] });
 }
 
@@ -91,8 +96,12 @@ const rev = (() => {
   }
 })();
 const base = summary(['-e', '0']);
-console.log(`root ${root} (${rev}), ${runs} runs, median; node -e 0: cpu ${(base.cpu * 1000).toFixed(0)} ms, wall ${(base.wall * 1000).toFixed(0)} ms`);
-console.log(`${'case'.padEnd(44)} ${'cpu ms'.padStart(7)} ${'x node'.padStart(7)} ${'wall ms'.padStart(8)} ${'x node'.padStart(7)} ${'max RSS MB'.padStart(10)}`);
+console.log(
+  `root ${root} (${rev}), ${runs} runs, median; node -e 0: cpu ${(base.cpu * 1000).toFixed(0)} ms, wall ${(base.wall * 1000).toFixed(0)} ms`,
+);
+console.log(
+  `${'case'.padEnd(44)} ${'cpu ms'.padStart(7)} ${'x node'.padStart(7)} ${'wall ms'.padStart(8)} ${'x node'.padStart(7)} ${'max RSS MB'.padStart(10)}`,
+);
 try {
   for (const c of cases) {
     if (filter && !c.name.includes(filter)) continue;

@@ -11,8 +11,14 @@ const expr = compileExpression('1e-3 * (1 + z)^2.7 / (1 + ((1 + z)/2.9)^5.6)', '
 
 export const cases: BenchCase[] = [
   { name: 'loadSurveyText line_flux (units, expression, filter)', run: () => loadSurveyText(LINE_YAML, 'bench.yaml') },
-  { name: 'loadSurveyText magnitude (preset, table, width slices)', run: () => loadSurveyText(MAGNITUDE_YAML, 'bench.yaml') },
-  { name: 'loadSurveyText threshold (two populations, edges)', run: () => loadSurveyText(THRESHOLD_YAML, 'bench.yaml') },
+  {
+    name: 'loadSurveyText magnitude (preset, table, width slices)',
+    run: () => loadSurveyText(MAGNITUDE_YAML, 'bench.yaml'),
+  },
+  {
+    name: 'loadSurveyText threshold (two populations, edges)',
+    run: () => loadSurveyText(THRESHOLD_YAML, 'bench.yaml'),
+  },
   {
     name: 'loadSurveyText refusing 19,000 keys (an unknown key), after the repeated-key check',
     run: () => {

@@ -83,10 +83,22 @@ describe('distances', () => {
     const r = await runCli(['distances', '--z', '0.5,1,2', '--h0', '70', '--omega-m', '0.3', '--format', 'json']);
     expect(r.code).toBe(0);
     const j = JSON.parse(r.stdout);
-    expect(Object.keys(j.cosmology)).toEqual(expect.arrayContaining(['h0', 'omega_m', 'omega_lambda', 'omega_r', 't_cmb']));
+    expect(Object.keys(j.cosmology)).toEqual(
+      expect.arrayContaining(['h0', 'omega_m', 'omega_lambda', 'omega_r', 't_cmb']),
+    );
     expect(j.rows).toHaveLength(3);
     for (const row of j.rows) {
-      for (const k of ['z', 'comoving_distance_mpc', 'luminosity_distance_mpc', 'angular_diameter_distance_mpc', 'distance_modulus', 'volume_element_mpc3_sr', 'comoving_volume_gpc3', 'lookback_time_gyr', 'age_gyr']) {
+      for (const k of [
+        'z',
+        'comoving_distance_mpc',
+        'luminosity_distance_mpc',
+        'angular_diameter_distance_mpc',
+        'distance_modulus',
+        'volume_element_mpc3_sr',
+        'comoving_volume_gpc3',
+        'lookback_time_gyr',
+        'age_gyr',
+      ]) {
         expect(row[k], k).toBeTypeOf('number');
       }
     }
@@ -119,7 +131,9 @@ describe('the built program as a subprocess', () => {
   const bin = 'bin/skytally.js';
   test('predict --format json', () => {
     if (!existsSync('dist/cli/skytally.js')) execFileSync('npm', ['run', 'build'], { stdio: 'ignore' });
-    const out = execFileSync(process.execPath, [bin, 'predict', `samples/${SAMPLES[0]}`, '--format', 'json'], { encoding: 'utf8' });
+    const out = execFileSync(process.execPath, [bin, 'predict', `samples/${SAMPLES[0]}`, '--format', 'json'], {
+      encoding: 'utf8',
+    });
     expect(JSON.parse(out).totals.count).toBeGreaterThan(0);
   }, 300_000); // builds dist/ first when it is absent (a fresh clone): a minute or more on a loaded machine
   test('bad input exits with status 2 and one line on stderr', () => {

@@ -19,7 +19,9 @@ import { afterAll, describe, expect, test } from 'vitest';
 import { parse, stringify } from 'yaml';
 import { runCli } from './helpers.js';
 
-const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml')).sort();
+const SAMPLES = readdirSync('samples')
+  .filter((f) => f.endsWith('.yaml'))
+  .sort();
 const BASES = SAMPLES.map((f) => parse(readFileSync(join('samples', f), 'utf8')) as unknown);
 
 // In memory where the system offers it: two thousand small writes.
@@ -51,7 +53,28 @@ function parentOf(root: unknown, path: Path): Record<string | number, unknown> {
   return node;
 }
 
-const EXTREME_NUMBERS = [0, -0, 1, -1, 0.5, 42, 1e6, -1e6, 1e300, -1e300, 1e-300, -1e-300, 1e308, 5e-324, 2 ** 53, 1e-9, 1e9, NaN, Infinity, -Infinity];
+const EXTREME_NUMBERS = [
+  0,
+  -0,
+  1,
+  -1,
+  0.5,
+  42,
+  1e6,
+  -1e6,
+  1e300,
+  -1e300,
+  1e-300,
+  -1e-300,
+  1e308,
+  5e-324,
+  2 ** 53,
+  1e-9,
+  1e9,
+  NaN,
+  Infinity,
+  -Infinity,
+];
 
 const HOSTILE_STRINGS = [
   '',
@@ -94,7 +117,34 @@ const HOSTILE_STRINGS = [
   'auto',
 ];
 
-const OTHER_VALUES: unknown[] = [null, true, false, [], {}, [1, 2], { table: [] }, { table: [[0, 1], [1, 2]] }, { table: [[1, 0], [0, 1]] }, { table: [[0, 1e300], [30, -1e300]] }, [[1, 2], [3]]];
+const OTHER_VALUES: unknown[] = [
+  null,
+  true,
+  false,
+  [],
+  {},
+  [1, 2],
+  { table: [] },
+  {
+    table: [
+      [0, 1],
+      [1, 2],
+    ],
+  },
+  {
+    table: [
+      [1, 0],
+      [0, 1],
+    ],
+  },
+  {
+    table: [
+      [0, 1e300],
+      [30, -1e300],
+    ],
+  },
+  [[1, 2], [3]],
+];
 
 const valueArb = fc.oneof(
   fc.constantFrom(...EXTREME_NUMBERS),
@@ -105,7 +155,20 @@ const valueArb = fc.oneof(
 
 const mutationArb = fc.record({
   at: fc.nat(),
-  op: fc.constantFrom('replace', 'replace', 'replace', 'delete', 'scale', 'negate', 'rename', 'wrap', 'text', 'nudge', 'nudge', 'nudge'),
+  op: fc.constantFrom(
+    'replace',
+    'replace',
+    'replace',
+    'delete',
+    'scale',
+    'negate',
+    'rename',
+    'wrap',
+    'text',
+    'nudge',
+    'nudge',
+    'nudge',
+  ),
   value: valueArb,
   power: fc.constantFrom(-300, -30, -3, 3, 30, 300),
   /** For 'nudge': a plausible change of a number (valid files that are not the samples). */
@@ -140,7 +203,8 @@ function mutate(base: unknown, muts: Mutation[]): unknown {
         else delete parent[key];
         break;
       case 'scale':
-        parent[key] = typeof old === 'number' ? old * 10 ** m.power : typeof old === 'string' ? `${old}e${m.power}` : m.value;
+        parent[key] =
+          typeof old === 'number' ? old * 10 ** m.power : typeof old === 'string' ? `${old}e${m.power}` : m.value;
         break;
       case 'negate':
         parent[key] = typeof old === 'number' ? -old : typeof old === 'string' ? `-${old}` : m.value;
@@ -158,7 +222,7 @@ function mutate(base: unknown, muts: Mutation[]): unknown {
         if (typeof old === 'number') parent[key] = old === 0 ? m.factor - 1 : old * m.factor;
         break;
       case 'text':
-        parent[key] = typeof old === 'number' ? String(old) : JSON.stringify(old) ?? 'null';
+        parent[key] = typeof old === 'number' ? String(old) : (JSON.stringify(old) ?? 'null');
         break;
     }
   }
@@ -212,7 +276,11 @@ describe('mutated sample surveys through the loader and predict', () => {
       }),
       // A fixed seed: the same 2,000 files every run. SKYTALLY_FUZZ_SEED and SKYTALLY_FUZZ_RUNS
       // explore others (e.g. SKYTALLY_FUZZ_SEED=7 SKYTALLY_FUZZ_RUNS=20000 npx vitest run test/cli/fuzz.test.ts).
-      { numRuns: Number(process.env.SKYTALLY_FUZZ_RUNS ?? 2000), seed: Number(process.env.SKYTALLY_FUZZ_SEED ?? 20251202), endOnFailure: true },
+      {
+        numRuns: Number(process.env.SKYTALLY_FUZZ_RUNS ?? 2000),
+        seed: Number(process.env.SKYTALLY_FUZZ_SEED ?? 20251202),
+        endOnFailure: true,
+      },
     );
     // Both outcomes are exercised.
     expect(tally.refused).toBeGreaterThan(500);

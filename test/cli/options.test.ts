@@ -76,8 +76,18 @@ describe('input once reported as an internal failure', () => {
     ['preset toString', '  h0: 70\n  omega_m: 0.3', '  preset: toString', 'cosmology.preset'],
     ['completeness width 1e9', 'width: 0.08', 'width: 1e9', 'detection.completeness.width'],
     ['completeness width 1e-300', 'width: 0.08', 'width: 1e-300', 'detection.completeness.width'],
-    ['slice edges 1.2 and 1.2000000000000002', 'slices: {count: 5}', 'redshift: {min: 0.7, max: 1.3}\nslices: {edges: [1.2, 1.2000000000000002]}', 'slices.edges[1]'],
-    ['a window 1 to 1.000000000000001', 'slices: {count: 5}', 'redshift: {min: 1, max: 1.000000000000001}\nslices: {count: 5}', 'redshift.max'],
+    [
+      'slice edges 1.2 and 1.2000000000000002',
+      'slices: {count: 5}',
+      'redshift: {min: 0.7, max: 1.3}\nslices: {edges: [1.2, 1.2000000000000002]}',
+      'slices.edges[1]',
+    ],
+    [
+      'a window 1 to 1.000000000000001',
+      'slices: {count: 5}',
+      'redshift: {min: 1, max: 1.000000000000001}\nslices: {count: 5}',
+      'redshift.max',
+    ],
     ['a histogram of width 1e-9', 'histogram: {width: 0.1}', 'histogram: {width: 1e-9}', 'histogram.width'],
     ['alpha -1.8e26', 'alpha: -1.45', 'alpha: -1.8e26', 'population.alpha'],
   ])('predict: %s', async (_name, from, to, key) => {
@@ -92,10 +102,30 @@ describe('input once reported as an internal failure', () => {
   });
 
   test.each([
-    ['plan.reference.limit 1e300', 'reference: {limit: 28.0, exposure_hours: 1.0}', 'reference: {limit: 1e300, exposure_hours: 1.0}', 'plan.reference.limit'],
-    ['plan.exposure_grid.max_hours 1e300', /exposure_grid: \{[^}]*\}/, 'exposure_grid: {min_hours: 0.05, max_hours: 1e300, count: 100}', 'plan.exposure_grid.max_hours'],
-    ['a 3-tier grid of 100,000 exposures', /exposure_grid: \{[^}]*\}/, 'exposure_grid: {min_hours: 0.05, max_hours: 50, count: 100000}\n  tiers: 3', 'plan.exposure_grid.count'],
-    ['a 1-tier grid of 1e6 exposures', /exposure_grid: \{[^}]*\}/, 'exposure_grid: {min_hours: 0.05, max_hours: 50, count: 1000000}', 'plan.exposure_grid.count'],
+    [
+      'plan.reference.limit 1e300',
+      'reference: {limit: 28.0, exposure_hours: 1.0}',
+      'reference: {limit: 1e300, exposure_hours: 1.0}',
+      'plan.reference.limit',
+    ],
+    [
+      'plan.exposure_grid.max_hours 1e300',
+      /exposure_grid: \{[^}]*\}/,
+      'exposure_grid: {min_hours: 0.05, max_hours: 1e300, count: 100}',
+      'plan.exposure_grid.max_hours',
+    ],
+    [
+      'a 3-tier grid of 100,000 exposures',
+      /exposure_grid: \{[^}]*\}/,
+      'exposure_grid: {min_hours: 0.05, max_hours: 50, count: 100000}\n  tiers: 3',
+      'plan.exposure_grid.count',
+    ],
+    [
+      'a 1-tier grid of 1e6 exposures',
+      /exposure_grid: \{[^}]*\}/,
+      'exposure_grid: {min_hours: 0.05, max_hours: 50, count: 1000000}',
+      'plan.exposure_grid.count',
+    ],
     ['budget_hours 1e300', /budget_hours: [0-9.]+/, 'budget_hours: 1e300', 'plan.budget_hours'],
   ])('plan: %s', async (_name, from, to, key) => {
     const text = readFileSync('samples/plan-uv-deep-wide.yaml', 'utf8');
@@ -129,7 +159,19 @@ describe('input once reported as an internal failure', () => {
         fc.double({ min: 0.01, max: 0.99, noNaN: true }),
         fc.constantFrom('0', '2.7255', '10'),
         async (zs, h0, omegaM, tCmb) => {
-          const r = await runCli(['distances', '--z', zs.map((z) => z.toExponential()).join(','), '--h0', h0.toExponential(), '--omega-m', omegaM.toExponential(), '--t-cmb', tCmb, '--format', 'json']);
+          const r = await runCli([
+            'distances',
+            '--z',
+            zs.map((z) => z.toExponential()).join(','),
+            '--h0',
+            h0.toExponential(),
+            '--omega-m',
+            omegaM.toExponential(),
+            '--t-cmb',
+            tCmb,
+            '--format',
+            'json',
+          ]);
           if (r.code === 2) {
             // only radiation beyond the critical density (a low h0 with t_cmb 10 K) may be refused
             expect(r.stderr).toContain('--t-cmb');
@@ -151,7 +193,17 @@ describe('input once reported as an internal failure', () => {
         fc.double({ min: -3, max: 4, noNaN: true }),
         fc.double({ min: 3, max: 18, noNaN: true }),
         async (z, logR, logM) => {
-          const r = await runCli(['clustering', '--z', z.toExponential(), '--radius-mpc', (10 ** logR).toExponential(), '--mass-msun', (10 ** logM).toExponential(), '--format', 'json']);
+          const r = await runCli([
+            'clustering',
+            '--z',
+            z.toExponential(),
+            '--radius-mpc',
+            (10 ** logR).toExponential(),
+            '--mass-msun',
+            (10 ** logM).toExponential(),
+            '--format',
+            'json',
+          ]);
           expect(r.code, r.stderr).toBe(0);
           expect(finiteEverywhere(JSON.parse(r.stdout))).toBe(true);
         },
@@ -173,7 +225,9 @@ describe('nothing read is echoed unescaped', () => {
   test('a population name with control characters: warnings are escaped too', async () => {
     const file = join(dir, 'warned.yaml');
     // a band at 0.6 um lies blueward of Lyman alpha above z = 3.9: a warning naming the population
-    const text = readFileSync('samples/deep-continuum.yaml', 'utf8').replace('name: UV-selected galaxies', 'name: "UV\\e[2J\\nselected"').replace('band: "1.5 um"', 'band: "0.6 um"');
+    const text = readFileSync('samples/deep-continuum.yaml', 'utf8')
+      .replace('name: UV-selected galaxies', 'name: "UV\\e[2J\\nselected"')
+      .replace('band: "1.5 um"', 'band: "0.6 um"');
     writeFileSync(file, text);
     const r = await runCli(['predict', file]);
     expect(r.code, r.stderr).toBe(0);

@@ -113,7 +113,10 @@ describe('--out: what it names decides how it is written', () => {
 
   test.each([
     ['a file under /proc', () => '/proc/skytally-test.json'],
-    ['a file in a folder that does not exist (probably a mistyped path; not created)', () => join(tmp(), 'no', 'such', 'x.json')],
+    [
+      'a file in a folder that does not exist (probably a mistyped path; not created)',
+      () => join(tmp(), 'no', 'such', 'x.json'),
+    ],
     ['a folder', () => tmp()],
     ['an empty path', () => ''],
   ])('refused: %s', async (_what, path) => {
@@ -124,14 +127,17 @@ describe('--out: what it names decides how it is written', () => {
     if (p.includes('no/such')) expect(existsSync(join(p, '..', '..'))).toBe(false);
   });
 
-  test.skipIf(typeof process.getuid === 'function' && process.getuid() === 0)('a folder without write permission: one sentence', async () => {
-    const dir = tmp();
-    const ro = join(dir, 'ro');
-    mkdirSync(ro, { mode: 0o555 });
-    const r = await runCli(['predict', SAMPLE, '--out', join(ro, 'x.json')]);
-    refused(r);
-    expect(r.stderr).toContain('permission is denied');
-  });
+  test.skipIf(typeof process.getuid === 'function' && process.getuid() === 0)(
+    'a folder without write permission: one sentence',
+    async () => {
+      const dir = tmp();
+      const ro = join(dir, 'ro');
+      mkdirSync(ro, { mode: 0o555 });
+      const r = await runCli(['predict', SAMPLE, '--out', join(ro, 'x.json')]);
+      refused(r);
+      expect(r.stderr).toContain('permission is denied');
+    },
+  );
 });
 
 describe('no output replaces an input (compared by device and inode, links resolved)', () => {
@@ -165,7 +171,12 @@ describe('no output replaces an input (compared by device and inode, links resol
     symlinkSync(join(s, 'filters'), join(s, 'linked'));
     const csv = join(s, 'filters', 'nb-9200-invented.csv');
     const before = readFileSync(csv, 'utf8');
-    const r = await runCli(['predict', join(s, 'narrowband-interlopers.yaml'), '--out', join(s, 'linked', 'nb-9200-invented.csv')]);
+    const r = await runCli([
+      'predict',
+      join(s, 'narrowband-interlopers.yaml'),
+      '--out',
+      join(s, 'linked', 'nb-9200-invented.csv'),
+    ]);
     refused(r);
     expect(readFileSync(csv, 'utf8')).toBe(before);
   });
@@ -214,7 +225,16 @@ describe('all or nothing', () => {
   test('--out x.json with a --figures folder that cannot be written: x.json is not written either', async () => {
     const dir = tmp();
     const out = join(dir, 'x.json');
-    const r = await runCli(['predict', 'samples/mass-limited.yaml', '--format', 'json', '--out', out, '--figures', '/proc/skytally-figures']);
+    const r = await runCli([
+      'predict',
+      'samples/mass-limited.yaml',
+      '--format',
+      'json',
+      '--out',
+      out,
+      '--figures',
+      '/proc/skytally-figures',
+    ]);
     refused(r);
     expect(existsSync(out)).toBe(false);
     noTemporaryFiles(dir);
@@ -238,7 +258,14 @@ describe('all or nothing', () => {
     const out = join(dir, 'sub');
     mkdirSync(out);
     // --out names a folder: refused before any work, and no figures folder is created
-    const r = await runCli(['predict', 'samples/mass-limited.yaml', '--out', out, '--figures', join(dir, 'new', 'figs')]);
+    const r = await runCli([
+      'predict',
+      'samples/mass-limited.yaml',
+      '--out',
+      out,
+      '--figures',
+      join(dir, 'new', 'figs'),
+    ]);
     refused(r);
     expect(existsSync(join(dir, 'new'))).toBe(false);
   });
@@ -248,14 +275,25 @@ describe('a closed pipe ends the program quietly with status 0', () => {
   // The program as a process (its own main, from the sources): `| head -1` closes the pipe early.
   const runner = join('test', 'cli', 'main-runner.ts');
   const zs = Array.from({ length: 1000 }, (_, i) => (i * 0.01).toFixed(2)).join(',');
-  test.each([['distances, JSON', `distances --z ${zs} --format json`]])('%s | head -1', (_name, args) => {
-    const err = join(tmp(), 'stderr.txt');
-    const r = spawnSync('bash', ['-c', `node --import tsx ${runner} ${args} 2>${err} | head -1 >/dev/null; echo "\${PIPESTATUS[0]}"; cat ${err}`], {
-      encoding: 'utf8',
-      cwd: process.cwd(),
-    });
-    const [status, ...rest] = r.stdout.split('\n');
-    expect(rest.join('\n').trim()).toBe('');
-    expect(status).toBe('0');
-  }, 60_000);
+  test.each([['distances, JSON', `distances --z ${zs} --format json`]])(
+    '%s | head -1',
+    (_name, args) => {
+      const err = join(tmp(), 'stderr.txt');
+      const r = spawnSync(
+        'bash',
+        [
+          '-c',
+          `node --import tsx ${runner} ${args} 2>${err} | head -1 >/dev/null; echo "\${PIPESTATUS[0]}"; cat ${err}`,
+        ],
+        {
+          encoding: 'utf8',
+          cwd: process.cwd(),
+        },
+      );
+      const [status, ...rest] = r.stdout.split('\n');
+      expect(rest.join('\n').trim()).toBe('');
+      expect(status).toBe('0');
+    },
+    60_000,
+  );
 });

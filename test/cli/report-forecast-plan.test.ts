@@ -18,7 +18,8 @@ type Any = Json;
 
 const tmp = () => tempDir('skytally-report-fp-');
 const num = (s: string) => Number(s.replace(/\u2212/g, '-').replace(/,/g, ''));
-const close = (a: number, b: number, rel = 1e-10) => Math.abs(a - b) <= rel * Math.max(Math.abs(a), Math.abs(b), 1e-300);
+const close = (a: number, b: number, rel = 1e-10) =>
+  Math.abs(a - b) <= rel * Math.max(Math.abs(a), Math.abs(b), 1e-300);
 const PLAN_SAMPLES = ['plan-uv-deep-wide.yaml', 'plan-halpha-layers.yaml'];
 
 /**
@@ -26,7 +27,9 @@ const PLAN_SAMPLES = ['plan-uv-deep-wide.yaml', 'plan-halpha-layers.yaml'];
  * (test/reference/chi2-2dof.json, generator test/reference/generate/chi2_2dof.py).
  */
 const DCHI2_1SIGMA = (
-  JSON.parse(readFileSync('test/reference/chi2-2dof.json', 'utf8')) as { rows: { k_sigma: number; delta_chi2: number }[] }
+  JSON.parse(readFileSync('test/reference/chi2-2dof.json', 'utf8')) as {
+    rows: { k_sigma: number; delta_chi2: number }[];
+  }
 ).rows.find((r) => r.k_sigma === 1)!.delta_chi2;
 
 interface Mark {
@@ -80,7 +83,9 @@ function readForecastFigure(svg: string) {
 
 /** Axis domain [from, to] of the X or Y axis (vega's aria label: "values from A to B"). */
 function axisDomain(svg: string, axis: 'X' | 'Y'): [number, number] {
-  const m = new RegExp(`aria-label="${axis}-axis titled '[^']*' for a linear scale with values from ([-\\d.,e\\u2212]+) to ([-\\d.,e\\u2212]+)"`).exec(svg);
+  const m = new RegExp(
+    `aria-label="${axis}-axis titled '[^']*' for a linear scale with values from ([-\\d.,e\\u2212]+) to ([-\\d.,e\\u2212]+)"`,
+  ).exec(svg);
   expect(m, `${axis} axis`).not.toBeNull();
   return [num(m![1]!), num(m![2]!)];
 }
@@ -138,12 +143,26 @@ describe('forecast --figures: the Fisher ellipses drawn from the JSON forecast p
     expect(close(halfX, Math.sqrt(DCHI2_1SIGMA) * f.fisher.sigma.alpha, 1e-3), `alpha: ${halfX}`).toBe(true);
     expect(close(halfY, Math.sqrt(DCHI2_1SIGMA) * f.fisher.sigma[y], 1e-3), `${y}: ${halfY}`).toBe(true);
     // and centred on the cross
-    expect(Math.abs((Math.max(...xs) + Math.min(...xs)) / 2 - cross.at![0])).toBeLessThan(0.01 * (Math.max(...xs) - Math.min(...xs)));
+    expect(Math.abs((Math.max(...xs) + Math.min(...xs)) / 2 - cross.at![0])).toBeLessThan(
+      0.01 * (Math.max(...xs) - Math.min(...xs)),
+    );
   });
 
   test('--list-mock-fits lists the converged mock fits (schema-valid); without it the JSON has none', async () => {
-    const validate = new Ajv2020({ allErrors: true, strict: false }).compile(JSON.parse(readFileSync('specs/forecast.schema.json', 'utf8')));
-    const kept = await runCli(['forecast', 'samples/halpha-narrowband.yaml', '--format', 'json', '--mocks', '6', '--seed', '5', '--list-mock-fits']);
+    const validate = new Ajv2020({ allErrors: true, strict: false }).compile(
+      JSON.parse(readFileSync('specs/forecast.schema.json', 'utf8')),
+    );
+    const kept = await runCli([
+      'forecast',
+      'samples/halpha-narrowband.yaml',
+      '--format',
+      'json',
+      '--mocks',
+      '6',
+      '--seed',
+      '5',
+      '--list-mock-fits',
+    ]);
     expect(kept.code).toBe(0);
     const k = JSON.parse(kept.stdout) as Any;
     expect(validate(k), JSON.stringify(validate.errors)).toBe(true);
@@ -155,7 +174,16 @@ describe('forecast --figures: the Fisher ellipses drawn from the JSON forecast p
     });
     // the old name, read as the FITS file format, is gone (exit 2, commander's one-line message)
     expect((await runCli(['forecast', 'samples/halpha-narrowband.yaml', '--mocks', '6', '--keep-fits'])).code).toBe(2);
-    const plain = await runCli(['forecast', 'samples/halpha-narrowband.yaml', '--format', 'json', '--mocks', '6', '--seed', '5']);
+    const plain = await runCli([
+      'forecast',
+      'samples/halpha-narrowband.yaml',
+      '--format',
+      'json',
+      '--mocks',
+      '6',
+      '--seed',
+      '5',
+    ]);
     const p = JSON.parse(plain.stdout) as Any;
     expect(p.mocks.fits).toBeUndefined();
     const { fits: _f, ...rest } = k.mocks;
@@ -197,7 +225,9 @@ describe('plan --figures: the best design marked where the JSON puts it', () => 
     // the designs: one dot per design, in exposure order
     const dots = ms.filter((m) => m.role === 'point' && 'pointings' in m.label);
     expect(dots).toHaveLength(p.designs.length);
-    const byExposure = [...p.designs].sort((a: Any, b: Any) => a.exposure_hours_per_pointing - b.exposure_hours_per_pointing);
+    const byExposure = [...p.designs].sort(
+      (a: Any, b: Any) => a.exposure_hours_per_pointing - b.exposure_hours_per_pointing,
+    );
     dots.forEach((m, i) => {
       expect(close(num(m.label.exposure_hours_per_pointing!), byExposure[i].exposure_hours_per_pointing)).toBe(true);
       expect(num(m.label.pointings!)).toBe(byExposure[i].pointings);
@@ -225,7 +255,8 @@ describe.each(PLAN_SAMPLES)('report of %s: plan and forecast', (sample) => {
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
     const html = readFileSync(out, 'utf8');
-    for (const id of ['id="plan-table"', 'id="figure-plan"', 'id="forecast-table"', 'id="figure-forecast"']) expect(html).toContain(id);
+    for (const id of ['id="plan-table"', 'id="figure-plan"', 'id="forecast-table"', 'id="figure-forecast"'])
+      expect(html).toContain(id);
     expect(html).not.toContain('class="omitted"');
     expect(html).not.toMatch(/NaN|Infinity/);
 
@@ -256,7 +287,21 @@ describe('report --mocks N --seed S', () => {
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
     const html = readFileSync(out, 'utf8');
-    const f = JSON.parse((await runCli(['forecast', 'samples/halpha-narrowband.yaml', '--mocks', '20', '--seed', '3', '--list-mock-fits', '--format', 'json'])).stdout) as Any;
+    const f = JSON.parse(
+      (
+        await runCli([
+          'forecast',
+          'samples/halpha-narrowband.yaml',
+          '--mocks',
+          '20',
+          '--seed',
+          '3',
+          '--list-mock-fits',
+          '--format',
+          'json',
+        ])
+      ).stdout,
+    ) as Any;
     const fits = f.mocks.fits as number[][];
     expect(fits).toHaveLength(20 - f.mocks.failed_fits);
     expect(fits.length).toBeGreaterThan(15);
@@ -306,7 +351,8 @@ describe('sections that cannot be computed: a sentence, not a failure', () => {
   });
 
   const massWithPlan = (plan: string) => `${readFileSync('samples/mass-limited.yaml', 'utf8')}plan:\n${plan}`;
-  const GOOD_PLAN = '  field_of_view: "0.05 deg^2"\n  reference: {limit: 26.5, exposure_hours: 1.0}\n  budget_hours: 60\n  goal: count\n';
+  const GOOD_PLAN =
+    '  field_of_view: "0.05 deg^2"\n  reference: {limit: 26.5, exposure_hours: 1.0}\n  budget_hours: 60\n  goal: count\n';
 
   test('a threshold survey with a plan section: the report says why there is no plan; the forecast stays', async () => {
     const dir = tmp();
@@ -328,27 +374,50 @@ describe('sections that cannot be computed: a sentence, not a failure', () => {
   test('a well-formed plan no design can satisfy: a sentence naming the key', async () => {
     const dir = tmp();
     const input = join(dir, 'p.yaml');
-    writeFileSync(input, readFileSync('samples/plan-uv-deep-wide.yaml', 'utf8').replace(/minimum_count: 200/, 'minimum_count: 1.0e12'));
+    writeFileSync(
+      input,
+      readFileSync('samples/plan-uv-deep-wide.yaml', 'utf8').replace(/minimum_count: 200/, 'minimum_count: 1.0e12'),
+    );
     expect((await runCli(['plan', input])).code).toBe(2);
     const r = await runCli(['report', input]);
     expect(r.code).toBe(0);
-    expect(r.stdout).toMatch(/<p class="omitted" id="plan-omitted">No plan: it cannot be computed for this survey \([^<]*plan\.minimum_count[^<]*\)\.<\/p>/);
+    expect(r.stdout).toMatch(
+      /<p class="omitted" id="plan-omitted">No plan: it cannot be computed for this survey \([^<]*plan\.minimum_count[^<]*\)\.<\/p>/,
+    );
   });
 
   test.each([
-    ['a misspelt key', 'samples/plan-uv-deep-wide.yaml', (t: string) => t.replace('budget_hours: 150', 'budget_hour: 150'), /plan\.budget_hour/],
-    ['a wrong type', 'samples/plan-uv-deep-wide.yaml', (t: string) => t.replace('budget_hours: 150', 'budget_hours: lots'), /plan\.budget_hours/],
-    ['a misspelt key in a threshold survey', 'samples/mass-limited.yaml', (t: string) => `${t}plan:\n${GOOD_PLAN}  tier: 2\n`, /plan\.tier/],
-  ])('a malformed plan section (%s) is bad input: exit 2, one sentence, nothing written', async (_what, base, edit, key) => {
-    const dir = tmp();
-    const input = join(dir, 'bad.yaml');
-    writeFileSync(input, edit(readFileSync(base, 'utf8')));
-    const out = join(dir, 'r.html');
-    const r = await runCli(['report', input, '--out', out]);
-    expect(r.code).toBe(2);
-    expect(r.stdout).toBe('');
-    expect(r.stderr.trim().split('\n')).toHaveLength(1);
-    expect(r.stderr).toMatch(key);
-    expect(existsSync(out)).toBe(false);
-  });
+    [
+      'a misspelt key',
+      'samples/plan-uv-deep-wide.yaml',
+      (t: string) => t.replace('budget_hours: 150', 'budget_hour: 150'),
+      /plan\.budget_hour/,
+    ],
+    [
+      'a wrong type',
+      'samples/plan-uv-deep-wide.yaml',
+      (t: string) => t.replace('budget_hours: 150', 'budget_hours: lots'),
+      /plan\.budget_hours/,
+    ],
+    [
+      'a misspelt key in a threshold survey',
+      'samples/mass-limited.yaml',
+      (t: string) => `${t}plan:\n${GOOD_PLAN}  tier: 2\n`,
+      /plan\.tier/,
+    ],
+  ])(
+    'a malformed plan section (%s) is bad input: exit 2, one sentence, nothing written',
+    async (_what, base, edit, key) => {
+      const dir = tmp();
+      const input = join(dir, 'bad.yaml');
+      writeFileSync(input, edit(readFileSync(base, 'utf8')));
+      const out = join(dir, 'r.html');
+      const r = await runCli(['report', input, '--out', out]);
+      expect(r.code).toBe(2);
+      expect(r.stdout).toBe('');
+      expect(r.stderr.trim().split('\n')).toHaveLength(1);
+      expect(r.stderr).toMatch(key);
+      expect(existsSync(out)).toBe(false);
+    },
+  );
 });

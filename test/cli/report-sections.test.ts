@@ -112,14 +112,19 @@ describe('report hooks', () => {
     const dir = tempDir('skytally-hooks-');
     const out = join(dir, 'r.html');
     let planCalls = 0;
-    const code = await runReport(io(), 'samples/halpha-narrowband.yaml', { out }, {
-      // the hooks return the results as the commands compute them (only the fields the report reads are filled in here)
-      forecast: () => Promise.resolve(forecastResult as unknown as Forecast),
-      plan: () => {
-        planCalls++;
-        return Promise.resolve(planResult as unknown as Plan);
+    const code = await runReport(
+      io(),
+      'samples/halpha-narrowband.yaml',
+      { out },
+      {
+        // the hooks return the results as the commands compute them (only the fields the report reads are filled in here)
+        forecast: () => Promise.resolve(forecastResult as unknown as Forecast),
+        plan: () => {
+          planCalls++;
+          return Promise.resolve(planResult as unknown as Plan);
+        },
       },
-    });
+    );
     expect(code).toBe(0);
     expect(planCalls).toBe(0);
     expect(hasPlanSection(loadSurveyFile('samples/halpha-narrowband.yaml'))).toBe(false);
@@ -136,7 +141,12 @@ describe('report hooks', () => {
     expect(hasPlanSection(loadSurveyText(text, 'p.yaml'))).toBe(true);
     const input = join(dir, 'p.yaml');
     writeFileSync(input, text);
-    const code = await runReport(io(), input, { out: join(dir, 'r.html') }, { plan: () => Promise.resolve(planResult as unknown as Plan) });
+    const code = await runReport(
+      io(),
+      input,
+      { out: join(dir, 'r.html') },
+      { plan: () => Promise.resolve(planResult as unknown as Plan) },
+    );
     expect(code).toBe(0);
     const html = readFileSync(join(dir, 'r.html'), 'utf8');
     expect(html).toContain('id="plan-table"');

@@ -57,7 +57,14 @@ describe.each(SAMPLES)('%s: figures draw the numbers of predict --format json', 
     slices?: Slice[];
     populations: { name: string; slices: Slice[] }[];
     totals: { count: number };
-    observed_bins: { bins: { min: number; max: number; count: number; populations: Record<string, { count: number; share: number }> }[] };
+    observed_bins: {
+      bins: {
+        min: number;
+        max: number;
+        count: number;
+        populations: Record<string, { count: number; share: number }>;
+      }[];
+    };
   };
   let html = '';
 
@@ -77,22 +84,23 @@ describe.each(SAMPLES)('%s: figures draw the numbers of predict --format json', 
     p.breakdown === 'observed' ? p.populations.map((q, k) => [`counts-${k + 1}`, q.slices]) : [['counts', p.slices!]];
 
   test('counts: each bar is a slice (z_min, z_max, count); error bars are count (1 -/+ total_fraction)', () => {
-    for (const [name, slices] of countsFigures()) for (const svg of [readFileSync(join(figDir, `${name}.svg`), 'utf8'), figureInHtml(html, name)]) {
-      const bars = marks(svg, 'bar');
-      expect(bars).toHaveLength(slices.length);
-      slices.forEach((s, i) => {
-        expect(close(num(bars[i]!.z_min!), s.z_min)).toBe(true);
-        expect(close(num(bars[i]!.z_max!), s.z_max)).toBe(true);
-        expect(close(num(bars[i]!['expected count per slice']!), s.count), `slice ${i + 1} count`).toBe(true);
-      });
-      const errs = marks(svg, 'errorbar');
-      const withU = slices.filter((s) => s.uncertainty);
-      expect(errs).toHaveLength(withU.length);
-      withU.forEach((s, i) => {
-        expect(close(num(errs[i]!.low!), Math.max(0, s.count * (1 - s.uncertainty!.total_fraction)))).toBe(true);
-        expect(close(num(errs[i]!.high!), s.count * (1 + s.uncertainty!.total_fraction))).toBe(true);
-      });
-    }
+    for (const [name, slices] of countsFigures())
+      for (const svg of [readFileSync(join(figDir, `${name}.svg`), 'utf8'), figureInHtml(html, name)]) {
+        const bars = marks(svg, 'bar');
+        expect(bars).toHaveLength(slices.length);
+        slices.forEach((s, i) => {
+          expect(close(num(bars[i]!.z_min!), s.z_min)).toBe(true);
+          expect(close(num(bars[i]!.z_max!), s.z_max)).toBe(true);
+          expect(close(num(bars[i]!['expected count per slice']!), s.count), `slice ${i + 1} count`).toBe(true);
+        });
+        const errs = marks(svg, 'errorbar');
+        const withU = slices.filter((s) => s.uncertainty);
+        expect(errs).toHaveLength(withU.length);
+        withU.forEach((s, i) => {
+          expect(close(num(errs[i]!.low!), Math.max(0, s.count * (1 - s.uncertainty!.total_fraction)))).toBe(true);
+          expect(close(num(errs[i]!.high!), s.count * (1 + s.uncertainty!.total_fraction))).toBe(true);
+        });
+      }
   });
 
   test('histograms: the bars, panel by panel, are the slice histogram bins (edges and counts) but the negligible ends', () => {
@@ -117,7 +125,9 @@ describe.each(SAMPLES)('%s: figures draw the numbers of predict --format json', 
       const [lo, hi] = kept(s.histogram.counts);
       const left = s.histogram.counts.filter((_, k) => k < lo || k > hi).reduce((a, c) => a + c, 0);
       expect(left).toBeLessThanOrEqual(2e-3 * s.count);
-      return s.histogram.counts.slice(lo, hi + 1).map((c, k) => ({ lo: s.histogram.edges[lo + k]!, hi: s.histogram.edges[lo + k + 1]!, c }));
+      return s.histogram.counts
+        .slice(lo, hi + 1)
+        .map((c, k) => ({ lo: s.histogram.edges[lo + k]!, hi: s.histogram.edges[lo + k + 1]!, c }));
     });
     const width = Number((p.slices![0]!.histogram.edges[1]! - p.slices![0]!.histogram.edges[0]!).toPrecision(6));
     for (const svg of [readFileSync(join(figDir, 'histograms.svg'), 'utf8'), figureInHtml(html, 'histograms')]) {
@@ -175,7 +185,10 @@ describe.each(SAMPLES)('%s: figures draw the numbers of predict --format json', 
         for (const n of names) {
           const bar = at(bars, n, 'min', b.min);
           expect(close(num(bar.below!), below)).toBe(true);
-          expect(close(num(bar['expected detections per bin']!), below + b.populations[n]!.count), `bin ${b.min} ${n}`).toBe(true);
+          expect(
+            close(num(bar['expected detections per bin']!), below + b.populations[n]!.count),
+            `bin ${b.min} ${n}`,
+          ).toBe(true);
           below += b.populations[n]!.count;
           at(points, n, 'bin middle', 0.5 * (b.min + b.max));
         }
@@ -188,7 +201,12 @@ describe.each(SAMPLES)('%s: figures draw the numbers of predict --format json', 
     expect(html).toContain('<section class="assumption" id="model">');
     const text = readFileSync(`samples/${sample}`, 'utf8');
     const pre = /<pre class="survey">([\s\S]*?)<\/pre>/.exec(html)![1]!;
-    const unescaped = pre.replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&#39;/g, "'").replace(/&amp;/g, '&');
+    const unescaped = pre
+      .replace(/&lt;/g, '<')
+      .replace(/&gt;/g, '>')
+      .replace(/&quot;/g, '"')
+      .replace(/&#39;/g, "'")
+      .replace(/&amp;/g, '&');
     expect(unescaped).toBe(text);
     expect(html).not.toMatch(/NaN|Infinity/);
   });
@@ -227,7 +245,9 @@ describe('report: user text is escaped, through the command', () => {
     const html = readFileSync(join(dir, 'r.html'), 'utf8');
     expect(html).not.toContain('<script');
     expect(html).not.toContain('<img');
-    expect(html).toContain('&lt;script&gt;alert(1)&lt;/script&gt; &quot;&gt;&lt;img src=x onerror=alert(2)&gt; &amp; &lt;/svg&gt;');
+    expect(html).toContain(
+      '&lt;script&gt;alert(1)&lt;/script&gt; &quot;&gt;&lt;img src=x onerror=alert(2)&gt; &amp; &lt;/svg&gt;',
+    );
   });
 });
 
@@ -262,7 +282,13 @@ describe('report and --figures: files and refusals', () => {
     const file = join(dir, 'taken.txt');
     writeFileSync(file, 'keep me');
     const outPath = join(dir, 'r.html');
-    const r = await runCli([command, 'samples/halpha-narrowband.yaml', '--figures', file, ...extra.map((a) => (a === 'OUT' ? outPath : a))]);
+    const r = await runCli([
+      command,
+      'samples/halpha-narrowband.yaml',
+      '--figures',
+      file,
+      ...extra.map((a) => (a === 'OUT' ? outPath : a)),
+    ]);
     expect(r.code).toBe(2);
     expect(r.stdout).toBe('');
     expect(r.stderr.trim().split('\n')).toHaveLength(1);
@@ -299,14 +325,24 @@ describe('report --format json: the results of every section in one document (sp
   const ajvAll = async () => {
     const { Ajv2020 } = await import('ajv/dist/2020.js');
     const ajv = new Ajv2020({ allErrors: true, strict: false });
-    for (const f of readdirSync('specs')) if (f.endsWith('.schema.json')) ajv.addSchema(JSON.parse(readFileSync(`specs/${f}`, 'utf8')), f);
+    for (const f of readdirSync('specs'))
+      if (f.endsWith('.schema.json')) ajv.addSchema(JSON.parse(readFileSync(`specs/${f}`, 'utf8')), f);
     return ajv.getSchema('report.schema.json')!;
   };
 
   test('valid against the schema; prediction and forecast equal to what predict and forecast print (failed before: report refused --format)', async () => {
     const validate = await ajvAll();
     const dir = tmp();
-    const r = await runCli(['report', 'samples/halpha-narrowband.yaml', '--format', 'json', '--mocks', '4', '--figures', dir]);
+    const r = await runCli([
+      'report',
+      'samples/halpha-narrowband.yaml',
+      '--format',
+      'json',
+      '--mocks',
+      '4',
+      '--figures',
+      dir,
+    ]);
     expect(r.code, r.stderr).toBe(0);
     const doc = JSON.parse(r.stdout);
     expect(validate(doc), JSON.stringify(validate.errors)).toBe(true);
@@ -314,7 +350,9 @@ describe('report --format json: the results of every section in one document (sp
     expect(doc.plan).toBeUndefined();
     const p = JSON.parse((await runCli(['predict', 'samples/halpha-narrowband.yaml', '--format', 'json'])).stdout);
     expect(doc.prediction).toEqual(p);
-    const f = JSON.parse((await runCli(['forecast', 'samples/halpha-narrowband.yaml', '--format', 'json', '--mocks', '4'])).stdout);
+    const f = JSON.parse(
+      (await runCli(['forecast', 'samples/halpha-narrowband.yaml', '--format', 'json', '--mocks', '4'])).stdout,
+    );
     expect(doc.forecast).toEqual(f);
     expect(doc.warnings).toEqual([]);
     // --figures still draws every figure

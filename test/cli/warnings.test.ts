@@ -27,9 +27,12 @@ function file(name: string, text: string): string {
 }
 
 /** The output schemas (every schema in specs/ but the two that describe input). */
-const OUTPUT_SCHEMAS = readdirSync('specs').filter((f) => f.endsWith('.schema.json') && f !== 'survey.schema.json' && f !== 'plan-section.schema.json');
+const OUTPUT_SCHEMAS = readdirSync('specs').filter(
+  (f) => f.endsWith('.schema.json') && f !== 'survey.schema.json' && f !== 'plan-section.schema.json',
+);
 const ajv = new Ajv2020({ allErrors: true, strict: false });
-for (const f of readdirSync('specs')) if (f.endsWith('.schema.json')) ajv.addSchema(JSON.parse(readFileSync(`specs/${f}`, 'utf8')), f);
+for (const f of readdirSync('specs'))
+  if (f.endsWith('.schema.json')) ajv.addSchema(JSON.parse(readFileSync(`specs/${f}`, 'utf8')), f);
 const validate = (schema: string, doc: unknown) => {
   const v = ajv.getSchema(schema)!;
   const ok = v(doc);
@@ -37,7 +40,10 @@ const validate = (schema: string, doc: unknown) => {
 };
 
 /** The H-alpha sample with `l_star: 43` in place of `log10_l_star: 42.3`: a log10 given linearly. */
-const LINEAR_LOG = file('linear-log.yaml', readFileSync('samples/halpha-narrowband.yaml', 'utf8').replace(/^(\s*)log10_l_star: 42\.3.*$/m, '$1l_star: 43'));
+const LINEAR_LOG = file(
+  'linear-log.yaml',
+  readFileSync('samples/halpha-narrowband.yaml', 'utf8').replace(/^(\s*)log10_l_star: 42\.3.*$/m, '$1l_star: 43'),
+);
 /** A UV search at z = 5.5-6.5 in a band at 8000 A: blueward of Lyman alpha there, no IGM key. */
 const BLUEWARD = file(
   'blueward.yaml',
@@ -85,14 +91,16 @@ describe('warnings on files made to trigger them', () => {
     expect((await runCli(['forecast', LINEAR_LOG])).code).toBe(2);
   });
 
-  test('M* given as an apparent magnitude: implausible_luminosity (within the loader\'s range), refused beyond it', async () => {
+  test("M* given as an apparent magnitude: implausible_luminosity (within the loader's range), refused beyond it", async () => {
     const text = readFileSync('samples/deep-continuum.yaml', 'utf8');
     expect(text).toMatch(/m_star: /);
     // the loader accepts m_star up to 10 (a physical range); -30 to -10 is plausible for galaxies
     const f = file('apparent.yaml', text.replace(/^(\s*)m_star: .*$/m, '$1m_star: 8.5'));
     const r = await runCli(['check', f, '--format', 'json']);
     expect(r.code).toBe(0);
-    expect((JSON.parse(r.stdout) as Any).warnings).toEqual([{ code: 'implausible_luminosity', message: expect.stringMatching(/M\* = 8\.5 .*apparent magnitude/) }]);
+    expect((JSON.parse(r.stdout) as Any).warnings).toEqual([
+      { code: 'implausible_luminosity', message: expect.stringMatching(/M\* = 8\.5 .*apparent magnitude/) },
+    ]);
     const g = file('apparent-far.yaml', text.replace(/^(\s*)m_star: .*$/m, '$1m_star: 24.5'));
     const refused = await runCli(['check', g, '--format', 'json']);
     expect(refused.code).toBe(2);
@@ -102,7 +110,10 @@ describe('warnings on files made to trigger them', () => {
   test('a plan whose best design sits at the edge of its exposure grid: optimum_at_grid_edge, and the optimum is not called sharp (failed before)', async () => {
     const base = sampleText('plan-uv-deep-wide.yaml');
     // the best of this sample lies near 2.3 h per pointing; a grid ending at 0.8 h cuts it off
-    const f = file('edge.yaml', base.replace(/exposure_grid: \{[^}]*\}/, 'exposure_grid: {min_hours: 0.1, max_hours: 0.8, count: 40}'));
+    const f = file(
+      'edge.yaml',
+      base.replace(/exposure_grid: \{[^}]*\}/, 'exposure_grid: {min_hours: 0.1, max_hours: 0.8, count: 40}'),
+    );
     const r = await runCli(['plan', f, '--format', 'json']);
     expect(r.code).toBe(0);
     const p = JSON.parse(r.stdout) as Any;
@@ -126,7 +137,18 @@ describe('warnings on files made to trigger them', () => {
     expect(validate('forecast.schema.json', fj)).toBe('valid');
     expect(fj.warnings).toEqual([w]);
     expect(f.stderr).toBe(`skytally: warning: ${w.message}\n`);
-    const c = JSON.parse((await runCli(['compare', 'samples/halpha-narrowband.yaml', BLUEWARD, '--format', 'json', '--no-cosmic-variance'])).stdout) as Any;
+    const c = JSON.parse(
+      (
+        await runCli([
+          'compare',
+          'samples/halpha-narrowband.yaml',
+          BLUEWARD,
+          '--format',
+          'json',
+          '--no-cosmic-variance',
+        ])
+      ).stdout,
+    ) as Any;
     expect(validate('compare.schema.json', c)).toBe('valid');
     expect(c.warnings).toEqual([{ code: w.code, message: `[2] ${w.message}` }]);
     expect((JSON.parse((await runCli(['check', BLUEWARD, '--format', 'json'])).stdout) as Any).warnings).toEqual([w]);
@@ -149,7 +171,10 @@ describe('warnings on files made to trigger them', () => {
 
   test('abundance matching held at a mass bound: bias_at_mass_bound (routed through the same mechanism)', async () => {
     // an invented population far denser than all haloes above 1e6 Msun provide
-    const text = readFileSync('samples/mass-limited.yaml', 'utf8').replace(/^(\s*)log10_phi_star: .*$/m, '$1log10_phi_star: 2.6');
+    const text = readFileSync('samples/mass-limited.yaml', 'utf8').replace(
+      /^(\s*)log10_phi_star: .*$/m,
+      '$1log10_phi_star: 2.6',
+    );
     expect(text).toMatch(/log10_phi_star: 2.6$/m);
     const f = file('dense.yaml', text);
     const r = await runCli(['predict', f, '--format', 'json']);

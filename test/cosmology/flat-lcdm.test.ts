@@ -128,12 +128,15 @@ describe('consistency between functions', () => {
       }
     },
   );
-  test.each(models.map((m) => ({ m, label: `Om=${m.omegaM}` })))('$label: D_L = (1+z)^2 D_A (exact, to rounding)', ({ m }) => {
-    for (const z of [0.001, 0.3, 2, 9]) {
-      const zp = 1 + z;
-      expect(rel(m.luminosityDistanceMpc(z), zp * zp * m.angularDiameterDistanceMpc(z))).toBeLessThan(1e-15);
-    }
-  });
+  test.each(models.map((m) => ({ m, label: `Om=${m.omegaM}` })))(
+    '$label: D_L = (1+z)^2 D_A (exact, to rounding)',
+    ({ m }) => {
+      for (const z of [0.001, 0.3, 2, 9]) {
+        const zp = 1 + z;
+        expect(rel(m.luminosityDistanceMpc(z), zp * zp * m.angularDiameterDistanceMpc(z))).toBeLessThan(1e-15);
+      }
+    },
+  );
   test.each(models.map((m) => ({ m, label: `Om=${m.omegaM}` })))(
     '$label: shells add up to the total volume; a thin shell matches dV/dz dz; D_C between = difference',
     ({ m }) => {
@@ -146,9 +149,9 @@ describe('consistency between functions', () => {
         const dz = 1e-4;
         const shell = m.comovingVolumeBetweenMpc3Sr(z - dz / 2, z + dz / 2);
         expect(rel(shell, m.volumeElementMpc3Sr(z) * dz)).toBeLessThan(1e-7);
-        expect(rel(m.comovingDistanceBetweenMpc(0.3, z), m.comovingDistanceMpc(z) - m.comovingDistanceMpc(0.3))).toBeLessThan(
-          1e-12,
-        );
+        expect(
+          rel(m.comovingDistanceBetweenMpc(0.3, z), m.comovingDistanceMpc(z) - m.comovingDistanceMpc(0.3)),
+        ).toBeLessThan(1e-12);
       }
       expect(m.comovingVolumeBetweenMpc3Sr(2, 1)).toBeCloseTo(-m.comovingVolumeBetweenMpc3Sr(1, 2), 6);
     },
@@ -177,18 +180,23 @@ describe('properties (fast-check)', () => {
   });
   test('distances and volume grow with z; age falls; the lookback time grows', () => {
     fc.assert(
-      fc.property(arbModel, fc.double({ min: 0, max: 30, noNaN: true }), fc.double({ min: 1e-6, max: 5, noNaN: true }), (p, z, dz) => {
-        const c = FlatCosmology.fromParams(p);
-        const z2 = z + dz;
-        return (
-          c.comovingDistanceMpc(z2) > c.comovingDistanceMpc(z) &&
-          c.luminosityDistanceMpc(z2) > c.luminosityDistanceMpc(z) &&
-          c.comovingVolumeMpc3(z2) > c.comovingVolumeMpc3(z) &&
-          c.ageGyr(z2) < c.ageGyr(z) &&
-          c.lookbackTimeGyr(z2) > c.lookbackTimeGyr(z) &&
-          c.comovingVolumeBetweenMpc3Sr(z, z2) > 0
-        );
-      }),
+      fc.property(
+        arbModel,
+        fc.double({ min: 0, max: 30, noNaN: true }),
+        fc.double({ min: 1e-6, max: 5, noNaN: true }),
+        (p, z, dz) => {
+          const c = FlatCosmology.fromParams(p);
+          const z2 = z + dz;
+          return (
+            c.comovingDistanceMpc(z2) > c.comovingDistanceMpc(z) &&
+            c.luminosityDistanceMpc(z2) > c.luminosityDistanceMpc(z) &&
+            c.comovingVolumeMpc3(z2) > c.comovingVolumeMpc3(z) &&
+            c.ageGyr(z2) < c.ageGyr(z) &&
+            c.lookbackTimeGyr(z2) > c.lookbackTimeGyr(z) &&
+            c.comovingVolumeBetweenMpc3Sr(z, z2) > 0
+          );
+        },
+      ),
       { numRuns: 300 },
     );
   });
@@ -214,6 +222,9 @@ describe('input validation (fromParams goes through the cosmology factory: one S
   });
   test('accepts the Cosmology type of src/model/cosmology.ts', () => {
     const c = new FlatCosmology({ h0: 70, omegaM: 0.3, omegaLambda: 0.7, omegaR: 0, tCmb: 0 });
-    expect(c.comovingDistanceMpc(1)).toBeCloseTo(FlatCosmology.fromParams({ h0: 70, omegaM: 0.3 }).comovingDistanceMpc(1), 9);
+    expect(c.comovingDistanceMpc(1)).toBeCloseTo(
+      FlatCosmology.fromParams({ h0: 70, omegaM: 0.3 }).comovingDistanceMpc(1),
+      9,
+    );
   });
 });

@@ -12,7 +12,12 @@ import { PRESETS } from '../../src/cosmology/presets.js';
 import { resolveCosmology } from '../../src/cosmology/parameters.js';
 
 const fixture = JSON.parse(readFileSync(new URL('../reference/distances.json', import.meta.url), 'utf8')) as {
-  cosmologies: { h0: number; omega_m: number; t_cmb: number; astropy: { Ogamma0: number; Onu0: number; Ode0: number } }[];
+  cosmologies: {
+    h0: number;
+    omega_m: number;
+    t_cmb: number;
+    astropy: { Ogamma0: number; Onu0: number; Ode0: number };
+  }[];
 };
 const planckLike = fixture.cosmologies.find((c) => c.h0 === 67.66 && c.t_cmb === 2.7255)!;
 
@@ -23,7 +28,9 @@ describe('resolveCosmology', () => {
     expect(Math.abs(c.omegaR - astropyOr) / astropyOr).toBeLessThan(1e-9);
     expect(c.omegaR).toBeGreaterThan(9.1e-5);
     expect(c.omegaR).toBeLessThan(9.2e-5);
-    expect(Math.abs(omegaPhotons(67.66, 2.7255) - planckLike.astropy.Ogamma0) / planckLike.astropy.Ogamma0).toBeLessThan(1e-9);
+    expect(
+      Math.abs(omegaPhotons(67.66, 2.7255) - planckLike.astropy.Ogamma0) / planckLike.astropy.Ogamma0,
+    ).toBeLessThan(1e-9);
   });
   test('omega_lambda = 1 - omega_m - omega_r (flat; matches astropy Ode0 to 1e-12)', () => {
     const c = resolveCosmology({ preset: 'planck2018' });
@@ -46,9 +53,15 @@ describe('resolveCosmology', () => {
     expect(m.comovingDistanceMpc(1)).toBeGreaterThan(3000);
   });
   test('an unknown preset or a missing h0 / omega_m throws', () => {
-    expect(() => resolveCosmology({ preset: 'nope' })).toThrow(expect.objectContaining({ code: 'out_of_range', keyPath: 'cosmology.preset' }));
-    expect(() => resolveCosmology({ omegaM: 0.3 })).toThrow(expect.objectContaining({ code: 'missing_key', keyPath: 'cosmology.h0' }));
-    expect(() => resolveCosmology({ h0: 70 })).toThrow(expect.objectContaining({ code: 'missing_key', keyPath: 'cosmology.omega_m' }));
+    expect(() => resolveCosmology({ preset: 'nope' })).toThrow(
+      expect.objectContaining({ code: 'out_of_range', keyPath: 'cosmology.preset' }),
+    );
+    expect(() => resolveCosmology({ omegaM: 0.3 })).toThrow(
+      expect.objectContaining({ code: 'missing_key', keyPath: 'cosmology.h0' }),
+    );
+    expect(() => resolveCosmology({ h0: 70 })).toThrow(
+      expect.objectContaining({ code: 'missing_key', keyPath: 'cosmology.omega_m' }),
+    );
   });
 });
 

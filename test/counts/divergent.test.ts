@@ -31,16 +31,19 @@ const survey = (alpha: number, zmin = 0, kind: 'line_flux' | 'magnitude' = 'line
   );
 
 describe('divergent counts', () => {
-  test.each(['line_flux', 'magnitude'] as const)('%s: alpha = -2.6 from z = 0 is refused with code divergent', (kind) => {
-    try {
-      predict(survey(-2.6, 0, kind));
-      expect.unreachable('should have thrown');
-    } catch (e) {
-      expect(e).toBeInstanceOf(SurveyError);
-      expect((e as SurveyError).code).toBe('divergent');
-      expect((e as SurveyError).keyPath).toBe('redshift.min');
-    }
-  });
+  test.each(['line_flux', 'magnitude'] as const)(
+    '%s: alpha = -2.6 from z = 0 is refused with code divergent',
+    (kind) => {
+      try {
+        predict(survey(-2.6, 0, kind));
+        expect.unreachable('should have thrown');
+      } catch (e) {
+        expect(e).toBeInstanceOf(SurveyError);
+        expect((e as SurveyError).code).toBe('divergent');
+        expect((e as SurveyError).keyPath).toBe('redshift.min');
+      }
+    },
+  );
   test('alpha = -2.6 from z = 0.01 and alpha = -2.4 from z = 0 give finite counts', () => {
     expect(Number.isFinite(predict(survey(-2.6, 0.01)).totals.count)).toBe(true);
     const p = predict(survey(-2.4, 0));

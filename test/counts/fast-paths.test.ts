@@ -16,7 +16,13 @@ import { createLinearPower } from '../../src/uncertainty/power-spectrum.js';
 import { createHaloModel } from '../../src/uncertainty/haloes.js';
 import { boxSigma } from '../../src/uncertainty/window.js';
 import { gaussLegendre } from '../../src/numerics/quadrature.js';
-import { HALO_MASSES, HALO_REDSHIFTS, MATCH_DENSITIES, haloAndBoxRecords, recordedCases } from '../fixtures/record-predictions.js';
+import {
+  HALO_MASSES,
+  HALO_REDSHIFTS,
+  MATCH_DENSITIES,
+  haloAndBoxRecords,
+  recordedCases,
+} from '../fixtures/record-predictions.js';
 
 const fixture = JSON.parse(readFileSync('test/fixtures/predictions-before-tables.json', 'utf8')) as {
   header: { commit: string };
@@ -35,7 +41,12 @@ const REL_HALO_MASS = 3e-9;
 /** Fields added to the outputs after the fixture was recorded (not numbers of the earlier code): the model's selection statement, k-correction and magnitude system. */
 const ADDED_SINCE = new Set(['selection', 'k_correction', 'magnitude_system']);
 /** Warning codes added after the fixture was recorded (src/selection/warnings.ts): left out of the comparison. */
-const CODES_ADDED_SINCE = new Set(['rest_wavelength_default_far_from_band', 'window_beyond_valid_redshift', 'igm_not_stated', 'phi_star_per_dex']);
+const CODES_ADDED_SINCE = new Set([
+  'rest_wavelength_default_far_from_band',
+  'window_beyond_valid_redshift',
+  'igm_not_stated',
+  'phi_star_per_dex',
+]);
 /**
  * Samples that now give the standard normalisation (log10_phi_star) where they gave the per-dex form
  * (the same phi* to 1e-15, so every number is compared as before); only the text of phi* as given differs.
@@ -48,7 +59,8 @@ function differences(got: unknown, want: unknown, path: string, out: string[]): 
   if (typeof want === 'number' && typeof got === 'number') {
     const scale = Math.max(Math.abs(want), Math.abs(got));
     const rel = path.endsWith('.halo_mass_min_msun') ? REL_HALO_MASS : REL;
-    if (!(Math.abs(got - want) <= rel * scale)) out.push(`${path}: ${got} against ${want} (${((got - want) / want).toExponential(2)})`);
+    if (!(Math.abs(got - want) <= rel * scale))
+      out.push(`${path}: ${got} against ${want} (${((got - want) / want).toExponential(2)})`);
     return;
   }
   if (Array.isArray(want) && Array.isArray(got)) {
@@ -62,7 +74,8 @@ function differences(got: unknown, want: unknown, path: string, out: string[]): 
       .sort();
     const wk = Object.keys(want).sort();
     if (gk.join() !== wk.join()) out.push(`${path}: keys ${gk.join()} against ${wk.join()}`);
-    for (const k of wk) differences((got as Record<string, unknown>)[k], (want as Record<string, unknown>)[k], `${path}.${k}`, out);
+    for (const k of wk)
+      differences((got as Record<string, unknown>)[k], (want as Record<string, unknown>)[k], `${path}.${k}`, out);
     return;
   }
   if (got !== want) out.push(`${path}: ${JSON.stringify(got)} against ${JSON.stringify(want)}`);
@@ -73,14 +86,19 @@ describe(`fast paths equal the earlier code (fixture from ${fixture.header.commi
   test('the fixture holds every case the recorder lists', () => {
     expect(Object.keys(fixture.predictions).sort()).toEqual(cases.map((c) => c.name).sort());
   });
-  test.each(cases.map((c) => [c.name, c] as const))('predict %s: counts, histograms, densities, uncertainties', (name, c) => {
-    const got = JSON.parse(JSON.stringify(predict(loadSurveyText(c.text, c.file, dirname(c.file)), { model: { draws: 0 } }))) as { warnings: { code: string }[] };
-    got.warnings = got.warnings.filter((w) => !CODES_ADDED_SINCE.has(w.code));
-    const out: string[] = [];
-    differences(got, fixture.predictions[name], name, out);
-    const rewritten = REWRITTEN_NORMALISATION.some((f) => c.file.endsWith(f));
-    expect(out.filter((d) => !(rewritten && /\.phi_star_mpc3\.given: /.test(d))).slice(0, 20)).toEqual([]);
-  });
+  test.each(cases.map((c) => [c.name, c] as const))(
+    'predict %s: counts, histograms, densities, uncertainties',
+    (name, c) => {
+      const got = JSON.parse(
+        JSON.stringify(predict(loadSurveyText(c.text, c.file, dirname(c.file)), { model: { draws: 0 } })),
+      ) as { warnings: { code: string }[] };
+      got.warnings = got.warnings.filter((w) => !CODES_ADDED_SINCE.has(w.code));
+      const out: string[] = [];
+      differences(got, fixture.predictions[name], name, out);
+      const rewritten = REWRITTEN_NORMALISATION.some((f) => c.file.endsWith(f));
+      expect(out.filter((d) => !(rewritten && /\.phi_star_mpc3\.given: /.test(d))).slice(0, 20)).toEqual([]);
+    },
+  );
   test('box variance on a grid of boxes and redshifts, both transfer-function forms', () => {
     const got = haloAndBoxRecords();
     const out: string[] = [];
@@ -93,7 +111,11 @@ describe(`fast paths equal the earlier code (fixture from ${fixture.header.commi
 describe('halo abundances from the per-redshift tables (fixture, and a fine Gauss-Legendre quadrature of the same integrand)', () => {
   const power = createLinearPower(resolveCosmology({ preset: 'planck2018' }));
   const haloes = createHaloModel(power);
-  const got = haloAndBoxRecords() as { haloDensityAboveMpc3: number[][]; effectiveBiasAbove: number[][]; matchHaloMass: ({ haloMassMinMsun: number; bias: number } | string)[][] };
+  const got = haloAndBoxRecords() as {
+    haloDensityAboveMpc3: number[][];
+    effectiveBiasAbove: number[][];
+    matchHaloMass: ({ haloMassMinMsun: number; bias: number } | string)[][];
+  };
   const old = fixture.functions as typeof got;
   /**
    * n(>M) and the bias-weighted integral by 20-point Gauss-Legendre on 32 panels per knot interval
@@ -113,7 +135,12 @@ describe('halo abundances from the per-redshift tables (fixture, and a fine Gaus
         const a = knots[i]! + ((knots[i + 1]! - knots[i]!) * k) / 32;
         const b = knots[i]! + ((knots[i + 1]! - knots[i]!) * (k + 1)) / 32;
         pn += gaussLegendre((l) => haloes.massFunctionPerLnM(Math.exp(l), z), a, b, 20);
-        nb += gaussLegendre((l) => haloes.massFunctionPerLnM(Math.exp(l), z) * haloes.haloBias(Math.exp(l), z), a, b, 20);
+        nb += gaussLegendre(
+          (l) => haloes.massFunctionPerLnM(Math.exp(l), z) * haloes.haloBias(Math.exp(l), z),
+          a,
+          b,
+          20,
+        );
       }
       n += pn;
       if (pn <= 1e-18 * n) break;
@@ -130,10 +157,13 @@ describe('halo abundances from the per-redshift tables (fixture, and a fine Gaus
         const n0 = old.haloDensityAboveMpc3[i]![j]!;
         const b0 = old.effectiveBiasAbove[i]![j]!;
         if (!(Math.abs(n - ref.n) <= 1e-12 * ref.n)) out.push(`n(>${m}, z=${z}) = ${n} against fine ${ref.n}`);
-        if (!(Math.abs(b - ref.nb / ref.n) <= 1e-12 * b)) out.push(`b(>${m}, z=${z}) = ${b} against fine ${ref.nb / ref.n}`);
+        if (!(Math.abs(b - ref.nb / ref.n) <= 1e-12 * b))
+          out.push(`b(>${m}, z=${z}) = ${b} against fine ${ref.nb / ref.n}`);
         // the earlier code's 0.25-wide panels lose accuracy where the abundance falls steeply (near 1e16 Msun)
-        if (!(Math.abs(n - n0) <= 1e-9 * n0 + Math.abs(n0 - ref.n))) out.push(`n(>${m}, z=${z}) = ${n} against earlier ${n0}`);
-        if (!(Math.abs(b - b0) <= 1e-9 * b0 + Math.abs(b0 - ref.nb / ref.n))) out.push(`b(>${m}, z=${z}) = ${b} against earlier ${b0}`);
+        if (!(Math.abs(n - n0) <= 1e-9 * n0 + Math.abs(n0 - ref.n)))
+          out.push(`n(>${m}, z=${z}) = ${n} against earlier ${n0}`);
+        if (!(Math.abs(b - b0) <= 1e-9 * b0 + Math.abs(b0 - ref.nb / ref.n)))
+          out.push(`b(>${m}, z=${z}) = ${b} against earlier ${b0}`);
       }),
     );
     expect(out).toEqual([]);
@@ -145,14 +175,19 @@ describe('halo abundances from the per-redshift tables (fixture, and a fine Gaus
         const r = got.matchHaloMass[i]![j]!;
         const r0 = old.matchHaloMass[i]![j]!;
         if (typeof r === 'string' || typeof r0 === 'string') {
-          if (r !== r0) out.push(`match ${density} at z=${z}: ${JSON.stringify(r)} against earlier ${JSON.stringify(r0)}`);
+          if (r !== r0)
+            out.push(`match ${density} at z=${z}: ${JSON.stringify(r)} against earlier ${JSON.stringify(r0)}`);
           return;
         }
         const ref = reference(r.haloMassMinMsun, z);
-        if (!(Math.abs(ref.n - density / 0.7) <= 1e-12 * ref.n)) out.push(`match ${density} at z=${z}: n(>M) = ${ref.n}`);
-        if (!(Math.abs(r.bias - ref.nb / ref.n) <= 1e-12 * r.bias)) out.push(`match ${density} at z=${z}: bias ${r.bias} against ${ref.nb / ref.n}`);
-        if (!(Math.abs(r.haloMassMinMsun - r0.haloMassMinMsun) <= REL_HALO_MASS * r0.haloMassMinMsun)) out.push(`match ${density} at z=${z}: M ${r.haloMassMinMsun} against earlier ${r0.haloMassMinMsun}`);
-        if (!(Math.abs(r.bias - r0.bias) <= REL * r0.bias)) out.push(`match ${density} at z=${z}: bias ${r.bias} against earlier ${r0.bias}`);
+        if (!(Math.abs(ref.n - density / 0.7) <= 1e-12 * ref.n))
+          out.push(`match ${density} at z=${z}: n(>M) = ${ref.n}`);
+        if (!(Math.abs(r.bias - ref.nb / ref.n) <= 1e-12 * r.bias))
+          out.push(`match ${density} at z=${z}: bias ${r.bias} against ${ref.nb / ref.n}`);
+        if (!(Math.abs(r.haloMassMinMsun - r0.haloMassMinMsun) <= REL_HALO_MASS * r0.haloMassMinMsun))
+          out.push(`match ${density} at z=${z}: M ${r.haloMassMinMsun} against earlier ${r0.haloMassMinMsun}`);
+        if (!(Math.abs(r.bias - r0.bias) <= REL * r0.bias))
+          out.push(`match ${density} at z=${z}: bias ${r.bias} against earlier ${r0.bias}`);
       }),
     );
     expect(out).toEqual([]);
@@ -162,7 +197,10 @@ describe('halo abundances from the per-redshift tables (fixture, and a fine Gaus
 describe('what is kept from call to call gives what a fresh computation gives', () => {
   test('a box variance read back equals one computed with explicitly default rules (not kept), at any z', () => {
     const power = createLinearPower(resolveCosmology({ preset: 'planck2018' }));
-    for (const sides of [[40, 40, 7], [12, 30, 400]] as [number, number, number][]) {
+    for (const sides of [
+      [40, 40, 7],
+      [12, 30, 400],
+    ] as [number, number, number][]) {
       const first = boxSigma(power, 0.7, sides);
       expect(boxSigma(power, 0.7, [...sides].reverse())).toBe(first);
       const fresh = boxSigma(power, 2.4, sides, { lobes: 4 });

@@ -22,17 +22,29 @@ const DIR = 'test/reference/surveys-model';
 const REF = JSON.parse(readFileSync('test/reference/model_uncertainty.json', 'utf8')) as Reference;
 const KEYS = ['p2_5', 'p16', 'p50', 'p84', 'p97_5'] as const;
 type Key = (typeof KEYS)[number];
-type Pct = Record<Key, number> & { fraction: number; standard_error?: Record<Key, number>; se_1000?: Record<Key, number> };
+type Pct = Record<Key, number> & {
+  fraction: number;
+  standard_error?: Record<Key, number>;
+  se_1000?: Record<Key, number>;
+};
 interface Case {
   file: string;
   yaml: string;
   plain: { slices: number[]; total: number };
   model: { slices: Pct[]; total: Pct; draws: number | string };
-  one_parameter?: { parameter: string; sigma: number; slices: Pct[]; total: Pct & { mean: number; variance: number } }[];
+  one_parameter?: {
+    parameter: string;
+    sigma: number;
+    slices: Pct[];
+    total: Pct & { mean: number; variance: number };
+  }[];
 }
 interface Reference {
   surveys: Case[];
-  correlation_limits: { file: string; rows: { parameters: string[]; sigmas: number[]; correlation: number; slices: Pct[]; total: Pct }[] }[];
+  correlation_limits: {
+    file: string;
+    rows: { parameters: string[]; sigmas: number[]; correlation: number; slices: Pct[]; total: Pct }[];
+  }[];
 }
 
 const caseOf = (file: string) => REF.surveys.find((c) => c.file === file)!;
@@ -102,7 +114,9 @@ describe('exact cases', () => {
   });
 
   const DRAWS = 4000;
-  const oneParameter = caseOf('line-correlated.yaml').one_parameter!.concat(caseOf('uv-magnitude.yaml').one_parameter!.map((r) => ({ ...r, file: 'uv-magnitude.yaml' })) as never[]);
+  const oneParameter = caseOf('line-correlated.yaml').one_parameter!.concat(
+    caseOf('uv-magnitude.yaml').one_parameter!.map((r) => ({ ...r, file: 'uv-magnitude.yaml' })),
+  );
   test.each(oneParameter.map((r) => [(r as { file?: string }).file ?? 'line-correlated.yaml', r] as const))(
     'one parameter alone (%s): exact percentiles and the Gauss-Hermite mean',
     (file, r) => {
@@ -111,8 +125,17 @@ describe('exact cases', () => {
       const t = p.totals.model!;
       // the mean of the same draws against 40-node Gauss-Hermite quadrature: 4 standard errors sqrt(variance / N)
       const pop = survey.populations[0]!;
-      const own = countPopulation(survey, pop, new FlatCosmology(survey.cosmology), pop.sliceEdges, { drawNodes: true });
-      const d = populationDraws(survey, pop, new FlatCosmology(survey.cosmology), own, drawModelOffsets(pop.modelUncertainty!, 1, DRAWS, 7, 0), { luminosity: false, histogramDraws: 0 });
+      const own = countPopulation(survey, pop, new FlatCosmology(survey.cosmology), pop.sliceEdges, {
+        drawNodes: true,
+      });
+      const d = populationDraws(
+        survey,
+        pop,
+        new FlatCosmology(survey.cosmology),
+        own,
+        drawModelOffsets(pop.modelUncertainty!, 1, DRAWS, 7, 0),
+        { luminosity: false, histogramDraws: 0 },
+      );
       let mean = 0;
       for (let i = 0; i < DRAWS; i++) for (const c of d.counts) mean += c[i]! / DRAWS;
       expect(Math.abs(mean - r.total.mean)).toBeLessThanOrEqual(4 * Math.sqrt(r.total.variance / DRAWS));
@@ -123,16 +146,23 @@ describe('exact cases', () => {
     },
   );
 
-  test.each(REF.correlation_limits.flatMap((c) => c.rows.map((r) => [c.file, r.correlation, r] as const)))('correlation limit %s %d', (file, rho, r) => {
-    // rho = +-(1 - 1e-9): positive definite, within far less than any Monte Carlo error of +-1
-    const block = { [r.parameters[0]!]: r.sigmas[0], [r.parameters[1]!]: r.sigmas[1], correlation: { [`${r.parameters[0]}-${r.parameters[1]}`]: rho * (1 - 1e-9) } };
-    const p = predict(withUncertainty(file, block), { model: { draws: DRAWS, seed: 3 } });
-    const t = p.totals.model!;
-    for (const k of KEYS) {
-      const se = r.total.se_1000![k] * Math.sqrt(1000 / DRAWS);
-      expect(Math.abs(t[k] - r.total[k]), `${k}`).toBeLessThanOrEqual(4 * se);
-    }
-  });
+  test.each(REF.correlation_limits.flatMap((c) => c.rows.map((r) => [c.file, r.correlation, r] as const)))(
+    'correlation limit %s %d',
+    (file, rho, r) => {
+      // rho = +-(1 - 1e-9): positive definite, within far less than any Monte Carlo error of +-1
+      const block = {
+        [r.parameters[0]!]: r.sigmas[0],
+        [r.parameters[1]!]: r.sigmas[1],
+        correlation: { [`${r.parameters[0]}-${r.parameters[1]}`]: rho * (1 - 1e-9) },
+      };
+      const p = predict(withUncertainty(file, block), { model: { draws: DRAWS, seed: 3 } });
+      const t = p.totals.model!;
+      for (const k of KEYS) {
+        const se = r.total.se_1000![k] * Math.sqrt(1000 / DRAWS);
+        expect(Math.abs(t[k] - r.total[k]), `${k}`).toBeLessThanOrEqual(4 * se);
+      }
+    },
+  );
 });
 
 describe('determinism and properties', () => {
@@ -159,7 +189,12 @@ describe('determinism and properties', () => {
         fc.double({ min: -0.9, max: 0.9, noNaN: true }),
         fc.double({ min: 0.01, max: 50, noNaN: true }),
         (sp, sl, sa, rho, area) => {
-          const block = { log10_phi_star: sp, log10_l_star: sl, alpha: sa, correlation: { 'log10_phi_star-alpha': rho } };
+          const block = {
+            log10_phi_star: sp,
+            log10_l_star: sl,
+            alpha: sa,
+            correlation: { 'log10_phi_star-alpha': rho },
+          };
           const obj = parse(caseOf('line-correlated.yaml').yaml) as Record<string, Record<string, unknown>>;
           obj.population!.model_uncertainty = block;
           const one = predict(parseSurveyObject({ ...obj, area: 1 }, file), { model: { draws: 40, seed: 5 } });
@@ -191,8 +226,12 @@ describe('a draw counts as the engine does at the same offsets (hard limits, com
     const variants = [obj];
     if (file.includes('deep-continuum')) {
       // the same field with a logistic completeness, two slices (keeps the test short)
-      variants.push({ ...obj, detection: { ...obj.detection, completeness: { model: 'logistic', half: 28.9, width: 0.2 } }, slices: { count: 2 } } as typeof obj);
-      variants[0] = { ...obj, slices: { count: 2 } } as typeof obj;
+      variants.push({
+        ...obj,
+        detection: { ...obj.detection, completeness: { model: 'logistic', half: 28.9, width: 0.2 } },
+        slices: { count: 2 },
+      });
+      variants[0] = { ...obj, slices: { count: 2 } };
     }
     for (const v of variants) {
       const survey = parseSurveyObject(v, file);
@@ -200,9 +239,15 @@ describe('a draw counts as the engine does at the same offsets (hard limits, com
       const cosmo = new FlatCosmology(survey.cosmology);
       const own = countPopulation(survey, pop, cosmo, pop.sliceEdges, { drawNodes: true });
       const k = pop.components.length;
-      const o = { log10PhiStar: new Array<number>(k).fill(0.07), alpha: new Array<number>(k).fill(-0.06), characteristic: pop.variable === 'luminosity' ? 0.05 : -0.12 };
+      const o = {
+        log10PhiStar: new Array<number>(k).fill(0.07),
+        alpha: new Array<number>(k).fill(-0.06),
+        characteristic: pop.variable === 'luminosity' ? 0.05 : -0.12,
+      };
       const d = populationDraws(survey, pop, cosmo, own, [o], { luminosity: true, histogramDraws: 1 });
-      const engine = countPopulation(survey, pop, cosmo, pop.sliceEdges, { offsets: { log10PhiStar: 0.07, alpha: -0.06, characteristic: o.characteristic } });
+      const engine = countPopulation(survey, pop, cosmo, pop.sliceEdges, {
+        offsets: { log10PhiStar: 0.07, alpha: -0.06, characteristic: o.characteristic },
+      });
       // The engine places its redshift nodes for the parameters it counts (converged to 1e-8 of
       // each piece); a draw keeps the plain prediction's. With a limit fixed in obs both sets agree
       // to 1e-9; a threshold limit tabulated in z cuts the pieces where it crosses bin edges, which
@@ -214,7 +259,9 @@ describe('a draw counts as the engine does at the same offsets (hard limits, com
         // the histogram on the plain bins (the engine's own grid may start a bin earlier or later)
         const h = d.histograms![j]!;
         const plain = own[j]!.histogram;
-        const off = Math.round(sl.histogram.edges[0]! / survey.histogramWidth) - Math.round(plain.edges[0]! / survey.histogramWidth);
+        const off =
+          Math.round(sl.histogram.edges[0]! / survey.histogramWidth) -
+          Math.round(plain.edges[0]! / survey.histogramWidth);
         h.bins.forEach((b, i) => {
           const want = sl.histogram.counts[i - off];
           if (want !== undefined) expect(Math.abs(b[0]! - want) / sl.count, `bin ${i}`).toBeLessThan(tol);

@@ -34,7 +34,10 @@ interface RefCase {
     grand_total: number;
   };
 }
-const REF = JSON.parse(readFileSync(new URL('../reference/selection.json', import.meta.url), 'utf8')) as { surveys: RefCase[]; zero_effect: RefCase[] };
+const REF = JSON.parse(readFileSync(new URL('../reference/selection.json', import.meta.url), 'utf8')) as {
+  surveys: RefCase[];
+  zero_effect: RefCase[];
+};
 const refCase = (file: string): RefCase => [...REF.surveys, ...REF.zero_effect].find((c) => c.file === file)!;
 const REL = 1e-8;
 const rel = (a: number, b: number): number => Math.abs(a - b) / Math.abs(b);
@@ -86,10 +89,15 @@ describe('photometric redshifts against selection.json (scipy quad)', () => {
     expect(m.reach_sigma).toBe(6);
     expect(m.true_range.min).toBeCloseTo(ref.true_range[0], 12);
     expect(m.true_range.max).toBeCloseTo(ref.true_range[1], 12);
-    expect(m.true_bins.map((b) => [b.z_min, b.z_max])).toEqual(ref.true_bins.map(([a, b]) => [expect.closeTo(a, 12), expect.closeTo(b, 12)]));
+    expect(m.true_bins.map((b) => [b.z_min, b.z_max])).toEqual(
+      ref.true_bins.map(([a, b]) => [expect.closeTo(a, 12), expect.closeTo(b, 12)]),
+    );
     // an unbounded end (null in the fixture) is absent
     expect(m.measured_bins.map((b) => [b.z_min ?? null, b.z_max ?? null])).toEqual(
-      ref.measured_bins.map(([a, b]) => [a === null ? null : expect.closeTo(a, 12), b === null ? null : expect.closeTo(b, 12)]),
+      ref.measured_bins.map(([a, b]) => [
+        a === null ? null : expect.closeTo(a, 12),
+        b === null ? null : expect.closeTo(b, 12),
+      ]),
     );
     expect(Object.keys(m.measured_bins[0]!)).toEqual(['z_max']);
     const grand = ref.grand_total;
@@ -103,7 +111,12 @@ describe('photometric redshifts against selection.json (scipy quad)', () => {
     );
     ref.true_counts.forEach((t, i) => expect(rel(m.true_counts[i]!, t), `true ${i}`).toBeLessThan(REL));
     ref.measured_counts.forEach((t, i) => expect(rel(m.measured_counts[i]!, t), `measured ${i}`).toBeLessThan(REL));
-    expect(rel(m.true_counts.reduce((a, x) => a + x, 0), grand)).toBeLessThan(REL);
+    expect(
+      rel(
+        m.true_counts.reduce((a, x) => a + x, 0),
+        grand,
+      ),
+    ).toBeLessThan(REL);
   });
 
   test('the migration matrix conserves the total; slices hold the inner columns and rows', () => {
@@ -167,7 +180,9 @@ describe('limits', () => {
     const f = 0.12;
     const plainYaml = refCase('zero-plain-magnitude.yaml').yaml;
     const plain = slicesOf(run(plainYaml));
-    const p = run(plainYaml.replace('  completeness:', `  photo_z: {sigma: 0, outlier_fraction: ${f}}\n  completeness:`));
+    const p = run(
+      plainYaml.replace('  completeness:', `  photo_z: {sigma: 0, outlier_fraction: ${f}}\n  completeness:`),
+    );
     const all = plain.reduce((a, s) => a + s.count, 0);
     const [zmin, zmax] = [plain[0]!.z_min, plain[plain.length - 1]!.z_max];
     slicesOf(p).forEach((s, i) => {
@@ -216,16 +231,24 @@ slices: {count: 4}
 
 describe('several populations and the threshold kind', () => {
   test('two populations: the top-level migration is the sum of theirs', () => {
-    const yaml = BASE.replace(/population:[\s\S]*slices:/, `populations:
+    const yaml = BASE.replace(
+      /population:[\s\S]*slices:/,
+      `populations:
   - {name: red, variable: magnitude, log10_phi_star: -3.1, m_star: -21.5, alpha: -0.6, rest_wavelength: 4000}
   - {name: blue, variable: magnitude, log10_phi_star: -2.8, m_star: -20.9, alpha: -1.3, rest_wavelength: 4000}
-slices:`);
+slices:`,
+    );
     const p = run(yaml);
     const [a, b] = p.populations.map((q) => q.photo_z!);
     expectConserved(p.photo_z!);
-    p.photo_z!.migration_matrix.forEach((row, i) => row.forEach((x, j) => expect(x).toBeCloseTo(a!.migration_matrix[i]![j]! + b!.migration_matrix[i]![j]!, 6)));
+    p.photo_z!.migration_matrix.forEach((row, i) =>
+      row.forEach((x, j) => expect(x).toBeCloseTo(a!.migration_matrix[i]![j]! + b!.migration_matrix[i]![j]!, 6)),
+    );
     slicesOf(p).forEach((s, i) => {
-      expect(s.count_true_redshift).toBeCloseTo(p.populations[0]!.slices[i]!.count_true_redshift! + p.populations[1]!.slices[i]!.count_true_redshift!, 6);
+      expect(s.count_true_redshift).toBeCloseTo(
+        p.populations[0]!.slices[i]!.count_true_redshift! + p.populations[1]!.slices[i]!.count_true_redshift!,
+        6,
+      );
       expect(s.count).toBeCloseTo(p.populations[0]!.slices[i]!.count + p.populations[1]!.slices[i]!.count, 6);
     });
   });
@@ -265,10 +288,25 @@ describe('refused input', () => {
   test.each([
     ['negative sigma', BASE.replace('sigma: 0.05', 'sigma: -0.01'), 'out_of_range', 'detection.photo_z.sigma'],
     ['sigma above 0.15', BASE.replace('sigma: 0.05', 'sigma: 0.2'), 'out_of_range', 'detection.photo_z.sigma'],
-    ['outlier fraction 1', BASE.replace('outlier_fraction: 0.02', 'outlier_fraction: 1'), 'out_of_range', 'detection.photo_z.outlier_fraction'],
+    [
+      'outlier fraction 1',
+      BASE.replace('outlier_fraction: 0.02', 'outlier_fraction: 1'),
+      'out_of_range',
+      'detection.photo_z.outlier_fraction',
+    ],
     ['slices narrower than sigma (1 + z) / 2', BASE.replace('count: 4', 'count: 30'), 'bad_slices', 'slices'],
-    ['true range beyond z = 30', BASE.replace('max: 1.5', 'max: 25').replace('sigma: 0.05', 'sigma: 0.15').replace('count: 4', 'count: 2'), 'out_of_range', 'detection.photo_z.sigma'],
-    ['an expression without value over the true range', BASE.replace('m_star: -21.3', 'm_star: "-21.3 + sqrt(1.55 - z)"'), 'bad_expression', 'population.m_star'],
+    [
+      'true range beyond z = 30',
+      BASE.replace('max: 1.5', 'max: 25').replace('sigma: 0.05', 'sigma: 0.15').replace('count: 4', 'count: 2'),
+      'out_of_range',
+      'detection.photo_z.sigma',
+    ],
+    [
+      'an expression without value over the true range',
+      BASE.replace('m_star: -21.3', 'm_star: "-21.3 + sqrt(1.55 - z)"'),
+      'bad_expression',
+      'population.m_star',
+    ],
   ])('%s', (_what, yaml, code, key) => {
     expect(codeOf(yaml)).toEqual({ code, key });
   });
@@ -292,7 +330,10 @@ population: {variable: luminosity, log10_phi_star: -2.7, log10_l_star: 42.1, alp
     } catch (e) {
       expect((e as SurveyError).code).toBe('conflict');
     }
-    const exact = loadSurveyText(BASE.replace('photo_z: {sigma: 0.05, outlier_fraction: 0.02}', 'photo_z: {sigma: 0, outlier_fraction: 0}'), 'b.yaml');
+    const exact = loadSurveyText(
+      BASE.replace('photo_z: {sigma: 0.05, outlier_fraction: 0.02}', 'photo_z: {sigma: 0, outlier_fraction: 0}'),
+      'b.yaml',
+    );
     expect(choosePopulation(exact).name).toBe('population');
   });
 });

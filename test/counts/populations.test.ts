@@ -105,14 +105,27 @@ describe('top-level totals: everything detected, each population over its own wi
     expect(p.redshift.min).toBe(p.populations[0]!.window.min);
     expect(p.redshift.max).toBe(p.populations[1]!.window.max);
     // the volume is that of the two windows together (they do not overlap)
-    expect(rel(p.totals.volume_mpc3, p.populations[0]!.totals.volume_mpc3 + p.populations[1]!.totals.volume_mpc3)).toBeLessThan(1e-9);
+    expect(
+      rel(p.totals.volume_mpc3, p.populations[0]!.totals.volume_mpc3 + p.populations[1]!.totals.volume_mpc3),
+    ).toBeLessThan(1e-9);
   });
   test('observed_bins: each population sums to its total, the bins to the total; shares sum to 1 where a bin holds sources', () => {
     const o = p.observed_bins;
     expect(o.variable).toBe('log10_line_flux');
     expect(o.width).toBe(0.1);
-    for (const q of p.populations) expect(rel(o.bins.reduce((a, b) => a + b.populations[q.name]!.count, 0), q.totals.count)).toBeLessThan(1e-12);
-    expect(rel(o.bins.reduce((a, b) => a + b.count, 0), p.totals.count)).toBeLessThan(1e-12);
+    for (const q of p.populations)
+      expect(
+        rel(
+          o.bins.reduce((a, b) => a + b.populations[q.name]!.count, 0),
+          q.totals.count,
+        ),
+      ).toBeLessThan(1e-12);
+    expect(
+      rel(
+        o.bins.reduce((a, b) => a + b.count, 0),
+        p.totals.count,
+      ),
+    ).toBeLessThan(1e-12);
     for (const b of o.bins) {
       expect(b.max - b.min).toBeCloseTo(0.1, 9);
       expect(b.per_deg2).toBeCloseTo(b.count / p.area_deg2, 12);
@@ -141,11 +154,24 @@ slices: {count: 4}
     const slices = q.slices!;
     expect(slices).toHaveLength(4);
     slices.forEach((s, i) => {
-      expect(s.population_counts).toEqual({ 'star-forming': q.populations[0]!.slices[i]!.count, quiescent: q.populations[1]!.slices[i]!.count });
+      expect(s.population_counts).toEqual({
+        'star-forming': q.populations[0]!.slices[i]!.count,
+        quiescent: q.populations[1]!.slices[i]!.count,
+      });
       expect(rel(s.count, q.populations[0]!.slices[i]!.count + q.populations[1]!.slices[i]!.count)).toBeLessThan(1e-12);
-      expect(rel(s.histogram.counts.reduce((a, c) => a + c, 0), s.count)).toBeLessThan(1e-9);
+      expect(
+        rel(
+          s.histogram.counts.reduce((a, c) => a + c, 0),
+          s.count,
+        ),
+      ).toBeLessThan(1e-9);
     });
-    expect(rel(slices.reduce((a, s) => a + s.count, 0), q.totals.count)).toBeLessThan(1e-12);
+    expect(
+      rel(
+        slices.reduce((a, s) => a + s.count, 0),
+        q.totals.count,
+      ),
+    ).toBeLessThan(1e-12);
     expect(rel(q.totals.count, q.populations[0]!.totals.count + q.populations[1]!.totals.count)).toBeLessThan(1e-12);
   });
   test('populationByName: by name, first by default, bad_option naming the valid names', () => {
@@ -173,16 +199,19 @@ slices: {count: 2}
 `;
 
 describe('luminosity density (closed forms)', () => {
-  test.each([-0.5, -1.3, -1.9])('constant threshold, alpha = %f: detected phi* L* Gamma(alpha+2, u), total phi* L* Gamma(alpha+2) (1e-12)', (alpha) => {
-    const p = predict(loadSurveyText(MASS(10.3, alpha), 'm.yaml'));
-    const lStar = 10 ** 10.8;
-    const u = 10 ** (10.3 - 10.8);
-    for (const ld of [...p.slices!.map((s) => s.luminosity_density!), p.totals.luminosity_density!]) {
-      expect(rel(ld.detected, 2e-3 * lStar * upperGamma(alpha + 2, u))).toBeLessThan(1e-12);
-      expect(rel(ld.total!, 2e-3 * lStar * gammaFn(alpha + 2))).toBeLessThan(1e-12);
-      expect(ld.unit).toBe('stellar mass [Msun] Mpc^-3');
-    }
-  });
+  test.each([-0.5, -1.3, -1.9])(
+    'constant threshold, alpha = %f: detected phi* L* Gamma(alpha+2, u), total phi* L* Gamma(alpha+2) (1e-12)',
+    (alpha) => {
+      const p = predict(loadSurveyText(MASS(10.3, alpha), 'm.yaml'));
+      const lStar = 10 ** 10.8;
+      const u = 10 ** (10.3 - 10.8);
+      for (const ld of [...p.slices!.map((s) => s.luminosity_density!), p.totals.luminosity_density!]) {
+        expect(rel(ld.detected, 2e-3 * lStar * upperGamma(alpha + 2, u))).toBeLessThan(1e-12);
+        expect(rel(ld.total!, 2e-3 * lStar * gammaFn(alpha + 2))).toBeLessThan(1e-12);
+        expect(ld.unit).toBe('stellar mass [Msun] Mpc^-3');
+      }
+    },
+  );
 
   test('the fraction tends to 1 as the limit goes to 0 (alpha = -1.3 > -2), as 1 - u^s / (s Gamma(s))', () => {
     const alpha = -1.3;
@@ -219,7 +248,7 @@ describe('luminosity density (closed forms)', () => {
     for (let i = 0; i <= n; i++) {
       const x = x0 + i * h;
       const u = 10 ** (x - 10.8);
-      const f = 2e-3 * u ** (-1.3 + 2) * Math.exp(-u) * Math.LN10 / (1 + Math.exp((10.0 - x) / 0.15)); // phi(u) u du/dx
+      const f = (2e-3 * u ** (-1.3 + 2) * Math.exp(-u) * Math.LN10) / (1 + Math.exp((10.0 - x) / 0.15)); // phi(u) u du/dx
       sum += (i === 0 || i === n ? 0.5 : 1) * f * h;
     }
     expect(rel(ld.detected, sum * lStar)).toBeLessThan(1e-6);
@@ -262,7 +291,9 @@ slices: {count: 1}
     expect(rel(p.totals.sfr_density_msun_yr_mpc3!.detected, 1.4e-28 * ld.detected)).toBeLessThan(1e-15);
   });
   test('a conversion that does not fit the variable is a kind_mismatch', () => {
-    expect(() => loadSurveyText(MASS(10, -1.3).replace('alpha: -1.3}', 'alpha: -1.3, sfr_conversion: uv}'), 'm.yaml')).toThrow(SurveyError);
+    expect(() =>
+      loadSurveyText(MASS(10, -1.3).replace('alpha: -1.3}', 'alpha: -1.3, sfr_conversion: uv}'), 'm.yaml'),
+    ).toThrow(SurveyError);
   });
 });
 
@@ -285,7 +316,8 @@ slices: {count: 3}
   test('a tabulated gaussian (0.5 A steps, nanometre header) reproduces the analytic gaussian (1e-4)', () => {
     const sigma = 110 / (2 * Math.sqrt(2 * Math.LN2));
     let csv = '# sampled gaussian\nwavelength_nm, transmission\n';
-    for (let w = 9200 - 165; w <= 9200 + 165 + 1e-9; w += 0.5) csv += `${(w / 10).toFixed(5)}, ${Math.exp(-((w - 9200) ** 2) / (2 * sigma * sigma))}\n`;
+    for (let w = 9200 - 165; w <= 9200 + 165 + 1e-9; w += 0.5)
+      csv += `${(w / 10).toFixed(5)}, ${Math.exp(-((w - 9200) ** 2) / (2 * sigma * sigma))}\n`;
     writeFileSync(join(dir, 'gauss.csv'), csv);
     const tab = predict(loadSurveyFile(writeSurvey(dir, 'gauss.yaml', base('{profile: table, file: gauss.csv}'))));
     const ana = predict(loadSurveyText(base('{center: 9200, fwhm: 110, profile: gaussian}'), 'x.yaml'));
@@ -331,22 +363,29 @@ function writeSurvey(dir: string, name: string, text: string): string {
 }
 
 describe('every sample runs through predict, and the CLI prints warnings on stderr', () => {
-  test.each(['deep-continuum', 'halpha-narrowband', 'mass-limited', 'narrowband-interlopers', 'double-schechter-mass'])('samples/%s.yaml', async (name) => {
-    const r = await runCli(['predict', `samples/${name}.yaml`, '--format', 'json']);
-    expect(r.code).toBe(0);
-    const p = JSON.parse(r.stdout);
-    expect(p.totals.count).toBeGreaterThan(0);
-    expect(p.warnings).toEqual([]);
-  });
+  test.each(['deep-continuum', 'halpha-narrowband', 'mass-limited', 'narrowband-interlopers', 'double-schechter-mass'])(
+    'samples/%s.yaml',
+    async (name) => {
+      const r = await runCli(['predict', `samples/${name}.yaml`, '--format', 'json']);
+      expect(r.code).toBe(0);
+      const p = JSON.parse(r.stdout);
+      expect(p.totals.count).toBeGreaterThan(0);
+      expect(p.warnings).toEqual([]);
+    },
+  );
   test('a warning reaches stderr', async () => {
     const dir = tempDir('skytally-warn-');
-    const file = writeSurvey(dir, 'w.yaml', `
+    const file = writeSurvey(
+      dir,
+      'w.yaml',
+      `
 cosmology: {h0: 70, omega_m: 0.3}
 area: 0.1
 redshift: {min: 5.5, max: 6.5}
 detection: {kind: magnitude, limit: 27, band: 8000}
 population: {variable: magnitude, phi_star: 5e-4, m_star: -20.8, alpha: -1.8}
-`);
+`,
+    );
     const r = await runCli(['predict', file]);
     expect(r.code).toBe(0);
     expect(r.stderr).toMatch(/warning: .*Lyman alpha/);

@@ -11,15 +11,48 @@ import { predict } from '../../src/counts/predict.js';
 
 type Kind = 'line_flux' | 'magnitude' | 'threshold';
 
-function surveyObject(kind: Kind, area: number, limit: number, alpha: number, zmin: number, dz: number, slices: number) {
-  const base = { format: 1, title: 'property test', cosmology: { h0: 70, omega_m: 0.3 }, area, redshift: { min: zmin, max: zmin + dz }, slices: { count: slices } };
+function surveyObject(
+  kind: Kind,
+  area: number,
+  limit: number,
+  alpha: number,
+  zmin: number,
+  dz: number,
+  slices: number,
+) {
+  const base = {
+    format: 1,
+    title: 'property test',
+    cosmology: { h0: 70, omega_m: 0.3 },
+    area,
+    redshift: { min: zmin, max: zmin + dz },
+    slices: { count: slices },
+  };
   if (kind === 'line_flux') {
-    return { ...base, detection: { kind, limit: 10 ** -limit, line: 6563 }, population: { variable: 'luminosity', phi_star: 2.2e-3, l_star: 1e42, alpha } };
+    return {
+      ...base,
+      detection: { kind, limit: 10 ** -limit, line: 6563 },
+      population: { variable: 'luminosity', phi_star: 2.2e-3, l_star: 1e42, alpha },
+    };
   }
   if (kind === 'magnitude') {
-    return { ...base, detection: { kind, limit, band: 8000, beta: -2 }, population: { variable: 'magnitude', phi_star: 2.2e-3, m_star: -21, alpha } };
+    return {
+      ...base,
+      detection: { kind, limit, band: 8000, beta: -2 },
+      population: { variable: 'magnitude', phi_star: 2.2e-3, m_star: -21, alpha },
+    };
   }
-  return { ...base, detection: { kind, limit }, population: { variable: 'luminosity', quantity: 'stellar mass [Msun]', phi_star: 2.2e-3, log10_l_star: 10.8, alpha } };
+  return {
+    ...base,
+    detection: { kind, limit },
+    population: {
+      variable: 'luminosity',
+      quantity: 'stellar mass [Msun]',
+      phi_star: 2.2e-3,
+      log10_l_star: 10.8,
+      alpha,
+    },
+  };
 }
 
 const kindArb = fc.constantFrom<Kind>('line_flux', 'magnitude', 'threshold');
@@ -41,11 +74,31 @@ describe('count engine invariants (fast-check)', () => {
   test('count is linear in area (1e-9)', () => {
     fc.assert(
       fc.property(args, fc.double({ min: 1.5, max: 20, noNaN: true }), (a, factor) => {
-        const p1 = predict(parseSurveyObject(surveyObject(a.kind, a.area, limitFor(a.kind, a.t), a.alpha, a.zmin, a.dz, a.slices), 'p.yaml'));
-        const p2 = predict(parseSurveyObject(surveyObject(a.kind, Math.min(a.area * factor, 41000), limitFor(a.kind, a.t), a.alpha, a.zmin, a.dz, a.slices), 'p.yaml'));
+        const p1 = predict(
+          parseSurveyObject(
+            surveyObject(a.kind, a.area, limitFor(a.kind, a.t), a.alpha, a.zmin, a.dz, a.slices),
+            'p.yaml',
+          ),
+        );
+        const p2 = predict(
+          parseSurveyObject(
+            surveyObject(
+              a.kind,
+              Math.min(a.area * factor, 41000),
+              limitFor(a.kind, a.t),
+              a.alpha,
+              a.zmin,
+              a.dz,
+              a.slices,
+            ),
+            'p.yaml',
+          ),
+        );
         const ratio = Math.min(a.area * factor, 41000) / a.area;
         expect(p2.totals.count).toBeCloseTo(p1.totals.count * ratio, 6);
-        expect(Math.abs(p2.totals.count - p1.totals.count * ratio)).toBeLessThanOrEqual(1e-9 * p2.totals.count + 1e-300);
+        expect(Math.abs(p2.totals.count - p1.totals.count * ratio)).toBeLessThanOrEqual(
+          1e-9 * p2.totals.count + 1e-300,
+        );
       }),
       { numRuns: 40 },
     );
@@ -55,8 +108,18 @@ describe('count engine invariants (fast-check)', () => {
     fc.assert(
       fc.property(args, fc.double({ min: 0.01, max: 0.5, noNaN: true }), (a, step) => {
         const t2 = Math.min(1, a.t + step);
-        const p1 = predict(parseSurveyObject(surveyObject(a.kind, a.area, limitFor(a.kind, a.t), a.alpha, a.zmin, a.dz, a.slices), 'p.yaml'));
-        const p2 = predict(parseSurveyObject(surveyObject(a.kind, a.area, limitFor(a.kind, t2), a.alpha, a.zmin, a.dz, a.slices), 'p.yaml'));
+        const p1 = predict(
+          parseSurveyObject(
+            surveyObject(a.kind, a.area, limitFor(a.kind, a.t), a.alpha, a.zmin, a.dz, a.slices),
+            'p.yaml',
+          ),
+        );
+        const p2 = predict(
+          parseSurveyObject(
+            surveyObject(a.kind, a.area, limitFor(a.kind, t2), a.alpha, a.zmin, a.dz, a.slices),
+            'p.yaml',
+          ),
+        );
         p1.slices!.forEach((s, i) => expect(p2.slices![i]!.count).toBeGreaterThanOrEqual(s.count * (1 - 1e-12)));
       }),
       { numRuns: 40 },
@@ -66,7 +129,12 @@ describe('count engine invariants (fast-check)', () => {
   test('slices sum to the total; histograms sum to their slice; everything finite', () => {
     fc.assert(
       fc.property(args, (a) => {
-        const p = predict(parseSurveyObject(surveyObject(a.kind, a.area, limitFor(a.kind, a.t), a.alpha, a.zmin, a.dz, a.slices), 'p.yaml'));
+        const p = predict(
+          parseSurveyObject(
+            surveyObject(a.kind, a.area, limitFor(a.kind, a.t), a.alpha, a.zmin, a.dz, a.slices),
+            'p.yaml',
+          ),
+        );
         const sum = p.slices!.reduce((x, s) => x + s.count, 0);
         expect(Math.abs(sum - p.totals.count)).toBeLessThanOrEqual(1e-12 * Math.max(1, p.totals.count));
         for (const s of p.slices!) {

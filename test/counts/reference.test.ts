@@ -17,7 +17,9 @@ interface Case {
   /** Several populations: each one's own slices over its own window. */
   populations?: { window: [number, number]; slices: { z_min: number; z_max: number; count: number }[] }[];
 }
-const fixture = JSON.parse(readFileSync(new URL('../reference/counts.json', import.meta.url), 'utf8')) as { cases: Case[] };
+const fixture = JSON.parse(readFileSync(new URL('../reference/counts.json', import.meta.url), 'utf8')) as {
+  cases: Case[];
+};
 const REL = 1e-5;
 
 describe('counts against scipy/mpmath/astropy integration (counts.json)', () => {
@@ -28,7 +30,9 @@ describe('counts against scipy/mpmath/astropy integration (counts.json)', () => 
       want.forEach((s, i) => {
         expect(got[i]!.z_min).toBeCloseTo(s.z_min, 10);
         expect(got[i]!.z_max).toBeCloseTo(s.z_max, 10);
-        expect(Math.abs(got[i]!.count / s.count - 1), `slice ${i} count ${got[i]!.count} vs ${s.count}`).toBeLessThan(REL);
+        expect(Math.abs(got[i]!.count / s.count - 1), `slice ${i} count ${got[i]!.count} vs ${s.count}`).toBeLessThan(
+          REL,
+        );
       });
     };
     if (c.populations) {

@@ -24,13 +24,16 @@ type Field = { value: string; labels?: { length: number } | null; dispatchEvent(
 
 const CHROMIUM = '/usr/bin/chromium';
 const haveChromium = existsSync(CHROMIUM);
-if (!haveChromium) console.warn(`explore browser test skipped: ${CHROMIUM} is absent (CI installs it with .ci/chromium.sh)`);
+if (!haveChromium)
+  console.warn(`explore browser test skipped: ${CHROMIUM} is absent (CI installs it with .ci/chromium.sh)`);
 
 /** Samples driven in the browser: a line survey with completeness and cosmic variance, a magnitude survey, a tabulated filter with interlopers (observed breakdown). */
 const SAMPLES = ['halpha-narrowband.yaml', 'deep-continuum.yaml', 'narrowband-interlopers.yaml'];
 
 async function outputsOf(page: Page): Promise<Map<string, number>> {
-  const pairs = await page.$$eval('[data-output]', (els) => els.map((e) => [e.getAttribute('data-output')!, Number(e.getAttribute('data-value'))] as [string, number]));
+  const pairs = await page.$$eval('[data-output]', (els) =>
+    els.map((e) => [e.getAttribute('data-output')!, Number(e.getAttribute('data-value'))] as [string, number]),
+  );
   const m = new Map<string, number>();
   for (const [k, v] of pairs) {
     expect(m.has(k), `data-output ${k} appears once`).toBe(false);
@@ -44,7 +47,10 @@ async function updates(page: Page): Promise<number> {
 }
 
 async function settled(page: Page, before: number): Promise<void> {
-  await page.waitForFunction((n) => Number(document.body.dataset.updates) > n && document.body.dataset.busy === 'false', before);
+  await page.waitForFunction(
+    (n) => Number(document.body.dataset.updates) > n && document.body.dataset.busy === 'false',
+    before,
+  );
 }
 
 /** Set a control's number and fire `input`, as the issue's contract says a script may. */
@@ -75,7 +81,16 @@ describe.skipIf(!haveChromium)('explore page in headless chromium', () => {
       executablePath: CHROMIUM,
       headless: true,
       acceptDownloads: true,
-      args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--no-first-run', '--disable-sync', '--disable-quic'],
+      args: [
+        '--headless',
+        '--no-sandbox',
+        '--disable-gpu',
+        '--disable-background-networking',
+        '--disable-component-update',
+        '--no-first-run',
+        '--disable-sync',
+        '--disable-quic',
+      ],
       viewport: { width: 1280, height: 900 },
     });
   });
@@ -89,7 +104,9 @@ describe.skipIf(!haveChromium)('explore page in headless chromium', () => {
     ] as const) {
       if (t.length === 0) continue;
       t.sort((a, b) => a - b);
-      console.log(`explore page updates in chromium, ${what}: median ${t[t.length >> 1]!.toFixed(1)} ms, min ${t[0]!.toFixed(1)} ms over ${t.length} (figures only; not asserted)`);
+      console.log(
+        `explore page updates in chromium, ${what}: median ${t[t.length >> 1]!.toFixed(1)} ms, min ${t[0]!.toFixed(1)} ms over ${t.length} (figures only; not asserted)`,
+      );
     }
   });
 
@@ -157,7 +174,7 @@ describe.skipIf(!haveChromium)('explore page in headless chromium', () => {
 
     test('the button writes the same survey file the numbers are of', async () => {
       const [download] = await Promise.all([page.waitForEvent('download'), page.click('#write-survey')]);
-      const saved = readFileSync((await download.path()), 'utf8');
+      const saved = readFileSync(await download.path(), 'utf8');
       expect(saved).toBe(await page.textContent('#survey-yaml'));
       expect(await page.textContent('#status')).toContain('written');
     });
@@ -190,24 +207,32 @@ describe.skipIf(!haveChromium)('explore page in headless chromium', () => {
       expectSameOutputs(await outputsOf(page), await writtenBack(`keyboard-${sample}`), 'after the keyboard');
     });
 
-    test.runIf(sample === 'narrowband-interlopers.yaml')('a plan file: the exposure per pointing sets the area and the limit; the page equals the commands on what it writes', async () => {
-      const plan = join(dir, 'plan.html');
-      const r = await runCli(['explore', 'samples/plan-halpha-layers.yaml', '--out', plan]);
-      expect(r.code, r.stderr).toBe(0);
-      const p = await context.newPage();
-      await p.goto(pathToFileURL(plan).href, { waitUntil: 'load' });
-      await p.waitForFunction(() => document.body.dataset.ready === 'true');
-      await p.click('#survey-panel summary');
-      await setControl(p, 'plan.exposure_per_pointing', 4);
-      // 80 h / (4 h + 0.1 h overhead) = 19 pointings of 0.2 deg^2; background-limited depth halves 6e-17 at 4 h (see page.test.ts)
-      expect(Number(await p.$eval('input[data-key="area"]', (e) => (e as unknown as Field).value))).toBeCloseTo(3.8, 12);
-      expect(Number(await p.$eval('input[data-key="detection.limit"]', (e) => (e as unknown as Field).value)) / 3e-17).toBeCloseTo(1, 12);
-      const text = (await p.textContent('#survey-yaml'))!;
-      const file = join(dir, 'plan-written.yaml');
-      writeFileSync(file, text);
-      expectSameOutputs(await outputsOf(p), await expectedOutputs(file), 'plan exposure');
-      await p.close();
-    });
+    test.runIf(sample === 'narrowband-interlopers.yaml')(
+      'a plan file: the exposure per pointing sets the area and the limit; the page equals the commands on what it writes',
+      async () => {
+        const plan = join(dir, 'plan.html');
+        const r = await runCli(['explore', 'samples/plan-halpha-layers.yaml', '--out', plan]);
+        expect(r.code, r.stderr).toBe(0);
+        const p = await context.newPage();
+        await p.goto(pathToFileURL(plan).href, { waitUntil: 'load' });
+        await p.waitForFunction(() => document.body.dataset.ready === 'true');
+        await p.click('#survey-panel summary');
+        await setControl(p, 'plan.exposure_per_pointing', 4);
+        // 80 h / (4 h + 0.1 h overhead) = 19 pointings of 0.2 deg^2; background-limited depth halves 6e-17 at 4 h (see page.test.ts)
+        expect(Number(await p.$eval('input[data-key="area"]', (e) => (e as unknown as Field).value))).toBeCloseTo(
+          3.8,
+          12,
+        );
+        expect(
+          Number(await p.$eval('input[data-key="detection.limit"]', (e) => (e as unknown as Field).value)) / 3e-17,
+        ).toBeCloseTo(1, 12);
+        const text = (await p.textContent('#survey-yaml'))!;
+        const file = join(dir, 'plan-written.yaml');
+        writeFileSync(file, text);
+        expectSameOutputs(await outputsOf(p), await expectedOutputs(file), 'plan exposure');
+        await p.close();
+      },
+    );
 
     test('live outputs are announced (aria-live) and there was no console error and no request', async () => {
       expect(await page.getAttribute('#outputs', 'aria-live')).toBe('polite');

@@ -50,7 +50,10 @@ export async function expectedOutputs(file: string, cwd?: string): Promise<Map<s
   });
   const f = await runCli(['forecast', file, '--format', 'json'], cwd);
   if (f.code === 0) {
-    const fj = JSON.parse(f.stdout) as { fisher: { sigma: Record<string, number> }; fisher_poisson_only: { sigma: Record<string, number> } };
+    const fj = JSON.parse(f.stdout) as {
+      fisher: { sigma: Record<string, number> };
+      fisher_poisson_only: { sigma: Record<string, number> };
+    };
     for (const [n, v] of Object.entries(fj.fisher.sigma)) out.set(`sigma-${n}`, v);
     for (const [n, v] of Object.entries(fj.fisher_poisson_only.sigma)) out.set(`sigma-poisson-${n}`, v);
   }
@@ -62,6 +65,8 @@ export function expectSameOutputs(page: Map<string, number>, expected: Map<strin
   expect([...page.keys()].sort(), what).toEqual([...expected.keys()].sort());
   for (const [name, v] of expected) {
     const got = page.get(name)!;
-    expect(Math.abs(got - v), `${what}: ${name} ${got} vs ${v}`).toBeLessThanOrEqual(1e-9 * Math.max(Math.abs(v), 1e-300));
+    expect(Math.abs(got - v), `${what}: ${name} ${got} vs ${v}`).toBeLessThanOrEqual(
+      1e-9 * Math.max(Math.abs(v), 1e-300),
+    );
   }
 }

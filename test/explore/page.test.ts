@@ -16,7 +16,13 @@ import { useExploreScript } from '../support/explore-script.js';
 import { expectedOutputs, expectSameOutputs } from './expected.js';
 import { loadSurveyText, parseSurveyObject } from '../../src/survey/load.js';
 import { parseYaml } from '../../src/survey/yaml.js';
-import { EXPOSURE_KEY, exploreControls, exposureDesign, settingsObject, settingsText } from '../../src/library/explore/settings.js';
+import {
+  EXPOSURE_KEY,
+  exploreControls,
+  exposureDesign,
+  settingsObject,
+  settingsText,
+} from '../../src/library/explore/settings.js';
 import { predict } from '../../src/counts/predict.js';
 
 const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml'));
@@ -47,7 +53,8 @@ describe.each(SAMPLES)('%s', (sample) => {
     const body = html.replace(/<script>[\s\S]*?<\/script>/g, '');
     expect(body).toContain('data-key="area"');
     // a limit written as a number or a quantity is a control (the mass-limited samples give a table in z)
-    const det = (parseYaml(readFileSync(`samples/${sample}`, 'utf8'), sample) as { detection: { limit: unknown } }).detection;
+    const det = (parseYaml(readFileSync(`samples/${sample}`, 'utf8'), sample) as { detection: { limit: unknown } })
+      .detection;
     if (typeof det.limit !== 'object') expect(body).toContain('data-key="detection.limit"');
     const shown = new Map<string, number>();
     for (const m of body.matchAll(/data-output="([^"]+)" data-value="([^"]+)"/g)) shown.set(m[1]!, Number(m[2]));
@@ -77,7 +84,8 @@ describe.each(SAMPLES)('%s', (sample) => {
     const limit = d.kind === 'line_flux' ? d.limitCgs : d.kind === 'magnitude' ? d.limitMag : undefined;
     if (limit !== undefined) expect(limit).toBe(values.get('detection.limit'));
     // comments and the keys not set stay as written
-    for (const line of text.split('\n').filter((l) => l.trimStart().startsWith('#'))) expect(written).toContain(line.trim());
+    for (const line of text.split('\n').filter((l) => l.trimStart().startsWith('#')))
+      expect(written).toContain(line.trim());
   });
 });
 
@@ -92,7 +100,9 @@ describe('controls', () => {
     // 1.19 um = 11,900 Angstrom (SI prefixes; 1 um = 1e4 Angstrom)
     expect(c.get('detection.filter.center')!.value).toBeCloseTo(11900, 9);
     expect(c.get('detection.filter.fwhm')!.value).toBeCloseTo(130, 9);
-    expect([...c.keys()]).toEqual(expect.arrayContaining(['population.log10_phi_star', 'population.log10_l_star', 'population.alpha']));
+    expect([...c.keys()]).toEqual(
+      expect.arrayContaining(['population.log10_phi_star', 'population.log10_l_star', 'population.alpha']),
+    );
     expect(c.get('population.alpha')!.range).toBe('default');
   });
 
@@ -111,9 +121,11 @@ describe('controls', () => {
     expect(p.min / p.value).toBeCloseTo(10 ** -0.24, 12);
   });
 
-  test('a plan file: the exposure per pointing buys whole pointings and reaches the depth law\'s limit', () => {
+  test("a plan file: the exposure per pointing buys whole pointings and reaches the depth law's limit", () => {
     const plan = readFileSync('samples/plan-halpha-layers.yaml', 'utf8');
-    const c = exploreControls(parseYaml(plan, 'p'), loadSurveyText(plan, 'samples/plan-halpha-layers.yaml')).find((x) => x.key === EXPOSURE_KEY)!;
+    const c = exploreControls(parseYaml(plan, 'p'), loadSurveyText(plan, 'samples/plan-halpha-layers.yaml')).find(
+      (x) => x.key === EXPOSURE_KEY,
+    )!;
     expect(c.plan).toBeDefined();
     // the grid of the file: 0.03 to 40 h
     expect(c.min).toBe(0.03);

@@ -26,7 +26,17 @@ const validate = new Ajv2020({ allErrors: true, strict: false }).compile(schema)
 
 describe('forecast command', () => {
   test.each(SAMPLES)('%s: json (valid against the schema), table and csv', async (f) => {
-    const json = await runCli(['forecast', `samples/${f}`, '--no-cosmic-variance', '--format', 'json', '--mocks', '8', '--target', 'alpha=0.02']);
+    const json = await runCli([
+      'forecast',
+      `samples/${f}`,
+      '--no-cosmic-variance',
+      '--format',
+      'json',
+      '--mocks',
+      '8',
+      '--target',
+      'alpha=0.02',
+    ]);
     expect(json.stderr).toBe('');
     expect(json.code).toBe(0);
     const doc = JSON.parse(json.stdout);
@@ -52,7 +62,9 @@ describe('forecast command', () => {
     const table = await runCli(['forecast', f, '--no-cosmic-variance', '--mocks', '4']);
     expect(table.stdout).toContain('mock offset [s.e.]');
     expect(table.stdout).not.toContain('bias [s.e.]');
-    const csv = parseCsvStrict((await runCli(['forecast', f, '--no-cosmic-variance', '--mocks', '4', '--format', 'csv'])).stdout);
+    const csv = parseCsvStrict(
+      (await runCli(['forecast', f, '--no-cosmic-variance', '--mocks', '4', '--format', 'csv'])).stdout,
+    );
     expect(csv.header).toContain('mock_offset_in_standard_errors');
     expect(csv.header.some((h) => h.includes('bias'))).toBe(false);
   });
@@ -67,7 +79,15 @@ describe('forecast command', () => {
   test('--out writes the file and nothing to stdout', async () => {
     const dir = tempDir('skytally-');
     const out = join(dir, 'f.json');
-    const r = await runCli(['forecast', `samples/${SAMPLES[0]}`, '--no-cosmic-variance', '--format', 'json', '--out', out]);
+    const r = await runCli([
+      'forecast',
+      `samples/${SAMPLES[0]}`,
+      '--no-cosmic-variance',
+      '--format',
+      'json',
+      '--out',
+      out,
+    ]);
     expect(r.code).toBe(0);
     expect(r.stdout).toBe('');
     expect(validate(JSON.parse(readFileSync(out, 'utf8')))).toBe(true);
@@ -83,7 +103,15 @@ describe('forecast command', () => {
   ])('bad --target (%s): exit 2, one sentence, nothing written', async (_what, target, message) => {
     const dir = tempDir('skytally-');
     const out = join(dir, 'f.json');
-    const r = await runCli(['forecast', `samples/${SAMPLES[0]}`, '--no-cosmic-variance', '--target', target, '--out', out]);
+    const r = await runCli([
+      'forecast',
+      `samples/${SAMPLES[0]}`,
+      '--no-cosmic-variance',
+      '--target',
+      target,
+      '--out',
+      out,
+    ]);
     expect(r.code).toBe(2);
     expect(r.stdout).toBe('');
     expect(r.stderr).toMatch(message);
@@ -107,47 +135,73 @@ describe('forecast command', () => {
     expect(r.stderr.trim().split('\n').length).toBe(1);
   });
 
-  test.each(ALL.filter(isDouble))('%s: a double Schechter population is refused with one sentence (exit 2)', async (f) => {
-    const r = await runCli(['forecast', `samples/${f}`, '--format', 'json']);
-    expect(r.code).toBe(2);
-    expect(r.stdout).toBe('');
-    expect(r.stderr).toContain('population.shape');
-    expect(r.stderr.trim().split('\n').length).toBe(1);
-  });
+  test.each(ALL.filter(isDouble))(
+    '%s: a double Schechter population is refused with one sentence (exit 2)',
+    async (f) => {
+      const r = await runCli(['forecast', `samples/${f}`, '--format', 'json']);
+      expect(r.code).toBe(2);
+      expect(r.stdout).toBe('');
+      expect(r.stderr).toContain('population.shape');
+      expect(r.stderr.trim().split('\n').length).toBe(1);
+    },
+  );
 
-  test.each(ALL.filter(isPhotoZ))('%s: photometric-redshift scatter is refused with one sentence (exit 2)', async (f) => {
-    const r = await runCli(['forecast', `samples/${f}`, '--format', 'json']);
-    expect(r.code).toBe(2);
-    expect(r.stdout).toBe('');
-    expect(r.stderr).toContain('detection.photo_z');
-    expect(r.stderr.trim().split('\n').length).toBe(1);
-  });
+  test.each(ALL.filter(isPhotoZ))(
+    '%s: photometric-redshift scatter is refused with one sentence (exit 2)',
+    async (f) => {
+      const r = await runCli(['forecast', `samples/${f}`, '--format', 'json']);
+      expect(r.code).toBe(2);
+      expect(r.stdout).toBe('');
+      expect(r.stderr).toContain('detection.photo_z');
+      expect(r.stderr.trim().split('\n').length).toBe(1);
+    },
+  );
 
   test('progress bar on stderr only when stderr is a terminal', async () => {
     let err = '';
     let out = '';
-    const io = { stdout: (t: string) => (out += t), stderr: (t: string) => (err += t), cwd: process.cwd(), stderrIsTTY: true };
-    const code = await run(['forecast', `samples/${SAMPLES[1]}`, '--no-cosmic-variance', '--mocks', '5', '--format', 'json'], io);
+    const io = {
+      stdout: (t: string) => (out += t),
+      stderr: (t: string) => (err += t),
+      cwd: process.cwd(),
+      stderrIsTTY: true,
+    };
+    const code = await run(
+      ['forecast', `samples/${SAMPLES[1]}`, '--no-cosmic-variance', '--mocks', '5', '--format', 'json'],
+      io,
+    );
     expect(code).toBe(0);
     expect(err).toMatch(/mock surveys \[#+\] 5\/5\n$/);
     expect(JSON.parse(out).mocks.count).toBe(5);
-    const piped = await runCli(['forecast', `samples/${SAMPLES[1]}`, '--no-cosmic-variance', '--mocks', '5', '--format', 'json']);
+    const piped = await runCli([
+      'forecast',
+      `samples/${SAMPLES[1]}`,
+      '--no-cosmic-variance',
+      '--mocks',
+      '5',
+      '--format',
+      'json',
+    ]);
     expect(piped.stderr).toBe('');
   });
 
-  test.each(SAMPLES)('%s: with cosmic variance (default), the slice fractions are those predict reports (1e-9) and widen the Fisher sigmas', async (f) => {
-    const r = await runCli(['forecast', `samples/${f}`, '--format', 'json']);
-    expect(r.stderr).toBe('');
-    expect(r.code).toBe(0);
-    const doc = JSON.parse(r.stdout);
-    expect(validate(doc), JSON.stringify(validate.errors)).toBe(true);
-    expect(doc.cosmic_variance).toBe(true);
-    const pred = predict(loadSurveyFile(`samples/${f}`));
-    doc.slices.forEach((s: { cosmic_variance_fraction: number }, i: number) => {
-      const expected = pred.populations[0]!.slices[i]!.uncertainty!.cosmic_variance_fraction;
-      expect(Math.abs(s.cosmic_variance_fraction - expected)).toBeLessThanOrEqual(1e-9 * expected);
-    });
-    for (const n of doc.parameters) expect(doc.fisher.sigma[n]).toBeGreaterThanOrEqual(doc.fisher_poisson_only.sigma[n] * (1 - 1e-12));
-    expect(doc.fisher.sigma.log10_phi_star).toBeGreaterThan(doc.fisher_poisson_only.sigma.log10_phi_star);
-  });
+  test.each(SAMPLES)(
+    '%s: with cosmic variance (default), the slice fractions are those predict reports (1e-9) and widen the Fisher sigmas',
+    async (f) => {
+      const r = await runCli(['forecast', `samples/${f}`, '--format', 'json']);
+      expect(r.stderr).toBe('');
+      expect(r.code).toBe(0);
+      const doc = JSON.parse(r.stdout);
+      expect(validate(doc), JSON.stringify(validate.errors)).toBe(true);
+      expect(doc.cosmic_variance).toBe(true);
+      const pred = predict(loadSurveyFile(`samples/${f}`));
+      doc.slices.forEach((s: { cosmic_variance_fraction: number }, i: number) => {
+        const expected = pred.populations[0]!.slices[i]!.uncertainty!.cosmic_variance_fraction;
+        expect(Math.abs(s.cosmic_variance_fraction - expected)).toBeLessThanOrEqual(1e-9 * expected);
+      });
+      for (const n of doc.parameters)
+        expect(doc.fisher.sigma[n]).toBeGreaterThanOrEqual(doc.fisher_poisson_only.sigma[n] * (1 - 1e-12));
+      expect(doc.fisher.sigma.log10_phi_star).toBeGreaterThan(doc.fisher_poisson_only.sigma.log10_phi_star);
+    },
+  );
 });

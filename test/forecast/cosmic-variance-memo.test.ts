@@ -13,9 +13,15 @@ import { cosmicVarianceInput, cosmicVarianceInputWith } from '../../src/forecast
 import { UncertaintyMemo, type UncertaintyJson } from '../../src/uncertainty/prediction.js';
 import type { Population } from '../../src/model/population.js';
 
-const samples = ['halpha-narrowband.yaml', 'deep-continuum.yaml', 'mass-limited.yaml', 'plan-halpha-layers.yaml', 'plan-uv-deep-wide.yaml'];
+const samples = [
+  'halpha-narrowband.yaml',
+  'deep-continuum.yaml',
+  'mass-limited.yaml',
+  'plan-halpha-layers.yaml',
+  'plan-uv-deep-wide.yaml',
+];
 
-describe('forecast with the prediction\'s uncertainty memo (exact reuse, tolerance 0)', () => {
+describe("forecast with the prediction's uncertainty memo (exact reuse, tolerance 0)", () => {
   for (const f of samples) {
     test(`${f}: the same forecast as computing the fractions again`, async () => {
       const survey = loadSurveyFile(`samples/${f}`);

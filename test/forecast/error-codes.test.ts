@@ -18,9 +18,14 @@ function withLimit(log10Limit: number) {
 
 describe('forecast error codes', () => {
   test('a limit 1e8 times above the knee leaves no source at all: no_sources, naming detection.limit', async () => {
-    await expect(forecast(withLimit(20), { cosmicVariance: false })).rejects.toMatchObject({ code: 'no_sources', keyPath: 'detection.limit' });
+    await expect(forecast(withLimit(20), { cosmicVariance: false })).rejects.toMatchObject({
+      code: 'no_sources',
+      keyPath: 'detection.limit',
+    });
   });
   test('a limit where about 1e-300 sources are expected leaves a Fisher matrix that cannot be inverted: singular_fisher', async () => {
-    await expect(forecast(withLimit(13.7), { cosmicVariance: false })).rejects.toMatchObject({ code: 'singular_fisher' });
+    await expect(forecast(withLimit(13.7), { cosmicVariance: false })).rejects.toMatchObject({
+      code: 'singular_fisher',
+    });
   });
 });

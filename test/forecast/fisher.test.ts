@@ -10,7 +10,12 @@ import { describe, expect, test } from 'vitest';
 import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import { countPopulation } from '../../src/counts/engine.js';
 import { buildDensityGrid } from '../../src/forecast/grid.js';
-import { fisherFromPoints, fisherParts, marginaliseNormalisations, summariseFisher } from '../../src/forecast/fisher.js';
+import {
+  fisherFromPoints,
+  fisherParts,
+  marginaliseNormalisations,
+  summariseFisher,
+} from '../../src/forecast/fisher.js';
 import { gaussLegendreRule } from '../../src/numerics/quadrature.js';
 import { surveyFromSpec, type SurveySpec } from './helpers.js';
 
@@ -22,7 +27,9 @@ interface RefCase {
   covariance_with_cosmic_variance?: number[][];
   sigma_with_cosmic_variance?: number[];
 }
-const ref = JSON.parse(readFileSync(new URL('../reference/fisher.json', import.meta.url), 'utf8')) as { cases: RefCase[] };
+const ref = JSON.parse(readFileSync(new URL('../reference/fisher.json', import.meta.url), 'utf8')) as {
+  cases: RefCase[];
+};
 
 function partsOf(spec: SurveySpec) {
   const survey = surveyFromSpec(spec);
@@ -33,7 +40,9 @@ function partsOf(spec: SurveySpec) {
 
 function relClose(actual: number, expected: number, rel: number, scale: number): void {
   // Elements near zero are compared against the matrix's scale (the largest diagonal element).
-  expect(Math.abs(actual - expected), `${actual} vs ${expected}`).toBeLessThanOrEqual(rel * Math.max(Math.abs(expected), 1e-3 * scale));
+  expect(Math.abs(actual - expected), `${actual} vs ${expected}`).toBeLessThanOrEqual(
+    rel * Math.max(Math.abs(expected), 1e-3 * scale),
+  );
 }
 
 describe('closed form: pure power law on a fixed range', () => {
@@ -71,17 +80,21 @@ describe('closed form: pure power law on a fixed range', () => {
 });
 
 describe('reference: scipy 1.10.1 / astropy 5.2.1 integration (test/reference/fisher.json)', () => {
-  test.each(ref.cases.map((c) => [c.survey.name, c] as const))('%s: every Poisson matrix element to 1e-4 relative', (_name, c) => {
-    const { parts } = partsOf(c.survey);
-    const scale = Math.max(...c.fisher_poisson_only.map((r, i) => Math.abs(r[i]!)));
-    for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) relClose(parts.matrix[j]![k]!, c.fisher_poisson_only[j]![k]!, 1e-4, scale);
-    c.slices.forEach((s, i) => {
-      relClose(parts.slices[i]!.count, s.count, 1e-4, s.count);
-      for (let j = 0; j < 3; j++) relClose(parts.slices[i]!.b[j]!, s.b[j]!, 1e-4, Math.abs(s.b[0]!));
-    });
-    const sigma = summariseFisher(parts.matrix)!.sigma;
-    sigma.forEach((v, j) => expect(Math.abs(v / c.sigma_poisson_only[j]! - 1)).toBeLessThan(1e-4));
-  });
+  test.each(ref.cases.map((c) => [c.survey.name, c] as const))(
+    '%s: every Poisson matrix element to 1e-4 relative',
+    (_name, c) => {
+      const { parts } = partsOf(c.survey);
+      const scale = Math.max(...c.fisher_poisson_only.map((r, i) => Math.abs(r[i]!)));
+      for (let j = 0; j < 3; j++)
+        for (let k = 0; k < 3; k++) relClose(parts.matrix[j]![k]!, c.fisher_poisson_only[j]![k]!, 1e-4, scale);
+      c.slices.forEach((s, i) => {
+        relClose(parts.slices[i]!.count, s.count, 1e-4, s.count);
+        for (let j = 0; j < 3; j++) relClose(parts.slices[i]!.b[j]!, s.b[j]!, 1e-4, Math.abs(s.b[0]!));
+      });
+      const sigma = summariseFisher(parts.matrix)!.sigma;
+      sigma.forEach((v, j) => expect(Math.abs(v / c.sigma_poisson_only[j]! - 1)).toBeLessThan(1e-4));
+    },
+  );
 
   test.each(ref.cases.filter((c) => c.survey.cosmic_variance).map((c) => [c.survey.name, c] as const))(
     '%s: covariance with cosmic-variance nuisances (numpy inverse of the augmented matrix) to 1e-4',
@@ -92,7 +105,9 @@ describe('reference: scipy 1.10.1 / astropy 5.2.1 integration (test/reference/fi
       for (let j = 0; j < 3; j++) {
         for (let k = 0; k < 3; k++) {
           const e = c.covariance_with_cosmic_variance![j]![k]!;
-          const scale = Math.sqrt(c.covariance_with_cosmic_variance![j]![j]! * c.covariance_with_cosmic_variance![k]![k]!);
+          const scale = Math.sqrt(
+            c.covariance_with_cosmic_variance![j]![j]! * c.covariance_with_cosmic_variance![k]![k]!,
+          );
           expect(Math.abs(sum.covariance[j]![k]! - e)).toBeLessThanOrEqual(1e-4 * Math.max(Math.abs(e), 1e-3 * scale));
         }
       }
@@ -101,17 +116,23 @@ describe('reference: scipy 1.10.1 / astropy 5.2.1 integration (test/reference/fi
 });
 
 describe('consistency', () => {
-  test.each(ref.cases.map((c) => [c.survey.name, c.survey] as const))('%s: grid counts equal the count engine per slice (1e-8)', (_n, spec) => {
-    const { survey, cosmo, parts } = partsOf(spec);
-    const counts = countPopulation(survey, survey.populations[0]!, cosmo, survey.sliceEdges, { noHistogram: true });
-    counts.forEach((s, i) => expect(Math.abs(parts.slices[i]!.count / s.count - 1)).toBeLessThan(1e-8));
-  });
+  test.each(ref.cases.map((c) => [c.survey.name, c.survey] as const))(
+    '%s: grid counts equal the count engine per slice (1e-8)',
+    (_n, spec) => {
+      const { survey, cosmo, parts } = partsOf(spec);
+      const counts = countPopulation(survey, survey.populations[0]!, cosmo, survey.sliceEdges, { noHistogram: true });
+      counts.forEach((s, i) => expect(Math.abs(parts.slices[i]!.count / s.count - 1)).toBeLessThan(1e-8));
+    },
+  );
 
-  test.each(ref.cases.map((c) => [c.survey.name, c.survey] as const))('%s: Poisson-only sigma scales as 1/sqrt(area) (1e-9)', (_n, spec) => {
-    const s1 = summariseFisher(partsOf(spec).parts.matrix)!.sigma;
-    for (const f of [0.01, 3.7, 250]) {
-      const s2 = summariseFisher(partsOf({ ...spec, area_deg2: spec.area_deg2 * f }).parts.matrix)!.sigma;
-      s2.forEach((v, j) => expect(Math.abs((v * Math.sqrt(f)) / s1[j]! - 1)).toBeLessThan(1e-9));
-    }
-  });
+  test.each(ref.cases.map((c) => [c.survey.name, c.survey] as const))(
+    '%s: Poisson-only sigma scales as 1/sqrt(area) (1e-9)',
+    (_n, spec) => {
+      const s1 = summariseFisher(partsOf(spec).parts.matrix)!.sigma;
+      for (const f of [0.01, 3.7, 250]) {
+        const s2 = summariseFisher(partsOf({ ...spec, area_deg2: spec.area_deg2 * f }).parts.matrix)!.sigma;
+        s2.forEach((v, j) => expect(Math.abs((v * Math.sqrt(f)) / s1[j]! - 1)).toBeLessThan(1e-9));
+      }
+    },
+  );
 });

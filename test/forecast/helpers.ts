@@ -55,7 +55,13 @@ export function surveyFromSpec(s: SurveySpec): Survey {
   if (s.kind === 'line_flux') {
     detection = { kind: 'line_flux', limitCgs: d.limit_cgs!, lineAngstrom: d.line_angstrom! };
   } else if (s.kind === 'magnitude') {
-    detection = { kind: 'magnitude', limitMag: d.limit_mag!, bandAngstrom: d.band_angstrom!, beta: d.beta!, igm: 'none' };
+    detection = {
+      kind: 'magnitude',
+      limitMag: d.limit_mag!,
+      bandAngstrom: d.band_angstrom!,
+      beta: d.beta!,
+      igm: 'none',
+    };
   } else {
     detection = { kind: 'threshold', limit: constant(d.limit!) };
   }
@@ -68,7 +74,16 @@ export function surveyFromSpec(s: SurveySpec): Survey {
     format: 1,
     file: '',
     title: s.name,
-    cosmology: { h0: s.cosmology.h0, omegaM, omegaLambda: 1 - omegaM, omegaR: 0, tCmb: 0, omegaB: 0.049, sigma8: 0.81, nS: 0.965 },
+    cosmology: {
+      h0: s.cosmology.h0,
+      omegaM,
+      omegaLambda: 1 - omegaM,
+      omegaR: 0,
+      tCmb: 0,
+      omegaB: 0.049,
+      sigma8: 0.81,
+      nS: 0.965,
+    },
     areaDeg2: s.area_deg2,
     areaSr: s.area_deg2 * (Math.PI / 180) ** 2,
     redshift: { min: zMin, max: zMax },

@@ -26,7 +26,9 @@ import { buildSamplingTables, CatalogueSampler } from '../../src/forecast/sample
 import { forecast } from '../../src/forecast/forecast.js';
 import { surveyFromSpec, type SurveySpec } from './helpers.js';
 
-const ref = JSON.parse(readFileSync(new URL('../reference/fisher.json', import.meta.url), 'utf8')) as { cases: { survey: SurveySpec }[] };
+const ref = JSON.parse(readFileSync(new URL('../reference/fisher.json', import.meta.url), 'utf8')) as {
+  cases: { survey: SurveySpec }[];
+};
 const spec = (name: string) => ref.cases.find((c) => c.survey.name === name)!.survey;
 
 /** The invented survey scaled in area to about `n` expected sources. */
@@ -37,34 +39,50 @@ function withCount(s: SurveySpec, n: number): SurveySpec {
 }
 
 describe('sampler draws from the tabulated density', () => {
-  test.each(ref.cases.map((c) => [c.survey.name, c.survey] as const))('%s: mean ln u and mean u within 4 standard errors', (_n, s) => {
-    const survey = surveyFromSpec(s);
-    const grid = buildDensityGrid(survey, survey.populations[0]!, new FlatCosmology(survey.cosmology), survey.sliceEdges);
-    const tables = buildSamplingTables(grid);
-    // expectations from the quadrature
-    let w = 0, wt = 0, wt2 = 0, wu = 0, wu2 = 0;
-    for (let q = 0; q < grid.pointT.length; q++) {
-      const g = Math.exp(grid.pointLogW[q]! + grid.pointA1[q]! * grid.pointT[q]! - grid.pointExpT[q]!);
-      const t = grid.pointT[q]!;
-      const u = grid.pointExpT[q]!;
-      w += g; wt += g * t; wt2 += g * t * t; wu += g * u; wu2 += g * u * u;
-    }
-    const n = 200_000;
-    // split the draws over slices in proportion to their expected counts
-    const counts = Array.from(tables.sliceExpected, (x) => Math.round((n * x) / w));
-    const total = counts.reduce((a, b) => a + b, 0);
-    const rng = mt19937.factory({ seed: 2024 }) as unknown as { normalized: () => number };
-    const sampler = new CatalogueSampler(grid, tables);
-    const st = sampler.draw(counts, rng.normalized);
-    // expectation for the rounded allocation
-    const meanT = wt / w;
-    const meanU = wu / w;
-    const seT = Math.sqrt((wt2 / w - meanT ** 2) / total);
-    const seU = Math.sqrt((wu2 / w - meanU ** 2) / total);
-    expect(st.total).toBe(total);
-    expect(Math.abs(st.sumT / total - meanT)).toBeLessThan(4 * seT);
-    expect(Math.abs(st.sumU / total - meanU)).toBeLessThan(4 * seU);
-  });
+  test.each(ref.cases.map((c) => [c.survey.name, c.survey] as const))(
+    '%s: mean ln u and mean u within 4 standard errors',
+    (_n, s) => {
+      const survey = surveyFromSpec(s);
+      const grid = buildDensityGrid(
+        survey,
+        survey.populations[0]!,
+        new FlatCosmology(survey.cosmology),
+        survey.sliceEdges,
+      );
+      const tables = buildSamplingTables(grid);
+      // expectations from the quadrature
+      let w = 0,
+        wt = 0,
+        wt2 = 0,
+        wu = 0,
+        wu2 = 0;
+      for (let q = 0; q < grid.pointT.length; q++) {
+        const g = Math.exp(grid.pointLogW[q]! + grid.pointA1[q]! * grid.pointT[q]! - grid.pointExpT[q]!);
+        const t = grid.pointT[q]!;
+        const u = grid.pointExpT[q]!;
+        w += g;
+        wt += g * t;
+        wt2 += g * t * t;
+        wu += g * u;
+        wu2 += g * u * u;
+      }
+      const n = 200_000;
+      // split the draws over slices in proportion to their expected counts
+      const counts = Array.from(tables.sliceExpected, (x) => Math.round((n * x) / w));
+      const total = counts.reduce((a, b) => a + b, 0);
+      const rng = mt19937.factory({ seed: 2024 }) as unknown as { normalized: () => number };
+      const sampler = new CatalogueSampler(grid, tables);
+      const st = sampler.draw(counts, rng.normalized);
+      // expectation for the rounded allocation
+      const meanT = wt / w;
+      const meanU = wu / w;
+      const seT = Math.sqrt((wt2 / w - meanT ** 2) / total);
+      const seU = Math.sqrt((wu2 / w - meanU ** 2) / total);
+      expect(st.total).toBe(total);
+      expect(Math.abs(st.sumT / total - meanT)).toBeLessThan(4 * seT);
+      expect(Math.abs(st.sumU / total - meanU)).toBeLessThan(4 * seU);
+    },
+  );
 });
 
 const FRACTIONS = (s: SurveySpec) => () => s.cosmic_variance!;
@@ -74,7 +92,11 @@ describe('mock standard deviations agree with Fisher sigmas (21 %) and fits are 
     ['line_flux, hard limit, Poisson only', withCount(spec('line_flux_hard_limit'), 5000), false],
     ['line_flux, logistic completeness, Poisson only', withCount(spec('line_flux_logistic_completeness'), 5000), false],
     ['threshold, Poisson only', withCount(spec('threshold_mass'), 5000), false],
-    ['magnitude, evolving alpha, with cosmic-variance nuisances', withCount(spec('magnitude_evolving_alpha'), 5000), true],
+    [
+      'magnitude, evolving alpha, with cosmic-variance nuisances',
+      withCount(spec('magnitude_evolving_alpha'), 5000),
+      true,
+    ],
   ];
   test.each(cases)('%s', async (_n, s, cv) => {
     const survey = surveyFromSpec(s);
@@ -91,13 +113,18 @@ describe('mock standard deviations agree with Fisher sigmas (21 %) and fits are 
     // (DEVELOPERS.md, "Forecasts": about a quarter of sigma, i.e. about 3.5 standard errors of the mean
     // with 200 mocks): its note may appear and its bias is bounded by half a sigma instead.
     const secondOrder = (name: string) => cv && name === 'log10_phi_star';
-    expect(m.notes.filter((n) => !(cv && n.startsWith('log10_phi_star: ') && n.includes('with cosmic variance this is expected')))).toEqual([]);
+    expect(
+      m.notes.filter(
+        (n) => !(cv && n.startsWith('log10_phi_star: ') && n.includes('with cosmic variance this is expected')),
+      ),
+    ).toEqual([]);
     for (const name of f.parameters) {
       const p = m.parameters[name]!;
       const ratio = p.std / f.fisher.sigma[name]!;
       expect(ratio, `${name}: mock std / Fisher sigma = ${ratio}`).toBeGreaterThan(0.79);
       expect(ratio, `${name}: mock std / Fisher sigma = ${ratio}`).toBeLessThan(1.21);
-      if (secondOrder(name)) expect(Math.abs(p.bias), `${name}: bias ${p.bias}`).toBeLessThan(0.5 * f.fisher.sigma[name]!);
+      if (secondOrder(name))
+        expect(Math.abs(p.bias), `${name}: bias ${p.bias}`).toBeLessThan(0.5 * f.fisher.sigma[name]!);
       else expect(Math.abs(p.bias_in_standard_errors), `${name}: bias ${p.bias}`).toBeLessThan(4);
       expect(p.p16).toBeLessThan(p.p50);
       expect(p.p50).toBeLessThan(p.p84);
@@ -109,7 +136,12 @@ describe('mock standard deviations agree with Fisher sigmas (21 %) and fits are 
   });
 
   test('sty estimator: log10_phi_star is not constrained and not reported; the shape parameters are', async () => {
-    const f = await forecast(surveyFromSpec(withCount(spec('threshold_mass'), 3000)), { mocks: 60, seed: 3, cosmicVariance: false, estimator: 'sty' });
+    const f = await forecast(surveyFromSpec(withCount(spec('threshold_mass'), 3000)), {
+      mocks: 60,
+      seed: 3,
+      cosmicVariance: false,
+      estimator: 'sty',
+    });
     expect(f.mocks!.estimator).toBe('sty');
     expect(f.mocks!.not_constrained).toEqual(['log10_phi_star']);
     expect(Object.keys(f.mocks!.parameters).sort()).toEqual(['alpha', 'log10_l_star']);

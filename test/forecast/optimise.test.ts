@@ -18,10 +18,16 @@ import { surveyFromSpec, type SurveySpec } from './helpers.js';
 
 describe('maximise (closed forms)', () => {
   test('concave quadratic: one step to the exact maximum', () => {
-    const a = [[-4, 1], [1, -3]];
+    const a = [
+      [-4, 1],
+      [1, -3],
+    ];
     const b = [1, 2];
     const f = (x: readonly number[]): Evaluation => ({
-      value: 0.5 * (a[0]![0]! * x[0]! ** 2 + 2 * a[0]![1]! * x[0]! * x[1]! + a[1]![1]! * x[1]! ** 2) + b[0]! * x[0]! + b[1]! * x[1]!,
+      value:
+        0.5 * (a[0]![0]! * x[0]! ** 2 + 2 * a[0]![1]! * x[0]! * x[1]! + a[1]![1]! * x[1]! ** 2) +
+        b[0]! * x[0]! +
+        b[1]! * x[1]!,
       gradient: [a[0]![0]! * x[0]! + a[0]![1]! * x[1]! + b[0]!, a[1]![0]! * x[0]! + a[1]![1]! * x[1]! + b[1]!],
       hessian: a,
     });
@@ -57,15 +63,25 @@ describe('maximise (closed forms)', () => {
   });
 });
 
-const ref = JSON.parse(readFileSync(new URL('../reference/fisher.json', import.meta.url), 'utf8')) as { cases: { survey: SurveySpec }[] };
+const ref = JSON.parse(readFileSync(new URL('../reference/fisher.json', import.meta.url), 'utf8')) as {
+  cases: { survey: SurveySpec }[];
+};
 
 describe('likelihood derivatives against central differences (consistency, 1e-5 relative)', () => {
   test.each(ref.cases.map((c) => [c.survey.name, c.survey] as const))('%s', (_n, spec) => {
     const survey = surveyFromSpec({ ...spec, area_deg2: spec.area_deg2 * 0.05 });
-    const grid = buildDensityGrid(survey, survey.populations[0]!, new FlatCosmology(survey.cosmology), survey.sliceEdges);
+    const grid = buildDensityGrid(
+      survey,
+      survey.populations[0]!,
+      new FlatCosmology(survey.cosmology),
+      survey.sliceEdges,
+    );
     const sampler = new CatalogueSampler(grid, buildSamplingTables(grid));
     const rng = mt19937.factory({ seed: 42 }) as unknown as { normalized: () => number };
-    const stats = sampler.draw(Array.from(buildSamplingTables(grid).sliceExpected, (x) => Math.round(x)), rng.normalized);
+    const stats = sampler.draw(
+      Array.from(buildSamplingTables(grid).sliceExpected, (x) => Math.round(x)),
+      rng.normalized,
+    );
     const cv = grid.edges.slice(1).map((_, i) => 0.05 + 0.03 * i);
     const noCv = cv.map(() => 0);
     const th = [0.03, -0.02, 0.04];

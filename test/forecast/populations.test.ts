@@ -54,7 +54,8 @@ function expectClose(a: unknown, b: unknown, tol: number, path = ''): void {
   }
   if (a && b && typeof a === 'object' && typeof b === 'object') {
     expect(Object.keys(a).sort(), path).toEqual(Object.keys(b).sort());
-    for (const k of Object.keys(a)) expectClose((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k], tol, `${path}.${k}`);
+    for (const k of Object.keys(a))
+      expectClose((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k], tol, `${path}.${k}`);
     return;
   }
   expect(a, path).toEqual(b);
@@ -88,7 +89,7 @@ describe('forecast --population NAME = the forecast of a file holding NAME alone
 });
 
 describe('compare and plan pick a population the same way (1e-9)', () => {
-  test('compare --population: the row equals the single-population file\'s (an interloper)', async () => {
+  test("compare --population: the row equals the single-population file's (an interloper)", async () => {
     const multi = loadSurveyFile(together());
     const single = loadSurveyFile(alone(2));
     const got = await compare([multi, single], { population: names[2]! });

@@ -13,9 +13,12 @@ import { deeperSurvey } from '../../src/forecast/requirement.js';
 import type { Survey } from '../../src/model/survey.js';
 import { surveyFromSpec, type SurveySpec } from './helpers.js';
 
-const ref = JSON.parse(readFileSync(new URL('../reference/fisher.json', import.meta.url), 'utf8')) as { cases: { survey: SurveySpec }[] };
+const ref = JSON.parse(readFileSync(new URL('../reference/fisher.json', import.meta.url), 'utf8')) as {
+  cases: { survey: SurveySpec }[];
+};
 const cases = ref.cases.map((c) => [c.survey.name, c.survey] as const);
-const areaScaledCv = (a0: number, base: number) => (s: Survey, edges: readonly number[]) => edges.slice(1).map(() => base * Math.sqrt(a0 / s.areaDeg2));
+const areaScaledCv = (a0: number, base: number) => (s: Survey, edges: readonly number[]) =>
+  edges.slice(1).map(() => base * Math.sqrt(a0 / s.areaDeg2));
 
 describe('requirement', () => {
   test.each(cases)('%s: Poisson-only area = A0 (sigma0/target)^2 (closed form, 1e-8)', async (_n, spec) => {
@@ -44,7 +47,8 @@ describe('requirement', () => {
       expect(Math.abs(again.fisher.sigma.alpha! / target - 1)).toBeLessThan(1e-6);
       // a looser target needs a shallower limit
       const deeper = factor < 1;
-      const deeperThanSurvey = r.limit_variable === 'line_flux_cgs' || r.limit_variable === 'log10_quantity' ? limit < d0 : limit > d0;
+      const deeperThanSurvey =
+        r.limit_variable === 'line_flux_cgs' || r.limit_variable === 'log10_quantity' ? limit < d0 : limit > d0;
       expect(deeperThanSurvey).toBe(deeper);
     }
   });
@@ -57,7 +61,10 @@ describe('requirement', () => {
     const target = base.fisher.sigma.log10_phi_star! / 3;
     const r = (await forecast(s, { cosmicVarianceSource: cv, targets: { log10_phi_star: target } })).requirement!;
     const area = r.area_deg2!;
-    const again = await forecast({ ...s, areaDeg2: area, areaSr: area * (Math.PI / 180) ** 2 }, { cosmicVarianceSource: cv });
+    const again = await forecast(
+      { ...s, areaDeg2: area, areaSr: area * (Math.PI / 180) ** 2 },
+      { cosmicVarianceSource: cv },
+    );
     expect(Math.abs(again.fisher.sigma.log10_phi_star! / target - 1)).toBeLessThan(1e-6);
   });
 
@@ -66,7 +73,12 @@ describe('requirement', () => {
     const s = surveyFromSpec(spec);
     const cv = () => s.sliceEdges.slice(1).map(() => 0.2);
     const base = await forecast(s, { cosmicVarianceSource: cv });
-    const r = (await forecast(s, { cosmicVarianceSource: cv, targets: { log10_phi_star: base.fisher.sigma.log10_phi_star! / 10 } })).requirement!;
+    const r = (
+      await forecast(s, {
+        cosmicVarianceSource: cv,
+        targets: { log10_phi_star: base.fisher.sigma.log10_phi_star! / 10 },
+      })
+    ).requirement!;
     expect(r.area_deg2).toBeNull();
     expect(r.by_parameter.log10_phi_star!.area_deg2).toBeNull();
     expect(r.by_parameter.log10_phi_star!.notes.join(' ')).toMatch(/cosmic variance sets a floor/);

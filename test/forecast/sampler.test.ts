@@ -27,16 +27,23 @@ import { SurveyError } from '../../src/errors.js';
 import { buildRejectionTables, RejectionSampler } from './rejection-sampler.js';
 import { surveyFromSpec, type SurveySpec } from './helpers.js';
 
-const ref = JSON.parse(readFileSync(new URL('../reference/fisher.json', import.meta.url), 'utf8')) as { cases: { survey: SurveySpec }[] };
+const ref = JSON.parse(readFileSync(new URL('../reference/fisher.json', import.meta.url), 'utf8')) as {
+  cases: { survey: SurveySpec }[];
+};
 const samplesDir = new URL('../../samples/', import.meta.url).pathname;
 
 function grids(): [string, DensityGrid][] {
   const out: [string, DensityGrid][] = [];
   for (const c of ref.cases) {
     const sv = surveyFromSpec(c.survey);
-    out.push([`reference ${c.survey.name}`, buildDensityGrid(sv, sv.populations[0]!, new FlatCosmology(sv.cosmology), sv.sliceEdges)]);
+    out.push([
+      `reference ${c.survey.name}`,
+      buildDensityGrid(sv, sv.populations[0]!, new FlatCosmology(sv.cosmology), sv.sliceEdges),
+    ]);
   }
-  for (const f of readdirSync(samplesDir).filter((x) => x.endsWith('.yaml')).sort()) {
+  for (const f of readdirSync(samplesDir)
+    .filter((x) => x.endsWith('.yaml'))
+    .sort()) {
     const file = loadSurveyFile(join(samplesDir, f));
     // every sample a forecast accepts (one Schechter function, sources counted by true redshift)
     let population;
@@ -79,7 +86,10 @@ describe('inverse tables: the cumulative distribution within 1e-5 of the exact i
     const cfn = completenessOfGrid(grid);
     let worst = 0;
     // every tenth node and the main ones: the whole range of redshifts
-    const nodes = new Set([...mainNodes(grid), ...Array.from({ length: grid.nodeZ.length }, (_, j) => j).filter((j) => j % 10 === 0)]);
+    const nodes = new Set([
+      ...mainNodes(grid),
+      ...Array.from({ length: grid.nodeZ.length }, (_, j) => j).filter((j) => j % 10 === 0),
+    ]);
     for (const j of nodes) {
       const c0 = tables.cellStart[j]!;
       const c1 = tables.cellStart[j + 1]!;
@@ -103,7 +113,8 @@ describe('inverse tables: the cumulative distribution within 1e-5 of the exact i
       }
       const total = cum[cum.length - 1]!;
       expect(total).toBeGreaterThan(0);
-      for (let k = 0; k < c1 - c0; k++) worst = Math.max(worst, Math.abs(tables.cellCum[c0 + k]! - cum[k + 1]! / total));
+      for (let k = 0; k < c1 - c0; k++)
+        worst = Math.max(worst, Math.abs(tables.cellCum[c0 + k]! - cum[k + 1]! / total));
     }
     expect(worst).toBeLessThan(1e-5);
   });

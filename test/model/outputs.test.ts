@@ -24,7 +24,9 @@ describe('the check output follows its schema (specs/check.schema.json)', async 
   const { readdirSync } = await import('node:fs');
   const { loadSurveyFile } = await import('../../src/survey/load.js');
   const { describeSurvey } = await import('../../src/survey/describe.js');
-  const validate = new Ajv2020({ allErrors: true, strict: false }).compile(JSON.parse(readFileSync('specs/check.schema.json', 'utf8')) as object);
+  const validate = new Ajv2020({ allErrors: true, strict: false }).compile(
+    JSON.parse(readFileSync('specs/check.schema.json', 'utf8')) as object,
+  );
   test.each(readdirSync('samples').filter((f) => f.endsWith('.yaml')))('samples/%s', (f) => {
     const ok = validate({ ...describeSurvey(loadSurveyFile(`samples/${f}`)), warnings: [] });
     expect(validate.errors ?? []).toEqual([]);

@@ -135,9 +135,13 @@ describe('upperGamma properties (fast-check)', () => {
   });
   test('increasing in s for x > 1 (the integrand t^(s-1) grows with s when t > 1)', () => {
     fc.assert(
-      fc.property(fc.double({ min: -4, max: 4, noNaN: true }), fc.double({ min: 1.01, max: 60, noNaN: true }), (s, x) => {
-        return upperGamma(s + 0.01, x) > upperGamma(s, x);
-      }),
+      fc.property(
+        fc.double({ min: -4, max: 4, noNaN: true }),
+        fc.double({ min: 1.01, max: 60, noNaN: true }),
+        (s, x) => {
+          return upperGamma(s + 0.01, x) > upperGamma(s, x);
+        },
+      ),
       { numRuns: 1000 },
     );
   });

@@ -43,7 +43,10 @@ describe('natural cubic spline', () => {
   });
   test('reproduces a straight line exactly (its second derivative is zero at the ends)', () => {
     const xs = [0, 0.3, 1, 1.7, 4];
-    const s = naturalCubicSpline(xs, xs.map((x) => 2 - x));
+    const s = naturalCubicSpline(
+      xs,
+      xs.map((x) => 2 - x),
+    );
     for (const x of [0.1, 0.9, 2.2, 3.9]) expect(s(x)).toBeCloseTo(2 - x, 13);
   });
   test('interpolates sin on [0, pi] (zero curvature at both ends) to 1e-8 with h = pi/200: fourth order', () => {

@@ -26,13 +26,16 @@ describe('Gauss-Legendre rule', () => {
     expect(r3.weights[1]).toBeCloseTo(8 / 9, 15);
     expect(r3.weights[2]).toBeCloseTo(5 / 9, 15);
   });
-  test.each([1, 4, 7, 16, 24, 50, 100])('n = %i: exact for x^k, k <= 2n-1 (integral 2/(k+1) for even k), 1e-13', (n) => {
-    for (let k = 0; k <= 2 * n - 1; k++) {
-      const v = gaussLegendre((x) => Math.pow(x, k), -1, 1, n);
-      const exact = k % 2 === 0 ? 2 / (k + 1) : 0;
-      expect(Math.abs(v - exact), `k=${k}`).toBeLessThan(1e-13);
-    }
-  });
+  test.each([1, 4, 7, 16, 24, 50, 100])(
+    'n = %i: exact for x^k, k <= 2n-1 (integral 2/(k+1) for even k), 1e-13',
+    (n) => {
+      for (let k = 0; k <= 2 * n - 1; k++) {
+        const v = gaussLegendre((x) => Math.pow(x, k), -1, 1, n);
+        const exact = k % 2 === 0 ? 2 / (k + 1) : 0;
+        expect(Math.abs(v - exact), `k=${k}`).toBeLessThan(1e-13);
+      }
+    },
+  );
   test('n = 20 on [0, 1]: integral of e^x = e - 1 (relative 1e-15)', () => {
     expect(rel(gaussLegendre(Math.exp, 0, 1, 20), Math.E - 1)).toBeLessThan(1e-15);
   });
@@ -103,9 +106,9 @@ describe('integrateToInfinity against closed forms', () => {
   test('e^-x on [0, inf) = 1; 1/(1+x^2) on [0, inf) = pi/2; e^-x^2 on [0, inf) = sqrt(pi)/2; e^-x on [2, inf) = e^-2', () => {
     expect(rel(integrateToInfinity((t) => Math.exp(-t), 0, { rel: 1e-12 }).value, 1)).toBeLessThan(1e-12);
     expect(rel(integrateToInfinity((t) => 1 / (1 + t * t), 0, { rel: 1e-12 }).value, Math.PI / 2)).toBeLessThan(1e-12);
-    expect(rel(integrateToInfinity((t) => Math.exp(-t * t), 0, { rel: 1e-12 }).value, Math.sqrt(Math.PI) / 2)).toBeLessThan(
-      1e-12,
-    );
+    expect(
+      rel(integrateToInfinity((t) => Math.exp(-t * t), 0, { rel: 1e-12 }).value, Math.sqrt(Math.PI) / 2),
+    ).toBeLessThan(1e-12);
     expect(rel(integrateToInfinity((t) => Math.exp(-t), 2, { rel: 1e-12 }).value, Math.exp(-2))).toBeLessThan(1e-12);
   });
 });
@@ -127,10 +130,20 @@ describe('panelNodes (composite Gauss-Legendre between cut points)', () => {
     expect(Math.abs(sum(p, () => 1) - 3)).toBeLessThan(1e-14);
   });
   test('exact for polynomials of degree 2n-1 on each panel: integral of x^7 over [0, 3] = 3^8/8 (4 points, relative 1e-14)', () => {
-    expect(rel(sum(panelNodes([0, 3], 0.7, 4), (x) => x ** 7), 3 ** 8 / 8)).toBeLessThan(1e-14);
+    expect(
+      rel(
+        sum(panelNodes([0, 3], 0.7, 4), (x) => x ** 7),
+        3 ** 8 / 8,
+      ),
+    ).toBeLessThan(1e-14);
   });
   test('a kink at a cut is integrated exactly: integral of |x - 0.3| over [0, 1] = 0.29 (closed form, 1e-14)', () => {
-    expect(rel(sum(panelNodes([0, 1, 0.3], 1, 2), (x) => Math.abs(x - 0.3)), 0.29)).toBeLessThan(1e-14);
+    expect(
+      rel(
+        sum(panelNodes([0, 1, 0.3], 1, 2), (x) => Math.abs(x - 0.3)),
+        0.29,
+      ),
+    ).toBeLessThan(1e-14);
   });
   test('a reused output grows when too short and gives the same nodes as a fresh one', () => {
     const out = { x: new Float64Array(4), w: new Float64Array(4), count: 0 };

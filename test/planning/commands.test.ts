@@ -56,7 +56,13 @@ describe('compare = predict + forecast, row by row', () => {
     expect(r.code).toBe(0);
     expect(r.stdout).toMatch(/ \*/);
     expect(r.stdout).toContain('* best value in the row');
-    const csv = await runCli(['compare', 'samples/halpha-narrowband.yaml', 'samples/plan-halpha-layers.yaml', '--format', 'csv']);
+    const csv = await runCli([
+      'compare',
+      'samples/halpha-narrowband.yaml',
+      'samples/plan-halpha-layers.yaml',
+      '--format',
+      'csv',
+    ]);
     expect(parseCsvStrict(csv.stdout).header.at(-1)).toBe('best');
   }, 60_000);
 
@@ -77,13 +83,21 @@ describe('compare = predict + forecast, row by row', () => {
   }, 60_000);
 
   test('goals and sigmas in words, never keys (failed before: "sigma log10_l_star")', async () => {
-    const c = await runCli(['compare', 'samples/halpha-narrowband.yaml', 'samples/deep-continuum.yaml', '--no-cosmic-variance']);
+    const c = await runCli([
+      'compare',
+      'samples/halpha-narrowband.yaml',
+      'samples/deep-continuum.yaml',
+      '--no-cosmic-variance',
+    ]);
     expect(c.stdout).toContain('sigma of alpha');
     expect(c.stdout).toContain('sigma of log10 L*');
     expect(c.stdout).not.toMatch(/sigma (log10_|m_star|alpha\b)/);
     const dir = tempDir('skytally-words-');
     const file = join(dir, 'plan.yaml');
-    writeFileSync(file, sampleText('plan-halpha-layers.yaml').replace('count: 120}', 'count: 20}').replace('tiers: 2', 'tiers: 1'));
+    writeFileSync(
+      file,
+      sampleText('plan-halpha-layers.yaml').replace('count: 120}', 'count: 20}').replace('tiers: 2', 'tiers: 1'),
+    );
     const p = await runCli(['plan', file]);
     expect(p.stdout).toContain('Goal: smallest sigma of log10 L*');
     expect(p.stdout).not.toMatch(/log10_l_star|log10_phi_star/);
@@ -121,7 +135,9 @@ describe('plan', () => {
     expect(JSON.stringify(two)).toBe(JSON.stringify(one));
   }, 120_000);
   test('fixed area: one design using the whole budget on the pointings that cover it', async () => {
-    const s = halphaPlan('  field_of_view: 0.2\n  reference: {limit: 6e-17, exposure_hours: 1}\n  budget_hours: 30\n  overhead_hours: 0.1\n  fixed: {area: 3.9}\n  goal: count\n');
+    const s = halphaPlan(
+      '  field_of_view: 0.2\n  reference: {limit: 6e-17, exposure_hours: 1}\n  budget_hours: 30\n  overhead_hours: 0.1\n  fixed: {area: 3.9}\n  goal: count\n',
+    );
     const p = await plan(s);
     expect(p.designs).toHaveLength(1);
     expect(p.best.pointings).toBe(20);
@@ -135,33 +151,84 @@ describe('bad plan sections: exit 2, one sentence naming the file and the key', 
   const head = base.slice(0, base.indexOf('\nplan:'));
   const cases: [string, string, string][] = [
     ['missing plan section', '', 'plan'],
-    ['unknown key', 'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n  reference: {limit: 6e-17, exposure_hours: 1}\n  tierz: 2\n', 'plan.tierz'],
-    ['field of view without a unit of area', 'plan:\n  field_of_view: "0.2 h"\n  budget_hours: 10\n  goal: count\n  reference: {limit: 6e-17, exposure_hours: 1}\n', 'plan.field_of_view'],
-    ['unknown goal', 'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: counts\n  reference: {limit: 6e-17, exposure_hours: 1}\n', 'plan.goal'],
-    ['sigma of a parameter the population does not have', 'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: {sigma: m_star}\n  reference: {limit: 6e-17, exposure_hours: 1}\n', 'plan.goal.sigma'],
-    ['background law without a reference', 'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n', 'plan.reference'],
-    ['too many tiers', 'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n  reference: {limit: 6e-17, exposure_hours: 1}\n  tiers: 4\n', 'plan.tiers'],
-    ['a table that does not deepen', 'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n  depth_law: {table: [[1, 6e-17], [4, 8e-17]]}\n', 'plan.depth_law.table[1][1]'],
-    ['grid beyond the table', 'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n  depth_law: {table: [[1, 6e-17], [4, 3e-17]]}\n  exposure_grid: {min_hours: 1, max_hours: 9, count: 10}\n', 'plan.exposure_grid.max_hours'],
-    ['not one pointing fits', 'plan:\n  field_of_view: 0.2\n  budget_hours: 1\n  overhead_hours: 2\n  goal: count\n  reference: {limit: 6e-17, exposure_hours: 1}\n', 'plan.exposure_grid.min_hours'],
-    ['fixed area and limit together', 'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n  reference: {limit: 6e-17, exposure_hours: 1}\n  fixed: {area: 1, limit: 5e-17}\n', 'plan.fixed.limit'],
-    ['minimum count no design reaches', 'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n  reference: {limit: 6e-17, exposure_hours: 1}\n  minimum_count: 1e9\n  exposure_grid: {min_hours: 0.5, max_hours: 5, count: 10}\n', 'plan.minimum_count'],
+    [
+      'unknown key',
+      'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n  reference: {limit: 6e-17, exposure_hours: 1}\n  tierz: 2\n',
+      'plan.tierz',
+    ],
+    [
+      'field of view without a unit of area',
+      'plan:\n  field_of_view: "0.2 h"\n  budget_hours: 10\n  goal: count\n  reference: {limit: 6e-17, exposure_hours: 1}\n',
+      'plan.field_of_view',
+    ],
+    [
+      'unknown goal',
+      'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: counts\n  reference: {limit: 6e-17, exposure_hours: 1}\n',
+      'plan.goal',
+    ],
+    [
+      'sigma of a parameter the population does not have',
+      'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: {sigma: m_star}\n  reference: {limit: 6e-17, exposure_hours: 1}\n',
+      'plan.goal.sigma',
+    ],
+    [
+      'background law without a reference',
+      'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n',
+      'plan.reference',
+    ],
+    [
+      'too many tiers',
+      'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n  reference: {limit: 6e-17, exposure_hours: 1}\n  tiers: 4\n',
+      'plan.tiers',
+    ],
+    [
+      'a table that does not deepen',
+      'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n  depth_law: {table: [[1, 6e-17], [4, 8e-17]]}\n',
+      'plan.depth_law.table[1][1]',
+    ],
+    [
+      'grid beyond the table',
+      'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n  depth_law: {table: [[1, 6e-17], [4, 3e-17]]}\n  exposure_grid: {min_hours: 1, max_hours: 9, count: 10}\n',
+      'plan.exposure_grid.max_hours',
+    ],
+    [
+      'not one pointing fits',
+      'plan:\n  field_of_view: 0.2\n  budget_hours: 1\n  overhead_hours: 2\n  goal: count\n  reference: {limit: 6e-17, exposure_hours: 1}\n',
+      'plan.exposure_grid.min_hours',
+    ],
+    [
+      'fixed area and limit together',
+      'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n  reference: {limit: 6e-17, exposure_hours: 1}\n  fixed: {area: 1, limit: 5e-17}\n',
+      'plan.fixed.limit',
+    ],
+    [
+      'minimum count no design reaches',
+      'plan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n  reference: {limit: 6e-17, exposure_hours: 1}\n  minimum_count: 1e9\n  exposure_grid: {min_hours: 0.5, max_hours: 5, count: 10}\n',
+      'plan.minimum_count',
+    ],
   ];
-  test.each(cases)('%s', async (_name, section, key) => {
-    const file = join(dir, `${key.replace(/[^a-z_]/gi, '_')}.yaml`);
-    writeFileSync(file, `${head}\n${section}`);
-    const r = await runCli(['plan', file, '--format', 'json']);
-    expect(r.code).toBe(2);
-    expect(r.stdout).toBe('');
-    const lines = r.stderr.trim().split('\n');
-    expect(lines).toHaveLength(1);
-    expect(lines[0]).toContain(file);
-    expect(lines[0]).toContain(`${key}:`);
-    expect(lines[0]!.trim().endsWith('.')).toBe(true);
-  }, 60_000);
+  test.each(cases)(
+    '%s',
+    async (_name, section, key) => {
+      const file = join(dir, `${key.replace(/[^a-z_]/gi, '_')}.yaml`);
+      writeFileSync(file, `${head}\n${section}`);
+      const r = await runCli(['plan', file, '--format', 'json']);
+      expect(r.code).toBe(2);
+      expect(r.stdout).toBe('');
+      const lines = r.stderr.trim().split('\n');
+      expect(lines).toHaveLength(1);
+      expect(lines[0]).toContain(file);
+      expect(lines[0]).toContain(`${key}:`);
+      expect(lines[0]!.trim().endsWith('.')).toBe(true);
+    },
+    60_000,
+  );
   test('a threshold survey cannot be planned', async () => {
     const file = join(dir, 'threshold.yaml');
-    writeFileSync(file, sampleText('mass-limited.yaml') + '\nplan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n');
+    writeFileSync(
+      file,
+      sampleText('mass-limited.yaml') + '\nplan:\n  field_of_view: 0.2\n  budget_hours: 10\n  goal: count\n',
+    );
     const r = await runCli(['plan', file]);
     expect(r.code).toBe(2);
     expect(r.stderr).toContain('detection.kind');

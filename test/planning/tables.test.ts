@@ -32,16 +32,28 @@ describe.each([
   ['magnitude with evolving model and logistic completeness', uv, 'magnitude' as const, 28, 9.5 / 3600],
 ])('%s: tabulated numbers equal the forecast grid rebuilt at the limit', (_n, survey, kind, refLimit, fov) => {
   const depth = makeDepthModel(kind, { kind: 'background', referenceLimit: refLimit, referenceHours: 1 });
-  const modelP = buildDesignModel(survey, survey.populations[0]!, { limitKind: kind, depth, fieldOfViewDeg2: fov }, [0.1, 30], [1, 500], { cosmicVariance: false });
-  test.each([0.1, 0.1234, 0.77, 3.1, 17.7, 30])('at %s h per pointing: count and every Fisher element to 1e-6', async (h) => {
-    const model = await modelP;
-    const v = model.tier(h, 7);
-    const s = surveyAtLimit(survey, depth.limitAt(h), 7 * fov);
-    const parts = fisherParts(buildDensityGrid(s, s.populations[0]!, new FlatCosmology(s.cosmology), s.sliceEdges));
-    expect(rel(v.count, parts.count)).toBeLessThan(1e-6);
-    for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) expect(rel(v.fisher[j]![k]!, parts.matrix[j]![k]!), `F[${j}][${k}]`).toBeLessThan(1e-6);
-    expect(v.areaDeg2).toBeCloseTo(7 * fov, 12);
-  });
+  const modelP = buildDesignModel(
+    survey,
+    survey.populations[0]!,
+    { limitKind: kind, depth, fieldOfViewDeg2: fov },
+    [0.1, 30],
+    [1, 500],
+    { cosmicVariance: false },
+  );
+  test.each([0.1, 0.1234, 0.77, 3.1, 17.7, 30])(
+    'at %s h per pointing: count and every Fisher element to 1e-6',
+    async (h) => {
+      const model = await modelP;
+      const v = model.tier(h, 7);
+      const s = surveyAtLimit(survey, depth.limitAt(h), 7 * fov);
+      const parts = fisherParts(buildDensityGrid(s, s.populations[0]!, new FlatCosmology(s.cosmology), s.sliceEdges));
+      expect(rel(v.count, parts.count)).toBeLessThan(1e-6);
+      for (let j = 0; j < 3; j++)
+        for (let k = 0; k < 3; k++)
+          expect(rel(v.fisher[j]![k]!, parts.matrix[j]![k]!), `F[${j}][${k}]`).toBeLessThan(1e-6);
+      expect(v.areaDeg2).toBeCloseTo(7 * fov, 12);
+    },
+  );
 });
 
 describe('closed form: count fainter than L* without completeness (upper incomplete gamma)', () => {
@@ -53,7 +65,9 @@ describe('closed form: count fainter than L* without completeness (upper incompl
       let expected = 0;
       for (let j = grid.sliceNodeStart[sl]!; j < grid.sliceNodeStart[sl + 1]!; j++) {
         const uLim = Math.exp(grid.nodeTLim[j]! + delta);
-        if (uLim < 1) expected += Math.exp(grid.nodeLogV[j]!) * (upperGamma(grid.nodeA1[j]!, uLim) - upperGamma(grid.nodeA1[j]!, 1));
+        if (uLim < 1)
+          expected +=
+            Math.exp(grid.nodeLogV[j]!) * (upperGamma(grid.nodeA1[j]!, uLim) - upperGamma(grid.nodeA1[j]!, 1));
       }
       const got = faintCount(grid, sl, delta).count;
       if (expected === 0) expect(got).toBe(0);
@@ -75,10 +89,18 @@ describe('consistency with the forecast, cosmic variance included', () => {
     [9, 3],
   ])('H-alpha at %s h x %s pointings: sigmas to 2e-3 relative', async (h, n) => {
     const depth = makeDepthModel('line_flux', { kind: 'background', referenceLimit: 6e-17, referenceHours: 1 });
-    const model = await buildDesignModel(halpha, halpha.populations[0]!, { limitKind: 'line_flux', depth, fieldOfViewDeg2: 0.2 }, [0.2, 40], [1, 400]);
+    const model = await buildDesignModel(
+      halpha,
+      halpha.populations[0]!,
+      { limitKind: 'line_flux', depth, fieldOfViewDeg2: 0.2 },
+      [0.2, 40],
+      [1, 400],
+    );
     const s = surveyAtLimit(halpha, depth.limitAt(h), n * 0.2);
     const f = await forecast(s);
     const sig = sigmasOf(model.tier(h, n).fisher)!;
-    ['log10_phi_star', 'log10_l_star', 'alpha'].forEach((name, i) => expect(rel(sig[i]!, f.fisher.sigma[name]!), name).toBeLessThan(2e-3));
+    ['log10_phi_star', 'log10_l_star', 'alpha'].forEach((name, i) =>
+      expect(rel(sig[i]!, f.fisher.sigma[name]!), name).toBeLessThan(2e-3),
+    );
   });
 });

@@ -5,7 +5,15 @@
  */
 import type { DesignModel, TierValue } from '../../src/planning/model.js';
 import type { PlanGoal } from '../../src/model/plan.js';
-import { better, budgetSplits, combine, pointingsFor, type Budget, type Evaluated, type TieredResult } from '../../src/planning/search.js';
+import {
+  better,
+  budgetSplits,
+  combine,
+  pointingsFor,
+  type Budget,
+  type Evaluated,
+  type TieredResult,
+} from '../../src/planning/search.js';
 
 /**
  * For each budget split (tiers ordered from the shortest exposure to the longest), coordinate
@@ -69,10 +77,18 @@ export function searchTiersWithObjects(
       if (!changed) break;
     }
     if (current !== undefined) {
-      designs.push(combine(goal, parameterIndex, budget, idx.map((e, i) => rows[i]![e]!), split, true));
+      designs.push(
+        combine(
+          goal,
+          parameterIndex,
+          budget,
+          idx.map((e, i) => rows[i]![e]!),
+          split,
+          true,
+        ),
+      );
     }
     onProgress?.(si + 1, splits.length);
   });
   return { splits, designs };
 }
-

@@ -16,7 +16,13 @@ const survey = sample('plan-halpha-layers.yaml');
 let model: DesignModel;
 beforeAll(async () => {
   const depth = makeDepthModel('line_flux', { kind: 'background', referenceLimit: 6e-17, referenceHours: 1 });
-  model = await buildDesignModel(survey, survey.populations[0]!, { limitKind: 'line_flux', depth, fieldOfViewDeg2: 0.2 }, [0.03, 40], [1, 3000]);
+  model = await buildDesignModel(
+    survey,
+    survey.populations[0]!,
+    { limitKind: 'line_flux', depth, fieldOfViewDeg2: 0.2 },
+    [0.03, 40],
+    [1, 3000],
+  );
 }, 60_000);
 
 const goals: [PlanGoal, number][] = [
@@ -31,7 +37,11 @@ describe('typed tier rows equal the object-based search exactly', () => {
   for (const [goal, index] of goals) {
     for (const k of [2, 3]) {
       test(`${JSON.stringify(goal)}, ${k} tiers`, () => {
-        for (const [n, minimumCount] of [[40, 0], [301, 0], [120, 20_000]] as const) {
+        for (const [n, minimumCount] of [
+          [40, 0],
+          [301, 0],
+          [120, 20_000],
+        ] as const) {
           const budget: Budget = { budgetHours: 80, overheadHours: 0.1, minimumCount };
           const exposures = logGrid(0.03, 40, n);
           const typed = searchTiers(model, goal, index, budget, exposures, k);

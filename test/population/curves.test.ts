@@ -112,14 +112,19 @@ describe('per magnitude, magnitude variable (closed form)', () => {
     expect(rel(at(curve, mStar), (0.4 * Math.LN10 * phiStar) / Math.E)).toBeLessThan(REL);
   });
 
-  test.each([-2.5, -1, 2.5, 5])('at M = M* %+f: 0.4 ln10 phi* u^(alpha+1) exp(-u), u = 10^(0.4 (M* - M)), rel 1e-12', (dm) => {
-    const u = 10 ** (0.4 * -dm);
-    const expected = 0.4 * Math.LN10 * phiStar * u ** (alpha + 1) * Math.exp(-u);
-    expect(rel(at(curve, mStar + dm), expected)).toBeLessThan(REL);
-  });
+  test.each([-2.5, -1, 2.5, 5])(
+    'at M = M* %+f: 0.4 ln10 phi* u^(alpha+1) exp(-u), u = 10^(0.4 (M* - M)), rel 1e-12',
+    (dm) => {
+      const u = 10 ** (0.4 * -dm);
+      const expected = 0.4 * Math.LN10 * phiStar * u ** (alpha + 1) * Math.exp(-u);
+      expect(rel(at(curve, mStar + dm), expected)).toBeLessThan(REL);
+    },
+  );
 
   test('every grid point equals schechterMagnitude; the faint end is past the limit', () => {
-    curve.x.forEach((x, i) => expect(rel(curve.phi[i]!, schechterMagnitude(x, phiStar, mStar, alpha))).toBeLessThan(REL));
+    curve.x.forEach((x, i) =>
+      expect(rel(curve.phi[i]!, schechterMagnitude(x, phiStar, mStar, alpha))).toBeLessThan(REL),
+    );
     expect(curve.x[curve.x.length - 1]!).toBeGreaterThan(curve.limit);
     expect(curve.x[0]!).toBeCloseTo(mStar - 2.5 * DEX_ABOVE_KNEE, 9);
   });

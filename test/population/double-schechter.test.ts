@@ -34,14 +34,17 @@ interface Case {
   luminosity_above: number;
   luminosity_total?: number;
 }
-const fixture = JSON.parse(readFileSync(new URL('../reference/double_schechter.json', import.meta.url), 'utf8')) as { cases: Case[] };
+const fixture = JSON.parse(readFileSync(new URL('../reference/double_schechter.json', import.meta.url), 'utf8')) as {
+  cases: Case[];
+};
 
 describe('double Schechter = sum of two single Schechter functions with a shared L* (exact)', () => {
   const c1 = { phiStar: 3.9e-3, alpha: -0.35 };
   const c2 = { phiStar: 7.9e-4, alpha: -1.47 };
   test.each([1e8, 3e9, 4.57e10, 2e11, 8e11])('luminosity form at L = %f', (l) => {
     const lStar = 10 ** 10.66;
-    const sum = schechterLuminosity(l, c1.phiStar, lStar, c1.alpha) + schechterLuminosity(l, c2.phiStar, lStar, c2.alpha);
+    const sum =
+      schechterLuminosity(l, c1.phiStar, lStar, c1.alpha) + schechterLuminosity(l, c2.phiStar, lStar, c2.alpha);
     expect(Math.abs(doubleSchechterLuminosity(l, lStar, c1, c2) / sum - 1)).toBeLessThan(1e-14);
   });
   test.each([-23, -21.2, -20, -17, -14])('magnitude form at M = %f', (m) => {
@@ -52,7 +55,9 @@ describe('double Schechter = sum of two single Schechter functions with a shared
   test('phi2* = 0 gives the single Schechter function (exact identity; 1e-15 relative for round-off)', () => {
     for (const l of [1e40, 3e41, 5e42]) {
       const single = schechterLuminosity(l, c1.phiStar, 2e42, c1.alpha);
-      expect(Math.abs(doubleSchechterLuminosity(l, 2e42, c1, { phiStar: 0, alpha: -1.8 }) / single - 1)).toBeLessThan(1e-15);
+      expect(Math.abs(doubleSchechterLuminosity(l, 2e42, c1, { phiStar: 0, alpha: -1.8 }) / single - 1)).toBeLessThan(
+        1e-15,
+      );
     }
     expect(componentsNumberAbove(0.01, [c1, { phiStar: 0, alpha: -1.8 }])).toBe(componentsNumberAbove(0.01, [c1]));
   });

@@ -30,23 +30,31 @@ describe('Schechter forms agree (change of variables, exact)', () => {
 });
 
 describe('integrals', () => {
-  test.each([-0.7, -1.2, -1.8])('luminosity density tends to phi* L* Gamma(alpha+2) (common practice), alpha = %f', (alpha) => {
-    // The fraction of j above u tends to 1 as u -> 0, with deficit gamma(s, u)/Gamma(s) ~ u^s / (s Gamma(s)),
-    // s = alpha + 2 > 0 (leading term of the series of the lower incomplete gamma, DLMF 8.7.1); 1e-3 relative.
-    const s = alpha + 2;
-    for (const u of [1e-4, 1e-5, 1e-6]) {
-      const fraction = luminosityDensityAbove(u, 2.2e-3, 1, alpha) / (2.2e-3 * gammaFn(s));
-      const deficit = u ** s / (s * gammaFn(s));
-      expect(Math.abs((1 - fraction) / deficit - 1)).toBeLessThan(1e-3);
-    }
-    expect(totalLuminosityDensity(2.2e-3, 2, alpha)).toBeCloseTo(2.2e-3 * 2 * gammaFn(alpha + 2), 15);
-  });
+  test.each([-0.7, -1.2, -1.8])(
+    'luminosity density tends to phi* L* Gamma(alpha+2) (common practice), alpha = %f',
+    (alpha) => {
+      // The fraction of j above u tends to 1 as u -> 0, with deficit gamma(s, u)/Gamma(s) ~ u^s / (s Gamma(s)),
+      // s = alpha + 2 > 0 (leading term of the series of the lower incomplete gamma, DLMF 8.7.1); 1e-3 relative.
+      const s = alpha + 2;
+      for (const u of [1e-4, 1e-5, 1e-6]) {
+        const fraction = luminosityDensityAbove(u, 2.2e-3, 1, alpha) / (2.2e-3 * gammaFn(s));
+        const deficit = u ** s / (s * gammaFn(s));
+        expect(Math.abs((1 - fraction) / deficit - 1)).toBeLessThan(1e-3);
+      }
+      expect(totalLuminosityDensity(2.2e-3, 2, alpha)).toBeCloseTo(2.2e-3 * 2 * gammaFn(alpha + 2), 15);
+    },
+  );
   test('the total luminosity density diverges for alpha <= -2', () => {
     expect(() => totalLuminosityDensity(2.2e-3, 1, -2.1)).toThrow();
   });
-  test.each([-0.5, -1.5, -2.2])('number above u equals the direct integral of phi (quadrature, 1e-8), alpha = %f', (alpha) => {
-    const u = 0.03;
-    const direct = integrate((t) => Math.exp((alpha + 1) * t - Math.exp(t)), Math.log(u), Math.log(80), { rel: 1e-12 }).value;
-    expect(numberDensityAbove(u, 1, alpha) / direct).toBeCloseTo(1, 8);
-  });
+  test.each([-0.5, -1.5, -2.2])(
+    'number above u equals the direct integral of phi (quadrature, 1e-8), alpha = %f',
+    (alpha) => {
+      const u = 0.03;
+      const direct = integrate((t) => Math.exp((alpha + 1) * t - Math.exp(t)), Math.log(u), Math.log(80), {
+        rel: 1e-12,
+      }).value;
+      expect(numberDensityAbove(u, 1, alpha) / direct).toBeCloseTo(1, 8);
+    },
+  );
 });

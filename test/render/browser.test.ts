@@ -113,7 +113,10 @@ describe.skipIf(!haveChromium)('report in headless chromium', () => {
       expect(box!.width).toBeGreaterThan(100);
       expect(box!.height).toBeGreaterThan(100);
       // the browser parsed it as SVG (namespace given by the HTML parser) with drawn marks
-      const marks = await svg.evaluate((el) => ({ ns: el.namespaceURI, paths: el.querySelectorAll('path, line, text').length }));
+      const marks = await svg.evaluate((el) => ({
+        ns: el.namespaceURI,
+        paths: el.querySelectorAll('path, line, text').length,
+      }));
       expect(marks.ns).toBe('http://www.w3.org/2000/svg');
       expect(marks.paths).toBeGreaterThan(10);
     }

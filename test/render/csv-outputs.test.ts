@@ -79,7 +79,9 @@ describe('CSV of every command, read strictly', () => {
     expect(text).not.toMatch(/\n\n/);
     const all = csv.records.filter((r) => r.tier === 'all');
     expect(all.length).toBeGreaterThanOrEqual(json.designs.length);
-    all.slice(0, json.designs.length).forEach((r, i) => expect(csvNumber(r.goal_value)).toBe(json.designs[i].goal_value));
+    all
+      .slice(0, json.designs.length)
+      .forEach((r, i) => expect(csvNumber(r.goal_value)).toBe(json.designs[i].goal_value));
     expect(csv.records.filter((r) => r.best === '*').length).toBeGreaterThanOrEqual(1);
   }, 60_000);
 });

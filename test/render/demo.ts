@@ -76,7 +76,13 @@ export function demoPrediction(
       count: total,
       per_deg2: total / 2.5,
       volume_mpc3: slices.reduce((a, s) => a + s.volume_mpc3, 0),
-      uncertainty: { poisson_fraction: 1 / Math.sqrt(total), cosmic_variance_fraction: 0.04, total_fraction: Math.hypot(1 / Math.sqrt(total), 0.04), bias: 1.5, sigma_matter: 0.027 },
+      uncertainty: {
+        poisson_fraction: 1 / Math.sqrt(total),
+        cosmic_variance_fraction: 0.04,
+        total_fraction: Math.hypot(1 / Math.sqrt(total), 0.04),
+        bias: 1.5,
+        sigma_matter: 0.027,
+      },
     },
     slices,
     model: {
@@ -85,7 +91,12 @@ export function demoPrediction(
       variable: 'luminosity',
       phi_star: 6e-4,
       log10_l_star: '42.4 + 0.3*(z - 0.8)',
-      alpha: { table: [[0.8, -1.5], [1.6, -1.6]] },
+      alpha: {
+        table: [
+          [0.8, -1.5],
+          [1.6, -1.6],
+        ],
+      },
     },
   };
 }

@@ -31,13 +31,17 @@ type Any = Json;
 
 /** Bars drawn by vega in an SVG: aria label and rectangle (x, y, width, height) from the path. */
 function bars(svg: string): { label: string; x: number; y: number; w: number; h: number }[] {
-  const re = /<path aria-label="([^"]*)" role="graphics-symbol" aria-roledescription="bar" d="M([-\d.e]+),([-\d.e]+)h([-\d.e]+)v([-\d.e]+)h[-\d.e]+Z"/g;
+  const re =
+    /<path aria-label="([^"]*)" role="graphics-symbol" aria-roledescription="bar" d="M([-\d.e]+),([-\d.e]+)h([-\d.e]+)v([-\d.e]+)h[-\d.e]+Z"/g;
   return [...svg.matchAll(re)].map((m) => ({ label: m[1]!, x: +m[2]!, y: +m[3]!, w: +m[4]!, h: +m[5]! }));
 }
 
 /** "values from 0 to 4,500" in an axis aria label -> [0, 4500]. */
 function axisDomain(svg: string, axis: 'X' | 'Y', nth = 0): [number, number] {
-  const re = new RegExp(`aria-label="${axis}-axis titled '[^']*' for a (?:linear|log) scale with values from ([-\\d.,e]+) to ([-\\d.,e]+)"`, 'g');
+  const re = new RegExp(
+    `aria-label="${axis}-axis titled '[^']*' for a (?:linear|log) scale with values from ([-\\d.,e]+) to ([-\\d.,e]+)"`,
+    'g',
+  );
   const m = [...svg.matchAll(re)][nth];
   if (!m) throw new Error(`no ${axis} axis`);
   return [Number(m[1]!.replace(/,/g, '')), Number(m[2]!.replace(/,/g, ''))];
@@ -140,7 +144,13 @@ describe('luminosity-function figure', () => {
     expect(new Set(values.map((r) => r.slice)).size).toBe(demo.slices.length);
     const layers = spec.spec.layer as Any[];
     const kindOf = (l: Any) => /datum\.kind === '(\w+)'/.exec(l.transform[0].filter)![1];
-    expect(layers.map((l) => `${l.mark.type}:${kindOf(l)}`)).toEqual(['area:detected', 'line:curve', 'rule:limit', 'rule:knee', 'text:knee']);
+    expect(layers.map((l) => `${l.mark.type}:${kindOf(l)}`)).toEqual([
+      'area:detected',
+      'line:curve',
+      'rule:limit',
+      'rule:knee',
+      'text:knee',
+    ]);
     demo.slices.forEach((s, i) => {
       const c = s.luminosity_function!;
       const rows = values.filter((r) => r.slice === i + 1);
@@ -233,8 +243,28 @@ describe('forecast figure: Fisher ellipses', () => {
   });
 
   test('no ellipse for a covariance that is not positive definite', () => {
-    expect(ellipsePoints(0, 0, [[1, 1], [1, 1]], 1)).toEqual([]);
-    expect(ellipsePoints(0, 0, [[-1, 0], [0, 1]], 1)).toEqual([]);
+    expect(
+      ellipsePoints(
+        0,
+        0,
+        [
+          [1, 1],
+          [1, 1],
+        ],
+        1,
+      ),
+    ).toEqual([]);
+    expect(
+      ellipsePoints(
+        0,
+        0,
+        [
+          [-1, 0],
+          [0, 1],
+        ],
+        1,
+      ),
+    ).toEqual([]);
   });
 
   test('axes come from sigma and correlation; linear L* moves to log10 L* (first order)', () => {
@@ -257,7 +287,9 @@ describe('forecast figure: Fisher ellipses', () => {
   test('without mocks the figure still draws; without alpha or L* there is no figure', async () => {
     const fig = (await forecastFigure(demoForecast({ mocks: 0 }), 'Demo'))!;
     expect(fig.svg).toContain('1σ (68.3%)');
-    expect(forecastSpec({ parameters: ['log10_phi_star'], fisher: { sigma: {}, correlation: [[1]] }, center: {} })).toBeNull();
+    expect(
+      forecastSpec({ parameters: ['log10_phi_star'], fisher: { sigma: {}, correlation: [[1]] }, center: {} }),
+    ).toBeNull();
   });
 });
 
@@ -352,7 +384,8 @@ describe('palette', () => {
     // check of the formula: sRGB mid grey #777777 has L* = 50.0 (common practice value, +-0.1)
     expect(lightness('#777777')).toBeCloseTo(50.03, 1);
     const ls = Object.values(PALETTE).map(lightness);
-    for (let i = 0; i < ls.length; i++) for (let j = i + 1; j < ls.length; j++) expect(Math.abs(ls[i]! - ls[j]!)).toBeGreaterThan(15);
+    for (let i = 0; i < ls.length; i++)
+      for (let j = i + 1; j < ls.length; j++) expect(Math.abs(ls[i]! - ls[j]!)).toBeGreaterThan(15);
   });
 });
 
@@ -400,7 +433,9 @@ describe('figures for a proposal', () => {
     expect(drawnBins([{ lo: 0, hi: 1, count: 5 }])).toHaveLength(1);
     const fig = (await histogramsFigure(p))!;
     // panel 1 starts at its own first bin, -16.8; panel 2 at -16.5, not at the negligible -17.5
-    const starts = [...fig.svg.matchAll(/aria-label="X-axis titled '[^']*' for a linear scale with values from ([^ ]+) to/g)].map((m) => Number(m[1]!.replace(/\u2212/g, '-')));
+    const starts = [
+      ...fig.svg.matchAll(/aria-label="X-axis titled '[^']*' for a linear scale with values from ([^ ]+) to/g),
+    ].map((m) => Number(m[1]!.replace(/\u2212/g, '-')));
     expect(starts).toHaveLength(2);
     expect(starts[0]).toBeCloseTo(-16.8, 9);
     expect(starts[1]).toBeCloseTo(-16.5, 9);
@@ -440,7 +475,9 @@ describe('figures for a proposal', () => {
     const svg = (await planFigure(plan))!.svg;
     const label = /aria-roledescription="text mark"[^>]*transform="translate\(([-\d.e]+),([-\d.e]+)\)"/.exec(svg)!;
     const labelY = Number(label[2]);
-    const pointYs = [...svg.matchAll(/aria-roledescription="point" transform="translate\(([-\d.e]+),([-\d.e]+)\)"/g)].map((m) => Number(m[2]));
+    const pointYs = [
+      ...svg.matchAll(/aria-roledescription="point" transform="translate\(([-\d.e]+),([-\d.e]+)\)"/g),
+    ].map((m) => Number(m[2]));
     expect(pointYs.length).toBeGreaterThan(plan.designs.length);
     // text drawn upward from its baseline (baseline bottom) above y = 0; every point at y >= 0
     expect(labelY).toBeLessThan(0);

@@ -43,7 +43,8 @@ function readCsv(text: string): string[][] {
         i = j < 0 ? line.length + 1 : j + 1;
       }
     }
-    if (rows.length > 0 && fields.length !== rows[0]!.length) throw new Error(`row ${rows.length} has ${fields.length} fields, not ${rows[0]!.length}`);
+    if (rows.length > 0 && fields.length !== rows[0]!.length)
+      throw new Error(`row ${rows.length} has ${fields.length} fields, not ${rows[0]!.length}`);
     rows.push(fields);
   }
   return rows;
@@ -82,7 +83,7 @@ describe('lines at other redshifts (breakdown observed)', () => {
     }
   });
 
-  test('the report: a table of the populations, the observed bins and each population\'s slices (ids unique)', () => {
+  test("the report: a table of the populations, the observed bins and each population's slices (ids unique)", () => {
     const { combined } = predictionViews(survey, p);
     const html = renderReport({ surveyText: 'x', surveyTitle: p.title, prediction: combined, figures: [] });
     expect(html).toContain('id="populations-table"');

@@ -19,12 +19,19 @@ redshift: {min: 0.8, max: 1.6}
 
 /** Undo escapeHtml (the five entities it writes), to check round trips. */
 function unescape(s: string): string {
-  return s.replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&#39;/g, "'").replace(/&amp;/g, '&');
+  return s
+    .replace(/&lt;/g, '<')
+    .replace(/&gt;/g, '>')
+    .replace(/&quot;/g, '"')
+    .replace(/&#39;/g, "'")
+    .replace(/&amp;/g, '&');
 }
 
 describe('escapeHtml', () => {
   test('the five characters special in HTML text and attributes are replaced (HTML Living Standard, 13.1.2.6)', () => {
-    expect(escapeHtml(`<a href="x" title='y'>&</a>`)).toBe('&lt;a href=&quot;x&quot; title=&#39;y&#39;&gt;&amp;&lt;/a&gt;');
+    expect(escapeHtml(`<a href="x" title='y'>&</a>`)).toBe(
+      '&lt;a href=&quot;x&quot; title=&#39;y&#39;&gt;&amp;&lt;/a&gt;',
+    );
     expect(escapeHtml(NASTY_1)).toBe('&lt;script&gt;alert(1)&lt;/script&gt;');
     expect(escapeHtml(NASTY_2)).toBe('&quot;&gt;&lt;img src=x onerror=alert(1)&gt;');
     expect(escapeHtml(42)).toBe('42');
@@ -94,7 +101,9 @@ describe('renderReport', () => {
     expect(doc).not.toContain(NASTY_1);
     expect(doc).not.toContain('<img');
     expect(doc).toContain(escapeHtml(SURVEY_TEXT));
-    expect(doc).toContain('<title>Field &lt;script&gt;alert(1)&lt;/script&gt; &quot;&gt;&lt;img src=x onerror=alert(1)&gt;</title>');
+    expect(doc).toContain(
+      '<title>Field &lt;script&gt;alert(1)&lt;/script&gt; &quot;&gt;&lt;img src=x onerror=alert(1)&gt;</title>',
+    );
     expect(doc).toContain('demo&lt;1&gt;.yaml');
     expect(doc).toContain('<code>42.4 + 0.3*(z - 0.8)</code>');
     // the only <script or <img would be ours: there are none
@@ -128,7 +137,10 @@ describe('renderReport', () => {
 
   test('the predict table holds every slice count, its cumulative sum and +-1 sigma', async () => {
     const doc = await html();
-    const table = doc.slice(doc.indexOf('id="predict-table"'), doc.indexOf('</table>', doc.indexOf('id="predict-table"')));
+    const table = doc.slice(
+      doc.indexOf('id="predict-table"'),
+      doc.indexOf('</table>', doc.indexOf('id="predict-table"')),
+    );
     const rows = [...table.matchAll(/<tr><td>(\d+)<\/td>(.*?)<\/tr>/g)];
     expect(rows).toHaveLength(prediction.slices.length);
     let cum = 0;
@@ -161,7 +173,12 @@ describe('renderReport', () => {
     expect(doc).toContain('mean of 40 mock fits');
     expect(doc).toContain('id="plan-table"');
     expect(doc).toMatch(/<tr class="best">/);
-    const bare = renderReport({ surveyText: 'x', surveyTitle: 't', prediction: demoPrediction({ slices: 2 }), figures: [] });
+    const bare = renderReport({
+      surveyText: 'x',
+      surveyTitle: 't',
+      prediction: demoPrediction({ slices: 2 }),
+      figures: [],
+    });
     expect(bare).not.toContain('id="forecast"');
     expect(bare).not.toContain('id="plan"');
     expect(bare).not.toContain('id="figures"');

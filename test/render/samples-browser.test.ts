@@ -16,16 +16,23 @@ import { tempDir } from '../support/temp.js';
 
 const CHROMIUM = '/usr/bin/chromium';
 const haveChromium = existsSync(CHROMIUM);
-if (!haveChromium) console.warn(`browser test skipped: ${CHROMIUM} is absent (.ci/run installs it with .ci/chromium.sh)`);
+if (!haveChromium)
+  console.warn(`browser test skipped: ${CHROMIUM} is absent (.ci/run installs it with .ci/chromium.sh)`);
 
 const OUT = resolve('test-output');
-const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml')).map((f) => f.replace(/\.yaml$/, ''));
+const SAMPLES = readdirSync('samples')
+  .filter((f) => f.endsWith('.yaml'))
+  .map((f) => f.replace(/\.yaml$/, ''));
 /** Samples with a `plan:` section: their reports hold a plan and a forecast. */
 const PLAN_SAMPLES = SAMPLES.filter((s) => /^plan:/m.test(readFileSync(`samples/${s}.yaml`, 'utf8')));
 /** Samples whose (first) population is a double Schechter function: no forecast, a sentence instead. */
-const DOUBLE_SAMPLES = SAMPLES.filter((s) => /shape:\s*double_schechter/.test(readFileSync(`samples/${s}.yaml`, 'utf8')));
+const DOUBLE_SAMPLES = SAMPLES.filter((s) =>
+  /shape:\s*double_schechter/.test(readFileSync(`samples/${s}.yaml`, 'utf8')),
+);
 /** Samples with photometric-redshift scatter: forecasts count by true redshift, so no forecast, a sentence instead. */
-const PHOTO_Z_SAMPLES = SAMPLES.filter((s) => /photo_z: \{sigma: 0\.0*[1-9]/.test(readFileSync(`samples/${s}.yaml`, 'utf8')));
+const PHOTO_Z_SAMPLES = SAMPLES.filter((s) =>
+  /photo_z: \{sigma: 0\.0*[1-9]/.test(readFileSync(`samples/${s}.yaml`, 'utf8')),
+);
 const HOSTILE_TITLE = `Field <script>window.__pwned = 1</script> "><img src=x onerror="window.__pwned=2"> </svg><script>window.__pwned=3</script>`;
 
 interface Opened {
@@ -88,7 +95,9 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
       const id = (await f.getAttribute('id'))!.replace(/^figure-/, '');
       const svg = f.locator(':scope > svg');
       const box = await svg.boundingBox();
-      const marks = await svg.evaluate((el) => (el.namespaceURI === 'http://www.w3.org/2000/svg' ? el.querySelectorAll('path, line, text').length : -1));
+      const marks = await svg.evaluate((el) =>
+        el.namespaceURI === 'http://www.w3.org/2000/svg' ? el.querySelectorAll('path, line, text').length : -1,
+      );
       o.figureNames.push(id);
       o.figureBoxes.push({ name: id, width: box?.width ?? 0, height: box?.height ?? 0, marks });
     }
@@ -101,8 +110,10 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
     o.warningVisible = await page.locator('#model .warning').isVisible();
     for (const id of ['forecast', 'plan']) {
       const sentence = page.locator(`#${id}-omitted`);
-      if ((await sentence.count()) > 0 && (await sentence.isVisible())) o.omitted[id] = (await sentence.textContent()) ?? '';
-      if ((await page.locator(`#${id}-table`).count()) > 0 && (await page.locator(`#${id}-table`).isVisible())) o.tables.push(`${id}-table`);
+      if ((await sentence.count()) > 0 && (await sentence.isVisible()))
+        o.omitted[id] = (await sentence.textContent()) ?? '';
+      if ((await page.locator(`#${id}-table`).count()) > 0 && (await page.locator(`#${id}-table`).isVisible()))
+        o.tables.push(`${id}-table`);
     }
     o.screenshotBytes = (await page.screenshot({ path: join(OUT, `report-${name}.png`), fullPage: true })).length;
     await page.close();
@@ -120,7 +131,10 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
     }
     const dir = tempDir('skytally-hostile-');
     const input = join(dir, 'hostile.yaml');
-    hostileText = readFileSync('samples/halpha-narrowband.yaml', 'utf8').replace(/^title:.*$/m, `title: '${HOSTILE_TITLE}'`);
+    hostileText = readFileSync('samples/halpha-narrowband.yaml', 'utf8').replace(
+      /^title:.*$/m,
+      `title: '${HOSTILE_TITLE}'`,
+    );
     writeFileSync(input, hostileText);
     const hostileOut = join(OUT, 'report-hostile-title.html');
     const r = await runCli(['report', input, '--out', hostileOut]);
@@ -131,7 +145,15 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
     context = await chromium.launchPersistentContext(userData, {
       executablePath: CHROMIUM,
       headless: true,
-      args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--no-first-run', '--disable-sync'],
+      args: [
+        '--headless',
+        '--no-sandbox',
+        '--disable-gpu',
+        '--disable-background-networking',
+        '--disable-component-update',
+        '--no-first-run',
+        '--disable-sync',
+      ],
       viewport: { width: 1280, height: 900 },
     });
     for (const [name, path] of jobs) opened.set(name, await open(name, path));
@@ -163,7 +185,8 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
         expect(o.figureNames[2]).toMatch(/^luminosity-function(-1)?$/);
       }
       // every single-Schechter sample's report holds its forecast (the Fisher ellipses)
-      if (!DOUBLE_SAMPLES.includes(name) && !PHOTO_Z_SAMPLES.includes(name)) expect(o.figureNames).toContain('forecast');
+      if (!DOUBLE_SAMPLES.includes(name) && !PHOTO_Z_SAMPLES.includes(name))
+        expect(o.figureNames).toContain('forecast');
       for (const b of o.figureBoxes) {
         expect(b.width, b.name).toBeGreaterThan(100);
         expect(b.height, b.name).toBeGreaterThan(100);

@@ -73,18 +73,21 @@ describe('selection effects against selection.py', () => {
     }
   });
 
-  test.each(cases.map((c) => [c.file, c] as const))('%s: histogram bins of the measured flux near the limit to 1e-6', (_f, c) => {
-    const p = predict(loadSurveyText(c.yaml, c.file), { noUncertainty: true });
-    const h = p.populations[0]!.slices[0]!.histogram;
-    expect(c.first_slice_bins!.length).toBeGreaterThan(0);
-    for (const bin of c.first_slice_bins!) {
-      const i = h.edges.findIndex((e) => Math.abs(e - bin.lo) < 1e-9);
-      expect(i, `bin ${bin.lo}`).toBeGreaterThanOrEqual(0);
-      expect(rel(h.counts[i]!, bin.count), `bin ${bin.lo}: ${h.counts[i]} vs ${bin.count}`).toBeLessThan(REL);
-    }
-  });
+  test.each(cases.map((c) => [c.file, c] as const))(
+    '%s: histogram bins of the measured flux near the limit to 1e-6',
+    (_f, c) => {
+      const p = predict(loadSurveyText(c.yaml, c.file), { noUncertainty: true });
+      const h = p.populations[0]!.slices[0]!.histogram;
+      expect(c.first_slice_bins!.length).toBeGreaterThan(0);
+      for (const bin of c.first_slice_bins!) {
+        const i = h.edges.findIndex((e) => Math.abs(e - bin.lo) < 1e-9);
+        expect(i, `bin ${bin.lo}`).toBeGreaterThanOrEqual(0);
+        expect(rel(h.counts[i]!, bin.count), `bin ${bin.lo}: ${h.counts[i]} vs ${bin.count}`).toBeLessThan(REL);
+      }
+    },
+  );
 
-  test.each(cases.map((c) => [c.file, c] as const))('%s: each effect at the slices\' middles to 1e-12', (_f, c) => {
+  test.each(cases.map((c) => [c.file, c] as const))("%s: each effect at the slices' middles to 1e-12", (_f, c) => {
     const survey = loadSurveyText(c.yaml, c.file);
     const cosmo = new FlatCosmology(survey.cosmology);
     const lists = c.populations ? c.populations.map((q) => q.ingredients) : [c.ingredients!];
@@ -112,9 +115,9 @@ describe('neutral values reproduce the plain prediction exactly', () => {
   test.each(zero.filter((c) => c.equals_plain).map((c) => [c.file, c] as const))('%s', (_f, c) => {
     const got = predict(loadSurveyText(c.yaml, c.file));
     const want = plain.get(c.equals_plain!)!;
-    expect(got.slices!.map((s) => [s.count, s.histogram, s.limit_at_center, s.luminosity_density, s.uncertainty])).toEqual(
-      want.slices!.map((s) => [s.count, s.histogram, s.limit_at_center, s.luminosity_density, s.uncertainty]),
-    );
+    expect(
+      got.slices!.map((s) => [s.count, s.histogram, s.limit_at_center, s.luminosity_density, s.uncertainty]),
+    ).toEqual(want.slices!.map((s) => [s.count, s.histogram, s.limit_at_center, s.luminosity_density, s.uncertainty]));
     expect(got.totals).toEqual(want.totals);
     // and the reference agrees with the plain file too (selection.py asserts it to 1e-12)
     expectSlices(got.slices!, c.slices);
@@ -139,7 +142,10 @@ describe('equivalent-width distributions', () => {
     }
     expect(fractionAbove({ model: 'lognormal', medianAngstrom: 40, sigmaDex: 0.3 }, 40)).toBeCloseTo(0.5, 14);
     expect(fractionAbove({ model: 'exponential', scaleAngstrom: 50 }, 50)).toBeCloseTo(Math.exp(-1), 15);
-    expect(fractionAbove({ model: 'table', widthAngstrom: [0, 30], fractionAbove: [0.9, 0.2] }, 15)).toBeCloseTo(0.55, 15);
+    expect(fractionAbove({ model: 'table', widthAngstrom: [0, 30], fractionAbove: [0.9, 0.2] }, 15)).toBeCloseTo(
+      0.55,
+      15,
+    );
   });
 });
 

@@ -22,9 +22,23 @@ import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import { loadSurveyText } from '../../src/survey/load.js';
 import { predict } from '../../src/counts/predict.js';
 
-interface Point { lambda_obs: number; z: number; tau_lines: number; tau_photoelectric: number; transmission: number }
-interface Band { band: [number, number]; z: number; beta: number; transmission: number }
-const fx = JSON.parse(readFileSync(new URL('../reference/igm.json', import.meta.url), 'utf8')) as { points: Point[]; band_averages: Band[] };
+interface Point {
+  lambda_obs: number;
+  z: number;
+  tau_lines: number;
+  tau_photoelectric: number;
+  transmission: number;
+}
+interface Band {
+  band: [number, number];
+  z: number;
+  beta: number;
+  transmission: number;
+}
+const fx = JSON.parse(readFileSync(new URL('../reference/igm.json', import.meta.url), 'utf8')) as {
+  points: Point[];
+  band_averages: Band[];
+};
 
 const rel = (a: number, b: number) => (b === 0 ? Math.abs(a) : Math.abs(a / b - 1));
 

@@ -19,7 +19,14 @@ import { fileURLToPath } from 'node:url';
 import { describe, expect, test } from 'vitest';
 import type { Filter } from '../../src/model/detection.js';
 import type { RestFrame, SedPhotometry } from '../../src/model/photometry.js';
-import { adaptiveCubicTable, bandIntegrals, kCorrectionFunction, sedKCorrection, tabulatedSpectrum, type SpectrumShape } from '../../src/selection/kcorrection.js';
+import {
+  adaptiveCubicTable,
+  bandIntegrals,
+  kCorrectionFunction,
+  sedKCorrection,
+  tabulatedSpectrum,
+  type SpectrumShape,
+} from '../../src/selection/kcorrection.js';
 import { bandAveragedMadau1995 } from '../../src/selection/igm.js';
 import { readSpectrumFile } from '../../src/survey/spectrum-file.js';
 import { readTransmissionFile } from '../../src/survey/transmission-file.js';
@@ -41,13 +48,23 @@ interface Case {
 interface Fixture {
   z: number[];
   cases: Case[];
-  identities: { name: string; rows?: { observed_band: BandJson; z0: number; k: number }[]; k?: number; colour_term?: number }[];
+  identities: {
+    name: string;
+    rows?: { observed_band: BandJson; z0: number; k: number }[];
+    k?: number;
+    colour_term?: number;
+  }[];
 }
 const fixture = JSON.parse(readFileSync(new URL('../reference/kcorrection.json', import.meta.url), 'utf8')) as Fixture;
 const dir = fileURLToPath(new URL('../reference/surveys-selection/', import.meta.url));
 const invented = readSpectrumFile('spectra/invented-starburst.csv', 'test.yaml', 'detection.sed.file', dir);
 const flatTable = readSpectrumFile('spectra/flat-fnu.csv', 'test.yaml', 'detection.sed.file', dir);
-const redBand: Filter = { profile: 'table', centerAngstrom: 0, fwhmAngstrom: 0, table: readTransmissionFile('bands/invented-red-band.csv', 'test.yaml', 'detection.band_file', dir) };
+const redBand: Filter = {
+  profile: 'table',
+  centerAngstrom: 0,
+  fwhmAngstrom: 0,
+  table: readTransmissionFile('bands/invented-red-band.csv', 'test.yaml', 'detection.band_file', dir),
+};
 const analyticFlat: SpectrumShape = { at: (l) => (1500 / l) ** 2, nodes: [], min: 0, max: Infinity };
 const spectra: Record<Case['spectrum'], SpectrumShape> = {
   invented: tabulatedSpectrum(invented),
@@ -60,10 +77,13 @@ function band(b: BandJson): Filter {
   return { profile: b.profile, centerAngstrom: b.center_angstrom!, fwhmAngstrom: b.fwhm_angstrom! };
 }
 function rest(c: Case): RestFrame {
-  return c.rest_band ? { kind: 'band', band: band(c.rest_band) } : { kind: 'wavelength', angstrom: c.rest_wavelength_angstrom! };
+  return c.rest_band
+    ? { kind: 'band', band: band(c.rest_band) }
+    : { kind: 'wavelength', angstrom: c.rest_wavelength_angstrom! };
 }
 function label(c: Case): string {
-  const b = (x: BandJson) => (x.profile === 'table' ? 'red-band file' : `${x.profile} ${x.center_angstrom}/${x.fwhm_angstrom}`);
+  const b = (x: BandJson) =>
+    x.profile === 'table' ? 'red-band file' : `${x.profile} ${x.center_angstrom}/${x.fwhm_angstrom}`;
   return `${c.spectrum}, ${b(c.observed_band)}, rest ${c.rest_band ? b(c.rest_band) : `${c.rest_wavelength_angstrom} A`}`;
 }
 
@@ -77,8 +97,16 @@ describe('synthetic photometry against kcorrection.json (1e-8 mag)', () => {
 describe('identities of Hogg et al. 2002 eq. 8', () => {
   test('a source flat in f_nu: K = -2.5 log10(1+z) for every band and rest frame, to 1e-12', () => {
     const zs = [0, 0.3, 1.7, 4.2];
-    const restFrames: RestFrame[] = [{ kind: 'wavelength', angstrom: 1216 }, { kind: 'band', band: { profile: 'gaussian', centerAngstrom: 2300, fwhmAngstrom: 400 } }, { kind: 'band', band: redBand }];
-    const bands: Filter[] = [redBand, { profile: 'tophat', centerAngstrom: 4400, fwhmAngstrom: 900 }, { profile: 'gaussian', centerAngstrom: 16000, fwhmAngstrom: 3000 }];
+    const restFrames: RestFrame[] = [
+      { kind: 'wavelength', angstrom: 1216 },
+      { kind: 'band', band: { profile: 'gaussian', centerAngstrom: 2300, fwhmAngstrom: 400 } },
+      { kind: 'band', band: redBand },
+    ];
+    const bands: Filter[] = [
+      redBand,
+      { profile: 'tophat', centerAngstrom: 4400, fwhmAngstrom: 900 },
+      { profile: 'gaussian', centerAngstrom: 16000, fwhmAngstrom: 3000 },
+    ];
     for (const b of bands) {
       for (const r of restFrames) {
         const k = kCorrectionFunction(analyticFlat, b, r);
@@ -104,7 +132,11 @@ describe('identities of Hogg et al. 2002 eq. 8', () => {
   test('a 0.001 Angstrom band on a power law gives the power-law colour term (1e-9)', () => {
     const id = fixture.identities[2]!;
     const pl: SpectrumShape = { at: (l) => (l / 1500) ** -1.3, nodes: [], min: 0, max: Infinity };
-    const k = kCorrectionFunction(pl, { profile: 'tophat', centerAngstrom: 9000, fwhmAngstrom: 1e-3 }, { kind: 'wavelength', angstrom: 1500 })(1.7);
+    const k = kCorrectionFunction(
+      pl,
+      { profile: 'tophat', centerAngstrom: 9000, fwhmAngstrom: 1e-3 },
+      { kind: 'wavelength', angstrom: 1500 },
+    )(1.7);
     expect(Math.abs(k - id.colour_term!)).toBeLessThan(1e-9);
     expect(Math.abs(k - id.k!)).toBeLessThan(1e-9);
   });
@@ -113,9 +145,27 @@ describe('identities of Hogg et al. 2002 eq. 8', () => {
 describe('the tabulated K(z) the counts use', () => {
   const sed = (b: Filter): SedPhotometry => ({ spectrum: invented, band: b, surveyFile: 'test.yaml' });
   const tableCases: [string, Filter, RestFrame, number, number][] = [
-    ['gaussian band, rest 1500 A', { profile: 'gaussian', centerAngstrom: 8000, fwhmAngstrom: 1500 }, { kind: 'wavelength', angstrom: 1500 }, 3.2, 4.6],
-    ['red-band file, rest top-hat', redBand, { kind: 'band', band: { profile: 'tophat', centerAngstrom: 6200, fwhmAngstrom: 1400 } }, 0.05, 0.45],
-    ['top-hat band, rest 2300 A', { profile: 'tophat', centerAngstrom: 12500, fwhmAngstrom: 2500 }, { kind: 'wavelength', angstrom: 2300 }, 0, 3],
+    [
+      'gaussian band, rest 1500 A',
+      { profile: 'gaussian', centerAngstrom: 8000, fwhmAngstrom: 1500 },
+      { kind: 'wavelength', angstrom: 1500 },
+      3.2,
+      4.6,
+    ],
+    [
+      'red-band file, rest top-hat',
+      redBand,
+      { kind: 'band', band: { profile: 'tophat', centerAngstrom: 6200, fwhmAngstrom: 1400 } },
+      0.05,
+      0.45,
+    ],
+    [
+      'top-hat band, rest 2300 A',
+      { profile: 'tophat', centerAngstrom: 12500, fwhmAngstrom: 2500 },
+      { kind: 'wavelength', angstrom: 2300 },
+      0,
+      3,
+    ],
   ];
   test.each(tableCases)('%s: within 2e-8 mag of the exact value', (_n, b, r, z0, z1) => {
     const s = sed(b);
@@ -131,7 +181,8 @@ describe('the tabulated K(z) the counts use', () => {
     const cubic = adaptiveCubicTable((z) => 1 + z - 2 * z * z + 0.5 * z ** 3, 0, 2, 1e-12);
     expect(Math.abs(cubic(1.234) - (1 + 1.234 - 2 * 1.234 ** 2 + 0.5 * 1.234 ** 3))).toBeLessThan(1e-12);
     const kink = adaptiveCubicTable((z) => Math.abs(z - 0.3) ** 2.5, 0, 1, 1e-9);
-    for (const z of [0.1, 0.2999, 0.3, 0.3001, 0.77]) expect(Math.abs(kink(z) - Math.abs(z - 0.3) ** 2.5)).toBeLessThan(2e-9);
+    for (const z of [0.1, 0.2999, 0.3, 0.3001, 0.77])
+      expect(Math.abs(kink(z) - Math.abs(z - 0.3) ** 2.5)).toBeLessThan(2e-9);
   });
   test('a redshift beyond the spectrum is refused naming detection.sed', () => {
     // The spectrum starts at 400 Angstrom: a gaussian band at 8000 +- 3 x 1500 A needs 3500 / (1+z) >= 400, z <= 7.75.

@@ -41,7 +41,10 @@ interface Case {
   ingredients?: { z: number; k_correction?: number; apparent_ab_of_m_star?: number; attenuation_mag?: number }[];
   equals_plain?: string;
 }
-const fixture = JSON.parse(readFileSync(new URL('../reference/selection.json', import.meta.url), 'utf8')) as { surveys: Case[]; zero_effect: Case[] };
+const fixture = JSON.parse(readFileSync(new URL('../reference/selection.json', import.meta.url), 'utf8')) as {
+  surveys: Case[];
+  zero_effect: Case[];
+};
 const dir = fileURLToPath(new URL('../reference/surveys-selection/', import.meta.url));
 const find = (name: string): Case => [...fixture.surveys, ...fixture.zero_effect].find((c) => c.file === name)!;
 const rel = (a: number, b: number) => Math.abs(a / b - 1);
@@ -96,7 +99,13 @@ describe('vega-restband-sed.yaml: the magnitude systems', () => {
     expect(d.limitMag).toBeCloseTo(20.5 + 0.18, 12);
     expect(d.completeness).toEqual({ model: 'logistic', half: 20.2 + 0.18, width: 0.12 });
     expect(survey.populations[0]!.mStar!.at(0.2)).toBeCloseTo(-21.3 - 0.12, 12);
-    expect(p.detection).toMatchObject({ kind: 'magnitude', limit_ab_mag: 20.68, system: 'vega', vega_to_ab: 0.18, sed_file: 'spectra/invented-starburst.csv' });
+    expect(p.detection).toMatchObject({
+      kind: 'magnitude',
+      limit_ab_mag: 20.68,
+      system: 'vega',
+      vega_to_ab: 0.18,
+      sed_file: 'spectra/invented-starburst.csv',
+    });
     const m = p.models[0]!;
     expect(m.magnitude_system).toEqual({ stated: 'ab', m_star_given: 'vega', vega_to_ab: -0.12 });
     expect(m.rest_band).toEqual({ profile: 'tophat', center_angstrom: 6200, fwhm_angstrom: 1400 });
@@ -104,7 +113,9 @@ describe('vega-restband-sed.yaml: the magnitude systems', () => {
     expect(m.m_star!.given).toBe(-21.3);
     expect(m.m_star!.at_window_middle).toBeCloseTo(-21.42, 12);
     expect(m.summary).toContain('given in Vega');
-    expect(detectionLine(p)).toBe('AB magnitude limit 20.68 (given in Vega, AB = Vega + 0.18) in the band bands/invented-red-band.csv, k-corrected with the spectrum spectra/invented-starburst.csv');
+    expect(detectionLine(p)).toBe(
+      'AB magnitude limit 20.68 (given in Vega, AB = Vega + 0.18) in the band bands/invented-red-band.csv, k-corrected with the spectrum spectra/invented-starburst.csv',
+    );
     const check = describeSurvey(survey);
     expect(check.detection).toMatchObject({ system: 'vega', sed_file: 'spectra/invented-starburst.csv' });
   });
@@ -124,7 +135,9 @@ describe('zero offsets reproduce the plain survey exactly (selection.json zero_e
   });
   test('a Vega offset o on the detection alone is the AB survey with the limit and completeness moved by o', () => {
     const base = find('zero-plain-magnitude.yaml').yaml;
-    const vega = base.replace('  limit: 25.0\n', '  limit: 24.7\n  system: vega\n  vega_to_ab: 0.3\n').replace('half: 24.7', 'half: 24.4');
+    const vega = base
+      .replace('  limit: 25.0\n', '  limit: 24.7\n  system: vega\n  vega_to_ab: 0.3\n')
+      .replace('half: 24.7', 'half: 24.4');
     const ab = predict(loadSurveyText(base, 'ab.yaml'));
     const v = predict(loadSurveyText(vega, 'vega.yaml'));
     expect(rel(v.totals.count, ab.totals.count)).toBeLessThan(1e-12);
@@ -143,13 +156,33 @@ describe('refusals name the key and the fix (exit 2)', () => {
     throw new Error('not refused');
   };
   test.each([
-    ['a window beyond the spectrum', base.replace('redshift: {min: 0.05, max: 0.45}', 'redshift: {min: 0.05, max: 14}'), 'detection.sed'],
+    [
+      'a window beyond the spectrum',
+      base.replace('redshift: {min: 0.05, max: 0.45}', 'redshift: {min: 0.05, max: 14}'),
+      'detection.sed',
+    ],
     ['vega without an offset', base.replace('  vega_to_ab: 0.18\n', ''), 'detection.vega_to_ab'],
-    ['an offset without vega', base.replace('  system: vega\n  vega_to_ab: 0.18\n', '  vega_to_ab: 0.18\n'), 'detection.vega_to_ab'],
+    [
+      'an offset without vega',
+      base.replace('  system: vega\n  vega_to_ab: 0.18\n', '  vega_to_ab: 0.18\n'),
+      'detection.vega_to_ab',
+    ],
     ['beta with a spectrum', base.replace('  limit: 20.5\n', '  limit: 20.5\n  beta: -2\n'), 'detection.beta'],
-    ['a wavelength band with a spectrum', base.replace('  band_file: bands/invented-red-band.csv\n', '  band: 6400\n'), 'detection.band'],
-    ['a rest band without a spectrum', base.replace('  sed: {file: spectra/invented-starburst.csv}\n', '  beta: -1\n'), 'population.rest_band'],
-    ['a rest band with a rest wavelength', base.replace('  alpha: -1.2\n', '  alpha: -1.2\n  rest_wavelength: 6000\n'), 'population.rest_band'],
+    [
+      'a wavelength band with a spectrum',
+      base.replace('  band_file: bands/invented-red-band.csv\n', '  band: 6400\n'),
+      'detection.band',
+    ],
+    [
+      'a rest band without a spectrum',
+      base.replace('  sed: {file: spectra/invented-starburst.csv}\n', '  beta: -1\n'),
+      'population.rest_band',
+    ],
+    [
+      'a rest band with a rest wavelength',
+      base.replace('  alpha: -1.2\n', '  alpha: -1.2\n  rest_wavelength: 6000\n'),
+      'population.rest_band',
+    ],
     ['a missing spectrum file', base.replace('invented-starburst.csv', 'no-such-spectrum.csv'), 'detection.sed.file'],
   ])('%s', (_what, yaml, key) => {
     const e = refused(yaml);
@@ -159,13 +192,18 @@ describe('refusals name the key and the fix (exit 2)', () => {
 
 describe('warnings about Lyman alpha with a spectrum', () => {
   test('a band reaching blueward of Lyman alpha (1+z) warns, naming the spectrum, with igm none', () => {
-    const yaml = find('dropout-sed-selection.yaml').yaml.replace('redshift: {min: 3.2, max: 4.6}', 'redshift: {min: 3.2, max: 8}');
+    const yaml = find('dropout-sed-selection.yaml').yaml.replace(
+      'redshift: {min: 3.2, max: 4.6}',
+      'redshift: {min: 3.2, max: 8}',
+    );
     const p = predict(loadSurveyText(yaml, `${dir}/edited.yaml`));
     const w = p.warnings.find((x) => x.code === 'band_blueward_of_lyman_alpha');
     expect(w?.message).toContain('red edge at 10500 A');
     expect(w?.message).toContain('spectrum');
     const madau = predict(loadSurveyText(yaml.replace('  igm: none\n', '  igm: madau1995\n'), `${dir}/edited.yaml`));
-    expect(madau.warnings.find((x) => x.code === 'band_blueward_of_lyman_alpha')?.message).toContain('applied to the spectrum inside the band');
+    expect(madau.warnings.find((x) => x.code === 'band_blueward_of_lyman_alpha')?.message).toContain(
+      'applied to the spectrum inside the band',
+    );
     expect(madau.totals.count).toBeLessThan(p.totals.count);
   });
 });
@@ -178,8 +216,10 @@ describe('photometric redshifts with a spectrum', () => {
     .split('\n')
     .filter((l) => /^\d/.test(l) && Number(l.split(',')[0]) >= 3000 && Number(l.split(',')[0]) <= 10000);
   writeFileSync(join(tmp, 'cut.csv'), `wavelength_angstrom,f_lambda\n${rows.join('\n')}\n`);
-  const base = find('photoz-broadband.yaml')
-    .yaml.replace('  band: "8000 Angstrom"\n  beta: -1.5\n', '  band: {center: 8000, fwhm: 1500}\n  sed: {file: SPECTRUM}\n');
+  const base = find('photoz-broadband.yaml').yaml.replace(
+    '  band: "8000 Angstrom"\n  beta: -1.5\n',
+    '  band: {center: 8000, fwhm: 1500}\n  sed: {file: SPECTRUM}\n',
+  );
   const write = (yaml: string, name: string): string => {
     const f = join(tmp, name);
     writeFileSync(f, yaml);
@@ -200,7 +240,11 @@ describe('photometric redshifts with a spectrum', () => {
   });
   test('sigma 0 and no outliers reproduce the survey without photo_z exactly', () => {
     const full = base.replace('SPECTRUM', `${dir}/spectra/invented-starburst.csv`);
-    const exact = predict(loadSurveyFile(write(full.replace(/\n {2}photo_z: .*\n/, '\n  photo_z: {sigma: 0, outlier_fraction: 0}\n'), 'zero.yaml')));
+    const exact = predict(
+      loadSurveyFile(
+        write(full.replace(/\n {2}photo_z: .*\n/, '\n  photo_z: {sigma: 0, outlier_fraction: 0}\n'), 'zero.yaml'),
+      ),
+    );
     const none = predict(loadSurveyFile(write(full.replace(/\n {2}photo_z: .*\n/, '\n'), 'none.yaml')));
     expect(exact.totals.count).toBeGreaterThan(0);
     expect(exact.totals.count).toBe(none.totals.count);

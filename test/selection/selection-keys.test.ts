@@ -43,7 +43,12 @@ describe('the loader reads the selection keys', () => {
   test('every key, with units, tables and expressions', () => {
     const s = parseSurveyObject(
       withKeys(line, {
-        'detection.redshift_selection': { table: [[0.8, 0.5], [0.9, 0.7]] },
+        'detection.redshift_selection': {
+          table: [
+            [0.8, 0.5],
+            [0.9, 0.7],
+          ],
+        },
         'detection.equivalent_width_cut': { observed: '3 nm' },
         'population.blend_ratio': 0.3,
         'population.attenuation': '0.8 + 0.1*z',
@@ -61,7 +66,12 @@ describe('the loader reads the selection keys', () => {
     expect(p.validRedshift).toEqual({ min: 0.5, max: 1.2 });
     // check states them, and so does every model block
     const view = describeSurvey(s);
-    expect(view.populations[0]!.selection.effects).toEqual(['redshift_selection', 'blend_ratio', 'attenuation', 'equivalent_width_cut']);
+    expect(view.populations[0]!.selection.effects).toEqual([
+      'redshift_selection',
+      'blend_ratio',
+      'attenuation',
+      'equivalent_width_cut',
+    ]);
     expect(view.populations[0]!.selection.attenuation_applied).toBe(true);
     const pred = predict(s, { noUncertainty: true });
     expect(pred.models[0]!.selection.redshift_selection!.from).toBe('detection');
@@ -71,44 +81,115 @@ describe('the loader reads the selection keys', () => {
   test('without any, the statement says none and no attenuation', () => {
     const s = parseSurveyObject(clone(line), FILE);
     expect(describeSurvey(s).populations[0]!.selection).toEqual({ effects: [], attenuation_applied: false });
-    expect(predict(s, { noUncertainty: true }).models[0]!.selection).toEqual({ effects: [], attenuation_applied: false });
+    expect(predict(s, { noUncertainty: true }).models[0]!.selection).toEqual({
+      effects: [],
+      attenuation_applied: false,
+    });
   });
 
   test.each([
     ['a fraction above 1', { 'detection.redshift_selection': 1.2 }, 'out_of_range', 'detection.redshift_selection'],
-    ['an expression going negative', { 'population.redshift_selection': '0.5 - z' }, 'out_of_range', 'population.redshift_selection'],
-    ['blend_ratio on a magnitude survey', { 'population.blend_ratio': 0.3 }, 'kind_mismatch', 'population.blend_ratio', magnitude],
+    [
+      'an expression going negative',
+      { 'population.redshift_selection': '0.5 - z' },
+      'out_of_range',
+      'population.redshift_selection',
+    ],
+    [
+      'blend_ratio on a magnitude survey',
+      { 'population.blend_ratio': 0.3 },
+      'kind_mismatch',
+      'population.blend_ratio',
+      magnitude,
+    ],
     ['a negative blend_ratio', { 'population.blend_ratio': -0.1 }, 'out_of_range', 'population.blend_ratio'],
     ['a negative attenuation', { 'population.attenuation': -1 }, 'out_of_range', 'population.attenuation'],
-    ['an equivalent-width cut without a distribution', { 'detection.equivalent_width_cut': { rest: 20 } }, 'missing_key', 'population.equivalent_widths'],
-    ['an equivalent-width cut on a magnitude survey', { 'detection.equivalent_width_cut': { rest: 20 } }, 'kind_mismatch', 'detection.equivalent_width_cut', magnitude],
-    ['a lognormal without sigma_dex', { 'population.equivalent_widths': { model: 'lognormal', median: 40 } }, 'missing_key', 'population.equivalent_widths.sigma_dex'],
-    ['a table of fractions that grows', { 'population.equivalent_widths': { model: 'table', table: [[0, 0.5], [10, 0.6]] } }, 'bad_table', 'population.equivalent_widths.table[1]'],
-    ['valid_redshift with max below min', { 'population.valid_redshift': { min: 2, max: 1 } }, 'out_of_range', 'population.valid_redshift.max'],
-  ] as [string, Record<string, unknown>, string, string, Record<string, unknown>?][])('%s is refused', (_what, keys, code, key, base) => {
-    const e = errorOf(() => parseSurveyObject(withKeys(base ?? line, keys), FILE));
-    expect(e.code).toBe(code);
-    expect(e.keyPath).toBe(key);
-    expect(e.message.split('\n')).toHaveLength(1);
-  });
+    [
+      'an equivalent-width cut without a distribution',
+      { 'detection.equivalent_width_cut': { rest: 20 } },
+      'missing_key',
+      'population.equivalent_widths',
+    ],
+    [
+      'an equivalent-width cut on a magnitude survey',
+      { 'detection.equivalent_width_cut': { rest: 20 } },
+      'kind_mismatch',
+      'detection.equivalent_width_cut',
+      magnitude,
+    ],
+    [
+      'a lognormal without sigma_dex',
+      { 'population.equivalent_widths': { model: 'lognormal', median: 40 } },
+      'missing_key',
+      'population.equivalent_widths.sigma_dex',
+    ],
+    [
+      'a table of fractions that grows',
+      {
+        'population.equivalent_widths': {
+          model: 'table',
+          table: [
+            [0, 0.5],
+            [10, 0.6],
+          ],
+        },
+      },
+      'bad_table',
+      'population.equivalent_widths.table[1]',
+    ],
+    [
+      'valid_redshift with max below min',
+      { 'population.valid_redshift': { min: 2, max: 1 } },
+      'out_of_range',
+      'population.valid_redshift.max',
+    ],
+  ] as [string, Record<string, unknown>, string, string, Record<string, unknown>?][])(
+    '%s is refused',
+    (_what, keys, code, key, base) => {
+      const e = errorOf(() => parseSurveyObject(withKeys(base ?? line, keys), FILE));
+      expect(e.code).toBe(code);
+      expect(e.keyPath).toBe(key);
+      expect(e.message.split('\n')).toHaveLength(1);
+    },
+  );
 });
 
 describe('warnings about selection traps', () => {
   test('rest_wavelength_default_far_from_band: an r-band survey at z < 0.6 with the default 1500 A', () => {
-    const r = withKeys(magnitude, { redshift: { min: 0.05, max: 0.6 }, 'detection.band': '6200 Angstrom', 'population.rest_wavelength': undefined });
+    const r = withKeys(magnitude, {
+      redshift: { min: 0.05, max: 0.6 },
+      'detection.band': '6200 Angstrom',
+      'population.rest_wavelength': undefined,
+    });
     expect(codes(r)).toContain('rest_wavelength_default_far_from_band');
     // the same band with rest_wavelength stated, or a UV survey whose band sees about 1500 A: none
-    expect(codes(withKeys(r, { 'population.rest_wavelength': 5000 }))).not.toContain('rest_wavelength_default_far_from_band');
+    expect(codes(withKeys(r, { 'population.rest_wavelength': 5000 }))).not.toContain(
+      'rest_wavelength_default_far_from_band',
+    );
     // a rest-frame band states where M* is defined: no warning either
-    const banded = withKeys(r, { 'detection.sed': { file: 'spectra/invented-starburst.csv' }, 'detection.band': { center: '6200 Angstrom', fwhm: '1400 Angstrom' }, 'population.rest_band': { center: '6200 Angstrom', fwhm: '1400 Angstrom' } });
-    expect(surveyWarnings(parseSurveyObject(banded, FILE, 'test/reference/surveys-selection')).map((w) => w.code)).not.toContain('rest_wavelength_default_far_from_band');
-    const uv = withKeys(magnitude, { 'detection.band': '7500 Angstrom', redshift: { min: 3.8, max: 4.2 }, 'population.rest_wavelength': undefined });
+    const banded = withKeys(r, {
+      'detection.sed': { file: 'spectra/invented-starburst.csv' },
+      'detection.band': { center: '6200 Angstrom', fwhm: '1400 Angstrom' },
+      'population.rest_band': { center: '6200 Angstrom', fwhm: '1400 Angstrom' },
+    });
+    expect(
+      surveyWarnings(parseSurveyObject(banded, FILE, 'test/reference/surveys-selection')).map((w) => w.code),
+    ).not.toContain('rest_wavelength_default_far_from_band');
+    const uv = withKeys(magnitude, {
+      'detection.band': '7500 Angstrom',
+      redshift: { min: 3.8, max: 4.2 },
+      'population.rest_wavelength': undefined,
+    });
     expect(codes(uv)).not.toContain('rest_wavelength_default_far_from_band');
   });
 
   test('window_beyond_valid_redshift', () => {
-    expect(codes(withKeys(magnitude, { 'population.valid_redshift': { min: 3, max: 4.5 } }))).toContain('window_beyond_valid_redshift');
-    expect(codes(withKeys(magnitude, { 'population.valid_redshift': { min: 2.5, max: 5.5 } }))).not.toContain('window_beyond_valid_redshift');
+    expect(codes(withKeys(magnitude, { 'population.valid_redshift': { min: 3, max: 4.5 } }))).toContain(
+      'window_beyond_valid_redshift',
+    );
+    expect(codes(withKeys(magnitude, { 'population.valid_redshift': { min: 2.5, max: 5.5 } }))).not.toContain(
+      'window_beyond_valid_redshift',
+    );
   });
 
   test('igm_not_stated: a band within 1.3 Lyman alpha (1 + z) and no igm key; stating either value silences it', () => {
@@ -132,7 +213,10 @@ describe('warnings about selection traps', () => {
     for (const cmd of ['check', 'predict']) {
       const r = await runCli([cmd, path, '--format', 'json']);
       expect(r.code).toBe(0);
-      const out = JSON.parse(r.stdout) as { warnings: { code: string }[]; populations: { selection?: unknown; model?: { selection: unknown } }[] };
+      const out = JSON.parse(r.stdout) as {
+        warnings: { code: string }[];
+        populations: { selection?: unknown; model?: { selection: unknown } }[];
+      };
       expect(out.warnings.map((w) => w.code)).toContain('igm_not_stated');
       expect(r.stderr).toMatch(/^skytally: warning: .*does not say igm/m);
       // and the statement that no attenuation was applied

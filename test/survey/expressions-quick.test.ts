@@ -67,16 +67,40 @@ const valid: fc.Arbitrary<string> = fc.letrec<{ e: string }>((tie) => ({
       .tuple(tie('e'), gap, fc.constantFrom('+', '-', '*', '/', '^'), gap, tie('e'))
       .map(([a, g1, o, g2, b]) => `${a}${g1}${o}${g2}${b}`),
     fc.tuple(gap, tie('e'), gap).map(([g1, a, g2]) => `(${g1}${a}${g2})`),
-    fc
-      .tuple(fc.constantFrom('log10', 'ln', 'exp', 'sqrt', 'abs'), gap, tie('e'))
-      .map(([f, g, a]) => `${f}${g}(${a})`),
+    fc.tuple(fc.constantFrom('log10', 'ln', 'exp', 'sqrt', 'abs'), gap, tie('e')).map(([f, g, a]) => `${f}${g}(${a})`),
     fc
       .tuple(fc.constantFrom('min', 'max'), fc.array(tie('e'), { minLength: 1, maxLength: 3 }))
       .map(([f, as]) => `${f}(${as.join(', ')})`),
   ),
 })).e;
 /** Pieces outside the grammar mixed in: other names, odd numbers, adjacency, other characters. */
-const odd = fc.constantFrom('pi', 'e', 'x', 'Infinity', 'NaN', 'true', 'mod', 'to', '5.', '0x10', '2z', '1e', 'z(2)', 'log10', 'sqrt()', '%', '!', "'", '[1]', '.5.5', '\n', ' in ', ':', 'zé', '$a');
+const odd = fc.constantFrom(
+  'pi',
+  'e',
+  'x',
+  'Infinity',
+  'NaN',
+  'true',
+  'mod',
+  'to',
+  '5.',
+  '0x10',
+  '2z',
+  '1e',
+  'z(2)',
+  'log10',
+  'sqrt()',
+  '%',
+  '!',
+  "'",
+  '[1]',
+  '.5.5',
+  '\n',
+  ' in ',
+  ':',
+  'zé',
+  '$a',
+);
 const mixed = fc
   .tuple(valid, fc.array(fc.tuple(fc.nat(), odd, gap), { minLength: 1, maxLength: 3 }))
   .map(([text, inserts]) => {
@@ -90,7 +114,7 @@ const mixed = fc
 const adjacent = fc.tuple(valid, gap, valid).map(([a, g, b]) => `(${a})${g}${b}`);
 
 describe('quick expression trees equal mathjs node for node', () => {
-  test('every valid expression takes the quick path and gives mathjs\'s tree', () => {
+  test("every valid expression takes the quick path and gives mathjs's tree", () => {
     fc.assert(
       fc.property(valid, (text) => {
         const quick = quickParse(text);
@@ -101,7 +125,7 @@ describe('quick expression trees equal mathjs node for node', () => {
     );
   });
 
-  test('anything else is either mathjs\'s tree or left to mathjs', () => {
+  test("anything else is either mathjs's tree or left to mathjs", () => {
     let left = 0;
     fc.assert(
       fc.property(fc.oneof(mixed, adjacent), (text) => {
@@ -125,7 +149,7 @@ describe('quick expression trees equal mathjs node for node', () => {
     expect(at('min(z, 2, -1)', 0.5)).toBe(-1);
   });
 
-  test('errors are still mathjs\'s and the grammar\'s (the quick path leaves them)', () => {
+  test("errors are still mathjs's and the grammar's (the quick path leaves them)", () => {
     for (const [text, word] of [
       ['2 z', 'without a "*"'],
       ['pi * z', '"pi"'],
@@ -143,7 +167,12 @@ describe('quick expression trees equal mathjs node for node', () => {
     const dir = join(__dirname, '../../samples');
     let seen = 0;
     const visit = (v: unknown): void => {
-      if (typeof v === 'string' && /\bz\b/.test(v) && /^[-+*/^().,\s\w]+$/.test(v) && !/[a-y]{3,}/.test(v.replace(/log10|sqrt|exp|abs|min|max|ln/g, ''))) {
+      if (
+        typeof v === 'string' &&
+        /\bz\b/.test(v) &&
+        /^[-+*/^().,\s\w]+$/.test(v) &&
+        !/[a-y]{3,}/.test(v.replace(/log10|sqrt|exp|abs|min|max|ln/g, ''))
+      ) {
         seen++;
         const quick = quickParse(v);
         expect(quick, v).not.toBeUndefined();
@@ -151,7 +180,8 @@ describe('quick expression trees equal mathjs node for node', () => {
       } else if (Array.isArray(v)) v.forEach(visit);
       else if (v && typeof v === 'object') Object.values(v).forEach(visit);
     };
-    for (const f of readdirSync(dir).filter((x) => x.endsWith('.yaml'))) visit(parseYaml(readFileSync(join(dir, f), 'utf8')));
+    for (const f of readdirSync(dir).filter((x) => x.endsWith('.yaml')))
+      visit(parseYaml(readFileSync(join(dir, f), 'utf8')));
     expect(seen).toBeGreaterThanOrEqual(5);
   });
 });

@@ -100,5 +100,4 @@ describe('anything else is rejected before it is evaluated', () => {
     expect(msg('cos(z)')).toContain('"cos"');
     expect(msg('2z')).toContain('"2 z"');
   });
-
 });

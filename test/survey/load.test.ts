@@ -46,7 +46,11 @@ describe('valid surveys (closed-form expectations)', () => {
     expect(p.lStar!.at(0.8) / 10 ** (41.9 + 0.16)).toBeCloseTo(1, 12);
     expect(p.phiStar.at(1)).toBe(1.2e-3);
     expect(s.histogramWidth).toBe(0.1); // docs/survey-file.md: default 0.1 dex for line_flux
-    expect(s.detection).toMatchObject({ kind: 'line_flux', limitCgs: 5e-17, filter: { profile: 'tophat', centerAngstrom: 11900, fwhmAngstrom: 100 } });
+    expect(s.detection).toMatchObject({
+      kind: 'line_flux',
+      limitCgs: 5e-17,
+      filter: { profile: 'tophat', centerAngstrom: 11900, fwhmAngstrom: 100 },
+    });
     expect(s.cosmology).toMatchObject({ h0: 70, omegaM: 0.3, omegaLambda: 0.7, omegaR: 0, tCmb: 0 });
     expect(s.title).toBe('Narrow-band line search in an invented field');
   });
@@ -110,12 +114,20 @@ describe('valid surveys (closed-form expectations)', () => {
 
   test('line_flux completeness given in flux is stored in -log10(flux), table re-sorted ascending', () => {
     const obj = parse(LINE_YAML) as Record<string, unknown>;
-    setPath(obj, 'detection.completeness', { table: [[2e-17, 0.1], [5e-17, 0.6], [1e-16, 0.95]] });
+    setPath(obj, 'detection.completeness', {
+      table: [
+        [2e-17, 0.1],
+        [5e-17, 0.6],
+        [1e-16, 0.95],
+      ],
+    });
     const s = parseSurveyObject(obj, FILE);
     const c = s.detection.completeness!;
     expect(c.model).toBe('table');
     if (c.model === 'table') {
-      expect(c.x.map((x) => Number(x.toFixed(12)))).toEqual([16, -Math.log10(5e-17), -Math.log10(2e-17)].map((x) => Number(x.toFixed(12))));
+      expect(c.x.map((x) => Number(x.toFixed(12)))).toEqual(
+        [16, -Math.log10(5e-17), -Math.log10(2e-17)].map((x) => Number(x.toFixed(12))),
+      );
       expect(c.fraction).toEqual([0.95, 0.6, 0.1]);
     }
     setPath(obj, 'detection.completeness', { model: 'logistic', half: '1e-19 W/m^2', width: 0.1 });
@@ -128,7 +140,10 @@ describe('valid surveys (closed-form expectations)', () => {
     const obj = parse(LINE_YAML) as Record<string, unknown>;
     const pop = obj.population as Record<string, unknown>;
     delete obj.population;
-    obj.populations = [{ ...pop, name: 'red line' }, { ...pop, line: '500.7 nm' }];
+    obj.populations = [
+      { ...pop, name: 'red line' },
+      { ...pop, line: '500.7 nm' },
+    ];
     const s = parseSurveyObject(obj, FILE);
     const [a, b] = s.populations;
     // tophat windows (docs/survey-file.md): (11900 -+ 50)/line - 1.
@@ -178,11 +193,30 @@ const cases: Case[] = [
   // schema: unknown keys, missing keys, types, conflicts
   ['unknown top-level key', L, { aera: 2 }, 'unknown_key', 'aera'],
   ['misspelt population key', L, { 'population.aplha': -1 }, 'unknown_key', 'population.aplha'],
-  ['misspelt table key', L, { 'population.phi_star': { tabel: [[0, 1], [1, 2]] } }, 'unknown_key', 'population.phi_star.tabel'],
+  [
+    'misspelt table key',
+    L,
+    {
+      'population.phi_star': {
+        tabel: [
+          [0, 1],
+          [1, 2],
+        ],
+      },
+    },
+    'unknown_key',
+    'population.phi_star.tabel',
+  ],
   ['missing detection', L, { detection: DEL }, 'missing_key', 'detection'],
   ['missing cosmology', L, { cosmology: DEL }, 'missing_key', 'cosmology'],
   ['missing population', L, { population: DEL }, 'missing_key', 'population'],
-  ['population and populations', L, { populations: [{ variable: 'luminosity', phi_star: 2.2e-3, l_star: 1e42, alpha: -1 }] }, 'conflict', 'populations'],
+  [
+    'population and populations',
+    L,
+    { populations: [{ variable: 'luminosity', phi_star: 2.2e-3, l_star: 1e42, alpha: -1 }] },
+    'conflict',
+    'populations',
+  ],
   ['two normalisations', L, { 'population.log10_phi_star': -2.65 }, 'conflict', 'population.log10_phi_star'],
   ['no normalisation', L, { 'population.phi_star': DEL }, 'missing_key', 'population.phi_star'],
   ['missing alpha', L, { 'population.alpha': DEL }, 'missing_key', 'population.alpha'],
@@ -194,9 +228,35 @@ const cases: Case[] = [
   ['format 2', L, { format: 2 }, 'out_of_range', 'format'],
   ['fractional slice count', L, { slices: { count: 2.5 } }, 'wrong_type', 'slices.count'],
   ['two slice forms', L, { slices: { count: 3, width: 0.1 } }, 'conflict', 'slices.width'],
-  ['table row of three', L, { 'population.alpha': { table: [[0, 1], [1, 2, 3]] } }, 'bad_table', 'population.alpha.table[1]'],
+  [
+    'table row of three',
+    L,
+    {
+      'population.alpha': {
+        table: [
+          [0, 1],
+          [1, 2, 3],
+        ],
+      },
+    },
+    'bad_table',
+    'population.alpha.table[1]',
+  ],
   ['table of one row', L, { 'population.alpha': { table: [[0, 1]] } }, 'bad_table', 'population.alpha.table'],
-  ['table z not increasing', L, { 'population.alpha': { table: [[1, -1], [1, -1.2]] } }, 'bad_table', 'population.alpha.table[1]'],
+  [
+    'table z not increasing',
+    L,
+    {
+      'population.alpha': {
+        table: [
+          [1, -1],
+          [1, -1.2],
+        ],
+      },
+    },
+    'bad_table',
+    'population.alpha.table[1]',
+  ],
   ['one slice edge', T, { slices: { edges: [0.7] } }, 'bad_slices', 'slices.edges'],
   ['infinite area', L, { area: Infinity }, 'not_finite', 'area'],
   // units
@@ -226,15 +286,46 @@ const cases: Case[] = [
   ['edges not increasing', T, { slices: { edges: [0.6, 1.0, 0.9] } }, 'bad_slices', 'slices.edges[2]'],
   ['zero histogram width', L, { histogram: { width: 0 } }, 'out_of_range', 'histogram.width'],
   ['negative flux limit', L, { 'detection.limit': -5e-17 }, 'out_of_range', 'detection.limit'],
-  ['table as a flux limit', L, { 'detection.limit': { table: [[0, 1], [1, 2]] } }, 'wrong_type', 'detection.limit'],
+  [
+    'table as a flux limit',
+    L,
+    {
+      'detection.limit': {
+        table: [
+          [0, 1],
+          [1, 2],
+        ],
+      },
+    },
+    'wrong_type',
+    'detection.limit',
+  ],
   ['negative exposure', L, { exposure: -3 }, 'out_of_range', 'exposure'],
   ['zero field aspect', L, { field: { aspect: 0 } }, 'out_of_range', 'field.aspect'],
   ['zero fields', L, { field: { count: 0 } }, 'out_of_range', 'field.count'],
   // kinds
-  ['magnitude kind with a luminosity population', M, { 'population.variable': 'luminosity' }, 'kind_mismatch', 'population.variable'],
-  ['line_flux kind with a magnitude population', L, { 'population.variable': 'magnitude' }, 'kind_mismatch', 'population.variable'],
+  [
+    'magnitude kind with a luminosity population',
+    M,
+    { 'population.variable': 'luminosity' },
+    'kind_mismatch',
+    'population.variable',
+  ],
+  [
+    'line_flux kind with a magnitude population',
+    L,
+    { 'population.variable': 'magnitude' },
+    'kind_mismatch',
+    'population.variable',
+  ],
   ['band on a line_flux detection', L, { 'detection.band': 5000 }, 'kind_mismatch', 'detection.band'],
-  ['filter on a magnitude detection', M, { 'detection.filter': { center: 5000, fwhm: 50 } }, 'kind_mismatch', 'detection.filter'],
+  [
+    'filter on a magnitude detection',
+    M,
+    { 'detection.filter': { center: 5000, fwhm: 50 } },
+    'kind_mismatch',
+    'detection.filter',
+  ],
   ['population line with the magnitude kind', M, { 'population.line': 1216 }, 'kind_mismatch', 'population.line'],
   ['m_star for a luminosity variable', L, { 'population.m_star': -20 }, 'kind_mismatch', 'population.m_star'],
   ['l_star for a magnitude variable', M, { 'population.l_star': 1e42 }, 'kind_mismatch', 'population.l_star'],
@@ -246,25 +337,127 @@ const cases: Case[] = [
   // completeness
   ['zero completeness width', M, { 'detection.completeness.width': 0 }, 'out_of_range', 'detection.completeness.width'],
   ['missing half', M, { 'detection.completeness.half': DEL }, 'missing_key', 'detection.completeness.half'],
-  ['table and half', M, { 'detection.completeness': { half: 27, table: [[26, 1], [28, 0]] } }, 'conflict', 'detection.completeness.half'],
-  ['logistic with a table', M, { 'detection.completeness': { model: 'logistic', half: 27, width: 0.2, table: [[26, 1], [28, 0]] } }, 'conflict', 'detection.completeness.table'],
-  ['fraction above 1', M, { 'detection.completeness': { table: [[26, 1], [28, 1.5]] } }, 'out_of_range', 'detection.completeness.table[1]'],
-  ['completeness x not increasing', M, { 'detection.completeness': { table: [[28, 1], [26, 0]] } }, 'bad_table', 'detection.completeness.table[1]'],
-  ['negative flux in a completeness table', L, { 'detection.completeness': { table: [[-1e-17, 0], [1e-16, 1]] } }, 'out_of_range', 'detection.completeness.table[0]'],
+  [
+    'table and half',
+    M,
+    {
+      'detection.completeness': {
+        half: 27,
+        table: [
+          [26, 1],
+          [28, 0],
+        ],
+      },
+    },
+    'conflict',
+    'detection.completeness.half',
+  ],
+  [
+    'logistic with a table',
+    M,
+    {
+      'detection.completeness': {
+        model: 'logistic',
+        half: 27,
+        width: 0.2,
+        table: [
+          [26, 1],
+          [28, 0],
+        ],
+      },
+    },
+    'conflict',
+    'detection.completeness.table',
+  ],
+  [
+    'fraction above 1',
+    M,
+    {
+      'detection.completeness': {
+        table: [
+          [26, 1],
+          [28, 1.5],
+        ],
+      },
+    },
+    'out_of_range',
+    'detection.completeness.table[1]',
+  ],
+  [
+    'completeness x not increasing',
+    M,
+    {
+      'detection.completeness': {
+        table: [
+          [28, 1],
+          [26, 0],
+        ],
+      },
+    },
+    'bad_table',
+    'detection.completeness.table[1]',
+  ],
+  [
+    'negative flux in a completeness table',
+    L,
+    {
+      'detection.completeness': {
+        table: [
+          [-1e-17, 0],
+          [1e-16, 1],
+        ],
+      },
+    },
+    'out_of_range',
+    'detection.completeness.table[0]',
+  ],
   // parameter values
   ['negative phi_star', L, { 'population.phi_star': -2.2e-3 }, 'out_of_range', 'population.phi_star'],
-  ['phi_star expression negative inside the window', M, { 'population.log10_phi_star': DEL, 'population.phi_star': '2.2e-3 * (4 - z)' }, 'out_of_range', 'population.phi_star'],
-  ['phi_star table negative inside the window', M, { 'population.log10_phi_star': DEL, 'population.phi_star': { table: [[3, 2.2e-3], [4, -1e-4], [5, 2.2e-3]] } }, 'out_of_range', 'population.phi_star'],
+  [
+    'phi_star expression negative inside the window',
+    M,
+    { 'population.log10_phi_star': DEL, 'population.phi_star': '2.2e-3 * (4 - z)' },
+    'out_of_range',
+    'population.phi_star',
+  ],
+  [
+    'phi_star table negative inside the window',
+    M,
+    {
+      'population.log10_phi_star': DEL,
+      'population.phi_star': {
+        table: [
+          [3, 2.2e-3],
+          [4, -1e-4],
+          [5, 2.2e-3],
+        ],
+      },
+    },
+    'out_of_range',
+    'population.phi_star',
+  ],
   ['NaN from sqrt over the window', M, { 'population.alpha': 'sqrt(4 - z) - 2' }, 'bad_expression', 'population.alpha'],
   ['log10 of a negative number', M, { 'population.alpha': 'log10(3.5 - z)' }, 'bad_expression', 'population.alpha'],
   ['expression with a call', L, { 'population.alpha': "import('fs')" }, 'bad_expression', 'population.alpha'],
-  ['expression with implicit multiplication', L, { 'population.alpha': '-1.35 - 0.1z' }, 'bad_expression', 'population.alpha'],
+  [
+    'expression with implicit multiplication',
+    L,
+    { 'population.alpha': '-1.35 - 0.1z' },
+    'bad_expression',
+    'population.alpha',
+  ],
   ['l_star overflowing to infinity', L, { 'population.log10_l_star': 400 }, 'not_finite', 'population.log10_l_star'],
   ['negative bias', L, { 'population.bias': -1 }, 'out_of_range', 'population.bias'],
   ['zero occupation', L, { 'population.occupation': 0 }, 'out_of_range', 'population.occupation'],
   ['occupation above 1', L, { 'population.occupation': 1.5 }, 'out_of_range', 'population.occupation'],
   ['duplicate population names', T, { 'populations[1].name': 'quiescent' }, 'conflict', 'populations[1].name'],
-  ['negative rest wavelength', M, { 'population.rest_wavelength': -1500 }, 'out_of_range', 'population.rest_wavelength'],
+  [
+    'negative rest wavelength',
+    M,
+    { 'population.rest_wavelength': -1500 },
+    'out_of_range',
+    'population.rest_wavelength',
+  ],
   // cosmology
   ['unknown preset', M, { 'cosmology.preset': 'planck2019' }, 'out_of_range', 'cosmology.preset'],
   ['no h0 and no preset', L, { 'cosmology.h0': DEL }, 'missing_key', 'cosmology.h0'],
@@ -308,7 +501,12 @@ describe('bad input: one SurveyError with a stable code and key path', () => {
 describe('bad YAML and bad files', () => {
   const yamlCases: [string, string, string, string][] = [
     ['syntax error', 'format: 1\narea: [1, 2\ncosmology: {h0: 70}\n', 'yaml_syntax', ''],
-    ['duplicate key', LINE_YAML.replace('kind: line_flux', 'kind: line_flux\n  kind: magnitude'), 'yaml_syntax', 'detection.kind'],
+    [
+      'duplicate key',
+      LINE_YAML.replace('kind: line_flux', 'kind: line_flux\n  kind: magnitude'),
+      'yaml_syntax',
+      'detection.kind',
+    ],
     ['two documents', LINE_YAML + '---\n' + LINE_YAML, 'yaml_syntax', ''],
     ['unsupported tag', LINE_YAML.replace('area: "900 arcmin^2"', 'area: !secret 900'), 'yaml_syntax', ''],
     ['a list, not a mapping', '- 1\n- 2\n', 'wrong_type', ''],
@@ -349,7 +547,9 @@ describe('bad YAML and bad files', () => {
   test('an alias bomb (each level nine times the last) is stopped at the alias limit', () => {
     let text = 'a0: &a0 ["lol", "lol", "lol", "lol", "lol", "lol", "lol", "lol", "lol"]\n';
     for (let i = 1; i <= 9; i++) {
-      text += `a${i}: &a${i} [${Array(9).fill(`*a${i - 1}`).join(', ')}]\n`;
+      text += `a${i}: &a${i} [${Array(9)
+        .fill(`*a${i - 1}`)
+        .join(', ')}]\n`;
     }
     // Fully expanded this would hold 9^10 (about 3.5e9) strings.
     const e = errorOf(() => loadSurveyText(text, FILE));
@@ -358,7 +558,10 @@ describe('bad YAML and bad files', () => {
   });
 
   test('a few aliases are fine', () => {
-    const text = LINE_YAML.replace('alpha: -1.35', 'alpha: &a -1.35').replace('slices: {count: 4}', 'slices: {count: 4}\nhistogram: {width: 0.1}');
+    const text = LINE_YAML.replace('alpha: -1.35', 'alpha: &a -1.35').replace(
+      'slices: {count: 4}',
+      'slices: {count: 4}\nhistogram: {width: 0.1}',
+    );
     expect(loadSurveyText(text, FILE).populations[0]!.alpha.at(1)).toBe(-1.35);
   });
 });

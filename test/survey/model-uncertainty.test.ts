@@ -11,7 +11,8 @@ import { SurveyError } from '../../src/errors.js';
 import { tempDir } from '../support/temp.js';
 
 const FILE = 'test/reference/surveys-model/line-correlated.yaml';
-const base = () => parse(`
+const base = () =>
+  parse(`
 format: 1
 cosmology: {h0: 70, omega_m: 0.3}
 area: 2.0
@@ -62,7 +63,10 @@ describe('model_uncertainty builds', () => {
 
   test('a draws file: offsets are the rows minus the assumed values (per dex form compared per dex)', () => {
     const dir = tempDir();
-    writeFileSync(join(dir, 'd.csv'), '# a comment\nalpha,log10_phi_star\n-1.45,-2.2596373105057563\n-1.35,-2.1596373105057563\n');
+    writeFileSync(
+      join(dir, 'd.csv'),
+      '# a comment\nalpha,log10_phi_star\n-1.45,-2.2596373105057563\n-1.35,-2.1596373105057563\n',
+    );
     const mu = load({ draws_file: 'd.csv' }, dir).populations[0]!.modelUncertainty!;
     if (mu.kind !== 'draws') throw new Error('draws');
     expect(mu.parameters).toEqual(['alpha', 'log10_phi_star']);
@@ -76,20 +80,70 @@ describe('model_uncertainty builds', () => {
 
 describe('bad input', () => {
   test.each([
-    ['two of three pairs, 0.7 and -0.8: not positive definite', { log10_phi_star: 0.08, log10_l_star: 0.05, alpha: 0.1, correlation: { 'log10_phi_star-alpha': 0.7, 'log10_l_star-alpha': -0.8 } }, 'not_positive_definite', 'population.model_uncertainty.correlation'],
-    ['a correlation of exactly 1', { log10_phi_star: 0.08, alpha: 0.1, correlation: { 'log10_phi_star-alpha': 1 } }, 'not_positive_definite', 'population.model_uncertainty.correlation'],
+    [
+      'two of three pairs, 0.7 and -0.8: not positive definite',
+      {
+        log10_phi_star: 0.08,
+        log10_l_star: 0.05,
+        alpha: 0.1,
+        correlation: { 'log10_phi_star-alpha': 0.7, 'log10_l_star-alpha': -0.8 },
+      },
+      'not_positive_definite',
+      'population.model_uncertainty.correlation',
+    ],
+    [
+      'a correlation of exactly 1',
+      { log10_phi_star: 0.08, alpha: 0.1, correlation: { 'log10_phi_star-alpha': 1 } },
+      'not_positive_definite',
+      'population.model_uncertainty.correlation',
+    ],
     ['a negative sigma', { alpha: -0.1 }, 'out_of_range', 'population.model_uncertainty.alpha'],
     ['m_star for a luminosity variable', { m_star: 0.1 }, 'unknown_key', 'population.model_uncertainty.m_star'],
     ['an unknown parameter', { beta: 0.1 }, 'unknown_key', 'population.model_uncertainty.beta'],
-    ['a double Schechter parameter on a single one', { alpha_1: 0.1 }, 'unknown_key', 'population.model_uncertainty.alpha_1'],
-    ['a pair naming an unknown parameter', { alpha: 0.1, correlation: { 'alpha-beta': 0.2 } }, 'unknown_key', 'population.model_uncertainty.correlation.alpha-beta'],
-    ['a pair without its sigma', { alpha: 0.1, correlation: { 'alpha-log10_l_star': 0.2 } }, 'missing_key', 'population.model_uncertainty.correlation.alpha-log10_l_star'],
-    ['a pair given both ways', { alpha: 0.1, log10_l_star: 0.1, correlation: { 'alpha-log10_l_star': 0.2, 'log10_l_star-alpha': 0.2 } }, 'conflict', 'population.model_uncertainty.correlation.log10_l_star-alpha'],
-    ['a correlation above 1', { alpha: 0.1, log10_l_star: 0.1, correlation: { 'alpha-log10_l_star': 1.2 } }, 'out_of_range', 'population.model_uncertainty.correlation.alpha-log10_l_star'],
+    [
+      'a double Schechter parameter on a single one',
+      { alpha_1: 0.1 },
+      'unknown_key',
+      'population.model_uncertainty.alpha_1',
+    ],
+    [
+      'a pair naming an unknown parameter',
+      { alpha: 0.1, correlation: { 'alpha-beta': 0.2 } },
+      'unknown_key',
+      'population.model_uncertainty.correlation.alpha-beta',
+    ],
+    [
+      'a pair without its sigma',
+      { alpha: 0.1, correlation: { 'alpha-log10_l_star': 0.2 } },
+      'missing_key',
+      'population.model_uncertainty.correlation.alpha-log10_l_star',
+    ],
+    [
+      'a pair given both ways',
+      { alpha: 0.1, log10_l_star: 0.1, correlation: { 'alpha-log10_l_star': 0.2, 'log10_l_star-alpha': 0.2 } },
+      'conflict',
+      'population.model_uncertainty.correlation.log10_l_star-alpha',
+    ],
+    [
+      'a correlation above 1',
+      { alpha: 0.1, log10_l_star: 0.1, correlation: { 'alpha-log10_l_star': 1.2 } },
+      'out_of_range',
+      'population.model_uncertainty.correlation.alpha-log10_l_star',
+    ],
     ['a sigma beyond the cap', { log10_phi_star: 3 }, 'out_of_range', 'population.model_uncertainty.log10_phi_star'],
-    ['sigmas beside draws_file', { alpha: 0.1, draws_file: 'chains/assumed-values.csv' }, 'conflict', 'population.model_uncertainty.alpha'],
+    [
+      'sigmas beside draws_file',
+      { alpha: 0.1, draws_file: 'chains/assumed-values.csv' },
+      'conflict',
+      'population.model_uncertainty.alpha',
+    ],
     ['an empty block', {}, 'missing_key', 'population.model_uncertainty'],
-    ['a missing draws file', { draws_file: 'chains/none.csv' }, 'file_unreadable', 'population.model_uncertainty.draws_file'],
+    [
+      'a missing draws file',
+      { draws_file: 'chains/none.csv' },
+      'file_unreadable',
+      'population.model_uncertainty.draws_file',
+    ],
   ])('%s', (_name, block, code, keyPath) => {
     const e = errorOf(() => load(block));
     expect({ code: e.code, keyPath: e.keyPath }).toEqual({ code, keyPath });
@@ -105,6 +159,9 @@ describe('bad input', () => {
     const dir = tempDir();
     writeFileSync(join(dir, 'd.csv'), text);
     const e = errorOf(() => load({ draws_file: 'd.csv' }, dir));
-    expect({ code: e.code, keyPath: e.keyPath }).toEqual({ code: 'bad_table', keyPath: 'population.model_uncertainty.draws_file' });
+    expect({ code: e.code, keyPath: e.keyPath }).toEqual({
+      code: 'bad_table',
+      keyPath: 'population.model_uncertainty.draws_file',
+    });
   });
 });

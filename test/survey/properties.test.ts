@@ -34,7 +34,12 @@ const zparamArb = (lo: number, hi: number) =>
   fc.oneof(
     finite(lo, hi),
     fc.tuple(finite(lo, hi), finite(-0.05, 0.05)).map(([a, b]) => `${a} + ${b}*z`),
-    fc.tuple(finite(lo, hi), finite(lo, hi)).map(([a, b]) => ({ table: [[0, a], [8, b]] })),
+    fc.tuple(finite(lo, hi), finite(lo, hi)).map(([a, b]) => ({
+      table: [
+        [0, a],
+        [8, b],
+      ],
+    })),
   );
 
 const surveyArb = windowArb.chain((w) =>
@@ -122,8 +127,19 @@ describe('random valid surveys', () => {
     fc.assert(
       fc.property(finite(1e-3, 4e4), (a) => {
         const base = build({
-          kind: 'threshold', area: a, slices: { count: 2 }, window: { min: 0.5, max: 1 }, h0: 70, omegaM: 0.3, tCmb: 0,
-          limit: 0, mag: 0, alpha: -1, logPhi: -3, logL: 42, mStar: -20,
+          kind: 'threshold',
+          area: a,
+          slices: { count: 2 },
+          window: { min: 0.5, max: 1 },
+          h0: 70,
+          omegaM: 0.3,
+          tCmb: 0,
+          limit: 0,
+          mag: 0,
+          alpha: -1,
+          logPhi: -3,
+          logL: 42,
+          mStar: -20,
         });
         const deg = parseSurveyObject(base, 'a.yaml').areaDeg2;
         const arc = parseSurveyObject({ ...base, area: `${a * 3600} arcmin^2` }, 'a.yaml').areaDeg2;

@@ -58,7 +58,11 @@ function loads(yaml: string, edits: Record<string, unknown>) {
 
 describe('cosmology: every parameter checked once, at load, against its physical range', () => {
   test.each<[string, Record<string, unknown>, string]>([
-    ['omega_b equal to omega_m (the power spectrum needs dark matter)', { cosmology: { h0: 70, omega_m: 0.3, omega_b: 0.3 } }, 'cosmology.omega_b'],
+    [
+      'omega_b equal to omega_m (the power spectrum needs dark matter)',
+      { cosmology: { h0: 70, omega_m: 0.3, omega_b: 0.3 } },
+      'cosmology.omega_b',
+    ],
     ['omega_b above omega_m', { cosmology: { h0: 70, omega_m: 0.3, omega_b: 0.31 } }, 'cosmology.omega_b'],
     ['omega_b above half of omega_m', { cosmology: { h0: 70, omega_m: 0.3, omega_b: 0.16 } }, 'cosmology.omega_b'],
     ['omega_b 0', { cosmology: { h0: 70, omega_m: 0.3, omega_b: 0 } }, 'cosmology.omega_b'],
@@ -74,7 +78,11 @@ describe('cosmology: every parameter checked once, at load, against its physical
     ['t_cmb 1e6 K', { cosmology: { h0: 70, omega_m: 0.3, t_cmb: 1e6 } }, 'cosmology.t_cmb'],
     ['t_cmb 0.5 K', { cosmology: { h0: 70, omega_m: 0.3, t_cmb: 0.5 } }, 'cosmology.t_cmb'],
     ['t_cmb below 0', { cosmology: { h0: 70, omega_m: 0.3, t_cmb: -1 } }, 'cosmology.t_cmb'],
-    ['radiation on top of omega_m 1 (no room left for Lambda)', { cosmology: { h0: 70, omega_m: 1, t_cmb: 2.7255 } }, 'cosmology.t_cmb'],
+    [
+      'radiation on top of omega_m 1 (no room left for Lambda)',
+      { cosmology: { h0: 70, omega_m: 1, t_cmb: 2.7255 } },
+      'cosmology.t_cmb',
+    ],
     ['preset __proto__', { cosmology: { preset: '__proto__' } }, 'cosmology.preset'],
     ['preset constructor', { cosmology: { preset: 'constructor' } }, 'cosmology.preset'],
     ['preset toString', { cosmology: { preset: 'toString' } }, 'cosmology.preset'],
@@ -86,32 +94,43 @@ describe('cosmology: every parameter checked once, at load, against its physical
 
   test('the presets and the measured values load', () => {
     expect(loads(LINE_YAML, { cosmology: { preset: 'planck2018' } }).cosmology.preset).toBe('planck2018');
-    expect(loads(LINE_YAML, { cosmology: { h0: 70, omega_m: 0.3, t_cmb: 2.7255, omega_b: 0.049, sigma8: 0.81, n_s: 0.965 } }).cosmology.tCmb).toBe(2.7255);
+    expect(
+      loads(LINE_YAML, { cosmology: { h0: 70, omega_m: 0.3, t_cmb: 2.7255, omega_b: 0.049, sigma8: 0.81, n_s: 0.965 } })
+        .cosmology.tCmb,
+    ).toBe(2.7255);
   });
 
   test('every cosmology inside the ranges gives finite distances and a finite, normalised power spectrum (property)', () => {
     const R = COSMOLOGY_RANGES;
     const d = (r: { min: number; max: number }) => fc.double({ min: r.min, max: r.max, noNaN: true });
     fc.assert(
-      fc.property(d(R.h0), d(R.omegaM), fc.double({ min: 1e-6, max: MAX_BARYON_FRACTION, noNaN: true }), d(R.sigma8), d(R.nS), fc.constantFrom(0, 1, 2.7255, 10), (h0, omegaM, fb, sigma8, nS, tCmb) => {
-        let c;
-        try {
-          c = resolveCosmology({ h0, omegaM, omegaB: fb * omegaM, sigma8, nS, tCmb });
-        } catch (e) {
-          // the one combination refused inside the ranges: radiation beyond the critical density
-          expect(e).toMatchObject({ code: 'out_of_range', keyPath: 'cosmology.t_cmb' });
-          return;
-        }
-        const cosmo = new FlatCosmology(c);
-        for (const z of [0.01, 1, MAX_REDSHIFT]) {
-          expect(Number.isFinite(cosmo.luminosityDistanceMpc(z))).toBe(true);
-          expect(Number.isFinite(cosmo.volumeElementMpc3Sr(z))).toBe(true);
-        }
-        const lp = createLinearPower(c);
-        // sigma(8/h Mpc, z = 0) is sigma8 by construction (the definition of the normalisation; 1e-6)
-        expect(lp.sigmaR(8 / (h0 / 100), 0) / sigma8).toBeCloseTo(1, 6);
-        expect(Number.isFinite(lp.sigmaR(1, MAX_REDSHIFT))).toBe(true);
-      }),
+      fc.property(
+        d(R.h0),
+        d(R.omegaM),
+        fc.double({ min: 1e-6, max: MAX_BARYON_FRACTION, noNaN: true }),
+        d(R.sigma8),
+        d(R.nS),
+        fc.constantFrom(0, 1, 2.7255, 10),
+        (h0, omegaM, fb, sigma8, nS, tCmb) => {
+          let c;
+          try {
+            c = resolveCosmology({ h0, omegaM, omegaB: fb * omegaM, sigma8, nS, tCmb });
+          } catch (e) {
+            // the one combination refused inside the ranges: radiation beyond the critical density
+            expect(e).toMatchObject({ code: 'out_of_range', keyPath: 'cosmology.t_cmb' });
+            return;
+          }
+          const cosmo = new FlatCosmology(c);
+          for (const z of [0.01, 1, MAX_REDSHIFT]) {
+            expect(Number.isFinite(cosmo.luminosityDistanceMpc(z))).toBe(true);
+            expect(Number.isFinite(cosmo.volumeElementMpc3Sr(z))).toBe(true);
+          }
+          const lp = createLinearPower(c);
+          // sigma(8/h Mpc, z = 0) is sigma8 by construction (the definition of the normalisation; 1e-6)
+          expect(lp.sigmaR(8 / (h0 / 100), 0) / sigma8).toBeCloseTo(1, 6);
+          expect(Number.isFinite(lp.sigmaR(1, MAX_REDSHIFT))).toBe(true);
+        },
+      ),
       { numRuns: 60, seed: 31 },
     );
   });
@@ -120,33 +139,113 @@ describe('cosmology: every parameter checked once, at load, against its physical
 describe('every parameter in its physical range, refused before any work', () => {
   test.each<[string, string, Record<string, unknown>, string, string]>([
     ['alpha -1.8e26', LINE_YAML, { 'population.alpha': -1.8e26 }, 'out_of_range', 'population.alpha'],
-    ['alpha 1e300 in a table', LINE_YAML, { 'population.alpha': { table: [[0, -1], [3, 1e300]] } }, 'out_of_range', 'population.alpha'],
+    [
+      'alpha 1e300 in a table',
+      LINE_YAML,
+      {
+        'population.alpha': {
+          table: [
+            [0, -1],
+            [3, 1e300],
+          ],
+        },
+      },
+      'out_of_range',
+      'population.alpha',
+    ],
     ['phi_star 1e10 Mpc^-3', LINE_YAML, { 'population.phi_star': 1e10 }, 'out_of_range', 'population.phi_star'],
     ['log10_l_star 70', LINE_YAML, { 'population.log10_l_star': 70 }, 'out_of_range', 'population.log10_l_star'],
-    ['log10_l_star 400 (an infinite L*)', LINE_YAML, { 'population.log10_l_star': 400 }, 'not_finite', 'population.log10_l_star'],
+    [
+      'log10_l_star 400 (an infinite L*)',
+      LINE_YAML,
+      { 'population.log10_l_star': 400 },
+      'not_finite',
+      'population.log10_l_star',
+    ],
     ['m_star 1e300', MAGNITUDE_YAML, { 'population.m_star': 1e300 }, 'out_of_range', 'population.m_star'],
     ['magnitude limit 1e300', MAGNITUDE_YAML, { 'detection.limit': 1e300 }, 'out_of_range', 'detection.limit'],
     ['magnitude limit -1e300', MAGNITUDE_YAML, { 'detection.limit': -1e300 }, 'out_of_range', 'detection.limit'],
     ['line-flux limit 1e300', LINE_YAML, { 'detection.limit': 1e300 }, 'out_of_range', 'detection.limit'],
-    ['line-flux limit "1e999" (infinite text)', LINE_YAML, { 'detection.limit': '1e999' }, 'not_finite', 'detection.limit'],
-    ['threshold limit row 418283', THRESHOLD_YAML, { 'detection.limit': { table: [[0.3, 9], [1.5, 418283]] } }, 'out_of_range', 'detection.limit'],
+    [
+      'line-flux limit "1e999" (infinite text)',
+      LINE_YAML,
+      { 'detection.limit': '1e999' },
+      'not_finite',
+      'detection.limit',
+    ],
+    [
+      'threshold limit row 418283',
+      THRESHOLD_YAML,
+      {
+        'detection.limit': {
+          table: [
+            [0.3, 9],
+            [1.5, 418283],
+          ],
+        },
+      },
+      'out_of_range',
+      'detection.limit',
+    ],
     ['beta 1e300', MAGNITUDE_YAML, { 'detection.beta': 1e300 }, 'out_of_range', 'detection.beta'],
     ['histogram width 1e-9', LINE_YAML, { 'histogram.width': 1e-9 }, 'out_of_range', 'histogram.width'],
     ['histogram width 1e9', LINE_YAML, { 'histogram.width': 1e9 }, 'out_of_range', 'histogram.width'],
-    ['completeness width 1e9', LINE_YAML, { 'detection.completeness': { half: 6e-17, width: 1e9 } }, 'out_of_range', 'detection.completeness.width'],
-    ['completeness width 1e-300', LINE_YAML, { 'detection.completeness': { half: 6e-17, width: 1e-300 } }, 'out_of_range', 'detection.completeness.width'],
-    ['completeness half 1e300 mag', MAGNITUDE_YAML, { 'detection.completeness': { half: 1e300, width: 0.2 } }, 'out_of_range', 'detection.completeness.half'],
+    [
+      'completeness width 1e9',
+      LINE_YAML,
+      { 'detection.completeness': { half: 6e-17, width: 1e9 } },
+      'out_of_range',
+      'detection.completeness.width',
+    ],
+    [
+      'completeness width 1e-300',
+      LINE_YAML,
+      { 'detection.completeness': { half: 6e-17, width: 1e-300 } },
+      'out_of_range',
+      'detection.completeness.width',
+    ],
+    [
+      'completeness half 1e300 mag',
+      MAGNITUDE_YAML,
+      { 'detection.completeness': { half: 1e300, width: 0.2 } },
+      'out_of_range',
+      'detection.completeness.half',
+    ],
     ['line 1e300 Angstrom', LINE_YAML, { 'detection.line': 1e300 }, 'out_of_range', 'detection.line'],
-    ['filter fwhm 1e-300 Angstrom', LINE_YAML, { 'detection.filter.fwhm': 1e-300 }, 'out_of_range', 'detection.filter.fwhm'],
+    [
+      'filter fwhm 1e-300 Angstrom',
+      LINE_YAML,
+      { 'detection.filter.fwhm': 1e-300 },
+      'out_of_range',
+      'detection.filter.fwhm',
+    ],
     ['bias 1e300', LINE_YAML, { 'population.bias': 1e300 }, 'out_of_range', 'population.bias'],
     ['field count 1e9', LINE_YAML, { field: { count: 1000000000 } }, 'out_of_range', 'field.count'],
     ['field aspect 1e-300', LINE_YAML, { field: { aspect: 1e-300 } }, 'out_of_range', 'field.aspect'],
     ['area 1e-300 deg^2', LINE_YAML, { area: 1e-300 }, 'out_of_range', 'area'],
     ['exposure 1e300 h', LINE_YAML, { exposure: 1e300 }, 'out_of_range', 'exposure'],
-    ['sfr factor 1e300', LINE_YAML, { 'population.sfr_conversion': 1e300 }, 'out_of_range', 'population.sfr_conversion'],
+    [
+      'sfr factor 1e300',
+      LINE_YAML,
+      { 'population.sfr_conversion': 1e300 },
+      'out_of_range',
+      'population.sfr_conversion',
+    ],
     ['redshift beyond z = 30', MAGNITUDE_YAML, { redshift: { min: 4, max: 1e6 } }, 'bad_window', 'redshift.max'],
-    ['a window 1 to 1.000000000000001', MAGNITUDE_YAML, { redshift: { min: 1, max: 1.000000000000001 } }, 'bad_window', 'redshift.max'],
-    ['a filter that sees the line beyond z = 30', LINE_YAML, { 'detection.line': 100 }, 'bad_window', 'detection.filter'],
+    [
+      'a window 1 to 1.000000000000001',
+      MAGNITUDE_YAML,
+      { redshift: { min: 1, max: 1.000000000000001 } },
+      'bad_window',
+      'redshift.max',
+    ],
+    [
+      'a filter that sees the line beyond z = 30',
+      LINE_YAML,
+      { 'detection.line': 100 },
+      'bad_window',
+      'detection.filter',
+    ],
   ])('%s', (_name, yaml, edits, code, keyPath) => {
     const e = refusal(yaml, edits);
     expect([e.code, e.keyPath]).toEqual([code, keyPath]);
@@ -154,23 +253,107 @@ describe('every parameter in its physical range, refused before any work', () =>
 
   test('the values at the ends of each range load', () => {
     expect(loads(LINE_YAML, { 'population.alpha': -2.4, 'histogram.width': 0.01 }).histogramWidth).toBe(0.01);
-    expect(loads(MAGNITUDE_YAML, { 'detection.limit': 40, 'detection.beta': 5 }).detection).toMatchObject({ limitMag: 40, beta: 5 });
+    expect(loads(MAGNITUDE_YAML, { 'detection.limit': 40, 'detection.beta': 5 }).detection).toMatchObject({
+      limitMag: 40,
+      beta: 5,
+    });
     expect(loads(MAGNITUDE_YAML, { redshift: { min: 4, max: MAX_REDSHIFT } }).redshift.max).toBe(MAX_REDSHIFT);
   });
 });
 
 describe('every size has a stated cap', () => {
   test.each<[string, string, Record<string, unknown>, string, string]>([
-    ['20,001 slice edges (the cap covers edges too)', MAGNITUDE_YAML, { redshift: { min: 1, max: 3 }, slices: { edges: Array.from({ length: 20001 }, (_, i) => 1 + (2 * i) / 20000) } }, 'bad_slices', 'slices.edges'],
-    [`${CAPS.slices + 1} slices by count`, MAGNITUDE_YAML, { slices: { count: CAPS.slices + 1 } }, 'bad_slices', 'slices.count'],
-    ['slices narrower than 1e-6 by count', MAGNITUDE_YAML, { redshift: { min: 1, max: 1.0001 }, slices: { count: 1000 } }, 'bad_slices', 'slices.count'],
-    ['slice edges 1.2 and 1.2000000000000002', MAGNITUDE_YAML, { redshift: { min: 1, max: 2 }, slices: { edges: [1.2, 1.2000000000000002] } }, 'bad_slices', 'slices.edges[1]'],
-    ['a table of 1,001 rows', LINE_YAML, { 'population.alpha': { table: Array.from({ length: 1001 }, (_, i) => [i / 500, -1.35]) } }, 'too_large', 'population.alpha.table'],
-    ['a completeness table of 1,001 rows', MAGNITUDE_YAML, { 'detection.completeness': { table: Array.from({ length: 1001 }, (_, i) => [20 + i / 100, 0.5]) } }, 'too_large', 'detection.completeness.table'],
+    [
+      '20,001 slice edges (the cap covers edges too)',
+      MAGNITUDE_YAML,
+      { redshift: { min: 1, max: 3 }, slices: { edges: Array.from({ length: 20001 }, (_, i) => 1 + (2 * i) / 20000) } },
+      'bad_slices',
+      'slices.edges',
+    ],
+    [
+      `${CAPS.slices + 1} slices by count`,
+      MAGNITUDE_YAML,
+      { slices: { count: CAPS.slices + 1 } },
+      'bad_slices',
+      'slices.count',
+    ],
+    [
+      'slices narrower than 1e-6 by count',
+      MAGNITUDE_YAML,
+      { redshift: { min: 1, max: 1.0001 }, slices: { count: 1000 } },
+      'bad_slices',
+      'slices.count',
+    ],
+    [
+      'slice edges 1.2 and 1.2000000000000002',
+      MAGNITUDE_YAML,
+      { redshift: { min: 1, max: 2 }, slices: { edges: [1.2, 1.2000000000000002] } },
+      'bad_slices',
+      'slices.edges[1]',
+    ],
+    [
+      'a table of 1,001 rows',
+      LINE_YAML,
+      { 'population.alpha': { table: Array.from({ length: 1001 }, (_, i) => [i / 500, -1.35]) } },
+      'too_large',
+      'population.alpha.table',
+    ],
+    [
+      'a completeness table of 1,001 rows',
+      MAGNITUDE_YAML,
+      { 'detection.completeness': { table: Array.from({ length: 1001 }, (_, i) => [20 + i / 100, 0.5]) } },
+      'too_large',
+      'detection.completeness.table',
+    ],
     ['a text of 5,000 characters', LINE_YAML, { title: 'x'.repeat(5000) }, 'too_large', 'title'],
-    ['21 populations', LINE_YAML, { population: undefined, populations: Array.from({ length: 21 }, (_, i) => ({ name: `p${i}`, variable: 'luminosity', phi_star: 2.2e-3, log10_l_star: 42, alpha: -1.35 })) }, 'too_large', 'populations'],
-    ['5 populations over 500 slices (2,500 counts)', LINE_YAML, { population: undefined, slices: { count: 500 }, populations: Array.from({ length: 5 }, (_, i) => ({ name: `p${i}`, variable: 'luminosity', phi_star: 2.2e-3, log10_l_star: 42, alpha: -1.35 })) }, 'bad_slices', 'slices'],
-    ['a threshold limit crossing more histogram bins than a slice may have', THRESHOLD_YAML, { 'detection.limit': { table: [[0.3, 9], [1.5, 59]] }, 'histogram.width': 0.01 }, 'too_large', 'detection.limit'],
+    [
+      '21 populations',
+      LINE_YAML,
+      {
+        population: undefined,
+        populations: Array.from({ length: 21 }, (_, i) => ({
+          name: `p${i}`,
+          variable: 'luminosity',
+          phi_star: 2.2e-3,
+          log10_l_star: 42,
+          alpha: -1.35,
+        })),
+      },
+      'too_large',
+      'populations',
+    ],
+    [
+      '5 populations over 500 slices (2,500 counts)',
+      LINE_YAML,
+      {
+        population: undefined,
+        slices: { count: 500 },
+        populations: Array.from({ length: 5 }, (_, i) => ({
+          name: `p${i}`,
+          variable: 'luminosity',
+          phi_star: 2.2e-3,
+          log10_l_star: 42,
+          alpha: -1.35,
+        })),
+      },
+      'bad_slices',
+      'slices',
+    ],
+    [
+      'a threshold limit crossing more histogram bins than a slice may have',
+      THRESHOLD_YAML,
+      {
+        'detection.limit': {
+          table: [
+            [0.3, 9],
+            [1.5, 59],
+          ],
+        },
+        'histogram.width': 0.01,
+      },
+      'too_large',
+      'detection.limit',
+    ],
     ['a quantity string of 200 characters', LINE_YAML, { area: `1 ${'deg '.repeat(50)}` }, 'bad_unit', 'area'],
   ])('%s', (_name, yaml, edits, code, keyPath) => {
     const obj = parse(yaml) as Record<string, unknown>;
@@ -255,12 +438,20 @@ describe('every input file: a regular file, within its size limit, read by one r
 
   test('a transmission table of more than 2,000 rows is refused', () => {
     const path = join(dir, 'long.csv');
-    writeFileSync(path, 'wavelength,transmission\n' + Array.from({ length: 20_000 }, (_, i) => `${11000 + i * 0.1},1`).join('\n'));
+    writeFileSync(
+      path,
+      'wavelength,transmission\n' + Array.from({ length: 20_000 }, (_, i) => `${11000 + i * 0.1},1`).join('\n'),
+    );
     const e = refusal(LINE_YAML, { 'detection.filter': { profile: 'table', file: path } });
     expect([e.code, e.keyPath]).toEqual(['bad_table', 'detection.filter.file']);
     // 2,000 rows are read
-    writeFileSync(path, 'wavelength,transmission\n' + Array.from({ length: 2000 }, (_, i) => `${11800 + i * 0.1},1`).join('\n'));
-    expect(loads(LINE_YAML, { 'detection.filter': { profile: 'table', file: path } }).detection).toMatchObject({ filter: { profile: 'table' } });
+    writeFileSync(
+      path,
+      'wavelength,transmission\n' + Array.from({ length: 2000 }, (_, i) => `${11800 + i * 0.1},1`).join('\n'),
+    );
+    expect(loads(LINE_YAML, { 'detection.filter': { profile: 'table', file: path } }).detection).toMatchObject({
+      filter: { profile: 'table' },
+    });
   });
 
   test('a survey file of 300 KiB is refused (256 KiB cap)', () => {
@@ -280,7 +471,14 @@ describe('every input file: a regular file, within its size limit, read by one r
     writeFileSync(survey, JSON.stringify(obj));
     const s = loadSurveyFile(survey);
     expect(s.inputs!.map((i) => i.path)).toEqual([survey, link]);
-    const direct = readInputText(csv, { maxBytes: 1e6, maxLabel: '', file: '', keyPath: '', subject: 'the file', fix: '' });
+    const direct = readInputText(csv, {
+      maxBytes: 1e6,
+      maxLabel: '',
+      file: '',
+      keyPath: '',
+      subject: 'the file',
+      fix: '',
+    });
     // the link and the file it names are the same file (device and inode)
     expect([s.inputs![1]!.dev, s.inputs![1]!.ino]).toEqual([direct.dev, direct.ino]);
   });
@@ -321,11 +519,14 @@ describe('messages quote at most a short, escaped excerpt, and nothing of a file
 });
 
 describe('expressions follow the stated grammar, strictly', () => {
-  test.each(['5%', '-1.35 + 5%', '-1.35 # a comment', '0x10', '0b101', '0o17', '-1.35 + 0X1F*z', '#'])('%s is refused', (text) => {
-    const e = errorOf(() => compileExpression(text, FILE, 'population.alpha'));
-    expect([e.code, e.keyPath]).toEqual(['bad_expression', 'population.alpha']);
-    oneSentence(e);
-  });
+  test.each(['5%', '-1.35 + 5%', '-1.35 # a comment', '0x10', '0b101', '0o17', '-1.35 + 0X1F*z', '#'])(
+    '%s is refused',
+    (text) => {
+      const e = errorOf(() => compileExpression(text, FILE, 'population.alpha'));
+      expect([e.code, e.keyPath]).toEqual(['bad_expression', 'population.alpha']);
+      oneSentence(e);
+    },
+  );
 
   test('decimal numbers in every form are still read (1e3, .5, 2., 1E-2)', () => {
     expect(compileExpression('1e3 + .5 + 2. + 1E-2 + 0.25*z', FILE, 'k').fn(4)).toBeCloseTo(1003.51, 12);

@@ -17,13 +17,43 @@ describe('specs/survey.schema.json', () => {
     const keysOf = (s: Schema) => Object.keys(resolve(s).properties ?? {}).sort();
     const p = schema.properties!;
     expect(keysOf(schema)).toEqual(
-      ['area', 'cosmology', 'detection', 'exposure', 'field', 'format', 'histogram', 'plan', 'population', 'populations', 'redshift', 'slices', 'title'].sort(),
+      [
+        'area',
+        'cosmology',
+        'detection',
+        'exposure',
+        'field',
+        'format',
+        'histogram',
+        'plan',
+        'population',
+        'populations',
+        'redshift',
+        'slices',
+        'title',
+      ].sort(),
     );
     expect(keysOf(p.cosmology!)).toEqual(['h0', 'n_s', 'omega_b', 'omega_m', 'preset', 'sigma8', 't_cmb']);
     expect(keysOf(p.redshift!)).toEqual(['max', 'min']);
     expect(keysOf(p.field!)).toEqual(['aspect', 'count']);
     const det = resolve(p.detection!);
-    expect(keysOf(det)).toEqual(['band', 'band_file', 'beta', 'completeness', 'equivalent_width_cut', 'filter', 'igm', 'kind', 'limit', 'line', 'photo_z', 'redshift_selection', 'sed', 'system', 'vega_to_ab']);
+    expect(keysOf(det)).toEqual([
+      'band',
+      'band_file',
+      'beta',
+      'completeness',
+      'equivalent_width_cut',
+      'filter',
+      'igm',
+      'kind',
+      'limit',
+      'line',
+      'photo_z',
+      'redshift_selection',
+      'sed',
+      'system',
+      'vega_to_ab',
+    ]);
     expect(keysOf(det.properties!.photo_z!)).toEqual(['outlier_fraction', 'sigma']);
     expect(det.properties!.igm!.enum).toEqual(['none', 'madau1995']);
     expect(det.properties!.kind!.enum).toEqual(['line_flux', 'magnitude', 'threshold']);
@@ -32,22 +62,60 @@ describe('specs/survey.schema.json', () => {
     expect(keysOf(det.properties!.completeness!)).toEqual(['half', 'model', 'table', 'width']);
     expect(keysOf(p.population!)).toEqual(
       [
-        'alpha', 'bias', 'l_star', 'line', 'log10_l_star', 'log10_phi_star', 'log10_phi_star_dex', 'm_star', 'name', 'occupation',
-        'phi_star', 'phi_star_dex', 'quantity', 'rest_wavelength', 'shape', 'variable',
+        'alpha',
+        'bias',
+        'l_star',
+        'line',
+        'log10_l_star',
+        'log10_phi_star',
+        'log10_phi_star_dex',
+        'm_star',
+        'name',
+        'occupation',
+        'phi_star',
+        'phi_star_dex',
+        'quantity',
+        'rest_wavelength',
+        'shape',
+        'variable',
         // double Schechter components and the star-formation-rate conversion
-        'alpha_1', 'alpha_2', 'phi_star_1', 'log10_phi_star_1', 'phi_star_1_dex', 'log10_phi_star_1_dex',
-        'phi_star_2', 'log10_phi_star_2', 'phi_star_2_dex', 'log10_phi_star_2_dex', 'sfr_conversion',
+        'alpha_1',
+        'alpha_2',
+        'phi_star_1',
+        'log10_phi_star_1',
+        'phi_star_1_dex',
+        'log10_phi_star_1_dex',
+        'phi_star_2',
+        'log10_phi_star_2',
+        'phi_star_2_dex',
+        'log10_phi_star_2_dex',
+        'sfr_conversion',
         // the luminosity function's own uncertainty
         'model_uncertainty',
         // photometry: the rest band and the magnitude system of m_star
-        'rest_band', 'system', 'vega_to_ab',
+        'rest_band',
+        'system',
+        'vega_to_ab',
         // selection effects
-        'attenuation', 'blend_ratio', 'equivalent_widths', 'redshift_selection', 'valid_redshift',
+        'attenuation',
+        'blend_ratio',
+        'equivalent_widths',
+        'redshift_selection',
+        'valid_redshift',
       ].sort(),
     );
-    expect(keysOf(resolve(p.population!).properties!.model_uncertainty!)).toEqual(
-      ['alpha', 'alpha_1', 'alpha_2', 'correlation', 'draws_file', 'log10_l_star', 'log10_phi_star', 'log10_phi_star_1', 'log10_phi_star_2', 'm_star'],
-    );
+    expect(keysOf(resolve(p.population!).properties!.model_uncertainty!)).toEqual([
+      'alpha',
+      'alpha_1',
+      'alpha_2',
+      'correlation',
+      'draws_file',
+      'log10_l_star',
+      'log10_phi_star',
+      'log10_phi_star_1',
+      'log10_phi_star_2',
+      'm_star',
+    ]);
     expect(keysOf(p.populations!.items as Schema)).toEqual(keysOf(p.population!));
     expect(keysOf(p.slices!)).toEqual(['count', 'edges', 'width']);
     expect(keysOf(p.histogram!)).toEqual(['width']);

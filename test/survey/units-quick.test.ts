@@ -23,15 +23,43 @@ function viaMathjs(text: string, kind: QuantityKind): number | 'error' {
 }
 
 const EXPRESSIONS: Record<QuantityKind, string[]> = {
-  area: ['deg^2', 'arcmin^2', 'arcsec^2', 'sr', 'rad^2', 'deg ^ 2', 'deg*deg', 'deg deg', 'arcmin*arcsec', 'deg arcmin', 'sr^1'],
+  area: [
+    'deg^2',
+    'arcmin^2',
+    'arcsec^2',
+    'sr',
+    'rad^2',
+    'deg ^ 2',
+    'deg*deg',
+    'deg deg',
+    'arcmin*arcsec',
+    'deg arcmin',
+    'sr^1',
+  ],
   wavelength: ['angstrom', 'nm', 'um', 'micron', 'm', 'cm', 'mm', 'um^1', 'm^2/m', 'cm/m*m'],
-  flux: ['erg/s/cm^2', 'W/m^2', 'erg s^-1 cm^-2', 'erg / s / cm^2', 'J/s/m^2', 'W m^-2', 'erg/s/cm/cm', 'W/cm^2', 'erg/cm^2/s', 'erg*s^-1*cm^-2'],
+  flux: [
+    'erg/s/cm^2',
+    'W/m^2',
+    'erg s^-1 cm^-2',
+    'erg / s / cm^2',
+    'J/s/m^2',
+    'W m^-2',
+    'erg/s/cm/cm',
+    'W/cm^2',
+    'erg/cm^2/s',
+    'erg*s^-1*cm^-2',
+  ],
   time: ['h', 'hour', 'min', 'minute', 's', 'h^1', 's^2/s'],
 };
 
 /** Decimal strings as people write them: a few significant digits, any exponent. */
 const decimal = fc
-  .tuple(fc.integer({ min: 1, max: 999999999 }), fc.integer({ min: -3, max: 9 }), fc.integer({ min: -25, max: 25 }), fc.boolean())
+  .tuple(
+    fc.integer({ min: 1, max: 999999999 }),
+    fc.integer({ min: -3, max: 9 }),
+    fc.integer({ min: -25, max: 25 }),
+    fc.boolean(),
+  )
   .map(([m, point, exp, sci]) => {
     const digits = String(m);
     const at = Math.max(1, Math.min(digits.length, digits.length - point));
@@ -56,7 +84,7 @@ describe('quick unit conversions equal mathjs bit for bit (tolerance 0)', () => 
     }
   }
 
-  test('the samples\' quantities', () => {
+  test("the samples' quantities", () => {
     const cases: [string, QuantityKind][] = [
       ['2.1 deg^2', 'area'],
       ['4e-17 erg/s/cm^2', 'flux'],

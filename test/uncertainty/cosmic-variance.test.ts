@@ -1,6 +1,10 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { fieldBoxSidesMpc, sliceUncertainty, type SliceUncertaintyInput } from '../../src/uncertainty/cosmic-variance.js';
+import {
+  fieldBoxSidesMpc,
+  sliceUncertainty,
+  type SliceUncertaintyInput,
+} from '../../src/uncertainty/cosmic-variance.js';
 import { createHaloModel } from '../../src/uncertainty/haloes.js';
 import { createLinearPower } from '../../src/uncertainty/power-spectrum.js';
 import { boxSigma } from '../../src/uncertainty/window.js';
@@ -60,12 +64,19 @@ describe('slice uncertainty: definitions (closed forms)', () => {
 
   it('fast-check: cosmic variance is linear in the bias and falls as the area grows', () => {
     fc.assert(
-      fc.property(fc.double({ min: 0.5, max: 8, noNaN: true }), fc.double({ min: 0.01, max: 20, noNaN: true }), (b, areaDeg2) => {
-        const r1 = sliceUncertainty(power, { ...base, bias: b, areaSr: areaDeg2 * DEG2_SR });
-        const r2 = sliceUncertainty(power, { ...base, bias: 2 * b, areaSr: areaDeg2 * DEG2_SR });
-        const r3 = sliceUncertainty(power, { ...base, bias: b, areaSr: 2 * areaDeg2 * DEG2_SR });
-        return relErr(r2.cosmicVarianceFraction, 2 * r1.cosmicVarianceFraction) < 1e-12 && r3.cosmicVarianceFraction < r1.cosmicVarianceFraction;
-      }),
+      fc.property(
+        fc.double({ min: 0.5, max: 8, noNaN: true }),
+        fc.double({ min: 0.01, max: 20, noNaN: true }),
+        (b, areaDeg2) => {
+          const r1 = sliceUncertainty(power, { ...base, bias: b, areaSr: areaDeg2 * DEG2_SR });
+          const r2 = sliceUncertainty(power, { ...base, bias: 2 * b, areaSr: areaDeg2 * DEG2_SR });
+          const r3 = sliceUncertainty(power, { ...base, bias: b, areaSr: 2 * areaDeg2 * DEG2_SR });
+          return (
+            relErr(r2.cosmicVarianceFraction, 2 * r1.cosmicVarianceFraction) < 1e-12 &&
+            r3.cosmicVarianceFraction < r1.cosmicVarianceFraction
+          );
+        },
+      ),
       { numRuns: 50, seed: 7 },
     );
   });

@@ -3,9 +3,12 @@ import { carrollPressTurnerGrowth, createGrowth, linearGrowth } from '../../src/
 import { powerFixture, relErr } from './helpers.js';
 
 describe('linear growth: closed forms', () => {
-  it.each([0, 0.5, 1, 3, 10, 100])('Einstein-de Sitter (omega_m = 1): D = 1/(1+z) exactly at z = %s (1e-8; closed form)', (z) => {
-    expect(Math.abs(linearGrowth(1, z) - 1 / (1 + z))).toBeLessThan(1e-8);
-  });
+  it.each([0, 0.5, 1, 3, 10, 100])(
+    'Einstein-de Sitter (omega_m = 1): D = 1/(1+z) exactly at z = %s (1e-8; closed form)',
+    (z) => {
+      expect(Math.abs(linearGrowth(1, z) - 1 / (1 + z))).toBeLessThan(1e-8);
+    },
+  );
 
   it('D(0) = 1 and D decreases with z', () => {
     const d = createGrowth(0.3);
@@ -22,9 +25,12 @@ describe('linear growth: closed forms', () => {
 describe('linear growth: reference library', () => {
   // scipy 1.10.1 hyp2f1 closed form D ∝ a 2F1(1/3, 1; 11/6; -a^3 OL/Om) (test/reference/power.json), 1e-10
   for (const entry of powerFixture.cosmologies) {
-    it.each(entry.growth.map((g) => [g.z, g.d]))(`${entry.cosmology.name}: D(z = %s) matches scipy hyp2f1 (1e-10)`, (z, d) => {
-      expect(relErr(linearGrowth(entry.cosmology.omega_m, z), d)).toBeLessThan(1e-10);
-    });
+    it.each(entry.growth.map((g) => [g.z, g.d]))(
+      `${entry.cosmology.name}: D(z = %s) matches scipy hyp2f1 (1e-10)`,
+      (z, d) => {
+        expect(relErr(linearGrowth(entry.cosmology.omega_m, z), d)).toBeLessThan(1e-10);
+      },
+    );
   }
 });
 

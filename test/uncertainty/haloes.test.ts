@@ -16,7 +16,9 @@ const haloes = createHaloModel(power);
 
 describe('Sheth & Tormen 1999 (MNRAS 308, 119): published properties', () => {
   it('the multiplicity integrates to one over nu: ∫ f(nu) dnu = 1 (1e-3)', () => {
-    const total = adaptiveIntegrate(shethTormenMultiplicity, 0, 1, 1e-12) + adaptiveIntegrate(shethTormenMultiplicity, 1, 40, 1e-12);
+    const total =
+      adaptiveIntegrate(shethTormenMultiplicity, 0, 1, 1e-12) +
+      adaptiveIntegrate(shethTormenMultiplicity, 1, 40, 1e-12);
     expect(Math.abs(total - 1)).toBeLessThan(1e-3);
   });
 
@@ -55,7 +57,12 @@ describe('mass function and bias in a cosmology (internal consistency)', () => {
 
   it('n(>M) equals the integral of dn/dlnM (adaptive quadrature; 1e-6)', () => {
     const m0 = 1e11;
-    const direct = adaptiveIntegrate((lnM) => haloes.massFunctionPerLnM(Math.exp(lnM), 1), Math.log(m0), Math.log(1e17), 1e-10);
+    const direct = adaptiveIntegrate(
+      (lnM) => haloes.massFunctionPerLnM(Math.exp(lnM), 1),
+      Math.log(m0),
+      Math.log(1e17),
+      1e-10,
+    );
     expect(relErr(haloes.haloDensityAboveMpc3(m0, 1), direct)).toBeLessThan(1e-6);
   });
 

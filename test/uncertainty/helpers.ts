@@ -32,7 +32,14 @@ export const powerFixture = JSON.parse(
 ) as PowerFixture;
 
 export function cosmologyOf(c: PowerFixtureCosmology): Cosmology {
-  return resolveCosmology({ h0: c.h0, omegaM: c.omega_m, omegaB: c.omega_b, sigma8: c.sigma8, nS: c.n_s, tCmb: c.t_cmb });
+  return resolveCosmology({
+    h0: c.h0,
+    omegaM: c.omega_m,
+    omegaB: c.omega_b,
+    sigma8: c.sigma8,
+    nS: c.n_s,
+    tCmb: c.t_cmb,
+  });
 }
 
 export const planck2018 = resolveCosmology({ preset: 'planck2018' });

@@ -118,9 +118,15 @@ describe('fast interpolated spectrum (internal consistency)', () => {
 
 describe('bad input', () => {
   it('a cosmology outside the fit domain never reaches it (the factory refuses it, naming the key), and bad arguments are refused', () => {
-    expect(() => resolveCosmology({ preset: 'planck2018', omegaB: 0 })).toThrow(expect.objectContaining({ code: 'out_of_range', keyPath: 'cosmology.omega_b' }));
-    expect(() => resolveCosmology({ h0: 70, omegaM: 0.3, omegaB: 0.3 })).toThrow(expect.objectContaining({ code: 'out_of_range', keyPath: 'cosmology.omega_b' }));
-    expect(() => resolveCosmology({ preset: 'planck2018', sigma8: 0 })).toThrow(expect.objectContaining({ code: 'out_of_range', keyPath: 'cosmology.sigma8' }));
+    expect(() => resolveCosmology({ preset: 'planck2018', omegaB: 0 })).toThrow(
+      expect.objectContaining({ code: 'out_of_range', keyPath: 'cosmology.omega_b' }),
+    );
+    expect(() => resolveCosmology({ h0: 70, omegaM: 0.3, omegaB: 0.3 })).toThrow(
+      expect.objectContaining({ code: 'out_of_range', keyPath: 'cosmology.omega_b' }),
+    );
+    expect(() => resolveCosmology({ preset: 'planck2018', sigma8: 0 })).toThrow(
+      expect.objectContaining({ code: 'out_of_range', keyPath: 'cosmology.sigma8' }),
+    );
     const p = createLinearPower(planck2018);
     expect(() => p.sigmaR(0, 0)).toThrow(RangeError);
     expect(() => p.power(-1, 0)).toThrow(RangeError);

@@ -51,7 +51,8 @@ describe('predict uncertainty', () => {
       expect(validate(p), JSON.stringify(validate.errors)).toBe(true);
       expect(p.breakdown === 'redshift').toBe(p.slices !== undefined);
       // the schema refuses slices beside breakdown observed, and their absence beside redshift
-      const wrong = p.breakdown === 'observed' ? { ...p, slices: p.populations[0]!.slices } : { ...p, slices: undefined };
+      const wrong =
+        p.breakdown === 'observed' ? { ...p, slices: p.populations[0]!.slices } : { ...p, slices: undefined };
       expect(validate(JSON.parse(JSON.stringify(wrong)))).toBe(false);
     },
   );
@@ -70,7 +71,9 @@ describe('predict uncertainty', () => {
   test('auto bias: abundance-matched halo mass rises and bias grows with a brighter limit (Sheth-Tormen; common practice)', () => {
     const faint = predict(survey({ detection: { kind: 'magnitude', limit: 28, band: 9000 } }));
     const bright = predict(survey({ detection: { kind: 'magnitude', limit: 24, band: 9000 } }));
-    expect(bright.totals.uncertainty!.halo_mass_min_msun!).toBeGreaterThan(faint.totals.uncertainty!.halo_mass_min_msun!);
+    expect(bright.totals.uncertainty!.halo_mass_min_msun!).toBeGreaterThan(
+      faint.totals.uncertainty!.halo_mass_min_msun!,
+    );
     expect(bright.totals.uncertainty!.bias).toBeGreaterThan(faint.totals.uncertainty!.bias);
   });
 
@@ -84,14 +87,30 @@ describe('predict uncertainty', () => {
   test('an elongated field of the same area has lower cosmic variance (common practice)', () => {
     const square = predict(survey({}, { bias: 2 }));
     const strip = predict(survey({ field: { aspect: 16, count: 1 } }, { bias: 2 }));
-    expect(strip.totals.uncertainty!.cosmic_variance_fraction).toBeLessThan(square.totals.uncertainty!.cosmic_variance_fraction);
+    expect(strip.totals.uncertainty!.cosmic_variance_fraction).toBeLessThan(
+      square.totals.uncertainty!.cosmic_variance_fraction,
+    );
   });
 });
 
 describe('clustering command', () => {
   test('sigma(8/h Mpc, z=0) = sigma8 (definition of the normalisation, 1e-4) and D(z) = 1/(1+z) for omega_m = 1 (exact, 1e-8)', async () => {
     const h = 0.7;
-    const r = await runCli(['clustering', '--z', '0,1,3', '--radius-mpc', `${8 / h}`, '--mass-msun', '1e11,1e12', '--h0', '70', '--omega-m', '0.3', '--format', 'json']);
+    const r = await runCli([
+      'clustering',
+      '--z',
+      '0,1,3',
+      '--radius-mpc',
+      `${8 / h}`,
+      '--mass-msun',
+      '1e11,1e12',
+      '--h0',
+      '70',
+      '--omega-m',
+      '0.3',
+      '--format',
+      'json',
+    ]);
     expect(r.code).toBe(0);
     const j = JSON.parse(r.stdout);
     expect(j.rows[0].sigma_r[`${8 / h}`] / 0.81).toBeCloseTo(1, 4);

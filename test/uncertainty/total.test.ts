@@ -41,7 +41,9 @@ interface Case {
   populations: PopulationReference[];
   total: { count: number; bias: number; cosmic_variance_fraction: number };
 }
-const fixture = JSON.parse(readFileSync(new URL('../reference/total-uncertainty.json', import.meta.url), 'utf8')) as { cases: Case[] };
+const fixture = JSON.parse(readFileSync(new URL('../reference/total-uncertainty.json', import.meta.url), 'utf8')) as {
+  cases: Case[];
+};
 const rel = (a: number, b: number) => Math.abs(a / b - 1);
 
 describe('the total against the independent n(z)-weighted calculation (total-uncertainty.json)', () => {
@@ -56,7 +58,8 @@ describe('the total against the independent n(z)-weighted calculation (total-unc
       expect(rel(u.effective_depth_mpc!, r.effective_depth_mpc)).toBeLessThan(3e-3);
       expect(rel(u.cosmic_variance_fraction, r.box_cosmic_variance_fraction)).toBeLessThan(1e-3);
       expect(rel(u.cosmic_variance_fraction, r.cosmic_variance_fraction)).toBeLessThan(3e-2);
-      if (r.halo_mass_of_bias_msun !== undefined) expect(rel(u.halo_mass_min_msun!, r.halo_mass_of_bias_msun)).toBeLessThan(1e-2);
+      if (r.halo_mass_of_bias_msun !== undefined)
+        expect(rel(u.halo_mass_min_msun!, r.halo_mass_of_bias_msun)).toBeLessThan(1e-2);
       else expect(u.halo_mass_min_msun).toBeUndefined();
     });
     const u = p.totals.uncertainty!;
@@ -68,7 +71,7 @@ describe('the total against the independent n(z)-weighted calculation (total-unc
     expect(u.cosmic_variance_fraction).toBeCloseTo((u.bias * u.sigma_matter) / Math.sqrt(fields), 14);
   });
 
-  test('a gaussian filter: the box is the detected sources\' effective depth, not the +-1.5 FWHM window', () => {
+  test("a gaussian filter: the box is the detected sources' effective depth, not the +-1.5 FWHM window", () => {
     const r = fixture.cases.find((c) => c.name === 'halpha_narrowband')!.populations[0]!;
     // the reference's depth is about half the window's: the filter's wings hold few sources
     expect(r.effective_depth_mpc / r.window_depth_mpc).toBeLessThan(0.6);
@@ -99,7 +102,12 @@ redshift: {min: 1.0, max: 2.0}
 detection: {kind: magnitude, limit: 25, band: 9000}
 slices: {count: 3}
 `;
-    const whole = predict(loadSurveyText(`${base}population: {name: all, variable: magnitude, phi_star: 4.4e-3, m_star: -21, alpha: -1.35, bias: "1.5 + 0.5*z"}\n`, 'w.yaml'));
+    const whole = predict(
+      loadSurveyText(
+        `${base}population: {name: all, variable: magnitude, phi_star: 4.4e-3, m_star: -21, alpha: -1.35, bias: "1.5 + 0.5*z"}\n`,
+        'w.yaml',
+      ),
+    );
     const halves = predict(
       loadSurveyText(
         `${base}populations:\n  - {name: a, variable: magnitude, phi_star: 2.2e-3, m_star: -21, alpha: -1.35, bias: "1.5 + 0.5*z"}\n  - {name: b, variable: magnitude, phi_star: 2.2e-3, m_star: -21, alpha: -1.35, bias: "1.5 + 0.5*z"}\n`,

@@ -2,7 +2,13 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import gammainc from '@stdlib/math-base-special-gammainc';
 import { createLinearPower, type LinearPower } from '../../src/uncertainty/power-spectrum.js';
-import { boxSigma, boxSigmaReference, equalVolumeRadiusMpc, sincSquaredRule, sphereSigma } from '../../src/uncertainty/window.js';
+import {
+  boxSigma,
+  boxSigmaReference,
+  equalVolumeRadiusMpc,
+  sincSquaredRule,
+  sphereSigma,
+} from '../../src/uncertainty/window.js';
 import { planck2018, relErr } from './helpers.js';
 
 const power = createLinearPower(planck2018);
@@ -19,22 +25,31 @@ function syntheticPower(fn: (k: number) => number): LinearPower {
 }
 
 describe('the per-axis sinc^2 rule', () => {
-  it.each([1, 5, 100, 3000])('integrates sinc^2 over [0, ∞) to pi/2 for an axis of %s Mpc (closed form; 1e-8, the Gauss-Legendre error on the lobes)', (l) => {
-    const r = sincSquaredRule(l);
-    let s = 0;
-    for (const w of r.w) s += w;
-    expect(Math.abs(s - Math.PI / 2)).toBeLessThan(1e-8);
-  });
+  it.each([1, 5, 100, 3000])(
+    'integrates sinc^2 over [0, ∞) to pi/2 for an axis of %s Mpc (closed form; 1e-8, the Gauss-Legendre error on the lobes)',
+    (l) => {
+      const r = sincSquaredRule(l);
+      let s = 0;
+      for (const w of r.w) s += w;
+      expect(Math.abs(s - Math.PI / 2)).toBeLessThan(1e-8);
+    },
+  );
 });
 
 describe('box sigma: closed forms', () => {
   it('white noise P = P0 gives sigma^2 = P0 / V exactly (closed form; fast 1e-8; reference 2e-4, its averaged tail beyond 6 pi leaves ~1/(2 pi (6 pi)^3) per axis)', () => {
     const p = syntheticPower(() => 2500);
-    for (const sides of [[100, 100, 100], [5, 5, 1000], [700, 300, 8]] as [number, number, number][]) {
+    for (const sides of [
+      [100, 100, 100],
+      [5, 5, 1000],
+      [700, 300, 8],
+    ] as [number, number, number][]) {
       const v = sides[0] * sides[1] * sides[2];
       expect(relErr(boxSigma(p, 0, sides) ** 2, 2500 / v)).toBeLessThan(1e-8);
     }
-    expect(relErr(boxSigmaReference(p, 0, [5, 5, 1000], { lobes: 6, relTol: 1e-6 }) ** 2, 2500 / 25000)).toBeLessThan(2e-4);
+    expect(relErr(boxSigmaReference(p, 0, [5, 5, 1000], { lobes: 6, relTol: 1e-6 }) ** 2, 2500 / 25000)).toBeLessThan(
+      2e-4,
+    );
   });
 
   it('a Gaussian spectrum factorises: sigma^2 = A Π F(L_i), F(L) = (2/L^2)[L erf(L/2s)/2 - (s/√π)(1 - e^{-L^2/4s^2})] (closed form; 1e-3)', () => {
@@ -46,7 +61,13 @@ describe('box sigma: closed forms', () => {
     const erf = (x: number): number => gammainc(x * x, 0.5);
     const F = (l: number): number =>
       (2 / (l * l)) * ((l * erf(l / (2 * s))) / 2 - (s / Math.sqrt(Math.PI)) * (1 - Math.exp(-(l * l) / (4 * s * s))));
-    for (const sides of [[100, 100, 100], [5, 5, 1000], [2, 3, 3000], [800, 800, 10], [30, 40, 50]] as [number, number, number][]) {
+    for (const sides of [
+      [100, 100, 100],
+      [5, 5, 1000],
+      [2, 3, 3000],
+      [800, 800, 10],
+      [30, 40, 50],
+    ] as [number, number, number][]) {
       const exact = A * F(sides[0]) * F(sides[1]) * F(sides[2]);
       expect(relErr(boxSigma(p, 0, sides) ** 2, exact), sides.join('x')).toBeLessThan(1e-3);
     }
@@ -71,7 +92,9 @@ describe('box sigma: fast rule against the brute-force nested adaptive reference
   it('the full (oscillating) form agrees too for an elongated box (reference at 4 lobes, 1e-4)', () => {
     const full = createLinearPower(planck2018, { form: 'full' });
     const sides: [number, number, number] = [20, 30, 400];
-    expect(relErr(boxSigma(full, 0.5, sides), boxSigmaReference(full, 0.5, sides, { lobes: 4, relTol: 1e-4 }))).toBeLessThan(1e-3);
+    expect(
+      relErr(boxSigma(full, 0.5, sides), boxSigmaReference(full, 0.5, sides, { lobes: 4, relTol: 1e-4 })),
+    ).toBeLessThan(1e-3);
   });
 });
 
@@ -98,7 +121,9 @@ describe('box sigma: physical behaviour', () => {
 
   it('very large boxes have small sigma (4 Gpc cube: sigma < 1e-3) and sigma scales with D(z)', () => {
     expect(boxSigma(power, 0, [4000, 4000, 4000])).toBeLessThan(1e-3);
-    expect(relErr(boxSigma(power, 2, [50, 60, 70]) / boxSigma(power, 0, [50, 60, 70]), power.growth(2))).toBeLessThan(1e-12);
+    expect(relErr(boxSigma(power, 2, [50, 60, 70]) / boxSigma(power, 0, [50, 60, 70]), power.growth(2))).toBeLessThan(
+      1e-12,
+    );
   });
 
   it('sigma does not depend on the order of the sides', () => {
@@ -109,7 +134,11 @@ describe('box sigma: physical behaviour', () => {
   it('fast-check: sigma decreases when any one side grows', () => {
     fc.assert(
       fc.property(
-        fc.tuple(fc.double({ min: 1, max: 3000, noNaN: true }), fc.double({ min: 1, max: 3000, noNaN: true }), fc.double({ min: 1, max: 3000, noNaN: true })),
+        fc.tuple(
+          fc.double({ min: 1, max: 3000, noNaN: true }),
+          fc.double({ min: 1, max: 3000, noNaN: true }),
+          fc.double({ min: 1, max: 3000, noNaN: true }),
+        ),
         fc.integer({ min: 0, max: 2 }),
         fc.double({ min: 1.05, max: 4, noNaN: true }),
         (sides, axis, factor) => {

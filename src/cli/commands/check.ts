@@ -30,7 +30,12 @@ export const checkCommand: CommandDef = {
     outputs.setMain(
       renderText(opts, {
         json: () => ({ ...view, warnings }),
-        table: () => `${printable(file)}: valid survey file\n` + Object.entries(flat).map(([k, v]) => `  ${k} = ${v}`).join('\n') + '\n',
+        table: () =>
+          `${printable(file)}: valid survey file\n` +
+          Object.entries(flat)
+            .map(([k, v]) => `  ${k} = ${v}`)
+            .join('\n') +
+          '\n',
         csv: () => csvText(['key', 'value'], Object.entries(flat)),
       }),
     );

@@ -8,7 +8,11 @@ import { inputError } from '../../errors.js';
  * The ranges `clustering` tabulates (common practice; every value inside gives finite results):
  * redshifts 0 to 100, radii 0.001 to 10,000 Mpc, halo masses 1e3 to 1e18 Msun.
  */
-export const CLUSTERING_RANGES = { z: { min: 0, max: 100 }, radiusMpc: { min: 1e-3, max: 1e4 }, massMsun: { min: 1e3, max: 1e18 } } as const;
+export const CLUSTERING_RANGES = {
+  z: { min: 0, max: 100 },
+  radiusMpc: { min: 1e-3, max: 1e4 },
+  massMsun: { min: 1e3, max: 1e18 },
+} as const;
 
 export const clusteringCommand: CommandDef = {
   name: 'clustering',
@@ -33,10 +37,25 @@ export const clusteringCommand: CommandDef = {
     const masses = parseKeyedList(String(opts.massMsun), '--mass-msun', CLUSTERING_RANGES.massMsun);
     const transfer = opts.transfer as unknown;
     if (transfer !== 'no_wiggle' && transfer !== 'full') {
-      throw inputError('bad_option', '', '--transfer', `unknown form "${optionText(transfer)}"`, 'use no_wiggle or full');
+      throw inputError(
+        'bad_option',
+        '',
+        '--transfer',
+        `unknown form "${optionText(transfer)}"`,
+        'use no_wiggle or full',
+      );
     }
-    if (typeof opts.survey === 'string' && (opts.omegaB !== undefined || opts.sigma8 !== undefined || opts.nS !== undefined)) {
-      throw inputError('conflict', '', '--survey', 'cannot be combined with cosmology flags', 'give either --survey or the flags');
+    if (
+      typeof opts.survey === 'string' &&
+      (opts.omegaB !== undefined || opts.sigma8 !== undefined || opts.nS !== undefined)
+    ) {
+      throw inputError(
+        'conflict',
+        '',
+        '--survey',
+        'cannot be combined with cosmology flags',
+        'give either --survey or the flags',
+      );
     }
     const outputs = new Outputs(io, { out: out.out });
     if (typeof opts.survey === 'string') outputs.refuseInputs([opts.survey]);
@@ -44,7 +63,9 @@ export const clusteringCommand: CommandDef = {
     const { clusteringTable } = await import('../../uncertainty/table.js');
     const result = clusteringTable(cosmology, zs, radii, masses, transfer);
     const { clusteringText, clusteringCsv } = await import('../../render/clustering-table.js');
-    outputs.setMain(renderText(out, { json: () => result, table: () => clusteringText(result), csv: () => clusteringCsv(result) }));
+    outputs.setMain(
+      renderText(out, { json: () => result, table: () => clusteringText(result), csv: () => clusteringCsv(result) }),
+    );
     outputs.commit();
     return 0;
   },

@@ -48,7 +48,11 @@ export function decimalNumber(text: string): number | undefined {
 }
 
 /** Parse "0.5,1,2" into numbers; every item must be a decimal number in [min, max]. */
-export function parseNumberList(text: string, option: string, { min = -Infinity, max = Infinity }: { min?: number; max?: number } = {}): number[] {
+export function parseNumberList(
+  text: string,
+  option: string,
+  { min = -Infinity, max = Infinity }: { min?: number; max?: number } = {},
+): number[] {
   return parseKeyedList(text, option, { min, max }).map((x) => x.value);
 }
 
@@ -56,18 +60,48 @@ export function parseNumberList(text: string, option: string, { min = -Infinity,
 export function parseKeyedList(
   text: string,
   option: string,
-  { min = -Infinity, max = Infinity, exclusiveMin = false }: { min?: number; max?: number; exclusiveMin?: boolean } = {},
+  {
+    min = -Infinity,
+    max = Infinity,
+    exclusiveMin = false,
+  }: { min?: number; max?: number; exclusiveMin?: boolean } = {},
 ): { key: string; value: number }[] {
   const items = text.split(',').map((s) => s.trim());
   if (items.length === 1 && items[0] === '') {
-    throw inputError('bad_option', '', option, 'needs at least one number', `give a comma-separated list such as ${option} 0.5,1,2`);
+    throw inputError(
+      'bad_option',
+      '',
+      option,
+      'needs at least one number',
+      `give a comma-separated list such as ${option} 0.5,1,2`,
+    );
   }
-  if (items.length > MAX_LIST_ITEMS) throw inputError('bad_option', '', option, `lists ${items.length} values, more than ${MAX_LIST_ITEMS}`, 'give fewer values');
+  if (items.length > MAX_LIST_ITEMS)
+    throw inputError(
+      'bad_option',
+      '',
+      option,
+      `lists ${items.length} values, more than ${MAX_LIST_ITEMS}`,
+      'give fewer values',
+    );
   return items.map((key) => {
     const value = decimalNumber(key);
-    if (value === undefined) throw inputError('bad_option', '', option, `"${excerpt(key)}" is not a decimal number`, 'give a comma-separated list of numbers such as 0.5,1,2');
+    if (value === undefined)
+      throw inputError(
+        'bad_option',
+        '',
+        option,
+        `"${excerpt(key)}" is not a decimal number`,
+        'give a comma-separated list of numbers such as 0.5,1,2',
+      );
     if ((exclusiveMin ? value <= min : value < min) || value > max) {
-      throw inputError('bad_option', '', option, `${key} is outside the allowed range`, `give values ${exclusiveMin ? 'above' : 'from'} ${min}${Number.isFinite(max) ? ` ${exclusiveMin ? 'and at most' : 'to'} ${max}` : ''}`);
+      throw inputError(
+        'bad_option',
+        '',
+        option,
+        `${key} is outside the allowed range`,
+        `give values ${exclusiveMin ? 'above' : 'from'} ${min}${Number.isFinite(max) ? ` ${exclusiveMin ? 'and at most' : 'to'} ${max}` : ''}`,
+      );
     }
     return { key, value };
   });
@@ -76,7 +110,11 @@ export function parseKeyedList(
 /** Most values one list option may hold (e.g. --z). */
 export const MAX_LIST_ITEMS = 1000;
 
-export function parseNumber(text: string, option: string, { min = -Infinity, max = Infinity, exclusiveMin = false } = {}): number {
+export function parseNumber(
+  text: string,
+  option: string,
+  { min = -Infinity, max = Infinity, exclusiveMin = false } = {},
+): number {
   const v = decimalNumber(text);
   if (v === undefined || (exclusiveMin ? v <= min : v < min) || v > max) {
     throw inputError(
@@ -94,7 +132,13 @@ export function parseNumber(text: string, option: string, { min = -Infinity, max
 export function parseInteger(text: string, option: string, min: number, max: number): number {
   const v = decimalNumber(text);
   if (v === undefined || !Number.isInteger(v) || v < min || v > max) {
-    throw inputError('bad_option', '', option, `"${excerpt(text)}" is not a whole number from ${min} to ${max}`, `give ${option} a whole number in that range`);
+    throw inputError(
+      'bad_option',
+      '',
+      option,
+      `"${excerpt(text)}" is not a whole number from ${min} to ${max}`,
+      `give ${option} a whole number in that range`,
+    );
   }
   return v;
 }

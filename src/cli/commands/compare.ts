@@ -8,7 +8,8 @@ export const MAX_COMPARE_FILES = 20;
 
 export const compareCommand: CommandDef = {
   name: 'compare',
-  description: 'survey files side by side: area, window, limit, counts, uncertainties, Fisher sigmas and time, the best of each row marked',
+  description:
+    'survey files side by side: area, window, limit, counts, uncertainties, Fisher sigmas and time, the best of each row marked',
   configure(cmd) {
     cmd.argument('[surveys...]', 'two or more survey files (YAML)');
     cmd.option('--population <name>', 'the population to compare in every file (default: the first of each)');
@@ -24,12 +25,22 @@ export const compareCommand: CommandDef = {
         'bad_option',
         '',
         'compare',
-        files.length === 0 ? 'needs survey files to compare, and none was given' : `needs at least two survey files to compare, and only ${files[0]} was given`,
-        files.length === 0 ? 'give two or more survey files' : `use skytally predict ${files[0]} for one survey, or give another file`,
+        files.length === 0
+          ? 'needs survey files to compare, and none was given'
+          : `needs at least two survey files to compare, and only ${files[0]} was given`,
+        files.length === 0
+          ? 'give two or more survey files'
+          : `use skytally predict ${files[0]} for one survey, or give another file`,
       );
     }
     if (files.length > MAX_COMPARE_FILES) {
-      throw inputError('bad_option', '', 'compare', `was given ${files.length} survey files, more than the ${MAX_COMPARE_FILES} one table can hold`, 'compare fewer files at a time');
+      throw inputError(
+        'bad_option',
+        '',
+        'compare',
+        `was given ${files.length} survey files, more than the ${MAX_COMPARE_FILES} one table can hold`,
+        'compare fewer files at a time',
+      );
     }
     const outputs = new Outputs(io, { out: out.out });
     outputs.refuseInputs(files);
@@ -46,7 +57,9 @@ export const compareCommand: CommandDef = {
     });
     printWarnings(io, result.warnings);
     const { compareTable, compareCsv } = await import('../../render/compare-table.js');
-    outputs.setMain(renderText(out, { json: () => result, table: () => compareTable(result), csv: () => compareCsv(result) }));
+    outputs.setMain(
+      renderText(out, { json: () => result, table: () => compareTable(result), csv: () => compareCsv(result) }),
+    );
     outputs.commit();
     return 0;
   },

@@ -5,7 +5,12 @@ import type { InputFile } from '../../model/survey.js';
 import type { CliIO } from '../io.js';
 import { decimalNumber, loadSurveyArg, optionText } from './common.js';
 import { excerpt, inputError } from '../../errors.js';
-import { COSMOLOGY_KEYS, resolveBackground, resolveCosmology, type CosmologyInput } from '../../cosmology/parameters.js';
+import {
+  COSMOLOGY_KEYS,
+  resolveBackground,
+  resolveCosmology,
+  type CosmologyInput,
+} from '../../cosmology/parameters.js';
 
 export function addCosmologyOptions(cmd: Command): void {
   cmd
@@ -33,7 +38,13 @@ async function cosmologyInput(
   const given = [...flags, 'preset'].filter((k) => opts[k] !== undefined);
   if (typeof opts.survey === 'string') {
     if (given.length > 0) {
-      throw inputError('conflict', '', '--survey', 'cannot be combined with cosmology flags', 'give either --survey or the flags');
+      throw inputError(
+        'conflict',
+        '',
+        '--survey',
+        'cannot be combined with cosmology flags',
+        'give either --survey or the flags',
+      );
     }
     const survey = await loadSurveyArg(io, opts.survey);
     // every file the survey read (its filter tables too) is an input no output may replace
@@ -47,7 +58,14 @@ async function cosmologyInput(
     const text = optionText(opts[k]);
     const v = decimalNumber(text);
     const flag = COSMOLOGY_KEYS[k].flag;
-    if (v === undefined) throw inputError('bad_option', '', flag, `"${excerpt(text)}" is not a decimal number`, `give ${flag} a number such as ${k === 'h0' ? 70 : k === 'tCmb' ? 2.7255 : 0.3}`);
+    if (v === undefined)
+      throw inputError(
+        'bad_option',
+        '',
+        flag,
+        `"${excerpt(text)}" is not a decimal number`,
+        `give ${flag} a number such as ${k === 'h0' ? 70 : k === 'tCmb' ? 2.7255 : 0.3}`,
+      );
     input[k] = v;
   }
   if (input.preset === undefined) {

@@ -24,7 +24,9 @@ export const distancesCommand: CommandDef = {
     const { distanceTable } = await import('../../cosmology/table.js');
     const result = distanceTable(cosmology, zs);
     const { distancesText, distancesCsv } = await import('../../render/distances-table.js');
-    outputs.setMain(renderText(out, { json: () => result, table: () => distancesText(result), csv: () => distancesCsv(result) }));
+    outputs.setMain(
+      renderText(out, { json: () => result, table: () => distancesText(result), csv: () => distancesCsv(result) }),
+    );
     outputs.commit();
     return 0;
   },

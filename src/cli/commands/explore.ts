@@ -6,7 +6,8 @@ import { Outputs } from '../io.js';
 
 export const exploreCommand: CommandDef = {
   name: 'explore',
-  description: 'one self-contained HTML page that recomputes the prediction and the Fisher sigmas as you move the area, the limit, the window and the model',
+  description:
+    'one self-contained HTML page that recomputes the prediction and the Fisher sigmas as you move the area, the limit, the window and the model',
   configure(cmd) {
     cmd.argument('<survey>', 'survey file (YAML)');
     cmd.option('--out <file>', 'write the page to this file (atomically; - for standard output) instead of stdout');

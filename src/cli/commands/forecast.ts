@@ -1,24 +1,46 @@
 import { availableParallelism } from 'node:os';
 import { Option } from 'commander';
 import type { CommandDef } from './types.js';
-import { addOutputOptions, decimalNumber, loadSurveyArg, optionText, outputOptions, parseInteger, printWarnings } from './common.js';
+import {
+  addOutputOptions,
+  decimalNumber,
+  loadSurveyArg,
+  optionText,
+  outputOptions,
+  parseInteger,
+  printWarnings,
+} from './common.js';
 import { Outputs, renderText, type CliIO } from '../io.js';
 import { inputError } from '../../errors.js';
 
 export const forecastCommand: CommandDef = {
   name: 'forecast',
-  description: 'how well the survey measures phi*, L* (or M*) and alpha: Fisher matrix, mock surveys, area or depth for a target',
+  description:
+    'how well the survey measures phi*, L* (or M*) and alpha: Fisher matrix, mock surveys, area or depth for a target',
   configure(cmd) {
     cmd.argument('<survey>', 'survey file (YAML)');
     cmd.option('--mocks <N>', 'also draw N mock surveys and fit each by maximum likelihood');
     cmd.option('--seed <S>', 'seed of the mock surveys (integer 0 to 4294967295; default 1)');
-    cmd.option('--target <list>', 'target sigmas, e.g. alpha=0.1 or alpha=0.1,log10_l_star=0.05: report the area and the limit that reach them');
+    cmd.option(
+      '--target <list>',
+      'target sigmas, e.g. alpha=0.1 or alpha=0.1,log10_l_star=0.05: report the area and the limit that reach them',
+    );
     cmd.option('--no-cosmic-variance', 'leave out the cosmic-variance normalisation of each slice (Poisson only)');
     cmd.option('--workers <K>', 'worker threads for the mocks (default 1)');
     cmd.option('--population <name>', 'the population to forecast (default: the first)');
-    cmd.option('--list-mock-fits', 'with --mocks: list the fitted parameters of every converged mock survey in the JSON (mocks.fits)');
-    cmd.option('--figures <dir>', 'also draw the forecast figure as DIR/forecast.svg (and .png when the rasteriser loads)');
-    cmd.addOption(new Option('--estimator <name>', 'mock fits: ml (extended likelihood) or sty (shape only; no phi*)').choices(['ml', 'sty']).default('ml'));
+    cmd.option(
+      '--list-mock-fits',
+      'with --mocks: list the fitted parameters of every converged mock survey in the JSON (mocks.fits)',
+    );
+    cmd.option(
+      '--figures <dir>',
+      'also draw the forecast figure as DIR/forecast.svg (and .png when the rasteriser loads)',
+    );
+    cmd.addOption(
+      new Option('--estimator <name>', 'mock fits: ml (extended likelihood) or sty (shape only; no phi*)')
+        .choices(['ml', 'sty'])
+        .default('ml'),
+    );
     addOutputOptions(cmd);
   },
   async action(cmd, args, io) {
@@ -28,7 +50,10 @@ export const forecastCommand: CommandDef = {
     const { mocks, seed } = mockOptions(raw);
     const maxWorkers = availableParallelism();
     const workers = raw.workers === undefined ? 1 : parseInteger(String(raw.workers), '--workers', 1, maxWorkers);
-    const outputs = new Outputs(io, { out: out.out, figures: typeof raw.figures === 'string' ? raw.figures : undefined });
+    const outputs = new Outputs(io, {
+      out: out.out,
+      figures: typeof raw.figures === 'string' ? raw.figures : undefined,
+    });
     outputs.refuseInputs([file]);
     const draw = typeof raw.figures === 'string' ? await import('../figures.js') : undefined;
     const keepFits = raw.listMockFits === true;
@@ -55,7 +80,9 @@ export const forecastCommand: CommandDef = {
     printWarnings(io, result.warnings);
     const shown = keepFits || !result.mocks?.fits ? result : { ...result, mocks: withoutFits(result.mocks) };
     const { forecastTable, forecastCsv } = await import('../../render/forecast-table.js');
-    outputs.setMain(renderText(out, { json: () => shown, table: () => forecastTable(shown), csv: () => forecastCsv(shown) }));
+    outputs.setMain(
+      renderText(out, { json: () => shown, table: () => forecastTable(shown), csv: () => forecastCsv(shown) }),
+    );
     if (draw) {
       const { forecastFigure } = await import('../../render/figures.js');
       const fig = await forecastFigure(result, survey.title);
@@ -89,17 +116,49 @@ export function mockOptions(raw: { mocks?: unknown; seed?: unknown }): { mocks: 
 /** "alpha=0.1,log10_l_star=0.05" -> {alpha: 0.1, log10_l_star: 0.05}; names must be the population's parameters. */
 export function parseTargets(text: string, names: readonly string[]): Record<string, number> {
   const out: Record<string, number> = {};
-  const items = text.split(',').map((s) => s.trim()).filter((s) => s.length > 0);
-  if (items.length === 0) throw inputError('bad_option', '', '--target', 'is empty', `give name=sigma pairs such as --target alpha=0.1 (names: ${names.join(', ')})`);
+  const items = text
+    .split(',')
+    .map((s) => s.trim())
+    .filter((s) => s.length > 0);
+  if (items.length === 0)
+    throw inputError(
+      'bad_option',
+      '',
+      '--target',
+      'is empty',
+      `give name=sigma pairs such as --target alpha=0.1 (names: ${names.join(', ')})`,
+    );
   for (const item of items) {
     const eq = item.indexOf('=');
     const name = eq < 0 ? item : item.slice(0, eq).trim();
-    if (eq < 0) throw inputError('bad_option', '', '--target', `"${item}" is not of the form name=sigma`, `write it as ${names.includes(name) ? name : 'alpha'}=0.1`);
-    if (!names.includes(name)) throw inputError('bad_option', '', '--target', `"${name}" is not a parameter of this population`, `use one of ${names.join(', ')}`);
+    if (eq < 0)
+      throw inputError(
+        'bad_option',
+        '',
+        '--target',
+        `"${item}" is not of the form name=sigma`,
+        `write it as ${names.includes(name) ? name : 'alpha'}=0.1`,
+      );
+    if (!names.includes(name))
+      throw inputError(
+        'bad_option',
+        '',
+        '--target',
+        `"${name}" is not a parameter of this population`,
+        `use one of ${names.join(', ')}`,
+      );
     const vText = item.slice(eq + 1).trim();
     const v = decimalNumber(vText) ?? NaN;
-    if (!(v > 0)) throw inputError('bad_option', '', '--target', `the target sigma of ${name} must be a positive number, not "${vText}"`, `give e.g. ${name}=0.1`);
-    if (name in out) throw inputError('bad_option', '', '--target', `${name} is given twice`, 'give each parameter once');
+    if (!(v > 0))
+      throw inputError(
+        'bad_option',
+        '',
+        '--target',
+        `the target sigma of ${name} must be a positive number, not "${vText}"`,
+        `give e.g. ${name}=0.1`,
+      );
+    if (name in out)
+      throw inputError('bad_option', '', '--target', `${name} is given twice`, 'give each parameter once');
     out[name] = v;
   }
   return out;
@@ -113,6 +172,8 @@ export function mockProgressBar(io: CliIO): (done: number, total: number) => voi
     const filled = Math.round((width * done) / total);
     if (filled === last && done < total) return;
     last = filled;
-    io.stderr(`\rmock surveys [${'#'.repeat(filled)}${'.'.repeat(width - filled)}] ${done}/${total}${done >= total ? '\n' : ''}`);
+    io.stderr(
+      `\rmock surveys [${'#'.repeat(filled)}${'.'.repeat(width - filled)}] ${done}/${total}${done >= total ? '\n' : ''}`,
+    );
   };
 }

@@ -5,12 +5,16 @@ import { Outputs, renderText, type CliIO } from '../io.js';
 
 export const planCommand: CommandDef = {
   name: 'plan',
-  description: 'spend a time budget: the split of exposure per pointing against area (and tiers) that best serves a goal',
+  description:
+    'spend a time budget: the split of exposure per pointing against area (and tiers) that best serves a goal',
   configure(cmd) {
     cmd.argument('<plan>', 'plan file: a survey file with a plan section (YAML)');
     cmd.option('--population <name>', 'the population the goal is about (default: the first)');
     cmd.option('--no-cosmic-variance', 'leave cosmic variance out of the sigma goal (Poisson only)');
-    cmd.option('--workers <K>', 'worker threads for the depth tables (default: 1, or up to 4 when the tables are large; results are identical)');
+    cmd.option(
+      '--workers <K>',
+      'worker threads for the depth tables (default: 1, or up to 4 when the tables are large; results are identical)',
+    );
     cmd.option('--figures <dir>', 'also draw the plan figure as DIR/plan.svg (and .png when the rasteriser loads)');
     addOutputOptions(cmd);
   },
@@ -18,8 +22,12 @@ export const planCommand: CommandDef = {
     const file = args[0] as string;
     const raw = cmd.opts();
     const out = outputOptions(raw);
-    const workers = raw.workers === undefined ? undefined : parseInteger(String(raw.workers), '--workers', 1, availableParallelism());
-    const outputs = new Outputs(io, { out: out.out, figures: typeof raw.figures === 'string' ? raw.figures : undefined });
+    const workers =
+      raw.workers === undefined ? undefined : parseInteger(String(raw.workers), '--workers', 1, availableParallelism());
+    const outputs = new Outputs(io, {
+      out: out.out,
+      figures: typeof raw.figures === 'string' ? raw.figures : undefined,
+    });
     outputs.refuseInputs([file]);
     const draw = typeof raw.figures === 'string' ? await import('../figures.js') : undefined;
     const survey = await loadSurveyArg(io, file);
@@ -33,7 +41,9 @@ export const planCommand: CommandDef = {
     });
     printWarnings(io, result.warnings);
     const { planTable, planCsv } = await import('../../render/plan-table.js');
-    outputs.setMain(renderText(out, { json: () => result, table: () => planTable(result), csv: () => planCsv(result) }));
+    outputs.setMain(
+      renderText(out, { json: () => result, table: () => planTable(result), csv: () => planCsv(result) }),
+    );
     if (draw) {
       const { planFigure } = await import('../../render/figures.js');
       const fig = await planFigure(result, survey.title);

@@ -10,7 +10,10 @@ export const predictCommand: CommandDef = {
     cmd.argument('<survey>', 'survey file (YAML)');
     addOutputOptions(cmd);
     cmd.option('--figures <dir>', 'also write each figure as DIR/<name>.svg (and .png when the rasteriser loads)');
-    cmd.option('--draws <N>', `draws of the populations' model_uncertainty (1 to ${MAX_MODEL_DRAWS}; default ${DEFAULT_MODEL_DRAWS})`);
+    cmd.option(
+      '--draws <N>',
+      `draws of the populations' model_uncertainty (1 to ${MAX_MODEL_DRAWS}; default ${DEFAULT_MODEL_DRAWS})`,
+    );
     cmd.option('--seed <S>', 'seed of those draws (integer 0 to 4294967295; default 1)');
   },
   async action(cmd, args, io) {
@@ -18,10 +21,16 @@ export const predictCommand: CommandDef = {
     const raw = cmd.opts();
     const opts = outputOptions(raw);
     const model = modelDrawOptions(raw);
-    const outputs = new Outputs(io, { out: opts.out, figures: typeof raw.figures === 'string' ? raw.figures : undefined });
+    const outputs = new Outputs(io, {
+      out: opts.out,
+      figures: typeof raw.figures === 'string' ? raw.figures : undefined,
+    });
     outputs.refuseInputs([file]);
     // Only a command asked to draw loads the figure layer (and, through it, vega).
-    const draw = typeof raw.figures === 'string' ? { ...(await import('../figures.js')), ...(await import('../../render/draw.js')) } : undefined;
+    const draw =
+      typeof raw.figures === 'string'
+        ? { ...(await import('../figures.js')), ...(await import('../../render/draw.js')) }
+        : undefined;
     const survey = await loadSurveyArg(io, file);
     outputs.refuseInputs(survey.inputs ?? []);
     const { predict } = await import('../../counts/predict.js');
@@ -37,7 +46,9 @@ export const predictCommand: CommandDef = {
 
 /** --draws N (1 to MAX_MODEL_DRAWS; default 1000) and --seed S (0 to 4294967295; default 1) of the model's draws. */
 export function modelDrawOptions(raw: { draws?: unknown; seed?: unknown }): { draws: number; seed: number } {
-  const draws = raw.draws === undefined ? DEFAULT_MODEL_DRAWS : parseInteger(optionText(raw.draws), '--draws', 1, MAX_MODEL_DRAWS);
-  const seed = raw.seed === undefined ? DEFAULT_MODEL_SEED : parseInteger(optionText(raw.seed), '--seed', 0, 4294967295);
+  const draws =
+    raw.draws === undefined ? DEFAULT_MODEL_DRAWS : parseInteger(optionText(raw.draws), '--draws', 1, MAX_MODEL_DRAWS);
+  const seed =
+    raw.seed === undefined ? DEFAULT_MODEL_SEED : parseInteger(optionText(raw.seed), '--seed', 0, 4294967295);
   return { draws, seed };
 }

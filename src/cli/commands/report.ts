@@ -24,17 +24,24 @@ export interface ReportOptions {
 
 export const reportCommand: CommandDef = {
   name: 'report',
-  description: 'one self-contained HTML report: the survey, the assumed model, the tables and the figures (or, with --format json, the results of every section)',
+  description:
+    'one self-contained HTML report: the survey, the assumed model, the tables and the figures (or, with --format json, the results of every section)',
   configure(cmd) {
     cmd.argument('<survey>', 'survey file (YAML)');
     cmd.addOption(
-      new Option('--format <format>', 'html: the report document; json: the prediction, forecast and plan results in one document (specs/report.schema.json)')
+      new Option(
+        '--format <format>',
+        'html: the report document; json: the prediction, forecast and plan results in one document (specs/report.schema.json)',
+      )
         .choices([...REPORT_FORMATS])
         .default('html'),
     );
     cmd.option('--out <file>', 'write the report to this file (atomically; - for standard output) instead of stdout');
     cmd.option('--figures <dir>', 'also write each figure as DIR/<name>.svg (and .png when the rasteriser loads)');
-    cmd.option('--mocks <N>', 'also draw N mock surveys for the forecast, fit each and scatter the fits over the Fisher ellipses');
+    cmd.option(
+      '--mocks <N>',
+      'also draw N mock surveys for the forecast, fit each and scatter the fits over the Fisher ellipses',
+    );
     cmd.option('--seed <S>', 'seed of the mock surveys (integer 0 to 4294967295; default 1)');
   },
   async action(cmd, args, io) {
@@ -51,7 +58,12 @@ export async function commandSections(opts: ReportOptions, io: CliIO): Promise<R
   return reportSections({ mocks, seed, ...(io.stderrIsTTY ? { onProgress: mockProgressBar(io) } : {}) });
 }
 
-export async function runReport(io: CliIO, file: string, opts: ReportOptions, sections?: ReportSections): Promise<number> {
+export async function runReport(
+  io: CliIO,
+  file: string,
+  opts: ReportOptions,
+  sections?: ReportSections,
+): Promise<number> {
   const input = resolve(io.cwd, file);
   const { computeReport, reportFigures, reportHtml, reportJson } = await import('../../library/report.js');
   const outputs = new Outputs(io, { out: opts.out, figures: opts.figures });

@@ -86,7 +86,11 @@ function start(): void {
         pending = false;
         const t0 = performance.now();
         text = undefined;
-        const r = await exploreCompute({ text: '', object: settingsObject(raw, data.controls, values) }, data.file, data.baseDir);
+        const r = await exploreCompute(
+          { text: '', object: settingsObject(raw, data.controls, values) },
+          data.file,
+          data.baseDir,
+        );
         byId('outputs').innerHTML = outputsHtml(r);
         byId('warnings').innerHTML = warningsHtml(r);
         byId('slices').innerHTML = slicesHtml(r);
@@ -106,8 +110,10 @@ function start(): void {
     }
   }
 
-  const fieldOf = (key: string) => document.querySelector(`input[data-key="${CSS.escape(key)}"]`) as InputElement | null;
-  const sliderOf = (key: string) => document.querySelector(`input[data-slider-for="${CSS.escape(key)}"]`) as InputElement | null;
+  const fieldOf = (key: string) =>
+    document.querySelector(`input[data-key="${CSS.escape(key)}"]`) as InputElement | null;
+  const sliderOf = (key: string) =>
+    document.querySelector(`input[data-slider-for="${CSS.escape(key)}"]`) as InputElement | null;
   /** Shows `v` in a control's field and slider (without firing anything). */
   const show = (c: ControlSpec, v: number, field = fieldOf(c.key), slider = sliderOf(c.key)): void => {
     if (field) field.value = String(v);

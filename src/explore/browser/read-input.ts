@@ -31,7 +31,13 @@ export const embeddedFiles = new Map<string, string>();
 export function readInputText(path: string, opts: ReadInputOptions): InputText {
   const text = embeddedFiles.get(path);
   if (text === undefined) {
-    throw inputError('file_unreadable', opts.file, opts.keyPath, `${opts.subject} is not in this page (the page holds only the files the survey named when it was made)`, 'write the survey file and run skytally explore on it again');
+    throw inputError(
+      'file_unreadable',
+      opts.file,
+      opts.keyPath,
+      `${opts.subject} is not in this page (the page holds only the files the survey named when it was made)`,
+      'write the survey file and run skytally explore on it again',
+    );
   }
   return { path, text, dev: 0, ino: 0 };
 }

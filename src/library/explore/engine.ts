@@ -14,7 +14,13 @@ import { forecast } from '../../forecast/forecast.js';
 import { cosmicVarianceInputWith } from '../../forecast/cosmic-variance-input.js';
 import { UncertaintyMemo } from '../../uncertainty/prediction.js';
 import { luminosityFunctionCurve } from '../../population/curves.js';
-import type { CountsFigureData, ExploreOutput, ExploreResult, ExploreSliceRow, LfFigureData } from '../../model/explore.js';
+import type {
+  CountsFigureData,
+  ExploreOutput,
+  ExploreResult,
+  ExploreSliceRow,
+  LfFigureData,
+} from '../../model/explore.js';
 
 export type { CountsFigureData, ExploreOutput, ExploreResult, ExploreSliceRow, LfFigureData };
 
@@ -46,8 +52,17 @@ function lfData(survey: Survey, prediction: Prediction, k: number): LfFigureData
     const c = luminosityFunctionCurve(p, z, s.limit_at_center);
     return { z, x: c.x, phi: c.phi, limit: c.limit };
   });
-  const first = luminosityFunctionCurve(p, 0.5 * (pp.slices[0]!.z_min + pp.slices[0]!.z_max), pp.slices[0]!.limit_at_center);
-  return { title: survey.populations.length > 1 ? pp.name : 'Luminosity function', xLabel: first.x_label, magnitude: p.variable === 'magnitude', curves };
+  const first = luminosityFunctionCurve(
+    p,
+    0.5 * (pp.slices[0]!.z_min + pp.slices[0]!.z_max),
+    pp.slices[0]!.limit_at_center,
+  );
+  return {
+    title: survey.populations.length > 1 ? pp.name : 'Luminosity function',
+    xLabel: first.x_label,
+    magnitude: p.variable === 'magnitude',
+    curves,
+  };
 }
 
 /**
@@ -55,13 +70,29 @@ function lfData(survey: Survey, prediction: Prediction, k: number): LfFigureData
  * file) or its parsed form (`source.object`, as settingsObject makes it: the page's updates skip
  * writing and reading YAML). `text` is kept in the result as the text the numbers are of.
  */
-export async function exploreCompute(source: { text: string; object?: unknown }, file: string, baseDir: string): Promise<ExploreResult> {
+export async function exploreCompute(
+  source: { text: string; object?: unknown },
+  file: string,
+  baseDir: string,
+): Promise<ExploreResult> {
   const text = source.text;
   let survey: Survey;
   try {
-    survey = source.object !== undefined ? parseSurveyObject(source.object, file, baseDir) : loadSurveyText(text, file, baseDir);
+    survey =
+      source.object !== undefined
+        ? parseSurveyObject(source.object, file, baseDir)
+        : loadSurveyText(text, file, baseDir);
   } catch (e) {
-    return { text, error: e instanceof Error ? e.message : String(e), title: '', outputs: [], rows: [], counts: [], lf: [], warnings: [] };
+    return {
+      text,
+      error: e instanceof Error ? e.message : String(e),
+      title: '',
+      outputs: [],
+      rows: [],
+      counts: [],
+      lf: [],
+      warnings: [],
+    };
   }
   const memo = new UncertaintyMemo(survey);
   const prediction = predict(survey, { uncertaintyMemo: memo });
@@ -71,27 +102,59 @@ export async function exploreCompute(source: { text: string; object?: unknown },
     { name: 'total-per-deg2', label: 'Per deg^2', value: t.per_deg2, kind: 'plain' },
   ];
   if (t.uncertainty) {
-    outputs.push({ name: 'total-poisson', label: 'Poisson (fraction)', value: t.uncertainty.poisson_fraction, kind: 'fraction' });
-    outputs.push({ name: 'total-cosmic-variance', label: 'Cosmic variance (fraction)', value: t.uncertainty.cosmic_variance_fraction, kind: 'fraction' });
-    outputs.push({ name: 'total-uncertainty', label: 'Both in quadrature (fraction)', value: t.uncertainty.total_fraction, kind: 'fraction' });
+    outputs.push({
+      name: 'total-poisson',
+      label: 'Poisson (fraction)',
+      value: t.uncertainty.poisson_fraction,
+      kind: 'fraction',
+    });
+    outputs.push({
+      name: 'total-cosmic-variance',
+      label: 'Cosmic variance (fraction)',
+      value: t.uncertainty.cosmic_variance_fraction,
+      kind: 'fraction',
+    });
+    outputs.push({
+      name: 'total-uncertainty',
+      label: 'Both in quadrature (fraction)',
+      value: t.uncertainty.total_fraction,
+      kind: 'fraction',
+    });
   }
   const m = modelFraction(t);
-  if (m !== undefined) outputs.push({ name: 'total-model', label: 'Model uncertainty (fraction)', value: m, kind: 'fraction' });
+  if (m !== undefined)
+    outputs.push({ name: 'total-model', label: 'Model uncertainty (fraction)', value: m, kind: 'fraction' });
   const rows =
     prediction.breakdown === 'redshift'
       ? prediction.slices.map((s) => row(s))
       : prediction.populations.flatMap((pp) => pp.slices.map((s) => row(s, pp.name)));
   const counts: CountsFigureData[] = (
-    prediction.breakdown === 'redshift' ? [{ title: 'Counts per slice', slices: prediction.slices }] : prediction.populations.map((pp) => ({ title: pp.name, slices: pp.slices }))
+    prediction.breakdown === 'redshift'
+      ? [{ title: 'Counts per slice', slices: prediction.slices }]
+      : prediction.populations.map((pp) => ({ title: pp.name, slices: pp.slices }))
   ).map((f) => ({
     title: f.title,
-    slices: f.slices.map((s) => ({ zMin: s.z_min, zMax: s.z_max, count: s.count, fraction: s.uncertainty?.total_fraction ?? 0 })),
+    slices: f.slices.map((s) => ({
+      zMin: s.z_min,
+      zMax: s.z_max,
+      count: s.count,
+      fraction: s.uncertainty?.total_fraction ?? 0,
+    })),
   }));
   const lf = survey.populations.map((_, k) => lfData(survey, prediction, k));
-  const result: ExploreResult = { text, title: prediction.title, outputs, rows, counts, lf, warnings: prediction.warnings.map((w) => w.message) };
+  const result: ExploreResult = {
+    text,
+    title: prediction.title,
+    outputs,
+    rows,
+    counts,
+    lf,
+    warnings: prediction.warnings.map((w) => w.message),
+  };
   const first = survey.populations[0]!;
   if (first.shape === 'double_schechter') {
-    result.fisherNote = 'The Fisher matrix varies one Schechter function: not available for a double Schechter population.';
+    result.fisherNote =
+      'The Fisher matrix varies one Schechter function: not available for a double Schechter population.';
   } else {
     try {
       const f = await forecast(survey, { cosmicVarianceSource: cosmicVarianceInputWith(memo) });
@@ -102,7 +165,9 @@ export async function exploreCompute(source: { text: string; object?: unknown },
         sigma: names.map((n) => f.fisher.sigma[n]!),
         sigmaPoisson: names.map((n) => f.fisher_poisson_only.sigma[n]!),
       };
-      names.forEach((n, i) => outputs.push({ name: `sigma-${n}`, label: `sigma(${n})`, value: result.fisher!.sigma[i]!, kind: 'plain' }));
+      names.forEach((n, i) =>
+        outputs.push({ name: `sigma-${n}`, label: `sigma(${n})`, value: result.fisher!.sigma[i]!, kind: 'plain' }),
+      );
     } catch (e) {
       result.fisherNote = e instanceof Error ? e.message : String(e);
     }

@@ -27,7 +27,9 @@ export const PAGE_BASE_DIR = '/survey';
 export function explorePageScript(): string {
   const given = process.env[EXPLORE_SCRIPT_VARIABLE];
   if (!given && import.meta.url.endsWith('.ts')) {
-    throw new Error(`the explore page needs its bundled script: build the package, or set ${EXPLORE_SCRIPT_VARIABLE} to a bundle made by scripts/explore-bundle.mjs`);
+    throw new Error(
+      `the explore page needs its bundled script: build the package, or set ${EXPLORE_SCRIPT_VARIABLE} to a bundle made by scripts/explore-bundle.mjs`,
+    );
   }
   const text = readFileSync(given || fileURLToPath(import.meta.resolve('#explore-page')), 'utf8');
   return text.replace(/\n\/\/# sourceMappingURL=\S+\s*$/, '\n');
@@ -37,7 +39,12 @@ export function explorePageScript(): string {
  * The page for a survey file already loaded: `path` as given, `text` the file as written,
  * `survey` what the loader made of it (its inputs name the files to embed).
  */
-export async function buildExplorePage(path: string, text: string, survey: Survey, script = explorePageScript()): Promise<string> {
+export async function buildExplorePage(
+  path: string,
+  text: string,
+  survey: Survey,
+  script = explorePageScript(),
+): Promise<string> {
   const file = basename(path);
   const dir = dirname(path);
   const files: Record<string, string> = {};

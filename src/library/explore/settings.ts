@@ -17,7 +17,8 @@ type Raw = Record<string, unknown>;
 
 const isRecord = (v: unknown): v is Raw => typeof v === 'object' && v !== null && !Array.isArray(v);
 /** A value the page may replace by a plain number: a number, or a quantity string such as "2.1 deg^2". */
-const isScalarValue = (v: unknown): boolean => typeof v === 'number' || (typeof v === 'string' && /^\s*[+-]?(\d|\.\d)/.test(v));
+const isScalarValue = (v: unknown): boolean =>
+  typeof v === 'number' || (typeof v === 'string' && /^\s*[+-]?(\d|\.\d)/.test(v));
 
 /** The key path as messages and data-key attributes write it. */
 export function keyPathText(path: readonly (string | number)[]): string {
@@ -31,25 +32,64 @@ function stepFor(value: number): number {
   return Number((10 ** (Math.floor(Math.log10(v)) - 2)).toPrecision(1));
 }
 
-function logControl(path: (string | number)[], label: string, unit: string, value: number, lo: number, hi: number): ControlSpec {
-  return { key: keyPathText(path), path, label, unit, value, min: Math.max(lo, value / 10), max: Math.min(hi, value * 10), step: stepFor(value), scale: 'log', range: 'default' };
+function logControl(
+  path: (string | number)[],
+  label: string,
+  unit: string,
+  value: number,
+  lo: number,
+  hi: number,
+): ControlSpec {
+  return {
+    key: keyPathText(path),
+    path,
+    label,
+    unit,
+    value,
+    min: Math.max(lo, value / 10),
+    max: Math.min(hi, value * 10),
+    step: stepFor(value),
+    scale: 'log',
+    range: 'default',
+  };
 }
 
-function linearControl(path: (string | number)[], label: string, unit: string, value: number, span: number, lo: number, hi: number, step = 0.01): ControlSpec {
-  return { key: keyPathText(path), path, label, unit, value, min: Math.max(lo, value - span), max: Math.min(hi, value + span), step, scale: 'linear', range: 'default' };
+function linearControl(
+  path: (string | number)[],
+  label: string,
+  unit: string,
+  value: number,
+  span: number,
+  lo: number,
+  hi: number,
+  step = 0.01,
+): ControlSpec {
+  return {
+    key: keyPathText(path),
+    path,
+    label,
+    unit,
+    value,
+    min: Math.max(lo, value - span),
+    max: Math.min(hi, value + span),
+    step,
+    scale: 'linear',
+    range: 'default',
+  };
 }
 
 /** Population parameters the page varies, with their unit, span and range (docs/survey-file.md, "Limits"). */
-const PARAMETERS: { key: string; label: string; unit: string; log?: boolean; span: number; lo: number; hi: number }[] = [
-  { key: 'log10_phi_star', label: 'log10 phi*', unit: 'log10 Mpc^-3', span: 1, lo: -30, hi: 3 },
-  { key: 'log10_phi_star_dex', label: 'log10 phi* (per dex)', unit: 'log10 Mpc^-3 dex^-1', span: 1, lo: -30, hi: 3 },
-  { key: 'phi_star', label: 'phi*', unit: 'Mpc^-3', log: true, span: 0, lo: 1e-30, hi: 1000 },
-  { key: 'phi_star_dex', label: 'phi* (per dex)', unit: 'Mpc^-3 dex^-1', log: true, span: 0, lo: 1e-30, hi: 1000 },
-  { key: 'log10_l_star', label: 'log10 L*', unit: 'log10 erg/s', span: 1, lo: -30, hi: 60 },
-  { key: 'l_star', label: 'L*', unit: 'erg/s', log: true, span: 0, lo: 1e-30, hi: 1e60 },
-  { key: 'm_star', label: 'M*', unit: 'AB mag', span: 1.5, lo: -40, hi: 10 },
-  { key: 'alpha', label: 'alpha', unit: '', span: 0.5, lo: -4, hi: 4 },
-];
+const PARAMETERS: { key: string; label: string; unit: string; log?: boolean; span: number; lo: number; hi: number }[] =
+  [
+    { key: 'log10_phi_star', label: 'log10 phi*', unit: 'log10 Mpc^-3', span: 1, lo: -30, hi: 3 },
+    { key: 'log10_phi_star_dex', label: 'log10 phi* (per dex)', unit: 'log10 Mpc^-3 dex^-1', span: 1, lo: -30, hi: 3 },
+    { key: 'phi_star', label: 'phi*', unit: 'Mpc^-3', log: true, span: 0, lo: 1e-30, hi: 1000 },
+    { key: 'phi_star_dex', label: 'phi* (per dex)', unit: 'Mpc^-3 dex^-1', log: true, span: 0, lo: 1e-30, hi: 1000 },
+    { key: 'log10_l_star', label: 'log10 L*', unit: 'log10 erg/s', span: 1, lo: -30, hi: 60 },
+    { key: 'l_star', label: 'L*', unit: 'erg/s', log: true, span: 0, lo: 1e-30, hi: 1e60 },
+    { key: 'm_star', label: 'M*', unit: 'AB mag', span: 1.5, lo: -40, hi: 10 },
+    { key: 'alpha', label: 'alpha', unit: '', span: 0.5, lo: -4, hi: 4 },
+  ];
 
 /**
  * The range a population's model_uncertainty gives a parameter: 3 sigma either side of the value
@@ -59,10 +99,16 @@ const PARAMETERS: { key: string; label: string; unit: string; log?: boolean; spa
 function uncertaintyRange(pop: Raw, key: string, value: number): [number, number] | undefined {
   const mu = pop.model_uncertainty;
   if (!isRecord(mu)) return undefined;
-  const name = key.startsWith('log10_phi_star') || key.startsWith('phi_star') ? 'log10_phi_star' : key === 'l_star' ? 'log10_l_star' : key;
+  const name =
+    key.startsWith('log10_phi_star') || key.startsWith('phi_star')
+      ? 'log10_phi_star'
+      : key === 'l_star'
+        ? 'log10_l_star'
+        : key;
   const sigma = mu[name];
   if (typeof sigma !== 'number' || !(sigma > 0)) return undefined;
-  if (key === 'phi_star' || key === 'phi_star_dex' || key === 'l_star') return [value * 10 ** (-3 * sigma), value * 10 ** (3 * sigma)];
+  if (key === 'phi_star' || key === 'phi_star_dex' || key === 'l_star')
+    return [value * 10 ** (-3 * sigma), value * 10 ** (3 * sigma)];
   return [value - 3 * sigma, value + 3 * sigma];
 }
 
@@ -74,13 +120,17 @@ function uncertaintyRange(pop: Raw, key: string, value: number): [number, number
 export function exploreControls(raw: unknown, survey: Survey): ControlSpec[] {
   const file = isRecord(raw) ? raw : {};
   const controls: ControlSpec[] = [];
-  if (isScalarValue(file.area)) controls.push(logControl(['area'], 'Area', 'deg^2', survey.areaDeg2, 1e-6, FULL_SKY_DEG2));
+  if (isScalarValue(file.area))
+    controls.push(logControl(['area'], 'Area', 'deg^2', survey.areaDeg2, 1e-6, FULL_SKY_DEG2));
   const det = isRecord(file.detection) ? file.detection : {};
   const d = survey.detection;
   if (isScalarValue(det.limit)) {
-    if (d.kind === 'line_flux') controls.push(logControl(['detection', 'limit'], 'Line-flux limit', 'erg/s/cm^2', d.limitCgs, 1e-30, 1e-5));
-    else if (d.kind === 'magnitude') controls.push(linearControl(['detection', 'limit'], 'Magnitude limit', 'AB mag', d.limitMag, 2, 0, 40));
-    else if (typeof det.limit === 'number') controls.push(linearControl(['detection', 'limit'], 'Threshold', '', det.limit, 2, -40, 60));
+    if (d.kind === 'line_flux')
+      controls.push(logControl(['detection', 'limit'], 'Line-flux limit', 'erg/s/cm^2', d.limitCgs, 1e-30, 1e-5));
+    else if (d.kind === 'magnitude')
+      controls.push(linearControl(['detection', 'limit'], 'Magnitude limit', 'AB mag', d.limitMag, 2, 0, 40));
+    else if (typeof det.limit === 'number')
+      controls.push(linearControl(['detection', 'limit'], 'Threshold', '', det.limit, 2, -40, 60));
   }
   const z = file.redshift;
   // Slice edges written out fix the counted range: the window then stays as written.
@@ -101,8 +151,12 @@ export function exploreControls(raw: unknown, survey: Survey): ControlSpec[] {
     const filter = d.kind === 'line_flux' ? d.filter : undefined;
     if (f && filter && filter.profile !== 'table' && isScalarValue(f.center) && isScalarValue(f.fwhm)) {
       const c = filter.centerAngstrom;
-      controls.push(linearControl(['detection', 'filter', 'center'], 'Filter centre', 'Angstrom', c, 0.05 * c, 1, 1e10, 1));
-      controls.push(logControl(['detection', 'filter', 'fwhm'], 'Filter width (FWHM)', 'Angstrom', filter.fwhmAngstrom, 1, 1e10));
+      controls.push(
+        linearControl(['detection', 'filter', 'center'], 'Filter centre', 'Angstrom', c, 0.05 * c, 1, 1e10, 1),
+      );
+      controls.push(
+        logControl(['detection', 'filter', 'fwhm'], 'Filter width (FWHM)', 'Angstrom', filter.fwhmAngstrom, 1, 1e10),
+      );
       controls[controls.length - 1]!.min = Math.max(1, filter.fwhmAngstrom / 4);
       controls[controls.length - 1]!.max = filter.fwhmAngstrom * 4;
       controls[controls.length - 1]!.step = 1;
@@ -122,7 +176,9 @@ export function exploreControls(raw: unknown, survey: Survey): ControlSpec[] {
       const v = pop[p.key];
       if (typeof v !== 'number') continue;
       const path = [...base, p.key];
-      const c = p.log ? logControl(path, p.label + name, p.unit, v, p.lo, p.hi) : linearControl(path, p.label + name, p.unit, v, p.span, p.lo, p.hi);
+      const c = p.log
+        ? logControl(path, p.label + name, p.unit, v, p.lo, p.hi)
+        : linearControl(path, p.label + name, p.unit, v, p.span, p.lo, p.hi);
       const r = uncertaintyRange(pop, p.key, v);
       if (r) {
         c.min = Math.max(p.lo, r[0]);
@@ -166,16 +222,38 @@ function exposureControl(file: Raw, survey: Survey): ControlSpec | undefined {
   const d = survey.detection;
   const limit = d.kind === 'magnitude' ? d.limitMag : d.kind === 'line_flux' ? d.limitCgs : NaN;
   const value = Math.min(max, Math.max(min, makeDepthModel(plan.limitKind, plan.law).hoursFor(limit)));
-  return { key: EXPOSURE_KEY, path: [], label: 'Exposure per pointing (sets the area and the limit)', unit: 'hours', value, min, max, step: stepFor(value), scale: 'log', range: 'default', plan };
+  return {
+    key: EXPOSURE_KEY,
+    path: [],
+    label: 'Exposure per pointing (sets the area and the limit)',
+    unit: 'hours',
+    value,
+    min,
+    max,
+    step: stepFor(value),
+    scale: 'log',
+    range: 'default',
+    plan,
+  };
 }
 
 /**
  * The design an exposure per pointing gives: as many whole pointings as the budget buys (at
  * most the whole sky), and the limit the depth law reaches (docs/survey-file.md, "The plan section").
  */
-export function exposureDesign(plan: ExposureControl, hours: number): { area: number; limit: number; pointings: number } {
-  const pointings = Math.max(1, Math.min(plan.maxPointings, Math.floor(plan.budgetHours / (hours + plan.overheadHours) + 1e-9)));
-  return { pointings, area: pointings * plan.fieldOfViewDeg2, limit: makeDepthModel(plan.limitKind, plan.law).limitAt(hours) };
+export function exposureDesign(
+  plan: ExposureControl,
+  hours: number,
+): { area: number; limit: number; pointings: number } {
+  const pointings = Math.max(
+    1,
+    Math.min(plan.maxPointings, Math.floor(plan.budgetHours / (hours + plan.overheadHours) + 1e-9)),
+  );
+  return {
+    pointings,
+    area: pointings * plan.fieldOfViewDeg2,
+    limit: makeDepthModel(plan.limitKind, plan.law).limitAt(hours),
+  };
 }
 
 /**
@@ -184,7 +262,11 @@ export function exposureDesign(plan: ExposureControl, hours: number): { area: nu
  * `settingsText` of the same settings (a number is written as JavaScript writes it, the shortest
  * text that reads back as the same number), without writing and parsing YAML on every change.
  */
-export function settingsObject(raw: unknown, controls: readonly ControlSpec[], values: ReadonlyMap<string, number>): unknown {
+export function settingsObject(
+  raw: unknown,
+  controls: readonly ControlSpec[],
+  values: ReadonlyMap<string, number>,
+): unknown {
   if (values.size === 0) return raw;
   const copy = structuredClone(raw) as Raw;
   for (const c of controls) {
@@ -204,7 +286,11 @@ const YAML_OPTIONS = { uniqueKeys: false, merge: false } as const;
  * The survey file as written with the given settings (key -> plain number in the key's unit):
  * the original text with only those values replaced, comments and layout kept.
  */
-export function settingsText(original: string, controls: readonly ControlSpec[], values: ReadonlyMap<string, number>): string {
+export function settingsText(
+  original: string,
+  controls: readonly ControlSpec[],
+  values: ReadonlyMap<string, number>,
+): string {
   if (values.size === 0) return original;
   const doc = parseDocument(original.replace(/^\uFEFF/, ''), YAML_OPTIONS);
   for (const c of controls) {

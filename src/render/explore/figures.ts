@@ -11,7 +11,18 @@ import { sig } from '../format.js';
 const W = 460;
 const H = 260;
 const M = { left: 64, right: 14, top: 26, bottom: 40 };
-const COLOURS = ['#1f77b4', '#d62728', '#2ca02c', '#9467bd', '#ff7f0e', '#8c564b', '#e377c2', '#7f7f7f', '#bcbd22', '#17becf'];
+const COLOURS = [
+  '#1f77b4',
+  '#d62728',
+  '#2ca02c',
+  '#9467bd',
+  '#ff7f0e',
+  '#8c564b',
+  '#e377c2',
+  '#7f7f7f',
+  '#bcbd22',
+  '#17becf',
+];
 
 export function escapeHtml(s: string): string {
   return s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
@@ -30,12 +41,25 @@ function ticks(lo: number, hi: number, n = 5): number[] {
 
 const f1 = (x: number) => x.toFixed(1);
 
-function frame(title: string, xLabel: string, yLabel: string, xs: number[], ys: number[], x: (v: number) => number, y: (v: number) => number, body: string): string {
+function frame(
+  title: string,
+  xLabel: string,
+  yLabel: string,
+  xs: number[],
+  ys: number[],
+  x: (v: number) => number,
+  y: (v: number) => number,
+  body: string,
+): string {
   const axes = [
     `<line x1="${M.left}" y1="${H - M.bottom}" x2="${W - M.right}" y2="${H - M.bottom}" stroke="#333"/>`,
     `<line x1="${M.left}" y1="${M.top}" x2="${M.left}" y2="${H - M.bottom}" stroke="#333"/>`,
-    ...xs.map((t) => `<text x="${f1(x(t))}" y="${H - M.bottom + 14}" text-anchor="middle" font-size="10">${sig(t, 3)}</text>`),
-    ...ys.map((t) => `<text x="${M.left - 4}" y="${f1(y(t) + 3)}" text-anchor="end" font-size="10">${sig(t, 3)}</text>`),
+    ...xs.map(
+      (t) => `<text x="${f1(x(t))}" y="${H - M.bottom + 14}" text-anchor="middle" font-size="10">${sig(t, 3)}</text>`,
+    ),
+    ...ys.map(
+      (t) => `<text x="${M.left - 4}" y="${f1(y(t) + 3)}" text-anchor="end" font-size="10">${sig(t, 3)}</text>`,
+    ),
     `<text x="${(M.left + W - M.right) / 2}" y="${H - 6}" text-anchor="middle" font-size="11">${escapeHtml(xLabel)}</text>`,
     `<text transform="translate(12 ${(M.top + H - M.bottom) / 2}) rotate(-90)" text-anchor="middle" font-size="11">${escapeHtml(yLabel)}</text>`,
     `<text x="${M.left}" y="16" font-size="12" font-weight="bold">${escapeHtml(title)}</text>`,
@@ -56,7 +80,10 @@ export function countsSvg(f: CountsFigureData): string {
       const x1 = x(s.zMax);
       const mid = 0.5 * (x0 + x1);
       const bar = `<rect x="${f1(x0 + 1)}" y="${f1(y(s.count))}" width="${f1(Math.max(0.5, x1 - x0 - 2))}" height="${f1(y(0) - y(s.count))}" fill="#7aa6d6"><title>z ${sig(s.zMin, 4)} to ${sig(s.zMax, 4)}: ${sig(s.count, 4)}</title></rect>`;
-      const err = s.fraction > 0 ? `<line x1="${f1(mid)}" x2="${f1(mid)}" y1="${f1(y(s.count * (1 - s.fraction)))}" y2="${f1(y(s.count * (1 + s.fraction)))}" stroke="#222"/>` : '';
+      const err =
+        s.fraction > 0
+          ? `<line x1="${f1(mid)}" x2="${f1(mid)}" y1="${f1(y(s.count * (1 - s.fraction)))}" y2="${f1(y(s.count * (1 + s.fraction)))}" stroke="#222"/>`
+          : '';
       return bar + err;
     })
     .join('');
@@ -81,7 +108,10 @@ export function lfSvg(f: LfFigureData): string {
         .filter(([, p]) => p > 0 && Math.log10(p) >= yLo)
         .map(([xv, p], i) => `${i === 0 ? 'M' : 'L'}${f1(x(xv))} ${f1(y(Math.log10(p)))}`)
         .join('');
-      const lim = c.limit >= Math.min(xLo, xHi) && c.limit <= Math.max(xLo, xHi) ? `<line x1="${f1(x(c.limit))}" x2="${f1(x(c.limit))}" y1="${M.top}" y2="${H - M.bottom}" stroke="${colour}" stroke-dasharray="4 3"/>` : '';
+      const lim =
+        c.limit >= Math.min(xLo, xHi) && c.limit <= Math.max(xLo, xHi)
+          ? `<line x1="${f1(x(c.limit))}" x2="${f1(x(c.limit))}" y1="${M.top}" y2="${H - M.bottom}" stroke="${colour}" stroke-dasharray="4 3"/>`
+          : '';
       return `<path d="${d}" fill="none" stroke="${colour}" stroke-width="1.5"><title>z = ${sig(c.z, 4)}</title></path>${lim}`;
     })
     .join('');

@@ -45,7 +45,10 @@ const hash = (s: string) => `'sha256-${createHash('sha256').update(s, 'utf8').di
 
 /** JSON safe inside a <script> element: no "<" at all. */
 export function scriptJson(value: unknown): string {
-  return JSON.stringify(value).replace(/</g, '\\u003c').replace(/\u2028/g, '\\u2028').replace(/\u2029/g, '\\u2029');
+  return JSON.stringify(value)
+    .replace(/</g, '\\u003c')
+    .replace(/\u2028/g, '\\u2028')
+    .replace(/\u2029/g, '\\u2029');
 }
 
 function controlHtml(c: ControlSpec, i: number): string {

@@ -21,7 +21,10 @@ function cell(name: string, value: number | undefined, kind: ExploreOutput['kind
 export function outputsHtml(r: ExploreResult): string {
   if (r.error) return `<p class="error" role="alert">${escapeHtml(r.error)}</p>`;
   return `<dl>${r.outputs
-    .map((o) => `<div><dt>${escapeHtml(o.label)}</dt><dd data-output="${o.name}" data-value="${String(o.value)}">${escapeHtml(shown(o))}</dd></div>`)
+    .map(
+      (o) =>
+        `<div><dt>${escapeHtml(o.label)}</dt><dd data-output="${o.name}" data-value="${String(o.value)}">${escapeHtml(shown(o))}</dd></div>`,
+    )
     .join('')}</dl>`;
 }
 
@@ -43,7 +46,10 @@ export function fisherHtml(r: ExploreResult): string {
   if (r.error) return '';
   if (!r.fisher) return `<p>${escapeHtml(r.fisherNote ?? 'No Fisher matrix.')}</p>`;
   const f = r.fisher;
-  const rows = f.names.map((n, i) => `<tr><th scope="row">${escapeHtml(n)}</th><td>${sig(f.sigma[i]!, 4)}</td>${cell(`sigma-poisson-${n}`, f.sigmaPoisson[i], 'plain')}</tr>`);
+  const rows = f.names.map(
+    (n, i) =>
+      `<tr><th scope="row">${escapeHtml(n)}</th><td>${sig(f.sigma[i]!, 4)}</td>${cell(`sigma-poisson-${n}`, f.sigmaPoisson[i], 'plain')}</tr>`,
+  );
   return `<table><caption>Fisher 1-sigma uncertainties of ${escapeHtml(f.population)} (marginalised)</caption><thead><tr><th scope="col">parameter</th><th scope="col">with cosmic variance</th><th scope="col">Poisson only</th></tr></thead><tbody>${rows.join('')}</tbody></table>`;
 }
 
