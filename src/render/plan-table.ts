@@ -109,23 +109,23 @@ export function planCsv(p: Plan): string {
     a.pointings === b.pointings &&
     a.exposure_hours_per_pointing === b.exposure_hours_per_pointing &&
     a.goal_value === b.goal_value;
+  const designRow = (id: CsvCell, d: PlanDesign, mark: string): CsvCell[] => [
+    id,
+    'all',
+    1,
+    d.exposure_hours_per_pointing,
+    d.pointings,
+    d.area_deg2,
+    d.limit,
+    d.count,
+    d.faint_count,
+    d.goal_value,
+    d.hours_used,
+    String(d.meets_minimum_count),
+    mark,
+  ];
   p.designs.forEach((d, i) => {
-    const mark = same(d, p.best) ? '*' : '';
-    rows.push([
-      i,
-      'all',
-      1,
-      d.exposure_hours_per_pointing,
-      d.pointings,
-      d.area_deg2,
-      d.limit,
-      d.count,
-      d.faint_count,
-      d.goal_value,
-      d.hours_used,
-      String(d.meets_minimum_count),
-      mark,
-    ]);
+    rows.push(designRow(i, d, same(d, p.best) ? '*' : ''));
     d.tiers?.forEach((t, k) =>
       rows.push([
         i,
@@ -145,22 +145,7 @@ export function planCsv(p: Plan): string {
     );
   });
   if (!p.designs.some((d) => same(d, p.best))) {
-    const d = p.best;
-    rows.push([
-      'refined',
-      'all',
-      1,
-      d.exposure_hours_per_pointing,
-      d.pointings,
-      d.area_deg2,
-      d.limit,
-      d.count,
-      d.faint_count,
-      d.goal_value,
-      d.hours_used,
-      String(d.meets_minimum_count),
-      '*',
-    ]);
+    rows.push(designRow('refined', p.best, '*'));
   }
   return csvText(header, rows);
 }
