@@ -5,6 +5,8 @@
  * parameter (forecast, with cosmic variance unless switched off) and the time where the file gives
  * `exposure`. The best value of each row is marked by survey index in `best`: every survey whose
  * value ties with the best (equal to 1e-9 relative, i.e. equal but for rounding) is listed.
+ * A double Schechter population has every row but the sigmas (a forecast varies a single
+ * Schechter function); a note says so.
  */
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
@@ -14,7 +16,7 @@ import { forecast } from '../forecast/forecast.js';
 import { buildDensityGrid, sliceCount } from '../forecast/grid.js';
 import { describeModel } from '../population/describe.js';
 import type { ComparedSurvey, Comparison } from '../model/outputs/compare.js';
-import { choosePopulation, surveyForPopulation } from '../model/select.js';
+import { choosePopulation, populationByName, refuseScatteredRedshifts, surveyForPopulation } from '../model/select.js';
 import { faintCount } from './tables.js';
 import { warning, mergeWarnings, type Warning } from '../warnings.js';
 
@@ -56,11 +58,22 @@ function limitOf(survey: Survey, p: Population): { limit: number | string; varia
   };
 }
 
-/** Count of `population` fainter than L* (or M*) in the survey as it stands. */
+/**
+ * Count of `population` fainter than L* (or M*) in the survey as it stands. The density grid holds
+ * one Schechter component, so a double Schechter population is counted component by component
+ * (each with its own phi* and alpha and the shared L* or M*) and the two counts added.
+ */
 export function faintCountOf(survey: Survey, population: Population): number {
-  const grid = buildDensityGrid(survey, population, new FlatCosmology(survey.cosmology), survey.sliceEdges);
+  const cosmo = new FlatCosmology(survey.cosmology);
   let n = 0;
-  for (let s = 0; s < sliceCount(grid); s++) n += faintCount(grid, s, 0).count;
+  for (const c of population.components) {
+    const single: Population =
+      population.shape === 'schechter'
+        ? population
+        : { ...population, shape: 'schechter', phiStar: c.phiStar, alpha: c.alpha, components: [c] };
+    const grid = buildDensityGrid(survey, single, cosmo, survey.sliceEdges);
+    for (let s = 0; s < sliceCount(grid); s++) n += faintCount(grid, s, 0).count;
+  }
   return n;
 }
 
@@ -73,14 +86,28 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
   const useCv = opts.cosmicVariance !== false;
   const out: ComparedSurvey[] = [];
   const warnings: Warning[][] = [];
+  const notes: string[] = [];
   for (const [i, file] of surveys.entries()) {
-    const population = choosePopulation(file, opts.population);
+    // A double Schechter population is compared without Fisher sigmas (a forecast varies the three
+    // parameters of a single Schechter function): every other row holds for it.
+    refuseScatteredRedshifts(file);
+    const named = populationByName(file, opts.population);
+    const population = named.shape === 'schechter' ? choosePopulation(file, opts.population) : named;
     // The population's own window and slices, as a file holding it alone.
     const survey = surveyForPopulation(file, population);
     const pred = predict(survey);
     const own = pred.populations[0]!;
-    const f = await forecast(survey, { population: population.name, cosmicVariance: useCv });
-    warnings.push(mergeWarnings(pred.warnings, f.warnings).map((w) => warning(w.code, `[${i + 1}] ${w.message}`)));
+    const f =
+      population.shape === 'schechter'
+        ? await forecast(survey, { population: population.name, cosmicVariance: useCv })
+        : undefined;
+    if (!f)
+      notes.push(
+        `[${i + 1}] "${population.name}" is a double Schechter population: no Fisher sigmas are given for it (a forecast varies phi*, L* or M* and alpha of a single Schechter function).`,
+      );
+    warnings.push(
+      mergeWarnings(pred.warnings, f?.warnings ?? []).map((w) => warning(w.code, `[${i + 1}] ${w.message}`)),
+    );
     const lim = limitOf(survey, population);
     const u = own.totals.uncertainty;
     const row: ComparedSurvey = {
@@ -97,7 +124,7 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
       faint_count: faintCountOf(survey, population),
       poisson_fraction: u ? u.poisson_fraction : 0,
       cosmic_variance_fraction: u ? u.cosmic_variance_fraction : 0,
-      sigma: { ...f.fisher.sigma },
+      sigma: f ? { ...f.fisher.sigma } : {},
     };
     if (own.totals.model) row.model_fraction = own.totals.model.fraction;
     if (survey.exposureHours !== undefined) {
@@ -107,7 +134,6 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
     out.push(row);
   }
   const best: Record<string, number[]> = {};
-  const notes: string[] = [];
   const pick = (name: string, values: (number | undefined)[], higher: boolean) => {
     const marked = bestIndices(values, higher);
     const present = values.filter((v) => v !== undefined).length;

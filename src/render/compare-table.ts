@@ -87,11 +87,12 @@ export function compareTable(c: Comparison): string {
     '* best value in the row, on every value that ties for it (larger area, deeper limit, more sources, smaller fractions and sigmas, less time).',
   ];
   c.surveys.forEach((s, i) => lines.push(`[${i + 1}] ${s.file || s.title}: ${s.model.summary}`));
-  lines.push(
-    c.cosmic_variance
-      ? 'Sigmas: Fisher matrix with one cosmic-variance normalisation per slice marginalised.'
-      : 'Sigmas: Fisher matrix, Poisson only.',
-  );
+  if (c.surveys.some((s) => Object.keys(s.sigma).length > 0))
+    lines.push(
+      c.cosmic_variance
+        ? 'Sigmas: Fisher matrix with one cosmic-variance normalisation per slice marginalised.'
+        : 'Sigmas: Fisher matrix, Poisson only.',
+    );
   for (const n of c.notes) lines.push(`Note: ${n}`);
   lines.push(c.caveat);
   return lines.join('\n') + '\n';
