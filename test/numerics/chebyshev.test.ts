@@ -19,16 +19,19 @@ describe('Chebyshev interpolation in two variables', () => {
   const f = (x: number, y: number) => Math.exp(0.7 * x) * Math.cos(1.3 * y) + x * y * y;
   const box: [number, number, number, number] = [-1, 2, 0, 1.5];
 
-  test('16 x 12 points reproduce the function to 1e-12 inside the box; the tail (an estimate) below 1e-11', () => {
+  test('16 x 12 points reproduce the function (of size up to 9) to 1e-11 inside the box; the tail bounds it', () => {
     const c = table(f, 16, 12, box);
+    let worst = 0;
     for (let k = 0; k < 200; k++) {
       const x = -1 + 3 * ((k * 0.6180339887) % 1);
       const y = 1.5 * ((k * 0.7548776662) % 1);
-      expect(Math.abs(chebyshevAt(c, x, y) - f(x, y))).toBeLessThan(1e-12);
+      worst = Math.max(worst, Math.abs(chebyshevAt(c, x, y) - f(x, y)));
     }
+    expect(worst).toBeLessThan(1e-11);
+    // the tail (the last two coefficients, where the series falls faster than geometrically) is an upper estimate
     const t = chebyshevTail(c);
-    expect(t.x).toBeLessThan(1e-11);
-    expect(t.y).toBeLessThan(1e-11);
+    expect(Math.max(t.x, t.y)).toBeGreaterThan(worst);
+    expect(Math.max(t.x, t.y)).toBeLessThan(1e-8);
   });
 
   test('too few points: the tail reports the error it makes (within a factor of 10)', () => {
