@@ -28,6 +28,8 @@ import {
 export interface ModelDrawSettings {
   draws: number;
   seed: number;
+  /** Only the counts' model blocks (no histogram bins, no densities): the counts' numbers are unchanged. */
+  countsOnly?: boolean;
 }
 
 /** The five percentiles and the fraction of a count's draws. */
@@ -93,10 +95,10 @@ export function addPopulationSpreads(
     if (!mu) return undefined;
     const run = runs[k]!;
     const offsets = drawModelOffsets(mu, pop.components.length, settings.draws, settings.seed, k);
-    const withLum = run.own.some((s) => s.luminosity !== undefined);
+    const withLum = !settings.countsOnly && run.own.some((s) => s.luminosity !== undefined);
     const d = populationDraws(survey, pop, cosmo, run.own, offsets, {
       luminosity: withLum,
-      histogramDraws: Math.min(HISTOGRAM_DRAWS, offsets.length),
+      histogramDraws: settings.countsOnly ? 0 : Math.min(HISTOGRAM_DRAWS, offsets.length),
     });
     const factor = pop.sfrConversion?.factor;
     run.pred.slices.forEach((sl, j) => {

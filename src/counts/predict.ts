@@ -324,8 +324,14 @@ export interface PredictOptions {
   noUncertainty?: boolean;
   /** Keep the uncertainty blocks computed here for a later forecast of the same survey (report). */
   uncertaintyMemo?: UncertaintyMemo;
-  /** Draws of the populations' model_uncertainty (default 1000) and their seed (default 1); `draws: 0` skips them. */
-  model?: { draws?: number; seed?: number };
+  /**
+   * Draws of the populations' model_uncertainty (default 1000) and their seed (default 1); `draws: 0`
+   * skips them. `counts: true` gives the model blocks of counts only (slices and totals, the same
+   * numbers as without it) and leaves out those of the histograms' bins and the luminosity and
+   * star-formation densities (the explore page shows neither; the histograms' draws are about
+   * half of the draws' work).
+   */
+  model?: { draws?: number; seed?: number; counts?: boolean };
 }
 
 /** The redshifts a population is counted over: its window cut by its slice edges (empty: max <= min). */
@@ -608,6 +614,7 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
     const draws = addPopulationSpreads(survey, cosmo, runs, {
       draws: modelDraws,
       seed: options.model?.seed ?? DEFAULT_MODEL_SEED,
+      countsOnly: options.model?.counts === true,
     });
     if (survey.populations.length > 1) addTopSpreads(runs, draws, top);
     for (const r of runs) for (const sc of r.own) delete sc.drawNodes;

@@ -115,6 +115,31 @@ export function marginaliseNormalisations(
   return out;
 }
 
+/**
+ * marginaliseNormalisations without allocating: `matrix` (p x p) is replaced by the marginalised
+ * information, the same sums in the same order. Slice i has count counts[i], b_i = b[p i .. p i + p)
+ * and cosmic-variance fraction fractions[i].
+ */
+export function marginaliseNormalisationsInPlace(
+  matrix: Matrix,
+  counts: ArrayLike<number>,
+  b: ArrayLike<number>,
+  fractions: ArrayLike<number>,
+): void {
+  const p = matrix.length;
+  if (fractions.length !== counts.length || b.length !== p * counts.length) {
+    throw new Error(`cosmic variance: ${fractions.length} fractions given for ${counts.length} slices`);
+  }
+  for (let i = 0; i < counts.length; i++) {
+    const sigma = fractions[i]!;
+    if (!(sigma >= 0) || !Number.isFinite(sigma))
+      throw new Error(`cosmic variance: the fraction of slice ${i} is ${sigma}, not a number >= 0`);
+    if (sigma === 0) continue;
+    const d = counts[i]! + 1 / (sigma * sigma);
+    for (let j = 0; j < p; j++) for (let k = 0; k < p; k++) matrix[j]![k]! -= (b[p * i + j]! * b[p * i + k]!) / d;
+  }
+}
+
 export interface FisherSummary {
   covariance: Matrix;
   sigma: number[];

@@ -95,7 +95,8 @@ export async function exploreCompute(
     };
   }
   const memo = new UncertaintyMemo(survey);
-  const prediction = predict(survey, { uncertaintyMemo: memo });
+  // The model draws of counts only: the page shows no histogram bins or densities under the draws.
+  const prediction = predict(survey, { uncertaintyMemo: memo, model: { counts: true } });
   const t = prediction.totals;
   const outputs: ExploreOutput[] = [
     { name: 'total-count', label: 'Expected count', value: t.count, kind: 'count' },
