@@ -19,7 +19,7 @@ import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { SR_PER_DEG2, FULL_SKY_DEG2 } from '../model/sky.js';
 import { buildDensityGrid, sliceCount, type DensityGrid } from '../forecast/grid.js';
-import { marginaliseNormalisations, summariseFisher, type SliceInformation } from '../forecast/fisher.js';
+import { marginaliseNormalisationsInPlace, summariseFisher } from '../forecast/fisher.js';
 import { countPopulation } from '../counts/engine.js';
 import { uncertaintyContext, populationBias, matterSigma } from '../uncertainty/prediction.js';
 import { naturalCubicSpline, type Interpolant } from '../numerics/interpolate.js';
@@ -63,7 +63,15 @@ export interface DesignModel {
   /** Depth range covered, as exposure hours. */
   hoursRange: [number, number];
   tier(hours: number, pointings: number): TierValue;
+  /**
+   * The same tier's count, faint count and Fisher matrix (row-major) written to `out` from `at`
+   * (TIER_VALUES numbers, equal to those of `tier`), without allocating anything.
+   */
+  tierInto(hours: number, pointings: number, out: Float64Array, at: number): void;
 }
+
+/** Numbers `tierInto` writes: count, faint count, the 3 x 3 Fisher matrix row by row. */
+export const TIER_VALUES = 11;
 
 /** The survey with its detection limit set to `limit` and its completeness curve moved with it. */
 export function surveyAtLimit(survey: Survey, limit: number, areaDeg2 = survey.areaDeg2): Survey {
@@ -166,19 +174,26 @@ export async function buildDesignModel(
   const shiftLn = grid.shift; // unused directly; the sums already carry it
   void shiftLn;
 
+  // One evaluation writes its numbers into scratch space (no allocation), so that a search over
+  // tens of thousands of designs (search.ts) leaves no garbage behind; `tier` copies them out.
   const tmp = new Float64Array(7);
-  const tier = (hours: number, pointings: number): TierValue => {
-    const areaDeg2 = Math.min(FULL_SKY_DEG2, pointings * spec.fieldOfViewDeg2);
+  const sliceN = new Float64Array(nS);
+  const sliceB = new Float64Array(3 * nS);
+  const fractions = new Float64Array(nS);
+  const matrix = [
+    [0, 0, 0],
+    [0, 0, 0],
+    [0, 0, 0],
+  ];
+  let count = 0;
+  let faint = 0;
+  let areaDeg2 = 0;
+  const evaluate = (hours: number, pointings: number): void => {
+    areaDeg2 = Math.min(FULL_SKY_DEG2, pointings * spec.fieldOfViewDeg2);
     const delta = deltaOf(hours);
-    const matrix = [
-      [0, 0, 0],
-      [0, 0, 0],
-      [0, 0, 0],
-    ];
-    const slices: SliceInformation[] = [];
-    const fractions: number[] = [];
-    let count = 0;
-    let faint = 0;
+    for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) matrix[j]![k] = 0;
+    count = 0;
+    faint = 0;
     const lnA = Math.log(areaDeg2);
     for (let sl = 0; sl < nS; sl++) {
       interpolateSlice(tables, sl, delta, tmp);
@@ -194,14 +209,19 @@ export async function buildDesignModel(
       m[2]![2]! += tmp[5]! * areaDeg2;
       count += n;
       faint += tmp[6]! * areaDeg2;
-      slices.push({ count: n, b: [LN10 * n, bc, ba] });
-      if (biasOf && sigmaOf && n > 0) fractions.push(Math.max(0, biasOf(sl, delta)) * sigmaOf(sl, lnA) * fieldNorm);
-      else fractions.push(0);
+      sliceN[sl] = n;
+      sliceB[3 * sl] = LN10 * n;
+      sliceB[3 * sl + 1] = bc;
+      sliceB[3 * sl + 2] = ba;
+      fractions[sl] = biasOf && sigmaOf && n > 0 ? Math.max(0, biasOf(sl, delta)) * sigmaOf(sl, lnA) * fieldNorm : 0;
     }
     matrix[1]![0] = matrix[0]![1]!;
     matrix[2]![0] = matrix[0]![2]!;
     matrix[2]![1] = matrix[1]![2]!;
-    const fisher = useCv ? marginaliseNormalisations(matrix, slices, fractions) : matrix;
+    if (useCv) marginaliseNormalisationsInPlace(matrix, sliceN, sliceB, fractions);
+  };
+  const tier = (hours: number, pointings: number): TierValue => {
+    evaluate(hours, pointings);
     return {
       hours,
       pointings,
@@ -209,8 +229,14 @@ export async function buildDesignModel(
       limit: depth.limitAt(hours),
       count,
       faintCount: Math.max(0, Math.min(faint, count)),
-      fisher,
+      fisher: matrix.map((r) => [...r]),
     };
+  };
+  const tierInto = (hours: number, pointings: number, out: Float64Array, at: number): void => {
+    evaluate(hours, pointings);
+    out[at] = count;
+    out[at + 1] = Math.max(0, Math.min(faint, count));
+    for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) out[at + 2 + 3 * j + k] = matrix[j]![k]!;
   };
 
   return {
@@ -223,6 +249,7 @@ export async function buildDesignModel(
     grid,
     hoursRange: [h0, h1],
     tier,
+    tierInto,
   };
 }
 

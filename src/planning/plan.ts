@@ -173,13 +173,24 @@ export async function planDesigns(
     best = gridBest = e;
     method = 'none: the fixed area or limit leaves one design';
   } else {
-    const single = searchSingleTier(model, spec.goal, parameterIndex, budget, exposures, progress('designs'));
-    if (single.gridBestIndex < 0) throw noFeasible(survey, spec, single.designs);
-    gridBest = single.designs[single.gridBestIndex]!;
+    // With tiers only the single tier's best designs are wanted: its grid is not kept.
+    const single = searchSingleTier(
+      model,
+      spec.goal,
+      parameterIndex,
+      budget,
+      exposures,
+      progress('designs'),
+      spec.tiers === 1,
+    );
+    if (single.gridBestIndex < 0) throw noFeasible(survey, spec, single.mostCount);
+    gridBest = single.design(single.gridBestIndex);
     best = single.best;
     improved = single.refined;
-    designs = single.designs;
-    neighbours = single.designs.slice(Math.max(0, single.gridBestIndex - 2), single.gridBestIndex + 3);
+    neighbours = [];
+    for (let i = Math.max(0, single.gridBestIndex - 2); i < Math.min(single.size, single.gridBestIndex + 3); i++)
+      neighbours.push(single.design(i));
+    designs = spec.tiers === 1 ? single.designs() : [];
     method =
       'log-spaced grid of exposure per pointing, then golden-section search on the number of pointings (each exposed for the whole remaining budget) between the grid neighbours of the best, whole pointings enforced';
     if (spec.tiers > 1) {
@@ -204,7 +215,12 @@ export async function planDesigns(
       }
     }
   }
-  if (!best.feasible) throw noFeasible(survey, spec, designs);
+  if (!best.feasible)
+    throw noFeasible(
+      survey,
+      spec,
+      designs.reduce((a, d) => Math.max(a, d.count), 0),
+    );
 
   const bestValue = best.goal!;
   const edge = fixedDesign ? undefined : gridEdgeWarning(best, exposures, spec);
@@ -311,8 +327,8 @@ export function gridEdgeWarning(best: Evaluated, exposures: readonly number[], s
   return undefined;
 }
 
-function noFeasible(survey: Survey, spec: PlanSpec, designs: Evaluated[]): Error {
-  const most = designs.reduce((a, d) => Math.max(a, d.count), 0);
+/** The error when no design is feasible; `most` is the largest count of any design. */
+function noFeasible(survey: Survey, spec: PlanSpec, most: number): Error {
   if (spec.minimumCount > 0 && most < spec.minimumCount) {
     return inputError(
       'out_of_range',

@@ -5,7 +5,7 @@
  * side; tiers by a small search over budget fractions (multiples of 0.1) with coordinate descent
  * over the grid exposures of each tier.
  */
-import type { DesignModel, TierValue } from './model.js';
+import { TIER_VALUES, type DesignModel, type TierValue } from './model.js';
 import type { PlanGoal } from '../model/plan.js';
 import { summariseFisher } from '../forecast/fisher.js';
 
@@ -121,8 +121,14 @@ export function pointingsFor(model: DesignModel, shareHours: number, hours: numb
 
 export interface SingleTierResult {
   exposures: number[];
-  /** One entry per grid exposure with at least one pointing. */
-  designs: Evaluated[];
+  /** Number of designs: the grid exposures with at least one pointing, in grid order. */
+  size: number;
+  /** Design i (0 <= i < size), the same numbers the search evaluated; built on demand unless kept. */
+  design(i: number): Evaluated;
+  /** Every design, in grid order. */
+  designs(): Evaluated[];
+  /** The largest expected count of any design (0 when there is none). */
+  mostCount: number;
   gridBestIndex: number;
   best: Evaluated;
   refined: boolean;
@@ -133,6 +139,13 @@ function fullBudgetHours(budget: Budget, p: number): number {
   return budget.budgetHours / p - budget.overheadHours;
 }
 
+/**
+ * The best design of one tier: the grid, then the refinement. Every grid design is evaluated, but
+ * only its pointings, goal value and count are kept (typed arrays) unless `keepDesigns`: a design
+ * asked for is evaluated again (the same numbers: the model is deterministic), so a search of
+ * 20,000 exposures holds a few hundred kilobytes rather than 20,000 objects when only its best
+ * designs are wanted (the tier search's plans).
+ */
 export function searchSingleTier(
   model: DesignModel,
   goal: PlanGoal,
@@ -140,26 +153,73 @@ export function searchSingleTier(
   budget: Budget,
   exposures: number[],
   onProgress?: (done: number, total: number) => void,
+  keepDesigns = true,
 ): SingleTierResult {
-  const designs: Evaluated[] = [];
-  const chunk = Math.max(1, Math.floor(exposures.length / 50));
-  exposures.forEach((h, i) => {
+  const n = exposures.length;
+  const at = new Int32Array(n); // grid index of design i
+  const pointings = new Float64Array(n);
+  const goals = new Float64Array(n); // NaN where undefined
+  const feasibleAt = new Uint8Array(n);
+  const kept: Evaluated[] = [];
+  let size = 0;
+  let mostCount = 0;
+  const row = new Float64Array(TIER_VALUES);
+  const fisher = [
+    [0, 0, 0],
+    [0, 0, 0],
+    [0, 0, 0],
+  ];
+  const chunk = Math.max(1, Math.floor(n / 50));
+  for (let i = 0; i < n; i++) {
+    const h = exposures[i]!;
     const p = pointingsFor(model, budget.budgetHours, h, budget.overheadHours);
-    if (p >= 1) designs.push(combine(goal, parameterIndex, budget, [model.tier(h, p)], [1]));
-    if (onProgress && (i % chunk === 0 || i === exposures.length - 1)) onProgress(i + 1, exposures.length);
-  });
+    if (p >= 1) {
+      let g: number | undefined;
+      let feasible: boolean;
+      let count: number;
+      if (keepDesigns) {
+        const e = combine(goal, parameterIndex, budget, [model.tier(h, p)], [1]);
+        kept.push(e);
+        ({ goal: g, feasible, count } = e);
+      } else {
+        // combine() of the one tier, without building it: the same sums from zero
+        model.tierInto(h, p, row, 0);
+        count = 0 + row[0]!;
+        const faint = 0 + row[1]!;
+        for (let j = 0; j < 3; j++) for (let c = 0; c < 3; c++) fisher[j]![c] = 0 + row[2 + 3 * j + c]!;
+        const v = goalOf(goal, parameterIndex, count, faint, fisher, true);
+        const ok = v !== undefined && Number.isFinite(v);
+        g = ok ? v : undefined;
+        feasible = ok && count >= budget.minimumCount;
+      }
+      at[size] = i;
+      pointings[size] = p;
+      goals[size] = g ?? NaN;
+      feasibleAt[size] = feasible ? 1 : 0;
+      mostCount = Math.max(mostCount, count);
+      size++;
+    }
+    if (onProgress && (i % chunk === 0 || i === n - 1)) onProgress(i + 1, n);
+  }
+  const design = (i: number): Evaluated => {
+    if (!(i >= 0 && i < size)) throw new Error(`internal: design ${i} of ${size}`);
+    if (keepDesigns) return kept[i]!;
+    return combine(goal, parameterIndex, budget, [model.tier(exposures[at[i]!]!, pointings[i]!)], [1]);
+  };
+  const designs = (): Evaluated[] => (keepDesigns ? kept : Array.from({ length: size }, (_, i) => design(i)));
+  const result = { exposures, size, design, designs, mostCount };
+
   let bi = -1;
-  designs.forEach((d, i) => {
-    if (d.feasible && (bi < 0 || better(goal, d.goal!, designs[bi]!.goal!))) bi = i;
-  });
-  if (bi < 0) return { exposures, designs, gridBestIndex: -1, best: designs[0]!, refined: false };
-  let best = designs[bi]!;
+  for (let i = 0; i < size; i++) {
+    if (feasibleAt[i] && (bi < 0 || better(goal, goals[i]!, goals[bi]!))) bi = i;
+  }
+  if (bi < 0) return { ...result, gridBestIndex: -1, best: design(0), refined: false };
+  let best = design(bi);
 
   // Refinement on the continuous number of pointings between the grid neighbours.
-  const [hMin, hMax] = [exposures[0]!, exposures[exposures.length - 1]!];
-  const pOf = (d: Evaluated) => d.tiers[0]!.pointings;
-  const pHi = pOf(designs[Math.max(0, bi - 1)]!);
-  const pLo = pOf(designs[Math.min(designs.length - 1, bi + 1)]!);
+  const [hMin, hMax] = [exposures[0]!, exposures[n - 1]!];
+  const pHi = pointings[Math.max(0, bi - 1)]!;
+  const pLo = pointings[Math.min(size - 1, bi + 1)]!;
   const evalP = (p: number): Evaluated | undefined => {
     const h = fullBudgetHours(budget, p);
     if (!(h >= hMin * (1 - 1e-12)) || !(h <= hMax * (1 + 1e-12))) return undefined;
@@ -170,7 +230,7 @@ export function searchSingleTier(
     if (!e || !e.feasible) return maximises(goal) ? -Infinity : Infinity;
     return e.goal!;
   };
-  let pStar = pOf(best);
+  let pStar = pointings[bi]!;
   if (pHi > pLo) {
     // Golden-section search in ln P (continuous pointings), a unimodal bracket assumed.
     let a = Math.log(Math.max(1, pLo));
@@ -198,7 +258,7 @@ export function searchSingleTier(
   }
   // Whole pointings: the whole numbers around the continuous optimum and the grid best's own.
   const candidates = new Set<number>();
-  for (const base of [Math.floor(pStar), pOf(best)])
+  for (const base of [Math.floor(pStar), pointings[bi]!])
     for (let k = -1; k <= 2; k++) if (base + k >= 1 && base + k <= model.maxPointings) candidates.add(base + k);
   let refined = false;
   for (const p of [...candidates].sort((x, y) => x - y)) {
@@ -208,7 +268,7 @@ export function searchSingleTier(
       refined = true;
     }
   }
-  return { exposures, designs, gridBestIndex: bi, best, refined };
+  return { ...result, gridBestIndex: bi, best, refined };
 }
 
 /** Compositions of 10 tenths into k positive parts. */
@@ -249,7 +309,7 @@ export function searchTiers(
   // Fisher matrix (row-major) in one typed array, ROW numbers apart; NaN count where the share buys
   // no pointing. A plan of 20,000 exposures and 3 tiers keeps 8 rows of 20,000 x 11 numbers
   // (14 MB) instead of 160,000 objects.
-  const ROW = 11;
+  const ROW = TIER_VALUES;
   const cache = new Map<number, Float64Array>();
   const tierAt = (tenths: number): Float64Array => {
     let row = cache.get(tenths);
@@ -262,10 +322,7 @@ export function searchTiers(
           row[e * ROW] = NaN;
           continue;
         }
-        const t = model.tier(h, p);
-        row[e * ROW] = t.count;
-        row[e * ROW + 1] = t.faintCount;
-        for (let j = 0; j < 3; j++) for (let c = 0; c < 3; c++) row[e * ROW + 2 + 3 * j + c] = t.fisher[j]![c]!;
+        model.tierInto(h, p, row, e * ROW);
       }
       cache.set(tenths, row);
     }

@@ -63,7 +63,7 @@ describe('budgets and whole pointings', () => {
             budget,
             logGrid(0.05, Math.min(50, budgetHours - overheadHours), count),
           );
-          for (const d of [...r.designs, r.best]) {
+          for (const d of [...r.designs(), r.best]) {
             expect(d.hoursUsed).toBeLessThanOrEqual(budgetHours * (1 + 1e-12));
             for (const t of d.tiers) {
               expect(Number.isInteger(t.pointings)).toBe(true);
@@ -97,7 +97,7 @@ describe('grid, refinement and brute force', () => {
       let previous: number | undefined;
       for (const n of [5, 9, 17, 33, 65, 129]) {
         const r = searchSingleTier(model, goal, paramIndex(goal), budget, logGrid(0.05, 50, n));
-        const v = r.designs[r.gridBestIndex]!.goal!;
+        const v = r.design(r.gridBestIndex).goal!;
         if (previous !== undefined) expect(better(goal, v, previous)).toBe(true);
         previous = v;
         expect(better(goal, r.best.goal!, v)).toBe(true);
