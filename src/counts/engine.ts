@@ -312,9 +312,7 @@ export function countPopulation(
       let count = 0;
       nodes.forEach((nd, k) => {
         if (!Number.isFinite(nd.log10ULimit)) return;
-        const u = 10 ** nd.log10ULimit;
-        let n = 0;
-        for (const c of nd.components) n += c.phiStar * upperGamma(c.alpha + 1, u);
+        const n = schechterBetween(nd.components, nd.log10ULimit, Infinity, 0);
         count += nd.volumeWeight * n;
         if (perNode) perNode[k] = nd.volumeWeight * n;
       });
@@ -376,6 +374,26 @@ export function countPopulation(
 }
 
 /**
+ * A node's Schechter sum between log10 u = p and q (q = Infinity: no upper end):
+ * sum_c phi*_c [Gamma(alpha_c + 1 + power, 10^p) - Gamma(alpha_c + 1 + power, 10^q)] (DLMF 8.2.2),
+ * power 0 the number density, power 1 the luminosity density in units of L*. The one closed form
+ * of the engine's and the model draws' (src/counts/model-draws.ts) constant-completeness pieces.
+ */
+export function schechterBetween(
+  components: readonly { phiStar: number; alpha: number }[],
+  p: number,
+  q: number,
+  power: 0 | 1,
+): number {
+  let j = 0;
+  for (const c of components) {
+    const s = c.alpha + 1 + power;
+    j += c.phiStar * (upperGamma(s, 10 ** p) - (q === Infinity ? 0 : upperGamma(s, 10 ** q)));
+  }
+  return j;
+}
+
+/**
  * Luminosity of the detected sources and of all sources in a slice: sum over nodes of
  * volumeWeight * lumScale * sum_c phi*_c * integral_{uLim}^inf u^(alpha_c+1) e^-u c(obs(u)) du
  * (closed form phi* Gamma(alpha+2, uLim) where the completeness is constant, Gauss-Legendre panels
@@ -418,14 +436,7 @@ export function detectedLuminosityAtNode(
   breaks: { points: number[]; scale: number; varying: [number, number] } | undefined,
 ): number {
   const l10uLim = nd.log10ULimit;
-  const closed = (p: number, q: number): number => {
-    let j = 0;
-    for (const c of nd.components) {
-      const s = c.alpha + 2;
-      j += c.phiStar * (upperGamma(s, 10 ** p) - (q === Infinity ? 0 : upperGamma(s, 10 ** q)));
-    }
-    return j;
-  };
+  const closed = (p: number, q: number): number => schechterBetween(nd.components, p, q, 1);
   if (!completeness || !breaks) return closed(l10uLim, Infinity);
   const slope = observer.slope;
   const [vLo, vHi] = breaks.varying;
@@ -470,14 +481,7 @@ function detectedLuminosityByRules(
   edges: readonly number[],
 ): number {
   const l10uLim = nd.log10ULimit;
-  const closed = (p: number, q: number): number => {
-    let j = 0;
-    for (const c of nd.components) {
-      const s = c.alpha + 2;
-      j += c.phiStar * (upperGamma(s, 10 ** p) - (q === Infinity ? 0 : upperGamma(s, 10 ** q)));
-    }
-    return j;
-  };
+  const closed = (p: number, q: number): number => schechterBetween(nd.components, p, q, 1);
   const slope = observer.slope;
   const [vLo, vHi] = breaks.varying;
   const b1 = (vLo - nd.a) / slope;
@@ -537,9 +541,7 @@ function buildNodes(
     const p = populationAt(population, zi, offsets);
     const obs = observer.at(zi, p.characteristic);
     if (!Number.isFinite(obs.log10ULimit)) return 0;
-    const u = 10 ** obs.log10ULimit;
-    let n = 0;
-    for (const c of p.components) n += c.phiStar * upperGamma(c.alpha + 1, u);
+    const n = schechterBetween(p.components, obs.log10ULimit, Infinity, 0);
     return cosmo.volumeElementMpc3Sr(zi) * n * effects.weight(zi);
   };
   // Piecewise in z between the redshifts where the integrand has a kink (a threshold limit's
@@ -740,13 +742,7 @@ export function histogramCount(
           // edge): the closed form times that constant.
           const cBin = completeness(0.5 * (faintObs + brightObs));
           if (!open || highObs <= vLo || lowObs >= vHi) {
-            let n = 0;
-            const uLo = 10 ** l10uLo;
-            const uHi = open ? Infinity : 10 ** l10uHi;
-            for (const c of nd.components) {
-              const s = c.alpha + 1;
-              n += c.phiStar * (upperGamma(s, uLo) - (uHi === Infinity ? 0 : upperGamma(s, uHi)));
-            }
+            const n = schechterBetween(nd.components, l10uLo, open ? Infinity : l10uHi, 0);
             if (n > 0) {
               const v = nd.volumeWeight * cBin * n;
               counts[b]! += v;

@@ -27,11 +27,12 @@ import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { modelOffsets, type ModelOffsets, type ModelUncertainty } from '../model/model-uncertainty.js';
 import { gammaFn, upperGamma } from '../numerics/gamma.js';
+import { chebyshev2D, chebyshevAt, chebyshevPoints, chebyshevTail, type Chebyshev2D } from '../numerics/chebyshev.js';
 import { makeObserver, type Observer } from '../selection/observe.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
 import { completenessQuadrature, type CompletenessQuadrature } from './completeness-quadrature.js';
 import { componentsTotalLuminosity } from '../population/schechter.js';
-import { histogramCount, type NodeState, type SliceCount } from './engine.js';
+import { histogramCount, schechterBetween, type NodeState, type SliceCount } from './engine.js';
 
 // (defined with the model, so that the command line reads them without loading this module)
 export { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED, MAX_MODEL_DRAWS } from '../model/model-uncertainty.js';
@@ -144,14 +145,7 @@ function shifted(nd: NodeState, o: ModelOffsets, slope: number, lumFactor: numbe
  * completeness is constant, the completeness quadrature's rules where it varies.
  */
 function nodeIntegral(nd: NodeState, s: Setting, power: 0 | 1): number {
-  const closed = (p: number, q: number): number => {
-    let j = 0;
-    for (const c of nd.components) {
-      const order = c.alpha + 1 + power;
-      j += c.phiStar * (upperGamma(order, 10 ** p) - (q === Infinity ? 0 : upperGamma(order, 10 ** q)));
-    }
-    return j;
-  };
+  const closed = (p: number, q: number): number => schechterBetween(nd.components, p, q, power);
   const l10uLim = nd.log10ULimit;
   if (!s.completeness || !s.breaks) return closed(l10uLim, Infinity);
   const slope = s.observer.slope;
@@ -183,15 +177,21 @@ function nodeIntegral(nd: NodeState, s: Setting, power: 0 | 1): number {
       // (the cut moved out to the histogram grid, so that every draw meets the same few ranges and reuses their rules)
       const cut = nd.a + slope * qq;
       const oB = qq < q ? (slope > 0 ? Math.ceil(cut / s.width) : Math.floor(cut / s.width)) * s.width : obsHi;
-      // in pieces on the grid of the histogram's width, as the engine integrates (rules sized per piece)
-      const e1 = Math.min(oA, oB);
-      const e2 = Math.max(oA, oB);
-      let from = e1;
-      for (let k = Math.floor(e1 / s.width) + 1; k * s.width < e2; k++) {
-        j += s.rules!.integrate(from, k * s.width, power);
-        from = k * s.width;
+      // in pieces on the grid of the histogram's width, as the engine integrates (rules sized per
+      // piece), from the faint end; what is left beyond a piece's bright edge at u is at most
+      // schechterBetween(log10 u, Infinity) (the completeness is at most 1): the pieces stop where
+      // that falls below 1e-17 of what is counted (the Schechter factor, not the range, then ends them)
+      const w = s.width;
+      const up = oB > oA;
+      let from = oA;
+      for (let k = up ? Math.floor(oA / w) + 1 : Math.ceil(oA / w) - 1; ; k += up ? 1 : -1) {
+        const edge = k * w;
+        const to = up ? Math.min(edge, oB) : Math.max(edge, oB);
+        j += s.rules!.integrate(from, to, power);
+        if (to === oB) break;
+        from = to;
+        if (j > 0 && schechterBetween(nd.components, (from - nd.a) / slope, Infinity, power) < 1e-17 * j) break;
       }
-      j += s.rules!.integrate(from, e2, power);
     }
   }
   return j;
@@ -317,6 +317,240 @@ function sliceUnderDraw(
 }
 
 /**
+ * The tabulated path where the completeness varies (the exact path, sliceUnderDraw, costs one
+ * completeness quadrature per node and draw). With the limit at the same obs at every node (flux
+ * and magnitude limits), a node's integral depends only on t = a (its characteristic term, moved by
+ * the draw's d_c) and its alpha (moved by d_alpha), phi* being a factor:
+ *
+ *   J(t, alpha) = integral above the limit of u^alpha e^-u c(obs(u)) du,  obs = t + slope log10 u,
+ *
+ * and J1 the same with u^(alpha + 1) (the luminosity). Two levels of Chebyshev series
+ * (src/numerics/chebyshev.ts), in logarithms so that their error is relative:
+ *  1. ln J and ln J1 over t from the smallest a of the slice's nodes plus the smallest d_c of the
+ *     draws to the largest plus the largest, and alpha over what the draws reach at those nodes,
+ *     from the exact path's node integrals (nodeIntegral with phi* = 1) at the Chebyshev points;
+ *  2. per component, the slice's ln N_k(d_c, d_alpha_k) = ln sum_i V_i phi*_ik J(a_i + d_c,
+ *     alpha_ik + d_alpha_k) (and the luminosity) over the draws' range of offsets, from level 1.
+ * A draw then costs one series per component: N = sum_k 10^(d_phi_k) N_k. Along each variable
+ * the points start at 16 and 8 and double (to 64 and 32) until the coefficients' tail, an
+ * estimate of the error in the logarithm, is below TABLE_TOLERANCE x max(1, the largest |ln|);
+ * otherwise, or where a value vanishes, or where the limit differs from node to node (a
+ * threshold limit tabulated in z), the slice takes the exact path for every draw.
+ */
+interface SliceTables {
+  /** Per component: ln of its count and (when asked for) of its detected luminosity as functions of (d_c, d_alpha); undefined: the component detects nothing. */
+  count: (Chebyshev2D | undefined)[];
+  lum: (Chebyshev2D | undefined)[];
+}
+
+/** Slices drawn by the tables and by the exact path where the completeness varies, since the start (for tests and benchmarks). */
+export const drawPaths = { tabulated: 0, exact: 0 };
+
+/** Draws from which the completeness path tabulates (below it the exact path costs less). */
+export const TABLE_MIN_DRAWS = 64;
+/** Tail of the Chebyshev coefficients accepted, relative to max(1, the largest |ln|) (see SliceTables). */
+export const TABLE_TOLERANCE = 1e-10;
+const TABLE_POINTS: [number, number] = [16, 8];
+const TABLE_MAX_POINTS: [number, number] = [64, 32];
+
+/**
+ * Chebyshev series of ln g over [x0, x1] x [y0, y1] (g evaluated at the points, values returned
+ * together for several functions), doubling the points until the tail is small. Undefined when a
+ * value is not positive and finite or the tail stays large.
+ */
+function logSeries(
+  x0: number,
+  x1: number,
+  y0: number,
+  y1: number,
+  functions: number,
+  g: (x: number, y: number, out: Float64Array) => void,
+): Chebyshev2D[] | undefined {
+  let [nx, ny] = TABLE_POINTS;
+  if (!(x1 > x0)) nx = 1;
+  if (!(y1 > y0)) ny = 1;
+  const got = new Float64Array(functions);
+  for (;;) {
+    const xs = chebyshevPoints(nx, x0, x1);
+    const ys = chebyshevPoints(ny, y0, y1);
+    const v = Array.from({ length: functions }, () => new Float64Array(nx * ny));
+    let big = 1;
+    for (let i = 0; i < nx; i++)
+      for (let j = 0; j < ny; j++) {
+        g(xs[i]!, ys[j]!, got);
+        for (let m = 0; m < functions; m++) {
+          const x = got[m]!;
+          if (!(x > 0 && x < Infinity)) return undefined;
+          const l = Math.log(x);
+          v[m]![i * ny + j] = l;
+          big = Math.max(big, Math.abs(l));
+        }
+      }
+    const series = v.map((vm) => chebyshev2D(vm, nx, ny, x0, x1, y0, y1));
+    let tx = 0;
+    let ty = 0;
+    for (const c of series) {
+      const t = chebyshevTail(c);
+      tx = Math.max(tx, t.x);
+      ty = Math.max(ty, t.y);
+    }
+    const tol = TABLE_TOLERANCE * big;
+    const moreX = tx > tol;
+    const moreY = ty > tol;
+    if (!moreX && !moreY) return series;
+    if ((moreX && nx >= TABLE_MAX_POINTS[0]) || (moreY && ny >= TABLE_MAX_POINTS[1])) return undefined;
+    if (moreX) nx *= 2;
+    if (moreY) ny *= 2;
+  }
+}
+
+function sliceTables(
+  f: SliceNodes,
+  s: Setting,
+  offsets: readonly ModelOffsets[],
+  withLum: boolean,
+): SliceTables | undefined {
+  const slope = s.observer.slope;
+  const nc = f.phi.length;
+  let obsLim = NaN;
+  let aMin = Infinity;
+  let aMax = -Infinity;
+  let alphaMin = Infinity;
+  let alphaMax = -Infinity;
+  const seen: number[] = [];
+  for (let i = 0; i < f.count; i++) {
+    const l = f.l10u[i]!;
+    if (!Number.isFinite(l)) continue;
+    const lim = f.scratch[i]!.obsLimit;
+    const a = f.a[i]!;
+    if (Number.isNaN(obsLim)) obsLim = lim;
+    // the same limit in obs at every node, where the node's limit in u puts it
+    const scale = 1e-12 * Math.max(1, Math.abs(obsLim));
+    if (Math.abs(lim - obsLim) > scale || Math.abs(a + slope * l - obsLim) > 1e3 * scale) return undefined;
+    seen.push(i);
+    aMin = Math.min(aMin, a);
+    aMax = Math.max(aMax, a);
+    for (let k = 0; k < nc; k++) {
+      alphaMin = Math.min(alphaMin, f.alpha[k]![i]!);
+      alphaMax = Math.max(alphaMax, f.alpha[k]![i]!);
+    }
+  }
+  if (seen.length === 0) return undefined;
+  let dcMin = Infinity;
+  let dcMax = -Infinity;
+  const daMin = new Array<number>(nc).fill(Infinity);
+  const daMax = new Array<number>(nc).fill(-Infinity);
+  for (const o of offsets) {
+    dcMin = Math.min(dcMin, o.characteristic);
+    dcMax = Math.max(dcMax, o.characteristic);
+    for (let k = 0; k < nc; k++) {
+      daMin[k] = Math.min(daMin[k]!, o.alpha[k]!);
+      daMax[k] = Math.max(daMax[k]!, o.alpha[k]!);
+    }
+  }
+  // level 1: the node integral J (and J1) over (t, alpha)
+  const probe: NodeState = {
+    z: 0,
+    volumeWeight: 1,
+    a: 0,
+    log10ULimit: 0,
+    obsLimit: obsLim,
+    components: [{ phiStar: 1, alpha: 0 }],
+    allComponents: [{ phiStar: 1, alpha: 0 }],
+    lumScale: 1,
+  };
+  const nodeLevel = logSeries(
+    aMin + dcMin,
+    aMax + dcMax,
+    alphaMin + Math.min(...daMin),
+    alphaMax + Math.max(...daMax),
+    withLum ? 2 : 1,
+    (t, alpha, out) => {
+      probe.a = t;
+      probe.log10ULimit = (obsLim - t) / slope;
+      probe.components[0]!.alpha = alpha;
+      s.rules!.setSlice([probe]);
+      s.rules!.setNode(probe);
+      out[0] = nodeIntegral(probe, s, 0);
+      if (withLum) out[1] = nodeIntegral(probe, s, 1);
+    },
+  );
+  if (!nodeLevel) return undefined;
+  const [j0, j1] = nodeLevel as [Chebyshev2D, Chebyshev2D | undefined];
+  // level 2: per component, the slice over (d_c, d_alpha)
+  const out: SliceTables = { count: [], lum: [] };
+  for (let k = 0; k < nc; k++) {
+    const phiK = f.phi[k]!;
+    const alphaK = f.alpha[k]!;
+    const used = seen.filter((i) => f.vw[i]! * phiK[i]! !== 0);
+    if (used.length === 0) {
+      out.count.push(undefined);
+      out.lum.push(undefined);
+      continue;
+    }
+    const series = logSeries(dcMin, dcMax, daMin[k]!, daMax[k]!, withLum ? 2 : 1, (dc, da, got) => {
+      let n = 0;
+      let l = 0;
+      for (const i of used) {
+        const w = f.vw[i]! * phiK[i]!;
+        const t = f.a[i]! + dc;
+        const al = alphaK[i]! + da;
+        n += w * Math.exp(chebyshevAt(j0, t, al));
+        if (j1) l += w * f.lumScale[i]! * Math.exp(chebyshevAt(j1, t, al));
+      }
+      got[0] = n;
+      if (withLum) got[1] = l;
+    });
+    if (!series) return undefined;
+    out.count.push(series[0]);
+    out.lum.push(series[1]);
+  }
+  return out;
+}
+
+/** Count (and luminosities) of one slice under one draw from its tables (as sliceUnderDraw does exactly). */
+function sliceFromTables(
+  f: SliceNodes,
+  tb: SliceTables,
+  o: ModelOffsets,
+  lumFactor: number,
+  withLum: boolean,
+  out: { count: number; detected: number; total: number | undefined },
+): void {
+  const nc = f.phi.length;
+  let count = 0;
+  let detected = 0;
+  let total: number | undefined = 0;
+  for (let k = 0; k < nc; k++) {
+    const phiScale = o.log10PhiStar[k] ? 10 ** o.log10PhiStar[k]! : 1;
+    const dAlpha = o.alpha[k]!;
+    const c0 = tb.count[k];
+    const c1 = tb.lum[k];
+    if (c0) count += phiScale * Math.exp(chebyshevAt(c0, o.characteristic, dAlpha));
+    if (!withLum) continue;
+    if (c1) detected += phiScale * lumFactor * Math.exp(chebyshevAt(c1, o.characteristic, dAlpha));
+    // every source's luminosity: the closed form at each node, as the exact path
+    const alphaK = f.alpha[k]!;
+    let lastAlpha = NaN;
+    let lastGamma = 0;
+    for (let i = 0; i < f.count && total !== undefined; i++) {
+      const order = alphaK[i]! + dAlpha + 2;
+      if (!(order > 0)) total = undefined;
+      else {
+        if (order !== lastAlpha) {
+          lastAlpha = order;
+          lastGamma = gammaFn(order);
+        }
+        total += f.allPhi[k]![i]! * phiScale * f.vw[i]! * f.lumScale[i]! * lumFactor * lastGamma;
+      }
+    }
+  }
+  out.count = count;
+  out.detected = detected;
+  out.total = total;
+}
+
+/**
  * Every slice of one population under each draw's offsets. `slices` are the plain prediction's
  * (counted with the engine's `drawNodes` option); `luminosity` also gives the luminosity per draw;
  * `histogramDraws` (0: none) the histograms of the first draws. A draw without offsets is the
@@ -328,7 +562,7 @@ export function populationDraws(
   cosmo: FlatCosmology,
   slices: readonly SliceCount[],
   offsets: readonly ModelOffsets[],
-  options: { luminosity: boolean; histogramDraws: number },
+  options: { luminosity: boolean; histogramDraws: number; exact?: boolean },
 ): PopulationDraws {
   const s = settingOf(survey, population, cosmo);
   const n = offsets.length;
@@ -341,12 +575,19 @@ export function populationDraws(
   const res = { count: 0, detected: 0, total: 0 as number | undefined };
   slices.forEach((sl, j) => {
     const f = flatten(sl.drawNodes ?? []);
+    const tables =
+      s.completeness && !options.exact && n >= TABLE_MIN_DRAWS && f.count > 0
+        ? sliceTables(f, s, offsets, detected !== undefined)
+        : undefined;
+    if (s.completeness && f.count > 0) drawPaths[tables ? 'tabulated' : 'exact']++;
     for (let i = 0; i < n; i++) {
       const o = offsets[i]!;
       if (isZero(o) || f.count === 0) {
         res.count = sl.count;
         res.detected = sl.luminosity?.detected ?? 0;
         res.total = sl.luminosity?.total;
+      } else if (tables) {
+        sliceFromTables(f, tables, o, lumFactors[i]!, detected !== undefined, res);
       } else {
         sliceUnderDraw(f, s, o, lumFactors[i]!, detected !== undefined, res);
       }

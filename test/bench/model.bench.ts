@@ -2,7 +2,9 @@
  * predict's spread under the model's own uncertainty (model_uncertainty; src/counts/model-draws.ts)
  * as a library call: 1,000 draws of a 10-slice survey (target under 0.5 s), with a hard limit, a
  * tabulated completeness and a logistic one. Each case is the draws alone (populationDraws on the
- * nodes of one plain count), and predict with and without them.
+ * nodes of one plain count; where the completeness varies, by the slice tables and, for
+ * comparison, by the exact path that redoes every node's quadrature per draw), and predict with and
+ * without them.
  */
 import type { BenchCase } from './run.js';
 import { loadSurveyText } from '../../src/survey/load.js';
@@ -30,12 +32,12 @@ const logistic = loadSurveyText(
   'logistic.yaml',
 );
 
-function drawsOnly(s: typeof hard, histogramDraws: number) {
+function drawsOnly(s: typeof hard, histogramDraws: number, exact = false) {
   const pop = s.populations[0]!;
   const cosmo = new FlatCosmology(s.cosmology);
   const own = countPopulation(s, pop, cosmo, pop.sliceEdges, { drawNodes: true });
   const offsets = drawModelOffsets(pop.modelUncertainty!, 1, 1000, 1, 0);
-  return () => populationDraws(s, pop, cosmo, own, offsets, { luminosity: true, histogramDraws });
+  return () => populationDraws(s, pop, cosmo, own, offsets, { luminosity: true, histogramDraws, exact });
 }
 
 export const cases: BenchCase[] = [];
@@ -47,6 +49,15 @@ for (const [name, s] of [
   cases.push(
     { name: `model draws: 1000 draws, 10 slices, ${name}: counts and densities`, run: drawsOnly(s, 0), repeats: 5 },
     { name: `model draws: 1000 draws, 10 slices, ${name}: with 100 histograms`, run: drawsOnly(s, 100), repeats: 5 },
+    ...(name === 'hard limit'
+      ? []
+      : [
+          {
+            name: `model draws: 1000 draws, 10 slices, ${name}: exact path`,
+            run: drawsOnly(s, 0, true),
+            repeats: name === 'logistic completeness' ? 1 : 3,
+          },
+        ]),
     { name: `model draws: predict, 10 slices, ${name}, 1000 draws`, run: () => predict(s), repeats: 5 },
     {
       name: `model draws: predict, 10 slices, ${name}, no draws`,

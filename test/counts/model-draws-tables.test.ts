@@ -1,0 +1,137 @@
+/**
+ * The tabulated path of the model's draws where the completeness varies (src/counts/model-draws.ts,
+ * SliceTables) against the exact path (every draw's completeness quadrature at every node, itself
+ * checked against the engine at the same offsets in test/counts/model-uncertainty.test.ts).
+ *
+ * Tolerance 1e-8 relative on each draw's count and detected luminosity: the tables' Chebyshev
+ * tails are held below 1e-10 of the logarithm's scale (an estimate, hence the margin of 100), which
+ * is far below the 1e-6 a percentile needs and five orders below the Monte Carlo error of 1,000
+ * draws (about 1.25 sigma / sqrt(1000), a few per cent of the band's width). The luminosity of all
+ * sources is the same closed form on both paths: 1e-12.
+ */
+import { describe, expect, test } from 'vitest';
+import { readFileSync } from 'node:fs';
+import { parse } from 'yaml';
+import { parseSurveyObject } from '../../src/survey/index.js';
+import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
+import { countPopulation } from '../../src/counts/engine.js';
+import { drawModelOffsets, drawPaths, populationDraws, TABLE_MIN_DRAWS } from '../../src/counts/model-draws.js';
+
+const DIR = 'test/reference/surveys-model';
+const DRAWS = 80;
+
+type Obj = Record<string, unknown> & { detection: Record<string, unknown>; population: Record<string, unknown> };
+const read = (file: string) => parse(readFileSync(file, 'utf8')) as Obj;
+
+function compare(obj: Obj, file: string, expectTabulated: boolean) {
+  const survey = parseSurveyObject(obj, file);
+  const pop = survey.populations[0]!;
+  const cosmo = new FlatCosmology(survey.cosmology);
+  const own = countPopulation(survey, pop, cosmo, pop.sliceEdges, { drawNodes: true });
+  const offsets = drawModelOffsets(pop.modelUncertainty!, pop.components.length, DRAWS, 3, 0);
+  const before = drawPaths.tabulated;
+  const fast = populationDraws(survey, pop, cosmo, own, offsets, { luminosity: true, histogramDraws: 0 });
+  const used = drawPaths.tabulated - before;
+  const exact = populationDraws(survey, pop, cosmo, own, offsets, {
+    luminosity: true,
+    histogramDraws: 0,
+    exact: true,
+  });
+  if (expectTabulated) expect(used, 'slices tabulated').toBe(own.filter((s) => (s.drawNodes?.length ?? 0) > 0).length);
+  else expect(used, 'slices tabulated').toBe(0);
+  let worst = 0;
+  exact.counts.forEach((c, j) =>
+    c.forEach((v, i) => {
+      const rel = (x: number, y: number) => (y === 0 ? Math.abs(x) : Math.abs(x / y - 1));
+      worst = Math.max(worst, rel(fast.counts[j]![i]!, v));
+      expect(rel(fast.counts[j]![i]!, v), `slice ${j} draw ${i} count`).toBeLessThan(1e-8);
+      const d = exact.luminosity!.detected[j]![i]!;
+      expect(rel(fast.luminosity!.detected[j]![i]!, d), `slice ${j} draw ${i} detected`).toBeLessThan(1e-8);
+      const t = exact.luminosity!.total?.[j]![i];
+      if (t !== undefined) expect(rel(fast.luminosity!.total![j]![i]!, t)).toBeLessThan(1e-12);
+    }),
+  );
+  // the draws do move the counts (the comparison is not of constants)
+  const c0 = exact.counts[0]!;
+  expect(Math.max(...c0) / Math.min(...c0)).toBeGreaterThan(1.05);
+  return worst;
+}
+
+describe('tabulated draws equal the exact path (1e-8 relative)', () => {
+  test('the tables start at enough draws', () => expect(DRAWS).toBeGreaterThanOrEqual(TABLE_MIN_DRAWS));
+
+  const line = read(`${DIR}/line-correlated.yaml`);
+  test('line flux, alpha evolving, completeness table, correlated sigmas', () => {
+    const obj = {
+      ...line,
+      detection: {
+        ...line.detection,
+        completeness: {
+          model: 'table',
+          table: [
+            [1.5e-16, 0.4],
+            [3e-16, 0.8],
+            [1e-15, 0.97],
+          ],
+        },
+      },
+      slices: { count: 3 },
+    };
+    compare(obj, `${DIR}/line-correlated.yaml`, true);
+  });
+
+  test('line flux, logistic completeness, wide sigmas (0.3 in alpha, 0.25 dex in L*)', () => {
+    const obj = {
+      ...line,
+      detection: { ...line.detection, completeness: { model: 'logistic', half: 2.5e-16, width: 0.15 } },
+      population: {
+        ...line.population,
+        model_uncertainty: {
+          log10_phi_star: 0.2,
+          log10_l_star: 0.25,
+          alpha: 0.3,
+          correlation: { 'log10_l_star-alpha': -0.6 },
+        },
+      },
+      slices: { count: 2 },
+    };
+    compare(obj, `${DIR}/line-correlated.yaml`, true);
+  });
+
+  test('magnitudes (slope -2.5), M* and alpha evolving, logistic completeness', () => {
+    const uv = read(`${DIR}/uv-magnitude.yaml`);
+    const obj = {
+      ...uv,
+      detection: { ...uv.detection, completeness: { model: 'logistic', half: 28.5, width: 0.2 } },
+      slices: { width: 1.5 },
+    };
+    compare(obj, `${DIR}/uv-magnitude.yaml`, true);
+  });
+
+  test('dropout sample: redshift selection weights and a logistic completeness', () => {
+    const obj = read('samples/dropout-field.yaml');
+    obj.population = {
+      ...obj.population,
+      model_uncertainty: { log10_phi_star: 0.1, m_star: 0.15, alpha: 0.1, correlation: { 'm_star-alpha': 0.5 } },
+    };
+    compare(obj, 'samples/dropout-field.yaml', true);
+  });
+
+  const mass = read(`${DIR}/double-schechter-mass.yaml`);
+  test('double Schechter, constant threshold with a logistic completeness: two components tabulated', () => {
+    const obj = {
+      ...mass,
+      detection: { kind: 'threshold', limit: 9.2, completeness: { model: 'logistic', half: 9.5, width: 0.1 } },
+    };
+    compare(obj, `${DIR}/double-schechter-mass.yaml`, true);
+  });
+
+  test('a threshold limit tabulated in z (the limit differs from node to node): the exact path', () => {
+    const obj = {
+      ...mass,
+      detection: { ...mass.detection, completeness: { model: 'logistic', half: 9.9, width: 0.1 } },
+      slices: { width: 0.4 },
+    };
+    compare(obj, `${DIR}/double-schechter-mass.yaml`, false);
+  });
+});
