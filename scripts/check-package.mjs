@@ -48,6 +48,7 @@ try {
     'dist/index.js',
     'dist/index.d.ts',
     'dist/worker.js',
+    'dist/mathjs.cjs',
     'dist/cli/skytally.js',
   ]) {
     check(paths.has(p), `the tarball holds ${p}`);
