@@ -38,7 +38,8 @@ export const predictCommand: CommandDef = {
     const p = predict(survey, { model });
     printWarnings(io, p.warnings);
     outputs.setMain(renderText(opts, { json: () => p, table: () => predictionTable(p), csv: () => predictionCsv(p) }));
-    if (draw) outputs.setFigures(await draw.figureFiles(io, await draw.drawFigures(survey, p)));
+    if (draw)
+      outputs.setFigures(await draw.figureFiles(io, await draw.drawFigures(survey, p, { modelSeed: model.seed })));
     outputs.commit();
     return 0;
   },
