@@ -6,6 +6,7 @@
 // see our names) and every file has a source map back to src/.
 import { execFileSync } from 'node:child_process';
 import { rmSync } from 'node:fs';
+import { join, resolve } from 'node:path';
 import { build } from 'esbuild';
 import { bundleExplorePage } from './explore-bundle.mjs';
 
@@ -17,8 +18,34 @@ execFileSync(
     stdio: 'inherit',
   },
 );
+// mathjs (its parser for unusual expressions in z, its units for unusual unit strings) in a file of
+// its own, loaded synchronously on first use through the package's private import #mathjs
+// (src/survey/mathjs-lazy.ts takes the place of src/survey/mathjs.ts in the bundles below), so that
+// the program does not read and compile it at every start.
+const survey = resolve('src/survey');
+const lazyMathjs = {
+  name: 'lazy-mathjs',
+  setup(b) {
+    b.onResolve({ filter: /^\.\/mathjs\.js$/ }, (args) =>
+      args.importer.startsWith(survey) ? { path: join(survey, 'mathjs-lazy.ts') } : undefined,
+    );
+  },
+};
+await build({
+  entryPoints: ['src/survey/mathjs.ts'],
+  outfile: 'dist/mathjs.cjs',
+  bundle: true,
+  format: 'cjs',
+  platform: 'node',
+  target: 'node20',
+  minify: false,
+  sourcemap: true,
+  legalComments: 'eof',
+  logLevel: 'warning',
+});
 await build({
   entryPoints: { index: 'src/index.ts', 'cli/skytally': 'src/cli/main.ts', worker: 'src/worker.ts' },
+  plugins: [lazyMathjs],
   outdir: 'dist',
   bundle: true,
   splitting: true,

@@ -34,12 +34,8 @@ import { completenessQuadrature, type CompletenessQuadrature } from './completen
 import { componentsTotalLuminosity } from '../population/schechter.js';
 import { histogramCount, schechterBetween, type NodeState, type SliceCount } from './engine.js';
 
-/** Default number of draws (predict's --draws). */
-export const DEFAULT_MODEL_DRAWS = 1000;
-/** Default seed (predict's --seed). */
-export const DEFAULT_MODEL_SEED = 1;
-/** Most draws a prediction may ask for. */
-export const MAX_MODEL_DRAWS = 100_000;
+// (defined with the model, so that the command line reads them without loading this module)
+export { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED, MAX_MODEL_DRAWS } from '../model/model-uncertainty.js';
 /**
  * Draws whose histograms are made (the first ones): a histogram costs one incomplete gamma
  * function per bin edge and node, some twenty times a count, so the per-bin percentiles use at

@@ -50,7 +50,7 @@ import {
   type UncertaintyMemo,
 } from '../uncertainty/prediction.js';
 import { describeModel } from '../population/describe.js';
-import { bandRedEdgeAngstrom, LYMAN_ALPHA_ANGSTROM } from '../selection/igm.js';
+import { predictionWarnings } from './warnings.js';
 import { mergeWarnings, warning, type Warning } from '../warnings.js';
 import { precise } from '../render/format.js';
 import { surveyWarnings } from '../population/warnings.js';
@@ -238,60 +238,6 @@ function sameEdges(a: readonly number[], b: readonly number[]): boolean {
 }
 
 /**
- * Warnings about the band and the slices (the magnitude kind's Lyman-alpha check; populations
- * outside the slices), for the given populations (default: all).
- */
-export function predictionWarnings(survey: Survey, populations: readonly Population[] = survey.populations): Warning[] {
-  const out: Warning[] = [];
-  const d = survey.detection;
-  if (d.kind === 'magnitude') {
-    // A spectrum's band: a top-hat's red end, a gaussian's center + fwhm (1/16 of its peak), a table's last row above 0.
-    const sedBand = d.sed?.band;
-    const red =
-      sedBand && sedBand.profile !== 'table'
-        ? sedBand.centerAngstrom + (sedBand.profile === 'tophat' ? 0.5 : 1) * sedBand.fwhmAngstrom
-        : bandRedEdgeAngstrom(d.bandAngstrom, d.bandTable);
-    for (const p of populations) {
-      const zb = red / LYMAN_ALPHA_ANGSTROM - 1;
-      if (zb < p.window.max) {
-        const from = Math.max(zb, p.window.min);
-        const what =
-          d.bandTable || sedBand
-            ? 'the whole band (to its red edge at ' + fmtNum(red) + ' A)'
-            : 'the band (effective wavelength ' + fmtNum(red) + ' A)';
-        out.push(
-          warning(
-            'band_blueward_of_lyman_alpha',
-            `${p.name}: at z > ${fmtNum(from)} (its window is z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)}) ${what} lies blueward of rest-frame Lyman alpha (1216 A); ` +
-              (d.igm === 'madau1995'
-                ? d.sed
-                  ? 'the counts there include the Madau 1995 mean intergalactic transmission, applied to the spectrum inside the band'
-                  : 'the counts there include the Madau 1995 mean intergalactic transmission, and the power-law spectrum is extrapolated below 1216 A'
-                : d.sed
-                  ? "no intergalactic attenuation is applied there (detection.igm is none; the spectrum's own features are all that dims it), so those counts are too high; consider igm: madau1995"
-                  : 'no intergalactic attenuation is applied there (detection.igm is none), so those counts are too high; consider igm: madau1995'),
-          ),
-        );
-      }
-    }
-  }
-  for (const p of populations) {
-    // Only explicit edges can leave a population's own slices outside its window.
-    const lo = p.sliceEdges[0]!;
-    const hi = p.sliceEdges[p.sliceEdges.length - 1]!;
-    if (p.window.max <= lo || p.window.min >= hi) {
-      out.push(
-        warning(
-          'population_outside_slices',
-          `${p.name}: its window z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)} lies outside the slice edges (z = ${fmtNum(lo)} to ${fmtNum(hi)}), so it counts 0; give slice edges that reach it, or a slices count or width`,
-        ),
-      );
-    }
-  }
-  return out;
-}
-
-/**
  * Fewer than one source expected: in the whole survey (every population over its own window), or
  * from one population of several.
  */
@@ -316,6 +262,8 @@ export function detectionWarnings(
       ),
     );
 }
+
+export { predictionWarnings };
 
 const fmtNum = (x: number): string => precise(x, 4);
 

@@ -10,7 +10,13 @@
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Survey } from '../model/survey.js';
 import { describeModel } from '../population/describe.js';
-import type { FisherBlock, Forecast, ForecastSlice, MockParameterSummary } from '../model/outputs/forecast.js';
+import type {
+  FisherBlock,
+  Forecast,
+  ForecastSlice,
+  MockParameterSummary,
+  RequirementAtModel,
+} from '../model/outputs/forecast.js';
 import { choosePopulation, surveyForPopulation } from '../model/select.js';
 import { inputError } from '../errors.js';
 import { buildDensityGrid } from './grid.js';
@@ -18,8 +24,11 @@ import { fisherParts, marginaliseNormalisations, summariseFisher, type FisherSum
 import { parameterNames, parameterValuesAt } from './parameters.js';
 import { cosmicVarianceInput, type CosmicVarianceSource } from './cosmic-variance-input.js';
 import { makeMockSetup, runMocks } from './mocks.js';
+import { defaultWorkers } from '../parallel/blocks.js';
 import type { Estimator } from './fit.js';
 import { requirement } from './requirement.js';
+import { drawnFisher, forecastDrawOffsets, spreadBlock, type DrawnFisher } from './model-spread.js';
+import { DEFAULT_MODEL_SEED } from '../counts/model-draws.js';
 import { mergeWarnings, type Warning } from '../warnings.js';
 import { surveyWarnings } from '../population/warnings.js';
 import { predictionWarnings } from '../counts/predict.js';
@@ -37,10 +46,17 @@ export interface ForecastOptions {
   /** Number of mock surveys (0 or absent: none). */
   mocks?: number;
   seed?: number;
+  /** Most worker threads for the mocks (default up to 4; threads start only beyond the break-even of src/parallel/blocks.ts; results are identical). */
   workers?: number;
   estimator?: Estimator;
   /** Target sigmas by parameter name. */
   targets?: Record<string, number>;
+  /**
+   * Draws of the population's model_uncertainty (0 or absent: none): the sigmas' percentiles across
+   * them (`model_spread`) and, with targets, the area and limit at the draws' p50 and p84. Seeded
+   * with `seed` (default 1); a draws file uses each row once whatever the number.
+   */
+  modelDraws?: number;
   /** Keep every converged mock fit in `mocks.fits` (the report scatters them; default false). */
   keepFits?: boolean;
   onProgress?: (done: number, total: number) => void;
@@ -156,12 +172,22 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
     warnings: mergeWarnings(surveyWarnings(survey), predictionWarnings(survey, [population]), cvWarnings),
   };
 
+  let drawn: { thetas: number[][]; fisher: DrawnFisher } | undefined;
+  if (opts.modelDraws && opts.modelDraws > 0) {
+    const seed = opts.seed ?? DEFAULT_MODEL_SEED;
+    const { thetas, source } = forecastDrawOffsets(file, population, opts.modelDraws, seed);
+    const fisher = drawnFisher(grid, parts, thetas, fractions);
+    drawn = { thetas, fisher };
+    const block = spreadBlock(names, fisher, { draws: opts.modelDraws, seed, source, cosmicVariance: !!fractions });
+    if (block) out.model_spread = block;
+  }
+
   if (opts.mocks && opts.mocks > 0) {
     const estimator = opts.estimator ?? 'ml';
     const seed = opts.seed ?? 1;
     const cvSigma = fractions ?? parts.slices.map(() => 0);
     const run = await runMocks(makeMockSetup(grid, cvSigma, estimator, seed), opts.mocks, {
-      workers: opts.workers ?? 1,
+      workers: opts.workers ?? defaultWorkers(),
       ...(opts.onProgress ? { onProgress: opts.onProgress } : {}),
     });
     let failed = 0;
@@ -218,10 +244,18 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
   }
 
   if (opts.targets && Object.keys(opts.targets).length > 0) {
-    out.requirement = requirement(
-      { survey, population, cosmo, names, parts, ...(cvSource ? { cosmicVariance: cvSource } : {}) },
-      opts.targets,
-    );
+    const ctx = { survey, population, cosmo, names, parts, ...(cvSource ? { cosmicVariance: cvSource } : {}) };
+    out.requirement = requirement(ctx, opts.targets);
+    if (drawn && out.model_spread) {
+      const at = (probability: number): RequirementAtModel => {
+        const r = requirement(
+          { ...ctx, spread: { thetas: drawn.thetas, parts: drawn.fisher.parts, probability } },
+          opts.targets!,
+        );
+        return { area_deg2: r.area_deg2, limit: r.limit, by_parameter: r.by_parameter, notes: r.notes };
+      };
+      out.requirement.model = { draws: drawn.thetas.length, p50: at(0.5), p84: at(0.84) };
+    }
   }
   return out;
 }

@@ -21,7 +21,8 @@ import { FULL_SKY_DEG2, MIN_AREA_DEG2, SR_PER_DEG2 } from '../model/sky.js';
 import { precise } from '../render/format.js';
 import { brent, expandBracket } from '../numerics/roots.js';
 import { buildDensityGrid } from './grid.js';
-import { fisherParts, marginaliseNormalisations, summariseFisher, type FisherParts } from './fisher.js';
+import { fisherParts, fisherPartsAt, marginaliseNormalisations, summariseFisher, type FisherParts } from './fisher.js';
+import { percentilesOf } from '../counts/model-draws.js';
 import type { CosmicVarianceSource } from './cosmic-variance-input.js';
 import type { ParameterName } from './parameters.js';
 import type { Requirement, RequirementEntry } from '../model/outputs/forecast.js';
@@ -34,6 +35,14 @@ export interface RequirementContext {
   /** Parts at the survey's own area and depth. */
   parts: FisherParts;
   cosmicVariance?: CosmicVarianceSource;
+  /**
+   * Under the model's own uncertainty: the draws' offsets [d log10 phi*, d characteristic, d alpha]
+   * and each draw's parts at the survey's own area and depth; every sigma is then the
+   * `probability` percentile (type 7) of the draws' sigmas, so that the area or limit found meets
+   * the target in that fraction of the draws (each draw's sigma falls as the area grows or the
+   * limit deepens). The cosmic-variance fractions are the assumed model's at each trial survey.
+   */
+  spread?: { thetas: readonly (readonly number[])[]; parts: readonly FisherParts[]; probability: number };
 }
 
 function sigmaFrom(parts: FisherParts, fractions: number[] | undefined): number[] {
@@ -41,6 +50,23 @@ function sigmaFrom(parts: FisherParts, fractions: number[] | undefined): number[
   const s = summariseFisher(m);
   return s ? s.sigma : parts.matrix.map(() => Infinity);
 }
+
+/** Each parameter's sigma: of the one set of parts, or the percentile over the draws' parts. */
+function sigmaOf(partsList: readonly FisherParts[], fractions: number[] | undefined, p: number | undefined): number[] {
+  if (p === undefined) return sigmaFrom(partsList[0]!, fractions);
+  const per = partsList.map((parts) =>
+    parts.count > 0 ? sigmaFrom(parts, fractions) : parts.matrix.map(() => Infinity),
+  );
+  return per[0]!.map((_, j) => {
+    const v = percentilesOf(
+      per.map((s) => s[j]!),
+      [p],
+    )[0]!;
+    return Number.isNaN(v) ? Infinity : v;
+  });
+}
+
+const isZero = (theta: readonly number[]) => theta.every((v) => v === 0);
 
 function scaleParts(p: FisherParts, f: number): FisherParts {
   return {
@@ -118,12 +144,15 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
   const span = unit === 'dex' ? 3 : 7.5;
   const a0 = survey.areaDeg2;
 
+  const spread = ctx.spread;
+  const p = spread?.probability;
   // sigma as a function of area (Poisson information scaled; fractions asked at each area)
-  const perArea = scaleParts(ctx.parts, 1 / a0);
+  const perArea = (spread ? spread.parts : [ctx.parts]).map((q) => scaleParts(q, 1 / a0));
   const sigmaAtArea = (areaDeg2: number, withCv = true): number[] =>
-    sigmaFrom(
-      scaleParts(perArea, areaDeg2),
+    sigmaOf(
+      perArea.map((q) => scaleParts(q, areaDeg2)),
       cv && withCv ? cv(withArea(survey, areaDeg2), edges, population) : undefined,
+      p,
     );
   const depthCache = new Map<string, number[]>();
   const sigmaAtDepth = (delta: number, withCv = true): number[] => {
@@ -131,10 +160,12 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
     const hit = depthCache.get(key);
     if (hit) return hit;
     const s2 = deeperSurvey(survey, population, delta).survey;
-    const parts = fisherParts(buildDensityGrid(s2, population, cosmo, edges));
+    const grid = buildDensityGrid(s2, population, cosmo, edges);
+    const plain = fisherParts(grid);
+    const list = spread ? spread.thetas.map((th) => (isZero(th) ? plain : fisherPartsAt(grid, th))) : [plain];
     const sig =
-      parts.count > 0
-        ? sigmaFrom(parts, cv && withCv ? cv(s2, edges, population) : undefined)
+      spread || plain.count > 0
+        ? sigmaOf(list, cv && withCv && plain.count > 0 ? cv(s2, edges, population) : undefined, p)
         : names.map(() => Infinity);
     depthCache.set(key, sig);
     return sig;

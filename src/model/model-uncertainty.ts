@@ -5,6 +5,13 @@
  * correlations) or read from a file of draws (one draw a row).
  */
 
+/** Default number of draws (predict's --draws). */
+export const DEFAULT_MODEL_DRAWS = 1000;
+/** Default seed (predict's --seed). */
+export const DEFAULT_MODEL_SEED = 1;
+/** Most draws a prediction may ask for. */
+export const MAX_MODEL_DRAWS = 100_000;
+
 /** The parameters a model uncertainty may name (double Schechter: _1 and _2, sharing L* or M*). */
 export type ModelParameter =
   | 'log10_phi_star'

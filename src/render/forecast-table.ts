@@ -48,6 +48,20 @@ export function forecastTable(f: Forecast): string {
       .filter((s) => s)
       .join(', ')}`,
   );
+  const ms = f.model_spread;
+  if (ms) {
+    lines.push(
+      `Across the model (${ms.draws} ${ms.source === 'draws_file' ? 'rows of its draws file' : `draws of its model_uncertainty, seed ${ms.seed}`}; p16-p84 of the sigmas):`,
+    );
+    for (const n of f.parameters) {
+      const q = ms.sigma[n];
+      if (q)
+        lines.push(
+          `  sigma(${n}) = ${sig(f.fisher.sigma[n]!, 3)} (${sig(q.p16, 3)}-${sig(q.p84, 3)} across the model)`,
+        );
+    }
+    for (const note of ms.notes) lines.push(`  ${note}`);
+  }
   if (m) {
     lines.push(
       `Mocks: ${m.count} surveys (seed ${m.seed}, ${m.estimator === 'sty' ? 'STY shape-only estimator' : 'extended maximum likelihood'}), ${sig(m.mean_sources, 5)} sources on average, ${m.failed_fits} failed fits`,
@@ -72,6 +86,22 @@ export function forecastTable(f: Forecast): string {
       lines.push(`  sigma(${n}) = ${sig(e.target)}: ${area}; ${limit}`);
       for (const note of e.notes) lines.push(`    ${note}`);
     }
+    if (r.model) {
+      const cases = [
+        ["at the model's median (p50)", r.model.p50],
+        ["at the model's pessimistic case (p84: met in 84% of the draws)", r.model.p84],
+      ] as const;
+      for (const [label, at] of cases) {
+        lines.push(`  ${label}:`);
+        for (const [n, e] of Object.entries(at.by_parameter)) {
+          const area = e.area_deg2 !== null ? `${sig(e.area_deg2, 3)} deg^2 at this depth` : 'no area at this depth';
+          const limit =
+            e.limit !== null ? `a limit of ${sig(e.limit, 4)}${unit} at this area` : 'no limit at this area';
+          lines.push(`    sigma(${n}) = ${sig(e.target)}: ${area}; ${limit}`);
+          for (const note of e.notes) lines.push(`      ${note}`);
+        }
+      }
+    }
   }
   lines.push(f.caveat, '');
   return lines.join('\n');
@@ -92,7 +122,16 @@ export function forecastCsv(f: Forecast): string {
       'mock_offset',
       'mock_offset_in_standard_errors',
     );
+  const ms = f.model_spread;
+  if (ms) head.push('sigma_model_p16', 'sigma_model_p50', 'sigma_model_p84');
   if (r) head.push('target', 'area_deg2_needed', `limit_needed_${r.limit_variable}`);
+  if (r?.model)
+    head.push(
+      'area_deg2_needed_model_p50',
+      `limit_needed_model_p50_${r.limit_variable}`,
+      'area_deg2_needed_model_p84',
+      `limit_needed_model_p84_${r.limit_variable}`,
+    );
   const rows = f.parameters.map((n) => {
     const row: CsvCell[] = [n, f.center[n]!, f.fisher.sigma[n]!, f.fisher_poisson_only.sigma[n]!];
     if (m) {
@@ -101,9 +140,18 @@ export function forecastCsv(f: Forecast): string {
         ...(s ? [s.mean, s.std, s.p16, s.p50, s.p84, s.bias, s.bias_in_standard_errors] : ['', '', '', '', '', '', '']),
       );
     }
+    if (ms) {
+      const q = ms.sigma[n];
+      row.push(q?.p16 ?? '', q?.p50 ?? '', q?.p84 ?? '');
+    }
     if (r) {
       const e = r.by_parameter[n];
       row.push(e ? e.target : '', e?.area_deg2 ?? '', e?.limit ?? '');
+    }
+    if (r?.model) {
+      const a = r.model.p50.by_parameter[n];
+      const b = r.model.p84.by_parameter[n];
+      row.push(a?.area_deg2 ?? '', a?.limit ?? '', b?.area_deg2 ?? '', b?.limit ?? '');
     }
     return row;
   });

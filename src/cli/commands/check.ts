@@ -20,7 +20,7 @@ export const checkCommand: CommandDef = {
     outputs.refuseInputs(survey.inputs ?? []);
     const { describeSurvey } = await import('../../survey/index.js');
     const { surveyWarnings } = await import('../../population/warnings.js');
-    const { predictionWarnings } = await import('../../counts/predict.js');
+    const { predictionWarnings } = await import('../../counts/warnings.js');
     const { mergeWarnings } = await import('../../warnings.js');
     // What can be said without counting: implausible values, the band against Lyman alpha, windows outside the slices.
     const warnings = mergeWarnings(surveyWarnings(survey), predictionWarnings(survey));

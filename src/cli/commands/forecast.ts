@@ -20,13 +20,20 @@ export const forecastCommand: CommandDef = {
   configure(cmd) {
     cmd.argument('<survey>', 'survey file (YAML)');
     cmd.option('--mocks <N>', 'also draw N mock surveys and fit each by maximum likelihood');
-    cmd.option('--seed <S>', 'seed of the mock surveys (integer 0 to 4294967295; default 1)');
+    cmd.option('--seed <S>', 'seed of the mock surveys and model draws (integer 0 to 4294967295; default 1)');
+    cmd.option(
+      '--model-draws <N>',
+      `recompute the sigmas at N draws of the population's model_uncertainty (1 to ${MAX_FORECAST_MODEL_DRAWS}) and report their p16, p50 and p84 (with --target, the area and limit at p50 and p84)`,
+    );
     cmd.option(
       '--target <list>',
       'target sigmas, e.g. alpha=0.1 or alpha=0.1,log10_l_star=0.05: report the area and the limit that reach them',
     );
     cmd.option('--no-cosmic-variance', 'leave out the cosmic-variance normalisation of each slice (Poisson only)');
-    cmd.option('--workers <K>', 'worker threads for the mocks (default 1)');
+    cmd.option(
+      '--workers <K>',
+      'most worker threads for the mocks (default: up to 4; threads start only when the mocks are long enough to pay for them; results are identical)',
+    );
     cmd.option('--population <name>', 'the population to forecast (default: the first)');
     cmd.option(
       '--list-mock-fits',
@@ -48,8 +55,13 @@ export const forecastCommand: CommandDef = {
     const raw = cmd.opts();
     const out = outputOptions(raw);
     const { mocks, seed } = mockOptions(raw);
+    const modelDraws =
+      raw.modelDraws === undefined
+        ? 0
+        : parseInteger(optionText(raw.modelDraws), '--model-draws', 1, MAX_FORECAST_MODEL_DRAWS);
     const maxWorkers = availableParallelism();
-    const workers = raw.workers === undefined ? 1 : parseInteger(String(raw.workers), '--workers', 1, maxWorkers);
+    const workers =
+      raw.workers === undefined ? undefined : parseInteger(String(raw.workers), '--workers', 1, maxWorkers);
     const outputs = new Outputs(io, {
       out: out.out,
       figures: typeof raw.figures === 'string' ? raw.figures : undefined,
@@ -70,8 +82,9 @@ export const forecastCommand: CommandDef = {
       cosmicVariance: raw.cosmicVariance !== false,
       mocks,
       seed,
-      workers,
+      ...(workers ? { workers } : {}),
       estimator: raw.estimator === 'sty' ? 'sty' : 'ml',
+      modelDraws,
       ...(targets ? { targets } : {}),
       // the figure scatters the mock fits; the JSON lists them only with --list-mock-fits
       ...(keepFits || draw ? { keepFits: true } : {}),
@@ -99,6 +112,9 @@ function withoutFits<T extends { fits?: unknown }>(m: T): Omit<T, 'fits'> {
   const { fits: _fits, ...rest } = m;
   return rest;
 }
+
+/** Most model draws one forecast may recompute its Fisher matrix for (--model-draws). */
+export const MAX_FORECAST_MODEL_DRAWS = 10_000;
 
 /** Most mock surveys one run may draw (about 20 ms each on one core for a deep field). */
 export const MAX_MOCKS = 10_000;

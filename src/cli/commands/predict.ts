@@ -1,6 +1,6 @@
 import type { CommandDef } from './types.js';
 import { addOutputOptions, loadSurveyArg, optionText, outputOptions, parseInteger, printWarnings } from './common.js';
-import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED, MAX_MODEL_DRAWS } from '../../counts/model-draws.js';
+import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED, MAX_MODEL_DRAWS } from '../../model/model-uncertainty.js';
 import { Outputs, renderText } from '../io.js';
 
 export const predictCommand: CommandDef = {

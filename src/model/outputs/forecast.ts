@@ -38,6 +38,7 @@ export interface Forecast {
   covariance: Matrix;
   fisher_poisson_only: FisherBlock;
   mocks?: MocksBlock;
+  model_spread?: ForecastModelSpread;
   requirement?: Requirement;
   /**
    * What the reader should know although nothing stopped the work (also printed on stderr, one line each); empty when there is nothing to say.
@@ -95,6 +96,45 @@ export interface MockParameterSummary {
    */
   bias_in_standard_errors: number;
 }
+/**
+ * The Fisher sigmas recomputed at each draw of the population's model_uncertainty (constant offsets to log10 phi*, log10 L* or M*, alpha at every redshift), on the survey's one density grid, with the assumed model's cosmic-variance fractions; percentiles linear between order statistics (Hyndman & Fan type 7).
+ */
+export interface ForecastModelSpread {
+  /**
+   * Draws whose Fisher matrix is not singular (the percentiles' sample).
+   */
+  draws: number;
+  /**
+   * The --seed of the normal draws (the same seed as predict's --seed gives predict's draws).
+   */
+  seed: number;
+  /**
+   * normal: drawn from the sigmas and correlations; draws_file: every row of the file once.
+   */
+  source: 'normal' | 'draws_file';
+  /**
+   * Per parameter, p16, p50 and p84 of the draws' sigmas with the cosmic-variance nuisances marginalised (Poisson only with --no-cosmic-variance).
+   */
+  sigma: {
+    [k: string]: SigmaPercentiles;
+  };
+  /**
+   * The same, Poisson only.
+   */
+  sigma_poisson_only: {
+    [k: string]: SigmaPercentiles;
+  };
+  /**
+   * Draws left out because their Fisher matrix is singular.
+   */
+  failed_draws: number;
+  notes: string[];
+}
+export interface SigmaPercentiles {
+  p16: number;
+  p50: number;
+  p84: number;
+}
 export interface Requirement {
   target: ByParameter;
   /**
@@ -127,6 +167,7 @@ export interface Requirement {
     limit: number[];
   };
   notes: string[];
+  model?: RequirementModel;
 }
 export interface RequirementEntry {
   target: number;
@@ -135,5 +176,27 @@ export interface RequirementEntry {
   /**
    * Why a null: beyond the full sky, a cosmic-variance floor, or outside the searched limits.
    */
+  notes: string[];
+}
+/**
+ * With --model-draws: the area and limit needed under the model's own uncertainty. p50: the target met at the median of the draws' sigmas (half the draws); p84: at their 84th percentile (84% of the draws: the pessimistic case).
+ */
+export interface RequirementModel {
+  draws: number;
+  p50: RequirementAtModel;
+  p84: RequirementAtModel;
+}
+export interface RequirementAtModel {
+  /**
+   * Area reaching every target at the survey's depth in this share of the draws; null if some target cannot be reached by area.
+   */
+  area_deg2: number | null;
+  /**
+   * Limit reaching every target at the survey's area in this share of the draws, in limit_variable; null if some target cannot be reached.
+   */
+  limit: number | null;
+  by_parameter: {
+    [k: string]: RequirementEntry;
+  };
   notes: string[];
 }
