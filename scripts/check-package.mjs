@@ -49,6 +49,7 @@ try {
     'dist/index.d.ts',
     'dist/worker.js',
     'dist/mathjs.cjs',
+    'dist/random.cjs',
     'dist/cli/skytally.js',
   ]) {
     check(paths.has(p), `the tarball holds ${p}`);

@@ -92,9 +92,14 @@ export const forecastCommand: CommandDef = {
     });
     printWarnings(io, result.warnings);
     const shown = keepFits || !result.mocks?.fits ? result : { ...result, mocks: withoutFits(result.mocks) };
-    const { forecastTable, forecastCsv } = await import('../../render/forecast-table.js');
+    // The tables (and cli-table3) are loaded only for the table and CSV formats.
+    const tables = out.format === 'json' ? undefined : await import('../../render/forecast-table.js');
     outputs.setMain(
-      renderText(out, { json: () => shown, table: () => forecastTable(shown), csv: () => forecastCsv(shown) }),
+      renderText(out, {
+        json: () => shown,
+        table: () => tables!.forecastTable(shown),
+        csv: () => tables!.forecastCsv(shown),
+      }),
     );
     if (draw) {
       const { forecastFigure } = await import('../../render/figures.js');

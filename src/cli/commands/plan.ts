@@ -40,9 +40,14 @@ export const planCommand: CommandDef = {
       ...(io.stderrIsTTY ? { onProgress: progressBar(io) } : {}),
     });
     printWarnings(io, result.warnings);
-    const { planTable, planCsv } = await import('../../render/plan-table.js');
+    // The tables (and cli-table3) are loaded only for the table and CSV formats.
+    const tables = out.format === 'json' ? undefined : await import('../../render/plan-table.js');
     outputs.setMain(
-      renderText(out, { json: () => result, table: () => planTable(result), csv: () => planCsv(result) }),
+      renderText(out, {
+        json: () => result,
+        table: () => tables!.planTable(result),
+        csv: () => tables!.planCsv(result),
+      }),
     );
     if (draw) {
       const { planFigure } = await import('../../render/figures.js');
