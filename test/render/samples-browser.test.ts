@@ -37,6 +37,21 @@ const PHOTO_Z_SAMPLES = SAMPLES.filter((s) =>
 );
 const HOSTILE_TITLE = `Field <script>window.__pwned = 1</script> "><img src=x onerror="window.__pwned=2"> </svg><script>window.__pwned=3</script>`;
 
+/** The little of the DOM the page reads (the project compiles without the DOM library). */
+interface PageElement {
+  namespaceURI: string | null;
+  textContent: string | null;
+  getAttribute(name: string): string | null;
+  getBoundingClientRect(): { width: number; height: number };
+  querySelector(selector: string): PageElement | null;
+  querySelectorAll(selector: string): ArrayLike<PageElement> & Iterable<PageElement>;
+}
+interface PageGlobals {
+  document: { title: string; querySelectorAll(selector: string): ArrayLike<PageElement> & Iterable<PageElement> };
+  getComputedStyle(el: PageElement): { visibility: string };
+  __pwned?: number;
+}
+
 interface Opened {
   requests: string[];
   consoleErrors: string[];
@@ -91,31 +106,68 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
     });
     page.on('pageerror', (e) => o.pageErrors.push(String(e)));
     await page.goto(url, { waitUntil: 'load' });
-    const figures = page.locator('figure.figure');
-    for (let i = 0; i < (await figures.count()); i++) {
-      const f = figures.nth(i);
-      const id = (await f.getAttribute('id'))!.replace(/^figure-/, '');
-      const svg = f.locator(':scope > svg');
-      const box = await svg.boundingBox();
-      const marks = await svg.evaluate((el) =>
-        el.namespaceURI === 'http://www.w3.org/2000/svg' ? el.querySelectorAll('path, line, text').length : -1,
-      );
+    // Everything read from the page in one call (each call is a round trip to the browser, and a
+    // few hundred of them cost more than the rest of this file's browser work). As playwright's
+    // locators read them: an element asked for alone must be the only match (its strict mode),
+    // and visible means a non-empty bounding box and no visibility: hidden (its isVisible).
+    const read = await page.evaluate(() => {
+      const g = globalThis as unknown as PageGlobals;
+      const one = (selector: string): PageElement => {
+        const all = g.document.querySelectorAll(selector);
+        if (all.length !== 1) throw new Error(`${selector}: ${all.length} elements, expected one`);
+        return all[0]!;
+      };
+      const visible = (el: PageElement): boolean => {
+        const r = el.getBoundingClientRect();
+        return r.width > 0 && r.height > 0 && g.getComputedStyle(el).visibility !== 'hidden';
+      };
+      const figures = [...g.document.querySelectorAll('figure.figure')].map((f) => {
+        const svg = f.querySelector(':scope > svg');
+        const box = svg?.getBoundingClientRect();
+        return {
+          id: f.getAttribute('id'),
+          width: box?.width ?? 0,
+          height: box?.height ?? 0,
+          marks:
+            svg?.namespaceURI === 'http://www.w3.org/2000/svg' ? svg.querySelectorAll('path, line, text').length : -1,
+        };
+      });
+      const sections = ['forecast', 'plan'].map((id) => {
+        const sentence = g.document.querySelectorAll(`#${id}-omitted`).length > 0 ? one(`#${id}-omitted`) : null;
+        const table = g.document.querySelectorAll(`#${id}-table`).length > 0 ? one(`#${id}-table`) : null;
+        return {
+          id,
+          omitted: sentence && visible(sentence) ? (sentence.textContent ?? '') : null,
+          table: table !== null && visible(table),
+        };
+      });
+      return {
+        figures,
+        sections,
+        pwned: g.__pwned,
+        scripts: g.document.querySelectorAll('script').length,
+        images: g.document.querySelectorAll('img').length,
+        title: one('#survey-title').textContent,
+        docTitle: g.document.title,
+        surveyText: one('pre.survey').textContent,
+        warningVisible: visible(one('#model .warning')),
+      };
+    });
+    for (const f of read.figures) {
+      const id = f.id!.replace(/^figure-/, '');
       o.figureNames.push(id);
-      o.figureBoxes.push({ name: id, width: box?.width ?? 0, height: box?.height ?? 0, marks });
+      o.figureBoxes.push({ name: id, width: f.width, height: f.height, marks: f.marks });
     }
-    o.pwned = await page.evaluate(() => (globalThis as unknown as { __pwned?: number }).__pwned);
-    o.scripts = await page.locator('script').count();
-    o.images = await page.locator('img').count();
-    o.title = await page.locator('#survey-title').textContent();
-    o.docTitle = await page.title();
-    o.surveyText = await page.locator('pre.survey').textContent();
-    o.warningVisible = await page.locator('#model .warning').isVisible();
-    for (const id of ['forecast', 'plan']) {
-      const sentence = page.locator(`#${id}-omitted`);
-      if ((await sentence.count()) > 0 && (await sentence.isVisible()))
-        o.omitted[id] = (await sentence.textContent()) ?? '';
-      if ((await page.locator(`#${id}-table`).count()) > 0 && (await page.locator(`#${id}-table`).isVisible()))
-        o.tables.push(`${id}-table`);
+    o.pwned = read.pwned;
+    o.scripts = read.scripts;
+    o.images = read.images;
+    o.title = read.title;
+    o.docTitle = read.docTitle;
+    o.surveyText = read.surveyText;
+    o.warningVisible = read.warningVisible;
+    for (const x of read.sections) {
+      if (x.omitted !== null) o.omitted[x.id] = x.omitted;
+      if (x.table) o.tables.push(`${x.id}-table`);
     }
     o.screenshotBytes = (await page.screenshot({ path: join(OUT, `report-${name}.png`), fullPage: true })).length;
     await page.close();
