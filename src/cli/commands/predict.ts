@@ -41,7 +41,8 @@ export const predictCommand: CommandDef = {
     outputs.setMain(
       renderText(opts, { json: () => p, table: () => tables!.predictionTable(p), csv: () => tables!.predictionCsv(p) }),
     );
-    if (draw) outputs.setFigures(await draw.figureFiles(io, await draw.drawFigures(survey, p)));
+    if (draw)
+      outputs.setFigures(await draw.figureFiles(io, await draw.drawFigures(survey, p, { modelSeed: model.seed })));
     outputs.commit();
     return 0;
   },
