@@ -43,9 +43,55 @@ await build({
   legalComments: 'eof',
   logLevel: 'warning',
 });
+// The same for the random-number generators (@stdlib, some 280 kB with what they import, run when
+// loaded): only model draws and mock surveys use them, so they are bundled alone into
+// dist/random.cjs (the private import #random) and each import of one from src/ becomes an object
+// whose `factory` (the one function we call) requires that file on first use.
+const RANDOM = {
+  '@stdlib/random-base-mt19937': 'mt19937',
+  '@stdlib/random-base-normal': 'normal',
+  '@stdlib/random-base-poisson': 'poisson',
+};
+await build({
+  stdin: {
+    contents: Object.entries(RANDOM)
+      .map(([pkg, name]) => `export { default as ${name} } from '${pkg}';`)
+      .join('\n'),
+    resolveDir: '.',
+    sourcefile: 'random-generators.js',
+  },
+  outfile: 'dist/random.cjs',
+  bundle: true,
+  format: 'cjs',
+  platform: 'node',
+  target: 'node20',
+  minify: false,
+  sourcemap: true,
+  legalComments: 'eof',
+  logLevel: 'warning',
+});
+const src = resolve('src');
+const lazyRandom = {
+  name: 'lazy-random',
+  setup(b) {
+    const filter = new RegExp(`^(${Object.keys(RANDOM).join('|')})$`);
+    b.onResolve({ filter }, (args) =>
+      args.importer.startsWith(src) ? { path: RANDOM[args.path], namespace: 'lazy-random' } : undefined,
+    );
+    b.onLoad({ filter: /.*/, namespace: 'lazy-random' }, (args) => ({
+      contents: [
+        "import { createRequire } from 'node:module';",
+        'let generator;',
+        `const load = () => (generator ??= createRequire(import.meta.url)('#random').${args.path});`,
+        'export default { factory: (...a) => load().factory(...a) };',
+      ].join('\n'),
+      loader: 'js',
+    }));
+  },
+};
 await build({
   entryPoints: { index: 'src/index.ts', 'cli/skytally': 'src/cli/main.ts', worker: 'src/worker.ts' },
-  plugins: [lazyMathjs],
+  plugins: [lazyMathjs, lazyRandom],
   outdir: 'dist',
   bundle: true,
   splitting: true,

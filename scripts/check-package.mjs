@@ -23,8 +23,8 @@ const root = resolve(import.meta.dirname, '..');
 const npm = process.platform === 'win32' ? 'npm.cmd' : 'npm';
 const work = mkdtempSync(join(tmpdir(), 'skytally-package-'));
 
-function sh(command, args, cwd) {
-  return execFileSync(command, args, { cwd, encoding: 'utf8', stdio: ['ignore', 'pipe', 'inherit'] });
+function sh(command, args, cwd, env = process.env) {
+  return execFileSync(command, args, { cwd, env, encoding: 'utf8', stdio: ['ignore', 'pipe', 'inherit'] });
 }
 
 function check(condition, what) {
@@ -49,6 +49,7 @@ try {
     'dist/index.d.ts',
     'dist/worker.js',
     'dist/mathjs.cjs',
+    'dist/random.cjs',
     'dist/cli/skytally.js',
   ]) {
     check(paths.has(p), `the tarball holds ${p}`);
@@ -166,7 +167,10 @@ console.log(JSON.stringify({ count, slices: slices.length, refused }));
 
   // Both worker jobs in the installed program: two workers give exactly what one thread gives.
   const bin = join(consumer, 'node_modules', 'skytally', 'bin', 'skytally.js');
-  const twoAndOne = (args) => [2, 1].map((k) => sh(process.execPath, [bin, ...args, '--workers', String(k)], consumer));
+  // SKYTALLY_WORKER_MIN_MS=0: two real threads, however little work (src/parallel/blocks.ts)
+  const forced = { ...process.env, SKYTALLY_WORKER_MIN_MS: '0' };
+  const twoAndOne = (args) =>
+    [2, 1].map((k) => sh(process.execPath, [bin, ...args, '--workers', String(k)], consumer, forced));
   writeFileSync(join(consumer, 'survey.yaml'), surveyText);
   const [mocks2, mocks1] = twoAndOne([
     'forecast',

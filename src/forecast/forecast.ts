@@ -24,6 +24,7 @@ import { fisherParts, marginaliseNormalisations, summariseFisher, type FisherSum
 import { parameterNames, parameterValuesAt } from './parameters.js';
 import { cosmicVarianceInput, type CosmicVarianceSource } from './cosmic-variance-input.js';
 import { makeMockSetup, runMocks } from './mocks.js';
+import { defaultWorkers } from '../parallel/blocks.js';
 import type { Estimator } from './fit.js';
 import { requirement } from './requirement.js';
 import { drawnFisher, forecastDrawOffsets, spreadBlock, type DrawnFisher } from './model-spread.js';
@@ -45,6 +46,7 @@ export interface ForecastOptions {
   /** Number of mock surveys (0 or absent: none). */
   mocks?: number;
   seed?: number;
+  /** Most worker threads for the mocks (default up to 4; threads start only beyond the break-even of src/parallel/blocks.ts; results are identical). */
   workers?: number;
   estimator?: Estimator;
   /** Target sigmas by parameter name. */
@@ -185,7 +187,7 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
     const seed = opts.seed ?? 1;
     const cvSigma = fractions ?? parts.slices.map(() => 0);
     const run = await runMocks(makeMockSetup(grid, cvSigma, estimator, seed), opts.mocks, {
-      workers: opts.workers ?? 1,
+      workers: opts.workers ?? defaultWorkers(),
       ...(opts.onProgress ? { onProgress: opts.onProgress } : {}),
     });
     let failed = 0;

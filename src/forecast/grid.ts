@@ -9,9 +9,15 @@
  * times the selection weight S(z) E(z) (redshift selection and equivalent-width cut, src/selection/effects.ts),
  * which enters like a completeness that depends on z only.
  * z: the count engine's Gauss-Legendre nodes for each slice (`chooseRedshiftNodes`), so the grid's slice
- * totals are the engine's counts. t: 8-point Gauss-Legendre panels no wider than 0.6 (and no wider
- * than the logistic completeness width), split at completeness break points, from t_lim to
- * ln(max(u_lim, 1) + 40) (exp(-40) ~ 4e-18 relative beyond).
+ * totals are the engine's counts. t: 8-point Gauss-Legendre panels no wider than 0.6 (and, for a
+ * logistic completeness narrower than that, no wider than one width within 8 widths of its half
+ * point and wherever u > 1), split at completeness break points, from t_lim to
+ * ln(max(u_lim, 1) + 40) (exp(-40) ~ 4e-18 relative beyond). Below u = 1 and beyond 8 widths the
+ * integrand's logarithmic slope is under 2 and the completeness differs from 1 (or from 0) by
+ * e^-8 of its size times e^(-distance / width), which 8 points on 0.6 integrate to about 1e-7 of
+ * itself (the rule on exp(lambda x) errs by about (lambda h)^16 / 16!): the grid equals the one
+ * with every panel one width wide to 1e-9 on every sample (test/forecast/grid-panels.test.ts),
+ * with fewer points where the limit lies far below L*.
  *
  * The grid is plain data (typed arrays and numbers) so that it can be sent to worker threads.
  *
@@ -37,6 +43,8 @@ const LN10 = Math.LN10;
 const PANEL_POINTS = 8;
 const MAX_PANEL_T = 0.6;
 const U_BRIGHT_SPAN = 40;
+/** Logistic widths either side of the half point within which panels are one width wide. */
+const FINE_WIDTHS = 16;
 
 export interface DensityGrid {
   /** d ln u / d characteristic: -ln 10 (log10 L*) or 0.4 ln 10 (M*). */
@@ -93,6 +101,9 @@ export function buildDensityGrid(
     breaks && Number.isFinite(breaks.scale) ? (panelWidths * breaks.scale * LN10) / Math.abs(slope) : MAX_PANEL_T,
   );
   const panels: PanelNodes = { x: new Float64Array(256), w: new Float64Array(256), count: 0 };
+  // Fine panels only near a logistic's half point (maxStep < MAX_PANEL_T only for a narrow logistic).
+  const fineBand = maxStep < MAX_PANEL_T ? FINE_WIDTHS * maxStep : 0;
+  const segment: number[] = [0, 0];
 
   const sliceNodeStart: number[] = [0];
   const nodeZ: number[] = [];
@@ -144,20 +155,34 @@ export function buildDensityGrid(
         const a1 = c0.alpha + 1;
         // Panel cuts: the ends and completeness break points in between.
         const cuts = [tLim, tMax];
+        const halves: number[] = [];
         if (breaks) {
           for (const bp of breaks.points) {
             const t = (LN10 * (bp - obs.a)) / slope;
             if (t > tLim && t < tMax) cuts.push(t);
+            if (fineBand > 0) {
+              halves.push(t);
+              for (const e of [t - fineBand, t + fineBand]) if (e > tLim && e < tMax) cuts.push(e);
+            }
           }
         }
-        const pn = panelNodes(cuts, maxStep, PANEL_POINTS, panels);
-        for (let q = 0; q < pn.count; q++) {
-          const t = pn.x[q]!;
-          const c = cfn ? cfn(obs.a + (slope * t) / LN10) : 1;
-          if (!(c > 0)) continue;
-          pointT.push(t);
-          pointLogW.push(logV + Math.log(pn.w[q]! * c));
-          pointA1.push(a1);
+        // u > 1: the Schechter factor's slope a1 - u grows with u: the fine panels stay there
+        // (no cut at u = 1)
+        cuts.sort((x, y) => x - y);
+        for (let k = 0; k + 1 < cuts.length; k++) {
+          segment[0] = cuts[k]!;
+          segment[1] = cuts[k + 1]!;
+          const mid = 0.5 * (segment[0] + segment[1]);
+          const fine = fineBand === 0 || halves.some((h) => Math.abs(mid - h) < fineBand);
+          const pn = panelNodes(segment, fine ? maxStep : MAX_PANEL_T, PANEL_POINTS, panels);
+          for (let q = 0; q < pn.count; q++) {
+            const t = pn.x[q]!;
+            const c = cfn ? cfn(obs.a + (slope * t) / LN10) : 1;
+            if (!(c > 0)) continue;
+            pointT.push(t);
+            pointLogW.push(logV + Math.log(pn.w[q]! * c));
+            pointA1.push(a1);
+          }
         }
         nodeZ.push(zi);
         nodeA1.push(a1);

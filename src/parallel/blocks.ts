@@ -10,6 +10,14 @@
  * one. A result is an object of typed arrays (their buffers are transferred, not copied) and
  * numbers. The first failure terminates every worker.
  *
+ * Threads only when they pay: with more than one worker asked for, the first index runs here,
+ * timed; when that time times the indices left is below the break-even (WORKER_BREAK_EVEN_MS, or
+ * `minWorkMs`, or the environment variable SKYTALLY_WORKER_MIN_MS; 0 always starts the threads)
+ * the rest runs here too, else in worker threads. Starting a worker (a thread, the worker entry
+ * and the job's modules loaded, `data` cloned and `prepare` run) costs a fixed time, so two
+ * threads finish sooner than one only beyond about twice that time of work (DEVELOPERS.md,
+ * "Worker threads", gives the measurement).
+ *
  * Which thread runs a block, and in which order blocks finish, must not change a result: each
  * block's numbers have to depend on its indices and `data` only. The caller places each block's
  * result by its `start` (`onBlock`), so the assembled output is the same whatever `workers` is.
@@ -22,6 +30,7 @@
  */
 import { Worker, isMainThread, parentPort, workerData } from 'node:worker_threads';
 import { fileURLToPath } from 'node:url';
+import { availableParallelism } from 'node:os';
 
 /** What a block returns: typed arrays (transferred between threads) and numbers. */
 export type BlockResult = Record<string, ArrayBufferView | number>;
@@ -33,8 +42,14 @@ export interface BlockJob<D, R extends BlockResult> {
   total: number;
   /** Indices per block (at least 1). */
   block: number;
-  /** Worker threads; 1 or fewer runs every block in this thread. */
+  /** Most worker threads; 1 or fewer runs every block in this thread (more: see `minWorkMs`). */
   workers: number;
+  /**
+   * Work (ms in this thread, estimated from the first index) below which every block runs here
+   * whatever `workers` says; default SKYTALLY_WORKER_MIN_MS when set, else WORKER_BREAK_EVEN_MS.
+   * 0 starts the threads whenever `workers` > 1 (tests comparing one thread with several).
+   */
+  minWorkMs?: number | undefined;
   /** Sent once to each worker; also given to `prepare` in this thread. */
   data: D;
   /** Builds the block function from `data` in this thread (workers <= 1). */
@@ -68,10 +83,25 @@ export async function runBlocks<D, R extends BlockResult>(job: BlockJob<D, R>): 
   const { total, onBlock, onProgress } = job;
   const block = Number.isFinite(job.block) ? Math.max(1, Math.floor(job.block)) : 1;
   const asked = Number.isFinite(job.workers) ? Math.floor(job.workers) : 1;
-  const workers = Math.max(1, Math.min(asked, Math.ceil(total / block)));
+  let workers = Math.max(1, Math.min(asked, Math.ceil(total / block)));
+  let next = 0;
+  let here: BlockFunction<R> | undefined;
+  const threshold = workers > 1 ? minWorkMs(job.minWorkMs) : 0;
+  if (threshold > 0) {
+    // The first index here, timed: the work left, at its cost, decides whether threads pay.
+    here = job.prepare(job.data);
+    const t0 = performance.now();
+    onBlock(0, 1, here(0, 1));
+    const perIndex = performance.now() - t0;
+    onProgress?.(1, total);
+    next = 1;
+    if (perIndex * (total - 1) < threshold) workers = 1;
+    else workers = Math.max(1, Math.min(workers, Math.ceil((total - next) / block)));
+    if (next < total) await new Promise((res) => setImmediate(res));
+  }
   if (workers === 1) {
-    const run = job.prepare(job.data);
-    for (let start = 0; start < total; start += block) {
+    const run = here ?? job.prepare(job.data);
+    for (let start = next; start < total; start += block) {
       const end = Math.min(total, start + block);
       onBlock(start, end, run(start, end));
       onProgress?.(end, total);
@@ -81,8 +111,7 @@ export async function runBlocks<D, R extends BlockResult>(job: BlockJob<D, R>): 
   }
   const entry = job.entry ?? workerEntry();
   const setup: WorkerSetup<D> = { skytallyJob: job.job, data: job.data };
-  let next = 0;
-  let done = 0;
+  let done = next;
   await new Promise<void>((resolve, reject) => {
     let alive = workers;
     let failed = false;
@@ -171,6 +200,33 @@ function buffersOf(result: BlockResult): ArrayBuffer[] {
     if (typeof v !== 'number' && v.buffer instanceof ArrayBuffer) out.add(v.buffer);
   }
   return [...out];
+}
+
+/**
+ * Work in this thread (ms) below which blocks do not go to worker threads. Idle, the break-even
+ * is twice a worker's start (0.35-0.6 s each here); on the shared 2-core machine two threads
+ * first beat one at about 5 s of work in one thread (`npm run bench workers`: DEVELOPERS.md,
+ * "Worker threads").
+ */
+export const WORKER_BREAK_EVEN_MS = 5000;
+
+/** Worker threads when the caller names none: up to 4, at most the machine's cores (threads start only beyond the break-even). */
+export function defaultWorkers(): number {
+  return Math.max(1, Math.min(4, availableParallelism()));
+}
+
+/** The environment variable that sets the break-even (ms; 0: threads whenever more than one is asked for). */
+export const WORKER_MIN_MS_VARIABLE = 'SKYTALLY_WORKER_MIN_MS';
+
+/** The break-even in force: the job's own, else the environment's (a number >= 0), else the default. */
+export function minWorkMs(own?: number): number {
+  if (own !== undefined && own >= 0) return own;
+  const given = process.env[WORKER_MIN_MS_VARIABLE];
+  if (given !== undefined && given.trim() !== '') {
+    const v = Number(given);
+    if (Number.isFinite(v) && v >= 0) return v;
+  }
+  return WORKER_BREAK_EVEN_MS;
 }
 
 /** The environment variable naming a bundled worker entry (for runs of the TypeScript sources). */

@@ -25,8 +25,8 @@ import { uncertaintyContext, populationBias, matterSigma } from '../uncertainty/
 import { naturalCubicSpline, type Interpolant } from '../numerics/interpolate.js';
 import { inputError } from '../errors.js';
 import { depthOfLimit, limitOfDepth, type DepthModel, type LimitKind } from './depth.js';
-import { interpolateSlice, knotCount, tabulateDepth, type DepthTables } from './tables.js';
-import { availableParallelism } from 'node:os';
+import { interpolateSlice, tabulateDepth, type DepthTables } from './tables.js';
+import { defaultWorkers } from '../parallel/blocks.js';
 
 const LN10 = Math.LN10;
 const BIAS_STEP = 0.25;
@@ -44,16 +44,9 @@ export interface TierValue {
   fisher: number[][];
 }
 
-/**
- * Point evaluations (knots x quadrature points) above which the depth tables use worker threads
- * by default: starting a worker costs about 0.5-1 s (measured with the built program on 2 cores),
- * so threads pay only beyond roughly 3e7 evaluations (~3 s in one thread).
- */
-export const WORKER_WORK_THRESHOLD = 3e7;
-
 export interface DesignModelOptions {
   cosmicVariance?: boolean;
-  /** Worker threads for the depth tables; default 1, or up to 4 when the work exceeds WORKER_WORK_THRESHOLD. */
+  /** Most worker threads for the depth tables (default up to 4; threads start only beyond the break-even of src/parallel/blocks.ts). */
   workers?: number;
   onProgress?: (done: number, total: number) => void;
 }
@@ -139,8 +132,7 @@ export async function buildDesignModel(
   const ref = surveyAtLimit(survey, limitOfDepth(limitKind, dRef), 1);
   const cosmo = new FlatCosmology(survey.cosmology);
   const grid = buildDensityGrid(ref, population, cosmo, ref.sliceEdges);
-  const work = knotCount(maxDelta) * grid.pointT.length;
-  const workers = opts.workers ?? (work > WORKER_WORK_THRESHOLD ? Math.max(1, Math.min(4, availableParallelism())) : 1);
+  const workers = opts.workers ?? defaultWorkers();
   const tables = await tabulateDepth(grid, maxDelta, {
     workers,
     ...(opts.onProgress ? { onProgress: opts.onProgress } : {}),

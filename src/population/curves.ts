@@ -12,6 +12,7 @@
  * decades) down past the limit, so that the detected part and the knee can both be drawn.
  */
 import type { Population } from '../model/population.js';
+import type { ModelOffsets } from '../model/model-uncertainty.js';
 import { populationAt } from './model.js';
 import { schechterMagnitude, schechterPerDex } from './schechter.js';
 
@@ -27,6 +28,15 @@ export interface LuminosityFunctionCurve {
   knee: number;
   /** Axis label with units. */
   x_label: string;
+  /** Under the model's own uncertainty: the 16th and 84th percentiles of phi at each x over its draws. */
+  band?: LuminosityFunctionBand;
+}
+
+/** The spread of a luminosity function over the model's draws, at the curve's x. */
+export interface LuminosityFunctionBand {
+  draws: number;
+  p16: number[];
+  p84: number[];
 }
 
 export interface CurveOptions {
@@ -96,4 +106,50 @@ export function luminosityFunctionCurve(
     phi.push(v);
   }
   return { x, phi, limit, knee, x_label: options.xLabel ?? curveAxisLabel(p, false) };
+}
+
+/**
+ * The luminosity function of `p` at redshift `z` under each draw of its own uncertainty (the
+ * offsets predict's draws use: src/counts/model-draws.ts drawModelOffsets), at the points `x`:
+ * per x the 16th and 84th percentiles of phi over the draws (linear between order statistics,
+ * Hyndman & Fan 1996 type 7, numpy's default). Each draw moves phi*_c by 10^(d_phi_c), alpha_c by
+ * d_alpha_c and log10 L* (or M*) by d_c, at every redshift alike (docs/survey-file.md).
+ */
+export function luminosityFunctionBand(
+  p: Population,
+  z: number,
+  x: readonly number[],
+  offsets: readonly ModelOffsets[],
+): LuminosityFunctionBand {
+  const at = populationAt(p, z);
+  const magnitude = p.variable === 'magnitude';
+  const knee = magnitude ? at.characteristic : Math.log10(at.characteristic);
+  const n = offsets.length;
+  const values = x.map(() => new Float64Array(n));
+  offsets.forEach((o, d) => {
+    const k = knee + o.characteristic;
+    x.forEach((xi, i) => {
+      let v = 0;
+      at.components.forEach((c, j) => {
+        const phiStar = c.phiStar * 10 ** (o.log10PhiStar[j] ?? 0);
+        const alpha = c.alpha + (o.alpha[j] ?? 0);
+        v += magnitude ? schechterMagnitude(xi, phiStar, k, alpha) : schechterPerDex(xi, phiStar, k, alpha);
+      });
+      values[i]![d] = v;
+    });
+  });
+  const pct = (sorted: Float64Array, q: number) => {
+    const h = (sorted.length - 1) * q;
+    const lo = Math.floor(h);
+    const hi = Math.min(lo + 1, sorted.length - 1);
+    return sorted[lo]! + (h - lo) * (sorted[hi]! - sorted[lo]!);
+  };
+  const p16: number[] = [];
+  const p84: number[] = [];
+  for (const v of values) {
+    v.sort();
+    p16.push(pct(v, 0.16));
+    p84.push(pct(v, 0.84));
+  }
+  return { draws: n, p16, p84 };
 }

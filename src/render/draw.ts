@@ -9,9 +9,10 @@
  */
 import type { Prediction, PredictionSlice } from '../model/outputs/prediction.js';
 import type { Survey } from '../model/survey.js';
-import type { Population } from '../model/population.js';
 import type { Figure, ForecastView, ModelAsWritten, PlanView, PredictionView, SliceView } from './types.js';
-import { curveAxisLabel, luminosityFunctionCurve } from '../population/curves.js';
+import { curveAxisLabel, luminosityFunctionBand, luminosityFunctionCurve } from '../population/curves.js';
+import { DEFAULT_MODEL_SEED, drawModelOffsets } from '../counts/model-draws.js';
+import type { ModelOffsets } from '../model/model-uncertainty.js';
 import { buildFigures, countsFigure, luminosityFunctionFigure, observedSharesFigure } from './figures.js';
 
 /** The population entries of the file as written (`population:` or `populations:`), in order. */
@@ -57,14 +58,31 @@ function sliceView(s: PredictionSlice, curveOf?: (s: PredictionSlice) => SliceVi
     histogram: s.histogram,
   };
   if (s.uncertainty) out.uncertainty = s.uncertainty;
+  if (s.model) out.model = s.model;
   if (curveOf) out.luminosity_function = curveOf(s);
   return out;
 }
 
-function curveFor(survey: Survey, p: Population) {
+/**
+ * The draws of population `k`'s model_uncertainty that predict counted (the same seeded offsets:
+ * as many as its model blocks say, with the seed predict was given), or undefined without them.
+ */
+function modelDrawsOf(survey: Survey, k: number, draws: number | undefined, seed: number): ModelOffsets[] | undefined {
+  const p = survey.populations[k]!;
+  const mu = p.modelUncertainty;
+  if (!mu || !draws) return undefined;
+  return drawModelOffsets(mu, p.components.length, draws, seed, k);
+}
+
+function curveFor(survey: Survey, k: number, offsets: ModelOffsets[] | undefined) {
+  const p = survey.populations[k]!;
   const label = curveAxisLabel(p, survey.detection.kind === 'threshold');
-  return (s: PredictionSlice) =>
-    luminosityFunctionCurve(p, 0.5 * (s.z_min + s.z_max), s.limit_at_center, { xLabel: label });
+  return (s: PredictionSlice) => {
+    const z = 0.5 * (s.z_min + s.z_max);
+    const c = luminosityFunctionCurve(p, z, s.limit_at_center, { xLabel: label });
+    if (offsets) c.band = luminosityFunctionBand(p, z, c.x, offsets);
+    return c;
+  };
 }
 
 /**
@@ -75,7 +93,16 @@ function curveFor(survey: Survey, p: Population) {
 export function predictionViews(
   survey: Survey,
   prediction: Prediction,
+  modelSeed = DEFAULT_MODEL_SEED,
 ): { combined: PredictionView; perPopulation: PredictionView[] } {
+  // each population's draws (their number from its own model blocks: a draws file has its rows)
+  const drawsOf = (k: number) =>
+    modelDrawsOf(
+      survey,
+      k,
+      survey.populations.length === 1 ? prediction.totals.model?.draws : prediction.populations[k]?.totals.model?.draws,
+      modelSeed,
+    );
   const models = modelsForPeople(survey, prediction);
   const base = {
     format: prediction.format,
@@ -85,12 +112,11 @@ export function predictionViews(
     redshift: prediction.redshift,
   };
   const single = survey.populations.length === 1;
+  const curve0 = single ? curveFor(survey, 0, drawsOf(0)) : undefined;
   const combined: PredictionView = {
     ...base,
     totals: prediction.totals,
-    slices: (prediction.breakdown === 'redshift' ? prediction.slices : []).map((s) =>
-      sliceView(s, single ? curveFor(survey, survey.populations[0]!) : undefined),
-    ),
+    slices: (prediction.breakdown === 'redshift' ? prediction.slices : []).map((s) => sliceView(s, curve0)),
     model: single ? models[0]! : models,
     breakdown: prediction.breakdown,
   };
@@ -105,12 +131,10 @@ export function predictionViews(
   }
   const perPopulation = single
     ? [combined]
-    : prediction.populations.map((pp, k) => ({
-        ...base,
-        totals: pp.totals,
-        slices: pp.slices.map((s) => sliceView(s, curveFor(survey, survey.populations[k]!))),
-        model: models[k]!,
-      }));
+    : prediction.populations.map((pp, k) => {
+        const curve = curveFor(survey, k, drawsOf(k));
+        return { ...base, totals: pp.totals, slices: pp.slices.map((s) => sliceView(s, curve)), model: models[k]! };
+      });
   return { combined, perPopulation };
 }
 
@@ -124,13 +148,14 @@ export function predictionViews(
 export async function drawFigures(
   survey: Survey,
   prediction: Prediction,
-  extra: { forecast?: ForecastView; plan?: PlanView } = {},
+  extra: { forecast?: ForecastView; plan?: PlanView; modelSeed?: number } = {},
 ): Promise<Figure[]> {
-  const { combined, perPopulation } = predictionViews(survey, prediction);
+  const { modelSeed, ...sections } = extra;
+  const { combined, perPopulation } = predictionViews(survey, prediction, modelSeed);
   const main = await buildFigures({
     prediction: combined,
     model: perPopulation.length === 1 ? (combined.model as ModelAsWritten) : undefined,
-    ...extra,
+    ...sections,
     surveyTitle: prediction.title,
   });
   if (perPopulation.length === 1) return main;

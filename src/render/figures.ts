@@ -171,7 +171,17 @@ export interface CountRow {
   /** count * (1 - total_fraction), present with an uncertainty. */
   low?: number;
   high?: number;
+  /** Under the model's own uncertainty: its p16, p50 and p84 (predict's model block), drawn as a band beside the error bar from band_x1 to band_x2. */
+  model_p16?: number;
+  model_p50?: number;
+  model_p84?: number;
+  model_draws?: number;
+  band_x1?: number;
+  band_x2?: number;
 }
+
+/** Where the model band sits in a slice: this span of the slice's width to the right of its middle (the error bar's place). */
+export const MODEL_BAND_SPAN: readonly [number, number] = [0.1, 0.3];
 
 export function countRows(p: PredictionView): CountRow[] {
   return p.slices
@@ -188,6 +198,16 @@ export function countRows(p: PredictionView): CountRow[] {
       if (finite(f)) {
         row.low = Math.max(0, s.count * (1 - (f as number)));
         row.high = s.count * (1 + (f as number));
+      }
+      const m = s.model;
+      if (m && finite(m.p16, m.p50, m.p84)) {
+        row.model_p16 = m.p16;
+        row.model_p50 = m.p50;
+        row.model_p84 = m.p84;
+        row.model_draws = m.draws;
+        const w = s.z_max - s.z_min;
+        row.band_x1 = row.z_mid + MODEL_BAND_SPAN[0] * w;
+        row.band_x2 = row.z_mid + MODEL_BAND_SPAN[1] * w;
       }
       return row;
     })
@@ -213,9 +233,9 @@ export function countsAxis(
   const max = Math.max(...positive);
   const min = Math.min(...positive);
   if (!(max / min > COUNTS_LOG_SPAN)) return { log: false };
-  const lows = rows.map((r) => r.low).filter((l): l is number => l !== undefined && l > 0);
+  const lows = rows.flatMap((r) => [r.low, r.model_p16]).filter((l): l is number => l !== undefined && l > 0);
   const lowest = Math.max(Math.min(min, ...lows), max * 10 ** -COUNTS_LOG_DECADES);
-  const highs = rows.map((r) => r.high ?? r.count);
+  const highs = rows.map((r) => Math.max(r.high ?? r.count, r.model_p84 ?? 0));
   return {
     log: true,
     floor: 10 ** Math.floor(Math.log10(lowest)),
@@ -233,8 +253,27 @@ export function countsSpec(p: PredictionView): Spec | null {
     ? all
         .filter((r) => r.count > 0)
         .map((r) => (r.low !== undefined && r.low < axis.floor ? { ...r, low: axis.floor } : r))
+        .map((r) => (r.model_p16 !== undefined && r.model_p16 < axis.floor ? { ...r, model_p16: axis.floor } : r))
     : all;
   const withErrors = rows.some((r) => r.low !== undefined);
+  const withModel = rows.some((r) => r.model_p16 !== undefined);
+  const draws = rows.find((r) => r.model_draws !== undefined)?.model_draws;
+  const errorLabel = '1σ: Poisson and cosmic variance';
+  const modelLabel = `the model: p16–p84 of ${draws ?? ''} draws`;
+  // with the model band, a legend names the error bars and the band
+  const colour = (label: string) =>
+    withModel
+      ? {
+          color: {
+            datum: label,
+            scale: {
+              domain: withErrors ? [errorLabel, modelLabel] : [modelLabel],
+              range: withErrors ? [PALETTE.ink, PALETTE.orange] : [PALETTE.orange],
+            },
+            legend: { title: null, orient: 'bottom', direction: 'horizontal', symbolType: 'square', labelLimit: 600 },
+          },
+        }
+      : {};
   const yScale = axis.log ? { type: 'log', domain: [axis.floor, axis.top], nice: false } : {};
   const layers: Spec[] = [
     {
@@ -271,14 +310,49 @@ export function countsSpec(p: PredictionView): Spec | null {
         x: { field: 'z_mid', type: 'quantitative' },
         y: { field: 'low', type: 'quantitative', title: 'expected count per slice', scale: yScale },
         y2: { field: 'high' },
+        ...colour(errorLabel),
       },
     });
+  }
+  if (withModel) {
+    layers.push(
+      {
+        transform: [{ filter: 'isValid(datum.model_p16)' }],
+        mark: { type: 'rect', opacity: 0.9, stroke: '#7a4300', strokeWidth: 0.75 },
+        encoding: {
+          x: { field: 'band_x1', type: 'quantitative' },
+          x2: { field: 'band_x2' },
+          y: { field: 'model_p16', type: 'quantitative', title: 'expected count per slice', scale: yScale },
+          y2: { field: 'model_p84' },
+          ...colour(modelLabel),
+          tooltip: [
+            { field: 'slice', type: 'ordinal' },
+            { field: 'model_p16', type: 'quantitative', format: '.6~g' },
+            { field: 'model_p50', type: 'quantitative', format: '.6~g' },
+            { field: 'model_p84', type: 'quantitative', format: '.6~g' },
+          ],
+        },
+      },
+      {
+        transform: [{ filter: 'isValid(datum.model_p50)' }],
+        mark: { type: 'rule', color: '#7a4300', strokeWidth: 1.5 },
+        encoding: {
+          x: { field: 'band_x1', type: 'quantitative' },
+          x2: { field: 'band_x2' },
+          y: { field: 'model_p50', type: 'quantitative', title: 'expected count per slice', scale: yScale },
+        },
+      },
+    );
   }
   const scaleNote = axis.log ? `; logarithmic axis (the counts span a factor of ${fmtShort(axis.span)})` : '';
   const empty = all.length - rows.length;
   const emptyNote = empty > 0 ? `; ${empty} slice${empty > 1 ? 's' : ''} without sources not drawn` : '';
   const notes = [`${all.length} slices; bars: expected count${scaleNote}${emptyNote}`];
   if (withErrors) notes.push('error bars: 1σ, Poisson and cosmic variance combined');
+  if (withModel)
+    notes.push(
+      `orange band beside them: the luminosity function's own uncertainty, p16–p84 (line: p50) of ${draws} draws`,
+    );
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
     ...titleBlock(p.title, 'Expected count per redshift slice', notes, 560 + 90),
@@ -458,12 +532,15 @@ export function detectedPart(
 export interface LuminosityFunctionRow {
   slice: number;
   panel: string;
-  kind: 'curve' | 'detected' | 'limit' | 'knee';
+  kind: 'curve' | 'detected' | 'limit' | 'knee' | 'band';
   x: number;
   phi?: number;
   /** Lower edge of the shaded detected part (the lowest density drawn). */
   floor?: number;
   label?: string;
+  /** The model band (kind 'band'): p16 (held at the lowest density drawn) and p84 of phi over the model's draws. */
+  lo?: number;
+  hi?: number;
 }
 
 /**
@@ -473,23 +550,23 @@ export interface LuminosityFunctionRow {
 export function luminosityFunctionRows(
   p: PredictionView,
   model?: ModelAsWritten,
-): { rows: LuminosityFunctionRow[]; magnitude: boolean; xLabel: string; panels: number } | null {
+): { rows: LuminosityFunctionRow[]; magnitude: boolean; xLabel: string; panels: number; bandDraws?: number } | null {
   const m = model ?? models(p.model)[0];
   interface Panel {
     i: number;
     s: SliceView;
     c: LuminosityFunctionCurve;
-    rows: { x: number; phi: number }[];
+    rows: { x: number; phi: number; k: number }[];
   }
   const panels: Panel[] = [];
   p.slices.forEach((s, i) => {
     const c = s.luminosity_function;
     if (!c || !Array.isArray(c.x) || !Array.isArray(c.phi)) return;
-    const rows: { x: number; phi: number }[] = [];
+    const rows: { x: number; phi: number; k: number }[] = [];
     for (let k = 0; k < Math.min(c.x.length, c.phi.length); k++) {
       const x = c.x[k]!;
       const phi = c.phi[k]!;
-      if (finite(x, phi) && phi > 0) rows.push({ x, phi });
+      if (finite(x, phi) && phi > 0) rows.push({ x, phi, k });
     }
     if (rows.length >= 2) panels.push({ i, s, c, rows });
   });
@@ -504,8 +581,19 @@ export function luminosityFunctionRows(
   const xLabel = drawn[0]!.c.x_label || (magnitude ? 'absolute AB magnitude M [mag]' : 'log₁₀ L [erg s⁻¹]');
   const kneeName = magnitude ? 'M*' : 'L*';
   const out: LuminosityFunctionRow[] = [];
+  let bandDraws: number | undefined;
   for (const { i, s, c, rows } of drawn) {
     const base = { slice: i + 1, panel: `${panelLabel(s)} (at z = ${((s.z_min + s.z_max) / 2).toFixed(3)})` };
+    // the model band over the same points as the curve (p16 held at the lowest density drawn)
+    const b = c.band;
+    if (b && Array.isArray(b.p16) && Array.isArray(b.p84))
+      for (const r of rows) {
+        const lo = Number(b.p16[r.k]);
+        const hi = Number(b.p84[r.k]);
+        if (!finite(lo, hi) || !(hi > floor)) continue;
+        out.push({ ...base, kind: 'band', x: r.x, lo: Math.max(lo, floor), hi });
+        bandDraws = b.draws;
+      }
     for (const r of rows) out.push({ ...base, kind: 'curve', x: r.x, phi: r.phi });
     if (finite(c.limit)) {
       const detected = detectedPart(rows, c.limit, magnitude);
@@ -515,7 +603,7 @@ export function luminosityFunctionRows(
     }
     if (finite(c.knee)) out.push({ ...base, kind: 'knee', x: c.knee, label: kneeName });
   }
-  return { rows: out, magnitude, xLabel, panels: drawn.length };
+  return { rows: out, magnitude, xLabel, panels: drawn.length, ...(bandDraws ? { bandDraws } : {}) };
 }
 
 export function luminosityFunctionSpec(p: PredictionView, model?: ModelAsWritten): Spec | null {
@@ -534,12 +622,45 @@ export function luminosityFunctionSpec(p: PredictionView, model?: ModelAsWritten
     10 ** Math.ceil(Math.log10(Math.max(...phis))),
     4,
   );
+  const withBand = r.bandDraws !== undefined;
+  const assumedLabel = 'assumed values';
+  const bandLabel = `the model: p16–p84 of ${r.bandDraws} draws`;
+  // with the band, a legend names the curve and the band
+  const colour = (label: string) =>
+    withBand
+      ? {
+          color: {
+            datum: label,
+            scale: { domain: [assumedLabel, bandLabel], range: [PALETTE.blue, PALETTE.orange] },
+            legend: { title: null, orient: 'bottom', direction: 'horizontal', symbolType: 'square', labelLimit: 600 },
+          },
+        }
+      : {};
+  const bandLayer = withBand
+    ? [
+        {
+          transform: only('band'),
+          mark: { type: 'area', opacity: 0.6 },
+          encoding: {
+            x,
+            y: { field: 'hi', type: 'quantitative', title: yLabel },
+            y2: { field: 'lo' },
+            ...colour(bandLabel),
+          },
+        },
+      ]
+    : [];
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
     ...titleBlock(
       p.title,
       `Assumed luminosity function${name} at each slice's middle redshift`,
-      [`shaded: detected part; dashed line: limit; orange line: knee (${kneeName})`],
+      [
+        `shaded: detected part; dashed line: limit; orange line: knee (${kneeName})`,
+        ...(withBand
+          ? [`orange band: the luminosity function's own uncertainty, p16–p84 of φ over ${r.bandDraws} draws`]
+          : []),
+      ],
       multiplesWidth(Math.min(4, r.panels), 200),
     ),
     data: { values: r.rows },
@@ -554,12 +675,14 @@ export function luminosityFunctionSpec(p: PredictionView, model?: ModelAsWritten
           mark: { type: 'area', color: PALETTE.pale, opacity: 1 },
           encoding: { x, y: { field: 'phi', type: 'quantitative' }, y2: { field: 'floor' } },
         },
+        ...bandLayer,
         {
           transform: only('curve'),
           mark: { type: 'line', color: PALETTE.blue, strokeWidth: 2 },
           encoding: {
             x: { ...x, title: r.xLabel, scale: { zero: false, nice: false } },
             y: { field: 'phi', type: 'quantitative', title: yLabel, scale: { type: 'log' }, axis: yAxis },
+            ...colour(assumedLabel),
           },
         },
         {

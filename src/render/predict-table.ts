@@ -2,6 +2,7 @@
 import Table from 'cli-table3';
 import type { ModelSpread, Prediction, PredictionSlice, PredictionTotals } from '../model/outputs/prediction.js';
 import type { CosmologyBlock } from '../model/outputs/shared.js';
+import { uncertaintySources } from './sources.js';
 import { sig, zText } from './format.js';
 import { csvText, type CsvCell } from './csv.js';
 import { dominantTerm } from '../uncertainty/prediction.js';
@@ -96,31 +97,6 @@ const pm = (count: number, u: { total_fraction: number } | undefined) => (u ? si
 /** The model's 68 % range of a count (p16 - p84 over its draws). */
 const modelRange = (m: ModelSpread | undefined) => (m ? `${sig(m.p16, 3)} - ${sig(m.p84, 3)}` : '-');
 const MODEL_HEADING = 'model p16 - p84';
-
-/**
- * The three sources of a count's uncertainty as fractions of the count (Poisson, cosmic variance,
- * the model's (p84 - p16) / (2 p50)) and the one that dominates; undefined without the model block.
- */
-export function uncertaintySources(
-  u: { poisson_fraction: number; cosmic_variance_fraction: number } | undefined,
-  m: ModelSpread | undefined,
-):
-  | {
-      poisson: number;
-      cosmicVariance: number;
-      model: number;
-      dominant: 'Poisson noise' | 'cosmic variance' | 'the model';
-    }
-  | undefined {
-  if (!u || !m) return undefined;
-  const parts = [
-    ['Poisson noise', u.poisson_fraction],
-    ['cosmic variance', u.cosmic_variance_fraction],
-    ['the model', m.fraction],
-  ] as const;
-  const dominant = parts.reduce((a, b) => (b[1] > a[1] ? b : a))[0];
-  return { poisson: u.poisson_fraction, cosmicVariance: u.cosmic_variance_fraction, model: m.fraction, dominant };
-}
 
 /** One sentence on the three sources of a count's uncertainty, naming the one that dominates. */
 export function sourcesSentence(

@@ -17,6 +17,7 @@ import type {
   SliceView,
 } from './types.js';
 import { formatFixed, formatNumber, formatScientific, formatZ, goalWords, percent, shapeWords } from './format.js';
+import { uncertaintySources } from './sources.js';
 
 export interface ReportInput {
   /** The survey file exactly as written. */
@@ -272,13 +273,33 @@ function predictTable(
   if (withU)
     total.push(typeof tu?.total_fraction === 'number' ? `± ${formatNumber(t.count * tu.total_fraction, 3)}` : '');
   if (withParts) total.push(percent(tu?.poisson_fraction), percent(tu?.cosmic_variance_fraction));
+  const sentence = sourcesSentence(t.count, tu, t.model);
   return `<table class="numbers" id="${id}">
 <thead><tr>${heads.map((h) => `<th scope="col">${h}</th>`).join('')}</tr></thead>
 <tbody>
 ${body}
 </tbody>
 <tfoot><tr>${total.map((c) => `<td>${c}</td>`).join('')}</tr></tfoot>
-</table>`;
+</table>${sentence ? `\n<p class="sources" id="${id}-sources">${sentence}</p>` : ''}`;
+}
+
+/**
+ * The three sources of the total's uncertainty in one sentence (with the model's own uncertainty
+ * only): "Of the total 2,825 ± 560, Poisson 1.9%, cosmic variance 18.5%, model 12.0%: the model
+ * dominates." (± the 1σ of Poisson noise and cosmic variance combined; the model's share is
+ * (p84 - p16) / (2 p50) over its draws).
+ */
+function sourcesSentence(
+  count: number,
+  u: PredictionView['totals']['uncertainty'],
+  m: PredictionView['totals']['model'],
+): string | undefined {
+  const s = uncertaintySources(u, m);
+  if (!s || !u || !m) return undefined;
+  return (
+    `Of the total ${formatNumber(count)} ± ${formatNumber(count * u.total_fraction, 3)}, Poisson ${percent(s.poisson)}, ` +
+    `cosmic variance ${percent(s.cosmicVariance)}, model ${percent(s.model)}: ${s.dominant} dominates.`
+  );
 }
 
 /** A bin holding less than this fraction of all detections is left out at either end (as in the text table). */

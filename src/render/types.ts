@@ -25,7 +25,7 @@ export type { LuminosityFunctionCurve };
 /** One slice as drawn: the prediction's slice, with the luminosity function at its middle. */
 export type SliceView = Pick<
   PredictionSlice,
-  'z_min' | 'z_max' | 'volume_mpc3' | 'count' | 'per_deg2' | 'limit_at_center' | 'uncertainty'
+  'z_min' | 'z_max' | 'volume_mpc3' | 'count' | 'per_deg2' | 'limit_at_center' | 'uncertainty' | 'model'
 > &
   Partial<Pick<PredictionSlice, 'histogram'>> & {
     luminosity_function?: LuminosityFunctionCurve;

@@ -11,6 +11,7 @@ import { existsSync, readFileSync, readdirSync, writeFileSync, statSync } from '
 import { join } from 'node:path';
 import { runCli } from './helpers.js';
 import { tempDir } from '../support/temp.js';
+import { sampleReport } from '../support/sample-reports.js';
 
 const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml'));
 const tmp = () => tempDir('skytally-report-');
@@ -48,9 +49,8 @@ interface Slice {
 }
 
 describe.each(SAMPLES)('%s: figures draw the numbers of predict --format json', (sample) => {
-  const dir = tmp();
-  const figDir = join(dir, 'figures');
-  const out = join(dir, 'report.html');
+  /** The --figures folder of the sample's report (test/support/sample-reports.ts). */
+  let figDir = '';
   let p: {
     title: string;
     breakdown: 'redshift' | 'observed';
@@ -69,11 +69,15 @@ describe.each(SAMPLES)('%s: figures draw the numbers of predict --format json', 
   let html = '';
 
   test('report --out and --figures succeed; predict JSON read', async () => {
-    const r = await runCli(['report', `samples/${sample}`, '--out', out, '--figures', figDir]);
+    // `report samples/<sample> --out DIR/report.html --figures DIR/figures`, made once per run and
+    // shared with the browser test (test/render/samples-browser.test.ts)
+    const made = await sampleReport(sample);
+    const r = made.result;
     expect(r.stderr.replace(/^skytally: PNG not written.*\n/m, '')).toBe('');
     expect(r.code).toBe(0);
     expect(r.stdout).toBe('');
-    html = readFileSync(out, 'utf8');
+    figDir = made.figures;
+    html = readFileSync(made.html, 'utf8');
     const j = await runCli(['predict', `samples/${sample}`, '--format', 'json']);
     expect(j.code).toBe(0);
     p = JSON.parse(j.stdout);

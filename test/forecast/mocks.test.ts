@@ -24,6 +24,7 @@ import { buildDensityGrid } from '../../src/forecast/grid.js';
 import { fisherParts } from '../../src/forecast/fisher.js';
 import { buildSamplingTables, CatalogueSampler } from '../../src/forecast/sampler.js';
 import { forecast } from '../../src/forecast/forecast.js';
+import { WORKER_MIN_MS_VARIABLE } from '../../src/parallel/blocks.js';
 import { surveyFromSpec, type SurveySpec } from './helpers.js';
 
 const ref = JSON.parse(readFileSync(new URL('../reference/fisher.json', import.meta.url), 'utf8')) as {
@@ -152,10 +153,20 @@ describe('mock standard deviations agree with Fisher sigmas (21 %) and fits are 
 describe('reproducibility', () => {
   const s = withCount(spec('magnitude_evolving_alpha'), 2000);
   const opts = { mocks: 37, seed: 123456789, cosmicVariance: true, cosmicVarianceSource: FRACTIONS(s) };
-  test('same seed, same JSON with 1 and 2 workers (exact equality)', async () => {
+  test('same seed, same JSON with 1 and 2 workers, below and above the break-even (exact equality)', async () => {
     const a = await forecast(surveyFromSpec(s), { ...opts, workers: 1 });
-    const b = await forecast(surveyFromSpec(s), { ...opts, workers: 2 });
-    expect(JSON.stringify(b)).toBe(JSON.stringify(a));
+    const given = process.env[WORKER_MIN_MS_VARIABLE];
+    try {
+      // 0: two real threads whatever the work; 1e9: far below the break-even, every mock here
+      for (const minMs of ['0', '1e9']) {
+        process.env[WORKER_MIN_MS_VARIABLE] = minMs;
+        const b = await forecast(surveyFromSpec(s), { ...opts, workers: 2 });
+        expect(JSON.stringify(b), minMs).toBe(JSON.stringify(a));
+      }
+    } finally {
+      if (given === undefined) delete process.env[WORKER_MIN_MS_VARIABLE];
+      else process.env[WORKER_MIN_MS_VARIABLE] = given;
+    }
   });
   test('a different seed gives different mocks', async () => {
     const a = await forecast(surveyFromSpec(s), { ...opts, mocks: 5 });

@@ -38,6 +38,8 @@ export interface SquaresRun {
   /** The job's name sent to the workers (SQUARES_JOB unless a test asks for another). */
   job?: string;
   onProgress?: (done: number, total: number) => void;
+  /** The break-even of runBlocks (ms); 0 here unless given, so that two workers are two threads. */
+  minWorkMs?: number;
 }
 
 export async function runSquares(run: SquaresRun) {
@@ -61,6 +63,7 @@ export async function runSquares(run: SquaresRun) {
       threads.add(r.thread);
     },
     onProgress: run.onProgress,
+    minWorkMs: run.minWorkMs ?? 0,
     name: 'test',
     items: 'squares',
   });

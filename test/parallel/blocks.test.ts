@@ -5,6 +5,8 @@
  * start whatever the number of workers and the block size (exact: i^2 + offset in doubles),
  * progress rises to the total, and a block that throws makes the whole run fail with that block's
  * error, in this thread and in a worker; so does a job the entry does not name or cannot load.
+ * Threads start only when the work pays for them: below the break-even every block runs in this
+ * thread, above it the first index runs here (timed) and the rest in workers, with the same values.
  * The package's own worker entry is checked by the plan and forecast tests with two workers, and
  * as the package ships it by scripts/check-package.mjs.
  */
@@ -12,7 +14,13 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { threadId } from 'node:worker_threads';
 import { beforeAll, describe, expect, test } from 'vitest';
-import { WORKER_ENTRY_VARIABLE, workerEntry } from '../../src/parallel/blocks.js';
+import {
+  WORKER_BREAK_EVEN_MS,
+  WORKER_ENTRY_VARIABLE,
+  WORKER_MIN_MS_VARIABLE,
+  minWorkMs,
+  workerEntry,
+} from '../../src/parallel/blocks.js';
 import { runSquares } from './block-fixture.js';
 import { tempDir } from '../support/temp.js';
 import { bundleWorkerEntry } from '../support/worker-bundle.js';
@@ -58,6 +66,42 @@ describe('runBlocks', () => {
     },
     60_000,
   );
+  test.each([
+    ['below the break-even: every block in this thread', 1e9],
+    ['above it: the first index here (timed), the rest in worker threads', 1e-9],
+    ['break-even 0: every block in worker threads', 0],
+  ])(
+    '2 workers, %s; the same values',
+    async (_what, minWorkMs) => {
+      const total = 29;
+      const r = await runSquares({ total, block: 4, workers: 2, entry, minWorkMs, data: { offset: 3.5, failAt: -1 } });
+      expect(Array.from(r.values)).toEqual(Array.from(expected(total, 3.5)));
+      expect(r.indices).toBe(total);
+      if (minWorkMs === 1e9) expect([...r.threads]).toEqual([threadId]);
+      else {
+        expect(r.threads.size).toBeGreaterThan(minWorkMs > 0 ? 1 : 0);
+        expect([...r.threads].some((t) => t !== threadId)).toBe(true);
+        expect(r.threads.has(threadId)).toBe(minWorkMs > 0);
+      }
+    },
+    60_000,
+  );
+  test('the break-even: the job option, else SKYTALLY_WORKER_MIN_MS, else the measured default', () => {
+    const given = process.env[WORKER_MIN_MS_VARIABLE];
+    try {
+      delete process.env[WORKER_MIN_MS_VARIABLE];
+      expect(minWorkMs()).toBe(WORKER_BREAK_EVEN_MS);
+      expect(minWorkMs(5)).toBe(5);
+      process.env[WORKER_MIN_MS_VARIABLE] = '0';
+      expect(minWorkMs()).toBe(0);
+      expect(minWorkMs(5)).toBe(5);
+      process.env[WORKER_MIN_MS_VARIABLE] = 'many';
+      expect(minWorkMs()).toBe(WORKER_BREAK_EVEN_MS);
+    } finally {
+      if (given === undefined) delete process.env[WORKER_MIN_MS_VARIABLE];
+      else process.env[WORKER_MIN_MS_VARIABLE] = given;
+    }
+  });
   test('no index: nothing runs, nothing fails', async () => {
     const r = await runSquares({ total: 0, block: 4, workers: 2, entry, data: { offset: 0, failAt: 0 } });
     expect(r.values.length).toBe(0);

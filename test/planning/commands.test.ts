@@ -20,6 +20,7 @@ import { runCli } from '../cli/helpers.js';
 import { halphaPlan, sample, sampleText } from './helpers.js';
 import { parseCsvStrict } from '../render/csv-helpers.js';
 import { tempDir } from '../support/temp.js';
+import { WORKER_MIN_MS_VARIABLE } from '../../src/parallel/blocks.js';
 
 const ajv = new Ajv2020({ strict: false });
 const planSchema = ajv.compile(JSON.parse(readFileSync('specs/plan.schema.json', 'utf8')));
@@ -128,11 +129,21 @@ describe('plan', () => {
     expect(p.near_best.from.goal_value).toBeLessThanOrEqual(b.goal_value * 1.05);
     expect(p.near_best.to.goal_value).toBeLessThanOrEqual(b.goal_value * 1.05);
   }, 60_000);
-  test('two worker threads give results identical to one thread', async () => {
+  test('two worker threads give results identical to one thread, below and above the break-even', async () => {
     const s = sample('plan-uv-deep-wide.yaml', (t) => t.replace('count: 200', 'count: 60'));
     const one = await plan(s, { workers: 1 });
-    const two = await plan(s, { workers: 2 });
-    expect(JSON.stringify(two)).toBe(JSON.stringify(one));
+    const given = process.env[WORKER_MIN_MS_VARIABLE];
+    try {
+      // 0: two real threads whatever the work; 1e9: far below the break-even, every knot here
+      for (const minMs of ['0', '1e9']) {
+        process.env[WORKER_MIN_MS_VARIABLE] = minMs;
+        const two = await plan(s, { workers: 2 });
+        expect(JSON.stringify(two), minMs).toBe(JSON.stringify(one));
+      }
+    } finally {
+      if (given === undefined) delete process.env[WORKER_MIN_MS_VARIABLE];
+      else process.env[WORKER_MIN_MS_VARIABLE] = given;
+    }
   }, 120_000);
   test('fixed area: one design using the whole budget on the pointings that cover it', async () => {
     const s = halphaPlan(

@@ -1,18 +1,20 @@
 /**
- * The report of every sample, made by the real `report` command (run(argv, io)), opened in a
+ * The report of every sample, made by the real `report` command (run(argv, io); made once per run
+ * and shared with test/cli/report.test.ts, see test/support/sample-reports.ts), opened in a
  * real headless browser (Debian's chromium driven by playwright-core, with the flags the report is checked under):
  * no console or page error, every figure drawn with a non-zero size, no request beyond the
  * document, a screenshot in test-output/. A survey whose title holds HTML and script, also made
  * through the command, is shown as text and never run. Skipped, with a message, only when
  * /usr/bin/chromium is absent (.ci/run installs it through .ci/chromium.sh).
  */
-import { existsSync, mkdirSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { copyFileSync, existsSync, mkdirSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { chromium, type BrowserContext } from 'playwright-core';
 import { runCli } from '../cli/helpers.js';
 import { tempDir } from '../support/temp.js';
+import { sampleReport } from '../support/sample-reports.js';
 
 const CHROMIUM = '/usr/bin/chromium';
 const haveChromium = existsSync(CHROMIUM);
@@ -34,6 +36,21 @@ const PHOTO_Z_SAMPLES = SAMPLES.filter((s) =>
   /photo_z: \{sigma: 0\.0*[1-9]/.test(readFileSync(`samples/${s}.yaml`, 'utf8')),
 );
 const HOSTILE_TITLE = `Field <script>window.__pwned = 1</script> "><img src=x onerror="window.__pwned=2"> </svg><script>window.__pwned=3</script>`;
+
+/** The little of the DOM the page reads (the project compiles without the DOM library). */
+interface PageElement {
+  namespaceURI: string | null;
+  textContent: string | null;
+  getAttribute(name: string): string | null;
+  getBoundingClientRect(): { width: number; height: number };
+  querySelector(selector: string): PageElement | null;
+  querySelectorAll(selector: string): ArrayLike<PageElement> & Iterable<PageElement>;
+}
+interface PageGlobals {
+  document: { title: string; querySelectorAll(selector: string): ArrayLike<PageElement> & Iterable<PageElement> };
+  getComputedStyle(el: PageElement): { visibility: string };
+  __pwned?: number;
+}
 
 interface Opened {
   requests: string[];
@@ -89,31 +106,68 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
     });
     page.on('pageerror', (e) => o.pageErrors.push(String(e)));
     await page.goto(url, { waitUntil: 'load' });
-    const figures = page.locator('figure.figure');
-    for (let i = 0; i < (await figures.count()); i++) {
-      const f = figures.nth(i);
-      const id = (await f.getAttribute('id'))!.replace(/^figure-/, '');
-      const svg = f.locator(':scope > svg');
-      const box = await svg.boundingBox();
-      const marks = await svg.evaluate((el) =>
-        el.namespaceURI === 'http://www.w3.org/2000/svg' ? el.querySelectorAll('path, line, text').length : -1,
-      );
+    // Everything read from the page in one call (each call is a round trip to the browser, and a
+    // few hundred of them cost more than the rest of this file's browser work). As playwright's
+    // locators read them: an element asked for alone must be the only match (its strict mode),
+    // and visible means a non-empty bounding box and no visibility: hidden (its isVisible).
+    const read = await page.evaluate(() => {
+      const g = globalThis as unknown as PageGlobals;
+      const one = (selector: string): PageElement => {
+        const all = g.document.querySelectorAll(selector);
+        if (all.length !== 1) throw new Error(`${selector}: ${all.length} elements, expected one`);
+        return all[0]!;
+      };
+      const visible = (el: PageElement): boolean => {
+        const r = el.getBoundingClientRect();
+        return r.width > 0 && r.height > 0 && g.getComputedStyle(el).visibility !== 'hidden';
+      };
+      const figures = [...g.document.querySelectorAll('figure.figure')].map((f) => {
+        const svg = f.querySelector(':scope > svg');
+        const box = svg?.getBoundingClientRect();
+        return {
+          id: f.getAttribute('id'),
+          width: box?.width ?? 0,
+          height: box?.height ?? 0,
+          marks:
+            svg?.namespaceURI === 'http://www.w3.org/2000/svg' ? svg.querySelectorAll('path, line, text').length : -1,
+        };
+      });
+      const sections = ['forecast', 'plan'].map((id) => {
+        const sentence = g.document.querySelectorAll(`#${id}-omitted`).length > 0 ? one(`#${id}-omitted`) : null;
+        const table = g.document.querySelectorAll(`#${id}-table`).length > 0 ? one(`#${id}-table`) : null;
+        return {
+          id,
+          omitted: sentence && visible(sentence) ? (sentence.textContent ?? '') : null,
+          table: table !== null && visible(table),
+        };
+      });
+      return {
+        figures,
+        sections,
+        pwned: g.__pwned,
+        scripts: g.document.querySelectorAll('script').length,
+        images: g.document.querySelectorAll('img').length,
+        title: one('#survey-title').textContent,
+        docTitle: g.document.title,
+        surveyText: one('pre.survey').textContent,
+        warningVisible: visible(one('#model .warning')),
+      };
+    });
+    for (const f of read.figures) {
+      const id = f.id!.replace(/^figure-/, '');
       o.figureNames.push(id);
-      o.figureBoxes.push({ name: id, width: box?.width ?? 0, height: box?.height ?? 0, marks });
+      o.figureBoxes.push({ name: id, width: f.width, height: f.height, marks: f.marks });
     }
-    o.pwned = await page.evaluate(() => (globalThis as unknown as { __pwned?: number }).__pwned);
-    o.scripts = await page.locator('script').count();
-    o.images = await page.locator('img').count();
-    o.title = await page.locator('#survey-title').textContent();
-    o.docTitle = await page.title();
-    o.surveyText = await page.locator('pre.survey').textContent();
-    o.warningVisible = await page.locator('#model .warning').isVisible();
-    for (const id of ['forecast', 'plan']) {
-      const sentence = page.locator(`#${id}-omitted`);
-      if ((await sentence.count()) > 0 && (await sentence.isVisible()))
-        o.omitted[id] = (await sentence.textContent()) ?? '';
-      if ((await page.locator(`#${id}-table`).count()) > 0 && (await page.locator(`#${id}-table`).isVisible()))
-        o.tables.push(`${id}-table`);
+    o.pwned = read.pwned;
+    o.scripts = read.scripts;
+    o.images = read.images;
+    o.title = read.title;
+    o.docTitle = read.docTitle;
+    o.surveyText = read.surveyText;
+    o.warningVisible = read.warningVisible;
+    for (const x of read.sections) {
+      if (x.omitted !== null) o.omitted[x.id] = x.omitted;
+      if (x.table) o.tables.push(`${x.id}-table`);
     }
     o.screenshotBytes = (await page.screenshot({ path: join(OUT, `report-${name}.png`), fullPage: true })).length;
     await page.close();
@@ -123,11 +177,15 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
   beforeAll(async () => {
     mkdirSync(OUT, { recursive: true });
     const jobs: [string, string][] = [];
-    for (const s of SAMPLES) {
+    // Each sample's report made once per run and shared with test/cli/report.test.ts
+    // (test/support/sample-reports.ts); taken in the other order, so that when both files run at
+    // once each makes about half. A copy stays in test-output/ beside its screenshot.
+    for (const s of [...SAMPLES].reverse()) {
+      const made = await sampleReport(`${s}.yaml`);
+      if (made.result.code !== 0) throw new Error(`report ${s}: ${made.result.stderr}`);
       const out = join(OUT, `report-${s}.html`);
-      const r = await runCli(['report', `samples/${s}.yaml`, '--out', out]);
-      if (r.code !== 0) throw new Error(`report ${s}: ${r.stderr}`);
-      jobs.push([s, out]);
+      copyFileSync(made.html, out);
+      jobs.unshift([s, out]);
     }
     const dir = tempDir('skytally-hostile-');
     const input = join(dir, 'hostile.yaml');

@@ -30,7 +30,10 @@ export const forecastCommand: CommandDef = {
       'target sigmas, e.g. alpha=0.1 or alpha=0.1,log10_l_star=0.05: report the area and the limit that reach them',
     );
     cmd.option('--no-cosmic-variance', 'leave out the cosmic-variance normalisation of each slice (Poisson only)');
-    cmd.option('--workers <K>', 'worker threads for the mocks (default 1)');
+    cmd.option(
+      '--workers <K>',
+      'most worker threads for the mocks (default: up to 4; threads start only when the mocks are long enough to pay for them; results are identical)',
+    );
     cmd.option('--population <name>', 'the population to forecast (default: the first)');
     cmd.option(
       '--list-mock-fits',
@@ -57,7 +60,8 @@ export const forecastCommand: CommandDef = {
         ? 0
         : parseInteger(optionText(raw.modelDraws), '--model-draws', 1, MAX_FORECAST_MODEL_DRAWS);
     const maxWorkers = availableParallelism();
-    const workers = raw.workers === undefined ? 1 : parseInteger(String(raw.workers), '--workers', 1, maxWorkers);
+    const workers =
+      raw.workers === undefined ? undefined : parseInteger(String(raw.workers), '--workers', 1, maxWorkers);
     const outputs = new Outputs(io, {
       out: out.out,
       figures: typeof raw.figures === 'string' ? raw.figures : undefined,
@@ -78,7 +82,7 @@ export const forecastCommand: CommandDef = {
       cosmicVariance: raw.cosmicVariance !== false,
       mocks,
       seed,
-      workers,
+      ...(workers ? { workers } : {}),
       estimator: raw.estimator === 'sty' ? 'sty' : 'ml',
       modelDraws,
       ...(targets ? { targets } : {}),
@@ -88,9 +92,14 @@ export const forecastCommand: CommandDef = {
     });
     printWarnings(io, result.warnings);
     const shown = keepFits || !result.mocks?.fits ? result : { ...result, mocks: withoutFits(result.mocks) };
-    const { forecastTable, forecastCsv } = await import('../../render/forecast-table.js');
+    // The tables (and cli-table3) are loaded only for the table and CSV formats.
+    const tables = out.format === 'json' ? undefined : await import('../../render/forecast-table.js');
     outputs.setMain(
-      renderText(out, { json: () => shown, table: () => forecastTable(shown), csv: () => forecastCsv(shown) }),
+      renderText(out, {
+        json: () => shown,
+        table: () => tables!.forecastTable(shown),
+        csv: () => tables!.forecastCsv(shown),
+      }),
     );
     if (draw) {
       const { forecastFigure } = await import('../../render/figures.js');

@@ -13,7 +13,7 @@ export const planCommand: CommandDef = {
     cmd.option('--no-cosmic-variance', 'leave cosmic variance out of the sigma goal (Poisson only)');
     cmd.option(
       '--workers <K>',
-      'worker threads for the depth tables (default: 1, or up to 4 when the tables are large; results are identical)',
+      'most worker threads for the depth tables (default: up to 4; threads start only when the tables are large enough to pay for them; results are identical)',
     );
     cmd.option('--figures <dir>', 'also draw the plan figure as DIR/plan.svg (and .png when the rasteriser loads)');
     addOutputOptions(cmd);
@@ -40,9 +40,14 @@ export const planCommand: CommandDef = {
       ...(io.stderrIsTTY ? { onProgress: progressBar(io) } : {}),
     });
     printWarnings(io, result.warnings);
-    const { planTable, planCsv } = await import('../../render/plan-table.js');
+    // The tables (and cli-table3) are loaded only for the table and CSV formats.
+    const tables = out.format === 'json' ? undefined : await import('../../render/plan-table.js');
     outputs.setMain(
-      renderText(out, { json: () => result, table: () => planTable(result), csv: () => planCsv(result) }),
+      renderText(out, {
+        json: () => result,
+        table: () => tables!.planTable(result),
+        csv: () => tables!.planCsv(result),
+      }),
     );
     if (draw) {
       const { planFigure } = await import('../../render/figures.js');

@@ -34,11 +34,15 @@ export const predictCommand: CommandDef = {
     const survey = await loadSurveyArg(io, file);
     outputs.refuseInputs(survey.inputs ?? []);
     const { predict } = await import('../../counts/predict.js');
-    const { predictionTable, predictionCsv } = await import('../../render/predict-table.js');
     const p = predict(survey, { model });
     printWarnings(io, p.warnings);
-    outputs.setMain(renderText(opts, { json: () => p, table: () => predictionTable(p), csv: () => predictionCsv(p) }));
-    if (draw) outputs.setFigures(await draw.figureFiles(io, await draw.drawFigures(survey, p)));
+    // The tables (and cli-table3) are loaded only for the table and CSV formats.
+    const tables = opts.format === 'json' ? undefined : await import('../../render/predict-table.js');
+    outputs.setMain(
+      renderText(opts, { json: () => p, table: () => tables!.predictionTable(p), csv: () => tables!.predictionCsv(p) }),
+    );
+    if (draw)
+      outputs.setFigures(await draw.figureFiles(io, await draw.drawFigures(survey, p, { modelSeed: model.seed })));
     outputs.commit();
     return 0;
   },

@@ -1,7 +1,9 @@
 /**
  * The built library (dist/index.js, made by scripts/build.mjs) reads mathjs from its own file
  * (dist/mathjs.cjs) only when a survey file holds a unit or an expression the quick readers do not
- * know, and then gives the numbers the TypeScript sources give (exactly: the same code runs).
+ * know, and the random-number generators (dist/random.cjs) only when it draws (model draws, mock
+ * surveys); either way it gives the numbers the TypeScript sources give (exactly: the same code
+ * runs).
  */
 import { execFileSync } from 'node:child_process';
 import { existsSync, readFileSync } from 'node:fs';
@@ -10,7 +12,7 @@ import { loadSurveyText } from '../../src/survey/load.js';
 import { predict } from '../../src/counts/predict.js';
 
 beforeAll(() => {
-  if (!existsSync('dist/index.js') || !existsSync('dist/mathjs.cjs'))
+  if (!existsSync('dist/index.js') || !existsSync('dist/mathjs.cjs') || !existsSync('dist/random.cjs'))
     execFileSync('npm', ['run', 'build'], { stdio: 'ignore' });
 }, 300_000);
 
@@ -21,8 +23,17 @@ function unusualText(): string {
     .replace(/^(\s*)alpha: .*$/m, '$1alpha: "-1.35 + 0.1*log10(1 + z)"');
 }
 
-/** Runs the built library on `text` in a new process: the total count and whether mathjs was read. */
-function builtRun(text: string): { count: number; centre: number; mathjs: boolean } {
+interface BuiltRun {
+  count: number;
+  centre: number;
+  /** The whole prediction, as JSON. */
+  prediction: string;
+  mathjs: boolean;
+  random: boolean;
+}
+
+/** Runs the built library on `text` in a new process: its prediction and which lazy parts it read. */
+function builtRun(text: string): BuiltRun {
   const script = `
     import { createRequire } from 'node:module';
     const { loadSurveyText, predict } = await import('./dist/index.js');
@@ -31,14 +42,16 @@ function builtRun(text: string): { count: number; centre: number; mathjs: boolea
     const cache = createRequire(import.meta.url).cache;
     console.log(JSON.stringify({
       count: p.totals.count,
-      centre: survey.detection.filter.centerAngstrom,
+      centre: survey.detection.filter?.centerAngstrom,
+      prediction: JSON.stringify(p),
       mathjs: Object.keys(cache).some((k) => k.endsWith('mathjs.cjs')),
+      random: Object.keys(cache).some((k) => k.endsWith('random.cjs')),
     }));`;
   const out = execFileSync(process.execPath, ['--input-type=module', '-e', script], {
     encoding: 'utf8',
     env: { ...process.env, SURVEY_TEXT: text },
   });
-  return JSON.parse(out) as { count: number; centre: number; mathjs: boolean };
+  return JSON.parse(out) as BuiltRun;
 }
 
 describe('mathjs is read only when needed', () => {
@@ -46,7 +59,8 @@ describe('mathjs is read only when needed', () => {
     const text = readFileSync('samples/halpha-narrowband.yaml', 'utf8');
     const r = builtRun(text);
     expect(r.mathjs).toBe(false);
-    expect(r.count).toBe(predict(loadSurveyText(text, 'samples/test.yaml')).totals.count);
+    expect(r.random).toBe(false);
+    expect(r.prediction).toBe(JSON.stringify(predict(loadSurveyText(text, 'samples/test.yaml'))));
   });
   test('a unit and an expression only mathjs reads: read, and the same numbers as the sources', () => {
     const text = unusualText();
@@ -57,5 +71,18 @@ describe('mathjs is read only when needed', () => {
     expect(r.centre).toBe(filter?.centerAngstrom);
     expect(r.centre).toBe(11900); // 1190000 pm = 1.19 um (SI prefixes)
     expect(r.count).toBe(predict(survey).totals.count);
+  });
+});
+
+describe('the random-number generators are read only to draw', () => {
+  test("a sample with model_uncertainty reads them, and its draws are the sources' exactly", () => {
+    const text = readFileSync('samples/mass-limited.yaml', 'utf8');
+    expect(text).toMatch(/^\s*model_uncertainty:/m);
+    const r = builtRun(text);
+    expect(r.random).toBe(true);
+    expect(r.mathjs).toBe(false);
+    const p = predict(loadSurveyText(text, 'samples/test.yaml'));
+    expect(p.totals.model).toBeDefined();
+    expect(r.prediction).toBe(JSON.stringify(p));
   });
 });

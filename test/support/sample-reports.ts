@@ -1,0 +1,61 @@
+/**
+ * The report of a bundled sample, made once per test run by the real `report` command
+ * (`report samples/NAME --out DIR/report.html --figures DIR/figures`, through run(argv, io)) and
+ * shared by the test files that read it: test/cli/report.test.ts checks that its figures draw the
+ * numbers of predict, test/render/samples-browser.test.ts opens it in chromium. Making a report is
+ * the costly part of both files; the result does not depend on who asks for it.
+ *
+ * Kept in memory per worker (the tests run with isolate: false, so the files of one worker share
+ * it) and in the run's temporary directory for the other worker: the first to ask makes the report
+ * in a private folder, then renames the folder into place, so a reader never sees half a report.
+ * Two workers asking at the same moment both make it, and the second rename keeps the first.
+ */
+import { existsSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { runCli, type Captured } from '../cli/helpers.js';
+import { TEST_ROOT_VARIABLE, tempDir } from './temp.js';
+
+export interface SampleReport {
+  /** The report command's exit code and what it wrote to stdout and stderr. */
+  result: Captured;
+  /** The HTML report (--out). */
+  html: string;
+  /** The --figures folder. */
+  figures: string;
+}
+
+const made = new Map<string, Promise<SampleReport>>();
+
+function paths(dir: string): Omit<SampleReport, 'result'> {
+  return { html: join(dir, 'report.html'), figures: join(dir, 'figures') };
+}
+
+async function make(sample: string): Promise<SampleReport> {
+  const root = process.env[TEST_ROOT_VARIABLE];
+  if (!root) throw new Error(`${TEST_ROOT_VARIABLE} is not set: run the tests through vitest`);
+  const shared = join(root, `sample-report-${sample.replace(/[^A-Za-z0-9_-]/g, '_')}`);
+  const done = join(shared, 'result.json');
+  if (!existsSync(done)) {
+    const own = tempDir('skytally-sample-report-');
+    const at = paths(own);
+    const result = await runCli(['report', `samples/${sample}`, '--out', at.html, '--figures', at.figures]);
+    writeFileSync(join(own, 'result.json'), JSON.stringify(result));
+    try {
+      renameSync(own, shared);
+    } catch (e) {
+      // the other worker renamed its own copy into place first: read that one
+      if (!existsSync(done)) throw e;
+    }
+  }
+  return { result: JSON.parse(readFileSync(done, 'utf8')) as Captured, ...paths(shared) };
+}
+
+/** `sample`: a file name in samples/ (e.g. "deep-continuum.yaml"). */
+export function sampleReport(sample: string): Promise<SampleReport> {
+  let p = made.get(sample);
+  if (!p) {
+    p = make(sample);
+    made.set(sample, p);
+  }
+  return p;
+}
