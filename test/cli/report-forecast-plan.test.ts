@@ -12,6 +12,7 @@ import { join } from 'node:path';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { runCli } from './helpers.js';
 import { tempDir } from '../support/temp.js';
+import { sampleReport } from '../support/sample-reports.js';
 import type { Json } from '../support/json.js';
 
 type Any = Json;
@@ -249,12 +250,14 @@ describe('plan --figures: the best design marked where the JSON puts it', () => 
 
 describe.each(PLAN_SAMPLES)('report of %s: plan and forecast', (sample) => {
   test('plan table and figure, forecast table and figure, drawn from the plan and forecast JSON', async () => {
-    const dir = tmp();
-    const out = join(dir, 'r.html');
-    const r = await runCli(['report', `samples/${sample}`, '--out', out]);
-    expect(r.stderr).toBe('');
+    // `report samples/<sample> --out ... --figures ...`, made once per run and shared with
+    // test/cli/report.test.ts and the browser test (test/support/sample-reports.ts); its only
+    // possible note is the one --figures gives when the PNG rasteriser cannot load
+    const made = await sampleReport(sample);
+    const r = made.result;
+    expect(r.stderr.replace(/^skytally: PNG not written.*\n/m, '')).toBe('');
     expect(r.code).toBe(0);
-    const html = readFileSync(out, 'utf8');
+    const html = readFileSync(made.html, 'utf8');
     for (const id of ['id="plan-table"', 'id="figure-plan"', 'id="forecast-table"', 'id="figure-forecast"'])
       expect(html).toContain(id);
     expect(html).not.toContain('class="omitted"');
