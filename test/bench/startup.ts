@@ -2,11 +2,14 @@
  * Whole-process start-up of the built program: every command on every bundled sample, as a ratio
  * to bare `node -e 0`. Each process is timed by wait4; the table gives the median of the
  * runs of CPU time (user + sys, which a loaded machine barely changes) and of wall time, and the
- * largest resident set. Not a test: figures to report. Run `npm run build` first.
+ * largest resident set. Bare node runs between the cases' runs (one per run), and each case's
+ * ratio is to the median of its own bare runs, so that a load that changes during the bench moves
+ * both alike. Not a test: figures to report. Run `npm run build` first.
  *
- *   npx tsx test/bench/startup.ts [--root DIR] [--runs N] [filter]
+ *   npx tsx test/bench/startup.ts [--root DIR] [--before DIR] [--runs N] [filter]
  *
- * `--root DIR`: a built checkout of another commit (before/after figures); default this one.
+ * `--root DIR`: a built checkout of another commit; default this one. `--before DIR`: a built
+ * checkout of an earlier commit, run in turn with the root's (same load) and shown beside it.
  * Commands whose output is JSON write it to a temporary file; `report` writes HTML.
  */
 import { execFileSync, spawnSync } from 'node:child_process';
@@ -17,10 +20,12 @@ import { join, resolve } from 'node:path';
 
 const args = process.argv.slice(2);
 let root = process.cwd();
+let before: string | undefined;
 let runs = 5;
 let filter = '';
 for (let i = 0; i < args.length; i++) {
   if (args[i] === '--root') root = resolve(args[++i]!);
+  else if (args[i] === '--before') before = resolve(args[++i]!);
   else if (args[i] === '--runs') runs = Number(args[++i]);
   else filter = args[i]!;
 }
@@ -49,8 +54,8 @@ const WAIT4 = [
   'print(os.waitstatus_to_exitcode(status), ru.ru_utime + ru.ru_stime, w, ru.ru_maxrss)',
 ].join('\n');
 
-function measure(argv: string[]): Sample {
-  const r = spawnSync('/usr/bin/python3', ['-c', WAIT4, node, ...argv], { cwd: root, encoding: 'utf8' });
+function measure(argv: string[], cwd = root): Sample {
+  const r = spawnSync('/usr/bin/python3', ['-c', WAIT4, node, ...argv], { cwd, encoding: 'utf8' });
   const [code, cpu, wall, rss] = r.stdout.trim().split(/\s+/).map(Number);
   if (code !== 0) throw new Error(`${argv.join(' ')} failed (${code}): ${r.stderr}`);
   return { cpu: cpu!, wall: wall!, rssKb: rss! };
@@ -61,13 +66,34 @@ function median(xs: number[]): number {
   return s[Math.floor(s.length / 2)]!;
 }
 
-function summary(argv: string[]): { cpu: number; wall: number; rssKb: number } {
-  measure(argv); // warm the file cache
-  const xs = Array.from({ length: runs }, () => measure(argv));
+interface Summary {
+  cpu: number;
+  wall: number;
+  rssKb: number;
+}
+
+function summarise(xs: Sample[]): Summary {
   return {
     cpu: median(xs.map((x) => x.cpu)),
     wall: median(xs.map((x) => x.wall)),
     rssKb: Math.max(...xs.map((x) => x.rssKb)),
+  };
+}
+
+/** The case in each checkout (root, then before when given) and bare node, in turn, `runs` times. */
+function summary(argv: string[]): { base: Summary; after: Summary; before?: Summary } {
+  const roots = before ? [root, before] : [root];
+  for (const r of roots) measure(argv, r); // warm the file cache
+  const base: Sample[] = [];
+  const xs: Sample[][] = roots.map(() => []);
+  for (let i = 0; i < runs; i++) {
+    base.push(measure(['-e', '0']));
+    roots.forEach((r, k) => xs[k]!.push(measure(argv, r)));
+  }
+  return {
+    base: summarise(base),
+    after: summarise(xs[0]!),
+    ...(before ? { before: summarise(xs[1]!) } : {}),
   };
 }
 
@@ -95,13 +121,13 @@ const rev = (() => {
     return '?';
   }
 })();
-const base = summary(['-e', '0']);
-console.log(
-  `root ${root} (${rev}), ${runs} runs, median; node -e 0: cpu ${(base.cpu * 1000).toFixed(0)} ms, wall ${(base.wall * 1000).toFixed(0)} ms`,
-);
-console.log(
-  `${'case'.padEnd(44)} ${'cpu ms'.padStart(7)} ${'x node'.padStart(7)} ${'wall ms'.padStart(8)} ${'x node'.padStart(7)} ${'max RSS MB'.padStart(10)}`,
-);
+console.log(`root ${root} (${rev})${before ? `, before ${before}` : ''}, ${runs} runs, median`);
+const cols = (label: string) =>
+  `${(label + 'cpu ms').padStart(11)} ${'x node'.padStart(7)} ${(label + 'wall ms').padStart(12)} ${'x node'.padStart(7)} ${(label + 'RSS MB').padStart(10)}`;
+console.log(`${'case'.padEnd(40)} ${'node cpu'.padStart(8)} ${cols('')}${before ? ' ' + cols('b:') : ''}`);
+const fmt = (m: Summary, base: Summary) =>
+  `${(m.cpu * 1000).toFixed(0).padStart(11)} ${(m.cpu / base.cpu).toFixed(2).padStart(7)} ` +
+  `${(m.wall * 1000).toFixed(0).padStart(12)} ${(m.wall / base.wall).toFixed(2).padStart(7)} ${(m.rssKb / 1024).toFixed(0).padStart(10)}`;
 try {
   for (const c of cases) {
     if (filter && !c.name.includes(filter)) continue;
@@ -109,10 +135,10 @@ try {
     try {
       const m = summary(c.argv);
       row =
-        `${c.name.padEnd(44)} ${(m.cpu * 1000).toFixed(0).padStart(7)} ${(m.cpu / base.cpu).toFixed(2).padStart(7)} ` +
-        `${(m.wall * 1000).toFixed(0).padStart(8)} ${(m.wall / base.wall).toFixed(2).padStart(7)} ${(m.rssKb / 1024).toFixed(0).padStart(10)}`;
+        `${c.name.padEnd(40)} ${(m.base.cpu * 1000).toFixed(0).padStart(8)} ${fmt(m.after, m.base)}` +
+        (m.before ? ' ' + fmt(m.before, m.base) : '');
     } catch (e) {
-      row = `${c.name.padEnd(44)} failed: ${(e as Error).message.split('\n')[0]}`;
+      row = `${c.name.padEnd(40)} failed: ${(e as Error).message.split('\n')[0]}`;
     }
     console.log(row);
   }
