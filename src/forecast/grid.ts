@@ -81,6 +81,13 @@ export function buildDensityGrid(
   population: Population,
   cosmo: FlatCosmology,
   edges: readonly number[],
+  /**
+   * Panels up to this many times the completeness width (default 1). Gauss-Legendre's 8 points
+   * on a panel of half-width pi times a logistic's width (its poles' distance from the real
+   * axis) err by about (1 + sqrt 2)^-16 ~ 1e-6 of the panel: 2 pi suits sums that tolerate that
+   * (plan.robust's draws, src/planning/robust.ts).
+   */
+  panelWidths = 1,
 ): DensityGrid {
   const observer = makeObserver(survey.detection, population, cosmo);
   // The redshift selection and the equivalent-width cut multiply the density like a completeness.
@@ -91,7 +98,7 @@ export function buildDensityGrid(
   const slope = observer.slope;
   const maxStep = Math.min(
     MAX_PANEL_T,
-    breaks && Number.isFinite(breaks.scale) ? (breaks.scale * LN10) / Math.abs(slope) : MAX_PANEL_T,
+    breaks && Number.isFinite(breaks.scale) ? (panelWidths * breaks.scale * LN10) / Math.abs(slope) : MAX_PANEL_T,
   );
   const panels: PanelNodes = { x: new Float64Array(256), w: new Float64Array(256), count: 0 };
   // Fine panels only near a logistic's half point (maxStep < MAX_PANEL_T only for a narrow logistic).

@@ -38,6 +38,8 @@ export interface PlanSpec {
   minimumCount: number;
   grid: { minHours: number; maxHours: number; count: number };
   tiers: 1 | 2 | 3;
+  /** Rank the designs by the goal at the pessimistic case of the population's model_uncertainty (plan.robust). */
+  robust?: boolean;
 }
 
 /** Limit -> depth d, a variable that grows as the survey deepens: the magnitude, or -log10 of the flux. */

@@ -68,6 +68,12 @@ export interface DesignModel {
    * (TIER_VALUES numbers, equal to those of `tier`), without allocating anything.
    */
   tierInto(hours: number, pointings: number, out: Float64Array, at: number): void;
+  /** The survey the grid tabulates: the deepest limit of the plan, over 1 deg^2. */
+  reference: Survey;
+  /** How much shallower than the grid's (deepest) limit `hours` reach, as a shift of ln u (the tables' Delta). */
+  deltaAt(hours: number): number;
+  /** The per-slice cosmic-variance fractions the tier's Fisher matrix marginalises (all 0 without cosmic variance). */
+  fractionsAt(hours: number, pointings: number): number[];
 }
 
 /** Numbers `tierInto` writes: count, faint count, the 3 x 3 Fisher matrix row by row. */
@@ -239,7 +245,15 @@ export async function buildDesignModel(
     for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) out[at + 2 + 3 * j + k] = matrix[j]![k]!;
   };
 
+  const fractionsAt = (hours: number, pointings: number): number[] => {
+    evaluate(hours, pointings);
+    return Array.from(fractions);
+  };
+
   return {
+    reference: ref,
+    deltaAt: deltaOf,
+    fractionsAt,
     population,
     limitKind,
     fieldOfViewDeg2: spec.fieldOfViewDeg2,

@@ -15,6 +15,7 @@ import { frameCount, makeDepthModel } from './depth.js';
 import { precise } from '../render/format.js';
 import { assertCounts, buildDesignModel, sigmasOf, type DesignModel } from './model.js';
 import {
+  better,
   combine,
   logGrid,
   maximises,
@@ -27,6 +28,7 @@ import {
   type Evaluated,
 } from './search.js';
 import { warning, mergeWarnings, type Warning } from '../warnings.js';
+import { robustGoals, ROBUST_DRAWS, type RobustResult } from './robust.js';
 import { surveyWarnings } from '../population/warnings.js';
 import { predictionWarnings } from '../counts/predict.js';
 import { refuseScatteredRedshifts, surveyForPopulation } from '../model/select.js';
@@ -41,6 +43,9 @@ export interface PlanOptions {
   /** Worker threads for the depth tables (default: chosen by the amount of work, see model.ts). */
   workers?: number;
   onProgress?: (stage: string, done: number, total: number) => void;
+  /** plan.robust: the model draws the designs are ranked over (default ROBUST_DRAWS) and their seed (default 1). */
+  robustDraws?: number;
+  robustSeed?: number;
 }
 
 function finite(x: number, what: string): number {
@@ -48,7 +53,7 @@ function finite(x: number, what: string): number {
   return x;
 }
 
-function designJson(e: Evaluated, names: string[], goal: PlanSpec['goal']): PlanDesign {
+function designJson(e: Evaluated, names: string[], goal: PlanSpec['goal'], robust?: RobustResult): PlanDesign {
   const deepest = e.tiers.reduce((a, t) => (t.hours > a.hours ? t : a), e.tiers[0]!);
   const d: PlanDesign = {
     exposure_hours_per_pointing: deepest.hours,
@@ -61,6 +66,8 @@ function designJson(e: Evaluated, names: string[], goal: PlanSpec['goal']): Plan
     hours_used: e.hoursUsed,
     meets_minimum_count: e.feasible,
   };
+  const pessimistic = robust?.value(e);
+  if (pessimistic !== undefined) d.goal_value_pessimistic = pessimistic;
   if (goal.kind === 'sigma') {
     const s = sigmasOf(e.fisher);
     if (s) {
@@ -222,13 +229,38 @@ export async function planDesigns(
       designs.reduce((a, d) => Math.max(a, d.count), 0),
     );
 
-  const bestValue = best.goal!;
-  const edge = fixedDesign ? undefined : gridEdgeWarning(best, exposures, spec);
+  // plan.robust: every design's goal at the model's pessimistic case, and the best by it
+  let robust: RobustResult | undefined;
+  const assumedBest = best;
+  if (spec.robust) {
+    robust = robustGoals(
+      {
+        file,
+        population,
+        model,
+        goal: spec.goal,
+        parameterIndex,
+        draws: opts.robustDraws ?? ROBUST_DRAWS,
+        seed: opts.robustSeed ?? 1,
+      },
+      [...designs, best, gridBest, ...neighbours],
+    );
+    const r = robust;
+    best = [...designs, assumedBest].reduce((a, d) => {
+      const v = r.value(d);
+      const va = r.value(a);
+      if (!d.feasible || v === undefined) return a;
+      return va === undefined || better(spec.goal, v, va) ? d : a;
+    }, assumedBest);
+  }
+
+  const bestValue = assumedBest.goal!;
+  const edge = fixedDesign ? undefined : gridEdgeWarning(assumedBest, exposures, spec);
   const within = nearBest(spec.goal, designs, bestValue);
   const areaOf = (d: Evaluated) => d.tiers.reduce((a, t) => a + t.areaDeg2, 0);
   const order = within.map((i) => designs[i]!).sort((a, b) => areaOf(a) - areaOf(b));
-  const from = order[0] ?? best;
-  const to = order[order.length - 1] ?? best;
+  const from = order[0] ?? assumedBest;
+  const to = order[order.length - 1] ?? assumedBest;
   const contiguous = within.length > 0 && within[within.length - 1]! - within[0]! + 1 === within.length;
   if (designs.length > 1 && within.length > 0) {
     const head = `${within.length} of ${designs.length} designs are within ${NEAR_BEST_TOLERANCE * 100} % of the best goal value${contiguous ? '' : ' (not one contiguous run of the grid)'}`;
@@ -281,22 +313,41 @@ export async function planDesigns(
     minimum_count: spec.minimumCount,
     exposure_grid: { min_hours: spec.grid.minHours, max_hours: spec.grid.maxHours, count: spec.grid.count },
     tiers: spec.tiers,
-    designs: designs.filter((d) => d.goal !== undefined).map((d) => designJson(d, names, spec.goal)),
-    best: designJson(best, names, spec.goal),
-    neighbours: neighbours.filter((d) => d.goal !== undefined).map((d) => designJson(d, names, spec.goal)),
+    designs: designs.filter((d) => d.goal !== undefined).map((d) => designJson(d, names, spec.goal, robust)),
+    best: designJson(best, names, spec.goal, robust),
+    neighbours: neighbours.filter((d) => d.goal !== undefined).map((d) => designJson(d, names, spec.goal, robust)),
     near_best: {
       tolerance: NEAR_BEST_TOLERANCE,
-      from: designJson(from, names, spec.goal),
-      to: designJson(to, names, spec.goal),
+      from: designJson(from, names, spec.goal, robust),
+      to: designJson(to, names, spec.goal, robust),
       designs_within: within.length,
       contiguous,
     },
-    refinement: { method, grid_best: designJson(gridBest, names, spec.goal), improved },
+    refinement: { method, grid_best: designJson(gridBest, names, spec.goal, robust), improved },
     notes,
     warnings: mergeWarnings(surveyWarnings(survey), predictionWarnings(survey, [population]), edge ? [edge] : []),
   };
   if (spec.fixed)
     out.fixed = 'areaDeg2' in spec.fixed ? { area_deg2: spec.fixed.areaDeg2 } : { limit: spec.fixed.limit };
+  if (robust) {
+    const same = best === assumedBest;
+    const what = spec.goal.kind === 'sigma' ? 'the 84th percentile of the sigma' : 'the 16th percentile of the count';
+    out.robust = {
+      draws: robust.draws,
+      seed: opts.robustSeed ?? 1,
+      source: robust.source,
+      percentile: robust.percentile,
+      best_assumed: designJson(assumedBest, names, spec.goal, robust),
+      best_robust: designJson(best, names, spec.goal, robust),
+      same_design: same,
+      notes: [
+        `Designs ranked by the goal at the model's pessimistic case: ${what} over ${robust.draws} ${robust.source === 'draws_file' ? 'rows of the draws file' : 'draws of model_uncertainty'}; best is the best design so ranked, among the designs listed and the refined best under the assumed values.`,
+        same
+          ? 'The same design is best under the assumed values and across the model.'
+          : 'The best design across the model differs from the best under the assumed values; near_best, neighbours and refinement describe the search under the assumed values.',
+      ],
+    };
+  }
   if (spec.tiers > 1) out.budget_fractions = designs.filter((d) => d.tiers.length > 1).map((d) => d.fractions);
   return out;
 }

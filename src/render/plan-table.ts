@@ -25,8 +25,14 @@ function designRow(p: Plan, d: PlanDesign, mark = ''): string[] {
     sig(d.count, 5),
     sig(d.faint_count, 5),
     sig(d.goal_value, 4),
+    ...(p.robust ? [d.goal_value_pessimistic === undefined ? '-' : sig(d.goal_value_pessimistic, 4)] : []),
     d.meets_minimum_count ? '' : 'below minimum_count',
   ];
+}
+
+/** One line on a design: its shape, count and goal (and its goal at the model's pessimistic case). */
+function designLine(p: Plan, b: PlanDesign): string {
+  return `${b.tiers ? `${b.tiers.length} tiers, ` : ''}${b.pointings} pointings (${sig(b.area_deg2, 4)} deg^2)${b.tiers ? '' : ` of ${sig(b.exposure_hours_per_pointing, 4)} h to ${limitText(p.limit_variable, b.limit)}`}, ${sig(b.count, 5)} sources, goal value ${sig(b.goal_value, 4)}${b.goal_value_pessimistic !== undefined ? ` (${sig(b.goal_value_pessimistic, 4)} at the model's pessimistic case)` : ''}`;
 }
 
 function depthLawText(p: Plan): string {
@@ -54,6 +60,7 @@ export function planTable(p: Plan): string {
     'count',
     'fainter than knee',
     'goal value',
+    ...(p.robust ? [`goal at model p${Math.round(p.robust.percentile * 100)}`] : []),
     '',
   ];
   const b = p.best;
@@ -67,6 +74,15 @@ export function planTable(p: Plan): string {
     }`,
   );
   const t = new Table({ head, style: { head: [], border: [] } });
+  const r = p.robust;
+  if (r) {
+    const what = r.percentile > 0.5 ? `the 84th percentile of the sigma` : `the 16th percentile of the count`;
+    lines.push(
+      `Ranked across the model (robust): by ${what} over ${r.draws} ${r.source === 'draws_file' ? 'rows of the draws file' : 'draws of model_uncertainty'}.`,
+      `  Best across the model: ${designLine(p, r.best_robust)}`,
+      `  Best under the assumed values: ${designLine(p, r.best_assumed)}${r.same_design ? ' (the same design)' : ''}`,
+    );
+  }
   t.push(designRow(p, b, '*'));
   for (const d of p.neighbours) t.push(designRow(p, d, 'grid'));
   lines.push(t.toString());
@@ -100,6 +116,7 @@ export function planCsv(p: Plan): string {
     'count',
     'faint_count',
     'goal_value',
+    ...(p.robust ? ['goal_value_pessimistic'] : []),
     'hours_used',
     'meets_minimum_count',
     'best',
@@ -120,6 +137,7 @@ export function planCsv(p: Plan): string {
     d.count,
     d.faint_count,
     d.goal_value,
+    ...(p.robust ? [d.goal_value_pessimistic ?? ''] : []),
     d.hours_used,
     String(d.meets_minimum_count),
     mark,
@@ -138,6 +156,7 @@ export function planCsv(p: Plan): string {
         t.count,
         '',
         '',
+        ...(p.robust ? [''] : []),
         '',
         '',
         '',

@@ -237,8 +237,11 @@ function predictTable(
     'per deg²',
     'cumulative count',
   ];
+  const withModel = p.slices.some((s) => s.model !== undefined);
   if (withU) heads.push('± 1σ<br><span class="unit">count</span>');
   if (withParts) heads.push('Poisson', 'cosmic variance');
+  if (withModel) heads.push('model<br><span class="unit">p16–p84</span>');
+  const modelRange = (m: SliceView['model']) => (m ? `${formatNumber(m.p16, 3)}–${formatNumber(m.p84, 3)}` : '');
   let cum = 0;
   const body = p.slices
     .map((s: SliceView, i) => {
@@ -256,6 +259,7 @@ function predictTable(
       if (withU)
         cells.push(typeof u?.total_fraction === 'number' ? `± ${formatNumber(s.count * u.total_fraction, 3)}` : '');
       if (withParts) cells.push(percent(u?.poisson_fraction), percent(u?.cosmic_variance_fraction));
+      if (withModel) cells.push(modelRange(s.model));
       return `<tr>${cells.map((c) => `<td>${c}</td>`).join('')}</tr>`;
     })
     .join('\n');
@@ -273,6 +277,7 @@ function predictTable(
   if (withU)
     total.push(typeof tu?.total_fraction === 'number' ? `± ${formatNumber(t.count * tu.total_fraction, 3)}` : '');
   if (withParts) total.push(percent(tu?.poisson_fraction), percent(tu?.cosmic_variance_fraction));
+  if (withModel) total.push(modelRange(t.model));
   const sentence = sourcesSentence(t.count, tu, t.model);
   return `<table class="numbers" id="${id}">
 <thead><tr>${heads.map((h) => `<th scope="col">${h}</th>`).join('')}</tr></thead>

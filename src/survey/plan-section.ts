@@ -16,6 +16,7 @@
  *     minimum_count: 0                   optional
  *     exposure_grid: {min_hours: 0.05, max_hours: 50, count: 200}
  *     tiers: 1                           1 to 3
+ *     robust: false                      true: rank by the goal at the model's pessimistic case (needs model_uncertainty)
  */
 import { excerpt, inputError } from '../errors.js';
 import type { Population } from '../model/population.js';
@@ -45,6 +46,7 @@ const KEYS = [
   'minimum_count',
   'exposure_grid',
   'tiers',
+  'robust',
 ];
 export const DEFAULT_GRID = { min_hours: 0.05, max_hours: 50, count: 200 };
 /** Most exposures on the grid of a one-tier plan (a second or so per thousand). */
@@ -396,6 +398,36 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
       : (num(raw.tiers, file, 'plan.tiers', 'a whole number from 1 to 3', { min: 1, max: 3, integer: true }) as
           1 | 2 | 3);
 
+  // Robust ranking: by the goal at the pessimistic case of the model's own uncertainty.
+  if (raw.robust !== undefined && typeof raw.robust !== 'boolean') {
+    throw inputError(
+      'wrong_type',
+      file,
+      'plan.robust',
+      `is ${shown(raw.robust)} but must be true or false`,
+      'write robust: true to rank the designs at the pessimistic case of the model, or leave it out',
+    );
+  }
+  const robust = raw.robust === true;
+  if (robust && !population.modelUncertainty) {
+    throw inputError(
+      'missing_key',
+      file,
+      'plan.robust',
+      `ranks the designs across the model's own uncertainty, but "${population.name}" has no model_uncertainty block`,
+      'add model_uncertainty to the population (docs/survey-file.md) or remove robust',
+    );
+  }
+  if (robust && goal.kind === 'faint_count') {
+    throw inputError(
+      'conflict',
+      file,
+      'plan.robust',
+      'ranks by the count or a sigma across the model, not by the count fainter than the knee (goal: faint_count)',
+      'choose goal: count or {sigma: PARAMETER}, or remove robust',
+    );
+  }
+
   // Exposure grid.
   const gridRaw = raw.exposure_grid ?? {};
   if (!isObj(gridRaw))
@@ -567,5 +599,6 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
     tiers,
   };
   if (fixed) spec.fixed = fixed;
+  if (robust) spec.robust = true;
   return spec;
 }

@@ -19,6 +19,7 @@ import {
 } from '../../src/render/figures.js';
 import { drawFigures, predictionViews } from '../../src/render/draw.js';
 import { renderReport } from '../../src/render/report.js';
+import { formatNumber } from '../../src/render/format.js';
 
 const DIR = 'test/reference/surveys-model';
 const DRAWS = 200;
@@ -161,6 +162,12 @@ describe("the report: one sentence per slice table on the three sources of the t
     expect(Math.abs(num(parts![3]!) - 100 * u.poisson_fraction)).toBeLessThanOrEqual(0.05 + 1e-12);
     expect(Math.abs(num(parts![4]!) - 100 * u.cosmic_variance_fraction)).toBeLessThanOrEqual(0.05 + 1e-12);
     expect(Math.abs(num(parts![5]!) - 100 * t.model!.fraction)).toBeLessThanOrEqual(0.05 + 1e-12);
+    // the table of slices has the model's range per slice and for the total
+    expect(html).toContain('model<br><span class="unit">p16–p84</span>');
+    if (p.breakdown !== 'redshift') throw new Error('one population');
+    expect(html).toContain(
+      `<td>${formatNumber(p.slices[0]!.model!.p16, 3)}–${formatNumber(p.slices[0]!.model!.p84, 3)}</td>`,
+    );
     const largest = Math.max(u.poisson_fraction, u.cosmic_variance_fraction, t.model!.fraction);
     const named = {
       'Poisson noise': u.poisson_fraction,
@@ -181,5 +188,6 @@ describe("the report: one sentence per slice table on the three sources of the t
       figures: [],
     });
     expect(html).not.toContain('class="sources"');
+    expect(html).not.toContain('p16–p84');
   });
 });

@@ -61,6 +61,22 @@ export interface Plan {
     | {
         limit: number;
       };
+  /**
+   * With robust: true in the plan section: the designs ranked by the goal at the model's pessimistic case (best is the best so ranked).
+   */
+  robust?: {
+    draws: number;
+    seed: number;
+    source: 'normal' | 'draws_file';
+    /**
+     * 0.84 for a sigma goal, 0.16 for the count goal.
+     */
+    percentile: number;
+    best_assumed: PlanDesign;
+    best_robust: PlanDesign;
+    same_design: boolean;
+    notes: string[];
+  };
   budget_fractions?: number[][];
   /**
    * @minItems 1
@@ -102,6 +118,10 @@ export interface PlanDesign {
   goal_value: number;
   hours_used: number;
   meets_minimum_count: boolean;
+  /**
+   * With robust: true: the goal at the model's pessimistic case, the value 84% of the model's draws do at least as well as (the 84th percentile of a sigma, the 16th of a count).
+   */
+  goal_value_pessimistic?: number;
   /**
    * Fisher sigma of every parameter (sigma goal only).
    */
