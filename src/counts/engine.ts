@@ -387,7 +387,7 @@ export function schechterBetween(
 ): number {
   let j = 0;
   for (const c of components) {
-    const s = c.alpha + 1 + power;
+    const s = power === 0 ? c.alpha + 1 : c.alpha + 2;
     j += c.phiStar * (upperGamma(s, 10 ** p) - (q === Infinity ? 0 : upperGamma(s, 10 ** q)));
   }
   return j;

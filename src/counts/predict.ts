@@ -484,7 +484,20 @@ function addUncertainties(
   const warnings: Warning[] = [];
   const ctx = uncertaintyContext(survey, cosmo);
   ctx.warnings = warnings;
-  if (options.uncertaintyMemo) ctx.memo = options.uncertaintyMemo;
+  if (options.uncertaintyMemo) {
+    const memo = options.uncertaintyMemo;
+    ctx.memo = memo;
+    survey.populations.forEach((pop, k) => {
+      const run = runs[k]!;
+      if (run.photoZ) return;
+      memo.setCounts(
+        pop,
+        survey.detection,
+        pop.sliceEdges,
+        run.own.map((sc) => ({ count: sc.count, volumeMpc3: sc.volumeMpc3, zMin: sc.zMin, zMax: sc.zMax })),
+      );
+    });
+  }
   const partsOf = (k: number): TotalPart[] =>
     runs[k]!.own.map((sc) => ({
       population: survey.populations[k]!,

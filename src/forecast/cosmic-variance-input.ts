@@ -53,7 +53,10 @@ function fractions(
   const ctx = uncertaintyContext(survey, cosmo);
   if (memo) ctx.memo = memo;
   if (warnings) ctx.warnings = warnings;
-  const counts = countPopulation(survey, population, cosmo, edges, { noHistogram: true });
+  // predict's own counts when the memo holds them for this population, detection and edges
+  const counts =
+    (memo?.serves(survey) ? memo.counts(population, survey.detection, edges) : undefined) ??
+    countPopulation(survey, population, cosmo, edges, { noHistogram: true });
   return counts.map((s) =>
     s.count < NEGLIGIBLE_COUNT
       ? 0

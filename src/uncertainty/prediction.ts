@@ -17,6 +17,7 @@
 import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
+import type { Detection } from '../model/detection.js';
 import type { ZParam } from '../model/zparam.js';
 import { inputError } from '../errors.js';
 import { createLinearPower, type LinearPower } from './power-spectrum.js';
@@ -56,6 +57,14 @@ export interface UncertaintyContext {
   memo?: UncertaintyMemo;
 }
 
+/** One slice as the count engine gives it, as far as its uncertainty needs. */
+export interface CountedSlice {
+  count: number;
+  volumeMpc3: number;
+  zMin: number;
+  zMax: number;
+}
+
 /**
  * The uncertainty blocks of single populations computed for one survey, by population and by the
  * exact inputs (count, volume, redshifts): `report` computes them once in predict and the
@@ -66,7 +75,23 @@ export interface UncertaintyContext {
  */
 export class UncertaintyMemo {
   private readonly blocks = new Map<Population, Map<string, UncertaintyJson | undefined>>();
+  private readonly counted = new Map<Population, { detection: Detection; edges: string; slices: CountedSlice[] }>();
   constructor(readonly survey: Survey) {}
+
+  /**
+   * predict's per-slice counts of a population on `edges` under `detection` (the count engine's
+   * own numbers, which counting again gives bit for bit): the forecast's cosmic-variance input
+   * reads them instead of running the engine again.
+   */
+  setCounts(p: Population, detection: Detection, edges: readonly number[], slices: CountedSlice[]): void {
+    this.counted.set(p, { detection, edges: edges.join(','), slices });
+  }
+
+  /** The counts kept for this population, detection (the same object) and edges, if any. */
+  counts(p: Population, detection: Detection, edges: readonly number[]): CountedSlice[] | undefined {
+    const c = this.counted.get(p);
+    return c && c.detection === detection && c.edges === edges.join(',') ? c.slices : undefined;
+  }
 
   /**
    * True when blocks computed for `other` may be read here: the same survey, or a view of it

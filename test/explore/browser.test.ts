@@ -19,7 +19,10 @@ import { useExploreScript } from '../support/explore-script.js';
 import { expectedOutputs, expectSameOutputs } from './expected.js';
 
 // The page's globals, as the functions run inside the page see them (the project compiles without the DOM library).
-declare const document: { body: { dataset: Record<string, string | undefined> } };
+declare const document: {
+  body: { dataset: Record<string, string | undefined> };
+  querySelector(selector: string): { textContent: string | null } | null;
+};
 type Field = { value: string; labels?: { length: number } | null; dispatchEvent(e: Event): boolean };
 
 const CHROMIUM = '/usr/bin/chromium';
@@ -44,6 +47,19 @@ async function outputsOf(page: Page): Promise<Map<string, number>> {
 
 async function updates(page: Page): Promise<number> {
   return Number(await page.evaluate(() => document.body.dataset.updates));
+}
+
+/**
+ * The survey file as the page writes it back (as page.textContent('#survey-yaml') reads it), the
+ * number of updates and the last update's time, in one call: each call is a round trip to the
+ * browser, and the keyboard test below makes a few hundred.
+ */
+async function pageState(page: Page): Promise<{ text: string | null; updates: number; updateMs: number }> {
+  return page.evaluate(() => ({
+    text: document.querySelector('#survey-yaml')?.textContent ?? null,
+    updates: Number(document.body.dataset.updates),
+    updateMs: Number(document.body.dataset.updateMs),
+  }));
 }
 
 async function settled(page: Page, before: number): Promise<void> {
@@ -194,13 +210,13 @@ describe.skipIf(!haveChromium)('explore page in headless chromium', () => {
           [field, 'ArrowUp'],
           [slider, 'ArrowLeft'],
         ] as const) {
-          const text0 = await page.textContent('#survey-yaml');
-          const before = await updates(page);
+          const { text: text0, updates: before } = await pageState(page);
           await el.focus();
           await page.keyboard.press(press);
           await settled(page, before);
-          warmTimes.push(Number(await page.evaluate(() => document.body.dataset.updateMs)));
-          expect(await page.textContent('#survey-yaml'), `${key} ${press}`).not.toBe(text0);
+          const after = await pageState(page);
+          warmTimes.push(after.updateMs);
+          expect(after.text, `${key} ${press}`).not.toBe(text0);
         }
       }
       // after all of it the page still equals the commands on what it writes
