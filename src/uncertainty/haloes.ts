@@ -482,41 +482,51 @@ export function createHaloModel(power: LinearPower): HaloModel {
       const { edges, nodes } = matchGrid();
       const m = edges.length - 1;
       // Cumulative sums from the top down; at the grid's nodes only the peak height depends on z.
+      // Summed down only as far as a question needs (a match stops at the panel holding its
+      // density): the same sums in the same order as the whole table.
       const cumN = new Float64Array(m + 1);
       const cumB = new Float64Array(m + 1);
-      for (let i = m - 1; i >= 0; i--) {
-        let pn = 0;
-        let pb = 0;
-        for (let k = 8 * i; k < 8 * i + 8; k++) {
-          const nu = DELTA_C / (nodes.sigma0[k]! * d);
-          const n = nodes.weight[k]! * shethTormenMultiplicity(nu) * nu;
-          pn += n;
-          pb += n * shethTormenBias(nu);
+      let summed = m;
+      const sumDownTo = (j: number): void => {
+        for (let i = summed - 1; i >= j; i--) {
+          let pn = 0;
+          let pb = 0;
+          for (let k = 8 * i; k < 8 * i + 8; k++) {
+            const nu = DELTA_C / (nodes.sigma0[k]! * d);
+            const n = nodes.weight[k]! * shethTormenMultiplicity(nu) * nu;
+            pn += n;
+            pb += n * shethTormenBias(nu);
+          }
+          cumN[i] = cumN[i + 1]! + pn;
+          cumB[i] = cumB[i + 1]! + pb;
         }
-        cumN[i] = cumN[i + 1]! + pn;
-        cumB[i] = cumB[i + 1]! + pb;
-      }
+        if (j < summed) summed = j;
+      };
       /** n(>M) and nb(>M) at ln M inside panel i. */
       const at = (lnM: number, i: number): { n: number; nb: number } => {
         const r = lnM < edges[i + 1]! ? panel(lnM, edges[i + 1]!, d) : { n: 0, nb: 0 };
         return { n: cumN[i + 1]! + r.n, nb: cumB[i + 1]! + r.nb };
       };
       const panelOf = (lnM: number) => Math.min(m - 1, Math.max(0, Math.floor((lnM - lnLo) / PANEL)));
+      sumDownTo(Math.min(m, panelOf(lnHi) + 1));
       const top = at(lnHi, panelOf(lnHi));
       const match = (target: number): HaloMatch & { held?: 'min' | 'max' } => {
         if (!(target > 0) || !Number.isFinite(target))
           throw new RangeError(`matcherAt: halo density must be a positive finite number per Mpc^3, got ${target}`);
-        if (target >= cumN[0]!) return { haloMassMinMsun: MATCH_MASS_MIN_MSUN, bias: cumB[0]! / cumN[0]!, held: 'min' };
-        if (target <= top.n) return { haloMassMinMsun: MATCH_MASS_MAX_MSUN, bias: top.nb / top.n, held: 'max' };
         // the panel whose cumulative range holds the target: cumN[i] >= target > cumN[i + 1]
-        let lo = 0;
-        let hi = m;
-        while (hi - lo > 1) {
-          const mid = (lo + hi) >> 1;
-          if (cumN[mid]! >= target) lo = mid;
-          else hi = mid;
+        // (the largest such i; cumN grows as i falls), summing down until it is reached
+        // (top.n <= cumN[0]: a density at or below the top's is held there, one at or above the
+        // whole table's at the lowest mass)
+        if (target <= top.n) return { haloMassMinMsun: MATCH_MASS_MAX_MSUN, bias: top.nb / top.n, held: 'max' };
+        let i = m - 1;
+        for (;;) {
+          sumDownTo(i);
+          if (cumN[i]! >= target || i === 0) break;
+          i--;
         }
-        const i = lo;
+        if (i > 0 && cumN[i] === target) sumDownTo(0);
+        if (summed === 0 && target >= cumN[0]!)
+          return { haloMassMinMsun: MATCH_MASS_MIN_MSUN, bias: cumB[0]! / cumN[0]!, held: 'min' };
         const lnTarget = Math.log(target);
         const a = edges[i]!;
         const b = Math.min(edges[i + 1]!, lnHi);
@@ -525,6 +535,7 @@ export function createHaloModel(power: LinearPower): HaloModel {
         return { haloMassMinMsun: Math.exp(lnM), bias: r.nb / r.n };
       };
       const massForBias = (bias: number): number | undefined => {
+        sumDownTo(0);
         // the effective bias above M grows with M: at panel edges it is cumB / cumN
         const hiEdge = panelOf(lnHi);
         const edgeBias = (i: number) => cumB[i]! / cumN[i]!;

@@ -3,6 +3,7 @@
  * forecast of the 10-slice H-alpha survey of the model benchmark with 1,000 draws, against the plain
  * forecast; the draws' Fisher matrices alone on a prepared grid; and --target at p50 and p84 (two
  * more root searches over the draws, the limit's rebuilding the grid at each trial).
+ * And plan robust: true (200 draws) against the same plan at the assumed values.
  */
 import { readFileSync } from 'node:fs';
 import type { BenchCase } from './run.js';
@@ -12,6 +13,7 @@ import { buildDensityGrid } from '../../src/forecast/grid.js';
 import { fisherParts } from '../../src/forecast/fisher.js';
 import { drawnFisher, forecastDrawOffsets } from '../../src/forecast/model-spread.js';
 import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
+import { plan } from '../../src/library/plan.js';
 
 const BLOCK =
   '  model_uncertainty: {log10_phi_star: 0.1, log10_l_star: 0.06, alpha: 0.1, correlation: {log10_phi_star-alpha: 0.6}}\n';
@@ -64,3 +66,26 @@ export const cases: BenchCase[] = [
 ];
 
 export const _sink = () => sink;
+
+// plan robust: true on the UV imaging plan (40 exposures) with an uncertain faint-end slope
+const uvPlan = readFileSync(new URL('../../samples/plan-uv-deep-wide.yaml', import.meta.url), 'utf8')
+  .replace('  alpha: "-1.95 - 0.08*(z - 6)"\n', '  alpha: "-1.95 - 0.08*(z - 6)"\n  model_uncertainty: {alpha: 0.3}\n')
+  .replace('count: 200}', 'count: 40}');
+const plainPlan = loadSurveyText(uvPlan, 'plan.yaml');
+const robustPlan = loadSurveyText(uvPlan.replace('  tiers: 1', '  tiers: 1\n  robust: true'), 'plan.yaml');
+cases.push(
+  {
+    name: 'plan robust: UV plan, 40 exposures, robust: true (200 draws)',
+    repeats: 3,
+    run: async () => {
+      sink += (await plan(robustPlan)).designs.length;
+    },
+  },
+  {
+    name: 'plan robust: UV plan, 40 exposures, assumed values only',
+    repeats: 3,
+    run: async () => {
+      sink += (await plan(plainPlan)).designs.length;
+    },
+  },
+);

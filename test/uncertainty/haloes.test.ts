@@ -132,3 +132,19 @@ describe('the tabulated matcher (matcherAt) against the direct one (internal con
     }
   });
 });
+
+describe('matcherAt sums its table only as far down as a match needs', () => {
+  it('gives bit for bit what the whole table gives (a matcher made whole first by massForBias), at the bounds too', () => {
+    for (const z of [0, 0.45, 1.7, 4.2]) {
+      const densities = [3, 1e-1, 2e-2, 1e-3, 4e-5, 1e-7, 1e-9, 0.5 * haloes.haloDensityAboveMpc3(1e16, z), 1e6];
+      const whole = haloes.matcherAt(z);
+      whole.massForBias(1.5);
+      const wholeMatches = densities.map((n) => whole.match(n));
+      // a fresh matcher per density (each sums only its own part), and one asked in falling then rising order
+      expect(densities.map((n) => haloes.matcherAt(z).match(n))).toEqual(wholeMatches);
+      const lazy = haloes.matcherAt(z);
+      expect([...densities].reverse().map((n) => lazy.match(n))).toEqual([...wholeMatches].reverse());
+      expect(lazy.massForBias(1.5)).toBe(whole.massForBias(1.5));
+    }
+  });
+});
