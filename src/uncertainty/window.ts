@@ -23,16 +23,14 @@
  * The axes are ordered so that the longest side is innermost. Cost: (nodes per axis)^2 times the
  * number of ln K table points, evaluations of P from the interpolation table (the double sum
  * halved when the two shorter sides are equal); a box already computed with the default rules is
- * read back (sigma at z = 0 by spectrum and sides), and the per-axis rules are kept by side; accuracy ~1e-4 against the brute-force reference
- * below for cubes, pencils (5 x 5 x 1000 Mpc) and slabs (see test/uncertainty/window.test.ts).
- *
- * Reference method (boxSigmaReference): nested adaptive Gauss-Kronrod (7, 15) on every lobe up to
- * 12 pi per axis and an adaptive averaged tail beyond, with the exact transfer function; slow
- * (seconds), for tests only.
+ * read back (sigma at z = 0 by spectrum and sides), and the per-axis rules are kept by side; accuracy ~1e-4 against a
+ * brute-force reference (a direct triple sum over a much finer tensor product with the exact
+ * transfer function, test/reference/generate/box_sigma.py) for cubes, pencils (5 x 5 x 1000 Mpc),
+ * slabs and the full (oscillating) form (see test/uncertainty/window.test.ts).
  */
 import type { LinearPower } from './power-spectrum.js';
 import { lagrangeCubicAt, lagrangeCubics } from '../numerics/interpolate.js';
-import { adaptiveIntegrate, gaussLegendre } from './quadrature.js';
+import { gaussLegendre } from './quadrature.js';
 
 export interface SincRuleOptions {
   /** Number of sinc^2 lobes [j pi, (j+1) pi] integrated explicitly (default 4). */
@@ -287,49 +285,4 @@ export function sphereSigma(power: LinearPower, z: number, rMpc: number): number
 export function equalVolumeRadiusMpc(sides: readonly number[]): number {
   const [a, b, c] = checkSides(sides, 'equalVolumeRadiusMpc');
   return Math.cbrt((3 * a * b * c) / (4 * Math.PI));
-}
-
-export interface ReferenceOptions {
-  /** Relative tolerance of each adaptive 1-D integral (default 1e-7). */
-  relTol?: number;
-  /** Lobes integrated explicitly per axis before the averaged tail (default 12). */
-  lobes?: number;
-}
-
-/**
- * Slow brute-force reference for boxSigma: nested adaptive Gauss-Kronrod quadrature over
- * u_x, u_y, u_z in their natural order, each axis split at every sinc zero up to `lobes` pi and
- * an adaptive averaged tail (∫ f / (2u^2)) beyond; P from the exact transfer function (no table).
- * Error of the averaged tail ~ 1/(2 pi (lobes pi)^3) per axis (3e-6 for 12 lobes). Seconds per box.
- */
-export function boxSigmaReference(
-  power: LinearPower,
-  z: number,
-  sides: readonly [number, number, number] | readonly number[],
-  options: ReferenceOptions = {},
-): number {
-  if (sides.length !== 3) throw new RangeError('boxSigmaReference: a box needs three sides');
-  checkSides(sides, 'boxSigmaReference');
-  const [lx, ly, lz] = sides as [number, number, number];
-  const relTol = options.relTol ?? 1e-7;
-  const lobes = options.lobes ?? 12;
-  const U = lobes * Math.PI;
-  const pExact = (k: number): number => (k > 0 ? power.power(k, 0) : 0);
-  const axis = (f: (u: number) => number, tol: number): number => {
-    let s = 0;
-    for (let j = 0; j < lobes; j++) {
-      s += adaptiveIntegrate((u) => sinc2(u) * f(u), j * Math.PI, (j + 1) * Math.PI, tol, 0, 14);
-    }
-    s += adaptiveIntegrate((t) => (t > 0 ? 0.5 * f(1 / t) : 0), 0, 1 / U, tol, 0, 30);
-    return s;
-  };
-  const total = axis((ux) => {
-    const kx2 = ((2 * ux) / lx) ** 2;
-    return axis((uy) => {
-      const kxy2 = kx2 + ((2 * uy) / ly) ** 2;
-      return axis((uz) => pExact(Math.sqrt(kxy2 + ((2 * uz) / lz) ** 2)), relTol * 0.1);
-    }, relTol * 0.3);
-  }, relTol);
-  const d = power.growth(z);
-  return Math.sqrt((8 / (Math.PI ** 3 * lx * ly * lz)) * total) * d;
 }
