@@ -134,6 +134,8 @@ const modelCache = new WeakMap<LinearPower, HaloModel>();
 const LN_M_CUMULATIVE_MAX = Math.log(MATCH_MASS_MAX_MSUN);
 /** Growth factors whose cumulative tables a model keeps. */
 const CUMULATIVE_CACHE_SIZE = 64;
+/** Matches a matcherAt keeps (by density), so that asking again costs a look-up. */
+const MATCHES_KEPT = 64;
 /** Gauss-Legendre points per panel of the cumulative tables. */
 const CUMULATIVE_RULE = 8;
 
@@ -510,7 +512,17 @@ export function createHaloModel(power: LinearPower): HaloModel {
       const panelOf = (lnM: number) => Math.min(m - 1, Math.max(0, Math.floor((lnM - lnLo) / PANEL)));
       sumDownTo(Math.min(m, panelOf(lnHi) + 1));
       const top = at(lnHi, panelOf(lnHi));
+      // The matches made (a prediction asks the same densities again when repeated: a warm predict)
+      const made = new Map<number, HaloMatch & { held?: 'min' | 'max' }>();
       const match = (target: number): HaloMatch & { held?: 'min' | 'max' } => {
+        const known = made.get(target);
+        if (known) return { ...known };
+        const m = solve(target);
+        if (made.size >= MATCHES_KEPT) made.clear();
+        made.set(target, m);
+        return { ...m };
+      };
+      const solve = (target: number): HaloMatch & { held?: 'min' | 'max' } => {
         if (!(target > 0) || !Number.isFinite(target))
           throw new RangeError(`matcherAt: halo density must be a positive finite number per Mpc^3, got ${target}`);
         // the panel whose cumulative range holds the target: cumN[i] >= target > cumN[i + 1]

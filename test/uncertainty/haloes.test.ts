@@ -133,8 +133,8 @@ describe('the tabulated matcher (matcherAt) against the direct one (internal con
   });
 });
 
-describe('matcherAt sums its table only as far down as a match needs', () => {
-  it('gives bit for bit what the whole table gives (a matcher made whole first by massForBias), at the bounds too', () => {
+describe('matcherAt sums its table only as far down as a match needs, and keeps its matches', () => {
+  it('gives bit for bit what the whole table gives (a matcher made whole first by massForBias), at the bounds too, and again when asked again', () => {
     for (const z of [0, 0.45, 1.7, 4.2]) {
       const densities = [3, 1e-1, 2e-2, 1e-3, 4e-5, 1e-7, 1e-9, 0.5 * haloes.haloDensityAboveMpc3(1e16, z), 1e6];
       const whole = haloes.matcherAt(z);
@@ -145,6 +145,8 @@ describe('matcherAt sums its table only as far down as a match needs', () => {
       const lazy = haloes.matcherAt(z);
       expect([...densities].reverse().map((n) => lazy.match(n))).toEqual([...wholeMatches].reverse());
       expect(lazy.massForBias(1.5)).toBe(whole.massForBias(1.5));
+      // asked again: the kept matches, the same numbers
+      expect(densities.map((n) => lazy.match(n))).toEqual(wholeMatches);
     }
   });
 });
