@@ -113,7 +113,8 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
 
 /** The model uncertainty as read (docs/outputs.md): sigmas and the non-zero correlations, or the draws file. */
 function describeUncertainty(u: ModelUncertainty): NonNullable<ModelDescription['model_uncertainty']> {
-  if (u.kind === 'draws') return { kind: 'draws', parameters: [...u.parameters], file: u.file, draws: u.offsets.length };
+  if (u.kind === 'draws')
+    return { kind: 'draws', parameters: [...u.parameters], file: u.file, draws: u.offsets.length };
   const sigmas: Record<string, number> = {};
   const correlations: Record<string, number> = {};
   u.parameters.forEach((n, i) => {
