@@ -15,6 +15,7 @@ import type { Plan } from '../model/outputs/plan.js';
 import type { OmittedSection, ReportJson } from '../model/outputs/report.js';
 import type { Figure } from '../render/types.js';
 import { mergeWarnings, type Warning } from '../warnings.js';
+import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED } from '../model/model-uncertainty.js';
 
 export type { OmittedSection };
 
@@ -73,8 +74,14 @@ function computeFailure(what: 'forecast' | 'plan', e: unknown): OmittedSection {
 export interface SectionOptions {
   /** Mock surveys for the forecast (default 0: the Fisher matrix only). */
   mocks?: number;
-  /** Seed of the mock surveys (default 1). */
+  /** Seed of the mock surveys and of the model's draws (default 1, as `predict` and `forecast`). */
   seed?: number;
+  /**
+   * Draws of the population's model_uncertainty (default 1000, as `predict --draws`): the
+   * prediction's model percentiles and, when the forecast's population has model_uncertainty, the
+   * spread of its Fisher sigmas across the model (as `forecast --model-draws N --seed S`).
+   */
+  draws?: number;
   /** Called as the mock surveys are drawn. */
   onProgress?: (done: number, total: number) => void;
 }
@@ -88,7 +95,8 @@ export interface SectionOptions {
  */
 export function reportSections(opts: SectionOptions = {}): ReportSections {
   const mocks = opts.mocks ?? 0;
-  const seed = opts.seed ?? 1;
+  const seed = opts.seed ?? DEFAULT_MODEL_SEED;
+  const draws = opts.draws ?? DEFAULT_MODEL_DRAWS;
   return {
     forecast: async (survey, shared) => {
       const why = shapeObstacle(survey, 'forecast');
@@ -101,6 +109,8 @@ export function reportSections(opts: SectionOptions = {}): ReportSections {
           mocks,
           seed,
           keepFits: true,
+          // the sigmas across the model, as forecast --model-draws computes them (same draws, same seed)
+          ...(survey.populations[0]!.modelUncertainty ? { modelDraws: draws } : {}),
           ...(shared?.uncertaintyMemo ? { cosmicVarianceSource: cosmicVarianceInputWith(shared.uncertaintyMemo) } : {}),
           ...(mocks > 0 && opts.onProgress ? { onProgress: opts.onProgress } : {}),
         });
@@ -154,6 +164,16 @@ export interface ReportResults {
   plan: SectionResult<Plan>;
   /** Every section's warnings, each once. */
   warnings: Warning[];
+  /** Seed of the model's draws (the figures' model bands draw with it). */
+  modelSeed: number;
+}
+
+/** The draws of the population's model_uncertainty the report's prediction makes (as `predict --draws N --seed S`). */
+export interface ReportModelDraws {
+  /** Number of draws (default 1000). */
+  draws?: number;
+  /** Their seed (default 1). */
+  seed?: number;
 }
 
 /** Compute every section of the report (nothing is drawn). */
@@ -161,16 +181,21 @@ export async function computeReport(
   file: string,
   survey: Survey,
   sections: ReportSections = {},
+  model: ReportModelDraws = {},
 ): Promise<ReportResults> {
   const { predict } = await import('../counts/predict.js');
   const { UncertaintyMemo } = await import('../uncertainty/prediction.js');
   const shared: SharedResults = { uncertaintyMemo: new UncertaintyMemo(survey) };
-  const prediction = predict(survey, { uncertaintyMemo: shared.uncertaintyMemo! });
+  const modelSeed = model.seed ?? DEFAULT_MODEL_SEED;
+  const prediction = predict(survey, {
+    uncertaintyMemo: shared.uncertaintyMemo!,
+    model: { draws: model.draws ?? DEFAULT_MODEL_DRAWS, seed: modelSeed },
+  });
   const forecast = sections.forecast ? await sections.forecast(survey, shared) : undefined;
   const plan = sections.plan && hasPlanSection(survey) ? await sections.plan(survey, shared) : undefined;
   const sectionWarnings = (x: SectionResult<Forecast | Plan>) => (x && !isOmitted(x) ? x.warnings : undefined);
   const warnings = mergeWarnings(prediction.warnings, sectionWarnings(forecast), sectionWarnings(plan));
-  return { file, survey, prediction, forecast, plan, warnings };
+  return { file, survey, prediction, forecast, plan, warnings, modelSeed };
 }
 
 /** The results as one JSON document (specs/report.schema.json); the forecast's per-mock fits (kept for the figure) are left out. */
@@ -204,14 +229,14 @@ function drawnSections(r: ReportResults): { forecast?: Forecast; plan?: Plan } {
 /** Draw every figure of the results. */
 export async function reportFigures(r: ReportResults): Promise<Figure[]> {
   const { drawFigures } = await import('../render/draw.js');
-  return drawFigures(r.survey, r.prediction, drawnSections(r));
+  return drawFigures(r.survey, r.prediction, { ...drawnSections(r), modelSeed: r.modelSeed });
 }
 
 /** The HTML document of the results (figures already drawn). */
 export async function reportHtml(r: ReportResults, surveyText: string, figures: Figure[]): Promise<string> {
   const { predictionViews } = await import('../render/draw.js');
   const { renderReport } = await import('../render/report.js');
-  const { combined } = predictionViews(r.survey, r.prediction);
+  const { combined } = predictionViews(r.survey, r.prediction, r.modelSeed);
   return renderReport({
     surveyText,
     surveyTitle: r.survey.title,
@@ -238,7 +263,10 @@ export async function buildReport(
   survey: Survey,
   options: BuildReportOptions = {},
 ): Promise<{ html: string; figures: Figure[]; results: ReportResults }> {
-  const results = await computeReport(survey.file, survey, reportSections(options));
+  const results = await computeReport(survey.file, survey, reportSections(options), {
+    ...(options.draws !== undefined ? { draws: options.draws } : {}),
+    ...(options.seed !== undefined ? { seed: options.seed } : {}),
+  });
   const figures = await reportFigures(results);
   const surveyText =
     options.surveyText ?? (survey.file ? (await import('../survey/load.js')).readSurveyText(survey.file).text : '');

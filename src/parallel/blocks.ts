@@ -10,8 +10,10 @@
  * one. A result is an object of typed arrays (their buffers are transferred, not copied) and
  * numbers. The first failure terminates every worker.
  *
- * Threads only when they pay: with more than one worker asked for, the first index runs here,
- * timed; when that time times the indices left is below the break-even (WORKER_BREAK_EVEN_MS, or
+ * Threads only when they pay: with more than one worker asked for, the first two indices run here,
+ * the second timed (the first carries the one-time costs of a cold start: the code's first
+ * compilation and the job's lazily built tables, several times an index's own cost); when that
+ * time times the indices left is below the break-even (WORKER_BREAK_EVEN_MS, or
  * `minWorkMs`, or the environment variable SKYTALLY_WORKER_MIN_MS; 0 always starts the threads)
  * the rest runs here too, else in worker threads. Starting a worker (a thread, the worker entry
  * and the job's modules loaded, `data` cloned and `prepare` run) costs a fixed time, so two
@@ -88,14 +90,21 @@ export async function runBlocks<D, R extends BlockResult>(job: BlockJob<D, R>): 
   let here: BlockFunction<R> | undefined;
   const threshold = workers > 1 ? minWorkMs(job.minWorkMs) : 0;
   if (threshold > 0) {
-    // The first index here, timed: the work left, at its cost, decides whether threads pay.
+    // The first two indices here, the second timed (the first pays for the cold start): the work
+    // left, at that cost, decides whether threads pay.
     here = job.prepare(job.data);
-    const t0 = performance.now();
     onBlock(0, 1, here(0, 1));
-    const perIndex = performance.now() - t0;
     onProgress?.(1, total);
     next = 1;
-    if (perIndex * (total - 1) < threshold) workers = 1;
+    let perIndex = 0;
+    if (total > 1) {
+      const t0 = performance.now();
+      onBlock(1, 2, here(1, 2));
+      perIndex = performance.now() - t0;
+      onProgress?.(2, total);
+      next = 2;
+    }
+    if (perIndex * (total - next) < threshold) workers = 1;
     else workers = Math.max(1, Math.min(workers, Math.ceil((total - next) / block)));
     if (next < total) await new Promise((res) => setImmediate(res));
   }

@@ -4,6 +4,7 @@
  * Every output carries this, because a forecast is only as good as the model assumed.
  */
 import type { Population } from '../model/population.js';
+import type { ModelUncertainty } from '../model/model-uncertainty.js';
 import type { Survey } from '../model/survey.js';
 import type { ZParam } from '../model/zparam.js';
 import type { ModelDescription, ParameterDescription } from '../model/outputs/shared.js';
@@ -103,7 +104,35 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
   }
   const sel = selectionWords(d.selection);
   if (sel) d.summary += `; ${sel}`;
+  if (p.modelUncertainty) {
+    d.model_uncertainty = describeUncertainty(p.modelUncertainty);
+    d.summary += `; ${uncertaintyWords(d.model_uncertainty)}`;
+  }
   return d;
+}
+
+/** The model uncertainty as read (docs/outputs.md): sigmas and the non-zero correlations, or the draws file. */
+function describeUncertainty(u: ModelUncertainty): NonNullable<ModelDescription['model_uncertainty']> {
+  if (u.kind === 'draws')
+    return { kind: 'draws', parameters: [...u.parameters], file: u.file, draws: u.offsets.length };
+  const sigmas: Record<string, number> = {};
+  const correlations: Record<string, number> = {};
+  u.parameters.forEach((n, i) => {
+    sigmas[n] = u.sigmas[i]!;
+    for (let j = i + 1; j < u.parameters.length; j++) {
+      const rho = u.correlation[i]![j]!;
+      if (rho !== 0) correlations[`${n}-${u.parameters[j]!}`] = rho;
+    }
+  });
+  return { kind: 'gaussian', parameters: [...u.parameters], sigmas, correlations };
+}
+
+/** The model uncertainty in words for the summary line. */
+function uncertaintyWords(u: NonNullable<ModelDescription['model_uncertainty']>): string {
+  if (u.kind === 'draws') return `model uncertainty: ${u.draws} draws from ${u.file}`;
+  const s = Object.entries(u.sigmas ?? {}).map(([n, v]) => `${n} ${fmt(v)}`);
+  const r = Object.entries(u.correlations ?? {}).map(([n, v]) => `${n} ${fmt(v)}`);
+  return `model uncertainty (1 sigma): ${s.join(', ')}${r.length ? `; correlations ${r.join(', ')}` : ''}`;
 }
 
 /** The selection effects in words for the summary line ('' without any, so plain summaries are unchanged). */

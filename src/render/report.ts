@@ -467,7 +467,36 @@ ${names
 <tbody>
 ${rows}
 </tbody></table>
-${corr}`;
+${modelSpread(f)}${corr}`;
+}
+
+/**
+ * How the Fisher sigmas vary across the model's own uncertainty (forecast --model-draws): one line
+ * per parameter, "σ(alpha) = 0.047 (0.041–0.055 across the model)", the p16 and p84 of the sigma
+ * over the draws, with the forecast's notes; nothing without a model_spread block.
+ */
+function modelSpread(f: ForecastView): string {
+  const ms = f.model_spread;
+  if (!ms) return '';
+  const lines = f.parameters
+    .filter((n) => ms.sigma[n] !== undefined && typeof f.fisher.sigma[n] === 'number')
+    .map((n) => {
+      const q = ms.sigma[n]!;
+      return `<li>σ(<span class="key">${escapeHtml(n)}</span>) = ${formatNumber(f.fisher.sigma[n]!, 3)} (${formatNumber(q.p16, 3)}–${formatNumber(q.p84, 3)} across the model)</li>`;
+    })
+    .join('\n');
+  const what =
+    ms.source === 'draws_file'
+      ? `the ${ms.draws} rows of its draws file`
+      : `${ms.draws} draws of its model_uncertainty (seed ${ms.seed})`;
+  const notes = ms.notes.map((n) => `<p class="note">${escapeHtml(n)}</p>`).join('\n');
+  return `<div id="forecast-model-spread">
+<p>The sigmas across the model: the Fisher matrix recomputed at ${what}; the range is the 16th to 84th percentile of each sigma.</p>
+<ul>
+${lines}
+</ul>
+${notes}${notes ? '\n' : ''}</div>
+`;
 }
 
 function planTable(plan: PlanView): string {
@@ -570,6 +599,31 @@ function section(id: string, heading: string, body: string | undefined, omitted:
   return '';
 }
 
+/**
+ * The ids of the figures' clip paths and gradients (`clip7`, `gradient_3`), numbered again in the
+ * order they first appear in the document. The SVG renderer numbers them with a counter that lives
+ * as long as the process, so the same figures drawn twice in one process would otherwise differ;
+ * renumbered over the whole document they stay unique across its inline figures (which share one
+ * id namespace) and the same input gives the same document.
+ */
+function definitionIds(): (svg: string) => string {
+  const seen = new Map<string, number>();
+  const next = { clip: 0, gradient_: 0 };
+  return (svg) =>
+    svg.replace(
+      /(id="|url\(#)(clip|gradient_)(\d+)(?=[")])/g,
+      (_m, lead: string, kind: 'clip' | 'gradient_', n: string) => {
+        const key = `${kind}${n}`;
+        let k = seen.get(key);
+        if (k === undefined) {
+          k = ++next[kind];
+          seen.set(key, k);
+        }
+        return `${lead}${kind}${k}`;
+      },
+    );
+}
+
 /** Build the report. Pure: same input, same document. */
 export function renderReport(input: ReportInput): string {
   const p = input.prediction;
@@ -603,11 +657,12 @@ ${models.length > 0 ? modelHtml(models) : '<p>The results given did not describe
 </section>`;
 
   const prefix = `${input.surveyTitle.trim()}: `;
+  const renumber = definitionIds();
   const figures = input.figures
     .map((f, i) => {
       const what = f.title.startsWith(prefix) ? f.title.slice(prefix.length) : f.title;
       return `<figure id="figure-${escapeHtml(f.name)}" class="figure">
-${svgForHtml(f.svg)}
+${renumber(svgForHtml(f.svg))}
 <figcaption>Figure ${i + 1}. ${escapeHtml(what)}</figcaption>
 </figure>`;
     })

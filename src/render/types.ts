@@ -9,7 +9,7 @@
  * assumed model as the user wrote it.
  */
 import type { LuminosityFunctionCurve } from '../population/curves.js';
-import type { Forecast, FisherBlock, MocksBlock } from '../model/outputs/forecast.js';
+import type { Forecast, FisherBlock, ForecastModelSpread, MocksBlock } from '../model/outputs/forecast.js';
 import type { Plan, PlanDesign } from '../model/outputs/plan.js';
 import type {
   ObservedBins,
@@ -68,6 +68,8 @@ export type ForecastView = Pick<Forecast, 'parameters' | 'center'> & {
   model?: Pick<ModelDescription, 'quantity'>;
   /** Mock fits (`fits`, columns in the order of `parameters`) and their summary per parameter. */
   mocks?: Partial<Pick<MocksBlock, 'count' | 'parameters' | 'fits'>>;
+  /** The sigmas' p16-p84 across the draws of the population's model_uncertainty (forecast --model-draws). */
+  model_spread?: Pick<ForecastModelSpread, 'draws' | 'seed' | 'source' | 'sigma' | 'notes'>;
 };
 
 /** One design of a plan as drawn and tabulated. */

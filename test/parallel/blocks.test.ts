@@ -6,7 +6,8 @@
  * progress rises to the total, and a block that throws makes the whole run fail with that block's
  * error, in this thread and in a worker; so does a job the entry does not name or cannot load.
  * Threads start only when the work pays for them: below the break-even every block runs in this
- * thread, above it the first index runs here (timed) and the rest in workers, with the same values.
+ * thread, above it the first two indices run here (the second timed) and the rest in workers, with
+ * the same values.
  * The package's own worker entry is checked by the plan and forecast tests with two workers, and
  * as the package ships it by scripts/check-package.mjs.
  */
@@ -68,7 +69,7 @@ describe('runBlocks', () => {
   );
   test.each([
     ['below the break-even: every block in this thread', 1e9],
-    ['above it: the first index here (timed), the rest in worker threads', 1e-9],
+    ['above it: the first two indices here (the second timed), the rest in worker threads', 1e-9],
     ['break-even 0: every block in worker threads', 0],
   ])(
     '2 workers, %s; the same values',

@@ -186,11 +186,31 @@ describe('renderReport', () => {
 
   test('every figure is embedded once, as inline SVG without namespace URLs', async () => {
     const doc = await html();
+    // the clip-path and gradient ids are numbered again over the document (next test)
+    const anyIds = (s: string) => s.replace(/(id="|url\(#)(clip|gradient_)\d+/g, '$1$2#');
     for (const f of figures) {
       expect(doc.split(`id="figure-${f.name}"`)).toHaveLength(2);
-      expect(doc).toContain(svgForHtml(f.svg));
+      expect(anyIds(doc)).toContain(anyIds(svgForHtml(f.svg)));
     }
     expect(doc.match(/<svg\b/g)).toHaveLength(figures.length);
+  });
+
+  test('clip-path ids: unique in the document, numbered from 1, the same when the figures are drawn again', async () => {
+    const again = async () =>
+      renderReport({
+        surveyText: 'x',
+        surveyTitle: 't',
+        prediction: demoPrediction({ slices: 3 }),
+        figures: await buildFigures({ prediction: demoPrediction({ slices: 3 }), surveyTitle: 't' }),
+      });
+    const first = await again();
+    const ids = [...first.matchAll(/id="(clip\d+)"/g)].map((m) => m[1]!);
+    expect(ids.length).toBeGreaterThan(0);
+    expect(new Set(ids).size).toBe(ids.length);
+    expect(ids).toEqual(ids.map((_, k) => `clip${k + 1}`));
+    for (const m of first.matchAll(/url\(#(clip\d+)\)/g)) expect(ids).toContain(m[1]);
+    // the renderer's counter has moved on; the document has not
+    expect(await again()).toBe(first);
   });
 
   test('a figure that is not plain SVG is refused', () => {

@@ -5,6 +5,8 @@ import type { CommandDef } from './types.js';
 import { printWarnings } from './common.js';
 import { Outputs, toJsonText, type CliIO } from '../io.js';
 import { mockOptions, mockProgressBar } from './forecast.js';
+import { modelDrawOptions } from './predict.js';
+import { DEFAULT_MODEL_DRAWS, MAX_MODEL_DRAWS } from '../../model/model-uncertainty.js';
 import type { ReportSections } from '../../library/report.js';
 
 /** The report as HTML (the default) or as JSON: the same sections' results, for scripts. */
@@ -18,8 +20,10 @@ export interface ReportOptions {
   format?: ReportFormat;
   /** --mocks N as given on the command line (checked by mockOptions). */
   mocks?: string;
-  /** --seed S as given on the command line. */
+  /** --seed S as given on the command line (the mock surveys' and the model draws'). */
   seed?: string;
+  /** --draws N as given on the command line (checked as predict's). */
+  draws?: string;
 }
 
 export const reportCommand: CommandDef = {
@@ -42,7 +46,11 @@ export const reportCommand: CommandDef = {
       '--mocks <N>',
       'also draw N mock surveys for the forecast, fit each and scatter the fits over the Fisher ellipses',
     );
-    cmd.option('--seed <S>', 'seed of the mock surveys (integer 0 to 4294967295; default 1)');
+    cmd.option(
+      '--draws <N>',
+      `draws of the populations' model_uncertainty, for the prediction and the forecast's sigmas across the model (1 to ${MAX_MODEL_DRAWS}; default ${DEFAULT_MODEL_DRAWS})`,
+    );
+    cmd.option('--seed <S>', 'seed of the mock surveys and the model draws (integer 0 to 4294967295; default 1)');
   },
   async action(cmd, args, io) {
     const file = args[0] as string;
@@ -55,7 +63,8 @@ export const reportCommand: CommandDef = {
 export async function commandSections(opts: ReportOptions, io: CliIO): Promise<ReportSections> {
   const { reportSections } = await import('../../library/report.js');
   const { mocks, seed } = mockOptions(opts);
-  return reportSections({ mocks, seed, ...(io.stderrIsTTY ? { onProgress: mockProgressBar(io) } : {}) });
+  const { draws } = modelDrawOptions(opts);
+  return reportSections({ mocks, seed, draws, ...(io.stderrIsTTY ? { onProgress: mockProgressBar(io) } : {}) });
 }
 
 export async function runReport(
@@ -65,6 +74,8 @@ export async function runReport(
   sections?: ReportSections,
 ): Promise<number> {
   const input = resolve(io.cwd, file);
+  // the model's draws as predict makes them (--draws N, --seed S), checked before any work
+  const model = modelDrawOptions(opts);
   const { computeReport, reportFigures, reportHtml, reportJson } = await import('../../library/report.js');
   const outputs = new Outputs(io, { out: opts.out, figures: opts.figures });
   outputs.refuseInputs([file]);
@@ -74,7 +85,7 @@ export async function runReport(
   const { survey, text: surveyText } = loadSurveyFileWithText(input);
   outputs.refuseInputs(survey.inputs ?? []);
   const format: ReportFormat = opts.format ?? 'html';
-  const results = await computeReport(file, survey, sections ?? (await commandSections(opts, io)));
+  const results = await computeReport(file, survey, sections ?? (await commandSections(opts, io)), model);
   printWarnings(io, results.warnings);
   // Figures are drawn for the HTML, and for --figures whatever the format.
   const figures = format === 'html' || opts.figures !== undefined ? await reportFigures(results) : [];
