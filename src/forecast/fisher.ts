@@ -55,44 +55,11 @@ export function fisherFromPoints(weights: ArrayLike<number>, derivs: ArrayLike<n
 
 /** The Poisson Fisher matrix of a tabulated density at the input parameters, with per-slice parts. */
 export function fisherParts(grid: DensityGrid): FisherParts {
-  const s = grid.shift;
-  const { pointT, pointExpT, pointLogW, pointA1, nodePointStart, sliceNodeStart } = grid;
-  const matrix = zeros(3);
-  const slices: SliceInformation[] = [];
-  let total = 0;
-  for (let sl = 0; sl < sliceCount(grid); sl++) {
-    let n = 0,
-      bc = 0,
-      ba = 0,
-      fcc = 0,
-      fca = 0,
-      faa = 0;
-    const q0 = nodePointStart[sliceNodeStart[sl]!]!;
-    const q1 = nodePointStart[sliceNodeStart[sl + 1]!]!;
-    for (let q = q0; q < q1; q++) {
-      const t = pointT[q]!;
-      const u = pointExpT[q]!;
-      const g = Math.exp(pointLogW[q]! + pointA1[q]! * t - u);
-      const dc = s * (pointA1[q]! - u);
-      n += g;
-      bc += g * dc;
-      ba += g * t;
-      fcc += g * dc * dc;
-      fca += g * dc * t;
-      faa += g * t * t;
-    }
-    const b = [LN10 * n, bc, ba];
-    const m = [
-      [LN10 * LN10 * n, LN10 * bc, LN10 * ba],
-      [LN10 * bc, fcc, fca],
-      [LN10 * ba, fca, faa],
-    ];
-    for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) matrix[j]![k]! += m[j]![k]!;
-    slices.push({ count: n, b });
-    total += n;
-  }
-  return { matrix, slices, count: total };
+  return fisherPartsAt(grid, NO_OFFSET);
 }
+
+/** Zero offsets: fisherPartsAt's arithmetic then reduces to the input parameters' exactly (x + 0 = x, x * 1 = x). */
+const NO_OFFSET = [0, 0, 0] as const;
 
 /** F - sum_i b_i b_i^T / (N_i + 1/sigma_i^2): the nuisance-marginalised information. */
 export function marginaliseNormalisations(
@@ -170,7 +137,7 @@ export function summariseFisher(matrix: Matrix): FisherSummary | undefined {
  * ends at u = max(u_lim, 1) + 40 at the input; a draw that moves ln u by s d_c < 0 (a brighter
  * knee) ends it at 40 e^(s d_c) or more, so the bright tail left out is of order exp(-40 e^(s d_c))
  * of the count: below 1e-6 for s d_c > -1 (0.43 dex of L*, 1.1 mag of M*, beyond 5 sigma of
- * published uncertainties). At theta = 0 it is fisherParts(grid) but for the order of operations.
+ * published uncertainties). At theta = 0 it is the input parameters' information (fisherParts), bit for bit.
  */
 export function fisherPartsAt(grid: DensityGrid, theta: ArrayLike<number>): FisherParts {
   const s = grid.shift;
