@@ -20,7 +20,13 @@ import type {
 import { choosePopulation, surveyForPopulation } from '../model/select.js';
 import { inputError } from '../errors.js';
 import { buildDensityGrid } from './grid.js';
-import { fisherParts, marginaliseNormalisations, summariseFisher, type FisherSummary } from './fisher.js';
+import {
+  fisherParts,
+  marginaliseNormalisations,
+  summariseFisher,
+  type FisherParts,
+  type FisherSummary,
+} from './fisher.js';
 import { parameterNames, parameterValuesAt } from './parameters.js';
 import { cosmicVarianceInput, type CosmicVarianceSource } from './cosmic-variance-input.js';
 import { makeMockSetup, runMocks } from './mocks.js';
@@ -247,9 +253,10 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
     const ctx = { survey, population, cosmo, names, parts, ...(cvSource ? { cosmicVariance: cvSource } : {}) };
     out.requirement = requirement(ctx, opts.targets);
     if (drawn && out.model_spread) {
+      const depthParts = new Map<number, { plain: FisherParts; list: readonly FisherParts[] }>();
       const at = (probability: number): RequirementAtModel => {
         const r = requirement(
-          { ...ctx, spread: { thetas: drawn.thetas, parts: drawn.fisher.parts, probability } },
+          { ...ctx, spread: { thetas: drawn.thetas, parts: drawn.fisher.parts, probability, depthParts } },
           opts.targets!,
         );
         return { area_deg2: r.area_deg2, limit: r.limit, by_parameter: r.by_parameter, notes: r.notes };

@@ -42,7 +42,17 @@ export interface RequirementContext {
    * the target in that fraction of the draws (each draw's sigma falls as the area grows or the
    * limit deepens). The cosmic-variance fractions are the assumed model's at each trial survey.
    */
-  spread?: { thetas: readonly (readonly number[])[]; parts: readonly FisherParts[]; probability: number };
+  spread?: {
+    thetas: readonly (readonly number[])[];
+    parts: readonly FisherParts[];
+    probability: number;
+    /**
+     * The draws' parts at each trial depth (by depth offset), shared by the searches at several
+     * probabilities: the parts do not depend on the probability, so p50 and p84 pay once for a depth
+     * both try.
+     */
+    depthParts?: Map<number, { plain: FisherParts; list: readonly FisherParts[] }>;
+  };
 }
 
 function sigmaFrom(parts: FisherParts, fractions: number[] | undefined): number[] {
@@ -160,9 +170,15 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
     const hit = depthCache.get(key);
     if (hit) return hit;
     const s2 = deeperSurvey(survey, population, delta).survey;
-    const grid = buildDensityGrid(s2, population, cosmo, edges);
-    const plain = fisherParts(grid);
-    const list = spread ? spread.thetas.map((th) => (isZero(th) ? plain : fisherPartsAt(grid, th))) : [plain];
+    let hitParts = spread?.depthParts?.get(delta);
+    if (!hitParts) {
+      const grid = buildDensityGrid(s2, population, cosmo, edges);
+      const assumed = fisherParts(grid);
+      const draws = spread ? spread.thetas.map((th) => (isZero(th) ? assumed : fisherPartsAt(grid, th))) : [assumed];
+      hitParts = { plain: assumed, list: draws };
+      spread?.depthParts?.set(delta, hitParts);
+    }
+    const { plain, list } = hitParts;
     const sig =
       spread || plain.count > 0
         ? sigmaOf(list, cv && withCv && plain.count > 0 ? cv(s2, edges, population) : undefined, p)
