@@ -26,9 +26,10 @@ import type { PlanGoal } from '../model/plan.js';
 import { percentilesOf } from '../counts/model-draws.js';
 import { forecastDrawOffsets } from '../forecast/model-spread.js';
 import { marginaliseNormalisations, summariseFisher } from '../forecast/fisher.js';
-import { buildDensityGrid, sliceCount, type DensityGrid } from '../forecast/grid.js';
+import { buildDensityGrid, sliceCount } from '../forecast/grid.js';
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { DesignModel } from './model.js';
+import { knotSums } from './tables.js';
 import type { Evaluated } from './search.js';
 
 /** Draws a robust plan ranks its designs over by default (a draws file: every row). */
@@ -168,66 +169,4 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
     values.set(e, Number.isFinite(v) ? v : undefined);
   });
   return { draws: thetas.length, source, percentile, value: (e) => values.get(e) };
-}
-
-/**
- * The six Fisher sums of every slice (N, b_c, b_a, F_cc, F_ca, F_aa of src/forecast/fisher.ts) and
- * their derivatives in x at shift x and alpha offset dA, into out[offset + 12 sl ...] (the sums,
- * then the derivatives): g = exp(logW + a y - u), y = t + x, u = e^y, a = alpha + 1 + dA,
- * d ln g / dx = a - u, d dc / dx = -s u, dy / dx = 1.
- */
-export function knotSums(grid: DensityGrid, x: number, dA: number, out: Float64Array, offset: number): void {
-  const s = grid.shift;
-  const eX = Math.exp(x);
-  const { pointT, pointExpT, pointLogW, pointA1, nodePointStart, sliceNodeStart } = grid;
-  for (let sl = 0; sl < sliceCount(grid); sl++) {
-    let n = 0,
-      bc = 0,
-      ba = 0,
-      fcc = 0,
-      fca = 0,
-      faa = 0,
-      dn = 0,
-      dbc = 0,
-      dba = 0,
-      dfcc = 0,
-      dfca = 0,
-      dfaa = 0;
-    const q0 = nodePointStart[sliceNodeStart[sl]!]!;
-    const q1 = nodePointStart[sliceNodeStart[sl + 1]!]!;
-    for (let q = q0; q < q1; q++) {
-      const a = pointA1[q]! + dA;
-      const y = pointT[q]! + x;
-      const u = pointExpT[q]! * eX;
-      const g = Math.exp(pointLogW[q]! + a * y - u);
-      const dc = s * (a - u);
-      const k = a - u;
-      const su = s * u;
-      n += g;
-      bc += g * dc;
-      ba += g * y;
-      fcc += g * dc * dc;
-      fca += g * dc * y;
-      faa += g * y * y;
-      dn += g * k;
-      dbc += g * (k * dc - su);
-      dba += g * (k * y + 1);
-      dfcc += g * (k * dc * dc - 2 * su * dc);
-      dfca += g * (k * dc * y - su * y + dc);
-      dfaa += g * (k * y * y + 2 * y);
-    }
-    const o = offset + 12 * sl;
-    out[o] = n;
-    out[o + 1] = bc;
-    out[o + 2] = ba;
-    out[o + 3] = fcc;
-    out[o + 4] = fca;
-    out[o + 5] = faa;
-    out[o + 6] = dn;
-    out[o + 7] = dbc;
-    out[o + 8] = dba;
-    out[o + 9] = dfcc;
-    out[o + 10] = dfca;
-    out[o + 11] = dfaa;
-  }
 }

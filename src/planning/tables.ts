@@ -50,20 +50,42 @@ export interface DepthTables {
   data: Float64Array;
 }
 
-/** The numbers of every slice at one Delta >= 0, written into out[offset ...]. */
+/** The numbers of every slice at one Delta >= 0, written into out[offset ...]: knotSums, then the faint count. */
 export function knotValues(grid: DensityGrid, delta: number, out: Float64Array, offset: number): void {
+  knotSums(grid, delta, 0, out, offset, PER_SLICE);
+  for (let sl = 0; sl < sliceCount(grid); sl++) {
+    const o = offset + sl * PER_SLICE;
+    const f = faintCount(grid, sl, delta);
+    out[o + 12] = f.count;
+    out[o + 13] = f.derivative;
+  }
+}
+
+/**
+ * The six Fisher sums of every slice (N, b_c, b_a, F_cc, F_ca, F_aa of src/forecast/fisher.ts) and
+ * their derivatives in x at shift x and alpha offset dA, into out[offset + stride sl ...] (the sums,
+ * then the derivatives): g = exp(logW + a y - u), y = t + x, u = e^y, a = alpha + 1 + dA,
+ * d ln g / dx = a - u, d dc / dx = -s u, dy / dx = 1.
+ */
+export function knotSums(
+  grid: DensityGrid,
+  x: number,
+  dA: number,
+  out: Float64Array,
+  offset: number,
+  stride = 12,
+): void {
   const s = grid.shift;
-  const eD = Math.exp(delta);
+  const eX = Math.exp(x);
   const { pointT, pointExpT, pointLogW, pointA1, nodePointStart, sliceNodeStart } = grid;
-  const nS = sliceCount(grid);
-  for (let sl = 0; sl < nS; sl++) {
+  for (let sl = 0; sl < sliceCount(grid); sl++) {
     let n = 0,
       bc = 0,
       ba = 0,
       fcc = 0,
       fca = 0,
-      faa = 0;
-    let dn = 0,
+      faa = 0,
+      dn = 0,
       dbc = 0,
       dba = 0,
       dfcc = 0,
@@ -72,27 +94,27 @@ export function knotValues(grid: DensityGrid, delta: number, out: Float64Array, 
     const q0 = nodePointStart[sliceNodeStart[sl]!]!;
     const q1 = nodePointStart[sliceNodeStart[sl + 1]!]!;
     for (let q = q0; q < q1; q++) {
-      const a1 = pointA1[q]!;
-      const t = pointT[q]! + delta;
-      const u = pointExpT[q]! * eD;
-      const g = Math.exp(pointLogW[q]! + a1 * t - u);
-      const dc = s * (a1 - u);
-      const k = a1 - u; // d ln g / d Delta
-      const su = s * u; // -d dc / d Delta
+      const a = pointA1[q]! + dA;
+      const y = pointT[q]! + x;
+      const u = pointExpT[q]! * eX;
+      const g = Math.exp(pointLogW[q]! + a * y - u);
+      const dc = s * (a - u);
+      const k = a - u;
+      const su = s * u;
       n += g;
       bc += g * dc;
-      ba += g * t;
+      ba += g * y;
       fcc += g * dc * dc;
-      fca += g * dc * t;
-      faa += g * t * t;
+      fca += g * dc * y;
+      faa += g * y * y;
       dn += g * k;
       dbc += g * (k * dc - su);
-      dba += g * (k * t + 1);
+      dba += g * (k * y + 1);
       dfcc += g * (k * dc * dc - 2 * su * dc);
-      dfca += g * (k * dc * t - su * t + dc);
-      dfaa += g * (k * t * t + 2 * t);
+      dfca += g * (k * dc * y - su * y + dc);
+      dfaa += g * (k * y * y + 2 * y);
     }
-    const o = offset + sl * PER_SLICE;
+    const o = offset + stride * sl;
     out[o] = n;
     out[o + 1] = bc;
     out[o + 2] = ba;
@@ -105,9 +127,6 @@ export function knotValues(grid: DensityGrid, delta: number, out: Float64Array, 
     out[o + 9] = dfcc;
     out[o + 10] = dfca;
     out[o + 11] = dfaa;
-    const f = faintCount(grid, sl, delta);
-    out[o + 12] = f.count;
-    out[o + 13] = f.derivative;
   }
 }
 
