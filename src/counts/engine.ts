@@ -438,12 +438,34 @@ export function detectedLuminosityAtNode(
   const l10uLim = nd.log10ULimit;
   const closed = (p: number, q: number): number => schechterBetween(nd.components, p, q, 1);
   if (!completeness || !breaks) return closed(l10uLim, Infinity);
-  const slope = observer.slope;
-  const [vLo, vHi] = breaks.varying;
+  return overCompletenessPieces(nd, observer.slope, completeness, breaks.varying, closed, (j, p, q) => {
+    return j + completeIntegral(nd, observer, p, q, completeness, breaks, 1);
+  });
+}
+
+/**
+ * integral over log10 u from a node's limit to infinity of its Schechter sum times the completeness,
+ * cut where the completeness starts and stops varying (`range`, in obs): a piece where it is
+ * constant adds its value times `closed(p, q)`; the varying piece (p to q in log10 u; its obs ends
+ * obsLo and obsHi, the range's) is added by `varying`, given the running sum j and returning it.
+ */
+export function overCompletenessPieces(
+  nd: Pick<NodeState, 'a' | 'log10ULimit'>,
+  slope: number,
+  completeness: CompletenessFn,
+  range: readonly [number, number],
+  closed: (p: number, q: number) => number,
+  varying: (j: number, p: number, q: number, obsLo: number, obsHi: number) => number,
+): number {
+  const l10uLim = nd.log10ULimit;
+  const [vLo, vHi] = range;
   const b1 = (vLo - nd.a) / slope;
   const b2 = (vHi - nd.a) / slope;
   const lo = Math.min(b1, b2);
   const hi = Math.max(b1, b2);
+  // obs at lo and hi (the varying range's ends, exactly)
+  const obsLo = slope > 0 ? vLo : vHi;
+  const obsHi = slope > 0 ? vHi : vLo;
   const cuts = [l10uLim];
   if (lo > l10uLim) cuts.push(lo);
   if (hi > l10uLim) cuts.push(hi);
@@ -453,13 +475,12 @@ export function detectedLuminosityAtNode(
     const p = cuts[i]!;
     const q = cuts[i + 1]!;
     if (!(q > p)) continue;
-    const varying = p >= lo && q <= hi;
-    if (!varying) {
+    if (!(p >= lo && q <= hi)) {
       const probe = q === Infinity ? p + 1 : 0.5 * (p + q);
       const c = completeness(nd.a + slope * probe);
       if (c > 0) j += c * closed(p, q);
     } else {
-      j += completeIntegral(nd, observer, p, q, completeness, breaks, 1);
+      j = varying(j, p, q, obsLo, obsHi);
     }
   }
   return j;
@@ -483,30 +504,7 @@ function detectedLuminosityByRules(
   const l10uLim = nd.log10ULimit;
   const closed = (p: number, q: number): number => schechterBetween(nd.components, p, q, 1);
   const slope = observer.slope;
-  const [vLo, vHi] = breaks.varying;
-  const b1 = (vLo - nd.a) / slope;
-  const b2 = (vHi - nd.a) / slope;
-  const lo = Math.min(b1, b2);
-  const hi = Math.max(b1, b2);
-  // obs at lo and hi (the varying range's ends, exactly)
-  const obsLo = slope > 0 ? vLo : vHi;
-  const obsHi = slope > 0 ? vHi : vLo;
-  const cuts = [l10uLim];
-  if (lo > l10uLim) cuts.push(lo);
-  if (hi > l10uLim) cuts.push(hi);
-  cuts.push(Infinity);
-  let j = 0;
-  for (let i = 0; i + 1 < cuts.length; i++) {
-    const p = cuts[i]!;
-    const q = cuts[i + 1]!;
-    if (!(q > p)) continue;
-    const varying = p >= lo && q <= hi;
-    if (!varying) {
-      const probe = q === Infinity ? p + 1 : 0.5 * (p + q);
-      const c = completeness(nd.a + slope * probe);
-      if (c > 0) j += c * closed(p, q);
-      continue;
-    }
+  return overCompletenessPieces(nd, slope, completeness, breaks.varying, closed, (j, p, _q, obsLo, obsHi) => {
     // The varying piece in obs, from oP (the limit or the range's end) to oQ, split at bin edges.
     const oP = p === l10uLim ? nd.obsLimit : obsLo;
     const oQ = obsHi;
@@ -522,9 +520,8 @@ function detectedLuminosityByRules(
         from = edge;
       }
     }
-    j += rules.integrate(from, e2, 1);
-  }
-  return j;
+    return j + rules.integrate(from, e2, 1);
+  });
 }
 
 function buildNodes(

@@ -32,7 +32,7 @@ import { makeObserver, type Observer } from '../selection/observe.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
 import { completenessQuadrature, type CompletenessQuadrature } from './completeness-quadrature.js';
 import { componentsTotalLuminosity } from '../population/schechter.js';
-import { histogramCount, schechterBetween, type NodeState, type SliceCount } from './engine.js';
+import { histogramCount, overCompletenessPieces, schechterBetween, type NodeState, type SliceCount } from './engine.js';
 
 // (defined with the model, so that the command line reads them without loading this module)
 export { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED, MAX_MODEL_DRAWS } from '../model/model-uncertainty.js';
@@ -149,52 +149,31 @@ function nodeIntegral(nd: NodeState, s: Setting, power: 0 | 1): number {
   const l10uLim = nd.log10ULimit;
   if (!s.completeness || !s.breaks) return closed(l10uLim, Infinity);
   const slope = s.observer.slope;
-  const [vLo, vHi] = s.breaks.varying;
-  const b1 = (vLo - nd.a) / slope;
-  const b2 = (vHi - nd.a) / slope;
-  const lo = Math.min(b1, b2);
-  const hi = Math.max(b1, b2);
-  const obsLo = slope > 0 ? vLo : vHi;
-  const obsHi = slope > 0 ? vHi : vLo;
-  const cuts = [l10uLim];
-  if (lo > l10uLim) cuts.push(lo);
-  if (hi > l10uLim) cuts.push(hi);
-  cuts.push(Infinity);
-  let j = 0;
-  for (let i = 0; i + 1 < cuts.length; i++) {
-    const p = cuts[i]!;
-    const q = cuts[i + 1]!;
-    if (!(q > p)) continue;
-    if (!(p >= lo && q <= hi)) {
-      const probe = q === Infinity ? p + 1 : 0.5 * (p + q);
-      const c = s.completeness(nd.a + slope * probe);
-      if (c > 0) j += c * closed(p, q);
-    } else {
-      // beyond u = 800 the Schechter factor is below e^-800: nothing to integrate there
-      const qq = Math.min(q, L10_U_NEGLIGIBLE);
-      if (!(qq > p)) continue;
-      const oA = p === l10uLim ? nd.obsLimit : obsLo;
-      // (the cut moved out to the histogram grid, so that every draw meets the same few ranges and reuses their rules)
-      const cut = nd.a + slope * qq;
-      const oB = qq < q ? (slope > 0 ? Math.ceil(cut / s.width) : Math.floor(cut / s.width)) * s.width : obsHi;
-      // in pieces on the grid of the histogram's width, as the engine integrates (rules sized per
-      // piece), from the faint end; what is left beyond a piece's bright edge at u is at most
-      // schechterBetween(log10 u, Infinity) (the completeness is at most 1): the pieces stop where
-      // that falls below 1e-17 of what is counted (the Schechter factor, not the range, then ends them)
-      const w = s.width;
-      const up = oB > oA;
-      let from = oA;
-      for (let k = up ? Math.floor(oA / w) + 1 : Math.ceil(oA / w) - 1; ; k += up ? 1 : -1) {
-        const edge = k * w;
-        const to = up ? Math.min(edge, oB) : Math.max(edge, oB);
-        j += s.rules!.integrate(from, to, power);
-        if (to === oB) break;
-        from = to;
-        if (j > 0 && schechterBetween(nd.components, (from - nd.a) / slope, Infinity, power) < 1e-17 * j) break;
-      }
+  return overCompletenessPieces(nd, slope, s.completeness, s.breaks.varying, closed, (j, p, q, obsLo, obsHi) => {
+    // beyond u = 800 the Schechter factor is below e^-800: nothing to integrate there
+    const qq = Math.min(q, L10_U_NEGLIGIBLE);
+    if (!(qq > p)) return j;
+    const oA = p === l10uLim ? nd.obsLimit : obsLo;
+    // (the cut moved out to the histogram grid, so that every draw meets the same few ranges and reuses their rules)
+    const cut = nd.a + slope * qq;
+    const oB = qq < q ? (slope > 0 ? Math.ceil(cut / s.width) : Math.floor(cut / s.width)) * s.width : obsHi;
+    // in pieces on the grid of the histogram's width, as the engine integrates (rules sized per
+    // piece), from the faint end; what is left beyond a piece's bright edge at u is at most
+    // schechterBetween(log10 u, Infinity) (the completeness is at most 1): the pieces stop where
+    // that falls below 1e-17 of what is counted (the Schechter factor, not the range, then ends them)
+    const w = s.width;
+    const up = oB > oA;
+    let from = oA;
+    for (let k = up ? Math.floor(oA / w) + 1 : Math.ceil(oA / w) - 1; ; k += up ? 1 : -1) {
+      const edge = k * w;
+      const to = up ? Math.min(edge, oB) : Math.max(edge, oB);
+      j += s.rules!.integrate(from, to, power);
+      if (to === oB) break;
+      from = to;
+      if (j > 0 && schechterBetween(nd.components, (from - nd.a) / slope, Infinity, power) < 1e-17 * j) break;
     }
-  }
-  return j;
+    return j;
+  });
 }
 
 /** A slice's nodes as flat arrays (the quantities a draw does not change), and scratch nodes for the completeness path. */
