@@ -95,7 +95,6 @@ describe('count engine invariants (fast-check)', () => {
           ),
         );
         const ratio = Math.min(a.area * factor, 41000) / a.area;
-        expect(p2.totals.count).toBeCloseTo(p1.totals.count * ratio, 6);
         expect(Math.abs(p2.totals.count - p1.totals.count * ratio)).toBeLessThanOrEqual(
           1e-9 * p2.totals.count + 1e-300,
         );
