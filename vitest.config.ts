@@ -1,4 +1,5 @@
 import { defineConfig } from 'vitest/config';
+import { LongestFirstSequencer } from './test/support/sequencer.js';
 
 export default defineConfig({
   test: {
@@ -13,6 +14,8 @@ export default defineConfig({
     pool: 'threads',
     maxWorkers: 2,
     isolate: false,
+    // The longest files first (recorded durations), so that no long file is left to run alone at the end.
+    sequence: { sequencer: LongestFirstSequencer },
     // The default reporter for people; a JSON summary that .ci/run turns into one closing line.
     reporters: ['default', 'json'],
     outputFile: { json: 'test-output/vitest-summary.json' },

@@ -27,7 +27,15 @@ import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { modelOffsets, type ModelOffsets, type ModelUncertainty } from '../model/model-uncertainty.js';
 import { gammaFn, upperGamma } from '../numerics/gamma.js';
-import { chebyshev2D, chebyshevAt, chebyshevPoints, chebyshevTail, type Chebyshev2D } from '../numerics/chebyshev.js';
+import {
+  chebyshev2D,
+  chebyshevAlongY,
+  chebyshevAt,
+  chebyshevAtY,
+  chebyshevPoints,
+  chebyshevTail,
+  type Chebyshev2D,
+} from '../numerics/chebyshev.js';
 import { makeObserver, type Observer } from '../selection/observe.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
 import { completenessQuadrature, type CompletenessQuadrature } from './completeness-quadrature.js';
@@ -160,7 +168,8 @@ function nodeIntegral(nd: NodeState, s: Setting, power: 0 | 1): number {
     // in pieces on the grid of the histogram's width, as the engine integrates (rules sized per
     // piece), from the faint end; what is left beyond a piece's bright edge at u is at most
     // schechterBetween(log10 u, Infinity) (the completeness is at most 1): the pieces stop where
-    // that falls below 1e-17 of what is counted (the Schechter factor, not the range, then ends them)
+    // an upper bound on that (tailBound: one exponential, not an incomplete gamma function) falls
+    // below 1e-17 of what is counted (the Schechter factor, not the range, then ends them)
     const w = s.width;
     const up = oB > oA;
     let from = oA;
@@ -170,10 +179,36 @@ function nodeIntegral(nd: NodeState, s: Setting, power: 0 | 1): number {
       j += s.rules!.integrate(from, to, power);
       if (to === oB) break;
       from = to;
-      if (j > 0 && schechterBetween(nd.components, (from - nd.a) / slope, Infinity, power) < 1e-17 * j) break;
+      if (j > 0 && tailBound(nd.components, (from - nd.a) / slope, power) < 1e-17 * j) break;
     }
     return j;
   });
+}
+
+/**
+ * An upper bound on schechterBetween(components, l10u, Infinity, power) (the Schechter factor
+ * beyond u = 10^l10u), at the cost of one exponential per component: with s = alpha + 1 + power,
+ * Gamma(s, u) <= u^(s-1) e^-u for s <= 1 (t^(s-1) <= u^(s-1) over t >= u), and
+ * Gamma(s, u) <= u^(s-1) e^-u / (1 - (s-1)/u) for s > 1 and u > s - 1 (t^(s-1) <= u^(s-1)
+ * e^((s-1)(t-u)/u)); Infinity where neither holds. A bound, so a sum stopped by it leaves out no
+ * more than a stop by the incomplete gamma function itself.
+ */
+export function tailBound(
+  components: readonly { phiStar: number; alpha: number }[],
+  l10u: number,
+  power: 0 | 1,
+): number {
+  const u = 10 ** l10u;
+  const lnU = l10u * Math.LN10;
+  let b = 0;
+  for (const c of components) {
+    const sm1 = c.alpha + power;
+    const e = Math.exp(sm1 * lnU - u);
+    if (sm1 <= 0) b += c.phiStar * e;
+    else if (u > 2 * sm1) b += (c.phiStar * e) / (1 - sm1 / u);
+    else return Infinity;
+  }
+  return b;
 }
 
 /** A slice's nodes as flat arrays (the quantities a draw does not change), and scratch nodes for the completeness path. */
@@ -309,10 +344,13 @@ function sliceUnderDraw(
  *     draws to the largest plus the largest, and alpha over what the draws reach at those nodes,
  *     from the exact path's node integrals (nodeIntegral with phi* = 1) at the Chebyshev points;
  *  2. per component, the slice's ln N_k(d_c, d_alpha_k) = ln sum_i V_i phi*_ik J(a_i + d_c,
- *     alpha_ik + d_alpha_k) (and the luminosity) over the draws' range of offsets, from level 1.
+ *     alpha_ik + d_alpha_k) (and the luminosity) over the draws' range of offsets, from level 1
+ *     (a row of points at a time: at one d_c, level 1 at each node's t as a series in alpha,
+ *     chebyshevAlongY, then at every d_alpha).
  * A draw then costs one series per component: N = sum_k 10^(d_phi_k) N_k. Along each variable
- * the points start at 16 and 8 and double (to 64 and 32) until the coefficients' tail, an
- * estimate of the error in the logarithm, is below TABLE_TOLERANCE x max(1, the largest |ln|);
+ * the points start at 16 and 8 (for a population's first slice; a later slice starts at what the
+ * slice before it needed) and double (to 64 and 32) until the coefficients' tail, an estimate of
+ * the error in the logarithm, is below TABLE_TOLERANCE x max(1, the largest |ln|);
  * otherwise, or where a value vanishes, or where the limit differs from node to node (a
  * threshold limit tabulated in z), the slice takes the exact path for every draw.
  */
@@ -330,12 +368,18 @@ export const TABLE_MIN_DRAWS = 64;
 /** Tail of the Chebyshev coefficients accepted, relative to max(1, the largest |ln|) (see SliceTables). */
 export const TABLE_TOLERANCE = 1e-10;
 const TABLE_POINTS: [number, number] = [16, 8];
+/** The points each level starts from: TABLE_POINTS for a population's first slice, then what the slice before needed. */
+interface TableStart {
+  node: [number, number];
+  slice: [number, number];
+}
 const TABLE_MAX_POINTS: [number, number] = [64, 32];
 
 /**
- * Chebyshev series of ln g over [x0, x1] x [y0, y1] (g evaluated at the points, values returned
- * together for several functions), doubling the points until the tail is small. Undefined when a
- * value is not positive and finite or the tail stays large.
+ * Chebyshev series of ln g over [x0, x1] x [y0, y1] (g evaluated a row of points at a time: at
+ * one x and every y, values returned together for several functions, out[m][j] the m-th at the
+ * j-th y), doubling the points until the tail is small. Undefined when a value is not positive
+ * and finite or the tail stays large.
  */
 function logSeries(
   x0: number,
@@ -343,28 +387,32 @@ function logSeries(
   y0: number,
   y1: number,
   functions: number,
-  g: (x: number, y: number, out: Float64Array) => void,
+  g: (x: number, ys: Float64Array, out: Float64Array[]) => void,
+  start: [number, number],
 ): Chebyshev2D[] | undefined {
-  let [nx, ny] = TABLE_POINTS;
+  let [nx, ny] = start;
   if (!(x1 > x0)) nx = 1;
   if (!(y1 > y0)) ny = 1;
-  const got = new Float64Array(functions);
   for (;;) {
     const xs = chebyshevPoints(nx, x0, x1);
     const ys = chebyshevPoints(ny, y0, y1);
+    const got = Array.from({ length: functions }, () => new Float64Array(ny));
     const v = Array.from({ length: functions }, () => new Float64Array(nx * ny));
     let big = 1;
-    for (let i = 0; i < nx; i++)
-      for (let j = 0; j < ny; j++) {
-        g(xs[i]!, ys[j]!, got);
-        for (let m = 0; m < functions; m++) {
-          const x = got[m]!;
+    for (let i = 0; i < nx; i++) {
+      g(xs[i]!, ys, got);
+      for (let m = 0; m < functions; m++) {
+        const gm = got[m]!;
+        const vm = v[m]!;
+        for (let j = 0; j < ny; j++) {
+          const x = gm[j]!;
           if (!(x > 0 && x < Infinity)) return undefined;
           const l = Math.log(x);
-          v[m]![i * ny + j] = l;
+          vm[i * ny + j] = l;
           big = Math.max(big, Math.abs(l));
         }
       }
+    }
     const series = v.map((vm) => chebyshev2D(vm, nx, ny, x0, x1, y0, y1));
     let tx = 0;
     let ty = 0;
@@ -376,7 +424,11 @@ function logSeries(
     const tol = TABLE_TOLERANCE * big;
     const moreX = tx > tol;
     const moreY = ty > tol;
-    if (!moreX && !moreY) return series;
+    if (!moreX && !moreY) {
+      if (nx > 1) start[0] = nx;
+      if (ny > 1) start[1] = ny;
+      return series;
+    }
     if ((moreX && nx >= TABLE_MAX_POINTS[0]) || (moreY && ny >= TABLE_MAX_POINTS[1])) return undefined;
     if (moreX) nx *= 2;
     if (moreY) ny *= 2;
@@ -388,6 +440,7 @@ function sliceTables(
   s: Setting,
   offsets: readonly ModelOffsets[],
   withLum: boolean,
+  start: TableStart,
 ): SliceTables | undefined {
   const slope = s.observer.slope;
   const nc = f.phi.length;
@@ -444,15 +497,18 @@ function sliceTables(
     alphaMin + Math.min(...daMin),
     alphaMax + Math.max(...daMax),
     withLum ? 2 : 1,
-    (t, alpha, out) => {
+    (t, alphas, out) => {
       probe.a = t;
       probe.log10ULimit = (obsLim - t) / slope;
-      probe.components[0]!.alpha = alpha;
-      s.rules!.setSlice([probe]);
-      s.rules!.setNode(probe);
-      out[0] = nodeIntegral(probe, s, 0);
-      if (withLum) out[1] = nodeIntegral(probe, s, 1);
+      alphas.forEach((alpha, j) => {
+        probe.components[0]!.alpha = alpha;
+        s.rules!.setSlice([probe]);
+        s.rules!.setNode(probe);
+        out[0]![j] = nodeIntegral(probe, s, 0);
+        if (withLum) out[1]![j] = nodeIntegral(probe, s, 1);
+      });
     },
+    start.node,
   );
   if (!nodeLevel) return undefined;
   const [j0, j1] = nodeLevel as [Chebyshev2D, Chebyshev2D | undefined];
@@ -467,19 +523,32 @@ function sliceTables(
       out.lum.push(undefined);
       continue;
     }
-    const series = logSeries(dcMin, dcMax, daMin[k]!, daMax[k]!, withLum ? 2 : 1, (dc, da, got) => {
-      let n = 0;
-      let l = 0;
-      for (const i of used) {
-        const w = f.vw[i]! * phiK[i]!;
-        const t = f.a[i]! + dc;
-        const al = alphaK[i]! + da;
-        n += w * Math.exp(chebyshevAt(j0, t, al));
-        if (j1) l += w * f.lumScale[i]! * Math.exp(chebyshevAt(j1, t, al));
-      }
-      got[0] = n;
-      if (withLum) got[1] = l;
-    });
+    // a row (one d_c): per node, the level-1 series at its t as a series in alpha, then at each d_alpha
+    const row0 = new Float64Array(j0.ny);
+    const row1 = new Float64Array(j1?.ny ?? 0);
+    const series = logSeries(
+      dcMin,
+      dcMax,
+      daMin[k]!,
+      daMax[k]!,
+      withLum ? 2 : 1,
+      (dc, das, got) => {
+        const n = got[0]!.fill(0);
+        const l = withLum ? got[1]!.fill(0) : undefined;
+        for (const i of used) {
+          const w = f.vw[i]! * phiK[i]!;
+          const t = f.a[i]! + dc;
+          chebyshevAlongY(j0, t, row0);
+          if (j1) chebyshevAlongY(j1, t, row1);
+          for (let q = 0; q < das.length; q++) {
+            const al = alphaK[i]! + das[q]!;
+            n[q] = n[q]! + w * Math.exp(chebyshevAtY(j0, row0, al));
+            if (j1 && l) l[q] = l[q]! + w * f.lumScale[i]! * Math.exp(chebyshevAtY(j1, row1, al));
+          }
+        }
+      },
+      start.slice,
+    );
     if (!series) return undefined;
     out.count.push(series[0]);
     out.lum.push(series[1]);
@@ -552,11 +621,12 @@ export function populationDraws(
     population.variable === 'luminosity' ? 10 ** o.characteristic : 10 ** (-0.4 * o.characteristic),
   );
   const res = { count: 0, detected: 0, total: 0 as number | undefined };
+  const start: TableStart = { node: [...TABLE_POINTS], slice: [...TABLE_POINTS] };
   slices.forEach((sl, j) => {
     const f = flatten(sl.drawNodes ?? []);
     const tables =
       s.completeness && !options.exact && n >= TABLE_MIN_DRAWS && f.count > 0
-        ? sliceTables(f, s, offsets, detected !== undefined)
+        ? sliceTables(f, s, offsets, detected !== undefined, start)
         : undefined;
     if (s.completeness && f.count > 0) drawPaths[tables ? 'tabulated' : 'exact']++;
     for (let i = 0; i < n; i++) {

@@ -108,3 +108,38 @@ export function chebyshevAt(c: Chebyshev2D, x: number, y: number): number {
   }
   return 0;
 }
+
+/**
+ * The series at x as a series in y alone: out[j] = sum_i coef[i, j] T_i(x') (the first ny entries
+ * of `out`). With chebyshevAtY it gives the values at many y for one x at the cost of one
+ * chebyshevAt plus ny operations per y.
+ */
+export function chebyshevAlongY(c: Chebyshev2D, x: number, out: Float64Array): void {
+  const { nx, ny, coef } = c;
+  const tx = unit(x, c.x0, c.x1);
+  for (let j = 0; j < ny; j++) out[j] = coef[j]!;
+  if (nx === 1) return;
+  let tPrev = 1;
+  let t = tx;
+  for (let i = 1; i < nx; i++) {
+    const row = i * ny;
+    for (let j = 0; j < ny; j++) out[j] = out[j]! + t * coef[row + j]!;
+    const next = 2 * tx * t - tPrev;
+    tPrev = t;
+    t = next;
+  }
+}
+
+/** The series in y made by chebyshevAlongY (of the series `c`) at y, by Clenshaw's recurrence. */
+export function chebyshevAtY(c: Chebyshev2D, row: Float64Array, y: number): number {
+  const ny = c.ny;
+  const ty = unit(y, c.y0, c.y1);
+  let d1 = 0;
+  let d2 = 0;
+  for (let j = ny - 1; j >= 1; j--) {
+    const d = 2 * ty * d1 - d2 + row[j]!;
+    d2 = d1;
+    d1 = d;
+  }
+  return ty * d1 - d2 + row[0]!;
+}

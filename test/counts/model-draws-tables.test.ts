@@ -10,7 +10,7 @@
  * sources is the same closed form on both paths: 1e-12.
  */
 import { describe, expect, test } from 'vitest';
-import { readFileSync } from 'node:fs';
+import { readFileSync, readdirSync } from 'node:fs';
 import { parse } from 'yaml';
 import { parseSurveyObject } from '../../src/survey/index.js';
 import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
@@ -115,6 +115,19 @@ describe('tabulated draws equal the exact path (1e-8 relative)', () => {
       model_uncertainty: { log10_phi_star: 0.1, m_star: 0.15, alpha: 0.1, correlation: { 'm_star-alpha': 0.5 } },
     };
     compare(obj, 'samples/dropout-field.yaml', true);
+  });
+
+  // every bundled sample whose draws meet a varying completeness (the explore page redraws them on each change)
+  const varying = readdirSync('samples')
+    .filter((f) => f.endsWith('.yaml'))
+    .filter((f) => {
+      const o = read(`samples/${f}`);
+      return o.population?.model_uncertainty !== undefined && o.detection.completeness !== undefined;
+    });
+  test('some bundled sample has draws under a varying completeness', () =>
+    expect(varying).toContain('plan-robust-uv-slope.yaml'));
+  test.each(varying)('samples/%s as written', (f) => {
+    compare(read(`samples/${f}`), `samples/${f}`, true);
   });
 
   const mass = read(`${DIR}/double-schechter-mass.yaml`);

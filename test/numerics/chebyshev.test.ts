@@ -3,7 +3,14 @@
  * (the reference is the function itself, evaluated directly).
  */
 import { describe, expect, test } from 'vitest';
-import { chebyshev2D, chebyshevAt, chebyshevPoints, chebyshevTail } from '../../src/numerics/chebyshev.js';
+import {
+  chebyshev2D,
+  chebyshevAlongY,
+  chebyshevAt,
+  chebyshevAtY,
+  chebyshevPoints,
+  chebyshevTail,
+} from '../../src/numerics/chebyshev.js';
 
 function table(f: (x: number, y: number) => number, nx: number, ny: number, box: [number, number, number, number]) {
   const [x0, x1, y0, y1] = box;
@@ -60,5 +67,23 @@ describe('Chebyshev interpolation in two variables', () => {
     const c = table((x) => Math.sin(x), 16, 1, [0, 1, 0.4, 0.4]);
     expect(Math.abs(chebyshevAt(c, 0.25, 0.4) - Math.sin(0.25))).toBeLessThan(1e-13);
     expect(chebyshevAt(c, 0.25, 0.9)).toBe(chebyshevAt(c, 0.25, 0.4));
+  });
+
+  test('a row at one x (chebyshevAlongY, chebyshevAtY) gives chebyshevAt at every y (1e-13 of the values, up to 9)', () => {
+    const c = table(f, 16, 12, box);
+    const row = new Float64Array(c.ny);
+    for (const x of [-1, -0.37, 0.5, 1.999, 2]) {
+      chebyshevAlongY(c, x, row);
+      for (const y of [0, 0.21, 0.75, 1.5])
+        expect(Math.abs(chebyshevAtY(c, row, y) - chebyshevAt(c, x, y))).toBeLessThan(1e-13);
+    }
+    // and against the function itself, as chebyshevAt is
+    chebyshevAlongY(c, 0.4, row);
+    expect(Math.abs(chebyshevAtY(c, row, 0.9) - f(0.4, 0.9))).toBeLessThan(1e-11);
+    // one point along x: the row is the series in y
+    const one = table((_x, y) => Math.cos(y), 1, 12, [0.3, 0.3, 0, 1.5]);
+    const r1 = new Float64Array(12);
+    chebyshevAlongY(one, 0.3, r1);
+    expect(Math.abs(chebyshevAtY(one, r1, 1.2) - Math.cos(1.2))).toBeLessThan(1e-12);
   });
 });

@@ -68,6 +68,29 @@ describe('published flux-limited surveys (from memory; wide tolerances)', () => 
     expect(Math.abs(medianRedshift(p) - 0.2)).toBeLessThan(0.04);
   });
 
+  test('2dFGRS, b_J < 19.45: about 170 per deg^2 with median z about 0.11 (Colless et al. 2001, MNRAS 328, 1039; from memory)', () => {
+    // The survey's own luminosity function (from memory): Norberg et al. 2002, MNRAS 336, 907,
+    // b_J band, k+e corrected to z = 0: M* - 5 log10 h = -19.66, alpha = -1.21,
+    // phi* = 1.61e-2 h^3 Mpc^-3; with h = 0.7, M* = -20.43 and phi* = 5.52e-3 Mpc^-3. The colour
+    // term beta = +1 (f_nu proportional to nu^-3) gives K(z) = 5 log10(1 + z), 0.21 mag at z = 0.1,
+    // close to the survey's mean k+e correction there (about 0.2 mag; from memory).
+    const text = `format: 1
+title: a flux-limited blue-band galaxy survey (published check)
+cosmology: {h0: 70, omega_m: 0.3}
+area: "1 deg^2"
+redshift: {min: 0.005, max: 0.4}
+detection: {kind: magnitude, limit: 19.45, band: "4600 Angstrom", beta: 1}
+population: {name: galaxies, variable: magnitude, rest_wavelength: 4600, phi_star: 5.52e-3, m_star: -20.43, alpha: -1.21}
+slices: {width: 0.01}
+`;
+    const p = predict(loadSurveyText(text, '2df-like.yaml'), { noUncertainty: true });
+    // 20 %: about 245,000 redshifts over about 1,500 deg^2 at about 90 % completeness gives
+    // 170-190 per deg^2 (from memory); the colour term is a power law
+    expect(p.totals.count).toBeGreaterThan(170 * 0.8);
+    expect(p.totals.count).toBeLessThan(190 * 1.2);
+    expect(Math.abs(medianRedshift(p) - 0.11)).toBeLessThan(0.02);
+  });
+
   test('a fainter limit, the same sky: the deeper survey finds more, at higher median redshift (common practice)', () => {
     const a = predict(loadSurveyText(survey(17.77, 0.6), 'a.yaml'), { noUncertainty: true });
     const b = predict(loadSurveyText(survey(19.8, 0.6), 'b.yaml'), { noUncertainty: true });
