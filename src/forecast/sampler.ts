@@ -95,7 +95,9 @@ export function buildSamplingTables(grid: DensityGrid): SamplingTables {
   const cellKeep = new Float64Array(cellStart[nNodes]!);
   const cellAlias = new Int32Array(cellStart[nNodes]!);
   const nodeCellWidth = new Float64Array(nNodes);
-  const ends = new Float64Array(nodeCells.reduce((a, b) => Math.max(a, b), 0) + 1);
+  const mostCells = nodeCells.reduce((a, b) => Math.max(a, b), 0);
+  const ends = new Float64Array(mostCells + 1);
+  const work = aliasScratch(mostCells);
   for (let j = 0; j < nNodes; j++) {
     const t0 = grid.nodeTLim[j]!;
     const nCells = nodeCells[j]!;
@@ -129,42 +131,67 @@ export function buildSamplingTables(grid: DensityGrid): SamplingTables {
     }
     for (let k = 0; k < nCells; k++) cellCum[c0 + k] = cum > 0 ? cellCum[c0 + k]! / cum : 1;
     cellCum[c0 + nCells - 1] = 1;
-    buildAlias(cellCum, c0, nCells, cellKeep, cellAlias);
+    buildAlias(cellCum, c0, nCells, cellKeep, cellAlias, work);
   }
   return { nodeCum, sliceExpected, cellStart, cellCum, cellSlope, cellExpm1, cellKeep, cellAlias, nodeCellWidth };
+}
+
+/** Scratch arrays of buildAlias, sized for the most cells of any node (allocated once per table). */
+interface AliasScratch {
+  scaled: Float64Array;
+  empty: Uint8Array;
+  small: Int32Array;
+  large: Int32Array;
+}
+
+function aliasScratch(n: number): AliasScratch {
+  return { scaled: new Float64Array(n), empty: new Uint8Array(n), small: new Int32Array(n), large: new Int32Array(n) };
 }
 
 /**
  * Vose's alias table of the n cells at c0 from their cumulative probabilities: column k keeps cell
  * k with probability keep[c0 + k] and otherwise gives cell alias[c0 + k] (indices relative to c0).
+ * The small and large work lists are stacks (last in, first out).
  */
-function buildAlias(cum: Float64Array, c0: number, n: number, keep: Float64Array, alias: Int32Array): void {
-  const scaled = new Float64Array(n);
+function buildAlias(
+  cum: Float64Array,
+  c0: number,
+  n: number,
+  keep: Float64Array,
+  alias: Int32Array,
+  work: AliasScratch,
+): void {
+  const { scaled, empty, small, large } = work;
   let biggest = 0;
   for (let k = 0; k < n; k++) {
     scaled[k] = (cum[c0 + k]! - (k > 0 ? cum[c0 + k - 1]! : 0)) * n;
     if (scaled[k]! > scaled[biggest]!) biggest = k;
   }
-  const empty = Uint8Array.from(scaled, (x) => (x > 0 ? 0 : 1));
-  const small: number[] = [];
-  const large: number[] = [];
-  for (let k = 0; k < n; k++) (scaled[k]! < 1 ? small : large).push(k);
-  while (small.length > 0 && large.length > 0) {
-    const s = small.pop()!;
-    const l = large[large.length - 1]!;
+  let nSmall = 0;
+  let nLarge = 0;
+  for (let k = 0; k < n; k++) {
+    empty[k] = scaled[k]! > 0 ? 0 : 1;
+    if (scaled[k]! < 1) small[nSmall++] = k;
+    else large[nLarge++] = k;
+  }
+  while (nSmall > 0 && nLarge > 0) {
+    const s = small[--nSmall]!;
+    const l = large[nLarge - 1]!;
     keep[c0 + s] = scaled[s]!;
     alias[c0 + s] = l;
     scaled[l] = scaled[l]! + scaled[s]! - 1;
     if (scaled[l] < 1) {
-      large.pop();
-      small.push(l);
+      nLarge--;
+      small[nSmall++] = l;
     }
   }
   // what is left has probability 1 up to rounding (a cell without mass is never kept)
-  for (const k of [...small, ...large]) {
+  const rest = (k: number) => {
     keep[c0 + k] = empty[k] ? 0 : 1;
     alias[c0 + k] = empty[k] ? biggest : k;
-  }
+  };
+  for (let i = 0; i < nSmall; i++) rest(small[i]!);
+  for (let i = 0; i < nLarge; i++) rest(large[i]!);
 }
 
 /** First index i in [lo, hi) with cum[i] > x (cum ascending, last = 1). */

@@ -5,6 +5,10 @@
  * errors, sqrt(se_reference^2 + se_1000^2 x 1000 / N) as the fixture's header says (se from the
  * order statistics); exact references (draws files, one parameter alone, correlation +-1) the
  * engine's own accuracy (1e-8 relative) or, for our N draws, 4 x se_1000 x sqrt(1000 / N).
+ *
+ * Where only the counts' percentiles are checked, predict runs with `model: {counts: true}` (the
+ * counts' model blocks bit for bit those of the full run: checked below) or the draws are taken
+ * from populationDraws directly (their percentiles bit for bit predict's: checked below).
  */
 import { describe, expect, test } from 'vitest';
 import fc from 'fast-check';
@@ -15,6 +19,7 @@ import { parseSurveyObject, loadSurveyFile } from '../../src/survey/index.js';
 import { predict } from '../../src/counts/predict.js';
 import type { ModelSpread } from '../../src/model/outputs/prediction.js';
 import { drawModelOffsets, percentilesOf, populationDraws } from '../../src/counts/model-draws.js';
+import { modelSpread } from '../../src/counts/model-spread.js';
 import { countPopulation } from '../../src/counts/engine.js';
 import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 
@@ -66,7 +71,8 @@ function expectWithin(got: ModelSpread, ref: Pct, draws: number, label: string) 
 describe('percentiles against the independent Monte Carlo (40,000 numpy draws)', () => {
   test.each(['line-correlated.yaml', 'uv-magnitude.yaml', 'double-schechter-mass.yaml'])('%s, 1000 draws', (file) => {
     const c = caseOf(file);
-    const p = predict(loadSurveyFile(join(DIR, file)));
+    // the counts' model blocks only (the same numbers as the full run: 'predict's model blocks' below)
+    const p = predict(loadSurveyFile(join(DIR, file)), { model: { counts: true } });
     if (p.breakdown !== 'redshift') throw new Error('one population');
     // the plain prediction first (the reference's Gauss-Legendre counts, checked by it against quad to 1e-10)
     p.slices.forEach((s, j) => expect(Math.abs(s.count / c.plain.slices[j]! - 1)).toBeLessThan(1e-8));
@@ -81,7 +87,7 @@ describe('percentiles against the independent Monte Carlo (40,000 numpy draws)',
 describe('exact cases', () => {
   test('a draws file: every row once, type-7 percentiles as numpy (exact reference, 1e-8)', () => {
     const c = caseOf('narrowband-draws-file.yaml');
-    const p = predict(loadSurveyFile(join(DIR, c.file)), { model: { draws: 5 } });
+    const p = predict(loadSurveyFile(join(DIR, c.file)), { model: { draws: 5, counts: true } });
     if (p.breakdown !== 'redshift') throw new Error('one population');
     expect(p.totals.model!.draws).toBe(800); // the rows, whatever --draws says
     [...p.slices.map((s) => s.model!), p.totals.model!].forEach((m, j) => {
@@ -117,25 +123,51 @@ describe('exact cases', () => {
   const oneParameter = caseOf('line-correlated.yaml').one_parameter!.concat(
     caseOf('uv-magnitude.yaml').one_parameter!.map((r) => ({ ...r, file: 'uv-magnitude.yaml' })),
   );
+
+  /** The counts of each draw (one survey, one population) and their totals, summed as predict sums them. */
+  function drawsOf(survey: ReturnType<typeof withUncertainty>, draws: number, seed: number) {
+    const pop = survey.populations[0]!;
+    const cosmo = new FlatCosmology(survey.cosmology);
+    const own = countPopulation(survey, pop, cosmo, pop.sliceEdges, { drawNodes: true });
+    const d = populationDraws(survey, pop, cosmo, own, drawModelOffsets(pop.modelUncertainty!, 1, draws, seed, 0), {
+      luminosity: false,
+      histogramDraws: 0,
+    });
+    const totals = new Float64Array(draws);
+    for (const c of d.counts) for (let i = 0; i < draws; i++) totals[i]! += c[i]!;
+    return { counts: d.counts, totals };
+  }
+
+  test("predict's model blocks are the percentiles of populationDraws (bit for bit, with and without counts: true)", () => {
+    // the two surveys of the one-parameter cases (hard limits), with the parameters alpha and M*
+    for (const [file, r, draws] of [
+      ['line-correlated.yaml', oneParameter[2]!, 120],
+      ['uv-magnitude.yaml', oneParameter[4]!, 120],
+    ] as const) {
+      const survey = withUncertainty(file, { [r.parameter]: r.sigma });
+      const d = drawsOf(survey, draws, 7);
+      const want = {
+        slices: d.counts.map((c) => modelSpread(c)),
+        total: modelSpread(d.totals),
+      };
+      for (const counts of [false, true]) {
+        const p = predict(survey, { model: { draws, seed: 7, counts } });
+        if (p.breakdown !== 'redshift') throw new Error('one population');
+        expect({ slices: p.slices.map((s) => s.model), total: p.totals.model }, `${file} ${draws} ${counts}`).toEqual(
+          want,
+        );
+      }
+    }
+  });
+
   test.each(oneParameter.map((r) => [(r as { file?: string }).file ?? 'line-correlated.yaml', r] as const))(
     'one parameter alone (%s): exact percentiles and the Gauss-Hermite mean',
     (file, r) => {
-      const survey = withUncertainty(file, { [r.parameter]: r.sigma });
-      const p = predict(survey, { model: { draws: DRAWS, seed: 7 } });
-      const t = p.totals.model!;
+      // the draws predict makes (seed 7; the same percentiles: the test above), taken once
+      const d = drawsOf(withUncertainty(file, { [r.parameter]: r.sigma }), DRAWS, 7);
+      const t = modelSpread(d.totals);
+      expect(t.draws).toBe(DRAWS);
       // the mean of the same draws against 40-node Gauss-Hermite quadrature: 4 standard errors sqrt(variance / N)
-      const pop = survey.populations[0]!;
-      const own = countPopulation(survey, pop, new FlatCosmology(survey.cosmology), pop.sliceEdges, {
-        drawNodes: true,
-      });
-      const d = populationDraws(
-        survey,
-        pop,
-        new FlatCosmology(survey.cosmology),
-        own,
-        drawModelOffsets(pop.modelUncertainty!, 1, DRAWS, 7, 0),
-        { luminosity: false, histogramDraws: 0 },
-      );
       let mean = 0;
       for (let i = 0; i < DRAWS; i++) for (const c of d.counts) mean += c[i]! / DRAWS;
       expect(Math.abs(mean - r.total.mean)).toBeLessThanOrEqual(4 * Math.sqrt(r.total.variance / DRAWS));
@@ -155,7 +187,7 @@ describe('exact cases', () => {
         [r.parameters[1]!]: r.sigmas[1],
         correlation: { [`${r.parameters[0]}-${r.parameters[1]}`]: rho * (1 - 1e-9) },
       };
-      const p = predict(withUncertainty(file, block), { model: { draws: DRAWS, seed: 3 } });
+      const p = predict(withUncertainty(file, block), { model: { draws: DRAWS, seed: 3, counts: true } });
       const t = p.totals.model!;
       for (const k of KEYS) {
         const se = r.total.se_1000![k] * Math.sqrt(1000 / DRAWS);
@@ -197,8 +229,9 @@ describe('determinism and properties', () => {
           };
           const obj = parse(caseOf('line-correlated.yaml').yaml) as Record<string, Record<string, unknown>>;
           obj.population!.model_uncertainty = block;
-          const one = predict(parseSurveyObject({ ...obj, area: 1 }, file), { model: { draws: 40, seed: 5 } });
-          const big = predict(parseSurveyObject({ ...obj, area }, file), { model: { draws: 40, seed: 5 } });
+          const model = { draws: 40, seed: 5, counts: true };
+          const one = predict(parseSurveyObject({ ...obj, area: 1 }, file), { model });
+          const big = predict(parseSurveyObject({ ...obj, area }, file), { model });
           const m = one.totals.model!;
           const n = big.totals.model!;
           const v = KEYS.map((k) => m[k]);

@@ -2,7 +2,9 @@
  * Invariants of the count engine (style.md, "check the mathematics against itself"), with fast-check:
  * counts are linear in area, never fall as the limit gets fainter, slices sum to the total,
  * histogram counts sum to their slice, and every number is finite. Common practice; the
- * tolerances are floating-point round-off (1e-9 relative).
+ * tolerances are floating-point round-off (1e-9 relative). The first two look at counts alone and
+ * skip the Poisson and cosmic-variance blocks (`noUncertainty`: the same counts bit for bit, which
+ * the third checks).
  */
 import { describe, expect, test } from 'vitest';
 import fc from 'fast-check';
@@ -70,6 +72,9 @@ const args = fc.record({
   slices: fc.integer({ min: 1, max: 6 }),
 });
 
+/** Counts only: no uncertainty blocks (the counts do not depend on them). */
+const FAST = { noUncertainty: true };
+
 describe('count engine invariants (fast-check)', () => {
   test('count is linear in area (1e-9)', () => {
     fc.assert(
@@ -79,6 +84,7 @@ describe('count engine invariants (fast-check)', () => {
             surveyObject(a.kind, a.area, limitFor(a.kind, a.t), a.alpha, a.zmin, a.dz, a.slices),
             'p.yaml',
           ),
+          FAST,
         );
         const p2 = predict(
           parseSurveyObject(
@@ -93,6 +99,7 @@ describe('count engine invariants (fast-check)', () => {
             ),
             'p.yaml',
           ),
+          FAST,
         );
         const ratio = Math.min(a.area * factor, 41000) / a.area;
         expect(Math.abs(p2.totals.count - p1.totals.count * ratio)).toBeLessThanOrEqual(
@@ -112,12 +119,14 @@ describe('count engine invariants (fast-check)', () => {
             surveyObject(a.kind, a.area, limitFor(a.kind, a.t), a.alpha, a.zmin, a.dz, a.slices),
             'p.yaml',
           ),
+          FAST,
         );
         const p2 = predict(
           parseSurveyObject(
             surveyObject(a.kind, a.area, limitFor(a.kind, t2), a.alpha, a.zmin, a.dz, a.slices),
             'p.yaml',
           ),
+          FAST,
         );
         p1.slices!.forEach((s, i) => expect(p2.slices![i]!.count).toBeGreaterThanOrEqual(s.count * (1 - 1e-12)));
       }),
@@ -147,6 +156,16 @@ describe('count engine invariants (fast-check)', () => {
         }
         const text = JSON.stringify(p);
         expect(text).not.toMatch(/null|NaN|Infinity/);
+        // the counts without the uncertainty blocks (the two checks above) are these, bit for bit
+        const fast = predict(
+          parseSurveyObject(
+            surveyObject(a.kind, a.area, limitFor(a.kind, a.t), a.alpha, a.zmin, a.dz, a.slices),
+            'p.yaml',
+          ),
+          FAST,
+        );
+        expect(fast.slices!.map((s) => s.count)).toEqual(p.slices!.map((s) => s.count));
+        expect(fast.totals.count).toBe(p.totals.count);
       }),
       { numRuns: 60 },
     );
