@@ -71,7 +71,8 @@ await build({
   logLevel: 'warning',
 });
 const src = resolve('src');
-const lazyRandom = {
+/** The generators' stand-ins, reading dist/random.cjs with `read` (an expression) on first use. */
+const lazyRandomWith = (read) => ({
   name: 'lazy-random',
   setup(b) {
     const filter = new RegExp(`^(${Object.keys(RANDOM).join('|')})$`);
@@ -82,13 +83,15 @@ const lazyRandom = {
       contents: [
         "import { createRequire } from 'node:module';",
         'let generator;',
-        `const load = () => (generator ??= createRequire(import.meta.url)('#random').${args.path});`,
+        `const load = () => (generator ??= (${read}).${args.path});`,
         'export default { factory: (...a) => load().factory(...a) };',
       ].join('\n'),
       loader: 'js',
+      resolveDir: src,
     }));
   },
-};
+});
+const lazyRandom = lazyRandomWith("createRequire(import.meta.url)('#random')");
 await build({
   entryPoints: { index: 'src/index.ts', 'cli/skytally': 'src/cli/main.ts', worker: 'src/worker.ts' },
   plugins: [lazyMathjs, lazyRandom],
@@ -110,6 +113,101 @@ await build({
   },
   logLevel: 'warning',
 });
+// The command-line program again, as one CommonJS file (dist/cli/skytally.cjs, what
+// bin/skytally.js runs), so that it can be compiled with V8's code cache (src/cli/code-cache.ts;
+// ES modules cannot be in Node 20): mathjs and the random-number generators stay in their own
+// files as above (the generators read with their code cache too), and vega with vega-lite goes
+// into dist/vega.cjs, read (with its own code cache) only when a figure is drawn. The loader itself is bundled alone for bin/skytally.js.
+const codeCache = resolve('src/cli/code-cache.ts');
+const lazyVega = {
+  name: 'lazy-vega',
+  setup(b) {
+    b.onResolve({ filter: /^vega(-lite)?$/ }, (args) =>
+      args.importer.startsWith(src) ? { path: args.path, namespace: 'lazy-vega' } : undefined,
+    );
+    b.onLoad({ filter: /.*/, namespace: 'lazy-vega' }, (args) => ({
+      contents: [
+        `const { loadCached } = require(${JSON.stringify(codeCache)});`,
+        "const { join } = require('node:path');",
+        `module.exports = loadCached(join(__dirname, '..', 'vega.cjs')).exports.${args.path === 'vega' ? 'vega' : 'vegaLite'};`,
+      ].join('\n'),
+      loader: 'js',
+      resolveDir: src,
+    }));
+  },
+};
+// vega-canvas reads the optional package `canvas` with a top-level await, which CommonJS cannot
+// hold: the same reading, synchronous (without `canvas` installed both give no canvas).
+const syncCanvas = {
+  name: 'sync-canvas',
+  setup(b) {
+    b.onLoad({ filter: /vega-canvas\.node\.js$/ }, async (args) => {
+      const { readFile } = await import('node:fs/promises');
+      const text = await readFile(args.path, 'utf8');
+      const from = "NodeCanvas = await import('canvas');";
+      if (!text.includes(from)) throw new Error(`vega-canvas changed: ${args.path} no longer reads canvas as expected`);
+      return { contents: text.replace(from, "NodeCanvas = require('canvas');"), loader: 'js' };
+    });
+  },
+};
+// The rasteriser's import() (src/render/write-figures.ts), made through the loader's own import()
+// (see src/cli/code-cache.ts), or a plain import() when the bundle is loaded otherwise.
+const loaderImport = {
+  name: 'loader-import',
+  setup(b) {
+    b.onLoad({ filter: /[\\/]src[\\/]render[\\/]write-figures\.ts$/ }, async (args) => {
+      const { readFile } = await import('node:fs/promises');
+      const text = await readFile(args.path, 'utf8');
+      const from = 'import(RASTERISER)';
+      if (!text.includes(from)) throw new Error(`${args.path} no longer imports the rasteriser as expected`);
+      const to = "(typeof __skytallyImport === 'function' ? __skytallyImport : (s) => import(s))(RASTERISER)";
+      return { contents: text.replace(from, to), loader: 'ts' };
+    });
+  },
+};
+const cjs = {
+  bundle: true,
+  format: 'cjs',
+  platform: 'node',
+  target: 'node20',
+  minify: false,
+  sourcemap: true,
+  legalComments: 'eof',
+  logLevel: 'warning',
+};
+await build({
+  ...cjs,
+  stdin: {
+    contents: "export * as vega from 'vega';\nexport * as vegaLite from 'vega-lite';",
+    resolveDir: '.',
+    sourcefile: 'vega-libraries.js',
+  },
+  outfile: 'dist/vega.cjs',
+  plugins: [syncCanvas],
+  external: ['canvas'],
+});
+await build({ ...cjs, entryPoints: [codeCache], outfile: 'dist/cli/code-cache.cjs' });
+await build({
+  ...cjs,
+  entryPoints: ['src/cli/main.ts'],
+  outfile: 'dist/cli/skytally.cjs',
+  plugins: [
+    lazyMathjs,
+    lazyRandomWith(
+      `require(${JSON.stringify(codeCache)}).loadCached(require('node:path').join(__dirname, '..', 'random.cjs')).exports`,
+    ),
+    lazyVega,
+    loaderImport,
+  ],
+  external: ['playwright-core', '@resvg/resvg-js'],
+  // import.meta as CommonJS has it: this file's URL, and resolution from it (#worker, #explore-page).
+  define: { 'import.meta.url': '__skytallyUrl', 'import.meta.resolve': '__skytallyResolve' },
+  banner: {
+    js: "const __skytallyUrl = require('node:url').pathToFileURL(__filename).href; const __skytallyResolve = (s) => require('node:url').pathToFileURL(require.resolve(s)).href;",
+  },
+});
+// The code caches, recorded by running the program over some samples (scripts/code-cache.mjs).
+execFileSync(process.execPath, ['scripts/code-cache.mjs'], { stdio: 'inherit' });
 // The explore page's script (src/explore/browser/main.ts with the engine), for browsers: inlined
 // into every page `skytally explore` writes (scripts/explore-bundle.mjs).
 await bundleExplorePage('dist/explore-page.js');

@@ -130,7 +130,7 @@ describe('check', () => {
 describe('the built program as a subprocess', () => {
   const bin = 'bin/skytally.js';
   test('predict --format json', () => {
-    if (!existsSync('dist/cli/skytally.js')) execFileSync('npm', ['run', 'build'], { stdio: 'ignore' });
+    if (!existsSync('dist/cli/skytally.cjs')) execFileSync('npm', ['run', 'build'], { stdio: 'ignore' });
     const out = execFileSync(process.execPath, [bin, 'predict', `samples/${SAMPLES[0]}`, '--format', 'json'], {
       encoding: 'utf8',
     });

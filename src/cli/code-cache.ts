@@ -1,0 +1,78 @@
+/**
+ * Start-up of the command-line program: its CommonJS bundles (dist/cli/skytally.cjs, and
+ * dist/vega.cjs when a figure is drawn) are compiled with V8's code cache, the compiled bytecode
+ * that `npm run build` writes beside each bundle (`<bundle>.cache`, scripts/code-cache.mjs) after
+ * running the program over the samples. Reading the cache skips parsing the bundle and compiling
+ * the functions the build's runs used; V8 checks the cache against the source, its own version
+ * and its flags, and compiles from the source as usual whenever it does not fit (another Node
+ * version, a rebuilt bundle): the cache changes how fast the program starts, never what it does.
+ *
+ * Bundled on its own into dist/cli/code-cache.cjs for bin/skytally.js, and into the program's
+ * bundle for dist/vega.cjs. Node 20 has no compile cache for modules (Node 22's
+ * `module.enableCompileCache` is the built-in form of the same), hence a vm.Script here. Code
+ * compiled by vm.Script cannot itself import() (Node 20 asks for an experimental flag), so the
+ * bundle is handed `__skytallyImport`, this module's own import(), for the one package it
+ * imports at run time (the rasteriser; scripts/build.mjs rewrites that import).
+ */
+import { readFileSync, writeFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { dirname } from 'node:path';
+import { Script } from 'node:vm';
+
+/** Set (to any value) by the build while it runs the program to record the caches. */
+export const WRITE_ENV = 'SKYTALLY_WRITE_CODE_CACHE';
+
+export interface CachedLoad {
+  /** The bundle's module.exports. */
+  exports: Record<string, unknown>;
+  /** True when V8 refused the cache, false when it used it, undefined when there was none. */
+  rejected: boolean | undefined;
+}
+
+/** import() from this module (loaded by Node, not through vm.Script). */
+const importModule = (specifier: string): Promise<unknown> => import(specifier);
+
+/** Bundles loaded by this process, by path (each is evaluated once). */
+const loaded = new Map<string, CachedLoad>();
+
+/** Load a CommonJS bundle, compiled with its code cache `<file>.cache` when one fits. */
+export function loadCached(file: string): CachedLoad {
+  const known = loaded.get(file);
+  if (known) return known;
+  const source = readFileSync(file, 'utf8');
+  const cacheFile = `${file}.cache`;
+  let cachedData: Buffer | undefined;
+  if (!process.env[WRITE_ENV]) {
+    try {
+      cachedData = readFileSync(cacheFile);
+    } catch {
+      cachedData = undefined;
+    }
+  }
+  const script = new Script(
+    `(function (exports, require, module, __filename, __dirname, __skytallyImport) {${source}\n})`,
+    {
+      filename: file,
+      ...(cachedData ? { cachedData } : {}),
+    },
+  );
+  const module = { exports: {} as Record<string, unknown>, filename: file, id: file, loaded: false };
+  const fn = script.runInThisContext() as (
+    exports: unknown,
+    require: NodeJS.Require,
+    module: unknown,
+    filename: string,
+    dirname: string,
+    importModule: (specifier: string) => Promise<unknown>,
+  ) => void;
+  const result: CachedLoad = { exports: module.exports, rejected: cachedData ? script.cachedDataRejected : undefined };
+  loaded.set(file, result);
+  if (process.env[WRITE_ENV]) {
+    // After the build's runs: the bytecode of every function compiled by then goes into the cache.
+    process.on('exit', () => writeFileSync(cacheFile, script.createCachedData()));
+  }
+  fn.call(module.exports, module.exports, createRequire(file), module, file, dirname(file), importModule);
+  module.loaded = true;
+  result.exports = module.exports;
+  return result;
+}

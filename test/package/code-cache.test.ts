@@ -1,0 +1,79 @@
+/**
+ * The program as bin/skytally.js runs it: the CommonJS bundle dist/cli/skytally.cjs compiled with
+ * the V8 code cache the build recorded (src/cli/code-cache.ts). The cache fits the Node that built
+ * it, a cache that no longer fits its bundle is refused and the bundle compiled as usual, and either
+ * way the program writes exactly what the ES-module bundle of the same sources
+ * (dist/cli/skytally.js, no cache) writes.
+ */
+import { execFileSync } from 'node:child_process';
+import { copyFileSync, existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { afterAll, beforeAll, describe, expect, test } from 'vitest';
+
+const BUILT = ['dist/cli/skytally.cjs', 'dist/cli/skytally.cjs.cache', 'dist/vega.cjs.cache', 'dist/cli/skytally.js'];
+const dir = mkdtempSync(join(tmpdir(), 'skytally-code-cache-test-'));
+
+beforeAll(() => {
+  if (!BUILT.every((f) => existsSync(f))) execFileSync('npm', ['run', 'build'], { stdio: 'ignore' });
+}, 300_000);
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+/** In a new process: load `bundle` through the loader; whether V8 refused its cache. */
+function loadIn(bundle: string): { rejected: boolean | undefined; exports: string[] } {
+  const script = `
+    const { loadCached } = require(${JSON.stringify(resolve('dist/cli/code-cache.cjs'))});
+    const r = loadCached(${JSON.stringify(resolve(bundle))});
+    console.log(JSON.stringify({ rejected: r.rejected, exports: Object.keys(r.exports).sort() }));`;
+  return JSON.parse(execFileSync(process.execPath, ['-e', script], { encoding: 'utf8' })) as {
+    rejected: boolean | undefined;
+    exports: string[];
+  };
+}
+
+/** What a program (an entry script that runs main) writes for `args`, with --out into the test directory. */
+function programOutput(entry: string, args: string[], name: string): string {
+  const out = join(dir, name);
+  execFileSync(process.execPath, [entry, ...args, '--out', out], { stdio: 'ignore' });
+  return readFileSync(out, 'utf8');
+}
+
+describe('the code caches', () => {
+  test('the caches the build recorded fit this Node and their bundles', () => {
+    expect(loadIn('dist/cli/skytally.cjs')).toEqual({
+      rejected: false,
+      exports: ['VERSION', 'handleError', 'main', 'run'],
+    });
+    expect(loadIn('dist/vega.cjs')).toEqual({ rejected: false, exports: ['vega', 'vegaLite'] });
+  });
+
+  test('a cache that does not fit its bundle is refused, and the bundle still runs', () => {
+    const bundle = join(dir, 'changed.cjs');
+    writeFileSync(bundle, `${readFileSync('dist/cli/skytally.cjs', 'utf8')}\n// changed\n`);
+    copyFileSync('dist/cli/skytally.cjs.cache', `${bundle}.cache`);
+    // the changed copy sits elsewhere: its relative reads (package imports, specs/) need the package
+    const r = loadIn(bundle);
+    expect(r.rejected).toBe(true);
+    expect(r.exports).toContain('main');
+  });
+});
+
+describe('bin/skytally.js writes what the ES-module bundle writes', () => {
+  const esm = join(dir, 'esm-entry.mjs');
+  beforeAll(() =>
+    writeFileSync(esm, `import { main } from ${JSON.stringify(resolve('dist/cli/skytally.js'))};\nmain();\n`),
+  );
+  test.each([
+    [['check', 'samples/halpha-narrowband.yaml', '--format', 'json']],
+    [['predict', 'samples/deep-continuum.yaml', '--format', 'json']],
+    [['predict', 'samples/dropout-field.yaml', '--format', 'csv']],
+  ])('%j', (args) => {
+    expect(programOutput('bin/skytally.js', args, 'bin.out')).toBe(programOutput(esm, args, 'esm.out'));
+  });
+  test('a report, with its figures drawn by vega from dist/vega.cjs', () => {
+    const args = ['report', 'samples/dropout-field.yaml'];
+    const html = programOutput('bin/skytally.js', args, 'bin.html');
+    expect(html).toContain('<svg');
+    expect(html).toBe(programOutput(esm, args, 'esm.html'));
+  }, 60_000);
+});
