@@ -22,6 +22,7 @@ import {
 import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { runCli, type Captured } from './helpers.js';
+import { sampleReport } from '../support/sample-reports.js';
 
 const SAMPLE = 'samples/halpha-narrowband.yaml';
 
@@ -106,9 +107,12 @@ describe('--out: what it names decides how it is written', () => {
   });
 
   test('report --out - writes the HTML to standard output', async () => {
-    const r = await runCli(['report', 'samples/mass-limited.yaml', '--out', '-']);
+    const r = await runCli(['report', 'samples/slitless-halpha.yaml', '--out', '-']);
     expect(r.code, r.stderr).toBe(0);
     expect(r.stdout.startsWith('<!DOCTYPE html>') || r.stdout.startsWith('<!doctype html>')).toBe(true);
+    expect(existsSync('-')).toBe(false);
+    // the document `--out FILE` writes (made once per run: test/support/sample-reports.ts)
+    expect(r.stdout).toBe(readFileSync((await sampleReport('slitless-halpha.yaml')).html, 'utf8'));
   }, 120_000);
 
   test.each([
@@ -245,7 +249,7 @@ describe('all or nothing', () => {
     const figs = join(dir, 'figs');
     mkdirSync(join(figs, 'histograms.svg'), { recursive: true });
     const out = join(dir, 'report.html');
-    const r = await runCli(['report', 'samples/mass-limited.yaml', '--out', out, '--figures', figs]);
+    const r = await runCli(['report', 'samples/slitless-halpha.yaml', '--out', out, '--figures', figs]);
     refused(r);
     expect(existsSync(out)).toBe(false);
     expect(readdirSync(figs)).toEqual(['histograms.svg']);

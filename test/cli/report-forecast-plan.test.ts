@@ -13,6 +13,7 @@ import { Ajv2020 } from 'ajv/dist/2020.js';
 import { runCli } from './helpers.js';
 import { tempDir } from '../support/temp.js';
 import { sampleReport } from '../support/sample-reports.js';
+import { sampleCommand } from '../support/sample-commands.js';
 import type { Json } from '../support/json.js';
 
 type Any = Json;
@@ -109,7 +110,9 @@ describe('forecast --figures: the Fisher ellipses drawn from the JSON forecast p
     expect(r.stderr.replace(/^skytally: PNG not written.*\n/m, '')).toBe('');
     expect(r.code).toBe(0);
     // drawing changes nothing printed: the same JSON as without --figures, and no mock fits listed
-    const plain = await runCli(['forecast', `samples/${sample}`, '--format', 'json']);
+    // (the plain run is shared with the other files that compare with it: test/support/sample-commands.ts)
+    const plain = await sampleCommand(['forecast', `samples/${sample}`, '--format', 'json']);
+    expect(plain.code).toBe(0);
     expect(r.stdout).toBe(plain.stdout);
     const f = JSON.parse(r.stdout) as Any;
     const y = f.parameters.includes('m_star') ? 'm_star' : 'log10_l_star';
@@ -220,6 +223,8 @@ describe('plan --figures: the best design marked where the JSON puts it', () => 
     const dir = join(tmp(), 'figs');
     const r = await runCli(['plan', 'samples/plan-uv-deep-wide.yaml', '--format', 'json', '--figures', dir]);
     expect(r.code).toBe(0);
+    // drawing changes nothing printed: the same JSON as without --figures (that run shared: test/support/sample-commands.ts)
+    expect(r.stdout).toBe((await sampleCommand(['plan', 'samples/plan-uv-deep-wide.yaml', '--format', 'json'])).stdout);
     const p = JSON.parse(r.stdout) as Any;
     const svg = readFileSync(join(dir, 'plan.svg'), 'utf8');
     const ms = allMarks(svg);
@@ -263,7 +268,9 @@ describe.each(PLAN_SAMPLES)('report of %s: plan and forecast', (sample) => {
     expect(html).not.toContain('class="omitted"');
     expect(html).not.toMatch(/NaN|Infinity/);
 
-    const p = JSON.parse((await runCli(['plan', `samples/${sample}`, '--format', 'json'])).stdout) as Any;
+    const plan = await sampleCommand(['plan', `samples/${sample}`, '--format', 'json']);
+    expect(plan.code, plan.stderr).toBe(0);
+    const p = JSON.parse(plan.stdout) as Any;
     const planMarks = allMarks(figureInHtml(html, 'plan'));
     const best = planMarks.filter((m) => m.role === 'point' && !('pointings' in m.label));
     expect(best).toHaveLength(1);
@@ -274,7 +281,9 @@ describe.each(PLAN_SAMPLES)('report of %s: plan and forecast', (sample) => {
     expect(bestRows).toHaveLength(1);
     expect(bestRows[0]![1]).toContain(`<td>${p.best.pointings}</td><td>`);
 
-    const f = JSON.parse((await runCli(['forecast', `samples/${sample}`, '--format', 'json'])).stdout) as Any;
+    const fc = await sampleCommand(['forecast', `samples/${sample}`, '--format', 'json']);
+    expect(fc.code, fc.stderr).toBe(0);
+    const f = JSON.parse(fc.stdout) as Any;
     const { cross } = readForecastFigure(figureInHtml(html, 'forecast'));
     const y = f.parameters.includes('m_star') ? 'm_star' : 'log10_l_star';
     expect(close(num(cross.label.x!), f.center.alpha)).toBe(true);
@@ -343,14 +352,18 @@ describe('report --mocks N --seed S', () => {
 
 describe('sections that cannot be computed: a sentence, not a failure', () => {
   test('double Schechter: the report says why there is no forecast', async () => {
-    const r = await runCli(['report', 'samples/double-schechter-mass.yaml']);
-    expect(r.code).toBe(0);
-    expect(r.stderr).toBe('');
-    const m = /<p class="omitted" id="forecast-omitted">([^<]*)<\/p>/.exec(r.stdout);
+    // `report samples/double-schechter-mass.yaml --out ... --figures ...`, made once per run
+    // (test/support/sample-reports.ts); its only possible note is the one --figures gives when
+    // the PNG rasteriser cannot load
+    const made = await sampleReport('double-schechter-mass.yaml');
+    expect(made.result.code).toBe(0);
+    expect(made.result.stderr.replace(/^skytally: PNG not written.*\n/m, '')).toBe('');
+    const html = readFileSync(made.html, 'utf8');
+    const m = /<p class="omitted" id="forecast-omitted">([^<]*)<\/p>/.exec(html);
     expect(m).not.toBeNull();
     expect(m![1]).toMatch(/^No forecast: .*single Schechter function.* is a double Schechter function\.$/);
-    expect(r.stdout).not.toContain('id="figure-forecast"');
-    expect(r.stdout).not.toContain('id="forecast-table"');
+    expect(html).not.toContain('id="figure-forecast"');
+    expect(html).not.toContain('id="forecast-table"');
   });
 
   const massWithPlan = (plan: string) => `${readFileSync('samples/mass-limited.yaml', 'utf8')}plan:\n${plan}`;

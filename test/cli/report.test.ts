@@ -12,6 +12,7 @@ import { join } from 'node:path';
 import { runCli } from './helpers.js';
 import { tempDir } from '../support/temp.js';
 import { sampleReport } from '../support/sample-reports.js';
+import { sampleCommand } from '../support/sample-commands.js';
 
 const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml'));
 const tmp = () => tempDir('skytally-report-');
@@ -78,7 +79,7 @@ describe.each(SAMPLES)('%s: figures draw the numbers of predict --format json', 
     expect(r.stdout).toBe('');
     figDir = made.figures;
     html = readFileSync(made.html, 'utf8');
-    const j = await runCli(['predict', `samples/${sample}`, '--format', 'json']);
+    const j = await sampleCommand(['predict', `samples/${sample}`, '--format', 'json']);
     expect(j.code).toBe(0);
     p = JSON.parse(j.stdout);
   });
@@ -229,11 +230,13 @@ describe.each(SAMPLES)('%s: figures draw the numbers of predict --format json', 
 
 describe('report: units follow the population', () => {
   test('a threshold sample in stellar mass labels its limit and L* with the quantity, never erg/s', async () => {
-    const r = await runCli(['report', 'samples/mass-limited.yaml']);
-    expect(r.code).toBe(0);
-    expect(r.stdout).toContain('log₁₀ stellar mass [Msun]');
-    expect(r.stdout).toContain('log₁₀ characteristic stellar mass [Msun]');
-    expect(r.stdout).not.toContain('erg');
+    // `report samples/mass-limited.yaml --out ...`, made once per run (test/support/sample-reports.ts)
+    const made = await sampleReport('mass-limited.yaml');
+    expect(made.result.code).toBe(0);
+    const html = readFileSync(made.html, 'utf8');
+    expect(html).toContain('log₁₀ stellar mass [Msun]');
+    expect(html).toContain('log₁₀ characteristic stellar mass [Msun]');
+    expect(html).not.toContain('erg');
   });
 });
 
@@ -256,17 +259,19 @@ describe('report: user text is escaped, through the command', () => {
 });
 
 describe('report and --figures: files and refusals', () => {
-  test('without --out the HTML goes to stdout', async () => {
+  test('without --out the HTML goes to stdout: the document --out writes', async () => {
     const r = await runCli(['report', 'samples/halpha-narrowband.yaml']);
     expect(r.code).toBe(0);
     expect(r.stdout.startsWith('<!DOCTYPE html>')).toBe(true);
+    // the same document as `report samples/halpha-narrowband.yaml --out FILE` (test/support/sample-reports.ts)
+    expect(r.stdout).toBe(readFileSync((await sampleReport('halpha-narrowband.yaml')).html, 'utf8'));
   });
 
   test('predict --figures writes one SVG per figure and prints the same output as without', async () => {
     const dir = join(tmp(), 'new', 'figs');
     const r = await runCli(['predict', 'samples/mass-limited.yaml', '--format', 'json', '--figures', dir]);
     expect(r.code).toBe(0);
-    const plain = await runCli(['predict', 'samples/mass-limited.yaml', '--format', 'json']);
+    const plain = await sampleCommand(['predict', 'samples/mass-limited.yaml', '--format', 'json']);
     expect(r.stdout).toBe(plain.stdout);
     for (const name of ['counts', 'histograms', 'luminosity-function']) {
       const svg = readFileSync(join(dir, `${name}.svg`), 'utf8');
@@ -352,7 +357,9 @@ describe('report --format json: the results of every section in one document (sp
     expect(validate(doc), JSON.stringify(validate.errors)).toBe(true);
     expect(doc.survey_file).toBe('halpha-narrowband.yaml');
     expect(doc.plan).toBeUndefined();
-    const p = JSON.parse((await runCli(['predict', 'samples/halpha-narrowband.yaml', '--format', 'json'])).stdout);
+    const p = JSON.parse(
+      (await sampleCommand(['predict', 'samples/halpha-narrowband.yaml', '--format', 'json'])).stdout,
+    );
     expect(doc.prediction).toEqual(p);
     const f = JSON.parse(
       (await runCli(['forecast', 'samples/halpha-narrowband.yaml', '--format', 'json', '--mocks', '4'])).stdout,
