@@ -17,7 +17,9 @@
  * e^-8 of its size times e^(-distance / width), which 8 points on 0.6 integrate to about 1e-7 of
  * itself (the rule on exp(lambda x) errs by about (lambda h)^16 / 16!): the grid equals the one
  * with every panel one width wide to 1e-9 on every sample (test/forecast/grid-panels.test.ts),
- * with fewer points where the limit lies far below L*.
+ * with fewer points where the limit lies far below L*. Where the limit is one observed value (a flux
+ * or magnitude limit), the nodes' segments between the same cuts cover the same observed values, and
+ * the completeness is evaluated on them once for every node (ln w and ln c then add per point).
  *
  * The grid is plain data (typed arrays and numbers) so that it can be sent to worker threads.
  *
@@ -104,6 +106,14 @@ export function buildDensityGrid(
   // Fine panels only near a logistic's half point (maxStep < MAX_PANEL_T only for a narrow logistic).
   const fineBand = maxStep < MAX_PANEL_T ? FINE_WIDTHS * maxStep : 0;
   const segment: number[] = [0, 0];
+  const lnW = new Float64Array(PANEL_POINTS);
+  // ln c at the points of a segment between two named cuts (the limit, a break point, a fine band's
+  // edge): where the limit is one observed value (a flux or magnitude limit) every node's segment
+  // between the same cuts covers the same observed values in the same panels, so the completeness
+  // is evaluated once for all nodes; reused only when the segment's ends agree to 1e-14 of the
+  // observed value (else evaluated afresh: a limit tabulated in z)
+  const shared = new Map<string, { oLo: number; oHi: number; count: number; values: Float64Array }>();
+  const same = (x: number, y: number): boolean => Math.abs(x - y) <= 1e-14 * Math.max(1, Math.abs(x));
 
   const sliceNodeStart: number[] = [0];
   const nodeZ: number[] = [];
@@ -113,9 +123,23 @@ export function buildDensityGrid(
   const nodeTLim: number[] = [];
   const nodeTMax: number[] = [];
   const nodePointStart: number[] = [0];
-  const pointT: number[] = [];
-  const pointLogW: number[] = [];
-  const pointA1: number[] = [];
+  // the points' arrays, grown by doubling (npt points held)
+  let npt = 0;
+  let pointT = new Float64Array(4096);
+  let pointLogW = new Float64Array(4096);
+  let pointA1 = new Float64Array(4096);
+  const room = (more: number): void => {
+    if (npt + more <= pointT.length) return;
+    const size = Math.max(2 * pointT.length, npt + more);
+    const grow = (a: Float64Array) => {
+      const b = new Float64Array(size);
+      b.set(a.subarray(0, npt));
+      return b;
+    };
+    pointT = grow(pointT);
+    pointLogW = grow(pointLogW);
+    pointA1 = grow(pointA1);
+  };
 
   for (let s = 0; s + 1 < edges.length; s++) {
     const lo = Math.max(edges[s]!, population.window.min);
@@ -153,35 +177,55 @@ export function buildDensityGrid(
         const tMax = Math.log((uLim > 1 ? uLim : 1) + U_BRIGHT_SPAN);
         const logV = Math.log(survey.areaSr * cosmo.volumeElementMpc3Sr(zi) * w[i]! * c0.phiStar * kept);
         const a1 = c0.alpha + 1;
-        // Panel cuts: the ends and completeness break points in between.
-        const cuts = [tLim, tMax];
+        // Panel cuts: the ends and completeness break points in between (each named, see shared).
+        const cuts: { t: number; name: string }[] = [
+          { t: tLim, name: 'limit' },
+          { t: tMax, name: '' },
+        ];
         const halves: number[] = [];
         if (breaks) {
-          for (const bp of breaks.points) {
+          breaks.points.forEach((bp, b) => {
             const t = (LN10 * (bp - obs.a)) / slope;
-            if (t > tLim && t < tMax) cuts.push(t);
+            if (t > tLim && t < tMax) cuts.push({ t, name: `${b}` });
             if (fineBand > 0) {
               halves.push(t);
-              for (const e of [t - fineBand, t + fineBand]) if (e > tLim && e < tMax) cuts.push(e);
+              if (t - fineBand > tLim && t - fineBand < tMax) cuts.push({ t: t - fineBand, name: `${b}-` });
+              if (t + fineBand > tLim && t + fineBand < tMax) cuts.push({ t: t + fineBand, name: `${b}+` });
             }
-          }
+          });
         }
         // u > 1: the Schechter factor's slope a1 - u grows with u: the fine panels stay there
         // (no cut at u = 1)
-        cuts.sort((x, y) => x - y);
+        cuts.sort((x, y) => x.t - y.t);
         for (let k = 0; k + 1 < cuts.length; k++) {
-          segment[0] = cuts[k]!;
-          segment[1] = cuts[k + 1]!;
+          segment[0] = cuts[k]!.t;
+          segment[1] = cuts[k + 1]!.t;
           const mid = 0.5 * (segment[0] + segment[1]);
           const fine = fineBand === 0 || halves.some((h) => Math.abs(mid - h) < fineBand);
           const pn = panelNodes(segment, fine ? maxStep : MAX_PANEL_T, PANEL_POINTS, panels);
+          room(pn.count);
+          // ln c at the points: from a segment between the same named cuts at the same observed
+          // values (another node's), or evaluated here
+          const oLo = obs.a + (slope * segment[0]) / LN10;
+          const oHi = obs.a + (slope * segment[1]) / LN10;
+          const name = cuts[k]!.name && cuts[k + 1]!.name ? `${cuts[k]!.name}|${cuts[k + 1]!.name}` : '';
+          let lnC = name ? shared.get(name) : undefined;
+          if (!lnC || lnC.count !== pn.count || !same(lnC.oLo, oLo) || !same(lnC.oHi, oHi)) {
+            lnC = { oLo, oHi, count: pn.count, values: new Float64Array(pn.count) };
+            for (let q = 0; q < pn.count; q++)
+              lnC.values[q] = cfn ? Math.log(cfn(obs.a + (slope * pn.x[q]!) / LN10)) : 0;
+            if (name) shared.set(name, lnC);
+          }
+          // the Gauss-Legendre weights repeat from panel to panel: their logarithms once
+          for (let q = 0; q < PANEL_POINTS && q < pn.count; q++) lnW[q] = Math.log(pn.w[q]!);
+          const values = lnC.values;
           for (let q = 0; q < pn.count; q++) {
-            const t = pn.x[q]!;
-            const c = cfn ? cfn(obs.a + (slope * t) / LN10) : 1;
-            if (!(c > 0)) continue;
-            pointT.push(t);
-            pointLogW.push(logV + Math.log(pn.w[q]! * c));
-            pointA1.push(a1);
+            const lc = values[q]!;
+            if (!(lc > -Infinity)) continue;
+            pointT[npt] = pn.x[q]!;
+            pointLogW[npt] = logV + lnW[q % PANEL_POINTS]! + lc;
+            pointA1[npt] = a1;
+            npt++;
           }
         }
         nodeZ.push(zi);
@@ -190,7 +234,7 @@ export function buildDensityGrid(
         nodeLogV.push(logV);
         nodeTLim.push(tLim);
         nodeTMax.push(tMax);
-        nodePointStart.push(pointT.length);
+        nodePointStart.push(npt);
       }
     }
     sliceNodeStart.push(nodeZ.length);
@@ -207,10 +251,10 @@ export function buildDensityGrid(
     nodeTLim: Float64Array.from(nodeTLim),
     nodeTMax: Float64Array.from(nodeTMax),
     nodePointStart: Int32Array.from(nodePointStart),
-    pointT: new Float64Array(pointT),
-    pointExpT: expOf(pointT),
-    pointLogW: new Float64Array(pointLogW),
-    pointA1: new Float64Array(pointA1),
+    pointT: pointT.slice(0, npt),
+    pointExpT: expOf(pointT, npt),
+    pointLogW: pointLogW.slice(0, npt),
+    pointA1: pointA1.slice(0, npt),
     kind: survey.detection.kind,
     variable: population.variable,
   };
@@ -218,9 +262,9 @@ export function buildDensityGrid(
   return grid;
 }
 
-function expOf(xs: number[]): Float64Array {
-  const out = new Float64Array(xs.length);
-  for (let i = 0; i < xs.length; i++) out[i] = Math.exp(xs[i]!);
+function expOf(xs: Float64Array, n: number): Float64Array {
+  const out = new Float64Array(n);
+  for (let i = 0; i < n; i++) out[i] = Math.exp(xs[i]!);
   return out;
 }
 

@@ -38,7 +38,9 @@
  * within the interval by Newton's method on ln n(>M) (the derivative is -dn/dln M / n), each step
  * integrating only the piece from the iterate to the knot; it stops below 1e-12 in ln M.
  * Masses outside 1e3 .. 1e16 Msun use 8-point Gauss-Legendre panels of width 0.25 in ln M from M
- * upwards, stopping once a panel adds less than 1e-13 of the running total.
+ * upwards, stopping once a panel adds less than 1e-13 of the running total. matcherAt's sums take
+ * ln sigma(M, 0) at their nodes from a table made once, so that (a nu^2)^-p and e^(-a nu^2 / 2)
+ * cost two exponentials per node, and leave out the nodes where e^(-a nu^2 / 2) underflows to 0.
  */
 import type { LinearPower } from './power-spectrum.js';
 import {
@@ -236,9 +238,9 @@ export function createHaloModel(power: LinearPower): HaloModel {
     let n = 0;
     let nb = 0;
     for (let i = 0; i < 8; i++) {
-      const r = perLnM(c + h * x[i]!, d);
-      n += w[i]! * r.n;
-      nb += w[i]! * r.n * shethTormenBias(r.nu);
+      const g = integrand(c + h * x[i]!, d);
+      n += w[i]! * g;
+      nb += w[i]! * g * evalBias;
     }
     return { n: n * h, nb: nb * h };
   };
@@ -248,7 +250,8 @@ export function createHaloModel(power: LinearPower): HaloModel {
    * 8-point Gauss-Legendre nodes, sigma(M, 0) and the weight (rho / M) |d ln sigma / d ln M| times
    * the panel's quadrature weight: dn/dlnM = weight f(nu) nu, nu = delta_c / (sigma d).
    */
-  let grid: { edges: number[]; nodes: { sigma0: Float64Array; weight: Float64Array } } | undefined;
+  let grid:
+    { edges: number[]; nodes: { sigma0: Float64Array; lnSigma0: Float64Array; weight: Float64Array } } | undefined;
   const matchGrid = () => {
     if (grid) return grid;
     const edges: number[] = [];
@@ -256,6 +259,7 @@ export function createHaloModel(power: LinearPower): HaloModel {
     edges.push(LN_M_TABLE_MAX);
     const m = edges.length - 1;
     const sigma0 = new Float64Array(8 * m);
+    const lnSigma0 = new Float64Array(8 * m);
     const weight = new Float64Array(8 * m);
     const { x, w } = gaussLegendre(8);
     const s = spline();
@@ -264,11 +268,12 @@ export function createHaloModel(power: LinearPower): HaloModel {
       const h = 0.5 * (edges[i + 1]! - edges[i]!);
       for (let k = 0; k < 8; k++) {
         const lnM = c + h * x[k]!;
-        sigma0[8 * i + k] = Math.exp(splineEval(s, lnM));
+        lnSigma0[8 * i + k] = splineEval(s, lnM);
+        sigma0[8 * i + k] = Math.exp(lnSigma0[8 * i + k]!);
         weight[8 * i + k] = w[k]! * h * (rho / Math.exp(lnM)) * -splineDerivative(s, lnM);
       }
     }
-    grid = { edges, nodes: { sigma0, weight } };
+    grid = { edges, nodes: { sigma0, lnSigma0, weight } };
     return grid;
   };
 
@@ -489,15 +494,22 @@ export function createHaloModel(power: LinearPower): HaloModel {
       const cumN = new Float64Array(m + 1);
       const cumB = new Float64Array(m + 1);
       let summed = m;
+      // ln(a nu^2) = ln a + 2 (ln delta_c - ln sigma0 - ln d): (a nu^2)^-p and e^(-a nu^2 / 2) by
+      // two exponentials; where the latter underflows (a nu^2 / 2 > 746) a node adds exactly 0
+      const lnAD = Math.log(a) + 2 * (Math.log(DELTA_C) - Math.log(d));
       const sumDownTo = (j: number): void => {
         for (let i = summed - 1; i >= j; i--) {
           let pn = 0;
           let pb = 0;
           for (let k = 8 * i; k < 8 * i + 8; k++) {
+            const lnAnu2 = lnAD - 2 * nodes.lnSigma0[k]!;
+            const anu2 = Math.exp(lnAnu2);
+            if (!(anu2 <= 1492)) continue;
             const nu = DELTA_C / (nodes.sigma0[k]! * d);
-            const n = nodes.weight[k]! * shethTormenMultiplicity(nu) * nu;
+            const q = Math.exp(-p * lnAnu2);
+            const n = nodes.weight[k]! * fNorm * (1 + q) * Math.exp(-0.5 * anu2) * nu;
             pn += n;
-            pb += n * shethTormenBias(nu);
+            pb += n * (1 + (anu2 - 1) / DELTA_C + (2 * p * q) / (DELTA_C * (q + 1)));
           }
           cumN[i] = cumN[i + 1]! + pn;
           cumB[i] = cumB[i + 1]! + pb;

@@ -32,7 +32,8 @@ function logF(grid: DensityGrid, cfn: CompletenessFn | undefined, j: number, t: 
   return c > 0 ? base + Math.log(c) : -Infinity;
 }
 
-export function buildRejectionTables(grid: DensityGrid): RejectionTables {
+/** The tables of every node, or only of the nodes in `only` (the others get no cells and cannot be drawn at). */
+export function buildRejectionTables(grid: DensityGrid, only?: ReadonlySet<number>): RejectionTables {
   const cfn = completenessOfGrid(grid);
   const nNodes = grid.nodeZ.length;
   const cellStart = [0];
@@ -41,6 +42,10 @@ export function buildRejectionTables(grid: DensityGrid): RejectionTables {
   const nodeCellWidth = new Float64Array(nNodes);
   const nodeShift = new Float64Array(nNodes);
   for (let j = 0; j < nNodes; j++) {
+    if (only && !only.has(j)) {
+      cellStart.push(cellCum.length);
+      continue;
+    }
     const t0 = grid.nodeTLim[j]!;
     const t1 = grid.nodeTMax[j]!;
     const nCells = Math.max(1, Math.ceil((t1 - t0) / CELL));
