@@ -3,9 +3,10 @@
  * dist/vega.cjs when a figure is drawn) are compiled with V8's code cache, the compiled bytecode
  * that `npm run build` writes beside each bundle (`<bundle>.cache`, scripts/code-cache.mjs) after
  * running the program over the samples. Reading the cache skips parsing the bundle and compiling
- * the functions the build's runs used; V8 checks the cache against the source, its own version
- * and its flags, and compiles from the source as usual whenever it does not fit (another Node
- * version, a rebuilt bundle): the cache changes how fast the program starts, never what it does.
+ * the functions the build's runs used. V8 checks a cache against its own version and flags and
+ * the source's length; the cache file also starts with the SHA-256 of the bundle it was recorded
+ * for. Whenever it does not fit (another Node version, a changed bundle) the bundle is compiled
+ * from the source as usual: the cache changes how fast the program starts, never what it does.
  *
  * Bundled on its own into dist/cli/code-cache.cjs for bin/skytally.js, and into the program's
  * bundle for dist/vega.cjs. Node 20 has no compile cache for modules (Node 22's
@@ -14,10 +15,15 @@
  * bundle is handed `__skytallyImport`, this module's own import(), for the one package it
  * imports at run time (the rasteriser; scripts/build.mjs rewrites that import).
  */
+import { isAscii } from 'node:buffer';
+import { createHash } from 'node:crypto';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname } from 'node:path';
 import { Script } from 'node:vm';
+
+/** Length of the SHA-256 digest of the bundle at the start of its cache file. */
+const DIGEST_BYTES = 32;
 
 /** Set (to any value) by the build while it runs the program to record the caches. */
 export const WRITE_ENV = 'SKYTALLY_WRITE_CODE_CACHE';
@@ -25,7 +31,10 @@ export const WRITE_ENV = 'SKYTALLY_WRITE_CODE_CACHE';
 export interface CachedLoad {
   /** The bundle's module.exports. */
   exports: Record<string, unknown>;
-  /** True when V8 refused the cache, false when it used it, undefined when there was none. */
+  /**
+   * True when V8 refused the cache, false when it used it, undefined when there was none (or it
+   * was recorded for another bundle).
+   */
   rejected: boolean | undefined;
 }
 
@@ -39,12 +48,19 @@ const loaded = new Map<string, CachedLoad>();
 export function loadCached(file: string): CachedLoad {
   const known = loaded.get(file);
   if (known) return known;
-  const source = readFileSync(file, 'utf8');
+  const bytes = readFileSync(file);
+  // (esbuild writes ASCII but for a few literals: latin1 reads such a file the same, faster)
+  const source = bytes.toString(isAscii(bytes) ? 'latin1' : 'utf8');
+  // V8 checks a cache against the source's length only: the cache file starts with the SHA-256 of
+  // the bundle it was recorded for, and is used only for exactly that bundle.
+  const digest = createHash('sha256').update(bytes).digest();
   const cacheFile = `${file}.cache`;
   let cachedData: Buffer | undefined;
   if (!process.env[WRITE_ENV]) {
     try {
-      cachedData = readFileSync(cacheFile);
+      const cache = readFileSync(cacheFile);
+      if (cache.length > DIGEST_BYTES && digest.equals(cache.subarray(0, DIGEST_BYTES)))
+        cachedData = cache.subarray(DIGEST_BYTES);
     } catch {
       cachedData = undefined;
     }
@@ -69,7 +85,7 @@ export function loadCached(file: string): CachedLoad {
   loaded.set(file, result);
   if (process.env[WRITE_ENV]) {
     // After the build's runs: the bytecode of every function compiled by then goes into the cache.
-    process.on('exit', () => writeFileSync(cacheFile, script.createCachedData()));
+    process.on('exit', () => writeFileSync(cacheFile, Buffer.concat([digest, script.createCachedData()])));
   }
   fn.call(module.exports, module.exports, createRequire(file), module, file, dirname(file), importModule);
   module.loaded = true;

@@ -1,9 +1,9 @@
 /**
  * The program as bin/skytally.js runs it: the CommonJS bundle dist/cli/skytally.cjs compiled with
  * the V8 code cache the build recorded (src/cli/code-cache.ts). The cache fits the Node that built
- * it, a cache that no longer fits its bundle is refused and the bundle compiled as usual, and either
- * way the program writes exactly what the ES-module bundle of the same sources
- * (dist/cli/skytally.js, no cache) writes.
+ * it; a cache recorded for another bundle (V8 compares only the lengths) or one V8 refuses is not
+ * used and the bundle compiled as usual; the program writes exactly what the ES-module bundle of
+ * the same sources (dist/cli/skytally.js, no cache) writes.
  */
 import { execFileSync } from 'node:child_process';
 import { copyFileSync, existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
@@ -47,11 +47,26 @@ describe('the code caches', () => {
     expect(loadIn('dist/vega.cjs')).toEqual({ rejected: false, exports: ['vega', 'vegaLite'] });
   });
 
-  test('a cache that does not fit its bundle is refused, and the bundle still runs', () => {
+  test('a cache recorded for another bundle of the same length (all V8 compares) is not used', () => {
+    const text = readFileSync('dist/cli/skytally.cjs', 'utf8');
+    const at = text.indexOf('function run(');
+    expect(at).toBeGreaterThan(0);
     const bundle = join(dir, 'changed.cjs');
-    writeFileSync(bundle, `${readFileSync('dist/cli/skytally.cjs', 'utf8')}\n// changed\n`);
+    // one character of the source changed, the length kept: a function renamed
+    writeFileSync(bundle, `${text.slice(0, at)}function ruN(${text.slice(at + 'function run('.length)}`);
+    expect(readFileSync(bundle, 'utf8').length).toBe(text.length);
     copyFileSync('dist/cli/skytally.cjs.cache', `${bundle}.cache`);
-    // the changed copy sits elsewhere: its relative reads (package imports, specs/) need the package
+    const r = loadIn(bundle);
+    expect(r.rejected).toBeUndefined();
+    expect(r.exports).toContain('main');
+  });
+
+  test('a cache V8 refuses: the bundle is compiled from its source and runs', () => {
+    const bundle = join(dir, 'same.cjs');
+    copyFileSync('dist/cli/skytally.cjs', bundle);
+    const cache = readFileSync('dist/cli/skytally.cjs.cache');
+    // the bundle's digest kept, the bytecode that follows it spoilt
+    writeFileSync(`${bundle}.cache`, Buffer.concat([cache.subarray(0, 32), Buffer.alloc(4096, 7)]));
     const r = loadIn(bundle);
     expect(r.rejected).toBe(true);
     expect(r.exports).toContain('main');
