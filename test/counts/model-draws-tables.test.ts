@@ -1,7 +1,8 @@
 /**
  * The tabulated path of the model's draws where the completeness varies (src/counts/model-draws.ts,
- * SliceTables) against the exact path (every draw's completeness quadrature at every node, itself
- * checked against the engine at the same offsets in test/counts/model-uncertainty.test.ts).
+ * SliceTables) and under a hard limit (hardTables) against the exact path (every draw's
+ * completeness quadrature or incomplete gamma functions at every node, itself checked against the
+ * engine at the same offsets in test/counts/model-uncertainty.test.ts).
  *
  * Tolerance 1e-8 relative on each draw's count and detected luminosity: the tables' Chebyshev
  * tails are held below 1e-10 of the logarithm's scale (an estimate, hence the margin of 100), which
@@ -123,17 +124,23 @@ describe('tabulated draws equal the exact path (1e-8 relative)', () => {
     compare(obj, 'samples/dropout-field.yaml', true);
   });
 
-  // every bundled sample whose draws meet a varying completeness (the explore page redraws them on each change)
-  const varying = readdirSync('samples')
+  // every bundled sample with model_uncertainty (the explore page redraws them on each change):
+  // a varying completeness (level 1 and 2) or a hard limit (hardTables)
+  const drawn = readdirSync('samples')
     .filter((f) => f.endsWith('.yaml'))
-    .filter((f) => {
-      const o = read(`samples/${f}`);
-      return o.population?.model_uncertainty !== undefined && o.detection.completeness !== undefined;
-    });
-  test('some bundled sample has draws under a varying completeness', () =>
-    expect(varying).toContain('plan-robust-uv-slope.yaml'));
-  test.each(varying)('samples/%s as written', (f) => {
+    .filter((f) => read(`samples/${f}`).population?.model_uncertainty !== undefined);
+  test('bundled samples have draws under a varying completeness and under a hard limit', () => {
+    expect(drawn).toContain('plan-robust-uv-slope.yaml');
+    expect(drawn.some((f) => read(`samples/${f}`).detection.completeness === undefined)).toBe(true);
+  });
+  test.each(drawn)('samples/%s as written', (f) => {
     compare(read(`samples/${f}`), `samples/${f}`, true);
+  });
+
+  test('hard limit (no completeness), line flux with a correlated model: tabulated per component', () => {
+    const obj = { ...line, detection: { ...line.detection, completeness: undefined }, slices: { count: 3 } };
+    delete (obj.detection as Record<string, unknown>).completeness;
+    compare(obj, `${DIR}/line-correlated.yaml`, true);
   });
 
   test('level-1 series kept from a computation at another area give the draws computed afresh, bit for bit', () => {
