@@ -100,6 +100,8 @@ export interface PopulationDraws {
 const L10_U_NEGLIGIBLE = Math.log10(800);
 
 interface Setting {
+  /** What the completeness quadrature depends on, as text (for keeping level-1 series). */
+  key: string;
   width: number;
   observer: Observer;
   completeness?: CompletenessFn;
@@ -111,7 +113,8 @@ function settingOf(survey: Survey, population: Population, cosmo: FlatCosmology)
   const observer = makeObserver(survey.detection, population, cosmo);
   const spec = survey.detection.completeness;
   const width = survey.histogramWidth;
-  if (!spec) return { observer, width };
+  const key = `${JSON.stringify(spec)} ${survey.detection.kind} ${population.variable} ${observer.slope} ${width}`;
+  if (!spec) return { key, observer, width };
   const completeness = completenessFunction(spec, survey.detection.kind, population.variable);
   const breaks = completenessBreaks(spec, survey.detection.kind);
   const rules = completenessQuadrature(
@@ -121,7 +124,7 @@ function settingOf(survey: Survey, population: Population, cosmo: FlatCosmology)
     completeness,
     breaks,
   );
-  return { observer, width, completeness, breaks, rules };
+  return { key, observer, width, completeness, breaks, rules };
 }
 
 function isZero(o: ModelOffsets): boolean {
@@ -435,6 +438,39 @@ function logSeries(
   }
 }
 
+/**
+ * Level-1 series made so far, by everything they depend on (the completeness curve, detection kind,
+ * variable, slope and histogram width; the limit in obs; the ranges; the luminosity; the points
+ * started from), with the points they ended at: the same inputs give the same series, so a
+ * prediction that differs only where level 1 cannot see it (the area, phi*, the slices' volume
+ * weights: an explore page's area control) reuses them. The last LEVEL1_KEPT are kept.
+ */
+const level1Kept = new Map<string, { series: Chebyshev2D[] | undefined; ended: [number, number] }>();
+const LEVEL1_KEPT = 64;
+
+/** Forget the kept level-1 series (tests: a computation afresh). */
+export function forgetLevel1Series(): void {
+  level1Kept.clear();
+}
+
+function nodeLevelKept(
+  key: string,
+  start: TableStart,
+  make: () => Chebyshev2D[] | undefined,
+): Chebyshev2D[] | undefined {
+  let kept = level1Kept.get(key);
+  if (!kept) {
+    const series = make();
+    kept = { series, ended: [start.node[0], start.node[1]] };
+    if (level1Kept.size >= LEVEL1_KEPT) level1Kept.delete(level1Kept.keys().next().value!);
+    level1Kept.set(key, kept);
+  } else {
+    start.node[0] = kept.ended[0];
+    start.node[1] = kept.ended[1];
+  }
+  return kept.series;
+}
+
 function sliceTables(
   f: SliceNodes,
   s: Setting,
@@ -491,24 +527,33 @@ function sliceTables(
     allComponents: [{ phiStar: 1, alpha: 0 }],
     lumScale: 1,
   };
-  const nodeLevel = logSeries(
-    aMin + dcMin,
-    aMax + dcMax,
-    alphaMin + Math.min(...daMin),
-    alphaMax + Math.max(...daMax),
-    withLum ? 2 : 1,
-    (t, alphas, out) => {
-      probe.a = t;
-      probe.log10ULimit = (obsLim - t) / slope;
-      alphas.forEach((alpha, j) => {
-        probe.components[0]!.alpha = alpha;
-        s.rules!.setSlice([probe]);
-        s.rules!.setNode(probe);
-        out[0]![j] = nodeIntegral(probe, s, 0);
-        if (withLum) out[1]![j] = nodeIntegral(probe, s, 1);
-      });
-    },
-    start.node,
+  const x0 = aMin + dcMin;
+  const x1 = aMax + dcMax;
+  const y0 = alphaMin + Math.min(...daMin);
+  const y1 = alphaMax + Math.max(...daMax);
+  const nodeLevel = nodeLevelKept(
+    `${s.key} ${obsLim} ${x0} ${x1} ${y0} ${y1} ${withLum} ${start.node.join(',')}`,
+    start,
+    () =>
+      logSeries(
+        x0,
+        x1,
+        y0,
+        y1,
+        withLum ? 2 : 1,
+        (t, alphas, out) => {
+          probe.a = t;
+          probe.log10ULimit = (obsLim - t) / slope;
+          alphas.forEach((alpha, j) => {
+            probe.components[0]!.alpha = alpha;
+            s.rules!.setSlice([probe]);
+            s.rules!.setNode(probe);
+            out[0]![j] = nodeIntegral(probe, s, 0);
+            if (withLum) out[1]![j] = nodeIntegral(probe, s, 1);
+          });
+        },
+        start.node,
+      ),
   );
   if (!nodeLevel) return undefined;
   const [j0, j1] = nodeLevel as [Chebyshev2D, Chebyshev2D | undefined];

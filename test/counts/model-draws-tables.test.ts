@@ -15,7 +15,13 @@ import { parse } from 'yaml';
 import { parseSurveyObject } from '../../src/survey/index.js';
 import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import { countPopulation } from '../../src/counts/engine.js';
-import { drawModelOffsets, drawPaths, populationDraws, TABLE_MIN_DRAWS } from '../../src/counts/model-draws.js';
+import {
+  drawModelOffsets,
+  drawPaths,
+  forgetLevel1Series,
+  populationDraws,
+  TABLE_MIN_DRAWS,
+} from '../../src/counts/model-draws.js';
 
 const DIR = 'test/reference/surveys-model';
 const DRAWS = 80;
@@ -128,6 +134,27 @@ describe('tabulated draws equal the exact path (1e-8 relative)', () => {
     expect(varying).toContain('plan-robust-uv-slope.yaml'));
   test.each(varying)('samples/%s as written', (f) => {
     compare(read(`samples/${f}`), `samples/${f}`, true);
+  });
+
+  test('level-1 series kept from a computation at another area give the draws computed afresh, bit for bit', () => {
+    const obj = read('samples/plan-robust-uv-slope.yaml');
+    const draws = (area: string) => {
+      const survey = parseSurveyObject({ ...obj, area }, 'samples/plan-robust-uv-slope.yaml');
+      const pop = survey.populations[0]!;
+      const cosmo = new FlatCosmology(survey.cosmology);
+      const own = countPopulation(survey, pop, cosmo, pop.sliceEdges, { drawNodes: true });
+      const offsets = drawModelOffsets(pop.modelUncertainty!, pop.components.length, DRAWS, 5, 0);
+      return populationDraws(survey, pop, cosmo, own, offsets, { luminosity: true, histogramDraws: 0 });
+    };
+    forgetLevel1Series();
+    const fresh = draws('80 arcmin^2');
+    forgetLevel1Series();
+    draws('45 arcmin^2');
+    const reused = draws('80 arcmin^2');
+    expect(reused.counts).toEqual(fresh.counts);
+    expect(reused.luminosity).toEqual(fresh.luminosity);
+    // the area does move the counts (the comparison is not of one computation with itself)
+    expect(draws('45 arcmin^2').counts[0]![3]! / fresh.counts[0]![3]!).toBeCloseTo(45 / 80, 12);
   });
 
   const mass = read(`${DIR}/double-schechter-mass.yaml`);
