@@ -11,7 +11,9 @@
  *   log10 u_lim -> log10 u_lim - d_c / slope,
  * while its redshift, volume weight, transmission and limit in obs stay: per draw only the
  * Schechter part is redone (upper incomplete gamma functions; where the completeness varies, the
- * completeness quadrature's rules in obs, whose completeness values are kept with the curve).
+ * completeness quadrature's rules in obs, whose completeness values are kept with the curve). From
+ * TABLE_MIN_DRAWS draws on, a slice's draws come from Chebyshev tables over the offsets instead
+ * (SliceTables where the completeness varies, hardTables under a hard limit).
  *
  * Draws: from a multivariate normal, d = L xi with L the Cholesky factor of the covariance and xi
  * standard normal from a Mersenne Twister stream (Matsumoto & Nishimura 1998;
@@ -100,6 +102,8 @@ export interface PopulationDraws {
 const L10_U_NEGLIGIBLE = Math.log10(800);
 
 interface Setting {
+  /** What the completeness quadrature depends on, as text (for keeping level-1 series). */
+  key: string;
   width: number;
   observer: Observer;
   completeness?: CompletenessFn;
@@ -111,7 +115,8 @@ function settingOf(survey: Survey, population: Population, cosmo: FlatCosmology)
   const observer = makeObserver(survey.detection, population, cosmo);
   const spec = survey.detection.completeness;
   const width = survey.histogramWidth;
-  if (!spec) return { observer, width };
+  const key = `${JSON.stringify(spec)} ${survey.detection.kind} ${population.variable} ${observer.slope} ${width}`;
+  if (!spec) return { key, observer, width };
   const completeness = completenessFunction(spec, survey.detection.kind, population.variable);
   const breaks = completenessBreaks(spec, survey.detection.kind);
   const rules = completenessQuadrature(
@@ -121,7 +126,7 @@ function settingOf(survey: Survey, population: Population, cosmo: FlatCosmology)
     completeness,
     breaks,
   );
-  return { observer, width, completeness, breaks, rules };
+  return { key, observer, width, completeness, breaks, rules };
 }
 
 function isZero(o: ModelOffsets): boolean {
@@ -372,6 +377,8 @@ const TABLE_POINTS: [number, number] = [16, 8];
 interface TableStart {
   node: [number, number];
   slice: [number, number];
+  /** The detected luminosity's tables under a hard limit (hardTables). */
+  lum: [number, number];
 }
 const TABLE_MAX_POINTS: [number, number] = [64, 32];
 
@@ -435,6 +442,39 @@ function logSeries(
   }
 }
 
+/**
+ * Level-1 series made so far, by everything they depend on (the completeness curve, detection kind,
+ * variable, slope and histogram width; the limit in obs; the ranges; the luminosity; the points
+ * started from), with the points they ended at: the same inputs give the same series, so a
+ * prediction that differs only where level 1 cannot see it (the area, phi*, the slices' volume
+ * weights: an explore page's area control) reuses them. The last LEVEL1_KEPT are kept.
+ */
+const level1Kept = new Map<string, { series: Chebyshev2D[] | undefined; ended: [number, number] }>();
+const LEVEL1_KEPT = 64;
+
+/** Forget the kept level-1 series (tests: a computation afresh). */
+export function forgetLevel1Series(): void {
+  level1Kept.clear();
+}
+
+function nodeLevelKept(
+  key: string,
+  start: TableStart,
+  make: () => Chebyshev2D[] | undefined,
+): Chebyshev2D[] | undefined {
+  let kept = level1Kept.get(key);
+  if (!kept) {
+    const series = make();
+    kept = { series, ended: [start.node[0], start.node[1]] };
+    if (level1Kept.size >= LEVEL1_KEPT) level1Kept.delete(level1Kept.keys().next().value!);
+    level1Kept.set(key, kept);
+  } else {
+    start.node[0] = kept.ended[0];
+    start.node[1] = kept.ended[1];
+  }
+  return kept.series;
+}
+
 function sliceTables(
   f: SliceNodes,
   s: Setting,
@@ -491,24 +531,33 @@ function sliceTables(
     allComponents: [{ phiStar: 1, alpha: 0 }],
     lumScale: 1,
   };
-  const nodeLevel = logSeries(
-    aMin + dcMin,
-    aMax + dcMax,
-    alphaMin + Math.min(...daMin),
-    alphaMax + Math.max(...daMax),
-    withLum ? 2 : 1,
-    (t, alphas, out) => {
-      probe.a = t;
-      probe.log10ULimit = (obsLim - t) / slope;
-      alphas.forEach((alpha, j) => {
-        probe.components[0]!.alpha = alpha;
-        s.rules!.setSlice([probe]);
-        s.rules!.setNode(probe);
-        out[0]![j] = nodeIntegral(probe, s, 0);
-        if (withLum) out[1]![j] = nodeIntegral(probe, s, 1);
-      });
-    },
-    start.node,
+  const x0 = aMin + dcMin;
+  const x1 = aMax + dcMax;
+  const y0 = alphaMin + Math.min(...daMin);
+  const y1 = alphaMax + Math.max(...daMax);
+  const nodeLevel = nodeLevelKept(
+    `${s.key} ${obsLim} ${x0} ${x1} ${y0} ${y1} ${withLum} ${start.node.join(',')}`,
+    start,
+    () =>
+      logSeries(
+        x0,
+        x1,
+        y0,
+        y1,
+        withLum ? 2 : 1,
+        (t, alphas, out) => {
+          probe.a = t;
+          probe.log10ULimit = (obsLim - t) / slope;
+          alphas.forEach((alpha, j) => {
+            probe.components[0]!.alpha = alpha;
+            s.rules!.setSlice([probe]);
+            s.rules!.setNode(probe);
+            out[0]![j] = nodeIntegral(probe, s, 0);
+            if (withLum) out[1]![j] = nodeIntegral(probe, s, 1);
+          });
+        },
+        start.node,
+      ),
   );
   if (!nodeLevel) return undefined;
   const [j0, j1] = nodeLevel as [Chebyshev2D, Chebyshev2D | undefined];
@@ -552,6 +601,82 @@ function sliceTables(
     if (!series) return undefined;
     out.count.push(series[0]);
     out.lum.push(series[1]);
+  }
+  return out;
+}
+
+/**
+ * The tables of a slice with a hard limit (no completeness): per component, ln N_k(d_c, d_alpha_k)
+ * = ln sum_i V_i phi*_ik Gamma(alpha_ik + d_alpha_k + 1, u_i 10^(-d_c / slope)) and the detected
+ * luminosity (Gamma(s + 1, u) = s Gamma(s, u) + u^s e^-u, as sliceUnderDraw) as Chebyshev series
+ * over the draws' offsets, from the exact sums at the Chebyshev points (logSeries, the points and
+ * tolerance of SliceTables): a draw then costs one series per component instead of one incomplete
+ * gamma function per node and component. Undefined (the exact path) where a value vanishes or the
+ * tail stays large.
+ */
+function hardTables(
+  f: SliceNodes,
+  s: Setting,
+  offsets: readonly ModelOffsets[],
+  withLum: boolean,
+  start: TableStart,
+): SliceTables | undefined {
+  const slope = s.observer.slope;
+  const nc = f.phi.length;
+  let dcMin = Infinity;
+  let dcMax = -Infinity;
+  const daMin = new Array<number>(nc).fill(Infinity);
+  const daMax = new Array<number>(nc).fill(-Infinity);
+  for (const o of offsets) {
+    dcMin = Math.min(dcMin, o.characteristic);
+    dcMax = Math.max(dcMax, o.characteristic);
+    for (let k = 0; k < nc; k++) {
+      daMin[k] = Math.min(daMin[k]!, o.alpha[k]!);
+      daMax[k] = Math.max(daMax[k]!, o.alpha[k]!);
+    }
+  }
+  const out: SliceTables = { count: [], lum: [] };
+  for (let k = 0; k < nc; k++) {
+    const phiK = f.phi[k]!;
+    const alphaK = f.alpha[k]!;
+    const used: number[] = [];
+    for (let i = 0; i < f.count; i++) if (f.vw[i]! * phiK[i]! !== 0 && Number.isFinite(f.l10u[i]!)) used.push(i);
+    if (used.length === 0) {
+      out.count.push(undefined);
+      out.lum.push(undefined);
+      continue;
+    }
+    // the count and the luminosity each a series of its own, so that the counts' tables are the
+    // same with and without the luminosity
+    const table = (lum: boolean) =>
+      logSeries(
+        dcMin,
+        dcMax,
+        daMin[k]!,
+        daMax[k]!,
+        1,
+        (dc, das, got) => {
+          const v = got[0]!.fill(0);
+          const shift = -dc / slope;
+          for (const i of used) {
+            const lu = f.l10u[i]! + shift;
+            const u = 10 ** lu;
+            const w = f.vw[i]! * phiK[i]!;
+            for (let q = 0; q < das.length; q++) {
+              const sOrder = alphaK[i]! + das[q]! + 1;
+              const g = upperGamma(sOrder, u);
+              if (!lum) v[q] = v[q]! + w * g;
+              else if (g > 0) v[q] = v[q]! + w * f.lumScale[i]! * (sOrder * g + Math.exp(sOrder * lu * Math.LN10 - u));
+            }
+          }
+        },
+        lum ? start.lum : start.slice,
+      );
+    const count = table(false);
+    const lum = withLum ? table(true) : undefined;
+    if (!count || (withLum && !lum)) return undefined;
+    out.count.push(count[0]);
+    out.lum.push(lum?.[0]);
   }
   return out;
 }
@@ -621,14 +746,16 @@ export function populationDraws(
     population.variable === 'luminosity' ? 10 ** o.characteristic : 10 ** (-0.4 * o.characteristic),
   );
   const res = { count: 0, detected: 0, total: 0 as number | undefined };
-  const start: TableStart = { node: [...TABLE_POINTS], slice: [...TABLE_POINTS] };
+  const start: TableStart = { node: [...TABLE_POINTS], slice: [...TABLE_POINTS], lum: [...TABLE_POINTS] };
   slices.forEach((sl, j) => {
     const f = flatten(sl.drawNodes ?? []);
     const tables =
-      s.completeness && !options.exact && n >= TABLE_MIN_DRAWS && f.count > 0
-        ? sliceTables(f, s, offsets, detected !== undefined, start)
+      !options.exact && n >= TABLE_MIN_DRAWS && f.count > 0
+        ? s.completeness
+          ? sliceTables(f, s, offsets, detected !== undefined, start)
+          : hardTables(f, s, offsets, detected !== undefined, start)
         : undefined;
-    if (s.completeness && f.count > 0) drawPaths[tables ? 'tabulated' : 'exact']++;
+    if (f.count > 0) drawPaths[tables ? 'tabulated' : 'exact']++;
     for (let i = 0; i < n; i++) {
       const o = offsets[i]!;
       if (isZero(o) || f.count === 0) {

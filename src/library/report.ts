@@ -226,17 +226,33 @@ function drawnSections(r: ReportResults): { forecast?: Forecast; plan?: Plan } {
   return extra;
 }
 
+type Views = ReturnType<(typeof import('../render/draw.js'))['predictionViews']>;
+const viewsMade = new WeakMap<ReportResults, { of: [Survey, Prediction, number]; views: Views }>();
+
+/**
+ * The prediction as the figures and the HTML read it (src/render/draw.ts predictionViews), made
+ * once per results: the luminosity function of each slice with its band over the model's draws
+ * costs as much as drawing a figure, and the figures and the document read the same views.
+ */
+async function viewsOf(r: ReportResults): Promise<Views> {
+  const made = viewsMade.get(r);
+  if (made && made.of[0] === r.survey && made.of[1] === r.prediction && made.of[2] === r.modelSeed) return made.views;
+  const { predictionViews } = await import('../render/draw.js');
+  const views = predictionViews(r.survey, r.prediction, r.modelSeed);
+  viewsMade.set(r, { of: [r.survey, r.prediction, r.modelSeed], views });
+  return views;
+}
+
 /** Draw every figure of the results. */
 export async function reportFigures(r: ReportResults): Promise<Figure[]> {
-  const { drawFigures } = await import('../render/draw.js');
-  return drawFigures(r.survey, r.prediction, { ...drawnSections(r), modelSeed: r.modelSeed });
+  const { drawViews } = await import('../render/draw.js');
+  return drawViews(r.prediction, await viewsOf(r), drawnSections(r));
 }
 
 /** The HTML document of the results (figures already drawn). */
 export async function reportHtml(r: ReportResults, surveyText: string, figures: Figure[]): Promise<string> {
-  const { predictionViews } = await import('../render/draw.js');
   const { renderReport } = await import('../render/report.js');
-  const { combined } = predictionViews(r.survey, r.prediction, r.modelSeed);
+  const { combined } = await viewsOf(r);
   return renderReport({
     surveyText,
     surveyTitle: r.survey.title,

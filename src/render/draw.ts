@@ -151,7 +151,19 @@ export async function drawFigures(
   extra: { forecast?: ForecastView; plan?: PlanView; modelSeed?: number } = {},
 ): Promise<Figure[]> {
   const { modelSeed, ...sections } = extra;
-  const { combined, perPopulation } = predictionViews(survey, prediction, modelSeed);
+  return drawViews(prediction, predictionViews(survey, prediction, modelSeed), sections);
+}
+
+/**
+ * drawFigures from the prediction's views already made (predictionViews of the same survey,
+ * prediction and seed): the report draws its figures and writes its tables from one set of views.
+ */
+export async function drawViews(
+  prediction: Prediction,
+  views: { combined: PredictionView; perPopulation: PredictionView[] },
+  sections: { forecast?: ForecastView; plan?: PlanView } = {},
+): Promise<Figure[]> {
+  const { combined, perPopulation } = views;
   const main = await buildFigures({
     prediction: combined,
     model: perPopulation.length === 1 ? (combined.model as ModelAsWritten) : undefined,

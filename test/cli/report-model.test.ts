@@ -17,6 +17,7 @@ import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { runCli } from './helpers.js';
 import { tempDir } from '../support/temp.js';
+import { sampleReport } from '../support/sample-reports.js';
 import { formatNumber } from '../../src/render/format.js';
 import type { Json } from '../support/json.js';
 
@@ -134,11 +135,13 @@ describe('report without model_uncertainty', () => {
     '--draws and --seed change nothing and no spread is shown',
     async () => {
       const dir = tempDir('skytally-report-model-');
-      const plain = join(dir, 'plain.html');
       const drawn = join(dir, 'drawn.html');
-      expect((await runCli(['report', WITHOUT_MODEL, '--out', plain])).code).toBe(0);
+      // the report without --draws and --seed: `report samples/deep-continuum.yaml --out ...`, made
+      // once per run (test/support/sample-reports.ts)
+      const plain = await sampleReport('deep-continuum.yaml');
+      expect(plain.result.code).toBe(0);
       expect((await runCli(['report', WITHOUT_MODEL, '--out', drawn, '--draws', '40', '--seed', '9'])).code).toBe(0);
-      const html = readFileSync(plain, 'utf8');
+      const html = readFileSync(plain.html, 'utf8');
       expect(html).not.toContain('forecast-model-spread');
       expect(html).not.toContain('across the model');
       expect(readFileSync(drawn, 'utf8')).toBe(html);

@@ -1,7 +1,8 @@
 /**
  * The tabulated path of the model's draws where the completeness varies (src/counts/model-draws.ts,
- * SliceTables) against the exact path (every draw's completeness quadrature at every node, itself
- * checked against the engine at the same offsets in test/counts/model-uncertainty.test.ts).
+ * SliceTables) and under a hard limit (hardTables) against the exact path (every draw's
+ * completeness quadrature or incomplete gamma functions at every node, itself checked against the
+ * engine at the same offsets in test/counts/model-uncertainty.test.ts).
  *
  * Tolerance 1e-8 relative on each draw's count and detected luminosity: the tables' Chebyshev
  * tails are held below 1e-10 of the logarithm's scale (an estimate, hence the margin of 100), which
@@ -15,7 +16,13 @@ import { parse } from 'yaml';
 import { parseSurveyObject } from '../../src/survey/index.js';
 import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import { countPopulation } from '../../src/counts/engine.js';
-import { drawModelOffsets, drawPaths, populationDraws, TABLE_MIN_DRAWS } from '../../src/counts/model-draws.js';
+import {
+  drawModelOffsets,
+  drawPaths,
+  forgetLevel1Series,
+  populationDraws,
+  TABLE_MIN_DRAWS,
+} from '../../src/counts/model-draws.js';
 
 const DIR = 'test/reference/surveys-model';
 const DRAWS = 80;
@@ -117,17 +124,44 @@ describe('tabulated draws equal the exact path (1e-8 relative)', () => {
     compare(obj, 'samples/dropout-field.yaml', true);
   });
 
-  // every bundled sample whose draws meet a varying completeness (the explore page redraws them on each change)
-  const varying = readdirSync('samples')
+  // every bundled sample with model_uncertainty (the explore page redraws them on each change):
+  // a varying completeness (level 1 and 2) or a hard limit (hardTables)
+  const drawn = readdirSync('samples')
     .filter((f) => f.endsWith('.yaml'))
-    .filter((f) => {
-      const o = read(`samples/${f}`);
-      return o.population?.model_uncertainty !== undefined && o.detection.completeness !== undefined;
-    });
-  test('some bundled sample has draws under a varying completeness', () =>
-    expect(varying).toContain('plan-robust-uv-slope.yaml'));
-  test.each(varying)('samples/%s as written', (f) => {
+    .filter((f) => read(`samples/${f}`).population?.model_uncertainty !== undefined);
+  test('bundled samples have draws under a varying completeness and under a hard limit', () => {
+    expect(drawn).toContain('plan-robust-uv-slope.yaml');
+    expect(drawn.some((f) => read(`samples/${f}`).detection.completeness === undefined)).toBe(true);
+  });
+  test.each(drawn)('samples/%s as written', (f) => {
     compare(read(`samples/${f}`), `samples/${f}`, true);
+  });
+
+  test('hard limit (no completeness), line flux with a correlated model: tabulated per component', () => {
+    const obj = { ...line, detection: { ...line.detection, completeness: undefined }, slices: { count: 3 } };
+    delete (obj.detection as Record<string, unknown>).completeness;
+    compare(obj, `${DIR}/line-correlated.yaml`, true);
+  });
+
+  test('level-1 series kept from a computation at another area give the draws computed afresh, bit for bit', () => {
+    const obj = read('samples/plan-robust-uv-slope.yaml');
+    const draws = (area: string) => {
+      const survey = parseSurveyObject({ ...obj, area }, 'samples/plan-robust-uv-slope.yaml');
+      const pop = survey.populations[0]!;
+      const cosmo = new FlatCosmology(survey.cosmology);
+      const own = countPopulation(survey, pop, cosmo, pop.sliceEdges, { drawNodes: true });
+      const offsets = drawModelOffsets(pop.modelUncertainty!, pop.components.length, DRAWS, 5, 0);
+      return populationDraws(survey, pop, cosmo, own, offsets, { luminosity: true, histogramDraws: 0 });
+    };
+    forgetLevel1Series();
+    const fresh = draws('80 arcmin^2');
+    forgetLevel1Series();
+    draws('45 arcmin^2');
+    const reused = draws('80 arcmin^2');
+    expect(reused.counts).toEqual(fresh.counts);
+    expect(reused.luminosity).toEqual(fresh.luminosity);
+    // the area does move the counts (the comparison is not of one computation with itself)
+    expect(draws('45 arcmin^2').counts[0]![3]! / fresh.counts[0]![3]!).toBeCloseTo(45 / 80, 12);
   });
 
   const mass = read(`${DIR}/double-schechter-mass.yaml`);

@@ -16,6 +16,7 @@ import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { runCli } from '../cli/helpers.js';
 import { tempDir } from '../support/temp.js';
 import { useExploreScript } from '../support/explore-script.js';
+import { sampleExplorePage } from '../support/sample-explore.js';
 import { expectedOutputs, expectSameOutputs } from './expected.js';
 
 // The page's globals, as the functions run inside the page see them (the project compiles without the DOM library).
@@ -158,13 +159,13 @@ describe.skipIf(!haveChromium)('explore page in headless chromium', () => {
     let page: Page;
     const requests: string[] = [];
     const errors: string[] = [];
-    const html = join(dir, sample.replace('.yaml', '.html'));
     let docUrl = '';
 
     beforeAll(async () => {
-      const r = await runCli(['explore', `samples/${sample}`, '--out', html]);
+      // `explore samples/<sample> --out FILE`, run once and shared with test/explore/page.test.ts
+      const r = await sampleExplorePage(sample);
       expect(r.code, r.stderr).toBe(0);
-      docUrl = pathToFileURL(html).href;
+      docUrl = pathToFileURL(r.out).href;
       page = await context.newPage();
       page.on('request', (q) => {
         const u = q.url();

@@ -13,6 +13,7 @@ import { beforeAll, describe, expect, test } from 'vitest';
 import { runCli } from '../cli/helpers.js';
 import { tempDir } from '../support/temp.js';
 import { useExploreScript } from '../support/explore-script.js';
+import { sampleExplorePage } from '../support/sample-explore.js';
 import { expectedOutputs, expectSameOutputs } from './expected.js';
 import { loadSurveyText, parseSurveyObject } from '../../src/survey/load.js';
 import { parseYaml } from '../../src/survey/yaml.js';
@@ -32,23 +33,11 @@ beforeAll(async () => {
   await useExploreScript();
 });
 
-/** `explore samples/NAME --out DIR/NAME.html`, run once and read by the tests that check the page it writes. */
-const explored = new Map<string, Promise<{ code: number; stderr: string; out: string }>>();
-function exploreSample(sample: string) {
-  let p = explored.get(sample);
-  if (!p) {
-    const out = join(dir, sample.replace('.yaml', '.html'));
-    p = runCli(['explore', `samples/${sample}`, '--out', out]).then((r) => ({ code: r.code, stderr: r.stderr, out }));
-    explored.set(sample, p);
-  }
-  return p;
-}
-
 const sha = (s: string) => `'sha256-${createHash('sha256').update(s, 'utf8').digest('base64')}'`;
 
 describe.each(SAMPLES)('%s', (sample) => {
   test('the page builds, is self-contained under its CSP and opens on the numbers of predict and forecast', async () => {
-    const r = await exploreSample(sample);
+    const r = await sampleExplorePage(sample);
     expect(r.code, r.stderr).toBe(0);
     const html = readFileSync(r.out, 'utf8');
     const csp = /<meta http-equiv="Content-Security-Policy" content="([^"]+)">/.exec(html)![1]!;
@@ -155,7 +144,7 @@ describe('controls', () => {
   test('the library builds the same page as the command', async () => {
     const { explorePage } = await import('../../src/index.js');
     // the page `explore samples/halpha-narrowband.yaml --out FILE` writes (the run the sample's own test reads)
-    const r = await exploreSample('halpha-narrowband.yaml');
+    const r = await sampleExplorePage('halpha-narrowband.yaml');
     expect(r.code, r.stderr).toBe(0);
     expect(await explorePage('samples/halpha-narrowband.yaml')).toBe(readFileSync(r.out, 'utf8'));
   });
