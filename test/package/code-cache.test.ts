@@ -6,18 +6,17 @@
  * the same sources (dist/cli/skytally.js, no cache) writes.
  */
 import { execFileSync } from 'node:child_process';
-import { copyFileSync, existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { copyFileSync, existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
-import { afterAll, beforeAll, describe, expect, test } from 'vitest';
+import { beforeAll, describe, expect, test } from 'vitest';
+import { tempDir } from '../support/temp.js';
 
 const BUILT = ['dist/cli/skytally.cjs', 'dist/cli/skytally.cjs.cache', 'dist/vega.cjs.cache', 'dist/cli/skytally.js'];
-const dir = mkdtempSync(join(tmpdir(), 'skytally-code-cache-test-'));
+const dir = tempDir('skytally-code-cache-test-');
 
 beforeAll(() => {
   if (!BUILT.every((f) => existsSync(f))) execFileSync('npm', ['run', 'build'], { stdio: 'ignore' });
 }, 300_000);
-afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 /** In a new process: load `bundle` through the loader; whether V8 refused its cache. */
 function loadIn(bundle: string): { rejected: boolean | undefined; exports: string[] } {

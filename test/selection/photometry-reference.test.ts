@@ -13,8 +13,7 @@
  * good to 1e-8 mag, the engine's quadrature to about 1e-9); K(z) and the apparent magnitude of M* at
  * the slices' middles 2e-8 mag (the table's tolerance); zero offsets equal the plain survey exactly.
  */
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, test } from 'vitest';
@@ -26,6 +25,7 @@ import { SurveyError } from '../../src/errors.js';
 import { describeSurvey } from '../../src/survey/describe.js';
 import type { Prediction } from '../../src/model/outputs/prediction.js';
 import { detectionLine } from '../../src/render/predict-table.js';
+import { tempDir } from '../support/temp.js';
 
 interface Slice {
   z_min: number;
@@ -211,7 +211,7 @@ describe('warnings about Lyman alpha with a spectrum', () => {
 describe('photometric redshifts with a spectrum', () => {
   // The invented spectrum cut to rest-frame 3000-10000 A: enough for a top-hat band at 7250-8750 A over
   // z = 0.6-1.4, not for the true redshifts up to (1.4 + 0.24) / 0.76 = 2.16 that photo_z sigma 0.04 integrates.
-  const tmp = mkdtempSync(join(tmpdir(), 'skytally-sed-'));
+  const tmp = tempDir('skytally-sed-');
   const rows = readFileSync(`${dir}/spectra/invented-starburst.csv`, 'utf8')
     .split('\n')
     .filter((l) => /^\d/.test(l) && Number(l.split(',')[0]) >= 3000 && Number(l.split(',')[0]) <= 10000);
