@@ -1,5 +1,6 @@
 import { defineConfig } from 'vitest/config';
 import { LongestFirstSequencer } from './test/support/sequencer.js';
+import { FileDurationReporter } from './test/support/duration-reporter.js';
 
 export default defineConfig({
   test: {
@@ -16,8 +17,9 @@ export default defineConfig({
     isolate: false,
     // The longest files first (recorded durations), so that no long file is left to run alone at the end.
     sequence: { sequencer: LongestFirstSequencer },
-    // The default reporter for people; a JSON summary that .ci/run turns into one closing line.
-    reporters: ['default', 'json'],
+    // The default reporter for people; a JSON summary that .ci/run turns into one closing line; each
+    // file's time for the longest-first order (test/support/duration-reporter.ts).
+    reporters: ['default', 'json', new FileDurationReporter()],
     outputFile: { json: 'test-output/vitest-summary.json' },
     // Set-up hooks that make every sample's report and open each in a browser: minutes when the
     // machine is shared and loaded.
