@@ -508,18 +508,7 @@ function sliceTables(
     }
   }
   if (seen.length === 0) return undefined;
-  let dcMin = Infinity;
-  let dcMax = -Infinity;
-  const daMin = new Array<number>(nc).fill(Infinity);
-  const daMax = new Array<number>(nc).fill(-Infinity);
-  for (const o of offsets) {
-    dcMin = Math.min(dcMin, o.characteristic);
-    dcMax = Math.max(dcMax, o.characteristic);
-    for (let k = 0; k < nc; k++) {
-      daMin[k] = Math.min(daMin[k]!, o.alpha[k]!);
-      daMax[k] = Math.max(daMax[k]!, o.alpha[k]!);
-    }
-  }
+  const { dcMin, dcMax, daMin, daMax } = offsetRanges(offsets, nc);
   // level 1: the node integral J (and J1) over (t, alpha)
   const probe: NodeState = {
     z: 0,
@@ -605,6 +594,26 @@ function sliceTables(
   return out;
 }
 
+/** The range of the draws' offsets: of the characteristic value, and of alpha per component. */
+function offsetRanges(
+  offsets: readonly ModelOffsets[],
+  nc: number,
+): { dcMin: number; dcMax: number; daMin: number[]; daMax: number[] } {
+  let dcMin = Infinity;
+  let dcMax = -Infinity;
+  const daMin = new Array<number>(nc).fill(Infinity);
+  const daMax = new Array<number>(nc).fill(-Infinity);
+  for (const o of offsets) {
+    dcMin = Math.min(dcMin, o.characteristic);
+    dcMax = Math.max(dcMax, o.characteristic);
+    for (let k = 0; k < nc; k++) {
+      daMin[k] = Math.min(daMin[k]!, o.alpha[k]!);
+      daMax[k] = Math.max(daMax[k]!, o.alpha[k]!);
+    }
+  }
+  return { dcMin, dcMax, daMin, daMax };
+}
+
 /**
  * The tables of a slice with a hard limit (no completeness): per component, ln N_k(d_c, d_alpha_k)
  * = ln sum_i V_i phi*_ik Gamma(alpha_ik + d_alpha_k + 1, u_i 10^(-d_c / slope)) and the detected
@@ -623,18 +632,7 @@ function hardTables(
 ): SliceTables | undefined {
   const slope = s.observer.slope;
   const nc = f.phi.length;
-  let dcMin = Infinity;
-  let dcMax = -Infinity;
-  const daMin = new Array<number>(nc).fill(Infinity);
-  const daMax = new Array<number>(nc).fill(-Infinity);
-  for (const o of offsets) {
-    dcMin = Math.min(dcMin, o.characteristic);
-    dcMax = Math.max(dcMax, o.characteristic);
-    for (let k = 0; k < nc; k++) {
-      daMin[k] = Math.min(daMin[k]!, o.alpha[k]!);
-      daMax[k] = Math.max(daMax[k]!, o.alpha[k]!);
-    }
-  }
+  const { dcMin, dcMax, daMin, daMax } = offsetRanges(offsets, nc);
   const out: SliceTables = { count: [], lum: [] };
   for (let k = 0; k < nc; k++) {
     const phiK = f.phi[k]!;
