@@ -31,9 +31,8 @@ const lazyMathjs = {
     );
   },
 };
-await build({
-  entryPoints: ['src/survey/mathjs.ts'],
-  outfile: 'dist/mathjs.cjs',
+// Options of every CommonJS bundle (not minified, with source maps).
+const cjs = {
   bundle: true,
   format: 'cjs',
   platform: 'node',
@@ -42,6 +41,11 @@ await build({
   sourcemap: true,
   legalComments: 'eof',
   logLevel: 'warning',
+};
+await build({
+  entryPoints: ['src/survey/mathjs.ts'],
+  outfile: 'dist/mathjs.cjs',
+  ...cjs,
 });
 // The same for the random-number generators (@stdlib, some 280 kB with what they import, run when
 // loaded): only model draws and mock surveys use them, so they are bundled alone into
@@ -61,14 +65,7 @@ await build({
     sourcefile: 'random-generators.js',
   },
   outfile: 'dist/random.cjs',
-  bundle: true,
-  format: 'cjs',
-  platform: 'node',
-  target: 'node20',
-  minify: false,
-  sourcemap: true,
-  legalComments: 'eof',
-  logLevel: 'warning',
+  ...cjs,
 });
 const src = resolve('src');
 /** The generators' stand-ins, reading dist/random.cjs with `read` (an expression) on first use. */
@@ -164,16 +161,6 @@ const loaderImport = {
       return { contents: text.replace(from, to), loader: 'ts' };
     });
   },
-};
-const cjs = {
-  bundle: true,
-  format: 'cjs',
-  platform: 'node',
-  target: 'node20',
-  minify: false,
-  sourcemap: true,
-  legalComments: 'eof',
-  logLevel: 'warning',
 };
 await build({
   ...cjs,
