@@ -29,7 +29,7 @@ import { marginaliseNormalisations, summariseFisher } from '../forecast/fisher.j
 import { buildDensityGrid, sliceCount } from '../forecast/grid.js';
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { DesignModel } from './model.js';
-import { knotSums } from './tables.js';
+import { hermiteWeights, interpolateSums, knotSums } from './tables.js';
 import type { Evaluated } from './search.js';
 
 /** Draws a robust plan ranks its designs over by default (a draws file: every row). */
@@ -82,6 +82,7 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
   const stride = nS * 12;
   const table = new Float64Array(knots * stride);
   const sums = new Float64Array(6);
+  const weights = new Float64Array(4);
   const fill = (th: readonly number[]) => {
     for (let k = 0; k < knots; k++) knotSums(grid, dLo + k * KNOT_STEP + s * th[1]!, th[2]!, table, k * stride);
   };
@@ -91,17 +92,9 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
     if (j < 0) j = 0;
     if (j > knots - 2) j = knots - 2;
     const x = Math.min(1, Math.max(0, (delta - dLo - j * KNOT_STEP) / KNOT_STEP));
-    const x2 = x * x;
-    const x3 = x2 * x;
-    const h00 = 2 * x3 - 3 * x2 + 1;
-    const h10 = (x3 - 2 * x2 + x) * KNOT_STEP;
-    const h01 = -2 * x3 + 3 * x2;
-    const h11 = (x3 - x2) * KNOT_STEP;
+    hermiteWeights(x, KNOT_STEP, weights);
     const a = j * stride + sl * 12;
-    const b = a + stride;
-    for (let k = 0; k < 6; k++)
-      sums[k] =
-        factor * (h00 * table[a + k]! + h10 * table[a + 6 + k]! + h01 * table[b + k]! + h11 * table[b + 6 + k]!);
+    interpolateSums(table, a, a + stride, weights, factor, sums);
     return sums;
   };
   const fractionCache = new Map<string, number[]>();

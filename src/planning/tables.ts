@@ -227,6 +227,38 @@ export async function tabulateDepth(
 }
 
 /**
+ * The cubic Hermite weights at x in [0, 1] of a knot interval h wide, into w: h00, h10, h01, h11
+ * (of the value and the slope at the interval's start, then at its end).
+ */
+export function hermiteWeights(x: number, h: number, w: Float64Array): void {
+  const x2 = x * x;
+  const x3 = x2 * x;
+  w[0] = 2 * x3 - 3 * x2 + 1;
+  w[1] = (x3 - 2 * x2 + x) * h;
+  w[2] = -2 * x3 + 3 * x2;
+  w[3] = (x3 - x2) * h;
+}
+
+/**
+ * The six Fisher sums of one slice interpolated between two knots (their sums at d[a..a+5] and
+ * d[b..b+5], the sums' derivatives 6 places after each) with Hermite weights w, times `factor`,
+ * into out[0..5].
+ */
+export function interpolateSums(
+  d: Float64Array,
+  a: number,
+  b: number,
+  w: Float64Array,
+  factor: number,
+  out: Float64Array,
+): void {
+  for (let k = 0; k < 6; k++)
+    out[k] = factor * (w[0]! * d[a + k]! + w[1]! * d[a + 6 + k]! + w[2]! * d[b + k]! + w[3]! * d[b + 6 + k]!);
+}
+
+const weights = new Float64Array(4);
+
+/**
  * Interpolated numbers of slice `sl` at Delta (clamped to the table), into out[0..6]:
  * N, b_c, b_a, F_cc, F_ca, F_aa, faint count.
  */
@@ -238,16 +270,11 @@ export function interpolateSlice(t: DepthTables, sl: number, delta: number, out:
   let x = (delta - i * h) / h;
   if (x < 0) x = 0;
   if (x > 1) x = 1;
-  const x2 = x * x;
-  const x3 = x2 * x;
-  const h00 = 2 * x3 - 3 * x2 + 1;
-  const h10 = (x3 - 2 * x2 + x) * h;
-  const h01 = -2 * x3 + 3 * x2;
-  const h11 = (x3 - x2) * h;
+  hermiteWeights(x, h, weights);
   const stride = t.slices * PER_SLICE;
   const a = i * stride + sl * PER_SLICE;
   const b = a + stride;
   const d = t.data;
-  for (let k = 0; k < 6; k++) out[k] = h00 * d[a + k]! + h10 * d[a + 6 + k]! + h01 * d[b + k]! + h11 * d[b + 6 + k]!;
-  out[6] = h00 * d[a + 12]! + h10 * d[a + 13]! + h01 * d[b + 12]! + h11 * d[b + 13]!;
+  interpolateSums(d, a, b, weights, 1, out);
+  out[6] = weights[0]! * d[a + 12]! + weights[1]! * d[a + 13]! + weights[2]! * d[b + 12]! + weights[3]! * d[b + 13]!;
 }
