@@ -13,6 +13,7 @@ import { predict } from '../../counts/predict.js';
 import { forecast } from '../../forecast/forecast.js';
 import { cosmicVarianceInputWith } from '../../forecast/cosmic-variance-input.js';
 import { UncertaintyMemo } from '../../uncertainty/prediction.js';
+import { FisherSumsMemo } from '../../forecast/grid-memo.js';
 import { luminosityFunctionCurve } from '../../population/curves.js';
 import type {
   CountsFigureData,
@@ -66,14 +67,29 @@ function lfData(survey: Survey, prediction: Prediction, k: number): LfFigureData
 }
 
 /**
+ * What the page keeps from one update to the next: work that a change of a control cannot alter
+ * (the Fisher sums of the density grid at any area, src/forecast/grid-memo.ts). The numbers are
+ * those computed without it.
+ */
+export interface ExploreMemo {
+  fisherSums: FisherSumsMemo;
+}
+
+export function exploreMemo(): ExploreMemo {
+  return { fisherSums: new FisherSumsMemo() };
+}
+
+/**
  * Every number of the page for one survey: its text (`source.text`, read as the loader reads a
  * file) or its parsed form (`source.object`, as settingsObject makes it: the page's updates skip
- * writing and reading YAML). `text` is kept in the result as the text the numbers are of.
+ * writing and reading YAML). `text` is kept in the result as the text the numbers are of; `keep`,
+ * the page's memory of earlier updates.
  */
 export async function exploreCompute(
   source: { text: string; object?: unknown },
   file: string,
   baseDir: string,
+  keep?: ExploreMemo,
 ): Promise<ExploreResult> {
   const text = source.text;
   let survey: Survey;
@@ -158,7 +174,10 @@ export async function exploreCompute(
       'The Fisher matrix varies one Schechter function: not available for a double Schechter population.';
   } else {
     try {
-      const f = await forecast(survey, { cosmicVarianceSource: cosmicVarianceInputWith(memo) });
+      const f = await forecast(survey, {
+        cosmicVarianceSource: cosmicVarianceInputWith(memo),
+        ...(keep ? { fisherSums: keep.fisherSums } : {}),
+      });
       const names = f.parameters;
       result.fisher = {
         population: first.name,
