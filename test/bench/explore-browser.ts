@@ -161,11 +161,17 @@ try {
     for (const c of controls) {
       const timings = opened.map((): Timings => ({ page: [], engine: [], draw: [], cpu: [] }));
       for (let i = 0; i <= ROUNDS; i++) {
-        // a new value within the control's range on every round (the first round warms up)
-        const f = ((i % 7) - 3) / 60;
-        const lo = Number.isFinite(c.min) ? c.min : -Infinity;
-        const hi = Number.isFinite(c.max) && c.max > c.min ? c.max : Infinity;
-        const v = Math.min(hi, Math.max(lo, c.value * (1 + f) || f));
+        // a new value on every round (nothing the page kept from an earlier round serves it),
+        // within the control's range (the first round warms up)
+        const f = (i + 1) / (ROUNDS + 2) - 0.5;
+        const ranged = Number.isFinite(c.min) && Number.isFinite(c.max) && c.max > c.min;
+        // (a range of decades, such as the area's or a flux limit's, in steps of its logarithm)
+        const decades = ranged && c.min > 0 && c.max / c.min >= 100;
+        const v = decades
+          ? Math.min(c.max, Math.max(c.min, c.value * (c.max / c.min) ** (0.2 * f)))
+          : ranged
+            ? Math.min(c.max, Math.max(c.min, c.value + 0.2 * f * (c.max - c.min)))
+            : c.value * (1 + f / 10) || f;
         for (let k = 0; k < opened.length; k++) await opened[k]!.move(c, v, i === 0 ? undefined : timings[k]);
       }
       const label = `${sample.replace('.yaml', '')}, ${c.key}`;

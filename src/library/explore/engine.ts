@@ -14,6 +14,7 @@ import { forecast } from '../../forecast/forecast.js';
 import { cosmicVarianceInputWith } from '../../forecast/cosmic-variance-input.js';
 import { UncertaintyMemo } from '../../uncertainty/prediction.js';
 import { FisherSumsMemo } from '../../forecast/grid-memo.js';
+import { CountMemo } from '../../counts/count-memo.js';
 import { luminosityFunctionCurve } from '../../population/curves.js';
 import type {
   CountsFigureData,
@@ -68,15 +69,16 @@ function lfData(survey: Survey, prediction: Prediction, k: number): LfFigureData
 
 /**
  * What the page keeps from one update to the next: work that a change of a control cannot alter
- * (the Fisher sums of the density grid at any area, src/forecast/grid-memo.ts). The numbers are
- * those computed without it.
+ * (each population's counts and the Fisher sums of the density grid, at any area:
+ * src/counts/count-memo.ts, src/forecast/grid-memo.ts). The numbers are those computed without it.
  */
 export interface ExploreMemo {
+  counts: CountMemo;
   fisherSums: FisherSumsMemo;
 }
 
 export function exploreMemo(): ExploreMemo {
-  return { fisherSums: new FisherSumsMemo() };
+  return { counts: new CountMemo(), fisherSums: new FisherSumsMemo() };
 }
 
 /**
@@ -112,7 +114,11 @@ export async function exploreCompute(
   }
   const memo = new UncertaintyMemo(survey);
   // The model draws of counts only: the page shows no histogram bins or densities under the draws.
-  const prediction = predict(survey, { uncertaintyMemo: memo, model: { counts: true } });
+  const prediction = predict(survey, {
+    uncertaintyMemo: memo,
+    model: { counts: true },
+    ...(keep ? { countMemo: keep.counts } : {}),
+  });
   const t = prediction.totals;
   const outputs: ExploreOutput[] = [
     { name: 'total-count', label: 'Expected count', value: t.count, kind: 'count' },
