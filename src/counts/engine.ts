@@ -36,7 +36,7 @@ import { CAPS } from '../model/limits.js';
 export const completenessWork = { completenessEvaluations: 0, densityEvaluations: 0 };
 
 /** u = L/L* beyond which the population is negligible (exp(-40) ~ 4e-18). */
-const U_BRIGHT_SPAN = 40;
+export const U_BRIGHT_SPAN = 40;
 const LN10 = Math.LN10;
 
 export interface Histogram {
@@ -827,6 +827,6 @@ function completeIntegral(
 }
 
 /** Round an edge to the bin grid so that 26.750000000000004 prints as 26.75. */
-function roundEdge(x: number): number {
+export function roundEdge(x: number): number {
   return Number(x.toPrecision(12));
 }

@@ -42,6 +42,7 @@ import { makeObserver, type Observer } from '../selection/observe.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
 import { completenessQuadrature, type CompletenessQuadrature } from './completeness-quadrature.js';
 import { componentsTotalLuminosity } from '../population/schechter.js';
+import { histogramFromTable, histogramTable } from './model-draws-histograms.js';
 import { histogramCount, overCompletenessPieces, schechterBetween, type NodeState, type SliceCount } from './engine.js';
 
 // (defined with the model, so that the command line reads them without loading this module)
@@ -223,6 +224,8 @@ interface SliceNodes {
   l10u: Float64Array;
   a: Float64Array;
   lumScale: Float64Array;
+  /** The limit in obs at each node. */
+  obsLimit: Float64Array;
   /** Per component: phi* (times the selection weight: what is detected; and as the luminosity function gives it) and alpha at each node. */
   phi: Float64Array[];
   allPhi: Float64Array[];
@@ -241,6 +244,7 @@ function flatten(nodes: readonly NodeState[]): SliceNodes {
     l10u: Float64Array.from(kept, (nd) => nd.log10ULimit),
     a: Float64Array.from(kept, (nd) => nd.a),
     lumScale: Float64Array.from(kept, (nd) => nd.lumScale),
+    obsLimit: Float64Array.from(kept, (nd) => nd.obsLimit),
     phi: Array.from({ length: comps }, (_, c) => Float64Array.from(kept, (nd) => nd.components[c]!.phiStar)),
     allPhi: Array.from({ length: comps }, (_, c) => Float64Array.from(kept, (nd) => nd.allComponents[c]!.phiStar)),
     alpha: Array.from({ length: comps }, (_, c) => Float64Array.from(kept, (nd) => nd.components[c]!.alpha)),
@@ -776,17 +780,35 @@ export function populationDraws(
   const out: PopulationDraws = { draws: n, counts };
   if (detected) out.luminosity = total ? { detected, total } : { detected };
   if (options.histogramDraws > 0)
-    out.histograms = histogramDraws(survey, s, slices, offsets.slice(0, options.histogramDraws), lumFactors);
+    out.histograms = histogramDraws(
+      survey,
+      s,
+      slices,
+      offsets.slice(0, options.histogramDraws),
+      lumFactors,
+      options.exact === true,
+    );
   return out;
 }
 
-/** Each slice's histogram under the first draws, on the plain histogram's bins (a draw's bins beyond them are left out). */
+/** Slices whose draws' histograms came from a table and from the exact path, since the start (for tests and benchmarks). */
+export const histogramPaths = { tabulated: 0, exact: 0 };
+
+/** Draws from which the histograms are tabulated (model-draws-histograms.ts; a table costs about two exact histograms). */
+export const HISTOGRAM_TABLE_MIN_DRAWS = 8;
+
+/**
+ * Each slice's histogram under the first draws, on the plain histogram's bins (a draw's bins
+ * beyond them are left out): from a table per slice (histogramTable) from HISTOGRAM_TABLE_MIN_DRAWS
+ * draws on where the limit sits at one obs, else by the engine's histogramCount per draw.
+ */
 function histogramDraws(
   survey: Survey,
   s: Setting,
   slices: readonly SliceCount[],
   offsets: readonly ModelOffsets[],
   lumFactors: number[],
+  exact: boolean,
 ): { draws: number; bins: Float64Array[] }[] {
   const width = survey.histogramWidth;
   const slope = s.observer.slope;
@@ -797,9 +819,24 @@ function histogramDraws(
     const nodes = sl.drawNodes ?? [];
     if (nb === 0 || nodes.length === 0) return { draws: offsets.length, bins };
     const k0 = Math.round(plain.edges[0]! / width);
+    const table =
+      !exact && offsets.length >= HISTOGRAM_TABLE_MIN_DRAWS
+        ? histogramTable(
+            flatten(nodes),
+            { slope, width, completeness: s.completeness, breaks: s.breaks },
+            plain,
+            offsets.filter((o) => !isZero(o)),
+          )
+        : undefined;
+    histogramPaths[table ? 'tabulated' : 'exact']++;
+    const one = new Float64Array(nb);
     offsets.forEach((o, i) => {
       if (isZero(o)) {
         plain.counts.forEach((c, b) => (bins[b]![i] = c));
+        return;
+      }
+      if (table && histogramFromTable(table, o, one)) {
+        one.forEach((c, b) => (bins[b]![i] = c));
         return;
       }
       const moved = nodes.map((nd) => shifted(nd, o, slope, lumFactors[i]!));

@@ -22,6 +22,7 @@ import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { countPopulation, type Histogram, type SliceCount } from './engine.js';
+import type { CountMemo } from './count-memo.js';
 import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED } from './model-draws.js';
 import { addPopulationSpreads, addTopSpreads } from './model-spread.js';
 import { countPhotoZ, sumMigrations, type PhotoZCount, type PhotoZMigration } from './photo-z.js';
@@ -280,6 +281,11 @@ export interface PredictOptions {
    * half of the draws' work).
    */
   model?: { draws?: number; seed?: number; counts?: boolean };
+  /**
+   * Where the count engine's results of earlier predictions are kept (the explore page's
+   * updates): read from there for the same inputs at any area (src/counts/count-memo.ts).
+   */
+  countMemo?: CountMemo;
 }
 
 /** The redshifts a population is counted over: its window cut by its slice edges (empty: max <= min). */
@@ -378,6 +384,7 @@ function countPopulations(
   units: string[],
   profiles: boolean,
   withModel: boolean,
+  memo?: CountMemo,
 ): PopulationRun[] {
   const d = survey.detection;
   const withPhotoZ = d.kind !== 'line_flux' && d.photoZ !== undefined;
@@ -385,7 +392,7 @@ function countPopulations(
     const photoZ = withPhotoZ ? countPhotoZ(survey, p, cosmo, p.sliceEdges, { profile: profiles }) : undefined;
     const own = photoZ
       ? photoZ.slices
-      : countPopulation(survey, p, cosmo, p.sliceEdges, {
+      : (memo ? memo.count.bind(memo) : countPopulation)(survey, p, cosmo, p.sliceEdges, {
           profile: profiles,
           drawNodes: withModel && p.modelUncertainty !== undefined,
         });
@@ -549,7 +556,7 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
   const withUncertainty = !options.noUncertainty;
   const modelDraws = options.model?.draws ?? DEFAULT_MODEL_DRAWS;
   const withModel = withUncertainty && modelDraws > 0 && survey.populations.some((p) => p.modelUncertainty);
-  const runs = countPopulations(survey, cosmo, units, withUncertainty, withModel);
+  const runs = countPopulations(survey, cosmo, units, withUncertainty, withModel, options.countMemo);
   const perPop = runs.map((r) => r.pred);
   const coincide = windowsCoincide(survey);
 

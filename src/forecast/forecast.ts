@@ -19,7 +19,8 @@ import type {
 } from '../model/outputs/forecast.js';
 import { choosePopulation, surveyForPopulation } from '../model/select.js';
 import { inputError } from '../errors.js';
-import { buildDensityGrid } from './grid.js';
+import { buildDensityGrid, type DensityGrid } from './grid.js';
+import type { FisherSumsMemo } from './grid-memo.js';
 import {
   fisherParts,
   marginaliseNormalisations,
@@ -66,6 +67,12 @@ export interface ForecastOptions {
   /** Keep every converged mock fit in `mocks.fits` (the report scatters them; default false). */
   keepFits?: boolean;
   onProgress?: (done: number, total: number) => void;
+  /**
+   * Where the Fisher sums of earlier forecasts are kept (the explore page's updates): read from
+   * there for the same inputs at any area, when neither mocks, model draws nor targets need the
+   * grid itself.
+   */
+  fisherSums?: FisherSumsMemo;
 }
 
 function block(names: readonly string[], s: FisherSummary): FisherBlock {
@@ -114,8 +121,12 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
   const useCv = opts.cosmicVariance !== false;
   const cvSource = useCv ? (opts.cosmicVarianceSource ?? cosmicVarianceInput) : undefined;
 
-  const grid = buildDensityGrid(survey, population, cosmo, edges);
-  const parts = fisherParts(grid);
+  let built: DensityGrid | undefined;
+  const gridOf = (): DensityGrid => (built ??= buildDensityGrid(survey, population, cosmo, edges));
+  const needsGrid =
+    (opts.mocks ?? 0) > 0 || (opts.modelDraws ?? 0) > 0 || (opts.targets && Object.keys(opts.targets).length > 0);
+  const parts =
+    opts.fisherSums && !needsGrid ? opts.fisherSums.parts(survey, population, cosmo, edges) : fisherParts(gridOf());
   if (!(parts.count > 0)) {
     throw inputError(
       'no_sources',
@@ -182,7 +193,7 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
   if (opts.modelDraws && opts.modelDraws > 0) {
     const seed = opts.seed ?? DEFAULT_MODEL_SEED;
     const { thetas, source } = forecastDrawOffsets(file, population, opts.modelDraws, seed);
-    const fisher = drawnFisher(grid, parts, thetas, fractions);
+    const fisher = drawnFisher(gridOf(), parts, thetas, fractions);
     drawn = { thetas, fisher };
     const block = spreadBlock(names, fisher, { draws: opts.modelDraws, seed, source, cosmicVariance: !!fractions });
     if (block) out.model_spread = block;
@@ -192,7 +203,7 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
     const estimator = opts.estimator ?? 'ml';
     const seed = opts.seed ?? 1;
     const cvSigma = fractions ?? parts.slices.map(() => 0);
-    const run = await runMocks(makeMockSetup(grid, cvSigma, estimator, seed), opts.mocks, {
+    const run = await runMocks(makeMockSetup(gridOf(), cvSigma, estimator, seed), opts.mocks, {
       workers: opts.workers ?? defaultWorkers(),
       ...(opts.onProgress ? { onProgress: opts.onProgress } : {}),
     });

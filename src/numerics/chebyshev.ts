@@ -143,3 +143,23 @@ export function chebyshevAtY(c: Chebyshev2D, row: Float64Array, y: number): numb
   }
   return ty * d1 - d2 + row[0]!;
 }
+
+/**
+ * The series at y as a series in x alone: out[i] = sum_j coef[i, j] T_j(y') (the first nx entries
+ * of `out`), to be evaluated at many x by Clenshaw's recurrence.
+ */
+export function chebyshevAlongX(c: Chebyshev2D, y: number, out: Float64Array): void {
+  const { nx, ny, coef } = c;
+  const ty = unit(y, c.y0, c.y1);
+  for (let i = 0; i < nx; i++) {
+    const base = i * ny;
+    let d1 = 0;
+    let d2 = 0;
+    for (let j = ny - 1; j >= 1; j--) {
+      const d = 2 * ty * d1 - d2 + coef[base + j]!;
+      d2 = d1;
+      d1 = d;
+    }
+    out[i] = ty * d1 - d2 + coef[base]!;
+  }
+}

@@ -46,6 +46,8 @@ export interface PlanOptions {
   /** plan.robust: the model draws the designs are ranked over (default ROBUST_DRAWS) and their seed (default 1). */
   robustDraws?: number;
   robustSeed?: number;
+  /** plan.robust: how each draw's sums are computed (src/planning/robust.ts; default 'auto'; the results agree to 1e-8). */
+  robustSums?: 'auto' | 'exact' | 'series';
 }
 
 function finite(x: number, what: string): number {
@@ -242,6 +244,7 @@ export async function planDesigns(
         parameterIndex,
         draws: opts.robustDraws ?? ROBUST_DRAWS,
         seed: opts.robustSeed ?? 1,
+        ...(opts.robustSums ? { sums: opts.robustSums } : {}),
       },
       [...designs, best, gridBest, ...neighbours],
     );

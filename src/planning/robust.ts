@@ -17,8 +17,14 @@
  * of Delta and interpolated by cubic Hermite polynomials (error about h^4 / 384 times the fourth
  * derivative: 4e-6 of a sigma measured at h = 0.1, 3e-4 at h = 0.25), scaled by the tier's area
  * and marginalised with the tier's cosmic-variance fractions of the assumed model (the design
- * model's); the tiers' matrices
- * add, as in search.ts.
+ * model's); the tiers' matrices add, as in search.ts.
+ *
+ * The knots' sums of a draw are functions of (x, d_alpha) alone: they are read from tensor
+ * Chebyshev series tabulated once over the range the draws reach (src/planning/draw-sums.ts,
+ * SERIES_OPTIONS; a few hundred passes over the grid instead of one per knot per draw), unless
+ * the exact passes cost fewer or the series' error estimate exceeds SERIES_TOLERANCE. The per-draw
+ * sigmas then equal the exact passes' to 1e-8 relative (2.1e-12 measured,
+ * test/planning/robust-series.test.ts).
  */
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
@@ -26,10 +32,11 @@ import type { PlanGoal } from '../model/plan.js';
 import { percentilesOf } from '../counts/model-draws.js';
 import { forecastDrawOffsets } from '../forecast/model-spread.js';
 import { marginaliseNormalisations, summariseFisher } from '../forecast/fisher.js';
-import { buildDensityGrid, sliceCount } from '../forecast/grid.js';
+import { buildDensityGrid, sliceCount, type DensityGrid } from '../forecast/grid.js';
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { DesignModel } from './model.js';
 import { hermiteWeights, interpolateSums, knotSums } from './tables.js';
+import { drawSumsTable, seriesPasses, type DrawSumsOptions, type DrawSumsTable } from './draw-sums.js';
 import type { Evaluated } from './search.js';
 
 /** Draws a robust plan ranks its designs over by default (a draws file: every row). */
@@ -46,6 +53,13 @@ export interface RobustContext {
   parameterIndex: number;
   draws: number;
   seed: number;
+  /**
+   * How each draw's sums are computed: 'exact' by the draw's own passes over the grid (one per
+   * knot; the reference the series are tested against), 'series' from the tabulated series,
+   * 'auto' (the default) by the series where they cost fewer passes and their error estimate is
+   * within SERIES_TOLERANCE.
+   */
+  sums?: 'auto' | 'exact' | 'series';
 }
 
 export interface RobustResult {
@@ -55,6 +69,10 @@ export interface RobustResult {
   percentile: number;
   /** Each design's goal at that percentile (undefined where no draw gives a value). */
   value(e: Evaluated): number | undefined;
+  /** Each design's goal under every draw, in the draws' order (Infinity where a sigma has no value). */
+  perDraw(e: Evaluated): Float64Array | undefined;
+  /** Whether the draws' sums came from the tabulated series (drawSeries) rather than passes over the grid. */
+  tabulated: boolean;
 }
 
 export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): RobustResult {
@@ -63,7 +81,15 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
   const percentile = goal.kind === 'sigma' ? 0.84 : 0.16;
   const todo = designs.filter((e, k) => e.goal !== undefined && designs.indexOf(e) === k);
   const values = new Map<Evaluated, number | undefined>();
-  if (todo.length === 0) return { draws: thetas.length, source, percentile, value: (e) => values.get(e) };
+  if (todo.length === 0)
+    return {
+      draws: thetas.length,
+      source,
+      percentile,
+      value: (e) => values.get(e),
+      perDraw: () => undefined,
+      tabulated: false,
+    };
 
   const grid = buildDensityGrid(
     model.reference,
@@ -83,8 +109,10 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
   const table = new Float64Array(knots * stride);
   const sums = new Float64Array(6);
   const weights = new Float64Array(4);
+  const series = ctx.sums === 'exact' ? undefined : drawSeries(grid, thetas, dLo, knots, ctx.sums === 'series');
   const fill = (th: readonly number[]) => {
-    for (let k = 0; k < knots; k++) knotSums(grid, dLo + k * KNOT_STEP + s * th[1]!, th[2]!, table, k * stride);
+    if (series) series.fill(dLo + s * th[1]!, KNOT_STEP, knots, th[2]!, table, 0, stride);
+    else for (let k = 0; k < knots; k++) knotSums(grid, dLo + k * KNOT_STEP + s * th[1]!, th[2]!, table, k * stride);
   };
   /** The six sums of slice sl at Delta under the draw whose table is filled, times `factor`. */
   const sliceSums = (sl: number, delta: number, factor: number): Float64Array => {
@@ -161,5 +189,46 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
     const v = percentilesOf(perDraw[di]!, [percentile])[0]!;
     values.set(e, Number.isFinite(v) ? v : undefined);
   });
-  return { draws: thetas.length, source, percentile, value: (e) => values.get(e) };
+  return {
+    draws: thetas.length,
+    source,
+    percentile,
+    value: (e) => values.get(e),
+    perDraw: (e) => {
+      const di = todo.indexOf(e);
+      return di < 0 ? undefined : perDraw[di];
+    },
+    tabulated: series !== undefined,
+  };
+}
+
+/** Panel widths and degrees of the draws' series (src/planning/draw-sums.ts). */
+export const SERIES_OPTIONS: DrawSumsOptions = { panelWidth: 3, degreeX: 24, panelWidthA: 0.7, degreeA: 14 };
+/** Largest error estimate (relative, drawSumsTable) at which the series replace the exact sums. */
+export const SERIES_TOLERANCE = 1e-10;
+
+/**
+ * The draws' sums as tabulated series over the range the draws reach (x from the first knot of the
+ * lowest shift to the last knot of the highest, dA over the draws' alpha offsets), or undefined
+ * where the exact passes (one per knot per draw with an offset) cost less or the series' error
+ * estimate exceeds SERIES_TOLERANCE.
+ */
+function drawSeries(
+  grid: DensityGrid,
+  thetas: readonly (readonly number[])[],
+  dLo: number,
+  knots: number,
+  always: boolean,
+): DrawSumsTable | undefined {
+  const moved = thetas.filter((th) => !th.every((v) => v === 0));
+  if (moved.length === 0) return undefined;
+  const shifts = moved.map((th) => grid.shift * th[1]!);
+  const alphas = moved.map((th) => th[2]!);
+  const xRange: [number, number] = [dLo + Math.min(...shifts), dLo + (knots - 1) * KNOT_STEP + Math.max(...shifts)];
+  const aRange: [number, number] = [Math.min(...alphas), Math.max(...alphas)];
+  if (!always && seriesPasses(xRange, aRange, SERIES_OPTIONS) >= moved.length * knots) return undefined;
+  const table = drawSumsTable(grid, xRange, aRange, SERIES_OPTIONS);
+  // a slope error e moves a Hermite value by at most 4/27 h e (the largest |h10|, |h11|)
+  const error = table.errorEstimate + (4 / 27) * KNOT_STEP * table.slopeErrorEstimate;
+  return always || error <= SERIES_TOLERANCE ? table : undefined;
 }

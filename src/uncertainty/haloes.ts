@@ -51,6 +51,7 @@ import {
   uniformSpline,
   type UniformSpline,
 } from './quadrature.js';
+import { powerKey, storedLnSigmaM } from './stored-tables.js';
 
 export const SHETH_TORMEN = { A: 0.3222, a: 0.707, p: 0.3 } as const;
 /** Critical linear overdensity for spherical collapse (Press & Schechter 1974; common practice). */
@@ -151,6 +152,14 @@ interface Cumulative {
   top: number;
 }
 
+/** ln sigma(M, z = 0) at the knots of the halo model's spline (1e3 .. 1e19 Msun, 0.5 apart in ln M). */
+export function computeLnSigmaTable(power: LinearPower): Float64Array {
+  const n = Math.round((LN_M_TABLE_MAX - LN_M_TABLE_MIN) / LN_M_TABLE_STEP) + 1;
+  const y = new Float64Array(n);
+  for (let i = 0; i < n; i++) y[i] = Math.log(power.sigmaM(Math.exp(LN_M_TABLE_MIN + i * LN_M_TABLE_STEP), 0));
+  return y;
+}
+
 /** Build (or reuse) the halo model of one linear power spectrum. */
 export function createHaloModel(power: LinearPower): HaloModel {
   const cached = modelCache.get(power);
@@ -158,9 +167,8 @@ export function createHaloModel(power: LinearPower): HaloModel {
   let table: UniformSpline | undefined;
   const spline = (): UniformSpline => {
     if (table) return table;
-    const n = Math.round((LN_M_TABLE_MAX - LN_M_TABLE_MIN) / LN_M_TABLE_STEP) + 1;
-    const y = new Float64Array(n);
-    for (let i = 0; i < n; i++) y[i] = Math.log(power.sigmaM(Math.exp(LN_M_TABLE_MIN + i * LN_M_TABLE_STEP), 0));
+    // stored for the common cosmologies (the same numbers, made by the same code), else made here
+    const y = storedLnSigmaM(powerKey(power.cosmology, power.form)) ?? computeLnSigmaTable(power);
     table = uniformSpline(LN_M_TABLE_MIN, LN_M_TABLE_STEP, y);
     return table;
   };

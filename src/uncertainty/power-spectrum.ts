@@ -30,6 +30,7 @@ import { GRAVITATIONAL_CONSTANT, MPC_M, SOLAR_MASS_KG, T_CMB_DEFAULT_K } from '.
 import { createGrowth } from './growth.js';
 import { lagrangeCubicAt, lagrangeCubics } from '../numerics/interpolate.js';
 import { gaussLegendre } from './quadrature.js';
+import { powerKey, storedShapeTable, type ShapeTable } from './stored-tables.js';
 
 export type TransferForm = 'no_wiggle' | 'full';
 
@@ -246,21 +247,71 @@ const POWER_CACHE_SIZE = 8;
  * abundances in haloes.ts) already made. The last few cosmologies are kept.
  */
 export function createLinearPower(cosmology: Cosmology, options: LinearPowerOptions = {}): LinearPower {
-  const c = cosmology;
-  const key = `${String(options.form ?? 'no_wiggle')} ${c.h0} ${c.omegaM} ${c.omegaB} ${c.sigma8} ${c.nS} ${c.tCmb}`;
+  const key = powerKey(cosmology, options.form ?? 'no_wiggle');
   const cached = powerCache.get(key);
   if (cached) {
     powerCache.delete(key);
     powerCache.set(key, cached);
     return cached;
   }
-  const built = buildLinearPower(cosmology, options);
+  const built = buildLinearPower(cosmology, options, key);
   powerCache.set(key, built);
   if (powerCache.size > POWER_CACHE_SIZE) powerCache.delete(powerCache.keys().next().value!);
   return built;
 }
 
-function buildLinearPower(cosmology: Cosmology, options: LinearPowerOptions): LinearPower {
+/**
+ * The unnormalised shape table of one spectrum: ln(k^n_s T^2) on the uniform ln k grid, and
+ * sigma(8/h Mpc) of that shape (the normalisation divides it out). What createLinearPower makes
+ * for a cosmology it has no stored table of (stored-tables.ts).
+ */
+export function computeShapeTable(cosmology: Cosmology, form: TransferForm): ShapeTable {
+  const p = eisensteinHuParameters(cosmology);
+  const transfer = form === 'full' ? eisensteinHuFull(p) : eisensteinHuNoWiggle(p);
+  const nS = cosmology.nS;
+  const nTab = Math.round((LNK_MAX - LNK_MIN) / LNK_STEP) + 1;
+  const lnShape = new Float64Array(nTab);
+  for (let i = 0; i < nTab; i++) {
+    const lnk = LNK_MIN + i * LNK_STEP;
+    const t = transfer(Math.exp(lnk));
+    lnShape[i] = nS * lnk + 2 * Math.log(t);
+  }
+  const lnShapeAt = shapeInterpolator(lnShape);
+  const shapeOfK = (k: number): number => Math.exp(lnShapeAt(Math.log(k)));
+  return { lnShape, sigma8Unnormalised: Math.sqrt(sigmaSquaredTopHat(shapeOfK, 8 / p.h)) };
+}
+
+/**
+ * ln of the unnormalised shape at ln k from its table: the 4-point Lagrange cubic through nodes
+ * i-1 .. i+2; linear extrapolation beyond the table.
+ */
+function shapeInterpolator(lnShape: Float64Array): (lnk: number) => number {
+  const nTab = lnShape.length;
+  const slopeHi = (lnShape[nTab - 1]! - lnShape[nTab - 2]!) / LNK_STEP;
+  const slopeLo = (lnShape[1]! - lnShape[0]!) / LNK_STEP;
+  // The 4-point Lagrange cubic through nodes i-1 .. i+2, as a polynomial in u = t - i.
+  const coef = lagrangeCubics(lnShape);
+  return (lnk: number): number => {
+    const t = (lnk - LNK_MIN) / LNK_STEP;
+    if (t < 0) return lnShape[0]! + slopeLo * (lnk - LNK_MIN);
+    if (t > nTab - 1) return lnShape[nTab - 1]! + slopeHi * (lnk - LNK_MAX);
+    let i = Math.floor(t);
+    if (i < 1) i = 1;
+    if (i > nTab - 3) i = nTab - 3;
+    return lagrangeCubicAt(coef, i, t - i);
+  };
+}
+
+/**
+ * A spectrum made afresh, without the stored tables and outside the cache (what the stored tables
+ * are made from and checked against).
+ */
+export function computeLinearPower(cosmology: Cosmology, options: LinearPowerOptions = {}): LinearPower {
+  return buildLinearPower(cosmology, options, undefined);
+}
+
+/** The spectrum; `key` (powerKey) names its stored tables, undefined to make them here. */
+function buildLinearPower(cosmology: Cosmology, options: LinearPowerOptions, key: string | undefined): LinearPower {
   const form: TransferForm = options.form ?? 'no_wiggle';
   const c = cosmology;
   if (form !== 'no_wiggle' && form !== 'full') throw new RangeError(`createLinearPower: unknown form ${String(form)}`);
@@ -270,33 +321,12 @@ function buildLinearPower(cosmology: Cosmology, options: LinearPowerOptions): Li
   const nS = c.nS;
   const growth = createGrowth(c.omegaM);
 
-  // Table of ln(k^n_s T^2) on a uniform ln k grid (unnormalised).
-  const nTab = Math.round((LNK_MAX - LNK_MIN) / LNK_STEP) + 1;
-  const lnShape = new Float64Array(nTab);
-  for (let i = 0; i < nTab; i++) {
-    const lnk = LNK_MIN + i * LNK_STEP;
-    const t = transfer(Math.exp(lnk));
-    lnShape[i] = nS * lnk + 2 * Math.log(t);
-  }
-  const slopeHi = (lnShape[nTab - 1]! - lnShape[nTab - 2]!) / LNK_STEP;
-  const slopeLo = (lnShape[1]! - lnShape[0]!) / LNK_STEP;
-  // The 4-point Lagrange cubic through nodes i-1 .. i+2, as a polynomial in u = t - i.
-  const coef = lagrangeCubics(lnShape);
-  /** ln of the unnormalised shape at ln k (4-point Lagrange interpolation; linear extrapolation). */
-  const lnShapeAt = (lnk: number): number => {
-    const t = (lnk - LNK_MIN) / LNK_STEP;
-    if (t < 0) return lnShape[0]! + slopeLo * (lnk - LNK_MIN);
-    if (t > nTab - 1) return lnShape[nTab - 1]! + slopeHi * (lnk - LNK_MAX);
-    let i = Math.floor(t);
-    if (i < 1) i = 1;
-    if (i > nTab - 3) i = nTab - 3;
-    return lagrangeCubicAt(coef, i, t - i);
-  };
-
-  const r8 = 8 / p.h;
-  const shapeOfK = (k: number): number => Math.exp(lnShapeAt(Math.log(k)));
-  const sigma8Unnorm = Math.sqrt(sigmaSquaredTopHat(shapeOfK, r8));
-  const amplitude = (c.sigma8 / sigma8Unnorm) ** 2;
+  // The table of ln(k^n_s T^2) on a uniform ln k grid (unnormalised) and its sigma(8/h Mpc):
+  // stored for the common cosmologies (the same numbers, made by the same code), else made here.
+  const { lnShape, sigma8Unnormalised } =
+    (key !== undefined ? storedShapeTable(key) : undefined) ?? computeShapeTable(c, form);
+  const lnShapeAt = shapeInterpolator(lnShape);
+  const amplitude = (c.sigma8 / sigma8Unnormalised) ** 2;
   const lnAmp = Math.log(amplitude);
 
   const powerZ0 = (k: number): number => Math.exp(lnAmp + lnShapeAt(Math.log(k)));

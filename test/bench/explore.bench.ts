@@ -21,7 +21,7 @@ import {
   settingsText,
   type ControlSpec,
 } from '../../src/library/explore/settings.js';
-import { exploreCompute } from '../../src/library/explore/engine.js';
+import { exploreCompute, exploreMemo } from '../../src/library/explore/engine.js';
 import { figuresHtml, fisherHtml, outputsHtml, slicesHtml, warningsHtml } from '../../src/render/explore/view.js';
 
 const SAMPLES_DIR = fileURLToPath(new URL('../../samples/', import.meta.url));
@@ -31,7 +31,8 @@ function page(name: string) {
   const text = readFileSync(path, 'utf8');
   const raw = parseYaml(text, name);
   const controls = exploreControls(raw, loadSurveyText(text, path));
-  return { name, path, text, raw, controls, dir: dirname(path) };
+  // what the page keeps from one update to the next
+  return { name, path, text, raw, controls, dir: dirname(path), keep: exploreMemo() };
 }
 
 type Page = ReturnType<typeof page>;
@@ -59,6 +60,7 @@ export async function pageUpdate(p: Page, c: ControlSpec): Promise<number> {
     { text: '', object: settingsObject(p.raw, p.controls, settings(c, moved(c))) },
     p.name,
     p.dir,
+    p.keep,
   );
   return (
     outputsHtml(r).length + warningsHtml(r).length + slicesHtml(r).length + fisherHtml(r).length + figuresHtml(r).length

@@ -3,7 +3,8 @@
  * forecast of the 10-slice H-alpha survey of the model benchmark with 1,000 draws, against the plain
  * forecast; the draws' Fisher matrices alone on a prepared grid; and --target at p50 and p84 (two
  * more root searches over the draws, the limit's rebuilding the grid at each trial).
- * And plan robust: true (200 draws) against the same plan at the assumed values.
+ * And plan robust: true (200 draws) against the same plan at the assumed values, with the draws'
+ * sums from the tabulated series (the default) and by exact passes (src/planning/robust.ts).
  */
 import { readFileSync } from 'node:fs';
 import type { BenchCase } from './run.js';
@@ -73,12 +74,37 @@ const uvPlan = readFileSync(new URL('../../samples/plan-uv-deep-wide.yaml', impo
   .replace('count: 200}', 'count: 40}');
 const plainPlan = loadSurveyText(uvPlan, 'plan.yaml');
 const robustPlan = loadSurveyText(uvPlan.replace('  tiers: 1', '  tiers: 1\n  robust: true'), 'plan.yaml');
+const robustSample = loadSurveyText(
+  readFileSync(new URL('../../samples/plan-robust-uv-slope.yaml', import.meta.url), 'utf8'),
+  'samples/plan-robust-uv-slope.yaml',
+);
 cases.push(
   {
     name: 'plan robust: UV plan, 40 exposures, robust: true (200 draws)',
     repeats: 3,
     run: async () => {
       sink += (await plan(robustPlan)).designs.length;
+    },
+  },
+  {
+    name: 'plan robust: UV plan, 40 exposures, robust: true (200 draws), exact per-draw sums',
+    repeats: 3,
+    run: async () => {
+      sink += (await plan(robustPlan, { robustSums: 'exact' })).designs.length;
+    },
+  },
+  {
+    name: 'plan robust: samples/plan-robust-uv-slope.yaml (200 draws, 24 exposures)',
+    repeats: 3,
+    run: async () => {
+      sink += (await plan(robustSample)).designs.length;
+    },
+  },
+  {
+    name: 'plan robust: samples/plan-robust-uv-slope.yaml, exact per-draw sums',
+    repeats: 3,
+    run: async () => {
+      sink += (await plan(robustSample, { robustSums: 'exact' })).designs.length;
     },
   },
   {

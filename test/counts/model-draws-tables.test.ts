@@ -8,7 +8,11 @@
  * tails are held below 1e-10 of the logarithm's scale (an estimate, hence the margin of 100), which
  * is far below the 1e-6 a percentile needs and five orders below the Monte Carlo error of 1,000
  * draws (about 1.25 sigma / sqrt(1000), a few per cent of the band's width). The luminosity of all
- * sources is the same closed form on both paths: 1e-12.
+ * sources is the same closed form on both paths: 1e-12. The histograms of the first HIST_DRAWS
+ * draws (src/counts/model-draws-histograms.ts: a series of the slice's Schechter density in obs and
+ * one quadrature rule for every draw) to 1e-8 relative in every bin, the faintest 1e-18 of a slice's
+ * count included (the series' tail is held below 1e-11 in the logarithm, each panel of the rule
+ * below 1e-14; 2e-12 seen), and a bin empty on one path is empty on the other.
  */
 import { describe, expect, test } from 'vitest';
 import { readFileSync, readdirSync } from 'node:fs';
@@ -20,30 +24,55 @@ import {
   drawModelOffsets,
   drawPaths,
   forgetLevel1Series,
+  HISTOGRAM_TABLE_MIN_DRAWS,
+  histogramPaths,
   populationDraws,
   TABLE_MIN_DRAWS,
 } from '../../src/counts/model-draws.js';
 
 const DIR = 'test/reference/surveys-model';
 const DRAWS = 80;
+/** Draws whose histograms are compared (the exact path costs a whole histogram per draw). */
+const HIST_DRAWS = 16;
 
 type Obj = Record<string, unknown> & { detection: Record<string, unknown>; population: Record<string, unknown> };
 const read = (file: string) => parse(readFileSync(file, 'utf8')) as Obj;
 
 function compare(obj: Obj, file: string, expectTabulated: boolean) {
+  // histograms: tabulated where the limit is one value of obs (not a table in z)
+  const histTabulated = expectTabulated && typeof obj.detection.limit !== 'object';
   const survey = parseSurveyObject(obj, file);
   const pop = survey.populations[0]!;
   const cosmo = new FlatCosmology(survey.cosmology);
   const own = countPopulation(survey, pop, cosmo, pop.sliceEdges, { drawNodes: true });
   const offsets = drawModelOffsets(pop.modelUncertainty!, pop.components.length, DRAWS, 3, 0);
   const before = drawPaths.tabulated;
-  const fast = populationDraws(survey, pop, cosmo, own, offsets, { luminosity: true, histogramDraws: 0 });
+  const histBefore = histogramPaths.tabulated;
+  const fast = populationDraws(survey, pop, cosmo, own, offsets, { luminosity: true, histogramDraws: HIST_DRAWS });
   const used = drawPaths.tabulated - before;
+  const histUsed = histogramPaths.tabulated - histBefore;
   const exact = populationDraws(survey, pop, cosmo, own, offsets, {
     luminosity: true,
-    histogramDraws: 0,
+    histogramDraws: HIST_DRAWS,
     exact: true,
   });
+  const withBins = own.filter((s) => (s.drawNodes?.length ?? 0) > 0 && s.histogram.counts.length > 0).length;
+  expect(histUsed, 'slices whose histograms are tabulated').toBe(histTabulated ? withBins : 0);
+  let moved = 0;
+  exact.histograms!.forEach((h, j) =>
+    h.bins.forEach((b, k) => {
+      const got = fast.histograms![j]!.bins[k]!;
+      expect(got.length).toBe(HIST_DRAWS);
+      b.forEach((v, i) => {
+        const g = got[i]!;
+        if (v === 0) expect(g, `slice ${j} bin ${k} draw ${i}: empty`).toBe(0);
+        else expect(Math.abs(g / v - 1), `slice ${j} bin ${k} draw ${i}`).toBeLessThan(1e-8);
+      });
+      if (b[0]! > 0) moved = Math.max(moved, Math.max(...b) / Math.min(...b.filter((v) => v > 0)));
+    }),
+  );
+  // the draws do move the bins
+  expect(moved).toBeGreaterThan(1.05);
   if (expectTabulated) expect(used, 'slices tabulated').toBe(own.filter((s) => (s.drawNodes?.length ?? 0) > 0).length);
   else expect(used, 'slices tabulated').toBe(0);
   let worst = 0;
@@ -65,7 +94,10 @@ function compare(obj: Obj, file: string, expectTabulated: boolean) {
 }
 
 describe('tabulated draws equal the exact path (1e-8 relative)', () => {
-  test('the tables start at enough draws', () => expect(DRAWS).toBeGreaterThanOrEqual(TABLE_MIN_DRAWS));
+  test('the tables start at enough draws', () => {
+    expect(DRAWS).toBeGreaterThanOrEqual(TABLE_MIN_DRAWS);
+    expect(HIST_DRAWS).toBeGreaterThanOrEqual(HISTOGRAM_TABLE_MIN_DRAWS);
+  });
 
   const line = read(`${DIR}/line-correlated.yaml`);
   test('line flux, alpha evolving, completeness table, correlated sigmas', () => {
@@ -100,6 +132,15 @@ describe('tabulated draws equal the exact path (1e-8 relative)', () => {
           correlation: { 'log10_l_star-alpha': -0.6 },
         },
       },
+      slices: { count: 2 },
+    };
+    compare(obj, `${DIR}/line-correlated.yaml`, true);
+  });
+
+  test('a logistic 0.4 dex wide (varying over every bin, the brightest open bin cut at its edge)', () => {
+    const obj = {
+      ...line,
+      detection: { ...line.detection, completeness: { model: 'logistic', half: 2.5e-16, width: 0.4 } },
       slices: { count: 2 },
     };
     compare(obj, `${DIR}/line-correlated.yaml`, true);

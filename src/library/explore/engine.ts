@@ -13,6 +13,8 @@ import { predict } from '../../counts/predict.js';
 import { forecast } from '../../forecast/forecast.js';
 import { cosmicVarianceInputWith } from '../../forecast/cosmic-variance-input.js';
 import { UncertaintyMemo } from '../../uncertainty/prediction.js';
+import { FisherSumsMemo } from '../../forecast/grid-memo.js';
+import { CountMemo } from '../../counts/count-memo.js';
 import { luminosityFunctionCurve } from '../../population/curves.js';
 import type {
   CountsFigureData,
@@ -66,14 +68,30 @@ function lfData(survey: Survey, prediction: Prediction, k: number): LfFigureData
 }
 
 /**
+ * What the page keeps from one update to the next: work that a change of a control cannot alter
+ * (each population's counts and the Fisher sums of the density grid, at any area:
+ * src/counts/count-memo.ts, src/forecast/grid-memo.ts). The numbers are those computed without it.
+ */
+export interface ExploreMemo {
+  counts: CountMemo;
+  fisherSums: FisherSumsMemo;
+}
+
+export function exploreMemo(): ExploreMemo {
+  return { counts: new CountMemo(), fisherSums: new FisherSumsMemo() };
+}
+
+/**
  * Every number of the page for one survey: its text (`source.text`, read as the loader reads a
  * file) or its parsed form (`source.object`, as settingsObject makes it: the page's updates skip
- * writing and reading YAML). `text` is kept in the result as the text the numbers are of.
+ * writing and reading YAML). `text` is kept in the result as the text the numbers are of; `keep`,
+ * the page's memory of earlier updates.
  */
 export async function exploreCompute(
   source: { text: string; object?: unknown },
   file: string,
   baseDir: string,
+  keep?: ExploreMemo,
 ): Promise<ExploreResult> {
   const text = source.text;
   let survey: Survey;
@@ -96,7 +114,11 @@ export async function exploreCompute(
   }
   const memo = new UncertaintyMemo(survey);
   // The model draws of counts only: the page shows no histogram bins or densities under the draws.
-  const prediction = predict(survey, { uncertaintyMemo: memo, model: { counts: true } });
+  const prediction = predict(survey, {
+    uncertaintyMemo: memo,
+    model: { counts: true },
+    ...(keep ? { countMemo: keep.counts } : {}),
+  });
   const t = prediction.totals;
   const outputs: ExploreOutput[] = [
     { name: 'total-count', label: 'Expected count', value: t.count, kind: 'count' },
@@ -158,7 +180,10 @@ export async function exploreCompute(
       'The Fisher matrix varies one Schechter function: not available for a double Schechter population.';
   } else {
     try {
-      const f = await forecast(survey, { cosmicVarianceSource: cosmicVarianceInputWith(memo) });
+      const f = await forecast(survey, {
+        cosmicVarianceSource: cosmicVarianceInputWith(memo),
+        ...(keep ? { fisherSums: keep.fisherSums } : {}),
+      });
       const names = f.parameters;
       result.fisher = {
         population: first.name,

@@ -1,0 +1,100 @@
+/**
+ * The count engine's results kept from one prediction to the next (the explore page predicts on
+ * every change of a control), by everything countPopulation reads except the area: the
+ * cosmology, the detection, the population, the slice edges, the histogram width and the
+ * engine's options (engine.ts reads nothing else of the survey but its file's name, for
+ * messages). The area enters the engine only as the factor area_sr of every volume weight
+ * (volume elements, counts, histogram bins, luminosities, the redshift profiles and the nodes
+ * kept for the model's draws), so results kept for one area serve another, each of those times
+ * the ratio of the areas; the scaled results equal the engine's for the new area to rounding
+ * (test/explore/page-memo.test.ts: every output of the explore page on every sample and
+ * control, 1e-12).
+ *
+ * Every reader gets its own copy (predict adds to and deletes from the slices it is given). The
+ * key is the JSON of those inputs: the survey model is plain data but for the parameters in z,
+ * whose JSON is what the file said (ZParam.source), from which they are built.
+ */
+import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
+import type { Population } from '../model/population.js';
+import type { Survey } from '../model/survey.js';
+import { countPopulation, type EngineOptions, type NodeState, type SliceCount } from './engine.js';
+
+/** Results remembered (the last used kept): a page's populations at a few settings each. */
+const ENTRIES = 24;
+
+export class CountMemo {
+  private readonly entries = new Map<string, { areaSr: number; slices: SliceCount[] }>();
+
+  static key(survey: Survey, population: Population, edges: readonly number[], options: EngineOptions): string {
+    return JSON.stringify([
+      survey.cosmology,
+      survey.detection,
+      population,
+      edges,
+      survey.histogramWidth,
+      !!options.noHistogram,
+      !!options.profile,
+      !!options.drawNodes,
+    ]);
+  }
+
+  /**
+   * countPopulation(survey, population, cosmo, edges, options), from the results kept for the
+   * same inputs at any area when there are some (options with offsets or nodeDetail are counted).
+   */
+  count(
+    survey: Survey,
+    population: Population,
+    cosmo: FlatCosmology,
+    edges: readonly number[],
+    options: EngineOptions = {},
+  ): SliceCount[] {
+    if (options.offsets || options.nodeDetail) return countPopulation(survey, population, cosmo, edges, options);
+    const key = CountMemo.key(survey, population, edges, options);
+    const kept = this.entries.get(key);
+    if (kept) {
+      // the last used last: the oldest is the first dropped
+      this.entries.delete(key);
+      this.entries.set(key, kept);
+      return kept.slices.map((s) => scaledSlice(s, survey.areaSr / kept.areaSr));
+    }
+    const slices = countPopulation(survey, population, cosmo, edges, options);
+    if (this.entries.size >= ENTRIES) this.entries.delete(this.entries.keys().next().value!);
+    this.entries.set(key, { areaSr: survey.areaSr, slices: slices.map((s) => scaledSlice(s, 1)) });
+    return slices;
+  }
+}
+
+const times = (xs: readonly number[], r: number): number[] => xs.map((x) => x * r);
+
+function scaledNode(nd: NodeState, r: number): NodeState {
+  return {
+    ...nd,
+    volumeWeight: nd.volumeWeight * r,
+    components: nd.components.map((c) => ({ ...c })),
+    allComponents: nd.allComponents.map((c) => ({ ...c })),
+  };
+}
+
+/** A copy of `s` for an area `r` times its own (r = 1: a plain copy). */
+export function scaledSlice(s: SliceCount, r: number): SliceCount {
+  if (s.nodes) throw new Error('internal: a slice with node detail is not kept');
+  const out: SliceCount = {
+    zMin: s.zMin,
+    zMax: s.zMax,
+    volumeMpc3: s.volumeMpc3 * r,
+    count: s.count * r,
+    limitAtCenter: s.limitAtCenter,
+    histogram: { variable: s.histogram.variable, edges: [...s.histogram.edges], counts: times(s.histogram.counts, r) },
+  };
+  if (s.luminosity) {
+    out.luminosity = { detected: s.luminosity.detected * r };
+    if (s.luminosity.total !== undefined) out.luminosity.total = s.luminosity.total * r;
+  }
+  if (s.profile) {
+    out.profile = { z: [...s.profile.z], count: times(s.profile.count, r), volumeMpc3: times(s.profile.volumeMpc3, r) };
+    if (s.profile.selected) out.profile.selected = [...s.profile.selected];
+  }
+  if (s.drawNodes) out.drawNodes = s.drawNodes.map((nd) => scaledNode(nd, r));
+  return out;
+}

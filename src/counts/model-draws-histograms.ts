@@ -1,0 +1,485 @@
+/**
+ * The histograms of the model's draws from one table per slice (src/counts/model-draws.ts draws
+ * the counts; this module the per-bin counts of the first draws, which the exact path makes by
+ * redoing a whole histogram, one incomplete gamma function or completeness quadrature per bin
+ * edge and node, for every draw).
+ *
+ * With the limit at the same obs at every node (flux and magnitude limits), a bin of the observed
+ * value [o1, o2] counts, under a draw's offsets (d_phi_k, d_alpha_k per component, d_c),
+ *
+ *   N = sum_k 10^(d_phi_k) integral over o in the bin, beyond the limit, of c(o) G_k(o - d_c, d_alpha_k) do,
+ *
+ *   G_k(x, d_alpha) = ln10/|slope| sum_i V_i phi*_ik u_i^(alpha_ik + d_alpha + 1) e^-u_i,
+ *   u_i = 10^((x - a_i) / slope),
+ *
+ * since at node i obs = a_i + d_c + slope log10 u (src/selection/observe.ts) and du/u = ln10/|slope|
+ * do: the completeness stays where it is in obs while the draw moves the Schechter factor by d_c.
+ * ln G_k is smooth in both variables, so it is a Chebyshev series over (x, d_alpha) made from its
+ * exact values (one exponential per node at each point: a cheap table), and every draw integrates
+ * its bins by one fixed rule in obs: 8-point Gauss-Legendre panels cut at the bin edges and the
+ * completeness's break points, no wider than 1.5 logistic widths nor than 2 / lambda, lambda =
+ * (u + |alpha + 2| + 2) ln10 / |slope| with u the largest any draw meets at the panel's bright end
+ * among the nodes within 50 of the smallest (the completeness quadrature's rule,
+ * src/counts/completeness-quadrature.ts; it is accurate to about 1e-17 of each panel for the
+ * Schechter factor). The completeness is taken as the exact path takes it: its value at the bin's
+ * middle where it does not vary over the bin (src/selection/completeness.ts, `varying`), pointwise
+ * elsewhere. A draw's bins are the exact path's: those of the plain histogram between the draw's own
+ * faint and bright ends (histogramCount, src/counts/engine.ts), the brightest open (to infinity
+ * where the completeness is constant over it; to its bright edge where it varies, as the exact path
+ * integrates it). A draw costs one series in x per component (collapsed at its d_alpha) evaluated at
+ * the rule's points, instead of one incomplete gamma function per edge and node.
+ */
+import {
+  chebyshev2D,
+  chebyshevAlongX,
+  chebyshevPoints,
+  chebyshevTail,
+  type Chebyshev2D,
+} from '../numerics/chebyshev.js';
+import { gaussLegendreRule } from '../numerics/quadrature.js';
+import { CAPS } from '../model/limits.js';
+import type { ModelOffsets } from '../model/model-uncertainty.js';
+import type { CompletenessFn } from '../selection/completeness.js';
+import { roundEdge, U_BRIGHT_SPAN } from './engine.js';
+
+/** A slice's nodes as model-draws.ts flattens them (what a draw does not change). */
+export interface HistogramNodes {
+  count: number;
+  vw: Float64Array;
+  l10u: Float64Array;
+  a: Float64Array;
+  phi: Float64Array[];
+  alpha: Float64Array[];
+  obsLimit: Float64Array;
+}
+
+export interface HistogramSetting {
+  slope: number;
+  width: number;
+  completeness?: CompletenessFn;
+  breaks?: { points: number[]; scale: number; varying: [number, number] };
+}
+
+/** Tail of the series of ln G accepted, absolute (ln G reaches -100 at the rule's bright end: a relative rule would allow 1e-8 there). */
+export const HISTOGRAM_TABLE_TOLERANCE = 1e-11;
+const START: [number, number] = [16, 4];
+const MAX_POINTS: [number, number] = [256, 32];
+/** The Gauss-Legendre orders a panel may take, and the error each panel is held below (relative). */
+const ORDERS = [4, 6, 8, 10, 12, 16, 20];
+const PANEL_ERROR = 1e-14;
+
+function factorial(n: number): number {
+  let f = 1;
+  for (let i = 2; i <= n; i++) f *= i;
+  return f;
+}
+
+/**
+ * Per order n, the widest panel times lambda for which n-point Gauss-Legendre integrates e^(-lambda x)
+ * to PANEL_ERROR: the rule's error h^(2n+1) (n!)^4 / ((2n + 1) ((2n)!)^3) f^(2n) (Abramowitz & Stegun
+ * 25.4.30) relative to the integral, (lambda h)^(2n + 1) (n!)^4 / ((2n + 1) ((2n)!)^3) for lambda h
+ * >= 1 (the integral is about f / lambda), (lambda h)^(2n) (n!)^4 / ((2n + 1) ((2n)!)^3) below (about f h); and the Bernstein-ellipse parameter rho it needs against a pole (the logistic's, pi widths
+ * off the real axis): the error falls as rho^(-2n) (Trefethen 2013, chapter 19).
+ */
+const ORDER_LIMITS = ORDERS.map((n) => {
+  const k = factorial(n) ** 4 / ((2 * n + 1) * factorial(2 * n) ** 3);
+  const wide = (PANEL_ERROR / k) ** (1 / (2 * n + 1));
+  const lambdaH = wide >= 1 ? wide : (PANEL_ERROR / k) ** (1 / (2 * n));
+  const rho = PANEL_ERROR ** (-1 / (2 * n));
+  return { n, lambdaH, halfWidthOverPole: 2 / (rho - 1 / rho) };
+});
+
+/** The cheapest composite rule over a length for the given lambda and pole distance: panels and order. */
+function chooseRule(length: number, lambda: number, pole: number): { panels: number; order: number } {
+  let best = { panels: 0, order: 0, cost: Infinity };
+  for (const o of ORDER_LIMITS) {
+    const h = Math.min(o.lambdaH / lambda, 2 * pole * o.halfWidthOverPole);
+    const panels = Math.max(1, Math.ceil(length / h));
+    if (panels * o.n < best.cost) best = { panels, order: o.n, cost: panels * o.n };
+  }
+  return best;
+}
+const LN10 = Math.LN10;
+
+/** Chebyshev series on consecutive pieces of x of one length. */
+interface Segmented {
+  x0: number;
+  len: number;
+  parts: Chebyshev2D[];
+}
+
+/** The pieces' length in ln u. */
+const SEGMENT_LN_U = 2;
+
+export interface HistogramTable {
+  /** The plain histogram's first grid index (edges k width) and bin count. */
+  k0: number;
+  bins: number;
+  /** Grid index of each rule point's bin (from kLo), the points in obs and their weights (completeness included). */
+  kLo: number;
+  kCount: number;
+  pointK: Int32Array;
+  pointObs: Float64Array;
+  pointWeight: Float64Array;
+  /** The points before the plain histogram's bright edge. */
+  plainEnd: number;
+  /** Per grid index from kLo: whether the exact path takes the completeness as constant over the bin. */
+  constant: Uint8Array;
+  /** Per component: H_k over (x, d_alpha) in pieces of x, or undefined where the component counts nothing. */
+  series: (Segmented | undefined)[];
+  /** The reference node's a and, per component, alpha. */
+  aRef: number;
+  alphaRef: number[];
+  /** The nodes that fix each draw's bins (finite limits): a and log10 u at the limit. */
+  nodeA: Float64Array;
+  nodeL10u: Float64Array;
+  slope: number;
+  width: number;
+  /** Scratch: the sums per grid index, a collapsed series. */
+  sums: Float64Array;
+  row: Float64Array;
+  rowN: number;
+}
+
+/**
+ * The table of one slice for the given offsets (those whose histograms are drawn), or undefined
+ * (the exact path) where the limit is not at one obs at every node, or a series does not converge.
+ */
+export function histogramTable(
+  f: HistogramNodes,
+  s: HistogramSetting,
+  plain: { edges: readonly number[]; counts: readonly number[] },
+  offsets: readonly ModelOffsets[],
+): HistogramTable | undefined {
+  const { slope, width } = s;
+  const nc = f.phi.length;
+  const nb = plain.counts.length;
+  if (nb === 0 || offsets.length === 0) return undefined;
+  // the nodes that count, and one limit in obs
+  const finite: number[] = [];
+  let obsLim = NaN;
+  for (let i = 0; i < f.count; i++) {
+    const l = f.l10u[i]!;
+    if (!Number.isFinite(l)) continue;
+    const lim = f.obsLimit[i]!;
+    if (Number.isNaN(obsLim)) obsLim = lim;
+    const scale = 1e-12 * Math.max(1, Math.abs(obsLim));
+    if (Math.abs(lim - obsLim) > scale || Math.abs(f.a[i]! + slope * l - obsLim) > 1e3 * scale) return undefined;
+    finite.push(i);
+  }
+  if (finite.length === 0) return undefined;
+  // the offsets' ranges
+  let dcMin = Infinity;
+  let dcMax = -Infinity;
+  const daMin = new Array<number>(nc).fill(Infinity);
+  const daMax = new Array<number>(nc).fill(-Infinity);
+  for (const o of offsets) {
+    dcMin = Math.min(dcMin, o.characteristic);
+    dcMax = Math.max(dcMax, o.characteristic);
+    for (let k = 0; k < nc; k++) {
+      daMin[k] = Math.min(daMin[k]!, o.alpha[k]!);
+      daMax[k] = Math.max(daMax[k]!, o.alpha[k]!);
+    }
+  }
+  // u at a node under a draw is u(obs) 10^(-d_c / slope): the extreme factors
+  const rA = 10 ** (-dcMin / slope);
+  const rB = 10 ** (-dcMax / slope);
+  const rMin = Math.min(rA, rB);
+  const rMax = Math.max(rA, rB);
+  let alphaSpan = 0;
+  for (let k = 0; k < nc; k++)
+    for (const i of finite) {
+      const al = f.alpha[k]![i]!;
+      alphaSpan = Math.max(alphaSpan, Math.abs(al + daMin[k]! + 2), Math.abs(al + daMax[k]! + 2));
+    }
+  // log10 u at obs of the node seeing the smallest and the largest u
+  let negAMin = Infinity;
+  let negAMax = -Infinity;
+  for (const i of finite) {
+    negAMin = Math.min(negAMin, -f.a[i]! / slope);
+    negAMax = Math.max(negAMax, -f.a[i]! / slope);
+  }
+  const l10uLeast = (o: number) => o / slope + negAMin;
+  const l10uMost = (o: number) => o / slope + negAMax;
+  // the rule runs from the limit brightwards to where every draw's u has grown by 40 beyond the
+  // plain histogram's bright edge (what an open bin leaves out is below e^-40 of it)
+  const dir = slope > 0 ? 1 : -1;
+  const k0 = Math.round(plain.edges[0]! / width);
+  const brightEdge = (slope > 0 ? k0 + nb : k0) * width;
+  const uEdge = 10 ** l10uLeast(brightEdge);
+  const oFar = brightEdge + slope * (Math.log10(uEdge + U_BRIGHT_SPAN / rMin) - Math.log10(uEdge));
+  const varying = s.breaks?.varying;
+  // the logistic's poles lie pi widths off the real axis (a table's curve is linear between its points)
+  const pole = s.breaks && Number.isFinite(s.breaks.scale) ? Math.PI * s.breaks.scale : Infinity;
+  const scale = LN10 / Math.abs(slope);
+  const obsOfK = (k: number) => roundEdge(k * width);
+  // grid bins from the limit's to the far end's
+  const kLimit = slope > 0 ? Math.floor(obsLim / width + 1e-9) : Math.ceil(obsLim / width - 1e-9) - 1;
+  if (!Number.isFinite(oFar)) return undefined;
+  const pk: number[] = [];
+  const po: number[] = [];
+  const pw: number[] = [];
+  /** Per grid bin from the limit's (index (k - kLimit) dir): whether the completeness is constant over it. */
+  const constantFrom: number[] = [];
+  for (let k = kLimit; ; k += dir) {
+    if (Math.abs(k - kLimit) > 4 * CAPS.histogramBins) return undefined;
+    const lowEdge = obsOfK(k);
+    const highEdge = obsOfK(k + 1);
+    const faintEdge = slope > 0 ? lowEdge : highEdge;
+    const brightEdgeK = slope > 0 ? highEdge : lowEdge;
+    // the part beyond the limit, up to the far end
+    const from = k === kLimit ? obsLim : faintEdge;
+    const to = dir * (brightEdgeK - oFar) >= 0 ? oFar : brightEdgeK;
+    const isConstant = !s.completeness || !varying || highEdge <= varying[0] || lowEdge >= varying[1];
+    constantFrom.push(isConstant ? 1 : 0);
+    const cBin = !s.completeness ? 1 : isConstant ? s.completeness(0.5 * (faintEdge + brightEdgeK)) : NaN;
+    if (dir * (to - from) > 0) {
+      const cuts = [from];
+      if (!isConstant) for (const p of s.breaks!.points) if (dir * (p - from) > 0 && dir * (to - p) > 0) cuts.push(p);
+      cuts.push(to);
+      cuts.sort((x, y) => dir * (x - y));
+      for (let c = 0; c + 1 < cuts.length; c++) {
+        const p = cuts[c]!;
+        const q = cuts[c + 1]!;
+        // the largest u any draw meets at the piece's bright end, among nodes that matter
+        const uLeast = 10 ** l10uLeast(q) * rMax;
+        const u = Math.min(10 ** l10uMost(q) * rMax, uLeast + 50);
+        const lambda = (u + alphaSpan + 2) * scale;
+        const rule = chooseRule(Math.abs(q - p), lambda, isConstant ? Infinity : pole);
+        const n = rule.panels;
+        const { nodes: gl, weights: glw } = gaussLegendreRule(rule.order);
+        const h = (q - p) / n;
+        for (let j = 0; j < n; j++) {
+          const pa = p + j * h;
+          for (let g = 0; g < rule.order; g++) {
+            const o = pa + 0.5 * h * (gl[g]! + 1);
+            const c0 = isConstant ? cBin : s.completeness!(o);
+            pk.push(k);
+            po.push(o);
+            pw.push(0.5 * Math.abs(h) * glw[g]! * scale * c0);
+          }
+        }
+      }
+    }
+    if (to === oFar) break;
+  }
+  const kLast = kLimit + dir * (constantFrom.length - 1);
+  const kLo = Math.min(kLimit, kLast);
+  const kCount = constantFrom.length;
+  const constant = new Uint8Array(kCount);
+  constantFrom.forEach((c, j) => (constant[kLimit + dir * j - kLo] = c));
+  const pointObs = Float64Array.from(po);
+  let oMin = Infinity;
+  let oMax = -Infinity;
+  for (const o of pointObs) {
+    oMin = Math.min(oMin, o);
+    oMax = Math.max(oMax, o);
+  }
+  // the reference node: the smallest u at every obs (u_i = u* rho_i, rho_i >= 1)
+  let ref = finite[0]!;
+  for (const i of finite) if (-f.a[i]! / slope < -f.a[ref]! / slope) ref = i;
+  const aRef = f.a[ref]!;
+  // ln G_k = (alpha*_k + d_alpha + 1) L* - u* + H_k(x, d_alpha), L* = ln u*, where
+  // H_k = ln sum_i V_i phi*_ik exp((alpha_ik + d_alpha + 1) D_i + (alpha_ik - alpha*_k) L* - u* (rho_i - 1)),
+  // D_i = ln rho_i: the double exponential taken out exactly, H_k is gentle
+  const series: (Segmented | undefined)[] = [];
+  const alphaRef: number[] = [];
+  const lnTerm = new Float64Array(finite.length);
+  for (let k = 0; k < nc; k++) {
+    const phiK = f.phi[k]!;
+    const alphaK = f.alpha[k]!;
+    const aStar = alphaK[ref]!;
+    alphaRef.push(aStar);
+    const used = finite.filter((i) => f.vw[i]! * phiK[i]! > 0);
+    if (used.length === 0) {
+      series.push(undefined);
+      continue;
+    }
+    const lnW = used.map((i) => Math.log(f.vw[i]! * phiK[i]!));
+    const dln = used.map((i) => ((aRef - f.a[i]!) * LN10) / slope);
+    const rhoM1 = dln.map((d) => Math.expm1(d));
+    const h = (x: number, da: number): number => {
+      const lnU = ((x - aRef) * LN10) / slope;
+      const u = Math.exp(lnU);
+      let m = -Infinity;
+      for (let q = 0; q < used.length; q++) {
+        const al = alphaK[used[q]!]!;
+        const t = lnW[q]! + (al + da + 1) * dln[q]! + (al - aStar) * lnU - u * rhoM1[q]!;
+        lnTerm[q] = t;
+        if (t > m) m = t;
+      }
+      let sum = 0;
+      for (let q = 0; q < used.length; q++) sum += Math.exp(lnTerm[q]! - m);
+      return m + Math.log(sum);
+    };
+    // in pieces of SEGMENT_LN_U in ln u* (a low degree each: a draw evaluates them at every point)
+    const x0 = oMin - dcMax;
+    const x1 = oMax - dcMin;
+    const segs = Math.max(1, Math.ceil((Math.abs(x1 - x0) * LN10) / Math.abs(slope) / SEGMENT_LN_U));
+    const len = (x1 - x0) / segs;
+    const parts: Chebyshev2D[] = [];
+    for (let g = 0; g < segs; g++) {
+      const c = logTable(h, x0 + g * len, g === segs - 1 ? x1 : x0 + (g + 1) * len, daMin[k]!, daMax[k]!);
+      if (!c) return undefined;
+      parts.push(c);
+    }
+    series.push({ x0, len, parts });
+  }
+  let nxMax = 1;
+  for (const c of series) if (c) for (const q of c.parts) nxMax = Math.max(nxMax, q.nx);
+  // the points up to the plain histogram's bright edge (a draw whose open bin lies beyond it needs no more)
+  let plainEnd = 0;
+  while (plainEnd < pk.length && dir * (pk[plainEnd]! - (slope > 0 ? k0 + nb : k0 - 1)) < 0) plainEnd++;
+  return {
+    k0,
+    bins: nb,
+    kLo,
+    kCount,
+    pointK: Int32Array.from(pk, (k) => k - kLo),
+    pointObs,
+    pointWeight: Float64Array.from(pw),
+    plainEnd,
+    constant,
+    series,
+    aRef,
+    alphaRef,
+    nodeA: Float64Array.from(finite, (i) => f.a[i]!),
+    nodeL10u: Float64Array.from(finite, (i) => f.l10u[i]!),
+    slope,
+    width,
+    sums: new Float64Array(kCount),
+    row: new Float64Array(nxMax * Math.max(1, ...series.map((c) => c?.parts.length ?? 1))),
+    rowN: nxMax,
+  };
+}
+
+/** A Chebyshev series of the values lnG(x, y) (already logarithms), doubling the points until the tail is below the tolerance. */
+function logTable(
+  lnG: (x: number, y: number) => number,
+  x0: number,
+  x1: number,
+  y0: number,
+  y1: number,
+): Chebyshev2D | undefined {
+  let [nx, ny] = START;
+  if (!(x1 > x0)) nx = 1;
+  if (!(y1 > y0)) ny = 1;
+  for (;;) {
+    const xs = chebyshevPoints(nx, x0, x1);
+    const ys = chebyshevPoints(ny, y0, y1);
+    const v = new Float64Array(nx * ny);
+    for (let i = 0; i < nx; i++)
+      for (let j = 0; j < ny; j++) {
+        const g = lnG(xs[i]!, ys[j]!);
+        if (!Number.isFinite(g)) return undefined;
+        v[i * ny + j] = g;
+      }
+    const c = chebyshev2D(v, nx, ny, x0, x1, y0, y1);
+    const t = chebyshevTail(c);
+    const moreX = t.x > HISTOGRAM_TABLE_TOLERANCE;
+    const moreY = t.y > HISTOGRAM_TABLE_TOLERANCE;
+    if (!moreX && !moreY) return c;
+    if ((moreX && nx >= MAX_POINTS[0]) || (moreY && ny >= MAX_POINTS[1])) return undefined;
+    if (moreX) nx *= 2;
+    if (moreY) ny *= 2;
+  }
+}
+
+/**
+ * One draw's histogram on the plain histogram's bins (`out`, one value per bin) from the table;
+ * false where the draw's own histogram would have more bins than a slice may have (the exact path
+ * then reports it).
+ */
+export function histogramFromTable(tb: HistogramTable, o: ModelOffsets, out: Float64Array): boolean {
+  const { slope, width } = tb;
+  const dc = o.characteristic;
+  // the draw's own bins (histogramCount's range: from the limit to u = uLim + 40, or 40, at every node)
+  let obsMin = Infinity;
+  let obsMax = -Infinity;
+  const shift = -dc / slope;
+  for (let i = 0; i < tb.nodeA.length; i++) {
+    const l = tb.nodeL10u[i]! + shift;
+    const a = tb.nodeA[i]! + dc;
+    const uLim = 10 ** l;
+    const uBright = uLim > 1 ? uLim + U_BRIGHT_SPAN : U_BRIGHT_SPAN;
+    const o1 = a + slope * l;
+    const o2 = a + slope * Math.log10(uBright);
+    obsMin = Math.min(obsMin, o1, o2);
+    obsMax = Math.max(obsMax, o1, o2);
+  }
+  const dk0 = Math.floor(obsMin / width + 1e-9);
+  const dk1 = Math.max(dk0 + 1, Math.ceil(obsMax / width - 1e-9));
+  if (!(dk1 - dk0 <= CAPS.histogramBins)) return false;
+  const kBright = slope > 0 ? dk1 - 1 : dk0;
+  // the sums of the rule's points per grid bin, up to the plain histogram's bright edge unless the
+  // draw's open bin lies within it and counts to infinity
+  const dir = slope > 0 ? 1 : -1;
+  const openAt = kBright - tb.kLo;
+  const openInside = dir * (kBright - (slope > 0 ? tb.k0 + tb.bins - 1 : tb.k0)) <= 0;
+  const np = openInside && openAt >= 0 && openAt < tb.kCount && tb.constant[openAt] ? tb.pointObs.length : tb.plainEnd;
+  const sums = tb.sums.fill(0);
+  const row = tb.row;
+  const pointK = tb.pointK;
+  const pointObs = tb.pointObs;
+  const pointWeight = tb.pointWeight;
+  const lnScale = LN10 / slope;
+  for (let k = 0; k < tb.series.length; k++) {
+    const c = tb.series[k];
+    if (!c) continue;
+    const dPhi = o.log10PhiStar[k]!;
+    const phiScale = dPhi ? 10 ** dPhi : 1;
+    const da = o.alpha[k]!;
+    const power = tb.alphaRef[k]! + da + 1;
+    const parts = c.parts;
+    const last = parts.length - 1;
+    const stride = tb.rowN;
+    for (let g = 0; g <= last; g++) chebyshevAlongX(parts[g]!, da, row.subarray(g * stride));
+    const base = -(tb.aRef + dc) * lnScale;
+    const invLen = 1 / c.len;
+    for (let p = 0; p < np; p++) {
+      const ob = pointObs[p]!;
+      const lnU = ob * lnScale + base;
+      const x = ob - dc;
+      let g = Math.floor((x - c.x0) * invLen);
+      if (g < 0) g = 0;
+      else if (g > last) g = last;
+      const part = parts[g]!;
+      const n = part.nx;
+      const t = n === 1 ? 0 : (2 * x - part.x0 - part.x1) / (part.x1 - part.x0);
+      // Clenshaw's recurrence over the piece's collapsed series
+      const off = g * stride;
+      let d1 = 0;
+      let d2 = 0;
+      const t2 = 2 * t;
+      for (let i = n - 1; i >= 1; i--) {
+        const d = t2 * d1 - d2 + row[off + i]!;
+        d2 = d1;
+        d1 = d;
+      }
+      const h = t * d1 - d2 + row[off]!;
+      const at = pointK[p]!;
+      sums[at] = sums[at]! + pointWeight[p]! * phiScale * Math.exp(power * lnU - Math.exp(lnU) + h);
+    }
+  }
+  // the plain bins: the draw's own, its brightest open
+  for (let bin = 0; bin < tb.bins; bin++) {
+    const k = tb.k0 + bin;
+    if (k < dk0 || k >= dk1) {
+      out[bin] = 0;
+      continue;
+    }
+    const at = k - tb.kLo;
+    if (at < 0 || at >= tb.kCount) {
+      out[bin] = 0;
+      continue;
+    }
+    if (k !== kBright || !tb.constant[at]) {
+      out[bin] = sums[at]!;
+      continue;
+    }
+    let v = 0;
+    for (let j = at; j >= 0 && j < tb.kCount; j += dir) v += sums[j]!;
+    out[bin] = v;
+  }
+  return true;
+}

@@ -1,0 +1,262 @@
+/**
+ * The six Fisher sums of every slice and their derivatives in x (knotSums, src/planning/tables.ts)
+ * as functions of the shift x and the alpha offset dA, tabulated once as tensor Chebyshev series so
+ * that each model draw of a robust plan (src/planning/robust.ts) costs a few thousand
+ * multiplications instead of one pass over the density grid per knot.
+ *
+ * Each sum is a finite sum over the grid's points of exp(logW + (a1 + dA)(t + x) - e^(t + x)) times
+ * a polynomial in (t + x, e^(t + x)): an entire function of (x, dA), so its Chebyshev interpolant
+ * converges geometrically (Trefethen 2013, Approximation Theory and Approximation Practice, ch. 8).
+ * The x range is cut into panels no wider than `panelWidth`, each with `degreeX` + 1 first-kind
+ * Chebyshev points, the dA range into panels no wider than `panelWidthA` with `degreeA` + 1 points
+ * (one point where a range is a single value). The six sums are tabulated (fisherSums); their
+ * derivatives in x are those of the series in x. The errors are estimated from the last
+ * coefficients in each direction (`errorEstimate`, `slopeErrorEstimate`, relative to each sum's
+ * largest magnitude on its panel's points); robust.ts takes the table only where they are within
+ * its tolerance and the table costs fewer passes than the exact per-draw sums.
+ */
+import type { DensityGrid } from '../forecast/grid.js';
+import { sliceCount } from '../forecast/grid.js';
+import { fisherSums } from './tables.js';
+
+/** Numbers per slice written: the six sums, then their six derivatives in x (the layout of knotSums). */
+const PER_SLICE = 12;
+/** Numbers per slice tabulated: the six sums (their derivatives are the series' own). */
+const SUMS = 6;
+
+export interface DrawSumsOptions {
+  /** Widest x panel (ln u). */
+  panelWidth: number;
+  /** Polynomial degree in x per panel. */
+  degreeX: number;
+  /** Widest dA panel. */
+  panelWidthA: number;
+  /** Polynomial degree in dA per panel. */
+  degreeA: number;
+}
+
+export interface DrawSumsTable {
+  /** Grid passes spent building the table (each one fisherSums call). */
+  passes: number;
+  /**
+   * Largest estimated interpolation error of any number, relative to that number's (slice's and
+   * kind's) largest magnitude on its panel's points: the sum of the magnitudes of the last two
+   * coefficients in each direction.
+   */
+  errorEstimate: number;
+  /**
+   * The same for the derivatives in x (the series' own derivatives), per unit of x: the last two
+   * coefficients in x times l^2 (the largest |T_l'| on [-1, 1]) over the half panel width.
+   */
+  slopeErrorEstimate: number;
+  /**
+   * knotSums(grid, x0 + k step, dA, out, offset + k knotStride) for k = 0 .. knots - 1, from the
+   * series (x and dA within the table's ranges; outside, the nearest panel's series extrapolate).
+   */
+  fill(
+    x0: number,
+    step: number,
+    knots: number,
+    dA: number,
+    out: Float64Array,
+    offset: number,
+    knotStride: number,
+  ): void;
+}
+
+/** Panels covering [lo, hi] no wider than `width`: their count and width (one panel of width 0 for a point). */
+function panelsOf(lo: number, hi: number, width: number): { count: number; step: number } {
+  if (!(hi > lo)) return { count: 1, step: 0 };
+  const count = Math.max(1, Math.ceil((hi - lo) / width - 1e-9));
+  return { count, step: (hi - lo) / count };
+}
+
+/** Grid passes drawSumsTable spends on these ranges. */
+export function seriesPasses(
+  xRange: readonly [number, number],
+  aRange: readonly [number, number],
+  opts: DrawSumsOptions,
+): number {
+  const x = panelsOf(xRange[0], xRange[1], opts.panelWidth);
+  const a = panelsOf(aRange[0], aRange[1], opts.panelWidthA);
+  return x.count * (x.step > 0 ? opts.degreeX + 1 : 1) * a.count * (a.step > 0 ? opts.degreeA + 1 : 1);
+}
+
+/** First-kind Chebyshev points on [-1, 1], n of them: cos(pi (i + 1/2) / n) (0 for n = 1). */
+function chebyshevPoints(n: number): Float64Array {
+  const p = new Float64Array(n);
+  for (let i = 0; i < n; i++) p[i] = n === 1 ? 0 : Math.cos((Math.PI * (i + 0.5)) / n);
+  return p;
+}
+
+/** T_0(xi) .. T_(n-1)(xi) into out. */
+function chebyshevValues(xi: number, n: number, out: Float64Array): void {
+  out[0] = 1;
+  if (n > 1) out[1] = xi;
+  for (let k = 2; k < n; k++) out[k] = 2 * xi * out[k - 1]! - out[k - 2]!;
+}
+
+/**
+ * The interpolant's coefficients from its values at n first-kind points, as a matrix M[k][i]:
+ * c_k = (2 - [k = 0]) / n sum_i f_i cos(pi k (i + 1/2) / n) (Press et al., Numerical Recipes, 3rd ed.,
+ * section 5.8).
+ */
+function chebyshevTransform(n: number): Float64Array {
+  const m = new Float64Array(n * n);
+  for (let k = 0; k < n; k++)
+    for (let i = 0; i < n; i++) m[k * n + i] = ((k === 0 ? 1 : 2) / n) * Math.cos((Math.PI * k * (i + 0.5)) / n);
+  return m;
+}
+
+/** The panel of v among `count` panels `step` wide from lo (clamped), and v's place in it on [-1, 1]. */
+function locate(v: number, lo: number, count: number, step: number): { panel: number; xi: number } {
+  if (!(step > 0)) return { panel: 0, xi: 0 };
+  let panel = Math.floor((v - lo) / step);
+  if (panel < 0) panel = 0;
+  if (panel > count - 1) panel = count - 1;
+  return { panel, xi: (v - lo - (panel + 0.5) * step) / (0.5 * step) };
+}
+
+export function drawSumsTable(
+  grid: DensityGrid,
+  xRange: readonly [number, number],
+  aRange: readonly [number, number],
+  opts: DrawSumsOptions,
+): DrawSumsTable {
+  const nS = sliceCount(grid);
+  const width = SUMS * nS;
+  const [xLo, xHi] = xRange;
+  const [aLo, aHi] = aRange;
+  const xp = panelsOf(xLo, xHi, opts.panelWidth);
+  const ap = panelsOf(aLo, aHi, opts.panelWidthA);
+  const nx = xp.step > 0 ? opts.degreeX + 1 : 1;
+  const na = ap.step > 0 ? opts.degreeA + 1 : 1;
+  const px = chebyshevPoints(nx);
+  const pa = chebyshevPoints(na);
+  const tx = chebyshevTransform(nx);
+  const ta = chebyshevTransform(na);
+  // d/dx of the series in x: (2 / panel width) d/dxi
+  const dXi = xp.step > 0 ? 2 / xp.step : 0;
+
+  // per panel pair (x panel p, dA panel q): coefficients [k][l][r] (degree k in dA, l in x, number r)
+  const block = na * nx * width;
+  const coef = new Float64Array(xp.count * ap.count * block);
+  const values = new Float64Array(block);
+  const tmp = new Float64Array(block);
+  const scale = new Float64Array(width);
+  const tailOf = new Float64Array(width);
+  const slopeOf = new Float64Array(width);
+  let passes = 0;
+  let tail = 0;
+  let slopeTail = 0;
+  for (let q = 0; q < ap.count; q++)
+    for (let p = 0; p < xp.count; p++) {
+      const xMid = xLo + (p + 0.5) * xp.step;
+      const aMid = aLo + (q + 0.5) * ap.step;
+      for (let j = 0; j < na; j++)
+        for (let i = 0; i < nx; i++) {
+          fisherSums(grid, xMid + 0.5 * xp.step * px[i]!, aMid + 0.5 * ap.step * pa[j]!, values, (j * nx + i) * width);
+          passes++;
+        }
+      scale.fill(0);
+      for (let v = 0; v < na * nx; v++)
+        for (let r = 0; r < width; r++) scale[r] = Math.max(scale[r]!, Math.abs(values[v * width + r]!));
+      // in x: tmp[j][l][r] = sum_i tx[l][i] values[j][i][r]
+      tmp.fill(0);
+      for (let j = 0; j < na; j++)
+        for (let l = 0; l < nx; l++) {
+          const o = (j * nx + l) * width;
+          for (let i = 0; i < nx; i++) {
+            const c = tx[l * nx + i]!;
+            const v = (j * nx + i) * width;
+            for (let r = 0; r < width; r++) tmp[o + r] = tmp[o + r]! + c * values[v + r]!;
+          }
+        }
+      // in dA: coef[k][l][r] = sum_j ta[k][j] tmp[j][l][r]
+      const base = (q * xp.count + p) * block;
+      for (let k = 0; k < na; k++)
+        for (let j = 0; j < na; j++) {
+          const c = ta[k * na + j]!;
+          for (let l = 0; l < nx; l++) {
+            const o = base + (k * nx + l) * width;
+            const v = (j * nx + l) * width;
+            for (let r = 0; r < width; r++) coef[o + r] = coef[o + r]! + c * tmp[v + r]!;
+          }
+        }
+      // the error estimates: the last two coefficients in each direction (of more than two); for
+      // the slope in x, the last two in x times the largest |T_l'| on [-1, 1], l^2
+      tailOf.fill(0);
+      slopeOf.fill(0);
+      for (let k = 0; k < na; k++)
+        for (let l = 0; l < nx; l++) {
+          const lastX = nx > 2 && l >= nx - 2;
+          if (!(lastX || (na > 2 && k >= na - 2))) continue;
+          const o = base + (k * nx + l) * width;
+          for (let r = 0; r < width; r++) {
+            const c = Math.abs(coef[o + r]!);
+            tailOf[r] = tailOf[r]! + c;
+            slopeOf[r] = slopeOf[r]! + c * (lastX ? l * l : nx * nx) * dXi;
+          }
+        }
+      for (let r = 0; r < width; r++)
+        if (scale[r]! > 0) {
+          tail = Math.max(tail, tailOf[r]! / scale[r]!);
+          slopeTail = Math.max(slopeTail, slopeOf[r]! / scale[r]!);
+        }
+    }
+
+  const ta1 = new Float64Array(na);
+  const tx1 = new Float64Array(nx);
+  const dx1 = new Float64Array(nx);
+  const u1 = new Float64Array(nx);
+  // the series in x of every x panel at the last draw's dA: reduced[p][l][r]
+  const reduced = new Float64Array(xp.count * nx * width);
+  let reducedFor = NaN;
+  return {
+    passes,
+    errorEstimate: tail,
+    slopeErrorEstimate: slopeTail,
+    fill(x0, step, knots, dA, out, offset, knotStride) {
+      if (dA !== reducedFor) {
+        const { panel: q, xi } = locate(dA, aLo, ap.count, ap.step);
+        chebyshevValues(xi, na, ta1);
+        reduced.fill(0);
+        const span = nx * width;
+        for (let p = 0; p < xp.count; p++) {
+          const dst = p * span;
+          for (let k = 0; k < na; k++) {
+            const c = ta1[k]!;
+            const src = (q * xp.count + p) * block + k * span;
+            for (let v = 0; v < span; v++) reduced[dst + v] = reduced[dst + v]! + c * coef[src + v]!;
+          }
+        }
+        reducedFor = dA;
+      }
+      for (let kn = 0; kn < knots; kn++) {
+        const { panel: p, xi } = locate(x0 + kn * step, xLo, xp.count, xp.step);
+        chebyshevValues(xi, nx, tx1);
+        // T_l' = l U_(l-1), U the second kind: U_0 = 1, U_1 = 2 xi, U_k = 2 xi U_(k-1) - U_(k-2)
+        u1[0] = 1;
+        if (nx > 1) u1[1] = 2 * xi;
+        for (let l = 2; l < nx; l++) u1[l] = 2 * xi * u1[l - 1]! - u1[l - 2]!;
+        dx1[0] = 0;
+        for (let l = 1; l < nx; l++) dx1[l] = l * u1[l - 1]! * dXi;
+        const o = offset + kn * knotStride;
+        for (let sl = 0; sl < nS; sl++) {
+          const os = o + PER_SLICE * sl;
+          for (let r = 0; r < PER_SLICE; r++) out[os + r] = 0;
+          for (let l = 0; l < nx; l++) {
+            const c = tx1[l]!;
+            const d = dx1[l]!;
+            const src = (p * nx + l) * width + SUMS * sl;
+            for (let r = 0; r < SUMS; r++) {
+              const v = reduced[src + r]!;
+              out[os + r] = out[os + r]! + c * v;
+              out[os + SUMS + r] = out[os + SUMS + r]! + d * v;
+            }
+          }
+        }
+      }
+    },
+  };
+}

@@ -1,0 +1,176 @@
+/**
+ * The explore page's memory of earlier updates (exploreMemo: work a change of a control cannot
+ * alter, each population's counts and the density grid's Fisher sums at another area,
+ * src/counts/count-memo.ts and src/forecast/grid-memo.ts) gives the numbers computed without it: on every bundled sample, a page's engine is driven through a
+ * change of every control in turn (the area twice, so that sums kept at one area serve another,
+ * and back to the first values, so that every kept entry is read again), and after each change
+ * every output and the Fisher sigmas (with and without cosmic variance) equal those of the engine
+ * without a memory to 1e-12 relative (the area enters a fresh grid inside each point's logarithm,
+ * a kept one as a factor: rounding apart, the same numbers). Then each memory alone against the
+ * engine and the grid at another area.
+ */
+import { readdirSync, readFileSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { describe, expect, test } from 'vitest';
+import { parseYaml } from '../../src/survey/yaml.js';
+import { loadSurveyFile, loadSurveyText } from '../../src/survey/load.js';
+import {
+  exploreControls,
+  exposureDesign,
+  settingsObject,
+  type ControlSpec,
+} from '../../src/library/explore/settings.js';
+import { exploreCompute, exploreMemo, type ExploreResult } from '../../src/library/explore/engine.js';
+import { FisherSumsMemo, scaledParts } from '../../src/forecast/grid-memo.js';
+import { CountMemo } from '../../src/counts/count-memo.js';
+import { countPopulation } from '../../src/counts/engine.js';
+import { fisherParts } from '../../src/forecast/fisher.js';
+import { buildDensityGrid } from '../../src/forecast/grid.js';
+import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
+import { surveyForPopulation } from '../../src/model/select.js';
+
+const REL = 1e-12;
+const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml'));
+
+/** What the page sets for control `c` at `v` (the exposure per pointing sets the area and the limit). */
+function settingOf(c: ControlSpec, v: number): [string, number][] {
+  if (!c.plan) return [[c.key, v]];
+  const d = exposureDesign(c.plan, v);
+  return [
+    ['area', d.area],
+    ['detection.limit', d.limit],
+  ];
+}
+
+/** A control moved within its range (a few per cent of it, or of its value on a log scale). */
+function moved(c: ControlSpec, step: number): number {
+  const v = c.scale === 'log' ? c.value * 10 ** (0.02 * step) : c.value + 0.02 * step * (c.max - c.min);
+  return Math.min(c.max, Math.max(c.min, v));
+}
+
+function expectSame(a: ExploreResult, b: ExploreResult, what: string): void {
+  expect(a.error, what).toBe(b.error);
+  expect(a.outputs.map((o) => o.name)).toEqual(b.outputs.map((o) => o.name));
+  a.outputs.forEach((o, i) => {
+    const want = b.outputs[i]!.value;
+    expect(Math.abs(o.value - want), `${what}: ${o.name}`).toBeLessThanOrEqual(REL * Math.abs(want));
+  });
+  expect(a.rows.length).toBe(b.rows.length);
+  a.rows.forEach((row, i) => {
+    const want = b.rows[i]!;
+    expect(Object.keys(row)).toEqual(Object.keys(want));
+    for (const [k, v] of Object.entries(want)) {
+      const got = (row as unknown as Record<string, unknown>)[k];
+      if (typeof v === 'number')
+        expect(Math.abs((got as number) - v), `${what}: row ${i} ${k}`).toBeLessThanOrEqual(REL * Math.abs(v));
+      else expect(got).toBe(v);
+    }
+  });
+  expect(a.fisherNote).toBe(b.fisherNote);
+  if (b.fisher) {
+    for (const [x, y] of [
+      [a.fisher!.sigma, b.fisher.sigma],
+      [a.fisher!.sigmaPoisson, b.fisher.sigmaPoisson],
+    ] as const)
+      y.forEach((want, i) => expect(Math.abs(x[i]! - want), `${what}: sigma`).toBeLessThanOrEqual(REL * want));
+  }
+}
+
+describe.each(SAMPLES)('%s', (sample) => {
+  test('the page engine with its memory of earlier updates gives the numbers computed without it', async () => {
+    const path = join('samples', sample);
+    const text = readFileSync(path, 'utf8');
+    const raw = parseYaml(text, sample);
+    const controls = exploreControls(raw, loadSurveyText(text, path));
+    const keep = exploreMemo();
+    const values = new Map<string, number>();
+    const area = controls.find((c) => c.key === 'area');
+    const steps: [ControlSpec, number][] = [
+      ...(area ? ([[area, 1]] as [ControlSpec, number][]) : []),
+      ...controls.map((c): [ControlSpec, number] => [c, -1]),
+      ...(area ? ([[area, 2]] as [ControlSpec, number][]) : []),
+      ...controls.map((c): [ControlSpec, number] => [c, 0]),
+    ];
+    for (const [c, step] of steps) {
+      for (const [k, v] of settingOf(c, moved(c, step))) values.set(k, v);
+      const object = () => settingsObject(raw, controls, values);
+      const kept = await exploreCompute({ text: '', object: object() }, sample, dirname(path), keep);
+      const fresh = await exploreCompute({ text: '', object: object() }, sample, dirname(path));
+      expectSame(kept, fresh, `${c.key} moved by ${step}`);
+    }
+  });
+});
+
+/** Every number of `a` equals that of `b` to REL relative; everything else equal. */
+function expectClose(a: unknown, b: unknown, path: string): void {
+  if (typeof b === 'number') {
+    expect(typeof a, path).toBe('number');
+    expect(Math.abs((a as number) - b), path).toBeLessThanOrEqual(REL * Math.abs(b));
+  } else if (b !== null && typeof b === 'object') {
+    expect(Object.keys(a as object).sort(), path).toEqual(Object.keys(b).sort());
+    for (const [k, v] of Object.entries(b)) expectClose((a as Record<string, unknown>)[k], v, `${path}.${k}`);
+  } else expect(a, path).toBe(b);
+}
+
+describe("the count engine's results kept by inputs", () => {
+  test.each(['halpha-narrowband.yaml', 'plan-robust-uv-slope.yaml', 'deep-continuum.yaml'])(
+    "%s: at another area, every number of the kept slices (counts, volumes, histograms, luminosities, profiles, the nodes of the draws) times the ratio equals the engine's (1e-12)",
+    (sample) => {
+      const survey = loadSurveyFile(`samples/${sample}`);
+      const cosmo = new FlatCosmology(survey.cosmology);
+      const memo = new CountMemo();
+      for (const pop of survey.populations) {
+        const options = { profile: true, drawNodes: pop.modelUncertainty !== undefined };
+        const first = memo.count(survey, pop, cosmo, pop.sliceEdges, options);
+        // what predict does to the slices it is given does not reach the kept ones
+        first.forEach((s) => delete s.drawNodes);
+        const wider = { ...survey, areaSr: 2.3 * survey.areaSr, areaDeg2: 2.3 * survey.areaDeg2 };
+        const kept = memo.count(wider, pop, cosmo, pop.sliceEdges, options);
+        const fresh = countPopulation(wider, pop, cosmo, pop.sliceEdges, options);
+        expectClose(kept, fresh, `${sample} ${pop.name}`);
+        expectClose(
+          memo.count(survey, pop, cosmo, pop.sliceEdges, options),
+          countPopulation(survey, pop, cosmo, pop.sliceEdges, options),
+          `${sample} ${pop.name} again`,
+        );
+      }
+    },
+  );
+});
+
+describe('the Fisher sums kept by inputs', () => {
+  test('another area: the kept sums times the ratio of the areas equal a grid built for it (1e-12)', () => {
+    const survey = loadSurveyFile('samples/halpha-narrowband.yaml');
+    const pop = survey.populations[0]!;
+    const cosmo = new FlatCosmology(survey.cosmology);
+    const memo = new FisherSumsMemo();
+    const first = memo.parts(survey, pop, cosmo, pop.sliceEdges);
+    const wider = { ...survey, areaSr: 3.7 * survey.areaSr, areaDeg2: 3.7 * survey.areaDeg2 };
+    const kept = memo.parts(wider, pop, cosmo, pop.sliceEdges);
+    const fresh = fisherParts(buildDensityGrid(wider, pop, cosmo, pop.sliceEdges));
+    expect(kept).not.toBe(first);
+    expect(Math.abs(kept.count / fresh.count - 1)).toBeLessThanOrEqual(REL);
+    kept.matrix.forEach((row, j) =>
+      row.forEach((v, k) => expect(Math.abs(v - fresh.matrix[j]![k]!)).toBeLessThanOrEqual(REL * Math.abs(v))),
+    );
+    kept.slices.forEach((s, i) => {
+      expect(Math.abs(s.count / fresh.slices[i]!.count - 1)).toBeLessThanOrEqual(REL);
+      s.b.forEach((v, j) => expect(Math.abs(v - fresh.slices[i]!.b[j]!)).toBeLessThanOrEqual(REL * Math.abs(v)));
+    });
+    // the same area: the kept sums themselves
+    expect(memo.parts(survey, pop, cosmo, pop.sliceEdges)).toBe(first);
+    expect(scaledParts(first, 1)).toBe(first);
+  });
+
+  test('the key: the same for another area or another population of the file, not for another limit', () => {
+    const survey = loadSurveyFile('samples/narrowband-interlopers.yaml');
+    const view = (s: typeof survey) => surveyForPopulation(s, s.populations[0]!);
+    const key = (s: typeof survey) => FisherSumsMemo.key(view(s), s.populations[0]!, s.populations[0]!.sliceEdges);
+    const base = key(survey);
+    expect(key({ ...survey, areaSr: 2 * survey.areaSr, areaDeg2: 2 * survey.areaDeg2 })).toBe(base);
+    expect(key({ ...survey, populations: [survey.populations[0]!] })).toBe(base);
+    const d = survey.detection;
+    if (d.kind !== 'line_flux') throw new Error('the sample is a line survey');
+    expect(key({ ...survey, detection: { ...d, limitCgs: 1.1 * d.limitCgs } })).not.toBe(base);
+  });
+});
