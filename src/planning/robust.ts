@@ -20,7 +20,7 @@
  * model's); the tiers' matrices add, as in search.ts.
  *
  * The knots' sums of a draw are functions of (x, d_alpha) alone: they are read from tensor
- * Chebyshev series tabulated once over the range the draws reach (src/planning/draw-sums.ts,
+ * Chebyshev series tabulated once over the range the draws reach (src/forecast/draw-sums.ts,
  * SERIES_OPTIONS; a few hundred passes over the grid instead of one per knot per draw), unless
  * the exact passes cost fewer or the series' error estimate exceeds SERIES_TOLERANCE. The per-draw
  * sigmas then equal the exact passes' to 1e-8 relative (2.1e-12 measured,
@@ -36,7 +36,7 @@ import { buildDensityGrid, sliceCount, type DensityGrid } from '../forecast/grid
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { DesignModel, TierValue } from './model.js';
 import { hermiteWeights, interpolateSums, knotSums } from './tables.js';
-import { drawSumsTable, seriesPasses, type DrawSumsOptions, type DrawSumsTable } from './draw-sums.js';
+import { drawSumsTable, seriesPasses, type DrawSumsOptions, type DrawSumsTable } from '../forecast/draw-sums.js';
 import type { Evaluated } from './search.js';
 
 /** Draws a robust plan ranks its designs over by default (a draws file: every row). */
@@ -215,7 +215,7 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
   };
 }
 
-/** Panel widths and degrees of the draws' series (src/planning/draw-sums.ts). */
+/** Panel widths and degrees of the draws' series (src/forecast/draw-sums.ts). */
 export const SERIES_OPTIONS: DrawSumsOptions = { panelWidth: 3, degreeX: 24, panelWidthA: 0.7, degreeA: 14 };
 /** Largest error estimate (relative, drawSumsTable) at which the series replace the exact sums. */
 export const SERIES_TOLERANCE = 1e-10;
