@@ -46,5 +46,11 @@ export default defineConfig(
     files: ['**/*.js', '**/*.mjs'],
     extends: [tseslint.configs.disableTypeChecked],
   },
+  {
+    // The program's entry is CommonJS (bin/package.json): it reads its parts with require().
+    files: ['bin/*.js'],
+    languageOptions: { sourceType: 'commonjs' },
+    rules: { '@typescript-eslint/no-require-imports': 'off' },
+  },
   prettier,
 );

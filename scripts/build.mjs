@@ -5,7 +5,7 @@
 // only the parts of mathjs we use. The code is not minified (stack traces and a reader of dist/
 // see our names) and every file has a source map back to src/.
 import { execFileSync } from 'node:child_process';
-import { rmSync } from 'node:fs';
+import { readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { build } from 'esbuild';
 import { bundleExplorePage } from './explore-bundle.mjs';
@@ -173,6 +173,23 @@ await build({
   plugins: [syncCanvas],
   external: ['canvas'],
 });
+// commander reads node:child_process when loaded, for executable subcommands (a program per
+// command), which skytally has none of: in the program's bundle commander gets a child_process whose
+// spawn says so, and the start does not load Node's child_process (with net and dgram).
+const commanderRoot = resolve('node_modules/commander');
+const noChildProcess = {
+  name: 'no-child-process',
+  setup(b) {
+    b.onResolve({ filter: /^node:child_process$/ }, (args) =>
+      args.importer.startsWith(commanderRoot) ? { path: 'child_process', namespace: 'no-child-process' } : undefined,
+    );
+    b.onLoad({ filter: /.*/, namespace: 'no-child-process' }, () => ({
+      contents:
+        "exports.spawn = () => { throw new Error('skytally has no executable subcommands: commander cannot spawn one'); };",
+      loader: 'js',
+    }));
+  },
+};
 await build({ ...cjs, entryPoints: [codeCache], outfile: 'dist/cli/code-cache.cjs' });
 await build({
   ...cjs,
@@ -185,6 +202,7 @@ await build({
     ),
     lazyVega,
     loaderImport,
+    noChildProcess,
   ],
   external: ['playwright-core', '@resvg/resvg-js'],
   // import.meta as CommonJS has it: this file's URL, and resolution from it (#worker, #explore-page).
@@ -193,6 +211,15 @@ await build({
     js: "const __skytallyUrl = require('node:url').pathToFileURL(__filename).href; const __skytallyResolve = (s) => require('node:url').pathToFileURL(require.resolve(s)).href;",
   },
 });
+// The bundles src/cli/code-cache.ts compiles, in ASCII: it reads an ASCII file as latin1 (a copy)
+// where any other byte makes it decode UTF-8 (a few ms more of every start). esbuild escapes
+// strings and templates but leaves the characters of regular expressions and comments as written;
+// \uXXXX (per UTF-16 unit) means the same there. Source maps keep their columns but on such lines.
+for (const file of ['dist/cli/skytally.cjs', 'dist/vega.cjs', 'dist/random.cjs']) {
+  const text = readFileSync(file, 'utf8');
+  const ascii = text.replace(/[^\t\n\r -~]/g, (c) => `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`);
+  if (ascii !== text) writeFileSync(file, ascii);
+}
 // The code caches, recorded by running the program over some samples (scripts/code-cache.mjs).
 execFileSync(process.execPath, ['scripts/code-cache.mjs'], { stdio: 'inherit' });
 // The explore page's script (src/explore/browser/main.ts with the engine), for browsers: inlined

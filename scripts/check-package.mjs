@@ -45,6 +45,7 @@ try {
     'LICENSE',
     'README.md',
     'bin/skytally.js',
+    'bin/package.json',
     'dist/index.js',
     'dist/index.d.ts',
     'dist/worker.js',

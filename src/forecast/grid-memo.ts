@@ -15,8 +15,8 @@
 import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
-import { buildDensityGrid } from './grid.js';
-import { fisherParts, type FisherParts } from './fisher.js';
+import { densityFisherParts } from './grid.js';
+import type { FisherParts } from './fisher.js';
 
 /** Grids remembered (the last used kept): a page's controls of several populations and a limit or two. */
 const ENTRIES = 16;
@@ -30,8 +30,9 @@ export class FisherSumsMemo {
   }
 
   /**
-   * fisherParts(buildDensityGrid(survey, population, cosmo, edges)), from the sums kept for the
-   * same inputs at any area when there are some. The result is not to be changed by the caller.
+   * fisherParts(buildDensityGrid(survey, population, cosmo, edges)) (densityFisherParts: the
+   * same sums without the grid's arrays), from the sums kept for the same inputs at any area when
+   * there are some. The result is not to be changed by the caller.
    */
   parts(survey: Survey, population: Population, cosmo: FlatCosmology, edges: readonly number[]): FisherParts {
     const key = FisherSumsMemo.key(survey, population, edges);
@@ -42,7 +43,7 @@ export class FisherSumsMemo {
       this.entries.set(key, kept);
       return scaledParts(kept.parts, survey.areaSr / kept.areaSr);
     }
-    const parts = fisherParts(buildDensityGrid(survey, population, cosmo, edges));
+    const parts = densityFisherParts(survey, population, cosmo, edges);
     if (this.entries.size >= ENTRIES) this.entries.delete(this.entries.keys().next().value!);
     this.entries.set(key, { areaSr: survey.areaSr, parts });
     return parts;

@@ -40,6 +40,8 @@ import { selectionEffects } from '../selection/effects.js';
 import { completenessBreaks, completenessFunction } from '../selection/completeness.js';
 import { populationAt } from '../population/model.js';
 import { characteristicShift } from './parameters.js';
+import type { FisherParts, SliceInformation } from './fisher.js';
+import { zeros, type Matrix } from './linalg.js';
 
 const LN10 = Math.LN10;
 const PANEL_POINTS = 8;
@@ -77,6 +79,18 @@ export interface DensityGrid {
   variable: PopulationVariable;
 }
 
+/**
+ * Where walkDensity puts the grid: each point (in order: slice by slice, node by node), each
+ * node after its points, each slice after its nodes.
+ */
+interface DensitySink {
+  /** Room for `count` more points. */
+  reserve(count: number): void;
+  point(t: number, logW: number, a1: number): void;
+  node(z: number, a1: number, obsA: number, logV: number, tLim: number, tMax: number): void;
+  sliceEnd(): void;
+}
+
 /** Tabulate the density of detected sources of `population` on `edges`. */
 export function buildDensityGrid(
   survey: Survey,
@@ -91,6 +105,169 @@ export function buildDensityGrid(
    */
   panelWidths = 1,
 ): DensityGrid {
+  const sink = new GridArrays();
+  const slope = walkDensity(survey, population, cosmo, edges, panelWidths, sink);
+  const npt = sink.npt;
+  const grid: DensityGrid = {
+    shift: characteristicShift(population),
+    slope,
+    edges: [...edges],
+    sliceNodeStart: Int32Array.from(sink.sliceNodeStart),
+    nodeZ: Float64Array.from(sink.nodeZ),
+    nodeA1: Float64Array.from(sink.nodeA1),
+    nodeObsA: Float64Array.from(sink.nodeObsA),
+    nodeLogV: Float64Array.from(sink.nodeLogV),
+    nodeTLim: Float64Array.from(sink.nodeTLim),
+    nodeTMax: Float64Array.from(sink.nodeTMax),
+    nodePointStart: Int32Array.from(sink.nodePointStart),
+    pointT: sink.pointT.slice(0, npt),
+    pointExpT: expOf(sink.pointT, npt),
+    pointLogW: sink.pointLogW.slice(0, npt),
+    pointA1: sink.pointA1.slice(0, npt),
+    kind: survey.detection.kind,
+    variable: population.variable,
+  };
+  const comp = survey.detection.completeness;
+  if (comp) grid.completeness = comp;
+  return grid;
+}
+
+/** The grid's points and nodes in arrays (the points' grown by doubling, npt held). */
+class GridArrays implements DensitySink {
+  readonly sliceNodeStart: number[] = [0];
+  readonly nodeZ: number[] = [];
+  readonly nodeA1: number[] = [];
+  readonly nodeObsA: number[] = [];
+  readonly nodeLogV: number[] = [];
+  readonly nodeTLim: number[] = [];
+  readonly nodeTMax: number[] = [];
+  readonly nodePointStart: number[] = [0];
+  npt = 0;
+  pointT = new Float64Array(4096);
+  pointLogW = new Float64Array(4096);
+  pointA1 = new Float64Array(4096);
+
+  reserve(more: number): void {
+    const npt = this.npt;
+    if (npt + more <= this.pointT.length) return;
+    const size = Math.max(2 * this.pointT.length, npt + more);
+    const grow = (a: Float64Array) => {
+      const b = new Float64Array(size);
+      b.set(a.subarray(0, npt));
+      return b;
+    };
+    this.pointT = grow(this.pointT);
+    this.pointLogW = grow(this.pointLogW);
+    this.pointA1 = grow(this.pointA1);
+  }
+
+  point(t: number, logW: number, a1: number): void {
+    const n = this.npt++;
+    this.pointT[n] = t;
+    this.pointLogW[n] = logW;
+    this.pointA1[n] = a1;
+  }
+
+  node(z: number, a1: number, obsA: number, logV: number, tLim: number, tMax: number): void {
+    this.nodeZ.push(z);
+    this.nodeA1.push(a1);
+    this.nodeObsA.push(obsA);
+    this.nodeLogV.push(logV);
+    this.nodeTLim.push(tLim);
+    this.nodeTMax.push(tMax);
+    this.nodePointStart.push(this.npt);
+  }
+
+  sliceEnd(): void {
+    this.sliceNodeStart.push(this.nodeZ.length);
+  }
+}
+
+/**
+ * fisherParts(buildDensityGrid(survey, population, cosmo, edges)) without the grid: the same
+ * points in the same order, each one's terms summed as it is made (fisherPartsAt's arithmetic at
+ * zero offsets, term for term), so the sums are those of the grid bit for bit
+ * (test/forecast/grid-sums.test.ts) without writing, copying and reading the points' arrays.
+ */
+export function densityFisherParts(
+  survey: Survey,
+  population: Population,
+  cosmo: FlatCosmology,
+  edges: readonly number[],
+): FisherParts {
+  const sink = new FisherSums(characteristicShift(population));
+  walkDensity(survey, population, cosmo, edges, 1, sink);
+  return { matrix: sink.matrix, slices: sink.slices, count: sink.total };
+}
+
+/** The Poisson Fisher sums of the points as they come (fisherPartsAt at theta = 0). */
+class FisherSums implements DensitySink {
+  readonly matrix: Matrix = zeros(3);
+  readonly slices: SliceInformation[] = [];
+  total = 0;
+  private n = 0;
+  private bc = 0;
+  private ba = 0;
+  private fcc = 0;
+  private fca = 0;
+  private faa = 0;
+  // fisherPartsAt's offsets' terms at theta = 0, kept so that the arithmetic is the same
+  private readonly yShift: number;
+  private readonly eShift: number;
+  private readonly lnPhi = LN10 * 0;
+  private readonly dA = 0;
+
+  constructor(private readonly s: number) {
+    this.yShift = s * 0;
+    this.eShift = Math.exp(this.yShift);
+  }
+
+  reserve(): void {}
+
+  point(t: number, logW: number, a1: number): void {
+    const s = this.s;
+    const y = t + this.yShift;
+    const a = a1 + this.dA;
+    const u = Math.exp(t) * this.eShift;
+    const g = Math.exp(logW + this.lnPhi + a * y - u);
+    const dc = s * (a - u);
+    this.n += g;
+    this.bc += g * dc;
+    this.ba += g * y;
+    this.fcc += g * dc * dc;
+    this.fca += g * dc * y;
+    this.faa += g * y * y;
+  }
+
+  node(): void {}
+
+  sliceEnd(): void {
+    const { n, bc, ba, fcc, fca, faa } = this;
+    const b = [LN10 * n, bc, ba];
+    const m = [
+      [LN10 * LN10 * n, LN10 * bc, LN10 * ba],
+      [LN10 * bc, fcc, fca],
+      [LN10 * ba, fca, faa],
+    ];
+    for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) this.matrix[j]![k]! += m[j]![k]!;
+    this.slices.push({ count: n, b });
+    this.total += n;
+    this.n = this.bc = this.ba = this.fcc = this.fca = this.faa = 0;
+  }
+}
+
+/**
+ * The grid's points, nodes and slices, in order, into `sink` (buildDensityGrid's arguments);
+ * returns the slope of obs = a + slope log10 u.
+ */
+function walkDensity(
+  survey: Survey,
+  population: Population,
+  cosmo: FlatCosmology,
+  edges: readonly number[],
+  panelWidths: number,
+  sink: DensitySink,
+): number {
   const observer = makeObserver(survey.detection, population, cosmo);
   // The redshift selection and the equivalent-width cut multiply the density like a completeness.
   const effects = selectionEffects(survey.detection, population);
@@ -114,32 +291,6 @@ export function buildDensityGrid(
   // observed value (else evaluated afresh: a limit tabulated in z)
   const shared = new Map<string, { oLo: number; oHi: number; count: number; values: Float64Array }>();
   const same = (x: number, y: number): boolean => Math.abs(x - y) <= 1e-14 * Math.max(1, Math.abs(x));
-
-  const sliceNodeStart: number[] = [0];
-  const nodeZ: number[] = [];
-  const nodeA1: number[] = [];
-  const nodeObsA: number[] = [];
-  const nodeLogV: number[] = [];
-  const nodeTLim: number[] = [];
-  const nodeTMax: number[] = [];
-  const nodePointStart: number[] = [0];
-  // the points' arrays, grown by doubling (npt points held)
-  let npt = 0;
-  let pointT = new Float64Array(4096);
-  let pointLogW = new Float64Array(4096);
-  let pointA1 = new Float64Array(4096);
-  const room = (more: number): void => {
-    if (npt + more <= pointT.length) return;
-    const size = Math.max(2 * pointT.length, npt + more);
-    const grow = (a: Float64Array) => {
-      const b = new Float64Array(size);
-      b.set(a.subarray(0, npt));
-      return b;
-    };
-    pointT = grow(pointT);
-    pointLogW = grow(pointLogW);
-    pointA1 = grow(pointA1);
-  };
 
   for (let s = 0; s + 1 < edges.length; s++) {
     const lo = Math.max(edges[s]!, population.window.min);
@@ -203,7 +354,7 @@ export function buildDensityGrid(
           const mid = 0.5 * (segment[0] + segment[1]);
           const fine = fineBand === 0 || halves.some((h) => Math.abs(mid - h) < fineBand);
           const pn = panelNodes(segment, fine ? maxStep : MAX_PANEL_T, PANEL_POINTS, panels);
-          room(pn.count);
+          sink.reserve(pn.count);
           // ln c at the points: from a segment between the same named cuts at the same observed
           // values (another node's), or evaluated here
           const oLo = obs.a + (slope * segment[0]) / LN10;
@@ -222,44 +373,15 @@ export function buildDensityGrid(
           for (let q = 0; q < pn.count; q++) {
             const lc = values[q]!;
             if (!(lc > -Infinity)) continue;
-            pointT[npt] = pn.x[q]!;
-            pointLogW[npt] = logV + lnW[q % PANEL_POINTS]! + lc;
-            pointA1[npt] = a1;
-            npt++;
+            sink.point(pn.x[q]!, logV + lnW[q % PANEL_POINTS]! + lc, a1);
           }
         }
-        nodeZ.push(zi);
-        nodeA1.push(a1);
-        nodeObsA.push(obs.a);
-        nodeLogV.push(logV);
-        nodeTLim.push(tLim);
-        nodeTMax.push(tMax);
-        nodePointStart.push(npt);
+        sink.node(zi, a1, obs.a, logV, tLim, tMax);
       }
     }
-    sliceNodeStart.push(nodeZ.length);
+    sink.sliceEnd();
   }
-  const grid: DensityGrid = {
-    shift: characteristicShift(population),
-    slope,
-    edges: [...edges],
-    sliceNodeStart: Int32Array.from(sliceNodeStart),
-    nodeZ: Float64Array.from(nodeZ),
-    nodeA1: Float64Array.from(nodeA1),
-    nodeObsA: Float64Array.from(nodeObsA),
-    nodeLogV: Float64Array.from(nodeLogV),
-    nodeTLim: Float64Array.from(nodeTLim),
-    nodeTMax: Float64Array.from(nodeTMax),
-    nodePointStart: Int32Array.from(nodePointStart),
-    pointT: pointT.slice(0, npt),
-    pointExpT: expOf(pointT, npt),
-    pointLogW: pointLogW.slice(0, npt),
-    pointA1: pointA1.slice(0, npt),
-    kind: survey.detection.kind,
-    variable: population.variable,
-  };
-  if (comp) grid.completeness = comp;
-  return grid;
+  return slope;
 }
 
 function expOf(xs: Float64Array, n: number): Float64Array {

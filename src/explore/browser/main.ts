@@ -8,7 +8,7 @@ import type { ControlSpec } from '../../model/explore.js';
 import { exposureDesign, settingsObject, settingsText } from '../../library/explore/settings.js';
 import { parseYaml } from '../../survey/yaml.js';
 import { exploreCompute, exploreMemo } from '../../library/explore/engine.js';
-import { figuresHtml, fisherHtml, outputsHtml, slicesHtml, warningsHtml } from '../../render/explore/view.js';
+import { figureParts, fisherHtml, outputsHtml, slicesHtml, warningsHtml } from '../../render/explore/view.js';
 import { embeddedFiles } from './read-input.js';
 
 /*
@@ -19,6 +19,8 @@ interface PageElement {
   textContent: string | null;
   /** Reading it lays the page out (here: the redrawn parts, within the update's measured time). */
   readonly offsetHeight: number;
+  outerHTML: string;
+  readonly children: { readonly length: number; readonly [i: number]: PageElement | undefined };
   innerHTML: string;
   readonly dataset: Record<string, string | undefined>;
   addEventListener(type: 'input' | 'click' | 'toggle', listener: () => void): void;
@@ -83,6 +85,21 @@ function start(): void {
     byId(id).innerHTML = html;
     drawn.set(id, html);
   };
+  /** The figures as last drawn, one by one: only those a change alters are drawn again. */
+  const figures: string[] = [];
+  const redrawFigures = (parts: string[]): void => {
+    const box = byId('figures');
+    if (parts.length !== figures.length || box.children.length !== parts.length) {
+      box.innerHTML = parts.join('');
+      figures.splice(0, figures.length, ...parts);
+      return;
+    }
+    parts.forEach((html, i) => {
+      if (figures[i] === html) return;
+      box.children[i]!.outerHTML = html;
+      figures[i] = html;
+    });
+  };
 
   async function update(): Promise<void> {
     if (running) {
@@ -107,7 +124,7 @@ function start(): void {
         redraw('warnings', warningsHtml(r));
         redraw('slices', slicesHtml(r));
         redraw('fisher', fisherHtml(r));
-        redraw('figures', figuresHtml(r));
+        redrawFigures(figureParts(r));
         showText();
         status.textContent = r.error ? 'These settings are not a valid survey: see the message under Results.' : '';
         // the layout the redraw needs, done here so that the update's time includes it

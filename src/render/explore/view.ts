@@ -53,10 +53,15 @@ export function fisherHtml(r: ExploreResult): string {
   return `<table><caption>Fisher 1-sigma uncertainties of ${escapeHtml(f.population)} (marginalised)</caption><thead><tr><th scope="col">parameter</th><th scope="col">with cosmic variance</th><th scope="col">Poisson only</th></tr></thead><tbody>${rows.join('')}</tbody></table>`;
 }
 
+/** The figures one by one (each a <figure> element): counts per slice, then the luminosity functions. */
+export function figureParts(r: ExploreResult): string[] {
+  if (r.error) return [];
+  return [...r.counts.map(countsSvg), ...r.lf.map(lfSvg)].map((svg) => `<figure>${svg}</figure>`);
+}
+
 /** The figures: counts per slice, then the luminosity functions. */
 export function figuresHtml(r: ExploreResult): string {
-  if (r.error) return '';
-  return [...r.counts.map(countsSvg), ...r.lf.map(lfSvg)].map((svg) => `<figure>${svg}</figure>`).join('');
+  return figureParts(r).join('');
 }
 
 export function warningsHtml(r: ExploreResult): string {

@@ -1,25 +1,76 @@
 /**
  * The six Fisher sums of every slice and their derivatives in x (knotSums, src/planning/tables.ts)
  * as functions of the shift x and the alpha offset dA, tabulated once as tensor Chebyshev series so
- * that each model draw of a robust plan (src/planning/robust.ts) costs a few thousand
- * multiplications instead of one pass over the density grid per knot.
+ * that each model draw of a robust plan (src/planning/robust.ts) or of forecast --model-draws
+ * (drawnFisher, src/forecast/model-spread.ts) costs a few thousand multiplications instead of one
+ * pass over the density grid per knot or per draw.
  *
  * Each sum is a finite sum over the grid's points of exp(logW + (a1 + dA)(t + x) - e^(t + x)) times
  * a polynomial in (t + x, e^(t + x)): an entire function of (x, dA), so its Chebyshev interpolant
  * converges geometrically (Trefethen 2013, Approximation Theory and Approximation Practice, ch. 8).
  * The x range is cut into panels no wider than `panelWidth`, each with `degreeX` + 1 first-kind
  * Chebyshev points, the dA range into panels no wider than `panelWidthA` with `degreeA` + 1 points
- * (one point where a range is a single value). The interpolant's error is estimated from its last coefficients in each direction
- * (`errorEstimate`, relative to each sum's largest magnitude on the points); robust.ts takes the
- * table only where that estimate is below its tolerance and the table is cheaper than the exact
- * passes, else it keeps the exact per-draw sums.
+ * (one point where a range is a single value). The six sums are tabulated (fisherSums); their
+ * derivatives in x are those of the series in x. The errors are estimated from the last
+ * coefficients in each direction (`errorEstimate`, `slopeErrorEstimate`, relative to each sum's
+ * largest magnitude on its panel's points); its users take the table only where they are within
+ * their tolerance and the table costs fewer passes than the exact per-draw sums.
  */
-import type { DensityGrid } from '../forecast/grid.js';
-import { sliceCount } from '../forecast/grid.js';
-import { knotSums } from './tables.js';
+import type { DensityGrid } from './grid.js';
+import { sliceCount } from './grid.js';
 
-/** Numbers per slice: the six sums, then their six derivatives in x (the layout of knotSums). */
+/** Numbers per slice written: the six sums, then their six derivatives in x (the layout of knotSums). */
 const PER_SLICE = 12;
+/** Numbers per slice tabulated: the six sums (their derivatives are the series' own). */
+const SUMS = 6;
+
+/**
+ * The six Fisher sums of every slice (N, b_c, b_a, F_cc, F_ca, F_aa of src/forecast/fisher.ts) at
+ * shift x and alpha offset dA, into out[offset + stride sl ...]: src/planning/tables.ts's knotSums
+ * without the derivatives, term for term.
+ */
+export function fisherSums(
+  grid: DensityGrid,
+  x: number,
+  dA: number,
+  out: Float64Array,
+  offset: number,
+  stride = 6,
+): void {
+  const s = grid.shift;
+  const eX = Math.exp(x);
+  const { pointT, pointExpT, pointLogW, pointA1, nodePointStart, sliceNodeStart } = grid;
+  for (let sl = 0; sl < sliceCount(grid); sl++) {
+    let n = 0,
+      bc = 0,
+      ba = 0,
+      fcc = 0,
+      fca = 0,
+      faa = 0;
+    const q0 = nodePointStart[sliceNodeStart[sl]!]!;
+    const q1 = nodePointStart[sliceNodeStart[sl + 1]!]!;
+    for (let q = q0; q < q1; q++) {
+      const a = pointA1[q]! + dA;
+      const y = pointT[q]! + x;
+      const u = pointExpT[q]! * eX;
+      const g = Math.exp(pointLogW[q]! + a * y - u);
+      const dc = s * (a - u);
+      n += g;
+      bc += g * dc;
+      ba += g * y;
+      fcc += g * dc * dc;
+      fca += g * dc * y;
+      faa += g * y * y;
+    }
+    const o = offset + stride * sl;
+    out[o] = n;
+    out[o + 1] = bc;
+    out[o + 2] = ba;
+    out[o + 3] = fcc;
+    out[o + 4] = fca;
+    out[o + 5] = faa;
+  }
+}
 
 export interface DrawSumsOptions {
   /** Widest x panel (ln u). */
@@ -33,7 +84,7 @@ export interface DrawSumsOptions {
 }
 
 export interface DrawSumsTable {
-  /** Grid passes spent building the table (each one knotSums call). */
+  /** Grid passes spent building the table (each one fisherSums call). */
   passes: number;
   /**
    * Largest estimated interpolation error of any number, relative to that number's (slice's and
@@ -41,6 +92,11 @@ export interface DrawSumsTable {
    * coefficients in each direction.
    */
   errorEstimate: number;
+  /**
+   * The same for the derivatives in x (the series' own derivatives), per unit of x: the last two
+   * coefficients in x times l^2 (the largest |T_l'| on [-1, 1]) over the half panel width.
+   */
+  slopeErrorEstimate: number;
   /**
    * knotSums(grid, x0 + k step, dA, out, offset + k knotStride) for k = 0 .. knots - 1, from the
    * series (x and dA within the table's ranges; outside, the nearest panel's series extrapolate).
@@ -115,7 +171,8 @@ export function drawSumsTable(
   aRange: readonly [number, number],
   opts: DrawSumsOptions,
 ): DrawSumsTable {
-  const width = PER_SLICE * sliceCount(grid);
+  const nS = sliceCount(grid);
+  const width = SUMS * nS;
   const [xLo, xHi] = xRange;
   const [aLo, aHi] = aRange;
   const xp = panelsOf(xLo, xHi, opts.panelWidth);
@@ -126,6 +183,8 @@ export function drawSumsTable(
   const pa = chebyshevPoints(na);
   const tx = chebyshevTransform(nx);
   const ta = chebyshevTransform(na);
+  // d/dx of the series in x: (2 / panel width) d/dxi
+  const dXi = xp.step > 0 ? 2 / xp.step : 0;
 
   // per panel pair (x panel p, dA panel q): coefficients [k][l][r] (degree k in dA, l in x, number r)
   const block = na * nx * width;
@@ -134,15 +193,17 @@ export function drawSumsTable(
   const tmp = new Float64Array(block);
   const scale = new Float64Array(width);
   const tailOf = new Float64Array(width);
+  const slopeOf = new Float64Array(width);
   let passes = 0;
   let tail = 0;
+  let slopeTail = 0;
   for (let q = 0; q < ap.count; q++)
     for (let p = 0; p < xp.count; p++) {
       const xMid = xLo + (p + 0.5) * xp.step;
       const aMid = aLo + (q + 0.5) * ap.step;
       for (let j = 0; j < na; j++)
         for (let i = 0; i < nx; i++) {
-          knotSums(grid, xMid + 0.5 * xp.step * px[i]!, aMid + 0.5 * ap.step * pa[j]!, values, (j * nx + i) * width);
+          fisherSums(grid, xMid + 0.5 * xp.step * px[i]!, aMid + 0.5 * ap.step * pa[j]!, values, (j * nx + i) * width);
           passes++;
         }
       scale.fill(0);
@@ -170,25 +231,39 @@ export function drawSumsTable(
             for (let r = 0; r < width; r++) coef[o + r] = coef[o + r]! + c * tmp[v + r]!;
           }
         }
-      // the error estimate: the last two coefficients in each direction (of more than two)
+      // the error estimates: the last two coefficients in each direction (of more than two); for
+      // the slope in x, the last two in x times the largest |T_l'| on [-1, 1], l^2
       tailOf.fill(0);
+      slopeOf.fill(0);
       for (let k = 0; k < na; k++)
         for (let l = 0; l < nx; l++) {
-          if (!((nx > 2 && l >= nx - 2) || (na > 2 && k >= na - 2))) continue;
+          const lastX = nx > 2 && l >= nx - 2;
+          if (!(lastX || (na > 2 && k >= na - 2))) continue;
           const o = base + (k * nx + l) * width;
-          for (let r = 0; r < width; r++) tailOf[r] = tailOf[r]! + Math.abs(coef[o + r]!);
+          for (let r = 0; r < width; r++) {
+            const c = Math.abs(coef[o + r]!);
+            tailOf[r] = tailOf[r]! + c;
+            slopeOf[r] = slopeOf[r]! + c * (lastX ? l * l : nx * nx) * dXi;
+          }
         }
-      for (let r = 0; r < width; r++) if (scale[r]! > 0) tail = Math.max(tail, tailOf[r]! / scale[r]!);
+      for (let r = 0; r < width; r++)
+        if (scale[r]! > 0) {
+          tail = Math.max(tail, tailOf[r]! / scale[r]!);
+          slopeTail = Math.max(slopeTail, slopeOf[r]! / scale[r]!);
+        }
     }
 
   const ta1 = new Float64Array(na);
   const tx1 = new Float64Array(nx);
+  const dx1 = new Float64Array(nx);
+  const u1 = new Float64Array(nx);
   // the series in x of every x panel at the last draw's dA: reduced[p][l][r]
   const reduced = new Float64Array(xp.count * nx * width);
   let reducedFor = NaN;
   return {
     passes,
     errorEstimate: tail,
+    slopeErrorEstimate: slopeTail,
     fill(x0, step, knots, dA, out, offset, knotStride) {
       if (dA !== reducedFor) {
         const { panel: q, xi } = locate(dA, aLo, ap.count, ap.step);
@@ -208,12 +283,26 @@ export function drawSumsTable(
       for (let kn = 0; kn < knots; kn++) {
         const { panel: p, xi } = locate(x0 + kn * step, xLo, xp.count, xp.step);
         chebyshevValues(xi, nx, tx1);
+        // T_l' = l U_(l-1), U the second kind: U_0 = 1, U_1 = 2 xi, U_k = 2 xi U_(k-1) - U_(k-2)
+        u1[0] = 1;
+        if (nx > 1) u1[1] = 2 * xi;
+        for (let l = 2; l < nx; l++) u1[l] = 2 * xi * u1[l - 1]! - u1[l - 2]!;
+        dx1[0] = 0;
+        for (let l = 1; l < nx; l++) dx1[l] = l * u1[l - 1]! * dXi;
         const o = offset + kn * knotStride;
-        for (let r = 0; r < width; r++) out[o + r] = 0;
-        for (let l = 0; l < nx; l++) {
-          const c = tx1[l]!;
-          const src = (p * nx + l) * width;
-          for (let r = 0; r < width; r++) out[o + r] = out[o + r]! + c * reduced[src + r]!;
+        for (let sl = 0; sl < nS; sl++) {
+          const os = o + PER_SLICE * sl;
+          for (let r = 0; r < PER_SLICE; r++) out[os + r] = 0;
+          for (let l = 0; l < nx; l++) {
+            const c = tx1[l]!;
+            const d = dx1[l]!;
+            const src = (p * nx + l) * width + SUMS * sl;
+            for (let r = 0; r < SUMS; r++) {
+              const v = reduced[src + r]!;
+              out[os + r] = out[os + r]! + c * v;
+              out[os + SUMS + r] = out[os + SUMS + r]! + d * v;
+            }
+          }
         }
       }
     },
