@@ -1,5 +1,5 @@
 /**
- * plan.robust's draws from tabulated series (src/planning/draw-sums.ts) against the exact per-draw
+ * plan.robust's draws from tabulated series (src/forecast/draw-sums.ts) against the exact per-draw
  * passes over the density grid (robustGoals with sums: 'exact', kept as the reference):
  * - the table's kernel (fisherSums) against knotSums: bit for bit;
  * - the series' numbers (the six Fisher sums of each slice and their derivatives) against knotSums
@@ -28,8 +28,8 @@ import {
   SERIES_TOLERANCE,
   type RobustContext,
 } from '../../src/planning/robust.js';
-import { drawSumsTable } from '../../src/planning/draw-sums.js';
-import { fisherSums, knotSums } from '../../src/planning/tables.js';
+import { drawSumsTable, fisherSums } from '../../src/forecast/draw-sums.js';
+import { knotSums } from '../../src/planning/tables.js';
 import { buildDensityGrid, sliceCount } from '../../src/forecast/grid.js';
 import { forecastDrawOffsets } from '../../src/forecast/model-spread.js';
 import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';

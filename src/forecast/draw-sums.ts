@@ -1,8 +1,9 @@
 /**
  * The six Fisher sums of every slice and their derivatives in x (knotSums, src/planning/tables.ts)
  * as functions of the shift x and the alpha offset dA, tabulated once as tensor Chebyshev series so
- * that each model draw of a robust plan (src/planning/robust.ts) costs a few thousand
- * multiplications instead of one pass over the density grid per knot.
+ * that each model draw of a robust plan (src/planning/robust.ts) or of forecast --model-draws
+ * (drawnFisher, src/forecast/model-spread.ts) costs a few thousand multiplications instead of one
+ * pass over the density grid per knot or per draw.
  *
  * Each sum is a finite sum over the grid's points of exp(logW + (a1 + dA)(t + x) - e^(t + x)) times
  * a polynomial in (t + x, e^(t + x)): an entire function of (x, dA), so its Chebyshev interpolant
@@ -12,17 +13,64 @@
  * (one point where a range is a single value). The six sums are tabulated (fisherSums); their
  * derivatives in x are those of the series in x. The errors are estimated from the last
  * coefficients in each direction (`errorEstimate`, `slopeErrorEstimate`, relative to each sum's
- * largest magnitude on its panel's points); robust.ts takes the table only where they are within
- * its tolerance and the table costs fewer passes than the exact per-draw sums.
+ * largest magnitude on its panel's points); its users take the table only where they are within
+ * their tolerance and the table costs fewer passes than the exact per-draw sums.
  */
-import type { DensityGrid } from '../forecast/grid.js';
-import { sliceCount } from '../forecast/grid.js';
-import { fisherSums } from './tables.js';
+import type { DensityGrid } from './grid.js';
+import { sliceCount } from './grid.js';
 
 /** Numbers per slice written: the six sums, then their six derivatives in x (the layout of knotSums). */
 const PER_SLICE = 12;
 /** Numbers per slice tabulated: the six sums (their derivatives are the series' own). */
 const SUMS = 6;
+
+/**
+ * The six Fisher sums of every slice (N, b_c, b_a, F_cc, F_ca, F_aa of src/forecast/fisher.ts) at
+ * shift x and alpha offset dA, into out[offset + stride sl ...]: src/planning/tables.ts's knotSums
+ * without the derivatives, term for term.
+ */
+export function fisherSums(
+  grid: DensityGrid,
+  x: number,
+  dA: number,
+  out: Float64Array,
+  offset: number,
+  stride = 6,
+): void {
+  const s = grid.shift;
+  const eX = Math.exp(x);
+  const { pointT, pointExpT, pointLogW, pointA1, nodePointStart, sliceNodeStart } = grid;
+  for (let sl = 0; sl < sliceCount(grid); sl++) {
+    let n = 0,
+      bc = 0,
+      ba = 0,
+      fcc = 0,
+      fca = 0,
+      faa = 0;
+    const q0 = nodePointStart[sliceNodeStart[sl]!]!;
+    const q1 = nodePointStart[sliceNodeStart[sl + 1]!]!;
+    for (let q = q0; q < q1; q++) {
+      const a = pointA1[q]! + dA;
+      const y = pointT[q]! + x;
+      const u = pointExpT[q]! * eX;
+      const g = Math.exp(pointLogW[q]! + a * y - u);
+      const dc = s * (a - u);
+      n += g;
+      bc += g * dc;
+      ba += g * y;
+      fcc += g * dc * dc;
+      fca += g * dc * y;
+      faa += g * y * y;
+    }
+    const o = offset + stride * sl;
+    out[o] = n;
+    out[o + 1] = bc;
+    out[o + 2] = ba;
+    out[o + 3] = fcc;
+    out[o + 4] = fca;
+    out[o + 5] = faa;
+  }
+}
 
 export interface DrawSumsOptions {
   /** Widest x panel (ln u). */
