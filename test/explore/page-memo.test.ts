@@ -114,13 +114,16 @@ function expectClose(a: unknown, b: unknown, path: string): void {
 
 describe("the count engine's results kept by inputs", () => {
   test.each(['halpha-narrowband.yaml', 'plan-robust-uv-slope.yaml', 'deep-continuum.yaml'])(
-    "%s: at another area, every number of the kept slices (counts, volumes, histograms, luminosities, profiles, the nodes of the draws) times the ratio equals the engine's (1e-12)",
+    "%s: at another area, every number of the kept slices (counts, volumes, histograms, luminosities, profiles, the nodes of the draws, what each node adds) times the ratio equals the engine's (1e-12)",
     (sample) => {
       const survey = loadSurveyFile(`samples/${sample}`);
       const cosmo = new FlatCosmology(survey.cosmology);
       const memo = new CountMemo();
-      for (const pop of survey.populations) {
-        const options = { profile: true, drawNodes: pop.modelUncertainty !== undefined };
+      for (const [pop, options] of survey.populations.flatMap((p) => [
+        [p, { profile: true, drawNodes: p.modelUncertainty !== undefined }] as const,
+        // what each node adds (photometric redshifts weight it)
+        [p, { nodeDetail: true }] as const,
+      ])) {
         const first = memo.count(survey, pop, cosmo, pop.sliceEdges, options);
         // what predict does to the slices it is given does not reach the kept ones
         first.forEach((s) => delete s.drawNodes);
