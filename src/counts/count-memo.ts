@@ -4,8 +4,8 @@
  * cosmology, the detection, the population, the slice edges, the histogram width and the
  * engine's options (engine.ts reads nothing else of the survey but its file's name, for
  * messages). The area enters the engine only as the factor area_sr of every volume weight
- * (volume elements, counts, histogram bins, luminosities, the redshift profiles and the nodes
- * kept for the model's draws), so results kept for one area serve another, each of those times
+ * (volume elements, counts, histogram bins, luminosities, the redshift profiles, the nodes
+ * kept for the model's draws and what each node adds, which photometric redshifts weight), so results kept for one area serve another, each of those times
  * the ratio of the areas; the scaled results equal the engine's for the new area to rounding
  * (test/explore/page-memo.test.ts: every output of the explore page on every sample and
  * control, 1e-12).
@@ -19,6 +19,16 @@ import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { countPopulation, type EngineOptions, type NodeState, type SliceCount } from './engine.js';
 
+/**
+ * The key of a memo's inputs: their JSON, with every non-finite number written as itself (JSON
+ * writes each as null).
+ */
+export function memoKey(inputs: unknown[]): string {
+  return JSON.stringify(inputs, (_key, value: unknown) =>
+    typeof value === 'number' && !Number.isFinite(value) ? `${value}` : value,
+  );
+}
+
 /** Results remembered (the last used kept): a page's populations at a few settings each. */
 const ENTRIES = 24;
 
@@ -26,7 +36,7 @@ export class CountMemo {
   private readonly entries = new Map<string, { areaSr: number; slices: SliceCount[] }>();
 
   static key(survey: Survey, population: Population, edges: readonly number[], options: EngineOptions): string {
-    return JSON.stringify([
+    return memoKey([
       survey.cosmology,
       survey.detection,
       population,
@@ -35,12 +45,13 @@ export class CountMemo {
       !!options.noHistogram,
       !!options.profile,
       !!options.drawNodes,
+      !!options.nodeDetail,
     ]);
   }
 
   /**
    * countPopulation(survey, population, cosmo, edges, options), from the results kept for the
-   * same inputs at any area when there are some (options with offsets or nodeDetail are counted).
+   * same inputs at any area when there are some (options with offsets are counted).
    */
   count(
     survey: Survey,
@@ -49,7 +60,7 @@ export class CountMemo {
     edges: readonly number[],
     options: EngineOptions = {},
   ): SliceCount[] {
-    if (options.offsets || options.nodeDetail) return countPopulation(survey, population, cosmo, edges, options);
+    if (options.offsets) return countPopulation(survey, population, cosmo, edges, options);
     const key = CountMemo.key(survey, population, edges, options);
     const kept = this.entries.get(key);
     if (kept) {
@@ -78,7 +89,6 @@ function scaledNode(nd: NodeState, r: number): NodeState {
 
 /** A copy of `s` for an area `r` times its own (r = 1: a plain copy). */
 export function scaledSlice(s: SliceCount, r: number): SliceCount {
-  if (s.nodes) throw new Error('internal: a slice with node detail is not kept');
   const out: SliceCount = {
     zMin: s.zMin,
     zMax: s.zMax,
@@ -96,5 +106,16 @@ export function scaledSlice(s: SliceCount, r: number): SliceCount {
     if (s.profile.selected) out.profile.selected = [...s.profile.selected];
   }
   if (s.drawNodes) out.drawNodes = s.drawNodes.map((nd) => scaledNode(nd, r));
+  if (s.nodes) {
+    const nd = s.nodes;
+    out.nodes = {
+      z: [...nd.z],
+      volumeMpc3: times(nd.volumeMpc3, r),
+      count: times(nd.count, r),
+      bins: nd.bins.map((row) => times(row, r)),
+      detected: times(nd.detected, r),
+    };
+    if (nd.total) out.nodes.total = times(nd.total, r);
+  }
   return out;
 }

@@ -30,6 +30,7 @@ import { photoZIsExact, photoZTrueRange, type PhotoZ } from '../model/photo-z.js
 import { makeObserver } from '../selection/observe.js';
 import { populationAt, type ParameterOffsets } from '../population/model.js';
 import { countPopulation, type Histogram, type RedshiftProfile, type SliceCount } from './engine.js';
+import type { CountMemo } from './count-memo.js';
 
 /** Widest piece of the true range near a measured edge, in units of sigma (1 + z) at its low end. */
 const PIECE_SIGMAS = 1;
@@ -149,6 +150,8 @@ export interface PhotoZOptions {
   offsets?: ParameterOffsets;
   noHistogram?: boolean;
   profile?: boolean;
+  /** Where the engine's results of earlier counts are kept (predict's countMemo). */
+  memo?: CountMemo;
 }
 
 /**
@@ -181,10 +184,11 @@ export function countPhotoZ(
     { min: eN, max: null },
   ];
   const engine = { offsets: options.offsets };
+  const count = options.memo ? options.memo.count.bind(options.memo) : countPopulation;
 
   if (photoZIsExact(pz)) {
     // measured = true: the plain prediction, a diagonal matrix
-    const slices = countPopulation(survey, population, cosmo, edges, {
+    const slices = count(survey, population, cosmo, edges, {
       ...engine,
       noHistogram: options.noHistogram,
       profile: options.profile,
@@ -224,7 +228,7 @@ export function countPhotoZ(
   const pieceBin = fine.slice(0, -1).map((a, k) => binOf(0.5 * (a + fine[k + 1]!)));
 
   // One run over the pieces, node by node; each measured bin weights the nodes by P(bin | z).
-  const run = countPopulation(survey, wide, cosmo, fine, { ...engine, nodeDetail: true });
+  const run = count(survey, wide, cosmo, fine, { ...engine, nodeDetail: true });
   const trueCounts = new Array<number>(nSlices + 2).fill(0);
   const matrix = trueBins.map(() => new Array<number>(nSlices + 2).fill(0));
   run.forEach((p, k) => {

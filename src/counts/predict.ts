@@ -389,7 +389,9 @@ function countPopulations(
   const d = survey.detection;
   const withPhotoZ = d.kind !== 'line_flux' && d.photoZ !== undefined;
   return survey.populations.map((p, i) => {
-    const photoZ = withPhotoZ ? countPhotoZ(survey, p, cosmo, p.sliceEdges, { profile: profiles }) : undefined;
+    const photoZ = withPhotoZ
+      ? countPhotoZ(survey, p, cosmo, p.sliceEdges, { profile: profiles, ...(memo ? { memo } : {}) })
+      : undefined;
     const own = photoZ
       ? photoZ.slices
       : (memo ? memo.count.bind(memo) : countPopulation)(survey, p, cosmo, p.sliceEdges, {

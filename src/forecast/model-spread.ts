@@ -8,7 +8,8 @@
  *   draws file once. A draw is the offsets [d log10 phi*, d characteristic, d alpha] of the
  *   forecast's own parameters (src/forecast/parameters.ts).
  * - Each draw's Fisher matrix on the one density grid of the survey (fisherPartsAt: the grid's
- *   points keep their observed values, only the density and its derivatives change), with the
+ *   points keep their observed values, only the density and its derivatives change; for many
+ *   draws its sums read from series tabulated once, drawnFisher), with the
  *   cosmic-variance nuisances of the assumed model (the fractions are not asked again per draw:
  *   their bias, by abundance matching, moves with the draw's count at second order in the sigmas).
  * - A draw without offsets is the plain forecast itself (its sigmas bit for bit); a draw whose
@@ -21,13 +22,19 @@ import type { ForecastModelSpread, SigmaPercentiles } from '../model/outputs/for
 import { inputError } from '../errors.js';
 import { drawModelOffsets, percentilesOf } from '../counts/model-draws.js';
 import type { DensityGrid } from './grid.js';
+import { sliceCount } from './grid.js';
 import {
   fisherPartsAt,
   marginaliseNormalisations,
   summariseFisher,
   type FisherParts,
   type FisherSummary,
+  type SliceInformation,
 } from './fisher.js';
+import { zeros } from './linalg.js';
+import { drawSumsTable, seriesPasses, type DrawSumsOptions } from './draw-sums.js';
+
+const LN10 = Math.LN10;
 
 export const SPREAD_PERCENTILES = [0.16, 0.5, 0.84] as const;
 
@@ -63,26 +70,93 @@ export interface DrawnFisher {
   /** Each draw's summary with the cosmic-variance nuisances (when fractions are given) and Poisson only; undefined when singular. */
   withCv: (FisherSummary | undefined)[];
   poisson: (FisherSummary | undefined)[];
+  /** Whether the draws' sums came from the tabulated series rather than one pass per draw. */
+  tabulated: boolean;
 }
 
-/** The Fisher matrices of every draw on the grid. */
+/**
+ * Panel widths and degrees of the draws' series (src/forecast/draw-sums.ts): a forecast's draws
+ * shift x = s d_c only, over a narrower range than a plan's knots.
+ */
+export const SPREAD_SERIES: DrawSumsOptions = { panelWidth: 1.5, degreeX: 12, panelWidthA: 0.8, degreeA: 14 };
+/** Largest error estimate (relative, drawSumsTable) at which the series replace the exact passes. */
+export const SPREAD_SERIES_TOLERANCE = 1e-10;
+
+/**
+ * The Fisher matrices of every draw on the grid: by one pass over the grid per draw (fisherPartsAt;
+ * `sums` 'exact'), or from the six sums of each slice read from tensor Chebyshev series in
+ * (s d_c, d_alpha) tabulated once over the draws' range (drawSumsTable; 'series'), times 10^d_phi.
+ * 'auto' (the default) takes the series where they cost fewer passes than the draws and their
+ * error estimate is within SPREAD_SERIES_TOLERANCE; every draw's sigmas then equal the exact
+ * passes' to 1e-8 relative (test/forecast/draw-sums.test.ts).
+ */
 export function drawnFisher(
   grid: DensityGrid,
   plain: FisherParts,
   thetas: readonly (readonly number[])[],
   fractions: readonly number[] | undefined,
+  sums: 'auto' | 'exact' | 'series' = 'auto',
 ): DrawnFisher {
   const parts: FisherParts[] = [];
   const withCv: (FisherSummary | undefined)[] = [];
   const poisson: (FisherSummary | undefined)[] = [];
+  const series = sums === 'exact' ? undefined : spreadSeries(grid, thetas, sums === 'series');
   for (const th of thetas) {
-    const p = th.every((v) => v === 0) ? plain : fisherPartsAt(grid, th);
+    const p = th.every((v) => v === 0) ? plain : series ? series(th) : fisherPartsAt(grid, th);
     parts.push(p);
     const po = p.count > 0 ? summariseFisher(p.matrix) : undefined;
     poisson.push(po);
     withCv.push(fractions && po ? summariseFisher(marginaliseNormalisations(p.matrix, p.slices, fractions)) : po);
   }
-  return { parts, withCv, poisson };
+  return { parts, withCv, poisson, tabulated: series !== undefined };
+}
+
+/**
+ * The parts of a draw from the series (undefined where the exact passes cost fewer or the series'
+ * error estimate is too large): fisherPartsAt's matrix and slices from the six sums of each slice.
+ */
+function spreadSeries(
+  grid: DensityGrid,
+  thetas: readonly (readonly number[])[],
+  always: boolean,
+): ((th: readonly number[]) => FisherParts) | undefined {
+  const moved = thetas.filter((th) => !th.every((v) => v === 0));
+  if (moved.length === 0) return undefined;
+  const s = grid.shift;
+  const shifts = moved.map((th) => s * th[1]!);
+  const alphas = moved.map((th) => th[2]!);
+  const xRange: [number, number] = [Math.min(...shifts), Math.max(...shifts)];
+  const aRange: [number, number] = [Math.min(...alphas), Math.max(...alphas)];
+  if (!always && seriesPasses(xRange, aRange, SPREAD_SERIES) >= moved.length) return undefined;
+  const table = drawSumsTable(grid, xRange, aRange, SPREAD_SERIES);
+  if (!always && table.errorEstimate > SPREAD_SERIES_TOLERANCE) return undefined;
+  const nS = sliceCount(grid);
+  const out = new Float64Array(12 * nS);
+  return (th) => {
+    table.fill(s * th[1]!, 0, 1, th[2]!, out, 0, 12 * nS);
+    const factor = 10 ** th[0]!;
+    const matrix = zeros(3);
+    const slices: SliceInformation[] = [];
+    let total = 0;
+    for (let sl = 0; sl < nS; sl++) {
+      const o = 12 * sl;
+      const n = factor * out[o]!;
+      const bc = factor * out[o + 1]!;
+      const ba = factor * out[o + 2]!;
+      const fcc = factor * out[o + 3]!;
+      const fca = factor * out[o + 4]!;
+      const faa = factor * out[o + 5]!;
+      const m = [
+        [LN10 * LN10 * n, LN10 * bc, LN10 * ba],
+        [LN10 * bc, fcc, fca],
+        [LN10 * ba, fca, faa],
+      ];
+      for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) matrix[j]![k]! += m[j]![k]!;
+      slices.push({ count: n, b: [LN10 * n, bc, ba] });
+      total += n;
+    }
+    return { matrix, slices, count: total };
+  };
 }
 
 function percentilesBy(

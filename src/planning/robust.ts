@@ -20,7 +20,7 @@
  * model's); the tiers' matrices add, as in search.ts.
  *
  * The knots' sums of a draw are functions of (x, d_alpha) alone: they are read from tensor
- * Chebyshev series tabulated once over the range the draws reach (src/planning/draw-sums.ts,
+ * Chebyshev series tabulated once over the range the draws reach (src/forecast/draw-sums.ts,
  * SERIES_OPTIONS; a few hundred passes over the grid instead of one per knot per draw), unless
  * the exact passes cost fewer or the series' error estimate exceeds SERIES_TOLERANCE. The per-draw
  * sigmas then equal the exact passes' to 1e-8 relative (2.1e-12 measured,
@@ -31,12 +31,12 @@ import type { Survey } from '../model/survey.js';
 import type { PlanGoal } from '../model/plan.js';
 import { percentilesOf } from '../counts/model-draws.js';
 import { forecastDrawOffsets } from '../forecast/model-spread.js';
-import { marginaliseNormalisations, summariseFisher } from '../forecast/fisher.js';
+import { marginaliseNormalisationsInPlace, summariseFisher } from '../forecast/fisher.js';
 import { buildDensityGrid, sliceCount, type DensityGrid } from '../forecast/grid.js';
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
-import type { DesignModel } from './model.js';
+import type { DesignModel, TierValue } from './model.js';
 import { hermiteWeights, interpolateSums, knotSums } from './tables.js';
-import { drawSumsTable, seriesPasses, type DrawSumsOptions, type DrawSumsTable } from './draw-sums.js';
+import { drawSumsTable, seriesPasses, type DrawSumsOptions, type DrawSumsTable } from '../forecast/draw-sums.js';
 import type { Evaluated } from './search.js';
 
 /** Draws a robust plan ranks its designs over by default (a draws file: every row). */
@@ -108,33 +108,42 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
   const stride = nS * 12;
   const table = new Float64Array(knots * stride);
   const sums = new Float64Array(6);
-  const weights = new Float64Array(4);
   const series = ctx.sums === 'exact' ? undefined : drawSeries(grid, thetas, dLo, knots, ctx.sums === 'series');
   const fill = (th: readonly number[]) => {
     if (series) series.fill(dLo + s * th[1]!, KNOT_STEP, knots, th[2]!, table, 0, stride);
     else for (let k = 0; k < knots; k++) knotSums(grid, dLo + k * KNOT_STEP + s * th[1]!, th[2]!, table, k * stride);
   };
-  /** The six sums of slice sl at Delta under the draw whose table is filled, times `factor`. */
-  const sliceSums = (sl: number, delta: number, factor: number): Float64Array => {
+  // per tier (a design's tier under every draw): its knot interval and Hermite weights in Delta,
+  // its area and its cosmic-variance fractions, found once
+  interface TierPlace {
+    at: number;
+    weights: Float64Array;
+    area: number;
+    fractions: number[];
+  }
+  const places = new Map<TierValue, TierPlace>();
+  const fractionCache = new Map<string, number[]>();
+  const placeOf = (t: TierValue): TierPlace => {
+    let hit = places.get(t);
+    if (hit) return hit;
+    const delta = model.deltaAt(t.hours);
     let j = Math.floor((delta - dLo) / KNOT_STEP);
     if (j < 0) j = 0;
     if (j > knots - 2) j = knots - 2;
     const x = Math.min(1, Math.max(0, (delta - dLo - j * KNOT_STEP) / KNOT_STEP));
+    const weights = new Float64Array(4);
     hermiteWeights(x, KNOT_STEP, weights);
-    const a = j * stride + sl * 12;
-    interpolateSums(table, a, a + stride, weights, factor, sums);
-    return sums;
-  };
-  const fractionCache = new Map<string, number[]>();
-  const fractionsOf = (hours: number, pointings: number) => {
-    const key = `${hours}:${pointings}`;
-    let hit = fractionCache.get(key);
-    if (!hit) {
-      hit = model.fractionsAt(hours, pointings);
-      fractionCache.set(key, hit);
+    const key = `${t.hours}:${t.pointings}`;
+    let fractions = fractionCache.get(key);
+    if (!fractions) {
+      fractions = model.fractionsAt(t.hours, t.pointings);
+      fractionCache.set(key, fractions);
     }
+    hit = { at: j * stride, weights, area: t.areaDeg2, fractions };
+    places.set(t, hit);
     return hit;
   };
+  const tierPlaces = todo.map((e) => e.tiers.map(placeOf));
 
   const perDraw = todo.map(() => new Float64Array(thetas.length));
   const matrix = [
@@ -142,6 +151,13 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
     [0, 0, 0],
     [0, 0, 0],
   ];
+  const f = [
+    [0, 0, 0],
+    [0, 0, 0],
+    [0, 0, 0],
+  ];
+  const counts = new Float64Array(nS);
+  const b = new Float64Array(3 * nS);
   thetas.forEach((th, i) => {
     const zero = th.every((v) => v === 0);
     if (!zero) fill(th);
@@ -152,34 +168,31 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
         return;
       }
       let count = 0;
-      const f = [
-        [0, 0, 0],
-        [0, 0, 0],
-        [0, 0, 0],
-      ];
-      for (const t of e.tiers) {
-        const delta = model.deltaAt(t.hours);
-        const a = t.areaDeg2;
-        const slices: { count: number; b: number[] }[] = [];
+      for (const row of f) row.fill(0);
+      for (const place of tierPlaces[di]!) {
         for (const row of matrix) row.fill(0);
         for (let sl = 0; sl < nS; sl++) {
-          const v = sliceSums(sl, delta, factor * a);
-          const n = v[0]!;
+          const a = place.at + sl * 12;
+          interpolateSums(table, a, a + stride, place.weights, factor * place.area, sums);
+          const n = sums[0]!;
           count += n;
           matrix[0]![0]! += LN10 * LN10 * n;
-          matrix[0]![1]! += LN10 * v[1]!;
-          matrix[0]![2]! += LN10 * v[2]!;
-          matrix[1]![1]! += v[3]!;
-          matrix[1]![2]! += v[4]!;
-          matrix[2]![2]! += v[5]!;
-          slices.push({ count: n, b: [LN10 * n, v[1]!, v[2]!] });
+          matrix[0]![1]! += LN10 * sums[1]!;
+          matrix[0]![2]! += LN10 * sums[2]!;
+          matrix[1]![1]! += sums[3]!;
+          matrix[1]![2]! += sums[4]!;
+          matrix[2]![2]! += sums[5]!;
+          counts[sl] = n;
+          b[3 * sl] = LN10 * n;
+          b[3 * sl + 1] = sums[1]!;
+          b[3 * sl + 2] = sums[2]!;
         }
         if (goal.kind !== 'sigma') continue;
         matrix[1]![0] = matrix[0]![1]!;
         matrix[2]![0] = matrix[0]![2]!;
         matrix[2]![1] = matrix[1]![2]!;
-        const m = marginaliseNormalisations(matrix, slices, fractionsOf(t.hours, t.pointings));
-        for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) f[j]![k]! += m[j]![k]!;
+        marginaliseNormalisationsInPlace(matrix, counts, b, place.fractions);
+        for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) f[j]![k]! += matrix[j]![k]!;
       }
       if (goal.kind !== 'sigma') perDraw[di]![i] = count;
       else perDraw[di]![i] = (count > 0 ? summariseFisher(f)?.sigma[parameterIndex] : undefined) ?? Infinity;
@@ -202,7 +215,7 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
   };
 }
 
-/** Panel widths and degrees of the draws' series (src/planning/draw-sums.ts). */
+/** Panel widths and degrees of the draws' series (src/forecast/draw-sums.ts). */
 export const SERIES_OPTIONS: DrawSumsOptions = { panelWidth: 3, degreeX: 24, panelWidthA: 0.7, degreeA: 14 };
 /** Largest error estimate (relative, drawSumsTable) at which the series replace the exact sums. */
 export const SERIES_TOLERANCE = 1e-10;

@@ -131,53 +131,6 @@ export function knotSums(
 }
 
 /**
- * knotSums without the derivatives: the six Fisher sums of every slice at shift x and alpha offset
- * dA, into out[offset + stride sl ...] (the same arithmetic, term for term).
- */
-export function fisherSums(
-  grid: DensityGrid,
-  x: number,
-  dA: number,
-  out: Float64Array,
-  offset: number,
-  stride = 6,
-): void {
-  const s = grid.shift;
-  const eX = Math.exp(x);
-  const { pointT, pointExpT, pointLogW, pointA1, nodePointStart, sliceNodeStart } = grid;
-  for (let sl = 0; sl < sliceCount(grid); sl++) {
-    let n = 0,
-      bc = 0,
-      ba = 0,
-      fcc = 0,
-      fca = 0,
-      faa = 0;
-    const q0 = nodePointStart[sliceNodeStart[sl]!]!;
-    const q1 = nodePointStart[sliceNodeStart[sl + 1]!]!;
-    for (let q = q0; q < q1; q++) {
-      const a = pointA1[q]! + dA;
-      const y = pointT[q]! + x;
-      const u = pointExpT[q]! * eX;
-      const g = Math.exp(pointLogW[q]! + a * y - u);
-      const dc = s * (a - u);
-      n += g;
-      bc += g * dc;
-      ba += g * y;
-      fcc += g * dc * dc;
-      fca += g * dc * y;
-      faa += g * y * y;
-    }
-    const o = offset + stride * sl;
-    out[o] = n;
-    out[o + 1] = bc;
-    out[o + 2] = ba;
-    out[o + 3] = fcc;
-    out[o + 4] = fca;
-    out[o + 5] = faa;
-  }
-}
-
-/**
  * Count of slice `sl` fainter than the characteristic value (u < 1) at Delta, and its derivative
  * in Delta: per redshift node, integral over s from s_lim to -Delta of exp(a1 (s+Delta) - e^(s+Delta))
  * c(obs(s)) ds (Gauss-Legendre panels no wider than 0.3, split at completeness break points, as

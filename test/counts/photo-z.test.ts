@@ -16,6 +16,7 @@ import { measuredProbability } from '../../src/counts/photo-z.js';
 import { choosePopulation } from '../../src/model/select.js';
 import { SurveyError } from '../../src/errors.js';
 import { runCli } from '../cli/helpers.js';
+import { sampleCommand } from '../support/sample-commands.js';
 import type { Prediction, PhotoZMigration, PredictionSlice } from '../../src/model/outputs/prediction.js';
 
 interface RefCase {
@@ -341,16 +342,19 @@ population: {variable: luminosity, log10_phi_star: -2.7, log10_l_star: 42.1, alp
 describe('through the command line (samples/photoz-optical-field.yaml)', () => {
   const SAMPLE = 'samples/photoz-optical-field.yaml';
   test('predict: the table says the slices are in measured redshift; the CSV has count_true_redshift', async () => {
-    const table = await runCli(['predict', SAMPLE]);
+    // runs on a sample, shared with the files that read them too (test/support/sample-commands.ts)
+    const table = await sampleCommand(['predict', SAMPLE]);
     expect(table.code).toBe(0);
     expect(table.stdout).toContain('slices in MEASURED redshift');
     expect(table.stdout).toContain('true-z count');
-    const csv = await runCli(['predict', SAMPLE, '--format', 'csv']);
+    const csv = await sampleCommand(['predict', SAMPLE, '--format', 'csv']);
     expect(csv.code).toBe(0);
     const [header, first] = csv.stdout.split('\n');
     const cols = header!.split(',');
     expect(cols).toContain('count_true_redshift');
-    const json = JSON.parse((await runCli(['predict', SAMPLE, '--format', 'json'])).stdout) as Prediction;
+    const j = await sampleCommand(['predict', SAMPLE, '--format', 'json']);
+    expect(j.code).toBe(0);
+    const json = JSON.parse(j.stdout) as Prediction;
     const row = first!.split(',');
     expect(Number(row[cols.indexOf('count_true_redshift')])).toBeCloseTo(slicesOf(json)[0]!.count_true_redshift!, 6);
     expect(json.warnings).toEqual([]);

@@ -26,6 +26,7 @@ import { SurveyError } from '../../src/errors.js';
 import { parse } from 'yaml';
 import { runCli } from '../cli/helpers.js';
 import { tempDir } from '../support/temp.js';
+import { sampleCommand } from '../support/sample-commands.js';
 
 const NB = `
 title: two lines through one filter
@@ -366,7 +367,8 @@ describe('every sample runs through predict, and the CLI prints warnings on stde
   test.each(['deep-continuum', 'halpha-narrowband', 'mass-limited', 'narrowband-interlopers', 'double-schechter-mass'])(
     'samples/%s.yaml',
     async (name) => {
-      const r = await runCli(['predict', `samples/${name}.yaml`, '--format', 'json']);
+      // shared with the files that read the same run (test/support/sample-commands.ts)
+      const r = await sampleCommand(['predict', `samples/${name}.yaml`, '--format', 'json']);
       expect(r.code).toBe(0);
       const p = JSON.parse(r.stdout);
       expect(p.totals.count).toBeGreaterThan(0);

@@ -13,7 +13,6 @@ import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
-import { runCli } from '../cli/helpers.js';
 import { tempDir } from '../support/temp.js';
 import { useExploreScript } from '../support/explore-script.js';
 import { sampleExplorePage } from '../support/sample-explore.js';
@@ -266,11 +265,11 @@ describe.skipIf(!haveChromium)('explore page in headless chromium', () => {
     test.runIf(sample === 'narrowband-interlopers.yaml')(
       'a plan file: the exposure per pointing sets the area and the limit; the page equals the commands on what it writes',
       async () => {
-        const plan = join(dir, 'plan.html');
-        const r = await runCli(['explore', 'samples/plan-halpha-layers.yaml', '--out', plan]);
+        // `explore samples/plan-halpha-layers.yaml --out FILE`, run once and shared with test/explore/page.test.ts
+        const r = await sampleExplorePage('plan-halpha-layers.yaml');
         expect(r.code, r.stderr).toBe(0);
         const p = await context.newPage();
-        await p.goto(pathToFileURL(plan).href, { waitUntil: 'load' });
+        await p.goto(pathToFileURL(r.out).href, { waitUntil: 'load' });
         await p.waitForFunction(() => document.body.dataset.ready === 'true');
         await p.click('#survey-panel summary');
         await setControl(p, 'plan.exposure_per_pointing', 4);

@@ -22,7 +22,7 @@ import {
 } from '../../src/library/explore/settings.js';
 import { exploreCompute, exploreMemo, type ExploreResult } from '../../src/library/explore/engine.js';
 import { FisherSumsMemo, scaledParts } from '../../src/forecast/grid-memo.js';
-import { CountMemo } from '../../src/counts/count-memo.js';
+import { CountMemo, memoKey } from '../../src/counts/count-memo.js';
 import { countPopulation } from '../../src/counts/engine.js';
 import { fisherParts } from '../../src/forecast/fisher.js';
 import { buildDensityGrid } from '../../src/forecast/grid.js';
@@ -114,13 +114,16 @@ function expectClose(a: unknown, b: unknown, path: string): void {
 
 describe("the count engine's results kept by inputs", () => {
   test.each(['halpha-narrowband.yaml', 'plan-robust-uv-slope.yaml', 'deep-continuum.yaml'])(
-    "%s: at another area, every number of the kept slices (counts, volumes, histograms, luminosities, profiles, the nodes of the draws) times the ratio equals the engine's (1e-12)",
+    "%s: at another area, every number of the kept slices (counts, volumes, histograms, luminosities, profiles, the nodes of the draws, what each node adds) times the ratio equals the engine's (1e-12)",
     (sample) => {
       const survey = loadSurveyFile(`samples/${sample}`);
       const cosmo = new FlatCosmology(survey.cosmology);
       const memo = new CountMemo();
-      for (const pop of survey.populations) {
-        const options = { profile: true, drawNodes: pop.modelUncertainty !== undefined };
+      for (const [pop, options] of survey.populations.flatMap((p) => [
+        [p, { profile: true, drawNodes: p.modelUncertainty !== undefined }] as const,
+        // what each node adds (photometric redshifts weight it)
+        [p, { nodeDetail: true }] as const,
+      ])) {
         const first = memo.count(survey, pop, cosmo, pop.sliceEdges, options);
         // what predict does to the slices it is given does not reach the kept ones
         first.forEach((s) => delete s.drawNodes);
@@ -172,5 +175,7 @@ describe('the Fisher sums kept by inputs', () => {
     const d = survey.detection;
     if (d.kind !== 'line_flux') throw new Error('the sample is a line survey');
     expect(key({ ...survey, detection: { ...d, limitCgs: 1.1 * d.limitCgs } })).not.toBe(base);
+    // non-finite numbers, which JSON writes alike, are told apart
+    expect(new Set([Infinity, -Infinity, NaN, 0].map((x) => memoKey([{ max: x }]))).size).toBe(4);
   });
 });

@@ -14,6 +14,7 @@ import { forecast } from '../../src/forecast/forecast.js';
 import { predict } from '../../src/counts/predict.js';
 import { parseCsvStrict } from '../render/csv-helpers.js';
 import { tempDir } from '../support/temp.js';
+import { sampleCommand } from '../support/sample-commands.js';
 
 // Forecasts vary a single Schechter function: double Schechter samples are refused (tested below).
 const ALL = readdirSync('samples').filter((f) => f.endsWith('.yaml') && !f.startsWith('plan'));
@@ -138,7 +139,7 @@ describe('forecast command', () => {
   test.each(ALL.filter(isDouble))(
     '%s: a double Schechter population is refused with one sentence (exit 2)',
     async (f) => {
-      const r = await runCli(['forecast', `samples/${f}`, '--format', 'json']);
+      const r = await sampleCommand(['forecast', `samples/${f}`, '--format', 'json']);
       expect(r.code).toBe(2);
       expect(r.stdout).toBe('');
       expect(r.stderr).toContain('population.shape');
@@ -149,7 +150,7 @@ describe('forecast command', () => {
   test.each(ALL.filter(isPhotoZ))(
     '%s: photometric-redshift scatter is refused with one sentence (exit 2)',
     async (f) => {
-      const r = await runCli(['forecast', `samples/${f}`, '--format', 'json']);
+      const r = await sampleCommand(['forecast', `samples/${f}`, '--format', 'json']);
       expect(r.code).toBe(2);
       expect(r.stdout).toBe('');
       expect(r.stderr).toContain('detection.photo_z');
@@ -188,7 +189,8 @@ describe('forecast command', () => {
   test.each(SAMPLES)(
     '%s: with cosmic variance (default), the slice fractions are those predict reports (1e-9) and widen the Fisher sigmas',
     async (f) => {
-      const r = await runCli(['forecast', `samples/${f}`, '--format', 'json']);
+      // shared with the files that read the same run (test/support/sample-commands.ts)
+      const r = await sampleCommand(['forecast', `samples/${f}`, '--format', 'json']);
       expect(r.stderr).toBe('');
       expect(r.code).toBe(0);
       const doc = JSON.parse(r.stdout);

@@ -6,14 +6,13 @@
  * the costly part of both files; the result does not depend on who asks for it.
  *
  * Kept in memory per worker (the tests run with isolate: false, so the files of one worker share
- * it) and in the run's temporary directory for the other worker: the first to ask makes the report
- * in a private folder, then renames the folder into place, so a reader never sees half a report.
- * Two workers asking at the same moment both make it, and the second rename keeps the first.
+ * it) and in the run's temporary directory for the other worker (test/support/run-once.ts: made in
+ * a private folder, then renamed into place, so a reader never sees half a report).
  */
-import { existsSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
+import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { runCli, type Captured } from '../cli/helpers.js';
-import { TEST_ROOT_VARIABLE, tempDir } from './temp.js';
+import { madeOncePerRun } from './run-once.js';
 
 export interface SampleReport {
   /** The report command's exit code and what it wrote to stdout and stderr. */
@@ -31,23 +30,12 @@ function paths(dir: string): Omit<SampleReport, 'result'> {
 }
 
 async function make(sample: string): Promise<SampleReport> {
-  const root = process.env[TEST_ROOT_VARIABLE];
-  if (!root) throw new Error(`${TEST_ROOT_VARIABLE} is not set: run the tests through vitest`);
-  const shared = join(root, `sample-report-${sample.replace(/[^A-Za-z0-9_-]/g, '_')}`);
-  const done = join(shared, 'result.json');
-  if (!existsSync(done)) {
-    const own = tempDir('skytally-sample-report-');
+  const dir = await madeOncePerRun(`sample-report-${sample}`, async (own) => {
     const at = paths(own);
     const result = await runCli(['report', `samples/${sample}`, '--out', at.html, '--figures', at.figures]);
     writeFileSync(join(own, 'result.json'), JSON.stringify(result));
-    try {
-      renameSync(own, shared);
-    } catch (e) {
-      // the other worker renamed its own copy into place first: read that one
-      if (!existsSync(done)) throw e;
-    }
-  }
-  return { result: JSON.parse(readFileSync(done, 'utf8')) as Captured, ...paths(shared) };
+  });
+  return { result: JSON.parse(readFileSync(join(dir, 'result.json'), 'utf8')) as Captured, ...paths(dir) };
 }
 
 /** `sample`: a file name in samples/ (e.g. "deep-continuum.yaml"). */

@@ -1,8 +1,9 @@
 /**
  * The six Fisher sums of every slice and their derivatives in x (knotSums, src/planning/tables.ts)
  * as functions of the shift x and the alpha offset dA, tabulated once as tensor Chebyshev series so
- * that each model draw of a robust plan (src/planning/robust.ts) costs a few thousand
- * multiplications instead of one pass over the density grid per knot.
+ * that each model draw of a robust plan (src/planning/robust.ts) or of forecast --model-draws
+ * (drawnFisher, src/forecast/model-spread.ts) costs a few thousand multiplications instead of one
+ * pass over the density grid per knot or per draw.
  *
  * Each sum is a finite sum over the grid's points of exp(logW + (a1 + dA)(t + x) - e^(t + x)) times
  * a polynomial in (t + x, e^(t + x)): an entire function of (x, dA), so its Chebyshev interpolant
@@ -12,17 +13,64 @@
  * (one point where a range is a single value). The six sums are tabulated (fisherSums); their
  * derivatives in x are those of the series in x. The errors are estimated from the last
  * coefficients in each direction (`errorEstimate`, `slopeErrorEstimate`, relative to each sum's
- * largest magnitude on its panel's points); robust.ts takes the table only where they are within
- * its tolerance and the table costs fewer passes than the exact per-draw sums.
+ * largest magnitude on its panel's points); its users take the table only where they are within
+ * their tolerance and the table costs fewer passes than the exact per-draw sums.
  */
-import type { DensityGrid } from '../forecast/grid.js';
-import { sliceCount } from '../forecast/grid.js';
-import { fisherSums } from './tables.js';
+import type { DensityGrid } from './grid.js';
+import { sliceCount } from './grid.js';
 
 /** Numbers per slice written: the six sums, then their six derivatives in x (the layout of knotSums). */
 const PER_SLICE = 12;
 /** Numbers per slice tabulated: the six sums (their derivatives are the series' own). */
 const SUMS = 6;
+
+/**
+ * The six Fisher sums of every slice (N, b_c, b_a, F_cc, F_ca, F_aa of src/forecast/fisher.ts) at
+ * shift x and alpha offset dA, into out[offset + stride sl ...]: src/planning/tables.ts's knotSums
+ * without the derivatives, term for term.
+ */
+export function fisherSums(
+  grid: DensityGrid,
+  x: number,
+  dA: number,
+  out: Float64Array,
+  offset: number,
+  stride = 6,
+): void {
+  const s = grid.shift;
+  const eX = Math.exp(x);
+  const { pointT, pointExpT, pointLogW, pointA1, nodePointStart, sliceNodeStart } = grid;
+  for (let sl = 0; sl < sliceCount(grid); sl++) {
+    let n = 0,
+      bc = 0,
+      ba = 0,
+      fcc = 0,
+      fca = 0,
+      faa = 0;
+    const q0 = nodePointStart[sliceNodeStart[sl]!]!;
+    const q1 = nodePointStart[sliceNodeStart[sl + 1]!]!;
+    for (let q = q0; q < q1; q++) {
+      const a = pointA1[q]! + dA;
+      const y = pointT[q]! + x;
+      const u = pointExpT[q]! * eX;
+      const g = Math.exp(pointLogW[q]! + a * y - u);
+      const dc = s * (a - u);
+      n += g;
+      bc += g * dc;
+      ba += g * y;
+      fcc += g * dc * dc;
+      fca += g * dc * y;
+      faa += g * y * y;
+    }
+    const o = offset + stride * sl;
+    out[o] = n;
+    out[o + 1] = bc;
+    out[o + 2] = ba;
+    out[o + 3] = fcc;
+    out[o + 4] = fca;
+    out[o + 5] = faa;
+  }
+}
 
 export interface DrawSumsOptions {
   /** Widest x panel (ln u). */
@@ -62,6 +110,15 @@ export interface DrawSumsTable {
     offset: number,
     knotStride: number,
   ): void;
+}
+
+/**
+ * y[yo ..] += c x[xo ..], n numbers: the transforms' and the evaluation's one loop, in a function
+ * of its own so that it is compiled once for all of them (a loop nest run once would run its first
+ * iterations unoptimised).
+ */
+function axpy(y: Float64Array, yo: number, c: number, x: Float64Array, xo: number, n: number): void {
+  for (let r = 0; r < n; r++) y[yo + r] = y[yo + r]! + c * x[xo + r]!;
 }
 
 /** Panels covering [lo, hi] no wider than `width`: their count and width (one panel of width 0 for a point). */
@@ -169,7 +226,7 @@ export function drawSumsTable(
           for (let i = 0; i < nx; i++) {
             const c = tx[l * nx + i]!;
             const v = (j * nx + i) * width;
-            for (let r = 0; r < width; r++) tmp[o + r] = tmp[o + r]! + c * values[v + r]!;
+            axpy(tmp, o, c, values, v, width);
           }
         }
       // in dA: coef[k][l][r] = sum_j ta[k][j] tmp[j][l][r]
@@ -180,7 +237,7 @@ export function drawSumsTable(
           for (let l = 0; l < nx; l++) {
             const o = base + (k * nx + l) * width;
             const v = (j * nx + l) * width;
-            for (let r = 0; r < width; r++) coef[o + r] = coef[o + r]! + c * tmp[v + r]!;
+            axpy(coef, o, c, tmp, v, width);
           }
         }
       // the error estimates: the last two coefficients in each direction (of more than two); for
@@ -227,7 +284,7 @@ export function drawSumsTable(
           for (let k = 0; k < na; k++) {
             const c = ta1[k]!;
             const src = (q * xp.count + p) * block + k * span;
-            for (let v = 0; v < span; v++) reduced[dst + v] = reduced[dst + v]! + c * coef[src + v]!;
+            axpy(reduced, dst, c, coef, src, span);
           }
         }
         reducedFor = dA;
