@@ -19,6 +19,16 @@ import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { countPopulation, type EngineOptions, type NodeState, type SliceCount } from './engine.js';
 
+/**
+ * The key of a memo's inputs: their JSON, with every non-finite number written as itself (JSON
+ * writes each as null).
+ */
+export function memoKey(inputs: unknown[]): string {
+  return JSON.stringify(inputs, (_key, value: unknown) =>
+    typeof value === 'number' && !Number.isFinite(value) ? `${value}` : value,
+  );
+}
+
 /** Results remembered (the last used kept): a page's populations at a few settings each. */
 const ENTRIES = 24;
 
@@ -26,7 +36,7 @@ export class CountMemo {
   private readonly entries = new Map<string, { areaSr: number; slices: SliceCount[] }>();
 
   static key(survey: Survey, population: Population, edges: readonly number[], options: EngineOptions): string {
-    return JSON.stringify([
+    return memoKey([
       survey.cosmology,
       survey.detection,
       population,

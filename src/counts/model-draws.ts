@@ -192,6 +192,40 @@ function nodeIntegral(nd: NodeState, s: Setting, power: 0 | 1): number {
 }
 
 /**
+ * integral over obs from `faint` to `bright` (the limit of the node, which sits at `faint`, and a
+ * brighter obs, both where the completeness varies or fainter) of the node's Schechter sum times
+ * the completeness, as nodeIntegral integrates it there: the rules in pieces on the grid of the
+ * histogram's width, a constant completeness's value times the closed form beyond the faint end of
+ * its varying range (where it is below 4.3e-18).
+ */
+function stripIntegral(nd: NodeState, s: Setting, faint: number, bright: number, power: 0 | 1): number {
+  const slope = s.observer.slope;
+  const [vLo, vHi] = s.breaks!.varying;
+  // where the completeness starts varying, seen from the faint side
+  const vFaint = slope > 0 ? vLo : vHi;
+  const toL10u = (o: number) => (o - nd.a) / slope;
+  let j = 0;
+  let from = faint;
+  if ((vFaint - faint) * slope > 0) {
+    // the part fainter than the varying range
+    const to = (vFaint - bright) * slope > 0 ? bright : vFaint;
+    j += s.completeness!(0.5 * (from + to)) * schechterBetween(nd.components, toL10u(from), toL10u(to), power);
+    from = to;
+  }
+  const w = s.width;
+  const up = bright > from;
+  if (from === bright) return j;
+  for (let k = up ? Math.floor(from / w) + 1 : Math.ceil(from / w) - 1; ; k += up ? 1 : -1) {
+    const edge = k * w;
+    const to = up ? Math.min(edge, bright) : Math.max(edge, bright);
+    j += s.rules!.integrate(from, to, power);
+    if (to === bright) break;
+    from = to;
+  }
+  return j;
+}
+
+/**
  * An upper bound on schechterBetween(components, l10u, Infinity, power) (the Schechter factor
  * beyond u = 10^l10u), at the cost of one exponential per component: with s = alpha + 1 + power,
  * Gamma(s, u) <= u^(s-1) e^-u for s <= 1 (t^(s-1) <= u^(s-1) over t >= u), and
@@ -367,6 +401,54 @@ interface SliceTables {
   /** Per component: ln of its count and (when asked for) of its detected luminosity as functions of (d_c, d_alpha); undefined: the component detects nothing. */
   count: (Chebyshev2D | undefined)[];
   lum: (Chebyshev2D | undefined)[];
+  /** Per component: ln of the luminosity of all sources over d_alpha (totalTables); absent: the closed form at each node. */
+  total?: (Chebyshev2D | undefined)[];
+}
+
+/** Tail of the total luminosity's series accepted (absolute, in the logarithm). */
+const TOTAL_TOLERANCE = 1e-13;
+
+/**
+ * The luminosity of all sources of a slice under the draws, per component a function of d_alpha
+ * alone: T_k(d_alpha) = sum_i phi*_ik V_i L_i Gamma(alpha_ik + d_alpha + 2) (the closed form the
+ * exact path sums at every node and draw), as a Chebyshev series of ln T_k over the draws' range
+ * of d_alpha (16 to 64 points, tail below TOTAL_TOLERANCE): one series per draw instead of one
+ * gamma function per node. Undefined (the closed form per node) where some draw reaches
+ * alpha + 2 <= 0 at some node (its total is then absent) or the series does not converge.
+ */
+function totalTables(f: SliceNodes, offsets: readonly ModelOffsets[]): (Chebyshev2D | undefined)[] | undefined {
+  const nc = f.phi.length;
+  const { daMin, daMax } = offsetRanges(offsets, nc);
+  const out: (Chebyshev2D | undefined)[] = [];
+  for (let k = 0; k < nc; k++) {
+    const alphaK = f.alpha[k]!;
+    const weight = Float64Array.from(alphaK, (_, i) => f.allPhi[k]![i]! * f.vw[i]! * f.lumScale[i]!);
+    for (let i = 0; i < f.count; i++) if (!(alphaK[i]! + daMin[k]! + 2 > 0)) return undefined;
+    if (!weight.some((w) => w !== 0)) {
+      out.push(undefined);
+      continue;
+    }
+    const lnT = (da: number): number => {
+      let t = 0;
+      for (let i = 0; i < f.count; i++) if (weight[i] !== 0) t += weight[i]! * gammaFn(alphaK[i]! + da + 2);
+      return Math.log(t);
+    };
+    const y0 = daMin[k]!;
+    const y1 = daMax[k]!;
+    let series: Chebyshev2D | undefined;
+    for (let n = y1 > y0 ? 16 : 1; n <= 64; n *= 2) {
+      const v = Float64Array.from(chebyshevPoints(n, y0, y1), lnT);
+      if (!v.every(Number.isFinite)) return undefined;
+      const c = chebyshev2D(v, n, 1, y0, y1, 0, 0);
+      if (n === 1 || chebyshevTail(c).x <= TOTAL_TOLERANCE) {
+        series = c;
+        break;
+      }
+    }
+    if (!series) return undefined;
+    out.push(series);
+  }
+  return out;
 }
 
 /** Slices drawn by the tables and by the exact path where the completeness varies, since the start (for tests and benchmarks). */
@@ -400,6 +482,7 @@ function logSeries(
   functions: number,
   g: (x: number, ys: Float64Array, out: Float64Array[]) => void,
   start: [number, number],
+  keep?: { values?: Float64Array[] },
 ): Chebyshev2D[] | undefined {
   let [nx, ny] = start;
   if (!(x1 > x0)) nx = 1;
@@ -425,25 +508,30 @@ function logSeries(
       }
     }
     const series = v.map((vm) => chebyshev2D(vm, nx, ny, x0, x1, y0, y1));
-    let tx = 0;
-    let ty = 0;
-    for (const c of series) {
-      const t = chebyshevTail(c);
-      tx = Math.max(tx, t.x);
-      ty = Math.max(ty, t.y);
-    }
-    const tol = TABLE_TOLERANCE * big;
-    const moreX = tx > tol;
-    const moreY = ty > tol;
+    const { moreX, moreY } = tailsTooLarge(series, big);
     if (!moreX && !moreY) {
       if (nx > 1) start[0] = nx;
       if (ny > 1) start[1] = ny;
+      if (keep) keep.values = v;
       return series;
     }
     if ((moreX && nx >= TABLE_MAX_POINTS[0]) || (moreY && ny >= TABLE_MAX_POINTS[1])) return undefined;
     if (moreX) nx *= 2;
     if (moreY) ny *= 2;
   }
+}
+
+/** Whether the series' coefficient tails along x and along y exceed TABLE_TOLERANCE x big. */
+function tailsTooLarge(series: readonly Chebyshev2D[], big: number): { moreX: boolean; moreY: boolean } {
+  let tx = 0;
+  let ty = 0;
+  for (const c of series) {
+    const t = chebyshevTail(c);
+    tx = Math.max(tx, t.x);
+    ty = Math.max(ty, t.y);
+  }
+  const tol = TABLE_TOLERANCE * big;
+  return { moreX: tx > tol, moreY: ty > tol };
 }
 
 /**
@@ -453,29 +541,75 @@ function logSeries(
  * prediction that differs only where level 1 cannot see it (the area, phi*, the slices' volume
  * weights: an explore page's area control) reuses them. The last LEVEL1_KEPT are kept.
  */
-const level1Kept = new Map<string, { series: Chebyshev2D[] | undefined; ended: [number, number] }>();
+interface Level1 {
+  series: Chebyshev2D[] | undefined;
+  ended: [number, number];
+  /** The limit in obs, and ln J (and ln J1) at the points of the series (row-major, as chebyshev2D takes them). */
+  obsLim: number;
+  values?: Float64Array[];
+  /** Limit moves made since the series were made afresh. */
+  moves: number;
+}
+const level1Kept = new Map<string, Level1>();
 const LEVEL1_KEPT = 64;
+/**
+ * The last level-1 series of each shape (everything they depend on but the limit: an explore
+ * page's limit control). At another limit a node integral differs by the integral over the strip
+ * of obs between the two limits, J(t, alpha; L') = J(t, alpha; L) +- integral over the strip, so
+ * the values at the same points are those plus one short integral each (the completeness
+ * quadrature's rules on the strip), and the series follow from them (kept when their tail passes
+ * the test of logSeries; otherwise, after LEVEL1_MOVES moves, where a value would fall below
+ * 1e-4 of the one it is moved from, or where a limit lies brighter than the completeness's varying
+ * range, made afresh). Equal to series made afresh to about 1e-13 relative (the rules' error per
+ * moved strip), well inside the tables' 1e-10.
+ */
+const level1ByShape = new Map<string, Level1>();
+const LEVEL1_MOVES = 32;
 
 /** Forget the kept level-1 series (tests: a computation afresh). */
 export function forgetLevel1Series(): void {
   level1Kept.clear();
+  level1ByShape.clear();
+}
+
+/** Level-1 series moved (made from the series at another limit) and made afresh, since the start (tests, benchmarks). */
+export const level1Paths = { moved: 0, afresh: 0 };
+
+function keepLevel1(map: Map<string, Level1>, key: string, entry: Level1): void {
+  map.delete(key);
+  if (map.size >= LEVEL1_KEPT) map.delete(map.keys().next().value!);
+  map.set(key, entry);
 }
 
 function nodeLevelKept(
-  key: string,
+  shape: string,
+  obsLim: number,
   start: TableStart,
-  make: () => Chebyshev2D[] | undefined,
+  make: (keep: { values?: Float64Array[] }) => Chebyshev2D[] | undefined,
+  move: (from: Level1) => { series: Chebyshev2D[]; values: Float64Array[] } | undefined,
 ): Chebyshev2D[] | undefined {
+  const key = `${shape} ${obsLim}`;
   let kept = level1Kept.get(key);
-  if (!kept) {
-    const series = make();
-    kept = { series, ended: [start.node[0], start.node[1]] };
-    if (level1Kept.size >= LEVEL1_KEPT) level1Kept.delete(level1Kept.keys().next().value!);
-    level1Kept.set(key, kept);
-  } else {
+  if (kept) {
     start.node[0] = kept.ended[0];
     start.node[1] = kept.ended[1];
+    return kept.series;
   }
+  const before = level1ByShape.get(shape);
+  const moved = before?.series && before.values && before.moves < LEVEL1_MOVES ? move(before) : undefined;
+  if (moved && before) {
+    level1Paths.moved++;
+    kept = { ...moved, ended: before.ended, obsLim, moves: before.moves + 1 };
+    start.node[0] = kept.ended[0];
+    start.node[1] = kept.ended[1];
+  } else {
+    level1Paths.afresh++;
+    const holder: { values?: Float64Array[] } = {};
+    const series = make(holder);
+    kept = { series, ended: [start.node[0], start.node[1]], obsLim, values: holder.values, moves: 0 };
+  }
+  keepLevel1(level1Kept, key, kept);
+  if (kept.series) keepLevel1(level1ByShape, shape, kept);
   return kept.series;
 }
 
@@ -528,29 +662,67 @@ function sliceTables(
   const x1 = aMax + dcMax;
   const y0 = alphaMin + Math.min(...daMin);
   const y1 = alphaMax + Math.max(...daMax);
+  const functions = withLum ? 2 : 1;
+  const nodeAt = (t: number, alpha: number, limit: number) => {
+    probe.a = t;
+    probe.obsLimit = limit;
+    probe.log10ULimit = (limit - t) / slope;
+    probe.components[0]!.alpha = alpha;
+    s.rules!.setSlice([probe]);
+    s.rules!.setNode(probe);
+  };
   const nodeLevel = nodeLevelKept(
-    `${s.key} ${obsLim} ${x0} ${x1} ${y0} ${y1} ${withLum} ${start.node.join(',')}`,
+    `${s.key} ${x0} ${x1} ${y0} ${y1} ${withLum} ${start.node.join(',')}`,
+    obsLim,
     start,
-    () =>
+    (keep) =>
       logSeries(
         x0,
         x1,
         y0,
         y1,
-        withLum ? 2 : 1,
+        functions,
         (t, alphas, out) => {
-          probe.a = t;
-          probe.log10ULimit = (obsLim - t) / slope;
           alphas.forEach((alpha, j) => {
-            probe.components[0]!.alpha = alpha;
-            s.rules!.setSlice([probe]);
-            s.rules!.setNode(probe);
+            nodeAt(t, alpha, obsLim);
             out[0]![j] = nodeIntegral(probe, s, 0);
             if (withLum) out[1]![j] = nodeIntegral(probe, s, 1);
           });
         },
         start.node,
+        keep,
       ),
+    (from) => {
+      const c0 = from.series![0]!;
+      const { nx, ny } = c0;
+      const varying = s.breaks!.varying;
+      // (a limit brighter than where the completeness varies: the constant's value at each limit differs)
+      const bright = (o: number) => (slope > 0 ? o > varying[1] : o < varying[0]);
+      if (bright(obsLim) || bright(from.obsLim)) return undefined;
+      // the strip between the limits, from its faint end; + where the new limit is the fainter
+      const sign = (obsLim - from.obsLim) * slope < 0 ? 1 : -1;
+      const faint = sign > 0 ? obsLim : from.obsLim;
+      const brightEnd = sign > 0 ? from.obsLim : obsLim;
+      const xs = chebyshevPoints(nx, x0, x1);
+      const ys = chebyshevPoints(ny, y0, y1);
+      const values = Array.from({ length: functions }, () => new Float64Array(nx * ny));
+      let big = 1;
+      for (let i = 0; i < nx; i++)
+        for (let j = 0; j < ny; j++) {
+          nodeAt(xs[i]!, ys[j]!, faint);
+          for (let m = 0; m < functions; m++) {
+            const old = Math.exp(from.values![m]![i * ny + j]!);
+            const moved = old + sign * stripIntegral(probe, s, faint, brightEnd, m as 0 | 1);
+            if (!(moved > 1e-4 * old && moved < Infinity)) return undefined;
+            const l = Math.log(moved);
+            values[m]![i * ny + j] = l;
+            big = Math.max(big, Math.abs(l));
+          }
+        }
+      const series = values.map((v) => chebyshev2D(v, nx, ny, x0, x1, y0, y1));
+      const { moreX, moreY } = tailsTooLarge(series, big);
+      return moreX || moreY ? undefined : { series, values };
+    },
   );
   if (!nodeLevel) return undefined;
   const [j0, j1] = nodeLevel as [Chebyshev2D, Chebyshev2D | undefined];
@@ -704,7 +876,12 @@ function sliceFromTables(
     if (c0) count += phiScale * Math.exp(chebyshevAt(c0, o.characteristic, dAlpha));
     if (!withLum) continue;
     if (c1) detected += phiScale * lumFactor * Math.exp(chebyshevAt(c1, o.characteristic, dAlpha));
-    // every source's luminosity: the closed form at each node, as the exact path
+    // every source's luminosity: its series, or the closed form at each node as the exact path
+    if (tb.total) {
+      const ct = tb.total[k];
+      if (ct && total !== undefined) total += phiScale * lumFactor * Math.exp(chebyshevAt(ct, dAlpha, 0));
+      continue;
+    }
     const alphaK = f.alpha[k]!;
     let lastAlpha = NaN;
     let lastGamma = 0;
@@ -757,6 +934,7 @@ export function populationDraws(
           ? sliceTables(f, s, offsets, detected !== undefined, start)
           : hardTables(f, s, offsets, detected !== undefined, start)
         : undefined;
+    if (tables && detected) tables.total = totalTables(f, offsets);
     if (f.count > 0) drawPaths[tables ? 'tabulated' : 'exact']++;
     for (let i = 0; i < n; i++) {
       const o = offsets[i]!;

@@ -112,6 +112,15 @@ export interface DrawSumsTable {
   ): void;
 }
 
+/**
+ * y[yo ..] += c x[xo ..], n numbers: the transforms' and the evaluation's one loop, in a function
+ * of its own so that it is compiled once for all of them (a loop nest run once would run its first
+ * iterations unoptimised).
+ */
+function axpy(y: Float64Array, yo: number, c: number, x: Float64Array, xo: number, n: number): void {
+  for (let r = 0; r < n; r++) y[yo + r] = y[yo + r]! + c * x[xo + r]!;
+}
+
 /** Panels covering [lo, hi] no wider than `width`: their count and width (one panel of width 0 for a point). */
 function panelsOf(lo: number, hi: number, width: number): { count: number; step: number } {
   if (!(hi > lo)) return { count: 1, step: 0 };
@@ -217,7 +226,7 @@ export function drawSumsTable(
           for (let i = 0; i < nx; i++) {
             const c = tx[l * nx + i]!;
             const v = (j * nx + i) * width;
-            for (let r = 0; r < width; r++) tmp[o + r] = tmp[o + r]! + c * values[v + r]!;
+            axpy(tmp, o, c, values, v, width);
           }
         }
       // in dA: coef[k][l][r] = sum_j ta[k][j] tmp[j][l][r]
@@ -228,7 +237,7 @@ export function drawSumsTable(
           for (let l = 0; l < nx; l++) {
             const o = base + (k * nx + l) * width;
             const v = (j * nx + l) * width;
-            for (let r = 0; r < width; r++) coef[o + r] = coef[o + r]! + c * tmp[v + r]!;
+            axpy(coef, o, c, tmp, v, width);
           }
         }
       // the error estimates: the last two coefficients in each direction (of more than two); for
@@ -275,7 +284,7 @@ export function drawSumsTable(
           for (let k = 0; k < na; k++) {
             const c = ta1[k]!;
             const src = (q * xp.count + p) * block + k * span;
-            for (let v = 0; v < span; v++) reduced[dst + v] = reduced[dst + v]! + c * coef[src + v]!;
+            axpy(reduced, dst, c, coef, src, span);
           }
         }
         reducedFor = dA;

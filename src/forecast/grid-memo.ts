@@ -17,6 +17,7 @@ import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { densityFisherParts } from './grid.js';
 import type { FisherParts } from './fisher.js';
+import { memoKey } from '../counts/count-memo.js';
 
 /** Grids remembered (the last used kept): a page's controls of several populations and a limit or two. */
 const ENTRIES = 16;
@@ -26,7 +27,7 @@ export class FisherSumsMemo {
 
   /** The key of the grid of `population` in `survey` on `edges`, area aside. */
   static key(survey: Survey, population: Population, edges: readonly number[]): string {
-    return JSON.stringify([survey.cosmology, survey.detection, population, edges]);
+    return memoKey([survey.cosmology, survey.detection, population, edges]);
   }
 
   /**

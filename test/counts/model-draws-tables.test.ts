@@ -8,7 +8,8 @@
  * tails are held below 1e-10 of the logarithm's scale (an estimate, hence the margin of 100), which
  * is far below the 1e-6 a percentile needs and five orders below the Monte Carlo error of 1,000
  * draws (about 1.25 sigma / sqrt(1000), a few per cent of the band's width). The luminosity of all
- * sources is the same closed form on both paths: 1e-12. The histograms of the first HIST_DRAWS
+ * sources, a series in d_alpha of the closed form (tail below 1e-13 in the logarithm) against the
+ * closed form at every node: 1e-12. The histograms of the first HIST_DRAWS
  * draws (src/counts/model-draws-histograms.ts: a series of the slice's Schechter density in obs and
  * one quadrature rule for every draw) to 1e-8 relative in every bin, the faintest 1e-18 of a slice's
  * count included (the series' tail is held below 1e-11 in the logarithm, each panel of the rule
@@ -26,6 +27,7 @@ import {
   forgetLevel1Series,
   HISTOGRAM_TABLE_MIN_DRAWS,
   histogramPaths,
+  level1Paths,
   populationDraws,
   TABLE_MIN_DRAWS,
 } from '../../src/counts/model-draws.js';
@@ -84,7 +86,8 @@ function compare(obj: Obj, file: string, expectTabulated: boolean) {
       const d = exact.luminosity!.detected[j]![i]!;
       expect(rel(fast.luminosity!.detected[j]![i]!, d), `slice ${j} draw ${i} detected`).toBeLessThan(1e-8);
       const t = exact.luminosity!.total?.[j]![i];
-      if (t !== undefined) expect(rel(fast.luminosity!.total![j]![i]!, t)).toBeLessThan(1e-12);
+      if (t !== undefined)
+        expect(rel(fast.luminosity!.total![j]![i]!, t), `slice ${j} draw ${i} total`).toBeLessThan(1e-12);
     }),
   );
   // the draws do move the counts (the comparison is not of constants)
@@ -203,6 +206,44 @@ describe('tabulated draws equal the exact path (1e-8 relative)', () => {
     expect(reused.luminosity).toEqual(fresh.luminosity);
     // the area does move the counts (the comparison is not of one computation with itself)
     expect(draws('45 arcmin^2').counts[0]![3]! / fresh.counts[0]![3]!).toBeCloseTo(45 / 80, 12);
+  });
+
+  test("level-1 series moved from another limit (an explore page's limit control) equal the exact path and series made afresh", () => {
+    const obj = read('samples/plan-robust-uv-slope.yaml');
+    const draws = (limit: number, exact = false) => {
+      const survey = parseSurveyObject(
+        { ...obj, detection: { ...obj.detection, limit } },
+        'samples/plan-robust-uv-slope.yaml',
+      );
+      const pop = survey.populations[0]!;
+      const cosmo = new FlatCosmology(survey.cosmology);
+      const own = countPopulation(survey, pop, cosmo, pop.sliceEdges, { drawNodes: true });
+      const offsets = drawModelOffsets(pop.modelUncertainty!, pop.components.length, DRAWS, 5, 0);
+      return populationDraws(survey, pop, cosmo, own, offsets, { luminosity: true, histogramDraws: 0, exact });
+    };
+    const worst = (a: Float64Array[], b: Float64Array[]) =>
+      Math.max(...a.map((x, j) => Math.max(...x.map((v, i) => Math.abs(v / b[j]![i]! - 1)))));
+    forgetLevel1Series();
+    const first = draws(29.0);
+    // fainter, brighter, a small step: each slice's level 1 moved, not made afresh
+    let last = first;
+    for (const limit of [29.3, 28.7, 28.72]) {
+      const moved = level1Paths.moved;
+      const afresh = level1Paths.afresh;
+      last = draws(limit);
+      expect(level1Paths.moved - moved, `limit ${limit}: slices moved`).toBe(last.counts.length);
+      expect(level1Paths.afresh - afresh).toBe(0);
+      const exact = draws(limit, true);
+      expect(worst(last.counts, exact.counts), `limit ${limit}: counts`).toBeLessThan(1e-8);
+      expect(worst(last.luminosity!.detected, exact.luminosity!.detected)).toBeLessThan(1e-8);
+    }
+    forgetLevel1Series();
+    const fresh = draws(28.72);
+    // the moves' error: the completeness rules' on each strip (about 1e-14 seen)
+    expect(worst(last.counts, fresh.counts)).toBeLessThan(1e-12);
+    expect(worst(last.luminosity!.detected, fresh.luminosity!.detected)).toBeLessThan(1e-12);
+    // the limit does move the counts
+    expect(last.counts[0]![0]! / first.counts[0]![0]!).toBeLessThan(0.9);
   });
 
   const mass = read(`${DIR}/double-schechter-mass.yaml`);

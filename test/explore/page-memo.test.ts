@@ -22,7 +22,7 @@ import {
 } from '../../src/library/explore/settings.js';
 import { exploreCompute, exploreMemo, type ExploreResult } from '../../src/library/explore/engine.js';
 import { FisherSumsMemo, scaledParts } from '../../src/forecast/grid-memo.js';
-import { CountMemo } from '../../src/counts/count-memo.js';
+import { CountMemo, memoKey } from '../../src/counts/count-memo.js';
 import { countPopulation } from '../../src/counts/engine.js';
 import { fisherParts } from '../../src/forecast/fisher.js';
 import { buildDensityGrid } from '../../src/forecast/grid.js';
@@ -175,5 +175,7 @@ describe('the Fisher sums kept by inputs', () => {
     const d = survey.detection;
     if (d.kind !== 'line_flux') throw new Error('the sample is a line survey');
     expect(key({ ...survey, detection: { ...d, limitCgs: 1.1 * d.limitCgs } })).not.toBe(base);
+    // non-finite numbers, which JSON writes alike, are told apart
+    expect(new Set([Infinity, -Infinity, NaN, 0].map((x) => memoKey([{ max: x }]))).size).toBe(4);
   });
 });

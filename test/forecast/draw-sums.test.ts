@@ -48,8 +48,8 @@ function worstDifference(file: string, draws: number): { worst: number; compared
 
 describe('model draws of a forecast from tabulated series', () => {
   test('the robust UV plan sample: every sigma of every draw (1e-8 relative)', () => {
-    const r = worstDifference('samples/plan-robust-uv-slope.yaml', 120);
-    expect(r.compared).toBe(2 * 120 * 3);
+    const r = worstDifference('samples/plan-robust-uv-slope.yaml', 60);
+    expect(r.compared).toBe(2 * 60 * 3);
     expect(r.worst).toBeLessThan(1e-8);
   }, 120_000);
 
@@ -60,10 +60,8 @@ describe('model draws of a forecast from tabulated series', () => {
   }, 120_000);
 
   test("'auto': the series for the report's 1,000 draws, the exact passes for a handful", () => {
-    for (const file of ['samples/plan-robust-uv-slope.yaml', 'test/reference/surveys-model/line-correlated.yaml']) {
-      const { grid, plain, thetas, fractions } = prepared(file, 1000);
-      expect(drawnFisher(grid, plain, thetas, fractions).tabulated, file).toBe(true);
-      expect(drawnFisher(grid, plain, thetas.slice(0, 12), fractions).tabulated, file).toBe(false);
-    }
+    const { grid, plain, thetas, fractions } = prepared('test/reference/surveys-model/line-correlated.yaml', 1000);
+    expect(drawnFisher(grid, plain, thetas, fractions).tabulated).toBe(true);
+    expect(drawnFisher(grid, plain, thetas.slice(0, 12), fractions).tabulated).toBe(false);
   }, 120_000);
 });

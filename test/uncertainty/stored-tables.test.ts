@@ -5,7 +5,7 @@
  * spectrum and halo model built from them give the same numbers as ones made afresh.
  */
 import { readFileSync } from 'node:fs';
-import { describe, expect, it } from 'vitest';
+import { describe, expect, it, vi } from 'vitest';
 import { GENERATED_PATH, STORED_COSMOLOGIES, generatePowerTablesSource } from '../../scripts/generate-power-tables.js';
 import { resolveCosmology } from '../../src/cosmology/parameters.js';
 import { computeLnSigmaTable, createHaloModel } from '../../src/uncertainty/haloes.js';
@@ -35,6 +35,18 @@ describe('stored cosmology tables', () => {
     const xs = Float64Array.from([0, -0, 1, -2.5, Math.PI, 1e-300, 5e-324, Number.MAX_VALUE, -1 / 3]);
     const back = decodeDoubles(encodeDoubles(xs));
     expect([...back].map((x) => Object.is(x, -0) || x)).toEqual([...xs].map((x) => Object.is(x, -0) || x));
+  });
+
+  it('without the Buffer of Node (a browser) atob reads the same doubles', () => {
+    const text = encodeDoubles(Float64Array.from([0.1, -7e200, 3]));
+    const withBuffer = decodeDoubles(text);
+    vi.stubGlobal('Buffer', undefined);
+    try {
+      expect(decodeDoubles(text)).toEqual(withBuffer);
+    } finally {
+      vi.unstubAllGlobals();
+    }
+    expect([...withBuffer]).toEqual([0.1, -7e200, 3]);
   });
 
   describe.each(STORED_COSMOLOGIES.map((input) => [JSON.stringify(input), input] as const))('%s', (_, input) => {
