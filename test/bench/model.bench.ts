@@ -4,7 +4,7 @@
  * tabulated completeness and a logistic one. Each case is the draws alone (populationDraws on the
  * nodes of one plain count; where the completeness varies, by the slice tables and, for
  * comparison, by the exact path that redoes every node's quadrature per draw), and predict with and
- * without them.
+ * without them; and predict of the robust UV plan sample (samples/plan-robust-uv-slope.yaml).
  */
 import type { BenchCase } from './run.js';
 import { loadSurveyText } from '../../src/survey/load.js';
@@ -40,7 +40,20 @@ function drawsOnly(s: typeof hard, histogramDraws: number, exact = false) {
   return () => populationDraws(s, pop, cosmo, own, offsets, { luminosity: true, histogramDraws, exact });
 }
 
-export const cases: BenchCase[] = [];
+const robust = loadSurveyText(
+  readFileSync(new URL('../../samples/plan-robust-uv-slope.yaml', import.meta.url), 'utf8'),
+  'samples/plan-robust-uv-slope.yaml',
+);
+
+export const cases: BenchCase[] = [
+  // the robust plan sample: 4 slices, magnitudes, a logistic completeness, 1,000 draws with 100 histograms
+  { name: 'model draws: predict, robust UV plan sample, 1000 draws', run: () => predict(robust), repeats: 9 },
+  {
+    name: 'model draws: predict, robust UV plan sample, no draws',
+    run: () => predict(robust, { model: { draws: 0 } }),
+    repeats: 9,
+  },
+];
 for (const [name, s] of [
   ['hard limit', hard],
   ['table completeness', table],
