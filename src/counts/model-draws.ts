@@ -587,6 +587,7 @@ function nodeLevelKept(
   start: TableStart,
   make: (keep: { values?: Float64Array[] }) => Chebyshev2D[] | undefined,
   move: (from: Level1) => { series: Chebyshev2D[]; values: Float64Array[] } | undefined,
+  moveAcrossLimits: boolean,
 ): Chebyshev2D[] | undefined {
   const key = `${shape} ${obsLim}`;
   let kept = level1Kept.get(key);
@@ -595,7 +596,9 @@ function nodeLevelKept(
     start.node[1] = kept.ended[1];
     return kept.series;
   }
-  const before = level1ByShape.get(shape);
+  // moved series differ from series made afresh at round-off (about 1e-14): only a caller that
+  // asks (an explore page) gets them, so a prediction never depends on what the process ran before
+  const before = moveAcrossLimits ? level1ByShape.get(shape) : undefined;
   const moved = before?.series && before.values && before.moves < LEVEL1_MOVES ? move(before) : undefined;
   if (moved && before) {
     level1Paths.moved++;
@@ -619,6 +622,7 @@ function sliceTables(
   offsets: readonly ModelOffsets[],
   withLum: boolean,
   start: TableStart,
+  moveAcrossLimits: boolean,
 ): SliceTables | undefined {
   const slope = s.observer.slope;
   const nc = f.phi.length;
@@ -723,6 +727,7 @@ function sliceTables(
       const { moreX, moreY } = tailsTooLarge(series, big);
       return moreX || moreY ? undefined : { series, values };
     },
+    moveAcrossLimits,
   );
   if (!nodeLevel) return undefined;
   const [j0, j1] = nodeLevel as [Chebyshev2D, Chebyshev2D | undefined];
@@ -914,7 +919,13 @@ export function populationDraws(
   cosmo: FlatCosmology,
   slices: readonly SliceCount[],
   offsets: readonly ModelOffsets[],
-  options: { luminosity: boolean; histogramDraws: number; exact?: boolean },
+  options: {
+    luminosity: boolean;
+    histogramDraws: number;
+    exact?: boolean;
+    /** Level-1 series may be moved from those made at another limit (an explore page's limit control). */
+    moveAcrossLimits?: boolean;
+  },
 ): PopulationDraws {
   const s = settingOf(survey, population, cosmo);
   const n = offsets.length;
@@ -931,7 +942,7 @@ export function populationDraws(
     const tables =
       !options.exact && n >= TABLE_MIN_DRAWS && f.count > 0
         ? s.completeness
-          ? sliceTables(f, s, offsets, detected !== undefined, start)
+          ? sliceTables(f, s, offsets, detected !== undefined, start, options.moveAcrossLimits === true)
           : hardTables(f, s, offsets, detected !== undefined, start)
         : undefined;
     if (tables && detected) tables.total = totalTables(f, offsets);

@@ -30,6 +30,8 @@ export interface ModelDrawSettings {
   seed: number;
   /** Only the counts' model blocks (no histogram bins, no densities): the counts' numbers are unchanged. */
   countsOnly?: boolean;
+  /** Level-1 tables may be moved from another limit's (an explore page: see populationDraws). */
+  moveAcrossLimits?: boolean;
 }
 
 /** The five percentiles and the fraction of a count's draws. */
@@ -99,6 +101,7 @@ export function addPopulationSpreads(
     const d = populationDraws(survey, pop, cosmo, run.own, offsets, {
       luminosity: withLum,
       histogramDraws: settings.countsOnly ? 0 : Math.min(HISTOGRAM_DRAWS, offsets.length),
+      moveAcrossLimits: settings.moveAcrossLimits === true,
     });
     const factor = pop.sfrConversion?.factor;
     run.pred.slices.forEach((sl, j) => {

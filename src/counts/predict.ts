@@ -585,6 +585,8 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
       draws: modelDraws,
       seed: options.model?.seed ?? DEFAULT_MODEL_SEED,
       countsOnly: options.model?.counts === true,
+      // a page that keeps counts between updates also moves the draws' tables to a new limit
+      moveAcrossLimits: options.countMemo !== undefined,
     });
     if (survey.populations.length > 1) addTopSpreads(runs, draws, top);
     for (const r of runs) for (const sc of r.own) delete sc.drawNodes;

@@ -21,6 +21,7 @@ import { parse } from 'yaml';
 import { parseSurveyObject } from '../../src/survey/index.js';
 import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import { countPopulation } from '../../src/counts/engine.js';
+import { predict } from '../../src/counts/predict.js';
 import {
   drawModelOffsets,
   drawPaths,
@@ -219,7 +220,12 @@ describe('tabulated draws equal the exact path (1e-8 relative)', () => {
       const cosmo = new FlatCosmology(survey.cosmology);
       const own = countPopulation(survey, pop, cosmo, pop.sliceEdges, { drawNodes: true });
       const offsets = drawModelOffsets(pop.modelUncertainty!, pop.components.length, DRAWS, 5, 0);
-      return populationDraws(survey, pop, cosmo, own, offsets, { luminosity: true, histogramDraws: 0, exact });
+      return populationDraws(survey, pop, cosmo, own, offsets, {
+        luminosity: true,
+        histogramDraws: 0,
+        exact,
+        moveAcrossLimits: true,
+      });
     };
     const worst = (a: Float64Array[], b: Float64Array[]) =>
       Math.max(...a.map((x, j) => Math.max(...x.map((v, i) => Math.abs(v / b[j]![i]! - 1)))));
@@ -244,6 +250,25 @@ describe('tabulated draws equal the exact path (1e-8 relative)', () => {
     expect(worst(last.luminosity!.detected, fresh.luminosity!.detected)).toBeLessThan(1e-12);
     // the limit does move the counts
     expect(last.counts[0]![0]! / first.counts[0]![0]!).toBeLessThan(0.9);
+  });
+
+  test('a prediction does not depend on what the process predicted before: without the page, a new limit makes its tables afresh (bit for bit)', () => {
+    const obj = read('samples/plan-robust-uv-slope.yaml');
+    const at = (limit: number) =>
+      predict(
+        parseSurveyObject({ ...obj, detection: { ...obj.detection, limit } }, 'samples/plan-robust-uv-slope.yaml'),
+        {
+          model: { draws: DRAWS },
+        },
+      );
+    forgetLevel1Series();
+    const alone = JSON.stringify(at(28.8));
+    forgetLevel1Series();
+    at(29.1);
+    const moved = level1Paths.moved;
+    const after = JSON.stringify(at(28.8));
+    expect(level1Paths.moved).toBe(moved);
+    expect(after).toBe(alone);
   });
 
   const mass = read(`${DIR}/double-schechter-mass.yaml`);
