@@ -106,7 +106,7 @@ function pathPoints(d: string): [number, number][] {
 describe('forecast --figures: the Fisher ellipses drawn from the JSON forecast prints', () => {
   test.each(['halpha-narrowband.yaml', 'deep-continuum.yaml'])('%s', async (sample) => {
     const dir = join(tmp(), 'figs');
-    const r = await runCli(['forecast', `samples/${sample}`, '--format', 'json', '--figures', dir]);
+    const r = await runCli(['forecast', `samples/${sample}`, '--format', 'json', '--figures', dir, '--no-png']);
     expect(r.stderr.replace(/^skytally: PNG not written.*\n/m, '')).toBe('');
     expect(r.code).toBe(0);
     // drawing changes nothing printed: the same JSON as without --figures, and no mock fits listed
@@ -117,6 +117,7 @@ describe('forecast --figures: the Fisher ellipses drawn from the JSON forecast p
     const f = JSON.parse(r.stdout) as Any;
     const y = f.parameters.includes('m_star') ? 'm_star' : 'log10_l_star';
     const svg = readFileSync(join(dir, 'forecast.svg'), 'utf8');
+    expect(existsSync(join(dir, 'forecast.png'))).toBe(false); // --no-png
     const { dots, cross, oneSigma } = readForecastFigure(svg);
     expect(dots).toHaveLength(0); // no --mocks, no dots
 
@@ -221,12 +222,21 @@ describe('forecast --figures: the Fisher ellipses drawn from the JSON forecast p
 describe('plan --figures: the best design marked where the JSON puts it', () => {
   test('plan-uv-deep-wide: plan.svg, its diamond at best.exposure_hours_per_pointing and best.goal_value', async () => {
     const dir = join(tmp(), 'figs');
-    const r = await runCli(['plan', 'samples/plan-uv-deep-wide.yaml', '--format', 'json', '--figures', dir]);
+    const r = await runCli([
+      'plan',
+      'samples/plan-uv-deep-wide.yaml',
+      '--format',
+      'json',
+      '--figures',
+      dir,
+      '--no-png',
+    ]);
     expect(r.code).toBe(0);
     // drawing changes nothing printed: the same JSON as without --figures (that run shared: test/support/sample-commands.ts)
     expect(r.stdout).toBe((await sampleCommand(['plan', 'samples/plan-uv-deep-wide.yaml', '--format', 'json'])).stdout);
     const p = JSON.parse(r.stdout) as Any;
     const svg = readFileSync(join(dir, 'plan.svg'), 'utf8');
+    expect(existsSync(join(dir, 'plan.png'))).toBe(false); // --no-png
     const ms = allMarks(svg);
     // the designs: one dot per design, in exposure order
     const dots = ms.filter((m) => m.role === 'point' && 'pointings' in m.label);

@@ -281,6 +281,25 @@ describe('report and --figures: files and refusals', () => {
     // PNG beside each SVG when the rasteriser loads (it is a dependency; it loads here)
     expect(existsSync(join(dir, 'counts.png'))).toBe(true);
     expect(readdirSync(dir).filter((f) => f.endsWith('.tmp') || f.includes('.tmp-'))).toEqual([]);
+    // --no-png: the same SVG files, byte for byte, and no PNG
+    const svgOnly = join(tmp(), 'svg-only');
+    const s = await runCli([
+      'predict',
+      'samples/mass-limited.yaml',
+      '--format',
+      'json',
+      '--figures',
+      svgOnly,
+      '--no-png',
+    ]);
+    expect(s.code).toBe(0);
+    expect(s.stdout).toBe(plain.stdout);
+    const svgs = readdirSync(dir).filter((f) => f.endsWith('.svg'));
+    expect(readdirSync(svgOnly).sort()).toEqual(svgs.sort());
+    // (vega numbers its clip paths by a counter across one process: clip1 in one run is clip2 in the next)
+    const same = (svg: string) => svg.replace(/clip\d+/g, 'clip');
+    for (const f of svgs)
+      expect(same(readFileSync(join(svgOnly, f), 'utf8'))).toBe(same(readFileSync(join(dir, f), 'utf8')));
   });
 
   test.each([

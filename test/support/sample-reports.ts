@@ -32,7 +32,9 @@ function paths(dir: string): Omit<SampleReport, 'result'> {
 async function make(sample: string): Promise<SampleReport> {
   const dir = await madeOncePerRun(`sample-report-${sample}`, async (own) => {
     const at = paths(own);
-    const result = await runCli(['report', `samples/${sample}`, '--out', at.html, '--figures', at.figures]);
+    // SVG only: the tests read the figures' SVG (PNG is tested in test/cli/report.test.ts and
+    // test/render/write-figures.test.ts; rasterising every sample's figures costs 0.4 s a report)
+    const result = await runCli(['report', `samples/${sample}`, '--out', at.html, '--figures', at.figures, '--no-png']);
     writeFileSync(join(own, 'result.json'), JSON.stringify(result));
   });
   return { result: JSON.parse(readFileSync(join(dir, 'result.json'), 'utf8')) as Captured, ...paths(dir) };

@@ -10,6 +10,16 @@ export function printWarnings(io: CliIO, warnings: readonly Warning[]): void {
   if (warnings.length > 0) io.stderr(warningLines(warnings));
 }
 
+/** --no-png: with --figures, write each figure as SVG only (no raster: faster, and no rasteriser needed). */
+export function addNoPngOption(cmd: Command): void {
+  cmd.option('--no-png', 'with --figures, write SVG only (no PNG)');
+}
+
+/** Whether --figures also writes PNG (commander gives png: false for --no-png). */
+export function wantsPng(opts: Record<string, unknown>): boolean {
+  return opts.png !== false;
+}
+
 export function addOutputOptions(cmd: Command): void {
   cmd.addOption(new Option('--format <format>', 'output format').choices([...FORMATS]).default('table'));
   cmd.option('--out <file>', 'write the output to this file (atomically; - for standard output) instead of stdout');

@@ -2,6 +2,8 @@ import { availableParallelism } from 'node:os';
 import { Option } from 'commander';
 import type { CommandDef } from './types.js';
 import {
+  addNoPngOption,
+  wantsPng,
   addOutputOptions,
   decimalNumber,
   loadSurveyArg,
@@ -43,6 +45,7 @@ export const forecastCommand: CommandDef = {
       '--figures <dir>',
       'also draw the forecast figure as DIR/forecast.svg (and .png when the rasteriser loads)',
     );
+    addNoPngOption(cmd);
     cmd.addOption(
       new Option('--estimator <name>', 'mock fits: ml (extended likelihood) or sty (shape only; no phi*)')
         .choices(['ml', 'sty'])
@@ -104,7 +107,7 @@ export const forecastCommand: CommandDef = {
     if (draw) {
       const { forecastFigure } = await import('../../render/figures.js');
       const fig = await forecastFigure(result, survey.title);
-      if (fig) outputs.setFigures(await draw.figureFiles(io, [fig]));
+      if (fig) outputs.setFigures(await draw.figureFiles(io, [fig], wantsPng(raw)));
       else io.stderr(`skytally: no forecast figure: the forecast has no alpha against L* (or M*) to draw.\n`);
     }
     outputs.commit();

@@ -1,6 +1,14 @@
 import { availableParallelism } from 'node:os';
 import type { CommandDef } from './types.js';
-import { addOutputOptions, loadSurveyArg, outputOptions, parseInteger, printWarnings } from './common.js';
+import {
+  addNoPngOption,
+  addOutputOptions,
+  loadSurveyArg,
+  outputOptions,
+  parseInteger,
+  printWarnings,
+  wantsPng,
+} from './common.js';
 import { Outputs, renderText, type CliIO } from '../io.js';
 
 export const planCommand: CommandDef = {
@@ -16,6 +24,7 @@ export const planCommand: CommandDef = {
       'most worker threads for the depth tables (default: up to 4; threads start only when the tables are large enough to pay for them; results are identical)',
     );
     cmd.option('--figures <dir>', 'also draw the plan figure as DIR/plan.svg (and .png when the rasteriser loads)');
+    addNoPngOption(cmd);
     addOutputOptions(cmd);
   },
   async action(cmd, args, io) {
@@ -52,7 +61,7 @@ export const planCommand: CommandDef = {
     if (draw) {
       const { planFigure } = await import('../../render/figures.js');
       const fig = await planFigure(result, survey.title);
-      if (fig) outputs.setFigures(await draw.figureFiles(io, [fig]));
+      if (fig) outputs.setFigures(await draw.figureFiles(io, [fig], wantsPng(raw)));
     }
     outputs.commit();
     return 0;

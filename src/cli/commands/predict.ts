@@ -1,5 +1,14 @@
 import type { CommandDef } from './types.js';
-import { addOutputOptions, loadSurveyArg, optionText, outputOptions, parseInteger, printWarnings } from './common.js';
+import {
+  addNoPngOption,
+  addOutputOptions,
+  loadSurveyArg,
+  optionText,
+  outputOptions,
+  parseInteger,
+  printWarnings,
+  wantsPng,
+} from './common.js';
 import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED, MAX_MODEL_DRAWS } from '../../model/model-uncertainty.js';
 import { Outputs, renderText } from '../io.js';
 
@@ -10,6 +19,7 @@ export const predictCommand: CommandDef = {
     cmd.argument('<survey>', 'survey file (YAML)');
     addOutputOptions(cmd);
     cmd.option('--figures <dir>', 'also write each figure as DIR/<name>.svg (and .png when the rasteriser loads)');
+    addNoPngOption(cmd);
     cmd.option(
       '--draws <N>',
       `draws of the populations' model_uncertainty (1 to ${MAX_MODEL_DRAWS}; default ${DEFAULT_MODEL_DRAWS})`,
@@ -42,7 +52,9 @@ export const predictCommand: CommandDef = {
       renderText(opts, { json: () => p, table: () => tables!.predictionTable(p), csv: () => tables!.predictionCsv(p) }),
     );
     if (draw)
-      outputs.setFigures(await draw.figureFiles(io, await draw.drawFigures(survey, p, { modelSeed: model.seed })));
+      outputs.setFigures(
+        await draw.figureFiles(io, await draw.drawFigures(survey, p, { modelSeed: model.seed }), wantsPng(raw)),
+      );
     outputs.commit();
     return 0;
   },

@@ -2,7 +2,7 @@
 import { resolve } from 'node:path';
 import { Option } from 'commander';
 import type { CommandDef } from './types.js';
-import { printWarnings } from './common.js';
+import { addNoPngOption, printWarnings } from './common.js';
 import { Outputs, toJsonText, type CliIO } from '../io.js';
 import { mockOptions, mockProgressBar } from './forecast.js';
 import { modelDrawOptions } from './predict.js';
@@ -24,6 +24,8 @@ export interface ReportOptions {
   seed?: string;
   /** --draws N as given on the command line (checked as predict's). */
   draws?: string;
+  /** false with --no-png: --figures writes SVG only. */
+  png?: boolean;
 }
 
 export const reportCommand: CommandDef = {
@@ -42,6 +44,7 @@ export const reportCommand: CommandDef = {
     );
     cmd.option('--out <file>', 'write the report to this file (atomically; - for standard output) instead of stdout');
     cmd.option('--figures <dir>', 'also write each figure as DIR/<name>.svg (and .png when the rasteriser loads)');
+    addNoPngOption(cmd);
     cmd.option(
       '--mocks <N>',
       'also draw N mock surveys for the forecast, fit each and scatter the fits over the Fisher ellipses',
@@ -90,7 +93,7 @@ export async function runReport(
   // Figures are drawn for the HTML, and for --figures whatever the format.
   const figures = format === 'html' || opts.figures !== undefined ? await reportFigures(results) : [];
   outputs.setMain(format === 'json' ? toJsonText(reportJson(results)) : await reportHtml(results, surveyText, figures));
-  if (opts.figures !== undefined) outputs.setFigures(await figureFiles(io, figures));
+  if (opts.figures !== undefined) outputs.setFigures(await figureFiles(io, figures, opts.png !== false));
   outputs.commit();
   return 0;
 }
