@@ -168,19 +168,7 @@ export function histogramTable(
     finite.push(i);
   }
   if (finite.length === 0) return undefined;
-  // the offsets' ranges
-  let dcMin = Infinity;
-  let dcMax = -Infinity;
-  const daMin = new Array<number>(nc).fill(Infinity);
-  const daMax = new Array<number>(nc).fill(-Infinity);
-  for (const o of offsets) {
-    dcMin = Math.min(dcMin, o.characteristic);
-    dcMax = Math.max(dcMax, o.characteristic);
-    for (let k = 0; k < nc; k++) {
-      daMin[k] = Math.min(daMin[k]!, o.alpha[k]!);
-      daMax[k] = Math.max(daMax[k]!, o.alpha[k]!);
-    }
-  }
+  const { dcMin, dcMax, daMin, daMax } = offsetRanges(offsets, nc);
   // u at a node under a draw is u(obs) 10^(-d_c / slope): the extreme factors
   const rA = 10 ** (-dcMin / slope);
   const rB = 10 ** (-dcMax / slope);
@@ -482,4 +470,24 @@ export function histogramFromTable(tb: HistogramTable, o: ModelOffsets, out: Flo
     out[bin] = v;
   }
   return true;
+}
+
+/** The range of the draws' offsets: of the characteristic value, and of alpha per component. */
+export function offsetRanges(
+  offsets: readonly ModelOffsets[],
+  nc: number,
+): { dcMin: number; dcMax: number; daMin: number[]; daMax: number[] } {
+  let dcMin = Infinity;
+  let dcMax = -Infinity;
+  const daMin = new Array<number>(nc).fill(Infinity);
+  const daMax = new Array<number>(nc).fill(-Infinity);
+  for (const o of offsets) {
+    dcMin = Math.min(dcMin, o.characteristic);
+    dcMax = Math.max(dcMax, o.characteristic);
+    for (let k = 0; k < nc; k++) {
+      daMin[k] = Math.min(daMin[k]!, o.alpha[k]!);
+      daMax[k] = Math.max(daMax[k]!, o.alpha[k]!);
+    }
+  }
+  return { dcMin, dcMax, daMin, daMax };
 }

@@ -42,7 +42,7 @@ import { makeObserver, type Observer } from '../selection/observe.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
 import { completenessQuadrature, type CompletenessQuadrature } from './completeness-quadrature.js';
 import { componentsTotalLuminosity } from '../population/schechter.js';
-import { histogramFromTable, histogramTable } from './model-draws-histograms.js';
+import { histogramFromTable, histogramTable, offsetRanges } from './model-draws-histograms.js';
 import { histogramCount, overCompletenessPieces, schechterBetween, type NodeState, type SliceCount } from './engine.js';
 
 // (defined with the model, so that the command line reads them without loading this module)
@@ -773,26 +773,6 @@ function sliceTables(
     out.lum.push(series[1]);
   }
   return out;
-}
-
-/** The range of the draws' offsets: of the characteristic value, and of alpha per component. */
-function offsetRanges(
-  offsets: readonly ModelOffsets[],
-  nc: number,
-): { dcMin: number; dcMax: number; daMin: number[]; daMax: number[] } {
-  let dcMin = Infinity;
-  let dcMax = -Infinity;
-  const daMin = new Array<number>(nc).fill(Infinity);
-  const daMax = new Array<number>(nc).fill(-Infinity);
-  for (const o of offsets) {
-    dcMin = Math.min(dcMin, o.characteristic);
-    dcMax = Math.max(dcMax, o.characteristic);
-    for (let k = 0; k < nc; k++) {
-      daMin[k] = Math.min(daMin[k]!, o.alpha[k]!);
-      daMax[k] = Math.max(daMax[k]!, o.alpha[k]!);
-    }
-  }
-  return { dcMin, dcMax, daMin, daMax };
 }
 
 /**
