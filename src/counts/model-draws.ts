@@ -589,15 +589,16 @@ function nodeLevelKept(
   move: (from: Level1) => { series: Chebyshev2D[]; values: Float64Array[] } | undefined,
   moveAcrossLimits: boolean,
 ): Chebyshev2D[] | undefined {
+  // moved series differ from series made afresh at round-off (about 1e-14): only a caller that
+  // asks (an explore page) gets them, kept or new, so a prediction never depends on what the
+  // process ran before
   const key = `${shape} ${obsLim}`;
   let kept = level1Kept.get(key);
-  if (kept) {
+  if (kept && (moveAcrossLimits || kept.moves === 0)) {
     start.node[0] = kept.ended[0];
     start.node[1] = kept.ended[1];
     return kept.series;
   }
-  // moved series differ from series made afresh at round-off (about 1e-14): only a caller that
-  // asks (an explore page) gets them, so a prediction never depends on what the process ran before
   const before = moveAcrossLimits ? level1ByShape.get(shape) : undefined;
   const moved = before?.series && before.values && before.moves < LEVEL1_MOVES ? move(before) : undefined;
   if (moved && before) {

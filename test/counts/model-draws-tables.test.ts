@@ -22,6 +22,7 @@ import { parseSurveyObject } from '../../src/survey/index.js';
 import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import { countPopulation } from '../../src/counts/engine.js';
 import { predict } from '../../src/counts/predict.js';
+import { CountMemo } from '../../src/counts/count-memo.js';
 import {
   drawModelOffsets,
   drawPaths,
@@ -269,6 +270,22 @@ describe('tabulated draws equal the exact path (1e-8 relative)', () => {
     const after = JSON.stringify(at(28.8));
     expect(level1Paths.moved).toBe(moved);
     expect(after).toBe(alone);
+    // nor on what a page predicted before: the series the page moved to 28.8 are not read
+    forgetLevel1Series();
+    const page = new CountMemo();
+    const onPage = (limit: number) =>
+      predict(
+        parseSurveyObject({ ...obj, detection: { ...obj.detection, limit } }, 'samples/plan-robust-uv-slope.yaml'),
+        {
+          model: { draws: DRAWS },
+          countMemo: page,
+        },
+      );
+    onPage(29.1);
+    const pageMoved = level1Paths.moved;
+    onPage(28.8);
+    expect(level1Paths.moved).toBeGreaterThan(pageMoved);
+    expect(JSON.stringify(at(28.8))).toBe(alone);
   });
 
   const mass = read(`${DIR}/double-schechter-mass.yaml`);
