@@ -29,11 +29,41 @@ export function memoKey(inputs: unknown[]): string {
   );
 }
 
-/** Results remembered (the last used kept): a page's populations at a few settings each. */
+/**
+ * Results kept by a key, each with the area it was made for, read at any area through `scale`
+ * (value, ratio of the areas); the last `size` used are kept (the oldest is the first dropped).
+ */
+export class KeptByArea<T> {
+  private readonly entries = new Map<string, { areaSr: number; value: T }>();
+
+  constructor(
+    private readonly size: number,
+    private readonly scale: (value: T, ratio: number) => T,
+  ) {}
+
+  /** The value kept for `key`, scaled to `areaSr`; else make() (kept as `keep` of it), returned as made. */
+  get(key: string, areaSr: number, make: () => T, keep: (made: T) => T = (v) => v): T {
+    const kept = this.entries.get(key);
+    if (kept) {
+      // the last used last: the oldest is the first dropped
+      this.entries.delete(key);
+      this.entries.set(key, kept);
+      return this.scale(kept.value, areaSr / kept.areaSr);
+    }
+    const made = make();
+    if (this.entries.size >= this.size) this.entries.delete(this.entries.keys().next().value!);
+    this.entries.set(key, { areaSr, value: keep(made) });
+    return made;
+  }
+}
+
+const scaledSlices = (slices: readonly SliceCount[], r: number): SliceCount[] => slices.map((s) => scaledSlice(s, r));
+
+/** Results remembered: a page's populations at a few settings each. */
 const ENTRIES = 24;
 
 export class CountMemo {
-  private readonly entries = new Map<string, { areaSr: number; slices: SliceCount[] }>();
+  private readonly kept = new KeptByArea<SliceCount[]>(ENTRIES, scaledSlices);
 
   static key(survey: Survey, population: Population, edges: readonly number[], options: EngineOptions): string {
     return memoKey([
@@ -51,7 +81,8 @@ export class CountMemo {
 
   /**
    * countPopulation(survey, population, cosmo, edges, options), from the results kept for the
-   * same inputs at any area when there are some (options with offsets are counted).
+   * same inputs at any area when there are some (options with offsets are counted). Every reader
+   * gets its own copy.
    */
   count(
     survey: Survey,
@@ -61,19 +92,18 @@ export class CountMemo {
     options: EngineOptions = {},
   ): SliceCount[] {
     if (options.offsets) return countPopulation(survey, population, cosmo, edges, options);
-    const key = CountMemo.key(survey, population, edges, options);
-    const kept = this.entries.get(key);
-    if (kept) {
-      // the last used last: the oldest is the first dropped
-      this.entries.delete(key);
-      this.entries.set(key, kept);
-      return kept.slices.map((s) => scaledSlice(s, survey.areaSr / kept.areaSr));
-    }
-    const slices = countPopulation(survey, population, cosmo, edges, options);
-    if (this.entries.size >= ENTRIES) this.entries.delete(this.entries.keys().next().value!);
-    this.entries.set(key, { areaSr: survey.areaSr, slices: slices.map((s) => scaledSlice(s, 1)) });
-    return slices;
+    return this.kept.get(
+      CountMemo.key(survey, population, edges, options),
+      survey.areaSr,
+      () => countPopulation(survey, population, cosmo, edges, options),
+      (made) => scaledSlices(made, 1),
+    );
   }
+}
+
+/** The count engine, through `memo` when there is one. */
+export function countWith(memo: CountMemo | undefined): typeof countPopulation {
+  return memo ? memo.count.bind(memo) : countPopulation;
 }
 
 const times = (xs: readonly number[], r: number): number[] => xs.map((x) => x * r);

@@ -29,8 +29,8 @@ import type { Survey } from '../model/survey.js';
 import { photoZIsExact, photoZTrueRange, type PhotoZ } from '../model/photo-z.js';
 import { makeObserver } from '../selection/observe.js';
 import { populationAt, type ParameterOffsets } from '../population/model.js';
-import { countPopulation, type Histogram, type RedshiftProfile, type SliceCount } from './engine.js';
-import type { CountMemo } from './count-memo.js';
+import type { Histogram, RedshiftProfile, SliceCount } from './engine.js';
+import { countWith, type CountMemo } from './count-memo.js';
 
 /** Widest piece of the true range near a measured edge, in units of sigma (1 + z) at its low end. */
 const PIECE_SIGMAS = 1;
@@ -184,7 +184,7 @@ export function countPhotoZ(
     { min: eN, max: null },
   ];
   const engine = { offsets: options.offsets };
-  const count = options.memo ? options.memo.count.bind(options.memo) : countPopulation;
+  const count = countWith(options.memo);
 
   if (photoZIsExact(pz)) {
     // measured = true: the plain prediction, a diagonal matrix

@@ -21,8 +21,8 @@
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
-import { countPopulation, type Histogram, type SliceCount } from './engine.js';
-import type { CountMemo } from './count-memo.js';
+import type { Histogram, SliceCount } from './engine.js';
+import { countWith, type CountMemo } from './count-memo.js';
 import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED } from './model-draws.js';
 import { addPopulationSpreads, addTopSpreads } from './model-spread.js';
 import { countPhotoZ, sumMigrations, type PhotoZCount, type PhotoZMigration } from './photo-z.js';
@@ -394,7 +394,7 @@ function countPopulations(
       : undefined;
     const own = photoZ
       ? photoZ.slices
-      : (memo ? memo.count.bind(memo) : countPopulation)(survey, p, cosmo, p.sliceEdges, {
+      : countWith(memo)(survey, p, cosmo, p.sliceEdges, {
           profile: profiles,
           drawNodes: withModel && p.modelUncertainty !== undefined,
         });

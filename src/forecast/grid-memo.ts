@@ -6,7 +6,7 @@
  * proportional to area_sr, grid.ts), so every sum of fisherParts -- the count, the b_i and the
  * matrix -- is proportional to it: sums kept for one area serve another, times the ratio of the
  * areas. The scaled sums equal those of a grid built afresh for the new area to rounding (the
- * factor enters each point's logarithm there; test/explore/faster-paths.test.ts checks 1e-12 on
+ * factor enters each point's logarithm there; test/explore/page-memo.test.ts checks 1e-12 on
  * every sample).
  *
  * The key is the JSON of those inputs: the survey model is plain data but for the parameters in
@@ -17,13 +17,13 @@ import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { densityFisherParts } from './grid.js';
 import type { FisherParts } from './fisher.js';
-import { memoKey } from '../counts/count-memo.js';
+import { KeptByArea, memoKey } from '../counts/count-memo.js';
 
 /** Grids remembered (the last used kept): a page's controls of several populations and a limit or two. */
 const ENTRIES = 16;
 
 export class FisherSumsMemo {
-  private readonly entries = new Map<string, { areaSr: number; parts: FisherParts }>();
+  private readonly kept = new KeptByArea<FisherParts>(ENTRIES, scaledParts);
 
   /** The key of the grid of `population` in `survey` on `edges`, area aside. */
   static key(survey: Survey, population: Population, edges: readonly number[]): string {
@@ -36,18 +36,9 @@ export class FisherSumsMemo {
    * there are some. The result is not to be changed by the caller.
    */
   parts(survey: Survey, population: Population, cosmo: FlatCosmology, edges: readonly number[]): FisherParts {
-    const key = FisherSumsMemo.key(survey, population, edges);
-    const kept = this.entries.get(key);
-    if (kept) {
-      // the last used last: the oldest is the first dropped
-      this.entries.delete(key);
-      this.entries.set(key, kept);
-      return scaledParts(kept.parts, survey.areaSr / kept.areaSr);
-    }
-    const parts = densityFisherParts(survey, population, cosmo, edges);
-    if (this.entries.size >= ENTRIES) this.entries.delete(this.entries.keys().next().value!);
-    this.entries.set(key, { areaSr: survey.areaSr, parts });
-    return parts;
+    return this.kept.get(FisherSumsMemo.key(survey, population, edges), survey.areaSr, () =>
+      densityFisherParts(survey, population, cosmo, edges),
+    );
   }
 }
 
