@@ -17,6 +17,7 @@
 import type { DensityGrid } from './grid.js';
 import { sliceCount } from './grid.js';
 import { inverseSpd, zeros, type Matrix } from './linalg.js';
+import { addSliceSums } from './slice-sums.js';
 
 const LN10 = Math.LN10;
 
@@ -148,9 +149,7 @@ export function fisherPartsAt(grid: DensityGrid, theta: ArrayLike<number>): Fish
   const eShift = Math.exp(yShift);
   const lnPhi = LN10 * dPhi;
   const { pointT, pointExpT, pointLogW, pointA1, nodePointStart, sliceNodeStart } = grid;
-  const matrix = zeros(3);
-  const slices: SliceInformation[] = [];
-  let total = 0;
+  const parts: FisherParts = { matrix: zeros(3), slices: [], count: 0 };
   for (let sl = 0; sl < sliceCount(grid); sl++) {
     let n = 0,
       bc = 0,
@@ -173,15 +172,7 @@ export function fisherPartsAt(grid: DensityGrid, theta: ArrayLike<number>): Fish
       fca += g * dc * y;
       faa += g * y * y;
     }
-    const b = [LN10 * n, bc, ba];
-    const m = [
-      [LN10 * LN10 * n, LN10 * bc, LN10 * ba],
-      [LN10 * bc, fcc, fca],
-      [LN10 * ba, fca, faa],
-    ];
-    for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) matrix[j]![k]! += m[j]![k]!;
-    slices.push({ count: n, b });
-    total += n;
+    addSliceSums(parts, n, bc, ba, fcc, fca, faa);
   }
-  return { matrix, slices, count: total };
+  return parts;
 }

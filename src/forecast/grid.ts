@@ -40,8 +40,9 @@ import { selectionEffects } from '../selection/effects.js';
 import { completenessBreaks, completenessFunction } from '../selection/completeness.js';
 import { populationAt } from '../population/model.js';
 import { characteristicShift } from './parameters.js';
-import type { FisherParts, SliceInformation } from './fisher.js';
-import { zeros, type Matrix } from './linalg.js';
+import type { FisherParts } from './fisher.js';
+import { zeros } from './linalg.js';
+import { addSliceSums } from './slice-sums.js';
 
 const LN10 = Math.LN10;
 const PANEL_POINTS = 8;
@@ -197,61 +198,39 @@ export function densityFisherParts(
 ): FisherParts {
   const sink = new FisherSums(characteristicShift(population));
   walkDensity(survey, population, cosmo, edges, 1, sink);
-  return { matrix: sink.matrix, slices: sink.slices, count: sink.total };
+  return sink.parts;
 }
 
-/** The Poisson Fisher sums of the points as they come (fisherPartsAt at theta = 0). */
+/** The Poisson Fisher sums of the points as they come (fisherPartsAt's terms at theta = 0). */
 class FisherSums implements DensitySink {
-  readonly matrix: Matrix = zeros(3);
-  readonly slices: SliceInformation[] = [];
-  total = 0;
+  readonly parts: FisherParts = { matrix: zeros(3), slices: [], count: 0 };
   private n = 0;
   private bc = 0;
   private ba = 0;
   private fcc = 0;
   private fca = 0;
   private faa = 0;
-  // fisherPartsAt's offsets' terms at theta = 0, kept so that the arithmetic is the same
-  private readonly yShift: number;
-  private readonly eShift: number;
-  private readonly lnPhi = LN10 * 0;
-  private readonly dA = 0;
 
-  constructor(private readonly s: number) {
-    this.yShift = s * 0;
-    this.eShift = Math.exp(this.yShift);
-  }
+  constructor(private readonly s: number) {}
 
   reserve(): void {}
 
   point(t: number, logW: number, a1: number): void {
-    const s = this.s;
-    const y = t + this.yShift;
-    const a = a1 + this.dA;
-    const u = Math.exp(t) * this.eShift;
-    const g = Math.exp(logW + this.lnPhi + a * y - u);
-    const dc = s * (a - u);
+    const u = Math.exp(t);
+    const g = Math.exp(logW + a1 * t - u);
+    const dc = this.s * (a1 - u);
     this.n += g;
     this.bc += g * dc;
-    this.ba += g * y;
+    this.ba += g * t;
     this.fcc += g * dc * dc;
-    this.fca += g * dc * y;
-    this.faa += g * y * y;
+    this.fca += g * dc * t;
+    this.faa += g * t * t;
   }
 
   node(): void {}
 
   sliceEnd(): void {
-    const { n, bc, ba, fcc, fca, faa } = this;
-    const b = [LN10 * n, bc, ba];
-    const m = [
-      [LN10 * LN10 * n, LN10 * bc, LN10 * ba],
-      [LN10 * bc, fcc, fca],
-      [LN10 * ba, fca, faa],
-    ];
-    for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) this.matrix[j]![k]! += m[j]![k]!;
-    this.slices.push({ count: n, b });
-    this.total += n;
+    addSliceSums(this.parts, this.n, this.bc, this.ba, this.fcc, this.fca, this.faa);
     this.n = this.bc = this.ba = this.fcc = this.fca = this.faa = 0;
   }
 }

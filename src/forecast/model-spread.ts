@@ -29,12 +29,10 @@ import {
   summariseFisher,
   type FisherParts,
   type FisherSummary,
-  type SliceInformation,
 } from './fisher.js';
 import { zeros } from './linalg.js';
+import { addSliceSums } from './slice-sums.js';
 import { drawSumsTable, seriesPasses, type DrawSumsOptions } from './draw-sums.js';
-
-const LN10 = Math.LN10;
 
 export const SPREAD_PERCENTILES = [0.16, 0.5, 0.84] as const;
 
@@ -135,9 +133,7 @@ function spreadSeries(
   return (th) => {
     table.fill(s * th[1]!, 0, 1, th[2]!, out, 0, 12 * nS);
     const factor = 10 ** th[0]!;
-    const matrix = zeros(3);
-    const slices: SliceInformation[] = [];
-    let total = 0;
+    const parts: FisherParts = { matrix: zeros(3), slices: [], count: 0 };
     for (let sl = 0; sl < nS; sl++) {
       const o = 12 * sl;
       const n = factor * out[o]!;
@@ -146,16 +142,9 @@ function spreadSeries(
       const fcc = factor * out[o + 3]!;
       const fca = factor * out[o + 4]!;
       const faa = factor * out[o + 5]!;
-      const m = [
-        [LN10 * LN10 * n, LN10 * bc, LN10 * ba],
-        [LN10 * bc, fcc, fca],
-        [LN10 * ba, fca, faa],
-      ];
-      for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) matrix[j]![k]! += m[j]![k]!;
-      slices.push({ count: n, b: [LN10 * n, bc, ba] });
-      total += n;
+      addSliceSums(parts, n, bc, ba, fcc, fca, faa);
     }
-    return { matrix, slices, count: total };
+    return parts;
   };
 }
 
