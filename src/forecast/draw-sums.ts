@@ -72,6 +72,26 @@ export function fisherSums(
   }
 }
 
+/**
+ * What the draws with an offset reach (theta = [d log10 phi*, d_c, d_alpha] each): their number,
+ * the range of the shift x = s d_c (s the grid's shift) and of d_alpha; undefined when no draw
+ * moves. The series are tabulated over these ranges.
+ */
+export function drawReach(
+  grid: DensityGrid,
+  thetas: readonly (readonly number[])[],
+): { moved: number; xRange: [number, number]; aRange: [number, number] } | undefined {
+  const moved = thetas.filter((th) => !th.every((v) => v === 0));
+  if (moved.length === 0) return undefined;
+  const shifts = moved.map((th) => grid.shift * th[1]!);
+  const alphas = moved.map((th) => th[2]!);
+  return {
+    moved: moved.length,
+    xRange: [Math.min(...shifts), Math.max(...shifts)],
+    aRange: [Math.min(...alphas), Math.max(...alphas)],
+  };
+}
+
 export interface DrawSumsOptions {
   /** Widest x panel (ln u). */
   panelWidth: number;

@@ -32,7 +32,7 @@ import {
 } from './fisher.js';
 import { zeros } from './linalg.js';
 import { addSliceSums } from './slice-sums.js';
-import { drawSumsTable, seriesPasses, type DrawSumsOptions } from './draw-sums.js';
+import { drawReach, drawSumsTable, seriesPasses, type DrawSumsOptions } from './draw-sums.js';
 
 export const SPREAD_PERCENTILES = [0.16, 0.5, 0.84] as const;
 
@@ -118,14 +118,11 @@ function spreadSeries(
   thetas: readonly (readonly number[])[],
   always: boolean,
 ): ((th: readonly number[]) => FisherParts) | undefined {
-  const moved = thetas.filter((th) => !th.every((v) => v === 0));
-  if (moved.length === 0) return undefined;
+  const reach = drawReach(grid, thetas);
+  if (!reach) return undefined;
+  const { xRange, aRange } = reach;
   const s = grid.shift;
-  const shifts = moved.map((th) => s * th[1]!);
-  const alphas = moved.map((th) => th[2]!);
-  const xRange: [number, number] = [Math.min(...shifts), Math.max(...shifts)];
-  const aRange: [number, number] = [Math.min(...alphas), Math.max(...alphas)];
-  if (!always && seriesPasses(xRange, aRange, SPREAD_SERIES) >= moved.length) return undefined;
+  if (!always && seriesPasses(xRange, aRange, SPREAD_SERIES) >= reach.moved) return undefined;
   const table = drawSumsTable(grid, xRange, aRange, SPREAD_SERIES);
   if (!always && table.errorEstimate > SPREAD_SERIES_TOLERANCE) return undefined;
   const nS = sliceCount(grid);

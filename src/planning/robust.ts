@@ -36,7 +36,13 @@ import { buildDensityGrid, sliceCount, type DensityGrid } from '../forecast/grid
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { DesignModel, TierValue } from './model.js';
 import { hermiteWeights, interpolateSums, knotSums } from './tables.js';
-import { drawSumsTable, seriesPasses, type DrawSumsOptions, type DrawSumsTable } from '../forecast/draw-sums.js';
+import {
+  drawReach,
+  drawSumsTable,
+  seriesPasses,
+  type DrawSumsOptions,
+  type DrawSumsTable,
+} from '../forecast/draw-sums.js';
 import type { Evaluated } from './search.js';
 
 /** Draws a robust plan ranks its designs over by default (a draws file: every row). */
@@ -233,13 +239,12 @@ function drawSeries(
   knots: number,
   always: boolean,
 ): DrawSumsTable | undefined {
-  const moved = thetas.filter((th) => !th.every((v) => v === 0));
-  if (moved.length === 0) return undefined;
-  const shifts = moved.map((th) => grid.shift * th[1]!);
-  const alphas = moved.map((th) => th[2]!);
-  const xRange: [number, number] = [dLo + Math.min(...shifts), dLo + (knots - 1) * KNOT_STEP + Math.max(...shifts)];
-  const aRange: [number, number] = [Math.min(...alphas), Math.max(...alphas)];
-  if (!always && seriesPasses(xRange, aRange, SERIES_OPTIONS) >= moved.length * knots) return undefined;
+  const reach = drawReach(grid, thetas);
+  if (!reach) return undefined;
+  // from the first knot at the lowest shift to the last knot at the highest
+  const xRange: [number, number] = [dLo + reach.xRange[0], dLo + (knots - 1) * KNOT_STEP + reach.xRange[1]];
+  const aRange = reach.aRange;
+  if (!always && seriesPasses(xRange, aRange, SERIES_OPTIONS) >= reach.moved * knots) return undefined;
   const table = drawSumsTable(grid, xRange, aRange, SERIES_OPTIONS);
   // a slope error e moves a Hermite value by at most 4/27 h e (the largest |h10|, |h11|)
   const error = table.errorEstimate + (4 / 27) * KNOT_STEP * table.slopeErrorEstimate;
