@@ -82,7 +82,11 @@ export class CountMemo {
   /**
    * countPopulation(survey, population, cosmo, edges, options), from the results kept for the
    * same inputs at any area when there are some (options with offsets are counted). Every reader
-   * gets its own copy.
+   * gets its own copy. A population with model_uncertainty is counted with its nodes for the
+   * model's draws (`drawNodes`) whether asked or not, and its slices handed out without them when
+   * not asked: the nodes change nothing else the engine returns, and the page's prediction without
+   * the model's draws (its first numbers) and the one with them (src/library/explore/engine.ts)
+   * then read one count.
    */
   count(
     survey: Survey,
@@ -92,12 +96,16 @@ export class CountMemo {
     options: EngineOptions = {},
   ): SliceCount[] {
     if (options.offsets) return countPopulation(survey, population, cosmo, edges, options);
-    return this.kept.get(
-      CountMemo.key(survey, population, edges, options),
+    const asked = !!options.drawNodes;
+    const counted = population.modelUncertainty !== undefined ? { ...options, drawNodes: true } : options;
+    const slices = this.kept.get(
+      CountMemo.key(survey, population, edges, counted),
       survey.areaSr,
-      () => countPopulation(survey, population, cosmo, edges, options),
+      () => countPopulation(survey, population, cosmo, edges, counted),
       (made) => scaledSlices(made, 1),
     );
+    if (!asked) for (const s of slices) delete s.drawNodes;
+    return slices;
   }
 }
 
