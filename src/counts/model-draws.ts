@@ -570,6 +570,7 @@ const LEVEL1_MOVES = 32;
 export function forgetLevel1Series(): void {
   level1Kept.clear();
   level1ByShape.clear();
+  level2Kept.clear();
 }
 
 /** Level-1 series moved (made from the series at another limit) and made afresh, since the start (tests, benchmarks). */
@@ -746,34 +747,89 @@ function sliceTables(
     // a row (one d_c): per node, the level-1 series at its t as a series in alpha, then at each d_alpha
     const row0 = new Float64Array(j0.ny);
     const row1 = new Float64Array(j1?.ny ?? 0);
-    const series = logSeries(
-      dcMin,
-      dcMax,
-      daMin[k]!,
-      daMax[k]!,
-      withLum ? 2 : 1,
-      (dc, das, got) => {
-        const n = got[0]!.fill(0);
-        const l = withLum ? got[1]!.fill(0) : undefined;
-        for (const i of used) {
-          const w = f.vw[i]! * phiK[i]!;
-          const t = f.a[i]! + dc;
-          chebyshevAlongY(j0, t, row0);
-          if (j1) chebyshevAlongY(j1, t, row1);
-          for (let q = 0; q < das.length; q++) {
-            const al = alphaK[i]! + das[q]!;
-            n[q] = n[q]! + w * Math.exp(chebyshevAtY(j0, row0, al));
-            if (j1 && l) l[q] = l[q]! + w * f.lumScale[i]! * Math.exp(chebyshevAtY(j1, row1, al));
+    const series = sliceLevelKept(j0, j1, f, k, used, dcMin, dcMax, daMin[k]!, daMax[k]!, withLum, start, () =>
+      logSeries(
+        dcMin,
+        dcMax,
+        daMin[k]!,
+        daMax[k]!,
+        withLum ? 2 : 1,
+        (dc, das, got) => {
+          const n = got[0]!.fill(0);
+          const l = withLum ? got[1]!.fill(0) : undefined;
+          for (const i of used) {
+            const w = f.vw[i]! * phiK[i]!;
+            const t = f.a[i]! + dc;
+            chebyshevAlongY(j0, t, row0);
+            if (j1) chebyshevAlongY(j1, t, row1);
+            for (let q = 0; q < das.length; q++) {
+              const al = alphaK[i]! + das[q]!;
+              n[q] = n[q]! + w * Math.exp(chebyshevAtY(j0, row0, al));
+              if (j1 && l) l[q] = l[q]! + w * f.lumScale[i]! * Math.exp(chebyshevAtY(j1, row1, al));
+            }
           }
-        }
-      },
-      start.slice,
+        },
+        start.slice,
+      ),
     );
     if (!series) return undefined;
     out.count.push(series[0]);
     out.lum.push(series[1]);
   }
   return out;
+}
+
+/**
+ * Level-2 series made so far, by everything they depend on: the level-1 series (the same objects:
+ * kept, or moved to a limit for an explore page only), the slice's nodes that detect (volume
+ * weight, phi*, a, alpha and the luminosity's scale of each), the draws' ranges, the luminosity and
+ * the points started from, with the points they ended at. The same inputs make the same series,
+ * so a slice an explore page's change leaves as it was (the window's other end) reads them. The
+ * last LEVEL2_KEPT are kept.
+ */
+const level2Kept = new Map<string, { series: Chebyshev2D[] | undefined; ended: [number, number] }>();
+const LEVEL2_KEPT = 64;
+/** Level-2 series read from those kept and made, since the start (tests, benchmarks). */
+export const level2Paths = { kept: 0, made: 0 };
+const seriesIds = new WeakMap<Chebyshev2D, number>();
+let seriesCount = 0;
+
+function seriesId(c: Chebyshev2D | undefined): number {
+  if (!c) return -1;
+  let id = seriesIds.get(c);
+  if (id === undefined) seriesIds.set(c, (id = ++seriesCount));
+  return id;
+}
+
+function sliceLevelKept(
+  j0: Chebyshev2D,
+  j1: Chebyshev2D | undefined,
+  f: SliceNodes,
+  k: number,
+  used: readonly number[],
+  dcMin: number,
+  dcMax: number,
+  daMin: number,
+  daMax: number,
+  withLum: boolean,
+  start: TableStart,
+  make: () => Chebyshev2D[] | undefined,
+): Chebyshev2D[] | undefined {
+  const parts = [seriesId(j0), seriesId(j1), dcMin, dcMax, daMin, daMax, withLum, start.slice[0], start.slice[1]];
+  for (const i of used) parts.push(i, f.vw[i]!, f.phi[k]![i]!, f.a[i]!, f.alpha[k]![i]!, f.lumScale[i]!);
+  const key = parts.join(' ');
+  const kept = level2Kept.get(key);
+  level2Paths[kept ? 'kept' : 'made']++;
+  if (kept) {
+    start.slice[0] = kept.ended[0];
+    start.slice[1] = kept.ended[1];
+    return kept.series;
+  }
+  const series = make();
+  level2Kept.delete(key);
+  if (level2Kept.size >= LEVEL2_KEPT) level2Kept.delete(level2Kept.keys().next().value!);
+  level2Kept.set(key, { series, ended: [start.slice[0], start.slice[1]] });
+  return series;
 }
 
 /**

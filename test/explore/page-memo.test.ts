@@ -163,6 +163,33 @@ describe("the count engine's results kept by inputs", () => {
   );
 });
 
+describe('slices kept one by one', () => {
+  test.each(SAMPLES)(
+    "%s: after the window's end moved and back, each population's slices equal the engine's over the whole window bit for bit",
+    (sample) => {
+      const survey = loadSurveyFile(`samples/${sample}`);
+      const cosmo = new FlatCosmology(survey.cosmology);
+      const memo = new CountMemo();
+      for (const pop of survey.populations) {
+        const edges = pop.sliceEdges;
+        if (edges.length < 3) continue;
+        const options = { profile: true, drawNodes: pop.modelUncertainty !== undefined };
+        const shorter = [...edges.slice(0, -1), edges.at(-2)! + 0.5 * (edges.at(-1)! - edges.at(-2)!)];
+        const first = memo.count(survey, pop, cosmo, shorter, options);
+        expect(first).toEqual(countPopulation(survey, pop, cosmo, shorter, options));
+        // every slice but the last read from the memory, the last counted on its own
+        expect(memo.count(survey, pop, cosmo, edges, options)).toEqual(
+          countPopulation(survey, pop, cosmo, edges, options),
+        );
+        // and without the draws' nodes, which a population with a model is counted with either way
+        expect(memo.count(survey, pop, cosmo, edges, { profile: true })).toEqual(
+          countPopulation(survey, pop, cosmo, edges, { profile: true }),
+        );
+      }
+    },
+  );
+});
+
 describe('the Fisher sums kept by inputs', () => {
   test('another area: the kept sums times the ratio of the areas equal a grid built for it (1e-12)', () => {
     const survey = loadSurveyFile('samples/halpha-narrowband.yaml');
