@@ -863,7 +863,10 @@ function hardTables(
       continue;
     }
     // the count and the luminosity each a series of its own, so that the counts' tables are the
-    // same with and without the luminosity
+    // same with and without the luminosity; the luminosity's at the points of the count's reads
+    // the incomplete gamma functions the count made there (by row: d_c, the first d_alpha and
+    // the row's length)
+    const made = new Map<string, Float64Array>();
     const table = (lum: boolean) =>
       logSeries(
         dcMin,
@@ -874,15 +877,23 @@ function hardTables(
         (dc, das, got) => {
           const v = got[0]!.fill(0);
           const shift = -dc / slope;
+          const key = `${dc} ${das[0]} ${das.length}`;
+          const kept = lum ? made.get(key) : undefined;
+          const gammas = kept ?? (withLum && !lum ? new Float64Array(used.length * das.length) : undefined);
+          if (!lum && gammas) made.set(key, gammas);
+          let at = 0;
           for (const i of used) {
             const lu = f.l10u[i]! + shift;
             const u = 10 ** lu;
             const w = f.vw[i]! * phiK[i]!;
-            for (let q = 0; q < das.length; q++) {
+            for (let q = 0; q < das.length; q++, at++) {
               const sOrder = alphaK[i]! + das[q]! + 1;
-              const g = upperGamma(sOrder, u);
-              if (!lum) v[q] = v[q]! + w * g;
-              else if (g > 0) v[q] = v[q]! + w * f.lumScale[i]! * (sOrder * g + Math.exp(sOrder * lu * Math.LN10 - u));
+              const g = kept ? kept[at]! : upperGamma(sOrder, u);
+              if (!lum) {
+                if (gammas) gammas[at] = g;
+                v[q] = v[q]! + w * g;
+              } else if (g > 0)
+                v[q] = v[q]! + w * f.lumScale[i]! * (sOrder * g + Math.exp(sOrder * lu * Math.LN10 - u));
             }
           }
         },
@@ -1017,8 +1028,12 @@ export function populationDraws(
   return out;
 }
 
-/** Slices whose draws' histograms came from a table and from the exact path, since the start (for tests and benchmarks). */
-export const histogramPaths = { tabulated: 0, exact: 0 };
+/**
+ * Slices whose draws' histograms came from a table and from the exact path, and draws of a
+ * tabulated slice that took the exact path (their bins beyond the table's reach), since the start
+ * (for tests and benchmarks).
+ */
+export const histogramPaths = { tabulated: 0, exact: 0, exactDraws: 0 };
 
 /** Draws from which the histograms are tabulated (model-draws-histograms.ts; a table costs about two exact histograms). */
 export const HISTOGRAM_TABLE_MIN_DRAWS = 8;
@@ -1062,9 +1077,10 @@ function histogramDraws(
         return;
       }
       if (table && histogramFromTable(table, o, one)) {
-        one.forEach((c, b) => (bins[b]![i] = c));
+        for (let b = 0; b < nb; b++) bins[b]![i] = one[b]!;
         return;
       }
+      if (table) histogramPaths.exactDraws++;
       const moved = nodes.map((nd) => shifted(nd, o, slope, lumFactors[i]!));
       const h = histogramCount(
         moved,

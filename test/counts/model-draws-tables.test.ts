@@ -42,9 +42,9 @@ const HIST_DRAWS = 16;
 type Obj = Record<string, unknown> & { detection: Record<string, unknown>; population: Record<string, unknown> };
 const read = (file: string) => parse(readFileSync(file, 'utf8')) as Obj;
 
-function compare(obj: Obj, file: string, expectTabulated: boolean) {
-  // histograms: tabulated where the limit is one value of obs (not a table in z)
-  const histTabulated = expectTabulated && typeof obj.detection.limit !== 'object';
+function compare(obj: Obj, file: string, expectTabulated: boolean, expectExactDraws = false) {
+  // histograms: tabulated where the counts are (a limit tabulated in z under a varying completeness: neither)
+  const histTabulated = expectTabulated;
   const survey = parseSurveyObject(obj, file);
   const pop = survey.populations[0]!;
   const cosmo = new FlatCosmology(survey.cosmology);
@@ -52,9 +52,13 @@ function compare(obj: Obj, file: string, expectTabulated: boolean) {
   const offsets = drawModelOffsets(pop.modelUncertainty!, pop.components.length, DRAWS, 3, 0);
   const before = drawPaths.tabulated;
   const histBefore = histogramPaths.tabulated;
+  const exactDrawsBefore = histogramPaths.exactDraws;
   const fast = populationDraws(survey, pop, cosmo, own, offsets, { luminosity: true, histogramDraws: HIST_DRAWS });
   const used = drawPaths.tabulated - before;
   const histUsed = histogramPaths.tabulated - histBefore;
+  const exactDraws = histogramPaths.exactDraws - exactDrawsBefore;
+  if (expectExactDraws) expect(exactDraws, 'draws of tabulated slices on the exact path').toBeGreaterThan(0);
+  else expect(exactDraws, 'draws of tabulated slices on the exact path').toBe(0);
   const exact = populationDraws(survey, pop, cosmo, own, offsets, {
     luminosity: true,
     histogramDraws: HIST_DRAWS,
@@ -301,6 +305,48 @@ describe('tabulated draws equal the exact path (1e-8 relative)', () => {
       detection: { kind: 'threshold', limit: 9.2, completeness: { model: 'logistic', half: 9.5, width: 0.1 } },
     };
     compare(obj, `${DIR}/double-schechter-mass.yaml`, true);
+  });
+
+  test('double Schechter, threshold limit tabulated in z, no completeness: counts and histograms tabulated', () => {
+    compare(mass, `${DIR}/double-schechter-mass.yaml`, true);
+  });
+
+  test('threshold in absolute magnitude (slope -2.5) tabulated in z, M* and alpha evolving: tabulated', () => {
+    const uv = read(`${DIR}/uv-magnitude.yaml`);
+    const obj = {
+      ...uv,
+      detection: {
+        kind: 'threshold',
+        limit: {
+          table: [
+            [4, -18.2],
+            [5.5, -18.9],
+            [7, -19.6],
+          ],
+        },
+      },
+      slices: { width: 1.5 },
+      histogram: { width: 0.3 },
+    };
+    compare(obj, `${DIR}/uv-magnitude.yaml`, true);
+  });
+
+  test('a threshold tabulated in z far brighter than L* (draws whose open bin holds a limit take the exact path)', () => {
+    const obj = {
+      ...mass,
+      detection: {
+        kind: 'threshold',
+        limit: {
+          table: [
+            [0.2, 12.45],
+            [1.0, 12.9],
+          ],
+        },
+      },
+      slices: { width: 0.4 },
+      histogram: { width: 0.25 },
+    };
+    compare(obj, `${DIR}/double-schechter-mass.yaml`, true, true);
   });
 
   test('a threshold limit tabulated in z (the limit differs from node to node): the exact path', () => {
