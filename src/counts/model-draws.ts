@@ -16,14 +16,13 @@
  * (SliceTables where the completeness varies, hardTables under a hard limit).
  *
  * Draws: from a multivariate normal, d = L xi with L the Cholesky factor of the covariance and xi
- * standard normal from a Mersenne Twister stream (Matsumoto & Nishimura 1998;
- * @stdlib/random-base-mt19937) seeded with [seed, population index] (init_by_array), xi drawn
+ * standard normal (improved ziggurat, Doornik 2005) from a Mersenne Twister stream (Matsumoto & Nishimura 1998;
+ * src/numerics/random.ts, the numbers of @stdlib/random-base-normal and -mt19937) seeded with [seed, population index] (init_by_array), xi drawn
  * parameter by parameter in the order the file lists them, draw after draw; or every row of a
  * draws file once. Percentiles interpolate linearly between order statistics (Hyndman & Fan 1996,
  * type 7, numpy's default).
  */
-import mt19937 from '@stdlib/random-base-mt19937';
-import normalRng from '@stdlib/random-base-normal';
+import { Mt19937, normalDeviates } from '../numerics/random.js';
 import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
@@ -66,11 +65,10 @@ export function drawModelOffsets(
   stream: number,
 ): ModelOffsets[] {
   if (mu.kind === 'draws') return mu.offsets.map((row) => modelOffsets(mu.parameters, row, components));
-  // The factory's generator carries .normalized (uniform on [0, 1), 53 bits) at run time.
-  const rng = mt19937.factory({ seed: new Uint32Array([seed >>> 0, stream >>> 0]) }) as unknown as {
-    normalized: () => number;
-  };
-  const gauss = normalRng.factory(0, 1, { prng: rng.normalized });
+  // (the numbers of @stdlib/random-base-normal's factory(0, 1, { prng }) with prng the normalized
+  // output of @stdlib/random-base-mt19937 seeded with [seed, stream]: src/numerics/random.ts)
+  const normal = normalDeviates(new Mt19937([seed >>> 0, stream >>> 0]));
+  const gauss = () => 0 + 1 * normal();
   const k = mu.parameters.length;
   const xi = new Float64Array(k);
   const d = new Float64Array(k);
@@ -863,7 +861,10 @@ function hardTables(
       continue;
     }
     // the count and the luminosity each a series of its own, so that the counts' tables are the
-    // same with and without the luminosity
+    // same with and without the luminosity; the luminosity's at the points of the count's reads
+    // the incomplete gamma functions the count made there (by row: d_c, the first d_alpha and
+    // the row's length)
+    const made = new Map<string, Float64Array>();
     const table = (lum: boolean) =>
       logSeries(
         dcMin,
@@ -874,15 +875,23 @@ function hardTables(
         (dc, das, got) => {
           const v = got[0]!.fill(0);
           const shift = -dc / slope;
+          const key = `${dc} ${das[0]} ${das.length}`;
+          const kept = lum ? made.get(key) : undefined;
+          const gammas = kept ?? (withLum && !lum ? new Float64Array(used.length * das.length) : undefined);
+          if (!lum && gammas) made.set(key, gammas);
+          let at = 0;
           for (const i of used) {
             const lu = f.l10u[i]! + shift;
             const u = 10 ** lu;
             const w = f.vw[i]! * phiK[i]!;
-            for (let q = 0; q < das.length; q++) {
+            for (let q = 0; q < das.length; q++, at++) {
               const sOrder = alphaK[i]! + das[q]! + 1;
-              const g = upperGamma(sOrder, u);
-              if (!lum) v[q] = v[q]! + w * g;
-              else if (g > 0) v[q] = v[q]! + w * f.lumScale[i]! * (sOrder * g + Math.exp(sOrder * lu * Math.LN10 - u));
+              const g = kept ? kept[at]! : upperGamma(sOrder, u);
+              if (!lum) {
+                if (gammas) gammas[at] = g;
+                v[q] = v[q]! + w * g;
+              } else if (g > 0)
+                v[q] = v[q]! + w * f.lumScale[i]! * (sOrder * g + Math.exp(sOrder * lu * Math.LN10 - u));
             }
           }
         },
@@ -1017,8 +1026,12 @@ export function populationDraws(
   return out;
 }
 
-/** Slices whose draws' histograms came from a table and from the exact path, since the start (for tests and benchmarks). */
-export const histogramPaths = { tabulated: 0, exact: 0 };
+/**
+ * Slices whose draws' histograms came from a table and from the exact path, and draws of a
+ * tabulated slice that took the exact path (their bins beyond the table's reach), since the start
+ * (for tests and benchmarks).
+ */
+export const histogramPaths = { tabulated: 0, exact: 0, exactDraws: 0 };
 
 /** Draws from which the histograms are tabulated (model-draws-histograms.ts; a table costs about two exact histograms). */
 export const HISTOGRAM_TABLE_MIN_DRAWS = 8;
@@ -1062,9 +1075,10 @@ function histogramDraws(
         return;
       }
       if (table && histogramFromTable(table, o, one)) {
-        one.forEach((c, b) => (bins[b]![i] = c));
+        for (let b = 0; b < nb; b++) bins[b]![i] = one[b]!;
         return;
       }
+      if (table) histogramPaths.exactDraws++;
       const moved = nodes.map((nd) => shifted(nd, o, slope, lumFactors[i]!));
       const h = histogramCount(
         moved,
