@@ -16,14 +16,13 @@
  * (SliceTables where the completeness varies, hardTables under a hard limit).
  *
  * Draws: from a multivariate normal, d = L xi with L the Cholesky factor of the covariance and xi
- * standard normal from a Mersenne Twister stream (Matsumoto & Nishimura 1998;
- * @stdlib/random-base-mt19937) seeded with [seed, population index] (init_by_array), xi drawn
+ * standard normal (improved ziggurat, Doornik 2005) from a Mersenne Twister stream (Matsumoto & Nishimura 1998;
+ * src/numerics/random.ts, the numbers of @stdlib/random-base-normal and -mt19937) seeded with [seed, population index] (init_by_array), xi drawn
  * parameter by parameter in the order the file lists them, draw after draw; or every row of a
  * draws file once. Percentiles interpolate linearly between order statistics (Hyndman & Fan 1996,
  * type 7, numpy's default).
  */
-import mt19937 from '@stdlib/random-base-mt19937';
-import normalRng from '@stdlib/random-base-normal';
+import { Mt19937, normalDeviates } from '../numerics/random.js';
 import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
@@ -66,11 +65,10 @@ export function drawModelOffsets(
   stream: number,
 ): ModelOffsets[] {
   if (mu.kind === 'draws') return mu.offsets.map((row) => modelOffsets(mu.parameters, row, components));
-  // The factory's generator carries .normalized (uniform on [0, 1), 53 bits) at run time.
-  const rng = mt19937.factory({ seed: new Uint32Array([seed >>> 0, stream >>> 0]) }) as unknown as {
-    normalized: () => number;
-  };
-  const gauss = normalRng.factory(0, 1, { prng: rng.normalized });
+  // (the numbers of @stdlib/random-base-normal's factory(0, 1, { prng }) with prng the normalized
+  // output of @stdlib/random-base-mt19937 seeded with [seed, stream]: src/numerics/random.ts)
+  const normal = normalDeviates(new Mt19937([seed >>> 0, stream >>> 0]));
+  const gauss = () => 0 + 1 * normal();
   const k = mu.parameters.length;
   const xi = new Float64Array(k);
   const d = new Float64Array(k);
