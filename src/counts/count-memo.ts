@@ -58,7 +58,7 @@ export class KeptByArea<T> {
 }
 
 /** Slices remembered (each slice on its own): a page's populations at a few settings each. */
-const ENTRIES = 256;
+const ENTRIES = 1024;
 
 export class CountMemo {
   private readonly kept = new KeptByArea<SliceCount>(ENTRIES, scaledSlice);
