@@ -22,7 +22,11 @@ export async function run(argv: readonly string[], io: CliIO): Promise<number> {
     .configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(lines(s)) })
     .showHelpAfterError(false);
   let exitCode = 0;
-  for (const def of COMMANDS) {
+  // A run names one command: only that one is declared (its options cost time at every start);
+  // without a command name first (help, --version, a mistyped name) every command is, for the
+  // listing and commander's suggestions.
+  const named = COMMANDS.filter((def) => def.name === argv[0]);
+  for (const def of named.length === 1 ? named : COMMANDS) {
     const cmd = program.command(def.name).description(def.description).exitOverride();
     def.configure(cmd);
     cmd.action(async (...args: unknown[]) => {

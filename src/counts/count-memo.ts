@@ -57,20 +57,18 @@ export class KeptByArea<T> {
   }
 }
 
-const scaledSlices = (slices: readonly SliceCount[], r: number): SliceCount[] => slices.map((s) => scaledSlice(s, r));
-
-/** Results remembered: a page's populations at a few settings each. */
-const ENTRIES = 24;
+/** Slices remembered (each slice on its own): a page's populations at a few settings each. */
+const ENTRIES = 1024;
 
 export class CountMemo {
-  private readonly kept = new KeptByArea<SliceCount[]>(ENTRIES, scaledSlices);
+  private readonly kept = new KeptByArea<SliceCount>(ENTRIES, scaledSlice);
 
-  static key(survey: Survey, population: Population, edges: readonly number[], options: EngineOptions): string {
+  /** The key of every input but the area and the slice edges. */
+  static key(survey: Survey, population: Population, options: EngineOptions): string {
     return memoKey([
       survey.cosmology,
       survey.detection,
       population,
-      edges,
       survey.histogramWidth,
       !!options.noHistogram,
       !!options.profile,
@@ -82,7 +80,14 @@ export class CountMemo {
   /**
    * countPopulation(survey, population, cosmo, edges, options), from the results kept for the
    * same inputs at any area when there are some (options with offsets are counted). Every reader
-   * gets its own copy.
+   * gets its own copy. The engine counts each slice on its own (nothing but the edges of a slice
+   * reaches its numbers; engine.ts), so slices are kept one by one: a change of the window's end
+   * counts only the slices whose edges moved, each by the engine on those edges alone (in order,
+   * so that an input error is the one the whole count meets first). A population with
+   * model_uncertainty is counted with its nodes for the model's draws (`drawNodes`) whether asked
+   * or not, and its slices handed out without them when not asked: the nodes change nothing else
+   * the engine returns, and the page's prediction without the model's draws (its first numbers)
+   * and the one with them (src/library/explore/engine.ts) then read one count.
    */
   count(
     survey: Survey,
@@ -92,12 +97,22 @@ export class CountMemo {
     options: EngineOptions = {},
   ): SliceCount[] {
     if (options.offsets) return countPopulation(survey, population, cosmo, edges, options);
-    return this.kept.get(
-      CountMemo.key(survey, population, edges, options),
-      survey.areaSr,
-      () => countPopulation(survey, population, cosmo, edges, options),
-      (made) => scaledSlices(made, 1),
-    );
+    const asked = !!options.drawNodes;
+    const counted = population.modelUncertainty !== undefined ? { ...options, drawNodes: true } : options;
+    const common = CountMemo.key(survey, population, counted);
+    const out: SliceCount[] = [];
+    for (let s = 0; s + 1 < edges.length; s++) {
+      const pair = [edges[s]!, edges[s + 1]!];
+      const slice = this.kept.get(
+        `${common} ${memoKey(pair)}`,
+        survey.areaSr,
+        () => countPopulation(survey, population, cosmo, pair, counted)[0]!,
+        (made) => scaledSlice(made, 1),
+      );
+      if (!asked) delete slice.drawNodes;
+      out.push(slice);
+    }
+    return out;
   }
 }
 

@@ -28,6 +28,12 @@
  * where the completeness is constant over it; to its bright edge where it varies, as the exact path
  * integrates it). A draw costs one series in x per component (collapsed at its d_alpha) evaluated at
  * the rule's points, instead of one incomplete gamma function per edge and node.
+ *
+ * A threshold tabulated in z (the limit in obs differs from node to node) without a varying
+ * completeness: the limits stay where they are in obs under a draw, so the rule starts at the first
+ * bin whose faint edge is brighter than every node's limit (there every node counts: G_k as above),
+ * and the few bins before it, which hold a limit, are counted per draw as the exact path counts them
+ * (limitBin).
  */
 import {
   chebyshev2D,
@@ -36,6 +42,7 @@ import {
   chebyshevTail,
   type Chebyshev2D,
 } from '../numerics/chebyshev.js';
+import { upperGamma } from '../numerics/gamma.js';
 import { gaussLegendreRule } from '../numerics/quadrature.js';
 import { CAPS } from '../model/limits.js';
 import type { ModelOffsets } from '../model/model-uncertainty.js';
@@ -133,6 +140,8 @@ export interface HistogramTable {
   /** The nodes that fix each draw's bins (finite limits): a and log10 u at the limit. */
   nodeA: Float64Array;
   nodeL10u: Float64Array;
+  /** Limits that differ from node to node: the bins (in order from the faintest) between the faintest limit and the rule's first bin. */
+  limitBins: LimitBin[];
   slope: number;
   width: number;
   /** Scratch: the sums per grid index, a collapsed series. */
@@ -143,7 +152,8 @@ export interface HistogramTable {
 
 /**
  * The table of one slice for the given offsets (those whose histograms are drawn), or undefined
- * (the exact path) where the limit is not at one obs at every node, or a series does not converge.
+ * (the exact path) where the limit differs from node to node under a varying completeness, or a
+ * series does not converge.
  */
 export function histogramTable(
   f: HistogramNodes,
@@ -155,19 +165,29 @@ export function histogramTable(
   const nc = f.phi.length;
   const nb = plain.counts.length;
   if (nb === 0 || offsets.length === 0) return undefined;
-  // the nodes that count, and one limit in obs
+  // the nodes that count, and their limits in obs (one, or, for a limit tabulated in z, one per node)
   const finite: number[] = [];
   let obsLim = NaN;
+  let oneLimit = true;
+  // the faintest and the brightest limit (along the direction of brighter obs)
+  let limFaint = NaN;
+  let limBright = NaN;
+  const dir = slope > 0 ? 1 : -1;
   for (let i = 0; i < f.count; i++) {
     const l = f.l10u[i]!;
     if (!Number.isFinite(l)) continue;
     const lim = f.obsLimit[i]!;
-    if (Number.isNaN(obsLim)) obsLim = lim;
-    const scale = 1e-12 * Math.max(1, Math.abs(obsLim));
-    if (Math.abs(lim - obsLim) > scale || Math.abs(f.a[i]! + slope * l - obsLim) > 1e3 * scale) return undefined;
+    if (Number.isNaN(obsLim)) obsLim = limFaint = limBright = lim;
+    const scale = 1e-12 * Math.max(1, Math.abs(lim));
+    if (Math.abs(f.a[i]! + slope * l - lim) > 1e3 * scale) return undefined;
+    if (Math.abs(lim - obsLim) > 1e-12 * Math.max(1, Math.abs(obsLim))) oneLimit = false;
+    if (dir * (lim - limFaint) < 0) limFaint = lim;
+    if (dir * (lim - limBright) > 0) limBright = lim;
     finite.push(i);
   }
   if (finite.length === 0) return undefined;
+  // limits that differ from node to node: with a varying completeness, the exact path
+  if (!oneLimit && s.completeness) return undefined;
   const { dcMin, dcMax, daMin, daMax } = offsetRanges(offsets, nc);
   // u at a node under a draw is u(obs) 10^(-d_c / slope): the extreme factors
   const rA = 10 ** (-dcMin / slope);
@@ -191,7 +211,6 @@ export function histogramTable(
   const l10uMost = (o: number) => o / slope + negAMax;
   // the rule runs from the limit brightwards to where every draw's u has grown by 40 beyond the
   // plain histogram's bright edge (what an open bin leaves out is below e^-40 of it)
-  const dir = slope > 0 ? 1 : -1;
   const k0 = Math.round(plain.edges[0]! / width);
   const brightEdge = (slope > 0 ? k0 + nb : k0) * width;
   const uEdge = 10 ** l10uLeast(brightEdge);
@@ -201,9 +220,17 @@ export function histogramTable(
   const pole = s.breaks && Number.isFinite(s.breaks.scale) ? Math.PI * s.breaks.scale : Infinity;
   const scale = LN10 / Math.abs(slope);
   const obsOfK = (k: number) => roundEdge(k * width);
-  // grid bins from the limit's to the far end's
-  const kLimit = slope > 0 ? Math.floor(obsLim / width + 1e-9) : Math.ceil(obsLim / width - 1e-9) - 1;
-  if (!Number.isFinite(oFar)) return undefined;
+  // grid bins from the limit's to the far end's; limits that differ from node to node: from the
+  // first bin whose faint edge is brighter than every limit (the bins before it: limitBins)
+  const kLimit = oneLimit
+    ? slope > 0
+      ? Math.floor(obsLim / width + 1e-9)
+      : Math.ceil(obsLim / width - 1e-9) - 1
+    : slope > 0
+      ? Math.floor(limBright / width) + 1
+      : Math.ceil(limBright / width) - 2;
+  const startObs = oneLimit ? obsLim : obsOfK(slope > 0 ? kLimit : kLimit + 1);
+  if (!Number.isFinite(oFar) || dir * (oFar - startObs) <= 0) return undefined;
   const pk: number[] = [];
   const po: number[] = [];
   const pw: number[] = [];
@@ -216,7 +243,7 @@ export function histogramTable(
     const faintEdge = slope > 0 ? lowEdge : highEdge;
     const brightEdgeK = slope > 0 ? highEdge : lowEdge;
     // the part beyond the limit, up to the far end
-    const from = k === kLimit ? obsLim : faintEdge;
+    const from = k === kLimit ? startObs : faintEdge;
     const to = dir * (brightEdgeK - oFar) >= 0 ? oFar : brightEdgeK;
     const isConstant = !s.completeness || !varying || highEdge <= varying[0] || lowEdge >= varying[1];
     constantFrom.push(isConstant ? 1 : 0);
@@ -313,6 +340,14 @@ export function histogramTable(
     }
     series.push({ x0, len, parts });
   }
+  // the bins from the faintest limit's to the rule's first
+  const limitBins: LimitBin[] = [];
+  if (!oneLimit) {
+    const kFaint = slope > 0 ? Math.floor(limFaint / width + 1e-9) : Math.ceil(limFaint / width - 1e-9) - 1;
+    for (let k = kFaint; k !== kLimit; k += dir) {
+      limitBins.push(limitBin(f, finite, slope, obsOfK(slope > 0 ? k : k + 1), obsOfK(slope > 0 ? k + 1 : k), k));
+    }
+  }
   let nxMax = 1;
   for (const c of series) if (c) for (const q of c.parts) nxMax = Math.max(nxMax, q.nx);
   // the points up to the plain histogram's bright edge (a draw whose open bin lies beyond it needs no more)
@@ -333,12 +368,72 @@ export function histogramTable(
     alphaRef,
     nodeA: Float64Array.from(finite, (i) => f.a[i]!),
     nodeL10u: Float64Array.from(finite, (i) => f.l10u[i]!),
+    limitBins,
     slope,
     width,
     sums: new Float64Array(kCount),
     row: new Float64Array(nxMax * Math.max(1, ...series.map((c) => c?.parts.length ?? 1))),
     rowN: nxMax,
   };
+}
+
+/**
+ * A bin that holds some node's limit (the limit tabulated in z), per component the nodes that count
+ * in it: their weight V_i phi*_ik, alpha, and log10 u at the bin's faint end (its faint edge or the
+ * node's limit, whichever is brighter) and at its bright edge, before the draw's shift.
+ */
+interface LimitBin {
+  k: number;
+  parts: { w: Float64Array; alpha: Float64Array; lo: Float64Array; hi: Float64Array }[];
+}
+
+/**
+ * The bin [faint, bright] in obs (its bright edge brighter than the faintest limit) under a limit
+ * that differs from node to node: each draw counts it as the exact path (histogramCount,
+ * src/counts/engine.ts) does, V_i phi*_ik (Gamma(s, u_i at the faint end) - Gamma(s, u_i at the
+ * bright edge)), s = alpha_ik + d_alpha + 1, over the nodes whose limit is fainter than the bright
+ * edge, u_i at obs o 10^((o - a_i - d_c) / slope) (the limits stay where they are in obs). Such bins
+ * are few (the limits' spread over the bin width, plus one) and hold few nodes, so a draw costs
+ * two incomplete gamma functions per node in them (a series over the offsets would cost more at
+ * a hundred draws).
+ */
+function limitBin(
+  f: HistogramNodes,
+  finite: readonly number[],
+  slope: number,
+  faint: number,
+  bright: number,
+  k: number,
+): LimitBin {
+  const parts = f.phi.map((phiK, c) => {
+    const used = finite.filter((i) => f.vw[i]! * phiK[i]! > 0 && (bright - f.a[i]!) / slope > f.l10u[i]!);
+    return {
+      w: Float64Array.from(used, (i) => f.vw[i]! * phiK[i]!),
+      alpha: Float64Array.from(used, (i) => f.alpha[c]![i]!),
+      lo: Float64Array.from(used, (i) => Math.max((faint - f.a[i]!) / slope, f.l10u[i]!)),
+      hi: Float64Array.from(used, (i) => (bright - f.a[i]!) / slope),
+    };
+  });
+  return { k, parts };
+}
+
+/** A bin holding some node's limit under a draw (limitBin). */
+function limitBinCount(lb: LimitBin, o: ModelOffsets, slope: number): number {
+  const shift = -o.characteristic / slope;
+  let v = 0;
+  for (let k = 0; k < lb.parts.length; k++) {
+    const { w, alpha, lo, hi } = lb.parts[k]!;
+    if (w.length === 0) continue;
+    const dPhi = o.log10PhiStar[k]!;
+    const phiScale = dPhi ? 10 ** dPhi : 1;
+    const da = o.alpha[k]!;
+    for (let q = 0; q < w.length; q++) {
+      const sOrder = alpha[q]! + da + 1;
+      const d = upperGamma(sOrder, 10 ** (lo[q]! + shift)) - upperGamma(sOrder, 10 ** (hi[q]! + shift));
+      if (d > 0) v += w[q]! * phiScale * d;
+    }
+  }
+  return v;
 }
 
 /** A Chebyshev series of the values lnG(x, y) (already logarithms), doubling the points until the tail is below the tolerance. */
@@ -399,6 +494,9 @@ export function histogramFromTable(tb: HistogramTable, o: ModelOffsets, out: Flo
   const dk1 = Math.max(dk0 + 1, Math.ceil(obsMax / width - 1e-9));
   if (!(dk1 - dk0 <= CAPS.histogramBins)) return false;
   const kBright = slope > 0 ? dk1 - 1 : dk0;
+  const limitBins = tb.limitBins;
+  // (an open bin among those holding a limit: the exact path)
+  for (const lb of limitBins) if (lb.k === kBright) return false;
   // the sums of the rule's points per grid bin, up to the plain histogram's bright edge unless the
   // draw's open bin lies within it and counts to infinity
   const dir = slope > 0 ? 1 : -1;
@@ -459,6 +557,7 @@ export function histogramFromTable(tb: HistogramTable, o: ModelOffsets, out: Flo
     const at = k - tb.kLo;
     if (at < 0 || at >= tb.kCount) {
       out[bin] = 0;
+      for (const lb of limitBins) if (lb.k === k) out[bin] = limitBinCount(lb, o, slope);
       continue;
     }
     if (k !== kBright || !tb.constant[at]) {

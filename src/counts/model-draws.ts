@@ -16,14 +16,13 @@
  * (SliceTables where the completeness varies, hardTables under a hard limit).
  *
  * Draws: from a multivariate normal, d = L xi with L the Cholesky factor of the covariance and xi
- * standard normal from a Mersenne Twister stream (Matsumoto & Nishimura 1998;
- * @stdlib/random-base-mt19937) seeded with [seed, population index] (init_by_array), xi drawn
+ * standard normal (improved ziggurat, Doornik 2005) from a Mersenne Twister stream (Matsumoto & Nishimura 1998;
+ * src/numerics/random.ts, the numbers of @stdlib/random-base-normal and -mt19937) seeded with [seed, population index] (init_by_array), xi drawn
  * parameter by parameter in the order the file lists them, draw after draw; or every row of a
  * draws file once. Percentiles interpolate linearly between order statistics (Hyndman & Fan 1996,
  * type 7, numpy's default).
  */
-import mt19937 from '@stdlib/random-base-mt19937';
-import normalRng from '@stdlib/random-base-normal';
+import { Mt19937, normalDeviates } from '../numerics/random.js';
 import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
@@ -66,11 +65,10 @@ export function drawModelOffsets(
   stream: number,
 ): ModelOffsets[] {
   if (mu.kind === 'draws') return mu.offsets.map((row) => modelOffsets(mu.parameters, row, components));
-  // The factory's generator carries .normalized (uniform on [0, 1), 53 bits) at run time.
-  const rng = mt19937.factory({ seed: new Uint32Array([seed >>> 0, stream >>> 0]) }) as unknown as {
-    normalized: () => number;
-  };
-  const gauss = normalRng.factory(0, 1, { prng: rng.normalized });
+  // (the numbers of @stdlib/random-base-normal's factory(0, 1, { prng }) with prng the normalized
+  // output of @stdlib/random-base-mt19937 seeded with [seed, stream]: src/numerics/random.ts)
+  const normal = normalDeviates(new Mt19937([seed >>> 0, stream >>> 0]));
+  const gauss = () => 0 + 1 * normal();
   const k = mu.parameters.length;
   const xi = new Float64Array(k);
   const d = new Float64Array(k);
@@ -458,8 +456,15 @@ export const drawPaths = { tabulated: 0, exact: 0 };
 export const TABLE_MIN_DRAWS = 64;
 /** Tail of the Chebyshev coefficients accepted, relative to max(1, the largest |ln|) (see SliceTables). */
 export const TABLE_TOLERANCE = 1e-10;
+/**
+ * The points a population's first slice starts from: where the completeness varies (SliceTables,
+ * whose count and luminosity share their points, doubled, so that the count's points do not
+ * depend on whether the luminosity is asked for), and under a hard limit (hardTables: count and
+ * luminosity each on points of their own, grown by morePoints).
+ */
 const TABLE_POINTS: [number, number] = [16, 8];
-/** The points each level starts from: TABLE_POINTS for a population's first slice, then what the slice before needed. */
+const HARD_TABLE_POINTS: [number, number] = [10, 8];
+/** The points each level starts from: TABLE_POINTS (HARD_TABLE_POINTS) for a population's first slice, then what the slice before needed. */
 interface TableStart {
   node: [number, number];
   slice: [number, number];
@@ -471,8 +476,8 @@ const TABLE_MAX_POINTS: [number, number] = [64, 32];
 /**
  * Chebyshev series of ln g over [x0, x1] x [y0, y1] (g evaluated a row of points at a time: at
  * one x and every y, values returned together for several functions, out[m][j] the m-th at the
- * j-th y), doubling the points until the tail is small. Undefined when a value is not positive
- * and finite or the tail stays large.
+ * j-th y), doubling the points (`grow`: adding as many as morePoints says) until the tail is
+ * small. Undefined when a value is not positive and finite or the tail stays large.
  */
 function logSeries(
   x0: number,
@@ -483,6 +488,7 @@ function logSeries(
   g: (x: number, ys: Float64Array, out: Float64Array[]) => void,
   start: [number, number],
   keep?: { values?: Float64Array[] },
+  grow = false,
 ): Chebyshev2D[] | undefined {
   let [nx, ny] = start;
   if (!(x1 > x0)) nx = 1;
@@ -516,9 +522,34 @@ function logSeries(
       return series;
     }
     if ((moreX && nx >= TABLE_MAX_POINTS[0]) || (moreY && ny >= TABLE_MAX_POINTS[1])) return undefined;
-    if (moreX) nx *= 2;
-    if (moreY) ny *= 2;
+    const tol = TABLE_TOLERANCE * big;
+    if (moreX) nx = grow ? morePoints(series, true, tol, TABLE_MAX_POINTS[0]) : 2 * nx;
+    if (moreY) ny = grow ? morePoints(series, false, tol, TABLE_MAX_POINTS[1]) : 2 * ny;
   }
+}
+
+/**
+ * The points to take next along x (or y) where the series' tail there is too large: where their
+ * coefficients fall geometrically (rate rho per degree, from the second half of them: the
+ * magnitude of each row (or column) the sum of its |coefficients|, as chebyshevTail takes it, the
+ * largest over the series), as many more as bring the tail to a quarter of the tolerance, plus one;
+ * at least two more and at most twice as many (the doubling without a rate), and within the cap.
+ */
+function morePoints(series: readonly Chebyshev2D[], alongX: boolean, tol: number, cap: number): number {
+  const n = alongX ? series[0]!.nx : series[0]!.ny;
+  const m = new Float64Array(n);
+  for (const c of series) {
+    const row = new Float64Array(n);
+    for (let i = 0; i < c.nx; i++)
+      for (let j = 0; j < c.ny; j++) row[alongX ? i : j] = row[alongX ? i : j]! + Math.abs(c.coef[i * c.ny + j]!);
+    for (let k = 0; k < n; k++) m[k] = Math.max(m[k]!, row[k]!);
+  }
+  const tail = Math.max(m[n - 1]!, m[n - 2]!);
+  const h = Math.floor(n / 2);
+  const rho = (tail / Math.max(m[h]!, m[h - 1]!)) ** (1 / (n - 1 - h));
+  let next = 2 * n;
+  if (rho > 0 && rho < 1) next = n + Math.ceil(Math.log(tol / (4 * tail)) / Math.log(rho)) + 1;
+  return Math.min(cap, Math.max(n + 2, Math.min(2 * n, next)));
 }
 
 /** Whether the series' coefficient tails along x and along y exceed TABLE_TOLERANCE x big. */
@@ -570,6 +601,7 @@ const LEVEL1_MOVES = 32;
 export function forgetLevel1Series(): void {
   level1Kept.clear();
   level1ByShape.clear();
+  level2Kept.clear();
 }
 
 /** Level-1 series moved (made from the series at another limit) and made afresh, since the start (tests, benchmarks). */
@@ -746,34 +778,89 @@ function sliceTables(
     // a row (one d_c): per node, the level-1 series at its t as a series in alpha, then at each d_alpha
     const row0 = new Float64Array(j0.ny);
     const row1 = new Float64Array(j1?.ny ?? 0);
-    const series = logSeries(
-      dcMin,
-      dcMax,
-      daMin[k]!,
-      daMax[k]!,
-      withLum ? 2 : 1,
-      (dc, das, got) => {
-        const n = got[0]!.fill(0);
-        const l = withLum ? got[1]!.fill(0) : undefined;
-        for (const i of used) {
-          const w = f.vw[i]! * phiK[i]!;
-          const t = f.a[i]! + dc;
-          chebyshevAlongY(j0, t, row0);
-          if (j1) chebyshevAlongY(j1, t, row1);
-          for (let q = 0; q < das.length; q++) {
-            const al = alphaK[i]! + das[q]!;
-            n[q] = n[q]! + w * Math.exp(chebyshevAtY(j0, row0, al));
-            if (j1 && l) l[q] = l[q]! + w * f.lumScale[i]! * Math.exp(chebyshevAtY(j1, row1, al));
+    const series = sliceLevelKept(j0, j1, f, k, used, dcMin, dcMax, daMin[k]!, daMax[k]!, withLum, start, () =>
+      logSeries(
+        dcMin,
+        dcMax,
+        daMin[k]!,
+        daMax[k]!,
+        withLum ? 2 : 1,
+        (dc, das, got) => {
+          const n = got[0]!.fill(0);
+          const l = withLum ? got[1]!.fill(0) : undefined;
+          for (const i of used) {
+            const w = f.vw[i]! * phiK[i]!;
+            const t = f.a[i]! + dc;
+            chebyshevAlongY(j0, t, row0);
+            if (j1) chebyshevAlongY(j1, t, row1);
+            for (let q = 0; q < das.length; q++) {
+              const al = alphaK[i]! + das[q]!;
+              n[q] = n[q]! + w * Math.exp(chebyshevAtY(j0, row0, al));
+              if (j1 && l) l[q] = l[q]! + w * f.lumScale[i]! * Math.exp(chebyshevAtY(j1, row1, al));
+            }
           }
-        }
-      },
-      start.slice,
+        },
+        start.slice,
+      ),
     );
     if (!series) return undefined;
     out.count.push(series[0]);
     out.lum.push(series[1]);
   }
   return out;
+}
+
+/**
+ * Level-2 series made so far, by everything they depend on: the level-1 series (the same objects:
+ * kept, or moved to a limit for an explore page only), the slice's nodes that detect (volume
+ * weight, phi*, a, alpha and the luminosity's scale of each), the draws' ranges, the luminosity and
+ * the points started from, with the points they ended at. The same inputs make the same series,
+ * so a slice an explore page's change leaves as it was (the window's other end) reads them. The
+ * last LEVEL2_KEPT are kept.
+ */
+const level2Kept = new Map<string, { series: Chebyshev2D[] | undefined; ended: [number, number] }>();
+const LEVEL2_KEPT = 64;
+/** Level-2 series read from those kept and made, since the start (tests, benchmarks). */
+export const level2Paths = { kept: 0, made: 0 };
+const seriesIds = new WeakMap<Chebyshev2D, number>();
+let seriesCount = 0;
+
+function seriesId(c: Chebyshev2D | undefined): number {
+  if (!c) return -1;
+  let id = seriesIds.get(c);
+  if (id === undefined) seriesIds.set(c, (id = ++seriesCount));
+  return id;
+}
+
+function sliceLevelKept(
+  j0: Chebyshev2D,
+  j1: Chebyshev2D | undefined,
+  f: SliceNodes,
+  k: number,
+  used: readonly number[],
+  dcMin: number,
+  dcMax: number,
+  daMin: number,
+  daMax: number,
+  withLum: boolean,
+  start: TableStart,
+  make: () => Chebyshev2D[] | undefined,
+): Chebyshev2D[] | undefined {
+  const parts = [seriesId(j0), seriesId(j1), dcMin, dcMax, daMin, daMax, withLum, start.slice[0], start.slice[1]];
+  for (const i of used) parts.push(i, f.vw[i]!, f.phi[k]![i]!, f.a[i]!, f.alpha[k]![i]!, f.lumScale[i]!);
+  const key = parts.join(' ');
+  const kept = level2Kept.get(key);
+  level2Paths[kept ? 'kept' : 'made']++;
+  if (kept) {
+    start.slice[0] = kept.ended[0];
+    start.slice[1] = kept.ended[1];
+    return kept.series;
+  }
+  const series = make();
+  level2Kept.delete(key);
+  if (level2Kept.size >= LEVEL2_KEPT) level2Kept.delete(level2Kept.keys().next().value!);
+  level2Kept.set(key, { series, ended: [start.slice[0], start.slice[1]] });
+  return series;
 }
 
 /**
@@ -807,7 +894,10 @@ function hardTables(
       continue;
     }
     // the count and the luminosity each a series of its own, so that the counts' tables are the
-    // same with and without the luminosity
+    // same with and without the luminosity; the luminosity's at the points of the count's reads
+    // the incomplete gamma functions the count made there (by row: d_c, the first d_alpha and
+    // the row's length)
+    const made = new Map<string, Float64Array>();
     const table = (lum: boolean) =>
       logSeries(
         dcMin,
@@ -818,19 +908,29 @@ function hardTables(
         (dc, das, got) => {
           const v = got[0]!.fill(0);
           const shift = -dc / slope;
+          const key = `${dc} ${das[0]} ${das.length}`;
+          const kept = lum ? made.get(key) : undefined;
+          const gammas = kept ?? (withLum && !lum ? new Float64Array(used.length * das.length) : undefined);
+          if (!lum && gammas) made.set(key, gammas);
+          let at = 0;
           for (const i of used) {
             const lu = f.l10u[i]! + shift;
             const u = 10 ** lu;
             const w = f.vw[i]! * phiK[i]!;
-            for (let q = 0; q < das.length; q++) {
+            for (let q = 0; q < das.length; q++, at++) {
               const sOrder = alphaK[i]! + das[q]! + 1;
-              const g = upperGamma(sOrder, u);
-              if (!lum) v[q] = v[q]! + w * g;
-              else if (g > 0) v[q] = v[q]! + w * f.lumScale[i]! * (sOrder * g + Math.exp(sOrder * lu * Math.LN10 - u));
+              const g = kept ? kept[at]! : upperGamma(sOrder, u);
+              if (!lum) {
+                if (gammas) gammas[at] = g;
+                v[q] = v[q]! + w * g;
+              } else if (g > 0)
+                v[q] = v[q]! + w * f.lumScale[i]! * (sOrder * g + Math.exp(sOrder * lu * Math.LN10 - u));
             }
           }
         },
         lum ? start.lum : start.slice,
+        undefined,
+        true,
       );
     const count = table(false);
     const lum = withLum ? table(true) : undefined;
@@ -917,7 +1017,8 @@ export function populationDraws(
     population.variable === 'luminosity' ? 10 ** o.characteristic : 10 ** (-0.4 * o.characteristic),
   );
   const res = { count: 0, detected: 0, total: 0 as number | undefined };
-  const start: TableStart = { node: [...TABLE_POINTS], slice: [...TABLE_POINTS], lum: [...TABLE_POINTS] };
+  const first = s.completeness ? TABLE_POINTS : HARD_TABLE_POINTS;
+  const start: TableStart = { node: [...first], slice: [...first], lum: [...first] };
   slices.forEach((sl, j) => {
     const f = flatten(sl.drawNodes ?? []);
     const tables =
@@ -961,8 +1062,12 @@ export function populationDraws(
   return out;
 }
 
-/** Slices whose draws' histograms came from a table and from the exact path, since the start (for tests and benchmarks). */
-export const histogramPaths = { tabulated: 0, exact: 0 };
+/**
+ * Slices whose draws' histograms came from a table and from the exact path, and draws of a
+ * tabulated slice that took the exact path (their bins beyond the table's reach), since the start
+ * (for tests and benchmarks).
+ */
+export const histogramPaths = { tabulated: 0, exact: 0, exactDraws: 0 };
 
 /** Draws from which the histograms are tabulated (model-draws-histograms.ts; a table costs about two exact histograms). */
 export const HISTOGRAM_TABLE_MIN_DRAWS = 8;
@@ -1006,9 +1111,10 @@ function histogramDraws(
         return;
       }
       if (table && histogramFromTable(table, o, one)) {
-        one.forEach((c, b) => (bins[b]![i] = c));
+        for (let b = 0; b < nb; b++) bins[b]![i] = one[b]!;
         return;
       }
+      if (table) histogramPaths.exactDraws++;
       const moved = nodes.map((nd) => shifted(nd, o, slope, lumFactors[i]!));
       const h = histogramCount(
         moved,

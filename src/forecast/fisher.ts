@@ -16,7 +16,7 @@
  */
 import type { DensityGrid } from './grid.js';
 import { sliceCount } from './grid.js';
-import { inverseSpd, zeros, type Matrix } from './linalg.js';
+import { inverseSpd, zeros, type Matrix } from '../numerics/linalg.js';
 import { addSliceSums } from './slice-sums.js';
 
 const LN10 = Math.LN10;

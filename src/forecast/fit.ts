@@ -21,7 +21,7 @@ import type { DensityGrid } from './grid.js';
 import { expectedCounts, sliceCount } from './grid.js';
 import type { CatalogueStats } from './sampler.js';
 import { maximise, type Evaluation } from './optimise.js';
-import { zeros } from './linalg.js';
+import { zeros } from '../numerics/linalg.js';
 
 const LN10 = Math.LN10;
 /** A fit whose offsets leave this box is counted as failed. */

@@ -41,7 +41,7 @@ import { completenessBreaks, completenessFunction } from '../selection/completen
 import { populationAt } from '../population/model.js';
 import { characteristicShift } from './parameters.js';
 import type { FisherParts } from './fisher.js';
-import { zeros } from './linalg.js';
+import { zeros } from '../numerics/linalg.js';
 import { addSliceSums } from './slice-sums.js';
 
 const LN10 = Math.LN10;

@@ -30,7 +30,7 @@ import {
   type FisherParts,
   type FisherSummary,
 } from './fisher.js';
-import { zeros } from './linalg.js';
+import { zeros } from '../numerics/linalg.js';
 import { addSliceSums } from './slice-sums.js';
 import { drawReach, drawSumsTable, seriesPasses, type DrawSumsOptions } from './draw-sums.js';
 

@@ -5,7 +5,7 @@
  * refused and mu grows ten-fold; an accepted step lowers mu three-fold. Stops when the Newton
  * decrement g^T (-H)^-1 g / 2 (the expected gain) is below `tol` with -H positive definite.
  */
-import { cholesky, choleskySolve, type Matrix } from './linalg.js';
+import { cholesky, choleskySolve, type Matrix } from '../numerics/linalg.js';
 
 export interface Evaluation {
   value: number;

@@ -9,6 +9,8 @@ export interface ExploreOutput {
   value: number;
   /** fraction: shown as a percentage; count: an expected number; plain: as it is. */
   kind: 'count' | 'fraction' | 'plain';
+  /** The number is still to come (the model's draws, drawn after the rest: value NaN, not shown). */
+  pending?: true;
 }
 
 /** One row of the slice table (output names `slice-<row>-count`, ...; rows counted from 1). */
@@ -22,6 +24,8 @@ export interface ExploreSliceRow {
   total?: number;
   /** The model uncertainty's fraction, when the population states one. */
   model?: number;
+  /** The model's fraction is still to come (drawn after the rest of the page's numbers). */
+  modelPending?: true;
 }
 
 export interface CountsFigureData {

@@ -125,19 +125,33 @@ export function luminosityFunctionBand(
   const magnitude = p.variable === 'magnitude';
   const knee = magnitude ? at.characteristic : Math.log10(at.characteristic);
   const n = offsets.length;
-  const values = x.map(() => new Float64Array(n));
-  offsets.forEach((o, d) => {
+  const nx = x.length;
+  const nc = at.components.length;
+  // values[i * n + d]: phi at x[i] under draw d. Each term is schechterMagnitude's (or
+  // schechterPerDex's) own arithmetic in its own order, with the factor in front of u^(alpha+1)
+  // (0.4 ln10 phi*, or ln10 phi*) and alpha + 1 made once per draw and component: the same
+  // numbers, bit for bit, at a fraction of the cost (a report draws some 10^6 of them).
+  const values = new Float64Array(nx * n);
+  const front = new Float64Array(nc);
+  const power = new Float64Array(nc);
+  const scale = magnitude ? 0.4 * Math.LN10 : Math.LN10;
+  for (let d = 0; d < n; d++) {
+    const o = offsets[d]!;
     const k = knee + o.characteristic;
-    x.forEach((xi, i) => {
+    for (let j = 0; j < nc; j++) {
+      const c = at.components[j]!;
+      front[j] = scale * (c.phiStar * 10 ** (o.log10PhiStar[j] ?? 0));
+      power[j] = c.alpha + (o.alpha[j] ?? 0) + 1;
+    }
+    for (let i = 0; i < nx; i++) {
+      const e = magnitude ? 0.4 * (k - x[i]!) : x[i]! - k;
+      const u = 10 ** e;
+      const tail = Math.exp(-u);
       let v = 0;
-      at.components.forEach((c, j) => {
-        const phiStar = c.phiStar * 10 ** (o.log10PhiStar[j] ?? 0);
-        const alpha = c.alpha + (o.alpha[j] ?? 0);
-        v += magnitude ? schechterMagnitude(xi, phiStar, k, alpha) : schechterPerDex(xi, phiStar, k, alpha);
-      });
-      values[i]![d] = v;
-    });
-  });
+      for (let j = 0; j < nc; j++) v += front[j]! * u ** power[j]! * tail;
+      values[i * n + d] = v;
+    }
+  }
   const pct = (sorted: Float64Array, q: number) => {
     const h = (sorted.length - 1) * q;
     const lo = Math.floor(h);
@@ -146,8 +160,8 @@ export function luminosityFunctionBand(
   };
   const p16: number[] = [];
   const p84: number[] = [];
-  for (const v of values) {
-    v.sort();
+  for (let i = 0; i < nx; i++) {
+    const v = values.subarray(i * n, (i + 1) * n).sort();
     p16.push(pct(v, 0.16));
     p84.push(pct(v, 0.84));
   }

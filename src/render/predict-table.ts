@@ -174,6 +174,19 @@ export function uncertaintyNote(totals: PredictionTotals, what = "the total's"):
   );
 }
 
+/** The total's uncertainty note and its sources of uncertainty, where there are any. */
+function pushTotalNotes(out: string[], p: Prediction): void {
+  const note = uncertaintyNote(p.totals);
+  if (note) out.push(note);
+  const sources = sourcesSentence(
+    'Sources of uncertainty of the total',
+    p.totals.count,
+    p.totals.uncertainty,
+    p.totals.model,
+  );
+  if (sources) out.push(sources);
+}
+
 export function predictionTable(p: Prediction): string {
   const multi = p.populations.length > 1;
   const out = [...predictionHeader(p)];
@@ -194,27 +207,11 @@ export function predictionTable(p: Prediction): string {
       });
     }
     out.push(slicesTable(p, p.slices, p.totals, columns));
-    const note = uncertaintyNote(p.totals);
-    if (note) out.push(note);
-    const sources = sourcesSentence(
-      'Sources of uncertainty of the total',
-      p.totals.count,
-      p.totals.uncertainty,
-      p.totals.model,
-    );
-    if (sources) out.push(sources);
+    pushTotalNotes(out, p);
   } else {
     out.push('Every population over its own window (the survey detects them all):');
     out.push(populationsTable(p));
-    const note = uncertaintyNote(p.totals);
-    if (note) out.push(note);
-    const sources = sourcesSentence(
-      'Sources of uncertainty of the total',
-      p.totals.count,
-      p.totals.uncertainty,
-      p.totals.model,
-    );
-    if (sources) out.push(sources);
+    pushTotalNotes(out, p);
     out.push(
       `Detections per bin of ${OBSERVED_HEADINGS[p.observed_bins.variable] ?? p.observed_bins.variable}, every population over its own window ` +
         `(share: the interloper fraction; bins with under ${100 * OBSERVED_TABLE_FLOOR}% of the detections at either end are left out here, not in the JSON or CSV):`,

@@ -8,7 +8,7 @@ import { isAbsolute, resolve } from 'node:path';
 import { excerpt, inputError } from '../errors.js';
 import type { InputFile } from '../model/survey.js';
 import { modelParameterNames, type ModelParameter, type ModelUncertainty } from '../model/model-uncertainty.js';
-import { cholesky } from '../numerics/cholesky.js';
+import { cholesky } from '../numerics/linalg.js';
 import { readInputText } from './read-input.js';
 import { fmt } from './zparam.js';
 
@@ -194,7 +194,7 @@ export function parseModelUncertainty(raw: unknown, ctx: ModelUncertaintyContext
       rho[j]![i] = value;
     }
   }
-  const l = cholesky(rho);
+  const l = cholesky(rho, 1e-14);
   if (!l) {
     throw inputError(
       'not_positive_definite',

@@ -14,33 +14,15 @@
  */
 import { closeSync, constants, fstatSync, openSync, readSync, type Stats } from 'node:fs';
 import { inputError, type ErrorCode } from '../errors.js';
-import type { InputFile } from '../model/survey.js';
+import {
+  MAX_SURVEY_BYTES,
+  MAX_TABLE_BYTES,
+  type InputFile,
+  type InputText,
+  type ReadInputOptions,
+} from './input-limits.js';
 
-export type { InputFile };
-
-export interface InputText extends InputFile {
-  text: string;
-}
-
-export interface ReadInputOptions {
-  /** Largest size accepted, bytes. */
-  maxBytes: number;
-  /** What the limit is called in the message, e.g. "256 KiB". */
-  maxLabel: string;
-  /** The file named at the start of a message (the survey file when it names this one). */
-  file: string;
-  /** The survey key that names this file ('' for the survey file itself). */
-  keyPath: string;
-  /** The grammatical subject of the sentence: "the file", "the transmission file \"x.csv\"". */
-  subject: string;
-  /** What to do when the file cannot be found or read. */
-  fix: string;
-}
-
-/** Largest survey file read, bytes (256 KiB: a survey file is a few lines). */
-export const MAX_SURVEY_BYTES = 256 * 1024;
-/** Largest table file read (transmission curves), bytes (1 MiB). */
-export const MAX_TABLE_BYTES = 1024 * 1024;
+export { MAX_SURVEY_BYTES, MAX_TABLE_BYTES, type InputFile, type InputText, type ReadInputOptions };
 
 function openReason(code: string | undefined): string {
   switch (code) {

@@ -6,6 +6,7 @@
  * control, medians over the rounds of:
  *  - page: the update's time as the page measures it (document.body.dataset.updateMs: the engine
  *    (predict, Fisher), then the redraw with the layout it needs), and its parts: engine, draw;
+ *    with model_uncertainty, then the model's draws and their redraw, after a paint (modelMs);
  *  - CPU: the main thread's busy time of the change (the DevTools protocol's TaskDuration between
  *    setting the value and the update done) less the median of the same driver calls that change
  *    nothing (the driver's own evaluations in the page, some 10-20 ms, measured per page).
@@ -53,6 +54,8 @@ interface Timings {
   page: number[];
   engine: number[];
   draw: number[];
+  /** The model's draws and their redraw, after the update (absent without model_uncertainty). */
+  model: number[];
   cpu: number[];
 }
 
@@ -112,10 +115,12 @@ class Opened {
       document.body.dataset.updateMs,
       document.body.dataset.computeMs,
       document.body.dataset.drawMs,
+      document.body.dataset.modelMs,
     ]);
     t.page.push(Number(d[0]));
     t.engine.push(Number(d[1]));
     t.draw.push(Number(d[2]));
+    if (d[3] !== undefined) t.model.push(Number(d[3]));
     t.cpu.push(cpu - this.driver);
   }
 }
@@ -123,7 +128,11 @@ class Opened {
 const fmt = (x: number) => (Number.isFinite(x) ? x.toFixed(1) : '-').padStart(6);
 const least = (xs: number[]) => Math.min(...xs);
 function line(label: string, t: Timings): string {
-  return `${label.padEnd(62)} page ${fmt(median(t.page))} (engine ${fmt(median(t.engine))}, draw ${fmt(median(t.draw))}; least ${fmt(least(t.page))})   CPU ${fmt(median(t.cpu))} (least ${fmt(least(t.cpu))}) ms`;
+  const model =
+    t.model.length > 0
+      ? `; then model ${fmt(median(t.model))} (least ${fmt(least(t.model))}, ${t.model.length} drawn)`
+      : '';
+  return `${label.padEnd(62)} page ${fmt(median(t.page))} (engine ${fmt(median(t.engine))}, draw ${fmt(median(t.draw))}; least ${fmt(least(t.page))})${model}   CPU ${fmt(median(t.cpu))} (least ${fmt(least(t.cpu))}) ms`;
 }
 
 const teardown = await setupTestRun();
@@ -160,7 +169,7 @@ try {
       })),
     );
     for (const c of controls) {
-      const timings = opened.map((): Timings => ({ page: [], engine: [], draw: [], cpu: [] }));
+      const timings = opened.map((): Timings => ({ page: [], engine: [], draw: [], model: [], cpu: [] }));
       for (let i = 0; i <= ROUNDS; i++) {
         // a new value on every round (nothing the page kept from an earlier round serves it),
         // within the control's range (the first round warms up)

@@ -147,6 +147,9 @@ describe('input once reported as an internal failure', () => {
     [['clustering', '--z', '0', '--mass-msun', '1e300'], '--mass-msun'],
     [['clustering', '--z', '1e6'], '--z'],
     [['clustering', '--z', '0', '--omega-b', '0.3'], '--omega-b'],
+    // a survey's cosmology with any cosmology flag: refused, for the background and the power spectrum's flags alike
+    [['clustering', '--z', '1', '--survey', 'samples/deep-continuum.yaml', '--sigma8', '0.8'], '--survey'],
+    [['clustering', '--z', '1', '--survey', 'samples/deep-continuum.yaml', '--h0', '70'], '--survey'],
   ])('%j', async (argv, name) => {
     refused(await runCli(argv), name);
   });

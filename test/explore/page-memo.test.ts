@@ -48,32 +48,40 @@ function moved(c: ControlSpec, step: number): number {
   return Math.min(c.max, Math.max(c.min, v));
 }
 
+/** `what: got` when |got - want| exceeds REL `scale` (NaN included), else nothing. */
+function offBy(got: number, want: number, what: string, scale = Math.abs(want)): string[] {
+  return Math.abs(got - want) <= REL * scale ? [] : [`${what}: ${got}, not ${want}`];
+}
+
+/**
+ * Every output, row and sigma of `a` equals that of `b` to REL relative, everything else equal.
+ * The numbers are compared first and the ones that differ reported together (one expect for all:
+ * the same conditions as one expect per number, at a fraction of the cost).
+ */
 function expectSame(a: ExploreResult, b: ExploreResult, what: string): void {
   expect(a.error, what).toBe(b.error);
   expect(a.outputs.map((o) => o.name)).toEqual(b.outputs.map((o) => o.name));
-  a.outputs.forEach((o, i) => {
-    const want = b.outputs[i]!.value;
-    expect(Math.abs(o.value - want), `${what}: ${o.name}`).toBeLessThanOrEqual(REL * Math.abs(want));
-  });
+  const differ: string[] = [];
+  a.outputs.forEach((o, i) => differ.push(...offBy(o.value, b.outputs[i]!.value, o.name)));
   expect(a.rows.length).toBe(b.rows.length);
   a.rows.forEach((row, i) => {
     const want = b.rows[i]!;
     expect(Object.keys(row)).toEqual(Object.keys(want));
     for (const [k, v] of Object.entries(want)) {
       const got = (row as unknown as Record<string, unknown>)[k];
-      if (typeof v === 'number')
-        expect(Math.abs((got as number) - v), `${what}: row ${i} ${k}`).toBeLessThanOrEqual(REL * Math.abs(v));
-      else expect(got).toBe(v);
+      if (typeof v === 'number') differ.push(...offBy(got as number, v, `row ${i} ${k}`));
+      else if (got !== v) differ.push(`row ${i} ${k}: ${String(got)}, not ${String(v)}`);
     }
   });
   expect(a.fisherNote).toBe(b.fisherNote);
   if (b.fisher) {
-    for (const [x, y] of [
-      [a.fisher!.sigma, b.fisher.sigma],
-      [a.fisher!.sigmaPoisson, b.fisher.sigmaPoisson],
+    for (const [x, y, name] of [
+      [a.fisher!.sigma, b.fisher.sigma, 'sigma'],
+      [a.fisher!.sigmaPoisson, b.fisher.sigmaPoisson, 'sigma (Poisson)'],
     ] as const)
-      y.forEach((want, i) => expect(Math.abs(x[i]! - want), `${what}: sigma`).toBeLessThanOrEqual(REL * want));
+      y.forEach((want, i) => differ.push(...offBy(x[i]!, want, `${name} ${i}`, want)));
   }
+  expect(differ, what).toEqual([]);
 }
 
 describe.each(SAMPLES)('%s', (sample) => {
@@ -101,15 +109,29 @@ describe.each(SAMPLES)('%s', (sample) => {
   });
 });
 
-/** Every number of `a` equals that of `b` to REL relative; everything else equal. */
-function expectClose(a: unknown, b: unknown, path: string): void {
+/**
+ * Every number of `a` equals that of `b` to REL relative; everything else equal (the same keys,
+ * the same other values). What differs is collected with its path, for one expect.
+ */
+function differences(a: unknown, b: unknown, path: string, out: string[] = []): string[] {
   if (typeof b === 'number') {
-    expect(typeof a, path).toBe('number');
-    expect(Math.abs((a as number) - b), path).toBeLessThanOrEqual(REL * Math.abs(b));
+    if (typeof a !== 'number') out.push(`${path}: ${typeof a}, not a number`);
+    else out.push(...offBy(a, b, path));
   } else if (b !== null && typeof b === 'object') {
-    expect(Object.keys(a as object).sort(), path).toEqual(Object.keys(b).sort());
-    for (const [k, v] of Object.entries(b)) expectClose((a as Record<string, unknown>)[k], v, `${path}.${k}`);
-  } else expect(a, path).toBe(b);
+    if (a === null || typeof a !== 'object') {
+      out.push(`${path}: ${String(a)}, not an object`);
+      return out;
+    }
+    const keys = Object.keys(b).sort();
+    const got = Object.keys(a).sort();
+    if (JSON.stringify(got) !== JSON.stringify(keys)) out.push(`${path}: keys ${got.join(',')}, not ${keys.join(',')}`);
+    for (const [k, v] of Object.entries(b)) differences((a as Record<string, unknown>)[k], v, `${path}.${k}`, out);
+  } else if (!Object.is(a, b)) out.push(`${path}: ${String(a)}, not ${String(b)}`);
+  return out;
+}
+
+function expectClose(a: unknown, b: unknown, path: string): void {
+  expect(differences(a, b, path), path).toEqual([]);
 }
 
 describe("the count engine's results kept by inputs", () => {
@@ -135,6 +157,33 @@ describe("the count engine's results kept by inputs", () => {
           memo.count(survey, pop, cosmo, pop.sliceEdges, options),
           countPopulation(survey, pop, cosmo, pop.sliceEdges, options),
           `${sample} ${pop.name} again`,
+        );
+      }
+    },
+  );
+});
+
+describe('slices kept one by one', () => {
+  test.each(SAMPLES)(
+    "%s: after the window's end moved and back, each population's slices equal the engine's over the whole window bit for bit",
+    (sample) => {
+      const survey = loadSurveyFile(`samples/${sample}`);
+      const cosmo = new FlatCosmology(survey.cosmology);
+      const memo = new CountMemo();
+      for (const pop of survey.populations) {
+        const edges = pop.sliceEdges;
+        if (edges.length < 3) continue;
+        const options = { profile: true, drawNodes: pop.modelUncertainty !== undefined };
+        const shorter = [...edges.slice(0, -1), edges.at(-2)! + 0.5 * (edges.at(-1)! - edges.at(-2)!)];
+        const first = memo.count(survey, pop, cosmo, shorter, options);
+        expect(first).toEqual(countPopulation(survey, pop, cosmo, shorter, options));
+        // every slice but the last read from the memory, the last counted on its own
+        expect(memo.count(survey, pop, cosmo, edges, options)).toEqual(
+          countPopulation(survey, pop, cosmo, edges, options),
+        );
+        // and without the draws' nodes, which a population with a model is counted with either way
+        expect(memo.count(survey, pop, cosmo, edges, { profile: true })).toEqual(
+          countPopulation(survey, pop, cosmo, edges, { profile: true }),
         );
       }
     },

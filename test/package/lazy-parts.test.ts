@@ -1,8 +1,8 @@
 /**
  * The built library (dist/index.js, made by scripts/build.mjs) reads mathjs from its own file
  * (dist/mathjs.cjs) only when a survey file holds a unit or an expression the quick readers do not
- * know, and the random-number generators (dist/random.cjs) only when it draws (model draws, mock
- * surveys); either way it gives the numbers the TypeScript sources give (exactly: the same code
+ * know, and the random-number generators (dist/random.cjs) only for mock surveys (the model's
+ * draws take theirs from src/numerics/random.ts, the same numbers); either way it gives the numbers the TypeScript sources give (exactly: the same code
  * runs).
  */
 import { execFileSync } from 'node:child_process';
@@ -74,12 +74,12 @@ describe('mathjs is read only when needed', () => {
   });
 });
 
-describe('the random-number generators are read only to draw', () => {
-  test("a sample with model_uncertainty reads them, and its draws are the sources' exactly", () => {
+describe('the random-number generators are read only for mock surveys', () => {
+  test("a sample with model_uncertainty does not read them, and its draws are the sources' exactly", () => {
     const text = readFileSync('samples/mass-limited.yaml', 'utf8');
     expect(text).toMatch(/^\s*model_uncertainty:/m);
     const r = builtRun(text);
-    expect(r.random).toBe(true);
+    expect(r.random).toBe(false);
     expect(r.mathjs).toBe(false);
     const p = predict(loadSurveyText(text, 'samples/test.yaml'));
     expect(p.totals.model).toBeDefined();

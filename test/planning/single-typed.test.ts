@@ -67,7 +67,11 @@ describe('the single-tier search equals the object-based search exactly', () => 
           const what = `${n} exposures, minimum ${minimumCount}, budget ${budgetHours} h, designs kept: ${keep}`;
           expect(typed.size, what).toBe(objects.designs.length);
           expect(typed.designs(), what).toEqual(objects.designs);
-          for (let i = 0; i < typed.size; i++) expect(typed.design(i), what).toEqual(objects.designs[i]);
+          // each design read one by one (one expect over all of them)
+          expect(
+            Array.from({ length: typed.size }, (_, i) => typed.design(i)),
+            what,
+          ).toEqual(objects.designs);
           expect(typed.gridBestIndex, what).toBe(objects.gridBestIndex);
           expect(typed.best, what).toEqual(objects.best);
           expect(typed.refined, what).toBe(objects.refined);

@@ -7,7 +7,16 @@
  */
 import { describe, expect, test } from 'vitest';
 import { loadSurveyText } from '../../src/survey/index.js';
-import { luminosityFunctionCurve, DEX_ABOVE_KNEE, DEX_BELOW_KNEE } from '../../src/population/curves.js';
+import {
+  luminosityFunctionBand,
+  luminosityFunctionCurve,
+  DEX_ABOVE_KNEE,
+  DEX_BELOW_KNEE,
+} from '../../src/population/curves.js';
+import { populationAt } from '../../src/population/model.js';
+import { drawModelOffsets } from '../../src/counts/model-draws.js';
+import type { ModelOffsets } from '../../src/model/model-uncertainty.js';
+import type { Population } from '../../src/model/population.js';
 import { schechterMagnitude, schechterPerDex } from '../../src/population/schechter.js';
 
 const REL = 1e-12;
@@ -127,5 +136,101 @@ describe('per magnitude, magnitude variable (closed form)', () => {
     );
     expect(curve.x[curve.x.length - 1]!).toBeGreaterThan(curve.limit);
     expect(curve.x[0]!).toBeCloseTo(mStar - 2.5 * DEX_ABOVE_KNEE, 9);
+  });
+});
+
+/**
+ * The band written the plain way: for each draw, phi at every x from schechterPerDex /
+ * schechterMagnitude with that draw's phi*_c 10^(d_phi_c), alpha_c + d_alpha_c and knee + d_c
+ * summed over the components; per x the draws sorted and the 16th and 84th percentiles taken
+ * linearly between order statistics (Hyndman & Fan 1996 type 7, numpy's default).
+ */
+function plainBand(p: Population, z: number, x: number[], offsets: ModelOffsets[]): { p16: number[]; p84: number[] } {
+  const at = populationAt(p, z);
+  const magnitude = p.variable === 'magnitude';
+  const knee = magnitude ? at.characteristic : Math.log10(at.characteristic);
+  const type7 = (s: number[], q: number) => {
+    const h = (s.length - 1) * q;
+    const lo = Math.floor(h);
+    const hi = Math.min(lo + 1, s.length - 1);
+    return s[lo]! + (h - lo) * (s[hi]! - s[lo]!);
+  };
+  const p16: number[] = [];
+  const p84: number[] = [];
+  for (const xi of x) {
+    const phis = offsets.map((o) => {
+      let v = 0;
+      at.components.forEach((c, j) => {
+        const phiStar = c.phiStar * 10 ** (o.log10PhiStar[j] ?? 0);
+        const alpha = c.alpha + (o.alpha[j] ?? 0);
+        const k = knee + o.characteristic;
+        v += magnitude ? schechterMagnitude(xi, phiStar, k, alpha) : schechterPerDex(xi, phiStar, k, alpha);
+      });
+      return v;
+    });
+    phis.sort((a, b) => a - b);
+    p16.push(type7(phis, 0.16));
+    p84.push(type7(phis, 0.84));
+  }
+  return { p16, p84 };
+}
+
+describe("the band over the model's draws", () => {
+  const doubleSurvey = loadSurveyText(
+    `format: 1
+title: curve test, band
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1
+redshift: {min: 0.2, max: 1.2}
+detection: {kind: threshold, limit: 10.2}
+population:
+  variable: luminosity
+  shape: double_schechter
+  quantity: stellar mass [Msun]
+  log10_l_star: "10.7 + 0.05*z"
+  phi_star_1: 3.3e-3
+  alpha_1: -0.55
+  phi_star_2: 6.1e-4
+  alpha_2: -1.52
+  model_uncertainty:
+    log10_phi_star_1: 0.07
+    log10_phi_star_2: 0.11
+    alpha_1: 0.1
+    alpha_2: 0.09
+    log10_l_star: 0.05
+`,
+    'curve-band-double.yaml',
+  );
+  const magnitudeBand = loadSurveyText(
+    `format: 1
+title: curve test, magnitude band
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1
+redshift: {min: 3, max: 5}
+detection: {kind: magnitude, limit: 28, band: "1.5 um"}
+population:
+  variable: magnitude
+  rest_wavelength: 1500
+  phi_star: 1.7e-3
+  m_star: "-20.9 + 0.2*(z - 4)"
+  alpha: -1.83
+  model_uncertainty: {log10_phi_star: 0.09, m_star: 0.15, alpha: 0.12, correlation: {m_star-alpha: 0.5}}
+`,
+    'curve-band-mag.yaml',
+  );
+  test.each([
+    ['double Schechter, luminosity', doubleSurvey, 0.7, 10.2],
+    ['single Schechter, magnitude', magnitudeBand, 4.2, -19.1],
+  ] as const)('%s: p16 and p84 bit for bit those of the plain form (400 draws)', (_, survey, z, limit) => {
+    const p = survey.populations[0]!;
+    const offsets = drawModelOffsets(p.modelUncertainty!, p.components.length, 400, 7, 0);
+    const curve = luminosityFunctionCurve(p, z, limit);
+    const band = luminosityFunctionBand(p, z, curve.x, offsets);
+    const plain = plainBand(p, z, curve.x, offsets);
+    expect(band.draws).toBe(400);
+    expect(band.p16).toEqual(plain.p16);
+    expect(band.p84).toEqual(plain.p84);
+    // the band spreads: p16 below p84 where phi is above underflow
+    expect(band.p16.some((v, i) => v < band.p84[i]!)).toBe(true);
   });
 });

@@ -7,14 +7,13 @@
  * through the command, is shown as text and never run. Skipped, with a message, only when
  * /usr/bin/chromium is absent (.ci/run installs it through .ci/chromium.sh).
  */
-import { copyFileSync, existsSync, mkdirSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { copyFileSync, existsSync, mkdirSync, readFileSync, readdirSync, rmSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { chromium, type BrowserContext } from 'playwright-core';
-import { runCli } from '../cli/helpers.js';
 import { tempDir } from '../support/temp.js';
-import { sampleReport } from '../support/sample-reports.js';
+import { HOSTILE_TITLE, hostileTitleReport, sampleReport } from '../support/sample-reports.js';
 
 const CHROMIUM = '/usr/bin/chromium';
 const haveChromium = existsSync(CHROMIUM);
@@ -35,7 +34,6 @@ const DOUBLE_SAMPLES = SAMPLES.filter((s) =>
 const PHOTO_Z_SAMPLES = SAMPLES.filter((s) =>
   /photo_z: \{sigma: 0\.0*[1-9]/.test(readFileSync(`samples/${s}.yaml`, 'utf8')),
 );
-const HOSTILE_TITLE = `Field <script>window.__pwned = 1</script> "><img src=x onerror="window.__pwned=2"> </svg><script>window.__pwned=3</script>`;
 
 /** The little of the DOM the page reads (the project compiles without the DOM library). */
 interface PageElement {
@@ -187,16 +185,13 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
       copyFileSync(made.html, out);
       jobs.unshift([s, out]);
     }
-    const dir = tempDir('skytally-hostile-');
-    const input = join(dir, 'hostile.yaml');
-    hostileText = readFileSync('samples/halpha-narrowband.yaml', 'utf8').replace(
-      /^title:.*$/m,
-      `title: '${HOSTILE_TITLE}'`,
-    );
-    writeFileSync(input, hostileText);
+    // the sample with a title holding HTML and script, its report made once per run and shared
+    // with test/cli/report.test.ts (test/support/sample-reports.ts)
+    const hostile = await hostileTitleReport();
+    if (hostile.result.code !== 0) throw new Error(`report hostile: ${hostile.result.stderr}`);
+    hostileText = hostile.text;
     const hostileOut = join(OUT, 'report-hostile-title.html');
-    const r = await runCli(['report', input, '--out', hostileOut]);
-    if (r.code !== 0) throw new Error(`report hostile: ${r.stderr}`);
+    copyFileSync(hostile.html, hostileOut);
     jobs.push(['hostile-title', hostileOut]);
 
     userData = tempDir('skytally-chromium-');

@@ -49,3 +49,42 @@ export function sampleReport(sample: string): Promise<SampleReport> {
   }
   return p;
 }
+
+/**
+ * A survey title holding HTML and script (tags, quotes, an ampersand, an end of SVG and event
+ * handlers that would set window.__pwned): halpha-narrowband.yaml with this title.
+ */
+export const HOSTILE_TITLE = `Field <script>window.__pwned = 1</script> "><img src=x onerror="window.__pwned=2"> & </svg><script>window.__pwned=3</script>`;
+
+export interface HostileReport {
+  /** The report command's exit code and what it wrote to stdout and stderr. */
+  result: Captured;
+  /** The survey file's text (the sample with HOSTILE_TITLE). */
+  text: string;
+  /** The HTML report (`report FILE --out DIR/report.html`). */
+  html: string;
+}
+
+let hostile: Promise<HostileReport> | undefined;
+
+/**
+ * The report of the sample with HOSTILE_TITLE, made once per run by the real command and shared by
+ * test/cli/report.test.ts (the title escaped in the HTML) and test/render/samples-browser.test.ts
+ * (shown as text and never run in chromium).
+ */
+export function hostileTitleReport(): Promise<HostileReport> {
+  const text = readFileSync('samples/halpha-narrowband.yaml', 'utf8').replace(
+    /^title:.*$/m,
+    `title: '${HOSTILE_TITLE}'`,
+  );
+  hostile ??= madeOncePerRun('hostile-title-report', async (own) => {
+    writeFileSync(join(own, 'hostile.yaml'), text);
+    const result = await runCli(['report', join(own, 'hostile.yaml'), '--out', join(own, 'report.html')]);
+    writeFileSync(join(own, 'result.json'), JSON.stringify(result));
+  }).then((dir) => ({
+    result: JSON.parse(readFileSync(join(dir, 'result.json'), 'utf8')) as Captured,
+    text,
+    html: join(dir, 'report.html'),
+  }));
+  return hostile;
+}

@@ -104,13 +104,21 @@ describe('random valid surveys', () => {
         }
         const e = s.sliceEdges;
         expect(e.length).toBeGreaterThanOrEqual(2);
-        for (let i = 1; i < e.length; i++) expect(e[i]!).toBeGreaterThan(e[i - 1]!);
+        // each condition over every edge in one expect (the edges that break it listed)
+        expect(
+          e.filter((v, i) => i > 0 && !(v > e[i - 1]!)),
+          'edges not above the previous',
+        ).toEqual([]);
         expect(e[0]).toBe(s.redshift.min);
         expect(e[e.length - 1]).toBe(s.redshift.max);
         const sl = r.slices as { count?: number; width?: number; edges?: number[] };
         if (sl.count !== undefined) expect(e.length).toBe(sl.count + 1);
         if (sl.width !== undefined) {
-          for (let i = 1; i < e.length - 1; i++) expect(Math.abs(e[i]! - e[i - 1]! - sl.width)).toBeLessThan(1e-9);
+          const w = sl.width;
+          expect(
+            e.filter((v, i) => i > 0 && i < e.length - 1 && !(Math.abs(v - e[i - 1]! - w) < 1e-9)),
+            'slices narrower or wider than the width',
+          ).toEqual([]);
           expect(e[e.length - 1]! - e[e.length - 2]!).toBeLessThanOrEqual(sl.width + 1e-9);
           expect(e[e.length - 1]! - e[e.length - 2]!).toBeGreaterThan(1e-9 - 1e-15);
         }

@@ -45,18 +45,7 @@ export const clusteringCommand: CommandDef = {
         'use no_wiggle or full',
       );
     }
-    if (
-      typeof opts.survey === 'string' &&
-      (opts.omegaB !== undefined || opts.sigma8 !== undefined || opts.nS !== undefined)
-    ) {
-      throw inputError(
-        'conflict',
-        '',
-        '--survey',
-        'cannot be combined with cosmology flags',
-        'give either --survey or the flags',
-      );
-    }
+    // --survey with cosmology flags is refused by cosmologyFromOptions (one message for every flag)
     const outputs = new Outputs(io, { out: out.out });
     if (typeof opts.survey === 'string') outputs.refuseInputs([opts.survey]);
     const cosmology = await cosmologyFromOptions(opts, io, outputs);

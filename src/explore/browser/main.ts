@@ -1,13 +1,16 @@
 /**
  * The explore page's script (bundled into the page by scripts/explore-bundle.mjs): reads the data
  * the command embedded, wires every control, and on each change writes the settings into the
- * survey file's text, runs the engine on that text and redraws the live parts. Changes that
- * arrive while an update runs are folded into one more update with the latest values.
+ * survey file's text, runs the engine on that text and redraws the live parts: every number
+ * but the model's draws first, then (after a paint, unless a newer change has come) the model's
+ * numbers, marked pending meanwhile. Changes that arrive while an update runs are folded into one
+ * more update with the latest values; the page is busy (data-busy) until the model's numbers are
+ * drawn.
  */
 import type { ControlSpec } from '../../model/explore.js';
 import { exposureDesign, settingsObject, settingsText } from '../../library/explore/settings.js';
 import { parseYaml } from '../../survey/yaml.js';
-import { exploreCompute, exploreMemo } from '../../library/explore/engine.js';
+import { exploreInTwo, exploreMemo, type ExploreResult } from '../../library/explore/engine.js';
 import { figureParts, fisherHtml, outputsHtml, slicesHtml, warningsHtml } from '../../render/explore/view.js';
 import { embeddedFiles } from './read-input.js';
 
@@ -43,6 +46,12 @@ declare const document: {
   readonly body: PageElement;
 };
 declare const CSS: { escape(s: string): string };
+declare function requestAnimationFrame(callback: () => void): number;
+
+/** Resolves once the page has painted what was drawn before the call (a frame, then a task after it). */
+function painted(): Promise<void> {
+  return new Promise((resolve) => requestAnimationFrame(() => setTimeout(resolve, 0)));
+}
 
 /** What the command embeds in the page (src/library/explore/page.ts). */
 export interface ExplorePageData {
@@ -108,32 +117,45 @@ function start(): void {
     }
     running = true;
     document.body.dataset.busy = 'true';
+    const draw = (r: ExploreResult): void => {
+      redraw('outputs', outputsHtml(r));
+      redraw('warnings', warningsHtml(r));
+      redraw('slices', slicesHtml(r));
+      redraw('fisher', fisherHtml(r));
+      redrawFigures(figureParts(r));
+      showText();
+      status.textContent = r.error ? 'These settings are not a valid survey: see the message under Results.' : '';
+      // the layout the redraw needs, done here so that the update's time includes it
+      void document.body.offsetHeight;
+    };
     try {
       do {
         pending = false;
         const t0 = performance.now();
         text = undefined;
-        const r = await exploreCompute(
+        // every number but the model's draws, shown at once; the draws (as costly as the rest)
+        // after the page has painted those, unless a newer change has come meanwhile
+        const step = await exploreInTwo(
           { text: '', object: settingsObject(raw, data.controls, values) },
           data.file,
           data.baseDir,
           keep,
         );
         const t1 = performance.now();
-        redraw('outputs', outputsHtml(r));
-        redraw('warnings', warningsHtml(r));
-        redraw('slices', slicesHtml(r));
-        redraw('fisher', fisherHtml(r));
-        redrawFigures(figureParts(r));
-        showText();
-        status.textContent = r.error ? 'These settings are not a valid survey: see the message under Results.' : '';
-        // the layout the redraw needs, done here so that the update's time includes it
-        void document.body.offsetHeight;
+        draw(step.result);
         const t2 = performance.now();
         // the update's time (engine, redraw with its layout) and its two parts
         document.body.dataset.updateMs = String(t2 - t0);
         document.body.dataset.computeMs = String(t1 - t0);
         document.body.dataset.drawMs = String(t2 - t1);
+        delete document.body.dataset.modelMs;
+        if (!step.model) continue;
+        await painted();
+        if (pending) continue;
+        const t3 = performance.now();
+        draw(step.model());
+        // the model's draws and their redraw, after the update
+        document.body.dataset.modelMs = String(performance.now() - t3);
       } while (pending);
     } catch (e) {
       status.textContent = `The update failed: ${e instanceof Error ? e.message : String(e)}`;

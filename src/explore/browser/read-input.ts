@@ -5,25 +5,15 @@
  * exports and messages as the module it replaces.
  */
 import { inputError } from '../../errors.js';
-import type { InputFile } from '../../model/survey.js';
+import {
+  MAX_SURVEY_BYTES,
+  MAX_TABLE_BYTES,
+  type InputFile,
+  type InputText,
+  type ReadInputOptions,
+} from '../../survey/input-limits.js';
 
-export type { InputFile };
-
-export interface InputText extends InputFile {
-  text: string;
-}
-
-export interface ReadInputOptions {
-  maxBytes: number;
-  maxLabel: string;
-  file: string;
-  keyPath: string;
-  subject: string;
-  fix: string;
-}
-
-export const MAX_SURVEY_BYTES = 256 * 1024;
-export const MAX_TABLE_BYTES = 1024 * 1024;
+export { MAX_SURVEY_BYTES, MAX_TABLE_BYTES, type InputFile, type InputText, type ReadInputOptions };
 
 /** The embedded files, by the path the loader asks for. */
 export const embeddedFiles = new Map<string, string>();

@@ -32,7 +32,7 @@ function modelFraction(o: object): number | undefined {
   return m && typeof m.fraction === 'number' ? m.fraction : undefined;
 }
 
-function row(s: PredictionSlice, population?: string): ExploreSliceRow {
+function row(s: PredictionSlice, population: string | undefined, pending: boolean): ExploreSliceRow {
   const u: UncertaintyBlock | undefined = s.uncertainty;
   const r: ExploreSliceRow = { zMin: s.z_min, zMax: s.z_max, count: s.count };
   if (population !== undefined) r.population = population;
@@ -43,6 +43,7 @@ function row(s: PredictionSlice, population?: string): ExploreSliceRow {
   }
   const m = modelFraction(s);
   if (m !== undefined) r.model = m;
+  else if (pending) r.modelPending = true;
   return r;
 }
 
@@ -93,6 +94,34 @@ export async function exploreCompute(
   baseDir: string,
   keep?: ExploreMemo,
 ): Promise<ExploreResult> {
+  const step = await exploreFirst(source, file, baseDir, keep, false);
+  return step.model ? step.model() : step.result;
+}
+
+/**
+ * The page's update in two steps: `result`, every number but those of the model's draws (each
+ * output and slice-table cell of the model marked pending), and `model` (absent when the survey
+ * has no model_uncertainty), which draws the model and returns the whole result, the numbers
+ * exploreCompute gives. The page shows the first and draws the model after it (the draws of a
+ * model cost as much as the rest of an update: src/explore/browser/main.ts). With `keep`, both
+ * steps read one count of each population (src/counts/count-memo.ts).
+ */
+export async function exploreInTwo(
+  source: { text: string; object?: unknown },
+  file: string,
+  baseDir: string,
+  keep?: ExploreMemo,
+): Promise<{ result: ExploreResult; model?: () => ExploreResult }> {
+  return exploreFirst(source, file, baseDir, keep, true);
+}
+
+async function exploreFirst(
+  source: { text: string; object?: unknown },
+  file: string,
+  baseDir: string,
+  keep: ExploreMemo | undefined,
+  modelLater: boolean,
+): Promise<{ result: ExploreResult; model?: () => ExploreResult }> {
   const text = source.text;
   let survey: Survey;
   try {
@@ -102,23 +131,47 @@ export async function exploreCompute(
         : loadSurveyText(text, file, baseDir);
   } catch (e) {
     return {
-      text,
-      error: e instanceof Error ? e.message : String(e),
-      title: '',
-      outputs: [],
-      rows: [],
-      counts: [],
-      lf: [],
-      warnings: [],
+      result: {
+        text,
+        error: e instanceof Error ? e.message : String(e),
+        title: '',
+        outputs: [],
+        rows: [],
+        counts: [],
+        lf: [],
+        warnings: [],
+      },
     };
   }
   const memo = new UncertaintyMemo(survey);
+  const withModel = survey.populations.some((p) => p.modelUncertainty !== undefined);
   // The model draws of counts only: the page shows no histogram bins or densities under the draws.
-  const prediction = predict(survey, {
-    uncertaintyMemo: memo,
-    model: { counts: true },
-    ...(keep ? { countMemo: keep.counts } : {}),
-  });
+  const predictWith = (draws: boolean): Prediction =>
+    predict(survey, {
+      uncertaintyMemo: memo,
+      model: draws ? { counts: true } : { counts: true, draws: 0 },
+      ...(keep ? { countMemo: keep.counts } : {}),
+    });
+  const later = modelLater && withModel;
+  const result = resultOf(survey, predictWith(!later), text, later);
+  await addFisher(survey, result, memo, keep);
+  if (!later) return { result };
+  const fisher = { fisher: result.fisher, fisherNote: result.fisherNote };
+  return {
+    result,
+    model: () => {
+      // the same survey, counts and uncertainties (kept in the memories), now with the model's draws
+      const full = resultOf(survey, predictWith(true), text, false);
+      if (fisher.fisher) full.fisher = fisher.fisher;
+      if (fisher.fisherNote !== undefined) full.fisherNote = fisher.fisherNote;
+      full.outputs.push(...result.outputs.filter((o) => o.name.startsWith('sigma-')));
+      return full;
+    },
+  };
+}
+
+/** The page's numbers of one prediction; `pending`: the model's draws are still to come (their outputs marked so). */
+function resultOf(survey: Survey, prediction: Prediction, text: string, pending: boolean): ExploreResult {
   const t = prediction.totals;
   const outputs: ExploreOutput[] = [
     { name: 'total-count', label: 'Expected count', value: t.count, kind: 'count' },
@@ -147,10 +200,20 @@ export async function exploreCompute(
   const m = modelFraction(t);
   if (m !== undefined)
     outputs.push({ name: 'total-model', label: 'Model uncertainty (fraction)', value: m, kind: 'fraction' });
+  else if (pending)
+    outputs.push({
+      name: 'total-model',
+      label: 'Model uncertainty (fraction)',
+      value: NaN,
+      kind: 'fraction',
+      pending: true,
+    });
   const rows =
     prediction.breakdown === 'redshift'
-      ? prediction.slices.map((s) => row(s))
-      : prediction.populations.flatMap((pp) => pp.slices.map((s) => row(s, pp.name)));
+      ? prediction.slices.map((s) => row(s, undefined, pending))
+      : prediction.populations.flatMap((pp, k) =>
+          pp.slices.map((s) => row(s, pp.name, pending && survey.populations[k]!.modelUncertainty !== undefined)),
+        );
   const counts: CountsFigureData[] = (
     prediction.breakdown === 'redshift'
       ? [{ title: 'Counts per slice', slices: prediction.slices }]
@@ -165,7 +228,7 @@ export async function exploreCompute(
     })),
   }));
   const lf = survey.populations.map((_, k) => lfData(survey, prediction, k));
-  const result: ExploreResult = {
+  return {
     text,
     title: prediction.title,
     outputs,
@@ -174,29 +237,42 @@ export async function exploreCompute(
     lf,
     warnings: prediction.warnings.map((w) => w.message),
   };
+}
+
+/** The forecast's Fisher sigmas of the first population (or why there are none), added to `result`. */
+async function addFisher(
+  survey: Survey,
+  result: ExploreResult,
+  memo: UncertaintyMemo,
+  keep: ExploreMemo | undefined,
+): Promise<void> {
   const first = survey.populations[0]!;
   if (first.shape === 'double_schechter') {
     result.fisherNote =
       'The Fisher matrix varies one Schechter function: not available for a double Schechter population.';
-  } else {
-    try {
-      const f = await forecast(survey, {
-        cosmicVarianceSource: cosmicVarianceInputWith(memo),
-        ...(keep ? { fisherSums: keep.fisherSums } : {}),
-      });
-      const names = f.parameters;
-      result.fisher = {
-        population: first.name,
-        names,
-        sigma: names.map((n) => f.fisher.sigma[n]!),
-        sigmaPoisson: names.map((n) => f.fisher_poisson_only.sigma[n]!),
-      };
-      names.forEach((n, i) =>
-        outputs.push({ name: `sigma-${n}`, label: `sigma(${n})`, value: result.fisher!.sigma[i]!, kind: 'plain' }),
-      );
-    } catch (e) {
-      result.fisherNote = e instanceof Error ? e.message : String(e);
-    }
+    return;
   }
-  return result;
+  try {
+    const f = await forecast(survey, {
+      cosmicVarianceSource: cosmicVarianceInputWith(memo),
+      ...(keep ? { fisherSums: keep.fisherSums } : {}),
+    });
+    const names = f.parameters;
+    result.fisher = {
+      population: first.name,
+      names,
+      sigma: names.map((n) => f.fisher.sigma[n]!),
+      sigmaPoisson: names.map((n) => f.fisher_poisson_only.sigma[n]!),
+    };
+    names.forEach((n, i) =>
+      result.outputs.push({
+        name: `sigma-${n}`,
+        label: `sigma(${n})`,
+        value: result.fisher!.sigma[i]!,
+        kind: 'plain',
+      }),
+    );
+  } catch (e) {
+    result.fisherNote = e instanceof Error ? e.message : String(e);
+  }
 }

@@ -12,7 +12,11 @@ function shown(o: Pick<ExploreOutput, 'kind' | 'value'>): string {
   return o.kind === 'fraction' ? percent(o.value) : sig(o.value, 4);
 }
 
-function cell(name: string, value: number | undefined, kind: ExploreOutput['kind']): string {
+/** A number still to come: its name, no value, marked busy for screen readers (docs/outputs.md, "explore"). */
+const PENDING = 'data-pending="true" aria-busy="true">pending';
+
+function cell(name: string, value: number | undefined, kind: ExploreOutput['kind'], pending = false): string {
+  if (pending) return `<td data-output="${name}" ${PENDING}</td>`;
   if (value === undefined) return '<td></td>';
   return `<td data-output="${name}" data-value="${String(value)}">${escapeHtml(shown({ kind, value }))}</td>`;
 }
@@ -23,7 +27,7 @@ export function outputsHtml(r: ExploreResult): string {
   return `<dl>${r.outputs
     .map(
       (o) =>
-        `<div><dt>${escapeHtml(o.label)}</dt><dd data-output="${o.name}" data-value="${String(o.value)}">${escapeHtml(shown(o))}</dd></div>`,
+        `<div><dt>${escapeHtml(o.label)}</dt>${o.pending ? `<dd data-output="${o.name}" ${PENDING}</dd>` : `<dd data-output="${o.name}" data-value="${String(o.value)}">${escapeHtml(shown(o))}</dd>`}</div>`,
     )
     .join('')}</dl>`;
 }
@@ -32,11 +36,11 @@ export function outputsHtml(r: ExploreResult): string {
 export function slicesHtml(r: ExploreResult): string {
   if (r.error) return '';
   const byPopulation = r.rows.some((x) => x.population !== undefined);
-  const model = r.rows.some((x) => x.model !== undefined);
+  const model = r.rows.some((x) => x.model !== undefined || x.modelPending);
   const head = `<tr>${byPopulation ? '<th scope="col">population</th>' : ''}<th scope="col">z</th><th scope="col">count</th><th scope="col">Poisson</th><th scope="col">cosmic variance</th><th scope="col">total</th>${model ? '<th scope="col">model</th>' : ''}</tr>`;
   const rows = r.rows.map((x: ExploreSliceRow, i) => {
     const k = i + 1;
-    return `<tr>${byPopulation ? `<td>${escapeHtml(x.population ?? '')}</td>` : ''}<th scope="row">${formatRange(x.zMin, x.zMax)}</th>${cell(`slice-${k}-count`, x.count, 'count')}${cell(`slice-${k}-poisson`, x.poisson, 'fraction')}${cell(`slice-${k}-cosmic-variance`, x.cosmicVariance, 'fraction')}${cell(`slice-${k}-uncertainty`, x.total, 'fraction')}${model ? cell(`slice-${k}-model`, x.model, 'fraction') : ''}</tr>`;
+    return `<tr>${byPopulation ? `<td>${escapeHtml(x.population ?? '')}</td>` : ''}<th scope="row">${formatRange(x.zMin, x.zMax)}</th>${cell(`slice-${k}-count`, x.count, 'count')}${cell(`slice-${k}-poisson`, x.poisson, 'fraction')}${cell(`slice-${k}-cosmic-variance`, x.cosmicVariance, 'fraction')}${cell(`slice-${k}-uncertainty`, x.total, 'fraction')}${model ? cell(`slice-${k}-model`, x.model, 'fraction', x.modelPending) : ''}</tr>`;
   });
   return `<table><caption>Expected counts per slice with 1-sigma fractional uncertainties</caption><thead>${head}</thead><tbody>${rows.join('')}</tbody></table>`;
 }

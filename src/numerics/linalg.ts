@@ -9,14 +9,20 @@ export function zeros(n: number): Matrix {
   return Array.from({ length: n }, () => new Array<number>(n).fill(0));
 }
 
-/** Lower-triangular L with A = L L^T, or undefined when A is not (numerically) positive definite. */
-export function cholesky(a: Matrix): Matrix | undefined {
+/**
+ * Cholesky factor of a symmetric matrix: the lower triangular L with L L^T = A (Golub & Van Loan,
+ * algorithm 4.2.1). Returns undefined when A is not positive definite: a pivot that is not finite
+ * or is at or below `tolerance` times the largest diagonal element (0: any positive pivot passes).
+ */
+export function cholesky(a: readonly (readonly number[])[], tolerance = 0): Matrix | undefined {
   const n = a.length;
+  let scale = 0;
+  for (let i = 0; i < n; i++) scale = Math.max(scale, Math.abs(a[i]![i]!));
   const l = zeros(n);
   for (let j = 0; j < n; j++) {
     let d = a[j]![j]!;
-    for (let k = 0; k < j; k++) d -= l[j]![k]! ** 2;
-    if (!(d > 0) || !Number.isFinite(d)) return undefined;
+    for (let k = 0; k < j; k++) d -= l[j]![k]! * l[j]![k]!;
+    if (!(d > tolerance * scale) || !Number.isFinite(d)) return undefined;
     const ljj = Math.sqrt(d);
     l[j]![j] = ljj;
     for (let i = j + 1; i < n; i++) {
