@@ -23,8 +23,16 @@ for (const sample of ['deep-continuum', 'halpha-narrowband', 'mass-limited', 'pl
   if (sample !== 'mass-limited') runs.push(['forecast', file, '--format', 'json', '--out', join(dir, 'forecast.json')]);
   if (sample.startsWith('plan-')) runs.push(['plan', file, '--format', 'json', '--out', join(dir, 'plan.json')]);
 }
-runs.push(['report', 'samples/plan-uv-deep-wide.yaml', '--out', join(dir, 'report.html')]);
-runs.push(['report', 'samples/halpha-narrowband.yaml', '--out', join(dir, 'report.html')]);
+// reports drawing every kind of figure: the plan, the model's bands (mass-limited), several
+// populations with their shares (narrowband-interlopers), magnitudes (deep-continuum)
+for (const sample of [
+  'plan-uv-deep-wide',
+  'halpha-narrowband',
+  'mass-limited',
+  'narrowband-interlopers',
+  'deep-continuum',
+])
+  runs.push(['report', `samples/${sample}.yaml`, '--out', join(dir, 'report.html')]);
 try {
   for (const argv of runs) {
     const code = await run(argv, io);

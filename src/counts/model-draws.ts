@@ -456,8 +456,15 @@ export const drawPaths = { tabulated: 0, exact: 0 };
 export const TABLE_MIN_DRAWS = 64;
 /** Tail of the Chebyshev coefficients accepted, relative to max(1, the largest |ln|) (see SliceTables). */
 export const TABLE_TOLERANCE = 1e-10;
+/**
+ * The points a population's first slice starts from: where the completeness varies (SliceTables,
+ * whose count and luminosity share their points, doubled, so that the count's points do not
+ * depend on whether the luminosity is asked for), and under a hard limit (hardTables: count and
+ * luminosity each on points of their own, grown by morePoints).
+ */
 const TABLE_POINTS: [number, number] = [16, 8];
-/** The points each level starts from: TABLE_POINTS for a population's first slice, then what the slice before needed. */
+const HARD_TABLE_POINTS: [number, number] = [10, 8];
+/** The points each level starts from: TABLE_POINTS (HARD_TABLE_POINTS) for a population's first slice, then what the slice before needed. */
 interface TableStart {
   node: [number, number];
   slice: [number, number];
@@ -469,8 +476,8 @@ const TABLE_MAX_POINTS: [number, number] = [64, 32];
 /**
  * Chebyshev series of ln g over [x0, x1] x [y0, y1] (g evaluated a row of points at a time: at
  * one x and every y, values returned together for several functions, out[m][j] the m-th at the
- * j-th y), doubling the points until the tail is small. Undefined when a value is not positive
- * and finite or the tail stays large.
+ * j-th y), doubling the points (`grow`: adding as many as morePoints says) until the tail is
+ * small. Undefined when a value is not positive and finite or the tail stays large.
  */
 function logSeries(
   x0: number,
@@ -481,6 +488,7 @@ function logSeries(
   g: (x: number, ys: Float64Array, out: Float64Array[]) => void,
   start: [number, number],
   keep?: { values?: Float64Array[] },
+  grow = false,
 ): Chebyshev2D[] | undefined {
   let [nx, ny] = start;
   if (!(x1 > x0)) nx = 1;
@@ -514,9 +522,34 @@ function logSeries(
       return series;
     }
     if ((moreX && nx >= TABLE_MAX_POINTS[0]) || (moreY && ny >= TABLE_MAX_POINTS[1])) return undefined;
-    if (moreX) nx *= 2;
-    if (moreY) ny *= 2;
+    const tol = TABLE_TOLERANCE * big;
+    if (moreX) nx = grow ? morePoints(series, true, tol, TABLE_MAX_POINTS[0]) : 2 * nx;
+    if (moreY) ny = grow ? morePoints(series, false, tol, TABLE_MAX_POINTS[1]) : 2 * ny;
   }
+}
+
+/**
+ * The points to take next along x (or y) where the series' tail there is too large: where their
+ * coefficients fall geometrically (rate rho per degree, from the second half of them: the
+ * magnitude of each row (or column) the sum of its |coefficients|, as chebyshevTail takes it, the
+ * largest over the series), as many more as bring the tail to a quarter of the tolerance, plus one;
+ * at least two more and at most twice as many (the doubling without a rate), and within the cap.
+ */
+function morePoints(series: readonly Chebyshev2D[], alongX: boolean, tol: number, cap: number): number {
+  const n = alongX ? series[0]!.nx : series[0]!.ny;
+  const m = new Float64Array(n);
+  for (const c of series) {
+    const row = new Float64Array(n);
+    for (let i = 0; i < c.nx; i++)
+      for (let j = 0; j < c.ny; j++) row[alongX ? i : j] = row[alongX ? i : j]! + Math.abs(c.coef[i * c.ny + j]!);
+    for (let k = 0; k < n; k++) m[k] = Math.max(m[k]!, row[k]!);
+  }
+  const tail = Math.max(m[n - 1]!, m[n - 2]!);
+  const h = Math.floor(n / 2);
+  const rho = (tail / Math.max(m[h]!, m[h - 1]!)) ** (1 / (n - 1 - h));
+  let next = 2 * n;
+  if (rho > 0 && rho < 1) next = n + Math.ceil(Math.log(tol / (4 * tail)) / Math.log(rho)) + 1;
+  return Math.min(cap, Math.max(n + 2, Math.min(2 * n, next)));
 }
 
 /** Whether the series' coefficient tails along x and along y exceed TABLE_TOLERANCE x big. */
@@ -896,6 +929,8 @@ function hardTables(
           }
         },
         lum ? start.lum : start.slice,
+        undefined,
+        true,
       );
     const count = table(false);
     const lum = withLum ? table(true) : undefined;
@@ -982,7 +1017,8 @@ export function populationDraws(
     population.variable === 'luminosity' ? 10 ** o.characteristic : 10 ** (-0.4 * o.characteristic),
   );
   const res = { count: 0, detected: 0, total: 0 as number | undefined };
-  const start: TableStart = { node: [...TABLE_POINTS], slice: [...TABLE_POINTS], lum: [...TABLE_POINTS] };
+  const first = s.completeness ? TABLE_POINTS : HARD_TABLE_POINTS;
+  const start: TableStart = { node: [...first], slice: [...first], lum: [...first] };
   slices.forEach((sl, j) => {
     const f = flatten(sl.drawNodes ?? []);
     const tables =
