@@ -97,6 +97,12 @@ export interface HaloModel {
   massFunctionPerLnM(massMsun: number, z: number): number;
   /** ∫_M^∞ dn/dM dM, comoving Mpc^-3. */
   haloDensityAboveMpc3(massMsun: number, z: number): number;
+  /**
+   * Whether haloDensityAboveMpc3(massMsun, z) reaches densityMpc3 (is at least it with orEqual,
+   * above it without): the same answer, with the abundance tables summed down only as far as
+   * that needs.
+   */
+  densityAboveReaches(massMsun: number, z: number, densityMpc3: number, orEqual: boolean): boolean;
   /** Sheth-Tormen bias of haloes of mass M at z. */
   haloBias(massMsun: number, z: number): number;
   /** Abundance-weighted mean bias of haloes above M at z. */
@@ -152,6 +158,139 @@ interface Cumulative {
   top: number;
 }
 
+/** Where haloIntegrand leaves the peak height, the halo bias and the steepness, and the sums of panelSums and pieceSums. */
+const NU = 0;
+const BIAS = 1;
+const STEEPNESS = 2;
+const SUM_N = 3;
+const SUM_NB = 4;
+const SCRATCH_SIZE = 5;
+const { A: ST_A, a: ST_a, p: ST_p } = SHETH_TORMEN;
+/** f's normalisation A sqrt(2 a / pi). */
+const F_NORM = ST_A * Math.sqrt((2 * ST_a) / Math.PI);
+
+/*
+ * The halo model's loops are small functions of their own (not closures of createHaloModel), so
+ * that the engine optimises each quickly at start-up; they leave their by-products in a scratch
+ * array rather than in variables of a closure.
+ */
+
+/**
+ * dn/dln M at ln M for growth d (comoving Mpc^-3), with ln sigma(M, 0) and its slope from the
+ * spline; in out: the peak height nu, the Sheth-Tormen bias and the steepness
+ * 1 + a nu^2 |d ln sigma / d ln M| (see the module comment).
+ */
+function haloIntegrand(s: UniformSpline, rho: number, lnM: number, d: number, out: Float64Array): number {
+  const last = s.y.length - 2;
+  let i = Math.floor((lnM - s.x0) / s.dx);
+  if (i < 0) i = 0;
+  if (i > last) i = last;
+  const t = (lnM - (s.x0 + i * s.dx)) / s.dx;
+  const u = 1 - t;
+  const yi = s.y[i]!;
+  const yj = s.y[i + 1]!;
+  const mi = s.m[i]!;
+  const mj = s.m[i + 1]!;
+  const lnSigma = u * yi + t * yj + ((u * u * u - u) * mi + (t * t * t - t) * mj) * ((s.dx * s.dx) / 6);
+  const slope = -((yj - yi) / s.dx + (-(3 * u * u - 1) * mi + (3 * t * t - 1) * mj) * (s.dx / 6)); // -d ln sigma / d ln M
+  const nu = DELTA_C / (Math.exp(lnSigma) * d);
+  out[NU] = nu;
+  if (!(nu > 0)) {
+    out[BIAS] = 1;
+    out[STEEPNESS] = 1;
+    return 0;
+  }
+  const anu2 = ST_a * nu * nu;
+  const q = anu2 ** -ST_p;
+  out[BIAS] = 1 + (anu2 - 1) / DELTA_C + (2 * ST_p * q) / (DELTA_C * (q + 1));
+  out[STEEPNESS] = 1 + anu2 * slope;
+  return (rho / Math.exp(lnM)) * F_NORM * (1 + q) * Math.exp(-0.5 * anu2) * nu * slope;
+}
+
+/** ∫_lo^hi dn/dlnM (1, b) dln M by one 8-point Gauss-Legendre panel, into out[SUM_N], out[SUM_NB]. */
+function panelSums(s: UniformSpline, rho: number, lo: number, hi: number, d: number, out: Float64Array): void {
+  const { x, w } = gaussLegendre(8);
+  const c = 0.5 * (lo + hi);
+  const h = 0.5 * (hi - lo);
+  let n = 0;
+  let nb = 0;
+  for (let i = 0; i < 8; i++) {
+    const g = haloIntegrand(s, rho, c + h * x[i]!, d, out);
+    n += w[i]! * g;
+    nb += w[i]! * g * out[BIAS]!;
+  }
+  out[SUM_N] = n * h;
+  out[SUM_NB] = nb * h;
+}
+
+/**
+ * The same integrals within one knot interval [lo, hi]: panels no wider than 1.5 / steepness (the
+ * steepness grows with M, so it is taken at hi), into out[SUM_N], out[SUM_NB].
+ */
+function pieceSums(s: UniformSpline, rho: number, lo: number, hi: number, d: number, out: Float64Array): void {
+  let sumN = 0;
+  let sumNb = 0;
+  if (hi > lo) {
+    const gHi = haloIntegrand(s, rho, hi, d, out);
+    const panels = Math.max(1, Math.ceil(((hi - lo) * Math.max(1, out[STEEPNESS]!)) / 1.5));
+    if (!(gHi >= 0))
+      throw new Error(`halo abundance: the mass function is not finite at ${Math.exp(hi).toExponential(3)} Msun`);
+    const { x, w } = gaussLegendre(CUMULATIVE_RULE);
+    const h = (hi - lo) / panels;
+    for (let k = 0; k < panels; k++) {
+      const c = lo + (k + 0.5) * h;
+      let pn = 0;
+      let pb = 0;
+      for (let i = 0; i < CUMULATIVE_RULE; i++) {
+        const g = haloIntegrand(s, rho, c + 0.5 * h * x[i]!, d, out);
+        pn += w[i]! * g;
+        pb += w[i]! * g * out[BIAS]!;
+      }
+      sumN += 0.5 * h * pn;
+      sumNb += 0.5 * h * pb;
+    }
+  }
+  out[SUM_N] = sumN;
+  out[SUM_NB] = sumNb;
+}
+
+/**
+ * matcherAt's cumulative sums from panel `from` - 1 down to panel `to`: cumN[i] = cumN[i + 1] plus
+ * panel i's nodes (cumB the same weighted by the bias), stopping early at the first panel whose
+ * cumN reaches `target`; returns the last panel summed. ln(a nu^2) = ln a + 2 (ln delta_c -
+ * ln sigma0 - ln d) = lnAD - 2 ln sigma0: (a nu^2)^-p and e^(-a nu^2 / 2) by two exponentials;
+ * where the latter underflows (a nu^2 / 2 > 746) a node adds exactly 0.
+ */
+function sumPanelsDown(
+  nodes: { sigma0: Float64Array; lnSigma0: Float64Array; weight: Float64Array },
+  lnAD: number,
+  d: number,
+  from: number,
+  to: number,
+  cumN: Float64Array,
+  cumB: Float64Array,
+  target: number,
+): number {
+  for (let i = from - 1; i >= to; i--) {
+    let pn = 0;
+    let pb = 0;
+    for (let k = 8 * i; k < 8 * i + 8; k++) {
+      const lnAnu2 = lnAD - 2 * nodes.lnSigma0[k]!;
+      const anu2 = Math.exp(lnAnu2);
+      if (!(anu2 <= 1492)) continue;
+      const nu = DELTA_C / (nodes.sigma0[k]! * d);
+      const q = Math.exp(-ST_p * lnAnu2);
+      const n = nodes.weight[k]! * F_NORM * (1 + q) * Math.exp(-0.5 * anu2) * nu;
+      pn += n;
+      pb += n * (1 + (anu2 - 1) / DELTA_C + (2 * ST_p * q) / (DELTA_C * (q + 1)));
+    }
+    cumN[i] = cumN[i + 1]! + pn;
+    cumB[i] = cumB[i + 1]! + pb;
+    if (cumN[i]! >= target) return i;
+  }
+  return to;
+}
+
 /** ln sigma(M, z = 0) at the knots of the halo model's spline (1e3 .. 1e19 Msun, 0.5 apart in ln M). */
 export function computeLnSigmaTable(power: LinearPower): Float64Array {
   const n = Math.round((LN_M_TABLE_MAX - LN_M_TABLE_MIN) / LN_M_TABLE_STEP) + 1;
@@ -173,46 +312,15 @@ export function createHaloModel(power: LinearPower): HaloModel {
     return table;
   };
   const rho = power.rhoM0MsunMpc3;
-  const { A, a, p } = SHETH_TORMEN;
-  const fNorm = A * Math.sqrt((2 * a) / Math.PI);
 
-  // One evaluation of the integrand at ln M for growth d: dn/dln M (returned), and in the
-  // variables below the peak height, the halo bias and the steepness -d ln(dn/dln M)/d ln M.
-  let evalNu = 0;
-  let evalBias = 0;
-  let evalSteepness = 0;
-  const integrand = (lnM: number, d: number): number => {
-    const s = spline();
-    const last = s.y.length - 2;
-    let i = Math.floor((lnM - s.x0) / s.dx);
-    if (i < 0) i = 0;
-    if (i > last) i = last;
-    const t = (lnM - (s.x0 + i * s.dx)) / s.dx;
-    const u = 1 - t;
-    const yi = s.y[i]!;
-    const yj = s.y[i + 1]!;
-    const mi = s.m[i]!;
-    const mj = s.m[i + 1]!;
-    const lnSigma = u * yi + t * yj + ((u * u * u - u) * mi + (t * t * t - t) * mj) * ((s.dx * s.dx) / 6);
-    const slope = -((yj - yi) / s.dx + (-(3 * u * u - 1) * mi + (3 * t * t - 1) * mj) * (s.dx / 6)); // -d ln sigma / d ln M
-    const nu = DELTA_C / (Math.exp(lnSigma) * d);
-    evalNu = nu;
-    if (!(nu > 0)) {
-      evalBias = 1;
-      evalSteepness = 1;
-      return 0;
-    }
-    const anu2 = a * nu * nu;
-    const q = anu2 ** -p;
-    evalBias = 1 + (anu2 - 1) / DELTA_C + (2 * p * q) / (DELTA_C * (q + 1));
-    evalSteepness = 1 + anu2 * slope;
-    return (rho / Math.exp(lnM)) * fNorm * (1 + q) * Math.exp(-0.5 * anu2) * nu * slope;
-  };
-
+  // One evaluation of the integrand at ln M for growth d: dn/dln M (returned), and in `scratch`
+  // the peak height, the halo bias and the steepness (haloIntegrand).
+  const scratch = new Float64Array(SCRATCH_SIZE);
+  const integrand = (lnM: number, d: number): number => haloIntegrand(spline(), rho, lnM, d, scratch);
   /** dn/dln M and the peak height at ln M for growth d. */
   const perLnM = (lnM: number, d: number): { n: number; nu: number } => {
     const n = integrand(lnM, d);
-    return { n, nu: evalNu };
+    return { n, nu: scratch[NU]! };
   };
 
   /** ∫_{ln M}^∞ dn/dlnM (1, b) dln M by panels of width 0.25 from ln M up (masses off the tables). */
@@ -229,7 +337,7 @@ export function createHaloModel(power: LinearPower): HaloModel {
       for (let i = 0; i < 8; i++) {
         const r = integrand(c + h * x[i]!, d);
         pn += w[i]! * r;
-        pb += w[i]! * r * shethTormenBias(evalNu);
+        pb += w[i]! * r * shethTormenBias(scratch[NU]!);
       }
       n += pn * h;
       nb += pb * h;
@@ -240,17 +348,8 @@ export function createHaloModel(power: LinearPower): HaloModel {
 
   /** ∫_a^b dn/dlnM (1, b) dln M by one 8-point Gauss-Legendre panel (b - a <= PANEL). */
   const panel = (a: number, b: number, d: number): { n: number; nb: number } => {
-    const { x, w } = gaussLegendre(8);
-    const c = 0.5 * (a + b);
-    const h = 0.5 * (b - a);
-    let n = 0;
-    let nb = 0;
-    for (let i = 0; i < 8; i++) {
-      const g = integrand(c + h * x[i]!, d);
-      n += w[i]! * g;
-      nb += w[i]! * g * evalBias;
-    }
-    return { n: n * h, nb: nb * h };
+    panelSums(spline(), rho, a, b, d, scratch);
+    return { n: scratch[SUM_N]!, nb: scratch[SUM_NB]! };
   };
 
   /**
@@ -285,32 +384,13 @@ export function createHaloModel(power: LinearPower): HaloModel {
     return grid;
   };
 
-  // Piece integrals within one knot interval: [lo, hi] in panels no wider than 1.5 / steepness
-  // (the steepness grows with M, so it is taken at hi).
+  // Piece integrals within one knot interval (pieceSums), left in pieceN and pieceNb.
   let pieceN = 0;
   let pieceNb = 0;
   const piece = (lo: number, hi: number, d: number): void => {
-    pieceN = 0;
-    pieceNb = 0;
-    if (!(hi > lo)) return;
-    const gHi = integrand(hi, d);
-    const panels = Math.max(1, Math.ceil(((hi - lo) * Math.max(1, evalSteepness)) / 1.5));
-    if (!(gHi >= 0))
-      throw new Error(`halo abundance: the mass function is not finite at ${Math.exp(hi).toExponential(3)} Msun`);
-    const { x, w } = gaussLegendre(CUMULATIVE_RULE);
-    const h = (hi - lo) / panels;
-    for (let k = 0; k < panels; k++) {
-      const c = lo + (k + 0.5) * h;
-      let pn = 0;
-      let pb = 0;
-      for (let i = 0; i < CUMULATIVE_RULE; i++) {
-        const g = integrand(c + 0.5 * h * x[i]!, d);
-        pn += w[i]! * g;
-        pb += w[i]! * g * evalBias;
-      }
-      pieceN += 0.5 * h * pn;
-      pieceNb += 0.5 * h * pb;
-    }
+    pieceSums(spline(), rho, lo, hi, d, scratch);
+    pieceN = scratch[SUM_N]!;
+    pieceNb = scratch[SUM_NB]!;
   };
 
   const knotCount = Math.round((LN_M_TABLE_MAX - LN_M_TABLE_MIN) / LN_M_TABLE_STEP) + 1;
@@ -359,8 +439,18 @@ export function createHaloModel(power: LinearPower): HaloModel {
   const knotBelow = (lnM: number): number => Math.min(jMatchMax, Math.floor((lnM - LN_M_TABLE_MIN) / LN_M_TABLE_STEP));
   const onTables = (lnM: number): boolean => lnM >= LN_M_TABLE_MIN && lnM <= LN_M_CUMULATIVE_MAX;
 
-  /** ∫_{ln M}^∞ dn/dlnM (1, b) dln M: from the tables where they reach, by panels otherwise. */
+  /**
+   * ∫_{ln M}^∞ dn/dlnM (1, b) dln M: from the tables where they reach, by panels otherwise. The
+   * last answer is kept (a match asks for the bounds' abundances after its caller did).
+   */
+  let lastAbove: { lnM: number; d: number; n: number; nb: number } | undefined;
   const aboveFast = (lnM: number, d: number): { n: number; nb: number } => {
+    if (lastAbove && lastAbove.lnM === lnM && lastAbove.d === d) return { n: lastAbove.n, nb: lastAbove.nb };
+    const r = aboveUncached(lnM, d);
+    lastAbove = { lnM, d, n: r.n, nb: r.nb };
+    return r;
+  };
+  const aboveUncached = (lnM: number, d: number): { n: number; nb: number } => {
     if (!onTables(lnM)) return above(lnM, d);
     const j = knotBelow(lnM);
     const c = cumulative(d, j);
@@ -370,6 +460,29 @@ export function createHaloModel(power: LinearPower): HaloModel {
     }
     piece(lnM, cut(j + 1), d);
     return { n: c.n[j + 1]! + pieceN, nb: c.nb[j + 1]! + pieceNb };
+  };
+
+  /**
+   * Whether n(>M) (aboveFast) reaches target: n >= target with orEqual, n > target without. n(>M)
+   * is the cumulative at the knot above M plus a piece, and the cumulative only grows as the
+   * tables are summed down (every piece is a sum of non-negative terms), so once the cumulative
+   * at a knot above M reaches the target the answer is known without summing further down;
+   * otherwise n(>M) itself decides.
+   */
+  const reaches = (lnM: number, d: number, target: number, orEqual: boolean): boolean => {
+    const hit = (n: number): boolean => (orEqual ? n >= target : n > target);
+    if (onTables(lnM)) {
+      const j = knotBelow(lnM);
+      const c = cumulative(d, jMatchMax);
+      if (j + 1 < c.top) {
+        for (let k = Math.max(c.lowest, j + 1); ; k--) {
+          if (k < c.lowest) cumulative(d, k);
+          if (hit(c.n[k]!)) return true;
+          if (k === j + 1) break;
+        }
+      }
+    }
+    return hit(aboveFast(lnM, d).n);
   };
 
   /** ln M in [1e6, 1e16] Msun where n(>M) = target (known to lie between the two bounds' abundances). */
@@ -442,6 +555,11 @@ export function createHaloModel(power: LinearPower): HaloModel {
       checkZ(z, 'haloDensityAboveMpc3');
       return aboveFast(Math.log(massMsun), power.growth(z)).n;
     },
+    densityAboveReaches(massMsun, z, densityMpc3, orEqual) {
+      checkMass(massMsun, 'densityAboveReaches');
+      checkZ(z, 'densityAboveReaches');
+      return reaches(Math.log(massMsun), power.growth(z), densityMpc3, orEqual);
+    },
     haloBias(massMsun, z) {
       return shethTormenBias(model.peakHeight(massMsun, z));
     },
@@ -470,8 +588,8 @@ export function createHaloModel(power: LinearPower): HaloModel {
       const d = power.growth(z);
       const lnLo = Math.log(MATCH_MASS_MIN_MSUN);
       const lnHi = Math.log(MATCH_MASS_MAX_MSUN);
-      const nLo = aboveFast(lnLo, d).n;
-      if (target > nLo) {
+      if (!reaches(lnLo, d, target, true)) {
+        const nLo = aboveFast(lnLo, d).n;
         throw new Error(
           `halo abundance matching at z = ${z}: the required halo density ${target.toExponential(3)} Mpc^-3 ` +
             `(galaxy density / occupation) exceeds the ${nLo.toExponential(3)} Mpc^-3 of all haloes above ` +
@@ -504,25 +622,9 @@ export function createHaloModel(power: LinearPower): HaloModel {
       let summed = m;
       // ln(a nu^2) = ln a + 2 (ln delta_c - ln sigma0 - ln d): (a nu^2)^-p and e^(-a nu^2 / 2) by
       // two exponentials; where the latter underflows (a nu^2 / 2 > 746) a node adds exactly 0
-      const lnAD = Math.log(a) + 2 * (Math.log(DELTA_C) - Math.log(d));
+      const lnAD = Math.log(ST_a) + 2 * (Math.log(DELTA_C) - Math.log(d));
       const sumDownTo = (j: number): void => {
-        for (let i = summed - 1; i >= j; i--) {
-          let pn = 0;
-          let pb = 0;
-          for (let k = 8 * i; k < 8 * i + 8; k++) {
-            const lnAnu2 = lnAD - 2 * nodes.lnSigma0[k]!;
-            const anu2 = Math.exp(lnAnu2);
-            if (!(anu2 <= 1492)) continue;
-            const nu = DELTA_C / (nodes.sigma0[k]! * d);
-            const q = Math.exp(-p * lnAnu2);
-            const n = nodes.weight[k]! * fNorm * (1 + q) * Math.exp(-0.5 * anu2) * nu;
-            pn += n;
-            pb += n * (1 + (anu2 - 1) / DELTA_C + (2 * p * q) / (DELTA_C * (q + 1)));
-          }
-          cumN[i] = cumN[i + 1]! + pn;
-          cumB[i] = cumB[i + 1]! + pb;
-        }
-        if (j < summed) summed = j;
+        if (j < summed) summed = sumPanelsDown(nodes, lnAD, d, summed, j, cumN, cumB, Infinity);
       };
       /** n(>M) and nb(>M) at ln M inside panel i. */
       const at = (lnM: number, i: number): { n: number; nb: number } => {
@@ -551,11 +653,8 @@ export function createHaloModel(power: LinearPower): HaloModel {
         // whole table's at the lowest mass)
         if (target <= top.n) return { haloMassMinMsun: MATCH_MASS_MAX_MSUN, bias: top.nb / top.n, held: 'max' };
         let i = m - 1;
-        for (;;) {
-          sumDownTo(i);
-          if (cumN[i]! >= target || i === 0) break;
-          i--;
-        }
+        while (i >= summed && i > 0 && !(cumN[i]! >= target)) i--;
+        if (i < summed) summed = i = sumPanelsDown(nodes, lnAD, d, summed, 0, cumN, cumB, target);
         if (i > 0 && cumN[i] === target) sumDownTo(0);
         if (summed === 0 && target >= cumN[0]!)
           return { haloMassMinMsun: MATCH_MASS_MIN_MSUN, bias: cumB[0]! / cumN[0]!, held: 'min' };

@@ -161,9 +161,11 @@ export function populationBias(
     addWarning(ctx.warnings, warning('bias_at_mass_bound', message));
     return { bias: haloes.effectiveBiasAbove(mass, z), haloMassMinMsun: mass };
   };
-  if (target >= haloes.haloDensityAboveMpc3(MATCH_MASS_MIN_MSUN, z))
+  // (target >= n(>1e6 Msun) and target <= n(>1e16 Msun), asked without summing the abundance
+  // tables further down than the answer needs)
+  if (!haloes.densityAboveReaches(MATCH_MASS_MIN_MSUN, z, target, false))
     return atBound(MATCH_MASS_MIN_MSUN, 'more than all');
-  if (target <= haloes.haloDensityAboveMpc3(MATCH_MASS_MAX_MSUN, z))
+  if (haloes.densityAboveReaches(MATCH_MASS_MAX_MSUN, z, target, true))
     return atBound(MATCH_MASS_MAX_MSUN, 'less than the');
   try {
     const m = haloes.matchHaloMass(density, z, p.occupation);

@@ -197,65 +197,107 @@ export function boxSigma(
   for (let i = 0; i < n1; i++) q1[i] = ((2 * r1.u[i]!) / l1) ** 2;
   for (let i = 0; i < n2; i++) q2[i] = ((2 * r2.u[i]!) / l2) ** 2;
   for (let i = 0; i < n3; i++) q3[i] = ((2 * r3.u[i]!) / l3) ** 2;
-  const p0 = power.powerZ0FromK2;
-  const w3 = r3.w;
   // Inner axis (longest side) summed into I(K) = Σ_c w_c P(K^2 + k_c^2), tabulated in ln K.
-  let q12Min = Infinity;
-  let q12Max = 0;
-  for (let a = 0; a < n1; a++) {
-    for (let b = 0; b < n2; b++) {
-      const q = q1[a]! + q2[b]!;
-      if (q < q12Min) q12Min = q;
-      if (q > q12Max) q12Max = q;
-    }
-  }
   const step = power.form === 'full' ? 0.02 : 0.1;
-  const lnKMin = 0.5 * Math.log(q12Min) - 2 * step;
-  const lnKMax = 0.5 * Math.log(q12Max) + 2 * step;
+  // the smallest and largest K^2 = q1_a + q2_b (floating-point sums are monotone in each term)
+  const lnKMin = 0.5 * Math.log(extreme(q1, -1) + extreme(q2, -1)) - 2 * step;
+  const lnKMax = 0.5 * Math.log(extreme(q1, 1) + extreme(q2, 1)) + 2 * step;
   const nTab = Math.max(4, Math.ceil((lnKMax - lnKMin) / step) + 1);
-  const lnI = new Float64Array(nTab);
-  for (let g = 0; g < nTab; g++) {
-    const k2 = Math.exp(2 * (lnKMin + g * step));
-    let s = 0;
-    for (let c = 0; c < n3; c++) s += w3[c]! * p0(k2 + q3[c]!);
-    lnI[g] = s > 0 ? Math.log(s) : Number.NEGATIVE_INFINITY;
-  }
-  const lnICubics = lagrangeCubics(lnI);
-  const lnIAt = (lnK: number): number => {
-    const t = (lnK - lnKMin) / step;
-    let i = Math.floor(t);
-    if (i < 1) i = 1;
-    if (i > nTab - 3) i = nTab - 3;
-    const u = t - i;
-    if (lnI[i - 1] === Number.NEGATIVE_INFINITY || lnI[i + 2] === Number.NEGATIVE_INFINITY) {
-      // a spectrum that underflows to 0 (only synthetic test spectra do): linear in I, no overshoot
-      return Math.log((1 - u) * Math.exp(lnI[i]!) + u * Math.exp(lnI[i + 1]!));
-    }
-    return lagrangeCubicAt(lnICubics, i, u);
-  };
-  let total = 0;
-  if (l1 === l2) {
-    // Two equal sides: the double sum is symmetric in (a, b); each pair off the diagonal twice.
-    for (let a = 0; a < n1; a++) {
-      const qa = q1[a]!;
-      let sb = 0.5 * r1.w[a]! * Math.exp(lnIAt(0.5 * Math.log(qa + qa)));
-      for (let b = a + 1; b < n1; b++) sb += r1.w[b]! * Math.exp(lnIAt(0.5 * Math.log(qa + q1[b]!)));
-      total += 2 * r1.w[a]! * sb;
-    }
-  } else {
-    for (let a = 0; a < n1; a++) {
-      const qa = q1[a]!;
-      let sb = 0;
-      for (let b = 0; b < n2; b++) sb += r2.w[b]! * Math.exp(lnIAt(0.5 * Math.log(qa + q2[b]!)));
-      total += r1.w[a]! * sb;
-    }
-  }
+  const lnI = innerTable(power.powerZ0FromK2, q3, r3.w, lnKMin, step, nTab);
+  const table: LnTable = { lnI, cubics: lagrangeCubics(lnI), lnKMin, step, last: nTab - 3 };
+  // Two equal sides: the double sum is symmetric in (a, b); each pair off the diagonal twice.
+  const total = l1 === l2 ? pairSumEqual(table, q1, r1.w) : pairSum(table, q1, r1.w, q2, r2.w);
   const sigma0 = Math.sqrt((8 / (Math.PI ** 3 * l1 * l2 * l3)) * total);
   if (byPower) {
     if (byPower.size >= BOX_CACHE_SIZE) byPower.delete(byPower.keys().next().value!);
     byPower.set(key, sigma0);
   }
   return sigma0 * d;
+}
+
+/**
+ * The tabulated inner sum: ln I(K) at ln K = lnKMin + g step, g < nTab, with
+ * I(K) = Σ_c w_c P(K^2 + q_c) (P at z = 0 from the squared wavenumber, q_c = k_c^2).
+ * boxSigma's loops are small functions of their own, so that the engine optimises each quickly
+ * (one function holding them all took tens of milliseconds to optimise at start-up).
+ */
+function innerTable(
+  p0: (k2: number) => number,
+  q3: Float64Array,
+  w3: Float64Array,
+  lnKMin: number,
+  step: number,
+  nTab: number,
+): Float64Array {
+  const lnI = new Float64Array(nTab);
+  for (let g = 0; g < nTab; g++) {
+    const s = innerSum(p0, Math.exp(2 * (lnKMin + g * step)), q3, w3);
+    lnI[g] = s > 0 ? Math.log(s) : Number.NEGATIVE_INFINITY;
+  }
+  return lnI;
+}
+
+/** Σ_c w_c P(k2 + q_c). */
+function innerSum(p0: (k2: number) => number, k2: number, q3: Float64Array, w3: Float64Array): number {
+  let s = 0;
+  for (let c = 0; c < q3.length; c++) s += w3[c]! * p0(k2 + q3[c]!);
+  return s;
+}
+
+/** ln I tabulated on a uniform ln K grid, with its 4-point Lagrange cubics. */
+interface LnTable {
+  readonly lnI: Float64Array;
+  readonly cubics: Float64Array;
+  readonly lnKMin: number;
+  readonly step: number;
+  /** The last node a cubic starts from (nTab - 3). */
+  readonly last: number;
+}
+
+/** I(K) from the table at ln K = 0.5 ln k2: exp of the cubic through the four nearest nodes. */
+function innerAt(t: LnTable, k2: number): number {
+  const x = (0.5 * Math.log(k2) - t.lnKMin) / t.step;
+  let i = Math.floor(x);
+  if (i < 1) i = 1;
+  if (i > t.last) i = t.last;
+  const u = x - i;
+  const lnI = t.lnI;
+  if (lnI[i - 1] === Number.NEGATIVE_INFINITY || lnI[i + 2] === Number.NEGATIVE_INFINITY) {
+    // a spectrum that underflows to 0 (only synthetic test spectra do): linear in I, no overshoot
+    return Math.exp(Math.log((1 - u) * Math.exp(lnI[i]!) + u * Math.exp(lnI[i + 1]!)));
+  }
+  return Math.exp(lagrangeCubicAt(t.cubics, i, u));
+}
+
+/** Σ_a Σ_b w1_a w2_b I(q1_a + q2_b). */
+function pairSum(t: LnTable, q1: Float64Array, w1: Float64Array, q2: Float64Array, w2: Float64Array): number {
+  let total = 0;
+  for (let a = 0; a < q1.length; a++) total += w1[a]! * rowSum(t, q1[a]!, q2, w2, 0, 0);
+  return total;
+}
+
+/** The same sum for two equal axes (one rule): the diagonal once, each pair off it twice. */
+function pairSumEqual(t: LnTable, q1: Float64Array, w1: Float64Array): number {
+  let total = 0;
+  for (let a = 0; a < q1.length; a++) {
+    const qa = q1[a]!;
+    total += 2 * w1[a]! * rowSum(t, qa, q1, w1, a + 1, 0.5 * w1[a]! * innerAt(t, qa + qa));
+  }
+  return total;
+}
+
+/** s0 + Σ_{b >= from} w_b I(qa + q_b). */
+function rowSum(t: LnTable, qa: number, q: Float64Array, w: Float64Array, from: number, s0: number): number {
+  let sb = s0;
+  for (let b = from; b < q.length; b++) sb += w[b]! * innerAt(t, qa + q[b]!);
+  return sb;
+}
+
+/** The largest (sign 1) or smallest (sign -1) element. */
+function extreme(q: Float64Array, sign: 1 | -1): number {
+  let m = q[0]!;
+  for (let a = 1; a < q.length; a++) if (sign * (q[a]! - m) > 0) m = q[a]!;
+  return m;
 }
 
 /** sigma at z = 0 of boxes already computed with the default rules, by spectrum and sorted sides. */

@@ -7,7 +7,7 @@ import {
   shethTormenBias,
   shethTormenMultiplicity,
 } from '../../src/uncertainty/haloes.js';
-import { createLinearPower } from '../../src/uncertainty/power-spectrum.js';
+import { computeLinearPower, createLinearPower } from '../../src/uncertainty/power-spectrum.js';
 import { adaptiveIntegrate } from '../../src/uncertainty/quadrature.js';
 import { planck2018, relErr } from './helpers.js';
 
@@ -147,6 +147,34 @@ describe('matcherAt sums its table only as far down as a match needs, and keeps 
       expect(lazy.massForBias(1.5)).toBe(whole.massForBias(1.5));
       // asked again: the kept matches, the same numbers
       expect(densities.map((n) => lazy.match(n))).toEqual(wholeMatches);
+    }
+  });
+});
+
+describe('densityAboveReaches sums the abundance tables only as far as its answer needs', () => {
+  it('answers as the comparison with haloDensityAboveMpc3 does, on fresh tables (n > target, n >= target), at and around the exact abundance', () => {
+    for (const z of [0, 0.45, 1.7, 4.2, 7.5]) {
+      for (const mass of [1e6, 3e9, 1e12, 1e16, 5e2, 3e16]) {
+        const exact = haloes.haloDensityAboveMpc3(mass, z);
+        // a model of its own (a spectrum outside the cache), whose tables start empty
+        const fresh = createHaloModel(computeLinearPower(planck2018));
+        const targets = [
+          1e-40,
+          1e-3 * exact,
+          0.5 * exact,
+          exact * (1 - 1e-15),
+          exact,
+          exact * (1 + 1e-15),
+          2 * exact,
+          1e3,
+        ];
+        for (const t of targets) {
+          expect(fresh.densityAboveReaches(mass, z, t, false)).toBe(exact > t);
+          expect(fresh.densityAboveReaches(mass, z, t, true)).toBe(exact >= t);
+        }
+        // and the abundance it then gives is the same number, bit for bit
+        expect(fresh.haloDensityAboveMpc3(mass, z)).toBe(exact);
+      }
     }
   });
 });
