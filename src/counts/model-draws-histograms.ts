@@ -42,7 +42,7 @@ import {
   chebyshevTail,
   type Chebyshev2D,
 } from '../numerics/chebyshev.js';
-import { upperGamma } from '../numerics/gamma.js';
+import { upperGammaByRecurrence } from '../numerics/gamma.js';
 import { gaussLegendreRule } from '../numerics/quadrature.js';
 import { CAPS } from '../model/limits.js';
 import type { ModelOffsets } from '../model/model-uncertainty.js';
@@ -394,8 +394,8 @@ interface LimitBin {
  * bright edge)), s = alpha_ik + d_alpha + 1, over the nodes whose limit is fainter than the bright
  * edge, u_i at obs o 10^((o - a_i - d_c) / slope) (the limits stay where they are in obs). Such bins
  * are few (the limits' spread over the bin width, plus one) and hold few nodes, so a draw costs
- * two incomplete gamma functions per node in them (a series over the offsets would cost more at
- * a hundred draws).
+ * two incomplete gamma functions (upperGammaByRecurrence) per node in them (a series over the
+ * offsets would cost more at a hundred draws).
  */
 function limitBin(
   f: HistogramNodes,
@@ -429,7 +429,8 @@ function limitBinCount(lb: LimitBin, o: ModelOffsets, slope: number): number {
     const da = o.alpha[k]!;
     for (let q = 0; q < w.length; q++) {
       const sOrder = alpha[q]! + da + 1;
-      const d = upperGamma(sOrder, 10 ** (lo[q]! + shift)) - upperGamma(sOrder, 10 ** (hi[q]! + shift));
+      const d =
+        upperGammaByRecurrence(sOrder, 10 ** (lo[q]! + shift)) - upperGammaByRecurrence(sOrder, 10 ** (hi[q]! + shift));
       if (d > 0) v += w[q]! * phiScale * d;
     }
   }

@@ -27,7 +27,7 @@ import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { modelOffsets, type ModelOffsets, type ModelUncertainty } from '../model/model-uncertainty.js';
-import { gammaFn, upperGamma } from '../numerics/gamma.js';
+import { gammaFn, upperGamma, upperGammaByRecurrence } from '../numerics/gamma.js';
 import {
   chebyshev2D,
   chebyshevAlongY,
@@ -867,8 +867,8 @@ function sliceLevelKept(
  * The tables of a slice with a hard limit (no completeness): per component, ln N_k(d_c, d_alpha_k)
  * = ln sum_i V_i phi*_ik Gamma(alpha_ik + d_alpha_k + 1, u_i 10^(-d_c / slope)) and the detected
  * luminosity (Gamma(s + 1, u) = s Gamma(s, u) + u^s e^-u, as sliceUnderDraw) as Chebyshev series
- * over the draws' offsets, from the exact sums at the Chebyshev points (logSeries, the points and
- * tolerance of SliceTables): a draw then costs one series per component instead of one incomplete
+ * over the draws' offsets, from the exact sums at the Chebyshev points (logSeries, the tolerance of
+ * SliceTables; the incomplete gamma functions by upperGammaByRecurrence): a draw then costs one series per component instead of one incomplete
  * gamma function per node and component. Undefined (the exact path) where a value vanishes or the
  * tail stays large.
  */
@@ -919,7 +919,7 @@ function hardTables(
             const w = f.vw[i]! * phiK[i]!;
             for (let q = 0; q < das.length; q++, at++) {
               const sOrder = alphaK[i]! + das[q]! + 1;
-              const g = kept ? kept[at]! : upperGamma(sOrder, u);
+              const g = kept ? kept[at]! : upperGammaByRecurrence(sOrder, u);
               if (!lum) {
                 if (gammas) gammas[at] = g;
                 v[q] = v[q]! + w * g;

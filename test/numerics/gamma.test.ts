@@ -6,7 +6,7 @@
 import { readFileSync } from 'node:fs';
 import fc from 'fast-check';
 import { describe, expect, test } from 'vitest';
-import { EULER_GAMMA, gammaFn, logUpperGamma, upperGamma } from '../../src/numerics/gamma.js';
+import { EULER_GAMMA, gammaFn, logUpperGamma, upperGamma, upperGammaByRecurrence } from '../../src/numerics/gamma.js';
 
 interface Row {
   group: string;
@@ -21,6 +21,34 @@ const fixture = JSON.parse(readFileSync(new URL('../reference/incomplete_gamma.j
 };
 const groups = [...new Set(fixture.rows.map((r) => r.group))].sort();
 const relErr = (a: number, b: number): number => Math.abs(a - b) / Math.abs(b);
+
+describe('upperGammaByRecurrence (s > 0 without @stdlib) against mpmath.gammainc, relative 1e-12', () => {
+  test.each(groups)('%s', (group) => {
+    const rows = fixture.rows.filter((r) => r.group === group && r.s > 0);
+    const bad: string[] = [];
+    for (const r of rows) {
+      const e = relErr(upperGammaByRecurrence(r.s, r.x), r.value);
+      if (!(e <= 1e-12))
+        bad.push(`s=${r.s} x=${r.x}: got ${upperGammaByRecurrence(r.s, r.x)}, mpmath ${r.value}, rel ${e}`);
+    }
+    expect(bad).toEqual([]);
+  });
+  test('the fixture holds orders above 0 at x from below 1e-3 to beyond 1.5', () => {
+    const rows = fixture.rows.filter((r) => r.s > 0);
+    expect(rows.length).toBeGreaterThan(50);
+    expect(Math.min(...rows.map((r) => r.x))).toBeLessThan(1e-3);
+    expect(rows.some((r) => r.x <= 1.5 && r.s > 0.5 && r.s < 3)).toBe(true);
+    expect(rows.some((r) => r.x > 1.5)).toBe(true);
+  });
+  test('it is upperGamma where s <= 0', () => {
+    for (const [s, x] of [
+      [-0.3, 0.02],
+      [0, 1],
+      [-1.7, 3],
+    ] as const)
+      expect(upperGammaByRecurrence(s, x)).toBe(upperGamma(s, x));
+  });
+});
 
 describe('upperGamma against mpmath.gammainc (mpmath 1.2.1), relative 1e-12', () => {
   test('the fixture was made by mpmath 1.2.1 and covers every range', () => {

@@ -3,7 +3,10 @@
  * and shared with test/cli/report.test.ts, see test/support/sample-reports.ts), opened in a
  * real headless browser (Debian's chromium driven by playwright-core, with the flags the report is checked under):
  * no console or page error, every figure drawn with a non-zero size, no request beyond the
- * document, a screenshot in test-output/. A survey whose title holds HTML and script, also made
+ * document, a screenshot in test-output/ (the first screen of each report: a full page costs the
+ * browser about a second a report, and test/render/browser.test.ts takes a full-page one of a
+ * report; SKYTALLY_FULL_SCREENSHOTS=1 takes full pages here too, for looking at every figure).
+ * A survey whose title holds HTML and script, also made
  * through the command, is shown as text and never run. Skipped, with a message, only when
  * /usr/bin/chromium is absent (.ci/run installs it through .ci/chromium.sh).
  */
@@ -21,6 +24,8 @@ if (!haveChromium)
   console.warn(`browser test skipped: ${CHROMIUM} is absent (.ci/run installs it with .ci/chromium.sh)`);
 
 const OUT = resolve('test-output');
+/** Full-page screenshots (every figure) rather than each report's first screen. */
+const FULL_PAGES = process.env.SKYTALLY_FULL_SCREENSHOTS === '1';
 const SAMPLES = readdirSync('samples')
   .filter((f) => f.endsWith('.yaml'))
   .map((f) => f.replace(/\.yaml$/, ''));
@@ -167,7 +172,7 @@ describe.skipIf(!haveChromium)('reports made by the command, in headless chromiu
       if (x.omitted !== null) o.omitted[x.id] = x.omitted;
       if (x.table) o.tables.push(`${x.id}-table`);
     }
-    o.screenshotBytes = (await page.screenshot({ path: join(OUT, `report-${name}.png`), fullPage: true })).length;
+    o.screenshotBytes = (await page.screenshot({ path: join(OUT, `report-${name}.png`), fullPage: FULL_PAGES })).length;
     await page.close();
     return o;
   }
