@@ -204,9 +204,8 @@ export function boxSigma(
   const lnKMax = 0.5 * Math.log(extreme(q1, 1) + extreme(q2, 1)) + 2 * step;
   const nTab = Math.max(4, Math.ceil((lnKMax - lnKMin) / step) + 1);
   const lnI = innerTable(power.powerZ0FromK2, q3, r3.w, lnKMin, step, nTab);
-  const table: LnTable = { lnI, cubics: lagrangeCubics(lnI), lnKMin, step, last: nTab - 3 };
   // Two equal sides: the double sum is symmetric in (a, b); each pair off the diagonal twice.
-  const total = l1 === l2 ? pairSumEqual(table, q1, r1.w) : pairSum(table, q1, r1.w, q2, r2.w);
+  const total = pairSum(lnI, lnKMin, step, q1, r1.w, q2, r2.w, l1 === l2);
   const sigma0 = Math.sqrt((8 / (Math.PI ** 3 * l1 * l2 * l3)) * total);
   if (byPower) {
     if (byPower.size >= BOX_CACHE_SIZE) byPower.delete(byPower.keys().next().value!);
@@ -244,52 +243,74 @@ function innerSum(p0: (k2: number) => number, k2: number, q3: Float64Array, w3: 
   return s;
 }
 
-/** ln I tabulated on a uniform ln K grid, with its 4-point Lagrange cubics. */
-interface LnTable {
-  readonly lnI: Float64Array;
-  readonly cubics: Float64Array;
-  readonly lnKMin: number;
-  readonly step: number;
-  /** The last node a cubic starts from (nTab - 3). */
-  readonly last: number;
-}
-
-/** I(K) from the table at ln K = 0.5 ln k2: exp of the cubic through the four nearest nodes. */
-function innerAt(t: LnTable, k2: number): number {
-  const x = (0.5 * Math.log(k2) - t.lnKMin) / t.step;
+/**
+ * I(K) from the table ln I(lnKMin + g step), g <= last + 2, and its 4-point Lagrange cubics, at
+ * ln K = 0.5 ln k2: exp of the cubic through the four nearest nodes. (Plain arguments rather than
+ * an object holding the table: the engine then never discards its optimised code over a table's
+ * fields.)
+ */
+function innerAt(
+  lnI: Float64Array,
+  cubics: Float64Array,
+  lnKMin: number,
+  step: number,
+  last: number,
+  k2: number,
+): number {
+  const x = (0.5 * Math.log(k2) - lnKMin) / step;
   let i = Math.floor(x);
   if (i < 1) i = 1;
-  if (i > t.last) i = t.last;
+  if (i > last) i = last;
   const u = x - i;
-  const lnI = t.lnI;
   if (lnI[i - 1] === Number.NEGATIVE_INFINITY || lnI[i + 2] === Number.NEGATIVE_INFINITY) {
     // a spectrum that underflows to 0 (only synthetic test spectra do): linear in I, no overshoot
     return Math.exp(Math.log((1 - u) * Math.exp(lnI[i]!) + u * Math.exp(lnI[i + 1]!)));
   }
-  return Math.exp(lagrangeCubicAt(t.cubics, i, u));
+  return Math.exp(lagrangeCubicAt(cubics, i, u));
 }
 
-/** Σ_a Σ_b w1_a w2_b I(q1_a + q2_b). */
-function pairSum(t: LnTable, q1: Float64Array, w1: Float64Array, q2: Float64Array, w2: Float64Array): number {
-  let total = 0;
-  for (let a = 0; a < q1.length; a++) total += w1[a]! * rowSum(t, q1[a]!, q2, w2, 0, 0);
-  return total;
-}
-
-/** The same sum for two equal axes (one rule): the diagonal once, each pair off it twice. */
-function pairSumEqual(t: LnTable, q1: Float64Array, w1: Float64Array): number {
+/**
+ * The double sum over the two shorter axes, Σ_a Σ_b w1_a w2_b I(q1_a + q2_b), with I tabulated
+ * (innerAt); for two equal axes (one rule, q2 = q1) the diagonal once and each pair off it twice.
+ */
+function pairSum(
+  lnI: Float64Array,
+  lnKMin: number,
+  step: number,
+  q1: Float64Array,
+  w1: Float64Array,
+  q2: Float64Array,
+  w2: Float64Array,
+  equal: boolean,
+): number {
+  const cubics = lagrangeCubics(lnI);
+  const last = lnI.length - 3;
   let total = 0;
   for (let a = 0; a < q1.length; a++) {
     const qa = q1[a]!;
-    total += 2 * w1[a]! * rowSum(t, qa, q1, w1, a + 1, 0.5 * w1[a]! * innerAt(t, qa + qa));
+    if (equal) {
+      const diagonal = 0.5 * w1[a]! * innerAt(lnI, cubics, lnKMin, step, last, qa + qa);
+      total += 2 * w1[a]! * rowSum(lnI, cubics, lnKMin, step, last, qa, q1, w1, a + 1, diagonal);
+    } else total += w1[a]! * rowSum(lnI, cubics, lnKMin, step, last, qa, q2, w2, 0, 0);
   }
   return total;
 }
 
 /** s0 + Σ_{b >= from} w_b I(qa + q_b). */
-function rowSum(t: LnTable, qa: number, q: Float64Array, w: Float64Array, from: number, s0: number): number {
+function rowSum(
+  lnI: Float64Array,
+  cubics: Float64Array,
+  lnKMin: number,
+  step: number,
+  last: number,
+  qa: number,
+  q: Float64Array,
+  w: Float64Array,
+  from: number,
+  s0: number,
+): number {
   let sb = s0;
-  for (let b = from; b < q.length; b++) sb += w[b]! * innerAt(t, qa + q[b]!);
+  for (let b = from; b < q.length; b++) sb += w[b]! * innerAt(lnI, cubics, lnKMin, step, last, qa + q[b]!);
   return sb;
 }
 
