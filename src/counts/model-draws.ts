@@ -389,8 +389,9 @@ function sliceUnderDraw(
  *     (a row of points at a time: at one d_c, level 1 at each node's t as a series in alpha,
  *     chebyshevAlongY, then at every d_alpha).
  * A draw then costs one series per component: N = sum_k 10^(d_phi_k) N_k. Along each variable
- * the points start at 16 and 8 (for a population's first slice; a later slice starts at what the
- * slice before it needed) and double (to 64 and 32) until the coefficients' tail, an estimate of
+ * the points start at 16 and 16 (for a population's first slice, where 16 and 8 failed on every
+ * sample; a later slice starts at what the slice before it needed) and double (to 64 and 32)
+ * until the coefficients' tail, an estimate of
  * the error in the logarithm, is below TABLE_TOLERANCE x max(1, the largest |ln|);
  * otherwise, or where a value vanishes, or where the limit differs from node to node (a
  * threshold limit tabulated in z), the slice takes the exact path for every draw.
@@ -462,7 +463,7 @@ export const TABLE_TOLERANCE = 1e-10;
  * depend on whether the luminosity is asked for), and under a hard limit (hardTables: count and
  * luminosity each on points of their own, grown by morePoints).
  */
-const TABLE_POINTS: [number, number] = [16, 8];
+const TABLE_POINTS: [number, number] = [16, 16];
 const HARD_TABLE_POINTS: [number, number] = [10, 8];
 /** The points each level starts from: TABLE_POINTS (HARD_TABLE_POINTS) for a population's first slice, then what the slice before needed. */
 interface TableStart {

@@ -16,7 +16,7 @@ import { parseYaml } from '../../src/survey/yaml.js';
 import { loadSurveyText } from '../../src/survey/load.js';
 import {
   exploreControls,
-  exposureDesign,
+  controlSettings,
   settingsObject,
   settingsText,
   type ControlSpec,
@@ -46,12 +46,7 @@ function moved(c: ControlSpec): number {
 
 /** What the page sets for one control at `v` (the exposure sets the area and the limit). */
 function settings(c: ControlSpec, v: number): Map<string, number> {
-  if (!c.plan) return new Map([[c.key, v]]);
-  const d = exposureDesign(c.plan, Math.min(c.max, Math.max(c.min, v)));
-  return new Map([
-    ['area', d.area],
-    ['detection.limit', d.limit],
-  ]);
+  return new Map(controlSettings(c, c.plan ? Math.min(c.max, Math.max(c.min, v)) : v));
 }
 
 /** One page update after moving `c` (what src/explore/browser/main.ts does on an input event). */

@@ -14,12 +14,7 @@ import { dirname, join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { parseYaml } from '../../src/survey/yaml.js';
 import { loadSurveyText } from '../../src/survey/load.js';
-import {
-  exploreControls,
-  exposureDesign,
-  settingsObject,
-  type ControlSpec,
-} from '../../src/library/explore/settings.js';
+import { exploreControls, controlSettings, settingsObject } from '../../src/library/explore/settings.js';
 import { exploreCompute, exploreInTwo, exploreMemo, type ExploreResult } from '../../src/library/explore/engine.js';
 import { outputsHtml, slicesHtml } from '../../src/render/explore/view.js';
 
@@ -51,15 +46,6 @@ function pendingOf(r: ExploreResult): string[] {
   ].sort();
 }
 
-function settingOf(c: ControlSpec, v: number): [string, number][] {
-  if (!c.plan) return [[c.key, v]];
-  const d = exposureDesign(c.plan, v);
-  return [
-    ['area', d.area],
-    ['detection.limit', d.limit],
-  ];
-}
-
 describe.each(['plan-robust-uv-slope.yaml', 'mass-limited.yaml', 'double-schechter-mass.yaml'])('%s', (sample) => {
   test('first every number but the model draws (those pending), then the whole result, equal to the page without memory', async () => {
     const path = join('samples', sample);
@@ -71,7 +57,7 @@ describe.each(['plan-robust-uv-slope.yaml', 'mass-limited.yaml', 'double-schecht
     for (const c of [undefined, ...controls]) {
       if (c) {
         const v = c.scale === 'log' ? c.value * 10 ** 0.03 : c.value + 0.03 * (c.max - c.min);
-        for (const [k, x] of settingOf(c, Math.min(c.max, Math.max(c.min, v)))) values.set(k, x);
+        for (const [k, x] of controlSettings(c, Math.min(c.max, Math.max(c.min, v)))) values.set(k, x);
       }
       const what = c ? `${c.key} moved` : 'the file';
       const source = () => ({ text: '', object: settingsObject(raw, controls, values) });

@@ -16,7 +16,7 @@ import { parseYaml } from '../../src/survey/yaml.js';
 import { loadSurveyFile, loadSurveyText } from '../../src/survey/load.js';
 import {
   exploreControls,
-  exposureDesign,
+  controlSettings,
   settingsObject,
   type ControlSpec,
 } from '../../src/library/explore/settings.js';
@@ -31,16 +31,6 @@ import { surveyForPopulation } from '../../src/model/select.js';
 
 const REL = 1e-12;
 const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml'));
-
-/** What the page sets for control `c` at `v` (the exposure per pointing sets the area and the limit). */
-function settingOf(c: ControlSpec, v: number): [string, number][] {
-  if (!c.plan) return [[c.key, v]];
-  const d = exposureDesign(c.plan, v);
-  return [
-    ['area', d.area],
-    ['detection.limit', d.limit],
-  ];
-}
 
 /** A control moved within its range (a few per cent of it, or of its value on a log scale). */
 function moved(c: ControlSpec, step: number): number {
@@ -100,7 +90,7 @@ describe.each(SAMPLES)('%s', (sample) => {
       ...controls.map((c): [ControlSpec, number] => [c, 0]),
     ];
     for (const [c, step] of steps) {
-      for (const [k, v] of settingOf(c, moved(c, step))) values.set(k, v);
+      for (const [k, v] of controlSettings(c, moved(c, step))) values.set(k, v);
       const object = () => settingsObject(raw, controls, values);
       const kept = await exploreCompute({ text: '', object: object() }, sample, dirname(path), keep);
       const fresh = await exploreCompute({ text: '', object: object() }, sample, dirname(path));

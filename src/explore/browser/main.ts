@@ -8,7 +8,7 @@
  * drawn.
  */
 import type { ControlSpec } from '../../model/explore.js';
-import { exposureDesign, settingsObject, settingsText } from '../../library/explore/settings.js';
+import { controlSettings, settingsObject, settingsText } from '../../library/explore/settings.js';
 import { parseYaml } from '../../survey/yaml.js';
 import { exploreInTwo, exploreMemo, type ExploreResult } from '../../library/explore/engine.js';
 import { figureParts, fisherHtml, outputsHtml, slicesHtml, warningsHtml } from '../../render/explore/view.js';
@@ -182,11 +182,7 @@ function start(): void {
       values.set(c.key, v);
       return;
     }
-    const design = exposureDesign(c.plan, v);
-    for (const [key, value] of [
-      ['area', design.area],
-      ['detection.limit', design.limit],
-    ] as const) {
+    for (const [key, value] of controlSettings(c, v)) {
       values.set(key, value);
       const other = data.controls.find((x) => x.key === key);
       if (other) show(other, value);

@@ -256,6 +256,16 @@ export function exposureDesign(
   };
 }
 
+/** The survey-file keys a control sets at `v`: its own key, or, for the exposure per pointing, the area and the limit. */
+export function controlSettings(c: ControlSpec, v: number): [string, number][] {
+  if (!c.plan) return [[c.key, v]];
+  const d = exposureDesign(c.plan, v);
+  return [
+    ['area', d.area],
+    ['detection.limit', d.limit],
+  ];
+}
+
 /**
  * The parsed survey file with the given settings: a copy of `raw` (the file as the loader's YAML
  * reader gives it) with those values replaced. The loader reads it exactly as it reads
