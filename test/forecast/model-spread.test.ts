@@ -7,10 +7,11 @@
  *   of 1,000 draws within 4 Monte Carlo errors, 4 sqrt(se^2 + se_1000^2) (se: the reference's own
  *   error at its 20,000 draws, se_1000: that of a 1,000-draw estimate); with a draws file (the same
  *   draws on both sides, no Monte Carlo error) to 1e-6 relative; the area that meets a target at
- *   p50 and p84 of the draws (Poisson only: A (P_p(sigma) / target)^2) likewise, from 250 draws
+ *   p50 and p84 of the draws (Poisson only: A (P_p(sigma) / target)^2) likewise, from 100 draws
  *   (each trial depth of the limit's search recomputes every draw): 4 sqrt(se^2 + se_1000^2 1000 /
- *   250), the reference's N-draw tolerance (Monte Carlo error as 1 / sqrt(N)), doubled in relative
- *   terms by the square; and that area equals A (P_p / target)^2 of the forecast's own spread.
+ *   100), the reference's N-draw tolerance (Monte Carlo error as 1 / sqrt(N)), doubled in relative
+ *   terms by the square (at seed 1 the largest error is 0.24 of it); and that area equals
+ *   A (P_p / target)^2 of the forecast's own spread.
  * - Every sigma 0: p16 = p50 = p84 = the plain sigma exactly, and the requirement at p50 and p84
  *   is the plain one.
  * - Bit-identical for a seed; another seed gives other draws; percentiles ordered and finite
@@ -55,8 +56,14 @@ interface Case {
 const REF = JSON.parse(readFileSync('test/reference/forecast_model.json', 'utf8')) as { cases: Case[] };
 const KEYS = ['p16', 'p50', 'p84'] as const;
 const DRAWS = 1000;
-/** Draws of the searches for a target (normal draws; a draws file gives every row). */
-const REQUIREMENT_DRAWS = 250;
+/**
+ * Draws of the searches for a target (normal draws; a draws file gives every row). The tolerance
+ * below scales the reference's 1,000-draw error by sqrt(1000 / N) (Monte Carlo error as
+ * 1 / sqrt(N)), so it is derived for this N: from the reference's errors, 8-29 % relative on the
+ * areas here (5-18 % at 250 draws); the finer checks stay: the percentiles of 1,000 draws above and
+ * the area equal to A (P_p / target)^2 of the run's own spread to 1e-8 below.
+ */
+const REQUIREMENT_DRAWS = 100;
 
 const rel = (a: number, b: number) => Math.abs(a / b - 1);
 
