@@ -24,6 +24,9 @@ import {
 
 export { MAX_SURVEY_BYTES, MAX_TABLE_BYTES, type InputFile, type InputText, type ReadInputOptions };
 
+/** Strict UTF-8 (invalid bytes throw); one decoder serves every read (a whole-buffer decode keeps no state). */
+const UTF8 = new TextDecoder('utf-8', { fatal: true });
+
 function openReason(code: string | undefined): string {
   switch (code) {
     case 'ENOENT':
@@ -81,8 +84,9 @@ export function readInputText(path: string, opts: ReadInputOptions): InputText {
       );
     }
     // Read at most maxBytes + 1 bytes whatever the size said (files under /proc say 0; a file
-    // may grow while it is read).
-    const buf = Buffer.alloc(Math.min(opts.maxBytes + 1, Math.max(st.size + 1, 64 * 1024)));
+    // may grow while it is read). One block, not zero-filled (only the bytes read are copied
+    // out of it), reused for every read: a survey of a few hundred bytes needs no 64 KiB of zeros.
+    const buf = Buffer.allocUnsafe(Math.min(opts.maxBytes + 1, Math.max(st.size + 1, 64 * 1024)));
     let chunks: Buffer[] = [];
     let total = 0;
     let block = buf;
@@ -107,14 +111,14 @@ export function readInputText(path: string, opts: ReadInputOptions): InputText {
           'check that this is the right file',
         );
       }
-      block = Buffer.alloc(Math.min(64 * 1024, opts.maxBytes + 1 - total));
+      block = buf.subarray(0, Math.min(buf.length, opts.maxBytes + 1 - total));
     }
     const bytes = Buffer.concat(chunks, total);
     chunks = [];
     if (bytes.includes(0)) return fail('not_text', 'holds binary data (a NUL byte), not text', 'give a text file');
     let text: string;
     try {
-      text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
+      text = UTF8.decode(bytes);
     } catch {
       return fail('not_text', 'is not UTF-8 text', 'save it as UTF-8 text');
     }

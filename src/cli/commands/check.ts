@@ -1,5 +1,5 @@
 import type { CommandDef } from './types.js';
-import { addOutputOptions, loadSurveyArg, outputOptions, printWarnings } from './common.js';
+import { addOutputOptions, loadSurveyArg, outputOptions, printWarnings, surveyLoader } from './common.js';
 import { Outputs, renderText } from '../io.js';
 import { csvText } from '../../render/csv.js';
 import { printable } from '../../errors.js';
@@ -18,7 +18,7 @@ export const checkCommand: CommandDef = {
     outputs.refuseInputs([file]);
     const survey = await loadSurveyArg(io, file);
     outputs.refuseInputs(survey.inputs ?? []);
-    const { describeSurvey } = await import('../../survey/index.js');
+    const { describeSurvey } = await surveyLoader();
     const { surveyWarnings } = await import('../../population/warnings.js');
     const { predictionWarnings } = await import('../../counts/warnings.js');
     const { mergeWarnings } = await import('../../warnings.js');

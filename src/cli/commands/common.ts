@@ -39,8 +39,18 @@ export function outputOptions(opts: Record<string, unknown>): OutputOptions {
 }
 
 export async function loadSurveyArg(io: CliIO, file: string) {
-  const { loadSurveyFile } = await import('../../survey/index.js');
+  const { loadSurveyFile } = await surveyLoader();
   return loadSurveyFile(resolve(io.cwd, file));
+}
+
+/**
+ * The survey loader, imported on first use and kept: a program that runs many commands in one
+ * process (the library's callers, the tests) resolves the import once, not once per command.
+ */
+let loader: Promise<typeof import('../../survey/index.js')> | undefined;
+export function surveyLoader(): Promise<typeof import('../../survey/index.js')> {
+  loader ??= import('../../survey/index.js');
+  return loader;
 }
 
 /**
