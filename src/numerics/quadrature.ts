@@ -23,6 +23,26 @@ export interface QuadratureRule {
 
 const ruleCache = new Map<number, QuadratureRule>();
 
+/** P_n(z) and P_(n-1)(z) of legendreAt (gaussLegendreRule does not nest). */
+const legendre = new Float64Array(2);
+
+/**
+ * P_n(z) and P_(n-1)(z) by the three-term recurrence (DLMF 18.9.1) into out. A function of its own:
+ * run cold, V8's optimising compiler costs more the larger the function it optimises, and every
+ * process makes a few rules (DEVELOPERS.md, "Start-up time"); the arithmetic is the same.
+ */
+function legendreAt(n: number, z: number, out: Float64Array): void {
+  let p1 = 1;
+  let p2 = 0;
+  for (let j = 1; j <= n; j++) {
+    const p3 = p2;
+    p2 = p1;
+    p1 = ((2 * j - 1) * z * p2 - (j - 1) * p3) / j;
+  }
+  out[0] = p1;
+  out[1] = p2;
+}
+
 /**
  * n-point Gauss-Legendre rule on [-1, 1] (cached). n must be an integer in [1, 1000].
  * Nodes are roots of P_n; weights w_i = 2 / ((1 - x_i^2) P_n'(x_i)^2) (DLMF 3.5.19).
@@ -41,26 +61,15 @@ export function gaussLegendreRule(n: number): QuadratureRule {
     let z = Math.cos((Math.PI * (i + 0.75)) / (n + 0.5));
     let pp = 0;
     for (let iter = 0; iter < 100; iter++) {
-      let p1 = 1;
-      let p2 = 0;
-      for (let j = 1; j <= n; j++) {
-        const p3 = p2;
-        p2 = p1;
-        p1 = ((2 * j - 1) * z * p2 - (j - 1) * p3) / j;
-      }
-      pp = (n * (z * p1 - p2)) / (z * z - 1);
+      legendreAt(n, z, legendre);
+      const p1 = legendre[0]!;
+      pp = (n * (z * p1 - legendre[1]!)) / (z * z - 1);
       const dz = p1 / pp;
       z -= dz;
       if (Math.abs(dz) <= 1e-16) {
         // one more evaluation of the derivative at the converged node
-        p1 = 1;
-        p2 = 0;
-        for (let j = 1; j <= n; j++) {
-          const p3 = p2;
-          p2 = p1;
-          p1 = ((2 * j - 1) * z * p2 - (j - 1) * p3) / j;
-        }
-        pp = (n * (z * p1 - p2)) / (z * z - 1);
+        legendreAt(n, z, legendre);
+        pp = (n * (z * legendre[0]! - legendre[1]!)) / (z * z - 1);
         break;
       }
     }
