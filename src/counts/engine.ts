@@ -655,17 +655,9 @@ export function histogramCount(
   const work0 = rules ? [rules.completenessEvaluations, rules.densityEvaluations] : [0, 0];
   let detectedLuminosity = 0;
   // Range of obs over the slice: from the limit to the bright end (u = uLim + 40 or 40).
-  let obsMin = Infinity;
-  let obsMax = -Infinity;
-  for (const nd of nodes) {
-    if (!Number.isFinite(nd.log10ULimit)) continue;
-    const uLim = 10 ** nd.log10ULimit;
-    const uBright = uLim > 1 ? uLim + U_BRIGHT_SPAN : U_BRIGHT_SPAN;
-    const o1 = nd.a + slope * nd.log10ULimit;
-    const o2 = nd.a + slope * Math.log10(uBright);
-    obsMin = Math.min(obsMin, o1, o2);
-    obsMax = Math.max(obsMax, o1, o2);
-  }
+  obsRange(nodes, slope, obsSpan);
+  const obsMin = obsSpan[0]!;
+  const obsMax = obsSpan[1]!;
   if (!Number.isFinite(obsMin)) {
     if (detail) detail.bins = nodes.map(() => [0]);
     return { count: 0, histogram: { variable: observer.variable, edges: [0, width], counts: [0] } };
@@ -693,75 +685,13 @@ export function histogramCount(
     const nd = nodes[at]!;
     if (!Number.isFinite(nd.log10ULimit)) continue;
     const row = detail?.bins[at];
-    const l10uLim = nd.log10ULimit;
     let nodeCount = 0; // what this node adds to the bins
     if (!completeness) {
-      for (const c of nd.components) {
-        const s = c.alpha + 1;
-        // Gamma(s, u) at every edge (u clipped below at the limit); the bright side is open.
-        for (let k = 0; k <= nBins; k++) {
-          const l10u = (edges[k]! - nd.a) / slope;
-          gammas[k] = l10u <= l10uLim ? NaN : upperGamma(s, 10 ** l10u);
-        }
-        const gLim = upperGamma(s, 10 ** l10uLim);
-        for (let b = 0; b < nBins; b++) {
-          // Edge indices on the faint and bright side of bin b.
-          const faint = slope > 0 ? b : b + 1;
-          const bright = slope > 0 ? b + 1 : b;
-          const gFaintRaw = gammas[faint]!;
-          const gBrightRaw = gammas[bright]!;
-          if (Number.isNaN(gBrightRaw) && b !== brightBin) continue; // whole bin below the limit
-          const gFaint = Number.isNaN(gFaintRaw) ? gLim : gFaintRaw;
-          const gBright = b === brightBin ? 0 : Number.isNaN(gBrightRaw) ? gLim : gBrightRaw;
-          const d = gFaint - gBright;
-          if (d > 0) {
-            const v = nd.volumeWeight * c.phiStar * d;
-            counts[b]! += v;
-            nodeCount += v;
-            if (row) row[b]! += v;
-          }
-        }
-      }
+      for (const c of nd.components)
+        nodeCount = hardComponentBins(nd, c, slope, edges, nBins, brightBin, gammas, counts, row, nodeCount);
     } else {
-      const [vLo, vHi] = breaks!.varying;
       rules!.setNode(nd);
-      for (let b = 0; b < nBins; b++) {
-        const faintObs = slope > 0 ? edges[b]! : edges[b + 1]!;
-        const brightObs = slope > 0 ? edges[b + 1]! : edges[b]!;
-        const l10uLo = Math.max((faintObs - nd.a) / slope, l10uLim);
-        let l10uHi = (brightObs - nd.a) / slope;
-        const open = b === brightBin;
-        if (!(l10uHi > l10uLo) && !open) continue;
-        const lowObs = Math.min(faintObs, brightObs);
-        const highObs = Math.max(faintObs, brightObs);
-        if (open || highObs <= vLo || lowObs >= vHi) {
-          // Completeness is constant over this bin (or, for the open brightest bin, beyond its
-          // edge): the closed form times that constant.
-          const cBin = completeness(0.5 * (faintObs + brightObs));
-          if (!open || highObs <= vLo || lowObs >= vHi) {
-            const n = schechterBetween(nd.components, l10uLo, open ? Infinity : l10uHi, 0);
-            if (n > 0) {
-              const v = nd.volumeWeight * cBin * n;
-              counts[b]! += v;
-              nodeCount += v;
-              if (row) row[b]! += v;
-            }
-            continue;
-          }
-        }
-        if (open) {
-          const uLim = 10 ** l10uLim;
-          l10uHi = Math.max(l10uHi, Math.log10(uLim > 1 ? uLim + U_BRIGHT_SPAN : U_BRIGHT_SPAN));
-        }
-        if (!(l10uHi > l10uLo)) continue;
-        // The bin in obs: its faint edge (or the limit) to its bright edge.
-        const oA = l10uLo === l10uLim ? nd.obsLimit : faintObs;
-        const oB = open ? nd.a + slope * l10uHi : brightObs;
-        const v = nd.volumeWeight * rules!.integrate(oA, oB, 0);
-        counts[b]! += v;
-        nodeCount += v;
-        if (row) row[b]! += v;
-      }
+      nodeCount = completeNodeBins(nd, slope, edges, nBins, brightBin, completeness, breaks!, rules!, counts, row);
       if (withLuminosity) {
         const d =
           nd.volumeWeight *
@@ -785,6 +715,134 @@ export function histogramCount(
     completenessWork.densityEvaluations += rules.densityEvaluations - work0[1]!;
   }
   return out;
+}
+
+/** Scratch for obsRange (histogramCount does not nest). */
+const obsSpan = new Float64Array(2);
+
+/**
+ * The range of obs over a slice's nodes, from the limit to the bright end (u = uLim + 40 or 40),
+ * into span ([Infinity, -Infinity] when no node detects anything). histogramCount's parts are
+ * small functions: run cold, V8's optimising compiler costs more the larger the function
+ * (DEVELOPERS.md, "Start-up time"); the arithmetic is the same, in the same order.
+ */
+function obsRange(nodes: NodeState[], slope: number, span: Float64Array): void {
+  let obsMin = Infinity;
+  let obsMax = -Infinity;
+  for (const nd of nodes) {
+    if (!Number.isFinite(nd.log10ULimit)) continue;
+    const uLim = 10 ** nd.log10ULimit;
+    const uBright = uLim > 1 ? uLim + U_BRIGHT_SPAN : U_BRIGHT_SPAN;
+    const o1 = nd.a + slope * nd.log10ULimit;
+    const o2 = nd.a + slope * Math.log10(uBright);
+    obsMin = Math.min(obsMin, o1, o2);
+    obsMax = Math.max(obsMax, o1, o2);
+  }
+  span[0] = obsMin;
+  span[1] = obsMax;
+}
+
+/**
+ * One Schechter component's counts in the bins at a node without completeness, added to counts
+ * (and row); returns nodeCount plus them, added bin by bin.
+ */
+function hardComponentBins(
+  nd: NodeState,
+  c: NodeState['components'][number],
+  slope: number,
+  edges: number[],
+  nBins: number,
+  brightBin: number,
+  gammas: number[],
+  counts: number[],
+  row: number[] | undefined,
+  nodeCount: number,
+): number {
+  const l10uLim = nd.log10ULimit;
+  const s = c.alpha + 1;
+  // Gamma(s, u) at every edge (u clipped below at the limit); the bright side is open.
+  for (let k = 0; k <= nBins; k++) {
+    const l10u = (edges[k]! - nd.a) / slope;
+    gammas[k] = l10u <= l10uLim ? NaN : upperGamma(s, 10 ** l10u);
+  }
+  const gLim = upperGamma(s, 10 ** l10uLim);
+  for (let b = 0; b < nBins; b++) {
+    // Edge indices on the faint and bright side of bin b.
+    const faint = slope > 0 ? b : b + 1;
+    const bright = slope > 0 ? b + 1 : b;
+    const gFaintRaw = gammas[faint]!;
+    const gBrightRaw = gammas[bright]!;
+    if (Number.isNaN(gBrightRaw) && b !== brightBin) continue; // whole bin below the limit
+    const gFaint = Number.isNaN(gFaintRaw) ? gLim : gFaintRaw;
+    const gBright = b === brightBin ? 0 : Number.isNaN(gBrightRaw) ? gLim : gBrightRaw;
+    const d = gFaint - gBright;
+    if (d > 0) {
+      const v = nd.volumeWeight * c.phiStar * d;
+      counts[b]! += v;
+      nodeCount += v;
+      if (row) row[b]! += v;
+    }
+  }
+  return nodeCount;
+}
+
+/**
+ * A node's counts in the bins with a completeness (rules set to the node), added to counts (and
+ * row); returns their sum, added bin by bin from 0.
+ */
+function completeNodeBins(
+  nd: NodeState,
+  slope: number,
+  edges: number[],
+  nBins: number,
+  brightBin: number,
+  completeness: CompletenessFn,
+  breaks: { points: number[]; scale: number; varying: [number, number] },
+  rules: CompletenessQuadrature,
+  counts: number[],
+  row: number[] | undefined,
+): number {
+  const l10uLim = nd.log10ULimit;
+  const [vLo, vHi] = breaks.varying;
+  let nodeCount = 0;
+  for (let b = 0; b < nBins; b++) {
+    const faintObs = slope > 0 ? edges[b]! : edges[b + 1]!;
+    const brightObs = slope > 0 ? edges[b + 1]! : edges[b]!;
+    const l10uLo = Math.max((faintObs - nd.a) / slope, l10uLim);
+    let l10uHi = (brightObs - nd.a) / slope;
+    const open = b === brightBin;
+    if (!(l10uHi > l10uLo) && !open) continue;
+    const lowObs = Math.min(faintObs, brightObs);
+    const highObs = Math.max(faintObs, brightObs);
+    if (open || highObs <= vLo || lowObs >= vHi) {
+      // Completeness is constant over this bin (or, for the open brightest bin, beyond its
+      // edge): the closed form times that constant.
+      const cBin = completeness(0.5 * (faintObs + brightObs));
+      if (!open || highObs <= vLo || lowObs >= vHi) {
+        const n = schechterBetween(nd.components, l10uLo, open ? Infinity : l10uHi, 0);
+        if (n > 0) {
+          const v = nd.volumeWeight * cBin * n;
+          counts[b]! += v;
+          nodeCount += v;
+          if (row) row[b]! += v;
+        }
+        continue;
+      }
+    }
+    if (open) {
+      const uLim = 10 ** l10uLim;
+      l10uHi = Math.max(l10uHi, Math.log10(uLim > 1 ? uLim + U_BRIGHT_SPAN : U_BRIGHT_SPAN));
+    }
+    if (!(l10uHi > l10uLo)) continue;
+    // The bin in obs: its faint edge (or the limit) to its bright edge.
+    const oA = l10uLo === l10uLim ? nd.obsLimit : faintObs;
+    const oB = open ? nd.a + slope * l10uHi : brightObs;
+    const v = nd.volumeWeight * rules.integrate(oA, oB, 0);
+    counts[b]! += v;
+    nodeCount += v;
+    if (row) row[b]! += v;
+  }
+  return nodeCount;
 }
 
 const PANEL_RULE = 8;

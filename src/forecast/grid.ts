@@ -35,10 +35,10 @@ import type { Survey } from '../model/survey.js';
 import { piecewiseRedshiftNodes } from '../counts/engine.js';
 import { upperGamma } from '../numerics/gamma.js';
 import { panelNodes, type PanelNodes } from '../numerics/quadrature.js';
-import { makeObserver } from '../selection/observe.js';
-import { selectionEffects } from '../selection/effects.js';
-import { completenessBreaks, completenessFunction } from '../selection/completeness.js';
-import { populationAt } from '../population/model.js';
+import { makeObserver, type Observation, type Observer } from '../selection/observe.js';
+import { selectionEffects, type SelectionEffects } from '../selection/effects.js';
+import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
+import { populationAt, type PopulationAtZ } from '../population/model.js';
 import { characteristicShift } from './parameters.js';
 import type { FisherParts } from './fisher.js';
 import { zeros } from '../numerics/linalg.js';
@@ -236,6 +236,54 @@ class FisherSums implements DensitySink {
 }
 
 /**
+ * What walkDensity's parts share: the arguments, the selection and the scratch arrays. Run cold
+ * (every forecast is a new process), V8's optimising compiler costs more the larger the function
+ * it optimises, so the walk is small functions (a slice, a node, a segment, its completeness, its
+ * points) passing this record rather than one function with closures (DEVELOPERS.md, "Start-up
+ * time"); the arithmetic is the single function's, operation for operation, in the same order.
+ */
+interface Walk {
+  survey: Survey;
+  population: Population;
+  cosmo: FlatCosmology;
+  observer: Observer;
+  effects: SelectionEffects;
+  cfn: CompletenessFn | undefined;
+  breaks: CompletenessBreaks | undefined;
+  slope: number;
+  maxStep: number;
+  /** Fine panels only near a logistic's half point (maxStep < MAX_PANEL_T only for a narrow logistic). */
+  fineBand: number;
+  panels: PanelNodes;
+  segment: number[];
+  lnW: Float64Array;
+  /**
+   * ln c at the points of a segment between two named cuts (the limit, a break point, a fine band's
+   * edge): where the limit is one observed value (a flux or magnitude limit) every node's segment
+   * between the same cuts covers the same observed values in the same panels, so the completeness
+   * is evaluated once for all nodes; reused only when the segment's ends agree to 1e-14 of the
+   * observed value (else evaluated afresh: a limit tabulated in z)
+   */
+  shared: Map<string, SharedLogC>;
+  sink: DensitySink;
+}
+
+interface SharedLogC {
+  oLo: number;
+  oHi: number;
+  count: number;
+  values: Float64Array;
+}
+
+type CompletenessBreaks = ReturnType<typeof completenessBreaks>;
+
+/** A panel cut and its name (see Walk.shared). */
+interface Cut {
+  t: number;
+  name: string;
+}
+
+/**
  * The grid's points, nodes and slices, in order, into `sink` (buildDensityGrid's arguments);
  * returns the slope of obs = a + slope log10 u.
  */
@@ -258,109 +306,171 @@ function walkDensity(
     MAX_PANEL_T,
     breaks && Number.isFinite(breaks.scale) ? (panelWidths * breaks.scale * LN10) / Math.abs(slope) : MAX_PANEL_T,
   );
-  const panels: PanelNodes = { x: new Float64Array(256), w: new Float64Array(256), count: 0 };
-  // Fine panels only near a logistic's half point (maxStep < MAX_PANEL_T only for a narrow logistic).
-  const fineBand = maxStep < MAX_PANEL_T ? FINE_WIDTHS * maxStep : 0;
-  const segment: number[] = [0, 0];
-  const lnW = new Float64Array(PANEL_POINTS);
-  // ln c at the points of a segment between two named cuts (the limit, a break point, a fine band's
-  // edge): where the limit is one observed value (a flux or magnitude limit) every node's segment
-  // between the same cuts covers the same observed values in the same panels, so the completeness
-  // is evaluated once for all nodes; reused only when the segment's ends agree to 1e-14 of the
-  // observed value (else evaluated afresh: a limit tabulated in z)
-  const shared = new Map<string, { oLo: number; oHi: number; count: number; values: Float64Array }>();
-  const same = (x: number, y: number): boolean => Math.abs(x - y) <= 1e-14 * Math.max(1, Math.abs(x));
-
+  const walk: Walk = {
+    survey,
+    population,
+    cosmo,
+    observer,
+    effects,
+    cfn,
+    breaks,
+    slope,
+    maxStep,
+    fineBand: maxStep < MAX_PANEL_T ? FINE_WIDTHS * maxStep : 0,
+    panels: { x: new Float64Array(256), w: new Float64Array(256), count: 0 },
+    segment: [0, 0],
+    lnW: new Float64Array(PANEL_POINTS),
+    shared: new Map<string, SharedLogC>(),
+    sink,
+  };
   for (let s = 0; s + 1 < edges.length; s++) {
     const lo = Math.max(edges[s]!, population.window.min);
     const hi = Math.min(edges[s + 1]!, population.window.max);
-    if (hi > lo) {
-      // The count engine's redshift nodes (the order chosen by convergence of the hard-limit count).
-      // Model and observation at z, cached: the chosen nodes are among those the order search visits.
-      const cache = new Map<number, { p: ReturnType<typeof populationAt>; obs: ReturnType<typeof observer.at> }>();
-      const at = (zi: number) => {
-        let hit = cache.get(zi);
-        if (!hit) {
-          const p = populationAt(population, zi);
-          hit = { p, obs: observer.at(zi, p.characteristic) };
-          cache.set(zi, hit);
-        }
-        return hit;
-      };
-      const hardCount = (zi: number): number => {
-        const { p, obs } = at(zi);
-        if (!Number.isFinite(obs.log10ULimit)) return 0;
-        const u = 10 ** obs.log10ULimit;
-        let n = 0;
-        for (const c of p.components) n += c.phiStar * upperGamma(c.alpha + 1, u);
-        return cosmo.volumeElementMpc3Sr(zi) * n * effects.weight(zi);
-      };
-      const { z, w } = piecewiseRedshiftNodes([lo, ...effects.breaks(lo, hi), hi], hardCount);
-      for (let i = 0; i < z.length; i++) {
-        const zi = z[i]!;
-        const { p, obs } = at(zi);
-        const kept = effects.weight(zi);
-        if (!Number.isFinite(obs.log10ULimit) || !(kept > 0)) continue;
-        const c0 = p.components[0]!;
-        const tLim = LN10 * obs.log10ULimit;
-        const uLim = Math.exp(tLim);
-        const tMax = Math.log((uLim > 1 ? uLim : 1) + U_BRIGHT_SPAN);
-        const logV = Math.log(survey.areaSr * cosmo.volumeElementMpc3Sr(zi) * w[i]! * c0.phiStar * kept);
-        const a1 = c0.alpha + 1;
-        // Panel cuts: the ends and completeness break points in between (each named, see shared).
-        const cuts: { t: number; name: string }[] = [
-          { t: tLim, name: 'limit' },
-          { t: tMax, name: '' },
-        ];
-        const halves: number[] = [];
-        if (breaks) {
-          breaks.points.forEach((bp, b) => {
-            const t = (LN10 * (bp - obs.a)) / slope;
-            if (t > tLim && t < tMax) cuts.push({ t, name: `${b}` });
-            if (fineBand > 0) {
-              halves.push(t);
-              if (t - fineBand > tLim && t - fineBand < tMax) cuts.push({ t: t - fineBand, name: `${b}-` });
-              if (t + fineBand > tLim && t + fineBand < tMax) cuts.push({ t: t + fineBand, name: `${b}+` });
-            }
-          });
-        }
-        // u > 1: the Schechter factor's slope a1 - u grows with u: the fine panels stay there
-        // (no cut at u = 1)
-        cuts.sort((x, y) => x.t - y.t);
-        for (let k = 0; k + 1 < cuts.length; k++) {
-          segment[0] = cuts[k]!.t;
-          segment[1] = cuts[k + 1]!.t;
-          const mid = 0.5 * (segment[0] + segment[1]);
-          const fine = fineBand === 0 || halves.some((h) => Math.abs(mid - h) < fineBand);
-          const pn = panelNodes(segment, fine ? maxStep : MAX_PANEL_T, PANEL_POINTS, panels);
-          sink.reserve(pn.count);
-          // ln c at the points: from a segment between the same named cuts at the same observed
-          // values (another node's), or evaluated here
-          const oLo = obs.a + (slope * segment[0]) / LN10;
-          const oHi = obs.a + (slope * segment[1]) / LN10;
-          const name = cuts[k]!.name && cuts[k + 1]!.name ? `${cuts[k]!.name}|${cuts[k + 1]!.name}` : '';
-          let lnC = name ? shared.get(name) : undefined;
-          if (!lnC || lnC.count !== pn.count || !same(lnC.oLo, oLo) || !same(lnC.oHi, oHi)) {
-            lnC = { oLo, oHi, count: pn.count, values: new Float64Array(pn.count) };
-            for (let q = 0; q < pn.count; q++)
-              lnC.values[q] = cfn ? Math.log(cfn(obs.a + (slope * pn.x[q]!) / LN10)) : 0;
-            if (name) shared.set(name, lnC);
-          }
-          // the Gauss-Legendre weights repeat from panel to panel: their logarithms once
-          for (let q = 0; q < PANEL_POINTS && q < pn.count; q++) lnW[q] = Math.log(pn.w[q]!);
-          const values = lnC.values;
-          for (let q = 0; q < pn.count; q++) {
-            const lc = values[q]!;
-            if (!(lc > -Infinity)) continue;
-            sink.point(pn.x[q]!, logV + lnW[q % PANEL_POINTS]! + lc, a1);
-          }
-        }
-        sink.node(zi, a1, obs.a, logV, tLim, tMax);
-      }
-    }
+    if (hi > lo) walkSlice(walk, lo, hi);
     sink.sliceEnd();
   }
   return slope;
+}
+
+/** Model and observation at a redshift node. */
+interface NodeModel {
+  p: PopulationAtZ;
+  obs: Observation;
+}
+
+/** The points and nodes of the slice [lo, hi]. */
+function walkSlice(walk: Walk, lo: number, hi: number): void {
+  const { population, observer, effects, cosmo } = walk;
+  // The count engine's redshift nodes (the order chosen by convergence of the hard-limit count).
+  // Model and observation at z, cached: the chosen nodes are among those the order search visits.
+  const cache = new Map<number, NodeModel>();
+  const at = (zi: number): NodeModel => {
+    let hit = cache.get(zi);
+    if (!hit) {
+      const p = populationAt(population, zi);
+      hit = { p, obs: observer.at(zi, p.characteristic) };
+      cache.set(zi, hit);
+    }
+    return hit;
+  };
+  const hardCount = (zi: number): number => {
+    const { p, obs } = at(zi);
+    if (!Number.isFinite(obs.log10ULimit)) return 0;
+    const u = 10 ** obs.log10ULimit;
+    let n = 0;
+    for (const c of p.components) n += c.phiStar * upperGamma(c.alpha + 1, u);
+    return cosmo.volumeElementMpc3Sr(zi) * n * effects.weight(zi);
+  };
+  const { z, w } = piecewiseRedshiftNodes([lo, ...effects.breaks(lo, hi), hi], hardCount);
+  for (let i = 0; i < z.length; i++) {
+    const zi = z[i]!;
+    walkNode(walk, zi, w[i]!, at(zi));
+  }
+}
+
+/** The points of the redshift node zi (quadrature weight wi), then the node. */
+function walkNode(walk: Walk, zi: number, wi: number, { p, obs }: NodeModel): void {
+  const kept = walk.effects.weight(zi);
+  if (!Number.isFinite(obs.log10ULimit) || !(kept > 0)) return;
+  const c0 = p.components[0]!;
+  const tLim = LN10 * obs.log10ULimit;
+  const uLim = Math.exp(tLim);
+  const tMax = Math.log((uLim > 1 ? uLim : 1) + U_BRIGHT_SPAN);
+  const logV = Math.log(walk.survey.areaSr * walk.cosmo.volumeElementMpc3Sr(zi) * wi * c0.phiStar * kept);
+  const a1 = c0.alpha + 1;
+  // Panel cuts: the ends and completeness break points in between (each named, see Walk.shared).
+  const cuts: Cut[] = [
+    { t: tLim, name: 'limit' },
+    { t: tMax, name: '' },
+  ];
+  const halves: number[] = [];
+  if (walk.breaks) addBreakCuts(walk, walk.breaks, obs, tLim, tMax, cuts, halves);
+  // u > 1: the Schechter factor's slope a1 - u grows with u: the fine panels stay there
+  // (no cut at u = 1)
+  cuts.sort((x, y) => x.t - y.t);
+  for (let k = 0; k + 1 < cuts.length; k++) walkSegment(walk, obs, cuts[k]!, cuts[k + 1]!, halves, logV, a1);
+  walk.sink.node(zi, a1, obs.a, logV, tLim, tMax);
+}
+
+/** The completeness break points between tLim and tMax as cuts (and the fine bands' edges). */
+function addBreakCuts(
+  walk: Walk,
+  breaks: CompletenessBreaks,
+  obs: Observation,
+  tLim: number,
+  tMax: number,
+  cuts: Cut[],
+  halves: number[],
+): void {
+  const { slope, fineBand } = walk;
+  breaks.points.forEach((bp, b) => {
+    const t = (LN10 * (bp - obs.a)) / slope;
+    if (t > tLim && t < tMax) cuts.push({ t, name: `${b}` });
+    if (fineBand > 0) {
+      halves.push(t);
+      if (t - fineBand > tLim && t - fineBand < tMax) cuts.push({ t: t - fineBand, name: `${b}-` });
+      if (t + fineBand > tLim && t + fineBand < tMax) cuts.push({ t: t + fineBand, name: `${b}+` });
+    }
+  });
+}
+
+/** The points of the panels between two cuts. */
+function walkSegment(
+  walk: Walk,
+  obs: Observation,
+  from: Cut,
+  to: Cut,
+  halves: number[],
+  logV: number,
+  a1: number,
+): void {
+  const { segment, fineBand, slope, lnW, sink } = walk;
+  segment[0] = from.t;
+  segment[1] = to.t;
+  const mid = 0.5 * (segment[0] + segment[1]);
+  const fine = fineBand === 0 || halves.some((h) => Math.abs(mid - h) < fineBand);
+  const pn = panelNodes(segment, fine ? walk.maxStep : MAX_PANEL_T, PANEL_POINTS, walk.panels);
+  sink.reserve(pn.count);
+  // ln c at the points: from a segment between the same named cuts at the same observed
+  // values (another node's), or evaluated here
+  const oLo = obs.a + (slope * segment[0]) / LN10;
+  const oHi = obs.a + (slope * segment[1]) / LN10;
+  const name = from.name && to.name ? `${from.name}|${to.name}` : '';
+  let lnC = name ? walk.shared.get(name) : undefined;
+  if (!lnC || lnC.count !== pn.count || !sameObs(lnC.oLo, oLo) || !sameObs(lnC.oHi, oHi)) {
+    lnC = { oLo, oHi, count: pn.count, values: logCompleteness(walk.cfn, obs.a, slope, pn) };
+    if (name) walk.shared.set(name, lnC);
+  }
+  // the Gauss-Legendre weights repeat from panel to panel: their logarithms once
+  for (let q = 0; q < PANEL_POINTS && q < pn.count; q++) lnW[q] = Math.log(pn.w[q]!);
+  emitPoints(sink, pn, lnC.values, logV, lnW, a1);
+}
+
+function sameObs(x: number, y: number): boolean {
+  return Math.abs(x - y) <= 1e-14 * Math.max(1, Math.abs(x));
+}
+
+/** ln c at the panels' points (0 without a completeness). */
+function logCompleteness(cfn: CompletenessFn | undefined, a: number, slope: number, pn: PanelNodes): Float64Array {
+  const values = new Float64Array(pn.count);
+  for (let q = 0; q < pn.count; q++) values[q] = cfn ? Math.log(cfn(a + (slope * pn.x[q]!) / LN10)) : 0;
+  return values;
+}
+
+/** The panels' points with their ln weights into the sink (none where c = 0). */
+function emitPoints(
+  sink: DensitySink,
+  pn: PanelNodes,
+  values: Float64Array,
+  logV: number,
+  lnW: Float64Array,
+  a1: number,
+): void {
+  for (let q = 0; q < pn.count; q++) {
+    const lc = values[q]!;
+    if (!(lc > -Infinity)) continue;
+    sink.point(pn.x[q]!, logV + lnW[q % PANEL_POINTS]! + lc, a1);
+  }
 }
 
 function expOf(xs: Float64Array, n: number): Float64Array {
