@@ -460,6 +460,31 @@ describe('every input file: a regular file, within its size limit, read by one r
     expect(errorOf(() => loadSurveyFile(path)).code).toBe('file_too_large');
   });
 
+  test('a file whose size the system does not state (/proc) is read whole, block after block, without mixing the blocks', () => {
+    // /proc files report size 0: the reader goes on reading 64 KiB blocks until the end. This
+    // process's memory map is larger than one block (checked below), so several blocks are read
+    // into the one reused buffer; every line must come out whole (a block copied from the buffer
+    // after the next read overwrote it would cut lines at the block edges). The two line forms
+    // are those of proc(5): a mapping header ("start-end perms offset dev inode [path]") or a
+    // "Key: value" line.
+    const text = readInputText('/proc/self/smaps', {
+      maxBytes: 64 * 1024 * 1024,
+      maxLabel: '64 MiB',
+      file: '/proc/self/smaps',
+      keyPath: '',
+      subject: 'the file',
+      fix: '',
+    }).text;
+    expect(text.length).toBeGreaterThan(64 * 1024);
+    expect(text.endsWith('\n')).toBe(true);
+    const lines = text.slice(0, -1).split('\n');
+    const odd = lines.filter(
+      (l) => !/^[0-9a-f]+-[0-9a-f]+ [-rwxsp]{4} [0-9a-f]+ [0-9a-f]+:[0-9a-f]+ \d+/.test(l) && !/^[A-Za-z_]+:\s/.test(l),
+    );
+    expect(odd).toEqual([]);
+    expect(lines[0]).toMatch(/^[0-9a-f]+-[0-9a-f]+ /);
+  });
+
   test('the loader records every file read with its identity (survey first, then the filter)', () => {
     const csv = join(dir, 'band.csv');
     writeFileSync(csv, 'wavelength_nm,transmission\n1180,0\n1185,1\n1195,1\n1200,0\n');
