@@ -12,11 +12,10 @@
 import { readFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { describe, expect, test } from 'vitest';
-import { parseYaml } from '../../src/survey/yaml.js';
-import { loadSurveyText } from '../../src/survey/load.js';
-import { exploreControls, controlSettings, settingsObject } from '../../src/library/explore/settings.js';
+import { controlSettings, settingsObject } from '../../src/library/explore/settings.js';
 import { exploreCompute, exploreInTwo, exploreMemo, type ExploreResult } from '../../src/library/explore/engine.js';
 import { outputsHtml, slicesHtml } from '../../src/render/explore/view.js';
+import { sampleControls } from '../support/sample-controls.js';
 
 const REL = 1e-12;
 
@@ -49,9 +48,7 @@ function pendingOf(r: ExploreResult): string[] {
 describe.each(['plan-robust-uv-slope.yaml', 'mass-limited.yaml', 'double-schechter-mass.yaml'])('%s', (sample) => {
   test('first every number but the model draws (those pending), then the whole result, equal to the page without memory', async () => {
     const path = join('samples', sample);
-    const text = readFileSync(path, 'utf8');
-    const raw = parseYaml(text, sample);
-    const controls = exploreControls(raw, loadSurveyText(text, path));
+    const { raw, controls } = sampleControls(path, sample);
     const keep = exploreMemo();
     const values = new Map<string, number>();
     for (const c of [undefined, ...controls]) {

@@ -9,17 +9,11 @@
  * a kept one as a factor: rounding apart, the same numbers). Then each memory alone against the
  * engine and the grid at another area.
  */
-import { readdirSync, readFileSync } from 'node:fs';
+import { readdirSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { describe, expect, test } from 'vitest';
-import { parseYaml } from '../../src/survey/yaml.js';
-import { loadSurveyFile, loadSurveyText } from '../../src/survey/load.js';
-import {
-  exploreControls,
-  controlSettings,
-  settingsObject,
-  type ControlSpec,
-} from '../../src/library/explore/settings.js';
+import { loadSurveyFile } from '../../src/survey/load.js';
+import { controlSettings, settingsObject, type ControlSpec } from '../../src/library/explore/settings.js';
 import { exploreCompute, exploreMemo, type ExploreResult } from '../../src/library/explore/engine.js';
 import { FisherSumsMemo, scaledParts } from '../../src/forecast/grid-memo.js';
 import { CountMemo, memoKey } from '../../src/counts/count-memo.js';
@@ -28,6 +22,7 @@ import { fisherParts } from '../../src/forecast/fisher.js';
 import { buildDensityGrid } from '../../src/forecast/grid.js';
 import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import { surveyForPopulation } from '../../src/model/select.js';
+import { sampleControls } from '../support/sample-controls.js';
 
 const REL = 1e-12;
 const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml'));
@@ -77,9 +72,7 @@ function expectSame(a: ExploreResult, b: ExploreResult, what: string): void {
 describe.each(SAMPLES)('%s', (sample) => {
   test('the page engine with its memory of earlier updates gives the numbers computed without it', async () => {
     const path = join('samples', sample);
-    const text = readFileSync(path, 'utf8');
-    const raw = parseYaml(text, sample);
-    const controls = exploreControls(raw, loadSurveyText(text, path));
+    const { raw, controls } = sampleControls(path, sample);
     const keep = exploreMemo();
     const values = new Map<string, number>();
     const area = controls.find((c) => c.key === 'area');

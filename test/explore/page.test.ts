@@ -25,6 +25,7 @@ import {
   settingsText,
 } from '../../src/library/explore/settings.js';
 import { predict } from '../../src/counts/predict.js';
+import { sampleControls } from '../support/sample-controls.js';
 
 const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml'));
 const dir = tempDir('skytally-explore-page-');
@@ -63,9 +64,7 @@ describe.each(SAMPLES)('%s', (sample) => {
 
   test('settings written as YAML and as a parsed object give the same prediction; values read back exactly', () => {
     const path = `samples/${sample}`;
-    const text = readFileSync(path, 'utf8');
-    const raw = parseYaml(text, path);
-    const controls = exploreControls(raw, loadSurveyText(text, path));
+    const { text, raw, controls } = sampleControls(path);
     expect(controls.length).toBeGreaterThanOrEqual(2);
     const values = new Map<string, number>();
     for (const c of controls) {
