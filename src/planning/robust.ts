@@ -31,7 +31,8 @@ import type { Survey } from '../model/survey.js';
 import type { PlanGoal } from '../model/plan.js';
 import { percentilesOf } from '../counts/model-draws.js';
 import { forecastDrawOffsets } from '../forecast/model-spread.js';
-import { marginaliseNormalisationsInPlace, summariseFisher } from '../forecast/fisher.js';
+import { marginaliseNormalisationsInPlace } from '../forecast/fisher.js';
+import { fisherSigma } from './sigma.js';
 import { buildDensityGrid, sliceCount, type DensityGrid } from '../forecast/grid.js';
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { DesignModel, TierValue } from './model.js';
@@ -201,7 +202,7 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
         for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) f[j]![k]! += matrix[j]![k]!;
       }
       if (goal.kind !== 'sigma') perDraw[di]![i] = count;
-      else perDraw[di]![i] = (count > 0 ? summariseFisher(f)?.sigma[parameterIndex] : undefined) ?? Infinity;
+      else perDraw[di]![i] = (count > 0 ? fisherSigma(f, parameterIndex) : undefined) ?? Infinity;
     });
   });
   todo.forEach((e, di) => {

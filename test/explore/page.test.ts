@@ -86,6 +86,17 @@ describe.each(SAMPLES)('%s', (sample) => {
     for (const line of text.split('\n').filter((l) => l.trimStart().startsWith('#')))
       expect(written).toContain(line.trim());
   });
+
+  test('the file written with one value set is the file as written but for that value (flow collections keep their spacing, comments their alignment)', () => {
+    // docs/outputs.md: "the file as written, comments kept, only the changed values replaced by
+    // plain numbers". Writing the whole document out again padded every flow collection
+    // ({min: 4} became { min: 4 }, tables [ [ 27.5, 0.98 ] ]) and closed up the spaces before
+    // end-of-line comments.
+    const { text, controls } = sampleControls(`samples/${sample}`);
+    const written = settingsText(text, controls, new Map([['area', 0.5]]));
+    const area = /^area:\s*("[^"]*"|[^\s#]+)/m.exec(text)!;
+    expect(written).toBe(text.replace(area[0], 'area: 0.5'));
+  });
 });
 
 describe('controls', () => {

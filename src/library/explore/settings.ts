@@ -4,7 +4,7 @@
  * and the settings written back into the survey file's own YAML (comments and layout kept), so that
  * the page and `skytally predict` read the same text.
  */
-import { parseDocument } from 'yaml';
+import { isScalar, parseDocument, stringify } from 'yaml';
 import type { Survey } from '../../model/survey.js';
 import { FULL_SKY_DEG2 } from '../../model/sky.js';
 import type { ControlSpec, ExposureControl } from '../../model/explore.js';
@@ -294,7 +294,11 @@ const YAML_OPTIONS = { uniqueKeys: false, merge: false } as const;
 
 /**
  * The survey file as written with the given settings (key -> plain number in the key's unit):
- * the original text with only those values replaced, comments and layout kept.
+ * the original text with only those values replaced, comments and layout kept. Each value is
+ * replaced where it stands in the text (the parsed scalar's source range), so every other
+ * character stays as written: flow collections keep their spacing, comments their alignment.
+ * Should a value not be a scalar of the text (it always is for the controls exploreControls
+ * makes), the document is written out whole instead.
  */
 export function settingsText(
   original: string,
@@ -302,10 +306,22 @@ export function settingsText(
   values: ReadonlyMap<string, number>,
 ): string {
   if (values.size === 0) return original;
-  const doc = parseDocument(original.replace(/^\uFEFF/, ''), YAML_OPTIONS);
+  const text = original.replace(/^\uFEFF/, '');
+  const doc = parseDocument(text, YAML_OPTIONS);
+  const edits: { from: number; to: number; value: number }[] = [];
+  let whole = false;
   for (const c of controls) {
     const v = values.get(c.key);
-    if (v !== undefined && Number.isFinite(v) && !c.plan) doc.setIn(c.path, v);
+    if (v === undefined || !Number.isFinite(v) || c.plan) continue;
+    const node = doc.getIn(c.path, true);
+    if (isScalar(node) && node.range) edits.push({ from: node.range[0], to: node.range[1], value: v });
+    else whole = true;
+    doc.setIn(c.path, v);
   }
-  return doc.toString({ lineWidth: 0 });
+  if (whole) return doc.toString({ lineWidth: 0 });
+  // (a number as the document would write it: YAML's own form of a plain number)
+  let out = text;
+  for (const e of edits.sort((a, b) => b.from - a.from))
+    out = out.slice(0, e.from) + stringify(e.value, { lineWidth: 0 }).trimEnd() + out.slice(e.to);
+  return out;
 }
