@@ -19,11 +19,11 @@ import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { gaussLegendreRule, panelNodes, type PanelNodes } from '../numerics/quadrature.js';
 import { upperGamma } from '../numerics/gamma.js';
-import { makeObserver, type HistogramVariable, type Observer } from '../selection/observe.js';
+import { makeObserver, type HistogramVariable, type Observation, type Observer } from '../selection/observe.js';
 import { selectionEffects } from '../selection/effects.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
 import { completenessQuadrature, type CompletenessQuadrature } from './completeness-quadrature.js';
-import { luminosityScale, populationAt, type ParameterOffsets } from '../population/model.js';
+import { luminosityScale, populationAt, type ParameterOffsets, type PopulationAtZ } from '../population/model.js';
 import { componentsTotalLuminosity } from '../population/schechter.js';
 import { inputError } from '../errors.js';
 import { CAPS } from '../model/limits.js';
@@ -524,6 +524,16 @@ function detectedLuminosityByRules(
   });
 }
 
+/** What buildNodes needs at a redshift. */
+interface NodeModel {
+  p: PopulationAtZ;
+  obs: Observation;
+  /** The selection weight S(z) E(z). */
+  kept: number;
+  /** dV_C/dz/dOmega in Mpc^3 sr^-1. */
+  dV: number;
+}
+
 function buildNodes(
   survey: Survey,
   population: Population,
@@ -534,12 +544,24 @@ function buildNodes(
   offsets?: ParameterOffsets,
 ): NodeState[] {
   const effects = selectionEffects(survey.detection, population);
+  // Model, observation, selection weight and volume element at z, cached: the chosen nodes are
+  // among those the order search visits (as in the forecast grid's walk, src/forecast/grid.ts).
+  const cache = new Map<number, NodeModel>();
+  const at = (zi: number): NodeModel => {
+    let hit = cache.get(zi);
+    if (!hit) {
+      const p = populationAt(population, zi, offsets);
+      const obs = observer.at(zi, p.characteristic);
+      hit = { p, obs, kept: effects.weight(zi), dV: cosmo.volumeElementMpc3Sr(zi) };
+      cache.set(zi, hit);
+    }
+    return hit;
+  };
   const hardCount = (zi: number): number => {
-    const p = populationAt(population, zi, offsets);
-    const obs = observer.at(zi, p.characteristic);
+    const { p, obs, kept, dV } = at(zi);
     if (!Number.isFinite(obs.log10ULimit)) return 0;
     const n = schechterBetween(p.components, obs.log10ULimit, Infinity, 0);
-    return cosmo.volumeElementMpc3Sr(zi) * n * effects.weight(zi);
+    return dV * n * kept;
   };
   // Piecewise in z between the redshifts where the integrand has a kink (a threshold limit's
   // table nodes, where the limit crosses a histogram bin edge, a tabulated filter's rows, the
@@ -553,12 +575,10 @@ function buildNodes(
   const nodes: NodeState[] = [];
   for (let i = 0; i < z.length; i++) {
     const zi = z[i]!;
-    const p = populationAt(population, zi, offsets);
-    const obs = observer.at(zi, p.characteristic);
-    const kept = effects.weight(zi);
+    const { p, obs, kept, dV } = at(zi);
     nodes.push({
       z: zi,
-      volumeWeight: survey.areaSr * cosmo.volumeElementMpc3Sr(zi) * w[i]!,
+      volumeWeight: survey.areaSr * dV * w[i]!,
       a: obs.a,
       // nothing kept at this z: no detection (as a zero transmission)
       log10ULimit: kept > 0 ? obs.log10ULimit : Infinity,
