@@ -119,7 +119,7 @@ export interface NodeDetail {
  * z^2 z^(2 (alpha + 1)) = z^(2 alpha + 4): the count from z = 0 diverges when alpha <= -2.5
  * (common practice; follows from the definitions in docs/survey-file.md, "A count that diverges"). Refuse it with one sentence.
  */
-function assertConvergent(survey: Survey, population: Population, edges: readonly number[]): void {
+export function assertConvergent(survey: Survey, population: Population, edges: readonly number[]): void {
   if (survey.detection.kind === 'threshold') return;
   const z0 = Math.max(edges[0]!, population.window.min);
   if (z0 > 0) return;

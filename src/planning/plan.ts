@@ -32,6 +32,7 @@ import { robustGoals, ROBUST_DRAWS, type RobustResult } from './robust.js';
 import { surveyWarnings } from '../population/warnings.js';
 import { predictionWarnings } from '../counts/predict.js';
 import { refuseScatteredRedshifts, surveyForPopulation } from '../model/select.js';
+import { assertConvergent } from '../counts/engine.js';
 
 /**
  * The optimum is called flat when the designs within NEAR_BEST_TOLERANCE of the best span this
@@ -111,6 +112,8 @@ export async function planDesigns(
   refuseScatteredRedshifts(file);
   // The population's own window and slices, as a file holding it alone.
   const survey = surveyForPopulation(file, population);
+  // a count that diverges at z = 0 is refused as predict refuses it, with or without cosmic variance
+  assertConvergent(survey, population, survey.sliceEdges);
   const depth = makeDepthModel(spec.limitKind, spec.depthLaw);
   const names: string[] = parameterNames(population);
   const parameterIndex = spec.goal.kind === 'sigma' ? names.indexOf(spec.goal.parameter) : 0;
