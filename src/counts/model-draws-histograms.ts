@@ -108,11 +108,14 @@ function chooseRule(length: number, lambda: number, pole: number): { panels: num
 }
 const LN10 = Math.LN10;
 
-/** Chebyshev series on consecutive pieces of x of one length. */
+/** Chebyshev series on consecutive pieces of x of one length (with each piece's ends and points, read per rule point). */
 interface Segmented {
   x0: number;
   len: number;
   parts: Chebyshev2D[];
+  partX0: Float64Array;
+  partX1: Float64Array;
+  partN: Int32Array;
 }
 
 /** The pieces' length in ln u. */
@@ -144,10 +147,11 @@ export interface HistogramTable {
   limitBins: LimitBin[];
   slope: number;
   width: number;
-  /** Scratch: the sums per grid index, a collapsed series. */
+  /** Scratch: the sums per grid index, a collapsed series, a draw's first and last grid index. */
   sums: Float64Array;
   row: Float64Array;
   rowN: number;
+  range: Float64Array;
 }
 
 /**
@@ -338,7 +342,14 @@ export function histogramTable(
       if (!c) return undefined;
       parts.push(c);
     }
-    series.push({ x0, len, parts });
+    series.push({
+      x0,
+      len,
+      parts,
+      partX0: Float64Array.from(parts, (q) => q.x0),
+      partX1: Float64Array.from(parts, (q) => q.x1),
+      partN: Int32Array.from(parts, (q) => q.nx),
+    });
   }
   // the bins from the faintest limit's to the rule's first
   const limitBins: LimitBin[] = [];
@@ -374,6 +385,7 @@ export function histogramTable(
     sums: new Float64Array(kCount),
     row: new Float64Array(nxMax * Math.max(1, ...series.map((c) => c?.parts.length ?? 1))),
     rowN: nxMax,
+    range: new Float64Array(2),
   };
 }
 
@@ -472,18 +484,45 @@ function logTable(
 /**
  * One draw's histogram on the plain histogram's bins (`out`, one value per bin) from the table;
  * false where the draw's own histogram would have more bins than a slice may have (the exact path
- * then reports it).
+ * then reports it). (In small functions, each hot loop one of its own: V8 optimises a small
+ * function sooner and compiles it faster, and until then every double in a loop is a heap
+ * allocation.)
  */
 export function histogramFromTable(tb: HistogramTable, o: ModelOffsets, out: Float64Array): boolean {
-  const { slope, width } = tb;
-  const dc = o.characteristic;
-  // the draw's own bins (histogramCount's range: from the limit to u = uLim + 40, or 40, at every node)
+  const { slope } = tb;
+  if (!drawRange(tb, o.characteristic)) return false;
+  const dk0 = tb.range[0]!;
+  const dk1 = tb.range[1]!;
+  const kBright = slope > 0 ? dk1 - 1 : dk0;
+  // (an open bin among those holding a limit: the exact path)
+  for (const lb of tb.limitBins) if (lb.k === kBright) return false;
+  // the sums of the rule's points per grid bin, up to the plain histogram's bright edge unless the
+  // draw's open bin lies within it and counts to infinity
+  const dir = slope > 0 ? 1 : -1;
+  const openAt = kBright - tb.kLo;
+  const openInside = dir * (kBright - (slope > 0 ? tb.k0 + tb.bins - 1 : tb.k0)) <= 0;
+  const np = openInside && openAt >= 0 && openAt < tb.kCount && tb.constant[openAt] ? tb.pointObs.length : tb.plainEnd;
+  tb.sums.fill(0);
+  for (let k = 0; k < tb.series.length; k++) {
+    const c = tb.series[k];
+    if (c) componentSums(tb, c, np, o.characteristic, o.log10PhiStar[k]!, o.alpha[k]!, tb.alphaRef[k]!);
+  }
+  plainBins(tb, o, dk0, dk1, kBright, out);
+  return true;
+}
+
+/**
+ * The draw's own bins (histogramCount's range: from the limit to u = uLim + 40, or 40, at every
+ * node) as grid indices in tb.range; false beyond the cap on a slice's bins.
+ */
+function drawRange(tb: HistogramTable, dc: number): boolean {
+  const { slope, width, nodeA, nodeL10u } = tb;
   let obsMin = Infinity;
   let obsMax = -Infinity;
   const shift = -dc / slope;
-  for (let i = 0; i < tb.nodeA.length; i++) {
-    const l = tb.nodeL10u[i]! + shift;
-    const a = tb.nodeA[i]! + dc;
+  for (let i = 0; i < nodeA.length; i++) {
+    const l = nodeL10u[i]! + shift;
+    const a = nodeA[i]! + dc;
     const uLim = 10 ** l;
     const uBright = uLim > 1 ? uLim + U_BRIGHT_SPAN : U_BRIGHT_SPAN;
     const o1 = a + slope * l;
@@ -493,62 +532,106 @@ export function histogramFromTable(tb: HistogramTable, o: ModelOffsets, out: Flo
   }
   const dk0 = Math.floor(obsMin / width + 1e-9);
   const dk1 = Math.max(dk0 + 1, Math.ceil(obsMax / width - 1e-9));
-  if (!(dk1 - dk0 <= CAPS.histogramBins)) return false;
-  const kBright = slope > 0 ? dk1 - 1 : dk0;
-  const limitBins = tb.limitBins;
-  // (an open bin among those holding a limit: the exact path)
-  for (const lb of limitBins) if (lb.k === kBright) return false;
-  // the sums of the rule's points per grid bin, up to the plain histogram's bright edge unless the
-  // draw's open bin lies within it and counts to infinity
-  const dir = slope > 0 ? 1 : -1;
-  const openAt = kBright - tb.kLo;
-  const openInside = dir * (kBright - (slope > 0 ? tb.k0 + tb.bins - 1 : tb.k0)) <= 0;
-  const np = openInside && openAt >= 0 && openAt < tb.kCount && tb.constant[openAt] ? tb.pointObs.length : tb.plainEnd;
-  const sums = tb.sums.fill(0);
+  tb.range[0] = dk0;
+  tb.range[1] = dk1;
+  return dk1 - dk0 <= CAPS.histogramBins;
+}
+
+/** One component's part of the draw at the rule's first np points, added to tb.sums per grid bin. */
+function componentSums(
+  tb: HistogramTable,
+  c: Segmented,
+  np: number,
+  dc: number,
+  dPhi: number,
+  da: number,
+  alphaRef: number,
+): void {
+  const phiScale = dPhi ? 10 ** dPhi : 1;
+  const power = alphaRef + da + 1;
+  const parts = c.parts;
+  const last = parts.length - 1;
+  const stride = tb.rowN;
   const row = tb.row;
-  const pointK = tb.pointK;
-  const pointObs = tb.pointObs;
-  const pointWeight = tb.pointWeight;
-  const lnScale = LN10 / slope;
-  for (let k = 0; k < tb.series.length; k++) {
-    const c = tb.series[k];
-    if (!c) continue;
-    const dPhi = o.log10PhiStar[k]!;
-    const phiScale = dPhi ? 10 ** dPhi : 1;
-    const da = o.alpha[k]!;
-    const power = tb.alphaRef[k]! + da + 1;
-    const parts = c.parts;
-    const last = parts.length - 1;
-    const stride = tb.rowN;
-    for (let g = 0; g <= last; g++) chebyshevAlongX(parts[g]!, da, row.subarray(g * stride));
-    const base = -(tb.aRef + dc) * lnScale;
-    const invLen = 1 / c.len;
-    for (let p = 0; p < np; p++) {
-      const ob = pointObs[p]!;
-      const lnU = ob * lnScale + base;
-      const x = ob - dc;
-      let g = Math.floor((x - c.x0) * invLen);
-      if (g < 0) g = 0;
-      else if (g > last) g = last;
-      const part = parts[g]!;
-      const n = part.nx;
-      const t = n === 1 ? 0 : (2 * x - part.x0 - part.x1) / (part.x1 - part.x0);
-      // Clenshaw's recurrence over the piece's collapsed series
-      const off = g * stride;
-      let d1 = 0;
-      let d2 = 0;
-      const t2 = 2 * t;
-      for (let i = n - 1; i >= 1; i--) {
-        const d = t2 * d1 - d2 + row[off + i]!;
-        d2 = d1;
-        d1 = d;
-      }
-      const h = t * d1 - d2 + row[off]!;
-      const at = pointK[p]!;
-      sums[at] = sums[at]! + pointWeight[p]! * phiScale * Math.exp(power * lnU - Math.exp(lnU) + h);
+  for (let g = 0; g <= last; g++) chebyshevAlongX(parts[g]!, da, row, g * stride);
+  const lnScale = LN10 / tb.slope;
+  const base = -(tb.aRef + dc) * lnScale;
+  pointSums(
+    np,
+    tb.pointObs,
+    tb.pointK,
+    tb.pointWeight,
+    tb.sums,
+    row,
+    stride,
+    c.partX0,
+    c.partX1,
+    c.partN,
+    c.x0,
+    1 / c.len,
+    lnScale,
+    base,
+    dc,
+    phiScale,
+    power,
+  );
+}
+
+/**
+ * sums[bin of p] += w_p phiScale exp(power ln u - u + H(obs_p - d_c)) over the first np rule
+ * points, H the component's series collapsed at the draw's d_alpha (`row`, a piece per stride).
+ */
+function pointSums(
+  np: number,
+  pointObs: Float64Array,
+  pointK: Int32Array,
+  pointWeight: Float64Array,
+  sums: Float64Array,
+  row: Float64Array,
+  stride: number,
+  partX0: Float64Array,
+  partX1: Float64Array,
+  partN: Int32Array,
+  x0: number,
+  invLen: number,
+  lnScale: number,
+  base: number,
+  dc: number,
+  phiScale: number,
+  power: number,
+): void {
+  const last = partN.length - 1;
+  for (let p = 0; p < np; p++) {
+    const ob = pointObs[p]!;
+    const lnU = ob * lnScale + base;
+    const x = ob - dc;
+    let g = Math.floor((x - x0) * invLen);
+    if (g < 0) g = 0;
+    else if (g > last) g = last;
+    const n = partN[g]!;
+    const px0 = partX0[g]!;
+    const px1 = partX1[g]!;
+    const t = n === 1 ? 0 : (2 * x - px0 - px1) / (px1 - px0);
+    // Clenshaw's recurrence over the piece's collapsed series
+    const off = g * stride;
+    let d1 = 0;
+    let d2 = 0;
+    const t2 = 2 * t;
+    for (let i = n - 1; i >= 1; i--) {
+      const d = t2 * d1 - d2 + row[off + i]!;
+      d2 = d1;
+      d1 = d;
     }
+    const h = t * d1 - d2 + row[off]!;
+    const at = pointK[p]!;
+    sums[at] = sums[at]! + pointWeight[p]! * phiScale * Math.exp(power * lnU - Math.exp(lnU) + h);
   }
-  // the plain bins: the draw's own, its brightest open
+}
+
+/** The plain bins from the sums: the draw's own (grid indices dk0 to dk1), its brightest open. */
+function plainBins(tb: HistogramTable, o: ModelOffsets, dk0: number, dk1: number, kBright: number, out: Float64Array) {
+  const dir = tb.slope > 0 ? 1 : -1;
+  const sums = tb.sums;
   for (let bin = 0; bin < tb.bins; bin++) {
     const k = tb.k0 + bin;
     if (k < dk0 || k >= dk1) {
@@ -558,7 +641,7 @@ export function histogramFromTable(tb: HistogramTable, o: ModelOffsets, out: Flo
     const at = k - tb.kLo;
     if (at < 0 || at >= tb.kCount) {
       out[bin] = 0;
-      for (const lb of limitBins) if (lb.k === k) out[bin] = limitBinCount(lb, o, slope);
+      for (const lb of tb.limitBins) if (lb.k === k) out[bin] = limitBinCount(lb, o, tb.slope);
       continue;
     }
     if (k !== kBright || !tb.constant[at]) {
@@ -569,7 +652,6 @@ export function histogramFromTable(tb: HistogramTable, o: ModelOffsets, out: Flo
     for (let j = at; j >= 0 && j < tb.kCount; j += dir) v += sums[j]!;
     out[bin] = v;
   }
-  return true;
 }
 
 /** The range of the draws' offsets: of the characteristic value, and of alpha per component. */

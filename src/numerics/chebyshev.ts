@@ -145,10 +145,10 @@ export function chebyshevAtY(c: Chebyshev2D, row: Float64Array, y: number): numb
 }
 
 /**
- * The series at y as a series in x alone: out[i] = sum_j coef[i, j] T_j(y') (the first nx entries
- * of `out`), to be evaluated at many x by Clenshaw's recurrence.
+ * The series at y as a series in x alone: out[at + i] = sum_j coef[i, j] T_j(y') (nx entries of
+ * `out` from `at`), to be evaluated at many x by Clenshaw's recurrence.
  */
-export function chebyshevAlongX(c: Chebyshev2D, y: number, out: Float64Array): void {
+export function chebyshevAlongX(c: Chebyshev2D, y: number, out: Float64Array, at = 0): void {
   const { nx, ny, coef } = c;
   const ty = unit(y, c.y0, c.y1);
   for (let i = 0; i < nx; i++) {
@@ -160,6 +160,6 @@ export function chebyshevAlongX(c: Chebyshev2D, y: number, out: Float64Array): v
       d2 = d1;
       d1 = d;
     }
-    out[i] = ty * d1 - d2 + coef[base]!;
+    out[at + i] = ty * d1 - d2 + coef[base]!;
   }
 }
