@@ -15,7 +15,8 @@
  * since at node i obs = a_i + d_c + slope log10 u (src/selection/observe.ts) and du/u = ln10/|slope|
  * do: the completeness stays where it is in obs while the draw moves the Schechter factor by d_c.
  * ln G_k is smooth in both variables, so it is a Chebyshev series over (x, d_alpha) made from its
- * exact values (one exponential per node at each point: a cheap table), and every draw integrates
+ * exact values (one exponential per node at each point: a cheap table; the points in d_alpha start
+ * where the component's last series ended, HistogramTableStart), and every draw integrates
  * its bins by one fixed rule in obs: 8-point Gauss-Legendre panels cut at the bin edges and the
  * completeness's break points, no wider than 1.5 logistic widths nor than 2 / lambda, lambda =
  * (u + |alpha + 2| + 2) ln10 / |slope| with u the largest any draw meets at the panel's bright end
@@ -164,6 +165,7 @@ export function histogramTable(
   s: HistogramSetting,
   plain: { edges: readonly number[]; counts: readonly number[] },
   offsets: readonly ModelOffsets[],
+  start: HistogramTableStart = [],
 ): HistogramTable | undefined {
   const { slope, width } = s;
   const nc = f.phi.length;
@@ -304,6 +306,8 @@ export function histogramTable(
   const series: (Segmented | undefined)[] = [];
   const alphaRef: number[] = [];
   const lnTerm = new Float64Array(finite.length);
+  const xPart = new Float64Array(finite.length);
+  const uPart = new Float64Array(finite.length);
   for (let k = 0; k < nc; k++) {
     const phiK = f.phi[k]!;
     const alphaK = f.alpha[k]!;
@@ -314,23 +318,19 @@ export function histogramTable(
       series.push(undefined);
       continue;
     }
-    const lnW = used.map((i) => Math.log(f.vw[i]! * phiK[i]!));
-    const dln = used.map((i) => ((aRef - f.a[i]!) * LN10) / slope);
-    const rhoM1 = dln.map((d) => Math.expm1(d));
-    const h = (x: number, da: number): number => {
-      const lnU = ((x - aRef) * LN10) / slope;
-      const u = Math.exp(lnU);
-      let m = -Infinity;
-      for (let q = 0; q < used.length; q++) {
-        const al = alphaK[used[q]!]!;
-        const t = lnW[q]! + (al + da + 1) * dln[q]! + (al - aStar) * lnU - u * rhoM1[q]!;
-        lnTerm[q] = t;
-        if (t > m) m = t;
-      }
-      let sum = 0;
-      for (let q = 0; q < used.length; q++) sum += Math.exp(lnTerm[q]! - m);
-      return m + Math.log(sum);
+    const terms: HTerms = {
+      lnW: Float64Array.from(used, (i) => Math.log(f.vw[i]! * phiK[i]!)),
+      dln: Float64Array.from(used, (i) => ((aRef - f.a[i]!) * LN10) / slope),
+      rhoM1: new Float64Array(used.length),
+      alpha: Float64Array.from(used, (i) => alphaK[i]!),
+      aStar,
+      aRef,
+      slope,
+      lnTerm,
+      xPart,
+      uPart,
     };
+    for (let q = 0; q < used.length; q++) terms.rhoM1[q] = Math.expm1(terms.dln[q]!);
     // in pieces of SEGMENT_LN_U in ln u* (a low degree each: a draw evaluates them at every point)
     const x0 = oMin - dcMax;
     const x1 = oMax - dcMin;
@@ -338,7 +338,7 @@ export function histogramTable(
     const len = (x1 - x0) / segs;
     const parts: Chebyshev2D[] = [];
     for (let g = 0; g < segs; g++) {
-      const c = logTable(h, x0 + g * len, g === segs - 1 ? x1 : x0 + (g + 1) * len, daMin[k]!, daMax[k]!);
+      const c = logTable(terms, x0 + g * len, g === segs - 1 ? x1 : x0 + (g + 1) * len, daMin[k]!, daMax[k]!, start, k);
       if (!c) return undefined;
       parts.push(c);
     }
@@ -449,32 +449,91 @@ function limitBinCount(lb: LimitBin, o: ModelOffsets, slope: number): number {
   return v;
 }
 
-/** A Chebyshev series of the values lnG(x, y) (already logarithms), doubling the points until the tail is below the tolerance. */
+/**
+ * Per component, the points in d_alpha its last series needed (a population's slices and pieces
+ * share the component's range of d_alpha, and a series in it needs about the same points in each):
+ * the next series starts there rather than at START's, where the points in d_alpha are not
+ * smaller, so that it is not first made at too few points and thrown away.
+ */
+export type HistogramTableStart = number[];
+
+/** What H_k(x, d_alpha) sums over a component's nodes (see histogramTable), with scratch per node. */
+interface HTerms {
+  /** ln(V_i phi*_ik), D_i, rho_i - 1 and alpha_ik per node that counts. */
+  lnW: Float64Array;
+  dln: Float64Array;
+  rhoM1: Float64Array;
+  alpha: Float64Array;
+  aStar: number;
+  aRef: number;
+  slope: number;
+  lnTerm: Float64Array;
+  /** At the row's x: (alpha_ik - alpha*_k) L* and u* (rho_i - 1) per node. */
+  xPart: Float64Array;
+  uPart: Float64Array;
+}
+
+/**
+ * H_k at one x and every d_alpha of `ys` into out[at + j] (false where a value is not finite): the
+ * terms that depend on x alone once per row.
+ */
+function hRow(c: HTerms, x: number, ys: Float64Array, out: Float64Array, at: number): boolean {
+  const n = c.lnW.length;
+  const lnU = ((x - c.aRef) * LN10) / c.slope;
+  const u = Math.exp(lnU);
+  const { lnW, dln, rhoM1, alpha, lnTerm, xPart, uPart } = c;
+  for (let q = 0; q < n; q++) {
+    xPart[q] = (alpha[q]! - c.aStar) * lnU;
+    uPart[q] = u * rhoM1[q]!;
+  }
+  for (let j = 0; j < ys.length; j++) {
+    const da = ys[j]!;
+    let m = -Infinity;
+    for (let q = 0; q < n; q++) {
+      const t = lnW[q]! + (alpha[q]! + da + 1) * dln[q]! + xPart[q]! - uPart[q]!;
+      lnTerm[q] = t;
+      if (t > m) m = t;
+    }
+    let sum = 0;
+    for (let q = 0; q < n; q++) sum += Math.exp(lnTerm[q]! - m);
+    const g = m + Math.log(sum);
+    if (!Number.isFinite(g)) return false;
+    out[at + j] = g;
+  }
+  return true;
+}
+
+/**
+ * A Chebyshev series of H_k over [x0, x1] x [y0, y1], doubling the points until the tail is below
+ * the tolerance (from START, the points in y from start[k] where that is more; start[k] is then
+ * the points the series took in y).
+ */
 function logTable(
-  lnG: (x: number, y: number) => number,
+  terms: HTerms,
   x0: number,
   x1: number,
   y0: number,
   y1: number,
+  start: HistogramTableStart,
+  k: number,
 ): Chebyshev2D | undefined {
   let [nx, ny] = START;
+  if ((start[k] ?? 0) > ny) ny = start[k]!;
   if (!(x1 > x0)) nx = 1;
   if (!(y1 > y0)) ny = 1;
   for (;;) {
     const xs = chebyshevPoints(nx, x0, x1);
     const ys = chebyshevPoints(ny, y0, y1);
     const v = new Float64Array(nx * ny);
-    for (let i = 0; i < nx; i++)
-      for (let j = 0; j < ny; j++) {
-        const g = lnG(xs[i]!, ys[j]!);
-        if (!Number.isFinite(g)) return undefined;
-        v[i * ny + j] = g;
-      }
+    for (let i = 0; i < nx; i++) if (!hRow(terms, xs[i]!, ys, v, i * ny)) return undefined;
     const c = chebyshev2D(v, nx, ny, x0, x1, y0, y1);
     const t = chebyshevTail(c);
     const moreX = t.x > HISTOGRAM_TABLE_TOLERANCE;
     const moreY = t.y > HISTOGRAM_TABLE_TOLERANCE;
-    if (!moreX && !moreY) return c;
+    if (!moreX && !moreY) {
+      if (ny > 1) start[k] = ny;
+      return c;
+    }
     if ((moreX && nx >= MAX_POINTS[0]) || (moreY && ny >= MAX_POINTS[1])) return undefined;
     if (moreX) nx *= 2;
     if (moreY) ny *= 2;

@@ -41,7 +41,12 @@ import { makeObserver, type Observer } from '../selection/observe.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
 import { completenessQuadrature, type CompletenessQuadrature } from './completeness-quadrature.js';
 import { componentsTotalLuminosity } from '../population/schechter.js';
-import { histogramFromTable, histogramTable, offsetRanges } from './model-draws-histograms.js';
+import {
+  histogramFromTable,
+  histogramTable,
+  offsetRanges,
+  type HistogramTableStart,
+} from './model-draws-histograms.js';
 import { histogramCount, overCompletenessPieces, schechterBetween, type NodeState, type SliceCount } from './engine.js';
 
 // (defined with the model, so that the command line reads them without loading this module)
@@ -1164,6 +1169,7 @@ function histogramDraws(
   const width = survey.histogramWidth;
   const slope = s.observer.slope;
   const zero = Uint8Array.from(offsets, (o) => (isZero(o) ? 1 : 0));
+  const start: HistogramTableStart = [];
   return slices.map((sl) => {
     const plain = sl.histogram;
     const nb = plain.counts.length;
@@ -1178,6 +1184,7 @@ function histogramDraws(
             { slope, width, completeness: s.completeness, breaks: s.breaks },
             plain,
             offsets.filter((_, i) => !zero[i]),
+            start,
           )
         : undefined;
     histogramPaths[table ? 'tabulated' : 'exact']++;
