@@ -19,7 +19,7 @@ import type {
 } from '../model/outputs/forecast.js';
 import { choosePopulation, surveyForPopulation } from '../model/select.js';
 import { inputError } from '../errors.js';
-import { buildDensityGrid, type DensityGrid } from './grid.js';
+import { buildDensityGrid, densityFisherParts, type DensityGrid } from './grid.js';
 import type { FisherSumsMemo } from './grid-memo.js';
 import {
   fisherParts,
@@ -125,8 +125,13 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
   const gridOf = (): DensityGrid => (built ??= buildDensityGrid(survey, population, cosmo, edges));
   const needsGrid =
     (opts.mocks ?? 0) > 0 || (opts.modelDraws ?? 0) > 0 || (opts.targets && Object.keys(opts.targets).length > 0);
-  const parts =
-    opts.fisherSums && !needsGrid ? opts.fisherSums.parts(survey, population, cosmo, edges) : fisherParts(gridOf());
+  // Without mocks, draws or targets the grid's arrays are not needed: its Fisher sums are made as
+  // the points are (densityFisherParts, the same sums bit for bit: test/forecast/grid-sums.test.ts)
+  const parts = needsGrid
+    ? fisherParts(gridOf())
+    : opts.fisherSums
+      ? opts.fisherSums.parts(survey, population, cosmo, edges)
+      : densityFisherParts(survey, population, cosmo, edges);
   if (!(parts.count > 0)) {
     throw inputError(
       'no_sources',

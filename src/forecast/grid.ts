@@ -387,9 +387,15 @@ function walkNode(walk: Walk, zi: number, wi: number, { p, obs }: NodeModel): vo
   if (walk.breaks) addBreakCuts(walk, walk.breaks, obs, tLim, tMax, cuts, halves);
   // u > 1: the Schechter factor's slope a1 - u grows with u: the fine panels stay there
   // (no cut at u = 1)
-  cuts.sort((x, y) => x.t - y.t);
+  if (!cutsAscending(cuts)) cuts.sort((x, y) => x.t - y.t);
   for (let k = 0; k + 1 < cuts.length; k++) walkSegment(walk, obs, cuts[k]!, cuts[k + 1]!, halves, logV, a1);
   walk.sink.node(zi, a1, obs.a, logV, tLim, tMax);
+}
+
+/** True when the cuts are in order already, as they mostly are (the sort then changes nothing: see `ascending`). */
+function cutsAscending(cuts: readonly Cut[]): boolean {
+  for (let k = 0; k + 1 < cuts.length; k++) if (!(cuts[k]!.t <= cuts[k + 1]!.t)) return false;
+  return true;
 }
 
 /** The completeness break points between tLim and tMax as cuts (and the fine bands' edges). */
