@@ -713,11 +713,26 @@ function plainBins(tb: HistogramTable, o: ModelOffsets, dk0: number, dk1: number
   }
 }
 
+interface OffsetRanges {
+  dcMin: number;
+  dcMax: number;
+  daMin: readonly number[];
+  daMax: readonly number[];
+}
+
+/** The ranges found so far, by the list of offsets (every slice of a population reads the same list). */
+const rangesKept = new WeakMap<readonly ModelOffsets[], { nc: number; length: number; ranges: OffsetRanges }>();
+
 /** The range of the draws' offsets: of the characteristic value, and of alpha per component. */
-export function offsetRanges(
-  offsets: readonly ModelOffsets[],
-  nc: number,
-): { dcMin: number; dcMax: number; daMin: number[]; daMax: number[] } {
+export function offsetRanges(offsets: readonly ModelOffsets[], nc: number): OffsetRanges {
+  const kept = rangesKept.get(offsets);
+  if (kept && kept.nc === nc && kept.length === offsets.length) return kept.ranges;
+  const ranges = findRanges(offsets, nc);
+  rangesKept.set(offsets, { nc, length: offsets.length, ranges });
+  return ranges;
+}
+
+function findRanges(offsets: readonly ModelOffsets[], nc: number): OffsetRanges {
   let dcMin = Infinity;
   let dcMax = -Infinity;
   const daMin = new Array<number>(nc).fill(Infinity);

@@ -1117,7 +1117,8 @@ function sliceDraws(
  * Whether every draw of every slice has a luminosity of all sources: the plain prediction's where a
  * draw has no offsets or a slice no nodes, else alpha + d_alpha > -2 at every node and component
  * (the condition of every path: the closed form's Gamma(alpha + d_alpha + 2), componentsTotalLuminosity,
- * totalTables; checked at each component's least alpha, since rounding keeps the order of sums).
+ * totalTables; checked at each component's least alpha and least d_alpha of a draw with offsets,
+ * since rounding keeps the order of sums).
  */
 function totalsDefined(
   slices: readonly SliceCount[],
@@ -1125,19 +1126,28 @@ function totalsDefined(
   offsets: readonly ModelOffsets[],
   zero: Uint8Array,
 ): boolean {
+  const nc = flat.find((f) => f.count > 0)?.phi.length ?? 0;
+  const daLeast = new Float64Array(nc).fill(Infinity);
+  let plainDraws = false;
+  let moved = false;
+  for (let i = 0; i < offsets.length; i++) {
+    if (zero[i]) {
+      plainDraws = true;
+      continue;
+    }
+    moved = true;
+    const da = offsets[i]!.alpha;
+    for (let k = 0; k < nc; k++) daLeast[k] = Math.min(daLeast[k]!, da[k]!);
+  }
   for (let j = 0; j < slices.length; j++) {
     const f = flat[j]!;
     const plainTotal = slices[j]!.luminosity?.total !== undefined;
-    const nc = f.phi.length;
-    const least = new Float64Array(nc).fill(Infinity);
-    for (let k = 0; k < nc; k++) for (let i = 0; i < f.count; i++) least[k] = Math.min(least[k]!, f.alpha[k]![i]!);
-    for (let i = 0; i < offsets.length; i++) {
-      if (zero[i] || f.count === 0) {
-        if (!plainTotal) return false;
-        continue;
-      }
-      const da = offsets[i]!.alpha;
-      for (let k = 0; k < nc; k++) if (!(least[k]! + da[k]! > -2)) return false;
+    if (offsets.length > 0 && (plainDraws || f.count === 0) && !plainTotal) return false;
+    if (f.count === 0 || !moved) continue;
+    for (let k = 0; k < nc; k++) {
+      let least = Infinity;
+      for (let i = 0; i < f.count; i++) least = Math.min(least, f.alpha[k]![i]!);
+      if (!(least + daLeast[k]! > -2)) return false;
     }
   }
   return true;
@@ -1170,6 +1180,7 @@ function histogramDraws(
   const slope = s.observer.slope;
   const zero = Uint8Array.from(offsets, (o) => (isZero(o) ? 1 : 0));
   const start: HistogramTableStart = [];
+  const moved = offsets.filter((_, i) => !zero[i]);
   return slices.map((sl) => {
     const plain = sl.histogram;
     const nb = plain.counts.length;
@@ -1183,7 +1194,7 @@ function histogramDraws(
             flatten(nodes),
             { slope, width, completeness: s.completeness, breaks: s.breaks },
             plain,
-            offsets.filter((_, i) => !zero[i]),
+            moved,
             start,
           )
         : undefined;

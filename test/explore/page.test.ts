@@ -116,6 +116,25 @@ describe('controls', () => {
     expect(c.get('population.alpha')!.range).toBe('default');
   });
 
+  test("the threshold kind: L* and the limit in the population's own quantity, not erg/s (docs/survey-file.md, threshold kind)", () => {
+    const mass = readFileSync('samples/mass-limited.yaml', 'utf8');
+    const raw = parseYaml(mass, 'm') as { detection: Record<string, unknown>; population: Record<string, unknown> };
+    raw.detection.limit = 9.5;
+    const c = new Map(exploreControls(raw, loadSurveyText(mass, 'mass-limited.yaml')).map((x) => [x.key, x]));
+    expect(c.get('population.log10_l_star')!.unit).toBe('log10 stellar mass [Msun]');
+    expect(c.get('detection.limit')!.unit).toBe('log10 stellar mass [Msun]');
+    raw.population.l_star = 10 ** 10.85;
+    delete raw.population.log10_l_star;
+    delete raw.population.quantity;
+    const d = new Map(exploreControls(raw, loadSurveyText(mass, 'mass-limited.yaml')).map((x) => [x.key, x]));
+    // no quantity named: no unit claimed (the describe line names none either)
+    expect(d.get('population.l_star')!.unit).toBe('');
+    expect(d.get('detection.limit')!.unit).toBe('');
+    // a line-flux survey's L* stays in erg/s
+    const h = new Map(exploreControls(parseYaml(text, 'x'), survey).map((x) => [x.key, x]));
+    expect(h.get('population.log10_l_star')!.unit).toBe('log10 erg/s');
+  });
+
   test('a model_uncertainty block sets the parameter ranges to 3 sigma (phi* and L* in dex also when written linearly)', () => {
     const raw = parseYaml(text, 'x') as { population: Record<string, unknown> };
     raw.population.model_uncertainty = { log10_phi_star: 0.08, log10_l_star: 0.05, alpha: 0.1 };
