@@ -574,14 +574,17 @@ function buildNodes(
     }
     return hit;
   };
+  // The integrand by z (the shared map, else this call's own): the search meets some redshifts
+  // twice (with several pieces, each piece's 8 nodes of the first estimate again)
+  const counted = hardCounts ?? new Map<number, number>();
   const hardCount = (zi: number): number => {
-    const known = hardCounts?.get(zi);
+    const known = counted.get(zi);
     if (known !== undefined) return known;
     const { p, obs, kept, dV } = at(zi);
     if (!Number.isFinite(obs.log10ULimit)) return 0;
     const n = schechterBetween(p.components, obs.log10ULimit, Infinity, 0);
     const f = dV * n * kept;
-    hardCounts?.set(zi, f);
+    counted.set(zi, f);
     return f;
   };
   // Piecewise in z between the redshifts where the integrand has a kink (a threshold limit's

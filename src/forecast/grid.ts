@@ -270,8 +270,8 @@ interface Walk {
    */
   shared: Map<string, SharedLogC>;
   sink: DensitySink;
-  /** The node-order search's integrand by z, when shared with the count engine. */
-  hardCounts: Map<number, number> | undefined;
+  /** The node-order search's integrand by z (shared with the count engine when given, else this walk's own). */
+  hardCounts: Map<number, number>;
 }
 
 interface SharedLogC {
@@ -329,7 +329,7 @@ function walkDensity(
     lnW: new Float64Array(PANEL_POINTS),
     shared: new Map<string, SharedLogC>(),
     sink,
-    hardCounts,
+    hardCounts: hardCounts ?? new Map<number, number>(),
   };
   for (let s = 0; s + 1 < edges.length; s++) {
     const lo = Math.max(edges[s]!, population.window.min);
@@ -361,10 +361,10 @@ function walkSlice(walk: Walk, lo: number, hi: number): void {
     }
     return hit;
   };
-  // The count engine's integrand (buildNodes' hardCount: the same number), kept by z when shared
+  // The count engine's integrand (buildNodes' hardCount: the same number), kept by z
   const hardCounts = walk.hardCounts;
   const hardCount = (zi: number): number => {
-    const known = hardCounts?.get(zi);
+    const known = hardCounts.get(zi);
     if (known !== undefined) return known;
     const { p, obs } = at(zi);
     if (!Number.isFinite(obs.log10ULimit)) return 0;
@@ -372,7 +372,7 @@ function walkSlice(walk: Walk, lo: number, hi: number): void {
     let n = 0;
     for (const c of p.components) n += c.phiStar * upperGamma(c.alpha + 1, u);
     const f = cosmo.volumeElementMpc3Sr(zi) * n * effects.weight(zi);
-    hardCounts?.set(zi, f);
+    hardCounts.set(zi, f);
     return f;
   };
   const { z, w } = piecewiseRedshiftNodes([lo, ...effects.breaks(lo, hi), hi], hardCount);
