@@ -19,6 +19,7 @@ import type {
 } from '../model/outputs/forecast.js';
 import { choosePopulation, surveyForPopulation } from '../model/select.js';
 import { inputError } from '../errors.js';
+import { assertConvergent } from '../counts/engine.js';
 import { buildDensityGrid, densityFisherParts, type DensityGrid } from './grid.js';
 import type { FisherSumsMemo } from './grid-memo.js';
 import {
@@ -117,6 +118,8 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
   const survey = surveyForPopulation(file, population);
   const cosmo = new FlatCosmology(survey.cosmology);
   const edges = survey.sliceEdges;
+  // (refused before anything is counted, with or without cosmic variance, as predict and plan refuse it)
+  assertConvergent(survey, population, edges);
   const names = parameterNames(population);
   const useCv = opts.cosmicVariance !== false;
   const cvSource = useCv ? (opts.cosmicVarianceSource ?? cosmicVarianceInput) : undefined;
