@@ -97,6 +97,13 @@ export interface EngineOptions {
    * the nodes of true redshift by the probability of being measured in each slice (src/counts/photo-z.ts).
    */
   nodeDetail?: boolean;
+  /**
+   * The node-order search's hard-limit integrand by redshift, shared with a forecast's density grid
+   * of the same survey and population (src/forecast/grid.ts computes the same number at a z, the
+   * same arithmetic): a forecast's count of its slices then does not evaluate again the redshifts
+   * the grid's search did. Used only without offsets.
+   */
+  hardCounts?: Map<number, number>;
 }
 
 /** What each redshift node of a slice adds to its results (EngineOptions.nodeDetail). */
@@ -296,7 +303,16 @@ export function countPopulation(
       out.push(empty);
       continue;
     }
-    const nodes = buildNodes(survey, population, cosmo, observer, lo, hi, options.offsets);
+    const nodes = buildNodes(
+      survey,
+      population,
+      cosmo,
+      observer,
+      lo,
+      hi,
+      options.offsets,
+      options.offsets ? undefined : options.hardCounts,
+    );
     let result: { count: number; histogram: Histogram; detectedLuminosity?: number };
     const perNode = options.profile ? new Array<number>(nodes.length).fill(0) : undefined;
     const detail: NodeDetail | undefined = options.nodeDetail
@@ -542,6 +558,7 @@ function buildNodes(
   lo: number,
   hi: number,
   offsets?: ParameterOffsets,
+  hardCounts?: Map<number, number>,
 ): NodeState[] {
   const effects = selectionEffects(survey.detection, population);
   // Model, observation, selection weight and volume element at z, cached: the chosen nodes are
@@ -558,10 +575,14 @@ function buildNodes(
     return hit;
   };
   const hardCount = (zi: number): number => {
+    const known = hardCounts?.get(zi);
+    if (known !== undefined) return known;
     const { p, obs, kept, dV } = at(zi);
     if (!Number.isFinite(obs.log10ULimit)) return 0;
     const n = schechterBetween(p.components, obs.log10ULimit, Infinity, 0);
-    return dV * n * kept;
+    const f = dV * n * kept;
+    hardCounts?.set(zi, f);
+    return f;
   };
   // Piecewise in z between the redshifts where the integrand has a kink (a threshold limit's
   // table nodes, where the limit crosses a histogram bin edge, a tabulated filter's rows, the

@@ -124,8 +124,11 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
   const useCv = opts.cosmicVariance !== false;
   const cvSource = useCv ? (opts.cosmicVarianceSource ?? cosmicVarianceInput) : undefined;
 
+  // The hard-limit count at the redshifts the grid's node search visits, which the count of the
+  // slices for the cosmic variance (the same nodes, the same number) then reads
+  const hardCounts = new Map<number, number>();
   let built: DensityGrid | undefined;
-  const gridOf = (): DensityGrid => (built ??= buildDensityGrid(survey, population, cosmo, edges));
+  const gridOf = (): DensityGrid => (built ??= buildDensityGrid(survey, population, cosmo, edges, 1, hardCounts));
   const needsGrid =
     (opts.mocks ?? 0) > 0 || (opts.modelDraws ?? 0) > 0 || (opts.targets && Object.keys(opts.targets).length > 0);
   // Without mocks, draws or targets the grid's arrays are not needed: its Fisher sums are made as
@@ -134,7 +137,7 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
     ? fisherParts(gridOf())
     : opts.fisherSums
       ? opts.fisherSums.parts(survey, population, cosmo, edges)
-      : densityFisherParts(survey, population, cosmo, edges);
+      : densityFisherParts(survey, population, cosmo, edges, hardCounts);
   if (!(parts.count > 0)) {
     throw inputError(
       'no_sources',
@@ -155,7 +158,7 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
     );
   }
   const cvWarnings: Warning[] = [];
-  const fractions = cvSource ? cvSource(survey, edges, population, cvWarnings) : undefined;
+  const fractions = cvSource ? cvSource(survey, edges, population, cvWarnings, hardCounts) : undefined;
   let withCv = poisson;
   if (fractions) {
     const s = summariseFisher(marginaliseNormalisations(parts.matrix, parts.slices, fractions));
