@@ -23,6 +23,9 @@ for (const sample of ['deep-continuum', 'halpha-narrowband', 'mass-limited', 'pl
   if (sample !== 'mass-limited') runs.push(['forecast', file, '--format', 'json', '--out', join(dir, 'forecast.json')]);
   if (sample.startsWith('plan-')) runs.push(['plan', file, '--format', 'json', '--out', join(dir, 'plan.json')]);
 }
+// plans with tiers (the H-alpha layers) and ranked over the model's draws (the robust UV slope)
+for (const sample of ['plan-halpha-layers', 'plan-robust-uv-slope'])
+  runs.push(['plan', `samples/${sample}.yaml`, '--format', 'json', '--out', join(dir, 'plan.json')]);
 // reports drawing every kind of figure: the plan, the model's bands (mass-limited), several
 // populations with their shares (narrowband-interlopers), magnitudes (deep-continuum)
 for (const sample of [

@@ -36,7 +36,6 @@ import {
   type Stats,
 } from 'node:fs';
 import { basename, dirname, join, resolve } from 'node:path';
-import { randomBytes } from 'node:crypto';
 import { excerpt, inputError, SurveyError } from '../errors.js';
 import type { InputFile } from '../model/survey.js';
 
@@ -291,7 +290,13 @@ function withCleanupOnSignal<T>(fn: () => T): T {
 }
 
 function stage(dest: Extract<Destination, { kind: 'replace' }>, data: string | Uint8Array): string {
-  const tmp = join(dirname(dest.path), `.${basename(dest.path)}.${process.pid}-${randomBytes(6).toString('hex')}.tmp`);
+  // 48 random bits from Math.random, not node:crypto, whose first use starts OpenSSL (about 20
+  // million instructions of every run with --out); the name need not be secret: 'wx' below refuses
+  // any file already there, a link included
+  const random = Math.floor(Math.random() * 2 ** 48)
+    .toString(16)
+    .padStart(12, '0');
+  const tmp = join(dirname(dest.path), `.${basename(dest.path)}.${process.pid}-${random}.tmp`);
   let fd: number | undefined;
   try {
     fd = openSync(tmp, 'wx', 0o666);

@@ -25,7 +25,7 @@
  * left out, as is one where e^-u underflows (u > 745).
  */
 import type { CompletenessFn } from '../selection/completeness.js';
-import { gaussLegendreRule } from '../numerics/quadrature.js';
+import { ascending, gaussLegendreRule } from '../numerics/quadrature.js';
 
 const POINTS = 8;
 const LN10 = Math.LN10;
@@ -167,7 +167,7 @@ export class CompletenessQuadrature {
     const cuts = [lo];
     for (const p of this.breaks.points) if (p > lo && p < hi) cuts.push(p);
     cuts.push(hi);
-    cuts.sort((x, y) => x - y);
+    if (!ascending(cuts)) cuts.sort((x, y) => x - y);
     const nSub = 2 ** level;
     const count = (cuts.length - 1) * nSub * POINTS;
     const lnU = new Float64Array(count);

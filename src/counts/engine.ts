@@ -19,11 +19,11 @@ import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { gaussLegendreRule, panelNodes, type PanelNodes } from '../numerics/quadrature.js';
 import { upperGamma } from '../numerics/gamma.js';
-import { makeObserver, type HistogramVariable, type Observer } from '../selection/observe.js';
+import { makeObserver, type HistogramVariable, type Observation, type Observer } from '../selection/observe.js';
 import { selectionEffects } from '../selection/effects.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
 import { completenessQuadrature, type CompletenessQuadrature } from './completeness-quadrature.js';
-import { luminosityScale, populationAt, type ParameterOffsets } from '../population/model.js';
+import { luminosityScale, populationAt, type ParameterOffsets, type PopulationAtZ } from '../population/model.js';
 import { componentsTotalLuminosity } from '../population/schechter.js';
 import { inputError } from '../errors.js';
 import { CAPS } from '../model/limits.js';
@@ -97,6 +97,13 @@ export interface EngineOptions {
    * the nodes of true redshift by the probability of being measured in each slice (src/counts/photo-z.ts).
    */
   nodeDetail?: boolean;
+  /**
+   * The node-order search's hard-limit integrand by redshift, shared with a forecast's density grid
+   * of the same survey and population (src/forecast/grid.ts computes the same number at a z, the
+   * same arithmetic): a forecast's count of its slices then does not evaluate again the redshifts
+   * the grid's search did. Used only without offsets.
+   */
+  hardCounts?: Map<number, number>;
 }
 
 /** What each redshift node of a slice adds to its results (EngineOptions.nodeDetail). */
@@ -119,7 +126,7 @@ export interface NodeDetail {
  * z^2 z^(2 (alpha + 1)) = z^(2 alpha + 4): the count from z = 0 diverges when alpha <= -2.5
  * (common practice; follows from the definitions in docs/survey-file.md, "A count that diverges"). Refuse it with one sentence.
  */
-function assertConvergent(survey: Survey, population: Population, edges: readonly number[]): void {
+export function assertConvergent(survey: Survey, population: Population, edges: readonly number[]): void {
   if (survey.detection.kind === 'threshold') return;
   const z0 = Math.max(edges[0]!, population.window.min);
   if (z0 > 0) return;
@@ -296,7 +303,16 @@ export function countPopulation(
       out.push(empty);
       continue;
     }
-    const nodes = buildNodes(survey, population, cosmo, observer, lo, hi, options.offsets);
+    const nodes = buildNodes(
+      survey,
+      population,
+      cosmo,
+      observer,
+      lo,
+      hi,
+      options.offsets,
+      options.offsets ? undefined : options.hardCounts,
+    );
     let result: { count: number; histogram: Histogram; detectedLuminosity?: number };
     const perNode = options.profile ? new Array<number>(nodes.length).fill(0) : undefined;
     const detail: NodeDetail | undefined = options.nodeDetail
@@ -524,6 +540,16 @@ function detectedLuminosityByRules(
   });
 }
 
+/** What buildNodes needs at a redshift. */
+interface NodeModel {
+  p: PopulationAtZ;
+  obs: Observation;
+  /** The selection weight S(z) E(z). */
+  kept: number;
+  /** dV_C/dz/dOmega in Mpc^3 sr^-1. */
+  dV: number;
+}
+
 function buildNodes(
   survey: Survey,
   population: Population,
@@ -532,14 +558,31 @@ function buildNodes(
   lo: number,
   hi: number,
   offsets?: ParameterOffsets,
+  hardCounts?: Map<number, number>,
 ): NodeState[] {
   const effects = selectionEffects(survey.detection, population);
+  // Model, observation, selection weight and volume element at z, cached: the chosen nodes are
+  // among those the order search visits (as in the forecast grid's walk, src/forecast/grid.ts).
+  const cache = new Map<number, NodeModel>();
+  const at = (zi: number): NodeModel => {
+    let hit = cache.get(zi);
+    if (!hit) {
+      const p = populationAt(population, zi, offsets);
+      const obs = observer.at(zi, p.characteristic);
+      hit = { p, obs, kept: effects.weight(zi), dV: cosmo.volumeElementMpc3Sr(zi) };
+      cache.set(zi, hit);
+    }
+    return hit;
+  };
   const hardCount = (zi: number): number => {
-    const p = populationAt(population, zi, offsets);
-    const obs = observer.at(zi, p.characteristic);
+    const known = hardCounts?.get(zi);
+    if (known !== undefined) return known;
+    const { p, obs, kept, dV } = at(zi);
     if (!Number.isFinite(obs.log10ULimit)) return 0;
     const n = schechterBetween(p.components, obs.log10ULimit, Infinity, 0);
-    return cosmo.volumeElementMpc3Sr(zi) * n * effects.weight(zi);
+    const f = dV * n * kept;
+    hardCounts?.set(zi, f);
+    return f;
   };
   // Piecewise in z between the redshifts where the integrand has a kink (a threshold limit's
   // table nodes, where the limit crosses a histogram bin edge, a tabulated filter's rows, the
@@ -553,12 +596,10 @@ function buildNodes(
   const nodes: NodeState[] = [];
   for (let i = 0; i < z.length; i++) {
     const zi = z[i]!;
-    const p = populationAt(population, zi, offsets);
-    const obs = observer.at(zi, p.characteristic);
-    const kept = effects.weight(zi);
+    const { p, obs, kept, dV } = at(zi);
     nodes.push({
       z: zi,
-      volumeWeight: survey.areaSr * cosmo.volumeElementMpc3Sr(zi) * w[i]!,
+      volumeWeight: survey.areaSr * dV * w[i]!,
       a: obs.a,
       // nothing kept at this z: no detection (as a zero transmission)
       log10ULimit: kept > 0 ? obs.log10ULimit : Infinity,
@@ -803,7 +844,9 @@ function completeNodeBins(
   row: number[] | undefined,
 ): number {
   const l10uLim = nd.log10ULimit;
-  const [vLo, vHi] = breaks.varying;
+  const vLo = breaks.varying[0];
+  const vHi = breaks.varying[1];
+  const memo = edgeGammas(nd.components.length);
   let nodeCount = 0;
   for (let b = 0; b < nBins; b++) {
     const faintObs = slope > 0 ? edges[b]! : edges[b + 1]!;
@@ -819,7 +862,7 @@ function completeNodeBins(
       // edge): the closed form times that constant.
       const cBin = completeness(0.5 * (faintObs + brightObs));
       if (!open || highObs <= vLo || lowObs >= vHi) {
-        const n = schechterBetween(nd.components, l10uLo, open ? Infinity : l10uHi, 0);
+        const n = numberBetween(nd.components, l10uLo, open ? Infinity : l10uHi, memo);
         if (n > 0) {
           const v = nd.volumeWeight * cBin * n;
           counts[b]! += v;
@@ -843,6 +886,54 @@ function completeNodeBins(
     if (row) row[b]! += v;
   }
   return nodeCount;
+}
+
+/**
+ * Gamma(alpha_c + 1, 10^x) of every component of one node at the two ends of the last bin
+ * numberBetween was given: neighbouring bins share an edge, whose gammas are then computed once,
+ * not twice.
+ */
+interface EdgeGammas {
+  x0: number;
+  g0: Float64Array;
+  x1: number;
+  g1: Float64Array;
+}
+
+function edgeGammas(components: number): EdgeGammas {
+  return { x0: NaN, g0: new Float64Array(components), x1: NaN, g1: new Float64Array(components) };
+}
+
+/** The memo's gammas at x, or undefined. */
+function memoAt(memo: EdgeGammas, x: number): Float64Array | undefined {
+  if (memo.x0 === x) return memo.g0;
+  if (memo.x1 === x) return memo.g1;
+  return undefined;
+}
+
+/** The gammas at x computed into the memo's slot 0 or 1. */
+function fillAt(memo: EdgeGammas, slot: 0 | 1, components: NodeState['components'], x: number): Float64Array {
+  const g = slot === 0 ? memo.g0 : memo.g1;
+  for (let i = 0; i < components.length; i++) g[i] = upperGamma(components[i]!.alpha + 1, 10 ** x);
+  if (slot === 0) memo.x0 = x;
+  else memo.x1 = x;
+  return g;
+}
+
+/**
+ * schechterBetween(components, p, q, 0) (p < q), the same arithmetic in the same order, with the
+ * gammas of an end the memo holds (the neighbouring bin's) not computed again; a missing end is
+ * written into the slot the other end does not occupy.
+ */
+function numberBetween(components: NodeState['components'], p: number, q: number, memo: EdgeGammas): number {
+  const open = q === Infinity;
+  let gp = memoAt(memo, p);
+  let gq = open ? undefined : memoAt(memo, q);
+  if (!gp) gp = fillAt(memo, gq === memo.g0 ? 1 : 0, components, p);
+  if (!open && !gq) gq = fillAt(memo, gp === memo.g0 ? 1 : 0, components, q);
+  let j = 0;
+  for (let i = 0; i < components.length; i++) j += components[i]!.phiStar * (gp[i]! - (gq ? gq[i]! : 0));
+  return j;
 }
 
 const PANEL_RULE = 8;

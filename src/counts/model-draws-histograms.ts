@@ -15,7 +15,8 @@
  * since at node i obs = a_i + d_c + slope log10 u (src/selection/observe.ts) and du/u = ln10/|slope|
  * do: the completeness stays where it is in obs while the draw moves the Schechter factor by d_c.
  * ln G_k is smooth in both variables, so it is a Chebyshev series over (x, d_alpha) made from its
- * exact values (one exponential per node at each point: a cheap table), and every draw integrates
+ * exact values (one exponential per node at each point: a cheap table; the points in d_alpha start
+ * where the component's last series ended, HistogramTableStart), and every draw integrates
  * its bins by one fixed rule in obs: 8-point Gauss-Legendre panels cut at the bin edges and the
  * completeness's break points, no wider than 1.5 logistic widths nor than 2 / lambda, lambda =
  * (u + |alpha + 2| + 2) ln10 / |slope| with u the largest any draw meets at the panel's bright end
@@ -108,11 +109,14 @@ function chooseRule(length: number, lambda: number, pole: number): { panels: num
 }
 const LN10 = Math.LN10;
 
-/** Chebyshev series on consecutive pieces of x of one length. */
+/** Chebyshev series on consecutive pieces of x of one length (with each piece's ends and points, read per rule point). */
 interface Segmented {
   x0: number;
   len: number;
   parts: Chebyshev2D[];
+  partX0: Float64Array;
+  partX1: Float64Array;
+  partN: Int32Array;
 }
 
 /** The pieces' length in ln u. */
@@ -144,10 +148,11 @@ export interface HistogramTable {
   limitBins: LimitBin[];
   slope: number;
   width: number;
-  /** Scratch: the sums per grid index, a collapsed series. */
+  /** Scratch: the sums per grid index, a collapsed series, a draw's first and last grid index. */
   sums: Float64Array;
   row: Float64Array;
   rowN: number;
+  range: Float64Array;
 }
 
 /**
@@ -160,6 +165,7 @@ export function histogramTable(
   s: HistogramSetting,
   plain: { edges: readonly number[]; counts: readonly number[] },
   offsets: readonly ModelOffsets[],
+  start: HistogramTableStart = [],
 ): HistogramTable | undefined {
   const { slope, width } = s;
   const nc = f.phi.length;
@@ -300,6 +306,8 @@ export function histogramTable(
   const series: (Segmented | undefined)[] = [];
   const alphaRef: number[] = [];
   const lnTerm = new Float64Array(finite.length);
+  const xPart = new Float64Array(finite.length);
+  const uPart = new Float64Array(finite.length);
   for (let k = 0; k < nc; k++) {
     const phiK = f.phi[k]!;
     const alphaK = f.alpha[k]!;
@@ -310,23 +318,19 @@ export function histogramTable(
       series.push(undefined);
       continue;
     }
-    const lnW = used.map((i) => Math.log(f.vw[i]! * phiK[i]!));
-    const dln = used.map((i) => ((aRef - f.a[i]!) * LN10) / slope);
-    const rhoM1 = dln.map((d) => Math.expm1(d));
-    const h = (x: number, da: number): number => {
-      const lnU = ((x - aRef) * LN10) / slope;
-      const u = Math.exp(lnU);
-      let m = -Infinity;
-      for (let q = 0; q < used.length; q++) {
-        const al = alphaK[used[q]!]!;
-        const t = lnW[q]! + (al + da + 1) * dln[q]! + (al - aStar) * lnU - u * rhoM1[q]!;
-        lnTerm[q] = t;
-        if (t > m) m = t;
-      }
-      let sum = 0;
-      for (let q = 0; q < used.length; q++) sum += Math.exp(lnTerm[q]! - m);
-      return m + Math.log(sum);
+    const terms: HTerms = {
+      lnW: Float64Array.from(used, (i) => Math.log(f.vw[i]! * phiK[i]!)),
+      dln: Float64Array.from(used, (i) => ((aRef - f.a[i]!) * LN10) / slope),
+      rhoM1: new Float64Array(used.length),
+      alpha: Float64Array.from(used, (i) => alphaK[i]!),
+      aStar,
+      aRef,
+      slope,
+      lnTerm,
+      xPart,
+      uPart,
     };
+    for (let q = 0; q < used.length; q++) terms.rhoM1[q] = Math.expm1(terms.dln[q]!);
     // in pieces of SEGMENT_LN_U in ln u* (a low degree each: a draw evaluates them at every point)
     const x0 = oMin - dcMax;
     const x1 = oMax - dcMin;
@@ -334,11 +338,18 @@ export function histogramTable(
     const len = (x1 - x0) / segs;
     const parts: Chebyshev2D[] = [];
     for (let g = 0; g < segs; g++) {
-      const c = logTable(h, x0 + g * len, g === segs - 1 ? x1 : x0 + (g + 1) * len, daMin[k]!, daMax[k]!);
+      const c = logTable(terms, x0 + g * len, g === segs - 1 ? x1 : x0 + (g + 1) * len, daMin[k]!, daMax[k]!, start, k);
       if (!c) return undefined;
       parts.push(c);
     }
-    series.push({ x0, len, parts });
+    series.push({
+      x0,
+      len,
+      parts,
+      partX0: Float64Array.from(parts, (q) => q.x0),
+      partX1: Float64Array.from(parts, (q) => q.x1),
+      partN: Int32Array.from(parts, (q) => q.nx),
+    });
   }
   // the bins from the faintest limit's to the rule's first
   const limitBins: LimitBin[] = [];
@@ -374,6 +385,7 @@ export function histogramTable(
     sums: new Float64Array(kCount),
     row: new Float64Array(nxMax * Math.max(1, ...series.map((c) => c?.parts.length ?? 1))),
     rowN: nxMax,
+    range: new Float64Array(2),
   };
 }
 
@@ -437,32 +449,91 @@ function limitBinCount(lb: LimitBin, o: ModelOffsets, slope: number): number {
   return v;
 }
 
-/** A Chebyshev series of the values lnG(x, y) (already logarithms), doubling the points until the tail is below the tolerance. */
+/**
+ * Per component, the points in d_alpha its last series needed (a population's slices and pieces
+ * share the component's range of d_alpha, and a series in it needs about the same points in each):
+ * the next series starts there rather than at START's, where the points in d_alpha are not
+ * smaller, so that it is not first made at too few points and thrown away.
+ */
+export type HistogramTableStart = number[];
+
+/** What H_k(x, d_alpha) sums over a component's nodes (see histogramTable), with scratch per node. */
+interface HTerms {
+  /** ln(V_i phi*_ik), D_i, rho_i - 1 and alpha_ik per node that counts. */
+  lnW: Float64Array;
+  dln: Float64Array;
+  rhoM1: Float64Array;
+  alpha: Float64Array;
+  aStar: number;
+  aRef: number;
+  slope: number;
+  lnTerm: Float64Array;
+  /** At the row's x: (alpha_ik - alpha*_k) L* and u* (rho_i - 1) per node. */
+  xPart: Float64Array;
+  uPart: Float64Array;
+}
+
+/**
+ * H_k at one x and every d_alpha of `ys` into out[at + j] (false where a value is not finite): the
+ * terms that depend on x alone once per row.
+ */
+function hRow(c: HTerms, x: number, ys: Float64Array, out: Float64Array, at: number): boolean {
+  const n = c.lnW.length;
+  const lnU = ((x - c.aRef) * LN10) / c.slope;
+  const u = Math.exp(lnU);
+  const { lnW, dln, rhoM1, alpha, lnTerm, xPart, uPart } = c;
+  for (let q = 0; q < n; q++) {
+    xPart[q] = (alpha[q]! - c.aStar) * lnU;
+    uPart[q] = u * rhoM1[q]!;
+  }
+  for (let j = 0; j < ys.length; j++) {
+    const da = ys[j]!;
+    let m = -Infinity;
+    for (let q = 0; q < n; q++) {
+      const t = lnW[q]! + (alpha[q]! + da + 1) * dln[q]! + xPart[q]! - uPart[q]!;
+      lnTerm[q] = t;
+      if (t > m) m = t;
+    }
+    let sum = 0;
+    for (let q = 0; q < n; q++) sum += Math.exp(lnTerm[q]! - m);
+    const g = m + Math.log(sum);
+    if (!Number.isFinite(g)) return false;
+    out[at + j] = g;
+  }
+  return true;
+}
+
+/**
+ * A Chebyshev series of H_k over [x0, x1] x [y0, y1], doubling the points until the tail is below
+ * the tolerance (from START, the points in y from start[k] where that is more; start[k] is then
+ * the points the series took in y).
+ */
 function logTable(
-  lnG: (x: number, y: number) => number,
+  terms: HTerms,
   x0: number,
   x1: number,
   y0: number,
   y1: number,
+  start: HistogramTableStart,
+  k: number,
 ): Chebyshev2D | undefined {
   let [nx, ny] = START;
+  if ((start[k] ?? 0) > ny) ny = start[k]!;
   if (!(x1 > x0)) nx = 1;
   if (!(y1 > y0)) ny = 1;
   for (;;) {
     const xs = chebyshevPoints(nx, x0, x1);
     const ys = chebyshevPoints(ny, y0, y1);
     const v = new Float64Array(nx * ny);
-    for (let i = 0; i < nx; i++)
-      for (let j = 0; j < ny; j++) {
-        const g = lnG(xs[i]!, ys[j]!);
-        if (!Number.isFinite(g)) return undefined;
-        v[i * ny + j] = g;
-      }
+    for (let i = 0; i < nx; i++) if (!hRow(terms, xs[i]!, ys, v, i * ny)) return undefined;
     const c = chebyshev2D(v, nx, ny, x0, x1, y0, y1);
     const t = chebyshevTail(c);
     const moreX = t.x > HISTOGRAM_TABLE_TOLERANCE;
     const moreY = t.y > HISTOGRAM_TABLE_TOLERANCE;
-    if (!moreX && !moreY) return c;
+    if (!moreX && !moreY) {
+      if (ny > 1) start[k] = ny;
+      return c;
+    }
     if ((moreX && nx >= MAX_POINTS[0]) || (moreY && ny >= MAX_POINTS[1])) return undefined;
     if (moreX) nx *= 2;
     if (moreY) ny *= 2;
@@ -472,18 +543,45 @@ function logTable(
 /**
  * One draw's histogram on the plain histogram's bins (`out`, one value per bin) from the table;
  * false where the draw's own histogram would have more bins than a slice may have (the exact path
- * then reports it).
+ * then reports it). (In small functions, each hot loop one of its own: V8 optimises a small
+ * function sooner and compiles it faster, and until then every double in a loop is a heap
+ * allocation.)
  */
 export function histogramFromTable(tb: HistogramTable, o: ModelOffsets, out: Float64Array): boolean {
-  const { slope, width } = tb;
-  const dc = o.characteristic;
-  // the draw's own bins (histogramCount's range: from the limit to u = uLim + 40, or 40, at every node)
+  const { slope } = tb;
+  if (!drawRange(tb, o.characteristic)) return false;
+  const dk0 = tb.range[0]!;
+  const dk1 = tb.range[1]!;
+  const kBright = slope > 0 ? dk1 - 1 : dk0;
+  // (an open bin among those holding a limit: the exact path)
+  for (const lb of tb.limitBins) if (lb.k === kBright) return false;
+  // the sums of the rule's points per grid bin, up to the plain histogram's bright edge unless the
+  // draw's open bin lies within it and counts to infinity
+  const dir = slope > 0 ? 1 : -1;
+  const openAt = kBright - tb.kLo;
+  const openInside = dir * (kBright - (slope > 0 ? tb.k0 + tb.bins - 1 : tb.k0)) <= 0;
+  const np = openInside && openAt >= 0 && openAt < tb.kCount && tb.constant[openAt] ? tb.pointObs.length : tb.plainEnd;
+  tb.sums.fill(0);
+  for (let k = 0; k < tb.series.length; k++) {
+    const c = tb.series[k];
+    if (c) componentSums(tb, c, np, o.characteristic, o.log10PhiStar[k]!, o.alpha[k]!, tb.alphaRef[k]!);
+  }
+  plainBins(tb, o, dk0, dk1, kBright, out);
+  return true;
+}
+
+/**
+ * The draw's own bins (histogramCount's range: from the limit to u = uLim + 40, or 40, at every
+ * node) as grid indices in tb.range; false beyond the cap on a slice's bins.
+ */
+function drawRange(tb: HistogramTable, dc: number): boolean {
+  const { slope, width, nodeA, nodeL10u } = tb;
   let obsMin = Infinity;
   let obsMax = -Infinity;
   const shift = -dc / slope;
-  for (let i = 0; i < tb.nodeA.length; i++) {
-    const l = tb.nodeL10u[i]! + shift;
-    const a = tb.nodeA[i]! + dc;
+  for (let i = 0; i < nodeA.length; i++) {
+    const l = nodeL10u[i]! + shift;
+    const a = nodeA[i]! + dc;
     const uLim = 10 ** l;
     const uBright = uLim > 1 ? uLim + U_BRIGHT_SPAN : U_BRIGHT_SPAN;
     const o1 = a + slope * l;
@@ -493,62 +591,106 @@ export function histogramFromTable(tb: HistogramTable, o: ModelOffsets, out: Flo
   }
   const dk0 = Math.floor(obsMin / width + 1e-9);
   const dk1 = Math.max(dk0 + 1, Math.ceil(obsMax / width - 1e-9));
-  if (!(dk1 - dk0 <= CAPS.histogramBins)) return false;
-  const kBright = slope > 0 ? dk1 - 1 : dk0;
-  const limitBins = tb.limitBins;
-  // (an open bin among those holding a limit: the exact path)
-  for (const lb of limitBins) if (lb.k === kBright) return false;
-  // the sums of the rule's points per grid bin, up to the plain histogram's bright edge unless the
-  // draw's open bin lies within it and counts to infinity
-  const dir = slope > 0 ? 1 : -1;
-  const openAt = kBright - tb.kLo;
-  const openInside = dir * (kBright - (slope > 0 ? tb.k0 + tb.bins - 1 : tb.k0)) <= 0;
-  const np = openInside && openAt >= 0 && openAt < tb.kCount && tb.constant[openAt] ? tb.pointObs.length : tb.plainEnd;
-  const sums = tb.sums.fill(0);
+  tb.range[0] = dk0;
+  tb.range[1] = dk1;
+  return dk1 - dk0 <= CAPS.histogramBins;
+}
+
+/** One component's part of the draw at the rule's first np points, added to tb.sums per grid bin. */
+function componentSums(
+  tb: HistogramTable,
+  c: Segmented,
+  np: number,
+  dc: number,
+  dPhi: number,
+  da: number,
+  alphaRef: number,
+): void {
+  const phiScale = dPhi ? 10 ** dPhi : 1;
+  const power = alphaRef + da + 1;
+  const parts = c.parts;
+  const last = parts.length - 1;
+  const stride = tb.rowN;
   const row = tb.row;
-  const pointK = tb.pointK;
-  const pointObs = tb.pointObs;
-  const pointWeight = tb.pointWeight;
-  const lnScale = LN10 / slope;
-  for (let k = 0; k < tb.series.length; k++) {
-    const c = tb.series[k];
-    if (!c) continue;
-    const dPhi = o.log10PhiStar[k]!;
-    const phiScale = dPhi ? 10 ** dPhi : 1;
-    const da = o.alpha[k]!;
-    const power = tb.alphaRef[k]! + da + 1;
-    const parts = c.parts;
-    const last = parts.length - 1;
-    const stride = tb.rowN;
-    for (let g = 0; g <= last; g++) chebyshevAlongX(parts[g]!, da, row.subarray(g * stride));
-    const base = -(tb.aRef + dc) * lnScale;
-    const invLen = 1 / c.len;
-    for (let p = 0; p < np; p++) {
-      const ob = pointObs[p]!;
-      const lnU = ob * lnScale + base;
-      const x = ob - dc;
-      let g = Math.floor((x - c.x0) * invLen);
-      if (g < 0) g = 0;
-      else if (g > last) g = last;
-      const part = parts[g]!;
-      const n = part.nx;
-      const t = n === 1 ? 0 : (2 * x - part.x0 - part.x1) / (part.x1 - part.x0);
-      // Clenshaw's recurrence over the piece's collapsed series
-      const off = g * stride;
-      let d1 = 0;
-      let d2 = 0;
-      const t2 = 2 * t;
-      for (let i = n - 1; i >= 1; i--) {
-        const d = t2 * d1 - d2 + row[off + i]!;
-        d2 = d1;
-        d1 = d;
-      }
-      const h = t * d1 - d2 + row[off]!;
-      const at = pointK[p]!;
-      sums[at] = sums[at]! + pointWeight[p]! * phiScale * Math.exp(power * lnU - Math.exp(lnU) + h);
+  for (let g = 0; g <= last; g++) chebyshevAlongX(parts[g]!, da, row, g * stride);
+  const lnScale = LN10 / tb.slope;
+  const base = -(tb.aRef + dc) * lnScale;
+  pointSums(
+    np,
+    tb.pointObs,
+    tb.pointK,
+    tb.pointWeight,
+    tb.sums,
+    row,
+    stride,
+    c.partX0,
+    c.partX1,
+    c.partN,
+    c.x0,
+    1 / c.len,
+    lnScale,
+    base,
+    dc,
+    phiScale,
+    power,
+  );
+}
+
+/**
+ * sums[bin of p] += w_p phiScale exp(power ln u - u + H(obs_p - d_c)) over the first np rule
+ * points, H the component's series collapsed at the draw's d_alpha (`row`, a piece per stride).
+ */
+function pointSums(
+  np: number,
+  pointObs: Float64Array,
+  pointK: Int32Array,
+  pointWeight: Float64Array,
+  sums: Float64Array,
+  row: Float64Array,
+  stride: number,
+  partX0: Float64Array,
+  partX1: Float64Array,
+  partN: Int32Array,
+  x0: number,
+  invLen: number,
+  lnScale: number,
+  base: number,
+  dc: number,
+  phiScale: number,
+  power: number,
+): void {
+  const last = partN.length - 1;
+  for (let p = 0; p < np; p++) {
+    const ob = pointObs[p]!;
+    const lnU = ob * lnScale + base;
+    const x = ob - dc;
+    let g = Math.floor((x - x0) * invLen);
+    if (g < 0) g = 0;
+    else if (g > last) g = last;
+    const n = partN[g]!;
+    const px0 = partX0[g]!;
+    const px1 = partX1[g]!;
+    const t = n === 1 ? 0 : (2 * x - px0 - px1) / (px1 - px0);
+    // Clenshaw's recurrence over the piece's collapsed series
+    const off = g * stride;
+    let d1 = 0;
+    let d2 = 0;
+    const t2 = 2 * t;
+    for (let i = n - 1; i >= 1; i--) {
+      const d = t2 * d1 - d2 + row[off + i]!;
+      d2 = d1;
+      d1 = d;
     }
+    const h = t * d1 - d2 + row[off]!;
+    const at = pointK[p]!;
+    sums[at] = sums[at]! + pointWeight[p]! * phiScale * Math.exp(power * lnU - Math.exp(lnU) + h);
   }
-  // the plain bins: the draw's own, its brightest open
+}
+
+/** The plain bins from the sums: the draw's own (grid indices dk0 to dk1), its brightest open. */
+function plainBins(tb: HistogramTable, o: ModelOffsets, dk0: number, dk1: number, kBright: number, out: Float64Array) {
+  const dir = tb.slope > 0 ? 1 : -1;
+  const sums = tb.sums;
   for (let bin = 0; bin < tb.bins; bin++) {
     const k = tb.k0 + bin;
     if (k < dk0 || k >= dk1) {
@@ -558,7 +700,7 @@ export function histogramFromTable(tb: HistogramTable, o: ModelOffsets, out: Flo
     const at = k - tb.kLo;
     if (at < 0 || at >= tb.kCount) {
       out[bin] = 0;
-      for (const lb of limitBins) if (lb.k === k) out[bin] = limitBinCount(lb, o, slope);
+      for (const lb of tb.limitBins) if (lb.k === k) out[bin] = limitBinCount(lb, o, tb.slope);
       continue;
     }
     if (k !== kBright || !tb.constant[at]) {
@@ -569,14 +711,28 @@ export function histogramFromTable(tb: HistogramTable, o: ModelOffsets, out: Flo
     for (let j = at; j >= 0 && j < tb.kCount; j += dir) v += sums[j]!;
     out[bin] = v;
   }
-  return true;
 }
 
+interface OffsetRanges {
+  dcMin: number;
+  dcMax: number;
+  daMin: readonly number[];
+  daMax: readonly number[];
+}
+
+/** The ranges found so far, by the list of offsets (every slice of a population reads the same list). */
+const rangesKept = new WeakMap<readonly ModelOffsets[], { nc: number; length: number; ranges: OffsetRanges }>();
+
 /** The range of the draws' offsets: of the characteristic value, and of alpha per component. */
-export function offsetRanges(
-  offsets: readonly ModelOffsets[],
-  nc: number,
-): { dcMin: number; dcMax: number; daMin: number[]; daMax: number[] } {
+export function offsetRanges(offsets: readonly ModelOffsets[], nc: number): OffsetRanges {
+  const kept = rangesKept.get(offsets);
+  if (kept && kept.nc === nc && kept.length === offsets.length) return kept.ranges;
+  const ranges = findRanges(offsets, nc);
+  rangesKept.set(offsets, { nc, length: offsets.length, ranges });
+  return ranges;
+}
+
+function findRanges(offsets: readonly ModelOffsets[], nc: number): OffsetRanges {
   let dcMin = Infinity;
   let dcMax = -Infinity;
   const daMin = new Array<number>(nc).fill(Infinity);

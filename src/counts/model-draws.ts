@@ -41,7 +41,12 @@ import { makeObserver, type Observer } from '../selection/observe.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
 import { completenessQuadrature, type CompletenessQuadrature } from './completeness-quadrature.js';
 import { componentsTotalLuminosity } from '../population/schechter.js';
-import { histogramFromTable, histogramTable, offsetRanges } from './model-draws-histograms.js';
+import {
+  histogramFromTable,
+  histogramTable,
+  offsetRanges,
+  type HistogramTableStart,
+} from './model-draws-histograms.js';
 import { histogramCount, overCompletenessPieces, schechterBetween, type NodeState, type SliceCount } from './engine.js';
 
 // (defined with the model, so that the command line reads them without loading this module)
@@ -299,14 +304,16 @@ function sliceUnderDraw(
   o: ModelOffsets,
   lumFactor: number,
   withLum: boolean,
-  out: { count: number; detected: number; total: number | undefined },
+  withTotal: boolean,
+  out: Float64Array,
 ): void {
   const slope = s.observer.slope;
   const shift = -o.characteristic / slope;
   const nc = f.phi.length;
   let count = 0;
   let detected = 0;
-  let total: number | undefined = 0;
+  let total = 0;
+  let hasTotal = withTotal;
   if (!s.completeness) {
     let lastAlpha = NaN;
     let lastGamma = 0;
@@ -325,8 +332,8 @@ function sliceUnderDraw(
         if (!withLum) continue;
         const lw = w * f.lumScale[i]! * lumFactor;
         if (g > 0) detected += lw * (sOrder * g + Math.exp(sOrder * lu * Math.LN10 - u));
-        if (total !== undefined) {
-          if (!(sOrder > -1)) total = undefined;
+        if (hasTotal) {
+          if (!(sOrder > -1)) hasTotal = false;
           else {
             if (sOrder + 1 !== lastAlpha) {
               lastAlpha = sOrder + 1;
@@ -362,13 +369,26 @@ function sliceUnderDraw(
       }
       if (!withLum) continue;
       if (sees) detected += nd.volumeWeight * nd.lumScale * nodeIntegral(nd, s, 1);
+      if (!hasTotal) continue;
       const jt = componentsTotalLuminosity(nd.allComponents);
-      total = jt === undefined || total === undefined ? undefined : total + nd.volumeWeight * nd.lumScale * jt;
+      if (jt === undefined) hasTotal = false;
+      else total = total + nd.volumeWeight * nd.lumScale * jt;
     }
   }
-  out.count = count;
-  out.detected = detected;
-  out.total = total;
+  setDrawResult(out, count, detected, total, hasTotal);
+}
+
+/** A slice under one draw: its count, detected luminosity, total luminosity and whether the total is defined (1) or not (0). */
+const DRAW_COUNT = 0;
+const DRAW_DETECTED = 1;
+const DRAW_TOTAL = 2;
+const DRAW_HAS_TOTAL = 3;
+
+function setDrawResult(out: Float64Array, count: number, detected: number, total: number, hasTotal: boolean): void {
+  out[DRAW_COUNT] = count;
+  out[DRAW_DETECTED] = detected;
+  out[DRAW_TOTAL] = total;
+  out[DRAW_HAS_TOTAL] = hasTotal ? 1 : 0;
 }
 
 /**
@@ -949,12 +969,14 @@ function sliceFromTables(
   o: ModelOffsets,
   lumFactor: number,
   withLum: boolean,
-  out: { count: number; detected: number; total: number | undefined },
+  withTotal: boolean,
+  out: Float64Array,
 ): void {
   const nc = f.phi.length;
   let count = 0;
   let detected = 0;
-  let total: number | undefined = 0;
+  let total = 0;
+  let hasTotal = withTotal;
   for (let k = 0; k < nc; k++) {
     const phiScale = o.log10PhiStar[k] ? 10 ** o.log10PhiStar[k]! : 1;
     const dAlpha = o.alpha[k]!;
@@ -963,18 +985,19 @@ function sliceFromTables(
     if (c0) count += phiScale * Math.exp(chebyshevAt(c0, o.characteristic, dAlpha));
     if (!withLum) continue;
     if (c1) detected += phiScale * lumFactor * Math.exp(chebyshevAt(c1, o.characteristic, dAlpha));
+    if (!hasTotal) continue;
     // every source's luminosity: its series, or the closed form at each node as the exact path
     if (tb.total) {
       const ct = tb.total[k];
-      if (ct && total !== undefined) total += phiScale * lumFactor * Math.exp(chebyshevAt(ct, dAlpha, 0));
+      if (ct) total += phiScale * lumFactor * Math.exp(chebyshevAt(ct, dAlpha, 0));
       continue;
     }
     const alphaK = f.alpha[k]!;
     let lastAlpha = NaN;
     let lastGamma = 0;
-    for (let i = 0; i < f.count && total !== undefined; i++) {
+    for (let i = 0; i < f.count && hasTotal; i++) {
       const order = alphaK[i]! + dAlpha + 2;
-      if (!(order > 0)) total = undefined;
+      if (!(order > 0)) hasTotal = false;
       else {
         if (order !== lastAlpha) {
           lastAlpha = order;
@@ -984,9 +1007,7 @@ function sliceFromTables(
       }
     }
   }
-  out.count = count;
-  out.detected = detected;
-  out.total = total;
+  setDrawResult(out, count, detected, total, hasTotal);
 }
 
 /**
@@ -1017,38 +1038,27 @@ export function populationDraws(
   const lumFactors = offsets.map((o) =>
     population.variable === 'luminosity' ? 10 ** o.characteristic : 10 ** (-0.4 * o.characteristic),
   );
-  const res = { count: 0, detected: 0, total: 0 as number | undefined };
   const first = s.completeness ? TABLE_POINTS : HARD_TABLE_POINTS;
   const start: TableStart = { node: [...first], slice: [...first], lum: [...first] };
-  slices.forEach((sl, j) => {
-    const f = flatten(sl.drawNodes ?? []);
+  const zero = Uint8Array.from(offsets, (o) => (isZero(o) ? 1 : 0));
+  const flat = slices.map((sl) => flatten(sl.drawNodes ?? []));
+  // (the luminosity of all sources is given only where every draw of every slice has one: where
+  // some has none, none is computed)
+  if (total && !totalsDefined(slices, flat, offsets, zero)) total = undefined;
+  for (let j = 0; j < slices.length; j++) {
+    const sl = slices[j]!;
+    const f = flat[j]!;
     const tables =
       !options.exact && n >= TABLE_MIN_DRAWS && f.count > 0
         ? s.completeness
           ? sliceTables(f, s, offsets, detected !== undefined, start, options.moveAcrossLimits === true)
           : hardTables(f, s, offsets, detected !== undefined, start)
         : undefined;
-    if (tables && detected) tables.total = totalTables(f, offsets);
+    if (tables && total) tables.total = totalTables(f, offsets);
     if (f.count > 0) drawPaths[tables ? 'tabulated' : 'exact']++;
-    for (let i = 0; i < n; i++) {
-      const o = offsets[i]!;
-      if (isZero(o) || f.count === 0) {
-        res.count = sl.count;
-        res.detected = sl.luminosity?.detected ?? 0;
-        res.total = sl.luminosity?.total;
-      } else if (tables) {
-        sliceFromTables(f, tables, o, lumFactors[i]!, detected !== undefined, res);
-      } else {
-        sliceUnderDraw(f, s, o, lumFactors[i]!, detected !== undefined, res);
-      }
-      counts[j]![i] = res.count;
-      if (detected) {
-        detected[j]![i] = res.detected;
-        if (res.total === undefined) total = undefined;
-        else if (total) total[j]![i] = res.total;
-      }
-    }
-  });
+    const totalDefined = sliceDraws(sl, f, s, tables, offsets, zero, lumFactors, counts[j]!, detected?.[j], total?.[j]);
+    if (!totalDefined) total = undefined;
+  }
   const out: PopulationDraws = { draws: n, counts };
   if (detected) out.luminosity = total ? { detected, total } : { detected };
   if (options.histogramDraws > 0)
@@ -1061,6 +1071,86 @@ export function populationDraws(
       options.exact === true,
     );
   return out;
+}
+
+/**
+ * One slice under every draw: counts[i] (and detected[i], total[i] where asked for); false where
+ * some draw's total luminosity is undefined.
+ */
+function sliceDraws(
+  sl: SliceCount,
+  f: SliceNodes,
+  s: Setting,
+  tables: SliceTables | undefined,
+  offsets: readonly ModelOffsets[],
+  zero: Uint8Array,
+  lumFactors: readonly number[],
+  counts: Float64Array,
+  detected: Float64Array | undefined,
+  total: Float64Array | undefined,
+): boolean {
+  const res = new Float64Array(4);
+  const withLum = detected !== undefined;
+  const withTotal = total !== undefined;
+  let totalDefined = true;
+  for (let i = 0; i < offsets.length; i++) {
+    const o = offsets[i]!;
+    if (zero[i] || f.count === 0) {
+      const t = sl.luminosity?.total;
+      setDrawResult(res, sl.count, sl.luminosity?.detected ?? 0, t ?? 0, t !== undefined);
+    } else if (tables) {
+      sliceFromTables(f, tables, o, lumFactors[i]!, withLum, withTotal, res);
+    } else {
+      sliceUnderDraw(f, s, o, lumFactors[i]!, withLum, withTotal, res);
+    }
+    counts[i] = res[DRAW_COUNT]!;
+    if (detected) {
+      detected[i] = res[DRAW_DETECTED]!;
+      if (!res[DRAW_HAS_TOTAL]) totalDefined = false;
+      else if (total) total[i] = res[DRAW_TOTAL]!;
+    }
+  }
+  return totalDefined;
+}
+
+/**
+ * Whether every draw of every slice has a luminosity of all sources: the plain prediction's where a
+ * draw has no offsets or a slice no nodes, else alpha + d_alpha > -2 at every node and component
+ * (the condition of every path: the closed form's Gamma(alpha + d_alpha + 2), componentsTotalLuminosity,
+ * totalTables; checked at each component's least alpha and least d_alpha of a draw with offsets,
+ * since rounding keeps the order of sums).
+ */
+function totalsDefined(
+  slices: readonly SliceCount[],
+  flat: readonly SliceNodes[],
+  offsets: readonly ModelOffsets[],
+  zero: Uint8Array,
+): boolean {
+  const nc = flat.find((f) => f.count > 0)?.phi.length ?? 0;
+  const daLeast = new Float64Array(nc).fill(Infinity);
+  let plainDraws = false;
+  let moved = false;
+  for (let i = 0; i < offsets.length; i++) {
+    if (zero[i]) {
+      plainDraws = true;
+      continue;
+    }
+    moved = true;
+    const da = offsets[i]!.alpha;
+    for (let k = 0; k < nc; k++) daLeast[k] = Math.min(daLeast[k]!, da[k]!);
+  }
+  for (let j = 0; j < slices.length; j++) {
+    const f = flat[j]!;
+    const plainTotal = slices[j]!.luminosity?.total !== undefined;
+    if (offsets.length > 0 && (plainDraws || f.count === 0) && !plainTotal) return false;
+    if (f.count === 0 || !moved) continue;
+    for (let k = 0; k < nc; k++) {
+      let least = Infinity;
+      for (let i = 0; i < f.count; i++) least = Math.min(least, f.alpha[k]![i]!);
+      if (!(least + daLeast[k]! > -2)) return false;
+    }
+  }
+  return true;
 }
 
 /**
@@ -1088,6 +1178,9 @@ function histogramDraws(
 ): { draws: number; bins: Float64Array[] }[] {
   const width = survey.histogramWidth;
   const slope = s.observer.slope;
+  const zero = Uint8Array.from(offsets, (o) => (isZero(o) ? 1 : 0));
+  const start: HistogramTableStart = [];
+  const moved = offsets.filter((_, i) => !zero[i]);
   return slices.map((sl) => {
     const plain = sl.histogram;
     const nb = plain.counts.length;
@@ -1101,39 +1194,47 @@ function histogramDraws(
             flatten(nodes),
             { slope, width, completeness: s.completeness, breaks: s.breaks },
             plain,
-            offsets.filter((o) => !isZero(o)),
+            moved,
+            start,
           )
         : undefined;
     histogramPaths[table ? 'tabulated' : 'exact']++;
     const one = new Float64Array(nb);
-    offsets.forEach((o, i) => {
-      if (isZero(o)) {
-        plain.counts.forEach((c, b) => (bins[b]![i] = c));
-        return;
+    for (let i = 0; i < offsets.length; i++) {
+      const o = offsets[i]!;
+      if (zero[i]) {
+        for (let b = 0; b < nb; b++) bins[b]![i] = plain.counts[b]!;
+        continue;
       }
       if (table && histogramFromTable(table, o, one)) {
         for (let b = 0; b < nb; b++) bins[b]![i] = one[b]!;
-        return;
+        continue;
       }
       if (table) histogramPaths.exactDraws++;
-      const moved = nodes.map((nd) => shifted(nd, o, slope, lumFactors[i]!));
-      const h = histogramCount(
-        moved,
-        s.observer,
-        width,
-        s.completeness,
-        s.breaks,
-        false,
-        s.rules,
-        survey.file,
-      ).histogram;
-      const off = Math.round(h.edges[0]! / width) - k0;
-      h.counts.forEach((c, b) => {
-        const at = off + b;
-        if (at >= 0 && at < nb) bins[at]![i] = c;
-      });
-    });
+      exactHistogram(survey, s, nodes, o, lumFactors[i]!, k0, bins, i);
+    }
     return { draws: offsets.length, bins };
+  });
+}
+
+/** One draw's histogram by the engine (histogramCount of the moved nodes), into bins[b][i] on the plain histogram's bins from grid index k0. */
+function exactHistogram(
+  survey: Survey,
+  s: Setting,
+  nodes: readonly NodeState[],
+  o: ModelOffsets,
+  lumFactor: number,
+  k0: number,
+  bins: Float64Array[],
+  i: number,
+): void {
+  const width = survey.histogramWidth;
+  const moved = nodes.map((nd) => shifted(nd, o, s.observer.slope, lumFactor));
+  const h = histogramCount(moved, s.observer, width, s.completeness, s.breaks, false, s.rules, survey.file).histogram;
+  const off = Math.round(h.edges[0]! / width) - k0;
+  h.counts.forEach((c, b) => {
+    const at = off + b;
+    if (at >= 0 && at < bins.length) bins[at]![i] = c;
   });
 }
 

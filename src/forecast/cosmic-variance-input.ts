@@ -28,10 +28,12 @@ export type CosmicVarianceSource = (
   edges: readonly number[],
   population: Population,
   warnings?: Warning[],
+  /** The count engine's node-order integrand by z, shared with the forecast's grid (EngineOptions.hardCounts). */
+  hardCounts?: Map<number, number>,
 ) => number[];
 
-export const cosmicVarianceInput: CosmicVarianceSource = (survey, edges, population, warnings) =>
-  fractions(survey, edges, population, undefined, warnings);
+export const cosmicVarianceInput: CosmicVarianceSource = (survey, edges, population, warnings, hardCounts) =>
+  fractions(survey, edges, population, undefined, warnings, hardCounts);
 
 /**
  * The same fractions, read from `memo` (filled by predict of the same survey, see
@@ -39,7 +41,8 @@ export const cosmicVarianceInput: CosmicVarianceSource = (survey, edges, populat
  * used, and computed for the others: the numbers are those of cosmicVarianceInput.
  */
 export function cosmicVarianceInputWith(memo: UncertaintyMemo): CosmicVarianceSource {
-  return (survey, edges, population, warnings) => fractions(survey, edges, population, memo, warnings);
+  return (survey, edges, population, warnings, hardCounts) =>
+    fractions(survey, edges, population, memo, warnings, hardCounts);
 }
 
 function fractions(
@@ -48,6 +51,7 @@ function fractions(
   population: Population,
   memo?: UncertaintyMemo,
   warnings?: Warning[],
+  hardCounts?: Map<number, number>,
 ): number[] {
   const cosmo = new FlatCosmology(survey.cosmology);
   const ctx = uncertaintyContext(survey, cosmo);
@@ -56,7 +60,13 @@ function fractions(
   // predict's own counts when the memo holds them for this population, detection and edges
   const counts =
     (memo?.serves(survey) ? memo.counts(population, survey.detection, edges) : undefined) ??
-    countPopulation(survey, population, cosmo, edges, { noHistogram: true });
+    countPopulation(
+      survey,
+      population,
+      cosmo,
+      edges,
+      hardCounts ? { noHistogram: true, hardCounts } : { noHistogram: true },
+    );
   return counts.map((s) =>
     s.count < NEGLIGIBLE_COUNT
       ? 0

@@ -141,6 +141,34 @@ function axpy(y: Float64Array, yo: number, c: number, x: Float64Array, xo: numbe
   for (let r = 0; r < n; r++) y[yo + r] = y[yo + r]! + c * x[xo + r]!;
 }
 
+/**
+ * One slice's sums at one knot from its series in x: out[os + r] = sum over l of tx[l] c_l and
+ * out[os + SUMS + r] = sum over l of dx[l] c_l, c_l = series[src + l width + r], l ascending (the
+ * value and the derivative), each summed in a local and written once.
+ */
+function seriesAt(
+  series: Float64Array,
+  src: number,
+  width: number,
+  nx: number,
+  tx: Float64Array,
+  dx: Float64Array,
+  out: Float64Array,
+  os: number,
+): void {
+  for (let r = 0; r < SUMS; r++) {
+    let v = 0;
+    let d = 0;
+    for (let l = 0, at = src + r; l < nx; l++, at += width) {
+      const c = series[at]!;
+      v = v + tx[l]! * c;
+      d = d + dx[l]! * c;
+    }
+    out[os + r] = v;
+    out[os + SUMS + r] = d;
+  }
+}
+
 /** Panels covering [lo, hi] no wider than `width`: their count and width (one panel of width 0 for a point). */
 function panelsOf(lo: number, hi: number, width: number): { count: number; step: number } {
   if (!(hi > lo)) return { count: 1, step: 0 };
@@ -319,20 +347,8 @@ export function drawSumsTable(
         dx1[0] = 0;
         for (let l = 1; l < nx; l++) dx1[l] = l * u1[l - 1]! * dXi;
         const o = offset + kn * knotStride;
-        for (let sl = 0; sl < nS; sl++) {
-          const os = o + PER_SLICE * sl;
-          for (let r = 0; r < PER_SLICE; r++) out[os + r] = 0;
-          for (let l = 0; l < nx; l++) {
-            const c = tx1[l]!;
-            const d = dx1[l]!;
-            const src = (p * nx + l) * width + SUMS * sl;
-            for (let r = 0; r < SUMS; r++) {
-              const v = reduced[src + r]!;
-              out[os + r] = out[os + r]! + c * v;
-              out[os + SUMS + r] = out[os + SUMS + r]! + d * v;
-            }
-          }
-        }
+        for (let sl = 0; sl < nS; sl++)
+          seriesAt(reduced, p * nx * width + SUMS * sl, width, nx, tx1, dx1, out, o + PER_SLICE * sl);
       }
     },
   };

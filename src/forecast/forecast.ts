@@ -19,7 +19,8 @@ import type {
 } from '../model/outputs/forecast.js';
 import { choosePopulation, surveyForPopulation } from '../model/select.js';
 import { inputError } from '../errors.js';
-import { buildDensityGrid, type DensityGrid } from './grid.js';
+import { assertConvergent } from '../counts/engine.js';
+import { buildDensityGrid, densityFisherParts, type DensityGrid } from './grid.js';
 import type { FisherSumsMemo } from './grid-memo.js';
 import {
   fisherParts,
@@ -117,16 +118,26 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
   const survey = surveyForPopulation(file, population);
   const cosmo = new FlatCosmology(survey.cosmology);
   const edges = survey.sliceEdges;
+  // (refused before anything is counted, with or without cosmic variance, as predict and plan refuse it)
+  assertConvergent(survey, population, edges);
   const names = parameterNames(population);
   const useCv = opts.cosmicVariance !== false;
   const cvSource = useCv ? (opts.cosmicVarianceSource ?? cosmicVarianceInput) : undefined;
 
+  // The hard-limit count at the redshifts the grid's node search visits, which the count of the
+  // slices for the cosmic variance (the same nodes, the same number) then reads
+  const hardCounts = new Map<number, number>();
   let built: DensityGrid | undefined;
-  const gridOf = (): DensityGrid => (built ??= buildDensityGrid(survey, population, cosmo, edges));
+  const gridOf = (): DensityGrid => (built ??= buildDensityGrid(survey, population, cosmo, edges, 1, hardCounts));
   const needsGrid =
     (opts.mocks ?? 0) > 0 || (opts.modelDraws ?? 0) > 0 || (opts.targets && Object.keys(opts.targets).length > 0);
-  const parts =
-    opts.fisherSums && !needsGrid ? opts.fisherSums.parts(survey, population, cosmo, edges) : fisherParts(gridOf());
+  // Without mocks, draws or targets the grid's arrays are not needed: its Fisher sums are made as
+  // the points are (densityFisherParts, the same sums bit for bit: test/forecast/grid-sums.test.ts)
+  const parts = needsGrid
+    ? fisherParts(gridOf())
+    : opts.fisherSums
+      ? opts.fisherSums.parts(survey, population, cosmo, edges)
+      : densityFisherParts(survey, population, cosmo, edges, hardCounts);
   if (!(parts.count > 0)) {
     throw inputError(
       'no_sources',
@@ -147,7 +158,7 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
     );
   }
   const cvWarnings: Warning[] = [];
-  const fractions = cvSource ? cvSource(survey, edges, population, cvWarnings) : undefined;
+  const fractions = cvSource ? cvSource(survey, edges, population, cvWarnings, hardCounts) : undefined;
   let withCv = poisson;
   if (fractions) {
     const s = summariseFisher(marginaliseNormalisations(parts.matrix, parts.slices, fractions));

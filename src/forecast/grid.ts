@@ -105,9 +105,11 @@ export function buildDensityGrid(
    * (plan.robust's draws, src/planning/robust.ts).
    */
   panelWidths = 1,
+  /** The node-order search's integrand by z, shared with the count engine (EngineOptions.hardCounts). */
+  hardCounts?: Map<number, number>,
 ): DensityGrid {
   const sink = new GridArrays();
-  const slope = walkDensity(survey, population, cosmo, edges, panelWidths, sink);
+  const slope = walkDensity(survey, population, cosmo, edges, panelWidths, sink, hardCounts);
   const npt = sink.npt;
   const grid: DensityGrid = {
     shift: characteristicShift(population),
@@ -195,9 +197,11 @@ export function densityFisherParts(
   population: Population,
   cosmo: FlatCosmology,
   edges: readonly number[],
+  /** The node-order search's integrand by z, shared with the count engine (EngineOptions.hardCounts). */
+  hardCounts?: Map<number, number>,
 ): FisherParts {
   const sink = new FisherSums(characteristicShift(population));
-  walkDensity(survey, population, cosmo, edges, 1, sink);
+  walkDensity(survey, population, cosmo, edges, 1, sink, hardCounts);
   return sink.parts;
 }
 
@@ -266,6 +270,8 @@ interface Walk {
    */
   shared: Map<string, SharedLogC>;
   sink: DensitySink;
+  /** The node-order search's integrand by z, when shared with the count engine. */
+  hardCounts: Map<number, number> | undefined;
 }
 
 interface SharedLogC {
@@ -294,6 +300,7 @@ function walkDensity(
   edges: readonly number[],
   panelWidths: number,
   sink: DensitySink,
+  hardCounts?: Map<number, number>,
 ): number {
   const observer = makeObserver(survey.detection, population, cosmo);
   // The redshift selection and the equivalent-width cut multiply the density like a completeness.
@@ -322,6 +329,7 @@ function walkDensity(
     lnW: new Float64Array(PANEL_POINTS),
     shared: new Map<string, SharedLogC>(),
     sink,
+    hardCounts,
   };
   for (let s = 0; s + 1 < edges.length; s++) {
     const lo = Math.max(edges[s]!, population.window.min);
@@ -353,13 +361,19 @@ function walkSlice(walk: Walk, lo: number, hi: number): void {
     }
     return hit;
   };
+  // The count engine's integrand (buildNodes' hardCount: the same number), kept by z when shared
+  const hardCounts = walk.hardCounts;
   const hardCount = (zi: number): number => {
+    const known = hardCounts?.get(zi);
+    if (known !== undefined) return known;
     const { p, obs } = at(zi);
     if (!Number.isFinite(obs.log10ULimit)) return 0;
     const u = 10 ** obs.log10ULimit;
     let n = 0;
     for (const c of p.components) n += c.phiStar * upperGamma(c.alpha + 1, u);
-    return cosmo.volumeElementMpc3Sr(zi) * n * effects.weight(zi);
+    const f = cosmo.volumeElementMpc3Sr(zi) * n * effects.weight(zi);
+    hardCounts?.set(zi, f);
+    return f;
   };
   const { z, w } = piecewiseRedshiftNodes([lo, ...effects.breaks(lo, hi), hi], hardCount);
   for (let i = 0; i < z.length; i++) {
@@ -387,9 +401,15 @@ function walkNode(walk: Walk, zi: number, wi: number, { p, obs }: NodeModel): vo
   if (walk.breaks) addBreakCuts(walk, walk.breaks, obs, tLim, tMax, cuts, halves);
   // u > 1: the Schechter factor's slope a1 - u grows with u: the fine panels stay there
   // (no cut at u = 1)
-  cuts.sort((x, y) => x.t - y.t);
+  if (!cutsAscending(cuts)) cuts.sort((x, y) => x.t - y.t);
   for (let k = 0; k + 1 < cuts.length; k++) walkSegment(walk, obs, cuts[k]!, cuts[k + 1]!, halves, logV, a1);
   walk.sink.node(zi, a1, obs.a, logV, tLim, tMax);
+}
+
+/** True when the cuts are in order already, as they mostly are (the sort then changes nothing: see `ascending`). */
+function cutsAscending(cuts: readonly Cut[]): boolean {
+  for (let k = 0; k + 1 < cuts.length; k++) if (!(cuts[k]!.t <= cuts[k + 1]!.t)) return false;
+  return true;
 }
 
 /** The completeness break points between tLim and tMax as cuts (and the fine bands' edges). */

@@ -57,10 +57,16 @@ export function chebyshev2D(
   return { nx, ny, x0, x1, y0, y1, coef };
 }
 
+/** The cosine tables made so far, by n (a few sizes serve every series; read-only once made). */
+const cosineTables = new Map<number, Float64Array>();
+
 /** cos(pi p (k + 1/2) / n) at [p * n + k]: T_p at the k-th point. */
 function cosineTable(n: number): Float64Array {
-  const t = new Float64Array(n * n);
+  let t = cosineTables.get(n);
+  if (t) return t;
+  t = new Float64Array(n * n);
   for (let p = 0; p < n; p++) for (let k = 0; k < n; k++) t[p * n + k] = Math.cos((Math.PI * p * (k + 0.5)) / n);
+  cosineTables.set(n, t);
   return t;
 }
 
@@ -145,10 +151,10 @@ export function chebyshevAtY(c: Chebyshev2D, row: Float64Array, y: number): numb
 }
 
 /**
- * The series at y as a series in x alone: out[i] = sum_j coef[i, j] T_j(y') (the first nx entries
- * of `out`), to be evaluated at many x by Clenshaw's recurrence.
+ * The series at y as a series in x alone: out[at + i] = sum_j coef[i, j] T_j(y') (nx entries of
+ * `out` from `at`), to be evaluated at many x by Clenshaw's recurrence.
  */
-export function chebyshevAlongX(c: Chebyshev2D, y: number, out: Float64Array): void {
+export function chebyshevAlongX(c: Chebyshev2D, y: number, out: Float64Array, at = 0): void {
   const { nx, ny, coef } = c;
   const ty = unit(y, c.y0, c.y1);
   for (let i = 0; i < nx; i++) {
@@ -160,6 +166,6 @@ export function chebyshevAlongX(c: Chebyshev2D, y: number, out: Float64Array): v
       d2 = d1;
       d1 = d;
     }
-    out[i] = ty * d1 - d2 + coef[base]!;
+    out[at + i] = ty * d1 - d2 + coef[base]!;
   }
 }

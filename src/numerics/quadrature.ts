@@ -106,6 +106,17 @@ export interface PanelNodes {
 }
 
 /**
+ * True when every value is at most the next (so that sorting would leave the array as it is: the
+ * sort is stable). Most cuts come in order, often just two; Array.prototype.sort allocates a work
+ * copy and boxes every comparison in code not yet optimised (a cold forecast of the narrow-band
+ * sample sorted about 2300 such arrays, 2.6 MB of garbage).
+ */
+export function ascending(values: readonly number[]): boolean {
+  for (let i = 0; i + 1 < values.length; i++) if (!(values[i]! <= values[i + 1]!)) return false;
+  return true;
+}
+
+/**
  * Composite n-point Gauss-Legendre rule between cut points: sum w[i] f(x[i]) over i < count
  * approximates the integral of f over [min(cuts), max(cuts)]. `cuts` are the points the integrand
  * may have a kink at (the ends included); they are sorted in place. Each piece between
@@ -117,7 +128,7 @@ export interface PanelNodes {
  */
 export function panelNodes(cuts: number[], maxStep: number, n: number, out?: PanelNodes): PanelNodes {
   const { nodes, weights } = gaussLegendreRule(n);
-  cuts.sort((x, y) => x - y);
+  if (!ascending(cuts)) cuts.sort((x, y) => x - y);
   let size = 0;
   for (let i = 0; i + 1 < cuts.length; i++) size += n * Math.max(1, Math.ceil((cuts[i + 1]! - cuts[i]!) / maxStep));
   const p = out ?? { x: new Float64Array(size), w: new Float64Array(size), count: 0 };

@@ -20,7 +20,6 @@ import type { Survey } from '../model/survey.js';
 import { SR_PER_DEG2, FULL_SKY_DEG2 } from '../model/sky.js';
 import { buildDensityGrid, sliceCount, type DensityGrid } from '../forecast/grid.js';
 import { marginaliseNormalisationsInPlace, summariseFisher } from '../forecast/fisher.js';
-import { countPopulation } from '../counts/engine.js';
 import { uncertaintyContext, populationBias, matterSigma } from '../uncertainty/prediction.js';
 import { naturalCubicSpline, type Interpolant } from '../numerics/interpolate.js';
 import { inputError } from '../errors.js';
@@ -146,7 +145,11 @@ export async function buildDesignModel(
   let sigmaOf: ((sl: number, lnArea: number) => number) | undefined;
   if (useCv) {
     const ctx = uncertaintyContext(ref, cosmo);
-    const volumes = countPopulation(ref, population, cosmo, edges, { noHistogram: true }).map((s) => s.volumeMpc3);
+    // each slice's volume as the count engine gives it (src/counts/engine.ts countPopulation), without counting
+    const volumes = Array.from(
+      { length: nS },
+      (_, sl) => ref.areaSr * cosmo.comovingVolumeBetweenMpc3Sr(edges[sl]!, edges[sl + 1]!),
+    );
     const tmp = new Float64Array(7);
     const zc = (sl: number) => 0.5 * (edges[sl]! + edges[sl + 1]!);
     const countAt = (sl: number, delta: number) => {

@@ -32,6 +32,15 @@ import { robustGoals, ROBUST_DRAWS, type RobustResult } from './robust.js';
 import { surveyWarnings } from '../population/warnings.js';
 import { predictionWarnings } from '../counts/predict.js';
 import { refuseScatteredRedshifts, surveyForPopulation } from '../model/select.js';
+import { assertConvergent } from '../counts/engine.js';
+
+/**
+ * The optimum is called flat when the designs within NEAR_BEST_TOLERANCE of the best span this
+ * factor or more in area (from about 0.85 to 1.2 times the best's): a property of the optimum,
+ * whatever the exposure grid. (The share of the grid's designs within it, used before, depended on
+ * how wide a grid was asked for: the same optimum was flat on a narrow grid and sharp on a wide one.)
+ */
+const FLAT_AREA_SPAN = Math.SQRT2;
 
 export const PLAN_CAVEAT =
   'A plan is only as good as the luminosity function assumed: the counts and uncertainties hold if the population follows the model given; a different faint-end slope or knee changes which design is best.';
@@ -103,6 +112,8 @@ export async function planDesigns(
   refuseScatteredRedshifts(file);
   // The population's own window and slices, as a file holding it alone.
   const survey = surveyForPopulation(file, population);
+  // a count that diverges at z = 0 is refused as predict refuses it, with or without cosmic variance
+  assertConvergent(survey, population, survey.sliceEdges);
   const depth = makeDepthModel(spec.limitKind, spec.depthLaw);
   const names: string[] = parameterNames(population);
   const parameterIndex = spec.goal.kind === 'sigma' ? names.indexOf(spec.goal.parameter) : 0;
@@ -271,7 +282,7 @@ export async function planDesigns(
     notes.push(
       edge
         ? `${head}; the best design sits at the edge of the exposure grid, so this grid cannot tell how flat the optimum is.`
-        : `${head}: the optimum is ${within.length / designs.length > 0.25 ? 'flat' : 'sharp'}.`,
+        : `${head}: the optimum is ${areaOf(to) >= FLAT_AREA_SPAN * areaOf(from) ? 'flat' : 'sharp'}.`,
     );
   }
   if (spec.minimumCount > 0) {

@@ -31,7 +31,8 @@ import type { Survey } from '../model/survey.js';
 import type { PlanGoal } from '../model/plan.js';
 import { percentilesOf } from '../counts/model-draws.js';
 import { forecastDrawOffsets } from '../forecast/model-spread.js';
-import { marginaliseNormalisationsInPlace, summariseFisher } from '../forecast/fisher.js';
+import { marginaliseNormalisationsInPlace } from '../forecast/fisher.js';
+import { fisherSigma } from './sigma.js';
 import { buildDensityGrid, sliceCount, type DensityGrid } from '../forecast/grid.js';
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { DesignModel, TierValue } from './model.js';
@@ -121,12 +122,6 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
   };
   // per tier (a design's tier under every draw): its knot interval and Hermite weights in Delta,
   // its area and its cosmic-variance fractions, found once
-  interface TierPlace {
-    at: number;
-    weights: Float64Array;
-    area: number;
-    fractions: number[];
-  }
   const places = new Map<TierValue, TierPlace>();
   const fractionCache = new Map<string, number[]>();
   const placeOf = (t: TierValue): TierPlace => {
@@ -152,58 +147,40 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
   const tierPlaces = todo.map((e) => e.tiers.map(placeOf));
 
   const perDraw = todo.map(() => new Float64Array(thetas.length));
-  const matrix = [
-    [0, 0, 0],
-    [0, 0, 0],
-    [0, 0, 0],
-  ];
+  const scratch: DrawScratch = {
+    matrix: [
+      [0, 0, 0],
+      [0, 0, 0],
+      [0, 0, 0],
+    ],
+    counts: new Float64Array(nS),
+    b: new Float64Array(3 * nS),
+    sums,
+  };
   const f = [
     [0, 0, 0],
     [0, 0, 0],
     [0, 0, 0],
   ];
-  const counts = new Float64Array(nS);
-  const b = new Float64Array(3 * nS);
-  thetas.forEach((th, i) => {
+  const sigma = goal.kind === 'sigma';
+  for (let i = 0; i < thetas.length; i++) {
+    const th = thetas[i]!;
     const zero = th.every((v) => v === 0);
     if (!zero) fill(th);
     const factor = 10 ** th[0]!;
-    todo.forEach((e, di) => {
+    for (let di = 0; di < todo.length; di++) {
       if (zero) {
-        perDraw[di]![i] = e.goal!;
-        return;
+        perDraw[di]![i] = todo[di]!.goal!;
+        continue;
       }
       let count = 0;
       for (const row of f) row.fill(0);
-      for (const place of tierPlaces[di]!) {
-        for (const row of matrix) row.fill(0);
-        for (let sl = 0; sl < nS; sl++) {
-          const a = place.at + sl * 12;
-          interpolateSums(table, a, a + stride, place.weights, factor * place.area, sums);
-          const n = sums[0]!;
-          count += n;
-          matrix[0]![0]! += LN10 * LN10 * n;
-          matrix[0]![1]! += LN10 * sums[1]!;
-          matrix[0]![2]! += LN10 * sums[2]!;
-          matrix[1]![1]! += sums[3]!;
-          matrix[1]![2]! += sums[4]!;
-          matrix[2]![2]! += sums[5]!;
-          counts[sl] = n;
-          b[3 * sl] = LN10 * n;
-          b[3 * sl + 1] = sums[1]!;
-          b[3 * sl + 2] = sums[2]!;
-        }
-        if (goal.kind !== 'sigma') continue;
-        matrix[1]![0] = matrix[0]![1]!;
-        matrix[2]![0] = matrix[0]![2]!;
-        matrix[2]![1] = matrix[1]![2]!;
-        marginaliseNormalisationsInPlace(matrix, counts, b, place.fractions);
-        for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) f[j]![k]! += matrix[j]![k]!;
-      }
-      if (goal.kind !== 'sigma') perDraw[di]![i] = count;
-      else perDraw[di]![i] = (count > 0 ? summariseFisher(f)?.sigma[parameterIndex] : undefined) ?? Infinity;
-    });
-  });
+      for (const place of tierPlaces[di]!)
+        count = addTierUnderDraw(table, stride, nS, place, factor, sigma, scratch, f, count);
+      if (!sigma) perDraw[di]![i] = count;
+      else perDraw[di]![i] = (count > 0 ? fisherSigma(f, parameterIndex) : undefined) ?? Infinity;
+    }
+  }
   todo.forEach((e, di) => {
     const v = percentilesOf(perDraw[di]!, [percentile])[0]!;
     values.set(e, Number.isFinite(v) ? v : undefined);
@@ -219,6 +196,80 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
     },
     tabulated: series !== undefined,
   };
+}
+
+/** A design's tier under every draw: its knot interval (the offset of its first knot) and Hermite weights in Delta, its area and its cosmic-variance fractions. */
+interface TierPlace {
+  at: number;
+  weights: Float64Array;
+  area: number;
+  fractions: number[];
+}
+
+/** addTierUnderDraw's scratch: a tier's Fisher matrix, its slices' counts and b (3 per slice), the six interpolated sums. */
+interface DrawScratch {
+  matrix: number[][];
+  counts: Float64Array;
+  b: Float64Array;
+  sums: Float64Array;
+}
+
+/**
+ * One tier of a design under one draw: each slice's six sums interpolated between the draw's knots
+ * (`table`, knots `stride` apart, 12 numbers per slice), times the draw's phi* factor and the tier's
+ * area. Returns `count` plus the tier's count (slice by slice); with `sigma`, adds the tier's Fisher
+ * matrix, marginalised over its slices' cosmic-variance nuisances, to f.
+ */
+function addTierUnderDraw(
+  table: Float64Array,
+  stride: number,
+  nS: number,
+  place: TierPlace,
+  factor: number,
+  sigma: boolean,
+  s: DrawScratch,
+  f: number[][],
+  count: number,
+): number {
+  const { matrix, counts, b, sums } = s;
+  let m00 = 0;
+  let m01 = 0;
+  let m02 = 0;
+  let m11 = 0;
+  let m12 = 0;
+  let m22 = 0;
+  for (let sl = 0; sl < nS; sl++) {
+    const a = place.at + sl * 12;
+    interpolateSums(table, a, a + stride, place.weights, factor * place.area, sums);
+    const n = sums[0]!;
+    count += n;
+    m00 += LN10 * LN10 * n;
+    m01 += LN10 * sums[1]!;
+    m02 += LN10 * sums[2]!;
+    m11 += sums[3]!;
+    m12 += sums[4]!;
+    m22 += sums[5]!;
+    counts[sl] = n;
+    b[3 * sl] = LN10 * n;
+    b[3 * sl + 1] = sums[1]!;
+    b[3 * sl + 2] = sums[2]!;
+  }
+  if (!sigma) return count;
+  const r0 = matrix[0]!;
+  const r1 = matrix[1]!;
+  const r2 = matrix[2]!;
+  r0[0] = m00;
+  r0[1] = m01;
+  r0[2] = m02;
+  r1[0] = m01;
+  r1[1] = m11;
+  r1[2] = m12;
+  r2[0] = m02;
+  r2[1] = m12;
+  r2[2] = m22;
+  marginaliseNormalisationsInPlace(matrix, counts, b, place.fractions);
+  for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) f[j]![k]! += matrix[j]![k]!;
+  return count;
 }
 
 /** Panel widths and degrees of the draws' series (src/forecast/draw-sums.ts). */

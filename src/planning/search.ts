@@ -7,7 +7,7 @@
  */
 import { TIER_VALUES, type DesignModel, type TierValue } from './model.js';
 import type { PlanGoal } from '../model/plan.js';
-import { summariseFisher } from '../forecast/fisher.js';
+import { fisherSigma } from './sigma.js';
 
 export interface Budget {
   budgetHours: number;
@@ -65,7 +65,7 @@ export function goalOf(
   if (goal.kind === 'count') return count;
   if (goal.kind === 'faint_count') return faint;
   if (!(count > 0)) return undefined;
-  if (exact) return summariseFisher(fisher)?.sigma[parameterIndex];
+  if (exact) return fisherSigma(fisher, parameterIndex);
   return sigma3(fisher, parameterIndex);
 }
 

@@ -27,7 +27,7 @@
  */
 import type { DensityGrid } from '../forecast/grid.js';
 import { sliceCount } from '../forecast/grid.js';
-import { panelNodes, type PanelNodes } from '../numerics/quadrature.js';
+import { gaussLegendreRule } from '../numerics/quadrature.js';
 import { completenessBreaks, completenessFunction } from '../selection/completeness.js';
 import { runBlocks, type BlockFunction } from '../parallel/blocks.js';
 import type { WorkerJob } from '../worker.js';
@@ -39,8 +39,6 @@ export const KNOT_STEP = 0.05;
 export const PER_SLICE = 14;
 const PANEL_POINTS = 8;
 const MAX_PANEL = 0.3;
-/** Nodes of faintCount's panels, reused from call to call (faintCount does not nest). */
-const panels: PanelNodes = { x: new Float64Array(256), w: new Float64Array(256), count: 0 };
 
 export interface DepthTables {
   slices: number;
@@ -51,14 +49,15 @@ export interface DepthTables {
 }
 
 /** The numbers of every slice at one Delta >= 0, written into out[offset ...]: knotSums, then the faint count. */
-export function knotValues(grid: DensityGrid, delta: number, out: Float64Array, offset: number): void {
+export function knotValues(
+  grid: DensityGrid,
+  delta: number,
+  out: Float64Array,
+  offset: number,
+  faint: FaintCounter = faintCounter(grid),
+): void {
   knotSums(grid, delta, 0, out, offset, PER_SLICE);
-  for (let sl = 0; sl < sliceCount(grid); sl++) {
-    const o = offset + sl * PER_SLICE;
-    const f = faintCount(grid, sl, delta);
-    out[o + 12] = f.count;
-    out[o + 13] = f.derivative;
-  }
+  for (let sl = 0; sl < sliceCount(grid); sl++) faint(sl, delta, out, offset + sl * PER_SLICE + 12);
 }
 
 /**
@@ -138,6 +137,29 @@ export function knotSums(
  * the integrand at the upper end (u = 1).
  */
 export function faintCount(grid: DensityGrid, sl: number, delta: number): { count: number; derivative: number } {
+  const out = new Float64Array(2);
+  faintCounter(grid)(sl, delta, out, 0);
+  return { count: out[0]!, derivative: out[1]! };
+}
+
+/** faintCount of one grid: slice `sl` at Delta, the count into out[at] and its derivative into out[at + 1]. */
+export type FaintCounter = (sl: number, delta: number, out: Float64Array, at: number) => void;
+
+/** A piece of a node's range between two cuts that Delta does not move: its nodes s and weights times completeness. */
+interface FixedPiece {
+  s: Float64Array;
+  wc: Float64Array;
+  count: number;
+}
+
+/**
+ * faintCount for one grid, Delta after Delta (the depth tables' knots), with the same arithmetic
+ * in the same order. A node's range [s_lim, -Delta] is cut at the completeness break points
+ * inside it; only the last piece ends at -Delta, so the pieces before it have the same nodes,
+ * weights and completeness at every Delta: those are made once per node and piece and kept (the
+ * completeness was most of faintCount's time, one exponential per node per knot).
+ */
+export function faintCounter(grid: DensityGrid): FaintCounter {
   const comp = grid.completeness;
   const cfn = comp ? completenessFunction(comp, grid.kind, grid.variable) : undefined;
   const breaks = comp ? completenessBreaks(comp, grid.kind) : undefined;
@@ -146,41 +168,124 @@ export function faintCount(grid: DensityGrid, sl: number, delta: number): { coun
     MAX_PANEL,
     breaks && Number.isFinite(breaks.scale) ? (breaks.scale * LN10) / Math.abs(slope) : MAX_PANEL,
   );
-  let count = 0;
-  let derivative = 0;
-  const upper = -delta;
-  for (let j = grid.sliceNodeStart[sl]!; j < grid.sliceNodeStart[sl + 1]!; j++) {
+  const { nodes, weights } = gaussLegendreRule(PANEL_POINTS);
+  const nodeCount = grid.nodeZ.length;
+  // per node: the break points' s above s_lim, ascending; and the pieces they bound
+  const cutsOf: (Float64Array | undefined)[] = new Array<Float64Array | undefined>(nodeCount);
+  const piecesOf: (FixedPiece | undefined)[][] = Array.from({ length: nodeCount }, () => []);
+
+  const nodeCuts = (j: number): Float64Array => {
+    let cuts = cutsOf[j];
+    if (cuts) return cuts;
     const sLim = grid.nodeTLim[j]!;
-    if (!(upper > sLim)) continue;
-    const a1 = grid.nodeA1[j]!;
     const obsA = grid.nodeObsA[j]!;
-    const v = Math.exp(grid.nodeLogV[j]!);
-    const cuts = [sLim, upper];
+    const list: number[] = [];
     if (breaks) {
       for (const bp of breaks.points) {
         const t = (LN10 * (bp - obsA)) / slope;
-        if (t > sLim && t < upper) cuts.push(t);
+        if (t > sLim) list.push(t);
       }
     }
-    let c = 0;
-    let d = 0;
-    const { x, w: wq, count: nq } = panelNodes(cuts, maxStep, PANEL_POINTS, panels);
-    for (let i = 0; i < nq; i++) {
-      const sv = x[i]!;
-      const cv = cfn ? cfn(obsA + (slope * sv) / LN10) : 1;
-      if (!(cv > 0)) continue;
-      const t = sv + delta;
+    list.sort((x, y) => x - y);
+    cuts = Float64Array.from(list);
+    cutsOf[j] = cuts;
+    return cuts;
+  };
+
+  /** Piece i of node j: from s_lim (i = 0) or the i-th break point to the next break point. */
+  const fixedPiece = (j: number, i: number): FixedPiece => {
+    const kept = piecesOf[j]![i];
+    if (kept) return kept;
+    const cuts = nodeCuts(j);
+    const obsA = grid.nodeObsA[j]!;
+    const a = i === 0 ? grid.nodeTLim[j]! : cuts[i - 1]!;
+    const b = cuts[i]!;
+    const nSub = Math.max(1, Math.ceil((b - a) / maxStep));
+    const h = (b - a) / nSub;
+    const piece: FixedPiece = {
+      s: new Float64Array(nSub * PANEL_POINTS),
+      wc: new Float64Array(nSub * PANEL_POINTS),
+      count: 0,
+    };
+    for (let p = 0; p < nSub; p++) {
+      const pa = a + p * h;
+      for (let q = 0; q < PANEL_POINTS; q++) {
+        const sv = pa + 0.5 * h * (nodes[q]! + 1);
+        const cv = cfn ? cfn(obsA + (slope * sv) / LN10) : 1;
+        if (!(cv > 0)) continue;
+        piece.s[piece.count] = sv;
+        piece.wc[piece.count] = 0.5 * h * weights[q]! * cv;
+        piece.count++;
+      }
+    }
+    piecesOf[j]![i] = piece;
+    return piece;
+  };
+
+  const sums = new Float64Array(2);
+  /** The fixed piece's terms added to sums[0] (integrand) and sums[1] (integrand times a1 - u). */
+  const addFixed = (piece: FixedPiece, a1: number, delta: number): void => {
+    let c = sums[0]!;
+    let d = sums[1]!;
+    const { s, wc, count } = piece;
+    for (let i = 0; i < count; i++) {
+      const t = s[i]! + delta;
       const u = Math.exp(t);
-      const w = wq[i]! * cv * Math.exp(a1 * t - u);
+      const w = wc[i]! * Math.exp(a1 * t - u);
       c += w;
       d += w * (a1 - u);
     }
-    const cEnd = cfn ? cfn(obsA + (slope * upper) / LN10) : 1;
-    d -= Math.exp(-1) * cEnd;
-    count += v * c;
-    derivative += v * d;
-  }
-  return { count, derivative };
+    sums[0] = c;
+    sums[1] = d;
+  };
+  /** The last piece's terms, [a, upper], its nodes made afresh. */
+  const addLast = (a: number, upper: number, obsA: number, a1: number, delta: number): void => {
+    let c = sums[0]!;
+    let d = sums[1]!;
+    const nSub = Math.max(1, Math.ceil((upper - a) / maxStep));
+    const h = (upper - a) / nSub;
+    for (let p = 0; p < nSub; p++) {
+      const pa = a + p * h;
+      for (let q = 0; q < PANEL_POINTS; q++) {
+        const sv = pa + 0.5 * h * (nodes[q]! + 1);
+        const cv = cfn ? cfn(obsA + (slope * sv) / LN10) : 1;
+        if (!(cv > 0)) continue;
+        const t = sv + delta;
+        const u = Math.exp(t);
+        const w = 0.5 * h * weights[q]! * cv * Math.exp(a1 * t - u);
+        c += w;
+        d += w * (a1 - u);
+      }
+    }
+    sums[0] = c;
+    sums[1] = d;
+  };
+
+  return (sl, delta, out, at) => {
+    let count = 0;
+    let derivative = 0;
+    const upper = -delta;
+    for (let j = grid.sliceNodeStart[sl]!; j < grid.sliceNodeStart[sl + 1]!; j++) {
+      const sLim = grid.nodeTLim[j]!;
+      if (!(upper > sLim)) continue;
+      const a1 = grid.nodeA1[j]!;
+      const obsA = grid.nodeObsA[j]!;
+      const v = Math.exp(grid.nodeLogV[j]!);
+      const cuts = nodeCuts(j);
+      let k = 0;
+      while (k < cuts.length && cuts[k]! < upper) k++;
+      sums[0] = 0;
+      sums[1] = 0;
+      for (let i = 0; i < k; i++) addFixed(fixedPiece(j, i), a1, delta);
+      addLast(k === 0 ? sLim : cuts[k - 1]!, upper, obsA, a1, delta);
+      const cEnd = cfn ? cfn(obsA + (slope * upper) / LN10) : 1;
+      const d = sums[1] - Math.exp(-1) * cEnd;
+      count += v * sums[0];
+      derivative += v * d;
+    }
+    out[at] = count;
+    out[at + 1] = derivative;
+  };
 }
 
 /** Knots 0, step, 2 step, ... covering [0, maxDelta]. */
@@ -193,9 +298,10 @@ const TABLES_JOB: WorkerJob = 'plan-depth-tables';
 /** The block function of a grid: knots [start, end) into one array, knot after knot. */
 export function knotBlocks(grid: DensityGrid): BlockFunction<{ values: Float64Array }> {
   const nS = sliceCount(grid);
+  const faint = faintCounter(grid);
   return (start, end) => {
     const values = new Float64Array((end - start) * nS * PER_SLICE);
-    for (let k = start; k < end; k++) knotValues(grid, k * KNOT_STEP, values, (k - start) * nS * PER_SLICE);
+    for (let k = start; k < end; k++) knotValues(grid, k * KNOT_STEP, values, (k - start) * nS * PER_SLICE, faint);
     return { values };
   };
 }

@@ -648,7 +648,9 @@ export function renderReport(input: ReportInput): string {
   const totalU = p.totals.uncertainty?.total_fraction;
   const headline =
     `Expected count: <strong>${formatNumber(p.totals.count)}</strong>` +
-    (typeof totalU === 'number' ? ` ± ${formatNumber(p.totals.count * totalU, 3)} (1σ)` : '') +
+    (typeof totalU === 'number'
+      ? ` ± ${formatNumber(p.totals.count * totalU, 3)} (1σ, Poisson and cosmic variance)`
+      : '') +
     `, or ${formatNumber(p.totals.per_deg2)} per deg².`;
 
   const modelSection = `<section class="assumption" id="model">

@@ -46,11 +46,16 @@ const LEADING_NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?\s*\S/;
  * rejected as not a wavelength).
  */
 function normaliseUnitNames(s: string): string {
-  return s
-    .replace(/Å/g, ' angstrom')
-    .replace(/\bangstroms?\b/gi, 'angstrom')
-    .replace(/\bmicrons?\b/gi, 'micron')
-    .replace(/[µμ]m\b/g, 'um');
+  return (
+    s
+      .replace(/Å/g, ' angstrom')
+      .replace(/\bangstroms?\b/gi, 'angstrom')
+      .replace(/\bmicrons?\b/gi, 'micron')
+      .replace(/[µμ]m\b/g, 'um')
+      // "deg2", "arcmin2", "arcsec2": the squared angles as catalogues and papers often write them
+      // (mathjs reads "cm2" and "m2" as areas itself, but knows no "deg2")
+      .replace(/\b(deg|arcmin|arcsec)2\b/g, '$1^2')
+  );
 }
 
 /** True when `s` is a plain decimal number (e.g. "2.5", "-3e-2"). */

@@ -140,6 +140,60 @@ export function uncertaintyContext(survey: Survey, cosmo: FlatCosmology): Uncert
   return { survey, cosmo, power: createLinearPower(survey.cosmology, { form: 'no_wiggle' }), warnings: [] };
 }
 
+/** Where one population's abundance matching was held at one bound, for its one warning. */
+interface MassBoundNote {
+  warning: Warning;
+  zLo: number;
+  zHi: number;
+  /** The density furthest beyond the bound (after occupation), Mpc^-3. */
+  extreme: number;
+}
+
+/** The mass-bound notes of each list of warnings, by population name and bound. */
+const massBoundNotes = new WeakMap<Warning[], Map<string, MassBoundNote>>();
+
+/**
+ * Say in `list` that abundance matching for population `name` held the halo mass at a bound at z
+ * (`target`: the density matched, after occupation). One warning per population and bound: a
+ * second redshift widens the range the first one names (and keeps the density furthest beyond
+ * the bound) instead of adding a line per slice and per node of the totals.
+ */
+function noteMassBound(list: Warning[], name: string, held: 'min' | 'max', z: number, target: number): void {
+  let notes = massBoundNotes.get(list);
+  if (!notes) massBoundNotes.set(list, (notes = new Map<string, MassBoundNote>()));
+  const key = `${held} ${name}`;
+  const old = notes.get(key);
+  const at = old ? list.indexOf(old.warning) : -1;
+  const note: MassBoundNote =
+    old && at >= 0
+      ? {
+          warning: old.warning,
+          zLo: Math.min(old.zLo, z),
+          zHi: Math.max(old.zHi, z),
+          extreme: held === 'min' ? Math.max(old.extreme, target) : Math.min(old.extreme, target),
+        }
+      : { warning: warning('bias_at_mass_bound', ''), zLo: z, zHi: z, extreme: target };
+  const what = held === 'min' ? 'more than all' : 'less than the';
+  const mass = held === 'min' ? MATCH_MASS_MIN_MSUN : MATCH_MASS_MAX_MSUN;
+  const lo = note.zLo.toPrecision(3);
+  const hi = note.zHi.toPrecision(3);
+  const where =
+    lo === hi
+      ? `at z = ${lo} (${note.extreme.toPrecision(3)} Mpc^-3 after occupation)`
+      : `at z = ${lo} to ${hi} (as ${held === 'min' ? 'high' : 'low'} as ${note.extreme.toPrecision(3)} Mpc^-3 after occupation)`;
+  const message =
+    `${name}: the detected density ${where} is ${what} haloes above ${mass.toExponential(0)} Msun provide, ` +
+    `so the bias ${lo === hi ? 'is' : 'there is'} that of haloes above this mass; give population.bias to set it`;
+  note.warning = warning('bias_at_mass_bound', message);
+  if (at >= 0) list[at] = note.warning;
+  else {
+    addWarning(list, note.warning);
+    // (the entry the list holds, should the same message have been there already)
+    note.warning = list.find((w) => w.code === 'bias_at_mass_bound' && w.message === message) ?? note.warning;
+  }
+  notes.set(key, note);
+}
+
 /** Bias of one population for a range of redshift holding `count` sources in `volumeMpc3`, at z. */
 export function populationBias(
   ctx: UncertaintyContext,
@@ -154,19 +208,15 @@ export function populationBias(
   // Outside what haloes between the matching bounds provide, hold the mass at the bound (and say
   // so) rather than refuse the whole prediction: the counts do not depend on it.
   const target = density / p.occupation;
-  const atBound = (mass: number, what: string) => {
-    const message =
-      `${p.name}: the detected density at z = ${z.toPrecision(3)} (${target.toPrecision(3)} Mpc^-3 after occupation) is ${what} ` +
-      `haloes above ${mass.toExponential(0)} Msun provide, so the bias is that of haloes above this mass; give population.bias to set it`;
-    addWarning(ctx.warnings, warning('bias_at_mass_bound', message));
+  const atBound = (held: 'min' | 'max') => {
+    const mass = held === 'min' ? MATCH_MASS_MIN_MSUN : MATCH_MASS_MAX_MSUN;
+    noteMassBound(ctx.warnings, p.name, held, z, target);
     return { bias: haloes.effectiveBiasAbove(mass, z), haloMassMinMsun: mass };
   };
   // (target >= n(>1e6 Msun) and target <= n(>1e16 Msun), asked without summing the abundance
   // tables further down than the answer needs)
-  if (!haloes.densityAboveReaches(MATCH_MASS_MIN_MSUN, z, target, false))
-    return atBound(MATCH_MASS_MIN_MSUN, 'more than all');
-  if (haloes.densityAboveReaches(MATCH_MASS_MAX_MSUN, z, target, true))
-    return atBound(MATCH_MASS_MAX_MSUN, 'less than the');
+  if (!haloes.densityAboveReaches(MATCH_MASS_MIN_MSUN, z, target, false)) return atBound('min');
+  if (haloes.densityAboveReaches(MATCH_MASS_MAX_MSUN, z, target, true)) return atBound('max');
   try {
     const m = haloes.matchHaloMass(density, z, p.occupation);
     return { bias: m.bias, haloMassMinMsun: m.haloMassMinMsun };
@@ -317,13 +367,7 @@ const NEGLIGIBLE_SHARE = 1e-12;
  */
 function matchedBias(ctx: UncertaintyContext, p: Population, z: number, density: number): number {
   const m = matcherAt(ctx, z).match(density / p.occupation);
-  if (m.held) {
-    const what = m.held === 'min' ? 'more than all' : 'less than the';
-    const message =
-      `${p.name}: the detected density at z = ${z.toPrecision(3)} (${(density / p.occupation).toPrecision(3)} Mpc^-3 after occupation) is ${what} ` +
-      `haloes above ${m.haloMassMinMsun.toExponential(0)} Msun provide, so the bias is that of haloes above this mass; give population.bias to set it`;
-    addWarning(ctx.warnings, warning('bias_at_mass_bound', message));
-  }
+  if (m.held) noteMassBound(ctx.warnings, p.name, m.held, z, density / p.occupation);
   return m.bias;
 }
 

@@ -184,6 +184,49 @@ describe('warnings on files made to trigger them', () => {
     expect(r.stderr).toMatch(/^skytally: warning: .*haloes above 1e\+6 Msun/m);
   });
 
+  test('bias_at_mass_bound is one line per population and bound, naming the redshifts where it held (not one per slice and node)', async () => {
+    // Every slice of the dense population above is held at 1e6 Msun: one warning, naming the
+    // range of z and the density furthest beyond the bound (it was 38 lines, one per slice and
+    // per node of the totals). A K-band flux-limited survey counted to z = 0.25, whose far
+    // slices hold almost nothing (haloes above 1e16 Msun are too many there), the same at the
+    // other bound (it was 112 lines).
+    const dense = readFileSync('samples/mass-limited.yaml', 'utf8').replace(
+      /^(\s*)log10_phi_star: .*$/m,
+      '$1log10_phi_star: 2.6',
+    );
+    const bright = `format: 1
+title: a bright K-band limit counted far beyond its last source
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1
+redshift: {min: 0.0005, max: 0.25}
+detection: {kind: magnitude, limit: 13.6, band: "2.16 um", beta: -3.4}
+population: {variable: magnitude, rest_wavelength: "2.16 um", phi_star: 3.98e-3, m_star: -22.31, alpha: -1.09}
+slices: {width: 0.005}
+`;
+    for (const [name, text, bound, range] of [
+      [
+        'dense.yaml',
+        dense,
+        '1e\\+6',
+        /at z = 0\.3\d* to 1\.\d+ \(as high as [0-9.e+]+ Mpc\^-3 after occupation\) is more than all/,
+      ],
+      [
+        'bright.yaml',
+        bright,
+        '1e\\+16',
+        /at z = 0\.1\d+ to 0\.2\d+ \(as low as [0-9.e+-]+ Mpc\^-3 after occupation\) is less than the/,
+      ],
+    ] as const) {
+      const r = await runCli(['predict', file(name, text), '--format', 'json']);
+      expect(r.code).toBe(0);
+      const held = (JSON.parse(r.stdout) as Any).warnings.filter((w: Any) => w.code === 'bias_at_mass_bound');
+      expect(held).toHaveLength(1);
+      expect(held[0].message).toMatch(range);
+      expect(held[0].message).toMatch(new RegExp(`haloes above ${bound} Msun provide, so the bias there is`));
+      expect(r.stderr.split('\n').filter((l) => l.includes('haloes above'))).toHaveLength(1);
+    }
+  });
+
   test('distances and clustering carry an empty list', async () => {
     const d = JSON.parse((await runCli(['distances', '--z', '1', '--format', 'json'])).stdout) as Any;
     expect(d.warnings).toEqual([]);

@@ -41,6 +41,8 @@ const HIST_DRAWS = 16;
 
 type Obj = Record<string, unknown> & { detection: Record<string, unknown>; population: Record<string, unknown> };
 const read = (file: string) => parse(readFileSync(file, 'utf8')) as Obj;
+/** Whether the cases compared had a luminosity of all sources (both kinds must be seen). */
+const totalsSeen = new Set<boolean>();
 
 function compare(obj: Obj, file: string, expectTabulated: boolean, expectExactDraws = false) {
   // histograms: tabulated where the counts are (a limit tabulated in z under a varying completeness: neither)
@@ -102,6 +104,21 @@ function compare(obj: Obj, file: string, expectTabulated: boolean, expectExactDr
     }),
   );
   expect(differ, 'counts and luminosities').toEqual([]);
+  // the luminosity of all sources is given exactly where every draw of every slice has one: at
+  // every node and component alpha + d_alpha > -2 (the closed form's Gamma(alpha + d_alpha + 2)
+  // diverges below; common practice), the plain prediction's own for a draw without offsets
+  const plainDraw = (o: (typeof offsets)[number]) =>
+    o.characteristic === 0 && o.alpha.every((v) => v === 0) && o.log10PhiStar.every((v) => v === 0);
+  const everyTotal = own.every((sl) =>
+    offsets.every((o) =>
+      plainDraw(o) || (sl.drawNodes?.length ?? 0) === 0
+        ? sl.luminosity?.total !== undefined
+        : sl.drawNodes!.every((nd) => nd.allComponents.every((c, k) => c.alpha + o.alpha[k]! > -2)),
+    ),
+  );
+  expect(fast.luminosity!.total !== undefined, 'the luminosity of all sources given').toBe(everyTotal);
+  expect(exact.luminosity!.total !== undefined, 'the luminosity of all sources given (exact path)').toBe(everyTotal);
+  totalsSeen.add(everyTotal);
   // the draws do move the counts (the comparison is not of constants)
   const c0 = exact.counts[0]!;
   expect(Math.max(...c0) / Math.min(...c0)).toBeGreaterThan(1.05);
@@ -356,5 +373,9 @@ describe('tabulated draws equal the exact path (1e-8 relative)', () => {
       slices: { width: 0.4 },
     };
     compare(obj, `${DIR}/double-schechter-mass.yaml`, false);
+  });
+
+  test('cases with and without a luminosity of all sources were compared', () => {
+    expect([...totalsSeen].sort()).toEqual([false, true]);
   });
 });

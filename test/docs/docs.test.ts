@@ -174,6 +174,19 @@ describe('docs/names.md names every command and option', () => {
     expect(options).toContain('--out');
     expect(missingFrom(read(NAMES_MD), options)).toEqual([]);
   });
+
+  test.each(COMMANDS.map((c) => c.name))(
+    "README's table of commands gives %s with every option (but --format and --out, stated once below it)",
+    (name) => {
+      const row = read('README.md')
+        .split('\n')
+        .find((l) => l.startsWith(`| \`skytally ${name} `));
+      expect(row, `README's row of ${name}`).toBeDefined();
+      const synopsis = row!.split('` |')[0]!;
+      const options = registered.find((c) => c.name === name)!.options.filter((o) => o !== '--format' && o !== '--out');
+      expect(options.filter((o) => !new RegExp(`${o}(?![a-z-])`).test(synopsis))).toEqual([]);
+    },
+  );
 });
 
 describe('warning codes', () => {

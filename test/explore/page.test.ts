@@ -86,6 +86,17 @@ describe.each(SAMPLES)('%s', (sample) => {
     for (const line of text.split('\n').filter((l) => l.trimStart().startsWith('#')))
       expect(written).toContain(line.trim());
   });
+
+  test('the file written with one value set is the file as written but for that value (flow collections keep their spacing, comments their alignment)', () => {
+    // docs/outputs.md: "the file as written, comments kept, only the changed values replaced by
+    // plain numbers". Writing the whole document out again padded every flow collection
+    // ({min: 4} became { min: 4 }, tables [ [ 27.5, 0.98 ] ]) and closed up the spaces before
+    // end-of-line comments.
+    const { text, controls } = sampleControls(`samples/${sample}`);
+    const written = settingsText(text, controls, new Map([['area', 0.5]]));
+    const area = /^area:\s*("[^"]*"|[^\s#]+)/m.exec(text)!;
+    expect(written).toBe(text.replace(area[0], 'area: 0.5'));
+  });
 });
 
 describe('controls', () => {
@@ -103,6 +114,25 @@ describe('controls', () => {
       expect.arrayContaining(['population.log10_phi_star', 'population.log10_l_star', 'population.alpha']),
     );
     expect(c.get('population.alpha')!.range).toBe('default');
+  });
+
+  test("the threshold kind: L* and the limit in the population's own quantity, not erg/s (docs/survey-file.md, threshold kind)", () => {
+    const mass = readFileSync('samples/mass-limited.yaml', 'utf8');
+    const raw = parseYaml(mass, 'm') as { detection: Record<string, unknown>; population: Record<string, unknown> };
+    raw.detection.limit = 9.5;
+    const c = new Map(exploreControls(raw, loadSurveyText(mass, 'mass-limited.yaml')).map((x) => [x.key, x]));
+    expect(c.get('population.log10_l_star')!.unit).toBe('log10 stellar mass [Msun]');
+    expect(c.get('detection.limit')!.unit).toBe('log10 stellar mass [Msun]');
+    raw.population.l_star = 10 ** 10.85;
+    delete raw.population.log10_l_star;
+    delete raw.population.quantity;
+    const d = new Map(exploreControls(raw, loadSurveyText(mass, 'mass-limited.yaml')).map((x) => [x.key, x]));
+    // no quantity named: no unit claimed (the describe line names none either)
+    expect(d.get('population.l_star')!.unit).toBe('');
+    expect(d.get('detection.limit')!.unit).toBe('');
+    // a line-flux survey's L* stays in erg/s
+    const h = new Map(exploreControls(parseYaml(text, 'x'), survey).map((x) => [x.key, x]));
+    expect(h.get('population.log10_l_star')!.unit).toBe('log10 erg/s');
   });
 
   test('a model_uncertainty block sets the parameter ranges to 3 sigma (phi* and L* in dex also when written linearly)', () => {

@@ -28,4 +28,20 @@ describe('forecast error codes', () => {
       code: 'singular_fisher',
     });
   });
+  // alpha <= -2.5 with the window from z = 0 under a magnitude limit: the count diverges as
+  // z^(2 alpha + 4) (src/counts/engine.ts, common practice), so no Fisher matrix exists; it was
+  // refused with cosmic variance (by the count behind it) and accepted without
+  const uv = readFileSync(new URL('../../samples/plan-uv-deep-wide.yaml', import.meta.url), 'utf8')
+    .replace('redshift: {min: 4, max: 8}', 'redshift: {min: 0, max: 8}')
+    .replace(/alpha: "-1\.95 - 0\.08\*\(z - 6\)"/, 'alpha: -2.6');
+  test.each([true, false])(
+    'a count that diverges at z = 0 is refused (cosmic variance %s): divergent, naming redshift.min',
+    async (cv) => {
+      expect(uv).toContain('alpha: -2.6');
+      await expect(forecast(loadSurveyText(uv, 'divergent.yaml'), { cosmicVariance: cv })).rejects.toMatchObject({
+        code: 'divergent',
+        keyPath: 'redshift.min',
+      });
+    },
+  );
 });

@@ -5,6 +5,7 @@
  */
 import { describe, expect, test } from 'vitest';
 import {
+  ascending,
   gaussLegendre,
   gaussLegendreRule,
   integrate,
@@ -156,5 +157,27 @@ describe('panelNodes (composite Gauss-Legendre between cut points)', () => {
     panelNodes([0, 1], 1, 3, out);
     expect(out.count).toBe(3);
     expect(Math.abs(sum(out, (x) => x * x) - 1 / 3)).toBeLessThan(1e-15);
+  });
+});
+
+describe('ascending (whether panelNodes need sort its cuts)', () => {
+  test('true exactly when each value is at most the next, as a sort would leave them (common practice)', () => {
+    expect(ascending([])).toBe(true);
+    expect(ascending([3])).toBe(true);
+    expect(ascending([-1, 0.5, 0.5, 2])).toBe(true);
+    expect(ascending([-0, 0])).toBe(true);
+    expect(ascending([0, -1])).toBe(false);
+    expect(ascending([0, 2, 1])).toBe(false);
+    // NaN compares false: such cuts go to the sort as before
+    expect(ascending([0, NaN])).toBe(false);
+    expect(ascending([NaN, 0])).toBe(false);
+  });
+  test('cuts already in order are left as they are, and give the nodes of the same cuts given out of order', () => {
+    const inOrder = [-1, 0.5, 2];
+    const a = panelNodes(inOrder, 0.4, 8);
+    expect(inOrder).toEqual([-1, 0.5, 2]);
+    const b = panelNodes([2, 0.5, -1], 0.4, 8);
+    expect(Array.from(a.x.subarray(0, a.count))).toEqual(Array.from(b.x.subarray(0, b.count)));
+    expect(Array.from(a.w.subarray(0, a.count))).toEqual(Array.from(b.w.subarray(0, b.count)));
   });
 });

@@ -9,6 +9,7 @@ import { execFileSync } from 'node:child_process';
 import { copyFileSync, existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { beforeAll, describe, expect, test } from 'vitest';
+import { DIGEST_BYTES } from '../../src/cli/code-cache.js';
 import { tempDir } from '../support/temp.js';
 
 const BUILT = ['dist/cli/skytally.cjs', 'dist/cli/skytally.cjs.cache', 'dist/vega.cjs.cache', 'dist/cli/skytally.js'];
@@ -65,7 +66,7 @@ describe('the code caches', () => {
     copyFileSync('dist/cli/skytally.cjs', bundle);
     const cache = readFileSync('dist/cli/skytally.cjs.cache');
     // the bundle's digest kept, the bytecode that follows it spoilt
-    writeFileSync(`${bundle}.cache`, Buffer.concat([cache.subarray(0, 32), Buffer.alloc(4096, 7)]));
+    writeFileSync(`${bundle}.cache`, Buffer.concat([cache.subarray(0, DIGEST_BYTES), Buffer.alloc(4096, 7)]));
     const r = loadIn(bundle);
     expect(r.rejected).toBe(true);
     expect(r.exports).toContain('main');

@@ -234,6 +234,25 @@ describe('bad plan sections: exit 2, one sentence naming the file and the key', 
     },
     60_000,
   );
+  test.each([[[]], [['--no-cosmic-variance']]])(
+    'a count that diverges at z = 0 is refused, as predict refuses it (options %j)',
+    async (extra) => {
+      // alpha <= -2.5 with the window from z = 0 under a magnitude limit (src/counts/engine.ts, "common practice")
+      const file = join(dir, 'divergent.yaml');
+      writeFileSync(
+        file,
+        sampleText('plan-uv-deep-wide.yaml')
+          .replace('redshift: {min: 4, max: 8}', 'redshift: {min: 0, max: 8}')
+          .replace(/alpha: "-1\.95 - 0\.08\*\(z - 6\)"/, 'alpha: -2.6'),
+      );
+      const r = await runCli(['plan', file, '--format', 'json', ...extra]);
+      expect(r.code).toBe(2);
+      expect(r.stdout).toBe('');
+      expect(r.stderr.trim().split('\n')).toHaveLength(1);
+      expect(r.stderr).toContain(`${file}: redshift.min: the expected count of UV-selected galaxies diverges at z = 0`);
+    },
+    60_000,
+  );
   test('a threshold survey cannot be planned', async () => {
     const file = join(dir, 'threshold.yaml');
     writeFileSync(

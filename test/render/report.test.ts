@@ -157,6 +157,14 @@ describe('renderReport', () => {
     expect(formatNumber(cum)).toBe(formatNumber(prediction.totals.count));
   });
 
+  test("the headline's ± says what it holds (Poisson and cosmic variance, not the model's own spread; docs/outputs.md, uncertainty)", async () => {
+    const doc = await html();
+    const t = prediction.totals;
+    expect(doc).toContain(
+      `Expected count: <strong>${formatNumber(t.count)}</strong> ± ${formatNumber(t.count * t.uncertainty!.total_fraction, 3)} (1σ, Poisson and cosmic variance)`,
+    );
+  });
+
   test('the model is stated prominently, with the warning sentence', async () => {
     const doc = await html();
     const model = doc.indexOf('id="model"');

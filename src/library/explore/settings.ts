@@ -4,7 +4,7 @@
  * and the settings written back into the survey file's own YAML (comments and layout kept), so that
  * the page and `skytally predict` read the same text.
  */
-import { parseDocument } from 'yaml';
+import { isScalar, parseDocument, stringify } from 'yaml';
 import type { Survey } from '../../model/survey.js';
 import { FULL_SKY_DEG2 } from '../../model/sky.js';
 import type { ControlSpec, ExposureControl } from '../../model/explore.js';
@@ -78,6 +78,21 @@ function linearControl(
   };
 }
 
+/**
+ * The unit of a threshold limit, the population's own variable (docs/survey-file.md, "threshold: a
+ * limit in the population's own variable"): log10 of its quantity for a luminosity variable (when
+ * the file names one quantity), absolute AB magnitude for a magnitude variable; none otherwise.
+ */
+function thresholdUnit(file: Raw): string {
+  const pops = isRecord(file.population) ? [file.population] : Array.isArray(file.populations) ? file.populations : [];
+  const records = pops.filter(isRecord);
+  if (records.length === 0 || records.length !== pops.length) return '';
+  if (records.every((p) => p.variable === 'magnitude')) return 'absolute AB mag';
+  const quantities = new Set(records.map((p) => (typeof p.quantity === 'string' ? p.quantity.trim() : '')));
+  const [only] = [...quantities];
+  return quantities.size === 1 && only && records.every((p) => p.variable !== 'magnitude') ? `log10 ${only}` : '';
+}
+
 /** Population parameters the page varies, with their unit, span and range (docs/survey-file.md, "Limits"). */
 const PARAMETERS: { key: string; label: string; unit: string; log?: boolean; span: number; lo: number; hi: number }[] =
   [
@@ -90,6 +105,19 @@ const PARAMETERS: { key: string; label: string; unit: string; log?: boolean; spa
     { key: 'm_star', label: 'M*', unit: 'AB mag', span: 1.5, lo: -40, hi: 10 },
     { key: 'alpha', label: 'alpha', unit: '', span: 0.5, lo: -4, hi: 4 },
   ];
+
+/**
+ * The unit a parameter is read in. For the threshold kind L* is in the population's own quantity
+ * (docs/survey-file.md, "threshold: a limit in the population's own variable"; a stellar mass
+ * function's L* is in Msun), not erg/s: the label names that quantity, or claims no unit when the
+ * file names none.
+ */
+function parameterUnit(key: string, unit: string, pop: Raw, kind: string): string {
+  if (kind !== 'threshold' || (key !== 'log10_l_star' && key !== 'l_star')) return unit;
+  const quantity = typeof pop.quantity === 'string' && pop.quantity.trim() !== '' ? pop.quantity.trim() : undefined;
+  if (!quantity) return '';
+  return key === 'l_star' ? quantity : `log10 ${quantity}`;
+}
 
 /**
  * The range a population's model_uncertainty gives a parameter: 3 sigma either side of the value
@@ -130,7 +158,7 @@ export function exploreControls(raw: unknown, survey: Survey): ControlSpec[] {
     else if (d.kind === 'magnitude')
       controls.push(linearControl(['detection', 'limit'], 'Magnitude limit', 'AB mag', d.limitMag, 2, 0, 40));
     else if (typeof det.limit === 'number')
-      controls.push(linearControl(['detection', 'limit'], 'Threshold', '', det.limit, 2, -40, 60));
+      controls.push(linearControl(['detection', 'limit'], 'Threshold', thresholdUnit(file), det.limit, 2, -40, 60));
   }
   const z = file.redshift;
   // Slice edges written out fix the counted range: the window then stays as written.
@@ -176,9 +204,10 @@ export function exploreControls(raw: unknown, survey: Survey): ControlSpec[] {
       const v = pop[p.key];
       if (typeof v !== 'number') continue;
       const path = [...base, p.key];
+      const unit = parameterUnit(p.key, p.unit, pop, d.kind);
       const c = p.log
-        ? logControl(path, p.label + name, p.unit, v, p.lo, p.hi)
-        : linearControl(path, p.label + name, p.unit, v, p.span, p.lo, p.hi);
+        ? logControl(path, p.label + name, unit, v, p.lo, p.hi)
+        : linearControl(path, p.label + name, unit, v, p.span, p.lo, p.hi);
       const r = uncertaintyRange(pop, p.key, v);
       if (r) {
         c.min = Math.max(p.lo, r[0]);
@@ -294,7 +323,11 @@ const YAML_OPTIONS = { uniqueKeys: false, merge: false } as const;
 
 /**
  * The survey file as written with the given settings (key -> plain number in the key's unit):
- * the original text with only those values replaced, comments and layout kept.
+ * the original text with only those values replaced, comments and layout kept. Each value is
+ * replaced where it stands in the text (the parsed scalar's source range), so every other
+ * character stays as written: flow collections keep their spacing, comments their alignment.
+ * Should a value not be a scalar of the text (it always is for the controls exploreControls
+ * makes), the document is written out whole instead.
  */
 export function settingsText(
   original: string,
@@ -302,10 +335,22 @@ export function settingsText(
   values: ReadonlyMap<string, number>,
 ): string {
   if (values.size === 0) return original;
-  const doc = parseDocument(original.replace(/^\uFEFF/, ''), YAML_OPTIONS);
+  const text = original.replace(/^\uFEFF/, '');
+  const doc = parseDocument(text, YAML_OPTIONS);
+  const edits: { from: number; to: number; value: number }[] = [];
+  let whole = false;
   for (const c of controls) {
     const v = values.get(c.key);
-    if (v !== undefined && Number.isFinite(v) && !c.plan) doc.setIn(c.path, v);
+    if (v === undefined || !Number.isFinite(v) || c.plan) continue;
+    const node = doc.getIn(c.path, true);
+    if (isScalar(node) && node.range) edits.push({ from: node.range[0], to: node.range[1], value: v });
+    else whole = true;
+    doc.setIn(c.path, v);
   }
-  return doc.toString({ lineWidth: 0 });
+  if (whole) return doc.toString({ lineWidth: 0 });
+  // (a number as the document would write it: YAML's own form of a plain number)
+  let out = text;
+  for (const e of edits.sort((a, b) => b.from - a.from))
+    out = out.slice(0, e.from) + stringify(e.value, { lineWidth: 0 }).trimEnd() + out.slice(e.to);
+  return out;
 }

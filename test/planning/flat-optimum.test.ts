@@ -1,0 +1,42 @@
+/**
+ * Whether a plan calls its optimum flat or sharp is a property of the optimum, not of the
+ * exposure grid asked for: the same survey and budget searched on a narrow grid and on a wide one
+ * find the same near-best range (designs within 5 % of the best) and must get the same word. The
+ * word follows the near-best range's span in area (flat from a factor sqrt 2: the best's area
+ * could be 0.85 to 1.2 times what it is for at most 5 % of the goal; common practice: a design
+ * choice that tolerates +-20 % is not a sharp one). Before, it followed the share of the grid's
+ * designs inside the range, so a wide grid called the same optimum sharp that a narrow one
+ * called flat.
+ */
+import { describe, expect, test } from 'vitest';
+import { plan } from '../../src/library/plan.js';
+import { halphaPlan } from './helpers.js';
+
+function countPlan(maxHours: number) {
+  return plan(
+    halphaPlan(`  field_of_view: "0.2 deg^2"
+  reference: {limit: "6e-17 erg/s/cm^2", exposure_hours: 1}
+  overhead_hours: 0.1
+  budget_hours: 200
+  goal: count
+  exposure_grid: {min_hours: 0.05, max_hours: ${maxHours}, count: 60}
+`),
+  );
+}
+
+describe('a flat optimum is flat on any grid', () => {
+  test('the H-alpha sample, most sources in 200 h: within 5 % from about 100 to 190 deg^2 on a 0.05-1 h grid and on a 0.05-200 h grid, flat on both', async () => {
+    const verdicts: string[] = [];
+    for (const max of [1, 200]) {
+      const p = await countPlan(max);
+      const span = p.near_best.to.area_deg2 / p.near_best.from.area_deg2;
+      // the same optimum: the near-best range spans a factor of about 1.9 on either grid
+      expect(span).toBeGreaterThan(1.7);
+      expect(span).toBeLessThan(2.1);
+      const note = p.notes.find((n) => /the optimum is/.test(n));
+      expect(note, `grid up to ${max} h`).toBeDefined();
+      verdicts.push(/the optimum is (flat|sharp)/.exec(note!)![1]!);
+    }
+    expect(verdicts).toEqual(['flat', 'flat']);
+  });
+});
