@@ -26,7 +26,7 @@ import { crc32 } from 'node:zlib';
  * Length of the bundle's digest at the start of its cache file: its CRC-32, big-endian. A checksum,
  * not a cryptographic hash: it guards against a bundle edited or rebuilt beside an old cache, where
  * any change is caught but for one in 2^32, and costs a fraction of a SHA-256, whose first use
- * starts OpenSSL (about 45 million instructions, 4-6 ms, in every start; node:zlib's crc32 of the
+ * starts OpenSSL (about 45 million instructions in every start; node:zlib's crc32 of the
  * 1.7 MB bundle with the module's loading is about 20 million).
  */
 export const DIGEST_BYTES = 4;
