@@ -14,7 +14,8 @@
  * (beta = -1, f_lambda proportional to lambda^-1: a red galaxy's optical slope, common practice).
  */
 import { describe, expect, test } from 'vitest';
-import { loadSurveyText, predict, type Prediction } from '../../src/index.js';
+import { loadSurveyText, predict } from '../../src/index.js';
+import { medianRedshift } from '../support/median-redshift.js';
 
 function survey(limit: number, zmax: number): string {
   return `format: 1
@@ -36,18 +37,6 @@ population:
   alpha: -1.05
 slices: {width: 0.01}
 `;
-}
-
-/** The redshift below which half the predicted sources lie (linear within the slice). */
-function medianRedshift(p: Prediction): number {
-  const slices = p.slices ?? [];
-  const half = p.totals.count / 2;
-  let sum = 0;
-  for (const s of slices) {
-    if (sum + s.count >= half) return s.z_min + ((half - sum) / s.count) * (s.z_max - s.z_min);
-    sum += s.count;
-  }
-  throw new Error('no median');
 }
 
 describe('published flux-limited surveys (from memory; wide tolerances)', () => {

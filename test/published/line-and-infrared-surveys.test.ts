@@ -8,19 +8,8 @@
  * something is grossly wrong, not slightly.
  */
 import { describe, expect, test } from 'vitest';
-import { loadSurveyText, predict, type Prediction } from '../../src/index.js';
-
-/** The redshift below which half the predicted sources lie (linear within the slice). */
-function medianRedshift(p: Prediction): number {
-  const slices = p.slices ?? [];
-  const half = p.totals.count / 2;
-  let sum = 0;
-  for (const s of slices) {
-    if (sum + s.count >= half) return s.z_min + ((half - sum) / s.count) * (s.z_max - s.z_min);
-    sum += s.count;
-  }
-  throw new Error('no median');
-}
+import { loadSurveyText, predict } from '../../src/index.js';
+import { medianRedshift } from '../support/median-redshift.js';
 
 describe('published line-flux and near-infrared surveys (wide tolerances)', () => {
   test('Euclid-like slitless H-alpha, 0.9 < z < 1.8, with Pozzetti et al. 2016 Model 1: inside the densities the paper gives across its three models at 1 and 2e-16 erg/s/cm^2', () => {
