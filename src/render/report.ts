@@ -624,6 +624,25 @@ function definitionIds(): (svg: string) => string {
     );
 }
 
+/**
+ * What the cosmic variance assumed, under the table of slices: the total's bias (count-weighted,
+ * with the halo mass abundance matching gave it), the matter's sigma in the survey's box and the
+ * box's effective depth, as the text table's footer gives them.
+ */
+function clusteringNote(p: PredictionView): string {
+  const u = p.totals.uncertainty;
+  if (!u || typeof u.bias !== 'number' || typeof u.sigma_matter !== 'number') return '';
+  const halo = u.halo_mass_min_msun ? `; haloes above ${formatScientific(u.halo_mass_min_msun)} M☉ have it` : '';
+  const depth = u.effective_depth_mpc
+    ? `, in a box of effective depth ${formatNumber(u.effective_depth_mpc, 3)} Mpc`
+    : '';
+  return (
+    `\n<p class="note" id="cosmic-variance-assumed">Cosmic variance from the linear power spectrum: galaxy bias ` +
+    `${formatNumber(u.bias, 3)} (count-weighted over the detected sources${halo}), σ of the matter ` +
+    `${formatNumber(u.sigma_matter, 3)}${depth}.</p>`
+  );
+}
+
 /** Build the report. Pure: same input, same document. */
 export function renderReport(input: ReportInput): string {
   const p = input.prediction;
@@ -637,7 +656,11 @@ export function renderReport(input: ReportInput): string {
   const c = p.cosmology;
   const cosmo = c
     ? `flat ΛCDM with H₀ = ${formatNumber(c.h0)} km s⁻¹ Mpc⁻¹, Ωₘ = ${formatNumber(c.omega_m)}` +
-      (typeof c.t_cmb === 'number' && c.t_cmb > 0 ? `, T_CMB = ${formatNumber(c.t_cmb)} K` : '')
+      (typeof c.t_cmb === 'number' && c.t_cmb > 0 ? `, T_CMB = ${formatNumber(c.t_cmb)} K` : '') +
+      // (the linear power spectrum's parameters, which the cosmic variance rests on)
+      (typeof c.sigma8 === 'number' ? `, σ₈ = ${formatNumber(c.sigma8)}` : '') +
+      (typeof c.omega_b === 'number' ? `, Ω_b = ${formatNumber(c.omega_b)}` : '') +
+      (typeof c.n_s === 'number' ? `, n_s = ${formatNumber(c.n_s)}` : '')
     : '';
   const window = p.redshift ? `redshift ${formatZ(p.redshift.min)}–${formatZ(p.redshift.max)}` : '';
   const observed = p.breakdown === 'observed';
@@ -706,7 +729,7 @@ ${warningSection}${modelSection}
 <section id="predict">
 <h2>${observed ? 'Expected counts of every population' : 'Expected counts per redshift slice'}</h2>
 ${observed ? populationsTables(p, modelVariable(models), quantityOf(models[0])) : predictTable(p, modelVariable(models), quantityOf(models[0]))}
-<p class="note">Counts are expected numbers of detected sources, not rounded. The limit is given at each slice's middle redshift.</p>
+<p class="note">Counts are expected numbers of detected sources, not rounded. The limit is given at each slice's middle redshift.</p>${clusteringNote(p)}
 </section>
 ${section('forecast', 'Forecast', input.forecast ? forecastTables(input.forecast) : undefined, input.forecastOmitted)}
 ${section('plan', 'Plan', input.plan ? planTable(input.plan) : undefined, input.planOmitted)}

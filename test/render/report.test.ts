@@ -4,7 +4,9 @@ import fc from 'fast-check';
 import { buildFigures, countsFigure } from '../../src/render/figures.js';
 import { assertSafeSvg, escapeHtml, renderReport, svgForHtml } from '../../src/render/report.js';
 import { formatNumber } from '../../src/render/format.js';
-import type { Figure } from '../../src/render/types.js';
+import type { Figure, PredictionView } from '../../src/render/types.js';
+import { loadSurveyFile } from '../../src/survey/load.js';
+import { predict } from '../../src/counts/predict.js';
 import { demoForecast, demoPlan, demoPrediction } from './demo.js';
 
 const NASTY_1 = '<script>alert(1)</script>';
@@ -162,6 +164,28 @@ describe('renderReport', () => {
     const t = prediction.totals;
     expect(doc).toContain(
       `Expected count: <strong>${formatNumber(t.count)}</strong> ± ${formatNumber(t.count * t.uncertainty!.total_fraction, 3)} (1σ, Poisson and cosmic variance)`,
+    );
+  });
+
+  test('what the cosmic variance rests on is stated: sigma8, Omega_b, n_s beside the cosmology, and the bias, sigma of the matter and box depth under the slices, as predict gives them (docs/outputs.md, uncertainty)', () => {
+    const survey = loadSurveyFile(new URL('../../samples/dropout-field.yaml', import.meta.url).pathname);
+    const p = predict(survey) as unknown as PredictionView;
+    const doc = renderReport({ surveyText: '', surveyTitle: p.title, prediction: p, figures: [] });
+    const c = p.cosmology!;
+    const u = p.totals.uncertainty!;
+    expect(doc).toContain(
+      `σ₈ = ${formatNumber(c.sigma8 as number)}, Ω_b = ${formatNumber(c.omega_b as number)}, n_s = ${formatNumber(c.n_s as number)}</p>`,
+    );
+    const note = /<p class="note" id="cosmic-variance-assumed">([^<]*(?:<sup>[^<]*<\/sup>[^<]*)*)<\/p>/.exec(doc)?.[1];
+    expect(note).toBeDefined();
+    expect(note).toContain(`galaxy bias ${formatNumber(u.bias, 3)} (count-weighted`);
+    expect(note).toContain(`σ of the matter ${formatNumber(u.sigma_matter, 3)}`);
+    expect(note).toContain(`effective depth ${formatNumber(u.effective_depth_mpc!, 3)} Mpc`);
+    // without cosmic variance there is nothing to state
+    const demo = demoPrediction({ uncertainty: false });
+    const bare = { ...demo, totals: { ...demo.totals, uncertainty: undefined } };
+    expect(renderReport({ surveyText: '', surveyTitle: 'x', prediction: bare, figures: [] })).not.toContain(
+      'cosmic-variance-assumed',
     );
   });
 
