@@ -55,6 +55,19 @@ export interface ExploreResult {
   /** Why there is no Fisher matrix (a double Schechter population, no sources, a singular matrix). */
   fisherNote?: string;
   warnings: string[];
+  /**
+   * What the cosmic variance assumed (with it): the power spectrum's sigma8 and n_s, the total's
+   * count-weighted bias and the halo mass abundance matching gave it, the matter's sigma in the box
+   * and the box's effective depth, as `predict` gives them.
+   */
+  clustering?: {
+    sigma8: number;
+    nS?: number;
+    bias: number;
+    sigmaMatter: number;
+    haloMassMin?: number;
+    effectiveDepth?: number;
+  };
 }
 
 /** One control of the page. */

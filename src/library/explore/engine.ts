@@ -228,7 +228,7 @@ function resultOf(survey: Survey, prediction: Prediction, text: string, pending:
     })),
   }));
   const lf = survey.populations.map((_, k) => lfData(survey, prediction, k));
-  return {
+  const result: ExploreResult = {
     text,
     title: prediction.title,
     outputs,
@@ -237,6 +237,18 @@ function resultOf(survey: Survey, prediction: Prediction, text: string, pending:
     lf,
     warnings: prediction.warnings.map((w) => w.message),
   };
+  const u = t.uncertainty;
+  const c = prediction.cosmology;
+  if (u && typeof u.bias === 'number' && typeof u.sigma_matter === 'number' && c.sigma8 !== undefined)
+    result.clustering = {
+      sigma8: c.sigma8,
+      ...(c.n_s !== undefined ? { nS: c.n_s } : {}),
+      bias: u.bias,
+      sigmaMatter: u.sigma_matter,
+      ...(u.halo_mass_min_msun !== undefined ? { haloMassMin: u.halo_mass_min_msun } : {}),
+      ...(u.effective_depth_mpc !== undefined ? { effectiveDepth: u.effective_depth_mpc } : {}),
+    };
+  return result;
 }
 
 /** The forecast's Fisher sigmas of the first population (or why there are none), added to `result`. */

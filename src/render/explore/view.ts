@@ -42,7 +42,20 @@ export function slicesHtml(r: ExploreResult): string {
     const k = i + 1;
     return `<tr>${byPopulation ? `<td>${escapeHtml(x.population ?? '')}</td>` : ''}<th scope="row">${formatRange(x.zMin, x.zMax)}</th>${cell(`slice-${k}-count`, x.count, 'count')}${cell(`slice-${k}-poisson`, x.poisson, 'fraction')}${cell(`slice-${k}-cosmic-variance`, x.cosmicVariance, 'fraction')}${cell(`slice-${k}-uncertainty`, x.total, 'fraction')}${model ? cell(`slice-${k}-model`, x.model, 'fraction', x.modelPending) : ''}</tr>`;
   });
-  return `<table><caption>Expected counts per slice with 1-sigma fractional uncertainties</caption><thead>${head}</thead><tbody>${rows.join('')}</tbody></table>`;
+  return `<table><caption>Expected counts per slice with 1-sigma fractional uncertainties</caption><thead>${head}</thead><tbody>${rows.join('')}</tbody></table>${clusteringNote(r)}`;
+}
+
+/** What the cosmic variance assumed, in one sentence under the slice table (absent without it). */
+function clusteringNote(r: ExploreResult): string {
+  const c = r.clustering;
+  if (!c) return '';
+  const ns = c.nS !== undefined ? `, n_s = ${sig(c.nS, 4)}` : '';
+  const halo = c.haloMassMin !== undefined ? `; haloes above ${sig(c.haloMassMin, 3)} Msun have it` : '';
+  const depth = c.effectiveDepth !== undefined ? `, effective depth ${sig(c.effectiveDepth, 3)} Mpc` : '';
+  return `<p class="note" data-part="cosmic-variance-assumed">${escapeHtml(
+    `Cosmic variance from the linear power spectrum (sigma8 = ${sig(c.sigma8, 4)}${ns}): bias ${sig(c.bias, 3)} ` +
+      `(count-weighted over the detected sources${halo}), sigma of the matter ${sig(c.sigmaMatter, 3)}${depth}.`,
+  )}</p>`;
 }
 
 /** The Fisher sigmas of the first population, with and without the cosmic-variance nuisances. */
