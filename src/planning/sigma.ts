@@ -7,47 +7,23 @@
  * model draw and the search for every design: summariseFisher builds a dozen arrays per call.
  */
 
+import { choleskyInto, choleskySolveInto } from '../numerics/linalg.js';
+
 const N = 3;
-/** Scratch: the scale d, the scaled matrix, its factor L, one column's y and x, the inverse's diagonal. */
+/** Scratch: the scale d, the scaled matrix, its factor L, a unit vector, one solve's y and x, the inverse's diagonal. */
 const d = new Float64Array(N);
 const a = new Float64Array(N * N);
 const l = new Float64Array(N * N);
+const e = new Float64Array(N);
 const y = new Float64Array(N);
 const x = new Float64Array(N);
 const diag = new Float64Array(N);
 
-/** The scaled matrix's Cholesky factor into l (cholesky with tolerance 0); false where it has none. */
-function factor(): boolean {
-  let scale = 0;
-  for (let i = 0; i < N; i++) scale = Math.max(scale, Math.abs(a[i * N + i]!));
-  l.fill(0);
-  for (let j = 0; j < N; j++) {
-    let s0 = a[j * N + j]!;
-    for (let k = 0; k < j; k++) s0 -= l[j * N + k]! * l[j * N + k]!;
-    if (!(s0 > 0 * scale) || !Number.isFinite(s0)) return false;
-    const ljj = Math.sqrt(s0);
-    l[j * N + j] = ljj;
-    for (let i = j + 1; i < N; i++) {
-      let s = a[i * N + j]!;
-      for (let k = 0; k < j; k++) s -= l[i * N + k]! * l[j * N + k]!;
-      l[i * N + j] = s / ljj;
-    }
-  }
-  return true;
-}
-
-/** Column j of the inverse (choleskySolve of the unit vector e_j): its diagonal element into diag[j]. */
+/** Column j of the inverse (the solve of the unit vector e_j): its diagonal element into diag[j]. */
 function inverseDiagonal(j: number): void {
-  for (let i = 0; i < N; i++) {
-    let s = i === j ? 1 : 0;
-    for (let k = 0; k < i; k++) s -= l[i * N + k]! * y[k]!;
-    y[i] = s / l[i * N + i]!;
-  }
-  for (let i = N - 1; i >= 0; i--) {
-    let s = y[i]!;
-    for (let k = i + 1; k < N; k++) s -= l[k * N + i]! * x[k]!;
-    x[i] = s / l[i * N + i]!;
-  }
+  e.fill(0);
+  e[j] = 1;
+  choleskySolveInto(l, N, e, y, x);
   diag[j] = x[j]!;
 }
 
@@ -59,7 +35,7 @@ export function fisherSigma(fisher: readonly (readonly number[])[], index: numbe
     d[i] = v;
   }
   for (let i = 0; i < N; i++) for (let j = 0; j < N; j++) a[i * N + j] = fisher[i]![j]! / (d[i]! * d[j]!);
-  if (!factor()) return undefined;
+  if (!choleskyInto(a, N, l)) return undefined;
   for (let j = 0; j < N; j++) inverseDiagonal(j);
   let out = 0;
   for (let i = 0; i < N; i++) {
