@@ -1,11 +1,16 @@
 /** Human table and CSV for a Prediction (predict command). */
 import Table from 'cli-table3';
-import type { ModelSpread, Prediction, PredictionSlice, PredictionTotals } from '../model/outputs/prediction.js';
+import type {
+  ModelSpread,
+  Prediction,
+  PredictionSlice,
+  PredictionTotals,
+  UncertaintyBlock,
+} from '../model/outputs/prediction.js';
 import type { CosmologyBlock } from '../model/outputs/shared.js';
 import { uncertaintySources } from './sources.js';
 import { sig, zText } from './format.js';
 import { csvText, type CsvCell } from './csv.js';
-import { dominantTerm } from '../uncertainty/prediction.js';
 
 const LIMIT_HEADINGS: Record<string, string> = {
   log10_luminosity: 'limit log10 L [erg/s]',
@@ -159,6 +164,14 @@ function slicesTable(
     '',
   ]);
   return table.toString();
+}
+
+/** Which term dominates, in words, for the table. */
+function dominantTerm(u: UncertaintyBlock): string {
+  const ratio = u.cosmic_variance_fraction / u.poisson_fraction;
+  if (ratio > 1)
+    return `cosmic variance dominates the total's uncertainty (${(100 * u.cosmic_variance_fraction).toFixed(1)} % against ${(100 * u.poisson_fraction).toFixed(1)} % Poisson)`;
+  return `Poisson noise dominates the total's uncertainty (${(100 * u.poisson_fraction).toFixed(1)} % against ${(100 * u.cosmic_variance_fraction).toFixed(1)} % cosmic variance)`;
 }
 
 /** The sentence on the total's uncertainty: the terms, the effective bias and where it applies. */

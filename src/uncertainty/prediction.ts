@@ -304,14 +304,6 @@ export function singleUncertainty(
   return combinedUncertainty(ctx, [part], zMin, zMax, zc);
 }
 
-/** Which term dominates, in words, for the table. */
-export function dominantTerm(u: UncertaintyJson): string {
-  const ratio = u.cosmic_variance_fraction / u.poisson_fraction;
-  if (ratio > 1)
-    return `cosmic variance dominates the total's uncertainty (${(100 * u.cosmic_variance_fraction).toFixed(1)} % against ${(100 * u.poisson_fraction).toFixed(1)} % Poisson)`;
-  return `Poisson noise dominates the total's uncertainty (${(100 * u.poisson_fraction).toFixed(1)} % against ${(100 * u.cosmic_variance_fraction).toFixed(1)} % cosmic variance)`;
-}
-
 /** One slice of one population, with where in redshift its detected sources lie. */
 export interface TotalPart {
   population: Population;
