@@ -166,12 +166,21 @@ function slicesTable(
   return table.toString();
 }
 
+/**
+ * A fraction as a percentage for the sentence: one decimal from 0.1 % up, two significant figures
+ * below (a full-sky survey's 0.013 % must not read 0.0 %).
+ */
+function percentText(f: number): string {
+  const p = 100 * f;
+  return `${Math.abs(p) >= 0.1 || p === 0 ? p.toFixed(1) : p.toPrecision(2)} %`;
+}
+
 /** Which term dominates, in words, for the table. */
 function dominantTerm(u: UncertaintyBlock): string {
   const ratio = u.cosmic_variance_fraction / u.poisson_fraction;
   if (ratio > 1)
-    return `cosmic variance dominates the total's uncertainty (${(100 * u.cosmic_variance_fraction).toFixed(1)} % against ${(100 * u.poisson_fraction).toFixed(1)} % Poisson)`;
-  return `Poisson noise dominates the total's uncertainty (${(100 * u.poisson_fraction).toFixed(1)} % against ${(100 * u.cosmic_variance_fraction).toFixed(1)} % cosmic variance)`;
+    return `cosmic variance dominates the total's uncertainty (${percentText(u.cosmic_variance_fraction)} against ${percentText(u.poisson_fraction)} Poisson)`;
+  return `Poisson noise dominates the total's uncertainty (${percentText(u.poisson_fraction)} against ${percentText(u.cosmic_variance_fraction)} cosmic variance)`;
 }
 
 /** The sentence on the total's uncertainty: the terms, the effective bias and where it applies. */
