@@ -6,7 +6,7 @@
  */
 import { describe, expect, test } from 'vitest';
 import { sourcesSentence, uncertaintyNote } from '../../src/render/predict-table.js';
-import type { ModelSpread, PredictionTotals } from '../../src/model/outputs/prediction.js';
+import type { PredictionTotals } from '../../src/model/outputs/prediction.js';
 
 const totals = (poisson: number, cv: number) =>
   ({
@@ -52,7 +52,7 @@ describe('the uncertainty sentence under the predict table', () => {
       p84: 1.1e8,
       p97_5: 1.2e8,
       fraction: 0.1,
-    } as ModelSpread;
+    };
     const u = { poisson_fraction: 0.0001, cosmic_variance_fraction: 0.0005 };
     expect(sourcesSentence('Sources of uncertainty of the total', 1e8, u, m)).toBe(
       'Sources of uncertainty of the total 1e8: Poisson noise 0.010 %, cosmic variance 0.050 %, the model 10.0 % (9e7 to 1.1e8 over 1000 draws of its uncertainty); the model dominates.',
