@@ -33,8 +33,8 @@ slices: {count: 1}
 `;
     const p = predict(loadSurveyText(text, 'gronwall-like.yaml'));
     // the window is the filter's: (4990 -+ 25) / 1215.67 - 1 (definition of a top hat)
-    expect(p.slices[0]!.z_min).toBeCloseTo(4965 / 1215.67 - 1, 9);
-    expect(p.slices[0]!.z_max).toBeCloseTo(5015 / 1215.67 - 1, 9);
+    expect(p.slices![0]!.z_min).toBeCloseTo(4965 / 1215.67 - 1, 9);
+    expect(p.slices![0]!.z_max).toBeCloseTo(5015 / 1215.67 - 1, 9);
     // scipy (independent integration of the same model, this session): 198.74616797531596
     expect(Math.abs(p.totals.count / 198.74616797531596 - 1)).toBeLessThan(1e-6);
     // 162 observed lies 0.94 sigma below: Poisson 7.1 % and cosmic variance 18.4 % at bias 1.7
