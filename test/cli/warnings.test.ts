@@ -127,6 +127,45 @@ describe('warnings on files made to trigger them', () => {
     expect((await runCli(['plan', f])).stderr).toBe(r.stderr);
   });
 
+  test('a plan whose best design is one pointing taking the whole budget: no grid-edge warning (a longer exposure buys no pointing, so widening the grid changes nothing), a note naming the budget instead (failed before)', async () => {
+    // A narrow-band search whose sigma(alpha) keeps falling with depth over a 1.77 deg^2 camera:
+    // the best of 40 h is one pointing of 39.9 h, the default grid's longest exposure
+    // (budget - overhead). Before, the warning asked for a larger max_hours; with max_hours 60
+    // the same design came back without a warning.
+    const text = (grid: string) => `format: 1
+title: one deep pointing (plan edge check)
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1
+detection: {kind: line_flux, limit: 7e-18, line: 1215.67, filter: {center: 8150, fwhm: 120, profile: gaussian}}
+population: {variable: luminosity, phi_star: 7.7e-4, l_star: 6.8e42, alpha: -1.5}
+slices: {count: 1}
+plan:
+  field_of_view: 1.77
+  reference: {limit: 1e-17, exposure_hours: 2}
+  overhead_hours: 0.1
+  budget_hours: 40
+  goal: {sigma: alpha}${grid}
+`;
+    const runs = await Promise.all(
+      ['', '\n  exposure_grid: {max_hours: 60}'].map((g, i) =>
+        runCli(['plan', file(`budget-edge-${i}.yaml`, text(g)), '--format', 'json']),
+      ),
+    );
+    for (const r of runs) {
+      expect(r.code).toBe(0);
+      const p = JSON.parse(r.stdout) as Any;
+      expect(validate('plan.schema.json', p)).toBe('valid');
+      expect(p.best.pointings).toBe(1);
+      expect(p.best.exposure_hours_per_pointing).toBeCloseTo(39.9, 9);
+      expect(p.warnings).toEqual([]);
+      expect(r.stderr).toBe('');
+      expect(p.notes.join(' ')).toMatch(
+        /spends all of the budget on one pointing: its depth is limited by budget_hours/,
+      );
+      expect(p.notes.join(' ')).not.toMatch(/edge of the exposure grid/);
+    }
+  });
+
   test('the band blueward of Lyman alpha: the same warning in predict, forecast, compare (prefixed by its column), check and report JSON', async () => {
     const p = JSON.parse((await runCli(['predict', BLUEWARD, '--format', 'json'])).stdout) as Any;
     expect(p.warnings.map((w: Any) => w.code)).toEqual(['band_blueward_of_lyman_alpha']);
