@@ -1064,7 +1064,7 @@ function buildPopulation(
     variable: p.variable,
     phiStar: params.components[0]!.phiStar,
     alpha: params.components[0]!.alpha,
-    components: params.components.map((c) => ({ phiStar: c.phiStar, alpha: c.alpha })),
+    components: params.components.map((c) => ({ phiStar: c.phiStar, alpha: c.alpha, phiKey: c.phiKey })),
     restWavelengthAngstrom,
     bias,
     occupation,
