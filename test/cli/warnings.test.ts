@@ -91,6 +91,44 @@ describe('warnings on files made to trigger them', () => {
     expect((await runCli(['forecast', LINEAR_LOG])).code).toBe(2);
   });
 
+  test('phi* written linearly under a log10 key, or far too high: implausible_density naming the key, in check and predict; no sample raises it (failed before: a count 400 times too high, no warning)', async () => {
+    const base = sampleText('halpha-narrowband.yaml');
+    expect(base).toMatch(/log10_phi_star: -2\.6\n/);
+    // 10^0.0025 = 1.0058 Mpc^-3 instead of 10^-2.6 = 0.0025
+    const f = file('linear-phi.yaml', base.replace('log10_phi_star: -2.6', 'log10_phi_star: 0.0025'));
+    const r = await runCli(['predict', f, '--format', 'json']);
+    expect(r.code).toBe(0);
+    const p = JSON.parse(r.stdout) as Any;
+    expect(validate('prediction.schema.json', p)).toBe('valid');
+    expect(p.warnings.map((w: Any) => w.code)).toEqual(['implausible_density']);
+    expect(p.warnings[0].message).toMatch(
+      /^H-alpha emitters: phi\* = 1\.006 Mpc\^-3 at z = .*; if log10_phi_star holds a linear value, write it under phi_star /,
+    );
+    expect(r.stderr).toBe(`skytally: warning: ${p.warnings[0].message}\n`);
+    const c = await runCli(['check', f, '--format', 'json']);
+    expect((JSON.parse(c.stdout) as Any).warnings.map((w: Any) => w.code)).toEqual(['implausible_density']);
+    // a linear phi_star of 1.2 gets the plain advice; 0.5 Mpc^-3 itself passes (the bound)
+    const g = file('high-phi.yaml', base.replace('log10_phi_star: -2.6', 'phi_star: 1.2'));
+    const w = (JSON.parse((await runCli(['check', g, '--format', 'json'])).stdout) as Any).warnings;
+    expect(w.map((x: Any) => x.message)).toEqual([
+      expect.stringMatching(/phi\* = 1\.2 Mpc\^-3 .*; check phi_star \(a number density in Mpc\^-3\)$/),
+    ]);
+    const h = file('bound-phi.yaml', base.replace('log10_phi_star: -2.6', 'phi_star: 0.5'));
+    expect((JSON.parse((await runCli(['check', h, '--format', 'json'])).stdout) as Any).warnings).toEqual([]);
+    // a double Schechter names the component and its own key
+    const d = sampleText('double-schechter-mass.yaml');
+    expect(d).toMatch(/log10_phi_star_2: -3\.46/);
+    const k = file('double-phi.yaml', d.replace(/log10_phi_star_2: -3\.46\d*/, 'log10_phi_star_2: 0.00034'));
+    const dw = (JSON.parse((await runCli(['check', k, '--format', 'json'])).stdout) as Any).warnings;
+    expect(dw.map((x: Any) => x.code)).toEqual(['implausible_density']);
+    expect(dw[0].message).toMatch(/phi\* of component 2 = 1\.001 Mpc\^-3 .*write it under phi_star_2 /);
+    // no bundled sample raises it
+    for (const sample of readdirSync('samples').filter((x) => x.endsWith('.yaml'))) {
+      const out = JSON.parse((await runCli(['check', `samples/${sample}`, '--format', 'json'])).stdout) as Any;
+      expect(out.warnings.map((x: Any) => x.code)).not.toContain('implausible_density');
+    }
+  });
+
   test("M* given as an apparent magnitude: implausible_luminosity (within the loader's range), refused beyond it", async () => {
     const text = readFileSync('samples/deep-continuum.yaml', 'utf8');
     expect(text).toMatch(/m_star: /);
