@@ -33,6 +33,8 @@ export const WARNING_CODES = {
     'the band lies within 1.3 times Lyman alpha (1 + z) somewhere in the window and the file does not state detection.igm',
   phi_star_per_dex:
     'a per-dex normalisation (phi_star_dex forms) was given: says the ln 10 convention used, which papers label inconsistently',
+  implausible_density:
+    "a population's phi* is above 0.5 Mpc^-3, far above any galaxy population's (e.g. a linear value under a log10 key)",
 } as const;
 
 export type WarningCode = keyof typeof WARNING_CODES;

@@ -61,8 +61,33 @@ export const HISTOGRAM_DRAWS = 100;
 
 export const PERCENTILES = [0.025, 0.16, 0.5, 0.84, 0.975] as const;
 
-/** The offsets of every draw of one population (index `stream` among the survey's populations). */
+/**
+ * The offsets drawn, by model uncertainty and then by (components, draws, seed, stream): a report
+ * draws the same offsets for its prediction, its figures' bands, its forecast and its plan.
+ */
+const offsetsDrawn = new WeakMap<ModelUncertainty, Map<string, readonly ModelOffsets[]>>();
+
+/**
+ * The offsets of every draw of one population (index `stream` among the survey's populations),
+ * made once per model uncertainty and arguments: the same array is returned to every caller, who
+ * must not change it.
+ */
 export function drawModelOffsets(
+  mu: ModelUncertainty,
+  components: number,
+  draws: number,
+  seed: number,
+  stream: number,
+): readonly ModelOffsets[] {
+  let kept = offsetsDrawn.get(mu);
+  if (!kept) offsetsDrawn.set(mu, (kept = new Map<string, readonly ModelOffsets[]>()));
+  const key = `${components} ${draws} ${seed} ${stream}`;
+  let offsets = kept.get(key);
+  if (!offsets) kept.set(key, (offsets = makeModelOffsets(mu, components, draws, seed, stream)));
+  return offsets;
+}
+
+function makeModelOffsets(
   mu: ModelUncertainty,
   components: number,
   draws: number,

@@ -12,6 +12,8 @@ export interface ComponentParams {
   /** Normalisation of the standard form, Mpc^-3 (per_dex inputs already divided by ln 10). */
   phiStar: ZParam;
   alpha: ZParam;
+  /** The normalisation key the file used for this component (phi_star_2, log10_phi_star_1_dex, ...). */
+  phiKey?: string;
 }
 
 /**

@@ -101,6 +101,12 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
       population.shape === 'schechter'
         ? await forecast(survey, { population: population.name, cosmicVariance: useCv })
         : undefined;
+    if (opts.population === undefined && file.populations.length > 1) {
+      const others = file.populations.filter((q) => q !== population).map((q) => `"${q.name}"`);
+      notes.push(
+        `[${i + 1}] holds ${file.populations.length} populations: only the first, "${population.name}", is compared (counted over its own window), without ${others.join(', ')}; choose one with --population NAME.`,
+      );
+    }
     if (!f)
       notes.push(
         `[${i + 1}] "${population.name}" is a double Schechter population: no Fisher sigmas are given for it (a forecast varies phi*, L* or M* and alpha of a single Schechter function).`,

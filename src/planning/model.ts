@@ -19,7 +19,8 @@ import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { SR_PER_DEG2, FULL_SKY_DEG2 } from '../model/sky.js';
 import { buildDensityGrid, sliceCount, type DensityGrid } from '../forecast/grid.js';
-import { marginaliseNormalisationsInPlace, summariseFisher } from '../forecast/fisher.js';
+import { summariseFisher } from '../forecast/fisher.js';
+import { marginaliseSymmetric3 } from './sigma.js';
 import { uncertaintyContext, populationBias, matterSigma } from '../uncertainty/prediction.js';
 import { naturalCubicSpline, type Interpolant } from '../numerics/interpolate.js';
 import { inputError } from '../errors.js';
@@ -73,6 +74,12 @@ export interface DesignModel {
   deltaAt(hours: number): number;
   /** The per-slice cosmic-variance fractions the tier's Fisher matrix marginalises (all 0 without cosmic variance). */
   fractionsAt(hours: number, pointings: number): number[];
+  /**
+   * The node-order search's hard-limit counts by z of `reference` (buildDensityGrid's hardCounts),
+   * for another grid of the same survey and population (the robust ranking's coarser panels pick
+   * the same redshift nodes).
+   */
+  hardCounts: Map<number, number>;
 }
 
 /** Numbers `tierInto` writes: count, faint count, the 3 x 3 Fisher matrix row by row. */
@@ -130,7 +137,8 @@ export async function buildDesignModel(
   // Reference survey: the deepest limit, 1 deg^2 (everything below scales with the area).
   const ref = surveyAtLimit(survey, limitOfDepth(limitKind, dRef), 1);
   const cosmo = new FlatCosmology(survey.cosmology);
-  const grid = buildDensityGrid(ref, population, cosmo, ref.sliceEdges);
+  const hardCounts = new Map<number, number>();
+  const grid = buildDensityGrid(ref, population, cosmo, ref.sliceEdges, 1, hardCounts);
   const workers = opts.workers ?? defaultWorkers();
   const tables = await tabulateDepth(grid, maxDelta, {
     workers,
@@ -189,6 +197,7 @@ export async function buildDesignModel(
   const sliceN = new Float64Array(nS);
   const sliceB = new Float64Array(3 * nS);
   const fractions = new Float64Array(nS);
+  const upper = new Float64Array(6);
   const matrix = [
     [0, 0, 0],
     [0, 0, 0],
@@ -224,10 +233,27 @@ export async function buildDesignModel(
       sliceB[3 * sl + 2] = ba;
       fractions[sl] = biasOf && sigmaOf && n > 0 ? Math.max(0, biasOf(sl, delta)) * sigmaOf(sl, lnA) * fieldNorm : 0;
     }
-    matrix[1]![0] = matrix[0]![1]!;
-    matrix[2]![0] = matrix[0]![2]!;
-    matrix[2]![1] = matrix[1]![2]!;
-    if (useCv) marginaliseNormalisationsInPlace(matrix, sliceN, sliceB, fractions);
+    const r0 = matrix[0]!;
+    const r1 = matrix[1]!;
+    const r2 = matrix[2]!;
+    if (useCv) {
+      upper[0] = r0[0]!;
+      upper[1] = r0[1]!;
+      upper[2] = r0[2]!;
+      upper[3] = r1[1]!;
+      upper[4] = r1[2]!;
+      upper[5] = r2[2]!;
+      marginaliseSymmetric3(upper, sliceN, sliceB, fractions);
+      r0[0] = upper[0]!;
+      r0[1] = upper[1]!;
+      r0[2] = upper[2]!;
+      r1[1] = upper[3]!;
+      r1[2] = upper[4]!;
+      r2[2] = upper[5]!;
+    }
+    r1[0] = r0[1]!;
+    r2[0] = r0[2]!;
+    r2[1] = r1[2]!;
   };
   const tier = (hours: number, pointings: number): TierValue => {
     evaluate(hours, pointings);
@@ -255,6 +281,7 @@ export async function buildDesignModel(
 
   return {
     reference: ref,
+    hardCounts,
     deltaAt: deltaOf,
     fractionsAt,
     population,

@@ -285,6 +285,13 @@ export async function planDesigns(
         : `${head}: the optimum is ${areaOf(to) >= FLAT_AREA_SPAN * areaOf(from) ? 'flat' : 'sharp'}.`,
     );
   }
+  if (!fixedDesign && assumedBest.tiers.some((_, i) => budgetLimited(assumedBest, i, spec))) {
+    const who =
+      assumedBest.tiers.length > 1 ? 'A layer of the best design spends its share' : 'The best design spends all';
+    notes.push(
+      `${who} of the budget on one pointing: its depth is limited by budget_hours, not by the exposure grid, and only a larger budget would go deeper.`,
+    );
+  }
   if (spec.minimumCount > 0) {
     const excluded = designs.filter((d) => d.goal !== undefined && !d.feasible).length;
     if (excluded > 0)
@@ -376,9 +383,12 @@ export function gridEdgeWarning(best: Evaluated, exposures: readonly number[], s
   const low = exposures[1]!;
   const high = exposures[exposures.length - 2]!;
   const fmt = (x: number) => precise(x, 3);
-  for (const t of best.tiers) {
+  for (const [i, t] of best.tiers.entries()) {
     const end = t.hours < low ? 'shortest' : t.hours > high ? 'longest' : undefined;
     if (!end) continue;
+    // One pointing already exposed for its whole share of the budget: a longer exposure buys no
+    // pointing, so a wider grid cannot hold a better design (budgetLimited says so in a note).
+    if (end === 'longest' && budgetLimited(best, i, spec)) continue;
     const layer = best.tiers.length > 1 ? 'a layer of the best design uses' : 'the best design uses';
     const widen =
       end === 'shortest'
@@ -390,6 +400,16 @@ export function gridEdgeWarning(best: Evaluated, exposures: readonly number[], s
     );
   }
   return undefined;
+}
+
+/**
+ * True when tier i of a design is one pointing whose exposure already takes the whole of its share
+ * of the budget (less the overhead) and the grid reaches that long: no longer exposure is possible.
+ */
+export function budgetLimited(design: Evaluated, i: number, spec: PlanSpec): boolean {
+  const t = design.tiers[i]!;
+  const longest = spec.budgetHours * (design.fractions[i] ?? 1) - spec.overheadHours;
+  return t.pointings === 1 && spec.grid.maxHours >= longest * (1 - 1e-9);
 }
 
 /** The error when no design is feasible; `most` is the largest count of any design. */

@@ -31,8 +31,7 @@ import type { Survey } from '../model/survey.js';
 import type { PlanGoal } from '../model/plan.js';
 import { percentilesOf } from '../counts/model-draws.js';
 import { forecastDrawOffsets } from '../forecast/model-spread.js';
-import { marginaliseNormalisationsInPlace } from '../forecast/fisher.js';
-import { fisherSigma } from './sigma.js';
+import { fisherSigmaUpper, marginaliseSymmetric3 } from './sigma.js';
 import { buildDensityGrid, sliceCount, type DensityGrid } from '../forecast/grid.js';
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { DesignModel, TierValue } from './model.js';
@@ -104,6 +103,8 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
     new FlatCosmology(model.reference.cosmology),
     model.reference.sliceEdges,
     2 * Math.PI,
+    // the same survey and population: the node-order search's counts of the design model's grid
+    ctx.population === model.population ? model.hardCounts : undefined,
   );
   const s = grid.shift;
   const nS = sliceCount(grid);
@@ -148,20 +149,13 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
 
   const perDraw = todo.map(() => new Float64Array(thetas.length));
   const scratch: DrawScratch = {
-    matrix: [
-      [0, 0, 0],
-      [0, 0, 0],
-      [0, 0, 0],
-    ],
+    matrix: new Float64Array(6),
     counts: new Float64Array(nS),
     b: new Float64Array(3 * nS),
     sums,
   };
-  const f = [
-    [0, 0, 0],
-    [0, 0, 0],
-    [0, 0, 0],
-  ];
+  // the design's Fisher matrix under the draw: its upper triangle [f00, f01, f02, f11, f12, f22]
+  const f = new Float64Array(6);
   const sigma = goal.kind === 'sigma';
   for (let i = 0; i < thetas.length; i++) {
     const th = thetas[i]!;
@@ -174,11 +168,11 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
         continue;
       }
       let count = 0;
-      for (const row of f) row.fill(0);
+      f.fill(0);
       for (const place of tierPlaces[di]!)
         count = addTierUnderDraw(table, stride, nS, place, factor, sigma, scratch, f, count);
       if (!sigma) perDraw[di]![i] = count;
-      else perDraw[di]![i] = (count > 0 ? fisherSigma(f, parameterIndex) : undefined) ?? Infinity;
+      else perDraw[di]![i] = (count > 0 ? fisherSigmaUpper(f, parameterIndex) : undefined) ?? Infinity;
     }
   }
   todo.forEach((e, di) => {
@@ -206,9 +200,9 @@ interface TierPlace {
   fractions: number[];
 }
 
-/** addTierUnderDraw's scratch: a tier's Fisher matrix, its slices' counts and b (3 per slice), the six interpolated sums. */
+/** addTierUnderDraw's scratch: a tier's Fisher matrix (its upper triangle), its slices' counts and b (3 per slice), the six interpolated sums. */
 interface DrawScratch {
-  matrix: number[][];
+  matrix: Float64Array;
   counts: Float64Array;
   b: Float64Array;
   sums: Float64Array;
@@ -218,7 +212,8 @@ interface DrawScratch {
  * One tier of a design under one draw: each slice's six sums interpolated between the draw's knots
  * (`table`, knots `stride` apart, 12 numbers per slice), times the draw's phi* factor and the tier's
  * area. Returns `count` plus the tier's count (slice by slice); with `sigma`, adds the tier's Fisher
- * matrix, marginalised over its slices' cosmic-variance nuisances, to f.
+ * matrix, marginalised over its slices' cosmic-variance nuisances, to f (upper triangles, as
+ * marginaliseSymmetric3 holds them).
  */
 function addTierUnderDraw(
   table: Float64Array,
@@ -228,7 +223,7 @@ function addTierUnderDraw(
   factor: number,
   sigma: boolean,
   s: DrawScratch,
-  f: number[][],
+  f: Float64Array,
   count: number,
 ): number {
   const { matrix, counts, b, sums } = s;
@@ -255,20 +250,15 @@ function addTierUnderDraw(
     b[3 * sl + 2] = sums[2]!;
   }
   if (!sigma) return count;
-  const r0 = matrix[0]!;
-  const r1 = matrix[1]!;
-  const r2 = matrix[2]!;
-  r0[0] = m00;
-  r0[1] = m01;
-  r0[2] = m02;
-  r1[0] = m01;
-  r1[1] = m11;
-  r1[2] = m12;
-  r2[0] = m02;
-  r2[1] = m12;
-  r2[2] = m22;
-  marginaliseNormalisationsInPlace(matrix, counts, b, place.fractions);
-  for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) f[j]![k]! += matrix[j]![k]!;
+  matrix[0] = m00;
+  matrix[1] = m01;
+  matrix[2] = m02;
+  matrix[3] = m11;
+  matrix[4] = m12;
+  matrix[5] = m22;
+  marginaliseSymmetric3(matrix, counts, b, place.fractions);
+  // f += the tier's matrix, element by element (both upper triangles)
+  for (let k = 0; k < 6; k++) f[k] = f[k]! + matrix[k]!;
   return count;
 }
 

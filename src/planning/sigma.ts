@@ -1,47 +1,170 @@
 /**
+ * The plan's 3 x 3 Fisher arithmetic written out for three parameters: marginaliseSymmetric3 (the
+ * cosmic-variance nuisances of src/forecast/fisher.ts's marginaliseNormalisationsInPlace) and
+ * fisherSigma (one standard deviation).
+ *
  * One standard deviation from a 3 x 3 Fisher matrix without allocating: summariseFisher(f)?.sigma[j]
  * (src/forecast/fisher.ts) with the same arithmetic in the same order (scaling to unit diagonal,
  * the Cholesky factor of src/numerics/linalg.ts, one solve per column of the inverse, the diagonal
  * scaled back), so the same number bit for bit (test/planning/sigma.test.ts), undefined where
  * summariseFisher gives undefined. The robust ranking evaluates it for every design under every
  * model draw and the search for every design: summariseFisher builds a dozen arrays per call.
+ *
+ * Written out for n = 3, without loops: the loops of choleskyInto and choleskySolveInto inlined
+ * here made the engine's optimising compiler peel and inline nested loops at every start (one of
+ * the largest compilations of a plan). Each line below is one step of those loops, zeros included
+ * (x - 0 * y is not always x: signed zeros, NaN), in their order.
  */
 
-import { choleskyInto, choleskySolveInto } from '../numerics/linalg.js';
+/** The column j of the inverse of L L^T (forward then back substitution of the unit vector e_j): its element j. */
+function inverseDiagonal(
+  j: number,
+  l00: number,
+  l10: number,
+  l11: number,
+  l20: number,
+  l21: number,
+  l22: number,
+): number {
+  const e0 = j === 0 ? 1 : 0;
+  const e1 = j === 1 ? 1 : 0;
+  const e2 = j === 2 ? 1 : 0;
+  // L y = e
+  const y0 = e0 / l00;
+  const y1 = (e1 - l10 * y0) / l11;
+  let s = e2;
+  s -= l20 * y0;
+  s -= l21 * y1;
+  const y2 = s / l22;
+  // L^T x = y
+  const x2 = y2 / l22;
+  const x1 = (y1 - l21 * x2) / l11;
+  let t = y0;
+  t -= l10 * x1;
+  t -= l20 * x2;
+  const x0 = t / l00;
+  return j === 0 ? x0 : j === 1 ? x1 : x2;
+}
 
-const N = 3;
-/** Scratch: the scale d, the scaled matrix, its factor L, a unit vector, one solve's y and x, the inverse's diagonal. */
-const d = new Float64Array(N);
-const a = new Float64Array(N * N);
-const l = new Float64Array(N * N);
-const e = new Float64Array(N);
-const y = new Float64Array(N);
-const x = new Float64Array(N);
-const diag = new Float64Array(N);
-
-/** Column j of the inverse (the solve of the unit vector e_j): its diagonal element into diag[j]. */
-function inverseDiagonal(j: number): void {
-  e.fill(0);
-  e[j] = 1;
-  choleskySolveInto(l, N, e, y, x);
-  diag[j] = x[j]!;
+/** sqrt(v / (d d)) where that is a positive finite number, else NaN. */
+function scaledBack(v: number, d: number): number {
+  const s = Math.sqrt(v / (d * d));
+  return s > 0 && Number.isFinite(s) ? s : NaN;
 }
 
 /** summariseFisher(fisher)?.sigma[index] of a 3 x 3 matrix, bit for bit, without allocating. */
 export function fisherSigma(fisher: readonly (readonly number[])[], index: number): number | undefined {
-  for (let i = 0; i < N; i++) {
-    const v = Math.sqrt(fisher[i]![i]!);
-    if (!(v > 0) || !Number.isFinite(v)) return undefined;
-    d[i] = v;
+  const f0 = fisher[0]!;
+  const f1 = fisher[1]!;
+  const f2 = fisher[2]!;
+  return sigmaOfLower(f0[0]!, f1[0]!, f1[1]!, f2[0]!, f2[1]!, f2[2]!, index);
+}
+
+/**
+ * fisherSigma of the symmetric matrix whose upper triangle is u = [f00, f01, f02, f11, f12, f22]
+ * (summariseFisher reads the diagonal and the lower triangle, the mirror of these).
+ */
+export function fisherSigmaUpper(u: Float64Array, index: number): number | undefined {
+  return sigmaOfLower(u[0]!, u[1]!, u[3]!, u[2]!, u[4]!, u[5]!, index);
+}
+
+/** fisherSigma from the elements it reads: the diagonal and the lower triangle. */
+function sigmaOfLower(
+  f00: number,
+  f10: number,
+  f11: number,
+  f20: number,
+  f21: number,
+  f22: number,
+  index: number,
+): number | undefined {
+  const d0 = Math.sqrt(f00);
+  if (!(d0 > 0) || !Number.isFinite(d0)) return undefined;
+  const d1 = Math.sqrt(f11);
+  if (!(d1 > 0) || !Number.isFinite(d1)) return undefined;
+  const d2 = Math.sqrt(f22);
+  if (!(d2 > 0) || !Number.isFinite(d2)) return undefined;
+  // the scaled matrix (its upper triangle is not read by the factor)
+  const a00 = f00 / (d0 * d0);
+  const a10 = f10 / (d1 * d0);
+  const a11 = f11 / (d1 * d1);
+  const a20 = f20 / (d2 * d0);
+  const a21 = f21 / (d2 * d1);
+  const a22 = f22 / (d2 * d2);
+  // choleskyInto with tolerance 0: a pivot must exceed 0 * scale (NaN when the scale is not finite)
+  let scale = 0;
+  scale = Math.max(scale, Math.abs(a00));
+  scale = Math.max(scale, Math.abs(a11));
+  scale = Math.max(scale, Math.abs(a22));
+  const floor = 0 * scale;
+  const p0 = a00;
+  if (!(p0 > floor) || !Number.isFinite(p0)) return undefined;
+  const l00 = Math.sqrt(p0);
+  const l10 = a10 / l00;
+  const l20 = a20 / l00;
+  let p1 = a11;
+  p1 -= l10 * l10;
+  if (!(p1 > floor) || !Number.isFinite(p1)) return undefined;
+  const l11 = Math.sqrt(p1);
+  let s21 = a21;
+  s21 -= l20 * l10;
+  const l21 = s21 / l11;
+  let p2 = a22;
+  p2 -= l20 * l20;
+  p2 -= l21 * l21;
+  if (!(p2 > floor) || !Number.isFinite(p2)) return undefined;
+  const l22 = Math.sqrt(p2);
+  const s0 = scaledBack(inverseDiagonal(0, l00, l10, l11, l20, l21, l22), d0);
+  const s1 = scaledBack(inverseDiagonal(1, l00, l10, l11, l20, l21, l22), d1);
+  const s2 = scaledBack(inverseDiagonal(2, l00, l10, l11, l20, l21, l22), d2);
+  if (Number.isNaN(s0) || Number.isNaN(s1) || Number.isNaN(s2)) return undefined;
+  return index === 0 ? s0 : index === 1 ? s1 : index === 2 ? s2 : 0;
+}
+
+/**
+ * marginaliseNormalisationsInPlace (src/forecast/fisher.ts) of a symmetric 3 x 3 matrix held as its
+ * upper triangle m = [m00, m01, m02, m11, m12, m22]: per slice i with a fraction sigma_i > 0, each
+ * element less b_ij b_ik / (N_i + 1 / sigma_i^2), slice after slice, bit for bit the same numbers
+ * (b_ij b_ik and b_ik b_ij are the same product, so the lower triangle it also updates stays the
+ * mirror of the upper), with the same refusals (test/planning/sigma.test.ts). One loop without
+ * nested ones: the design model and the robust ranking run it for every design.
+ */
+export function marginaliseSymmetric3(
+  m: Float64Array,
+  counts: ArrayLike<number>,
+  b: ArrayLike<number>,
+  fractions: ArrayLike<number>,
+): void {
+  const n = counts.length;
+  if (fractions.length !== n || b.length !== 3 * n) {
+    throw new Error(`cosmic variance: ${fractions.length} fractions given for ${n} slices`);
   }
-  for (let i = 0; i < N; i++) for (let j = 0; j < N; j++) a[i * N + j] = fisher[i]![j]! / (d[i]! * d[j]!);
-  if (!choleskyInto(a, N, l)) return undefined;
-  for (let j = 0; j < N; j++) inverseDiagonal(j);
-  let out = 0;
-  for (let i = 0; i < N; i++) {
-    const s = Math.sqrt(diag[i]! / (d[i]! * d[i]!));
-    if (!(s > 0) || !Number.isFinite(s)) return undefined;
-    if (i === index) out = s;
+  let m00 = m[0]!;
+  let m01 = m[1]!;
+  let m02 = m[2]!;
+  let m11 = m[3]!;
+  let m12 = m[4]!;
+  let m22 = m[5]!;
+  for (let i = 0; i < n; i++) {
+    const sigma = fractions[i]!;
+    if (!(sigma >= 0) || !Number.isFinite(sigma))
+      throw new Error(`cosmic variance: the fraction of slice ${i} is ${sigma}, not a number >= 0`);
+    if (sigma === 0) continue;
+    const d = counts[i]! + 1 / (sigma * sigma);
+    const b0 = b[3 * i]!;
+    const b1 = b[3 * i + 1]!;
+    const b2 = b[3 * i + 2]!;
+    m00 -= (b0 * b0) / d;
+    m01 -= (b0 * b1) / d;
+    m02 -= (b0 * b2) / d;
+    m11 -= (b1 * b1) / d;
+    m12 -= (b1 * b2) / d;
+    m22 -= (b2 * b2) / d;
   }
-  return out;
+  m[0] = m00;
+  m[1] = m01;
+  m[2] = m02;
+  m[3] = m11;
+  m[4] = m12;
+  m[5] = m22;
 }

@@ -22,6 +22,13 @@ export const MIN_PLAUSIBLE_LUMINOSITY_ERG_S = 1e30;
  */
 export const PLAUSIBLE_M_STAR = { brightest: -30, faintest: -10 } as const;
 
+/**
+ * Above this a Schechter normalisation [Mpc^-3] is implausible for galaxies: the densest measured
+ * luminosity and mass functions have phi* of a few 1e-2 Mpc^-3 (common practice), and a value
+ * near 1 is what a linear phi* (0.001) written under a log10 key (10^0.001) gives.
+ */
+export const MAX_PLAUSIBLE_PHI_STAR_MPC3 = 0.5;
+
 const fmt = (x: number): string => precise(x, 4);
 const expText = (x: number): string => exponential(x, 4);
 
@@ -74,7 +81,30 @@ export function luminosityWarnings(survey: Survey): Warning[] {
   return out;
 }
 
+/** A normalisation of each population (each component of a double Schechter) implausibly high for galaxies. */
+export function densityWarnings(survey: Survey): Warning[] {
+  const out: Warning[] = [];
+  for (const p of survey.populations) {
+    const zs = probeRedshifts(p);
+    for (const [i, c] of p.components.entries()) {
+      const high = zs.map((z) => ({ z, v: c.phiStar.at(z) })).find((x) => x.v > MAX_PLAUSIBLE_PHI_STAR_MPC3);
+      if (!high) continue;
+      const key = c.phiKey ?? (p.components.length > 1 ? `phi_star_${i + 1}` : 'phi_star');
+      const hint = key.startsWith('log10_')
+        ? `; if ${key} holds a linear value, write it under ${key.slice('log10_'.length)} (the log10 of a galaxy population's phi* is below 0)`
+        : `; check ${key} (a number density in Mpc^-3)`;
+      out.push(
+        warning(
+          'implausible_density',
+          `${p.name}: phi*${p.components.length > 1 ? ` of component ${i + 1}` : ''} = ${fmt(high.v)} Mpc^-3 at z = ${fmt(high.z)} is far above any galaxy population's (above ${MAX_PLAUSIBLE_PHI_STAR_MPC3} Mpc^-3; the densest have a few 1e-2), so every count is inflated${hint}`,
+        ),
+      );
+    }
+  }
+  return out;
+}
+
 /** Every warning about the survey file itself (before any count). */
 export function surveyWarnings(survey: Survey): Warning[] {
-  return [...luminosityWarnings(survey), ...selectionWarnings(survey)];
+  return [...luminosityWarnings(survey), ...densityWarnings(survey), ...selectionWarnings(survey)];
 }

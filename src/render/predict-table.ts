@@ -112,7 +112,7 @@ export function sourcesSentence(
 ): string | undefined {
   const s = uncertaintySources(u, m);
   if (!s || !m) return undefined;
-  const pc = (x: number) => `${(100 * x).toFixed(1)} %`;
+  const pc = percentText;
   return (
     `${what} ${sig(count, 4)}: Poisson noise ${pc(s.poisson)}, cosmic variance ${pc(s.cosmicVariance)}, the model ${pc(s.model)} ` +
     `(${sig(m.p16, 3)} to ${sig(m.p84, 3)} over ${m.draws} draws of its uncertainty); ${s.dominant} dominates.`
@@ -168,10 +168,12 @@ function slicesTable(
 
 /**
  * A fraction as a percentage for the sentence: one decimal from 0.1 % up, two significant figures
- * below (a full-sky survey's 0.013 % must not read 0.0 %).
+ * below (a full-sky survey's 0.013 % must not read 0.0 %), three significant figures from 10,000 %
+ * up (a survey expecting 1e-27 sources must not print its Poisson term to 17 digits).
  */
 function percentText(f: number): string {
   const p = 100 * f;
+  if (Math.abs(p) >= 1e4) return `${sig(p, 3)} %`;
   return `${Math.abs(p) >= 0.1 || p === 0 ? p.toFixed(1) : p.toPrecision(2)} %`;
 }
 

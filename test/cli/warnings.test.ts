@@ -91,6 +91,44 @@ describe('warnings on files made to trigger them', () => {
     expect((await runCli(['forecast', LINEAR_LOG])).code).toBe(2);
   });
 
+  test('phi* written linearly under a log10 key, or far too high: implausible_density naming the key, in check and predict; no sample raises it (failed before: a count 400 times too high, no warning)', async () => {
+    const base = sampleText('halpha-narrowband.yaml');
+    expect(base).toMatch(/log10_phi_star: -2\.6\n/);
+    // 10^0.0025 = 1.0058 Mpc^-3 instead of 10^-2.6 = 0.0025
+    const f = file('linear-phi.yaml', base.replace('log10_phi_star: -2.6', 'log10_phi_star: 0.0025'));
+    const r = await runCli(['predict', f, '--format', 'json']);
+    expect(r.code).toBe(0);
+    const p = JSON.parse(r.stdout) as Any;
+    expect(validate('prediction.schema.json', p)).toBe('valid');
+    expect(p.warnings.map((w: Any) => w.code)).toEqual(['implausible_density']);
+    expect(p.warnings[0].message).toMatch(
+      /^H-alpha emitters: phi\* = 1\.006 Mpc\^-3 at z = .*; if log10_phi_star holds a linear value, write it under phi_star /,
+    );
+    expect(r.stderr).toBe(`skytally: warning: ${p.warnings[0].message}\n`);
+    const c = await runCli(['check', f, '--format', 'json']);
+    expect((JSON.parse(c.stdout) as Any).warnings.map((w: Any) => w.code)).toEqual(['implausible_density']);
+    // a linear phi_star of 1.2 gets the plain advice; 0.5 Mpc^-3 itself passes (the bound)
+    const g = file('high-phi.yaml', base.replace('log10_phi_star: -2.6', 'phi_star: 1.2'));
+    const w = (JSON.parse((await runCli(['check', g, '--format', 'json'])).stdout) as Any).warnings;
+    expect(w.map((x: Any) => x.message)).toEqual([
+      expect.stringMatching(/phi\* = 1\.2 Mpc\^-3 .*; check phi_star \(a number density in Mpc\^-3\)$/),
+    ]);
+    const h = file('bound-phi.yaml', base.replace('log10_phi_star: -2.6', 'phi_star: 0.5'));
+    expect((JSON.parse((await runCli(['check', h, '--format', 'json'])).stdout) as Any).warnings).toEqual([]);
+    // a double Schechter names the component and its own key
+    const d = sampleText('double-schechter-mass.yaml');
+    expect(d).toMatch(/log10_phi_star_2: -3\.46/);
+    const k = file('double-phi.yaml', d.replace(/log10_phi_star_2: -3\.46\d*/, 'log10_phi_star_2: 0.00034'));
+    const dw = (JSON.parse((await runCli(['check', k, '--format', 'json'])).stdout) as Any).warnings;
+    expect(dw.map((x: Any) => x.code)).toEqual(['implausible_density']);
+    expect(dw[0].message).toMatch(/phi\* of component 2 = 1\.001 Mpc\^-3 .*write it under phi_star_2 /);
+    // no bundled sample raises it
+    for (const sample of readdirSync('samples').filter((x) => x.endsWith('.yaml'))) {
+      const out = JSON.parse((await runCli(['check', `samples/${sample}`, '--format', 'json'])).stdout) as Any;
+      expect(out.warnings.map((x: Any) => x.code)).not.toContain('implausible_density');
+    }
+  });
+
   test("M* given as an apparent magnitude: implausible_luminosity (within the loader's range), refused beyond it", async () => {
     const text = readFileSync('samples/deep-continuum.yaml', 'utf8');
     expect(text).toMatch(/m_star: /);
@@ -125,6 +163,45 @@ describe('warnings on files made to trigger them', () => {
     expect(r.stderr).toBe(`skytally: warning: ${p.warnings[0].message}\n`);
     // the table run warns alike
     expect((await runCli(['plan', f])).stderr).toBe(r.stderr);
+  });
+
+  test('a plan whose best design is one pointing taking the whole budget: no grid-edge warning (a longer exposure buys no pointing, so widening the grid changes nothing), a note naming the budget instead (failed before)', async () => {
+    // A narrow-band search whose sigma(alpha) keeps falling with depth over a 1.77 deg^2 camera:
+    // the best of 40 h is one pointing of 39.9 h, the default grid's longest exposure
+    // (budget - overhead). Before, the warning asked for a larger max_hours; with max_hours 60
+    // the same design came back without a warning.
+    const text = (grid: string) => `format: 1
+title: one deep pointing (plan edge check)
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1
+detection: {kind: line_flux, limit: 7e-18, line: 1215.67, filter: {center: 8150, fwhm: 120, profile: gaussian}}
+population: {variable: luminosity, phi_star: 7.7e-4, l_star: 6.8e42, alpha: -1.5}
+slices: {count: 1}
+plan:
+  field_of_view: 1.77
+  reference: {limit: 1e-17, exposure_hours: 2}
+  overhead_hours: 0.1
+  budget_hours: 40
+  goal: {sigma: alpha}${grid}
+`;
+    const runs = await Promise.all(
+      ['', '\n  exposure_grid: {max_hours: 60}'].map((g, i) =>
+        runCli(['plan', file(`budget-edge-${i}.yaml`, text(g)), '--format', 'json']),
+      ),
+    );
+    for (const r of runs) {
+      expect(r.code).toBe(0);
+      const p = JSON.parse(r.stdout) as Any;
+      expect(validate('plan.schema.json', p)).toBe('valid');
+      expect(p.best.pointings).toBe(1);
+      expect(p.best.exposure_hours_per_pointing).toBeCloseTo(39.9, 9);
+      expect(p.warnings).toEqual([]);
+      expect(r.stderr).toBe('');
+      expect(p.notes.join(' ')).toMatch(
+        /spends all of the budget on one pointing: its depth is limited by budget_hours/,
+      );
+      expect(p.notes.join(' ')).not.toMatch(/edge of the exposure grid/);
+    }
   });
 
   test('the band blueward of Lyman alpha: the same warning in predict, forecast, compare (prefixed by its column), check and report JSON', async () => {

@@ -47,3 +47,22 @@ test("the window's end moved and back: the slices that did not change read their
   expect(shorter.counts[3]![0]!).toBeLessThan(fresh.counts[3]![0]!);
   expect(shorter.counts[2]).toEqual(fresh.counts[2]);
 });
+
+test('the model offsets are drawn once per model uncertainty and arguments: the same array again, the numbers of a fresh draw', () => {
+  const survey = parseSurveyObject(parse(readFileSync(FILE, 'utf8')) as Record<string, unknown>, FILE);
+  const pop = survey.populations[0]!;
+  const mu = pop.modelUncertainty!;
+  const first = drawModelOffsets(mu, pop.components.length, 50, 3, 0);
+  expect(drawModelOffsets(mu, pop.components.length, 50, 3, 0)).toBe(first);
+  // expected values: a copy of the model uncertainty (another key) draws them afresh
+  const fresh = drawModelOffsets(structuredClone(mu), pop.components.length, 50, 3, 0);
+  expect(fresh).not.toBe(first);
+  expect(fresh).toEqual(first);
+  // another seed, stream or number of draws is another set (the key holds each of them)
+  const other = [
+    drawModelOffsets(mu, pop.components.length, 50, 4, 0),
+    drawModelOffsets(mu, pop.components.length, 50, 3, 1),
+  ];
+  for (const o of other) expect(o[0]!.characteristic).not.toBe(first[0]!.characteristic);
+  expect(drawModelOffsets(mu, pop.components.length, 20, 3, 0)).toHaveLength(20);
+});

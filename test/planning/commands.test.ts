@@ -11,6 +11,7 @@ import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { predict } from '../../src/counts/predict.js';
+import { loadSurveyFile } from '../../src/survey/load.js';
 import { forecast } from '../../src/forecast/forecast.js';
 import { bestIndices, compare } from '../../src/planning/compare.js';
 import { plan } from '../../src/library/plan.js';
@@ -65,6 +66,20 @@ describe('compare = predict + forecast, row by row', () => {
       'csv',
     ]);
     expect(parseCsvStrict(csv.stdout).header.at(-1)).toBe('best');
+  }, 60_000);
+
+  test('a file of several populations compared without --population: a note names the one compared and those left out (failed before: a 2-population K-band file showed its first population, 41 % of its detections, with no word of the other)', async () => {
+    const interlopers = loadSurveyFile('samples/narrowband-interlopers.yaml');
+    const c = await compare([interlopers, loadSurveyFile('samples/halpha-narrowband.yaml')]);
+    expect(compareSchema(c), JSON.stringify(compareSchema.errors)).toBe(true);
+    expect(c.surveys[0]!.population).toBe('H-alpha');
+    expect(c.notes.filter((n) => /populations: only the first/.test(n))).toEqual([
+      '[1] holds 3 populations: only the first, "H-alpha", is compared (counted over its own window), without "[OIII]", "[OII]"; choose one with --population NAME.',
+    ]);
+    // naming a population says nothing of the others
+    const named = await compare([interlopers, interlopers], { population: '[OII]' });
+    expect(named.surveys[0]!.population).toBe('[OII]');
+    expect(named.notes.join(' ')).not.toMatch(/only the first/);
   }, 60_000);
 
   test('a tie marks every tied value (failed before: only the first of two equal areas was marked)', async () => {

@@ -1,5 +1,10 @@
 /**
- * fisherSigma (src/planning/sigma.ts) equals summariseFisher(f)?.sigma[j] (src/forecast/fisher.ts,
+ * marginaliseSymmetric3 (src/planning/sigma.ts) equals marginaliseNormalisationsInPlace
+ * (src/forecast/fisher.ts) exactly: tolerance 0, every element, on random symmetric matrices,
+ * counts, b and fractions (zeros among them) spanning many orders of magnitude, and refuses what it
+ * refuses with the same message.
+ *
+ * fisherSigma and fisherSigmaUpper (src/planning/sigma.ts) equal summariseFisher(f)?.sigma[j] (src/forecast/fisher.ts,
  * the function it replaces in the plan's search and robust ranking) exactly: tolerance 0, the same
  * operations in the same order, for every parameter, on Fisher matrices of the plan samples' designs,
  * on random positive-definite matrices whose diagonals span twenty orders of magnitude, and on
@@ -8,15 +13,20 @@
  */
 import { describe, expect, test } from 'vitest';
 import fc from 'fast-check';
-import { summariseFisher } from '../../src/forecast/fisher.js';
-import { fisherSigma } from '../../src/planning/sigma.js';
+import { marginaliseNormalisationsInPlace, summariseFisher } from '../../src/forecast/fisher.js';
+import { fisherSigma, fisherSigmaUpper, marginaliseSymmetric3 } from '../../src/planning/sigma.js';
 import { makeDepthModel } from '../../src/planning/depth.js';
 import { buildDesignModel } from '../../src/planning/model.js';
 import { sample } from './helpers.js';
 
 function expectSame(m: number[][]): void {
   const want = summariseFisher(m)?.sigma;
-  for (let j = 0; j < 3; j++) expect(fisherSigma(m, j), `sigma ${j} of ${JSON.stringify(m)}`).toBe(want?.[j]);
+  // fisherSigmaUpper (the robust ranking's) of the symmetric matrix summariseFisher reads: its lower triangle mirrored
+  const upper = Float64Array.from([m[0]![0]!, m[1]![0]!, m[2]![0]!, m[1]![1]!, m[2]![1]!, m[2]![2]!]);
+  for (let j = 0; j < 3; j++) {
+    expect(fisherSigma(m, j), `sigma ${j} of ${JSON.stringify(m)}`).toBe(want?.[j]);
+    expect(fisherSigmaUpper(upper, j), `sigma ${j} of the upper triangle of ${JSON.stringify(m)}`).toBe(want?.[j]);
+  }
 }
 
 describe('fisherSigma equals summariseFisher bit for bit', () => {
@@ -112,5 +122,79 @@ describe('fisherSigma equals summariseFisher bit for bit', () => {
       }),
       { numRuns: 2000, seed: 9 },
     );
+  });
+});
+
+describe('marginaliseSymmetric3 equals marginaliseNormalisationsInPlace bit for bit', () => {
+  /** Both on the same inputs: the full matrix of the one against the upper triangle of the other, mirrored. */
+  function expectSameMarginal(v: number[], counts: number[], b: number[], fractions: number[]): void {
+    const full = [
+      [v[0]!, v[1]!, v[2]!],
+      [v[1]!, v[3]!, v[4]!],
+      [v[2]!, v[4]!, v[5]!],
+    ];
+    marginaliseNormalisationsInPlace(full, counts, b, fractions);
+    const upper = Float64Array.from(v);
+    marginaliseSymmetric3(upper, counts, b, fractions);
+    const mirrored = [
+      [upper[0]!, upper[1]!, upper[2]!],
+      [upper[1]!, upper[3]!, upper[4]!],
+      [upper[2]!, upper[4]!, upper[5]!],
+    ];
+    expect(mirrored, JSON.stringify({ v, counts, b, fractions })).toEqual(full);
+  }
+
+  test('random matrices, counts, b and fractions (zero fractions among them)', () => {
+    const big = fc.double({ min: -1e6, max: 1e6, noNaN: true });
+    fc.assert(
+      fc.property(
+        fc.array(big, { minLength: 6, maxLength: 6 }),
+        fc.integer({ min: 1, max: 6 }).chain((n) =>
+          fc.tuple(
+            fc.array(fc.double({ min: 0, max: 1e7, noNaN: true }), { minLength: n, maxLength: n }),
+            fc.array(big, { minLength: 3 * n, maxLength: 3 * n }),
+            fc.array(fc.oneof(fc.constant(0), fc.double({ min: 1e-4, max: 2, noNaN: true })), {
+              minLength: n,
+              maxLength: n,
+            }),
+          ),
+        ),
+        (v, [counts, b, fractions]) => expectSameMarginal(v, counts, b, fractions),
+      ),
+      { numRuns: 2000, seed: 10 },
+    );
+  });
+
+  test('the same refusals', () => {
+    const v = [4, 1, 0.5, 3, 0.2, 2];
+    for (const [counts, b, fractions] of [
+      [[10], [1, 2, 3], [0.1, 0.2]],
+      [[10], [1, 2], [0.1]],
+      [
+        [10, 5],
+        [1, 2, 3, 4, 5, 6],
+        [0.1, -0.2],
+      ],
+      [
+        [10, 5],
+        [1, 2, 3, 4, 5, 6],
+        [NaN, 0.2],
+      ],
+      [[10], [1, 2, 3], [Infinity]],
+    ] as number[][][]) {
+      const full = [
+        [v[0]!, v[1]!, v[2]!],
+        [v[1]!, v[3]!, v[4]!],
+        [v[2]!, v[4]!, v[5]!],
+      ];
+      let want = '';
+      try {
+        marginaliseNormalisationsInPlace(full, counts!, b!, fractions!);
+      } catch (e) {
+        want = (e as Error).message;
+      }
+      expect(want).not.toBe('');
+      expect(() => marginaliseSymmetric3(Float64Array.from(v), counts!, b!, fractions!)).toThrow(want);
+    }
   });
 });

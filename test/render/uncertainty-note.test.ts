@@ -5,7 +5,7 @@
  * a percentage), on an invented block and on a 15,000 deg^2 survey's prediction.
  */
 import { describe, expect, test } from 'vitest';
-import { uncertaintyNote } from '../../src/render/predict-table.js';
+import { sourcesSentence, uncertaintyNote } from '../../src/render/predict-table.js';
 import type { PredictionTotals } from '../../src/model/outputs/prediction.js';
 
 const totals = (poisson: number, cv: number) =>
@@ -34,5 +34,28 @@ describe('the uncertainty sentence under the predict table', () => {
     expect(note).toContain('(0.050 % against 0.013 % Poisson)');
     expect(note).not.toContain('0.0 %');
     expect(uncertaintyNote(totals(0.02, 0.0004))).toContain('(2.0 % against 0.040 % cosmic variance)');
+  });
+  test('huge ones (a survey expecting almost no source) get three significant figures, not 17 digits (failed before)', () => {
+    // 1.7e-27 sources expected: the Poisson fraction 1/sqrt(N) is 2.43e13, 2.43e15 %
+    const note = uncertaintyNote(totals(1 / Math.sqrt(1.696e-27), 2.117))!;
+    expect(note).toContain(
+      "Poisson noise dominates the total's uncertainty (2.43e15 % against 211.7 % cosmic variance)",
+    );
+    expect(uncertaintyNote(totals(123.456, 0.5))).toContain('(12300 % against 50.0 % cosmic variance)');
+  });
+  test('the sentence on the three sources of uncertainty writes its percentages the same way (it printed 0.0 % before)', () => {
+    const m = {
+      draws: 1000,
+      p2_5: 0.8e8,
+      p16: 0.9e8,
+      p50: 1e8,
+      p84: 1.1e8,
+      p97_5: 1.2e8,
+      fraction: 0.1,
+    };
+    const u = { poisson_fraction: 0.0001, cosmic_variance_fraction: 0.0005 };
+    expect(sourcesSentence('Sources of uncertainty of the total', 1e8, u, m)).toBe(
+      'Sources of uncertainty of the total 1e8: Poisson noise 0.010 %, cosmic variance 0.050 %, the model 10.0 % (9e7 to 1.1e8 over 1000 draws of its uncertainty); the model dominates.',
+    );
   });
 });
