@@ -16,7 +16,7 @@
  */
 import type { DensityGrid } from './grid.js';
 import { sliceCount } from './grid.js';
-import { inverseSpd, zeros, type Matrix } from '../numerics/linalg.js';
+import { choleskyInto, choleskySolveInto, zeros, type Matrix } from '../numerics/linalg.js';
 import { addSliceSums } from './slice-sums.js';
 
 const LN10 = Math.LN10;
@@ -114,18 +114,59 @@ export interface FisherSummary {
   correlation: Matrix;
 }
 
-/** Covariance, standard deviations and correlations from a Fisher matrix; undefined if singular. */
+/**
+ * Covariance, standard deviations and correlations from a Fisher matrix; undefined if singular.
+ * The matrix is scaled to unit diagonal, inverted (the Cholesky factor, one solve per unit vector,
+ * round-off symmetrised: src/numerics/linalg.ts inverseSpd's arithmetic, on flat arrays without its
+ * intermediate rows) and scaled back. A forecast with the model's draws summarises two matrices per
+ * draw, where the rows' allocations and small helpers run cold cost more than the arithmetic.
+ */
 export function summariseFisher(matrix: Matrix): FisherSummary | undefined {
+  const n = matrix.length;
   // Scale to unit diagonal before inverting (the parameters differ in scale by orders of magnitude).
-  const d = matrix.map((r, i) => Math.sqrt(r[i]!));
-  if (d.some((x) => !(x > 0) || !Number.isFinite(x))) return undefined;
-  const scaled = matrix.map((r, i) => r.map((v, j) => v / (d[i]! * d[j]!)));
-  const invScaled = inverseSpd(scaled);
-  if (!invScaled) return undefined;
-  const covariance = invScaled.map((r, i) => r.map((v, j) => v / (d[i]! * d[j]!)));
-  const sigma = covariance.map((r, i) => Math.sqrt(r[i]!));
-  if (sigma.some((x) => !(x > 0) || !Number.isFinite(x))) return undefined;
-  const correlation = covariance.map((r, i) => r.map((v, j) => (i === j ? 1 : v / (sigma[i]! * sigma[j]!))));
+  const d = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const x = Math.sqrt(matrix[i]![i]!);
+    if (!(x > 0) || !Number.isFinite(x)) return undefined;
+    d[i] = x;
+  }
+  const scaled = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) {
+    const r = matrix[i]!;
+    for (let j = 0; j < n; j++) scaled[i * n + j] = r[j]! / (d[i]! * d[j]!);
+  }
+  const l = new Float64Array(n * n);
+  if (!choleskyInto(scaled, n, l)) return undefined;
+  // column j of the inverse solves L L^T x = e_j
+  const inv = new Float64Array(n * n);
+  const e = new Float64Array(n);
+  const y = new Float64Array(n);
+  const x = new Float64Array(n);
+  for (let j = 0; j < n; j++) {
+    e.fill(0);
+    e[j] = 1;
+    choleskySolveInto(l, n, e, y, x);
+    for (let i = 0; i < n; i++) inv[i * n + j] = x[i]!;
+  }
+  // symmetrise round-off
+  for (let i = 0; i < n; i++)
+    for (let j = i + 1; j < n; j++) inv[i * n + j] = inv[j * n + i] = 0.5 * (inv[i * n + j]! + inv[j * n + i]!);
+  const covariance: Matrix = [];
+  const sigma: number[] = [];
+  for (let i = 0; i < n; i++) {
+    const row: number[] = [];
+    for (let j = 0; j < n; j++) row.push(inv[i * n + j]! / (d[i]! * d[j]!));
+    covariance.push(row);
+    const s = Math.sqrt(row[i]!);
+    if (!(s > 0) || !Number.isFinite(s)) return undefined;
+    sigma.push(s);
+  }
+  const correlation: Matrix = [];
+  for (let i = 0; i < n; i++) {
+    const row: number[] = [];
+    for (let j = 0; j < n; j++) row.push(i === j ? 1 : covariance[i]![j]! / (sigma[i]! * sigma[j]!));
+    correlation.push(row);
+  }
   return { covariance, sigma, correlation };
 }
 

@@ -6,6 +6,7 @@
  * together (docs/survey-file.md), each failing with one SurveyError (code, file, key path, fix).
  */
 import { excerpt, inputError } from '../errors.js';
+import { compact } from '../render/format.js';
 import { resolveCosmology } from '../cosmology/parameters.js';
 import type { Completeness, Detection, DetectionKind, Filter, FilterProfile, IgmModel } from '../model/detection.js';
 import type { InputFile, Survey } from '../model/survey.js';
@@ -551,6 +552,21 @@ function parsePopulationParams(
       throw inputError('missing_key', file, `${path}.l_star`, 'is missing', 'give l_star or log10_l_star');
     }
     const lKey = raw.l_star !== undefined ? 'l_star' : 'log10_l_star';
+    const given = raw.log10_l_star;
+    if (typeof given === 'number' && !(given >= -30 && given <= 60)) {
+      // L* from 1e-30 to 1e60 (the physical range) is a log10 from -30 to 60: a larger number is
+      // a linear L* under the log10 key (10^4.57e42 would read as infinite). The codes are those
+      // the check of L* itself gave: not_finite where 10^value overflows, out_of_range otherwise.
+      throw inputError(
+        Number.isFinite(10 ** given) ? 'out_of_range' : 'not_finite',
+        file,
+        `${path}.log10_l_star`,
+        `is ${compact(given)}, not a log10 of L* (from -30 to 60)`,
+        given >= 1e3
+          ? `it looks like a linear value: write l_star: ${compact(given)} (or log10_l_star: ${compact(Math.log10(given))})`
+          : 'give log10 of L* in erg/s (or of the quantity), e.g. 42.3',
+      );
+    }
     const l = makeZParam((raw.l_star ?? raw.log10_l_star)!, file, `${path}.${lKey}`);
     return { components, lStar: lKey === 'l_star' ? l : mapParam(l, (v) => 10 ** v), lKey };
   }

@@ -491,6 +491,28 @@ describe('bad input: one SurveyError with a stable code and key path', () => {
     expect(errorOf(() => parseSurveyObject(obj2, FILE)).message).toContain('did you mean line_flux?');
   });
 
+  test('a linear L* under log10_l_star names the slip and the fix (failed before: "l_star is infinite ... give values that stay finite")', () => {
+    const message = (v: number) => {
+      const obj = parse(LINE_YAML) as Record<string, unknown>;
+      setPath(obj, 'population.log10_l_star', v);
+      return errorOf(() => parseSurveyObject(obj, FILE));
+    };
+    const e = message(4.57e42);
+    expect(e.code).toBe('not_finite'); // as before: 10^4.57e42 overflows
+    expect(e.message).toContain('is 4.57e42, not a log10 of L* (from -30 to 60)');
+    expect(e.message).toContain('write l_star: 4.57e42 (or log10_l_star: 42.66)');
+    expectOneSentence(e);
+    // just beyond the range: the same code as the check of L* gave (out_of_range), no linear hint
+    const f = message(61);
+    expect(f.code).toBe('out_of_range');
+    expect(f.message).toContain('is 61, not a log10 of L*');
+    expect(f.message).not.toContain('linear');
+    // the range's ends are accepted (L* = 1e60 and 1e-30, the physical range)
+    const ok = parse(LINE_YAML) as Record<string, unknown>;
+    setPath(ok, 'population.log10_l_star', 60);
+    expect(() => parseSurveyObject(ok, FILE)).not.toThrow();
+  });
+
   test('a unit of the wrong dimension names the expected unit', () => {
     const obj = parse(LINE_YAML) as Record<string, unknown>;
     setPath(obj, 'area', '2.5 deg');
