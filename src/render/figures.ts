@@ -347,7 +347,7 @@ export function countsSpec(p: PredictionView): Spec | null {
   const scaleNote = axis.log ? `; logarithmic axis (the counts span a factor of ${fmtShort(axis.span)})` : '';
   const empty = all.length - rows.length;
   const emptyNote = empty > 0 ? `; ${empty} slice${empty > 1 ? 's' : ''} without sources not drawn` : '';
-  const notes = [`${all.length} slices; bars: expected count${scaleNote}${emptyNote}`];
+  const notes = [`${all.length} slice${all.length === 1 ? '' : 's'}; bars: expected count${scaleNote}${emptyNote}`];
   if (withErrors) notes.push('error bars: 1σ, Poisson and cosmic variance combined');
   if (withModel)
     notes.push(
@@ -925,7 +925,7 @@ export function planSpec(plan: PlanView, surveyTitle?: string): Spec | null {
   });
   const best = plan.best;
   if (best && finite(best.exposure_hours_per_pointing, best.goal_value) && best.exposure_hours_per_pointing > 0) {
-    const label = `best: ${fmtShort(best.exposure_hours_per_pointing)} h × ${fmtShort(best.pointings)} pointings`;
+    const label = `best: ${fmtShort(best.exposure_hours_per_pointing)} h × ${fmtShort(best.pointings)} pointing${best.pointings === 1 ? '' : 's'}`;
     // The label stands above the plot, over the best design, joined to its diamond by a dotted
     // rule: no design is drawn there, so it never covers a point. It reads away from the
     // nearer side of the plot so that it stays inside the figure.

@@ -32,7 +32,7 @@ function designRow(p: Plan, d: PlanDesign, mark = ''): string[] {
 
 /** One line on a design: its shape, count and goal (and its goal at the model's pessimistic case). */
 function designLine(p: Plan, b: PlanDesign): string {
-  return `${b.tiers ? `${b.tiers.length} tiers, ` : ''}${b.pointings} pointings (${sig(b.area_deg2, 4)} deg^2)${b.tiers ? '' : ` of ${sig(b.exposure_hours_per_pointing, 4)} h to ${limitText(p.limit_variable, b.limit)}`}, ${sig(b.count, 5)} sources, goal value ${sig(b.goal_value, 4)}${b.goal_value_pessimistic !== undefined ? ` (${sig(b.goal_value_pessimistic, 4)} at the model's pessimistic case)` : ''}`;
+  return `${b.tiers ? `${b.tiers.length} tiers, ` : ''}${b.pointings} pointing${b.pointings === 1 ? '' : 's'} (${sig(b.area_deg2, 4)} deg^2)${b.tiers ? '' : ` of ${sig(b.exposure_hours_per_pointing, 4)} h to ${limitText(p.limit_variable, b.limit)}`}, ${sig(b.count, 5)} sources, goal value ${sig(b.goal_value, 4)}${b.goal_value_pessimistic !== undefined ? ` (${sig(b.goal_value_pessimistic, 4)} at the model's pessimistic case)` : ''}`;
 }
 
 function depthLawText(p: Plan): string {
@@ -65,7 +65,7 @@ export function planTable(p: Plan): string {
   ];
   const b = p.best;
   lines.push(
-    `Best design (* below): ${b.tiers ? `${b.tiers.length} tiers, ` : ''}${b.pointings} pointings (${sig(b.area_deg2, 4)} deg^2)${b.tiers ? '' : ` of ${sig(b.exposure_hours_per_pointing, 4)} h to ${limitText(p.limit_variable, b.limit)}`}, ${sig(b.count, 5)} sources, goal value ${sig(b.goal_value, 4)}${
+    `Best design (* below): ${b.tiers ? `${b.tiers.length} tiers, ` : ''}${b.pointings} pointing${b.pointings === 1 ? '' : 's'} (${sig(b.area_deg2, 4)} deg^2)${b.tiers ? '' : ` of ${sig(b.exposure_hours_per_pointing, 4)} h to ${limitText(p.limit_variable, b.limit)}`}, ${sig(b.count, 5)} sources, goal value ${sig(b.goal_value, 4)}${
       b.sigma
         ? ` (sigma of ${Object.entries(b.sigma)
             .map(([k, v]) => `${parameterWords(k)} ${sig(v, 3)}`)

@@ -663,7 +663,7 @@ export function renderReport(input: ReportInput): string {
   const observed = p.breakdown === 'observed';
   const layout = observed
     ? `${(p.populations ?? []).length} populations, each in its own redshift window`
-    : `${p.slices.length} slices`;
+    : `${p.slices.length} slice${p.slices.length === 1 ? '' : 's'}`;
   const summary = [`area ${formatNumber(p.area_deg2)} deg²`, window, layout, cosmo].filter((s) => s).join('; ');
   const totalU = p.totals.uncertainty?.total_fraction;
   const headline =
