@@ -72,7 +72,18 @@ describe('assertSafeSvg', () => {
     ['<svg><foreignObject><div/></foreignObject></svg>', /foreignobject/i],
     ['<svg><rect style="fill:url(http://x/y)"/></svg>', /URL/],
     ['<div></div>', /start with <svg/],
+    ['<svg><g xlink:href="http://x/"><path d="M0,0"/></g></svg>', /link attribute \(xlink:href\)/],
+    ['<svg><path clip-path=\'url( "http://x/y")\'/></svg>', /URL in clip-path/],
+    ['<svg><g FILL=javascript:alert(1)></g></svg>', /URL in fill/],
+    ['<svg><g stroke="expression(alert(1))"></g></svg>', /URL in stroke/],
   ])('refuses %s', (svg, why) => expect(() => assertSafeSvg(svg)).toThrow(why));
+
+  test('accepts references inside the figure and URLs outside paint attributes', () => {
+    // (common practice: url(#id) is a local reference; text may mention url() without painting with it)
+    expect(() =>
+      assertSafeSvg(`<svg><path fill="url(#g1)" clip-path='url("#clip2")' aria-label="url(http://x/)"/></svg>`),
+    ).not.toThrow();
+  });
 
   test('accepts what vega draws, also for a hostile title', async () => {
     const fig = (await countsFigure(demoPrediction({ slices: 3, title: `${NASTY_1} ${NASTY_2} </svg>` })))!;
