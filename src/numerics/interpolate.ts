@@ -12,7 +12,8 @@
  * - `uniformSpline(x0, dx, y)`: the same spline on a uniform grid, with `splineEval` and
  *   `splineDerivative` (clamped to the grid's ends); no checks (the halo tables' hot loop).
  * - `lagrangeCubics(y)` and `lagrangeCubicAt`: the 4-point Lagrange cubics of a uniform table (the
- *   power spectrum's ln P and the box window's ln I tables).
+ *   power spectrum's ln P and the box window's ln I tables); `lazyLagrangeCubics` and
+ *   `lazyLagrangeCubicAt` make each node's cubic when it is first read.
  * The first three throw Error when the grid is not strictly increasing, the lengths differ, fewer than
  * two points are given, or a value is not finite.
  */
@@ -234,17 +235,49 @@ export function splineDerivative(s: UniformSpline, x: number): number {
 export function lagrangeCubics(y: ArrayLike<number>): Float64Array {
   const n = y.length;
   const coef = new Float64Array(4 * n);
-  for (let i = 1; i <= n - 3; i++) {
-    const y0 = y[i - 1]!;
-    const y1 = y[i]!;
-    const y2 = y[i + 1]!;
-    const y3 = y[i + 2]!;
-    coef[4 * i] = y1;
-    coef[4 * i + 1] = -y0 / 3 - y1 / 2 + y2 - y3 / 6;
-    coef[4 * i + 2] = y0 / 2 - y1 + y2 / 2;
-    coef[4 * i + 3] = -y0 / 6 + y1 / 2 - y2 / 2 + y3 / 6;
-  }
+  for (let i = 1; i <= n - 3; i++) lagrangeCubicInto(y, coef, i);
   return coef;
+}
+
+/**
+ * Node i's cubic of `lagrangeCubics` written into coef[4 i .. 4 i + 3]: for a long table of which a
+ * computation reads only some nodes (the power spectrum's 3,225, of which a prediction reads about
+ * 1,200), made on first use (`lazyLagrangeCubicAt`) rather than all at once; run cold, every
+ * node's arithmetic costs microseconds.
+ */
+export function lagrangeCubicInto(y: ArrayLike<number>, coef: Float64Array, i: number): void {
+  const y0 = y[i - 1]!;
+  const y1 = y[i]!;
+  const y2 = y[i + 1]!;
+  const y3 = y[i + 2]!;
+  coef[4 * i] = y1;
+  coef[4 * i + 1] = -y0 / 3 - y1 / 2 + y2 - y3 / 6;
+  coef[4 * i + 2] = y0 / 2 - y1 + y2 / 2;
+  coef[4 * i + 3] = -y0 / 6 + y1 / 2 - y2 / 2 + y3 / 6;
+}
+
+/**
+ * The cubics of `lagrangeCubics` made node by node as they are first read: `coef` as
+ * lagrangeCubics would fill it (4 per node), `made[i]` 1 once node i's are there.
+ */
+export interface LazyLagrangeCubics {
+  readonly y: ArrayLike<number>;
+  readonly coef: Float64Array;
+  readonly made: Uint8Array;
+}
+
+/** An empty LazyLagrangeCubics of the table y. */
+export function lazyLagrangeCubics(y: ArrayLike<number>): LazyLagrangeCubics {
+  return { y, coef: new Float64Array(4 * y.length), made: new Uint8Array(y.length) };
+}
+
+/** `lagrangeCubicAt` of node i (1 <= i <= n-3), its cubic made first if it is not yet: the same number. */
+export function lazyLagrangeCubicAt(c: LazyLagrangeCubics, i: number, u: number): number {
+  if (c.made[i] === 0) {
+    lagrangeCubicInto(c.y, c.coef, i);
+    c.made[i] = 1;
+  }
+  return lagrangeCubicAt(c.coef, i, u);
 }
 
 /** The cubic of node i (1 <= i <= n-3) of `lagrangeCubics` at u = t - i. */

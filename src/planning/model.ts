@@ -209,7 +209,13 @@ export async function buildDesignModel(
   const evaluate = (hours: number, pointings: number): void => {
     areaDeg2 = Math.min(FULL_SKY_DEG2, pointings * spec.fieldOfViewDeg2);
     const delta = deltaOf(hours);
-    for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) matrix[j]![k] = 0;
+    // the matrix's upper triangle summed in locals, slice after slice
+    let m00 = 0;
+    let m01 = 0;
+    let m02 = 0;
+    let m11 = 0;
+    let m12 = 0;
+    let m22 = 0;
     count = 0;
     faint = 0;
     const lnA = Math.log(areaDeg2);
@@ -218,13 +224,12 @@ export async function buildDesignModel(
       const n = tmp[0]! * areaDeg2;
       const bc = tmp[1]! * areaDeg2;
       const ba = tmp[2]! * areaDeg2;
-      const m = matrix;
-      m[0]![0]! += LN10 * LN10 * n;
-      m[0]![1]! += LN10 * bc;
-      m[0]![2]! += LN10 * ba;
-      m[1]![1]! += tmp[3]! * areaDeg2;
-      m[1]![2]! += tmp[4]! * areaDeg2;
-      m[2]![2]! += tmp[5]! * areaDeg2;
+      m00 += LN10 * LN10 * n;
+      m01 += LN10 * bc;
+      m02 += LN10 * ba;
+      m11 += tmp[3]! * areaDeg2;
+      m12 += tmp[4]! * areaDeg2;
+      m22 += tmp[5]! * areaDeg2;
       count += n;
       faint += tmp[6]! * areaDeg2;
       sliceN[sl] = n;
@@ -233,27 +238,26 @@ export async function buildDesignModel(
       sliceB[3 * sl + 2] = ba;
       fractions[sl] = biasOf && sigmaOf && n > 0 ? Math.max(0, biasOf(sl, delta)) * sigmaOf(sl, lnA) * fieldNorm : 0;
     }
+    upper[0] = m00;
+    upper[1] = m01;
+    upper[2] = m02;
+    upper[3] = m11;
+    upper[4] = m12;
+    upper[5] = m22;
+    if (useCv) marginaliseSymmetric3(upper, sliceN, sliceB, fractions);
+    // the full matrix, its lower triangle the mirror of the upper
     const r0 = matrix[0]!;
     const r1 = matrix[1]!;
     const r2 = matrix[2]!;
-    if (useCv) {
-      upper[0] = r0[0]!;
-      upper[1] = r0[1]!;
-      upper[2] = r0[2]!;
-      upper[3] = r1[1]!;
-      upper[4] = r1[2]!;
-      upper[5] = r2[2]!;
-      marginaliseSymmetric3(upper, sliceN, sliceB, fractions);
-      r0[0] = upper[0]!;
-      r0[1] = upper[1]!;
-      r0[2] = upper[2]!;
-      r1[1] = upper[3]!;
-      r1[2] = upper[4]!;
-      r2[2] = upper[5]!;
-    }
-    r1[0] = r0[1]!;
-    r2[0] = r0[2]!;
-    r2[1] = r1[2]!;
+    r0[0] = upper[0]!;
+    r0[1] = upper[1]!;
+    r0[2] = upper[2]!;
+    r1[0] = upper[1]!;
+    r1[1] = upper[3]!;
+    r1[2] = upper[4]!;
+    r2[0] = upper[2]!;
+    r2[1] = upper[4]!;
+    r2[2] = upper[5]!;
   };
   const tier = (hours: number, pointings: number): TierValue => {
     evaluate(hours, pointings);
@@ -271,7 +275,15 @@ export async function buildDesignModel(
     evaluate(hours, pointings);
     out[at] = count;
     out[at + 1] = Math.max(0, Math.min(faint, count));
-    for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) out[at + 2 + 3 * j + k] = matrix[j]![k]!;
+    out[at + 2] = upper[0]!;
+    out[at + 3] = upper[1]!;
+    out[at + 4] = upper[2]!;
+    out[at + 5] = upper[1]!;
+    out[at + 6] = upper[3]!;
+    out[at + 7] = upper[4]!;
+    out[at + 8] = upper[2]!;
+    out[at + 9] = upper[4]!;
+    out[at + 10] = upper[5]!;
   };
 
   const fractionsAt = (hours: number, pointings: number): number[] => {

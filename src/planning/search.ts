@@ -42,7 +42,9 @@ export function better(goal: PlanGoal, a: number, b: number): boolean {
 
 /** sigma of parameter j from a 3 x 3 Fisher matrix by cofactors (fast path for the tier search). */
 export function sigma3(f: number[][], j: number): number | undefined {
-  const [a, b, c] = f as [number[], number[], number[]];
+  const a = f[0]!;
+  const b = f[1]!;
+  const c = f[2]!;
   const det =
     a[0]! * (b[1]! * c[2]! - b[2]! * c[1]!) -
     a[1]! * (b[0]! * c[2]! - b[2]! * c[0]!) +
@@ -343,15 +345,45 @@ export function searchTiers(
     const valueOf = (ix: number[]): number | undefined => {
       let count = 0;
       let faint = 0;
-      for (let j = 0; j < 3; j++) for (let c = 0; c < 3; c++) fisher[j]![c] = 0;
+      // the matrix's nine elements in locals, each summed over the tiers in order (no nested loops:
+      // this runs for every trial, and the engine compiles it at every start)
+      let f00 = 0;
+      let f01 = 0;
+      let f02 = 0;
+      let f10 = 0;
+      let f11 = 0;
+      let f12 = 0;
+      let f20 = 0;
+      let f21 = 0;
+      let f22 = 0;
       for (let i = 0; i < k; i++) {
         const row = rows[i]!;
         const at = ix[i]! * ROW;
         if (Number.isNaN(row[at]!)) return undefined;
         count += row[at]!;
         faint += row[at + 1]!;
-        for (let j = 0; j < 3; j++) for (let c = 0; c < 3; c++) fisher[j]![c]! += row[at + 2 + 3 * j + c]!;
+        f00 += row[at + 2]!;
+        f01 += row[at + 3]!;
+        f02 += row[at + 4]!;
+        f10 += row[at + 5]!;
+        f11 += row[at + 6]!;
+        f12 += row[at + 7]!;
+        f20 += row[at + 8]!;
+        f21 += row[at + 9]!;
+        f22 += row[at + 10]!;
       }
+      const r0 = fisher[0]!;
+      const r1 = fisher[1]!;
+      const r2 = fisher[2]!;
+      r0[0] = f00;
+      r0[1] = f01;
+      r0[2] = f02;
+      r1[0] = f10;
+      r1[1] = f11;
+      r1[2] = f12;
+      r2[0] = f20;
+      r2[1] = f21;
+      r2[2] = f22;
       const g = goalOf(goal, parameterIndex, count, faint, fisher, false);
       return g !== undefined && Number.isFinite(g) && count >= budget.minimumCount ? g : undefined;
     };

@@ -173,6 +173,8 @@ export function faintCounter(grid: DensityGrid): FaintCounter {
   // per node: the break points' s above s_lim, ascending; and the pieces they bound
   const cutsOf: (Float64Array | undefined)[] = new Array<Float64Array | undefined>(nodeCount);
   const piecesOf: (FixedPiece | undefined)[][] = Array.from({ length: nodeCount }, () => []);
+  // per node: exp(nodeLogV), made at its first use (NaN until then)
+  const volumeOf = new Float64Array(nodeCount).fill(NaN);
 
   const nodeCuts = (j: number): Float64Array => {
     let cuts = cutsOf[j];
@@ -270,7 +272,8 @@ export function faintCounter(grid: DensityGrid): FaintCounter {
       if (!(upper > sLim)) continue;
       const a1 = grid.nodeA1[j]!;
       const obsA = grid.nodeObsA[j]!;
-      const v = Math.exp(grid.nodeLogV[j]!);
+      let v = volumeOf[j]!;
+      if (Number.isNaN(v)) volumeOf[j] = v = Math.exp(grid.nodeLogV[j]!);
       const cuts = nodeCuts(j);
       let k = 0;
       while (k < cuts.length && cuts[k]! < upper) k++;

@@ -21,11 +21,30 @@ export function completenessOrientation(kind: DetectionKind): 1 | -1 {
   return kind === 'line_flux' ? -1 : 1;
 }
 
+/** The functions made, by curve (the survey's completeness object), kind and variable. */
+const madeFunctions = new WeakMap<Completeness, Map<string, CompletenessFn>>();
+
+/**
+ * The completeness as a function of obs. One function per curve, kind and variable, made once and
+ * kept with the curve: the populations of one survey then call the same function, so that code V8
+ * has optimised for one population's calls is not thrown away at the next population's (a
+ * different function object of the same source is a "wrong call target" to optimised code; the
+ * three-population narrow-band sample's histogram loop was compiled four times).
+ */
 export function completenessFunction(
   c: Completeness,
   kind: DetectionKind,
   variable: PopulationVariable,
 ): CompletenessFn {
+  let byKey = madeFunctions.get(c);
+  if (!byKey) madeFunctions.set(c, (byKey = new Map<string, CompletenessFn>()));
+  const key = `${kind} ${variable}`;
+  let fn = byKey.get(key);
+  if (!fn) byKey.set(key, (fn = makeCompletenessFunction(c, kind, variable)));
+  return fn;
+}
+
+function makeCompletenessFunction(c: Completeness, kind: DetectionKind, variable: PopulationVariable): CompletenessFn {
   const sign = completenessOrientation(kind);
   if (c.model === 'logistic') {
     const { half, width } = c;

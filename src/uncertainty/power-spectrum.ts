@@ -28,7 +28,7 @@
 import type { Cosmology } from '../model/cosmology.js';
 import { GRAVITATIONAL_CONSTANT, MPC_M, SOLAR_MASS_KG, T_CMB_DEFAULT_K } from '../cosmology/constants.js';
 import { createGrowth } from './growth.js';
-import { lagrangeCubicAt, lagrangeCubics } from '../numerics/interpolate.js';
+import { lazyLagrangeCubicAt, lazyLagrangeCubics } from '../numerics/interpolate.js';
 import { gaussLegendre } from './quadrature.js';
 import { powerKey, storedShapeTable, type ShapeTable } from './stored-tables.js';
 
@@ -289,8 +289,9 @@ function shapeInterpolator(lnShape: Float64Array): (lnk: number) => number {
   const nTab = lnShape.length;
   const slopeHi = (lnShape[nTab - 1]! - lnShape[nTab - 2]!) / LNK_STEP;
   const slopeLo = (lnShape[1]! - lnShape[0]!) / LNK_STEP;
-  // The 4-point Lagrange cubic through nodes i-1 .. i+2, as a polynomial in u = t - i.
-  const coef = lagrangeCubics(lnShape);
+  // The 4-point Lagrange cubic through nodes i-1 .. i+2, as a polynomial in u = t - i, made when
+  // first read (a prediction reads about 1,200 of the 3,225 nodes).
+  const coef = lazyLagrangeCubics(lnShape);
   return (lnk: number): number => {
     const t = (lnk - LNK_MIN) / LNK_STEP;
     if (t < 0) return lnShape[0]! + slopeLo * (lnk - LNK_MIN);
@@ -298,7 +299,7 @@ function shapeInterpolator(lnShape: Float64Array): (lnk: number) => number {
     let i = Math.floor(t);
     if (i < 1) i = 1;
     if (i > nTab - 3) i = nTab - 3;
-    return lagrangeCubicAt(coef, i, t - i);
+    return lazyLagrangeCubicAt(coef, i, t - i);
   };
 }
 

@@ -4,6 +4,10 @@ import { describe, expect, test } from 'vitest';
 import {
   findInterval,
   interpLinear,
+  lagrangeCubicAt,
+  lagrangeCubics,
+  lazyLagrangeCubicAt,
+  lazyLagrangeCubics,
   linearInterpolant,
   monotoneCubic,
   naturalCubicSpline,
@@ -107,6 +111,39 @@ describe('monotone cubic (Fritsch-Carlson)', () => {
         },
       ),
       { numRuns: 300 },
+    );
+  });
+});
+
+describe('4-point Lagrange cubics of a uniform table', () => {
+  test('reproduce a cubic exactly (4 points fix a cubic; common practice)', () => {
+    const y = Array.from({ length: 12 }, (_, t) => 0.5 * t ** 3 - 2 * t ** 2 + t - 3);
+    const coef = lagrangeCubics(y);
+    for (const t of [1, 1.25, 4.5, 7.9, 9]) {
+      const i = Math.min(Math.max(Math.floor(t), 1), y.length - 3);
+      expect(lagrangeCubicAt(coef, i, t - i)).toBeCloseTo(0.5 * t ** 3 - 2 * t ** 2 + t - 3, 11);
+    }
+  });
+  test('made node by node on first read, they are the same numbers bit for bit, in any order of reading', () => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.double({ min: -50, max: 50, noNaN: true }), { minLength: 4, maxLength: 40 }),
+        fc.array(fc.tuple(fc.nat(), fc.double({ min: 0, max: 1, noNaN: true })), { minLength: 1, maxLength: 30 }),
+        (y, reads) => {
+          const all = lagrangeCubics(y);
+          const lazy = lazyLagrangeCubics(y);
+          const read = new Set<number>();
+          for (const [k, u] of reads) {
+            const i = 1 + (k % (y.length - 3));
+            read.add(i);
+            expect(Object.is(lazyLagrangeCubicAt(lazy, i, u), lagrangeCubicAt(all, i, u))).toBe(true);
+          }
+          expect(lazy.made.reduce((n, m) => n + m, 0)).toBe(read.size);
+          // a node read is filled exactly as the whole table has it; one never read is not made
+          for (let i = 1; i <= y.length - 3; i++)
+            if (lazy.made[i]) for (let c = 0; c < 4; c++) expect(lazy.coef[4 * i + c]).toBe(all[4 * i + c]);
+        },
+      ),
     );
   });
 });
