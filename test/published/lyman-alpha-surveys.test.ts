@@ -3,9 +3,9 @@
  * (the window a filter sets, the transmission in the limit, the luminosity distance at z = 3 and
  * 5.7) against what the surveys found. The surveys' numbers and luminosity functions are recalled
  * FROM MEMORY (named beside each check). Each check has two parts:
- * - the integral itself against an independent scipy integration of the same model (this file's
- *   values, computed with scipy.integrate.quad to a relative 1e-10 in this session: comoving
- *   distance, dV/dz over the area, the Schechter integral above 4 pi D_L^2 F_lim / T), to 1e-6;
+ * - the integral itself against an independent scipy integration of the same model, to 1e-6
+ *   (test/reference/generate/lyman_alpha_counts.py, scipy 1.17.1: comoving distance, dV/dz over
+ *   the area, the Schechter integral above 4 pi D_L^2 F_lim / T, each by quad to 1e-10 or better);
  * - the published count against the prediction, within twice the model's own spread: Poisson
  *   noise and cosmic variance (at the galaxy bias the literature measured for these emitters,
  *   given as `bias`), and, where the function's errors are large, its `model_uncertainty`. A
@@ -35,7 +35,7 @@ slices: {count: 1}
     // the window is the filter's: (4990 -+ 25) / 1215.67 - 1 (definition of a top hat)
     expect(p.slices![0]!.z_min).toBeCloseTo(4965 / 1215.67 - 1, 9);
     expect(p.slices![0]!.z_max).toBeCloseTo(5015 / 1215.67 - 1, 9);
-    // scipy (independent integration of the same model, this session): 198.74616797531596
+    // scipy (lyman_alpha_counts.py, an independent integration of the same model): 198.74616797531596
     expect(Math.abs(p.totals.count / 198.74616797531596 - 1)).toBeLessThan(1e-6);
     // 162 observed lies 0.94 sigma below: Poisson 7.1 % and cosmic variance 18.4 % at bias 1.7
     // (the count is also 1.23 times the observed, inside the paper's own function's errors)
@@ -67,7 +67,7 @@ population:
 slices: {count: 1}
 `;
     const p = predict(loadSurveyText(text, 'ouchi-like.yaml'), { model: { draws: 1000, seed: 1 } });
-    // scipy (independent integration, the gaussian cut at +- 1.5 FWHM as survey-file.md says):
+    // scipy (lyman_alpha_counts.py; the gaussian cut at +- 1.5 FWHM as survey-file.md says):
     // 528.9254916178625
     expect(Math.abs(p.totals.count / 528.9254916178625 - 1)).toBeLessThan(1e-6);
     // 401 observed: 1.95 sigma below on Poisson (4.3 %) and cosmic variance (11.6 %) alone, 0.7
