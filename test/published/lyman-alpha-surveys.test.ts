@@ -42,6 +42,16 @@ slices: {count: 1}
     const u = p.totals.uncertainty!;
     expect(u.bias).toBeCloseTo(1.7, 9);
     expect(Math.abs(162 - p.totals.count)).toBeLessThan(2 * u.total_fraction * p.totals.count);
+    // bias: auto matches every halo above a mass to a detected emitter; with an occupation near
+    // the emitters' duty cycle (a few per cent, Gawiser et al. 2007; from memory) it lands inside
+    // the measured 1.7 +- 0.4, with occupation 1 above it (docs/survey-file.md quotes 2.98 and 1.82)
+    const auto = (occupation: number) =>
+      predict(loadSurveyText(text.replace('bias: 1.7', `occupation: ${occupation}`), 'gronwall-auto.yaml')).totals
+        .uncertainty!.bias;
+    expect(Math.abs(auto(0.03) - 1.7)).toBeLessThan(0.4);
+    expect(auto(0.03)).toBeCloseTo(1.82, 2);
+    expect(auto(1)).toBeGreaterThan(1.7 + 0.4);
+    expect(auto(1)).toBeCloseTo(2.98, 2);
   });
 
   test('z = 5.7 in NB816 over the SXDS: 401 LAEs in about 1 deg^2 (Ouchi et al. 2008, ApJS 176, 301; from memory)', () => {
