@@ -19,7 +19,11 @@ export async function run(argv: readonly string[], io: CliIO): Promise<number> {
     .description('Expected galaxy counts, their uncertainties and forecasts for a planned survey.')
     .version(VERSION)
     .exitOverride()
-    .configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(lines(s)) })
+    .configureOutput({
+      writeOut: (s) => io.stdout(s),
+      writeErr: (s) => io.stderr(lines(s)),
+      outputError: (s, write) => write(commanderError(s)),
+    })
     .showHelpAfterError(false);
   let exitCode = 0;
   // A run names one command: only that one is declared (its options cost time at every start);
@@ -56,6 +60,19 @@ export function handleError(err: unknown, io: CliIO): number {
   io.stderr(`skytally: internal failure: ${printable(msg)}\n`);
   if (process.env.SKYTALLY_DEBUG && err instanceof Error) io.stderr(`${err.stack}\n`);
   return 1;
+}
+
+/**
+ * commander's error message in the program's own form, one line starting "skytally: " like every
+ * other refusal: "error: unknown command 'predikt'\n(Did you mean predict?)" becomes
+ * "skytally: unknown command 'predikt' (did you mean predict?)".
+ */
+function commanderError(s: string): string {
+  const text = s
+    .trim()
+    .replace(/^error: /, '')
+    .replace(/\s*\n\(Did you mean (.*)\?\)$/, ' (did you mean $1?)');
+  return `skytally: ${text.replace(/\s*\n\s*/g, ' ')}\n`;
 }
 
 /** Text whose lines are each made safe for a terminal (printable), the line breaks kept. */

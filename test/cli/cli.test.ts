@@ -79,6 +79,24 @@ describe('predict', () => {
     expect((await runCli(['forecastt'])).code).toBe(2);
     expect((await runCli(['predict', `samples/${SAMPLES[0]}`, '--format', 'xml'])).code).toBe(2);
   });
+
+  test('the parser\'s refusals read like every other: one line starting "skytally: " (failed before: "error: ...", the suggestion on a second line)', async () => {
+    const cases: [string[], string][] = [
+      [['predict', `samples/${SAMPLES[0]}`, '--colour', 'red'], "skytally: unknown option '--colour'\n"],
+      [['predikt'], "skytally: unknown command 'predikt' (did you mean predict?)\n"],
+      [['predict'], "skytally: missing required argument 'survey'\n"],
+      [
+        ['predict', `samples/${SAMPLES[0]}`, '--format', 'xml'],
+        "skytally: option '--format <format>' argument 'xml' is invalid. Allowed choices are table, json, csv.\n",
+      ],
+    ];
+    for (const [argv, stderr] of cases) {
+      const r = await runCli(argv);
+      expect(r.code).toBe(2);
+      expect(r.stderr).toBe(stderr);
+      expect(r.stdout).toBe('');
+    }
+  });
 });
 
 describe('distances', () => {

@@ -86,6 +86,20 @@ describe('forecast --population NAME = the forecast of a file holding NAME alone
     expect(f.redshift.min).toBeGreaterThan(1.4);
     expect(f.count).toBeGreaterThan(100);
   });
+
+  test('without --population the table says only the first population is forecast and names the others (failed before: not a word)', async () => {
+    const r = await runCli(['forecast', SAMPLE, '--no-cosmic-variance']);
+    expect(r.code, r.stderr).toBe(0);
+    const lines = r.stdout.split('\n');
+    const at = lines.findIndex((l) => l.startsWith('Assumed model: H-alpha:'));
+    expect(lines[at + 1]).toBe(
+      'Population: the file holds 3; only the first, "H-alpha", is forecast (counted over its own window), without "[OIII]", "[OII]"; choose one with --population NAME.',
+    );
+    // named, or a file of one population: no such line
+    const named = await runCli(['forecast', SAMPLE, '--no-cosmic-variance', '--population', 'H-alpha']);
+    expect(named.stdout).not.toContain('Population: the file holds');
+    expect(r.stdout.replace(`${lines[at + 1]}\n`, '')).toBe(named.stdout);
+  });
 });
 
 describe('compare and plan pick a population the same way (1e-9)', () => {

@@ -100,7 +100,7 @@ export const forecastCommand: CommandDef = {
     outputs.setMain(
       renderText(out, {
         json: () => shown,
-        table: () => tables!.forecastTable(shown),
+        table: () => withPopulationNote(tables!.forecastTable(shown), survey.populations, population, raw.population),
         csv: () => tables!.forecastCsv(shown),
       }),
     );
@@ -114,6 +114,26 @@ export const forecastCommand: CommandDef = {
     return 0;
   },
 };
+
+/**
+ * The table with, under its model line, a note when a file of several populations is forecast
+ * without --population: only the first is, and the others are named (the JSON's `model` names the
+ * population forecast).
+ */
+function withPopulationNote(
+  table: string,
+  all: readonly { name: string }[],
+  chosen: { name: string },
+  option: unknown,
+): string {
+  if (option !== undefined || all.length < 2) return table;
+  const others = all.filter((q) => q !== chosen).map((q) => `"${q.name}"`);
+  const note = `Population: the file holds ${all.length}; only the first, "${chosen.name}", is forecast (counted over its own window), without ${others.join(', ')}; choose one with --population NAME.`;
+  const lines = table.split('\n');
+  const at = lines.findIndex((l) => l.startsWith('Assumed model:'));
+  lines.splice(at < 0 ? lines.length : at + 1, 0, note);
+  return lines.join('\n');
+}
 
 /** The mocks block without its per-mock fits. */
 function withoutFits<T extends { fits?: unknown }>(m: T): Omit<T, 'fits'> {
