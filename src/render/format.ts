@@ -92,6 +92,18 @@ export function formatZ(z: number): string {
   return z.toFixed(Math.max(2, decimalsNeeded(z)));
 }
 
+/**
+ * An uncertainty fraction as a percentage, "7.1%": one decimal from 0.1 % up, two significant
+ * figures below (a whole-sky survey's Poisson term must not read 0.0%), three from 10,000 % up (a
+ * survey expecting almost no source must not print 17 digits). Shares keep `percent`.
+ */
+export function uncertaintyPercent(f: number | undefined): string {
+  if (typeof f !== 'number' || !Number.isFinite(f)) return '';
+  const p = 100 * f;
+  if (Math.abs(p) >= 1e4) return `${sig(p, 3)}%`;
+  return `${Math.abs(p) >= 0.1 || p === 0 ? p.toFixed(1) : p.toPrecision(2)}%`;
+}
+
 export function percent(f: number | undefined): string {
   return typeof f === 'number' && Number.isFinite(f) ? `${(100 * f).toFixed(1)}%` : '';
 }

@@ -16,7 +16,16 @@ import type {
   PredictionView,
   SliceView,
 } from './types.js';
-import { formatFixed, formatNumber, formatScientific, formatZ, goalWords, percent, shapeWords } from './format.js';
+import {
+  formatFixed,
+  formatNumber,
+  formatScientific,
+  formatZ,
+  goalWords,
+  percent,
+  shapeWords,
+  uncertaintyPercent,
+} from './format.js';
 import { uncertaintySources } from './sources.js';
 
 export interface ReportInput {
@@ -255,7 +264,8 @@ function predictTable(
       ];
       if (withU)
         cells.push(typeof u?.total_fraction === 'number' ? `± ${formatNumber(s.count * u.total_fraction, 3)}` : '');
-      if (withParts) cells.push(percent(u?.poisson_fraction), percent(u?.cosmic_variance_fraction));
+      if (withParts)
+        cells.push(uncertaintyPercent(u?.poisson_fraction), uncertaintyPercent(u?.cosmic_variance_fraction));
       if (withModel) cells.push(modelRange(s.model));
       return `<tr>${cells.map((c) => `<td>${c}</td>`).join('')}</tr>`;
     })
@@ -273,7 +283,7 @@ function predictTable(
   ];
   if (withU)
     total.push(typeof tu?.total_fraction === 'number' ? `± ${formatNumber(t.count * tu.total_fraction, 3)}` : '');
-  if (withParts) total.push(percent(tu?.poisson_fraction), percent(tu?.cosmic_variance_fraction));
+  if (withParts) total.push(uncertaintyPercent(tu?.poisson_fraction), uncertaintyPercent(tu?.cosmic_variance_fraction));
   if (withModel) total.push(modelRange(t.model));
   const sentence = sourcesSentence(t.count, tu, t.model);
   return `<table class="numbers" id="${id}">
@@ -299,8 +309,8 @@ function sourcesSentence(
   const s = uncertaintySources(u, m);
   if (!s || !u || !m) return undefined;
   return (
-    `Of the total ${formatNumber(count)} ± ${formatNumber(count * u.total_fraction, 3)}, Poisson ${percent(s.poisson)}, ` +
-    `cosmic variance ${percent(s.cosmicVariance)}, model ${percent(s.model)}: ${s.dominant} dominates.`
+    `Of the total ${formatNumber(count)} ± ${formatNumber(count * u.total_fraction, 3)}, Poisson ${uncertaintyPercent(s.poisson)}, ` +
+    `cosmic variance ${uncertaintyPercent(s.cosmicVariance)}, model ${uncertaintyPercent(s.model)}: ${s.dominant} dominates.`
   );
 }
 

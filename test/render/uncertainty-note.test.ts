@@ -6,6 +6,11 @@
  */
 import { describe, expect, test } from 'vitest';
 import { sourcesSentence, uncertaintyNote } from '../../src/render/predict-table.js';
+import { percent, uncertaintyPercent } from '../../src/render/format.js';
+import { buildReport, loadSurveyFile } from '../../src/index.js';
+import { readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { tempDir } from '../support/temp.js';
 import type { PredictionTotals } from '../../src/model/outputs/prediction.js';
 
 const totals = (poisson: number, cv: number) =>
@@ -58,4 +63,22 @@ describe('the uncertainty sentence under the predict table', () => {
       'Sources of uncertainty of the total 1e8: Poisson noise 0.010 %, cosmic variance 0.050 %, the model 10.0 % (9e7 to 1.1e8 over 1000 draws of its uncertainty); the model dominates.',
     );
   });
+
+  test('the report writes its uncertainty percentages by the same rule (it printed 0.0% for a 15,000 deg^2 survey); shares keep one decimal', async () => {
+    // the fractions times 100 (definition of a percentage)
+    expect(uncertaintyPercent(0.071)).toBe('7.1%');
+    expect(uncertaintyPercent(0.000447)).toBe('0.045%');
+    expect(uncertaintyPercent(2.428e13)).toBe('2.43e15%');
+    expect(uncertaintyPercent(0)).toBe('0.0%');
+    expect(uncertaintyPercent(undefined)).toBe('');
+    expect(percent(0.000447)).toBe('0.0%');
+    const dir = tempDir('skytally-wide-report-');
+    const file = join(dir, 'wide.yaml');
+    writeFileSync(file, readFileSync('samples/halpha-narrowband.yaml', 'utf8').replace(/^area: .*$/m, 'area: 15000'));
+    const { html, results } = await buildReport(loadSurveyFile(file), { mocks: 0 });
+    const u = results.prediction.totals.uncertainty!;
+    expect(u.poisson_fraction).toBeLessThan(0.001);
+    expect(html).toContain(`>${uncertaintyPercent(u.poisson_fraction)}<`);
+    expect(html).not.toMatch(/>0\.0%</);
+  }, 30_000);
 });
