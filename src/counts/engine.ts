@@ -853,12 +853,6 @@ function completeNodeBins(
   const vLo = breaks.varying[0];
   const vHi = breaks.varying[1];
   const memo = edgeGammas(nd.components.length);
-  // The open brightest bin's bright end where the completeness varies over it, and below its obs,
-  // computed for every node and bin though used for that bin alone: V8 optimises this loop before
-  // it has run that branch, and arithmetic met there first without type feedback threw the
-  // optimised loop away (it was compiled again; the same numbers either way).
-  const uLim = 10 ** l10uLim;
-  const openHi = Math.log10(uLim > 1 ? uLim + U_BRIGHT_SPAN : U_BRIGHT_SPAN);
   let nodeCount = 0;
   for (let b = 0; b < nBins; b++) {
     const faintObs = slope > 0 ? edges[b]! : edges[b + 1]!;
@@ -884,13 +878,14 @@ function completeNodeBins(
         continue;
       }
     }
-    const hiOpen = Math.max(l10uHi, openHi);
-    if (open) l10uHi = hiOpen;
+    if (open) {
+      const uLim = 10 ** l10uLim;
+      l10uHi = Math.max(l10uHi, Math.log10(uLim > 1 ? uLim + U_BRIGHT_SPAN : U_BRIGHT_SPAN));
+    }
     if (!(l10uHi > l10uLo)) continue;
     // The bin in obs: its faint edge (or the limit) to its bright edge.
     const oA = l10uLo === l10uLim ? nd.obsLimit : faintObs;
-    const oEnd = nd.a + slope * l10uHi;
-    const oB = open ? oEnd : brightObs;
+    const oB = open ? nd.a + slope * l10uHi : brightObs;
     const v = nd.volumeWeight * rules.integrate(oA, oB, 0);
     counts[b]! += v;
     nodeCount += v;
