@@ -67,7 +67,12 @@ function sliceView(s: PredictionSlice, curveOf?: (s: PredictionSlice) => SliceVi
  * The draws of population `k`'s model_uncertainty that predict counted (the same seeded offsets:
  * as many as its model blocks say, with the seed predict was given), or undefined without them.
  */
-function modelDrawsOf(survey: Survey, k: number, draws: number | undefined, seed: number): readonly ModelOffsets[] | undefined {
+function modelDrawsOf(
+  survey: Survey,
+  k: number,
+  draws: number | undefined,
+  seed: number,
+): readonly ModelOffsets[] | undefined {
   const p = survey.populations[k]!;
   const mu = p.modelUncertainty;
   if (!mu || !draws) return undefined;

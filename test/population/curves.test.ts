@@ -145,7 +145,12 @@ describe('per magnitude, magnitude variable (closed form)', () => {
  * summed over the components; per x the draws sorted and the 16th and 84th percentiles taken
  * linearly between order statistics (Hyndman & Fan 1996 type 7, numpy's default).
  */
-function plainBand(p: Population, z: number, x: number[], offsets: readonly ModelOffsets[]): { p16: number[]; p84: number[] } {
+function plainBand(
+  p: Population,
+  z: number,
+  x: number[],
+  offsets: readonly ModelOffsets[],
+): { p16: number[]; p84: number[] } {
   const at = populationAt(p, z);
   const magnitude = p.variable === 'magnitude';
   const knee = magnitude ? at.characteristic : Math.log10(at.characteristic);
