@@ -6,7 +6,7 @@ export interface Captured {
   stderr: string;
 }
 
-/** Run the program in-process with captured output (style.md: the CLI is a function). */
+/** Run the program in-process with captured output (the CLI is a function of its arguments and an IO object). */
 export async function runCli(argv: string[], cwd = process.cwd()): Promise<Captured> {
   let stdout = '';
   let stderr = '';

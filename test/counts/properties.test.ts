@@ -1,5 +1,5 @@
 /**
- * Invariants of the count engine (style.md, "check the mathematics against itself"), with fast-check:
+ * Invariants of the count engine (the mathematics checked against itself; common practice), with fast-check:
  * counts are linear in area, never fall as the limit gets fainter, slices sum to the total,
  * histogram counts sum to their slice, and every number is finite. Common practice; the
  * tolerances are floating-point round-off (1e-9 relative). The first two look at counts alone and

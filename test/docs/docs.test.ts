@@ -219,6 +219,38 @@ describe('links', () => {
   });
 });
 
+describe('the repository explains itself', () => {
+  // Common practice for a project's own documentation: a comment, test or document that cites a
+  // Markdown file cites one that ships with the repository, never notes kept beside it.
+  test('every Markdown file named in src/, test/, scripts/, docs/, README.md and DEVELOPERS.md is in the repository', () => {
+    const shipped = new Set<string>();
+    const texts: [string, string][] = [];
+    const walk = (dir: string) => {
+      for (const e of readdirSync(dir, { withFileTypes: true })) {
+        const path = join(dir, e.name);
+        if (e.isDirectory()) walk(path);
+        else if (/\.(ts|mts|mjs|cjs|js|md|py|json|yaml|sh)$/.test(e.name)) {
+          if (e.name.endsWith('.md')) shipped.add(e.name);
+          if (e.name !== 'durations.json') texts.push([path, read(path)]);
+        }
+      }
+    };
+    for (const dir of ['src', 'test', 'scripts', 'docs', 'samples', '.ci']) walk(dir);
+    for (const doc of ['README.md', 'DEVELOPERS.md']) {
+      shipped.add(doc);
+      texts.push([doc, read(doc)]);
+    }
+    const cited: string[] = [];
+    for (const [path, text] of texts) {
+      for (const m of text.matchAll(/([A-Za-z0-9_-]+)\.md\b/g))
+        if (!shipped.has(`${m[1]!}.md`)) cited.push(`${path}: ${m[0]}`);
+      if (text.includes('../shared') && path !== join('test', 'docs', 'docs.test.ts')) cited.push(`${path}: ../shared`);
+    }
+    expect(texts.length).toBeGreaterThan(100);
+    expect(cited).toEqual([]);
+  });
+});
+
 /** The YAML blocks that are whole survey files (their first line is `format: 1`). */
 function yamlExamples(markdown: string): string[] {
   return [...markdown.matchAll(/```yaml\n([\s\S]*?)```/g)].map((m) => m[1]!).filter((t) => /^format: 1\b/.test(t));
