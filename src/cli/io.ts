@@ -46,6 +46,11 @@ export interface CliIO {
   cwd: string;
   /** True when stderr is a terminal (progress bars are drawn only then). */
   stderrIsTTY: boolean;
+  /**
+   * True when stdout is a terminal: the HTML page and report are not written there without --out
+   * (absent counts as false, as for a pipe).
+   */
+  stdoutIsTTY?: boolean;
 }
 
 export type OutputFormat = 'table' | 'json' | 'csv';

@@ -103,6 +103,7 @@ export async function main(): Promise<void> {
     stderr: (s) => process.stderr.write(s),
     cwd: process.cwd(),
     stderrIsTTY: Boolean(process.stderr.isTTY),
+    stdoutIsTTY: Boolean(process.stdout.isTTY),
   };
   const code = await run(process.argv.slice(2), io);
   process.exitCode = code;

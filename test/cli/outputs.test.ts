@@ -22,6 +22,8 @@ import {
 import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { runCli, type Captured } from './helpers.js';
+import { run, type CliIO } from '../../src/cli/index.js';
+import { useExploreScript } from '../support/explore-script.js';
 import { sampleReport } from '../support/sample-reports.js';
 
 const SAMPLE = 'samples/halpha-narrowband.yaml';
@@ -300,4 +302,41 @@ describe('a closed pipe ends the program quietly with status 0', () => {
     },
     60_000,
   );
+});
+
+describe('HTML is not printed on a terminal', () => {
+  // Common practice for programs that write large or binary documents: refuse a terminal, not a pipe.
+  const runOnTerminal = async (argv: string[]): Promise<Captured> => {
+    let stdout = '';
+    let stderr = '';
+    const io: CliIO = {
+      stdout: (s) => (stdout += s),
+      stderr: (s) => (stderr += s),
+      cwd: process.cwd(),
+      stderrIsTTY: false,
+      stdoutIsTTY: true,
+    };
+    return { code: await run(argv, io), stdout, stderr };
+  };
+  test.each([
+    ['explore', ['explore', 'samples/halpha-narrowband.yaml']],
+    ['report', ['report', 'samples/halpha-narrowband.yaml']],
+  ])('%s without --out on a terminal: one sentence naming --out, exit 2, nothing printed', async (_, argv) => {
+    const r = await runOnTerminal(argv);
+    expect(r.code).toBe(2);
+    expect(r.stdout).toBe('');
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    expect(r.stderr).toMatch(/^skytally: --out: .*terminal.*give --out FILE\.html/);
+  });
+  test('report --format json on a terminal is printed (it is text, not a page)', async () => {
+    const r = await runOnTerminal(['report', 'samples/halpha-narrowband.yaml', '--format', 'json']);
+    expect(r.code).toBe(0);
+    expect(JSON.parse(r.stdout).prediction).toBeDefined();
+  });
+  test('explore --out - on a terminal prints the page anyway', async () => {
+    await useExploreScript();
+    const r = await runOnTerminal(['explore', 'samples/halpha-narrowband.yaml', '--out', '-']);
+    expect(r.code).toBe(0);
+    expect(r.stdout.startsWith('<!DOCTYPE html>')).toBe(true);
+  });
 });

@@ -162,3 +162,19 @@ export function parseInteger(text: string, option: string, min: number, max: num
   }
   return v;
 }
+
+/**
+ * Refuse, before any work, to print an HTML document (the explore page, the report) on a terminal:
+ * without --out it goes to standard output, which is right for a pipe and never for a screen
+ * (the page is about 2 MB). `--out -` prints it anyway.
+ */
+export function refuseHtmlOnTerminal(io: CliIO, out: string | undefined, command: string, what: string): void {
+  if (out !== undefined || !io.stdoutIsTTY) return;
+  throw inputError(
+    'bad_option',
+    '',
+    '--out',
+    `without it ${command} writes ${what} to standard output, which is a terminal here`,
+    'give --out FILE.html (--out - prints it here anyway; a pipe takes it as it is)',
+  );
+}

@@ -1,7 +1,7 @@
 /** The `explore` command: one self-contained HTML page to vary a survey live (src/library/explore/page.ts). */
 import { resolve } from 'node:path';
 import type { CommandDef } from './types.js';
-import { printWarnings } from './common.js';
+import { printWarnings, refuseHtmlOnTerminal } from './common.js';
 import { Outputs } from '../io.js';
 
 export const exploreCommand: CommandDef = {
@@ -15,6 +15,7 @@ export const exploreCommand: CommandDef = {
   async action(cmd, args, io) {
     const file = args[0] as string;
     const opts = cmd.opts<{ out?: string }>();
+    refuseHtmlOnTerminal(io, opts.out, 'explore', 'one HTML page of about 2 MB');
     const outputs = new Outputs(io, { out: opts.out });
     outputs.refuseInputs([file]);
     const { loadSurveyFileWithText } = await import('../../survey/load.js');

@@ -2,7 +2,7 @@
 import { resolve } from 'node:path';
 import { Option } from 'commander';
 import type { CommandDef } from './types.js';
-import { addNoPngOption, printWarnings } from './common.js';
+import { addNoPngOption, printWarnings, refuseHtmlOnTerminal } from './common.js';
 import { Outputs, toJsonText, type CliIO } from '../io.js';
 import { mockOptions, mockProgressBar } from './forecast.js';
 import { modelDrawOptions } from './predict.js';
@@ -77,6 +77,8 @@ export async function runReport(
   sections?: ReportSections,
 ): Promise<number> {
   const input = resolve(io.cwd, file);
+  if ((opts.format ?? 'html') === 'html')
+    refuseHtmlOnTerminal(io, opts.out, 'report', 'the report as one HTML document');
   // the model's draws as predict makes them (--draws N, --seed S), checked before any work
   const model = modelDrawOptions(opts);
   const { computeReport, reportFigures, reportHtml, reportJson } = await import('../../library/report.js');
