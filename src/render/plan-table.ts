@@ -18,6 +18,7 @@ function designRow(p: Plan, d: PlanDesign, mark = ''): string[] {
       ? d.tiers.map((t) => sig(t.exposure_hours_per_pointing, 3)).join(' + ')
       : sig(d.exposure_hours_per_pointing, 4),
     d.tiers ? d.tiers.map((t) => String(t.pointings)).join(' + ') : String(d.pointings),
+    sig(d.hours_used, 4),
     sig(d.area_deg2, 4),
     d.tiers
       ? d.tiers.map((t) => limitText(p.limit_variable, t.limit)).join(' + ')
@@ -55,6 +56,7 @@ export function planTable(p: Plan): string {
     'budget',
     'hours per pointing',
     'pointings',
+    'hours used',
     'area deg^2',
     'limit',
     'count',

@@ -1,0 +1,37 @@
+/**
+ * The plan table states the hours each design uses: whole pointings of (exposure + overhead) hours
+ * (common practice for a time request), which is below the budget when the last pointing does not
+ * fit. The table showed only the budget split, "100 %" for every one-tier design, so a design of
+ * 3 pointings of 10.87 h under a 40 h budget read as spending it all (failed before).
+ */
+import { describe, expect, test } from 'vitest';
+import { loadSurveyFile, plan, planTable } from '../../src/index.js';
+import { sig } from '../../src/render/format.js';
+
+describe('plan table: hours used', () => {
+  test('every row of a one-tier plan shows its pointings times (exposure + overhead), under the budget', async () => {
+    const p = await plan(loadSurveyFile('samples/plan-uv-deep-wide.yaml'));
+    const table = planTable(p);
+    const head = table.split('\n').find((l) => l.includes('hours per pointing'))!;
+    const cells = (line: string) => line.split('│').map((c) => c.trim());
+    const col = cells(head).indexOf('hours used');
+    expect(col).toBeGreaterThan(0);
+    const byExposure = new Map(p.designs.map((d) => [sig(d.exposure_hours_per_pointing, 4), d]));
+    const rows = table
+      .split('\n')
+      .filter((l) => l.startsWith('│') && !l.includes('hours per pointing'))
+      .map(cells);
+    expect(rows.length).toBeGreaterThan(20);
+    let under = 0;
+    for (const row of rows) {
+      const d = byExposure.get(row[col - 2]!) ?? p.best;
+      const hours = d.pointings * (d.exposure_hours_per_pointing + p.overhead_hours);
+      expect(Math.abs(d.hours_used - hours)).toBeLessThan(1e-9 * hours);
+      expect(hours).toBeLessThanOrEqual(p.budget_hours * (1 + 1e-12));
+      expect(row[col]).toBe(sig(d.hours_used, 4));
+      if (Number(row[col]) < p.budget_hours * 0.995) under += 1;
+    }
+    // the grid's designs leave part of the budget when the last pointing does not fit
+    expect(under).toBeGreaterThan(0);
+  });
+});
