@@ -55,8 +55,15 @@ function normaliseUnitNames(s: string): string {
       // "deg2", "arcmin2", "arcsec2": the squared angles as catalogues and papers often write them
       // (mathjs reads "cm2" and "m2" as areas itself, but knows no "deg2")
       .replace(/\b(deg|arcmin|arcsec)2\b/g, '$1^2')
+      // superscript powers as typeset ("deg²", "erg s⁻¹ cm⁻²"): written as ^2, ^-1
+      .replace(/[⁻⁺]?[⁰¹²³⁴⁵⁶⁷⁸⁹]+/g, (p) => `^${[...p].map((c) => SUPERSCRIPTS[c]).join('')}`)
   );
 }
+
+/** The superscript characters of a typeset power and the ASCII they stand for. */
+const SUPERSCRIPTS: Record<string, string> = Object.fromEntries(
+  [...'⁻⁺⁰¹²³⁴⁵⁶⁷⁸⁹'].map((c, i) => [c, '-+0123456789'[i]!]),
+);
 
 /** True when `s` is a plain decimal number (e.g. "2.5", "-3e-2"). */
 export function isPlainNumberString(s: string): boolean {
