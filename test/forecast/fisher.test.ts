@@ -22,6 +22,7 @@ import { gaussLegendreRule } from '../../src/numerics/quadrature.js';
 import { inverseSpd } from '../../src/numerics/linalg.js';
 import fc from 'fast-check';
 import { surveyFromSpec, type SurveySpec } from './helpers.js';
+import { REFUSED_MATRICES } from '../support/refused-matrices.js';
 
 interface RefCase {
   survey: SurveySpec;
@@ -187,38 +188,7 @@ describe("summariseFisher equals the summary by the rows' inverse bit for bit", 
   });
 
   test("matrices it refuses (singular, indefinite, zero or negative diagonal, NaN, Infinity) give undefined, as the rows' form does", () => {
-    const bad = [
-      [
-        [1, 1, 0],
-        [1, 1, 0],
-        [0, 0, 1],
-      ],
-      [
-        [1, 2, 0],
-        [2, 1, 0],
-        [0, 0, 1],
-      ],
-      [
-        [0, 0, 0],
-        [0, 1, 0],
-        [0, 0, 1],
-      ],
-      [
-        [-1, 0, 0],
-        [0, 1, 0],
-        [0, 0, 1],
-      ],
-      [
-        [NaN, 0, 0],
-        [0, 1, 0],
-        [0, 0, 1],
-      ],
-      [
-        [Infinity, 0, 0],
-        [0, 1, 0],
-        [0, 0, 1],
-      ],
-    ];
+    const bad = REFUSED_MATRICES;
     for (const m of bad) {
       expect(rowsSummary(m)).toBeUndefined();
       expect(summariseFisher(m)).toBeUndefined();
