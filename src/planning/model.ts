@@ -20,7 +20,7 @@ import type { Survey } from '../model/survey.js';
 import { SR_PER_DEG2, FULL_SKY_DEG2 } from '../model/sky.js';
 import { buildDensityGrid, sliceCount, type DensityGrid } from '../forecast/grid.js';
 import { summariseFisher } from '../forecast/fisher.js';
-import { marginaliseSymmetric3 } from './sigma.js';
+import { addSliceSums, marginaliseSymmetric3 } from './sigma.js';
 import { uncertaintyContext, populationBias, matterSigma } from '../uncertainty/prediction.js';
 import { naturalCubicSpline, type Interpolant } from '../numerics/interpolate.js';
 import { inputError } from '../errors.js';
@@ -209,41 +209,18 @@ export async function buildDesignModel(
   const evaluate = (hours: number, pointings: number): void => {
     areaDeg2 = Math.min(FULL_SKY_DEG2, pointings * spec.fieldOfViewDeg2);
     const delta = deltaOf(hours);
-    // the matrix's upper triangle summed in locals, slice after slice
-    let m00 = 0;
-    let m01 = 0;
-    let m02 = 0;
-    let m11 = 0;
-    let m12 = 0;
-    let m22 = 0;
+    // the matrix's upper triangle summed slice after slice
+    upper.fill(0);
     count = 0;
     faint = 0;
     const lnA = Math.log(areaDeg2);
     for (let sl = 0; sl < nS; sl++) {
       interpolateSlice(tables, sl, delta, tmp);
-      const n = tmp[0]! * areaDeg2;
-      const bc = tmp[1]! * areaDeg2;
-      const ba = tmp[2]! * areaDeg2;
-      m00 += LN10 * LN10 * n;
-      m01 += LN10 * bc;
-      m02 += LN10 * ba;
-      m11 += tmp[3]! * areaDeg2;
-      m12 += tmp[4]! * areaDeg2;
-      m22 += tmp[5]! * areaDeg2;
+      const n = addSliceSums(upper, tmp, areaDeg2, sliceN, sliceB, sl);
       count += n;
       faint += tmp[6]! * areaDeg2;
-      sliceN[sl] = n;
-      sliceB[3 * sl] = LN10 * n;
-      sliceB[3 * sl + 1] = bc;
-      sliceB[3 * sl + 2] = ba;
       fractions[sl] = biasOf && sigmaOf && n > 0 ? Math.max(0, biasOf(sl, delta)) * sigmaOf(sl, lnA) * fieldNorm : 0;
     }
-    upper[0] = m00;
-    upper[1] = m01;
-    upper[2] = m02;
-    upper[3] = m11;
-    upper[4] = m12;
-    upper[5] = m22;
     if (useCv) marginaliseSymmetric3(upper, sliceN, sliceB, fractions);
     // the full matrix, its lower triangle the mirror of the upper
     const r0 = matrix[0]!;

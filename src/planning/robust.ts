@@ -31,7 +31,7 @@ import type { Survey } from '../model/survey.js';
 import type { PlanGoal } from '../model/plan.js';
 import { percentilesOf } from '../counts/model-draws.js';
 import { forecastDrawOffsets } from '../forecast/model-spread.js';
-import { fisherSigmaUpper, marginaliseSymmetric3 } from './sigma.js';
+import { addSliceSums, fisherSigmaUpper, marginaliseSymmetric3 } from './sigma.js';
 import { buildDensityGrid, sliceCount, type DensityGrid } from '../forecast/grid.js';
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { DesignModel, TierValue } from './model.js';
@@ -49,7 +49,6 @@ import type { Evaluated } from './search.js';
 export const ROBUST_DRAWS = 200;
 /** Knot spacing in Delta (ln u) of each draw's sums. */
 export const KNOT_STEP = 0.1;
-const LN10 = Math.LN10;
 
 export interface RobustContext {
   file: Survey;
@@ -227,35 +226,14 @@ function addTierUnderDraw(
   count: number,
 ): number {
   const { matrix, counts, b, sums } = s;
-  let m00 = 0;
-  let m01 = 0;
-  let m02 = 0;
-  let m11 = 0;
-  let m12 = 0;
-  let m22 = 0;
+  matrix.fill(0);
   for (let sl = 0; sl < nS; sl++) {
     const a = place.at + sl * 12;
     interpolateSums(table, a, a + stride, place.weights, factor * place.area, sums);
-    const n = sums[0]!;
-    count += n;
-    m00 += LN10 * LN10 * n;
-    m01 += LN10 * sums[1]!;
-    m02 += LN10 * sums[2]!;
-    m11 += sums[3]!;
-    m12 += sums[4]!;
-    m22 += sums[5]!;
-    counts[sl] = n;
-    b[3 * sl] = LN10 * n;
-    b[3 * sl + 1] = sums[1]!;
-    b[3 * sl + 2] = sums[2]!;
+    // (the sums are already scaled to the tier's area: a scale of 1 leaves them as they are)
+    count += addSliceSums(matrix, sums, 1, counts, b, sl);
   }
   if (!sigma) return count;
-  matrix[0] = m00;
-  matrix[1] = m01;
-  matrix[2] = m02;
-  matrix[3] = m11;
-  matrix[4] = m12;
-  matrix[5] = m22;
   marginaliseSymmetric3(matrix, counts, b, place.fractions);
   // f += the tier's matrix, element by element (both upper triangles)
   for (let k = 0; k < 6; k++) f[k] = f[k]! + matrix[k]!;

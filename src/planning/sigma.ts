@@ -121,6 +121,40 @@ function sigmaOfLower(
   return index === 0 ? s0 : index === 1 ? s1 : index === 2 ? s2 : 0;
 }
 
+const LN10 = Math.LN10;
+
+/**
+ * One slice's part of a design's Fisher matrix for (log10 phi*, L* or M*, alpha), from the slice's
+ * six sums s = [N, b_1, b_2, F_11, F_12, F_22] (src/planning/tables.ts) times `scale`: adds it to
+ * the upper triangle u = [m00, m01, m02, m11, m12, m22] (m00 += ln10^2 N, m01 += ln10 b_1,
+ * m02 += ln10 b_2, the rest as they are, since d N / d log10 phi* = ln10 N), sets the slice's
+ * count and its b = [ln10 N, b_1, b_2] for marginaliseSymmetric3, and returns N. The design model
+ * and the robust ranking both build their matrices with it.
+ */
+export function addSliceSums(
+  u: Float64Array,
+  s: ArrayLike<number>,
+  scale: number,
+  counts: Float64Array,
+  b: Float64Array,
+  sl: number,
+): number {
+  const n = s[0]! * scale;
+  const b1 = s[1]! * scale;
+  const b2 = s[2]! * scale;
+  u[0] = u[0]! + LN10 * LN10 * n;
+  u[1] = u[1]! + LN10 * b1;
+  u[2] = u[2]! + LN10 * b2;
+  u[3] = u[3]! + s[3]! * scale;
+  u[4] = u[4]! + s[4]! * scale;
+  u[5] = u[5]! + s[5]! * scale;
+  counts[sl] = n;
+  b[3 * sl] = LN10 * n;
+  b[3 * sl + 1] = b1;
+  b[3 * sl + 2] = b2;
+  return n;
+}
+
 /**
  * marginaliseNormalisationsInPlace (src/forecast/fisher.ts) of a symmetric 3 x 3 matrix held as its
  * upper triangle m = [m00, m01, m02, m11, m12, m22]: per slice i with a fraction sigma_i > 0, each
