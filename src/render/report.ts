@@ -520,16 +520,22 @@ function planTable(plan: PlanView): string {
   };
   const lo = nb ? Math.min(nb.from, nb.to) : NaN;
   const hi = nb ? Math.max(nb.from, nb.to) : NaN;
-  // The best design may come from refining between grid designs: it is listed with them.
+  const robust = plan.robust;
+  // The best design may come from refining between grid designs: it is listed with them (and,
+  // ranked across the model, the best under the assumed values too).
   const listed = [...(plan.designs ?? [])];
   if (plan.best && !listed.some((d) => same(d, plan.best))) listed.push(plan.best);
+  if (robust && !listed.some((d) => same(d, robust.best_assumed))) listed.push(robust.best_assumed);
   const designs = listed.sort((a, b) => a.exposure_hours_per_pointing - b.exposure_hours_per_pointing);
   const rows = designs
     .map((d) => {
       const best = same(d, plan.best);
       const near = nb && d.exposure_hours_per_pointing >= lo && d.exposure_hours_per_pointing <= hi;
       const cls = best ? ' class="best"' : near ? ' class="near"' : '';
-      const note = best ? 'best' : near ? 'near best' : '';
+      const assumed = robust && !robust.same_design && same(d, robust.best_assumed);
+      const note = [best ? 'best' : near ? 'near best' : '', assumed ? 'best under the assumed values' : '']
+        .filter((x) => x)
+        .join('; ');
       const cells = [
         formatNumber(d.exposure_hours_per_pointing),
         formatNumber(d.pointings),
@@ -537,6 +543,7 @@ function planTable(plan: PlanView): string {
         formatFixed(d.limit),
         formatNumber(d.count),
         formatNumber(d.goal_value),
+        ...(robust ? [d.goal_value_pessimistic === undefined ? '–' : formatNumber(d.goal_value_pessimistic)] : []),
         note,
       ];
       return `<tr${cls}>${cells.map((c) => `<td>${c}</td>`).join('')}</tr>`;
@@ -549,12 +556,20 @@ function planTable(plan: PlanView): string {
     'limit',
     'count',
     `goal value<br><span class="unit">${escapeHtml(goalWords(plan.goal))}</span>`,
+    ...(robust
+      ? [`goal at model p${Math.round(robust.percentile * 100)}<br><span class="unit">pessimistic case</span>`]
+      : []),
     '',
   ];
   const range = nb
     ? ` Designs from ${formatNumber(lo)} to ${formatNumber(hi)} hours per pointing come close to the best.`
     : '';
+  const ranked = robust
+    ? `<p id="plan-robust">Ranked across the model (<code>robust: true</code>): the best design is the one with the best goal at the model's pessimistic case, the ${Math.round(robust.percentile * 100)}th percentile over ${formatNumber(robust.draws)} ${robust.source === 'draws_file' ? 'rows of the draws file' : 'draws of model_uncertainty'}; ${robust.same_design ? 'it is also the best under the assumed values.' : `under the assumed values the best is ${formatNumber(robust.best_assumed.pointings)} pointings of ${formatNumber(robust.best_assumed.exposure_hours_per_pointing)} hours.`}</p>
+`
+    : '';
   return `<p>Goal: ${escapeHtml(goalWords(plan.goal))}; time available: ${formatNumber(plan.budget_hours)} hours.${range}</p>
+${ranked}
 <table class="numbers" id="plan-table">
 <thead><tr>${heads.map((h) => `<th scope="col">${h}</th>`).join('')}</tr></thead>
 <tbody>

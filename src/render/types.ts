@@ -77,7 +77,13 @@ export type ForecastView = Pick<Forecast, 'parameters' | 'center'> & {
 /** One design of a plan as drawn and tabulated. */
 export type PlanDesignView = Pick<
   PlanDesign,
-  'exposure_hours_per_pointing' | 'pointings' | 'area_deg2' | 'limit' | 'count' | 'goal_value'
+  | 'exposure_hours_per_pointing'
+  | 'pointings'
+  | 'area_deg2'
+  | 'limit'
+  | 'count'
+  | 'goal_value'
+  | 'goal_value_pessimistic'
 >;
 
 /** The fields of a plan (the `plan` result) the figure and the report read. */
@@ -86,6 +92,10 @@ export type PlanView = Pick<Plan, 'goal' | 'budget_hours'> & {
   best?: PlanDesignView;
   /** The designs at either end of the near-best range. */
   near_best?: { from: PlanDesignView; to: PlanDesignView };
+  /** With robust: true, how the designs were ranked across the model (best is the robust best). */
+  robust?: Pick<NonNullable<Plan['robust']>, 'draws' | 'source' | 'percentile' | 'same_design'> & {
+    best_assumed: PlanDesignView;
+  };
 };
 
 /** One drawn figure. */
