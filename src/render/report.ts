@@ -469,7 +469,12 @@ ${names
   .join('\n')}
 </tbody></table>`;
   }
-  return `<table class="numbers" id="forecast-table">
+  const left = f.populations_left_out;
+  const which =
+    left && left.length > 0
+      ? `<p class="note" id="forecast-population">The forecast is of the file's first population${f.model?.name ? `, “${escapeHtml(f.model.name)}”` : ''}, counted over its own window; ${left.map((n) => `“${escapeHtml(n)}”`).join(', ')} ${left.length === 1 ? 'is' : 'are'} not forecast (skytally forecast --population NAME forecasts another).</p>\n`
+      : '';
+  return `${which}<table class="numbers" id="forecast-table">
 <thead><tr>${heads.map((h) => `<th scope="col">${h}</th>`).join('')}</tr></thead>
 <tbody>
 ${rows}

@@ -65,7 +65,9 @@ export interface PredictionView {
 export type ForecastView = Pick<Forecast, 'parameters' | 'center'> & {
   fisher: Pick<FisherBlock, 'sigma' | 'correlation'>;
   /** What L* measures in a threshold survey (model.quantity). */
-  model?: Pick<ModelDescription, 'quantity'>;
+  model?: Pick<ModelDescription, 'quantity'> & Partial<Pick<ModelDescription, 'name'>>;
+  /** The populations not forecast: the file holds several and the first is (forecast's JSON). */
+  populations_left_out?: readonly string[];
   /** Mock fits (`fits`, columns in the order of `parameters`) and their summary per parameter. */
   mocks?: Partial<Pick<MocksBlock, 'count' | 'parameters' | 'fits'>>;
   /** The sigmas' p16-p84 across the draws of the population's model_uncertainty (forecast --model-draws). */
