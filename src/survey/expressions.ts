@@ -110,6 +110,14 @@ function lexicalProblem(text: string, onlySilent = false): string | undefined {
   return undefined;
 }
 
+/** The name a factor of an implicit product starts with, when it is not z (e.g. "Mpc" of "Mpc^-3"). */
+function unitName(node: MathNode): string | undefined {
+  if (node.type === 'SymbolNode') return node.name === 'z' ? undefined : node.name;
+  if (node.type === 'OperatorNode' && (node.fn === 'pow' || node.fn === 'divide' || node.fn === 'multiply'))
+    return node.args?.[0] ? unitName(node.args[0]) : undefined;
+  return undefined;
+}
+
 function short(s: string): string {
   const t = s.replace(/\s+/g, ' ').trim();
   return t.length > 40 ? t.slice(0, 37) + '...' : t;
@@ -130,6 +138,17 @@ export function compileExpression(text: string, file: string, keyPath: string): 
   // everything else outside the grammar is named by the tree check below, token by token.
   const silent = lexicalProblem(text, true);
   if (silent) reject(silent);
+  // "-2.06 +- 0.13" (a value and its error, pasted from a paper) would read as -2.06 + (-0.13).
+  const signs = /\+\s*-|-\s*\+/.exec(text);
+  if (signs) {
+    throw inputError(
+      'bad_expression',
+      file,
+      keyPath,
+      `the expression "${short(text)}" writes "${signs[0]}", a sign after a sign, as a value and its error are written`,
+      "give the value alone with one sign (a 1-sigma error belongs in the population's model_uncertainty)",
+    );
+  }
   let root: MathNode;
   try {
     // The common forms without building mathjs's parser; the rest (and every error) through mathjs.
@@ -156,6 +175,17 @@ export function compileExpression(text: string, file: string, keyPath: string): 
       case 'OperatorNode': {
         const args = node.args ?? [];
         if (node.implicit) {
+          const unit = args.map(unitName).find((u) => u !== undefined);
+          if (unit !== undefined) {
+            // "0.29e-3 Mpc^-3", "-20.87 mag": a unit where the key's own unit is implied.
+            throw inputError(
+              'bad_expression',
+              file,
+              keyPath,
+              `the expression "${short(text)}" writes "${short(unit)}" after a number, as a unit is written`,
+              "write the number alone, in the key's own unit (docs/survey-file.md gives each key's unit)",
+            );
+          }
           return reject(`writes "${short(node.toString())}" without a "*" between the factors`);
         }
         const c = args.map(walk);

@@ -100,4 +100,49 @@ describe('anything else is rejected before it is evaluated', () => {
     expect(msg('cos(z)')).toContain('"cos"');
     expect(msg('2z')).toContain('"2 z"');
   });
+
+  test('a value and its error pasted from a paper ("-2.06 +- 0.13") is refused, not read as -2.19 (the notation docs/survey-file.md itself uses for errors)', () => {
+    const msg = (t: string) => {
+      try {
+        return String(compileExpression(t, F, 'population.alpha').fn(0));
+      } catch (e) {
+        expect((e as SurveyError).code).toBe('bad_expression');
+        return (e as Error).message;
+      }
+    };
+    for (const [t, sign] of [
+      ['-2.06 +- 0.13', '+-'],
+      ['-2.06 -+ 0.13', '-+'],
+      ['-2.06+-0.13', '+-'],
+      ['-1.5 - 0.1*z + - 0.2', '+ -'],
+      ['z - +1', '- +'],
+    ]) {
+      expect(msg(t!)).toContain(`writes "${sign}"`);
+      expect(msg(t!)).toContain('model_uncertainty');
+    }
+    // signs apart, doubled minus signs, an exponent's sign and unary plus stay as they were
+    expect(msg('1 + +z')).toBe('1');
+    expect(msg('1 - -2')).toBe('3');
+    expect(msg('2e-3 + 1')).toBe(String(2e-3 + 1));
+    expect(msg('-2.06 + 0.1*z - 0.3')).toBe(String(-2.06 + 0 - 0.3));
+  });
+
+  test('a unit after a number ("0.29e-3 Mpc^-3", "-20.87 mag") is named as a unit, not as a missing "*"', () => {
+    const msg = (t: string) => {
+      try {
+        compileExpression(t, F, 'population.phi_star');
+      } catch (e) {
+        return (e as Error).message;
+      }
+      return '';
+    };
+    expect(msg('0.29e-3 Mpc^-3')).toContain('writes "Mpc" after a number, as a unit is written');
+    expect(msg('-20.87 mag')).toContain('writes "mag" after a number, as a unit is written');
+    expect(msg('1e-3 Mpc^-3 / 2')).toContain('"Mpc"');
+    expect(msg('-20.87 mag')).toContain("the key's own unit");
+    // a missing "*" before z, or between brackets, keeps its own message
+    expect(msg('2 z')).toContain('without a "*"');
+    expect(msg('(1 + z)(2 + z)')).toContain('without a "*"');
+    expect(msg('2 cm')).not.toContain('without a "*"');
+  });
 });
