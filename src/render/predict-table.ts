@@ -23,6 +23,18 @@ export function cosmologyLine(c: CosmologyBlock): string {
   return c.preset ? `${base} (preset ${c.preset}: ${c.preset_source})` : base;
 }
 
+/** A flux density in Jy as Jy, mJy, uJy or nJy, whichever puts it at 1 or above (nJy below). */
+export function fluxDensityText(jy: number): string {
+  const [scale, unit] = jy >= 1 ? [1, 'Jy'] : jy >= 1e-3 ? [1e3, 'mJy'] : jy >= 1e-6 ? [1e6, 'uJy'] : [1e9, 'nJy'];
+  return `${sig(jy * scale)} ${unit}`;
+}
+
+/** A frequency in GHz as THz, GHz or MHz, whichever puts it at 1 or above (MHz below). */
+export function frequencyText(ghz: number): string {
+  const [scale, unit] = ghz >= 1e3 ? [1e-3, 'THz'] : ghz >= 1 ? [1, 'GHz'] : [1e3, 'MHz'];
+  return `${sig(ghz * scale)} ${unit}`;
+}
+
 export function detectionLine(p: Prediction): string {
   const d = p.detection;
   if (d.kind === 'line_flux') {
@@ -32,9 +44,11 @@ export function detectionLine(p: Prediction): string {
   }
   if (d.kind === 'magnitude') {
     const given =
-      d.system === 'vega'
-        ? ` (given in Vega, AB = Vega ${d.vega_to_ab! < 0 ? '-' : '+'} ${sig(Math.abs(d.vega_to_ab!))})`
-        : '';
+      d.limit_jy !== undefined
+        ? ` (given as ${fluxDensityText(d.limit_jy)})`
+        : d.system === 'vega'
+          ? ` (given in Vega, AB = Vega ${d.vega_to_ab! < 0 ? '-' : '+'} ${sig(Math.abs(d.vega_to_ab!))})`
+          : '';
     if (d.sed_file) {
       const b = d.band;
       const band =
@@ -43,7 +57,11 @@ export function detectionLine(p: Prediction): string {
           : `the band ${d.band_file ?? ''}`.trimEnd();
       return `AB magnitude limit ${sig(d.limit_ab_mag)}${given} in ${band}, k-corrected with the spectrum ${d.sed_file}`;
     }
-    return `AB magnitude limit ${sig(d.limit_ab_mag)}${given} in a band at ${sig(d.band_angstrom)} A (spectral slope beta = ${sig(d.beta)})`;
+    const at =
+      d.band_ghz !== undefined
+        ? `${frequencyText(d.band_ghz)} (${sig(d.band_angstrom)} A)`
+        : `${sig(d.band_angstrom)} A`;
+    return `AB magnitude limit ${sig(d.limit_ab_mag)}${given} in a band at ${at} (spectral slope beta = ${sig(d.beta)})`;
   }
   const q =
     p.models[0]?.quantity ?? (p.limit_variable === 'absolute_magnitude' ? 'absolute AB magnitude' : 'the quantity');
