@@ -127,10 +127,12 @@ function short(s: string): string {
  * Parse, check and compile `text`. Throws SurveyError bad_expression naming `keyPath` and the
  * offending token for anything outside the allowed set; nothing is evaluated before that check.
  */
-export function compileExpression(text: string, file: string, keyPath: string): CompiledExpression {
+export function compileExpression(written: string, file: string, keyPath: string): CompiledExpression {
+  // The typeset minus sign (U+2212) of a value pasted from a paper is a minus.
+  const text = written.replace(/\u2212/g, '-');
   const fix = `use only numbers, z, + - * / ^, parentheses and ${ALLOWED_FUNCTIONS}`;
   const reject = (what: string): never => {
-    throw inputError('bad_expression', file, keyPath, `the expression "${short(text)}" ${what}`, fix);
+    throw inputError('bad_expression', file, keyPath, `the expression "${short(written)}" ${what}`, fix);
   };
   if (text.length > MAX_EXPRESSION_LENGTH) reject(`is longer than ${MAX_EXPRESSION_LENGTH} characters`);
   if (text.trim() === '') reject('is empty');
@@ -138,14 +140,26 @@ export function compileExpression(text: string, file: string, keyPath: string): 
   // everything else outside the grammar is named by the tree check below, token by token.
   const silent = lexicalProblem(text, true);
   if (silent) reject(silent);
+  // A dash pasted where a minus is meant ("–2.06"): named, since it looks like one.
+  const dash = /[\u2010-\u2015\ufe58\ufe63\uff0d]/.exec(text);
+  if (dash) {
+    const code = dash[0].charCodeAt(0).toString(16).toUpperCase();
+    reject(`contains "${dash[0]}" (U+${code}, a dash), not the minus sign "-"`);
+  }
   // "-2.06 +- 0.13" (a value and its error, pasted from a paper) would read as -2.06 + (-0.13).
-  const signs = /\+\s*-|-\s*\+/.exec(text);
+  const signs = /\+\s*-|-\s*\+|[±∓]|[\^_]\s*\{/.exec(text);
   if (signs) {
+    const s = signs[0];
+    const what = s.includes('{')
+      ? 'an error as typeset (^{+a}_{-b})'
+      : /[±∓]/.test(s)
+        ? 'a value and its error'
+        : 'a sign after a sign, as a value and its error are written';
     throw inputError(
       'bad_expression',
       file,
       keyPath,
-      `the expression "${short(text)}" writes "${signs[0]}", a sign after a sign, as a value and its error are written`,
+      `the expression "${short(written)}" writes "${s}", ${what}`,
       "give the value alone with one sign (a 1-sigma error belongs in the population's model_uncertainty)",
     );
   }
@@ -182,7 +196,7 @@ export function compileExpression(text: string, file: string, keyPath: string): 
               'bad_expression',
               file,
               keyPath,
-              `the expression "${short(text)}" writes "${short(unit)}" after a number, as a unit is written`,
+              `the expression "${short(written)}" writes "${short(unit)}" after a number, as a unit is written`,
               "write the number alone, in the key's own unit (docs/survey-file.md gives each key's unit)",
             );
           }
@@ -269,5 +283,5 @@ export function compileExpression(text: string, file: string, keyPath: string): 
   if (rest) reject(rest);
   folding = true;
   const compiled = walk(root);
-  return { text, fn: compiled.fn, constant: !compiled.usesZ };
+  return { text: written, fn: compiled.fn, constant: !compiled.usesZ };
 }
