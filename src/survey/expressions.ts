@@ -139,7 +139,8 @@ export function compileExpression(text: string, file: string, keyPath: string): 
   const silent = lexicalProblem(text, true);
   if (silent) reject(silent);
   // "-2.06 +- 0.13" (a value and its error, pasted from a paper) would read as -2.06 + (-0.13).
-  const signs = /\+\s*-|-\s*\+/.exec(text);
+  // Only the two signs written together: "a + -b*z", as a program writes a negative term, is read.
+  const signs = /\+-|-\+/.exec(text);
   if (signs) {
     throw inputError(
       'bad_expression',
