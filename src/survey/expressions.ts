@@ -147,7 +147,8 @@ export function compileExpression(written: string, file: string, keyPath: string
     reject(`contains "${dash[0]}" (U+${code}, a dash), not the minus sign "-"`);
   }
   // "-2.06 +- 0.13" (a value and its error, pasted from a paper) would read as -2.06 + (-0.13).
-  const signs = /\+\s*-|-\s*\+|[±∓]|[\^_]\s*\{/.exec(text);
+  // Only the two signs written together: "a + -b*z", as a program writes a negative term, is read.
+  const signs = /\+-|-\+|[±∓]|[\^_]\s*\{/.exec(text);
   if (signs) {
     const s = signs[0];
     const what = s.includes('{')
