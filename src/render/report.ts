@@ -694,7 +694,10 @@ export function renderReport(input: ReportInput): string {
   const layout = observed
     ? `${(p.populations ?? []).length} populations, each in its own redshift window`
     : `${p.slices.length} slice${p.slices.length === 1 ? '' : 's'}`;
-  const summary = [`area ${formatNumber(p.area_deg2)} deg²`, window, layout, cosmo].filter((s) => s).join('; ');
+  const detection = p.detection_text ? escapeHtml(p.detection_text) : '';
+  const summary = [`area ${formatNumber(p.area_deg2)} deg²`, window, detection, layout, cosmo]
+    .filter((s) => s)
+    .join('; ');
   const totalU = p.totals.uncertainty?.total_fraction;
   const headline =
     `Expected count: <strong>${formatNumber(p.totals.count)}</strong>` +

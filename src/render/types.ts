@@ -59,6 +59,8 @@ export interface PredictionView {
   /** Several populations: each one's own result over its own window. */
   populations?: (Pick<PopulationPrediction, 'name' | 'window' | 'totals'> & { slices: SliceView[] })[];
   observed_bins?: ObservedBins;
+  /** The detection in words, as the predict table's survey line gives it (src/render/detection-text.ts). */
+  detection_text?: string;
 }
 
 /** The fields of a forecast (the `forecast` result) the figure and the report read. */
