@@ -24,7 +24,7 @@ import { selectionEffects } from '../selection/effects.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
 import { completenessQuadrature, type CompletenessQuadrature } from './completeness-quadrature.js';
 import { luminosityScale, populationAt, type ParameterOffsets, type PopulationAtZ } from '../population/model.js';
-import { componentsTotalLuminosity } from '../population/schechter.js';
+import { ComponentAtZ, componentsMap, componentsTotalLuminosity } from '../population/schechter.js';
 import { inputError } from '../errors.js';
 import { CAPS } from '../model/limits.js';
 
@@ -607,7 +607,8 @@ function buildNodes(
       // nothing kept at this z: no detection (as a zero transmission)
       log10ULimit: kept > 0 ? obs.log10ULimit : Infinity,
       obsLimit: obs.obsLimit,
-      components: kept === 1 ? p.components : p.components.map((c) => ({ phiStar: c.phiStar * kept, alpha: c.alpha })),
+      components:
+        kept === 1 ? p.components : componentsMap(p.components, (c) => new ComponentAtZ(c.phiStar * kept, c.alpha)),
       allComponents: p.components,
       lumScale: luminosityScale(population.variable, p.characteristic),
     });

@@ -40,7 +40,7 @@ import {
 import { makeObserver, type Observer } from '../selection/observe.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
 import { completenessQuadrature, type CompletenessQuadrature } from './completeness-quadrature.js';
-import { componentsTotalLuminosity } from '../population/schechter.js';
+import { ComponentAtZ, componentsMap, componentsTotalLuminosity } from '../population/schechter.js';
 import {
   histogramFromTable,
   histogramTable,
@@ -169,14 +169,16 @@ function shifted(nd: NodeState, o: ModelOffsets, slope: number, lumFactor: numbe
     a: nd.a + o.characteristic,
     log10ULimit: nd.log10ULimit - o.characteristic / slope,
     obsLimit: nd.obsLimit,
-    components: nd.components.map((c, k) => ({
-      phiStar: o.log10PhiStar[k] ? c.phiStar * 10 ** o.log10PhiStar[k] : c.phiStar,
-      alpha: c.alpha + o.alpha[k]!,
-    })),
-    allComponents: nd.allComponents.map((c, k) => ({
-      phiStar: o.log10PhiStar[k] ? c.phiStar * 10 ** o.log10PhiStar[k] : c.phiStar,
-      alpha: c.alpha + o.alpha[k]!,
-    })),
+    components: componentsMap(
+      nd.components,
+      (c, k) =>
+        new ComponentAtZ(o.log10PhiStar[k] ? c.phiStar * 10 ** o.log10PhiStar[k] : c.phiStar, c.alpha + o.alpha[k]!),
+    ),
+    allComponents: componentsMap(
+      nd.allComponents,
+      (c, k) =>
+        new ComponentAtZ(o.log10PhiStar[k] ? c.phiStar * 10 ** o.log10PhiStar[k] : c.phiStar, c.alpha + o.alpha[k]!),
+    ),
     lumScale: nd.lumScale * lumFactor,
   };
 }
@@ -312,8 +314,8 @@ function flatten(nodes: readonly NodeState[]): SliceNodes {
     alpha: Array.from({ length: comps }, (_, c) => Float64Array.from(kept, (nd) => nd.components[c]!.alpha)),
     scratch: kept.map((nd) => ({
       ...nd,
-      components: nd.components.map((c) => ({ ...c })),
-      allComponents: nd.allComponents.map((c) => ({ ...c })),
+      components: componentsMap(nd.components, (c) => new ComponentAtZ(c.phiStar, c.alpha)),
+      allComponents: componentsMap(nd.allComponents, (c) => new ComponentAtZ(c.phiStar, c.alpha)),
     })),
   };
 }
@@ -737,8 +739,8 @@ function sliceTables(
     a: 0,
     log10ULimit: 0,
     obsLimit: obsLim,
-    components: [{ phiStar: 1, alpha: 0 }],
-    allComponents: [{ phiStar: 1, alpha: 0 }],
+    components: [new ComponentAtZ(1, 0)],
+    allComponents: [new ComponentAtZ(1, 0)],
     lumScale: 1,
   };
   const x0 = aMin + dcMin;
