@@ -2,8 +2,8 @@
  * Changes made so that V8's optimising compiler compiles the count engine's hot functions once in
  * a cold process (the photo-z slice's sums over its pieces' nodes in a function of the module, the
  * model draws' level-2 rows and histogram terms in classes, the open brightest bin's end worked out
- * for every node, the incomplete gamma functions' branches run once before use) keep the same
- * arithmetic in the same order, so every number is the same bit for bit. Source: the SHA-256 of
+ * for every node, the nodes' components of one class in packed arrays) keep the same arithmetic
+ * in the same order, so every number is the same bit for bit. Source: the SHA-256 of
  * each sample's whole prediction as JSON (JSON.stringify gives every number's shortest exact
  * form) on the code before them (commit e1057c7), recorded with the same calls as below.
  */
@@ -15,13 +15,13 @@ import { predict } from '../../src/counts/predict.js';
 
 /** The samples whose cold predict met those functions, and their predictions' digests before. */
 const BEFORE: Record<string, string> = {
-  // the open brightest bin in the completeness's varying range; gamma1pm1's two signs
+  // the open brightest bin in the completeness's varying range
   'narrowband-interlopers': 'd892a85e44476085b94dbd6326cc0694590a197cd95cabdf5ef856d67e08f4b8',
-  // measured slices summed over the pieces' nodes
+  // measured slices summed over the pieces' nodes; nodes' components
   'photoz-optical-field': 'a84408f400566729259271b2feb9492e3a0f0a6f987551db4d30350b86ac2a03',
   // level-2 rows of the completeness tables, histogram tables
   'plan-robust-uv-slope': '01d45d1002601d8b831d259ec0f79de017d1c79a2b832f4fd55950c460a25574',
-  // two components' histogram tables, upperGammaByRecurrence
+  // two components' histogram tables
   'double-schechter-mass': '2862d744fffc2bf15d78c09052b51cec19ed4352e9d74b0d630f607451b289c2',
   'mass-limited': '58b75620cb409c6ce811c8cc27f86e4c8c0d71ae7c95cdfa3acbea8b6df6b7d8',
 };
