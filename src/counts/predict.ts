@@ -80,6 +80,8 @@ export function detectionJson(survey: Survey): PredictionBase['detection'] {
       beta: d.beta,
       igm: d.igm,
     };
+    if (d.limitGivenJy !== undefined) b.limit_jy = d.limitGivenJy;
+    if (d.bandGivenHz !== undefined) b.band_ghz = d.bandGivenHz / 1e9;
     if (d.bandTable) b.band_file = d.bandTable.file;
     if (d.magnitudeSystem) {
       b.system = d.magnitudeSystem.system;

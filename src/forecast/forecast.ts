@@ -199,6 +199,9 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
     fisher_poisson_only: block(names, poisson),
     warnings: mergeWarnings(surveyWarnings(survey), predictionWarnings(survey, [population]), cvWarnings),
   };
+  // A file of several populations forecast without choosing one: the first is; name the others.
+  if (opts.population === undefined && file.populations.length > 1)
+    out.populations_left_out = file.populations.filter((q) => q !== population).map((q) => q.name);
 
   let drawn: { thetas: number[][]; fisher: DrawnFisher } | undefined;
   if (opts.modelDraws && opts.modelDraws > 0) {

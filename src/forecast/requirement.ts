@@ -122,7 +122,7 @@ export function deeperSurvey(survey: Survey, p: Population, delta: number): { su
     if (c) det.completeness = c;
   } else if (d.kind === 'magnitude') {
     limit = d.limitMag + delta;
-    det = { ...d, limitMag: limit };
+    det = { ...d, limitMag: limit, limitGivenJy: undefined }; // no longer the flux density the file gave
     const c = shiftCompleteness(d.completeness, delta);
     if (c) det.completeness = c;
   } else {

@@ -53,7 +53,9 @@ export type Detection = DetectionSelection &
     | {
         kind: 'magnitude';
         limitMag: number; // apparent AB magnitude (a Vega limit converted once; completeness too)
+        limitGivenJy?: number; // detection.limit given as a flux density, Jy (limitMag is its AB magnitude)
         bandAngstrom: number; // effective wavelength of the band (from band_file when band is not given)
+        bandGivenHz?: number; // detection.band given as a frequency, Hz (bandAngstrom = c / nu)
         beta: number; // f_lambda ~ lambda^beta
         igm: IgmModel; // default 'none'
         igmStated?: boolean; // true when the file gives detection.igm (a warning asks for it near Lyman alpha)

@@ -61,8 +61,11 @@ export const RANGES = {
   completenessWidth: { min: 1e-3, max: 5, unit: '' },
   /** Spectral slope beta (f_lambda ~ lambda^beta). */
   beta: { min: -5, max: 5, unit: '' },
-  /** Rest or observed wavelengths (line, band, rest_wavelength, filter center and fwhm), Angstrom. */
-  wavelength: { min: 1, max: 1e10, unit: 'Angstrom' },
+  /**
+   * Rest or observed wavelengths (line, band, rest_wavelength, filter center and fwhm), Angstrom: up
+   * to 10 m, so that a band given as a frequency reaches down to 30 MHz.
+   */
+  wavelength: { min: 1, max: 1e11, unit: 'Angstrom' },
   /** Histogram bin width (mag or dex). */
   histogramWidth: { min: 0.01, max: 5, unit: '' },
   /** Width/height of each field. */

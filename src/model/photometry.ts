@@ -16,6 +16,24 @@ export interface MagnitudeSystemGiven {
 }
 
 /**
+ * The AB zero point: a source of f_nu = 3631 Jy has m_AB = 0. Oke & Gunn 1983 (ApJ 266, 713)
+ * define m_AB = -2.5 log10 f_nu - 48.60 with f_nu in erg s^-1 cm^-2 Hz^-1, a zero point of
+ * 10^(-48.60 / 2.5) erg s^-1 cm^-2 Hz^-1 = 3630.8 Jy; 3631 Jy is that value as written today (common
+ * practice), 6.6e-5 mag from 48.60.
+ */
+export const AB_ZERO_POINT_JY = 3631;
+
+/** The AB magnitude of a flux density in Jy: m = -2.5 log10(f_nu / 3631 Jy). */
+export function abMagnitudeOfJy(jy: number): number {
+  return -2.5 * Math.log10(jy / AB_ZERO_POINT_JY);
+}
+
+/** The flux density in Jy of an AB magnitude (the inverse of abMagnitudeOfJy). */
+export function jyOfAbMagnitude(mag: number): number {
+  return AB_ZERO_POINT_JY * 10 ** (-0.4 * mag);
+}
+
+/**
  * A rest-frame spectrum read from a CSV file (src/survey/spectrum-file.ts): wavelengths in
  * Angstrom, strictly increasing; f_lambda in any unit (only ratios enter), 0 or more, linear
  * between rows and never extrapolated.

@@ -9,6 +9,7 @@
  */
 import type { Prediction, PredictionSlice } from '../model/outputs/prediction.js';
 import type { Survey } from '../model/survey.js';
+import { detectionLine } from './detection-text.js';
 import type { Figure, ForecastView, ModelAsWritten, PlanView, PredictionView, SliceView } from './types.js';
 import { curveAxisLabel, luminosityFunctionBand, luminosityFunctionCurve } from '../population/curves.js';
 import { DEFAULT_MODEL_SEED, drawModelOffsets } from '../counts/model-draws.js';
@@ -124,6 +125,7 @@ export function predictionViews(
     slices: (prediction.breakdown === 'redshift' ? prediction.slices : []).map((s) => sliceView(s, curve0)),
     model: single ? models[0]! : models,
     breakdown: prediction.breakdown,
+    detection_text: `${detectionLine(prediction)}${prediction.detection.completeness ? ', with completeness' : ''}`,
   };
   if (!single) {
     combined.populations = prediction.populations.map((pp) => ({

@@ -535,10 +535,10 @@ export interface LuminosityFunctionRow {
   kind: 'curve' | 'detected' | 'limit' | 'knee' | 'band';
   x: number;
   phi?: number;
-  /** Lower edge of the shaded detected part (the lowest density drawn). */
+  /** Lower edge of the shaded detected part (the bottom of the y axis). */
   floor?: number;
   label?: string;
-  /** The model band (kind 'band'): p16 (held at the lowest density drawn) and p84 of phi over the model's draws. */
+  /** The model band (kind 'band'): p16 (held at the bottom of the y axis) and p84 of phi over the model's draws. */
   lo?: number;
   hi?: number;
 }
@@ -577,14 +577,16 @@ export function luminosityFunctionRows(
   const drawn = panels.filter((q) => q.rows.length >= 2);
   if (drawn.length === 0) return null;
   const magnitude = isMagnitude(m, drawn[0]!.c);
-  const floor = Math.min(...drawn.flatMap((q) => q.rows.map((r) => r.phi)));
+  // the bottom of the y axis: the whole decade at or below the lowest density drawn (the log
+  // scale is niced to whole decades), down to which the detected part and the model band reach
+  const floor = 10 ** Math.floor(Math.log10(Math.min(...drawn.flatMap((q) => q.rows.map((r) => r.phi)))));
   const xLabel = drawn[0]!.c.x_label || (magnitude ? 'absolute AB magnitude M [mag]' : 'log₁₀ L [erg s⁻¹]');
   const kneeName = magnitude ? 'M*' : 'L*';
   const out: LuminosityFunctionRow[] = [];
   let bandDraws: number | undefined;
   for (const { i, s, c, rows } of drawn) {
     const base = { slice: i + 1, panel: `${panelLabel(s)} (at z = ${((s.z_min + s.z_max) / 2).toFixed(3)})` };
-    // the model band over the same points as the curve (p16 held at the lowest density drawn)
+    // the model band over the same points as the curve (p16 held at the bottom of the y axis)
     const b = c.band;
     if (b && Array.isArray(b.p16) && Array.isArray(b.p84))
       for (const r of rows) {
@@ -969,7 +971,27 @@ export function planSpec(plan: PlanView, surveyTitle?: string): Spec | null {
       ],
     });
   }
+  // Ranked across the model (robust: true): the goal at the pessimistic case the best was chosen by.
+  const robust = plan.robust;
+  const pessimistic = robust ? rows.filter((d) => finite(d.goal_value_pessimistic ?? NaN)) : [];
+  if (robust && pessimistic.length > 0) {
+    layer.push({
+      data: { values: pessimistic },
+      mark: { type: 'line', color: PALETTE.orange, strokeDash: [6, 4], strokeWidth: 2 },
+      encoding: {
+        x: { field: 'exposure_hours_per_pointing', type: 'quantitative' },
+        y: { field: 'goal_value_pessimistic', type: 'quantitative' },
+        tooltip: [
+          { field: 'exposure_hours_per_pointing', type: 'quantitative' },
+          { field: 'pointings', type: 'quantitative' },
+          { field: 'goal_value_pessimistic', type: 'quantitative', format: '.6~g' },
+        ],
+      },
+    });
+  }
   const parts = [`budget ${fmtShort(plan.budget_hours)} hours`, 'dots: designs compared'];
+  if (robust && pessimistic.length > 0)
+    parts.push(`dashed: at the model's p${Math.round(robust.percentile * 100)}, by which the best is ranked`);
   if (best) parts.push('diamond: best');
   if (nb) parts.push('shaded: near-best range');
   return {

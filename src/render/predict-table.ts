@@ -9,6 +9,9 @@ import type {
 } from '../model/outputs/prediction.js';
 import type { CosmologyBlock } from '../model/outputs/shared.js';
 import { uncertaintySources } from './sources.js';
+import { detectionLine } from './detection-text.js';
+
+export { detectionLine, fluxDensityText, frequencyText } from './detection-text.js';
 import { sig, zText } from './format.js';
 import { csvText, type CsvCell } from './csv.js';
 
@@ -21,36 +24,6 @@ const LIMIT_HEADINGS: Record<string, string> = {
 export function cosmologyLine(c: CosmologyBlock): string {
   const base = `flat Lambda-CDM, H0 = ${sig(c.h0)} km/s/Mpc, Omega_m = ${sig(c.omega_m)}, Omega_Lambda = ${sig(c.omega_lambda, 6)}, T_cmb = ${sig(c.t_cmb)} K`;
   return c.preset ? `${base} (preset ${c.preset}: ${c.preset_source})` : base;
-}
-
-export function detectionLine(p: Prediction): string {
-  const d = p.detection;
-  if (d.kind === 'line_flux') {
-    const f = d.filter;
-    const filter = f ? `, ${f.profile} filter at ${sig(f.center_angstrom)} A (FWHM ${sig(f.fwhm_angstrom)} A)` : '';
-    return `line flux limit ${sig(d.limit_cgs)} erg/s/cm^2${filter}`;
-  }
-  if (d.kind === 'magnitude') {
-    const given =
-      d.system === 'vega'
-        ? ` (given in Vega, AB = Vega ${d.vega_to_ab! < 0 ? '-' : '+'} ${sig(Math.abs(d.vega_to_ab!))})`
-        : '';
-    if (d.sed_file) {
-      const b = d.band;
-      const band =
-        b && b.profile !== 'table'
-          ? `a ${b.profile} band at ${sig(b.center_angstrom)} A (fwhm ${sig(b.fwhm_angstrom)} A)`
-          : `the band ${d.band_file ?? ''}`.trimEnd();
-      return `AB magnitude limit ${sig(d.limit_ab_mag)}${given} in ${band}, k-corrected with the spectrum ${d.sed_file}`;
-    }
-    return `AB magnitude limit ${sig(d.limit_ab_mag)}${given} in a band at ${sig(d.band_angstrom)} A (spectral slope beta = ${sig(d.beta)})`;
-  }
-  const q =
-    p.models[0]?.quantity ?? (p.limit_variable === 'absolute_magnitude' ? 'absolute AB magnitude' : 'the quantity');
-  const lim = d.limit;
-  const text =
-    typeof lim === 'number' ? sig(lim) : typeof lim === 'string' ? `"${lim}"` : `table ${JSON.stringify(lim.table)}`;
-  return `threshold on ${p.limit_variable === 'absolute_magnitude' ? q : `log10 ${q}`}: ${text}`;
 }
 
 export function predictionHeader(p: Prediction): string[] {

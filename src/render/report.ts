@@ -469,7 +469,12 @@ ${names
   .join('\n')}
 </tbody></table>`;
   }
-  return `<table class="numbers" id="forecast-table">
+  const left = f.populations_left_out;
+  const which =
+    left && left.length > 0
+      ? `<p class="note" id="forecast-population">The forecast is of the file's first population${f.model?.name ? `, “${escapeHtml(f.model.name)}”` : ''}, counted over its own window; ${left.map((n) => `“${escapeHtml(n)}”`).join(', ')} ${left.length === 1 ? 'is' : 'are'} not forecast (skytally forecast --population NAME forecasts another).</p>\n`
+      : '';
+  return `${which}<table class="numbers" id="forecast-table">
 <thead><tr>${heads.map((h) => `<th scope="col">${h}</th>`).join('')}</tr></thead>
 <tbody>
 ${rows}
@@ -515,16 +520,22 @@ function planTable(plan: PlanView): string {
   };
   const lo = nb ? Math.min(nb.from, nb.to) : NaN;
   const hi = nb ? Math.max(nb.from, nb.to) : NaN;
-  // The best design may come from refining between grid designs: it is listed with them.
+  const robust = plan.robust;
+  // The best design may come from refining between grid designs: it is listed with them (and,
+  // ranked across the model, the best under the assumed values too).
   const listed = [...(plan.designs ?? [])];
   if (plan.best && !listed.some((d) => same(d, plan.best))) listed.push(plan.best);
+  if (robust && !listed.some((d) => same(d, robust.best_assumed))) listed.push(robust.best_assumed);
   const designs = listed.sort((a, b) => a.exposure_hours_per_pointing - b.exposure_hours_per_pointing);
   const rows = designs
     .map((d) => {
       const best = same(d, plan.best);
       const near = nb && d.exposure_hours_per_pointing >= lo && d.exposure_hours_per_pointing <= hi;
       const cls = best ? ' class="best"' : near ? ' class="near"' : '';
-      const note = best ? 'best' : near ? 'near best' : '';
+      const assumed = robust && !robust.same_design && same(d, robust.best_assumed);
+      const note = [best ? 'best' : near ? 'near best' : '', assumed ? 'best under the assumed values' : '']
+        .filter((x) => x)
+        .join('; ');
       const cells = [
         formatNumber(d.exposure_hours_per_pointing),
         formatNumber(d.pointings),
@@ -532,6 +543,7 @@ function planTable(plan: PlanView): string {
         formatFixed(d.limit),
         formatNumber(d.count),
         formatNumber(d.goal_value),
+        ...(robust ? [d.goal_value_pessimistic === undefined ? '–' : formatNumber(d.goal_value_pessimistic)] : []),
         note,
       ];
       return `<tr${cls}>${cells.map((c) => `<td>${c}</td>`).join('')}</tr>`;
@@ -544,12 +556,20 @@ function planTable(plan: PlanView): string {
     'limit',
     'count',
     `goal value<br><span class="unit">${escapeHtml(goalWords(plan.goal))}</span>`,
+    ...(robust
+      ? [`goal at model p${Math.round(robust.percentile * 100)}<br><span class="unit">pessimistic case</span>`]
+      : []),
     '',
   ];
   const range = nb
     ? ` Designs from ${formatNumber(lo)} to ${formatNumber(hi)} hours per pointing come close to the best.`
     : '';
+  const ranked = robust
+    ? `<p id="plan-robust">Ranked across the model (<code>robust: true</code>): the best design is the one with the best goal at the model's pessimistic case, the ${Math.round(robust.percentile * 100)}th percentile over ${formatNumber(robust.draws)} ${robust.source === 'draws_file' ? 'rows of the draws file' : 'draws of model_uncertainty'}; ${robust.same_design ? 'it is also the best under the assumed values.' : `under the assumed values the best is ${formatNumber(robust.best_assumed.pointings)} pointings of ${formatNumber(robust.best_assumed.exposure_hours_per_pointing)} hours.`}</p>
+`
+    : '';
   return `<p>Goal: ${escapeHtml(goalWords(plan.goal))}; time available: ${formatNumber(plan.budget_hours)} hours.${range}</p>
+${ranked}
 <table class="numbers" id="plan-table">
 <thead><tr>${heads.map((h) => `<th scope="col">${h}</th>`).join('')}</tr></thead>
 <tbody>
@@ -674,7 +694,10 @@ export function renderReport(input: ReportInput): string {
   const layout = observed
     ? `${(p.populations ?? []).length} populations, each in its own redshift window`
     : `${p.slices.length} slice${p.slices.length === 1 ? '' : 's'}`;
-  const summary = [`area ${formatNumber(p.area_deg2)} deg²`, window, layout, cosmo].filter((s) => s).join('; ');
+  const detection = p.detection_text ? escapeHtml(p.detection_text) : '';
+  const summary = [`area ${formatNumber(p.area_deg2)} deg²`, window, detection, layout, cosmo]
+    .filter((s) => s)
+    .join('; ');
   const totalU = p.totals.uncertainty?.total_fraction;
   const headline =
     `Expected count: <strong>${formatNumber(p.totals.count)}</strong>` +

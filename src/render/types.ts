@@ -59,13 +59,17 @@ export interface PredictionView {
   /** Several populations: each one's own result over its own window. */
   populations?: (Pick<PopulationPrediction, 'name' | 'window' | 'totals'> & { slices: SliceView[] })[];
   observed_bins?: ObservedBins;
+  /** The detection in words, as the predict table's survey line gives it (src/render/detection-text.ts). */
+  detection_text?: string;
 }
 
 /** The fields of a forecast (the `forecast` result) the figure and the report read. */
 export type ForecastView = Pick<Forecast, 'parameters' | 'center'> & {
   fisher: Pick<FisherBlock, 'sigma' | 'correlation'>;
   /** What L* measures in a threshold survey (model.quantity). */
-  model?: Pick<ModelDescription, 'quantity'>;
+  model?: Pick<ModelDescription, 'quantity'> & Partial<Pick<ModelDescription, 'name'>>;
+  /** The populations not forecast: the file holds several and the first is (forecast's JSON). */
+  populations_left_out?: readonly string[];
   /** Mock fits (`fits`, columns in the order of `parameters`) and their summary per parameter. */
   mocks?: Partial<Pick<MocksBlock, 'count' | 'parameters' | 'fits'>>;
   /** The sigmas' p16-p84 across the draws of the population's model_uncertainty (forecast --model-draws). */
@@ -75,7 +79,13 @@ export type ForecastView = Pick<Forecast, 'parameters' | 'center'> & {
 /** One design of a plan as drawn and tabulated. */
 export type PlanDesignView = Pick<
   PlanDesign,
-  'exposure_hours_per_pointing' | 'pointings' | 'area_deg2' | 'limit' | 'count' | 'goal_value'
+  | 'exposure_hours_per_pointing'
+  | 'pointings'
+  | 'area_deg2'
+  | 'limit'
+  | 'count'
+  | 'goal_value'
+  | 'goal_value_pessimistic'
 >;
 
 /** The fields of a plan (the `plan` result) the figure and the report read. */
@@ -84,6 +94,10 @@ export type PlanView = Pick<Plan, 'goal' | 'budget_hours'> & {
   best?: PlanDesignView;
   /** The designs at either end of the near-best range. */
   near_best?: { from: PlanDesignView; to: PlanDesignView };
+  /** With robust: true, how the designs were ranked across the model (best is the robust best). */
+  robust?: Pick<NonNullable<Plan['robust']>, 'draws' | 'source' | 'percentile' | 'same_design'> & {
+    best_assumed: PlanDesignView;
+  };
 };
 
 /** One drawn figure. */

@@ -67,7 +67,9 @@ export function describeSurvey(survey: Survey): Omit<SurveyCheck, 'warnings'> {
     detection = clean({
       kind: d.kind,
       limit_mag: d.limitMag,
+      limit_jy: d.limitGivenJy,
       band_angstrom: d.bandAngstrom,
+      band_ghz: d.bandGivenHz === undefined ? undefined : d.bandGivenHz / 1e9,
       band_file: d.bandTable?.file,
       system: d.magnitudeSystem?.system,
       vega_to_ab: d.magnitudeSystem?.vegaToAb,

@@ -110,6 +110,14 @@ function lexicalProblem(text: string, onlySilent = false): string | undefined {
   return undefined;
 }
 
+/** The name a factor of an implicit product starts with, when it is not z (e.g. "Mpc" of "Mpc^-3"). */
+function unitName(node: MathNode): string | undefined {
+  if (node.type === 'SymbolNode') return node.name === 'z' ? undefined : node.name;
+  if (node.type === 'OperatorNode' && (node.fn === 'pow' || node.fn === 'divide' || node.fn === 'multiply'))
+    return node.args?.[0] ? unitName(node.args[0]) : undefined;
+  return undefined;
+}
+
 function short(s: string): string {
   const t = s.replace(/\s+/g, ' ').trim();
   return t.length > 40 ? t.slice(0, 37) + '...' : t;
@@ -119,10 +127,12 @@ function short(s: string): string {
  * Parse, check and compile `text`. Throws SurveyError bad_expression naming `keyPath` and the
  * offending token for anything outside the allowed set; nothing is evaluated before that check.
  */
-export function compileExpression(text: string, file: string, keyPath: string): CompiledExpression {
+export function compileExpression(written: string, file: string, keyPath: string): CompiledExpression {
+  // The typeset minus sign (U+2212) of a value pasted from a paper is a minus.
+  const text = written.replace(/\u2212/g, '-');
   const fix = `use only numbers, z, + - * / ^, parentheses and ${ALLOWED_FUNCTIONS}`;
   const reject = (what: string): never => {
-    throw inputError('bad_expression', file, keyPath, `the expression "${short(text)}" ${what}`, fix);
+    throw inputError('bad_expression', file, keyPath, `the expression "${short(written)}" ${what}`, fix);
   };
   if (text.length > MAX_EXPRESSION_LENGTH) reject(`is longer than ${MAX_EXPRESSION_LENGTH} characters`);
   if (text.trim() === '') reject('is empty');
@@ -130,6 +140,30 @@ export function compileExpression(text: string, file: string, keyPath: string): 
   // everything else outside the grammar is named by the tree check below, token by token.
   const silent = lexicalProblem(text, true);
   if (silent) reject(silent);
+  // A dash pasted where a minus is meant ("–2.06"): named, since it looks like one.
+  const dash = /[\u2010-\u2015\ufe58\ufe63\uff0d]/.exec(text);
+  if (dash) {
+    const code = dash[0].charCodeAt(0).toString(16).toUpperCase();
+    reject(`contains "${dash[0]}" (U+${code}, a dash), not the minus sign "-"`);
+  }
+  // "-2.06 +- 0.13" (a value and its error, pasted from a paper) would read as -2.06 + (-0.13).
+  // Only the two signs written together: "a + -b*z", as a program writes a negative term, is read.
+  const signs = /\+-|-\+|[±∓]|[\^_]\s*\{/.exec(text);
+  if (signs) {
+    const s = signs[0];
+    const what = s.includes('{')
+      ? 'an error as typeset (^{+a}_{-b})'
+      : /[±∓]/.test(s)
+        ? 'a value and its error'
+        : 'a sign after a sign, as a value and its error are written';
+    throw inputError(
+      'bad_expression',
+      file,
+      keyPath,
+      `the expression "${short(written)}" writes "${s}", ${what}`,
+      "give the value alone with one sign (a 1-sigma error belongs in the population's model_uncertainty)",
+    );
+  }
   let root: MathNode;
   try {
     // The common forms without building mathjs's parser; the rest (and every error) through mathjs.
@@ -156,6 +190,17 @@ export function compileExpression(text: string, file: string, keyPath: string): 
       case 'OperatorNode': {
         const args = node.args ?? [];
         if (node.implicit) {
+          const unit = args.map(unitName).find((u) => u !== undefined);
+          if (unit !== undefined) {
+            // "0.29e-3 Mpc^-3", "-20.87 mag": a unit where the key's own unit is implied.
+            throw inputError(
+              'bad_expression',
+              file,
+              keyPath,
+              `the expression "${short(written)}" writes "${short(unit)}" after a number, as a unit is written`,
+              "write the number alone, in the key's own unit (docs/survey-file.md gives each key's unit)",
+            );
+          }
           return reject(`writes "${short(node.toString())}" without a "*" between the factors`);
         }
         const c = args.map(walk);
@@ -239,5 +284,5 @@ export function compileExpression(text: string, file: string, keyPath: string): 
   if (rest) reject(rest);
   folding = true;
   const compiled = walk(root);
-  return { text, fn: compiled.fn, constant: !compiled.usesZ };
+  return { text: written, fn: compiled.fn, constant: !compiled.usesZ };
 }

@@ -21,13 +21,16 @@ export function getParser(): MathJs {
   return parser;
 }
 
-/** An instance with units; adds `sr` and `micron`, which mathjs does not know by these names. */
+/** An instance with units; adds `sr`, `micron` and `Jy`, which mathjs does not know by these names. */
 export function getUnits(): MathJs {
   if (units) return units;
   const mj = create({ unitDependencies: unitDependencies!, createUnitDependencies: createUnitDependencies! });
   // sr: the SI steradian, 1 sr = 1 rad^2 (SI brochure, 9th ed., Table 4). micron: the micrometre.
   mj.createUnit('sr', '1 rad^2');
   mj.createUnit('micron', '1 um');
+  // Jy: the jansky, 1 Jy = 1e-26 W m^-2 Hz^-1 (IAU Style Manual, Wilkins 1989, Table 7), with the
+  // short SI prefixes (mJy, uJy, nJy).
+  mj.createUnit('Jy', { definition: '1e-26 W m^-2 Hz^-1', prefixes: 'short' });
   units = mj;
   return mj;
 }

@@ -20,7 +20,14 @@ import { readTransmissionFile } from './transmission-file.js';
 import { parseModelUncertainty } from './model-uncertainty.js';
 import type { ModelParameter } from '../model/model-uncertainty.js';
 import { photoZTrueRange, readPhotoZ, type RawPhotoZ } from './photo-z.js';
-import { readDetectionPhotometry, readPopulationPhotometry, type RawBand } from './photometry.js';
+import {
+  fluxDensityMagnitude,
+  isFluxDensityText,
+  readDetectionPhotometry,
+  readPopulationPhotometry,
+  wavelengthOrFrequency,
+  type RawBand,
+} from './photometry.js';
 import {
   readDetectionSelection,
   readPopulationSelection,
@@ -373,17 +380,21 @@ function parseCompleteness(
               `${p}.half`,
             ),
           )
-        : checkRange(
-            plainNumber(
-              raw.half,
+        : kind === 'magnitude' && isFluxDensityText(raw.half)
+          ? fluxDensityMagnitude(raw.half, file, `${p}.half`).abMag
+          : checkRange(
+              plainNumber(
+                raw.half,
+                file,
+                `${p}.half`,
+                kind === 'magnitude'
+                  ? 'an AB magnitude (or a flux density with its unit)'
+                  : 'a value of the population variable',
+              ),
+              observedRange(kind, variable),
               file,
               `${p}.half`,
-              kind === 'magnitude' ? 'an AB magnitude' : 'a value of the population variable',
-            ),
-            observedRange(kind, variable),
-            file,
-            `${p}.half`,
-          );
+            );
     return { model: 'logistic', half, width: raw.width };
   }
   for (const k of ['half', 'width'] as const) {
@@ -1000,16 +1011,38 @@ function readDetection(
         'give the limiting apparent AB magnitude as a number',
       );
     }
-    const given = checkRange(
-      plainNumber(det.limit, file, 'detection.limit', 'the limiting apparent magnitude'),
-      RANGES.apparentMagnitude,
-      file,
-      'detection.limit',
-    );
+    // A flux density ("0.1 mJy") is AB by definition: its AB magnitude once, here.
+    const flux = isFluxDensityText(det.limit) ? fluxDensityMagnitude(det.limit, file, 'detection.limit') : undefined;
+    const given =
+      flux?.abMag ??
+      checkRange(
+        plainNumber(det.limit, file, 'detection.limit', 'the limiting apparent magnitude'),
+        RANGES.apparentMagnitude,
+        file,
+        'detection.limit',
+      );
     const phot = readDetectionPhotometry(det, file, base, inputs);
+    if (phot.toAb !== 0 || phot.magnitudeSystem) {
+      const key = flux
+        ? 'detection.limit'
+        : isFluxDensityText(det.completeness?.half)
+          ? 'detection.completeness.half'
+          : '';
+      if (key) {
+        throw inputError(
+          'conflict',
+          file,
+          key,
+          'is a flux density, which has an AB magnitude of its own, but detection.system is vega',
+          'give it as a Vega magnitude, or give every magnitude in AB and remove system and vega_to_ab',
+        );
+      }
+    }
     const beta = checkRange(det.beta ?? -2, RANGES.beta, file, 'detection.beta');
     // Vega magnitudes become AB once, here: the limit and the completeness (src/survey/photometry.ts).
     detection = { kind, limitMag: given + phot.toAb, bandAngstrom: phot.bandAngstrom, beta, igm: det.igm ?? 'none' };
+    if (flux) detection.limitGivenJy = flux.jy;
+    if (phot.bandGivenHz !== undefined) detection.bandGivenHz = phot.bandGivenHz;
     if (det.igm !== undefined) detection.igmStated = true;
     if (phot.bandTable) detection.bandTable = phot.bandTable;
     if (phot.sed) detection.sed = phot.sed;
@@ -1073,7 +1106,14 @@ function buildPopulation(
   if (!(occupation > 0 && occupation <= 1))
     outOfRange(file, `${path}.occupation`, `is ${fmt(occupation)}`, 'give a fraction above 0 and at most 1');
   const restWavelengthAngstrom =
-    p.rest_wavelength !== undefined ? wavelength(p.rest_wavelength, file, `${path}.rest_wavelength`) : 1500;
+    p.rest_wavelength !== undefined
+      ? wavelengthOrFrequency(
+          p.rest_wavelength,
+          file,
+          `${path}.rest_wavelength`,
+          'the rest wavelength of the absolute magnitudes',
+        ).angstrom
+      : 1500;
   const pop: Population = {
     name: populationName(p, i, count),
     shape: p.shape ?? 'schechter',

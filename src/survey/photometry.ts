@@ -9,9 +9,16 @@
 import { excerpt, inputError } from '../errors.js';
 import type { Filter } from '../model/detection.js';
 import type { InputFile } from '../model/survey.js';
-import type { MagnitudeSystemGiven, RestFrame, SedPhotometry } from '../model/photometry.js';
+import {
+  abMagnitudeOfJy,
+  jyOfAbMagnitude,
+  type MagnitudeSystemGiven,
+  type RestFrame,
+  type SedPhotometry,
+} from '../model/photometry.js';
 import { RANGES, describeRange, inRange } from '../model/limits.js';
-import { parseQuantity } from './units.js';
+import { SPEED_OF_LIGHT_M_S } from '../cosmology/constants.js';
+import { isPlainNumberString, parseQuantity, parseQuantityOneOf } from './units.js';
 import { readTransmissionFile } from './transmission-file.js';
 import { readSpectrumFile } from './spectrum-file.js';
 import { bandSupport, checkSpectrumCoverage, tableFwhm, tableMeanWavelength } from '../selection/filter.js';
@@ -46,7 +53,10 @@ export interface RawPhotometryPopulation {
 export const MAX_VEGA_TO_AB = 5;
 
 function wavelength(v: Q, file: string, path: string): number {
-  const x = parseQuantity(v, 'wavelength', file, path);
+  return checkWavelength(parseQuantity(v, 'wavelength', file, path), file, path);
+}
+
+function checkWavelength(x: number, file: string, path: string): number {
   if (!(x > 0) || !inRange(x, RANGES.wavelength)) {
     throw inputError(
       'out_of_range',
@@ -57,6 +67,78 @@ function wavelength(v: Q, file: string, path: string): number {
     );
   }
   return x;
+}
+
+/**
+ * detection.band (or a population's rest_wavelength) as one value: a wavelength (Angstrom, or with
+ * a unit) or a frequency with its unit ("1.4 GHz", "345 GHz"), whose wavelength is lambda = c / nu
+ * with c = 299,792,458 m/s exactly (SI).
+ */
+export function wavelengthOrFrequency(
+  v: Q,
+  file: string,
+  path: string,
+  what: string,
+): { angstrom: number; hz?: number } {
+  const q = parseQuantityOneOf(
+    v,
+    ['wavelength', 'frequency'],
+    file,
+    path,
+    `give ${what} in Angstrom as a number, or a wavelength or a frequency with its unit, e.g. 15000, "850 um" or "1.4 GHz"`,
+  );
+  if (q.kind === 'wavelength') return { angstrom: checkWavelength(q.value, file, path) };
+  const hz = q.value;
+  const angstrom = (SPEED_OF_LIGHT_M_S / hz) * 1e10;
+  if (!(hz > 0) || !inRange(angstrom, RANGES.wavelength)) {
+    throw inputError(
+      'out_of_range',
+      file,
+      path,
+      hz > 0
+        ? `is ${fmt(hz)} Hz, a wavelength c / nu of ${fmt(angstrom)} Angstrom, outside its physical range (${describeRange(RANGES.wavelength)})`
+        : `is ${fmt(hz)} Hz, but a band's frequency must be above 0`,
+      hz > 0 ? 'give a frequency whose wavelength lies in that range' : 'give a positive frequency',
+    );
+  }
+  return { angstrom, hz };
+}
+
+/** True when a magnitude key holds a text that is not a plain number: a flux density with its unit. */
+export function isFluxDensityText(v: unknown): v is string {
+  return typeof v === 'string' && !isPlainNumberString(v);
+}
+
+/**
+ * A magnitude key (the magnitude kind's limit or completeness half) given as a flux density with
+ * its unit ("0.1 mJy", "25 nJy", "1e-29 erg s^-1 cm^-2 Hz^-1"): the value in Jy and its AB
+ * magnitude m = -2.5 log10(f_nu / 3631 Jy), inside the apparent-magnitude range.
+ */
+export function fluxDensityMagnitude(text: string, file: string, path: string): { jy: number; abMag: number } {
+  const fix = 'give an AB magnitude as a number, or a flux density with its unit, e.g. 24.5, "0.1 mJy" or "2 uJy"';
+  const jy = parseQuantityOneOf(text, ['fluxDensity'], file, path, fix).value;
+  const shown = excerpt(text, 60);
+  if (!(jy > 0)) {
+    throw inputError(
+      'out_of_range',
+      file,
+      path,
+      `"${shown}" is ${fmt(jy)} Jy, but a flux density has an AB magnitude only above 0`,
+      'give a positive flux density',
+    );
+  }
+  const abMag = abMagnitudeOfJy(jy);
+  if (!inRange(abMag, RANGES.apparentMagnitude)) {
+    const r = RANGES.apparentMagnitude;
+    throw inputError(
+      'out_of_range',
+      file,
+      path,
+      `"${shown}" is ${fmt(jy)} Jy, AB magnitude ${fmt(abMag)}, outside its physical range (${describeRange(r)}: ${fmt(jyOfAbMagnitude(r.min))} Jy down to ${fmt(jyOfAbMagnitude(r.max))} Jy)`,
+      'give a flux density in that range',
+    );
+  }
+  return { jy, abMag };
 }
 
 /** A band {center, fwhm, profile} or {file} at `path` (file relative to the survey file). */
@@ -144,6 +226,8 @@ function readSystem(
 /** What the magnitude kind's photometry keys give the detection. */
 export interface DetectionPhotometry {
   bandAngstrom: number;
+  /** detection.band given as a frequency, Hz. */
+  bandGivenHz?: number;
   bandTable?: Filter['table'];
   sed?: SedPhotometry;
   magnitudeSystem?: MagnitudeSystemGiven;
@@ -202,9 +286,12 @@ export function readDetectionPhotometry(
         'give the effective wavelength of the band (Angstrom or with a unit), or a band_file',
       );
     }
-    const bandAngstrom =
-      det.band !== undefined ? wavelength(det.band as Q, file, 'detection.band') : tableMeanWavelength(bandTable!);
-    const out: DetectionPhotometry = { bandAngstrom, toAb };
+    const band =
+      det.band !== undefined
+        ? wavelengthOrFrequency(det.band as Q, file, 'detection.band', 'the effective wavelength of the band')
+        : undefined;
+    const out: DetectionPhotometry = { bandAngstrom: band ? band.angstrom : tableMeanWavelength(bandTable!), toAb };
+    if (band?.hz !== undefined) out.bandGivenHz = band.hz;
     if (bandTable) out.bandTable = bandTable;
     if (magnitudeSystem) out.magnitudeSystem = magnitudeSystem;
     return out;
@@ -322,7 +409,12 @@ export function readPopulationPhotometry(
     out.restBand = readBand(p.rest_band, `${path}.rest_band`, file, base, inputs);
     out.restWavelengthAngstrom = out.restBand.centerAngstrom;
   } else if (p.rest_wavelength !== undefined) {
-    out.restWavelengthAngstrom = wavelength(p.rest_wavelength, file, `${path}.rest_wavelength`);
+    out.restWavelengthAngstrom = wavelengthOrFrequency(
+      p.rest_wavelength,
+      file,
+      `${path}.rest_wavelength`,
+      'the rest wavelength of the absolute magnitudes',
+    ).angstrom;
   }
   if (sed) {
     const rest: RestFrame = out.restBand

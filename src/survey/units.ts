@@ -10,7 +10,7 @@ import { excerpt, inputError } from '../errors.js';
 import type * as MathJsModule from 'mathjs';
 import { getUnits } from './mathjs.js';
 
-export type QuantityKind = 'area' | 'wavelength' | 'flux' | 'time';
+export type QuantityKind = 'area' | 'wavelength' | 'flux' | 'time' | 'fluxDensity' | 'frequency';
 
 interface KindInfo {
   /** mathjs unit the plain number is in. */
@@ -32,6 +32,15 @@ export const QUANTITY_KINDS: Record<QuantityKind, KindInfo> = {
     examples: '5e-17, "5e-17 erg/s/cm^2" or "5e-20 W/m^2"',
   },
   time: { unit: 'h', label: 'hours', what: 'a time', examples: '3, "3 h" or "90 min"' },
+  // A flux density and a frequency are always written with a unit: a plain number at their keys
+  // is an AB magnitude (detection.limit) or a wavelength (detection.band).
+  fluxDensity: {
+    unit: 'Jy',
+    label: 'Jy',
+    what: 'a flux density',
+    examples: '"0.1 mJy", "2 uJy" or "1e-29 erg s^-1 cm^-2 Hz^-1"',
+  },
+  frequency: { unit: 'Hz', label: 'Hz', what: 'a frequency', examples: '"1.4 GHz" or "345 GHz"' },
 };
 
 /** Longest quantity string read ("2.1 deg^2" is 9 characters). */
@@ -51,7 +60,7 @@ function normaliseUnitNames(s: string): string {
       .replace(/Å/g, ' angstrom')
       .replace(/\bangstroms?\b/gi, 'angstrom')
       .replace(/\bmicrons?\b/gi, 'micron')
-      .replace(/[µμ]m\b/g, 'um')
+      .replace(/[µμ](m|Jy)\b/g, 'u$1')
       // "deg2", "arcmin2", "arcsec2": the squared angles as catalogues and papers often write them
       // (mathjs reads "cm2" and "m2" as areas itself, but knows no "deg2")
       .replace(/\b(deg|arcmin|arcsec)2\b/g, '$1^2')
@@ -72,19 +81,37 @@ export function isPlainNumberString(s: string): boolean {
 
 /**
  * Turn a number or a string with a unit into a plain number in the kind's unit
- * (deg^2, Angstrom, erg/s/cm^2 or hours). A bare number string ("2.5") is read in that unit.
+ * (deg^2, Angstrom, erg/s/cm^2, hours, Jy or Hz). A bare number string ("2.5") is read in that unit.
  * Throws SurveyError bad_unit otherwise.
  */
 export function parseQuantity(value: number | string, kind: QuantityKind, file: string, keyPath: string): number {
-  const info = QUANTITY_KINDS[kind];
-  if (typeof value === 'number') return value;
+  return parseQuantityOneOf(value, [kind], file, keyPath).value;
+}
+
+/**
+ * A number or a string with a unit of one of `kinds` (a band may be a wavelength or a frequency):
+ * the kind the unit is of and the value in that kind's unit. A plain number (or a bare number
+ * string) is read as the first kind. `fix` replaces the default fix of the messages.
+ */
+export function parseQuantityOneOf<K extends QuantityKind>(
+  value: number | string,
+  kinds: readonly [K, ...K[]],
+  file: string,
+  keyPath: string,
+  fixText?: string,
+): { kind: K; value: number } {
+  const infos = kinds.map((k) => QUANTITY_KINDS[k]);
+  const what = infos.map((i) => i.what).join(' or ');
+  const label = infos.map((i) => i.label).join(' or ');
+  if (typeof value === 'number') return { kind: kinds[0], value };
   const text = value.trim();
-  const fix = `write ${info.what} in ${info.label} as a number, or with a unit, e.g. ${info.examples}`;
+  const fix =
+    fixText ?? `write ${what} in ${label} as a number, or with a unit, e.g. ${infos.map((i) => i.examples).join('; ')}`;
   if (PLAIN_NUMBER.test(text)) {
     const v = Number(text);
     if (!Number.isFinite(v))
       throw inputError('not_finite', file, keyPath, `"${excerpt(text)}" is not a finite number`, fix);
-    return v;
+    return { kind: kinds[0], value: v };
   }
   if (text.length > MAX_QUANTITY_LENGTH) {
     throw inputError(
@@ -99,38 +126,36 @@ export function parseQuantity(value: number | string, kind: QuantityKind, file: 
   if (!LEADING_NUMBER.test(text)) {
     throw inputError('bad_unit', file, keyPath, `"${shown}" does not start with a number`, fix);
   }
-  const quick = commonQuantity(normaliseUnitNames(text), kind);
-  if (quick !== undefined) {
-    if (!Number.isFinite(quick))
-      throw inputError('not_finite', file, keyPath, `"${shown}" is not a finite quantity`, fix);
-    return quick;
+  const normalised = normaliseUnitNames(text);
+  for (const kind of kinds) {
+    const quick = commonQuantity(normalised, kind);
+    if (quick !== undefined) {
+      if (!Number.isFinite(quick))
+        throw inputError('not_finite', file, keyPath, `"${shown}" is not a finite quantity`, fix);
+      return { kind, value: quick };
+    }
   }
   const math = getUnits();
   let u: MathJsModule.Unit;
   try {
-    u = math.unit(normaliseUnitNames(text));
+    u = math.unit(normalised);
   } catch {
     throw inputError('bad_unit', file, keyPath, `"${shown}" is not a number with a unit this tool knows`, fix);
   }
   if ((u as unknown as { value: unknown }).value === null) {
     throw inputError('bad_unit', file, keyPath, `"${shown}" has no number`, fix);
   }
-  if (!u.equalBase(math.unit(info.unit))) {
-    throw inputError(
-      'bad_unit',
-      file,
-      keyPath,
-      `"${shown}" is not ${info.what} (expected a unit like ${info.label})`,
-      fix,
-    );
+  const kind = kinds.find((k) => u.equalBase(math.unit(QUANTITY_KINDS[k].unit)));
+  if (kind === undefined) {
+    throw inputError('bad_unit', file, keyPath, `"${shown}" is not ${what} (expected a unit like ${label})`, fix);
   }
   // Rounded to 15 significant digits: removes the last-bit noise of going through SI base units
   // (e.g. "1.19 um" -> 11900, not 11899.999999999998); far below any physical precision.
-  const v = Number(u.toNumber(info.unit).toPrecision(15));
+  const v = Number(u.toNumber(QUANTITY_KINDS[kind].unit).toPrecision(15));
   if (!Number.isFinite(v)) {
     throw inputError('not_finite', file, keyPath, `"${shown}" is not a finite quantity`, fix);
   }
-  return v;
+  return { kind, value: v };
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -159,8 +184,11 @@ const LENGTH: Dims = [1, 0, 0, 0];
 const TIME: Dims = [0, 0, 1, 0];
 const ENERGY: Dims = [2, 1, -2, 0];
 const POWER: Dims = [2, 1, -3, 0];
+const FREQUENCY: Dims = [0, 0, -1, 0];
+/** W m^-2 Hz^-1 = kg s^-2. */
+const FLUX_DENSITY: Dims = [0, 1, -2, 0];
 
-/** Values as mathjs 15 defines them (Unit.js: UNITS, PREFIXES, calculateAngleValues; sr and micron as getUnits creates them). */
+/** Values as mathjs 15 defines them (Unit.js: UNITS, PREFIXES, calculateAngleValues; sr, micron and Jy as getUnits creates them). */
 const QUICK_UNITS: Record<string, QuickUnit> = {
   deg: { value: Math.PI / 180, prefix: 1, dims: ANGLE },
   arcmin: { value: Math.PI / 10800, prefix: 1, dims: ANGLE },
@@ -182,6 +210,16 @@ const QUICK_UNITS: Record<string, QuickUnit> = {
   minute: { value: 60, prefix: 1, dims: TIME },
   h: { value: 3600, prefix: 1, dims: TIME },
   hour: { value: 3600, prefix: 1, dims: TIME },
+  Hz: { value: 1, prefix: 1, dims: FREQUENCY },
+  kHz: { value: 1, prefix: 1e3, dims: FREQUENCY },
+  MHz: { value: 1, prefix: 1e6, dims: FREQUENCY },
+  GHz: { value: 1, prefix: 1e9, dims: FREQUENCY },
+  THz: { value: 1, prefix: 1e12, dims: FREQUENCY },
+  // the jansky as getUnits creates it (1 Jy = 1e-26 W m^-2 Hz^-1, with mathjs's short prefixes)
+  Jy: { value: 1e-26, prefix: 1, dims: FLUX_DENSITY },
+  mJy: { value: 1e-26, prefix: 1e-3, dims: FLUX_DENSITY },
+  uJy: { value: 1e-26, prefix: 1e-6, dims: FLUX_DENSITY },
+  nJy: { value: 1e-26, prefix: 1e-9, dims: FLUX_DENSITY },
 };
 
 /** The kinds' units (QUANTITY_KINDS[kind].unit) as lists of [unit, power]. */
@@ -194,6 +232,8 @@ const QUICK_TARGETS: Record<QuantityKind, [QuickUnit, number][]> = {
     [QUICK_UNITS.cm!, -2],
   ],
   time: [[QUICK_UNITS.h!, 1]],
+  fluxDensity: [[QUICK_UNITS.Jy!, 1]],
+  frequency: [[QUICK_UNITS.Hz!, 1]],
 };
 
 // (mathjs skips only spaces and tabs between the parts)

@@ -222,6 +222,22 @@ describe.each(SAMPLES)('%s: figures draw the numbers of predict --format json', 
     expect(html).not.toMatch(/NaN|Infinity/);
   });
 
+  test("the summary states the detection as predict's survey line does (failed before: the limit appeared only in the file as written)", async () => {
+    const t = await sampleCommand(['predict', `samples/${sample}`]);
+    expect(t.code).toBe(0);
+    const line = t.stdout.split('\n').find((l) => l.startsWith('Survey: '))!;
+    // the survey line after its area and window: the detection, with its limit
+    const detection = line
+      .slice(line.search(/ to [^,]+(?: \(each population over its own window\))?, /))
+      .replace(/^ to [^,]+(?: \(each population over its own window\))?, /, '');
+    expect(detection).toMatch(/limit|threshold/);
+    const summary = /<p class="summary">(.*?)<\/p>/
+      .exec(html)![1]!
+      .replace(/&quot;/g, '"')
+      .replace(/&amp;/g, '&');
+    expect(summary).toContain(`; ${detection};`);
+  });
+
   test('"Schechter" is capitalised and plan goals are in words (failed before: "schechter function", "sigma_alpha")', () => {
     // outside the survey file as written (which may say shape: schechter), every Schechter is capitalised
     const shown = html.replace(/<pre class="survey">[\s\S]*?<\/pre>/, '');

@@ -190,3 +190,38 @@ describe('controls', () => {
     expect(existsSync(out)).toBe(false);
   });
 });
+
+describe('a limit given as a flux density (docs/survey-file.md, "Flux densities and frequencies")', () => {
+  const text = [
+    'format: 1',
+    'title: radio (demo)',
+    'cosmology: {h0: 70, omega_m: 0.3}',
+    'area: 2',
+    'redshift: {min: 0.1, max: 3}',
+    'detection:',
+    '  kind: magnitude',
+    '  limit: "50 uJy"   # 5 sigma',
+    '  band: "1.4 GHz"',
+    '  beta: -1.3',
+    'population: {variable: magnitude, rest_wavelength: "1.4 GHz", phi_star: 1.0e-3, m_star: -22, alpha: -1.3}',
+    'slices: {count: 3}',
+    '',
+  ].join('\n');
+  const survey = loadSurveyText(text, 'radio.yaml');
+
+  test('the control is in AB mag, and the file written once it is moved gives the AB magnitude', () => {
+    const controls = exploreControls(parseYaml(text, 'radio.yaml'), survey);
+    const c = controls.find((x) => x.key === 'detection.limit')!;
+    expect(c.unit).toBe('AB mag');
+    // m = -2.5 log10(5e-5 Jy / 3631 Jy): the loader's own conversion
+    expect(c.value).toBe(survey.detection.kind === 'magnitude' ? survey.detection.limitMag : NaN);
+    expect(c.value).toBeCloseTo(19.6526, 4);
+    const written = settingsText(text, controls, new Map([['detection.limit', 20.25]]));
+    expect(written).toBe(text.replace('"50 uJy"', '20.25'));
+    const d = loadSurveyText(written, 'radio.yaml').detection;
+    expect(d.kind === 'magnitude' && d.limitMag).toBe(20.25);
+    expect(d.kind === 'magnitude' && d.limitGivenJy).toBeUndefined();
+    // nothing moved: the file as written
+    expect(settingsText(text, controls, new Map())).toBe(text);
+  });
+});

@@ -100,6 +100,41 @@ describe('forecast --population NAME = the forecast of a file holding NAME alone
     expect(named.stdout).not.toContain('Population: the file holds');
     expect(r.stdout.replace(`${lines[at + 1]}\n`, '')).toBe(named.stdout);
   });
+
+  test('without --population the JSON names the populations left out, and the report says so (failed before: the JSON had no word of them)', async () => {
+    const r = await runCli(['forecast', SAMPLE, '--no-cosmic-variance', '--format', 'json']);
+    expect(r.code, r.stderr).toBe(0);
+    const f = JSON.parse(r.stdout) as { model: { name: string }; populations_left_out?: string[] };
+    expect(f.model.name).toBe('H-alpha');
+    expect(f.populations_left_out).toEqual(['[OIII]', '[OII]']);
+    // named: none left out, and otherwise the same document
+    const named = await runCli([
+      'forecast',
+      SAMPLE,
+      '--no-cosmic-variance',
+      '--format',
+      'json',
+      '--population',
+      'H-alpha',
+    ]);
+    const g = JSON.parse(named.stdout) as Record<string, unknown>;
+    expect(g.populations_left_out).toBeUndefined();
+    const { populations_left_out: _left, ...rest } = f;
+    expect(rest).toEqual(g);
+    // the library: the same without a population, nothing when one is named or the file holds one
+    const multi = loadSurveyFile(together());
+    expect((await forecast(multi, { cosmicVariance: false })).populations_left_out).toEqual(['[OIII]', '[OII]']);
+    expect(
+      (await forecast(multi, { cosmicVariance: false, population: '[OII]' })).populations_left_out,
+    ).toBeUndefined();
+    expect((await forecast(loadSurveyFile(alone(0)), { cosmicVariance: false })).populations_left_out).toBeUndefined();
+    // the report's forecast section names them too
+    const html = await runCli(['report', SAMPLE, '--out', '-']);
+    expect(html.code, html.stderr).toBe(0);
+    expect(html.stdout).toMatch(
+      /<p class="note" id="forecast-population">The forecast is of the file's first population, “H-alpha”, counted over its own window; “\[OIII\]”, “\[OII\]” are not forecast/,
+    );
+  });
 });
 
 describe('compare and plan pick a population the same way (1e-9)', () => {

@@ -119,7 +119,15 @@ describe('the luminosity-function band: p16 and p84 of phi over the same seeded 
     }));
     const bands = rows.filter((r) => r.kind === 'band');
     expect(bands.length).toBeGreaterThan(20 * p.slices.length);
-    const floor = Math.min(...rows.filter((r) => r.kind === 'curve').map((r) => r.phi!));
+    // p16 is held at the bottom of the y axis: the whole decade at or below the lowest density
+    // drawn (the log axis is niced to whole decades), so the band reaches the axis (it stopped at
+    // the curve's lowest value before)
+    const lowest = Math.min(...rows.filter((r) => r.kind === 'curve').map((r) => r.phi!));
+    const floor = 10 ** Math.floor(Math.log10(lowest));
+    expect(floor).toBeLessThanOrEqual(lowest);
+    expect(floor).toBeGreaterThan(lowest / 10);
+    expect(bands.some((r) => r.lo! < lowest)).toBe(true);
+    for (const r of rows.filter((q) => q.kind === 'detected')) expect(r.floor).toBe(floor);
     for (const r of bands) {
       const s = p.slices[r.slice - 1]!;
       const z = 0.5 * (s.z_min + s.z_max);

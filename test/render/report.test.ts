@@ -227,6 +227,59 @@ describe('renderReport', () => {
     expect(bare).not.toContain('id="figures"');
   });
 
+  test('a plan ranked across the model (robust: true) says so, shows the goal at the pessimistic case and names the best under the assumed values', () => {
+    // invented: the pessimistic goal (a count, so its 16th percentile) falls faster with depth,
+    // so the robust best (the largest pessimistic count) is a shallower design than the assumed best
+    const base = demoPlan();
+    const designs = base.designs.map((d, i) => ({ ...d, goal_value_pessimistic: d.goal_value * (1 - 0.12 * i) }));
+    const byAssumed = designs.reduce((a, b) => (b.goal_value > a.goal_value ? b : a));
+    const byRobust = designs.reduce((a, b) => (b.goal_value_pessimistic > a.goal_value_pessimistic ? b : a));
+    expect(byRobust).not.toBe(byAssumed);
+    const plan = {
+      ...base,
+      designs,
+      best: byRobust,
+      robust: { draws: 200, source: 'normal' as const, percentile: 0.16, same_design: false, best_assumed: byAssumed },
+    };
+    const doc = renderReport({
+      surveyText: 'x',
+      surveyTitle: 't',
+      prediction: demoPrediction({ slices: 2 }),
+      plan,
+      figures: [],
+    });
+    expect(doc).toContain('<p id="plan-robust">Ranked across the model');
+    expect(doc).toContain('the 16th percentile over 200 draws of model_uncertainty');
+    expect(doc).toContain(
+      `under the assumed values the best is ${byAssumed.pointings} pointings of ${formatNumber(byAssumed.exposure_hours_per_pointing)} hours.`,
+    );
+    expect(doc).toContain('goal at model p16');
+    // one row per design, each with its pessimistic goal; the robust best marked best, the
+    // assumed best named in its row
+    const rows = [...doc.matchAll(/<tr(?: class="[a-z]+")?><td>.*?<\/tr>/g)].map((m) => m[0]);
+    const planRows = rows.filter((r) =>
+      designs.some((d) => r.includes(`<td>${formatNumber(d.goal_value_pessimistic)}</td>`)),
+    );
+    expect(planRows).toHaveLength(designs.length);
+    const best = planRows.filter((r) => r.startsWith('<tr class="best">'));
+    expect(best).toHaveLength(1);
+    expect(best[0]).toContain(`<td>${formatNumber(byRobust.goal_value_pessimistic)}</td><td>best</td>`);
+    expect(planRows.filter((r) => r.includes('best under the assumed values'))).toHaveLength(1);
+    expect(planRows.find((r) => r.includes('best under the assumed values'))).toContain(
+      `<td>${formatNumber(byAssumed.goal_value)}</td>`,
+    );
+    // without robust, none of it
+    const plain = renderReport({
+      surveyText: 'x',
+      surveyTitle: 't',
+      prediction: demoPrediction({ slices: 2 }),
+      plan: base,
+      figures: [],
+    });
+    expect(plain).not.toContain('plan-robust');
+    expect(plain).not.toContain('goal at model');
+  });
+
   test('every figure is embedded once, as inline SVG without namespace URLs', async () => {
     const doc = await html();
     // the clip-path and gradient ids are numbered again over the document (next test)

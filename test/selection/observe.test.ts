@@ -42,6 +42,26 @@ describe('magnitude kind: apparent minus absolute (AB zero point, Oke & Gunn 198
   });
 });
 
+describe('a radio spectrum f_nu ~ nu^a is beta = -(2 + a) (docs/survey-file.md, "Flux densities and frequencies")', () => {
+  // common practice (radio K-correction): S_nu = (1 + z)^(1 + a) L_nu / (4 pi D_L^2), with L_nu the
+  // rest-frame luminosity density at the observed frequency; here in SI and Jy, AB through 3631 Jy.
+  test.each([
+    [0.1, -0.7],
+    [1.0, -0.7],
+    [3.0, -0.7],
+    [2.0, -0.8],
+    [0.5, 0],
+  ])('z = %f, a = %f, 1.4 GHz observed and rest', (z, a) => {
+    const band = (SPEED_OF_LIGHT_M_S / 1.4e9) * 1e10; // Angstrom
+    const lnu = 1e23; // W Hz^-1 at 1.4 GHz
+    const ab = (wPerM2Hz: number) => -2.5 * Math.log10(wPerM2Hz / 1e-26 / 3631);
+    const M = ab(lnu / (4 * Math.PI * (10 * PC_CM * 1e-2) ** 2));
+    const dl = cosmo.luminosityDistanceMpc(z) * MPC_CM * 1e-2; // m
+    const expected = ab(((1 + z) ** (1 + a) * lnu) / (4 * Math.PI * dl * dl));
+    expect(M + apparentMinusAbsolute(cosmo, z, band, band, -(2 + a))).toBeCloseTo(expected, 10);
+  });
+});
+
 describe('line_flux kind: limit in luminosity = 4 pi D_L^2 F / T (docs/survey-file.md)', () => {
   const pop = { lineAngstrom: 6563 } as unknown as Population;
   test('no filter', () => {

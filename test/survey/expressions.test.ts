@@ -100,4 +100,77 @@ describe('anything else is rejected before it is evaluated', () => {
     expect(msg('cos(z)')).toContain('"cos"');
     expect(msg('2z')).toContain('"2 z"');
   });
+
+  test('a value and its error pasted from a paper ("-2.06 +- 0.13") is refused, not read as -2.19 (the notation docs/survey-file.md itself uses for errors)', () => {
+    const msg = (t: string) => {
+      try {
+        return String(compileExpression(t, F, 'population.alpha').fn(0));
+      } catch (e) {
+        expect((e as SurveyError).code).toBe('bad_expression');
+        return (e as Error).message;
+      }
+    };
+    for (const [t, sign] of [
+      ['-2.06 +- 0.13', '+-'],
+      ['-2.06 -+ 0.13', '-+'],
+      ['-2.06+-0.13', '+-'],
+      ['-1.5 - 0.1*z +-0.2', '+-'],
+      ['z -+1', '-+'],
+    ]) {
+      expect(msg(t!)).toContain(`writes "${sign}"`);
+      expect(msg(t!)).toContain('model_uncertainty');
+    }
+    // signs apart (a negative term as a program writes it: failed when every "+ -" was refused),
+    // doubled minus signs, an exponent's sign and unary plus stay as they were
+    expect(msg('-1.45 + -0.1*z')).toBe('-1.45');
+    expect(compileExpression('-1.45 + -0.1*z', F, 'population.alpha').fn(2)).toBe(-1.45 + -0.1 * 2);
+    expect(msg('z - +1')).toBe('-1');
+    expect(msg('1 + +z')).toBe('1');
+    expect(msg('1 - -2')).toBe('3');
+    expect(msg('2e-3 + 1')).toBe(String(2e-3 + 1));
+    expect(msg('-2.06 + 0.1*z - 0.3')).toBe(String(-2.06 + 0 - 0.3));
+  });
+
+  test('pasted from a paper: the typeset minus sign (U+2212) is a minus; a dash, "±" and a typeset error ^{+a}_{-b} are named', () => {
+    const value = (t: string) => compileExpression(t, F, 'population.alpha').fn(2);
+    // U+2212 reads as "-" (the same closure values as the ASCII text)
+    expect(value('\u22122.06')).toBe(-2.06);
+    expect(value('-2.06 \u2212 0.1*z')).toBe(value('-2.06 - 0.1*z'));
+    expect(value('10^(\u22122.9 \u2212 0.25*(z \u2212 6))')).toBe(value('10^(-2.9 - 0.25*(z - 6))'));
+    expect(compileExpression('\u22122.06', F, 'k').text).toBe('\u22122.06'); // kept as written
+    const msg = (t: string) => {
+      try {
+        compileExpression(t, F, 'population.alpha');
+      } catch (e) {
+        expect((e as SurveyError).code).toBe('bad_expression');
+        return (e as Error).message;
+      }
+      return '';
+    };
+    expect(msg('\u20132.06')).toContain('contains "\u2013" (U+2013, a dash), not the minus sign "-"');
+    expect(msg('-2.06 \u2014 0.1*z')).toContain('(U+2014, a dash)');
+    expect(msg('-2.06 \u00b1 0.13')).toContain('writes "\u00b1", a value and its error');
+    expect(msg('\u22122.06 +\u2212 0.13')).toContain('writes "+-"');
+    expect(msg('-2.06^{+0.13}_{-0.10}')).toContain('writes "^{", an error as typeset');
+    for (const t of ['-2.06 \u00b1 0.13', '-2.06^{+0.13}_{-0.10}']) expect(msg(t)).toContain('model_uncertainty');
+  });
+
+  test('a unit after a number ("0.29e-3 Mpc^-3", "-20.87 mag") is named as a unit, not as a missing "*"', () => {
+    const msg = (t: string) => {
+      try {
+        compileExpression(t, F, 'population.phi_star');
+      } catch (e) {
+        return (e as Error).message;
+      }
+      return '';
+    };
+    expect(msg('0.29e-3 Mpc^-3')).toContain('writes "Mpc" after a number, as a unit is written');
+    expect(msg('-20.87 mag')).toContain('writes "mag" after a number, as a unit is written');
+    expect(msg('1e-3 Mpc^-3 / 2')).toContain('"Mpc"');
+    expect(msg('-20.87 mag')).toContain("the key's own unit");
+    // a missing "*" before z, or between brackets, keeps its own message
+    expect(msg('2 z')).toContain('without a "*"');
+    expect(msg('(1 + z)(2 + z)')).toContain('without a "*"');
+    expect(msg('2 cm')).not.toContain('without a "*"');
+  });
 });

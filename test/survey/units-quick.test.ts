@@ -50,6 +50,19 @@ const EXPRESSIONS: Record<QuantityKind, string[]> = {
     'erg*s^-1*cm^-2',
   ],
   time: ['h', 'hour', 'min', 'minute', 's', 'h^1', 's^2/s'],
+  fluxDensity: [
+    'Jy',
+    'mJy',
+    'uJy',
+    'nJy',
+    'erg s^-1 cm^-2 Hz^-1',
+    'erg/s/cm^2/Hz',
+    'W m^-2 Hz^-1',
+    'W/m^2/Hz',
+    'Jy^1',
+    'mJy*GHz/GHz',
+  ],
+  frequency: ['Hz', 'kHz', 'MHz', 'GHz', 'THz', 'GHz^1', 'MHz*s/s'],
 };
 
 /** Decimal strings as people write them: a few significant digits, any exponent. */
@@ -97,6 +110,13 @@ describe('quick unit conversions equal mathjs bit for bit (tolerance 0)', () => 
       ['900 arcmin^2', 'area'],
       ['90 min', 'time'],
       ['5e-20 W/m^2', 'flux'],
+      ['0.1 mJy', 'fluxDensity'],
+      ['25 nJy', 'fluxDensity'],
+      ['2 uJy', 'fluxDensity'],
+      ['1e-29 erg s^-1 cm^-2 Hz^-1', 'fluxDensity'],
+      ['1.4 GHz', 'frequency'],
+      ['345 GHz', 'frequency'],
+      ['100 MHz', 'frequency'],
     ];
     for (const [text, kind] of cases) expect(commonQuantity(text, kind), text).toBe(viaMathjs(text, kind));
   });
@@ -118,6 +138,10 @@ describe('what the quick path leaves to mathjs', () => {
     ['2', 'area'], // no unit
     ['deg^2', 'area'], // no number
     ['2 kJ/s/m^2', 'flux'], // prefixed names other than the listed lengths
+    ['2 kJy', 'fluxDensity'], // prefixes other than m, u, n on Jy
+    ['2 mHz', 'frequency'], // (millihertz) prefixes other than k, M, G, T on Hz
+    ['2 Jy', 'flux'], // wrong dimension
+    ['2 GHz', 'wavelength'],
     ['2 constructor', 'area'],
   ];
   for (const [text, kind] of left) {

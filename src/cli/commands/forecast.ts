@@ -77,11 +77,13 @@ export const forecastCommand: CommandDef = {
     const { forecast } = await import('../../forecast/forecast.js');
     const { choosePopulation } = await import('../../model/select.js');
     const { parameterNames } = await import('../../forecast/parameters.js');
-    const population = choosePopulation(survey, typeof raw.population === 'string' ? raw.population : undefined);
+    const chosen = typeof raw.population === 'string' ? raw.population : undefined;
+    const population = choosePopulation(survey, chosen);
     const targets = raw.target === undefined ? undefined : parseTargets(String(raw.target), parameterNames(population));
     const progress = mocks > 0 && io.stderrIsTTY ? mockProgressBar(io) : undefined;
     const result = await forecast(survey, {
-      population: population.name,
+      // (absent without --population: the result then names the populations left out)
+      ...(chosen !== undefined ? { population: chosen } : {}),
       cosmicVariance: raw.cosmicVariance !== false,
       mocks,
       seed,
@@ -100,7 +102,7 @@ export const forecastCommand: CommandDef = {
     outputs.setMain(
       renderText(out, {
         json: () => shown,
-        table: () => withPopulationNote(tables!.forecastTable(shown), survey.populations, population, raw.population),
+        table: () => withPopulationNote(tables!.forecastTable(shown), population, shown.populations_left_out),
         csv: () => tables!.forecastCsv(shown),
       }),
     );
@@ -117,18 +119,13 @@ export const forecastCommand: CommandDef = {
 
 /**
  * The table with, under its model line, a note when a file of several populations is forecast
- * without --population: only the first is, and the others are named (the JSON's `model` names the
- * population forecast).
+ * without --population: only the first is, and the others (the JSON's `populations_left_out`) are
+ * named.
  */
-function withPopulationNote(
-  table: string,
-  all: readonly { name: string }[],
-  chosen: { name: string },
-  option: unknown,
-): string {
-  if (option !== undefined || all.length < 2) return table;
-  const others = all.filter((q) => q !== chosen).map((q) => `"${q.name}"`);
-  const note = `Population: the file holds ${all.length}; only the first, "${chosen.name}", is forecast (counted over its own window), without ${others.join(', ')}; choose one with --population NAME.`;
+function withPopulationNote(table: string, chosen: { name: string }, leftOut: readonly string[] | undefined): string {
+  if (!leftOut) return table;
+  const others = leftOut.map((name) => `"${name}"`);
+  const note = `Population: the file holds ${leftOut.length + 1}; only the first, "${chosen.name}", is forecast (counted over its own window), without ${others.join(', ')}; choose one with --population NAME.`;
   const lines = table.split('\n');
   const at = lines.findIndex((l) => l.startsWith('Assumed model:'));
   lines.splice(at < 0 ? lines.length : at + 1, 0, note);

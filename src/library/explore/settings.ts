@@ -7,6 +7,7 @@
 import { isScalar, parseDocument, stringify } from 'yaml';
 import type { Survey } from '../../model/survey.js';
 import { FULL_SKY_DEG2 } from '../../model/sky.js';
+import { RANGES } from '../../model/limits.js';
 import type { ControlSpec, ExposureControl } from '../../model/explore.js';
 import { readPlanSection } from '../../survey/plan-section.js';
 import { makeDepthModel } from '../../planning/depth.js';
@@ -14,6 +15,8 @@ import { makeDepthModel } from '../../planning/depth.js';
 export type { ControlSpec };
 
 type Raw = Record<string, unknown>;
+
+const WAVELENGTH_MAX = RANGES.wavelength.max;
 
 const isRecord = (v: unknown): v is Raw => typeof v === 'object' && v !== null && !Array.isArray(v);
 /** A value the page may replace by a plain number: a number, or a quantity string such as "2.1 deg^2". */
@@ -180,10 +183,26 @@ export function exploreControls(raw: unknown, survey: Survey): ControlSpec[] {
     if (f && filter && filter.profile !== 'table' && isScalarValue(f.center) && isScalarValue(f.fwhm)) {
       const c = filter.centerAngstrom;
       controls.push(
-        linearControl(['detection', 'filter', 'center'], 'Filter centre', 'Angstrom', c, 0.05 * c, 1, 1e10, 1),
+        linearControl(
+          ['detection', 'filter', 'center'],
+          'Filter centre',
+          'Angstrom',
+          c,
+          0.05 * c,
+          1,
+          WAVELENGTH_MAX,
+          1,
+        ),
       );
       controls.push(
-        logControl(['detection', 'filter', 'fwhm'], 'Filter width (FWHM)', 'Angstrom', filter.fwhmAngstrom, 1, 1e10),
+        logControl(
+          ['detection', 'filter', 'fwhm'],
+          'Filter width (FWHM)',
+          'Angstrom',
+          filter.fwhmAngstrom,
+          1,
+          WAVELENGTH_MAX,
+        ),
       );
       controls[controls.length - 1]!.min = Math.max(1, filter.fwhmAngstrom / 4);
       controls[controls.length - 1]!.max = filter.fwhmAngstrom * 4;

@@ -48,7 +48,15 @@ export interface SurveyCheck {
     | {
         kind: 'magnitude';
         limit_mag: number;
+        /**
+         * the limit as the file gave it, a flux density in Jy (only then); limit_mag is its AB magnitude, -2.5 log10(limit_jy / 3631)
+         */
+        limit_jy?: number;
         band_angstrom: number;
+        /**
+         * the band as the file gave it, a frequency in GHz (only then); band_angstrom is c / nu
+         */
+        band_ghz?: number;
         band_file?: string;
         beta: number;
         /**

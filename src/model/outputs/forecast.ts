@@ -41,6 +41,12 @@ export interface Forecast {
   model_spread?: ForecastModelSpread;
   requirement?: Requirement;
   /**
+   * Present when the file holds several populations and none was chosen (forecast --population, or the report): the names of those not forecast; the first population is, and model names it.
+   *
+   * @minItems 1
+   */
+  populations_left_out?: string[];
+  /**
    * What the reader should know although nothing stopped the work (also printed on stderr, one line each); empty when there is nothing to say.
    */
   warnings: Warning[];

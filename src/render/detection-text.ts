@@ -1,0 +1,57 @@
+/** The detection of a prediction in words (no table library: the report reads it too). */
+import type { Prediction } from '../model/outputs/prediction.js';
+import { sig } from './format.js';
+
+/** A flux density in Jy as Jy, mJy, uJy or nJy, whichever puts it at 1 or above (nJy below). */
+export function fluxDensityText(jy: number): string {
+  const [scale, unit] = jy >= 1 ? [1, 'Jy'] : jy >= 1e-3 ? [1e3, 'mJy'] : jy >= 1e-6 ? [1e6, 'uJy'] : [1e9, 'nJy'];
+  return `${sig(jy * scale)} ${unit}`;
+}
+
+/** A frequency in GHz as THz, GHz or MHz, whichever puts it at 1 or above (MHz below). */
+export function frequencyText(ghz: number): string {
+  const [scale, unit] = ghz >= 1e3 ? [1e-3, 'THz'] : ghz >= 1 ? [1, 'GHz'] : [1e3, 'MHz'];
+  return `${sig(ghz * scale)} ${unit}`;
+}
+
+/**
+ * The detection in words: the kind, its limit (and what the file gave, a flux density or a Vega
+ * magnitude), the band or filter. The predict table's survey line and the report's summary.
+ */
+export function detectionLine(
+  p: Pick<Prediction, 'detection'> & Partial<Pick<Prediction, 'models' | 'limit_variable'>>,
+): string {
+  const d = p.detection;
+  if (d.kind === 'line_flux') {
+    const f = d.filter;
+    const filter = f ? `, ${f.profile} filter at ${sig(f.center_angstrom)} A (FWHM ${sig(f.fwhm_angstrom)} A)` : '';
+    return `line flux limit ${sig(d.limit_cgs)} erg/s/cm^2${filter}`;
+  }
+  if (d.kind === 'magnitude') {
+    const given =
+      d.limit_jy !== undefined
+        ? ` (given as ${fluxDensityText(d.limit_jy)})`
+        : d.system === 'vega'
+          ? ` (given in Vega, AB = Vega ${d.vega_to_ab! < 0 ? '-' : '+'} ${sig(Math.abs(d.vega_to_ab!))})`
+          : '';
+    if (d.sed_file) {
+      const b = d.band;
+      const band =
+        b && b.profile !== 'table'
+          ? `a ${b.profile} band at ${sig(b.center_angstrom)} A (fwhm ${sig(b.fwhm_angstrom)} A)`
+          : `the band ${d.band_file ?? ''}`.trimEnd();
+      return `AB magnitude limit ${sig(d.limit_ab_mag)}${given} in ${band}, k-corrected with the spectrum ${d.sed_file}`;
+    }
+    const at =
+      d.band_ghz !== undefined
+        ? `${frequencyText(d.band_ghz)} (${sig(d.band_angstrom)} A)`
+        : `${sig(d.band_angstrom)} A`;
+    return `AB magnitude limit ${sig(d.limit_ab_mag)}${given} in a band at ${at} (spectral slope beta = ${sig(d.beta)})`;
+  }
+  const q =
+    p.models?.[0]?.quantity ?? (p.limit_variable === 'absolute_magnitude' ? 'absolute AB magnitude' : 'the quantity');
+  const lim = d.limit;
+  const text =
+    typeof lim === 'number' ? sig(lim) : typeof lim === 'string' ? `"${lim}"` : `table ${JSON.stringify(lim.table)}`;
+  return `threshold on ${p.limit_variable === 'absolute_magnitude' ? q : `log10 ${q}`}: ${text}`;
+}
