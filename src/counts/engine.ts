@@ -24,7 +24,7 @@ import { selectionEffects } from '../selection/effects.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
 import { completenessQuadrature, type CompletenessQuadrature } from './completeness-quadrature.js';
 import { luminosityScale, populationAt, type ParameterOffsets, type PopulationAtZ } from '../population/model.js';
-import { componentsTotalLuminosity } from '../population/schechter.js';
+import { ComponentAtZ, componentsMap, componentsTotalLuminosity } from '../population/schechter.js';
 import { inputError } from '../errors.js';
 import { CAPS } from '../model/limits.js';
 
@@ -607,7 +607,8 @@ function buildNodes(
       // nothing kept at this z: no detection (as a zero transmission)
       log10ULimit: kept > 0 ? obs.log10ULimit : Infinity,
       obsLimit: obs.obsLimit,
-      components: kept === 1 ? p.components : p.components.map((c) => ({ phiStar: c.phiStar * kept, alpha: c.alpha })),
+      components:
+        kept === 1 ? p.components : componentsMap(p.components, (c) => new ComponentAtZ(c.phiStar * kept, c.alpha)),
       allComponents: p.components,
       lumScale: luminosityScale(population.variable, p.characteristic),
     });
@@ -853,6 +854,13 @@ function completeNodeBins(
   const vLo = breaks.varying[0];
   const vHi = breaks.varying[1];
   const memo = edgeGammas(nd.components.length);
+  // Where the open brightest bin ends when completeness varies in it: worked out for every node
+  // and bin, used by few. V8's optimising compiler throws its code away at the first operation it
+  // has not seen run: this function was compiled again when an open bin first reached the varying
+  // range after it was compiled (a cold predict of the narrow-band interlopers sample).
+  const uLim = 10 ** l10uLim;
+  const uBright = uLim + U_BRIGHT_SPAN;
+  const l10uOpen = Math.log10(uLim > 1 ? uBright : U_BRIGHT_SPAN);
   let nodeCount = 0;
   for (let b = 0; b < nBins; b++) {
     const faintObs = slope > 0 ? edges[b]! : edges[b + 1]!;
@@ -878,14 +886,13 @@ function completeNodeBins(
         continue;
       }
     }
-    if (open) {
-      const uLim = 10 ** l10uLim;
-      l10uHi = Math.max(l10uHi, Math.log10(uLim > 1 ? uLim + U_BRIGHT_SPAN : U_BRIGHT_SPAN));
-    }
+    const l10uHiOpen = Math.max(l10uHi, l10uOpen);
+    if (open) l10uHi = l10uHiOpen;
     if (!(l10uHi > l10uLo)) continue;
     // The bin in obs: its faint edge (or the limit) to its bright edge.
     const oA = l10uLo === l10uLim ? nd.obsLimit : faintObs;
-    const oB = open ? nd.a + slope * l10uHi : brightObs;
+    const oOpen = nd.a + slope * l10uHi;
+    const oB = open ? oOpen : brightObs;
     const v = nd.volumeWeight * rules.integrate(oA, oB, 0);
     counts[b]! += v;
     nodeCount += v;

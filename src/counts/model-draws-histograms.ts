@@ -325,18 +325,18 @@ export function histogramTable(
       series.push(undefined);
       continue;
     }
-    const terms: HTerms = {
-      lnW: Float64Array.from(used, (i) => Math.log(f.vw[i]! * phiK[i]!)),
-      dln: Float64Array.from(used, (i) => ((aRef - f.a[i]!) * LN10) / slope),
-      rhoM1: new Float64Array(used.length),
-      alpha: Float64Array.from(used, (i) => alphaK[i]!),
+    const terms = new HTerms(
+      Float64Array.from(used, (i) => Math.log(f.vw[i]! * phiK[i]!)),
+      Float64Array.from(used, (i) => ((aRef - f.a[i]!) * LN10) / slope),
+      new Float64Array(used.length),
+      Float64Array.from(used, (i) => alphaK[i]!),
       aStar,
       aRef,
       slope,
       lnTerm,
       xPart,
       uPart,
-    };
+    );
     for (let q = 0; q < used.length; q++) terms.rhoM1[q] = Math.expm1(terms.dln[q]!);
     // in pieces of SEGMENT_LN_U in ln u* (a low degree each: a draw evaluates them at every point)
     const x0 = oMin - dcMax;
@@ -464,20 +464,27 @@ function limitBinCount(lb: LimitBin, o: ModelOffsets, slope: number): number {
  */
 export type HistogramTableStart = number[];
 
-/** What H_k(x, d_alpha) sums over a component's nodes (see histogramTable), with scratch per node. */
-interface HTerms {
-  /** ln(V_i phi*_ik), D_i, rho_i - 1 and alpha_ik per node that counts. */
-  lnW: Float64Array;
-  dln: Float64Array;
-  rhoM1: Float64Array;
-  alpha: Float64Array;
-  aStar: number;
-  aRef: number;
-  slope: number;
-  lnTerm: Float64Array;
-  /** At the row's x: (alpha_ik - alpha*_k) L* and u* (rho_i - 1) per node. */
-  xPart: Float64Array;
-  uPart: Float64Array;
+/**
+ * What H_k(x, d_alpha) sums over a component's nodes (see histogramTable), with scratch per node.
+ * A class rather than an object literal: V8 makes an object literal's later copies from a
+ * template whose fields it generalises, so the first copy's shape is given up, and hRow, compiled
+ * on it, was compiled again in every cold predict with histogram tables.
+ */
+class HTerms {
+  constructor(
+    /** ln(V_i phi*_ik), D_i, rho_i - 1 and alpha_ik per node that counts. */
+    readonly lnW: Float64Array,
+    readonly dln: Float64Array,
+    readonly rhoM1: Float64Array,
+    readonly alpha: Float64Array,
+    readonly aStar: number,
+    readonly aRef: number,
+    readonly slope: number,
+    readonly lnTerm: Float64Array,
+    /** At the row's x: (alpha_ik - alpha*_k) L* and u* (rho_i - 1) per node. */
+    readonly xPart: Float64Array,
+    readonly uPart: Float64Array,
+  ) {}
 }
 
 /**

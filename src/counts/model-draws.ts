@@ -40,7 +40,7 @@ import {
 import { makeObserver, type Observer } from '../selection/observe.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
 import { completenessQuadrature, type CompletenessQuadrature } from './completeness-quadrature.js';
-import { componentsTotalLuminosity } from '../population/schechter.js';
+import { ComponentAtZ, componentsMap, componentsTotalLuminosity } from '../population/schechter.js';
 import {
   histogramFromTable,
   histogramTable,
@@ -169,14 +169,16 @@ function shifted(nd: NodeState, o: ModelOffsets, slope: number, lumFactor: numbe
     a: nd.a + o.characteristic,
     log10ULimit: nd.log10ULimit - o.characteristic / slope,
     obsLimit: nd.obsLimit,
-    components: nd.components.map((c, k) => ({
-      phiStar: o.log10PhiStar[k] ? c.phiStar * 10 ** o.log10PhiStar[k] : c.phiStar,
-      alpha: c.alpha + o.alpha[k]!,
-    })),
-    allComponents: nd.allComponents.map((c, k) => ({
-      phiStar: o.log10PhiStar[k] ? c.phiStar * 10 ** o.log10PhiStar[k] : c.phiStar,
-      alpha: c.alpha + o.alpha[k]!,
-    })),
+    components: componentsMap(
+      nd.components,
+      (c, k) =>
+        new ComponentAtZ(o.log10PhiStar[k] ? c.phiStar * 10 ** o.log10PhiStar[k] : c.phiStar, c.alpha + o.alpha[k]!),
+    ),
+    allComponents: componentsMap(
+      nd.allComponents,
+      (c, k) =>
+        new ComponentAtZ(o.log10PhiStar[k] ? c.phiStar * 10 ** o.log10PhiStar[k] : c.phiStar, c.alpha + o.alpha[k]!),
+    ),
     lumScale: nd.lumScale * lumFactor,
   };
 }
@@ -312,8 +314,8 @@ function flatten(nodes: readonly NodeState[]): SliceNodes {
     alpha: Array.from({ length: comps }, (_, c) => Float64Array.from(kept, (nd) => nd.components[c]!.alpha)),
     scratch: kept.map((nd) => ({
       ...nd,
-      components: nd.components.map((c) => ({ ...c })),
-      allComponents: nd.allComponents.map((c) => ({ ...c })),
+      components: componentsMap(nd.components, (c) => new ComponentAtZ(c.phiStar, c.alpha)),
+      allComponents: componentsMap(nd.allComponents, (c) => new ComponentAtZ(c.phiStar, c.alpha)),
     })),
   };
 }
@@ -737,8 +739,8 @@ function sliceTables(
     a: 0,
     log10ULimit: 0,
     obsLimit: obsLim,
-    components: [{ phiStar: 1, alpha: 0 }],
-    allComponents: [{ phiStar: 1, alpha: 0 }],
+    components: [new ComponentAtZ(1, 0)],
+    allComponents: [new ComponentAtZ(1, 0)],
     lumScale: 1,
   };
   const x0 = aMin + dcMin;
@@ -824,36 +826,56 @@ function sliceTables(
     // a row (one d_c): per node, the level-1 series at its t as a series in alpha, then at each d_alpha
     const row0 = new Float64Array(j0.ny);
     const row1 = new Float64Array(j1?.ny ?? 0);
+    const row = new Level2Row(f.vw, f.a, f.lumScale, phiK, alphaK, used, j0, j1, row0, row1, withLum);
     const series = sliceLevelKept(j0, j1, f, k, used, dcMin, dcMax, daMin[k]!, daMax[k]!, withLum, start, () =>
-      logSeries(
-        dcMin,
-        dcMax,
-        daMin[k]!,
-        daMax[k]!,
-        withLum ? 2 : 1,
-        (dc, das, got) => {
-          const n = got[0]!.fill(0);
-          const l = withLum ? got[1]!.fill(0) : undefined;
-          for (const i of used) {
-            const w = f.vw[i]! * phiK[i]!;
-            const t = f.a[i]! + dc;
-            chebyshevAlongY(j0, t, row0);
-            if (j1) chebyshevAlongY(j1, t, row1);
-            for (let q = 0; q < das.length; q++) {
-              const al = alphaK[i]! + das[q]!;
-              n[q] = n[q]! + w * Math.exp(chebyshevAtY(j0, row0, al));
-              if (j1 && l) l[q] = l[q]! + w * f.lumScale[i]! * Math.exp(chebyshevAtY(j1, row1, al));
-            }
-          }
-        },
-        start.slice,
-      ),
+      logSeries(dcMin, dcMax, daMin[k]!, daMax[k]!, withLum ? 2 : 1, row.values.bind(row), start.slice),
     );
     if (!series) return undefined;
     out.count.push(series[0]);
     out.lum.push(series[1]);
   }
   return out;
+}
+
+/**
+ * A row of a slice's level-2 values (one d_c, every d_alpha) for one component: per node, the
+ * level-1 series at its t as a series in alpha, then at each d_alpha. A class whose method every
+ * component's tables share, rather than a closure made per component: V8's optimising compiler
+ * compiled each such closure afresh (twice in a cold predict of the robust UV plan). It holds the
+ * slice's arrays rather than the slice, whose objects change shape once (V8 makes an object
+ * literal's later copies from a template), which would throw its compiled code away.
+ */
+class Level2Row {
+  constructor(
+    private readonly vw: Float64Array,
+    private readonly a: Float64Array,
+    private readonly lumScale: Float64Array,
+    private readonly phiK: Float64Array,
+    private readonly alphaK: Float64Array,
+    private readonly used: readonly number[],
+    private readonly j0: Chebyshev2D,
+    private readonly j1: Chebyshev2D | undefined,
+    private readonly row0: Float64Array,
+    private readonly row1: Float64Array,
+    private readonly withLum: boolean,
+  ) {}
+
+  values(dc: number, das: Float64Array, got: Float64Array[]): void {
+    const { vw, a, lumScale, phiK, alphaK, used, j0, j1, row0, row1, withLum } = this;
+    const n = got[0]!.fill(0);
+    const l = withLum ? got[1]!.fill(0) : undefined;
+    for (const i of used) {
+      const w = vw[i]! * phiK[i]!;
+      const t = a[i]! + dc;
+      chebyshevAlongY(j0, t, row0);
+      if (j1) chebyshevAlongY(j1, t, row1);
+      for (let q = 0; q < das.length; q++) {
+        const al = alphaK[i]! + das[q]!;
+        n[q] = n[q]! + w * Math.exp(chebyshevAtY(j0, row0, al));
+        if (j1 && l) l[q] = l[q]! + w * lumScale[i]! * Math.exp(chebyshevAtY(j1, row1, al));
+      }
+    }
+  }
 }
 
 /**

@@ -4,7 +4,7 @@
  * M* for a magnitude variable).
  */
 import type { Population } from '../model/population.js';
-import type { SchechterComponent } from './schechter.js';
+import { ComponentAtZ, type SchechterComponent } from './schechter.js';
 import { AB_ZERO_POINT, PC_CM } from '../cosmology/constants.js';
 
 /** Constant offsets applied at every z (used by forecasts; evolving parameters keep their shape). */
@@ -33,10 +33,9 @@ export function populationAt(p: Population, z: number, offsets?: ParameterOffset
   } else {
     characteristic = p.mStar!.at(z) + (offsets?.characteristic ?? 0);
   }
-  return {
-    components: p.components.map((c) => ({ phiStar: c.phiStar.at(z) * phiScale, alpha: c.alpha.at(z) + dAlpha })),
-    characteristic,
-  };
+  const components: ComponentAtZ[] = [];
+  for (const c of p.components) components.push(new ComponentAtZ(c.phiStar.at(z) * phiScale, c.alpha.at(z) + dAlpha));
+  return { components, characteristic };
 }
 
 /** 4 pi (10 pc)^2 in cm^2: L_nu = 4 pi (10 pc)^2 10^(-0.4 (M + 48.60)) (Oke & Gunn 1983 AB zero point). */

@@ -20,6 +20,33 @@ export interface SchechterComponent {
   alpha: number;
 }
 
+/**
+ * A component at one redshift as the count engine's nodes hold it. A class rather than object
+ * literals: the literals made in several places ({phiStar, alpha}, and the population's own
+ * components of the same names holding parameters) shared V8's hidden classes, whose fields were
+ * generalised as they met other values, so that nodes reached the engine's compiled code in two
+ * shapes and threw it away (a cold predict of the photo-z sample compiled sumOver,
+ * completeNodeBins and integrate twice). Every node's components are of this one class.
+ */
+export class ComponentAtZ implements SchechterComponent {
+  constructor(
+    public phiStar: number,
+    public alpha: number,
+  ) {}
+}
+
+/**
+ * f of each component, in an array made by push rather than Array.prototype.map: map's result is
+ * a packed array in the interpreter and a holey one once V8 has compiled its caller (its inlined
+ * map makes the array at its length, then fills it), and a loop over node components compiled for
+ * one kind of array threw its code away at the other.
+ */
+export function componentsMap<T>(cs: readonly T[], f: (c: T, k: number) => ComponentAtZ): ComponentAtZ[] {
+  const out: ComponentAtZ[] = [];
+  for (let k = 0; k < cs.length; k++) out.push(f(cs[k]!, k));
+  return out;
+}
+
 /** phi(L) in Mpc^-3 per unit L (L and L* in the same unit). */
 export function schechterLuminosity(l: number, phiStar: number, lStar: number, alpha: number): number {
   const u = l / lStar;

@@ -971,7 +971,27 @@ export function planSpec(plan: PlanView, surveyTitle?: string): Spec | null {
       ],
     });
   }
+  // Ranked across the model (robust: true): the goal at the pessimistic case the best was chosen by.
+  const robust = plan.robust;
+  const pessimistic = robust ? rows.filter((d) => finite(d.goal_value_pessimistic ?? NaN)) : [];
+  if (robust && pessimistic.length > 0) {
+    layer.push({
+      data: { values: pessimistic },
+      mark: { type: 'line', color: PALETTE.orange, strokeDash: [6, 4], strokeWidth: 2 },
+      encoding: {
+        x: { field: 'exposure_hours_per_pointing', type: 'quantitative' },
+        y: { field: 'goal_value_pessimistic', type: 'quantitative' },
+        tooltip: [
+          { field: 'exposure_hours_per_pointing', type: 'quantitative' },
+          { field: 'pointings', type: 'quantitative' },
+          { field: 'goal_value_pessimistic', type: 'quantitative', format: '.6~g' },
+        ],
+      },
+    });
+  }
   const parts = [`budget ${fmtShort(plan.budget_hours)} hours`, 'dots: designs compared'];
+  if (robust && pessimistic.length > 0)
+    parts.push(`dashed: at the model's p${Math.round(robust.percentile * 100)}, by which the best is ranked`);
   if (best) parts.push('diamond: best');
   if (nb) parts.push('shaded: near-best range');
   return {

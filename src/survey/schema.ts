@@ -131,6 +131,17 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
         const group = errors.find((e) => e.keyword === 'anyOf' && e.instancePath === first.instancePath);
         const title = (group?.parentSchema as { title?: string } | undefined)?.title;
         const expected = title ?? TYPE_WORDS[String((first.params as { type: string }).type)] ?? 'another type';
+        // "beta: −2" pasted from a paper: YAML reads the typeset minus sign (U+2212) as text
+        const typeset = typeof data === 'string' ? data.trim().replace(/\u2212/g, '-') : '';
+        if (typeset !== data && /^-(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/.test(typeset)) {
+          return inputError(
+            'wrong_type',
+            file,
+            path,
+            `is the text "${data as string}", written with the typeset minus sign "−" (U+2212), but must be ${expected}`,
+            `write ${typeset} with the minus sign "-"`,
+          );
+        }
         return inputError(
           'wrong_type',
           file,

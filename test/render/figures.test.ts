@@ -307,6 +307,37 @@ describe('plan figure', () => {
     expect(fig.svg).toContain(`best: 1 h × ${plan.best!.pointings} pointings`);
   });
 
+  test('ranked across the model (robust: true): a dashed curve of the goal at the pessimistic case, named in the subtitle; without robust none (failed before: only the assumed goal was drawn beside a best chosen by the other)', async () => {
+    const base = demoPlan();
+    const designs = base.designs.map((d, i) => ({ ...d, goal_value_pessimistic: d.goal_value * (1 - 0.12 * i) }));
+    const best = designs.reduce((a, b) => (b.goal_value_pessimistic > a.goal_value_pessimistic ? b : a));
+    const assumed = designs.reduce((a, b) => (b.goal_value > a.goal_value ? b : a));
+    const plan = {
+      ...base,
+      designs,
+      best,
+      robust: { draws: 200, source: 'normal' as const, percentile: 0.16, same_design: false, best_assumed: assumed },
+    };
+    const spec = planSpec(plan, 'Demo') as Any;
+    const dashed = spec.layer.filter((l: Any) => l.mark?.strokeDash);
+    expect(dashed).toHaveLength(1);
+    expect(dashed[0].encoding.y.field).toBe('goal_value_pessimistic');
+    expect(dashed[0].data.values.map((d: Any) => d.goal_value_pessimistic)).toEqual(
+      designs.map((d) => d.goal_value_pessimistic),
+    );
+    // the subtitle wraps over lines
+    expect((spec.title.subtitle as string[]).join(' ')).toContain(
+      "dashed: at the model's p16, by which the best is ranked",
+    );
+    // the diamond stays on the best design
+    expect(spec.layer[2].data.values[0].exposure_hours_per_pointing).toBe(best.exposure_hours_per_pointing);
+    const svg = (await planFigure(plan, 'Demo'))!.svg;
+    expect(svg).toContain('stroke-dasharray="6,4"');
+    const plain = planSpec(base, 'Demo') as Any;
+    expect(plain.layer.filter((l: Any) => l.mark?.strokeDash)).toHaveLength(0);
+    expect(JSON.stringify(plain.title)).not.toContain('dashed');
+  });
+
   test('without best or near-best: just the curve', () => {
     const plan = demoPlan();
     delete plan.best;

@@ -542,6 +542,19 @@ describe('bad YAML and bad files', () => {
     expectOneSentence(e);
   });
 
+  test('a number pasted with the typeset minus sign (U+2212) where a number must be: the sentence names the sign and gives the number to write (failed before: "is the text "−2" but must be a number")', () => {
+    const text = `${LINE_YAML}`.replace('area: "900 arcmin^2"', 'area: "900 arcmin^2"\nfield: {aspect: \u22122}');
+    const e = errorOf(() => loadSurveyText(text, FILE));
+    expect({ code: e.code, keyPath: e.keyPath }).toEqual({ code: 'wrong_type', keyPath: 'field.aspect' });
+    expect(e.message).toContain('the typeset minus sign "\u2212" (U+2212)');
+    expect(e.message).toContain('write -2 with the minus sign "-"');
+    expectOneSentence(e);
+    // a text that is not a number keeps the plain sentence
+    const other = errorOf(() => loadSurveyText(text.replace('aspect: \u22122', 'aspect: two'), FILE));
+    expect(other.message).toContain('is the text "two" but must be');
+    expect(other.message).not.toContain('U+2212');
+  });
+
   test('a syntax error gives its line and column', () => {
     const e = errorOf(() => loadSurveyText('format: 1\narea: [1, 2\ncosmology: {h0: 70}\n', FILE));
     expect(e.message).toMatch(/line \d+, column \d+/);
