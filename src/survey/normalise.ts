@@ -13,7 +13,7 @@ import type { InputFile, Survey } from '../model/survey.js';
 import type { Population, SfrConversion, PopulationVariable } from '../model/population.js';
 import type { ZParam } from '../model/zparam.js';
 import { schemaError } from './schema.js';
-import { isPlainNumberString, parseQuantity } from './units.js';
+import { isPlainNumberString, parseQuantity, plainNumberText } from './units.js';
 import { FULL_SKY_DEG2, MIN_AREA_DEG2, SR_PER_DEG2 } from '../model/sky.js';
 import { checkParam, fmt, makeZParam, mapParam, samplePoints, type ZTable } from './zparam.js';
 import { readTransmissionFile } from './transmission-file.js';
@@ -201,7 +201,7 @@ function checkRange(v: number, range: Range, file: string, path: string, what = 
 /** A key that holds a plain number in its unit only (no unit string accepted beyond a bare number). */
 function plainNumber(v: Q, file: string, path: string, what: string): number {
   if (typeof v === 'number') return v;
-  if (isPlainNumberString(v)) return Number(v);
+  if (isPlainNumberString(v)) return Number(plainNumberText(v));
   throw inputError(
     'bad_unit',
     file,
