@@ -4,7 +4,7 @@
  * when it runs, so that start-up pays only for the command used.
  */
 import { Command, CommanderError } from 'commander';
-import { printable, SurveyError } from '../errors.js';
+import { inputError, printable, SurveyError } from '../errors.js';
 import { removePendingFiles, type CliIO } from './io.js';
 import { COMMANDS } from './commands/index.js';
 import packageJson from '../../package.json' with { type: 'json' };
@@ -33,6 +33,7 @@ export async function run(argv: readonly string[], io: CliIO): Promise<number> {
   for (const def of named.length === 1 ? named : COMMANDS) {
     const cmd = program.command(def.name).description(def.description).exitOverride();
     def.configure(cmd);
+    refuseRepeatedOptions(cmd);
     cmd.action(async (...args: unknown[]) => {
       exitCode = await def.action(cmd, args, io);
     });
@@ -42,6 +43,26 @@ export async function run(argv: readonly string[], io: CliIO): Promise<number> {
     return exitCode;
   } catch (err) {
     return handleError(err, io);
+  }
+}
+
+/**
+ * An option that takes a value, given twice ("--target alpha=0.05 --target m_star=0.1"), is
+ * refused: commander keeps the last value and drops the first without a word.
+ */
+function refuseRepeatedOptions(cmd: Command): void {
+  const seen = new Set<string>();
+  for (const opt of cmd.options) {
+    if (!opt.required && !opt.optional) continue; // a flag given twice says the same
+    const flag = opt.long ?? opt.flags;
+    cmd.on(`option:${opt.name()}`, () => {
+      if (seen.has(flag)) {
+        const list =
+          flag === '--target' ? ' (several targets as one list: --target alpha=0.05,log10_phi_star=0.1)' : '';
+        throw inputError('bad_option', '', flag, 'is given twice', `give it once${list}`);
+      }
+      seen.add(flag);
+    });
   }
 }
 

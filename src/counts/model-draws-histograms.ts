@@ -50,6 +50,9 @@ import type { ModelOffsets } from '../model/model-uncertainty.js';
 import type { CompletenessFn } from '../selection/completeness.js';
 import { roundEdge, U_BRIGHT_SPAN } from './engine.js';
 
+/** A u = L / L* beyond which e^-u, times any power of u the slopes allow, is 0 in doubles. */
+const U_NOTHING = 1e4;
+
 /** A slice's nodes as model-draws.ts flattens them (what a draw does not change). */
 export interface HistogramNodes {
   count: number;
@@ -237,6 +240,10 @@ export function histogramTable(
       : Math.ceil(limBright / width) - 2;
   const startObs = oneLimit ? obsLim : obsOfK(slope > 0 ? kLimit : kLimit + 1);
   if (!Number.isFinite(oFar) || dir * (oFar - startObs) <= 0) return undefined;
+  // a limit far brighter than the knee (every draw's u at it above U_NOTHING: e^-u is 0 in doubles):
+  // nothing to tabulate, and the rule's panels would grow with u (a magnitude limit of 3 gave u
+  // near 1e9 and a rule of 1e8 points); the exact path gives every bin its 0
+  if (!(10 ** l10uLeast(startObs) * rMin < U_NOTHING)) return undefined;
   const pk: number[] = [];
   const po: number[] = [];
   const pw: number[] = [];

@@ -41,6 +41,9 @@ import { mergeWarnings, type Warning } from '../warnings.js';
 import { surveyWarnings } from '../population/warnings.js';
 import { predictionWarnings } from '../counts/predict.js';
 
+/** Mean sources per mock below which an offset of the mock fits is put down to the fit's small-sample bias. */
+const SMALL_SAMPLE_SOURCES = 1000;
+
 export const CAVEAT =
   'A forecast is only as good as the luminosity function assumed: these uncertainties hold if the population follows the model above; a different faint-end slope or knee changes them.';
 
@@ -248,6 +251,8 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
       if (n === 'log10_phi_star' && fractions) {
         why =
           '; with cosmic variance this is expected: the per-slice normalisation nuisances enter multiplicatively, so the fitted normalisation is biased at the order of the squared cosmic-variance fractions, beyond the first order of the Fisher matrix';
+      } else if (sources / run.count < SMALL_SAMPLE_SOURCES) {
+        why = `; with about ${Math.round(sources / run.count)} sources per mock this is expected: a maximum-likelihood fit of few sources is biased at the order of 1/N (common practice), and the offset shrinks as the survey grows`;
       }
       notes.push(
         `${n}: the mean of the fits differs from the input by ${sp.bias.toPrecision(3)} (${sp.bias_in_standard_errors.toFixed(1)} standard errors of the mean)${why}.`,

@@ -108,6 +108,20 @@ function shiftCompleteness(c: Completeness | undefined, dx: number): Completenes
   return { ...c, x: c.x.map((v) => v + dx) };
 }
 
+/**
+ * What a limit found assumes of the completeness: it moved with the limit (deeperSurvey). A file
+ * that moves detection.limit alone keeps its completeness curve where it was and counts fewer faint
+ * sources than the forecast did, so the sentence says what to write.
+ */
+function completenessNote(survey: Survey, entries: readonly RequirementEntry[]): string[] {
+  const c = survey.detection.completeness;
+  if (!c || entries.every((e) => e.limit === null)) return [];
+  const what = c.model === 'logistic' ? 'completeness.half' : 'every x of completeness.table';
+  return [
+    `each limit needed assumes the completeness curve moves with it, as a deeper exposure moves both: write ${what} deeper by as much as detection.limit (moving the limit alone keeps the curve where it is and gives a larger sigma)`,
+  ];
+}
+
 /** The survey with its limit moved `delta` deeper, and the limit's new value (in limit_variable). */
 export function deeperSurvey(survey: Survey, p: Population, delta: number): { survey: Survey; limit: number } {
   const d = survey.detection;
@@ -256,6 +270,6 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
     limit_variable: lv,
     by_parameter: byParameter,
     search: { area_deg2: [MIN_AREA_DEG2, FULL_SKY_DEG2], limit: [limitOf(-span), limitOf(span)] },
-    notes: entries.flatMap((e) => e.notes),
+    notes: [...entries.flatMap((e) => e.notes), ...completenessNote(survey, entries)],
   };
 }

@@ -86,6 +86,9 @@ export function forecastTable(f: Forecast): string {
       lines.push(`  sigma(${n}) = ${sig(e.target)}: ${area}; ${limit}`);
       for (const note of e.notes) lines.push(`    ${note}`);
     }
+    // notes of the whole requirement (what every limit assumes), beside each parameter's own
+    const own = new Set(Object.values(r.by_parameter).flatMap((e) => e.notes));
+    for (const note of r.notes) if (!own.has(note)) lines.push(`  ${note}`);
     if (r.model) {
       const cases = [
         ["at the model's median (p50)", r.model.p50],

@@ -27,8 +27,17 @@ function designRow(p: Plan, d: PlanDesign, mark = ''): string[] {
     sig(d.faint_count, 5),
     sig(d.goal_value, 4),
     ...(p.robust ? [d.goal_value_pessimistic === undefined ? '-' : sig(d.goal_value_pessimistic, 4)] : []),
-    d.meets_minimum_count ? '' : 'below minimum_count',
+    ...(withNotes(p) ? [d.meets_minimum_count ? '' : 'below minimum_count'] : []),
   ];
+}
+
+/** A last column, "note", only when some design falls below minimum_count (it was there, empty and unlabelled, in every table). */
+function withNotes(p: Plan): boolean {
+  return (
+    !p.best.meets_minimum_count ||
+    p.designs.some((d) => !d.meets_minimum_count) ||
+    p.neighbours.some((d) => !d.meets_minimum_count)
+  );
 }
 
 /** One line on a design: its shape, count and goal (and its goal at the model's pessimistic case). */
@@ -63,7 +72,7 @@ export function planTable(p: Plan): string {
     'fainter than knee',
     'goal value',
     ...(p.robust ? [`goal at model p${Math.round(p.robust.percentile * 100)}`] : []),
-    '',
+    ...(withNotes(p) ? ['note'] : []),
   ];
   const b = p.best;
   lines.push(

@@ -22,7 +22,7 @@ const LIMIT_HEADINGS: Record<string, string> = {
 };
 
 export function cosmologyLine(c: CosmologyBlock): string {
-  const base = `flat Lambda-CDM, H0 = ${sig(c.h0)} km/s/Mpc, Omega_m = ${sig(c.omega_m)}, Omega_Lambda = ${sig(c.omega_lambda, 6)}, T_cmb = ${sig(c.t_cmb)} K`;
+  const base = `flat Lambda-CDM, H0 = ${sig(c.h0)} km/s/Mpc, Omega_m = ${sig(c.omega_m)}, Omega_Lambda = ${sig(c.omega_lambda, 6)}, T_cmb = ${sig(c.t_cmb, 6)} K`;
   return c.preset ? `${base} (preset ${c.preset}: ${c.preset_source})` : base;
 }
 

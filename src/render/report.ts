@@ -683,7 +683,7 @@ export function renderReport(input: ReportInput): string {
   const c = p.cosmology;
   const cosmo = c
     ? `flat ΛCDM with H₀ = ${formatNumber(c.h0)} km s⁻¹ Mpc⁻¹, Ωₘ = ${formatNumber(c.omega_m)}` +
-      (typeof c.t_cmb === 'number' && c.t_cmb > 0 ? `, T_CMB = ${formatNumber(c.t_cmb)} K` : '') +
+      (typeof c.t_cmb === 'number' && c.t_cmb > 0 ? `, T_CMB = ${formatNumber(c.t_cmb, 6)} K` : '') +
       // (the linear power spectrum's parameters, which the cosmic variance rests on)
       (typeof c.sigma8 === 'number' ? `, σ₈ = ${formatNumber(c.sigma8)}` : '') +
       (typeof c.omega_b === 'number' ? `, Ω_b = ${formatNumber(c.omega_b)}` : '') +

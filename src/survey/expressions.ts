@@ -123,6 +123,12 @@ function short(s: string): string {
   return t.length > 40 ? t.slice(0, 37) + '...' : t;
 }
 
+/** A number, then "+" a number, then "-" a number, and nothing else (groups: the three numbers). */
+const NUMBER_TEXT = String.raw`(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?`;
+const ASYMMETRIC_ERRORS = new RegExp(
+  String.raw`^\s*([-+]?${NUMBER_TEXT})\s*\+\s*(${NUMBER_TEXT})\s*-\s*(${NUMBER_TEXT})\s*$`,
+);
+
 /**
  * Parse, check and compile `text`. Throws SurveyError bad_expression naming `keyPath` and the
  * offending token for anything outside the allowed set; nothing is evaluated before that check.
@@ -162,6 +168,18 @@ export function compileExpression(written: string, file: string, keyPath: string
       keyPath,
       `the expression "${short(written)}" writes "${s}", ${what}`,
       "give the value alone with one sign (a 1-sigma error belongs in the population's model_uncertainty)",
+    );
+  }
+  // "-2.06+0.13-0.10" (a value and its asymmetric errors, pasted from a paper's table) would read
+  // as -2.03: three bare numbers joined by "+" and then "-", and nothing else, are refused.
+  const asymmetric = ASYMMETRIC_ERRORS.exec(text);
+  if (asymmetric) {
+    throw inputError(
+      'bad_expression',
+      file,
+      keyPath,
+      `the expression "${short(written)}" writes a number followed by +${asymmetric[2]} and -${asymmetric[3]}, as a value and its upper and lower errors are written`,
+      `give the value alone (${asymmetric[1]}); a 1-sigma error belongs in the population's model_uncertainty`,
     );
   }
   let root: MathNode;

@@ -13,7 +13,8 @@ import type { InputFile, Survey } from '../model/survey.js';
 import type { Population, SfrConversion, PopulationVariable } from '../model/population.js';
 import type { ZParam } from '../model/zparam.js';
 import { schemaError } from './schema.js';
-import { isPlainNumberString, parseQuantity } from './units.js';
+import { lineNameHint } from './line-names.js';
+import { isPlainNumberString, parseQuantity, plainNumberText } from './units.js';
 import { FULL_SKY_DEG2, MIN_AREA_DEG2, SR_PER_DEG2 } from '../model/sky.js';
 import { checkParam, fmt, makeZParam, mapParam, samplePoints, type ZTable } from './zparam.js';
 import { readTransmissionFile } from './transmission-file.js';
@@ -201,7 +202,7 @@ function checkRange(v: number, range: Range, file: string, path: string, what = 
 /** A key that holds a plain number in its unit only (no unit string accepted beyond a bare number). */
 function plainNumber(v: Q, file: string, path: string, what: string): number {
   if (typeof v === 'number') return v;
-  if (isPlainNumberString(v)) return Number(v);
+  if (isPlainNumberString(v)) return Number(plainNumberText(v));
   throw inputError(
     'bad_unit',
     file,
@@ -226,6 +227,14 @@ function positiveQuantity(
 /** A wavelength (Angstrom, or with a unit) inside its physical range. */
 function wavelength(v: Q, file: string, path: string): number {
   return checkRange(positiveQuantity(v, 'wavelength', file, path, 'Angstrom'), RANGES.wavelength, file, path);
+}
+
+/** A line's rest wavelength; a line written as a name ("[OII]") is answered with the number to write. */
+function lineWavelength(v: Q, file: string, path: string): number {
+  const hint = typeof v === 'string' ? lineNameHint(v) : undefined;
+  if (hint)
+    throw inputError('bad_unit', file, path, hint.slice(0, hint.indexOf(': ')), hint.slice(hint.indexOf(': ') + 2));
+  return wavelength(v, file, path);
 }
 
 function intersect(a: Window, b: Window): Window {
@@ -753,7 +762,7 @@ function populationLines(
     names.add(name);
     let line: number | undefined;
     if (kind === 'line_flux') {
-      line = p.line !== undefined ? wavelength(p.line, file, `${path}.line`) : detLine;
+      line = p.line !== undefined ? lineWavelength(p.line, file, `${path}.line`) : detLine;
       if (line === undefined) {
         throw inputError(
           'missing_key',
@@ -1199,7 +1208,7 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   const det = raw.detection;
   checkDetectionKeys(det, file);
   const rawPops = populationList(raw, file);
-  const detLine = det.line !== undefined ? wavelength(det.line, file, 'detection.line') : undefined;
+  const detLine = det.line !== undefined ? lineWavelength(det.line, file, 'detection.line') : undefined;
   const lines = populationLines(rawPops, det, detLine, file);
   const given = readRedshift(raw, file);
   const filter = readFilter(det, file, base, inputs);

@@ -76,7 +76,12 @@ const SUPERSCRIPTS: Record<string, string> = Object.fromEntries(
 
 /** True when `s` is a plain decimal number (e.g. "2.5", "-3e-2"). */
 export function isPlainNumberString(s: string): boolean {
-  return PLAIN_NUMBER.test(s.trim());
+  return PLAIN_NUMBER.test(plainNumberText(s));
+}
+
+/** A bare number string as Number reads it: trimmed, the typeset minus sign (U+2212) a minus. */
+export function plainNumberText(s: string): string {
+  return s.trim().replace(/\u2212/g, '-');
 }
 
 /**
@@ -104,7 +109,8 @@ export function parseQuantityOneOf<K extends QuantityKind>(
   const what = infos.map((i) => i.what).join(' or ');
   const label = infos.map((i) => i.label).join(' or ');
   if (typeof value === 'number') return { kind: kinds[0], value };
-  const text = value.trim();
+  // (the typeset minus sign, U+2212, of a number pasted from a paper is a minus)
+  const text = value.trim().replace(/\u2212/g, '-');
   const fix =
     fixText ?? `write ${what} in ${label} as a number, or with a unit, e.g. ${infos.map((i) => i.examples).join('; ')}`;
   if (PLAIN_NUMBER.test(text)) {

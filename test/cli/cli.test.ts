@@ -146,6 +146,42 @@ describe('check', () => {
     expect(r.code).toBe(0);
     expect(JSON.parse(r.stdout)).toBeTypeOf('object');
   });
+  test('checks the plan section as plan and report read it: a mistyped or impossible plan key is refused', async () => {
+    const dir = tempDir('skytally-check-plan-');
+    const text = readFileSync('samples/plan-uv-deep-wide.yaml', 'utf8');
+    expect(text).toContain('  budget_hours: 150\n');
+    const cases: [string, string, RegExp][] = [
+      [
+        'typo.yaml',
+        text.replace('  budget_hours: 150', '  budget_hour: 150'),
+        /plan\.budget_hour: unknown key "budget_hour" \(did you mean budget_hours\?\)/,
+      ],
+      [
+        'budget.yaml',
+        text.replace('  budget_hours: 150', '  budget_hours: 0.05'),
+        /plan\.exposure_grid\.min_hours: .*raise budget_hours/,
+      ],
+    ];
+    for (const [name, body, message] of cases) {
+      const file = join(dir, name);
+      writeFileSync(file, body);
+      // check said "valid survey file" (exit 0) while plan and report refused the same file
+      const checked = await runCli(['check', file]);
+      expect(checked.code, name).toBe(2);
+      expect(checked.stdout, name).toBe('');
+      expect(checked.stderr.trim().split('\n'), name).toHaveLength(1);
+      expect(checked.stderr, name).toMatch(message);
+      const planned = await runCli(['plan', file]);
+      expect([planned.code, planned.stderr], name).toEqual([2, checked.stderr]);
+    }
+    // the sample itself, and a threshold survey's plan (which report leaves out), pass
+    expect((await runCli(['check', 'samples/plan-uv-deep-wide.yaml'])).code).toBe(0);
+    const mass = readFileSync('samples/mass-limited.yaml', 'utf8');
+    const withPlan = join(dir, 'mass-plan.yaml');
+    writeFileSync(withPlan, `${mass}\nplan: {field_of_view: 0.05, budget_hours: 10, goal: count}\n`);
+    const massChecked = await runCli(['check', withPlan]);
+    expect(massChecked.code, massChecked.stderr).toBe(0);
+  });
 });
 
 describe('the built program as a subprocess', () => {

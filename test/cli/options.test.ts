@@ -67,6 +67,51 @@ describe('compare needs at least two files', () => {
   });
 });
 
+describe('an option that takes a value is given once', () => {
+  test.each([
+    // commander kept the last and dropped the first without a word (failed before: exit 0)
+    [
+      ['forecast', 'samples/halpha-narrowband.yaml', '--target', 'alpha=0.05', '--target', 'log10_l_star=0.05'],
+      '--target',
+    ],
+    [['predict', 'samples/halpha-narrowband.yaml', '--seed', '1', '--seed=2'], '--seed'],
+    [['predict', 'samples/halpha-narrowband.yaml', '--format', 'json', '--format', 'csv'], '--format'],
+    [['distances', '--z', '0.5', '--z', '1'], '--z'],
+  ])('%j', async (argv, name) => {
+    const r = await runCli(argv);
+    refused(r, `${name}: is given twice; give it once`);
+  });
+
+  test('several targets go in one list, and a flag given twice is harmless', async () => {
+    const r = await runCli([
+      'forecast',
+      'samples/halpha-narrowband.yaml',
+      '--target',
+      'alpha=0.05',
+      '--target',
+      'alpha=0.1',
+    ]);
+    refused(r, '--target alpha=0.05,log10_phi_star=0.1');
+    const both = await runCli([
+      'forecast',
+      'samples/halpha-narrowband.yaml',
+      '--target',
+      'alpha=0.05,log10_l_star=0.05',
+      '--format',
+      'json',
+    ]);
+    expect(both.code, both.stderr).toBe(0);
+    expect(Object.keys(JSON.parse(both.stdout).requirement.target).sort()).toEqual(['alpha', 'log10_l_star']);
+    const twice = await runCli([
+      'forecast',
+      'samples/halpha-narrowband.yaml',
+      '--no-cosmic-variance',
+      '--no-cosmic-variance',
+    ]);
+    expect(twice.code, twice.stderr).toBe(0);
+  });
+});
+
 describe('input once reported as an internal failure', () => {
   test.each([
     ['omega_b equal to omega_m', 'omega_m: 0.3', 'omega_m: 0.3\n  omega_b: 0.3', 'cosmology.omega_b'],

@@ -12,6 +12,8 @@ import { forecast } from '../../src/forecast/forecast.js';
 import { deeperSurvey } from '../../src/forecast/requirement.js';
 import type { Survey } from '../../src/model/survey.js';
 import { surveyFromSpec, type SurveySpec } from './helpers.js';
+import { parseSurveyObject } from '../../src/survey/index.js';
+import { forecastTable } from '../../src/render/forecast-table.js';
 
 const ref = JSON.parse(readFileSync(new URL('../reference/fisher.json', import.meta.url), 'utf8')) as {
   cases: { survey: SurveySpec }[];
@@ -91,5 +93,51 @@ describe('requirement', () => {
     expect(r.notes.join(' ')).toMatch(/even the full sky/);
     expect(r.limit).toBeNull();
     expect(r.notes.join(' ')).toMatch(/no limit within 3 dex/);
+  });
+});
+
+describe('requirement with a completeness curve: the limit found moves the curve with it', () => {
+  // an invented UV-selected field (Schechter values of the order of published z ~ 4 ones, from memory)
+  const obj = (limit: number, half: number | undefined) => ({
+    format: 1,
+    cosmology: { h0: 70, omega_m: 0.3 },
+    area: 1.77,
+    redshift: { min: 3.5, max: 4.5 },
+    detection: {
+      kind: 'magnitude',
+      limit,
+      band: 7700,
+      igm: 'madau1995',
+      ...(half === undefined ? {} : { completeness: { half, width: 0.15 } }),
+    },
+    population: { variable: 'magnitude', phi_star: 1.97e-3, m_star: -20.88, alpha: -1.64 },
+    slices: { count: 4 },
+  });
+  test('the file written with limit and completeness.half moved together gives the target (1e-6); the limit alone does not, and the output says so', async () => {
+    const s = parseSurveyObject(obj(26.5, 26.3), 'uv.yaml');
+    const base = await forecast(s, { cosmicVariance: false });
+    const target = base.fisher.sigma.alpha! * 0.5;
+    const f = await forecast(s, { cosmicVariance: false, targets: { alpha: target } });
+    const r = f.requirement!;
+    const limit = r.by_parameter.alpha!.limit!;
+    expect(limit).toBeGreaterThan(26.5);
+    // the file a user writes from the sentence: both moved by as much
+    const both = await forecast(parseSurveyObject(obj(limit, 26.3 + (limit - 26.5)), 'uv.yaml'), {
+      cosmicVariance: false,
+    });
+    expect(Math.abs(both.fisher.sigma.alpha! / target - 1)).toBeLessThan(1e-6);
+    // the file written with the limit alone keeps the curve at 26.3: far from the target
+    const alone = await forecast(parseSurveyObject(obj(limit, 26.3), 'uv.yaml'), { cosmicVariance: false });
+    expect(alone.fisher.sigma.alpha!).toBeGreaterThan(1.2 * target);
+    // so the requirement says what it assumed, in the JSON's notes and under the table's targets
+    const note = r.notes.find((n) => n.includes('completeness'));
+    expect(note).toMatch(/write completeness\.half deeper by as much as detection\.limit/);
+    expect(forecastTable(f)).toContain(note!);
+    // without a completeness curve there is nothing to say
+    const hard = parseSurveyObject(obj(26.5, undefined), 'uv.yaml');
+    const h0 = await forecast(hard, { cosmicVariance: false });
+    const rh = (await forecast(hard, { cosmicVariance: false, targets: { alpha: h0.fisher.sigma.alpha! * 0.5 } }))
+      .requirement!;
+    expect(rh.notes.some((n) => n.includes('completeness'))).toBe(false);
   });
 });

@@ -5,7 +5,9 @@
  * 3 pointings of 10.87 h under a 40 h budget read as spending it all (failed before).
  */
 import { describe, expect, test } from 'vitest';
+import { readFileSync } from 'node:fs';
 import { loadSurveyFile, plan, planTable } from '../../src/index.js';
+import { loadSurveyText } from '../../src/survey/load.js';
 import { sig } from '../../src/render/format.js';
 
 describe('plan table: hours used', () => {
@@ -33,5 +35,38 @@ describe('plan table: hours used', () => {
     }
     // the grid's designs leave part of the budget when the last pointing does not fit
     expect(under).toBeGreaterThan(0);
+  });
+});
+
+describe('plan table: the note column', () => {
+  test('no empty, unlabelled last column; "note" with "below minimum_count" only where a design falls short (failed before: an empty column in every table)', async () => {
+    const cells = (line: string) =>
+      line
+        .split('│')
+        .slice(1, -1)
+        .map((c) => c.trim());
+    const survey = loadSurveyFile('samples/plan-uv-deep-wide.yaml');
+    const p = await plan(survey);
+    expect(p.designs.every((d) => d.meets_minimum_count)).toBe(true);
+    const head = planTable(p)
+      .split('\n')
+      .find((l) => l.includes('hours per pointing'))!;
+    expect(cells(head).at(-1)).toBe('goal value');
+    expect(cells(head).slice(1)).not.toContain(''); // (the first, the mark's, has no heading)
+    // a minimum count that the shallowest designs miss: the column appears, named, filled where it applies
+    const text = readFileSync('samples/plan-uv-deep-wide.yaml', 'utf8').replace(
+      'minimum_count: 200',
+      'minimum_count: 75000',
+    );
+    const strict = await plan(loadSurveyText(text, 'samples/plan-uv-deep-wide.yaml'));
+    const below = strict.designs.filter((d) => !d.meets_minimum_count).length;
+    expect(below).toBeGreaterThan(0);
+    const table = planTable(strict);
+    const lines = table.split('\n');
+    const h = cells(lines.find((l) => l.includes('hours per pointing'))!);
+    expect(h.at(-1)).toBe('note');
+    const rows = lines.filter((l) => l.startsWith('│') && !l.includes('hours per pointing')).map(cells);
+    for (const r of rows) expect(['', 'below minimum_count']).toContain(r.at(-1));
+    expect(rows.some((r) => r.at(-1) === 'below minimum_count')).toBe(true);
   });
 });

@@ -155,6 +155,33 @@ describe('anything else is rejected before it is evaluated', () => {
     for (const t of ['-2.06 \u00b1 0.13', '-2.06^{+0.13}_{-0.10}']) expect(msg(t)).toContain('model_uncertainty');
   });
 
+  test('a value and its asymmetric errors pasted from a paper ("-2.06+0.13-0.10") is refused, not read as -2.03 (failed before)', () => {
+    const msg = (t: string) => {
+      try {
+        return String(compileExpression(t, F, 'population.alpha').fn(0));
+      } catch (e) {
+        expect((e as SurveyError).code).toBe('bad_expression');
+        return (e as Error).message;
+      }
+    };
+    for (const t of [
+      '-2.06+0.13-0.10',
+      '-2.06 +0.13 -0.10',
+      '-2.06 + 0.13 - 0.10',
+      '20.5+1.2e-1-0.3',
+      '\u22122.06+0.13\u22120.10',
+    ]) {
+      const m = msg(t);
+      expect(m, t).toContain('upper and lower errors');
+      expect(m, t).toContain('model_uncertainty');
+    }
+    expect(msg('-2.06+0.13-0.10')).toContain('give the value alone (-2.06)');
+    // anything with z, or other operators or orders, is an expression and is read
+    expect(msg('-2.06 + 0.13*z - 0.1')).toBe(String(-2.06 + 0 - 0.1));
+    expect(msg('-2.06 - 0.13 + 0.1')).toBe(String(-2.06 - 0.13 + 0.1));
+    expect(msg('1 + 2')).toBe('3');
+  });
+
   test('a unit after a number ("0.29e-3 Mpc^-3", "-20.87 mag") is named as a unit, not as a missing "*"', () => {
     const msg = (t: string) => {
       try {

@@ -2,6 +2,7 @@ import { describe, expect, test } from 'vitest';
 import { SurveyError } from '../../src/errors.js';
 import { parseQuantity, type QuantityKind } from '../../src/survey/units.js';
 import { FULL_SKY_DEG2, SR_PER_DEG2 } from '../../src/model/sky.js';
+import { loadSurveyText } from '../../src/survey/load.js';
 
 const F = 'units.yaml';
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);
@@ -21,6 +22,19 @@ describe('unit conversions against published definitions (relative tolerance 1e-
     ['900 arcmin²', 'area', 0.25, 'arcmin² is arcmin^2; 1 deg^2 = 3600 arcmin^2'],
     ['5e-17 erg s⁻¹ cm⁻²', 'flux', 5e-17, 'erg s⁻¹ cm⁻² as papers typeset it is erg/s/cm^2 (common practice)'],
     ['5e-20 W m⁻²', 'flux', 5e-17, '1 W m^-2 = 1e3 erg/s/cm^2 (1 W = 1e7 erg/s, 1 m^2 = 1e4 cm^2)'],
+    [
+      '5e−17 erg/s/cm^2',
+      'flux',
+      5e-17,
+      'a typeset minus sign (U+2212) in a pasted exponent is a minus (common practice; refused before as not starting with a number)',
+    ],
+    ['2.1e−6 m', 'wavelength', 21000, 'U+2212 minus: 2.1e-6 m = 2.1 um = 21000 Angstrom'],
+    [
+      '−2.5',
+      'area',
+      -2.5,
+      'a bare number with the typeset minus reads as -2.5 (the area key then refuses a negative area)',
+    ],
     ['1 sr', 'area', (180 / Math.PI) ** 2, '1 sr = 1 rad^2 = (180/pi)^2 deg^2 (SI brochure, 9th ed., Table 4)'],
     ['0.01 sr', 'area', 0.01 * (180 / Math.PI) ** 2, '1 sr = (180/pi)^2 deg^2'],
     [6563, 'wavelength', 6563, 'plain number: Angstrom'],
@@ -80,5 +94,32 @@ describe('units that are wrong, missing or unknown are errors naming the key', (
     const e = err as SurveyError;
     expect([e.code, e.keyPath, e.file]).toEqual(['bad_unit', 'some.key', F]);
     expect(e.message).toMatch(/^units\.yaml: some\.key: .*\.$/);
+  });
+});
+
+describe('a magnitude limit written with the typeset minus sign (U+2212)', () => {
+  const file = (limit: string) => `format: 1
+title: t
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1
+redshift: {min: 6.5, max: 7.5}
+detection: {kind: magnitude, limit: "${limit}", band: "1.25 um"}
+population: {variable: magnitude, rest_wavelength: 1600, phi_star: 0.29e-3, m_star: -20.87, alpha: -2.06}
+`;
+  test('is read as a magnitude and refused by its range, not read as a flux density of -29.5 Jy (failed before)', () => {
+    let err: unknown;
+    try {
+      loadSurveyText(file('\u221229.5'), F);
+    } catch (e) {
+      err = e;
+    }
+    expect(err).toBeInstanceOf(SurveyError);
+    expect((err as SurveyError).keyPath).toBe('detection.limit');
+    expect((err as Error).message).toContain('-29.5 AB mag');
+    expect((err as Error).message).not.toContain('Jy');
+    // a bare number string is the same magnitude as the number (docs/survey-file.md)
+    expect(loadSurveyText(file('29.5'), F).detection).toEqual(
+      loadSurveyText(file('29.5').replace('"29.5"', '29.5'), F).detection,
+    );
   });
 });
