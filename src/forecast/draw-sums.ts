@@ -37,39 +37,58 @@ export function fisherSums(
   offset: number,
   stride = 6,
 ): void {
-  const s = grid.shift;
   const eX = Math.exp(x);
-  const { pointT, pointExpT, pointLogW, pointA1, nodePointStart, sliceNodeStart } = grid;
+  const { nodePointStart, sliceNodeStart } = grid;
   for (let sl = 0; sl < sliceCount(grid); sl++) {
-    let n = 0,
-      bc = 0,
-      ba = 0,
-      fcc = 0,
-      fca = 0,
-      faa = 0;
     const q0 = nodePointStart[sliceNodeStart[sl]!]!;
     const q1 = nodePointStart[sliceNodeStart[sl + 1]!]!;
-    for (let q = q0; q < q1; q++) {
-      const a = pointA1[q]! + dA;
-      const y = pointT[q]! + x;
-      const u = pointExpT[q]! * eX;
-      const g = Math.exp(pointLogW[q]! + a * y - u);
-      const dc = s * (a - u);
-      n += g;
-      bc += g * dc;
-      ba += g * y;
-      fcc += g * dc * dc;
-      fca += g * dc * y;
-      faa += g * y * y;
-    }
-    const o = offset + stride * sl;
-    out[o] = n;
-    out[o + 1] = bc;
-    out[o + 2] = ba;
-    out[o + 3] = fcc;
-    out[o + 4] = fca;
-    out[o + 5] = faa;
+    sliceFisherSums(grid, q0, q1, x, eX, dA, out, offset + stride * sl);
   }
+}
+
+/**
+ * fisherSums of one slice (its points q0 to q1) into out[o ..]. The loop over the points is a
+ * function of its own: when it was fisherSums' inner loop, V8 compiled fisherSums while the loop
+ * ran (on-stack replacement), reached the code after the loop without type feedback, and threw the
+ * compiled code away, several times in a cold report.
+ */
+function sliceFisherSums(
+  grid: DensityGrid,
+  q0: number,
+  q1: number,
+  x: number,
+  eX: number,
+  dA: number,
+  out: Float64Array,
+  o: number,
+): void {
+  const s = grid.shift;
+  const { pointT, pointExpT, pointLogW, pointA1 } = grid;
+  let n = 0,
+    bc = 0,
+    ba = 0,
+    fcc = 0,
+    fca = 0,
+    faa = 0;
+  for (let q = q0; q < q1; q++) {
+    const a = pointA1[q]! + dA;
+    const y = pointT[q]! + x;
+    const u = pointExpT[q]! * eX;
+    const g = Math.exp(pointLogW[q]! + a * y - u);
+    const dc = s * (a - u);
+    n += g;
+    bc += g * dc;
+    ba += g * y;
+    fcc += g * dc * dc;
+    fca += g * dc * y;
+    faa += g * y * y;
+  }
+  out[o] = n;
+  out[o + 1] = bc;
+  out[o + 2] = ba;
+  out[o + 3] = fcc;
+  out[o + 4] = fca;
+  out[o + 5] = faa;
 }
 
 /**
@@ -217,8 +236,11 @@ function chebyshevTransform(n: number): Float64Array {
 function locate(v: number, lo: number, count: number, step: number): { panel: number; xi: number } {
   if (!(step > 0)) return { panel: 0, xi: 0 };
   let panel = Math.floor((v - lo) / step);
+  // (count - 1 worked out before the branch that needs it, seldom taken: arithmetic first run
+  // after V8 has compiled a caller throws the compiled code away)
+  const last = count - 1;
   if (panel < 0) panel = 0;
-  if (panel > count - 1) panel = count - 1;
+  if (panel > last) panel = last;
   return { panel, xi: (v - lo - (panel + 0.5) * step) / (0.5 * step) };
 }
 
@@ -310,46 +332,85 @@ export function drawSumsTable(
         }
     }
 
-  const ta1 = new Float64Array(na);
-  const tx1 = new Float64Array(nx);
-  const dx1 = new Float64Array(nx);
-  const u1 = new Float64Array(nx);
-  // the series in x of every x panel at the last draw's dA: reduced[p][l][r]
-  const reduced = new Float64Array(xp.count * nx * width);
-  let reducedFor = NaN;
-  return {
-    passes,
-    errorEstimate: tail,
-    slopeErrorEstimate: slopeTail,
-    fill(x0, step, knots, dA, out, offset, knotStride) {
-      if (dA !== reducedFor) {
-        const { panel: q, xi } = locate(dA, aLo, ap.count, ap.step);
-        chebyshevValues(xi, na, ta1);
-        reduced.fill(0);
-        const span = nx * width;
-        for (let p = 0; p < xp.count; p++) {
-          const dst = p * span;
-          for (let k = 0; k < na; k++) {
-            const c = ta1[k]!;
-            const src = (q * xp.count + p) * block + k * span;
-            axpy(reduced, dst, c, coef, src, span);
-          }
+  return new SeriesTable(passes, tail, slopeTail, coef, xp, ap, xLo, aLo, nx, na, nS, dXi);
+}
+
+/**
+ * The table drawSumsTable returns. A class rather than an object literal with its own fill: every
+ * table's fill was a closure of its own, which V8's optimising compiler compiled afresh (four times
+ * in a cold report of the robust UV plan); the prototype's fill is compiled once.
+ */
+class SeriesTable implements DrawSumsTable {
+  private readonly width: number;
+  private readonly block: number;
+  private readonly ta1: Float64Array;
+  private readonly tx1: Float64Array;
+  private readonly dx1: Float64Array;
+  private readonly u1: Float64Array;
+  /** The series in x of every x panel at the last draw's dA: reduced[p][l][r]. */
+  private readonly reduced: Float64Array;
+  private reducedFor = NaN;
+
+  constructor(
+    readonly passes: number,
+    readonly errorEstimate: number,
+    readonly slopeErrorEstimate: number,
+    private readonly coef: Float64Array,
+    private readonly xp: { count: number; step: number },
+    private readonly ap: { count: number; step: number },
+    private readonly xLo: number,
+    private readonly aLo: number,
+    private readonly nx: number,
+    private readonly na: number,
+    private readonly nS: number,
+    private readonly dXi: number,
+  ) {
+    this.width = SUMS * nS;
+    this.block = na * nx * this.width;
+    this.ta1 = new Float64Array(na);
+    this.tx1 = new Float64Array(nx);
+    this.dx1 = new Float64Array(nx);
+    this.u1 = new Float64Array(nx);
+    this.reduced = new Float64Array(xp.count * nx * this.width);
+  }
+
+  fill(
+    x0: number,
+    step: number,
+    knots: number,
+    dA: number,
+    out: Float64Array,
+    offset: number,
+    knotStride: number,
+  ): void {
+    const { xp, ap, xLo, aLo, nx, na, nS, dXi, width, block, coef, reduced, ta1, tx1, dx1, u1 } = this;
+    if (dA !== this.reducedFor) {
+      const { panel: q, xi } = locate(dA, aLo, ap.count, ap.step);
+      chebyshevValues(xi, na, ta1);
+      reduced.fill(0);
+      const span = nx * width;
+      for (let p = 0; p < xp.count; p++) {
+        const dst = p * span;
+        for (let k = 0; k < na; k++) {
+          const c = ta1[k]!;
+          const src = (q * xp.count + p) * block + k * span;
+          axpy(reduced, dst, c, coef, src, span);
         }
-        reducedFor = dA;
       }
-      for (let kn = 0; kn < knots; kn++) {
-        const { panel: p, xi } = locate(x0 + kn * step, xLo, xp.count, xp.step);
-        chebyshevValues(xi, nx, tx1);
-        // T_l' = l U_(l-1), U the second kind: U_0 = 1, U_1 = 2 xi, U_k = 2 xi U_(k-1) - U_(k-2)
-        u1[0] = 1;
-        if (nx > 1) u1[1] = 2 * xi;
-        for (let l = 2; l < nx; l++) u1[l] = 2 * xi * u1[l - 1]! - u1[l - 2]!;
-        dx1[0] = 0;
-        for (let l = 1; l < nx; l++) dx1[l] = l * u1[l - 1]! * dXi;
-        const o = offset + kn * knotStride;
-        for (let sl = 0; sl < nS; sl++)
-          seriesAt(reduced, p * nx * width + SUMS * sl, width, nx, tx1, dx1, out, o + PER_SLICE * sl);
-      }
-    },
-  };
+      this.reducedFor = dA;
+    }
+    for (let kn = 0; kn < knots; kn++) {
+      const { panel: p, xi } = locate(x0 + kn * step, xLo, xp.count, xp.step);
+      chebyshevValues(xi, nx, tx1);
+      // T_l' = l U_(l-1), U the second kind: U_0 = 1, U_1 = 2 xi, U_k = 2 xi U_(k-1) - U_(k-2)
+      u1[0] = 1;
+      if (nx > 1) u1[1] = 2 * xi;
+      for (let l = 2; l < nx; l++) u1[l] = 2 * xi * u1[l - 1]! - u1[l - 2]!;
+      dx1[0] = 0;
+      for (let l = 1; l < nx; l++) dx1[l] = l * u1[l - 1]! * dXi;
+      const o = offset + kn * knotStride;
+      for (let sl = 0; sl < nS; sl++)
+        seriesAt(reduced, p * nx * width + SUMS * sl, width, nx, tx1, dx1, out, o + PER_SLICE * sl);
+    }
+  }
 }

@@ -74,59 +74,77 @@ export function knotSums(
   offset: number,
   stride = 12,
 ): void {
-  const s = grid.shift;
   const eX = Math.exp(x);
-  const { pointT, pointExpT, pointLogW, pointA1, nodePointStart, sliceNodeStart } = grid;
+  const { nodePointStart, sliceNodeStart } = grid;
   for (let sl = 0; sl < sliceCount(grid); sl++) {
-    let n = 0,
-      bc = 0,
-      ba = 0,
-      fcc = 0,
-      fca = 0,
-      faa = 0,
-      dn = 0,
-      dbc = 0,
-      dba = 0,
-      dfcc = 0,
-      dfca = 0,
-      dfaa = 0;
     const q0 = nodePointStart[sliceNodeStart[sl]!]!;
     const q1 = nodePointStart[sliceNodeStart[sl + 1]!]!;
-    for (let q = q0; q < q1; q++) {
-      const a = pointA1[q]! + dA;
-      const y = pointT[q]! + x;
-      const u = pointExpT[q]! * eX;
-      const g = Math.exp(pointLogW[q]! + a * y - u);
-      const dc = s * (a - u);
-      const k = a - u;
-      const su = s * u;
-      n += g;
-      bc += g * dc;
-      ba += g * y;
-      fcc += g * dc * dc;
-      fca += g * dc * y;
-      faa += g * y * y;
-      dn += g * k;
-      dbc += g * (k * dc - su);
-      dba += g * (k * y + 1);
-      dfcc += g * (k * dc * dc - 2 * su * dc);
-      dfca += g * (k * dc * y - su * y + dc);
-      dfaa += g * (k * y * y + 2 * y);
-    }
-    const o = offset + stride * sl;
-    out[o] = n;
-    out[o + 1] = bc;
-    out[o + 2] = ba;
-    out[o + 3] = fcc;
-    out[o + 4] = fca;
-    out[o + 5] = faa;
-    out[o + 6] = dn;
-    out[o + 7] = dbc;
-    out[o + 8] = dba;
-    out[o + 9] = dfcc;
-    out[o + 10] = dfca;
-    out[o + 11] = dfaa;
+    sliceKnotSums(grid, q0, q1, x, eX, dA, out, offset + stride * sl);
   }
+}
+
+/**
+ * knotSums of one slice (its points q0 to q1) into out[o ..], in a function of its own for the
+ * reason sliceFisherSums (src/forecast/draw-sums.ts) is: as knotSums' inner loop, V8 compiled it
+ * while it ran and threw the code away at the unfed code after it.
+ */
+function sliceKnotSums(
+  grid: DensityGrid,
+  q0: number,
+  q1: number,
+  x: number,
+  eX: number,
+  dA: number,
+  out: Float64Array,
+  o: number,
+): void {
+  const s = grid.shift;
+  const { pointT, pointExpT, pointLogW, pointA1 } = grid;
+  let n = 0,
+    bc = 0,
+    ba = 0,
+    fcc = 0,
+    fca = 0,
+    faa = 0,
+    dn = 0,
+    dbc = 0,
+    dba = 0,
+    dfcc = 0,
+    dfca = 0,
+    dfaa = 0;
+  for (let q = q0; q < q1; q++) {
+    const a = pointA1[q]! + dA;
+    const y = pointT[q]! + x;
+    const u = pointExpT[q]! * eX;
+    const g = Math.exp(pointLogW[q]! + a * y - u);
+    const dc = s * (a - u);
+    const k = a - u;
+    const su = s * u;
+    n += g;
+    bc += g * dc;
+    ba += g * y;
+    fcc += g * dc * dc;
+    fca += g * dc * y;
+    faa += g * y * y;
+    dn += g * k;
+    dbc += g * (k * dc - su);
+    dba += g * (k * y + 1);
+    dfcc += g * (k * dc * dc - 2 * su * dc);
+    dfca += g * (k * dc * y - su * y + dc);
+    dfaa += g * (k * y * y + 2 * y);
+  }
+  out[o] = n;
+  out[o + 1] = bc;
+  out[o + 2] = ba;
+  out[o + 3] = fcc;
+  out[o + 4] = fca;
+  out[o + 5] = faa;
+  out[o + 6] = dn;
+  out[o + 7] = dbc;
+  out[o + 8] = dba;
+  out[o + 9] = dfcc;
+  out[o + 10] = dfca;
+  out[o + 11] = dfaa;
 }
 
 /**

@@ -109,6 +109,67 @@ export function luminosityFunctionCurve(
 }
 
 /**
+ * values[i * n + d]: phi at x[i] under draw d. Each term is schechterMagnitude's (or
+ * schechterPerDex's) own arithmetic in its own order, with the factor in front of u^(alpha+1)
+ * (0.4 ln10 phi*, or ln10 phi*) and alpha + 1 made once per draw and component: the same numbers,
+ * bit for bit, at a fraction of the cost (a report draws some 10^6 of them). Its loop and the
+ * percentiles' are functions of their own: in one function, V8 compiled the first loop while it
+ * ran, and the second, reached without type feedback, threw that code away.
+ */
+function bandValues(
+  components: readonly { phiStar: number; alpha: number }[],
+  knee: number,
+  magnitude: boolean,
+  x: readonly number[],
+  offsets: readonly ModelOffsets[],
+  values: Float64Array,
+): void {
+  const n = offsets.length;
+  const nx = x.length;
+  const nc = components.length;
+  const front = new Float64Array(nc);
+  const power = new Float64Array(nc);
+  const scale = magnitude ? 0.4 * Math.LN10 : Math.LN10;
+  for (let d = 0; d < n; d++) {
+    const o = offsets[d]!;
+    const k = knee + o.characteristic;
+    for (let j = 0; j < nc; j++) {
+      const c = components[j]!;
+      front[j] = scale * (c.phiStar * 10 ** (o.log10PhiStar[j] ?? 0));
+      power[j] = c.alpha + (o.alpha[j] ?? 0) + 1;
+    }
+    for (let i = 0; i < nx; i++) {
+      const e = magnitude ? 0.4 * (k - x[i]!) : x[i]! - k;
+      const u = 10 ** e;
+      const tail = Math.exp(-u);
+      let v = 0;
+      for (let j = 0; j < nc; j++) v += front[j]! * u ** power[j]! * tail;
+      values[i * n + d] = v;
+    }
+  }
+}
+
+/** The 16th and 84th percentiles of each x's n draws in values (sorted in place). */
+function bandPercentiles(values: Float64Array, nx: number, n: number): { p16: number[]; p84: number[] } {
+  const p16: number[] = [];
+  const p84: number[] = [];
+  for (let i = 0; i < nx; i++) {
+    const v = values.subarray(i * n, (i + 1) * n).sort();
+    p16.push(percentileOf(v, 0.16));
+    p84.push(percentileOf(v, 0.84));
+  }
+  return { p16, p84 };
+}
+
+/** Linear interpolation between the order statistics of a sorted array. */
+function percentileOf(sorted: Float64Array, q: number): number {
+  const h = (sorted.length - 1) * q;
+  const lo = Math.floor(h);
+  const hi = Math.min(lo + 1, sorted.length - 1);
+  return sorted[lo]! + (h - lo) * (sorted[hi]! - sorted[lo]!);
+}
+
+/**
  * The luminosity function of `p` at redshift `z` under each draw of its own uncertainty (the
  * offsets predict's draws use: src/counts/model-draws.ts drawModelOffsets), at the points `x`:
  * per x the 16th and 84th percentiles of phi over the draws (linear between order statistics,
@@ -126,44 +187,8 @@ export function luminosityFunctionBand(
   const knee = magnitude ? at.characteristic : Math.log10(at.characteristic);
   const n = offsets.length;
   const nx = x.length;
-  const nc = at.components.length;
-  // values[i * n + d]: phi at x[i] under draw d. Each term is schechterMagnitude's (or
-  // schechterPerDex's) own arithmetic in its own order, with the factor in front of u^(alpha+1)
-  // (0.4 ln10 phi*, or ln10 phi*) and alpha + 1 made once per draw and component: the same
-  // numbers, bit for bit, at a fraction of the cost (a report draws some 10^6 of them).
   const values = new Float64Array(nx * n);
-  const front = new Float64Array(nc);
-  const power = new Float64Array(nc);
-  const scale = magnitude ? 0.4 * Math.LN10 : Math.LN10;
-  for (let d = 0; d < n; d++) {
-    const o = offsets[d]!;
-    const k = knee + o.characteristic;
-    for (let j = 0; j < nc; j++) {
-      const c = at.components[j]!;
-      front[j] = scale * (c.phiStar * 10 ** (o.log10PhiStar[j] ?? 0));
-      power[j] = c.alpha + (o.alpha[j] ?? 0) + 1;
-    }
-    for (let i = 0; i < nx; i++) {
-      const e = magnitude ? 0.4 * (k - x[i]!) : x[i]! - k;
-      const u = 10 ** e;
-      const tail = Math.exp(-u);
-      let v = 0;
-      for (let j = 0; j < nc; j++) v += front[j]! * u ** power[j]! * tail;
-      values[i * n + d] = v;
-    }
-  }
-  const pct = (sorted: Float64Array, q: number) => {
-    const h = (sorted.length - 1) * q;
-    const lo = Math.floor(h);
-    const hi = Math.min(lo + 1, sorted.length - 1);
-    return sorted[lo]! + (h - lo) * (sorted[hi]! - sorted[lo]!);
-  };
-  const p16: number[] = [];
-  const p84: number[] = [];
-  for (let i = 0; i < nx; i++) {
-    const v = values.subarray(i * n, (i + 1) * n).sort();
-    p16.push(pct(v, 0.16));
-    p84.push(pct(v, 0.84));
-  }
+  bandValues(at.components, knee, magnitude, x, offsets, values);
+  const { p16, p84 } = bandPercentiles(values, nx, n);
   return { draws: n, p16, p84 };
 }

@@ -1,37 +1,84 @@
 /**
- * Changes made so that V8's optimising compiler compiles the count engine's hot functions once in
- * a cold process (the photo-z slice's sums over its pieces' nodes in a function of the module, the
+ * Changes made so that V8's optimising compiler compiles the hot functions of a cold predict and
+ * report once (the photo-z slice's sums over its pieces' nodes in a function of the module, the
  * model draws' level-2 rows and histogram terms in classes, the open brightest bin's end worked out
- * for every node, the nodes' components of one class in packed arrays) keep the same arithmetic
- * in the same order, so every number is the same bit for bit. Source: the SHA-256 of
- * each sample's whole prediction as JSON (JSON.stringify gives every number's shortest exact
- * form) on the code before them (commit e1057c7), recorded with the same calls as below.
+ * for every node, the nodes' components of one class in packed arrays; the luminosity function's
+ * band in two loops of their own, the draws' Fisher series table a class, fisherSums and knotSums a
+ * slice at a time, the panel's clamp worked out before its branch) keep the same arithmetic in the
+ * same order, so every number is the same bit for bit. Source: the SHA-256 of every number of each
+ * result, in document order (JSON.stringify gives each number's shortest exact form; the words
+ * are left out, so that a change of wording does not touch these checks), on the code before them
+ * (commit e1057c7), recorded with the same calls as below. A change meant to move these numbers
+ * records them again on the code before it.
  */
 import { describe, expect, test } from 'vitest';
 import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
 import { loadSurveyText } from '../../src/survey/load.js';
 import { predict } from '../../src/counts/predict.js';
+import { luminosityFunctionBand } from '../../src/population/curves.js';
+import { drawModelOffsets } from '../../src/counts/model-draws.js';
+import { runCli } from '../cli/helpers.js';
 
-/** The samples whose cold predict met those functions, and their predictions' digests before. */
-const BEFORE: Record<string, string> = {
+/** Every number in v, in document order. */
+function numbers(v: unknown, out: number[] = []): number[] {
+  if (typeof v === 'number') out.push(v);
+  else if (Array.isArray(v)) for (const x of v) numbers(x, out);
+  else if (v && typeof v === 'object') for (const x of Object.values(v)) numbers(x, out);
+  return out;
+}
+
+function digest(v: unknown): string {
+  return createHash('sha256')
+    .update(JSON.stringify(numbers(v)))
+    .digest('hex');
+}
+
+function load(name: string) {
+  const file = `samples/${name}.yaml`;
+  return loadSurveyText(readFileSync(file, 'utf8'), file, 'samples');
+}
+
+/** The samples whose cold predict met those functions, and their predictions' numbers before. */
+const PREDICT_BEFORE: Record<string, string> = {
   // the open brightest bin in the completeness's varying range
-  'narrowband-interlopers': 'd892a85e44476085b94dbd6326cc0694590a197cd95cabdf5ef856d67e08f4b8',
+  'narrowband-interlopers': 'a30f2f5079cc6a7ec860a5706608b4031fbffee79e971dacf450532895184d40',
   // measured slices summed over the pieces' nodes; nodes' components
-  'photoz-optical-field': 'a84408f400566729259271b2feb9492e3a0f0a6f987551db4d30350b86ac2a03',
+  'photoz-optical-field': '4b8bc8acae65c2cbd718307d0482dc6303eff39b90b0f60d72a71f0135185442',
   // level-2 rows of the completeness tables, histogram tables
-  'plan-robust-uv-slope': '01d45d1002601d8b831d259ec0f79de017d1c79a2b832f4fd55950c460a25574',
+  'plan-robust-uv-slope': 'e1cf1ab00883bdf2d947f44002356a472932ae6c7d95e9563cc9fd0a022d2a92',
   // two components' histogram tables
-  'double-schechter-mass': '2862d744fffc2bf15d78c09052b51cec19ed4352e9d74b0d630f607451b289c2',
-  'mass-limited': '58b75620cb409c6ce811c8cc27f86e4c8c0d71ae7c95cdfa3acbea8b6df6b7d8',
+  'double-schechter-mass': '1fbe7562b2674e57b7e0eaa53e1f553caa0c25704337e64f67e214bd1fd17247',
+  'mass-limited': '2d5181a8933f9697c0fd6c02099e13cd1d84ccbea7008adba2aa082e7067355b',
 };
 
-describe('hot functions compiled once: the same numbers bit for bit', () => {
-  for (const [name, digest] of Object.entries(BEFORE)) {
-    test(`predict ${name}: the prediction's SHA-256 as before (e1057c7)`, () => {
-      const file = `samples/${name}.yaml`;
-      const p = predict(loadSurveyText(readFileSync(file, 'utf8'), file, 'samples'));
-      expect(createHash('sha256').update(JSON.stringify(p)).digest('hex')).toBe(digest);
+/** The luminosity function's band of each sample's first population (1,000 draws, seed 1, 60 points). */
+const BAND_BEFORE: Record<string, string> = {
+  'plan-robust-uv-slope': 'c7ae0712d50c49ef1e22e6133abef377aa39c9b0bff1dd68660855e7ade64921',
+  'double-schechter-mass': 'f444f89f0fd75607da96980b05cfe3cad66e7b2c86a11d463b419f1a8a8819b7',
+  'mass-limited': 'b12e3a5c63ba3fa2fa4c1a74c22c5b91be0c34de03f768503012804c5783179a',
+};
+
+describe('hot functions compiled once: the same numbers bit for bit (e1057c7)', () => {
+  for (const [name, before] of Object.entries(PREDICT_BEFORE)) {
+    test(`predict ${name}`, () => {
+      expect(digest(predict(load(name)))).toBe(before);
+    });
+  }
+
+  test('report --format json of the robust UV plan (prediction, forecast with its draws, robust plan)', async () => {
+    const r = await runCli(['report', 'samples/plan-robust-uv-slope.yaml', '--format', 'json']);
+    expect(r.code).toBe(0);
+    expect(digest(JSON.parse(r.stdout))).toBe('b4c751c172a7e11fec5b37cdf0650dd17bc2d42b312ff19ee406366267985c01');
+  });
+
+  for (const [name, before] of Object.entries(BAND_BEFORE)) {
+    test(`luminosityFunctionBand of ${name}`, () => {
+      const p = load(name).populations[0]!;
+      const offsets = drawModelOffsets(p.modelUncertainty!, p.components.length, 1000, 1, 0);
+      const z = 0.5 * (p.window.min + p.window.max);
+      const x = Array.from({ length: 60 }, (_, i) => (p.variable === 'magnitude' ? -24 + i * 0.1 : 8 + i * 0.1));
+      expect(digest(luminosityFunctionBand(p, z, x, offsets))).toBe(before);
     });
   }
 });
