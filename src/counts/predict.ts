@@ -246,10 +246,12 @@ function sameEdges(a: readonly number[], b: readonly number[]): boolean {
  */
 export function detectionWarnings(
   populations: readonly { name: string; count: number; window: { min: number; max: number } }[],
+  detection?: Survey['detection'],
 ): Warning[] {
   const all = populations.reduce((a, p) => a + p.count, 0);
   const hint =
-    'check detection.limit, the area and the luminosity function (a log10 given under a linear key such as l_star gives none)';
+    'check detection.limit, the area and the luminosity function (a log10 given under a linear key such as l_star gives none)' +
+    brightLimitHint(detection);
   if (all < 1) {
     return [
       warning('no_detections', `fewer than one source is expected in the whole survey (${fmtNum(all)}): ${hint}`),
@@ -265,6 +267,18 @@ export function detectionWarnings(
       ),
     );
 }
+
+/**
+ * A magnitude limit written as a plain number below 10 AB: brighter than any galaxy survey goes, most
+ * likely a flux density written without its unit ("2e-29" reads as an AB magnitude of 2e-29).
+ */
+function brightLimitHint(d: Survey['detection'] | undefined): string {
+  if (d?.kind !== 'magnitude' || d.limitGivenJy !== undefined || !(d.limitMag < BRIGHT_LIMIT_AB)) return '';
+  return `; the limit, ${fmtNum(d.limitMag)} AB, is brighter than any survey's: a flux density needs its unit (e.g. limit: "2 uJy"), a plain number is an AB magnitude`;
+}
+
+/** A magnitude limit brighter than this (AB) is named in the no_detections warning. */
+const BRIGHT_LIMIT_AB = 10;
 
 export { predictionWarnings };
 
@@ -617,7 +631,10 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
     warnings: mergeWarnings(
       surveyWarnings(survey),
       predictionWarnings(survey),
-      detectionWarnings(perPop.map((p) => ({ name: p.name, count: p.totals.count, window: p.window }))),
+      detectionWarnings(
+        perPop.map((p) => ({ name: p.name, count: p.totals.count, window: p.window })),
+        survey.detection,
+      ),
       uncertaintyWarnings,
     ),
   };

@@ -11,7 +11,7 @@ import { describe, expect, test } from 'vitest';
 import { parseSurveyObject } from '../../src/survey/index.js';
 import { predict } from '../../src/counts/predict.js';
 
-function survey(limit: number, completeness: boolean) {
+function survey(limit: number | string, completeness: boolean) {
   return parseSurveyObject(
     {
       format: 1,
@@ -23,7 +23,7 @@ function survey(limit: number, completeness: boolean) {
         limit,
         band: 7700,
         igm: 'madau1995',
-        ...(completeness ? { completeness: { half: limit + 0.2, width: 0.15 } } : {}),
+        ...(completeness ? { completeness: { half: Number(limit) + 0.2, width: 0.15 } } : {}),
       },
       population: {
         variable: 'magnitude',
@@ -58,4 +58,23 @@ describe('a magnitude limit brighter than every galaxy, with the model drawn', (
           for (const v of [...h.counts, ...h.model!.p16, ...h.model!.p84]) expect(v).toBe(0);
         }
       });
+});
+
+describe('the no_detections warning names a flux density written without its unit', () => {
+  const message = (limit: number | string) =>
+    predict(survey(limit, false), { model: { draws: 0 } })
+      .warnings.filter((w) => w.code === 'no_detections')
+      .map((w) => w.message)
+      .join(' ');
+  test('"2e-29" (a flux density in erg/s/cm^2/Hz without its unit) reads as 2e-29 AB: the message says so', () => {
+    expect(message(2e-29)).toMatch(/the limit, 2e-29 AB, is brighter than any survey's: a flux density needs its unit/);
+    expect(message(3)).toMatch(/the limit, 3 AB, is brighter/);
+  });
+  test('a limit of 12 AB, or a flux density given with its unit, gets the plain sentence', () => {
+    expect(message(12)).toMatch(/fewer than one source/);
+    expect(message(12)).not.toMatch(/needs its unit/);
+    // 3000 Jy is 0.04 AB, but written with its unit
+    expect(message('3000 Jy')).toMatch(/fewer than one source/);
+    expect(message('3000 Jy')).not.toMatch(/needs its unit/);
+  });
 });
