@@ -913,7 +913,9 @@ export function planSpec(plan: PlanView, surveyTitle?: string): Spec | null {
       x: {
         field: 'exposure_hours_per_pointing',
         type: 'quantitative',
-        title: 'exposure per pointing [hours]',
+        title: rows.some((d) => d.tiers)
+          ? 'exposure per pointing of the deepest tier [hours]'
+          : 'exposure per pointing [hours]',
         scale: { type: 'log', nice: false, padding: 16 },
         axis: { format: '~g' },
       },
@@ -927,7 +929,11 @@ export function planSpec(plan: PlanView, surveyTitle?: string): Spec | null {
   });
   const best = plan.best;
   if (best && finite(best.exposure_hours_per_pointing, best.goal_value) && best.exposure_hours_per_pointing > 0) {
-    const label = `best: ${fmtShort(best.exposure_hours_per_pointing)} h × ${fmtShort(best.pointings)} pointing${best.pointings === 1 ? '' : 's'}`;
+    // a design of several tiers: each tier's exposure and pointings (the x of its point is the
+    // deepest tier's exposure, its pointings the total: "2.8 h × 358 pointings" was no design)
+    const label = best.tiers
+      ? `best: ${best.tiers.map((t) => `${fmtShort(t.exposure_hours_per_pointing)} h × ${fmtShort(t.pointings)}`).join(' + ')} pointings`
+      : `best: ${fmtShort(best.exposure_hours_per_pointing)} h × ${fmtShort(best.pointings)} pointing${best.pointings === 1 ? '' : 's'}`;
     // The label stands above the plot, over the best design, joined to its diamond by a dotted
     // rule: no design is drawn there, so it never covers a point. It reads away from the
     // nearer side of the plot so that it stays inside the figure.

@@ -86,6 +86,7 @@ export type PlanDesignView = Pick<
   | 'count'
   | 'goal_value'
   | 'goal_value_pessimistic'
+  | 'tiers'
 >;
 
 /** The fields of a plan (the `plan` result) the figure and the report read. */

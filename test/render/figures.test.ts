@@ -307,6 +307,30 @@ describe('plan figure', () => {
     expect(fig.svg).toContain(`best: 1 h × ${plan.best!.pointings} pointings`);
   });
 
+  test('a best design of two tiers is labelled tier by tier (failed before: "2.8 h × 358 pointings", the deepest tier\'s exposure with the total pointings, no design of the plan)', async () => {
+    const base = demoPlan();
+    // the design at 2 h as the deep tier of two: 0.05 h x 300 wide and 2 h x 8 deep
+    const tiers = [
+      {
+        budget_fraction: 0.6,
+        exposure_hours_per_pointing: 0.05,
+        pointings: 300,
+        area_deg2: 15,
+        limit: -16,
+        count: 100,
+      },
+      { budget_fraction: 0.4, exposure_hours_per_pointing: 2, pointings: 8, area_deg2: 0.4, limit: -16.65, count: 50 },
+    ];
+    const best = { ...base.best!, exposure_hours_per_pointing: 2, pointings: 308, tiers };
+    const plan = { ...base, designs: base.designs.map((d) => (d.exposure_hours_per_pointing === 2 ? best : d)), best };
+    const fig = (await planFigure(plan, 'Demo'))!;
+    expect(fig.svg).toContain('best: 0.05 h × 300 + 2 h × 8 pointings');
+    expect(fig.svg).not.toContain('2 h × 308');
+    expect(fig.svg).toContain('exposure per pointing of the deepest tier [hours]');
+    // one tier: the axis as before
+    expect((await planFigure(base, 'Demo'))!.svg).not.toContain('deepest tier');
+  });
+
   test('ranked across the model (robust: true): a dashed curve of the goal at the pessimistic case, named in the subtitle; without robust none (failed before: only the assumed goal was drawn beside a best chosen by the other)', async () => {
     const base = demoPlan();
     const designs = base.designs.map((d, i) => ({ ...d, goal_value_pessimistic: d.goal_value * (1 - 0.12 * i) }));
