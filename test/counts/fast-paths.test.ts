@@ -61,6 +61,15 @@ const REL = 1e-9;
  * (checked below against a fine Gauss-Legendre quadrature). Every other number is compared at 1e-9.
  */
 const REL_HALO_MASS = 3e-9;
+/**
+ * The mass-limited variant with a logistic completeness: its redshift nodes now follow the limit
+ * through the completeness curve (src/counts/engine.ts, completenessCrossings), so the totals'
+ * uncertainty, a sum over the nodes' redshift profile (effective depth, count-weighted bias, the
+ * halo mass and box sigma that follow), moved by up to 1.2e-6; its counts, histograms and densities
+ * still agree to 1e-9 (the fixture's counts were right: an independent integration gives both to
+ * 2e-15).
+ */
+const NODES_MOVED = { name: 'mass-limited 10 slices, logistic completeness', path: /totals\.uncertainty\./, rel: 2e-6 };
 
 /** Fields added to the outputs after the fixture was recorded (not numbers of the earlier code): the model's selection statement, k-correction, magnitude system and model uncertainty. */
 const ADDED_SINCE = new Set(['selection', 'k_correction', 'magnitude_system', 'model_uncertainty']);
@@ -82,7 +91,8 @@ function differences(got: unknown, want: unknown, path: string, out: string[]): 
   if (typeof want === 'string' && typeof got === 'number' && String(got) === want) return; // NaN recorded as a string
   if (typeof want === 'number' && typeof got === 'number') {
     const scale = Math.max(Math.abs(want), Math.abs(got));
-    const rel = path.endsWith('.halo_mass_min_msun') ? REL_HALO_MASS : REL;
+    let rel = path.endsWith('.halo_mass_min_msun') ? REL_HALO_MASS : REL;
+    if (path.startsWith(NODES_MOVED.name + '.') && NODES_MOVED.path.test(path)) rel = NODES_MOVED.rel;
     if (!(Math.abs(got - want) <= rel * scale))
       out.push(`${path}: ${got} against ${want} (${((got - want) / want).toExponential(2)})`);
     return;
