@@ -89,6 +89,114 @@ function depth(e: ErrorObject): number {
   return e.instancePath === '' ? 0 : e.instancePath.split('/').length - 1;
 }
 
+/**
+ * The keys of the sections a key is most often put into by mistake (specs/survey.schema.json; the
+ * test/survey/schema.test.ts keeps them equal to it): `blend_ratio` under detection, or
+ * `equivalent_width_cut` under a population, is a key of another section, where the nearest
+ * spelling here (`equivalent_widths`) would mislead.
+ */
+export const SECTION_KEYS: Readonly<Record<'top' | 'cosmology' | 'detection' | 'population', readonly string[]>> = {
+  top: [
+    'format',
+    'title',
+    'cosmology',
+    'area',
+    'redshift',
+    'field',
+    'detection',
+    'population',
+    'populations',
+    'slices',
+    'histogram',
+    'exposure',
+    'plan',
+  ],
+  cosmology: ['preset', 'h0', 'omega_m', 't_cmb', 'omega_b', 'sigma8', 'n_s'],
+  detection: [
+    'kind',
+    'limit',
+    'line',
+    'band',
+    'sed',
+    'system',
+    'vega_to_ab',
+    'band_file',
+    'beta',
+    'igm',
+    'filter',
+    'completeness',
+    'photo_z',
+    'redshift_selection',
+    'equivalent_width_cut',
+  ],
+  population: [
+    'name',
+    'shape',
+    'variable',
+    'quantity',
+    'phi_star',
+    'log10_phi_star',
+    'phi_star_dex',
+    'log10_phi_star_dex',
+    'l_star',
+    'log10_l_star',
+    'm_star',
+    'alpha',
+    'phi_star_1',
+    'log10_phi_star_1',
+    'phi_star_1_dex',
+    'log10_phi_star_1_dex',
+    'alpha_1',
+    'phi_star_2',
+    'log10_phi_star_2',
+    'phi_star_2_dex',
+    'log10_phi_star_2_dex',
+    'alpha_2',
+    'line',
+    'rest_wavelength',
+    'rest_band',
+    'system',
+    'vega_to_ab',
+    'bias',
+    'occupation',
+    'model_uncertainty',
+    'redshift_selection',
+    'blend_ratio',
+    'attenuation',
+    'equivalent_widths',
+    'valid_redshift',
+    'sfr_conversion',
+  ],
+};
+
+const SECTION_WORDS = {
+  top: 'the top level',
+  cosmology: 'cosmology',
+  detection: 'detection',
+  population: 'a population',
+} as const;
+
+function sectionId(parent: string): keyof typeof SECTION_KEYS | undefined {
+  if (parent === '') return 'top';
+  if (parent === 'cosmology' || parent === 'detection' || parent === 'population') return parent;
+  return /^populations\[\d+\]$/.test(parent) ? 'population' : undefined;
+}
+
+function sectionOf(parent: string): string {
+  const id = sectionId(parent);
+  return id ? SECTION_WORDS[id] : parent;
+}
+
+/** The other sections (top level, cosmology, detection, population) that hold `key`, in words. */
+function misplaced(key: string, parent: string): string[] | undefined {
+  const here = sectionId(parent);
+  if (!here) return undefined;
+  const homes = (Object.keys(SECTION_KEYS) as (keyof typeof SECTION_KEYS)[]).filter(
+    (id) => id !== here && SECTION_KEYS[id].includes(key),
+  );
+  return homes.length > 0 ? homes.map((id) => SECTION_WORDS[id]) : undefined;
+}
+
 /** Validate `obj`; return undefined when it matches the schema, else the one error to report. */
 export function schemaError(obj: unknown, file: string): SurveyError | undefined {
   if (validate(obj)) return undefined;
@@ -100,6 +208,16 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
     const key = String((extra.params as { additionalProperty: string }).additionalProperty);
     const parent = keyPathOf(extra.instancePath);
     const props = Object.keys(((extra.parentSchema ?? {}) as { properties?: object }).properties ?? {});
+    const home = misplaced(key, parent);
+    if (home) {
+      return inputError(
+        'unknown_key',
+        file,
+        join(parent, key),
+        `unknown key "${key}" here: it is a key of ${home.join(' or of ')}, not of ${sectionOf(parent)}`,
+        `move it there`,
+      );
+    }
     const near = suggest(key, props);
     return near
       ? inputError(

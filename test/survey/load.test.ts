@@ -541,6 +541,32 @@ describe('bad input: one SurveyError with a stable code and key path', () => {
     expect(message('slices', { count: 3, edges: [0.1, 0.2] })).toContain('count and edges are both given');
   });
 
+  test('a key of another section is told where it belongs, not renamed to a near key here (failed before: "populations[0].equivalent_width_cut: ... (did you mean equivalent_widths?); rename or remove it")', () => {
+    const message = (key: string, v: unknown) => {
+      const obj = parse(LINE_YAML) as Record<string, unknown>;
+      setPath(obj, key, v);
+      const e = errorOf(() => parseSurveyObject(obj, FILE));
+      expect({ code: e.code, keyPath: e.keyPath }).toEqual({ code: 'unknown_key', keyPath: key });
+      expectOneSentence(e);
+      return e.message;
+    };
+    expect(message('population.equivalent_width_cut', { rest: 10 })).toBe(
+      `${FILE}: population.equivalent_width_cut: unknown key "equivalent_width_cut" here: it is a key of detection, not of a population; move it there.`,
+    );
+    expect(message('detection.blend_ratio', 0.3)).toContain(
+      'unknown key "blend_ratio" here: it is a key of a population, not of detection; move it there.',
+    );
+    expect(message('detection.equivalent_widths', { model: 'exponential', scale: 50 })).toContain(
+      'it is a key of a population, not of detection',
+    );
+    expect(message('redshift_selection', 0.5)).toContain(
+      'it is a key of detection or of a population, not of the top level',
+    );
+    expect(message('h0', 70)).toContain('it is a key of cosmology, not of the top level');
+    // a misspelling with no home elsewhere keeps its suggestion
+    expect(message('population.aplha', -1)).toContain('did you mean alpha?');
+  });
+
   test('a unit of the wrong dimension names the expected unit', () => {
     const obj = parse(LINE_YAML) as Record<string, unknown>;
     setPath(obj, 'area', '2.5 deg');
