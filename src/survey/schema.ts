@@ -66,6 +66,25 @@ function describeValue(v: unknown): string {
   return typeof v; // a symbol or a function: neither comes out of a parsed file
 }
 
+function isMapping(v: unknown): boolean {
+  return typeof v === 'object' && v !== null && !Array.isArray(v);
+}
+
+/**
+ * "a mapping holding one of count, width, edges" for a mapping whose schema asks for exactly one of
+ * several keys (a oneOf of `required` branches), so that `slices: 5` is told the form to write.
+ */
+function oneKeyOf(schema: unknown): string | undefined {
+  const branches = (schema as { oneOf?: unknown } | undefined)?.oneOf;
+  if (!Array.isArray(branches) || branches.length === 0) return undefined;
+  const keys = branches.map((b) => {
+    const r = (b as { required?: unknown }).required;
+    return Object.keys(b as object).length === 1 && Array.isArray(r) && r.length === 1 ? String(r[0]) : undefined;
+  });
+  if (keys.some((k) => k === undefined)) return undefined;
+  return `a mapping holding one of ${keys.join(', ')}`;
+}
+
 function depth(e: ErrorObject): number {
   return e.instancePath === '' ? 0 : e.instancePath.split('/').length - 1;
 }
@@ -100,8 +119,13 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
   }
 
   // 2. Two keys where only one is allowed (oneOf over `required` branches that several pass).
+  // A value that is not a mapping passes every `required` branch vacuously: that is a wrong type
+  // (`slices: 5`), reported below, not two keys given.
   const conflict = errors.find(
-    (e) => e.keyword === 'oneOf' && Array.isArray((e.params as { passingSchemas: unknown }).passingSchemas),
+    (e) =>
+      e.keyword === 'oneOf' &&
+      Array.isArray((e.params as { passingSchemas: unknown }).passingSchemas) &&
+      isMapping(e.data),
   );
   if (conflict) {
     const branches = (conflict.schema ?? []) as { required?: string[] }[];
@@ -130,7 +154,11 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
       case 'type': {
         const group = errors.find((e) => e.keyword === 'anyOf' && e.instancePath === first.instancePath);
         const title = (group?.parentSchema as { title?: string } | undefined)?.title;
-        const expected = title ?? TYPE_WORDS[String((first.params as { type: string }).type)] ?? 'another type';
+        const expected =
+          title ??
+          oneKeyOf(first.parentSchema) ??
+          TYPE_WORDS[String((first.params as { type: string }).type)] ??
+          'another type';
         // "beta: −2" pasted from a paper: YAML reads the typeset minus sign (U+2212) as text
         const typeset = typeof data === 'string' ? data.trim().replace(/\u2212/g, '-') : '';
         if (typeset !== data && /^-(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/.test(typeset)) {
