@@ -8,7 +8,6 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { parse } from 'yaml';
 import { loadSurveyFile, parseSurveyObject } from '../../src/survey/load.js';
 import { describeSurvey } from '../../src/survey/describe.js';
-import { SurveyError } from '../../src/errors.js';
 import { surveyWarnings } from '../../src/population/warnings.js';
 import { predict } from '../../src/counts/predict.js';
 import { clone, LINE_YAML, MAGNITUDE_YAML, setPath, toYaml } from '../survey/fixtures.js';
@@ -16,6 +15,7 @@ import { runCli } from '../cli/helpers.js';
 import { tempDir } from '../support/temp.js';
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { errorOf } from '../support/survey-error.js';
 
 const FILE = 'selection-test.yaml';
 const line = parse(LINE_YAML) as Record<string, unknown>;
@@ -25,16 +25,6 @@ function withKeys(base: Record<string, unknown>, keys: Record<string, unknown>):
   const obj = clone(base);
   for (const [k, v] of Object.entries(keys)) setPath(obj, k, v);
   return obj;
-}
-
-function errorOf(f: () => unknown): SurveyError {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof SurveyError) return e;
-    throw e;
-  }
-  throw new Error('no error');
 }
 
 const codes = (obj: Record<string, unknown>) => surveyWarnings(parseSurveyObject(obj, FILE)).map((w) => w.code);

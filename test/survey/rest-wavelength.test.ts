@@ -10,20 +10,10 @@ import { describe, expect, test } from 'vitest';
 import { parse } from 'yaml';
 import { parseSurveyObject } from '../../src/survey/load.js';
 import { describeSurvey } from '../../src/survey/describe.js';
-import { SurveyError } from '../../src/errors.js';
 import { clone, LINE_YAML, MAGNITUDE_YAML, setPath, THRESHOLD_YAML } from './fixtures.js';
+import { errorOf } from '../support/survey-error.js';
 
 const FILE = 'rest-wavelength-test.yaml';
-
-function errorOf(f: () => unknown): SurveyError {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof SurveyError) return e;
-    throw e;
-  }
-  throw new Error('no error');
-}
 
 describe('rest_wavelength by detection kind', () => {
   test('a line_flux survey: check shows the line, and no rest wavelength of absolute magnitudes', () => {
