@@ -100,6 +100,13 @@ describe('the loader reads the selection keys', () => {
       'missing_key',
       'population.equivalent_widths',
     ],
+    // read and ignored before (failed before: the file was accepted and the counts held every width)
+    [
+      'a distribution of equivalent widths without a cut',
+      { 'population.equivalent_widths': { model: 'exponential', scale: 50 } },
+      'missing_key',
+      'detection.equivalent_width_cut',
+    ],
     [
       'an equivalent-width cut on a magnitude survey',
       { 'detection.equivalent_width_cut': { rest: 20 } },
