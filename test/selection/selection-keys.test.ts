@@ -149,6 +149,25 @@ describe('the loader reads the selection keys', () => {
       expect(e.message.split('\n')).toHaveLength(1);
     },
   );
+
+  test('a table row outside the range is named as the file writes it (failed before: "the fraction kept is 1.00114 at z = 1.67047", where the line between two rows first crosses 1)', () => {
+    const obj = withKeys(line, {
+      'detection.redshift_selection': {
+        table: [
+          [1.0, 0.8],
+          [2.0, 1.1],
+        ],
+      },
+      redshift: { min: 0.9, max: 2.5 },
+    });
+    setPath(obj, 'detection.filter', undefined);
+    const e = errorOf(() => parseSurveyObject(obj, FILE));
+    expect({ code: e.code, keyPath: e.keyPath }).toEqual({
+      code: 'out_of_range',
+      keyPath: 'detection.redshift_selection',
+    });
+    expect(e.message).toContain('the fraction kept is 1.1 at z = 2, outside its physical range (from 0 to 1)');
+  });
 });
 
 describe('warnings about selection traps', () => {
