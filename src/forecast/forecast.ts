@@ -36,6 +36,7 @@ import { makeMockSetup, runMocks } from './mocks.js';
 import { defaultWorkers } from '../parallel/blocks.js';
 import type { Estimator } from './fit.js';
 import { requirement } from './requirement.js';
+import { removingSelectionHint } from '../selection/describe.js';
 import { drawnFisher, forecastDrawOffsets, spreadBlock, type DrawnFisher } from './model-spread.js';
 import { DEFAULT_MODEL_SEED } from '../counts/model-draws.js';
 import { mergeWarnings, type Warning } from '../warnings.js';
@@ -181,7 +182,7 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
       survey.file,
       'detection.limit',
       `no source of "${population.name}" is expected above the limit, so nothing can be measured`,
-      'choose a fainter limit or a larger area',
+      `choose a fainter limit or a larger area${removingSelectionHint(file, [population]).replace(', or the', ', or check the')}`,
     );
   }
   const poisson = summariseFisher(parts.matrix);

@@ -10,6 +10,7 @@ import { loadSurveyFile, parseSurveyObject } from '../../src/survey/load.js';
 import { describeSurvey } from '../../src/survey/describe.js';
 import { surveyWarnings } from '../../src/population/warnings.js';
 import { predict } from '../../src/counts/predict.js';
+import { forecast } from '../../src/forecast/forecast.js';
 import { clone, LINE_YAML, MAGNITUDE_YAML, setPath, toYaml } from '../survey/fixtures.js';
 import { runCli } from '../cli/helpers.js';
 import { tempDir } from '../support/temp.js';
@@ -167,6 +168,31 @@ describe('the loader reads the selection keys', () => {
       keyPath: 'detection.redshift_selection',
     });
     expect(e.message).toContain('the fraction kept is 1.1 at z = 2, outside its physical range (from 0 to 1)');
+  });
+});
+
+describe('a survey the selection leaves empty says so (failed before: only "check detection.limit, the area and the luminosity function", and forecast "choose a fainter limit or a larger area")', () => {
+  test('predict names the selection keys beside the limit; a file without any keeps its message', () => {
+    const empty = withKeys(line, { 'detection.redshift_selection': 0, 'population.attenuation': 1 });
+    const w = predict(parseSurveyObject(empty, FILE)).warnings.find((x) => x.code === 'no_detections');
+    expect(w?.message).toContain(
+      'the luminosity function (a log10 given under a linear key such as l_star gives none), or the selection (detection.redshift_selection, population.attenuation)',
+    );
+    const plain = withKeys(line, { 'detection.limit': 1e-5 });
+    const v = predict(parseSurveyObject(plain, FILE)).warnings.find((x) => x.code === 'no_detections');
+    expect(v?.message).toBeDefined();
+    expect(v?.message).not.toContain('selection');
+  });
+  test('forecast names them in its fix', async () => {
+    const empty = withKeys(line, { 'population.redshift_selection': 0 });
+    const e = await forecast(parseSurveyObject(empty, FILE), { cosmicVariance: false }).then(
+      () => undefined,
+      (err: unknown) => err as { code?: string; message?: string },
+    );
+    expect(e?.code).toBe('no_sources');
+    expect(e?.message).toContain(
+      'choose a fainter limit or a larger area, or check the selection (population.redshift_selection).',
+    );
   });
 });
 
