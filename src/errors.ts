@@ -99,3 +99,20 @@ export function assertFinite(file: string, keyPath: string, what: string, ...val
     }
   }
 }
+
+/**
+ * Refuse a library option (`forecast(survey, {mocks})`, `predict(survey, {model: {draws}})`) that
+ * is not a whole number from min to max, as the command line refuses its flag: a function of plain
+ * values takes them from scripts, where a typo is as likely as on a command line.
+ */
+export function assertWholeOption(value: unknown, option: string, min: number, max: number): void {
+  if (value === undefined) return;
+  if (typeof value === 'number' && Number.isInteger(value) && value >= min && value <= max) return;
+  throw inputError(
+    'bad_option',
+    '',
+    option,
+    `is ${typeof value === 'number' ? String(value) : `a ${typeof value}`}, not a whole number from ${min} to ${max}`,
+    `give ${option} a whole number in that range`,
+  );
+}

@@ -35,6 +35,8 @@ export const WARNING_CODES = {
     'a per-dex normalisation (phi_star_dex forms) was given: says the ln 10 convention used, which papers label inconsistently',
   implausible_density:
     "a population's phi* is above 0.5 Mpc^-3, far above any galaxy population's (e.g. a linear value under a log10 key)",
+  completeness_vanishes_before_limit:
+    'the completeness curve is below 1 % at the detection limit: the counts follow the curve, and a fainter limit adds almost nothing',
 } as const;
 
 export type WarningCode = keyof typeof WARNING_CODES;

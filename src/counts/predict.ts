@@ -23,7 +23,8 @@ import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import type { Histogram, SliceCount } from './engine.js';
 import { countWith, type CountMemo } from './count-memo.js';
-import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED } from './model-draws.js';
+import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED, MAX_MODEL_DRAWS } from './model-draws.js';
+import { assertWholeOption } from '../errors.js';
 import { addPopulationSpreads, addTopSpreads } from './model-spread.js';
 import { countPhotoZ, sumMigrations, type PhotoZCount, type PhotoZMigration } from './photo-z.js';
 import { PHOTO_Z_REACH_SIGMA } from '../model/photo-z.js';
@@ -54,6 +55,7 @@ import { describeModel } from '../population/describe.js';
 import { predictionWarnings } from './warnings.js';
 import { mergeWarnings, warning, type Warning } from '../warnings.js';
 import { precise } from '../render/format.js';
+import { removingSelectionHint } from '../selection/describe.js';
 import { surveyWarnings } from '../population/warnings.js';
 
 /** The detection block of the prediction: the survey's detection in the outputs' names and units. */
@@ -247,14 +249,23 @@ function sameEdges(a: readonly number[], b: readonly number[]): boolean {
 export function detectionWarnings(
   populations: readonly { name: string; count: number; window: { min: number; max: number } }[],
   detection?: Survey['detection'],
+  survey?: Survey,
 ): Warning[] {
   const all = populations.reduce((a, p) => a + p.count, 0);
-  const hint =
+  // the selection keys that may have removed them (a redshift selection of 0, deep dust, a high
+  // equivalent-width cut), named beside the limit when the file has any
+  const hint = (which?: string) =>
     'check detection.limit, the area and the luminosity function (a log10 given under a linear key such as l_star gives none)' +
+    (survey
+      ? removingSelectionHint(
+          survey,
+          which === undefined ? undefined : survey.populations.filter((p) => p.name === which),
+        )
+      : '') +
     brightLimitHint(detection);
   if (all < 1) {
     return [
-      warning('no_detections', `fewer than one source is expected in the whole survey (${fmtNum(all)}): ${hint}`),
+      warning('no_detections', `fewer than one source is expected in the whole survey (${fmtNum(all)}): ${hint()}`),
     ];
   }
   if (populations.length < 2) return [];
@@ -263,7 +274,7 @@ export function detectionWarnings(
     .map((p) =>
       warning(
         'no_detections',
-        `${p.name}: fewer than one source is expected over its window z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)} (${fmtNum(p.count)}); if it should be seen, ${hint}`,
+        `${p.name}: fewer than one source is expected over its window z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)} (${fmtNum(p.count)}); if it should be seen, ${hint(p.name)}`,
       ),
     );
 }
@@ -572,6 +583,8 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
   const cosmo = new FlatCosmology(survey.cosmology);
   const units = survey.populations.map((p) => luminosityDensityUnit(survey, p));
   const withUncertainty = !options.noUncertainty;
+  assertWholeOption(options.model?.draws, 'model.draws', 0, MAX_MODEL_DRAWS);
+  assertWholeOption(options.model?.seed, 'model.seed', 0, 4294967295);
   const modelDraws = options.model?.draws ?? DEFAULT_MODEL_DRAWS;
   const withModel = withUncertainty && modelDraws > 0 && survey.populations.some((p) => p.modelUncertainty);
   const runs = countPopulations(survey, cosmo, units, withUncertainty, withModel, options.countMemo);
@@ -634,6 +647,7 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
       detectionWarnings(
         perPop.map((p) => ({ name: p.name, count: p.totals.count, window: p.window })),
         survey.detection,
+        survey,
       ),
       uncertaintyWarnings,
     ),

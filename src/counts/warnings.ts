@@ -8,6 +8,7 @@ import type { Survey } from '../model/survey.js';
 import { bandRedEdgeAngstrom, LYMAN_ALPHA_ANGSTROM } from '../selection/igm.js';
 import { warning, type Warning } from '../warnings.js';
 import { precise } from '../render/format.js';
+import { completenessFunction } from '../selection/completeness.js';
 
 const fmtNum = (x: number): string => precise(x, 4);
 
@@ -49,6 +50,8 @@ export function predictionWarnings(survey: Survey, populations: readonly Populat
       }
     }
   }
+  const faint = completenessAtLimit(survey, populations);
+  if (faint) out.push(faint);
   for (const p of populations) {
     // Only explicit edges can leave a population's own slices outside its window.
     const lo = p.sliceEdges[0]!;
@@ -63,4 +66,42 @@ export function predictionWarnings(survey: Survey, populations: readonly Populat
     }
   }
   return out;
+}
+
+/** Below this completeness at the limit, the curve rather than the limit decides the counts. */
+export const COMPLETENESS_AT_LIMIT_MIN = 0.01;
+
+/**
+ * A completeness curve that has fallen below 1 % before the detection limit: the sources near the
+ * limit are hardly counted, so the counts follow the curve and a fainter limit adds almost nothing
+ * (predict and compare keep the curve where the file puts it; plan and forecast --target move it
+ * with the limit). The lowest completeness a counted source gets is the one at the limit (the
+ * brightest limit of a threshold that varies with z, over the window's ends and middle).
+ */
+function completenessAtLimit(survey: Survey, populations: readonly Population[]): Warning | undefined {
+  const d = survey.detection;
+  if (!d.completeness || populations.length === 0) return undefined;
+  const c = completenessFunction(d.completeness, d.kind, populations[0]!.variable);
+  let at: number;
+  let limit: string;
+  if (d.kind === 'line_flux') {
+    at = c(Math.log10(d.limitCgs));
+    limit = `${fmtNum(d.limitCgs)} erg/s/cm^2`;
+  } else if (d.kind === 'magnitude') {
+    at = c(d.limitMag);
+    limit = `${fmtNum(d.limitMag)} AB`;
+  } else {
+    const zs = populations.flatMap((p) => [p.window.min, 0.5 * (p.window.min + p.window.max), p.window.max]);
+    const values = zs.map((z) => d.limit.at(z));
+    const fractions = values.map((v) => c(v));
+    at = Math.max(...fractions);
+    const v = values[fractions.indexOf(at)]!;
+    limit = `${fmtNum(v)} ${populations[0]!.variable === 'magnitude' ? 'AB (absolute)' : 'in log10 of the quantity'}`;
+  }
+  if (!(at < COMPLETENESS_AT_LIMIT_MIN)) return undefined;
+  return warning(
+    'completeness_vanishes_before_limit',
+    `the completeness at the detection limit (${limit}) is ${at === 0 ? '0' : precise(100 * at, 2)} %, so sources near the limit are hardly counted: the counts follow the completeness curve, and a fainter limit adds almost nothing; ` +
+      'if the curve was measured for another depth, move it with the limit (a curve usually reaches 50 % near the limit; common practice), otherwise ignore this',
+  );
 }

@@ -18,7 +18,8 @@ import type {
   RequirementAtModel,
 } from '../model/outputs/forecast.js';
 import { choosePopulation, surveyForPopulation } from '../model/select.js';
-import { inputError } from '../errors.js';
+import { MAX_FORECAST_MODEL_DRAWS, MAX_MOCKS } from '../model/limits.js';
+import { assertWholeOption, inputError } from '../errors.js';
 import { assertConvergent } from '../counts/engine.js';
 import { buildDensityGrid, densityFisherParts, type DensityGrid } from './grid.js';
 import type { FisherSumsMemo } from './grid-memo.js';
@@ -35,6 +36,7 @@ import { makeMockSetup, runMocks } from './mocks.js';
 import { defaultWorkers } from '../parallel/blocks.js';
 import type { Estimator } from './fit.js';
 import { requirement } from './requirement.js';
+import { removingSelectionHint } from '../selection/describe.js';
 import { drawnFisher, forecastDrawOffsets, spreadBlock, type DrawnFisher } from './model-spread.js';
 import { DEFAULT_MODEL_SEED } from '../counts/model-draws.js';
 import { mergeWarnings, type Warning } from '../warnings.js';
@@ -115,8 +117,41 @@ export function summariseSample(values: readonly number[], input: number): MockP
   };
 }
 
+/**
+ * The options a script passes, refused as the command line refuses its flags: a count of mocks or
+ * draws that is not a whole number in range, a seed outside 0 to 2^32 - 1, a target that names no
+ * parameter of the population or is not a positive number (which gave "sigma(alpha) = NaN" notes
+ * and a null target in the JSON).
+ */
+function checkForecastOptions(opts: ForecastOptions, names: readonly string[]): void {
+  assertWholeOption(opts.mocks, 'mocks', 0, MAX_MOCKS);
+  assertWholeOption(opts.seed, 'seed', 0, 4294967295);
+  assertWholeOption(opts.modelDraws, 'modelDraws', 0, MAX_FORECAST_MODEL_DRAWS);
+  for (const [name, sigma] of Object.entries(opts.targets ?? {})) {
+    if (!names.includes(name)) {
+      throw inputError(
+        'bad_option',
+        '',
+        `targets.${name}`,
+        `"${name}" is not a parameter of this population`,
+        `use one of ${names.join(', ')}`,
+      );
+    }
+    if (!(typeof sigma === 'number' && Number.isFinite(sigma) && sigma > 0)) {
+      throw inputError(
+        'bad_option',
+        '',
+        `targets.${name}`,
+        `the target sigma of ${name} is ${String(sigma)}, not a positive number`,
+        'give a positive number',
+      );
+    }
+  }
+}
+
 export async function forecast(file: Survey, opts: ForecastOptions = {}): Promise<Forecast> {
   const population = choosePopulation(file, opts.population);
+  checkForecastOptions(opts, parameterNames(population));
   // The population's own window and slices: the forecast a file holding it alone would give.
   const survey = surveyForPopulation(file, population);
   const cosmo = new FlatCosmology(survey.cosmology);
@@ -147,7 +182,7 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
       survey.file,
       'detection.limit',
       `no source of "${population.name}" is expected above the limit, so nothing can be measured`,
-      'choose a fainter limit or a larger area',
+      `choose a fainter limit or a larger area${removingSelectionHint(file, [population]).replace(', or the', ', or check the')}`,
     );
   }
   const poisson = summariseFisher(parts.matrix);

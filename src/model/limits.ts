@@ -24,6 +24,12 @@ export const CAPS = {
   textLength: 1000,
 } as const;
 
+/** Most model draws one forecast may recompute its Fisher matrix for (--model-draws). */
+export const MAX_FORECAST_MODEL_DRAWS = 10_000;
+
+/** Most mock surveys one run may draw (about 20 ms each on one core for a deep field). */
+export const MAX_MOCKS = 10_000;
+
 /** Narrowest redshift slice and window: thinner boxes have no measurable depth. */
 export const MIN_SLICE_WIDTH = 1e-6;
 

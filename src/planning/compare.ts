@@ -19,6 +19,7 @@ import type { ComparedSurvey, Comparison } from '../model/outputs/compare.js';
 import { choosePopulation, populationByName, refuseScatteredRedshifts, surveyForPopulation } from '../model/select.js';
 import { faintCount } from './tables.js';
 import { warning, mergeWarnings, type Warning } from '../warnings.js';
+import { sig } from '../render/format.js';
 
 /** Values this close (relative) are a tie: equal but for the rounding of the arithmetic. */
 export const TIE_RELATIVE = 1e-9;
@@ -87,6 +88,7 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
   const out: ComparedSurvey[] = [];
   const warnings: Warning[][] = [];
   const notes: string[] = [];
+  const bands: (number | undefined)[] = []; // a magnitude survey's band, Angstrom
   for (const [i, file] of surveys.entries()) {
     // A double Schechter population is compared without Fisher sigmas (a forecast varies the three
     // parameters of a single Schechter function): every other row holds for it.
@@ -115,6 +117,7 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
       mergeWarnings(pred.warnings, f?.warnings ?? []).map((w) => warning(w.code, `[${i + 1}] ${w.message}`)),
     );
     const lim = limitOf(survey, population);
+    bands.push(survey.detection.kind === 'magnitude' ? survey.detection.bandAngstrom : undefined);
     const u = own.totals.uncertainty;
     const row: ComparedSurvey = {
       title: survey.title,
@@ -154,6 +157,11 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
           out.map((s) => depthOf(s.limit_variable, s.limit as number)),
           true,
         );
+        const given = bands.filter((b): b is number => b !== undefined);
+        if (given.length > 1 && Math.max(...given) > 1.01 * Math.min(...given))
+          notes.push(
+            `The limits are AB magnitudes in different bands (${bands.map((b, j) => `[${j + 1}] ${b === undefined ? '-' : `${sig(b, 4)} A`}`).join(', ')}): the faintest is marked, which is the faintest flux density, not necessarily the deepest for the population; compare the counts and sigmas instead.`,
+          );
       } else if (out.length > 1)
         notes.push('The limits are of different kinds (or vary with redshift), so no limit is marked best.');
       continue;

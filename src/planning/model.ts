@@ -293,7 +293,7 @@ export function sigmasOf(fisher: number[][]): number[] | undefined {
 }
 
 /** Check that a design model can count something at all. */
-export function assertCounts(model: DesignModel, file: string): void {
+export function assertCounts(model: DesignModel, file: string, selectionHint = ''): void {
   const v = model.tier(model.hoursRange[1], 1);
   if (!(v.count > 0)) {
     throw inputError(
@@ -301,7 +301,7 @@ export function assertCounts(model: DesignModel, file: string): void {
       file,
       'plan',
       `no source of "${model.population.name}" is expected even at the deepest exposure of the grid`,
-      'check the population, the window and plan.reference',
+      `check the population, the window and plan.reference${selectionHint}`,
     );
   }
 }

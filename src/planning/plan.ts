@@ -32,6 +32,7 @@ import { robustGoals, ROBUST_DRAWS, type RobustResult } from './robust.js';
 import { surveyWarnings } from '../population/warnings.js';
 import { predictionWarnings } from '../counts/predict.js';
 import { refuseScatteredRedshifts, surveyForPopulation } from '../model/select.js';
+import { removingSelectionHint } from '../selection/describe.js';
 import { assertConvergent } from '../counts/engine.js';
 
 /**
@@ -175,7 +176,7 @@ export async function planDesigns(
       ...(progress('depth tables') ? { onProgress: progress('depth tables')! } : {}),
     },
   );
-  assertCounts(model, survey.file);
+  assertCounts(model, survey.file, removingSelectionHint(file, [population]));
 
   let designs: Evaluated[];
   let best: Evaluated;

@@ -10,6 +10,15 @@ function goalText(p: Plan): string {
   return p.goal === 'count' ? 'most sources' : 'most sources fainter than the characteristic luminosity';
 }
 
+/** A design's limit, or each tier's in the order of the tiers (a tiered design's own `limit` is its deepest tier's). */
+function designLimits(p: Plan, d: PlanDesign): string {
+  return d.tiers
+    ? d.tiers.map((t) => limitText(p.limit_variable, t.limit)).join(' + ')
+    : limitText(p.limit_variable, d.limit);
+}
+
+const limitWord = (d: PlanDesign): string => (d.tiers ? 'limits' : 'limit');
+
 function designRow(p: Plan, d: PlanDesign, mark = ''): string[] {
   return [
     mark,
@@ -20,9 +29,7 @@ function designRow(p: Plan, d: PlanDesign, mark = ''): string[] {
     d.tiers ? d.tiers.map((t) => String(t.pointings)).join(' + ') : String(d.pointings),
     sig(d.hours_used, 4),
     sig(d.area_deg2, 4),
-    d.tiers
-      ? d.tiers.map((t) => limitText(p.limit_variable, t.limit)).join(' + ')
-      : limitText(p.limit_variable, d.limit),
+    designLimits(p, d),
     sig(d.count, 5),
     sig(d.faint_count, 5),
     sig(d.goal_value, 4),
@@ -99,7 +106,7 @@ export function planTable(p: Plan): string {
   lines.push(t.toString());
   const nb = p.near_best;
   lines.push(
-    `Within ${nb.tolerance * 100} % of the best: ${nb.designs_within} designs, from ${sig(nb.from.area_deg2, 4)} deg^2 (limit ${limitText(p.limit_variable, nb.from.limit)}) to ${sig(nb.to.area_deg2, 4)} deg^2 (limit ${limitText(p.limit_variable, nb.to.limit)})${nb.contiguous ? '' : ' (not contiguous)'}`,
+    `Within ${nb.tolerance * 100} % of the best: ${nb.designs_within} designs, from ${sig(nb.from.area_deg2, 4)} deg^2 (${limitWord(nb.from)} ${designLimits(p, nb.from)}) to ${sig(nb.to.area_deg2, 4)} deg^2 (${limitWord(nb.to)} ${designLimits(p, nb.to)})${nb.contiguous ? '' : ' (not contiguous)'}`,
   );
   // A sample of the designs (every k-th, at most 20 rows; the CSV and JSON hold all of them).
   const step = Math.max(1, Math.ceil(p.designs.length / 20));

@@ -127,7 +127,7 @@ export function describeSurvey(survey: Survey): Omit<SurveyCheck, 'warnings'> {
         sfr_conversion: p.sfrConversion ? { name: p.sfrConversion.name, factor: p.sfrConversion.factor } : undefined,
         slice_edges: p.sliceEdges,
         line_angstrom: p.lineAngstrom,
-        rest_wavelength_angstrom: p.restWavelengthAngstrom,
+        rest_wavelength_angstrom: p.variable === 'magnitude' ? p.restWavelengthAngstrom : undefined,
         rest_band: p.restBand
           ? clean({
               profile: p.restBand.profile,

@@ -1223,6 +1223,17 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   if (photoZ && detection.kind !== 'line_flux') detection.photoZ = photoZ;
   const checkWindow = (i: number): Window => (photoZ ? photoZTrueRange(windows[i]!, photoZ) : windows[i]!);
   const populations = rawPops.map(({ raw: p, path }, i) => {
+    // rest_wavelength places absolute magnitudes; a luminosity population would read it and ignore it.
+    if (p.variable === 'luminosity' && p.rest_wavelength !== undefined)
+      throw inputError(
+        'kind_mismatch',
+        file,
+        `${path}.rest_wavelength`,
+        det.kind === 'line_flux'
+          ? 'rest_wavelength says where absolute magnitudes are defined (variable: magnitude), but this population is a line luminosity function, whose rest wavelength is its line'
+          : 'rest_wavelength says where absolute magnitudes are defined (variable: magnitude), but this population has variable: luminosity',
+        det.kind === 'line_flux' ? "remove it (the line is detection.line or the population's line)" : 'remove it',
+      );
     const pop = buildPopulation(p, path, i, rawPops.length, checkWindow(i), slices.own[i]!, lines[i], file, {
       base,
       inputs,

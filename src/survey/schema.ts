@@ -66,8 +66,135 @@ function describeValue(v: unknown): string {
   return typeof v; // a symbol or a function: neither comes out of a parsed file
 }
 
+function isMapping(v: unknown): boolean {
+  return typeof v === 'object' && v !== null && !Array.isArray(v);
+}
+
+/**
+ * "a mapping holding one of count, width, edges" for a mapping whose schema asks for exactly one of
+ * several keys (a oneOf of `required` branches), so that `slices: 5` is told the form to write.
+ */
+function oneKeyOf(schema: unknown): string | undefined {
+  const branches = (schema as { oneOf?: unknown } | undefined)?.oneOf;
+  if (!Array.isArray(branches) || branches.length === 0) return undefined;
+  const keys = branches.map((b) => {
+    const r = (b as { required?: unknown }).required;
+    return Object.keys(b as object).length === 1 && Array.isArray(r) && r.length === 1 ? String(r[0]) : undefined;
+  });
+  if (keys.some((k) => k === undefined)) return undefined;
+  return `a mapping holding one of ${keys.join(', ')}`;
+}
+
 function depth(e: ErrorObject): number {
   return e.instancePath === '' ? 0 : e.instancePath.split('/').length - 1;
+}
+
+/**
+ * The keys of the sections a key is most often put into by mistake (specs/survey.schema.json; the
+ * test/survey/schema.test.ts keeps them equal to it): `blend_ratio` under detection, or
+ * `equivalent_width_cut` under a population, is a key of another section, where the nearest
+ * spelling here (`equivalent_widths`) would mislead.
+ */
+export const SECTION_KEYS: Readonly<Record<'top' | 'cosmology' | 'detection' | 'population', readonly string[]>> = {
+  top: [
+    'format',
+    'title',
+    'cosmology',
+    'area',
+    'redshift',
+    'field',
+    'detection',
+    'population',
+    'populations',
+    'slices',
+    'histogram',
+    'exposure',
+    'plan',
+  ],
+  cosmology: ['preset', 'h0', 'omega_m', 't_cmb', 'omega_b', 'sigma8', 'n_s'],
+  detection: [
+    'kind',
+    'limit',
+    'line',
+    'band',
+    'sed',
+    'system',
+    'vega_to_ab',
+    'band_file',
+    'beta',
+    'igm',
+    'filter',
+    'completeness',
+    'photo_z',
+    'redshift_selection',
+    'equivalent_width_cut',
+  ],
+  population: [
+    'name',
+    'shape',
+    'variable',
+    'quantity',
+    'phi_star',
+    'log10_phi_star',
+    'phi_star_dex',
+    'log10_phi_star_dex',
+    'l_star',
+    'log10_l_star',
+    'm_star',
+    'alpha',
+    'phi_star_1',
+    'log10_phi_star_1',
+    'phi_star_1_dex',
+    'log10_phi_star_1_dex',
+    'alpha_1',
+    'phi_star_2',
+    'log10_phi_star_2',
+    'phi_star_2_dex',
+    'log10_phi_star_2_dex',
+    'alpha_2',
+    'line',
+    'rest_wavelength',
+    'rest_band',
+    'system',
+    'vega_to_ab',
+    'bias',
+    'occupation',
+    'model_uncertainty',
+    'redshift_selection',
+    'blend_ratio',
+    'attenuation',
+    'equivalent_widths',
+    'valid_redshift',
+    'sfr_conversion',
+  ],
+};
+
+const SECTION_WORDS = {
+  top: 'the top level',
+  cosmology: 'cosmology',
+  detection: 'detection',
+  population: 'a population',
+} as const;
+
+function sectionId(parent: string): keyof typeof SECTION_KEYS | undefined {
+  if (parent === '') return 'top';
+  if (parent === 'cosmology' || parent === 'detection' || parent === 'population') return parent;
+  return /^populations\[\d+\]$/.test(parent) ? 'population' : undefined;
+}
+
+function sectionOf(parent: string): string {
+  const id = sectionId(parent);
+  return id ? SECTION_WORDS[id] : parent;
+}
+
+/** The other sections (top level, cosmology, detection, population) that hold `key`, in words. */
+function misplaced(key: string, parent: string): string[] | undefined {
+  const here = sectionId(parent);
+  if (!here) return undefined;
+  const homes = (Object.keys(SECTION_KEYS) as (keyof typeof SECTION_KEYS)[]).filter(
+    (id) => id !== here && SECTION_KEYS[id].includes(key),
+  );
+  return homes.length > 0 ? homes.map((id) => SECTION_WORDS[id]) : undefined;
 }
 
 /** Validate `obj`; return undefined when it matches the schema, else the one error to report. */
@@ -81,6 +208,16 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
     const key = String((extra.params as { additionalProperty: string }).additionalProperty);
     const parent = keyPathOf(extra.instancePath);
     const props = Object.keys(((extra.parentSchema ?? {}) as { properties?: object }).properties ?? {});
+    const home = misplaced(key, parent);
+    if (home) {
+      return inputError(
+        'unknown_key',
+        file,
+        join(parent, key),
+        `unknown key "${key}" here: it is a key of ${home.join(' or of ')}, not of ${sectionOf(parent)}`,
+        `move it there`,
+      );
+    }
     const near = suggest(key, props);
     return near
       ? inputError(
@@ -100,8 +237,13 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
   }
 
   // 2. Two keys where only one is allowed (oneOf over `required` branches that several pass).
+  // A value that is not a mapping passes every `required` branch vacuously: that is a wrong type
+  // (`slices: 5`), reported below, not two keys given.
   const conflict = errors.find(
-    (e) => e.keyword === 'oneOf' && Array.isArray((e.params as { passingSchemas: unknown }).passingSchemas),
+    (e) =>
+      e.keyword === 'oneOf' &&
+      Array.isArray((e.params as { passingSchemas: unknown }).passingSchemas) &&
+      isMapping(e.data),
   );
   if (conflict) {
     const branches = (conflict.schema ?? []) as { required?: string[] }[];
@@ -130,7 +272,11 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
       case 'type': {
         const group = errors.find((e) => e.keyword === 'anyOf' && e.instancePath === first.instancePath);
         const title = (group?.parentSchema as { title?: string } | undefined)?.title;
-        const expected = title ?? TYPE_WORDS[String((first.params as { type: string }).type)] ?? 'another type';
+        const expected =
+          title ??
+          oneKeyOf(first.parentSchema) ??
+          TYPE_WORDS[String((first.params as { type: string }).type)] ??
+          'another type';
         // "beta: −2" pasted from a paper: YAML reads the typeset minus sign (U+2212) as text
         const typeset = typeof data === 'string' ? data.trim().replace(/\u2212/g, '-') : '';
         if (typeset !== data && /^-(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/.test(typeset)) {

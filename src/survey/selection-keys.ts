@@ -181,6 +181,16 @@ export function readPopulationSelection(
       );
     }
     out.equivalentWidths = distribution(p.equivalent_widths, file, `${path}.equivalent_widths`);
+    if (!cut) {
+      // (checked after the distribution itself) read and ignored, the counts would hold every width while the file seems to cut them
+      throw inputError(
+        'missing_key',
+        file,
+        'detection.equivalent_width_cut',
+        `is missing, but ${path}.equivalent_widths gives a distribution of equivalent widths that only that cut uses`,
+        'add equivalent_width_cut: {rest: W} or {observed: W} to detection, or remove equivalent_widths',
+      );
+    }
   } else if (cut) {
     throw inputError(
       'missing_key',

@@ -153,6 +153,17 @@ export function parseQuantityOneOf<K extends QuantityKind>(
   }
   const kind = kinds.find((k) => u.equalBase(math.unit(QUANTITY_KINDS[k].unit)));
   if (kind === undefined) {
+    // "6563 A", "15 A": astronomers' shorthand for Angstrom is the ampere's symbol
+    const amperes = /^(.*?\d\.?)\s*A$/.exec(text);
+    if (amperes && (kinds as readonly QuantityKind[]).includes('wavelength')) {
+      throw inputError(
+        'bad_unit',
+        file,
+        keyPath,
+        `"${shown}" is a current: "A" is the ampere, not the Angstrom`,
+        `write "${excerpt(amperes[1]!, 40)} Angstrom" or "${excerpt(amperes[1]!, 40)} Å"`,
+      );
+    }
     throw inputError('bad_unit', file, keyPath, `"${shown}" is not ${what} (expected a unit like ${label})`, fix);
   }
   // Rounded to 15 significant digits: removes the last-bit noise of going through SI base units

@@ -112,7 +112,12 @@ export function checkParam(
   keyPath: string,
   opts: { positive?: boolean; what: string; range?: Range; unitLabel?: string },
 ): void {
-  for (const z of samplePoints(window, p)) {
+  // a table's own rows first: a value outside the range is then named as the file writes it
+  // ("1.1 at z = 2"), not where the line between two rows first crosses the bound
+  const rows = isZTable(p.source)
+    ? p.source.table.map(([z]) => z).filter((z) => z >= window.min && z <= window.max)
+    : [];
+  for (const z of [...rows, ...samplePoints(window, p)]) {
     const v = p.at(z);
     if (!Number.isFinite(v)) {
       const bad = Number.isNaN(v) ? 'has no real value' : 'is infinite';

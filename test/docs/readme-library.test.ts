@@ -65,7 +65,7 @@ describe("README's library examples (the ts blocks of its section, run in order 
     const p = predict(loadSurveyFile('samples/halpha-narrowband.yaml'));
     expect(printed[0]).toEqual([p.totals.count, p.slices!.map((s) => s.count)]);
     // every print holds values, none undefined or NaN
-    expect(printed.length).toBe(6);
+    expect(printed.length).toBe(8);
     for (const line of printed)
       for (const v of line) {
         expect(v).not.toBeUndefined();
@@ -74,5 +74,8 @@ describe("README's library examples (the ts blocks of its section, run in order 
     // the explore example: the total at 1.05 deg^2 is the sample's (2.1 deg^2) halved, counts
     // being proportional to the area (survey-file.md)
     expect(printed[2]![0] as number).toBeCloseTo(p.totals.count / 2, 6);
+    // the loop over the area: the sample's counts halved and doubled (proportional to the area)
+    expect(printed[6]).toEqual([1.05, expect.closeTo(p.totals.count / 2, 6) as unknown]);
+    expect(printed[7]).toEqual([4.2, expect.closeTo(p.totals.count * 2, 6) as unknown]);
   });
 });

@@ -45,3 +45,40 @@ describe('forecast error codes', () => {
     },
   );
 });
+
+// A script's options are refused as the command line refuses its flags (failed before: targets
+// {alpha: NaN} gave a null target and "sigma(alpha) = NaN" notes, {alfa: 0.1} "gives undefined",
+// mocks: 2.5 drew "2.5" mocks and seed -1 was used).
+describe('library options are checked as the command line checks them', () => {
+  const survey = withLimit(9.5);
+  test.each([
+    [{ mocks: 2.5 }, 'mocks'],
+    [{ mocks: -3 }, 'mocks'],
+    [{ mocks: 10_001 }, 'mocks'],
+    [{ seed: -1 }, 'seed'],
+    [{ seed: 2 ** 32 }, 'seed'],
+    [{ modelDraws: 0.5 }, 'modelDraws'],
+    [{ targets: { alfa: 0.1 } }, 'targets.alfa'],
+    [{ targets: { alpha: Number.NaN } }, 'targets.alpha'],
+    [{ targets: { alpha: 0 } }, 'targets.alpha'],
+    [{ targets: { alpha: -0.1 } }, 'targets.alpha'],
+  ])('%j is bad_option naming %s', async (opts, keyPath) => {
+    const e = (await forecast(survey, { cosmicVariance: false, ...opts }).then(
+      () => undefined,
+      (err: unknown) => err,
+    )) as { code?: string; keyPath?: string; message?: string } | undefined;
+    expect({ code: e?.code, keyPath: e?.keyPath }).toEqual({ code: 'bad_option', keyPath });
+    expect(e?.message).toMatch(/^[^\n]*; [^\n]*\.$/);
+  });
+  test('the options the command line accepts still run: mocks 0, seed 0 and 2^32 - 1, a positive target', async () => {
+    for (const opts of [
+      { mocks: 0 },
+      { seed: 0, mocks: 1 },
+      { seed: 4294967295, mocks: 1 },
+      { targets: { alpha: 0.1 } },
+    ]) {
+      const f = await forecast(survey, { cosmicVariance: false, ...opts });
+      expect(f.fisher.sigma.alpha).toBeGreaterThan(0);
+    }
+  });
+});

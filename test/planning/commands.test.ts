@@ -98,6 +98,20 @@ describe('compare = predict + forecast, row by row', () => {
     expect(csv.records.find((r) => r.row === 'area_deg2')!.best).toBe('1 2');
   }, 60_000);
 
+  test('magnitude limits in different bands: the faintest AB magnitude is marked, and a note says it is the faintest flux density, not necessarily the deepest for the population (failed before: marked without a word)', async () => {
+    // deep-continuum observes at 15000 A, dropout-field at 8000 A (AB magnitudes are flux densities, Oke & Gunn 1983)
+    const a = loadSurveyFile('samples/deep-continuum.yaml');
+    const b = loadSurveyFile('samples/dropout-field.yaml');
+    const c = await compare([a, b]);
+    expect(c.best.limit).toEqual([0]);
+    expect(c.notes.filter((n) => /different bands/.test(n))).toEqual([
+      'The limits are AB magnitudes in different bands ([1] 15000 A, [2] 8000 A): the faintest is marked, which is the faintest flux density, not necessarily the deepest for the population; compare the counts and sigmas instead.',
+    ]);
+    // the same band: no such note
+    const same = await compare([a, loadSurveyFile('samples/plan-uv-deep-wide.yaml')]);
+    expect(same.notes.filter((n) => /different bands/.test(n))).toEqual([]);
+  }, 60_000);
+
   test('goals and sigmas in words, never keys (failed before: "sigma log10_l_star")', async () => {
     const c = await runCli([
       'compare',

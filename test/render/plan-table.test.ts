@@ -70,3 +70,28 @@ describe('plan table: the note column', () => {
     expect(rows.some((r) => r.at(-1) === 'below minimum_count')).toBe(true);
   });
 });
+
+describe('plan table: the designs within 5 % of the best', () => {
+  test("a tiered design is quoted with every tier's limit, not only its deepest tier's (failed before: 'limit 3.48e-17' for a design of 2.89e-16 + 3.48e-17)", async () => {
+    const p = await plan(loadSurveyFile('samples/plan-halpha-layers.yaml'));
+    const line = planTable(p)
+      .split('\n')
+      .find((l) => l.startsWith('Within'))!;
+    const { from, to } = p.near_best;
+    expect(from.tiers!.length).toBe(2);
+    // the limits as the design rows write them (docs/outputs.md: a tiered design's limit is its deepest tier's)
+    const tierLimits = (d: typeof from) => d.tiers!.map((t) => `${sig(t.limit, 3)} erg/s/cm^2`).join(' + ');
+    expect(line).toContain(`(limits ${tierLimits(from)})`);
+    expect(line).toContain(`(limits ${tierLimits(to)})`);
+    // the deepest tier's limit is the design's own
+    expect(Math.min(...from.tiers!.map((t) => t.limit))).toBe(from.limit);
+  });
+
+  test('a one-tier plan keeps one limit per end', async () => {
+    const p = await plan(loadSurveyFile('samples/plan-uv-deep-wide.yaml'));
+    const line = planTable(p)
+      .split('\n')
+      .find((l) => l.startsWith('Within'))!;
+    expect(line).toMatch(/\(limit [0-9.]+ AB\) to [0-9.]+ deg\^2 \(limit [0-9.]+ AB\)/);
+  });
+});

@@ -8,14 +8,15 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { parse } from 'yaml';
 import { loadSurveyFile, parseSurveyObject } from '../../src/survey/load.js';
 import { describeSurvey } from '../../src/survey/describe.js';
-import { SurveyError } from '../../src/errors.js';
 import { surveyWarnings } from '../../src/population/warnings.js';
 import { predict } from '../../src/counts/predict.js';
+import { forecast } from '../../src/forecast/forecast.js';
 import { clone, LINE_YAML, MAGNITUDE_YAML, setPath, toYaml } from '../survey/fixtures.js';
 import { runCli } from '../cli/helpers.js';
 import { tempDir } from '../support/temp.js';
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { errorOf } from '../support/survey-error.js';
 
 const FILE = 'selection-test.yaml';
 const line = parse(LINE_YAML) as Record<string, unknown>;
@@ -25,16 +26,6 @@ function withKeys(base: Record<string, unknown>, keys: Record<string, unknown>):
   const obj = clone(base);
   for (const [k, v] of Object.entries(keys)) setPath(obj, k, v);
   return obj;
-}
-
-function errorOf(f: () => unknown): SurveyError {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof SurveyError) return e;
-    throw e;
-  }
-  throw new Error('no error');
 }
 
 const codes = (obj: Record<string, unknown>) => surveyWarnings(parseSurveyObject(obj, FILE)).map((w) => w.code);
@@ -110,6 +101,13 @@ describe('the loader reads the selection keys', () => {
       'missing_key',
       'population.equivalent_widths',
     ],
+    // read and ignored before (failed before: the file was accepted and the counts held every width)
+    [
+      'a distribution of equivalent widths without a cut',
+      { 'population.equivalent_widths': { model: 'exponential', scale: 50 } },
+      'missing_key',
+      'detection.equivalent_width_cut',
+    ],
     [
       'an equivalent-width cut on a magnitude survey',
       { 'detection.equivalent_width_cut': { rest: 20 } },
@@ -152,6 +150,50 @@ describe('the loader reads the selection keys', () => {
       expect(e.message.split('\n')).toHaveLength(1);
     },
   );
+
+  test('a table row outside the range is named as the file writes it (failed before: "the fraction kept is 1.00114 at z = 1.67047", where the line between two rows first crosses 1)', () => {
+    const obj = withKeys(line, {
+      'detection.redshift_selection': {
+        table: [
+          [1.0, 0.8],
+          [2.0, 1.1],
+        ],
+      },
+      redshift: { min: 0.9, max: 2.5 },
+    });
+    setPath(obj, 'detection.filter', undefined);
+    const e = errorOf(() => parseSurveyObject(obj, FILE));
+    expect({ code: e.code, keyPath: e.keyPath }).toEqual({
+      code: 'out_of_range',
+      keyPath: 'detection.redshift_selection',
+    });
+    expect(e.message).toContain('the fraction kept is 1.1 at z = 2, outside its physical range (from 0 to 1)');
+  });
+});
+
+describe('a survey the selection leaves empty says so (failed before: only "check detection.limit, the area and the luminosity function", and forecast "choose a fainter limit or a larger area")', () => {
+  test('predict names the selection keys beside the limit; a file without any keeps its message', () => {
+    const empty = withKeys(line, { 'detection.redshift_selection': 0, 'population.attenuation': 1 });
+    const w = predict(parseSurveyObject(empty, FILE)).warnings.find((x) => x.code === 'no_detections');
+    expect(w?.message).toContain(
+      'the luminosity function (a log10 given under a linear key such as l_star gives none), or the selection (detection.redshift_selection, population.attenuation)',
+    );
+    const plain = withKeys(line, { 'detection.limit': 1e-5 });
+    const v = predict(parseSurveyObject(plain, FILE)).warnings.find((x) => x.code === 'no_detections');
+    expect(v?.message).toBeDefined();
+    expect(v?.message).not.toContain('selection');
+  });
+  test('forecast names them in its fix', async () => {
+    const empty = withKeys(line, { 'population.redshift_selection': 0 });
+    const e = await forecast(parseSurveyObject(empty, FILE), { cosmicVariance: false }).then(
+      () => undefined,
+      (err: unknown) => err as { code?: string; message?: string },
+    );
+    expect(e?.code).toBe('no_sources');
+    expect(e?.message).toContain(
+      'choose a fainter limit or a larger area, or check the selection (population.redshift_selection).',
+    );
+  });
 });
 
 describe('warnings about selection traps', () => {

@@ -7,7 +7,6 @@
 import { describe, expect, test } from 'vitest';
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { SurveyError } from '../../src/errors.js';
 import { parseSurveyObject } from '../../src/survey/load.js';
 import { parseQuantity } from '../../src/survey/units.js';
 import { predict } from '../../src/counts/predict.js';
@@ -16,6 +15,7 @@ import { SPEED_OF_LIGHT_M_S } from '../../src/cosmology/constants.js';
 import type { Detection } from '../../src/model/detection.js';
 import { runCli } from '../cli/helpers.js';
 import { tempDir } from '../support/temp.js';
+import { errorOf } from '../support/survey-error.js';
 
 const FILE = 'demo/radio.yaml';
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);
@@ -38,16 +38,6 @@ function magnitudeDetection(obj: Record<string, unknown>): Extract<Detection, { 
   const d = parseSurveyObject(obj, FILE).detection;
   if (d.kind !== 'magnitude') throw new Error('not a magnitude detection');
   return d;
-}
-
-function errorOf(f: () => unknown): SurveyError {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof SurveyError) return e;
-    throw e;
-  }
-  throw new Error('expected a SurveyError, got a survey');
 }
 
 describe('flux density to AB magnitude: m = -2.5 log10(f_nu / 3631 Jy)', () => {

@@ -228,6 +228,18 @@ const cases: Case[] = [
   ['format 2', L, { format: 2 }, 'out_of_range', 'format'],
   ['fractional slice count', L, { slices: { count: 2.5 } }, 'wrong_type', 'slices.count'],
   ['two slice forms', L, { slices: { count: 3, width: 0.1 } }, 'conflict', 'slices.width'],
+  // a value that is not a mapping passes each `required` branch of a oneOf vacuously: it is a wrong
+  // type, not two keys given (failed before: "count and width are both given", code conflict)
+  ['slices a number', L, { slices: 5 }, 'wrong_type', 'slices'],
+  ['slices empty', L, { slices: null }, 'wrong_type', 'slices'],
+  [
+    'equivalent-width cut a number',
+    L,
+    { 'detection.equivalent_width_cut': 40 },
+    'wrong_type',
+    'detection.equivalent_width_cut',
+  ],
+  ['a population a number', L, { population: DEL, populations: [5] }, 'wrong_type', 'populations[0]'],
   [
     'table row of three',
     L,
@@ -511,6 +523,48 @@ describe('bad input: one SurveyError with a stable code and key path', () => {
     const ok = parse(LINE_YAML) as Record<string, unknown>;
     setPath(ok, 'population.log10_l_star', 60);
     expect(() => parseSurveyObject(ok, FILE)).not.toThrow();
+  });
+
+  test('a value that should be a mapping of one of several keys names them, not a conflict (failed before: "slices.width: count and width are both given")', () => {
+    const message = (key: string, v: unknown) => {
+      const obj = parse(LINE_YAML) as Record<string, unknown>;
+      setPath(obj, key, v);
+      return errorOf(() => parseSurveyObject(obj, FILE)).message;
+    };
+    expect(message('slices', 5)).toBe(
+      `${FILE}: slices: is 5 but must be a mapping holding one of count, width, edges; change the value to that form.`,
+    );
+    expect(message('detection.equivalent_width_cut', '15 Angstrom')).toBe(
+      `${FILE}: detection.equivalent_width_cut: is the text "15 Angstrom" but must be a mapping holding one of rest, observed; change the value to that form.`,
+    );
+    // two keys given is still a conflict
+    expect(message('slices', { count: 3, edges: [0.1, 0.2] })).toContain('count and edges are both given');
+  });
+
+  test('a key of another section is told where it belongs, not renamed to a near key here (failed before: "populations[0].equivalent_width_cut: ... (did you mean equivalent_widths?); rename or remove it")', () => {
+    const message = (key: string, v: unknown) => {
+      const obj = parse(LINE_YAML) as Record<string, unknown>;
+      setPath(obj, key, v);
+      const e = errorOf(() => parseSurveyObject(obj, FILE));
+      expect({ code: e.code, keyPath: e.keyPath }).toEqual({ code: 'unknown_key', keyPath: key });
+      expectOneSentence(e);
+      return e.message;
+    };
+    expect(message('population.equivalent_width_cut', { rest: 10 })).toBe(
+      `${FILE}: population.equivalent_width_cut: unknown key "equivalent_width_cut" here: it is a key of detection, not of a population; move it there.`,
+    );
+    expect(message('detection.blend_ratio', 0.3)).toContain(
+      'unknown key "blend_ratio" here: it is a key of a population, not of detection; move it there.',
+    );
+    expect(message('detection.equivalent_widths', { model: 'exponential', scale: 50 })).toContain(
+      'it is a key of a population, not of detection',
+    );
+    expect(message('redshift_selection', 0.5)).toContain(
+      'it is a key of detection or of a population, not of the top level',
+    );
+    expect(message('h0', 70)).toContain('it is a key of cosmology, not of the top level');
+    // a misspelling with no home elsewhere keeps its suggestion
+    expect(message('population.aplha', -1)).toContain('did you mean alpha?');
   });
 
   test('a unit of the wrong dimension names the expected unit', () => {

@@ -21,18 +21,9 @@ import { createLinearPower } from '../../src/uncertainty/power-spectrum.js';
 import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH } from '../../src/model/limits.js';
 import { readInputText } from '../../src/survey/read-input.js';
 import { LINE_YAML, MAGNITUDE_YAML, THRESHOLD_YAML, setPath } from './fixtures.js';
+import { errorOf } from '../support/survey-error.js';
 
 const FILE = 'demo/survey.yaml';
-
-function errorOf(f: () => unknown): SurveyError {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof SurveyError) return e;
-    throw e;
-  }
-  throw new Error('expected a SurveyError, got a survey');
-}
 
 function oneSentence(e: SurveyError): void {
   // eslint-disable-next-line no-control-regex -- the escape character is what must not reach the terminal

@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, test } from 'vitest';
 import { generateValidatorSource, GENERATED_PATH } from '../../scripts/generate-survey-validator.js';
-import { SURVEY_SCHEMA_URL } from '../../src/survey/schema.js';
+import { SECTION_KEYS, SURVEY_SCHEMA_URL } from '../../src/survey/schema.js';
 
 type Schema = { [k: string]: unknown; properties?: Record<string, Schema>; $ref?: string; items?: Schema };
 const schema = JSON.parse(readFileSync(SURVEY_SCHEMA_URL, 'utf8')) as Schema;
@@ -119,6 +119,15 @@ describe('specs/survey.schema.json', () => {
     expect(keysOf(p.populations!.items as Schema)).toEqual(keysOf(p.population!));
     expect(keysOf(p.slices!)).toEqual(['count', 'edges', 'width']);
     expect(keysOf(p.histogram!)).toEqual(['width']);
+  });
+
+  test("the loader's table of sections (for keys put in the wrong one) holds each section's keys", () => {
+    const keysOf = (s: Schema) => Object.keys(resolve(s).properties ?? {}).sort();
+    const p = schema.properties!;
+    expect([...SECTION_KEYS.top].sort()).toEqual(keysOf(schema));
+    expect([...SECTION_KEYS.cosmology].sort()).toEqual(keysOf(p.cosmology!));
+    expect([...SECTION_KEYS.detection].sort()).toEqual(keysOf(p.detection!));
+    expect([...SECTION_KEYS.population].sort()).toEqual(keysOf(p.population!));
   });
 
   test('every object but plan forbids unknown keys', () => {

@@ -97,6 +97,29 @@ describe('units that are wrong, missing or unknown are errors naming the key', (
   });
 });
 
+describe('"A" written for Angstrom', () => {
+  // mathjs reads "A" as the ampere (SI), so "6563 A" was refused as "not a wavelength (expected a
+  // unit like Angstrom)", which does not say what was wrong (failed before)
+  test.each(['6563 A', '15A', '7e3 A'])('%j names the ampere and writes the Angstrom form', (input) => {
+    let err: unknown;
+    try {
+      parseQuantity(input, 'wavelength', F, 'some.key');
+    } catch (e) {
+      err = e;
+    }
+    expect(err).toBeInstanceOf(SurveyError);
+    const e = err as SurveyError;
+    expect([e.code, e.keyPath]).toEqual(['bad_unit', 'some.key']);
+    const n = input.replace(/\s*A$/, '');
+    expect(e.message).toBe(
+      `${F}: some.key: "${input}" is a current: "A" is the ampere, not the Angstrom; write "${n} Angstrom" or "${n} Å".`,
+    );
+  });
+  test('an ampere where no wavelength is expected keeps the plain message', () => {
+    expect(() => parseQuantity('2 A', 'area', F, 'area')).toThrow(/is not an area \(expected a unit like deg\^2\)/);
+  });
+});
+
 describe('a magnitude limit written with the typeset minus sign (U+2212)', () => {
   const file = (limit: string) => `format: 1
 title: t

@@ -14,6 +14,8 @@ import {
 } from './common.js';
 import { Outputs, renderText, type CliIO } from '../io.js';
 import { inputError } from '../../errors.js';
+import { MAX_FORECAST_MODEL_DRAWS, MAX_MOCKS } from '../../model/limits.js';
+export { MAX_FORECAST_MODEL_DRAWS, MAX_MOCKS };
 
 export const forecastCommand: CommandDef = {
   name: 'forecast',
@@ -137,12 +139,6 @@ function withoutFits<T extends { fits?: unknown }>(m: T): Omit<T, 'fits'> {
   const { fits: _fits, ...rest } = m;
   return rest;
 }
-
-/** Most model draws one forecast may recompute its Fisher matrix for (--model-draws). */
-export const MAX_FORECAST_MODEL_DRAWS = 10_000;
-
-/** Most mock surveys one run may draw (about 20 ms each on one core for a deep field). */
-export const MAX_MOCKS = 10_000;
 
 /**
  * --mocks N (1 to MAX_MOCKS; absent: 0, no mocks) and --seed S (0 to 4294967295; default 1),

@@ -137,7 +137,10 @@ export interface PopulationView {
   };
   slice_edges: number[];
   line_angstrom?: number;
-  rest_wavelength_angstrom: number;
+  /**
+   * variable: magnitude only: the rest wavelength in Angstrom where the absolute magnitudes are defined (a luminosity population, such as a line's, has none)
+   */
+  rest_wavelength_angstrom?: number;
   /**
    * magnitude kind: absolute magnitudes are AB in this rest-frame band (rest_wavelength_angstrom is then its center)
    */
