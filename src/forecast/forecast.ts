@@ -18,7 +18,8 @@ import type {
   RequirementAtModel,
 } from '../model/outputs/forecast.js';
 import { choosePopulation, surveyForPopulation } from '../model/select.js';
-import { MAX_FORECAST_MODEL_DRAWS, MAX_MOCKS } from '../model/limits.js';
+import { MAX_MOCKS } from '../model/limits.js';
+import { MAX_MODEL_DRAWS } from '../model/model-uncertainty.js';
 import { assertWholeOption, inputError } from '../errors.js';
 import { assertConvergent } from '../counts/engine.js';
 import { buildDensityGrid, densityFisherParts, type DensityGrid } from './grid.js';
@@ -126,7 +127,8 @@ export function summariseSample(values: readonly number[], input: number): MockP
 function checkForecastOptions(opts: ForecastOptions, names: readonly string[]): void {
   assertWholeOption(opts.mocks, 'mocks', 0, MAX_MOCKS);
   assertWholeOption(opts.seed, 'seed', 0, 4294967295);
-  assertWholeOption(opts.modelDraws, 'modelDraws', 0, MAX_FORECAST_MODEL_DRAWS);
+  // (report --draws reaches MAX_MODEL_DRAWS; forecast --model-draws keeps its own smaller cap)
+  assertWholeOption(opts.modelDraws, 'modelDraws', 0, MAX_MODEL_DRAWS);
   for (const [name, sigma] of Object.entries(opts.targets ?? {})) {
     if (!names.includes(name)) {
       throw inputError(

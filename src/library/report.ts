@@ -6,7 +6,7 @@
  * (src/cli/commands/report.ts) only parses its options and writes the result.
  */
 import { basename } from 'node:path';
-import { SurveyError } from '../errors.js';
+import { assertWholeOption, SurveyError } from '../errors.js';
 import type { Survey } from '../model/survey.js';
 import type { UncertaintyMemo } from '../uncertainty/prediction.js';
 import type { Prediction } from '../model/outputs/prediction.js';
@@ -15,7 +15,8 @@ import type { Plan } from '../model/outputs/plan.js';
 import type { OmittedSection, ReportJson } from '../model/outputs/report.js';
 import type { Figure } from '../render/types.js';
 import { mergeWarnings, type Warning } from '../warnings.js';
-import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED } from '../model/model-uncertainty.js';
+import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED, MAX_MODEL_DRAWS } from '../model/model-uncertainty.js';
+import { MAX_MOCKS } from '../model/limits.js';
 
 export type { OmittedSection };
 
@@ -87,6 +88,17 @@ export interface SectionOptions {
 }
 
 /**
+ * The options refused as `report` refuses its flags (--mocks, --seed, --draws): a count that is
+ * not a whole number in range would otherwise reach the forecast, whose refusal the report shows
+ * as a forecast that "cannot be computed for this survey".
+ */
+function checkSectionOptions(opts: SectionOptions): void {
+  assertWholeOption(opts.mocks, 'mocks', 0, MAX_MOCKS);
+  assertWholeOption(opts.seed, 'seed', 0, 4294967295);
+  assertWholeOption(opts.draws, 'draws', 0, MAX_MODEL_DRAWS);
+}
+
+/**
  * The sections the `report` command computes: the forecast always (the Fisher matrix; mock
  * surveys too with --mocks N, fitted and scattered over the ellipses), the plan when the file
  * has a `plan:` section. A section that cannot be computed for this survey (a double Schechter
@@ -94,6 +106,7 @@ export interface SectionOptions {
  * plan) is replaced by a sentence saying why; a malformed plan section is still bad input.
  */
 export function reportSections(opts: SectionOptions = {}): ReportSections {
+  checkSectionOptions(opts);
   const mocks = opts.mocks ?? 0;
   const seed = opts.seed ?? DEFAULT_MODEL_SEED;
   const draws = opts.draws ?? DEFAULT_MODEL_DRAWS;
@@ -279,6 +292,7 @@ export async function buildReport(
   survey: Survey,
   options: BuildReportOptions = {},
 ): Promise<{ html: string; figures: Figure[]; results: ReportResults }> {
+  checkSectionOptions(options);
   const results = await computeReport(survey.file, survey, reportSections(options), {
     ...(options.draws !== undefined ? { draws: options.draws } : {}),
     ...(options.seed !== undefined ? { seed: options.seed } : {}),

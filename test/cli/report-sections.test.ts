@@ -153,3 +153,33 @@ describe('report hooks', () => {
     expect(html).toContain('id="figure-plan"');
   });
 });
+
+// A script's report options are refused as the command line refuses --mocks, --seed and --draws
+// (failed before: buildReport(survey, {mocks: 2.5}) reported the forecast as "cannot be computed
+// for this survey"); --draws up to 100000 still reaches the forecast's model spread, whose own
+// --model-draws stops at 10000 (a check of 10000 there omitted the report's forecast).
+describe('report options', () => {
+  const survey = loadSurveyFile(new URL('../../samples/mass-limited.yaml', import.meta.url).pathname);
+  test.each([
+    [{ mocks: 2.5 }, 'mocks'],
+    [{ mocks: 10_001 }, 'mocks'],
+    [{ seed: -1 }, 'seed'],
+    [{ draws: -1 }, 'draws'],
+    [{ draws: 100_001 }, 'draws'],
+  ])('%j is bad_option naming %s', async (opts, keyPath) => {
+    const { buildReport, reportSections } = await import('../../src/library/report.js');
+    await expect(buildReport(survey, opts)).rejects.toMatchObject({ code: 'bad_option', keyPath });
+    expect(() => reportSections(opts)).toThrow(`${keyPath}: is `);
+  });
+  test('draws above forecast --model-draws cap reach the forecast (its check takes the report cap)', async () => {
+    const { forecast } = await import('../../src/forecast/forecast.js');
+    await expect(forecast(survey, { modelDraws: 100_001 })).rejects.toMatchObject({
+      code: 'bad_option',
+      keyPath: 'modelDraws',
+    });
+    const f = await forecast(survey, { modelDraws: 10_001, cosmicVariance: false });
+    expect(f.model_spread?.draws).toBe(10_001);
+    const { reportSections } = await import('../../src/library/report.js');
+    expect(() => reportSections({ draws: 100_000 })).not.toThrow();
+  });
+});
