@@ -594,14 +594,22 @@ function buildNodes(
   // tabulated filter's rows, the nodes of a selection or attenuation table, the rows of the
   // population's parameters given as tables), each piece by convergence.
   const crossings = completenessCrossings(survey, lo, hi);
+  const rows = parameterBreaks(population, lo, hi);
   const inner = [
     ...limitBreaks(survey, lo, hi),
     ...crossings,
     ...filterBreaks(survey, population, lo, hi),
     ...effects.breaks(lo, hi),
-    ...parameterBreaks(population, lo, hi),
+    ...rows,
   ].sort((x, y) => x - y);
-  const { z, w } = piecewiseRedshiftNodes([lo, ...inner, hi], hardCount, crossings.length > 0 ? 8 : 2);
+  // Pieces start from 8 nodes where the count's integrand has what the hard-limit one does not
+  // show: the completeness crossed, and with photometric redshifts the probability of being
+  // measured in a slice (photo-z.ts weights these nodes by it; its pieces near a measured edge are
+  // at most sigma (1 + z) wide and need the nodes a whole piece gets, which a parameter's row
+  // cutting one in two took away: a phi* row inside a window moved its slices by 2.7e-6).
+  const photoZ = survey.detection.kind !== 'line_flux' && survey.detection.photoZ !== undefined;
+  const nStart = crossings.length > 0 || (photoZ && rows.length > 0) ? 8 : 2;
+  const { z, w } = piecewiseRedshiftNodes([lo, ...inner, hi], hardCount, nStart);
   const nodes: NodeState[] = [];
   for (let i = 0; i < z.length; i++) {
     const zi = z[i]!;

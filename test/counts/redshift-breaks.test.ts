@@ -78,6 +78,33 @@ slices: {count: 1}
     expect(rel(p.totals.luminosity_density!.detected, 50460570.45201564)).toBeLessThan(1e-9);
   });
 
+  test('photometric redshifts with a phi* row inside the window: every measured slice', () => {
+    // before: the row cut a piece of the true range (at most sigma (1 + z) wide near a measured
+    // edge) in two, each from 2 nodes, too few for P(slice | z): the slices 1.6e-6 to 2.7e-6 off
+    const text = `
+cosmology: {h0: 69.79, omega_m: 0.1504}
+area: 0.126492
+redshift: {min: 0.6192, max: 0.8302}
+detection:
+  kind: magnitude
+  limit: 25.746
+  band: "274349.0 um"
+  beta: 0.477
+  completeness: {table: [[23.746, 0.97], [24.746, 0.8], [25.546, 0.3]]}
+  photo_z: {sigma: 0.038}
+population:
+  variable: magnitude
+  m_star: -21.5351
+  log10_phi_star_dex: {table: [[0.7381, -4.14316], [1.2971, -4.45854]]}
+  alpha: -0.2672
+  rest_wavelength: "1.4 GHz"
+slices: {count: 5}
+`;
+    const p = predict(loadSurveyText(text, 'photoz-row.yaml'), { model: { draws: 0 } });
+    const want = [1.208355816519762, 1.2916369907951606, 1.353145019107395, 1.3870379344818953, 1.394235462324109];
+    p.slices!.forEach((s, i) => expect(rel(s.count, want[i]!)).toBeLessThan(1e-9));
+  });
+
   test('an M* table with rows inside the slice: count and total luminosity density (L_nu from 3631 Jy)', () => {
     // before: the count 1.3e-6 high, the total density 2e-6 off besides the zero point's 6.0e-5
     const text = `
