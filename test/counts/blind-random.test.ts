@@ -7,8 +7,8 @@
  * with its own numerics (adaptive Gauss-Legendre in z, panels in ln L; checked against scipy's
  * nested quad to 1e-15). The files cover the three detection kinds, areas from arcmin^2 to thousands
  * of deg^2, windows from z = 0.01 to 10, alpha from -2.3 to 0.5, units written several ways,
- * top-hat and gaussian filters, completeness curves, selection effects, parameters in z, double
- * Schechter functions and several populations.
+ * top-hat and gaussian filters, completeness curves, selection effects, photometric redshifts,
+ * parameters in z, double Schechter functions and several populations.
  *
  * Tolerances, as docs/outputs.md ("Precision") states them: windows, slice edges and limits 1e-9;
  * volumes 1e-9 relative; counts 1e-6 relative (of a slice, or 1e-9 of its population's count);
@@ -29,6 +29,7 @@ interface BlindSlice {
   limit_at_center: number;
   luminosity_detected: number;
   luminosity_total: number | null;
+  count_true_redshift: number | null;
   histogram: Record<string, number>;
 }
 interface BlindPopulation {
@@ -102,6 +103,8 @@ describe('predict on random survey files equals a docs-only evaluation', () => {
         check(`${sn} volume`, gs.volume_mpc3, ws.volume_mpc3, 1e-9);
         check(`${sn} limit_at_center`, gs.limit_at_center, ws.limit_at_center, 0, 1e-9);
         check(`${sn} count`, gs.count, ws.count, 1e-6, floor);
+        if (ws.count_true_redshift !== null)
+          check(`${sn} count_true_redshift`, gs.count_true_redshift, ws.count_true_redshift, 1e-6, floor);
         const lds = gs.luminosity_density;
         check(
           `${sn} luminosity detected`,
