@@ -20,8 +20,6 @@ export const GYR_S = 1e9 * JULIAN_YEAR_S;
 export const N_EFF = 3.046;
 /** CMB temperature used by the transfer function when the cosmology has none (Fixsen 2009). */
 export const T_CMB_DEFAULT_K = 2.7255;
-/** AB zero point: m_AB = -2.5 log10 f_nu[erg s^-1 cm^-2 Hz^-1] - 48.60 (Oke & Gunn 1983). */
-export const AB_ZERO_POINT = 48.6;
 
 /**
  * Photon density parameter today for a CMB at temperature tCmbK:

@@ -147,7 +147,7 @@ function settingOf(survey: Survey, population: Population, cosmo: FlatCosmology)
   const key = `${JSON.stringify(spec)} ${survey.detection.kind} ${population.variable} ${observer.slope} ${width}`;
   if (!spec) return { key, observer, width };
   const completeness = completenessFunction(spec, survey.detection.kind, population.variable);
-  const breaks = completenessBreaks(spec, survey.detection.kind);
+  const breaks = completenessBreaks(spec, survey.detection.kind, population.variable);
   const rules = completenessQuadrature(
     spec,
     `${survey.detection.kind} ${population.variable}`,

@@ -307,7 +307,7 @@ function walkDensity(
   const effects = selectionEffects(survey.detection, population);
   const comp = survey.detection.completeness;
   const cfn = comp ? completenessFunction(comp, survey.detection.kind, population.variable) : undefined;
-  const breaks = comp ? completenessBreaks(comp, survey.detection.kind) : undefined;
+  const breaks = comp ? completenessBreaks(comp, survey.detection.kind, population.variable) : undefined;
   const slope = observer.slope;
   const maxStep = Math.min(
     MAX_PANEL_T,

@@ -5,7 +5,8 @@
  */
 import type { Population } from '../model/population.js';
 import { ComponentAtZ, type SchechterComponent } from './schechter.js';
-import { AB_ZERO_POINT, PC_CM } from '../cosmology/constants.js';
+import { PC_CM } from '../cosmology/constants.js';
+import { AB_ZERO_POINT_JY } from '../model/photometry.js';
 
 /** Constant offsets applied at every z (used by forecasts; evolving parameters keep their shape). */
 export interface ParameterOffsets {
@@ -38,17 +39,20 @@ export function populationAt(p: Population, z: number, offsets?: ParameterOffset
   return { components, characteristic };
 }
 
-/** 4 pi (10 pc)^2 in cm^2: L_nu = 4 pi (10 pc)^2 10^(-0.4 (M + 48.60)) (Oke & Gunn 1983 AB zero point). */
-const FOUR_PI_10PC_CM2 = 4 * Math.PI * (10 * PC_CM) ** 2;
+/**
+ * L_nu of M_AB = 0 in erg s^-1 Hz^-1: 4 pi (10 pc)^2 times the AB zero point, 3631 Jy = 3631e-23
+ * erg s^-1 cm^-2 Hz^-1 (docs/survey-file.md: M = -2.5 log10(L_nu / (4 pi (10 pc)^2 x 3631 Jy)), the
+ * zero point flux-density limits are read with). It was 10^(-0.4 x 48.60) erg s^-1 cm^-2 Hz^-1
+ * (Oke & Gunn 1983, 3630.78 Jy) here, so the luminosity densities of magnitude populations were
+ * 6.0e-5 below those of the magnitudes every other part of the program uses.
+ */
+const LNU_AB_ZERO = 4 * Math.PI * (10 * PC_CM) ** 2 * AB_ZERO_POINT_JY * 1e-23;
 
 /**
  * The luminosity that u = 1 stands for, in the unit luminosity densities are given in: L* itself
  * for a luminosity variable (erg/s, or the quantity's unit for threshold surveys); for a magnitude
- * variable L*_nu = 4 pi (10 pc)^2 10^(-0.4 (M* + 48.60)) erg s^-1 Hz^-1 at the rest wavelength
- * (the AB zero point of Oke & Gunn 1983).
+ * variable L*_nu = 4 pi (10 pc)^2 x 3631 Jy x 10^(-0.4 M*) erg s^-1 Hz^-1 at the rest wavelength.
  */
 export function luminosityScale(variable: Population['variable'], characteristic: number): number {
-  return variable === 'luminosity'
-    ? characteristic
-    : FOUR_PI_10PC_CM2 * 10 ** (-0.4 * (characteristic + AB_ZERO_POINT));
+  return variable === 'luminosity' ? characteristic : LNU_AB_ZERO * 10 ** (-0.4 * characteristic);
 }

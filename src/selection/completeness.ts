@@ -70,13 +70,19 @@ function makeCompletenessFunction(c: Completeness, kind: DetectionKind, variable
 export function completenessBreaks(
   c: Completeness,
   kind: DetectionKind,
+  variable: PopulationVariable = 'magnitude',
 ): { points: number[]; scale: number; varying: [number, number] } {
   const sign = completenessOrientation(kind);
   const toObs = (x: number) => sign * x;
   if (c.model === 'logistic') {
     // Brighter than half - 20 width, 1 - c < 2.1e-9; fainter than half + 40 width, c < 4.3e-18.
-    const a = toObs(c.half - 20 * c.width);
-    const b = toObs(c.half + 40 * c.width);
+    // The threshold kind's luminosity variable has x growing towards bright sources (the logistic
+    // applied to -x, above): its faint side is below half - 40 width. Taken the other way round, a
+    // limit 22 widths below half counted its sources there at c(half - 20 width) = 2e-9, not at
+    // their own c (down to 3e-10): 2e-3 too many with alpha = -2.3.
+    const falls = kind === 'threshold' && variable === 'luminosity' ? -1 : 1;
+    const a = toObs(c.half - falls * 20 * c.width);
+    const b = toObs(c.half + falls * 40 * c.width);
     return { points: [toObs(c.half)], scale: c.width, varying: [Math.min(a, b), Math.max(a, b)] };
   }
   const ends = [toObs(c.x[0]!), toObs(c.x[c.x.length - 1]!)];

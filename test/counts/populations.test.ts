@@ -273,7 +273,7 @@ describe('star-formation-rate densities (Kennicutt 1998, ARA&A 36, 189)', () => 
     }
     expect(p.populations[1]!.totals.sfr_density_msun_yr_mpc3).toBeUndefined();
   });
-  test('uv with a magnitude population: L_nu* from the AB zero point (Oke & Gunn 1983), 1e-12', () => {
+  test('uv with a magnitude population: L_nu* = 4 pi (10 pc)^2 x 3631 Jy x 10^(-0.4 M*) (the AB zero point of docs/survey-file.md, common practice), 1e-12', () => {
     const text = `
 cosmology: {h0: 70, omega_m: 0.3}
 area: 0.1
@@ -284,7 +284,9 @@ slices: {count: 1}
 `;
     const p = predict(loadSurveyText(text, 'uv.yaml'));
     const pcCm = 3.0856775814913674e18; // IAU 2015 B2 parsec in cm (3.0856775814913673e16 m; the same double)
-    const lnuStar = 4 * Math.PI * (10 * pcCm) ** 2 * 10 ** (-0.4 * (-21 + 48.6));
+    // 3631 Jy = 3631e-23 erg s^-1 cm^-2 Hz^-1 (common practice); the earlier 10^(-0.4 x 48.60) of Oke &
+    // Gunn 1983 (3630.78 Jy) is 6.0e-5 lower, beyond the 1e-12 checked
+    const lnuStar = 4 * Math.PI * (10 * pcCm) ** 2 * 3631e-23 * 10 ** (-0.4 * -21);
     const u = 10 ** (0.4 * (-21 - -19));
     const ld = p.totals.luminosity_density!;
     expect(ld.unit).toBe('erg s^-1 Hz^-1 Mpc^-3');

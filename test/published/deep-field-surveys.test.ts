@@ -75,8 +75,8 @@ slices: {count: 4}
     // scipy (published_counts.py): the count, and the first slice's luminosity density of the
     // detected and of all sources (volume-weighted over the slice)
     close(p.totals.count, 1721.9590197461296, 1e-6);
-    close(p.slices![0]!.luminosity_density!.detected, 2.6528896430825475e26, 1e-6);
-    close(p.slices![0]!.luminosity_density!.total!, 4.759427588101304e26, 1e-6);
+    close(p.slices![0]!.luminosity_density!.detected, 2.653049989521422e26, 1e-6);
+    close(p.slices![0]!.luminosity_density!.total!, 4.7597152582902333e26, 1e-6);
     // The paper's luminosity density integrates its function to M_UV = -17.0: a threshold
     // survey at that absolute magnitude gives it (L* from M* through the AB zero point at 10 pc).
     const rho = `format: 1

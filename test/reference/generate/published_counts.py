@@ -6,7 +6,7 @@ docs/survey-file.md's definitions alone (flat Lambda-CDM without radiation, H0 =
   - 2.5 (beta + 2) log10(lambda_band / ((1 + z) lambda_rest)); a source is counted when M <= m_lim - K;
   the Schechter function in magnitude integrated brightward of M_lim is phi* Gamma(alpha + 1, x)
   with x = 10^(-0.4 (M_lim - M*)); its luminosity density phi* L* Gamma(alpha + 2, x),
-  L* = 4 pi (10 pc)^2 10^(-0.4 (M* + 48.6)) erg/s/Hz.
+  L* = 4 pi (10 pc)^2 x 3631 Jy x 10^(-0.4 M*) erg/s/Hz (the AB zero point of docs/survey-file.md).
 - threshold kind: L_lim = 10^limit(z); double Schechter sum of phi_k Gamma(alpha_k + 1, x).
 - a table {table: [[z, v], ...]}: linear in z between rows, the end values held beyond.
 - a slice's density: the volume-weighted mean over the slice, int dV j / int dV.
@@ -59,7 +59,7 @@ def table(rows):
 
 
 def l_nu(m):
-    return 4 * np.pi * (10 * PC_CM) ** 2 * 10 ** (-0.4 * (m + 48.6))
+    return 4 * np.pi * (10 * PC_CM) ** 2 * 3631e-23 * 10 ** (-0.4 * m)
 
 
 def magnitude_survey(sr, m_lim, band, beta, rest, phi, mstar, alpha):
