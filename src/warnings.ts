@@ -37,6 +37,8 @@ export const WARNING_CODES = {
     "a population's phi* is above 0.5 Mpc^-3, far above any galaxy population's (e.g. a linear value under a log10 key)",
   completeness_vanishes_before_limit:
     'the completeness curve is below 1 % at the detection limit: the counts follow the curve, and a fainter limit adds almost nothing',
+  line_below_lyman_limit:
+    "a population's line is shorter than the Lyman limit (912 Angstrom), where no galaxy's line is seen (e.g. a wavelength in nm written as a plain number)",
 } as const;
 
 export type WarningCode = keyof typeof WARNING_CODES;

@@ -12,7 +12,10 @@
  *    the file does not say `igm` (none or madau1995), so whether the forest was meant to dim the
  *    counts is unstated (not said again where band_blueward_of_lyman_alpha already fires);
  *  - phi_star_per_dex: a per-dex normalisation was given; papers label the ln 10 convention
- *    inconsistently, so the conversion used is said once.
+ *    inconsistently, so the conversion used is said once;
+ *  - line_below_lyman_limit: a line search's line is shorter than the Lyman limit (912 Angstrom),
+ *    where no galaxy's line is seen: most likely a wavelength in nm written as a plain number,
+ *    read in Angstrom ("line: 656.3" through a 1.2-1.9 um grism is seen at z = 17 to 28).
  */
 import type { Survey } from '../model/survey.js';
 import { warning, type Warning } from '../warnings.js';
@@ -23,6 +26,9 @@ import { bandRedEdgeAngstrom, LYMAN_ALPHA_ANGSTROM } from './igm.js';
 export const REST_WAVELENGTH_TOLERANCE = 0.3;
 /** A band within this factor of Lyman alpha (1 + z) asks for an explicit igm. */
 export const IGM_NEAR_FACTOR = 1.3;
+
+/** The Lyman limit (911.75 Angstrom, common practice), rounded: no galaxy's line is seen shortward of it. */
+export const LYMAN_LIMIT_ANGSTROM = 912;
 
 const fmt = (x: number): string => precise(x, 4);
 
@@ -78,6 +84,16 @@ export function selectionWarnings(survey: Survey): Warning[] {
           ),
         );
       }
+    }
+    if (d.kind === 'line_flux' && p.lineAngstrom !== undefined && p.lineAngstrom < LYMAN_LIMIT_ANGSTROM) {
+      const l = precise(p.lineAngstrom, 6);
+      out.push(
+        warning(
+          'line_below_lyman_limit',
+          `${p.name}: the line at ${l} A lies below the Lyman limit (${LYMAN_LIMIT_ANGSTROM} A), where no galaxy's line is seen, so it is counted at z = ${fmt(min)} to ${fmt(max)}; ` +
+            `a plain number is a wavelength in Angstrom: a wavelength in nm needs its unit (line: "${l} nm")`,
+        ),
+      );
     }
     const key = p.normalisationKey;
     if (key?.endsWith('_dex')) {

@@ -249,6 +249,28 @@ describe('warnings about selection traps', () => {
     expect(codes(clone(line))).not.toContain('phi_star_per_dex');
   });
 
+  // failed before: "line: 656.3" (nm without its unit) was read as 656.3 Angstrom and counted at
+  // z = 17 to 28 through a 1.2-1.9 um filter with no word; the Lyman limit 912 Angstrom (911.75,
+  // common practice) is the shortest rest wavelength a galaxy's line is seen at
+  test('line_below_lyman_limit: a line shorter than 912 Angstrom, named with the nm form to write', () => {
+    const grism = { center: '1.55 um', fwhm: '0.7 um', profile: 'tophat' };
+    const nm = withKeys(line, { 'detection.line': 656.3, 'detection.filter': grism });
+    const s = parseSurveyObject(nm, FILE);
+    const w = surveyWarnings(s).filter((x) => x.code === 'line_below_lyman_limit');
+    expect(w).toHaveLength(1);
+    expect(s.populations[0]!.window.min).toBeCloseTo(12000 / 656.3 - 1, 10);
+    expect(w[0]!.message).toContain('the line at 656.3 A lies below the Lyman limit (912 A)');
+    expect(w[0]!.message).toContain('counted at z = 17.28 to 27.95');
+    expect(w[0]!.message).toContain('a wavelength in nm needs its unit (line: "656.3 nm")');
+    // Lyman alpha itself, and the line written with its unit, raise nothing
+    expect(codes(withKeys(line, { 'detection.line': 1215.67, 'detection.filter': grism }))).not.toContain(
+      'line_below_lyman_limit',
+    );
+    expect(codes(withKeys(line, { 'detection.line': '656.3 nm', 'detection.filter': grism }))).not.toContain(
+      'line_below_lyman_limit',
+    );
+  });
+
   test('through the program: one line on stderr and the code in the JSON of check and predict', async () => {
     const path = join(tempDir('skytally-selection-'), 'near-lya.yaml');
     writeFileSync(path, toYaml(withKeys(magnitude, { 'detection.band': '8000 Angstrom' })));
