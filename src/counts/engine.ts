@@ -603,12 +603,13 @@ function buildNodes(
     ...rows,
   ].sort((x, y) => x - y);
   // Pieces start from 8 nodes where the count's integrand has what the hard-limit one does not
-  // show: the completeness crossed, and with photometric redshifts the probability of being
-  // measured in a slice (photo-z.ts weights these nodes by it; its pieces near a measured edge are
-  // at most sigma (1 + z) wide and need the nodes a whole piece gets, which a parameter's row
-  // cutting one in two took away: a phi* row inside a window moved its slices by 2.7e-6).
-  const photoZ = survey.detection.kind !== 'line_flux' && survey.detection.photoZ !== undefined;
-  const nStart = crossings.length > 0 || (photoZ && rows.length > 0) ? 8 : 2;
+  // show: the completeness crossed; and where a parameter's row cuts the range, since the nodes
+  // also carry what the hard-limit count does not weigh: the total luminosity density (all
+  // sources, where few are detected: from 2 nodes a piece holding almost no detections moved it by
+  // 5e-5) and, with photometric redshifts, the probability of being measured in a slice (photo-z.ts
+  // weights these nodes by it; a phi* row cutting a piece near a measured edge, at most
+  // sigma (1 + z) wide, moved the slices by 2.7e-6).
+  const nStart = crossings.length > 0 || rows.length > 0 ? 8 : 2;
   const { z, w } = piecewiseRedshiftNodes([lo, ...inner, hi], hardCount, nStart);
   const nodes: NodeState[] = [];
   for (let i = 0; i < z.length; i++) {

@@ -105,6 +105,29 @@ slices: {count: 5}
     p.slices!.forEach((s, i) => expect(rel(s.count, want[i]!)).toBeLessThan(1e-9));
   });
 
+  test('an alpha table with rows inside a window that detects almost nothing: the total luminosity density', () => {
+    // The total (all sources) rides on the count's nodes; pieces cut at the rows started from 2
+    // nodes, enough for the count's 1e-12 sources but not for phi* L* Gamma(alpha + 2) over the
+    // slice: before, 1.8e-7 off in the second slice with the rows cut (5.5e-5 in a file that also
+    // cut on equivalent width; 1.4e-8 and 7e-7 before the rows were cut)
+    const text = `
+cosmology: {h0: 72.65, omega_m: 0.4272}
+area: 0.0754
+redshift: {min: 1.3218, max: 3.9092}
+detection: {kind: line_flux, limit: 8.79e-16, line: 6562.8}
+population:
+  variable: luminosity
+  log10_l_star: "41.2555 - 0.19*(z - 2.6155)"
+  phi_star_dex: 0.000167
+  alpha: {table: [[1.4083, -1.26896], [2.7494, -1.17779], [3.6265, -1.10757], [4.5007, -1.05782]]}
+slices: {count: 3}
+`;
+    const p = predict(loadSurveyText(text, 'alpha-table.yaml'), { model: { draws: 0 } });
+    const want = [2.3317918178532946e37, 1.5157306301095837e37, 9.833386748176406e36];
+    p.slices!.forEach((s, i) => expect(rel(s.luminosity_density!.total!, want[i]!)).toBeLessThan(1e-9));
+    expect(rel(p.totals.count, 1.3890138750422702e-12)).toBeLessThan(1e-9);
+  });
+
   test('an M* table with rows inside the slice: count and total luminosity density (L_nu from 3631 Jy)', () => {
     // before: the count 1.3e-6 high, the total density 2e-6 off besides the zero point's 6.0e-5
     const text = `
