@@ -7,13 +7,16 @@
  * with its own numerics (adaptive Gauss-Legendre in z, panels in ln L; checked against scipy's
  * nested quad to 1e-15). The files cover the three detection kinds, areas from arcmin^2 to thousands
  * of deg^2, windows from z = 0.01 to 10, alpha from -2.3 to 0.5, units written several ways,
- * top-hat and gaussian filters, completeness curves, selection effects, photometric redshifts,
- * parameters in z, double Schechter functions and several populations.
+ * top-hat, gaussian and tabulated filters, spectra (synthetic photometry with rest bands),
+ * completeness curves, selection effects, photometric redshifts, parameters in z, double Schechter
+ * functions and several populations.
  *
- * Tolerances, as docs/outputs.md ("Precision") states them: windows, slice edges and limits 1e-9;
+ * Tolerances, as docs/outputs.md ("Precision") states them: windows, slice edges and limits 1e-9
+ * (limits 1e-8 mag with a spectrum);
  * volumes 1e-9 relative; counts 1e-6 relative (of a slice, or 1e-9 of its population's count);
- * each histogram bin 1e-4 of its slice's count; luminosity densities 1e-5 relative; the Poisson-only
- * Fisher sigmas 1e-5 relative (populations with at least one source), and forecast's count 2e-6.
+ * each histogram bin 1e-4 of its slice's count; luminosity densities 1e-5 relative (docs/outputs.md
+ * states 1e-4: 5e-5 was seen at a tabulated filter's edge, none in these files); the Poisson-only
+ * Fisher sigmas 1e-5 relative (populations with at least one source), and forecast's count 1e-5.
  */
 import { describe, expect, test } from 'vitest';
 import { readFileSync } from 'node:fs';
@@ -66,7 +69,8 @@ describe('predict on random survey files equals a docs-only evaluation', () => {
     expect(fixture.cases.length).toBe(40);
   });
   test.each(fixture.cases.map((c) => [c.seed, c] as const))('file %i', async (seed, c) => {
-    const survey = loadSurveyText(c.yaml, `blind-${seed}.yaml`);
+    // the filter and spectrum tables the files name stand in test/reference/blind_random/
+    const survey = loadSurveyText(c.yaml, `blind-${seed}.yaml`, 'test/reference/blind_random');
     const p = predict(survey, { model: { draws: 0 } });
     const bad: string[] = [];
     const check = (what: string, got: number | undefined, want: number | null, rel: number, floor = 0) => {
@@ -101,7 +105,14 @@ describe('predict on random survey files equals a docs-only evaluation', () => {
         check(`${sn} z_min`, gs.z_min, ws.z_min, 0, 1e-9);
         check(`${sn} z_max`, gs.z_max, ws.z_max, 0, 1e-9);
         check(`${sn} volume`, gs.volume_mpc3, ws.volume_mpc3, 1e-9);
-        check(`${sn} limit_at_center`, gs.limit_at_center, ws.limit_at_center, 0, 1e-9);
+        // with a spectrum, K(z) is tabulated to 1e-8 mag (docs/survey-file.md)
+        check(
+          `${sn} limit_at_center`,
+          gs.limit_at_center,
+          ws.limit_at_center,
+          0,
+          c.yaml.includes('sed:') ? 1e-8 : 1e-9,
+        );
         check(`${sn} count`, gs.count, ws.count, 1e-6, floor);
         if (ws.count_true_redshift !== null)
           check(`${sn} count_true_redshift`, gs.count_true_redshift, ws.count_true_redshift, 1e-6, floor);
@@ -144,7 +155,7 @@ describe('predict on random survey files equals a docs-only evaluation', () => {
       f.parameters.forEach((name, k) =>
         check(`sigma_poisson_only ${name}`, f.fisher_poisson_only.sigma[name], want[k]!, 1e-5),
       );
-      check('forecast count', f.count, c.populations[0]!.count, 2e-6);
+      check('forecast count', f.count, c.populations[0]!.count, 1e-5);
     }
     expect(bad.slice(0, 10)).toEqual([]);
   });

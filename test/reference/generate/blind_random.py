@@ -22,6 +22,8 @@ Sources of the formulas (each as the docs state it):
   lognormal, table), parameters in z (numbers, tables, expressions);
 - histograms in the observed value on multiples of the bin width, the brightest bin holding the
   tail; luminosity densities per volume, L_nu = 4 pi (10 pc)^2 x 3631 Jy x 10^(-0.4 M);
+- spectra: K(z) by synthetic photometry of a rest-frame spectrum through the observed band and the
+  rest band (or at the rest wavelength), Hogg et al. 2002 eqs. 2-4 and 8 as the docs write it;
 - photometric redshifts: a slice in measured redshift holds int dz dV/dz n(z) P(a, b | z) over the true
   range, P as the docs write it; its densities weighted the same way (the sources measured in it);
 - the Poisson-only Fisher matrix of an unbinned extended likelihood, F_ij = int n d_i ln n d_j ln n
@@ -39,6 +41,7 @@ import sys
 import math
 import os
 import re
+import sys
 from functools import reduce
 
 import numpy as np
@@ -352,6 +355,82 @@ class Pop:
     pass
 
 
+def read_table(path):
+    """rows (wavelength in Angstrom, value); a header's first column names the unit"""
+    unit = 1.0
+    rows = []
+    for ln in open(path):
+        t = ln.strip()
+        if not t or t.startswith('#'):
+            continue
+        parts = [p for p in re.split(r'[,;\t ]+', t) if p]
+        try:
+            rows.append((float(parts[0]), float(parts[1])))
+        except ValueError:
+            unit = {'wavelength': 1.0, 'wavelength_angstrom': 1.0, 'wavelength_nm': 10.0,
+                    'wavelength_um': 1e4}[parts[0]]
+    r = np.array(rows)
+    r[:, 0] *= unit
+    return r
+
+
+class Band:
+    """a band {center, fwhm, profile} (tophat: 1 on center +- fwhm/2; gaussian: untruncated,
+    integrated over center +- 3 fwhm) or a table file, as docs/survey-file.md ("Spectra, bands and
+    magnitude systems") defines them"""
+
+    def __init__(self, spec, base):
+        if isinstance(spec, dict) and 'file' in spec:
+            t = read_table(os.path.join(base, spec['file']))
+            self.kind, self.lam, self.tr = 'table', t[:, 0], t[:, 1] / t[:, 1].max()
+            self.lo, self.hi = self.lam[0], self.lam[-1]
+            self.nodes = list(self.lam)
+        else:
+            self.kind = spec.get('profile', 'tophat')
+            self.c, self.fw = q_wave(spec['center']), q_wave(spec['fwhm'])
+            if self.kind == 'tophat':
+                self.lo, self.hi = self.c - self.fw / 2, self.c + self.fw / 2
+            else:
+                self.lo, self.hi = self.c - 3 * self.fw, self.c + 3 * self.fw
+                self.sig = self.fw / (2 * math.sqrt(2 * math.log(2)))
+            self.nodes = list(np.linspace(self.lo, self.hi, 61))
+
+    def R(self, lam):
+        if self.kind == 'table':
+            return np.interp(lam, self.lam, self.tr, left=0, right=0)
+        if self.kind == 'tophat':
+            return np.where((lam >= self.lo) & (lam <= self.hi), 1.0, 0.0)
+        return np.exp(-(lam - self.c) ** 2 / (2 * self.sig ** 2))
+
+
+def _gl_pieces(f, nodes):
+    nodes = np.unique(np.asarray(nodes, float))
+    a, b = nodes[:-1], nodes[1:]
+    x = 0.5 * (b - a)[:, None] * GL_X[None, :] + 0.5 * (a + b)[:, None]
+    w = 0.5 * (b - a)[:, None] * GL_W[None, :]
+    return float(np.sum(w * f(x)))
+
+
+def sed_k(S, P, z):
+    """K(z) of Hogg et al. 2002 (eqs. 2-4, 8) as docs/survey-file.md writes it, without the distance
+    modulus: -2.5 log10[int l f(l/(1+z)) R dl int Q/l dl / ((1+z) int l f(l) Q dl int R/l dl)]"""
+    spec = S.sed
+    f = lambda lam: np.interp(lam, spec[:, 0], spec[:, 1])
+    B = S.obs_band
+    inside = [l * (1 + z) for l in spec[:, 0] if B.lo < l * (1 + z) < B.hi]
+    nodes = [B.lo, B.hi] + [n for n in B.nodes if B.lo <= n <= B.hi] + inside
+    num = _gl_pieces(lambda l: l * f(l / (1 + z)) * B.R(l), nodes)
+    den_r = _gl_pieces(lambda l: B.R(l) / l, nodes)
+    if P.rest_band is None:
+        rest = P.rest ** 2 * float(f(P.rest))
+    else:
+        Q = P.rest_band
+        inside_q = [l for l in spec[:, 0] if Q.lo < l < Q.hi]
+        nq = [Q.lo, Q.hi] + [n for n in Q.nodes if Q.lo <= n <= Q.hi] + inside_q
+        rest = _gl_pieces(lambda l: l * f(l) * Q.R(l), nq) / _gl_pieces(lambda l: Q.R(l) / l, nq)
+    return -2.5 * math.log10(num / ((1 + z) * rest * den_r))
+
+
 def load(path):
     with open(path) as f:
         d = yaml.safe_load(f)
@@ -371,8 +450,13 @@ def load(path):
         S.filter = Transmission(det['filter'], base) if 'filter' in det else None
     elif S.kind == 'magnitude':
         S.mlim = q_mag_or_fluxdens(det['limit'])[0] + vega_off
-        S.band = q_wave(det['band'])
-        S.beta = float(det.get('beta', -2))
+        S.sed = None
+        if 'sed' in det:
+            S.sed = read_table(os.path.join(base, det['sed']['file']))
+            S.obs_band = Band(det['band'], base)
+        else:
+            S.band = q_wave(det['band'])
+            S.beta = float(det.get('beta', -2))
     else:
         S.tlim = ZP(det['limit'])
     S.sel_det = ZP(det['redshift_selection']) if 'redshift_selection' in det else None
@@ -410,7 +494,9 @@ def load(path):
             P.mstar = lambda z, zp=zp, off=off: zp(z) + off
             P.zps.append(zp)
         P.line = q_wave(pd['line']) if 'line' in pd else (q_wave(det['line']) if 'line' in det else None)
-        P.rest = q_wave(pd.get('rest_wavelength', 1500))
+        P.rest_band = Band(pd['rest_band'], base) if 'rest_band' in pd else None
+        P.rest = P.rest_band.c if (P.rest_band is not None and P.rest_band.kind != 'table') else q_wave(
+            pd.get('rest_wavelength', 1500))
         P.blend = float(pd.get('blend_ratio', 0))
         P.att = ZP(pd['attenuation']) if 'attenuation' in pd else None
         P.sel = ZP(pd['redshift_selection']) if 'redshift_selection' in pd else S.sel_det
@@ -488,8 +574,11 @@ class Model:
                 lim = np.full_like(z, math.log10(S.flim))
                 r['limit_var'] = np.log10(S.flim / fac)  # log10 L_lim, unblended
         elif S.kind == 'magnitude':
-            K = (5 * np.log10(dl * 1e6 / 10) - 2.5 * np.log10(1 + z)
-                 - 2.5 * (S.beta + 2) * np.log10(S.band / ((1 + z) * P.rest)))
+            if S.sed is not None:
+                K = 5 * np.log10(dl * 1e6 / 10) + np.array([sed_k(S, P, zz) for zz in z])
+            else:
+                K = (5 * np.log10(dl * 1e6 / 10) - 2.5 * np.log10(1 + z)
+                     - 2.5 * (S.beta + 2) * np.log10(S.band / ((1 + z) * P.rest)))
             a = mstar + K + A
             lim = np.full_like(z, S.mlim)
             r['limit_var'] = S.mlim - K - A
@@ -807,6 +896,7 @@ def evaluate(path, per_unit=16, fisher=False):
 import random
 
 PHOTOZ = True
+SED_P = 0.3
 LINES = [6562.8, 5006.8, 3727.4, 4861.3, 1215.67, 6583.4]
 
 
@@ -1041,12 +1131,33 @@ def make(seed, outdir):
         lam_band = rest * (1 + zmid) * r.uniform(0.8, 1.25)
         if rest < 1e9 and lam_band < 1216 * 1.3 * (1 + zmax):
             lam_band = 1216 * 1.35 * (1 + zmax)
-        det['band'] = fmt_wave(r, float('%.6g' % lam_band), allow_freq=rest > 1e9)
-        if r.random() < 0.8:
-            det['beta'] = round(r.uniform(-3, 1), 3)
+        use_sed = rest < 1e9 and r.random() < SED_P
+        if use_sed:
+            prof = pick(r, 'tophat', 'gaussian')
+            fw = lam_band * r.uniform(0.05, 0.3)
+            half = fw / 2 if prof == 'tophat' else 3 * fw
+            det['band'] = {'center': fmt_wave(r, round(lam_band, 2)), 'fwhm': fmt_wave(r, round(fw, 2)),
+                           'profile': prof}
+            lo_rest = min((lam_band - half) / (1 + zmax + 2), rest * 0.35)
+            hi_rest = max(lam_band + half, rest * 1.65)
+            fn = 'sed-%d.csv' % seed
+            b1, amp, l0, sw = r.uniform(-2.5, 0.5), r.uniform(0, 3), math.exp(r.uniform(math.log(lo_rest), math.log(hi_rest))), r.uniform(0.1, 0.8)
+            with open(os.path.join(outdir, fn), 'w') as f:
+                f.write('wavelength_angstrom, f_lambda\n')
+                for k in range(60):
+                    lam = lo_rest * (hi_rest / lo_rest) ** (k / 59)
+                    v = lam ** b1 * (1 + amp * math.exp(-(math.log(lam / l0)) ** 2 / (2 * sw ** 2)))
+                    f.write('%.6f, %.6e\n' % (lam, v))
+            det['sed'] = {'file': fn}
+        else:
+            det['band'] = fmt_wave(r, float('%.6g' % lam_band), allow_freq=rest > 1e9)
+            if r.random() < 0.8:
+                det['beta'] = round(r.uniform(-3, 1), 3)
         for i in range(npop):
             p = population(r, kind, 'magnitude', zmid, pick(r, 'single', 'single', 'double'))
-            if rest != 1500 or r.random() < 0.3:
+            if use_sed and r.random() < 0.4:
+                p['rest_band'] = {'center': rest, 'fwhm': round(rest * 0.2, 2), 'profile': pick(r, 'tophat', 'gaussian')}
+            elif rest != 1500 or r.random() < 0.3:
                 p['rest_wavelength'] = fmt_wave(r, rest, allow_freq=rest > 1e9) if rest < 1e9 else '1.4 GHz'
             pops.append(p)
         if r.random() < 0.4:
@@ -1166,16 +1277,24 @@ if __name__ == '__main__':
     import shutil
     FIRST, N = 20260, 40
     out = []
+    AUX = os.path.join(os.path.dirname(os.path.abspath(__file__)), '..', 'blind_random')
+    os.makedirs(AUX, exist_ok=True)
+    for fn in os.listdir(AUX):
+        if fn.endswith('.csv'):
+            os.remove(os.path.join(AUX, fn))
     d = tempfile.mkdtemp()
     try:
         seed = FIRST
         while len(out) < N:
-            # the kept set: no tabulated filter (a file beside the survey) and no file refused by the
-            # docs' rules (a filter that sees an interloper line nowhere)
+            # the kept set: no file refused by the docs' rules (a filter that sees an interloper
+            # line nowhere); the tables a file names are kept beside the fixture
             c = case(seed, d)
             seed += 1
-            if 'filter-' in c['yaml'] or any(p['window'][1] <= p['window'][0] for p in c['populations']):
+            if any(p['window'][1] <= p['window'][0] for p in c['populations']):
                 continue
+            for fn in os.listdir(d):
+                if fn.endswith('-%d.csv' % c['seed']):
+                    shutil.copy(os.path.join(d, fn), os.path.join(AUX, fn))
             out.append(c)
     finally:
         shutil.rmtree(d)
