@@ -116,6 +116,7 @@ export function predictionViews(
     cosmology: prediction.cosmology,
     area_deg2: prediction.area_deg2,
     redshift: prediction.redshift,
+    ...(prediction.photo_z ? { measured_redshift: true } : {}),
   };
   const single = survey.populations.length === 1;
   const curve0 = single ? curveFor(survey, 0, drawsOf(0)) : undefined;

@@ -279,7 +279,13 @@ export function countsSpec(p: PredictionView): Spec | null {
     {
       mark: { type: 'bar', fill: PALETTE.blue, stroke: 'white', strokeWidth: 1, clip: true },
       encoding: {
-        x: { field: 'z_min', type: 'quantitative', title: 'redshift z', scale: { zero: false, nice: false } },
+        x: {
+          field: 'z_min',
+          type: 'quantitative',
+          // photometric redshifts: the slices hold the sources measured in them
+          title: p.measured_redshift ? 'measured (photometric) redshift z' : 'redshift z',
+          scale: { zero: false, nice: false },
+        },
         x2: { field: 'z_max' },
         y: {
           field: 'count',

@@ -61,6 +61,8 @@ export interface PredictionView {
   observed_bins?: ObservedBins;
   /** The detection in words, as the predict table's survey line gives it (src/render/detection-text.ts). */
   detection_text?: string;
+  /** With detection.photo_z: the slices are in measured (photometric) redshift. */
+  measured_redshift?: boolean;
 }
 
 /** The fields of a forecast (the `forecast` result) the figure and the report read. */
