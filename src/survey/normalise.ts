@@ -1114,6 +1114,15 @@ function buildPopulation(
   const occupation = p.occupation ?? 1;
   if (!(occupation > 0 && occupation <= 1))
     outOfRange(file, `${path}.occupation`, `is ${fmt(occupation)}`, 'give a fraction above 0 and at most 1');
+  // occupation enters only abundance matching; beside a given bias it would be read and ignored
+  if (bias !== 'auto' && occupation !== 1)
+    throw inputError(
+      'conflict',
+      file,
+      `${path}.occupation`,
+      `is ${fmt(occupation)}, but it only enters bias: auto (the share of matched haloes that host a detected galaxy) and this population gives its bias`,
+      'remove occupation, or set bias: auto to match the bias to haloes',
+    );
   const restWavelengthAngstrom =
     p.rest_wavelength !== undefined
       ? wavelengthOrFrequency(

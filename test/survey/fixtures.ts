@@ -64,13 +64,13 @@ populations:
     log10_l_star: 10.9
     alpha: -0.6
     bias: 1.8
-    occupation: 0.7
   - name: star-forming
     variable: luminosity
     quantity: stellar mass [Msun]
     log10_phi_star_dex: -2.9
     l_star: 8e10
     alpha: -1.3
+    occupation: 0.7
 slices: {edges: [0.6, 0.8, 1.0, 1.4]}
 plan: {budget_hours: 100}
 `;

@@ -92,8 +92,8 @@ describe('valid surveys (closed-form expectations)', () => {
     expect(q.lStar!.at(1) / 10 ** 10.9).toBeCloseTo(1, 12);
     expect(q.bias !== 'auto' && q.bias.at(1)).toBe(1.8);
     expect(sf.bias).toBe('auto');
-    expect(q.occupation).toBe(0.7);
-    expect(sf.occupation).toBe(1);
+    expect(q.occupation).toBe(1);
+    expect(sf.occupation).toBe(0.7);
     // Edges [0.6, 0.8, 1.0, 1.4] lie inside [0.5, 1.5]; the slices then cover [0.6, 1.4].
     expect(s.sliceEdges).toEqual([0.6, 0.8, 1.0, 1.4]);
     expect(s.redshift).toEqual({ min: 0.6, max: 1.4 });
@@ -462,6 +462,8 @@ const cases: Case[] = [
   ['negative bias', L, { 'population.bias': -1 }, 'out_of_range', 'population.bias'],
   ['zero occupation', L, { 'population.occupation': 0 }, 'out_of_range', 'population.occupation'],
   ['occupation above 1', L, { 'population.occupation': 1.5 }, 'out_of_range', 'population.occupation'],
+  // occupation enters only abundance matching (bias: auto); read and ignored beside a given bias before
+  ['occupation beside a given bias', T, { 'populations[0].occupation': 0.5 }, 'conflict', 'populations[0].occupation'],
   ['duplicate population names', T, { 'populations[1].name': 'quiescent' }, 'conflict', 'populations[1].name'],
   [
     'negative rest wavelength',
