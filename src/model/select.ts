@@ -56,10 +56,13 @@ export function choosePopulation(survey: Survey, name?: string): Population {
   refuseScatteredRedshifts(survey);
   const p = populationByName(survey, name);
   if (p.shape !== 'schechter') {
+    // the key as the file writes it: one population under population:, or the list's entry
+    const raw = survey.raw as { populations?: unknown } | undefined;
+    const listed = raw !== null && typeof raw === 'object' && Array.isArray(raw.populations);
     throw inputError(
       'kind_mismatch',
       survey.file,
-      'population.shape',
+      listed ? `populations[${survey.populations.indexOf(p)}].shape` : 'population.shape',
       `forecasts and plans vary phi*, L* (or M*) and alpha of a single Schechter function, but "${p.name}" is ${p.shape}`,
       'choose a single-Schechter population with --population, or describe this one with shape: schechter',
     );

@@ -4,7 +4,7 @@
  * written). Plumbing only: the numbers are checked against references in fisher.test.ts and mocks.test.ts.
  */
 import { describe, expect, test } from 'vitest';
-import { existsSync, readFileSync, readdirSync } from 'node:fs';
+import { existsSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { runCli } from '../cli/helpers.js';
@@ -146,6 +146,26 @@ describe('forecast command', () => {
       expect(r.stderr.trim().split('\n').length).toBe(1);
     },
   );
+
+  test('a double Schechter population listed second is named by its own key, populations[1].shape (failed before: population.shape, a key the file does not have)', async () => {
+    const text = [
+      'format: 1',
+      'cosmology: {h0: 70, omega_m: 0.3}',
+      'area: 2.0',
+      'redshift: {min: 0.2, max: 1.0}',
+      'detection: {kind: threshold, limit: 9.5}',
+      'populations:',
+      '  - {name: single, variable: luminosity, log10_phi_star: -3, log10_l_star: 10.7, alpha: -1.2}',
+      '  - {name: double, shape: double_schechter, variable: luminosity, log10_l_star: 10.7, log10_phi_star_1: -2.8, alpha_1: -0.45, log10_phi_star_2: -3.4, alpha_2: -1.5}',
+      '',
+    ].join('\n');
+    const path = join(tempDir('skytally-double-second-'), 'two.yaml');
+    writeFileSync(path, text);
+    const r = await runCli(['forecast', path, '--population', 'double', '--no-cosmic-variance']);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toContain('populations[1].shape');
+    expect(r.stderr.trim().split('\n').length).toBe(1);
+  });
 
   test.each(ALL.filter(isPhotoZ))(
     '%s: photometric-redshift scatter is refused with one sentence (exit 2)',
