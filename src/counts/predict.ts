@@ -25,6 +25,7 @@ import type { Histogram, SliceCount } from './engine.js';
 import { countWith, type CountMemo } from './count-memo.js';
 import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED, MAX_MODEL_DRAWS } from './model-draws.js';
 import { assertWholeOption } from '../errors.js';
+import { MAX_SEED } from '../model/limits.js';
 import { addPopulationSpreads, addTopSpreads } from './model-spread.js';
 import { countPhotoZ, sumMigrations, type PhotoZCount, type PhotoZMigration } from './photo-z.js';
 import { PHOTO_Z_REACH_SIGMA } from '../model/photo-z.js';
@@ -584,7 +585,7 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
   const units = survey.populations.map((p) => luminosityDensityUnit(survey, p));
   const withUncertainty = !options.noUncertainty;
   assertWholeOption(options.model?.draws, 'model.draws', 0, MAX_MODEL_DRAWS);
-  assertWholeOption(options.model?.seed, 'model.seed', 0, 4294967295);
+  assertWholeOption(options.model?.seed, 'model.seed', 0, MAX_SEED);
   const modelDraws = options.model?.draws ?? DEFAULT_MODEL_DRAWS;
   const withModel = withUncertainty && modelDraws > 0 && survey.populations.some((p) => p.modelUncertainty);
   const runs = countPopulations(survey, cosmo, units, withUncertainty, withModel, options.countMemo);

@@ -18,7 +18,7 @@ import type {
   RequirementAtModel,
 } from '../model/outputs/forecast.js';
 import { choosePopulation, surveyForPopulation } from '../model/select.js';
-import { MAX_MOCKS } from '../model/limits.js';
+import { MAX_MOCKS, MAX_SEED } from '../model/limits.js';
 import { MAX_MODEL_DRAWS } from '../model/model-uncertainty.js';
 import { assertWholeOption, inputError } from '../errors.js';
 import { assertConvergent } from '../counts/engine.js';
@@ -126,7 +126,7 @@ export function summariseSample(values: readonly number[], input: number): MockP
  */
 function checkForecastOptions(opts: ForecastOptions, names: readonly string[]): void {
   assertWholeOption(opts.mocks, 'mocks', 0, MAX_MOCKS);
-  assertWholeOption(opts.seed, 'seed', 0, 4294967295);
+  assertWholeOption(opts.seed, 'seed', 0, MAX_SEED);
   // (report --draws reaches MAX_MODEL_DRAWS; forecast --model-draws keeps its own smaller cap)
   assertWholeOption(opts.modelDraws, 'modelDraws', 0, MAX_MODEL_DRAWS);
   for (const [name, sigma] of Object.entries(opts.targets ?? {})) {
@@ -184,7 +184,7 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
       survey.file,
       'detection.limit',
       `no source of "${population.name}" is expected above the limit, so nothing can be measured`,
-      `choose a fainter limit or a larger area${removingSelectionHint(file, [population]).replace(', or the', ', or check the')}`,
+      `choose a fainter limit or a larger area${removingSelectionHint(file, [population], 'or check the selection')}`,
     );
   }
   const poisson = summariseFisher(parts.matrix);

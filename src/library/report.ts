@@ -16,7 +16,7 @@ import type { OmittedSection, ReportJson } from '../model/outputs/report.js';
 import type { Figure } from '../render/types.js';
 import { mergeWarnings, type Warning } from '../warnings.js';
 import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED, MAX_MODEL_DRAWS } from '../model/model-uncertainty.js';
-import { MAX_MOCKS } from '../model/limits.js';
+import { MAX_MOCKS, MAX_SEED } from '../model/limits.js';
 
 export type { OmittedSection };
 
@@ -94,7 +94,7 @@ export interface SectionOptions {
  */
 function checkSectionOptions(opts: SectionOptions): void {
   assertWholeOption(opts.mocks, 'mocks', 0, MAX_MOCKS);
-  assertWholeOption(opts.seed, 'seed', 0, 4294967295);
+  assertWholeOption(opts.seed, 'seed', 0, MAX_SEED);
   assertWholeOption(opts.draws, 'draws', 0, MAX_MODEL_DRAWS);
 }
 
@@ -292,7 +292,7 @@ export async function buildReport(
   survey: Survey,
   options: BuildReportOptions = {},
 ): Promise<{ html: string; figures: Figure[]; results: ReportResults }> {
-  checkSectionOptions(options);
+  // (reportSections checks the options before anything is computed)
   const results = await computeReport(survey.file, survey, reportSections(options), {
     ...(options.draws !== undefined ? { draws: options.draws } : {}),
     ...(options.seed !== undefined ? { seed: options.seed } : {}),

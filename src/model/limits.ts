@@ -30,6 +30,9 @@ export const MAX_FORECAST_MODEL_DRAWS = 10_000;
 /** Most mock surveys one run may draw (about 20 ms each on one core for a deep field). */
 export const MAX_MOCKS = 10_000;
 
+/** Largest seed of the mock surveys and model draws: the 32-bit seeds of the Mersenne twister (mt19937). */
+export const MAX_SEED = 4294967295;
+
 /** Narrowest redshift slice and window: thinner boxes have no measurable depth. */
 export const MIN_SLICE_WIDTH = 1e-6;
 

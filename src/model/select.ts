@@ -49,6 +49,16 @@ export function surveyForPopulation(survey: Survey, population: Population): Sur
 }
 
 /**
+ * A population's key path as the file writes it: `population` for the one population of a file
+ * that gives it under `population:`, else `populations[i]`.
+ */
+export function populationPath(survey: Survey, p: Population): string {
+  const listed = Array.isArray((survey.raw as { populations?: unknown } | undefined)?.populations);
+  const i = survey.populations.indexOf(p);
+  return listed || i > 0 ? `populations[${i}]` : 'population';
+}
+
+/**
  * The population of interest (by name, default the first). Forecasts vary the three parameters
  * of a single Schechter function, so a double Schechter population is refused.
  */
@@ -56,13 +66,10 @@ export function choosePopulation(survey: Survey, name?: string): Population {
   refuseScatteredRedshifts(survey);
   const p = populationByName(survey, name);
   if (p.shape !== 'schechter') {
-    // the key as the file writes it: one population under population:, or the list's entry
-    const raw = survey.raw as { populations?: unknown } | undefined;
-    const listed = raw !== null && typeof raw === 'object' && Array.isArray(raw.populations);
     throw inputError(
       'kind_mismatch',
       survey.file,
-      listed ? `populations[${survey.populations.indexOf(p)}].shape` : 'population.shape',
+      `${populationPath(survey, p)}.shape`,
       `forecasts and plans vary phi*, L* (or M*) and alpha of a single Schechter function, but "${p.name}" is ${p.shape}`,
       'choose a single-Schechter population with --population, or describe this one with shape: schechter',
     );

@@ -6,6 +6,7 @@
 import type { Detection } from '../model/detection.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
+import { populationPath } from '../model/select.js';
 import type { EquivalentWidthDistribution } from '../model/selection.js';
 import type { SelectionBlock } from '../model/outputs/shared.js';
 import { selectionEffects } from './effects.js';
@@ -52,21 +53,24 @@ export function describeSelection(detection: Detection, p: Population): Selectio
 /**
  * The keys of the selection that can leave no source where the limit alone would leave some (a
  * redshift selection of 0, a deep attenuation, a high equivalent-width cut), as the file names
- * them, for the populations `which` of `survey` (default every one): a message about a survey that
- * counts nothing names them beside the limit and the area. "" without any.
+ * them, for the populations `which` of `survey` (default every one), after `lead`
+ * (", or the selection (...)"): a message about a survey that counts nothing names them beside the
+ * limit and the area. "" without any.
  */
-export function removingSelectionHint(survey: Survey, which: readonly Population[] = survey.populations): string {
-  const listed = Array.isArray((survey.raw as { populations?: unknown } | undefined)?.populations);
+export function removingSelectionHint(
+  survey: Survey,
+  which: readonly Population[] = survey.populations,
+  lead = 'or the selection',
+): string {
   const detection = survey.detection;
   const keys: string[] = [];
   for (const p of which) {
-    const i = survey.populations.indexOf(p);
-    const path = listed || i > 0 ? `populations[${i}]` : 'population';
+    const path = populationPath(survey, p);
     if (p.redshiftSelection) keys.push(`${path}.redshift_selection`);
     else if (detection.redshiftSelection) keys.push('detection.redshift_selection');
     if (p.attenuation) keys.push(`${path}.attenuation`);
   }
   if (detection.equivalentWidthCut) keys.push('detection.equivalent_width_cut');
   const unique = [...new Set(keys)];
-  return unique.length > 0 ? `, or the selection (${unique.join(', ')})` : '';
+  return unique.length > 0 ? `, ${lead} (${unique.join(', ')})` : '';
 }

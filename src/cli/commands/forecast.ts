@@ -14,7 +14,7 @@ import {
 } from './common.js';
 import { Outputs, renderText, type CliIO } from '../io.js';
 import { inputError } from '../../errors.js';
-import { MAX_FORECAST_MODEL_DRAWS, MAX_MOCKS } from '../../model/limits.js';
+import { MAX_FORECAST_MODEL_DRAWS, MAX_MOCKS, MAX_SEED } from '../../model/limits.js';
 export { MAX_FORECAST_MODEL_DRAWS, MAX_MOCKS };
 
 export const forecastCommand: CommandDef = {
@@ -146,7 +146,7 @@ function withoutFits<T extends { fits?: unknown }>(m: T): Omit<T, 'fits'> {
  */
 export function mockOptions(raw: { mocks?: unknown; seed?: unknown }): { mocks: number; seed: number } {
   const mocks = raw.mocks === undefined ? 0 : parseInteger(optionText(raw.mocks), '--mocks', 1, MAX_MOCKS);
-  const seed = raw.seed === undefined ? 1 : parseInteger(optionText(raw.seed), '--seed', 0, 4294967295);
+  const seed = raw.seed === undefined ? 1 : parseInteger(optionText(raw.seed), '--seed', 0, MAX_SEED);
   return { mocks, seed };
 }
 

@@ -10,6 +10,7 @@ import {
   wantsPng,
 } from './common.js';
 import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED, MAX_MODEL_DRAWS } from '../../model/model-uncertainty.js';
+import { MAX_SEED } from '../../model/limits.js';
 import { Outputs, renderText } from '../io.js';
 
 export const predictCommand: CommandDef = {
@@ -64,7 +65,6 @@ export const predictCommand: CommandDef = {
 export function modelDrawOptions(raw: { draws?: unknown; seed?: unknown }): { draws: number; seed: number } {
   const draws =
     raw.draws === undefined ? DEFAULT_MODEL_DRAWS : parseInteger(optionText(raw.draws), '--draws', 1, MAX_MODEL_DRAWS);
-  const seed =
-    raw.seed === undefined ? DEFAULT_MODEL_SEED : parseInteger(optionText(raw.seed), '--seed', 0, 4294967295);
+  const seed = raw.seed === undefined ? DEFAULT_MODEL_SEED : parseInteger(optionText(raw.seed), '--seed', 0, MAX_SEED);
   return { draws, seed };
 }
