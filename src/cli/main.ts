@@ -3,17 +3,20 @@
  * 2 bad input). Each command lives in src/cli/commands/<name>.ts and loads its heavy modules only
  * when it runs, so that start-up pays only for the command used.
  */
-import { Command, CommanderError } from 'commander';
-import { inputError, printable, SurveyError } from '../errors.js';
+import { CommanderError, type Command } from 'commander';
+import { excerpt, inputError, printable, SurveyError } from '../errors.js';
 import { removePendingFiles, type CliIO } from './io.js';
 import { COMMANDS } from './commands/index.js';
+import { ProgramCommand, unknownCommand } from './refusals.js';
 import packageJson from '../../package.json' with { type: 'json' };
 
 /** The package's version, from package.json (the bundle carries the value, not the file). */
 export const VERSION: string = packageJson.version;
 
 export async function run(argv: readonly string[], io: CliIO): Promise<number> {
-  const program = new Command();
+  // commander's own refusals (bad choice, missing value, unknown option or command, missing or
+  // extra argument) are thrown as bad input in the program's form (src/cli/refusals.ts)
+  const program = new ProgramCommand();
   program
     .name('skytally')
     .description('Expected galaxy counts, their uncertainties and forecasts for a planned survey.')
@@ -22,7 +25,6 @@ export async function run(argv: readonly string[], io: CliIO): Promise<number> {
     .configureOutput({
       writeOut: (s) => io.stdout(s),
       writeErr: (s) => io.stderr(lines(s)),
-      outputError: (s, write) => write(commanderError(s)),
     })
     .showHelpAfterError(false);
   let exitCode = 0;
@@ -39,6 +41,9 @@ export async function run(argv: readonly string[], io: CliIO): Promise<number> {
     });
   }
   try {
+    // "skytally help predikt": commander would print the program's help and succeed
+    if (argv[0] === 'help' && argv[1] !== undefined && !COMMANDS.some((def) => def.name === argv[1]))
+      throw unknownCommand(program, excerpt(argv[1]));
     await program.parseAsync(['node', 'skytally', ...argv]);
     return exitCode;
   } catch (err) {
@@ -74,26 +79,13 @@ export function handleError(err: unknown, io: CliIO): number {
   if (err instanceof CommanderError) {
     if (err.code === 'commander.helpDisplayed' || err.code === 'commander.version' || err.code === 'commander.help')
       return 0;
-    // commander has already printed its one-line message
+    // commander's refusals are thrown as SurveyError (src/cli/refusals.ts): here only help and version
     return err.exitCode === 0 ? 0 : 2;
   }
   const msg = err instanceof Error ? err.message : String(err);
   io.stderr(`skytally: internal failure: ${printable(msg)}\n`);
   if (process.env.SKYTALLY_DEBUG && err instanceof Error) io.stderr(`${err.stack}\n`);
   return 1;
-}
-
-/**
- * commander's error message in the program's own form, one line starting "skytally: " like every
- * other refusal: "error: unknown command 'predikt'\n(Did you mean predict?)" becomes
- * "skytally: unknown command 'predikt' (did you mean predict?)".
- */
-function commanderError(s: string): string {
-  const text = s
-    .trim()
-    .replace(/^error: /, '')
-    .replace(/\s*\n\(Did you mean (.*)\?\)$/, ' (did you mean $1?)');
-  return `skytally: ${text.replace(/\s*\n\s*/g, ' ')}\n`;
 }
 
 /** Text whose lines are each made safe for a terminal (printable), the line breaks kept. */

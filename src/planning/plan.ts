@@ -277,16 +277,21 @@ export async function planDesigns(
   const from = order[0] ?? assumedBest;
   const to = order[order.length - 1] ?? assumedBest;
   const contiguous = within.length > 0 && within[within.length - 1]! - within[0]! + 1 === within.length;
+  const limitedByBudget = !fixedDesign && assumedBest.tiers.some((_, i) => budgetLimited(assumedBest, i, spec));
   if (designs.length > 1 && within.length > 0) {
     const head = `${within.length} of ${designs.length} designs are within ${NEAR_BEST_TOLERANCE * 100} % of the best goal value${contiguous ? '' : ' (not one contiguous run of the grid)'}`;
-    // At the grid's edge the goal may keep improving beyond it: how flat the optimum is cannot be told.
+    // At the grid's edge, or at the budget's (one pointing taking all of it), the goal may keep
+    // improving beyond it: how flat the optimum is cannot be told. (A layer of several taking its
+    // share in one pointing is not at such an edge: the search moves the shares.)
     notes.push(
       edge
         ? `${head}; the best design sits at the edge of the exposure grid, so this grid cannot tell how flat the optimum is.`
-        : `${head}: the optimum is ${areaOf(to) >= FLAT_AREA_SPAN * areaOf(from) ? 'flat' : 'sharp'}.`,
+        : limitedByBudget && assumedBest.tiers.length === 1
+          ? `${head}; the best design is as deep as the budget allows, so how flat the optimum is cannot be told.`
+          : `${head}: the optimum is ${areaOf(to) >= FLAT_AREA_SPAN * areaOf(from) ? 'flat' : 'sharp'}.`,
     );
   }
-  if (!fixedDesign && assumedBest.tiers.some((_, i) => budgetLimited(assumedBest, i, spec))) {
+  if (limitedByBudget) {
     const who =
       assumedBest.tiers.length > 1 ? 'A layer of the best design spends its share' : 'The best design spends all';
     notes.push(

@@ -136,7 +136,35 @@ export function svgForHtml(svg: string): string {
 // ---------------------------------------------------------------------------------------------
 // Model
 
+/** The Schechter parameters by symbol, as the model table and its uncertainty row write them. */
+const PARAM_SYMBOLS: Record<string, string> = {
+  phi_star: 'φ*',
+  log10_phi_star: 'log₁₀ φ*',
+  phi_star_dex: 'φ* per dex',
+  log10_phi_star_dex: 'log₁₀ φ* per dex',
+  l_star: 'L*',
+  log10_l_star: 'log₁₀ L*',
+  m_star: 'M*',
+  alpha: 'α',
+  phi_star_1: 'φ₁*',
+  log10_phi_star_1: 'log₁₀ φ₁*',
+  phi_star_1_dex: 'φ₁* per dex',
+  log10_phi_star_1_dex: 'log₁₀ φ₁* per dex',
+  alpha_1: 'α₁',
+  phi_star_2: 'φ₂*',
+  log10_phi_star_2: 'log₁₀ φ₂*',
+  phi_star_2_dex: 'φ₂* per dex',
+  log10_phi_star_2_dex: 'log₁₀ φ₂* per dex',
+  alpha_2: 'α₂',
+};
+
+/**
+ * A short label for each key of a population as written (specs/survey.schema.json, $defs/population;
+ * test/render/report.test.ts checks that every key there has one): what the key means, in the
+ * words and units of the trade.
+ */
 const PARAM_LABELS: Record<string, string> = {
+  quantity: 'quantity counted',
   phi_star: 'φ* [Mpc⁻³]',
   log10_phi_star: 'log₁₀ φ* [Mpc⁻³]',
   phi_star_dex: 'φ* per dex [Mpc⁻³ dex⁻¹]',
@@ -145,10 +173,35 @@ const PARAM_LABELS: Record<string, string> = {
   log10_l_star: 'log₁₀ L* [erg s⁻¹]',
   m_star: 'M* [AB mag]',
   alpha: 'α (faint-end slope)',
-  rest_wavelength: 'rest wavelength [Å]',
-  bias: 'bias',
+  phi_star_1: 'φ₁* [Mpc⁻³]',
+  log10_phi_star_1: 'log₁₀ φ₁* [Mpc⁻³]',
+  phi_star_1_dex: 'φ₁* per dex [Mpc⁻³ dex⁻¹]',
+  log10_phi_star_1_dex: 'log₁₀ φ₁* per dex [Mpc⁻³ dex⁻¹]',
+  alpha_1: 'α₁ (faint-end slope of the first component)',
+  phi_star_2: 'φ₂* [Mpc⁻³]',
+  log10_phi_star_2: 'log₁₀ φ₂* [Mpc⁻³]',
+  phi_star_2_dex: 'φ₂* per dex [Mpc⁻³ dex⁻¹]',
+  log10_phi_star_2_dex: 'log₁₀ φ₂* per dex [Mpc⁻³ dex⁻¹]',
+  alpha_2: 'α₂ (faint-end slope of the second component)',
+  line: 'rest wavelength of the line',
+  rest_wavelength: 'rest wavelength of M*',
+  rest_band: 'rest-frame band of M*',
+  system: 'magnitude system of M*',
+  vega_to_ab: 'M_AB − M_Vega',
+  bias: 'galaxy bias',
+  occupation: 'fraction of matched haloes hosting a detected galaxy',
+  model_uncertainty: 'uncertainty of the luminosity function (1σ)',
+  redshift_selection: 'fraction kept by the redshift selection',
+  blend_ratio: 'unresolved neighbouring lines, flux relative to the line',
+  attenuation: 'dust attenuation [mag]',
+  equivalent_widths: 'rest-frame equivalent widths',
+  valid_redshift: 'redshifts where the luminosity function was measured',
+  sfr_conversion: 'star-formation rate per unit luminosity',
   values_used: 'values used',
 };
+
+/** Rows computed for the reader, not keys of the survey file: shown by their label alone. */
+const NOT_KEYS = new Set(['values_used']);
 
 /** Labels for a population counted in a free quantity (threshold detection): no erg/s. */
 function paramLabel(key: string, quantity: string | undefined): string | undefined {
@@ -164,22 +217,153 @@ function quantityOf(m: ModelAsWritten | undefined): string | undefined {
   return typeof q === 'string' && q.trim() ? q.trim() : undefined;
 }
 
-function modelValueHtml(v: unknown): string {
-  if (typeof v === 'number') return formatNumber(v, 6);
+function isRecord(v: unknown): v is Record<string, unknown> {
+  return typeof v === 'object' && v !== null && !Array.isArray(v);
+}
+
+/** A number as the model table writes it (6 significant digits), anything else as escaped text. */
+function numberHtml(v: unknown): string {
+  return typeof v === 'number' ? formatNumber(v, 6) : escapeHtml(v);
+}
+
+/** A quantity as written: a number in the key's unit ("1,500 Å"), or the string with its unit. */
+function quantityHtml(v: unknown, unit: string): string {
+  return typeof v === 'number' ? `${formatNumber(v, 6)} ${unit}` : wordsHtml(v);
+}
+
+/** A parameter in z: a number, an expression in z, or a table interpolated linearly. */
+function zparamHtml(v: unknown): string {
   if (typeof v === 'string') return `<code>${escapeHtml(v)}</code>`;
-  if (v && typeof v === 'object' && Array.isArray((v as { table?: unknown }).table)) {
-    const rows = (v as { table: unknown[] }).table;
-    const cells = rows
-      .map((r) =>
-        Array.isArray(r) && r.length >= 2
-          ? `z = ${escapeHtml(typeof r[0] === 'number' ? formatNumber(r[0], 6) : r[0])}: ${typeof r[1] === 'number' ? formatNumber(r[1], 6) : escapeHtml(r[1])}`
-          : escapeHtml(JSON.stringify(r)),
-      )
-      .join('; ');
-    return `table in z, interpolated linearly: ${cells}`;
-  }
+  if (isRecord(v) && Array.isArray(v.table))
+    return `table in z, interpolated linearly: ${pairsHtml(v.table, 'z = ', '')}`;
+  return wordsHtml(v);
+}
+
+/** Rows [x, y] as "z = 0.9: 1; z = 1.8: 0.9" (with the given lead and unit of x). */
+function pairsHtml(rows: unknown[], lead: string, unit: string): string {
+  return rows
+    .map((r) =>
+      Array.isArray(r) && r.length === 2 ? `${lead}${numberHtml(r[0])}${unit}: ${numberHtml(r[1])}` : wordsHtml(r),
+    )
+    .join('; ');
+}
+
+/**
+ * Any value in words, never as JSON: numbers formatted, strings escaped, lists joined by "; ", an
+ * object as "key value, key value" (for a key the table has no words of its own for).
+ */
+function wordsHtml(v: unknown): string {
   if (v === null || v === undefined) return '';
-  return `<code>${escapeHtml(JSON.stringify(v))}</code>`;
+  if (typeof v === 'number') return numberHtml(v);
+  if (Array.isArray(v)) return v.map(wordsHtml).join('; ');
+  if (isRecord(v))
+    return Object.entries(v)
+      .map(([k, x]) => `<span class="key">${escapeHtml(k)}</span> ${wordsHtml(x)}`)
+      .join(', ');
+  return escapeHtml(v);
+}
+
+/** A parameter's symbol ("log₁₀ φ*"), or its key as written. */
+function symbolHtml(name: string): string {
+  const s = PARAM_SYMBOLS[name];
+  return s ? escapeHtml(s) : `<span class="key">${escapeHtml(name)}</span>`;
+}
+
+/** model_uncertainty in words: "log₁₀ φ* 0.06 dex, α 0.06; correlation of log₁₀ φ* and α −0.4". */
+function modelUncertaintyHtml(v: unknown): string {
+  if (!isRecord(v)) return wordsHtml(v);
+  if (typeof v.draws_file === 'string') return `draws read from <code>${escapeHtml(v.draws_file)}</code>`;
+  const sigmas = Object.entries(v)
+    .filter(([k]) => k !== 'correlation')
+    .map(([k, s]) => {
+      const unit = k === 'm_star' ? ' mag' : k.startsWith('log10_') ? ' dex' : '';
+      return `${symbolHtml(k)} ${numberHtml(s)}${typeof s === 'number' ? unit : ''}`;
+    });
+  const pairs = isRecord(v.correlation)
+    ? Object.entries(v.correlation).map(([pair, r]) => {
+        const [a, b, ...rest] = pair.split('-');
+        const names = a && b && rest.length === 0 ? `${symbolHtml(a)} and ${symbolHtml(b)}` : escapeHtml(pair);
+        return `${names} ${numberHtml(r)}`;
+      })
+    : [];
+  return sigmas.join(', ') + (pairs.length > 0 ? `; correlation of ${pairs.join(', of ')}` : '');
+}
+
+/** equivalent_widths in words: "log-normal, median 55 Angstrom, 0.35 dex". */
+function equivalentWidthsHtml(v: unknown): string {
+  if (!isRecord(v)) return wordsHtml(v);
+  if (v.model === 'exponential') return `exponential, scale ${quantityHtml(v.scale, 'Å')}`;
+  if (v.model === 'lognormal')
+    return `log-normal, median ${quantityHtml(v.median, 'Å')}, ${numberHtml(v.sigma_dex)} dex`;
+  if (v.model === 'table' && Array.isArray(v.table))
+    return `fraction above W, interpolated linearly: ${pairsHtml(v.table, 'W = ', ' Å')}`;
+  return wordsHtml(v);
+}
+
+/** rest_band in words: "top-hat band centred at 1500 Å, FWHM 300 Å", or its transmission file. */
+function bandHtml(v: unknown): string {
+  if (!isRecord(v)) return wordsHtml(v);
+  if (typeof v.file === 'string') return `transmission from <code>${escapeHtml(v.file)}</code>`;
+  if (v.center !== undefined && v.fwhm !== undefined)
+    return `${v.profile === 'gaussian' ? 'Gaussian' : 'top-hat'} band centred at ${quantityHtml(v.center, 'Å')}, FWHM ${quantityHtml(v.fwhm, 'Å')}`;
+  return wordsHtml(v);
+}
+
+const SFR_CALIBRATIONS: Record<string, string> = {
+  halpha: 'Kennicutt (1998), from H-alpha',
+  oii: 'Kennicutt (1998), from [OII]',
+  uv: 'Kennicutt (1998), from the UV continuum',
+};
+
+/** The value of one key of a population as written, in words and units (HTML). */
+function modelValueHtml(key: string, v: unknown, m: ModelAsWritten): string {
+  switch (key) {
+    case 'values_used':
+    case 'quantity':
+      return wordsHtml(v);
+    case 'line':
+    case 'rest_wavelength':
+      return quantityHtml(v, 'Å');
+    case 'rest_band':
+      return bandHtml(v);
+    case 'system':
+      return v === 'ab' ? 'AB' : v === 'vega' ? 'Vega' : wordsHtml(v);
+    case 'vega_to_ab':
+      return quantityHtml(v, 'mag');
+    case 'bias':
+      return v === 'auto' ? 'auto: from the haloes of the same number density (abundance matching)' : zparamHtml(v);
+    case 'occupation':
+    case 'blend_ratio':
+      return wordsHtml(v);
+    case 'model_uncertainty':
+      return modelUncertaintyHtml(v);
+    case 'equivalent_widths':
+      return equivalentWidthsHtml(v);
+    case 'valid_redshift':
+      return isRecord(v) && typeof v.min === 'number' && typeof v.max === 'number'
+        ? `${numberHtml(v.min)} to ${numberHtml(v.max)}`
+        : wordsHtml(v);
+    case 'sfr_conversion':
+      if (typeof v === 'string' && SFR_CALIBRATIONS[v]) return SFR_CALIBRATIONS[v];
+      return typeof v === 'number'
+        ? `${numberHtml(v)} M☉ yr⁻¹ per erg s⁻¹${m.variable === 'magnitude' ? ' Hz⁻¹' : ''}`
+        : wordsHtml(v);
+    default:
+      return zparamHtml(v);
+  }
+}
+
+/** Whether a label says no more than its key ("bias" and bias): then it is shown once. */
+function sameWords(label: string, key: string): boolean {
+  return label.trim().toLowerCase() === key.replace(/_/g, ' ').trim().toLowerCase();
+}
+
+/** The head of one row: a short label and the key as written, or either alone. */
+function modelRowHead(key: string, m: ModelAsWritten): string {
+  const label = paramLabel(key, quantityOf(m));
+  const keyHtml = `<span class="key">${escapeHtml(key)}</span>`;
+  if (!label || sameWords(label, key)) return NOT_KEYS.has(key) ? escapeHtml(label ?? key) : keyHtml;
+  return NOT_KEYS.has(key) ? escapeHtml(label) : `${escapeHtml(label)} ${keyHtml}`;
 }
 
 function modelHtml(models: ModelAsWritten[]): string {
@@ -194,13 +378,7 @@ function modelHtml(models: ModelAsWritten[]): string {
       .join(', ');
     const rows = Object.entries(m)
       .filter(([k, v]) => !['name', 'shape', 'variable'].includes(k) && v !== undefined && v !== null)
-      .map(([k, v]) => {
-        const label = paramLabel(k, quantityOf(m));
-        const keyHtml = label
-          ? `${escapeHtml(label)} <span class="key">${escapeHtml(k)}</span>`
-          : `<span class="key">${escapeHtml(k)}</span>`;
-        return `<tr><th scope="row">${keyHtml}</th><td>${k === 'values_used' && typeof v === 'string' ? escapeHtml(v) : modelValueHtml(v)}</td></tr>`;
-      })
+      .map(([k, v]) => `<tr><th scope="row">${modelRowHead(k, m)}</th><td>${modelValueHtml(k, v, m)}</td></tr>`)
       .join('\n');
     return `<div class="population"><p class="population-name">${head || 'population'}</p><table class="params">${rows}</table></div>`;
   });

@@ -34,6 +34,7 @@ import {
   type PlanSpec,
 } from '../model/plan.js';
 import { parameterNames } from '../model/population.js';
+import { fluxDensityMagnitude, isFluxDensityText } from './photometry.js';
 
 const KEYS = [
   'field_of_view',
@@ -133,7 +134,10 @@ function hours(v: unknown, file: string, at: string, positive: boolean): number 
 function limitValue(v: unknown, kind: LimitKind, file: string, at: string): number {
   const range = kind === 'magnitude' ? RANGES.apparentMagnitude : RANGES.lineFlux;
   let x: number;
-  if (kind === 'magnitude') x = num(v, file, at, 'an AB magnitude (a number)');
+  // a flux density with its unit is its AB magnitude, as detection.limit reads it
+  if (kind === 'magnitude' && isFluxDensityText(v)) x = fluxDensityMagnitude(v, file, at).abMag;
+  else if (kind === 'magnitude')
+    x = num(v, file, at, 'an AB magnitude (a number), or a flux density with its unit such as "4 mJy"');
   else {
     if (typeof v !== 'number' && typeof v !== 'string') {
       throw inputError(

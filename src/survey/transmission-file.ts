@@ -51,10 +51,14 @@ export function readTransmissionFile(
   return { file: path, wavelengthAngstrom: t.wavelengthAngstrom, transmission: t.values.map((v) => v / peak) };
 }
 
-/** A table of wavelength (Angstrom) against a value of 0 or more, as read; `bad` throws about it. */
+/**
+ * A table of wavelength (Angstrom) against a value of 0 or more, as read; `bad` throws about it.
+ * `valueHeader` is the header's second column, lower case, when the file has a header with one.
+ */
 export interface WavelengthTable {
   wavelengthAngstrom: number[];
   values: number[];
+  valueHeader?: string;
   bad(what: string, fix: string): never;
 }
 
@@ -88,6 +92,7 @@ export function readWavelengthTable(
   let scale = 1;
   let seenRow = false;
   let headerSeen = false;
+  let valueHeader: string | undefined;
   const wl: number[] = [];
   const tr: number[] = [];
   const lines = text.split(/\r?\n/);
@@ -107,6 +112,7 @@ export function readWavelengthTable(
         );
       }
       scale = UNIT_SCALE[m![1] ?? '']!;
+      if (cells[1] !== undefined) valueHeader = cells[1].toLowerCase();
       return;
     }
     if (cells.length !== 2 || nums.some((x) => !Number.isFinite(x))) {
@@ -136,5 +142,5 @@ export function readWavelengthTable(
   });
   if (wl.length < 2)
     bad(`holds ${wl.length} row${wl.length === 1 ? '' : 's'}`, `give at least two rows of wavelength, ${kind.column}`);
-  return { wavelengthAngstrom: wl, values: tr, bad };
+  return { wavelengthAngstrom: wl, values: tr, ...(valueHeader !== undefined ? { valueHeader } : {}), bad };
 }

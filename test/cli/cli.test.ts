@@ -80,14 +80,20 @@ describe('predict', () => {
     expect((await runCli(['predict', `samples/${SAMPLES[0]}`, '--format', 'xml'])).code).toBe(2);
   });
 
-  test('the parser\'s refusals read like every other: one line starting "skytally: " (failed before: "error: ...", the suggestion on a second line)', async () => {
+  test('the parser\'s refusals read like every other: one line starting "skytally: " naming the command and the option, and what to write (failed before: "error: ...", the suggestion on a second line, then commander\'s words)', async () => {
     const cases: [string[], string][] = [
-      [['predict', `samples/${SAMPLES[0]}`, '--colour', 'red'], "skytally: unknown option '--colour'\n"],
-      [['predikt'], "skytally: unknown command 'predikt' (did you mean predict?)\n"],
-      [['predict'], "skytally: missing required argument 'survey'\n"],
+      [
+        ['predict', `samples/${SAMPLES[0]}`, '--colour', 'red'],
+        'skytally: predict: --colour is not an option of predict; leave it out or write one of its options (skytally predict --help lists its options).\n',
+      ],
+      [
+        ['predikt'],
+        'skytally: "predikt" is not a command of skytally; write skytally predict instead (skytally --help lists the commands).\n',
+      ],
+      [['predict'], 'skytally: predict: needs a survey file; write skytally predict <survey> [options].\n'],
       [
         ['predict', `samples/${SAMPLES[0]}`, '--format', 'xml'],
-        "skytally: option '--format <format>' argument 'xml' is invalid. Allowed choices are table, json, csv.\n",
+        'skytally: predict --format: "xml" is not one of its choices; write --format table, --format json or --format csv.\n',
       ],
     ];
     for (const [argv, stderr] of cases) {

@@ -33,6 +33,16 @@ function marks(svg: string, role: string): Record<string, string>[] {
   );
 }
 
+/** Undo escapeHtml (the five entities it writes). */
+function unescapeHtml(s: string): string {
+  return s
+    .replace(/&lt;/g, '<')
+    .replace(/&gt;/g, '>')
+    .replace(/&quot;/g, '"')
+    .replace(/&#39;/g, "'")
+    .replace(/&amp;/g, '&');
+}
+
 /** The <svg> of one figure inside the report. */
 function figureInHtml(html: string, name: string): string {
   const start = html.indexOf(`<figure id="figure-${name}"`);
@@ -236,6 +246,35 @@ describe.each(SAMPLES)('%s: figures draw the numbers of predict --format json', 
       .replace(/&quot;/g, '"')
       .replace(/&amp;/g, '&');
     expect(summary).toContain(`; ${detection};`);
+  });
+
+  test('the model table is in words: no value as raw JSON or [object Object], no label that only repeats its key (failed before: valid_redshift {"min":0.7,"max":2}, "values used values_used")', () => {
+    const section = /<section class="assumption" id="model">([\s\S]*?)<\/section>/.exec(html)![1]!;
+    const text = unescapeHtml(section);
+    expect(text).not.toContain('{"');
+    expect(text).not.toContain('":');
+    expect(text).not.toContain('[object');
+    expect(text).not.toMatch(/NaN|Infinity|undefined/);
+    const heads = [...section.matchAll(/<th scope="row">(.*?)<\/th>/g)].map((m) => m[1]!);
+    expect(heads.length).toBeGreaterThan(0);
+    const repeated = heads.filter((h) => {
+      const key = /<span class="key">([^<]*)<\/span>/.exec(h)?.[1];
+      const label = unescapeHtml(h.replace(/<span class="key">[^<]*<\/span>/, '')).trim();
+      // a label that is the key with spaces for underscores says nothing more than the key
+      return key !== undefined && label.toLowerCase() === unescapeHtml(key).replace(/_/g, ' ').toLowerCase();
+    });
+    expect(repeated).toEqual([]);
+    // each row has a label in words, and the keys of the file beside them (values used is not a key)
+    const bare = heads.filter((h) => h.startsWith('<span class="key">'));
+    expect(bare).toEqual([]);
+    if (sample === 'slitless-halpha.yaml') {
+      // samples/slitless-halpha.yaml as written: equivalent_widths {model: lognormal, median: 55 Angstrom,
+      // sigma_dex: 0.35}, valid_redshift {min: 0.7, max: 2}, attenuation {table: [[0.9, 1.0], [1.8, 0.9]]}
+      expect(text).toContain('equivalent_widths</span></th><td>log-normal, median 55 Angstrom, 0.35 dex</td>');
+      expect(text).toContain('valid_redshift</span></th><td>0.7 to 2</td>');
+      expect(text).toContain('<td>table in z, interpolated linearly: z = 0.9: 1; z = 1.8: 0.9</td>');
+      expect(text).toContain('<th scope="row">values used</th>');
+    }
   });
 
   test('"Schechter" is capitalised and plan goals are in words (failed before: "schechter function", "sigma_alpha")', () => {

@@ -321,6 +321,143 @@ describe('renderReport', () => {
   });
 });
 
+describe('renderReport: the model table in words', () => {
+  /** The model section's rows as [head, value], both as HTML. */
+  function modelRows(doc: string): [string, string][] {
+    const section = /<section class="assumption" id="model">([\s\S]*?)<\/section>/.exec(doc)![1]!;
+    return [...section.matchAll(/<tr><th scope="row">(.*?)<\/th><td>(.*?)<\/td><\/tr>/g)].map((m) => [m[1]!, m[2]!]);
+  }
+  const render = (model: Record<string, unknown>) =>
+    renderReport({ surveyText: '', surveyTitle: 't', prediction: demoPrediction({ slices: 2 }), model, figures: [] });
+
+  test('every key a population may hold (specs/survey.schema.json) gets a label of its own and a value in words, never JSON (failed before: equivalent_widths as {"model":...}, "bias bias")', () => {
+    const schema = JSON.parse(readFileSync(new URL('../../specs/survey.schema.json', import.meta.url), 'utf8')) as {
+      $defs: { population: { properties: Record<string, unknown> } };
+    };
+    // invented values, one of each form the schema allows
+    const values: Record<string, unknown> = {
+      quantity: 'stellar mass [Msun]',
+      phi_star: 0.002,
+      log10_phi_star: '-2.6 - 0.1*z',
+      phi_star_dex: {
+        table: [
+          [0.5, 0.003],
+          [1.5, 0.002],
+        ],
+      },
+      log10_phi_star_dex: -2.3,
+      l_star: 2e42,
+      log10_l_star: 42.3,
+      m_star: -20.9,
+      alpha: -1.4,
+      phi_star_1: 0.001,
+      log10_phi_star_1: -2.8,
+      phi_star_1_dex: 0.002,
+      log10_phi_star_1_dex: -2.5,
+      alpha_1: -0.45,
+      phi_star_2: 3e-4,
+      log10_phi_star_2: -3.5,
+      phi_star_2_dex: 7e-4,
+      log10_phi_star_2_dex: -3.2,
+      alpha_2: -1.5,
+      line: '6562.8 Angstrom',
+      rest_wavelength: 1500,
+      rest_band: { center: 1500, fwhm: '300 Angstrom', profile: 'gaussian' },
+      system: 'vega',
+      vega_to_ab: 0.2,
+      bias: 'auto',
+      occupation: 0.5,
+      model_uncertainty: {
+        log10_phi_star: 0.1,
+        m_star: 0.2,
+        alpha: 0.05,
+        correlation: { 'log10_phi_star-alpha': 0.6 },
+      },
+      redshift_selection: 0.8,
+      blend_ratio: 0.3,
+      attenuation: 1.1,
+      equivalent_widths: {
+        model: 'table',
+        table: [
+          [0, 1],
+          [40, 0.5],
+          [200, 0],
+        ],
+      },
+      valid_redshift: { min: 0.7, max: 2 },
+      sfr_conversion: 1e-41,
+    };
+    const keys = Object.keys(schema.$defs.population.properties).filter(
+      (k) => !['name', 'shape', 'variable'].includes(k),
+    );
+    // the invented population holds every key of the schema (a key added there needs a value here)
+    expect(keys.filter((k) => !(k in values))).toEqual([]);
+    const rows = modelRows(render({ name: 'p', shape: 'schechter', variable: 'luminosity', ...values }));
+    expect(rows.map(([h]) => /<span class="key">([^<]*)<\/span>/.exec(h)?.[1])).toEqual(keys);
+    const wrong = rows.filter(([head, value]) => {
+      const label = unescape(head.replace(/<span class="key">[^<]*<\/span>/, '')).trim();
+      const key = /<span class="key">([^<]*)<\/span>/.exec(head)![1]!;
+      const v = unescape(value);
+      return (
+        label === '' ||
+        label.toLowerCase() === key.replace(/_/g, ' ') ||
+        /[{}]|":|\[object|NaN|Infinity|undefined/.test(v) ||
+        v.trim() === ''
+      );
+    });
+    expect(wrong).toEqual([]);
+    // values in words and units, as written (the invented values above)
+    const byKey = Object.fromEntries(
+      rows.map(([h, v]) => [/<span class="key">([^<]*)<\/span>/.exec(h)![1]!, unescape(v)]),
+    );
+    expect(byKey.rest_wavelength).toBe('1,500 Å');
+    expect(byKey.rest_band).toBe('Gaussian band centred at 1,500 Å, FWHM 300 Angstrom');
+    expect(byKey.system).toBe('Vega');
+    expect(byKey.vega_to_ab).toBe('0.2 mag');
+    expect(byKey.phi_star_dex).toBe('table in z, interpolated linearly: z = 0.5: 0.003; z = 1.5: 0.002');
+    expect(byKey.log10_phi_star).toBe('<code>-2.6 - 0.1*z</code>');
+    expect(byKey.model_uncertainty).toBe('log₁₀ φ* 0.1 dex, M* 0.2 mag, α 0.05; correlation of log₁₀ φ* and α 0.6');
+    expect(byKey.equivalent_widths).toBe(
+      'fraction above W, interpolated linearly: W = 0 Å: 1; W = 40 Å: 0.5; W = 200 Å: 0',
+    );
+    expect(byKey.valid_redshift).toBe('0.7 to 2');
+    expect(byKey.sfr_conversion).toBe('1 × 10<sup>-41</sup> M☉ yr⁻¹ per erg s⁻¹');
+    expect(byKey.bias).toMatch(/^auto: /);
+  });
+
+  test('the other forms in words: lognormal and exponential widths, draws_file, a band file, a bias in z, named SFR calibrations', () => {
+    const rows = (m: Record<string, unknown>) =>
+      Object.fromEntries(
+        modelRows(render({ variable: 'magnitude', ...m })).map(([h, v]) => [
+          /<span class="key">([^<]*)<\/span>/.exec(h)?.[1] ?? unescape(h),
+          unescape(v),
+        ]),
+      );
+    const a = rows({
+      equivalent_widths: { model: 'lognormal', median: '55 Angstrom', sigma_dex: 0.35 },
+      model_uncertainty: { draws_file: 'draws.csv' },
+      rest_band: { file: 'band.csv' },
+      bias: '1.2 + 0.4*z',
+      sfr_conversion: 'uv',
+      values_used: 'Schechter function in magnitude, M* = -20.9 AB',
+    });
+    expect(a.equivalent_widths).toBe('log-normal, median 55 Angstrom, 0.35 dex');
+    expect(a.model_uncertainty).toBe('draws read from <code>draws.csv</code>');
+    expect(a.rest_band).toBe('transmission from <code>band.csv</code>');
+    expect(a.bias).toBe('<code>1.2 + 0.4*z</code>');
+    expect(a.sfr_conversion).toBe('Kennicutt (1998), from the UV continuum');
+    // computed for the reader, not a key of the file: its label alone
+    expect(a['values used']).toBe('Schechter function in magnitude, M* = -20.9 AB');
+    const b = rows({ equivalent_widths: { model: 'exponential', scale: 20 }, sfr_conversion: 2e-28, bias: 1.5 });
+    expect(b.equivalent_widths).toBe('exponential, scale 20 Å');
+    expect(b.sfr_conversion).toBe('2 × 10<sup>-28</sup> M☉ yr⁻¹ per erg s⁻¹ Hz⁻¹');
+    expect(b.bias).toBe('1.5');
+    // a key the table has no words for (a library caller's own): words, never JSON
+    const c = rows({ custom: { min: 1, list: [1, 2] } });
+    expect(c.custom).toBe('<span class="key">min</span> 1, <span class="key">list</span> 1; 2');
+  });
+});
+
 describe('module boundaries', () => {
   test('report.ts and write-figures.ts do not import vega (commands that draw nothing never load it)', () => {
     for (const f of ['report.ts', 'write-figures.ts', 'types.ts']) {
