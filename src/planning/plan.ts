@@ -281,12 +281,13 @@ export async function planDesigns(
   if (designs.length > 1 && within.length > 0) {
     const head = `${within.length} of ${designs.length} designs are within ${NEAR_BEST_TOLERANCE * 100} % of the best goal value${contiguous ? '' : ' (not one contiguous run of the grid)'}`;
     // At the grid's edge, or at the budget's (one pointing taking all of it), the goal may keep
-    // improving beyond it: how flat the optimum is cannot be told.
+    // improving beyond it: how flat the optimum is cannot be told. (A layer of several taking its
+    // share in one pointing is not at such an edge: the search moves the shares.)
     notes.push(
       edge
         ? `${head}; the best design sits at the edge of the exposure grid, so this grid cannot tell how flat the optimum is.`
-        : limitedByBudget
-          ? `${head}; ${assumedBest.tiers.length > 1 ? 'a layer of the best design is as deep as its share of the budget allows' : 'the best design is as deep as the budget allows'}, so how flat the optimum is cannot be told.`
+        : limitedByBudget && assumedBest.tiers.length === 1
+          ? `${head}; the best design is as deep as the budget allows, so how flat the optimum is cannot be told.`
           : `${head}: the optimum is ${areaOf(to) >= FLAT_AREA_SPAN * areaOf(from) ? 'flat' : 'sharp'}.`,
     );
   }

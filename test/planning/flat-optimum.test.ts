@@ -41,21 +41,19 @@ describe('a flat optimum is flat on any grid', () => {
   });
 });
 
-describe('an optimum at the budget is not called flat or sharp', () => {
-  test('sigma(alpha) of an 850 um survey, best at one pointing taking the whole budget: the goal still improves with depth there, so no word on flatness', async () => {
-    // The goal keeps improving with exposure up to the budget (checked below), so the designs
-    // within 5 % are the deepest few, all of one pointing: called 'sharp' before, though nothing
-    // beyond the budget was tried.
-    const p = await plan(
-      halphaPlan(
-        `  field_of_view: "0.2 deg^2"
+// An invented 850 um survey (a power law for the far-infrared k-correction), for sigma(alpha) in
+// 200 h of 0.2 deg^2 pointings: depth pays up to the whole budget.
+const submmPlan = (tiers: string) =>
+  plan(
+    halphaPlan(
+      `  field_of_view: "0.2 deg^2"
   reference: {limit: 13.5, exposure_hours: 10}
   overhead_hours: 0.5
   budget_hours: 200
   goal: {sigma: alpha}
   exposure_grid: {min_hours: 0.5, max_hours: 200, count: 100}
-`,
-        () => `format: 1
+${tiers}`,
+      () => `format: 1
 title: 850 um blank field
 cosmology: {h0: 70, omega_m: 0.3}
 area: 5
@@ -63,8 +61,15 @@ redshift: {min: 0.5, max: 6}
 detection: {kind: magnitude, limit: 14.9, band: "850 um", beta: -5}
 population: {variable: magnitude, rest_wavelength: "850 um", phi_star: 4e-5, m_star: -26.6, alpha: -1.5}
 slices: {count: 11}`,
-      ),
-    );
+    ),
+  );
+
+describe('an optimum at the budget is not called flat or sharp', () => {
+  test('sigma(alpha) of an 850 um survey, best at one pointing taking the whole budget: the goal still improves with depth there, so no word on flatness', async () => {
+    // The goal keeps improving with exposure up to the budget (checked below), so the designs
+    // within 5 % are the deepest few, all of one pointing: called 'sharp' before, though nothing
+    // beyond the budget was tried.
+    const p = await submmPlan('');
     expect(p.best.pointings).toBe(1);
     expect(p.best.hours_used).toBeCloseTo(200, 9);
     const oneDeep = p.designs.filter((d) => d.pointings === 1).sort((a, b) => a.hours_used - b.hours_used);
@@ -74,5 +79,11 @@ slices: {count: 11}`,
     expect(p.notes.some((n) => /as deep as the budget allows, so how flat the optimum is cannot be told/.test(n))).toBe(
       true,
     );
+  });
+
+  test('with two tiers a layer taking its share in one pointing is not at an edge (the shares are searched): the optimum is judged', async () => {
+    const p = await submmPlan('  tiers: 2\n');
+    expect(p.notes.some((n) => /A layer of the best design spends its share/.test(n))).toBe(true);
+    expect(p.notes.some((n) => /the optimum is (flat|sharp)/.test(n))).toBe(true);
   });
 });
