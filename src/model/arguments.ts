@@ -98,6 +98,30 @@ export function checkSurveyList(value: unknown, caller: string): asserts value i
   });
 }
 
+/** Refuse options that are not an object (undefined is taken as no options). */
+export function checkOptions(value: unknown, caller: string, example: string): void {
+  if (value === undefined || isRecord(value)) return;
+  throw inputError(
+    'wrong_type',
+    '',
+    'options',
+    `${caller} takes its options as an object, not ${kindOf(value)}`,
+    `e.g. ${caller}(survey, ${example}), or leave them out`,
+  );
+}
+
+/** Refuse anything but {text: string} (and an optional object) as the survey source of `caller` (exploreCompute). */
+export function checkSource(value: unknown, caller: string): asserts value is { text: string } {
+  if (isRecord(value) && typeof value.text === 'string') return;
+  throw inputError(
+    'wrong_type',
+    '',
+    '',
+    `${caller} takes the survey file's text as {text: string}, not ${isRecord(value) ? `an object whose text is ${kindOf(value.text)}` : kindOf(value)}`,
+    `e.g. ${caller}({ text: readFileSync("my-survey.yaml", "utf8") }, "my-survey.yaml", ".")`,
+  );
+}
+
 /** Refuse anything but a string as `caller`'s argument `what` ("the path of a survey file"). */
 export function checkText(value: unknown, caller: string, what: string, example: string): asserts value is string {
   if (typeof value === 'string') return;

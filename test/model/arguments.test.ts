@@ -123,6 +123,48 @@ describe('a non-survey where a survey is taken', () => {
     }
   });
 
+  test('exploreCompute takes {text}: a path, undefined and {text: 5} are refused', async () => {
+    const cases: [unknown, string][] = [
+      [SAMPLE, 'not a string'],
+      [undefined, 'not undefined'],
+      [{ text: 5 }, 'not an object whose text is a number'],
+    ];
+    for (const [source, not] of cases) {
+      const e = await refusal(() => lib.exploreCompute(source as { text: string }, 'x.yaml', '.'));
+      expect(e.code).toBe('wrong_type');
+      expect(e.message).toContain(`exploreCompute takes the survey file's text as {text: string}, ${not}; e.g. `);
+      oneSentence(e.message);
+    }
+    const noName = await refusal(() => lib.exploreCompute({ text: 'format: 1' }, undefined as unknown as string, '.'));
+    expect(noName.message).toContain('exploreCompute takes the name of the file as its second argument');
+  });
+
+  test('options that are not an object are refused (failed before: null a TypeError, a string or number ignored)', async () => {
+    const plan = lib.loadSurveyFile('samples/plan-halpha-layers.yaml');
+    const calls: Record<string, (o: unknown) => unknown> = {
+      predict: (o) => lib.predict(survey, o as lib.PredictOptions),
+      forecast: (o) => lib.forecast(survey, o as lib.ForecastOptions),
+      plan: (o) => lib.plan(plan, o as lib.PlanOptions),
+      compare: (o) => lib.compare([survey, survey], o as lib.CompareOptions),
+      buildReport: (o) => lib.buildReport(survey, o as lib.BuildReportOptions),
+    };
+    for (const [name, call] of Object.entries(calls))
+      for (const [o, kind] of [
+        [null, 'null'],
+        ['json', 'a string'],
+        [5, 'a number'],
+        [[], 'an array'],
+      ] as const) {
+        const e = await refusal(() => call(o));
+        expect(e.code).toBe('wrong_type');
+        expect(e.keyPath).toBe('options');
+        expect(e.message).toMatch(
+          new RegExp(`^options: ${name} takes its options as an object, not ${kind}; e\\.g\\. ${name}\\(`),
+        );
+        oneSentence(e.message);
+      }
+  });
+
   test('a loaded survey still works (the checks refuse nothing the loaders make)', () => {
     expect(lib.predict(survey).totals.count).toBeGreaterThan(0);
     expect(lib.describeSurvey(survey).area_deg2).toBe(survey.areaDeg2);
