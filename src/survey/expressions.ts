@@ -22,6 +22,11 @@ export interface CompiledExpression {
   fn: Closure;
   /** True when the expression does not contain z. */
   constant: boolean;
+  /**
+   * Functions of z whose sign changes where the expression has a kink: the argument of each abs,
+   * and the difference of each pair of arguments of each min and max, that depend on z.
+   */
+  kinks: Closure[];
 }
 
 /** Longest expression accepted, in characters. */
@@ -272,10 +277,17 @@ export function compileExpression(written: string, file: string, keyPath: string
         if (unary) {
           if (c.length !== 1) return reject(`calls ${name} with ${c.length} arguments instead of 1`);
           const fa = c[0]!.fn;
+          if (folding && name === 'abs' && usesZ) kinks.push(fa);
           return fold({ fn: (z) => unary(fa(z)), usesZ });
         }
         if (c.length < 1) return reject(`calls ${name} without arguments`);
         const fs = c.map((x) => x.fn);
+        if (folding)
+          for (let i = 0; i < c.length; i++)
+            for (let j = i + 1; j < c.length; j++) {
+              const [gi, gj] = [fs[i]!, fs[j]!];
+              if (c[i]!.usesZ || c[j]!.usesZ) kinks.push((z) => gi(z) - gj(z));
+            }
         const v = variadic!;
         if (fs.length === 2) {
           const [fa, fb] = fs as [Closure, Closure];
@@ -290,8 +302,10 @@ export function compileExpression(written: string, file: string, keyPath: string
     }
   };
 
-  // First pass: check every node (nothing is evaluated). Second pass: compile with constant folding.
+  // First pass: check every node (nothing is evaluated). Second pass: compile with constant folding
+  // and collect the kinks.
   let folding = false;
+  const kinks: Closure[] = [];
   const fold = (c: Compiled): Compiled => {
     if (!folding || c.usesZ) return c;
     const v = c.fn(0);
@@ -302,5 +316,5 @@ export function compileExpression(written: string, file: string, keyPath: string
   if (rest) reject(rest);
   folding = true;
   const compiled = walk(root);
-  return { text: written, fn: compiled.fn, constant: !compiled.usesZ };
+  return { text: written, fn: compiled.fn, constant: !compiled.usesZ, kinks: compiled.usesZ ? kinks : [] };
 }
