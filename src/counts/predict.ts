@@ -58,6 +58,7 @@ import { mergeWarnings, warning, type Warning } from '../warnings.js';
 import { precise } from '../render/format.js';
 import { removingSelectionHint } from '../selection/describe.js';
 import { surveyWarnings } from '../population/warnings.js';
+import { checkOptions, checkSurvey } from '../model/arguments.js';
 
 /** The detection block of the prediction: the survey's detection in the outputs' names and units. */
 export function detectionJson(survey: Survey): PredictionBase['detection'] {
@@ -581,6 +582,8 @@ function addUncertainties(
 }
 
 export function predict(survey: Survey, options: PredictOptions = {}): Prediction {
+  checkSurvey(survey, 'predict');
+  checkOptions(options, 'predict', '{ model: { draws: 100 } }');
   const cosmo = new FlatCosmology(survey.cosmology);
   const units = survey.populations.map((p) => luminosityDensityUnit(survey, p));
   const withUncertainty = !options.noUncertainty;

@@ -43,6 +43,7 @@ import { DEFAULT_MODEL_SEED } from '../counts/model-draws.js';
 import { mergeWarnings, type Warning } from '../warnings.js';
 import { surveyWarnings } from '../population/warnings.js';
 import { predictionWarnings } from '../counts/predict.js';
+import { checkOptions, checkSurvey } from '../model/arguments.js';
 
 /** Mean sources per mock below which an offset of the mock fits is put down to the fit's small-sample bias. */
 const SMALL_SAMPLE_SOURCES = 1000;
@@ -152,6 +153,8 @@ function checkForecastOptions(opts: ForecastOptions, names: readonly string[]): 
 }
 
 export async function forecast(file: Survey, opts: ForecastOptions = {}): Promise<Forecast> {
+  checkSurvey(file, 'forecast');
+  checkOptions(opts, 'forecast', '{ mocks: 200, seed: 1 }');
   const population = choosePopulation(file, opts.population);
   checkForecastOptions(opts, parameterNames(population));
   // The population's own window and slices: the forecast a file holding it alone would give.

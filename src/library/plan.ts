@@ -8,8 +8,11 @@ import { choosePopulation } from '../model/select.js';
 import { readPlanSection } from '../survey/plan-section.js';
 import { planDesigns, type PlanOptions } from '../planning/plan.js';
 import type { Plan } from '../model/outputs/plan.js';
+import { checkOptions, checkSurvey } from '../model/arguments.js';
 
 export async function plan(survey: Survey, opts: PlanOptions = {}): Promise<Plan> {
+  checkSurvey(survey, 'plan');
+  checkOptions(opts, 'plan', '{ population: "H-alpha emitters" }');
   const population = choosePopulation(survey, opts.population);
   return planDesigns(survey, population, readPlanSection(survey, population), opts);
 }

@@ -17,6 +17,7 @@ import type { Figure } from '../render/types.js';
 import { mergeWarnings, type Warning } from '../warnings.js';
 import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED, MAX_MODEL_DRAWS } from '../model/model-uncertainty.js';
 import { MAX_MOCKS, MAX_SEED } from '../model/limits.js';
+import { checkOptions, checkSurvey } from '../model/arguments.js';
 
 export type { OmittedSection };
 
@@ -292,6 +293,8 @@ export async function buildReport(
   survey: Survey,
   options: BuildReportOptions = {},
 ): Promise<{ html: string; figures: Figure[]; results: ReportResults }> {
+  checkSurvey(survey, 'buildReport');
+  checkOptions(options, 'buildReport', '{ mocks: 100 }');
   // (reportSections checks the options before anything is computed)
   const results = await computeReport(survey.file, survey, reportSections(options), {
     ...(options.draws !== undefined ? { draws: options.draws } : {}),

@@ -3,13 +3,19 @@ import { inputError } from '../errors.js';
 import type { Population } from './population.js';
 import type { Survey } from './survey.js';
 import { photoZIsExact } from './photo-z.js';
+import { checkSurvey } from './arguments.js';
+
+/** The library's option naming a population: `forecast(survey, {population: 'name'})`. */
+const LIBRARY_OPTION = 'options.population';
 
 /**
  * The population called `name`, or the first one when `name` is undefined. An unknown name is a
- * SurveyError (bad_option) that lists the valid names. `option` names the command-line option
- * (or key) the name came from, for the message.
+ * SurveyError (bad_option) that lists the valid names. `option` names where the name came from,
+ * for the message: the library's own option, `options.population`, by default; the command line
+ * passes `--population`.
  */
-export function populationByName(survey: Survey, name?: string, option = '--population'): Population {
+export function populationByName(survey: Survey, name?: string, option = LIBRARY_OPTION): Population {
+  checkSurvey(survey, 'populationByName');
   const first = survey.populations[0];
   if (name === undefined) {
     if (!first)
@@ -36,6 +42,7 @@ export function populationByName(survey: Survey, name?: string, option = '--popu
  * shared, not copied. A survey of one population is returned as it is.
  */
 export function surveyForPopulation(survey: Survey, population: Population): Survey {
+  checkSurvey(survey, 'surveyForPopulation');
   if (survey.populations.length === 1 && survey.populations[0] === population) return survey;
   if (!survey.populations.includes(population))
     throw new Error(`internal: "${population.name}" is not a population of this survey`);
@@ -60,18 +67,20 @@ export function populationPath(survey: Survey, p: Population): string {
 
 /**
  * The population of interest (by name, default the first). Forecasts vary the three parameters
- * of a single Schechter function, so a double Schechter population is refused.
+ * of a single Schechter function, so a double Schechter population is refused. `option` as for
+ * populationByName.
  */
-export function choosePopulation(survey: Survey, name?: string): Population {
+export function choosePopulation(survey: Survey, name?: string, option = LIBRARY_OPTION): Population {
+  checkSurvey(survey, 'choosePopulation');
   refuseScatteredRedshifts(survey);
-  const p = populationByName(survey, name);
+  const p = populationByName(survey, name, option);
   if (p.shape !== 'schechter') {
     throw inputError(
       'kind_mismatch',
       survey.file,
       `${populationPath(survey, p)}.shape`,
       `forecasts and plans vary phi*, L* (or M*) and alpha of a single Schechter function, but "${p.name}" is ${p.shape}`,
-      'choose a single-Schechter population with --population, or describe this one with shape: schechter',
+      `choose a single-Schechter population with ${option}, or describe this one with shape: schechter`,
     );
   }
   return p;

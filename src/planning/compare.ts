@@ -20,6 +20,7 @@ import { choosePopulation, populationByName, refuseScatteredRedshifts, surveyFor
 import { faintCount } from './tables.js';
 import { warning, mergeWarnings, type Warning } from '../warnings.js';
 import { sig } from '../render/format.js';
+import { checkOptions, checkSurveyList } from '../model/arguments.js';
 
 /** Values this close (relative) are a tie: equal but for the rounding of the arithmetic. */
 export const TIE_RELATIVE = 1e-9;
@@ -84,6 +85,8 @@ function depthOf(v: LimitVariable, x: number): number {
 }
 
 export async function compare(surveys: Survey[], opts: CompareOptions = {}): Promise<Comparison> {
+  checkSurveyList(surveys, 'compare');
+  checkOptions(opts, 'compare', '{ cosmicVariance: false }');
   const useCv = opts.cosmicVariance !== false;
   const out: ComparedSurvey[] = [];
   const warnings: Warning[][] = [];

@@ -15,6 +15,7 @@ import { curveAxisLabel, luminosityFunctionBand, luminosityFunctionCurve } from 
 import { DEFAULT_MODEL_SEED, drawModelOffsets } from '../counts/model-draws.js';
 import type { ModelOffsets } from '../model/model-uncertainty.js';
 import { buildFigures, countsFigure, luminosityFunctionFigure, observedSharesFigure } from './figures.js';
+import { checkSurvey } from '../model/arguments.js';
 
 /** The population entries of the file as written (`population:` or `populations:`), in order. */
 function rawPopulations(survey: Survey): Record<string, unknown>[] {
@@ -158,6 +159,7 @@ export async function drawFigures(
   prediction: Prediction,
   extra: { forecast?: ForecastView; plan?: PlanView; modelSeed?: number } = {},
 ): Promise<Figure[]> {
+  checkSurvey(survey, 'drawFigures');
   const { modelSeed, ...sections } = extra;
   return drawViews(prediction, predictionViews(survey, prediction, modelSeed), sections);
 }

@@ -11,6 +11,7 @@ import { cosmologyJsonOf } from '../model/cosmology-json.js';
 import type { ParameterView, SurveyCheck } from '../model/outputs/check.js';
 import type { CompletenessBlock } from '../model/outputs/shared.js';
 import { describeSelection } from '../selection/describe.js';
+import { checkSurvey } from '../model/arguments.js';
 
 /** A parameter as written in the file, with its normalised value at the window's ends when it varies. */
 export function parameterView(p: ZParam, window: { min: number; max: number }): ParameterView {
@@ -44,6 +45,7 @@ function clean<T extends object>(o: T): T {
 
 /** The survey as `check` prints it (specs/check.schema.json, less the warnings the command adds). */
 export function describeSurvey(survey: Survey): Omit<SurveyCheck, 'warnings'> {
+  checkSurvey(survey, 'describeSurvey');
   const c = survey.cosmology;
   const d = survey.detection;
   const win = survey.redshift;

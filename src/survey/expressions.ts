@@ -12,6 +12,7 @@
 import { inputError } from '../errors.js';
 import { getParser } from './mathjs.js';
 import { quickParse } from './quick-expression.js';
+import * as I from './interval.js';
 
 export type Closure = (z: number) => number;
 
@@ -22,6 +23,8 @@ export interface CompiledExpression {
   fn: Closure;
   /** True when the expression does not contain z. */
   constant: boolean;
+  /** Bounds of what `fn` returns for every z from lo to hi (interval arithmetic, src/survey/interval.ts). */
+  bounds: I.Bounds;
   /**
    * Functions of z whose sign changes where the expression has a kink: the argument of each abs,
    * and the difference of each pair of arguments of each min and max, that depend on z.
@@ -39,7 +42,18 @@ const UNARY: Record<string, (a: number) => number> = {
   sqrt: Math.sqrt,
   abs: Math.abs,
 };
+const UNARY_BOUNDS: Record<string, (a: I.Interval) => I.Interval> = {
+  log10: (a) => I.logarithm(a, Math.log10),
+  ln: (a) => I.logarithm(a, Math.log),
+  exp: I.exp,
+  sqrt: I.sqrt,
+  abs: I.abs,
+};
 const VARIADIC: Record<string, (...a: number[]) => number> = { min: Math.min, max: Math.max };
+const VARIADIC_BOUNDS: Record<string, (a: readonly I.Interval[]) => I.Interval> = {
+  min: I.minimum,
+  max: I.maximum,
+};
 const ALLOWED_FUNCTIONS = [...Object.keys(UNARY), ...Object.keys(VARIADIC)].join(', ');
 
 /** The parts of a mathjs node we read (kept structural to stay independent of mathjs classes). */
@@ -58,6 +72,7 @@ interface MathNode {
 interface Compiled {
   fn: Closure;
   usesZ: boolean;
+  bounds: I.Bounds;
 }
 
 const NODE_WORDS: Record<string, string> = {
@@ -202,10 +217,11 @@ export function compileExpression(written: string, file: string, keyPath: string
       case 'ConstantNode': {
         const v = node.value;
         if (typeof v !== 'number') return reject(`contains ${JSON.stringify(v) ?? String(v)}, which is not a number`);
-        return { fn: () => v, usesZ: false };
+        const b: I.Interval = [v, v];
+        return { fn: () => v, usesZ: false, bounds: () => b };
       }
       case 'SymbolNode': {
-        if (node.name === 'z') return { fn: (z) => z, usesZ: true };
+        if (node.name === 'z') return { fn: (z) => z, usesZ: true, bounds: (lo, hi) => [lo, hi] };
         return reject(`contains "${node.name}"; the only variable is z`);
       }
       case 'ParenthesisNode':
@@ -230,37 +246,52 @@ export function compileExpression(written: string, file: string, keyPath: string
         const usesZ = c.some((x) => x.usesZ);
         const [a, b] = c;
         let fn: Closure;
+        let bounds: I.Bounds;
         if (c.length === 1 && a) {
           const fa = a.fn;
-          if (node.fn === 'unaryMinus') fn = (z) => -fa(z);
-          else if (node.fn === 'unaryPlus') fn = fa;
-          else return reject(`contains the operator "${node.op}"`);
+          const ba = a.bounds;
+          if (node.fn === 'unaryMinus') {
+            fn = (z) => -fa(z);
+            bounds = (lo, hi) => I.negate(ba(lo, hi));
+          } else if (node.fn === 'unaryPlus') {
+            fn = fa;
+            bounds = ba;
+          } else return reject(`contains the operator "${node.op}"`);
         } else if (c.length === 2 && a && b) {
           const fa = a.fn;
           const fb = b.fn;
+          const ba = a.bounds;
+          const bb = b.bounds;
+          let op: (x: I.Interval, y: I.Interval) => I.Interval;
           switch (node.fn) {
             case 'add':
               fn = (z) => fa(z) + fb(z);
+              op = I.add;
               break;
             case 'subtract':
               fn = (z) => fa(z) - fb(z);
+              op = I.subtract;
               break;
             case 'multiply':
               fn = (z) => fa(z) * fb(z);
+              op = I.multiply;
               break;
             case 'divide':
               fn = (z) => fa(z) / fb(z);
+              op = I.divide;
               break;
             case 'pow':
               fn = (z) => fa(z) ** fb(z);
+              op = I.power;
               break;
             default:
               return reject(`contains the operator "${node.op}"`);
           }
+          bounds = (lo, hi) => op(ba(lo, hi), bb(lo, hi));
         } else {
           return reject(`contains the operator "${node.op}"`);
         }
-        return fold({ fn, usesZ });
+        return fold({ fn, usesZ, bounds });
       }
       case 'FunctionNode': {
         const f = node.fn as MathNode;
@@ -277,11 +308,16 @@ export function compileExpression(written: string, file: string, keyPath: string
         if (unary) {
           if (c.length !== 1) return reject(`calls ${name} with ${c.length} arguments instead of 1`);
           const fa = c[0]!.fn;
+          const ba = c[0]!.bounds;
+          const bu = UNARY_BOUNDS[name]!;
           if (folding && name === 'abs' && usesZ) kinks.push(fa);
-          return fold({ fn: (z) => unary(fa(z)), usesZ });
+          return fold({ fn: (z) => unary(fa(z)), usesZ, bounds: (lo, hi) => bu(ba(lo, hi)) });
         }
         if (c.length < 1) return reject(`calls ${name} without arguments`);
         const fs = c.map((x) => x.fn);
+        const bs = c.map((x) => x.bounds);
+        const bv = VARIADIC_BOUNDS[name]!;
+        const bounds: I.Bounds = (lo, hi) => bv(bs.map((g) => g(lo, hi)));
         if (folding)
           for (let i = 0; i < c.length; i++)
             for (let j = i + 1; j < c.length; j++) {
@@ -291,9 +327,9 @@ export function compileExpression(written: string, file: string, keyPath: string
         const v = variadic!;
         if (fs.length === 2) {
           const [fa, fb] = fs as [Closure, Closure];
-          return fold({ fn: (z) => v(fa(z), fb(z)), usesZ });
+          return fold({ fn: (z) => v(fa(z), fb(z)), usesZ, bounds });
         }
-        return fold({ fn: (z) => v(...fs.map((g) => g(z))), usesZ });
+        return fold({ fn: (z) => v(...fs.map((g) => g(z))), usesZ, bounds });
       }
       default: {
         const word = NODE_WORDS[node.type] ?? `"${node.type}"`;
@@ -309,12 +345,19 @@ export function compileExpression(written: string, file: string, keyPath: string
   const fold = (c: Compiled): Compiled => {
     if (!folding || c.usesZ) return c;
     const v = c.fn(0);
-    return { fn: () => v, usesZ: false };
+    const b: I.Interval = [v, v];
+    return { fn: () => v, usesZ: false, bounds: () => b };
   };
   walk(root);
   const rest = lexicalProblem(text);
   if (rest) reject(rest);
   folding = true;
   const compiled = walk(root);
-  return { text: written, fn: compiled.fn, constant: !compiled.usesZ, kinks: compiled.usesZ ? kinks : [] };
+  return {
+    text: written,
+    fn: compiled.fn,
+    constant: !compiled.usesZ,
+    bounds: compiled.bounds,
+    kinks: compiled.usesZ ? kinks : [],
+  };
 }

@@ -8,6 +8,7 @@ import type { InputFile, Survey } from '../model/survey.js';
 import { parseYaml } from './yaml.js';
 import { normaliseSurvey } from './normalise.js';
 import { MAX_SURVEY_BYTES, readInputText } from './read-input.js';
+import { checkText } from '../model/arguments.js';
 
 /** Read a survey file as text (a regular UTF-8 file of at most 256 KiB), with its identity. */
 export function readSurveyText(path: string): { text: string; input: InputFile } {
@@ -32,6 +33,7 @@ export function loadSurveyFileWithText(path: string): { survey: Survey; text: st
 
 /** Read, parse and check a survey file (at most 256 KiB). */
 export function loadSurveyFile(path: string): Survey {
+  checkText(path, 'loadSurveyFile', 'the path of a survey file', '"samples/halpha-narrowband.yaml"');
   return loadSurveyFileWithText(path).survey;
 }
 
@@ -41,10 +43,28 @@ export function loadSurveyFile(path: string): Survey {
  * default: the directory of `file`.
  */
 export function loadSurveyText(text: string, file: string, baseDir?: string): Survey {
+  checkText(
+    text,
+    'loadSurveyText',
+    'the text of a survey file',
+    'readFileSync("my-survey.yaml", "utf8"), "my-survey.yaml"',
+  );
+  checkText(
+    file,
+    'loadSurveyText',
+    'the name of the file as its second argument (for messages)',
+    'text, "my-survey.yaml"',
+  );
   return normaliseSurvey(parseYaml(text, file), file, baseDir);
 }
 
 /** Check and normalise an already-parsed survey object (as YAML or JSON would give it). */
 export function parseSurveyObject(obj: unknown, file: string, baseDir?: string): Survey {
+  checkText(
+    file,
+    'parseSurveyObject',
+    'the name of the file as its second argument (for messages)',
+    'object, "my-survey.yaml"',
+  );
   return normaliseSurvey(obj, file, baseDir);
 }

@@ -8,12 +8,16 @@ import { precise } from '../render/format.js';
 import type { ZParam } from '../model/zparam.js';
 import { compileExpression } from './expressions.js';
 import { CAPS, describeRange, inRange, type Range } from '../model/limits.js';
+import { down, up, type Bounds } from './interval.js';
 
 export type ZTable = { table: [number, number][] };
 
 export function isZTable(v: unknown): v is ZTable {
   return typeof v === 'object' && v !== null && !Array.isArray(v) && 'table' in v;
 }
+
+/** Bounds of an expression's values over a range of z, kept beside the ZParam the loader made of it. */
+const expressionBounds = new WeakMap<ZParam, Bounds>();
 
 export function constantParam(v: number): ZParam {
   return { source: v, constant: true, at: () => v };
@@ -50,13 +54,14 @@ export function makeZParam(value: number | string | ZTable, file: string, keyPat
   if (typeof value === 'number') return constantParam(value);
   if (typeof value === 'string') {
     const e = compileExpression(value, file, keyPath);
-    const switches = e.kinks;
-    return {
+    const p: ZParam = {
       source: value,
       constant: e.constant,
       at: e.fn,
-      ...(switches.length > 0 ? { kinks: (lo: number, hi: number) => signChanges(switches, lo, hi) } : {}),
+      ...(e.kinks.length > 0 ? { kinks: (lo: number, hi: number) => signChanges(e.kinks, lo, hi) } : {}),
     };
+    if (!e.constant) expressionBounds.set(p, e.bounds);
+    return p;
   }
   const rows = value.table;
   if (rows.length > CAPS.tableRows) {
@@ -85,14 +90,31 @@ export function makeZParam(value: number | string | ZTable, file: string, keyPat
   return { source, constant: vs.every((v) => v === vs[0]), at: interpolator(zs, vs) };
 }
 
-/** A ZParam whose value is f(inner value); keeps the file's source for display. */
+/**
+ * A ZParam whose value is f(inner value); keeps the file's source for display. f must not
+ * decrease (10^v, a unit's factor, a magnitude's offset): an expression's bounds are then f of
+ * its bounds, widened by rounding.
+ */
 export function mapParam(p: ZParam, f: (v: number) => number): ZParam {
   const inner = p.at;
   if (p.constant) {
     const v = f(inner(0));
     return { source: p.source, constant: true, at: () => v };
   }
-  return { source: p.source, constant: false, at: (z) => f(inner(z)), ...(p.kinks ? { kinks: p.kinks } : {}) };
+  const mapped: ZParam = {
+    source: p.source,
+    constant: false,
+    at: (z) => f(inner(z)),
+    ...(p.kinks ? { kinks: p.kinks } : {}),
+  };
+  const bounds = expressionBounds.get(p);
+  if (bounds) {
+    expressionBounds.set(mapped, (lo, hi) => {
+      const [a, b] = bounds(lo, hi);
+      return [down(down(f(a))), up(up(f(b)))];
+    });
+  }
+  return mapped;
 }
 
 /**
@@ -149,9 +171,46 @@ export function samplePoints(window: { min: number; max: number }, p?: ZParam): 
   return pts;
 }
 
+/** Most intervals an expression's check splits a window into before it relies on points alone. */
+const MAX_INTERVALS = 4096;
+
+/**
+ * A redshift in the window where an expression's value fails `bad`, or undefined when its values
+ * are shown good at every z of the window: the window is split in halves until interval
+ * arithmetic bounds every value of a piece inside what `goodRange` accepts, the value at each
+ * piece's middle checked on the way (so a narrow spike between sampled points is found, not
+ * missed). A piece narrower than 2^-40 of the window's width or upper end (where rounding alone
+ * can keep the bounds from closing), or any beyond MAX_INTERVALS, is checked at its middle only
+ * (its ends are the window's or an earlier piece's middle, already checked).
+ */
+function unprovenPoint(
+  p: ZParam,
+  bounds: Bounds,
+  window: { min: number; max: number },
+  bad: (v: number) => boolean,
+  goodRange: (lo: number, hi: number) => boolean,
+): number | undefined {
+  const minWidth = Math.max(window.max - window.min, Math.abs(window.max)) * 2 ** -40;
+  const stack: [number, number][] = [[window.min, window.max]];
+  let budget = MAX_INTERVALS;
+  while (stack.length > 0) {
+    const [a, b] = stack.pop()!;
+    const [lo, hi] = bounds(a, b);
+    if (goodRange(lo, hi)) continue;
+    const m = a + (b - a) / 2;
+    if (bad(p.at(m))) return m;
+    if (b - a <= minWidth || --budget <= 0) continue;
+    // the left half is looked at first
+    stack.push([m, b], [a, m]);
+  }
+  return undefined;
+}
+
 /**
  * Check a parameter over a window: finite everywhere (bad_expression for an expression,
- * not_finite otherwise) and, when `positive`, > 0 (out_of_range).
+ * not_finite otherwise) and, when `positive`, > 0 (out_of_range). Every parameter is checked at the
+ * table's rows and 64 points (a table, linear between its rows, is then checked everywhere); an
+ * expression then at every z of the window (`unprovenPoint`).
  */
 export function checkParam(
   p: ZParam,
@@ -165,7 +224,7 @@ export function checkParam(
   const rows = isZTable(p.source)
     ? p.source.table.map(([z]) => z).filter((z) => z >= window.min && z <= window.max)
     : [];
-  for (const z of [...rows, ...samplePoints(window, p)]) {
+  const refuseAt = (z: number): void => {
     const v = p.at(z);
     if (!Number.isFinite(v)) {
       const bad = Number.isNaN(v) ? 'has no real value' : 'is infinite';
@@ -204,6 +263,18 @@ export function checkParam(
         `give a value in that range for every z from ${fmt(window.min)} to ${fmt(window.max)}`,
       );
     }
+  };
+  for (const z of [...rows, ...samplePoints(window, p)]) refuseAt(z);
+  // every sampled value passed: an expression is then shown in range between them, or refused
+  // at a z where it is not
+  const bounds = expressionBounds.get(p);
+  if (bounds) {
+    const bad = (v: number): boolean =>
+      !Number.isFinite(v) ||
+      (opts.positive === true && !(v > 0)) ||
+      (opts.range !== undefined && !inRange(v, opts.range));
+    const z = unprovenPoint(p, bounds, window, bad, (lo, hi) => !bad(lo) && !bad(hi));
+    if (z !== undefined) refuseAt(z);
   }
 }
 

@@ -51,6 +51,15 @@ export const compareCommand: CommandDef = {
       surveys.push(s);
     }
     const { compare } = await import('../../planning/compare.js');
+    if (typeof raw.population === 'string') {
+      // each file's population named as the command line names it (the library says
+      // options.population), in the library's order: photometric redshifts, then the name
+      const { populationByName, refuseScatteredRedshifts } = await import('../../model/select.js');
+      for (const s of surveys) {
+        refuseScatteredRedshifts(s);
+        populationByName(s, raw.population, '--population');
+      }
+    }
     const result = await compare(surveys, {
       ...(typeof raw.population === 'string' ? { population: raw.population } : {}),
       cosmicVariance: raw.cosmicVariance !== false,

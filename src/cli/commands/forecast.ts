@@ -80,7 +80,7 @@ export const forecastCommand: CommandDef = {
     const { choosePopulation } = await import('../../model/select.js');
     const { parameterNames } = await import('../../forecast/parameters.js');
     const chosen = typeof raw.population === 'string' ? raw.population : undefined;
-    const population = choosePopulation(survey, chosen);
+    const population = choosePopulation(survey, chosen, '--population');
     const targets = raw.target === undefined ? undefined : parseTargets(String(raw.target), parameterNames(population));
     const progress = mocks > 0 && io.stderrIsTTY ? mockProgressBar(io) : undefined;
     const result = await forecast(survey, {

@@ -42,6 +42,9 @@ export const planCommand: CommandDef = {
     const survey = await loadSurveyArg(io, file);
     outputs.refuseInputs(survey.inputs ?? []);
     const { plan } = await import('../../library/plan.js');
+    // the population named as the command line names it (the library says options.population)
+    const { choosePopulation } = await import('../../model/select.js');
+    choosePopulation(survey, typeof raw.population === 'string' ? raw.population : undefined, '--population');
     const result = await plan(survey, {
       ...(typeof raw.population === 'string' ? { population: raw.population } : {}),
       cosmicVariance: raw.cosmicVariance !== false,

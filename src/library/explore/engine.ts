@@ -6,6 +6,7 @@
  * "explore"). The same module runs in Node (the page's first state, the tests and benchmarks) and
  * in the page (bundled by scripts/explore-bundle.mjs).
  */
+import { checkSource, checkText } from '../../model/arguments.js';
 import type { Survey } from '../../model/survey.js';
 import type { Prediction, PredictionSlice, UncertaintyBlock } from '../../model/outputs/prediction.js';
 import { loadSurveyText, parseSurveyObject } from '../../survey/load.js';
@@ -94,6 +95,19 @@ export async function exploreCompute(
   baseDir: string,
   keep?: ExploreMemo,
 ): Promise<ExploreResult> {
+  checkSource(source, 'exploreCompute');
+  checkText(
+    file,
+    'exploreCompute',
+    'the name of the file as its second argument (for messages)',
+    'source, "my-survey.yaml", "."',
+  );
+  checkText(
+    baseDir,
+    'exploreCompute',
+    'the folder its input files are read from as its third argument',
+    'source, "my-survey.yaml", "."',
+  );
   const step = await exploreFirst(source, file, baseDir, keep, false);
   return step.model ? step.model() : step.result;
 }

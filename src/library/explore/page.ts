@@ -14,6 +14,7 @@ import { loadSurveyFileWithText } from '../../survey/load.js';
 import { explorePageHtml } from '../../render/explore/page.js';
 import { exploreControls } from './settings.js';
 import { exploreCompute } from './engine.js';
+import { checkText } from '../../model/arguments.js';
 
 export const EXPLORE_SCRIPT_VARIABLE = 'SKYTALLY_EXPLORE_SCRIPT';
 
@@ -68,6 +69,7 @@ export async function buildExplorePage(
 
 /** The explore page of a survey file (read once, through the loader's checks), as HTML text. */
 export async function explorePage(path: string): Promise<string> {
+  checkText(path, 'explorePage', 'the path of a survey file', '"samples/halpha-narrowband.yaml"');
   const { survey, text } = loadSurveyFileWithText(path);
   return buildExplorePage(path, text, survey);
 }

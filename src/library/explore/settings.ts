@@ -11,6 +11,7 @@ import { RANGES } from '../../model/limits.js';
 import type { ControlSpec, ExposureControl } from '../../model/explore.js';
 import { readPlanSection } from '../../survey/plan-section.js';
 import { makeDepthModel } from '../../planning/depth.js';
+import { checkSurvey } from '../../model/arguments.js';
 
 export type { ControlSpec };
 
@@ -149,6 +150,7 @@ function uncertaintyRange(pop: Raw, key: string, value: number): [number, number
  * quantity are controls: a parameter written as a table or an expression in z stays as written.
  */
 export function exploreControls(raw: unknown, survey: Survey): ControlSpec[] {
+  checkSurvey(survey, 'exploreControls');
   const file = isRecord(raw) ? raw : {};
   const controls: ControlSpec[] = [];
   if (isScalarValue(file.area))
