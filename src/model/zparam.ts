@@ -8,4 +8,10 @@ export interface ZParam {
   readonly constant: boolean;
   /** Value at redshift z (finite for every z in the survey window; checked at load time). */
   at(this: void, z: number): number;
+  /**
+   * An expression with min, max or abs: the redshifts strictly inside (lo, hi) where it has a kink
+   * (where it switches from one argument to another, or abs's argument changes sign), so that
+   * integrals over z may cut there as they cut at a table's rows. Absent when there is none.
+   */
+  readonly kinks?: (this: void, lo: number, hi: number) => number[];
 }

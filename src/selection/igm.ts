@@ -65,12 +65,17 @@ export function madau1995Transmission(observedAngstrom: number, z: number): numb
 /**
  * Transmission averaged over a tabulated band for a source with f_lambda ~ lambda^beta, counted
  * in photons: <T> = integral T_igm S lambda^(beta+1) dlambda / integral S lambda^(beta+1) dlambda,
- * S the band's curve. Midpoint rule on steps of at most 2.5 Angstrom (at least 8 per table
- * interval), with the wavelengths where the IGM transmission jumps (lambda_j (1+z), 912 (1+z))
- * added as nodes.
+ * S the band's curve. Two-point Gauss-Legendre on steps of at most 5 Angstrom (at least 4 per
+ * table interval), between nodes at the table's rows and the wavelengths where the IGM
+ * transmission jumps (lambda_j (1+z), 912 (1+z)), so the integrand is smooth on every step: within
+ * 1e-8 relative of an adaptive quadrature (test/reference/igm_docs.json), where the midpoint rule
+ * on 2.5 Angstrom steps it replaced, with as many evaluations, was 3e-5 off at T = 0.003.
  */
-const SUB_MIN = 8;
-const SUB_STEP_ANGSTROM = 2.5;
+const SUB_MIN = 4;
+const SUB_STEP_ANGSTROM = 5;
+/** Two-point Gauss-Legendre nodes on [0, 1]: 1/2 -+ 1/(2 sqrt 3), each of weight 1/2. */
+const GL2_LOW = 0.5 - 0.5 / Math.sqrt(3);
+const GL2_HIGH = 0.5 + 0.5 / Math.sqrt(3);
 export function bandAveragedMadau1995(band: TransmissionTable, z: number, beta: number): number {
   const w = band.wavelengthAngstrom;
   const nodes = [...w];
@@ -86,11 +91,13 @@ export function bandAveragedMadau1995(band: TransmissionTable, z: number, beta: 
     const sub = Math.max(SUB_MIN, Math.ceil((grid[k + 1]! - a) / SUB_STEP_ANGSTROM));
     const h = (grid[k + 1]! - a) / sub;
     for (let s = 0; s < sub; s++) {
-      // midpoint rule on each sub-step: never evaluates exactly at a jump
-      const l = a + (s + 0.5) * h;
-      const wgt = tableTransmission(band, l) * l ** (beta + 1) * h;
-      den += wgt;
-      num += wgt * madau1995Transmission(l, z);
+      // both nodes inside the step: never evaluated exactly at a jump
+      const l1 = a + (s + GL2_LOW) * h;
+      const w1 = tableTransmission(band, l1) * l1 ** (beta + 1) * h * 0.5;
+      const l2 = a + (s + GL2_HIGH) * h;
+      const w2 = tableTransmission(band, l2) * l2 ** (beta + 1) * h * 0.5;
+      den += w1 + w2;
+      num += w1 * madau1995Transmission(l1, z) + w2 * madau1995Transmission(l2, z);
     }
   }
   if (!(den > 0)) return 1;

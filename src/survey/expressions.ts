@@ -25,6 +25,11 @@ export interface CompiledExpression {
   constant: boolean;
   /** Bounds of what `fn` returns for every z from lo to hi (interval arithmetic, src/survey/interval.ts). */
   bounds: I.Bounds;
+  /**
+   * Functions of z whose sign changes where the expression has a kink: the argument of each abs,
+   * and the difference of each pair of arguments of each min and max, that depend on z.
+   */
+  kinks: Closure[];
 }
 
 /** Longest expression accepted, in characters. */
@@ -305,6 +310,7 @@ export function compileExpression(written: string, file: string, keyPath: string
           const fa = c[0]!.fn;
           const ba = c[0]!.bounds;
           const bu = UNARY_BOUNDS[name]!;
+          if (folding && name === 'abs' && usesZ) kinks.push(fa);
           return fold({ fn: (z) => unary(fa(z)), usesZ, bounds: (lo, hi) => bu(ba(lo, hi)) });
         }
         if (c.length < 1) return reject(`calls ${name} without arguments`);
@@ -312,6 +318,12 @@ export function compileExpression(written: string, file: string, keyPath: string
         const bs = c.map((x) => x.bounds);
         const bv = VARIADIC_BOUNDS[name]!;
         const bounds: I.Bounds = (lo, hi) => bv(bs.map((g) => g(lo, hi)));
+        if (folding)
+          for (let i = 0; i < c.length; i++)
+            for (let j = i + 1; j < c.length; j++) {
+              const [gi, gj] = [fs[i]!, fs[j]!];
+              if (c[i]!.usesZ || c[j]!.usesZ) kinks.push((z) => gi(z) - gj(z));
+            }
         const v = variadic!;
         if (fs.length === 2) {
           const [fa, fb] = fs as [Closure, Closure];
@@ -326,8 +338,10 @@ export function compileExpression(written: string, file: string, keyPath: string
     }
   };
 
-  // First pass: check every node (nothing is evaluated). Second pass: compile with constant folding.
+  // First pass: check every node (nothing is evaluated). Second pass: compile with constant folding
+  // and collect the kinks.
   let folding = false;
+  const kinks: Closure[] = [];
   const fold = (c: Compiled): Compiled => {
     if (!folding || c.usesZ) return c;
     const v = c.fn(0);
@@ -339,5 +353,11 @@ export function compileExpression(written: string, file: string, keyPath: string
   if (rest) reject(rest);
   folding = true;
   const compiled = walk(root);
-  return { text: written, fn: compiled.fn, constant: !compiled.usesZ, bounds: compiled.bounds };
+  return {
+    text: written,
+    fn: compiled.fn,
+    constant: !compiled.usesZ,
+    bounds: compiled.bounds,
+    kinks: compiled.usesZ ? kinks : [],
+  };
 }

@@ -54,7 +54,12 @@ export function makeZParam(value: number | string | ZTable, file: string, keyPat
   if (typeof value === 'number') return constantParam(value);
   if (typeof value === 'string') {
     const e = compileExpression(value, file, keyPath);
-    const p: ZParam = { source: value, constant: e.constant, at: e.fn };
+    const p: ZParam = {
+      source: value,
+      constant: e.constant,
+      at: e.fn,
+      ...(e.kinks.length > 0 ? { kinks: (lo: number, hi: number) => signChanges(e.kinks, lo, hi) } : {}),
+    };
     if (!e.constant) expressionBounds.set(p, e.bounds);
     return p;
   }
@@ -96,7 +101,12 @@ export function mapParam(p: ZParam, f: (v: number) => number): ZParam {
     const v = f(inner(0));
     return { source: p.source, constant: true, at: () => v };
   }
-  const mapped: ZParam = { source: p.source, constant: false, at: (z) => f(inner(z)) };
+  const mapped: ZParam = {
+    source: p.source,
+    constant: false,
+    at: (z) => f(inner(z)),
+    ...(p.kinks ? { kinks: p.kinks } : {}),
+  };
   const bounds = expressionBounds.get(p);
   if (bounds) {
     expressionBounds.set(mapped, (lo, hi) => {
@@ -105,6 +115,48 @@ export function mapParam(p: ZParam, f: (v: number) => number): ZParam {
     });
   }
   return mapped;
+}
+
+/**
+ * Where the functions change sign strictly inside (lo, hi), more than 1e-9 from either end: each
+ * found on 256 even steps and bisected to 1e-13 of the range (a function that touches 0 without
+ * crossing it between two steps is not seen, nor is a kink it would mark: the integrals converge
+ * there as they did before kinks were cut).
+ */
+export function signChanges(fs: readonly ((z: number) => number)[], lo: number, hi: number): number[] {
+  const steps = 256;
+  const out: number[] = [];
+  if (!(hi > lo)) return out;
+  const zAt = (i: number) => (i === steps ? hi : lo + ((hi - lo) * i) / steps);
+  for (const g of fs) {
+    let za = lo;
+    let ga = g(za);
+    for (let i = 1; i <= steps; i++) {
+      const zb = zAt(i);
+      const gb = g(zb);
+      if (ga === 0) out.push(za);
+      else if (Number.isFinite(ga) && Number.isFinite(gb) && ga * gb < 0) {
+        let [a, b, fa] = [za, zb, ga];
+        while (b - a > 1e-13 * (hi - lo)) {
+          const m = 0.5 * (a + b);
+          const fm = g(m);
+          if (fm === 0) {
+            a = b = m;
+            break;
+          }
+          if (fa * fm < 0) b = m;
+          else [a, fa] = [m, fm];
+        }
+        out.push(0.5 * (a + b));
+      }
+      [za, ga] = [zb, gb];
+    }
+  }
+  out.sort((x, y) => x - y);
+  const kept: number[] = [];
+  for (const x of out)
+    if (x - lo > 1e-9 && hi - x > 1e-9 && (kept.length === 0 || x - kept[kept.length - 1]! > 1e-9)) kept.push(x);
+  return kept;
 }
 
 /** Points at which a parameter is checked over a window: 64 evenly spaced (ends included) plus the table's nodes inside. */

@@ -14,6 +14,7 @@
 import { describe, expect, test } from 'vitest';
 import { loadSurveyText } from '../../src/survey/load.js';
 import { predict } from '../../src/counts/predict.js';
+import { makeZParam } from '../../src/survey/zparam.js';
 
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);
 
@@ -146,5 +147,50 @@ slices: {count: 1}
     expect(rel(p.totals.count, 1776.7249402301813)).toBeLessThan(1e-9);
     expect(rel(p.totals.luminosity_density!.total!, 1.6274406273581957e25)).toBeLessThan(1e-9);
     expect(rel(p.totals.luminosity_density!.detected, 8.802331482181488e24)).toBeLessThan(1e-9);
+  });
+});
+
+describe('redshift cuts where a parameter given as an expression has a kink (min, max, abs)', () => {
+  const survey = (phi: string, mStar: string) => `
+cosmology: {h0: 70, omega_m: 0.3}
+area: 5
+redshift: {min: 0.5, max: 6}
+detection: {kind: magnitude, limit: 14.9, band: "850 um", beta: -5, completeness: {half: 14.77, width: 0.15}}
+population: {variable: magnitude, rest_wavelength: "850 um", log10_phi_star: ${phi}, m_star: ${mStar}, alpha: -1.5}
+slices: {edges: [0.5, 1, 2, 3, 4, 6]}
+`;
+  test('log10 phi* = -4 - 2 max(z - 2.3, 0) and M* = -26.6 + 0.4 max(2.5 - z, 0) count as the same functions written as tables', () => {
+    // Tables are linear between rows, so these tables are the expressions exactly; the quadrature
+    // cuts at a table's rows (checked against the independent evaluator above). The expressions'
+    // kinks were not cut: the slice holding them was 3.6e-6 off (the docs promise counts to 1e-6).
+    const expr = predict(
+      loadSurveyText(survey('"-4 - 2*max(z - 2.3, 0)"', '"-26.6 + 0.4*max(2.5 - z, 0)"'), 'kinks.yaml'),
+      { model: { draws: 0 } },
+    );
+    const table = predict(
+      loadSurveyText(
+        survey('{table: [[0.5, -4], [2.3, -4], [6, -11.4]]}', '{table: [[0.5, -25.8], [2.5, -26.6], [6, -26.6]]}'),
+        'tables.yaml',
+      ),
+      { model: { draws: 0 } },
+    );
+    expr.slices!.forEach((s, i) => expect(rel(s.count, table.slices![i]!.count)).toBeLessThan(1e-9));
+    expect(rel(expr.totals.count, table.totals.count)).toBeLessThan(1e-9);
+  });
+
+  test('the kinks are found where the arguments cross, inside the range asked only', () => {
+    const kinks = (text: string, lo: number, hi: number) => makeZParam(text, 'k.yaml', 'k').kinks?.(lo, hi);
+    expect(kinks('-4 - 2*max(z - 2.3, 0)', 0.5, 6)).toEqual([expect.closeTo(2.3, 12)]);
+    expect(kinks('-4 - 2*max(z - 2.3, 0)', 2.5, 6)).toEqual([]);
+    expect(kinks('abs(z - 1) + 3', 0, 4)).toEqual([expect.closeTo(1, 12)]);
+    // every pair of min's arguments: z = 2 (z and 2), 1.5 (z and 3 - z), 1 (2 and 3 - z; not a
+    // kink of the min, which is z there: one more cut does no harm)
+    expect(kinks('min(z, 2, 3 - z)', 0, 4)).toEqual([1, 1.5, 2].map((x) => expect.closeTo(x, 12) as number));
+    expect(makeZParam('max(2, 3) + z', 'k.yaml', 'k').kinks).toBeUndefined();
+    expect(makeZParam('-1.5 - 0.1*z', 'k.yaml', 'k').kinks).toBeUndefined();
+    // a log10 phi* keeps its kinks as phi* (10^value)
+    const phi = loadSurveyText(survey('"-4 - 2*max(z - 2.3, 0)"', '-26.6'), 'k.yaml').populations[0]!.components[0]!
+      .phiStar;
+    expect(phi.kinks?.(0.5, 6)).toEqual([expect.closeTo(2.3, 12)]);
   });
 });
