@@ -145,6 +145,14 @@ describe('refusals: one sentence naming the file, the key and the fix', () => {
     ['fainter than AB 40', { limit: '1e-20 Jy' }, 'detection.limit', /outside its physical range/],
     ['a line flux, not a flux density', { limit: '2e-17 erg/s/cm^2' }, 'detection.limit', /not a flux density/],
     ['an unknown unit', { limit: '25 mag' }, 'detection.limit', /unit this tool knows/],
+    // a map's unit, written out of habit: the number stands without it
+    ['a flux density per beam', { limit: '4 mJy/beam' }, 'detection.limit', /per beam, .*write "4 mJy"/],
+    [
+      'a completeness half per beam',
+      { completeness: { half: '5 uJy / Beam', width: 0.2 } },
+      'detection.completeness.half',
+      /per beam, .*write "5 uJy"/,
+    ],
     ['a frequency as a limit', { limit: '2 GHz' }, 'detection.limit', /not a flux density/],
     [
       'a completeness half that is not a flux density',
