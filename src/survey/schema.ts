@@ -56,6 +56,39 @@ const TYPE_WORDS: Record<string, string> = {
   boolean: 'true or false',
 };
 
+/** A number as a message writes it: at most 6 significant digits, no trailing zeros. */
+function short(x: number): string {
+  return String(Number(x.toPrecision(6)));
+}
+
+/**
+ * A 1-sigma of `model_uncertainty` written as text, as a paper prints it: an asymmetric error
+ * ("+0.21/-0.12", "^{+0.21}_{-0.12}") or one number with a sign or unit ("±0.2", "0.2 dex"). The
+ * sentence says which number to write; undefined for any other key or text.
+ */
+function sigmaText(path: string, text: string): { what: string; fix: string } | undefined {
+  const m = /(?:^|\.)model_uncertainty\.([a-z0-9_]+)$/.exec(path);
+  if (!m || m[1] === 'correlation' || m[1] === 'draws_file') return undefined;
+  const numbers = text.replace(/\u2212/g, '-').match(/[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?/g) ?? [];
+  const dex = m[1]!.startsWith('log10_')
+    ? ' (in dex: an error quoted on phi* or L* itself is first taken to log10)'
+    : '';
+  if (numbers.length === 2 && numbers.some((n) => n.startsWith('+')) && numbers.some((n) => n.startsWith('-'))) {
+    const [a, b] = numbers.map((n) => Math.abs(Number(n))) as [number, number];
+    return {
+      what: `is ${describeValue(text)}, an asymmetric error, but must be one number, a symmetric 1-sigma error${dex}`,
+      fix: `give the mean of the two sides, ${short((a + b) / 2)}, or the larger, ${short(Math.max(a, b))}, to be cautious (or the published posterior's draws as draws_file)`,
+    };
+  }
+  if (numbers.length === 1) {
+    return {
+      what: `is ${describeValue(text)} but must be a number, the 1-sigma error${dex}`,
+      fix: `write ${short(Math.abs(Number(numbers[0])))} without quotes, sign or unit`,
+    };
+  }
+  return undefined;
+}
+
 function describeValue(v: unknown): string {
   if (v === null) return 'empty';
   if (Array.isArray(v)) return 'a list';
@@ -288,6 +321,8 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
             `write ${typeset} with the minus sign "-"`,
           );
         }
+        const sigma = typeof data === 'string' ? sigmaText(path, data) : undefined;
+        if (sigma) return inputError('wrong_type', file, path, sigma.what, sigma.fix);
         return inputError(
           'wrong_type',
           file,

@@ -165,3 +165,26 @@ describe('bad input', () => {
     });
   });
 });
+
+describe('a sigma written as a paper prints it', () => {
+  // Papers print asymmetric errors (Bouwens et al. 2015 give phi* at z ~ 7 as 0.29 +0.21/-0.12
+  // 1e-3 Mpc^-3; from memory): the sentence names the one number to write instead, not only the type.
+  test.each([
+    [
+      'an asymmetric error',
+      { log10_phi_star: '+0.21/-0.12' },
+      'log10_phi_star',
+      ['asymmetric', '0.165', '0.21', 'in dex'],
+    ],
+    ['an asymmetric error as typeset', { alpha: '^{+0.13}_{\u22120.10}' }, 'alpha', ['asymmetric', '0.115', '0.13']],
+    ['a sigma with its sign', { alpha: '\u00b10.13' }, 'alpha', ['write 0.13 without quotes']],
+    ['a sigma with a unit', { log10_l_star: '0.05 dex' }, 'log10_l_star', ['write 0.05 without quotes']],
+  ])('%s', (_name, block, key, words) => {
+    const e = errorOf(() => load({ log10_l_star: 0.05, ...block }));
+    expect({ code: e.code, keyPath: e.keyPath }).toEqual({
+      code: 'wrong_type',
+      keyPath: `population.model_uncertainty.${key}`,
+    });
+    for (const w of words) expect(e.message).toContain(w);
+  });
+});
