@@ -646,6 +646,7 @@ export function limitBreaks(survey: Survey, lo: number, hi: number): number[] {
   const out: number[] = [];
   const src = d.limit.source;
   if (typeof src === 'object') for (const [zt] of src.table) if (zt > lo && zt < hi) out.push(zt);
+  if (d.limit.kinks) out.push(...d.limit.kinks(lo, hi));
   const width = survey.histogramWidth;
   out.push(
     ...limitCrossings(survey, lo, hi, (fa, fb) => {

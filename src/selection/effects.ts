@@ -111,6 +111,9 @@ export function selectionEffects(detection: Detection, population: Population): 
     const out: number[] = [];
     for (const p of [sel, att]) {
       if (p && !p.constant && typeof p.source === 'object') for (const [zt] of p.source.table) out.push(zt);
+      // an expression's kinks (min, max, abs): a selection min(1, max(0, 3*(z - 1.2))) and an
+      // attenuation 0.5 + max(0, 1.4 - z) moved the slice holding them by 3.4e-6 uncut
+      if (p?.kinks) out.push(...p.kinks(lo, hi));
     }
     if (cut && ew && ew.model === 'table' && cut.frame === 'observed') {
       // fractionAbove is linear between the table's widths: kinks where w_cut / ((1 + z)(1 + b)) = W_k

@@ -597,7 +597,8 @@ function parsePopulationParams(
         file,
         `${path}.${k}`,
         `${k} belongs to the luminosity variable but variable is magnitude`,
-        'give m_star instead',
+        // a far-infrared or radio function is often quoted in L: say how to turn it into M*
+        'give m_star instead, the absolute AB magnitude of L*: from its luminosity density L_nu at the rest wavelength, M* = -2.5 log10(L_nu / 4.3445e20 erg s^-1 Hz^-1)',
       );
     }
   }

@@ -116,6 +116,18 @@ export function isFluxDensityText(v: unknown): v is string {
  */
 export function fluxDensityMagnitude(text: string, file: string, path: string): { jy: number; abMag: number } {
   const fix = 'give an AB magnitude as a number, or a flux density with its unit, e.g. 24.5, "0.1 mJy" or "2 uJy"';
+  // "4 mJy/beam": a map's unit, which a submillimetre or radio observer writes out of habit; a point
+  // source's flux density is its peak in it, so the number stands without "/beam"
+  const perBeam = /^(.*\S)\s*\/\s*beam$/i.exec(text.trim());
+  if (perBeam) {
+    throw inputError(
+      'bad_unit',
+      file,
+      path,
+      `"${excerpt(text, 60)}" is per beam, the unit of a map`,
+      `a point source's flux density is its peak in that unit: write "${excerpt(perBeam[1]!, 50)}"`,
+    );
+  }
   const jy = parseQuantityOneOf(text, ['fluxDensity'], file, path, fix).value;
   const shown = excerpt(text, 60);
   if (!(jy > 0)) {

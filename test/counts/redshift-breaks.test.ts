@@ -178,6 +178,40 @@ slices: {edges: [0.5, 1, 2, 3, 4, 6]}
     expect(rel(expr.totals.count, table.totals.count)).toBeLessThan(1e-9);
   });
 
+  test('a redshift selection and an attenuation with kinks, and a threshold limit with one, count as the same tables', () => {
+    const count = (text: string) =>
+      predict(loadSurveyText(text, 'k.yaml'), { model: { draws: 0 } }).slices!.map((s) => s.count);
+    // before: the slice holding the selection's and the attenuation's kinks 3.4e-6 off
+    const effects = (sel: string, att: string) => `
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1
+redshift: {min: 0.5, max: 3}
+detection: {kind: magnitude, limit: 25, band: "8000 Angstrom", beta: -2, redshift_selection: ${sel}}
+population: {variable: magnitude, rest_wavelength: 8000, phi_star: 3e-3, m_star: -21, alpha: -1.2, attenuation: ${att}}
+slices: {edges: [0.5, 1, 2, 3]}
+`;
+    const a = count(effects('"min(1, max(0, 3*(z - 1.2)))"', '"0.5 + max(0, 1.4 - z)"'));
+    const b = count(
+      effects(
+        '{table: [[0.5, 0], [1.2, 0], [1.5333333333333333, 1], [3, 1]]}',
+        '{table: [[0.5, 1.4], [1.4, 0.5], [3, 0.5]]}',
+      ),
+    );
+    a.forEach((x, i) => expect(x === b[i] || rel(x, b[i]!) < 1e-12).toBe(true));
+    // before: 3.4e-9 off (the limit's crossings of the completeness steps cut near the kink)
+    const limit = (l: string) => `
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1
+redshift: {min: 0.2, max: 3}
+detection: {kind: threshold, limit: ${l}, completeness: {half: 9.3, width: 0.1}}
+population: {variable: luminosity, log10_l_star: 10.8, log10_phi_star: -3, alpha: -1.3}
+slices: {edges: [0.2, 1, 2, 3]}
+`;
+    const c = count(limit('"9 + 1.5*max(z - 1.3, 0)"'));
+    const d = count(limit('{table: [[0.2, 9], [1.3, 9], [3, 11.55]]}'));
+    c.forEach((x, i) => expect(rel(x, d[i]!)).toBeLessThan(1e-12));
+  });
+
   test('the kinks are found where the arguments cross, inside the range asked only', () => {
     const kinks = (text: string, lo: number, hi: number) => makeZParam(text, 'k.yaml', 'k').kinks?.(lo, hi);
     expect(kinks('-4 - 2*max(z - 2.3, 0)', 0.5, 6)).toEqual([expect.closeTo(2.3, 12)]);

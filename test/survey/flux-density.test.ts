@@ -145,6 +145,14 @@ describe('refusals: one sentence naming the file, the key and the fix', () => {
     ['fainter than AB 40', { limit: '1e-20 Jy' }, 'detection.limit', /outside its physical range/],
     ['a line flux, not a flux density', { limit: '2e-17 erg/s/cm^2' }, 'detection.limit', /not a flux density/],
     ['an unknown unit', { limit: '25 mag' }, 'detection.limit', /unit this tool knows/],
+    // a map's unit, written out of habit: the number stands without it
+    ['a flux density per beam', { limit: '4 mJy/beam' }, 'detection.limit', /per beam, .*write "4 mJy"/],
+    [
+      'a completeness half per beam',
+      { completeness: { half: '5 uJy / Beam', width: 0.2 } },
+      'detection.completeness.half',
+      /per beam, .*write "5 uJy"/,
+    ],
     ['a frequency as a limit', { limit: '2 GHz' }, 'detection.limit', /not a flux density/],
     [
       'a completeness half that is not a flux density',
@@ -187,6 +195,18 @@ describe('refusals: one sentence naming the file, the key and the fix', () => {
     expect(e.message.endsWith('.')).toBe(true);
     // eslint-disable-next-line no-control-regex -- one line, no escape characters
     expect(e.message).not.toMatch(/[\n\r\u001b]|\bNaN\b|Infinity/);
+  });
+
+  test('an L* given to a magnitude population (a far-infrared or radio function quoted in L) says how to write M*', () => {
+    const obj = radio();
+    const pop = obj.population as Record<string, unknown>;
+    delete pop.m_star;
+    pop.log10_l_star = 29.4;
+    const e = errorOf(() => parseSurveyObject(obj, FILE));
+    expect([e.code, e.keyPath]).toEqual(['kind_mismatch', 'population.log10_l_star']);
+    expect(e.message).toMatch(/give m_star instead, .*M\* = -2\.5 log10\(L_nu \/ 4\.3445e20 erg s\^-1 Hz\^-1\)\.$/);
+    // the constant is 4 pi (10 pc)^2 x 3631 Jy, the AB zero point at 10 pc (common practice)
+    expect(rel(4 * Math.PI * (10 * 3.085677581e18) ** 2 * AB_ZERO_POINT_JY * 1e-23, 4.3445e20)).toBeLessThan(1e-4);
   });
 
   test('the program exits 2 with one line and writes nothing', async () => {
