@@ -244,17 +244,32 @@ export function countsAxis(
   };
 }
 
+/** A row of a log count axis, its error bar and model band cut at the axis's floor. */
+function aboveFloor(r: CountRow, floor: number): CountRow {
+  const { low, high, model_p16, model_p50, model_p84, band_x1, band_x2, ...rest } = r;
+  const out: CountRow = { ...rest };
+  if (low !== undefined && high !== undefined && high >= floor) {
+    out.low = Math.max(low, floor);
+    out.high = high;
+  }
+  if (model_p16 !== undefined && model_p84 !== undefined && model_p84 >= floor) {
+    out.model_p16 = Math.max(model_p16, floor);
+    if (model_p50 !== undefined && model_p50 >= floor) out.model_p50 = model_p50;
+    out.model_p84 = model_p84;
+    if (band_x1 !== undefined) out.band_x1 = band_x1;
+    if (band_x2 !== undefined) out.band_x2 = band_x2;
+  }
+  return out;
+}
+
 export function countsSpec(p: PredictionView): Spec | null {
   const all = countRows(p);
   if (all.length === 0) return null;
   const axis = countsAxis(all);
   // On a log axis a slice without sources has no bar, and an error bar reaching 0 stops at the floor.
-  const rows = axis.log
-    ? all
-        .filter((r) => r.count > 0)
-        .map((r) => (r.low !== undefined && r.low < axis.floor ? { ...r, low: axis.floor } : r))
-        .map((r) => (r.model_p16 !== undefined && r.model_p16 < axis.floor ? { ...r, model_p16: axis.floor } : r))
-    : all;
+  // An error bar or a model band wholly below the floor is not drawn (it would hang below the
+  // axis, over the legend), and a p50 below it has no line.
+  const rows = axis.log ? all.filter((r) => r.count > 0).map((r) => aboveFloor(r, axis.floor)) : all;
   const withErrors = rows.some((r) => r.low !== undefined);
   const withModel = rows.some((r) => r.model_p16 !== undefined);
   const draws = rows.find((r) => r.model_draws !== undefined)?.model_draws;
@@ -350,7 +365,7 @@ export function countsSpec(p: PredictionView): Spec | null {
       },
     );
   }
-  const scaleNote = axis.log ? `; logarithmic axis (the counts span a factor of ${fmtShort(axis.span)})` : '';
+  const scaleNote = axis.log ? `; logarithmic axis (the counts span a factor of ${spanText(axis.span)})` : '';
   const empty = all.length - rows.length;
   const emptyNote = empty > 0 ? `; ${empty} slice${empty > 1 ? 's' : ''} without sources not drawn` : '';
   const notes = [`${all.length} slice${all.length === 1 ? '' : 's'}; bars: expected count${scaleNote}${emptyNote}`];
@@ -1070,6 +1085,15 @@ export function powerOfTenAxis(lo: number, hi: number, most = 6): Spec {
 
 function capitalise(s: string): string {
   return s.charAt(0).toUpperCase() + s.slice(1);
+}
+
+/** A factor as a title writes it: 214 below 1e5, 2.14 × 10¹⁴ from there (not 214000000000000). */
+export function spanText(x: number): string {
+  if (!(x >= 1e5) || !Number.isFinite(x)) return fmtShort(x);
+  const k = Math.floor(Math.log10(x));
+  const m = Number((x / 10 ** k).toPrecision(3));
+  // (rounding may carry the mantissa to 10)
+  return m >= 10 ? `${powerOfTen(k + 1)}` : m === 1 ? powerOfTen(k) : `${m} × ${powerOfTen(k)}`;
 }
 
 function fmtShort(x: unknown): string {

@@ -8,12 +8,14 @@
  */
 import { describe, expect, test } from 'vitest';
 import { join } from 'node:path';
-import { loadSurveyFile } from '../../src/survey/index.js';
+import { loadSurveyFile, loadSurveyText } from '../../src/survey/index.js';
 import { predict } from '../../src/counts/predict.js';
 import { drawModelOffsets } from '../../src/counts/model-draws.js';
 import {
+  countsAxis,
   countsSpec,
   luminosityFunctionSpec,
+  spanText,
   type CountRow,
   type LuminosityFunctionRow,
 } from '../../src/render/figures.js';
@@ -197,5 +199,66 @@ describe("the report: one sentence per slice table on the three sources of the t
     });
     expect(html).not.toContain('class="sources"');
     expect(html).not.toContain('p16–p84');
+  });
+});
+
+describe('a log count axis over many decades: bars, error bars and bands stay on the plot', () => {
+  // A GALEX-like FUV count (Wyder et al. 2005 function, from memory) over z = 0.001-0.5: the
+  // slices' counts fall from 8.4 to 4e-14, so the axis keeps six decades and the last slices'
+  // error bars and model bands lie wholly below its floor. Before, each band was drawn from the
+  // floor down to its p84, hanging below the axis over the legend, and the note wrote the span
+  // as 214000000000000.
+  const text = `format: 1
+title: GALEX-like FUV count
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1
+redshift: {min: 0.001, max: 0.5}
+detection: {kind: magnitude, limit: 19.9, band: 1528, beta: -1.8}
+population:
+  variable: magnitude
+  rest_wavelength: 1528
+  phi_star: 4.07e-3
+  m_star: -18.04
+  alpha: -1.22
+  model_uncertainty: {log10_phi_star: 0.06, m_star: 0.11, alpha: 0.07}
+slices: {width: 0.05}
+`;
+  const survey = loadSurveyText(text, 'galex-fuv.yaml');
+  const p = predict(survey, { model: { draws: DRAWS, seed: 1 } });
+  if (p.breakdown !== 'redshift') throw new Error('one population');
+  const view = predictionViews(survey, p, 1).combined;
+
+  test('every drawn error bar and band lies within the axis (failed before: bands below the floor)', () => {
+    const spec = countsSpec(view)!;
+    const rows = (spec.data as { values: CountRow[] }).values;
+    const axis = countsAxis(rows);
+    if (!axis.log) throw new Error('a log axis');
+    // the case at hand: some slices' whole band and error bar lie below the floor
+    expect(
+      p.slices.some((s) => s.model!.p84 < axis.floor && s.count * (1 + s.uncertainty!.total_fraction) < axis.floor),
+    ).toBe(true);
+    for (const r of rows) {
+      for (const v of [r.low, r.high, r.model_p16, r.model_p50, r.model_p84]) {
+        if (v !== undefined) expect(v).toBeGreaterThanOrEqual(axis.floor);
+      }
+      // what is drawn is predict's: a band's p84, an error bar's top (1e-12)
+      const s = p.slices[r.slice - 1]!;
+      if (r.model_p84 !== undefined) expect(rel(r.model_p84, s.model!.p84)).toBeLessThan(1e-12);
+      if (r.high !== undefined) expect(rel(r.high, s.count * (1 + s.uncertainty!.total_fraction))).toBeLessThan(1e-12);
+    }
+    // the slices whose band reaches the floor keep it
+    const kept = rows.filter((r) => r.model_p84 !== undefined).length;
+    expect(kept).toBe(p.slices.filter((s) => s.model!.p84 >= axis.floor).length);
+  });
+
+  test('the span is written as a power of ten (failed before: 214000000000000)', async () => {
+    expect(spanText(214)).toBe('214');
+    expect(spanText(2.1437e14)).toBe('2.14 × 10¹⁴');
+    expect(spanText(1e6)).toBe('10⁶');
+    expect(spanText(9.9996e5)).toBe('10⁶');
+    const figs = await drawFigures(survey, p, { modelSeed: 1 });
+    const counts = figs.find((f) => f.name === 'counts')!;
+    expect(counts.svg).toMatch(/span a factor of \d\.\d+ × 10¹⁴/);
+    expect(counts.svg).not.toMatch(/factor of \d{7}/);
   });
 });
