@@ -194,6 +194,13 @@ function noteMassBound(list: Warning[], name: string, held: 'min' | 'max', z: nu
   notes.set(key, note);
 }
 
+/**
+ * Expected count below which a slice (or a group of the totals' nodes) held at a matching bound is
+ * not warned about: no source is to be seen there, so its bias changes no number a survey could
+ * check (a flux-limited count carried far beyond its last source holds 1e-10 and less there).
+ */
+export const UNSEEN_COUNT = 1e-3;
+
 /** Bias of one population for a range of redshift holding `count` sources in `volumeMpc3`, at z. */
 export function populationBias(
   ctx: UncertaintyContext,
@@ -210,7 +217,7 @@ export function populationBias(
   const target = density / p.occupation;
   const atBound = (held: 'min' | 'max') => {
     const mass = held === 'min' ? MATCH_MASS_MIN_MSUN : MATCH_MASS_MAX_MSUN;
-    noteMassBound(ctx.warnings, p.name, held, z, target);
+    if (count >= UNSEEN_COUNT) noteMassBound(ctx.warnings, p.name, held, z, target);
     return { bias: haloes.effectiveBiasAbove(mass, z), haloMassMinMsun: mass };
   };
   // (target >= n(>1e6 Msun) and target <= n(>1e16 Msun), asked without summing the abundance
@@ -357,9 +364,9 @@ const NEGLIGIBLE_SHARE = 1e-12;
  * The bias of haloes matched to a detected density at z (the tabulated matcher), held at the
  * matching bounds with the same warning as populationBias.
  */
-function matchedBias(ctx: UncertaintyContext, p: Population, z: number, density: number): number {
+function matchedBias(ctx: UncertaintyContext, p: Population, z: number, density: number, count: number): number {
   const m = matcherAt(ctx, z).match(density / p.occupation);
-  if (m.held) noteMassBound(ctx.warnings, p.name, m.held, z, density / p.occupation);
+  if (m.held && count >= UNSEEN_COUNT) noteMassBound(ctx.warnings, p.name, m.held, z, density / p.occupation);
   return m.bias;
 }
 
@@ -469,7 +476,9 @@ export function totalUncertainty(
       const partCount = sums.reduce((a, g) => a + g.n, 0);
       // (a density that underflows to 0 counts as negligible too)
       const matched = sums.map((g) =>
-        g.n > NEGLIGIBLE_SHARE * partCount && g.dens > 0 ? matchedBias(ctx, pop, g.zn / g.n, g.dens / g.n) : undefined,
+        g.n > NEGLIGIBLE_SHARE * partCount && g.dens > 0
+          ? matchedBias(ctx, pop, g.zn / g.n, g.dens / g.n, g.n)
+          : undefined,
       );
       const biases = matched.map((b, i) => {
         if (b !== undefined) return b;

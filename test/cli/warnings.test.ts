@@ -264,13 +264,28 @@ plan:
   test('bias_at_mass_bound is one line per population and bound, naming the redshifts where it held (not one per slice and node)', async () => {
     // Every slice of the dense population above is held at 1e6 Msun: one warning, naming the
     // range of z and the density furthest beyond the bound (it was 38 lines, one per slice and
-    // per node of the totals). A K-band flux-limited survey counted to z = 0.25, whose far
-    // slices hold almost nothing (haloes above 1e16 Msun are too many there), the same at the
-    // other bound (it was 112 lines).
+    // per node of the totals).
     const dense = readFileSync('samples/mass-limited.yaml', 'utf8').replace(
       /^(\s*)log10_phi_star: .*$/m,
       '$1log10_phi_star: 2.6',
     );
+    const r = await runCli(['predict', file('dense.yaml', dense), '--format', 'json']);
+    expect(r.code).toBe(0);
+    const held = (JSON.parse(r.stdout) as Any).warnings.filter((w: Any) => w.code === 'bias_at_mass_bound');
+    expect(held).toHaveLength(1);
+    expect(held[0].message).toMatch(
+      /at z = 0\.3\d* to 1\.\d+ \(as high as [0-9.e+]+ Mpc\^-3 after occupation\) is more than all/,
+    );
+    expect(held[0].message).toMatch(/haloes above 1e\+6 Msun provide, so the bias there is/);
+    expect(r.stderr.split('\n').filter((l) => l.includes('haloes above'))).toHaveLength(1);
+  });
+
+  test('no bias_at_mass_bound where no source is expected: slices and ranges holding under 0.001 sources (failed before)', async () => {
+    // A K-band flux-limited survey counted to z = 0.25, and a GALEX-like FUV count to z = 0.5
+    // (Wyder et al. 2005 function, from memory): their far slices hold 1e-10 sources and less,
+    // fewer than haloes above 1e16 Msun would give, and the warning asked to "give
+    // population.bias" for slices no survey could see a galaxy in (one line each; the K-band one
+    // was 112 lines before they were merged). Their counts are unchanged.
     const bright = `format: 1
 title: a bright K-band limit counted far beyond its last source
 cosmology: {h0: 70, omega_m: 0.3}
@@ -280,27 +295,32 @@ detection: {kind: magnitude, limit: 13.6, band: "2.16 um", beta: -3.4}
 population: {variable: magnitude, rest_wavelength: "2.16 um", phi_star: 3.98e-3, m_star: -22.31, alpha: -1.09}
 slices: {width: 0.005}
 `;
-    for (const [name, text, bound, range] of [
-      [
-        'dense.yaml',
-        dense,
-        '1e\\+6',
-        /at z = 0\.3\d* to 1\.\d+ \(as high as [0-9.e+]+ Mpc\^-3 after occupation\) is more than all/,
-      ],
-      [
-        'bright.yaml',
-        bright,
-        '1e\\+16',
-        /at z = 0\.1\d+ to 0\.2\d+ \(as low as [0-9.e+-]+ Mpc\^-3 after occupation\) is less than the/,
-      ],
+    const fuv = `format: 1
+title: a GALEX-like FUV count
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1
+redshift: {min: 0.001, max: 0.5}
+detection: {kind: magnitude, limit: 19.9, band: 1528, beta: -1.8}
+population: {variable: magnitude, rest_wavelength: 1528, phi_star: 4.07e-3, m_star: -18.04, alpha: -1.22}
+slices: {width: 0.05}
+`;
+    for (const [name, text, far] of [
+      ['bright.yaml', bright, 0.171],
+      ['fuv.yaml', fuv, 0.4],
     ] as const) {
-      const r = await runCli(['predict', file(name, text), '--format', 'json']);
-      expect(r.code).toBe(0);
-      const held = (JSON.parse(r.stdout) as Any).warnings.filter((w: Any) => w.code === 'bias_at_mass_bound');
-      expect(held).toHaveLength(1);
-      expect(held[0].message).toMatch(range);
-      expect(held[0].message).toMatch(new RegExp(`haloes above ${bound} Msun provide, so the bias there is`));
-      expect(r.stderr.split('\n').filter((l) => l.includes('haloes above'))).toHaveLength(1);
+      for (const command of ['predict', 'forecast']) {
+        const r = await runCli([command, file(name, text), '--format', 'json']);
+        expect(r.code, r.stderr).toBe(0);
+        const out = JSON.parse(r.stdout) as Any;
+        expect(out.warnings.filter((w: Any) => w.code === 'bias_at_mass_bound')).toEqual([]);
+        expect(r.stderr).not.toContain('haloes above');
+        if (command === 'predict') {
+          // the slices beyond `far`, where the mass was held, expect under 0.001 sources
+          const beyond = (out.slices as Any[]).filter((s: Any) => s.z_min >= far);
+          expect(beyond.length).toBeGreaterThan(0);
+          for (const s of beyond) expect(s.count).toBeLessThan(1e-3);
+        }
+      }
     }
   });
 
