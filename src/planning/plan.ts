@@ -273,7 +273,9 @@ export async function planDesigns(
   const edge = fixedDesign ? undefined : gridEdgeWarning(assumedBest, exposures, spec);
   const within = nearBest(spec.goal, designs, bestValue);
   const areaOf = (d: Evaluated) => d.tiers.reduce((a, t) => a + t.areaDeg2, 0);
-  const order = within.map((i) => designs[i]!).sort((a, b) => areaOf(a) - areaOf(b));
+  // the best design is within the tolerance of itself: the range holds it even when it was found
+  // off the grid, by the refinement
+  const order = [...within.map((i) => designs[i]!), assumedBest].sort((a, b) => areaOf(a) - areaOf(b));
   const from = order[0] ?? assumedBest;
   const to = order[order.length - 1] ?? assumedBest;
   const contiguous = within.length > 0 && within[within.length - 1]! - within[0]! + 1 === within.length;

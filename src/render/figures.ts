@@ -465,6 +465,21 @@ function binWidthText(p: PredictionView, variable: string): string | undefined {
   return `${w} ${variable === 'apparent_magnitude' ? 'mag' : variable.startsWith('log10_') ? 'dex' : ''}`.trim();
 }
 
+/**
+ * A vega expression labelling a count tick below 1e-3 as 4×10⁻¹⁴ and 1e-8 as 10⁻⁸ (a slice far
+ * beyond the limit holds such counts; the default labels wrote 0.00000000000004), every other
+ * tick as vega does.
+ */
+export const SMALL_COUNT_LABEL = (() => {
+  const digits = `['⁰','¹','²','³','⁴','⁵','⁶','⁷','⁸','⁹']`;
+  const k = 'floor(log(datum.value) / LN10 + 1e-9)';
+  const mantissa = `format(datum.value / pow(10, ${k}), '.2~g')`;
+  const power = `(${k} < 0 ? '⁻' : '') + (abs(${k}) >= 10 ? ${digits}[floor(abs(${k}) / 10)] : '') + ${digits}[abs(${k}) % 10]`;
+  const small = `(${mantissa} === '1' ? '' : ${mantissa} + '×') + '10' + ${power}`;
+  // (a zero beside such ticks is written 0, not 0.000000000; beside ticks of 1e-3 or more as vega writes it)
+  return `datum.value > 0 && datum.value < 1e-3 ? ${small} : datum.value === 0 && length(datum.label) > 5 ? '0' : datum.label`;
+})();
+
 export function histogramsSpec(p: PredictionView, model?: ModelAsWritten): Spec | null {
   const m = model ?? models(p.model)[0];
   const rows = histogramPanelRows(p);
@@ -507,7 +522,11 @@ export function histogramsSpec(p: PredictionView, model?: ModelAsWritten): Spec 
           field: 'count',
           type: 'quantitative',
           title: width ? `count per ${width} bin` : 'count per bin',
-          axis: { tickCount: 4, ...(width ? { title: ['count per', `${width} bin`] } : {}) },
+          axis: {
+            tickCount: 4,
+            labelExpr: SMALL_COUNT_LABEL,
+            ...(width ? { title: ['count per', `${width} bin`] } : {}),
+          },
         },
         y2: { datum: 0 },
       },

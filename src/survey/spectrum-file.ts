@@ -6,7 +6,7 @@
  *
  * A header's second column may say that the rows hold another quantity, which each row turns into
  * f_lambda at its own wavelength (the constant c does not matter):
- *   f_nu, fnu, l_nu, s_nu (optionally with a unit: f_nu_mjy), or a jansky unit (jy, flux_mjy)
+ *   f_nu, fnu, l_nu, s_nu (optionally with a unit: f_nu_mjy, f_nu[mjy]), or a jansky unit (jy, flux_mjy, flux[mjy])
  *                                             -> f_lambda = f_nu / lambda^2
  *   nu_f_nu, nufnu, nu_l_nu, lambda_f_lambda  -> f_lambda = (nu f_nu) / lambda
  *   a name starting with log                  -> refused (the rows must be linear)
@@ -23,8 +23,9 @@ import { readWavelengthTable } from './transmission-file.js';
 export function spectrumColumn(header: string | undefined): 'f_lambda' | 'f_nu' | 'nu_f_nu' | 'log' {
   if (header === undefined) return 'f_lambda';
   if (header.startsWith('log')) return 'log';
-  if (/^(nu_?[fl]_?nu|lambda_?[fl]_?lambda|lam_?[fl]_?lam)(_.*)?$/.test(header)) return 'nu_f_nu';
-  if (/^[fls]_?nu(_.*)?$/.test(header) || /(^|_)[muµn]?jy$/.test(header)) return 'f_nu';
+  // a unit may follow the name: f_nu_mjy, f_nu[mjy], f_nu(mjy), f_nu/mjy
+  if (/^(nu_?[fl]_?nu|lambda_?[fl]_?lambda|lam_?[fl]_?lam)([_[(/].*)?$/.test(header)) return 'nu_f_nu';
+  if (/^[fls]_?nu([_[(/].*)?$/.test(header) || /(^|[_[(/])[muµn]?jy[\])]?$/.test(header)) return 'f_nu';
   return 'f_lambda';
 }
 

@@ -81,6 +81,17 @@ describe('an optimum at the budget is not called flat or sharp', () => {
     );
   });
 
+  test('the near-best range holds the best design, also when the refinement found it off the grid', async () => {
+    // The best (199.5 h) lies beyond the grid's deepest feasible exposure (188 h); the range gave
+    // that grid design as both ends, 16.49 to 16.49 AB, leaving out the best's 16.52 AB.
+    const p = await submmPlan('');
+    expect(p.designs.some((d) => d.limit === p.best.limit)).toBe(false);
+    const { from, to } = p.near_best;
+    expect(from.area_deg2).toBeLessThanOrEqual(p.best.area_deg2);
+    expect(to.area_deg2).toBeGreaterThanOrEqual(p.best.area_deg2);
+    expect([from.limit, to.limit]).toContain(p.best.limit);
+  });
+
   test('with two tiers a layer taking its share in one pointing is not at an edge (the shares are searched): the optimum is judged', async () => {
     const p = await submmPlan('  tiers: 2\n');
     expect(p.notes.some((n) => /A layer of the best design spends its share/.test(n))).toBe(true);

@@ -496,6 +496,20 @@ describe('figures for a proposal', () => {
     expect(starts[1]).toBeCloseTo(-16.5, 9);
   });
 
+  test('histogram counts below 1e-3 are labelled 4×10⁻¹⁴, not 0.00000000000004 (failed before)', async () => {
+    // a slice far beyond the limit (a GALEX-like FUV count at z = 0.45-0.5 holds 4e-14 sources)
+    const p = demoPrediction({ slices: 2 });
+    const h = p.slices[1]!.histogram!;
+    h.counts = h.counts.map((c) => (c / h.counts[0]!) * 4e-14);
+    const svg = (await histogramsFigure(p))!.svg;
+    const labels = [...svg.matchAll(/<text[^>]*>([^<]*)<\/text>/g)].map((m) => m[1]!);
+    expect(labels).toContain('4×10⁻¹⁴');
+    expect(labels).toContain('10⁻¹⁴');
+    expect(labels.some((l) => /^0\.0{5,}/.test(l))).toBe(false);
+    // the first slice's counts (hundreds) keep vega's own labels
+    expect(labels).toContain('200');
+  });
+
   test('luminosity-function ticks are powers of ten written 10⁻ⁿ (failed before: 1e-2)', async () => {
     const fig = (await luminosityFunctionFigure(demo))!;
     expect(fig.svg).toMatch(/>10⁻[⁰¹²³⁴⁵⁶⁷⁸⁹]+</);

@@ -69,6 +69,8 @@ describe('spectrum files in f_nu and nu f_nu', () => {
       write('flat-fnu.csv', 'wavelength_um, f_nu_mjy', () => 2.5),
       write('flat-snu.csv', 'wavelength_um, S_nu', () => 1),
       write('flat-jy.csv', 'wavelength_um, flux_jy', () => 0.3),
+      write('flat-bracket.csv', 'wavelength_um, f_nu[mJy]', () => 0.7),
+      write('flat-flux-bracket.csv', 'wavelength_um, flux(mJy)', () => 0.7),
       write('flat-nufnu.csv', 'wavelength_um, nu_f_nu', (um) => 1 / um),
     ]) {
       const p = run(file);
