@@ -37,7 +37,11 @@ export async function run(argv: readonly string[], io: CliIO): Promise<number> {
     def.configure(cmd);
     refuseRepeatedOptions(cmd);
     cmd.action(async (...args: unknown[]) => {
-      exitCode = await def.action(cmd, args, io);
+      try {
+        exitCode = await def.action(cmd, args, io);
+      } catch (err) {
+        throw withCommand(def.name, err);
+      }
     });
   }
   try {
@@ -64,11 +68,22 @@ function refuseRepeatedOptions(cmd: Command): void {
       if (seen.has(flag)) {
         const list =
           flag === '--target' ? ' (several targets as one list: --target alpha=0.05,log10_phi_star=0.1)' : '';
-        throw inputError('bad_option', '', flag, 'is given twice', `give it once${list}`);
+        throw inputError('bad_option', '', `${cmd.name()} ${flag}`, 'is given twice', `give it once${list}`);
       }
       seen.add(flag);
     });
   }
+}
+
+/**
+ * A refusal of one of the command's options ("--draws: ...", thrown by the command's own checks
+ * or the library's checks of flags) in the form of commander's refusals (src/cli/refusals.ts):
+ * "predict --draws: ...", naming the command. Other errors pass as they are.
+ */
+function withCommand(command: string, err: unknown): unknown {
+  if (!(err instanceof SurveyError) || err.file !== '' || !err.keyPath.startsWith('--')) return err;
+  if (!err.message.startsWith(`${err.keyPath}: `)) return err;
+  return new SurveyError(err.code, '', `${command} ${err.keyPath}`, `${command} ${err.message}`);
 }
 
 export function handleError(err: unknown, io: CliIO): number {

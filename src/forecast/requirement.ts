@@ -204,7 +204,13 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
   const limitOf = (delta: number) => deeperSurvey(survey, population, delta).limit;
   const lv = limitVariable(survey, population);
   const limitText = (x: number) =>
-    lv === 'line_flux_cgs' ? `${fmt(x)} erg/s/cm^2` : lv === 'log10_quantity' ? `log10 = ${fmt(x)}` : `${fmt(x)} mag`;
+    lv === 'line_flux_cgs'
+      ? `${fmt(x)} erg/s/cm^2`
+      : lv === 'log10_quantity'
+        ? `log10 = ${fmt(x)}`
+        : lv === 'absolute_magnitude'
+          ? `M = ${fmt(x)}`
+          : `${fmt(x)} AB`;
 
   const byParameter: Record<string, RequirementEntry> = {};
   for (const [name, target] of Object.entries(targets)) {

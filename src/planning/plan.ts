@@ -281,7 +281,7 @@ export async function planDesigns(
   const contiguous = within.length > 0 && within[within.length - 1]! - within[0]! + 1 === within.length;
   const limitedByBudget = !fixedDesign && assumedBest.tiers.some((_, i) => budgetLimited(assumedBest, i, spec));
   if (designs.length > 1 && within.length > 0) {
-    const head = `${within.length} of ${designs.length} designs are within ${NEAR_BEST_TOLERANCE * 100} % of the best goal value${contiguous ? '' : ' (not one contiguous run of the grid)'}`;
+    const head = `${within.length} of ${designs.length} designs ${within.length === 1 ? 'is' : 'are'} within ${NEAR_BEST_TOLERANCE * 100} % of the best goal value${contiguous ? '' : ' (not one contiguous run of the grid)'}`;
     // At the grid's edge, or at the budget's (one pointing taking all of it), the goal may keep
     // improving beyond it: how flat the optimum is cannot be told. (A layer of several taking its
     // share in one pointing is not at such an edge: the search moves the shares.)
@@ -304,7 +304,7 @@ export async function planDesigns(
     const excluded = designs.filter((d) => d.goal !== undefined && !d.feasible).length;
     if (excluded > 0)
       notes.push(
-        `${excluded} designs expect fewer than minimum_count (${spec.minimumCount}) sources and cannot be the best.`,
+        `${excluded} design${excluded === 1 ? '' : 's'} ${excluded === 1 ? 'expects' : 'expect'} fewer than minimum_count (${spec.minimumCount}) sources and cannot be the best.`,
       );
   }
   if (designs.some((d) => d.tiers.some((t) => t.areaDeg2 >= model.maxPointings * spec.fieldOfViewDeg2 - 1e-9))) {

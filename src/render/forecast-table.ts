@@ -73,16 +73,19 @@ export function forecastTable(f: Forecast): string {
   }
   const r = f.requirement;
   if (r) {
-    const unit =
+    // the limit as compare and plan write it: AB for an apparent magnitude, M = for an absolute one
+    const limitWords = (x: number): string =>
       r.limit_variable === 'line_flux_cgs'
-        ? ' erg/s/cm^2'
+        ? `${sig(x, 4)} erg/s/cm^2`
         : r.limit_variable === 'log10_quantity'
-          ? ' (log10 quantity)'
-          : ' mag';
+          ? `${sig(x, 4)} (log10 quantity)`
+          : r.limit_variable === 'absolute_magnitude'
+            ? `M = ${sig(x, 4)}`
+            : `${sig(x, 4)} AB`;
     lines.push('To reach the target:');
     for (const [n, e] of Object.entries(r.by_parameter)) {
       const area = e.area_deg2 !== null ? `${sig(e.area_deg2, 3)} deg^2 at this depth` : 'no area at this depth';
-      const limit = e.limit !== null ? `a limit of ${sig(e.limit, 4)}${unit} at this area` : 'no limit at this area';
+      const limit = e.limit !== null ? `a limit of ${limitWords(e.limit)} at this area` : 'no limit at this area';
       lines.push(`  sigma(${n}) = ${sig(e.target)}: ${area}; ${limit}`);
       for (const note of e.notes) lines.push(`    ${note}`);
     }
@@ -98,8 +101,7 @@ export function forecastTable(f: Forecast): string {
         lines.push(`  ${label}:`);
         for (const [n, e] of Object.entries(at.by_parameter)) {
           const area = e.area_deg2 !== null ? `${sig(e.area_deg2, 3)} deg^2 at this depth` : 'no area at this depth';
-          const limit =
-            e.limit !== null ? `a limit of ${sig(e.limit, 4)}${unit} at this area` : 'no limit at this area';
+          const limit = e.limit !== null ? `a limit of ${limitWords(e.limit)} at this area` : 'no limit at this area';
           lines.push(`    sigma(${n}) = ${sig(e.target)}: ${area}; ${limit}`);
           for (const note of e.notes) lines.push(`      ${note}`);
         }

@@ -106,7 +106,7 @@ export function planTable(p: Plan): string {
   lines.push(t.toString());
   const nb = p.near_best;
   lines.push(
-    `Within ${nb.tolerance * 100} % of the best: ${nb.designs_within} designs, from ${sig(nb.from.area_deg2, 4)} deg^2 (${limitWord(nb.from)} ${designLimits(p, nb.from)}) to ${sig(nb.to.area_deg2, 4)} deg^2 (${limitWord(nb.to)} ${designLimits(p, nb.to)})${nb.contiguous ? '' : ' (not contiguous)'}`,
+    `Within ${nb.tolerance * 100} % of the best: ${nb.designs_within} design${nb.designs_within === 1 ? '' : 's'}, from ${sig(nb.from.area_deg2, 4)} deg^2 (${limitWord(nb.from)} ${designLimits(p, nb.from)}) to ${sig(nb.to.area_deg2, 4)} deg^2 (${limitWord(nb.to)} ${designLimits(p, nb.to)})${nb.contiguous ? '' : ' (not contiguous)'}`,
   );
   // A sample of the designs (every k-th, at most 20 rows; the CSV and JSON hold all of them).
   const step = Math.max(1, Math.ceil(p.designs.length / 20));

@@ -16,7 +16,7 @@ import { schemaError } from './schema.js';
 import { lineNameHint } from './line-names.js';
 import { isPlainNumberString, parseQuantity, plainNumberText } from './units.js';
 import { FULL_SKY_DEG2, MIN_AREA_DEG2, SR_PER_DEG2 } from '../model/sky.js';
-import { checkParam, fmt, makeZParam, mapParam, samplePoints, type ZTable } from './zparam.js';
+import { checkParam, fmt, makeZParam, mapParam, paramExtremes, type ZTable } from './zparam.js';
 import { readTransmissionFile } from './transmission-file.js';
 import { parseModelUncertainty } from './model-uncertainty.js';
 import type { ModelParameter } from '../model/model-uncertainty.js';
@@ -1352,22 +1352,18 @@ function parseSfrConversion(p: RawPopulation, path: string, file: string): SfrCo
 /**
  * A threshold limit that varies with z is counted piecewise between the redshifts where it
  * crosses a histogram bin edge: refuse a limit that crosses more edges than a slice may have bins.
+ * An expression's least and greatest values are found at every z of the window (to 1e-6 of a bin),
+ * not only at the sampled points, so a narrow spike cannot pass the cap.
  */
 function checkLimitSpan(limit: ZParam, w: Window, width: number, file: string): void {
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (const z of samplePoints(w, limit)) {
-    const v = limit.at(z);
-    lo = Math.min(lo, v);
-    hi = Math.max(hi, v);
-  }
-  const crossings = (hi - lo) / width;
+  const { min, minZ, max, maxZ } = paramExtremes(limit, w, 1e-6 * width);
+  const crossings = (max - min) / width;
   if (crossings > CAPS.histogramBins) {
     throw inputError(
       'too_large',
       file,
       'detection.limit',
-      `changes by ${fmt(hi - lo)} over the redshift window, ${Math.ceil(crossings)} histogram bins of ${fmt(width)}, more than the ${CAPS.histogramBins} a slice may have`,
+      `changes by ${fmt(max - min)} over the redshift window (from ${fmt(min)} at z = ${fmt(minZ)} to ${fmt(max)} at z = ${fmt(maxZ)}), ${Math.ceil(crossings)} histogram bins of ${fmt(width)}, more than the ${CAPS.histogramBins} a slice may have`,
       'check the limit, or give a wider histogram.width',
     );
   }

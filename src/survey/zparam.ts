@@ -207,6 +207,58 @@ function unprovenPoint(
 }
 
 /**
+ * The least and greatest values of a parameter over a window, with where they are: at the table's
+ * rows and 64 points, and for an expression at every z of the window: a piece of the window whose
+ * interval bounds could hold a value more than `tol` beyond the extremes found so far is looked at
+ * (its middle's value taken) and split in halves, so a narrow spike between sampled points is found.
+ * What is returned is then within `tol` of the true extremes (a piece narrower than 2^-40 of the
+ * window's width or upper end, or any beyond MAX_INTERVALS per extreme, is taken at its middle
+ * only, as in `unprovenPoint`). The values must be finite over the window (`checkParam` first).
+ */
+export function paramExtremes(
+  p: ZParam,
+  window: { min: number; max: number },
+  tol: number,
+): { min: number; minZ: number; max: number; maxZ: number } {
+  let min = Infinity;
+  let minZ = window.min;
+  let max = -Infinity;
+  let maxZ = window.min;
+  for (const z of samplePoints(window, p)) {
+    const v = p.at(z);
+    if (v < min) [min, minZ] = [v, z];
+    if (v > max) [max, maxZ] = [v, z];
+  }
+  const bounds = expressionBounds.get(p);
+  if (!bounds) return { min, minZ, max, maxZ };
+  const minWidth = Math.max(window.max - window.min, Math.abs(window.max)) * 2 ** -40;
+  // the greatest of sign * value: sign 1 for the maximum, -1 for the minimum
+  for (const sign of [1, -1]) {
+    let best = sign > 0 ? max : -min;
+    let bestZ = sign > 0 ? maxZ : minZ;
+    const above = (a: number, b: number): number => {
+      const [lo, hi] = bounds(a, b);
+      // undefined bounds (NaN) are never below what was found: the piece is looked at
+      return sign > 0 ? hi : -lo;
+    };
+    const stack: [number, number][] = [[window.min, window.max]];
+    let budget = MAX_INTERVALS;
+    while (stack.length > 0) {
+      const [a, b] = stack.pop()!;
+      if (above(a, b) <= best + tol) continue;
+      const m = a + (b - a) / 2;
+      const v = sign * p.at(m);
+      if (v > best) [best, bestZ] = [v, m];
+      if (b - a <= minWidth || --budget <= 0) continue;
+      stack.push([m, b], [a, m]);
+    }
+    if (sign > 0) [max, maxZ] = [best, bestZ];
+    else [min, minZ] = [-best, bestZ];
+  }
+  return { min, minZ, max, maxZ };
+}
+
+/**
  * Check a parameter over a window: finite everywhere (bad_expression for an expression,
  * not_finite otherwise) and, when `positive`, > 0 (out_of_range). Every parameter is checked at the
  * table's rows and 64 points (a table, linear between its rows, is then checked everywhere); an

@@ -20,6 +20,15 @@ function refused(r: Captured, name: string): void {
   expect(r.stderr).not.toContain('internal failure');
 }
 
+/**
+ * A refusal of an option in the form of the parser's own refusals (src/cli/refusals.ts), which
+ * name the command: "skytally: report --format: ...".
+ */
+function refusedOption(r: Captured, command: string, option: string): void {
+  refused(r, option);
+  expect(r.stderr).toMatch(new RegExp(`^skytally: ${command} ${option}: `));
+}
+
 function finiteEverywhere(v: unknown): boolean {
   if (typeof v === 'number') return Number.isFinite(v);
   if (Array.isArray(v)) return v.every(finiteEverywhere);
@@ -53,8 +62,15 @@ describe('numeric options are decimal numbers, strictly', () => {
     [['distances', '--z', '1', '--h0', '0x46'], '--h0'],
     [['distances', '--z', '1', '--omega-m', ''], '--omega-m'],
     [['clustering', '--z', '1', '--sigma8', '0b1'], '--sigma8'],
+    [['predict', 'samples/halpha-narrowband.yaml', '--draws', '0'], '--draws'],
+    [['report', 'samples/halpha-narrowband.yaml', '--draws', '1.5', '--format', 'json'], '--draws'],
+    [['forecast', 'samples/halpha-narrowband.yaml', '--target', 'beta=0.1'], '--target'],
+    [['forecast', 'samples/halpha-narrowband.yaml', '--model-draws', '0'], '--model-draws'],
+    [['predict', 'samples/halpha-narrowband.yaml', '--out', ''], '--out'],
+    [['predict', 'samples/halpha-narrowband.yaml', '--figures', ''], '--figures'],
   ])('%j', async (argv, name) => {
-    refused(await runCli(argv), name);
+    // the command's own checks name the command as the parser's refusals do (failed before: "skytally: --seed: ...")
+    refusedOption(await runCli(argv), argv[0]!, name);
   });
 });
 
@@ -80,6 +96,7 @@ describe('an option that takes a value is given once', () => {
   ])('%j', async (argv, name) => {
     const r = await runCli(argv);
     refused(r, `${name}: is given twice; give it once`);
+    refusedOption(r, argv[0]!, name);
   });
 
   test('several targets go in one list, and a flag given twice is harmless', async () => {

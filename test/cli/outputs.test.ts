@@ -321,12 +321,12 @@ describe('HTML is not printed on a terminal', () => {
   test.each([
     ['explore', ['explore', 'samples/halpha-narrowband.yaml']],
     ['report', ['report', 'samples/halpha-narrowband.yaml']],
-  ])('%s without --out on a terminal: one sentence naming --out, exit 2, nothing printed', async (_, argv) => {
+  ])('%s without --out on a terminal: one sentence naming --out, exit 2, nothing printed', async (command, argv) => {
     const r = await runOnTerminal(argv);
     expect(r.code).toBe(2);
     expect(r.stdout).toBe('');
     expect(r.stderr.trim().split('\n')).toHaveLength(1);
-    expect(r.stderr).toMatch(/^skytally: --out: .*terminal.*give --out FILE\.html/);
+    expect(r.stderr).toMatch(new RegExp(`^skytally: ${command} --out: .*terminal.*give --out FILE\\.html`));
   });
   test('report --format json on a terminal is printed (it is text, not a page)', async () => {
     const r = await runOnTerminal(['report', 'samples/halpha-narrowband.yaml', '--format', 'json']);

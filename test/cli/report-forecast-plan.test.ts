@@ -354,8 +354,8 @@ describe('report --mocks N --seed S', () => {
     const f = await runCli(['forecast', 'samples/halpha-narrowband.yaml', opt, value]);
     expect(r.code).toBe(2);
     expect(f.code).toBe(2);
-    expect(r.stderr).toBe(f.stderr);
-    expect(r.stderr).toContain(opt);
+    expect(r.stderr).toBe(f.stderr.replace(/^skytally: forecast /, 'skytally: report '));
+    expect(r.stderr).toContain(`skytally: report ${opt}: `);
     expect(existsSync(out)).toBe(false);
   });
 });

@@ -14,6 +14,8 @@ import type { Survey } from '../../src/model/survey.js';
 import { surveyFromSpec, type SurveySpec } from './helpers.js';
 import { parseSurveyObject } from '../../src/survey/index.js';
 import { forecastTable } from '../../src/render/forecast-table.js';
+import { sig } from '../../src/render/format.js';
+import { loadSurveyFile } from '../../src/index.js';
 
 const ref = JSON.parse(readFileSync(new URL('../reference/fisher.json', import.meta.url), 'utf8')) as {
   cases: { survey: SurveySpec }[];
@@ -139,5 +141,16 @@ describe('requirement with a completeness curve: the limit found moves the curve
     const rh = (await forecast(hard, { cosmicVariance: false, targets: { alpha: h0.fisher.sigma.alpha! * 0.5 } }))
       .requirement!;
     expect(rh.notes.some((n) => n.includes('completeness'))).toBe(false);
+  });
+
+  test('the table writes a magnitude limit to reach as compare and plan do, "AB" (failed before: "mag", which a system: vega file could read as Vega; the limit is AB: docs/outputs.md)', async () => {
+    const s = loadSurveyFile('samples/deep-continuum.yaml');
+    const f = await forecast(s, { cosmicVariance: false, targets: { alpha: 0.05 } });
+    const limit = f.requirement!.by_parameter.alpha!.limit!;
+    const line = forecastTable(f)
+      .split('\n')
+      .find((l) => l.includes('sigma(alpha) = 0.05'))!;
+    expect(line).toContain(`a limit of ${sig(limit, 4)} AB at this area`);
+    expect(line).not.toContain(' mag ');
   });
 });

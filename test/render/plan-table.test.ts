@@ -94,4 +94,15 @@ describe('plan table: the designs within 5 % of the best', () => {
       .find((l) => l.startsWith('Within'))!;
     expect(line).toMatch(/\(limit [0-9.]+ AB\) to [0-9.]+ deg\^2 \(limit [0-9.]+ AB\)/);
   });
+
+  test('one design within 5 % of the best is "1 design", not "1 designs" (failed before; common practice of English)', async () => {
+    const p = await plan(loadSurveyFile('samples/plan-uv-deep-wide.yaml'));
+    const one = { ...p, near_best: { ...p.near_best, designs_within: 1 } };
+    const line = planTable(one)
+      .split('\n')
+      .find((l) => l.startsWith('Within'))!;
+    expect(line).toContain(': 1 design, from');
+    expect(planTable(p)).toContain(`: ${p.near_best.designs_within} designs, from`);
+    expect(p.near_best.designs_within).toBeGreaterThan(1);
+  });
 });

@@ -345,6 +345,13 @@ describe('every size has a stated cap', () => {
       'too_large',
       'detection.limit',
     ],
+    [
+      'a threshold limit whose narrow spike between the sampled points crosses more histogram bins than a slice may have',
+      THRESHOLD_YAML,
+      { 'detection.limit': '9.5 + 40 * exp(-((z - 1.0123) / 0.0001)^2)', 'histogram.width': 0.01 },
+      'too_large',
+      'detection.limit',
+    ],
     ['a quantity string of 200 characters', LINE_YAML, { area: `1 ${'deg '.repeat(50)}` }, 'bad_unit', 'area'],
   ])('%s', (_name, yaml, edits, code, keyPath) => {
     const obj = parse(yaml) as Record<string, unknown>;
@@ -355,6 +362,28 @@ describe('every size has a stated cap', () => {
     const e = errorOf(() => parseSurveyObject(obj, FILE));
     oneSentence(e);
     expect([e.code, e.keyPath]).toEqual([code, keyPath]);
+  });
+
+  test('a threshold limit spiking between the sampled points: the cap counts the spike, found at its top (the greatest value of a gaussian is its height, common practice)', () => {
+    const spike = (height: number) => {
+      const obj = parse(THRESHOLD_YAML) as Record<string, unknown>;
+      setPath(obj, 'detection.limit', `9.5 + ${height} * exp(-((z - 1.0123) / 0.0001)^2)`);
+      setPath(obj, 'histogram.width', 0.01);
+      return obj;
+    };
+    // 40 above 9.5 is 4,000 bins of 0.01; the 64 sampled points (0.5 + k/63) all lie more than 0.004,
+    // 40 widths, from z = 1.0123, where the spike is below 1e-300
+    const e = errorOf(() => parseSurveyObject(spike(40), FILE));
+    expect(e.message).toContain('changes by 40 over the redshift window (from 9.5 at z = 0.5 to 49.5 at z = 1.0123)');
+    expect(e.message).toContain('4000 histogram bins of 0.01');
+    // 9.99 above is 999 bins: within the cap, accepted
+    expect(() => parseSurveyObject(spike(9.99), FILE)).not.toThrow();
+    // a dip: the least value found at its bottom
+    const dip = spike(40);
+    setPath(dip, 'detection.limit', '49.5 - 40 * exp(-((z - 1.0123) / 0.0001)^2)');
+    expect(errorOf(() => parseSurveyObject(dip, FILE)).message).toContain(
+      '(from 9.5 at z = 1.0123 to 49.5 at z = 0.5)',
+    );
   });
 
   test(`the narrowest slice (${MIN_SLICE_WIDTH}) and the last remainder: a remainder narrower than that joins the slice before`, () => {

@@ -3,7 +3,8 @@
 
 Written from the page's sections "Intergalactic attenuation (igm)" (T_IGM with its line table and
 photoelectric term, the 1e-30 floor, the photon-weighted band average over a band_file), "magnitude"
-(K(z) with -2.5 log10 T_IGM), "Cosmology" (flat, t_cmb 0: no radiation), the logistic completeness
+(K(z) with -2.5 log10 T_IGM), "Spectra, bands and magnitude systems" (K(z) by synthetic photometry
+of a spectrum file through a band {center, fwhm, profile}, T_IGM inside the band integral), "Cosmology" (flat, t_cmb 0: no radiation), the logistic completeness
 table, redshift_selection (S(z) multiplies the counts; a table is linear in z between rows, end
 values held outside) and "Parameters that vary with redshift"; no line of skytally's code was read
 for it. Float arithmetic (numpy), integrals by scipy.integrate.quad:
@@ -15,6 +16,12 @@ for it. Float arithmetic (numpy), integrals by scipy.integrate.quad:
   table: N = area_sr int dV/dz/dOmega S(z) int_{u_lim}^inf phi* u^alpha e^-u c(m) du dz, with
   m = M* + K(z) - 2.5 log10 u, u_lim where m = limit; quad over ln u inside (epsrel 1e-12) and over
   z outside (epsrel 1e-11), split at the slice edges, the table's rows and the transmission's jump.
+- sed: the slices of a dropout field counted through a rest-frame spectrum (sed, from
+  "Spectra, bands and magnitude systems": K(z) by synthetic photometry through a top-hat band,
+  T_IGM(lambda, z) inside the band integral) whose band meets Lyman alpha and beta inside its window:
+  the same count with that K(z), quad over the band split at the spectrum's rows and the redshifted
+  lines (epsrel 1e-13), over z split at the slice edges and where a line or a row reaches an end of
+  the band (epsrel 1e-11).
 - mean_transmission: 1 - D_A, the mean of T_IGM over rest 1050-1170 Angstrom at z_em = 3 and 4
   (Oke & Korycansky 1982's D_A, as Madau 1995 uses it), by quad.
 
@@ -154,6 +161,108 @@ def dropout_slices():
     return out
 
 
+# A magnitude survey whose k-correction is synthetic photometry of a spectrum (docs/survey-file.md,
+# "Spectra, bands and magnitude systems": sed, a top-hat band {center, fwhm}, M* monochromatic AB at
+# rest_wavelength) with igm: madau1995, T_IGM(lambda, z) multiplying the redshifted spectrum inside the
+# band integral. Lyman alpha (1216 (1 + z)) enters the band 6400-6600 Angstrom at z = 4.263 and
+# covers it from z = 4.428; Lyman beta enters at z = 5.238: the band integral has a kink at each, inside
+# a slice (a band this narrow makes them sharp: a count that does not cut its quadrature there is
+# 1e-6 to 5e-6 off in those slices). The spectrum file is an input (test/reference/igm-docs/).
+SED_FILE = "test/reference/igm-docs/lyman-sed.csv"
+SED_SURVEY = """title: Invented dropout field counted through a spectrum, its band meeting Lyman alpha and beta
+cosmology: {h0: 70, omega_m: 0.3}
+area: "300 arcmin^2"
+redshift: {min: 3.8, max: 5.4}
+detection:
+  kind: magnitude
+  limit: 27.0
+  band: {center: "6500 Angstrom", fwhm: "200 Angstrom", profile: tophat}
+  sed: {file: lyman-sed.csv}
+  igm: madau1995
+  completeness: {model: logistic, half: 26.6, width: 0.2}
+population:
+  name: UV-selected galaxies
+  variable: magnitude
+  rest_wavelength: 1600
+  phi_star: 1.3e-3
+  m_star: "-20.95 + 0.1*(z - 4)"
+  alpha: -1.7
+slices: {width: 0.2}
+"""
+
+
+def read_spectrum(path):
+    rows = []
+    header = False
+    for line in open(path):
+        line = line.strip()
+        if not line or line.startswith("#"):
+            continue
+        if not header:
+            header = True
+            assert line == "wavelength_angstrom,f_lambda", line
+            continue
+        w, f = line.split(",")
+        rows.append((float(w), float(f)))
+    return [r[0] for r in rows], [r[1] for r in rows]
+
+
+def sed_slices():
+    doc = yaml.safe_load(SED_SURVEY)
+    h0, om = doc["cosmology"]["h0"], doc["cosmology"]["omega_m"]
+    e = lambda z: math.sqrt(om * (1 + z) ** 3 + 1 - om)
+    dh = C_KMS / h0
+    dc = lambda z: dh * integrate.quad(lambda x: 1 / e(x), 0, z, epsabs=0, epsrel=1e-13)[0]
+    area_sr = 300 / 3600 * (math.pi / 180) ** 2
+    det = doc["detection"]
+    lim = det["limit"]
+    center, fwhm = 6500.0, 200.0
+    b0, b1 = center - fwhm / 2, center + fwhm / 2
+    half, width = det["completeness"]["half"], det["completeness"]["width"]
+    pop = doc["population"]
+    phi, alpha, rest = pop["phi_star"], pop["alpha"], pop["rest_wavelength"]
+    m_star = lambda z: -20.95 + 0.1 * (z - 4)
+    ws, fs = read_spectrum(SED_FILE)
+    f = lambda l: float(np.interp(l, ws, fs))
+    jumps = [lj for lj, _ in LINES] + [LIMIT]
+    # the rest-frame side: int l f Q dl / int Q / l dl = lambda_rest^2 f(lambda_rest); int R / l dl = ln(b1 / b0)
+    rest_term = rest**2 * f(rest) * math.log(b1 / b0)
+
+    def k(z):
+        # K(z) = -2.5 log10[int l f(l / (1+z)) T_IGM(l, z) R(l) dl / ((1+z) lambda_rest^2 f(lambda_rest) int R / l dl)],
+        # R = 1 on the band; quad split where a spectrum row or a Lyman line (or 912) falls, redshifted
+        inner = [w * (1 + z) for w in ws] + [lj * (1 + z) for lj in jumps]
+        cuts = sorted({b0, b1} | {x for x in inner if b0 < x < b1})
+        g = lambda l: l * f(l / (1 + z)) * transmission(l, z)
+        num = sum(integrate.quad(g, a, b, epsabs=0, epsrel=1e-13, limit=200)[0] for a, b in zip(cuts[:-1], cuts[1:]))
+        dl_pc = (1 + z) * dc(z) * 1e6
+        return 5 * math.log10(dl_pc / 10) - 2.5 * math.log10(num / ((1 + z) * rest_term))
+
+    def density(z):
+        kz = k(z)
+        ms = m_star(z)
+        t_lim = math.log(10 ** (0.4 * (ms + kz - lim)))
+        c = lambda t: 1 / (1 + math.exp((ms + kz - 2.5 * t / math.log(10) - half) / width))
+        g = lambda t: phi * math.exp((alpha + 1) * t - math.exp(t)) * c(t)
+        if t_lim >= math.log(60.0):
+            return 0.0
+        return integrate.quad(g, t_lim, math.log(60.0), epsabs=0, epsrel=1e-12, limit=200)[0]
+
+    def integrand(z):
+        return area_sr * dh * dc(z) ** 2 / e(z) * density(z)
+
+    lo, hi, step = 3.8, 5.4, 0.2
+    edges = [round(lo + step * i, 10) for i in range(int(round((hi - lo) / step)) + 1)]
+    # where a Lyman line (or 912) or a spectrum row, redshifted, reaches an end of the band
+    inner = [b / lj - 1 for lj in jumps + ws for b in (b0, b1)]
+    out = []
+    for a, b in zip(edges[:-1], edges[1:]):
+        cuts = sorted({a, b} | {x for x in inner if a < x < b})
+        n = sum(integrate.quad(integrand, p, q, epsabs=0, epsrel=1e-11, limit=200)[0] for p, q in zip(cuts[:-1], cuts[1:]))
+        out.append({"z_min": a, "z_max": b, "count": n})
+    return out
+
+
 def mean_transmission(z):
     f = lambda r: transmission(r * (1 + z), z)
     return integrate.quad(f, 1050, 1170, epsabs=0, epsrel=1e-12, limit=200)[0] / 120
@@ -164,7 +273,7 @@ out = {
         "command": "/usr/bin/python3 test/reference/generate/igm_docs.py > test/reference/igm_docs.json",
         "libraries": {"python": sys.version.split()[0], "numpy": np.__version__, "scipy": scipy.__version__},
         "date": datetime.date.today().isoformat(),
-        "what": "Madau 1995 T_IGM, band averages, a dropout count and 1 - D_A, from docs/survey-file.md's text only",
+        "what": "Madau 1995 T_IGM, band averages, a dropout count (a power law, and a spectrum through a band) and 1 - D_A, from docs/survey-file.md's text only",
     },
     "points": [{"lambda_obs": l, "z": z, "transmission": transmission(l, z)} for l, z in POINTS],
     "band_averages": [
@@ -172,6 +281,7 @@ out = {
         for name, rows in BANDS.items() for z in [3.6, 4.2, 4.8, 5.4, 6.2] for beta in [-2.5, -1.0]
     ],
     "dropout": {"survey": DROPOUT, "slices": dropout_slices()},
+    "sed": {"survey": SED_SURVEY, "spectrum": SED_FILE, "slices": sed_slices()},
     "mean_transmission": [{"z": z, "one_minus_d_a": mean_transmission(z)} for z in [3.0, 4.0]],
 }
 json.dump(out, sys.stdout, indent=1)
