@@ -78,12 +78,17 @@ function refuseRepeatedOptions(cmd: Command): void {
 /**
  * A refusal of one of the command's options ("--draws: ...", thrown by the command's own checks
  * or the library's checks of flags) in the form of commander's refusals (src/cli/refusals.ts):
- * "predict --draws: ...", naming the command. Other errors pass as they are.
+ * "predict --draws: ...", naming the command; one about what a file holds ("FILE: --population:
+ * there is no population named ...") names the file after the option ("compare --population:
+ * FILE: ..."). Other errors pass as they are.
  */
 function withCommand(command: string, err: unknown): unknown {
-  if (!(err instanceof SurveyError) || err.file !== '' || !err.keyPath.startsWith('--')) return err;
-  if (!err.message.startsWith(`${err.keyPath}: `)) return err;
-  return new SurveyError(err.code, '', `${command} ${err.keyPath}`, `${command} ${err.message}`);
+  if (!(err instanceof SurveyError) || !err.keyPath.startsWith('--')) return err;
+  const where = printable(err.file === '' ? `${err.keyPath}: ` : `${err.file}: ${err.keyPath}: `);
+  if (!err.message.startsWith(where)) return err;
+  const file = err.file === '' ? '' : `${printable(err.file)}: `;
+  const what = err.message.slice(where.length);
+  return new SurveyError(err.code, err.file, `${command} ${err.keyPath}`, `${command} ${err.keyPath}: ${file}${what}`);
 }
 
 export function handleError(err: unknown, io: CliIO): number {

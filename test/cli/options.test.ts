@@ -74,6 +74,22 @@ describe('numeric options are decimal numbers, strictly', () => {
   });
 });
 
+describe('an option refused for what a file holds names the command, the option, then the file', () => {
+  test.each([
+    [
+      ['forecast', 'samples/halpha-narrowband.yaml', '--model-draws', '10'],
+      '--model-draws',
+      'has no model_uncertainty',
+    ],
+    [['forecast', 'samples/halpha-narrowband.yaml', '--population', 'nope'], '--population', 'no population named'],
+  ])('%j', async (argv, name, what) => {
+    const r = await runCli(argv);
+    refusedOption(r, argv[0]!, name);
+    // failed before: "skytally: /path/halpha-narrowband.yaml: --model-draws: ..."
+    expect(r.stderr).toMatch(new RegExp(`^skytally: ${argv[0]} ${name}: \\S*halpha-narrowband\\.yaml: .*${what}`));
+  });
+});
+
 describe('compare needs at least two files', () => {
   test('none: one sentence, exit 2', async () => {
     refused(await runCli(['compare']), 'compare');

@@ -209,8 +209,11 @@ describe('an unknown population: the library names options.population, the comma
     const r = await runCli([command, ...files.split(' '), '--population', 'nope']);
     expect(r.code).toBe(2);
     expect(r.stdout).toBe('');
+    // in the form of every option refusal, the command first, then the file the name is not in
     expect(r.stderr).toMatch(
-      /^skytally: [^\n]+: --population: there is no population named "nope"; use one of "[^\n]+"\.\n$/,
+      new RegExp(
+        `^skytally: ${command} --population: [^\\n]+\\.yaml: there is no population named "nope"; use one of "[^\\n]+"\\.\\n$`,
+      ),
     );
     expect(r.stderr).not.toContain('options.population');
   });
