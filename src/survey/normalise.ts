@@ -26,6 +26,7 @@ import {
   isFluxDensityText,
   readDetectionPhotometry,
   readPopulationPhotometry,
+  REST_WAVELENGTH_EXAMPLE,
   wavelengthOrFrequency,
   type RawBand,
 } from './photometry.js';
@@ -1131,6 +1132,7 @@ function buildPopulation(
           file,
           `${path}.rest_wavelength`,
           'the rest wavelength of the absolute magnitudes',
+          REST_WAVELENGTH_EXAMPLE,
         ).angstrom
       : 1500;
   const pop: Population = {

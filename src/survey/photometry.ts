@@ -69,6 +69,9 @@ function checkWavelength(x: number, file: string, path: string): number {
   return x;
 }
 
+/** The number a refused rest_wavelength is shown as an example: the usual 1500 Angstrom of UV functions (an observed band's is 15000). */
+export const REST_WAVELENGTH_EXAMPLE = 1500;
+
 /**
  * detection.band (or a population's rest_wavelength) as one value: a wavelength (Angstrom, or with
  * a unit) or a frequency with its unit ("1.4 GHz", "345 GHz"), whose wavelength is lambda = c / nu
@@ -79,13 +82,14 @@ export function wavelengthOrFrequency(
   file: string,
   path: string,
   what: string,
+  example = 15000,
 ): { angstrom: number; hz?: number } {
   const q = parseQuantityOneOf(
     v,
     ['wavelength', 'frequency'],
     file,
     path,
-    `give ${what} in Angstrom as a number, or a wavelength or a frequency with its unit, e.g. 15000, "850 um" or "1.4 GHz"`,
+    `give ${what} in Angstrom as a number, or a wavelength or a frequency with its unit, e.g. ${example}, "850 um" or "1.4 GHz"`,
   );
   if (q.kind === 'wavelength') return { angstrom: checkWavelength(q.value, file, path) };
   const hz = q.value;
@@ -426,6 +430,7 @@ export function readPopulationPhotometry(
       file,
       `${path}.rest_wavelength`,
       'the rest wavelength of the absolute magnitudes',
+      REST_WAVELENGTH_EXAMPLE,
     ).angstrom;
   }
   if (sed) {

@@ -51,4 +51,19 @@ describe('rest_wavelength by detection kind', () => {
     expect(e.message).toContain('line luminosity function');
     expect(e.message).toMatch(/remove it/);
   });
+
+  test("a rest wavelength written as a band name is refused with a rest-frame example, 1500, not the observed band's 15000 (failed before)", () => {
+    // "FUV" for a GALEX-like function (Wyder et al. 2005 quote absolute magnitudes in FUV, 1528 A;
+    // from memory): the example showed 15000, a rest wavelength of 1.5 um, ten times the usual one
+    const raw = clone(parse(MAGNITUDE_YAML) as Record<string, unknown>);
+    setPath(raw, 'population.rest_wavelength', 'FUV');
+    const e = errorOf(() => parseSurveyObject(raw, FILE));
+    expect(e.message).toContain('population.rest_wavelength');
+    expect(e.message).toContain('e.g. 1500,');
+    expect(e.message).not.toContain('15000');
+    // the observed band keeps its own example
+    const band = clone(parse(MAGNITUDE_YAML) as Record<string, unknown>);
+    setPath(band, 'detection.band', 'F150W');
+    expect(errorOf(() => parseSurveyObject(band, FILE)).message).toContain('e.g. 15000,');
+  });
 });
