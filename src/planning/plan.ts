@@ -28,7 +28,7 @@ import {
   type Evaluated,
 } from './search.js';
 import { warning, mergeWarnings, type Warning } from '../warnings.js';
-import { robustGoals, ROBUST_DRAWS, type RobustResult } from './robust.js';
+import { drawAgreement, robustGoals, ROBUST_DRAWS, type RobustResult } from './robust.js';
 import { surveyWarnings } from '../population/warnings.js';
 import { predictionWarnings } from '../counts/predict.js';
 import { refuseScatteredRedshifts, surveyForPopulation } from '../model/select.js';
@@ -360,6 +360,10 @@ export async function planDesigns(
     out.fixed = 'areaDeg2' in spec.fixed ? { area_deg2: spec.fixed.areaDeg2 } : { limit: spec.fixed.limit };
   if (robust) {
     const same = best === assumedBest;
+    // the designs the robust ranking chose among, each draw's ranking of them
+    const ranked = [...designs, assumedBest].filter((d) => d.feasible && robust.value(d) !== undefined);
+    const agreement = drawAgreement(robust, maximises(spec.goal), best, ranked, NEAR_BEST_TOLERANCE);
+    const pct = (f: number) => `${precise(100 * f, 3)} %`;
     const what = spec.goal.kind === 'sigma' ? 'the 84th percentile of the sigma' : 'the 16th percentile of the count';
     out.robust = {
       draws: robust.draws,
@@ -369,11 +373,13 @@ export async function planDesigns(
       best_assumed: designJson(assumedBest, names, spec.goal, robust),
       best_robust: designJson(best, names, spec.goal, robust),
       same_design: same,
+      agreement,
       notes: [
         `Designs ranked by the goal at the model's pessimistic case: ${what} over ${robust.draws} ${robust.source === 'draws_file' ? 'rows of the draws file' : 'draws of model_uncertainty'}; best is the best design so ranked, among the designs listed and the refined best under the assumed values.`,
         same
           ? 'The same design is best under the assumed values and across the model.'
           : 'The best design across the model differs from the best under the assumed values; near_best, neighbours and refinement describe the search under the assumed values.',
+        `Draw by draw, the best design across the model is the best of the designs ranked in ${pct(agreement.best_fraction)} of the ${agreement.draws_ranked} draws that rank them, and within ${NEAR_BEST_TOLERANCE * 100} % of that draw's best in ${pct(agreement.near_best_fraction)}.`,
       ],
     };
   }

@@ -191,6 +191,52 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
   };
 }
 
+/** How often one design wins draw by draw: plan.robust.agreement (specs/plan.schema.json). */
+export interface DrawAgreement {
+  draws_ranked: number;
+  best_fraction: number;
+  near_best_fraction: number;
+}
+
+/**
+ * How often `chosen` wins draw by draw among `candidates` (designs ranked by robustGoals): the
+ * draws under which some candidate has a finite goal, and the fractions of those in which chosen's
+ * goal is the best of them (a tie counts), and within `tolerance` of the best, judged as nearBest
+ * (src/planning/search.ts) judges the assumed values: goal <= (1 + tolerance) best for a sigma,
+ * >= (1 - tolerance) best for a count.
+ */
+export function drawAgreement(
+  r: RobustResult,
+  maximise: boolean,
+  chosen: Evaluated,
+  candidates: readonly Evaluated[],
+  tolerance: number,
+): DrawAgreement {
+  const own = r.perDraw(chosen);
+  const series = candidates.map((c) => r.perDraw(c)).filter((v): v is Float64Array => v !== undefined);
+  let ranked = 0;
+  let best = 0;
+  let near = 0;
+  for (let i = 0; i < r.draws; i++) {
+    let top = maximise ? -Infinity : Infinity;
+    for (const v of series) {
+      const x = v[i]!;
+      if (Number.isFinite(x) && (maximise ? x > top : x < top)) top = x;
+    }
+    if (!Number.isFinite(top)) continue;
+    ranked++;
+    const x = own ? own[i]! : NaN;
+    if (!Number.isFinite(x)) continue;
+    if (x === top) best++;
+    if (maximise ? x >= (1 - tolerance) * top : x <= (1 + tolerance) * top) near++;
+  }
+  return {
+    draws_ranked: ranked,
+    best_fraction: ranked > 0 ? best / ranked : 0,
+    near_best_fraction: ranked > 0 ? near / ranked : 0,
+  };
+}
+
 /** A design's tier under every draw: its knot interval (the offset of its first knot) and Hermite weights in Delta, its area and its cosmic-variance fractions. */
 interface TierPlace {
   at: number;

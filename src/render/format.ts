@@ -198,3 +198,11 @@ export function limitText(v: string, x: number | string): string {
   if (v === 'line_flux_cgs') return `${sig(x, 3)} erg/s/cm^2`;
   return `log10 = ${sig(x, 4)}`;
 }
+
+/** An English ordinal: 1st, 2nd, 3rd, 4th, 11th, 12th, 13th, 21st, 22nd, 101st. */
+export function ordinal(n: number): string {
+  const tens = n % 100;
+  const last = n % 10;
+  const suffix = tens >= 11 && tens <= 13 ? 'th' : last === 1 ? 'st' : last === 2 ? 'nd' : last === 3 ? 'rd' : 'th';
+  return `${n}${suffix}`;
+}

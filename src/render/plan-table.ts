@@ -1,6 +1,6 @@
 /** Human table and CSV for a plan (plan command). */
 import Table from 'cli-table3';
-import { goalWords, limitText, parameterWords, sig } from './format.js';
+import { goalWords, limitText, ordinal, parameterWords, precise, sig } from './format.js';
 import { csvText, type CsvCell } from './csv.js';
 import type { Plan, PlanDesign } from '../model/outputs/plan.js';
 
@@ -99,6 +99,7 @@ export function planTable(p: Plan): string {
       `Ranked across the model (robust): by ${what} over ${r.draws} ${r.source === 'draws_file' ? 'rows of the draws file' : 'draws of model_uncertainty'}.`,
       `  Best across the model: ${designLine(p, r.best_robust)}`,
       `  Best under the assumed values: ${designLine(p, r.best_assumed)}${r.same_design ? ' (the same design)' : ''}`,
+      `  Draw by draw: the best across the model is the best design in ${precise(100 * r.agreement.best_fraction, 3)} % of ${r.agreement.draws_ranked} draws, within ${p.near_best.tolerance * 100} % of the best in ${precise(100 * r.agreement.near_best_fraction, 3)} %`,
     );
   }
   t.push(designRow(p, b, '*'));
@@ -114,7 +115,7 @@ export function planTable(p: Plan): string {
   p.designs.forEach((d, i) => {
     if (i % step === 0 || i === p.designs.length - 1) g.push(designRow(p, d));
   });
-  lines.push(`Designs (${p.designs.length}${step > 1 ? `, every ${step}th shown` : ''}):`);
+  lines.push(`Designs (${p.designs.length}${step > 1 ? `, every ${ordinal(step)} shown` : ''}):`);
   lines.push(g.toString());
   lines.push(`Refinement: ${p.refinement.method}${p.refinement.improved ? ' (improved on the grid)' : ''}`);
   for (const n of p.notes) lines.push(`Note: ${n}`);

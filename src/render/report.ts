@@ -689,6 +689,12 @@ ${notes}${notes ? '\n' : ''}</div>
 `;
 }
 
+/** How often the robust best wins draw by draw, as a sentence (with a leading space), or nothing. */
+function agreementWords(a: NonNullable<PlanView['robust']>['agreement']): string {
+  if (!a) return '';
+  return ` Draw by draw, it is the best of the designs in ${formatNumber(100 * a.best_fraction)} % of ${formatNumber(a.draws_ranked)} draws and within 5 % of the best in ${formatNumber(100 * a.near_best_fraction)} %.`;
+}
+
 function planTable(plan: PlanView): string {
   const same = (a: PlanDesignView, b: PlanDesignView | undefined) =>
     !!b && a.exposure_hours_per_pointing === b.exposure_hours_per_pointing && a.pointings === b.pointings;
@@ -743,7 +749,7 @@ function planTable(plan: PlanView): string {
     ? ` Designs from ${formatNumber(lo)} to ${formatNumber(hi)} hours per pointing come close to the best.`
     : '';
   const ranked = robust
-    ? `<p id="plan-robust">Ranked across the model (<code>robust: true</code>): the best design is the one with the best goal at the model's pessimistic case, the ${Math.round(robust.percentile * 100)}th percentile over ${formatNumber(robust.draws)} ${robust.source === 'draws_file' ? 'rows of the draws file' : 'draws of model_uncertainty'}; ${robust.same_design ? 'it is also the best under the assumed values.' : `under the assumed values the best is ${formatNumber(robust.best_assumed.pointings)} pointings of ${formatNumber(robust.best_assumed.exposure_hours_per_pointing)} hours.`}</p>
+    ? `<p id="plan-robust">Ranked across the model (<code>robust: true</code>): the best design is the one with the best goal at the model's pessimistic case, the ${Math.round(robust.percentile * 100)}th percentile over ${formatNumber(robust.draws)} ${robust.source === 'draws_file' ? 'rows of the draws file' : 'draws of model_uncertainty'}; ${robust.same_design ? 'it is also the best under the assumed values.' : `under the assumed values the best is ${formatNumber(robust.best_assumed.pointings)} pointings of ${formatNumber(robust.best_assumed.exposure_hours_per_pointing)} hours.`}${agreementWords(robust.agreement)}</p>
 `
     : '';
   return `<p>Goal: ${escapeHtml(goalWords(plan.goal))}; time available: ${formatNumber(plan.budget_hours)} hours.${range}</p>

@@ -100,6 +100,8 @@ export type PlanView = Pick<Plan, 'goal' | 'budget_hours'> & {
   /** With robust: true, how the designs were ranked across the model (best is the robust best). */
   robust?: Pick<NonNullable<Plan['robust']>, 'draws' | 'source' | 'percentile' | 'same_design'> & {
     best_assumed: PlanDesignView;
+    /** How often the robust best wins draw by draw (a plan's robust.agreement). */
+    agreement?: NonNullable<Plan['robust']>['agreement'];
   };
 };
 

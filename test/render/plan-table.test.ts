@@ -8,7 +8,7 @@ import { describe, expect, test } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { loadSurveyFile, plan, planTable } from '../../src/index.js';
 import { loadSurveyText } from '../../src/survey/load.js';
-import { sig } from '../../src/render/format.js';
+import { ordinal, sig } from '../../src/render/format.js';
 
 describe('plan table: hours used', () => {
   test('every row of a one-tier plan shows its pointings times (exposure + overhead), under the budget', async () => {
@@ -104,5 +104,27 @@ describe('plan table: the designs within 5 % of the best', () => {
     expect(line).toContain(': 1 design, from');
     expect(planTable(p)).toContain(`: ${p.near_best.designs_within} designs, from`);
     expect(p.near_best.designs_within).toBeGreaterThan(1);
+  });
+
+  test('English ordinals in "every 2nd shown" (failed before: "every 2th"; common practice of English)', async () => {
+    expect([1, 2, 3, 4, 11, 12, 13, 21, 22, 23, 101, 111, 112].map(ordinal)).toEqual([
+      '1st',
+      '2nd',
+      '3rd',
+      '4th',
+      '11th',
+      '12th',
+      '13th',
+      '21st',
+      '22nd',
+      '23rd',
+      '101st',
+      '111th',
+      '112th',
+    ]);
+    const p = await plan(loadSurveyFile('samples/plan-robust-uv-slope.yaml'));
+    const step = Math.ceil(p.designs.length / 20);
+    expect(step).toBe(2);
+    expect(planTable(p)).toContain(`Designs (${p.designs.length}, every 2nd shown):`);
   });
 });

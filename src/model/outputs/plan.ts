@@ -75,6 +75,23 @@ export interface Plan {
     best_assumed: PlanDesign;
     best_robust: PlanDesign;
     same_design: boolean;
+    /**
+     * How often best_robust wins draw by draw: each draw ranks the same designs (those listed and the refined best under the assumed values, those meeting minimum_count) by that draw's goal.
+     */
+    agreement: {
+      /**
+       * Draws under which some design has a goal value (a sigma is undefined where a draw leaves a design no sources).
+       */
+      draws_ranked: number;
+      /**
+       * Fraction of draws_ranked in which best_robust has the best goal of all the designs (0 when draws_ranked is 0).
+       */
+      best_fraction: number;
+      /**
+       * Fraction of draws_ranked in which best_robust's goal is within near_best.tolerance (5 %) of that draw's best (0 when draws_ranked is 0).
+       */
+      near_best_fraction: number;
+    };
     notes: string[];
   };
   budget_fractions?: number[][];
