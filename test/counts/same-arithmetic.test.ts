@@ -71,7 +71,12 @@ describe('hot functions compiled once: the same numbers bit for bit (e1057c7)', 
   test('report --format json of the robust UV plan (prediction, forecast with its draws, robust plan)', async () => {
     const r = await runCli(['report', 'samples/plan-robust-uv-slope.yaml', '--format', 'json']);
     expect(r.code).toBe(0);
-    expect(digest(JSON.parse(r.stdout))).toBe('fcc01a0f41cbc0dacf92d18a156d622fedea4ee4b47f12c2c6b41febc50f4ea5');
+    // plan.robust.agreement came later (how often the robust best wins draw by draw, checked in
+    // test/planning/robust.test.ts): every number before it is still the same bit for bit
+    const doc = JSON.parse(r.stdout) as { plan: { robust: { agreement?: unknown } } };
+    expect(doc.plan.robust.agreement).toBeDefined();
+    delete doc.plan.robust.agreement;
+    expect(digest(doc)).toBe('fcc01a0f41cbc0dacf92d18a156d622fedea4ee4b47f12c2c6b41febc50f4ea5');
   });
 
   for (const [name, before] of Object.entries(BAND_BEFORE)) {
