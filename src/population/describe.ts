@@ -112,7 +112,7 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
 }
 
 /** The model uncertainty as read (docs/outputs.md): sigmas and the non-zero correlations, or the draws file. */
-function describeUncertainty(u: ModelUncertainty): NonNullable<ModelDescription['model_uncertainty']> {
+export function describeUncertainty(u: ModelUncertainty): NonNullable<ModelDescription['model_uncertainty']> {
   if (u.kind === 'draws')
     return { kind: 'draws', parameters: [...u.parameters], file: u.file, draws: u.offsets.length };
   const sigmas: Record<string, number> = {};
