@@ -14,6 +14,7 @@ import { tempDir } from '../support/temp.js';
 import { hostileTitleReport, sampleReport } from '../support/sample-reports.js';
 import { sampleCommand } from '../support/sample-commands.js';
 import type { ValidateFunction } from 'ajv/dist/2020.js';
+import { unescapeHtml } from '../support/html.js';
 
 const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml'));
 const tmp = () => tempDir('skytally-report-');
@@ -31,16 +32,6 @@ function marks(svg: string, role: string): Record<string, string>[] {
       }),
     ),
   );
-}
-
-/** Undo escapeHtml (the five entities it writes). */
-function unescapeHtml(s: string): string {
-  return s
-    .replace(/&lt;/g, '<')
-    .replace(/&gt;/g, '>')
-    .replace(/&quot;/g, '"')
-    .replace(/&#39;/g, "'")
-    .replace(/&amp;/g, '&');
 }
 
 /** The <svg> of one figure inside the report. */

@@ -8,6 +8,7 @@ import type { Figure, PredictionView } from '../../src/render/types.js';
 import { loadSurveyFile } from '../../src/survey/load.js';
 import { predict } from '../../src/counts/predict.js';
 import { demoForecast, demoPlan, demoPrediction } from './demo.js';
+import { unescapeHtml } from '../support/html.js';
 
 const NASTY_1 = '<script>alert(1)</script>';
 const NASTY_2 = '"><img src=x onerror=alert(1)>';
@@ -18,16 +19,6 @@ area: 2.5
 redshift: {min: 0.8, max: 1.6}
 # a comment with </pre> and <b>bold</b> & an ampersand
 `;
-
-/** Undo escapeHtml (the five entities it writes), to check round trips. */
-function unescape(s: string): string {
-  return s
-    .replace(/&lt;/g, '<')
-    .replace(/&gt;/g, '>')
-    .replace(/&quot;/g, '"')
-    .replace(/&#39;/g, "'")
-    .replace(/&amp;/g, '&');
-}
 
 describe('escapeHtml', () => {
   test('the five characters special in HTML text and attributes are replaced (HTML Living Standard, 13.1.2.6)', () => {
@@ -45,7 +36,7 @@ describe('escapeHtml', () => {
         const e = escapeHtml(s);
         expect(/[<>"']/.test(e)).toBe(false);
         expect(/&(?!(amp|lt|gt|quot|#39);)/.test(e)).toBe(false);
-        expect(unescape(e)).toBe(s);
+        expect(unescapeHtml(e)).toBe(s);
       }),
     );
   });
@@ -395,9 +386,9 @@ describe('renderReport: the model table in words', () => {
     const rows = modelRows(render({ name: 'p', shape: 'schechter', variable: 'luminosity', ...values }));
     expect(rows.map(([h]) => /<span class="key">([^<]*)<\/span>/.exec(h)?.[1])).toEqual(keys);
     const wrong = rows.filter(([head, value]) => {
-      const label = unescape(head.replace(/<span class="key">[^<]*<\/span>/, '')).trim();
+      const label = unescapeHtml(head.replace(/<span class="key">[^<]*<\/span>/, '')).trim();
       const key = /<span class="key">([^<]*)<\/span>/.exec(head)![1]!;
-      const v = unescape(value);
+      const v = unescapeHtml(value);
       return (
         label === '' ||
         label.toLowerCase() === key.replace(/_/g, ' ') ||
@@ -408,7 +399,7 @@ describe('renderReport: the model table in words', () => {
     expect(wrong).toEqual([]);
     // values in words and units, as written (the invented values above)
     const byKey = Object.fromEntries(
-      rows.map(([h, v]) => [/<span class="key">([^<]*)<\/span>/.exec(h)![1]!, unescape(v)]),
+      rows.map(([h, v]) => [/<span class="key">([^<]*)<\/span>/.exec(h)![1]!, unescapeHtml(v)]),
     );
     expect(byKey.rest_wavelength).toBe('1,500 Å');
     expect(byKey.rest_band).toBe('Gaussian band centred at 1,500 Å, FWHM 300 Angstrom');
@@ -429,8 +420,8 @@ describe('renderReport: the model table in words', () => {
     const rows = (m: Record<string, unknown>) =>
       Object.fromEntries(
         modelRows(render({ variable: 'magnitude', ...m })).map(([h, v]) => [
-          /<span class="key">([^<]*)<\/span>/.exec(h)?.[1] ?? unescape(h),
-          unescape(v),
+          /<span class="key">([^<]*)<\/span>/.exec(h)?.[1] ?? unescapeHtml(h),
+          unescapeHtml(v),
         ]),
       );
     const a = rows({

@@ -115,6 +115,24 @@ slices: {width: 0.2}
 C_KMS = 299792.458
 
 
+def magnitude_density(k, m_star, lim, half, width, phi, alpha):
+    """Sources per Mpc^3 at z above an apparent limit with a logistic completeness: the Schechter
+    function in t = ln(L / L*) (M = M* - 2.5 t / ln 10; m = M + K(z)), integrated from the limit to
+    L = 60 L*, beyond which exp(-L / L*) leaves under 1e-26 of it."""
+
+    def density(z):
+        kz = k(z)
+        ms = m_star(z)
+        t_lim = math.log(10 ** (0.4 * (ms + kz - lim)))
+        c = lambda t: 1 / (1 + math.exp((ms + kz - 2.5 * t / math.log(10) - half) / width))
+        g = lambda t: phi * math.exp((alpha + 1) * t - math.exp(t)) * c(t)
+        if t_lim >= math.log(60.0):
+            return 0.0
+        return integrate.quad(g, t_lim, math.log(60.0), epsabs=0, epsrel=1e-12, limit=200)[0]
+
+    return density
+
+
 def dropout_slices():
     doc = yaml.safe_load(DROPOUT)
     h0, om = doc["cosmology"]["h0"], doc["cosmology"]["omega_m"]
@@ -136,15 +154,7 @@ def dropout_slices():
                 - 2.5 * (beta + 2) * math.log10(band / ((1 + z) * rest))
                 - 2.5 * math.log10(transmission(band, z)))
 
-    def density(z):
-        kz = k(z)
-        ms = m_star(z)
-        t_lim = math.log(10 ** (0.4 * (ms + kz - lim)))
-        c = lambda t: 1 / (1 + math.exp((ms + kz - 2.5 * t / math.log(10) - half) / width))
-        f = lambda t: phi * math.exp((alpha + 1) * t - math.exp(t)) * c(t)
-        if t_lim >= math.log(60.0):
-            return 0.0
-        return integrate.quad(f, t_lim, math.log(60.0), epsabs=0, epsrel=1e-12, limit=200)[0]
+    density = magnitude_density(k, m_star, lim, half, width, phi, alpha)
 
     def integrand(z):
         s = float(np.interp(z, [r[0] for r in sel], [r[1] for r in sel]))
@@ -238,15 +248,7 @@ def sed_slices():
         dl_pc = (1 + z) * dc(z) * 1e6
         return 5 * math.log10(dl_pc / 10) - 2.5 * math.log10(num / ((1 + z) * rest_term))
 
-    def density(z):
-        kz = k(z)
-        ms = m_star(z)
-        t_lim = math.log(10 ** (0.4 * (ms + kz - lim)))
-        c = lambda t: 1 / (1 + math.exp((ms + kz - 2.5 * t / math.log(10) - half) / width))
-        g = lambda t: phi * math.exp((alpha + 1) * t - math.exp(t)) * c(t)
-        if t_lim >= math.log(60.0):
-            return 0.0
-        return integrate.quad(g, t_lim, math.log(60.0), epsabs=0, epsrel=1e-12, limit=200)[0]
+    density = magnitude_density(k, m_star, lim, half, width, phi, alpha)
 
     def integrand(z):
         return area_sr * dh * dc(z) ** 2 / e(z) * density(z)
