@@ -11,7 +11,7 @@ import { cosmologyJsonOf } from '../model/cosmology-json.js';
 import type { ParameterView, SurveyCheck } from '../model/outputs/check.js';
 import type { CompletenessBlock } from '../model/outputs/shared.js';
 import { describeSelection } from '../selection/describe.js';
-import { describeUncertainty } from '../population/describe.js';
+import { describeUncertainty } from '../model/model-uncertainty.js';
 import { checkSurvey } from '../model/arguments.js';
 
 /** A parameter as written in the file, with its normalised value at the window's ends when it varies. */
