@@ -4,6 +4,7 @@
  * that evolving parameters keep their evolution, drawn from a multivariate normal (sigmas and
  * correlations) or read from a file of draws (one draw a row).
  */
+import type { ModelDescription } from './outputs/shared.js';
 
 /** Default number of draws (predict's --draws). */
 export const DEFAULT_MODEL_DRAWS = 1000;
@@ -102,4 +103,20 @@ export function modelOffsets(
     }
   });
   return out;
+}
+
+/** The model uncertainty as read (docs/outputs.md): sigmas and the non-zero correlations, or the draws file. */
+export function describeUncertainty(u: ModelUncertainty): NonNullable<ModelDescription['model_uncertainty']> {
+  if (u.kind === 'draws')
+    return { kind: 'draws', parameters: [...u.parameters], file: u.file, draws: u.offsets.length };
+  const sigmas: Record<string, number> = {};
+  const correlations: Record<string, number> = {};
+  u.parameters.forEach((n, i) => {
+    sigmas[n] = u.sigmas[i]!;
+    for (let j = i + 1; j < u.parameters.length; j++) {
+      const rho = u.correlation[i]![j]!;
+      if (rho !== 0) correlations[`${n}-${u.parameters[j]!}`] = rho;
+    }
+  });
+  return { kind: 'gaussian', parameters: [...u.parameters], sigmas, correlations };
 }

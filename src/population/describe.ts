@@ -4,7 +4,7 @@
  * Every output carries this, because a forecast is only as good as the model assumed.
  */
 import type { Population } from '../model/population.js';
-import type { ModelUncertainty } from '../model/model-uncertainty.js';
+import { describeUncertainty } from '../model/model-uncertainty.js';
 import type { Survey } from '../model/survey.js';
 import type { ZParam } from '../model/zparam.js';
 import type { ModelDescription, ParameterDescription } from '../model/outputs/shared.js';
@@ -109,22 +109,6 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
     d.summary += `; ${uncertaintyWords(d.model_uncertainty)}`;
   }
   return d;
-}
-
-/** The model uncertainty as read (docs/outputs.md): sigmas and the non-zero correlations, or the draws file. */
-function describeUncertainty(u: ModelUncertainty): NonNullable<ModelDescription['model_uncertainty']> {
-  if (u.kind === 'draws')
-    return { kind: 'draws', parameters: [...u.parameters], file: u.file, draws: u.offsets.length };
-  const sigmas: Record<string, number> = {};
-  const correlations: Record<string, number> = {};
-  u.parameters.forEach((n, i) => {
-    sigmas[n] = u.sigmas[i]!;
-    for (let j = i + 1; j < u.parameters.length; j++) {
-      const rho = u.correlation[i]![j]!;
-      if (rho !== 0) correlations[`${n}-${u.parameters[j]!}`] = rho;
-    }
-  });
-  return { kind: 'gaussian', parameters: [...u.parameters], sigmas, correlations };
 }
 
 /** The model uncertainty in words for the summary line. */

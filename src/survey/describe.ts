@@ -11,6 +11,7 @@ import { cosmologyJsonOf } from '../model/cosmology-json.js';
 import type { ParameterView, SurveyCheck } from '../model/outputs/check.js';
 import type { CompletenessBlock } from '../model/outputs/shared.js';
 import { describeSelection } from '../selection/describe.js';
+import { describeUncertainty } from '../model/model-uncertainty.js';
 import { checkSurvey } from '../model/arguments.js';
 
 /** A parameter as written in the file, with its normalised value at the window's ends when it varies. */
@@ -155,6 +156,7 @@ export function describeSurvey(survey: Survey): Omit<SurveyCheck, 'warnings'> {
         bias: p.bias === 'auto' ? 'auto' : parameterView(p.bias, p.window),
         occupation: p.occupation,
         selection: describeSelection(d, p),
+        model_uncertainty: p.modelUncertainty ? describeUncertainty(p.modelUncertainty) : undefined,
       }),
     ),
     slices: { count: survey.sliceEdges.length - 1, edges: survey.sliceEdges },

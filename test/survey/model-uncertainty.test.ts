@@ -6,7 +6,10 @@ import { describe, expect, test } from 'vitest';
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { parse } from 'yaml';
+import { readdirSync, readFileSync } from 'node:fs';
+import { Ajv2020 } from 'ajv/dist/2020.js';
 import { loadSurveyFile, parseSurveyObject } from '../../src/survey/index.js';
+import { describeSurvey } from '../../src/survey/describe.js';
 import { SurveyError } from '../../src/errors.js';
 import { tempDir } from '../support/temp.js';
 
@@ -186,5 +189,33 @@ describe('a sigma written as a paper prints it', () => {
       keyPath: `population.model_uncertainty.${key}`,
     });
     for (const w of words) expect(e.message).toContain(w);
+  });
+});
+
+describe('check prints the block as read', () => {
+  const ajv = new Ajv2020({ allErrors: true, strict: false });
+  for (const f of readdirSync('specs'))
+    if (f.endsWith('.schema.json')) ajv.addSchema(JSON.parse(readFileSync(`specs/${f}`, 'utf8')) as object, f);
+
+  test('sigmas and correlations, or the draws file, in check beside the other population keys (failed before: left out)', () => {
+    const view = describeSurvey(loadSurveyFile(FILE));
+    // the file's values (line-correlated.yaml), pairs in the order of the parameters
+    expect(view.populations[0]!.model_uncertainty).toEqual({
+      kind: 'gaussian',
+      parameters: ['log10_phi_star', 'log10_l_star', 'alpha'],
+      sigmas: { log10_phi_star: 0.08, log10_l_star: 0.05, alpha: 0.1 },
+      correlations: { 'log10_phi_star-log10_l_star': -0.6, 'log10_phi_star-alpha': 0.7, 'log10_l_star-alpha': -0.8 },
+    });
+    const draws = describeSurvey(loadSurveyFile('test/reference/surveys-model/narrowband-draws-file.yaml'));
+    expect(draws.populations[0]!.model_uncertainty).toMatchObject({
+      kind: 'draws',
+      file: 'chains/narrowband-posterior.csv',
+    });
+    // valid against specs/check.schema.json (the command adds its warnings)
+    for (const v of [view, draws])
+      expect(ajv.getSchema('check.schema.json')!(JSON.parse(JSON.stringify({ ...v, warnings: [] })))).toBe(true);
+    // a population without the block has none
+    const plain = describeSurvey(loadSurveyFile('samples/halpha-narrowband.yaml'));
+    expect(plain.populations[0]).not.toHaveProperty('model_uncertainty');
   });
 });

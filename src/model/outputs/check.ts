@@ -172,4 +172,34 @@ export interface PopulationView {
   bias: 'auto' | ParameterView;
   occupation: number;
   selection: SelectionBlock;
+  /**
+   * the population's model_uncertainty as read: 1-sigma offsets with their correlations (gaussian), or the draws file
+   */
+  model_uncertainty?: {
+    kind: 'gaussian' | 'draws';
+    /**
+     * the parameters varied, in the order of sigmas and of the file's columns
+     */
+    parameters: string[];
+    /**
+     * gaussian: 1 sigma per parameter (dex for log10 phi* and log10 L*, mag for M*)
+     */
+    sigmas?: {
+      [k: string]: number;
+    };
+    /**
+     * gaussian: the non-zero correlations by pair name a-b
+     */
+    correlations?: {
+      [k: string]: number;
+    };
+    /**
+     * draws: the draws file as named in the survey file
+     */
+    file?: string;
+    /**
+     * draws: the number of rows read
+     */
+    draws?: number;
+  };
 }
