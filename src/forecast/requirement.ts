@@ -19,6 +19,7 @@ import type { Survey } from '../model/survey.js';
 import type { ZParam } from '../model/zparam.js';
 import { FULL_SKY_DEG2, MIN_AREA_DEG2, SR_PER_DEG2 } from '../model/sky.js';
 import { precise } from '../render/format.js';
+import { fluxDensityOfAbMagnitude } from '../model/photometry.js';
 import { brent, expandBracket } from '../numerics/roots.js';
 import { buildDensityGrid } from './grid.js';
 import { fisherParts, fisherPartsAt, marginaliseNormalisations, summariseFisher, type FisherParts } from './fisher.js';
@@ -203,6 +204,8 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
   const finite = (v: number) => (Number.isFinite(v) ? v : 1e300);
   const limitOf = (delta: number) => deeperSurvey(survey, population, delta).limit;
   const lv = limitVariable(survey, population);
+  // a limit the file wrote as a flux density is quoted in its unit too, "1.55 mJy (15.93 AB)"
+  const givenUnit = survey.detection.kind === 'magnitude' ? survey.detection.limitGivenUnit : undefined;
   const limitText = (x: number) =>
     lv === 'line_flux_cgs'
       ? `${fmt(x)} erg/s/cm^2`
@@ -210,7 +213,9 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
         ? `log10 = ${fmt(x)}`
         : lv === 'absolute_magnitude'
           ? `M = ${fmt(x)}`
-          : `${fmt(x)} AB`;
+          : givenUnit
+            ? `${fmt(fluxDensityOfAbMagnitude(x, givenUnit))} ${givenUnit} (${fmt(x)} AB)`
+            : `${fmt(x)} AB`;
 
   const byParameter: Record<string, RequirementEntry> = {};
   for (const [name, target] of Object.entries(targets)) {
@@ -274,6 +279,7 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
     area_deg2: allArea ? Math.max(...entries.map((e) => e.area_deg2 as number)) : null,
     limit: allLimit ? (deeperIsLarger ? Math.max(...limits) : Math.min(...limits)) : null,
     limit_variable: lv,
+    ...(givenUnit ? { limit_unit: givenUnit } : {}),
     by_parameter: byParameter,
     search: { area_deg2: [MIN_AREA_DEG2, FULL_SKY_DEG2], limit: [limitOf(-span), limitOf(span)] },
     notes: [...entries.flatMap((e) => e.notes), ...completenessNote(survey, entries)],

@@ -1,7 +1,7 @@
 /** How a survey detects its sources: the detection kinds, filters and bands, completeness. */
 import type { ZParam } from './zparam.js';
 import type { PhotoZ } from './photo-z.js';
-import type { MagnitudeSystemGiven, SedPhotometry } from './photometry.js';
+import type { FluxDensityUnit, MagnitudeSystemGiven, SedPhotometry } from './photometry.js';
 import type { DetectionSelection } from './selection.js';
 
 export type FilterProfile = 'tophat' | 'gaussian' | 'table';
@@ -54,6 +54,7 @@ export type Detection = DetectionSelection &
         kind: 'magnitude';
         limitMag: number; // apparent AB magnitude (a Vega limit converted once; completeness too)
         limitGivenJy?: number; // detection.limit given as a flux density, Jy (limitMag is its AB magnitude)
+        limitGivenUnit?: FluxDensityUnit; // the unit it was written in (the outputs quote limits in it beside AB)
         bandAngstrom: number; // effective wavelength of the band (from band_file when band is not given)
         bandGivenHz?: number; // detection.band given as a frequency, Hz (bandAngstrom = c / nu)
         beta: number; // f_lambda ~ lambda^beta

@@ -34,6 +34,28 @@ export function jyOfAbMagnitude(mag: number): number {
 }
 
 /**
+ * The unit a file wrote a flux-density limit in, kept so that the outputs quote limits in it
+ * beside AB ("1.55 mJy (15.93 AB)"); the jansky with its prefixes, cgs or SI per Hz.
+ */
+export const FLUX_DENSITY_UNITS = ['Jy', 'mJy', 'uJy', 'nJy', 'erg/s/cm^2/Hz', 'W/m^2/Hz'] as const;
+export type FluxDensityUnit = (typeof FLUX_DENSITY_UNITS)[number];
+
+/** How many of `unit` make 1 Jy (1 Jy = 1e-23 erg s^-1 cm^-2 Hz^-1 = 1e-26 W m^-2 Hz^-1). */
+export const UNITS_PER_JY: Record<FluxDensityUnit, number> = {
+  Jy: 1,
+  mJy: 1e3,
+  uJy: 1e6,
+  nJy: 1e9,
+  'erg/s/cm^2/Hz': 1e-23,
+  'W/m^2/Hz': 1e-26,
+};
+
+/** An AB magnitude as a flux density in `unit`: 3631 Jy 10^(-0.4 m), times the unit's count per Jy. */
+export function fluxDensityOfAbMagnitude(mag: number, unit: FluxDensityUnit): number {
+  return jyOfAbMagnitude(mag) * UNITS_PER_JY[unit];
+}
+
+/**
  * A rest-frame spectrum read from a CSV file (src/survey/spectrum-file.ts): wavelengths in
  * Angstrom, strictly increasing; f_lambda in any unit (only ratios enter), 0 or more, linear
  * between rows and never extrapolated.

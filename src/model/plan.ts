@@ -3,6 +3,8 @@
  * file gives it (read and checked by src/survey/plan-section.ts; searched by src/planning/).
  */
 
+import type { FluxDensityUnit } from './photometry.js';
+
 /** The limit a plan deepens: an apparent AB magnitude or a line flux in erg s^-1 cm^-2. */
 export type LimitKind = 'magnitude' | 'line_flux';
 
@@ -38,6 +40,8 @@ export interface PlanSpec {
   minimumCount: number;
   grid: { minHours: number; maxHours: number; count: number };
   tiers: 1 | 2 | 3;
+  /** The unit the plan's limits (or else detection.limit) were written in when a flux density: outputs quote limits in it beside AB. */
+  limitUnit?: FluxDensityUnit;
   /** Rank the designs by the goal at the pessimistic case of the population's model_uncertainty (plan.robust). */
   robust?: boolean;
 }

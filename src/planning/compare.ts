@@ -131,6 +131,9 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
       redshift: { ...survey.redshift },
       limit: lim.limit,
       limit_variable: lim.variable,
+      ...(survey.detection.kind === 'magnitude' && survey.detection.limitGivenUnit
+        ? { limit_unit: survey.detection.limitGivenUnit }
+        : {}),
       count: own.totals.count,
       per_deg2: own.totals.per_deg2,
       faint_count: faintCountOf(survey, population),

@@ -324,6 +324,7 @@ export async function planDesigns(
     overhead_hours: spec.overheadHours,
     field_of_view_deg2: spec.fieldOfViewDeg2,
     limit_variable: spec.limitKind === 'magnitude' ? 'apparent_magnitude' : 'line_flux_cgs',
+    ...(spec.limitUnit ? { limit_unit: spec.limitUnit } : {}),
     depth_law:
       law.kind === 'table'
         ? { kind: 'table', table: law.hours.map((h, i) => [h, law.limits[i]!] as [number, number]) }

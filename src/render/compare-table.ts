@@ -2,6 +2,7 @@
 import Table from 'cli-table3';
 import { limitText, parameterWords, sig, wrapWords, zText } from './format.js';
 import { csvText, type CsvCell } from './csv.js';
+import { givenUnitLimitText } from './detection-text.js';
 import type { ComparedSurvey, Comparison } from '../model/outputs/compare.js';
 
 interface RowDef {
@@ -20,7 +21,15 @@ function compareRows(c: Comparison): RowDef[] {
       value: (s) => `z = ${zText(s.redshift.min)} to ${zText(s.redshift.max)}`,
       raw: (s) => `${s.redshift.min}-${s.redshift.max}`,
     },
-    { key: 'limit', label: 'limit', value: (s) => limitText(s.limit_variable, s.limit), raw: (s) => s.limit },
+    {
+      key: 'limit',
+      label: 'limit',
+      value: (s) =>
+        typeof s.limit === 'number'
+          ? givenUnitLimitText(s.limit, limitText(s.limit_variable, s.limit), s.limit_unit)
+          : limitText(s.limit_variable, s.limit),
+      raw: (s) => s.limit,
+    },
     { key: 'count', label: 'expected count', value: (s) => sig(s.count, 5), raw: (s) => s.count },
     { key: 'per_deg2', label: 'per deg^2', value: (s) => sig(s.per_deg2, 5), raw: (s) => s.per_deg2 },
     {

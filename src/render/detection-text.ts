@@ -1,11 +1,20 @@
 /** The detection of a prediction in words (no table library: the report reads it too). */
 import type { Prediction } from '../model/outputs/prediction.js';
 import { sig } from './format.js';
+import { fluxDensityOfAbMagnitude, type FluxDensityUnit } from '../model/photometry.js';
 
 /** A flux density in Jy as Jy, mJy, uJy or nJy, whichever puts it at 1 or above (nJy below). */
 export function fluxDensityText(jy: number): string {
   const [scale, unit] = jy >= 1 ? [1, 'Jy'] : jy >= 1e-3 ? [1e3, 'mJy'] : jy >= 1e-6 ? [1e6, 'uJy'] : [1e9, 'nJy'];
   return `${sig(jy * scale)} ${unit}`;
+}
+
+/**
+ * An AB magnitude limit as the flux density in the unit the file wrote its limit in, then the AB
+ * text as the output writes it otherwise: "1.55 mJy (15.93 AB)". Without a unit, the AB text alone.
+ */
+export function givenUnitLimitText(ab: number, abText: string, unit: FluxDensityUnit | undefined): string {
+  return unit ? `${sig(fluxDensityOfAbMagnitude(ab, unit), 3)} ${unit} (${abText})` : abText;
 }
 
 /** A frequency in GHz as THz, GHz or MHz, whichever puts it at 1 or above (MHz below). */

@@ -2,6 +2,7 @@
 import Table from 'cli-table3';
 import { sig, zText } from './format.js';
 import { csvText, type CsvCell } from './csv.js';
+import { givenUnitLimitText } from './detection-text.js';
 import type { Forecast } from '../model/outputs/forecast.js';
 
 export function forecastTable(f: Forecast): string {
@@ -81,7 +82,7 @@ export function forecastTable(f: Forecast): string {
           ? `${sig(x, 4)} (log10 quantity)`
           : r.limit_variable === 'absolute_magnitude'
             ? `M = ${sig(x, 4)}`
-            : `${sig(x, 4)} AB`;
+            : givenUnitLimitText(x, `${sig(x, 4)} AB`, r.limit_unit);
     lines.push('To reach the target:');
     for (const [n, e] of Object.entries(r.by_parameter)) {
       const area = e.area_deg2 !== null ? `${sig(e.area_deg2, 3)} deg^2 at this depth` : 'no area at this depth';

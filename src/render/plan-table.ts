@@ -2,6 +2,7 @@
 import Table from 'cli-table3';
 import { goalWords, limitText, ordinal, parameterWords, precise, sig } from './format.js';
 import { csvText, type CsvCell } from './csv.js';
+import { givenUnitLimitText } from './detection-text.js';
 import type { Plan, PlanDesign } from '../model/outputs/plan.js';
 
 function goalText(p: Plan): string {
@@ -12,9 +13,12 @@ function goalText(p: Plan): string {
 
 /** A design's limit, or each tier's in the order of the tiers (a tiered design's own `limit` is its deepest tier's). */
 function designLimits(p: Plan, d: PlanDesign): string {
-  return d.tiers
-    ? d.tiers.map((t) => limitText(p.limit_variable, t.limit)).join(' + ')
-    : limitText(p.limit_variable, d.limit);
+  return d.tiers ? d.tiers.map((t) => planLimitText(p, t.limit)).join(' + ') : planLimitText(p, d.limit);
+}
+
+/** A limit as the plan's other outputs write it: AB (or erg/s/cm^2), after the flux density in the file's unit when it gave one. */
+function planLimitText(p: Plan, x: number): string {
+  return givenUnitLimitText(x, limitText(p.limit_variable, x), p.limit_unit);
 }
 
 const limitWord = (d: PlanDesign): string => (d.tiers ? 'limits' : 'limit');
@@ -49,13 +53,13 @@ function withNotes(p: Plan): boolean {
 
 /** One line on a design: its shape, count and goal (and its goal at the model's pessimistic case). */
 function designLine(p: Plan, b: PlanDesign): string {
-  return `${b.tiers ? `${b.tiers.length} tiers, ` : ''}${b.pointings} pointing${b.pointings === 1 ? '' : 's'} (${sig(b.area_deg2, 4)} deg^2)${b.tiers ? '' : ` of ${sig(b.exposure_hours_per_pointing, 4)} h to ${limitText(p.limit_variable, b.limit)}`}, ${sig(b.count, 5)} sources, goal value ${sig(b.goal_value, 4)}${b.goal_value_pessimistic !== undefined ? ` (${sig(b.goal_value_pessimistic, 4)} at the model's pessimistic case)` : ''}`;
+  return `${b.tiers ? `${b.tiers.length} tiers, ` : ''}${b.pointings} pointing${b.pointings === 1 ? '' : 's'} (${sig(b.area_deg2, 4)} deg^2)${b.tiers ? '' : ` of ${sig(b.exposure_hours_per_pointing, 4)} h to ${planLimitText(p, b.limit)}`}, ${sig(b.count, 5)} sources, goal value ${sig(b.goal_value, 4)}${b.goal_value_pessimistic !== undefined ? ` (${sig(b.goal_value_pessimistic, 4)} at the model's pessimistic case)` : ''}`;
 }
 
 function depthLawText(p: Plan): string {
   const law = p.depth_law;
   if (law.kind === 'table') return `table of ${law.table.length} rows (interpolated in log hours)`;
-  const from = `${limitText(p.limit_variable, law.reference_limit)} in ${sig(law.reference_exposure_hours)} h`;
+  const from = `${planLimitText(p, law.reference_limit)} in ${sig(law.reference_exposure_hours)} h`;
   if (law.kind !== 'noise') return `${law.kind}-limited from ${from}`;
   return `noise budget from ${from} (variance source : sky : read = 1 : ${sig(law.sky_to_source, 3)} : ${sig(law.read_to_source, 3)}, ${law.reference_frames} frames of at most ${sig(law.frame_hours, 3)} h)`;
 }
@@ -83,7 +87,7 @@ export function planTable(p: Plan): string {
   ];
   const b = p.best;
   lines.push(
-    `Best design (* below): ${b.tiers ? `${b.tiers.length} tiers, ` : ''}${b.pointings} pointing${b.pointings === 1 ? '' : 's'} (${sig(b.area_deg2, 4)} deg^2)${b.tiers ? '' : ` of ${sig(b.exposure_hours_per_pointing, 4)} h to ${limitText(p.limit_variable, b.limit)}`}, ${sig(b.count, 5)} sources, goal value ${sig(b.goal_value, 4)}${
+    `Best design (* below): ${b.tiers ? `${b.tiers.length} tiers, ` : ''}${b.pointings} pointing${b.pointings === 1 ? '' : 's'} (${sig(b.area_deg2, 4)} deg^2)${b.tiers ? '' : ` of ${sig(b.exposure_hours_per_pointing, 4)} h to ${planLimitText(p, b.limit)}`}, ${sig(b.count, 5)} sources, goal value ${sig(b.goal_value, 4)}${
       b.sigma
         ? ` (sigma of ${Object.entries(b.sigma)
             .map(([k, v]) => `${parameterWords(k)} ${sig(v, 3)}`)

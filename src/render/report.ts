@@ -27,6 +27,7 @@ import {
   uncertaintyPercent,
 } from './format.js';
 import { uncertaintySources } from './sources.js';
+import { fluxDensityOfAbMagnitude } from '../model/photometry.js';
 
 export interface ReportInput {
   /** The survey file exactly as written. */
@@ -710,6 +711,12 @@ function planTable(plan: PlanView): string {
   const listed = [...(plan.designs ?? [])];
   if (plan.best && !listed.some((d) => same(d, plan.best))) listed.push(plan.best);
   if (robust && !listed.some((d) => same(d, robust.best_assumed))) listed.push(robust.best_assumed);
+  // a limit the file wrote as a flux density: in its unit, then AB ("1.55 mJy (15.93 AB)")
+  const unit = plan.limit_unit;
+  const limitCell = (x: number): string =>
+    unit
+      ? `${formatNumber(fluxDensityOfAbMagnitude(x, unit), 3)} ${escapeHtml(unit)} (${formatFixed(x)} AB)`
+      : formatFixed(x);
   const designs = listed.sort((a, b) => a.exposure_hours_per_pointing - b.exposure_hours_per_pointing);
   const rows = designs
     .map((d) => {
@@ -724,7 +731,7 @@ function planTable(plan: PlanView): string {
         formatNumber(d.exposure_hours_per_pointing),
         formatNumber(d.pointings),
         formatNumber(d.area_deg2),
-        formatFixed(d.limit),
+        limitCell(d.limit),
         formatNumber(d.count),
         formatNumber(d.goal_value),
         ...(robust ? [d.goal_value_pessimistic === undefined ? '–' : formatNumber(d.goal_value_pessimistic)] : []),

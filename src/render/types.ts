@@ -92,7 +92,7 @@ export type PlanDesignView = Pick<
 >;
 
 /** The fields of a plan (the `plan` result) the figure and the report read. */
-export type PlanView = Pick<Plan, 'goal' | 'budget_hours'> & {
+export type PlanView = Pick<Plan, 'goal' | 'budget_hours' | 'limit_unit'> & {
   designs: readonly PlanDesignView[];
   best?: PlanDesignView;
   /** The designs at either end of the near-best range. */

@@ -1052,7 +1052,10 @@ function readDetection(
     const beta = checkRange(det.beta ?? -2, RANGES.beta, file, 'detection.beta');
     // Vega magnitudes become AB once, here: the limit and the completeness (src/survey/photometry.ts).
     detection = { kind, limitMag: given + phot.toAb, bandAngstrom: phot.bandAngstrom, beta, igm: det.igm ?? 'none' };
-    if (flux) detection.limitGivenJy = flux.jy;
+    if (flux) {
+      detection.limitGivenJy = flux.jy;
+      detection.limitGivenUnit = flux.unit;
+    }
     if (phot.bandGivenHz !== undefined) detection.bandGivenHz = phot.bandGivenHz;
     if (det.igm !== undefined) detection.igmStated = true;
     if (phot.bandTable) detection.bandTable = phot.bandTable;

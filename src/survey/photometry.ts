@@ -12,6 +12,7 @@ import type { InputFile } from '../model/survey.js';
 import {
   abMagnitudeOfJy,
   jyOfAbMagnitude,
+  type FluxDensityUnit,
   type MagnitudeSystemGiven,
   type RestFrame,
   type SedPhotometry,
@@ -118,7 +119,11 @@ export function isFluxDensityText(v: unknown): v is string {
  * its unit ("0.1 mJy", "25 nJy", "1e-29 erg s^-1 cm^-2 Hz^-1"): the value in Jy and its AB
  * magnitude m = -2.5 log10(f_nu / 3631 Jy), inside the apparent-magnitude range.
  */
-export function fluxDensityMagnitude(text: string, file: string, path: string): { jy: number; abMag: number } {
+export function fluxDensityMagnitude(
+  text: string,
+  file: string,
+  path: string,
+): { jy: number; abMag: number; unit: FluxDensityUnit } {
   const fix = 'give an AB magnitude as a number, or a flux density with its unit, e.g. 24.5, "0.1 mJy" or "2 uJy"';
   // "4 mJy/beam": a map's unit, which a submillimetre or radio observer writes out of habit; a point
   // source's flux density is its peak in it, so the number stands without "/beam"
@@ -154,7 +159,21 @@ export function fluxDensityMagnitude(text: string, file: string, path: string): 
       'give a flux density in that range',
     );
   }
-  return { jy, abMag };
+  return { jy, abMag, unit: fluxDensityUnitOf(text, jy) };
+}
+
+/**
+ * The unit a flux density was written in, for the outputs to quote limits in: Jy, mJy, uJy (or
+ * µJy) or nJy after the number; erg or W per Hz as cgs or SI; any other way of writing it (a
+ * product of units, another prefix) the jansky prefix that puts its value at 1 or above.
+ */
+function fluxDensityUnitOf(text: string, jy: number): FluxDensityUnit {
+  const t = text.trim().replace(/[µμ]Jy$/, 'uJy');
+  const jansky = /^[-+0-9.eE\s]*\s*([mun]?Jy)$/.exec(t);
+  if (jansky) return jansky[1] as FluxDensityUnit;
+  if (/^[-+0-9.eE\s]*\s*erg\b/.test(t)) return 'erg/s/cm^2/Hz';
+  if (/^[-+0-9.eE\s]*\s*W\b/.test(t)) return 'W/m^2/Hz';
+  return jy >= 1 ? 'Jy' : jy >= 1e-3 ? 'mJy' : jy >= 1e-6 ? 'uJy' : 'nJy';
 }
 
 /** A band {center, fwhm, profile} or {file} at `path` (file relative to the survey file). */

@@ -21,6 +21,7 @@
 import { excerpt, inputError } from '../errors.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
+import type { FluxDensityUnit } from '../model/photometry.js';
 import { parseQuantity } from './units.js';
 import { FULL_SKY_DEG2 } from '../model/sky.js';
 import { suggest } from './schema.js';
@@ -131,12 +132,16 @@ function hours(v: unknown, file: string, at: string, positive: boolean): number 
   );
 }
 
-function limitValue(v: unknown, kind: LimitKind, file: string, at: string): number {
+function limitValue(v: unknown, kind: LimitKind, file: string, at: string, units?: FluxDensityUnit[]): number {
   const range = kind === 'magnitude' ? RANGES.apparentMagnitude : RANGES.lineFlux;
   let x: number;
-  // a flux density with its unit is its AB magnitude, as detection.limit reads it
-  if (kind === 'magnitude' && isFluxDensityText(v)) x = fluxDensityMagnitude(v, file, at).abMag;
-  else if (kind === 'magnitude')
+  // a flux density with its unit is its AB magnitude, as detection.limit reads it (its unit kept
+  // for the outputs to quote the plan's limits in)
+  if (kind === 'magnitude' && isFluxDensityText(v)) {
+    const flux = fluxDensityMagnitude(v, file, at);
+    x = flux.abMag;
+    units?.push(flux.unit);
+  } else if (kind === 'magnitude')
     x = num(v, file, at, 'an AB magnitude (a number), or a flux density with its unit such as "4 mJy"');
   else {
     if (typeof v !== 'number' && typeof v !== 'string') {
@@ -221,6 +226,7 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
     );
   }
   checkKeys(raw, KEYS, file, 'plan');
+  const givenUnits: FluxDensityUnit[] = [];
   const kind = survey.detection.kind;
   if (kind === 'threshold') {
     throw inputError(
@@ -276,7 +282,7 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
       );
     }
     checkKeys(raw.reference, ['limit', 'exposure_hours'], file, 'plan.reference');
-    const referenceLimit = limitValue(raw.reference.limit, limitKind, file, 'plan.reference.limit');
+    const referenceLimit = limitValue(raw.reference.limit, limitKind, file, 'plan.reference.limit', givenUnits);
     const referenceHours = hours(raw.reference.exposure_hours, file, 'plan.reference.exposure_hours', true);
     return { referenceLimit, referenceHours };
   };
@@ -329,7 +335,7 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
           'write each row as [hours, limit]',
         );
       const h = hours(row[0], file, `${at}[0]`, true);
-      const l = limitValue(row[1], limitKind, file, `${at}[1]`);
+      const l = limitValue(row[1], limitKind, file, `${at}[1]`, givenUnits);
       if (i > 0 && !(h > hs[i - 1]!))
         throw inputError(
           'bad_table',
@@ -571,7 +577,7 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
       }
       fixed = { areaDeg2 };
     } else {
-      const limit = limitValue(raw.fixed.limit, limitKind, file, 'plan.fixed.limit');
+      const limit = limitValue(raw.fixed.limit, limitKind, file, 'plan.fixed.limit', givenUnits);
       if (
         law.kind === 'table' &&
         (depthOfLimit(limitKind, limit) < depthOfLimit(limitKind, law.limits[0]!) ||
@@ -604,5 +610,9 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
   };
   if (fixed) spec.fixed = fixed;
   if (robust) spec.robust = true;
+  // the unit of the plan's first flux-density limit, else of the survey's detection.limit
+  const det = survey.detection;
+  const limitUnit = givenUnits[0] ?? (det.kind === 'magnitude' ? det.limitGivenUnit : undefined);
+  if (limitUnit) spec.limitUnit = limitUnit;
   return spec;
 }

@@ -33,6 +33,10 @@ export interface ComparedSurvey {
   area_deg2: number;
   redshift: RedshiftRange;
   limit: number | string;
+  /**
+   * Present only when this survey file gave detection.limit as a flux density: the unit it was written in. limit stays an AB magnitude; the human outputs quote it in this unit too (f_nu = 3631 Jy 10^(-0.4 m)).
+   */
+  limit_unit?: 'Jy' | 'mJy' | 'uJy' | 'nJy' | 'erg/s/cm^2/Hz' | 'W/m^2/Hz';
   limit_variable: 'apparent_magnitude' | 'line_flux_cgs' | 'log10_quantity' | 'absolute_magnitude';
   count: number;
   per_deg2: number;

@@ -152,6 +152,10 @@ export interface Requirement {
    */
   limit: number | null;
   /**
+   * Present only when the survey file gave detection.limit as a flux density: the unit it was written in. The limits stay AB magnitudes here; the human outputs quote them in this unit too (f_nu = 3631 Jy 10^(-0.4 m)).
+   */
+  limit_unit?: 'Jy' | 'mJy' | 'uJy' | 'nJy' | 'erg/s/cm^2/Hz' | 'W/m^2/Hz';
+  /**
    * log10_quantity and absolute_magnitude (threshold kind) give the limit at the window's middle; a redshift-dependent limit is moved by a constant.
    */
   limit_variable: 'line_flux_cgs' | 'apparent_magnitude' | 'log10_quantity' | 'absolute_magnitude';

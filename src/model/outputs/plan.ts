@@ -21,6 +21,10 @@ export interface Plan {
   overhead_hours: number;
   field_of_view_deg2: number;
   limit_variable: 'apparent_magnitude' | 'line_flux_cgs';
+  /**
+   * Present only when the plan's limits (reference.limit, fixed.limit, a depth_law table's rows) or else the survey's detection.limit were given as a flux density: the unit of the first so written. The limits stay AB magnitudes here; the human outputs quote them in this unit too (f_nu = 3631 Jy 10^(-0.4 m)).
+   */
+  limit_unit?: 'Jy' | 'mJy' | 'uJy' | 'nJy' | 'erg/s/cm^2/Hz' | 'W/m^2/Hz';
   depth_law:
     | {
         kind: 'background' | 'source';
