@@ -480,6 +480,34 @@ export const SMALL_COUNT_LABEL = (() => {
   return `datum.value > 0 && datum.value < 1e-3 ? ${small} : datum.value === 0 && length(datum.label) > 5 ? '0' : datum.label`;
 })();
 
+/**
+ * A count as SMALL_COUNT_LABEL writes its tick: below 1e-3 as 4×10⁻¹⁴ (10⁻⁸ for 1e-8), a zero
+ * vega wrote with more than five characters as 0, any other value as vega wrote it (`text`).
+ */
+export function smallCountText(value: number, text: string): string {
+  if (value > 0 && value < 1e-3) {
+    const k = Math.floor(Math.log(value) / Math.LN10 + 1e-9);
+    const mantissa = String(Number((value / 10 ** k).toPrecision(2)));
+    const digits = ['⁰', '¹', '²', '³', '⁴', '⁵', '⁶', '⁷', '⁸', '⁹'];
+    const power = (k < 0 ? '⁻' : '') + [...String(Math.abs(k))].map((d) => digits[Number(d)]).join('');
+    return (mantissa === '1' ? '' : `${mantissa}×`) + '10' + power;
+  }
+  return value === 0 && text.length > 5 ? '0' : text;
+}
+
+/**
+ * The count axes' descriptions read aloud ("Y-axis titled 'count per bin' for a linear scale with
+ * values from 0 to 4×10⁻¹⁴") with the counts written as their tick labels are: vega writes the
+ * range in its default format (0.00000000000004), whatever the labels say.
+ */
+export function shortCountAxisCaptions(svg: string): string {
+  return svg.replace(
+    /(aria-label="Y-axis titled 'count per[^'"]*' for a linear scale with values from )([0-9.]+) to ([0-9.]+)"/g,
+    (_all, head: string, lo: string, hi: string) =>
+      `${head}${smallCountText(Number(lo), lo)} to ${smallCountText(Number(hi), hi)}"`,
+  );
+}
+
 export function histogramsSpec(p: PredictionView, model?: ModelAsWritten): Spec | null {
   const m = model ?? models(p.model)[0];
   const rows = histogramPanelRows(p);
@@ -1341,15 +1369,19 @@ export async function renderSvg(spec: Spec): Promise<string> {
   }
 }
 
-async function figure(name: string, spec: Spec | null): Promise<Figure | null> {
+async function figure(
+  name: string,
+  spec: Spec | null,
+  finish: (svg: string) => string = (svg) => svg,
+): Promise<Figure | null> {
   if (!spec) return null;
   const title = String((spec.usermeta as { title?: string } | undefined)?.title ?? name);
-  return { name, title, spec, svg: await renderSvg(spec) };
+  return { name, title, spec, svg: finish(await renderSvg(spec)) };
 }
 
 export const countsFigure = (p: PredictionView) => figure('counts', countsSpec(p));
 export const histogramsFigure = (p: PredictionView, model?: ModelAsWritten) =>
-  figure('histograms', histogramsSpec(p, model));
+  figure('histograms', histogramsSpec(p, model), shortCountAxisCaptions);
 export const luminosityFunctionFigure = (p: PredictionView, model?: ModelAsWritten) =>
   figure('luminosity-function', luminosityFunctionSpec(p, model));
 export const forecastFigure = (f: ForecastView, surveyTitle?: string) =>

@@ -262,6 +262,39 @@ describe.skipIf(!haveChromium)('explore page in headless chromium', () => {
       expectSameOutputs(await outputsOf(page), await writtenBack(`keyboard-${sample}`), 'after the keyboard');
     });
 
+    test.runIf(sample === 'halpha-narrowband.yaml')(
+      'the survey file panel, closed, holds the file with the current settings, as open and as the button writes it (failed before: the first file)',
+      async () => {
+        const r = await sampleExplorePage(sample);
+        const p = await context.newPage();
+        await p.goto(pathToFileURL(r.out).href, { waitUntil: 'load' });
+        await p.waitForFunction(() => document.body.dataset.ready === 'true');
+        const original = readFileSync(`samples/${sample}`, 'utf8');
+        expect(await p.textContent('#survey-yaml')).toBe(original);
+        const area = Number(await p.$eval('input[data-key="area"]', (e) => (e as unknown as Field).value));
+        await setControl(p, 'area', area * 0.5);
+        // the panel is still closed; its text (what a script or a screen reader reads) is the file as now set
+        expect(await p.$eval('#survey-panel', (e) => (e as unknown as { open: boolean }).open)).toBe(false);
+        const closed = (await p.textContent('#survey-yaml'))!;
+        expect(closed).not.toBe(original);
+        expect(closed).toContain(`area: ${area * 0.5}`);
+        const [download] = await Promise.all([p.waitForEvent('download'), p.click('#write-survey')]);
+        expect(readFileSync(await download.path(), 'utf8')).toBe(closed);
+        // a second change with the panel still closed, then opened: the same text open as closed
+        await setControl(p, 'area', area * 0.25);
+        const closed2 = (await p.textContent('#survey-yaml'))!;
+        expect(closed2).toContain(`area: ${area * 0.25}`);
+        await p.click('#survey-panel summary');
+        expect(await p.$eval('#survey-panel', (e) => (e as unknown as { open: boolean }).open)).toBe(true);
+        expect(await p.textContent('#survey-yaml')).toBe(closed2);
+        // the numbers shown are those of the text the panel holds
+        const file = join(dir, 'closed-panel.yaml');
+        writeFileSync(file, closed2);
+        expectSameOutputs(await outputsOf(p), await expectedOutputs(file), 'closed panel');
+        await p.close();
+      },
+    );
+
     test.runIf(sample === 'narrowband-interlopers.yaml')(
       'a plan file: the exposure per pointing sets the area and the limit; the page equals the commands on what it writes',
       async () => {

@@ -21,6 +21,7 @@ import {
   powerOfTen,
   renderSvg,
   drawnBins,
+  smallCountText,
   type Cov2,
 } from '../../src/render/figures.js';
 import type { PredictionView } from '../../src/render/types.js';
@@ -508,6 +509,31 @@ describe('figures for a proposal', () => {
     expect(labels.some((l) => /^0\.0{5,}/.test(l))).toBe(false);
     // the first slice's counts (hundreds) keep vega's own labels
     expect(labels).toContain('200');
+  });
+
+  test('the count axis read aloud says 0 to 4×10⁻¹⁴ as its labels do, not 0.00000000000004 (failed before)', async () => {
+    const p = demoPrediction({ slices: 2 });
+    const h = p.slices[1]!.histogram!;
+    h.counts = h.counts.map((c) => (c / h.counts[0]!) * 4e-14);
+    const svg = (await histogramsFigure(p))!.svg;
+    const captions = [...svg.matchAll(/aria-label="(Y-axis[^"]*)"/g)].map((m) => m[1]!);
+    // one count axis per panel; the second's range is 0 to 4e-14 (its highest bin, niced), the
+    // first's (hundreds of sources) as vega writes it
+    expect(captions).toHaveLength(2);
+    expect(captions[1]).toMatch(/ with values from 0 to 4×10⁻¹⁴$/);
+    expect(captions[0]).toMatch(/ with values from 0 to \d{3}$/);
+    expect([...svg.matchAll(/aria-label="([^"]*)"/g)].some((m) => /\b0\.0{5,}/.test(m[1]!))).toBe(false);
+  });
+
+  test('smallCountText writes counts as the tick labels do (values from memory of the 10^k notation)', () => {
+    expect(smallCountText(4e-14, '0.00000000000004')).toBe('4×10⁻¹⁴');
+    expect(smallCountText(1e-8, '0.00000001')).toBe('10⁻⁸');
+    expect(smallCountText(2.5e-4, '0.00025')).toBe('2.5×10⁻⁴');
+    expect(smallCountText(3e-12, '0.000000000003')).toBe('3×10⁻¹²');
+    expect(smallCountText(0, '0.00000000000000')).toBe('0');
+    expect(smallCountText(0, '0.0')).toBe('0.0');
+    expect(smallCountText(0.002, '0.002')).toBe('0.002');
+    expect(smallCountText(900, '900')).toBe('900');
   });
 
   test('luminosity-function ticks are powers of ten written 10⁻ⁿ (failed before: 1e-2)', async () => {
