@@ -152,6 +152,54 @@ describe('check', () => {
     expect(r.code).toBe(0);
     expect(JSON.parse(r.stdout)).toBeTypeOf('object');
   });
+  test('the text prints each population one key per line, as the other sections (failed before: one line of JSON)', async () => {
+    const r = await runCli(['check', 'samples/narrowband-interlopers.yaml']);
+    expect(r.code, r.stderr).toBe(0);
+    const lines = r.stdout.split('\n');
+    // values as samples/narrowband-interlopers.yaml writes them (names, alpha, SFR conversions, lines)
+    for (const line of [
+      '  populations[0].name = H-alpha',
+      '  populations[0].alpha = -1.35',
+      '  populations[0].sfr_conversion.name = halpha',
+      '  populations[1].name = [OIII]',
+      '  populations[1].line_angstrom = 5006.8',
+      '  populations[2].name = [OII]',
+      '  populations[2].sfr_conversion.name = oii',
+      '  populations[2].alpha = -1.3',
+      // no selection effect: a list of words, empty
+      '  populations[2].selection.effects = none',
+    ])
+      expect(lines).toContain(line);
+    expect(r.stdout).not.toMatch(/\[\{|\{"/);
+    // every value of the JSON's populations on a line of its own, the same value (lists of numbers as JSON)
+    const json = JSON.parse(
+      (await runCli(['check', 'samples/narrowband-interlopers.yaml', '--format', 'json'])).stdout,
+    );
+    const leaves: [string, unknown][] = [];
+    const walk = (v: unknown, key: string): void => {
+      if (Array.isArray(v) && v.some((x) => typeof x === 'object' && x !== null && !Array.isArray(x)))
+        v.forEach((x, i) => walk(x, `${key}[${i}]`));
+      else if (typeof v === 'object' && v !== null && !Array.isArray(v))
+        for (const [k, x] of Object.entries(v)) walk(x, `${key}.${k}`);
+      else leaves.push([key, v]);
+    };
+    walk(json.populations, 'populations');
+    expect(leaves.length).toBeGreaterThan(40);
+    const text = new Map(
+      lines.filter((l) => l.startsWith('  populations')).map((l) => l.trim().split(' = ') as [string, string]),
+    );
+    expect(text.size).toBe(leaves.length);
+    for (const [key, v] of leaves) {
+      const shown = text.get(key);
+      if (typeof v === 'string') expect(shown, key).toBe(v);
+      else if (Array.isArray(v) && v.length === 0) expect(shown, key).toBe('none');
+      else expect(JSON.parse(shown!), key).toEqual(v);
+    }
+    // a model's uncertainty: its parameters as words (samples/plan-robust-uv-slope.yaml), sigmas one per line
+    const robust = (await runCli(['check', 'samples/plan-robust-uv-slope.yaml'])).stdout.split('\n');
+    expect(robust).toContain('  populations[0].model_uncertainty.parameters = log10_phi_star, m_star, alpha');
+    expect(robust).toContain('  populations[0].model_uncertainty.sigmas.m_star = 0.18');
+  });
   test('checks the plan section as plan and report read it: a mistyped or impossible plan key is refused', async () => {
     const dir = tempDir('skytally-check-plan-');
     const text = readFileSync('samples/plan-uv-deep-wide.yaml', 'utf8');
