@@ -713,10 +713,14 @@ function planTable(plan: PlanView): string {
   if (robust && !listed.some((d) => same(d, robust.best_assumed))) listed.push(robust.best_assumed);
   // a limit the file wrote as a flux density: in its unit, then AB ("1.55 mJy (15.93 AB)")
   const unit = plan.limit_unit;
+  // a line flux (5e-17 erg/s/cm^2) in powers of ten: two decimals wrote every one as 0.00
+  const lineFlux = plan.limit_variable === 'line_flux_cgs';
   const limitCell = (x: number): string =>
     unit
       ? `${formatNumber(fluxDensityOfAbMagnitude(x, unit), 3)} ${escapeHtml(unit)} (${formatFixed(x)} AB)`
-      : formatFixed(x);
+      : lineFlux
+        ? formatNumber(x, 3)
+        : formatFixed(x);
   const designs = listed.sort((a, b) => a.exposure_hours_per_pointing - b.exposure_hours_per_pointing);
   const rows = designs
     .map((d) => {
@@ -744,7 +748,7 @@ function planTable(plan: PlanView): string {
     'exposure per pointing<br><span class="unit">hours</span>',
     'pointings',
     'area<br><span class="unit">deg²</span>',
-    'limit',
+    lineFlux ? 'limit<br><span class="unit">erg s⁻¹ cm⁻²</span>' : 'limit',
     'count',
     `goal value<br><span class="unit">${escapeHtml(goalWords(plan.goal))}</span>`,
     ...(robust

@@ -92,18 +92,19 @@ export type PlanDesignView = Pick<
 >;
 
 /** The fields of a plan (the `plan` result) the figure and the report read. */
-export type PlanView = Pick<Plan, 'goal' | 'budget_hours' | 'limit_unit'> & {
-  designs: readonly PlanDesignView[];
-  best?: PlanDesignView;
-  /** The designs at either end of the near-best range. */
-  near_best?: { from: PlanDesignView; to: PlanDesignView };
-  /** With robust: true, how the designs were ranked across the model (best is the robust best). */
-  robust?: Pick<NonNullable<Plan['robust']>, 'draws' | 'source' | 'percentile' | 'same_design'> & {
-    best_assumed: PlanDesignView;
-    /** How often the robust best wins draw by draw (a plan's robust.agreement). */
-    agreement?: NonNullable<Plan['robust']>['agreement'];
+export type PlanView = Pick<Plan, 'goal' | 'budget_hours' | 'limit_unit'> &
+  Partial<Pick<Plan, 'limit_variable'>> & {
+    designs: readonly PlanDesignView[];
+    best?: PlanDesignView;
+    /** The designs at either end of the near-best range. */
+    near_best?: { from: PlanDesignView; to: PlanDesignView };
+    /** With robust: true, how the designs were ranked across the model (best is the robust best). */
+    robust?: Pick<NonNullable<Plan['robust']>, 'draws' | 'source' | 'percentile' | 'same_design'> & {
+      best_assumed: PlanDesignView;
+      /** How often the robust best wins draw by draw (a plan's robust.agreement). */
+      agreement?: NonNullable<Plan['robust']>['agreement'];
+    };
   };
-};
 
 /** One drawn figure. */
 export interface Figure {

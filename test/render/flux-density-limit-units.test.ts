@@ -151,3 +151,37 @@ describe('limits quoted in the flux-density unit the file used', () => {
     );
   });
 });
+
+describe("the report's plan table of a line-flux plan", () => {
+  test('gives each limit in erg/s/cm^2 to 3 figures, not 0.00', async () => {
+    const survey = loadSurveyText(
+      `format: 1
+title: H-alpha plan
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1
+redshift: {min: 0.8, max: 1.2}
+detection: {kind: line_flux, limit: "6e-17 erg/s/cm^2"}
+population: {variable: luminosity, line: 6562.8, log10_phi_star: -2.7, log10_l_star: 42.5, alpha: -1.4}
+slices: {count: 2}
+plan:
+  field_of_view: "0.2 deg^2"
+  budget_hours: 100
+  goal: count
+  exposure_grid: {min_hours: 1, max_hours: 50, count: 4}
+  reference: {limit: "6e-17 erg/s/cm^2", exposure_hours: 1}
+`,
+      'line.yaml',
+    );
+    const r = await computeReport('line.yaml', survey, reportSections({}));
+    const html = await reportHtml(r, '', []);
+    const planned = r.plan as Awaited<ReturnType<typeof plan>>;
+    expect(planned.limit_unit).toBeUndefined();
+    expect(html).toContain('limit<br><span class="unit">erg s⁻¹ cm⁻²</span>');
+    for (const d of planned.designs) {
+      // formatNumber's powers of ten, 3 figures (common practice): 5.2e-17 as 5.2 × 10⁻¹⁷
+      const [m, e] = d.limit.toExponential(2).split('e');
+      expect(html).toContain(`<td>${Number(m)} × 10<sup>${Number(e)}</sup></td>`);
+    }
+    expect(html).not.toContain('<td>0.00</td>');
+  });
+});
