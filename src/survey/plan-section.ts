@@ -167,6 +167,11 @@ function limitValue(v: unknown, kind: LimitKind, file: string, at: string, units
   return x;
 }
 
+/** A limit for a message: as written when a flux density ("2 mJy", AB 16.15), else its value. */
+function shownLimit(v: unknown, x: number, kind: LimitKind): string {
+  return kind === 'magnitude' && isFluxDensityText(v) ? `${shown(v)}, AB ${Number(x.toPrecision(4))}` : String(x);
+}
+
 /** A value read from the file, for a message: JSON, cut short and escaped. */
 function shown(v: unknown): string {
   return excerpt(JSON.stringify(v) ?? String(v));
@@ -349,7 +354,7 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
           'bad_table',
           file,
           `${at}[1]`,
-          `is not deeper than the row before (${ls[i - 1]})`,
+          `is not deeper than the row before (${shownLimit((t[i - 1] as unknown[])[1], ls[i - 1]!, limitKind)})`,
           'give limits that deepen as the exposure grows',
         );
       }
@@ -587,7 +592,7 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
           'out_of_range',
           file,
           'plan.fixed.limit',
-          `is ${limit}, outside the depth_law table`,
+          `is ${shownLimit(raw.fixed.limit, limit, limitKind)}, outside the depth_law table`,
           "give a limit between the table's first and last rows",
         );
       }

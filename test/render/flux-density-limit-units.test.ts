@@ -22,6 +22,8 @@ import {
 import { fluxDensityOfAbMagnitude } from '../../src/model/photometry.js';
 import { computeReport, reportHtml, reportSections } from '../../src/library/report.js';
 import { precise, sig } from '../../src/render/format.js';
+import { readPlanSection } from '../../src/survey/plan-section.js';
+import { errorOf } from '../support/survey-error.js';
 
 /** Oke & Gunn 1983 AB definition: the flux density in Jy of an AB magnitude, m = -2.5 log10(f_nu / 3631 Jy). */
 const jyOfAb = (m: number) => 3631 * 10 ** (-0.4 * m);
@@ -183,5 +185,37 @@ plan:
       expect(html).toContain(`<td>${Number(m)} × 10<sup>${Number(e)}</sup></td>`);
     }
     expect(html).not.toContain('<td>0.00</td>');
+  });
+});
+
+describe("a plan's flux-density limit in a refusal", () => {
+  const planWith = (lines: string) =>
+    load(
+      '"4 mJy"',
+      `plan:
+  field_of_view: "0.2 deg^2"
+  budget_hours: 100
+  goal: count
+  exposure_grid: {min_hours: 1, max_hours: 10, count: 4}
+${lines}
+`,
+      'plan.yaml',
+    );
+  // the AB magnitude as the message writes it: 4 figures of -2.5 log10(f_nu / 3631 Jy) (Oke & Gunn 1983 AB definition)
+  const ab = (jy: number) => Number((-2.5 * Math.log10(jy / 3631)).toPrecision(4));
+
+  test('is quoted as written, with its AB magnitude', () => {
+    const outside = errorOf(() => {
+      const s = planWith('  depth_law: {table: [[1, "8 mJy"], [10, "2 mJy"]]}\n  fixed: {limit: "1 uJy"}');
+      readPlanSection(s, s.populations[0]!);
+    });
+    expect(outside.keyPath).toBe('plan.fixed.limit');
+    expect(outside.message).toContain(`is "1 uJy", AB ${ab(1e-6)}, outside the depth_law table`);
+    const shallower = errorOf(() => {
+      const s = planWith('  depth_law: {table: [[1, "8 mJy"], [10, "9 mJy"]]}');
+      readPlanSection(s, s.populations[0]!);
+    });
+    expect(shallower.keyPath).toBe('plan.depth_law.table[1][1]');
+    expect(shallower.message).toContain(`is not deeper than the row before ("8 mJy", AB ${ab(8e-3)})`);
   });
 });
