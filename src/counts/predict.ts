@@ -85,6 +85,7 @@ export function detectionJson(survey: Survey): PredictionBase['detection'] {
       igm: d.igm,
     };
     if (d.limitGivenJy !== undefined) b.limit_jy = d.limitGivenJy;
+    if (d.limitGivenUnit !== undefined) b.limit_unit = d.limitGivenUnit;
     if (d.bandGivenHz !== undefined) b.band_ghz = d.bandGivenHz / 1e9;
     if (d.bandTable) b.band_file = d.bandTable.file;
     if (d.magnitudeSystem) {

@@ -1,7 +1,7 @@
 /** The detection of a prediction in words (no table library: the report reads it too). */
 import type { Prediction } from '../model/outputs/prediction.js';
 import { sig } from './format.js';
-import { fluxDensityOfAbMagnitude, type FluxDensityUnit } from '../model/photometry.js';
+import { fluxDensityOfAbMagnitude, UNITS_PER_JY, type FluxDensityUnit } from '../model/photometry.js';
 
 /** A flux density in Jy as Jy, mJy, uJy or nJy, whichever puts it at 1 or above (nJy below). */
 export function fluxDensityText(jy: number): string {
@@ -39,7 +39,7 @@ export function detectionLine(
   if (d.kind === 'magnitude') {
     const given =
       d.limit_jy !== undefined
-        ? ` (given as ${fluxDensityText(d.limit_jy)})`
+        ? ` (given as ${d.limit_unit ? `${sig(d.limit_jy * UNITS_PER_JY[d.limit_unit], 4)} ${d.limit_unit}` : fluxDensityText(d.limit_jy)})`
         : d.system === 'vega'
           ? ` (given in Vega, AB = Vega ${d.vega_to_ab! < 0 ? '-' : '+'} ${sig(Math.abs(d.vega_to_ab!))})`
           : '';

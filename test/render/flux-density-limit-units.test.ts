@@ -17,6 +17,8 @@ import {
   loadSurveyText,
   plan,
   planTable,
+  predict,
+  predictionTable,
   type Survey,
 } from '../../src/index.js';
 import { fluxDensityOfAbMagnitude } from '../../src/model/photometry.js';
@@ -217,5 +219,22 @@ ${lines}
     });
     expect(shallower.keyPath).toBe('plan.depth_law.table[1][1]');
     expect(shallower.message).toContain(`is not deeper than the row before ("8 mJy", AB ${ab(8e-3)})`);
+  });
+});
+
+describe("predict's table says the limit was given in the file's unit", () => {
+  test.each([
+    ['"4000 uJy"', 'uJy', 1e6],
+    ['"4e-26 erg s^-1 cm^-2 Hz^-1"', 'erg/s/cm^2/Hz', 1e-23],
+    ['"4 mJy"', 'mJy', 1e3],
+  ] as const)('%s', (limit, unit, perJy) => {
+    const p = predict(load(limit));
+    if (p.detection.kind !== 'magnitude') throw new Error('a magnitude detection');
+    expect(p.detection.limit_unit).toBe(unit);
+    // limit_jy back from limit_ab_mag by the AB definition (Oke & Gunn 1983 AB definition), 1e-12
+    expect(Math.abs(p.detection.limit_jy! / jyOfAb(p.detection.limit_ab_mag) - 1)).toBeLessThan(1e-12);
+    expect(predictionTable(p)).toContain(
+      `AB magnitude limit ${sig(p.detection.limit_ab_mag)} (given as ${sig(jyOfAb(p.detection.limit_ab_mag) * perJy, 4)} ${unit})`,
+    );
   });
 });

@@ -241,8 +241,12 @@ describe('a prediction from a flux density equals the one from its AB magnitude 
       ),
     );
     expect(flux.detection).toMatchObject({ kind: 'magnitude', limit_jy: 2e-6, band_ghz: 1.4 });
-    const { limit_jy, ...detection } = flux.detection as typeof flux.detection & { limit_jy?: number };
+    const { limit_jy, limit_unit, ...detection } = flux.detection as typeof flux.detection & {
+      limit_jy?: number;
+      limit_unit?: string;
+    };
     expect(limit_jy).toBe(2e-6);
+    expect(limit_unit).toBe('uJy');
     expect(JSON.stringify({ ...flux, detection })).toBe(JSON.stringify(ab));
     expect(flux.totals.count).toBeGreaterThan(0);
   });

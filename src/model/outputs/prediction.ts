@@ -86,6 +86,10 @@ export interface MagnitudeDetectionBlock {
    */
   limit_jy?: number;
   /**
+   * the unit the file wrote limit_jy in (only then); the table says the limit was given in it, as forecast, compare and plan quote their limits
+   */
+  limit_unit?: 'Jy' | 'mJy' | 'uJy' | 'nJy' | 'erg/s/cm^2/Hz' | 'W/m^2/Hz';
+  /**
    * effective wavelength of the band
    */
   band_angstrom: number;
