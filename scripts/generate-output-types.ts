@@ -76,10 +76,11 @@ const NAMES: Record<string, string> = {
   range: 'RedshiftRange',
   completeness: 'CompletenessBlock',
   selection: 'SelectionBlock',
+  model_uncertainty: 'ModelUncertaintyBlock',
 };
 
 /** Definitions several outputs hold: written once, in shared.ts. */
-const SHARED = ['cosmology', 'model', 'parameter', 'ztable', 'range', 'completeness', 'selection'];
+const SHARED = ['cosmology', 'model', 'parameter', 'ztable', 'range', 'completeness', 'selection', 'model_uncertainty'];
 
 /** References to other outputs' schemas (the report's sections) and the types they stand for. */
 const OTHER_OUTPUTS: Record<string, { type: string; module: string }> = {
@@ -188,7 +189,14 @@ export async function generateOutputTypes(): Promise<Map<string, string>> {
     for (const [, other] of Object.entries(OTHER_OUTPUTS)) {
       if (used.delete(other.type)) imports.push(`import type { ${other.type} } from '${other.module}';`);
     }
-    if (used.size > 0) imports.push(`import type { ${[...used].sort().join(', ')} } from './shared.js';`);
+    if (used.size > 0) {
+      // one line up to the print width, else one name per line (as prettier writes it)
+      const names = [...used].sort();
+      const line = `import type { ${names.join(', ')} } from './shared.js';`;
+      imports.push(
+        line.length <= 120 ? line : `import type {\n${names.map((n) => `  ${n},`).join('\n')}\n} from './shared.js';`,
+      );
+    }
     files.set(
       `${schema}.ts`,
       `${BANNER(`specs/${schema}.schema.json`)}\n${imports.join('\n')}${imports.length ? '\n\n' : ''}${tidy(ts)}`,

@@ -1,6 +1,13 @@
 /* Generated from specs/check.schema.json by scripts/generate-output-types.ts: do not edit (run `npx tsx scripts/generate-output-types.ts`). */
 import type { Warning } from '../../warnings.js';
-import type { CompletenessBlock, CosmologyBlock, RedshiftRange, SelectionBlock, ZTable } from './shared.js';
+import type {
+  CompletenessBlock,
+  CosmologyBlock,
+  ModelUncertaintyBlock,
+  RedshiftRange,
+  SelectionBlock,
+  ZTable,
+} from './shared.js';
 
 /**
  * A parameter: its normalised value when constant; otherwise what the file wrote and the normalised values at the window's ends.
@@ -172,34 +179,5 @@ export interface PopulationView {
   bias: 'auto' | ParameterView;
   occupation: number;
   selection: SelectionBlock;
-  /**
-   * the population's model_uncertainty as read: 1-sigma offsets with their correlations (gaussian), or the draws file
-   */
-  model_uncertainty?: {
-    kind: 'gaussian' | 'draws';
-    /**
-     * the parameters varied, in the order of sigmas and of the file's columns
-     */
-    parameters: string[];
-    /**
-     * gaussian: 1 sigma per parameter (dex for log10 phi* and log10 L*, mag for M*)
-     */
-    sigmas?: {
-      [k: string]: number;
-    };
-    /**
-     * gaussian: the non-zero correlations by pair name a-b
-     */
-    correlations?: {
-      [k: string]: number;
-    };
-    /**
-     * draws: the draws file as named in the survey file
-     */
-    file?: string;
-    /**
-     * draws: the number of rows read
-     */
-    draws?: number;
-  };
+  model_uncertainty?: ModelUncertaintyBlock;
 }

@@ -58,36 +58,7 @@ export interface ModelDescription {
     phi_star_mpc3: ParameterDescription;
     alpha: ParameterDescription;
   }[];
-  /**
-   * the population's model_uncertainty as read: 1-sigma offsets with their correlations (gaussian), or the draws file
-   */
-  model_uncertainty?: {
-    kind: 'gaussian' | 'draws';
-    /**
-     * the parameters varied, in the order of sigmas and of the file's columns
-     */
-    parameters: string[];
-    /**
-     * gaussian: 1 sigma per parameter (dex for log10 phi* and log10 L*, mag for M*)
-     */
-    sigmas?: {
-      [k: string]: number;
-    };
-    /**
-     * gaussian: the non-zero correlations by pair name a-b
-     */
-    correlations?: {
-      [k: string]: number;
-    };
-    /**
-     * draws: the draws file as named in the survey file
-     */
-    file?: string;
-    /**
-     * draws: the number of rows read
-     */
-    draws?: number;
-  };
+  model_uncertainty?: ModelUncertaintyBlock;
   sfr_conversion?: {
     name: 'halpha' | 'oii' | 'uv' | 'factor';
     /**
@@ -151,6 +122,36 @@ export interface ZTable {
    * [[z, value], ...], interpolated linearly
    */
   table: number[][];
+}
+/**
+ * the population's model_uncertainty as read: 1-sigma offsets with their correlations (gaussian), or the draws file
+ */
+export interface ModelUncertaintyBlock {
+  kind: 'gaussian' | 'draws';
+  /**
+   * the parameters varied, in the order of sigmas and of the file's columns
+   */
+  parameters: string[];
+  /**
+   * gaussian: 1 sigma per parameter (dex for log10 phi* and log10 L*, mag for M*)
+   */
+  sigmas?: {
+    [k: string]: number;
+  };
+  /**
+   * gaussian: the non-zero correlations by pair name a-b
+   */
+  correlations?: {
+    [k: string]: number;
+  };
+  /**
+   * draws: the draws file as named in the survey file
+   */
+  file?: string;
+  /**
+   * draws: the number of rows read
+   */
+  draws?: number;
 }
 /**
  * The selection effects applied to this population (docs/survey-file.md, "Selection effects"): which were used, whether attenuation was applied, and each one's value.
