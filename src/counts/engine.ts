@@ -17,7 +17,7 @@
 import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
-import { gaussLegendreRule, panelNodes, type PanelNodes } from '../numerics/quadrature.js';
+import { gaussLegendreRule, keptBreaks, panelNodes, type PanelNodes } from '../numerics/quadrature.js';
 import { upperGamma } from '../numerics/gamma.js';
 import { makeObserver, type HistogramVariable, type Observation, type Observer } from '../selection/observe.js';
 import { selectionEffects } from '../selection/effects.js';
@@ -723,15 +723,6 @@ function limitCrossings(
     fa = fb;
   }
   return out;
-}
-
-/** Sorted, without breaks closer than 1e-9 to each other or to the ends. */
-function keptBreaks(out: number[], lo: number, hi: number): number[] {
-  out.sort((x, y) => x - y);
-  const kept: number[] = [];
-  for (const x of out)
-    if (x - lo > 1e-9 && hi - x > 1e-9 && (kept.length === 0 || x - kept[kept.length - 1]! > 1e-9)) kept.push(x);
-  return kept;
 }
 
 /**

@@ -322,3 +322,15 @@ export function integrateToInfinity(f: (t: number) => number, a: number, opts: I
   };
   return integrate(g, 0, 1, opts);
 }
+
+/**
+ * Cuts of an integral over (lo, hi), sorted, without those closer than 1e-9 to each other or to
+ * the ends (`out` is sorted in place).
+ */
+export function keptBreaks(out: number[], lo: number, hi: number): number[] {
+  out.sort((x, y) => x - y);
+  const kept: number[] = [];
+  for (const x of out)
+    if (x - lo > 1e-9 && hi - x > 1e-9 && (kept.length === 0 || x - kept[kept.length - 1]! > 1e-9)) kept.push(x);
+  return kept;
+}

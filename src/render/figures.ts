@@ -488,9 +488,7 @@ export function smallCountText(value: number, text: string): string {
   if (value > 0 && value < 1e-3) {
     const k = Math.floor(Math.log(value) / Math.LN10 + 1e-9);
     const mantissa = String(Number((value / 10 ** k).toPrecision(2)));
-    const digits = ['⁰', '¹', '²', '³', '⁴', '⁵', '⁶', '⁷', '⁸', '⁹'];
-    const power = (k < 0 ? '⁻' : '') + [...String(Math.abs(k))].map((d) => digits[Number(d)]).join('');
-    return (mantissa === '1' ? '' : `${mantissa}×`) + '10' + power;
+    return (mantissa === '1' ? '' : `${mantissa}×`) + powerOfTen(k);
   }
   return value === 0 && text.length > 5 ? '0' : text;
 }

@@ -9,6 +9,7 @@ import type { ZParam } from '../model/zparam.js';
 import { compileExpression } from './expressions.js';
 import { CAPS, describeRange, inRange, type Range } from '../model/limits.js';
 import { down, up, type Bounds } from './interval.js';
+import { keptBreaks } from '../numerics/quadrature.js';
 
 export type ZTable = { table: [number, number][] };
 
@@ -152,11 +153,7 @@ export function signChanges(fs: readonly ((z: number) => number)[], lo: number, 
       [za, ga] = [zb, gb];
     }
   }
-  out.sort((x, y) => x - y);
-  const kept: number[] = [];
-  for (const x of out)
-    if (x - lo > 1e-9 && hi - x > 1e-9 && (kept.length === 0 || x - kept[kept.length - 1]! > 1e-9)) kept.push(x);
-  return kept;
+  return keptBreaks(out, lo, hi);
 }
 
 /** Points at which a parameter is checked over a window: 64 evenly spaced (ends included) plus the table's nodes inside. */
@@ -190,17 +187,33 @@ function unprovenPoint(
   bad: (v: number) => boolean,
   goodRange: (lo: number, hi: number) => boolean,
 ): number | undefined {
+  return splitWindow(
+    window,
+    (a, b) => !goodRange(...bounds(a, b)),
+    (m) => bad(p.at(m)),
+  );
+}
+
+/**
+ * The window split in halves, depth first with the left half first: a piece `open` says may hold
+ * what is sought has its middle passed to `look` (which returns true to stop: that middle is
+ * returned) and is split, unless narrower than 2^-40 of the window's width or upper end, or beyond
+ * MAX_INTERVALS pieces. Undefined when no look stopped the search.
+ */
+function splitWindow(
+  window: { min: number; max: number },
+  open: (a: number, b: number) => boolean,
+  look: (m: number) => boolean,
+): number | undefined {
   const minWidth = Math.max(window.max - window.min, Math.abs(window.max)) * 2 ** -40;
   const stack: [number, number][] = [[window.min, window.max]];
   let budget = MAX_INTERVALS;
   while (stack.length > 0) {
     const [a, b] = stack.pop()!;
-    const [lo, hi] = bounds(a, b);
-    if (goodRange(lo, hi)) continue;
+    if (!open(a, b)) continue;
     const m = a + (b - a) / 2;
-    if (bad(p.at(m))) return m;
+    if (look(m)) return m;
     if (b - a <= minWidth || --budget <= 0) continue;
-    // the left half is looked at first
     stack.push([m, b], [a, m]);
   }
   return undefined;
@@ -231,7 +244,6 @@ export function paramExtremes(
   }
   const bounds = expressionBounds.get(p);
   if (!bounds) return { min, minZ, max, maxZ };
-  const minWidth = Math.max(window.max - window.min, Math.abs(window.max)) * 2 ** -40;
   // the greatest of sign * value: sign 1 for the maximum, -1 for the minimum
   for (const sign of [1, -1]) {
     let best = sign > 0 ? max : -min;
@@ -241,17 +253,15 @@ export function paramExtremes(
       // undefined bounds (NaN) are never below what was found: the piece is looked at
       return sign > 0 ? hi : -lo;
     };
-    const stack: [number, number][] = [[window.min, window.max]];
-    let budget = MAX_INTERVALS;
-    while (stack.length > 0) {
-      const [a, b] = stack.pop()!;
-      if (above(a, b) <= best + tol) continue;
-      const m = a + (b - a) / 2;
-      const v = sign * p.at(m);
-      if (v > best) [best, bestZ] = [v, m];
-      if (b - a <= minWidth || --budget <= 0) continue;
-      stack.push([m, b], [a, m]);
-    }
+    splitWindow(
+      window,
+      (a, b) => !(above(a, b) <= best + tol),
+      (m) => {
+        const v = sign * p.at(m);
+        if (v > best) [best, bestZ] = [v, m];
+        return false;
+      },
+    );
     if (sign > 0) [max, maxZ] = [best, bestZ];
     else [min, minZ] = [-best, bestZ];
   }
