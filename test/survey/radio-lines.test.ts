@@ -11,6 +11,7 @@ import { parseSurveyObject } from '../../src/survey/load.js';
 import { predict } from '../../src/counts/predict.js';
 import { predictionTable } from '../../src/render/predict-table.js';
 import { describeSurvey } from '../../src/survey/describe.js';
+import { checkText } from '../../src/render/check-text.js';
 import { SPEED_OF_LIGHT_M_S } from '../../src/cosmology/constants.js';
 import type { Detection } from '../../src/model/detection.js';
 import { errorOf } from '../support/survey-error.js';
@@ -110,6 +111,7 @@ describe('a velocity-integrated flux: F = S nu / c at detection.line', () => {
     const p = predict(s, { noUncertainty: true });
     expect(p.detection).toMatchObject({ kind: 'line_flux', limit_jy_km_s: 0.7 });
     expect(describeSurvey(s).detection).toMatchObject({ kind: 'line_flux', limit_jy_km_s: 0.7 });
+    expect(checkText(FILE, s, describeSurvey(s)).split('\n')).toContain('  detection.limit_jy_km_s = 0.7 Jy km/s');
     expect(predictionTable(p)).toContain('line flux limit 3.317e-20 erg/s/cm^2 (given as 0.7 Jy km/s)');
     const plain = predict(parseSurveyObject(hi({ limit: 3e-20 }), FILE), { noUncertainty: true });
     expect(plain.detection).not.toHaveProperty('limit_jy_km_s');
