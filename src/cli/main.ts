@@ -80,15 +80,13 @@ function refuseRepeatedOptions(cmd: Command): void {
  * or the library's checks of flags) in the form of commander's refusals (src/cli/refusals.ts):
  * "predict --draws: ...", naming the command; one about what a file holds ("FILE: --population:
  * there is no population named ...") names the file after the option ("compare --population:
- * FILE: ..."). Other errors pass as they are.
+ * FILE: ..."). Composed from the refusal's parts (file, key, text). Other errors pass as they are.
  */
 function withCommand(command: string, err: unknown): unknown {
   if (!(err instanceof SurveyError) || !err.keyPath.startsWith('--')) return err;
-  const where = printable(err.file === '' ? `${err.keyPath}: ` : `${err.file}: ${err.keyPath}: `);
-  if (!err.message.startsWith(where)) return err;
-  const file = err.file === '' ? '' : `${printable(err.file)}: `;
-  const what = err.message.slice(where.length);
-  return new SurveyError(err.code, err.file, `${command} ${err.keyPath}`, `${command} ${err.keyPath}: ${file}${what}`);
+  const keyPath = `${command} ${err.keyPath}`;
+  const file = err.file === '' ? '' : `${err.file}: `;
+  return new SurveyError(err.code, err.file, keyPath, err.text, printable(`${keyPath}: ${file}${err.text}`));
 }
 
 export function handleError(err: unknown, io: CliIO): number {

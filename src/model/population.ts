@@ -39,6 +39,8 @@ export interface SchechterPopulation extends PopulationSelection {
   components: ComponentParams[];
   /** Characteristic luminosity (erg/s, or the quantity's unit for threshold); luminosity variable. */
   lStar?: ZParam;
+  /** The key the file gave L* under (l_star, or log10_l_star: lStar.source is then a log10). */
+  lStarKey?: 'l_star' | 'log10_l_star';
   /** Characteristic absolute AB magnitude; magnitude variable. */
   mStar?: ZParam;
   /** The first component's faint-end slope (the only one for shape schechter). */

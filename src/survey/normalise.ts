@@ -541,7 +541,7 @@ function parsePopulationParams(
   raw: RawPopulation,
   path: string,
   file: string,
-): { components: ParsedComponent[]; lStar?: ZParam; lKey?: string; mStar?: ZParam } {
+): { components: ParsedComponent[]; lStar?: ZParam; lKey?: 'l_star' | 'log10_l_star'; mStar?: ZParam } {
   const suffixes = raw.shape === 'double_schechter' ? ['_1', '_2'] : [''];
   const components = suffixes.map((sfx) => {
     const alphaKey = `alpha${sfx}` as 'alpha' | 'alpha_1' | 'alpha_2';
@@ -1154,6 +1154,7 @@ function buildPopulation(
   if (sfrConversion) pop.sfrConversion = sfrConversion;
   if (p.quantity !== undefined) pop.quantity = p.quantity;
   if (params.lStar) pop.lStar = params.lStar;
+  if (params.lKey) pop.lStarKey = params.lKey;
   if (params.mStar) pop.mStar = params.mStar;
   if (line !== undefined) pop.lineAngstrom = line;
   if (p.rest_wavelength === undefined) pop.restWavelengthDefault = true;
