@@ -85,6 +85,8 @@ function unitAt(survey: Survey, key: string): string | undefined {
       return 'K';
     case 'detection.limit_cgs':
       return 'erg/s/cm^2';
+    case 'detection.limit_jy_km_s':
+      return 'Jy km/s';
     case 'detection.limit_mag':
       return 'AB mag';
     case 'detection.vega_to_ab':
