@@ -132,3 +132,19 @@ describe('a velocity-integrated flux: F = S nu / c at detection.line', () => {
     expect([e.code, e.keyPath]).toEqual([code, key]);
   });
 });
+
+describe('an HI mass function given in solar masses is answered with the line luminosity to write', () => {
+  test('log10_l_star: 9.94 (Msun) warns implausible_luminosity naming log10_l_star: 35.32 (2.406e25 erg/s per Msun, the docs)', () => {
+    const p = predict(parseSurveyObject(hi({}, { log10_l_star: 9.94 }), FILE), { noUncertainty: true });
+    const w = p.warnings.find((x) => x.code === 'implausible_luminosity');
+    expect(w?.message).toContain('HI mass in Msun');
+    expect(w?.message).toContain('log10_l_star: 35.32');
+    // another line keeps the general advice
+    const other = predict(parseSurveyObject(hi({ limit: 3e-20, line: 6562.8 }, { log10_l_star: 9.94 }), FILE), {
+      noUncertainty: true,
+    });
+    const v = other.warnings.find((x) => x.code === 'implausible_luminosity');
+    expect(v?.message).toContain('give l_star in erg/s or log10_l_star');
+    expect(v?.message).not.toContain('HI mass');
+  });
+});
