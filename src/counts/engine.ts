@@ -647,6 +647,7 @@ export function limitBreaks(survey: Survey, lo: number, hi: number): number[] {
   const src = d.limit.source;
   if (typeof src === 'object') for (const [zt] of src.table) if (zt > lo && zt < hi) out.push(zt);
   if (d.limit.kinks) out.push(...d.limit.kinks(lo, hi));
+  if (d.limit.features) out.push(...d.limit.features(lo, hi));
   const width = survey.histogramWidth;
   out.push(
     ...limitCrossings(survey, lo, hi, (fa, fb) => {
@@ -744,6 +745,7 @@ export function parameterBreaks(population: Population, lo: number, hi: number):
     if (src !== undefined && typeof src === 'object')
       for (const [zt] of src.table) if (zt - lo > 1e-9 && hi - zt > 1e-9) out.push(zt);
     if (p?.kinks) out.push(...p.kinks(lo, hi));
+    if (p?.features) out.push(...p.features(lo, hi));
   }
   return out;
 }

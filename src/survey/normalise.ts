@@ -1129,6 +1129,7 @@ function readDetection(
           : { ...completeness, x: completeness.x.map((x) => x + phot.toAb) };
     }
   } else {
+    refuseLinearThreshold(det.limit, thresholdVariable, file);
     const limit = makeZParam(det.limit, file, 'detection.limit');
     checkParam(limit, hull, file, 'detection.limit', {
       what: 'the limit',
@@ -1139,6 +1140,22 @@ function readDetection(
   if (completenessAb) detection.completeness = completenessAb;
   Object.assign(detection, readDetectionSelection(det, hull, file));
   return detection;
+}
+
+/**
+ * A threshold limit of a luminosity variable is log10 of the quantity (from -30 to 60): a number
+ * of 1e3 or more is the quantity itself ("limit: 1e9" for a mass of 1e9 Msun), refused saying so
+ * with the log10 to write instead (the range check would only say it is above 60).
+ */
+function refuseLinearThreshold(limit: unknown, variable: PopulationVariable, file: string): void {
+  if (variable !== 'luminosity' || typeof limit !== 'number' || !(limit >= 1e3) || !Number.isFinite(limit)) return;
+  throw inputError(
+    'out_of_range',
+    file,
+    'detection.limit',
+    `is ${compact(limit)}, not a log10 of the quantity (from -30 to 60)`,
+    `a threshold survey's limit is log10 of the quantity: it looks like a linear value, write limit: ${compact(Math.log10(limit), 6)}`,
+  );
 }
 
 /** One population: its parameters checked over its window, bias, occupation, rest wavelength, window and slice edges. */
