@@ -45,14 +45,25 @@ export async function run(argv: readonly string[], io: CliIO): Promise<number> {
     });
   }
   try {
-    // "skytally help predikt": commander would print the program's help and succeed
-    if (argv[0] === 'help' && argv[1] !== undefined && !COMMANDS.some((def) => def.name === argv[1]))
-      throw unknownCommand(program, excerpt(argv[1]));
+    // "skytally help predikt": commander would print the program's help and succeed; refused
+    // as "skytally predikt" is, with the near command's help ("skytally help predict") when there is one
+    if (argv[0] === 'help' && argv[1] !== undefined && !COMMANDS.some((def) => def.name === argv[1])) {
+      const near = await nearCommand(argv[1]);
+      throw unknownCommand(program, excerpt(argv[1]), near === undefined ? undefined : `help ${near}`);
+    }
     await program.parseAsync(['node', 'skytally', ...argv]);
     return exitCode;
   } catch (err) {
     return handleError(err, io);
   }
+}
+
+/** The command nearest `name` by edit distance, when near enough to be a likely typo (as commander suggests one). */
+async function nearCommand(name: string): Promise<string | undefined> {
+  const { closest, distance } = await import('fastest-levenshtein');
+  const names = COMMANDS.map((def) => def.name);
+  const best = closest(name.toLowerCase(), names);
+  return distance(name.toLowerCase(), best) <= Math.max(2, Math.floor(best.length / 3)) ? best : undefined;
 }
 
 /**

@@ -14,7 +14,13 @@ import type { Population, SfrConversion, PopulationVariable } from '../model/pop
 import type { ZParam } from '../model/zparam.js';
 import { schemaError } from './schema.js';
 import { lineNameHint } from './line-names.js';
-import { isPlainNumberString, parseQuantity, parseQuantityOneOf, plainNumberText } from './units.js';
+import {
+  isPlainNumberString,
+  lineFluxOfVelocityFlux,
+  parseQuantity,
+  parseQuantityOneOf,
+  plainNumberText,
+} from './units.js';
 import { FULL_SKY_DEG2, MIN_AREA_DEG2, SR_PER_DEG2 } from '../model/sky.js';
 import { checkParam, fmt, makeZParam, mapParam, paramExtremes, type ZTable } from './zparam.js';
 import { readTransmissionFile } from './transmission-file.js';
@@ -255,9 +261,7 @@ interface LineFluxContext {
  * erg/s/cm^2, a flux with its unit ("5e-20 W/m^2"), or a velocity-integrated flux density
  * S = int S_nu dv with its unit ("0.7 Jy km/s"), converted once, here, at the rest frequency
  * nu = c / lambda of detection.line: F = S nu / c, i.e. v = c (1 - nu_obs / nu) (the radio
- * convention). With S in Jy km/s and lambda in Angstrom, F = S 1e-23 x 1e5 x 1e8 / lambda =
- * S 1e-10 / lambda erg/s/cm^2 (1 Jy = 1e-23 erg s^-1 cm^-2 Hz^-1, 1 km/s = 1e5 cm/s, 1 Angstrom
- * = 1e-8 cm): 4.738e-20 at HI 21 cm. `jyKms` is the value as given (only then).
+ * convention; lineFluxOfVelocityFlux). `jyKms` is the value as given (only then).
  */
 function lineFlux(v: Q, context: LineFluxContext, file: string, path: string): { cgs: number; jyKms?: number } {
   const q = parseQuantityOneOf(
@@ -295,7 +299,7 @@ function lineFlux(v: Q, context: LineFluxContext, file: string, path: string): {
       'give the value in erg/s/cm^2, or count one line',
     );
   }
-  const cgs = (q.value * 1e-10) / line;
+  const cgs = lineFluxOfVelocityFlux(q.value, line);
   if (!inRange(cgs, RANGES.lineFlux)) {
     outOfRange(
       file,

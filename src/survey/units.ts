@@ -51,6 +51,16 @@ export const QUANTITY_KINDS: Record<QuantityKind, KindInfo> = {
   },
 };
 
+/**
+ * A velocity-integrated flux density S [Jy km/s] of a line of rest wavelength lambda [Angstrom] as
+ * a line flux [erg s^-1 cm^-2]: F = S nu / c (radio velocities, v = c (1 - nu_obs / nu)) =
+ * S 1e-23 x 1e5 x 1e8 / lambda (1 Jy = 1e-23 erg s^-1 cm^-2 Hz^-1, 1 km/s = 1e5 cm/s,
+ * 1 Angstrom = 1e-8 cm): 4.738e-20 erg s^-1 cm^-2 per Jy km/s at HI 21 cm.
+ */
+export function lineFluxOfVelocityFlux(jyKms: number, lineAngstrom: number): number {
+  return (jyKms * 1e-10) / lineAngstrom;
+}
+
 /** Longest quantity string read ("2.1 deg^2" is 9 characters). */
 export const MAX_QUANTITY_LENGTH = 100;
 

@@ -179,6 +179,11 @@ describe('the program itself', () => {
     for (const n of names) expect(listed).toContain(n);
     const help = refused(await runCli(['help', 'frobnicate']), ['"frobnicate" is not a command of skytally']);
     for (const n of names) expect(help).toContain(n);
+    // help of a near name: the near command's help, as the command itself is suggested (failed before: the list)
+    refused(await runCli(['help', 'predikt']), [
+      '"predikt" is not a command of skytally',
+      'write skytally help predict instead',
+    ]);
   });
 
   test('an unknown option before any command names it and asks for a command', async () => {

@@ -12,6 +12,7 @@ import { predict } from '../../src/counts/predict.js';
 import { predictionTable } from '../../src/render/predict-table.js';
 import { describeSurvey } from '../../src/survey/describe.js';
 import { checkText } from '../../src/render/check-text.js';
+import { readPlanSection } from '../../src/survey/plan-section.js';
 import { SPEED_OF_LIGHT_M_S } from '../../src/cosmology/constants.js';
 import type { Detection } from '../../src/model/detection.js';
 import { errorOf } from '../support/survey-error.js';
@@ -130,5 +131,66 @@ describe('a velocity-integrated flux: F = S nu / c at detection.line', () => {
   ])('refused: %s', (_what, det, pop, code, key) => {
     const e = errorOf(() => parseSurveyObject(hi(det, pop), FILE));
     expect([e.code, e.keyPath]).toEqual([code, key]);
+  });
+});
+
+describe('an HI mass function given in solar masses is answered with the line luminosity to write', () => {
+  test('log10_l_star: 9.94 (Msun) warns implausible_luminosity naming log10_l_star: 35.32 (2.406e25 erg/s per Msun, the docs)', () => {
+    const p = predict(parseSurveyObject(hi({}, { log10_l_star: 9.94 }), FILE), { noUncertainty: true });
+    const w = p.warnings.find((x) => x.code === 'implausible_luminosity');
+    expect(w?.message).toContain('HI mass in Msun');
+    expect(w?.message).toContain('log10_l_star: 35.32');
+    // another line keeps the general advice
+    const other = predict(parseSurveyObject(hi({ limit: 3e-20, line: 6562.8 }, { log10_l_star: 9.94 }), FILE), {
+      noUncertainty: true,
+    });
+    const v = other.warnings.find((x) => x.code === 'implausible_luminosity');
+    expect(v?.message).toContain('give l_star in erg/s or log10_l_star');
+    expect(v?.message).not.toContain('HI mass');
+  });
+});
+
+describe("a plan's line-flux limits in Jy km/s, read as detection.limit reads them", () => {
+  const planned = (
+    planSection: Record<string, unknown>,
+    det: Record<string, unknown> = {},
+    pop: Record<string, unknown> = {},
+  ) => {
+    const s = parseSurveyObject(
+      {
+        ...hi(det, pop),
+        plan: { field_of_view: 0.01, budget_hours: 100, goal: 'count', ...planSection },
+      },
+      FILE,
+    );
+    return readPlanSection(s, s.populations[0]!);
+  };
+  test('reference.limit, fixed.limit and depth_law rows in Jy km/s are their line fluxes at detection.line (to 1e-15)', () => {
+    const f = (jyKms: number) => (jyKms * 1e-23 * NU_HI * 1e5) / (SPEED_OF_LIGHT_M_S * 100);
+    const given = planned({ reference: { limit: '0.7 Jy km/s', exposure_hours: 1 }, fixed: { limit: '0.5 Jy km/s' } });
+    expect(given.depthLaw.kind).toBe('background');
+    expect(rel((given.depthLaw as { referenceLimit: number }).referenceLimit, f(0.7))).toBeLessThan(1e-15);
+    expect(rel((given.fixed as { limit: number }).limit, f(0.5))).toBeLessThan(1e-15);
+    const table = planned({
+      exposure_grid: { min_hours: 1, max_hours: 10, count: 5 },
+      depth_law: {
+        table: [
+          [1, '1 Jy km/s'],
+          [10, '300 mJy km/s'],
+        ],
+      },
+    });
+    const limits = (table.depthLaw as { limits: number[] }).limits;
+    [1, 0.3].forEach((s, i) => expect(rel(limits[i]!, f(s))).toBeLessThan(1e-15));
+  });
+  test('without detection.line for every population, a plan limit in Jy km/s is refused naming the key', () => {
+    const e = errorOf(() =>
+      planned(
+        { reference: { limit: '0.7 Jy km/s', exposure_hours: 1 } },
+        { limit: 3e-20, line: undefined },
+        { line: '1420.405751768 MHz' },
+      ),
+    );
+    expect([e.code, e.keyPath]).toEqual(['missing_key', 'plan.reference.limit']);
   });
 });
