@@ -345,6 +345,30 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
         }
         const sigma = typeof data === 'string' ? sigmaText(path, data) : undefined;
         if (sigma) return inputError('wrong_type', file, path, sigma.what, sigma.fix);
+        // "h0: 70 km/s/Mpc" or "h0: '70'": a number with a unit, or quoted, where the key takes a
+        // plain number in its own unit
+        const type = String((first.params as { type: string }).type);
+        const lead =
+          typeof data === 'string' && title === undefined && (type === 'number' || type === 'integer')
+            ? /^\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*([^\s\d.eE+-]?)/.exec(data)
+            : null;
+        if (lead && (lead[2] !== '' || lead[0] === data) && (type === 'number' || Number.isInteger(Number(lead[1])))) {
+          return lead[2] !== ''
+            ? inputError(
+                'wrong_type',
+                file,
+                path,
+                `is ${describeValue(data)} but must be ${expected}, without a unit`,
+                `write ${lead[1]} alone, in the key's own unit (docs/survey-file.md gives each key's unit)`,
+              )
+            : inputError(
+                'wrong_type',
+                file,
+                path,
+                `is ${describeValue(data)} but must be ${expected}`,
+                `write ${lead[1]} without quotes`,
+              );
+        }
         return inputError(
           'wrong_type',
           file,
