@@ -7,7 +7,7 @@ import { CommanderError, type Command } from 'commander';
 import { excerpt, inputError, printable, SurveyError } from '../errors.js';
 import { removePendingFiles, type CliIO } from './io.js';
 import { COMMANDS } from './commands/index.js';
-import { ProgramCommand, unknownCommand } from './refusals.js';
+import { missingCommand, ProgramCommand, unknownCommand } from './refusals.js';
 import packageJson from '../../package.json' with { type: 'json' };
 
 /** The package's version, from package.json (the bundle carries the value, not the file). */
@@ -45,11 +45,13 @@ export async function run(argv: readonly string[], io: CliIO): Promise<number> {
     });
   }
   try {
+    if (argv.length === 0) throw missingCommand(program);
     // "skytally help predikt": commander would print the program's help and succeed; refused
     // as "skytally predikt" is, with the near command's help ("skytally help predict") when there is one
-    if (argv[0] === 'help' && argv[1] !== undefined && !COMMANDS.some((def) => def.name === argv[1])) {
-      const near = await nearCommand(argv[1]);
-      throw unknownCommand(program, excerpt(argv[1]), near === undefined ? undefined : `help ${near}`);
+    const helpOf = argv[0] === 'help' ? argv[1] : undefined;
+    if (helpOf !== undefined && !COMMANDS.some((def) => def.name === helpOf)) {
+      const near = await nearCommand(helpOf);
+      throw unknownCommand(program, excerpt(helpOf), near === undefined ? undefined : `help ${near}`);
     }
     await program.parseAsync(['node', 'skytally', ...argv]);
     return exitCode;

@@ -86,3 +86,15 @@ export type ParameterName = 'log10_phi_star' | 'log10_l_star' | 'm_star' | 'alph
 export function parameterNames(p: Population): [ParameterName, ParameterName, ParameterName] {
   return ['log10_phi_star', p.variable === 'luminosity' ? 'log10_l_star' : 'm_star', 'alpha'];
 }
+
+/**
+ * For a message refusing `name` as a parameter: when it names the knee of the other variable
+ * (m_star where `names`, a population's parameterNames, hold log10_l_star; log10_l_star or l_star
+ * where they hold m_star), " (a magnitude population's knee is m_star)"; otherwise "".
+ */
+export function otherKneeHint(name: string, names: readonly string[]): string {
+  if (names.includes('log10_l_star') && name === 'm_star') return " (a luminosity population's knee is log10_l_star)";
+  if (names.includes('m_star') && (name === 'log10_l_star' || name === 'l_star'))
+    return " (a magnitude population's knee is m_star)";
+  return '';
+}

@@ -34,7 +34,7 @@ import {
   type PlanGoal,
   type PlanSpec,
 } from '../model/plan.js';
-import { parameterNames } from '../model/population.js';
+import { otherKneeHint, parameterNames } from '../model/population.js';
 import { fluxDensityMagnitude, isFluxDensityText } from './photometry.js';
 
 const KEYS = [
@@ -418,12 +418,13 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
     checkKeys(g, ['sigma'], file, 'plan.goal');
     const names: string[] = parameterNames(population);
     if (typeof g.sigma !== 'string' || !names.includes(g.sigma)) {
-      const near = typeof g.sigma === 'string' ? suggest(g.sigma, names) : undefined;
+      const knee = typeof g.sigma === 'string' ? otherKneeHint(g.sigma, names) : '';
+      const near = typeof g.sigma === 'string' && !knee ? suggest(g.sigma, names) : undefined;
       throw inputError(
         'out_of_range',
         file,
         'plan.goal.sigma',
-        `is ${shown(g.sigma)} but must name a parameter of "${population.name}"${near ? ` (did you mean ${near}?)` : ''}`,
+        `is ${shown(g.sigma)} but must name a parameter of "${population.name}"${knee}${near ? ` (did you mean ${near}?)` : ''}`,
         `use one of ${names.join(', ')}`,
       );
     }

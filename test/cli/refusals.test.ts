@@ -186,6 +186,11 @@ describe('the program itself', () => {
     ]);
   });
 
+  test('skytally without a command asks for one and lists them, exit 2 (failed before: the help, exit 0)', async () => {
+    const line = refused(await runCli([]), ['skytally: a command is needed', 'e.g. skytally predict FILE']);
+    for (const n of COMMANDS.map((d) => d.name)) expect(line).toContain(n);
+  });
+
   test('an unknown option before any command names it and asks for a command', async () => {
     refused(await runCli(['--no-such-option']), [
       '--no-such-option is not an option of skytally',
