@@ -7,6 +7,11 @@
  * (scipy) for the counts.
  */
 import { describe, expect, test } from 'vitest';
+import { readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { Ajv2020 } from 'ajv/dist/2020.js';
+import { runCli } from '../cli/helpers.js';
+import { tempDir } from '../support/temp.js';
 import { parseSurveyObject } from '../../src/survey/load.js';
 import { predict } from '../../src/counts/predict.js';
 import { predictionTable } from '../../src/render/predict-table.js';
@@ -192,5 +197,49 @@ describe("a plan's line-flux limits in Jy km/s, read as detection.limit reads th
       ),
     );
     expect([e.code, e.keyPath]).toEqual(['missing_key', 'plan.reference.limit']);
+  });
+});
+
+describe('the outputs of an HI file match their schemas (specs/)', () => {
+  const ajv = new Ajv2020({ allErrors: true, strict: false });
+  for (const f of readdirSync('specs'))
+    if (f.endsWith('.schema.json')) ajv.addSchema(JSON.parse(readFileSync(`specs/${f}`, 'utf8')), f);
+  const valid = (schema: string, doc: unknown) => {
+    const v = ajv.getSchema(schema)!;
+    return v(doc) ? 'valid' : JSON.stringify(v.errors);
+  };
+  test('check, predict, forecast, compare and plan, with limit_jy_km_s where the schema gives it', async () => {
+    const dir = tempDir('skytally-hi-');
+    const path = join(dir, 'hi.yaml');
+    const text = `format: 1
+title: blind HI survey (demo)
+cosmology: {h0: 70, omega_m: 0.3}
+area: 7000
+redshift: {min: 0, max: 0.06}
+detection: {kind: line_flux, limit: "0.7 Jy km/s", line: "1420.405751768 MHz"}
+population: {variable: luminosity, phi_star: 4.5e-3, log10_l_star: "9.94 + log10(2.406176e25)", alpha: -1.25}
+slices: {count: 3}
+plan:
+  field_of_view: 0.01
+  reference: {limit: "0.7 Jy km/s", exposure_hours: 1}
+  budget_hours: 1000
+  goal: count
+  exposure_grid: {min_hours: 0.1, max_hours: 10, count: 20}
+`;
+    writeFileSync(path, text);
+    const json = async (args: string[]) => {
+      const r = await runCli([...args, '--format', 'json']);
+      expect(r.code, r.stderr).toBe(0);
+      return JSON.parse(r.stdout) as Record<string, unknown>;
+    };
+    const check = await json(['check', path]);
+    expect(valid('check.schema.json', check)).toBe('valid');
+    expect((check.detection as Record<string, unknown>).limit_jy_km_s).toBe(0.7);
+    const p = await json(['predict', path]);
+    expect(valid('prediction.schema.json', p)).toBe('valid');
+    expect((p.detection as Record<string, unknown>).limit_jy_km_s).toBe(0.7);
+    expect(valid('forecast.schema.json', await json(['forecast', path, '--target', 'alpha=0.02']))).toBe('valid');
+    expect(valid('compare.schema.json', await json(['compare', path, path]))).toBe('valid');
+    expect(valid('plan.schema.json', await json(['plan', path]))).toBe('valid');
   });
 });
