@@ -38,6 +38,7 @@ export async function run(argv: readonly string[], io: CliIO): Promise<number> {
     refuseRepeatedOptions(cmd);
     cmd.action(async (...args: unknown[]) => {
       try {
+        refuseEmptyArguments(cmd, args);
         exitCode = await def.action(cmd, args, io);
       } catch (err) {
         throw withCommand(def.name, err);
@@ -66,6 +67,25 @@ async function nearCommand(name: string): Promise<string | undefined> {
   const names = COMMANDS.map((def) => def.name);
   const best = closest(name.toLowerCase(), names);
   return distance(name.toLowerCase(), best) <= Math.max(2, Math.floor(best.length / 3)) ? best : undefined;
+}
+
+/**
+ * A file argument given as "" (an unset shell variable: skytally predict "$FILE") is refused
+ * naming the argument, where it resolved to the working folder ("the file is a folder").
+ */
+function refuseEmptyArguments(cmd: Command, args: readonly unknown[]): void {
+  cmd.registeredArguments.forEach((arg, i) => {
+    const v = args[i];
+    const values = Array.isArray(v) ? (v as unknown[]) : [v];
+    if (!values.some((x) => x === '')) return;
+    throw inputError(
+      'bad_option',
+      '',
+      cmd.name(),
+      `${arg.variadic ? `one of the <${arg.name()}> arguments` : `the <${arg.name()}> argument`} is empty`,
+      `write skytally ${cmd.name()} ${arg.variadic ? `<${arg.name()}...>` : `<${arg.name()}>`} [options] with the path of a file`,
+    );
+  });
 }
 
 /**

@@ -186,6 +186,25 @@ describe('the program itself', () => {
     ]);
   });
 
+  test('an empty file argument ("$FILE" unset) names the argument (failed before: "<working folder>: the file is a folder")', async () => {
+    for (const c of DECLARED.filter((d) => d.args.length > 0)) {
+      const { argv, out } = valid(c);
+      // the first file argument given as ""
+      const i = argv.findIndex((a, k) => k > 0 && !a.startsWith('--'));
+      argv[i] = '';
+      const arg = c.args[0]!;
+      const line = refused(await runCli(argv), [
+        `skytally: ${c.name}: ${arg.variadic ? `one of the <${arg.name}> arguments` : `the <${arg.name}> argument`} is empty`,
+      ]);
+      expect(line).not.toContain('folder');
+      nothingWritten(out);
+    }
+    for (const command of ['distances', 'clustering']) {
+      const r = await runCli([command, '--z', '1', '--survey', '']);
+      refused(r, [`skytally: ${command} --survey: is empty; give the path of a survey file`]);
+    }
+  });
+
   test('skytally without a command asks for one and lists them, exit 2 (failed before: the help, exit 0)', async () => {
     const line = refused(await runCli([]), ['skytally: a command is needed', 'e.g. skytally predict FILE']);
     for (const n of COMMANDS.map((d) => d.name)) expect(line).toContain(n);
