@@ -38,14 +38,30 @@ export class SurveyError extends Error {
   readonly keyPath: string;
   /** The file the problem is in (empty for command-line options). */
   readonly file: string;
+  /**
+   * The sentence after its place: what is wrong and what to do ("is 2.5, not a whole number from 1
+   * to 100000; give --draws a whole number in that range."), as written, before `printable`.
+   */
+  readonly text: string;
 
-  constructor(code: ErrorCode, file: string, keyPath: string, message: string) {
-    super(message);
+  /**
+   * The message is "<file>: <key>: <text>" (the empty parts left out) made printable, unless
+   * `message` gives the sentence in another order (the command line's "predict --draws: FILE: ...").
+   */
+  constructor(code: ErrorCode, file: string, keyPath: string, text: string, message?: string) {
+    super(message ?? printable(`${place(file, keyPath)}${text}`));
     this.name = 'SurveyError';
     this.code = code;
     this.file = file;
     this.keyPath = keyPath;
+    this.text = text;
   }
+}
+
+/** "<file>: <key>: " with the empty parts left out ("" when both are). */
+function place(file: string, keyPath: string): string {
+  const where = [file, keyPath].filter((s) => s.length > 0).join(': ');
+  return where ? `${where}: ` : '';
 }
 
 /**
@@ -53,9 +69,7 @@ export class SurveyError extends Error {
  * `what` and `fix` are plain phrases without a trailing full stop.
  */
 export function inputError(code: ErrorCode, file: string, keyPath: string, what: string, fix?: string): SurveyError {
-  const where = [file, keyPath].filter((s) => s.length > 0).join(': ');
-  const sentence = `${where ? where + ': ' : ''}${what}${fix ? `; ${fix}` : ''}.`;
-  return new SurveyError(code, file, keyPath, printable(sentence));
+  return new SurveyError(code, file, keyPath, `${what}${fix ? `; ${fix}` : ''}.`);
 }
 
 /**

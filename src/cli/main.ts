@@ -7,7 +7,7 @@ import { CommanderError, type Command } from 'commander';
 import { excerpt, inputError, printable, SurveyError } from '../errors.js';
 import { removePendingFiles, type CliIO } from './io.js';
 import { COMMANDS } from './commands/index.js';
-import { ProgramCommand, unknownCommand } from './refusals.js';
+import { missingCommand, ProgramCommand, unknownCommand } from './refusals.js';
 import packageJson from '../../package.json' with { type: 'json' };
 
 /** The package's version, from package.json (the bundle carries the value, not the file). */
@@ -38,6 +38,7 @@ export async function run(argv: readonly string[], io: CliIO): Promise<number> {
     refuseRepeatedOptions(cmd);
     cmd.action(async (...args: unknown[]) => {
       try {
+        refuseEmptyArguments(cmd, args);
         exitCode = await def.action(cmd, args, io);
       } catch (err) {
         throw withCommand(def.name, err);
@@ -45,14 +46,46 @@ export async function run(argv: readonly string[], io: CliIO): Promise<number> {
     });
   }
   try {
-    // "skytally help predikt": commander would print the program's help and succeed
-    if (argv[0] === 'help' && argv[1] !== undefined && !COMMANDS.some((def) => def.name === argv[1]))
-      throw unknownCommand(program, excerpt(argv[1]));
+    if (argv.length === 0) throw missingCommand(program);
+    // "skytally help predikt": commander would print the program's help and succeed; refused
+    // as "skytally predikt" is, with the near command's help ("skytally help predict") when there is one
+    const helpOf = argv[0] === 'help' ? argv[1] : undefined;
+    if (helpOf !== undefined && !COMMANDS.some((def) => def.name === helpOf)) {
+      const near = await nearCommand(helpOf);
+      throw unknownCommand(program, excerpt(helpOf), near === undefined ? undefined : `help ${near}`);
+    }
     await program.parseAsync(['node', 'skytally', ...argv]);
     return exitCode;
   } catch (err) {
     return handleError(err, io);
   }
+}
+
+/** The command nearest `name` by edit distance, when near enough to be a likely typo (as commander suggests one). */
+async function nearCommand(name: string): Promise<string | undefined> {
+  const { closest, distance } = await import('fastest-levenshtein');
+  const names = COMMANDS.map((def) => def.name);
+  const best = closest(name.toLowerCase(), names);
+  return distance(name.toLowerCase(), best) <= Math.max(2, Math.floor(best.length / 3)) ? best : undefined;
+}
+
+/**
+ * A file argument given as "" (an unset shell variable: skytally predict "$FILE") is refused
+ * naming the argument, where it resolved to the working folder ("the file is a folder").
+ */
+function refuseEmptyArguments(cmd: Command, args: readonly unknown[]): void {
+  cmd.registeredArguments.forEach((arg, i) => {
+    const v = args[i];
+    const values = Array.isArray(v) ? (v as unknown[]) : [v];
+    if (!values.some((x) => x === '')) return;
+    throw inputError(
+      'bad_option',
+      '',
+      cmd.name(),
+      `${arg.variadic ? `one of the <${arg.name()}> arguments` : `the <${arg.name()}> argument`} is empty`,
+      `write skytally ${cmd.name()} ${arg.variadic ? `<${arg.name()}...>` : `<${arg.name()}>`} [options] with the path of a file`,
+    );
+  });
 }
 
 /**
@@ -80,15 +113,13 @@ function refuseRepeatedOptions(cmd: Command): void {
  * or the library's checks of flags) in the form of commander's refusals (src/cli/refusals.ts):
  * "predict --draws: ...", naming the command; one about what a file holds ("FILE: --population:
  * there is no population named ...") names the file after the option ("compare --population:
- * FILE: ..."). Other errors pass as they are.
+ * FILE: ..."). Composed from the refusal's parts (file, key, text). Other errors pass as they are.
  */
 function withCommand(command: string, err: unknown): unknown {
   if (!(err instanceof SurveyError) || !err.keyPath.startsWith('--')) return err;
-  const where = printable(err.file === '' ? `${err.keyPath}: ` : `${err.file}: ${err.keyPath}: `);
-  if (!err.message.startsWith(where)) return err;
-  const file = err.file === '' ? '' : `${printable(err.file)}: `;
-  const what = err.message.slice(where.length);
-  return new SurveyError(err.code, err.file, `${command} ${err.keyPath}`, `${command} ${err.keyPath}: ${file}${what}`);
+  const keyPath = `${command} ${err.keyPath}`;
+  const file = err.file === '' ? '' : `${err.file}: `;
+  return new SurveyError(err.code, err.file, keyPath, err.text, printable(`${keyPath}: ${file}${err.text}`));
 }
 
 export function handleError(err: unknown, io: CliIO): number {

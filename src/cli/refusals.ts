@@ -160,3 +160,15 @@ export function unknownCommand(program: Command, name: string, suggestion?: stri
     : `use one of ${orList(commands)} (skytally --help describes them)`;
   return inputError('bad_option', '', '', `"${name}" is not a command of skytally`, fix);
 }
+
+/** "skytally" alone: one sentence asking for a command and listing them (commander printed the help and succeeded). */
+export function missingCommand(program: Command) {
+  const commands = program.commands.map((c) => c.name());
+  return inputError(
+    'bad_option',
+    '',
+    '',
+    'a command is needed',
+    `use one of ${orList(commands)}, e.g. skytally predict FILE (skytally --help describes them)`,
+  );
+}

@@ -66,6 +66,7 @@ export function detectionJson(survey: Survey): PredictionBase['detection'] {
   let out: PredictionBase['detection'];
   if (d.kind === 'line_flux') {
     const b: LineFluxDetectionBlock = { kind: 'line_flux', limit_cgs: d.limitCgs };
+    if (d.limitGivenJyKms !== undefined) b.limit_jy_km_s = d.limitGivenJyKms;
     if (d.lineAngstrom !== undefined) b.line_angstrom = d.lineAngstrom;
     if (d.filter) {
       b.filter = {

@@ -18,6 +18,7 @@ import type {
   RequirementAtModel,
 } from '../model/outputs/forecast.js';
 import { choosePopulation, surveyForPopulation } from '../model/select.js';
+import { otherKneeHint } from '../model/population.js';
 import { MAX_MOCKS, MAX_SEED } from '../model/limits.js';
 import { MAX_MODEL_DRAWS } from '../model/model-uncertainty.js';
 import { assertWholeOption, inputError } from '../errors.js';
@@ -136,7 +137,7 @@ function checkForecastOptions(opts: ForecastOptions, names: readonly string[]): 
         'bad_option',
         '',
         `targets.${name}`,
-        `"${name}" is not a parameter of this population`,
+        `"${name}" is not a parameter of this population${otherKneeHint(name, names)}`,
         `use one of ${names.join(', ')}`,
       );
     }

@@ -32,9 +32,9 @@ import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Completeness, DetectionKind } from '../model/detection.js';
 import type { Population, PopulationVariable } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
-import { piecewiseRedshiftNodes } from '../counts/engine.js';
+import { featureBreaks, piecewiseRedshiftNodes } from '../counts/engine.js';
 import { upperGamma } from '../numerics/gamma.js';
-import { panelNodes, type PanelNodes } from '../numerics/quadrature.js';
+import { keptBreaks, panelNodes, type PanelNodes } from '../numerics/quadrature.js';
 import { makeObserver, type Observation, type Observer } from '../selection/observe.js';
 import { selectionEffects, type SelectionEffects } from '../selection/effects.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
@@ -375,7 +375,12 @@ function walkSlice(walk: Walk, lo: number, hi: number): void {
     hardCounts.set(zi, f);
     return f;
   };
-  const { z, w } = piecewiseRedshiftNodes([lo, ...effects.breaks(lo, hi), hi], hardCount);
+  // the cuts the selection effects ask for, and those around a parameter's or a threshold limit's
+  // narrow feature (none for a smooth expression: the nodes are then the selection's alone)
+  const features = featureBreaks(walk.survey, population, lo, hi);
+  const cuts =
+    features.length > 0 ? keptBreaks([...effects.breaks(lo, hi), ...features], lo, hi) : effects.breaks(lo, hi);
+  const { z, w } = piecewiseRedshiftNodes([lo, ...cuts, hi], hardCount);
   for (let i = 0; i < z.length; i++) {
     const zi = z[i]!;
     walkNode(walk, zi, w[i]!, at(zi));

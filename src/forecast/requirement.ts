@@ -132,7 +132,7 @@ export function deeperSurvey(survey: Survey, p: Population, delta: number): { su
   if (d.kind === 'line_flux') {
     // completeness x = -log10 flux grows by delta when the flux limit falls by delta dex
     limit = d.limitCgs * 10 ** -delta;
-    det = { ...d, limitCgs: limit };
+    det = { ...d, limitCgs: limit, limitGivenJyKms: undefined }; // no longer the Jy km/s the file gave
     const c = shiftCompleteness(d.completeness, delta);
     if (c) det.completeness = c;
   } else if (d.kind === 'magnitude') {

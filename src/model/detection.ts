@@ -46,6 +46,7 @@ export type Detection = DetectionSelection &
     | {
         kind: 'line_flux';
         limitCgs: number; // erg s^-1 cm^-2, faintest line flux counted (at peak transmission)
+        limitGivenJyKms?: number; // detection.limit given as a velocity-integrated flux, Jy km/s (limitCgs = it x nu_line / c)
         lineAngstrom?: number; // default rest wavelength when a population gives none
         filter?: Filter;
         completeness?: Completeness;

@@ -39,6 +39,8 @@ export interface SchechterPopulation extends PopulationSelection {
   components: ComponentParams[];
   /** Characteristic luminosity (erg/s, or the quantity's unit for threshold); luminosity variable. */
   lStar?: ZParam;
+  /** The key the file gave L* under (l_star, or log10_l_star: lStar.source is then a log10). */
+  lStarKey?: 'l_star' | 'log10_l_star';
   /** Characteristic absolute AB magnitude; magnitude variable. */
   mStar?: ZParam;
   /** The first component's faint-end slope (the only one for shape schechter). */
@@ -83,4 +85,16 @@ export type ParameterName = 'log10_phi_star' | 'log10_l_star' | 'm_star' | 'alph
 /** The parameters of a population's single Schechter function, in the order of every vector and matrix. */
 export function parameterNames(p: Population): [ParameterName, ParameterName, ParameterName] {
   return ['log10_phi_star', p.variable === 'luminosity' ? 'log10_l_star' : 'm_star', 'alpha'];
+}
+
+/**
+ * For a message refusing `name` as a parameter: when it names the knee of the other variable
+ * (m_star where `names`, a population's parameterNames, hold log10_l_star; log10_l_star or l_star
+ * where they hold m_star), " (a magnitude population's knee is m_star)"; otherwise "".
+ */
+export function otherKneeHint(name: string, names: readonly string[]): string {
+  if (names.includes('log10_l_star') && name === 'm_star') return " (a luminosity population's knee is log10_l_star)";
+  if (names.includes('m_star') && (name === 'log10_l_star' || name === 'l_star'))
+    return " (a magnitude population's knee is m_star)";
+  return '';
 }

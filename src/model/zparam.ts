@@ -14,4 +14,10 @@ export interface ZParam {
    * integrals over z may cut there as they cut at a table's rows. Absent when there is none.
    */
   readonly kinks?: (this: void, lo: number, hi: number) => number[];
+  /**
+   * An expression with a narrow feature (a dip, a peak or a step much narrower than the window it
+   * was checked over): redshifts strictly inside (lo, hi) where integrals over z should cut so that
+   * their rule follows it, graded down to the feature's own width. Absent when there is none.
+   */
+  readonly features?: (this: void, lo: number, hi: number) => number[];
 }

@@ -94,7 +94,10 @@ export function surveyAtLimit(survey: Survey, limit: number, areaDeg2 = survey.a
   const old = kind === 'magnitude' ? d.limitMag : d.limitCgs;
   const dx = depthOfLimit(kind, limit) - depthOfLimit(kind, old); // completeness variable moves deeper by dx
   // (a moved magnitude limit is no longer the flux density the file gave, if it gave one)
-  const det = kind === 'magnitude' ? { ...d, limitMag: limit, limitGivenJy: undefined } : { ...d, limitCgs: limit };
+  const det =
+    kind === 'magnitude'
+      ? { ...d, limitMag: limit, limitGivenJy: undefined }
+      : { ...d, limitCgs: limit, limitGivenJyKms: undefined };
   if (d.completeness) {
     const c = d.completeness;
     det.completeness = c.model === 'logistic' ? { ...c, half: c.half + dx } : { ...c, x: c.x.map((v) => v + dx) };

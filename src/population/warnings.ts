@@ -29,6 +29,14 @@ export const PLAUSIBLE_M_STAR = { brightest: -30, faintest: -10 } as const;
  */
 export const MAX_PLAUSIBLE_PHI_STAR_MPC3 = 0.5;
 
+/** HI 21 cm's rest wavelength [Angstrom]: c / 1420.405751768 MHz (common practice). */
+const HI_ANGSTROM = 2110611405;
+/**
+ * The luminosity of the HI line per solar mass of HI [erg/s]: M_HI = 2.356e5 D_L^2 S (Msun, Mpc,
+ * Jy km/s; common practice) with L = 4 pi D_L^2 S nu / c (docs/survey-file.md, "Radio lines").
+ */
+export const HI_ERG_S_PER_MSUN = 2.406176e25;
+
 const fmt = (x: number): string => precise(x, 4);
 const expText = (x: number): string => exponential(x, 4);
 
@@ -50,13 +58,19 @@ export function luminosityWarnings(survey: Survey): Warning[] {
       const low = values.find((x) => x.v < MIN_PLAUSIBLE_LUMINOSITY_ERG_S);
       if (low) {
         const asLog = low.v > 30 && low.v < 50;
+        // an HI mass function's M* in solar masses, given as the line's luminosity
+        const line =
+          p.lineAngstrom ?? (survey.detection.kind === 'line_flux' ? survey.detection.lineAngstrom : undefined);
+        const hiMass = line !== undefined && Math.abs(line / HI_ANGSTROM - 1) < 1e-3 && low.v >= 1e5 && low.v <= 1e13;
         out.push(
           warning(
             'implausible_luminosity',
             `${p.name}: L* = ${fmt(low.v)} erg/s at z = ${fmt(low.z)} is far below any galaxy's luminosity (under ${expText(MIN_PLAUSIBLE_LUMINOSITY_ERG_S)} erg/s), so almost nothing is detected` +
               (asLog
                 ? `; it looks like a log10: write log10_l_star: ${fmt(low.v)} (or l_star: ${expText(10 ** low.v)})`
-                : '; give l_star in erg/s or log10_l_star'),
+                : hiMass
+                  ? `; it looks like an HI mass in Msun: the line's luminosity is ${expText(HI_ERG_S_PER_MSUN)} erg/s per Msun, so write log10_l_star: ${fmt(Math.log10(low.v * HI_ERG_S_PER_MSUN))}`
+                  : '; give l_star in erg/s or log10_l_star'),
           ),
         );
       }

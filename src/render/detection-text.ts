@@ -34,7 +34,8 @@ export function detectionLine(
   if (d.kind === 'line_flux') {
     const f = d.filter;
     const filter = f ? `, ${f.profile} filter at ${sig(f.center_angstrom)} A (FWHM ${sig(f.fwhm_angstrom)} A)` : '';
-    return `line flux limit ${sig(d.limit_cgs)} erg/s/cm^2${filter}`;
+    const given = d.limit_jy_km_s !== undefined ? ` (given as ${sig(d.limit_jy_km_s, 4)} Jy km/s)` : '';
+    return `line flux limit ${sig(d.limit_cgs)} erg/s/cm^2${given}${filter}`;
   }
   if (d.kind === 'magnitude') {
     const given =

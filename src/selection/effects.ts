@@ -114,6 +114,9 @@ export function selectionEffects(detection: Detection, population: Population): 
       // an expression's kinks (min, max, abs): a selection min(1, max(0, 3*(z - 1.2))) and an
       // attenuation 0.5 + max(0, 1.4 - z) moved the slice holding them by 3.4e-6 uncut
       if (p?.kinks) out.push(...p.kinks(lo, hi));
+      // an expression's narrow features (src/survey/zparam.ts featureCuts): a slice 0.5 wide holding
+      // the dip of a selection 1 - 0.9 exp(-((z - 1.1)/0.001)^2) was counted 3.1e-3 high uncut
+      if (p?.features) out.push(...p.features(lo, hi));
     }
     if (cut && ew && ew.model === 'table' && cut.frame === 'observed') {
       // fractionAbove is linear between the table's widths: kinks where w_cut / ((1 + z)(1 + b)) = W_k

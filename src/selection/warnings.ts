@@ -15,7 +15,11 @@
  *    inconsistently, so the conversion used is said once;
  *  - line_below_lyman_limit: a line search's line is shorter than the Lyman limit (912 Angstrom),
  *    where no galaxy's line is seen: most likely a wavelength in nm written as a plain number,
- *    read in Angstrom ("line: 656.3" through a 1.2-1.9 um grism is seen at z = 17 to 28).
+ *    read in Angstrom ("line: 656.3" through a 1.2-1.9 um grism is seen at z = 17 to 28);
+ *  - radio_spectrum_steep: a magnitude survey in a radio band (1 mm or longer) with beta above -1,
+ *    i.e. f_nu ~ nu^a with a = -(2 + beta) below -1, steeper than galaxies' synchrotron spectra
+ *    (a about -0.7, beta = -1.3; common practice): most likely a spectral index written as beta
+ *    (beta: -0.7 counts 19 % fewer than beta: -1.3 in docs/survey-file.md's radio example).
  */
 import type { Survey } from '../model/survey.js';
 import { warning, type Warning } from '../warnings.js';
@@ -27,6 +31,9 @@ export const REST_WAVELENGTH_TOLERANCE = 0.3;
 /** A band within this factor of Lyman alpha (1 + z) asks for an explicit igm. */
 export const IGM_NEAR_FACTOR = 1.3;
 
+/** Bands from this wavelength [Angstrom] on (1 mm, 300 GHz) are radio bands, where galaxies' spectra are synchrotron. */
+export const RADIO_BAND_ANGSTROM = 1e7;
+
 /** The Lyman limit (911.75 Angstrom, common practice), rounded: no galaxy's line is seen shortward of it. */
 export const LYMAN_LIMIT_ANGSTROM = 912;
 
@@ -35,6 +42,17 @@ const fmt = (x: number): string => precise(x, 4);
 export function selectionWarnings(survey: Survey): Warning[] {
   const out: Warning[] = [];
   const d = survey.detection;
+  if (d.kind === 'magnitude' && !d.sed && d.bandAngstrom >= RADIO_BAND_ANGSTROM && d.beta > -1) {
+    const a = -(2 + d.beta);
+    const band = d.bandGivenHz !== undefined ? `${fmt(d.bandGivenHz / 1e9)} GHz` : `${fmt(d.bandAngstrom)} A`;
+    out.push(
+      warning(
+        'radio_spectrum_steep',
+        `detection.beta = ${fmt(d.beta)} in a radio band (${band}) is a spectrum f_nu ~ nu^${fmt(a)}, steeper than nu^-1, where galaxies' synchrotron spectra are about nu^-0.7; ` +
+          `beta is the slope of f_lambda ~ lambda^beta, and a spectral index a of f_nu ~ nu^a is beta = -(2 + a): a = ${fmt(d.beta)} is beta: ${fmt(-(2 + d.beta))}`,
+      ),
+    );
+  }
   for (const p of survey.populations) {
     const { min, max } = p.window;
     // (a rest_band states where M* is defined, so the default rest wavelength is then not used)

@@ -55,6 +55,7 @@ export function describeSurvey(survey: Survey): Omit<SurveyCheck, 'warnings'> {
     detection = clean({
       kind: d.kind,
       limit_cgs: d.limitCgs,
+      limit_jy_km_s: d.limitGivenJyKms,
       line_angstrom: d.lineAngstrom,
       filter: d.filter
         ? clean({

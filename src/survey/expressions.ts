@@ -26,6 +26,13 @@ export interface CompiledExpression {
   /** Bounds of what `fn` returns for every z from lo to hi (interval arithmetic, src/survey/interval.ts). */
   bounds: I.Bounds;
   /**
+   * Bounds of the expression's derivative in z for every z from lo to hi (the same interval
+   * arithmetic over the rules of differentiation; not widened for rounding: it guides where the
+   * redshift quadrature cuts, zparam.ts `featureCuts`, and proves nothing). [NaN, NaN] where it may
+   * be undefined or unbounded (sqrt or a power at 0).
+   */
+  slope: I.Bounds;
+  /**
    * Functions of z whose sign changes where the expression has a kink: the argument of each abs,
    * and the difference of each pair of arguments of each min and max, that depend on z.
    */
@@ -48,6 +55,14 @@ const UNARY_BOUNDS: Record<string, (a: I.Interval) => I.Interval> = {
   exp: I.exp,
   sqrt: I.sqrt,
   abs: I.abs,
+};
+/** Derivative of each function, from the argument's value bounds v and derivative bounds d (chain rule). */
+const UNARY_SLOPES: Record<string, (v: I.Interval, d: I.Interval) => I.Interval> = {
+  log10: (v, d) => I.divide(d, I.multiply(v, [Math.LN10, Math.LN10])),
+  ln: (v, d) => I.divide(d, v),
+  exp: (v, d) => I.multiply(I.exp(v), d),
+  sqrt: (v, d) => I.divide(d, I.multiply([2, 2], I.sqrt(v))),
+  abs: (v, d) => (v[0] >= 0 ? d : v[1] <= 0 ? I.negate(d) : I.union([I.negate(d), d])),
 };
 const VARIADIC: Record<string, (...a: number[]) => number> = { min: Math.min, max: Math.max };
 const VARIADIC_BOUNDS: Record<string, (a: readonly I.Interval[]) => I.Interval> = {
@@ -73,6 +88,26 @@ interface Compiled {
   fn: Closure;
   usesZ: boolean;
   bounds: I.Bounds;
+  slope: I.Bounds;
+}
+
+const ZERO: I.Interval = [0, 0];
+const ONE: I.Interval = [1, 1];
+const noSlope: I.Bounds = () => ZERO;
+
+function isZero(a: I.Interval): boolean {
+  return a[0] === 0 && a[1] === 0;
+}
+
+/**
+ * Derivative of a ^ b from the value bounds (va, vb) and derivative bounds (da, db):
+ * b a^(b - 1) a' + a^b ln(a) b', each term only where its factor a' or b' is not exactly 0.
+ */
+function powerSlope(va: I.Interval, vb: I.Interval, da: I.Interval, db: I.Interval): I.Interval {
+  let d = ZERO;
+  if (!isZero(da) && !isZero(vb)) d = I.multiply(I.multiply(vb, I.power(va, I.subtract(vb, ONE))), da);
+  if (!isZero(db)) d = I.add(d, I.multiply(I.multiply(I.power(va, vb), I.logarithm(va, Math.log)), db));
+  return d;
 }
 
 const NODE_WORDS: Record<string, string> = {
@@ -218,10 +253,10 @@ export function compileExpression(written: string, file: string, keyPath: string
         const v = node.value;
         if (typeof v !== 'number') return reject(`contains ${JSON.stringify(v) ?? String(v)}, which is not a number`);
         const b: I.Interval = [v, v];
-        return { fn: () => v, usesZ: false, bounds: () => b };
+        return { fn: () => v, usesZ: false, bounds: () => b, slope: noSlope };
       }
       case 'SymbolNode': {
-        if (node.name === 'z') return { fn: (z) => z, usesZ: true, bounds: (lo, hi) => [lo, hi] };
+        if (node.name === 'z') return { fn: (z) => z, usesZ: true, bounds: (lo, hi) => [lo, hi], slope: () => ONE };
         return reject(`contains "${node.name}"; the only variable is z`);
       }
       case 'ParenthesisNode':
@@ -247,42 +282,59 @@ export function compileExpression(written: string, file: string, keyPath: string
         const [a, b] = c;
         let fn: Closure;
         let bounds: I.Bounds;
+        let slope: I.Bounds;
         if (c.length === 1 && a) {
           const fa = a.fn;
           const ba = a.bounds;
+          const da = a.slope;
           if (node.fn === 'unaryMinus') {
             fn = (z) => -fa(z);
             bounds = (lo, hi) => I.negate(ba(lo, hi));
+            slope = (lo, hi) => I.negate(da(lo, hi));
           } else if (node.fn === 'unaryPlus') {
             fn = fa;
             bounds = ba;
+            slope = da;
           } else return reject(`contains the operator "${node.op}"`);
         } else if (c.length === 2 && a && b) {
           const fa = a.fn;
           const fb = b.fn;
           const ba = a.bounds;
           const bb = b.bounds;
+          const da = a.slope;
+          const db = b.slope;
           let op: (x: I.Interval, y: I.Interval) => I.Interval;
           switch (node.fn) {
             case 'add':
               fn = (z) => fa(z) + fb(z);
               op = I.add;
+              slope = (lo, hi) => I.add(da(lo, hi), db(lo, hi));
               break;
             case 'subtract':
               fn = (z) => fa(z) - fb(z);
               op = I.subtract;
+              slope = (lo, hi) => I.subtract(da(lo, hi), db(lo, hi));
               break;
             case 'multiply':
               fn = (z) => fa(z) * fb(z);
               op = I.multiply;
+              // (ab)' = a'b + ab'
+              slope = (lo, hi) => I.add(I.multiply(da(lo, hi), bb(lo, hi)), I.multiply(ba(lo, hi), db(lo, hi)));
               break;
             case 'divide':
               fn = (z) => fa(z) / fb(z);
               op = I.divide;
+              // (a/b)' = (a'b - ab') / b^2
+              slope = (lo, hi) => {
+                const vb = bb(lo, hi);
+                const top = I.subtract(I.multiply(da(lo, hi), vb), I.multiply(ba(lo, hi), db(lo, hi)));
+                return I.divide(top, I.power(vb, [2, 2]));
+              };
               break;
             case 'pow':
               fn = (z) => fa(z) ** fb(z);
               op = I.power;
+              slope = (lo, hi) => powerSlope(ba(lo, hi), bb(lo, hi), da(lo, hi), db(lo, hi));
               break;
             default:
               return reject(`contains the operator "${node.op}"`);
@@ -291,7 +343,7 @@ export function compileExpression(written: string, file: string, keyPath: string
         } else {
           return reject(`contains the operator "${node.op}"`);
         }
-        return fold({ fn, usesZ, bounds });
+        return fold({ fn, usesZ, bounds, slope });
       }
       case 'FunctionNode': {
         const f = node.fn as MathNode;
@@ -309,15 +361,25 @@ export function compileExpression(written: string, file: string, keyPath: string
           if (c.length !== 1) return reject(`calls ${name} with ${c.length} arguments instead of 1`);
           const fa = c[0]!.fn;
           const ba = c[0]!.bounds;
+          const da = c[0]!.slope;
           const bu = UNARY_BOUNDS[name]!;
+          const su = UNARY_SLOPES[name]!;
           if (folding && name === 'abs' && usesZ) kinks.push(fa);
-          return fold({ fn: (z) => unary(fa(z)), usesZ, bounds: (lo, hi) => bu(ba(lo, hi)) });
+          return fold({
+            fn: (z) => unary(fa(z)),
+            usesZ,
+            bounds: (lo, hi) => bu(ba(lo, hi)),
+            slope: (lo, hi) => su(ba(lo, hi), da(lo, hi)),
+          });
         }
         if (c.length < 1) return reject(`calls ${name} without arguments`);
         const fs = c.map((x) => x.fn);
         const bs = c.map((x) => x.bounds);
+        const ds = c.map((x) => x.slope);
         const bv = VARIADIC_BOUNDS[name]!;
         const bounds: I.Bounds = (lo, hi) => bv(bs.map((g) => g(lo, hi)));
+        // min and max take the derivative of one of their arguments (a kink where they switch)
+        const slope: I.Bounds = (lo, hi) => I.union(ds.map((g) => g(lo, hi)));
         if (folding)
           for (let i = 0; i < c.length; i++)
             for (let j = i + 1; j < c.length; j++) {
@@ -327,9 +389,9 @@ export function compileExpression(written: string, file: string, keyPath: string
         const v = variadic!;
         if (fs.length === 2) {
           const [fa, fb] = fs as [Closure, Closure];
-          return fold({ fn: (z) => v(fa(z), fb(z)), usesZ, bounds });
+          return fold({ fn: (z) => v(fa(z), fb(z)), usesZ, bounds, slope });
         }
-        return fold({ fn: (z) => v(...fs.map((g) => g(z))), usesZ, bounds });
+        return fold({ fn: (z) => v(...fs.map((g) => g(z))), usesZ, bounds, slope });
       }
       default: {
         const word = NODE_WORDS[node.type] ?? `"${node.type}"`;
@@ -346,7 +408,7 @@ export function compileExpression(written: string, file: string, keyPath: string
     if (!folding || c.usesZ) return c;
     const v = c.fn(0);
     const b: I.Interval = [v, v];
-    return { fn: () => v, usesZ: false, bounds: () => b };
+    return { fn: () => v, usesZ: false, bounds: () => b, slope: noSlope };
   };
   walk(root);
   const rest = lexicalProblem(text);
@@ -358,6 +420,7 @@ export function compileExpression(written: string, file: string, keyPath: string
     fn: compiled.fn,
     constant: !compiled.usesZ,
     bounds: compiled.bounds,
+    slope: compiled.slope,
     kinks: compiled.usesZ ? kinks : [],
   };
 }

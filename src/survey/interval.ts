@@ -156,3 +156,9 @@ export function power(a: Interval, b: Interval): Interval {
   const ys = b0 < 0 && b1 > 0 ? [b0, 0, b1] : [b0, b1];
   return powHull(xs, ys);
 }
+
+/** Smallest interval holding every one of them (any undefined: undefined). */
+export function union(args: readonly Interval[]): Interval {
+  if (args.some(isUndefined)) return UNDEFINED;
+  return [Math.min(...args.map((a) => a[0])), Math.max(...args.map((a) => a[1]))];
+}

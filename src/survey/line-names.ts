@@ -70,11 +70,17 @@ const LINES: readonly LineName[] = [
 /** The names known, for the tests. */
 export const LINE_NAMES = LINES;
 
+/** How HI 21 cm is written as a name (lower case, without spaces, hyphens or dots; "21 cm" is a wavelength, read as one). */
+const HI_KEYS = ['hi', 'h1', 'hi21cm', 'h121cm'];
+
 export function lineNameHint(text: string): string | undefined {
   const key = text
     .trim()
     .toLowerCase()
     .replace(/[\s[\]()\-_.λ]/g, '');
+  // a radio line is quoted by its rest frequency (1420.405751768 MHz, common practice)
+  if (HI_KEYS.includes(key))
+    return `"${text.trim()}" names a line, not its wavelength: write its rest frequency or wavelength with the unit, e.g. "1420.405752 MHz" or "21.106114 cm" for HI`;
   const line = LINES.find((l) => l.keys.includes(key));
   if (!line) return undefined;
   const other =

@@ -14,7 +14,13 @@ import type { Population, SfrConversion, PopulationVariable } from '../model/pop
 import type { ZParam } from '../model/zparam.js';
 import { schemaError } from './schema.js';
 import { lineNameHint } from './line-names.js';
-import { isPlainNumberString, parseQuantity, plainNumberText } from './units.js';
+import {
+  isPlainNumberString,
+  lineFluxOfVelocityFlux,
+  parseQuantity,
+  parseQuantityOneOf,
+  plainNumberText,
+} from './units.js';
 import { FULL_SKY_DEG2, MIN_AREA_DEG2, SR_PER_DEG2 } from '../model/sky.js';
 import { checkParam, fmt, makeZParam, mapParam, paramExtremes, type ZTable } from './zparam.js';
 import { readTransmissionFile } from './transmission-file.js';
@@ -230,12 +236,79 @@ function wavelength(v: Q, file: string, path: string): number {
   return checkRange(positiveQuantity(v, 'wavelength', file, path, 'Angstrom'), RANGES.wavelength, file, path);
 }
 
-/** A line's rest wavelength; a line written as a name ("[OII]") is answered with the number to write. */
+/**
+ * A line's rest wavelength (Angstrom, or with a unit), or its rest frequency with its unit
+ * ("1420.405752 MHz" for HI 21 cm: lambda = c / nu, as a band's); a line written as a name
+ * ("[OII]") is answered with the number to write.
+ */
 function lineWavelength(v: Q, file: string, path: string): number {
   const hint = typeof v === 'string' ? lineNameHint(v) : undefined;
   if (hint)
     throw inputError('bad_unit', file, path, hint.slice(0, hint.indexOf(': ')), hint.slice(hint.indexOf(': ') + 2));
-  return wavelength(v, file, path);
+  return wavelengthOrFrequency(v, file, path, "the line's rest wavelength", 6562.8).angstrom;
+}
+
+/** The line-flux keys' context for a velocity-integrated flux: the line it is converted at. */
+interface LineFluxContext {
+  /** detection.line in Angstrom, if given. */
+  lineAngstrom: number | undefined;
+  /** The rest wavelengths of every population's line (each its own, else detection.line). */
+  lines: readonly (number | undefined)[];
+}
+
+/**
+ * A line-flux key (detection.limit, completeness.half) as one flux in erg/s/cm^2: a number in
+ * erg/s/cm^2, a flux with its unit ("5e-20 W/m^2"), or a velocity-integrated flux density
+ * S = int S_nu dv with its unit ("0.7 Jy km/s"), converted once, here, at the rest frequency
+ * nu = c / lambda of detection.line: F = S nu / c, i.e. v = c (1 - nu_obs / nu) (the radio
+ * convention; lineFluxOfVelocityFlux). `jyKms` is the value as given (only then).
+ */
+function lineFlux(v: Q, context: LineFluxContext, file: string, path: string): { cgs: number; jyKms?: number } {
+  const q = parseQuantityOneOf(
+    v,
+    ['flux', 'velocityFlux'],
+    file,
+    path,
+    'write a line flux in erg/s/cm^2 as a number, or with a unit, e.g. 5e-17, "5e-17 erg/s/cm^2" or "5e-20 W/m^2"; a radio line\'s velocity-integrated flux as e.g. "0.7 Jy km/s"',
+  );
+  if (!(q.value > 0))
+    outOfRange(
+      file,
+      path,
+      `is ${fmt(q.value)} ${q.kind === 'flux' ? 'erg/s/cm^2' : 'Jy km/s'}`,
+      'give a positive value',
+    );
+  if (q.kind === 'flux') return { cgs: checkRange(q.value, RANGES.lineFlux, file, path) };
+  const line = context.lineAngstrom;
+  const shown = typeof v === 'string' ? excerpt(v, 40) : String(v);
+  if (line === undefined) {
+    throw inputError(
+      'missing_key',
+      file,
+      path,
+      `"${shown}" is a velocity-integrated flux, converted to erg/s/cm^2 at the rest frequency of detection.line, which the file does not give`,
+      'give detection.line (e.g. "1420.405752 MHz" for HI 21 cm), or the value in erg/s/cm^2',
+    );
+  }
+  if (context.lines.some((l) => l !== line)) {
+    throw inputError(
+      'conflict',
+      file,
+      path,
+      `"${shown}" is a velocity-integrated flux, converted at the rest frequency of detection.line, but a population counts another line, whose flux in Jy km/s is another line flux`,
+      'give the value in erg/s/cm^2, or count one line',
+    );
+  }
+  const cgs = lineFluxOfVelocityFlux(q.value, line);
+  if (!inRange(cgs, RANGES.lineFlux)) {
+    outOfRange(
+      file,
+      path,
+      `"${shown}" is ${fmt(cgs)} erg/s/cm^2 at the line's rest frequency, outside its physical range (${describeRange(RANGES.lineFlux)})`,
+      'give a velocity-integrated flux in that range',
+    );
+  }
+  return { cgs, jyKms: q.value };
 }
 
 function intersect(a: Window, b: Window): Window {
@@ -360,6 +433,7 @@ function parseCompleteness(
   raw: NonNullable<RawSurvey['detection']['completeness']>,
   kind: DetectionKind,
   variable: PopulationVariable,
+  lineContext: LineFluxContext,
   file: string,
 ): Completeness {
   const p = 'detection.completeness';
@@ -382,14 +456,7 @@ function parseCompleteness(
     checkRange(raw.width, RANGES.completenessWidth, file, `${p}.width`);
     const half =
       kind === 'line_flux'
-        ? -Math.log10(
-            checkRange(
-              positiveQuantity(raw.half, 'flux', file, `${p}.half`, 'erg/s/cm^2'),
-              RANGES.lineFlux,
-              file,
-              `${p}.half`,
-            ),
-          )
+        ? -Math.log10(lineFlux(raw.half, lineContext, file, `${p}.half`).cgs)
         : kind === 'magnitude' && isFluxDensityText(raw.half)
           ? fluxDensityMagnitude(raw.half, file, `${p}.half`).abMag
           : checkRange(
@@ -541,7 +608,7 @@ function parsePopulationParams(
   raw: RawPopulation,
   path: string,
   file: string,
-): { components: ParsedComponent[]; lStar?: ZParam; lKey?: string; mStar?: ZParam } {
+): { components: ParsedComponent[]; lStar?: ZParam; lKey?: 'l_star' | 'log10_l_star'; mStar?: ZParam } {
   const suffixes = raw.shape === 'double_schechter' ? ['_1', '_2'] : [''];
   const components = suffixes.map((sfx) => {
     const alphaKey = `alpha${sfx}` as 'alpha' | 'alpha_1' | 'alpha_2';
@@ -978,6 +1045,7 @@ function readDetection(
   det: RawSurvey['detection'],
   rawPops: RawPopulations,
   detLine: number | undefined,
+  lines: readonly (number | undefined)[],
   filter: Filter | undefined,
   hull: Window,
   file: string,
@@ -986,11 +1054,12 @@ function readDetection(
 ): Detection {
   const kind = det.kind;
   let detection: Detection;
+  const lineContext: LineFluxContext = { lineAngstrom: detLine, lines };
   const thresholdVariable: PopulationVariable = rawPops.every((p) => p.raw.variable === 'magnitude')
     ? 'magnitude'
     : 'luminosity';
   const completeness = det.completeness
-    ? parseCompleteness(det.completeness, kind, thresholdVariable, file)
+    ? parseCompleteness(det.completeness, kind, thresholdVariable, lineContext, file)
     : undefined;
   let completenessAb = completeness;
   if (kind === 'line_flux') {
@@ -1003,13 +1072,9 @@ function readDetection(
         'give the flux limit in erg/s/cm^2 or with a unit',
       );
     }
-    const limitCgs = checkRange(
-      positiveQuantity(det.limit, 'flux', file, 'detection.limit', 'erg/s/cm^2'),
-      RANGES.lineFlux,
-      file,
-      'detection.limit',
-    );
-    detection = { kind, limitCgs };
+    const limit = lineFlux(det.limit, lineContext, file, 'detection.limit');
+    detection = { kind, limitCgs: limit.cgs };
+    if (limit.jyKms !== undefined) detection.limitGivenJyKms = limit.jyKms;
     if (detLine !== undefined) detection.lineAngstrom = detLine;
     if (filter) detection.filter = filter;
   } else if (kind === 'magnitude') {
@@ -1068,6 +1133,7 @@ function readDetection(
           : { ...completeness, x: completeness.x.map((x) => x + phot.toAb) };
     }
   } else {
+    refuseLinearThreshold(det.limit, thresholdVariable, file);
     const limit = makeZParam(det.limit, file, 'detection.limit');
     checkParam(limit, hull, file, 'detection.limit', {
       what: 'the limit',
@@ -1078,6 +1144,22 @@ function readDetection(
   if (completenessAb) detection.completeness = completenessAb;
   Object.assign(detection, readDetectionSelection(det, hull, file));
   return detection;
+}
+
+/**
+ * A threshold limit of a luminosity variable is log10 of the quantity (from -30 to 60): a number
+ * of 1e3 or more is the quantity itself ("limit: 1e9" for a mass of 1e9 Msun), refused saying so
+ * with the log10 to write instead (the range check would only say it is above 60).
+ */
+function refuseLinearThreshold(limit: unknown, variable: PopulationVariable, file: string): void {
+  if (variable !== 'luminosity' || typeof limit !== 'number' || !(limit >= 1e3) || !Number.isFinite(limit)) return;
+  throw inputError(
+    'out_of_range',
+    file,
+    'detection.limit',
+    `is ${compact(limit)}, not a log10 of the quantity (from -30 to 60)`,
+    `a threshold survey's limit is log10 of the quantity: it looks like a linear value, write limit: ${compact(Math.log10(limit), 6)}`,
+  );
 }
 
 /** One population: its parameters checked over its window, bias, occupation, rest wavelength, window and slice edges. */
@@ -1154,6 +1236,7 @@ function buildPopulation(
   if (sfrConversion) pop.sfrConversion = sfrConversion;
   if (p.quantity !== undefined) pop.quantity = p.quantity;
   if (params.lStar) pop.lStar = params.lStar;
+  if (params.lKey) pop.lStarKey = params.lKey;
   if (params.mStar) pop.mStar = params.mStar;
   if (line !== undefined) pop.lineAngstrom = line;
   if (p.rest_wavelength === undefined) pop.restWavelengthDefault = true;
@@ -1234,7 +1317,7 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   const photoZ =
     det.photo_z && det.kind !== 'line_flux' ? readPhotoZ(det.photo_z, hull, slices.edges, file) : undefined;
   const checkHull = photoZ ? photoZTrueRange(hull, photoZ) : hull;
-  const detection = readDetection(det, rawPops, detLine, filter, checkHull, file, base, inputs);
+  const detection = readDetection(det, rawPops, detLine, lines, filter, checkHull, file, base, inputs);
   if (photoZ && detection.kind !== 'line_flux') detection.photoZ = photoZ;
   const checkWindow = (i: number): Window => (photoZ ? photoZTrueRange(windows[i]!, photoZ) : windows[i]!);
   const populations = rawPops.map(({ raw: p, path }, i) => {

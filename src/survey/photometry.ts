@@ -102,7 +102,7 @@ export function wavelengthOrFrequency(
       path,
       hz > 0
         ? `is ${fmt(hz)} Hz, a wavelength c / nu of ${fmt(angstrom)} Angstrom, outside its physical range (${describeRange(RANGES.wavelength)})`
-        : `is ${fmt(hz)} Hz, but a band's frequency must be above 0`,
+        : `is ${fmt(hz)} Hz, but a frequency must be above 0`,
       hz > 0 ? 'give a frequency whose wavelength lies in that range' : 'give a positive frequency',
     );
   }

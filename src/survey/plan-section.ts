@@ -22,7 +22,7 @@ import { excerpt, inputError } from '../errors.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import type { FluxDensityUnit } from '../model/photometry.js';
-import { parseQuantity } from './units.js';
+import { lineFluxOfVelocityFlux, parseQuantity, parseQuantityOneOf } from './units.js';
 import { FULL_SKY_DEG2 } from '../model/sky.js';
 import { suggest } from './schema.js';
 import { CAPS, RANGES, describeRange, inRange } from '../model/limits.js';
@@ -34,7 +34,7 @@ import {
   type PlanGoal,
   type PlanSpec,
 } from '../model/plan.js';
-import { parameterNames } from '../model/population.js';
+import { otherKneeHint, parameterNames } from '../model/population.js';
 import { fluxDensityMagnitude, isFluxDensityText } from './photometry.js';
 
 const KEYS = [
@@ -132,7 +132,24 @@ function hours(v: unknown, file: string, at: string, positive: boolean): number 
   );
 }
 
-function limitValue(v: unknown, kind: LimitKind, file: string, at: string, units?: FluxDensityUnit[]): number {
+/**
+ * The rest wavelength a line-flux limit written in Jy km/s is converted at, as detection.limit is:
+ * detection.line, when every population counts that line; undefined otherwise.
+ */
+function velocityFluxLine(survey: Survey): number | undefined {
+  const d = survey.detection;
+  if (d.kind !== 'line_flux' || d.lineAngstrom === undefined) return undefined;
+  return survey.populations.every((p) => p.lineAngstrom === d.lineAngstrom) ? d.lineAngstrom : undefined;
+}
+
+function limitValue(
+  v: unknown,
+  kind: LimitKind,
+  file: string,
+  at: string,
+  units: FluxDensityUnit[],
+  line: number | undefined,
+): number {
   const range = kind === 'magnitude' ? RANGES.apparentMagnitude : RANGES.lineFlux;
   let x: number;
   // a flux density with its unit is its AB magnitude, as detection.limit reads it (its unit kept
@@ -153,7 +170,25 @@ function limitValue(v: unknown, kind: LimitKind, file: string, at: string, units
         'give erg/s/cm^2 as a number, or with a unit such as "5e-17 erg/s/cm^2"',
       );
     }
-    x = num(parseQuantity(v, 'flux', file, at), file, at, 'a line flux above 0', { min: 0, exclusiveMin: true });
+    // a radio line's velocity-integrated flux ("0.7 Jy km/s") at detection.line's rest frequency
+    const q = parseQuantityOneOf(
+      v,
+      ['flux', 'velocityFlux'],
+      file,
+      at,
+      'give erg/s/cm^2 as a number, or with a unit such as "5e-17 erg/s/cm^2" (a radio line\'s as "0.7 Jy km/s")',
+    );
+    if (q.kind === 'velocityFlux' && line === undefined) {
+      throw inputError(
+        'missing_key',
+        file,
+        at,
+        `${shown(v)} is a velocity-integrated flux, converted at the rest frequency of detection.line, which the file does not give for every population`,
+        'give detection.line and count that line, or the limit in erg/s/cm^2',
+      );
+    }
+    const cgs = q.kind === 'velocityFlux' ? lineFluxOfVelocityFlux(q.value, line!) : q.value;
+    x = num(cgs, file, at, 'a line flux above 0', { min: 0, exclusiveMin: true });
   }
   if (!inRange(x, range)) {
     throw inputError(
@@ -243,6 +278,7 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
     );
   }
   const limitKind: LimitKind = kind;
+  const line = velocityFluxLine(survey);
 
   if (raw.field_of_view === undefined)
     throw inputError(
@@ -287,7 +323,7 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
       );
     }
     checkKeys(raw.reference, ['limit', 'exposure_hours'], file, 'plan.reference');
-    const referenceLimit = limitValue(raw.reference.limit, limitKind, file, 'plan.reference.limit', givenUnits);
+    const referenceLimit = limitValue(raw.reference.limit, limitKind, file, 'plan.reference.limit', givenUnits, line);
     const referenceHours = hours(raw.reference.exposure_hours, file, 'plan.reference.exposure_hours', true);
     return { referenceLimit, referenceHours };
   };
@@ -340,7 +376,7 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
           'write each row as [hours, limit]',
         );
       const h = hours(row[0], file, `${at}[0]`, true);
-      const l = limitValue(row[1], limitKind, file, `${at}[1]`, givenUnits);
+      const l = limitValue(row[1], limitKind, file, `${at}[1]`, givenUnits, line);
       if (i > 0 && !(h > hs[i - 1]!))
         throw inputError(
           'bad_table',
@@ -382,12 +418,13 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
     checkKeys(g, ['sigma'], file, 'plan.goal');
     const names: string[] = parameterNames(population);
     if (typeof g.sigma !== 'string' || !names.includes(g.sigma)) {
-      const near = typeof g.sigma === 'string' ? suggest(g.sigma, names) : undefined;
+      const knee = typeof g.sigma === 'string' ? otherKneeHint(g.sigma, names) : '';
+      const near = typeof g.sigma === 'string' && !knee ? suggest(g.sigma, names) : undefined;
       throw inputError(
         'out_of_range',
         file,
         'plan.goal.sigma',
-        `is ${shown(g.sigma)} but must name a parameter of "${population.name}"${near ? ` (did you mean ${near}?)` : ''}`,
+        `is ${shown(g.sigma)} but must name a parameter of "${population.name}"${knee}${near ? ` (did you mean ${near}?)` : ''}`,
         `use one of ${names.join(', ')}`,
       );
     }
@@ -582,7 +619,7 @@ export function readPlanSection(survey: Survey, population: Population): PlanSpe
       }
       fixed = { areaDeg2 };
     } else {
-      const limit = limitValue(raw.fixed.limit, limitKind, file, 'plan.fixed.limit', givenUnits);
+      const limit = limitValue(raw.fixed.limit, limitKind, file, 'plan.fixed.limit', givenUnits, line);
       if (
         law.kind === 'table' &&
         (depthOfLimit(limitKind, limit) < depthOfLimit(limitKind, law.limits[0]!) ||

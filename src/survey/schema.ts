@@ -230,6 +230,26 @@ function misplaced(key: string, parent: string): string[] | undefined {
   return homes.length > 0 ? homes.map((id) => SECTION_WORDS[id]) : undefined;
 }
 
+/**
+ * A radio or submillimetre spectral index written under its own name: the file's spectral slope is
+ * beta of f_lambda ~ lambda^beta, and an index a of f_nu ~ nu^a is beta = -(2 + a)
+ * (docs/survey-file.md, "A power-law spectrum f_nu ~ nu^a").
+ */
+const SPECTRAL_INDEX_KEYS = new Set(['spectral_index', 'spectral_slope', 'radio_spectral_index', 'alpha_radio']);
+
+function spectralIndexError(key: string, value: unknown, file: string, path: string): SurveyError {
+  const a = typeof value === 'number' && Number.isFinite(value) ? value : undefined;
+  return inputError(
+    'unknown_key',
+    file,
+    path,
+    `unknown key "${key}": the spectrum's slope is detection.beta, of f_lambda ~ lambda^beta`,
+    a === undefined
+      ? 'a spectral index a of f_nu ~ nu^a is beta = -(2 + a): a synchrotron a = -0.7 is beta: -1.3'
+      : `a spectral index a of f_nu ~ nu^a is beta = -(2 + a): for a = ${a}, write beta: ${Number((-(2 + a)).toPrecision(12))}`,
+  );
+}
+
 /** Validate `obj`; return undefined when it matches the schema, else the one error to report. */
 export function schemaError(obj: unknown, file: string): SurveyError | undefined {
   if (validate(obj)) return undefined;
@@ -241,6 +261,8 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
     const key = String((extra.params as { additionalProperty: string }).additionalProperty);
     const parent = keyPathOf(extra.instancePath);
     const props = Object.keys(((extra.parentSchema ?? {}) as { properties?: object }).properties ?? {});
+    if (sectionId(parent) === 'detection' && SPECTRAL_INDEX_KEYS.has(key))
+      return spectralIndexError(key, (extra.data as Record<string, unknown>)[key], file, join(parent, key));
     const home = misplaced(key, parent);
     if (home) {
       return inputError(
@@ -323,6 +345,30 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
         }
         const sigma = typeof data === 'string' ? sigmaText(path, data) : undefined;
         if (sigma) return inputError('wrong_type', file, path, sigma.what, sigma.fix);
+        // "h0: 70 km/s/Mpc" or "h0: '70'": a number with a unit, or quoted, where the key takes a
+        // plain number in its own unit
+        const type = String((first.params as { type: string }).type);
+        const lead =
+          typeof data === 'string' && title === undefined && (type === 'number' || type === 'integer')
+            ? /^\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*([^\s\d.eE+-]?)/.exec(data)
+            : null;
+        if (lead && (lead[2] !== '' || lead[0] === data) && (type === 'number' || Number.isInteger(Number(lead[1])))) {
+          return lead[2] !== ''
+            ? inputError(
+                'wrong_type',
+                file,
+                path,
+                `is ${describeValue(data)} but must be ${expected}, without a unit`,
+                `write ${lead[1]} alone, in the key's own unit (docs/survey-file.md gives each key's unit)`,
+              )
+            : inputError(
+                'wrong_type',
+                file,
+                path,
+                `is ${describeValue(data)} but must be ${expected}`,
+                `write ${lead[1]} without quotes`,
+              );
+        }
         return inputError(
           'wrong_type',
           file,

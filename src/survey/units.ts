@@ -10,7 +10,7 @@ import { excerpt, inputError } from '../errors.js';
 import type * as MathJsModule from 'mathjs';
 import { getUnits } from './mathjs.js';
 
-export type QuantityKind = 'area' | 'wavelength' | 'flux' | 'time' | 'fluxDensity' | 'frequency';
+export type QuantityKind = 'area' | 'wavelength' | 'flux' | 'time' | 'fluxDensity' | 'frequency' | 'velocityFlux';
 
 interface KindInfo {
   /** mathjs unit the plain number is in. */
@@ -41,7 +41,25 @@ export const QUANTITY_KINDS: Record<QuantityKind, KindInfo> = {
     examples: '"0.1 mJy", "2 uJy" or "1e-29 erg s^-1 cm^-2 Hz^-1"',
   },
   frequency: { unit: 'Hz', label: 'Hz', what: 'a frequency', examples: '"1.4 GHz" or "345 GHz"' },
+  // A velocity-integrated flux density (a radio line's flux, S = int S_nu dv), always with its
+  // unit: the line-flux keys convert it once at the line's rest frequency (src/survey/normalise.ts).
+  velocityFlux: {
+    unit: 'Jy km/s',
+    label: 'Jy km/s',
+    what: 'a velocity-integrated flux',
+    examples: '"0.7 Jy km/s" or "150 mJy km/s"',
+  },
 };
+
+/**
+ * A velocity-integrated flux density S [Jy km/s] of a line of rest wavelength lambda [Angstrom] as
+ * a line flux [erg s^-1 cm^-2]: F = S nu / c (radio velocities, v = c (1 - nu_obs / nu)) =
+ * S 1e-23 x 1e5 x 1e8 / lambda (1 Jy = 1e-23 erg s^-1 cm^-2 Hz^-1, 1 km/s = 1e5 cm/s,
+ * 1 Angstrom = 1e-8 cm): 4.738e-20 erg s^-1 cm^-2 per Jy km/s at HI 21 cm.
+ */
+export function lineFluxOfVelocityFlux(jyKms: number, lineAngstrom: number): number {
+  return (jyKms * 1e-10) / lineAngstrom;
+}
 
 /** Longest quantity string read ("2.1 deg^2" is 9 characters). */
 export const MAX_QUANTITY_LENGTH = 100;
@@ -86,7 +104,7 @@ export function plainNumberText(s: string): string {
 
 /**
  * Turn a number or a string with a unit into a plain number in the kind's unit
- * (deg^2, Angstrom, erg/s/cm^2, hours, Jy or Hz). A bare number string ("2.5") is read in that unit.
+ * (deg^2, Angstrom, erg/s/cm^2, hours, Jy, Hz or Jy km/s). A bare number string ("2.5") is read in that unit.
  * Throws SurveyError bad_unit otherwise.
  */
 export function parseQuantity(value: number | string, kind: QuantityKind, file: string, keyPath: string): number {
@@ -216,6 +234,7 @@ const QUICK_UNITS: Record<string, QuickUnit> = {
   micron: { value: 1e-6, prefix: 1, dims: LENGTH },
   m: { value: 1, prefix: 1, dims: LENGTH },
   cm: { value: 1, prefix: 1e-2, dims: LENGTH },
+  km: { value: 1, prefix: 1e3, dims: LENGTH },
   mm: { value: 1, prefix: 1e-3, dims: LENGTH },
   um: { value: 1, prefix: 1e-6, dims: LENGTH },
   nm: { value: 1, prefix: 1e-9, dims: LENGTH },
@@ -251,6 +270,11 @@ const QUICK_TARGETS: Record<QuantityKind, [QuickUnit, number][]> = {
   time: [[QUICK_UNITS.h!, 1]],
   fluxDensity: [[QUICK_UNITS.Jy!, 1]],
   frequency: [[QUICK_UNITS.Hz!, 1]],
+  velocityFlux: [
+    [QUICK_UNITS.Jy!, 1],
+    [QUICK_UNITS.km!, 1],
+    [QUICK_UNITS.s!, -1],
+  ],
 };
 
 // (mathjs skips only spaces and tabs between the parts)

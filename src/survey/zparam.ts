@@ -20,6 +20,18 @@ export function isZTable(v: unknown): v is ZTable {
 /** Bounds of an expression's values over a range of z, kept beside the ZParam the loader made of it. */
 const expressionBounds = new WeakMap<ZParam, Bounds>();
 
+/**
+ * What `featureCuts` reads of an expression as the file wrote it (for a mapped parameter, such as
+ * phi* from log10_phi_star, the written expression's), and the cuts it found, which the ZParam's
+ * `features` returns.
+ */
+interface FeatureAnalysis {
+  bounds: Bounds;
+  slope: Bounds;
+  cuts: number[];
+}
+const featureAnalysis = new WeakMap<ZParam, FeatureAnalysis>();
+
 export function constantParam(v: number): ZParam {
   return { source: v, constant: true, at: () => v };
 }
@@ -55,13 +67,20 @@ export function makeZParam(value: number | string | ZTable, file: string, keyPat
   if (typeof value === 'number') return constantParam(value);
   if (typeof value === 'string') {
     const e = compileExpression(value, file, keyPath);
+    const cuts: number[] = [];
     const p: ZParam = {
       source: value,
       constant: e.constant,
       at: e.fn,
       ...(e.kinks.length > 0 ? { kinks: (lo: number, hi: number) => signChanges(e.kinks, lo, hi) } : {}),
+      ...(e.constant
+        ? {}
+        : { features: (lo: number, hi: number) => (cuts.length > 0 ? keptBreaks(cuts.slice(), lo, hi) : []) }),
     };
-    if (!e.constant) expressionBounds.set(p, e.bounds);
+    if (!e.constant) {
+      expressionBounds.set(p, e.bounds);
+      featureAnalysis.set(p, { bounds: e.bounds, slope: e.slope, cuts });
+    }
     return p;
   }
   const rows = value.table;
@@ -107,7 +126,10 @@ export function mapParam(p: ZParam, f: (v: number) => number): ZParam {
     constant: false,
     at: (z) => f(inner(z)),
     ...(p.kinks ? { kinks: p.kinks } : {}),
+    ...(p.features ? { features: p.features } : {}),
   };
+  const analysis = featureAnalysis.get(p);
+  if (analysis) featureAnalysis.set(mapped, analysis);
   const bounds = expressionBounds.get(p);
   if (bounds) {
     expressionBounds.set(mapped, (lo, hi) => {
@@ -338,6 +360,87 @@ export function checkParam(
     const z = unprovenPoint(p, bounds, window, bad, (lo, hi) => !bad(lo) && !bad(hi));
     if (z !== undefined) refuseAt(z);
   }
+  const analysis = featureAnalysis.get(p);
+  if (analysis && typeof p.source === 'string') {
+    const found = featureCuts(p, analysis, window);
+    if (found.unresolved !== undefined) {
+      throw inputError(
+        'bad_expression',
+        file,
+        keyPath,
+        `the expression "${p.source}" cannot be shown to change slowly enough near z = ${fmt(found.unresolved)} for the redshift integrals to follow it (interval arithmetic left it unresolved after ${MAX_INTERVALS} pieces)`,
+        'give it as a table {table: [[z, value], ...]} with rows across that redshift',
+      );
+    }
+    analysis.cuts.push(...found.cuts);
+  }
+}
+
+/**
+ * A cell whose derivative bound is below STEEP_RATIO V / L (V the expression's range over the
+ * window, L the window's width) is smooth at the window's scale: it takes at least 1/64 of the
+ * window to cross its range, and the redshift quadrature's choice of order by convergence (8 to 256
+ * Gauss-Legendre nodes per piece) sees such a change. A narrow feature (a dip of width 1e-3 of the
+ * window) is steeper than that.
+ */
+const STEEP_RATIO = 64;
+/** A steep cell is split until its change (derivative bound times width) is at most this fraction of V. */
+const CELL_CHANGE = 0.5;
+/**
+ * A cell whose value range times its width is below this fraction of S L (S the largest |value|
+ * over the window) cannot move an integral over the window by more than that fraction, resolved or
+ * not (where the derivative is unbounded, as sqrt(z) at 0, or a feature narrower than any cut).
+ */
+const NEGLIGIBLE = 1e-10;
+
+/**
+ * Where integrals over z should cut so that their rule follows an expression's narrow features
+ * (docs/survey-file.md, "Parameters that vary with redshift"): the window is split in halves,
+ * depth first, wherever interval arithmetic cannot show a piece smooth at the window's scale
+ * (STEEP_RATIO), small enough for its own steepness (CELL_CHANGE) or negligible (NEGLIGIBLE); the
+ * cuts are the middles of the pieces split, graded from the window's width down to the feature's.
+ * None for an expression smooth over the whole window (every sample's). `unresolved` is a redshift
+ * left unresolved after MAX_INTERVALS pieces.
+ */
+export function featureCuts(
+  p: ZParam,
+  analysis: { bounds: Bounds; slope: Bounds },
+  window: { min: number; max: number },
+): { cuts: number[]; unresolved?: number } {
+  const { bounds, slope } = analysis;
+  const L = window.max - window.min;
+  if (!(L > 0)) return { cuts: [] };
+  let [vlo, vhi] = bounds(window.min, window.max);
+  if (!(Number.isFinite(vlo) && Number.isFinite(vhi))) {
+    // the bounds over the whole window are too loose: the range the samples show
+    const values = samplePoints(window).map((z) => p.at(z));
+    [vlo, vhi] = [Math.min(...values), Math.max(...values)];
+  }
+  const V = vhi - vlo;
+  const S = Math.max(Math.abs(vlo), Math.abs(vhi));
+  if (!(V > 0)) return { cuts: [] };
+  const steep = (STEEP_RATIO * V) / L;
+  const minWidth = Math.max(L, Math.abs(window.max)) * 2 ** -40;
+  const resolved = (a: number, b: number): boolean => {
+    const h = b - a;
+    const [d0, d1] = slope(a, b);
+    const m = Math.max(Math.abs(d0), Math.abs(d1));
+    if (m <= steep || m * h <= CELL_CHANGE * V) return true;
+    const [w0, w1] = bounds(a, b);
+    return (w1 - w0) * h <= NEGLIGIBLE * S * L;
+  };
+  const cuts: number[] = [];
+  const stack: [number, number][] = [[window.min, window.max]];
+  let budget = MAX_INTERVALS;
+  while (stack.length > 0) {
+    const [a, b] = stack.pop()!;
+    if (b - a <= minWidth || resolved(a, b)) continue;
+    const m = a + (b - a) / 2;
+    if (--budget <= 0) return { cuts, unresolved: m };
+    cuts.push(m);
+    stack.push([m, b], [a, m]);
+  }
+  return { cuts: keptBreaks(cuts, window.min, window.max) };
 }
 
 /** Short number for messages. */

@@ -189,16 +189,66 @@ describe('check', () => {
       lines.filter((l) => l.startsWith('  populations')).map((l) => l.trim().split(' = ') as [string, string]),
     );
     expect(text.size).toBe(leaves.length);
+    // the value, then (for a dimensional one) its unit after a space: numbers and lists of numbers
+    // are JSON without spaces, and the JSON of a string is the string itself
     for (const [key, v] of leaves) {
-      const shown = text.get(key);
-      if (typeof v === 'string') expect(shown, key).toBe(v);
+      const shown = text.get(key)!;
+      if (typeof v === 'string') expect(shown === v || shown.startsWith(`${v} (as `), key).toBe(true);
       else if (Array.isArray(v) && v.length === 0) expect(shown, key).toBe('none');
-      else expect(JSON.parse(shown!), key).toEqual(v);
+      else expect(JSON.parse(shown.split(' ')[0]!), key).toEqual(v);
     }
     // a model's uncertainty: its parameters as words (samples/plan-robust-uv-slope.yaml), sigmas one per line
     const robust = (await runCli(['check', 'samples/plan-robust-uv-slope.yaml'])).stdout.split('\n');
     expect(robust).toContain('  populations[0].model_uncertainty.parameters = log10_phi_star, m_star, alpha');
-    expect(robust).toContain('  populations[0].model_uncertainty.sigmas.m_star = 0.18');
+    expect(robust).toContain('  populations[0].model_uncertainty.sigmas.m_star = 0.18 mag');
+  });
+  test("the text gives each dimensional value the unit it is in (failed before: l_star, h0 and the completeness's x printed bare)", async () => {
+    const lines = async (sample: string) => {
+      const r = await runCli(['check', `samples/${sample}`]);
+      expect(r.code, r.stderr).toBe(0);
+      return r.stdout.split('\n');
+    };
+    // the units are docs/outputs.md's (the cosmology block, the model table, the detection block);
+    // the values are those of each sample as written (the check of their values is the JSON's, above)
+    const halpha = await lines('halpha-narrowband.yaml');
+    for (const line of [
+      '  cosmology.h0 = 70 km/s/Mpc',
+      '  cosmology.t_cmb = 0 K',
+      '  detection.limit_cgs = 4e-17 erg/s/cm^2',
+      // a completeness's half for a line flux is -log10 of the flux (half: 5e-17 -> 16.30103)
+      '  detection.completeness.half = 16.30102999566398 -log10 erg/s/cm^2',
+      '  detection.completeness.width = 0.08 dex',
+      '  populations[0].l_star = 1.9952623149688666e+42 erg/s',
+      '  histogram_width = 0.1 dex',
+      // without a unit: a name that states it, a redshift, a slope
+      '  area_deg2 = 2.1',
+      '  populations[0].alpha = -1.45',
+    ])
+      expect(halpha, line).toContain(line);
+    // a threshold survey: L* and the limit in the unit of the file's quantity, stellar mass [Msun]
+    const mass = await lines('mass-limited.yaml');
+    for (const line of [
+      '  populations[0].l_star = 70794578438.41373 Msun',
+      '  detection.limit.at_window_min = 9.1 log10 Msun',
+      '  detection.limit.as_written.table = [[0.3,9.1],[0.9,9.6],[1.5,10.1]] (z, log10 Msun)',
+      // the file writes log10_phi_star as an expression: it is shown in that form, with that unit
+      '  populations[0].phi_star_mpc3.as_written = -3.112215688699463 - 0.15*z (as log10_phi_star: log10 Mpc^-3)',
+      '  populations[0].model_uncertainty.sigmas.log10_l_star = 0.05 dex',
+    ])
+      expect(mass, line).toContain(line);
+    // magnitudes: M* absolute AB, the limit apparent AB
+    const dropout = await lines('dropout-field.yaml');
+    for (const line of [
+      '  detection.limit_mag = 27.2 AB mag',
+      '  populations[0].m_star.at_window_min = -21.02 absolute AB mag',
+      '  populations[0].m_star.as_written = -20.95 + 0.1*(z - 4) (as m_star: absolute AB mag)',
+      '  histogram_width = 0.25 mag',
+    ])
+      expect(dropout, line).toContain(line);
+    // an L* written as log10_l_star in z is as written a log10, its values in erg/s
+    const slitless = (await lines('slitless-halpha.yaml')).filter((l) => l.includes('.l_star'));
+    expect(slitless).toContain('  populations[0].l_star.as_written = 41.95 + 0.3*z (as log10_l_star: log10 erg/s)');
+    expect(slitless.filter((l) => l.includes('at_window')).every((l) => l.endsWith(' erg/s'))).toBe(true);
   });
   test('checks the plan section as plan and report read it: a mistyped or impossible plan key is refused', async () => {
     const dir = tempDir('skytally-check-plan-');

@@ -318,3 +318,37 @@ describe('nothing read is echoed unescaped', () => {
     expect(r.stderr).not.toContain('\u001b');
   });
 });
+
+describe("the other variable's knee named as a parameter says which this population has", () => {
+  test("forecast --target, the library's targets and plan's goal (failed before: 'not a parameter', or 'did you mean log10_phi_star?' for log10_l_star)", async () => {
+    // a luminosity population's parameters are log10_phi_star, log10_l_star, alpha; a magnitude
+    // population's log10_phi_star, m_star, alpha (src/model/population.ts, parameterNames)
+    const line = await runCli(['forecast', 'samples/halpha-narrowband.yaml', '--target', 'm_star=0.1']);
+    refusedOption(line, 'forecast', '--target');
+    expect(line.stderr).toContain(
+      `"m_star" is not a parameter of this population (a luminosity population's knee is log10_l_star); use one of log10_phi_star, log10_l_star, alpha.`,
+    );
+    const uv = await runCli(['forecast', 'samples/dropout-field.yaml', '--target', 'log10_l_star=0.1']);
+    refusedOption(uv, 'forecast', '--target');
+    expect(uv.stderr).toContain("(a magnitude population's knee is m_star)");
+    const { forecast, loadSurveyFile } = await import('../../src/index.js');
+    await expect(
+      forecast(loadSurveyFile('samples/halpha-narrowband.yaml'), { targets: { m_star: 0.1 } }),
+    ).rejects.toMatchObject({ code: 'bad_option', keyPath: 'targets.m_star' });
+    await expect(
+      forecast(loadSurveyFile('samples/halpha-narrowband.yaml'), { targets: { m_star: 0.1 } }),
+    ).rejects.toThrow("(a luminosity population's knee is log10_l_star)");
+    // plan: the sample's goal, sigma of alpha, written as the knee of the luminosity variable
+    const dir = tempDir('skytally-knee-');
+    const file = join(dir, 'plan.yaml');
+    const text = readFileSync('samples/plan-uv-deep-wide.yaml', 'utf8');
+    expect(text).toContain('goal: {sigma: alpha}');
+    writeFileSync(file, text.replace('goal: {sigma: alpha}', 'goal: {sigma: log10_l_star}'));
+    const plan = await runCli(['plan', file]);
+    refused(plan, 'plan.goal.sigma');
+    expect(plan.stderr).toContain(
+      `but must name a parameter of "UV-selected galaxies" (a magnitude population's knee is m_star); use one of log10_phi_star, m_star, alpha.`,
+    );
+    expect(plan.stderr).not.toContain('did you mean');
+  });
+});

@@ -9,13 +9,14 @@
  * The commands and options are read from the program's own declarations (src/cli/commands), so a
  * new option or command is covered without editing this file.
  */
-import { existsSync } from 'node:fs';
+import { copyFileSync, existsSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { Command, type Option } from 'commander';
 import { describe, expect, test } from 'vitest';
 import { runCli, type Captured } from './helpers.js';
 import { tempDir } from '../support/temp.js';
 import { COMMANDS } from '../../src/cli/commands/index.js';
+import { inputError } from '../../src/errors.js';
 
 const SURVEY = 'samples/halpha-narrowband.yaml';
 const PLAN = 'samples/plan-halpha-layers.yaml';
@@ -178,6 +179,35 @@ describe('the program itself', () => {
     for (const n of names) expect(listed).toContain(n);
     const help = refused(await runCli(['help', 'frobnicate']), ['"frobnicate" is not a command of skytally']);
     for (const n of names) expect(help).toContain(n);
+    // help of a near name: the near command's help, as the command itself is suggested (failed before: the list)
+    refused(await runCli(['help', 'predikt']), [
+      '"predikt" is not a command of skytally',
+      'write skytally help predict instead',
+    ]);
+  });
+
+  test('an empty file argument ("$FILE" unset) names the argument (failed before: "<working folder>: the file is a folder")', async () => {
+    for (const c of DECLARED.filter((d) => d.args.length > 0)) {
+      const { argv, out } = valid(c);
+      // the first file argument given as ""
+      const i = argv.findIndex((a, k) => k > 0 && !a.startsWith('--'));
+      argv[i] = '';
+      const arg = c.args[0]!;
+      const line = refused(await runCli(argv), [
+        `skytally: ${c.name}: ${arg.variadic ? `one of the <${arg.name}> arguments` : `the <${arg.name}> argument`} is empty`,
+      ]);
+      expect(line).not.toContain('folder');
+      nothingWritten(out);
+    }
+    for (const command of ['distances', 'clustering']) {
+      const r = await runCli([command, '--z', '1', '--survey', '']);
+      refused(r, [`skytally: ${command} --survey: is empty; give the path of a survey file`]);
+    }
+  });
+
+  test('skytally without a command asks for one and lists them, exit 2 (failed before: the help, exit 0)', async () => {
+    const line = refused(await runCli([]), ['skytally: a command is needed', 'e.g. skytally predict FILE']);
+    for (const n of COMMANDS.map((d) => d.name)) expect(line).toContain(n);
   });
 
   test('an unknown option before any command names it and asks for a command', async () => {
@@ -193,5 +223,35 @@ describe('the program itself', () => {
       expect(r.code, argv.join(' ')).toBe(0);
       expect(r.stdout.length, argv.join(' ')).toBeGreaterThan(0);
     }
+  });
+});
+
+describe('a refusal carries the parts of its sentence, from which the command line composes its own', () => {
+  test('file, key and text: the message is "file: key: text" made printable (failed before: no text)', () => {
+    // the sentence's form is the project's (src/errors.ts: "<file>: <key>: <what>; <fix>.")
+    const e = inputError('out_of_range', 'a\tb.yaml', 'area', 'is 0', 'give an area above 0 deg^2');
+    expect([e.file, e.keyPath, e.text]).toEqual(['a\tb.yaml', 'area', 'is 0; give an area above 0 deg^2.']);
+    expect(e.message).toBe('a\\tb.yaml: area: is 0; give an area above 0 deg^2.');
+    const option = inputError('bad_option', '', '--draws', 'is 0', 'give a whole number');
+    expect([option.message, option.text]).toEqual([
+      '--draws: is 0; give a whole number.',
+      'is 0; give a whole number.',
+    ]);
+  });
+  test('an option refused about a file names the command, the option, then the file, escaped once', async () => {
+    // a copy of a sample under a name with a tab: the name is written \t in the sentence, once
+    const file = join(dir, 'tab\there.yaml');
+    copyFileSync(SURVEY, file);
+    const r = await runCli(['forecast', file, '--population', 'nope']);
+    const line = refused(r, ['forecast --population: ']);
+    expect(line).toBe(
+      `skytally: forecast --population: ${file.replace('\t', '\\t')}: there is no population named "nope"; use one of "H-alpha emitters".`,
+    );
+    rmSync(file);
+    // a refusal of an option alone: the command, the option, the text
+    const draws = refused(await runCli(['predict', SURVEY, '--draws', '2.5']), ['predict --draws: ']);
+    expect(draws).toBe(
+      'skytally: predict --draws: "2.5" is not a whole number from 1 to 100000; give --draws a whole number in that range.',
+    );
   });
 });

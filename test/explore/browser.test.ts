@@ -295,6 +295,53 @@ describe.skipIf(!haveChromium)('explore page in headless chromium', () => {
       },
     );
 
+    test.runIf(sample === 'halpha-narrowband.yaml')(
+      'an update that fails puts the settings back at those of the numbers shown: controls, numbers, panel and written file agree (failed before: the panel and the numbers of the old settings, the control and the written file of the new)',
+      async () => {
+        const r = await sampleExplorePage(sample);
+        const p = await context.newPage();
+        await p.goto(pathToFileURL(r.out).href, { waitUntil: 'load' });
+        await p.waitForFunction(() => document.body.dataset.ready === 'true');
+        const fieldValue = (key: string) =>
+          p.$eval(`input[data-key="${key}"]`, (e) => Number((e as unknown as Field).value));
+        const sliderValue = (key: string) =>
+          p.$eval(`input[data-slider-for="${key}"]`, (e) => Number((e as unknown as Field).value));
+        const area = await fieldValue('area');
+        await setControl(p, 'area', area * 0.5);
+        const good = (await p.textContent('#survey-yaml'))!;
+        expect(good).toContain(`area: ${area * 0.5}`);
+        const numbers = await outputsOf(p);
+        const slider = await sliderValue('area');
+        // an update that throws (every copy of the file's settings refused, as an unexpected
+        // failure of the engine would be; the page's own global, put back below)
+        await p.evaluate(`(() => {
+          window.keptClone = window.structuredClone;
+          window.structuredClone = () => { throw new Error('a failure made by the test'); };
+        })()`);
+        await setControl(p, 'area', area * 0.25);
+        await p.evaluate('window.structuredClone = window.keptClone');
+        const status = (await p.textContent('#status'))!;
+        expect(status).toContain('The update failed: a failure made by the test.');
+        expect(status).toContain('back at those of the numbers shown');
+        // the control, its slider, the numbers and the panel: all those of the last good settings
+        expect(await fieldValue('area')).toBe(area * 0.5);
+        expect(await sliderValue('area')).toBe(slider);
+        expect(await outputsOf(p)).toEqual(numbers);
+        expect(await p.textContent('#survey-yaml')).toBe(good);
+        // and the button writes that file, whose numbers (by the commands) are those shown
+        const [download] = await Promise.all([p.waitForEvent('download'), p.click('#write-survey')]);
+        expect(readFileSync(await download.path(), 'utf8')).toBe(good);
+        const file = join(dir, 'after-failure.yaml');
+        writeFileSync(file, good);
+        expectSameOutputs(await outputsOf(p), await expectedOutputs(file), 'after a failed update');
+        // the next change starts from there and updates as any other
+        await setControl(p, 'area', area * 0.25);
+        expect(await p.textContent('#survey-yaml')).toContain(`area: ${area * 0.25}`);
+        expect(await p.textContent('#status')).toBe('');
+        await p.close();
+      },
+    );
+
     test.runIf(sample === 'narrowband-interlopers.yaml')(
       'a plan file: the exposure per pointing sets the area and the limit; the page equals the commands on what it writes',
       async () => {

@@ -33,6 +33,10 @@ describe('line names: the wavelengths quoted', () => {
     expect(at('Lyman-alpha')).toBe('1215.67');
     expect(at('Lyα')).toBe('1215.67');
     expect(lineNameHint('Lya')).toContain('in vacuum)');
+    // HI 21 cm by its rest frequency, 1420.405751768 MHz (common practice), which `line` takes
+    for (const name of ['HI', 'H I', 'HI 21-cm', 'H1'])
+      expect(lineNameHint(name), name).toContain('"1420.405752 MHz" or "21.106114 cm"');
+    expect(lineNameHint('21 cm')).toBeUndefined(); // a wavelength, read as one
     expect(lineNameHint('6563')).toBeUndefined();
     expect(lineNameHint('foo')).toBeUndefined();
   });

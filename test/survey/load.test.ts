@@ -611,6 +611,28 @@ describe('bad YAML and bad files', () => {
     expect(other.message).not.toContain('U+2212');
   });
 
+  test("a number written with a unit, or quoted, where a key takes a plain number: the sentence gives the number to write (failed before: 'change the value to that form')", () => {
+    const message = (key: string, v: unknown) => {
+      const obj = parse(LINE_YAML) as Record<string, unknown>;
+      setPath(obj, key, v);
+      const e = errorOf(() => parseSurveyObject(obj, FILE));
+      expect({ code: e.code, keyPath: e.keyPath }).toEqual({ code: 'wrong_type', keyPath: key });
+      expectOneSentence(e);
+      return e.message;
+    };
+    // h0 is a plain number in km/s/Mpc (docs/survey-file.md)
+    expect(message('cosmology.h0', '70 km/s/Mpc')).toBe(
+      `${FILE}: cosmology.h0: is the text "70 km/s/Mpc" but must be a number, without a unit; write 70 alone, in the key's own unit (docs/survey-file.md gives each key's unit).`,
+    );
+    expect(message('slices.count', '5 slices')).toContain('write 5 alone');
+    expect(message('cosmology.h0', '70')).toBe(
+      `${FILE}: cosmology.h0: is the text "70" but must be a number; write 70 without quotes.`,
+    );
+    // not a number to write as it is: the plain sentence (5.5 is no whole number; "seventy" no number)
+    expect(message('slices.count', '5.5')).toContain('change the value to that form');
+    expect(message('cosmology.h0', 'seventy')).toContain('change the value to that form');
+  });
+
   test('a syntax error gives its line and column', () => {
     const e = errorOf(() => loadSurveyText('format: 1\narea: [1, 2\ncosmology: {h0: 70}\n', FILE));
     expect(e.message).toMatch(/line \d+, column \d+/);

@@ -242,6 +242,18 @@ describe('every parameter in its physical range, refused before any work', () =>
     expect([e.code, e.keyPath]).toEqual([code, keyPath]);
   });
 
+  test("a threshold limit written as the quantity itself (1e9 for 1e9 Msun) is refused with its log10 to write (failed before: 'the limit is 1000000000 at z = 0.5', no way out)", () => {
+    // a luminosity variable's threshold is log10 of the quantity (docs/survey-file.md, detection.limit)
+    const e = refusal(THRESHOLD_YAML, { 'detection.limit': 1e9 });
+    expect([e.code, e.keyPath]).toEqual(['out_of_range', 'detection.limit']);
+    expect(e.text).toBe(
+      "is 1e9, not a log10 of the quantity (from -30 to 60); a threshold survey's limit is log10 of the quantity: it looks like a linear value, write limit: 9.",
+    );
+    // log10(2.5e10) = 10.39794 (common practice), to 6 figures
+    expect(refusal(THRESHOLD_YAML, { 'detection.limit': 2.5e10 }).text).toContain('write limit: 10.3979.');
+    // a number above 60 but below 1e3 is only out of its range
+    expect(refusal(THRESHOLD_YAML, { 'detection.limit': 99 }).message).toContain('outside its physical range');
+  });
   test('the values at the ends of each range load', () => {
     expect(loads(LINE_YAML, { 'population.alpha': -2.4, 'histogram.width': 0.01 }).histogramWidth).toBe(0.01);
     expect(loads(MAGNITUDE_YAML, { 'detection.limit': 40, 'detection.beta': 5 }).detection).toMatchObject({

@@ -63,6 +63,7 @@ const EXPRESSIONS: Record<QuantityKind, string[]> = {
     'mJy*GHz/GHz',
   ],
   frequency: ['Hz', 'kHz', 'MHz', 'GHz', 'THz', 'GHz^1', 'MHz*s/s'],
+  velocityFlux: ['Jy km/s', 'mJy km/s', 'uJy km/s', 'Jy km s^-1', 'Jy*km/s', 'mJy km / s', 'Jy m/s', 'Jy cm/s'],
 };
 
 /** Decimal strings as people write them: a few significant digits, any exponent. */
@@ -117,6 +118,7 @@ describe('quick unit conversions equal mathjs bit for bit (tolerance 0)', () => 
       ['1.4 GHz', 'frequency'],
       ['345 GHz', 'frequency'],
       ['100 MHz', 'frequency'],
+      ['0.7 Jy km/s', 'velocityFlux'],
     ];
     for (const [text, kind] of cases) expect(commonQuantity(text, kind), text).toBe(viaMathjs(text, kind));
   });

@@ -32,20 +32,16 @@ export const checkCommand: CommandDef = {
     const { surveyWarnings } = await import('../../population/warnings.js');
     const { predictionWarnings } = await import('../../counts/warnings.js');
     const { mergeWarnings } = await import('../../warnings.js');
+    const { checkText } = await import('../../render/check-text.js');
     // What can be said without counting: implausible values, the band against Lyman alpha, windows outside the slices.
     const warnings = mergeWarnings(surveyWarnings(survey), predictionWarnings(survey));
     printWarnings(io, warnings);
-    const view = describeSurvey(survey) as Record<string, unknown>;
+    const view = describeSurvey(survey);
     const flat = flatten(view);
     outputs.setMain(
       renderText(opts, {
         json: () => ({ ...view, warnings }),
-        table: () =>
-          `${printable(file)}: valid survey file\n` +
-          Object.entries(readable(view))
-            .map(([k, v]) => `  ${k} = ${v}`)
-            .join('\n') +
-          '\n',
+        table: () => checkText(printable(file), survey, view),
         csv: () => csvText(['key', 'value'], Object.entries(flat)),
       }),
     );
@@ -57,27 +53,6 @@ export const checkCommand: CommandDef = {
 function flatten(obj: unknown, prefix = '', out: Record<string, string> = {}): Record<string, string> {
   if (obj !== null && typeof obj === 'object' && !Array.isArray(obj)) {
     for (const [k, v] of Object.entries(obj)) flatten(v, prefix ? `${prefix}.${k}` : k, out);
-  } else {
-    out[prefix] = typeof obj === 'string' ? obj : JSON.stringify(obj);
-  }
-  return out;
-}
-
-/**
- * The text's key = value lines: as flatten, and besides one line per key of each population
- * (populations[0].name, populations[0].window.min, ...: a list of objects is written key by key,
- * not as one line of JSON) and a list of words written as words (log10_phi_star, m_star, alpha;
- * none when empty). Lists of numbers stay JSON, as slices.edges.
- */
-function readable(obj: unknown, prefix = '', out: Record<string, string> = {}): Record<string, string> {
-  const isObject = (v: unknown) => v !== null && typeof v === 'object' && !Array.isArray(v);
-  if (isObject(obj)) {
-    for (const [k, v] of Object.entries(obj as Record<string, unknown>))
-      readable(v, prefix ? `${prefix}.${k}` : k, out);
-  } else if (Array.isArray(obj) && obj.some(isObject)) {
-    obj.forEach((v, i) => readable(v, `${prefix}[${i}]`, out));
-  } else if (Array.isArray(obj) && obj.every((v) => typeof v === 'string')) {
-    out[prefix] = obj.length === 0 ? 'none' : obj.join(', ');
   } else {
     out[prefix] = typeof obj === 'string' ? obj : JSON.stringify(obj);
   }

@@ -46,6 +46,14 @@ async function cosmologyInput(
         'give either --survey or the flags',
       );
     }
+    if (opts.survey === '')
+      throw inputError(
+        'bad_option',
+        '',
+        '--survey',
+        'is empty',
+        'give the path of a survey file, or leave --survey out',
+      );
     const survey = await loadSurveyArg(io, opts.survey);
     // every file the survey read (its filter tables too) is an input no output may replace
     outputs?.refuseInputs(survey.inputs ?? []);

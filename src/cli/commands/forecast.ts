@@ -15,6 +15,7 @@ import {
 import { Outputs, renderText, type CliIO } from '../io.js';
 import { inputError } from '../../errors.js';
 import { MAX_FORECAST_MODEL_DRAWS, MAX_MOCKS, MAX_SEED } from '../../model/limits.js';
+import { otherKneeHint } from '../../model/population.js';
 export { MAX_FORECAST_MODEL_DRAWS, MAX_MOCKS };
 
 export const forecastCommand: CommandDef = {
@@ -181,7 +182,7 @@ export function parseTargets(text: string, names: readonly string[]): Record<str
         'bad_option',
         '',
         '--target',
-        `"${name}" is not a parameter of this population`,
+        `"${name}" is not a parameter of this population${otherKneeHint(name, names)}`,
         `use one of ${names.join(', ')}`,
       );
     const vText = item.slice(eq + 1).trim();

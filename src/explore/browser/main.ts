@@ -112,6 +112,35 @@ function start(): void {
     });
   };
 
+  /** Every live part of the page from one result. */
+  const redrawParts = (r: ExploreResult): void => {
+    redraw('outputs', outputsHtml(r));
+    redraw('warnings', warningsHtml(r));
+    redraw('slices', slicesHtml(r));
+    redraw('fisher', fisherHtml(r));
+    redrawFigures(figureParts(r));
+  };
+
+  /**
+   * The settings of the numbers shown (the values and what each control's field and slider show)
+   * and the result drawn of them: after a failed update the page goes back to them, so that the
+   * controls, the numbers, the survey file panel and the file the button writes agree.
+   */
+  interface Shown {
+    values: Map<string, number>;
+    controls: { key: string; field: string; slider: string }[];
+    result?: ExploreResult;
+  }
+  const snapshot = (): Shown => ({
+    values: new Map(values),
+    controls: data.controls.map((c) => ({
+      key: c.key,
+      field: fieldOf(c.key)?.value ?? '',
+      slider: sliderOf(c.key)?.value ?? '',
+    })),
+  });
+  let numbersOf: Shown | undefined;
+
   async function update(): Promise<void> {
     if (running) {
       pending = true;
@@ -119,12 +148,11 @@ function start(): void {
     }
     running = true;
     document.body.dataset.busy = 'true';
+    /** The settings being computed, and whether their numbers (every one but the model's draws) are drawn. */
+    let asked = numbersOf ?? snapshot();
+    let drawnFirst = false;
     const draw = (r: ExploreResult): void => {
-      redraw('outputs', outputsHtml(r));
-      redraw('warnings', warningsHtml(r));
-      redraw('slices', slicesHtml(r));
-      redraw('fisher', fisherHtml(r));
-      redrawFigures(figureParts(r));
+      redrawParts(r);
       showText();
       status.textContent = r.error ? 'These settings are not a valid survey: see the message under Results.' : '';
       // the layout the redraw needs, done here so that the update's time includes it
@@ -133,8 +161,10 @@ function start(): void {
     try {
       do {
         pending = false;
+        drawnFirst = false;
         const t0 = performance.now();
         text = undefined;
+        asked = snapshot();
         // every number but the model's draws, shown at once; the draws (as costly as the rest)
         // after the page has painted those, unless a newer change has come meanwhile
         const step = await exploreInTwo(
@@ -145,6 +175,8 @@ function start(): void {
         );
         const t1 = performance.now();
         draw(step.result);
+        drawnFirst = true;
+        numbersOf = { ...asked, result: step.result };
         const t2 = performance.now();
         // the update's time (engine, redraw with its layout) and its two parts
         document.body.dataset.updateMs = String(t2 - t0);
@@ -155,17 +187,47 @@ function start(): void {
         await painted();
         if (pending) continue;
         const t3 = performance.now();
-        draw(step.model());
+        const full = step.model();
+        draw(full);
+        numbersOf = { ...asked, result: full };
         // the model's draws and their redraw, after the update
         document.body.dataset.modelMs = String(performance.now() - t3);
       } while (pending);
     } catch (e) {
-      status.textContent = `The update failed: ${e instanceof Error ? e.message : String(e)}`;
+      const why = e instanceof Error ? e.message : String(e);
+      if (drawnFirst) {
+        // the settings' numbers are drawn; only the model's draws are missing (still marked pending)
+        status.textContent = `The model's draws failed: ${why}. Every other number is that of the settings shown.`;
+      } else {
+        // back to the settings of the numbers shown (a later change then starts from them)
+        pending = false;
+        goBack(numbersOf ?? asked);
+        status.textContent = `The update failed: ${why}. The settings are back at those of the numbers shown, as are the survey file and the file the button writes.`;
+      }
     } finally {
       running = false;
       updates++;
       document.body.dataset.updates = String(updates);
       document.body.dataset.busy = 'false';
+    }
+  }
+
+  /** The page as it was at `to`: the values, each control's field and slider, the numbers (redrawn where a part was already drawn anew) and the panel. */
+  function goBack(to: Shown): void {
+    values.clear();
+    for (const [k, v] of to.values) values.set(k, v);
+    for (const c of to.controls) {
+      const field = fieldOf(c.key);
+      const slider = sliderOf(c.key);
+      if (field) field.value = c.field;
+      if (slider) slider.value = c.slider;
+    }
+    text = undefined;
+    try {
+      if (to.result) redrawParts(to.result);
+      showText();
+    } catch {
+      // the numbers stay as drawn; the status says the update failed
     }
   }
 
@@ -225,6 +287,8 @@ function start(): void {
     link.click();
     status.textContent = `The survey file with these settings is written as ${link.download}.`;
   });
+  // the settings of the numbers the page opens on (the file's)
+  numbersOf = snapshot();
   document.body.dataset.busy = 'false';
   document.body.dataset.ready = 'true';
 }

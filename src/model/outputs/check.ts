@@ -40,6 +40,10 @@ export interface SurveyCheck {
     | {
         kind: 'line_flux';
         limit_cgs: number;
+        /**
+         * the limit as the file gave it, a velocity-integrated flux density in Jy km/s (only then); limit_cgs is limit_jy_km_s x nu_line / c, at the rest frequency of line_angstrom
+         */
+        limit_jy_km_s?: number;
         line_angstrom?: number;
         filter?: {
           center_angstrom: number;
