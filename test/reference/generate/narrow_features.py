@@ -155,11 +155,12 @@ def model(doc):
     return m
 
 
-def count(m, z1, z2, features):
+def count(m, z1, z2, features, obs_lo=-1e9, obs_hi=1e9):
+    """Expected sources in [z1, z2] (and, given, with their observed value in [obs_lo, obs_hi])."""
     z1, z2 = max(z1, m['window'][0]), min(z2, m['window'][1])
     if z2 <= z1:
         return 0.0
-    g = lambda z: m['cosmo'].differential_comoving_volume(z).value * m['selection'](z) * C.n_between(m, z, -1e9, 1e9)
+    g = lambda z: m['cosmo'].differential_comoving_volume(z).value * m['selection'](z) * C.n_between(m, z, obs_lo, obs_hi)
     pts = sorted({c + k * w for c, w in features for k in (-20, -5, -2, 0, 2, 5, 20) if z1 < c + k * w < z2})
     return m['area_sr'] * integrate.quad(g, z1, z2, epsabs=0, epsrel=1e-10, limit=400, points=pts or None)[0]
 
@@ -181,7 +182,18 @@ def main():
         m = model(doc)
         edges = C.slice_edges(doc, m)
         slices = [{'z_min': float(a), 'z_max': float(b), 'count': count(m, a, b, features)} for a, b in zip(edges[:-1], edges[1:])]
-        out['cases'].append({'name': name, 'yaml': text, 'features': [list(f) for f in features], 'slices': slices})
+        # histogram bins of the slice holding the (first) feature: four bins on the detected side of
+        # the limit at the slice's middle (the first holding it, for a flux or a quantity), edges at
+        # multiples of the width
+        z1, z2 = next((a, b) for a, b in zip(edges[:-1], edges[1:]) if a < features[0][0] < b)
+        w = doc['histogram']['width']
+        a0, slope, olim = m['obs_of'](0.5 * (z1 + z2))
+        k = math.floor(olim / w + 1e-9)
+        ks = [k, k + 1, k + 2, k + 4] if slope > 0 else [k - 5, k - 3, k - 2, k - 1]
+        bins = [{'lo': round(kk * w, 10), 'hi': round((kk + 1) * w, 10),
+                 'count': count(m, z1, z2, features, kk * w, (kk + 1) * w)} for kk in ks]
+        out['cases'].append({'name': name, 'yaml': text, 'features': [list(f) for f in features], 'slices': slices,
+                             'feature_slice': {'z_min': float(z1), 'z_max': float(z2), 'bins': bins}})
         print(name, [s['count'] for s in slices], file=sys.stderr)
     json.dump(out, sys.stdout, indent=1)
     sys.stdout.write('\n')
