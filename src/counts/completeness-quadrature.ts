@@ -164,6 +164,18 @@ export class CompletenessQuadrature {
     if (!byLevel) byHi.set(hi, (byLevel = []));
     let r = byLevel[level];
     if (r) return r;
+    r = this.makeRule(lo, hi, level);
+    byLevel[level] = r;
+    this.ruleCount++;
+    return r;
+  }
+
+  /**
+   * A new rule (see rule), a function of its own: \`rule\` is called for every integral and
+   * optimised early, and V8 compiles whatever a function reaches, so that this loop, run once
+   * per rule, was compiled into it with the completeness curve inlined.
+   */
+  private makeRule(lo: number, hi: number, level: number): Rule {
     const cuts = [lo];
     for (const p of this.breaks.points) if (p > lo && p < hi) cuts.push(p);
     cuts.push(hi);
@@ -192,9 +204,6 @@ export class CompletenessQuadrature {
       }
     }
     this.completenessEvaluations += count;
-    r = { count, lnU, u, wc, stamp: 0, number: 0, luminosity: 0 };
-    byLevel[level] = r;
-    this.ruleCount++;
-    return r;
+    return { count, lnU, u, wc, stamp: 0, number: 0, luminosity: 0 };
   }
 }

@@ -3,6 +3,7 @@ import { resolve } from 'node:path';
 import { Option, type Command } from 'commander';
 import { FORMATS, parseFormat, type CliIO, type OutputOptions } from '../io.js';
 import { excerpt, inputError } from '../../errors.js';
+import { compact } from '../../render/format.js';
 import { warningLines, type Warning } from '../../warnings.js';
 
 /** Each warning as one line on stderr (`skytally: warning: ...`); the JSON output carries them too. */
@@ -120,7 +121,7 @@ export function parseKeyedList(
         '',
         option,
         `${key} is outside the allowed range`,
-        `give values ${exclusiveMin ? 'above' : 'from'} ${min}${Number.isFinite(max) ? ` ${exclusiveMin ? 'and at most' : 'to'} ${max}` : ''}`,
+        `give values ${exclusiveMin ? 'above' : 'from'} ${compact(min, 6)}${Number.isFinite(max) ? ` ${exclusiveMin ? 'and at most' : 'to'} ${compact(max, 6)}` : ''}`,
       );
     }
     return { key, value };
