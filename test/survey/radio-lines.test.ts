@@ -238,7 +238,14 @@ plan:
     const p = await json(['predict', path]);
     expect(valid('prediction.schema.json', p)).toBe('valid');
     expect((p.detection as Record<string, unknown>).limit_jy_km_s).toBe(0.7);
-    expect(valid('forecast.schema.json', await json(['forecast', path, '--target', 'alpha=0.02']))).toBe('valid');
+    const f = await json(['forecast', path, '--target', 'alpha=0.02']);
+    expect(valid('forecast.schema.json', f)).toBe('valid');
+    // Jy km/s per erg/s/cm^2 at HI: c / nu = 1e10 lambda [Angstrom] = 2.1106e19 (to 1e-15)
+    const perCgs = (f.requirement as Record<string, number>).limit_jy_km_s_per_cgs!;
+    expect(rel(perCgs, (SPEED_OF_LIGHT_M_S / NU_HI) * 1e20)).toBeLessThan(1e-15);
+    const limit = (f.requirement as Record<string, number>).limit!;
+    const words = (await runCli(['forecast', path, '--target', 'alpha=0.02'])).stdout;
+    expect(words).toContain(`a limit of ${Number((limit * perCgs).toPrecision(4))} Jy km/s (`);
     const c = await json(['compare', path, path]);
     expect(valid('compare.schema.json', c)).toBe('valid');
     expect((c.surveys as Record<string, unknown>[])[0]!.limit_jy_km_s).toBe(0.7);
