@@ -134,6 +134,9 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
       ...(survey.detection.kind === 'magnitude' && survey.detection.limitGivenUnit
         ? { limit_unit: survey.detection.limitGivenUnit }
         : {}),
+      ...(survey.detection.kind === 'line_flux' && survey.detection.limitGivenJyKms !== undefined
+        ? { limit_jy_km_s: survey.detection.limitGivenJyKms }
+        : {}),
       count: own.totals.count,
       per_deg2: own.totals.per_deg2,
       faint_count: faintCountOf(survey, population),

@@ -25,9 +25,11 @@ function compareRows(c: Comparison): RowDef[] {
       key: 'limit',
       label: 'limit',
       value: (s) =>
-        typeof s.limit === 'number'
-          ? givenUnitLimitText(s.limit, limitText(s.limit_variable, s.limit), s.limit_unit)
-          : limitText(s.limit_variable, s.limit),
+        typeof s.limit !== 'number'
+          ? limitText(s.limit_variable, s.limit)
+          : s.limit_jy_km_s !== undefined
+            ? `${sig(s.limit_jy_km_s, 3)} Jy km/s (${limitText(s.limit_variable, s.limit)})`
+            : givenUnitLimitText(s.limit, limitText(s.limit_variable, s.limit), s.limit_unit),
       raw: (s) => s.limit,
     },
     { key: 'count', label: 'expected count', value: (s) => sig(s.count, 5), raw: (s) => s.count },

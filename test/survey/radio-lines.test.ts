@@ -239,7 +239,11 @@ plan:
     expect(valid('prediction.schema.json', p)).toBe('valid');
     expect((p.detection as Record<string, unknown>).limit_jy_km_s).toBe(0.7);
     expect(valid('forecast.schema.json', await json(['forecast', path, '--target', 'alpha=0.02']))).toBe('valid');
-    expect(valid('compare.schema.json', await json(['compare', path, path]))).toBe('valid');
+    const c = await json(['compare', path, path]);
+    expect(valid('compare.schema.json', c)).toBe('valid');
+    expect((c.surveys as Record<string, unknown>[])[0]!.limit_jy_km_s).toBe(0.7);
+    const table = await runCli(['compare', path, path]);
+    expect(table.stdout).toContain('0.7 Jy km/s (3.32e-20 erg/s/cm^2)');
     expect(valid('plan.schema.json', await json(['plan', path]))).toBe('valid');
   });
 });

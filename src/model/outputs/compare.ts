@@ -37,6 +37,10 @@ export interface ComparedSurvey {
    * Present only when this survey file gave detection.limit as a flux density: the unit it was written in. limit stays an AB magnitude; the human outputs quote it in this unit too (f_nu = 3631 Jy 10^(-0.4 m)).
    */
   limit_unit?: 'Jy' | 'mJy' | 'uJy' | 'nJy' | 'erg/s/cm^2/Hz' | 'W/m^2/Hz';
+  /**
+   * Present only when this survey file gave detection.limit as a velocity-integrated flux: that value in Jy km/s; limit is its line flux in erg/s/cm^2, and the table's limit row quotes both.
+   */
+  limit_jy_km_s?: number;
   limit_variable: 'apparent_magnitude' | 'line_flux_cgs' | 'log10_quantity' | 'absolute_magnitude';
   count: number;
   per_deg2: number;
