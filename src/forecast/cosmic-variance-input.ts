@@ -14,7 +14,12 @@ import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import { countPopulation } from '../counts/engine.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
-import { singleUncertainty, uncertaintyContext, type UncertaintyMemo } from '../uncertainty/prediction.js';
+import {
+  singleUncertainty,
+  slicesCorrelation,
+  uncertaintyContext,
+  type UncertaintyMemo,
+} from '../uncertainty/prediction.js';
 import type { Warning } from '../warnings.js';
 
 const NEGLIGIBLE_COUNT = 1e-6;
@@ -79,3 +84,25 @@ function fractions(
         )?.cosmic_variance_fraction ?? 0),
   );
 }
+
+/**
+ * The correlation of the slices' fluctuations in one field (slicesCorrelation of
+ * src/uncertainty/prediction.ts): it depends on the cosmology, the area, the fields and the edges
+ * only, not on the population, so the last few are kept.
+ */
+/** The correlation matrix of the slices' cosmic-variance nuisances of a survey with these edges. */
+export type CosmicVarianceCorrelationSource = (survey: Survey, edges: readonly number[]) => number[][];
+
+export function cosmicVarianceCorrelation(survey: Survey, edges: readonly number[]): number[][] {
+  const key = `${survey.areaSr} ${survey.field.count} ${survey.field.aspect} ${edges.join(',')}`;
+  let byKey = correlationCache.get(survey.cosmology);
+  if (!byKey) correlationCache.set(survey.cosmology, (byKey = new Map<string, number[][]>()));
+  const kept = byKey.get(key);
+  if (kept) return kept;
+  const cosmo = new FlatCosmology(survey.cosmology);
+  const r = slicesCorrelation(uncertaintyContext(survey, cosmo), edges);
+  if (byKey.size >= 64) byKey.delete(byKey.keys().next().value!);
+  byKey.set(key, r);
+  return r;
+}
+const correlationCache = new WeakMap<object, Map<string, number[][]>>();

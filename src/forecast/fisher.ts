@@ -12,7 +12,9 @@
  *   F_{eps_i eps_i} = N_i + 1/sigma_i^2,   F_{theta eps_i} = b_i = integral over slice i of lambda d ln lambda / d theta
  * is marginalised over the nuisances by the Schur complement:
  *   F_marg = F - sum_i b_i b_i^T / (N_i + 1/sigma_i^2)
- * (a slice with sigma_i = 0 has no nuisance).
+ * (a slice with sigma_i = 0 has no nuisance). Slices of one field are correlated (the same large-scale
+ * modes span them): marginaliseCorrelated takes the joint prior S_ij = sigma_i sigma_j R_ij (R from
+ * src/uncertainty/box-covariance.ts), F_marg = F - B (diag(N) + S^-1)^-1 B^T.
  */
 import type { DensityGrid } from './grid.js';
 import { sliceCount } from './grid.js';
@@ -106,6 +108,164 @@ export function marginaliseNormalisationsInPlace(
     const d = counts[i]! + 1 / (sigma * sigma);
     for (let j = 0; j < p; j++) for (let k = 0; k < p; k++) matrix[j]![k]! -= (b[p * i + j]! * b[p * i + k]!) / d;
   }
+}
+
+/**
+ * The nuisances' joint prior: per-slice fractions f_i and the correlation R_ij of the slices'
+ * fluctuations (one field's boxes, src/uncertainty/box-covariance.ts): covariance S_ij = f_i f_j R_ij.
+ */
+export interface CosmicVariancePrior {
+  fractions: readonly number[];
+  correlation: readonly (readonly number[])[];
+}
+
+/**
+ * The lower Cholesky factor L (m x m, row-major) of the prior covariance over the slices `active`
+ * (S = L L^T; a pivot that vanishes, for a singular S, leaves its column 0, so that L L^T = S still).
+ */
+export interface PriorFactor {
+  /** The slices with a nuisance (f_i > 0), ascending. */
+  active: number[];
+  /** L, active.length squared, row-major. */
+  l: Float64Array;
+  /** S^-1 over the active slices (row-major), when S is positive definite. */
+  inverse?: Float64Array;
+}
+
+/**
+ * The slices with f_i > 0, the Cholesky factor of their prior covariance (priorFactor) and, when
+ * that covariance is positive definite (always, for distinct boxes), its inverse (the mock fits'
+ * prior term).
+ */
+export function priorFactorOf(prior: CosmicVariancePrior): PriorFactor {
+  const active: number[] = [];
+  prior.fractions.forEach((f, i) => {
+    if (f > 0) active.push(i);
+  });
+  const l = priorFactor(prior, active);
+  const m = active.length;
+  const out: PriorFactor = { active, l };
+  let definite = true;
+  for (let i = 0; i < m; i++) if (!(l[i * m + i]! > 0)) definite = false;
+  if (definite) {
+    const inverse = new Float64Array(m * m);
+    const e = new Float64Array(m);
+    const y = new Float64Array(m);
+    const x = new Float64Array(m);
+    for (let j = 0; j < m; j++) {
+      e.fill(0);
+      e[j] = 1;
+      choleskySolveInto(l, m, e, y, x);
+      for (let i = 0; i < m; i++) inverse[i * m + j] = x[i]!;
+    }
+    for (let i = 0; i < m; i++)
+      for (let j = i + 1; j < m; j++)
+        inverse[i * m + j] = inverse[j * m + i] = 0.5 * (inverse[i * m + j]! + inverse[j * m + i]!);
+    out.inverse = inverse;
+  }
+  return out;
+}
+
+export function priorFactor(prior: CosmicVariancePrior, active: readonly number[]): Float64Array {
+  const m = active.length;
+  const f = prior.fractions;
+  const l = new Float64Array(m * m);
+  for (let j = 0; j < m; j++) {
+    const aj = active[j]!;
+    let d = f[aj]! * f[aj]!;
+    for (let k = 0; k < j; k++) d -= l[j * m + k]! * l[j * m + k]!;
+    const scale = f[aj]! * f[aj]!;
+    const pivot = d > 1e-12 * scale ? Math.sqrt(d) : 0;
+    l[j * m + j] = pivot;
+    for (let i = j + 1; i < m; i++) {
+      const ai = active[i]!;
+      let s = f[ai]! * f[aj]! * prior.correlation[ai]![aj]!;
+      for (let k = 0; k < j; k++) s -= l[i * m + k]! * l[j * m + k]!;
+      l[i * m + j] = pivot > 0 ? s / pivot : 0;
+    }
+  }
+  return l;
+}
+
+/**
+ * F - B (diag(N) + S^-1)^-1 B^T for the joint prior S_ij = f_i f_j R_ij on the nuisances, written
+ * as F - V (I + L^T diag(N) L)^-1 V^T with S = L L^T and V = B L (the push-through identity: no
+ * inverse of S, so a singular S is handled; slices with f_i = 0 have no nuisance). With R the
+ * identity it is F - sum_i b_i b_i^T / (N_i + 1/f_i^2). B's column i is b_i (p numbers from
+ * b[p i]), N_i = counts[i]. `matrix` (p x p) is replaced.
+ */
+export function marginaliseCorrelatedInPlace(
+  matrix: Matrix,
+  counts: ArrayLike<number>,
+  b: ArrayLike<number>,
+  prior: CosmicVariancePrior,
+): void {
+  const p = matrix.length;
+  const n = counts.length;
+  const f = prior.fractions;
+  if (f.length !== n || b.length !== p * n || prior.correlation.length !== n) {
+    throw new Error(`cosmic variance: ${f.length} fractions given for ${n} slices`);
+  }
+  const active: number[] = [];
+  for (let i = 0; i < n; i++) {
+    const sigma = f[i]!;
+    if (!(sigma >= 0) || !Number.isFinite(sigma))
+      throw new Error(`cosmic variance: the fraction of slice ${i} is ${sigma}, not a number >= 0`);
+    if (sigma > 0) active.push(i);
+  }
+  const m = active.length;
+  if (m === 0) return;
+  const l = priorFactor(prior, active);
+  // V = B L (p x m), A = I + L^T N L (m x m)
+  const v = new Float64Array(p * m);
+  for (let j = 0; j < p; j++)
+    for (let c = 0; c < m; c++) {
+      let s = 0;
+      for (let i = c; i < m; i++) s += b[p * active[i]! + j]! * l[i * m + c]!;
+      v[j * m + c] = s;
+    }
+  const a = new Float64Array(m * m);
+  for (let c = 0; c < m; c++)
+    for (let d = c; d < m; d++) {
+      let s = c === d ? 1 : 0;
+      for (let i = d; i < m; i++) s += l[i * m + c]! * counts[active[i]!]! * l[i * m + d]!;
+      a[c * m + d] = a[d * m + c] = s;
+    }
+  const la = new Float64Array(m * m);
+  if (!choleskyInto(a, m, la)) throw new Error("cosmic variance: the nuisances' information is not positive definite");
+  const y = new Float64Array(m);
+  const x = new Float64Array(m);
+  const rhs = new Float64Array(m);
+  for (let k = 0; k < p; k++) {
+    for (let c = 0; c < m; c++) rhs[c] = v[k * m + c]!;
+    choleskySolveInto(la, m, rhs, y, x);
+    for (let j = 0; j < p; j++) {
+      let s = 0;
+      for (let c = 0; c < m; c++) s += v[j * m + c]! * x[c]!;
+      matrix[j]![k]! -= s;
+    }
+  }
+  for (let j = 0; j < p; j++)
+    for (let k = j + 1; k < p; k++) matrix[j]![k] = matrix[k]![j] = 0.5 * (matrix[j]![k]! + matrix[k]![j]!);
+}
+
+/** marginaliseCorrelatedInPlace of a copy, from the slices' parts. */
+export function marginaliseCorrelated(
+  matrix: Matrix,
+  slices: readonly SliceInformation[],
+  prior: CosmicVariancePrior,
+): Matrix {
+  const out = matrix.map((r) => [...r]);
+  const p = matrix.length;
+  const b = new Float64Array(p * slices.length);
+  slices.forEach((sl, i) => sl.b.forEach((x, j) => (b[p * i + j] = x)));
+  marginaliseCorrelatedInPlace(
+    out,
+    slices.map((s) => s.count),
+    b,
+    prior,
+  );
+  return out;
 }
 
 export interface FisherSummary {

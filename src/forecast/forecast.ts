@@ -27,13 +27,20 @@ import { buildDensityGrid, densityFisherParts, type DensityGrid } from './grid.j
 import type { FisherSumsMemo } from './grid-memo.js';
 import {
   fisherParts,
-  marginaliseNormalisations,
+  marginaliseCorrelated,
+  priorFactorOf,
+  type CosmicVariancePrior,
   summariseFisher,
   type FisherParts,
   type FisherSummary,
 } from './fisher.js';
 import { parameterNames, parameterValuesAt } from './parameters.js';
-import { cosmicVarianceInput, type CosmicVarianceSource } from './cosmic-variance-input.js';
+import {
+  cosmicVarianceCorrelation,
+  cosmicVarianceInput,
+  type CosmicVarianceCorrelationSource,
+  type CosmicVarianceSource,
+} from './cosmic-variance-input.js';
 import { makeMockSetup, runMocks } from './mocks.js';
 import { defaultWorkers } from '../parallel/blocks.js';
 import type { Estimator } from './fit.js';
@@ -59,6 +66,11 @@ export interface ForecastOptions {
   cosmicVariance?: boolean;
   /** Where per-slice cosmic-variance fractions come from (default: the adapter). */
   cosmicVarianceSource?: CosmicVarianceSource;
+  /**
+   * Where the correlation of the slices' nuisances comes from (default: the boxes of one field,
+   * cosmicVarianceCorrelation of src/forecast/cosmic-variance-input.ts).
+   */
+  cosmicVarianceCorrelation?: CosmicVarianceCorrelationSource;
   /** Number of mock surveys (0 or absent: none). */
   mocks?: number;
   seed?: number;
@@ -167,6 +179,7 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
   const names = parameterNames(population);
   const useCv = opts.cosmicVariance !== false;
   const cvSource = useCv ? (opts.cosmicVarianceSource ?? cosmicVarianceInput) : undefined;
+  const correlationOf = opts.cosmicVarianceCorrelation ?? cosmicVarianceCorrelation;
 
   // The hard-limit count at the redshifts the grid's node search visits, which the count of the
   // slices for the cosmic variance (the same nodes, the same number) then reads
@@ -203,9 +216,12 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
   }
   const cvWarnings: Warning[] = [];
   const fractions = cvSource ? cvSource(survey, edges, population, cvWarnings, hardCounts) : undefined;
+  const prior: CosmicVariancePrior | undefined = fractions
+    ? { fractions, correlation: correlationOf(survey, edges) }
+    : undefined;
   let withCv = poisson;
-  if (fractions) {
-    const s = summariseFisher(marginaliseNormalisations(parts.matrix, parts.slices, fractions));
+  if (prior) {
+    const s = summariseFisher(marginaliseCorrelated(parts.matrix, parts.slices, prior));
     if (!s)
       throw inputError(
         'singular_fisher',
@@ -251,7 +267,7 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
   if (opts.modelDraws && opts.modelDraws > 0) {
     const seed = opts.seed ?? DEFAULT_MODEL_SEED;
     const { thetas, source } = forecastDrawOffsets(file, population, opts.modelDraws, seed);
-    const fisher = drawnFisher(gridOf(), parts, thetas, fractions);
+    const fisher = drawnFisher(gridOf(), parts, thetas, prior);
     drawn = { thetas, fisher };
     const block = spreadBlock(names, fisher, { draws: opts.modelDraws, seed, source, cosmicVariance: !!fractions });
     if (block) out.model_spread = block;
@@ -261,10 +277,14 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
     const estimator = opts.estimator ?? 'ml';
     const seed = opts.seed ?? 1;
     const cvSigma = fractions ?? parts.slices.map(() => 0);
-    const run = await runMocks(makeMockSetup(gridOf(), cvSigma, estimator, seed), opts.mocks, {
-      workers: opts.workers ?? defaultWorkers(),
-      ...(opts.onProgress ? { onProgress: opts.onProgress } : {}),
-    });
+    const run = await runMocks(
+      makeMockSetup(gridOf(), cvSigma, estimator, seed, prior && priorFactorOf(prior)),
+      opts.mocks,
+      {
+        workers: opts.workers ?? defaultWorkers(),
+        ...(opts.onProgress ? { onProgress: opts.onProgress } : {}),
+      },
+    );
     let failed = 0;
     let sources = 0;
     for (let i = 0; i < run.count; i++) {
@@ -321,7 +341,14 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
   }
 
   if (opts.targets && Object.keys(opts.targets).length > 0) {
-    const ctx = { survey, population, cosmo, names, parts, ...(cvSource ? { cosmicVariance: cvSource } : {}) };
+    const ctx = {
+      survey,
+      population,
+      cosmo,
+      names,
+      parts,
+      ...(cvSource ? { cosmicVariance: cvSource, cosmicVarianceCorrelation: correlationOf } : {}),
+    };
     out.requirement = requirement(ctx, opts.targets);
     if (drawn && out.model_spread) {
       const depthParts = new Map<number, { plain: FisherParts; list: readonly FisherParts[] }>();

@@ -4,8 +4,12 @@
  * Mock i uses its own Mersenne Twister stream (Matsumoto & Nishimura 1998; @stdlib/random-base-mt19937)
  * seeded with the pair [seed, i] (init_by_array), so a mock's numbers do not depend on which worker
  * runs it nor on how many there are: the same seed gives the same result whatever --workers is.
- * Per slice: g ~ N(0, 1) (only with cosmic variance), mean = N_i max(0, 1 + sigma_i g),
+ * Per slice: g ~ N(0, 1) (only with cosmic variance), mean = N_i max(0, 1 + eps_i),
  * n_i ~ Poisson(mean); then the sources (src/forecast/sampler.ts) and the fit (src/forecast/fit.ts).
+ * eps = L g over the slices with a nuisance, L the Cholesky factor of the joint prior's covariance
+ * (src/forecast/fisher.ts priorFactor): correlated draws with covariance f_i f_j R_ij. L is lower
+ * triangular, so eps_i needs only the g of the slices up to i, each drawn as its slice is reached
+ * (with independent slices eps_i = sigma_i g_i).
  *
  * With workers > 1, worker threads run blocks of mocks (src/parallel/blocks.ts): the worker entry
  * (src/worker.ts) names `mockBlocks` as the job 'forecast-mocks'.
@@ -16,6 +20,7 @@ import poissonRng from '@stdlib/random-base-poisson';
 import type { DensityGrid } from './grid.js';
 import { buildSamplingTables, CatalogueSampler, type SamplingTables } from './sampler.js';
 import { fitCatalogue, type Estimator } from './fit.js';
+import type { PriorFactor } from './fisher.js';
 import { runBlocks, type BlockFunction } from '../parallel/blocks.js';
 import type { WorkerJob } from '../worker.js';
 
@@ -24,6 +29,8 @@ export interface MockSetup {
   tables: SamplingTables;
   /** Cosmic-variance fraction per slice (zeros when switched off). */
   cvSigma: number[];
+  /** The joint prior's factor over the slices with a nuisance (absent without cosmic variance). */
+  cvFactor?: PriorFactor;
   estimator: Estimator;
   seed: number;
 }
@@ -38,8 +45,14 @@ export interface MockRun {
   sources: Float64Array;
 }
 
-export function makeMockSetup(grid: DensityGrid, cvSigma: number[], estimator: Estimator, seed: number): MockSetup {
-  return { grid, tables: buildSamplingTables(grid), cvSigma, estimator, seed };
+export function makeMockSetup(
+  grid: DensityGrid,
+  cvSigma: number[],
+  estimator: Estimator,
+  seed: number,
+  cvFactor?: PriorFactor,
+): MockSetup {
+  return { grid, tables: buildSamplingTables(grid), cvSigma, estimator, seed, ...(cvFactor ? { cvFactor } : {}) };
 }
 
 /** Run mocks [start, end) in this thread, writing into the arrays at offset 0. */
@@ -55,6 +68,9 @@ export function runMockRange(
   const sources = new Float64Array(n);
   const nS = setup.tables.sliceExpected.length;
   const counts = new Int32Array(nS);
+  const cv = setup.cvFactor && setup.cvFactor.active.length > 0 ? setup.cvFactor : undefined;
+  const m = cv ? cv.active.length : 0;
+  const g = new Float64Array(m);
   for (let i = start; i < end; i++) {
     // The factory's generator carries .normalized (uniform on [0, 1), 53 bits) at run time; its
     // type declaration omits it.
@@ -64,14 +80,24 @@ export function runMockRange(
     const rand = rng.normalized;
     const gauss = normalRng.factory(0, 1, { prng: rand });
     const poisson = poissonRng.factory({ prng: rand });
+    let c = 0;
     for (let s = 0; s < nS; s++) {
-      const sigma = setup.cvSigma[s] ?? 0;
-      const factor = sigma > 0 ? Math.max(0, 1 + sigma * gauss()) : 1;
+      let factor = 1;
+      if (cv && cv.active[c] === s) {
+        g[c] = gauss();
+        let eps = 0;
+        for (let k = 0; k <= c; k++) eps += cv.l[c * m + k]! * g[k]!;
+        factor = Math.max(0, 1 + eps);
+        c++;
+      } else if (!cv) {
+        const sigma = setup.cvSigma[s] ?? 0;
+        if (sigma > 0) factor = Math.max(0, 1 + sigma * gauss());
+      }
       const mean = setup.tables.sliceExpected[s]! * factor;
       counts[s] = mean > 0 ? poisson(mean) : 0;
     }
     const stats = sampler.draw(counts, rand);
-    const fit = fitCatalogue(setup.grid, stats, setup.cvSigma, setup.estimator);
+    const fit = fitCatalogue(setup.grid, stats, setup.cvSigma, setup.estimator, cv);
     const k = i - start;
     theta[3 * k] = fit.theta[0];
     theta[3 * k + 1] = fit.theta[1];

@@ -25,7 +25,8 @@ import type { DensityGrid } from './grid.js';
 import { sliceCount } from './grid.js';
 import {
   fisherPartsAt,
-  marginaliseNormalisations,
+  marginaliseCorrelated,
+  type CosmicVariancePrior,
   summariseFisher,
   type FisherParts,
   type FisherSummary,
@@ -92,7 +93,7 @@ export function drawnFisher(
   grid: DensityGrid,
   plain: FisherParts,
   thetas: readonly (readonly number[])[],
-  fractions: readonly number[] | undefined,
+  prior: CosmicVariancePrior | undefined,
   sums: 'auto' | 'exact' | 'series' = 'auto',
 ): DrawnFisher {
   const parts: FisherParts[] = [];
@@ -104,7 +105,7 @@ export function drawnFisher(
     parts.push(p);
     const po = p.count > 0 ? summariseFisher(p.matrix) : undefined;
     poisson.push(po);
-    withCv.push(fractions && po ? summariseFisher(marginaliseNormalisations(p.matrix, p.slices, fractions)) : po);
+    withCv.push(prior && po ? summariseFisher(marginaliseCorrelated(p.matrix, p.slices, prior)) : po);
   }
   return { parts, withCv, poisson, tabulated: series !== undefined };
 }

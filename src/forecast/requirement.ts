@@ -22,9 +22,20 @@ import { precise } from '../render/format.js';
 import { fluxDensityOfAbMagnitude } from '../model/photometry.js';
 import { brent, expandBracket } from '../numerics/roots.js';
 import { buildDensityGrid } from './grid.js';
-import { fisherParts, fisherPartsAt, marginaliseNormalisations, summariseFisher, type FisherParts } from './fisher.js';
+import {
+  fisherParts,
+  fisherPartsAt,
+  marginaliseCorrelated,
+  summariseFisher,
+  type CosmicVariancePrior,
+  type FisherParts,
+} from './fisher.js';
 import { percentilesOf } from '../counts/model-draws.js';
-import type { CosmicVarianceSource } from './cosmic-variance-input.js';
+import {
+  cosmicVarianceCorrelation,
+  type CosmicVarianceCorrelationSource,
+  type CosmicVarianceSource,
+} from './cosmic-variance-input.js';
 import type { ParameterName } from './parameters.js';
 import type { Requirement, RequirementEntry } from '../model/outputs/forecast.js';
 
@@ -36,6 +47,8 @@ export interface RequirementContext {
   /** Parts at the survey's own area and depth. */
   parts: FisherParts;
   cosmicVariance?: CosmicVarianceSource;
+  /** The correlation of the slices' nuisances at a trial survey (default cosmicVarianceCorrelation). */
+  cosmicVarianceCorrelation?: CosmicVarianceCorrelationSource;
   /**
    * Under the model's own uncertainty: the draws' offsets [d log10 phi*, d characteristic, d alpha]
    * and each draw's parts at the survey's own area and depth; every sigma is then the
@@ -56,18 +69,20 @@ export interface RequirementContext {
   };
 }
 
-function sigmaFrom(parts: FisherParts, fractions: number[] | undefined): number[] {
-  const m = fractions ? marginaliseNormalisations(parts.matrix, parts.slices, fractions) : parts.matrix;
+function sigmaFrom(parts: FisherParts, prior: CosmicVariancePrior | undefined): number[] {
+  const m = prior ? marginaliseCorrelated(parts.matrix, parts.slices, prior) : parts.matrix;
   const s = summariseFisher(m);
   return s ? s.sigma : parts.matrix.map(() => Infinity);
 }
 
 /** Each parameter's sigma: of the one set of parts, or the percentile over the draws' parts. */
-function sigmaOf(partsList: readonly FisherParts[], fractions: number[] | undefined, p: number | undefined): number[] {
-  if (p === undefined) return sigmaFrom(partsList[0]!, fractions);
-  const per = partsList.map((parts) =>
-    parts.count > 0 ? sigmaFrom(parts, fractions) : parts.matrix.map(() => Infinity),
-  );
+function sigmaOf(
+  partsList: readonly FisherParts[],
+  prior: CosmicVariancePrior | undefined,
+  p: number | undefined,
+): number[] {
+  if (p === undefined) return sigmaFrom(partsList[0]!, prior);
+  const per = partsList.map((parts) => (parts.count > 0 ? sigmaFrom(parts, prior) : parts.matrix.map(() => Infinity)));
   return per[0]!.map((_, j) => {
     const v = percentilesOf(
       per.map((s) => s[j]!),
@@ -163,7 +178,14 @@ const fmt = (x: number): string => precise(x, 3);
 
 export function requirement(ctx: RequirementContext, targets: Record<string, number>): Requirement {
   const { survey, population, cosmo, names } = ctx;
-  const cv = ctx.cosmicVariance;
+  const source = ctx.cosmicVariance;
+  // the joint prior of the slices' nuisances at a trial survey (the correlation depends on its area)
+  const cv = source
+    ? (s: Survey, e: readonly number[], pop: Population): CosmicVariancePrior => ({
+        fractions: source(s, e, pop),
+        correlation: (ctx.cosmicVarianceCorrelation ?? cosmicVarianceCorrelation)(s, e),
+      })
+    : undefined;
   const edges = survey.sliceEdges;
   const unit = depthUnit(survey, population);
   const span = unit === 'dex' ? 3 : 7.5;
@@ -206,9 +228,18 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
   const lv = limitVariable(survey, population);
   // a limit the file wrote as a flux density is quoted in its unit too, "1.55 mJy (15.93 AB)"
   const givenUnit = survey.detection.kind === 'magnitude' ? survey.detection.limitGivenUnit : undefined;
+  // a limit the file wrote in Jy km/s is quoted in it too, "0.385 Jy km/s (1.826e-20 erg/s/cm^2)":
+  // Jy km/s per erg/s/cm^2 at detection.line, c / nu = 1e10 lambda [Angstrom] (lineFluxOfVelocityFlux)
+  const det = survey.detection;
+  const jyKmsPerCgs =
+    det.kind === 'line_flux' && det.limitGivenJyKms !== undefined && det.lineAngstrom !== undefined
+      ? det.lineAngstrom * 1e10
+      : undefined;
   const limitText = (x: number) =>
     lv === 'line_flux_cgs'
-      ? `${fmt(x)} erg/s/cm^2`
+      ? jyKmsPerCgs !== undefined
+        ? `${fmt(x * jyKmsPerCgs)} Jy km/s (${fmt(x)} erg/s/cm^2)`
+        : `${fmt(x)} erg/s/cm^2`
       : lv === 'log10_quantity'
         ? `log10 = ${fmt(x)}`
         : lv === 'absolute_magnitude'
@@ -280,6 +311,7 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
     limit: allLimit ? (deeperIsLarger ? Math.max(...limits) : Math.min(...limits)) : null,
     limit_variable: lv,
     ...(givenUnit ? { limit_unit: givenUnit } : {}),
+    ...(jyKmsPerCgs !== undefined ? { limit_jy_km_s_per_cgs: jyKmsPerCgs } : {}),
     by_parameter: byParameter,
     search: { area_deg2: [MIN_AREA_DEG2, FULL_SKY_DEG2], limit: [limitOf(-span), limitOf(span)] },
     notes: [...entries.flatMap((e) => e.notes), ...completenessNote(survey, entries)],

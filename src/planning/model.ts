@@ -21,7 +21,7 @@ import { SR_PER_DEG2, FULL_SKY_DEG2 } from '../model/sky.js';
 import { buildDensityGrid, sliceCount, type DensityGrid } from '../forecast/grid.js';
 import { summariseFisher } from '../forecast/fisher.js';
 import { addSliceSums, marginaliseSymmetric3 } from './sigma.js';
-import { uncertaintyContext, populationBias, matterSigma } from '../uncertainty/prediction.js';
+import { uncertaintyContext, populationBias, matterSigma, slicesCorrelation } from '../uncertainty/prediction.js';
 import { naturalCubicSpline, type Interpolant } from '../numerics/interpolate.js';
 import { inputError } from '../errors.js';
 import { depthOfLimit, limitOfDepth, type DepthModel, type LimitKind } from './depth.js';
@@ -74,6 +74,8 @@ export interface DesignModel {
   deltaAt(hours: number): number;
   /** The per-slice cosmic-variance fractions the tier's Fisher matrix marginalises (all 0 without cosmic variance). */
   fractionsAt(hours: number, pointings: number): number[];
+  /** The correlation of the slices' nuisances (n x n, row-major) at the tier's area: it depends on the area only. */
+  correlationAt(pointings: number): Float64Array;
   /**
    * The node-order search's hard-limit counts by z of `reference` (buildDensityGrid's hardCounts),
    * for another grid of the same survey and population (the robust ranking's coarser panels pick
@@ -155,6 +157,7 @@ export async function buildDesignModel(
   // Cosmic-variance tables.
   let biasOf: ((sl: number, delta: number) => number) | undefined;
   let sigmaOf: ((sl: number, lnArea: number) => number) | undefined;
+  let correlationInto: ((lnArea: number, out: Float64Array) => void) | undefined;
   if (useCv) {
     const ctx = uncertaintyContext(ref, cosmo);
     // each slice's volume as the count engine gives it (src/counts/engine.ts countPopulation), without counting
@@ -190,6 +193,37 @@ export async function buildDesignModel(
       }),
     );
     sigmaOf = (sl, lnA) => Math.exp(sigmaSplines[sl]!(lnA));
+    // the slices' correlation (src/uncertainty/box-covariance.ts), a spline per pair on the same knots
+    if (nS > 1) {
+      const byArea = new Map<number, number[][]>();
+      const correlationAtKnot = (lnA: number): number[][] => {
+        let r = byArea.get(lnA);
+        if (!r) {
+          const a = Math.min(FULL_SKY_DEG2, Math.exp(lnA));
+          byArea.set(
+            lnA,
+            (r = slicesCorrelation({ ...ctx, survey: { ...ref, areaDeg2: a, areaSr: a * SR_PER_DEG2 } }, edges)),
+          );
+        }
+        return r;
+      };
+      const pairSplines: { i: number; j: number; at: Interpolant | ((x: number) => number) }[] = [];
+      for (let i = 0; i < nS; i++)
+        for (let j = i + 1; j < nS; j++)
+          pairSplines.push({
+            i,
+            j,
+            at: splineWithMargin(lnA0, Math.max(lnA0, lnA1), AREA_STEP, (lnA) => correlationAtKnot(lnA)[i]![j]!),
+          });
+      correlationInto = (lnA, out) => {
+        for (const p of pairSplines) {
+          // (a spline's overshoot held within [-1, 1])
+          const r = Math.max(-1, Math.min(1, p.at(lnA)));
+          out[p.i * nS + p.j] = r;
+          out[p.j * nS + p.i] = r;
+        }
+      };
+    }
   }
   const fieldNorm = 1 / Math.sqrt(survey.field.count);
   const shiftLn = grid.shift; // unused directly; the sums already carry it
@@ -201,6 +235,8 @@ export async function buildDesignModel(
   const sliceN = new Float64Array(nS);
   const sliceB = new Float64Array(3 * nS);
   const fractions = new Float64Array(nS);
+  const correlation = new Float64Array(nS * nS);
+  for (let i = 0; i < nS; i++) correlation[i * nS + i] = 1;
   const upper = new Float64Array(6);
   const matrix = [
     [0, 0, 0],
@@ -225,7 +261,10 @@ export async function buildDesignModel(
       faint += tmp[6]! * areaDeg2;
       fractions[sl] = biasOf && sigmaOf && n > 0 ? Math.max(0, biasOf(sl, delta)) * sigmaOf(sl, lnA) * fieldNorm : 0;
     }
-    if (useCv) marginaliseSymmetric3(upper, sliceN, sliceB, fractions);
+    if (useCv) {
+      correlationInto?.(lnA, correlation);
+      marginaliseSymmetric3(upper, sliceN, sliceB, fractions, correlation);
+    }
     // the full matrix, its lower triangle the mirror of the upper
     const r0 = matrix[0]!;
     const r1 = matrix[1]!;
@@ -271,12 +310,18 @@ export async function buildDesignModel(
     evaluate(hours, pointings);
     return Array.from(fractions);
   };
+  const correlationAt = (pointings: number): Float64Array => {
+    const out = Float64Array.from(correlation);
+    correlationInto?.(Math.log(Math.min(FULL_SKY_DEG2, pointings * spec.fieldOfViewDeg2)), out);
+    return out;
+  };
 
   return {
     reference: ref,
     hardCounts,
     deltaAt: deltaOf,
     fractionsAt,
+    correlationAt,
     population,
     limitKind,
     fieldOfViewDeg2: spec.fieldOfViewDeg2,

@@ -140,7 +140,7 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
       fractions = model.fractionsAt(t.hours, t.pointings);
       fractionCache.set(key, fractions);
     }
-    hit = { at: j * stride, weights, area: t.areaDeg2, fractions };
+    hit = { at: j * stride, weights, area: t.areaDeg2, fractions, correlation: model.correlationAt(t.pointings) };
     places.set(t, hit);
     return hit;
   };
@@ -243,6 +243,7 @@ interface TierPlace {
   weights: Float64Array;
   area: number;
   fractions: number[];
+  correlation: Float64Array;
 }
 
 /** addTierUnderDraw's scratch: a tier's Fisher matrix (its upper triangle), its slices' counts and b (3 per slice), the six interpolated sums. */
@@ -280,7 +281,7 @@ function addTierUnderDraw(
     count += addSliceSums(matrix, sums, 1, counts, b, sl);
   }
   if (!sigma) return count;
-  marginaliseSymmetric3(matrix, counts, b, place.fractions);
+  marginaliseSymmetric3(matrix, counts, b, place.fractions, place.correlation);
   // f += the tier's matrix, element by element (both upper triangles)
   for (let k = 0; k < 6; k++) f[k] = f[k]! + matrix[k]!;
   return count;

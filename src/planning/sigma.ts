@@ -15,6 +15,7 @@
  * the largest compilations of a plan). Each line below is one step of those loops, zeros included
  * (x - 0 * y is not always x: signed zeros, NaN), in their order.
  */
+import { choleskyInto } from '../numerics/linalg.js';
 
 /** The column j of the inverse of L L^T (forward then back substitution of the unit vector e_j): its element j. */
 function inverseDiagonal(
@@ -168,10 +169,15 @@ export function marginaliseSymmetric3(
   counts: ArrayLike<number>,
   b: ArrayLike<number>,
   fractions: ArrayLike<number>,
+  correlation?: Float64Array,
 ): void {
   const n = counts.length;
   if (fractions.length !== n || b.length !== 3 * n) {
     throw new Error(`cosmic variance: ${fractions.length} fractions given for ${n} slices`);
+  }
+  if (correlation) {
+    marginaliseCorrelated3(m, counts, b, fractions, correlation);
+    return;
   }
   let m00 = m[0]!;
   let m01 = m[1]!;
@@ -201,4 +207,95 @@ export function marginaliseSymmetric3(
   m[3] = m11;
   m[4] = m12;
   m[5] = m22;
+}
+
+/** Scratch space of marginaliseCorrelated3, grown as needed (one design after another, never at once). */
+let scratch = new Float64Array(0);
+
+/**
+ * marginaliseCorrelatedInPlace (src/forecast/fisher.ts) of the upper triangle m with the joint
+ * prior S_ij = f_i f_j R_ij (R row-major in `correlation`, n x n): the same arithmetic on flat
+ * scratch space, so that the design model allocates nothing per design.
+ */
+function marginaliseCorrelated3(
+  m: Float64Array,
+  counts: ArrayLike<number>,
+  b: ArrayLike<number>,
+  fractions: ArrayLike<number>,
+  correlation: Float64Array,
+): void {
+  const n = counts.length;
+  if (correlation.length !== n * n)
+    throw new Error(`cosmic variance: a correlation of ${correlation.length} numbers for ${n} slices`);
+  const need = n + 3 * n * n + 3 * n + 3 * n;
+  if (scratch.length < need) scratch = new Float64Array(need);
+  const active = scratch.subarray(0, n);
+  let k = 0;
+  for (let i = 0; i < n; i++) {
+    const sigma = fractions[i]!;
+    if (!(sigma >= 0) || !Number.isFinite(sigma))
+      throw new Error(`cosmic variance: the fraction of slice ${i} is ${sigma}, not a number >= 0`);
+    if (sigma > 0) active[k++] = i;
+  }
+  const q = k;
+  if (q === 0) return;
+  const l = scratch.subarray(n, n + q * q);
+  const a = scratch.subarray(n + n * n, n + n * n + q * q);
+  const la = scratch.subarray(n + 2 * n * n, n + 2 * n * n + q * q);
+  const v = scratch.subarray(n + 3 * n * n, n + 3 * n * n + 3 * q);
+  const x = scratch.subarray(n + 3 * n * n + 3 * n, n + 3 * n * n + 3 * n + 3 * q);
+  // L: the prior's Cholesky factor (a vanishing pivot leaves its column 0), as fisher.ts priorFactor
+  for (let j = 0; j < q; j++) {
+    const aj = active[j]!;
+    const fj = fractions[aj]!;
+    let d = fj * fj;
+    for (let c = 0; c < j; c++) d -= l[j * q + c]! * l[j * q + c]!;
+    const pivot = d > 1e-12 * fj * fj ? Math.sqrt(d) : 0;
+    for (let c = j + 1; c < q; c++) l[j * q + c] = 0;
+    l[j * q + j] = pivot;
+    for (let i = j + 1; i < q; i++) {
+      const ai = active[i]!;
+      let t = fractions[ai]! * fj * correlation[ai * n + aj]!;
+      for (let c = 0; c < j; c++) t -= l[i * q + c]! * l[j * q + c]!;
+      l[i * q + j] = pivot > 0 ? t / pivot : 0;
+    }
+  }
+  // V = B L (3 x q), A = I + L^T N L
+  for (let j = 0; j < 3; j++)
+    for (let c = 0; c < q; c++) {
+      let t = 0;
+      for (let i = c; i < q; i++) t += b[3 * active[i]! + j]! * l[i * q + c]!;
+      v[j * q + c] = t;
+    }
+  for (let c = 0; c < q; c++)
+    for (let d = c; d < q; d++) {
+      let t = c === d ? 1 : 0;
+      for (let i = d; i < q; i++) t += l[i * q + c]! * counts[active[i]!]! * l[i * q + d]!;
+      a[c * q + d] = a[d * q + c] = t;
+    }
+  if (!choleskyInto(a, q, la)) throw new Error("cosmic variance: the nuisances' information is not positive definite");
+  // x_k = A^-1 V_k (forward and back substitution in place)
+  for (let r = 0; r < 3; r++) {
+    for (let i = 0; i < q; i++) {
+      let t = v[r * q + i]!;
+      for (let c = 0; c < i; c++) t -= la[i * q + c]! * x[r * q + c]!;
+      x[r * q + i] = t / la[i * q + i]!;
+    }
+    for (let i = q - 1; i >= 0; i--) {
+      let t = x[r * q + i]!;
+      for (let c = i + 1; c < q; c++) t -= la[c * q + i]! * x[r * q + c]!;
+      x[r * q + i] = t / la[i * q + i]!;
+    }
+  }
+  const dot = (r: number, c: number): number => {
+    let t = 0;
+    for (let i = 0; i < q; i++) t += v[r * q + i]! * x[c * q + i]!;
+    return t;
+  };
+  m[0] = m[0]! - dot(0, 0);
+  m[1] = m[1]! - 0.5 * (dot(0, 1) + dot(1, 0));
+  m[2] = m[2]! - 0.5 * (dot(0, 2) + dot(2, 0));
+  m[3] = m[3]! - dot(1, 1);
+  m[4] = m[4]! - 0.5 * (dot(1, 2) + dot(2, 1));
+  m[5] = m[5]! - dot(2, 2);
 }

@@ -22,7 +22,8 @@ import type { ZParam } from '../model/zparam.js';
 import { inputError } from '../errors.js';
 import { createLinearPower, type LinearPower } from './power-spectrum.js';
 import { createHaloModel, MATCH_MASS_MAX_MSUN, MATCH_MASS_MIN_MSUN, type HaloModel } from './haloes.js';
-import { sliceMatterSigma } from './cosmic-variance.js';
+import { fieldBoxSidesMpc, sliceMatterSigma } from './cosmic-variance.js';
+import { sliceCorrelations } from './box-covariance.js';
 import { addWarning, warning, type Warning } from '../warnings.js';
 import type { RedshiftProfile } from '../counts/engine.js';
 
@@ -250,6 +251,34 @@ export function matterSigma(ctx: UncertaintyContext, z1: number, z2: number, zc:
     radialDepthMpc: cosmo.comovingDistanceMpc(z2) - cosmo.comovingDistanceMpc(z1),
     zMid: zc,
   });
+}
+
+/**
+ * The correlation matrix of the slices [edges[i], edges[i + 1]]' matter fluctuations in one field
+ * (src/uncertainty/box-covariance.ts): each slice's box as matterSigma makes it (transverse sides
+ * at the slice's middle redshift, radial side D_C(z2) - D_C(z1)), centred at the middle of its
+ * comoving range. It depends on the cosmology, the area, the fields and the edges only.
+ */
+export function slicesCorrelation(ctx: UncertaintyContext, edges: readonly number[]): number[][] {
+  const { survey, cosmo } = ctx;
+  const boxes = [];
+  for (let i = 0; i + 1 < edges.length; i++) {
+    const z1 = edges[i]!;
+    const z2 = edges[i + 1]!;
+    const c1 = cosmo.comovingDistanceMpc(z1);
+    const c2 = cosmo.comovingDistanceMpc(z2);
+    const zc = 0.5 * (z1 + z2);
+    const sides = fieldBoxSidesMpc({
+      areaSr: survey.areaSr,
+      aspect: survey.field.aspect,
+      fieldCount: survey.field.count,
+      transverseDistanceMpc: cosmo.transverseComovingDistanceMpc(zc),
+      radialDepthMpc: c2 - c1,
+      zMid: zc,
+    });
+    boxes.push({ sides, centreMpc: 0.5 * (c1 + c2) });
+  }
+  return sliceCorrelations(ctx.power, boxes);
 }
 
 /**

@@ -23,7 +23,9 @@ function prepared(file: string, draws: number) {
   const grid = buildDensityGrid(survey, population, new FlatCosmology(survey.cosmology), survey.sliceEdges);
   const plain = fisherParts(grid);
   const { thetas } = forecastDrawOffsets(s, population, draws, 3);
-  const fractions = plain.slices.map((_, i) => 0.05 + 0.02 * i);
+  const f = plain.slices.map((_, i) => 0.05 + 0.02 * i);
+  // an invented correlation between the slices' nuisances, 0.3^|i - j|
+  const fractions = { fractions: f, correlation: f.map((_, i) => f.map((_, j) => 0.3 ** Math.abs(i - j))) };
   return { grid, plain, thetas, fractions };
 }
 

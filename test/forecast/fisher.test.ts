@@ -15,6 +15,7 @@ import { buildDensityGrid } from '../../src/forecast/grid.js';
 import {
   fisherFromPoints,
   fisherParts,
+  marginaliseCorrelated,
   marginaliseNormalisations,
   summariseFisher,
 } from '../../src/forecast/fisher.js';
@@ -31,6 +32,7 @@ interface RefCase {
   sigma_poisson_only: number[];
   covariance_with_cosmic_variance?: number[][];
   sigma_with_cosmic_variance?: number[];
+  covariance_with_correlated_cosmic_variance?: number[][];
 }
 const ref = JSON.parse(readFileSync(new URL('../reference/fisher.json', import.meta.url), 'utf8')) as {
   cases: RefCase[];
@@ -118,6 +120,53 @@ describe('reference: scipy 1.10.1 / astropy 5.2.1 integration (test/reference/fi
       }
     },
   );
+});
+
+describe('correlated nuisances', () => {
+  test.each(ref.cases.filter((c) => c.survey.cosmic_variance_correlation).map((c) => [c.survey.name, c] as const))(
+    '%s: covariance with the joint prior S_ij = f_i f_j R_ij (numpy inverse of the augmented matrix, nuisance block diag(N) + S^-1) to 1e-4',
+    (_name, c) => {
+      const { parts } = partsOf(c.survey);
+      const prior = { fractions: c.survey.cosmic_variance!, correlation: c.survey.cosmic_variance_correlation! };
+      const sum = summariseFisher(marginaliseCorrelated(parts.matrix, parts.slices, prior))!;
+      const want = c.covariance_with_correlated_cosmic_variance!;
+      for (let j = 0; j < 3; j++) {
+        for (let k = 0; k < 3; k++) {
+          const e = want[j]![k]!;
+          const scale = Math.sqrt(want[j]![j]! * want[k]![k]!);
+          expect(Math.abs(sum.covariance[j]![k]! - e)).toBeLessThanOrEqual(1e-4 * Math.max(Math.abs(e), 1e-3 * scale));
+        }
+      }
+    },
+  );
+
+  test('with the identity for the correlation the joint prior is the independent one (1e-12 relative)', () => {
+    const c = ref.cases.find((x) => x.survey.cosmic_variance)!;
+    const { parts } = partsOf(c.survey);
+    const f = c.survey.cosmic_variance!;
+    const joint = marginaliseCorrelated(parts.matrix, parts.slices, {
+      fractions: f,
+      correlation: f.map((_, i) => f.map((_, j) => +(i === j))),
+    });
+    const plain = marginaliseNormalisations(parts.matrix, parts.slices, f);
+    for (let j = 0; j < 3; j++)
+      for (let k = 0; k < 3; k++)
+        expect(Math.abs(joint[j]![k]! - plain[j]![k]!)).toBeLessThanOrEqual(
+          1e-12 * Math.sqrt(plain[j]![j]! * plain[k]![k]!),
+        );
+  });
+
+  test('a slice with fraction 0 (a zero-count slice) has no nuisance, whatever its correlation says', () => {
+    const c = ref.cases.find((x) => x.survey.cosmic_variance_correlation)!;
+    const { parts } = partsOf(c.survey);
+    const f = [...c.survey.cosmic_variance!];
+    f[1] = 0;
+    const r = c.survey.cosmic_variance_correlation!;
+    const without = r.map((row, i) => row.map((v, j) => (i === j ? 1 : i === 1 || j === 1 ? 0 : v)));
+    const a = marginaliseCorrelated(parts.matrix, parts.slices, { fractions: f, correlation: r });
+    const b = marginaliseCorrelated(parts.matrix, parts.slices, { fractions: f, correlation: without });
+    for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) expect(a[j]![k]).toBe(b[j]![k]);
+  });
 });
 
 describe('consistency', () => {

@@ -32,6 +32,8 @@ export interface SurveySpec {
     rest_wavelength_angstrom?: number;
   };
   cosmic_variance?: number[];
+  /** The correlation of the slices' nuisances (invented), for the joint prior. */
+  cosmic_variance_correlation?: number[][];
 }
 
 export function constant(v: number): ZParam {

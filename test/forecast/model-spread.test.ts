@@ -2,7 +2,7 @@
  * forecast --model-draws: the Fisher sigmas across the draws of a population's model_uncertainty.
  * - Against test/reference/forecast_model.json (test/reference/generate/forecast_model.py: numpy
  *   draws, the Fisher matrix by fisher.py's formula with central differences, the invented
- *   cosmic-variance fractions given to both): the plain sigmas to 1e-6 relative (two quadratures
+ *   cosmic-variance fractions and their correlation (a joint prior) given to both): the plain sigmas to 1e-6 relative (two quadratures
  *   of the same integrals; measured 3e-8 at most); with normal draws the percentiles
  *   of 1,000 draws within 4 Monte Carlo errors, 4 sqrt(se^2 + se_1000^2) (se: the reference's own
  *   error at its 20,000 draws, se_1000: that of a 1,000-draw estimate); with a draws file (the same
@@ -44,6 +44,7 @@ interface Case {
   file: string;
   parameters: string[];
   cosmic_variance: number[];
+  cosmic_variance_correlation: number[][];
   draws: number;
   plain: { sigma_poisson_only: number[]; sigma_with_cosmic_variance: number[] };
   sigma_poisson_only: Record<string, Pct>;
@@ -73,7 +74,13 @@ describe('sigmas across the model against the Python reference', () => {
     async (_name, c) => {
       const survey = loadSurveyFile(join(DIR, c.file));
       const source = () => [...c.cosmic_variance];
-      const f = await forecast(survey, { modelDraws: DRAWS, seed: 1, cosmicVarianceSource: source });
+      const correlation = () => c.cosmic_variance_correlation.map((row) => [...row]);
+      const f = await forecast(survey, {
+        modelDraws: DRAWS,
+        seed: 1,
+        cosmicVarianceSource: source,
+        cosmicVarianceCorrelation: correlation,
+      });
       const ms = f.model_spread!;
       const exact = c.draws < DRAWS + 1 && !c.sigma_poisson_only[c.parameters[0]!]!.se_1000;
       expect(ms.source).toBe(exact ? 'draws_file' : 'normal');

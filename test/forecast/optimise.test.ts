@@ -9,6 +9,7 @@
 import { describe, expect, test } from 'vitest';
 import { maximise, type Evaluation } from '../../src/forecast/optimise.js';
 import { extendedLogLikelihood, styLogLikelihood } from '../../src/forecast/fit.js';
+import { priorFactorOf } from '../../src/forecast/fisher.js';
 import { buildDensityGrid } from '../../src/forecast/grid.js';
 import { buildSamplingTables, CatalogueSampler } from '../../src/forecast/sampler.js';
 import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
@@ -106,6 +107,22 @@ describe('likelihood derivatives against central differences (consistency, 1e-5 
     };
     check((x) => extendedLogLikelihood(grid, stats, noCv, x), th);
     check((x) => extendedLogLikelihood(grid, stats, cv, x), th);
+    // the joint prior of correlated slices (an invented correlation 0.4^|i - j|)
+    const correlation = cv.map((_, i) => cv.map((_, j) => 0.4 ** Math.abs(i - j)));
+    const joint = priorFactorOf({ fractions: cv, correlation });
+    check((x) => extendedLogLikelihood(grid, stats, cv, x, undefined, joint), th);
+    // with the identity for the correlation it is the per-slice closed form (to 1e-9 relative)
+    const independent = priorFactorOf({ fractions: cv, correlation: cv.map((_, i) => cv.map((_, j) => +(i === j))) });
+    const a = extendedLogLikelihood(grid, stats, cv, th, undefined, independent);
+    const b = extendedLogLikelihood(grid, stats, cv, th);
+    expect(Math.abs(a.value - b.value)).toBeLessThan(1e-9 * Math.abs(b.value));
+    for (let j = 0; j < 3; j++) {
+      expect(Math.abs(a.gradient[j]! - b.gradient[j]!)).toBeLessThan(1e-9 * Math.abs(b.hessian[j]![j]!));
+      for (let k = 0; k < 3; k++)
+        expect(Math.abs(a.hessian[j]![k]! - b.hessian[j]![k]!)).toBeLessThan(
+          1e-9 * Math.sqrt(Math.abs(b.hessian[j]![j]! * b.hessian[k]![k]!)),
+        );
+    }
     check((x) => styLogLikelihood(grid, stats, x), th.slice(1));
   });
 });

@@ -12,7 +12,9 @@ theta = (log10 phi*, log10 L* or M*, alpha) as constant offsets at every z.
 - d ln lambda / d theta by central finite differences (step 1e-5; no analytic derivative is used).
 - Integrals: scipy.integrate.quad_vec over x (from the limit to 45 e-folds above the knee) and over z
   (epsrel 1e-10).
-- Cosmic variance: the augmented matrix [[F, b_i], [b_i^T, N_i + 1/sigma_i^2]] inverted with numpy.linalg.inv.
+- Cosmic variance: the augmented matrix [[F, b_i], [b_i^T, N_i + 1/sigma_i^2]] inverted with numpy.linalg.inv;
+  with a correlation R_ij of the slices' nuisances (invented numbers of the size the box covariance gives
+  thin slices), the nuisance block is diag(N_i) + S^-1, S_ij = sigma_i sigma_j R_ij (numpy.linalg.inv).
 Shares no code with skytally. The surveys are invented; their definitions are written into the
 output so that the test builds the same surveys.
 
@@ -37,6 +39,8 @@ SURVEYS = [
         "detection": {"limit_cgs": 3e-17, "line_angstrom": 6563.0},
         "population": {"variable": "luminosity", "log10_phi_star": -2.7, "log10_l_star": 42.4, "alpha": [-1.5, 0.0]},
         "cosmic_variance": [0.12, 0.1, 0.09, 0.08],
+        "cosmic_variance_correlation": [[1.0, 0.37, 0.08, -0.002], [0.37, 1.0, 0.38, 0.085],
+                                        [0.08, 0.38, 1.0, 0.39], [-0.002, 0.085, 0.39, 1.0]],
     },
     {
         "name": "line_flux_logistic_completeness",
@@ -55,6 +59,7 @@ SURVEYS = [
         "population": {"variable": "magnitude", "log10_phi_star": -3.3, "m_star": -20.8, "alpha": [-1.3, -0.1],
                        "rest_wavelength_angstrom": 1500.0},
         "cosmic_variance": [0.3, 0.28, 0.35],
+        "cosmic_variance_correlation": [[1.0, 0.05, -0.001], [0.05, 1.0, 0.06], [-0.001, 0.06, 1.0]],
     },
     {
         "name": "threshold_mass",
@@ -168,6 +173,13 @@ def make(s):
         cov = np.linalg.inv(A)[:3, :3]
         out["covariance_with_cosmic_variance"] = cov.tolist()
         out["sigma_with_cosmic_variance"] = np.sqrt(np.diag(cov)).tolist()
+        r = s.get("cosmic_variance_correlation")
+        if r:
+            S = np.outer(cv, cv) * np.array(r)
+            A[3:, 3:] = np.diag([sl["count"] for sl in slices]) + np.linalg.inv(S)
+            cov = np.linalg.inv(A)[:3, :3]
+            out["covariance_with_correlated_cosmic_variance"] = cov.tolist()
+            out["sigma_with_correlated_cosmic_variance"] = np.sqrt(np.diag(cov)).tolist()
     return out
 
 

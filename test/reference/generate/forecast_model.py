@@ -12,9 +12,10 @@ THE SEMANTICS IMPLEMENTED (the contract):
   lambda = area dV/dz/dOmega phi(x; z, theta) above the hard limit (x = log10 L or M), exactly as
   fisher.py writes it (phi per dex ln10 phi* u^(alpha+1) e^-u, per mag 0.4 ln10 phi* u^(alpha+1) e^-u,
   u = L/L* or 10^(0.4 (M* - M)); derivatives by central differences, step 1e-5).
-- Cosmic variance: one normalisation nuisance per slice with the INVENTED fractions below (the
-  same for every draw: the forecast keeps the assumed model's fractions), the augmented matrix
-  [[F, b_i], [b_i^T, N_i + 1/sigma_i^2]] inverted (numpy.linalg.inv), as fisher.py does.
+- Cosmic variance: one normalisation nuisance per slice with the INVENTED fractions sigma_i and
+  correlation R_ij below (the same for every draw: the forecast keeps the assumed model's
+  fractions), a joint Gaussian prior of covariance S_ij = sigma_i sigma_j R_ij: the augmented matrix
+  [[F, B], [B^T, diag(N_i) + S^-1]] inverted (numpy.linalg.inv), as fisher.py does.
 - Each draw gives sigma_j = sqrt((F^-1)_jj) (Poisson only) and from the augmented inverse (with
   cosmic variance); the percentiles p16, p50, p84 over the draws are numpy's default (type 7).
 - --target (Poisson only): the information is linear in area, so the area that meets sigma_j = T in
@@ -55,9 +56,16 @@ PS = [0.16, 0.5, 0.84]
 PN = ['p16', 'p50', 'p84']
 
 CASES = [
-    {'file': 'line-correlated.yaml', 'cosmic_variance': [0.08, 0.07, 0.065, 0.06], 'target': {'alpha': 0.02}},
-    {'file': 'uv-magnitude.yaml', 'cosmic_variance': [0.25, 0.22, 0.2], 'target': {'alpha': 0.03}},
-    {'file': 'narrowband-draws-file.yaml', 'cosmic_variance': [0.15, 0.14, 0.15], 'target': {'log10_l_star': 0.02}},
+    {'file': 'line-correlated.yaml', 'cosmic_variance': [0.08, 0.07, 0.065, 0.06],
+     'cosmic_variance_correlation': [[1.0, 0.3, 0.05, 0.0], [0.3, 1.0, 0.3, 0.05], [0.05, 0.3, 1.0, 0.3],
+                                     [0.0, 0.05, 0.3, 1.0]],
+     'target': {'alpha': 0.02}},
+    {'file': 'uv-magnitude.yaml', 'cosmic_variance': [0.25, 0.22, 0.2],
+     'cosmic_variance_correlation': [[1.0, 0.1, 0.01], [0.1, 1.0, 0.1], [0.01, 0.1, 1.0]],
+     'target': {'alpha': 0.03}},
+    {'file': 'narrowband-draws-file.yaml', 'cosmic_variance': [0.15, 0.14, 0.15],
+     'cosmic_variance_correlation': [[1.0, 0.4, 0.1], [0.4, 1.0, 0.4], [0.1, 0.4, 1.0]],
+     'target': {'log10_l_star': 0.02}},
 ]
 
 
@@ -118,16 +126,17 @@ def fisher_per_draw(sv, theta, panels=48):
     return out
 
 
-def sigmas(parts, cv):
-    """Per draw sigma Poisson only and with cosmic variance: (n, 3) each."""
+def sigmas(parts, cv, r):
+    """Per draw sigma Poisson only and with cosmic variance (joint prior S = cv cv^T * r): (n, 3) each."""
     Ftot = sum(p[2] for p in parts)
     poisson = np.sqrt(np.diagonal(np.linalg.inv(Ftot), axis1=1, axis2=2))
     ns = len(parts); n = Ftot.shape[0]
     A = np.zeros((n, 3 + ns, 3 + ns))
     A[:, :3, :3] = Ftot
+    A[:, 3:, 3:] = np.linalg.inv(np.outer(cv, cv) * np.array(r))[None, :, :]
     for i, (N, b, _) in enumerate(parts):
         A[:, :3, 3 + i] = b; A[:, 3 + i, :3] = b
-        A[:, 3 + i, 3 + i] = N + 1.0 / cv[i] ** 2
+        A[:, 3 + i, 3 + i] += N
     withcv = np.sqrt(np.diagonal(np.linalg.inv(A)[:, :3, :3], axis1=1, axis2=2))
     return poisson, withcv
 
@@ -154,14 +163,15 @@ def case(spec, rng):
     sv = mu.Survey(spec['file'])
     names = forecast_names(sv)
     cv = spec['cosmic_variance']
-    assert len(cv) == len(sv.nodes)
+    r = spec['cosmic_variance_correlation']
+    assert len(cv) == len(sv.nodes) and len(r) == len(cv)
     zero = np.zeros((1, 3))
     p0 = fisher_per_draw(sv, zero)
     # checks: the x quadrature's counts against the incomplete-gamma counts; panels doubled
     counts = sv.counts({})[0]
     assert np.all(np.abs(np.array([p[0][0] for p in p0]) / counts - 1) < 1e-10), (spec['file'], counts)
-    s0 = sigmas(p0, cv)
-    s0b = sigmas(fisher_per_draw(sv, zero, panels=96), cv)
+    s0 = sigmas(p0, cv, r)
+    s0b = sigmas(fisher_per_draw(sv, zero, panels=96), cv, r)
     assert np.all(np.abs(s0[0] / s0b[0] - 1) < 1e-9) and np.all(np.abs(s0[1] / s0b[1] - 1) < 1e-9)
     u = sv.uncertainty
     if 'draws_file' in u:
@@ -181,7 +191,7 @@ def case(spec, rng):
         method = 'Monte Carlo: numpy default_rng(%d).standard_normal((%d, %d)) times the Cholesky factor' % (
             SEED, DRAWS, len(order))
         errors = True
-    chunks = [sigmas(fisher_per_draw(sv, theta[i:i + CHUNK]), cv) for i in range(0, theta.shape[0], CHUNK)]
+    chunks = [sigmas(fisher_per_draw(sv, theta[i:i + CHUNK]), cv, r) for i in range(0, theta.shape[0], CHUNK)]
     poisson = np.concatenate([c[0] for c in chunks]); withcv = np.concatenate([c[1] for c in chunks])
     area = float(sv.area / mu.DEG2_SR)
     sp = summary(poisson, names, errors)
@@ -194,7 +204,8 @@ def case(spec, rng):
                     'area_deg2_p84': area * (sp[nme]['p84'] / target) ** 2}
     return {
         'file': spec['file'], 'yaml': sv.text, 'parameters': names, 'area_deg2': area,
-        'slice_edges': sv.edges, 'cosmic_variance': cv, 'draws': int(theta.shape[0]), 'method': method,
+        'slice_edges': sv.edges, 'cosmic_variance': cv,
+        'cosmic_variance_correlation': r, 'draws': int(theta.shape[0]), 'method': method,
         'plain': {'sigma_poisson_only': s0[0][0].tolist(), 'sigma_with_cosmic_variance': s0[1][0].tolist()},
         'sigma_poisson_only': sp,
         'sigma_with_cosmic_variance': summary(withcv, names, errors),
@@ -213,7 +224,7 @@ def main():
             'seed': SEED,
             'draws': DRAWS,
             'what': 'p16, p50, p84 of the Fisher sigmas over draws of model_uncertainty, Poisson only and with '
-                    'invented cosmic-variance fractions; semantics in the generator docstring. A test comparing an '
+                    'invented cosmic-variance fractions and correlations; semantics in the generator docstring. A test comparing an '
                     'N-draw result should allow ~4 x sqrt(standard_error^2 + se_1000^2 x 1000 / N).',
         },
         'cases': [],
