@@ -363,3 +363,14 @@ describe("the other variable's knee named as a parameter says which this populat
     expect(plan.stderr).not.toContain('did you mean');
   });
 });
+
+describe('options of the mock fits without mocks', () => {
+  test.each<[string[]]>([[['--list-mock-fits']], [['--estimator', 'sty']], [['--estimator', 'ml']]])(
+    'forecast %j without --mocks is refused naming it (failed before: exit 0, the option ignored)',
+    async (flag) => {
+      const r = await runCli(['forecast', 'samples/halpha-narrowband.yaml', ...flag]);
+      refusedOption(r, 'forecast', flag[0]!);
+      expect(r.stderr).toContain('applies to the fits of mock surveys, but none are drawn; add --mocks N');
+    },
+  );
+});

@@ -61,6 +61,20 @@ export const forecastCommand: CommandDef = {
     const raw = cmd.opts();
     const out = outputOptions(raw);
     const { mocks, seed } = mockOptions(raw);
+    // options of the mock surveys' fits, given without mocks, would change nothing
+    for (const [key, flag] of [
+      ['listMockFits', '--list-mock-fits'],
+      ['estimator', '--estimator'],
+    ] as const) {
+      if (mocks === 0 && cmd.getOptionValueSource(key) === 'cli')
+        throw inputError(
+          'bad_option',
+          '',
+          flag,
+          'applies to the fits of mock surveys, but none are drawn',
+          `add --mocks N (e.g. --mocks 200), or leave ${flag} out`,
+        );
+    }
     const modelDraws =
       raw.modelDraws === undefined
         ? 0
