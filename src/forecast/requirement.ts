@@ -228,9 +228,18 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
   const lv = limitVariable(survey, population);
   // a limit the file wrote as a flux density is quoted in its unit too, "1.55 mJy (15.93 AB)"
   const givenUnit = survey.detection.kind === 'magnitude' ? survey.detection.limitGivenUnit : undefined;
+  // a limit the file wrote in Jy km/s is quoted in it too, "0.385 Jy km/s (1.826e-20 erg/s/cm^2)":
+  // Jy km/s per erg/s/cm^2 at detection.line, c / nu = 1e10 lambda [Angstrom] (lineFluxOfVelocityFlux)
+  const det = survey.detection;
+  const jyKmsPerCgs =
+    det.kind === 'line_flux' && det.limitGivenJyKms !== undefined && det.lineAngstrom !== undefined
+      ? det.lineAngstrom * 1e10
+      : undefined;
   const limitText = (x: number) =>
     lv === 'line_flux_cgs'
-      ? `${fmt(x)} erg/s/cm^2`
+      ? jyKmsPerCgs !== undefined
+        ? `${fmt(x * jyKmsPerCgs)} Jy km/s (${fmt(x)} erg/s/cm^2)`
+        : `${fmt(x)} erg/s/cm^2`
       : lv === 'log10_quantity'
         ? `log10 = ${fmt(x)}`
         : lv === 'absolute_magnitude'
@@ -302,6 +311,7 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
     limit: allLimit ? (deeperIsLarger ? Math.max(...limits) : Math.min(...limits)) : null,
     limit_variable: lv,
     ...(givenUnit ? { limit_unit: givenUnit } : {}),
+    ...(jyKmsPerCgs !== undefined ? { limit_jy_km_s_per_cgs: jyKmsPerCgs } : {}),
     by_parameter: byParameter,
     search: { area_deg2: [MIN_AREA_DEG2, FULL_SKY_DEG2], limit: [limitOf(-span), limitOf(span)] },
     notes: [...entries.flatMap((e) => e.notes), ...completenessNote(survey, entries)],

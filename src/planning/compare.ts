@@ -92,6 +92,7 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
   const warnings: Warning[][] = [];
   const notes: string[] = [];
   const bands: (number | undefined)[] = []; // a magnitude survey's band, Angstrom
+  const lines: (number | undefined)[] = []; // a line_flux survey's line (the compared population's), Angstrom
   for (const [i, file] of surveys.entries()) {
     // A double Schechter population is compared without Fisher sigmas (a forecast varies the three
     // parameters of a single Schechter function): every other row holds for it.
@@ -121,6 +122,7 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
     );
     const lim = limitOf(survey, population);
     bands.push(survey.detection.kind === 'magnitude' ? survey.detection.bandAngstrom : undefined);
+    lines.push(survey.detection.kind === 'line_flux' ? population.lineAngstrom : undefined);
     const u = own.totals.uncertainty;
     const row: ComparedSurvey = {
       title: survey.title,
@@ -170,6 +172,11 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
         if (given.length > 1 && Math.max(...given) > 1.01 * Math.min(...given))
           notes.push(
             `The limits are AB magnitudes in different bands (${bands.map((b, j) => `[${j + 1}] ${b === undefined ? '-' : `${sig(b, 4)} A`}`).join(', ')}): the faintest is marked, which is the faintest flux density, not necessarily the deepest for the population; compare the counts and sigmas instead.`,
+          );
+        const counted = lines.filter((l): l is number => l !== undefined);
+        if (counted.length > 1 && Math.max(...counted) > 1.001 * Math.min(...counted))
+          notes.push(
+            `The limits are fluxes of different lines (${lines.map((l, j) => `[${j + 1}] ${l === undefined ? '-' : `${sig(l, 5)} A`}`).join(', ')}): the faintest is marked, which is the faintest line flux, not necessarily the deepest for the population; compare the counts and sigmas instead.`,
           );
       } else if (out.length > 1)
         notes.push('The limits are of different kinds (or vary with redshift), so no limit is marked best.');

@@ -77,7 +77,9 @@ export function forecastTable(f: Forecast): string {
     // the limit as compare and plan write it: AB for an apparent magnitude, M = for an absolute one
     const limitWords = (x: number): string =>
       r.limit_variable === 'line_flux_cgs'
-        ? `${sig(x, 4)} erg/s/cm^2`
+        ? r.limit_jy_km_s_per_cgs !== undefined
+          ? `${sig(x * r.limit_jy_km_s_per_cgs, 4)} Jy km/s (${sig(x, 4)} erg/s/cm^2)`
+          : `${sig(x, 4)} erg/s/cm^2`
         : r.limit_variable === 'log10_quantity'
           ? `${sig(x, 4)} (log10 quantity)`
           : r.limit_variable === 'absolute_magnitude'

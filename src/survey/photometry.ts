@@ -137,6 +137,18 @@ export function fluxDensityMagnitude(
       `a point source's flux density is its peak in that unit: write "${excerpt(perBeam[1]!, 50)}"`,
     );
   }
+  // "27.2 mag", "27.2 AB": a magnitude written with its name, where the key takes it as a number
+  const magnitude =
+    /^\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(?:mag|mags|magnitudes?|AB|AB\s*mag|mag\s*AB)\s*$/i.exec(text);
+  if (magnitude) {
+    throw inputError(
+      'bad_unit',
+      file,
+      path,
+      `"${excerpt(text, 60)}" is a magnitude written with a unit`,
+      `write the magnitude as a number alone: ${magnitude[1]}`,
+    );
+  }
   const jy = parseQuantityOneOf(text, ['fluxDensity'], file, path, fix).value;
   const shown = excerpt(text, 60);
   if (!(jy > 0)) {

@@ -277,6 +277,12 @@ describe('check', () => {
       expect(checked.stderr, name).toMatch(message);
       const planned = await runCli(['plan', file]);
       expect([planned.code, planned.stderr], name).toEqual([2, checked.stderr]);
+      // explore reads the plan for its exposure control: the same refusal, no page (failed before:
+      // a page without the control, exit 0)
+      const page = join(dir, `${name}.html`);
+      const explored = await runCli(['explore', file, '--out', page]);
+      expect([explored.code, explored.stderr], name).toEqual([2, checked.stderr]);
+      expect(existsSync(page), name).toBe(false);
     }
     // the sample itself, and a threshold survey's plan (which report leaves out), pass
     expect((await runCli(['check', 'samples/plan-uv-deep-wide.yaml'])).code).toBe(0);

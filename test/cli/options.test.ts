@@ -232,6 +232,17 @@ describe('input once reported as an internal failure', () => {
     refused(await runCli(argv), name);
   });
 
+  test('a list value out of range gives the range as README.md states it (failed before: "from 1000 to 1000000000000000000")', async () => {
+    // README.md, Limits: clustering masses 1e3 to 1e18 Msun, radii 0.001 to 10,000 Mpc
+    const mass = await runCli(['clustering', '--z', '0', '--mass-msun', '1e20']);
+    refusedOption(mass, 'clustering', '--mass-msun');
+    expect(mass.stderr).toBe(
+      'skytally: clustering --mass-msun: 1e20 is outside the allowed range; give values from 1000 to 1e18.\n',
+    );
+    const radius = await runCli(['clustering', '--z', '0', '--radius-mpc', '0']);
+    expect(radius.stderr).toContain('give values from 0.001 to 10000.');
+  });
+
   test('distances: every redshift and cosmology inside the ranges gives finite values (property)', async () => {
     await fc.assert(
       fc.asyncProperty(

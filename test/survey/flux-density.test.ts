@@ -144,7 +144,21 @@ describe('refusals: one sentence naming the file, the key and the fix', () => {
     ['brighter than AB 0', { limit: '1e5 Jy' }, 'detection.limit', /outside its physical range/],
     ['fainter than AB 40', { limit: '1e-20 Jy' }, 'detection.limit', /outside its physical range/],
     ['a line flux, not a flux density', { limit: '2e-17 erg/s/cm^2' }, 'detection.limit', /not a flux density/],
-    ['an unknown unit', { limit: '25 mag' }, 'detection.limit', /unit this tool knows/],
+    ['an unknown unit', { limit: '25 furlongs' }, 'detection.limit', /unit this tool knows/],
+    // a magnitude written with its name (failed before: "not a number with a unit this tool knows")
+    [
+      'a magnitude with "mag"',
+      { limit: '25 mag' },
+      'detection.limit',
+      /a magnitude written with a unit; write the magnitude as a number alone: 25\.$/,
+    ],
+    ['a magnitude with "AB"', { limit: '27.2 AB' }, 'detection.limit', /number alone: 27\.2\.$/],
+    [
+      'a completeness half with "mag"',
+      { completeness: { half: '26.9 mag', width: 0.2 } },
+      'detection.completeness.half',
+      /number alone: 26\.9\.$/,
+    ],
     // a map's unit, written out of habit: the number stands without it
     ['a flux density per beam', { limit: '4 mJy/beam' }, 'detection.limit', /per beam, .*write "4 mJy"/],
     [

@@ -18,6 +18,8 @@ import { predictionTable } from '../../src/render/predict-table.js';
 import { describeSurvey } from '../../src/survey/describe.js';
 import { checkText } from '../../src/render/check-text.js';
 import { readPlanSection } from '../../src/survey/plan-section.js';
+import { compare } from '../../src/planning/compare.js';
+import { loadSurveyFile } from '../../src/survey/load.js';
 import { SPEED_OF_LIGHT_M_S } from '../../src/cosmology/constants.js';
 import type { Detection } from '../../src/model/detection.js';
 import { errorOf } from '../support/survey-error.js';
@@ -238,7 +240,14 @@ plan:
     const p = await json(['predict', path]);
     expect(valid('prediction.schema.json', p)).toBe('valid');
     expect((p.detection as Record<string, unknown>).limit_jy_km_s).toBe(0.7);
-    expect(valid('forecast.schema.json', await json(['forecast', path, '--target', 'alpha=0.02']))).toBe('valid');
+    const f = await json(['forecast', path, '--target', 'alpha=0.02']);
+    expect(valid('forecast.schema.json', f)).toBe('valid');
+    // Jy km/s per erg/s/cm^2 at HI: c / nu = 1e10 lambda [Angstrom] = 2.1106e19 (to 1e-15)
+    const perCgs = (f.requirement as Record<string, number>).limit_jy_km_s_per_cgs!;
+    expect(rel(perCgs, (SPEED_OF_LIGHT_M_S / NU_HI) * 1e20)).toBeLessThan(1e-15);
+    const limit = (f.requirement as Record<string, number>).limit!;
+    const words = (await runCli(['forecast', path, '--target', 'alpha=0.02'])).stdout;
+    expect(words).toContain(`a limit of ${Number((limit * perCgs).toPrecision(4))} Jy km/s (`);
     const c = await json(['compare', path, path]);
     expect(valid('compare.schema.json', c)).toBe('valid');
     expect((c.surveys as Record<string, unknown>[])[0]!.limit_jy_km_s).toBe(0.7);
@@ -246,4 +255,18 @@ plan:
     expect(table.stdout).toContain('0.7 Jy km/s (3.32e-20 erg/s/cm^2)');
     expect(valid('plan.schema.json', await json(['plan', path]))).toBe('valid');
   });
+});
+
+describe('compare: line-flux limits of different lines', () => {
+  test('HI against H-alpha: the faintest line flux is marked with a note that it need not be the deepest for the population (failed before: marked without a word); the same line: no note', async () => {
+    const h = parseSurveyObject(hi(), FILE);
+    const halpha = loadSurveyFile('samples/halpha-narrowband.yaml');
+    const c = await compare([h, halpha], { cosmicVariance: false });
+    expect(c.best.limit).toEqual([0]);
+    expect(c.notes.filter((n) => /different lines/.test(n))).toEqual([
+      'The limits are fluxes of different lines ([1] 2.1106e9 A, [2] 6562.8 A): the faintest is marked, which is the faintest line flux, not necessarily the deepest for the population; compare the counts and sigmas instead.',
+    ]);
+    const same = await compare([halpha, loadSurveyFile('samples/slitless-halpha.yaml')], { cosmicVariance: false });
+    expect(same.notes.filter((n) => /different lines/.test(n))).toEqual([]);
+  }, 60_000);
 });

@@ -1,8 +1,15 @@
 import type { CommandDef } from './types.js';
-import { addOutputOptions, loadSurveyArg, outputOptions, printWarnings, surveyLoader } from './common.js';
+import {
+  addOutputOptions,
+  checkPlanSection,
+  loadSurveyArg,
+  outputOptions,
+  printWarnings,
+  surveyLoader,
+} from './common.js';
 import { Outputs, renderText } from '../io.js';
 import { csvText } from '../../render/csv.js';
-import { printable, SurveyError } from '../../errors.js';
+import { printable } from '../../errors.js';
 
 export const checkCommand: CommandDef = {
   name: 'check',
@@ -18,17 +25,10 @@ export const checkCommand: CommandDef = {
     outputs.refuseInputs([file]);
     const survey = await loadSurveyArg(io, file);
     outputs.refuseInputs(survey.inputs ?? []);
-    const { describeSurvey, readPlanSection } = await surveyLoader();
+    const { describeSurvey } = await surveyLoader();
     // A plan section is checked as plan and report read it (a mistyped plan key is refused here too,
-    // not only later by plan); a threshold survey's plan is left out by report, so it passes here.
-    const raw = survey.raw as Record<string, unknown> | undefined;
-    if (raw !== null && typeof raw === 'object' && raw.plan !== undefined) {
-      try {
-        readPlanSection(survey, survey.populations[0]!);
-      } catch (e) {
-        if (!(e instanceof SurveyError && e.code === 'kind_mismatch' && survey.detection.kind === 'threshold')) throw e;
-      }
-    }
+    // not only later by plan).
+    await checkPlanSection(survey);
     const { surveyWarnings } = await import('../../population/warnings.js');
     const { predictionWarnings } = await import('../../counts/warnings.js');
     const { mergeWarnings } = await import('../../warnings.js');

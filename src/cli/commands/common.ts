@@ -2,7 +2,9 @@
 import { resolve } from 'node:path';
 import { Option, type Command } from 'commander';
 import { FORMATS, parseFormat, type CliIO, type OutputOptions } from '../io.js';
-import { excerpt, inputError } from '../../errors.js';
+import { excerpt, inputError, SurveyError } from '../../errors.js';
+import type { Survey } from '../../model/survey.js';
+import { compact } from '../../render/format.js';
 import { warningLines, type Warning } from '../../warnings.js';
 
 /** Each warning as one line on stderr (`skytally: warning: ...`); the JSON output carries them too. */
@@ -41,6 +43,22 @@ export function outputOptions(opts: Record<string, unknown>): OutputOptions {
 export async function loadSurveyArg(io: CliIO, file: string) {
   const { loadSurveyFile } = await surveyLoader();
   return loadSurveyFile(resolve(io.cwd, file));
+}
+
+/**
+ * A survey's plan section read as plan and report read it (for the file's first population), so
+ * that check and explore refuse a mistyped or impossible plan key too; a threshold survey's plan,
+ * which report leaves out, passes.
+ */
+export async function checkPlanSection(survey: Survey): Promise<void> {
+  const raw = survey.raw as Record<string, unknown> | null | undefined;
+  if (raw === null || typeof raw !== 'object' || raw.plan === undefined) return;
+  const { readPlanSection } = await surveyLoader();
+  try {
+    readPlanSection(survey, survey.populations[0]!);
+  } catch (e) {
+    if (!(e instanceof SurveyError && e.code === 'kind_mismatch' && survey.detection.kind === 'threshold')) throw e;
+  }
 }
 
 /**
@@ -120,7 +138,7 @@ export function parseKeyedList(
         '',
         option,
         `${key} is outside the allowed range`,
-        `give values ${exclusiveMin ? 'above' : 'from'} ${min}${Number.isFinite(max) ? ` ${exclusiveMin ? 'and at most' : 'to'} ${max}` : ''}`,
+        `give values ${exclusiveMin ? 'above' : 'from'} ${compact(min, 6)}${Number.isFinite(max) ? ` ${exclusiveMin ? 'and at most' : 'to'} ${compact(max, 6)}` : ''}`,
       );
     }
     return { key, value };

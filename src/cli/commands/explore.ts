@@ -1,7 +1,7 @@
 /** The `explore` command: one self-contained HTML page to vary a survey live (src/library/explore/page.ts). */
 import { resolve } from 'node:path';
 import type { CommandDef } from './types.js';
-import { printWarnings, refuseHtmlOnTerminal } from './common.js';
+import { checkPlanSection, printWarnings, refuseHtmlOnTerminal } from './common.js';
 import { Outputs } from '../io.js';
 
 export const exploreCommand: CommandDef = {
@@ -21,6 +21,9 @@ export const exploreCommand: CommandDef = {
     const { loadSurveyFileWithText } = await import('../../survey/load.js');
     const { survey, text } = loadSurveyFileWithText(resolve(io.cwd, file));
     outputs.refuseInputs(survey.inputs ?? []);
+    // a plan section as plan reads it: a mistyped plan key is refused, not left out of the page
+    // with the exposure-per-pointing control it sets
+    await checkPlanSection(survey);
     const { buildExplorePage } = await import('../../library/explore/page.js');
     const html = await buildExplorePage(resolve(io.cwd, file), text, survey);
     const { surveyWarnings } = await import('../../population/warnings.js');

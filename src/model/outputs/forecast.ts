@@ -156,6 +156,10 @@ export interface Requirement {
    */
   limit_unit?: 'Jy' | 'mJy' | 'uJy' | 'nJy' | 'erg/s/cm^2/Hz' | 'W/m^2/Hz';
   /**
+   * Present only when the survey file gave detection.limit as a velocity-integrated flux: the Jy km/s of one erg/s/cm^2 at detection.line's rest frequency, c / nu = 1e10 lambda_line [Angstrom]. The limits stay line fluxes here; the human outputs quote them in Jy km/s too.
+   */
+  limit_jy_km_s_per_cgs?: number;
+  /**
    * log10_quantity and absolute_magnitude (threshold kind) give the limit at the window's middle; a redshift-dependent limit is moved by a constant.
    */
   limit_variable: 'line_flux_cgs' | 'apparent_magnitude' | 'log10_quantity' | 'absolute_magnitude';
