@@ -259,10 +259,63 @@ const SIDE_STEP = 0.1;
 const Q_LN_K0 = Math.log(1e-9);
 const Q_LN_K1 = Math.log(1e7);
 
-/** Q(k; w) at one transverse node, from lazily filled tables of ln I (over ln K) and ln Q (over ln k) on one grid. */
-interface TransverseNode {
+/**
+ * Q(k; w) at one transverse node, from lazily filled tables of ln I (over ln K) and ln Q (over
+ * ln k) on one grid. A class rather than closures made per node, so that V8 compiles its methods
+ * once for every node (closures of one source made afresh are compiled afresh, and a table
+ * lookup calling a fill function passed to it met a new target at every node).
+ */
+class TransverseNode {
+  private readonly lnI: Float64Array;
+  private readonly lnQ: Float64Array;
+  constructor(
+    private readonly p0: (k2: number) => number,
+    private readonly step: number,
+    size: number,
+    /** the transverse rules' squared wavenumbers and weights: x (width w) and y (height rho w) */
+    private readonly qx: Float64Array,
+    private readonly wx: Float64Array,
+    private readonly qy: Float64Array,
+    private readonly wy: Float64Array,
+    private readonly norm: number,
+  ) {
+    this.lnI = new Float64Array(size).fill(NaN);
+    this.lnQ = new Float64Array(size).fill(NaN);
+  }
+
   /** Q at k^2. */
-  at: (k2: number) => number;
+  at(k2: number): number {
+    const table = this.lnQ;
+    const x = clampX(table.length, (0.5 * Math.log(k2) - Q_LN_K0) / this.step);
+    const m = cellOf(table.length, x);
+    for (let j = m - 1; j <= m + 2; j++) if (Number.isNaN(table[j]!)) table[j] = this.fillQ(j);
+    return lnCubicAt(table, m, x - m);
+  }
+
+  /** I at K^2: the y axis's sum. */
+  private iAt(bigK2: number): number {
+    const table = this.lnI;
+    const x = clampX(table.length, (0.5 * Math.log(bigK2) - Q_LN_K0) / this.step);
+    const m = cellOf(table.length, x);
+    for (let j = m - 1; j <= m + 2; j++) if (Number.isNaN(table[j]!)) table[j] = this.fillI(j);
+    return lnCubicAt(table, m, x - m);
+  }
+
+  private fillI(m: number): number {
+    const bigK2 = Math.exp(2 * (Q_LN_K0 + m * this.step));
+    const { qy, wy, p0 } = this;
+    let s = 0;
+    for (let b = 0; b < qy.length; b++) s += wy[b]! * p0(bigK2 + qy[b]!);
+    return s > 0 ? Math.log(s) : -Infinity;
+  }
+
+  private fillQ(m: number): number {
+    const kz2 = Math.exp(2 * (Q_LN_K0 + m * this.step));
+    const { qx, wx } = this;
+    let s = 0;
+    for (let a = 0; a < qx.length; a++) s += wx[a]! * this.iAt(kz2 + qx[a]!);
+    return s > 0 ? Math.log(this.norm * s) : -Infinity;
+  }
 }
 
 interface FieldTables {
@@ -298,49 +351,37 @@ function transverseNode(power: LinearPower, t: FieldTables, g: number): Transver
     const rx = transverseRule(w);
     const ry = transverseRule(h);
     const qx = rx.u.map((u) => ((2 * u) / w) ** 2);
-    const wx = rx.w;
     const qy = ry.u.map((u) => ((2 * u) / h) ** 2);
-    const wy = ry.w;
     // 1 / pi^3 times the Jacobians 4 / (w h) of the two transverse axes
     const norm = 4 / (Math.PI ** 3 * w * h);
-    const lnI = new Float64Array(t.size).fill(NaN);
-    const lnQ = new Float64Array(t.size).fill(NaN);
-    const p0 = power.powerZ0FromK2;
-    const { step } = t;
-    const fillI = (m: number): number => {
-      const bigK2 = Math.exp(2 * (Q_LN_K0 + m * step));
-      let s = 0;
-      for (let b = 0; b < qy.length; b++) s += wy[b]! * p0(bigK2 + qy[b]!);
-      return s > 0 ? Math.log(s) : -Infinity;
-    };
-    const fillQ = (m: number): number => {
-      const kz2 = Math.exp(2 * (Q_LN_K0 + m * step));
-      let s = 0;
-      for (let a = 0; a < qx.length; a++)
-        s += wx[a]! * lnTableAt(lnI, fillI, (0.5 * Math.log(kz2 + qx[a]!) - Q_LN_K0) / step);
-      return s > 0 ? Math.log(norm * s) : -Infinity;
-    };
-    node = { at: (k2) => lnTableAt(lnQ, fillQ, (0.5 * Math.log(k2) - Q_LN_K0) / step) };
+    node = new TransverseNode(power.powerZ0FromK2, t.step, t.size, qx, rx.w, qy, ry.w, norm);
     if (t.nodes.size >= 512) t.nodes.delete(t.nodes.keys().next().value!);
     t.nodes.set(g, node);
   }
   return node;
 }
 
-/**
- * exp of the 4-point Lagrange cubic in ln through a lazily filled table of ln values on
- * x = (ln k - Q_LN_K0) / step (x held within the grid); linear in the values where one of the
- * four is -Infinity (a spectrum that underflows, as only synthetic test spectra do).
- */
-function lnTableAt(table: Float64Array, fill: (m: number) => number, x: number): number {
-  const last = table.length - 3;
-  if (x < 0) x = 0;
-  if (x > table.length - 1) x = table.length - 1;
+/** x (a position on a table's grid of `length` values) held within the grid. */
+function clampX(length: number, x: number): number {
+  if (x < 0) return 0;
+  if (x > length - 1) return length - 1;
+  return x;
+}
+
+/** The cell m (1 <= m <= length - 3) of the 4-point Lagrange cubic at x (within the grid). */
+function cellOf(length: number, x: number): number {
   let m = Math.floor(x);
   if (m < 1) m = 1;
-  if (m > last) m = last;
-  const u = x - m;
-  for (let j = m - 1; j <= m + 2; j++) if (Number.isNaN(table[j]!)) table[j] = fill(j);
+  if (m > length - 3) m = length - 3;
+  return m;
+}
+
+/**
+ * exp of the 4-point Lagrange cubic in ln through the table's ln values m - 1 .. m + 2 at
+ * u = x - m; linear in the values where one of the four is -Infinity (a spectrum that
+ * underflows, as only synthetic test spectra do).
+ */
+function lnCubicAt(table: Float64Array, m: number, u: number): number {
   const y0 = table[m - 1]!;
   const y1 = table[m]!;
   const y2 = table[m + 1]!;
