@@ -209,8 +209,17 @@ export function marginaliseSymmetric3(
   m[5] = m22;
 }
 
-/** Scratch space of marginaliseCorrelated3, grown as needed (one design after another, never at once). */
-let scratch = new Float64Array(0);
+/**
+ * Scratch space of marginaliseCorrelated3, grown as needed (one design after another, never at
+ * once): arrays of their own rather than views of one, so that a call allocates nothing (a
+ * subarray is a new object).
+ */
+let scratchActive = new Float64Array(0);
+let scratchL = new Float64Array(0);
+let scratchA = new Float64Array(0);
+let scratchLA = new Float64Array(0);
+let scratchV = new Float64Array(0);
+let scratchX = new Float64Array(0);
 
 /**
  * marginaliseCorrelatedInPlace (src/forecast/fisher.ts) of the upper triangle m with the joint
@@ -227,9 +236,20 @@ function marginaliseCorrelated3(
   const n = counts.length;
   if (correlation.length !== n * n)
     throw new Error(`cosmic variance: a correlation of ${correlation.length} numbers for ${n} slices`);
-  const need = n + 3 * n * n + 3 * n + 3 * n;
-  if (scratch.length < need) scratch = new Float64Array(need);
-  const active = scratch.subarray(0, n);
+  if (scratchActive.length < n) {
+    scratchActive = new Float64Array(n);
+    scratchL = new Float64Array(n * n);
+    scratchA = new Float64Array(n * n);
+    scratchLA = new Float64Array(n * n);
+    scratchV = new Float64Array(3 * n);
+    scratchX = new Float64Array(3 * n);
+  }
+  const active = scratchActive;
+  const l = scratchL;
+  const a = scratchA;
+  const la = scratchLA;
+  const v = scratchV;
+  const x = scratchX;
   let k = 0;
   for (let i = 0; i < n; i++) {
     const sigma = fractions[i]!;
@@ -239,11 +259,6 @@ function marginaliseCorrelated3(
   }
   const q = k;
   if (q === 0) return;
-  const l = scratch.subarray(n, n + q * q);
-  const a = scratch.subarray(n + n * n, n + n * n + q * q);
-  const la = scratch.subarray(n + 2 * n * n, n + 2 * n * n + q * q);
-  const v = scratch.subarray(n + 3 * n * n, n + 3 * n * n + 3 * q);
-  const x = scratch.subarray(n + 3 * n * n + 3 * n, n + 3 * n * n + 3 * n + 3 * q);
   // L: the prior's Cholesky factor (a vanishing pivot leaves its column 0), as fisher.ts priorFactor
   for (let j = 0; j < q; j++) {
     const aj = active[j]!;
@@ -287,15 +302,17 @@ function marginaliseCorrelated3(
       x[r * q + i] = t / la[i * q + i]!;
     }
   }
-  const dot = (r: number, c: number): number => {
-    let t = 0;
-    for (let i = 0; i < q; i++) t += v[r * q + i]! * x[c * q + i]!;
-    return t;
-  };
-  m[0] = m[0]! - dot(0, 0);
-  m[1] = m[1]! - 0.5 * (dot(0, 1) + dot(1, 0));
-  m[2] = m[2]! - 0.5 * (dot(0, 2) + dot(2, 0));
-  m[3] = m[3]! - dot(1, 1);
-  m[4] = m[4]! - 0.5 * (dot(1, 2) + dot(2, 1));
-  m[5] = m[5]! - dot(2, 2);
+  m[0] = m[0]! - dotRows(v, x, q, 0, 0);
+  m[1] = m[1]! - 0.5 * (dotRows(v, x, q, 0, 1) + dotRows(v, x, q, 1, 0));
+  m[2] = m[2]! - 0.5 * (dotRows(v, x, q, 0, 2) + dotRows(v, x, q, 2, 0));
+  m[3] = m[3]! - dotRows(v, x, q, 1, 1);
+  m[4] = m[4]! - 0.5 * (dotRows(v, x, q, 1, 2) + dotRows(v, x, q, 2, 1));
+  m[5] = m[5]! - dotRows(v, x, q, 2, 2);
+}
+
+/** Row r of v times row c of x (q numbers each, rows q apart). */
+function dotRows(v: Float64Array, x: Float64Array, q: number, r: number, c: number): number {
+  let t = 0;
+  for (let i = 0; i < q; i++) t += v[r * q + i]! * x[c * q + i]!;
+  return t;
 }

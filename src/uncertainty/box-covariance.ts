@@ -268,6 +268,9 @@ const Q_LN_K1 = Math.log(1e7);
 class TransverseNode {
   private readonly lnI: Float64Array;
   private readonly lnQ: Float64Array;
+  /** The smallest and largest of qx. */
+  private readonly qMin: number;
+  private readonly qMax: number;
   constructor(
     private readonly p0: (k2: number) => number,
     private readonly step: number,
@@ -281,26 +284,102 @@ class TransverseNode {
   ) {
     this.lnI = new Float64Array(size).fill(NaN);
     this.lnQ = new Float64Array(size).fill(NaN);
+    let qMin = Infinity;
+    let qMax = -Infinity;
+    for (let a = 0; a < qx.length; a++) {
+      if (qx[a]! < qMin) qMin = qx[a]!;
+      if (qx[a]! > qMax) qMax = qx[a]!;
+    }
+    this.qMin = qMin;
+    this.qMax = qMax;
   }
 
-  /** Q at k^2. */
+  /**
+   * Q at k^2: exp of the 4-point Lagrange cubic in ln Q through the cells m - 1 .. m + 2 around
+   * x = (ln k - Q_LN_K0) / step (x held within the grid, 1 <= m <= size - 3); linear in the values
+   * where one of the four is -Infinity (a spectrum that underflows, as only synthetic test
+   * spectra do). The cells are filled as met unless prepare filled them. (The lookup is written
+   * out here and in fillQ rather than called, so that V8 compiles it only inside them.)
+   */
   at(k2: number): number {
     const table = this.lnQ;
-    const x = clampX(table.length, (0.5 * Math.log(k2) - Q_LN_K0) / this.step);
-    const m = cellOf(table.length, x);
-    for (let j = m - 1; j <= m + 2; j++) if (Number.isNaN(table[j]!)) table[j] = this.fillQ(j);
-    return lnCubicAt(table, m, x - m);
+    const length = table.length;
+    let x = (0.5 * Math.log(k2) - Q_LN_K0) / this.step;
+    if (x < 0) x = 0;
+    if (x > length - 1) x = length - 1;
+    let m = Math.floor(x);
+    if (m < 1) m = 1;
+    if (m > length - 3) m = length - 3;
+    const y0 = table[m - 1]!;
+    const y1 = table[m]!;
+    const y2 = table[m + 1]!;
+    const y3 = table[m + 2]!;
+    if (Number.isNaN(y0) || Number.isNaN(y1) || Number.isNaN(y2) || Number.isNaN(y3)) {
+      this.fillQCells(m);
+      return this.at(k2);
+    }
+    const u = x - m;
+    if (y0 === -Infinity || y1 === -Infinity || y2 === -Infinity || y3 === -Infinity) {
+      const a = Math.exp(y1);
+      const b = Math.exp(y2);
+      return Math.max(0, (1 - u) * a + u * b);
+    }
+    return Math.exp(
+      (-u * (u - 1) * (u - 2) * y0) / 6 +
+        ((u + 1) * (u - 1) * (u - 2) * y1) / 2 -
+        ((u + 1) * u * (u - 2) * y2) / 2 +
+        ((u + 1) * u * (u - 1) * y3) / 6,
+    );
   }
 
-  /** I at K^2: the y axis's sum. */
-  private iAt(bigK2: number): number {
+  /**
+   * Fills the cells `cells` (lookupCells) of the ln Q table that are not yet filled, and first the
+   * cells of the ln I table their sums meet: the same values the lookups would fill one by one
+   * (each cell is the same sum whenever it is made), but with the fills out of the lookups' way,
+   * so that V8 compiles the lookups without the fills inlined into them.
+   */
+  prepare(cells: Int32Array): void {
+    const table = this.lnQ;
+    let lo = -1;
+    let hi = -1;
+    for (let c = 0; c < cells.length; c++)
+      if (Number.isNaN(table[cells[c]!]!)) {
+        if (lo < 0) lo = cells[c]!;
+        hi = cells[c]!;
+      }
+    if (lo < 0) return;
+    this.fillIRange(
+      Math.exp(2 * (Q_LN_K0 + lo * this.step)) + this.qMin,
+      Math.exp(2 * (Q_LN_K0 + hi * this.step)) + this.qMax,
+    );
+    for (let c = 0; c < cells.length; c++) {
+      const j = cells[c]!;
+      if (Number.isNaN(table[j]!)) table[j] = this.fillQ(j);
+    }
+  }
+
+  /** Fills the cells of the ln I table that lookups at K^2 from k2Lo to k2Hi meet. */
+  private fillIRange(k2Lo: number, k2Hi: number): void {
     const table = this.lnI;
-    const x = clampX(table.length, (0.5 * Math.log(bigK2) - Q_LN_K0) / this.step);
-    const m = cellOf(table.length, x);
-    for (let j = m - 1; j <= m + 2; j++) if (Number.isNaN(table[j]!)) table[j] = this.fillI(j);
-    return lnCubicAt(table, m, x - m);
+    const length = table.length;
+    const lo = cellOf(length, clampX(length, (0.5 * Math.log(k2Lo) - Q_LN_K0) / this.step)) - 1;
+    const hi = cellOf(length, clampX(length, (0.5 * Math.log(k2Hi) - Q_LN_K0) / this.step)) + 2;
+    for (let j = lo; j <= hi; j++) if (Number.isNaN(table[j]!)) table[j] = this.fillI(j);
   }
 
+  /** The ln Q cells m - 1 .. m + 2 not yet filled. */
+  private fillQCells(m: number): void {
+    const table = this.lnQ;
+    for (let j = m - 1; j <= m + 2; j++) if (Number.isNaN(table[j]!)) table[j] = this.fillQ(j);
+  }
+
+  /** The ln I cells m - 1 .. m + 2 not yet filled. */
+  private fillICells(m: number): void {
+    const table = this.lnI;
+    for (let j = m - 1; j <= m + 2; j++) if (Number.isNaN(table[j]!)) table[j] = this.fillI(j);
+  }
+
+  /** ln I at the cell m: I(K) = Σ_b wy_b P(K^2 + qy_b), the y axis's sum. */
   private fillI(m: number): number {
     const bigK2 = Math.exp(2 * (Q_LN_K0 + m * this.step));
     const { qy, wy, p0 } = this;
@@ -309,11 +388,40 @@ class TransverseNode {
     return s > 0 ? Math.log(s) : -Infinity;
   }
 
+  /** ln Q at the cell m: norm Σ_a wx_a I(k_m^2 + qx_a), I by the lookup of `at` in the ln I table. */
   private fillQ(m: number): number {
     const kz2 = Math.exp(2 * (Q_LN_K0 + m * this.step));
-    const { qx, wx } = this;
+    const { qx, wx, lnI } = this;
+    const length = lnI.length;
     let s = 0;
-    for (let a = 0; a < qx.length; a++) s += wx[a]! * this.iAt(kz2 + qx[a]!);
+    for (let a = 0; a < qx.length; a++) {
+      let x = (0.5 * Math.log(kz2 + qx[a]!) - Q_LN_K0) / this.step;
+      if (x < 0) x = 0;
+      if (x > length - 1) x = length - 1;
+      let c = Math.floor(x);
+      if (c < 1) c = 1;
+      if (c > length - 3) c = length - 3;
+      if (Number.isNaN(lnI[c - 1]!) || Number.isNaN(lnI[c]!) || Number.isNaN(lnI[c + 1]!) || Number.isNaN(lnI[c + 2]!))
+        this.fillICells(c);
+      const y0 = lnI[c - 1]!;
+      const y1 = lnI[c]!;
+      const y2 = lnI[c + 1]!;
+      const y3 = lnI[c + 2]!;
+      const u = x - c;
+      let v: number;
+      if (y0 === -Infinity || y1 === -Infinity || y2 === -Infinity || y3 === -Infinity) {
+        const ea = Math.exp(y1);
+        const eb = Math.exp(y2);
+        v = Math.max(0, (1 - u) * ea + u * eb);
+      } else
+        v = Math.exp(
+          (-u * (u - 1) * (u - 2) * y0) / 6 +
+            ((u + 1) * (u - 1) * (u - 2) * y1) / 2 -
+            ((u + 1) * u * (u - 2) * y2) / 2 +
+            ((u + 1) * u * (u - 1) * y3) / 6,
+        );
+      s += wx[a]! * v;
+    }
     return s > 0 ? Math.log(this.norm * s) : -Infinity;
   }
 }
@@ -377,26 +485,20 @@ function cellOf(length: number, x: number): number {
 }
 
 /**
- * exp of the 4-point Lagrange cubic in ln through the table's ln values m - 1 .. m + 2 at
- * u = x - m; linear in the values where one of the four is -Infinity (a spectrum that
- * underflows, as only synthetic test spectra do).
+ * The cells of a table on the grid of `step` (`size` values) that lookups at these k^2 meet
+ * (each lookup's four), in increasing order.
  */
-function lnCubicAt(table: Float64Array, m: number, u: number): number {
-  const y0 = table[m - 1]!;
-  const y1 = table[m]!;
-  const y2 = table[m + 1]!;
-  const y3 = table[m + 2]!;
-  if (y0 === -Infinity || y1 === -Infinity || y2 === -Infinity || y3 === -Infinity) {
-    const a = Math.exp(y1);
-    const b = Math.exp(y2);
-    return Math.max(0, (1 - u) * a + u * b);
+function lookupCells(k2s: Float64Array, size: number, step: number): Int32Array {
+  const need = new Uint8Array(size);
+  for (let i = 0; i < k2s.length; i++) {
+    const m = cellOf(size, clampX(size, (0.5 * Math.log(k2s[i]!) - Q_LN_K0) / step));
+    need[m - 1] = need[m] = need[m + 1] = need[m + 2] = 1;
   }
-  return Math.exp(
-    (-u * (u - 1) * (u - 2) * y0) / 6 +
-      ((u + 1) * (u - 1) * (u - 2) * y1) / 2 -
-      ((u + 1) * u * (u - 2) * y2) / 2 +
-      ((u + 1) * u * (u - 1) * y3) / 6,
-  );
+  let count = 0;
+  for (let j = 0; j < size; j++) count += need[j]!;
+  const cells = new Int32Array(count);
+  for (let j = 0, c = 0; j < size; j++) if (need[j] === 1) cells[c++] = j;
+  return cells;
 }
 
 /**
@@ -477,6 +579,23 @@ function beyond(node: TransverseNode, kEnd: number): number {
   return s + node.at(kFar * kFar) / (4 * kFar);
 }
 
+/** The k^2 at which beyond(node, kEnd) looks Q up, in its order. */
+function beyondPoints(kEnd: number): number[] {
+  const gl = gaussLegendre(POINTS);
+  const out: number[] = [];
+  let tHi = 1 / kEnd;
+  for (let j = 0; j < 3; j++) {
+    const tLo = tHi / 4;
+    const c = 0.5 * (tHi + tLo);
+    const half = 0.5 * (tHi - tLo);
+    for (let i = 0; i < POINTS; i++) out.push((1 / (c + half * gl.x[i]!)) ** 2);
+    tHi = tLo;
+  }
+  const kFar = 1 / tHi;
+  out.push(kFar * kFar);
+  return out;
+}
+
 /** Panels per chunk of the pass over the rule. */
 const CHUNK_PANELS = 64;
 
@@ -510,10 +629,21 @@ function sumPairs(
   const tol = 1e-9 * (highest - lowest);
   // each node's weights u_q Q(k_q; w_g) over the rule, and its tail
   const gOf = new Map<number, NodeSums>();
+  // every k^2 at which a node's Q is looked up below (the rule's, then beyond's)
+  const kEnd = start + panels * width;
+  const lookups = new Float64Array(nq + POINTS * 3 + 1);
+  for (let q = 0; q < nHead; q++) lookups[q] = rule.k[q]! ** 2;
+  for (let p = 0; p < panels; p++) {
+    const c = start + (p + 0.5) * width;
+    for (let m = 0; m < pp; m++) lookups[nHead + pp * p + m] = (c + 0.5 * width * x[m]!) ** 2;
+  }
+  lookups.set(beyondPoints(kEnd), nq);
+  const cells = lookupCells(lookups, t.size, t.step);
   for (const a of asked)
     for (const g of a.nodes) {
       if (gOf.has(g)) continue;
       const node = transverseNode(power, t, g);
+      node.prepare(cells);
       const gq = new Float64Array(nq);
       for (let q = 0; q < nHead; q++) gq[q] = rule.u[q]! * node.at(rule.k[q]! ** 2);
       for (let p = 0; p < panels; p++) {
@@ -521,7 +651,7 @@ function sumPairs(
         for (let m = 0; m < pp; m++)
           gq[nHead + pp * p + m] = 0.5 * width * gw[m]! * node.at((c + 0.5 * width * x[m]!) ** 2);
       }
-      gOf.set(g, { gq, tail: beyond(node, start + panels * width) });
+      gOf.set(g, { gq, tail: beyond(node, kEnd) });
     }
   const acc = asked.map((a) => new Float64Array(a.nodes.length));
   const gqs = asked.map((a) => a.nodes.map((g) => gOf.get(g)!.gq));
