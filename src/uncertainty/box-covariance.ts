@@ -431,8 +431,26 @@ interface FieldTables {
   size: number;
   rho: number;
   nodes: Map<number, TransverseNode>;
-  /** M_g entries by the slices (their ends) and node g: n x n, NaN where not yet summed. */
-  sums: Map<string, Map<number, Float64Array>>;
+  /** By the slices (their ends): their M_g entries and the pass over their k_z rule. */
+  sums: Map<string, SlicesEntry>;
+}
+
+/** One set of slices' kept numbers. */
+interface SlicesEntry {
+  /** M_g entries by node g: n x n, NaN where not yet summed. */
+  sums: Map<number, Float64Array>;
+  /** The k_z rule and what depends on it alone, made at the first sums asked (sumPairs). */
+  pass?: SlicesPass;
+}
+
+/** What sumPairs makes once per set of slices: another area asks new nodes of the same rule. */
+interface SlicesPass {
+  rule: SlicesRule;
+  nq: number;
+  kEnd: number;
+  /** The ln Q cells the rule's and beyond's lookups meet (lookupCells). */
+  cells: Int32Array;
+  factors: SliceFactors;
 }
 
 const fieldTables = new WeakMap<LinearPower, Map<string, FieldTables>>();
@@ -610,27 +628,48 @@ function sumPairs(
   t: FieldTables,
   lo: Float64Array,
   hi: Float64Array,
-  sums: Map<number, Float64Array>,
+  entry: SlicesEntry,
   asked: { i: number; j: number; nodes: number[] }[],
 ): void {
+  // (the loops are functions of their own: V8 compiled this function whole, with them inlined,
+  // once a plan had called it for a few areas; what depends on the slices alone is made once)
   const n = lo.length;
-  const rule = slicesRule(lo, hi);
-  const { x, gw, width, start, panels } = rule;
-  const nHead = rule.k.length;
-  const pp = x.length;
-  const nq = nHead + pp * panels;
-  const origin = 0.5 * (lo[0]! + hi[0]!);
-  let lowest = Infinity;
-  let highest = -Infinity;
-  for (let i = 0; i < n; i++) {
-    lowest = Math.min(lowest, lo[i]!);
-    highest = Math.max(highest, hi[i]!);
-  }
-  const tol = 1e-9 * (highest - lowest);
+  const pass = (entry.pass ??= slicesPass(t, lo, hi));
+  const { rule, nq, kEnd, cells, factors: f } = pass;
   // each node's weights u_q Q(k_q; w_g) over the rule, and its tail
   const gOf = new Map<number, NodeSums>();
-  // every k^2 at which a node's Q is looked up below (the rule's, then beyond's)
-  const kEnd = start + panels * width;
+  for (const a of asked)
+    for (const g of a.nodes) {
+      if (gOf.has(g)) continue;
+      const node = transverseNode(power, t, g);
+      node.prepare(cells);
+      gOf.set(g, { gq: nodeWeights(node, rule, nq), tail: beyond(node, kEnd) });
+    }
+  const acc = asked.map((a) => new Float64Array(a.nodes.length));
+  const gqs = asked.map((a) => a.nodes.map((g) => gOf.get(g)!.gq));
+  f.reset();
+  accumulate(asked, gqs, acc, f.headRe, f.headIm, rule.k.length, 0, rule.k.length);
+  for (let p0 = 0; p0 < rule.panels; p0 += CHUNK_PANELS) {
+    const np = Math.min(CHUNK_PANELS, rule.panels - p0);
+    for (let i = 0; i < n; i++) f.panels(i, p0, np);
+    accumulate(asked, gqs, acc, f.re, f.im, f.chunk, rule.k.length + rule.x.length * p0, rule.x.length * np);
+  }
+  storePairs(lo, hi, entry.sums, asked, acc, gOf);
+}
+
+function slicesPass(t: FieldTables, lo: Float64Array, hi: Float64Array): SlicesPass {
+  const rule = slicesRule(lo, hi);
+  const nq = rule.k.length + rule.x.length * rule.panels;
+  const kEnd = rule.start + rule.panels * rule.width;
+  const cells = lookupCells(ruleLookups(rule, nq, kEnd), t.size, t.step);
+  return { rule, nq, kEnd, cells, factors: new SliceFactors(lo, hi, rule) };
+}
+
+/** Every k^2 at which sumPairs looks a node's Q up: the rule's, then beyond's (kEnd the rule's end). */
+function ruleLookups(rule: SlicesRule, nq: number, kEnd: number): Float64Array {
+  const { x, width, start, panels } = rule;
+  const nHead = rule.k.length;
+  const pp = x.length;
   const lookups = new Float64Array(nq + POINTS * 3 + 1);
   for (let q = 0; q < nHead; q++) lookups[q] = rule.k[q]! ** 2;
   for (let p = 0; p < panels; p++) {
@@ -638,101 +677,161 @@ function sumPairs(
     for (let m = 0; m < pp; m++) lookups[nHead + pp * p + m] = (c + 0.5 * width * x[m]!) ** 2;
   }
   lookups.set(beyondPoints(kEnd), nq);
-  const cells = lookupCells(lookups, t.size, t.step);
-  for (const a of asked)
-    for (const g of a.nodes) {
-      if (gOf.has(g)) continue;
-      const node = transverseNode(power, t, g);
-      node.prepare(cells);
-      const gq = new Float64Array(nq);
-      for (let q = 0; q < nHead; q++) gq[q] = rule.u[q]! * node.at(rule.k[q]! ** 2);
-      for (let p = 0; p < panels; p++) {
-        const c = start + (p + 0.5) * width;
-        for (let m = 0; m < pp; m++)
-          gq[nHead + pp * p + m] = 0.5 * width * gw[m]! * node.at((c + 0.5 * width * x[m]!) ** 2);
-      }
-      gOf.set(g, { gq, tail: beyond(node, kEnd) });
-    }
-  const acc = asked.map((a) => new Float64Array(a.nodes.length));
-  const gqs = asked.map((a) => a.nodes.map((g) => gOf.get(g)!.gq));
-  // per slice: e^{i width c} and e^{i width A} (the steps), e^{i p width c} and e^{i p width A}
-  // at the chunk's first panel p (the state), and each Gauss-Legendre node's offset in the first panel
-  const centre = new Float64Array(n);
-  const halfDepth = new Float64Array(n);
-  const stepC = new Float64Array(2 * n);
-  const stepA = new Float64Array(2 * n);
-  const stateC = new Float64Array(2 * n);
-  const stateA = new Float64Array(2 * n);
-  const offC = new Float64Array(2 * n * pp);
-  const offA = new Float64Array(2 * n * pp);
-  for (let i = 0; i < n; i++) {
-    centre[i] = 0.5 * (lo[i]! + hi[i]!) - origin;
-    halfDepth[i] = 0.5 * (hi[i]! - lo[i]!);
-    stepC[2 * i] = Math.cos(width * centre[i]!);
-    stepC[2 * i + 1] = Math.sin(width * centre[i]!);
-    stepA[2 * i] = Math.cos(width * halfDepth[i]!);
-    stepA[2 * i + 1] = Math.sin(width * halfDepth[i]!);
-    stateC[2 * i] = stateA[2 * i] = 1;
-    for (let m = 0; m < pp; m++) {
-      const k = start + 0.5 * width * (1 + x[m]!);
-      offC[2 * (i * pp + m)] = Math.cos(k * centre[i]!);
-      offC[2 * (i * pp + m) + 1] = Math.sin(k * centre[i]!);
-      offA[2 * (i * pp + m)] = Math.cos(k * halfDepth[i]!);
-      offA[2 * (i * pp + m) + 1] = Math.sin(k * halfDepth[i]!);
-    }
+  return lookups;
+}
+
+/** A node's weights u_q Q(k_q; w_g) over the rule's nq nodes. */
+function nodeWeights(node: TransverseNode, rule: SlicesRule, nq: number): Float64Array {
+  const { x, gw, width, start, panels } = rule;
+  const nHead = rule.k.length;
+  const pp = x.length;
+  const gq = new Float64Array(nq);
+  for (let q = 0; q < nHead; q++) gq[q] = rule.u[q]! * node.at(rule.k[q]! ** 2);
+  for (let p = 0; p < panels; p++) {
+    const c = start + (p + 0.5) * width;
+    for (let m = 0; m < pp; m++)
+      gq[nHead + pp * p + m] = 0.5 * width * gw[m]! * node.at((c + 0.5 * width * x[m]!) ** 2);
   }
-  const chunk = Math.max(nHead, pp * CHUNK_PANELS);
-  const re = new Float64Array(n * chunk);
-  const im = new Float64Array(n * chunk);
-  // the graded head, then the uniform panels CHUNK_PANELS at a time
-  for (let i = 0; i < n; i++)
-    for (let q = 0; q < nHead; q++) {
-      const k = rule.k[q]!;
-      const s = sinc(k * halfDepth[i]!);
-      re[i * chunk + q] = s * Math.cos(k * centre[i]!);
-      im[i * chunk + q] = s * Math.sin(k * centre[i]!);
-    }
-  accumulate(asked, gqs, acc, re, im, chunk, 0, nHead);
-  for (let p0 = 0; p0 < panels; p0 += CHUNK_PANELS) {
-    const np = Math.min(CHUNK_PANELS, panels - p0);
+  return gq;
+}
+
+/**
+ * The slices' factors e_i = sinc(k L_i / 2) e^{i k c_i}: made at construction for the graded head
+ * (`headRe`, `headIm`: slice i's from i * nHead), then by `panels` for CHUNK_PANELS uniform panels
+ * of the rule at a time (`re`, `im`: slice i's from i * chunk), from the state `reset` sets. Per slice: e^{i width c} and e^{i width A} (the steps),
+ * e^{i p width c} and e^{i p width A} at the chunk's first panel p (the state), and each
+ * Gauss-Legendre node's offset in the first panel.
+ */
+class SliceFactors {
+  readonly chunk: number;
+  readonly re: Float64Array;
+  readonly im: Float64Array;
+  readonly headRe: Float64Array;
+  readonly headIm: Float64Array;
+  private readonly start: number;
+  private readonly width: number;
+  private readonly x: Float64Array;
+  private readonly halfDepth: Float64Array;
+  private readonly stepC: Float64Array;
+  private readonly stepA: Float64Array;
+  private readonly stateC: Float64Array;
+  private readonly stateA: Float64Array;
+  private readonly offC: Float64Array;
+  private readonly offA: Float64Array;
+
+  constructor(lo: Float64Array, hi: Float64Array, rule: SlicesRule) {
+    const n = lo.length;
+    const { x, width, start } = rule;
+    const pp = x.length;
+    const nHead = rule.k.length;
+    this.start = start;
+    this.width = width;
+    this.x = x;
+    const origin = 0.5 * (lo[0]! + hi[0]!);
+    const centre = new Float64Array(n);
+    const halfDepth = (this.halfDepth = new Float64Array(n));
+    const stepC = (this.stepC = new Float64Array(2 * n));
+    const stepA = (this.stepA = new Float64Array(2 * n));
+    this.stateC = new Float64Array(2 * n);
+    this.stateA = new Float64Array(2 * n);
+    const offC = (this.offC = new Float64Array(2 * n * pp));
+    const offA = (this.offA = new Float64Array(2 * n * pp));
     for (let i = 0; i < n; i++) {
-      let cr = stateC[2 * i]!;
-      let ci = stateC[2 * i + 1]!;
-      let ar = stateA[2 * i]!;
-      let ai = stateA[2 * i + 1]!;
-      const sr = stepC[2 * i]!;
-      const si = stepC[2 * i + 1]!;
-      const tr = stepA[2 * i]!;
-      const ti = stepA[2 * i + 1]!;
-      const a = halfDepth[i]!;
-      for (let p = 0; p < np; p++) {
-        const kc = start + (p0 + p) * width;
-        for (let m = 0; m < pp; m++) {
-          const o = 2 * (i * pp + m);
-          const k = kc + 0.5 * width * (1 + x[m]!);
-          // e^{i k c} and sin(k A) = Im e^{i k A}
-          const er = cr * offC[o]! - ci * offC[o + 1]!;
-          const ei = cr * offC[o + 1]! + ci * offC[o]!;
-          const sinKA = ar * offA[o + 1]! + ai * offA[o]!;
-          const kA = k * a;
-          const s = kA < 1e-4 ? 1 - (kA * kA) / 6 : sinKA / kA;
-          re[i * chunk + pp * p + m] = s * er;
-          im[i * chunk + pp * p + m] = s * ei;
-        }
-        const ncr = cr * sr - ci * si;
-        ci = cr * si + ci * sr;
-        cr = ncr;
-        const nar = ar * tr - ai * ti;
-        ai = ar * ti + ai * tr;
-        ar = nar;
+      centre[i] = 0.5 * (lo[i]! + hi[i]!) - origin;
+      halfDepth[i] = 0.5 * (hi[i]! - lo[i]!);
+      stepC[2 * i] = Math.cos(width * centre[i]!);
+      stepC[2 * i + 1] = Math.sin(width * centre[i]!);
+      stepA[2 * i] = Math.cos(width * halfDepth[i]!);
+      stepA[2 * i + 1] = Math.sin(width * halfDepth[i]!);
+      for (let m = 0; m < pp; m++) {
+        const k = start + 0.5 * width * (1 + x[m]!);
+        offC[2 * (i * pp + m)] = Math.cos(k * centre[i]!);
+        offC[2 * (i * pp + m) + 1] = Math.sin(k * centre[i]!);
+        offA[2 * (i * pp + m)] = Math.cos(k * halfDepth[i]!);
+        offA[2 * (i * pp + m) + 1] = Math.sin(k * halfDepth[i]!);
       }
-      stateC[2 * i] = cr;
-      stateC[2 * i + 1] = ci;
-      stateA[2 * i] = ar;
-      stateA[2 * i + 1] = ai;
     }
-    accumulate(asked, gqs, acc, re, im, chunk, nHead + pp * p0, pp * np);
+    const chunk = (this.chunk = pp * CHUNK_PANELS);
+    this.re = new Float64Array(n * chunk);
+    this.im = new Float64Array(n * chunk);
+    const re = (this.headRe = new Float64Array(n * nHead));
+    const im = (this.headIm = new Float64Array(n * nHead));
+    // the graded head
+    for (let i = 0; i < n; i++)
+      for (let q = 0; q < nHead; q++) {
+        const k = rule.k[q]!;
+        const s = sinc(k * halfDepth[i]!);
+        re[i * nHead + q] = s * Math.cos(k * centre[i]!);
+        im[i * nHead + q] = s * Math.sin(k * centre[i]!);
+      }
   }
+
+  /** Every slice's state back at the first uniform panel (e^{i 0} = 1). */
+  reset(): void {
+    for (let i = 0; i < this.halfDepth.length; i++) {
+      this.stateC[2 * i] = this.stateA[2 * i] = 1;
+      this.stateC[2 * i + 1] = this.stateA[2 * i + 1] = 0;
+    }
+  }
+
+  /** Slice i's factors over the uniform panels p0 .. p0 + np - 1, from its state at p0 (then moved on). */
+  panels(i: number, p0: number, np: number): void {
+    const { x, start, width, chunk, re, im, stateC, stateA, stepC, stepA, offC, offA } = this;
+    const pp = x.length;
+    let cr = stateC[2 * i]!;
+    let ci = stateC[2 * i + 1]!;
+    let ar = stateA[2 * i]!;
+    let ai = stateA[2 * i + 1]!;
+    const sr = stepC[2 * i]!;
+    const si = stepC[2 * i + 1]!;
+    const tr = stepA[2 * i]!;
+    const ti = stepA[2 * i + 1]!;
+    const a = this.halfDepth[i]!;
+    for (let p = 0; p < np; p++) {
+      const kc = start + (p0 + p) * width;
+      for (let m = 0; m < pp; m++) {
+        const o = 2 * (i * pp + m);
+        const k = kc + 0.5 * width * (1 + x[m]!);
+        // e^{i k c} and sin(k A) = Im e^{i k A}
+        const er = cr * offC[o]! - ci * offC[o + 1]!;
+        const ei = cr * offC[o + 1]! + ci * offC[o]!;
+        const sinKA = ar * offA[o + 1]! + ai * offA[o]!;
+        const kA = k * a;
+        const s = kA < 1e-4 ? 1 - (kA * kA) / 6 : sinKA / kA;
+        re[i * chunk + pp * p + m] = s * er;
+        im[i * chunk + pp * p + m] = s * ei;
+      }
+      const ncr = cr * sr - ci * si;
+      ci = cr * si + ci * sr;
+      cr = ncr;
+      const nar = ar * tr - ai * ti;
+      ai = ar * ti + ai * tr;
+      ar = nar;
+    }
+    stateC[2 * i] = cr;
+    stateC[2 * i + 1] = ci;
+    stateA[2 * i] = ar;
+    stateA[2 * i + 1] = ai;
+  }
+}
+
+/** Each asked entry M_g,ij: its sum plus the zero-frequency part of the tail. */
+function storePairs(
+  lo: Float64Array,
+  hi: Float64Array,
+  sums: Map<number, Float64Array>,
+  asked: readonly { i: number; j: number; nodes: number[] }[],
+  acc: readonly Float64Array[],
+  gOf: Map<number, NodeSums>,
+): void {
+  const n = lo.length;
+  let lowest = Infinity;
+  let highest = -Infinity;
+  for (let i = 0; i < n; i++) {
+    lowest = Math.min(lowest, lo[i]!);
+    highest = Math.max(highest, hi[i]!);
+  }
+  const tol = 1e-9 * (highest - lowest);
   asked.forEach(({ i, j, nodes }, p) => {
     // the zero-frequency part of Re[e_i e_j^*] L_i L_j k^2 beyond kMax: cos of the ends' differences
     let c0 = 0;
@@ -843,11 +942,12 @@ export function sliceCorrelations(power: LinearPower, slices: readonly SliceBox[
   }
   const t = tablesFor(power, rho);
   const key = `${n} ${Array.from(lo).join(',')} ${Array.from(hi).join(',')}`;
-  let sums = t.sums.get(key);
-  if (!sums) {
+  let entry = t.sums.get(key);
+  if (!entry) {
     if (t.sums.size >= 64) t.sums.delete(t.sums.keys().next().value!);
-    t.sums.set(key, (sums = new Map<number, Float64Array>()));
+    t.sums.set(key, (entry = { sums: new Map<number, Float64Array>() }));
   }
+  const sums = entry.sums;
   // each pair's nodes and Lagrange weights in ln w
   const nodeOf = new Int32Array(n * n);
   const weightOf = new Float64Array(4 * n * n);
@@ -871,7 +971,7 @@ export function sliceCorrelations(power: LinearPower, slices: readonly SliceBox[
       }
       if (lacking.length > 0) asked.push({ i, j, nodes: lacking });
     }
-  if (asked.length > 0) sumPairs(power, t, lo, hi, sums, asked);
+  if (asked.length > 0) sumPairs(power, t, lo, hi, entry, asked);
   const c = new Float64Array(n * n);
   for (let i = 0; i < n; i++)
     for (let j = i; j < n; j++) {
