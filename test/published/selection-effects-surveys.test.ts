@@ -179,4 +179,31 @@ slices: {count: 1}
     expect(1.2).toBeLessThan(flat);
     expect(1.2).toBeGreaterThan(red);
   });
+
+  test("a stricter equivalent-width cut than the function's own (docs/survey-file.md): z = 2.2 Lyman-alpha emitters of rest width above 20 A (Konno et al. 2016, ApJ 823, 20; from memory) cut at 50 A keep exp(-30 / W0) of them for exponential widths", () => {
+    // Konno et al. 2016 (from memory): L* = 5.29e42 erg/s, phi* = 6.32e-4 Mpc^-3, alpha = -1.75, of
+    // emitters above 20 A at rest; widths exponential with W0 = 50 A at z ~ 2 (Ciardullo et al.
+    // 2012, ApJ 744, 110; from memory). NB387 as a top hat at 3870 A, FWHM 94 A (from memory).
+    const text = (cut: string) => `format: 1
+title: Konno-like z = 2.2 Lyman-alpha emitters (published check)
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1.43
+detection: {kind: line_flux, limit: 2e-17, line: 1215.67, filter: {center: 3870, fwhm: 94, profile: tophat}${cut}}
+population:
+  name: LAEs
+  variable: luminosity
+  phi_star: 6.32e-4
+  l_star: 5.29e42
+  alpha: -1.75
+  bias: 1.8
+${cut ? '  equivalent_widths: {model: exponential, scale: 50}\n' : ''}slices: {count: 1}
+`;
+    const all = predict(loadSurveyText(text(''), 'konno-like.yaml'), { noUncertainty: true }).totals.count;
+    const strict = predict(loadSurveyText(text(', equivalent_width_cut: {rest: 30}'), 'konno-50a.yaml'), {
+      noUncertainty: true,
+    }).totals.count;
+    // an exponential is memoryless: P(W > 50 | W > 20) = exp(-(50 - 20) / 50) (definition); the
+    // count is that fraction of the function's own to rounding
+    close(strict / all, Math.exp(-30 / 50), 1e-12);
+  });
 });
