@@ -4,6 +4,7 @@ import {
   addNoPngOption,
   addOutputOptions,
   loadSurveyArg,
+  noteNoPngWithoutFigures,
   outputOptions,
   parseInteger,
   printWarnings,
@@ -52,6 +53,7 @@ export const planCommand: CommandDef = {
       ...(io.stderrIsTTY ? { onProgress: progressBar(io) } : {}),
     });
     printWarnings(io, result.warnings);
+    noteNoPngWithoutFigures(io, 'plan', raw);
     // The tables (and cli-table3) are loaded only for the table and CSV formats.
     const tables = out.format === 'json' ? undefined : await import('../../render/plan-table.js');
     outputs.setMain(
