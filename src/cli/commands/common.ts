@@ -93,22 +93,31 @@ export function outputOptions(opts: Record<string, unknown>): OutputOptions {
   return o;
 }
 
-export async function loadSurveyArg(io: CliIO, file: string) {
+/**
+ * A survey file as every command reads it: loaded, and its plan section (when it has one) checked
+ * as plan reads it, so that a mistyped or impossible plan key is refused by every command, not
+ * only by plan. `population` is the --population the command was given, if any.
+ */
+export async function loadSurveyArg(io: CliIO, file: string, population?: string) {
   const { loadSurveyFile } = await surveyLoader();
-  return loadSurveyFile(resolve(io.cwd, file));
+  const survey = loadSurveyFile(resolve(io.cwd, file));
+  await checkPlanSection(survey, population);
+  return survey;
 }
 
 /**
- * A survey's plan section read as plan and report read it (for the file's first population), so
- * that check and explore refuse a mistyped or impossible plan key too; a threshold survey's plan,
- * which report leaves out, passes.
+ * A survey's plan section read as plan and report read it, for the population named (the file's
+ * first when none is, or when no population has that name: the command refuses the name itself), so
+ * that every command refuses a mistyped or impossible plan key too; a threshold survey's plan, which
+ * report leaves out, passes.
  */
-export async function checkPlanSection(survey: Survey): Promise<void> {
+export async function checkPlanSection(survey: Survey, population?: string): Promise<void> {
   const raw = survey.raw as Record<string, unknown> | null | undefined;
   if (raw === null || typeof raw !== 'object' || raw.plan === undefined) return;
   const { readPlanSection } = await surveyLoader();
+  const named = population === undefined ? undefined : survey.populations.find((p) => p.name === population);
   try {
-    readPlanSection(survey, survey.populations[0]!);
+    readPlanSection(survey, named ?? survey.populations[0]!);
   } catch (e) {
     if (!(e instanceof SurveyError && e.code === 'kind_mismatch' && survey.detection.kind === 'threshold')) throw e;
   }

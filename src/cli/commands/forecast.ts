@@ -91,7 +91,7 @@ export const forecastCommand: CommandDef = {
     outputs.refuseInputs([file]);
     const draw = typeof raw.figures === 'string' ? await import('../figures.js') : undefined;
     const keepFits = raw.listMockFits === true;
-    const survey = await loadSurveyArg(io, file);
+    const survey = await loadSurveyArg(io, file, typeof raw.population === 'string' ? raw.population : undefined);
     outputs.refuseInputs(survey.inputs ?? []);
     const { forecast } = await import('../../forecast/forecast.js');
     const { choosePopulation } = await import('../../model/select.js');

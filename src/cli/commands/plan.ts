@@ -40,7 +40,7 @@ export const planCommand: CommandDef = {
     });
     outputs.refuseInputs([file]);
     const draw = typeof raw.figures === 'string' ? await import('../figures.js') : undefined;
-    const survey = await loadSurveyArg(io, file);
+    const survey = await loadSurveyArg(io, file, typeof raw.population === 'string' ? raw.population : undefined);
     outputs.refuseInputs(survey.inputs ?? []);
     const { plan } = await import('../../library/plan.js');
     // the population named as the command line names it (the library says options.population)
