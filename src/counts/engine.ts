@@ -175,9 +175,11 @@ function defaultNodeCount(z1: number, z2: number): number {
 
 /**
  * The smallest Gauss-Legendre order (8, 16, 32, 64, 128 or 256, at least the default for the
- * width) whose integral of `f` agrees with the next order to `rel`. The hard-limit count
+ * width) whose integral of `f` agrees with the next order to `rel` (or `abs`). The hard-limit count
  * integrand is cheap, and its variation in z (volume, distance, filter transmission) is what the
- * full computation sees too.
+ * full computation sees too. With `g` (the count weighted by something the integrand does not
+ * hold, such as a bias given as an expression with a narrow feature), its integral must agree too
+ * (to `rel` or `gAbs`).
  */
 export function chooseRedshiftNodes(
   z1: number,
@@ -186,17 +188,27 @@ export function chooseRedshiftNodes(
   rel = 1e-8,
   nStart = defaultNodeCount(z1, z2),
   abs = 0,
+  g?: (z: number) => number,
+  gAbs = 0,
 ): { z: number[]; w: number[] } {
   let n = nStart;
   let prev = redshiftNodes(z1, z2, n);
   let prevSum = sumOver(prev, f);
+  let prevG = g ? sumOver(prev, g) : 0;
   while (n < 256) {
     const next = redshiftNodes(z1, z2, 2 * n);
     const nextSum = sumOver(next, f);
-    if (Math.abs(nextSum - prevSum) <= Math.max(rel * Math.abs(nextSum), abs)) return prev;
+    let agree = Math.abs(nextSum - prevSum) <= Math.max(rel * Math.abs(nextSum), abs);
+    let nextG = 0;
+    if (g) {
+      nextG = sumOver(next, g);
+      agree &&= Math.abs(nextG - prevG) <= Math.max(rel * Math.abs(nextG), gAbs);
+    }
+    if (agree) return prev;
     n *= 2;
     prev = next;
     prevSum = nextSum;
+    prevG = nextG;
   }
   return prev;
 }
@@ -206,21 +218,28 @@ export function chooseRedshiftNodes(
  * convergence of `f` (one piece: exactly chooseRedshiftNodes). With several pieces, each converges
  * to 1e-8 of its own integral or 1e-9 of the whole (a piece holding almost nothing need not converge
  * alone), starting from nStart nodes (2; 8 where the cuts follow a completeness curve, whose effect
- * `f`, the count without completeness, does not show).
+ * `f`, the count without completeness, does not show). With `g`, its integral converges likewise.
  */
 export function piecewiseRedshiftNodes(
   cuts: readonly number[],
   f: (z: number) => number,
   nStart = 2,
+  g?: (z: number) => number,
 ): { z: number[]; w: number[] } {
-  if (cuts.length === 2) return chooseRedshiftNodes(cuts[0]!, cuts[1]!, f);
+  if (cuts.length === 2) return chooseRedshiftNodes(cuts[0]!, cuts[1]!, f, 1e-8, undefined, 0, g);
   let estimate = 0;
-  for (let k = 0; k + 1 < cuts.length; k++) estimate += sumOver(redshiftNodes(cuts[k]!, cuts[k + 1]!, 8), f);
+  let estimateG = 0;
+  for (let k = 0; k + 1 < cuts.length; k++) {
+    const eight = redshiftNodes(cuts[k]!, cuts[k + 1]!, 8);
+    estimate += sumOver(eight, f);
+    if (g) estimateG += sumOver(eight, g);
+  }
   const abs = 1e-9 * Math.abs(estimate);
+  const gAbs = 1e-9 * Math.abs(estimateG);
   const z: number[] = [];
   const w: number[] = [];
   for (let k = 0; k + 1 < cuts.length; k++) {
-    const piece = chooseRedshiftNodes(cuts[k]!, cuts[k + 1]!, f, 1e-8, nStart, abs);
+    const piece = chooseRedshiftNodes(cuts[k]!, cuts[k + 1]!, f, 1e-8, nStart, abs, g, gAbs);
     z.push(...piece.z);
     w.push(...piece.w);
   }
@@ -614,7 +633,19 @@ function buildNodes(
   // weights these nodes by it; a phi* row cutting a piece near a measured edge, at most
   // sigma (1 + z) wide, moved the slices by 2.7e-6).
   const nStart = crossings.length > 0 || rows.length > 0 ? 8 : 2;
-  const { z, w } = piecewiseRedshiftNodes([lo, ...inner, hi], hardCount, nStart);
+  // A bias given as a table or an expression with kinks or a narrow feature: the totals weight the
+  // nodes' counts by it (src/uncertainty/prediction.ts totalUncertainty), so the nodes cut where it
+  // does and converge for the bias-weighted count too (a total holding the spike of a bias
+  // 1.5 + 2 exp(-((z - 1.37)/0.003)^2) had its bias 5.9e-3 off, one with a table stepping over
+  // 0.002 inside a slice 1.3e-3)
+  const biasCuts = biasBreaks(population, lo, hi);
+  const bias = biasCuts.length > 0 && population.bias !== 'auto' ? population.bias.at : undefined;
+  if (bias) {
+    inner.push(...biasCuts);
+    inner.sort((x, y) => x - y);
+  }
+  const weighted = bias ? (zi: number) => hardCount(zi) * bias(zi) : undefined;
+  const { z, w } = piecewiseRedshiftNodes([lo, ...inner, hi], hardCount, nStart, weighted);
   const nodes: NodeState[] = [];
   for (let i = 0; i < z.length; i++) {
     const zi = z[i]!;
@@ -763,6 +794,21 @@ export function parameterBreaks(population: Population, lo: number, hi: number):
     if (p?.features) out.push(...p.features(lo, hi));
   }
   return out;
+}
+
+/**
+ * Redshifts strictly inside (lo, hi) where a bias given as a table has a row, or as an expression a
+ * kink or a narrow feature (ZParam `kinks`, `features`): the totals' bias and cosmic variance weight
+ * the count's redshift nodes by it. Empty for bias auto, a number or a smooth expression.
+ */
+export function biasBreaks(population: Population, lo: number, hi: number): number[] {
+  const b = population.bias;
+  if (b === 'auto' || b.constant) return [];
+  const out: number[] = [];
+  if (typeof b.source === 'object') for (const [zt] of b.source.table) out.push(zt);
+  if (b.kinks) out.push(...b.kinks(lo, hi));
+  if (b.features) out.push(...b.features(lo, hi));
+  return keptBreaks(out, lo, hi);
 }
 
 /**

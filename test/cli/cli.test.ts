@@ -261,6 +261,11 @@ describe('check', () => {
         /plan\.budget_hour: unknown key "budget_hour" \(did you mean budget_hours\?\)/,
       ],
       [
+        'nested.yaml',
+        text.replace('  exposure_grid: {min_hours:', '  exposure_grid: {mn_hours:'),
+        /plan\.exposure_grid\.mn_hours: unknown key "mn_hours" \(did you mean min_hours\?\)/,
+      ],
+      [
         'budget.yaml',
         text.replace('  budget_hours: 150', '  budget_hours: 0.05'),
         /plan\.exposure_grid\.min_hours: .*raise budget_hours/,
@@ -277,6 +282,19 @@ describe('check', () => {
       expect(checked.stderr, name).toMatch(message);
       const planned = await runCli(['plan', file]);
       expect([planned.code, planned.stderr], name).toEqual([2, checked.stderr]);
+      // every other command that reads the file refuses it the same way (failed before: predict,
+      // forecast, compare, distances --survey and clustering --survey read past the plan, exit 0)
+      for (const argv of [
+        ['predict', file],
+        ['forecast', file],
+        ['compare', file, 'samples/deep-continuum.yaml'],
+        ['report', file, '--format', 'json'],
+        ['distances', '--z', '1', '--survey', file],
+        ['clustering', '--z', '1', '--survey', file],
+      ]) {
+        const r = await runCli(argv);
+        expect([r.code, r.stdout, r.stderr], `${name}: ${argv.join(' ')}`).toEqual([2, '', checked.stderr]);
+      }
       // explore reads the plan for its exposure control: the same refusal, no page (failed before:
       // a page without the control, exit 0)
       const page = join(dir, `${name}.html`);

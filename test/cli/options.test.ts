@@ -5,7 +5,7 @@
  */
 import { tempDir } from '../support/temp.js';
 import fc from 'fast-check';
-import { readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { runCli, type Captured } from './helpers.js';
@@ -373,4 +373,106 @@ describe('options of the mock fits without mocks', () => {
       expect(r.stderr).toContain('applies to the fits of mock surveys, but none are drawn; add --mocks N');
     },
   );
+});
+
+describe('options that would change nothing for the file or the other options', () => {
+  // An option asking for something the run cannot give is refused (as forecast --model-draws is on
+  // a file without model_uncertainty); one that only fixes how work not done would be done (a seed
+  // where nothing is drawn, --no-png without --figures) leaves the output as it is, with a note.
+  test.each([
+    [['predict', 'samples/halpha-narrowband.yaml', '--draws', '100'], 'no population has a model_uncertainty block'],
+    [
+      ['report', 'samples/halpha-narrowband.yaml', '--draws', '100', '--format', 'json'],
+      'no population has a model_uncertainty block',
+    ],
+    [
+      ['predict', 'test/reference/surveys-model/narrowband-draws-file.yaml', '--draws', '100'],
+      "every population's model_uncertainty is a draws_file, whose rows are each drawn once",
+    ],
+  ])('%j is refused naming the option and the file (failed before: exit 0, --draws ignored)', async (argv, what) => {
+    const out = join(dir, `draws-${argv[0]}.json`);
+    const r = await runCli([...argv, '--out', out]);
+    refusedOption(r, argv[0]!, '--draws');
+    expect(r.stderr).toMatch(new RegExp(`^skytally: ${argv[0]} --draws: \\S*\\.yaml: `));
+    expect(r.stderr).toContain(what);
+    expect(existsSync(out)).toBe(false);
+  });
+
+  test('predict --draws on a file with model_uncertainty is taken (no note, no refusal)', async () => {
+    const r = await runCli([
+      'predict',
+      'samples/mass-limited.yaml',
+      '--draws',
+      '50',
+      '--seed',
+      '2',
+      '--format',
+      'json',
+    ]);
+    expect(r.code, r.stderr).toBe(0);
+    expect(r.stderr).not.toContain('note:');
+    expect(
+      (JSON.parse(r.stdout) as { totals: { luminosity_density: { model: { draws: number } } } }).totals
+        .luminosity_density.model.draws,
+    ).toBe(50);
+  });
+
+  test.each([
+    [
+      ['predict', 'samples/halpha-narrowband.yaml', '--seed', '7'],
+      '--seed',
+      'no population has a model_uncertainty block',
+    ],
+    [
+      ['predict', 'test/reference/surveys-model/narrowband-draws-file.yaml', '--seed', '7'],
+      '--seed',
+      'draws_file, read row by row',
+    ],
+    [['forecast', 'samples/halpha-narrowband.yaml', '--seed', '7'], '--seed', 'no --mocks, and no --model-draws'],
+    [
+      ['forecast', 'test/reference/surveys-model/narrowband-draws-file.yaml', '--model-draws', '5', '--seed', '7'],
+      '--seed',
+      'the rows of the draws_file',
+    ],
+    [['report', 'samples/halpha-narrowband.yaml', '--seed', '7', '--format', 'json'], '--seed', 'no --mocks'],
+    [['predict', 'samples/halpha-narrowband.yaml', '--no-png'], '--no-png', 'without --figures DIR'],
+    [['forecast', 'samples/halpha-narrowband.yaml', '--no-png'], '--no-png', 'without --figures DIR'],
+    [['plan', 'samples/plan-halpha-layers.yaml', '--no-png'], '--no-png', 'without --figures DIR'],
+    [['report', 'samples/halpha-narrowband.yaml', '--no-png', '--format', 'json'], '--no-png', 'without --figures DIR'],
+    // a count goal: cosmic variance enters a plan only through a sigma goal (failed before: no word)
+    [
+      [
+        'plan',
+        surveyWith('goal: {sigma: log10_l_star}', 'goal: count', 'samples/plan-halpha-layers.yaml'),
+        '--no-cosmic-variance',
+      ],
+      '--no-cosmic-variance',
+      'the goal is the count, which cosmic variance does not enter',
+    ],
+  ])(
+    '%j gives the output it gives without the option, and one note naming it (failed before: no word)',
+    async (argv, flag, why) => {
+      const i = argv.indexOf(flag);
+      const without = argv.filter((_, k) => k !== i && !(flag === '--seed' && k === i + 1));
+      const [r, plain] = [await runCli(argv), await runCli(without)];
+      expect(r.code, r.stderr).toBe(0);
+      expect(r.stdout).toBe(plain.stdout);
+      const notes = r.stderr.split('\n').filter((l) => l.startsWith('skytally: note:'));
+      expect(notes).toHaveLength(1);
+      expect(notes[0]).toMatch(new RegExp(`^skytally: note: ${argv[0]} ${flag}: .*, so it changes nothing\\.$`));
+      expect(notes[0]).toContain(why);
+      expect(plain.stderr).not.toContain('note:');
+    },
+  );
+
+  test.each([
+    [['predict', 'samples/mass-limited.yaml', '--seed', '7', '--format', 'json']],
+    [['forecast', 'samples/halpha-narrowband.yaml', '--mocks', '3', '--seed', '7', '--format', 'json']],
+    [['report', 'samples/mass-limited.yaml', '--seed', '7', '--format', 'json']],
+    [['plan', 'samples/plan-halpha-layers.yaml', '--no-cosmic-variance', '--format', 'json']],
+  ])('%j: the option changes the output, so there is no note', async (argv) => {
+    const r = await runCli(argv);
+    expect(r.code, r.stderr).toBe(0);
+    expect(r.stderr).not.toContain('note:');
+  });
 });

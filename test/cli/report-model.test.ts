@@ -8,8 +8,8 @@
  *   read back, within half a unit of its third significant digit of the JSON value.
  * - The prediction inside the report makes the same draws as `predict --draws N --seed S`.
  * - The same seed gives a byte-identical HTML report; another seed other ranges.
- * - Without model_uncertainty, --draws and --seed change nothing (a file without it reports as
- *   before, and no spread is shown).
+ * - Without model_uncertainty, --draws is refused (there is nothing to draw: exit 2, one sentence,
+ *   nothing written) and --seed changes nothing (the same report, no spread shown, and a note).
  * - A bad --draws is bad input: exit 2, one sentence, nothing written.
  */
 import { existsSync, readFileSync } from 'node:fs';
@@ -132,20 +132,31 @@ describe('report with model_uncertainty: the forecast sigmas across the model', 
 
 describe('report without model_uncertainty', () => {
   test(
-    '--draws and --seed change nothing and no spread is shown',
+    '--seed changes nothing (with a note), --draws is refused, and no spread is shown',
     async () => {
       const dir = tempDir('skytally-report-model-');
-      const drawn = join(dir, 'drawn.html');
+      const seeded = join(dir, 'seeded.html');
       // the report without --draws and --seed: `report samples/deep-continuum.yaml --out ...`, made
       // once per run (test/support/sample-reports.ts)
       const plain = await sampleReport('deep-continuum.yaml');
       expect(plain.result.code).toBe(0);
-      expect((await runCli(['report', WITHOUT_MODEL, '--out', drawn, '--draws', '40', '--seed', '9'])).code).toBe(0);
+      const r = await runCli(['report', WITHOUT_MODEL, '--out', seeded, '--seed', '9']);
+      expect(r.code, r.stderr).toBe(0);
+      expect(r.stderr).toContain('skytally: note: report --seed: nothing is drawn at random');
       const html = readFileSync(plain.html, 'utf8');
       expect(html).not.toContain('forecast-model-spread');
       expect(html).not.toContain('across the model');
-      expect(readFileSync(drawn, 'utf8')).toBe(html);
-      const rj = await runCli(['report', WITHOUT_MODEL, '--format', 'json', '--draws', '40']);
+      expect(readFileSync(seeded, 'utf8')).toBe(html);
+      // failed before: exit 0, --draws ignored
+      const drawn = join(dir, 'drawn.html');
+      const rd = await runCli(['report', WITHOUT_MODEL, '--out', drawn, '--draws', '40', '--seed', '9']);
+      expect(rd.code).toBe(2);
+      expect(rd.stderr.trim().split('\n')).toHaveLength(1);
+      expect(rd.stderr).toMatch(
+        /^skytally: report --draws: \S*deep-continuum\.yaml: no population has a model_uncertainty block/,
+      );
+      expect(existsSync(drawn)).toBe(false);
+      const rj = await runCli(['report', WITHOUT_MODEL, '--format', 'json']);
       expect(rj.code).toBe(0);
       expect(rj.stdout).not.toContain('model_spread');
     },

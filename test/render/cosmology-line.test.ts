@@ -26,7 +26,7 @@ describe('the CMB temperature as stated', () => {
     expect(r.stdout).toContain('T_cmb = 2.72548 K');
   });
   test('the report states T_CMB = 2.7255 K', async () => {
-    const r = await runCli(['report', 'samples/deep-continuum.yaml', '--out', '-', '--mocks', '20', '--draws', '20']);
+    const r = await runCli(['report', 'samples/deep-continuum.yaml', '--out', '-', '--mocks', '20']);
     expect(r.code, r.stderr).toBe(0);
     expect(r.stdout).toContain('T_CMB = 2.7255 K');
   });

@@ -1,12 +1,5 @@
 import type { CommandDef } from './types.js';
-import {
-  addOutputOptions,
-  checkPlanSection,
-  loadSurveyArg,
-  outputOptions,
-  printWarnings,
-  surveyLoader,
-} from './common.js';
+import { addOutputOptions, loadSurveyArg, outputOptions, printWarnings, surveyLoader } from './common.js';
 import { Outputs, renderText } from '../io.js';
 import { csvText } from '../../render/csv.js';
 import { printable } from '../../errors.js';
@@ -26,9 +19,7 @@ export const checkCommand: CommandDef = {
     const survey = await loadSurveyArg(io, file);
     outputs.refuseInputs(survey.inputs ?? []);
     const { describeSurvey } = await surveyLoader();
-    // A plan section is checked as plan and report read it (a mistyped plan key is refused here too,
-    // not only later by plan).
-    await checkPlanSection(survey);
+    // (loadSurveyArg checks a plan section as plan and report read it)
     const { surveyWarnings } = await import('../../population/warnings.js');
     const { predictionWarnings } = await import('../../counts/warnings.js');
     const { mergeWarnings } = await import('../../warnings.js');

@@ -22,6 +22,59 @@ export function wantsPng(opts: Record<string, unknown>): boolean {
   return opts.png !== false;
 }
 
+/*
+ * Options given where they change nothing. One that asks for something the run cannot give
+ * (draws of a model the file does not make uncertain, fits of mock surveys that are not drawn) is
+ * refused; one that only fixes how something is done when it is done (the seed of draws that are
+ * not made, --no-png without figures) leaves the output as it would be without it, so the run goes
+ * on with a one-line note on standard error (a script may pass it to every run).
+ */
+
+/** A one-line note on stderr: `skytally: note: <command> <flag>: <why>, so it changes nothing.` */
+export function optionNote(io: CliIO, command: string, flag: string, why: string): void {
+  io.stderr(`skytally: note: ${command} ${flag}: ${why}, so it changes nothing.\n`);
+}
+
+/** The note for --no-png given without --figures (nothing is drawn, so no PNG either way). */
+export function noteNoPngWithoutFigures(io: CliIO, command: string, opts: Record<string, unknown>): void {
+  if (opts.png === false && typeof opts.figures !== 'string')
+    optionNote(io, command, '--no-png', 'no figures are written without --figures DIR');
+}
+
+/**
+ * How a survey's model is drawn: 'seeded' when a population's model_uncertainty gives sigmas (drawn
+ * --draws N times from --seed S), 'file' when every one is a draws_file (each row once, nothing
+ * random), 'none' without model_uncertainty.
+ */
+export function modelDrawing(survey: Survey): 'seeded' | 'file' | 'none' {
+  const kinds = survey.populations.map((p) => p.modelUncertainty?.kind);
+  return kinds.includes('gaussian') ? 'seeded' : kinds.includes('draws') ? 'file' : 'none';
+}
+
+/** Why a survey's model is not drawn at random: no model_uncertainty, or only draws files (each row once). */
+export function unseededModel(survey: Survey): string {
+  return modelDrawing(survey) === 'none'
+    ? 'no population has a model_uncertainty block'
+    : "every population's model_uncertainty is a draws_file, read row by row";
+}
+
+/** --draws N given for a file whose model is not drawn N times: refused, naming the file. */
+export function refuseDrawsWithoutModel(survey: Survey): void {
+  const how = modelDrawing(survey);
+  if (how === 'seeded') return;
+  throw inputError(
+    'bad_option',
+    survey.file,
+    '--draws',
+    how === 'none'
+      ? 'no population has a model_uncertainty block, so there is no model spread to draw'
+      : "every population's model_uncertainty is a draws_file, whose rows are each drawn once whatever N is",
+    how === 'none'
+      ? 'add model_uncertainty to a population (docs/survey-file.md) or leave out --draws'
+      : 'leave out --draws',
+  );
+}
+
 export function addOutputOptions(cmd: Command): void {
   cmd.addOption(new Option('--format <format>', 'output format').choices([...FORMATS]).default('table'));
   cmd.option('--out <file>', 'write the output to this file (atomically; - for standard output) instead of stdout');
@@ -40,22 +93,31 @@ export function outputOptions(opts: Record<string, unknown>): OutputOptions {
   return o;
 }
 
-export async function loadSurveyArg(io: CliIO, file: string) {
+/**
+ * A survey file as every command reads it: loaded, and its plan section (when it has one) checked
+ * as plan reads it, so that a mistyped or impossible plan key is refused by every command, not
+ * only by plan. `population` is the --population the command was given, if any.
+ */
+export async function loadSurveyArg(io: CliIO, file: string, population?: string) {
   const { loadSurveyFile } = await surveyLoader();
-  return loadSurveyFile(resolve(io.cwd, file));
+  const survey = loadSurveyFile(resolve(io.cwd, file));
+  await checkPlanSection(survey, population);
+  return survey;
 }
 
 /**
- * A survey's plan section read as plan and report read it (for the file's first population), so
- * that check and explore refuse a mistyped or impossible plan key too; a threshold survey's plan,
- * which report leaves out, passes.
+ * A survey's plan section read as plan and report read it, for the population named (the file's
+ * first when none is, or when no population has that name: the command refuses the name itself), so
+ * that every command refuses a mistyped or impossible plan key too; a threshold survey's plan, which
+ * report leaves out, passes.
  */
-export async function checkPlanSection(survey: Survey): Promise<void> {
+export async function checkPlanSection(survey: Survey, population?: string): Promise<void> {
   const raw = survey.raw as Record<string, unknown> | null | undefined;
   if (raw === null || typeof raw !== 'object' || raw.plan === undefined) return;
   const { readPlanSection } = await surveyLoader();
+  const named = population === undefined ? undefined : survey.populations.find((p) => p.name === population);
   try {
-    readPlanSection(survey, survey.populations[0]!);
+    readPlanSection(survey, named ?? survey.populations[0]!);
   } catch (e) {
     if (!(e instanceof SurveyError && e.code === 'kind_mismatch' && survey.detection.kind === 'threshold')) throw e;
   }

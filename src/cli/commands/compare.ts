@@ -46,7 +46,7 @@ export const compareCommand: CommandDef = {
     outputs.refuseInputs(files);
     const surveys = [];
     for (const f of files) {
-      const s = await loadSurveyArg(io, f);
+      const s = await loadSurveyArg(io, f, typeof raw.population === 'string' ? raw.population : undefined);
       outputs.refuseInputs(s.inputs ?? []);
       surveys.push(s);
     }

@@ -7,6 +7,8 @@ import {
   addOutputOptions,
   decimalNumber,
   loadSurveyArg,
+  noteNoPngWithoutFigures,
+  optionNote,
   optionText,
   outputOptions,
   parseInteger,
@@ -89,7 +91,7 @@ export const forecastCommand: CommandDef = {
     outputs.refuseInputs([file]);
     const draw = typeof raw.figures === 'string' ? await import('../figures.js') : undefined;
     const keepFits = raw.listMockFits === true;
-    const survey = await loadSurveyArg(io, file);
+    const survey = await loadSurveyArg(io, file, typeof raw.population === 'string' ? raw.population : undefined);
     outputs.refuseInputs(survey.inputs ?? []);
     const { forecast } = await import('../../forecast/forecast.js');
     const { choosePopulation } = await import('../../model/select.js');
@@ -113,6 +115,15 @@ export const forecastCommand: CommandDef = {
       ...(progress ? { onProgress: progress } : {}),
     });
     printWarnings(io, result.warnings);
+    // the seed draws the mock surveys and the model's draws (not a draws file's rows, each taken once)
+    if (raw.seed !== undefined && mocks === 0 && !(modelDraws > 0 && population.modelUncertainty?.kind === 'gaussian'))
+      optionNote(
+        io,
+        'forecast',
+        '--seed',
+        `nothing is drawn at random (no --mocks, and ${modelDraws > 0 ? `the model's draws are the rows of the draws_file of "${population.name}"` : 'no --model-draws'})`,
+      );
+    noteNoPngWithoutFigures(io, 'forecast', raw);
     const shown = keepFits || !result.mocks?.fits ? result : { ...result, mocks: withoutFits(result.mocks) };
     // The tables (and cli-table3) are loaded only for the table and CSV formats.
     const tables = out.format === 'json' ? undefined : await import('../../render/forecast-table.js');

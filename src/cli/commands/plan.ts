@@ -4,6 +4,8 @@ import {
   addNoPngOption,
   addOutputOptions,
   loadSurveyArg,
+  noteNoPngWithoutFigures,
+  optionNote,
   outputOptions,
   parseInteger,
   printWarnings,
@@ -39,7 +41,7 @@ export const planCommand: CommandDef = {
     });
     outputs.refuseInputs([file]);
     const draw = typeof raw.figures === 'string' ? await import('../figures.js') : undefined;
-    const survey = await loadSurveyArg(io, file);
+    const survey = await loadSurveyArg(io, file, typeof raw.population === 'string' ? raw.population : undefined);
     outputs.refuseInputs(survey.inputs ?? []);
     const { plan } = await import('../../library/plan.js');
     // the population named as the command line names it (the library says options.population)
@@ -52,6 +54,15 @@ export const planCommand: CommandDef = {
       ...(io.stderrIsTTY ? { onProgress: progressBar(io) } : {}),
     });
     printWarnings(io, result.warnings);
+    // cosmic variance enters a plan only through a sigma goal: a count goal is the same without it
+    if (raw.cosmicVariance === false && typeof result.goal === 'string')
+      optionNote(
+        io,
+        'plan',
+        '--no-cosmic-variance',
+        `the goal is ${result.goal === 'count' ? 'the count' : 'the count fainter than the knee'}, which cosmic variance does not enter (only a sigma goal does)`,
+      );
+    noteNoPngWithoutFigures(io, 'plan', raw);
     // The tables (and cli-table3) are loaded only for the table and CSV formats.
     const tables = out.format === 'json' ? undefined : await import('../../render/plan-table.js');
     outputs.setMain(

@@ -3,10 +3,15 @@ import {
   addNoPngOption,
   addOutputOptions,
   loadSurveyArg,
+  modelDrawing,
+  noteNoPngWithoutFigures,
+  optionNote,
   optionText,
   outputOptions,
   parseInteger,
   printWarnings,
+  refuseDrawsWithoutModel,
+  unseededModel,
   wantsPng,
 } from './common.js';
 import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED, MAX_MODEL_DRAWS } from '../../model/model-uncertainty.js';
@@ -23,7 +28,7 @@ export const predictCommand: CommandDef = {
     addNoPngOption(cmd);
     cmd.option(
       '--draws <N>',
-      `draws of the populations' model_uncertainty (1 to ${MAX_MODEL_DRAWS}; default ${DEFAULT_MODEL_DRAWS})`,
+      `draws of the populations' model_uncertainty (1 to ${MAX_MODEL_DRAWS}; default ${DEFAULT_MODEL_DRAWS}; refused on a file without one)`,
     );
     cmd.option('--seed <S>', 'seed of those draws (integer 0 to 4294967295; default 1)');
   },
@@ -44,9 +49,13 @@ export const predictCommand: CommandDef = {
         : undefined;
     const survey = await loadSurveyArg(io, file);
     outputs.refuseInputs(survey.inputs ?? []);
+    if (raw.draws !== undefined) refuseDrawsWithoutModel(survey);
     const { predict } = await import('../../counts/predict.js');
     const p = predict(survey, { model });
     printWarnings(io, p.warnings);
+    if (raw.seed !== undefined && modelDrawing(survey) !== 'seeded')
+      optionNote(io, 'predict', '--seed', `nothing is drawn at random (${unseededModel(survey)})`);
+    noteNoPngWithoutFigures(io, 'predict', raw);
     // The tables (and cli-table3) are loaded only for the table and CSV formats.
     const tables = opts.format === 'json' ? undefined : await import('../../render/predict-table.js');
     outputs.setMain(

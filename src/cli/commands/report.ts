@@ -2,7 +2,16 @@
 import { resolve } from 'node:path';
 import { Option } from 'commander';
 import type { CommandDef } from './types.js';
-import { addNoPngOption, printWarnings, refuseHtmlOnTerminal } from './common.js';
+import {
+  addNoPngOption,
+  modelDrawing,
+  noteNoPngWithoutFigures,
+  optionNote,
+  printWarnings,
+  refuseDrawsWithoutModel,
+  refuseHtmlOnTerminal,
+  unseededModel,
+} from './common.js';
 import { Outputs, toJsonText, type CliIO } from '../io.js';
 import { mockOptions, mockProgressBar } from './forecast.js';
 import { modelDrawOptions } from './predict.js';
@@ -51,7 +60,7 @@ export const reportCommand: CommandDef = {
     );
     cmd.option(
       '--draws <N>',
-      `draws of the populations' model_uncertainty, for the prediction and the forecast's sigmas across the model (1 to ${MAX_MODEL_DRAWS}; default ${DEFAULT_MODEL_DRAWS})`,
+      `draws of the populations' model_uncertainty, for the prediction and the forecast's sigmas across the model (1 to ${MAX_MODEL_DRAWS}; default ${DEFAULT_MODEL_DRAWS}; refused on a file without model_uncertainty)`,
     );
     cmd.option('--seed <S>', 'seed of the mock surveys and the model draws (integer 0 to 4294967295; default 1)');
   },
@@ -89,9 +98,14 @@ export async function runReport(
   // The survey and the file as written (read once, through the loader's checks).
   const { survey, text: surveyText } = loadSurveyFileWithText(input);
   outputs.refuseInputs(survey.inputs ?? []);
+  if (opts.draws !== undefined) refuseDrawsWithoutModel(survey);
   const format: ReportFormat = opts.format ?? 'html';
   const results = await computeReport(file, survey, sections ?? (await commandSections(opts, io)), model);
   printWarnings(io, results.warnings);
+  // the seed draws the mock surveys and the model: with neither drawn it changes nothing
+  if (opts.seed !== undefined && mockOptions(opts).mocks === 0 && modelDrawing(survey) !== 'seeded')
+    optionNote(io, 'report', '--seed', `nothing is drawn at random (no --mocks, and ${unseededModel(survey)})`);
+  noteNoPngWithoutFigures(io, 'report', { ...opts });
   // Figures are drawn for the HTML, and for --figures whatever the format.
   const figures = format === 'html' || opts.figures !== undefined ? await reportFigures(results) : [];
   outputs.setMain(format === 'json' ? toJsonText(reportJson(results)) : await reportHtml(results, surveyText, figures));

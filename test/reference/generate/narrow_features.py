@@ -2,7 +2,8 @@
 """Independent expected counts for survey files whose expressions in z have a narrow feature (a dip,
 a spike or a step about 1e-3 of the window wide) in each place an expression can stand: the redshift
 selection, a population parameter (log10_phi_star, m_star, alpha), an attenuation and a threshold
-limit.
+limit; and (bias_cases) the bias-weighted integrals of a total's uncertainty where the bias, given as
+an expression or a table, has a narrow feature or rows inside a slice.
 
 Semantics as counts.py (whose model this script reuses: astropy 5.2.1 FlatLambdaCDM, mpmath.gammainc
 for the hard-limit number density) and selection.py items 1 and 3: the redshift selection S(z)
@@ -11,6 +12,15 @@ obs = log10 F - 0.4 A for line_flux and m + A for magnitude. The outer integral 
 scipy.integrate.quad (epsrel 1e-10, limit 400) with `points=` at each feature's centre and at
 +-2, 5 and 20 of its widths (each case names its features), so that quad's subdivision starts at
 the feature rather than having to find it. Shares no code with skytally.
+
+The totals' bias-weighted integrals (docs/outputs.md, the uncertainty block of a total; README.md,
+"Uncertainty on every count"), over the population's window with dN/dz = area dV/dz/dOmega S(z) n(z),
+dN/dchi = area chi(z)^2 S(z) n(z) (flat sky, chi from astropy) and D(z) the linear growth of flat
+matter + Lambda normalised at z = 0 (power.py's hypergeometric form):
+  N = int dN, the count-weighted bias b = int b dN / N, the mean redshift int z dN / N,
+  <b D> = int b D dN / N and the effective depth L = (int b D dN)^2 / int b D (dN/dchi) b D dN
+  (the program's (int q dchi)^2 / int q^2 dchi with q = dN/dchi b D).
+Each by quad as above, with `points=` at each feature (a table's rows: its rows).
 
 Run from the repository root:
     /usr/bin/python3 test/reference/generate/narrow_features.py > test/reference/narrow_features.json
@@ -21,6 +31,7 @@ from scipy import integrate
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 import counts as C  # noqa: E402
+import power as P  # noqa: E402  (the linear growth)
 
 # the functions an expression may call (docs/survey-file.md), for Python's eval
 def exp(x):
@@ -136,6 +147,38 @@ histogram: {width: 0.2}
 """, [(0.63, 0.0008)]),
 }
 
+# name -> (survey text, [(centre, width), ...] of the bias's features or rows (width 0))
+BIAS_CASES = {
+"bias_spike": ("""
+title: Invented H-alpha survey whose bias has a narrow spike
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1.0
+redshift: {min: 0.8, max: 1.8}
+detection: {kind: line_flux, limit: 2e-17, line: 6563}
+population:
+  variable: luminosity
+  phi_star: 1.5e-3
+  log10_l_star: 42.5
+  alpha: -1.4
+  bias: "1.5 + 2*exp(-((z - 1.37)/0.003)^2)"
+slices: {count: 2}
+""", [(1.37, 0.003)]),
+"bias_table": ("""
+title: Invented H-alpha survey whose bias is a table with a steep step inside a slice
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1.0
+redshift: {min: 0.8, max: 1.8}
+detection: {kind: line_flux, limit: 2e-17, line: 6563}
+population:
+  variable: luminosity
+  phi_star: 1.5e-3
+  log10_l_star: 42.5
+  alpha: -1.4
+  bias: {table: [[0.8, 1.2], [1.137, 1.4], [1.139, 2.6], [1.8, 2.9]]}
+slices: {count: 2}
+""", [(1.137, 0.0), (1.139, 0.0)]),
+}
+
 
 def model(doc):
     """counts.py's model with the redshift selection and attenuation of selection.py items 1 and 3."""
@@ -163,6 +206,34 @@ def count(m, z1, z2, features, obs_lo=-1e9, obs_hi=1e9):
     g = lambda z: m['cosmo'].differential_comoving_volume(z).value * m['selection'](z) * C.n_between(m, z, obs_lo, obs_hi)
     pts = sorted({c + k * w for c, w in features for k in (-20, -5, -2, 0, 2, 5, 20) if z1 < c + k * w < z2})
     return m['area_sr'] * integrate.quad(g, z1, z2, epsabs=0, epsrel=1e-10, limit=400, points=pts or None)[0]
+
+
+def bias_total(m, bias, features):
+    """The totals' bias-weighted integrals over the population's window (see the top)."""
+    z1, z2 = m['window']
+    om = m['cosmo'].Om0
+    dens = {}
+
+    def n_sel(z):
+        if z not in dens:
+            dens[z] = m['selection'](z) * C.n_between(m, z, -1e9, 1e9)
+        return dens[z]
+
+    dndz = lambda z: m['area_sr'] * m['cosmo'].differential_comoving_volume(z).value * n_sel(z)
+    dndchi = lambda z: m['area_sr'] * m['cosmo'].comoving_distance(z).value ** 2 * n_sel(z)
+    growth = lambda z: P.growth({'omega_m': om}, z)
+    pts = sorted({c + k * w for c, w in features for k in (-20, -5, -2, 0, 2, 5, 20) if z1 < c + k * w < z2})
+
+    def quad(f):
+        return integrate.quad(f, z1, z2, epsabs=0, epsrel=1e-10, limit=400, points=pts or None)[0]
+
+    n = quad(dndz)
+    nb = quad(lambda z: dndz(z) * bias(z))
+    nz = quad(lambda z: dndz(z) * z)
+    q = quad(lambda z: dndz(z) * bias(z) * growth(z))
+    q2 = quad(lambda z: dndz(z) * (bias(z) * growth(z)) ** 2 * dndchi(z))
+    return {'count': n, 'bias': nb / n, 'mean_redshift': nz / n, 'bias_growth': q / n,
+            'effective_depth_mpc': q * q / q2}
 
 
 def main():
@@ -195,6 +266,13 @@ def main():
         out['cases'].append({'name': name, 'yaml': text, 'features': [list(f) for f in features], 'slices': slices,
                              'feature_slice': {'z_min': float(z1), 'z_max': float(z2), 'bins': bins}})
         print(name, [s['count'] for s in slices], file=sys.stderr)
+    out['bias_cases'] = []
+    for name, (text, features) in BIAS_CASES.items():
+        doc = C.num(yaml.safe_load(text))
+        m = model(doc)
+        total = bias_total(m, param(doc['population']['bias']), features)
+        out['bias_cases'].append({'name': name, 'yaml': text, 'features': [list(f) for f in features], 'total': total})
+        print(name, total, file=sys.stderr)
     json.dump(out, sys.stdout, indent=1)
     sys.stdout.write('\n')
 
