@@ -5,6 +5,7 @@
  */
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
+import type { ZParam } from '../model/zparam.js';
 import { warning, type Warning } from '../warnings.js';
 import { exponential, precise } from '../render/format.js';
 import { selectionWarnings } from '../selection/warnings.js';
@@ -40,6 +41,11 @@ export const HI_ERG_S_PER_MSUN = 2.406176e25;
 const fmt = (x: number): string => precise(x, 4);
 const expText = (x: number): string => exponential(x, 4);
 
+/** " at z = 1.2" where a parameter varies with z; nothing for a constant, the same at every z. */
+function atZ(p: ZParam, z: number): string {
+  return p.constant ? '' : ` at z = ${fmt(z)}`;
+}
+
 /** The window's ends and middle: where a parameter in z is looked at. */
 function probeRedshifts(p: Population): number[] {
   const { min, max } = p.window;
@@ -65,7 +71,7 @@ export function luminosityWarnings(survey: Survey): Warning[] {
         out.push(
           warning(
             'implausible_luminosity',
-            `${p.name}: L* = ${fmt(low.v)} erg/s at z = ${fmt(low.z)} is far below any galaxy's luminosity (under ${expText(MIN_PLAUSIBLE_LUMINOSITY_ERG_S)} erg/s), so almost nothing is detected` +
+            `${p.name}: L* = ${fmt(low.v)} erg/s${atZ(p.lStar, low.z)} is far below any galaxy's luminosity (under ${expText(MIN_PLAUSIBLE_LUMINOSITY_ERG_S)} erg/s), so almost nothing is detected` +
               (asLog
                 ? `; it looks like a log10: write log10_l_star: ${fmt(low.v)} (or l_star: ${expText(10 ** low.v)})`
                 : hiMass
@@ -83,7 +89,7 @@ export function luminosityWarnings(survey: Survey): Warning[] {
         out.push(
           warning(
             'implausible_luminosity',
-            `${p.name}: M* = ${fmt(odd.v)} at z = ${fmt(odd.z)} is not a plausible absolute magnitude for galaxies (expected between ${PLAUSIBLE_M_STAR.brightest} and ${PLAUSIBLE_M_STAR.faintest})` +
+            `${p.name}: M* = ${fmt(odd.v)}${atZ(p.mStar, odd.z)} is not a plausible absolute magnitude for galaxies (expected between ${PLAUSIBLE_M_STAR.brightest} and ${PLAUSIBLE_M_STAR.faintest})` +
               (odd.v > 0
                 ? '; it looks like an apparent magnitude: give m_star as an absolute AB magnitude'
                 : '; check m_star'),
@@ -110,7 +116,7 @@ export function densityWarnings(survey: Survey): Warning[] {
       out.push(
         warning(
           'implausible_density',
-          `${p.name}: phi*${p.components.length > 1 ? ` of component ${i + 1}` : ''} = ${fmt(high.v)} Mpc^-3 at z = ${fmt(high.z)} is far above any galaxy population's (above ${MAX_PLAUSIBLE_PHI_STAR_MPC3} Mpc^-3; the densest have a few 1e-2), so every count is inflated${hint}`,
+          `${p.name}: phi*${p.components.length > 1 ? ` of component ${i + 1}` : ''} = ${fmt(high.v)} Mpc^-3${atZ(c.phiStar, high.z)} is far above any galaxy population's (above ${MAX_PLAUSIBLE_PHI_STAR_MPC3} Mpc^-3; the densest have a few 1e-2), so every count is inflated${hint}`,
         ),
       );
     }

@@ -476,8 +476,8 @@ ${body}
 
 /**
  * The three sources of the total's uncertainty in one sentence (with the model's own uncertainty
- * only): "Of the total 2,825 ± 560, Poisson 1.9%, cosmic variance 18.5%, model 12.0%: the model
- * dominates." (± the 1σ of Poisson noise and cosmic variance combined; the model's share is
+ * only): "Of the total 2,825 ± 524, Poisson 1.9%, cosmic variance 18.5%, model 7.2%: cosmic
+ * variance dominates." (± the 1σ of Poisson noise and cosmic variance combined; the model's share is
  * (p84 - p16) / (2 p50) over its draws).
  */
 function sourcesSentence(

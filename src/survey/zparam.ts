@@ -308,8 +308,19 @@ export function checkParam(
   const rows = isZTable(p.source)
     ? p.source.table.map(([z]) => z).filter((z) => z >= window.min && z <= window.max)
     : [];
+  // where a value is refused: a constant has no z to name (the same everywhere), an expression or a
+  // table is named at the z where it fails; the fix says what to change over the window
+  const constant = p.constant === true;
+  const over = `for every z from ${fmt(window.min)} to ${fmt(window.max)}`;
+  const fix = (inRangeWords: string): string =>
+    constant
+      ? `give a value ${inRangeWords}`
+      : typeof p.source === 'string'
+        ? `change the expression so that it stays ${inRangeWords} ${over}`
+        : `give values ${inRangeWords} ${over}`;
   const refuseAt = (z: number): void => {
     const v = p.at(z);
+    const at = constant ? '' : ` at z = ${fmt(z)}`;
     if (!Number.isFinite(v)) {
       const bad = Number.isNaN(v) ? 'has no real value' : 'is infinite';
       if (typeof p.source === 'string') {
@@ -317,16 +328,16 @@ export function checkParam(
           'bad_expression',
           file,
           keyPath,
-          `the expression "${p.source}" ${bad} at z = ${fmt(z)}`,
-          `change it so that it is finite for every z from ${fmt(window.min)} to ${fmt(window.max)}`,
+          `the expression "${p.source}" ${bad}${at}`,
+          constant ? 'change it so that it is finite' : `change it so that it is finite ${over}`,
         );
       }
       throw inputError(
         'not_finite',
         file,
         keyPath,
-        `${opts.what} ${bad} at z = ${fmt(z)}`,
-        'give values that stay finite over the redshift window',
+        `${opts.what} ${bad}${at}`,
+        constant ? 'give a finite value' : 'give values that stay finite over the redshift window',
       );
     }
     if (opts.positive && !(v > 0)) {
@@ -334,8 +345,8 @@ export function checkParam(
         'out_of_range',
         file,
         keyPath,
-        `${opts.what} is ${fmt(v)} at z = ${fmt(z)} but must be positive`,
-        `give a value above 0 for every z from ${fmt(window.min)} to ${fmt(window.max)}`,
+        `${opts.what} is ${fmt(v)}${at} but must be positive`,
+        fix('above 0'),
       );
     }
     if (opts.range && !inRange(v, opts.range)) {
@@ -343,8 +354,8 @@ export function checkParam(
         'out_of_range',
         file,
         keyPath,
-        `${opts.what} is ${fmt(v)}${opts.unitLabel ? ` ${opts.unitLabel}` : ''} at z = ${fmt(z)}, outside its physical range (${describeRange(opts.range)})`,
-        `give a value in that range for every z from ${fmt(window.min)} to ${fmt(window.max)}`,
+        `${opts.what} is ${fmt(v)}${opts.unitLabel ? ` ${opts.unitLabel}` : ''}${at}, outside its physical range (${describeRange(opts.range)})`,
+        fix('in that range'),
       );
     }
   };

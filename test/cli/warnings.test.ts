@@ -86,7 +86,8 @@ describe('warnings on files made to trigger them', () => {
     const c = await runCli(['check', LINEAR_LOG, '--format', 'json']);
     expect(c.code).toBe(0);
     expect((JSON.parse(c.stdout) as Any).warnings.map((w: Any) => w.code)).toEqual(['implausible_luminosity']);
-    expect(c.stderr).toMatch(/^skytally: warning: .*L\* = 43 erg\/s/);
+    // a constant has no redshift to name (failed before: "L* = 43 erg/s at z = ..." as if it varied)
+    expect(c.stderr).toMatch(/^skytally: warning: .*L\* = 43 erg\/s is far below/);
     // a forecast of nothing stays bad input (exit 2), as before
     expect((await runCli(['forecast', LINEAR_LOG])).code).toBe(2);
   });
@@ -102,7 +103,7 @@ describe('warnings on files made to trigger them', () => {
     expect(validate('prediction.schema.json', p)).toBe('valid');
     expect(p.warnings.map((w: Any) => w.code)).toEqual(['implausible_density']);
     expect(p.warnings[0].message).toMatch(
-      /^H-alpha emitters: phi\* = 1\.006 Mpc\^-3 at z = .*; if log10_phi_star holds a linear value, write it under phi_star /,
+      /^H-alpha emitters: phi\* = 1\.006 Mpc\^-3 is far above .*; if log10_phi_star holds a linear value, write it under phi_star /,
     );
     expect(r.stderr).toBe(`skytally: warning: ${p.warnings[0].message}\n`);
     const c = await runCli(['check', f, '--format', 'json']);
@@ -120,6 +121,13 @@ describe('warnings on files made to trigger them', () => {
     expect(d).toMatch(/log10_phi_star_2: -3\.46/);
     const k = file('double-phi.yaml', d.replace(/log10_phi_star_2: -3\.46\d*/, 'log10_phi_star_2: 0.00034'));
     const dw = (JSON.parse((await runCli(['check', k, '--format', 'json'])).stdout) as Any).warnings;
+    // phi* in z: the redshift where it is implausible, the window's upper end (0.843, where
+    // log10 phi* = -2.6 + 40 * 0.063 = -0.08)
+    const e = file('evolving-phi.yaml', base.replace('log10_phi_star: -2.6', 'log10_phi_star: "-2.6 + 40*(z - 0.78)"'));
+    const ew = (JSON.parse((await runCli(['check', e, '--format', 'json'])).stdout) as Any).warnings;
+    expect(ew.map((x: Any) => x.message)).toEqual([
+      expect.stringMatching(/phi\* = [0-9.]+ Mpc\^-3 at z = 0\.843 is far above/),
+    ]);
     expect(dw.map((x: Any) => x.code)).toEqual(['implausible_density']);
     expect(dw[0].message).toMatch(/phi\* of component 2 = 1\.001 Mpc\^-3 .*write it under phi_star_2 /);
     // no bundled sample raises it

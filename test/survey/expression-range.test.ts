@@ -154,3 +154,48 @@ describe('interval bounds of an expression', () => {
     expect(compileExpression('1/(z - 1)', FILE, 'k').bounds(0.5, 2).every(Number.isNaN)).toBe(true);
   });
 });
+
+describe('a value out of range is refused in words that fit how it is written', () => {
+  // MAGNITUDE_YAML's window is z = 3 to 5. Failed before: a constant was refused "at z = 3" with the
+  // fix "for every z from 3 to 5", as if it varied; an expression's fix asked for "a value".
+  test.each([
+    ['a number', -5, 'alpha is -5, outside its physical range (from -4 to 4); give a value in that range.'],
+    [
+      'an expression without z',
+      'log10(1e-5)',
+      'alpha is -5, outside its physical range (from -4 to 4); give a value in that range.',
+    ],
+    [
+      'a table',
+      {
+        table: [
+          [3, -1.5],
+          [4, -5],
+          [5, -1.5],
+        ],
+      },
+      'alpha is -5 at z = 4, outside its physical range (from -4 to 4); give values in that range for every z from 3 to 5.',
+    ],
+  ])('%s', (_what, alpha, text) => {
+    const e = errorOf(() => parseSurveyObject(surveyObject({ 'population.alpha': alpha }), FILE));
+    expect(e.code).toBe('out_of_range');
+    expect(e.message).toBe(`${FILE}: population.alpha: ${text}`);
+  });
+
+  test('an expression in z: the z where it fails, and the fix for the expression over the window', () => {
+    // -z leaves the range beyond z = 4: the first of the 64 points past it is 3 + 2*32/63 = 4.01587
+    const e = errorOf(() => parseSurveyObject(surveyObject({ 'population.alpha': '-z' }), FILE));
+    expect(e.message).toBe(
+      `${FILE}: population.alpha: alpha is -4.01587 at z = 4.01587, outside its physical range (from -4 to 4); change the expression so that it stays in that range for every z from 3 to 5.`,
+    );
+  });
+
+  test('a constant that must be positive, and a constant expression that is infinite', () => {
+    const bias = errorOf(() => parseSurveyObject(surveyObject({ 'population.bias': 0 }), FILE));
+    expect(bias.message).toBe(`${FILE}: population.bias: the bias is 0 but must be positive; give a value above 0.`);
+    const inf = errorOf(() => parseSurveyObject(surveyObject({ 'population.alpha': '1/(1-1)' }), FILE));
+    expect(inf.message).toBe(
+      `${FILE}: population.alpha: the expression "1/(1-1)" is infinite; change it so that it is finite.`,
+    );
+  });
+});

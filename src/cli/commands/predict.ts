@@ -28,7 +28,7 @@ export const predictCommand: CommandDef = {
     addNoPngOption(cmd);
     cmd.option(
       '--draws <N>',
-      `draws of the populations' model_uncertainty (1 to ${MAX_MODEL_DRAWS}; default ${DEFAULT_MODEL_DRAWS})`,
+      `draws of the populations' model_uncertainty (1 to ${MAX_MODEL_DRAWS}; default ${DEFAULT_MODEL_DRAWS}; refused on a file without one)`,
     );
     cmd.option('--seed <S>', 'seed of those draws (integer 0 to 4294967295; default 1)');
   },

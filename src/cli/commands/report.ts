@@ -60,7 +60,7 @@ export const reportCommand: CommandDef = {
     );
     cmd.option(
       '--draws <N>',
-      `draws of the populations' model_uncertainty, for the prediction and the forecast's sigmas across the model (1 to ${MAX_MODEL_DRAWS}; default ${DEFAULT_MODEL_DRAWS})`,
+      `draws of the populations' model_uncertainty, for the prediction and the forecast's sigmas across the model (1 to ${MAX_MODEL_DRAWS}; default ${DEFAULT_MODEL_DRAWS}; refused on a file without model_uncertainty)`,
     );
     cmd.option('--seed <S>', 'seed of the mock surveys and the model draws (integer 0 to 4294967295; default 1)');
   },

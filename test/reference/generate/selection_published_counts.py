@@ -75,6 +75,29 @@ for b in (0.0, 0.2):
 for b in (0.0, 0.33):
     print('hizels_z0.84 blend', b, repr(line_count(1.3, 8e-17, HALPHA, tophat(12110, 150), 12035 / HALPHA - 1,
                                                    12185 / HALPHA - 1, 10**-2.47, 10**42.25, -1.56, b, 1.0)))
+
+
+def split_line_count(area, flux, lo, hi, phi, l_star, alpha, blend, att):
+    """The same narrow-band count with [NII] 6548.05 and 6583.45 placed one by one (1 : 3 of the
+    blend) through the top hat lo-hi, each line counted where it falls inside: what the blend at
+    H-alpha's own transmission (skytally's documented rule) approximates; for docs/survey-file.md."""
+    lines = [(HALPHA, 1.0), (6583.45, 0.75 * blend), (6548.05, 0.25 * blend)]
+
+    def f(z):
+        w = sum(r for lam, r in lines if lo <= lam * (1 + z) <= hi)
+        if w <= 0:
+            return 0.0
+        d_l = (1 + z) * comoving(z) * MPC_CM
+        return dv_dz(z, area) * n_above(4 * np.pi * d_l**2 * flux / (w * 10 ** (-0.4 * att)) / l_star, phi, alpha)
+
+    cuts = sorted({lo / lam - 1 for lam, _ in lines} | {hi / lam - 1 for lam, _ in lines})
+    return integrate.quad(f, cuts[0], cuts[-1], epsrel=1e-10, limit=400, points=cuts[1:-1])[0]
+
+
+print('hizels_z2.23 [NII] lines one by one', repr(split_line_count(0.6, 1e-16, 21105, 21315, 10**-2.78, 10**42.87,
+                                                                  -1.59, 0.2, 1.0)))
+print('hizels_z0.84 [NII] lines one by one', repr(split_line_count(1.3, 8e-17, 12035, 12185, 10**-2.47, 10**42.25,
+                                                                  -1.56, 0.33, 1.0)))
 # Ouchi et al. 2010-like z = 6.6 LAEs: 1 deg^2, 6.8e-18, NB921 as a top hat 9196/132 A
 print('ouchi_z6.6', repr(line_count(1.0, 6.8e-18, LYA, tophat(9196, 132), 9130 / LYA - 1, 9262 / LYA - 1,
                                     8.5e-4, 4.4e42, -1.5)))
