@@ -439,6 +439,16 @@ describe('options that would change nothing for the file or the other options', 
     [['forecast', 'samples/halpha-narrowband.yaml', '--no-png'], '--no-png', 'without --figures DIR'],
     [['plan', 'samples/plan-halpha-layers.yaml', '--no-png'], '--no-png', 'without --figures DIR'],
     [['report', 'samples/halpha-narrowband.yaml', '--no-png', '--format', 'json'], '--no-png', 'without --figures DIR'],
+    // a count goal: cosmic variance enters a plan only through a sigma goal (failed before: no word)
+    [
+      [
+        'plan',
+        surveyWith('goal: {sigma: log10_l_star}', 'goal: count', 'samples/plan-halpha-layers.yaml'),
+        '--no-cosmic-variance',
+      ],
+      '--no-cosmic-variance',
+      'the goal is the count, which cosmic variance does not enter',
+    ],
   ])(
     '%j gives the output it gives without the option, and one note naming it (failed before: no word)',
     async (argv, flag, why) => {
@@ -459,7 +469,8 @@ describe('options that would change nothing for the file or the other options', 
     [['predict', 'samples/mass-limited.yaml', '--seed', '7', '--format', 'json']],
     [['forecast', 'samples/halpha-narrowband.yaml', '--mocks', '3', '--seed', '7', '--format', 'json']],
     [['report', 'samples/mass-limited.yaml', '--seed', '7', '--format', 'json']],
-  ])('%j: the seed draws something, so there is no note', async (argv) => {
+    [['plan', 'samples/plan-halpha-layers.yaml', '--no-cosmic-variance', '--format', 'json']],
+  ])('%j: the option changes the output, so there is no note', async (argv) => {
     const r = await runCli(argv);
     expect(r.code, r.stderr).toBe(0);
     expect(r.stderr).not.toContain('note:');

@@ -5,6 +5,7 @@ import {
   addOutputOptions,
   loadSurveyArg,
   noteNoPngWithoutFigures,
+  optionNote,
   outputOptions,
   parseInteger,
   printWarnings,
@@ -53,6 +54,14 @@ export const planCommand: CommandDef = {
       ...(io.stderrIsTTY ? { onProgress: progressBar(io) } : {}),
     });
     printWarnings(io, result.warnings);
+    // cosmic variance enters a plan only through a sigma goal: a count goal is the same without it
+    if (raw.cosmicVariance === false && typeof result.goal === 'string')
+      optionNote(
+        io,
+        'plan',
+        '--no-cosmic-variance',
+        `the goal is ${result.goal === 'count' ? 'the count' : 'the count fainter than the knee'}, which cosmic variance does not enter (only a sigma goal does)`,
+      );
     noteNoPngWithoutFigures(io, 'plan', raw);
     // The tables (and cli-table3) are loaded only for the table and CSV formats.
     const tables = out.format === 'json' ? undefined : await import('../../render/plan-table.js');
