@@ -16,6 +16,12 @@ export type EquivalentWidthDistribution =
   | { model: 'lognormal'; medianAngstrom: number; sigmaDex: number }
   | { model: 'table'; widthAngstrom: number[]; fractionAbove: number[] };
 
+/** A line blended with a population's line: its rest wavelength and its flux relative to the line. */
+export interface BlendedLine {
+  restAngstrom: number;
+  ratio: number;
+}
+
 /** What a detection adds to the selection (every kind). */
 export interface DetectionSelection {
   /** Fraction in [0, 1] of sources at true z kept by the selection (a population's own wins). */
@@ -30,6 +36,11 @@ export interface PopulationSelection {
   redshiftSelection?: ZParam;
   /** Flux of unresolved neighbouring lines relative to the line (line_flux only; 0 when absent). */
   blendRatio?: number;
+  /**
+   * Unresolved neighbouring lines each at its own rest wavelength (Angstrom) with its flux ratio to
+   * the line (line_flux only; never with blendRatio): each is seen at its own filter transmission.
+   */
+  blendedLines?: BlendedLine[];
   /** Dust attenuation in magnitudes (0 when absent); the luminosity function is intrinsic. */
   attenuation?: ZParam;
   /** Rest-frame equivalent widths of the line (needed with an equivalent-width cut). */

@@ -127,6 +127,10 @@ function selectionWords(s: ModelDescription['selection']): string {
       `redshift selection ${fmt(s.redshift_selection.fraction.at_window_middle)} kept (from the ${s.redshift_selection.from})`,
     );
   if (s.blend_ratio !== undefined) parts.push(`blended lines add ${fmt(s.blend_ratio)} of the line flux`);
+  if (s.blended_lines)
+    parts.push(
+      `blended lines at ${s.blended_lines.map((b) => `${compact(b.line_angstrom, 7)} A (${fmt(b.ratio)} of the line flux)`).join(' and ')}, each at its own filter transmission`,
+    );
   if (s.attenuation_mag)
     parts.push(
       `attenuation ${fmt(s.attenuation_mag.at_window_middle)} mag applied (the luminosity function is intrinsic)`,

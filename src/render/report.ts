@@ -194,6 +194,7 @@ const PARAM_LABELS: Record<string, string> = {
   model_uncertainty: 'uncertainty of the luminosity function (1σ)',
   redshift_selection: 'fraction kept by the redshift selection',
   blend_ratio: 'unresolved neighbouring lines, flux relative to the line',
+  blended_lines: 'lines blended at their own wavelengths, flux relative to the line',
   attenuation: 'dust attenuation [mag]',
   equivalent_widths: 'rest-frame equivalent widths',
   valid_redshift: 'redshifts where the luminosity function was measured',
@@ -301,6 +302,19 @@ function equivalentWidthsHtml(v: unknown): string {
   return wordsHtml(v);
 }
 
+/** blended_lines in words: "6583.45 Å at 0.15 of the line's flux; 6548.05 Å at 0.05 of the line's flux". */
+function blendedLinesHtml(v: unknown): string {
+  if (!Array.isArray(v)) return wordsHtml(v);
+  return v
+    .map((b) =>
+      isRecord(b)
+        ? // the wavelength as written: lines 0.5 Å apart differ (formatNumber rounds 1,000 and more to integers)
+          `${typeof b.line === 'number' ? `${escapeHtml(String(b.line))} Å` : wordsHtml(b.line)} at ${numberHtml(b.ratio)} of the line's flux`
+        : wordsHtml(b),
+    )
+    .join('; ');
+}
+
 /** rest_band in words: "top-hat band centred at 1500 Å, FWHM 300 Å", or its transmission file. */
 function bandHtml(v: unknown): string {
   if (!isRecord(v)) return wordsHtml(v);
@@ -340,6 +354,8 @@ function modelValueHtml(key: string, v: unknown, m: ModelAsWritten): string {
       return modelUncertaintyHtml(v);
     case 'equivalent_widths':
       return equivalentWidthsHtml(v);
+    case 'blended_lines':
+      return blendedLinesHtml(v);
     case 'valid_redshift':
       return isRecord(v) && typeof v.min === 'number' && typeof v.max === 'number'
         ? `${numberHtml(v.min)} to ${numberHtml(v.max)}`

@@ -32,6 +32,10 @@ export function describeSelection(detection: Detection, p: Population): Selectio
     block.effects.push('blend_ratio');
     block.blend_ratio = p.blendRatio;
   }
+  if (p.blendedLines) {
+    block.effects.push('blended_lines');
+    block.blended_lines = p.blendedLines.map((b) => ({ line_angstrom: b.restAngstrom, ratio: b.ratio }));
+  }
   if (p.attenuation) {
     block.effects.push('attenuation');
     block.attenuation_mag = { given: p.attenuation.source, at_window_middle: p.attenuation.at(zMid) };

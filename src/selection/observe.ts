@@ -8,6 +8,8 @@
  *                          = log10 u + log10(L* T(line (1+z)) / (4 pi D_L^2))
  * Blending (1 + b) and dust (A(z) mag) of src/selection/effects.ts add log10(1 + b) - 0.4 A(z) to a(z)
  * of a line flux and A(z) to K(z) below; the limit in the population's variable is then intrinsic.
+ * Lines blended at their own wavelengths add r_i T(line_i (1+z)) to T instead (effects.ts
+ * lineTransmission), so a blend is seen wherever one of its lines is in the filter.
  *
  * magnitude  (slope -2.5): obs = apparent AB magnitude = M* - 2.5 log10 u + K(z), where
  *                          K(z) = 5 log10(D_L / 10 pc) - 2.5 log10(1+z)
@@ -29,7 +31,6 @@ import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Detection } from '../model/detection.js';
 import type { Population } from '../model/population.js';
 import { MPC_CM } from '../cosmology/constants.js';
-import { transmission } from './filter.js';
 import { bandAveragedMadau1995, madau1995Transmission } from './igm.js';
 import { sedKCorrection } from './kcorrection.js';
 import type { RestFrame } from '../model/photometry.js';
@@ -64,19 +65,20 @@ const TEN_PC_MPC = 1e-5;
 
 export function makeObserver(detection: Detection, population: Population, cosmo: FlatCosmology): Observer {
   // Blending and attenuation move obs (src/selection/effects.ts); 0 without them.
-  const shift = selectionEffects(detection, population).obsShift;
+  const effects = selectionEffects(detection, population);
+  const shift = effects.obsShift;
   switch (detection.kind) {
     case 'line_flux': {
       const line = population.lineAngstrom ?? detection.lineAngstrom;
       if (line === undefined) throw new Error('line_flux detection needs a rest wavelength');
-      const filter = detection.filter;
+      const through = effects.lineTransmission;
       const log10Limit = Math.log10(detection.limitCgs);
       return {
         slope: 1,
         variable: 'log10_line_flux',
         at(z, lStar) {
           const dlCm = cosmo.luminosityDistanceMpc(z) * MPC_CM;
-          const t = filter ? transmission(filter, line * (1 + z)) : 1;
+          const t = through(z);
           const log10Area = Math.log10(FOUR_PI * dlCm * dlCm);
           const dObs = shift(z);
           const a = Math.log10(lStar) + Math.log10(t) - log10Area + dObs;

@@ -43,6 +43,7 @@ import {
   type RawPopulationSelection,
 } from './selection-keys.js';
 import { filterRedshiftWindow, tableFwhm, tableMeanWavelength } from '../selection/filter.js';
+import type { BlendedLine } from '../model/selection.js';
 import { dirname } from 'node:path';
 import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH, RANGES, describeRange, inRange, type Range } from '../model/limits.js';
 
@@ -942,13 +943,57 @@ function readFilter(det: RawSurvey['detection'], file: string, base: string, inp
   return filter;
 }
 
-/** Each population's whole window: the redshift key cut by where the filter sees its line. */
+/**
+ * A population's blended_lines (line_flux only, never with blend_ratio): each line's rest wavelength
+ * read as detection.line is, and its flux ratio to the population's line, above 0 and at most 10.
+ */
+function readBlendedLines(p: RawPopulation, path: string, kind: string, file: string): BlendedLine[] | undefined {
+  const raw = p.blended_lines;
+  if (raw === undefined) return undefined;
+  const key = `${path}.blended_lines`;
+  if (kind !== 'line_flux')
+    throw inputError(
+      'kind_mismatch',
+      file,
+      key,
+      `blended_lines applies to line searches (line_flux), not ${kind}`,
+      'remove it',
+    );
+  if (p.blend_ratio !== undefined)
+    throw inputError(
+      'conflict',
+      file,
+      key,
+      `and ${path}.blend_ratio both give the lines blended with the population's line`,
+      'keep blended_lines (each line at its own wavelength and filter transmission) and remove blend_ratio, or the reverse',
+    );
+  return raw.map((b, k) => {
+    const restAngstrom = lineWavelength(b.line, file, `${key}[${k}].line`);
+    const ratio = b.ratio;
+    if (!(ratio > 0) || !inRange(ratio, RANGES.blendRatio))
+      throw inputError(
+        'out_of_range',
+        file,
+        `${key}[${k}].ratio`,
+        `is ${fmt(ratio)}, outside its range (above 0, at most ${RANGES.blendRatio.max})`,
+        "give the line's flux relative to the population's line, or leave the line out",
+      );
+    return { restAngstrom, ratio };
+  });
+}
+
+/**
+ * Each population's whole window: the redshift key cut by where the filter sees its line, or with
+ * blended lines at their own wavelengths where it sees any of them (a blend is found by its
+ * blended flux even where the line itself has left the filter).
+ */
 function populationWindows(
   rawPops: RawPopulations,
   lines: (number | undefined)[],
   given: Window | undefined,
   filter: Filter | undefined,
   file: string,
+  blends: (BlendedLine[] | undefined)[] = [],
 ): Window[] {
   if (!given && !filter) {
     throw inputError(
@@ -961,7 +1006,11 @@ function populationWindows(
   }
   const windows: Window[] = rawPops.map((_, i) => {
     if (!filter) return given!;
-    const w = filterWindow(filter, lines[i]!);
+    let w = filterWindow(filter, lines[i]!);
+    for (const b of blends[i] ?? []) {
+      const wb = filterWindow(filter, b.restAngstrom);
+      w = { min: Math.min(w.min, wb.min), max: Math.max(w.max, wb.max) };
+    }
     const cut = given ? intersect(w, given) : w;
     if (cut.max > MAX_REDSHIFT && cut.max > cut.min) {
       throw inputError(
@@ -1310,7 +1359,8 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
   const lines = populationLines(rawPops, det, detLine, file);
   const given = readRedshift(raw, file);
   const filter = readFilter(det, file, base, inputs);
-  const windows = populationWindows(rawPops, lines, given, filter, file);
+  const blends = rawPops.map(({ raw: p, path }) => readBlendedLines(p, path, det.kind, file));
+  const windows = populationWindows(rawPops, lines, given, filter, file, blends);
   const hull = hullOf(windows);
   const slices = readSlices(raw, windows, file);
   // Photometric redshifts: every value in z must make sense over the whole true range integrated.
@@ -1360,7 +1410,7 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
     }
     return pop;
   });
-  populations.forEach((pop, i) =>
+  populations.forEach((pop, i) => {
     Object.assign(
       pop,
       readPopulationSelection(
@@ -1371,8 +1421,9 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
         checkWindow(i),
         file,
       ),
-    ),
-  );
+    );
+    if (blends[i]) pop.blendedLines = blends[i];
+  });
   const histogramWidth = readHistogramWidth(raw, rawPops, detection, checkHull, file);
 
   const survey: Survey = {

@@ -195,6 +195,7 @@ export const SECTION_KEYS: Readonly<Record<'top' | 'cosmology' | 'detection' | '
     'model_uncertainty',
     'redshift_selection',
     'blend_ratio',
+    'blended_lines',
     'attenuation',
     'equivalent_widths',
     'valid_redshift',

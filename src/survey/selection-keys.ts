@@ -24,6 +24,7 @@ export interface RawDetectionSelection {
 export interface RawPopulationSelection {
   redshift_selection?: ZRaw;
   blend_ratio?: number;
+  blended_lines?: { line: Q; ratio: number }[];
   attenuation?: ZRaw;
   equivalent_widths?: {
     model: 'exponential' | 'lognormal' | 'table';

@@ -366,6 +366,10 @@ describe('renderReport: the model table in words', () => {
       },
       redshift_selection: 0.8,
       blend_ratio: 0.3,
+      blended_lines: [
+        { line: 6583.45, ratio: 0.15 },
+        { line: '6548.05 Angstrom', ratio: 0.05 },
+      ],
       attenuation: 1.1,
       equivalent_widths: {
         model: 'table',
@@ -412,6 +416,9 @@ describe('renderReport: the model table in words', () => {
       'fraction above W, interpolated linearly: W = 0 Å: 1; W = 40 Å: 0.5; W = 200 Å: 0',
     );
     expect(byKey.valid_redshift).toBe('0.7 to 2');
+    expect(byKey.blended_lines).toBe(
+      "6583.45 Å at 0.15 of the line's flux; 6548.05 Angstrom at 0.05 of the line's flux",
+    );
     expect(byKey.sfr_conversion).toBe('1 × 10<sup>-41</sup> M☉ yr⁻¹ per erg s⁻¹');
     expect(byKey.bias).toMatch(/^auto: /);
   });

@@ -99,6 +99,7 @@ describe('specs/survey.schema.json', () => {
         // selection effects
         'attenuation',
         'blend_ratio',
+        'blended_lines',
         'equivalent_widths',
         'redshift_selection',
         'valid_redshift',

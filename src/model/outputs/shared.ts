@@ -160,7 +160,7 @@ export interface SelectionBlock {
   /**
    * the effects the file states for this population (empty: none; the prediction is then the plain one)
    */
-  effects: ('redshift_selection' | 'blend_ratio' | 'attenuation' | 'equivalent_width_cut')[];
+  effects: ('redshift_selection' | 'blend_ratio' | 'blended_lines' | 'attenuation' | 'equivalent_width_cut')[];
   /**
    * true when the population's attenuation dims the observed flux (its luminosity function is then taken as intrinsic, dust-corrected); false when the file gives none
    */
@@ -176,6 +176,19 @@ export interface SelectionBlock {
    * flux of the blended neighbouring lines relative to the line
    */
   blend_ratio?: number;
+  /**
+   * the lines blended with the population's line at their own wavelengths, each seen at its own filter transmission: the measured flux is L (T(line (1+z)) + sum ratio T(line_angstrom (1+z))) 10^(-0.4 A) / (4 pi D_L^2)
+   */
+  blended_lines?: {
+    /**
+     * rest wavelength of the blended line (Angstrom)
+     */
+    line_angstrom: number;
+    /**
+     * its flux relative to the population's line
+     */
+    ratio: number;
+  }[];
   attenuation_mag?: ParameterDescription;
   equivalent_width_cut?: {
     frame: 'rest' | 'observed';
