@@ -41,6 +41,8 @@ export const WARNING_CODES = {
     "a population's line is shorter than the Lyman limit (912 Angstrom), where no galaxy's line is seen (e.g. a wavelength in nm written as a plain number)",
   radio_spectrum_steep:
     'a magnitude survey in a radio band (1 mm or longer) has beta above -1, a spectrum steeper than f_nu ~ nu^-1 (e.g. a spectral index -0.7 written as beta, which is -1.3)',
+  redshift_integral_unconverged:
+    "a slice's redshift integral did not converge even after its pieces were halved: its count may be off by more than the precision promised",
 } as const;
 
 export type WarningCode = keyof typeof WARNING_CODES;

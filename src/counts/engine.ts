@@ -66,6 +66,12 @@ export interface SliceCount {
   drawNodes?: NodeState[];
   /** With the nodeDetail option: what each node adds. */
   nodes?: NodeDetail;
+  /**
+   * Present when the redshift quadrature did not converge even after halving its pieces
+   * (chooseRedshiftNodes' `unconverged`): by how much its last two orders differed there, as a
+   * share of the slice's integral (unconvergedShare), and near which redshift.
+   */
+  quadratureMissed?: { share: number; z: number };
 }
 
 /**
@@ -174,12 +180,76 @@ function defaultNodeCount(z1: number, z2: number): number {
 }
 
 /**
+ * A piece of a redshift quadrature that did not converge: its last two orders (the largest and half
+ * of it) still differed by `difference` (in the integrand's unit) after the piece it came from was
+ * halved as often as `chooseRedshiftNodes` allows.
+ */
+export interface UnconvergedPiece {
+  z1: number;
+  z2: number;
+  difference: number;
+  /** The same for the weighted integrand `g`, when there is one. */
+  differenceG?: number;
+}
+
+/** Redshift nodes and weights, with the pieces whose integral did not converge (absent when every piece did). */
+export interface RedshiftRule {
+  z: number[];
+  w: number[];
+  unconverged?: UnconvergedPiece[];
+}
+
+/** Most halvings of one piece whose largest order has not converged (chooseRedshiftNodes). */
+export const MAX_HALVINGS = 24;
+
+/**
+ * Share of a slice's count by which the unconverged pieces of its redshift quadrature may differ
+ * (their last two orders) before the outputs say so: a tenth of the 1e-6 the counts promise.
+ */
+export const UNCONVERGED_SHARE = 1e-7;
+
+/**
+ * Where a redshift rule did not converge: by how much the unconverged pieces' last two orders
+ * differ, relative to the whole integral of `f` (or of `g`, where that share is larger), and the
+ * middle of the piece that differs most. Undefined when every piece converged.
+ */
+export function unconvergedShare(
+  rule: RedshiftRule,
+  f: (z: number) => number,
+  g?: (z: number) => number,
+): { share: number; z: number } | undefined {
+  const pieces = rule.unconverged;
+  if (!pieces) return undefined;
+  let dF = 0;
+  let dG = 0;
+  let worst = pieces[0]!;
+  for (const u of pieces) {
+    dF += u.difference;
+    dG += u.differenceG ?? 0;
+    if (u.difference > worst.difference) worst = u;
+  }
+  const whole = Math.abs(sumOver(rule, f));
+  const wholeG = g ? Math.abs(sumOver(rule, g)) : 0;
+  // (an integral that is 0 on the rule's nodes but not on the order before: all of it in doubt)
+  const share = Math.max(whole > 0 ? dF / whole : dF > 0 ? 1 : 0, wholeG > 0 ? dG / wholeG : dG > 0 ? 1 : 0);
+  return { share, z: 0.5 * (worst.z1 + worst.z2) };
+}
+
+/**
  * The smallest Gauss-Legendre order (8, 16, 32, 64, 128 or 256, at least the default for the
  * width) whose integral of `f` agrees with the next order to `rel` (or `abs`). The hard-limit count
  * integrand is cheap, and its variation in z (volume, distance, filter transmission) is what the
  * full computation sees too. With `g` (the count weighted by something the integrand does not
  * hold, such as a bias given as an expression with a narrow feature), its integral must agree too
  * (to `rel` or `gAbs`).
+ *
+ * Where the largest order (256 nodes from a start of 8, 480 from 60: the orders double from the
+ * start) still does not agree with the one before (a kink or a feature no cut marks), the piece is
+ * halved and each half chosen again (depth first, each half with half the absolute tolerance), at
+ * most MAX_HALVINGS times in all; a piece still unconverged then is returned with its largest
+ * order and listed in `unconverged`, for the caller to say so. Before, that order was returned
+ * silently: a forecast's grid stepping over a spike between a phi* table's rows 0.001 apart (which
+ * it does not cut at) was 2.7e-3 low in that slice.
  */
 export function chooseRedshiftNodes(
   z1: number,
@@ -190,19 +260,38 @@ export function chooseRedshiftNodes(
   abs = 0,
   g?: (z: number) => number,
   gAbs = 0,
-): { z: number[]; w: number[] } {
+): RedshiftRule {
+  const budget = { halvings: MAX_HALVINGS };
+  return chooseNodesWithin(z1, z2, f, rel, nStart, abs, g, gAbs, budget);
+}
+
+function chooseNodesWithin(
+  z1: number,
+  z2: number,
+  f: (z: number) => number,
+  rel: number,
+  nStart: number,
+  abs: number,
+  g: ((z: number) => number) | undefined,
+  gAbs: number,
+  budget: { halvings: number },
+): RedshiftRule {
   let n = nStart;
   let prev = redshiftNodes(z1, z2, n);
   let prevSum = sumOver(prev, f);
   let prevG = g ? sumOver(prev, g) : 0;
+  let difference = 0;
+  let differenceG = 0;
   while (n < 256) {
     const next = redshiftNodes(z1, z2, 2 * n);
     const nextSum = sumOver(next, f);
-    let agree = Math.abs(nextSum - prevSum) <= Math.max(rel * Math.abs(nextSum), abs);
+    difference = Math.abs(nextSum - prevSum);
+    let agree = difference <= Math.max(rel * Math.abs(nextSum), abs);
     let nextG = 0;
     if (g) {
       nextG = sumOver(next, g);
-      agree &&= Math.abs(nextG - prevG) <= Math.max(rel * Math.abs(nextG), gAbs);
+      differenceG = Math.abs(nextG - prevG);
+      agree &&= differenceG <= Math.max(rel * Math.abs(nextG), gAbs);
     }
     if (agree) return prev;
     n *= 2;
@@ -210,7 +299,16 @@ export function chooseRedshiftNodes(
     prevSum = nextSum;
     prevG = nextG;
   }
-  return prev;
+  if (budget.halvings <= 0 || !(z2 - z1 > 1e-9 * Math.max(1, Math.abs(z2))))
+    return { ...prev, unconverged: [g ? { z1, z2, difference, differenceG } : { z1, z2, difference }] };
+  budget.halvings--;
+  const mid = 0.5 * (z1 + z2);
+  const left = chooseNodesWithin(z1, mid, f, rel, nStart, 0.5 * abs, g, 0.5 * gAbs, budget);
+  const right = chooseNodesWithin(mid, z2, f, rel, nStart, 0.5 * abs, g, 0.5 * gAbs, budget);
+  const out: RedshiftRule = { z: [...left.z, ...right.z], w: [...left.w, ...right.w] };
+  const missed = [...(left.unconverged ?? []), ...(right.unconverged ?? [])];
+  if (missed.length > 0) out.unconverged = missed;
+  return out;
 }
 
 /**
@@ -225,7 +323,7 @@ export function piecewiseRedshiftNodes(
   f: (z: number) => number,
   nStart = 2,
   g?: (z: number) => number,
-): { z: number[]; w: number[] } {
+): RedshiftRule {
   if (cuts.length === 2) return chooseRedshiftNodes(cuts[0]!, cuts[1]!, f, 1e-8, undefined, 0, g);
   let estimate = 0;
   let estimateG = 0;
@@ -238,12 +336,14 @@ export function piecewiseRedshiftNodes(
   const gAbs = 1e-9 * Math.abs(estimateG);
   const z: number[] = [];
   const w: number[] = [];
+  let unconverged: UnconvergedPiece[] | undefined;
   for (let k = 0; k + 1 < cuts.length; k++) {
     const piece = chooseRedshiftNodes(cuts[k]!, cuts[k + 1]!, f, 1e-8, nStart, abs, g, gAbs);
     z.push(...piece.z);
     w.push(...piece.w);
+    if (piece.unconverged) (unconverged ??= []).push(...piece.unconverged);
   }
-  return { z, w };
+  return unconverged ? { z, w, unconverged } : { z, w };
 }
 
 function sumOver(nodes: { z: number[]; w: number[] }, f: (z: number) => number): number {
@@ -326,6 +426,7 @@ export function countPopulation(
       out.push(empty);
       continue;
     }
+    const missed: { at?: { share: number; z: number } } = {};
     const nodes = buildNodes(
       survey,
       population,
@@ -335,6 +436,7 @@ export function countPopulation(
       hi,
       options.offsets,
       options.offsets ? undefined : options.hardCounts,
+      missed,
     );
     let result: { count: number; histogram: Histogram; detectedLuminosity?: number };
     const perNode = options.profile ? new Array<number>(nodes.length).fill(0) : undefined;
@@ -394,6 +496,7 @@ export function countPopulation(
       slice.nodes = detail;
     }
     if (options.drawNodes) slice.drawNodes = nodes;
+    if (missed.at) slice.quadratureMissed = missed.at;
     if (!options.noHistogram || detail) {
       const lum = sliceLuminosity(nodes, observer, completeness, breaks, result.detectedLuminosity, detail);
       if (!Number.isFinite(lum.detected) || (lum.total !== undefined && !Number.isFinite(lum.total))) {
@@ -582,6 +685,7 @@ function buildNodes(
   hi: number,
   offsets?: ParameterOffsets,
   hardCounts?: Map<number, number>,
+  missed?: { at?: { share: number; z: number } },
 ): NodeState[] {
   const effects = selectionEffects(survey.detection, population);
   // Model, observation, selection weight and volume element at z, cached: the chosen nodes are
@@ -645,7 +749,12 @@ function buildNodes(
     inner.sort((x, y) => x - y);
   }
   const weighted = bias ? (zi: number) => hardCount(zi) * bias(zi) : undefined;
-  const { z, w } = piecewiseRedshiftNodes([lo, ...inner, hi], hardCount, nStart, weighted);
+  const rule = piecewiseRedshiftNodes([lo, ...inner, hi], hardCount, nStart, weighted);
+  const { z, w } = rule;
+  if (rule.unconverged && missed) {
+    const m = unconvergedShare(rule, hardCount, weighted);
+    if (m) missed.at = m;
+  }
   const nodes: NodeState[] = [];
   for (let i = 0; i < z.length; i++) {
     const zi = z[i]!;

@@ -247,6 +247,14 @@ export function countPhotoZ(
     });
     if (j >= 1 && j <= nSlices) slices.push(measuredSlice(survey, population, cosmo, a, b, run, weights, options));
   });
+  // a piece of true redshift whose quadrature did not converge: said of the slice it lies in (or the
+  // nearest, beyond the edges), the share its own
+  run.forEach((p, k) => {
+    const m = p.quadratureMissed;
+    if (!m) return;
+    const sl = slices[Math.min(nSlices, Math.max(1, pieceBin[k]!)) - 1]!;
+    if (!sl.quadratureMissed || sl.quadratureMissed.share < m.share) sl.quadratureMissed = m;
+  });
   const measuredCounts = measuredBins.map((_, j) => matrix.reduce((s, row) => s + row[j]!, 0));
   return {
     slices,

@@ -21,7 +21,7 @@
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
-import type { Histogram, SliceCount } from './engine.js';
+import { MAX_HALVINGS, UNCONVERGED_SHARE, type Histogram, type SliceCount } from './engine.js';
 import { countWith, type CountMemo } from './count-memo.js';
 import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED, MAX_MODEL_DRAWS } from './model-draws.js';
 import { assertWholeOption } from '../errors.js';
@@ -53,7 +53,7 @@ import {
   type UncertaintyMemo,
 } from '../uncertainty/prediction.js';
 import { describeModel } from '../population/describe.js';
-import { predictionWarnings } from './warnings.js';
+import { predictionWarnings, unconvergedWarning } from './warnings.js';
 import { mergeWarnings, warning, type Warning } from '../warnings.js';
 import { precise } from '../render/format.js';
 import { removingSelectionHint } from '../selection/describe.js';
@@ -656,6 +656,10 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
         survey,
       ),
       uncertaintyWarnings,
+      runs.flatMap((r) => {
+        const w = unconvergedWarning(r.name, r.own, UNCONVERGED_SHARE, MAX_HALVINGS);
+        return w ? [w] : [];
+      }),
     ),
   };
   return coincide

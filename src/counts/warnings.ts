@@ -105,3 +105,32 @@ function completenessAtLimit(survey: Survey, populations: readonly Population[])
       'if the curve was measured for another depth, move it with the limit (a curve usually reaches 50 % near the limit; common practice), otherwise ignore this',
   );
 }
+
+/**
+ * The warning for a population some of whose slices' integrals over redshift did not converge
+ * (src/counts/engine.ts chooseRedshiftNodes: still unconverged after halving its pieces, the last
+ * two orders apart by more than `threshold` of the slice's integral), or undefined when none did.
+ */
+export function unconvergedWarning(
+  population: string,
+  slices: readonly { zMin: number; zMax: number; quadratureMissed?: { share: number; z: number } }[],
+  threshold: number,
+  halvings: number,
+): Warning | undefined {
+  const bad = slices.filter((s) => s.quadratureMissed && s.quadratureMissed.share > threshold);
+  if (bad.length === 0) return undefined;
+  let worst = bad[0]!;
+  for (const s of bad) if (s.quadratureMissed!.share > worst.quadratureMissed!.share) worst = s;
+  const { share, z } = worst.quadratureMissed!;
+  const ranges = bad.map((s) => `${fmtNum(s.zMin)}-${fmtNum(s.zMax)}`).join(', ');
+  const one = bad.length === 1;
+  return warning(
+    'redshift_integral_unconverged',
+    `${population}: the integral over redshift of ${one ? 'the slice' : 'the slices'} ${ranges} did not converge ` +
+      `(after ${halvings} halvings of its pieces the quadrature's last two orders still differ by ` +
+      `${precise(share, 2)} of ${one ? 'its' : "a slice's"} count, the most near z = ${fmtNum(z)}), so ` +
+      `${one ? 'its count' : 'their counts'} may be off by more than the 1e-6 promised: something in the survey ` +
+      `changes there faster than the quadrature follows; put slice edges around z = ${fmtNum(z)} ` +
+      `(slices: {edges: [...]}), or make what changes there smoother`,
+  );
+}

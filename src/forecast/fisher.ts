@@ -16,7 +16,7 @@
  * modes span them): marginaliseCorrelated takes the joint prior S_ij = sigma_i sigma_j R_ij (R from
  * src/uncertainty/box-covariance.ts), F_marg = F - B (diag(N) + S^-1)^-1 B^T.
  */
-import type { DensityGrid } from './grid.js';
+import type { DensityGrid, QuadratureMissed } from './grid.js';
 import { sliceCount } from './grid.js';
 import { choleskyInto, choleskySolveInto, zeros, type Matrix } from '../numerics/linalg.js';
 import { addSliceSums } from './slice-sums.js';
@@ -36,6 +36,8 @@ export interface FisherParts {
   slices: SliceInformation[];
   /** Total expected count. */
   count: number;
+  /** The slices whose redshift quadrature did not converge (the grid's `quadratureMissed`). */
+  quadratureMissed?: QuadratureMissed[];
 }
 
 /**
@@ -375,5 +377,6 @@ export function fisherPartsAt(grid: DensityGrid, theta: ArrayLike<number>): Fish
     }
     addSliceSums(parts, n, bc, ba, fcc, fca, faa);
   }
+  if (grid.quadratureMissed) parts.quadratureMissed = grid.quadratureMissed;
   return parts;
 }

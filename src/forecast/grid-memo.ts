@@ -45,9 +45,12 @@ export class FisherSumsMemo {
 /** Every sum of `parts` times `ratio` (`parts` itself for a ratio of 1). */
 export function scaledParts(parts: FisherParts, ratio: number): FisherParts {
   if (ratio === 1) return parts;
-  return {
+  const out: FisherParts = {
     matrix: parts.matrix.map((row) => row.map((v) => v * ratio)),
     slices: parts.slices.map((s) => ({ count: s.count * ratio, b: s.b.map((v) => v * ratio) })),
     count: parts.count * ratio,
   };
+  // (shares of each slice's integral: the area scales them out)
+  if (parts.quadratureMissed) out.quadratureMissed = parts.quadratureMissed;
+  return out;
 }

@@ -32,7 +32,7 @@ import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Completeness, DetectionKind } from '../model/detection.js';
 import type { Population, PopulationVariable } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
-import { featureBreaks, piecewiseRedshiftNodes } from '../counts/engine.js';
+import { featureBreaks, filterBreaks, piecewiseRedshiftNodes, unconvergedShare } from '../counts/engine.js';
 import { upperGamma } from '../numerics/gamma.js';
 import { keptBreaks, panelNodes, type PanelNodes } from '../numerics/quadrature.js';
 import { makeObserver, type Observation, type Observer } from '../selection/observe.js';
@@ -78,6 +78,15 @@ export interface DensityGrid {
   completeness?: Completeness;
   kind: DetectionKind;
   variable: PopulationVariable;
+  /** The slices whose nodes' order did not converge (src/counts/engine.ts unconvergedShare); absent when all did. */
+  quadratureMissed?: QuadratureMissed[];
+}
+
+/** A slice (its index) whose redshift quadrature did not converge: by what share of its integral, near which z. */
+export interface QuadratureMissed {
+  slice: number;
+  share: number;
+  z: number;
 }
 
 /**
@@ -90,6 +99,8 @@ interface DensitySink {
   point(t: number, logW: number, a1: number): void;
   node(z: number, a1: number, obsA: number, logV: number, tLim: number, tMax: number): void;
   sliceEnd(): void;
+  /** The current slice's redshift quadrature did not converge (before its nodes come). */
+  missed(share: number, z: number): void;
 }
 
 /** Tabulate the density of detected sources of `population` on `edges`. */
@@ -132,6 +143,7 @@ export function buildDensityGrid(
   };
   const comp = survey.detection.completeness;
   if (comp) grid.completeness = comp;
+  if (sink.quadratureMissed.length > 0) grid.quadratureMissed = sink.quadratureMissed;
   return grid;
 }
 
@@ -183,6 +195,12 @@ class GridArrays implements DensitySink {
 
   sliceEnd(): void {
     this.sliceNodeStart.push(this.nodeZ.length);
+  }
+
+  readonly quadratureMissed: QuadratureMissed[] = [];
+
+  missed(share: number, z: number): void {
+    this.quadratureMissed.push({ slice: this.sliceNodeStart.length - 1, share, z });
   }
 }
 
@@ -236,6 +254,10 @@ class FisherSums implements DensitySink {
   sliceEnd(): void {
     addSliceSums(this.parts, this.n, this.bc, this.ba, this.fcc, this.fca, this.faa);
     this.n = this.bc = this.ba = this.fcc = this.fca = this.faa = 0;
+  }
+
+  missed(share: number, z: number): void {
+    (this.parts.quadratureMissed ??= []).push({ slice: this.parts.slices.length, share, z });
   }
 }
 
@@ -375,12 +397,19 @@ function walkSlice(walk: Walk, lo: number, hi: number): void {
     hardCounts.set(zi, f);
     return f;
   };
-  // the cuts the selection effects ask for, and those around a parameter's or a threshold limit's
-  // narrow feature (none for a smooth expression: the nodes are then the selection's alone)
-  const features = featureBreaks(walk.survey, population, lo, hi);
-  const cuts =
-    features.length > 0 ? keptBreaks([...effects.breaks(lo, hi), ...features], lo, hi) : effects.breaks(lo, hi);
-  const { z, w } = piecewiseRedshiftNodes([lo, ...cuts, hi], hardCount);
+  // the cuts the selection effects ask for, those around a parameter's or a threshold limit's
+  // narrow feature (none for a smooth expression: the nodes are then the selection's alone) and a
+  // tabulated filter's rows, where the transmission has a kink (the count engine's filterBreaks:
+  // without them 256 nodes did not converge across the rows, and the slices of the sample
+  // narrowband-interlopers.yaml were 5.6e-6 below predict's)
+  const extra = [...featureBreaks(walk.survey, population, lo, hi), ...filterBreaks(walk.survey, population, lo, hi)];
+  const cuts = extra.length > 0 ? keptBreaks([...effects.breaks(lo, hi), ...extra], lo, hi) : effects.breaks(lo, hi);
+  const rule = piecewiseRedshiftNodes([lo, ...cuts, hi], hardCount);
+  const { z, w } = rule;
+  if (rule.unconverged) {
+    const m = unconvergedShare(rule, hardCount);
+    if (m) walk.sink.missed(m.share, m.z);
+  }
   for (let i = 0; i < z.length; i++) {
     const zi = z[i]!;
     walkNode(walk, zi, w[i]!, at(zi));

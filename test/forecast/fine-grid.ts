@@ -7,9 +7,9 @@
 import type { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import type { Population } from '../../src/model/population.js';
 import type { Survey } from '../../src/model/survey.js';
-import { piecewiseRedshiftNodes } from '../../src/counts/engine.js';
+import { featureBreaks, filterBreaks, piecewiseRedshiftNodes } from '../../src/counts/engine.js';
 import { upperGamma } from '../../src/numerics/gamma.js';
-import { panelNodes, type PanelNodes } from '../../src/numerics/quadrature.js';
+import { keptBreaks, panelNodes, type PanelNodes } from '../../src/numerics/quadrature.js';
 import { makeObserver } from '../../src/selection/observe.js';
 import { selectionEffects } from '../../src/selection/effects.js';
 import { completenessBreaks, completenessFunction } from '../../src/selection/completeness.js';
@@ -78,7 +78,12 @@ export function buildFineDensityGrid(
         for (const c of p.components) n += c.phiStar * upperGamma(c.alpha + 1, u);
         return cosmo.volumeElementMpc3Sr(zi) * n * effects.weight(zi);
       };
-      const { z, w } = piecewiseRedshiftNodes([lo, ...effects.breaks(lo, hi), hi], hardCount);
+      // the redshift nodes of src/forecast/grid.ts (its cuts: the selection's, a parameter's narrow
+      // features, a tabulated filter's rows)
+      const extra = [...featureBreaks(survey, population, lo, hi), ...filterBreaks(survey, population, lo, hi)];
+      const cuts =
+        extra.length > 0 ? keptBreaks([...effects.breaks(lo, hi), ...extra], lo, hi) : effects.breaks(lo, hi);
+      const { z, w } = piecewiseRedshiftNodes([lo, ...cuts, hi], hardCount);
       for (let i = 0; i < z.length; i++) {
         const zi = z[i]!;
         const { p, obs } = at(zi);

@@ -2,7 +2,8 @@
 """Independent expected counts for survey files whose expressions in z have a narrow feature (a dip,
 a spike or a step about 1e-3 of the window wide) in each place an expression can stand: the redshift
 selection, a population parameter (log10_phi_star, m_star, alpha), an attenuation and a threshold
-limit; and (bias_cases) the bias-weighted integrals of a total's uncertainty where the bias, given as
+limit; a spike between a table's rows 0.001 apart (phi_star_table_spike: a forecast's density grid,
+which does not cut at a parameter's rows, must refine its redshift nodes to follow it); and (bias_cases) the bias-weighted integrals of a total's uncertainty where the bias, given as
 an expression or a table, has a narrow feature or rows inside a slice.
 
 Semantics as counts.py (whose model this script reuses: astropy 5.2.1 FlatLambdaCDM, mpmath.gammainc
@@ -145,6 +146,20 @@ population:
 slices: {edges: [0.2, 0.5, 0.8, 1.5]}
 histogram: {width: 0.2}
 """, [(0.63, 0.0008)]),
+"phi_star_table_spike": ("""
+title: Invented line survey whose log10 phi* table spikes between rows 0.001 apart
+cosmology: {h0: 70, omega_m: 0.3}
+area: 0.5
+redshift: {min: 1.0, max: 2.0}
+detection: {kind: line_flux, limit: 3e-17, line: 6563}
+population:
+  variable: luminosity
+  log10_phi_star: {table: [[1.0, -3.0], [1.371, -3.1], [1.372, -2.3], [1.373, -3.1], [2.0, -3.2]]}
+  log10_l_star: 42.4
+  alpha: -1.5
+slices: {count: 2}
+histogram: {width: 0.2}
+""", [(1.372, 0.0005)]),
 }
 
 # name -> (survey text, [(centre, width), ...] of the bias's features or rows (width 0))
