@@ -9,7 +9,9 @@
  * - test/reference/narrow_features.json (test/reference/generate/narrow_features.py: counts.py's model
  *   with astropy 5.2.1 and mpmath 1.2.1, the outer integral by scipy 1.10.1 quad at epsrel 1e-10 with
  *   `points=` at each feature): a feature in the redshift selection, log10_phi_star, m_star, alpha, an
- *   attenuation and a threshold limit. Tolerance 1e-7 relative (the docs promise 1e-6; the quadrature's
+ *   attenuation and a threshold limit, a spike between a phi* table's rows, and a coarse tabulated
+ *   filter with sharp steps between its rows (filter_table_steps, test/reference/narrow-features/
+ *   coarse-steps.csv, quad cut at each row's redshift). Tolerance 1e-7 relative (the docs promise 1e-6; the quadrature's
  *   own target per piece is 1e-8).
  * - test/reference/narrow_features.json's bias_cases (the same generator: the totals' bias-weighted
  *   integrals by quad with `points=` at the bias's feature or rows, the growth from power.py): a
@@ -28,6 +30,7 @@
 import { describe, expect, test } from 'vitest';
 import fc from 'fast-check';
 import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
 import { loadSurveyText } from '../../src/survey/load.js';
 import { predict } from '../../src/counts/predict.js';
 import { forecast } from '../../src/forecast/forecast.js';
@@ -55,6 +58,8 @@ const REF = JSON.parse(readFileSync(new URL('../reference/narrow_features.json',
 };
 
 const rel = (a: number, b: number) => Math.abs(a / b - 1);
+/** A case's survey file as if it lay beside the fixture (its filter table's path is relative to test/reference/). */
+const caseFile = (name: string) => fileURLToPath(new URL(`../reference/${name}.yaml`, import.meta.url));
 
 function sliceCounts(text: string, file: string): number[] {
   const p = predict(loadSurveyText(text, file), FAST);
@@ -72,11 +77,12 @@ describe('a narrow feature of an expression in z, against scipy quad cut at the 
       'attenuation_spike',
       'threshold_limit_spike',
       'phi_star_table_spike',
+      'filter_table_steps',
     ]);
   });
 
   test.each(REF.cases.map((c) => [c.name, c] as const))('%s: every slice to 1e-7', (name, c) => {
-    const counts = sliceCounts(c.yaml, `${name}.yaml`);
+    const counts = sliceCounts(c.yaml, caseFile(name));
     expect(counts.length).toBe(c.slices.length);
     const off = counts.map((n, i) => rel(n, c.slices[i]!.count)).filter((r) => !(r < 1e-7));
     expect(off).toEqual([]);
@@ -87,7 +93,7 @@ describe('the histogram of the slice holding the feature, against scipy', () => 
   // before: 3.2e-3 off (selection), 4.2e-3 (phi*), 1.9e-3 (a threshold limit's spike; 1.9e-4 after
   // the counts were cut at the feature, until the limit's bin-edge crossings inside it were found)
   test.each(REF.cases.map((c) => [c.name, c] as const))('%s: four bins near the limit to 1e-7', (name, c) => {
-    const p = predict(loadSurveyText(c.yaml, `${name}.yaml`), FAST);
+    const p = predict(loadSurveyText(c.yaml, caseFile(name)), FAST);
     if (p.breakdown !== 'redshift') throw new Error('expected slices in redshift');
     const slice = p.slices.find((s) => s.z_min === c.feature_slice.z_min)!;
     const { edges, counts } = slice.histogram;
@@ -105,9 +111,11 @@ describe("a forecast's slices (its own density grid in z) follow the same featur
   // before: the grid cut only where the selection effects do: the log10_phi_star spike's slice was
   // 3.9e-3 high, the threshold limit's 2e-5 low; and the spike between a phi* table's rows, where
   // the grid does not cut, 2.7e-3 low, its 256 nodes not converged and nothing said (now its
-  // pieces are halved until they converge: src/counts/engine.ts chooseRedshiftNodes)
+  // pieces are halved until they converge: src/counts/engine.ts chooseRedshiftNodes); and the
+  // coarse filter table's slices, where the grid did not cut at the rows as the engine does,
+  // 1.09e-5 and 6.8e-6 low (its Fisher covariance 1.6e-5 off)
   test.each(REF.cases.map((c) => [c.name, c] as const))('%s: every slice to 1e-7', async (name, c) => {
-    const f = await forecast(loadSurveyText(c.yaml, `${name}.yaml`), { cosmicVariance: false, mocks: 0 });
+    const f = await forecast(loadSurveyText(c.yaml, caseFile(name)), { cosmicVariance: false, mocks: 0 });
     const off = f.slices.map((s, i) => rel(s.count, c.slices[i]!.count)).filter((r) => !(r < 1e-7));
     expect(off).toEqual([]);
   });

@@ -3,7 +3,11 @@
 a spike or a step about 1e-3 of the window wide) in each place an expression can stand: the redshift
 selection, a population parameter (log10_phi_star, m_star, alpha), an attenuation and a threshold
 limit; a spike between a table's rows 0.001 apart (phi_star_table_spike: a forecast's density grid,
-which does not cut at a parameter's rows, must refine its redshift nodes to follow it); and (bias_cases) the bias-weighted integrals of a total's uncertainty where the bias, given as
+which does not cut at a parameter's rows, must refine its redshift nodes to follow it); a coarse
+tabulated filter with sharp steps between its few rows (filter_table_steps, its curve in
+test/reference/narrow-features/coarse-steps.csv: the transmission, relative to its peak, linear
+between rows and 0 outside them as docs/survey-file.md says, has a kink at each row's redshift
+lambda_k / lambda_line - 1, where quad is cut; the measured flux is L T / (4 pi D_L^2)); and (bias_cases) the bias-weighted integrals of a total's uncertainty where the bias, given as
 an expression or a table, has a narrow feature or rows inside a slice.
 
 Semantics as counts.py (whose model this script reuses: astropy 5.2.1 FlatLambdaCDM, mpmath.gammainc
@@ -160,6 +164,19 @@ population:
 slices: {count: 2}
 histogram: {width: 0.2}
 """, [(1.372, 0.0005)]),
+"filter_table_steps": ("""
+title: Invented H-alpha search through a coarse tabulated filter with sharp steps between its rows
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1.5
+detection:
+  kind: line_flux
+  limit: 3e-17
+  line: 6563
+  filter: {profile: table, file: narrow-features/coarse-steps.csv}
+population: {variable: luminosity, log10_phi_star: -2.8, log10_l_star: 41.9, alpha: -1.35}
+slices: {count: 2}
+histogram: {width: 0.1}
+""", [(w / 6563.0 - 1, 0.0) for w in (9092, 9131, 9139, 9197, 9206)]),
 }
 
 # name -> (survey text, [(centre, width), ...] of the bias's features or rows (width 0))
@@ -195,10 +212,41 @@ slices: {count: 2}
 }
 
 
+REFERENCE_DIR = os.path.join(os.path.dirname(os.path.abspath(__file__)), '..')
+
+
+def table_filter(doc):
+    """A tabulated filter (docs/survey-file.md, filters): rows `wavelength_angstrom, transmission`
+    relative to the peak, linear between rows, 0 outside; the window is where the curve is above 0
+    (from the row before the first positive one to the row after the last). Returns the survey
+    without its filter but with that window as its redshift range, and T(z) at the line."""
+    det = doc['detection']
+    rows = np.loadtxt(os.path.join(REFERENCE_DIR, det['filter']['file']), delimiter=',', comments='#', skiprows=3)
+    ws, ts = rows[:, 0], rows[:, 1] / rows[:, 1].max()
+    pos = np.nonzero(ts > 0)[0]
+    lo, hi = ws[max(pos[0] - 1, 0)], ws[min(pos[-1] + 1, len(ws) - 1)]
+    line = float(doc['population'].get('line', det['line']))
+    plain = dict(doc, redshift={'min': lo / line - 1, 'max': hi / line - 1},
+                 detection={k: v for k, v in det.items() if k != 'filter'})
+    return plain, lambda z: float(np.interp(line * (1 + z), ws, ts, left=0.0, right=0.0))
+
+
 def model(doc):
-    """counts.py's model with the redshift selection and attenuation of selection.py items 1 and 3."""
+    """counts.py's model with the redshift selection and attenuation of selection.py items 1 and 3,
+    and a tabulated filter."""
     pop = doc['population']; det = doc['detection']
-    m = C.survey_model(doc, pop)
+    if det.get('filter', {}).get('profile') == 'table':
+        plain, trans = table_filter(doc)
+        m = C.survey_model(plain, pop)
+        untransmitted = m['obs_of']
+
+        def obs_of_filtered(z):
+            a, slope, olim = untransmitted(z)
+            t = trans(z)
+            return (a + math.log10(t) if t > 0 else -math.inf), slope, olim
+        m['obs_of'] = obs_of_filtered
+    else:
+        m = C.survey_model(doc, pop)
     sel = pop.get('redshift_selection', det.get('redshift_selection'))
     m['selection'] = param(sel) if sel is not None else (lambda z: 1.0)
     if 'attenuation' in pop:
