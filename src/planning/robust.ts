@@ -123,7 +123,7 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
   // per tier (a design's tier under every draw): its knot interval and Hermite weights in Delta,
   // its area and its cosmic-variance fractions, found once
   const places = new Map<TierValue, TierPlace>();
-  const fractionCache = new Map<string, number[]>();
+  const fractionCache = new Map<string, Float64Array>();
   const placeOf = (t: TierValue): TierPlace => {
     let hit = places.get(t);
     if (hit) return hit;
@@ -137,7 +137,9 @@ export function robustGoals(ctx: RobustContext, designs: readonly Evaluated[]): 
     const key = `${t.hours}:${t.pointings}`;
     let fractions = fractionCache.get(key);
     if (!fractions) {
-      fractions = model.fractionsAt(t.hours, t.pointings);
+      // (a Float64Array, as the design model passes its own: marginaliseCorrelated3 met a plain
+      // array here after V8 had compiled it on typed arrays, and was compiled again)
+      fractions = Float64Array.from(model.fractionsAt(t.hours, t.pointings));
       fractionCache.set(key, fractions);
     }
     hit = { at: j * stride, weights, area: t.areaDeg2, fractions, correlation: model.correlationAt(t.pointings) };
@@ -242,7 +244,7 @@ interface TierPlace {
   at: number;
   weights: Float64Array;
   area: number;
-  fractions: number[];
+  fractions: Float64Array;
   correlation: Float64Array;
 }
 
