@@ -74,6 +74,29 @@ export function formatNumber(x: number, sig = 4): string {
 }
 
 /**
+ * A number the survey file wrote, for the report's model table. From 1,000 up with every digit it
+ * needs to give that number back (the shortest form that does, Number.prototype.toString's): 6562.8
+ * as "6,562.8" where formatNumber writes "6,563", and 1.23456789e42 as "1.23456789 × 10<sup>42</sup>";
+ * thousands grouped and powers of ten where formatNumber puts them. Below 1,000 six significant
+ * digits, formatNumber(x, 6): there they keep every digit a reader needs (-3.46222 for a log10 phi*
+ * written -3.4622156886994633), where from 1,000 up formatNumber kept only the integer.
+ */
+export function formatWritten(x: number): string {
+  if (typeof x !== 'number' || !Number.isFinite(x)) return '—';
+  const ax = Math.abs(x);
+  if (ax < 1000) return formatNumber(x, 6);
+  if (ax >= 1e7) {
+    const [m, e] = x.toExponential().split('e');
+    return `${m} × 10<sup>${Number(e)}</sup>`;
+  }
+  // between 1,000 and 1e7 toString writes no exponent
+  const s = String(x);
+  const dot = s.indexOf('.');
+  const whole = dot < 0 ? s : s.slice(0, dot);
+  return groupThousands(Number(whole)) + (dot < 0 ? '' : s.slice(dot));
+}
+
+/**
  * An integer with commas between groups of three digits, as toLocaleString('en-US') writes it
  * (written out here: the first toLocaleString of a process loads the locale data, tens of ms).
  */

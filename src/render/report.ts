@@ -20,6 +20,7 @@ import {
   formatFixed,
   formatNumber,
   formatScientific,
+  formatWritten,
   formatZ,
   goalWords,
   percent,
@@ -223,14 +224,17 @@ function isRecord(v: unknown): v is Record<string, unknown> {
   return typeof v === 'object' && v !== null && !Array.isArray(v);
 }
 
-/** A number as the model table writes it (6 significant digits), anything else as escaped text. */
+/**
+ * A number as the model table writes it (formatWritten: from 1,000 up every digit the file wrote, so
+ * a line at 6562.8 Å is not 6,563 Å; below, 6 significant digits), anything else as escaped text.
+ */
 function numberHtml(v: unknown): string {
-  return typeof v === 'number' ? formatNumber(v, 6) : escapeHtml(v);
+  return typeof v === 'number' ? formatWritten(v) : escapeHtml(v);
 }
 
-/** A quantity as written: a number in the key's unit ("1,500 Å"), or the string with its unit. */
+/** A quantity as written: a number in the key's unit ("1,500 Å", "6,562.8 Å"), or the string with its unit. */
 function quantityHtml(v: unknown, unit: string): string {
-  return typeof v === 'number' ? `${formatNumber(v, 6)} ${unit}` : wordsHtml(v);
+  return typeof v === 'number' ? `${formatWritten(v)} ${unit}` : wordsHtml(v);
 }
 
 /** A parameter in z: a number, an expression in z, or a table interpolated linearly. */
@@ -302,15 +306,12 @@ function equivalentWidthsHtml(v: unknown): string {
   return wordsHtml(v);
 }
 
-/** blended_lines in words: "6583.45 Å at 0.15 of the line's flux; 6548.05 Å at 0.05 of the line's flux". */
+/** blended_lines in words: "6,583.45 Å at 0.15 of the line's flux; 6,548.05 Å at 0.05 of the line's flux". */
 function blendedLinesHtml(v: unknown): string {
   if (!Array.isArray(v)) return wordsHtml(v);
   return v
     .map((b) =>
-      isRecord(b)
-        ? // the wavelength as written: lines 0.5 Å apart differ (formatNumber rounds 1,000 and more to integers)
-          `${typeof b.line === 'number' ? `${escapeHtml(String(b.line))} Å` : wordsHtml(b.line)} at ${numberHtml(b.ratio)} of the line's flux`
-        : wordsHtml(b),
+      isRecord(b) ? `${quantityHtml(b.line, 'Å')} at ${numberHtml(b.ratio)} of the line's flux` : wordsHtml(b),
     )
     .join('; ');
 }

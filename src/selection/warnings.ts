@@ -15,7 +15,9 @@
  *    inconsistently, so the conversion used is said once;
  *  - line_below_lyman_limit: a line search's line is shorter than the Lyman limit (912 Angstrom),
  *    where no galaxy's line is seen: most likely a wavelength in nm written as a plain number,
- *    read in Angstrom ("line: 656.3" through a 1.2-1.9 um grism is seen at z = 17 to 28);
+ *    read in Angstrom ("line: 656.3" through a 1.2-1.9 um grism is seen at z = 17 to 28); likewise
+ *    each line of blended_lines (one warning per line, naming it: "blended_lines: [{line: 654.8}]",
+ *    [NII] in nm, would add its flux, and find sources by it alone, at z = 17 to 28);
  *  - radio_spectrum_steep: a magnitude survey in a radio band (1 mm or longer) with beta above -1,
  *    i.e. f_nu ~ nu^a with a = -(2 + beta) below -1, steeper than galaxies' synchrotron spectra
  *    (a about -0.7, beta = -1.3; common practice): most likely a spectral index written as beta
@@ -25,6 +27,7 @@ import type { Survey } from '../model/survey.js';
 import { warning, type Warning } from '../warnings.js';
 import { precise } from '../render/format.js';
 import { bandRedEdgeAngstrom, LYMAN_ALPHA_ANGSTROM } from './igm.js';
+import { filterRedshiftWindow } from './filter.js';
 
 /** How far (relative) the rest-frame band may lie from a defaulted rest wavelength. */
 export const REST_WAVELENGTH_TOLERANCE = 0.3;
@@ -112,6 +115,27 @@ export function selectionWarnings(survey: Survey): Warning[] {
             `a plain number is a wavelength in Angstrom: a wavelength in nm needs its unit (line: "${l} nm")`,
         ),
       );
+    }
+    if (d.kind === 'line_flux') {
+      for (const [i, b] of (p.blendedLines ?? []).entries()) {
+        if (!(b.restAngstrom < LYMAN_LIMIT_ANGSTROM)) continue;
+        const l = precise(b.restAngstrom, 6);
+        // where it adds its flux: where the filter sees it (the window reaches there), or the whole window
+        const seen = d.filter ? filterRedshiftWindow(d.filter, b.restAngstrom) : { min, max };
+        const from = Math.max(seen.min, min);
+        const to = Math.min(seen.max, max);
+        const where =
+          from < to
+            ? `so it adds its flux at z = ${fmt(from)} to ${fmt(to)}`
+            : 'so the filter sees it nowhere in the window';
+        out.push(
+          warning(
+            'line_below_lyman_limit',
+            `${p.name}: blended_lines[${i}], the line at ${l} A, lies below the Lyman limit (${LYMAN_LIMIT_ANGSTROM} A), where no galaxy's line is seen, ${where}; ` +
+              `a plain number is a wavelength in Angstrom: a wavelength in nm needs its unit (blended_lines: [{line: "${l} nm", ratio: ${precise(b.ratio, 6)}}])`,
+          ),
+        );
+      }
     }
     const key = p.normalisationKey;
     if (key?.endsWith('_dex')) {

@@ -16,15 +16,16 @@
  *   share its last two orders differ by above 1e-7.
  * - predict cuts at a table's rows (src/counts/engine.ts parameterBreaks), the forecast's grid does
  *   not: a phi* table zigzagging every 0.0025 in z (400 kinks) is beyond the forecast's halvings, so
- *   its outputs must warn, and predict's must not.
+ *   its outputs must warn (a plan's too: its grid is the forecast's), and predict's must not.
  */
 import { describe, expect, test } from 'vitest';
-import { readdirSync } from 'node:fs';
 import { chooseRedshiftNodes, MAX_HALVINGS, UNCONVERGED_SHARE, unconvergedShare } from '../../src/counts/engine.js';
 import { unconvergedWarning } from '../../src/counts/warnings.js';
 import { loadSurveyFile, loadSurveyText } from '../../src/survey/load.js';
 import { predict } from '../../src/counts/predict.js';
 import { forecast } from '../../src/forecast/forecast.js';
+import { plan } from '../../src/library/plan.js';
+import { readdirSync, readFileSync } from 'node:fs';
 
 const sum = (r: { z: number[]; w: number[] }, f: (z: number) => number): number =>
   r.z.reduce((a, z, i) => a + r.w[i]! * f(z), 0);
@@ -89,6 +90,32 @@ slices: {count: 2}
     );
   });
 
+  test("a plan, whose density grid is the forecast's, warns too", async () => {
+    // samples/plan-uv-deep-wide.yaml over z = 4-6 in one slice, with an M* table zigzagging every
+    // 0.01, 2 exposures 1 to 1.2 h (the grid's nodes after 24 halvings make its depth tables slow:
+    // few of them)
+    const rows = Array.from(
+      { length: 201 },
+      (_, i) => `[${(4 + i * 0.01).toFixed(2)}, ${i % 2 === 0 ? -20.6 : -21.2}]`,
+    );
+    const sample = readFileSync(new URL('../../samples/plan-uv-deep-wide.yaml', import.meta.url), 'utf8')
+      .replace('redshift: {min: 4, max: 8}', 'redshift: {min: 4, max: 6}')
+      .replace('slices: {width: 1}', 'slices: {count: 1}')
+      .replace('m_star: "-20.9 + 0.1*(z - 6)"', `m_star: {table: [${rows.join(', ')}]}`)
+      .replace(
+        'exposure_grid: {min_hours: 0.1, max_hours: 60, count: 200}',
+        'exposure_grid: {min_hours: 1, max_hours: 1.2, count: 2}',
+      );
+    expect(sample).toContain('m_star: {table:');
+    expect(sample).toContain('min_hours: 1, max_hours: 1.2');
+    const p = await plan(loadSurveyText(sample, 'plan-zigzag.yaml'), { cosmicVariance: false });
+    const w = p.warnings.filter((x) => x.code === 'redshift_integral_unconverged');
+    expect(w.length).toBe(1);
+    expect(w[0]!.message).toMatch(
+      /^UV-selected galaxies: the integral over redshift of the slice 4-6 did not converge/,
+    );
+  });
+
   test('predict, which cuts at the rows, converges and does not warn', () => {
     const p = predict(loadSurveyText(text, 'zigzag.yaml'), { noUncertainty: true, model: { draws: 0 } });
     expect(p.warnings.map((x) => x.code)).not.toContain('redshift_integral_unconverged');
@@ -99,10 +126,12 @@ slices: {count: 2}
     const warned: string[] = [];
     for (const s of samples) {
       const survey = loadSurveyFile(new URL(`../../samples/${s}`, import.meta.url).pathname);
-      const p = predict(survey, { model: { draws: 0 } });
+      const p = predict(survey, { noUncertainty: true, model: { draws: 0 } });
       if (p.warnings.some((x) => x.code === 'redshift_integral_unconverged')) warned.push(`predict ${s}`);
       for (const population of survey.populations) {
-        const f = await forecast(survey, { population: population.name, mocks: 0 }).catch(() => undefined);
+        const f = await forecast(survey, { population: population.name, cosmicVariance: false, mocks: 0 }).catch(
+          () => undefined,
+        );
         if (f?.warnings.some((x) => x.code === 'redshift_integral_unconverged')) warned.push(`forecast ${s}`);
       }
     }

@@ -3,7 +3,7 @@ import { describe, expect, test } from 'vitest';
 import fc from 'fast-check';
 import { buildFigures, countsFigure } from '../../src/render/figures.js';
 import { assertSafeSvg, escapeHtml, renderReport, svgForHtml } from '../../src/render/report.js';
-import { formatNumber } from '../../src/render/format.js';
+import { formatNumber, formatWritten, groupThousands } from '../../src/render/format.js';
 import type { Figure, PredictionView } from '../../src/render/types.js';
 import { loadSurveyFile } from '../../src/survey/load.js';
 import { predict } from '../../src/counts/predict.js';
@@ -52,6 +52,51 @@ describe('formatNumber', () => {
     [1.23456e8, '1.235 × 10<sup>8</sup>'],
     [-1.5, '-1.5'],
   ])('%s -> %s', (x, s) => expect(formatNumber(x)).toBe(s));
+});
+
+describe('formatWritten: a number of the model table as the file wrote it', () => {
+  /** The number a reader reads back from the text (commas dropped, m × 10^e as m e e). */
+  const readBack = (t: string) => Number(t.replace(/,/g, '').replace(/ × 10<sup>(-?\d+)<\/sup>$/, 'e$1'));
+
+  test.each([
+    [6562.8, '6,562.8'],
+    [1215.67, '1,215.67'],
+    [1500, '1,500'],
+    [-20123.25, '-20,123.25'],
+    [1.23456789e42, '1.23456789 × 10<sup>42</sup>'],
+    [-3.4622156886994633, '-3.46222'],
+    [2.5e-4, '2.5 × 10<sup>-4</sup>'],
+    [0, '0'],
+  ])('%s -> %s', (x, t) => expect(formatWritten(x)).toBe(t));
+
+  test('property: every finite double of 1,000 or more (either sign) reads back as itself (round trip, exact)', () => {
+    fc.assert(
+      fc.property(fc.double({ min: 1000, noNaN: true, noDefaultInfinity: true }), fc.boolean(), (x, neg) => {
+        const v = neg ? -x : x;
+        expect(readBack(formatWritten(v))).toBe(v);
+      }),
+      { numRuns: 3000 },
+    );
+  });
+
+  test('property: below 1,000 as formatNumber(x, 6); from 1,000 up, a number of at most six significant digits as formatNumber(x, 6) but for the fraction it rounded away below 1e7', () => {
+    fc.assert(
+      fc.property(fc.double({ min: -999.9999999, max: 999.9999999, noNaN: true }), (x) => {
+        expect(formatWritten(x)).toBe(formatNumber(x, 6));
+      }),
+      { numRuns: 3000 },
+    );
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 999_999 }), fc.integer({ min: -2, max: 30 }), fc.boolean(), (m, e, neg) => {
+        const x = Number(`${neg ? '-' : ''}${m}e${e}`);
+        if (Math.abs(x) < 1000) return;
+        const rounded = Math.abs(x) < 1e7 && !Number.isInteger(x);
+        if (rounded) expect(formatNumber(x, 6)).toBe(groupThousands(Math.round(x)));
+        else expect(formatWritten(x)).toBe(formatNumber(x, 6));
+      }),
+      { numRuns: 3000 },
+    );
+  });
 });
 
 describe('assertSafeSvg', () => {
@@ -417,10 +462,32 @@ describe('renderReport: the model table in words', () => {
     );
     expect(byKey.valid_redshift).toBe('0.7 to 2');
     expect(byKey.blended_lines).toBe(
-      "6583.45 Å at 0.15 of the line's flux; 6548.05 Angstrom at 0.05 of the line's flux",
+      "6,583.45 Å at 0.15 of the line's flux; 6548.05 Angstrom at 0.05 of the line's flux",
     );
     expect(byKey.sfr_conversion).toBe('1 × 10<sup>-41</sup> M☉ yr⁻¹ per erg s⁻¹');
     expect(byKey.bias).toMatch(/^auto: /);
+  });
+
+  test('wavelengths and other values of 1,000 or more as written, every digit (failed before: line 6562.8 as "6,563 Å")', () => {
+    const rows = Object.fromEntries(
+      modelRows(
+        render({
+          variable: 'luminosity',
+          line: 6562.8,
+          rest_wavelength: 1215.67,
+          l_star: 1.23456789e42,
+          equivalent_widths: { model: 'lognormal', median: 1234.5, sigma_dex: 0.35 },
+          rest_band: { profile: 'tophat', center: 1527.25, fwhm: 1024.5 },
+          blended_lines: [{ line: 6583.45, ratio: 0.15 }],
+        }),
+      ).map(([h, v]) => [/<span class="key">([^<]*)<\/span>/.exec(h)![1]!, unescapeHtml(v)]),
+    );
+    expect(rows.line).toBe('6,562.8 Å');
+    expect(rows.rest_wavelength).toBe('1,215.67 Å');
+    expect(rows.l_star).toBe('1.23456789 × 10<sup>42</sup>');
+    expect(rows.equivalent_widths).toBe('log-normal, median 1,234.5 Å, 0.35 dex');
+    expect(rows.rest_band).toBe('top-hat band centred at 1,527.25 Å, FWHM 1,024.5 Å');
+    expect(rows.blended_lines).toBe("6,583.45 Å at 0.15 of the line's flux");
   });
 
   test('the other forms in words: lognormal and exponential widths, draws_file, a band file, a bias in z, named SFR calibrations', () => {

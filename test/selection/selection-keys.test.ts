@@ -271,6 +271,52 @@ describe('warnings about selection traps', () => {
     );
   });
 
+  // failed before: a line of blended_lines below the Lyman limit raised nothing, though [NII] 654.8
+  // written in nm without its unit, read as 654.8 Angstrom, widens the window to where the grism
+  // sees it (z = 12000 / 654.8 - 1 = 17.33 to 19000 / 654.8 - 1 = 28.02) and finds sources by it alone
+  test('line_below_lyman_limit: each line of blended_lines shorter than 912 Angstrom, named, with where it adds flux and the form to write', () => {
+    const grism = { center: '1.55 um', fwhm: '0.7 um', profile: 'tophat' };
+    const blended = (lines: unknown[], filter: unknown = grism) =>
+      withKeys(line, {
+        'detection.line': 6562.8,
+        'detection.filter': filter,
+        'population.blended_lines': lines,
+      });
+    const nii = { line: 6583.45, ratio: 0.15 };
+    const s = parseSurveyObject(blended([nii, { line: 654.8, ratio: 0.05 }]), FILE);
+    const w = surveyWarnings(s).filter((x) => x.code === 'line_below_lyman_limit');
+    expect(w.map((x) => x.message)).toEqual([
+      `${s.populations[0]!.name}: blended_lines[1], the line at 654.8 A, lies below the Lyman limit (912 A), where no galaxy's line is seen, ` +
+        `so it adds its flux at z = 17.33 to 28.02; a plain number is a wavelength in Angstrom: a wavelength in nm needs its unit ` +
+        `(blended_lines: [{line: "654.8 nm", ratio: 0.05}])`,
+    ]);
+    // the window indeed reaches there (the loader's window: where any of the lines is in the filter)
+    expect(s.populations[0]!.window.max).toBeCloseTo(19000 / 654.8 - 1, 10);
+    // one warning per such line, each naming its own; without a filter, the whole window
+    const two = parseSurveyObject(
+      withKeys(
+        blended([
+          { line: 658.3, ratio: 0.15 },
+          { line: 654.8, ratio: 0.05 },
+        ]),
+        {
+          'detection.filter': undefined,
+          redshift: { min: 0.8, max: 1.6 },
+        },
+      ),
+      FILE,
+    );
+    const w2 = surveyWarnings(two).filter((x) => x.code === 'line_below_lyman_limit');
+    expect(w2.map((x) => /blended_lines\[(\d)\], the line at ([\d.]+) A/.exec(x.message)?.slice(1))).toEqual([
+      ['0', '658.3'],
+      ['1', '654.8'],
+    ]);
+    expect(w2[0]!.message).toContain('so it adds its flux at z = 0.8 to 1.6;');
+    // real [NII] lines, and the line written with its unit, raise nothing
+    expect(codes(blended([nii, { line: 6548.05, ratio: 0.05 }]))).not.toContain('line_below_lyman_limit');
+    expect(codes(blended([nii, { line: '654.8 nm', ratio: 0.05 }]))).not.toContain('line_below_lyman_limit');
+  });
+
   test('through the program: one line on stderr and the code in the JSON of check and predict', async () => {
     const path = join(tempDir('skytally-selection-'), 'near-lya.yaml');
     writeFileSync(path, toYaml(withKeys(magnitude, { 'detection.band': '8000 Angstrom' })));
