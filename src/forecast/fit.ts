@@ -61,17 +61,12 @@ export function extendedLogLikelihood(
   buf?: Float64Array,
   factor?: PriorFactor,
 ): Evaluation {
-  const s = grid.shift;
-  const [dPhi, dC, dA] = theta as [number, number, number];
   const lam = expectedCounts(grid, theta, buf);
   if (factor && factor.active.length > 0) return jointProfile(grid, stats, factor, theta, lam);
-  const n = stats.total;
-  const eShift = Math.exp(s * dC);
-  let value = n * LN10 * dPhi + dA * stats.sumT + s * dC * stats.sumA1 + n * dA * s * dC - eShift * stats.sumU;
-  const g = [n * LN10, s * stats.sumA1 + n * dA * s - s * eShift * stats.sumU, stats.sumT + n * s * dC];
-  const h = zeros(3);
-  h[1]![1] = -s * s * eShift * stats.sumU;
-  h[1]![2] = h[2]![1] = n * s;
+  const data = dataTerms(grid, stats, theta);
+  let value = data.value;
+  const g = data.gradient;
+  const h = data.hessian;
   for (let sl = 0; sl < sliceCount(grid); sl++) {
     const o = 10 * sl;
     const L = lam[o]!;
