@@ -101,7 +101,7 @@ export function compareTable(c: Comparison): string {
   if (c.surveys.some((s) => Object.keys(s.sigma).length > 0))
     lines.push(
       c.cosmic_variance
-        ? 'Sigmas: Fisher matrix with one cosmic-variance normalisation per slice marginalised.'
+        ? 'Sigmas: Fisher matrix with one cosmic-variance normalisation per slice, correlated between the slices, marginalised.'
         : 'Sigmas: Fisher matrix, Poisson only.',
     );
   for (const n of c.notes) lines.push(`Note: ${n}`);

@@ -12,7 +12,7 @@ export function forecastTable(f: Forecast): string {
     `Assumed model: ${f.model.summary}`,
     `Parameters: constant offsets at every z to ${f.parameters.join(', ')} (input values at z = ${zText(0.5 * (f.model.window.min + f.model.window.max))})`,
     f.cosmic_variance
-      ? 'Fisher: unbinned Poisson likelihood, one cosmic-variance normalisation per slice marginalised'
+      ? 'Fisher: unbinned Poisson likelihood, one cosmic-variance normalisation per slice, correlated between the slices, marginalised'
       : 'Fisher: unbinned Poisson likelihood, cosmic variance switched off',
   ];
   const head = ['parameter', 'input', 'sigma (Fisher)', 'sigma (Poisson only)'];
