@@ -32,7 +32,7 @@ import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Completeness, DetectionKind } from '../model/detection.js';
 import type { Population, PopulationVariable } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
-import { featureBreaks, filterBreaks, piecewiseRedshiftNodes, unconvergedShare } from '../counts/engine.js';
+import { featureBreaks, filterBreaks, igmBreaks, piecewiseRedshiftNodes, unconvergedShare } from '../counts/engine.js';
 import { upperGamma } from '../numerics/gamma.js';
 import { keptBreaks, panelNodes, type PanelNodes } from '../numerics/quadrature.js';
 import { makeObserver, type Observation, type Observer } from '../selection/observe.js';
@@ -398,11 +398,18 @@ function walkSlice(walk: Walk, lo: number, hi: number): void {
     return f;
   };
   // the cuts the selection effects ask for, those around a parameter's or a threshold limit's
-  // narrow feature (none for a smooth expression: the nodes are then the selection's alone) and a
+  // narrow feature (none for a smooth expression: the nodes are then the selection's alone), a
   // tabulated filter's rows, where the transmission has a kink (the count engine's filterBreaks:
   // without them 256 nodes did not converge across the rows, and the slices of the sample
-  // narrowband-interlopers.yaml were 5.6e-6 below predict's)
-  const extra = [...featureBreaks(walk.survey, population, lo, hi), ...filterBreaks(walk.survey, population, lo, hi)];
+  // narrowband-interlopers.yaml were 5.6e-6 below predict's), and where the Madau 1995 transmission
+  // jumps or has a kink (igmBreaks: a slice holding Lyman alpha's jump across a 0.55 um band was
+  // 1.7e-4 off predict's). A parameter's or a threshold limit's table rows and kinks are not cut
+  // here: where the nodes do not converge across them their pieces are halved (chooseRedshiftNodes)
+  const extra = [
+    ...featureBreaks(walk.survey, population, lo, hi),
+    ...filterBreaks(walk.survey, population, lo, hi),
+    ...igmBreaks(walk.survey, lo, hi),
+  ];
   const cuts = extra.length > 0 ? keptBreaks([...effects.breaks(lo, hi), ...extra], lo, hi) : effects.breaks(lo, hi);
   const rule = piecewiseRedshiftNodes([lo, ...cuts, hi], hardCount);
   const { z, w } = rule;

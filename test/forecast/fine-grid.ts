@@ -7,7 +7,7 @@
 import type { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import type { Population } from '../../src/model/population.js';
 import type { Survey } from '../../src/model/survey.js';
-import { featureBreaks, filterBreaks, piecewiseRedshiftNodes } from '../../src/counts/engine.js';
+import { featureBreaks, filterBreaks, igmBreaks, piecewiseRedshiftNodes } from '../../src/counts/engine.js';
 import { upperGamma } from '../../src/numerics/gamma.js';
 import { keptBreaks, panelNodes, type PanelNodes } from '../../src/numerics/quadrature.js';
 import { makeObserver } from '../../src/selection/observe.js';
@@ -79,8 +79,12 @@ export function buildFineDensityGrid(
         return cosmo.volumeElementMpc3Sr(zi) * n * effects.weight(zi);
       };
       // the redshift nodes of src/forecast/grid.ts (its cuts: the selection's, a parameter's narrow
-      // features, a tabulated filter's rows)
-      const extra = [...featureBreaks(survey, population, lo, hi), ...filterBreaks(survey, population, lo, hi)];
+      // features, a tabulated filter's rows, the intergalactic transmission's jumps and kinks)
+      const extra = [
+        ...featureBreaks(survey, population, lo, hi),
+        ...filterBreaks(survey, population, lo, hi),
+        ...igmBreaks(survey, lo, hi),
+      ];
       const cuts =
         extra.length > 0 ? keptBreaks([...effects.breaks(lo, hi), ...extra], lo, hi) : effects.breaks(lo, hi);
       const { z, w } = piecewiseRedshiftNodes([lo, ...cuts, hi], hardCount);
