@@ -22,8 +22,8 @@ import { otherKneeHint } from '../model/population.js';
 import { MAX_MOCKS, MAX_SEED } from '../model/limits.js';
 import { MAX_MODEL_DRAWS } from '../model/model-uncertainty.js';
 import { assertWholeOption, inputError } from '../errors.js';
-import { assertConvergent, MAX_HALVINGS, UNCONVERGED_SHARE } from '../counts/engine.js';
-import { buildDensityGrid, densityFisherParts, type DensityGrid, type QuadratureMissed } from './grid.js';
+import { assertConvergent } from '../counts/engine.js';
+import { buildDensityGrid, densityFisherParts, quadratureWarnings, type DensityGrid } from './grid.js';
 import type { FisherSumsMemo } from './grid-memo.js';
 import {
   fisherParts,
@@ -51,7 +51,6 @@ import { DEFAULT_MODEL_SEED } from '../counts/model-draws.js';
 import { mergeWarnings, type Warning } from '../warnings.js';
 import { surveyWarnings } from '../population/warnings.js';
 import { predictionWarnings } from '../counts/predict.js';
-import { unconvergedWarning } from '../counts/warnings.js';
 import { checkOptions, checkSurvey } from '../model/arguments.js';
 
 /** Mean sources per mock below which an offset of the mock fits is put down to the fit's small-sample bias. */
@@ -369,20 +368,4 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
     }
   }
   return out;
-}
-
-/** The warning for slices of the forecast's density grid whose redshift quadrature did not converge (none: []). */
-function quadratureWarnings(
-  name: string,
-  edges: readonly number[],
-  missed: readonly QuadratureMissed[] | undefined,
-): Warning[] {
-  if (!missed) return [];
-  const slices = missed.map((m) => ({
-    zMin: edges[m.slice]!,
-    zMax: edges[m.slice + 1]!,
-    quadratureMissed: { share: m.share, z: m.z },
-  }));
-  const w = unconvergedWarning(name, slices, UNCONVERGED_SHARE, MAX_HALVINGS);
-  return w ? [w] : [];
 }

@@ -32,7 +32,17 @@ import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Completeness, DetectionKind } from '../model/detection.js';
 import type { Population, PopulationVariable } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
-import { featureBreaks, filterBreaks, igmBreaks, piecewiseRedshiftNodes, unconvergedShare } from '../counts/engine.js';
+import {
+  featureBreaks,
+  filterBreaks,
+  igmBreaks,
+  MAX_HALVINGS,
+  piecewiseRedshiftNodes,
+  UNCONVERGED_SHARE,
+  unconvergedShare,
+} from '../counts/engine.js';
+import { unconvergedWarning } from '../counts/warnings.js';
+import type { Warning } from '../warnings.js';
 import { upperGamma } from '../numerics/gamma.js';
 import { keptBreaks, panelNodes, type PanelNodes } from '../numerics/quadrature.js';
 import { makeObserver, type Observation, type Observer } from '../selection/observe.js';
@@ -87,6 +97,26 @@ export interface QuadratureMissed {
   slice: number;
   share: number;
   z: number;
+}
+
+/**
+ * The warning for the slices (on `edges`) of a density grid whose redshift quadrature did not
+ * converge, as predict gives it for its own slices (unconvergedWarning); none: []. Forecasts and
+ * plans (whose grid is at the plan's deepest limit) give it.
+ */
+export function quadratureWarnings(
+  name: string,
+  edges: readonly number[],
+  missed: readonly QuadratureMissed[] | undefined,
+): Warning[] {
+  if (!missed) return [];
+  const slices = missed.map((m) => ({
+    zMin: edges[m.slice]!,
+    zMax: edges[m.slice + 1]!,
+    quadratureMissed: { share: m.share, z: m.z },
+  }));
+  const w = unconvergedWarning(name, slices, UNCONVERGED_SHARE, MAX_HALVINGS);
+  return w ? [w] : [];
 }
 
 /**

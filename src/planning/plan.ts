@@ -31,10 +31,10 @@ import { warning, mergeWarnings, type Warning } from '../warnings.js';
 import { drawAgreement, robustGoals, ROBUST_DRAWS, type RobustResult } from './robust.js';
 import { surveyWarnings } from '../population/warnings.js';
 import { predictionWarnings } from '../counts/predict.js';
-import { unconvergedWarning } from '../counts/warnings.js';
+import { quadratureWarnings } from '../forecast/grid.js';
 import { refuseScatteredRedshifts, surveyForPopulation } from '../model/select.js';
 import { removingSelectionHint } from '../selection/describe.js';
-import { assertConvergent, MAX_HALVINGS, UNCONVERGED_SHARE } from '../counts/engine.js';
+import { assertConvergent } from '../counts/engine.js';
 
 /**
  * The optimum is called flat when the designs within NEAR_BEST_TOLERANCE of the best span this
@@ -360,7 +360,7 @@ export async function planDesigns(
       surveyWarnings(survey),
       predictionWarnings(survey, [population]),
       edge ? [edge] : [],
-      gridWarnings(population.name, model.reference.sliceEdges, model.grid),
+      quadratureWarnings(population.name, model.reference.sliceEdges, model.grid.quadratureMissed),
     ),
   };
   if (spec.fixed)
@@ -451,19 +451,4 @@ function noFeasible(survey: Survey, spec: PlanSpec, most: number): Error {
     'cannot be computed for any design (too few sources for a Fisher matrix)',
     'raise budget_hours or choose the count goal',
   );
-}
-
-/**
- * The warning for slices of the plan's density grid (at its deepest limit) whose redshift
- * quadrature did not converge (src/counts/engine.ts chooseRedshiftNodes; none: []).
- */
-function gridWarnings(name: string, edges: readonly number[], grid: DesignModel['grid']): Warning[] {
-  if (!grid.quadratureMissed) return [];
-  const slices = grid.quadratureMissed.map((m) => ({
-    zMin: edges[m.slice]!,
-    zMax: edges[m.slice + 1]!,
-    quadratureMissed: { share: m.share, z: m.z },
-  }));
-  const w = unconvergedWarning(name, slices, UNCONVERGED_SHARE, MAX_HALVINGS);
-  return w ? [w] : [];
 }
