@@ -19,6 +19,7 @@ import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { gaussLegendreRule, keptBreaks, panelNodes, type PanelNodes } from '../numerics/quadrature.js';
 import { upperGamma } from '../numerics/gamma.js';
+import { bisectCrossing } from '../numerics/roots.js';
 import { makeObserver, type HistogramVariable, type Observation, type Observer } from '../selection/observe.js';
 import { selectionEffects } from '../selection/effects.js';
 import { completenessBreaks, completenessFunction, type CompletenessFn } from '../selection/completeness.js';
@@ -864,15 +865,7 @@ function limitCrossings(
     const fb = f(zb);
     if (Number.isFinite(fa) && Number.isFinite(fb))
       for (const target of between(fa, fb)) {
-        let a = za;
-        let b = zb;
-        const sa = Math.sign(fa - target);
-        for (let it = 0; it < 60; it++) {
-          const m = 0.5 * (a + b);
-          if (Math.sign(f(m) - target) === sa) a = m;
-          else b = m;
-        }
-        const zc = 0.5 * (a + b);
+        const zc = bisectCrossing(f, target, za, zb, fa);
         if (zc > lo && zc < hi) out.push(zc);
       }
     za = zb;

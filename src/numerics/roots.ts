@@ -6,6 +6,8 @@
  *   section 9.3): inverse quadratic interpolation with bisection safeguards. Needs a bracket
  *   [a, b] with f(a) and f(b) of opposite signs (or one of them zero).
  * - `expandBracket(f, a, b, opts)`: widens [a, b] geometrically until the signs differ.
+ * - `bisectCrossing(f, target, a, b, fa)`: where f crosses a value, by 60 plain bisections (for
+ *   functions with jumps or kinks, where Brent's interpolation gains nothing).
  */
 
 export interface BrentOptions {
@@ -140,4 +142,20 @@ export function expandBracket(
   }
   if (fa * fb <= 0) return [a, b];
   throw new Error(`root search: no sign change found while widening the bracket up to [${a}, ${b}]`);
+}
+
+/**
+ * Where f crosses `target` in [a, b], given fa = f(a) and f - target of opposite signs at a and b:
+ * 60 bisections keeping the sign of fa - target at the lower end, and the middle of the last
+ * bracket (2^-60 of the first: below a double's spacing for any redshift range).
+ * @example bisectCrossing((x) => x * x, 2, 0, 2, 0) // 1.414213562373095, sqrt(2) to a spacing
+ */
+export function bisectCrossing(f: (x: number) => number, target: number, a: number, b: number, fa: number): number {
+  const sa = Math.sign(fa - target);
+  for (let it = 0; it < 60; it++) {
+    const m = 0.5 * (a + b);
+    if (Math.sign(f(m) - target) === sa) a = m;
+    else b = m;
+  }
+  return 0.5 * (a + b);
 }

@@ -25,6 +25,7 @@ import type { Population } from '../model/population.js';
 import type { BlendedLine, EquivalentWidthDistribution } from '../model/selection.js';
 import type { ZParam } from '../model/zparam.js';
 import { upperGamma } from '../numerics/gamma.js';
+import { bisectCrossing } from '../numerics/roots.js';
 import { filterRangeAngstrom, transmission } from './filter.js';
 
 const SQRT_PI = Math.sqrt(Math.PI);
@@ -142,16 +143,7 @@ function crossings(g: (z: number) => number, cuts: number[], targets: readonly n
       const zb = at(j);
       const gb = g(zb);
       for (const t of targets) {
-        if (!((ga - t) * (gb - t) < 0)) continue;
-        let x = za;
-        let y = zb;
-        const sa = Math.sign(ga - t);
-        for (let it = 0; it < 60; it++) {
-          const m = 0.5 * (x + y);
-          if (Math.sign(g(m) - t) === sa) x = m;
-          else y = m;
-        }
-        out.push(0.5 * (x + y));
+        if ((ga - t) * (gb - t) < 0) out.push(bisectCrossing(g, t, za, zb, ga));
       }
       za = zb;
       ga = gb;

@@ -1,7 +1,7 @@
 /** Brent's method and bracket expansion against roots known in closed form or to 16 digits. */
 import fc from 'fast-check';
 import { describe, expect, test } from 'vitest';
-import { brent, expandBracket } from '../../src/numerics/roots.js';
+import { bisectCrossing, brent, expandBracket } from '../../src/numerics/roots.js';
 
 describe('brent', () => {
   test('x^2 - 2 on [0, 2] gives sqrt 2 (closed form, absolute 1e-14)', () => {
@@ -51,5 +51,18 @@ describe('expandBracket', () => {
   test('respects hard limits and throws when no sign change exists', () => {
     expect(() => expandBracket((x) => x * x + 1, -1, 1)).toThrow(/no sign change/);
     expect(() => expandBracket((x) => x - 10, 0, 1, { upper: 5 })).toThrow(/no sign change/);
+  });
+});
+
+describe('bisectCrossing', () => {
+  test('x^2 = 2 on [0, 2]: sqrt(2) (closed form) to 4e-16', () => {
+    expect(Math.abs(bisectCrossing((x) => x * x, 2, 0, 2, 0) - Math.SQRT2)).toBeLessThan(4e-16);
+  });
+  test('a jump: where a step from 0 to 1 at z = 1.37 crosses 0.5, to 1e-15 (the step itself)', () => {
+    const step = (z: number) => (z < 1.37 ? 0 : 1);
+    expect(Math.abs(bisectCrossing(step, 0.5, 1.2, 1.5, 0) - 1.37)).toBeLessThan(1e-15);
+  });
+  test('a falling function: exp(-z) = 0.5 at ln 2 (closed form), from either sign', () => {
+    expect(Math.abs(bisectCrossing((z) => Math.exp(-z), 0.5, 0, 2, 1) - Math.LN2)).toBeLessThan(1e-15);
   });
 });
