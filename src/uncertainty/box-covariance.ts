@@ -578,40 +578,42 @@ interface NodeSums {
 }
 
 /**
- * ∫_{kEnd}^∞ Q(k) / k^2 dk: ∫_0^{1/kEnd} Q(1/t) dt on three geometric panels in t down to
- * 1 / (64 kEnd), and beyond 64 kEnd the power law Q ∝ k^-3 of the spectrum's tail,
- * Q(k_far) / (4 k_far) (that part is ~(1/64)^4 of the whole).
+ * The tail rule of ∫_{kEnd}^∞ Q(k) / k^2 dk = ∫_0^{1/kEnd} Q(1/t) dt: three geometric panels in t
+ * down to 1 / (64 kEnd), Gauss-Legendre nodes as k^2 with their weights, and kFar = 64 kEnd, beyond
+ * which the power law Q ∝ k^-3 of the spectrum's tail gives Q(k_far) / (4 k_far) (that part is
+ * ~(1/64)^4 of the whole).
  */
-function beyond(node: TransverseNode, kEnd: number): number {
+function tailRule(kEnd: number): { k2: number[]; w: number[]; kFar: number } {
   const gl = gaussLegendre(POINTS);
-  let s = 0;
+  const k2: number[] = [];
+  const w: number[] = [];
   let tHi = 1 / kEnd;
   for (let j = 0; j < 3; j++) {
     const tLo = tHi / 4;
     const c = 0.5 * (tHi + tLo);
     const half = 0.5 * (tHi - tLo);
-    for (let i = 0; i < POINTS; i++) s += gl.w[i]! * half * node.at((1 / (c + half * gl.x[i]!)) ** 2);
+    for (let i = 0; i < POINTS; i++) {
+      k2.push((1 / (c + half * gl.x[i]!)) ** 2);
+      w.push(gl.w[i]! * half);
+    }
     tHi = tLo;
   }
-  const kFar = 1 / tHi;
+  return { k2, w, kFar: 1 / tHi };
+}
+
+/** ∫_{kEnd}^∞ Q(k) / k^2 dk on tailRule(kEnd). */
+function beyond(node: TransverseNode, kEnd: number): number {
+  const { k2, w, kFar } = tailRule(kEnd);
+  let s = 0;
+  for (let i = 0; i < k2.length; i++) s += w[i]! * node.at(k2[i]!);
   return s + node.at(kFar * kFar) / (4 * kFar);
 }
 
 /** The k^2 at which beyond(node, kEnd) looks Q up, in its order. */
 function beyondPoints(kEnd: number): number[] {
-  const gl = gaussLegendre(POINTS);
-  const out: number[] = [];
-  let tHi = 1 / kEnd;
-  for (let j = 0; j < 3; j++) {
-    const tLo = tHi / 4;
-    const c = 0.5 * (tHi + tLo);
-    const half = 0.5 * (tHi - tLo);
-    for (let i = 0; i < POINTS; i++) out.push((1 / (c + half * gl.x[i]!)) ** 2);
-    tHi = tLo;
-  }
-  const kFar = 1 / tHi;
-  out.push(kFar * kFar);
-  return out;
+  const { k2, kFar } = tailRule(kEnd);
+  k2.push(kFar * kFar);
+  return k2;
 }
 
 /** Panels per chunk of the pass over the rule. */
