@@ -203,7 +203,7 @@ export async function computeReport(
   const modelSeed = model.seed ?? DEFAULT_MODEL_SEED;
   const prediction = predict(survey, {
     uncertaintyMemo: shared.uncertaintyMemo!,
-    model: { draws: model.draws ?? DEFAULT_MODEL_DRAWS, seed: modelSeed },
+    model: { ...(model.draws !== undefined ? { draws: model.draws } : {}), seed: modelSeed },
   });
   const forecast = sections.forecast ? await sections.forecast(survey, shared) : undefined;
   const plan = sections.plan && hasPlanSection(survey) ? await sections.plan(survey, shared) : undefined;
