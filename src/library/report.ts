@@ -191,7 +191,7 @@ export async function computeReport(
   const { predict } = await import('../counts/predict.js');
   const modelSeed = model.seed ?? DEFAULT_MODEL_SEED;
   const prediction = predict(survey, {
-    model: { draws: model.draws ?? DEFAULT_MODEL_DRAWS, seed: modelSeed },
+    model: { ...(model.draws !== undefined ? { draws: model.draws } : {}), seed: modelSeed },
   });
   const forecast = sections.forecast ? await sections.forecast(survey) : undefined;
   const plan = sections.plan && hasPlanSection(survey) ? await sections.plan(survey) : undefined;

@@ -71,9 +71,9 @@ export const predictCommand: CommandDef = {
 };
 
 /** --draws N (1 to MAX_MODEL_DRAWS; default 1000) and --seed S (0 to 4294967295; default 1) of the model's draws. */
-export function modelDrawOptions(raw: { draws?: unknown; seed?: unknown }): { draws: number; seed: number } {
-  const draws =
-    raw.draws === undefined ? DEFAULT_MODEL_DRAWS : parseInteger(optionText(raw.draws), '--draws', 1, MAX_MODEL_DRAWS);
+export function modelDrawOptions(raw: { draws?: unknown; seed?: unknown }): { draws?: number; seed: number } {
   const seed = raw.seed === undefined ? DEFAULT_MODEL_SEED : parseInteger(optionText(raw.seed), '--seed', 0, MAX_SEED);
-  return { draws, seed };
+  // left out when not given: the library draws its default, and refuses a count on a file with nothing to draw
+  if (raw.draws === undefined) return { seed };
+  return { draws: parseInteger(optionText(raw.draws), '--draws', 1, MAX_MODEL_DRAWS), seed };
 }
