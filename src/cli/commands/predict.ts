@@ -51,7 +51,11 @@ export const predictCommand: CommandDef = {
     outputs.refuseInputs(survey.inputs ?? []);
     if (raw.draws !== undefined) refuseDrawsWithoutModel(survey);
     const { predict } = await import('../../counts/predict.js');
-    const p = predict(survey, { model });
+    // The table and the CSV show the model's draws of the counts only (slices and totals), the same
+    // numbers with or without the rest: the draws of the histograms' bins and of the densities, about
+    // a third of a cold predict with model_uncertainty, are made only for the JSON and the figures.
+    const countsOnly = opts.format !== 'json' && !draw;
+    const p = predict(survey, { model: countsOnly ? { ...model, counts: true } : model });
     printWarnings(io, p.warnings);
     if (raw.seed !== undefined && modelDrawing(survey) !== 'seeded')
       optionNote(io, 'predict', '--seed', `nothing is drawn at random (${unseededModel(survey)})`);
