@@ -50,7 +50,6 @@ import {
   uncertaintyContext,
   type TotalPart,
   type UncertaintyJson,
-  type UncertaintyMemo,
 } from '../uncertainty/prediction.js';
 import { describeModel } from '../population/describe.js';
 import { predictionWarnings, unconvergedWarning } from './warnings.js';
@@ -302,8 +301,6 @@ const fmtNum = (x: number): string => precise(x, 4);
 export interface PredictOptions {
   /** Skip Poisson and cosmic-variance uncertainties (faster; used inside forecasts and plans). */
   noUncertainty?: boolean;
-  /** Keep the uncertainty blocks computed here for a later forecast of the same survey (report). */
-  uncertaintyMemo?: UncertaintyMemo;
   /**
    * Draws of the populations' model_uncertainty (default 1000) and their seed (default 1); `draws: 0`
    * skips them; a count above 0 is refused where no population's model_uncertainty gives sigmas
@@ -520,25 +517,10 @@ function addUncertainties(
   cosmo: FlatCosmology,
   runs: PopulationRun[],
   top: { slices: PredictionSlice[] | undefined; totals: PredictionTotals },
-  options: PredictOptions,
 ): Warning[] {
   const warnings: Warning[] = [];
   const ctx = uncertaintyContext(survey, cosmo);
   ctx.warnings = warnings;
-  if (options.uncertaintyMemo) {
-    const memo = options.uncertaintyMemo;
-    ctx.memo = memo;
-    survey.populations.forEach((pop, k) => {
-      const run = runs[k]!;
-      if (run.photoZ) return;
-      memo.setCounts(
-        pop,
-        survey.detection,
-        pop.sliceEdges,
-        run.own.map((sc) => ({ count: sc.count, volumeMpc3: sc.volumeMpc3, zMin: sc.zMin, zMax: sc.zMax })),
-      );
-    });
-  }
   const partsOf = (k: number): TotalPart[] =>
     runs[k]!.own.map((sc) => ({
       population: survey.populations[k]!,
@@ -638,7 +620,7 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
       },
     };
   }
-  const uncertaintyWarnings = withUncertainty ? addUncertainties(survey, cosmo, runs, top, options) : [];
+  const uncertaintyWarnings = withUncertainty ? addUncertainties(survey, cosmo, runs, top) : [];
   if (withModel) {
     const draws = addPopulationSpreads(survey, cosmo, runs, {
       draws: modelDraws,
