@@ -106,13 +106,6 @@ export interface EngineOptions {
    * the nodes of true redshift by the probability of being measured in each slice (src/counts/photo-z.ts).
    */
   nodeDetail?: boolean;
-  /**
-   * The node-order search's hard-limit integrand by redshift, shared with a forecast's density grid
-   * of the same survey and population (src/forecast/grid.ts computes the same number at a z, the
-   * same arithmetic): a forecast's count of its slices then does not evaluate again the redshifts
-   * the grid's search did. Used only without offsets.
-   */
-  hardCounts?: Map<number, number>;
 }
 
 /** What each redshift node of a slice adds to its results (EngineOptions.nodeDetail). */
@@ -428,17 +421,7 @@ export function countPopulation(
       continue;
     }
     const missed: { at?: { share: number; z: number } } = {};
-    const nodes = buildNodes(
-      survey,
-      population,
-      cosmo,
-      observer,
-      lo,
-      hi,
-      options.offsets,
-      options.offsets ? undefined : options.hardCounts,
-      missed,
-    );
+    const nodes = buildNodes(survey, population, cosmo, observer, lo, hi, options.offsets, missed);
     let result: { count: number; histogram: Histogram; detectedLuminosity?: number };
     const perNode = options.profile ? new Array<number>(nodes.length).fill(0) : undefined;
     const detail: NodeDetail | undefined = options.nodeDetail
@@ -685,7 +668,6 @@ function buildNodes(
   lo: number,
   hi: number,
   offsets?: ParameterOffsets,
-  hardCounts?: Map<number, number>,
   missed?: { at?: { share: number; z: number } },
 ): NodeState[] {
   const effects = selectionEffects(survey.detection, population);
@@ -702,9 +684,9 @@ function buildNodes(
     }
     return hit;
   };
-  // The integrand by z (the shared map, else this call's own): the search meets some redshifts
-  // twice (with several pieces, each piece's 8 nodes of the first estimate again)
-  const counted = hardCounts ?? new Map<number, number>();
+  // The integrand by z: the search meets some redshifts twice (with several pieces, each piece's 8
+  // nodes of the first estimate again)
+  const counted = new Map<number, number>();
   const hardCount = (zi: number): number => {
     const known = counted.get(zi);
     if (known !== undefined) return known;

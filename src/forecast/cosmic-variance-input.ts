@@ -1,89 +1,61 @@
 /**
  * The one place the forecast gets its per-slice cosmic-variance fractions from: the uncertainty
- * layer (src/uncertainty/prediction.ts), exactly as `predict` reports them for one population:
- * per slice, b sigma_dm / sqrt(field count), with sigma_dm the rms linear matter fluctuation in one
+ * layer (src/uncertainty/prediction.ts), as `predict` computes them for one population: per
+ * slice, b sigma_dm / sqrt(field count), with sigma_dm the rms linear matter fluctuation in one
  * field's box at the slice's middle redshift and b the population's bias (given, or "auto" by
- * abundance matching to the slice's count). A slice with under 1e-6 expected sources gets 0: its
- * nuisance cannot change the forecast (b_i b_i^T / (N_i + 1/sigma_i^2) vanishes with N_i for any
- * sigma_i), and abundance matching is undefined for so rare a population (the requirement search
- * meets such slices at shallow trial limits).
+ * abundance matching to the slice's count in its volume). The counts are the forecast's own, its
+ * density grid's per-slice sums: the same integral as predict's count engine by another
+ * quadrature, equal to within about 1e-11 relative, so the fractions are predict's to about that
+ * (test/forecast/cosmic-variance-input.test.ts holds them to 1e-9); counting the slices again with
+ * the engine only to feed this cost a cold forecast 0.2-0.3 billion instructions. A slice with
+ * under 1e-6 expected sources gets 0: its nuisance cannot change the forecast
+ * (b_i b_i^T / (N_i + 1/sigma_i^2) vanishes with N_i for any sigma_i), and abundance matching is
+ * undefined for so rare a population (the requirement search meets such slices at shallow trial
+ * limits).
  * The fractions depend on the area (field sizes) and on the limit (the matched bias), so the
- * requirement search asks again for every trial survey.
+ * requirement search asks again for every trial survey, with the counts of that survey.
  */
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
-import { countPopulation } from '../counts/engine.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
-import {
-  singleUncertainty,
-  slicesCorrelation,
-  uncertaintyContext,
-  type UncertaintyMemo,
-} from '../uncertainty/prediction.js';
+import { combinedUncertainty, slicesCorrelation, uncertaintyContext } from '../uncertainty/prediction.js';
 import type { Warning } from '../warnings.js';
 
 const NEGLIGIBLE_COUNT = 1e-6;
 
 /**
- * Per-slice cosmic-variance fractions of `population` in `survey` on `edges`; the warnings their
- * computation raises (abundance matching held at a mass bound) are added to `warnings` when given.
+ * Per-slice cosmic-variance fractions of `population` in `survey` on `edges`, given the expected
+ * count of each slice (`counts[i]` in [edges[i], edges[i + 1]], over the survey's whole area); the
+ * warnings their computation raises (abundance matching held at a mass bound) are added to
+ * `warnings` when given.
  */
 export type CosmicVarianceSource = (
   survey: Survey,
   edges: readonly number[],
   population: Population,
+  counts: readonly number[],
   warnings?: Warning[],
-  /** The count engine's node-order integrand by z, shared with the forecast's grid (EngineOptions.hardCounts). */
-  hardCounts?: Map<number, number>,
 ) => number[];
 
-export const cosmicVarianceInput: CosmicVarianceSource = (survey, edges, population, warnings, hardCounts) =>
-  fractions(survey, edges, population, undefined, warnings, hardCounts);
-
-/**
- * The same fractions, read from `memo` (filled by predict of the same survey, see
- * UncertaintyMemo) for every slice whose count, volume and redshifts are bit for bit those predict
- * used, and computed for the others: the numbers are those of cosmicVarianceInput.
- */
-export function cosmicVarianceInputWith(memo: UncertaintyMemo): CosmicVarianceSource {
-  return (survey, edges, population, warnings, hardCounts) =>
-    fractions(survey, edges, population, memo, warnings, hardCounts);
-}
-
-function fractions(
-  survey: Survey,
-  edges: readonly number[],
-  population: Population,
-  memo?: UncertaintyMemo,
-  warnings?: Warning[],
-  hardCounts?: Map<number, number>,
-): number[] {
+export const cosmicVarianceInput: CosmicVarianceSource = (survey, edges, population, counts, warnings) => {
+  if (counts.length !== edges.length - 1) {
+    throw new Error(`cosmic variance: ${counts.length} counts given for ${edges.length - 1} slices`);
+  }
   const cosmo = new FlatCosmology(survey.cosmology);
   const ctx = uncertaintyContext(survey, cosmo);
-  if (memo) ctx.memo = memo;
   if (warnings) ctx.warnings = warnings;
-  // predict's own counts when the memo holds them for this population, detection and edges
-  const counts =
-    (memo?.serves(survey) ? memo.counts(population, survey.detection, edges) : undefined) ??
-    countPopulation(
-      survey,
-      population,
-      cosmo,
-      edges,
-      hardCounts ? { noHistogram: true, hardCounts } : { noHistogram: true },
+  return counts.map((count, i) => {
+    if (count < NEGLIGIBLE_COUNT) return 0;
+    const zMin = edges[i]!;
+    const zMax = edges[i + 1]!;
+    // the slice's volume as the count engine gives it (src/counts/engine.ts countPopulation)
+    const volumeMpc3 = survey.areaSr * cosmo.comovingVolumeBetweenMpc3Sr(zMin, zMax);
+    return (
+      combinedUncertainty(ctx, [{ population, count, volumeMpc3 }], zMin, zMax, 0.5 * (zMin + zMax))
+        ?.cosmic_variance_fraction ?? 0
     );
-  return counts.map((s) =>
-    s.count < NEGLIGIBLE_COUNT
-      ? 0
-      : (singleUncertainty(
-          ctx,
-          { population, count: s.count, volumeMpc3: s.volumeMpc3 },
-          s.zMin,
-          s.zMax,
-          0.5 * (s.zMin + s.zMax),
-        )?.cosmic_variance_fraction ?? 0),
-  );
-}
+  });
+};
 
 /**
  * The correlation of the slices' fluctuations in one field (slicesCorrelation of

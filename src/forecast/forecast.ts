@@ -181,11 +181,8 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
   const cvSource = useCv ? (opts.cosmicVarianceSource ?? cosmicVarianceInput) : undefined;
   const correlationOf = opts.cosmicVarianceCorrelation ?? cosmicVarianceCorrelation;
 
-  // The hard-limit count at the redshifts the grid's node search visits, which the count of the
-  // slices for the cosmic variance (the same nodes, the same number) then reads
-  const hardCounts = new Map<number, number>();
   let built: DensityGrid | undefined;
-  const gridOf = (): DensityGrid => (built ??= buildDensityGrid(survey, population, cosmo, edges, 1, hardCounts));
+  const gridOf = (): DensityGrid => (built ??= buildDensityGrid(survey, population, cosmo, edges));
   const needsGrid =
     (opts.mocks ?? 0) > 0 || (opts.modelDraws ?? 0) > 0 || (opts.targets && Object.keys(opts.targets).length > 0);
   // Without mocks, draws or targets the grid's arrays are not needed: its Fisher sums are made as
@@ -194,7 +191,7 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
     ? fisherParts(gridOf())
     : opts.fisherSums
       ? opts.fisherSums.parts(survey, population, cosmo, edges)
-      : densityFisherParts(survey, population, cosmo, edges, hardCounts);
+      : densityFisherParts(survey, population, cosmo, edges);
   if (!(parts.count > 0)) {
     throw inputError(
       'no_sources',
@@ -215,7 +212,9 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
     );
   }
   const cvWarnings: Warning[] = [];
-  const fractions = cvSource ? cvSource(survey, edges, population, cvWarnings, hardCounts) : undefined;
+  // (the grid's own per-slice counts: the cosmic-variance input does not count the slices again)
+  const counts = parts.slices.map((s) => s.count);
+  const fractions = cvSource ? cvSource(survey, edges, population, counts, cvWarnings) : undefined;
   const prior: CosmicVariancePrior | undefined = fractions
     ? { fractions, correlation: correlationOf(survey, edges) }
     : undefined;

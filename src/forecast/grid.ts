@@ -146,7 +146,10 @@ export function buildDensityGrid(
    * (plan.robust's draws, src/planning/robust.ts).
    */
   panelWidths = 1,
-  /** The node-order search's integrand by z, shared with the count engine (EngineOptions.hardCounts). */
+  /**
+   * The node-order search's integrand by z, shared with another grid of the same survey and
+   * population (a plan's design model and its draws' grid, src/planning/robust.ts).
+   */
   hardCounts?: Map<number, number>,
 ): DensityGrid {
   const sink = new GridArrays();
@@ -245,11 +248,9 @@ export function densityFisherParts(
   population: Population,
   cosmo: FlatCosmology,
   edges: readonly number[],
-  /** The node-order search's integrand by z, shared with the count engine (EngineOptions.hardCounts). */
-  hardCounts?: Map<number, number>,
 ): FisherParts {
   const sink = new FisherSums(characteristicShift(population));
-  walkDensity(survey, population, cosmo, edges, 1, sink, hardCounts);
+  walkDensity(survey, population, cosmo, edges, 1, sink);
   return sink.parts;
 }
 
@@ -322,7 +323,7 @@ interface Walk {
    */
   shared: Map<string, SharedLogC>;
   sink: DensitySink;
-  /** The node-order search's integrand by z (shared with the count engine when given, else this walk's own). */
+  /** The node-order search's integrand by z (shared with another grid when given, else this walk's own). */
   hardCounts: Map<number, number>;
 }
 

@@ -92,6 +92,9 @@ function sigmaOf(
   });
 }
 
+/** Each slice's expected count. */
+const countsOf = (parts: FisherParts): number[] => parts.slices.map((s) => s.count);
+
 const isZero = (theta: readonly number[]) => theta.every((v) => v === 0);
 
 function scaleParts(p: FisherParts, f: number): FisherParts {
@@ -180,9 +183,10 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
   const { survey, population, cosmo, names } = ctx;
   const source = ctx.cosmicVariance;
   // the joint prior of the slices' nuisances at a trial survey (the correlation depends on its area)
+  // (with the trial survey's per-slice counts of the assumed model, as the forecast gives its own)
   const cv = source
-    ? (s: Survey, e: readonly number[], pop: Population): CosmicVariancePrior => ({
-        fractions: source(s, e, pop),
+    ? (s: Survey, e: readonly number[], pop: Population, counts: readonly number[]): CosmicVariancePrior => ({
+        fractions: source(s, e, pop, counts),
         correlation: (ctx.cosmicVarianceCorrelation ?? cosmicVarianceCorrelation)(s, e),
       })
     : undefined;
@@ -195,10 +199,13 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
   const p = spread?.probability;
   // sigma as a function of area (Poisson information scaled; fractions asked at each area)
   const perArea = (spread ? spread.parts : [ctx.parts]).map((q) => scaleParts(q, 1 / a0));
+  // the assumed model's slice counts per deg^2 (the cosmic-variance fractions are the assumed model's)
+  const countsPerArea = countsOf(scaleParts(ctx.parts, 1 / a0));
+  const countsAt = (areaDeg2: number) => countsPerArea.map((n) => n * areaDeg2);
   const sigmaAtArea = (areaDeg2: number, withCv = true): number[] =>
     sigmaOf(
       perArea.map((q) => scaleParts(q, areaDeg2)),
-      cv && withCv ? cv(withArea(survey, areaDeg2), edges, population) : undefined,
+      cv && withCv ? cv(withArea(survey, areaDeg2), edges, population, countsAt(areaDeg2)) : undefined,
       p,
     );
   const depthCache = new Map<string, number[]>();
@@ -218,7 +225,7 @@ export function requirement(ctx: RequirementContext, targets: Record<string, num
     const { plain, list } = hitParts;
     const sig =
       spread || plain.count > 0
-        ? sigmaOf(list, cv && withCv && plain.count > 0 ? cv(s2, edges, population) : undefined, p)
+        ? sigmaOf(list, cv && withCv && plain.count > 0 ? cv(s2, edges, population, countsOf(plain)) : undefined, p)
         : names.map(() => Infinity);
     depthCache.set(key, sig);
     return sig;

@@ -8,7 +8,6 @@
 import { basename } from 'node:path';
 import { assertWholeOption, SurveyError } from '../errors.js';
 import type { Survey } from '../model/survey.js';
-import type { UncertaintyMemo } from '../uncertainty/prediction.js';
 import type { Prediction } from '../model/outputs/prediction.js';
 import type { Forecast } from '../model/outputs/forecast.js';
 import type { Plan } from '../model/outputs/plan.js';
@@ -36,14 +35,8 @@ export function isOmitted(x: unknown): x is OmittedSection {
  * a `plan:` section.
  */
 export interface ReportSections {
-  forecast?(survey: Survey, shared?: SharedResults): Promise<SectionResult<Forecast>>;
-  plan?(survey: Survey, shared?: SharedResults): Promise<SectionResult<Plan>>;
-}
-
-/** What the report's prediction computed that a section may reuse instead of computing again. */
-export interface SharedResults {
-  /** The prediction's uncertainty blocks (for the forecast's cosmic-variance fractions). */
-  uncertaintyMemo?: UncertaintyMemo;
+  forecast?(survey: Survey): Promise<SectionResult<Forecast>>;
+  plan?(survey: Survey): Promise<SectionResult<Plan>>;
 }
 
 /**
@@ -112,11 +105,10 @@ export function reportSections(opts: SectionOptions = {}): ReportSections {
   const seed = opts.seed ?? DEFAULT_MODEL_SEED;
   const draws = opts.draws ?? DEFAULT_MODEL_DRAWS;
   return {
-    forecast: async (survey, shared) => {
+    forecast: async (survey) => {
       const why = shapeObstacle(survey, 'forecast');
       if (why) return { omitted: why };
       const { forecast } = await import('../forecast/forecast.js');
-      const { cosmicVarianceInputWith } = await import('../forecast/cosmic-variance-input.js');
       let result;
       try {
         result = await forecast(survey, {
@@ -125,7 +117,6 @@ export function reportSections(opts: SectionOptions = {}): ReportSections {
           keepFits: true,
           // the sigmas across the model, as forecast --model-draws computes them (same draws, same seed)
           ...(survey.populations[0]!.modelUncertainty ? { modelDraws: draws } : {}),
-          ...(shared?.uncertaintyMemo ? { cosmicVarianceSource: cosmicVarianceInputWith(shared.uncertaintyMemo) } : {}),
           ...(mocks > 0 && opts.onProgress ? { onProgress: opts.onProgress } : {}),
         });
       } catch (e) {
@@ -198,15 +189,12 @@ export async function computeReport(
   model: ReportModelDraws = {},
 ): Promise<ReportResults> {
   const { predict } = await import('../counts/predict.js');
-  const { UncertaintyMemo } = await import('../uncertainty/prediction.js');
-  const shared: SharedResults = { uncertaintyMemo: new UncertaintyMemo(survey) };
   const modelSeed = model.seed ?? DEFAULT_MODEL_SEED;
   const prediction = predict(survey, {
-    uncertaintyMemo: shared.uncertaintyMemo!,
-    model: { draws: model.draws ?? DEFAULT_MODEL_DRAWS, seed: modelSeed },
+    model: { ...(model.draws !== undefined ? { draws: model.draws } : {}), seed: modelSeed },
   });
-  const forecast = sections.forecast ? await sections.forecast(survey, shared) : undefined;
-  const plan = sections.plan && hasPlanSection(survey) ? await sections.plan(survey, shared) : undefined;
+  const forecast = sections.forecast ? await sections.forecast(survey) : undefined;
+  const plan = sections.plan && hasPlanSection(survey) ? await sections.plan(survey) : undefined;
   const sectionWarnings = (x: SectionResult<Forecast | Plan>) => (x && !isOmitted(x) ? x.warnings : undefined);
   const warnings = mergeWarnings(prediction.warnings, sectionWarnings(forecast), sectionWarnings(plan));
   return { file, survey, prediction, forecast, plan, warnings, modelSeed };

@@ -62,9 +62,11 @@ const cosineTables = new Map<number, Float64Array>();
 
 /** cos(pi p (k + 1/2) / n) at [p * n + k]: T_p at the k-th point. */
 function cosineTable(n: number): Float64Array {
-  let t = cosineTables.get(n);
-  if (t) return t;
-  t = new Float64Array(n * n);
+  return cosineTables.get(n) ?? makeCosineTable(n);
+}
+
+function makeCosineTable(n: number): Float64Array {
+  const t = new Float64Array(n * n);
   for (let p = 0; p < n; p++) for (let k = 0; k < n; k++) t[p * n + k] = Math.cos((Math.PI * p * (k + 0.5)) / n);
   cosineTables.set(n, t);
   return t;

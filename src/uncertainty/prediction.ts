@@ -17,7 +17,6 @@
 import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
-import type { Detection } from '../model/detection.js';
 import type { ZParam } from '../model/zparam.js';
 import { inputError } from '../errors.js';
 import { createLinearPower, type LinearPower } from './power-spectrum.js';
@@ -54,87 +53,6 @@ export interface UncertaintyContext {
   power: LinearPower;
   /** Where the output's warnings go (e.g. abundance matching held at a mass bound). */
   warnings: Warning[];
-  /** Where the blocks computed for one population are kept for reuse (see UncertaintyMemo). */
-  memo?: UncertaintyMemo;
-}
-
-/** One slice as the count engine gives it, as far as its uncertainty needs. */
-export interface CountedSlice {
-  count: number;
-  volumeMpc3: number;
-  zMin: number;
-  zMax: number;
-}
-
-/**
- * The uncertainty blocks of single populations computed for one survey, by population and by the
- * exact inputs (count, volume, redshifts): `report` computes them once in predict and the
- * forecast reads its per-slice cosmic-variance fractions back from here instead of computing
- * the same numbers again. A block is reused only for bit-for-bit the same inputs, so it is the
- * block a new computation would give. The warnings a computation adds are not kept: a reader
- * of the memo that needs them (predict) computes instead.
- */
-export class UncertaintyMemo {
-  private readonly blocks = new Map<Population, Map<string, UncertaintyJson | undefined>>();
-  private readonly counted = new Map<Population, { detection: Detection; edges: string; slices: CountedSlice[] }>();
-  constructor(readonly survey: Survey) {}
-
-  /**
-   * predict's per-slice counts of a population on `edges` under `detection` (the count engine's
-   * own numbers, which counting again gives bit for bit): the forecast's cosmic-variance input
-   * reads them instead of running the engine again.
-   */
-  setCounts(p: Population, detection: Detection, edges: readonly number[], slices: CountedSlice[]): void {
-    this.counted.set(p, { detection, edges: edges.join(','), slices });
-  }
-
-  /** The counts kept for this population, detection (the same object) and edges, if any. */
-  counts(p: Population, detection: Detection, edges: readonly number[]): CountedSlice[] | undefined {
-    const c = this.counted.get(p);
-    return c && c.detection === detection && c.edges === edges.join(',') ? c.slices : undefined;
-  }
-
-  /**
-   * True when blocks computed for `other` may be read here: the same survey, or a view of it
-   * (surveyForPopulation, a changed detection limit) with the same cosmology, area and fields, on
-   * which a block's value depends besides the keyed inputs and the population.
-   */
-  serves(other: Survey): boolean {
-    const s = this.survey;
-    return other === s || (other.cosmology === s.cosmology && other.areaSr === s.areaSr && other.field === s.field);
-  }
-
-  private static key(count: number, volumeMpc3: number, zMin: number, zMax: number, zc: number): string {
-    return `${count},${volumeMpc3},${zMin},${zMax},${zc}`;
-  }
-
-  /** The block kept for these inputs: [true, block] when there is one, [false] otherwise. */
-  get(
-    p: Population,
-    count: number,
-    volumeMpc3: number,
-    zMin: number,
-    zMax: number,
-    zc: number,
-  ): [boolean, UncertaintyJson | undefined] {
-    const m = this.blocks.get(p);
-    const k = UncertaintyMemo.key(count, volumeMpc3, zMin, zMax, zc);
-    return m?.has(k) ? [true, m.get(k)] : [false, undefined];
-  }
-
-  set(
-    p: Population,
-    count: number,
-    volumeMpc3: number,
-    zMin: number,
-    zMax: number,
-    zc: number,
-    block: UncertaintyJson | undefined,
-  ): void {
-    let m = this.blocks.get(p);
-    if (!m) this.blocks.set(p, (m = new Map<string, UncertaintyJson | undefined>()));
-    m.set(UncertaintyMemo.key(count, volumeMpc3, zMin, zMax, zc), block);
-  }
 }
 
 export function uncertaintyContext(survey: Survey, cosmo: FlatCosmology): UncertaintyContext {
@@ -315,29 +233,7 @@ export function combinedUncertainty(
     sigma_matter: sigma,
   };
   if (haloMass !== undefined) out.halo_mass_min_msun = haloMass;
-  if (parts.length === 1 && ctx.memo && ctx.memo.serves(ctx.survey)) {
-    const p = parts[0]!;
-    ctx.memo.set(p.population, p.count, p.volumeMpc3, zMin, zMax, zc, { ...out });
-  }
   return out;
-}
-
-/**
- * combinedUncertainty of one population's count, read from ctx.memo when it holds the block for
- * exactly these inputs (then no warning is added to ctx.warnings), computed otherwise.
- */
-export function singleUncertainty(
-  ctx: UncertaintyContext,
-  part: { population: Population; count: number; volumeMpc3: number },
-  zMin: number,
-  zMax: number,
-  zc: number,
-): UncertaintyJson | undefined {
-  if (ctx.memo && ctx.memo.serves(ctx.survey)) {
-    const [found, block] = ctx.memo.get(part.population, part.count, part.volumeMpc3, zMin, zMax, zc);
-    if (found) return block && { ...block };
-  }
-  return combinedUncertainty(ctx, [part], zMin, zMax, zc);
 }
 
 /** One slice of one population, with where in redshift its detected sources lie. */

@@ -13,6 +13,7 @@ import { loadSurveyFile } from '../../src/survey/load.js';
 import { predict } from '../../src/counts/predict.js';
 import { parseCsvStrict } from '../render/csv-helpers.js';
 import { tempDir } from '../support/temp.js';
+import { sig } from '../../src/render/format.js';
 import { sampleCommand } from '../support/sample-commands.js';
 
 const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml') && !f.startsWith('plan'));
@@ -37,6 +38,29 @@ describe('predict', () => {
     const rows = p.breakdown === 'observed' ? p.observed_bins.bins.length : p.slices!.length;
     expect(parseCsvStrict(csv.stdout).rows.length).toBe(rows);
   });
+
+  test.each([
+    ...SAMPLES.filter((f) => /model_uncertainty:/.test(readFileSync(`samples/${f}`, 'utf8'))),
+    'plan-robust-uv-slope.yaml',
+  ])(
+    "%s: the table's and CSV's model columns are the JSON's, drawn without the histograms' and densities' draws",
+    async (f) => {
+      // the table and the CSV ask predict for the counts' draws only (model: {counts: true}); the
+      // numbers they show must be the full run's bit for bit (the CSV writes them in full)
+      const p = JSON.parse((await sampleCommand(['predict', `samples/${f}`, '--format', 'json'])).stdout);
+      expect(p.totals.model).toBeDefined();
+      const csv = parseCsvStrict((await sampleCommand(['predict', `samples/${f}`, '--format', 'csv'])).stdout);
+      const slices = p.slices as { model: Record<string, number> }[];
+      expect(csv.records.length).toBe(slices.length);
+      csv.records.forEach((r, j) => {
+        for (const k of ['p16', 'p50', 'p84', 'fraction'])
+          expect(Number(r[`model_${k}`]), `${f} ${j} ${k}`).toBe(slices[j]!.model[k]);
+      });
+      const table = (await sampleCommand(['predict', `samples/${f}`])).stdout;
+      const m = p.totals.model as Record<string, number>;
+      expect(table).toContain(`${sig(m.p16!, 3)} - ${sig(m.p84!, 3)}`);
+    },
+  );
 
   test('JSON equals the library result', async () => {
     const f = `samples/${SAMPLES[0]}`;

@@ -447,3 +447,24 @@ describe('sections that cannot be computed: a sentence, not a failure', () => {
     },
   );
 });
+
+describe("report --format json: the forecast part is the forecast command's own, bit for bit", () => {
+  // The report's prediction runs first in the same process; the forecast takes its cosmic-variance
+  // fractions from its own density grid's counts as the `forecast` command does, so nothing of the
+  // prediction may reach it: the same numbers to the last bit (JSON.parse gives each number's exact
+  // double). mass-limited has model_uncertainty: the report's forecast draws the model 1000 times
+  // with seed 1 (its --draws and --seed defaults), as `forecast --model-draws 1000` does.
+  test.each([
+    ['dropout-field.yaml', []],
+    ['mass-limited.yaml', ['--model-draws', '1000']],
+  ])('%s', async (sample, extra) => {
+    const rep = await runCli(['report', `samples/${sample}`, '--format', 'json']);
+    expect(rep.code, rep.stderr).toBe(0);
+    const fc = await sampleCommand(['forecast', `samples/${sample}`, '--format', 'json', ...extra]);
+    expect(fc.code, fc.stderr).toBe(0);
+    const report = JSON.parse(rep.stdout) as { forecast: Any };
+    const own = JSON.parse(fc.stdout) as Any;
+    expect(report.forecast.slices.length).toBeGreaterThan(0);
+    expect(report.forecast).toEqual(own);
+  });
+});

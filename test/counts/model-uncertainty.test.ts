@@ -17,6 +17,7 @@ import { join } from 'node:path';
 import { parse } from 'yaml';
 import { parseSurveyObject, loadSurveyFile } from '../../src/survey/index.js';
 import { predict } from '../../src/counts/predict.js';
+import { errorOf } from '../support/survey-error.js';
 import type { ModelSpread } from '../../src/model/outputs/prediction.js';
 import { drawModelOffsets, percentilesOf, populationDraws } from '../../src/counts/model-draws.js';
 import { modelSpread } from '../../src/counts/model-spread.js';
@@ -87,13 +88,26 @@ describe('percentiles against the independent Monte Carlo (40,000 numpy draws)',
 describe('exact cases', () => {
   test('a draws file: every row once, type-7 percentiles as numpy (exact reference, 1e-8)', () => {
     const c = caseOf('narrowband-draws-file.yaml');
-    const p = predict(loadSurveyFile(join(DIR, c.file)), { model: { draws: 5, counts: true } });
+    const p = predict(loadSurveyFile(join(DIR, c.file)), { model: { counts: true } });
     if (p.breakdown !== 'redshift') throw new Error('one population');
-    expect(p.totals.model!.draws).toBe(800); // the rows, whatever --draws says
+    expect(p.totals.model!.draws).toBe(800); // the rows, each once
     [...p.slices.map((s) => s.model!), p.totals.model!].forEach((m, j) => {
       const r = j < p.slices.length ? c.model.slices[j]! : c.model.total;
       for (const k of KEYS) expect(Math.abs(m[k] / r[k] - 1), `${j} ${k}`).toBeLessThan(1e-8);
     });
+  });
+
+  test('a count of draws is refused where nothing would be drawn that many times, as predict --draws is (failed before: silently ignored)', () => {
+    const rows = loadSurveyFile(join(DIR, 'narrowband-draws-file.yaml'));
+    expect(errorOf(() => predict(rows, { model: { draws: 5 } })).message).toMatch(
+      /model\.draws: every population's model_uncertainty is a draws_file, whose rows are each drawn once.*; leave out model\.draws/,
+    );
+    const plain = loadSurveyFile('samples/halpha-narrowband.yaml');
+    expect(errorOf(() => predict(plain, { model: { draws: 5 } })).message).toMatch(
+      /model\.draws: no population has a model_uncertainty block.*; add model_uncertainty to a population/,
+    );
+    // draws: 0 (no draws) stays allowed everywhere, and the plain file predicts as without it
+    expect(predict(plain, { model: { draws: 0 } }).totals.count).toBe(predict(plain).totals.count);
   });
 
   test('a draws file of one row at the assumed values reproduces the plain prediction (1e-12)', () => {

@@ -3,25 +3,19 @@
  * predict with the model draws of counts only (`model: {counts: true}`, what the page asks for)
  * gives every slice's and total's count and model block exactly as the full predict (the same
  * draws and the same code: equality, not a tolerance), and leaves out only the histogram bins'
- * and the densities' model blocks; the forecast's cosmic-variance fractions read from predict's
- * memo (its per-slice counts and uncertainty blocks, what the page does) equal those computed
- * afresh, and so do the forecast's sigmas, to 1e-12 relative (the memo holds the engine's own
- * counts, which may differ from a fresh count in the last bits).
+ * and the densities' model blocks; and the page's forecast sigmas are those of the library's
+ * forecast of the same file bit for bit (both take the cosmic-variance fractions from the density
+ * grid's own slice counts: equality, not a tolerance).
  */
-import { readdirSync } from 'node:fs';
+import { readdirSync, readFileSync } from 'node:fs';
 import { describe, expect, test } from 'vitest';
 import { loadSurveyFile } from '../../src/survey/load.js';
 import { predict } from '../../src/counts/predict.js';
 import type { Prediction } from '../../src/model/outputs/prediction.js';
-import { UncertaintyMemo } from '../../src/uncertainty/prediction.js';
-import { cosmicVarianceInput, cosmicVarianceInputWith } from '../../src/forecast/cosmic-variance-input.js';
+import type { Forecast } from '../../src/model/outputs/forecast.js';
 import { forecast } from '../../src/forecast/forecast.js';
-import { surveyForPopulation } from '../../src/model/select.js';
-import { countPopulation } from '../../src/counts/engine.js';
-import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
+import { exploreCompute } from '../../src/library/explore/engine.js';
 
-/** The memo's counts may differ from a fresh count in the last bits (see below): 1e-12 relative. */
-const REL = 1e-12;
 const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml'));
 
 /** Every slice of a prediction: the top level's and each population's. */
@@ -54,40 +48,26 @@ describe.each(SAMPLES)('%s', (sample) => {
       expect(a.some((s) => s.histogram.model !== undefined)).toBe(true);
     }
   });
-  test("the forecast's cosmic-variance input read from predict's memo equals the one computed afresh", async () => {
-    const survey = loadSurveyFile(`samples/${sample}`);
-    const memo = new UncertaintyMemo(survey);
-    predict(survey, { uncertaintyMemo: memo, model: { counts: true } });
-    const cosmo = new FlatCosmology(survey.cosmology);
-    // photometric redshifts: predict counts by measured redshift, and forecasts refuse the file
-    const scattered = survey.detection.kind !== 'line_flux' && survey.detection.photoZ !== undefined;
-    for (const pop of survey.populations) {
-      if (pop.shape === 'double_schechter') continue;
-      const view = surveyForPopulation(survey, pop);
-      const kept = memo.counts(pop, view.detection, pop.sliceEdges);
-      if (!scattered) {
-        // predict's counts are the engine's without histograms (to the last bits: keeping the
-        // model draws' nodes may change a sum's rounding)
-        const again = countPopulation(view, pop, cosmo, pop.sliceEdges, { noHistogram: true });
-        expect(kept!.length).toBe(again.length);
-        kept!.forEach((k, i) => {
-          const g = again[i]!;
-          expect([k.zMin, k.zMax, k.volumeMpc3]).toEqual([g.zMin, g.zMax, g.volumeMpc3]);
-          expect(Math.abs(k.count - g.count)).toBeLessThanOrEqual(REL * g.count);
-        });
-      }
-      const a = cosmicVarianceInputWith(memo)(view, pop.sliceEdges, pop);
-      const b = cosmicVarianceInput(view, pop.sliceEdges, pop);
-      expect(a.length).toBe(b.length);
-      a.forEach((v, i) => expect(Math.abs(v - b[i]!)).toBeLessThanOrEqual(REL * b[i]!));
+  test("the page's forecast sigmas are the library forecast's bit for bit (its cosmic variance from the grid's own counts)", async () => {
+    const path = `samples/${sample}`;
+    const r = await exploreCompute({ text: readFileSync(path, 'utf8') }, path, 'samples');
+    expect(r.error).toBeUndefined();
+    const survey = loadSurveyFile(path);
+    if (survey.populations[0]!.shape === 'double_schechter') {
+      expect(r.fisher).toBeUndefined();
+      return;
     }
-    if (survey.populations[0]!.shape !== 'double_schechter' && !scattered) {
-      const a = await forecast(survey, { cosmicVarianceSource: cosmicVarianceInputWith(memo) });
-      const b = await forecast(survey);
-      for (const k of Object.keys(b.fisher.sigma)) {
-        expect(Math.abs(a.fisher.sigma[k]! / b.fisher.sigma[k]! - 1)).toBeLessThanOrEqual(REL);
-        expect(a.fisher_poisson_only.sigma[k]).toBe(b.fisher_poisson_only.sigma[k]);
-      }
+    let f: Forecast;
+    try {
+      f = await forecast(survey);
+    } catch (e) {
+      // the page says why there is no forecast, in the forecast's own words
+      expect(r.fisher).toBeUndefined();
+      expect(r.fisherNote).toBe((e as Error).message);
+      return;
     }
+    expect(r.fisher!.names).toEqual(f.parameters);
+    expect(r.fisher!.sigma).toEqual(f.parameters.map((n) => f.fisher.sigma[n]));
+    expect(r.fisher!.sigmaPoisson).toEqual(f.parameters.map((n) => f.fisher_poisson_only.sigma[n]));
   });
 });

@@ -217,6 +217,8 @@ describe('forecast command', () => {
       expect(validate(doc), JSON.stringify(validate.errors)).toBe(true);
       expect(doc.cosmic_variance).toBe(true);
       const pred = predict(loadSurveyFile(`samples/${f}`));
+      // 1e-9 relative: the forecast's fractions take its density grid's slice counts, predict's the
+      // count engine's, different quadratures of the same integral (test/forecast/cosmic-variance-input.test.ts)
       doc.slices.forEach((s: { cosmic_variance_fraction: number }, i: number) => {
         const expected = pred.populations[0]!.slices[i]!.uncertainty!.cosmic_variance_fraction;
         expect(Math.abs(s.cosmic_variance_fraction - expected)).toBeLessThanOrEqual(1e-9 * expected);

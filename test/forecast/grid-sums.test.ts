@@ -12,7 +12,6 @@ import { buildDensityGrid, densityFisherParts } from '../../src/forecast/grid.js
 import { fisherParts } from '../../src/forecast/fisher.js';
 import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import { surveyForPopulation } from '../../src/model/select.js';
-import { countPopulation } from '../../src/counts/engine.js';
 
 const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml'));
 
@@ -32,32 +31,5 @@ describe.each(SAMPLES)('%s', (sample) => {
       compared++;
     }
     if (!scattered && survey.populations.some((p) => p.shape === 'schechter')) expect(compared).toBeGreaterThan(0);
-  });
-});
-
-describe.each(SAMPLES)('%s: the hard-limit counts the grid keeps', (sample) => {
-  test('the count engine reading them counts every slice as it does alone, bit for bit (the same number at a z)', () => {
-    const survey = loadSurveyFile(`samples/${sample}`);
-    const cosmo = new FlatCosmology(survey.cosmology);
-    const scattered = survey.detection.kind !== 'line_flux' && survey.detection.photoZ !== undefined;
-    for (const pop of survey.populations) {
-      if (pop.shape !== 'schechter' || scattered) continue;
-      const view = surveyForPopulation(survey, pop);
-      const hardCounts = new Map<number, number>();
-      densityFisherParts(view, pop, cosmo, pop.sliceEdges, hardCounts);
-      expect(hardCounts.size).toBeGreaterThan(0);
-      const shared = countPopulation(view, pop, new FlatCosmology(view.cosmology), pop.sliceEdges, {
-        noHistogram: true,
-        hardCounts,
-      });
-      const alone = countPopulation(view, pop, new FlatCosmology(view.cosmology), pop.sliceEdges, {
-        noHistogram: true,
-      });
-      expect(shared).toEqual(alone);
-      // and what the engine keeps is what the grid computes at the same z
-      const fromEngine = new Map<number, number>();
-      countPopulation(view, pop, cosmo, pop.sliceEdges, { noHistogram: true, hardCounts: fromEngine });
-      for (const [z, f] of fromEngine) if (hardCounts.has(z)) expect(f).toBe(hardCounts.get(z));
-    }
   });
 });

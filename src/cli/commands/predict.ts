@@ -51,7 +51,11 @@ export const predictCommand: CommandDef = {
     outputs.refuseInputs(survey.inputs ?? []);
     if (raw.draws !== undefined) refuseDrawsWithoutModel(survey);
     const { predict } = await import('../../counts/predict.js');
-    const p = predict(survey, { model });
+    // The table and the CSV show the model's draws of the counts only (slices and totals), the same
+    // numbers with or without the rest: the draws of the histograms' bins and of the densities, about
+    // a third of a cold predict with model_uncertainty, are made only for the JSON and the figures.
+    const countsOnly = opts.format !== 'json' && !draw;
+    const p = predict(survey, { model: countsOnly ? { ...model, counts: true } : model });
     printWarnings(io, p.warnings);
     if (raw.seed !== undefined && modelDrawing(survey) !== 'seeded')
       optionNote(io, 'predict', '--seed', `nothing is drawn at random (${unseededModel(survey)})`);
@@ -71,9 +75,9 @@ export const predictCommand: CommandDef = {
 };
 
 /** --draws N (1 to MAX_MODEL_DRAWS; default 1000) and --seed S (0 to 4294967295; default 1) of the model's draws. */
-export function modelDrawOptions(raw: { draws?: unknown; seed?: unknown }): { draws: number; seed: number } {
-  const draws =
-    raw.draws === undefined ? DEFAULT_MODEL_DRAWS : parseInteger(optionText(raw.draws), '--draws', 1, MAX_MODEL_DRAWS);
+export function modelDrawOptions(raw: { draws?: unknown; seed?: unknown }): { draws?: number; seed: number } {
   const seed = raw.seed === undefined ? DEFAULT_MODEL_SEED : parseInteger(optionText(raw.seed), '--seed', 0, MAX_SEED);
-  return { draws, seed };
+  // left out when not given: the library draws its default, and refuses a count on a file with nothing to draw
+  if (raw.draws === undefined) return { seed };
+  return { draws: parseInteger(optionText(raw.draws), '--draws', 1, MAX_MODEL_DRAWS), seed };
 }

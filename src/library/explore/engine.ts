@@ -12,8 +12,6 @@ import type { Prediction, PredictionSlice, UncertaintyBlock } from '../../model/
 import { loadSurveyText, parseSurveyObject } from '../../survey/load.js';
 import { predict } from '../../counts/predict.js';
 import { forecast } from '../../forecast/forecast.js';
-import { cosmicVarianceInputWith } from '../../forecast/cosmic-variance-input.js';
-import { UncertaintyMemo } from '../../uncertainty/prediction.js';
 import { FisherSumsMemo } from '../../forecast/grid-memo.js';
 import { CountMemo } from '../../counts/count-memo.js';
 import { luminosityFunctionCurve } from '../../population/curves.js';
@@ -157,24 +155,22 @@ async function exploreFirst(
       },
     };
   }
-  const memo = new UncertaintyMemo(survey);
   const withModel = survey.populations.some((p) => p.modelUncertainty !== undefined);
   // The model draws of counts only: the page shows no histogram bins or densities under the draws.
   const predictWith = (draws: boolean): Prediction =>
     predict(survey, {
-      uncertaintyMemo: memo,
       model: draws ? { counts: true } : { counts: true, draws: 0 },
       ...(keep ? { countMemo: keep.counts } : {}),
     });
   const later = modelLater && withModel;
   const result = resultOf(survey, predictWith(!later), text, later);
-  await addFisher(survey, result, memo, keep);
+  await addFisher(survey, result, keep);
   if (!later) return { result };
   const fisher = { fisher: result.fisher, fisherNote: result.fisherNote };
   return {
     result,
     model: () => {
-      // the same survey, counts and uncertainties (kept in the memories), now with the model's draws
+      // the same survey and counts (from the page's count memory when it keeps one), now with the model's draws
       const full = resultOf(survey, predictWith(true), text, false);
       if (fisher.fisher) full.fisher = fisher.fisher;
       if (fisher.fisherNote !== undefined) full.fisherNote = fisher.fisherNote;
@@ -266,12 +262,7 @@ function resultOf(survey: Survey, prediction: Prediction, text: string, pending:
 }
 
 /** The forecast's Fisher sigmas of the first population (or why there are none), added to `result`. */
-async function addFisher(
-  survey: Survey,
-  result: ExploreResult,
-  memo: UncertaintyMemo,
-  keep: ExploreMemo | undefined,
-): Promise<void> {
+async function addFisher(survey: Survey, result: ExploreResult, keep: ExploreMemo | undefined): Promise<void> {
   const first = survey.populations[0]!;
   if (first.shape === 'double_schechter') {
     result.fisherNote =
@@ -279,10 +270,7 @@ async function addFisher(
     return;
   }
   try {
-    const f = await forecast(survey, {
-      cosmicVarianceSource: cosmicVarianceInputWith(memo),
-      ...(keep ? { fisherSums: keep.fisherSums } : {}),
-    });
+    const f = await forecast(survey, keep ? { fisherSums: keep.fisherSums } : {});
     const names = f.parameters;
     result.fisher = {
       population: first.name,
