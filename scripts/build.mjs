@@ -89,9 +89,80 @@ const lazyRandomWith = (read) => ({
   },
 });
 const lazyRandom = lazyRandomWith("createRequire(import.meta.url)('#random')");
+// vega parses every expression of a figure's specification (vega-functions' parser: the text to a
+// syntax tree, then the tree to JavaScript source) each time it meets it, and a report meets the
+// same few hundred texts thousands of times (each facet panel's axes and marks, each figure's
+// title and fonts: 2,435 parses of 220 texts for the narrow-band interlopers' eight figures). The
+// tree and its source depend on the text alone (the code generator's functions are fixed once
+// vega-functions is loaded), so they are kept by text; what depends on the scope (the data,
+// scales and signals the expression reads, the visitors' and the globals' parameters) is worked
+// out at every call as before. The same JavaScript source and parameters, so the same figures.
+const EXPRESSION_PARSE = `  let ast;
+  try {
+    expr = isString(expr) ? expr : stringValue(expr) + '';
+    ast = parseExpression(expr);
+  } catch (err) {
+    error('Expression parse error: ' + expr);
+  }
+
+  // analyze ast function calls for dependencies
+  ast.visit(node => {
+    if (node.type !== CallExpression) return;
+    const name = node.callee.name,
+      visit = codegenParams.visitors[name];
+    if (visit) visit(name, node.arguments, scope, params);
+  });
+
+  // perform code generation
+  const gen = codeGenerator(ast);
+`;
+const EXPRESSION_KEPT = `  expr = isString(expr) ? expr : stringValue(expr) + '';
+  let kept = keptExpressions.get(expr);
+  let ast = kept?.ast;
+  if (!kept) {
+    try {
+      ast = parseExpression(expr);
+    } catch (err) {
+      error('Expression parse error: ' + expr);
+    }
+  }
+
+  // analyze ast function calls for dependencies (the visitors read the tree, never change it)
+  ast.visit(node => {
+    if (node.type !== CallExpression) return;
+    const name = node.callee.name,
+      visit = codegenParams.visitors[name];
+    if (visit) visit(name, node.arguments, scope, params);
+  });
+
+  // perform code generation (once per text; each call gets its own lists)
+  if (!kept) {
+    if (keptExpressions.size >= 4096) keptExpressions.clear();
+    keptExpressions.set(expr, (kept = { ast, gen: codeGenerator(ast) }));
+  }
+  const gen = { code: kept.gen.code, globals: kept.gen.globals.slice(), fields: kept.gen.fields.slice() };
+`;
+const keptExpressionParses = {
+  name: 'kept-expression-parses',
+  setup(b) {
+    b.onLoad({ filter: /[\\/]vega-functions[\\/]build[\\/]vega-functions\.js$/ }, async (args) => {
+      const { readFile } = await import('node:fs/promises');
+      const text = await readFile(args.path, 'utf8');
+      const head =
+        'function parser (expr, scope) {\n  const params = {};\n\n  // parse the expression to an abstract syntax tree (ast)\n';
+      const from = head + EXPRESSION_PARSE;
+      if (!text.includes(from))
+        throw new Error(`vega-functions changed: ${args.path} no longer parses expressions as expected`);
+      return {
+        contents: text.replace(from, `const keptExpressions = new Map();\n${head}${EXPRESSION_KEPT}`),
+        loader: 'js',
+      };
+    });
+  },
+};
 await build({
   entryPoints: { index: 'src/index.ts', 'cli/skytally': 'src/cli/main.ts', worker: 'src/worker.ts' },
-  plugins: [lazyMathjs, lazyRandom],
+  plugins: [lazyMathjs, lazyRandom, keptExpressionParses],
   outdir: 'dist',
   bundle: true,
   splitting: true,
@@ -204,7 +275,7 @@ await build({
     sourcefile: 'vega-libraries.js',
   },
   outfile: 'dist/vega.cjs',
-  plugins: [syncCanvas, vegaLiteUtil],
+  plugins: [syncCanvas, vegaLiteUtil, keptExpressionParses],
   external: ['canvas'],
 });
 // commander reads node:child_process when loaded, for executable subcommands (a program per

@@ -279,21 +279,33 @@ interface PieceSums {
   total: number | undefined;
 }
 
+/** A measured slice's redshift profile as addPiece fills it: one entry per node of every piece. */
+interface ProfileArrays {
+  z: Float64Array;
+  count: Float64Array;
+  volumeMpc3: Float64Array;
+  selected: Float64Array;
+}
+
 /**
- * One piece's nodes weighted by w into a measured slice's sums, histogram counts and profile, in
- * node order. A function of its own, not a closure made per piece and slice: each closure would
- * be compiled by V8's optimising compiler afresh (four times in a cold predict of the photo-z
- * sample).
+ * One piece's nodes weighted by w into a measured slice's sums, histogram counts and profile (from
+ * index `at`), in node order; returns the index after its last node. A function of its own, not a
+ * closure made per piece and slice: each closure would be compiled by V8's optimising compiler
+ * afresh (four times in a cold predict of the photo-z sample). The counts and the profile are typed
+ * arrays (copied to plain ones once the slice is summed): plain arrays made empty per slice start
+ * as small integers and turn into doubles at their first value, so code compiled on one slice's
+ * arrays met another kind at the next ("wrong map") and was compiled again.
  */
 function addPiece(
   nd: NodeDetail,
   w: readonly number[],
-  counts: number[],
+  counts: Float64Array,
   sums: PieceSums,
-  profile: Required<RedshiftProfile>,
-): void {
+  profile: ProfileArrays,
+  at: number,
+): number {
   const n = nd.count.length;
-  for (let i = 0; i < n; i++) {
+  for (let i = 0; i < n; i++, at++) {
     const c = nd.count[i]!;
     const wi = w[i]!;
     sums.count += wi * c;
@@ -301,11 +313,12 @@ function addPiece(
     if (sums.total !== undefined) sums.total = nd.total ? sums.total + wi * nd.total[i]! : undefined;
     const row = nd.bins[i]!;
     for (let b = 0; b < row.length; b++) counts[b]! += wi * row[b]!;
-    profile.z.push(nd.z[i]!);
-    profile.count.push(wi * c);
-    profile.volumeMpc3.push(nd.volumeMpc3[i]!);
-    profile.selected.push(wi);
+    profile.z[at] = nd.z[i]!;
+    profile.count[at] = wi * c;
+    profile.volumeMpc3[at] = nd.volumeMpc3[i]!;
+    profile.selected[at] = wi;
   }
+  return at;
 }
 
 /** One measured slice: the pieces' nodes weighted by the probability of being measured in it. */
@@ -327,15 +340,29 @@ function measuredSlice(
   ).limitInVariable;
   const width = survey.histogramWidth;
   const sums: PieceSums = { count: 0, detected: 0, total: 0 };
-  const profile: Required<RedshiftProfile> = { z: [], count: [], volumeMpc3: [], selected: [] };
+  let nodes = 0;
+  for (const p of run) nodes += p.nodes!.count.length;
+  const arrays: ProfileArrays = {
+    z: new Float64Array(nodes),
+    count: new Float64Array(nodes),
+    volumeMpc3: new Float64Array(nodes),
+    selected: new Float64Array(nodes),
+  };
   // the pieces' histograms on one grid of multiples of the width
   const pieceHistograms: Histogram[] = [];
+  let at = 0;
   for (let k = 0; k < run.length; k++) {
     const p = run[k]!;
-    const counts = new Array<number>(p.histogram.counts.length).fill(0);
-    addPiece(p.nodes!, weights[k]!, counts, sums, profile);
-    pieceHistograms.push({ variable: p.histogram.variable, edges: p.histogram.edges, counts });
+    const counts = new Float64Array(p.histogram.counts.length);
+    at = addPiece(p.nodes!, weights[k]!, counts, sums, arrays, at);
+    pieceHistograms.push({ variable: p.histogram.variable, edges: p.histogram.edges, counts: Array.from(counts) });
   }
+  const profile: Required<RedshiftProfile> = {
+    z: Array.from(arrays.z),
+    count: Array.from(arrays.count),
+    volumeMpc3: Array.from(arrays.volumeMpc3),
+    selected: Array.from(arrays.selected),
+  };
   const { count, detected, total } = sums;
   const out: SliceCount = {
     zMin,
