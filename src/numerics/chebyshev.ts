@@ -8,6 +8,13 @@
  * Chebfun, common practice).
  */
 
+/**
+ * The cosine tables made so far, by n (a few sizes serve every series; read-only once made); that
+ * of one point, cos 0 = 1, from the start (a series constant along one variable takes it without
+ * its points being asked for).
+ */
+const cosineTables = new Map<number, Float64Array>([[1, Float64Array.of(1)]]);
+
 export interface Chebyshev2D {
   /** Points (and coefficients) along x and y. */
   nx: number;
@@ -20,8 +27,14 @@ export interface Chebyshev2D {
   coef: Float64Array;
 }
 
-/** The n Chebyshev points of the first kind on [a, b] (one point, the middle, when n = 1). */
+/**
+ * The n Chebyshev points of the first kind on [a, b] (one point, the middle, when n = 1). Makes the
+ * cosine table of n too (cosineTable), where it is not made yet: every series is made from values
+ * at these points, so chebyshev2D, which V8 optimises early, then finds its tables made and does not
+ * meet the loop that makes one (code without type feedback there: see makeCosineTable).
+ */
 export function chebyshevPoints(n: number, a: number, b: number): Float64Array {
+  if (!cosineTables.has(n)) makeCosineTable(n);
   const out = new Float64Array(n);
   for (let k = 0; k < n; k++) out[k] = 0.5 * (a + b) + 0.5 * (b - a) * Math.cos((Math.PI * (k + 0.5)) / n);
   return out;
@@ -57,14 +70,18 @@ export function chebyshev2D(
   return { nx, ny, x0, x1, y0, y1, coef };
 }
 
-/** The cosine tables made so far, by n (a few sizes serve every series; read-only once made). */
-const cosineTables = new Map<number, Float64Array>();
-
 /** cos(pi p (k + 1/2) / n) at [p * n + k]: T_p at the k-th point. */
 function cosineTable(n: number): Float64Array {
   return cosineTables.get(n) ?? makeCosineTable(n);
 }
 
+/**
+ * The cosine table of a new size, a function of its own, made by chebyshevPoints before
+ * chebyshev2D needs it: a cold process makes its first tables in the first calls of a function,
+ * before V8 keeps type feedback for it, so code that makes a table later has none, and
+ * chebyshev2D, optimised with such code inlined, threw its compiled code away at the first new
+ * size (a second compilation of some 20 million instructions).
+ */
 function makeCosineTable(n: number): Float64Array {
   const t = new Float64Array(n * n);
   for (let p = 0; p < n; p++) for (let k = 0; k < n; k++) t[p * n + k] = Math.cos((Math.PI * p * (k + 0.5)) / n);

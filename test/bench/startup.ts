@@ -102,11 +102,14 @@ const samples = readdirSync(join(root, 'samples'))
   .sort();
 const json = join(dir, 'out.json');
 const html = join(dir, 'out.html');
+const txt = join(dir, 'out.txt');
 const cases: { name: string; argv: string[] }[] = [];
 for (const s of samples) {
   const file = `samples/${s}`;
   const isPlan = /^plan:/m.test(readFileSync(join(root, file), 'utf8'));
   cases.push({ name: `predict ${s}`, argv: ['bin/skytally.js', 'predict', file, '--format', 'json', '--out', json] });
+  // the default format, the README's quick start: the table asks for the counts' model draws only
+  cases.push({ name: `predict-table ${s}`, argv: ['bin/skytally.js', 'predict', file, '--out', txt] });
   cases.push({ name: `check ${s}`, argv: ['bin/skytally.js', 'check', file, '--format', 'json', '--out', json] });
   cases.push({ name: `forecast ${s}`, argv: ['bin/skytally.js', 'forecast', file, '--format', 'json', '--out', json] });
   if (isPlan)
