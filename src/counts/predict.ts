@@ -24,7 +24,8 @@ import type { Survey } from '../model/survey.js';
 import { MAX_HALVINGS, UNCONVERGED_SHARE, type Histogram, type SliceCount } from './engine.js';
 import { countWith, type CountMemo } from './count-memo.js';
 import { DEFAULT_MODEL_DRAWS, DEFAULT_MODEL_SEED, MAX_MODEL_DRAWS } from './model-draws.js';
-import { assertWholeOption, inputError } from '../errors.js';
+import { refuseUndrawnModel } from '../model/model-uncertainty.js';
+import { assertWholeOption } from '../errors.js';
 import { MAX_SEED } from '../model/limits.js';
 import { addPopulationSpreads, addTopSpreads } from './model-spread.js';
 import { countPhotoZ, sumMigrations, type PhotoZCount, type PhotoZMigration } from './photo-z.js';
@@ -304,8 +305,8 @@ export interface PredictOptions {
   /**
    * Draws of the populations' model_uncertainty (default 1000) and their seed (default 1); `draws: 0`
    * skips them; a count above 0 is refused where no population's model_uncertainty gives sigmas
-   * (nothing to draw, or a draws_file's rows each taken once). `counts: true` gives the model blocks of counts only (slices and totals, the same
-   * numbers as without it) and leaves out those of the histograms' bins and the luminosity and
+   * (nothing to draw, or a draws_file's rows each taken once). `counts: true` gives the model
+   * blocks of counts only (slices and totals, the same numbers as without it) and leaves out those of the histograms' bins and the luminosity and
    * star-formation densities (the explore page shows neither; the histograms' draws are about
    * half of the draws' work).
    */
@@ -566,28 +567,6 @@ function addUncertainties(
   return warnings;
 }
 
-/**
- * A count of draws asked for (above 0) where no population's model_uncertainty gives sigmas to
- * draw from is refused, as `predict --draws` is: without model_uncertainty there is no spread, and
- * a draws_file's rows are each taken once whatever the count. Silently ignoring it would leave a
- * script believing it had the model's spread.
- */
-function refuseDrawsWithoutSpread(survey: Survey, draws: number | undefined): void {
-  if (!draws || survey.populations.some((p) => p.modelUncertainty?.kind === 'gaussian')) return;
-  const none = survey.populations.every((p) => p.modelUncertainty === undefined);
-  throw inputError(
-    'bad_option',
-    survey.file,
-    'model.draws',
-    none
-      ? 'no population has a model_uncertainty block, so there is no model spread to draw'
-      : "every population's model_uncertainty is a draws_file, whose rows are each drawn once whatever the count is",
-    none
-      ? 'add model_uncertainty to a population (docs/survey-file.md) or leave out model.draws'
-      : 'leave out model.draws',
-  );
-}
-
 export function predict(survey: Survey, options: PredictOptions = {}): Prediction {
   checkSurvey(survey, 'predict');
   checkOptions(options, 'predict', '{ model: { draws: 100 } }');
@@ -596,7 +575,8 @@ export function predict(survey: Survey, options: PredictOptions = {}): Predictio
   const withUncertainty = !options.noUncertainty;
   assertWholeOption(options.model?.draws, 'model.draws', 0, MAX_MODEL_DRAWS);
   assertWholeOption(options.model?.seed, 'model.seed', 0, MAX_SEED);
-  refuseDrawsWithoutSpread(survey, options.model?.draws);
+  // a count above 0 where nothing would be drawn that many times is refused, as predict --draws is
+  if (options.model?.draws) refuseUndrawnModel(survey, 'model.draws', 'the count');
   const modelDraws = options.model?.draws ?? DEFAULT_MODEL_DRAWS;
   const withModel = withUncertainty && modelDraws > 0 && survey.populations.some((p) => p.modelUncertainty);
   const runs = countPopulations(survey, cosmo, units, withUncertainty, withModel, options.countMemo);

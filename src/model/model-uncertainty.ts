@@ -5,6 +5,8 @@
  * correlations) or read from a file of draws (one draw a row).
  */
 import type { ModelDescription } from './outputs/shared.js';
+import type { Survey } from './survey.js';
+import { inputError } from '../errors.js';
 
 /** Default number of draws (predict's --draws). */
 export const DEFAULT_MODEL_DRAWS = 1000;
@@ -12,6 +14,38 @@ export const DEFAULT_MODEL_DRAWS = 1000;
 export const DEFAULT_MODEL_SEED = 1;
 /** Most draws a prediction may ask for. */
 export const MAX_MODEL_DRAWS = 100_000;
+
+/**
+ * How a survey's model is drawn: 'seeded' when a population's model_uncertainty gives sigmas (drawn
+ * --draws N times from --seed S), 'file' when every one is a draws_file (each row once, nothing
+ * random), 'none' without model_uncertainty.
+ */
+export function modelDrawing(survey: Survey): 'seeded' | 'file' | 'none' {
+  const kinds = survey.populations.map((p) => p.modelUncertainty?.kind);
+  return kinds.includes('gaussian') ? 'seeded' : kinds.includes('draws') ? 'file' : 'none';
+}
+
+/**
+ * A number of draws asked for (`option`, called `count` in the sentence) where the model is not drawn
+ * that many times: refused, naming the file (predict --draws, report --draws, library
+ * predict's model.draws). Silently ignoring it would leave the caller believing it had the model's
+ * spread.
+ */
+export function refuseUndrawnModel(survey: Survey, option: string, count: string): void {
+  const how = modelDrawing(survey);
+  if (how === 'seeded') return;
+  throw inputError(
+    'bad_option',
+    survey.file,
+    option,
+    how === 'none'
+      ? 'no population has a model_uncertainty block, so there is no model spread to draw'
+      : `every population's model_uncertainty is a draws_file, whose rows are each drawn once whatever ${count} is`,
+    how === 'none'
+      ? `add model_uncertainty to a population (docs/survey-file.md) or leave out ${option}`
+      : `leave out ${option}`,
+  );
+}
 
 /** The parameters a model uncertainty may name (double Schechter: _1 and _2, sharing L* or M*). */
 export type ModelParameter =

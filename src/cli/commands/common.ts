@@ -4,6 +4,7 @@ import { Option, type Command } from 'commander';
 import { FORMATS, parseFormat, type CliIO, type OutputOptions } from '../io.js';
 import { excerpt, inputError, SurveyError } from '../../errors.js';
 import type { Survey } from '../../model/survey.js';
+import { modelDrawing, refuseUndrawnModel } from '../../model/model-uncertainty.js';
 import { compact } from '../../render/format.js';
 import { warningLines, type Warning } from '../../warnings.js';
 
@@ -41,15 +42,7 @@ export function noteNoPngWithoutFigures(io: CliIO, command: string, opts: Record
     optionNote(io, command, '--no-png', 'no figures are written without --figures DIR');
 }
 
-/**
- * How a survey's model is drawn: 'seeded' when a population's model_uncertainty gives sigmas (drawn
- * --draws N times from --seed S), 'file' when every one is a draws_file (each row once, nothing
- * random), 'none' without model_uncertainty.
- */
-export function modelDrawing(survey: Survey): 'seeded' | 'file' | 'none' {
-  const kinds = survey.populations.map((p) => p.modelUncertainty?.kind);
-  return kinds.includes('gaussian') ? 'seeded' : kinds.includes('draws') ? 'file' : 'none';
-}
+export { modelDrawing };
 
 /** Why a survey's model is not drawn at random: no model_uncertainty, or only draws files (each row once). */
 export function unseededModel(survey: Survey): string {
@@ -60,19 +53,7 @@ export function unseededModel(survey: Survey): string {
 
 /** --draws N given for a file whose model is not drawn N times: refused, naming the file. */
 export function refuseDrawsWithoutModel(survey: Survey): void {
-  const how = modelDrawing(survey);
-  if (how === 'seeded') return;
-  throw inputError(
-    'bad_option',
-    survey.file,
-    '--draws',
-    how === 'none'
-      ? 'no population has a model_uncertainty block, so there is no model spread to draw'
-      : "every population's model_uncertainty is a draws_file, whose rows are each drawn once whatever N is",
-    how === 'none'
-      ? 'add model_uncertainty to a population (docs/survey-file.md) or leave out --draws'
-      : 'leave out --draws',
-  );
+  refuseUndrawnModel(survey, '--draws', 'N');
 }
 
 export function addOutputOptions(cmd: Command): void {
