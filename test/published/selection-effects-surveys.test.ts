@@ -54,6 +54,14 @@ slices: {count: 1}
 `;
 }
 
+/**
+ * The two HiZELS-like surveys (from memory, as the tests below cite): NB_K at z = 2.23 over 0.6
+ * deg^2 above 1e-16 erg/s/cm^2, and NB_J at z = 0.84 over 1.3 deg^2 above 8e-17, each with the
+ * Sobral et al. 2013 function's log10 phi* and log10 L* at its redshift.
+ */
+const z223 = { area: 0.6, limit: '1e-16', center: '2.121 um', fwhm: '210 Angstrom', logPhi: -2.78, logL: 42.87 };
+const z084 = { area: 1.3, limit: '8e-17', center: '1.211 um', fwhm: '150 Angstrom', logPhi: -2.47, logL: 42.25 };
+
 describe('published surveys selected by blended line flux, dust and colour (from memory; the model spread as tolerance)', () => {
   // Sobral et al. 2013, MNRAS 428, 1128 (from memory): the H-alpha functions of HiZELS, corrected
   // for [NII] and for 1 mag of dust (A_Halpha = 1), alpha free. The surveys' limits are on the
@@ -66,12 +74,7 @@ describe('published surveys selected by blended line flux, dust and colour (from
     // emitters' bias about 2.4 (Geach et al. 2012, MNRAS 426, 679; from memory)
     const text = (blend: number) =>
       hizels({
-        area: 0.6,
-        limit: '1e-16',
-        center: '2.121 um',
-        fwhm: '210 Angstrom',
-        logPhi: -2.78,
-        logL: 42.87,
+        ...z223,
         alpha: -1.59,
         blend,
         bias: 'bias: 2.4',
@@ -94,12 +97,7 @@ describe('published surveys selected by blended line flux, dust and colour (from
       predict(
         loadSurveyText(
           hizels({
-            area: 0.6,
-            limit: '1e-16',
-            center: '2.121 um',
-            fwhm: '210 Angstrom',
-            logPhi: -2.78,
-            logL: 42.87,
+            ...z223,
             alpha: -1.59,
             blend: 0.2,
             lines: true,
@@ -129,12 +127,7 @@ describe('published surveys selected by blended line flux, dust and colour (from
     // from memory, is a bias near 1.2)
     const text = (blend: number) =>
       hizels({
-        area: 1.3,
-        limit: '8e-17',
-        center: '1.211 um',
-        fwhm: '150 Angstrom',
-        logPhi: -2.47,
-        logL: 42.25,
+        ...z084,
         alpha: -1.56,
         blend,
         bias: '',
@@ -153,8 +146,6 @@ describe('published surveys selected by blended line flux, dust and colour (from
   });
 
   test('narrow-band [NII] blending line by line (docs/survey-file.md): blended_lines at 6583.45 and 6548.05 A count what the two [NII] lines placed one by one count, for both HiZELS-like surveys, and the published counts lie within the model spread of them', () => {
-    const z223 = { area: 0.6, limit: '1e-16', center: '2.121 um', fwhm: '210 Angstrom', logPhi: -2.78, logL: 42.87 };
-    const z084 = { area: 1.3, limit: '8e-17', center: '1.211 um', fwhm: '150 Angstrom', logPhi: -2.47, logL: 42.25 };
     const high = predict(
       loadSurveyText(
         hizels({ ...z223, alpha: -1.59, blend: 0.2, bias: 'bias: 2.4', lines: true }),
@@ -187,8 +178,6 @@ describe('published surveys selected by blended line flux, dust and colour (from
     const rule = (ratio: number, centre: number, fwhm: number) => ratio * (1 - (19 * centre) / 6562.8 / fwhm);
     const count = (o: Parameters<typeof hizels>[0]) =>
       predict(loadSurveyText(hizels(o), 'hizels-rule.yaml'), { noUncertainty: true }).totals.count;
-    const z223 = { area: 0.6, limit: '1e-16', center: '2.121 um', fwhm: '210 Angstrom', logPhi: -2.78, logL: 42.87 };
-    const z084 = { area: 1.3, limit: '8e-17', center: '1.211 um', fwhm: '150 Angstrom', logPhi: -2.47, logL: 42.25 };
     // scipy (selection_published_counts.py, each line counted where it falls inside the filter,
     // [NII] alone beyond H-alpha's window too): 51.208256098387636 and 797.4806185625769. Within
     // 0.5 % at z = 2.23 (skytally 51.06) and 2 % at z = 0.84 (786.9: the 11 emitters detected by

@@ -126,18 +126,20 @@ describe('the slices correlation matrix', () => {
   });
 });
 
-describe('the tabulated correlations (sliceCorrelations) against the direct integral of each pair (boxCovariance0)', () => {
+/** n slices equal in z over [z0, z1] of one field of areaDeg2, as slicesCorrelation makes them. */
+function slices(z0: number, z1: number, n: number, areaDeg2: number) {
   const cosmo = new FlatCosmology(cosmologyOf(fixture.cosmology));
-  /** n slices equal in z over [z0, z1] of one field of areaDeg2, as slicesCorrelation makes them. */
-  const slices = (z0: number, z1: number, n: number, areaDeg2: number) =>
-    Array.from({ length: n }, (_, i) => {
-      const a = z0 + ((z1 - z0) * i) / n;
-      const b = z0 + ((z1 - z0) * (i + 1)) / n;
-      const c1 = cosmo.comovingDistanceMpc(a);
-      const c2 = cosmo.comovingDistanceMpc(b);
-      const w = Math.sqrt(areaDeg2 * (Math.PI / 180) ** 2) * cosmo.transverseComovingDistanceMpc(0.5 * (a + b));
-      return { sides: [w, 0.8 * w, c2 - c1] as const, centreMpc: 0.5 * (c1 + c2) };
-    });
+  return Array.from({ length: n }, (_, i) => {
+    const a = z0 + ((z1 - z0) * i) / n;
+    const b = z0 + ((z1 - z0) * (i + 1)) / n;
+    const c1 = cosmo.comovingDistanceMpc(a);
+    const c2 = cosmo.comovingDistanceMpc(b);
+    const w = Math.sqrt(areaDeg2 * (Math.PI / 180) ** 2) * cosmo.transverseComovingDistanceMpc(0.5 * (a + b));
+    return { sides: [w, 0.8 * w, c2 - c1] as const, centreMpc: 0.5 * (c1 + c2) };
+  });
+}
+
+describe('the tabulated correlations (sliceCorrelations) against the direct integral of each pair (boxCovariance0)', () => {
   // Measured: |R - R_direct| <= 3.5e-6 (narrow-band, R up to 0.63), 1.8e-5 (six slices of 0.17 in
   // z), 2.2e-5 (twelve slices of a 0.1 deg^2 field) and 9.6e-6 (z = 4-8; there R <= 0.06): the
   // Lagrange cubics in ln w between transverse nodes 0.1 apart and the k_z rule shared by all pairs.
@@ -195,17 +197,6 @@ describe('the tabulated correlations (sliceCorrelations) against the direct inte
 });
 
 describe('many slices: the correlations from real space (sliceCorrelations above 16 slices)', () => {
-  const cosmo = new FlatCosmology(cosmologyOf(fixture.cosmology));
-  /** n slices equal in z over [z0, z1] of one field of areaDeg2 (as above). */
-  const slices = (z0: number, z1: number, n: number, areaDeg2: number) =>
-    Array.from({ length: n }, (_, i) => {
-      const a = z0 + ((z1 - z0) * i) / n;
-      const b = z0 + ((z1 - z0) * (i + 1)) / n;
-      const c1 = cosmo.comovingDistanceMpc(a);
-      const c2 = cosmo.comovingDistanceMpc(b);
-      const w = Math.sqrt(areaDeg2 * (Math.PI / 180) ** 2) * cosmo.transverseComovingDistanceMpc(0.5 * (a + b));
-      return { sides: [w, 0.8 * w, c2 - c1] as const, centreMpc: 0.5 * (c1 + c2) };
-    });
   // 100 slices of the narrow-band sample's range (1.6 Mpc deep in a 69 Mpc wide field), 100
   // thinner ones at z = 2.2 (0.66 Mpc deep), and 100 slices 44 Mpc deep in a 6.8 Mpc wide field
   // (each slice deeper than the field is wide, the pairs up to 4,400 Mpc apart)
