@@ -932,19 +932,40 @@ class Level2Row {
 
   values(dc: number, das: Float64Array, got: Float64Array[]): void {
     const { vw, a, lumScale, phiK, alphaK, used, j0, j1, row0, row1, withLum } = this;
-    const n = got[0]!.fill(0);
-    const l = withLum ? got[1]!.fill(0) : undefined;
-    for (const i of used) {
-      const w = vw[i]! * phiK[i]!;
-      const t = a[i]! + dc;
-      chebyshevAlongY(j0, t, row0);
-      if (j1) chebyshevAlongY(j1, t, row1);
-      for (let q = 0; q < das.length; q++) {
-        const al = alphaK[i]! + das[q]!;
-        n[q] = n[q]! + w * Math.exp(chebyshevAtY(j0, row0, al));
-        if (j1 && l) l[q] = l[q]! + w * lumScale[i]! * Math.exp(chebyshevAtY(j1, row1, al));
-      }
+    // the count's values and the luminosity's by one loop over the functions, so that V8 compiles
+    // one copy of the sums (two, written out for each, made this method's compilation twice as large)
+    const functions = withLum ? 2 : 1;
+    for (let m = 0; m < functions; m++) {
+      const out = got[m]!.fill(0);
+      const c = m === 0 ? j0 : j1;
+      if (c)
+        nodeSums(c, m === 0 ? row0 : row1, vw, phiK, m === 0 ? undefined : lumScale, a, alphaK, used, dc, das, out);
     }
+  }
+}
+
+/**
+ * out[q] += V_i phi*_ik (times the luminosity's scale where given) exp(J(a_i + d_c, alpha_ik +
+ * d_alpha_q)) over the nodes `used`, J the level-1 series `c` (collapsed at each node's t into `row`).
+ */
+function nodeSums(
+  c: Chebyshev2D,
+  row: Float64Array,
+  vw: Float64Array,
+  phiK: Float64Array,
+  lumScale: Float64Array | undefined,
+  a: Float64Array,
+  alphaK: Float64Array,
+  used: readonly number[],
+  dc: number,
+  das: Float64Array,
+  out: Float64Array,
+): void {
+  for (const i of used) {
+    const w0 = vw[i]! * phiK[i]!;
+    const w = lumScale ? w0 * lumScale[i]! : w0;
+    chebyshevAlongY(c, a[i]! + dc, row);
+    for (let q = 0; q < das.length; q++) out[q] = out[q]! + w * Math.exp(chebyshevAtY(c, row, alphaK[i]! + das[q]!));
   }
 }
 
