@@ -428,9 +428,12 @@ function setDrawResult(out: Float64Array, count: number, detected: number, total
  *
  * and J1 the same with u^(alpha + 1) (the luminosity). Two levels of Chebyshev series
  * (src/numerics/chebyshev.ts), in logarithms so that their error is relative:
- *  1. ln J and ln J1 over t from the smallest a of the slice's nodes plus the smallest d_c of the
- *     draws to the largest plus the largest, and alpha over what the draws reach at those nodes,
- *     from the exact path's node integrals (nodeIntegral with phi* = 1) at the Chebyshev points;
+ *  1. ln J and ln J1 over t from the smallest a of the population's nodes plus the smallest d_c
+ *     of the draws to the largest plus the largest, and alpha over what the draws reach at those
+ *     nodes, from the exact path's node integrals (nodeIntegral with phi* = 1) at the Chebyshev
+ *     points: one table for every slice whose limit sits at the same obs (populationRange; an
+ *     explore page, which moves level 1 from limit to limit, makes one per slice, over the slice's
+ *     nodes, so that a change of the window's end leaves the other slices' series as they were);
  *  2. per component, the slice's ln N_k(d_c, d_alpha_k) = ln sum_i V_i phi*_ik J(a_i + d_c,
  *     alpha_ik + d_alpha_k) (and the luminosity) over the draws' range of offsets, from level 1
  *     (a row of points at a time: at one d_c, level 1 at each node's t as a series in alpha,
@@ -697,15 +700,21 @@ function nodeLevelKept(
   return kept.series;
 }
 
-function sliceTables(
-  f: SliceNodes,
-  s: Setting,
-  offsets: readonly ModelOffsets[],
-  withLum: boolean,
-  start: TableStart,
-  moveAcrossLimits: boolean,
-): SliceTables | undefined {
-  const slope = s.observer.slope;
+/**
+ * What level 1 needs of a slice: the limit in obs (the same at every node that detects, where the
+ * node's limit in u puts it), the range of the nodes' t and alpha, and the nodes that detect;
+ * undefined where the limit differs from node to node (the exact path) or no node detects.
+ */
+interface SliceRange {
+  obsLim: number;
+  aMin: number;
+  aMax: number;
+  alphaMin: number;
+  alphaMax: number;
+  seen: number[];
+}
+
+function sliceRange(f: SliceNodes, slope: number): SliceRange | undefined {
   const nc = f.phi.length;
   let obsLim = NaN;
   let aMin = Infinity;
@@ -730,7 +739,46 @@ function sliceTables(
       alphaMax = Math.max(alphaMax, f.alpha[k]![i]!);
     }
   }
-  if (seen.length === 0) return undefined;
+  return seen.length === 0 ? undefined : { obsLim, aMin, aMax, alphaMin, alphaMax, seen };
+}
+
+/**
+ * One range of level 1 for every slice of a population whose limit sits at the first such slice's
+ * obs (flux and magnitude limits: all of them): the union of the slices' ranges of t and alpha.
+ * Level 1 is then made once over it and serves every slice, where a table per slice made it once
+ * per slice (the robust UV plan: 4 tables of 16 x 16 node integrals, with luminosity twice that).
+ */
+function populationRange(ranges: readonly (SliceRange | undefined)[]): SliceRange | undefined {
+  let union: SliceRange | undefined;
+  for (const r of ranges) {
+    if (!r) continue;
+    if (!union) union = { ...r, seen: [] };
+    else if (r.obsLim === union.obsLim) {
+      union.aMin = Math.min(union.aMin, r.aMin);
+      union.aMax = Math.max(union.aMax, r.aMax);
+      union.alphaMin = Math.min(union.alphaMin, r.alphaMin);
+      union.alphaMax = Math.max(union.alphaMax, r.alphaMax);
+    }
+  }
+  return union;
+}
+
+/**
+ * Level 1 over a range of t = a + d_c and alpha + d_alpha (the nodes' range widened by the draws'
+ * offsets): ln J (and ln J1) from the node integrals at the Chebyshev points, kept by everything
+ * they depend on (nodeLevelKept), or moved from another limit where `moveAcrossLimits`.
+ */
+function levelOne(
+  s: Setting,
+  range: SliceRange,
+  nc: number,
+  offsets: readonly ModelOffsets[],
+  withLum: boolean,
+  start: TableStart,
+  moveAcrossLimits: boolean,
+): Chebyshev2D[] | undefined {
+  const slope = s.observer.slope;
+  const { obsLim, aMin, aMax, alphaMin, alphaMax } = range;
   const { dcMin, dcMax, daMin, daMax } = offsetRanges(offsets, nc);
   // level 1: the node integral J (and J1) over (t, alpha)
   const probe: NodeState = {
@@ -756,7 +804,7 @@ function sliceTables(
     s.rules!.setSlice([probe]);
     s.rules!.setNode(probe);
   };
-  const nodeLevel = nodeLevelKept(
+  return nodeLevelKept(
     `${s.key} ${x0} ${x1} ${y0} ${y1} ${withLum} ${start.node.join(',')}`,
     obsLim,
     start,
@@ -810,6 +858,28 @@ function sliceTables(
     },
     moveAcrossLimits,
   );
+}
+
+function sliceTables(
+  f: SliceNodes,
+  s: Setting,
+  offsets: readonly ModelOffsets[],
+  withLum: boolean,
+  start: TableStart,
+  moveAcrossLimits: boolean,
+  range: SliceRange | undefined,
+  shared: { range: SliceRange; series: Chebyshev2D[] | undefined } | undefined,
+): SliceTables | undefined {
+  const nc = f.phi.length;
+  if (!range) return undefined;
+  const { seen } = range;
+  const { dcMin, dcMax, daMin, daMax } = offsetRanges(offsets, nc);
+  // level 1: the population's where the slice's limit is at its obs (and its series were made),
+  // else the slice's own
+  const nodeLevel =
+    shared?.series && shared.range.obsLim === range.obsLim
+      ? shared.series
+      : levelOne(s, range, nc, offsets, withLum, start, moveAcrossLimits);
   if (!nodeLevel) return undefined;
   const [j0, j1] = nodeLevel as [Chebyshev2D, Chebyshev2D | undefined];
   // level 2: per component, the slice over (d_c, d_alpha)
@@ -1092,13 +1162,34 @@ export function populationDraws(
   // (the luminosity of all sources is given only where every draw of every slice has one: where
   // some has none, none is computed)
   if (total && !totalsDefined(slices, flat, offsets, zero)) total = undefined;
+  const tabulate = !options.exact && n >= TABLE_MIN_DRAWS;
+  const moveAcrossLimits = options.moveAcrossLimits === true;
+  const ranges = flat.map((f) =>
+    tabulate && s.completeness && f.count > 0 ? sliceRange(f, s.observer.slope) : undefined,
+  );
+  // one level 1 for the population (an explore page, which may move level 1 to another limit,
+  // keeps one per slice instead: a change of the window's end then leaves the other slices' level
+  // 1 and 2 as they were, and their series are read again)
+  const union = moveAcrossLimits ? undefined : populationRange(ranges);
+  const shared = union && {
+    range: union,
+    series: levelOne(
+      s,
+      union,
+      flat.find((f) => f.count > 0)!.phi.length,
+      offsets,
+      detected !== undefined,
+      start,
+      false,
+    ),
+  };
   for (let j = 0; j < slices.length; j++) {
     const sl = slices[j]!;
     const f = flat[j]!;
     const tables =
-      !options.exact && n >= TABLE_MIN_DRAWS && f.count > 0
+      tabulate && f.count > 0
         ? s.completeness
-          ? sliceTables(f, s, offsets, detected !== undefined, start, options.moveAcrossLimits === true)
+          ? sliceTables(f, s, offsets, detected !== undefined, start, moveAcrossLimits, ranges[j], shared)
           : hardTables(f, s, offsets, detected !== undefined, start)
         : undefined;
     if (tables && total) tables.total = totalTables(f, offsets);

@@ -436,12 +436,16 @@ interface FieldTables {
   nodes: Map<number, TransverseNode>;
   /** By the slices (their ends): their M_g entries and the pass over their k_z rule. */
   sums: Map<string, SlicesEntry>;
+  /** Bytes of the M_g matrices kept in `sums` (keepSums). */
+  sumsBytes: number;
 }
 
 /** One set of slices' kept numbers. */
 interface SlicesEntry {
   /** M_g entries by node g: n x n, NaN where not yet summed. */
   sums: Map<number, Float64Array>;
+  /** Bytes of the matrices in `sums`. */
+  bytes: number;
   /** The k_z rule and what depends on it alone, made at the first sums asked (sumPairs). */
   pass?: SlicesPass;
   /** The same for the real-space sums (sumPairsSpatial). */
@@ -462,6 +466,37 @@ interface SlicesPass {
 
 const fieldTables = new WeakMap<LinearPower, Map<string, FieldTables>>();
 
+/**
+ * How many bytes of M_g matrices one field's tables keep for slice sets other than the one being
+ * worked on: each node's matrix is n x n, 8 MB at 1,000 slices, and a plan meets tens of nodes per
+ * set, so without a bound a process working through many large sets of slices would keep them all
+ * (up to 64 sets). Past it the oldest sets are dropped whole (made again, to the same numbers, if
+ * asked again). A property so that tests can lower it.
+ */
+export const keptSliceSums = { limitBytes: 256 * 1024 * 1024 };
+
+/** Bytes of M_g matrices kept for every field of `power` (for tests). */
+export function keptSliceSumsBytes(power: LinearPower): number {
+  let bytes = 0;
+  for (const t of fieldTables.get(power)?.values() ?? []) bytes += t.sumsBytes;
+  return bytes;
+}
+
+/** Keep node g's matrix m in `entry` of t, dropping t's oldest other sets past keptSliceSums.limitBytes. */
+function keepSums(t: FieldTables, entry: SlicesEntry, g: number, m: Float64Array): void {
+  const old = entry.sums.get(g);
+  const change = m.byteLength - (old ? old.byteLength : 0);
+  entry.sums.set(g, m);
+  entry.bytes += change;
+  t.sumsBytes += change;
+  for (const [key, other] of t.sums) {
+    if (t.sumsBytes <= keptSliceSums.limitBytes) break;
+    if (other === entry) continue;
+    t.sums.delete(key);
+    t.sumsBytes -= other.bytes;
+  }
+}
+
 function tablesFor(power: LinearPower, rho: number): FieldTables {
   let byRho = fieldTables.get(power);
   if (!byRho) fieldTables.set(power, (byRho = new Map<string, FieldTables>()));
@@ -471,7 +506,7 @@ function tablesFor(power: LinearPower, rho: number): FieldTables {
     if (byRho.size >= 16) byRho.delete(byRho.keys().next().value!);
     const step = power.form === 'full' ? 0.02 : 0.1;
     const size = Math.ceil((Q_LN_K1 - Q_LN_K0) / step) + 1;
-    byRho.set(key, (t = { step, size, rho: Number(key), nodes: new Map(), sums: new Map() }));
+    byRho.set(key, (t = { step, size, rho: Number(key), nodes: new Map(), sums: new Map(), sumsBytes: 0 }));
   }
   return t;
 }
@@ -867,7 +902,7 @@ function sumPairsSpatial(
     const h = gridStep(ks, gq, widest);
     if (!everyNode && Math.ceil(span / h) + 3 > 0.6 * pairsPerNode) {
       // the grid would cost more than the pairs' sums: this node's entries are summed pair by pair
-      entry.sums.set(g, new Float64Array(n * n).fill(NaN));
+      keepSums(t, entry, g, new Float64Array(n * n).fill(NaN));
       (entry.pairwise ??= []).push(g);
       continue;
     }
@@ -889,7 +924,7 @@ function sumPairsSpatial(
       group.forEach(({ g, tail }, d) => {
         const m = new Float64Array(n * n);
         fillSpatial(new SecondIntegral(xis[d]!, h), tail, lo, hi, tol, m);
-        entry.sums.set(g, m);
+        keepSums(t, entry, g, m);
       });
     }
 }
@@ -1227,8 +1262,12 @@ export function sliceCorrelations(
   const key = `${spatial ? `${method} ${nodeCount} ` : ''}${n} ${Array.from(lo).join(',')} ${Array.from(hi).join(',')}`;
   let entry = t.sums.get(key);
   if (!entry) {
-    if (t.sums.size >= 64) t.sums.delete(t.sums.keys().next().value!);
-    t.sums.set(key, (entry = { sums: new Map<number, Float64Array>() }));
+    if (t.sums.size >= 64) {
+      const [oldest, dropped] = t.sums.entries().next().value!;
+      t.sums.delete(oldest);
+      t.sumsBytes -= dropped.bytes;
+    }
+    t.sums.set(key, (entry = { sums: new Map<number, Float64Array>(), bytes: 0 }));
   }
   const sums = entry.sums;
   // each pair's nodes and Lagrange weights in ln w
@@ -1254,7 +1293,7 @@ export function sliceCorrelations(
       const lacking: number[] = [];
       for (let c = -1; c <= 2; c++) {
         let m = sums.get(g + c);
-        if (!m) sums.set(g + c, (m = new Float64Array(n * n).fill(NaN)));
+        if (!m) keepSums(t, entry, g + c, (m = new Float64Array(n * n).fill(NaN)));
         if (Number.isNaN(m[i * n + j]!)) lacking.push(g + c);
       }
       if (lacking.length > 0) asked.push({ i, j, nodes: lacking });

@@ -3,7 +3,8 @@
  * src/counts/model-draws.ts): a slice whose inputs are those of a slice tabulated before (an
  * explore page's change of the window's other end leaves every slice but the last as it was)
  * reads its series, and the draws equal those computed afresh bit for bit (expected values: the
- * same computation with every kept series forgotten).
+ * same computation with every kept series forgotten). The page's path (moveAcrossLimits) keeps a
+ * level 1 per slice for this; any other prediction makes one level 1 for the population.
  */
 import { readFileSync } from 'node:fs';
 import { expect, test } from 'vitest';
@@ -14,6 +15,7 @@ import { countPopulation } from '../../src/counts/engine.js';
 import {
   drawModelOffsets,
   forgetLevel1Series,
+  level1Paths,
   level2Paths,
   populationDraws,
   TABLE_MIN_DRAWS,
@@ -29,7 +31,11 @@ test("the window's end moved and back: the slices that did not change read their
     const cosmo = new FlatCosmology(survey.cosmology);
     const own = countPopulation(survey, pop, cosmo, pop.sliceEdges, { drawNodes: true });
     const offsets = drawModelOffsets(pop.modelUncertainty!, pop.components.length, TABLE_MIN_DRAWS + 16, 3, 0);
-    return populationDraws(survey, pop, cosmo, own, offsets, { luminosity: true, histogramDraws: 0 });
+    return populationDraws(survey, pop, cosmo, own, offsets, {
+      luminosity: true,
+      histogramDraws: 0,
+      moveAcrossLimits: true,
+    });
   };
   forgetLevel1Series();
   const fresh = draws(8);
@@ -46,6 +52,27 @@ test("the window's end moved and back: the slices that did not change read their
   // the last slice does change (the comparison is not of one computation with itself)
   expect(shorter.counts[3]![0]!).toBeLessThan(fresh.counts[3]![0]!);
   expect(shorter.counts[2]).toEqual(fresh.counts[2]);
+});
+
+test('without the page, one level 1 for the population serves its four slices, made afresh and then read again bit for bit', () => {
+  const survey = parseSurveyObject(parse(readFileSync(FILE, 'utf8')) as Record<string, unknown>, FILE);
+  const pop = survey.populations[0]!;
+  const cosmo = new FlatCosmology(survey.cosmology);
+  const own = countPopulation(survey, pop, cosmo, pop.sliceEdges, { drawNodes: true });
+  const offsets = drawModelOffsets(pop.modelUncertainty!, pop.components.length, TABLE_MIN_DRAWS + 16, 3, 0);
+  const draws = () => populationDraws(survey, pop, cosmo, own, offsets, { luminosity: true, histogramDraws: 0 });
+  forgetLevel1Series();
+  const afresh = level1Paths.afresh;
+  const made = level2Paths.made;
+  const fresh = draws();
+  expect(own).toHaveLength(4);
+  expect(level1Paths.afresh - afresh).toBe(1);
+  expect(level2Paths.made - made).toBe(4);
+  // again: the level-1 series read, not made; the same numbers
+  const again = draws();
+  expect(level1Paths.afresh - afresh).toBe(1);
+  expect(again.counts).toEqual(fresh.counts);
+  expect(again.luminosity).toEqual(fresh.luminosity);
 });
 
 test('the model offsets are drawn once per model uncertainty and arguments: the same array again, the numbers of a fresh draw', () => {

@@ -8,7 +8,12 @@ import { describe, expect, it } from 'vitest';
 import gammainc from '@stdlib/math-base-special-gammainc';
 import { createLinearPower, type LinearPower } from '../../src/uncertainty/power-spectrum.js';
 import { boxSigma } from '../../src/uncertainty/window.js';
-import { boxCovariance0, sliceCorrelations } from '../../src/uncertainty/box-covariance.js';
+import {
+  boxCovariance0,
+  keptSliceSums,
+  keptSliceSumsBytes,
+  sliceCorrelations,
+} from '../../src/uncertainty/box-covariance.js';
 import { cholesky } from '../../src/numerics/linalg.js';
 import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 import { cosmologyOf, relErr, type PowerFixtureCosmology } from './helpers.js';
@@ -274,6 +279,37 @@ describe('many slices: the correlations from real space (sliceCorrelations above
     );
     expect(sliceCorrelations(p, boxes)).toEqual(first);
     expect(sliceCorrelations({ ...power }, boxes)).toEqual(first);
+  });
+
+  it('keeps the matrices of other slice sets within keptSliceSums.limitBytes, and gives the same numbers after dropping them', () => {
+    const p = { ...power };
+    const limit = keptSliceSums.limitBytes;
+    try {
+      // a bound below one set's matrices: only the set in use is kept
+      keptSliceSums.limitBytes = 1;
+      const wide = slices(0.7835, 0.843, 40, 2.1);
+      const narrow = slices(0.3, 1.5, 30, 0.1);
+      const first = sliceCorrelations(p, wide);
+      const oneSet = keptSliceSumsBytes(p);
+      // each of the set's nodes keeps a 40 x 40 matrix of 8-byte numbers
+      expect(oneSet % (40 * 40 * 8)).toBe(0);
+      expect(oneSet).toBeGreaterThan(0);
+      sliceCorrelations(p, narrow);
+      // the first set was dropped: what is kept is what the second set alone keeps
+      const alone = { ...power };
+      sliceCorrelations(alone, narrow);
+      expect(keptSliceSumsBytes(alone) % (30 * 30 * 8)).toBe(0);
+      expect(keptSliceSumsBytes(p)).toBe(keptSliceSumsBytes(alone));
+      // made again, the same numbers bit for bit, and the same as a process that kept everything
+      expect(sliceCorrelations(p, wide)).toEqual(first);
+      keptSliceSums.limitBytes = limit;
+      const q = { ...power };
+      expect(sliceCorrelations(q, wide)).toEqual(first);
+      sliceCorrelations(q, narrow);
+      expect(keptSliceSumsBytes(q)).toBe(oneSet + keptSliceSumsBytes(alone));
+    } finally {
+      keptSliceSums.limitBytes = limit;
+    }
   });
 
   it('up to 16 slices the pair-by-pair sums only (the samples numbers unchanged)', () => {
