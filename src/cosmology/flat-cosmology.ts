@@ -64,6 +64,8 @@ const GL_ORDER = 24;
 /** Below this u = (1+z)^-1/2 (z > 24) the fixed rule hands over to the adaptive integrator. */
 const U_FIXED_MIN = 0.2;
 const ADAPTIVE = { rel: 1e-13, abs: 0, maxDepth: 40 } as const;
+/** Distances a cosmology keeps by redshift (all are dropped when this many are held). */
+const DISTANCES_KEPT = 4096;
 
 /**
  * Carlson's symmetric elliptic integral of the first kind
@@ -147,6 +149,8 @@ export class FlatCosmology {
   private readonly glNodes: Float64Array;
   private readonly glWeights: Float64Array;
   private age0Cache: number | undefined;
+  /** comovingDistanceMpc's answers by redshift. */
+  private readonly distances = new Map<number, number>();
 
   /** A cosmology made by the cosmology factory (src/cosmology/parameters.ts), trusted as it is. */
   constructor(c: BackgroundCosmology) {
@@ -226,8 +230,22 @@ export class FlatCosmology {
     return total + 2 * h * s;
   }
 
-  /** Line-of-sight comoving distance D_C(z) [Mpc] (Hogg 1999 eq. 15). z >= 0. */
+  /**
+   * Line-of-sight comoving distance D_C(z) [Mpc] (Hogg 1999 eq. 15). z >= 0. Kept by z (the last
+   * DISTANCES_KEPT): a prediction asks again at the same redshifts (a node's luminosity distance
+   * and volume element, a slice's volume and box, the totals' nodes), and the answer is the same
+   * number.
+   */
   comovingDistanceMpc(z: number): number {
+    const known = this.distances.get(z);
+    if (known !== undefined) return known;
+    const d = this.distanceUncached(z);
+    if (this.distances.size >= DISTANCES_KEPT) this.distances.clear();
+    this.distances.set(z, d);
+    return d;
+  }
+
+  private distanceUncached(z: number): number {
     checkZ(z);
     if (z === 0) return 0;
     switch (this.mode) {

@@ -18,6 +18,8 @@
 import { gaussLegendre } from './quadrature.js';
 
 const GROWTH_NODES = 32;
+/** Growth factors a growth function keeps by redshift (all are dropped when this many are held). */
+const GROWTH_KEPT = 4096;
 
 /** Unnormalised growing mode g(a) = E(a) ∫_0^a da'/(a'E)^3 for matter density omegaM (flat). */
 function growingMode(omegaM: number, a: number): number {
@@ -52,19 +54,21 @@ export function linearGrowth(omegaM: number, z: number): number {
 
 /**
  * A growth function bound to one matter density, with the z = 0 normalisation computed once.
- * Returns D(z) with D(0) = 1.
+ * Returns D(z) with D(0) = 1, kept by z.
  */
 export function createGrowth(omegaM: number): (z: number) => number {
   if (!(omegaM > 0 && omegaM <= 1)) throw new RangeError(`createGrowth: omegaM must be in (0, 1], got ${omegaM}`);
   const norm = growingMode(omegaM, 1);
-  let lastZ = NaN;
-  let lastD = NaN;
+  // D by z (a prediction asks again at the same redshifts: a slice's box, the totals' nodes)
+  const kept = new Map<number, number>();
   return (z: number): number => {
-    if (z === lastZ) return lastD;
+    const known = kept.get(z);
+    if (known !== undefined) return known;
     if (!(z > -1) || !Number.isFinite(z)) throw new RangeError(`growth: z must be a finite number above -1, got ${z}`);
-    lastD = growingMode(omegaM, 1 / (1 + z)) / norm;
-    lastZ = z;
-    return lastD;
+    const d = growingMode(omegaM, 1 / (1 + z)) / norm;
+    if (kept.size >= GROWTH_KEPT) kept.clear();
+    kept.set(z, d);
+    return d;
   };
 }
 

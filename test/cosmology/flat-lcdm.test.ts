@@ -172,6 +172,28 @@ describe('consistency between functions', () => {
   );
 });
 
+describe('distances kept by redshift', () => {
+  test.each([
+    { label: 'closed form', params: { h0: 70, omegaM: 0.3 } },
+    { label: 'with radiation', params: { h0: 67.66, omegaM: 0.3111, tCmb: 2.7255 } },
+  ])(
+    '$label: asked again, in any order and past the 4096 kept, D_C is the fresh computation bit for bit',
+    ({ params }) => {
+      // a cosmology asked once per redshift computes every distance afresh (the reference)
+      const zs = Array.from({ length: 5000 }, (_, i) => 0.01 + ((i * 7919) % 5000) * 0.004);
+      const kept = FlatCosmology.fromParams(params);
+      const differ: number[] = [];
+      for (const round of [0, 1])
+        for (const z of round === 0 ? zs : [...zs].reverse()) {
+          if (kept.comovingDistanceMpc(z) !== FlatCosmology.fromParams(params).comovingDistanceMpc(z)) differ.push(z);
+        }
+      expect(differ).toEqual([]);
+      expect(() => kept.comovingDistanceMpc(Number.NaN)).toThrow(/redshift must be a finite number/);
+      expect(() => kept.comovingDistanceMpc(-1)).toThrow(/redshift must be a finite number/);
+    },
+  );
+});
+
 describe('properties (fast-check)', () => {
   const arbModel = fc.record({
     h0: fc.double({ min: 30, max: 120, noNaN: true }),
