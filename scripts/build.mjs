@@ -9,6 +9,7 @@ import { readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { build } from 'esbuild';
 import { bundleExplorePage } from './explore-bundle.mjs';
+import { fasterTables } from './table-patches.mjs';
 
 rmSync('dist', { recursive: true, force: true });
 execFileSync(
@@ -162,7 +163,7 @@ const keptExpressionParses = {
 };
 await build({
   entryPoints: { index: 'src/index.ts', 'cli/skytally': 'src/cli/main.ts', worker: 'src/worker.ts' },
-  plugins: [lazyMathjs, lazyRandom, keptExpressionParses],
+  plugins: [lazyMathjs, lazyRandom, keptExpressionParses, fasterTables],
   outdir: 'dist',
   bundle: true,
   splitting: true,
@@ -308,6 +309,7 @@ await build({
     lazyVega,
     loaderImport,
     noChildProcess,
+    fasterTables,
   ],
   external: ['playwright-core', '@resvg/resvg-js'],
   // import.meta as CommonJS has it: this file's URL, and resolution from it (#worker, #explore-page).
