@@ -1,7 +1,7 @@
 // cli-table3 (the text tables of predict, forecast, plan, compare, distances and clustering) does
 // much work per cell that a table of plain text does not need, and in a cold process most of it is
 // run by the interpreter or compiled by V8's optimising compiler for a few hundred cells (a cold
-// `predict` of the narrow-band interlopers: its tables about 219 million instructions of a 1.75
+// `predict` of the narrow-band interlopers: its tables about 226 million instructions of a 1.74
 // billion process). The bundles get these exactly equivalent parts in its place, each kept only
 // while the package reads as below (the build fails otherwise):
 // - utils.js `strlen`: a string of printable ASCII alone (no escape code, no line break, nothing
