@@ -24,6 +24,7 @@ import { createHaloModel, MATCH_MASS_MAX_MSUN, MATCH_MASS_MIN_MSUN, type HaloMod
 import { fieldBoxSidesMpc, sliceMatterSigma } from './cosmic-variance.js';
 import { sliceCorrelations } from './box-covariance.js';
 import { addWarning, warning, type Warning } from '../warnings.js';
+import { ascending } from '../numerics/quadrature.js';
 import type { RedshiftProfile } from '../counts/engine.js';
 
 export interface UncertaintyJson {
@@ -427,6 +428,8 @@ export function totalUncertainty(
     }
   }
   for (const los of lines.values()) {
+    // (the slices' nodes come in order: a stable sort would leave them as they are)
+    if (ascending(los.z)) continue;
     const order = los.z.map((_, k) => k).sort((a, b) => los.z[a]! - los.z[b]!);
     los.perMpc = order.map((k) => los.perMpc[k]!);
     los.count = order.map((k) => los.count[k]!);

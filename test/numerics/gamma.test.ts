@@ -143,6 +143,22 @@ describe('upperGamma identities (DLMF chapter 8)', () => {
   });
 });
 
+describe('upperGamma keeps the small order part of the last order', () => {
+  test('orders interleaved give the numbers of orders asked one at a time, bit for bit (x <= 1.5: the series; s > 0 and s <= 0)', () => {
+    const orders = [-2.35, -1.22, -0.5, -0.2, 0, 0.05, 0.3, 1.78];
+    const xs = [1e-6, 0.01, 0.3, 0.9, 1.5];
+    const one = (s: number) => xs.map((x) => upperGamma(s, x)).concat(xs.map((x) => upperGammaByRecurrence(s, x)));
+    const alone = orders.map(one);
+    const differ: string[] = [];
+    for (const [i, x] of xs.entries())
+      for (const [k, s] of orders.entries()) {
+        if (upperGamma(s, x) !== alone[k]![i]) differ.push(`upperGamma(${s}, ${x})`);
+        if (upperGammaByRecurrence(s, x) !== alone[k]![xs.length + i]) differ.push(`byRecurrence(${s}, ${x})`);
+      }
+    expect(differ).toEqual([]);
+  });
+});
+
 describe('upperGamma properties (fast-check)', () => {
   test('positive and non-increasing in x for every s in [-5, 5]', () => {
     fc.assert(
