@@ -5,6 +5,17 @@ import { csvText, type CsvCell } from './csv.js';
 import { givenUnitLimitText } from './detection-text.js';
 import type { Forecast } from '../model/outputs/forecast.js';
 
+/**
+ * A value beside its spread (a mock fit's mean and percentiles beside their standard deviation, the
+ * input beside its Fisher sigma): at least 5 significant digits, and enough to show the spread's
+ * second digit, so that a spread of 1e-5 of the value (a wide survey's log10 L* near 42) is not
+ * printed as p16, p50 and p84 all alike.
+ */
+function sigBeside(x: number, spread: number): string {
+  if (!(spread > 0) || x === 0 || !Number.isFinite(x)) return sig(x, 5);
+  return sig(x, Math.min(15, Math.max(5, Math.ceil(Math.log10(Math.abs(x) / spread)) + 2)));
+}
+
 export function forecastTable(f: Forecast): string {
   const lines: string[] = [
     f.title,
@@ -21,16 +32,21 @@ export function forecastTable(f: Forecast): string {
   if (m) head.push('mock mean', 'mock std', 'p16', 'p50', 'p84', 'mock offset [s.e.]');
   const table = new Table({ head, style: { head: [], border: [] } });
   for (const n of f.parameters) {
-    const row = [n, sig(f.center[n]!, 5), sig(f.fisher.sigma[n]!, 3), sig(f.fisher_poisson_only.sigma[n]!, 3)];
+    const row = [
+      n,
+      sigBeside(f.center[n]!, f.fisher.sigma[n]!),
+      sig(f.fisher.sigma[n]!, 3),
+      sig(f.fisher_poisson_only.sigma[n]!, 3),
+    ];
     if (m) {
       const s = m.parameters[n];
       if (s)
         row.push(
-          sig(s.mean, 5),
+          sigBeside(s.mean, s.std),
           sig(s.std, 3),
-          sig(s.p16, 5),
-          sig(s.p50, 5),
-          sig(s.p84, 5),
+          sigBeside(s.p16, s.std),
+          sigBeside(s.p50, s.std),
+          sigBeside(s.p84, s.std),
           sig(s.bias_in_standard_errors, 2),
         );
       else row.push('not constrained', '', '', '', '', '');
