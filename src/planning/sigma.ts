@@ -226,8 +226,10 @@ let scratchB = new Float64Array(0);
 
 /**
  * marginaliseCorrelatedInPlace (src/forecast/fisher.ts) of the upper triangle m with the joint
- * prior S_ij = f_i f_j R_ij (R row-major in `correlation`, n x n): the same arithmetic on flat
- * scratch space, so that the design model allocates nothing per design.
+ * prior S_ij = f_i f_j R_ij (R row-major in `correlation`, n x n): the same factorisations and sums
+ * on flat scratch space, so that the design model allocates nothing per design; the last step
+ * subtracts the mean of V_j X_k and V_k X_j at once where the forecast subtracts each and then
+ * averages the two elements, so the two agree to rounding (test/planning/sigma.test.ts).
  */
 function marginaliseCorrelated3(
   m: Float64Array,
