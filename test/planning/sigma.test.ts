@@ -188,16 +188,20 @@ describe('marginaliseSymmetric3 with correlated slices equals marginaliseCorrela
         const counts = Array.from({ length: n }, () => 10 ** (4 * rand()));
         const b = Array.from({ length: 3 * n }, (_, i) => (rand() - 0.5) * 2 * counts[Math.floor(i / 3)]!);
         // a matrix the marginalisation leaves positive (it is the information of counts and b)
-        const v = [0, 0, 0, 0, 0, 0];
+        let [v0, v1, v2, v3, v4, v5] = [0, 0, 0, 0, 0, 0];
         for (let i = 0; i < n; i++) {
-          const [x, y, z] = [b[3 * i]!, b[3 * i + 1]!, b[3 * i + 2]!].map((t) => t / Math.sqrt(counts[i]!));
-          v[0] += x! * x! + 1;
-          v[1] += x! * y!;
-          v[2] += x! * z!;
-          v[3] += y! * y! + 1;
-          v[4] += y! * z!;
-          v[5] += z! * z! + 1;
+          const root = Math.sqrt(counts[i]!);
+          const x = b[3 * i]! / root;
+          const y = b[3 * i + 1]! / root;
+          const z = b[3 * i + 2]! / root;
+          v0 += x * x + 1;
+          v1 += x * y;
+          v2 += x * z;
+          v3 += y * y + 1;
+          v4 += y * z;
+          v5 += z * z + 1;
         }
+        const v = [v0, v1, v2, v3, v4, v5];
         const full = [
           [v[0]!, v[1]!, v[2]!],
           [v[1]!, v[3]!, v[4]!],
