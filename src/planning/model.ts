@@ -22,7 +22,7 @@ import { buildDensityGrid, sliceCount, type DensityGrid } from '../forecast/grid
 import { summariseFisher } from '../forecast/fisher.js';
 import { addSliceSums, marginaliseSymmetric3 } from './sigma.js';
 import { uncertaintyContext, populationBias, matterSigma, slicesCorrelation } from '../uncertainty/prediction.js';
-import { naturalCubicSpline, type Interpolant } from '../numerics/interpolate.js';
+import { naturalCubicSpline, naturalCubicSplines, type Interpolant } from '../numerics/interpolate.js';
 import { inputError } from '../errors.js';
 import { depthOfLimit, limitOfDepth, type DepthModel, type LimitKind } from './depth.js';
 import { interpolateSlice, tabulateDepth, type DepthTables } from './tables.js';
@@ -113,15 +113,22 @@ function splineWithMargin(
   step: number,
   f: (x: number) => number,
 ): Interpolant | ((x: number) => number) {
-  if (!(x1 - x0 > 1e-9)) {
+  const xs = knotsWithMargin(x0, x1, step);
+  if (!xs) {
     const v = f(x0);
     return () => v;
   }
+  return naturalCubicSpline(xs, xs.map(f));
+}
+
+/** splineWithMargin's knots on [x0, x1], or undefined where the range is a point (a constant). */
+function knotsWithMargin(x0: number, x1: number, step: number): number[] | undefined {
+  if (!(x1 - x0 > 1e-9)) return undefined;
   const n = Math.max(3, Math.ceil((x1 - x0) / step) + 1);
   const h = (x1 - x0) / (n - 1);
   const xs: number[] = [];
   for (let i = -1; i <= n; i++) xs.push(x0 + i * h);
-  return naturalCubicSpline(xs, xs.map(f));
+  return xs;
 }
 
 export async function buildDesignModel(
@@ -207,21 +214,32 @@ export async function buildDesignModel(
         }
         return r;
       };
-      const pairSplines: { i: number; j: number; at: Interpolant | ((x: number) => number) }[] = [];
-      for (let i = 0; i < nS; i++)
-        for (let j = i + 1; j < nS; j++)
-          pairSplines.push({
-            i,
-            j,
-            at: splineWithMargin(lnA0, Math.max(lnA0, lnA1), AREA_STEP, (lnA) => correlationAtKnot(lnA)[i]![j]!),
-          });
+      // every pair's spline on splineWithMargin's knots, evaluated together (naturalCubicSplines:
+      // the same numbers as one naturalCubicSpline per pair, with one knot search per design rather
+      // than one per pair; n^2 / 2 pairs at every design's area)
+      const pairs = (nS * (nS - 1)) / 2;
+      const values = new Float64Array(pairs);
+      let pairsAt: (lnA: number, out: Float64Array) => void;
+      const knots = knotsWithMargin(lnA0, Math.max(lnA0, lnA1), AREA_STEP);
+      if (!knots) {
+        const r = correlationAtKnot(lnA0);
+        for (let i = 0, p = 0; i < nS; i++) for (let j = i + 1; j < nS; j++) values[p++] = r[i]![j]!;
+        pairsAt = () => {};
+      } else {
+        const byKnot = knots.map(correlationAtKnot);
+        const rows: number[][] = [];
+        for (let i = 0; i < nS; i++) for (let j = i + 1; j < nS; j++) rows.push(byKnot.map((r) => r[i]![j]!));
+        pairsAt = naturalCubicSplines(knots, rows);
+      }
       correlationInto = (lnA, out) => {
-        for (const p of pairSplines) {
-          // (a spline's overshoot held within [-1, 1])
-          const r = Math.max(-1, Math.min(1, p.at(lnA)));
-          out[p.i * nS + p.j] = r;
-          out[p.j * nS + p.i] = r;
-        }
+        pairsAt(lnA, values);
+        for (let i = 0, p = 0; i < nS; i++)
+          for (let j = i + 1; j < nS; j++, p++) {
+            // (a spline's overshoot held within [-1, 1])
+            const r = Math.max(-1, Math.min(1, values[p]!));
+            out[i * nS + j] = r;
+            out[j * nS + i] = r;
+          }
       };
     }
   }

@@ -220,11 +220,16 @@ let scratchA = new Float64Array(0);
 let scratchLA = new Float64Array(0);
 let scratchV = new Float64Array(0);
 let scratchX = new Float64Array(0);
+let scratchLT = new Float64Array(0);
+let scratchN = new Float64Array(0);
+let scratchB = new Float64Array(0);
 
 /**
  * marginaliseCorrelatedInPlace (src/forecast/fisher.ts) of the upper triangle m with the joint
- * prior S_ij = f_i f_j R_ij (R row-major in `correlation`, n x n): the same arithmetic on flat
- * scratch space, so that the design model allocates nothing per design.
+ * prior S_ij = f_i f_j R_ij (R row-major in `correlation`, n x n): the same factorisations and sums
+ * on flat scratch space, so that the design model allocates nothing per design; the last step
+ * subtracts the mean of V_j X_k and V_k X_j at once where the forecast subtracts each and then
+ * averages the two elements, so the two agree to rounding (test/planning/sigma.test.ts).
  */
 function marginaliseCorrelated3(
   m: Float64Array,
@@ -243,6 +248,9 @@ function marginaliseCorrelated3(
     scratchLA = new Float64Array(n * n);
     scratchV = new Float64Array(3 * n);
     scratchX = new Float64Array(3 * n);
+    scratchLT = new Float64Array(n * n);
+    scratchN = new Float64Array(n);
+    scratchB = new Float64Array(3 * n);
   }
   const active = scratchActive;
   const l = scratchL;
@@ -250,6 +258,9 @@ function marginaliseCorrelated3(
   const la = scratchLA;
   const v = scratchV;
   const x = scratchX;
+  const lt = scratchLT;
+  const na = scratchN;
+  const ba = scratchB;
   let k = 0;
   for (let i = 0; i < n; i++) {
     const sigma = fractions[i]!;
@@ -275,17 +286,24 @@ function marginaliseCorrelated3(
       l[i * q + j] = pivot > 0 ? t / pivot : 0;
     }
   }
-  // V = B L (3 x q), A = I + L^T N L
+  // V = B L (3 x q), A = I + L^T N L, summed over L's columns (held as the rows of its transpose,
+  // so that each sum reads memory in order: the same products in the same order as from L itself)
+  for (let i = 0; i < q; i++) {
+    const ai = active[i]!;
+    na[i] = counts[ai]!;
+    for (let j = 0; j < 3; j++) ba[j * q + i] = b[3 * ai + j]!;
+    for (let c = 0; c <= i; c++) lt[c * q + i] = l[i * q + c]!;
+  }
   for (let j = 0; j < 3; j++)
     for (let c = 0; c < q; c++) {
       let t = 0;
-      for (let i = c; i < q; i++) t += b[3 * active[i]! + j]! * l[i * q + c]!;
+      for (let i = c; i < q; i++) t += ba[j * q + i]! * lt[c * q + i]!;
       v[j * q + c] = t;
     }
   for (let c = 0; c < q; c++)
     for (let d = c; d < q; d++) {
       let t = c === d ? 1 : 0;
-      for (let i = d; i < q; i++) t += l[i * q + c]! * counts[active[i]!]! * l[i * q + d]!;
+      for (let i = d; i < q; i++) t += lt[c * q + i]! * na[i]! * lt[d * q + i]!;
       a[c * q + d] = a[d * q + c] = t;
     }
   if (!choleskyInto(a, q, la)) throw new Error("cosmic variance: the nuisances' information is not positive definite");

@@ -11,6 +11,7 @@ import {
   linearInterpolant,
   monotoneCubic,
   naturalCubicSpline,
+  naturalCubicSplines,
 } from '../../src/numerics/interpolate.js';
 
 const grid = (a: number, b: number, n: number): number[] =>
@@ -145,5 +146,45 @@ describe('4-point Lagrange cubics of a uniform table', () => {
         },
       ),
     );
+  });
+});
+
+describe('natural cubic splines on shared knots (naturalCubicSplines)', () => {
+  test('each row equals naturalCubicSpline of that row bit for bit, inside, at and outside the knots (property)', () => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.double({ min: 0.01, max: 3, noNaN: true }), { minLength: 1, maxLength: 12 }),
+        fc.double({ min: -5, max: 5, noNaN: true }),
+        fc.array(fc.array(fc.double({ min: -1e3, max: 1e3, noNaN: true }), { minLength: 13, maxLength: 13 }), {
+          minLength: 1,
+          maxLength: 6,
+        }),
+        fc.array(fc.double({ min: -0.5, max: 1.5, noNaN: true }), { minLength: 1, maxLength: 20 }),
+        (steps, x0, rawRows, where) => {
+          const xs = [x0];
+          for (const h of steps) xs.push(xs[xs.length - 1]! + h);
+          const rows = rawRows.map((r) => r.slice(0, xs.length));
+          const at = naturalCubicSplines(xs, rows);
+          const one = rows.map((ys) => naturalCubicSpline(xs, ys));
+          const span = xs[xs.length - 1]! - xs[0]!;
+          const out = new Float64Array(rows.length);
+          for (const u of [...where, 0, 1]) {
+            const x = xs[0]! + u * span;
+            at(x, out);
+            one.forEach((f, p) => expect(Object.is(out[p], f(x)), `row ${p} at ${x}`).toBe(true));
+          }
+          // at the knots themselves
+          for (const x of xs) {
+            at(x, out);
+            one.forEach((f, p) => expect(Object.is(out[p], f(x))).toBe(true));
+          }
+        },
+      ),
+      { seed: 20261204, numRuns: 300 },
+    );
+  });
+  test('refuses a row of another length or with a non-finite value, as naturalCubicSpline does', () => {
+    expect(() => naturalCubicSplines([0, 1, 2], [[0, 1]])).toThrow(/3 x values but 2/);
+    expect(() => naturalCubicSplines([0, 1, 2], [[0, 1, NaN]])).toThrow(/not finite/);
   });
 });
