@@ -609,6 +609,16 @@ ${binRows}
   return out;
 }
 
+/**
+ * Significant digits for a value beside its spread: at least `least`, and enough to show the
+ * spread's second digit (a wide survey's log10 L* near 42 with a spread of 2e-4 would otherwise
+ * print its assumed value and its mock fits' mean a whole sigma apart by rounding alone).
+ */
+function digitsBeside(x: number, spread: number | undefined, least: number): number {
+  if (typeof spread !== 'number' || !(spread > 0) || x === 0 || !Number.isFinite(x)) return least;
+  return Math.min(15, Math.max(least, Math.ceil(Math.log10(Math.abs(x) / spread)) + 2));
+}
+
 function forecastTables(f: ForecastView): string {
   const names: readonly string[] = f.parameters;
   const cols = names;
@@ -620,7 +630,7 @@ function forecastTables(f: ForecastView): string {
     if (xs.length < 2) return ['', ''];
     const mean = xs.reduce((a, b) => a + b, 0) / xs.length;
     const sd = Math.sqrt(xs.reduce((a, b) => a + (b - mean) ** 2, 0) / (xs.length - 1));
-    return [formatNumber(mean, 5), formatNumber(sd, 3)];
+    return [formatNumber(mean, digitsBeside(mean, sd, 5)), formatNumber(sd, 3)];
   };
   // Without the fits themselves, the summary the forecast gives (mean and spread per parameter).
   const summary: Record<string, { mean?: number; std?: number } | undefined> | undefined = f.mocks?.parameters;
@@ -629,7 +639,7 @@ function forecastTables(f: ForecastView): string {
   const summaryStats = (name: string): [string, string] => {
     const v = summary?.[name];
     return [
-      typeof v?.mean === 'number' ? formatNumber(v.mean, 5) : '',
+      typeof v?.mean === 'number' ? formatNumber(v.mean, digitsBeside(v.mean, v.std, 5)) : '',
       typeof v?.std === 'number' ? formatNumber(v.std, 3) : '',
     ];
   };
@@ -641,7 +651,9 @@ function forecastTables(f: ForecastView): string {
     .map((n) => {
       const cells = [
         `<span class="key">${escapeHtml(n)}</span>`,
-        typeof f.center[n] === 'number' ? formatNumber(f.center[n], 6) : '',
+        typeof f.center[n] === 'number'
+          ? formatNumber(f.center[n], digitsBeside(f.center[n], f.fisher.sigma[n], 6))
+          : '',
         typeof f.fisher.sigma[n] === 'number' ? formatNumber(f.fisher.sigma[n], 3) : '',
       ];
       if (withMocks) cells.push(...(fromSummary ? summaryStats(n) : mockStats(n)));
