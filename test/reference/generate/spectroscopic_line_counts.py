@@ -4,7 +4,8 @@ test/published/spectroscopic-line-surveys.test.ts (no filter: F = L / (4 pi D_L^
 docs/survey-file.md's definitions: flat Lambda-CDM with radiation when t_cmb > 0 (photons from the
 Stefan-Boltzmann law plus 3.046 massless neutrino species, each 7/8 (4/11)^(4/3) of the photons),
 redshift_selection a table linear in z, parameters evolving as written. Comoving distance, dV/dz
-and the Schechter integral above the limit by scipy.integrate.quad (epsrel 1e-12 inside, 1e-10
+and the Schechter integral above the limit (times a logistic completeness
+where given) by scipy.integrate.quad (epsrel 1e-12 inside, 1e-10
 over z, piece by piece between the edges given). Shares no code with skytally.
 The test writes the numbers it prints (scipy 1.17.1, numpy, Python 3).
 
@@ -30,7 +31,7 @@ def omega_r(h0, t_cmb):
     return photons * (1 + 7 / 8 * (4 / 11) ** (4 / 3) * 3.046)
 
 
-def count(h0, om, t_cmb, area_deg2, edges, flux, log10_phi, log10_l_star, alpha, keep):
+def count(h0, om, t_cmb, area_deg2, edges, flux, log10_phi, log10_l_star, alpha, keep, half=None, width=None):
     orad = omega_r(h0, t_cmb)
     ol = 1 - om - orad
 
@@ -46,7 +47,14 @@ def count(h0, om, t_cmb, area_deg2, edges, flux, log10_phi, log10_l_star, alpha,
         dv = area_deg2 * (np.pi / 180) ** 2 * C_KMS / h0 * d * d / e(z)
         x = 4 * np.pi * d_l**2 * flux / 10 ** log10_l_star(z)
         a = alpha(z)
-        n = integrate.quad(lambda t: t**a * np.exp(-t), x, np.inf, epsabs=0, epsrel=1e-12, limit=400)[0]
+        if half is None:
+            n = integrate.quad(lambda t: t**a * np.exp(-t), x, np.inf, epsabs=0, epsrel=1e-12, limit=400)[0]
+        else:
+            # logistic completeness in log10 of the measured flux F = t x flux / x (docs/survey-file.md)
+            def c(t):
+                return 1 / (1 + np.exp((np.log10(half) - np.log10(t / x * flux)) / width))
+
+            n = integrate.quad(lambda t: t**a * np.exp(-t) * c(t), x, np.inf, epsabs=0, epsrel=1e-12, limit=400)[0]
         return dv * keep(z) * 10 ** log10_phi(z) * n
 
     return [integrate.quad(f, a, b, epsabs=0, epsrel=1e-10, limit=200)[0] for a, b in zip(edges[:-1], edges[1:])]
@@ -65,3 +73,8 @@ print('desi total', repr(sum(desi)), 'first slice', repr(desi[0]))
 hetdex = count(70.0, 0.3, 0.0, 1.0, [1.88 + 0.1 * k for k in range(17)] + [3.52], 5e-17,
                lambda z: np.log10(6.32e-4), lambda z: np.log10(5.29e42), lambda z: -1.75, lambda z: 1.0)
 print('hetdex total', repr(sum(hetdex)))
+# the same with a logistic completeness in line flux, half 1e-16 erg/s/cm^2, width 0.1 dex
+hetdex_c = count(70.0, 0.3, 0.0, 1.0, [1.88 + 0.1 * k for k in range(17)] + [3.52], 5e-17,
+                 lambda z: np.log10(6.32e-4), lambda z: np.log10(5.29e42), lambda z: -1.75, lambda z: 1.0,
+                 half=1e-16, width=0.1)
+print('hetdex with completeness', repr(sum(hetdex_c)))
