@@ -124,7 +124,7 @@ function selectionWords(s: ModelDescription['selection']): string {
   const parts: string[] = [];
   if (s.redshift_selection)
     parts.push(
-      `redshift selection ${fmt(s.redshift_selection.fraction.at_window_middle)} kept (from the ${s.redshift_selection.from})`,
+      `redshift selection from the ${s.redshift_selection.from} keeps ${fmt(s.redshift_selection.fraction.at_window_middle)}`,
     );
   if (s.blend_ratio !== undefined) parts.push(`blended lines add ${fmt(s.blend_ratio)} of the line flux`);
   if (s.blended_lines)
