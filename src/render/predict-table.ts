@@ -57,7 +57,10 @@ export function photoZLine(p: Prediction): string | undefined {
     `Photometric redshifts: sigma = ${sig(m.sigma)} (1 + z), outlier fraction ${sig(m.outlier_fraction)}; the slices are slices in MEASURED redshift ` +
     `(count; "true-z count": sources whose true redshift lies in the slice); true redshifts integrated over z = ${zText(m.true_range.min)} to ${zText(m.true_range.max)} ` +
     `(${m.reach_sigma} sigma beyond the window); of the sources truly in the window ${sig(out, 4)}${lost} are measured outside it and lost, ` +
-    `and ${sig(scatteredIn, 4)} from outside it are measured in it.`
+    `and ${sig(scatteredIn, 4)} from outside it are measured in it. ` +
+    // (a whole-window slice can then show a larger +/- than the total: not an error)
+    `A slice's +/- takes the cosmic variance of its measured-redshift box, an upper bound (its sources spread over more depth); ` +
+    `the total's takes the sources' true redshifts.`
   );
 }
 

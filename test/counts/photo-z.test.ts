@@ -347,6 +347,10 @@ describe('through the command line (samples/photoz-optical-field.yaml)', () => {
     expect(table.code).toBe(0);
     expect(table.stdout).toContain('slices in MEASURED redshift');
     expect(table.stdout).toContain('true-z count');
+    // a slice's +/- (its measured-redshift box, an upper bound) can exceed the total's: the table says why
+    expect(table.stdout).toContain(
+      "A slice's +/- takes the cosmic variance of its measured-redshift box, an upper bound",
+    );
     const csv = await sampleCommand(['predict', SAMPLE, '--format', 'csv']);
     expect(csv.code).toBe(0);
     const [header, first] = csv.stdout.split('\n');
