@@ -1,19 +1,13 @@
 /** Human table and CSV for a Forecast (forecast command). */
 import Table from 'cli-table3';
-import { sig, zText } from './format.js';
+import { digitsBeside, sig, zText } from './format.js';
 import { csvText, type CsvCell } from './csv.js';
 import { givenUnitLimitText } from './detection-text.js';
 import type { Forecast } from '../model/outputs/forecast.js';
 
-/**
- * A value beside its spread (a mock fit's mean and percentiles beside their standard deviation, the
- * input beside its Fisher sigma): at least 5 significant digits, and enough to show the spread's
- * second digit, so that a spread of 1e-5 of the value (a wide survey's log10 L* near 42) is not
- * printed as p16, p50 and p84 all alike.
- */
+/** A value beside its spread, with digitsBeside's digits (at least 5). */
 function sigBeside(x: number, spread: number): string {
-  if (!(spread > 0) || x === 0 || !Number.isFinite(x)) return sig(x, 5);
-  return sig(x, Math.min(15, Math.max(5, Math.ceil(Math.log10(Math.abs(x) / spread)) + 2)));
+  return sig(x, digitsBeside(x, spread, 5));
 }
 
 export function forecastTable(f: Forecast): string {

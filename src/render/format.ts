@@ -16,6 +16,18 @@ export function sig(x: number, digits = 4): string {
   return trimZeros(Number(x.toPrecision(digits)).toString());
 }
 
+/**
+ * Significant digits for a value written beside its spread (an assumed value beside its Fisher
+ * sigma, a mock fit's mean or percentile beside their standard deviation): at least `least`, and
+ * enough to show the spread's second digit, so that a spread of 1e-5 of the value (a wide survey's
+ * log10 L* near 42) does not print p16, p50 and p84 alike, nor a value and its mean a whole sigma
+ * apart by rounding alone. `least` where the spread is not a positive number or x is 0 or not finite.
+ */
+export function digitsBeside(x: number, spread: number | undefined, least: number): number {
+  if (typeof spread !== 'number' || !(spread > 0) || x === 0 || !Number.isFinite(x)) return least;
+  return Math.min(15, Math.max(least, Math.ceil(Math.log10(Math.abs(x) / spread)) + 2));
+}
+
 function trimZeros(s: string): string {
   return s.includes('.') && !s.includes('e') ? s.replace(/0+$/, '').replace(/\.$/, '') : s;
 }

@@ -17,6 +17,7 @@ import type {
   SliceView,
 } from './types.js';
 import {
+  digitsBeside,
   formatFixed,
   formatNumber,
   formatScientific,
@@ -607,16 +608,6 @@ ${binRows}
     out += `\n<h3>${escapeHtml(q.name)}: its own redshift slices</h3>\n${predictTable({ ...p, redshift: q.window, totals: q.totals, slices: q.slices }, variable, quantity, `predict-table-${k + 1}`)}`;
   });
   return out;
-}
-
-/**
- * Significant digits for a value beside its spread: at least `least`, and enough to show the
- * spread's second digit (a wide survey's log10 L* near 42 with a spread of 2e-4 would otherwise
- * print its assumed value and its mock fits' mean a whole sigma apart by rounding alone).
- */
-function digitsBeside(x: number, spread: number | undefined, least: number): number {
-  if (typeof spread !== 'number' || !(spread > 0) || x === 0 || !Number.isFinite(x)) return least;
-  return Math.min(15, Math.max(least, Math.ceil(Math.log10(Math.abs(x) / spread)) + 2));
 }
 
 function forecastTables(f: ForecastView): string {

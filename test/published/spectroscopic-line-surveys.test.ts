@@ -18,6 +18,32 @@ import { loadSurveyText, predict } from '../../src/index.js';
 
 const close = (got: number, want: number, rel: number) => expect(Math.abs(got / want - 1)).toBeLessThan(rel);
 
+/**
+ * The HETDEX-like survey file of the two Lyman-alpha checks below (the Konno et al. 2016 function,
+ * from memory, as described there), with `detectionExtra` added to its detection block.
+ */
+function hetdexLike(title: string, detectionExtra: string): string {
+  return `format: 1
+title: ${title} Lyman-alpha emitters (published check)
+cosmology: {h0: 70, omega_m: 0.3}
+area: "1 deg^2"
+redshift: {min: 1.88, max: 3.52}
+detection:
+  kind: line_flux
+  limit: "5e-17 erg/s/cm^2"
+  line: "1215.67 Angstrom"${detectionExtra}
+population:
+  name: LAEs
+  variable: luminosity
+  phi_star: 6.32e-4
+  l_star: 5.29e42
+  alpha: -1.75
+  bias: 1.8
+  model_uncertainty: {log10_phi_star: 0.2, log10_l_star: 0.12, alpha: 0.1}
+slices: {count: 4}
+`;
+}
+
 describe('published spectroscopic line-flux surveys without a filter (from memory; the model spread as tolerance)', () => {
   test('DESI-ELG-like [OII] emitters above 8e-17 erg/s/cm^2 at 0.6 < z < 1.6 (DESI Collaboration 2016, arXiv:1611.00036; from memory) with a Comparat et al. 2016-like evolving [OII] function and a colour box as a redshift-selection table', () => {
     // Comparat et al. 2016, MNRAS 461, 1076 (from memory): log10 L* = 41.1 + 2.33 log10(1 + z),
@@ -65,23 +91,9 @@ slices: {width: 0.1}
     // 0.12 dex), phi* = 6.32e-4 Mpc^-3 (+3.08/-2.31: about 0.2 dex), alpha = -1.75 (about 0.1
     // assumed), of emitters above 20 A at rest, as HETDEX's LAEs are; the bright-end excess and any
     // evolution to z = 3.5 are left out. Bias 1.8 (Guaita et al. 2010, ApJ 714, 255; from memory).
-    const text = `format: 1
-title: HETDEX-like Lyman-alpha emitters (published check)
-cosmology: {h0: 70, omega_m: 0.3}
-area: "1 deg^2"
-redshift: {min: 1.88, max: 3.52}
-detection: {kind: line_flux, limit: "5e-17 erg/s/cm^2", line: "1215.67 Angstrom"}
-population:
-  name: LAEs
-  variable: luminosity
-  phi_star: 6.32e-4
-  l_star: 5.29e42
-  alpha: -1.75
-  bias: 1.8
-  model_uncertainty: {log10_phi_star: 0.2, log10_l_star: 0.12, alpha: 0.1}
-slices: {count: 4}
-`;
-    const p = predict(loadSurveyText(text, 'hetdex-like.yaml'), { model: { draws: 1000, seed: 1 } });
+    const p = predict(loadSurveyText(hetdexLike('HETDEX-like', ''), 'hetdex-like.yaml'), {
+      model: { draws: 1000, seed: 1 },
+    });
     // scipy (spectroscopic_line_counts.py): 8021.978763862029
     close(p.totals.count, 8021.978763862029, 1e-9);
     // 1e6 / (540 / 4.6) = 8519 per deg^2 lies 6 % above the count: inside the model's p16-p84
@@ -110,27 +122,13 @@ slices: {count: 4}
     // The catalogue's emitters are four times sparser than the design's million would give at a 1/4.6
     // fill factor (the test above): its completeness, half at about 1e-16 averaged over wavelength
     // and seeing (from memory; width 0.1 dex assumed), not the 5e-17 of the best fibres, sets the count.
-    const text = `format: 1
-title: HETDEX-catalogue-like Lyman-alpha emitters (published check)
-cosmology: {h0: 70, omega_m: 0.3}
-area: "1 deg^2"
-redshift: {min: 1.88, max: 3.52}
-detection:
-  kind: line_flux
-  limit: "5e-17 erg/s/cm^2"
-  line: "1215.67 Angstrom"
-  completeness: {model: logistic, half: 1e-16, width: 0.1}
-population:
-  name: LAEs
-  variable: luminosity
-  phi_star: 6.32e-4
-  l_star: 5.29e42
-  alpha: -1.75
-  bias: 1.8
-  model_uncertainty: {log10_phi_star: 0.2, log10_l_star: 0.12, alpha: 0.1}
-slices: {count: 4}
-`;
-    const p = predict(loadSurveyText(text, 'hetdex-catalogue-like.yaml'), { model: { draws: 1000, seed: 1 } });
+    const p = predict(
+      loadSurveyText(
+        hetdexLike('HETDEX-catalogue-like', '\n  completeness: {model: logistic, half: 1e-16, width: 0.1}'),
+        'hetdex-catalogue-like.yaml',
+      ),
+      { model: { draws: 1000, seed: 1 } },
+    );
     // scipy (spectroscopic_line_counts.py): 2862.9248698739148
     close(p.totals.count, 2862.9248698739148, 1e-9);
     // 2,075 lies 28 % below the count: inside the model's p16-p84 range and within one sigma of
