@@ -192,7 +192,7 @@ describe('forecast command', () => {
       io,
     );
     expect(code).toBe(0);
-    expect(err).toMatch(/mock surveys \[#+\] 5\/5\n$/);
+    expect(err).toMatch(/mock surveys {3}\[#+\] 5\/5 {2}in .+ s *\n$/);
     expect(JSON.parse(out).mocks.count).toBe(5);
     const piped = await runCli([
       'forecast',

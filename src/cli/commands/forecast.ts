@@ -14,7 +14,8 @@ import {
   parseInteger,
   printWarnings,
 } from './common.js';
-import { Outputs, renderText, type CliIO } from '../io.js';
+import { Outputs, renderText } from '../io.js';
+import { mockProgressBar } from '../progress.js';
 import { inputError } from '../../errors.js';
 import { MAX_FORECAST_MODEL_DRAWS, MAX_MOCKS, MAX_SEED } from '../../model/limits.js';
 import { otherKneeHint } from '../../model/population.js';
@@ -225,18 +226,4 @@ export function parseTargets(text: string, names: readonly string[]): Record<str
     out[name] = v;
   }
   return out;
-}
-
-/** A one-line bar of the mock surveys on stderr (terminals only). Shared with `report`. */
-export function mockProgressBar(io: CliIO): (done: number, total: number) => void {
-  const width = 30;
-  let last = -1;
-  return (done, total) => {
-    const filled = Math.round((width * done) / total);
-    if (filled === last && done < total) return;
-    last = filled;
-    io.stderr(
-      `\rmock surveys [${'#'.repeat(filled)}${'.'.repeat(width - filled)}] ${done}/${total}${done >= total ? '\n' : ''}`,
-    );
-  };
 }

@@ -11,7 +11,8 @@ import {
   printWarnings,
   wantsPng,
 } from './common.js';
-import { Outputs, renderText, type CliIO } from '../io.js';
+import { Outputs, renderText } from '../io.js';
+import { stageBar } from '../progress.js';
 
 export const planCommand: CommandDef = {
   name: 'plan',
@@ -51,7 +52,7 @@ export const planCommand: CommandDef = {
       ...(typeof raw.population === 'string' ? { population: raw.population } : {}),
       cosmicVariance: raw.cosmicVariance !== false,
       ...(workers ? { workers } : {}),
-      ...(io.stderrIsTTY ? { onProgress: progressBar(io) } : {}),
+      ...(io.stderrIsTTY ? { onProgress: stageBar(io) } : {}),
     });
     printWarnings(io, result.warnings);
     // cosmic variance enters a plan only through a sigma goal: a count goal is the same without it
@@ -81,16 +82,3 @@ export const planCommand: CommandDef = {
     return 0;
   },
 };
-
-/** A one-line bar on stderr (terminals only), one line per stage. */
-export function progressBar(io: CliIO): (stage: string, done: number, total: number) => void {
-  const width = 30;
-  let last = '';
-  return (stage, done, total) => {
-    const filled = Math.round((width * done) / total);
-    const line = `\r${stage.padEnd(14)} [${'#'.repeat(filled)}${'.'.repeat(width - filled)}] ${done}/${total}`;
-    if (line === last) return;
-    last = line;
-    io.stderr(line + (done >= total ? '\n' : ''));
-  };
-}

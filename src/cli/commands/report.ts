@@ -13,7 +13,8 @@ import {
   unseededModel,
 } from './common.js';
 import { Outputs, toJsonText, type CliIO } from '../io.js';
-import { mockOptions, mockProgressBar } from './forecast.js';
+import { mockOptions } from './forecast.js';
+import { mockProgressBar } from '../progress.js';
 import { modelDrawOptions } from './predict.js';
 import { DEFAULT_MODEL_DRAWS, MAX_MODEL_DRAWS } from '../../model/model-uncertainty.js';
 import type { ReportSections } from '../../library/report.js';
