@@ -34,8 +34,11 @@ export interface DetectionSelection {
 export interface PopulationSelection {
   /** Fraction in [0, 1] of this population's sources at true z kept (wins over the detection's). */
   redshiftSelection?: ZParam;
-  /** Flux of unresolved neighbouring lines relative to the line (line_flux only; 0 when absent). */
-  blendRatio?: number;
+  /**
+   * Flux of unresolved neighbouring lines relative to the line (line_flux only; 0 when absent): a
+   * number, or a table or an expression in z (the [NII]/H-alpha ratio falls with redshift).
+   */
+  blendRatio?: ZParam;
   /**
    * Unresolved neighbouring lines each at its own rest wavelength (Angstrom) with its flux ratio to
    * the line (line_flux only; never with blendRatio): each is seen at its own filter transmission.

@@ -126,7 +126,10 @@ function selectionWords(s: ModelDescription['selection']): string {
     parts.push(
       `redshift selection from the ${s.redshift_selection.from} keeps ${fmt(s.redshift_selection.fraction.at_window_middle)}`,
     );
-  if (s.blend_ratio !== undefined) parts.push(`blended lines add ${fmt(s.blend_ratio)} of the line flux`);
+  if (s.blend_ratio !== undefined)
+    parts.push(
+      `blended lines add ${fmt(typeof s.blend_ratio === 'number' ? s.blend_ratio : s.blend_ratio.at_window_middle)} of the line flux`,
+    );
   if (s.blended_lines)
     parts.push(
       `blended lines at ${s.blended_lines.map((b) => `${compact(b.line_angstrom, 7)} A (${fmt(b.ratio)} of the line flux)`).join(' and ')}, each at its own filter transmission`,

@@ -350,8 +350,9 @@ function modelValueHtml(key: string, v: unknown, m: ModelAsWritten): string {
     case 'bias':
       return v === 'auto' ? 'auto: from the haloes of the same number density (abundance matching)' : zparamHtml(v);
     case 'occupation':
-    case 'blend_ratio':
       return wordsHtml(v);
+    case 'blend_ratio':
+      return typeof v === 'number' ? wordsHtml(v) : zparamHtml(v);
     case 'model_uncertainty':
       return modelUncertaintyHtml(v);
     case 'equivalent_widths':

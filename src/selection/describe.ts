@@ -30,7 +30,9 @@ export function describeSelection(detection: Detection, p: Population): Selectio
   }
   if (p.blendRatio !== undefined) {
     block.effects.push('blend_ratio');
-    block.blend_ratio = p.blendRatio;
+    const b = p.blendRatio;
+    // a number as it was given; a table or an expression as written and at the window's middle
+    block.blend_ratio = typeof b.source === 'number' ? b.source : { given: b.source, at_window_middle: b.at(zMid) };
   }
   if (p.blendedLines) {
     block.effects.push('blended_lines');

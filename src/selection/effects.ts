@@ -163,6 +163,10 @@ export function selectionEffects(detection: Detection, population: Population): 
   const line = detection.kind === 'line_flux' ? (population.lineAngstrom ?? detection.lineAngstrom) : undefined;
   let lineTransmission: (z: number) => number = () => 1;
   let blend: (z: number) => number;
+  // a blend_ratio given as a table or an expression in z (blended lines at their own wavelengths
+  // take the other branch, and a ratio given as a number stays the constant factor it was)
+  const varying =
+    !lines && population.blendRatio && !population.blendRatio.constant ? population.blendRatio : undefined;
   if (lines) {
     lineTransmission = (z) => {
       let t = through(lines[0]!.restAngstrom, z);
@@ -175,9 +179,12 @@ export function selectionEffects(detection: Detection, population: Population): 
       for (let k = 1; k < lines.length; k++) s += lines[k]!.ratio * through(lines[k]!.restAngstrom, z);
       return t0 > 0 ? (t0 + s) / t0 : s;
     };
+  } else if (varying) {
+    if (line !== undefined) lineTransmission = (z) => through(line, z);
+    blend = (z) => 1 + varying.at(z);
   } else {
     if (line !== undefined) lineTransmission = (z) => through(line, z);
-    const ratio = population.blendedLines?.reduce((sum, b) => sum + b.ratio, 0) ?? population.blendRatio;
+    const ratio = population.blendedLines?.reduce((sum, b) => sum + b.ratio, 0) ?? population.blendRatio?.at(0);
     const blendFactor = 1 + (ratio ?? 0);
     blend = () => blendFactor;
   }
@@ -186,7 +193,7 @@ export function selectionEffects(detection: Detection, population: Population): 
   const selection = sel ? (z: number) => sel.at(z) : () => 1;
   const attenuation = att ? (z: number) => att.at(z) : () => 0;
   let equivalentWidthKept: (z: number) => number = () => 1;
-  if (cut && ew && lines) {
+  if (cut && ew && (lines || varying)) {
     // the blend varies with z: nothing measured (B = 0, the lines all outside the filter) keeps nothing
     const observed = cut.frame === 'observed';
     equivalentWidthKept = (z) => {
@@ -202,26 +209,33 @@ export function selectionEffects(detection: Detection, population: Population): 
       equivalentWidthKept = (z) => fractionAbove(ew, w / (1 + z));
     }
   }
-  const logBlend = lines ? 0 : Math.log10(blend(0));
+  const logBlend = lines || varying ? 0 : Math.log10(blend(0));
   const obsShift =
     detection.kind === 'line_flux'
-      ? att
-        ? (z: number) => logBlend - 0.4 * att.at(z)
-        : () => logBlend
+      ? varying
+        ? att
+          ? (z: number) => Math.log10(blend(z)) - 0.4 * att.at(z)
+          : (z: number) => Math.log10(blend(z))
+        : att
+          ? (z: number) => logBlend - 0.4 * att.at(z)
+          : () => logBlend
       : detection.kind === 'magnitude' && att
         ? attenuation
         : () => 0;
+  // where a parameter in z has a kink or a jump in its slope: a table's rows, an expression's kinks
+  // (min, max, abs) and narrow features
+  const paramCuts = (p: ZParam | undefined, lo: number, hi: number, out: number[]): void => {
+    if (p && !p.constant && typeof p.source === 'object') for (const [zt] of p.source.table) out.push(zt);
+    if (p?.kinks) out.push(...p.kinks(lo, hi));
+    if (p?.features) out.push(...p.features(lo, hi));
+  };
   const breaks = (lo: number, hi: number): number[] => {
     const out: number[] = [];
-    for (const p of [sel, att]) {
-      if (p && !p.constant && typeof p.source === 'object') for (const [zt] of p.source.table) out.push(zt);
-      // an expression's kinks (min, max, abs): a selection min(1, max(0, 3*(z - 1.2))) and an
-      // attenuation 0.5 + max(0, 1.4 - z) moved the slice holding them by 3.4e-6 uncut
-      if (p?.kinks) out.push(...p.kinks(lo, hi));
-      // an expression's narrow features (src/survey/zparam.ts featureCuts): a slice 0.5 wide holding
-      // the dip of a selection 1 - 0.9 exp(-((z - 1.1)/0.001)^2) was counted 3.1e-3 high uncut
-      if (p?.features) out.push(...p.features(lo, hi));
-    }
+    // an expression's kinks (min, max, abs): a selection min(1, max(0, 3*(z - 1.2))) and an
+    // attenuation 0.5 + max(0, 1.4 - z) moved the slice holding them by 3.4e-6 uncut; its narrow
+    // features (src/survey/zparam.ts featureCuts): a slice 0.5 wide holding the dip of a selection
+    // 1 - 0.9 exp(-((z - 1.1)/0.001)^2) was counted 3.1e-3 high uncut
+    for (const p of [sel, att, varying]) paramCuts(p, lo, hi, out);
     if (lines) {
       const jumps = blendCuts(detection, lines, lo, hi);
       out.push(...jumps);
@@ -242,6 +256,21 @@ export function selectionEffects(detection: Detection, population: Population): 
           ),
         );
       }
+    } else if (varying && cut && ew && ew.model === 'table') {
+      // fractionAbove is linear between the table's widths: kinks where w_cut / B(z) = W_k (rest) or
+      // w_cut / ((1 + z) B(z)) = W_k (observed), B(z) = 1 + b(z) continuous between the ratio's cuts
+      const observed = cut.frame === 'observed';
+      const g = (z: number) => cut.angstrom / ((observed ? 1 + z : 1) * blend(z));
+      const own: number[] = [];
+      paramCuts(varying, lo, hi, own);
+      const pieces = [lo, ...own.filter((z) => z - lo > 1e-9 && hi - z > 1e-9).sort((a, b) => a - b), hi];
+      out.push(
+        ...crossings(
+          g,
+          pieces,
+          ew.widthAngstrom.filter((wk) => wk > 0),
+        ),
+      );
     } else if (cut && ew && ew.model === 'table' && cut.frame === 'observed') {
       // fractionAbove is linear between the table's widths: kinks where w_cut / ((1 + z)(1 + b)) = W_k
       const blendFactor = blend(0);

@@ -9,7 +9,7 @@ import type { DetectionSelection, EquivalentWidthDistribution, PopulationSelecti
 import type { ZParam } from '../model/zparam.js';
 import { MAX_REDSHIFT, RANGES, describeRange, inRange, type Range } from '../model/limits.js';
 import { parseQuantity } from './units.js';
-import { checkParam, fmt, makeZParam, type ZTable } from './zparam.js';
+import { checkParam, constantParam, fmt, makeZParam, type ZTable } from './zparam.js';
 
 type Q = number | string;
 type ZRaw = number | string | ZTable;
@@ -23,7 +23,7 @@ export interface RawDetectionSelection {
 
 export interface RawPopulationSelection {
   redshift_selection?: ZRaw;
-  blend_ratio?: number;
+  blend_ratio?: ZRaw;
   blended_lines?: { line: Q; ratio: number }[];
   attenuation?: ZRaw;
   equivalent_widths?: {
@@ -151,7 +151,15 @@ export function readPopulationSelection(
         'remove it',
       );
     }
-    out.blendRatio = ranged(p.blend_ratio, RANGES.blendRatio, file, `${path}.blend_ratio`);
+    const raw = p.blend_ratio;
+    if (typeof raw === 'number') {
+      out.blendRatio = constantParam(ranged(raw, RANGES.blendRatio, file, `${path}.blend_ratio`));
+    } else {
+      // a table or an expression in z: the [NII]/H-alpha ratio falls with redshift
+      const b = makeZParam(raw, file, `${path}.blend_ratio`);
+      checkParam(b, w, file, `${path}.blend_ratio`, { what: 'the blend ratio', range: RANGES.blendRatio });
+      out.blendRatio = b;
+    }
   }
   if (p.attenuation !== undefined) {
     if (kind === 'threshold') {

@@ -51,7 +51,8 @@ describe('the loader reads the selection keys', () => {
     expect(s.detection.equivalentWidthCut).toEqual({ frame: 'observed', angstrom: 30 });
     expect(s.detection.redshiftSelection!.at(0.85)).toBeCloseTo(0.6, 14);
     const p = s.populations[0]!;
-    expect(p.blendRatio).toBe(0.3);
+    expect(p.blendRatio?.source).toBe(0.3);
+    expect(p.blendRatio?.at(1.2)).toBe(0.3);
     expect(p.attenuation!.at(1)).toBeCloseTo(0.9, 14);
     expect(p.equivalentWidths).toEqual({ model: 'lognormal', medianAngstrom: 50, sigmaDex: 0.25 });
     expect(p.validRedshift).toEqual({ min: 0.5, max: 1.2 });

@@ -173,9 +173,9 @@ export interface SelectionBlock {
     fraction: ParameterDescription;
   };
   /**
-   * flux of the blended neighbouring lines relative to the line
+   * flux of the blended neighbouring lines relative to the line: the number given, or, given as a table or an expression in z, as written and at the middle of the population's window
    */
-  blend_ratio?: number;
+  blend_ratio?: number | ParameterDescription;
   /**
    * the lines blended with the population's line at their own wavelengths, each seen at its own filter transmission: the measured flux is L (T(line (1+z)) + sum ratio T(line_angstrom (1+z))) 10^(-0.4 A) / (4 pi D_L^2)
    */
