@@ -51,6 +51,11 @@ export interface SchechterPopulation extends PopulationSelection {
   restWavelengthAngstrom: number;
   /** rest_band: absolute magnitudes are AB in this rest-frame band (needs detection.sed). */
   restBand?: Filter;
+  /**
+   * The population's own spectral slope beta (f_lambda ~ lambda^beta; magnitude kind without
+   * detection.sed): replaces detection.beta in this population's k-correction. Absent: detection.beta.
+   */
+  beta?: number;
   /** system vega: how m_star was given (mStar itself holds AB, converted once). */
   magnitudeSystem?: MagnitudeSystemGiven;
   /** True when rest_wavelength was left at its default (a warning checks it against the band). */

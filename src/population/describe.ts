@@ -18,7 +18,10 @@ function parameterAt(p: ZParam, z: number): ParameterDescription {
 
 const fmt = (x: number): string => compact(x, 4);
 
-/** Where the absolute magnitudes are defined, for the summary: a rest band, or (with a spectrum) the rest wavelength. */
+/**
+ * Where the absolute magnitudes are defined, for the summary: a rest band, or (with a spectrum) the
+ * rest wavelength; or the population's own spectral slope beta, where it gives one.
+ */
 function restFrameWords(survey: Survey, p: Population): string {
   if (survey.detection.kind !== 'magnitude') return '';
   const b = p.restBand;
@@ -26,8 +29,11 @@ function restFrameWords(survey: Survey, p: Population): string {
     return b.table
       ? ` in the rest band ${b.table.file}`
       : ` in a rest-frame ${b.profile} band at ${fmt(b.centerAngstrom)} A (fwhm ${fmt(b.fwhmAngstrom)} A)`;
-  return survey.detection.sed
-    ? ` at rest ${fmt(p.restWavelengthAngstrom)} A, k-corrected with the spectrum ${survey.detection.sed.spectrum.file}`
+  if (survey.detection.sed)
+    return ` at rest ${fmt(p.restWavelengthAngstrom)} A, k-corrected with the spectrum ${survey.detection.sed.spectrum.file}`;
+  // a population's own spectral slope (the detection's is said with the detection)
+  return p.beta !== undefined
+    ? ` (k-corrected with its own spectral slope beta = ${fmt(p.beta)} in place of detection.beta = ${fmt(survey.detection.beta)})`
     : '';
 }
 
@@ -79,7 +85,9 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
     }
     d.k_correction = det.sed
       ? { method: 'spectrum', spectrum_file: det.sed.spectrum.file }
-      : { method: 'power_law', beta: det.beta };
+      : p.beta !== undefined
+        ? { method: 'power_law', beta: p.beta, beta_from: 'population' }
+        : { method: 'power_law', beta: det.beta };
   }
   if (p.variable === 'magnitude') {
     d.magnitude_system = { stated: 'ab', m_star_given: p.magnitudeSystem?.system ?? 'ab' };

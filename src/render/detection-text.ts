@@ -24,6 +24,20 @@ export function frequencyText(ghz: number): string {
 }
 
 /**
+ * The power-law colour term in words: "spectral slope beta = -2"; with the populations that give
+ * their own beta, "spectral slope beta = -2, and for interlopers its own beta = 1"; when every
+ * population gives its own, "each population's own spectral slope beta: LBG -2.2, interlopers 1".
+ */
+function slopeWords(beta: number, models: Prediction['models'] | undefined): string {
+  const own = (models ?? []).filter((m) => m.k_correction?.beta_from === 'population');
+  const ownText = own.map((m) => `${m.name} ${sig(m.k_correction!.beta!)}`);
+  if (own.length === 0) return `spectral slope beta = ${sig(beta)}`;
+  if (own.length === models!.length) return `each population's own spectral slope beta: ${ownText.join(', ')}`;
+  const each = own.map((m) => `for ${m.name} its own beta = ${sig(m.k_correction!.beta!)}`);
+  return `spectral slope beta = ${sig(beta)}, and ${each.join(', ')}`;
+}
+
+/**
  * The detection in words: the kind, its limit (and what the file gave, a flux density or a Vega
  * magnitude), the band or filter. The predict table's survey line and the report's summary.
  */
@@ -56,7 +70,7 @@ export function detectionLine(
       d.band_ghz !== undefined
         ? `${frequencyText(d.band_ghz)} (${sig(d.band_angstrom)} A)`
         : `${sig(d.band_angstrom)} A`;
-    return `AB magnitude limit ${sig(d.limit_ab_mag)}${given} in a band at ${at} (spectral slope beta = ${sig(d.beta)})`;
+    return `AB magnitude limit ${sig(d.limit_ab_mag)}${given} in a band at ${at} (${slopeWords(d.beta, p.models)})`;
   }
   const q =
     p.models?.[0]?.quantity ?? (p.limit_variable === 'absolute_magnitude' ? 'absolute AB magnitude' : 'the quantity');

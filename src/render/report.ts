@@ -189,6 +189,7 @@ const PARAM_LABELS: Record<string, string> = {
   line: 'rest wavelength of the line',
   rest_wavelength: 'rest wavelength of M*',
   rest_band: 'rest-frame band of M*',
+  beta: 'its own spectral slope β of f_λ ∝ λ^β (the k-correction)',
   system: 'magnitude system of M*',
   vega_to_ab: 'M_AB − M_Vega',
   bias: 'galaxy bias',
@@ -350,6 +351,7 @@ function modelValueHtml(key: string, v: unknown, m: ModelAsWritten): string {
     case 'bias':
       return v === 'auto' ? 'auto: from the haloes of the same number density (abundance matching)' : zparamHtml(v);
     case 'occupation':
+    case 'beta':
       return wordsHtml(v);
     case 'blend_ratio':
       return typeof v === 'number' ? wordsHtml(v) : zparamHtml(v);

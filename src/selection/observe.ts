@@ -16,6 +16,7 @@
  *                                 - 2.5 (beta+2) log10(band / ((1+z) rest_wavelength))
  *                                 - 2.5 log10 T_IGM(z)
  *                          so that the absolute-magnitude limit is M_lim(z) = limit - K(z) (docs/survey-file.md).
+ *                          beta is the population's own when it gives one, else detection.beta.
  *                          T_IGM = 1 unless detection.igm is madau1995 (src/selection/igm.ts): then the
  *                          Madau 1995 mean transmission at the band's effective wavelength, or averaged
  *                          over detection.band_file when given.
@@ -95,7 +96,9 @@ export function makeObserver(detection: Detection, population: Population, cosmo
       };
     }
     case 'magnitude': {
-      const { limitMag, bandAngstrom, beta } = detection;
+      const { limitMag, bandAngstrom } = detection;
+      // the population's own spectral slope, where it gives one, replaces the detection's
+      const beta = population.beta ?? detection.beta;
       const rest = population.restWavelengthAngstrom;
       const sed = detection.sed;
       let kOf: (z: number) => number;
@@ -109,7 +112,7 @@ export function makeObserver(detection: Detection, population: Population, cosmo
         const kSed = sedKCorrection(sed, frame, detection.igm, zs.min, zs.max);
         kOf = (z) => 5 * Math.log10(cosmo.luminosityDistanceMpc(z) / TEN_PC_MPC) + kSed(z);
       } else {
-        const igm = igmMagnitude(detection);
+        const igm = igmMagnitude(detection, beta);
         kOf = (z) => apparentMinusAbsolute(cosmo, z, bandAngstrom, rest, beta) + igm(z);
       }
       return {
@@ -162,12 +165,17 @@ export function makeObserver(detection: Detection, population: Population, cosmo
   }
 }
 
-/** The IGM term of K(z): -2.5 log10 T_IGM(z), 0 without attenuation. */
-export function igmMagnitude(detection: Extract<Detection, { kind: 'magnitude' }>): (z: number) => number {
+/**
+ * The IGM term of K(z): -2.5 log10 T_IGM(z), 0 without attenuation. `beta` weights a band table's
+ * average: the population's own spectral slope, else detection.beta.
+ */
+export function igmMagnitude(
+  detection: Extract<Detection, { kind: 'magnitude' }>,
+  beta: number,
+): (z: number) => number {
   if (detection.igm !== 'madau1995') return () => 0;
   const table = detection.bandTable;
   const band = detection.bandAngstrom;
-  const beta = detection.beta;
   return table
     ? (z) => -2.5 * Math.log10(bandAveragedMadau1995(table, z, beta))
     : (z) => -2.5 * Math.log10(madau1995Transmission(band, z));

@@ -18,7 +18,8 @@
  *    read in Angstrom ("line: 656.3" through a 1.2-1.9 um grism is seen at z = 17 to 28); likewise
  *    each line of blended_lines (one warning per line, naming it: "blended_lines: [{line: 654.8}]",
  *    [NII] in nm, would add its flux, and find sources by it alone, at z = 17 to 28);
- *  - radio_spectrum_steep: a magnitude survey in a radio band (1 mm or longer) with beta above -1,
+ *  - radio_spectrum_steep: a magnitude survey in a radio band (1 mm or longer) with beta above -1
+ *    (detection.beta where a population takes it, or a population's own beta, naming it),
  *    i.e. f_nu ~ nu^a with a = -(2 + beta) below -1, steeper than galaxies' synchrotron spectra
  *    (a about -0.7, beta = -1.3; common practice): most likely a spectral index written as beta
  *    (beta: -0.7 counts 19 % fewer than beta: -1.3 in docs/survey-file.md's radio example).
@@ -45,16 +46,18 @@ const fmt = (x: number): string => precise(x, 4);
 export function selectionWarnings(survey: Survey): Warning[] {
   const out: Warning[] = [];
   const d = survey.detection;
-  if (d.kind === 'magnitude' && !d.sed && d.bandAngstrom >= RADIO_BAND_ANGSTROM && d.beta > -1) {
-    const a = -(2 + d.beta);
+  if (d.kind === 'magnitude' && !d.sed && d.bandAngstrom >= RADIO_BAND_ANGSTROM) {
     const band = d.bandGivenHz !== undefined ? `${fmt(d.bandGivenHz / 1e9)} GHz` : `${fmt(d.bandAngstrom)} A`;
-    out.push(
+    const steep = (who: string, beta: number): Warning =>
       warning(
         'radio_spectrum_steep',
-        `detection.beta = ${fmt(d.beta)} in a radio band (${band}) is a spectrum f_nu ~ nu^${fmt(a)}, steeper than nu^-1, where galaxies' synchrotron spectra are about nu^-0.7; ` +
-          `beta is the slope of f_lambda ~ lambda^beta, and a spectral index a of f_nu ~ nu^a is beta = -(2 + a): a = ${fmt(d.beta)} is beta: ${fmt(-(2 + d.beta))}`,
-      ),
-    );
+        `${who} = ${fmt(beta)} in a radio band (${band}) is a spectrum f_nu ~ nu^${fmt(-(2 + beta))}, steeper than nu^-1, where galaxies' synchrotron spectra are about nu^-0.7; ` +
+          `beta is the slope of f_lambda ~ lambda^beta, and a spectral index a of f_nu ~ nu^a is beta = -(2 + a): a = ${fmt(beta)} is beta: ${fmt(-(2 + beta))}`,
+      );
+    // detection.beta where a population takes it; a population's own beta, naming the population
+    if (d.beta > -1 && survey.populations.some((p) => p.beta === undefined)) out.push(steep('detection.beta', d.beta));
+    for (const p of survey.populations)
+      if (p.beta !== undefined && p.beta > -1) out.push(steep(`${p.name}: its own beta`, p.beta));
   }
   for (const p of survey.populations) {
     const { min, max } = p.window;
@@ -74,7 +77,7 @@ export function selectionWarnings(survey: Survey): Warning[] {
               `more than ${Math.round(REST_WAVELENGTH_TOLERANCE * 100)} % away, ` +
               (d.sed
                 ? `so M* is read as a ${fmt(rest)} A magnitude and the spectrum carries it far (counts can be many times off); give rest_wavelength or rest_band where the luminosity function's magnitudes are defined`
-                : (d.beta === -2
+                : ((p.beta ?? d.beta) === -2
                     ? 'so M* is taken where the band does not look (with beta = -2 the colour term vanishes; with any other spectrum counts can be many times off); '
                     : 'so the colour term extrapolates far (counts can be many times off); ') +
                   `give rest_wavelength where the luminosity function's magnitudes are defined`),

@@ -152,7 +152,9 @@ export function describeSurvey(survey: Survey): Omit<SurveyCheck, 'warnings'> {
           d.kind === 'magnitude'
             ? d.sed
               ? { method: 'spectrum' as const, spectrum_file: d.sed.spectrum.file }
-              : { method: 'power_law' as const, beta: d.beta }
+              : p.beta !== undefined
+                ? { method: 'power_law' as const, beta: p.beta, beta_from: 'population' as const }
+                : { method: 'power_law' as const, beta: d.beta }
             : undefined,
         bias: p.bias === 'auto' ? 'auto' : parameterView(p.bias, p.window),
         occupation: p.occupation,

@@ -1400,6 +1400,7 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
     const sed = detection.kind === 'magnitude' ? detection.sed : undefined;
     const phot = readPopulationPhotometry(p, path, detection.kind, sed, checkWindow(i), file, base, inputs);
     pop.restWavelengthAngstrom = phot.restWavelengthAngstrom;
+    if (phot.beta !== undefined) pop.beta = phot.beta;
     if (phot.restBand) {
       pop.restBand = phot.restBand;
       delete pop.restWavelengthDefault;

@@ -46,6 +46,7 @@ export interface RawPhotometryDetection {
 export interface RawPhotometryPopulation {
   rest_wavelength?: Q;
   rest_band?: RawBand;
+  beta?: number;
   system?: 'ab' | 'vega';
   vega_to_ab?: number;
 }
@@ -398,6 +399,50 @@ export interface PopulationPhotometry {
   magnitudeSystem?: MagnitudeSystemGiven;
   /** Added to m_star to make it AB. */
   toAb: number;
+  /** The population's own spectral slope (its beta key), replacing detection.beta for it. */
+  beta?: number;
+}
+
+/**
+ * A population's own spectral slope beta (f_lambda ~ lambda^beta): only for a magnitude survey's
+ * power-law k-correction (a line_flux or threshold survey has none, and detection.sed replaces it),
+ * in detection.beta's range.
+ */
+function populationBeta(
+  beta: number,
+  path: string,
+  kind: string,
+  sed: SedPhotometry | undefined,
+  file: string,
+): number {
+  if (kind !== 'magnitude') {
+    throw inputError(
+      'kind_mismatch',
+      file,
+      `${path}.beta`,
+      `is the spectral slope of a magnitude survey's k-correction, but detection.kind is ${kind}, which has none`,
+      'remove it',
+    );
+  }
+  if (sed) {
+    throw inputError(
+      'conflict',
+      file,
+      `${path}.beta`,
+      'is a power-law colour term, which the spectrum detection.sed replaces',
+      "remove the population's beta, or remove detection.sed",
+    );
+  }
+  if (!inRange(beta, RANGES.beta)) {
+    throw inputError(
+      'out_of_range',
+      file,
+      `${path}.beta`,
+      `is ${fmt(beta)}, outside its physical range (${describeRange(RANGES.beta)})`,
+      'give a value in that range',
+    );
+  }
+  return beta;
 }
 
 /** Default rest wavelength of absolute magnitudes, Angstrom. */
@@ -434,6 +479,7 @@ export function readPopulationPhotometry(
     toAb: magnitudeSystem?.vegaToAb ?? 0,
   };
   if (magnitudeSystem) out.magnitudeSystem = magnitudeSystem;
+  if (p.beta !== undefined) out.beta = populationBeta(p.beta, path, kind, sed, file);
   if (p.rest_band !== undefined) {
     if (p.rest_wavelength !== undefined) {
       throw inputError(

@@ -188,6 +188,7 @@ export const SECTION_KEYS: Readonly<Record<'top' | 'cosmology' | 'detection' | '
     'line',
     'rest_wavelength',
     'rest_band',
+    'beta',
     'system',
     'vega_to_ab',
     'bias',

@@ -92,8 +92,9 @@ describe('specs/survey.schema.json', () => {
         'sfr_conversion',
         // the luminosity function's own uncertainty
         'model_uncertainty',
-        // photometry: the rest band and the magnitude system of m_star
+        // photometry: the rest band, the population's own spectral slope and the magnitude system of m_star
         'rest_band',
+        'beta',
         'system',
         'vega_to_ab',
         // selection effects

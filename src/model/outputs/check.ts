@@ -177,7 +177,14 @@ export interface PopulationView {
    */
   k_correction?: {
     method: 'power_law' | 'spectrum';
+    /**
+     * f_lambda ~ lambda^beta: the population's own beta when it gives one (beta_from), else detection.beta
+     */
     beta?: number;
+    /**
+     * present when the population gives its own beta, which replaces detection.beta for it
+     */
+    beta_from?: 'population';
     spectrum_file?: string;
   };
   bias: 'auto' | ParameterView;
