@@ -16,6 +16,7 @@
  */
 import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Population } from '../model/population.js';
+import { isTableSource } from '../model/zparam.js';
 import type { Survey } from '../model/survey.js';
 import { gaussLegendreRule, keptBreaks, panelNodes, type PanelNodes } from '../numerics/quadrature.js';
 import { upperGamma } from '../numerics/gamma.js';
@@ -889,7 +890,7 @@ export function biasBreaks(population: Population, lo: number, hi: number): numb
   const b = population.bias;
   if (b === 'auto' || b.constant) return [];
   const out: number[] = [];
-  if (typeof b.source === 'object') for (const [zt] of b.source.table) out.push(zt);
+  if (isTableSource(b.source)) for (const [zt] of b.source.table) out.push(zt);
   if (b.kinks) out.push(...b.kinks(lo, hi));
   if (b.features) out.push(...b.features(lo, hi));
   return keptBreaks(out, lo, hi);

@@ -58,12 +58,14 @@ export interface ExploreResult {
   /**
    * What the cosmic variance assumed (with it): the power spectrum's sigma8 and n_s, the total's
    * count-weighted bias and the halo mass abundance matching gave it, the matter's sigma in the box
-   * and the box's effective depth, as `predict` gives them.
+   * and the box's effective depth, as `predict` gives them; and the bias each population gives, in
+   * words ("0.84 / D(z)"; absent when every population has bias auto).
    */
   clustering?: {
     sigma8: number;
     nS?: number;
     bias: number;
+    biasGiven?: string;
     sigmaMatter: number;
     haloMassMin?: number;
     effectiveDepth?: number;

@@ -1,5 +1,5 @@
 /** The assumed population: Schechter parameters that may vary with z, bias, window and slices. */
-import type { ZParam } from './zparam.js';
+import type { BiasSource, ZParam } from './zparam.js';
 import type { ModelUncertainty } from './model-uncertainty.js';
 import type { Filter } from './detection.js';
 import type { MagnitudeSystemGiven } from './photometry.js';
@@ -62,8 +62,8 @@ export interface SchechterPopulation extends PopulationSelection {
   restWavelengthDefault?: boolean;
   /** The normalisation key the file used (phi_star, log10_phi_star, phi_star_dex, ...; _1 for double). */
   normalisationKey?: string;
-  /** "auto" or a value (number, table, expression) of the galaxy bias. */
-  bias: 'auto' | ZParam;
+  /** "auto" or a value (number, table, expression, or B / D(z) from {over_growth: B}) of the galaxy bias. */
+  bias: 'auto' | ZParam<BiasSource>;
   /** Fraction (0, 1] of haloes above the matched mass hosting a detected galaxy. */
   occupation: number;
   /**

@@ -6,7 +6,7 @@
 import type { Population } from '../model/population.js';
 import { describeUncertainty } from '../model/model-uncertainty.js';
 import type { Survey } from '../model/survey.js';
-import type { ZParam } from '../model/zparam.js';
+import { isTableSource, type BiasSource, type ZParam } from '../model/zparam.js';
 import type { ModelDescription, ParameterDescription } from '../model/outputs/shared.js';
 import { compact } from '../render/format.js';
 import { describeSelection } from '../selection/describe.js';
@@ -17,6 +17,25 @@ function parameterAt(p: ZParam, z: number): ParameterDescription {
 }
 
 const fmt = (x: number): string => compact(x, 4);
+
+/**
+ * A given bias as written, in words: "2.4", "1.2 + 0.4*z", "a table in z" or "0.84 / D(z)" (from
+ * {over_growth: 0.84}, D the linear growth factor, D(0) = 1).
+ */
+export function biasWords(source: BiasSource): string {
+  if (typeof source === 'number') return fmt(source);
+  if (typeof source === 'string') return source;
+  if (isTableSource(source)) return 'a table in z';
+  return `${fmt(source.over_growth)} / D(z)`;
+}
+
+/** The summary's words on a given bias: "bias 0.84 / D(z) (1.586 at z = 1.35)"; '' for bias auto. */
+function givenBiasWords(p: Population, zMid: number): string {
+  if (p.bias === 'auto') return '';
+  const b = p.bias;
+  if (b.constant) return `bias ${fmt(b.at(zMid))}`;
+  return `bias ${isTableSource(b.source) ? 'from ' : ''}${biasWords(b.source)} (${fmt(b.at(zMid))} at z = ${fmt(zMid)})`;
+}
 
 /**
  * Where the absolute magnitudes are defined, for the summary: a rest band, or (with a spectrum) the
@@ -112,6 +131,9 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
   }
   const sel = selectionWords(d.selection);
   if (sel) d.summary += `; ${sel}`;
+  // a given bias (bias auto is matched to haloes by the prediction: the outputs give what it matched)
+  const bias = givenBiasWords(p, zMid);
+  if (bias) d.summary += `; ${bias}`;
   if (p.modelUncertainty) {
     d.model_uncertainty = describeUncertainty(p.modelUncertainty);
     d.summary += `; ${uncertaintyWords(d.model_uncertainty)}`;

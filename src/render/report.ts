@@ -349,7 +349,10 @@ function modelValueHtml(key: string, v: unknown, m: ModelAsWritten): string {
     case 'vega_to_ab':
       return quantityHtml(v, 'mag');
     case 'bias':
-      return v === 'auto' ? 'auto: from the haloes of the same number density (abundance matching)' : zparamHtml(v);
+      if (v === 'auto') return 'auto: from the haloes of the same number density (abundance matching)';
+      if (isRecord(v) && typeof v.over_growth === 'number' && Object.keys(v).length === 1)
+        return `${numberHtml(v.over_growth)} / D(z) (D the linear growth factor of the cosmology, 1 at z = 0)`;
+      return zparamHtml(v);
     case 'occupation':
     case 'beta':
       return wordsHtml(v);

@@ -6,7 +6,7 @@
 import type { Completeness } from '../model/detection.js';
 import { photoZTrueRange, type PhotoZ } from '../model/photo-z.js';
 import type { Survey } from '../model/survey.js';
-import type { ZParam } from '../model/zparam.js';
+import type { BiasSource, ZParam } from '../model/zparam.js';
 import { cosmologyJsonOf } from '../model/cosmology-json.js';
 import type { ParameterView, SurveyCheck } from '../model/outputs/check.js';
 import type { CompletenessBlock } from '../model/outputs/shared.js';
@@ -15,7 +15,7 @@ import { describeUncertainty } from '../model/model-uncertainty.js';
 import { checkSurvey } from '../model/arguments.js';
 
 /** A parameter as written in the file, with its normalised value at the window's ends when it varies. */
-export function parameterView(p: ZParam, window: { min: number; max: number }): ParameterView {
+export function parameterView(p: ZParam<BiasSource>, window: { min: number; max: number }): ParameterView {
   if (p.constant) return p.at(window.min);
   return { as_written: p.source, at_window_min: p.at(window.min), at_window_max: p.at(window.max) };
 }

@@ -11,7 +11,7 @@ import { resolveCosmology } from '../cosmology/parameters.js';
 import type { Completeness, Detection, DetectionKind, Filter, FilterProfile, IgmModel } from '../model/detection.js';
 import type { InputFile, Survey } from '../model/survey.js';
 import type { Population, SfrConversion, PopulationVariable } from '../model/population.js';
-import type { ZParam } from '../model/zparam.js';
+import type { BiasSource, ZParam } from '../model/zparam.js';
 import { schemaError } from './schema.js';
 import { lineNameHint } from './line-names.js';
 import {
@@ -22,7 +22,7 @@ import {
   plainNumberText,
 } from './units.js';
 import { FULL_SKY_DEG2, MIN_AREA_DEG2, SR_PER_DEG2 } from '../model/sky.js';
-import { checkParam, fmt, makeZParam, mapParam, paramExtremes, type ZTable } from './zparam.js';
+import { checkParam, fmt, growthBiasParam, makeZParam, mapParam, paramExtremes, type ZTable } from './zparam.js';
 import { readTransmissionFile } from './transmission-file.js';
 import { parseModelUncertainty } from './model-uncertainty.js';
 import type { ModelParameter } from '../model/model-uncertainty.js';
@@ -49,6 +49,8 @@ import { CAPS, MAX_REDSHIFT, MIN_SLICE_WIDTH, RANGES, describeRange, inRange, ty
 
 type Q = number | string;
 type ZRaw = number | string | ZTable;
+/** A population's bias as the file writes it: "auto", a parameter in z, or {over_growth: B}. */
+type BiasRaw = ZRaw | { over_growth: number };
 
 interface RawPopulation extends RawPopulationSelection {
   name?: string;
@@ -72,7 +74,7 @@ interface RawPopulation extends RawPopulationSelection {
   rest_band?: RawBand;
   system?: 'ab' | 'vega';
   vega_to_ab?: number;
-  bias?: ZRaw;
+  bias?: BiasRaw;
   occupation?: number;
   model_uncertainty?: unknown;
 }
@@ -1211,6 +1213,39 @@ function refuseLinearThreshold(limit: unknown, variable: PopulationVariable, fil
   );
 }
 
+/**
+ * A population's bias: "auto" (abundance matching), or a given bias (a number, a table, an expression
+ * in z, or {over_growth: B}, b(z) = B / D(z) with D the growth of the file's cosmology) checked over
+ * the window (0.001 to 100 at every z).
+ */
+function readBias(
+  raw: BiasRaw | undefined,
+  path: string,
+  w: Window,
+  omegaM: number,
+  file: string,
+): 'auto' | ZParam<BiasSource> {
+  if (raw === undefined || raw === 'auto') return 'auto';
+  let bias: ZParam<BiasSource>;
+  if (typeof raw === 'object' && 'over_growth' in raw) {
+    const b = raw.over_growth;
+    if (!(Number.isFinite(b) && b > 0))
+      outOfRange(
+        file,
+        `${path}.bias.over_growth`,
+        `is ${fmt(b)} but must be a number above 0 (B of the bias b(z) = B / D(z), the bias at z = 0)`,
+        'give the bias at z = 0, e.g. over_growth: 0.84',
+      );
+    bias = growthBiasParam(b, omegaM);
+  } else bias = makeZParam(raw, file, `${path}.bias`);
+  checkParam(bias, w, file, `${path}.bias`, {
+    what: typeof bias.source === 'object' && 'over_growth' in bias.source ? 'the bias B / D(z)' : 'the bias',
+    positive: true,
+    range: RANGES.bias,
+  });
+  return bias;
+}
+
 /** One population: its parameters checked over its window, bias, occupation, rest wavelength, window and slice edges. */
 function buildPopulation(
   p: RawPopulation,
@@ -1222,6 +1257,7 @@ function buildPopulation(
   line: number | undefined,
   file: string,
   files: { base: string; inputs: InputFile[] },
+  omegaM: number,
 ): Population {
   const params = parsePopulationParams(p, path, file);
   for (const c of params.components) {
@@ -1242,11 +1278,7 @@ function buildPopulation(
   if (params.mStar)
     checkParam(params.mStar, w, file, `${path}.m_star`, { what: 'm_star', range: RANGES.mStar, unitLabel: 'AB mag' });
   const sfrConversion = parseSfrConversion(p, path, file);
-  let bias: 'auto' | ZParam = 'auto';
-  if (p.bias !== undefined && p.bias !== 'auto') {
-    bias = makeZParam(p.bias, file, `${path}.bias`);
-    checkParam(bias, w, file, `${path}.bias`, { what: 'the bias', positive: true, range: RANGES.bias });
-  }
+  const bias = readBias(p.bias, path, w, omegaM, file);
   const occupation = p.occupation ?? 1;
   if (!(occupation > 0 && occupation <= 1))
     outOfRange(file, `${path}.occupation`, `is ${fmt(occupation)}`, 'give a fraction above 0 and at most 1');
@@ -1382,10 +1414,18 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
           : 'rest_wavelength says where absolute magnitudes are defined (variable: magnitude), but this population has variable: luminosity',
         det.kind === 'line_flux' ? "remove it (the line is detection.line or the population's line)" : 'remove it',
       );
-    const pop = buildPopulation(p, path, i, rawPops.length, checkWindow(i), slices.own[i]!, lines[i], file, {
-      base,
-      inputs,
-    });
+    const pop = buildPopulation(
+      p,
+      path,
+      i,
+      rawPops.length,
+      checkWindow(i),
+      slices.own[i]!,
+      lines[i],
+      file,
+      { base, inputs },
+      cosmology.omegaM,
+    );
     if (photoZ && pop.modelUncertainty) {
       // the model's draws redo the count on the plain prediction's redshift nodes, which photometric redshifts redistribute
       throw inputError(

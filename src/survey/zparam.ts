@@ -5,11 +5,12 @@
  */
 import { inputError } from '../errors.js';
 import { precise } from '../render/format.js';
-import type { ZParam } from '../model/zparam.js';
+import type { BiasSource, ZParam } from '../model/zparam.js';
 import { compileExpression } from './expressions.js';
 import { CAPS, describeRange, inRange, type Range } from '../model/limits.js';
 import { down, up, type Bounds } from './interval.js';
 import { keptBreaks } from '../numerics/quadrature.js';
+import { createGrowth } from '../uncertainty/growth.js';
 
 export type ZTable = { table: [number, number][] };
 
@@ -18,7 +19,7 @@ export function isZTable(v: unknown): v is ZTable {
 }
 
 /** Bounds of an expression's values over a range of z, kept beside the ZParam the loader made of it. */
-const expressionBounds = new WeakMap<ZParam, Bounds>();
+const expressionBounds = new WeakMap<ZParam<BiasSource>, Bounds>();
 
 /**
  * What `featureCuts` reads of an expression as the file wrote it (for a mapped parameter, such as
@@ -30,7 +31,7 @@ interface FeatureAnalysis {
   slope: Bounds;
   cuts: number[];
 }
-const featureAnalysis = new WeakMap<ZParam, FeatureAnalysis>();
+const featureAnalysis = new WeakMap<ZParam<BiasSource>, FeatureAnalysis>();
 
 export function constantParam(v: number): ZParam {
   return { source: v, constant: true, at: () => v };
@@ -111,6 +112,18 @@ export function makeZParam(value: number | string | ZTable, file: string, keyPat
 }
 
 /**
+ * A bias given as {over_growth: B}: b(z) = B / D(z), D the linear growth factor of flat Lambda-CDM
+ * with matter density omegaM, D(0) = 1 (src/uncertainty/growth.ts, the same D the cosmic variance
+ * uses). Smooth (no kinks, no narrow features) and, D falling with z, rising with z: its least and
+ * greatest values over a window are at the window's ends, which `checkParam` samples. B must be a
+ * finite number above 0 (the caller checks it).
+ */
+export function growthBiasParam(b: number, omegaM: number): ZParam<BiasSource> {
+  const growth = createGrowth(omegaM);
+  return { source: { over_growth: b }, constant: false, at: (z) => b / growth(z) };
+}
+
+/**
  * A ZParam whose value is f(inner value); keeps the file's source for display. f must not
  * decrease (10^v, a unit's factor, a magnitude's offset): an expression's bounds are then f of
  * its bounds, widened by rounding.
@@ -179,7 +192,7 @@ export function signChanges(fs: readonly ((z: number) => number)[], lo: number, 
 }
 
 /** Points at which a parameter is checked over a window: 64 evenly spaced (ends included) plus the table's nodes inside. */
-export function samplePoints(window: { min: number; max: number }, p?: ZParam): number[] {
+export function samplePoints(window: { min: number; max: number }, p?: ZParam<BiasSource>): number[] {
   const n = 64;
   const pts: number[] = [];
   for (let i = 0; i < n; i++)
@@ -203,7 +216,7 @@ const MAX_INTERVALS = 4096;
  * (its ends are the window's or an earlier piece's middle, already checked).
  */
 function unprovenPoint(
-  p: ZParam,
+  p: ZParam<BiasSource>,
   bounds: Bounds,
   window: { min: number; max: number },
   bad: (v: number) => boolean,
@@ -297,7 +310,7 @@ export function paramExtremes(
  * expression then at every z of the window (`unprovenPoint`).
  */
 export function checkParam(
-  p: ZParam,
+  p: ZParam<BiasSource>,
   window: { min: number; max: number },
   file: string,
   keyPath: string,
@@ -317,7 +330,9 @@ export function checkParam(
       ? `give a value ${inRangeWords}`
       : typeof p.source === 'string'
         ? `change the expression so that it stays ${inRangeWords} ${over}`
-        : `give values ${inRangeWords} ${over}`;
+        : typeof p.source === 'object' && 'over_growth' in p.source
+          ? `change over_growth so that B / D(z) stays ${inRangeWords} ${over}`
+          : `give values ${inRangeWords} ${over}`;
   const refuseAt = (z: number): void => {
     const v = p.at(z);
     const at = constant ? '' : ` at z = ${fmt(z)}`;
@@ -414,7 +429,7 @@ const NEGLIGIBLE = 1e-10;
  * left unresolved after MAX_INTERVALS pieces.
  */
 export function featureCuts(
-  p: ZParam,
+  p: ZParam<BiasSource>,
   analysis: { bounds: Bounds; slope: Bounds },
   window: { min: number; max: number },
 ): { cuts: number[]; unresolved?: number } {

@@ -15,7 +15,9 @@
  * form D ∝ a 2F1(1/3, 1; 11/6; -a^3 OL/Om) in test/uncertainty/growth.test.ts). No table needed:
  * one call costs ~32 flops-heavy evaluations (well under a microsecond).
  */
-import { gaussLegendre } from './quadrature.js';
+// the numerics' rule itself (not ./quadrature.js): the loader reaches this module for a bias given
+// as {over_growth: B}, and the loader reaches no other module of the uncertainty
+import { gaussLegendreRule } from '../numerics/quadrature.js';
 
 const GROWTH_NODES = 32;
 /** Growth factors a growth function keeps by redshift (all are dropped when this many are held). */
@@ -24,7 +26,7 @@ const GROWTH_KEPT = 4096;
 /** Unnormalised growing mode g(a) = E(a) ∫_0^a da'/(a'E)^3 for matter density omegaM (flat). */
 function growingMode(omegaM: number, a: number): number {
   const omegaL = 1 - omegaM;
-  const { x, w } = gaussLegendre(GROWTH_NODES);
+  const { nodes: x, weights: w } = gaussLegendreRule(GROWTH_NODES);
   const uMax = Math.sqrt(a);
   const half = 0.5 * uMax;
   let s = 0;

@@ -49,7 +49,9 @@ const SHARED = ['errors', 'warnings'];
  * errors and warnings, and the two constructors of model values that the physics owns (the
  * cosmology factory, which checks every cosmological parameter once, and the maths of
  * transmission curves, which gives a tabulated filter its centre, width and range), and the
- * selection effects' statement that `check` shows (selection/describe.ts with effects.ts).
+ * selection effects' statement that `check` shows (selection/describe.ts with effects.ts), and the
+ * linear growth factor (uncertainty/growth.ts, which imports only the numerics), which a bias given
+ * as {over_growth: B}, b(z) = B / D(z), is made of.
  */
 const LOADER_REACH = ['survey', 'model', ...SHARED];
 /** The one module that writes numbers for people: it imports nothing, so every layer may use it (messages, summaries). */
@@ -61,6 +63,7 @@ const LOADER_REACH_FILES = [
   'selection/filter.ts',
   'selection/effects.ts',
   'selection/describe.ts',
+  'uncertainty/growth.ts',
   FORMAT,
 ];
 
@@ -90,7 +93,7 @@ describe('the import graph', () => {
     expect(out.map((e) => `${e.from} -> ${e.to}`)).toEqual([]);
   });
 
-  test('the loader reaches only the model, the cosmology factory and the transmission maths (never the counts, studies or presentation)', () => {
+  test('the loader reaches only the model, the cosmology factory, the transmission maths and the growth factor (never the counts, studies or presentation)', () => {
     const seen = new Set<string>();
     const stack = [...graph.keys()].filter((m) => layer(m) === 'survey');
     while (stack.length > 0) {

@@ -137,7 +137,15 @@ describe('specs/survey.schema.json', () => {
     const walk = (s: unknown, path: string) => {
       if (!s || typeof s !== 'object') return;
       const o = s as Schema;
-      if (o.type === 'object' && o.additionalProperties !== false && path !== '/properties/plan') open.push(path);
+      // (an `if` only tests a condition, such as bias being a mapping with over_growth; its `then`
+      // holds the shape and is walked)
+      if (
+        o.type === 'object' &&
+        o.additionalProperties !== false &&
+        path !== '/properties/plan' &&
+        !path.endsWith('/if')
+      )
+        open.push(path);
       for (const [k, v] of Object.entries(o)) walk(v, `${path}/${k}`);
     };
     walk(schema, '');

@@ -15,6 +15,7 @@ import { forecast } from '../../forecast/forecast.js';
 import { FisherSumsMemo } from '../../forecast/grid-memo.js';
 import { CountMemo } from '../../counts/count-memo.js';
 import { luminosityFunctionCurve } from '../../population/curves.js';
+import { biasWords } from '../../population/describe.js';
 import type {
   CountsFigureData,
   ExploreOutput,
@@ -254,11 +255,25 @@ function resultOf(survey: Survey, prediction: Prediction, text: string, pending:
       sigma8: c.sigma8,
       ...(c.n_s !== undefined ? { nS: c.n_s } : {}),
       bias: u.bias,
+      ...givenBias(survey),
       sigmaMatter: u.sigma_matter,
       ...(u.halo_mass_min_msun !== undefined ? { haloMassMin: u.halo_mass_min_msun } : {}),
       ...(u.effective_depth_mpc !== undefined ? { effectiveDepth: u.effective_depth_mpc } : {}),
     };
   return result;
+}
+
+/**
+ * The bias the file gives, in words, for the cosmic-variance note: "0.84 / D(z)" (one population),
+ * "ELGs 0.84 / D(z), LRGs matched to haloes" (several); none when every population has bias auto.
+ */
+function givenBias(survey: Survey): { biasGiven?: string } {
+  const pops = survey.populations;
+  if (pops.every((p) => p.bias === 'auto')) return {};
+  const words = (b: Survey['populations'][number]['bias']): string =>
+    b === 'auto' ? 'matched to haloes' : biasWords(b.source);
+  if (pops.length === 1) return { biasGiven: words(pops[0]!.bias) };
+  return { biasGiven: pops.map((p) => `${p.name} ${words(p.bias)}`).join(', ') };
 }
 
 /** The forecast's Fisher sigmas of the first population (or why there are none), added to `result`. */

@@ -15,7 +15,13 @@ import type {
 export type ParameterView =
   | number
   | {
-      as_written: number | string | ZTable;
+      as_written:
+        | number
+        | string
+        | ZTable
+        | {
+            over_growth: number;
+          };
       at_window_min: number;
       at_window_max: number;
     };

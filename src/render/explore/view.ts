@@ -51,10 +51,11 @@ function clusteringNote(r: ExploreResult): string {
   if (!c) return '';
   const ns = c.nS !== undefined ? `, n_s = ${sig(c.nS, 4)}` : '';
   const halo = c.haloMassMin !== undefined ? `; haloes above ${sig(c.haloMassMin, 3)} Msun have it` : '';
+  const given = c.biasGiven !== undefined ? `; given as ${c.biasGiven}` : '';
   const depth = c.effectiveDepth !== undefined ? `, effective depth ${sig(c.effectiveDepth, 3)} Mpc` : '';
   return `<p class="note" data-part="cosmic-variance-assumed">${escapeHtml(
     `Cosmic variance from the linear power spectrum (sigma8 = ${sig(c.sigma8, 4)}${ns}): bias ${sig(c.bias, 3)} ` +
-      `(count-weighted over the detected sources${halo}), sigma of the matter ${sig(c.sigmaMatter, 3)}${depth}.`,
+      `(count-weighted over the detected sources${given}${halo}), sigma of the matter ${sig(c.sigmaMatter, 3)}${depth}.`,
   )}</p>`;
 }
 
