@@ -95,18 +95,38 @@ export function sourcesSentence(
   );
 }
 
+/**
+ * The limit columns of the top-level slices of several populations: one (the slices' own
+ * `limit_at_center`, every population's) where their limits read the same at every slice, one per
+ * population, named, where they differ (another rest wavelength, spectral slope, blend or
+ * attenuation moves a population's limit in its own variable).
+ */
+function limitColumns(p: Prediction, slices: PredictionSlice[]): { name: string; at: (i: number) => number }[] {
+  const heading = LIMIT_HEADINGS[p.limit_variable] ?? 'limit';
+  const shared = [{ name: heading, at: (i: number) => slices[i]!.limit_at_center }];
+  if (p.populations.length < 2) return shared;
+  const differ = p.populations.some((q) =>
+    q.slices.some((s, i) => sig(s.limit_at_center, 4) !== sig(slices[i]!.limit_at_center, 4)),
+  );
+  if (!differ) return shared;
+  return p.populations.map((q) => ({ name: `${heading} ${q.name}`, at: (i: number) => q.slices[i]!.limit_at_center }));
+}
+
 /** Redshift slices (the top level's, or one population's own) with a total row. */
 function slicesTable(
   p: Prediction,
   slices: PredictionSlice[],
   totals: PredictionTotals,
   columns: { name: string; slice: (s: PredictionSlice) => number; total: number }[],
+  limits: { name: string; at: (i: number) => number }[] = [
+    { name: LIMIT_HEADINGS[p.limit_variable] ?? 'limit', at: (i) => slices[i]!.limit_at_center },
+  ],
 ): string {
   const model = totals.model !== undefined;
   const head = [
     'slice z',
     'volume [Mpc^3]',
-    LIMIT_HEADINGS[p.limit_variable] ?? 'limit',
+    ...limits.map((l) => l.name),
     ...columns.map((c) => c.name),
     'count',
     '+/- (1 sigma)',
@@ -115,11 +135,11 @@ function slicesTable(
     'cumulative',
   ];
   const table = new Table({ head, style: { head: [], border: [] } });
-  for (const s of slices) {
+  slices.forEach((s, i) => {
     table.push([
       `${zText(s.z_min)} - ${zText(s.z_max)}`,
       sig(s.volume_mpc3, 3),
-      sig(s.limit_at_center, 4),
+      ...limits.map((l) => sig(l.at(i), 4)),
       ...columns.map((c) => sig(c.slice(s), 4)),
       sig(s.count, 4),
       pm(s.count, s.uncertainty),
@@ -127,11 +147,11 @@ function slicesTable(
       sig(s.per_deg2, 4),
       sig(s.cumulative_count, 4),
     ]);
-  }
+  });
   table.push([
     'total',
     sig(totals.volume_mpc3, 3),
-    '',
+    ...limits.map(() => ''),
     ...columns.map((c) => sig(c.total, 4)),
     sig(totals.count, 4),
     pm(totals.count, totals.uncertainty),
@@ -206,7 +226,7 @@ export function predictionTable(p: Prediction): string {
         total: trueTotal,
       });
     }
-    out.push(slicesTable(p, p.slices, p.totals, columns));
+    out.push(slicesTable(p, p.slices, p.totals, columns, limitColumns(p, p.slices)));
     pushTotalNotes(out, p);
   } else {
     out.push('Every population over its own window (the survey detects them all):');

@@ -161,3 +161,44 @@ slices: {count: 4}
     expect(names).toEqual(['counts', 'histograms', 'luminosity-function-1', 'luminosity-function-2', 'shares']);
   });
 });
+
+describe('the limit column of several populations sharing slices', () => {
+  /** Two magnitude populations over one window; the second's rest wavelength and slope are its own or not. */
+  const two = (red: string) => `format: 1
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1
+redshift: {min: 0.3, max: 1.5}
+detection: {kind: magnitude, limit: 25, band: 7700, beta: -2}
+populations:
+  - {name: blue, variable: magnitude, phi_star: 0.003, m_star: -20.5, alpha: -1.3, rest_wavelength: 3000}
+  - {name: red, variable: magnitude, phi_star: 0.002, m_star: -21, alpha: -0.5, ${red}}
+slices: {count: 3}
+`;
+
+  test("limits that differ get a column per population, each the population's own (its JSON slices)", () => {
+    const q = predict(loadSurveyText(two('rest_wavelength: 4400, beta: 1'), 'two.yaml'), { noUncertainty: true });
+    const header = predictionTable(q)
+      .split('\n')
+      .find((l) => l.includes('slice z'))!;
+    expect(header).toContain('limit M [AB] blue');
+    expect(header).toContain('limit M [AB] red');
+    const row = predictionTable(q)
+      .split('\n')
+      .find((l) => l.includes('0.3 - 0.7'))!
+      .split('│')
+      .map((c) => c.trim());
+    // the columns read each population's own limit_at_center (4 significant figures)
+    expect(Number(row[3])).toBeCloseTo(q.populations[0]!.slices[0]!.limit_at_center, 2);
+    expect(Number(row[4])).toBeCloseTo(q.populations[1]!.slices[0]!.limit_at_center, 2);
+    expect(Math.abs(Number(row[3]) - Number(row[4]))).toBeGreaterThan(0.1);
+  });
+
+  test('limits that are the same keep one column', () => {
+    const q = predict(loadSurveyText(two('rest_wavelength: 3000'), 'same.yaml'), { noUncertainty: true });
+    const header = predictionTable(q)
+      .split('\n')
+      .find((l) => l.includes('slice z'))!;
+    expect(header).toContain('limit M [AB]');
+    expect(header).not.toContain('limit M [AB] blue');
+  });
+});
