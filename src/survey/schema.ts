@@ -265,6 +265,27 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
     const props = Object.keys(((extra.parentSchema ?? {}) as { properties?: object }).properties ?? {});
     if (sectionId(parent) === 'detection' && SPECTRAL_INDEX_KEYS.has(key))
       return spectralIndexError(key, (extra.data as Record<string, unknown>)[key], file, join(parent, key));
+    // a bias mapping has two forms, and ajv reports whichever branch it tried last: name both
+    if (/(^|\.)bias$/.test(parent)) {
+      const forms = ['table', 'over_growth'];
+      const given = Object.keys(extra.data ?? {});
+      if (forms.every((f) => given.includes(f)))
+        return inputError(
+          'conflict',
+          file,
+          parent,
+          'gives both table and over_growth, two forms of the bias',
+          'keep one: {table: [[z, bias], ...]} or {over_growth: B} for B / D(z)',
+        );
+      const near = suggest(key, forms);
+      return inputError(
+        'unknown_key',
+        file,
+        join(parent, key),
+        `unknown key "${key}"${near ? ` (did you mean ${near}?)` : ''}`,
+        'a bias given as a mapping is {table: [[z, bias], ...]} or {over_growth: B} (b = B / D(z))',
+      );
+    }
     const home = misplaced(key, parent);
     if (home) {
       return inputError(

@@ -132,6 +132,11 @@ describe('bias: {over_growth: B} refused where it is not a number above 0 (exit 
     ['{over_growth: 0}', 'population.bias.over_growth', 'above 0'],
     ['{over_growth: "x"}', 'population.bias.over_growth', 'must be a number'],
     ['{over_growth: 1, extra: 2}', 'population.bias.extra', 'unknown key "extra"'],
+    // a mapping of neither form names both forms, whichever branch the schema tried last
+    ['{x: 2}', 'population.bias.x', '{table: [[z, bias], ...]} or {over_growth: B}'],
+    ['{over_grwth: 1}', 'population.bias.over_grwth', 'did you mean over_growth?'],
+    ['{table: [[1, 2], [2, 3]], extra: 1}', 'population.bias.extra', '{table: [[z, bias], ...]} or {over_growth: B}'],
+    ['{over_growth: 1, table: [[1, 2], [2, 3]]}', 'population.bias', 'gives both table and over_growth'],
     // 60 / D(z) passes 100 inside the window (D(1.6) = 0.488 for omega_m = 0.3): named at a z
     ['{over_growth: 60}', 'population.bias', 'at z = '],
   ])('bias: %s', async (bias, key, words) => {
