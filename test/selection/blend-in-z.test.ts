@@ -15,6 +15,9 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { forecast, loadSurveyText, predict } from '../../src/index.js';
 import { exploreCompute } from '../../src/library/explore/engine.js';
+import { exploreControls, settingsObject, settingsText } from '../../src/library/explore/settings.js';
+import { parseSurveyObject } from '../../src/survey/load.js';
+import { parseYaml } from '../../src/survey/yaml.js';
 import { errorOf } from '../support/survey-error.js';
 import { runCli } from '../cli/helpers.js';
 import { tempDir } from '../support/temp.js';
@@ -174,5 +177,45 @@ describe('refused in one sentence naming the key', () => {
     expect(r.stdout).toBe('');
     expect(r.stderr).toContain('population.blend_ratio');
     expect(r.stderr.trim().split('\n').length).toBe(1);
+  });
+});
+
+describe('the explore page writes a blend in z back as written', () => {
+  test('settings written as YAML and as a parsed object keep the table and give the same prediction', () => {
+    const text = survey({
+      blend_ratio: {
+        table: [
+          [0.9, 0.35],
+          [1.3, 0.3],
+          [1.8, 0.15],
+        ],
+      },
+    });
+    const loaded = loadSurveyText(text, 'w.yaml');
+    const raw = parseYaml(text, 'w.yaml');
+    const controls = exploreControls(raw, loaded);
+    const values = new Map<string, number>([
+      ['area', 7.5],
+      ['detection.limit', 3e-16],
+    ]);
+    expect(controls.map((c) => c.key)).toEqual(expect.arrayContaining([...values.keys()]));
+    const written = settingsText(text, controls, values);
+    expect(written).toContain('blend_ratio: {"table":[[0.9,0.35],[1.3,0.3],[1.8,0.15]]}');
+    const fromText = loadSurveyText(written, 'w.yaml');
+    const fromObject = parseSurveyObject(settingsObject(raw, controls, values), 'w.yaml');
+    expect(fromText.populations[0]!.blendRatio!.source).toEqual({
+      table: [
+        [0.9, 0.35],
+        [1.3, 0.3],
+        [1.8, 0.15],
+      ],
+    });
+    expect(JSON.stringify(predict(fromObject))).toBe(JSON.stringify(predict(fromText)));
+    // the moved settings count what the file with them written by hand counts
+    const byHand = loadSurveyText(
+      text.replace('area: 10', 'area: 7.5').replace('limit: 2e-16', 'limit: 3e-16'),
+      'h.yaml',
+    );
+    expect(JSON.stringify(predict(fromText).slices)).toBe(JSON.stringify(predict(byHand).slices));
   });
 });
