@@ -178,6 +178,31 @@ describe('tabulated draws equal the exact path (1e-8 relative)', () => {
     compare(obj, `${DIR}/line-correlated.yaml`, true);
   });
 
+  test('a blend ratio falling with z (a table), dust and an observed-frame width cut, logistic completeness', () => {
+    const obj = {
+      ...line,
+      detection: {
+        ...line.detection,
+        completeness: { model: 'logistic', half: 2.5e-16, width: 0.15 },
+        equivalent_width_cut: { observed: 80 },
+      },
+      population: {
+        ...line.population,
+        blend_ratio: {
+          table: [
+            [0.8, 0.35],
+            [1.2, 0.3],
+            [1.6, 0.15],
+          ],
+        },
+        attenuation: 1.0,
+        equivalent_widths: { model: 'lognormal', median: 50, sigma_dex: 0.3 },
+      },
+      slices: { count: 3 },
+    };
+    compare(obj, `${DIR}/line-correlated.yaml`, true);
+  });
+
   test('magnitudes (slope -2.5), M* and alpha evolving, logistic completeness', () => {
     const uv = read(`${DIR}/uv-magnitude.yaml`);
     const obj = {
