@@ -709,7 +709,7 @@ function buildNodes(
     ...limitBreaks(survey, lo, hi),
     ...crossings,
     ...filterBreaks(survey, population, lo, hi),
-    ...igmBreaks(survey, lo, hi),
+    ...igmBreaks(survey, lo, hi, population),
     ...effects.breaks(lo, hi),
     ...rows,
   ].sort((x, y) => x - y);
@@ -937,10 +937,12 @@ export function filterBreaks(survey: Survey, population: Population, lo: number,
  * ends of a band_file's or an sed band's range, where the averaged transmission has a kink). A
  * Lyman alpha jump inside a piece, not at its end, moved a count by 2e-4.
  */
-export function igmBreaks(survey: Survey, lo: number, hi: number): number[] {
+export function igmBreaks(survey: Survey, lo: number, hi: number, population?: Population): number[] {
   const d = survey.detection;
   if (d.kind !== 'magnitude' || d.igm !== 'madau1995') return [];
-  const edges = d.sed ? bandSupport(d.sed.band) : d.bandTable ? tableRange(d.bandTable) : [d.bandAngstrom];
+  // the spectrum in use: the population's own, else detection.sed
+  const sed = population?.sed ?? d.sed;
+  const edges = sed ? bandSupport(sed.band) : d.bandTable ? tableRange(d.bandTable) : [d.bandAngstrom];
   const out: number[] = [];
   for (const rest of [...MADAU1995_LINES.map(([l]) => l), LYMAN_LIMIT_ANGSTROM]) {
     for (const w of edges) {

@@ -93,12 +93,13 @@ export function detectionJson(survey: Survey): PredictionBase['detection'] {
       b.system = d.magnitudeSystem.system;
       b.vega_to_ab = d.magnitudeSystem.vegaToAb;
     }
-    if (d.sed) {
-      b.sed_file = d.sed.spectrum.file;
+    if (d.sed) b.sed_file = d.sed.spectrum.file;
+    // the band's shape: detection.sed's, or the one the populations' own spectra go through
+    if (d.spectrumBand) {
       b.band = {
-        profile: d.sed.band.profile,
-        center_angstrom: d.sed.band.centerAngstrom,
-        fwhm_angstrom: d.sed.band.fwhmAngstrom,
+        profile: d.spectrumBand.profile,
+        center_angstrom: d.spectrumBand.centerAngstrom,
+        fwhm_angstrom: d.spectrumBand.fwhmAngstrom,
       };
     }
     if (d.photoZ) b.photo_z = { sigma: d.photoZ.sigma, outlier_fraction: d.photoZ.outlierFraction };

@@ -20,13 +20,15 @@ export function predictionWarnings(survey: Survey, populations: readonly Populat
   const out: Warning[] = [];
   const d = survey.detection;
   if (d.kind === 'magnitude') {
-    // A spectrum's band: a top-hat's red end, a gaussian's center + fwhm (1/16 of its peak), a table's last row above 0.
-    const sedBand = d.sed?.band;
-    const red =
-      sedBand && sedBand.profile !== 'table'
-        ? sedBand.centerAngstrom + (sedBand.profile === 'tophat' ? 0.5 : 1) * sedBand.fwhmAngstrom
-        : bandRedEdgeAngstrom(d.bandAngstrom, d.bandTable);
     for (const p of populations) {
+      // the spectrum in use: the population's own, else detection.sed
+      const sed = p.sed ?? d.sed;
+      // A spectrum's band: a top-hat's red end, a gaussian's center + fwhm (1/16 of its peak), a table's last row above 0.
+      const sedBand = sed?.band;
+      const red =
+        sedBand && sedBand.profile !== 'table'
+          ? sedBand.centerAngstrom + (sedBand.profile === 'tophat' ? 0.5 : 1) * sedBand.fwhmAngstrom
+          : bandRedEdgeAngstrom(d.bandAngstrom, d.bandTable);
       const zb = red / LYMAN_ALPHA_ANGSTROM - 1;
       if (zb < p.window.max) {
         const from = Math.max(zb, p.window.min);
@@ -39,10 +41,10 @@ export function predictionWarnings(survey: Survey, populations: readonly Populat
             'band_blueward_of_lyman_alpha',
             `${p.name}: at z > ${fmtNum(from)} (its window is z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)}) ${what} lies blueward of rest-frame Lyman alpha (1216 A); ` +
               (d.igm === 'madau1995'
-                ? d.sed
+                ? sed
                   ? 'the counts there include the Madau 1995 mean intergalactic transmission, applied to the spectrum inside the band'
                   : 'the counts there include the Madau 1995 mean intergalactic transmission, and the power-law spectrum is extrapolated below 1216 A'
-                : d.sed
+                : sed
                   ? "no intergalactic attenuation is applied there (detection.igm is none; the spectrum's own features are all that dims it), so those counts are too high; consider igm: madau1995"
                   : 'no intergalactic attenuation is applied there (detection.igm is none), so those counts are too high; consider igm: madau1995'),
           ),

@@ -439,7 +439,7 @@ function walkSlice(walk: Walk, lo: number, hi: number): void {
   const extra = [
     ...featureBreaks(walk.survey, population, lo, hi),
     ...filterBreaks(walk.survey, population, lo, hi),
-    ...igmBreaks(walk.survey, lo, hi),
+    ...igmBreaks(walk.survey, lo, hi, population),
   ];
   const cuts = extra.length > 0 ? keptBreaks([...effects.breaks(lo, hi), ...extra], lo, hi) : effects.breaks(lo, hi);
   const rule = piecewiseRedshiftNodes([lo, ...cuts, hi], hardCount);

@@ -63,6 +63,7 @@ export type Detection = DetectionSelection &
         igmStated?: boolean; // true when the file gives detection.igm (a warning asks for it near Lyman alpha)
         bandTable?: TransmissionTable; // detection.band_file: the band's transmission curve
         sed?: SedPhotometry; // detection.sed: k-corrections by synthetic photometry instead of beta
+        spectrumBand?: Filter; // the band's shape, with detection.sed (its band) or a population's own sed
         magnitudeSystem?: MagnitudeSystemGiven; // detection.system vega: how the limit was given
         completeness?: Completeness;
         photoZ?: PhotoZ; // detection.photo_z: slices are in measured (photometric) redshift

@@ -68,14 +68,17 @@ export interface Spectrum {
 }
 
 /**
- * detection.sed: apparent magnitudes by synthetic photometry of `spectrum` through `band` (top-hat,
- * gaussian untruncated, or a tabulated curve), replacing the power-law colour term.
+ * detection.sed (or a population's own sed): apparent magnitudes by synthetic photometry of
+ * `spectrum` through `band` (top-hat, gaussian untruncated, or a tabulated curve), replacing the
+ * power-law colour term.
  */
 export interface SedPhotometry {
   spectrum: Spectrum;
   band: Filter;
   /** The survey file (for a message naming detection.sed when a redshift needs more of the spectrum). */
   surveyFile: string;
+  /** The key messages name: a population's own `populations[i].sed`; absent, detection.sed. */
+  key?: string;
 }
 
 /** Where absolute magnitudes are defined: AB at one rest wavelength, or AB in a rest-frame band. */

@@ -2,7 +2,7 @@
 import type { BiasSource, ZParam } from './zparam.js';
 import type { ModelUncertainty } from './model-uncertainty.js';
 import type { Filter } from './detection.js';
-import type { MagnitudeSystemGiven } from './photometry.js';
+import type { MagnitudeSystemGiven, SedPhotometry } from './photometry.js';
 import type { PopulationSelection } from './selection.js';
 
 export type PopulationVariable = 'luminosity' | 'magnitude';
@@ -49,13 +49,18 @@ export interface SchechterPopulation extends PopulationSelection {
   lineAngstrom?: number;
   /** Rest wavelength at which absolute magnitudes are defined (magnitude kind), Angstrom; with restBand its center. */
   restWavelengthAngstrom: number;
-  /** rest_band: absolute magnitudes are AB in this rest-frame band (needs detection.sed). */
+  /** rest_band: absolute magnitudes are AB in this rest-frame band (needs detection.sed or the population's sed). */
   restBand?: Filter;
   /**
    * The population's own spectral slope beta (f_lambda ~ lambda^beta; magnitude kind without
    * detection.sed): replaces detection.beta in this population's k-correction. Absent: detection.beta.
    */
   beta?: number;
+  /**
+   * The population's own rest-frame spectrum (its sed key; magnitude kind, the band a shape):
+   * replaces detection.sed or the power law in this population's k-correction. Absent: the detection's.
+   */
+  sed?: SedPhotometry;
   /** system vega: how m_star was given (mStar itself holds AB, converted once). */
   magnitudeSystem?: MagnitudeSystemGiven;
   /** True when rest_wavelength was left at its default (a warning checks it against the band). */

@@ -39,20 +39,29 @@ function givenBiasWords(p: Population, zMid: number): string {
 
 /**
  * Where the absolute magnitudes are defined, for the summary: a rest band, or (with a spectrum) the
- * rest wavelength; or the population's own spectral slope beta, where it gives one.
+ * rest wavelength; the population's own spectrum, or its own spectral slope beta, where it gives one.
  */
 function restFrameWords(survey: Survey, p: Population): string {
-  if (survey.detection.kind !== 'magnitude') return '';
+  const det = survey.detection;
+  if (det.kind !== 'magnitude') return '';
+  const own = p.sed
+    ? `k-corrected with its own spectrum ${p.sed.spectrum.file} in place of ` +
+      (det.sed ? `the spectrum ${det.sed.spectrum.file}` : `detection.beta = ${fmt(det.beta)}`)
+    : '';
   const b = p.restBand;
   if (b)
-    return b.table
-      ? ` in the rest band ${b.table.file}`
-      : ` in a rest-frame ${b.profile} band at ${fmt(b.centerAngstrom)} A (fwhm ${fmt(b.fwhmAngstrom)} A)`;
-  if (survey.detection.sed)
-    return ` at rest ${fmt(p.restWavelengthAngstrom)} A, k-corrected with the spectrum ${survey.detection.sed.spectrum.file}`;
+    return (
+      (b.table
+        ? ` in the rest band ${b.table.file}`
+        : ` in a rest-frame ${b.profile} band at ${fmt(b.centerAngstrom)} A (fwhm ${fmt(b.fwhmAngstrom)} A)`) +
+      (own ? `, ${own}` : '')
+    );
+  if (own) return ` at rest ${fmt(p.restWavelengthAngstrom)} A, ${own}`;
+  if (det.sed)
+    return ` at rest ${fmt(p.restWavelengthAngstrom)} A, k-corrected with the spectrum ${det.sed.spectrum.file}`;
   // a population's own spectral slope (the detection's is said with the detection)
   return p.beta !== undefined
-    ? ` (k-corrected with its own spectral slope beta = ${fmt(p.beta)} in place of detection.beta = ${fmt(survey.detection.beta)})`
+    ? ` (k-corrected with its own spectral slope beta = ${fmt(p.beta)} in place of detection.beta = ${fmt(det.beta)})`
     : '';
 }
 
@@ -102,11 +111,13 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
       };
       if (p.restBand.table) d.rest_band.file = p.restBand.table.file;
     }
-    d.k_correction = det.sed
-      ? { method: 'spectrum', spectrum_file: det.sed.spectrum.file }
-      : p.beta !== undefined
-        ? { method: 'power_law', beta: p.beta, beta_from: 'population' }
-        : { method: 'power_law', beta: det.beta };
+    d.k_correction = p.sed
+      ? { method: 'spectrum', spectrum_file: p.sed.spectrum.file, spectrum_from: 'population' }
+      : det.sed
+        ? { method: 'spectrum', spectrum_file: det.sed.spectrum.file }
+        : p.beta !== undefined
+          ? { method: 'power_law', beta: p.beta, beta_from: 'population' }
+          : { method: 'power_law', beta: det.beta };
   }
   if (p.variable === 'magnitude') {
     d.magnitude_system = { stated: 'ab', m_star_given: p.magnitudeSystem?.system ?? 'ab' };

@@ -30,11 +30,23 @@ export function frequencyText(ghz: number): string {
  */
 function slopeWords(beta: number, models: Prediction['models'] | undefined): string {
   const own = (models ?? []).filter((m) => m.k_correction?.beta_from === 'population');
+  const spectra = ownSpectra(models);
   const ownText = own.map((m) => `${m.name} ${sig(m.k_correction!.beta!)}`);
-  if (own.length === 0) return `spectral slope beta = ${sig(beta)}`;
-  if (own.length === models!.length) return `each population's own spectral slope beta: ${ownText.join(', ')}`;
-  const each = own.map((m) => `for ${m.name} its own beta = ${sig(m.k_correction!.beta!)}`);
+  if (own.length === 0 && spectra.length === 0) return `spectral slope beta = ${sig(beta)}`;
+  if (spectra.length === 0 && own.length === models!.length)
+    return `each population's own spectral slope beta: ${ownText.join(', ')}`;
+  const each = [
+    ...own.map((m) => `for ${m.name} its own beta = ${sig(m.k_correction!.beta!)}`),
+    ...spectra.map((m) => `for ${m.name} its own spectrum ${m.k_correction!.spectrum_file!}`),
+  ];
+  // every population k-corrected with its own slope or spectrum: detection.beta plays no part
+  if (own.length + spectra.length === models!.length) return each.join(', ');
   return `spectral slope beta = ${sig(beta)}, and ${each.join(', ')}`;
+}
+
+/** The populations giving their own spectrum (sed), which replaces the detection's k-correction for them. */
+function ownSpectra(models: Prediction['models'] | undefined): NonNullable<Prediction['models']> {
+  return (models ?? []).filter((m) => m.k_correction?.spectrum_from === 'population');
 }
 
 /**
@@ -64,13 +76,23 @@ export function detectionLine(
         b && b.profile !== 'table'
           ? `a ${b.profile} band at ${sig(b.center_angstrom)} A (fwhm ${sig(b.fwhm_angstrom)} A)`
           : `the band ${d.band_file ?? ''}`.trimEnd();
-      return `AB magnitude limit ${sig(d.limit_ab_mag)}${given} in ${band}, k-corrected with the spectrum ${d.sed_file}`;
+      const spectra = ownSpectra(p.models).map(
+        (m) => `, and for ${m.name} its own spectrum ${m.k_correction!.spectrum_file!}`,
+      );
+      return `AB magnitude limit ${sig(d.limit_ab_mag)}${given} in ${band}, k-corrected with the spectrum ${d.sed_file}${spectra.join('')}`;
     }
     const at =
       d.band_ghz !== undefined
         ? `${frequencyText(d.band_ghz)} (${sig(d.band_angstrom)} A)`
         : `${sig(d.band_angstrom)} A`;
-    return `AB magnitude limit ${sig(d.limit_ab_mag)}${given} in a band at ${at} (${slopeWords(d.beta, p.models)})`;
+    // a band's shape without detection.sed: the one the populations' own spectra go through
+    const b = d.band;
+    const band = !b
+      ? `a band at ${at}`
+      : b.profile !== 'table'
+        ? `a ${b.profile} band at ${sig(b.center_angstrom)} A (fwhm ${sig(b.fwhm_angstrom)} A)`
+        : `the band ${d.band_file ?? ''} at ${at}`;
+    return `AB magnitude limit ${sig(d.limit_ab_mag)}${given} in ${band} (${slopeWords(d.beta, p.models)})`;
   }
   const q =
     p.models?.[0]?.quantity ?? (p.limit_variable === 'absolute_magnitude' ? 'absolute AB magnitude' : 'the quantity');

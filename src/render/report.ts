@@ -190,6 +190,7 @@ const PARAM_LABELS: Record<string, string> = {
   rest_wavelength: 'rest wavelength of M*',
   rest_band: 'rest-frame band of M*',
   beta: 'its own spectral slope β of f_λ ∝ λ^β (the k-correction)',
+  sed: 'its own rest-frame spectrum (the k-correction)',
   system: 'magnitude system of M*',
   vega_to_ab: 'M_AB − M_Vega',
   bias: 'galaxy bias',
@@ -356,6 +357,8 @@ function modelValueHtml(key: string, v: unknown, m: ModelAsWritten): string {
     case 'occupation':
     case 'beta':
       return wordsHtml(v);
+    case 'sed':
+      return isRecord(v) && typeof v.file === 'string' ? escapeHtml(v.file) : wordsHtml(v);
     case 'blend_ratio':
       return typeof v === 'number' ? wordsHtml(v) : zparamHtml(v);
     case 'model_uncertainty':

@@ -157,7 +157,10 @@ export function restRangeNeeded(sed: SedPhotometry, rest: RestFrame, z: number):
   return [a, b];
 }
 
-/** Refuse (exit 2, naming detection.sed) a redshift range whose K-correction needs wavelengths the spectrum lacks. */
+/**
+ * Refuse (exit 2, naming detection.sed, or the population's own sed key) a redshift range whose
+ * K-correction needs wavelengths the spectrum lacks.
+ */
 export function checkSpectrumCoverage(sed: SedPhotometry, rest: RestFrame, zMin: number, zMax: number): void {
   const sp = sed.spectrum;
   const min = sp.wavelengthAngstrom[0]!;
@@ -170,7 +173,7 @@ export function checkSpectrumCoverage(sed: SedPhotometry, rest: RestFrame, zMin:
     throw inputError(
       'out_of_range',
       sed.surveyFile,
-      'detection.sed',
+      sed.key ?? 'detection.sed',
       `the spectrum "${sp.file}" covers rest-frame ${r(min)} to ${r(max)} Angstrom, but the band and the rest frame at z = ${r(zMin)} to ${r(zMax)} need ${r(a)} to ${r(b)} Angstrom`,
       'give a spectrum covering those wavelengths, or a narrower redshift range',
     );

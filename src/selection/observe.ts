@@ -22,6 +22,7 @@
  *                          over detection.band_file when given.
  *                          With detection.sed, K(z) = 5 log10(D_L / 10 pc) + K_QR(z), K_QR by synthetic
  *                          photometry of the spectrum (src/selection/kcorrection.ts, the IGM inside it).
+ *                          A population's own sed replaces, for it, detection.sed or the power law.
  * threshold  (slope +1 for a luminosity variable: obs = log10 quantity; -2.5 for a magnitude
  *             variable: obs = absolute magnitude).
  *
@@ -100,7 +101,8 @@ export function makeObserver(detection: Detection, population: Population, cosmo
       // the population's own spectral slope, where it gives one, replaces the detection's
       const beta = population.beta ?? detection.beta;
       const rest = population.restWavelengthAngstrom;
-      const sed = detection.sed;
+      // the population's own spectrum, where it gives one, replaces detection.sed or the power law
+      const sed = population.sed ?? detection.sed;
       let kOf: (z: number) => number;
       if (sed) {
         // Synthetic photometry (src/selection/kcorrection.ts); the IGM, if any, inside its integral.

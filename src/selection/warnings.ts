@@ -19,7 +19,8 @@
  *    each line of blended_lines (one warning per line, naming it: "blended_lines: [{line: 654.8}]",
  *    [NII] in nm, would add its flux, and find sources by it alone, at z = 17 to 28);
  *  - radio_spectrum_steep: a magnitude survey in a radio band (1 mm or longer) with beta above -1
- *    (detection.beta where a population takes it, or a population's own beta, naming it),
+ *    (detection.beta where a population takes it, or a population's own beta, naming it; not where a
+ *    population has its own spectrum, sed),
  *    i.e. f_nu ~ nu^a with a = -(2 + beta) below -1, steeper than galaxies' synchrotron spectra
  *    (a about -0.7, beta = -1.3; common practice): most likely a spectral index written as beta
  *    (beta: -0.7 counts 19 % fewer than beta: -1.3 in docs/survey-file.md's radio example).
@@ -54,8 +55,10 @@ export function selectionWarnings(survey: Survey): Warning[] {
         `${who} = ${fmt(beta)} in a radio band (${band}) is a spectrum f_nu ~ nu^${fmt(-(2 + beta))}, steeper than nu^-1, where galaxies' synchrotron spectra are about nu^-0.7; ` +
           `beta is the slope of f_lambda ~ lambda^beta, and a spectral index a of f_nu ~ nu^a is beta = -(2 + a): a = ${fmt(beta)} is beta: ${fmt(-(2 + beta))}`,
       );
-    // detection.beta where a population takes it; a population's own beta, naming the population
-    if (d.beta > -1 && survey.populations.some((p) => p.beta === undefined)) out.push(steep('detection.beta', d.beta));
+    // detection.beta where a population takes it (neither its own beta nor its own sed); a
+    // population's own beta, naming the population
+    if (d.beta > -1 && survey.populations.some((p) => p.beta === undefined && !p.sed))
+      out.push(steep('detection.beta', d.beta));
     for (const p of survey.populations)
       if (p.beta !== undefined && p.beta > -1) out.push(steep(`${p.name}: its own beta`, p.beta));
   }
@@ -75,7 +78,7 @@ export function selectionWarnings(survey: Survey): Warning[] {
             'rest_wavelength_default_far_from_band',
             `${p.name}: rest_wavelength is left at its default ${fmt(rest)} A, but the band (${fmt(d.bandAngstrom)} A) sees ${fmt(worst.l)} A at rest at z = ${fmt(worst.z)}, ` +
               `more than ${Math.round(REST_WAVELENGTH_TOLERANCE * 100)} % away, ` +
-              (d.sed
+              ((p.sed ?? d.sed)
                 ? `so M* is read as a ${fmt(rest)} A magnitude and the spectrum carries it far (counts can be many times off); give rest_wavelength or rest_band where the luminosity function's magnitudes are defined`
                 : ((p.beta ?? d.beta) === -2
                     ? 'so M* is taken where the band does not look (with beta = -2 the colour term vanishes; with any other spectrum counts can be many times off); '

@@ -78,11 +78,12 @@ export function describeSurvey(survey: Survey): Omit<SurveyCheck, 'warnings'> {
       system: d.magnitudeSystem?.system,
       vega_to_ab: d.magnitudeSystem?.vegaToAb,
       sed_file: d.sed?.spectrum.file,
-      band: d.sed
+      // the band's shape: detection.sed's, or the one the populations' own spectra go through
+      band: d.spectrumBand
         ? {
-            profile: d.sed.band.profile,
-            center_angstrom: d.sed.band.centerAngstrom,
-            fwhm_angstrom: d.sed.band.fwhmAngstrom,
+            profile: d.spectrumBand.profile,
+            center_angstrom: d.spectrumBand.centerAngstrom,
+            fwhm_angstrom: d.spectrumBand.fwhmAngstrom,
           }
         : undefined,
       beta: d.beta,
@@ -150,11 +151,17 @@ export function describeSurvey(survey: Survey): Omit<SurveyCheck, 'warnings'> {
             : undefined,
         k_correction:
           d.kind === 'magnitude'
-            ? d.sed
-              ? { method: 'spectrum' as const, spectrum_file: d.sed.spectrum.file }
-              : p.beta !== undefined
-                ? { method: 'power_law' as const, beta: p.beta, beta_from: 'population' as const }
-                : { method: 'power_law' as const, beta: d.beta }
+            ? p.sed
+              ? {
+                  method: 'spectrum' as const,
+                  spectrum_file: p.sed.spectrum.file,
+                  spectrum_from: 'population' as const,
+                }
+              : d.sed
+                ? { method: 'spectrum' as const, spectrum_file: d.sed.spectrum.file }
+                : p.beta !== undefined
+                  ? { method: 'power_law' as const, beta: p.beta, beta_from: 'population' as const }
+                  : { method: 'power_law' as const, beta: d.beta }
             : undefined,
         bias: p.bias === 'auto' ? 'auto' : parameterView(p.bias, p.window),
         occupation: p.occupation,

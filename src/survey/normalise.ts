@@ -72,6 +72,7 @@ interface RawPopulation extends RawPopulationSelection {
   line?: Q;
   rest_wavelength?: Q;
   rest_band?: RawBand;
+  sed?: { file?: string };
   system?: 'ab' | 'vega';
   vega_to_ab?: number;
   bias?: BiasRaw;
@@ -1148,7 +1149,9 @@ function readDetection(
         file,
         'detection.limit',
       );
-    const phot = readDetectionPhotometry(det, file, base, inputs);
+    // the first population giving its own spectrum, whose synthetic photometry needs the band's shape
+    const ownSed = rawPops.find((p) => p.raw.sed !== undefined);
+    const phot = readDetectionPhotometry(det, file, base, inputs, ownSed && `${ownSed.path}.sed`);
     if (phot.toAb !== 0 || phot.magnitudeSystem) {
       const key = flux
         ? 'detection.limit'
@@ -1176,6 +1179,7 @@ function readDetection(
     if (det.igm !== undefined) detection.igmStated = true;
     if (phot.bandTable) detection.bandTable = phot.bandTable;
     if (phot.sed) detection.sed = phot.sed;
+    if (phot.spectrumBand) detection.spectrumBand = phot.spectrumBand;
     if (phot.magnitudeSystem) detection.magnitudeSystem = phot.magnitudeSystem;
     if (completeness && phot.toAb !== 0) {
       completenessAb =
@@ -1438,9 +1442,11 @@ export function normaliseSurvey(obj: unknown, file: string, baseDir?: string): S
     }
     if (photoZ) pop.window = { min: windows[i]!.min, max: windows[i]!.max };
     const sed = detection.kind === 'magnitude' ? detection.sed : undefined;
-    const phot = readPopulationPhotometry(p, path, detection.kind, sed, checkWindow(i), file, base, inputs);
+    const band = detection.kind === 'magnitude' ? detection.spectrumBand : undefined;
+    const phot = readPopulationPhotometry(p, path, detection.kind, sed, checkWindow(i), file, base, inputs, band);
     pop.restWavelengthAngstrom = phot.restWavelengthAngstrom;
     if (phot.beta !== undefined) pop.beta = phot.beta;
+    if (phot.sed) pop.sed = phot.sed;
     if (phot.restBand) {
       pop.restBand = phot.restBand;
       delete pop.restWavelengthDefault;

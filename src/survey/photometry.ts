@@ -47,6 +47,7 @@ export interface RawPhotometryPopulation {
   rest_wavelength?: Q;
   rest_band?: RawBand;
   beta?: number;
+  sed?: { file?: string };
   system?: 'ab' | 'vega';
   vega_to_ab?: number;
 }
@@ -278,17 +279,24 @@ export interface DetectionPhotometry {
   bandGivenHz?: number;
   bandTable?: Filter['table'];
   sed?: SedPhotometry;
+  /** The band's shape: detection.sed's band, or (without it) the band a population's own sed needs. */
+  spectrumBand?: Filter;
   magnitudeSystem?: MagnitudeSystemGiven;
   /** Added to every magnitude the detection gives (limit, completeness) to make it AB. */
   toAb: number;
 }
 
-/** The band, spectrum and magnitude system of a magnitude detection. */
+/**
+ * The band, spectrum and magnitude system of a magnitude detection. `populationSed` names the first
+ * population giving its own sed (e.g. "populations[1].sed"): without detection.sed the band must
+ * then be a shape ({center, fwhm, profile} or band_file), which its synthetic photometry needs.
+ */
 export function readDetectionPhotometry(
   det: RawPhotometryDetection,
   file: string,
   base: string,
   inputs: InputFile[],
+  populationSed?: string,
 ): DetectionPhotometry {
   const magnitudeSystem = readSystem(det, 'detection', file, 'the limit');
   const toAb = magnitudeSystem?.vegaToAb ?? 0;
@@ -316,12 +324,12 @@ export function readDetectionPhotometry(
       ? readTransmissionFile(det.band_file, file, 'detection.band_file', base, (input) => inputs.push(input))
       : undefined;
   if (det.sed === undefined) {
-    if (bandObject) {
+    if (bandObject && populationSed === undefined) {
       throw inputError(
         'wrong_type',
         file,
         'detection.band',
-        'is a band {center, fwhm}, which only a spectrum (detection.sed) uses',
+        "is a band {center, fwhm}, which only a spectrum (detection.sed, or a population's sed) uses",
         'give the effective wavelength of the band, or add detection.sed',
       );
     }
@@ -333,6 +341,30 @@ export function readDetectionPhotometry(
         'is missing',
         'give the effective wavelength of the band (Angstrom or with a unit), or a band_file',
       );
+    }
+    if (populationSed !== undefined) {
+      // a population's own spectrum integrates through the band: its shape, as detection.sed needs
+      if (!bandTable && !bandObject) {
+        throw inputError(
+          'wrong_type',
+          file,
+          'detection.band',
+          `is the wavelength "${excerpt(typeof det.band === 'object' ? '' : String(det.band))}", but the synthetic photometry of ${populationSed} needs the band's shape`,
+          'give band: {center, fwhm, profile: tophat | gaussian}, or a band_file',
+        );
+      }
+      const shape: Filter = bandTable
+        ? {
+            profile: 'table',
+            centerAngstrom: tableMeanWavelength(bandTable),
+            fwhmAngstrom: tableFwhm(bandTable),
+            table: bandTable,
+          }
+        : readBand(bandObject!, 'detection.band', file, base, inputs);
+      const out: DetectionPhotometry = { bandAngstrom: shape.centerAngstrom, spectrumBand: shape, toAb };
+      if (bandTable) out.bandTable = bandTable;
+      if (magnitudeSystem) out.magnitudeSystem = magnitudeSystem;
+      return out;
     }
     const band =
       det.band !== undefined
@@ -385,6 +417,7 @@ export function readDetectionPhotometry(
   const out: DetectionPhotometry = {
     bandAngstrom: band.centerAngstrom,
     sed: { spectrum, band, surveyFile: file },
+    spectrumBand: band,
     toAb,
   };
   if (bandTable) out.bandTable = bandTable;
@@ -401,6 +434,61 @@ export interface PopulationPhotometry {
   toAb: number;
   /** The population's own spectral slope (its beta key), replacing detection.beta for it. */
   beta?: number;
+  /** The population's own spectrum (its sed key), replacing detection.sed or the power law for it. */
+  sed?: SedPhotometry;
+}
+
+/**
+ * A population's own rest-frame spectrum (sed: {file}): only for a magnitude survey, not beside the
+ * population's own beta, through the band's shape (`band`, which the detection read as the
+ * population asked: absent only when the detection is of another kind).
+ */
+function populationSed(
+  p: RawPhotometryPopulation,
+  path: string,
+  kind: string,
+  band: Filter | undefined,
+  file: string,
+  base: string,
+  inputs: InputFile[],
+): SedPhotometry {
+  if (kind !== 'magnitude') {
+    throw inputError(
+      'kind_mismatch',
+      file,
+      `${path}.sed`,
+      `is the rest-frame spectrum of a magnitude survey's k-correction, but detection.kind is ${kind}, which has none`,
+      'remove it',
+    );
+  }
+  if (p.beta !== undefined) {
+    throw inputError(
+      'conflict',
+      file,
+      `${path}.beta`,
+      "is a power-law colour term, which the population's own spectrum (sed) replaces",
+      'keep one of them: beta or sed',
+    );
+  }
+  if (p.sed!.file === undefined)
+    throw inputError(
+      'missing_key',
+      file,
+      `${path}.sed.file`,
+      'is missing',
+      'give the CSV of rest-frame wavelength (Angstrom), f_lambda',
+    );
+  if (!band) {
+    throw inputError(
+      'wrong_type',
+      file,
+      'detection.band',
+      `is not a band's shape, which the synthetic photometry of ${path}.sed needs`,
+      'give band: {center, fwhm, profile: tophat | gaussian}, or a band_file',
+    );
+  }
+  const spectrum = readSpectrumFile(p.sed!.file, file, `${path}.sed.file`, base, (input) => inputs.push(input));
+  return { spectrum, band, surveyFile: file, key: `${path}.sed` };
 }
 
 /**
@@ -449,18 +537,21 @@ function populationBeta(
 export const DEFAULT_REST_WAVELENGTH = 1500;
 
 /**
- * A population's rest frame and magnitude system. `kind` is the detection kind; `sed` the
- * detection's spectrum, whose coverage of the band over `window` and of the rest frame is checked.
+ * A population's rest frame and magnitude system. `kind` is the detection kind; `detectionSed` the
+ * detection's spectrum, `spectrumBand` the band's shape (for the population's own sed). The
+ * spectrum in use (its own, else the detection's) is checked to cover the band over `window` and
+ * the rest frame.
  */
 export function readPopulationPhotometry(
   p: RawPhotometryPopulation,
   path: string,
   kind: string,
-  sed: SedPhotometry | undefined,
+  detectionSed: SedPhotometry | undefined,
   window: { min: number; max: number },
   file: string,
   base: string,
   inputs: InputFile[],
+  spectrumBand?: Filter,
 ): PopulationPhotometry {
   for (const k of ['rest_band', 'system', 'vega_to_ab'] as const) {
     if (p[k] !== undefined && kind !== 'magnitude') {
@@ -479,7 +570,10 @@ export function readPopulationPhotometry(
     toAb: magnitudeSystem?.vegaToAb ?? 0,
   };
   if (magnitudeSystem) out.magnitudeSystem = magnitudeSystem;
-  if (p.beta !== undefined) out.beta = populationBeta(p.beta, path, kind, sed, file);
+  // its own spectrum wins over detection.sed; with it, no beta of its own
+  if (p.sed !== undefined) out.sed = populationSed(p, path, kind, spectrumBand, file, base, inputs);
+  if (p.beta !== undefined) out.beta = populationBeta(p.beta, path, kind, detectionSed, file);
+  const sed = out.sed ?? detectionSed;
   if (p.rest_band !== undefined) {
     if (p.rest_wavelength !== undefined) {
       throw inputError(
@@ -495,8 +589,8 @@ export function readPopulationPhotometry(
         'conflict',
         file,
         `${path}.rest_band`,
-        'needs a spectrum to integrate over the band, but detection.sed is not given',
-        'add detection.sed, or give rest_wavelength instead',
+        "needs a spectrum to integrate over the band, but neither detection.sed nor the population's sed is given",
+        "add detection.sed or the population's sed, or give rest_wavelength instead",
       );
     }
     out.restBand = readBand(p.rest_band, `${path}.rest_band`, file, base, inputs);
@@ -521,7 +615,7 @@ export function readPopulationPhotometry(
       ? `${path}.rest_band`
       : p.rest_wavelength !== undefined
         ? `${path}.rest_wavelength`
-        : 'detection.sed';
+        : (sed.key ?? 'detection.sed');
     // f_lambda must be above 0 at the rest wavelength (somewhere in the rest band), else no absolute magnitude is defined.
     let lit = false;
     if (out.restBand) {

@@ -189,6 +189,7 @@ export const SECTION_KEYS: Readonly<Record<'top' | 'cosmology' | 'detection' | '
     'rest_wavelength',
     'rest_band',
     'beta',
+    'sed',
     'system',
     'vega_to_ab',
     'bias',

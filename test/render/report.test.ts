@@ -399,6 +399,7 @@ describe('renderReport: the model table in words', () => {
       line: '6562.8 Angstrom',
       rest_wavelength: 1500,
       beta: 0.5,
+      sed: { file: 'spectra/passive.csv' },
       rest_band: { center: 1500, fwhm: '300 Angstrom', profile: 'gaussian' },
       system: 'vega',
       vega_to_ab: 0.2,
@@ -453,6 +454,7 @@ describe('renderReport: the model table in words', () => {
     );
     expect(byKey.rest_wavelength).toBe('1,500 Å');
     expect(byKey.beta).toBe('0.5');
+    expect(byKey.sed).toBe('spectra/passive.csv');
     expect(byKey.rest_band).toBe('Gaussian band centred at 1,500 Å, FWHM 300 Angstrom');
     expect(byKey.system).toBe('Vega');
     expect(byKey.vega_to_ab).toBe('0.2 mag');

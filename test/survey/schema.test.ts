@@ -92,9 +92,10 @@ describe('specs/survey.schema.json', () => {
         'sfr_conversion',
         // the luminosity function's own uncertainty
         'model_uncertainty',
-        // photometry: the rest band, the population's own spectral slope and the magnitude system of m_star
+        // photometry: the rest band, the population's own spectral slope or spectrum and the magnitude system of m_star
         'rest_band',
         'beta',
+        'sed',
         'system',
         'vega_to_ab',
         // selection effects

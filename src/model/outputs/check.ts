@@ -85,11 +85,11 @@ export interface SurveyCheck {
          */
         vega_to_ab?: number;
         /**
-         * the rest-frame spectrum of detection.sed (beta then plays no part)
+         * the rest-frame spectrum of detection.sed (beta then plays no part; a population's own sed replaces it for that population)
          */
         sed_file?: string;
         /**
-         * with sed: the band of the synthetic photometry
+         * with sed, or a population's own sed: the band of the synthetic photometry
          */
         band?: {
           profile: 'tophat' | 'gaussian' | 'table';
@@ -191,7 +191,14 @@ export interface PopulationView {
      * present when the population gives its own beta, which replaces detection.beta for it
      */
     beta_from?: 'population';
+    /**
+     * the spectrum used: the population's own sed when it gives one (spectrum_from), else detection.sed
+     */
     spectrum_file?: string;
+    /**
+     * present when the population gives its own sed, which replaces detection.sed or the power law for it
+     */
+    spectrum_from?: 'population';
   };
   bias: 'auto' | ParameterView;
   occupation: number;

@@ -115,11 +115,11 @@ export interface MagnitudeDetectionBlock {
    */
   vega_to_ab?: number;
   /**
-   * the rest-frame spectrum of detection.sed (beta then plays no part)
+   * the rest-frame spectrum of detection.sed (beta then plays no part; a population's own sed replaces it for that population)
    */
   sed_file?: string;
   /**
-   * with sed: the band of the synthetic photometry
+   * with sed, or a population's own sed: the band of the synthetic photometry
    */
   band?: {
     profile: 'tophat' | 'gaussian' | 'table';

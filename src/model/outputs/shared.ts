@@ -102,7 +102,14 @@ export interface ModelDescription {
      * present when the population gives its own beta, which replaces detection.beta for it
      */
     beta_from?: 'population';
+    /**
+     * the spectrum used: the population's own sed when it gives one (spectrum_from), else detection.sed
+     */
     spectrum_file?: string;
+    /**
+     * present when the population gives its own sed, which replaces detection.sed or the power law for it
+     */
+    spectrum_from?: 'population';
   };
   /**
    * one line a person can read
