@@ -157,6 +157,14 @@ describe("a population's own spectrum counts as a file of it alone with detectio
     expectSameCounts(multi, 0, aAlone, 1e-12);
   });
 
+  test('with a rest_band, which its own spectrum allows without detection.sed: the same', () => {
+    const rb = (t: string) => t.replace('    rest_wavelength: 4400\n', '    rest_band: {center: 4400, fwhm: 900}\n');
+    const multi = predict(load(rb(twoPopulations({ bSed: PASSIVE })), 'rb.yaml'));
+    const bAlone = predict(load(alone(rb(twoPopulations({ detSed: PASSIVE })), 1), 'rbb.yaml'));
+    expect(multi.models[1]!.rest_band).toMatchObject({ profile: 'tophat', center_angstrom: 4400 });
+    expectSameCounts(multi, 1, bAlone, 1e-12);
+  });
+
   test("beside detection.sed its own wins: B as B alone with its spectrum, A with the detection's", () => {
     const multi = predict(load(twoPopulations({ detSed: STARBURST, bSed: PASSIVE }), 's.yaml'));
     const bAlone = predict(load(alone(twoPopulations({ detSed: PASSIVE }), 1), 'sb.yaml'));
@@ -373,5 +381,30 @@ describe("the explore page writes a population's sed back as written", () => {
       'explore-b.yaml',
     );
     expectSameCounts(predict(fromText), 1, predict(bAlone), 1e-12);
+  });
+});
+
+describe("docs/survey-file.md's dropout example with passive interlopers", () => {
+  const doc = readFileSync('docs/survey-file.md', 'utf8');
+  const example = [...doc.matchAll(/```yaml\n([\s\S]*?)```/g)]
+    .map((m) => m[1]!)
+    .find((t) => t.includes('title: Invented B-dropout field with passive low-redshift interlopers'))!;
+
+  test("counts what the page says: 839.4 LBG (as with the band's wavelength alone), 59.63 interlopers", () => {
+    expect(example).toContain('sed: {file: spectra/invented-passive-4000a-break.csv}');
+    // the spectrum is test/fixtures/spectra/invented-passive-4000a-break.csv
+    const p = predict(loadSurveyText(example, 'doc.yaml', 'test/fixtures'));
+    expect(p.populations.map((x) => Number(x.totals.count.toPrecision(4)))).toEqual([839.4, 59.63]);
+    // the LBGs as in the beta example above it (band "7700 Angstrom"), the interlopers with beta 1.0 and -2
+    const asWavelength = example.replace(
+      /band: \{center: "7700 Angstrom", fwhm: "1500 Angstrom"\}[^\n]*/,
+      'band: "7700 Angstrom"',
+    );
+    const withBeta = predict(loadSurveyText(asWavelength.replace(/ {4}sed: [^\n]*/, '    beta: 1.0'), 'doc-b.yaml'));
+    const flat = predict(loadSurveyText(asWavelength.replace(/\n {4}sed: [^\n]*/, ''), 'doc-f.yaml'));
+    expect(Number(withBeta.populations[0]!.totals.count.toPrecision(4))).toBe(839.4);
+    expect(rel(withBeta.populations[0]!.totals.count, p.populations[0]!.totals.count)).toBeLessThan(1e-12);
+    expect(Number(withBeta.populations[1]!.totals.count.toPrecision(4))).toBe(58.03);
+    expect(Number(flat.populations[1]!.totals.count.toPrecision(4))).toBe(49.65);
   });
 });
