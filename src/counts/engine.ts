@@ -942,7 +942,13 @@ export function igmBreaks(survey: Survey, lo: number, hi: number, population?: P
   if (d.kind !== 'magnitude' || d.igm !== 'madau1995') return [];
   // the spectrum in use: the population's own, else detection.sed
   const sed = population?.sed ?? d.sed;
-  const edges = sed ? bandSupport(sed.band) : d.bandTable ? tableRange(d.bandTable) : [d.bandAngstrom];
+  const edges = sed
+    ? bandSupport(sed.band)
+    : d.bandTable
+      ? tableRange(d.bandTable)
+      : d.spectrumBand
+        ? bandSupport(d.spectrumBand)
+        : [d.bandAngstrom];
   const out: number[] = [];
   for (const rest of [...MADAU1995_LINES.map(([l]) => l), LYMAN_LIMIT_ANGSTROM]) {
     for (const w of edges) {

@@ -24,7 +24,8 @@ export function predictionWarnings(survey: Survey, populations: readonly Populat
       // the spectrum in use: the population's own, else detection.sed
       const sed = p.sed ?? d.sed;
       // A spectrum's band: a top-hat's red end, a gaussian's center + fwhm (1/16 of its peak), a table's last row above 0.
-      const sedBand = sed?.band;
+      // (a band's shape beside a population's own sed: the power-law populations see all of it too)
+      const sedBand = sed?.band ?? d.spectrumBand;
       const red =
         sedBand && sedBand.profile !== 'table'
           ? sedBand.centerAngstrom + (sedBand.profile === 'tophat' ? 0.5 : 1) * sedBand.fwhmAngstrom

@@ -20,8 +20,8 @@
  * The transmission is floored at 1e-30 (75 mag of dimming): a source behind that counts nothing,
  * and every magnitude stays finite.
  */
-import type { TransmissionTable } from '../model/detection.js';
-import { tableRange, tableTransmission } from './filter.js';
+import type { Filter, TransmissionTable } from '../model/detection.js';
+import { bandResponse, bandSupport, tableRange, tableTransmission } from './filter.js';
 
 export const LYMAN_ALPHA_ANGSTROM = 1216;
 export const LYMAN_LIMIT_ANGSTROM = 912;
@@ -78,11 +78,33 @@ const GL2_LOW = 0.5 - 0.5 / Math.sqrt(3);
 const GL2_HIGH = 0.5 + 0.5 / Math.sqrt(3);
 export function bandAveragedMadau1995(band: TransmissionTable, z: number, beta: number): number {
   const w = band.wavelengthAngstrom;
-  const nodes = [...w];
+  return averagedMadau1995((l) => tableTransmission(band, l), w[0]!, w[w.length - 1]!, w, z, beta);
+}
+
+/**
+ * The same average over a band given by its shape, {center, fwhm, profile} (a top-hat, or a
+ * gaussian over center +- 3 fwhm as synthetic photometry integrates it; a table as above): the
+ * power-law populations of a magnitude survey whose band is a shape because a population gives its
+ * own spectrum (sed), so that they see the intergalactic forest across the band as they would
+ * through the same curve given as a band_file.
+ */
+export function bandShapeAveragedMadau1995(band: Filter, z: number, beta: number): number {
+  if (band.profile === 'table') return bandAveragedMadau1995(band.table!, z, beta);
+  const [lo, hi] = bandSupport(band);
+  return averagedMadau1995((l) => bandResponse(band, l), lo, hi, [lo, band.centerAngstrom, hi], z, beta);
+}
+
+function averagedMadau1995(
+  response: (l: number) => number,
+  lo: number,
+  hi: number,
+  rows: readonly number[],
+  z: number,
+  beta: number,
+): number {
+  const nodes = [...rows];
   for (const [lj] of MADAU1995_LINES) nodes.push(lj * (1 + z));
   nodes.push(LYMAN_LIMIT_ANGSTROM * (1 + z));
-  const lo = w[0]!;
-  const hi = w[w.length - 1]!;
   const grid = [...new Set(nodes.filter((x) => x >= lo && x <= hi))].sort((a, b) => a - b);
   let num = 0;
   let den = 0;
@@ -93,9 +115,9 @@ export function bandAveragedMadau1995(band: TransmissionTable, z: number, beta: 
     for (let s = 0; s < sub; s++) {
       // both nodes inside the step: never evaluated exactly at a jump
       const l1 = a + (s + GL2_LOW) * h;
-      const w1 = tableTransmission(band, l1) * l1 ** (beta + 1) * h * 0.5;
+      const w1 = response(l1) * l1 ** (beta + 1) * h * 0.5;
       const l2 = a + (s + GL2_HIGH) * h;
-      const w2 = tableTransmission(band, l2) * l2 ** (beta + 1) * h * 0.5;
+      const w2 = response(l2) * l2 ** (beta + 1) * h * 0.5;
       den += w1 + w2;
       num += w1 * madau1995Transmission(l1, z) + w2 * madau1995Transmission(l2, z);
     }

@@ -33,7 +33,7 @@ import type { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Detection } from '../model/detection.js';
 import type { Population } from '../model/population.js';
 import { MPC_CM } from '../cosmology/constants.js';
-import { bandAveragedMadau1995, madau1995Transmission } from './igm.js';
+import { bandAveragedMadau1995, bandShapeAveragedMadau1995, madau1995Transmission } from './igm.js';
 import { sedKCorrection } from './kcorrection.js';
 import type { RestFrame } from '../model/photometry.js';
 import { photoZTrueRange } from '../model/photo-z.js';
@@ -178,9 +178,11 @@ export function igmMagnitude(
   if (detection.igm !== 'madau1995') return () => 0;
   const table = detection.bandTable;
   const band = detection.bandAngstrom;
-  return table
-    ? (z) => -2.5 * Math.log10(bandAveragedMadau1995(table, z, beta))
-    : (z) => -2.5 * Math.log10(madau1995Transmission(band, z));
+  // a band given as a shape (allowed beside a population's own sed): averaged over it, as a band_file is
+  const shape = detection.spectrumBand;
+  if (table) return (z) => -2.5 * Math.log10(bandAveragedMadau1995(table, z, beta));
+  if (shape) return (z) => -2.5 * Math.log10(bandShapeAveragedMadau1995(shape, z, beta));
+  return (z) => -2.5 * Math.log10(madau1995Transmission(band, z));
 }
 
 /**

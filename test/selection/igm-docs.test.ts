@@ -9,9 +9,13 @@
  * at 1e-11 against the engine's quadrature, which converges each piece to 1e-8); the counts of a
  * field counted through a spectrum (detection.sed, a top-hat band) whose band meets Lyman alpha and
  * beta inside its window 1e-6 relative (the count precision docs/outputs.md states; 7e-9 seen, and
- * 1e-6 to 5e-6 without the cuts where a line reaches an end of the band).
+ * 1e-6 to 5e-6 without the cuts where a line reaches an end of the band); the counts of a power-law
+ * population beside one with its own spectrum, through a top-hat band given as a shape, 1e-6 relative
+ * (the same count precision), and those of the same band as a band_file table 1e-5 (its rows' ramps).
  */
-import { readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { bandAveragedMadau1995, loadSurveyText, madau1995Transmission, predict } from '../../src/index.js';
 
@@ -20,6 +24,12 @@ interface Fixture {
   band_averages: { band: string; rows: [number, number][]; z: number; beta: number; transmission: number }[];
   dropout: { survey: string; slices: { z_min: number; z_max: number; count: number }[] };
   sed: { survey: string; spectrum: string; slices: { z_min: number; z_max: number; count: number }[] };
+  mixed: {
+    survey: string;
+    spectrum: string;
+    population: string;
+    slices: { z_min: number; z_max: number; count: number }[];
+  };
   mean_transmission: { z: number; one_minus_d_a: number }[];
 }
 const fx = JSON.parse(readFileSync(new URL('../reference/igm_docs.json', import.meta.url), 'utf8')) as Fixture;
@@ -79,6 +89,36 @@ describe('Madau 1995 transmission as docs/survey-file.md writes it (igm_docs.jso
     // the lines reach the band's ends (6400 and 6600 Angstrom) inside slices, not at their edges
     const ends = [6400 / 1216 - 1, 6600 / 1216 - 1, 6400 / 1026 - 1];
     for (const z of ends) expect(fx.sed.slices.some((s) => s.z_min + 0.01 < z && z < s.z_max - 0.01)).toBe(true);
+  });
+
+  test('a power-law population beside one with its own spectrum sees the forest across a top-hat band (1e-6 relative)', () => {
+    // the band is a shape {center, fwhm} because a population gives its own sed: the power law's
+    // T_IGM is the band's photon-weighted average, as through a band_file, not the value at its center
+    const file = new URL(`../../${fx.mixed.spectrum.replace(/[^/]*$/, 'mixed-igm.yaml')}`, import.meta.url).pathname;
+    const p = predict(loadSurveyText(fx.mixed.survey, file));
+    const pop = p.populations.find((q) => q.name === fx.mixed.population)!;
+    const got = pop.slices.map((s) => [s.z_min, s.z_max, s.count]);
+    expect(got.length).toBe(fx.mixed.slices.length);
+    fx.mixed.slices.forEach((s, i) => {
+      expect(got[i]![0]).toBeCloseTo(s.z_min, 12);
+      expect(rel(got[i]![2]!, s.count), `slice ${s.z_min}-${s.z_max}`).toBeLessThan(1e-6);
+    });
+    // the same band as a band_file table counts the same (its rows 1e-6 Angstrom outside the top-hat's ends)
+    const dir = mkdtempSync(join(tmpdir(), 'skytally-mixed-'));
+    try {
+      writeFileSync(join(dir, 'lyman-sed.csv'), readFileSync(new URL(`../../${fx.mixed.spectrum}`, import.meta.url)));
+      writeFileSync(
+        join(dir, 'tophat.csv'),
+        'wavelength_angstrom,transmission\n6199.999999,0\n6200,1\n6800,1\n6800.000001,0\n',
+      );
+      const text = fx.mixed.survey.replace(/band: \{[^}]*\}/, 'band_file: tophat.csv');
+      expect(text).toContain('band_file: tophat.csv');
+      const q = predict(loadSurveyText(text, join(dir, 'mixed-igm.yaml')));
+      const table = q.populations.find((r) => r.name === fx.mixed.population)!;
+      table.slices.forEach((s, i) => expect(rel(s.count, got[i]![2]!), `slice ${s.z_min}`).toBeLessThan(1e-5));
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 
   test('1 - D_A at z = 3 and 4 equals the reference (1e-8) and the measured decrement (from memory)', () => {

@@ -22,6 +22,9 @@ for it. Float arithmetic (numpy), integrals by scipy.integrate.quad:
   the same count with that K(z), quad over the band split at the spectrum's rows and the redshifted
   lines (epsrel 1e-13), over z split at the slice edges and where a line or a row reaches an end of
   the band (epsrel 1e-11).
+- mixed: the slices of a power-law population beside a population with its own spectrum (sed), the
+  band a top-hat {center, fwhm} (from "magnitude", each population's own beta or sed): the power law's
+  K(z) at the band's center with T_IGM averaged over the top-hat as band_averages above does.
 - mean_transmission: 1 - D_A, the mean of T_IGM over rest 1050-1170 Angstrom at z_em = 3 and 4
   (Oke & Korycansky 1982's D_A, as Madau 1995 uses it), by quad.
 
@@ -265,6 +268,81 @@ def sed_slices():
     return out
 
 
+# "magnitude" (each population's own beta or sed) with "Intergalactic attenuation (igm)": a band given
+# as a shape {center, fwhm, profile: tophat} because one population gives its own spectrum (sed); the
+# other population keeps the power law (detection.beta) at the band's center and sees T_IGM averaged
+# over the band, photon-weighted by lambda^(beta + 1), as a band_file holding the same top-hat
+# would give. Lyman alpha enters the band 6200-6800 Angstrom at z = 4.099 and covers it from 4.592.
+MIXED_SURVEY = """title: Invented dropout field, a power-law population beside one with its own spectrum, a top-hat band
+cosmology: {h0: 70, omega_m: 0.3}
+area: "300 arcmin^2"
+redshift: {min: 3.8, max: 5.2}
+detection:
+  kind: magnitude
+  limit: 27.0
+  band: {center: "6500 Angstrom", fwhm: "600 Angstrom", profile: tophat}
+  beta: -2.3
+  igm: madau1995
+  completeness: {model: logistic, half: 26.6, width: 0.2}
+populations:
+  - name: power law
+    variable: magnitude
+    rest_wavelength: 1600
+    phi_star: 1.3e-3
+    m_star: "-20.95 + 0.1*(z - 4)"
+    alpha: -1.7
+  - name: own spectrum
+    variable: magnitude
+    rest_wavelength: 1600
+    sed: {file: lyman-sed.csv}
+    phi_star: 1.0e-3
+    m_star: -20.5
+    alpha: -1.5
+slices: {width: 0.2}
+"""
+
+
+def mixed_power_law_slices():
+    """The slices of MIXED_SURVEY's first population (the power law)."""
+    doc = yaml.safe_load(MIXED_SURVEY)
+    h0, om = doc["cosmology"]["h0"], doc["cosmology"]["omega_m"]
+    e = lambda z: math.sqrt(om * (1 + z) ** 3 + 1 - om)
+    dh = C_KMS / h0
+    dc = lambda z: dh * integrate.quad(lambda x: 1 / e(x), 0, z, epsabs=0, epsrel=1e-13)[0]
+    area_sr = 300 / 3600 * (math.pi / 180) ** 2
+    det = doc["detection"]
+    lim, beta = det["limit"], det["beta"]
+    center, fwhm = 6500.0, 600.0
+    b0, b1 = center - fwhm / 2, center + fwhm / 2
+    half, width = det["completeness"]["half"], det["completeness"]["width"]
+    pop = doc["populations"][0]
+    phi, alpha, rest = pop["phi_star"], pop["alpha"], pop["rest_wavelength"]
+    m_star = lambda z: -20.95 + 0.1 * (z - 4)
+    tophat = [[b0, 1.0], [b1, 1.0]]
+
+    def k(z):
+        dl_pc = (1 + z) * dc(z) * 1e6
+        return (5 * math.log10(dl_pc / 10) - 2.5 * math.log10(1 + z)
+                - 2.5 * (beta + 2) * math.log10(center / ((1 + z) * rest))
+                - 2.5 * math.log10(band_average(tophat, z, beta)))
+
+    density = magnitude_density(k, m_star, lim, half, width, phi, alpha)
+
+    def integrand(z):
+        return area_sr * dh * dc(z) ** 2 / e(z) * density(z)
+
+    lo, hi, step = 3.8, 5.2, 0.2
+    edges = [round(lo + step * i, 10) for i in range(int(round((hi - lo) / step)) + 1)]
+    # where a Lyman line (or 912), redshifted, reaches an end of the band
+    inner = [b / lj - 1 for lj in [lj for lj, _ in LINES] + [LIMIT] for b in (b0, b1)]
+    out = []
+    for a, b in zip(edges[:-1], edges[1:]):
+        cuts = sorted({a, b} | {x for x in inner if a < x < b})
+        n = sum(integrate.quad(integrand, p, q, epsabs=0, epsrel=1e-11, limit=200)[0] for p, q in zip(cuts[:-1], cuts[1:]))
+        out.append({"z_min": a, "z_max": b, "count": n})
+    return out
+
+
 def mean_transmission(z):
     f = lambda r: transmission(r * (1 + z), z)
     return integrate.quad(f, 1050, 1170, epsabs=0, epsrel=1e-12, limit=200)[0] / 120
@@ -284,6 +362,7 @@ out = {
     ],
     "dropout": {"survey": DROPOUT, "slices": dropout_slices()},
     "sed": {"survey": SED_SURVEY, "spectrum": SED_FILE, "slices": sed_slices()},
+    "mixed": {"survey": MIXED_SURVEY, "spectrum": SED_FILE, "population": "power law", "slices": mixed_power_law_slices()},
     "mean_transmission": [{"z": z, "one_minus_d_a": mean_transmission(z)} for z in [3.0, 4.0]],
 }
 json.dump(out, sys.stdout, indent=1)
