@@ -170,12 +170,21 @@ export function checkSpectrumCoverage(sed: SedPhotometry, rest: RestFrame, zMin:
   const tol = 1e-12;
   if (a < min * (1 - tol) || b > max * (1 + tol)) {
     const r = (x: number): string => String(Number(x.toPrecision(6)));
+    // the rest frame (rest_wavelength or rest_band) does not move with z: no window mends it
+    const [qa, qb] = rest.kind === 'wavelength' ? [rest.angstrom, rest.angstrom] : bandSupport(rest.band);
+    const restOutside = qa < min * (1 - tol) || qb > max * (1 + tol);
+    const restWords =
+      rest.kind === 'wavelength'
+        ? `the rest wavelength ${r(rest.angstrom)} Angstrom`
+        : `the rest band (${r(qa)} to ${r(qb)} Angstrom)`;
     throw inputError(
       'out_of_range',
       sed.surveyFile,
       sed.key ?? 'detection.sed',
       `the spectrum "${sp.file}" covers rest-frame ${r(min)} to ${r(max)} Angstrom, but the band and the rest frame at z = ${r(zMin)} to ${r(zMax)} need ${r(a)} to ${r(b)} Angstrom`,
-      'give a spectrum covering those wavelengths, or a narrower redshift range',
+      restOutside
+        ? `give a spectrum covering those wavelengths (${restWords} lies outside it at every redshift, so a narrower redshift range cannot help)`
+        : 'give a spectrum covering those wavelengths, or a narrower redshift range',
     );
   }
 }

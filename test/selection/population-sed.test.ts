@@ -297,7 +297,14 @@ population:
       twoPopulations({ bSed: PASSIVE, window: '{min: 0.4, max: 9}', slices: '{count: 2}' }),
       'populations[1].sed',
       'out_of_range',
-      /covers rest-frame 900 to 30000 Angstrom/,
+      /covers rest-frame 900 to 30000 Angstrom.*or a narrower redshift range\.$/m,
+    ],
+    [
+      'a rest wavelength beyond the spectrum, which no window mends',
+      twoPopulations({ bSed: PASSIVE }).replace('rest_wavelength: 4400', 'rest_wavelength: 40000'),
+      'populations[1].sed',
+      'out_of_range',
+      /the rest wavelength 40000 Angstrom lies outside it at every redshift, so a narrower redshift range cannot help/,
     ],
   ])('%s', async (_label, yaml, key, code, words) => {
     const file = join(dir, `refused-${key.replace(/\W/g, '-')}-${code || 'type'}.yaml`);
