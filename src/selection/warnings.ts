@@ -101,7 +101,13 @@ export function selectionWarnings(survey: Survey): Warning[] {
     if (d.kind === 'magnitude' && !d.igmStated) {
       const zNear = d.bandAngstrom / (IGM_NEAR_FACTOR * LYMAN_ALPHA_ANGSTROM) - 1;
       // where the band is blueward of Lyman alpha, band_blueward_of_lyman_alpha already says it
-      const blueward = bandRedEdgeAngstrom(d.bandAngstrom, d.bandTable) / LYMAN_ALPHA_ANGSTROM - 1 < max;
+      // the band's red edge as band_blueward_of_lyman_alpha takes it (a shape's too: a spectrum's band)
+      const shape = d.spectrumBand;
+      const red =
+        shape && shape.profile !== 'table'
+          ? shape.centerAngstrom + (shape.profile === 'tophat' ? 0.5 : 1) * shape.fwhmAngstrom
+          : bandRedEdgeAngstrom(d.bandAngstrom, d.bandTable);
+      const blueward = red / LYMAN_ALPHA_ANGSTROM - 1 < max;
       if (zNear < max && !blueward) {
         out.push(
           warning(

@@ -361,6 +361,29 @@ describe("the outputs state each population's spectrum", () => {
   });
 });
 
+describe("the Lyman-alpha warnings see the whole band beside a population's own spectrum", () => {
+  // the band 6950-8450 A (a top-hat, 7700 +- 750): Lyman alpha reaches its center at z = 5.33 and its
+  // red edge at z = 5.95, so over a window to 5.5 the band is only partly in the forest: no
+  // band_blueward_of_lyman_alpha, and without a stated igm the file must hear igm_not_stated (it heard
+  // neither while that check took the band's center for its red edge)
+  test('a window to z = 5.5 without igm: igm_not_stated, not band_blueward_of_lyman_alpha', () => {
+    // a limit deep enough to detect dropouts there (the helper's 24.5 detects none)
+    const text = twoPopulations({ bSed: PASSIVE, window: '{min: 3.5, max: 5.5}', slices: '{count: 2}' })
+      .replace('  igm: none\n', '')
+      .replace('limit: 24.5', 'limit: 27.5')
+      .replace('half: 24.2', 'half: 27.2');
+    expect(text).not.toContain('igm:');
+    const codes = predict(loadSurveyText(text, join(dir, 'lyman-warnings.yaml'))).warnings.map((w) => w.code);
+    // once per population: the power law A and B with its spectrum alike lack the forest
+    expect(codes).toEqual(['igm_not_stated', 'igm_not_stated']);
+    // beyond the red edge (z = 5.95) the whole band is blueward: that warning instead
+    const far = text.replace('{min: 3.5, max: 5.5}', '{min: 3.5, max: 6.2}');
+    const farCodes = predict(loadSurveyText(far, join(dir, 'lyman-warnings-far.yaml'))).warnings.map((w) => w.code);
+    expect(farCodes).toContain('band_blueward_of_lyman_alpha');
+    expect(farCodes).not.toContain('igm_not_stated');
+  });
+});
+
 describe("the explore page writes a population's sed back as written", () => {
   test('settings written as YAML and as a parsed object keep populations[1].sed and give the same prediction', () => {
     const text = twoPopulations({ bSed: PASSIVE });
