@@ -253,6 +253,15 @@ function spectralIndexError(key: string, value: unknown, file: string, path: str
   );
 }
 
+/**
+ * The form to write for keys whose wrong type is a common slip (a spectrum's path without its
+ * mapping, a bias factor given as a table): shown in the refusal's fix.
+ */
+const FORM_EXAMPLES: Readonly<Record<string, string>> = {
+  sed: '{file: spectrum.csv} (the path relative to the survey file)',
+  over_growth: '0.84, a plain number (b = 0.84 / D(z))',
+};
+
 /** Validate `obj`; return undefined when it matches the schema, else the one error to report. */
 export function schemaError(obj: unknown, file: string): SurveyError | undefined {
   if (validate(obj)) return undefined;
@@ -393,12 +402,20 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
                 `write ${lead[1]} without quotes`,
               );
         }
+        const key = path
+          .split('.')
+          .pop()!
+          .replace(/\[\d+\]$/, '');
         return inputError(
           'wrong_type',
           file,
           path,
           `is ${describeValue(data)} but must be ${expected}`,
-          'change the value to that form',
+          key === 'sed' && typeof data === 'string'
+            ? `write it as sed: {file: ${data}}`
+            : FORM_EXAMPLES[key]
+              ? `write it as ${key}: ${FORM_EXAMPLES[key]}`
+              : 'change the value to that form',
         );
       }
       case 'enum':

@@ -611,6 +611,37 @@ describe('bad YAML and bad files', () => {
     expect(other.message).not.toContain('U+2212');
   });
 
+  test("a spectrum's path without its mapping, or a bias factor given as a table: the sentence shows the form to write (failed before: 'change the value to that form')", () => {
+    const mag = `format: 1
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1
+redshift: {min: 1, max: 1.5}
+detection: {kind: magnitude, limit: 25, band: {center: 8000, fwhm: 1000, profile: tophat}, sed: SED}
+population: {variable: magnitude, phi_star: 0.003, m_star: -21, alpha: -1.3}
+`;
+    const sed = errorOf(() => loadSurveyText(mag.replace('SED', 'spec.csv'), FILE));
+    expect({ code: sed.code, keyPath: sed.keyPath }).toEqual({ code: 'wrong_type', keyPath: 'detection.sed' });
+    expect(sed.message).toBe(
+      `${FILE}: detection.sed: is the text "spec.csv" but must be a mapping of keys; write it as sed: {file: spec.csv}.`,
+    );
+    expectOneSentence(sed);
+    const list = errorOf(() => loadSurveyText(mag.replace('SED', '[a]'), FILE));
+    expect(list.message).toContain('write it as sed: {file: spectrum.csv} (the path relative to the survey file)');
+    const obj = parse(LINE_YAML) as Record<string, unknown>;
+    setPath(obj, 'population.bias', {
+      over_growth: {
+        table: [
+          [1, 2],
+          [2, 3],
+        ],
+      },
+    });
+    const bias = errorOf(() => parseSurveyObject(obj, FILE));
+    expect(bias.keyPath).toBe('population.bias.over_growth');
+    expect(bias.message).toContain('write it as over_growth: 0.84, a plain number (b = 0.84 / D(z))');
+    expectOneSentence(bias);
+  });
+
   test("a number written with a unit, or quoted, where a key takes a plain number: the sentence gives the number to write (failed before: 'change the value to that form')", () => {
     const message = (key: string, v: unknown) => {
       const obj = parse(LINE_YAML) as Record<string, unknown>;
