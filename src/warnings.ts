@@ -31,6 +31,8 @@ export const WARNING_CODES = {
     "a population's window reaches beyond valid_redshift, where its luminosity function was measured",
   igm_not_stated:
     'the band lies within 1.3 times Lyman alpha (1 + z) somewhere in the window and the file does not state detection.igm',
+  blend_ratio_through_filter:
+    "a line search through a filter gives a population's blend_ratio, which takes the blended lines at the line's own transmission: blended_lines places each at its own wavelength",
   phi_star_per_dex:
     'a per-dex normalisation (phi_star_dex forms) was given: says the ln 10 convention used, which papers label inconsistently',
   implausible_density:

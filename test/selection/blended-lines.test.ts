@@ -259,3 +259,33 @@ population: {variable: luminosity, log10_phi_star: -2.6, log10_l_star: 42.5, alp
     expect(e.message).toContain('ratio');
   });
 });
+
+describe('blend_ratio through a filter is warned about (blend_ratio_through_filter), blended_lines and a slitless ratio are not', () => {
+  const nb = (
+    blend: string,
+    filter = 'filter: {center: "12110 Angstrom", fwhm: "150 Angstrom", profile: tophat}',
+  ) => `format: 1
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1.3
+detection: {kind: line_flux, limit: "8e-17 erg/s/cm^2", line: "6562.8 Angstrom", ${filter}}
+population: {name: H-alpha emitters, variable: luminosity, log10_phi_star: -2.47, log10_l_star: 42.25, alpha: -1.56, ${blend}}
+${filter ? '' : 'redshift: {min: 0.8, max: 0.9}\n'}`;
+  const codes = (text: string) =>
+    predict(loadSurveyText(text, 'w.yaml'), { noUncertainty: true }).warnings.map((w) => w.code);
+
+  test('through a top hat: warned, naming the key and what to give', () => {
+    const p = predict(loadSurveyText(nb('blend_ratio: 0.33'), 'w.yaml'), { noUncertainty: true });
+    const w = p.warnings.filter((x) => x.code === 'blend_ratio_through_filter');
+    expect(w).toHaveLength(1);
+    expect(w[0]!.message).toContain('population.blend_ratio through a filter');
+    expect(w[0]!.message).toContain('give them as blended_lines');
+  });
+  test('blended_lines through the same filter: not warned', () => {
+    expect(codes(nb('blended_lines: [{line: 6583.45, ratio: 0.2475}, {line: 6548.05, ratio: 0.0825}]'))).not.toContain(
+      'blend_ratio_through_filter',
+    );
+  });
+  test('a slitless ratio (no filter): not warned', () => {
+    expect(codes(nb('blend_ratio: 0.33', ''))).not.toContain('blend_ratio_through_filter');
+  });
+});
