@@ -21,7 +21,7 @@
 import { copyFileSync, existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
-import { loadSurveyText, predict, type Prediction } from '../../src/index.js';
+import { loadSurveyText, predict } from '../../src/index.js';
 import { forecast } from '../../src/forecast/forecast.js';
 import { parseSurveyObject } from '../../src/survey/load.js';
 import { parseYaml } from '../../src/survey/yaml.js';
@@ -29,26 +29,7 @@ import { exploreControls, settingsObject, settingsText } from '../../src/library
 import { runCli } from '../cli/helpers.js';
 import { tempDir } from '../support/temp.js';
 import { errorOf } from '../support/survey-error.js';
-
-const rel = (a: number, b: number): number => (a === b ? 0 : Math.abs(a - b) / Math.max(Math.abs(a), Math.abs(b)));
-
-interface DistanceRow {
-  z: number;
-  distance_modulus: number;
-}
-const distances = JSON.parse(readFileSync('test/reference/distances.json', 'utf8')) as {
-  cosmologies: { label: string; rows: DistanceRow[] }[];
-};
-/** astropy's distance modulus 5 log10(D_L / 10 pc) at z, H0 = 70, Omega_m = 0.3, no radiation. */
-function distanceModulus(z: number): number {
-  const c = distances.cosmologies.find((x) => x.label === 'H0=70 Om=0.3 T=0')!;
-  return c.rows.find((r) => r.z === z)!.distance_modulus;
-}
-
-/** K(z) of a power law f_lambda ~ lambda^beta (Hogg et al. 2002), D_L from astropy. */
-function kOfFormula(z: number, band: number, rest: number, beta: number): number {
-  return distanceModulus(z) - 2.5 * Math.log10(1 + z) - 2.5 * (beta + 2) * Math.log10(band / ((1 + z) * rest));
-}
+import { rel, kOfFormula, alone, expectSameCounts, forecastNumbers } from '../support/two-populations.js';
 
 /** A folder holding the spectra and the band file the files below name. */
 const dir = tempDir('skytally-pop-sed-');
@@ -104,29 +85,7 @@ histogram: {width: 0.25}
 `;
 }
 
-/** The file with one population only (k: 0 for A, 1 for B), as `population:`. */
-function alone(text: string, k: number): string {
-  const [head, pops] = text.split('populations:\n');
-  const entries = pops!.split('slices:')[0]!.split(/\n(?= {2}- )/);
-  const entry = entries[k]!.replace(/^\s*- /, '  ').replace(/\n {4}/g, '\n  ');
-  return `${head}population:\n${entry.trimEnd()}\nslices:${pops!.split('slices:')[1]}`;
-}
-
 const load = (text: string, name: string) => loadSurveyText(text, join(dir, name));
-
-/** Every number of a population's result against a one-population prediction's. */
-function expectSameCounts(multi: Prediction, k: number, single: Prediction, tol: number): void {
-  const own = multi.populations[k]!;
-  expect(rel(own.totals.count, single.totals.count)).toBeLessThanOrEqual(tol);
-  expect(own.slices.length).toBe(single.slices!.length);
-  own.slices.forEach((s, i) => {
-    const t = single.slices![i]!;
-    expect(rel(s.count, t.count)).toBeLessThanOrEqual(tol);
-    expect(rel(s.limit_at_center, t.limit_at_center)).toBeLessThanOrEqual(tol);
-    expect(s.histogram.edges).toEqual(t.histogram.edges);
-    s.histogram.counts.forEach((c, j) => expect(rel(c, t.histogram.counts[j]!)).toBeLessThanOrEqual(tol));
-  });
-}
 
 describe("a population's own spectrum counts as a file of it alone with detection.sed (the same arithmetic, 1e-12)", () => {
   test('A on the power law, B with its own passive spectrum: each as its one-population file', () => {
@@ -189,18 +148,8 @@ describe("a population's own spectrum counts as a file of it alone with detectio
       seed: 3,
     });
     const want = await forecast(load(alone(twoPopulations({ detSed: PASSIVE }), 1), 'fb.yaml'), { mocks: 20, seed: 3 });
-    const numbers = (x: unknown): number[] =>
-      typeof x === 'number'
-        ? [x]
-        : Array.isArray(x)
-          ? x.flatMap(numbers)
-          : x && typeof x === 'object'
-            ? Object.entries(x)
-                .filter(([k]) => k !== 'model' && k !== 'detection' && k !== 'title' && k !== 'warnings')
-                .flatMap(([, v]) => numbers(v))
-            : [];
-    const a = numbers(got);
-    const b = numbers(want);
+    const a = forecastNumbers(got);
+    const b = forecastNumbers(want);
     expect(a.length).toBe(b.length);
     expect(a.length).toBeGreaterThan(20);
     a.forEach((x, i) => expect(rel(x, b[i]!), `number ${i}: ${x} against ${b[i]}`).toBeLessThanOrEqual(1e-9));

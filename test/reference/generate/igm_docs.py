@@ -136,12 +136,29 @@ def magnitude_density(k, m_star, lim, half, width, phi, alpha):
     return density
 
 
-def dropout_slices():
-    doc = yaml.safe_load(DROPOUT)
+def flat_distances(doc):
+    """E(z), the Hubble distance c / H0 and the comoving distance of a survey file's flat cosmology (no radiation)."""
     h0, om = doc["cosmology"]["h0"], doc["cosmology"]["omega_m"]
     e = lambda z: math.sqrt(om * (1 + z) ** 3 + 1 - om)
     dh = C_KMS / h0
     dc = lambda z: dh * integrate.quad(lambda x: 1 / e(x), 0, z, epsabs=0, epsrel=1e-13)[0]
+    return e, dh, dc
+
+
+def slice_counts(integrand, lo, hi, step, inner):
+    """The integral of dN/dz over slices `step` wide from lo to hi, each cut at the points of `inner` inside it."""
+    edges = [round(lo + step * i, 10) for i in range(int(round((hi - lo) / step)) + 1)]
+    out = []
+    for a, b in zip(edges[:-1], edges[1:]):
+        cuts = sorted({a, b} | {x for x in inner if a < x < b})
+        n = sum(integrate.quad(integrand, p, q, epsabs=0, epsrel=1e-11, limit=200)[0] for p, q in zip(cuts[:-1], cuts[1:]))
+        out.append({"z_min": a, "z_max": b, "count": n})
+    return out
+
+
+def dropout_slices():
+    doc = yaml.safe_load(DROPOUT)
+    e, dh, dc = flat_distances(doc)
     area_sr = 300 / 3600 * (math.pi / 180) ** 2
     det = doc["detection"]
     lim, band, beta = det["limit"], 6500.0, det["beta"]
@@ -164,14 +181,8 @@ def dropout_slices():
         return area_sr * dh * dc(z) ** 2 / e(z) * s * density(z)
 
     lo, hi, step = 3.3, 4.7, 0.2
-    edges = [round(lo + step * i, 10) for i in range(int(round((hi - lo) / step)) + 1)]
     inner = [r[0] for r in sel] + [band / lj - 1 for lj, _ in LINES] + [band / LIMIT - 1]
-    out = []
-    for a, b in zip(edges[:-1], edges[1:]):
-        cuts = sorted({a, b} | {x for x in inner if a < x < b})
-        n = sum(integrate.quad(integrand, p, q, epsabs=0, epsrel=1e-11, limit=200)[0] for p, q in zip(cuts[:-1], cuts[1:]))
-        out.append({"z_min": a, "z_max": b, "count": n})
-    return out
+    return slice_counts(integrand, lo, hi, step, inner)
 
 
 # A magnitude survey whose k-correction is synthetic photometry of a spectrum (docs/survey-file.md,
@@ -222,10 +233,7 @@ def read_spectrum(path):
 
 def sed_slices():
     doc = yaml.safe_load(SED_SURVEY)
-    h0, om = doc["cosmology"]["h0"], doc["cosmology"]["omega_m"]
-    e = lambda z: math.sqrt(om * (1 + z) ** 3 + 1 - om)
-    dh = C_KMS / h0
-    dc = lambda z: dh * integrate.quad(lambda x: 1 / e(x), 0, z, epsabs=0, epsrel=1e-13)[0]
+    e, dh, dc = flat_distances(doc)
     area_sr = 300 / 3600 * (math.pi / 180) ** 2
     det = doc["detection"]
     lim = det["limit"]
@@ -257,15 +265,9 @@ def sed_slices():
         return area_sr * dh * dc(z) ** 2 / e(z) * density(z)
 
     lo, hi, step = 3.8, 5.4, 0.2
-    edges = [round(lo + step * i, 10) for i in range(int(round((hi - lo) / step)) + 1)]
     # where a Lyman line (or 912) or a spectrum row, redshifted, reaches an end of the band
     inner = [b / lj - 1 for lj in jumps + ws for b in (b0, b1)]
-    out = []
-    for a, b in zip(edges[:-1], edges[1:]):
-        cuts = sorted({a, b} | {x for x in inner if a < x < b})
-        n = sum(integrate.quad(integrand, p, q, epsabs=0, epsrel=1e-11, limit=200)[0] for p, q in zip(cuts[:-1], cuts[1:]))
-        out.append({"z_min": a, "z_max": b, "count": n})
-    return out
+    return slice_counts(integrand, lo, hi, step, inner)
 
 
 # "magnitude" (each population's own beta or sed) with "Intergalactic attenuation (igm)": a band given
@@ -305,10 +307,7 @@ slices: {width: 0.2}
 def mixed_power_law_slices():
     """The slices of MIXED_SURVEY's first population (the power law)."""
     doc = yaml.safe_load(MIXED_SURVEY)
-    h0, om = doc["cosmology"]["h0"], doc["cosmology"]["omega_m"]
-    e = lambda z: math.sqrt(om * (1 + z) ** 3 + 1 - om)
-    dh = C_KMS / h0
-    dc = lambda z: dh * integrate.quad(lambda x: 1 / e(x), 0, z, epsabs=0, epsrel=1e-13)[0]
+    e, dh, dc = flat_distances(doc)
     area_sr = 300 / 3600 * (math.pi / 180) ** 2
     det = doc["detection"]
     lim, beta = det["limit"], det["beta"]
@@ -332,15 +331,9 @@ def mixed_power_law_slices():
         return area_sr * dh * dc(z) ** 2 / e(z) * density(z)
 
     lo, hi, step = 3.8, 5.2, 0.2
-    edges = [round(lo + step * i, 10) for i in range(int(round((hi - lo) / step)) + 1)]
     # where a Lyman line (or 912), redshifted, reaches an end of the band
     inner = [b / lj - 1 for lj in [lj for lj, _ in LINES] + [LIMIT] for b in (b0, b1)]
-    out = []
-    for a, b in zip(edges[:-1], edges[1:]):
-        cuts = sorted({a, b} | {x for x in inner if a < x < b})
-        n = sum(integrate.quad(integrand, p, q, epsabs=0, epsrel=1e-11, limit=200)[0] for p, q in zip(cuts[:-1], cuts[1:]))
-        out.append({"z_min": a, "z_max": b, "count": n})
-    return out
+    return slice_counts(integrand, lo, hi, step, inner)
 
 
 def mean_transmission(z):
