@@ -140,7 +140,7 @@ export function describeModel(survey: Survey, p: Population): ModelDescription {
       `${p.name}: Schechter function in ${p.variable}, phi* = ${fmt(p.phiStar.at(zMid))} Mpc^-3, ${knee}, ` +
       `alpha = ${fmt(p.alpha.at(zMid))}${tail}`;
   }
-  const sel = selectionWords(d.selection);
+  const sel = selectionWords(d.selection, selectionRanges(survey, p));
   if (sel) d.summary += `; ${sel}`;
   // a given bias (bias auto is matched to haloes by the prediction: the outputs give what it matched)
   const bias = givenBiasWords(p, zMid);
@@ -160,16 +160,70 @@ function uncertaintyWords(u: NonNullable<ModelDescription['model_uncertainty']>)
   return `model uncertainty (1 sigma): ${s.join(', ')}${r.length ? `; correlations ${r.join(', ')}` : ''}`;
 }
 
-/** The selection effects in words for the summary line ('' without any, so plain summaries are unchanged). */
-function selectionWords(s: ModelDescription['selection']): string {
+/**
+ * The smallest and largest value of a parameter in z over [lo, hi], for words: a table's exactly
+ * (linear between its rows: the ends and the rows inside), an expression's over 401 even points,
+ * its kinks and its narrow features (a summary's four digits; the counts integrate it exactly).
+ */
+export function rangeOver(p: ZParam, lo: number, hi: number): [number, number] {
+  const zs = [lo, hi];
+  if (isTableSource(p.source)) {
+    for (const [z] of p.source.table) if (z > lo && z < hi) zs.push(z);
+  } else if (!p.constant) {
+    for (let i = 1; i < 400; i++) zs.push(lo + ((hi - lo) * i) / 400);
+    zs.push(...(p.kinks?.(lo, hi) ?? []), ...(p.features?.(lo, hi) ?? []));
+  }
+  const v = zs.map((z) => p.at(z));
+  return [Math.min(...v), Math.max(...v)];
+}
+
+/** The ranges over the window of the selection's parameters that vary with z (none for a number). */
+interface SelectionRanges {
+  redshiftSelection?: [number, number];
+  blendRatio?: [number, number];
+  attenuation?: [number, number];
+}
+
+function selectionRanges(survey: Survey, p: Population): SelectionRanges {
+  const { min, max } = p.window;
+  const of = (q: ZParam | undefined) => (q && !q.constant ? rangeOver(q, min, max) : undefined);
+  const r: SelectionRanges = {};
+  const sel = of(p.redshiftSelection ?? survey.detection.redshiftSelection);
+  if (sel) r.redshiftSelection = sel;
+  const blend = of(p.blendRatio);
+  if (blend) r.blendRatio = blend;
+  const att = of(p.attenuation);
+  if (att) r.attenuation = att;
+  return r;
+}
+
+/**
+ * A value in words: a parameter that varies with z at the window's middle and over the window
+ * ("0.8 at the window's middle (0.05 to 0.8 over the window)"), a number as it is.
+ */
+function valueWords(atMiddle: number, r: [number, number] | undefined, unit = ''): string {
+  return r
+    ? `${fmt(atMiddle)}${unit} at the window's middle (${fmt(r[0])} to ${fmt(r[1])}${unit} over the window)`
+    : `${fmt(atMiddle)}${unit}`;
+}
+
+/**
+ * The selection effects in words for the summary line ('' without any, so plain summaries are
+ * unchanged). A parameter that varies with z is given at the window's middle and as its range over
+ * the window, so that a selection that keeps nothing at the middle does not read as one that keeps
+ * nothing at all; a number as it is.
+ */
+function selectionWords(s: ModelDescription['selection'], r: SelectionRanges): string {
   const parts: string[] = [];
   if (s.redshift_selection)
     parts.push(
-      `redshift selection from the ${s.redshift_selection.from} keeps ${fmt(s.redshift_selection.fraction.at_window_middle)}`,
+      `redshift selection from the ${s.redshift_selection.from} keeps ${valueWords(s.redshift_selection.fraction.at_window_middle, r.redshiftSelection)}`,
     );
   if (s.blend_ratio !== undefined)
     parts.push(
-      `blended lines add ${fmt(typeof s.blend_ratio === 'number' ? s.blend_ratio : s.blend_ratio.at_window_middle)} of the line flux`,
+      typeof s.blend_ratio === 'number'
+        ? `blended lines add ${fmt(s.blend_ratio)} of the line flux`
+        : `blended lines add ${valueWords(s.blend_ratio.at_window_middle, r.blendRatio, ' of the line flux')}`,
     );
   if (s.blended_lines)
     parts.push(
@@ -177,11 +231,11 @@ function selectionWords(s: ModelDescription['selection']): string {
     );
   if (s.attenuation_mag)
     parts.push(
-      `attenuation ${fmt(s.attenuation_mag.at_window_middle)} mag applied (the luminosity function is intrinsic)`,
+      `attenuation ${valueWords(s.attenuation_mag.at_window_middle, r.attenuation, ' mag')} applied (the luminosity function is intrinsic)`,
     );
   if (s.equivalent_width_cut)
     parts.push(
-      `${s.equivalent_width_cut.frame}-frame equivalent width >= ${fmt(s.equivalent_width_cut.width_angstrom)} A keeps ${fmt(s.equivalent_width_cut.kept_at_window_middle)}`,
+      `${s.equivalent_width_cut.frame}-frame equivalent width >= ${fmt(s.equivalent_width_cut.width_angstrom)} A keeps ${fmt(s.equivalent_width_cut.kept_at_window_middle)} at the window's middle`,
     );
-  return parts.length ? `${parts.join(', ')} (at the window's middle)` : '';
+  return parts.join(', ');
 }

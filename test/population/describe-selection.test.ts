@@ -1,6 +1,10 @@
 /**
  * The assumed model's summary line (src/population/describe.ts) names the selection effects in plain
- * words: where a redshift selection is set and the fraction it keeps at the window's middle.
+ * words: where a redshift selection is set and the fraction it keeps at the window's middle; a
+ * fraction, blend or attenuation that varies with z also gives its range over the window (a table's
+ * smallest and largest value over the window are at its rows or the window's ends: linear between
+ * rows, as docs/survey-file.md defines a table), so that a selection that keeps nothing at the
+ * middle does not read as one that keeps nothing.
  */
 import { fileURLToPath } from 'node:url';
 import { describe, expect, test } from 'vitest';
@@ -8,10 +12,12 @@ import { loadSurveyFile, loadSurveyText } from '../../src/survey/load.js';
 import { describeModel } from '../../src/population/describe.js';
 
 describe('the summary line of a redshift selection', () => {
-  test('set on the detection: the dropout sample keeps 0.8 at z = 4, its table row there (the sample file)', () => {
+  test('set on the detection: the dropout sample keeps 0.8 at z = 4, its table row there, and 0.05 at the window ends (the sample file)', () => {
     const s = loadSurveyFile(fileURLToPath(new URL('../../samples/dropout-field.yaml', import.meta.url)));
     const summary = describeModel(s, s.populations[0]!).summary;
-    expect(summary).toContain("redshift selection from the detection keeps 0.8 (at the window's middle)");
+    expect(summary).toContain(
+      "redshift selection from the detection keeps 0.8 at the window's middle (0.05 to 0.8 over the window)",
+    );
     // one bracket after another read as a stutter in the line
     expect(summary).not.toMatch(/\) \(/);
   });
@@ -32,8 +38,55 @@ population:
 `,
       'selection.yaml',
     );
-    expect(describeModel(s, s.populations[0]!).summary).toContain(
-      "redshift selection from the population keeps 0.5 (at the window's middle)",
+    const summary = describeModel(s, s.populations[0]!).summary;
+    expect(summary).toContain('redshift selection from the population keeps 0.5');
+    // a value that does not vary with z has no range and no redshift
+    expect(summary).not.toContain('over the window');
+    expect(summary).not.toContain("window's middle");
+  });
+
+  const withSelection = (selection: string, extra = '') =>
+    loadSurveyText(
+      `format: 1
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1
+redshift: {min: 1, max: 3}
+detection: {kind: line_flux, limit: 1e-16, line: 6563}
+population:
+  variable: luminosity
+  phi_star: 1e-3
+  l_star: 1e42
+  alpha: -1.3
+  redshift_selection: ${selection}
+${extra}`,
+      'selection.yaml',
     );
+
+  test('a table that is 0 at the middle: the words give its range, from its rows inside the window', () => {
+    // rows outside the window (z = 0.5, 3.5) do not count; the window's ends are linear between rows
+    const s = withSelection('{table: [[0.5, 0.9], [1.5, 0.6], [2, 0], [2.5, 0.3], [3.5, 1]]}');
+    const summary = describeModel(s, s.populations[0]!).summary;
+    // at z = 1: 0.9 + (0.6 - 0.9) (1 - 0.5) / (1.5 - 0.5) = 0.75; at z = 3: 0.3 + 0.7 (0.5 / 1) = 0.65
+    expect(summary).toContain(
+      "redshift selection from the population keeps 0 at the window's middle (0 to 0.75 over the window)",
+    );
+  });
+
+  test("an expression: its range over the window; attenuation and blend with their units' words", () => {
+    const s = withSelection(
+      '"0.25 + 0.5*z - 0.125*z^2"',
+      `  attenuation: "0.5 + 0.25*z"
+  blend_ratio: {table: [[1, 0.4], [3, 0.2]]}
+`,
+    );
+    const summary = describeModel(s, s.populations[0]!).summary;
+    // 0.25 + 0.5 z - z^2 / 8 peaks at z = 2 (0.75) and is 0.625 at z = 1 and z = 3
+    expect(summary).toContain(
+      "redshift selection from the population keeps 0.75 at the window's middle (0.625 to 0.75 over the window)",
+    );
+    expect(summary).toContain(
+      "blended lines add 0.3 of the line flux at the window's middle (0.2 to 0.4 of the line flux over the window)",
+    );
+    expect(summary).toContain("attenuation 1 mag at the window's middle (0.75 to 1.25 mag over the window) applied");
   });
 });

@@ -138,8 +138,10 @@ describe('the outputs state the blend as written', () => {
     expect(sel.effects).toContain('blend_ratio');
     // definition: 0.45 - 0.14 * 1.35
     expect(sel.blend_ratio).toEqual({ given: '0.45 - 0.14*z', at_window_middle: 0.45 - 0.14 * 1.35 });
-    expect(p.models[0]!.summary).toContain(`blended lines add ${0.45 - 0.14 * 1.35} of the line flux`);
-    expect(p.models[0]!.summary).toContain("(at the window's middle)");
+    // and over the window 0.9 to 1.8: 0.45 - 0.14 * 1.8 = 0.198 to 0.45 - 0.14 * 0.9 = 0.324
+    expect(p.models[0]!.summary).toContain(
+      `blended lines add ${0.45 - 0.14 * 1.35} of the line flux at the window's middle (0.198 to 0.324 of the line flux over the window)`,
+    );
   });
 
   test('a number stays a number', () => {
