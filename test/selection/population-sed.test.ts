@@ -35,8 +35,11 @@ import { rel, kOfFormula, alone, expectSameCounts, forecastNumbers } from '../su
 const dir = tempDir('skytally-pop-sed-');
 mkdirSync(join(dir, 'spectra'));
 mkdirSync(join(dir, 'bands'));
-for (const f of ['invented-passive-4000a-break.csv', 'power-law-beta1.csv'])
-  copyFileSync(`test/fixtures/spectra/${f}`, join(dir, 'spectra', f));
+copyFileSync(
+  'samples/spectra/invented-passive-4000a-break.csv',
+  join(dir, 'spectra', 'invented-passive-4000a-break.csv'),
+);
+copyFileSync('test/fixtures/spectra/power-law-beta1.csv', join(dir, 'spectra', 'power-law-beta1.csv'));
 copyFileSync('test/reference/surveys-selection/spectra/invented-starburst.csv', join(dir, 'spectra', 'starburst.csv'));
 copyFileSync('test/reference/surveys-selection/bands/invented-red-band.csv', join(dir, 'bands', 'red.csv'));
 const PASSIVE = 'spectra/invented-passive-4000a-break.csv';
@@ -371,8 +374,8 @@ describe("docs/survey-file.md's dropout example with passive interlopers", () =>
 
   test("counts what the page says: 839.4 LBG (as with the band's wavelength alone), 59.63 interlopers", () => {
     expect(example).toContain('sed: {file: spectra/invented-passive-4000a-break.csv}');
-    // the spectrum is test/fixtures/spectra/invented-passive-4000a-break.csv
-    const p = predict(loadSurveyText(example, 'doc.yaml', 'test/fixtures'));
+    // the spectrum is samples/spectra/invented-passive-4000a-break.csv: the example runs saved in samples/
+    const p = predict(loadSurveyText(example, 'doc.yaml', 'samples'));
     expect(p.populations.map((x) => Number(x.totals.count.toPrecision(4)))).toEqual([839.4, 59.63]);
     // the LBGs as in the beta example above it (band "7700 Angstrom"), the interlopers with beta 1.0 and -2
     const asWavelength = example.replace(
