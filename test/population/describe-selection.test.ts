@@ -9,7 +9,9 @@
 import { fileURLToPath } from 'node:url';
 import { describe, expect, test } from 'vitest';
 import { loadSurveyFile, loadSurveyText } from '../../src/survey/load.js';
-import { describeModel } from '../../src/population/describe.js';
+import fc from 'fast-check';
+import { describeModel, rangeOver } from '../../src/population/describe.js';
+import { makeZParam } from '../../src/survey/zparam.js';
 
 describe('the summary line of a redshift selection', () => {
   test('set on the detection: the dropout sample keeps 0.8 at z = 4, its table row there, and 0.05 at the window ends (the sample file)', () => {
@@ -88,5 +90,41 @@ ${extra}`,
       "blended lines add 0.3 of the line flux at the window's middle (0.2 to 0.4 of the line flux over the window)",
     );
     expect(summary).toContain("attenuation 1 mag at the window's middle (0.75 to 1.25 mag over the window) applied");
+  });
+});
+
+describe("rangeOver: a table's range over a window (property test, fast-check)", () => {
+  // A table is linear between its rows and holds its end values outside (docs/survey-file.md), so
+  // over a window its extremes are at the window's ends or at rows inside it (common practice for
+  // piecewise-linear functions): every value in the window lies in the range, and both ends of the
+  // range are values the table takes there.
+  test('every value of a random table in a random window lies in the range, and the range is attained', () => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.tuple(fc.double({ min: 0, max: 10, noNaN: true }), fc.double({ min: 0, max: 1, noNaN: true })), {
+          minLength: 2,
+          maxLength: 12,
+        }),
+        fc.double({ min: 0, max: 10, noNaN: true }),
+        fc.double({ min: 0.001, max: 5, noNaN: true }),
+        (rows, lo, width) => {
+          const zs = [...new Set(rows.map(([z]) => z))].sort((a, b) => a - b);
+          fc.pre(zs.length >= 2);
+          const table = zs.map((z, i) => [z, rows[i]![1]] as [number, number]);
+          const p = makeZParam({ table }, 't.yaml', 'detection.redshift_selection');
+          const hi = lo + width;
+          const [min, max] = rangeOver(p, lo, hi);
+          const probe = Array.from({ length: 201 }, (_, i) => p.at(lo + (width * i) / 200));
+          for (const v of probe) {
+            expect(v).toBeGreaterThanOrEqual(min - 1e-12);
+            expect(v).toBeLessThanOrEqual(max + 1e-12);
+          }
+          const inside = [lo, hi, ...zs.filter((z) => z > lo && z < hi)].map((z) => p.at(z));
+          expect(inside).toContain(min);
+          expect(inside).toContain(max);
+        },
+      ),
+      { seed: 20261204, numRuns: 300 },
+    );
   });
 });
