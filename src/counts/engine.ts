@@ -54,6 +54,7 @@ export interface SliceCount {
   zMax: number;
   volumeMpc3: number;
   count: number;
+  /** log10 L_lim, M_lim or the threshold at the slice's middle; Infinity where no line is seen there. */
   limitAtCenter: number;
   histogram: Histogram;
   /**
@@ -401,8 +402,11 @@ export function countPopulation(
     const zMid = 0.5 * (zMin + zMax);
     const lo = Math.max(zMin, population.window.min);
     const hi = Math.min(zMax, population.window.max);
-    // The limit at the slice's middle redshift (clamped into the population's window).
-    const zCenter = Math.min(Math.max(zMid, population.window.min), population.window.max);
+    // The limit at the slice's middle redshift or, where the population's window covers only part
+    // of the slice (explicit edges beyond a narrow-band window), at the middle of that part; a
+    // slice outside the window takes the window's nearer end. Infinite where the filter passes
+    // none of the population's lines there (the outputs write null).
+    const zCenter = hi > lo ? 0.5 * (lo + hi) : Math.min(Math.max(zMid, population.window.min), population.window.max);
     const center = observer.at(zCenter, populationAt(population, zCenter, options.offsets).characteristic);
     const limitAtCenter = center.limitInVariable;
     if (!(hi > lo)) {

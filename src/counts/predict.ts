@@ -157,6 +157,14 @@ function addLum(a: Lum | undefined, b: Lum | undefined): Lum | undefined {
   return out;
 }
 
+/**
+ * A slice's limit as the outputs write it: null where it is infinite, a narrow-band filter passing
+ * none of the population's lines at that redshift (no source is detected there).
+ */
+function limitOrNull(limit: number): number | null {
+  return Number.isFinite(limit) ? limit : null;
+}
+
 function toSlices(
   counts: SliceCount[],
   areaDeg2: number,
@@ -174,7 +182,7 @@ function toSlices(
       count: s.count,
       per_deg2: s.count / areaDeg2,
       cumulative_count: cumulative,
-      limit_at_center: s.limitAtCenter,
+      limit_at_center: limitOrNull(s.limitAtCenter),
       histogram: s.histogram,
     };
     if (trueCounts) slice.count_true_redshift = trueCounts[i]!;
@@ -484,7 +492,7 @@ function summedSlices(
       count,
       per_deg2: count / survey.areaDeg2,
       cumulative_count: cumulative,
-      limit_at_center: first.limitAtCenter,
+      limit_at_center: limitOrNull(first.limitAtCenter),
       histogram,
       population_counts: Object.fromEntries(runs.map((r, k) => [r.name, parts[k]!.count])),
     };

@@ -37,7 +37,7 @@ export interface LfFigureData {
   title: string;
   xLabel: string;
   magnitude: boolean;
-  curves: { z: number; x: number[]; phi: number[]; limit: number }[];
+  curves: { z: number; x: number[]; phi: number[]; limit: number | null }[];
 }
 
 export interface ExploreResult {

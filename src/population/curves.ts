@@ -22,8 +22,8 @@ export interface LuminosityFunctionCurve {
   x: number[];
   /** Number density per unit of x: Mpc^-3 dex^-1 (luminosity) or Mpc^-3 mag^-1 (magnitude). */
   phi: number[];
-  /** The limit at this redshift, in x. */
-  limit: number;
+  /** The limit at this redshift, in x; null where nothing is detected there (a narrow-band filter passing none of the lines). */
+  limit: number | null;
   /** log10 L* or M* at this redshift. */
   knee: number;
   /** Axis label with units. */
@@ -66,24 +66,25 @@ export function curveAxisLabel(p: Population, threshold: boolean): string {
 }
 
 /**
- * The luminosity function of `p` at redshift `z`, with the limit `limit` (log10 L, or M) marked.
+ * The luminosity function of `p` at redshift `z`, with the limit `limit` (log10 L, or M) marked;
+ * without a limit (null: nothing is detected at `z`) the curve spans its usual range below the knee.
  * Throws when the population's parameters are not finite there (the loader checks the window,
  * so this happens only for z outside it).
  */
 export function luminosityFunctionCurve(
   p: Population,
   z: number,
-  limit: number,
+  limit: number | null,
   options: CurveOptions = {},
 ): LuminosityFunctionCurve {
   const at = populationAt(p, z);
   const magnitude = p.variable === 'magnitude';
   const knee = magnitude ? at.characteristic : Math.log10(at.characteristic);
-  if (!Number.isFinite(knee) || !Number.isFinite(limit)) {
+  if (!Number.isFinite(knee) || (limit !== null && !Number.isFinite(limit))) {
     throw new Error(`luminosity function at z = ${z}: the knee or the limit is not a finite number`);
   }
   // Work in dex of luminosity: d = log10(L/L*); for magnitudes d = 0.4 (M* - M).
-  const limitDex = magnitude ? 0.4 * (knee - limit) : limit - knee;
+  const limitDex = limit === null ? 0 : magnitude ? 0.4 * (knee - limit) : limit - knee;
   const faintDex = Math.max(-MAX_DEX_BELOW_KNEE, Math.min(-DEX_BELOW_KNEE, limitDex - DEX_PAST_LIMIT));
   const brightDex = DEX_ABOVE_KNEE;
   const step = options.step ?? (magnitude ? 0.125 : 0.05);

@@ -663,7 +663,8 @@ export function luminosityFunctionRows(
         bandDraws = b.draws;
       }
     for (const r of rows) out.push({ ...base, kind: 'curve', x: r.x, phi: r.phi });
-    if (finite(c.limit)) {
+    // (no limit where the filter passes none of the lines at this redshift: nothing is detected)
+    if (c.limit !== null && finite(c.limit)) {
       const detected = detectedPart(rows, c.limit, magnitude);
       if (detected.length >= 2)
         for (const r of detected) out.push({ ...base, kind: 'detected', x: r.x, phi: r.phi, floor });

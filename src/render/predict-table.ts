@@ -101,15 +101,20 @@ export function sourcesSentence(
  * population, named, where they differ (another rest wavelength, spectral slope, blend or
  * attenuation moves a population's limit in its own variable).
  */
-function limitColumns(p: Prediction, slices: PredictionSlice[]): { name: string; at: (i: number) => number }[] {
+function limitColumns(p: Prediction, slices: PredictionSlice[]): { name: string; at: (i: number) => number | null }[] {
   const heading = LIMIT_HEADINGS[p.limit_variable] ?? 'limit';
   const shared = [{ name: heading, at: (i: number) => slices[i]!.limit_at_center }];
   if (p.populations.length < 2) return shared;
   const differ = p.populations.some((q) =>
-    q.slices.some((s, i) => sig(s.limit_at_center, 4) !== sig(slices[i]!.limit_at_center, 4)),
+    q.slices.some((s, i) => limitCell(s.limit_at_center) !== limitCell(slices[i]!.limit_at_center)),
   );
   if (!differ) return shared;
   return p.populations.map((q) => ({ name: `${heading} ${q.name}`, at: (i: number) => q.slices[i]!.limit_at_center }));
+}
+
+/** A slice's limit in the table: "-" where it is null (the filter passes none of the population's lines there). */
+function limitCell(limit: number | null): string {
+  return limit === null ? '-' : sig(limit, 4);
 }
 
 /** Redshift slices (the top level's, or one population's own) with a total row. */
@@ -118,7 +123,7 @@ function slicesTable(
   slices: PredictionSlice[],
   totals: PredictionTotals,
   columns: { name: string; slice: (s: PredictionSlice) => number; total: number }[],
-  limits: { name: string; at: (i: number) => number }[] = [
+  limits: { name: string; at: (i: number) => number | null }[] = [
     { name: LIMIT_HEADINGS[p.limit_variable] ?? 'limit', at: (i) => slices[i]!.limit_at_center },
   ],
 ): string {
@@ -139,7 +144,7 @@ function slicesTable(
     table.push([
       `${zText(s.z_min)} - ${zText(s.z_max)}`,
       sig(s.volume_mpc3, 3),
-      ...limits.map((l) => sig(l.at(i), 4)),
+      ...limits.map((l) => limitCell(l.at(i))),
       ...columns.map((c) => sig(c.slice(s), 4)),
       sig(s.count, 4),
       pm(s.count, s.uncertainty),
@@ -159,8 +164,14 @@ function slicesTable(
     sig(totals.per_deg2, 4),
     '',
   ]);
-  return table.toString();
+  const unseen = slices.some((_, i) => limits.some((l) => l.at(i) === null));
+  return unseen ? `${table.toString()}\n${NO_LIMIT_NOTE}` : table.toString();
 }
+
+const NO_LIMIT_NOTE =
+  "A limit '-': the filter passes none of the population's lines where the slice's limit is taken " +
+  "(its middle, or the population's window's nearer end for a slice beyond it): between a line's window and a blended line's, " +
+  'or where a tabulated filter is 0. Nothing is detected there; a count is that of the rest of the slice.';
 
 /**
  * A fraction as a percentage for the sentence: one decimal from 0.1 % up, two significant figures
@@ -415,7 +426,7 @@ export function predictionCsv(p: Prediction): string {
     s.z_min,
     s.z_max,
     s.volume_mpc3,
-    s.limit_at_center,
+    s.limit_at_center ?? '',
     ...(multi ? names.map((n) => s.population_counts?.[n] ?? 0) : []),
     ...(p.photo_z ? [s.count_true_redshift ?? 0] : []),
     s.count,

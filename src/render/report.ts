@@ -463,7 +463,7 @@ function predictTable(
         String(i + 1),
         `${formatZ(s.z_min)}–${formatZ(s.z_max)}`,
         formatScientific(s.volume_mpc3),
-        formatFixed(s.limit_at_center),
+        s.limit_at_center === null ? '—' : formatFixed(s.limit_at_center),
         formatNumber(s.count),
         formatNumber(s.per_deg2),
         formatNumber(cum),

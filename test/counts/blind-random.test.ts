@@ -108,7 +108,7 @@ describe('predict on random survey files equals a docs-only evaluation', () => {
         // with a spectrum, K(z) is tabulated to 1e-8 mag (docs/survey-file.md)
         check(
           `${sn} limit_at_center`,
-          gs.limit_at_center,
+          gs.limit_at_center ?? undefined,
           ws.limit_at_center,
           0,
           c.yaml.includes('sed:') ? 1e-8 : 1e-9,

@@ -94,7 +94,7 @@ describe('per dex, luminosity variable (closed form)', () => {
   });
 
   test('the grid covers the knee and runs down past the limit', () => {
-    expect(curve.x[0]).toBeLessThanOrEqual(Math.min(knee - DEX_BELOW_KNEE, curve.limit - 0.5) + 1e-9);
+    expect(curve.x[0]).toBeLessThanOrEqual(Math.min(knee - DEX_BELOW_KNEE, curve.limit! - 0.5) + 1e-9);
     expect(curve.x[curve.x.length - 1]).toBeCloseTo(knee + DEX_ABOVE_KNEE, 9);
   });
 
@@ -134,7 +134,7 @@ describe('per magnitude, magnitude variable (closed form)', () => {
     curve.x.forEach((x, i) =>
       expect(rel(curve.phi[i]!, schechterMagnitude(x, phiStar, mStar, alpha))).toBeLessThan(REL),
     );
-    expect(curve.x[curve.x.length - 1]!).toBeGreaterThan(curve.limit);
+    expect(curve.x[curve.x.length - 1]!).toBeGreaterThan(curve.limit!);
     expect(curve.x[0]!).toBeCloseTo(mStar - 2.5 * DEX_ABOVE_KNEE, 9);
   });
 });

@@ -38,13 +38,13 @@ describe('a submillimetre blank field at 850 um (a spectrum in f_nu, a flux-dens
 
   test('the negative k-correction: the limit in luminosity is flat from z = 1 to 6, and 1e12 Lsun gives 1-2 mJy', () => {
     // the absolute magnitude at rest 850 um of the faintest source counted, at each slice's middle
-    const beyondOne = slices.filter((s) => s.z_min >= 1).map((s) => s.limit_at_center);
+    const beyondOne = slices.filter((s) => s.z_min >= 1).map((s) => s.limit_at_center!);
     // within a factor of 2 (0.75 mag) from z = 1.5 to 5; skytally spans 0.09 mag
     expect(Math.max(...beyondOne) - Math.min(...beyondOne)).toBeLessThan(0.75);
     // a galaxy of L_IR(8-1000 um) = 1e12 Lsun with this spectrum has M = -25.347577632065654 AB at
     // rest 850 um (submm_counts.py); at z = 2.5 (the middle of the slice 2-3) its flux density is
     // 4 mJy 10^(-0.4 (M - M_lim)); submm_counts.py gives 1.6651383041744685 mJy
-    const mLim = slices.find((s) => s.z_min === 2)!.limit_at_center;
+    const mLim = slices.find((s) => s.z_min === 2)!.limit_at_center!;
     const mJy = 4 * 10 ** (-0.4 * (-25.347577632065654 - mLim));
     expect(rel(mJy, 1.6651383041744685)).toBeLessThan(1e-6);
     expect(mJy).toBeGreaterThan(1);

@@ -166,7 +166,7 @@ describe('luminosity-function figure', () => {
       expect(rows.filter((r) => r.kind === 'limit').map((r) => r.x)).toEqual([c.limit]);
       expect(rows.filter((r) => r.kind === 'knee').map((r) => [r.x, r.label])).toEqual([[c.knee, 'L*']]);
       const detected = rows.filter((r) => r.kind === 'detected');
-      expect(Math.min(...detected.map((r) => r.x))).toBeCloseTo(c.limit, 12);
+      expect(Math.min(...detected.map((r) => r.x))).toBeCloseTo(c.limit!, 12);
     });
   });
 
@@ -193,7 +193,7 @@ describe('luminosity-function figure', () => {
     for (const s of p.slices) {
       const c = s.luminosity_function!;
       c.x = c.x.map((lx) => -2.5 * lx + 85);
-      c.limit = -2.5 * c.limit + 85;
+      c.limit = -2.5 * c.limit! + 85;
       c.knee = -2.5 * c.knee + 85;
       c.x_label = '';
     }
@@ -204,7 +204,7 @@ describe('luminosity-function figure', () => {
     expect(line.encoding.y.title).toBe('φ [Mpc⁻³ mag⁻¹]');
     expect(line.encoding.x.title).toBe('absolute AB magnitude M [mag]');
     const detected = values.filter((r) => r.kind === 'detected');
-    expect(Math.max(...detected.map((r) => r.x))).toBeCloseTo(p.slices[0]!.luminosity_function!.limit, 12);
+    expect(Math.max(...detected.map((r) => r.x))).toBeCloseTo(p.slices[0]!.luminosity_function!.limit!, 12);
   });
 });
 

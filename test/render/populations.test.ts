@@ -188,8 +188,8 @@ slices: {count: 3}
       .split('│')
       .map((c) => c.trim());
     // the columns read each population's own limit_at_center (4 significant figures)
-    expect(Number(row[3])).toBeCloseTo(q.populations[0]!.slices[0]!.limit_at_center, 2);
-    expect(Number(row[4])).toBeCloseTo(q.populations[1]!.slices[0]!.limit_at_center, 2);
+    expect(Number(row[3])).toBeCloseTo(q.populations[0]!.slices[0]!.limit_at_center!, 2);
+    expect(Number(row[4])).toBeCloseTo(q.populations[1]!.slices[0]!.limit_at_center!, 2);
     expect(Math.abs(Number(row[3]) - Number(row[4]))).toBeGreaterThan(0.1);
   });
 

@@ -88,12 +88,12 @@ describe("a population's beta against the published power-law K(z) (Hogg et al. 
     expect(slices.map((s) => (s.z_min + s.z_max) / 2)).toEqual([0.5, 0.7, 1.0]);
     for (const s of slices) {
       const z = (s.z_min + s.z_max) / 2;
-      expect(Math.abs(s.limit_at_center - (24.5 - kOfFormula(z, 7700, 4400, 1)))).toBeLessThan(1e-9);
+      expect(Math.abs(s.limit_at_center! - (24.5 - kOfFormula(z, 7700, 4400, 1)))).toBeLessThan(1e-9);
     }
     // A keeps detection.beta = -2 (its colour term vanishes)
     for (const s of multi.populations[0]!.slices) {
       const z = (s.z_min + s.z_max) / 2;
-      expect(Math.abs(s.limit_at_center - (24.5 - kOfFormula(z, 7700, 1600, -2)))).toBeLessThan(1e-9);
+      expect(Math.abs(s.limit_at_center! - (24.5 - kOfFormula(z, 7700, 1600, -2)))).toBeLessThan(1e-9);
     }
   });
 
@@ -114,7 +114,7 @@ describe("a population's beta against the published power-law K(z) (Hogg et al. 
     // M_lim = limit - K, K holding -2.5 log10 <T>: the difference with and without the IGM is 2.5 log10 <T>(z, beta)
     got.populations[1]!.slices.forEach((s, i) => {
       const z = (s.z_min + s.z_max) / 2;
-      const dM = s.limit_at_center - noIgm.populations[1]!.slices[i]!.limit_at_center;
+      const dM = s.limit_at_center! - noIgm.populations[1]!.slices[i]!.limit_at_center!;
       expect(Math.abs(dM - 2.5 * Math.log10(bandAveragedMadau1995(table, z, 1)))).toBeLessThan(1e-9);
       // a weighting by detection.beta would differ here, where Lyman alpha is inside the band
       expect(Math.abs(dM - 2.5 * Math.log10(bandAveragedMadau1995(table, z, -2)))).toBeGreaterThan(1e-4);
@@ -166,7 +166,7 @@ describe('a redder population is brighter where the band is redder than its rest
       expect(expected).not.toBe(0);
       expect(Math.sign(s.count - flat.slices[i]!.count), `slice at z = ${z}`).toBe(expected);
       // the limit in M moves by -dK exactly
-      expect(Math.abs(s.limit_at_center - flat.slices[i]!.limit_at_center + dK)).toBeLessThan(1e-9);
+      expect(Math.abs(s.limit_at_center! - flat.slices[i]!.limit_at_center! + dK)).toBeLessThan(1e-9);
     });
   });
 });

@@ -171,12 +171,12 @@ describe('a power law written as a file gives the power-law K(z) (Hogg et al. 20
     expect(slices.map((s) => (s.z_min + s.z_max) / 2)).toEqual([0.5, 0.7, 1.0]);
     for (const s of slices) {
       const z = (s.z_min + s.z_max) / 2;
-      expect(Math.abs(s.limit_at_center - (24.5 - kOfFormula(z, 7700, 4400, 1)))).toBeLessThan(1e-9);
+      expect(Math.abs(s.limit_at_center! - (24.5 - kOfFormula(z, 7700, 4400, 1)))).toBeLessThan(1e-9);
     }
     // A keeps the detection's power law, beta = -2
     for (const s of multi.populations[0]!.slices) {
       const z = (s.z_min + s.z_max) / 2;
-      expect(Math.abs(s.limit_at_center - (24.5 - kOfFormula(z, 7700, 1600, -2)))).toBeLessThan(1e-9);
+      expect(Math.abs(s.limit_at_center! - (24.5 - kOfFormula(z, 7700, 1600, -2)))).toBeLessThan(1e-9);
     }
   });
 

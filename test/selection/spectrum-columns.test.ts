@@ -74,12 +74,12 @@ describe('spectrum files in f_nu and nu f_nu', () => {
       write('flat-nufnu.csv', 'wavelength_um, nu_f_nu', (um) => 1 / um),
     ]) {
       const p = run(file);
-      p.slices!.forEach((s, i) => expect(Math.abs(s.limit_at_center - flat[i]!.limit_at_center)).toBeLessThan(1e-5));
+      p.slices!.forEach((s, i) => expect(Math.abs(s.limit_at_center! - flat[i]!.limit_at_center!)).toBeLessThan(1e-5));
     }
     // read as f_lambda (as every file was before), the flat column is beta = 0, which needs
     // sources 5 log10(1 + z) mag brighter: the limit at z = 3.25 is 3.1 mag brighter
     const asLambda = run(write('flat-flambda.csv', 'wavelength_um, f_lambda', () => 1)).slices!;
-    expect(flat[2]!.limit_at_center - asLambda[2]!.limit_at_center).toBeGreaterThan(2);
+    expect(flat[2]!.limit_at_center! - asLambda[2]!.limit_at_center!).toBeGreaterThan(2);
   });
 
   test('a modified blackbody given as f_nu counts as the same spectrum converted to f_lambda', () => {

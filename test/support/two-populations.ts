@@ -46,7 +46,7 @@ export function expectSameCounts(multi: Prediction, k: number, single: Predictio
   own.slices.forEach((s, i) => {
     const t = single.slices![i]!;
     expect(rel(s.count, t.count)).toBeLessThanOrEqual(tol);
-    expect(rel(s.limit_at_center, t.limit_at_center)).toBeLessThanOrEqual(tol);
+    expect(rel(s.limit_at_center!, t.limit_at_center!)).toBeLessThanOrEqual(tol);
     expect(s.histogram.edges).toEqual(t.histogram.edges);
     s.histogram.counts.forEach((c, j) => expect(rel(c, t.histogram.counts[j]!)).toBeLessThanOrEqual(tol));
   });

@@ -109,7 +109,7 @@ export function lfSvg(f: LfFigureData): string {
         .map(([xv, p], i) => `${i === 0 ? 'M' : 'L'}${f1(x(xv))} ${f1(y(Math.log10(p)))}`)
         .join('');
       const lim =
-        c.limit >= Math.min(xLo, xHi) && c.limit <= Math.max(xLo, xHi)
+        c.limit !== null && c.limit >= Math.min(xLo, xHi) && c.limit <= Math.max(xLo, xHi)
           ? `<line x1="${f1(x(c.limit))}" x2="${f1(x(c.limit))}" y1="${M.top}" y2="${H - M.bottom}" stroke="${colour}" stroke-dasharray="4 3"/>`
           : '';
       return `<path d="${d}" fill="none" stroke="${colour}" stroke-width="1.5"><title>z = ${sig(c.z, 4)}</title></path>${lim}`;
