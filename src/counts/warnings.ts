@@ -5,7 +5,7 @@
  */
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
-import { bandRedEdgeAngstrom, LYMAN_ALPHA_ANGSTROM } from '../selection/igm.js';
+import { bandRedEdgeAngstrom, LYMAN_ALPHA_ANGSTROM, LYMAN_LIMIT_ANGSTROM } from '../selection/igm.js';
 import { warning, type Warning } from '../warnings.js';
 import { precise } from '../render/format.js';
 import { completenessFunction } from '../selection/completeness.js';
@@ -37,17 +37,28 @@ export function predictionWarnings(survey: Survey, populations: readonly Populat
           d.bandTable || sedBand
             ? 'the whole band (to its red edge at ' + fmtNum(red) + ' A)'
             : 'the band (effective wavelength ' + fmtNum(red) + ' A)';
+        // a band observed below the Lyman limit, where no survey of galaxies observes: most likely
+        // wavelengths in um or nm read as Angstrom, which no intergalactic attenuation would mend
+        const below = `${d.bandTable || sedBand ? 'its red edge' : 'it'} lies below the Lyman limit (${LYMAN_LIMIT_ANGSTROM} A) even at z = 0, where no survey of galaxies observes: `;
+        const advice =
+          red < LYMAN_LIMIT_ANGSTROM
+            ? below +
+              (d.bandTable
+                ? "the band file's wavelengths are read in Angstrom unless its header names the unit; if they are in um or nm, name it in a header line (wavelength_um, transmission or wavelength_nm, transmission)"
+                : sedBand
+                  ? `the band's center and fwhm written as plain numbers are in Angstrom; give a wavelength in um or nm with its unit (center: "${fmtNum(sedBand.centerAngstrom)} nm")`
+                  : `a plain number is a wavelength in Angstrom; give a wavelength in um or nm with its unit (band: "${fmtNum(d.bandAngstrom)} um")`)
+            : d.igm === 'madau1995'
+              ? sed
+                ? 'the counts there include the Madau 1995 mean intergalactic transmission, applied to the spectrum inside the band'
+                : 'the counts there include the Madau 1995 mean intergalactic transmission, and the power-law spectrum is extrapolated below 1216 A'
+              : sed
+                ? "no intergalactic attenuation is applied there (detection.igm is none; the spectrum's own features are all that dims it), so those counts are too high; consider igm: madau1995"
+                : 'no intergalactic attenuation is applied there (detection.igm is none), so those counts are too high; consider igm: madau1995';
         out.push(
           warning(
             'band_blueward_of_lyman_alpha',
-            `${p.name}: at z > ${fmtNum(from)} (its window is z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)}) ${what} lies blueward of rest-frame Lyman alpha (1216 A); ` +
-              (d.igm === 'madau1995'
-                ? sed
-                  ? 'the counts there include the Madau 1995 mean intergalactic transmission, applied to the spectrum inside the band'
-                  : 'the counts there include the Madau 1995 mean intergalactic transmission, and the power-law spectrum is extrapolated below 1216 A'
-                : sed
-                  ? "no intergalactic attenuation is applied there (detection.igm is none; the spectrum's own features are all that dims it), so those counts are too high; consider igm: madau1995"
-                  : 'no intergalactic attenuation is applied there (detection.igm is none), so those counts are too high; consider igm: madau1995'),
+            `${p.name}: at z > ${fmtNum(from)} (its window is z = ${fmtNum(p.window.min)} to ${fmtNum(p.window.max)}) ${what} lies blueward of rest-frame Lyman alpha (1216 A); ${advice}`,
           ),
         );
       }

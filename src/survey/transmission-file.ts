@@ -17,6 +17,9 @@ import { excerpt, inputError } from '../errors.js';
 import type { InputFile } from '../model/survey.js';
 import type { TransmissionTable } from '../model/detection.js';
 import { MAX_TABLE_BYTES, readInputText } from './read-input.js';
+import { RANGES } from '../model/limits.js';
+import { tableMeanWavelength } from '../selection/filter.js';
+import { precise } from '../render/format.js';
 
 const UNIT_SCALE: Record<string, number> = { '': 1, _angstrom: 1, _nm: 10, _um: 1e4 };
 
@@ -48,7 +51,22 @@ export function readTransmissionFile(
   );
   const peak = Math.max(...t.values);
   if (!(peak > 0)) t.bad('has no transmission above 0', 'check the second column');
-  return { file: path, wavelengthAngstrom: t.wavelengthAngstrom, transmission: t.values.map((v) => v / peak) };
+  const table = { file: path, wavelengthAngstrom: t.wavelengthAngstrom, transmission: t.values.map((v) => v / peak) };
+  // the curve's wavelength (a band's effective wavelength, a filter's center) must lie in the range
+  // a wavelength written as a number may have, as band: 0.9 is refused; a table in um or nm without
+  // its header is read in Angstrom (0.78 to 1.03 um read as 0.78 to 1.03 Angstrom, an X-ray band)
+  const mean = tableMeanWavelength(table);
+  const range = RANGES.wavelength;
+  if (!(mean >= range.min && mean <= range.max)) {
+    const w = t.wavelengthAngstrom;
+    t.bad(
+      `has its transmission-weighted mean wavelength at ${precise(mean, 4)} Angstrom (rows from ${precise(w[0]!, 4)} to ${precise(w[w.length - 1]!, 4)} Angstrom), outside the range of a wavelength (from ${range.min} to ${range.max} Angstrom)`,
+      !t.unitNamed
+        ? 'a table without a unit in its header is read in Angstrom: if its wavelengths are in um or nm, name the unit in a header line (wavelength_um, transmission or wavelength_nm, transmission)'
+        : 'check the wavelength column and the unit its header names',
+    );
+  }
+  return table;
 }
 
 /**
@@ -59,6 +77,8 @@ export interface WavelengthTable {
   wavelengthAngstrom: number[];
   values: number[];
   valueHeader?: string;
+  /** Whether a header named the wavelength unit (wavelength_angstrom, _nm or _um), not left it to the default Angstrom. */
+  unitNamed: boolean;
   bad(what: string, fix: string): never;
 }
 
@@ -93,6 +113,7 @@ export function readWavelengthTable(
   let seenRow = false;
   let headerSeen = false;
   let valueHeader: string | undefined;
+  let unitNamed = false;
   const wl: number[] = [];
   const tr: number[] = [];
   const lines = text.split(/\r?\n/);
@@ -112,6 +133,7 @@ export function readWavelengthTable(
         );
       }
       scale = UNIT_SCALE[m![1] ?? '']!;
+      unitNamed = m![1] !== undefined;
       if (cells[1] !== undefined) valueHeader = cells[1].toLowerCase();
       return;
     }
@@ -142,5 +164,5 @@ export function readWavelengthTable(
   });
   if (wl.length < 2)
     bad(`holds ${wl.length} row${wl.length === 1 ? '' : 's'}`, `give at least two rows of wavelength, ${kind.column}`);
-  return { wavelengthAngstrom: wl, values: tr, ...(valueHeader !== undefined ? { valueHeader } : {}), bad };
+  return { wavelengthAngstrom: wl, values: tr, ...(valueHeader !== undefined ? { valueHeader } : {}), unitNamed, bad };
 }
