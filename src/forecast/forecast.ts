@@ -7,6 +7,7 @@
  * 3. Optionally mock surveys fitted by maximum likelihood (mocks.ts) and the area / limit that
  *    reaches target sigmas (requirement.ts).
  */
+import { cosmologyJsonOf } from '../model/cosmology-json.js';
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
 import type { Survey } from '../model/survey.js';
 import { describeModel } from '../population/describe.js';
@@ -244,6 +245,7 @@ export async function forecast(file: Survey, opts: ForecastOptions = {}): Promis
   const out: Forecast = {
     format: 1,
     title: survey.title,
+    cosmology: cosmologyJsonOf(survey.cosmology),
     model: describeModel(survey, population),
     caveat: CAVEAT,
     area_deg2: survey.areaDeg2,

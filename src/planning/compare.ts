@@ -9,6 +9,7 @@
  * Schechter function); a note says so.
  */
 import { FlatCosmology } from '../cosmology/flat-cosmology.js';
+import { cosmologyJsonOf } from '../model/cosmology-json.js';
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { predict } from '../counts/predict.js';
@@ -128,6 +129,7 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
       title: survey.title,
       file: survey.file,
       population: population.name,
+      cosmology: cosmologyJsonOf(survey.cosmology),
       model: describeModel(survey, population),
       area_deg2: survey.areaDeg2,
       redshift: { ...survey.redshift },
@@ -195,6 +197,16 @@ export async function compare(surveys: Survey[], opts: CompareOptions = {}): Pro
       out.map((s) => s.sigma[n]),
       false,
     );
+  // Files of different cosmologies: their volumes, counts and sigmas differ partly for that reason.
+  if (new Set(out.map((s) => JSON.stringify(s.cosmology))).size > 1) {
+    const said = (c: ComparedSurvey['cosmology']): string =>
+      `H0 = ${sig(c.h0)}, Omega_m = ${sig(c.omega_m)}, T_cmb = ${sig(c.t_cmb, 6)} K` +
+      (c.sigma8 !== undefined ? `, sigma8 = ${sig(c.sigma8)}` : '') +
+      (c.preset ? ` (preset ${c.preset})` : '');
+    notes.push(
+      `The files assume different cosmologies (${out.map((s, j) => `[${j + 1}] ${said(s.cosmology)}`).join('; ')}): their volumes, counts, cosmic variance and sigmas differ partly for that reason, not only for the survey designs.`,
+    );
+  }
   if (out.some((s) => s.exposure_hours === undefined) && out.some((s) => s.exposure_hours !== undefined)) {
     notes.push('Some files give no exposure, so their cost is not shown.');
   }

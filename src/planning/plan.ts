@@ -7,6 +7,7 @@
 import type { Population } from '../model/population.js';
 import type { Survey } from '../model/survey.js';
 import { describeModel } from '../population/describe.js';
+import { cosmologyJsonOf } from '../model/cosmology-json.js';
 import type { Plan, PlanDesign } from '../model/outputs/plan.js';
 import { inputError } from '../errors.js';
 import type { PlanSpec } from '../model/plan.js';
@@ -316,6 +317,7 @@ export async function planDesigns(
   const out: Plan = {
     format: 1,
     title: survey.title,
+    cosmology: cosmologyJsonOf(survey.cosmology),
     population: population.name,
     model: describeModel(survey, population),
     caveat: PLAN_CAVEAT,

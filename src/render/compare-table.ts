@@ -3,6 +3,7 @@ import Table from 'cli-table3';
 import { limitText, parameterWords, sig, wrapWords, zText } from './format.js';
 import { csvText, type CsvCell } from './csv.js';
 import { givenUnitLimitText } from './detection-text.js';
+import { cosmologyLine } from './predict-table.js';
 import type { ComparedSurvey, Comparison } from '../model/outputs/compare.js';
 
 interface RowDef {
@@ -98,6 +99,11 @@ export function compareTable(c: Comparison): string {
     '* best value in the row, on every value that ties for it (larger area, deeper limit, more sources, smaller fractions and sigmas, less time).',
   ];
   c.surveys.forEach((s, i) => lines.push(`[${i + 1}] ${s.file || s.title}: ${s.model.summary}`));
+  // the cosmology once when every file assumes the same, else each file's
+  const cosmologies = new Set(c.surveys.map((s) => JSON.stringify(s.cosmology)));
+  if (cosmologies.size === 1 && c.surveys.length > 0)
+    lines.push(`Cosmology: ${cosmologyLine(c.surveys[0]!.cosmology)}`);
+  else c.surveys.forEach((s, i) => lines.push(`[${i + 1}] cosmology: ${cosmologyLine(s.cosmology)}`));
   if (c.surveys.some((s) => Object.keys(s.sigma).length > 0))
     lines.push(
       c.cosmic_variance

@@ -3,6 +3,7 @@ import Table from 'cli-table3';
 import { digitsBeside, sig, zText } from './format.js';
 import { csvText, type CsvCell } from './csv.js';
 import { givenUnitLimitText } from './detection-text.js';
+import { cosmologyLine } from './predict-table.js';
 import type { Forecast } from '../model/outputs/forecast.js';
 
 /** A value beside its spread, with digitsBeside's digits (at least 5). */
@@ -14,6 +15,7 @@ export function forecastTable(f: Forecast): string {
   const lines: string[] = [
     f.title,
     `Survey: ${sig(f.area_deg2)} deg^2, z = ${zText(f.redshift.min)} to ${zText(f.redshift.max)}, ${sig(f.count, 5)} sources expected`,
+    `Cosmology: ${cosmologyLine(f.cosmology)}`,
     `Assumed model: ${f.model.summary}`,
     `Parameters: constant offsets at every z to ${f.parameters.join(', ')} (input values at z = ${zText(0.5 * (f.model.window.min + f.model.window.max))})`,
     f.cosmic_variance

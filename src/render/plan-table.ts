@@ -3,6 +3,7 @@ import Table from 'cli-table3';
 import { goalWords, limitText, ordinal, parameterWords, precise, sig } from './format.js';
 import { csvText, type CsvCell } from './csv.js';
 import { givenUnitLimitText } from './detection-text.js';
+import { cosmologyLine } from './predict-table.js';
 import type { Plan, PlanDesign } from '../model/outputs/plan.js';
 
 function goalText(p: Plan): string {
@@ -69,6 +70,7 @@ export function planTable(p: Plan): string {
     p.title,
     `Goal: ${goalText(p)}; budget ${sig(p.budget_hours)} h, ${sig(p.overhead_hours)} h overhead per pointing, ${sig(p.field_of_view_deg2, 4)} deg^2 per pointing`,
     `Depth law: ${depthLawText(p)}`,
+    `Cosmology: ${cosmologyLine(p.cosmology)}`,
     `Assumed model: ${p.model.summary}`,
   ];
   const head = [

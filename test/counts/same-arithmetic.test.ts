@@ -83,9 +83,19 @@ describe('hot functions compiled once: the same numbers bit for bit (e1057c7)', 
     // the report's forecast part moved (39 numbers, by at most 2.0e-13 relative), nothing else.
     // Recorded again for one level-1 table per population (see the predict digest above): the
     // prediction's draws moved (100 numbers, by at most 2.8e-14 relative), nothing else
-    const doc = JSON.parse(r.stdout) as { plan: { robust: { agreement?: unknown } } };
+    // forecast.cosmology and plan.cosmology came later too (the forecast and the plan restate the
+    // cosmology: test/cli/cosmology-restated.test.ts); each equals the prediction's, which is counted.
+    const doc = JSON.parse(r.stdout) as {
+      prediction: { cosmology: unknown };
+      forecast: { cosmology?: unknown };
+      plan: { cosmology?: unknown; robust: { agreement?: unknown } };
+    };
     expect(doc.plan.robust.agreement).toBeDefined();
     delete doc.plan.robust.agreement;
+    expect(doc.forecast.cosmology).toEqual(doc.prediction.cosmology);
+    expect(doc.plan.cosmology).toEqual(doc.prediction.cosmology);
+    delete doc.forecast.cosmology;
+    delete doc.plan.cosmology;
     expect(digest(doc)).toBe('e54f94134f79e6dbaa99ed64b3d8530ab176e8e2b54a5131faff89809ee2b9e3');
   });
 

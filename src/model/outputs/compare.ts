@@ -1,6 +1,6 @@
 /* Generated from specs/compare.schema.json by scripts/generate-output-types.ts: do not edit (run `npx tsx scripts/generate-output-types.ts`). */
 import type { Warning } from '../../warnings.js';
-import type { ModelDescription, RedshiftRange } from './shared.js';
+import type { CosmologyBlock, ModelDescription, RedshiftRange } from './shared.js';
 
 /**
  * Survey files side by side (skytally compare). One entry per file, in the order given. `best` maps a row name (sigma rows as sigma.NAME) to the indices (from 0) of the surveys with the best value: several when their values tie (equal to 1e-9 relative); a row where fewer than two surveys have a value has no entry.
@@ -29,6 +29,7 @@ export interface ComparedSurvey {
   title: string;
   file: string;
   population: string;
+  cosmology: CosmologyBlock;
   model: ModelDescription;
   area_deg2: number;
   redshift: RedshiftRange;

@@ -1,6 +1,6 @@
 /* Generated from specs/forecast.schema.json by scripts/generate-output-types.ts: do not edit (run `npx tsx scripts/generate-output-types.ts`). */
 import type { Warning } from '../../warnings.js';
-import type { ModelDescription, RedshiftRange } from './shared.js';
+import type { CosmologyBlock, ModelDescription, RedshiftRange } from './shared.js';
 
 export type Matrix = number[][];
 
@@ -10,6 +10,7 @@ export type Matrix = number[][];
 export interface Forecast {
   format: 1;
   title: string;
+  cosmology: CosmologyBlock;
   model: ModelDescription;
   /**
    * A forecast is only as good as the luminosity function assumed.

@@ -1,6 +1,6 @@
 /* Generated from specs/plan.schema.json by scripts/generate-output-types.ts: do not edit (run `npx tsx scripts/generate-output-types.ts`). */
 import type { Warning } from '../../warnings.js';
-import type { ModelDescription } from './shared.js';
+import type { CosmologyBlock, ModelDescription } from './shared.js';
 
 /**
  * Designs that spend a time budget (skytally plan). Hours per pointing, areas in deg^2, limits in limit_variable (apparent AB magnitude or line flux in erg/s/cm^2). For a tiered design the top-level exposure and limit are those of its deepest tier; pointings, area and count are totals.
@@ -8,6 +8,7 @@ import type { ModelDescription } from './shared.js';
 export interface Plan {
   format: 1;
   title: string;
+  cosmology: CosmologyBlock;
   population: string;
   model: ModelDescription;
   caveat: string;
