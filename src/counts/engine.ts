@@ -403,9 +403,10 @@ export function countPopulation(
     const lo = Math.max(zMin, population.window.min);
     const hi = Math.min(zMax, population.window.max);
     // The limit at the slice's middle redshift or, where the population's window covers only part
-    // of the slice (explicit edges beyond a narrow-band window), at the middle of that part; a
-    // slice outside the window takes the window's nearer end. Infinite where the filter passes
-    // none of the population's lines there (the outputs write null).
+    // of the slice, at the middle of that part (a population's slices lie inside its window: the
+    // loader cuts explicit edges at its ends); a slice outside the window (a window outside the
+    // edges) takes the window's nearer end. Infinite where the filter passes none of the
+    // population's lines there (the outputs write null).
     const zCenter = hi > lo ? 0.5 * (lo + hi) : Math.min(Math.max(zMid, population.window.min), population.window.max);
     const center = observer.at(zCenter, populationAt(population, zCenter, options.offsets).characteristic);
     const limitAtCenter = center.limitInVariable;

@@ -1072,7 +1072,7 @@ function readSlices(
   if (raw.slices?.edges) {
     sliceEdgesZ = sliceEdges(raw.slices, hull, file);
     window = { min: sliceEdgesZ[0]!, max: sliceEdgesZ[sliceEdgesZ.length - 1]! };
-    ownEdges = windows.map(() => sliceEdgesZ);
+    ownEdges = windows.map((w) => edgesInWindow(sliceEdgesZ, w));
   } else {
     sliceEdgesZ = sliceEdges(raw.slices, window, file);
     ownEdges = windows.map((w, i) => (i === 0 ? sliceEdgesZ : sliceEdges(raw.slices, w, file)));
@@ -1090,6 +1090,24 @@ function readSlices(
     );
   }
   return { window, edges: sliceEdgesZ, own: ownEdges };
+}
+
+/**
+ * A population's own slices on the file's explicit edges: those edges cut at the ends of its
+ * window, so that a slice the window covers only in part (several lines through one filter, the
+ * edges spanning every window) is that part, with its own volume, limit and cosmic-variance box,
+ * as a file holding the population alone would give (its edges must lie inside its window), and
+ * slices wholly outside are left out. An inner edge within SLICE_REMAINDER of a cut end is dropped
+ * (its sliver joins the next slice). A window wholly outside the edges keeps them all (it counts
+ * 0 and is warned about: population_outside_slices).
+ */
+function edgesInWindow(edges: number[], w: Window): number[] {
+  const lo = Math.max(edges[0]!, w.min);
+  const hi = Math.min(edges[edges.length - 1]!, w.max);
+  if (!(hi > lo)) return edges;
+  if (lo === edges[0] && hi === edges[edges.length - 1]) return edges;
+  const inner = edges.filter((e) => e > lo + SLICE_REMAINDER && e < hi - SLICE_REMAINDER);
+  return [lo, ...inner, hi];
 }
 
 /** The smallest window holding every window. */

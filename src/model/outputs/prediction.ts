@@ -311,7 +311,7 @@ export interface PredictionSlice {
   per_deg2: number;
   cumulative_count: number;
   /**
-   * the limit in the population's variable at the slice's middle redshift (see limit_variable); for a population whose window covers only part of the slice, at the middle of that part; null where a narrow-band filter passes none of the population's lines there (between a line's window and a blended line's, or where a tabulated filter is 0), so that no source is detected at that redshift
+   * the limit in the population's variable at the slice's middle redshift (see limit_variable; for a population whose window lies outside the file's explicit edges, at the window's nearer end); null where a narrow-band filter passes none of the population's lines there (between a line's window and a blended line's, or where a tabulated filter is 0), so that no source is detected at that redshift
    */
   limit_at_center: number | null;
   uncertainty?: UncertaintyBlock;

@@ -8,9 +8,9 @@ skytally):
   outside); with blended lines the measured flux is L (T(l0 (1 + z)) + sum_i r_i T(l_i (1 + z)))
   / (4 pi D_L^2), so the limit in the line's own luminosity at z is
   log10 L_lim = log10(4 pi D_L^2 F_lim / (T_0 + sum_i r_i T_i)), and none where that sum is 0;
-- a population's window is where one of its lines is inside the filter; a slice's limit is taken
-  at its middle or, for a slice only partly inside the window, at the middle of that part, and a
-  slice beyond the window at the window's nearer end;
+- a population's window is where one of its lines is inside the filter; on a file's explicit slice
+  edges a population's slices are those edges cut at its window's ends (slices wholly outside left
+  out); a slice's limit is taken at its middle;
 - the count is area x int dz dV/dz phi* int_{x_lim}^inf t^alpha e^-t dt over the slice's part in
   the window (cut where each line meets a filter edge or row).
 Comoving distance and dV/dz by scipy.integrate.quad (epsrel 1e-13), the Schechter integral by
@@ -81,6 +81,8 @@ def population_case(filt, knots, flux, area, pop, edges):
         x = 4 * np.pi * d_l_cm(z) ** 2 * flux / t / l_star
         return phi * integrate.quad(lambda u: u**alpha * np.exp(-u), x, np.inf, epsabs=0, epsrel=1e-12, limit=200)[0]
 
+    lo, hi = max(edges[0], w_min), min(edges[-1], w_max)
+    edges = [lo] + [x for x in edges if lo + 1e-6 < x < hi - 1e-6] + [hi]
     out = []
     for a, b in zip(edges[:-1], edges[1:]):
         lo, hi = max(a, w_min), min(b, w_max)
@@ -111,7 +113,7 @@ ROWS = [[9100, 0.0], [9140, 0.55], [9200, 0.86], [9260, 0.78], [9300, 0.08], [93
 f2, k2 = table(ROWS)
 HA = {"line": 6562.8, "log10_phi_star": -2.65, "log10_l_star": 41.6, "alpha": -1.35}
 OII = {"line": 3727.4, "log10_phi_star": -2.5, "log10_l_star": 42.0, "alpha": -1.3}
-edges2 = [0.39, 0.9, 1.5]
+edges2 = [0.39, 0.41, 0.9, 1.47, 1.5]
 case2 = {name: population_case(f2, k2, 2.5e-17, 1.8, p, edges2) for name, p in (("H-alpha", HA), ("[OII]", OII))}
 
 print(json.dumps({"narrow_tophat_blend": case1, "table_edges": {"rows": ROWS, "edges": edges2, "populations": case2}}, indent=1))
