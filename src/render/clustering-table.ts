@@ -4,10 +4,19 @@ import { cosmologyLine } from './predict-table.js';
 import { sig } from './format.js';
 import { csvText } from './csv.js';
 
+/**
+ * The keys of a row's radii or masses in increasing value: an object keeps integer-like keys
+ * ("8", "30") ahead of the others ("8.5", "1e12") whatever order they were given in, so that
+ * --radius-mpc 30,8.5,8 came out as 8, 30, 8.5 (found by a trial user).
+ */
+function increasing(block: Record<string, number>): string[] {
+  return Object.keys(block).sort((a, b) => Number(a) - Number(b));
+}
+
 export function clusteringText(t: ClusteringTable): string {
   const first = t.rows[0]!;
-  const rKeys = Object.keys(first.sigma_r);
-  const mKeys = Object.keys(first.halo_bias);
+  const rKeys = increasing(first.sigma_r);
+  const mKeys = increasing(first.halo_bias);
   const head = [
     'z',
     'growth D',
@@ -34,8 +43,8 @@ export function clusteringText(t: ClusteringTable): string {
 
 export function clusteringCsv(t: ClusteringTable): string {
   const first = t.rows[0]!;
-  const rKeys = Object.keys(first.sigma_r);
-  const mKeys = Object.keys(first.halo_bias);
+  const rKeys = increasing(first.sigma_r);
+  const mKeys = increasing(first.halo_bias);
   return csvText(
     [
       'z',
