@@ -41,6 +41,8 @@ export const WARNING_CODES = {
     'the completeness curve is below 1 % at the detection limit: the counts follow the curve, and a fainter limit adds almost nothing',
   line_below_lyman_limit:
     "a population's line is shorter than the Lyman limit (912 Angstrom), where no galaxy's line is seen (e.g. a wavelength in nm written as a plain number)",
+  rest_wavelength_below_lyman_limit:
+    "a magnitude population's rest_wavelength is shorter than the Lyman limit (912 Angstrom), where no galaxy's luminosity function is measured (e.g. a wavelength in nm written as a plain number)",
   radio_spectrum_steep:
     'a magnitude survey in a radio band (1 mm or longer) has beta above -1, a spectrum steeper than f_nu ~ nu^-1 (e.g. a spectral index -0.7 written as beta, which is -1.3)',
   redshift_integral_unconverged:

@@ -18,6 +18,10 @@
  *    read in Angstrom ("line: 656.3" through a 1.2-1.9 um grism is seen at z = 17 to 28); likewise
  *    each line of blended_lines (one warning per line, naming it: "blended_lines: [{line: 654.8}]",
  *    [NII] in nm, would add its flux, and find sources by it alone, at z = 17 to 28);
+ *  - rest_wavelength_below_lyman_limit: a magnitude survey's population has its rest_wavelength
+ *    below the Lyman limit, where no galaxy's luminosity function is measured: most likely nm or um
+ *    written as a plain number (rest_wavelength: 150 for 150 nm, read as 150 Angstrom, puts M* a
+ *    decade blueward of where it was measured: with beta = -1.7 the limit moves by 0.75 mag);
  *  - blend_ratio_through_filter: a line search through a filter with a population's blend_ratio,
  *    which takes the blended lines at the line's own transmission, where blended_lines places each
  *    at its own wavelength (a HiZELS-like top hat counts 6-12 % more with the ratio:
@@ -69,6 +73,18 @@ export function selectionWarnings(survey: Survey): Warning[] {
   }
   for (const p of survey.populations) {
     const { min, max } = p.window;
+    // a rest wavelength below the Lyman limit, where no luminosity function is measured: most likely
+    // nm or um written as a plain number (rest_wavelength: 150 for 150 nm is read as 150 Angstrom)
+    if (d.kind === 'magnitude' && !p.restBand && p.restWavelengthAngstrom < LYMAN_LIMIT_ANGSTROM) {
+      const l = precise(p.restWavelengthAngstrom, 6);
+      out.push(
+        warning(
+          'rest_wavelength_below_lyman_limit',
+          `${p.name}: rest_wavelength, ${l} A, lies below the Lyman limit (${LYMAN_LIMIT_ANGSTROM} A), where no galaxy's luminosity function is measured, so M* is read as a magnitude at ${l} A and the k-correction is taken from there; ` +
+            `a plain number is a wavelength in Angstrom: a wavelength in nm needs its unit (rest_wavelength: "${l} nm")`,
+        ),
+      );
+    }
     // (a rest_band states where M* is defined, so the default rest wavelength is then not used)
     if (d.kind === 'magnitude' && p.restWavelengthDefault && !p.restBand) {
       const rest = p.restWavelengthAngstrom;

@@ -12,6 +12,8 @@ import { parseSurveyObject } from '../../src/survey/load.js';
 import { describeSurvey } from '../../src/survey/describe.js';
 import { clone, LINE_YAML, MAGNITUDE_YAML, setPath, THRESHOLD_YAML } from './fixtures.js';
 import { errorOf } from '../support/survey-error.js';
+import { surveyWarnings } from '../../src/population/warnings.js';
+import { predict } from '../../src/counts/predict.js';
 
 const FILE = 'rest-wavelength-test.yaml';
 
@@ -65,5 +67,36 @@ describe('rest_wavelength by detection kind', () => {
     const band = clone(parse(MAGNITUDE_YAML) as Record<string, unknown>);
     setPath(band, 'detection.band', 'F150W');
     expect(errorOf(() => parseSurveyObject(band, FILE)).message).toContain('e.g. 15000,');
+  });
+});
+
+describe('rest_wavelength_below_lyman_limit: a rest wavelength in nm written as a plain number', () => {
+  // MAGNITUDE_YAML writes rest_wavelength: "150 nm" (1500 Angstrom) and its band at 1.5 um; 150 alone
+  // is 150 Angstrom, below the Lyman limit (912 Angstrom), where no luminosity function is measured.
+  const variant = (rest: unknown, beta?: number): Record<string, unknown> => {
+    const raw = parse(MAGNITUDE_YAML) as Record<string, unknown>;
+    setPath(raw, 'population.rest_wavelength', rest);
+    if (beta !== undefined) setPath(raw, 'detection.beta', beta);
+    return raw;
+  };
+  const codes = (raw: Record<string, unknown>) => surveyWarnings(parseSurveyObject(raw, FILE)).map((w) => w.code);
+
+  test('warned with the form to write; not for "150 nm", 1500 or 912', () => {
+    const s = parseSurveyObject(variant(150), FILE);
+    const w = surveyWarnings(s).filter((x) => x.code === 'rest_wavelength_below_lyman_limit');
+    expect(w).toHaveLength(1);
+    expect(w[0]!.message).toMatch(/rest_wavelength: "150 nm"/);
+    for (const ok of ['150 nm', 1500, 912])
+      expect(codes(variant(ok))).not.toContain('rest_wavelength_below_lyman_limit');
+  });
+
+  test('what it changes: with beta = -1.7 the limit in M moves by 2.5 (beta + 2) log10(10) = 0.75 mag (the colour term of K(z))', () => {
+    const at = (rest: unknown) =>
+      predict(parseSurveyObject(variant(rest, -1.7), FILE)).slices!.map((s) => s.limit_at_center!);
+    const nm = at('150 nm');
+    const aa = at(150);
+    // K = ... - 2.5 (beta + 2) log10(band / ((1 + z) rest)): a rest wavelength ten times shorter lowers
+    // K by 0.75, so M_lim = m_lim - K is 0.75 fainter
+    nm.forEach((m, i) => expect(aa[i]! - m).toBeCloseTo(0.75, 9));
   });
 });
