@@ -7,7 +7,7 @@
  */
 import type { ErrorObject } from 'ajv';
 import { closest, distance } from 'fastest-levenshtein';
-import { inputError, type SurveyError } from '../errors.js';
+import { excerpt, inputError, type SurveyError } from '../errors.js';
 import generatedValidate from './survey-validator.generated.js';
 
 /** Location of the schema, relative to this module (src/survey or dist/survey). */
@@ -260,7 +260,35 @@ function spectralIndexError(key: string, value: unknown, file: string, path: str
 const FORM_EXAMPLES: Readonly<Record<string, string>> = {
   sed: '{file: spectrum.csv} (the path relative to the survey file)',
   over_growth: '0.84, a plain number (b = 0.84 / D(z))',
+  // the sections that are mappings, often first written as a list or one value
+  redshift: '{min: 0.5, max: 1.5}',
+  cosmology: '{h0: 70, omega_m: 0.3} or {preset: planck2018}',
+  slices: '{count: 5}, {width: 0.2} or {edges: [0.3, 0.5, 0.9]}',
+  histogram: '{width: 0.25}',
+  field: '{aspect: 1, count: 4}',
+  photo_z: '{sigma: 0.03, outlier_fraction: 0.02}',
 };
+
+/**
+ * The form to write for a mapping given as its values alone: redshift [0.1, 1.2], slices
+ * [0.3, 0.6, 0.9], slices: 5, histogram: 0.5.
+ */
+function formOfValues(key: string, data: unknown): string | undefined {
+  if (key === 'equivalent_width_cut' && (typeof data === 'string' || typeof data === 'number')) {
+    const w = typeof data === 'string' ? `"${excerpt(data)}"` : String(data);
+    return `equivalent_width_cut: {rest: ${w}} (or {observed: ${w}} for a width in the observed frame)`;
+  }
+  if (typeof data === 'number' && Number.isFinite(data)) {
+    if (key === 'slices' && Number.isInteger(data) && data > 0) return `slices: {count: ${data}}`;
+    if (key === 'histogram' && data > 0) return `histogram: {width: ${data}}`;
+    return undefined;
+  }
+  if (!Array.isArray(data) || !data.every((x) => typeof x === 'number' && Number.isFinite(x))) return undefined;
+  const xs = data as number[];
+  if (key === 'redshift' && xs.length === 2) return `redshift: {min: ${xs[0]}, max: ${xs[1]}}`;
+  if (key === 'slices' && xs.length >= 2) return `slices: {edges: [${xs.join(', ')}]}`;
+  return undefined;
+}
 
 /** Validate `obj`; return undefined when it matches the schema, else the one error to report. */
 export function schemaError(obj: unknown, file: string): SurveyError | undefined {
@@ -413,9 +441,11 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
           `is ${describeValue(data)} but must be ${expected}`,
           key === 'sed' && typeof data === 'string'
             ? `write it as sed: {file: ${data}}`
-            : FORM_EXAMPLES[key]
-              ? `write it as ${key}: ${FORM_EXAMPLES[key]}`
-              : 'change the value to that form',
+            : formOfValues(key, data) !== undefined
+              ? `write it as ${formOfValues(key, data)}`
+              : FORM_EXAMPLES[key]
+                ? `write it as ${key}: ${FORM_EXAMPLES[key]}`
+                : 'change the value to that form',
         );
       }
       case 'enum':

@@ -534,10 +534,10 @@ describe('bad input: one SurveyError with a stable code and key path', () => {
       return errorOf(() => parseSurveyObject(obj, FILE)).message;
     };
     expect(message('slices', 5)).toBe(
-      `${FILE}: slices: is 5 but must be a mapping holding one of count, width, edges; change the value to that form.`,
+      `${FILE}: slices: is 5 but must be a mapping holding one of count, width, edges; write it as slices: {count: 5}.`,
     );
     expect(message('detection.equivalent_width_cut', '15 Angstrom')).toBe(
-      `${FILE}: detection.equivalent_width_cut: is the text "15 Angstrom" but must be a mapping holding one of rest, observed; change the value to that form.`,
+      `${FILE}: detection.equivalent_width_cut: is the text "15 Angstrom" but must be a mapping holding one of rest, observed; write it as equivalent_width_cut: {rest: "15 Angstrom"} (or {observed: "15 Angstrom"} for a width in the observed frame).`,
     );
     // two keys given is still a conflict
     expect(message('slices', { count: 3, edges: [0.1, 0.2] })).toContain('count and edges are both given');
@@ -609,6 +609,32 @@ describe('bad YAML and bad files', () => {
     const other = errorOf(() => loadSurveyText(text.replace('aspect: \u22122', 'aspect: two'), FILE));
     expect(other.message).toContain('is the text "two" but must be');
     expect(other.message).not.toContain('U+2212');
+  });
+
+  test("a section written as its values alone shows the form to write, with those values where they fit (failed before: 'change the value to that form'; found by a trial user)", () => {
+    const message = (key: string, v: unknown) => {
+      const obj = parse(LINE_YAML) as Record<string, unknown>;
+      setPath(obj, key, v);
+      const e = errorOf(() => parseSurveyObject(obj, FILE));
+      expectOneSentence(e);
+      return e.message;
+    };
+    expect(message('redshift', [0.8, 1.6])).toContain('write it as redshift: {min: 0.8, max: 1.6}.');
+    expect(message('redshift', '0.8-1.6')).toContain('write it as redshift: {min: 0.5, max: 1.5}.');
+    expect(message('slices', [0.8, 1.0, 1.6])).toContain('write it as slices: {edges: [0.8, 1, 1.6]}.');
+    expect(message('histogram', 0.2)).toContain('write it as histogram: {width: 0.2}.');
+    expect(message('cosmology', 'planck2018')).toContain(
+      'write it as cosmology: {h0: 70, omega_m: 0.3} or {preset: planck2018}.',
+    );
+    expect(message('field', 4)).toContain('write it as field: {aspect: 1, count: 4}.');
+    for (const [k, v] of [
+      ['redshift', [0.8, 1.6]],
+      ['slices', 5],
+      ['histogram', 0.2],
+      ['cosmology', 'planck2018'],
+      ['field', 4],
+    ] as const)
+      expect(message(k, v)).not.toContain('change the value to that form');
   });
 
   test("a spectrum's path without its mapping, or a bias factor given as a table: the sentence shows the form to write (failed before: 'change the value to that form')", () => {
