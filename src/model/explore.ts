@@ -56,6 +56,12 @@ export interface ExploreResult {
   fisherNote?: string;
   warnings: string[];
   /**
+   * What the numbers assume, as predict's table states it: the survey (area, window, detection,
+   * filter, completeness), the cosmology and each population's model (`Survey: ...`,
+   * `Cosmology: ...`, `Assumed model: ...`).
+   */
+  assumed?: string[];
+  /**
    * What the cosmic variance assumed (with it): the power spectrum's sigma8 and n_s, the total's
    * count-weighted bias and the halo mass abundance matching gave it, the matter's sigma in the box
    * and the box's effective depth, as `predict` gives them; and the bias each population gives, in

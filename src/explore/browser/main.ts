@@ -11,7 +11,14 @@ import type { ControlSpec } from '../../model/explore.js';
 import { controlSettings, settingsObject, settingsText } from '../../library/explore/settings.js';
 import { parseYaml } from '../../survey/yaml.js';
 import { exploreInTwo, exploreMemo, type ExploreResult } from '../../library/explore/engine.js';
-import { figureParts, fisherHtml, outputsHtml, slicesHtml, warningsHtml } from '../../render/explore/view.js';
+import {
+  assumedHtml,
+  figureParts,
+  fisherHtml,
+  outputsHtml,
+  slicesHtml,
+  warningsHtml,
+} from '../../render/explore/view.js';
 import { embeddedFiles } from './read-input.js';
 
 /*
@@ -116,6 +123,7 @@ function start(): void {
   const redrawParts = (r: ExploreResult): void => {
     redraw('outputs', outputsHtml(r));
     redraw('warnings', warningsHtml(r));
+    redraw('assumed', assumedHtml(r));
     redraw('slices', slicesHtml(r));
     redraw('fisher', fisherHtml(r));
     redrawFigures(figureParts(r));

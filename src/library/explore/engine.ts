@@ -23,6 +23,7 @@ import type {
   ExploreSliceRow,
   LfFigureData,
 } from '../../model/explore.js';
+import { predictionHeader } from '../../render/prediction-header.js';
 
 export type { CountsFigureData, ExploreOutput, ExploreResult, ExploreSliceRow, LfFigureData };
 
@@ -247,6 +248,7 @@ function resultOf(survey: Survey, prediction: Prediction, text: string, pending:
     counts,
     lf,
     warnings: prediction.warnings.map((w) => w.message),
+    assumed: predictionHeader(prediction).slice(1),
   };
   const u = t.uncertainty;
   const c = prediction.cosmology;

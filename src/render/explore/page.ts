@@ -9,7 +9,7 @@ import { createHash } from 'node:crypto';
 import type { ControlSpec, ExploreResult } from '../../model/explore.js';
 import { sig } from '../format.js';
 import { escapeHtml } from './figures.js';
-import { figuresHtml, fisherHtml, outputsHtml, slicesHtml, warningsHtml } from './view.js';
+import { assumedHtml, figuresHtml, fisherHtml, outputsHtml, slicesHtml, warningsHtml } from './view.js';
 
 export interface ExplorePageInput {
   title: string;
@@ -92,6 +92,7 @@ ${p.controls.map(controlHtml).join('\n')}
 <section aria-labelledby="outputs-h"><h2 id="outputs-h">Results</h2>
 <div id="outputs" aria-live="polite" aria-atomic="true">${outputsHtml(r)}</div>
 <div id="warnings">${warningsHtml(r)}</div>
+<div id="assumed" class="note" data-part="assumed-model">${assumedHtml(r)}</div>
 <h2>Slices</h2><div id="slices">${slicesHtml(r)}</div>
 <h2>Forecast</h2><div id="fisher">${fisherHtml(r)}</div>
 <h2>Figures</h2><div id="figures">${figuresHtml(r)}</div>

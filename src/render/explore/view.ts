@@ -82,6 +82,12 @@ export function figuresHtml(r: ExploreResult): string {
   return figureParts(r).join('');
 }
 
+/** What the numbers assume (the survey, the cosmology, each population's model), as predict's table states it. */
+export function assumedHtml(r: ExploreResult): string {
+  if (r.error || !r.assumed) return '';
+  return r.assumed.map((line) => `<p>${escapeHtml(line)}</p>`).join('');
+}
+
 export function warningsHtml(r: ExploreResult): string {
   return r.warnings.length === 0 ? '' : `<ul>${r.warnings.map((w) => `<li>${escapeHtml(w)}</li>`).join('')}</ul>`;
 }
