@@ -1039,13 +1039,16 @@ function populationWindows(
         'bad_window',
         file,
         'detection.filter',
-        `the filter sees the line at ${fmt(lines[i]!)} Angstrom at ${seen}${given ? `, which does not overlap redshift ${fmt(given.min)} to ${fmt(given.max)}` : ''}`,
-        filter.table &&
-          !(w.max > w.min) &&
-          filter.table.wavelengthAngstrom[filter.table.wavelengthAngstrom.length - 1]! < lines[i]!
-          ? // a filter file in um or nm without its header, read in Angstrom, lies blueward of every line
-            `check the filter file: its wavelengths, read as ${fmt(filter.table.wavelengthAngstrom[0]!)} to ${fmt(filter.table.wavelengthAngstrom[filter.table.wavelengthAngstrom.length - 1]!)} Angstrom, all lie blueward of the line; a table without a unit in its header is read in Angstrom: if its wavelengths are in um or nm, name the unit in a header line (wavelength_um, transmission or wavelength_nm, transmission)`
-          : 'check the filter center and fwhm, the line and the redshift window',
+        `the filter sees ${rawPops.length > 1 ? `${populationName(rawPops[i]!.raw, i, rawPops.length)}'s line` : 'the line'} at ${fmt(lines[i]!)} Angstrom at ${seen}${given ? `, which does not overlap redshift ${fmt(given.min)} to ${fmt(given.max)}` : ''}`,
+        given && w.max > w.min && rawPops.length > 1
+          ? // several lines through one filter: the redshift key cuts every population's window
+            `every population must be seen inside the redshift window: widen redshift to reach z = ${fmt(w.min)} to ${fmt(w.max)}, leave redshift out (the filter sets each population's window), or remove that population`
+          : filter.table &&
+              !(w.max > w.min) &&
+              filter.table.wavelengthAngstrom[filter.table.wavelengthAngstrom.length - 1]! < lines[i]!
+            ? // a filter file in um or nm without its header, read in Angstrom, lies blueward of every line
+              `check the filter file: its wavelengths, read as ${fmt(filter.table.wavelengthAngstrom[0]!)} to ${fmt(filter.table.wavelengthAngstrom[filter.table.wavelengthAngstrom.length - 1]!)} Angstrom, all lie blueward of the line; a table without a unit in its header is read in Angstrom: if its wavelengths are in um or nm, name the unit in a header line (wavelength_um, transmission or wavelength_nm, transmission)`
+            : 'check the filter center and fwhm, the line and the redshift window',
       );
     }
     return cut;

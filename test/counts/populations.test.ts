@@ -422,3 +422,35 @@ population: {variable: magnitude, phi_star: 5e-4, m_star: -20.8, alpha: -1.8}
     expect(r.stderr).toMatch(/warning: .*Lyman alpha/);
   });
 });
+
+describe('a redshift window that misses one of several lines through one filter', () => {
+  // found by a trial user: the sentence said "the filter sees the line at 5007 Angstrom" without
+  // saying whose, and offered to check the filter, when the redshift key (cutting every population's
+  // window) was what left that line out
+  test("refused naming that population's line, its window and the three ways out", () => {
+    const text = NB.replace('area: 0.8', 'area: 0.8\nredshift: {min: 0.38, max: 0.42}');
+    let e: unknown;
+    try {
+      loadSurveyText(text, 'nb.yaml');
+    } catch (err) {
+      e = err;
+    }
+    expect(e).toBeInstanceOf(SurveyError);
+    const m = (e as SurveyError).message;
+    expect(m).toContain("detection.filter: the filter sees oiii's line at 5007 Angstrom at z = 0.8");
+    expect(m).toContain('which does not overlap redshift 0.38 to 0.42');
+    expect(m).toContain('widen redshift to reach z = 0.8');
+    expect(m).toContain("leave redshift out (the filter sets each population's window), or remove that population");
+  });
+  test('one population: the sentence is as before (the filter or the window may be wrong)', () => {
+    const text = single(NB, 1).replace('"area":0.8', '"area":0.8,"redshift":{"min":0.38,"max":0.42}');
+    let m = '';
+    try {
+      loadSurveyText(text, 'nb.yaml');
+    } catch (err) {
+      m = (err as SurveyError).message;
+    }
+    expect(m).toContain('the filter sees the line at 5007 Angstrom');
+    expect(m).toContain('check the filter center and fwhm, the line and the redshift window');
+  });
+});
