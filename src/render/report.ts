@@ -426,6 +426,7 @@ function predictTable(
   variable: string | undefined,
   quantity?: string,
   id = 'predict-table',
+  limitOf?: string,
 ): string {
   const withU = p.slices.some((s) => typeof s.uncertainty?.total_fraction === 'number');
   const withParts = p.slices.some(
@@ -440,11 +441,13 @@ function predictTable(
       : variable === 'luminosity'
         ? 'limit at centre<br><span class="unit">log₁₀ L [erg s⁻¹]</span>'
         : 'limit at centre';
+  // several populations in one table: the limit column is the first population's, named
+  const limitHeadNamed = limitOf ? `${limitHead}<br><span class="unit">of ${escapeHtml(limitOf)}</span>` : limitHead;
   const heads = [
     'slice',
     'window<br><span class="unit">z</span>',
     'volume<br><span class="unit">Mpc³</span>',
-    limitHead,
+    limitHeadNamed,
     'count',
     'per deg²',
     'cumulative count',
@@ -915,6 +918,8 @@ export function renderReport(input: ReportInput): string {
     : '';
   const window = p.redshift ? `redshift ${formatZ(p.redshift.min)}–${formatZ(p.redshift.max)}` : '';
   const observed = p.breakdown === 'observed';
+  // several populations over one window share the slices; the limit column is the first one's
+  const firstOfSeveral = !observed && (p.populations?.length ?? 0) > 1 ? p.populations![0]!.name : undefined;
   const layout = observed
     ? `${(p.populations ?? []).length} populations, each in its own redshift window`
     : `${p.slices.length} slice${p.slices.length === 1 ? '' : 's'}`;
@@ -982,8 +987,8 @@ ${warningSection}${modelSection}
 </section>
 <section id="predict">
 <h2>${observed ? 'Expected counts of every population' : 'Expected counts per redshift slice'}</h2>
-${observed ? populationsTables(p, modelVariable(models), quantityOf(models[0])) : predictTable(p, modelVariable(models), quantityOf(models[0]))}
-<p class="note">Counts are expected numbers of detected sources, not rounded. The limit is given at each slice's middle redshift.</p>${clusteringNote(p)}
+${observed ? populationsTables(p, modelVariable(models), quantityOf(models[0])) : predictTable(p, modelVariable(models), quantityOf(models[0]), undefined, firstOfSeveral)}
+<p class="note">Counts are expected numbers of detected sources, not rounded. The limit is given at each slice's middle redshift${firstOfSeveral ? `, for ${escapeHtml(firstOfSeveral)}, the first population (each population's own limits are in predict's table and JSON)` : ''}.</p>${clusteringNote(p)}
 </section>
 ${section('forecast', 'Forecast', input.forecast ? forecastTables(input.forecast) : undefined, input.forecastOmitted)}
 ${section('plan', 'Plan', input.plan ? planTable(input.plan) : undefined, input.planOmitted)}
