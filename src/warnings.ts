@@ -39,6 +39,8 @@ export const WARNING_CODES = {
     "a population's phi* is above 0.5 Mpc^-3, far above any galaxy population's (e.g. a linear value under a log10 key)",
   completeness_vanishes_before_limit:
     'the completeness curve is below 1 % at the detection limit: the counts follow the curve, and a fainter limit adds almost nothing',
+  completeness_rises_to_faint:
+    'a completeness table is higher at its faintest row than at its brightest: a completeness falls toward faint sources (e.g. fractions listed in the reverse order)',
   line_below_lyman_limit:
     "a population's line is shorter than the Lyman limit (912 Angstrom), where no galaxy's line is seen (e.g. a wavelength in nm written as a plain number)",
   rest_wavelength_below_lyman_limit:

@@ -67,6 +67,8 @@ export function predictionWarnings(survey: Survey, populations: readonly Populat
   }
   const faint = completenessAtLimit(survey, populations);
   if (faint) out.push(faint);
+  const rises = completenessRisesToFaint(survey);
+  if (rises) out.push(rises);
   for (const p of populations) {
     // Only explicit edges can leave a population's own slices outside its window.
     const lo = p.sliceEdges[0]!;
@@ -118,6 +120,34 @@ function completenessAtLimit(survey: Survey, populations: readonly Population[])
     'completeness_vanishes_before_limit',
     `the completeness at the detection limit (${limit}) is ${at === 0 ? '0' : precise(100 * at, 2)} %, so sources near the limit are hardly counted: the counts follow the completeness curve, and a fainter limit adds almost nothing; ` +
       'if the curve was measured for another depth, move it with the limit (a curve usually reaches 50 % near the limit; common practice), otherwise ignore this',
+  );
+}
+
+/** How much more complete a table's faintest row may be than its brightest before it is warned about. */
+export const COMPLETENESS_RISE_MIN = 0.2;
+
+/**
+ * A completeness table of a line-flux or magnitude survey that is more complete at its faintest row
+ * than at its brightest (by COMPLETENESS_RISE_MIN or more): a completeness falls toward faint
+ * sources (docs/survey-file.md, "Completeness"), so the fractions were most likely listed in the
+ * reverse order of their fluxes or magnitudes; the counts would follow the curve as written.
+ */
+function completenessRisesToFaint(survey: Survey): Warning | undefined {
+  const d = survey.detection;
+  const c = d.completeness;
+  if (!c || c.model !== 'table' || (d.kind !== 'line_flux' && d.kind !== 'magnitude')) return undefined;
+  // x ascends toward faint sources in both kinds: -log10 of the line flux, or the AB magnitude
+  const bright = c.fraction[0]!;
+  const faint = c.fraction[c.fraction.length - 1]!;
+  if (!(faint - bright >= COMPLETENESS_RISE_MIN)) return undefined;
+  const at = (x: number) => (d.kind === 'line_flux' ? `${fmtNum(10 ** -x)} erg/s/cm^2` : `${fmtNum(x)} AB`);
+  return warning(
+    'completeness_rises_to_faint',
+    `detection.completeness.table is ${fmtNum(faint)} at its faintest row (${at(c.x[c.x.length - 1]!)}) and ${fmtNum(bright)} at its brightest (${at(c.x[0]!)}), ` +
+      'more complete for faint sources than for bright ones, where a completeness falls toward faint sources; the counts follow the table as written: ' +
+      (d.kind === 'line_flux'
+        ? 'check that each fraction is beside its own flux (rows run from the faintest flux up)'
+        : 'check that each fraction is beside its own magnitude (rows run from the brightest magnitude down)'),
   );
 }
 
