@@ -113,4 +113,9 @@ export interface ExposureControl {
   maxPointings: number;
   limitKind: LimitKind;
   law: DepthLaw;
+  /**
+   * m_AB - m_Vega when the file gives its magnitude limit in Vega (`detection.system: vega`): the
+   * depth law's limit is AB, and the limit written back is that minus this.
+   */
+  writtenVegaToAb?: number;
 }

@@ -19,6 +19,7 @@ import { loadSurveyText, parseSurveyObject } from '../../src/survey/load.js';
 import { parseYaml } from '../../src/survey/yaml.js';
 import {
   EXPOSURE_KEY,
+  controlSettings,
   exploreControls,
   exposureDesign,
   settingsObject,
@@ -223,5 +224,83 @@ describe('a limit given as a flux density (docs/survey-file.md, "Flux densities 
     expect(d.kind === 'magnitude' && d.limitGivenJy).toBeUndefined();
     // nothing moved: the file as written
     expect(settingsText(text, controls, new Map())).toBe(text);
+  });
+});
+
+describe('a file in Vega magnitudes (docs/survey-file.md, "detection.system": m_AB = m_Vega + vega_to_ab)', () => {
+  // An invented K-band file: the limit and the population's M* written in Vega.
+  const text = [
+    'format: 1',
+    'title: K-band field in Vega magnitudes (demo)',
+    'cosmology: {h0: 70, omega_m: 0.3}',
+    'area: 1',
+    'redshift: {min: 0.5, max: 1.5}',
+    'detection:',
+    '  kind: magnitude',
+    '  limit: 22.0',
+    '  band: "2.2 um"',
+    '  system: vega',
+    '  vega_to_ab: 1.85',
+    'population:',
+    '  variable: magnitude',
+    '  rest_wavelength: 15000',
+    '  phi_star: 3.0e-3',
+    '  m_star: -22.5',
+    '  system: vega',
+    '  vega_to_ab: 1.4',
+    '  alpha: -1.0',
+    'slices: {count: 2}',
+    '',
+  ].join('\n');
+  const survey = loadSurveyText(text, 'k.yaml');
+  const limitMag = (t: string) => {
+    const d = loadSurveyText(t, 'k.yaml').detection;
+    return d.kind === 'magnitude' ? d.limitMag : NaN;
+  };
+
+  test("the limit control is in Vega, as the file reads it: moved to 23, the file says 23 and the loader's AB is 24.85", () => {
+    const raw = parseYaml(text, 'k.yaml');
+    const controls = exploreControls(raw, survey);
+    const c = controls.find((x) => x.key === 'detection.limit')!;
+    // (failed before: 'AB mag' and 23.85, which the file written back read as Vega 23.85, AB 25.70)
+    expect(c.unit).toBe('Vega mag');
+    expect(c.value).toBe(22);
+    expect([c.min, c.max]).toEqual([20, 24]);
+    // unmoved, the value written back is the file's own: the same limit
+    expect(limitMag(settingsText(text, controls, new Map([['detection.limit', c.value]])))).toBe(limitMag(text));
+    const written = settingsText(text, controls, new Map([['detection.limit', 23]]));
+    expect(written).toBe(text.replace('limit: 22.0', 'limit: 23'));
+    expect(limitMag(written)).toBeCloseTo(23 + 1.85, 12);
+    const object = parseSurveyObject(settingsObject(raw, controls, new Map([['detection.limit', 23]])), 'k.yaml');
+    expect(object.detection.kind === 'magnitude' && object.detection.limitMag).toBe(limitMag(written));
+    // the population's M* is varied in its own system too, and said so
+    const m = controls.find((x) => x.key === 'population.m_star')!;
+    expect(m.unit).toBe('Vega mag');
+    expect(m.value).toBe(-22.5);
+  });
+
+  test("a plan file in Vega: the exposure per pointing writes the depth law's AB limit as the Vega magnitude that reads back as it", () => {
+    const plan = `${text}plan:
+  field_of_view: "9.5 arcmin^2"
+  reference: {limit: 24.0, exposure_hours: 1.0}
+  overhead_hours: 0.25
+  depth_law: background
+  budget_hours: 100
+  goal: {sigma: alpha}
+  exposure_grid: {min_hours: 0.1, max_hours: 20, count: 50}
+`;
+    const controls = exploreControls(parseYaml(plan, 'kp.yaml'), loadSurveyText(plan, 'kp.yaml'));
+    const c = controls.find((x) => x.key === EXPOSURE_KEY)!;
+    expect(c.plan!.writtenVegaToAb).toBe(1.85);
+    // background-limited: the limit deepens by 1.25 log10(t / t0) mag (common practice), so 4 h
+    // reach AB 24 + 1.25 log10 4 = 24.753; the file is written in Vega, 1.85 brighter
+    const ab = exposureDesign(c.plan!, 4).limit;
+    expect(ab).toBeCloseTo(24 + 1.25 * Math.log10(4), 10);
+    const limits = controlSettings(c, 4);
+    expect(limits.find(([k]) => k === 'detection.limit')![1]).toBeCloseTo(ab - 1.85, 12);
+    const values = new Map(limits);
+    expect(limitMag(settingsText(plan, controls, values))).toBeCloseTo(ab, 12);
+    // the file's own AB limit, 23.85, is reached after 10^((23.85 - 24) / 1.25) h
+    expect(c.value).toBeCloseTo(10 ** ((23.85 - 24) / 1.25), 10);
   });
 });

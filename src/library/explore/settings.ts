@@ -97,6 +97,16 @@ function thresholdUnit(file: Raw): string {
   return quantities.size === 1 && only && records.every((p) => p.variable !== 'magnitude') ? `log10 ${only}` : '';
 }
 
+/**
+ * m_AB - m_Vega of a magnitude survey whose file gives its limit in Vega (`detection.system: vega`),
+ * else undefined: the page's limit is then a Vega magnitude, as the file reads it
+ * (docs/survey-file.md, "detection.system").
+ */
+function writtenVegaToAb(survey: Survey): number | undefined {
+  const d = survey.detection;
+  return d.kind === 'magnitude' && d.magnitudeSystem?.system === 'vega' ? d.magnitudeSystem.vegaToAb : undefined;
+}
+
 /** Population parameters the page varies, with their unit, span and range (docs/survey-file.md, "Limits"). */
 const PARAMETERS: { key: string; label: string; unit: string; log?: boolean; span: number; lo: number; hi: number }[] =
   [
@@ -117,6 +127,8 @@ const PARAMETERS: { key: string; label: string; unit: string; log?: boolean; spa
  * file names none.
  */
 function parameterUnit(key: string, unit: string, pop: Raw, kind: string): string {
+  // a population's m_star given in Vega (system: vega) is read, and varied, in Vega
+  if (key === 'm_star' && pop.system === 'vega') return 'Vega mag';
   if (kind !== 'threshold' || (key !== 'log10_l_star' && key !== 'l_star')) return unit;
   const quantity = typeof pop.quantity === 'string' && pop.quantity.trim() !== '' ? pop.quantity.trim() : undefined;
   if (!quantity) return '';
@@ -160,8 +172,21 @@ export function exploreControls(raw: unknown, survey: Survey): ControlSpec[] {
   if (isScalarValue(det.limit)) {
     if (d.kind === 'line_flux')
       controls.push(logControl(['detection', 'limit'], 'Line-flux limit', 'erg/s/cm^2', d.limitCgs, 1e-30, 1e-5));
-    else if (d.kind === 'magnitude')
-      controls.push(linearControl(['detection', 'limit'], 'Magnitude limit', 'AB mag', d.limitMag, 2, 0, 40));
+    else if (d.kind === 'magnitude') {
+      // in the file's own system: a file with system: vega reads its limit as a Vega magnitude
+      const vega = writtenVegaToAb(survey);
+      controls.push(
+        linearControl(
+          ['detection', 'limit'],
+          'Magnitude limit',
+          vega === undefined ? 'AB mag' : 'Vega mag',
+          d.limitMag - (vega ?? 0),
+          2,
+          0 - (vega ?? 0),
+          40 - (vega ?? 0),
+        ),
+      );
+    }
     else if (typeof det.limit === 'number')
       controls.push(linearControl(['detection', 'limit'], 'Threshold', thresholdUnit(file), det.limit, 2, -40, 60));
   }
@@ -266,6 +291,8 @@ function exposureControl(file: Raw, survey: Survey): ControlSpec | undefined {
     limitKind: spec.limitKind,
     law: spec.depthLaw,
   };
+  const vega = writtenVegaToAb(survey);
+  if (vega !== undefined) plan.writtenVegaToAb = vega;
   const min = spec.grid.minHours;
   const max = Math.min(spec.grid.maxHours, spec.budgetHours - spec.overheadHours);
   if (!(max > min)) return undefined;
@@ -310,9 +337,10 @@ export function exposureDesign(
 export function controlSettings(c: ControlSpec, v: number): [string, number][] {
   if (!c.plan) return [[c.key, v]];
   const d = exposureDesign(c.plan, v);
+  // the depth law's limit is AB; a file with system: vega reads its limit in Vega
   return [
     ['area', d.area],
-    ['detection.limit', d.limit],
+    ['detection.limit', d.limit - (c.plan.writtenVegaToAb ?? 0)],
   ];
 }
 
