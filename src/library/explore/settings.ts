@@ -186,8 +186,7 @@ export function exploreControls(raw: unknown, survey: Survey): ControlSpec[] {
           40 - (vega ?? 0),
         ),
       );
-    }
-    else if (typeof det.limit === 'number')
+    } else if (typeof det.limit === 'number')
       controls.push(linearControl(['detection', 'limit'], 'Threshold', thresholdUnit(file), det.limit, 2, -40, 60));
   }
   const z = file.redshift;
