@@ -127,6 +127,9 @@ function checkZ(z: number): void {
  *   const c = FlatCosmology.fromParams({ h0: 70, omegaM: 0.3 });
  *   c.comovingDistanceMpc(1) // 3303.82880588747 (astropy 5.2.1: 3303.8288058874705)
  */
+/** Below this redshift the comoving distance is its Taylor series (distanceUncached). */
+const SERIES_BELOW_Z = 1e-5;
+
 export class FlatCosmology {
   readonly h0: number;
   readonly omegaM: number;
@@ -248,6 +251,13 @@ export class FlatCosmology {
   private distanceUncached(z: number): number {
     checkZ(z);
     if (z === 0) return 0;
+    // Below z = 1e-5 the integral below loses digits (1 / sqrt(1 + z) is 1 less about z / 2, so
+    // its rounding is 1e-16 / z of the distance, and below z = 1e-16 it is 0): there D_C is its
+    // Taylor series, D_H int_0^z dz' / E(z') with 1 / E = 1 - E1 z + (2 E1^2 - E2) z^2 / 2 + O(z^3),
+    // E1 = E'(0) = (3 Om + 4 Or) / 2 and E2 = E''(0) = (6 Om + 12 Or) / 2 - E1^2 (E^2 = Om (1 + z)^3
+    // + Or (1 + z)^4 + OL, Hogg 1999 eqs. 14-15): the next term is z^3 of the distance, 1e-15 at
+    // z = 1e-5. The counts' redshift quadrature reaches such redshifts in a window from z = 0.
+    if (z < SERIES_BELOW_Z) return this.hubbleDistanceMpc * this.smallZDistance(z);
     switch (this.mode) {
       case 'eds':
         return -2 * this.hubbleDistanceMpc * Math.expm1(-0.5 * Math.log1p(z));
@@ -257,6 +267,13 @@ export class FlatCosmology {
       default:
         return this.hubbleDistanceMpc * this.uIntegral(1 / Math.sqrt(1 + z), 1, 1);
     }
+  }
+
+  /** D_C / D_H by its Taylor series to z^3 (distanceUncached, z below SERIES_BELOW_Z). */
+  private smallZDistance(z: number): number {
+    const e1 = 0.5 * (3 * this.omegaM + 4 * this.omegaR);
+    const e2 = 0.5 * (6 * this.omegaM + 12 * this.omegaR) - e1 * e1;
+    return z * (1 - 0.5 * e1 * z + ((2 * e1 * e1 - e2) / 6) * z * z);
   }
 
   /**
@@ -329,6 +346,11 @@ export class FlatCosmology {
   lookbackTimeGyr(z: number): number {
     checkZ(z);
     if (z === 0) return 0;
+    // Below z = 1e-8, 1 / sqrt(1 + z) is 1 to within a rounding, so the integral below would be
+    // 0: D_C = D_H int_0^z dz' / E(z') = D_H z (1 - (3 Om + 4 Or) z / 4) + O(z^3) (Hogg 1999 eq. 15,
+    // with E'(0) = (3 Om + 4 Or) / 2), exact to double precision there. The counts' redshift
+    // quadrature reaches such redshifts near z = 0 (src/counts/engine.ts, zeroPowerFor).
+    if (z < 1e-8) return this.hubbleDistanceMpc * z * (1 - 0.25 * (3 * this.omegaM + 4 * this.omegaR) * z);
     switch (this.mode) {
       case 'eds':
         return (-2 / 3) * this.hubbleTimeGyr * Math.expm1(-1.5 * Math.log1p(z));

@@ -171,15 +171,16 @@ export function unconvergedWarning(
   const one = bad.length === 1;
   // At a window's start at z = 0, closer than any slice edge may be put: a flux or magnitude limit
   // reaches ever fainter sources as z falls to 0, and a steep faint end makes the integrand grow
-  // there as z^(2 alpha + 4), which no edge can cut (alpha = -2.45 from z = 0 counted 4 % low,
-  // -2.49 53 % low, where the last two orders differed by 1e-4 of the count; found by a trial user)
+  // there as z^(2 alpha + 4), which no edge can cut (alpha = -2.45 from z = 0 counted 0.12 % low,
+  // -2.49 27 % low, against test/reference/generate/steep_faint_end.py; 4 % and 53 % before the
+  // comoving distance below z = 1e-5 was its series; found by a trial user)
   if (worst.zMin === 0 && z < MIN_SLICE_WIDTH)
     return warning(
       'redshift_integral_unconverged',
       `${population}: the integral over redshift of ${one ? 'the slice' : 'the slices'} ${ranges} did not converge near z = 0 ` +
         `(after ${halvings} halvings of its pieces the quadrature's last two orders still differ by ${precise(share, 2)} of ${one ? 'its' : "a slice's"} count): ` +
-        'a flux or magnitude limit reaches ever fainter sources as z falls to 0, and a faint-end slope alpha below about -2.2 makes the count there grow as z^(2 alpha + 4), faster than the quadrature follows, ' +
-        `so ${one ? 'its count' : 'their counts'} may be too low by far more than that (4 % with alpha = -2.45, half with -2.49); ` +
+        'a flux or magnitude limit reaches ever fainter sources as z falls to 0, and a faint-end slope alpha below about -2.35 makes the count there grow as z^(2 alpha + 4), faster than the quadrature follows, ' +
+        `so ${one ? 'its count' : 'their counts'} may be too low by far more than that (0.1 % with alpha = -2.45, a quarter with -2.49); ` +
         'start the redshift window a little above 0 (redshift.min: 0.0001 leaves out only sources within about 0.4 Mpc), or assume a flatter faint end',
     );
   return warning(

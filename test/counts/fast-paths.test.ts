@@ -71,6 +71,16 @@ const REL_HALO_MASS = 3e-9;
  */
 const NODES_MOVED = { name: 'mass-limited 10 slices, logistic completeness', path: /totals\.uncertainty\./, rel: 2e-6 };
 
+/**
+ * The local survey from z = 0: the comoving distance below z = 1e-5 is now its Taylor series
+ * (test/cosmology/small-redshift.test.ts, against mpmath to 1e-15), where the earlier integral had
+ * lost digits (about 1e-16 / z of the distance). Only the brightest histogram bins, filled by
+ * sources at such redshifts, moved: bins of 1e-41 to 1e-28 sources by 7e-5 to 2e-5 of themselves.
+ * Histogram bins of this case are compared to 1e-9 of the case's total count (31,050 sources)
+ * instead of 1e-9 of themselves; every count, density and uncertainty still to 1e-9 relative.
+ */
+const SMALL_Z_BINS = { name: 'counts reference magnitude_local', path: /(observed_bins|histogram)/, ofTotal: 1e-9 };
+
 /** Fields added to the outputs after the fixture was recorded (not numbers of the earlier code): the model's selection statement, k-correction, magnitude system and model uncertainty. */
 const ADDED_SINCE = new Set(['selection', 'k_correction', 'magnitude_system', 'model_uncertainty']);
 /** Warning codes added after the fixture was recorded (src/selection/warnings.ts): left out of the comparison. */
@@ -88,6 +98,11 @@ const CODES_ADDED_SINCE = new Set([
  */
 const REWRITTEN_NORMALISATION = ['samples/mass-limited.yaml', 'samples/double-schechter-mass.yaml'];
 
+/** The recorded total count of a case. */
+function totalOf(name: string): number {
+  return (fixture.predictions[name] as { totals: { count: number } }).totals.count;
+}
+
 /** Every place where `got` differs from `want` (numbers beyond REL relative, anything else at all). */
 function differences(got: unknown, want: unknown, path: string, out: string[]): void {
   if (typeof want === 'string' && typeof got === 'number' && String(got) === want) return; // NaN recorded as a string
@@ -95,7 +110,10 @@ function differences(got: unknown, want: unknown, path: string, out: string[]): 
     const scale = Math.max(Math.abs(want), Math.abs(got));
     let rel = path.endsWith('.halo_mass_min_msun') ? REL_HALO_MASS : REL;
     if (path.startsWith(NODES_MOVED.name + '.') && NODES_MOVED.path.test(path)) rel = NODES_MOVED.rel;
-    if (!(Math.abs(got - want) <= rel * scale))
+    let tolerance = rel * scale;
+    if (path.startsWith(SMALL_Z_BINS.name + '.') && SMALL_Z_BINS.path.test(path))
+      tolerance = Math.max(tolerance, SMALL_Z_BINS.ofTotal * totalOf(SMALL_Z_BINS.name));
+    if (!(Math.abs(got - want) <= tolerance))
       out.push(`${path}: ${got} against ${want} (${((got - want) / want).toExponential(2)})`);
     return;
   }

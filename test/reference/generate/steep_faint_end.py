@@ -55,7 +55,7 @@ def count(z0, z1, alpha, k=20):
 
 
 cases = []
-for alpha in (-2.2, -2.45):
+for alpha in (-2.2, -2.4, -2.45, -2.49):
     for z0 in (0.0, 1e-4):
         cases.append({"alpha": alpha, "z_min": z0, "z_max": 0.01, "count": count(z0, 0.01, alpha)})
 print(json.dumps({"area_deg2": AREA_DEG2, "m_lim": M_LIM, "m_star": M_STAR, "phi_star": PHI_STAR, "cases": cases}, indent=2))
