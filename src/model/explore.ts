@@ -118,4 +118,21 @@ export interface ExposureControl {
    * depth law's limit is AB, and the limit written back is that minus this.
    */
   writtenVegaToAb?: number;
+  /**
+   * The file's completeness curve, which a plan design moves with its limit (docs/survey-file.md,
+   * "Completeness"): the file's limit and each number of the curve as written (a logistic `half`,
+   * or each table row's x), in the units a plain number of that key is read in. Absent without a
+   * curve.
+   */
+  completeness?: MovedCompleteness;
+}
+
+/** What the exposure control moves of the completeness curve (ExposureControl.completeness). */
+export interface MovedCompleteness {
+  /** magnitude: the curve moves by the limit's difference; line_flux: by the limits' ratio. */
+  kind: 'magnitude' | 'line_flux';
+  /** The file's limit: a magnitude in the file's system, or erg/s/cm^2. */
+  fileLimit: number;
+  /** Each number of the curve: its key path and its value as written, as a plain number. */
+  entries: { path: (string | number)[]; value: number }[];
 }

@@ -362,9 +362,20 @@ describe.skipIf(!haveChromium)('explore page in headless chromium', () => {
           Number(await p.$eval('input[data-key="detection.limit"]', (e) => (e as unknown as Field).value)) / 3e-17,
         ).toBeCloseTo(1, 12);
         const text = (await p.textContent('#survey-yaml'))!;
+        // the completeness curve moves with the limit, as plan's designs move it: half 5e-17 at the
+        // file's 4e-17, so 3.75e-17 at 3e-17 (docs/outputs.md, explore)
+        const half = /half: ([^,]+),/.exec(text)![1]!;
+        expect(Number(half) / 3.75e-17).toBeCloseTo(1, 12);
         const file = join(dir, 'plan-written.yaml');
         writeFileSync(file, text);
         expectSameOutputs(await outputsOf(p), await expectedOutputs(file), 'plan exposure');
+        // the limit then moved by hand: the curve goes back to where the file puts it
+        await setControl(p, 'detection.limit', 3.5e-17);
+        const byHand = (await p.textContent('#survey-yaml'))!;
+        expect(byHand).toContain('half: 5e-17,');
+        const file2 = join(dir, 'plan-written-by-hand.yaml');
+        writeFileSync(file2, byHand);
+        expectSameOutputs(await outputsOf(p), await expectedOutputs(file2), 'plan exposure, then the limit by hand');
         await p.close();
       },
     );

@@ -26,6 +26,7 @@ import {
   settingsText,
 } from '../../src/library/explore/settings.js';
 import { predict } from '../../src/counts/predict.js';
+import { surveyAtLimit } from '../../src/planning/model.js';
 import { sampleControls } from '../support/sample-controls.js';
 
 const SAMPLES = readdirSync('samples').filter((f) => f.endsWith('.yaml'));
@@ -171,6 +172,34 @@ describe('controls', () => {
     expect(c.value).toBeCloseTo(2.25, 10);
   });
 
+  test('a plan file: the exposure per pointing moves the completeness curve with the limit, as plan designs do', () => {
+    const text = readFileSync('samples/plan-halpha-layers.yaml', 'utf8');
+    const survey = loadSurveyText(text, 'samples/plan-halpha-layers.yaml');
+    const raw = parseYaml(text, 'p');
+    const controls = exploreControls(raw, survey);
+    const c = controls.find((x) => x.key === EXPOSURE_KEY)!;
+    const values = new Map<string, number>([[EXPOSURE_KEY, 4], ...controlSettings(c, 4)]);
+    const written = settingsText(text, controls, values);
+    // half 5e-17 at the file's limit 4e-17; at 4 h the limit is 3e-17 (above), so the half moves
+    // to 5e-17 x 3 / 4 = 3.75e-17 (docs/survey-file.md, "Completeness": in a plan the curve keeps
+    // its distance from its own limit)
+    const half = /completeness: \{model: logistic, half: ([^,]+), width: 0.08\}/.exec(written)![1]!;
+    expect(Number(half) / 3.75e-17).toBeCloseTo(1, 12);
+    const moved = surveyAtLimit(survey, exposureDesign(c.plan!, 4).limit, exposureDesign(c.plan!, 4).area);
+    for (const s of [
+      loadSurveyText(written, 'samples/plan-halpha-layers.yaml'),
+      parseSurveyObject(settingsObject(raw, controls, values), 'samples/plan-halpha-layers.yaml'),
+    ]) {
+      const got = s.detection.completeness!;
+      const want = moved.detection.completeness!;
+      expect(got.model === 'logistic' && want.model === 'logistic').toBe(true);
+      if (got.model === 'logistic' && want.model === 'logistic') expect(got.half - want.half).toBeCloseTo(0, 12);
+    }
+    // the limit set by hand (no exposure among the values): the curve stays where the file puts it
+    const byHand = settingsText(text, controls, new Map([['detection.limit', 3e-17]]));
+    expect(byHand).toContain('completeness: {model: logistic, half: 5e-17, width: 0.08}');
+  });
+
   test('the library builds the same page as the command', async () => {
     const { explorePage } = await import('../../src/index.js');
     // the page `explore samples/halpha-narrowband.yaml --out FILE` writes (the run the sample's own test reads)
@@ -280,7 +309,7 @@ describe('a file in Vega magnitudes (docs/survey-file.md, "detection.system": m_
   });
 
   test("a plan file in Vega: the exposure per pointing writes the depth law's AB limit as the Vega magnitude that reads back as it", () => {
-    const plan = `${text}plan:
+    const plan = `${text.replace('  vega_to_ab: 1.85\n', '  vega_to_ab: 1.85\n  completeness: {table: [[21.5, 1], [22.5, 0.5]]}\n')}plan:
   field_of_view: "9.5 arcmin^2"
   reference: {limit: 24.0, exposure_hours: 1.0}
   overhead_hours: 0.25
@@ -300,6 +329,14 @@ describe('a file in Vega magnitudes (docs/survey-file.md, "detection.system": m_
     expect(limits.find(([k]) => k === 'detection.limit')![1]).toBeCloseTo(ab - 1.85, 12);
     const values = new Map(limits);
     expect(limitMag(settingsText(plan, controls, values))).toBeCloseTo(ab, 12);
+    // with the exposure among the values the completeness table moves too, by the limit's
+    // difference (its rows written in Vega, as the file reads them)
+    values.set(EXPOSURE_KEY, 4);
+    const written = settingsText(plan, controls, values);
+    const shift = ab - 1.85 - 22;
+    const rows = /table: \[\[([^,]+), 1\], \[([^,]+), 0\.5\]\]/.exec(written)!;
+    expect(Number(rows[1]) - (21.5 + shift)).toBeCloseTo(0, 12);
+    expect(Number(rows[2]) - (22.5 + shift)).toBeCloseTo(0, 12);
     // the file's own AB limit, 23.85, is reached after 10^((23.85 - 24) / 1.25) h
     expect(c.value).toBeCloseTo(10 ** ((23.85 - 24) / 1.25), 10);
   });

@@ -252,8 +252,12 @@ function start(): void {
   const set = (c: ControlSpec, v: number): void => {
     if (!c.plan) {
       values.set(c.key, v);
+      // a limit set by hand: the completeness curve stays where the file puts it (the exposure
+      // control moves it with the limit, as plan's designs do)
+      if (c.key === 'detection.limit') for (const x of data.controls) if (x.plan) values.delete(x.key);
       return;
     }
+    values.set(c.key, v);
     for (const [key, value] of controlSettings(c, v)) {
       values.set(key, value);
       const other = data.controls.find((x) => x.key === key);

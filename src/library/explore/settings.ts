@@ -8,7 +8,7 @@ import { isScalar, parseDocument, stringify } from 'yaml';
 import type { Survey } from '../../model/survey.js';
 import { FULL_SKY_DEG2 } from '../../model/sky.js';
 import { RANGES } from '../../model/limits.js';
-import type { ControlSpec, ExposureControl } from '../../model/explore.js';
+import type { ControlSpec, ExposureControl, MovedCompleteness } from '../../model/explore.js';
 import { readPlanSection } from '../../survey/plan-section.js';
 import { makeDepthModel } from '../../planning/depth.js';
 import { checkSurvey } from '../../model/arguments.js';
@@ -292,6 +292,8 @@ function exposureControl(file: Raw, survey: Survey): ControlSpec | undefined {
   };
   const vega = writtenVegaToAb(survey);
   if (vega !== undefined) plan.writtenVegaToAb = vega;
+  const moved = completenessEntries(file, survey);
+  if (moved) plan.completeness = moved;
   const min = spec.grid.minHours;
   const max = Math.min(spec.grid.maxHours, spec.budgetHours - spec.overheadHours);
   if (!(max > min)) return undefined;
@@ -311,6 +313,58 @@ function exposureControl(file: Raw, survey: Survey): ControlSpec | undefined {
     range: 'default',
     plan,
   };
+}
+
+/**
+ * The file's completeness curve as the exposure control moves it (ExposureControl.completeness):
+ * a logistic `half`, or each row's x of a table, as a plain number in the unit a plain number of
+ * that key is read in (a half given with a unit, such as "60 uJy", becomes its AB magnitude or its
+ * flux in erg/s/cm^2, as the loader read it).
+ */
+function completenessEntries(file: Raw, survey: Survey): MovedCompleteness | undefined {
+  const d = survey.detection;
+  if (d.kind === 'threshold' || !d.completeness) return undefined;
+  const det = isRecord(file.detection) ? file.detection : {};
+  const c = isRecord(det.completeness) ? det.completeness : undefined;
+  if (!c) return undefined;
+  const vega = writtenVegaToAb(survey) ?? 0;
+  const fileLimit = d.kind === 'magnitude' ? d.limitMag - vega : d.limitCgs;
+  const entries: MovedCompleteness['entries'] = [];
+  if (d.completeness.model === 'logistic') {
+    // the loader's half: an AB magnitude, or -log10 of the flux (src/model/detection.ts)
+    const half = d.kind === 'magnitude' ? d.completeness.half - vega : 10 ** -d.completeness.half;
+    entries.push({ path: ['detection', 'completeness', 'half'], value: typeof c.half === 'number' ? c.half : half });
+  } else {
+    if (!Array.isArray(c.table)) return undefined;
+    c.table.forEach((row, i) => {
+      if (Array.isArray(row) && typeof row[0] === 'number')
+        entries.push({ path: ['detection', 'completeness', 'table', i, 0], value: row[0] });
+    });
+  }
+  return { kind: d.kind, fileLimit, entries };
+}
+
+/**
+ * The completeness curve moved with the limit the exposure control set (`limit`, as written), as
+ * a plan design moves it (src/planning/model.ts, surveyAtLimit): a magnitude curve by the limit's
+ * difference, a line-flux curve by the limits' ratio. Key paths and values.
+ */
+export function movedCompleteness(m: MovedCompleteness, limit: number): [(string | number)[], number][] {
+  return m.entries.map((e) => [
+    e.path,
+    m.kind === 'magnitude' ? e.value + (limit - m.fileLimit) : e.value * (limit / m.fileLimit),
+  ]);
+}
+
+/** The completeness edits of the settings: the curve moved with the limit when the exposure control set it. */
+function completenessEdits(
+  controls: readonly ControlSpec[],
+  values: ReadonlyMap<string, number>,
+): [(string | number)[], number][] {
+  const c = controls.find((x) => x.plan?.completeness);
+  const limit = values.get('detection.limit');
+  if (!c || values.get(c.key) === undefined || limit === undefined || !Number.isFinite(limit)) return [];
+  return movedCompleteness(c.plan!.completeness!, limit);
 }
 
 /**
@@ -356,13 +410,17 @@ export function settingsObject(
 ): unknown {
   if (values.size === 0) return raw;
   const copy = structuredClone(raw) as Raw;
+  const put = (path: readonly (string | number)[], v: number): void => {
+    let node: unknown = copy;
+    for (const step of path.slice(0, -1)) node = (node as Record<string | number, unknown>)[step];
+    (node as Record<string | number, unknown>)[path[path.length - 1]!] = v;
+  };
   for (const c of controls) {
     const v = values.get(c.key);
     if (v === undefined || !Number.isFinite(v) || c.plan) continue;
-    let node: unknown = copy;
-    for (const step of c.path.slice(0, -1)) node = (node as Record<string | number, unknown>)[step];
-    (node as Record<string | number, unknown>)[c.path[c.path.length - 1]!] = v;
+    put(c.path, v);
   }
+  for (const [path, v] of completenessEdits(controls, values)) put(path, v);
   return copy;
 }
 
@@ -387,14 +445,18 @@ export function settingsText(
   const doc = parseDocument(text, YAML_OPTIONS);
   const edits: { from: number; to: number; value: number }[] = [];
   let whole = false;
+  const put = (path: readonly (string | number)[], v: number): void => {
+    const node = doc.getIn(path, true);
+    if (isScalar(node) && node.range) edits.push({ from: node.range[0], to: node.range[1], value: v });
+    else whole = true;
+    doc.setIn(path, v);
+  };
   for (const c of controls) {
     const v = values.get(c.key);
     if (v === undefined || !Number.isFinite(v) || c.plan) continue;
-    const node = doc.getIn(c.path, true);
-    if (isScalar(node) && node.range) edits.push({ from: node.range[0], to: node.range[1], value: v });
-    else whole = true;
-    doc.setIn(c.path, v);
+    put(c.path, v);
   }
+  for (const [path, v] of completenessEdits(controls, values)) put(path, v);
   if (whole) return doc.toString({ lineWidth: 0 });
   // (a number as the document would write it: YAML's own form of a plain number)
   let out = text;
