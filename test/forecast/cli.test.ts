@@ -136,6 +136,18 @@ describe('forecast command', () => {
     expect(r.stderr.trim().split('\n').length).toBe(1);
   });
 
+  test("--workers above the machine's cores is a cap, not refused: the same JSON as --workers 1 (docs/outputs.md)", async () => {
+    // (failed before on a 2-core machine: "not a whole number from 1 to 2")
+    const args = ['forecast', `samples/${SAMPLES[0]}`, '--no-cosmic-variance', '--mocks', '8', '--format', 'json'];
+    const many = await runCli([...args, '--workers', '256']);
+    const one = await runCli([...args, '--workers', '1']);
+    expect(many.code, many.stderr).toBe(0);
+    expect(many.stdout).toBe(one.stdout);
+    const tooMany = await runCli([...args, '--workers', '257']);
+    expect(tooMany.code).toBe(2);
+    expect(tooMany.stderr).toContain('from 1 to 256');
+  });
+
   test.each(ALL.filter(isDouble))(
     '%s: a double Schechter population is refused with one sentence (exit 2)',
     async (f) => {

@@ -210,6 +210,18 @@ export function parseNumber(
 }
 
 /** A whole number from min to max, written in decimal digits. */
+/** The most `--workers` a command accepts; more than the machine's cores use its cores (docs/names.md). */
+export const MAX_WORKERS = 256;
+
+/**
+ * `--workers K`: a cap on the worker threads, not a request (docs/outputs.md), so a K above the
+ * machine's cores (a script run on several machines) uses the cores rather than being refused.
+ */
+export function parseWorkers(raw: unknown, cores: number): number | undefined {
+  if (raw === undefined) return undefined;
+  return Math.min(parseInteger(optionText(raw), '--workers', 1, MAX_WORKERS), Math.max(1, cores));
+}
+
 export function parseInteger(text: string, option: string, min: number, max: number): number {
   const v = decimalNumber(text);
   if (v === undefined || !Number.isInteger(v) || v < min || v > max) {

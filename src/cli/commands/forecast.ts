@@ -12,6 +12,7 @@ import {
   optionText,
   outputOptions,
   parseInteger,
+  parseWorkers,
   printWarnings,
 } from './common.js';
 import { Outputs, renderText } from '../io.js';
@@ -82,9 +83,7 @@ export const forecastCommand: CommandDef = {
       raw.modelDraws === undefined
         ? 0
         : parseInteger(optionText(raw.modelDraws), '--model-draws', 1, MAX_FORECAST_MODEL_DRAWS);
-    const maxWorkers = availableParallelism();
-    const workers =
-      raw.workers === undefined ? undefined : parseInteger(String(raw.workers), '--workers', 1, maxWorkers);
+    const workers = parseWorkers(raw.workers, availableParallelism());
     const outputs = new Outputs(io, {
       out: out.out,
       figures: typeof raw.figures === 'string' ? raw.figures : undefined,

@@ -7,7 +7,7 @@ import {
   noteNoPngWithoutFigures,
   optionNote,
   outputOptions,
-  parseInteger,
+  parseWorkers,
   printWarnings,
   wantsPng,
 } from './common.js';
@@ -34,8 +34,7 @@ export const planCommand: CommandDef = {
     const file = args[0] as string;
     const raw = cmd.opts();
     const out = outputOptions(raw);
-    const workers =
-      raw.workers === undefined ? undefined : parseInteger(String(raw.workers), '--workers', 1, availableParallelism());
+    const workers = parseWorkers(raw.workers, availableParallelism());
     const outputs = new Outputs(io, {
       out: out.out,
       figures: typeof raw.figures === 'string' ? raw.figures : undefined,
