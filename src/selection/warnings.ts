@@ -175,7 +175,7 @@ export function selectionWarnings(survey: Survey): Warning[] {
       out.push(
         warning(
           'blend_ratio_through_filter',
-          `${populationPath(survey, p)}.blend_ratio through a filter counts the blended lines at the line's own transmission, but they lie at their own wavelengths ` +
+          `${p.name}: ${populationPath(survey, p)}.blend_ratio through a filter counts the blended lines at the line's own transmission, but they lie at their own wavelengths ` +
             '(for H-alpha, [NII] 6548 and 6584 at 15 and 21 (1 + z) A from it) and leave or enter the filter at other redshifts: near the edges it adds flux the filter does not pass, and it misses sources seen by a blended line alone ' +
             '(a HiZELS-like top hat counts 6-12 % more with the whole ratio, about 1 % with the ratio averaged over the filter, and misses the rest: docs/survey-file.md); give them as blended_lines, each line with its own ratio',
         ),
