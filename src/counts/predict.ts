@@ -256,6 +256,28 @@ function sameEdges(a: readonly number[], b: readonly number[]): boolean {
 }
 
 /**
+ * A narrow-band filter sets the window: the redshifts it puts the line at, named beside the limit
+ * and the area, since a filter read in the wrong unit (a table in Angstrom under a wavelength_nm
+ * header, read ten times redder) counts next to nothing without another sign (found by a trial user).
+ */
+function filterHint(
+  populations: readonly { name: string; window: { min: number; max: number } }[],
+  detection: Survey['detection'] | undefined,
+  which: string | undefined,
+): string {
+  if (detection?.kind !== 'line_flux' || !detection.filter) return '';
+  const ps = which === undefined ? populations : populations.filter((p) => p.name === which);
+  if (ps.length === 0) return '';
+  const lo = Math.min(...ps.map((p) => p.window.min));
+  const hi = Math.max(...ps.map((p) => p.window.max));
+  const table =
+    detection.filter.profile === 'table'
+      ? ' (a table in Angstrom under a wavelength_nm header reads ten times redder)'
+      : '';
+  return `, or detection.filter, which puts the line at z = ${fmtNum(lo)} to ${fmtNum(hi)}${table}`;
+}
+
+/**
  * Fewer than one source expected: in the whole survey (every population over its own window), or
  * from one population of several.
  */
@@ -275,6 +297,7 @@ export function detectionWarnings(
           which === undefined ? undefined : survey.populations.filter((p) => p.name === which),
         )
       : '') +
+    filterHint(populations, detection, which) +
     brightLimitHint(detection);
   if (all < 1) {
     return [

@@ -184,6 +184,28 @@ describe('a survey the selection leaves empty says so (failed before: only "chec
     expect(v?.message).toBeDefined();
     expect(v?.message).not.toContain('selection');
   });
+  test('a filter table whose header says nm over Angstrom values: the warning names the filter and the redshifts it gives the line (failed before: only the limit, the area and the luminosity function)', () => {
+    // rows 9150-9250 read as nm put H-alpha 6562.8 A at (91500 to 92500) / 6562.8 - 1 = 12.94 to 13.09
+    const dir = tempDir('skytally-nm-filter-');
+    writeFileSync(join(dir, 'nb.csv'), 'wavelength_nm,transmission\n9150,0\n9160,0.5\n9200,0.9\n9240,0.5\n9250,0\n');
+    const text = `format: 1
+cosmology: {h0: 70, omega_m: 0.3}
+area: 1
+detection: {kind: line_flux, limit: 1e-17, line: 6562.8, filter: {profile: table, file: nb.csv}}
+population: {variable: luminosity, log10_phi_star: -2.5, log10_l_star: 42.3, alpha: -1.4}
+`;
+    writeFileSync(join(dir, 'nm.yaml'), text);
+    const w = predict(loadSurveyFile(join(dir, 'nm.yaml'))).warnings.find((x) => x.code === 'no_detections');
+    expect(w?.message).toContain(
+      `or detection.filter, which puts the line at z = ${(91500 / 6562.8 - 1).toFixed(2)} to ${(92500 / 6562.8 - 1).toFixed(2)} (a table in Angstrom under a wavelength_nm header reads ten times redder)`,
+    );
+    // a top hat (1.19 um, 100 A: H-alpha at z = 0.8056 to 0.8208) gives its redshifts without the
+    // table's unit words
+    const plain = withKeys(line, { 'detection.limit': 1e-5 });
+    const v = predict(parseSurveyObject(plain, FILE)).warnings.find((x) => x.code === 'no_detections')?.message;
+    expect(v).toContain('or detection.filter, which puts the line at z = 0.8056 to 0.8208');
+    expect(v).not.toContain('wavelength_nm');
+  });
   test('forecast names them in its fix', async () => {
     const empty = withKeys(line, { 'population.redshift_selection': 0 });
     const e = await forecast(parseSurveyObject(empty, FILE), { cosmicVariance: false }).then(
