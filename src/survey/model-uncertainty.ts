@@ -208,6 +208,10 @@ export function parseModelUncertainty(raw: unknown, ctx: ModelUncertaintyContext
   return { kind: 'gaussian', parameters, sigmas, correlation: rho, cholesky: chol };
 }
 
+/** Rows from which a draws file's centre is held to the assumed values, and how far it may lie (its standard deviations). */
+const MIN_ROWS_CENTRE_CHECK = 10;
+const CENTRE_LIMIT_SIGMAS = 5;
+
 function readDrawsFile(name: string, ctx: ModelUncertaintyContext, allowed: ModelParameter[]): ModelUncertainty {
   const { file, path } = ctx;
   const keyPath = `${path}.draws_file`;
@@ -278,5 +282,26 @@ function readDrawsFile(name: string, ctx: ModelUncertaintyContext, allowed: Mode
   });
   if (!header) bad('holds no header', `give a first line such as ${allowed.join(',')}`);
   if (offsets.length === 0) bad('holds no draws', 'give at least one row of values');
+  // A sample of the parameters centres near the values assumed. Values in another form (linear
+  // phi* under log10_phi_star, offsets instead of values, alpha with the other sign) lie within
+  // the 5 caps above but every draw far from the assumed value: the model's spread is then that of
+  // another model. With 10 rows or more, a column whose median lies more than 5 of its standard
+  // deviations from the assumed value is refused.
+  if (offsets.length >= MIN_ROWS_CENTRE_CHECK) {
+    header!.forEach((p, k) => {
+      const col = offsets.map((row) => row[k]!);
+      const n = col.length;
+      const mean = col.reduce((a, b) => a + b, 0) / n;
+      const std = Math.sqrt(col.reduce((a, b) => a + (b - mean) * (b - mean), 0) / (n - 1));
+      const sorted = [...col].sort((a, b) => a - b);
+      const h = (n - 1) / 2;
+      const median = sorted[Math.floor(h)]! + (sorted[Math.ceil(h)]! - sorted[Math.floor(h)]!) * (h - Math.floor(h));
+      if (std > 0 && Math.abs(median) > CENTRE_LIMIT_SIGMAS * std)
+        bad(
+          `has its ${p} column centred on ${fmt(median + assumed[k]!)} (the median of ${n} draws), ${Math.round(Math.abs(median) / std)} of their standard deviations (${fmt(std)}) from the assumed ${fmt(assumed[k]!)}, so that every draw describes another model`,
+          "give values of the population's own parameters at the window's middle redshift (log10 phi* and log10 L*, M* in absolute mag, alpha with its sign), not offsets from them or linear values, or set the population's values to the draws' centre",
+        );
+    });
+  }
   return { kind: 'draws', file: name, parameters: header!, offsets };
 }

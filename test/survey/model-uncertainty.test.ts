@@ -219,3 +219,50 @@ describe('check prints the block as read', () => {
     expect(plain.populations[0]).not.toHaveProperty('model_uncertainty');
   });
 });
+
+describe("a draws file's centre", () => {
+  // The invented posterior (chains/narrowband-posterior.csv, 800 rows) centres within 0.13 of its
+  // standard deviation of narrowband-draws-file.yaml's values in every column (numpy: medians
+  // -2.6414, 42.24645, -1.50165 against -2.65, 42.25, -1.5; standard deviations 0.0711, 0.0629,
+  // 0.0988). The same rows in another form lie within the 5-cap bound of each value but far from
+  // the assumed one: before, in a trial's H-alpha file, a log10_phi_star column of linear phi*
+  // gave a model median 411 times the assumed count and alpha with its sign flipped 0.29 times it,
+  // without a word.
+  const survey = readFileSync('test/reference/surveys-model/narrowband-draws-file.yaml', 'utf8');
+  const rows = readFileSync('test/reference/surveys-model/chains/narrowband-posterior.csv', 'utf8')
+    .split('\n')
+    .filter((l) => /^-?\d/.test(l))
+    .map((l) => l.split(',').map(Number));
+  const assumed = [-2.65, 42.25, -1.5];
+  function loadRows(transform: (row: number[]) => number[]) {
+    const dir = tempDir();
+    writeFileSync(join(dir, 'survey.yaml'), survey.replaceAll('chains/narrowband-posterior.csv', 'd.csv'));
+    const text = ['log10_phi_star,log10_l_star,alpha', ...rows.map((r) => transform(r).join(','))].join('\n');
+    writeFileSync(join(dir, 'd.csv'), text + '\n');
+    return () => loadSurveyFile(join(dir, 'survey.yaml'));
+  }
+
+  test('the posterior as it is, and shifted by one standard deviation, is read', () => {
+    expect(() => loadRows((r) => r)()).not.toThrow();
+    expect(() => loadRows((r) => [r[0]! + 0.071, r[1]! - 0.063, r[2]! + 0.099])()).not.toThrow();
+  });
+
+  test.each([
+    ['linear phi* under log10_phi_star', (r: number[]) => [10 ** r[0]!, r[1]!, r[2]!], 'log10_phi_star column'],
+    ['alpha with the other sign', (r: number[]) => [r[0]!, r[1]!, -r[2]!], 'alpha column'],
+    // (an offset of log10 L*, 42 from the value, was refused already: more than 5 caps)
+    [
+      'offsets instead of values',
+      (r: number[]) => [r[0]! - assumed[0]!, r[1]!, r[2]! - assumed[2]!],
+      'log10_phi_star column',
+    ],
+  ])('%s is refused naming the column (read before)', (_name, transform, words) => {
+    const e = errorOf(loadRows(transform));
+    expect({ code: e.code, keyPath: e.keyPath }).toEqual({
+      code: 'bad_table',
+      keyPath: 'population.model_uncertainty.draws_file',
+    });
+    expect(e.message).toContain(words);
+    expect(e.message).toContain('the assumed');
+  });
+});
