@@ -738,6 +738,17 @@ function planTable(plan: PlanView): string {
   const lo = nb ? Math.min(nb.from, nb.to) : NaN;
   const hi = nb ? Math.max(nb.from, nb.to) : NaN;
   const robust = plan.robust;
+  // Near best: the goal value within the tolerance of the best under the assumed values, as plan's
+  // near_best counts them; a run that is not contiguous has designs between its ends that are not.
+  const tolerance = plan.near_best?.tolerance;
+  const bestValue = (robust ? robust.best_assumed : plan.best)?.goal_value;
+  const within = (d: PlanDesignView): boolean =>
+    tolerance === undefined || bestValue === undefined || plan.goal_direction === undefined
+      ? true
+      : d.meets_minimum_count !== false &&
+        (plan.goal_direction === 'maximise'
+          ? d.goal_value >= (1 - tolerance) * bestValue
+          : d.goal_value <= (1 + tolerance) * bestValue);
   // The best design may come from refining between grid designs: it is listed with them (and,
   // ranked across the model, the best under the assumed values too).
   const listed = [...(plan.designs ?? [])];
@@ -757,7 +768,7 @@ function planTable(plan: PlanView): string {
   const rows = designs
     .map((d) => {
       const best = same(d, plan.best);
-      const near = nb && d.exposure_hours_per_pointing >= lo && d.exposure_hours_per_pointing <= hi;
+      const near = nb && d.exposure_hours_per_pointing >= lo && d.exposure_hours_per_pointing <= hi && within(d);
       const cls = best ? ' class="best"' : near ? ' class="near"' : '';
       const assumed = robust && !robust.same_design && same(d, robust.best_assumed);
       const note = [best ? 'best' : near ? 'near best' : '', assumed ? 'best under the assumed values' : '']
@@ -789,7 +800,7 @@ function planTable(plan: PlanView): string {
     '',
   ];
   const range = nb
-    ? ` Designs from ${formatNumber(lo)} to ${formatNumber(hi)} hours per pointing come close to the best.`
+    ? ` Designs from ${formatNumber(lo)} to ${formatNumber(hi)} hours per pointing come close to the best${plan.near_best?.contiguous === false ? ' (not all of those between: the table marks which)' : ''}.`
     : '';
   const ranked = robust
     ? `<p id="plan-robust">Ranked across the model (<code>robust: true</code>): the best design is the one with the best goal at the model's pessimistic case, the ${Math.round(robust.percentile * 100)}th percentile over ${formatNumber(robust.draws)} ${robust.source === 'draws_file' ? 'rows of the draws file' : 'draws of model_uncertainty'}; ${robust.same_design ? 'it is also the best under the assumed values.' : `under the assumed values the best is ${formatNumber(robust.best_assumed.pointings)} pointings of ${formatNumber(robust.best_assumed.exposure_hours_per_pointing)} hours.`}${agreementWords(robust.agreement)}</p>

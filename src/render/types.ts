@@ -89,15 +89,16 @@ export type PlanDesignView = Pick<
   | 'goal_value'
   | 'goal_value_pessimistic'
   | 'tiers'
->;
+> &
+  Partial<Pick<PlanDesign, 'meets_minimum_count'>>;
 
 /** The fields of a plan (the `plan` result) the figure and the report read. */
 export type PlanView = Pick<Plan, 'goal' | 'budget_hours' | 'limit_unit'> &
-  Partial<Pick<Plan, 'limit_variable'>> & {
+  Partial<Pick<Plan, 'limit_variable' | 'goal_direction'>> & {
     designs: readonly PlanDesignView[];
     best?: PlanDesignView;
-    /** The designs at either end of the near-best range. */
-    near_best?: { from: PlanDesignView; to: PlanDesignView };
+    /** The designs at either end of the near-best range; with `tolerance`, which designs between are within it. */
+    near_best?: { from: PlanDesignView; to: PlanDesignView; tolerance?: number; contiguous?: boolean };
     /** With robust: true, how the designs were ranked across the model (best is the robust best). */
     robust?: Pick<NonNullable<Plan['robust']>, 'draws' | 'source' | 'percentile' | 'same_design'> & {
       best_assumed: PlanDesignView;
