@@ -46,6 +46,29 @@ async function outputsOf(page: Page): Promise<Map<string, number>> {
   return m;
 }
 
+/**
+ * Every slider's aria-valuetext against its field's value: what a screen reader says of the slider
+ * is the value the field holds, to 4 significant digits, then its unit (a log-scale slider's own
+ * position is log10 of the value: before, an area of 0.1667 deg^2 was read out as "-0.778").
+ */
+async function expectSliderTexts(page: Page, what: string): Promise<void> {
+  const rows = await page.$$eval('input[data-slider-for]', (els) =>
+    els.map((e) => {
+      const key = e.getAttribute('data-slider-for')!;
+      const field = document.querySelector(`input[data-key="${key}"]`) as unknown as Field;
+      return { key, text: e.getAttribute('aria-valuetext'), value: Number(field.value) };
+    }),
+  );
+  expect(rows.length, what).toBeGreaterThan(0);
+  for (const { key, text, value } of rows) {
+    expect(text, `${what}: ${key}`).toBeTruthy();
+    const said = Number(text!.split(' ')[0]);
+    expect(Math.abs(said - value), `${what}: ${key} says "${text}", the field holds ${value}`).toBeLessThanOrEqual(
+      5e-4 * Math.abs(value),
+    );
+  }
+}
+
 async function updates(page: Page): Promise<number> {
   return Number(await page.evaluate(() => document.body.dataset.updates));
 }
@@ -243,6 +266,7 @@ describe.skipIf(!haveChromium)('explore page in headless chromium', () => {
         expect(named[i]!.labels, key).toBe(1);
         expect(named[i]!.aria, key).toBeTruthy();
       });
+      await expectSliderTexts(page, 'before the keyboard');
       // each press: locator.press focuses the element and presses the key; stateAfter waits for the
       // update it starts and reads the state, which is the state before the next press
       let state = await pageState(page);
@@ -258,8 +282,9 @@ describe.skipIf(!haveChromium)('explore page in headless chromium', () => {
           expect(state.text, `${key} ${press}`).not.toBe(text0);
         }
       }
-      // after all of it the page still equals the commands on what it writes
+      // after all of it the page still equals the commands on what it writes, and each slider says the value its field holds
       expectSameOutputs(await outputsOf(page), await writtenBack(`keyboard-${sample}`), 'after the keyboard');
+      await expectSliderTexts(page, 'after the keyboard');
     });
 
     test.runIf(sample === 'halpha-narrowband.yaml')(
@@ -326,6 +351,7 @@ describe.skipIf(!haveChromium)('explore page in headless chromium', () => {
         // the control, its slider, the numbers and the panel: all those of the last good settings
         expect(await fieldValue('area')).toBe(area * 0.5);
         expect(await sliderValue('area')).toBe(slider);
+        await expectSliderTexts(p, 'after a failed update');
         expect(await outputsOf(p)).toEqual(numbers);
         expect(await p.textContent('#survey-yaml')).toBe(good);
         // and the button writes that file, whose numbers (by the commands) are those shown
@@ -361,6 +387,8 @@ describe.skipIf(!haveChromium)('explore page in headless chromium', () => {
         expect(
           Number(await p.$eval('input[data-key="detection.limit"]', (e) => (e as unknown as Field).value)) / 3e-17,
         ).toBeCloseTo(1, 12);
+        // the area and limit sliders, set by the exposure, say their new values too
+        await expectSliderTexts(p, 'plan exposure');
         const text = (await p.textContent('#survey-yaml'))!;
         // the completeness curve moves with the limit, as plan's designs move it: half 5e-17 at the
         // file's 4e-17, so 3.75e-17 at 3e-17 (docs/outputs.md, explore)

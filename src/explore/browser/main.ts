@@ -16,6 +16,7 @@ import {
   figureParts,
   fisherHtml,
   outputsHtml,
+  sliderValueText,
   slicesHtml,
   warningsHtml,
 } from '../../render/explore/view.js';
@@ -37,6 +38,8 @@ interface PageElement {
 }
 interface InputElement extends PageElement {
   value: string;
+  getAttribute(name: string): string | null;
+  setAttribute(name: string, value: string): void;
 }
 interface AnchorElement extends PageElement {
   href: string;
@@ -136,7 +139,7 @@ function start(): void {
    */
   interface Shown {
     values: Map<string, number>;
-    controls: { key: string; field: string; slider: string }[];
+    controls: { key: string; field: string; slider: string; sliderText: string }[];
     result?: ExploreResult;
   }
   const snapshot = (): Shown => ({
@@ -145,6 +148,7 @@ function start(): void {
       key: c.key,
       field: fieldOf(c.key)?.value ?? '',
       slider: sliderOf(c.key)?.value ?? '',
+      sliderText: sliderOf(c.key)?.getAttribute('aria-valuetext') ?? '',
     })),
   });
   let numbersOf: Shown | undefined;
@@ -228,7 +232,10 @@ function start(): void {
       const field = fieldOf(c.key);
       const slider = sliderOf(c.key);
       if (field) field.value = c.field;
-      if (slider) slider.value = c.slider;
+      if (slider) {
+        slider.value = c.slider;
+        slider.setAttribute('aria-valuetext', c.sliderText);
+      }
     }
     text = undefined;
     try {
@@ -243,10 +250,14 @@ function start(): void {
     document.querySelector(`input[data-key="${CSS.escape(key)}"]`) as InputElement | null;
   const sliderOf = (key: string) =>
     document.querySelector(`input[data-slider-for="${CSS.escape(key)}"]`) as InputElement | null;
-  /** Shows `v` in a control's field and slider (without firing anything). */
+  /**
+   * Shows `v` in a control's field and slider (without firing anything), and in what the slider
+   * says to a screen reader, which a moved slider updates itself (`slider` null).
+   */
   const show = (c: ControlSpec, v: number, field = fieldOf(c.key), slider = sliderOf(c.key)): void => {
     if (field) field.value = String(v);
     if (slider) slider.value = String(c.scale === 'log' ? Math.log10(v) : v);
+    sliderOf(c.key)?.setAttribute('aria-valuetext', sliderValueText(c, v));
   };
   /** A control set to `v`: a key of the file, or the exposure per pointing, which sets the area and the limit. */
   const set = (c: ControlSpec, v: number): void => {

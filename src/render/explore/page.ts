@@ -9,7 +9,15 @@ import { createHash } from 'node:crypto';
 import type { ControlSpec, ExploreResult } from '../../model/explore.js';
 import { sig } from '../format.js';
 import { escapeHtml } from './figures.js';
-import { assumedHtml, figuresHtml, fisherHtml, outputsHtml, slicesHtml, warningsHtml } from './view.js';
+import {
+  assumedHtml,
+  figuresHtml,
+  fisherHtml,
+  outputsHtml,
+  sliderValueText,
+  slicesHtml,
+  warningsHtml,
+} from './view.js';
 
 export interface ExplorePageInput {
   title: string;
@@ -59,7 +67,7 @@ function controlHtml(c: ControlSpec, i: number): string {
   const note = `${sig(c.min, 4)} to ${sig(c.max, 4)}${c.range === 'model_uncertainty' ? ' (3 sigma of the model uncertainty)' : ''}; the file gives ${sig(c.value, 6)}`;
   return `<div class="control">
 <label for="control-${i}">${escapeHtml(c.label)}${unit} <code>${escapeHtml(c.key)}</code></label>
-<input type="range" id="slider-${i}" data-slider-for="${escapeHtml(c.key)}" aria-label="${escapeHtml(c.label)} slider${c.scale === 'log' ? ' (log10 scale)' : ''}" min="${sliderMin}" max="${sliderMax}" step="${(sliderMax - sliderMin) / 1000}" value="${sliderValue}">
+<input type="range" id="slider-${i}" data-slider-for="${escapeHtml(c.key)}" aria-label="${escapeHtml(c.label)} slider${c.scale === 'log' ? ' (log10 scale)' : ''}" min="${sliderMin}" max="${sliderMax}" step="${(sliderMax - sliderMin) / 1000}" value="${sliderValue}" aria-valuetext="${escapeHtml(sliderValueText(c, c.value))}">
 <input type="number" id="control-${i}" data-key="${escapeHtml(c.key)}" min="${c.min}" max="${c.max}" step="${c.step}" value="${Number(c.value.toPrecision(12))}" aria-describedby="note-${i}">
 <div class="range-note" id="note-${i}">${escapeHtml(note)}</div>
 </div>`;

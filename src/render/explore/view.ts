@@ -12,6 +12,15 @@ function shown(o: Pick<ExploreOutput, 'kind' | 'value'>): string {
   return o.kind === 'fraction' ? percent(o.value) : sig(o.value, 4);
 }
 
+/**
+ * What a control's slider says to a screen reader (its aria-valuetext): the value and its unit as
+ * the number field holds them (4 significant digits), not the slider's own position, which for a
+ * log-scale slider is log10 of the value ("-0.778" for an area of 0.1667 deg^2).
+ */
+export function sliderValueText(c: { unit: string }, value: number): string {
+  return `${sig(value, 4)}${c.unit ? ` ${c.unit}` : ''}`;
+}
+
 /** A number still to come: its name, no value, marked busy for screen readers (docs/outputs.md, "explore"). */
 const PENDING = 'data-pending="true" aria-busy="true">pending';
 
