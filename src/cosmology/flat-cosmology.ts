@@ -277,6 +277,17 @@ export class FlatCosmology {
   }
 
   /**
+   * t_L / t_H = int_0^z dz' / ((1 + z') E(z')) by its Taylor series to z^3 (lookbackTimeGyr, z below
+   * SERIES_BELOW_Z): the integrand f = 1 / ((1 + z) E) has f(0) = 1, f'(0) = -(1 + E1) and f''(0) =
+   * 2 + 2 E1 + 2 E1^2 - E2 (the product rule with 1 / E as in smallZDistance; Hogg 1999 eq. 30).
+   */
+  private smallZLookback(z: number): number {
+    const e1 = 0.5 * (3 * this.omegaM + 4 * this.omegaR);
+    const e2 = 0.5 * (6 * this.omegaM + 12 * this.omegaR) - e1 * e1;
+    return z * (1 - 0.5 * (1 + e1) * z + ((2 + 2 * e1 + 2 * e1 * e1 - e2) / 6) * z * z);
+  }
+
+  /**
    * Comoving distance between redshifts z1 and z2 [Mpc], D_C(z2) - D_C(z1) (negative if z2 < z1),
    * integrated directly when the two are close so that thin shells keep full accuracy.
    */
@@ -346,11 +357,11 @@ export class FlatCosmology {
   lookbackTimeGyr(z: number): number {
     checkZ(z);
     if (z === 0) return 0;
-    // Below z = 1e-8, 1 / sqrt(1 + z) is 1 to within a rounding, so the integral below would be
-    // 0: D_C = D_H int_0^z dz' / E(z') = D_H z (1 - (3 Om + 4 Or) z / 4) + O(z^3) (Hogg 1999 eq. 15,
-    // with E'(0) = (3 Om + 4 Or) / 2), exact to double precision there. The counts' redshift
-    // quadrature reaches such redshifts near z = 0 (src/counts/engine.ts, zeroPowerFor).
-    if (z < 1e-8) return this.hubbleDistanceMpc * z * (1 - 0.25 * (3 * this.omegaM + 4 * this.omegaR) * z);
+    // Below z = 1e-5 the integral below loses digits (1 / sqrt(1 + z) is 1 less about z / 2) and
+    // below 1e-16 it is 0: there t_L is its Taylor series, as D_C's (distanceUncached). It was
+    // D_H z (...), the distance's series in Mpc, below z = 1e-8: 307 times t_L for h0 = 70, and
+    // smaller than t_L at 2e-8 (found by the distances property of test/cosmology/flat-lcdm.test.ts).
+    if (z < SERIES_BELOW_Z) return this.hubbleTimeGyr * this.smallZLookback(z);
     switch (this.mode) {
       case 'eds':
         return (-2 / 3) * this.hubbleTimeGyr * Math.expm1(-1.5 * Math.log1p(z));

@@ -13,7 +13,7 @@ import { FlatCosmology } from '../../src/cosmology/flat-cosmology.js';
 
 const REF = JSON.parse(readFileSync('test/reference/small_z_distances.json', 'utf8')) as Record<
   string,
-  { z: number; comoving_mpc: number }[]
+  { z: number; comoving_mpc: number; lookback_over_hubble_time: number }[]
 >;
 
 const rel = (a: number, b: number) => Math.abs(a / b - 1);
@@ -47,5 +47,33 @@ describe('comoving distance below z = 1e-5 (mpmath, 40 digits)', () => {
     expect(dc).toBeGreaterThan(0);
     expect(c.luminosityDistanceMpc(z)).toBe((1 + z) * dc);
     expect(rel(c.volumeElementMpc3Sr(z), (c.hubbleDistanceMpc * dc * dc) / c.hubbleRatio(z))).toBeLessThan(1e-15);
+  });
+});
+
+describe('lookback time below z = 1e-5 (mpmath, 40 digits)', () => {
+  // failed before: below z = 1e-8 it was the distance's series in Mpc (307 times t_L for h0 = 70),
+  // and the integral above lost digits as D_C's did (its rounding about 1e-16 / z)
+  test.each([
+    ['h0_70_om_0.3', 0],
+    ['h0_70_om_0.3_or_1e-4', 1e-4],
+  ] as const)('%s: t_L / t_H at every redshift to 1e-15', (name, omegaR) => {
+    const c = new FlatCosmology({
+      h0: 70,
+      omegaM: 0.3,
+      omegaR,
+      omegaLambda: 1 - 0.3 - omegaR,
+      tCmb: omegaR > 0 ? 2.7 : 0,
+    });
+    for (const { z, lookback_over_hubble_time } of REF[name]!)
+      expect(rel(c.lookbackTimeGyr(z) / c.hubbleTimeGyr, lookback_over_hubble_time), `z = ${z}`).toBeLessThan(1e-15);
+  });
+
+  test('the lookback time grows with z through the switch at 1e-5 (the property test of flat-lcdm.test.ts found h0 = 30, Om = 0.01: t_L(3.3e-9) = t_L(1e-6))', () => {
+    const c = FlatCosmology.fromParams({ h0: 30, omegaM: 0.01, tCmb: 0 });
+    expect(c.lookbackTimeGyr(3.272234713366311e-9 + 1e-6)).toBeGreaterThan(c.lookbackTimeGyr(3.272234713366311e-9));
+    const below = c.lookbackTimeGyr(1e-5 * (1 - 1e-9));
+    const above = c.lookbackTimeGyr(1e-5 * (1 + 1e-9));
+    expect(above).toBeGreaterThan(below);
+    expect(rel(above / below, (1 + 1e-9) / (1 - 1e-9))).toBeLessThan(1e-10);
   });
 });

@@ -3,7 +3,8 @@
 int_0^z dz' / E(z') (Hogg 1999, arXiv:astro-ph/9905116, eqs. 14-15; flat, E^2 = Om (1 + z)^3 + Or
 (1 + z)^4 + OL) by mpmath's quadrature at 40 digits, for h0 = 70, Om = 0.3 without radiation, and
 with Or = 1e-4 (a value chosen for the test, so that the radiation term is checked too; OL = 1 - Om
-- Or). Shares no code with skytally.
+- Or). Also the lookback time in units of the Hubble time, t_L / t_H = int_0^z dz' / ((1 + z')
+E(z')) (Hogg 1999 eq. 30), by the same quadrature. Shares no code with skytally.
 Writes JSON to stdout (mpmath 1.3.0, Python 3.11).
 
 Run: python3 test/reference/generate/small_z_distances.py > test/reference/small_z_distances.json
@@ -24,7 +25,8 @@ def distances(h0, om, orad):
     for z in ZS:
         zz = mp.mpf(z)
         dc = dh * mp.quad(lambda x: 1 / mp.sqrt(om * (1 + x) ** 3 + orad * (1 + x) ** 4 + ol), [0, zz])
-        out.append({"z": float(zz), "comoving_mpc": float(dc)})
+        tl = mp.quad(lambda x: 1 / ((1 + x) * mp.sqrt(om * (1 + x) ** 3 + orad * (1 + x) ** 4 + ol)), [0, zz])
+        out.append({"z": float(zz), "comoving_mpc": float(dc), "lookback_over_hubble_time": float(tl)})
     return out
 
 
