@@ -11,6 +11,7 @@ import { loadSurveyFile } from '../../src/survey/load.js';
 import { plan } from '../../src/library/plan.js';
 import { predict } from '../../src/counts/predict.js';
 import { renderReport } from '../../src/render/report.js';
+import { predictionViews } from '../../src/render/draw.js';
 import { unescapeHtml } from '../support/html.js';
 
 describe('near best in the report plan table', () => {
@@ -21,7 +22,7 @@ describe('near best in the report plan table', () => {
     const doc = renderReport({
       surveyText: '',
       surveyTitle: p.title,
-      prediction: predict(survey),
+      prediction: predictionViews(survey, predict(survey)).combined,
       figures: [],
       plan: p,
     });
