@@ -420,7 +420,9 @@ export function schemaError(obj: unknown, file: string): SurveyError | undefined
                 file,
                 path,
                 `is ${describeValue(data)} but must be ${expected}, without a unit`,
-                `write ${lead[1]} alone, in the key's own unit (docs/survey-file.md gives each key's unit)`,
+                lead[2] === '%'
+                  ? `no key takes a percentage: write it as its fraction, ${Number(lead[1]) / 100}`
+                  : `write ${lead[1]} alone, in the key's own unit (docs/survey-file.md gives each key's unit)`,
               )
             : inputError(
                 'wrong_type',

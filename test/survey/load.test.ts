@@ -685,6 +685,11 @@ population: {variable: magnitude, phi_star: 0.003, m_star: -21, alpha: -1.3}
     expect(message('cosmology.h0', '70')).toBe(
       `${FILE}: cosmology.h0: is the text "70" but must be a number; write 70 without quotes.`,
     );
+    // a percentage: no key takes one, so the fix gives the fraction (a correlation of "70%" was told
+    // to "write 70", which is then out of range; found by a trial user)
+    expect(message('detection.photo_z.outlier_fraction', '5%')).toContain(
+      'no key takes a percentage: write it as its fraction, 0.05',
+    );
     // not a number to write as it is: the plain sentence (5.5 is no whole number; "seventy" no number)
     expect(message('slices.count', '5.5')).toContain('change the value to that form');
     expect(message('cosmology.h0', 'seventy')).toContain('change the value to that form');
