@@ -149,6 +149,9 @@ export class FlatCosmology {
   private readonly kComplete: number = 0;
   private readonly sqrtOlOverOm: number = 0;
   private readonly agePrefactor: number = 0;
+  /** E'(0) and E''(0) (E^2 = Om (1 + z)^3 + Or (1 + z)^4 + OL): the small-z series' coefficients. */
+  private readonly e1: number;
+  private readonly e2: number;
   private readonly glNodes: Float64Array;
   private readonly glWeights: Float64Array;
   private age0Cache: number | undefined;
@@ -165,6 +168,8 @@ export class FlatCosmology {
     this.tCmb = tCmb;
     this.hubbleDistanceMpc = SPEED_OF_LIGHT_KM_S / h0;
     this.hubbleTimeGyr = MPC_M / 1000 / h0 / GYR_S;
+    this.e1 = 0.5 * (3 * omegaM + 4 * omegaR);
+    this.e2 = 0.5 * (6 * omegaM + 12 * omegaR) - this.e1 * this.e1;
     const rule = gaussLegendreRule(GL_ORDER);
     this.glNodes = rule.nodes;
     this.glWeights = rule.weights;
@@ -271,8 +276,7 @@ export class FlatCosmology {
 
   /** D_C / D_H by its Taylor series to z^3 (distanceUncached, z below SERIES_BELOW_Z). */
   private smallZDistance(z: number): number {
-    const e1 = 0.5 * (3 * this.omegaM + 4 * this.omegaR);
-    const e2 = 0.5 * (6 * this.omegaM + 12 * this.omegaR) - e1 * e1;
+    const { e1, e2 } = this;
     return z * (1 - 0.5 * e1 * z + ((2 * e1 * e1 - e2) / 6) * z * z);
   }
 
@@ -282,8 +286,7 @@ export class FlatCosmology {
    * 2 + 2 E1 + 2 E1^2 - E2 (the product rule with 1 / E as in smallZDistance; Hogg 1999 eq. 30).
    */
   private smallZLookback(z: number): number {
-    const e1 = 0.5 * (3 * this.omegaM + 4 * this.omegaR);
-    const e2 = 0.5 * (6 * this.omegaM + 12 * this.omegaR) - e1 * e1;
+    const { e1, e2 } = this;
     return z * (1 - 0.5 * (1 + e1) * z + ((2 + 2 * e1 + 2 * e1 * e1 - e2) / 6) * z * z);
   }
 
